@@ -1,0 +1,87 @@
+import express, { type Express } from 'express';
+import helmet from 'helmet';
+import { existsSync } from 'node:fs';
+import path from 'node:path';
+import type { PassportStatic } from 'passport';
+import type { DataSource } from 'typeorm';
+import { registerAuthRoutes } from '../auth/auth-routes';
+import { csrfProtection } from '../auth/csrf';
+import { loginRateLimit } from '../auth/login-rate-limit';
+import { createPassport } from '../auth/passport-setup';
+import { sessionMiddleware } from '../auth/session-middleware';
+import { registerSiteListRoute } from '../sites/site-routes';
+import { registerUserRoutes } from '../users/user-routes';
+import type { ServerConfig } from './config';
+import { apiNotFound, errorMiddleware } from './errors';
+import { registerHealthRoute } from './health-routes';
+import { RouteRegistry } from './route-registry';
+
+/** Large bodies are allowed only where devices send batches or files. */
+export const LARGE_BODY_PATHS = ['/api/sync/push', '/api/attachments'];
+export const LARGE_BODY_LIMIT = '5mb';
+export const BODY_LIMIT = '1mb';
+
+export interface AppHandle {
+  app: Express;
+  registry: RouteRegistry;
+}
+
+/** Builds the whole app without listening: tests start it on port 0, main.ts on PORT. */
+export function createApp(ds: DataSource, config: ServerConfig): AppHandle {
+  const app = express();
+  app.disable('x-powered-by');
+  if (config.trustProxy) app.set('trust proxy', config.trustProxy);
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: {
+          'img-src': ["'self'", 'data:', 'blob:'],
+          'worker-src': ["'self'", 'blob:'],
+          'connect-src': ["'self'"],
+          'upgrade-insecure-requests': null,
+        },
+      },
+      // The app is served over plain HTTP on loopback in development; HSTS belongs to the TLS proxy.
+      strictTransportSecurity: false,
+    }),
+  );
+
+  // body-parser skips a body that is already parsed, so the large limit must come first.
+  for (const p of LARGE_BODY_PATHS) app.use(p, express.json({ limit: LARGE_BODY_LIMIT }));
+  app.use('/api', express.json({ limit: BODY_LIMIT }));
+
+  const passport = createPassport(ds) as unknown as PassportStatic;
+  app.use('/api', sessionMiddleware(ds, config.sessionSecret));
+  app.use('/api', passport.session());
+  app.use('/api', csrfProtection);
+
+  const registry = new RouteRegistry(app);
+  registerHealthRoute(registry, ds);
+  registerAuthRoutes(registry, passport, loginRateLimit(ds, config.loginMaxFailures, config.loginWindowMs));
+  registerUserRoutes(registry, ds);
+  registerSiteListRoute(registry, ds);
+
+  app.use('/api', apiNotFound);
+  if (config.staticDir) serveApp(app, config.staticDir);
+  app.use(errorMiddleware);
+  return { app, registry };
+}
+
+function serveApp(app: Express, dir: string): void {
+  const index = path.join(dir, 'index.html');
+  if (!existsSync(index)) {
+    console.warn(`[fluxwalk] no built app in ${dir}; serving the API only`);
+    return;
+  }
+  // Hashed bundles may be cached for long; index.html and the service worker files must not be.
+  app.use(express.static(dir, {
+    index: false,
+    setHeaders: (res, file) => {
+      if (/\.(html|webmanifest)$|ngsw/.test(file)) res.setHeader('Cache-Control', 'no-cache');
+    },
+  }));
+  app.get('/{*splat}', (_req, res) => {
+    res.setHeader('Cache-Control', 'no-cache');
+    res.sendFile(index);
+  });
+}

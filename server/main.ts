@@ -1,0 +1,31 @@
+import 'reflect-metadata';
+import path from 'node:path';
+import { createApp } from './core/app';
+import { loadConfig } from './core/config';
+import { createDataSource } from './core/data-source';
+
+/** Starts one server process: PostgreSQL pool, the app, and a clean shutdown on SIGINT/SIGTERM. */
+async function main() {
+  const defaultStatic = path.resolve(__dirname, '../../app/browser');
+  const config = loadConfig();
+  const ds = createDataSource(config.databaseUrl);
+  await ds.initialize();
+  const { app } = createApp(ds, { ...config, staticDir: config.staticDir ?? defaultStatic });
+  const server = app.listen(config.port, config.host, () => {
+    const addr = server.address();
+    const port = typeof addr === 'object' && addr ? addr.port : config.port;
+    console.log(`[fluxwalk] listening on http://${config.host}:${port}`);
+  });
+  const stop = (signal: string) => {
+    console.log(`[fluxwalk] ${signal}: stopping`);
+    server.close(() => void ds.destroy().finally(() => process.exit(0)));
+    setTimeout(() => process.exit(0), 5000).unref();
+  };
+  process.on('SIGINT', () => stop('SIGINT'));
+  process.on('SIGTERM', () => stop('SIGTERM'));
+}
+
+main().catch((err) => {
+  console.error('[fluxwalk] could not start:', err.message);
+  process.exit(1);
+});

@@ -1,0 +1,4 @@
+import { Foundation1764644400000 } from './1764644400000-foundation';
+
+/** Every migration, oldest first. Add new ones at the end (see DEVELOPERS.md). */
+export const MIGRATIONS = [Foundation1764644400000];

@@ -1,0 +1,19 @@
+/** The four roles; a user's rights are the union of the rights of their roles. */
+export const ROLES = ['crew', 'lead', 'lab', 'admin'] as const;
+export type Role = (typeof ROLES)[number];
+
+/** Roles that see every site; crew and leads see only the sites they are members of. */
+export const ALL_SITES_ROLES: readonly Role[] = ['lab', 'admin'];
+
+export function seesAllSites(roles: readonly Role[]): boolean {
+  return roles.some((r) => ALL_SITES_ROLES.includes(r));
+}
+
+/** What the API answers for the signed-in user (`/api/auth/login`, `/api/auth/me`). */
+export interface SessionUser {
+  id: string;
+  email: string;
+  displayName: string;
+  roles: Role[];
+  siteIds: string[];
+}
