@@ -1,0 +1,33 @@
+import { provideHttpClient, withInterceptors } from '@angular/common/http';
+import {
+  ApplicationConfig,
+  inject,
+  isDevMode,
+  provideAppInitializer,
+  provideBrowserGlobalErrorListeners,
+  provideZonelessChangeDetection,
+} from '@angular/core';
+import { MatIconRegistry } from '@angular/material/icon';
+import { provideRouter, withComponentInputBinding } from '@angular/router';
+import { provideServiceWorker } from '@angular/service-worker';
+import { routes } from './app.routes';
+import { apiInterceptor } from './core/api/api-interceptor';
+import { AppUpdate } from './core/sw-update/app-update';
+import { OutdoorMode } from './core/theme/outdoor-mode';
+
+export const appConfig: ApplicationConfig = {
+  providers: [
+    provideBrowserGlobalErrorListeners(),
+    provideZonelessChangeDetection(),
+    provideRouter(routes, withComponentInputBinding()),
+    provideHttpClient(withInterceptors([apiInterceptor])),
+    // The worker is registered at once (not "when stable"): a zoneless field app may never be
+    // idle for long, and the first online visit must leave the shell cached for the offline start.
+    provideServiceWorker('ngsw-worker.js', { enabled: !isDevMode(), registrationStrategy: 'registerImmediately' }),
+    provideAppInitializer(() => {
+      inject(MatIconRegistry).setDefaultFontSetClass('material-symbols-outlined');
+      inject(OutdoorMode);
+      inject(AppUpdate).start();
+    }),
+  ],
+};

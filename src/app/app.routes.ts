@@ -1,0 +1,50 @@
+import { Routes } from '@angular/router';
+import { destinationGuard, homeRedirect, signedInGuard, signedOutGuard } from './core/auth/auth-guards';
+
+/** One lazy chunk per screen family; the guards read the remembered user, so they work offline. */
+export const routes: Routes = [
+  {
+    path: 'sign-in',
+    canActivate: [signedOutGuard],
+    title: 'Sign in · Fluxwalk',
+    loadComponent: () => import('./features/sign-in/sign-in').then((m) => m.SignIn),
+  },
+  {
+    path: '',
+    canActivate: [signedInGuard],
+    loadComponent: () => import('./features/shell/shell').then((m) => m.Shell),
+    children: [
+      { path: '', pathMatch: 'full', redirectTo: homeRedirect },
+      {
+        path: 'walk',
+        canActivate: [destinationGuard('walk')],
+        title: 'Walk · Fluxwalk',
+        loadComponent: () => import('./features/walk/walk').then((m) => m.Walk),
+      },
+      {
+        path: 'board',
+        canActivate: [destinationGuard('board')],
+        title: 'Board · Fluxwalk',
+        loadComponent: () => import('./features/board/board').then((m) => m.Board),
+      },
+      {
+        path: 'bench',
+        canActivate: [destinationGuard('bench')],
+        title: 'Bench · Fluxwalk',
+        loadComponent: () => import('./features/bench/bench').then((m) => m.Bench),
+      },
+      {
+        path: 'setup',
+        canActivate: [destinationGuard('setup')],
+        title: 'Setup · Fluxwalk',
+        loadComponent: () => import('./features/setup/setup').then((m) => m.Setup),
+      },
+      {
+        path: 'no-destinations',
+        title: 'Fluxwalk',
+        loadComponent: () => import('./features/shell/no-destinations').then((m) => m.NoDestinations),
+      },
+    ],
+  },
+  { path: '**', redirectTo: '' },
+];

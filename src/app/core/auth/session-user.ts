@@ -1,0 +1,52 @@
+/** The signed-in user as the server describes it (`/api/auth/login`, `/api/auth/me`). */
+export const ROLES = ['crew', 'lead', 'lab', 'admin'] as const;
+export type Role = (typeof ROLES)[number];
+
+export interface SessionUser {
+  id: string;
+  email: string;
+  displayName: string;
+  roles: Role[];
+  siteIds: string[];
+}
+
+export interface SiteSummary {
+  id: string;
+  name: string;
+  timezone: string;
+}
+
+function isRecord(v: unknown): v is Record<string, unknown> {
+  return typeof v === 'object' && v !== null && !Array.isArray(v);
+}
+
+function isRole(v: unknown): v is Role {
+  return typeof v === 'string' && (ROLES as readonly string[]).includes(v);
+}
+
+/**
+ * Checks a user that came off the wire or out of device storage. Unknown roles are dropped
+ * (a newer server may know more roles than this build) rather than rejecting the whole user.
+ */
+export function parseSessionUser(v: unknown): SessionUser | null {
+  if (!isRecord(v)) return null;
+  const { id, email, displayName, roles, siteIds } = v;
+  if (typeof id !== 'string' && typeof id !== 'number') return null;
+  if (typeof email !== 'string' || !Array.isArray(roles)) return null;
+  return {
+    id: String(id),
+    email,
+    displayName: typeof displayName === 'string' && displayName.trim() ? displayName : email,
+    roles: roles.filter(isRole),
+    siteIds: Array.isArray(siteIds) ? siteIds.map((s) => String(s)) : [],
+  };
+}
+
+export function parseSites(v: unknown): SiteSummary[] {
+  if (!Array.isArray(v)) return [];
+  return v.flatMap((s) =>
+    isRecord(s) && (typeof s['id'] === 'string' || typeof s['id'] === 'number') && typeof s['name'] === 'string'
+      ? [{ id: String(s['id']), name: s['name'], timezone: typeof s['timezone'] === 'string' ? s['timezone'] : 'UTC' }]
+      : [],
+  );
+}

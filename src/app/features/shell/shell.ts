@@ -1,0 +1,40 @@
+import { ChangeDetectionStrategy, Component, OnInit, computed, inject } from '@angular/core';
+import { MatIconModule } from '@angular/material/icon';
+import { MatTabsModule } from '@angular/material/tabs';
+import { MatToolbarModule } from '@angular/material/toolbar';
+import { RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
+import { ConnectionStatus } from '../../core/api/connection-status';
+import { AuthStore } from '../../core/auth/auth-store';
+import { destinationsFor } from '../../core/auth/destinations';
+import { SiteChoice } from '../../core/auth/site-choice';
+import { SessionBanner } from './session-banner';
+import { UserMenu } from './user-menu';
+
+/** The frame around every signed-in screen: toolbar, role-based navigation, notices. */
+@Component({
+  selector: 'fw-shell',
+  imports: [
+    MatIconModule,
+    MatTabsModule,
+    MatToolbarModule,
+    RouterLink,
+    RouterLinkActive,
+    RouterOutlet,
+    SessionBanner,
+    UserMenu,
+  ],
+  templateUrl: './shell.html',
+  styleUrl: './shell.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class Shell implements OnInit {
+  private readonly auth = inject(AuthStore);
+  protected readonly connection = inject(ConnectionStatus);
+  protected readonly site = inject(SiteChoice).current;
+  protected readonly destinations = computed(() => destinationsFor(this.auth.roles()));
+
+  ngOnInit(): void {
+    // Roles or sites may have changed since the remembered sign-in; offline this quietly fails.
+    void this.auth.refresh();
+  }
+}

@@ -1,0 +1,54 @@
+import { ChangeDetectionStrategy, Component, inject, input, signal } from '@angular/core';
+import { FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { Router } from '@angular/router';
+import { AuthStore } from '../../core/auth/auth-store';
+import { homePathFor } from '../../core/auth/destinations';
+import { describeSignInError } from './sign-in-error';
+
+@Component({
+  selector: 'fw-sign-in',
+  imports: [ReactiveFormsModule, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule],
+  templateUrl: './sign-in.html',
+  styleUrl: './sign-in.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class SignIn {
+  private readonly auth = inject(AuthStore);
+  private readonly router = inject(Router);
+
+  /** Where a guard sent the user from (query parameter), so they return there. */
+  readonly returnTo = input<string>();
+
+  protected readonly form = inject(FormBuilder).nonNullable.group({
+    email: ['', [Validators.required, Validators.email]],
+    password: ['', Validators.required],
+  });
+  protected readonly busy = signal(false);
+  protected readonly problem = signal<string | null>(null);
+
+  protected async signIn(): Promise<void> {
+    if (this.busy()) return;
+    if (this.form.invalid) {
+      this.form.markAllAsTouched();
+      return;
+    }
+    this.busy.set(true);
+    this.problem.set(null);
+    const { email, password } = this.form.getRawValue();
+    try {
+      const user = await this.auth.signIn(email.trim(), password);
+      const target = this.returnTo();
+      await this.router.navigateByUrl(target?.startsWith('/') ? target : homePathFor(user.roles));
+    } catch (err) {
+      this.problem.set(describeSignInError(err));
+      this.form.controls.password.reset();
+    } finally {
+      this.busy.set(false);
+    }
+  }
+}
