@@ -1,0 +1,76 @@
+import { provideHttpClient, withInterceptors } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
+import { TestBed } from '@angular/core/testing';
+import { MatTabNavBarHarness } from '@angular/material/tabs/testing';
+import { provideRouter } from '@angular/router';
+import { apiInterceptor } from '../../core/api/api-interceptor';
+import { Role } from '../../core/auth/session-user';
+import { rememberOnDevice, testUser } from '../../core/auth/testing/demo-sessions';
+import { Shell } from './shell';
+
+async function destinationLabelsFor(roles: Role[]): Promise<string[]> {
+  localStorage.clear();
+  rememberOnDevice(testUser(roles));
+  TestBed.configureTestingModule({
+    imports: [Shell],
+    providers: [provideRouter([]), provideHttpClient(withInterceptors([apiInterceptor])), provideHttpClientTesting()],
+  });
+  const fixture = TestBed.createComponent(Shell);
+  const nav = await TestbedHarnessEnvironment.loader(fixture).getHarness(MatTabNavBarHarness);
+  const links = await nav.getLinks();
+  // The icon ligature is text too; the label is what the user reads.
+  const labels = await Promise.all(links.map(async (l) => (await l.host()).text({ exclude: 'mat-icon' })));
+  TestBed.inject(HttpTestingController).match(() => true); // the start-up refresh is not under test here
+  return labels.map((l) => l.trim());
+}
+
+describe('Shell navigation by role', () => {
+  it('when a crew member is signed in, then only Walk is offered', async () => {
+    expect(await destinationLabelsFor(['crew'])).toEqual(['Walk']);
+  });
+
+  it('when a crew lead is signed in, then Walk, Board and Setup are offered', async () => {
+    expect(await destinationLabelsFor(['lead'])).toEqual(['Walk', 'Board', 'Setup']);
+  });
+
+  it('when lab staff are signed in, then only Bench is offered', async () => {
+    expect(await destinationLabelsFor(['lab'])).toEqual(['Bench']);
+  });
+
+  it('when an admin is signed in, then only Setup is offered', async () => {
+    expect(await destinationLabelsFor(['admin'])).toEqual(['Setup']);
+  });
+
+  it('when a user holds crew and lab roles, then Walk and Bench are offered once each', async () => {
+    expect(await destinationLabelsFor(['crew', 'lab'])).toEqual(['Walk', 'Bench']);
+  });
+
+  it('when the account has no screen role, then no destination is offered', async () => {
+    expect(await destinationLabelsFor([])).toEqual([]);
+  });
+});
+
+describe('Shell start-up', () => {
+  it('when opened, then it asks the server again who the user is and which sites they see', async () => {
+    localStorage.clear();
+    rememberOnDevice(testUser(['crew']));
+    TestBed.configureTestingModule({
+      imports: [Shell],
+      providers: [provideRouter([]), provideHttpClient(withInterceptors([apiInterceptor])), provideHttpClientTesting()],
+    });
+    const fixture = TestBed.createComponent(Shell);
+    await fixture.whenStable();
+    const backend = TestBed.inject(HttpTestingController);
+    backend.expectOne('/api/auth/me').flush({ user: testUser(['crew', 'lead']) });
+    await new Promise((r) => setTimeout(r, 0));
+    backend.expectOne('/api/sites').flush({ items: [{ id: 'site-c', name: 'Fen Edge', timezone: 'UTC' }], total: 1 });
+    await new Promise((r) => setTimeout(r, 0));
+    await fixture.whenStable();
+
+    const nav = await TestbedHarnessEnvironment.loader(fixture).getHarness(MatTabNavBarHarness);
+    expect(await nav.getLinks()).toHaveLength(3);
+    expect(fixture.nativeElement.querySelector('[data-testid=current-site]').textContent.trim()).toBe('Fen Edge');
+    expect(JSON.parse(localStorage.getItem('fw.session')!).user.roles).toEqual(['crew', 'lead']);
+  });
+});
