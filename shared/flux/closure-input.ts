@@ -1,0 +1,83 @@
+/** Public input and result shapes of a closure fit (camelCase; the batch CLI maps them to snake_case). */
+import type { QcFlag } from './qc-flags';
+
+export type ClosureModel = 'linear' | 'exponential' | 'quadratic';
+
+export interface ClosureInput {
+  /** Elapsed seconds since the chamber seated, one per sample. */
+  tS: readonly (number | null)[];
+  /** Wet CO2 mole fraction as the analyzer reports it, µmol mol⁻¹. */
+  co2Ppm: readonly (number | null)[];
+  /** Water vapour, mmol mol⁻¹: per sample, one value for the closure, or none. */
+  h2oMmolMol?: readonly (number | null)[] | number | null;
+  pressureKpa: number | readonly (number | null)[];
+  tempC: number | readonly (number | null)[];
+  /** Total system volume: chamber + loop + collar headspace (see chamberVolumeFor). */
+  volumeCm3: number;
+  areaCm2: number;
+  /** Settle time: t0 of the fit window (common practice ≈ 20 s). */
+  settleS: number;
+  /** Optional end of the fit window, elapsed seconds. */
+  windowEndS?: number | null;
+  ambientPpm?: number | null;
+  ambientMarginPpm?: number;
+  /** Analyzer precision for the detection limit, ppm (default 1). */
+  precisionPpm?: number;
+  model?: 'auto' | ClosureModel;
+  pressureIsDefault?: boolean;
+  /** Set when the volume came from an offset set taken after the closure day. */
+  offsetAfter?: boolean;
+}
+
+export interface ModelFit {
+  /** Dry-mole-fraction slope at t0, ppm s⁻¹. */
+  slopePpmS: number;
+  fluxUmolM2S: number;
+  r2: number;
+  rmse: number;
+  aic: number;
+  n: number;
+}
+
+export interface LinearFit extends ModelFit {
+  interceptPpm: number;
+}
+
+export interface ExponentialFit extends ModelFit {
+  p1: number;
+  p2: number;
+  /** s⁻¹; negative for a saturating closure. */
+  p3: number;
+  /** p3 · τmax, dimensionless. */
+  p3TauMax: number;
+  iterations: number;
+}
+
+export interface QuadraticFit extends ModelFit {
+  b0: number;
+  b1: number;
+  b2: number;
+}
+
+export interface SelectedModel {
+  model: ClosureModel;
+  slopePpmS: number;
+  fluxUmolM2S: number;
+  reason: string;
+}
+
+export interface ClosureFitResult {
+  linear: LinearFit | null;
+  exponential: ExponentialFit | null;
+  quadratic: QuadraticFit | null;
+  exponentialRejectedReason: string | null;
+  selected: SelectedModel | null;
+  flags: QcFlag[];
+  error: string | null;
+  /** Fit window actually used. */
+  window: { t0S: number; firstTS: number; lastTS: number; n: number } | null;
+  /** Minimum detectable flux (precision / window length × flux factor). */
+  minDetectableFluxUmolM2S: number | null;
+  /** Flux per ppm s⁻¹ with p, T, χw of the first sample used. */
+  fluxPerSlope: number | null;
+}

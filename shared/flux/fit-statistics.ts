@@ -1,0 +1,38 @@
+/**
+ * Goodness-of-fit numbers shared by every closure model, so the models stay comparable:
+ *   R² = 1 − RSS/TSS, RMSE = √(RSS/n), AIC = n·ln(RSS/n) + 2k (least-squares form, Akaike 1974,
+ *   IEEE Trans. Autom. Control 19:716–723).
+ * RSS is floored at 1e−12·n for the AIC only: a noise-free series would otherwise give −∞ and
+ * make every comparison meaningless.
+ */
+export interface FitStatistics {
+  r2: number;
+  rmse: number;
+  aic: number;
+  n: number;
+}
+
+export const RSS_FLOOR_PER_POINT = 1e-12;
+
+export function fitStatistics(rss: number, tss: number, n: number, k: number): FitStatistics {
+  const floored = Math.max(rss, RSS_FLOOR_PER_POINT * n);
+  return {
+    r2: tss > 0 ? 1 - rss / tss : NaN,
+    rmse: Math.sqrt(rss / n),
+    aic: n * Math.log(floored / n) + 2 * k,
+    n,
+  };
+}
+
+/** Total sum of squares about the mean. */
+export function totalSumOfSquares(y: ArrayLike<number>, n: number): number {
+  let mean = 0;
+  for (let i = 0; i < n; i++) mean += y[i];
+  mean /= n;
+  let tss = 0;
+  for (let i = 0; i < n; i++) {
+    const d = y[i] - mean;
+    tss += d * d;
+  }
+  return tss;
+}

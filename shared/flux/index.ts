@@ -1,0 +1,46 @@
+/** Public API of the flux engine (pure TypeScript: devices, server and batch CLI share it). */
+export const engineVersion = '1.0.0';
+
+export { fitClosure } from './closure-fit';
+export type {
+  ClosureFitResult,
+  ClosureInput,
+  ClosureModel,
+  ExponentialFit,
+  LinearFit,
+  ModelFit,
+  QuadraticFit,
+  SelectedModel,
+} from './closure-input';
+export { QC_FLAGS, QC_THRESHOLDS, type QcFlag } from './qc-flags';
+export { chamberFluxUmolM2S, fluxPerSlope } from './chamber-flux';
+export { dryMoleFractionPpm, waterMoleFraction } from './dry-mole-fraction';
+export { minimumDetectableSlopePpmS } from './detection-limit';
+export {
+  chamberVolumeFor,
+  collarAreaCm2,
+  meanOffsetCm,
+  offsetSetFor,
+  profileValidOn,
+  type ChamberProfileVersion,
+  type ChamberVolume,
+  type ChamberVolumeOutcome,
+  type OffsetSetRecord,
+} from './chamber-volume';
+export {
+  fitLloydTaylor,
+  fitQ10,
+  lloydTaylorModel,
+  q10Model,
+  LLOYD_TAYLOR_E0_K,
+  LLOYD_TAYLOR_T0_K,
+  RESPONSE_LIMITS,
+  type Estimate,
+  type LloydTaylorFit,
+  type Q10Fit,
+  type Refusal,
+} from './temperature-response';
+export { polynomialVwc, toppVwc } from './soil-moisture';
+export { pressureFromElevationKpa, geopotentialHeightM } from './standard-atmosphere';
+export { convertFlux, FLUX_UNIT_LABELS, type FluxUnit } from './units';
+export { GAS_CONSTANT_J_PER_MOL_K, TYPICAL_SETTLE_TIME_S, ZERO_CELSIUS_K } from './constants';
