@@ -17,7 +17,8 @@ export const RSS_FLOOR_PER_POINT = 1e-12;
 export function fitStatistics(rss: number, tss: number, n: number, k: number): FitStatistics {
   const floored = Math.max(rss, RSS_FLOOR_PER_POINT * n);
   return {
-    r2: tss > 0 ? 1 - rss / tss : NaN,
+    // A series flat to below 1e−6 ppm per point has no variance to explain: R² is undefined.
+    r2: tss > RSS_FLOOR_PER_POINT * n ? 1 - rss / tss : NaN,
     rmse: Math.sqrt(rss / n),
     aic: n * Math.log(floored / n) + 2 * k,
     n,

@@ -1,0 +1,111 @@
+/**
+ * Wire shapes of the batch CLI (snake_case JSON) and their mapping to the flux engine.
+ * Extra output fields beyond the issue contract: the quadratic fit, exponential parameters,
+ * the fit window, the minimum detectable flux and the engine version.
+ */
+import { engineVersion, fitClosure, type ClosureFitResult, type ClosureInput, type ModelFit } from '../../shared/flux/index';
+
+export interface WireModel {
+  slope_ppm_s: number;
+  flux_umol_m2_s: number;
+  r2: number;
+  rmse: number;
+  aic: number;
+  n: number;
+  [extra: string]: number | null;
+}
+
+export interface WireResult {
+  id: unknown;
+  linear: WireModel | null;
+  exponential: WireModel | null;
+  quadratic: WireModel | null;
+  exponential_rejected_reason: string | null;
+  selected: { model: string; flux_umol_m2_s: number; slope_ppm_s: number; reason: string } | null;
+  flags: string[];
+  error: string | null;
+  window: { t0_s: number; first_t_s: number; last_t_s: number; n: number } | null;
+  min_detectable_flux_umol_m2_s: number | null;
+  engine_version: string;
+}
+
+type Run = Record<string, unknown>;
+
+const optionalNumber = (v: unknown): number | undefined => (typeof v === 'number' ? v : undefined);
+
+/** Maps one wire run to the engine input. Values are passed through; the engine validates them. */
+export function runToInput(run: Run): ClosureInput {
+  const model = run.model;
+  return {
+    tS: run.t_s as ClosureInput['tS'],
+    co2Ppm: run.co2_ppm as ClosureInput['co2Ppm'],
+    h2oMmolMol: run.h2o_mmol_mol as ClosureInput['h2oMmolMol'],
+    pressureKpa: run.pressure_kpa as ClosureInput['pressureKpa'],
+    tempC: run.temp_c as ClosureInput['tempC'],
+    volumeCm3: run.volume_cm3 as number,
+    areaCm2: run.area_cm2 as number,
+    settleS: run.settle_s as number,
+    windowEndS: optionalNumber(run.window_end_s),
+    ambientPpm: optionalNumber(run.ambient_ppm),
+    ambientMarginPpm: optionalNumber(run.ambient_margin_ppm),
+    precisionPpm: optionalNumber(run.precision_ppm),
+    model: model === 'linear' || model === 'exponential' || model === 'quadratic' || model === 'auto' ? model : undefined,
+    pressureIsDefault: run.pressure_is_default === true,
+    offsetAfter: run.offset_after === true,
+  };
+}
+
+function wireModel(m: ModelFit | null, extra: Record<string, number>): WireModel | null {
+  if (!m) return null;
+  return { slope_ppm_s: m.slopePpmS, flux_umol_m2_s: m.fluxUmolM2S, r2: m.r2, rmse: m.rmse, aic: m.aic, n: m.n, ...extra };
+}
+
+export function resultToWire(id: unknown, r: ClosureFitResult): WireResult {
+  const e = r.exponential;
+  const q = r.quadratic;
+  return {
+    id,
+    linear: wireModel(r.linear, r.linear ? { intercept_ppm: r.linear.interceptPpm } : {}),
+    exponential: wireModel(e, e ? { p1: e.p1, p2: e.p2, p3: e.p3, p3_tau_max: e.p3TauMax } : {}),
+    quadratic: wireModel(q, q ? { b0: q.b0, b1: q.b1, b2: q.b2 } : {}),
+    exponential_rejected_reason: r.exponentialRejectedReason,
+    selected: r.selected && {
+      model: r.selected.model,
+      flux_umol_m2_s: r.selected.fluxUmolM2S,
+      slope_ppm_s: r.selected.slopePpmS,
+      reason: r.selected.reason,
+    },
+    flags: r.flags,
+    error: r.error,
+    window: r.window && { t0_s: r.window.t0S, first_t_s: r.window.firstTS, last_t_s: r.window.lastTS, n: r.window.n },
+    min_detectable_flux_umol_m2_s: r.minDetectableFluxUmolM2S,
+    engine_version: engineVersion,
+  };
+}
+
+/** One run in, one result out; a run that is not even an object still gets a result. */
+export function processRun(run: unknown): WireResult {
+  if (!run || typeof run !== 'object' || Array.isArray(run)) {
+    return resultToWire(null, {
+      linear: null,
+      exponential: null,
+      quadratic: null,
+      exponentialRejectedReason: 'invalid input',
+      selected: null,
+      flags: ['invalid-input'],
+      error: 'run is not an object',
+      window: null,
+      minDetectableFluxUmolM2S: null,
+      fluxPerSlope: null,
+    });
+  }
+  const r = run as Run;
+  let result: ClosureFitResult;
+  try {
+    result = fitClosure(runToInput(r));
+  } catch (err) {
+    // The engine validates its input; this only guards the batch against an engine bug.
+    result = { ...fitClosure({} as ClosureInput), error: `internal error: ${(err as Error).message}` };
+  }
+  return resultToWire(r.id ?? null, result);
+}
