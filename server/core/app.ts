@@ -9,7 +9,8 @@ import { csrfProtection } from '../auth/csrf';
 import { loginRateLimit } from '../auth/login-rate-limit';
 import { createPassport } from '../auth/passport-setup';
 import { sessionMiddleware } from '../auth/session-middleware';
-import { registerSiteListRoute } from '../sites/site-routes';
+import { registerCampaignRoutes } from '../campaigns/campaign-routes';
+import { registerRecordRoutes } from '../records/record-routes';
 import { registerUserRoutes } from '../users/user-routes';
 import type { ServerConfig } from './config';
 import { apiNotFound, errorMiddleware } from './errors';
@@ -59,7 +60,8 @@ export function createApp(ds: DataSource, config: ServerConfig): AppHandle {
   registerHealthRoute(registry, ds);
   registerAuthRoutes(registry, passport, loginRateLimit(ds, config.loginMaxFailures, config.loginWindowMs));
   registerUserRoutes(registry, ds);
-  registerSiteListRoute(registry, ds);
+  registerCampaignRoutes(registry, ds); // before the generic /:id routes
+  registerRecordRoutes(registry, ds);
 
   app.use('/api', apiNotFound);
   if (config.staticDir) serveApp(app, config.staticDir);

@@ -1,7 +1,7 @@
 import type { EntityManager } from 'typeorm';
 import type { Role } from '../../shared/auth/roles';
 import { SiteMemberEntity } from '../sites/site-member.entity';
-import { SiteEntity } from '../sites/site.entity';
+import { ChangeBuffer, writeRecord } from '../records/record-writer';
 import { UserEntity } from '../users/user.entity';
 import { hashPassword } from '../users/user-service';
 
@@ -17,18 +17,27 @@ export const DEMO_USERS: { id: string; email: string; displayName: string; roles
 ];
 
 export async function seedDemoAccounts(em: EntityManager): Promise<void> {
-  await em.getRepository(SiteEntity).insert({
-    id: DEMO_SITE_ID,
-    name: 'Alder Hollow Field Station',
-    timezone: 'Europe/Berlin',
-    elevationM: 420,
-    updatedBy: null,
-  });
   const hash = await hashPassword(DEMO_PASSWORD);
   for (const u of DEMO_USERS) {
     await em.getRepository(UserEntity).insert({
       id: u.id, email: u.email, displayName: u.displayName, passwordHash: hash, roles: u.roles, disabled: false,
     });
+  }
+  // Through the record writer, so the site enters the change log and reaches devices on pull.
+  const admin = DEMO_USERS.find((u) => u.roles.includes('admin'))!;
+  const changes = new ChangeBuffer();
+  const site = await writeRecord(em, { id: admin.id, roles: ['admin'], siteIds: [] }, {
+    entity: 'site', id: DEMO_SITE_ID, baseRev: null, op: 'upsert',
+    fields: {
+      name: 'Alder Hollow Field Station', timezone: 'Europe/Berlin', elevationM: 420, latitude: 51.0, longitude: 10.0,
+      safetyNote: 'Check the forecast before leaving: stop work and leave the plots when thunder is heard. Carry water; '
+        + 'in heat, take breaks in shade. Nobody walks the far plots alone: tell the station when you leave and return. '
+        + 'Follow the station safety plan and local rules; they take precedence over this note.',
+    },
+  }, changes);
+  if (site.status !== 'applied') throw new Error(`demo site: ${JSON.stringify(site.error)}`);
+  await changes.flush(em);
+  for (const u of DEMO_USERS) {
     if (u.member) await em.getRepository(SiteMemberEntity).insert({ siteId: DEMO_SITE_ID, userId: u.id });
   }
 }

@@ -13,4 +13,25 @@ export class SiteEntity extends SyncedColumns {
 
   @Column({ type: 'double precision', name: 'elevation_m', nullable: true })
   elevationM!: number | null;
+
+  @Column({ type: 'double precision', name: 'latitude', nullable: true }) latitude!: number | null;
+  @Column({ type: 'double precision', name: 'longitude', nullable: true }) longitude!: number | null;
+  @Column({ type: 'uuid', name: 'default_profile_id', nullable: true }) defaultProfileId!: string | null;
+  @Column({ type: 'text', name: 'safety_note', default: '' }) safetyNote!: string;
+  @Column({ type: 'jsonb', name: 'moisture_calibration' }) moistureCalibration!: Record<string, unknown>;
+  @Column({ type: 'double precision', name: 'temp_depth_cm' }) tempDepthCm!: number;
+  @Column({ type: 'double precision', name: 'settling_days_hard' }) settlingDaysHard!: number;
+  @Column({ type: 'double precision', name: 'settling_days_warn' }) settlingDaysWarn!: number;
+  @Column({ type: 'double precision', name: 'offset_spread_pct' }) offsetSpreadPct!: number;
+  @Column({ type: 'double precision', name: 'offset_move_cm' }) offsetMoveCm!: number;
+  @Column({ type: 'double precision', name: 'leak_slope_umol_mol_s' }) leakSlopeUmolMolS!: number;
+  @Column({ type: 'double precision', name: 'ambient_margin_ppm' }) ambientMarginPpm!: number;
+  @Column({ type: 'text', name: 'digest_local_time' }) digestLocalTime!: string;
+  @Column({ type: 'text', name: 'tile_url', nullable: true }) tileUrl!: string | null;
+  @Column({ type: 'text', name: 'tile_attribution', nullable: true }) tileAttribution!: string | null;
+
+  /** A site's own id is its site id: lets the generic record code treat sites like other records. */
+  get siteId(): string {
+    return this.id;
+  }
 }

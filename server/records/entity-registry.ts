@@ -1,0 +1,127 @@
+import type { EntityTarget, ObjectLiteral } from 'typeorm';
+import type { Role } from '../../shared/auth/roles';
+import { CLOSURE_REVIEW_FIELDS } from '../../shared/model/field-records';
+import type { EntityName } from '../../shared/model/entities';
+import { CampaignEntity } from '../campaigns/campaign.entity';
+import { RouteEntity } from '../campaigns/route.entity';
+import { VisitEntity } from '../campaigns/visit.entity';
+import { AttachmentEntity } from '../attachments/attachment.entity';
+import { ClosureEntity } from '../closures/closure.entity';
+import { CollarEventEntity } from '../collars/collar-event.entity';
+import { CollarEntity } from '../collars/collar.entity';
+import { AnalyzerCheckEntity } from '../instruments/analyzer-check.entity';
+import { AnalyzerEntity } from '../instruments/analyzer.entity';
+import { ChamberProfileEntity } from '../instruments/chamber-profile.entity';
+import { OffsetSetEntity } from '../readings/offset-set.entity';
+import { ProbeReadingEntity } from '../readings/probe-reading.entity';
+import { BlockEntity } from '../sites/block.entity';
+import { PlotEntity } from '../sites/plot.entity';
+import { SiteEntity } from '../sites/site.entity';
+import { TreatmentEntity } from '../sites/treatment.entity';
+import { TemperatureLogEntity } from '../temperature-logs/temperature-log.entity';
+
+export type WriteAction = 'create' | 'update' | 'delete';
+
+/** Who may write what. Finer rules (which fields) return a readable reason, or null when allowed. */
+export interface EntityRules {
+  create: readonly Role[];
+  update: readonly Role[];
+  delete: readonly Role[];
+  fieldRule?: (roles: readonly Role[], action: WriteAction, changed: readonly string[], next: Record<string, unknown>) => string | null;
+}
+
+export interface EntityDef {
+  name: EntityName;
+  target: EntityTarget<ObjectLiteral>;
+  table: string;
+  rules: EntityRules;
+  /** Reference fields that must point at a live record of the same site. */
+  refs: Partial<Record<string, EntityName>>;
+  /** Records that belong to a campaign: refused while it is locked. */
+  underCampaign: boolean;
+  /** Fields fixed at creation. */
+  immutable: readonly string[];
+  /** The time field list filters use for a date range, if any. */
+  timeField?: string;
+  /** List order. */
+  order: Record<string, 'ASC' | 'DESC'>;
+}
+
+const ADMIN: Role[] = ['admin'];
+const FIELD: Role[] = ['crew', 'lead'];
+const LEAD: Role[] = ['lead'];
+const has = (roles: readonly Role[], ...any: Role[]) => roles.some((r) => any.includes(r));
+
+/** Crew may change a collar's notes and report it damaged; geometry and lifecycle are the lead's. */
+function collarFieldRule(roles: readonly Role[], action: WriteAction, changed: readonly string[], next: Record<string, unknown>) {
+  if (action !== 'update' || has(roles, 'lead')) return null;
+  const allowed = ['notes', 'status', 'statusReason'];
+  const bad = changed.filter((f) => !allowed.includes(f));
+  if (bad.length) return `Only a lead may change ${bad.join(', ')} of a collar`;
+  if (changed.includes('status') && next['status'] !== 'damaged') return 'Crew may only report a collar damaged';
+  return null;
+}
+
+/** The lab sets review fields and never raw readings; field crews never set review fields. */
+function closureFieldRule(roles: readonly Role[], action: WriteAction, changed: readonly string[]) {
+  const review = changed.filter((f) => (CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f));
+  const raw = changed.filter((f) => !(CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f));
+  if (action === 'update' && raw.length && !has(roles, 'crew', 'lead')) {
+    return `The lab reviews closures but never changes raw readings (${raw.join(', ')})`;
+  }
+  if (review.length && !has(roles, 'lab') && !(action === 'create' && review.every((f) => f === 'reviewState'))) {
+    return `Only the lab may set review fields (${review.join(', ')})`;
+  }
+  return null;
+}
+
+function offsetFieldRule(_roles: readonly Role[], action: WriteAction) {
+  return action === 'update' ? 'An offset set is never edited: record a new set that supersedes it (supersedesId)' : null;
+}
+
+function def(name: EntityName, target: EntityTarget<ObjectLiteral>, table: string, rules: EntityRules,
+  extra: Partial<Omit<EntityDef, 'name' | 'target' | 'table' | 'rules'>> = {}): EntityDef {
+  return { name, target, table, rules, refs: {}, underCampaign: false, immutable: ['siteId'], order: { id: 'ASC' }, ...extra };
+}
+
+export const ENTITY_DEFS: Record<EntityName, EntityDef> = {
+  site: def('site', SiteEntity, 'site', { create: ADMIN, update: ADMIN, delete: ADMIN }, { immutable: [], order: { name: 'ASC' } }),
+  block: def('block', BlockEntity, 'block', { create: ADMIN, update: ADMIN, delete: ADMIN }, { order: { code: 'ASC' } }),
+  treatment: def('treatment', TreatmentEntity, 'treatment', { create: ADMIN, update: ADMIN, delete: ADMIN }, { order: { code: 'ASC' } }),
+  plot: def('plot', PlotEntity, 'plot', { create: ADMIN, update: ADMIN, delete: ADMIN },
+    { refs: { blockId: 'block', treatmentId: 'treatment' }, order: { code: 'ASC' } }),
+  collar: def('collar', CollarEntity, 'collar', { create: FIELD, update: FIELD, delete: LEAD, fieldRule: collarFieldRule },
+    { refs: { plotId: 'plot', treatmentId: 'treatment' }, order: { code: 'ASC' } }),
+  collarEvent: def('collarEvent', CollarEventEntity, 'collar_event', { create: FIELD, update: LEAD, delete: LEAD },
+    { refs: { collarId: 'collar', replacedById: 'collar' }, immutable: ['siteId', 'collarId'], timeField: 'date', order: { date: 'ASC' } }),
+  chamberProfile: def('chamberProfile', ChamberProfileEntity, 'chamber_profile', { create: ADMIN, update: ADMIN, delete: ADMIN },
+    { order: { validFrom: 'ASC' } }),
+  analyzer: def('analyzer', AnalyzerEntity, 'analyzer', { create: ADMIN, update: ADMIN, delete: ADMIN }, { order: { name: 'ASC' } }),
+  analyzerCheck: def('analyzerCheck', AnalyzerCheckEntity, 'analyzer_check', { create: ['crew', 'lead', 'admin'], update: LEAD, delete: LEAD },
+    { refs: { analyzerId: 'analyzer' }, timeField: 'at', order: { at: 'DESC' } }),
+  route: def('route', RouteEntity, 'route', { create: ['lead', 'admin'], update: ['lead', 'admin'], delete: ['lead', 'admin'] },
+    { order: { name: 'ASC' } }),
+  campaign: def('campaign', CampaignEntity, 'campaign', { create: LEAD, update: LEAD, delete: LEAD },
+    { timeField: 'startsOn', order: { startsOn: 'DESC' } }),
+  visit: def('visit', VisitEntity, 'visit', { create: FIELD, update: FIELD, delete: LEAD },
+    { refs: { campaignId: 'campaign', collarId: 'collar' }, underCampaign: true,
+      immutable: ['siteId', 'campaignId', 'collarId', 'round'], timeField: 'arrivedAt', order: { arrivedAt: 'ASC' } }),
+  offsetSet: def('offsetSet', OffsetSetEntity, 'offset_set', { create: FIELD, update: FIELD, delete: LEAD, fieldRule: offsetFieldRule },
+    { refs: { visitId: 'visit', collarId: 'collar', campaignId: 'campaign', supersedesId: 'offsetSet' }, underCampaign: true,
+      timeField: 'takenAt', order: { takenAt: 'ASC' } }),
+  probeReading: def('probeReading', ProbeReadingEntity, 'probe_reading', { create: FIELD, update: FIELD, delete: LEAD },
+    { refs: { visitId: 'visit', collarId: 'collar', campaignId: 'campaign' }, underCampaign: true,
+      immutable: ['siteId', 'visitId', 'collarId', 'campaignId'], timeField: 'takenAt', order: { takenAt: 'ASC' } }),
+  closure: def('closure', ClosureEntity, 'closure', { create: FIELD, update: ['crew', 'lead', 'lab'], delete: LEAD, fieldRule: closureFieldRule },
+    { refs: { visitId: 'visit', collarId: 'collar', campaignId: 'campaign', profileId: 'chamberProfile', analyzerId: 'analyzer' },
+      underCampaign: true, immutable: ['siteId', 'visitId', 'collarId', 'campaignId'], timeField: 'startedAt', order: { startedAt: 'ASC' } }),
+  attachment: def('attachment', AttachmentEntity, 'attachment', { create: ['crew', 'lead', 'admin'], update: ['crew', 'lead', 'admin'], delete: LEAD },
+    { immutable: ['siteId', 'ownerEntity', 'ownerId', 'sha256', 'sizeBytes', 'mediaType'] }),
+  temperatureLog: def('temperatureLog', TemperatureLogEntity, 'temperature_log', { create: ['lab', 'admin'], update: ['lab', 'admin'], delete: ['lab', 'admin'] },
+    { refs: { plotId: 'plot' }, order: { depthCm: 'ASC' } }),
+};
+
+/** Union of roles that may write an entity at all: the route registry's rule for write routes. */
+export function writeRoles(d: EntityDef): Role[] {
+  return [...new Set([...d.rules.create, ...d.rules.update, ...d.rules.delete])];
+}

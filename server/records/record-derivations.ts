@@ -1,0 +1,45 @@
+import type { EntityManager } from 'typeorm';
+import type { Warning } from '../../shared/model/common';
+import { collarAreaCm2, offsetStats, probeVwcPct, type MoistureCalibration } from '../../shared/model/derived';
+import type { EntityName } from '../../shared/model/entities';
+import { computeClosureResults } from '../closures/closure-results';
+import { closureWarnings } from '../closures/closure-warnings';
+
+type Rec = Record<string, unknown>;
+
+/** Values the server derives from a record about to be stored (area, offset mean/SD, VWC, flux). */
+export async function deriveFields(em: EntityManager, entity: EntityName, next: Rec, _current: Rec | null): Promise<Rec> {
+  switch (entity) {
+    case 'collar':
+      return { areaCm2: collarAreaCm2(next as never) };
+    case 'offsetSet':
+      return offsetStats(next['readingsCm'] as number[]);
+    case 'probeReading': {
+      const rows: { moisture_calibration: MoistureCalibration }[] = await em.query(
+        `SELECT moisture_calibration FROM site WHERE id = $1`, [next['siteId']]);
+      return { vwcPct: probeVwcPct(next as never, rows[0]?.moisture_calibration ?? { kind: 'topp' }) };
+    }
+    case 'closure':
+      return computeClosureResults(em, next);
+    default:
+      return {};
+  }
+}
+
+/** Offsets of 0 or above 10 cm are stored but flagged: the chamber may not seal (common practice). */
+function offsetWarnings(rec: Rec): Warning[] {
+  const out: Warning[] = [];
+  (rec['readingsCm'] as number[]).forEach((v, i) => {
+    if (v === 0) out.push({ path: `readingsCm.${i}`, message: 'Offset 0 cm: the chamber may not seal on the collar rim' });
+    else if (v > 10) out.push({ path: `readingsCm.${i}`, message: `Offset ${v} cm is above 10 cm: check the reading; the chamber may not seal` });
+  });
+  return out;
+}
+
+/** Warnings returned beside accepted values; they never block a write. */
+export async function warningsFor(em: EntityManager, entity: EntityName, rec: Rec): Promise<Warning[] | undefined> {
+  let w: Warning[] = [];
+  if (entity === 'offsetSet') w = offsetWarnings(rec);
+  if (entity === 'closure') w = await closureWarnings(em, rec);
+  return w.length ? w : undefined;
+}

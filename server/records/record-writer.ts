@@ -1,0 +1,192 @@
+import type { EntityManager, ObjectLiteral } from 'typeorm';
+import { seesAllSites, type Role } from '../../shared/auth/roles';
+import { DERIVED_FIELDS, ENTITY_FIELDS, type EntityName } from '../../shared/model/entities';
+import { fieldErrorsFromZod } from '../core/errors';
+import type { ChangeBuffer } from './change-buffer';
+import { ENTITY_DEFS, type EntityDef, type WriteAction } from './entity-registry';
+import { deriveFields, warningsFor } from './record-derivations';
+import { checkReferences, lockedCampaignMessage } from './record-references';
+import { sameValue, toWire } from './wire';
+import { rejected, type WriteOutcome } from './write-outcome';
+
+export type { WriteOutcome } from './write-outcome';
+export { ChangeBuffer } from './change-buffer';
+
+export interface WriteOp {
+  entity: EntityName;
+  id: string;
+  baseRev: number | null;
+  op: 'upsert' | 'delete';
+  fields: Record<string, unknown>;
+}
+
+export interface Actor {
+  id: string;
+  roles: Role[];
+  siteIds: string[];
+}
+
+const META = ['id', 'rev', 'updatedAt', 'updatedBy', 'deleted'];
+
+/**
+ * The one write path for every record, used by the REST routes, the sync push and the seed:
+ * permission and membership checks, validation of the whole resulting record, same-site
+ * references, locked campaigns, derived values, revision bump and the change log. The caller
+ * owns the transaction (a savepoint per op in a push) and flushes `changes` before commit.
+ */
+export async function writeRecord(em: EntityManager, actor: Actor, op: WriteOp, changes: ChangeBuffer,
+  opts: { deviceId?: string | null } = {}): Promise<WriteOutcome> {
+  const d = ENTITY_DEFS[op.entity];
+  if (!d) return rejected(400, `Unknown entity "${String(op.entity)}"`);
+  const existing = await lockRecord(em, d, op.id);
+  const ctx = { em, actor, d, changes, deviceId: opts.deviceId ?? null };
+  if (op.op === 'delete') return deleteRecord(ctx, op, existing);
+  const incoming = clientFields(op.entity, op.fields);
+  if (!existing) {
+    if (op.baseRev !== null) return rejected(404, `There is no ${op.entity} ${op.id} to change`);
+    return createRecord(ctx, op, incoming);
+  }
+  const current = toWire(existing);
+  if (op.baseRev === null) return repeatedCreate(d, current, incoming);
+  if (existing['deleted']) return conflict(Object.keys(incoming), current);
+  return updateRecord(ctx, op, current, incoming);
+}
+
+interface Ctx {
+  em: EntityManager;
+  actor: Actor;
+  d: EntityDef;
+  changes: ChangeBuffer;
+  deviceId: string | null;
+}
+
+async function lockRecord(em: EntityManager, d: EntityDef, id: string): Promise<ObjectLiteral | null> {
+  if (!/^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(id)) return null;
+  return em.getRepository(d.target).createQueryBuilder('r').setLock('pessimistic_write').where('r.id = :id', { id }).getOne();
+}
+
+/** Drops metadata and server-derived fields a client may have echoed back. */
+function clientFields(entity: EntityName, fields: Record<string, unknown>): Record<string, unknown> {
+  const derived = DERIVED_FIELDS[entity] ?? [];
+  return Object.fromEntries(Object.entries(fields ?? {}).filter(([k]) => !META.includes(k) && !derived.includes(k)));
+}
+
+function roleDenied(ctx: Ctx, action: WriteAction): WriteOutcome | null {
+  const allowed = ctx.d.rules[action];
+  if (ctx.actor.roles.some((r) => allowed.includes(r))) return null;
+  return rejected(403, `Your role may not ${action} a ${ctx.d.name}`);
+}
+
+function siteOf(d: EntityDef, id: string, rec: Record<string, unknown>): string {
+  return d.name === 'site' ? id : String(rec['siteId']);
+}
+
+function membershipDenied(ctx: Ctx, siteId: string): WriteOutcome | null {
+  if (seesAllSites(ctx.actor.roles) || ctx.actor.siteIds.includes(siteId)) return null;
+  return rejected(403, 'You are not a member of this site');
+}
+
+function validate(entity: EntityName, candidate: Record<string, unknown>) {
+  const parsed = ENTITY_FIELDS[entity].safeParse(candidate);
+  if (!parsed.success) return { error: rejected(400, `Some ${entity} fields are not valid`, fieldErrorsFromZod(parsed.error)) };
+  return { value: parsed.data as Record<string, unknown> };
+}
+
+async function createRecord(ctx: Ctx, op: WriteOp, incoming: Record<string, unknown>): Promise<WriteOutcome> {
+  const { d } = ctx;
+  const denied = roleDenied(ctx, 'create');
+  if (denied) return denied;
+  const v = validate(d.name, incoming);
+  if (v.error) return v.error;
+  const next = v.value;
+  const siteId = siteOf(d, op.id, next);
+  const guard = membershipDenied(ctx, siteId)
+    ?? ruleDenied(ctx, 'create', Object.keys(next), next)
+    ?? (await checkReferences(ctx.em, d, siteId, next, Object.keys(next)))
+    ?? (await lockedCampaignMessage(ctx.em, d, next));
+  if (guard) return guard;
+  const derived = await deriveFields(ctx.em, d.name, next, null);
+  const row = { ...next, ...derived, id: op.id, rev: 1, updatedAt: new Date(), updatedBy: ctx.actor.id, deleted: false };
+  await ctx.em.getRepository(d.target).insert(row);
+  ctx.changes.add({ entity: d.name, recordId: op.id, rev: 1, siteId, fields: Object.keys(next), deleted: false, userId: ctx.actor.id, deviceId: ctx.deviceId });
+  const record = toWire(row);
+  return { status: 'applied', rev: 1, record, warnings: await warningsFor(ctx.em, d.name, record) };
+}
+
+/** A create whose id is already known: the same content is a harmless repeat, anything else a conflict. */
+function repeatedCreate(d: EntityDef, current: Record<string, unknown>, incoming: Record<string, unknown>): WriteOutcome {
+  if (current['deleted']) return conflict(Object.keys(incoming), current);
+  const v = ENTITY_FIELDS[d.name].safeParse(incoming);
+  const wanted = v.success ? (v.data as Record<string, unknown>) : incoming;
+  const differing = Object.keys(wanted).filter((k) => !sameValue(wanted[k], current[k]));
+  if (!differing.length) return { status: 'duplicate', rev: Number(current['rev']), record: current };
+  return conflict(differing, current);
+}
+
+function conflict(fields: string[], server: Record<string, unknown>): WriteOutcome {
+  return { status: 'conflict', rev: Number(server['rev']), record: server, conflict: { fields, server, serverRev: Number(server['rev']) }, httpStatus: 409 };
+}
+
+function ruleDenied(ctx: Ctx, action: WriteAction, changed: string[], next: Record<string, unknown>): WriteOutcome | null {
+  const reason = ctx.d.rules.fieldRule?.(ctx.actor.roles, action, changed, next);
+  return reason ? rejected(403, reason) : null;
+}
+
+/** Fields changed on the server after `baseRev`, from the change log. */
+async function serverChangedSince(em: EntityManager, d: EntityDef, id: string, baseRev: number): Promise<Set<string>> {
+  const rows: { f: string }[] = await em.query(
+    `SELECT DISTINCT unnest(fields) AS f FROM change_log WHERE entity = $1 AND record_id = $2 AND rev > $3`, [d.name, id, baseRev]);
+  return new Set(rows.map((r) => r.f));
+}
+
+async function updateRecord(ctx: Ctx, op: WriteOp, current: Record<string, unknown>, incoming: Record<string, unknown>): Promise<WriteOutcome> {
+  const { d } = ctx;
+  const rev = Number(current['rev']);
+  const changed = Object.keys(incoming).filter((k) => !sameValue(incoming[k], current[k]));
+  if (!changed.length) return { status: 'applied', rev, record: current };
+  const denied = roleDenied(ctx, 'update');
+  if (denied) return denied;
+  const siteId = siteOf(d, op.id, current);
+  const fixed = changed.filter((k) => d.immutable.includes(k));
+  if (fixed.length) return rejected(400, `${fixed.join(', ')} cannot change after creation`, fixed.map((path) => ({ path, message: 'Fixed at creation' })));
+  const stale = op.baseRev !== null && op.baseRev < rev;
+  if (stale) {
+    const serverChanged = await serverChangedSince(ctx.em, d, op.id, op.baseRev!);
+    const overlap = changed.filter((k) => serverChanged.has(k));
+    if (overlap.length) return conflict(overlap, current);
+  }
+  const v = validate(d.name, { ...current, ...Object.fromEntries(changed.map((k) => [k, incoming[k]])) });
+  if (v.error) return v.error;
+  const next = v.value;
+  const guard = membershipDenied(ctx, siteId)
+    ?? ruleDenied(ctx, 'update', changed, next)
+    ?? (await checkReferences(ctx.em, d, siteId, next, changed))
+    ?? (d.name === 'campaign' ? null : await lockedCampaignMessage(ctx.em, d, next));
+  if (guard) return guard;
+  const derived = await deriveFields(ctx.em, d.name, next, current);
+  const patch = { ...Object.fromEntries(changed.map((k) => [k, next[k]])), ...derived, rev: rev + 1, updatedAt: new Date(), updatedBy: ctx.actor.id };
+  await ctx.em.getRepository(d.target).update({ id: op.id }, patch);
+  const derivedChanged = Object.keys(derived).filter((k) => !sameValue(derived[k], current[k]));
+  ctx.changes.add({ entity: d.name, recordId: op.id, rev: rev + 1, siteId, fields: [...changed, ...derivedChanged], deleted: false, userId: ctx.actor.id, deviceId: ctx.deviceId });
+  const record = toWire({ ...current, ...patch });
+  return { status: stale ? 'merged' : 'applied', rev: rev + 1, record, warnings: await warningsFor(ctx.em, d.name, record) };
+}
+
+async function deleteRecord(ctx: Ctx, op: WriteOp, existing: ObjectLiteral | null): Promise<WriteOutcome> {
+  const { d } = ctx;
+  if (!existing) return rejected(404, `There is no ${d.name} ${op.id} to delete`);
+  const current = toWire(existing);
+  const rev = Number(current['rev']);
+  if (current['deleted']) return { status: 'applied', rev, record: current };
+  const siteId = siteOf(d, op.id, current);
+  const guard = roleDenied(ctx, 'delete') ?? membershipDenied(ctx, siteId) ?? (await lockedCampaignMessage(ctx.em, d, current));
+  if (guard) return guard;
+  if (op.baseRev !== null && op.baseRev < rev) {
+    const serverChanged = [...(await serverChangedSince(ctx.em, d, op.id, op.baseRev))];
+    if (serverChanged.length) return conflict(serverChanged, current);
+  }
+  const patch = { deleted: true, rev: rev + 1, updatedAt: new Date(), updatedBy: ctx.actor.id };
+  await ctx.em.getRepository(d.target).update({ id: op.id }, patch);
+  ctx.changes.add({ entity: d.name, recordId: op.id, rev: rev + 1, siteId, fields: ['deleted'], deleted: true, userId: ctx.actor.id, deviceId: ctx.deviceId });
+  return { status: 'applied', rev: rev + 1, record: toWire({ ...current, ...patch }) };
+}

@@ -1,0 +1,30 @@
+/**
+ * Plain wire objects from TypeORM rows: dates as ISO-8601 UTC strings, numbers as numbers,
+ * no class instances. Comparing values goes through the same normalisation.
+ */
+export function toWire<T extends object>(row: T): Record<string, unknown> {
+  const out: Record<string, unknown> = {};
+  for (const [k, v] of Object.entries(row)) out[k] = v instanceof Date ? v.toISOString() : v;
+  return out;
+}
+
+const ISO_DATE_TIME = /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2}(\.\d+)?)?(Z|[+-]\d{2}:?\d{2})$/;
+
+/** ISO date-times in any offset become one canonical UTC form, so equal instants compare equal. */
+export function normalizeValue(v: unknown): unknown {
+  if (typeof v === 'string' && ISO_DATE_TIME.test(v)) return new Date(v).toISOString();
+  if (v instanceof Date) return v.toISOString();
+  return v;
+}
+
+export function sameValue(a: unknown, b: unknown): boolean {
+  return JSON.stringify(canonical(normalizeValue(a))) === JSON.stringify(canonical(normalizeValue(b)));
+}
+
+function canonical(v: unknown): unknown {
+  if (Array.isArray(v)) return v.map((x) => canonical(normalizeValue(x)));
+  if (v && typeof v === 'object') {
+    return Object.fromEntries(Object.keys(v).sort().map((k) => [k, canonical(normalizeValue((v as Record<string, unknown>)[k]))]));
+  }
+  return v === undefined ? null : v;
+}

@@ -1,0 +1,6 @@
+export * from './common';
+export * from './derived';
+export * from './entities';
+export * from './field-records';
+export * from './site-layout';
+export * from './temperature-log';

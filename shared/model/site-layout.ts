@@ -1,0 +1,110 @@
+import { z } from 'zod';
+import { isoDate, name, ranged, text, uuid } from './common';
+
+export const moistureCalibrationSchema = z.discriminatedUnion('kind', [
+  z.object({ kind: z.literal('topp') }),
+  z.object({
+    kind: z.literal('polynomial'),
+    /** VWC (m³ m⁻³) = c0 + c1·x + c2·x² + …, x the raw probe value. */
+    coefficients: z.array(z.number().finite()).min(2).max(6),
+    validMin: z.number().finite().nullable().default(null),
+    validMax: z.number().finite().nullable().default(null),
+  }),
+]);
+
+export const siteFields = z.object({
+  name: name('site name'),
+  timezone: z.string().min(1).max(64).refine(isTimeZone, 'Unknown time zone (use an IANA name such as Europe/Berlin)'),
+  elevationM: ranged(-450, 6000, 'm', 'Elevation').nullable(),
+  latitude: ranged(-90, 90, '°', 'Latitude').nullable().default(null),
+  longitude: ranged(-180, 180, '°', 'Longitude').nullable().default(null),
+  defaultProfileId: uuid('defaultProfileId').nullable().default(null),
+  safetyNote: text(20000).default(''),
+  moistureCalibration: moistureCalibrationSchema.default({ kind: 'topp' }),
+  tempDepthCm: ranged(0, 200, 'cm', 'Temperature depth').default(5),
+  // Collars disturb the soil: common practice is to wait ≥ 1 day after install, better a week.
+  settlingDaysHard: ranged(0, 365, 'days', 'Settling days').default(1),
+  settlingDaysWarn: ranged(0, 365, 'days', 'Settling warning days').default(7),
+  offsetSpreadPct: ranged(0, 100, '%', 'Offset spread').default(3),
+  offsetMoveCm: ranged(0, 30, 'cm', 'Offset move').default(1),
+  leakSlopeUmolMolS: ranged(0, 100, 'µmol/mol/s', 'Leak-check slope').default(0.05),
+  ambientMarginPpm: ranged(0, 5000, 'µmol/mol', 'Start-above-ambient margin').default(100),
+  digestLocalTime: z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'Digest time must be HH:MM').default('18:00'),
+  tileUrl: z.string().max(500).regex(/^https:\/\/.*\{z\}.*\{x\}.*\{y\}/, 'Tile URL must be https with {z}, {x} and {y}').nullable().default(null),
+  tileAttribution: text(500).nullable().default(null),
+});
+
+export const blockFields = z.object({
+  siteId: uuid('siteId'),
+  code: name('block code'),
+  name: text(200).default(''),
+});
+
+export const TREATMENT_LEVELS = ['plot', 'collar'] as const;
+export const treatmentFields = z.object({
+  siteId: uuid('siteId'),
+  code: name('treatment code'),
+  name: text(200).default(''),
+  /** Whether the treatment is applied to whole plots or to single collars (e.g. trenched vs untrenched). */
+  level: z.enum(TREATMENT_LEVELS),
+  description: text(2000).default(''),
+});
+
+export const plotFields = z.object({
+  siteId: uuid('siteId'),
+  code: name('plot code'),
+  blockId: uuid('blockId').nullable().default(null),
+  treatmentId: uuid('treatmentId').nullable().default(null),
+  /** GeoJSON Polygon geometry in WGS84, or a plain local layout. */
+  outline: z.object({ type: z.literal('Polygon'), coordinates: z.array(z.array(z.tuple([z.number(), z.number()]))) })
+    .nullable().default(null),
+});
+
+export const chamberProfileFields = z.object({
+  siteId: uuid('siteId'),
+  name: name('profile name'),
+  /** A new version (a new record) whenever tubing or chamber changes; never an edit. */
+  validFrom: isoDate('validFrom'),
+  chamberVolumeCm3: ranged(10, 1e6, 'cm³', 'Chamber volume'),
+  loopVolumeCm3: ranged(0, 1e5, 'cm³', 'Loop volume'),
+  // Common practice: discard roughly the first 20 s while the headspace mixes (no published constant).
+  settleS: ranged(0, 600, 's', 'Settle time').default(20),
+  closureLengthS: ranged(10, 7200, 's', 'Closure length').default(120),
+  footprintAreaCm2: ranged(1, 1e5, 'cm²', 'Footprint area').nullable().default(null),
+});
+
+export const analyzerFields = z.object({
+  siteId: uuid('siteId'),
+  name: name('analyzer name'),
+  serial: text(100).default(''),
+  rangeMinPpm: ranged(0, 20000, 'µmol/mol', 'Calibrated range minimum').default(0),
+  rangeMaxPpm: ranged(0, 20000, 'µmol/mol', 'Calibrated range maximum').default(5000),
+  precisionPpm: ranged(0, 100, 'µmol/mol', 'Precision').default(1),
+  calibrationIntervalDays: ranged(1, 3650, 'days', 'Calibration interval').default(365),
+});
+
+export const ANALYZER_CHECK_KINDS = ['calibration', 'leak', 'ambient', 'clock', 'warm-up', 'safety-ack'] as const;
+export const analyzerCheckFields = z.object({
+  siteId: uuid('siteId'),
+  analyzerId: uuid('analyzerId').nullable().default(null),
+  kind: z.enum(ANALYZER_CHECK_KINDS),
+  at: z.string().datetime({ offset: true, message: 'at must be an ISO-8601 date-time' }),
+  skipped: z.boolean().default(false),
+  skipReason: text(500).nullable().default(null),
+  passed: z.boolean().nullable().default(null),
+  co2Ppm: ranged(0, 20000, 'µmol/mol', 'CO2').nullable().default(null),
+  slopeUmolMolS: ranged(-1000, 1000, 'µmol/mol/s', 'Slope').nullable().default(null),
+  clockOffsetS: ranged(-86400, 86400, 's', 'Clock offset').nullable().default(null),
+  spanGasPpm: ranged(0, 20000, 'µmol/mol', 'Span gas').nullable().default(null),
+  driftPpm: ranged(-5000, 5000, 'µmol/mol', 'Drift').nullable().default(null),
+  note: text(2000).default(''),
+}).refine((c) => !c.skipped || (c.skipReason ?? '').trim().length > 0, { message: 'A skipped check needs a reason', path: ['skipReason'] });
+
+function isTimeZone(tz: string): boolean {
+  try {
+    new Intl.DateTimeFormat('en', { timeZone: tz });
+    return true;
+  } catch {
+    return false;
+  }
+}
