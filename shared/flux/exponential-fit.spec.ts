@@ -30,6 +30,16 @@ describe('exponential closure model by variable projection (Kutzbach et al. 2007
     expect(out.fit.u).toBeCloseTo(u, 4);
   });
 
+  it('gives the same optimum for irregular sampling (per-sample exponentials instead of the equal-spacing recurrence)', () => {
+    const tau = Array.from({ length: 120 }, (_, i) => i + (i > 0 && i < 119 ? 0.3 * Math.sin(i * 1.7) : 0));
+    const p3 = -3 / 119;
+    const y = tau.map((t) => 400 + (1.8 * Math.expm1(p3 * t)) / p3);
+    const out = fitExponentialRaw(tau, y, tau.length, 119);
+    if (!out.ok) throw new Error(out.reason);
+    expect(out.fit.slope).toBeCloseTo(1.8, 8);
+    expect(out.fit.p3).toBeCloseTo(p3, 10);
+  });
+
   it('agrees with scipy.optimize.curve_fit (scipy 1.17, fixture from tools/flux-reference) wherever scipy converged', () => {
     const converged = closures.filter((c) => c.scipy.converged);
     expect(converged.length).toBeGreaterThan(30);

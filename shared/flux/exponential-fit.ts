@@ -52,14 +52,31 @@ let yBuf = new Float64Array(256);
 
 // Result registers of the last profile evaluation (kept as plain variables for speed).
 let phi = 0, phi1 = 0, phi2 = 0, sff = 0, sfy = 0, fSum = 0;
+// Equally spaced samples (the usual 1 Hz record) let exp(u·s_i) = exp(u·s0)·rⁱ be computed by
+// multiplication: the exponential is most of the cost of a pass, and the recurrence's rounding
+// (≈ n·ε relative) is far below what a slope needs.
+let uniform = false, s0 = 0, ds = 0;
+
+function detectUniform(n: number): void {
+  s0 = sBuf[0];
+  ds = (sBuf[n - 1] - s0) / (n - 1);
+  uniform = ds > 0;
+  for (let i = 1; i < n && uniform; i++) {
+    if (Math.abs(sBuf[i] - (s0 + i * ds)) > 1e-9) uniform = false;
+  }
+}
 
 /** Evaluates φ(u), φ'(u), φ''(u) over the scaled times in sBuf and centred values in yBuf. */
 function evaluate(u: number, n: number): void {
   let F = 0, G = 0, H = 0, FF = 0, FG = 0, GG = 0, FH = 0, FY = 0, GY = 0, HY = 0;
+  const ratio = uniform ? Math.exp(u * ds) : 0;
+  let eNext = uniform ? Math.exp(u * s0) : 0;
   for (let i = 0; i < n; i++) {
     const s = sBuf[i];
     const yc = yBuf[i];
     const x = u * s;
+    const eRec = eNext;
+    eNext *= ratio;
     let f: number, g: number, h: number;
     if (x < SERIES_LIMIT && x > -SERIES_LIMIT) {
       // f = Σ u^(m−1) s^m/m!, g = ∂f/∂u, h = ∂²f/∂u², by Horner in x = u·s.
@@ -67,7 +84,7 @@ function evaluate(u: number, n: number): void {
       g = s * s * (1 / 2 + x * (1 / 3 + x * (1 / 8 + x * (1 / 30 + x * (1 / 144 + x * (1 / 840 + x * (1 / 5760 + x / 45360)))))));
       h = s * s * s * (1 / 3 + x * (1 / 4 + x * (1 / 10 + x * (1 / 36 + x * (1 / 168 + x * (1 / 960 + x * (1 / 6480 + x / 50400)))))));
     } else {
-      const e = Math.exp(x);
+      const e = uniform ? eRec : Math.exp(x);
       f = (e - 1) / u;
       g = (s * e - f) / u;
       h = (s * s * e - 2 * g) / u;
@@ -101,7 +118,12 @@ function newton(u0: number, n: number, counter: { iterations: number }): number 
     let step = phi2 < 0 ? -phi1 / phi2 : Math.sign(phi1) * MAX_STEP;
     if (step > MAX_STEP) step = MAX_STEP;
     else if (step < -MAX_STEP) step = -MAX_STEP;
-    if (phi2 < 0 && Math.abs(step) < 1e-10 * (1 + Math.abs(u))) return u;
+    if (phi2 < 0 && Math.abs(step) < 1e-6) {
+      // Newton converges quadratically: after a step below 1e−6 the remaining error in u is
+      // ~1e−12, far below what changes a slope. Take the step and stop.
+      if (step !== 0) evaluate(u + step, n);
+      return u + step;
+    }
     const phiCur = phi;
     const tolerance = 1e-14 * Math.max(1, Math.abs(phiCur));
     let accepted = false;
@@ -109,7 +131,10 @@ function newton(u0: number, n: number, counter: { iterations: number }): number 
       let ut = u + step;
       if (ut > SEARCH_MAX) ut = SEARCH_MAX;
       else if (ut < SEARCH_MIN) ut = SEARCH_MIN;
-      if (ut === u) return u; // pinned at the search bound: the caller rejects it as outside
+      if (ut === u) {
+        evaluate(u, n);
+        return u; // pinned at the search bound: the caller rejects it as outside
+      }
       evaluate(ut, n);
       if (phi >= phiCur - tolerance && Number.isFinite(phi)) {
         u = ut;
@@ -150,6 +175,7 @@ export function fitExponentialRaw(
     sBuf[i] = tau[i] / tauMax;
     yBuf[i] = y[i] - my;
   }
+  detectUniform(n);
   const counter = { iterations: 0 };
   let usedGrid = false;
   const start = Number.isFinite(uStart) ? Math.min(5, Math.max(-20, uStart)) : 0;
@@ -174,16 +200,20 @@ export function fitExponentialRaw(
       return { ok: false, reason: `optimum p3·τmax = ${u.toFixed(2)} not inside (${EXP_U_MIN}, ${EXP_U_MAX})` };
     }
   }
-  evaluate(u, n);
+  // The registers hold the evaluation at u (newton leaves them there).
   const bScaled = sfy / sff;
   const a = my - (bScaled * fSum) / n;
   let rss = 0;
+  const ratio = uniform ? Math.exp(u * ds) : 0;
+  let eNext = uniform ? Math.exp(u * s0) : 0;
   for (let i = 0; i < n; i++) {
     const s = sBuf[i];
     const x = u * s;
+    const eRec = eNext;
+    eNext *= ratio;
     const f = x < SERIES_LIMIT && x > -SERIES_LIMIT
       ? s * (1 + x * (1 / 2 + x * (1 / 6 + x * (1 / 24 + x * (1 / 120 + x * (1 / 720 + x * (1 / 5040 + x / 40320)))))))
-      : (Math.exp(x) - 1) / u;
+      : ((uniform ? eRec : Math.exp(x)) - 1) / u;
     const r = y[i] - a - bScaled * f;
     rss += r * r;
   }
