@@ -11,6 +11,7 @@ import { createPassport } from '../auth/passport-setup';
 import { sessionMiddleware } from '../auth/session-middleware';
 import { registerCampaignRoutes } from '../campaigns/campaign-routes';
 import { registerRecordRoutes } from '../records/record-routes';
+import { registerSyncRoutes } from '../sync/sync-routes';
 import { registerUserRoutes } from '../users/user-routes';
 import type { ServerConfig } from './config';
 import { apiNotFound, errorMiddleware } from './errors';
@@ -62,6 +63,7 @@ export function createApp(ds: DataSource, config: ServerConfig): AppHandle {
   registerUserRoutes(registry, ds);
   registerCampaignRoutes(registry, ds); // before the generic /:id routes
   registerRecordRoutes(registry, ds);
+  registerSyncRoutes(registry, ds);
 
   app.use('/api', apiNotFound);
   if (config.staticDir) serveApp(app, config.staticDir);

@@ -63,15 +63,18 @@ export function synthesizeClosure(input: SeriesInput, rng: Rng): ClosureSeries {
   const factor = fluxPerSlope(input.pressureKpa, tempAt(settleS), input.volumeCm3, input.areaCm2, h2oAt(settleS) / 1000);
   let flux = input.fluxUmolM2S;
   if (kind === 'flat') flux = rng.uniform(-0.03, 0.03);
+  // Stale headspace: a smaller soil–air gradient, so a smaller apparent flux.
+  if (kind === 'start-above') flux *= 0.7;
   if (kind === 'uptake') flux = -Math.abs(input.fluxUmolM2S);
   const slope = flux / factor;
   // Curvature of the saturating curve, s⁻¹: gentle for a sealed chamber, strong for a leak.
   const k = kind === 'leak' ? rng.uniform(0.02, 0.03) : kind === 'flat' ? 0 : rng.uniform(0.0015, 0.004);
 
-  // Start a few ppm above ambient (breath of the soil surface under the chamber as it seats).
-  const startDry = (input.ambientPpm + rng.uniform(0, 6)) / (1 - h2oAt(0) / 1000);
+  // Start a few ppm above ambient (the soil surface under the chamber as it seats) — or, when the
+  // chamber was not aired after the last closure, far above it.
+  const stale = kind === 'start-above' ? rng.uniform(140, 200) : 0;
+  const startDry = (input.ambientPpm + stale + rng.uniform(0, 6)) / (1 - h2oAt(0) / 1000);
   const atSettle = startDry - slope * saturating(k, -settleS);
-  const breath = kind === 'start-above' ? rng.uniform(150, 220) : 0;
   const spikeAt = kind === 'spike' ? rng.int(Math.ceil(settleS) + 15, n - 10) : -1;
   const spikeSize = rng.uniform(25, 60);
 
@@ -84,7 +87,6 @@ export function synthesizeClosure(input: SeriesInput, rng: Rng): ClosureSeries {
     const t = i;
     let dry = atSettle + slope * saturating(k, t - settleS);
     dry += 1.5 * Math.exp(-t / 2); // pressure pulse as the chamber seats
-    dry += breath * Math.exp(-t / 12); // exhaled air near the inlet, mixing away
     if (i === spikeAt) dry += spikeSize;
     const h2o = h2oAt(t);
     tS.push(t);

@@ -1,0 +1,83 @@
+import { In, type DataSource } from 'typeorm';
+import type { SessionUser } from '../../shared/auth/roles';
+import { SYNC_ENTITIES, type EntityName } from '../../shared/model/entities';
+import type { PullAnswer, PullChange } from '../../shared/sync/sync-wire';
+import { AppError } from '../core/errors';
+import { ENTITY_DEFS } from '../records/entity-registry';
+import { toWire } from '../records/wire';
+import { knownSites, recordPull } from './device-service';
+
+interface LogRow { seq: string; entity: EntityName; record_id: string; rev: string; deleted: boolean }
+
+const resetAnswer = (message: string) => new AppError(410, message, undefined, { reset: true });
+
+/**
+ * Reads the change log after the device's cursor, in pages, only for sites the user may read.
+ * Sequence numbers follow commit order (see ChangeBuffer), so a page never skips a late commit.
+ * A record changed several times is sent once, at its current state.
+ */
+export async function pullChanges(ds: DataSource, user: SessionUser, deviceId: string, cursor: number, limit: number): Promise<PullAnswer> {
+  const [{ min_seq }] = await ds.query(`SELECT min_seq FROM sync_horizon`);
+  if (cursor > 0 && cursor < Number(min_seq)) {
+    throw resetAnswer('This device has been away longer than the server keeps deletions: download everything again (unsent work stays on the device).');
+  }
+  const readable = user.siteIds;
+  const known = await knownSites(ds.manager, deviceId, user.id);
+  const gained = cursor > 0 && known !== null && readable.some((s) => !known.includes(s));
+  if (gained) throw resetAnswer('You were given access to another site: download everything again (unsent work stays on the device).');
+  const lost = cursor > 0 && known ? known.filter((s) => !readable.includes(s)) : [];
+
+  const removals = lost.length ? await accessRemovals(ds, lost, cursor) : [];
+  const rows: LogRow[] = await ds.query(
+    `SELECT seq, entity, record_id, rev, deleted FROM change_log
+      WHERE seq > $1 AND site_id = ANY($2::uuid[]) AND entity = ANY($3::text[]) ORDER BY seq LIMIT $4`,
+    [cursor, readable, SYNC_ENTITIES, limit + 1]);
+  const more = rows.length > limit;
+  const page = rows.slice(0, limit);
+  const changes = [...removals, ...(await currentStates(ds, page))];
+  let next = page.length ? Number(page[page.length - 1].seq) : cursor;
+  if (!more) {
+    // Every readable change after the cursor is in this page; later rows of other sites can be passed over.
+    const [{ max }] = await ds.query(`SELECT coalesce(max(seq), 0) AS max FROM change_log`);
+    next = Math.max(next, Number(max));
+  }
+  await recordPull(ds.manager, deviceId, user.id, next, readable);
+  return { changes, cursor: next, more };
+}
+
+/** Latest entry per record in the page, with its current row; superseded entries come later anyway. */
+async function currentStates(ds: DataSource, page: LogRow[]): Promise<PullChange[]> {
+  const last = new Map<string, LogRow>();
+  for (const r of page) {
+    const key = `${r.entity}:${r.record_id}`;
+    last.delete(key);
+    last.set(key, r);
+  }
+  const byEntity = new Map<EntityName, string[]>();
+  for (const r of last.values()) byEntity.set(r.entity, [...(byEntity.get(r.entity) ?? []), r.record_id]);
+  const current = new Map<string, Record<string, unknown>>();
+  for (const [entity, ids] of byEntity) {
+    for (const row of await ds.getRepository(ENTITY_DEFS[entity].target).findBy({ id: In(ids) })) current.set(`${entity}:${row['id']}`, toWire(row));
+  }
+  const out: PullChange[] = [];
+  for (const [key, r] of last) {
+    const rec = current.get(key);
+    if (!rec || Number(rec['rev']) > Number(r.rev)) continue;
+    out.push(rec['deleted']
+      ? { seq: Number(r.seq), entity: r.entity, id: r.record_id, rev: Number(rec['rev']), deleted: true, record: null, reason: 'deleted' }
+      : { seq: Number(r.seq), entity: r.entity, id: r.record_id, rev: Number(rec['rev']), deleted: false, record: rec });
+  }
+  return out.sort((a, b) => a.seq - b.seq);
+}
+
+/** Every record of sites the user can no longer read, sent as removals so the device drops them. */
+async function accessRemovals(ds: DataSource, lost: string[], cursor: number): Promise<PullChange[]> {
+  const out: PullChange[] = [];
+  for (const entity of SYNC_ENTITIES) {
+    const d = ENTITY_DEFS[entity];
+    const column = entity === 'site' ? 'id' : 'site_id';
+    const rows: { id: string; rev: string }[] = await ds.query(`SELECT id, rev FROM ${d.table} WHERE ${column} = ANY($1::uuid[])`, [lost]);
+    for (const r of rows) out.push({ seq: cursor, entity, id: r.id, rev: Number(r.rev), deleted: true, record: null, reason: 'access' });
+  }
+  return out;
+}
