@@ -1,9 +1,10 @@
 /**
  * Wire shapes of the batch CLI (snake_case JSON) and their mapping to the flux engine.
- * Extra output fields beyond the issue contract: the quadratic fit, exponential parameters,
- * the fit window, the minimum detectable flux and the engine version.
+ * Beyond the contract, every result carries `min_detectable_flux_umol_m2_s` and the exponential
+ * p3; `--full` adds the quadratic fit, all model parameters and the fit window. The lean default
+ * matters: writing numbers is a third of a batch's cost.
  */
-import { engineVersion, fitClosure, type ClosureFitResult, type ClosureInput, type ModelFit } from '../../shared/flux/index';
+import { fitClosure, type ClosureFitResult, type ClosureInput, type ModelFit } from '../../shared/flux/index';
 
 export interface WireModel {
   slope_ppm_s: number;
@@ -19,14 +20,13 @@ export interface WireResult {
   id: unknown;
   linear: WireModel | null;
   exponential: WireModel | null;
-  quadratic: WireModel | null;
+  quadratic?: WireModel | null;
   exponential_rejected_reason: string | null;
   selected: { model: string; flux_umol_m2_s: number; slope_ppm_s: number; reason: string } | null;
   flags: string[];
   error: string | null;
-  window: { t0_s: number; first_t_s: number; last_t_s: number; n: number } | null;
+  window?: { t0_s: number; first_t_s: number; last_t_s: number; n: number } | null;
   min_detectable_flux_umol_m2_s: number | null;
-  engine_version: string;
 }
 
 type Run = Record<string, unknown>;
@@ -60,14 +60,12 @@ function wireModel(m: ModelFit | null, extra: Record<string, number>): WireModel
   return { slope_ppm_s: m.slopePpmS, flux_umol_m2_s: m.fluxUmolM2S, r2: m.r2, rmse: m.rmse, aic: m.aic, n: m.n, ...extra };
 }
 
-export function resultToWire(id: unknown, r: ClosureFitResult): WireResult {
+export function resultToWire(id: unknown, r: ClosureFitResult, full = false): WireResult {
   const e = r.exponential;
-  const q = r.quadratic;
-  return {
+  const out: WireResult = {
     id,
-    linear: wireModel(r.linear, r.linear ? { intercept_ppm: r.linear.interceptPpm } : {}),
-    exponential: wireModel(e, e ? { p1: e.p1, p2: e.p2, p3: e.p3, p3_tau_max: e.p3TauMax } : {}),
-    quadratic: wireModel(q, q ? { b0: q.b0, b1: q.b1, b2: q.b2 } : {}),
+    linear: wireModel(r.linear, full && r.linear ? { intercept_ppm: r.linear.interceptPpm } : {}),
+    exponential: wireModel(e, e ? (full ? { p1: e.p1, p2: e.p2, p3: e.p3, p3_tau_max: e.p3TauMax } : { p3: e.p3 }) : {}),
     exponential_rejected_reason: r.exponentialRejectedReason,
     selected: r.selected && {
       model: r.selected.model,
@@ -77,14 +75,18 @@ export function resultToWire(id: unknown, r: ClosureFitResult): WireResult {
     },
     flags: r.flags,
     error: r.error,
-    window: r.window && { t0_s: r.window.t0S, first_t_s: r.window.firstTS, last_t_s: r.window.lastTS, n: r.window.n },
     min_detectable_flux_umol_m2_s: r.minDetectableFluxUmolM2S,
-    engine_version: engineVersion,
   };
+  if (full) {
+    const q = r.quadratic;
+    out.quadratic = wireModel(q, q ? { b0: q.b0, b1: q.b1, b2: q.b2 } : {});
+    out.window = r.window && { t0_s: r.window.t0S, first_t_s: r.window.firstTS, last_t_s: r.window.lastTS, n: r.window.n };
+  }
+  return out;
 }
 
 /** One run in, one result out; a run that is not even an object still gets a result. */
-export function processRun(run: unknown): WireResult {
+export function processRun(run: unknown, full = false): WireResult {
   if (!run || typeof run !== 'object' || Array.isArray(run)) {
     return resultToWire(null, {
       linear: null,
@@ -97,7 +99,7 @@ export function processRun(run: unknown): WireResult {
       window: null,
       minDetectableFluxUmolM2S: null,
       fluxPerSlope: null,
-    });
+    }, full);
   }
   const r = run as Run;
   let result: ClosureFitResult;
@@ -107,5 +109,5 @@ export function processRun(run: unknown): WireResult {
     // The engine validates its input; this only guards the batch against an engine bug.
     result = { ...fitClosure({} as ClosureInput), error: `internal error: ${(err as Error).message}` };
   }
-  return resultToWire(r.id ?? null, result);
+  return resultToWire(r.id ?? null, result, full);
 }

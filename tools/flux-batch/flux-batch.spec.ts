@@ -73,6 +73,16 @@ describe('flux:batch CLI', () => {
     expect(nd.stdout.trim().split('\n')).toHaveLength(1);
   }, 60000);
 
+  it('adds the quadratic fit and the window with --full, and states the engine version', () => {
+    const out = run(JSON.stringify({ runs: [goodRun] }), ['--full']);
+    const doc = JSON.parse(out.stdout);
+    expect(doc.engine_version).toMatch(/^\d+\.\d+\.\d+$/);
+    expect(doc.results[0].quadratic.slope_ppm_s).toBeCloseTo(1, 8);
+    expect(doc.results[0].window).toEqual({ t0_s: 20, first_t_s: 20, last_t_s: 89, n: 70 });
+    const lean = JSON.parse(run(JSON.stringify({ runs: [goodRun] })).stdout).results[0];
+    expect(lean.quadratic).toBeUndefined();
+  }, 60000);
+
   it('exits 2 when the document is not {"runs": [...]}', () => {
     const out = run('[1,2,3]');
     expect(out.status).toBe(2);

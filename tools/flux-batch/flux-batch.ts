@@ -1,12 +1,16 @@
 /**
  * Batch flux CLI: `npm run --silent flux:batch < runs.json > results.json`.
  *   default  : stdin is {"runs":[…]}, stdout is {"results":[…]} in input order;
- *   --ndjson : one run per line in, one result per line out, streaming (bounded memory).
+ *   --ndjson : one run per line in, one result per line out, streaming (bounded memory);
+ *   --full   : add the quadratic fit, all model parameters and the fit window to each result.
+ * The batch document also carries the engine version: {"engine_version": …, "results": […]}.
  * Malformed JSON: exit 2 with a one-line message on stderr (in --ndjson mode the results of the
  * lines before it have already been written). A run that cannot be fitted is a result with
  * `invalid-input` and an error, never a crash.
  */
+import { engineVersion } from '../../shared/flux/index';
 import { processRun } from './batch-wire';
+import { forEachRun, MalformedJson } from './runs-splitter';
 
 const FLUSH_LINES = 512;
 
@@ -15,31 +19,42 @@ function fail(message: string): never {
   process.exit(2);
 }
 
-function readAll(): Promise<string> {
+function readAll(): Promise<Buffer> {
   return new Promise((resolve, reject) => {
     const chunks: Buffer[] = [];
     process.stdin.on('data', (c: Buffer) => chunks.push(c));
-    process.stdin.on('end', () => resolve(Buffer.concat(chunks).toString('utf8')));
+    process.stdin.on('end', () => resolve(Buffer.concat(chunks)));
     process.stdin.on('error', reject);
   });
 }
 
-async function runBatch(): Promise<void> {
-  const text = await readAll();
-  let doc: unknown;
+async function runBatch(full: boolean): Promise<void> {
+  const input = await readAll();
+  // Results are kept as joined chunks and written only once the whole document proved valid,
+  // so malformed input never leaves half an output behind.
+  const chunks: string[] = [];
+  let part: string[] = [];
+  let sawRuns: boolean;
   try {
-    doc = JSON.parse(text);
+    sawRuns = forEachRun(input, (run) => {
+      part.push(JSON.stringify(processRun(run, full)));
+      if (part.length >= FLUSH_LINES) {
+        chunks.push(part.join(','));
+        part = [];
+      }
+    });
   } catch (err) {
-    fail(`malformed JSON: ${(err as Error).message}`);
+    if (err instanceof MalformedJson) fail(`malformed JSON: ${err.message}`);
+    throw err;
   }
-  const runs = doc && typeof doc === 'object' ? (doc as { runs?: unknown }).runs : undefined;
-  if (!Array.isArray(runs)) fail('expected a JSON object {"runs": [...]}');
-  const parts: string[] = [];
-  for (let i = 0; i < runs.length; i++) parts.push(JSON.stringify(processRun(runs[i])));
-  process.stdout.write(`{"results":[${parts.join(',')}]}\n`);
+  if (!sawRuns) fail('expected a JSON object {"runs": [...]}');
+  if (part.length) chunks.push(part.join(','));
+  process.stdout.write(`{"engine_version":${JSON.stringify(engineVersion)},"results":[`);
+  for (let i = 0; i < chunks.length; i++) process.stdout.write(i === 0 ? chunks[i] : ',' + chunks[i]);
+  process.stdout.write(']}\n');
 }
 
-function runNdjson(): Promise<void> {
+function runNdjson(full: boolean): Promise<void> {
   return new Promise((resolve, reject) => {
     let pending = '';
     let lineNo = 0;
@@ -54,7 +69,7 @@ function runNdjson(): Promise<void> {
         process.stdout.write(out.join(''));
         fail(`malformed JSON on line ${lineNo}: ${(err as Error).message}`);
       }
-      out.push(JSON.stringify(processRun(run)) + '\n');
+      out.push(JSON.stringify(processRun(run, full)) + '\n');
       if (out.length >= FLUSH_LINES) {
         process.stdout.write(out.join(''));
         out = [];
@@ -83,9 +98,10 @@ function runNdjson(): Promise<void> {
 
 export async function main(argv: string[]): Promise<void> {
   const args = argv.slice(2);
-  const unknown = args.filter((a) => a !== '--ndjson');
-  if (unknown.length) fail(`unknown argument ${unknown[0]} (usage: flux-batch [--ndjson] < input)`);
-  await (args.includes('--ndjson') ? runNdjson() : runBatch());
+  const unknown = args.filter((a) => a !== '--ndjson' && a !== '--full');
+  if (unknown.length) fail(`unknown argument ${unknown[0]} (usage: flux-batch [--ndjson] [--full] < input)`);
+  const full = args.includes('--full');
+  await (args.includes('--ndjson') ? runNdjson(full) : runBatch(full));
 }
 
 if (require.main === module) {
