@@ -19,11 +19,11 @@ function fail(message: string): never {
   process.exit(2);
 }
 
-function readAll(): Promise<Buffer> {
+function readAll(): Promise<string> {
   return new Promise((resolve, reject) => {
     const chunks: Buffer[] = [];
     process.stdin.on('data', (c: Buffer) => chunks.push(c));
-    process.stdin.on('end', () => resolve(Buffer.concat(chunks)));
+    process.stdin.on('end', () => resolve(Buffer.concat(chunks).toString('utf8')));
     process.stdin.on('error', reject);
   });
 }

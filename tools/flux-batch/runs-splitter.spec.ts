@@ -2,7 +2,7 @@ import { forEachRun, MalformedJson } from './runs-splitter';
 
 function collect(text: string): { runs: unknown[]; sawRuns: boolean } {
   const runs: unknown[] = [];
-  const sawRuns = forEachRun(Buffer.from(text, 'utf8'), (r) => runs.push(r));
+  const sawRuns = forEachRun(text, (r) => runs.push(r));
   return { runs, sawRuns };
 }
 
