@@ -1,6 +1,7 @@
 import type { EntityManager, ObjectLiteral } from 'typeorm';
 import { seesAllSites, type Role } from '../../shared/auth/roles';
 import { DERIVED_FIELDS, ENTITY_FIELDS, type EntityName } from '../../shared/model/entities';
+import { CLOSURE_REVIEW_FIELDS } from '../../shared/model/field-records';
 import { fieldErrorsFromZod } from '../core/errors';
 import type { ChangeBuffer } from './change-buffer';
 import { ENTITY_DEFS, type EntityDef, type WriteAction } from './entity-registry';
@@ -107,9 +108,9 @@ async function createRecord(ctx: Ctx, op: WriteOp, incoming: Record<string, unkn
   if (guard) return guard;
   const derived = await deriveFields(ctx.em, d.name, next, null);
   const row = { ...next, ...derived, id: op.id, rev: 1, updatedAt: new Date(), updatedBy: ctx.actor.id, deleted: false };
-  await ctx.em.getRepository(d.target).insert(row);
-  ctx.changes.add({ entity: d.name, recordId: op.id, rev: 1, siteId, fields: Object.keys(next), deleted: false, userId: ctx.actor.id, deviceId: ctx.deviceId });
   const record = toWire(row);
+  await ctx.em.getRepository(d.target).insert({ ...row }); // insert() writes DB defaults back into its argument
+  ctx.changes.add({ entity: d.name, recordId: op.id, rev: 1, siteId, fields: Object.keys(next), deleted: false, userId: ctx.actor.id, deviceId: ctx.deviceId });
   return { status: 'applied', rev: 1, record, warnings: await warningsFor(ctx.em, d.name, record) };
 }
 
@@ -121,6 +122,11 @@ function repeatedCreate(d: EntityDef, current: Record<string, unknown>, incoming
   const differing = Object.keys(wanted).filter((k) => !sameValue(wanted[k], current[k]));
   if (!differing.length) return { status: 'duplicate', rev: Number(current['rev']), record: current };
   return conflict(differing, current);
+}
+
+/** The lab's review of a closure is not a field edit: a locked campaign still accepts it. */
+function reviewOnly(d: EntityDef, changed: string[]): boolean {
+  return d.name === 'closure' && changed.every((f) => (CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f));
 }
 
 function conflict(fields: string[], server: Record<string, unknown>): WriteOutcome {
@@ -161,7 +167,7 @@ async function updateRecord(ctx: Ctx, op: WriteOp, current: Record<string, unkno
   const guard = membershipDenied(ctx, siteId)
     ?? ruleDenied(ctx, 'update', changed, next)
     ?? (await checkReferences(ctx.em, d, siteId, next, changed))
-    ?? (d.name === 'campaign' ? null : await lockedCampaignMessage(ctx.em, d, next));
+    ?? (reviewOnly(d, changed) ? null : await lockedCampaignMessage(ctx.em, d, next));
   if (guard) return guard;
   const derived = await deriveFields(ctx.em, d.name, next, current);
   const patch = { ...Object.fromEntries(changed.map((k) => [k, next[k]])), ...derived, rev: rev + 1, updatedAt: new Date(), updatedBy: ctx.actor.id };
