@@ -20,7 +20,7 @@ export const QC_FLAGS = {
     'Exponential initial slope / linear slope > 1.5 (rule of thumb: a leak or a disturbance at closure).',
   'start-above-ambient':
     'First CO2 value more than the ambient margin (default 100 ppm) above ambient (common practice: breath near the inlet or a chamber not aired between closures).',
-  'low-r2': 'R² of the selected model below 0.9. Information only: near-zero fluxes have low R² and are valid.',
+  'low-r2': 'R² of the selected model below 0.9 (common-practice threshold). Information only: near-zero fluxes have low R² and are valid.',
   'offset-after': 'No offset set on or before the closure day: the earliest later offset set was used for the volume.',
   'default-pressure': 'Pressure was not measured: a default from site elevation (US Standard Atmosphere 1976) was used.',
 } as const;
