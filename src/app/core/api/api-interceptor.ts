@@ -48,7 +48,7 @@ export const apiInterceptor: HttpInterceptorFn = (req, next) => {
           connection.reportOffline();
         } else if (err instanceof HttpErrorResponse) {
           connection.reportOnline();
-          if (err.status === 403 && changesState && !retried && /csrf/i.test(serverMessage(err, ''))) {
+          if (err.status === 403 && changesState && !retried && /csrf|security token/i.test(serverMessage(err, ''))) {
             csrf.invalidate();
             return send(true);
           }

@@ -1,0 +1,189 @@
+/// <reference lib="dom" />
+// Callbacks passed to page.evaluate() run in the browser and use its DOM types.
+import { Page } from 'playwright-core';
+import {
+  DemoRole,
+  destinationNames,
+  goOffline,
+  installabilityErrors,
+  seriousAccessibilityProblems,
+  signInAs,
+  waitForServiceWorkerControl,
+} from './support/app-actions';
+import { RunningServer, startAppServer } from './support/app-server';
+import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
+
+// The project-level testTimeout in jest.config.js does not reach these tests (measured: 5 s).
+jest.setTimeout(120_000);
+
+let server: RunningServer;
+let browser: Browser | null = null;
+
+beforeAll(async () => {
+  server = await startAppServer();
+});
+
+afterAll(async () => {
+  await server?.stop();
+});
+
+afterEach(async () => {
+  await browser?.close();
+  browser = null;
+});
+
+/** One fresh browser profile per test; a failing step leaves a screenshot in test-results/. */
+async function inBrowser(name: string, body: (page: Page, b: Browser) => Promise<void>): Promise<void> {
+  browser = await launchBrowser();
+  const b = browser;
+  await withScreenshotOnFailure(b.page, name, () => body(b.page, b));
+}
+
+async function userMenuText(page: Page): Promise<string> {
+  return (await page.getByTestId('user-menu').innerText()).trim();
+}
+
+const expected: Record<DemoRole, { names: string[]; landing: string }> = {
+  crew: { names: ['Walk'], landing: '/walk' },
+  lead: { names: ['Walk', 'Board', 'Setup'], landing: '/walk' },
+  lab: { names: ['Bench'], landing: '/bench' },
+  admin: { names: ['Setup'], landing: '/setup' },
+};
+
+describe('App shell in Chromium', () => {
+  for (const role of Object.keys(expected) as DemoRole[]) {
+    it(`when the ${role} demo user signs in, then they see exactly their destinations and can sign out`, async () => {
+      await inBrowser(`destinations-${role}`, async (page) => {
+        const user = await signInAs(page, server.baseUrl, role);
+
+        expect(new URL(page.url()).pathname).toBe(expected[role].landing);
+        expect(await destinationNames(page)).toEqual(expected[role].names);
+        expect(await userMenuText(page)).toContain(user.displayName);
+
+        await page.getByTestId('user-menu').click();
+        await page.getByRole('menuitem', { name: 'Sign out' }).click();
+        await page.waitForURL((url) => url.pathname === '/sign-in');
+        expect(await page.evaluate(() => localStorage.getItem('fw.session'))).toBeNull();
+      });
+    });
+  }
+
+  it('when a crew user opens Board by its address, then they land on Walk', async () => {
+    await inBrowser('crew-board-address', async (page) => {
+      await signInAs(page, server.baseUrl, 'crew');
+      await page.goto(`${server.baseUrl}/board`, { waitUntil: 'load' });
+      await page.getByRole('heading', { name: 'Walk' }).waitFor();
+      expect(new URL(page.url()).pathname).toBe('/walk');
+    });
+  });
+
+  it('when the crew reloads offline after the service worker took control, then Walk opens with their name', async () => {
+    await inBrowser('crew-offline-reload', async (page, b) => {
+      const user = await signInAs(page, server.baseUrl, 'crew');
+      await waitForServiceWorkerControl(page);
+
+      await goOffline(b.context);
+      await page.reload({ waitUntil: 'load' });
+      await page.getByRole('heading', { name: 'Walk' }).waitFor({ timeout: 15_000 });
+
+      expect(new URL(page.url()).pathname).toBe('/walk');
+      expect(await userMenuText(page)).toContain(user.displayName);
+      expect(await destinationNames(page)).toEqual(['Walk']);
+      // The app's own fonts came from the worker's cache, not from any other host.
+      const fonts = await page.evaluate(async () => ({
+        text: (await document.fonts.load('16px "Source Sans 3"')).length,
+        icons: (await document.fonts.load('24px "Material Symbols Outlined"')).length,
+      }));
+      expect(fonts.text).toBeGreaterThan(0);
+      expect(fonts.icons).toBeGreaterThan(0);
+    });
+  });
+
+  it('when a request fails while offline, then "Offline" is shown and no error dialog', async () => {
+    await inBrowser('offline-request', async (page, b) => {
+      await signInAs(page, server.baseUrl, 'lead');
+      await goOffline(b.context);
+
+      const failed = page.waitForEvent('requestfailed', (r) => r.url().includes('/api/'));
+      await page.getByTestId('user-menu').click();
+      await page.getByRole('menuitem', { name: 'Refresh account and sites' }).click();
+      expect((await failed).url()).toContain('/api/auth/me');
+
+      await page.getByTestId('connection-status').waitFor();
+      expect(await page.getByTestId('connection-status').innerText()).toContain('Offline');
+      // The snackbar (Material keeps a second copy for screen readers, hence first()).
+      await page.getByText('Offline — the server cannot be reached').first().waitFor();
+      expect(await page.getByRole('dialog').count()).toBe(0);
+      expect(await page.getByRole('alertdialog').count()).toBe(0);
+      // The screen the user was on stays.
+      expect(new URL(page.url()).pathname).toBe('/walk');
+      await page.keyboard.press('Escape');
+    });
+  });
+
+  it('when installed from the shell, then Chromium reports no installability errors', async () => {
+    await inBrowser('installability', async (page, b) => {
+      await signInAs(page, server.baseUrl, 'crew');
+      await waitForServiceWorkerControl(page);
+      expect(await installabilityErrors(b.context, page)).toEqual([]);
+    });
+  });
+
+  it('when checked with axe-core, then the sign-in page and the shell have no serious or critical violation', async () => {
+    await inBrowser('accessibility', async (page) => {
+      await page.goto(`${server.baseUrl}/sign-in`, { waitUntil: 'networkidle' });
+      expect(await seriousAccessibilityProblems(page)).toEqual([]);
+
+      // The sign-in page with an error message on it.
+      await page.getByLabel('E-mail').fill('crew@fluxwalk.example');
+      await page.getByLabel('Password').fill('not-the-password');
+      await page.getByRole('button', { name: 'Sign in' }).click();
+      await page.getByRole('alert').filter({ hasText: /./ }).waitFor();
+      expect(await seriousAccessibilityProblems(page)).toEqual([]);
+
+      await signInAs(page, server.baseUrl, 'lead');
+      expect(await seriousAccessibilityProblems(page)).toEqual([]);
+
+      await page.getByTestId('user-menu').click();
+      await page.getByRole('menu').waitFor();
+      expect(await seriousAccessibilityProblems(page)).toEqual([]);
+      await page.keyboard.press('Escape');
+    });
+  });
+
+  it('when outdoor contrast and a site are chosen, then both are remembered after a reload', async () => {
+    await inBrowser('remembered-choices', async (page) => {
+      await signInAs(page, server.baseUrl, 'lead');
+      await page.getByTestId('user-menu').click();
+      await page.getByRole('menuitemcheckbox', { name: 'Outdoor contrast' }).click();
+      expect(await page.evaluate(() => document.documentElement.classList.contains('fw-outdoor'))).toBe(true);
+
+      await page.getByTestId('user-menu').click();
+      const sites = page.getByRole('menuitemradio');
+      const siteCount = await sites.count();
+      expect(siteCount).toBeGreaterThan(0);
+      const lastSite = (await sites.nth(siteCount - 1).innerText()).replace(/radio_button_\w+/, '').trim();
+      await sites.nth(siteCount - 1).click();
+
+      await page.reload({ waitUntil: 'load' });
+      await page.getByRole('navigation', { name: 'Screens' }).waitFor();
+      expect(await page.evaluate(() => document.documentElement.classList.contains('fw-outdoor'))).toBe(true);
+      expect((await page.getByTestId('current-site').innerText()).trim()).toBe(lastSite);
+      // Outdoor contrast must stay accessible too.
+      expect(await seriousAccessibilityProblems(page)).toEqual([]);
+    });
+  });
+
+  it('when the app runs, then it asks no host other than its own server', async () => {
+    await inBrowser('own-host-only', async (page) => {
+      const hosts = new Set<string>();
+      page.on('request', (r) => {
+        const url = new URL(r.url());
+        if (url.protocol.startsWith('http')) hosts.add(url.host);
+      });
+      await signInAs(page, server.baseUrl, 'lead');
+      await page.waitForLoadState('networkidle');
+      expect([...hosts]).toEqual([new URL(server.baseUrl).host]);
+    });
+  });
+});

@@ -1,0 +1,94 @@
+import { ChildProcess, spawn } from 'node:child_process';
+import { existsSync } from 'node:fs';
+import { createServer } from 'node:net';
+import path from 'node:path';
+import { resetDatabase } from '../../support/reset-database';
+
+const ROOT = path.resolve(__dirname, '../../..');
+const SERVER_MAIN = path.join(ROOT, 'dist/server/server/main.js');
+const APP_INDEX = path.join(ROOT, 'dist/app/browser/index.html');
+
+export interface RunningServer {
+  baseUrl: string;
+  stop(): Promise<void>;
+}
+
+function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const probe = createServer();
+    probe.once('error', reject);
+    probe.listen(0, '127.0.0.1', () => {
+      const addr = probe.address();
+      const port = typeof addr === 'object' && addr ? addr.port : 0;
+      probe.close(() => resolve(port));
+    });
+  });
+}
+
+async function waitForHealth(baseUrl: string, child: ChildProcess, log: () => string): Promise<void> {
+  const deadline = Date.now() + 30_000;
+  while (Date.now() < deadline) {
+    if (child.exitCode !== null) throw new Error(`the server exited (${child.exitCode}):\n${log()}`);
+    try {
+      const res = await fetch(`${baseUrl}/api/health`);
+      if (res.ok) return;
+    } catch {
+      // not listening yet
+    }
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  throw new Error(`the server did not answer /api/health within 30 s:\n${log()}`);
+}
+
+/**
+ * The real server (tsc-compiled) serving the production build on a free loopback port, against
+ * a freshly reset E2E database with the demo scenario. Files run in band, so each file resets
+ * the database in its beforeAll and nothing leaks between files.
+ */
+export async function startAppServer(): Promise<RunningServer> {
+  const databaseUrl = process.env['E2E_DATABASE_URL'];
+  if (!databaseUrl) throw new Error('E2E_DATABASE_URL is not set: run the browser tests through `npm test`');
+  for (const file of [SERVER_MAIN, APP_INDEX]) {
+    if (!existsSync(file)) throw new Error(`${path.relative(ROOT, file)} is missing: run \`npm run build\` first`);
+  }
+  await resetDatabase(databaseUrl);
+  const port = await freePort();
+  let output = '';
+  const child = spawn(process.execPath, [SERVER_MAIN], {
+    cwd: ROOT,
+    env: {
+      ...process.env,
+      PORT: String(port),
+      HOST: '127.0.0.1',
+      DATABASE_URL: databaseUrl,
+      STATIC_DIR: path.dirname(APP_INDEX),
+      NODE_ENV: 'production',
+    },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  const keep = (chunk: Buffer) => {
+    output = (output + chunk.toString()).slice(-4000);
+  };
+  child.stdout?.on('data', keep);
+  child.stderr?.on('data', keep);
+  const baseUrl = `http://127.0.0.1:${port}`;
+  try {
+    await waitForHealth(baseUrl, child, () => output);
+  } catch (err) {
+    child.kill('SIGKILL');
+    throw err;
+  }
+  return {
+    baseUrl,
+    stop: () =>
+      new Promise<void>((resolve) => {
+        if (child.exitCode !== null) return resolve();
+        const timer = setTimeout(() => child.kill('SIGKILL'), 5000);
+        child.once('exit', () => {
+          clearTimeout(timer);
+          resolve();
+        });
+        child.kill('SIGTERM');
+      }),
+  };
+}
