@@ -17,14 +17,18 @@ export function dayOfYear(ms: number): number {
   return (ms - YEAR_START_MS) / DAY_MS;
 }
 
+const phases = new Map<string, number[]>();
+
 /** Fixed-period sinusoids with hashed phases: a weather "anomaly" that wanders over days. */
 function anomaly(ms: number, label: string, periodsDays: readonly number[], amplitudes: readonly number[]): number {
+  let phase = phases.get(label);
+  if (!phase) {
+    phase = periodsDays.map((_, i) => ((hashString(`${label}:${i}`) % 10000) / 10000) * 2 * Math.PI);
+    phases.set(label, phase);
+  }
   const d = dayOfYear(ms);
   let sum = 0;
-  for (let i = 0; i < periodsDays.length; i++) {
-    const phase = ((hashString(`${label}:${i}`) % 10000) / 10000) * 2 * Math.PI;
-    sum += amplitudes[i] * Math.sin((2 * Math.PI * d) / periodsDays[i] + phase);
-  }
+  for (let i = 0; i < periodsDays.length; i++) sum += amplitudes[i] * Math.sin((2 * Math.PI * d) / periodsDays[i] + phase[i]);
   return sum;
 }
 
@@ -99,8 +103,9 @@ export function saturationVapourKpa(tempC: number): number {
 export function airH2oMmolMol(ms: number): number {
   const t = airTempC(ms);
   const hourUtc = ((ms % DAY_MS) + DAY_MS) % DAY_MS / 3_600_000;
-  const rh = 0.78 - 0.12 * Math.cos((2 * Math.PI * (hourUtc - 13)) / 24);
-  return Math.min(24, Math.max(5, ((rh * saturationVapourKpa(t)) / pressureKpa(ms)) * 1000));
+  const rh = 0.74 - 0.12 * Math.cos((2 * Math.PI * (hourUtc - 13)) / 24);
+  // Capped where a temperate summer's dew point tops out (≈ 16 °C), so the headspace stays below ~20 mmol/mol.
+  return Math.min(18.5, Math.max(5, ((rh * saturationVapourKpa(t)) / pressureKpa(ms)) * 1000));
 }
 
 /**

@@ -90,12 +90,7 @@ export function buildLayout(seed = 20260401): DemoLayout {
       loopVolumeCm3: p.loopVolumeCm3, settleS: p.settleS, closureLengthS: p.closureLengthS, footprintAreaCm2: null,
     }));
   }
-  writes.push(updateOp('site', site, 'admin', {
-    latitude: SITE_LAT, longitude: SITE_LON, defaultProfileId: PROFILES[0].id,
-    safetyNote: 'Check the forecast before leaving: no field work with thunder audible or heat warnings in force. '
-      + 'Work in pairs beyond the station fence or tell the station where you are. Ticks are common in the scrub edge: '
-      + 'check yourself after each day. Follow the station safety plan.',
-  }));
+  writes.push(updateOp('site', site, 'admin', { defaultProfileId: PROFILES[0].id }));
   const analyzerId = demoId('analyzer:A1');
   writes.push(createOp('analyzer', analyzerId, 'admin', {
     siteId: site, name: 'Analyzer A1 (orange case)', serial: 'AH-0713-2291', rangeMinPpm: 0, rangeMaxPpm: 3000,

@@ -67,8 +67,9 @@ export function synthesizeClosure(input: SeriesInput, rng: Rng): ClosureSeries {
   if (kind === 'start-above') flux *= 0.7;
   if (kind === 'uptake') flux = -Math.abs(input.fluxUmolM2S);
   const slope = flux / factor;
-  // Curvature of the saturating curve, s⁻¹: gentle for a sealed chamber, strong for a leak.
-  const k = kind === 'leak' ? rng.uniform(0.02, 0.03) : kind === 'flat' ? 0 : rng.uniform(0.0015, 0.004);
+  // Curvature of the saturating curve, s⁻¹: from nearly straight to gentle for a sealed chamber
+  // (so the lab sees both linear and exponential selections), strong for a leak.
+  const k = kind === 'leak' ? rng.uniform(0.02, 0.03) : kind === 'flat' ? 0 : rng.uniform(0.0003, 0.004);
 
   // Start a few ppm above ambient (the soil surface under the chamber as it seats) — or, when the
   // chamber was not aired after the last closure, far above it.
