@@ -1,13 +1,18 @@
 import { provideHttpClient, withInterceptors } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
-import { TestBed } from '@angular/core/testing';
-import { MatTabNavBarHarness } from '@angular/material/tabs/testing';
+import { ComponentFixture, TestBed } from '@angular/core/testing';
+import { MatButtonHarness } from '@angular/material/button/testing';
 import { provideRouter } from '@angular/router';
 import { apiInterceptor } from '../../core/api/api-interceptor';
 import { Role } from '../../core/auth/session-user';
 import { rememberOnDevice, testUser } from '../../core/auth/testing/demo-sessions';
 import { Shell } from './shell';
+
+function destinationLinks(fixture: ComponentFixture<Shell>): Promise<MatButtonHarness[]> {
+  const nav = TestbedHarnessEnvironment.loader(fixture).getChildLoader('nav[aria-label=Screens]');
+  return nav.then((loader) => loader.getAllHarnesses(MatButtonHarness));
+}
 
 async function destinationLabelsFor(roles: Role[]): Promise<string[]> {
   localStorage.clear();
@@ -17,8 +22,7 @@ async function destinationLabelsFor(roles: Role[]): Promise<string[]> {
     providers: [provideRouter([]), provideHttpClient(withInterceptors([apiInterceptor])), provideHttpClientTesting()],
   });
   const fixture = TestBed.createComponent(Shell);
-  const nav = await TestbedHarnessEnvironment.loader(fixture).getHarness(MatTabNavBarHarness);
-  const links = await nav.getLinks();
+  const links = await destinationLinks(fixture);
   // The icon ligature is text too; the label is what the user reads.
   const labels = await Promise.all(links.map(async (l) => (await l.host()).text({ exclude: 'mat-icon' })));
   TestBed.inject(HttpTestingController).match(() => true); // the start-up refresh is not under test here
@@ -68,8 +72,7 @@ describe('Shell start-up', () => {
     await new Promise((r) => setTimeout(r, 0));
     await fixture.whenStable();
 
-    const nav = await TestbedHarnessEnvironment.loader(fixture).getHarness(MatTabNavBarHarness);
-    expect(await nav.getLinks()).toHaveLength(3);
+    expect(await destinationLinks(fixture)).toHaveLength(3);
     expect(fixture.nativeElement.querySelector('[data-testid=current-site]').textContent.trim()).toBe('Fen Edge');
     expect(JSON.parse(localStorage.getItem('fw.session')!).user.roles).toEqual(['crew', 'lead']);
   });

@@ -1,6 +1,6 @@
 import { ChangeDetectionStrategy, Component, OnInit, computed, inject } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
-import { MatTabsModule } from '@angular/material/tabs';
 import { MatToolbarModule } from '@angular/material/toolbar';
 import { RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
 import { ConnectionStatus } from '../../core/api/connection-status';
@@ -14,8 +14,8 @@ import { UserMenu } from './user-menu';
 @Component({
   selector: 'fw-shell',
   imports: [
+    MatButtonModule,
     MatIconModule,
-    MatTabsModule,
     MatToolbarModule,
     RouterLink,
     RouterLinkActive,
