@@ -1,5 +1,5 @@
 import { Routes } from '@angular/router';
-import { destinationGuard, homeRedirect, signedInGuard, signedOutGuard } from './core/auth/auth-guards';
+import { destinationGuard, homeRedirect, noDestinationsGuard, signedInGuard, signedOutGuard } from './core/auth/auth-guards';
 
 /** One lazy chunk per screen family; the guards read the remembered user, so they work offline. */
 export const routes: Routes = [
@@ -41,6 +41,7 @@ export const routes: Routes = [
       },
       {
         path: 'no-destinations',
+        canActivate: [noDestinationsGuard],
         title: 'Fluxwalk',
         loadComponent: () => import('./features/shell/no-destinations').then((m) => m.NoDestinations),
       },

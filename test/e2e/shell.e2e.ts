@@ -79,7 +79,9 @@ describe('App shell in Chromium', () => {
 
   it('when the crew reloads offline after the service worker took control, then Walk opens with their name', async () => {
     await inBrowser('crew-offline-reload', async (page, b) => {
-      const user = await signInAs(page, server.baseUrl, 'crew');
+      // From the bare address, as someone opening the installed app would.
+      const user = await signInAs(page, server.baseUrl, 'crew', '/');
+      expect(new URL(page.url()).pathname).toBe('/walk');
       await waitForServiceWorkerControl(page);
 
       await goOffline(b.context);

@@ -13,8 +13,8 @@ export interface SignedInUser {
 }
 
 /** Signs in through the real form, as a person would, and returns the user the server sent. */
-export async function signInAs(page: Page, baseUrl: string, who: DemoRole): Promise<SignedInUser> {
-  await page.goto(`${baseUrl}/sign-in`, { waitUntil: 'load' });
+export async function signInAs(page: Page, baseUrl: string, who: DemoRole, startAt = '/sign-in'): Promise<SignedInUser> {
+  await page.goto(`${baseUrl}${startAt}`, { waitUntil: 'load' });
   await page.getByLabel('E-mail').fill(`${who}@fluxwalk.example`);
   await page.getByLabel('Password').fill(DEMO_PASSWORD);
   const [login] = await Promise.all([

@@ -25,8 +25,18 @@ export function destinationGuard(key: DestinationKey): CanActivateFn {
   };
 }
 
-/** `''` inside the shell: the user's first destination. */
+/**
+ * `''` inside the shell: the user's first destination. Redirects run while routes are matched,
+ * before the shell's guard, so a signed-out visitor is sent to sign-in here as well.
+ */
 export const homeRedirect: RedirectFunction = () => {
   const auth = inject(AuthStore);
-  return inject(Router).parseUrl(homePathFor(auth.roles()));
+  return inject(Router).parseUrl(auth.signedIn() ? homePathFor(auth.roles()) : '/sign-in');
+};
+
+/** The "no screens for this account" page only for accounts that really have none. */
+export const noDestinationsGuard: CanActivateFn = () => {
+  const auth = inject(AuthStore);
+  const home = homePathFor(auth.roles());
+  return home === '/no-destinations' ? true : inject(Router).parseUrl(home);
 };
