@@ -1,5 +1,5 @@
 import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
-import { FormControl, ReactiveFormsModule, Validators } from '@angular/forms';
+import { FormControl, FormGroup, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialogModule, MatDialogRef } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -13,12 +13,12 @@ import { describeSignInError } from '../sign-in/sign-in-error';
   imports: [MatButtonModule, MatDialogModule, MatFormFieldModule, MatInputModule, ReactiveFormsModule],
   template: `
     <h2 mat-dialog-title>Sign in again</h2>
-    <form (ngSubmit)="signInAgain()">
+    <form [formGroup]="form" (ngSubmit)="signInAgain()">
       <mat-dialog-content>
         <p>Signed in on this device as <strong>{{ auth.user()?.email }}</strong>.</p>
         <mat-form-field appearance="outline">
           <mat-label>Password</mat-label>
-          <input matInput type="password" autocomplete="current-password" [formControl]="password" required />
+          <input matInput type="password" autocomplete="current-password" formControlName="password" required />
         </mat-form-field>
         <div role="alert" class="problem">{{ problem() }}</div>
       </mat-dialog-content>
@@ -38,6 +38,8 @@ export class ReauthDialog {
   protected readonly auth = inject(AuthStore);
   private readonly ref = inject(MatDialogRef<ReauthDialog>);
   protected readonly password = new FormControl('', { nonNullable: true, validators: Validators.required });
+  // [formGroup] gives the form its ngSubmit; a bare <form> would do a native submit and reload.
+  protected readonly form = new FormGroup({ password: this.password });
   protected readonly busy = signal(false);
   protected readonly problem = signal('');
 

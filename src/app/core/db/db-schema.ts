@@ -1,0 +1,129 @@
+import Dexie, { type Table } from 'dexie';
+import { SYNC_ENTITIES, type SyncEntityName } from '../../../../shared/model/entities';
+
+/** A synced record as the device keeps it: the server's wire record with pending local edits laid over it. */
+export interface LocalRecord {
+  id: string;
+  /** The server's revision this copy is based on (0 for a record created here and not yet pushed). */
+  rev: number;
+  updatedAt?: string;
+  updatedBy?: string | null;
+  deleted?: boolean;
+  [field: string]: unknown;
+}
+
+/** One queued operation. At most one unsent op per record: later edits are merged into it. */
+export interface OutboxOp {
+  seq?: number;
+  opId: string;
+  entity: SyncEntityName;
+  id: string;
+  baseRev: number | null;
+  op: 'upsert' | 'delete';
+  fields: Record<string, unknown>;
+  /** Values of the edited fields at `baseRev` where known (shown as "base" if it conflicts). */
+  base: Record<string, unknown>;
+  /** Set when the op has gone out in a push: it may already be applied, so it is never merged into again. */
+  sentAt: string | null;
+  createdAt: string;
+  updatedAt: string;
+}
+
+export interface ConflictRow {
+  opId: string;
+  entity: SyncEntityName;
+  recordId: string;
+  /** The fields the server refused because it changed them too. */
+  fields: string[];
+  mine: Record<string, unknown>;
+  base: Record<string, unknown>;
+  /** The server's record when the conflict was reported (null when the server sent only its rev). */
+  theirs: Record<string, unknown> | null;
+  serverRev: number;
+  wasDelete: boolean;
+  at: string;
+}
+
+export interface RejectedOp {
+  opId: string;
+  entity: SyncEntityName;
+  id: string;
+  op: 'upsert' | 'delete';
+  fields: Record<string, unknown>;
+  baseRev: number | null;
+  message: string;
+  problems: { path: string; message: string }[];
+  at: string;
+}
+
+/** Ops the server acknowledged, so loading an old backup file does not queue them again. */
+export interface AckedOp {
+  opId: string;
+  at: string;
+}
+
+export interface MetaRow {
+  key: string;
+  value: unknown;
+}
+
+export const META = {
+  deviceId: 'deviceId',
+  cursor: 'pullCursor',
+  lastSync: 'lastSync',
+  schemaVersion: 'schemaVersion',
+  lastPull: 'lastPull',
+} as const;
+
+/** Indexes the screens query by; everything else is read by primary key. */
+const ENTITY_INDEXES: Partial<Record<SyncEntityName, string>> = {
+  collar: 'id, siteId, plotId, code',
+  collarEvent: 'id, siteId, collarId',
+  visit: 'id, siteId, collarId, campaignId',
+  offsetSet: 'id, siteId, visitId, collarId',
+  probeReading: 'id, siteId, visitId, collarId',
+  closure: 'id, siteId, visitId, collarId',
+  attachment: 'id, siteId, ownerId',
+  block: 'id, siteId',
+  plot: 'id, siteId',
+  treatment: 'id, siteId',
+  route: 'id, siteId',
+  campaign: 'id, siteId',
+};
+
+export const SCHEMA_VERSION = 1;
+
+/** One database per signed-in user, so a shared tablet keeps each person's work apart. */
+export function dbNameFor(userId: string): string {
+  return `fluxwalk-user-${userId}`;
+}
+
+export class FluxDb extends Dexie {
+  outbox!: Table<OutboxOp, number>;
+  meta!: Table<MetaRow, string>;
+  conflicts!: Table<ConflictRow, string>;
+  rejected!: Table<RejectedOp, string>;
+  acked!: Table<AckedOp, string>;
+
+  constructor(name: string, options?: ConstructorParameters<typeof Dexie>[1]) {
+    super(name, options);
+    const stores: Record<string, string> = {
+      outbox: '++seq, &opId, [entity+id]',
+      meta: 'key',
+      conflicts: 'opId, [entity+recordId]',
+      rejected: 'opId',
+      acked: 'opId, at',
+    };
+    for (const e of SYNC_ENTITIES) stores[e] = ENTITY_INDEXES[e] ?? 'id, siteId';
+    this.version(SCHEMA_VERSION).stores(stores);
+  }
+
+  records(entity: SyncEntityName): Table<LocalRecord, string> {
+    return this.table(entity);
+  }
+
+  /** Every table a record write may touch together with its outbox op. */
+  entityTables(): Table<LocalRecord, string>[] {
+    return SYNC_ENTITIES.map((e) => this.records(e));
+  }
+}

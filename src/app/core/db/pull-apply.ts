@@ -1,0 +1,79 @@
+import { SYNC_ENTITIES, type SyncEntityName } from '../../../../shared/model/entities';
+import type { PullAnswer } from '../../../../shared/sync/sync-wire';
+import { META, type FluxDb, type LocalRecord, type OutboxOp } from './db-schema';
+import { overlay } from './record-values';
+
+const KNOWN = new Set<string>(SYNC_ENTITIES);
+
+function opsByRecord(ops: OutboxOp[]): Map<string, OutboxOp[]> {
+  const map = new Map<string, OutboxOp[]>();
+  for (const op of ops) {
+    const key = `${op.entity}:${op.id}`;
+    map.set(key, [...(map.get(key) ?? []), op]);
+  }
+  return map;
+}
+
+export async function readCursor(db: FluxDb): Promise<number> {
+  const row = await db.meta.get(META.cursor);
+  return typeof row?.value === 'number' ? row.value : 0;
+}
+
+/**
+ * Writes one pull page and the new cursor in one transaction, so a crash never leaves the cursor
+ * ahead of the records. Queued ops stay laid over the server's copy (the person keeps seeing
+ * their edit until the push answers), and a copy newer than the page (from a push answer) is kept.
+ */
+export async function applyPullPage(db: FluxDb, answer: PullAnswer): Promise<number> {
+  const tables = SYNC_ENTITIES.map((e) => db.records(e));
+  let written = 0;
+  await db.transaction('rw', [...tables, db.outbox, db.meta], async () => {
+    const pending = (await db.outbox.count()) ? opsByRecord(await db.outbox.orderBy('seq').toArray()) : new Map<string, OutboxOp[]>();
+    const byEntity = new Map<SyncEntityName, PullAnswer['changes']>();
+    for (const c of answer.changes) {
+      if (!KNOWN.has(c.entity)) continue; // a newer server may sync more entities than this build knows
+      const e = c.entity as SyncEntityName;
+      byEntity.set(e, [...(byEntity.get(e) ?? []), c]);
+    }
+    for (const [entity, changes] of byEntity) {
+      const table = db.records(entity);
+      const current = await table.bulkGet(changes.map((c) => c.id));
+      const puts: LocalRecord[] = [];
+      const deletes: string[] = [];
+      changes.forEach((c, i) => {
+        const have = current[i];
+        // Removals for lost access always apply; otherwise a newer copy (from a push answer) wins.
+        if (have && have.rev > c.rev && c.reason !== 'access') return;
+        const ops = pending.get(`${entity}:${c.id}`) ?? [];
+        const server = c.deleted || !c.record ? null : ({ ...c.record, id: c.id, rev: c.rev } as LocalRecord);
+        const shown = c.reason === 'access' ? null : overlay(server, ops);
+        if (shown) puts.push(shown);
+        else if (have) deletes.push(c.id);
+      });
+      if (puts.length) await table.bulkPut(puts);
+      if (deletes.length) await table.bulkDelete(deletes);
+      written += puts.length + deletes.length;
+    }
+    await db.meta.put({ key: META.cursor, value: answer.cursor });
+  });
+  return written;
+}
+
+/**
+ * After a 410 (the device was away longer than the server keeps deletions): forget every server
+ * copy and the cursor, keep the outbox, conflicts and rejected ops, and put back records created
+ * here that the server has not seen yet. A full pull then lays the queued edits over fresh copies.
+ */
+export async function resetForRedownload(db: FluxDb): Promise<void> {
+  const tables = SYNC_ENTITIES.map((e) => db.records(e));
+  await db.transaction('rw', [...tables, db.outbox, db.meta], async () => {
+    await Promise.all(tables.map((t) => t.clear()));
+    const ops = await db.outbox.orderBy('seq').toArray();
+    for (const [, recordOps] of opsByRecord(ops)) {
+      if (recordOps[0].baseRev !== null) continue;
+      const rec = overlay(null, recordOps);
+      if (rec) await db.records(recordOps[0].entity).put(rec);
+    }
+    await db.meta.put({ key: META.cursor, value: 0 });
+  });
+}
