@@ -54,7 +54,7 @@ const has = (roles: readonly Role[], ...any: Role[]) => roles.some((r) => any.in
 
 /** Crew may change a collar's notes and report it damaged; geometry and lifecycle are the lead's. */
 function collarFieldRule(roles: readonly Role[], action: WriteAction, changed: readonly string[], next: Record<string, unknown>) {
-  if (action !== 'update' || has(roles, 'lead')) return null;
+  if (action !== 'update' || has(roles, 'lead', 'admin')) return null;
   const allowed = ['notes', 'status', 'statusReason'];
   const bad = changed.filter((f) => !allowed.includes(f));
   if (bad.length) return `Only a lead may change ${bad.join(', ')} of a collar`;
@@ -90,7 +90,7 @@ export const ENTITY_DEFS: Record<EntityName, EntityDef> = {
   treatment: def('treatment', TreatmentEntity, 'treatment', { create: ADMIN, update: ADMIN, delete: ADMIN }, { order: { code: 'ASC' } }),
   plot: def('plot', PlotEntity, 'plot', { create: ADMIN, update: ADMIN, delete: ADMIN },
     { refs: { blockId: 'block', treatmentId: 'treatment' }, order: { code: 'ASC' } }),
-  collar: def('collar', CollarEntity, 'collar', { create: FIELD, update: FIELD, delete: LEAD, fieldRule: collarFieldRule },
+  collar: def('collar', CollarEntity, 'collar', { create: [...FIELD, 'admin'], update: [...FIELD, 'admin'], delete: [...LEAD, 'admin'], fieldRule: collarFieldRule },
     { refs: { plotId: 'plot', treatmentId: 'treatment' }, order: { code: 'ASC' } }),
   collarEvent: def('collarEvent', CollarEventEntity, 'collar_event', { create: FIELD, update: LEAD, delete: LEAD },
     { refs: { collarId: 'collar', replacedById: 'collar' }, immutable: ['siteId', 'collarId'], timeField: 'date', order: { date: 'ASC' } }),
