@@ -11,6 +11,7 @@ import { createPassport } from '../auth/passport-setup';
 import { sessionMiddleware } from '../auth/session-middleware';
 import { registerCampaignRoutes } from '../campaigns/campaign-routes';
 import { registerRecordRoutes } from '../records/record-routes';
+import { registerSetupRoutes } from '../setup/setup-routes';
 import { registerSyncRoutes } from '../sync/sync-routes';
 import { registerUserRoutes } from '../users/user-routes';
 import type { ServerConfig } from './config';
@@ -62,6 +63,7 @@ export function createApp(ds: DataSource, config: ServerConfig): AppHandle {
   registerAuthRoutes(registry, passport, loginRateLimit(ds, config.loginMaxFailures, config.loginWindowMs));
   registerUserRoutes(registry, ds);
   registerCampaignRoutes(registry, ds); // before the generic /:id routes
+  registerSetupRoutes(registry, ds); // before the generic /:id routes (chamber-profile edit guard)
   registerRecordRoutes(registry, ds);
   registerSyncRoutes(registry, ds);
 
