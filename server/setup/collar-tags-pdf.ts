@@ -1,0 +1,109 @@
+import type { DataSource } from 'typeorm';
+import { z } from 'zod';
+import { AppError } from '../core/errors';
+import type { Actor } from '../records/record-writer';
+import { siteForActor } from './site-access';
+
+// pdfmake ships no types; this is the small part of its server API used here.
+// eslint-disable-next-line @typescript-eslint/no-require-imports
+const pdfmake = require('pdfmake') as {
+  setFonts(f: unknown): void;
+  setUrlAccessPolicy(cb: (url: string) => boolean): void;
+  setLocalAccessPolicy(cb: (path: string) => boolean): void;
+  createPdf(doc: unknown): { getBuffer(): Promise<Buffer> };
+};
+// The PDF standard fonts need no font files; nothing is fetched from disk or network.
+pdfmake.setFonts({ Helvetica: { normal: 'Helvetica', bold: 'Helvetica-Bold', italics: 'Helvetica-Oblique', bolditalics: 'Helvetica-BoldOblique' } });
+pdfmake.setUrlAccessPolicy(() => false);
+pdfmake.setLocalAccessPolicy(() => false);
+
+export const tagQuerySchema = z.object({
+  paper: z.enum(['a4', 'letter'], { message: 'paper must be a4 or letter' }).default('a4'),
+  plotId: z.string().uuid('plotId must be a UUID').optional(),
+  includeRetired: z.enum(['true', 'false'], { message: 'includeRetired must be true or false' }).default('false'),
+});
+export type TagQuery = z.infer<typeof tagQuerySchema>;
+
+export const MAX_TAGS = 3000;
+const MM = 72 / 25.4;
+/** 3 × 7 tags of 63.5 × 37.4 mm (the usual 21-up weatherproof label sheet) fit both A4 and Letter. */
+const COLS = 3;
+const ROWS = 7;
+const TAG_W = 63.5 * MM;
+const TAG_H = 106; // pt, ≈ 37.4 mm: leaves room for the cut lines on Letter's shorter page
+const QR_PT = 88; // ≈ 31 mm: large enough to scan from arm's length through a scratched laminate
+const PAPER = { a4: { size: 'A4', w: 595.28, h: 841.89 }, letter: { size: 'LETTER', w: 612, h: 792 } } as const;
+
+/** What a tag's QR code holds: the address Walk opens for that collar (the collar id is the last path part). */
+export function collarTagUrl(origin: string, collarId: string): string {
+  return `${origin.replace(/\/$/, '')}/walk/collars/${collarId}`;
+}
+
+export interface TagCollar {
+  id: string;
+  code: string;
+  plotCode: string;
+}
+
+function tagCell(c: TagCollar, siteName: string, origin: string) {
+  const clip = (s: string, n: number) => (s.length > n ? `${s.slice(0, n - 1)}…` : s);
+  return {
+    columns: [
+      { qr: collarTagUrl(origin, c.id), fit: QR_PT, eccLevel: 'M', margin: [6, 8, 0, 0], width: QR_PT + 6 },
+      {
+        width: '*', margin: [6, 10, 4, 0],
+        stack: [
+          { text: clip(c.code, 24), bold: true, fontSize: c.code.length <= 8 ? 15 : 10 },
+          { text: `Plot ${clip(c.plotCode, 20)}`, fontSize: 9, margin: [0, 4, 0, 0] },
+          { text: clip(siteName, 60), fontSize: 7, color: '#333333', margin: [0, 4, 0, 0] },
+        ],
+      },
+    ],
+  };
+}
+
+/** The tag sheet as a PDF: one page per 21 tags, a dashed cut grid, text as text (never markup). */
+export async function renderTagSheet(collars: TagCollar[], siteName: string, paper: 'a4' | 'letter', origin: string): Promise<Buffer> {
+  const p = PAPER[paper];
+  const marginX = (p.w - COLS * TAG_W) / 2;
+  const marginY = (p.h - ROWS * TAG_H) / 2 - 2;
+  const pages: unknown[] = [];
+  for (let i = 0; i < collars.length; i += COLS * ROWS) {
+    const chunk = collars.slice(i, i + COLS * ROWS);
+    const body: unknown[][] = [];
+    for (let r = 0; r < chunk.length; r += COLS) {
+      const row = chunk.slice(r, r + COLS).map((c) => tagCell(c, siteName, origin));
+      while (row.length < COLS) row.push({ text: '' } as never);
+      body.push(row);
+    }
+    pages.push({
+      table: { widths: Array(COLS).fill(TAG_W - 1), heights: TAG_H - 1, body, dontBreakRows: true },
+      layout: {
+        hLineWidth: () => 0.3, vLineWidth: () => 0.3, hLineColor: () => '#999999', vLineColor: () => '#999999',
+        hLineStyle: () => ({ dash: { length: 3, space: 3 } }), vLineStyle: () => ({ dash: { length: 3, space: 3 } }),
+        paddingLeft: () => 0, paddingRight: () => 0, paddingTop: () => 0, paddingBottom: () => 0,
+      },
+      pageBreak: i + COLS * ROWS < collars.length ? 'after' : undefined,
+    });
+  }
+  const doc = {
+    pageSize: p.size, pageMargins: [marginX, marginY, marginX, 0],
+    info: { title: `Collar tags · ${siteName}`, creator: 'Fluxwalk' },
+    defaultStyle: { font: 'Helvetica' },
+    content: pages.length ? pages : [{ text: 'No collars to tag at this site.' }],
+  };
+  return pdfmake.createPdf(doc).getBuffer();
+}
+
+/** The collars of a site (or one plot) in plot, then code order, for the tag sheet. */
+export async function collarTagSheet(ds: DataSource, actor: Actor, siteId: string, q: TagQuery, origin: string) {
+  const site = await siteForActor(ds, actor, siteId);
+  const collars: TagCollar[] = await ds.query(
+    `SELECT c.id, c.code, p.code AS "plotCode" FROM collar c JOIN plot p ON p.id = c.plot_id
+      WHERE c.site_id = $1 AND NOT c.deleted AND ($2::uuid IS NULL OR c.plot_id = $2)
+        AND ($3 OR c.status <> 'retired')
+      ORDER BY p.code, c.code LIMIT ${MAX_TAGS + 1}`,
+    [siteId, q.plotId ?? null, q.includeRetired === 'true']);
+  if (collars.length > MAX_TAGS) throw new AppError(400, `At most ${MAX_TAGS} tags per sheet: choose one plot at a time`);
+  return { pdf: await renderTagSheet(collars, site.name, q.paper, origin), count: collars.length, siteName: site.name };
+}

@@ -1,0 +1,85 @@
+import type { Request } from 'express';
+import type { DataSource } from 'typeorm';
+import { z } from 'zod';
+import type { RouteRegistry } from '../core/route-registry';
+import { parse } from '../core/validate';
+import { answer, writeOne } from '../records/record-routes';
+import type { WriteOp } from '../records/record-writer';
+import { importRequestSchema } from './collar-csv';
+import { commitCollarImport, previewCollarImport } from './collar-import';
+import { collarTagSheet, tagQuerySchema } from './collar-tags-pdf';
+import { createProfileVersion, guardProfileWrite, newVersionSchema, previewSchema, profileUsage, recomputePreview } from './profile-versions';
+
+const siteParam = z.object({ siteId: z.string().uuid('Site ids are UUIDs') });
+const idParam = z.object({ id: z.string().uuid('Chamber profile ids are UUIDs') });
+const revBody = z.object({ rev: z.number({ message: 'Send the record\'s rev you edited' }).int().min(1) }).passthrough();
+const deleteQuery = z.object({ rev: z.coerce.number().int().min(1).optional() });
+
+const SITE_KEEPERS = ['lead', 'admin'] as const;
+const ADMIN = ['admin'] as const;
+
+const origin = (req: Request) => `${req.protocol}://${req.get('host') ?? 'localhost'}`;
+
+/**
+ * Setup work that is more than one record: collar import (preview, then all-or-nothing commit),
+ * the printable tag sheet, and chamber-profile versions. Registered before the generic record
+ * routes so the profile edit/delete guard runs ahead of the plain PATCH/DELETE.
+ */
+export function registerSetupRoutes(r: RouteRegistry, ds: DataSource): void {
+  r.add('post', '/api/sites/:siteId/collar-import/preview', SITE_KEEPERS, async (req) => {
+    const { siteId } = parse(siteParam, req.params);
+    return previewCollarImport(ds, req.user!, siteId, parse(importRequestSchema, req.body, 'The import request is not valid'));
+  });
+
+  r.add('post', '/api/sites/:siteId/collar-import/commit', SITE_KEEPERS, async (req, res) => {
+    const { siteId } = parse(siteParam, req.params);
+    const result = await commitCollarImport(ds, req.user!, siteId, parse(importRequestSchema, req.body, 'The import request is not valid'));
+    res.status(201);
+    return result;
+  });
+
+  r.add('get', '/api/sites/:siteId/collar-tags.pdf', SITE_KEEPERS, async (req, res) => {
+    const { siteId } = parse(siteParam, req.params);
+    const q = parse(tagQuerySchema, req.query, 'The tag sheet options are not valid');
+    const sheet = await collarTagSheet(ds, req.user!, siteId, q, origin(req));
+    const file = `collar-tags-${sheet.siteName.replace(/[^A-Za-z0-9]+/g, '-').replace(/^-|-$/g, '').toLowerCase() || 'site'}-${q.paper}.pdf`;
+    res.setHeader('Content-Type', 'application/pdf');
+    res.setHeader('Content-Disposition', `attachment; filename="${file}"`);
+    res.setHeader('X-Tag-Count', String(sheet.count));
+    res.send(sheet.pdf);
+  });
+
+  r.add('get', '/api/chamber-profiles/:id/usage', ['lead', 'lab', 'admin'], async (req) => {
+    const { id } = parse(idParam, req.params);
+    return profileUsage(ds, req.user!, id);
+  });
+
+  r.add('post', '/api/sites/:siteId/chamber-profiles/recompute-preview', ADMIN, async (req) => {
+    const { siteId } = parse(siteParam, req.params);
+    const { validFrom } = parse(previewSchema, req.body);
+    return recomputePreview(ds, req.user!, siteId, validFrom);
+  });
+
+  r.add('post', '/api/chamber-profiles/:id/versions', ADMIN, async (req, res) => {
+    const { id } = parse(idParam, req.params);
+    const result = await createProfileVersion(ds, req.user!, id, parse(newVersionSchema, req.body, 'Some chamber profile fields are not valid'));
+    res.status(201);
+    return result;
+  });
+
+  r.add('patch', '/api/chamber-profiles/:id', ADMIN, async (req, res) => {
+    const { id } = parse(idParam, req.params);
+    const { rev, ...fields } = parse(revBody, req.body);
+    const op: WriteOp = { entity: 'chamberProfile', id, baseRev: rev, op: 'upsert', fields };
+    await guardProfileWrite(ds, id, op);
+    return answer(res, await writeOne(ds, req, op));
+  });
+
+  r.add('delete', '/api/chamber-profiles/:id', ADMIN, async (req, res) => {
+    const { id } = parse(idParam, req.params);
+    const { rev } = parse(deleteQuery, req.query);
+    const op: WriteOp = { entity: 'chamberProfile', id, baseRev: rev ?? null, op: 'delete', fields: {} };
+    await guardProfileWrite(ds, id, op);
+    return answer(res, await writeOne(ds, req, op));
+  });
+}
