@@ -9,6 +9,8 @@ const nodeTs = {
 };
 
 module.exports = {
+  // testTimeout is a global option (ignored inside projects); browser tests need the long one.
+  testTimeout: 120000,
   projects: [
     {
       ...nodeTs,
@@ -20,7 +22,6 @@ module.exports = {
       displayName: 'server',
       testMatch: ['<rootDir>/server/**/*.spec.ts', '<rootDir>/test/api/**/*.test.ts'],
       globalSetup: '<rootDir>/test/support/global-setup.ts',
-      testTimeout: 30000,
     },
     {
       ...createCjsPreset({ tsconfig: '<rootDir>/tsconfig.jest.json' }),
@@ -33,7 +34,6 @@ module.exports = {
       ...nodeTs,
       displayName: 'e2e',
       testMatch: ['<rootDir>/test/e2e/**/*.e2e.ts'],
-      testTimeout: 120000,
     },
   ],
 };

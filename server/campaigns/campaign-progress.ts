@@ -81,7 +81,8 @@ function collarProgress(row: Row, rounds: number[]) {
   }
   const state: ProgressState = skippedRounds === rounds.length ? 'skipped'
     : roundStates.every((s) => s === 'complete' || s === 'skipped') ? 'complete'
-    : roundStates.every((s) => s === 'due') ? 'due' : 'partial';
+    // A skipped round is handled, not progress: skipped + untouched rounds are still "due".
+    : roundStates.filter((s) => s !== 'skipped').every((s) => s === 'due') ? 'due' : 'partial';
   return { state, skipReason: skippedRounds ? skipReason : null, items };
 }
 

@@ -63,13 +63,15 @@ function collarFieldRule(roles: readonly Role[], action: WriteAction, changed: r
 }
 
 /** The lab sets review fields and never raw readings; field crews never set review fields. */
-function closureFieldRule(roles: readonly Role[], action: WriteAction, changed: readonly string[]) {
-  const review = changed.filter((f) => (CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f));
+function closureFieldRule(roles: readonly Role[], action: WriteAction, changed: readonly string[], next: Record<string, unknown>) {
+  // A device creating a closure sends the review fields at their defaults; only a real decision counts.
+  const isDecision = (f: string) => action !== 'create' || (next[f] !== null && next[f] !== 'unreviewed');
+  const review = changed.filter((f) => (CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f) && isDecision(f));
   const raw = changed.filter((f) => !(CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f));
   if (action === 'update' && raw.length && !has(roles, 'crew', 'lead')) {
     return `The lab reviews closures but never changes raw readings (${raw.join(', ')})`;
   }
-  if (review.length && !has(roles, 'lab') && !(action === 'create' && review.every((f) => f === 'reviewState'))) {
+  if (review.length && !has(roles, 'lab')) {
     return `Only the lab may set review fields (${review.join(', ')})`;
   }
   return null;
