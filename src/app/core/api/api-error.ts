@@ -1,14 +1,19 @@
 import { HttpErrorResponse } from '@angular/common/http';
 
+/** Gateway answers that mean "the Fluxwalk server was not reached" when they lack its error body. */
+const UNREACHABLE = new Set([502, 503, 504]);
+
 /**
- * True when the request never reached the server: the browser reports status 0, and Angular's
- * service worker answers 504 with an empty body when its own fetch fails. After an offline
+ * True when the request never reached the server: the browser reports status 0; Angular's
+ * service worker answers 504 with an empty body when its own fetch fails; a reverse proxy (or
+ * the dev-server proxy) answers 502/503/504 when the server is down. Our server's own errors
+ * always carry `{"error":{"message"}}`, so those are never mistaken for offline. After an offline
  * reload `navigator.onLine` may still read true, so the failed request is the signal we trust.
  */
 export function isOfflineError(err: unknown): boolean {
   if (!(err instanceof HttpErrorResponse)) return false;
   if (err.status === 0) return true;
-  return err.status === 504 && !hasServerErrorBody(err);
+  return UNREACHABLE.has(err.status) && !hasServerErrorBody(err);
 }
 
 function hasServerErrorBody(err: HttpErrorResponse): boolean {
