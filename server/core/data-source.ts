@@ -14,7 +14,8 @@ export function createDataSource(url: string, options: { poolSize?: number } = {
     synchronize: false,
     logging: ['error'],
     poolSize: options.poolSize ?? 10,
-    extra: { connectionTimeoutMillis: 5000 },
+    // A push holds a connection for its whole batch: under load, wait for one rather than fail the request.
+    extra: { connectionTimeoutMillis: 30000 },
   });
 }
 
