@@ -4,6 +4,7 @@ import { firstValueFrom } from 'rxjs';
 import { SKIP_SESSION_EXPIRY } from '../api/api-interceptor';
 import { CsrfToken } from '../api/csrf-token';
 import { DeviceMemory } from '../device/device-memory';
+import { StoragePersistence } from '../device/storage-persistence';
 import { SessionExpiry } from './session-expiry';
 import { SessionUser, SiteSummary, parseSessionUser, parseSites } from './session-user';
 
@@ -25,6 +26,7 @@ export class AuthStore {
   private readonly csrf = inject(CsrfToken);
   private readonly memory = inject(DeviceMemory);
   private readonly expiry = inject(SessionExpiry);
+  private readonly persistence = inject(StoragePersistence);
   private readonly session = signal<RememberedSession | null>(this.recall());
 
   readonly user = computed(() => this.session()?.user ?? null);
@@ -48,6 +50,7 @@ export class AuthStore {
     this.expiry.clear();
     const keepSites = this.user()?.id === user.id ? this.sites() : [];
     this.remember({ user, sites: keepSites });
+    void this.persistence.request();
     await this.refreshSites();
     return user;
   }

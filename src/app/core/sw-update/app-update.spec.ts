@@ -70,6 +70,13 @@ describe('AppUpdate', () => {
     expect(reload).toHaveBeenCalledTimes(1);
   });
 
+  it('when the app comes back to the foreground, then it looks for a new version', () => {
+    const { sw } = setUp();
+    Object.defineProperty(document, 'visibilityState', { value: 'visible', configurable: true });
+    document.dispatchEvent(new Event('visibilitychange'));
+    expect(sw.checkForUpdate).toHaveBeenCalledTimes(1);
+  });
+
   it('when the worker becomes unrecoverable with nothing pending, then the page reloads at once', () => {
     const { sw, reload } = setUp();
     TestBed.tick();

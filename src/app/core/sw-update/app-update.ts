@@ -1,7 +1,7 @@
-import { DestroyRef, Injectable, inject, signal } from '@angular/core';
+import { DOCUMENT, DestroyRef, Injectable, inject, signal } from '@angular/core';
 import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
 import { SwUpdate, VersionReadyEvent } from '@angular/service-worker';
-import { filter, first, interval } from 'rxjs';
+import { filter, first, fromEvent, interval } from 'rxjs';
 import { PendingWorkGuard } from './pending-work-guard';
 import { RELOAD_PAGE } from './reload-page';
 
@@ -19,6 +19,7 @@ export class AppUpdate {
   private readonly pendingWork = inject(PendingWorkGuard);
   private readonly reloadPage = inject(RELOAD_PAGE);
   private readonly destroyRef = inject(DestroyRef);
+  private readonly document = inject(DOCUMENT);
   private readonly pending$ = toObservable(this.pendingWork.count);
   private started = false;
 
@@ -40,8 +41,16 @@ export class AppUpdate {
     this.sw.unrecoverable.pipe(first(), takeUntilDestroyed(this.destroyRef)).subscribe(() => {
       this.pending$.pipe(filter((n) => n === 0), first()).subscribe(() => this.reloadPage());
     });
+    // Field devices stay open for days: look again periodically and whenever the app comes back
+    // to the foreground.
     interval(CHECK_EVERY_MS)
       .pipe(takeUntilDestroyed(this.destroyRef))
+      .subscribe(() => void this.checkNow());
+    fromEvent(this.document, 'visibilitychange')
+      .pipe(
+        filter(() => this.document.visibilityState === 'visible'),
+        takeUntilDestroyed(this.destroyRef),
+      )
       .subscribe(() => void this.checkNow());
   }
 

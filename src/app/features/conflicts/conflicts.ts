@@ -1,0 +1,91 @@
+import { DatePipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatRadioModule } from '@angular/material/radio';
+import { AuthStore } from '../../core/auth/auth-store';
+import type { ConflictRow } from '../../core/db/db-schema';
+import type { Side } from '../../core/db/conflict-resolve';
+import { liveSignal } from '../../core/db/live-query-signal';
+import { LocalWrites } from '../../core/sync/local-writes';
+import { fieldLabel, labelsFor } from '../../core/sync/op-labels';
+import { conflictFieldRows, type ConflictFieldRow } from './conflict-rows';
+
+interface ConflictCard {
+  row: ConflictRow;
+  label: string;
+  fields: ConflictFieldRow[];
+  alsoSent: string[];
+  theirsAt: string | null;
+  theirsBy: string;
+}
+
+/**
+ * Changes the server could not merge because someone else changed the same fields. Each field
+ * shows base, mine and theirs; the person keeps mine, keeps theirs, or picks per field, and the
+ * result goes out as a new op on the server's rev.
+ */
+@Component({
+  selector: 'fw-conflicts',
+  imports: [DatePipe, MatButtonModule, MatRadioModule],
+  templateUrl: './conflicts.html',
+  styleUrl: './conflicts.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class Conflicts {
+  private readonly writes = inject(LocalWrites);
+  private readonly auth = inject(AuthStore);
+  protected readonly picks = signal<Record<string, Record<string, Side>>>({});
+  protected readonly problem = signal('');
+
+  protected readonly cards = liveSignal(() => this.auth.user()?.id ?? null, async (db, me) => {
+    const rows = await db.conflicts.orderBy('opId').toArray();
+    const labels = await labelsFor(db, rows.map((r) => ({ entity: r.entity, id: r.recordId })));
+    const cards: ConflictCard[] = [];
+    for (const row of rows) {
+      const theirs = row.theirs ?? (await db.records(row.entity).get(row.recordId)) ?? null;
+      const by = theirs?.['updatedBy'];
+      cards.push({
+        row,
+        label: labels.get(`${row.entity}:${row.recordId}`) ?? row.entity,
+        fields: conflictFieldRows({ ...row, theirs }),
+        alsoSent: Object.keys(row.mine).filter((k) => !row.fields.includes(k)).map(fieldLabel),
+        theirsAt: typeof theirs?.['updatedAt'] === 'string' ? theirs['updatedAt'] : null,
+        theirsBy: by && by === me ? 'you, on another device' : 'another person',
+      });
+    }
+    return cards.sort((a, b) => a.row.at.localeCompare(b.row.at));
+  }, undefined as ConflictCard[] | undefined);
+
+  protected pick(opId: string, field: string, side: Side): void {
+    this.picks.update((p) => ({ ...p, [opId]: { ...(p[opId] ?? {}), [field]: side } }));
+  }
+
+  protected picked(opId: string, field: string): Side | null {
+    return this.picks()[opId]?.[field] ?? null;
+  }
+
+  protected allPicked(card: ConflictCard): boolean {
+    return card.fields.every((f) => this.picked(card.row.opId, f.field) !== null);
+  }
+
+  protected async keepAll(card: ConflictCard, side: Side): Promise<void> {
+    await this.resolve(card, Object.fromEntries(card.fields.map((f) => [f.field, side])));
+  }
+
+  protected async usePicks(card: ConflictCard): Promise<void> {
+    if (!this.allPicked(card)) {
+      this.problem.set('Pick mine or theirs for every field first.');
+      return;
+    }
+    await this.resolve(card, this.picks()[card.row.opId] ?? {});
+  }
+
+  private async resolve(card: ConflictCard, choice: Record<string, Side>): Promise<void> {
+    this.problem.set('');
+    try {
+      await this.writes.resolve(card.row, choice);
+    } catch (err) {
+      this.problem.set(err instanceof Error ? err.message : 'The choice could not be saved on this device');
+    }
+  }
+}
