@@ -1,5 +1,6 @@
 import { Foundation1764644400000 } from './1764644400000-foundation';
 import { FieldData1764651600000 } from './1764651600000-field-data';
+import { ProgressIndexes1764658800000 } from './1764658800000-progress-indexes';
 
 /** Every migration, oldest first. Add new ones at the end (see DEVELOPERS.md). */
-export const MIGRATIONS = [Foundation1764644400000, FieldData1764651600000];
+export const MIGRATIONS = [Foundation1764644400000, FieldData1764651600000, ProgressIndexes1764658800000];
