@@ -106,7 +106,8 @@ describe('App shell in Chromium', () => {
       await signInAs(page, server.baseUrl, 'lead');
       await goOffline(b.context);
 
-      const failed = page.waitForEvent('requestfailed', (r) => r.url().includes('/api/'));
+      // Other parts of the app (sync) may also be calling the API; this waits for the menu's own request.
+      const failed = page.waitForEvent('requestfailed', (r) => new URL(r.url()).pathname === '/api/auth/me');
       await page.getByTestId('user-menu').click();
       await page.getByRole('menuitem', { name: 'Refresh account and sites' }).click();
       expect((await failed).url()).toContain('/api/auth/me');
