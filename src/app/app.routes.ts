@@ -40,6 +40,28 @@ export const routes: Routes = [
         loadComponent: () => import('./features/setup/setup').then((m) => m.Setup),
       },
       {
+        path: 'collars',
+        canActivate: [destinationGuard('walk')],
+        title: 'Collars · Fluxwalk',
+        loadComponent: () => import('./features/collars/collar-list').then((m) => m.CollarList),
+      },
+      {
+        path: 'collars/:id',
+        canActivate: [destinationGuard('walk')],
+        title: 'Collar · Fluxwalk',
+        loadComponent: () => import('./features/collars/collar-page').then((m) => m.CollarPage),
+      },
+      {
+        path: 'conflicts',
+        title: 'Conflicts · Fluxwalk',
+        loadComponent: () => import('./features/conflicts/conflicts').then((m) => m.Conflicts),
+      },
+      {
+        path: 'backup',
+        title: 'Backup files · Fluxwalk',
+        loadComponent: () => import('./features/backup/backup-page').then((m) => m.BackupPage),
+      },
+      {
         path: 'no-destinations',
         canActivate: [noDestinationsGuard],
         title: 'Fluxwalk',

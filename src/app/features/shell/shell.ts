@@ -7,6 +7,9 @@ import { ConnectionStatus } from '../../core/api/connection-status';
 import { AuthStore } from '../../core/auth/auth-store';
 import { destinationsFor } from '../../core/auth/destinations';
 import { SiteChoice } from '../../core/auth/site-choice';
+import { DeviceDb } from '../../core/db/device-db';
+import { SyncEngine } from '../../core/sync/sync-engine';
+import { SyncIndicator } from '../../core/sync/sync-indicator';
 import { SessionBanner } from './session-banner';
 import { UserMenu } from './user-menu';
 
@@ -21,6 +24,7 @@ import { UserMenu } from './user-menu';
     RouterLinkActive,
     RouterOutlet,
     SessionBanner,
+    SyncIndicator,
     UserMenu,
   ],
   templateUrl: './shell.html',
@@ -32,9 +36,12 @@ export class Shell implements OnInit {
   protected readonly connection = inject(ConnectionStatus);
   protected readonly site = inject(SiteChoice).current;
   protected readonly destinations = computed(() => destinationsFor(this.auth.roles()));
+  protected readonly deviceDb = inject(DeviceDb);
+  private readonly sync = inject(SyncEngine);
 
   ngOnInit(): void {
     // Roles or sites may have changed since the remembered sign-in; offline this quietly fails.
     void this.auth.refresh();
+    this.sync.start();
   }
 }
