@@ -1,32 +1,29 @@
 import type { DataSource, EntityManager } from 'typeorm';
 import type { SessionUser } from '../../shared/auth/roles';
-import { syncOpSchema, type PushResult, type SyncStatus } from '../../shared/sync/sync-wire';
+import { syncOpSchema, type PushResult, type SyncOp, type SyncStatus } from '../../shared/sync/sync-wire';
 import { fieldErrorsFromZod } from '../core/errors';
 import { ChangeBuffer } from '../records/change-buffer';
 import { writeRecord } from '../records/record-writer';
 import type { WriteOutcome } from '../records/write-outcome';
 import { recordPush } from './device-service';
+import { claimOps, saveAnswers, storedAnswers } from './op-ledger';
 
 const DEADLOCK = '40P01';
 const MAX_ATTEMPTS = 5;
 
+type Parsed = { ok: true; op: SyncOp } | { ok: false; result: PushResult };
+
 /**
  * Applies a device's batch in one transaction with a savepoint per op, so one bad op never sinks
  * its neighbours and a crash mid-batch leaves nothing half-applied (the retry applies it all once).
- * Each opId is claimed in the ledger before it runs: a replay, even one racing in another request,
- * gets the stored answer instead of running twice.
+ * Every opId is claimed in the ledger up front (one statement): a replay, even one racing in
+ * another request, gets the stored answer instead of running twice.
  */
 export async function pushOps(ds: DataSource, user: SessionUser, deviceId: string, outboxSize: number, ops: unknown[]): Promise<PushResult[]> {
+  const parsed = ops.map(parseOp);
   for (let attempt = 1; ; attempt++) {
     try {
-      return await ds.transaction(async (em) => {
-        const changes = new ChangeBuffer();
-        const results: PushResult[] = [];
-        for (const raw of ops) results.push(await pushOne(em, user, deviceId, raw, changes));
-        await changes.flush(em);
-        await recordPush(em, deviceId, user.id, outboxSize);
-        return results;
-      });
+      return await ds.transaction((em) => applyBatch(em, user, deviceId, outboxSize, parsed));
     } catch (err) {
       // Two batches touching the same records in opposite order: PostgreSQL aborts one; run it again.
       if ((err as { code?: string }).code === DEADLOCK && attempt < MAX_ATTEMPTS) continue;
@@ -35,38 +32,63 @@ export async function pushOps(ds: DataSource, user: SessionUser, deviceId: strin
   }
 }
 
-async function pushOne(em: EntityManager, user: SessionUser, deviceId: string, raw: unknown, changes: ChangeBuffer): Promise<PushResult> {
-  const parsed = syncOpSchema.safeParse(raw);
+function parseOp(raw: unknown): Parsed {
+  const r = syncOpSchema.safeParse(raw);
+  if (r.success) return { ok: true, op: r.data };
   const opId = typeof (raw as { opId?: unknown })?.opId === 'string' ? (raw as { opId: string }).opId : '';
-  if (!parsed.success) {
-    return { opId, status: 'rejected', error: { message: 'The operation is malformed', fields: fieldErrorsFromZod(parsed.error) } };
-  }
-  const op = parsed.data;
-  const claimed = await em.query(
-    `INSERT INTO sync_op (op_id, device_id, user_id, entity, record_id, status, response)
-     VALUES ($1, $2, $3, $4, $5, 'pending', '{}') ON CONFLICT (op_id) DO NOTHING RETURNING op_id`,
-    [op.opId, deviceId, user.id, op.entity, op.id]);
-  if (!claimed.length) return replayAnswer(em, op.opId);
+  return { ok: false, result: { opId, status: 'rejected', error: { message: 'The operation is malformed', fields: fieldErrorsFromZod(r.error) } } };
+}
 
-  await em.query('SAVEPOINT sync_op');
-  const mark = changes.mark();
-  let outcome: WriteOutcome;
+async function applyBatch(em: EntityManager, user: SessionUser, deviceId: string, outboxSize: number, parsed: Parsed[]): Promise<PushResult[]> {
+  const valid = parsed.flatMap((p) => (p.ok ? [p.op] : []));
+  const claimed = await claimOps(em, deviceId, user.id, valid);
+  const earlier = await storedAnswers(em, valid.map((o) => o.opId).filter((id) => !claimed.has(id)));
+  const changes = new ChangeBuffer();
+  const results: PushResult[] = [];
+  const thisBatch = new Map<string, PushResult>();
+  let savepoint = false;
+  for (const p of parsed) {
+    if (!p.ok) { results.push(p.result); continue; }
+    const { op } = p;
+    const first = thisBatch.get(op.opId) ?? earlier.get(op.opId);
+    if (first || !claimed.has(op.opId)) {
+      results.push(replay(op.opId, first));
+      continue;
+    }
+    // One round trip per op for the savepoint: release the last one and open the next together.
+    await em.query(savepoint ? 'RELEASE SAVEPOINT sync_op; SAVEPOINT sync_op' : 'SAVEPOINT sync_op');
+    savepoint = true;
+    const mark = changes.mark();
+    const outcome = await applyOne(em, user, deviceId, op, changes);
+    if (outcome.status !== 'applied' && outcome.status !== 'merged') {
+      await em.query('ROLLBACK TO SAVEPOINT sync_op'); // the savepoint stays open for the next op
+      changes.rollbackTo(mark);
+    }
+    const result = toResult(op.opId, outcome);
+    thisBatch.set(op.opId, result);
+    results.push(result);
+  }
+  await saveAnswers(em, [...thisBatch.values()]);
+  await changes.flush(em);
+  await recordPush(em, deviceId, user.id, outboxSize);
+  return results;
+}
+
+async function applyOne(em: EntityManager, user: SessionUser, deviceId: string, op: SyncOp, changes: ChangeBuffer): Promise<WriteOutcome> {
   try {
-    outcome = await writeRecord(em, user, { entity: op.entity, id: op.id, baseRev: op.baseRev, op: op.op, fields: op.fields }, changes, { deviceId });
+    return await writeRecord(em, user, { entity: op.entity, id: op.id, baseRev: op.baseRev, op: op.op, fields: op.fields }, changes, { deviceId });
   } catch (err) {
     if ((err as { code?: string }).code === DEADLOCK) throw err;
     console.error(`[sync] op ${op.opId} failed:`, err);
-    outcome = { status: 'rejected', error: { message: readable(err) } };
+    return { status: 'rejected', error: { message: readable(err) } };
   }
-  if (outcome.status !== 'applied' && outcome.status !== 'merged') {
-    await em.query('ROLLBACK TO SAVEPOINT sync_op');
-    changes.rollbackTo(mark);
-  } else {
-    await em.query('RELEASE SAVEPOINT sync_op');
-  }
-  const result = toResult(op.opId, outcome);
-  await em.query(`UPDATE sync_op SET status = $2, response = $3 WHERE op_id = $1`, [op.opId, result.status, stored(result)]);
-  return result;
+}
+
+/** A replayed opId: the first answer, marked duplicate, with its status kept in originalStatus. */
+function replay(opId: string, first: PushResult | undefined): PushResult {
+  if (!first) return { opId, status: 'rejected', error: { message: 'This operation is being applied by another request; retry later' } };
+  const { record: _r, ...rest } = first;
+  return { ...rest, opId, status: 'duplicate', originalStatus: (first.originalStatus ?? first.status) as SyncStatus };
 }
 
 function toResult(opId: string, o: WriteOutcome): PushResult {
@@ -77,18 +99,6 @@ function toResult(opId: string, o: WriteOutcome): PushResult {
   if (o.error) r.error = o.error;
   if (o.warnings) r.warnings = o.warnings;
   return r;
-}
-
-/** The ledger keeps the answer without the (possibly large) record; a replay re-reads nothing else. */
-function stored(r: PushResult): string {
-  const { record: _record, conflict, ...rest } = r;
-  return JSON.stringify(conflict ? { ...rest, conflict: { fields: conflict.fields, serverRev: conflict.serverRev } } : rest);
-}
-
-async function replayAnswer(em: EntityManager, opId: string): Promise<PushResult> {
-  const [row] = await em.query(`SELECT status, response FROM sync_op WHERE op_id = $1`, [opId]);
-  const first = row.response as PushResult;
-  return { ...first, opId, status: 'duplicate', originalStatus: row.status as SyncStatus };
 }
 
 function readable(err: unknown): string {
