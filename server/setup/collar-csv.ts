@@ -30,7 +30,11 @@ export const importRequestSchema = z.object({
   csv: z.string({ message: 'Send the CSV text in "csv"' }).min(1, 'The file is empty')
     .refine((s) => Buffer.byteLength(s, 'utf8') <= MAX_CSV_BYTES, `The file is larger than ${MAX_CSV_BYTES / 1024} KiB; split it into smaller files`),
   /** target → CSV header; a target left out is guessed from the headers. */
-  mapping: z.partialRecord(z.enum(TARGETS as [ImportTarget, ...ImportTarget[]], { message: 'Unknown import field' }), z.string().max(200)).default({}),
+  mapping: z.record(z.string(), z.string().max(200)).default({}).superRefine((m, ctx) => {
+    for (const k of Object.keys(m)) {
+      if (!(TARGETS as string[]).includes(k)) ctx.addIssue({ code: 'custom', path: [k], message: `Unknown import field "${k}" (known: ${TARGETS.join(', ')})` });
+    }
+  }).transform((m) => m as Partial<Record<ImportTarget, string>>),
 });
 export type ImportRequest = z.infer<typeof importRequestSchema>;
 

@@ -69,7 +69,8 @@ export async function commitCollarImport(ds: DataSource, actor: Actor, siteId: s
     const errors = [...c.fileErrors, ...c.rows.flatMap((r) => r.errors)];
     if (errors.length) {
       const bad = new Set(c.rows.filter((r) => r.errors.length).map((r) => r.row)).size;
-      throw new AppError(400, `Nothing was imported: ${bad ? `${bad} row${bad === 1 ? ' has' : 's have'} errors` : 'the file has errors'}`, asFields(errors));
+      const what = c.fileErrors.length ? 'the file has errors' : `${bad} row${bad === 1 ? ' has' : 's have'} errors`;
+      throw new AppError(400, `Nothing was imported: ${what}`, asFields(errors));
     }
     const changes = new ChangeBuffer();
     const collarIds: string[] = [];

@@ -13,9 +13,11 @@ const pdfmake = require('pdfmake') as {
   createPdf(doc: unknown): { getBuffer(): Promise<Buffer> };
 };
 // The PDF standard fonts need no font files; nothing is fetched from disk or network.
+const STANDARD_FONTS = ['Helvetica', 'Helvetica-Bold', 'Helvetica-Oblique', 'Helvetica-BoldOblique'];
 pdfmake.setFonts({ Helvetica: { normal: 'Helvetica', bold: 'Helvetica-Bold', italics: 'Helvetica-Oblique', bolditalics: 'Helvetica-BoldOblique' } });
 pdfmake.setUrlAccessPolicy(() => false);
-pdfmake.setLocalAccessPolicy(() => false);
+// Only the names of the PDF standard fonts pass; no other local file is read.
+pdfmake.setLocalAccessPolicy((p) => STANDARD_FONTS.includes(p));
 
 export const tagQuerySchema = z.object({
   paper: z.enum(['a4', 'letter'], { message: 'paper must be a4 or letter' }).default('a4'),
@@ -32,6 +34,8 @@ const ROWS = 7;
 const TAG_W = 63.5 * MM;
 const TAG_H = 106; // pt, ≈ 37.4 mm: leaves room for the cut lines on Letter's shorter page
 const QR_PT = 88; // ≈ 31 mm: large enough to scan from arm's length through a scratched laminate
+/** QR needs a light margin of 4 modules (ISO/IEC 18004); a ~75-character address is version 5 at level M, 37 modules in 88 pt → ≥ 9.5 pt. */
+const QUIET = 11;
 const PAPER = { a4: { size: 'A4', w: 595.28, h: 841.89 }, letter: { size: 'LETTER', w: 612, h: 792 } } as const;
 
 /** What a tag's QR code holds: the address Walk opens for that collar (the collar id is the last path part). */
@@ -49,9 +53,9 @@ function tagCell(c: TagCollar, siteName: string, origin: string) {
   const clip = (s: string, n: number) => (s.length > n ? `${s.slice(0, n - 1)}…` : s);
   return {
     columns: [
-      { qr: collarTagUrl(origin, c.id), fit: QR_PT, eccLevel: 'M', margin: [6, 8, 0, 0], width: QR_PT + 6 },
+      { qr: collarTagUrl(origin, c.id), fit: QR_PT, eccLevel: 'M', margin: [QUIET, 8, 0, 0], width: QR_PT + QUIET },
       {
-        width: '*', margin: [6, 10, 4, 0],
+        width: '*', margin: [QUIET, 10, 4, 0],
         stack: [
           { text: clip(c.code, 24), bold: true, fontSize: c.code.length <= 8 ? 15 : 10 },
           { text: `Plot ${clip(c.plotCode, 20)}`, fontSize: 9, margin: [0, 4, 0, 0] },
