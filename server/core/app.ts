@@ -39,6 +39,9 @@ export function createApp(ds: DataSource, config: ServerConfig): AppHandle {
       contentSecurityPolicy: {
         directives: {
           'img-src': ["'self'", 'data:', 'blob:'],
+          // Fonts and styles ship with the app; Angular Material sets inline style attributes.
+          'font-src': ["'self'"],
+          'style-src': ["'self'", "'unsafe-inline'"],
           'worker-src': ["'self'", 'blob:'],
           'connect-src': ["'self'"],
           'upgrade-insecure-requests': null,
