@@ -96,11 +96,29 @@ export class SyncEngine {
     this.requests.next(reason);
   }
 
-  private async runRounds(): Promise<void> {
-    do {
-      this.again = false;
-      await this.runOnce();
-    } while (this.again);
+  /** Runs a sync now and resolves when it is over (one at a time in this tab). */
+  syncNow(): Promise<void> {
+    return this.runRounds();
+  }
+
+  private running: Promise<void> | null = null;
+
+  private runRounds(): Promise<void> {
+    if (this.running) {
+      this.again = true;
+      return this.running;
+    }
+    this.running = (async () => {
+      try {
+        do {
+          this.again = false;
+          await this.runOnce();
+        } while (this.again);
+      } finally {
+        this.running = null;
+      }
+    })();
+    return this.running;
   }
 
   private async runOnce(): Promise<void> {
