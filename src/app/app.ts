@@ -2,6 +2,8 @@ import { ChangeDetectionStrategy, Component, effect, inject } from '@angular/cor
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { RouterOutlet } from '@angular/router';
 import { AppUpdate } from './core/sw-update/app-update';
+import { PendingWorkGuard } from './core/sw-update/pending-work-guard';
+import { RELOAD_PAGE } from './core/sw-update/reload-page';
 
 @Component({
   selector: 'fw-root',
@@ -12,6 +14,8 @@ import { AppUpdate } from './core/sw-update/app-update';
 export class App {
   private readonly update = inject(AppUpdate);
   private readonly snackBar = inject(MatSnackBar);
+  private readonly pendingWork = inject(PendingWorkGuard);
+  private readonly reloadPage = inject(RELOAD_PAGE);
 
   constructor() {
     // Offered on every screen, sign-in included; the reload happens only on the user's word.
@@ -26,7 +30,12 @@ export class App {
 
   private reloadForUpdate(): void {
     if (!this.update.reloadToUpdate()) {
-      this.snackBar.open('Work on this device is still being saved. Reload again in a moment.', 'OK');
+      // Unsent ops live in IndexedDB and survive a reload, but the person decides, knowing the count.
+      const n = this.pendingWork.count();
+      this.snackBar
+        .open(`${n} not yet synced. They stay on this device through the update; syncing first is safer.`, 'Reload anyway', { duration: 15000 })
+        .onAction()
+        .subscribe(() => this.reloadPage());
     }
   }
 }
