@@ -3,10 +3,11 @@ import { seesAllSites, type Role } from '../../shared/auth/roles';
 import { DERIVED_FIELDS, ENTITY_FIELDS, type EntityName } from '../../shared/model/entities';
 import { CLOSURE_REVIEW_FIELDS } from '../../shared/model/field-records';
 import { fieldErrorsFromZod } from '../core/errors';
+import { notifyWritten } from './after-write';
 import type { ChangeBuffer } from './change-buffer';
 import { ENTITY_DEFS, type EntityDef, type WriteAction } from './entity-registry';
 import { deriveFields, warningsFor } from './record-derivations';
-import { checkReferences, lockedCampaignMessage } from './record-references';
+import { checkReferences, forgetReference, lockedCampaignMessage } from './record-references';
 import { sameValue, toWire } from './wire';
 import { rejected, type WriteOutcome } from './write-outcome';
 
@@ -39,13 +40,21 @@ export async function writeRecord(em: EntityManager, actor: Actor, op: WriteOp, 
   opts: { deviceId?: string | null } = {}): Promise<WriteOutcome> {
   const d = ENTITY_DEFS[op.entity];
   if (!d) return rejected(400, `Unknown entity "${String(op.entity)}"`);
-  const existing = await lockRecord(em, d, op.id);
   const ctx = { em, actor, d, changes, deviceId: opts.deviceId ?? null };
-  if (op.op === 'delete') return deleteRecord(ctx, op, existing);
   const incoming = clientFields(op.entity, op.fields);
+  // Creates try the insert first (ON CONFLICT DO NOTHING): one round trip fewer for the common case.
+  if (op.op === 'upsert' && op.baseRev === null && isUuid(op.id)) {
+    const created = await createRecord(ctx, op, incoming);
+    if (created !== ID_TAKEN) return created;
+  }
+  const existing = await lockRecord(em, d, op.id);
+  if (op.op === 'delete') return deleteRecord(ctx, op, existing);
   if (!existing) {
     if (op.baseRev !== null) return rejected(404, `There is no ${op.entity} ${op.id} to change`);
-    return createRecord(ctx, op, incoming);
+    // The insert was skipped yet no row has this id: another unique value (a collar code) is taken.
+    return isUuid(op.id)
+      ? rejected(409, `Another ${op.entity} already uses one of these values (for example the same code at this site)`)
+      : rejected(400, `${op.id} is not a valid record id`);
   }
   const current = toWire(existing);
   if (op.baseRev === null) return repeatedCreate(d, current, incoming);
@@ -61,8 +70,13 @@ interface Ctx {
   deviceId: string | null;
 }
 
+const isUuid = (id: string) => /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(id);
+
+/** createRecord's answer when the id already exists: the caller handles it as a repeated create. */
+const ID_TAKEN: WriteOutcome = { status: 'duplicate' };
+
 async function lockRecord(em: EntityManager, d: EntityDef, id: string): Promise<ObjectLiteral | null> {
-  if (!/^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(id)) return null;
+  if (!isUuid(id)) return null;
   return em.getRepository(d.target).createQueryBuilder('r').setLock('pessimistic_write').where('r.id = :id', { id }).getOne();
 }
 
@@ -109,8 +123,11 @@ async function createRecord(ctx: Ctx, op: WriteOp, incoming: Record<string, unkn
   const derived = await deriveFields(ctx.em, d.name, next, null);
   const row = { ...next, ...derived, id: op.id, rev: 1, updatedAt: new Date(), updatedBy: ctx.actor.id, deleted: false };
   const record = toWire(row);
-  await ctx.em.getRepository(d.target).insert({ ...row }); // insert() writes DB defaults back into its argument
+  const inserted = await ctx.em.getRepository(d.target).createQueryBuilder().insert()
+    .values({ ...row }).orIgnore().returning('id').execute(); // a copy: insert writes DB defaults back into its values
+  if (!inserted.raw.length) return ID_TAKEN;
   ctx.changes.add({ entity: d.name, recordId: op.id, rev: 1, siteId, fields: Object.keys(next), deleted: false, userId: ctx.actor.id, deviceId: ctx.deviceId });
+  await notifyWritten({ em: ctx.em, actorId: ctx.actor.id, entity: d.name, id: op.id, action: 'create', before: null, after: record, changed: Object.keys(next), changes: ctx.changes });
   return { status: 'applied', rev: 1, record, warnings: await warningsFor(ctx.em, d.name, record) };
 }
 
@@ -175,6 +192,7 @@ async function updateRecord(ctx: Ctx, op: WriteOp, current: Record<string, unkno
   const derivedChanged = Object.keys(derived).filter((k) => !sameValue(derived[k], current[k]));
   ctx.changes.add({ entity: d.name, recordId: op.id, rev: rev + 1, siteId, fields: [...changed, ...derivedChanged], deleted: false, userId: ctx.actor.id, deviceId: ctx.deviceId });
   const record = toWire({ ...current, ...patch });
+  await notifyWritten({ em: ctx.em, actorId: ctx.actor.id, entity: d.name, id: op.id, action: 'update', before: current, after: record, changed, changes: ctx.changes });
   return { status: stale ? 'merged' : 'applied', rev: rev + 1, record, warnings: await warningsFor(ctx.em, d.name, record) };
 }
 
@@ -193,6 +211,9 @@ async function deleteRecord(ctx: Ctx, op: WriteOp, existing: ObjectLiteral | nul
   }
   const patch = { deleted: true, rev: rev + 1, updatedAt: new Date(), updatedBy: ctx.actor.id };
   await ctx.em.getRepository(d.target).update({ id: op.id }, patch);
+  forgetReference(ctx.em, d.table, op.id);
   ctx.changes.add({ entity: d.name, recordId: op.id, rev: rev + 1, siteId, fields: ['deleted'], deleted: true, userId: ctx.actor.id, deviceId: ctx.deviceId });
-  return { status: 'applied', rev: rev + 1, record: toWire({ ...current, ...patch }) };
+  const record = toWire({ ...current, ...patch });
+  await notifyWritten({ em: ctx.em, actorId: ctx.actor.id, entity: d.name, id: op.id, action: 'delete', before: current, after: record, changed: ['deleted'], changes: ctx.changes });
+  return { status: 'applied', rev: rev + 1, record };
 }

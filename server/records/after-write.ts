@@ -1,0 +1,35 @@
+import type { EntityManager } from 'typeorm';
+import type { EntityName } from '../../shared/model/entities';
+import type { ChangeBuffer } from './change-buffer';
+
+/** One applied write, as the listeners see it: inside the writing transaction, after the row changed. */
+export interface WrittenRecord {
+  em: EntityManager;
+  actorId: string;
+  entity: EntityName;
+  id: string;
+  action: 'create' | 'update' | 'delete';
+  /** The record before the write (null on create) and after it, in wire form. */
+  before: Record<string, unknown> | null;
+  after: Record<string, unknown>;
+  /** Client fields that changed (derived fields not included). */
+  changed: string[];
+  changes: ChangeBuffer;
+}
+
+export type AfterWrite = (w: WrittenRecord) => Promise<void>;
+
+const listeners = new Set<AfterWrite>();
+
+/**
+ * Features that must follow writes (review history, recompute requests) register here instead
+ * of adding special cases to the writer. Listeners run in the writer's transaction, so what
+ * they store commits or rolls back with the write. Registering the same function twice is a no-op.
+ */
+export function onRecordWritten(listener: AfterWrite): void {
+  listeners.add(listener);
+}
+
+export async function notifyWritten(w: WrittenRecord): Promise<void> {
+  for (const l of listeners) await l(w);
+}
