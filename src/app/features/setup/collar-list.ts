@@ -1,0 +1,89 @@
+import { ScrollingModule } from '@angular/cdk/scrolling';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatButtonToggleModule } from '@angular/material/button-toggle';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatInputModule } from '@angular/material/input';
+import { serverMessage } from '../../core/api/api-error';
+import { SetupApi, type Rec } from './setup-api';
+
+/**
+ * A site's collars (possibly thousands) in a virtual-scroll list with a filter, and the
+ * printable tag sheet (one QR code per collar that Walk opens) in A4 or Letter.
+ */
+@Component({
+  selector: 'fw-collar-list',
+  imports: [ScrollingModule, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatInputModule],
+  template: `
+    <section aria-labelledby="collars-heading">
+      <h3 id="collars-heading">Collars ({{ collars().length }})</h3>
+      <div class="tags">
+        <mat-button-toggle-group [value]="paper()" (change)="paper.set($event.value)" aria-label="Paper size of the tag sheet">
+          <mat-button-toggle value="a4">A4</mat-button-toggle>
+          <mat-button-toggle value="letter">Letter</mat-button-toggle>
+        </mat-button-toggle-group>
+        <a mat-flat-button [href]="tagUrl()" download data-testid="tag-sheet">Download tag sheet (PDF)</a>
+      </div>
+      <mat-form-field subscriptSizing="dynamic">
+        <mat-label>Filter collars</mat-label>
+        <input matInput (input)="filter.set($any($event.target).value.trim().toLowerCase())" />
+      </mat-form-field>
+      <div class="row header" aria-hidden="true"><span>Code</span><span>Plot</span><span>Diameter (cm)</span><span>Status</span><span>Notes</span></div>
+      <cdk-virtual-scroll-viewport itemSize="36" class="viewport" role="list" aria-label="Collars of the site">
+        <div class="row" role="listitem" *cdkVirtualFor="let c of shown(); trackBy: byId">
+          <span>{{ c['code'] }}</span><span>{{ plotCode(c) }}</span><span>{{ c['diameterCm'] ?? '' }}</span>
+          <span>{{ c['status'] }}</span><span class="notes">{{ c['notes'] }}</span>
+        </div>
+      </cdk-virtual-scroll-viewport>
+      <p role="status">{{ message() }}</p>
+    </section>
+  `,
+  styles: `
+    .tags { display: flex; gap: 1rem; align-items: center; margin-block: .5rem 1rem; flex-wrap: wrap; }
+    .viewport { height: 360px; border: 1px solid var(--mat-sys-outline-variant); border-radius: 8px; }
+    .row { display: grid; grid-template-columns: 8rem 6rem 8rem 6rem 1fr; gap: .5rem; height: 36px; align-items: center; padding-inline: .75rem; }
+    .header { font-weight: 600; }
+    .notes { overflow: hidden; text-overflow: ellipsis; white-space: nowrap; }
+  `,
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class CollarList {
+  private readonly api = inject(SetupApi);
+  readonly siteId = input.required<string>();
+  readonly plots = input<Rec[]>([]);
+  readonly reloadToken = input(0);
+
+  protected readonly collars = signal<Rec[]>([]);
+  protected readonly filter = signal('');
+  protected readonly paper = signal<'a4' | 'letter'>('a4');
+  protected readonly message = signal('');
+  protected readonly tagUrl = computed(() => this.api.tagSheetUrl(this.siteId(), this.paper()));
+  private readonly plotCodes = computed(() => new Map(this.plots().map((p) => [p.id, String(p['code'])])));
+  protected readonly shown = computed(() => {
+    const f = this.filter();
+    return f ? this.collars().filter((c) => `${c['code']} ${this.plotCode(c)} ${c['notes']}`.toLowerCase().includes(f)) : this.collars();
+  });
+
+  constructor() {
+    effect(() => {
+      this.reloadToken();
+      void this.load(this.siteId());
+    });
+  }
+
+  protected plotCode(c: Rec): string {
+    return this.plotCodes().get(String(c['plotId'])) ?? '';
+  }
+
+  protected byId(_: number, c: Rec): string {
+    return c.id;
+  }
+
+  private async load(siteId: string): Promise<void> {
+    try {
+      this.collars.set(await this.api.list('collars', { siteId }));
+    } catch (err) {
+      this.message.set(serverMessage(err, 'Could not load the collars'));
+    }
+  }
+}

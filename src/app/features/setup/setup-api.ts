@@ -1,0 +1,93 @@
+import { HttpClient } from '@angular/common/http';
+import { Injectable, inject } from '@angular/core';
+import { firstValueFrom } from 'rxjs';
+
+export type Rec = Record<string, unknown> & { id: string; rev: number };
+
+export interface ImportCellError {
+  row: number;
+  column: string;
+  message: string;
+}
+
+export interface ImportPreview {
+  headers: string[];
+  mapping: Record<string, string>;
+  targets: Record<string, { label: string; unit: string | null; required: boolean }>;
+  rows: { row: number; cells: Record<string, string>; errors: ImportCellError[] }[];
+  fileErrors: ImportCellError[];
+  validRows: number;
+  errorRows: number;
+}
+
+export interface UserRow {
+  id: string;
+  email: string;
+  displayName: string;
+  roles: string[];
+  siteIds: string[];
+  disabled?: boolean;
+}
+
+/** Setup's calls: the generic record routes plus import, tags, profile versions and users. */
+@Injectable({ providedIn: 'root' })
+export class SetupApi {
+  private readonly http = inject(HttpClient);
+
+  async list(path: string, query: Record<string, string> = {}): Promise<Rec[]> {
+    const items: Rec[] = [];
+    // Pages of 1000 (the server's cap) until the total is reached: a site may hold thousands of collars.
+    for (let offset = 0; ; offset += 1000) {
+      const res = await firstValueFrom(this.http.get<{ items: Rec[]; total: number }>(`/api/${path}`, {
+        params: { ...query, limit: '1000', offset: String(offset) },
+      }));
+      items.push(...res.items);
+      if (items.length >= res.total || !res.items.length) return items;
+    }
+  }
+
+  async create(path: string, fields: Record<string, unknown>): Promise<Rec> {
+    return (await firstValueFrom(this.http.post<{ record: Rec }>(`/api/${path}`, fields))).record;
+  }
+
+  async update(path: string, id: string, rev: number, fields: Record<string, unknown>): Promise<Rec> {
+    return (await firstValueFrom(this.http.patch<{ record: Rec }>(`/api/${path}/${id}`, { rev, ...fields }))).record;
+  }
+
+  async remove(path: string, id: string, rev: number): Promise<void> {
+    await firstValueFrom(this.http.delete(`/api/${path}/${id}`, { params: { rev: String(rev) } }));
+  }
+
+  previewImport(siteId: string, csv: string, mapping: Record<string, string>): Promise<ImportPreview> {
+    return firstValueFrom(this.http.post<ImportPreview>(`/api/sites/${siteId}/collar-import/preview`, { csv, mapping }));
+  }
+
+  commitImport(siteId: string, csv: string, mapping: Record<string, string>): Promise<{ created: number }> {
+    return firstValueFrom(this.http.post<{ created: number }>(`/api/sites/${siteId}/collar-import/commit`, { csv, mapping }));
+  }
+
+  tagSheetUrl(siteId: string, paper: 'a4' | 'letter'): string {
+    return `/api/sites/${siteId}/collar-tags.pdf?paper=${paper}`;
+  }
+
+  profileUsage(id: string): Promise<{ closures: number }> {
+    return firstValueFrom(this.http.get<{ closures: number }>(`/api/chamber-profiles/${id}/usage`));
+  }
+
+  recomputePreview(siteId: string, validFrom: string): Promise<{ closures: number; lockedKept: number; until: string | null }> {
+    return firstValueFrom(this.http.post<{ closures: number; lockedKept: number; until: string | null }>(
+      `/api/sites/${siteId}/chamber-profiles/recompute-preview`, { validFrom }));
+  }
+
+  addProfileVersion(id: string, fields: Record<string, unknown>): Promise<{ record: Rec; recomputed: number; lockedKept: number }> {
+    return firstValueFrom(this.http.post<{ record: Rec; recomputed: number; lockedKept: number }>(`/api/chamber-profiles/${id}/versions`, fields));
+  }
+
+  async users(): Promise<UserRow[]> {
+    return (await firstValueFrom(this.http.get<{ items: UserRow[] }>('/api/users'))).items;
+  }
+
+  async updateUser(id: string, changes: Partial<Pick<UserRow, 'roles' | 'siteIds' | 'disabled' | 'displayName'>>): Promise<UserRow> {
+    return (await firstValueFrom(this.http.patch<{ user: UserRow }>(`/api/users/${id}`, changes))).user;
+  }
+}

@@ -1,0 +1,113 @@
+import { ChangeDetectionStrategy, Component, computed, effect, inject, input, output, signal } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
+import { pressureFromElevationKpa } from '../../../../shared/flux/standard-atmosphere';
+import { siteFields } from '../../../../shared/model/site-layout';
+import { fieldProblems, serverMessage } from '../../core/api/api-error';
+import { issuesByField } from './record-fields';
+import { SetupApi, type Rec } from './setup-api';
+
+type Draft = Partial<Record<string, string>>;
+
+const NUMBER_FIELDS = ['elevationM', 'latitude', 'longitude', 'tempDepthCm', 'settlingDaysHard', 'settlingDaysWarn', 'offsetSpreadPct',
+  'offsetMoveCm', 'leakSlopeUmolMolS', 'ambientMarginPpm'] as const;
+const NULLABLE = new Set(['elevationM', 'latitude', 'longitude', 'tileUrl', 'tileAttribution']);
+
+/** Thresholds of the site, with the unit each is entered in. */
+export const THRESHOLDS = [
+  { key: 'settlingDaysHard', label: 'Settling days (refuse before)', unit: 'days' },
+  { key: 'settlingDaysWarn', label: 'Settling days (warn before)', unit: 'days' },
+  { key: 'offsetSpreadPct', label: 'Offset spread', unit: '%' },
+  { key: 'offsetMoveCm', label: 'Offset move', unit: 'cm' },
+  { key: 'leakSlopeUmolMolS', label: 'Leak-check slope', unit: 'µmol/mol/s' },
+  { key: 'ambientMarginPpm', label: 'Start-above-ambient margin', unit: 'µmol/mol' },
+  { key: 'tempDepthCm', label: 'Soil temperature depth for responses', unit: 'cm' },
+] as const;
+
+/** Creates or edits a site; checked with the shared site schema before it is sent. */
+@Component({
+  selector: 'fw-site-form',
+  imports: [MatFormFieldModule, MatInputModule, MatSelectModule, MatButtonModule],
+  templateUrl: './site-form.html',
+  styleUrl: './site-form.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class SiteForm {
+  private readonly api = inject(SetupApi);
+  readonly site = input<Rec | null>(null);
+  readonly saved = output<Rec>();
+
+  protected readonly thresholds = THRESHOLDS;
+  protected readonly draft = signal<Draft>({});
+  protected readonly errors = signal<Record<string, string>>({});
+  protected readonly message = signal('');
+  protected readonly busy = signal(false);
+  /** US Standard Atmosphere 1976 pressure at the elevation: what closures without a pressure series use. */
+  protected readonly defaultPressure = computed(() => {
+    const raw = this.draft()['elevationM'] ?? '';
+    const kpa = raw.trim() === '' ? NaN : pressureFromElevationKpa(Number(raw));
+    return Number.isFinite(kpa) ? kpa.toFixed(2) : null;
+  });
+
+  constructor() {
+    effect(() => this.draft.set(toDraft(this.site())));
+  }
+
+  protected set(key: string, value: string): void {
+    this.draft.update((d) => ({ ...d, [key]: value }));
+  }
+
+  protected async save(): Promise<void> {
+    const fields = fromDraft(this.draft());
+    const check = siteFields.safeParse(fields);
+    if (!check.success) {
+      this.errors.set(issuesByField(check.error.issues));
+      this.message.set('Some fields need attention');
+      return;
+    }
+    this.busy.set(true);
+    try {
+      const current = this.site();
+      const rec = current ? await this.api.update('sites', current.id, current.rev, fields) : await this.api.create('sites', fields);
+      this.errors.set({});
+      this.message.set(current ? 'Site saved' : 'Site created');
+      this.saved.emit(rec);
+    } catch (err) {
+      this.errors.set(Object.fromEntries(fieldProblems(err).map((p) => [p.path, p.message])));
+      this.message.set(serverMessage(err, 'The site was not saved'));
+    } finally {
+      this.busy.set(false);
+    }
+  }
+}
+
+function toDraft(site: Rec | null): Draft {
+  const s = (site ?? {}) as Record<string, unknown>;
+  const str = (v: unknown, d = '') => (v === null || v === undefined ? d : String(v));
+  const cal = (s['moistureCalibration'] ?? { kind: 'topp' }) as { kind: string; coefficients?: number[]; validMin?: number | null; validMax?: number | null };
+  return {
+    name: str(s['name']), timezone: str(s['timezone'], Intl.DateTimeFormat().resolvedOptions().timeZone),
+    elevationM: str(s['elevationM']), latitude: str(s['latitude']), longitude: str(s['longitude']), safetyNote: str(s['safetyNote']),
+    calibration: cal.kind, coefficients: (cal.coefficients ?? []).join(', '), validMin: str(cal.validMin), validMax: str(cal.validMax),
+    tempDepthCm: str(s['tempDepthCm'], '5'), settlingDaysHard: str(s['settlingDaysHard'], '1'), settlingDaysWarn: str(s['settlingDaysWarn'], '7'),
+    offsetSpreadPct: str(s['offsetSpreadPct'], '3'), offsetMoveCm: str(s['offsetMoveCm'], '1'), leakSlopeUmolMolS: str(s['leakSlopeUmolMolS'], '0.05'),
+    ambientMarginPpm: str(s['ambientMarginPpm'], '100'), digestLocalTime: str(s['digestLocalTime'], '18:00'),
+    tileUrl: str(s['tileUrl']), tileAttribution: str(s['tileAttribution']),
+  };
+}
+
+function fromDraft(d: Draft): Record<string, unknown> {
+  const out: Record<string, unknown> = { name: d['name'] ?? '', timezone: d['timezone'] ?? '', safetyNote: d['safetyNote'] ?? '', digestLocalTime: d['digestLocalTime'] ?? '' };
+  for (const k of NUMBER_FIELDS) {
+    const raw = (d[k] ?? '').trim();
+    out[k] = raw === '' ? (NULLABLE.has(k) ? null : undefined) : Number(raw);
+  }
+  for (const k of ['tileUrl', 'tileAttribution']) out[k] = (d[k] ?? '').trim() === '' ? null : d[k];
+  const num = (s: string | undefined) => ((s ?? '').trim() === '' ? null : Number(s));
+  out['moistureCalibration'] = d['calibration'] === 'polynomial'
+    ? { kind: 'polynomial', coefficients: (d['coefficients'] ?? '').split(/[,;\s]+/).filter(Boolean).map(Number), validMin: num(d['validMin']), validMax: num(d['validMax']) }
+    : { kind: 'topp' };
+  return out;
+}
