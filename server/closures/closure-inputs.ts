@@ -1,6 +1,8 @@
 import type { EntityManager } from 'typeorm';
 import type { ChamberProfileVersion, OffsetSetRecord } from '../../shared/flux';
 
+type Db = Pick<EntityManager, 'query'>;
+
 /** The calendar day of an instant in the site's time zone (closures and offset sets compare by local day). */
 export function localDay(iso: string | Date, timeZone: string): string {
   return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(new Date(iso));
@@ -19,42 +21,109 @@ export interface ClosureContext {
   ambientPpm: number | null;
 }
 
+interface SiteInputs {
+  timezone: string;
+  elevationM: number | null;
+  ambientMarginPpm: number;
+  profiles: { id: string; validFrom: string; chamberVolumeCm3: number; loopVolumeCm3: number; footprintAreaCm2: number | null }[];
+  /** The day's ambient reading (latest of the local day), by local day. */
+  ambientByDay: Map<string, number>;
+}
+
+interface AnalyzerInputs { precisionPpm: number | null; rangeMinPpm: number | null; rangeMaxPpm: number | null }
+
 /**
- * Everything a closure's flux depends on beyond its own series, read in a few queries:
- * site defaults, collar area, the site's profile versions, the collar's live offset sets (a
- * superseded set no longer counts), the analyzer, and the day's ambient reading.
+ * Everything a closure's flux depends on beyond its own series — site defaults, collar area, the
+ * site's profile versions, the collar's live offset sets (a superseded set no longer counts), the
+ * analyzer and the day's ambient reading — read once per site, collar and analyzer and reused
+ * for every closure that shares them. One closure's write and a recompute of thousands use this
+ * same code, so both derive the same flux.
  */
-export async function loadClosureContext(em: EntityManager, c: Record<string, unknown>): Promise<ClosureContext> {
-  const [site] = await em.query(
-    `SELECT s.timezone, s.elevation_m, s.ambient_margin_ppm, k.area_cm2
-       FROM site s JOIN collar k ON k.id = $2 WHERE s.id = $1`, [c['siteId'], c['collarId']]);
-  const timezone: string = site?.timezone ?? 'UTC';
-  const areaCm2: number | null = site?.area_cm2 ?? null;
-  const profiles = (await em.query(
-    `SELECT id, to_char(valid_from, 'YYYY-MM-DD') AS valid_from, chamber_volume_cm3, loop_volume_cm3, footprint_area_cm2
-       FROM chamber_profile WHERE site_id = $1 AND NOT deleted`, [c['siteId']]))
-    .map((p: Record<string, unknown>) => ({
-      id: p['id'] as string, validFrom: p['valid_from'] as string, chamberVolumeCm3: p['chamber_volume_cm3'] as number,
-      loopVolumeCm3: p['loop_volume_cm3'] as number, areaCm2: (p['footprint_area_cm2'] as number | null) ?? areaCm2 ?? NaN,
-    }));
-  const offsetSets = (await em.query(
-    `SELECT o.id, o.taken_at, o.readings_cm FROM offset_set o
-      WHERE o.collar_id = $1 AND NOT o.deleted
-        AND NOT EXISTS (SELECT 1 FROM offset_set n WHERE n.supersedes_id = o.id AND NOT n.deleted)`, [c['collarId']]))
-    .map((o: { id: string; taken_at: Date; readings_cm: number[] }) => ({
-      id: o.id, takenAt: o.taken_at.toISOString(), takenOn: localDay(o.taken_at, timezone), offsetsCm: o.readings_cm,
-    }));
-  const [analyzer] = c['analyzerId']
-    ? await em.query(`SELECT precision_ppm, range_min_ppm, range_max_ppm FROM analyzer WHERE id = $1`, [c['analyzerId']])
-    : [];
-  const day = localDay(String(c['startedAt']), timezone);
-  const [ambient] = await em.query(
-    `SELECT co2_ppm FROM analyzer_check WHERE site_id = $1 AND kind = 'ambient' AND NOT skipped AND NOT deleted
-        AND co2_ppm IS NOT NULL AND (at AT TIME ZONE $2)::date = $3::date ORDER BY at DESC LIMIT 1`,
-    [c['siteId'], timezone, day]);
-  return {
-    timezone, elevationM: site?.elevation_m ?? null, ambientMarginPpm: site?.ambient_margin_ppm ?? 100, areaCm2, profiles, offsetSets,
-    precisionPpm: analyzer?.precision_ppm ?? null, rangeMinPpm: analyzer?.range_min_ppm ?? null,
-    rangeMaxPpm: analyzer?.range_max_ppm ?? null, ambientPpm: ambient?.co2_ppm ?? null,
-  };
+export class ClosureInputs {
+  private readonly sites = new Map<string, SiteInputs>();
+  private readonly collars = new Map<string, { areaCm2: number | null; offsetSets: ClosureContext['offsetSets'] }>();
+  private readonly analyzers = new Map<string, AnalyzerInputs>();
+
+  constructor(private readonly db: Db) {}
+
+  /** Reads the inputs of many closures in a few set-wise queries (recompute pages). */
+  async preload(closures: readonly Record<string, unknown>[]): Promise<void> {
+    const missing = (ids: unknown[], known: Map<string, unknown>) => [...new Set(ids.filter((x): x is string => typeof x === 'string' && !known.has(x)))];
+    for (const siteId of missing(closures.map((c) => c['siteId']), this.sites)) await this.loadSite(siteId);
+    const collarIds = missing(closures.map((c) => c['collarId']), this.collars);
+    if (collarIds.length) await this.loadCollars(collarIds);
+    const analyzerIds = missing(closures.map((c) => c['analyzerId']), this.analyzers);
+    if (analyzerIds.length) await this.loadAnalyzers(analyzerIds);
+  }
+
+  async contextFor(c: Record<string, unknown>): Promise<ClosureContext> {
+    await this.preload([c]);
+    const site = this.sites.get(String(c['siteId']));
+    const collar = this.collars.get(String(c['collarId']));
+    const analyzer = typeof c['analyzerId'] === 'string' ? this.analyzers.get(c['analyzerId']) : undefined;
+    const timezone = site?.timezone ?? 'UTC';
+    const areaCm2 = collar?.areaCm2 ?? null;
+    return {
+      timezone, elevationM: site?.elevationM ?? null, ambientMarginPpm: site?.ambientMarginPpm ?? 100, areaCm2,
+      profiles: (site?.profiles ?? []).map((p) => ({
+        id: p.id, validFrom: p.validFrom, chamberVolumeCm3: p.chamberVolumeCm3, loopVolumeCm3: p.loopVolumeCm3,
+        areaCm2: p.footprintAreaCm2 ?? areaCm2 ?? NaN,
+      })),
+      offsetSets: collar?.offsetSets ?? [],
+      precisionPpm: analyzer?.precisionPpm ?? null, rangeMinPpm: analyzer?.rangeMinPpm ?? null, rangeMaxPpm: analyzer?.rangeMaxPpm ?? null,
+      ambientPpm: site?.ambientByDay.get(localDay(String(c['startedAt']), timezone)) ?? null,
+    };
+  }
+
+  private async loadSite(siteId: string): Promise<void> {
+    const [s] = await this.db.query(`SELECT timezone, elevation_m, ambient_margin_ppm FROM site WHERE id = $1`, [siteId]);
+    const profiles = await this.db.query(
+      `SELECT id, to_char(valid_from, 'YYYY-MM-DD') AS valid_from, chamber_volume_cm3, loop_volume_cm3, footprint_area_cm2
+         FROM chamber_profile WHERE site_id = $1 AND NOT deleted`, [siteId]);
+    const timezone: string = s?.timezone ?? 'UTC';
+    const ambient: { day: string; co2_ppm: number }[] = await this.db.query(
+      `SELECT DISTINCT ON (day) to_char((at AT TIME ZONE $2)::date, 'YYYY-MM-DD') AS day, co2_ppm
+         FROM analyzer_check WHERE site_id = $1 AND kind = 'ambient' AND NOT skipped AND NOT deleted AND co2_ppm IS NOT NULL
+        ORDER BY day, at DESC`, [siteId, timezone]);
+    this.sites.set(siteId, {
+      timezone, elevationM: s?.elevation_m ?? null, ambientMarginPpm: s?.ambient_margin_ppm ?? 100,
+      profiles: profiles.map((p: Record<string, unknown>) => ({
+        id: p['id'] as string, validFrom: p['valid_from'] as string, chamberVolumeCm3: p['chamber_volume_cm3'] as number,
+        loopVolumeCm3: p['loop_volume_cm3'] as number, footprintAreaCm2: (p['footprint_area_cm2'] as number | null) ?? null,
+      })),
+      ambientByDay: new Map(ambient.map((a) => [a.day, a.co2_ppm])),
+    });
+  }
+
+  private async loadCollars(ids: string[]): Promise<void> {
+    const collars: { id: string; area_cm2: number | null; timezone: string }[] = await this.db.query(
+      `SELECT k.id, k.area_cm2, s.timezone FROM collar k JOIN site s ON s.id = k.site_id WHERE k.id = ANY($1)`, [ids]);
+    const sets: { id: string; collar_id: string; taken_at: Date; readings_cm: number[] }[] = await this.db.query(
+      `SELECT o.id, o.collar_id, o.taken_at, o.readings_cm FROM offset_set o
+        WHERE o.collar_id = ANY($1) AND NOT o.deleted
+          AND NOT EXISTS (SELECT 1 FROM offset_set n WHERE n.supersedes_id = o.id AND NOT n.deleted)`, [ids]);
+    for (const id of ids) {
+      const k = collars.find((x) => x.id === id);
+      const tz = k?.timezone ?? 'UTC';
+      this.collars.set(id, {
+        areaCm2: k?.area_cm2 ?? null,
+        offsetSets: sets.filter((o) => o.collar_id === id).map((o) => ({
+          id: o.id, takenAt: o.taken_at.toISOString(), takenOn: localDay(o.taken_at, tz), offsetsCm: o.readings_cm,
+        })),
+      });
+    }
+  }
+
+  private async loadAnalyzers(ids: string[]): Promise<void> {
+    const rows = await this.db.query(`SELECT id, precision_ppm, range_min_ppm, range_max_ppm FROM analyzer WHERE id = ANY($1)`, [ids]);
+    for (const id of ids) {
+      const a = rows.find((r: { id: string }) => r.id === id);
+      this.analyzers.set(id, { precisionPpm: a?.precision_ppm ?? null, rangeMinPpm: a?.range_min_ppm ?? null, rangeMaxPpm: a?.range_max_ppm ?? null });
+    }
+  }
+}
+
+/** The inputs of one closure (the write path); see ClosureInputs. */
+export async function loadClosureContext(em: Db, c: Record<string, unknown>): Promise<ClosureContext> {
+  return new ClosureInputs(em).contextFor(c);
 }

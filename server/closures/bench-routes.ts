@@ -1,0 +1,48 @@
+import type { DataSource } from 'typeorm';
+import { z } from 'zod';
+import type { Role } from '../../shared/auth/roles';
+import { notFound } from '../core/errors';
+import type { RouteRegistry } from '../core/route-registry';
+import { parse } from '../core/validate';
+import { onRecordWritten } from '../records/after-write';
+import { bulkAccept } from './bulk-accept';
+import { closureDetail } from './closure-detail';
+import { closureHistory, recordReviewDecision } from './closure-history';
+import { defineRecomputeJob, requestRecompute, requestSiteRecompute } from './recompute-triggers';
+import { queueFilterSchema, queueItem, reviewQueue } from './review-queue';
+
+/** The Bench is the lab's; leads and admins may look (decisions stay the lab's: the writer enforces it). */
+const BENCH_READERS: readonly Role[] = ['lab', 'lead', 'admin'];
+const idParams = z.object({ id: z.string().uuid('Closure ids are UUIDs') });
+const recomputeBody = z.object({ siteId: z.string().uuid('siteId must be a UUID') });
+
+/**
+ * Bench routes, plus what the Bench needs from the write path: a history row for each review
+ * decision and a recompute job whenever an offset set, a profile version or a site default changes.
+ */
+export function registerBenchRoutes(r: RouteRegistry, ds: DataSource): void {
+  onRecordWritten(recordReviewDecision);
+  onRecordWritten(requestRecompute);
+  defineRecomputeJob();
+
+  r.add('get', '/api/bench/queue', BENCH_READERS, (req) => reviewQueue(ds, req.user!, req.query));
+  r.add('get', '/api/bench/closures/:id', BENCH_READERS, (req) => closureDetail(ds, req.user!, parse(idParams, req.params).id));
+  r.add('get', '/api/bench/closures/:id/history', BENCH_READERS, async (req) => {
+    const { id } = parse(idParams, req.params);
+    if (!(await queueItem(ds, req.user!, id))) throw notFound(`No closure ${id}`);
+    return { items: await closureHistory(ds, id) };
+  });
+  r.add('post', '/api/bench/bulk-accept', ['lab'], (req) =>
+    bulkAccept(ds, req.user!, parse(queueFilterSchema, stringify(req.body), 'Some queue filters are not valid')));
+  r.add('post', '/api/bench/recompute', ['lab', 'admin'], async (req, res) => {
+    const { siteId } = parse(recomputeBody, req.body);
+    res.status(202);
+    return { jobId: await requestSiteRecompute(ds, siteId, req.user!.id) };
+  });
+}
+
+/** The bulk body carries the queue's filter as the query string would (the schema coerces strings). */
+function stringify(body: unknown): Record<string, string> {
+  const o = (body ?? {}) as Record<string, unknown>;
+  return Object.fromEntries(Object.entries(o).filter(([, v]) => v !== null && v !== undefined && v !== '').map(([k, v]) => [k, String(v)]));
+}

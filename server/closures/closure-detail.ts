@@ -1,0 +1,55 @@
+import type { DataSource } from 'typeorm';
+import type { SessionUser } from '../../shared/auth/roles';
+import { notFound } from '../core/errors';
+import { toWire } from '../records/wire';
+import { ClosureEntity } from './closure.entity';
+import { closureHistory } from './closure-history';
+import { queueItem } from './review-queue';
+
+/** Mean, SD and CV of replicate fluxes (sample SD, n − 1); spread is what the lab compares. */
+export function replicateSpread(fluxes: number[]) {
+  const n = fluxes.length;
+  if (!n) return { n: 0, mean: null, sd: null, cvPct: null };
+  const mean = fluxes.reduce((a, b) => a + b, 0) / n;
+  const sd = n > 1 ? Math.sqrt(fluxes.reduce((a, b) => a + (b - mean) ** 2, 0) / (n - 1)) : null;
+  return { n, mean, sd, cvPct: sd !== null && mean !== 0 ? (100 * sd) / Math.abs(mean) : null };
+}
+
+/**
+ * Everything the closure view shows in one answer: the record with its series and both fits, its
+ * queue context, the offset set and profile version the volume came from, the collar's flux
+ * history, the visit's replicates with their spread, and the review history.
+ */
+export async function closureDetail(ds: DataSource, user: SessionUser, id: string) {
+  const context = await queueItem(ds, user, id);
+  if (!context) throw notFound(`No closure ${id}`);
+  const closure = toWire((await ds.getRepository(ClosureEntity).findOneByOrFail({ id })) as object);
+  const results = (closure['results'] ?? {}) as Record<string, unknown>;
+  const [offsetSet] = results['offsetSetId']
+    ? await ds.query(`SELECT id, taken_at, readings_cm, mean_cm, supersedes_id FROM offset_set WHERE id = $1`, [results['offsetSetId']]) : [];
+  const [profile] = results['profileId']
+    ? await ds.query(`SELECT id, name, to_char(valid_from, 'YYYY-MM-DD') AS valid_from, chamber_volume_cm3, loop_volume_cm3 FROM chamber_profile WHERE id = $1`, [results['profileId']]) : [];
+  const collarHistory: Record<string, unknown>[] = await ds.query(
+    `SELECT c.id, c.started_at, c.flux_umol_m2_s, c.review_state, c.flags FROM closure c
+      WHERE c.collar_id = $1 AND NOT c.deleted ORDER BY c.started_at`, [closure['collarId']]);
+  const replicates: Record<string, unknown>[] = await ds.query(
+    `SELECT c.id, c.started_at, c.flux_umol_m2_s, c.review_state, c.flags, c.redo_of_id, c.settle_s, c.review_settle_s,
+            c.series->'tS' AS t_s, c.series->'co2Ppm' AS co2_ppm
+       FROM closure c WHERE c.visit_id = $1 AND NOT c.deleted ORDER BY c.started_at`, [closure['visitId']]);
+  const counted = replicates.filter((r) => r['review_state'] !== 'rejected' && typeof r['flux_umol_m2_s'] === 'number');
+  return {
+    closure,
+    context,
+    offsetSet: offsetSet ? { id: offsetSet.id, takenAt: offsetSet.taken_at.toISOString(), readingsCm: offsetSet.readings_cm,
+      meanCm: offsetSet.mean_cm, supersedesId: offsetSet.supersedes_id } : null,
+    profile: profile ? { id: profile.id, name: profile.name, validFrom: profile.valid_from,
+      chamberVolumeCm3: profile.chamber_volume_cm3, loopVolumeCm3: profile.loop_volume_cm3 } : null,
+    collarHistory: collarHistory.map((r) => ({ id: r['id'], startedAt: (r['started_at'] as Date).toISOString(),
+      fluxUmolM2S: r['flux_umol_m2_s'], reviewState: r['review_state'], flags: r['flags'] })),
+    replicates: replicates.map((r) => ({ id: r['id'], startedAt: (r['started_at'] as Date).toISOString(), fluxUmolM2S: r['flux_umol_m2_s'],
+      reviewState: r['review_state'], flags: r['flags'], redoOfId: r['redo_of_id'], settleS: r['review_settle_s'] ?? r['settle_s'],
+      tS: r['t_s'], co2Ppm: r['co2_ppm'] })),
+    replicateSpread: replicateSpread(counted.map((r) => r['flux_umol_m2_s'] as number)),
+    history: await closureHistory(ds, id),
+  };
+}

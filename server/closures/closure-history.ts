@@ -1,0 +1,49 @@
+import type { DataSource } from 'typeorm';
+import { CLOSURE_REVIEW_FIELDS } from '../../shared/model/field-records';
+import type { WrittenRecord } from '../records/after-write';
+
+export interface HistoryEntry {
+  id: number;
+  at: string;
+  kind: 'decision' | 'recompute';
+  field: string;
+  oldValue: unknown;
+  newValue: unknown;
+  oldFluxUmolM2S: number | null;
+  newFluxUmolM2S: number | null;
+  userId: string | null;
+  userName: string | null;
+  jobId: string | null;
+}
+
+/**
+ * Every review decision, whichever way it arrives (Bench, REST, a sync push), leaves one history
+ * row per review field it changed: who, when, old → new, and the flux before and after.
+ * Runs in the writer's transaction (see records/after-write.ts).
+ */
+export async function recordReviewDecision(w: WrittenRecord): Promise<void> {
+  if (w.entity !== 'closure' || w.action !== 'update' || !w.before) return;
+  const fields = w.changed.filter((f) => (CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f));
+  if (!fields.length) return;
+  const oldFlux = (w.before['fluxUmolM2S'] as number | null) ?? null;
+  const newFlux = (w.after['fluxUmolM2S'] as number | null) ?? null;
+  await w.em.query(
+    `INSERT INTO closure_review_history (closure_id, site_id, user_id, kind, field, old_value, new_value, old_flux_umol_m2_s, new_flux_umol_m2_s)
+     SELECT $1, $2, $3, 'decision', f, o, n, $7, $8 FROM unnest($4::text[], $5::jsonb[], $6::jsonb[]) AS t(f, o, n)`,
+    [w.id, w.after['siteId'], w.actorId, fields, fields.map((f) => JSON.stringify(w.before![f] ?? null)),
+      fields.map((f) => JSON.stringify(w.after[f] ?? null)), oldFlux, newFlux]);
+}
+
+export async function closureHistory(ds: DataSource, closureId: string): Promise<HistoryEntry[]> {
+  const rows = await ds.query(
+    `SELECT h.id, h.at, h.kind, h.field, h.old_value, h.new_value, h.old_flux_umol_m2_s, h.new_flux_umol_m2_s, h.user_id, h.job_id,
+            u.display_name
+       FROM closure_review_history h LEFT JOIN app_user u ON u.id = h.user_id
+      WHERE h.closure_id = $1 ORDER BY h.at, h.id`, [closureId]);
+  return rows.map((r: Record<string, unknown>) => ({
+    id: Number(r['id']), at: (r['at'] as Date).toISOString(), kind: r['kind'] as HistoryEntry['kind'], field: r['field'] as string,
+    oldValue: r['old_value'], newValue: r['new_value'], oldFluxUmolM2S: r['old_flux_umol_m2_s'] as number | null,
+    newFluxUmolM2S: r['new_flux_umol_m2_s'] as number | null, userId: (r['user_id'] as string | null) ?? null,
+    userName: (r['display_name'] as string | null) ?? null, jobId: (r['job_id'] as string | null) ?? null,
+  }));
+}

@@ -1,0 +1,127 @@
+import type { DataSource, EntityManager } from 'typeorm';
+import { ChangeBuffer } from '../records/change-buffer';
+import { resultsFor } from './closure-results';
+import { ClosureInputs } from './closure-inputs';
+import { canonicalJson } from './canonical-json';
+
+/** Which closures a recompute looks at; every one of them is recomputed, only changed ones are written. */
+export interface RecomputeScope {
+  siteId: string;
+  collarId?: string | null;
+  /** Local days, inclusive; a closure outside them is not looked at. */
+  fromDay?: string | null;
+  reason: string;
+}
+
+export interface RecomputeOutcome {
+  examined: number;
+  changed: number;
+  /** Closures of locked campaigns keep their published results (as the profile-version screen does). */
+  lockedKept: number;
+  changedIds: string[];
+}
+
+const PAGE = 1000;
+/** Ids listed in a job's result; beyond this only the counts are kept. */
+const MAX_LISTED = 2000;
+
+const COLUMNS = `c.id, c.rev, c.site_id, c.collar_id, c.analyzer_id, c.started_at, c.settle_s, c.series, c.review_state,
+  c.review_settle_s, c.review_window_end_s, c.review_model, c.results, c.flags, c.flux_umol_m2_s, p.locked`;
+
+/**
+ * Recomputes the closures of a scope with the engine and writes only those whose results,
+ * flags or flux differ from what is stored — so running it twice changes nothing the second time
+ * (idempotent), and "exactly the affected closures" get a new revision and a change-log entry.
+ * A reviewed closure keeps its decision; when its flux moves, `results.recomputedSinceReview`
+ * keeps the flux it had when it was reviewed beside the new one, and the history says why.
+ */
+export async function recomputeClosures(ds: DataSource, scope: RecomputeScope,
+  opts: { jobId?: string | null; progress?: (done: number, total: number) => Promise<void> } = {}): Promise<RecomputeOutcome> {
+  const where = `c.site_id = $1 AND NOT c.deleted AND ($2::uuid IS NULL OR c.collar_id = $2)
+    AND ($3::date IS NULL OR (c.started_at AT TIME ZONE s.timezone)::date >= $3::date)`;
+  const args = [scope.siteId, scope.collarId ?? null, scope.fromDay ?? null];
+  const [{ n }] = await ds.query(
+    `SELECT count(*)::int AS n FROM closure c JOIN site s ON s.id = c.site_id WHERE ${where}`, args);
+  const out: RecomputeOutcome = { examined: 0, changed: 0, lockedKept: 0, changedIds: [] };
+  const inputs = new ClosureInputs(ds);
+  let after = '00000000-0000-0000-0000-000000000000';
+  for (;;) {
+    const rows: Record<string, unknown>[] = await ds.query(
+      `SELECT ${COLUMNS} FROM closure c JOIN site s ON s.id = c.site_id JOIN campaign p ON p.id = c.campaign_id
+        WHERE ${where} AND c.id > $4 ORDER BY c.id LIMIT ${PAGE}`, [...args, after]);
+    if (!rows.length) break;
+    after = String(rows[rows.length - 1]['id']);
+    await recomputePage(ds, inputs, rows, scope, opts.jobId ?? null, out);
+    out.examined += rows.length;
+    await opts.progress?.(out.examined, n);
+  }
+  return out;
+}
+
+interface Update { id: string; rev: number; siteId: string; results: string; flags: string[]; flux: number | null; oldFlux: number | null; reviewed: boolean }
+
+async function recomputePage(ds: DataSource, inputs: ClosureInputs, rows: Record<string, unknown>[], scope: RecomputeScope,
+  jobId: string | null, out: RecomputeOutcome): Promise<void> {
+  const closures = rows.map(wireOf);
+  await inputs.preload(closures);
+  const updates: Update[] = [];
+  for (let i = 0; i < rows.length; i++) {
+    const c = closures[i];
+    if (rows[i]['locked']) { out.lockedKept++; continue; }
+    const next = resultsFor(c, await inputs.contextFor(c));
+    const stored = (c['results'] ?? null) as Record<string, unknown> | null;
+    const { recomputedSinceReview: marker, ...storedResults } = stored ?? {};
+    const oldFlux = (c['fluxUmolM2S'] as number | null) ?? null;
+    const same = stored !== null && canonicalJson(storedResults) === canonicalJson(next.results)
+      && canonicalJson(c['flags']) === canonicalJson(next.flags) && oldFlux === next.fluxUmolM2S;
+    if (same) continue;
+    const reviewed = c['reviewState'] !== 'unreviewed';
+    const prior = marker as { oldFluxUmolM2S: number | null } | undefined;
+    const results = reviewed && (prior || oldFlux !== next.fluxUmolM2S)
+      ? { ...next.results, recomputedSinceReview: {
+        at: new Date().toISOString(), reason: scope.reason,
+        oldFluxUmolM2S: prior ? prior.oldFluxUmolM2S : oldFlux, newFluxUmolM2S: next.fluxUmolM2S } }
+      : next.results;
+    updates.push({ id: String(c['id']), rev: Number(c['rev']), siteId: String(c['siteId']), results: JSON.stringify(results),
+      flags: next.flags, flux: next.fluxUmolM2S, oldFlux, reviewed });
+  }
+  if (updates.length) await ds.transaction((em) => writeUpdates(em, updates, scope, jobId, out));
+}
+
+/** One statement per page; a closure whose revision moved since it was read was rewritten by the writer with current inputs and is left alone. */
+async function writeUpdates(em: EntityManager, updates: Update[], scope: RecomputeScope, jobId: string | null, out: RecomputeOutcome) {
+  const written: { id: string; rev: string; site_id: string }[] = await em.query(
+    `UPDATE closure c SET results = u.results::jsonb, flags = string_to_array(u.flags, ','), flux_umol_m2_s = u.flux,
+            rev = c.rev + 1, updated_at = now(), updated_by = NULL
+       FROM unnest($1::uuid[], $2::bigint[], $3::text[], $4::text[], $5::float8[]) AS u(id, rev, results, flags, flux)
+      WHERE c.id = u.id AND c.rev = u.rev
+      RETURNING c.id, c.rev, c.site_id`,
+    [updates.map((u) => u.id), updates.map((u) => u.rev), updates.map((u) => u.results),
+      updates.map((u) => u.flags.join(',')), updates.map((u) => u.flux)]);
+  const byId = new Map(updates.map((u) => [u.id, u]));
+  const changes = new ChangeBuffer();
+  for (const w of written) {
+    changes.add({ entity: 'closure', recordId: w.id, rev: Number(w.rev), siteId: w.site_id,
+      fields: ['results', 'flags', 'fluxUmolM2S'], deleted: false, userId: null, deviceId: null });
+  }
+  const ids = written.map((w) => w.id);
+  await em.query(
+    `INSERT INTO closure_review_history (closure_id, site_id, user_id, kind, field, old_value, new_value, old_flux_umol_m2_s, new_flux_umol_m2_s, job_id)
+     SELECT u.id, u.site, NULL, 'recompute', 'fluxUmolM2S', to_jsonb(u.old), to_jsonb(u.new), u.old, u.new, $6
+       FROM unnest($1::uuid[], $2::uuid[], $3::float8[], $4::float8[], $5::boolean[]) AS u(id, site, old, new, reviewed)`,
+    [ids, ids.map((id) => byId.get(id)!.siteId), ids.map((id) => byId.get(id)!.oldFlux), ids.map((id) => byId.get(id)!.flux),
+      ids.map((id) => byId.get(id)!.reviewed), jobId]);
+  await changes.flush(em);
+  out.changed += written.length;
+  for (const id of ids) if (out.changedIds.length < MAX_LISTED) out.changedIds.push(id);
+  void scope;
+}
+
+function wireOf(r: Record<string, unknown>): Record<string, unknown> {
+  return {
+    id: r['id'], rev: Number(r['rev']), siteId: r['site_id'], collarId: r['collar_id'], analyzerId: r['analyzer_id'],
+    startedAt: (r['started_at'] as Date).toISOString(), settleS: r['settle_s'], series: r['series'], reviewState: r['review_state'],
+    reviewSettleS: r['review_settle_s'], reviewWindowEndS: r['review_window_end_s'], reviewModel: r['review_model'],
+    results: r['results'], flags: r['flags'], fluxUmolM2S: r['flux_umol_m2_s'],
+  };
+}

@@ -1,0 +1,170 @@
+import type { DataSource } from 'typeorm';
+import { z } from 'zod';
+import { seesAllSites, type SessionUser } from '../../shared/auth/roles';
+import { REVIEW_STATES } from '../../shared/model/field-records';
+import { QC_FLAGS } from '../../shared/flux';
+import { parse } from '../core/validate';
+
+const bool = z.enum(['true', 'false']).transform((v) => v === 'true');
+const days = z.coerce.number().min(0).max(36500);
+
+/** Filters of the review queue: the design (site … collar), the fit (flag, state) and the context of the day. */
+export const queueFilterSchema = z.object({
+  siteId: z.string().uuid().optional(),
+  campaignId: z.string().uuid().optional(),
+  round: z.coerce.number().int().min(1).optional(),
+  treatmentId: z.string().uuid().optional(),
+  plotId: z.string().uuid().optional(),
+  collarId: z.string().uuid().optional(),
+  flag: z.enum(Object.keys(QC_FLAGS) as [string, ...string[]]).or(z.literal('none')).or(z.literal('any')).optional(),
+  reviewState: z.enum(REVIEW_STATES).optional(),
+  /** At most this many days since the collar was installed or reseated (settling disturbance). */
+  installedWithinDays: days.optional(),
+  clippedWithinDays: days.optional(),
+  rain24h: bool.optional(),
+  /** The analyzer's last calibration at least this many days before the closure. */
+  calibrationOlderThanDays: days.optional(),
+  /** |drift| of that calibration at least this many µmol/mol. */
+  driftAtLeastPpm: z.coerce.number().min(0).max(5000).optional(),
+  leakFailed: bool.optional(),
+  recomputedSinceReview: bool.optional(),
+});
+export type QueueFilter = z.infer<typeof queueFilterSchema>;
+
+const pageSchema = z.object({
+  limit: z.coerce.number().int().min(1).max(500).default(50),
+  offset: z.coerce.number().int().min(0).default(0),
+});
+
+/**
+ * The closures with their context, filtered and paged in ONE query: design labels, visit
+ * conditions, days since install/reseat and clipping (latest event on or before the closure's
+ * local day), the analyzer's latest calibration (age, drift) and a failed leak check that day.
+ * `idsOnly` serves bulk actions over the same filter.
+ */
+function queueSql(filter: QueueFilter & { id?: string }, readable: string[] | null) {
+  const args: unknown[] = [];
+  const p = (v: unknown) => { args.push(v); return `$${args.length}`; };
+  const where: string[] = ['NOT c.deleted'];
+  if (readable) where.push(`c.site_id = ANY(${p(readable)}::uuid[])`);
+  if (filter.id) where.push(`c.id = ${p(filter.id)}`);
+  if (filter.siteId) where.push(`c.site_id = ${p(filter.siteId)}`);
+  if (filter.campaignId) where.push(`c.campaign_id = ${p(filter.campaignId)}`);
+  if (filter.round) where.push(`v.round = ${p(filter.round)}`);
+  if (filter.treatmentId) where.push(`coalesce(k.treatment_id, pl.treatment_id) = ${p(filter.treatmentId)}`);
+  if (filter.plotId) where.push(`k.plot_id = ${p(filter.plotId)}`);
+  if (filter.collarId) where.push(`c.collar_id = ${p(filter.collarId)}`);
+  if (filter.flag === 'none') where.push(`c.flags = '{}'`);
+  else if (filter.flag === 'any') where.push(`c.flags <> '{}'`);
+  else if (filter.flag) where.push(`c.flags @> ARRAY[${p(filter.flag)}]::text[]`);
+  if (filter.reviewState) where.push(`c.review_state = ${p(filter.reviewState)}`);
+  if (filter.rain24h !== undefined) where.push(`coalesce((v.conditions->>'rain24h')::boolean, false) = ${p(filter.rain24h)}`);
+  if (filter.recomputedSinceReview !== undefined) where.push(`(c.results ? 'recomputedSinceReview') = ${p(filter.recomputedSinceReview)}`);
+  const ctx: string[] = [];
+  if (filter.installedWithinDays !== undefined) ctx.push(`days_since_install <= ${p(filter.installedWithinDays)}`);
+  if (filter.clippedWithinDays !== undefined) ctx.push(`days_since_clipping <= ${p(filter.clippedWithinDays)}`);
+  if (filter.calibrationOlderThanDays !== undefined) ctx.push(`(calibration_age_days IS NULL OR calibration_age_days >= ${p(filter.calibrationOlderThanDays)})`);
+  if (filter.driftAtLeastPpm !== undefined) ctx.push(`abs(calibration_drift_ppm) >= ${p(filter.driftAtLeastPpm)}`);
+  if (filter.leakFailed !== undefined) ctx.push(`leak_failed = ${p(filter.leakFailed)}`);
+  const sql = `
+    WITH q AS (
+      SELECT c.id, c.rev, c.site_id, c.campaign_id, c.visit_id, c.collar_id, c.started_at, c.settle_s, c.flags, c.flux_umol_m2_s,
+             c.review_state, c.review_reason, c.review_settle_s, c.review_window_end_s, c.review_model, c.redo_of_id,
+             c.results->'recomputedSinceReview' AS recomputed_since_review,
+             k.code AS collar_code, pl.code AS plot_code, b.code AS block_code, t.code AS treatment_code, cp.name AS campaign_name,
+             cp.locked AS campaign_locked, v.round, coalesce((v.conditions->>'rain24h')::boolean, false) AS rain24h,
+             d.day, d.day - inst.date AS days_since_install, d.day - clip.date AS days_since_clipping,
+             (c.started_at::date - cal.at::date) AS calibration_age_days, cal.drift_ppm AS calibration_drift_ppm,
+             EXISTS (SELECT 1 FROM analyzer_check l WHERE l.site_id = c.site_id AND l.kind = 'leak' AND l.passed = false AND NOT l.deleted
+                        AND (l.analyzer_id IS NULL OR c.analyzer_id IS NULL OR l.analyzer_id = c.analyzer_id)
+                        AND (l.at AT TIME ZONE s.timezone)::date = d.day) AS leak_failed
+        FROM closure c
+        JOIN site s ON s.id = c.site_id
+        JOIN collar k ON k.id = c.collar_id
+        JOIN plot pl ON pl.id = k.plot_id
+        LEFT JOIN block b ON b.id = pl.block_id
+        LEFT JOIN treatment t ON t.id = coalesce(k.treatment_id, pl.treatment_id)
+        JOIN campaign cp ON cp.id = c.campaign_id
+        JOIN visit v ON v.id = c.visit_id
+        CROSS JOIN LATERAL (SELECT (c.started_at AT TIME ZONE s.timezone)::date AS day) d
+        LEFT JOIN LATERAL (
+          SELECT max(x.date) AS date FROM (
+            SELECT e.date FROM collar_event e WHERE e.collar_id = c.collar_id AND NOT e.deleted AND e.kind IN ('installed', 'reseated') AND e.date <= d.day
+            UNION ALL SELECT k.installed_on WHERE k.installed_on <= d.day) x) inst ON true
+        LEFT JOIN LATERAL (
+          SELECT max(e.date) AS date FROM collar_event e
+           WHERE e.collar_id = c.collar_id AND NOT e.deleted AND e.kind = 'clipped' AND e.date <= d.day) clip ON true
+        LEFT JOIN LATERAL (
+          SELECT a.at, a.drift_ppm FROM analyzer_check a
+           WHERE a.site_id = c.site_id AND a.kind = 'calibration' AND NOT a.deleted AND NOT a.skipped AND a.at <= c.started_at
+             AND (a.analyzer_id IS NULL OR c.analyzer_id IS NULL OR a.analyzer_id = c.analyzer_id)
+           ORDER BY a.at DESC LIMIT 1) cal ON true
+       WHERE ${where.join(' AND ')})
+    SELECT q.*, count(*) OVER () AS total FROM q ${ctx.length ? `WHERE ${ctx.join(' AND ')}` : ''}`;
+  return { sql, args, p };
+}
+
+export interface QueueItem {
+  id: string; rev: number; siteId: string; campaignId: string; visitId: string; collarId: string; startedAt: string; day: string;
+  settleS: number; flags: string[]; fluxUmolM2S: number | null; reviewState: string; reviewReason: string | null;
+  reviewSettleS: number | null; reviewWindowEndS: number | null; reviewModel: string | null; redoOfId: string | null;
+  recomputedSinceReview: { oldFluxUmolM2S: number | null; newFluxUmolM2S: number | null; at: string; reason: string } | null;
+  collarCode: string; plotCode: string; blockCode: string | null; treatmentCode: string | null; campaignName: string;
+  campaignLocked: boolean; round: number; rain24h: boolean; daysSinceInstall: number | null; daysSinceClipping: number | null;
+  calibrationAgeDays: number | null; calibrationDriftPpm: number | null; leakFailed: boolean;
+}
+
+const readableSites = (user: SessionUser) => (seesAllSites(user.roles) ? null : user.siteIds);
+
+export async function reviewQueue(ds: DataSource, user: SessionUser, rawQuery: unknown) {
+  const filter = parse(queueFilterSchema, rawQuery, 'Some queue filters are not valid');
+  const page = parse(pageSchema, rawQuery, 'Some queue filters are not valid');
+  const { sql, args, p } = queueSql(filter, readableSites(user));
+  const rows: Record<string, unknown>[] = await ds.query(`${sql} ORDER BY started_at, id LIMIT ${p(page.limit)} OFFSET ${p(page.offset)}`, args);
+  const total = rows.length ? Number(rows[0]['total']) : page.offset ? (await countQueue(ds, filter, user)) : 0;
+  return { items: rows.map(toItem), total, limit: page.limit, offset: page.offset };
+}
+
+async function countQueue(ds: DataSource, filter: QueueFilter, user: SessionUser): Promise<number> {
+  const { sql, args } = queueSql(filter, readableSites(user));
+  const [r] = await ds.query(`SELECT count(*)::int AS n FROM (${sql}) z`, args);
+  return r.n;
+}
+
+/** One closure's queue row (its context), or null when the user may not read it. */
+export async function queueItem(ds: DataSource, user: SessionUser, id: string): Promise<QueueItem | null> {
+  const { sql, args } = queueSql({ id }, readableSites(user));
+  const [row] = await ds.query(sql, args);
+  return row ? toItem(row) : null;
+}
+
+/** Ids (and revisions) of every closure a filter selects, for bulk actions; capped. */
+export async function queueIds(ds: DataSource, user: SessionUser, filter: QueueFilter, cap: number): Promise<{ id: string; rev: number }[]> {
+  const { sql, args, p } = queueSql(filter, readableSites(user));
+  const rows: { id: string; rev: string }[] = await ds.query(`${sql} ORDER BY started_at, id LIMIT ${p(cap)}`, args);
+  return rows.map((r) => ({ id: r.id, rev: Number(r.rev) }));
+}
+
+function toItem(r: Record<string, unknown>): QueueItem {
+  const num = (v: unknown) => (v === null || v === undefined ? null : Number(v));
+  return {
+    id: r['id'] as string, rev: Number(r['rev']), siteId: r['site_id'] as string, campaignId: r['campaign_id'] as string,
+    visitId: r['visit_id'] as string, collarId: r['collar_id'] as string, startedAt: (r['started_at'] as Date).toISOString(),
+    day: toDay(r['day']), settleS: Number(r['settle_s']), flags: r['flags'] as string[], fluxUmolM2S: num(r['flux_umol_m2_s']),
+    reviewState: r['review_state'] as string, reviewReason: (r['review_reason'] as string | null) ?? null,
+    reviewSettleS: num(r['review_settle_s']), reviewWindowEndS: num(r['review_window_end_s']),
+    reviewModel: (r['review_model'] as string | null) ?? null, redoOfId: (r['redo_of_id'] as string | null) ?? null,
+    recomputedSinceReview: (r['recomputed_since_review'] as QueueItem['recomputedSinceReview']) ?? null,
+    collarCode: r['collar_code'] as string, plotCode: r['plot_code'] as string, blockCode: (r['block_code'] as string | null) ?? null,
+    treatmentCode: (r['treatment_code'] as string | null) ?? null, campaignName: r['campaign_name'] as string,
+    campaignLocked: Boolean(r['campaign_locked']), round: Number(r['round']), rain24h: Boolean(r['rain24h']),
+    daysSinceInstall: num(r['days_since_install']), daysSinceClipping: num(r['days_since_clipping']),
+    calibrationAgeDays: num(r['calibration_age_days']), calibrationDriftPpm: num(r['calibration_drift_ppm']), leakFailed: Boolean(r['leak_failed']),
+  };
+}
+
+/** PostgreSQL dates arrive as local-midnight Date objects from the driver; the day is what we want. */
+function toDay(v: unknown): string {
+  if (v instanceof Date) return `${v.getFullYear()}-${String(v.getMonth() + 1).padStart(2, '0')}-${String(v.getDate()).padStart(2, '0')}`;
+  return String(v);
+}
