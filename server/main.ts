@@ -3,6 +3,7 @@ import path from 'node:path';
 import { createApp } from './core/app';
 import { loadConfig } from './core/config';
 import { createDataSource } from './core/data-source';
+import { startJobQueue } from './jobs/job-queue';
 
 /** Starts one server process: PostgreSQL pool, the app, and a clean shutdown on SIGINT/SIGTERM. */
 async function main() {
@@ -11,6 +12,8 @@ async function main() {
   const ds = createDataSource(config.databaseUrl);
   await ds.initialize();
   const { app } = createApp(ds, { ...config, staticDir: config.staticDir ?? defaultStatic });
+  // After createApp: features define their jobs while the app is built. JOB_WORKERS=off serves the API only.
+  const jobs = process.env['JOB_WORKERS'] === 'off' ? null : await startJobQueue(ds, config.databaseUrl);
   const server = app.listen(config.port, config.host, () => {
     const addr = server.address();
     const port = typeof addr === 'object' && addr ? addr.port : config.port;
@@ -18,8 +21,9 @@ async function main() {
   });
   const stop = (signal: string) => {
     console.log(`[fluxwalk] ${signal}: stopping`);
-    server.close(() => void ds.destroy().finally(() => process.exit(0)));
-    setTimeout(() => process.exit(0), 5000).unref();
+    server.close(() => void (jobs?.stop() ?? Promise.resolve()).catch(() => undefined)
+      .then(() => ds.destroy()).finally(() => process.exit(0)));
+    setTimeout(() => process.exit(0), 12000).unref();
   };
   process.on('SIGINT', () => stop('SIGINT'));
   process.on('SIGTERM', () => stop('SIGTERM'));
