@@ -1,14 +1,7 @@
-/** The signed-in user as the server describes it (`/api/auth/login`, `/api/auth/me`). */
-export const ROLES = ['crew', 'lead', 'lab', 'admin'] as const;
-export type Role = (typeof ROLES)[number];
+import { ROLES, type Role, type SessionUser } from '../../../../shared/auth/roles';
 
-export interface SessionUser {
-  id: string;
-  email: string;
-  displayName: string;
-  roles: Role[];
-  siteIds: string[];
-}
+/** The signed-in user as the server describes it (`/api/auth/login`, `/api/auth/me`): one type, from shared/. */
+export { ROLES, type Role, type SessionUser };
 
 export interface SiteSummary {
   id: string;
