@@ -90,7 +90,7 @@ async function recomputePage(ds: DataSource, inputs: ClosureInputs, rows: Record
 
 /** One statement per page; a closure whose revision moved since it was read was rewritten by the writer with current inputs and is left alone. */
 async function writeUpdates(em: EntityManager, updates: Update[], scope: RecomputeScope, jobId: string | null, out: RecomputeOutcome) {
-  const written: { id: string; rev: string; site_id: string }[] = await em.query(
+  const answer = await em.query(
     `UPDATE closure c SET results = u.results::jsonb, flags = string_to_array(u.flags, ','), flux_umol_m2_s = u.flux,
             rev = c.rev + 1, updated_at = now(), updated_by = NULL
        FROM unnest($1::uuid[], $2::bigint[], $3::text[], $4::text[], $5::float8[]) AS u(id, rev, results, flags, flux)
@@ -98,6 +98,8 @@ async function writeUpdates(em: EntityManager, updates: Update[], scope: Recompu
       RETURNING c.id, c.rev, c.site_id`,
     [updates.map((u) => u.id), updates.map((u) => u.rev), updates.map((u) => u.results),
       updates.map((u) => u.flags.join(',')), updates.map((u) => u.flux)]);
+  // TypeORM answers an UPDATE … RETURNING on PostgreSQL as [rows, affected count].
+  const written: { id: string; rev: string; site_id: string }[] = Array.isArray(answer[0]) ? answer[0] : answer;
   const byId = new Map(updates.map((u) => [u.id, u]));
   const changes = new ChangeBuffer();
   for (const w of written) {

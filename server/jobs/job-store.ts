@@ -4,7 +4,7 @@ import type { DataSource, EntityManager } from 'typeorm';
 type Queryable = Pick<EntityManager, 'query'> | Pick<DataSource, 'query'>;
 
 export interface EnqueueOptions {
-  /** Jobs with the same key that are still waiting in the outbox are one job (a burst of writes asks once). */
+  /** Jobs with the same key still waiting in the outbox are one job (a burst of writes asks once; the latest data wins). */
   dedupeKey?: string;
   siteId?: string | null;
   createdBy?: string | null;
@@ -19,7 +19,7 @@ export async function enqueueJob(em: Queryable, name: string, data: Record<strin
   const id = randomUUID();
   const [row]: { id: string }[] = await em.query(
     `INSERT INTO job_outbox (id, name, data, dedupe_key) VALUES ($1, $2, $3, $4)
-     ON CONFLICT (dedupe_key) DO UPDATE SET dedupe_key = EXCLUDED.dedupe_key
+     ON CONFLICT (dedupe_key) DO UPDATE SET data = EXCLUDED.data
      RETURNING id`, [id, name, JSON.stringify(data), opts.dedupeKey ?? null]);
   if (row.id === id) {
     await em.query(`INSERT INTO job_progress (id, name, site_id, created_by) VALUES ($1, $2, $3, $4)`,

@@ -1,0 +1,100 @@
+import { randomUUID } from 'node:crypto';
+import { recomputeClosures, type RecomputeScope } from '../../server/closures/closure-recompute';
+import { makeSiteWithCollar } from '../support/fixtures';
+import { demoEmail, signIn, startTestApp, type Session, type TestApp } from '../support/test-app';
+
+const LEAD_ID = '1a6f0c3e-2d4b-4e8a-9c1f-3b5d7e9f1a02';
+
+/** A plain rising closure: 121 s at 1 Hz, CO2 rising 0.3 ppm/s and slowly bending, measured p, T and H2O. */
+function series() {
+  const tS = Array.from({ length: 121 }, (_, i) => i);
+  return {
+    tS, co2Ppm: tS.map((t) => 420 + 0.3 * t - 0.0004 * t * t + 0.05 * Math.sin(t)),
+    h2oMmolMol: tS.map(() => 12), pressureKpa: tS.map(() => 97.5), tempC: tS.map(() => 18),
+  };
+}
+
+describe('Recompute when an offset set is superseded', () => {
+  let t: TestApp;
+  let lead: Session, lab: Session, admin: Session;
+  let world: Awaited<ReturnType<typeof makeSiteWithCollar>>;
+  beforeAll(async () => {
+    t = await startTestApp();
+    [lead, lab, admin] = await Promise.all((['lead', 'lab', 'admin'] as const).map((r) => signIn(t.app, demoEmail(r))));
+    if (lead.login.status !== 200) throw new Error(`lead sign-in: ${lead.login.status} ${JSON.stringify(lead.login.body)}`);
+    world = await makeSiteWithCollar(admin, lead, LEAD_ID);
+    lead = await signIn(t.app, demoEmail('lead'));
+  });
+  afterAll(() => t.close());
+
+  async function visitOn(campaignId: string, round: number, day: string) {
+    return (await lead.post('/api/visits', { siteId: world.site.id, campaignId, round, collarId: world.collar.id, arrivedAt: `${day}T09:00:00Z` })).body.record;
+  }
+  async function offsetSet(visit: any, day: string, readingsCm: number[], supersedesId: string | null = null) {
+    const res = await lead.post('/api/offset-sets', { siteId: world.site.id, visitId: visit.id, collarId: world.collar.id,
+      campaignId: visit.campaignId, takenAt: `${day}T09:05:00Z`, readingsCm, supersedesId });
+    expect(res.status).toBe(201);
+    return res.body.record;
+  }
+  async function closure(visit: any, day: string) {
+    const res = await lead.post('/api/closures', { id: randomUUID(), siteId: world.site.id, visitId: visit.id, collarId: world.collar.id,
+      campaignId: visit.campaignId, startedAt: `${day}T09:10:00Z`, settleS: 20, series: series() });
+    expect(res.status).toBe(201);
+    return res.body.record;
+  }
+
+  it('then exactly the closures whose volume came from the old set are recomputed; a reviewed one keeps its decision and shows old and new flux; a second run changes nothing', async () => {
+    await admin.post('/api/chamber-profiles', { siteId: world.site.id, name: 'Chamber T', validFrom: '2026-01-01', chamberVolumeCm3: 4000, loopVolumeCm3: 150 });
+    const camp = (await lead.post('/api/campaigns', { siteId: world.site.id, name: 'Recompute', startsOn: '2026-06-01', endsOn: '2026-06-05', rounds: 3 })).body.record;
+    const v1 = await visitOn(camp.id, 1, '2026-06-01');
+    const v2 = await visitOn(camp.id, 2, '2026-06-02');
+    const v3 = await visitOn(camp.id, 3, '2026-06-03');
+    const s1 = await offsetSet(v1, '2026-06-01', [2, 2, 2, 2]);
+    await offsetSet(v3, '2026-06-03', [3, 3, 3, 3]);
+    const c1 = await closure(v1, '2026-06-01');
+    const c2 = await closure(v2, '2026-06-02');
+    const c3 = await closure(v3, '2026-06-03');
+    expect([c1, c2].map((c) => c.results.offsetSetId)).toEqual([s1.id, s1.id]);
+    const accepted = (await lab.patch(`/api/closures/${c1.id}`, { rev: c1.rev, reviewState: 'accepted' })).body.record;
+
+    const s1b = await offsetSet(v1, '2026-06-01', [4, 4, 4, 4], s1.id);
+
+    // The write asked for a job in its own transaction; run it as the worker would, with the data it stored.
+    const [request] = await t.ds.query(`SELECT id, data FROM job_outbox WHERE data->>'collarId' = $1`, [world.collar.id]);
+    const scope = request.data as RecomputeScope;
+    expect(scope).toEqual({ siteId: world.site.id, collarId: world.collar.id, reason: 'offset set superseded' });
+    const job = (await lab.get(`/api/jobs/${request.id}`)).body.job;
+    expect(job).toMatchObject({ name: 'closure-recompute', state: 'queued', siteId: world.site.id });
+
+    const first = await recomputeClosures(t.ds, scope, { jobId: request.id });
+    expect(first.examined).toBe(3);
+    expect(first.changedIds.sort()).toEqual([c1.id, c2.id].sort());
+
+    const [n1, n2, n3] = await Promise.all([c1, c2, c3].map(async (c) => (await lab.get(`/api/closures/${c.id}`)).body.record));
+    expect(n3.rev).toBe(c3.rev);
+    expect(n3.fluxUmolM2S).toBe(c3.fluxUmolM2S);
+    expect(n2.rev).toBe(c2.rev + 1);
+    expect([n1.results.offsetSetId, n2.results.offsetSetId]).toEqual([s1b.id, s1b.id]);
+    // V = chamber + loop + A × mean offset: 2 cm more offset adds 2 × π·10² cm³ (plain geometry).
+    expect(n2.results.volumeCm3 - c2.results.volumeCm3).toBeCloseTo(2 * Math.PI * 100, 6);
+    // flux = p·V·(1 − χw)/(R·T·A)·dχ/dt (ideal gas law, DESIGN.md): same series, so fluxes scale with the volume.
+    expect(n2.fluxUmolM2S / c2.fluxUmolM2S).toBeCloseTo(n2.results.volumeCm3 / c2.results.volumeCm3, 12);
+    expect(n1.reviewState).toBe('accepted');
+    expect(n1.results.recomputedSinceReview).toMatchObject({ oldFluxUmolM2S: accepted.fluxUmolM2S, newFluxUmolM2S: n1.fluxUmolM2S, reason: 'offset set superseded' });
+    const history = (await lab.get(`/api/bench/closures/${c1.id}/history`)).body.items;
+    expect(history.at(-1)).toMatchObject({ kind: 'recompute', oldFluxUmolM2S: accepted.fluxUmolM2S, newFluxUmolM2S: n1.fluxUmolM2S, jobId: request.id });
+    const queue = (await lab.get(`/api/bench/queue?siteId=${world.site.id}&recomputedSinceReview=true`)).body.items;
+    expect(queue.map((i: any) => i.id)).toEqual([c1.id]);
+
+    const again = await recomputeClosures(t.ds, scope);
+    expect(again).toMatchObject({ examined: 3, changed: 0, changedIds: [] });
+    expect((await lab.get(`/api/closures/${c1.id}`)).body.record.rev).toBe(n1.rev);
+  });
+
+  it('when the lab reviews the recomputed closure again, then the "recomputed since review" mark is gone', async () => {
+    const [c] = (await lab.get(`/api/bench/queue?siteId=${world.site.id}&recomputedSinceReview=true`)).body.items;
+    const rec = (await lab.get(`/api/closures/${c.id}`)).body.record;
+    const res = await lab.patch(`/api/closures/${c.id}`, { rev: rec.rev, reviewSettleS: 25 });
+    expect(res.body.record.results.recomputedSinceReview).toBeUndefined();
+  });
+});
