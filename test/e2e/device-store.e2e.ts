@@ -3,7 +3,7 @@
 import { signInAs, waitForServiceWorkerControl } from './support/app-actions';
 import { RunningServer, startAppServer } from './support/app-server';
 import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
-import { editNotes, firstCollars, serverCollar, shownNotes, syncLabel, syncNow, waitForSyncLabel } from './support/sync-actions';
+import { editNotes, firstCollars, serverCollar, shownNotes, syncLabel, syncNow, waitForFirstSync, waitForSyncLabel } from './support/sync-actions';
 
 jest.setTimeout(240_000);
 
@@ -39,7 +39,7 @@ describe('Device store and sync in Chromium', () => {
     await withScreenshotOnFailure(crew.page, 'device-store-crew', async () => {
       const page = crew.page;
       await signInAs(page, server.baseUrl, 'crew');
-      await waitForSyncLabel(page, /^Up to date$/, 60_000);
+      await waitForFirstSync(page);
       const [collar] = await firstCollars(page, server.baseUrl, 1);
       await waitForServiceWorkerControl(page);
       await openCollar(crew, collar.id, collar.code);
@@ -65,7 +65,7 @@ describe('Device store and sync in Chromium', () => {
       const lead = await open();
       await withScreenshotOnFailure(lead.page, 'device-store-lead', async () => {
         await signInAs(lead.page, server.baseUrl, 'lead');
-        await waitForSyncLabel(lead.page, /^Up to date$/, 60_000);
+        await waitForFirstSync(lead.page);
         await openCollar(lead, collar.id, collar.code);
         expect(await shownNotes(lead.page)).toBe('Litter layer thick after the storm');
 
@@ -110,7 +110,7 @@ describe('Device store and sync in Chromium', () => {
     await withScreenshotOnFailure(crew.page, 'device-store-markup', async () => {
       const page = crew.page;
       await signInAs(page, server.baseUrl, 'crew');
-      await waitForSyncLabel(page, /^Up to date$/, 60_000);
+      await waitForFirstSync(page);
       const collars = await firstCollars(page, server.baseUrl, 2);
       const c = collars[1];
       await openCollar(crew, c.id, c.code);

@@ -16,6 +16,11 @@ export async function waitForSyncLabel(page: Page, pattern: RegExp, timeout = 30
   );
 }
 
+/** Waits until this device has finished a whole sync (push and pull) at least once. */
+export async function waitForFirstSync(page: Page, timeout = 60_000): Promise<void> {
+  await page.locator('[data-testid="sync-indicator"][data-synced-at]').waitFor({ timeout });
+}
+
 /** Opens the sync sheet and presses "Sync now", then closes the sheet. */
 export async function syncNow(page: Page): Promise<void> {
   await page.getByTestId('sync-indicator').click();

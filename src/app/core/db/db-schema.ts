@@ -75,9 +75,12 @@ export const META = {
   lastPull: 'lastPull',
 } as const;
 
-/** Indexes the screens query by; everything else is read by primary key. */
+/**
+ * Indexes the screens query by; everything else is read by primary key. Each index is one more
+ * IndexedDB write per record on a full download, so only indexes a screen uses are declared.
+ */
 const ENTITY_INDEXES: Partial<Record<SyncEntityName, string>> = {
-  collar: 'id, siteId, plotId, code',
+  collar: 'id, siteId',
   collarEvent: 'id, siteId, collarId',
   visit: 'id, siteId, collarId, campaignId',
   offsetSet: 'id, siteId, visitId, collarId',

@@ -24,20 +24,24 @@ export async function readCursor(db: FluxDb): Promise<number> {
  * ahead of the records. Queued ops stay laid over the server's copy (the person keeps seeing
  * their edit until the push answers), and a copy newer than the page (from a push answer) is kept.
  */
-export async function applyPullPage(db: FluxDb, answer: PullAnswer): Promise<number> {
-  const tables = SYNC_ENTITIES.map((e) => db.records(e));
+export async function applyPullPage(db: FluxDb, answer: PullAnswer, opts: { fresh?: boolean } = {}): Promise<number> {
+  const byEntity = new Map<SyncEntityName, PullAnswer['changes']>();
+  for (const c of answer.changes) {
+    if (!KNOWN.has(c.entity)) continue; // a newer server may sync more entities than this build knows
+    const e = c.entity as SyncEntityName;
+    const list = byEntity.get(e);
+    if (list) list.push(c);
+    else byEntity.set(e, [c]);
+  }
+  // Only the tables this page touches: a narrower transaction is measurably cheaper on big pulls.
+  const tables = [...byEntity.keys()].map((e) => db.records(e));
   let written = 0;
   await db.transaction('rw', [...tables, db.outbox, db.meta], async () => {
     const pending = (await db.outbox.count()) ? opsByRecord(await db.outbox.orderBy('seq').toArray()) : new Map<string, OutboxOp[]>();
-    const byEntity = new Map<SyncEntityName, PullAnswer['changes']>();
-    for (const c of answer.changes) {
-      if (!KNOWN.has(c.entity)) continue; // a newer server may sync more entities than this build knows
-      const e = c.entity as SyncEntityName;
-      byEntity.set(e, [...(byEntity.get(e) ?? []), c]);
-    }
     for (const [entity, changes] of byEntity) {
       const table = db.records(entity);
-      const current = await table.bulkGet(changes.map((c) => c.id));
+      // A download from cursor 0 has no newer copies to protect (created-here records are rev 0).
+      const current = opts.fresh ? [] : await table.bulkGet(changes.map((c) => c.id));
       const puts: LocalRecord[] = [];
       const deletes: string[] = [];
       changes.forEach((c, i) => {

@@ -11,6 +11,7 @@ import { SyncSheet } from './sync-sheet';
   imports: [MatIconModule, MatProgressBarModule],
   template: `
     <button type="button" class="chip" [class]="'chip ' + view().kind" data-testid="sync-indicator"
+            [attr.data-synced-at]="engine.lastSuccess()"
             [attr.aria-label]="'Sync: ' + view().label + '. Show details'" (click)="open()">
       <mat-icon aria-hidden="true">{{ view().icon }}</mat-icon>
       <span role="status" data-testid="sync-label">{{ view().label }}</span>
