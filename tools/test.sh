@@ -17,7 +17,8 @@ unset DATABASE_URL
 trap 'pg_down pg-test' EXIT
 
 ensure_build
-if ls test/e2e/*.e2e.ts >/dev/null 2>&1; then bash "$ROOT/tools/lib/ensure-chromium.sh"; fi
+# Browser tests and the API tests of the tag sheet need chromium and pdftoppm.
+bash "$ROOT/tools/lib/ensure-browser-tools.sh"
 
 rc=0
 npx jest --selectProjects shared server app "$@" || rc=$?

@@ -1,12 +1,16 @@
 #!/usr/bin/env bash
-# Browser tests drive Debian's chromium through playwright-core (no browser download).
+# Browser tests drive Debian's chromium through playwright-core (no browser download); the tag-sheet
+# tests rasterise PDFs with poppler's pdftoppm to read the QR codes back.
 set -euo pipefail
 source "$(dirname "$0")/common.sh"
-[ -x "${CHROMIUM_PATH:-/usr/bin/chromium}" ] && exit 0
+missing=()
+[ -x "${CHROMIUM_PATH:-/usr/bin/chromium}" ] || missing+=(chromium chromium-driver)
+command -v pdftoppm >/dev/null 2>&1 || missing+=(poppler-utils)
+[ ${#missing[@]} = 0 ] && exit 0
 if is_root; then
-  say "installing Debian's chromium for the browser tests…"
-  apt_install chromium chromium-driver || die "apt-get install chromium failed"
+  say "installing Debian's ${missing[*]} for the browser tests…"
+  apt_install "${missing[@]}" || die "apt-get install ${missing[*]} failed"
 else
-  die "Chromium is needed for the browser tests. Install it once with:
-    sudo apt-get update && sudo apt-get install -y chromium chromium-driver"
+  die "The browser tests need ${missing[*]}. Install them once with:
+    sudo apt-get update && sudo apt-get install -y ${missing[*]}"
 fi
