@@ -4,6 +4,7 @@ import { DERIVED_FIELDS, ENTITY_FIELDS, type EntityName } from '../../shared/mod
 import { CLOSURE_REVIEW_FIELDS } from '../../shared/model/field-records';
 import { fieldErrorsFromZod } from '../core/errors';
 import { notifyWritten } from './after-write';
+import { checkGuards } from './write-guards';
 import type { ChangeBuffer } from './change-buffer';
 import { ENTITY_DEFS, type EntityDef, type WriteAction } from './entity-registry';
 import { deriveFields, warningsFor } from './record-derivations';
@@ -184,7 +185,8 @@ async function updateRecord(ctx: Ctx, op: WriteOp, current: Record<string, unkno
   const guard = membershipDenied(ctx, siteId)
     ?? ruleDenied(ctx, 'update', changed, next)
     ?? (await checkReferences(ctx.em, d, siteId, next, changed))
-    ?? (reviewOnly(d, changed) ? null : await lockedCampaignMessage(ctx.em, d, next));
+    ?? (reviewOnly(d, changed) ? null : await lockedCampaignMessage(ctx.em, d, next))
+    ?? (await checkGuards({ em: ctx.em, entity: d.name, id: op.id, action: 'update', current, next, changed }));
   if (guard) return guard;
   const derived = await deriveFields(ctx.em, d.name, next, current);
   const patch = { ...Object.fromEntries(changed.map((k) => [k, next[k]])), ...derived, rev: rev + 1, updatedAt: new Date(), updatedBy: ctx.actor.id };
@@ -203,7 +205,8 @@ async function deleteRecord(ctx: Ctx, op: WriteOp, existing: ObjectLiteral | nul
   const rev = Number(current['rev']);
   if (current['deleted']) return { status: 'applied', rev, record: current };
   const siteId = siteOf(d, op.id, current);
-  const guard = roleDenied(ctx, 'delete') ?? membershipDenied(ctx, siteId) ?? (await lockedCampaignMessage(ctx.em, d, current));
+  const guard = roleDenied(ctx, 'delete') ?? membershipDenied(ctx, siteId) ?? (await lockedCampaignMessage(ctx.em, d, current))
+    ?? (await checkGuards({ em: ctx.em, entity: d.name, id: op.id, action: 'delete', current, next: current, changed: ['deleted'] }));
   if (guard) return guard;
   if (op.baseRev !== null && op.baseRev < rev) {
     const serverChanged = [...(await serverChangedSince(ctx.em, d, op.id, op.baseRev))];

@@ -6,8 +6,10 @@ import { chamberProfileFields } from '../../shared/model/site-layout';
 import { ClosureEntity } from '../closures/closure.entity';
 import { computeClosureResults } from '../closures/closure-results';
 import { AppError } from '../core/errors';
-import { ChangeBuffer, writeRecord, type Actor, type WriteOp } from '../records/record-writer';
+import { ChangeBuffer, writeRecord, type Actor } from '../records/record-writer';
 import { sameValue, toWire } from '../records/wire';
+import type { PendingWrite } from '../records/write-guards';
+import { rejected, type WriteOutcome } from '../records/write-outcome';
 import { siteForActor } from './site-access';
 
 /** A new version names its day and the geometry that changed; the rest is copied from the version it follows. */
@@ -113,23 +115,25 @@ export async function createProfileVersion(ds: DataSource, actor: Actor, profile
 }
 
 /**
- * Edits and deletes of a profile go through here first: once closures use a version, its
- * geometry and day are fixed (a new version is added instead); a name or a default settle time
- * for future closures may still change.
+ * A write guard for chamber profiles (every write path: REST, sync, seed): once closures use a
+ * version, its geometry and day are fixed — a new version is added instead; a name or a default
+ * settle time for future closures may still change.
  */
-export async function guardProfileWrite(ds: DataSource, profileId: string, op: WriteOp): Promise<void> {
-  const [p] = await ds.query(`SELECT id FROM chamber_profile WHERE id = $1`, [profileId]);
-  if (!p) return; // the writer answers 404 in its own words
-  const current = await loadProfile(ds, profileId).catch(() => null);
-  if (!current) return;
-  const touched = op.op === 'delete' ? ['deleted'] : GEOMETRY.filter((k) => k in op.fields && !sameValue(op.fields[k], current[k]));
-  if (!touched.length) return;
-  if (op.op === 'upsert' && 'validFrom' in op.fields && typeof op.fields['validFrom'] === 'string') {
-    await refuseSameDay(ds, String(current['siteId']), op.fields['validFrom'], profileId);
+export async function guardProfileWrite(w: PendingWrite): Promise<WriteOutcome | null> {
+  const touched = w.action === 'delete' ? ['deleted'] : GEOMETRY.filter((k) => w.changed.includes(k));
+  if (!touched.length) return null;
+  try {
+    if (w.action === 'update' && w.changed.includes('validFrom')) {
+      await refuseSameDay(w.em, String(w.current['siteId']), String(w.next['validFrom']), w.id);
+    }
+  } catch (err) {
+    if (err instanceof AppError) return rejected(err.status, err.message, err.fields);
+    throw err;
   }
-  const n = await closuresUsing(ds, profileId);
-  if (n > 0) {
-    throw new AppError(409, `${n} closure${n === 1 ? ' uses' : 's use'} this chamber profile; add a new version valid from a date instead of `
-      + (op.op === 'delete' ? 'deleting it' : 'editing it'), touched.filter((k) => k !== 'deleted').map((path) => ({ path, message: 'Fixed once closures use this version' })));
-  }
+  const n = await closuresUsing(w.em, w.id);
+  if (n === 0) return null;
+  return rejected(409, `${n} closure${n === 1 ? ' uses' : 's use'} this chamber profile; add a new version valid from a date instead of `
+    + (w.action === 'delete' ? 'deleting it' : 'editing it'),
+  touched.filter((k) => k !== 'deleted').map((path) => ({ path, message: 'Fixed once closures use this version' })));
 }
+

@@ -3,8 +3,7 @@ import type { DataSource } from 'typeorm';
 import { z } from 'zod';
 import type { RouteRegistry } from '../core/route-registry';
 import { parse } from '../core/validate';
-import { answer, writeOne } from '../records/record-routes';
-import type { WriteOp } from '../records/record-writer';
+import { guardWrites } from '../records/write-guards';
 import { importRequestSchema } from './collar-csv';
 import { commitCollarImport, previewCollarImport } from './collar-import';
 import { collarTagSheet, tagQuerySchema } from './collar-tags-pdf';
@@ -12,8 +11,6 @@ import { createProfileVersion, guardProfileWrite, newVersionSchema, previewSchem
 
 const siteParam = z.object({ siteId: z.string().uuid('Site ids are UUIDs') });
 const idParam = z.object({ id: z.string().uuid('Chamber profile ids are UUIDs') });
-const revBody = z.object({ rev: z.number({ message: 'Send the record\'s rev you edited' }).int().min(1) }).passthrough();
-const deleteQuery = z.object({ rev: z.coerce.number().int().min(1).optional() });
 
 const SITE_KEEPERS = ['lead', 'admin'] as const;
 const ADMIN = ['admin'] as const;
@@ -23,9 +20,10 @@ const origin = (req: Request) => `${req.protocol}://${req.get('host') ?? 'localh
 /**
  * Setup work that is more than one record: collar import (preview, then all-or-nothing commit),
  * the printable tag sheet, and chamber-profile versions. Registered before the generic record
- * routes so the profile edit/delete guard runs ahead of the plain PATCH/DELETE.
+ * routes. Profile edits and deletes are guarded in the writer (guardProfileWrite), on every path.
  */
 export function registerSetupRoutes(r: RouteRegistry, ds: DataSource): void {
+  guardWrites('chamberProfile', guardProfileWrite);
   r.add('post', '/api/sites/:siteId/collar-import/preview', SITE_KEEPERS, async (req) => {
     const { siteId } = parse(siteParam, req.params);
     return previewCollarImport(ds, req.user!, siteId, parse(importRequestSchema, req.body, 'The import request is not valid'));
@@ -67,19 +65,4 @@ export function registerSetupRoutes(r: RouteRegistry, ds: DataSource): void {
     return result;
   });
 
-  r.add('patch', '/api/chamber-profiles/:id', ADMIN, async (req, res) => {
-    const { id } = parse(idParam, req.params);
-    const { rev, ...fields } = parse(revBody, req.body);
-    const op: WriteOp = { entity: 'chamberProfile', id, baseRev: rev, op: 'upsert', fields };
-    await guardProfileWrite(ds, id, op);
-    return answer(res, await writeOne(ds, req, op));
-  });
-
-  r.add('delete', '/api/chamber-profiles/:id', ADMIN, async (req, res) => {
-    const { id } = parse(idParam, req.params);
-    const { rev } = parse(deleteQuery, req.query);
-    const op: WriteOp = { entity: 'chamberProfile', id, baseRev: rev ?? null, op: 'delete', fields: {} };
-    await guardProfileWrite(ds, id, op);
-    return answer(res, await writeOne(ds, req, op));
-  });
 }

@@ -146,6 +146,13 @@ describe('sync push and pull', () => {
     }
   });
 
+  it('when a pushed edit changes the volume of a profile that closures use, then it is rejected: a new version is the way', async () => {
+    const [p] = await t.ds.query(`SELECT p.id, p.rev FROM chamber_profile p WHERE EXISTS (SELECT 1 FROM closure c WHERE c.profile_id = p.id OR c.results->>'profileId' = p.id::text) LIMIT 1`);
+    const r = (await push(admin, [{ opId: randomUUID(), entity: 'chamberProfile', id: p.id, baseRev: Number(p.rev), op: 'upsert', fields: { loopVolumeCm3: 999 } }], randomUUID())).body.results[0];
+    expect(r.status).toBe('rejected');
+    expect(r.error.message).toMatch(/add a new version/);
+  });
+
   it('when a push body is over the limit, then 413 tells the device to split it', async () => {
     const big = Array.from({ length: 3 }, () => ({ opId: randomUUID(), entity: 'collar', id: randomUUID(), baseRev: null, op: 'upsert',
       fields: { notes: 'x'.repeat(2 * 1024 * 1024) } }));

@@ -1,0 +1,37 @@
+import type { EntityManager } from 'typeorm';
+import type { EntityName } from '../../shared/model/entities';
+import type { WriteOutcome } from './write-outcome';
+
+/** An edit or delete about to be applied, as a guard sees it (inside the writing transaction). */
+export interface PendingWrite {
+  em: EntityManager;
+  entity: EntityName;
+  id: string;
+  action: 'update' | 'delete';
+  current: Record<string, unknown>;
+  /** The whole record after the edit (the current one for a delete). */
+  next: Record<string, unknown>;
+  changed: string[];
+}
+
+/** Returns a refusal (rejected outcome) or null to let the write through. */
+export type WriteGuard = (w: PendingWrite) => Promise<WriteOutcome | null>;
+
+const guards = new Map<EntityName, WriteGuard[]>();
+
+/**
+ * Feature rules that need the database to decide (e.g. a chamber profile used by closures is
+ * never edited) register here, so REST, sync and seed writes all obey them.
+ */
+export function guardWrites(entity: EntityName, guard: WriteGuard): void {
+  const list = guards.get(entity) ?? [];
+  if (!list.includes(guard)) guards.set(entity, [...list, guard]);
+}
+
+export async function checkGuards(w: PendingWrite): Promise<WriteOutcome | null> {
+  for (const g of guards.get(w.entity) ?? []) {
+    const refusal = await g(w);
+    if (refusal) return refusal;
+  }
+  return null;
+}
