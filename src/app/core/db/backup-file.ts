@@ -1,4 +1,4 @@
-import { SYNC_ENTITIES, type SyncEntityName } from '../../../../shared/model/entities';
+import { SYNC_ENTITIES, type SyncEntityName } from '../../../../shared/model/entity-names';
 import { META, type ConflictRow, type FluxDb, type OutboxOp, type RejectedOp } from './db-schema';
 import { overlay } from './record-values';
 

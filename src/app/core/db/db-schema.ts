@@ -1,5 +1,5 @@
 import Dexie, { type Table } from 'dexie';
-import { SYNC_ENTITIES, type SyncEntityName } from '../../../../shared/model/entities';
+import { SYNC_ENTITIES, type SyncEntityName } from '../../../../shared/model/entity-names';
 
 /** A synced record as the device keeps it: the server's wire record with pending local edits laid over it. */
 export interface LocalRecord {

@@ -1,5 +1,5 @@
 import { v4 as uuidv4 } from 'uuid';
-import type { SyncEntityName } from '../../../../shared/model/entities';
+import type { SyncEntityName } from '../../../../shared/model/entity-names';
 import type { FluxDb, LocalRecord, OutboxOp } from './db-schema';
 import { editableFields, nowIso, sameValue } from './record-values';
 

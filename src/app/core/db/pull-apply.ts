@@ -1,4 +1,4 @@
-import { SYNC_ENTITIES, type SyncEntityName } from '../../../../shared/model/entities';
+import { SYNC_ENTITIES, type SyncEntityName } from '../../../../shared/model/entity-names';
 import type { PullAnswer } from '../../../../shared/sync/sync-wire';
 import { META, type FluxDb, type LocalRecord, type OutboxOp } from './db-schema';
 import { overlay } from './record-values';

@@ -1,4 +1,4 @@
-import { SYNC_ENTITIES } from '../../../../shared/model/entities';
+import { SYNC_ENTITIES } from '../../../../shared/model/entity-names';
 import type { PushResult, SyncOp, SyncStatus } from '../../../../shared/sync/sync-wire';
 import type { FluxDb, LocalRecord, OutboxOp } from './db-schema';
 import { nowIso, overlay } from './record-values';

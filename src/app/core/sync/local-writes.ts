@@ -1,5 +1,5 @@
 import { Injectable, inject } from '@angular/core';
-import type { SyncEntityName } from '../../../../shared/model/entities';
+import type { SyncEntityName } from '../../../../shared/model/entity-names';
 import type { ConflictRow, LocalRecord, OutboxOp } from '../db/db-schema';
 import { DeviceDb } from '../db/device-db';
 import { resolveConflict, type Side } from '../db/conflict-resolve';

@@ -1,4 +1,4 @@
-import type { SyncEntityName } from '../../../../shared/model/entities';
+import type { SyncEntityName } from '../../../../shared/model/entity-names';
 import type { FluxDb, LocalRecord } from '../db/db-schema';
 
 const NAMES: Record<SyncEntityName, string> = {
