@@ -1,25 +1,111 @@
-import { ChangeDetectionStrategy, Component } from '@angular/core';
-import { ScreenIntro } from '../placeholder/screen-intro';
+import { DecimalPipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, computed, inject, signal, viewChild } from '@angular/core';
+import { serverMessage } from '../../core/api/api-error';
+import { SiteChoice } from '../../core/auth/site-choice';
+import { BenchApi, type ClosureDetail, type QueueFilter, type QueueItem } from './bench-api';
+import { ClosureView, type Decision } from './closure-view';
+import { QueueFilters } from './queue-filters';
 
-/** Lab staff's review of synced closures and the derived fluxes. */
+const SETTLE_STEP_S = 5;
+
+/**
+ * The lab's review of synced closures: a filtered queue on the left, the selected closure on the
+ * right. Keyboard: A accept (and go on), R reject (type the reason, Enter), J/↓ next, K/↑ previous,
+ * ] widen the settle time by 5 s, [ narrow it. Keys are ignored while typing in a field.
+ */
 @Component({
   selector: 'fw-bench',
-  imports: [ScreenIntro],
-  template: `
-    <fw-screen-intro
-      icon="biotech"
-      title="Bench"
-      summary="Review of the synced survey at the station: closure fits, corrections and the fluxes that follow from them."
-      [upcoming]="upcoming"
-    />
-  `,
+  imports: [ClosureView, DecimalPipe, QueueFilters],
+  templateUrl: './bench.html',
+  styleUrl: './bench.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
+  host: { '(document:keydown)': 'handleKey($event)' },
 })
 export class Bench {
-  protected readonly upcoming = [
-    'Each closure with its fit after the settle time, to accept or reject with a reason.',
-    'Fluxes aggregated along the design: visit, collar, plot, treatment mean ± SE.',
-    'Temperature responses per treatment and seasonal totals with their uncertainty.',
-    'Exports of the reviewed data.',
-  ] as const;
+  private readonly api = inject(BenchApi);
+  protected readonly site = inject(SiteChoice).current;
+  protected readonly filter = signal<QueueFilter | null>(null);
+  protected readonly items = signal<QueueItem[]>([]);
+  protected readonly total = signal(0);
+  protected readonly index = signal(-1);
+  protected readonly detail = signal<ClosureDetail | null>(null);
+  protected readonly busy = signal(false);
+  protected readonly message = signal('');
+  protected readonly problem = signal('');
+  protected readonly unflagged = computed(() => this.items().filter((i) => !i.flags.length && i.reviewState === 'unreviewed').length);
+  private readonly view = viewChild(ClosureView);
+  private loadSeq = 0;
+
+  protected async applyFilter(f: QueueFilter): Promise<void> {
+    this.filter.set(f);
+    const seq = ++this.loadSeq;
+    try {
+      const page = await this.api.queue(f, 0, 500);
+      if (seq !== this.loadSeq) return;
+      this.items.set(page.items);
+      this.total.set(page.total);
+      this.problem.set('');
+      await this.select(page.items.length ? 0 : -1);
+    } catch (err) {
+      this.problem.set(serverMessage(err, 'The queue could not be loaded'));
+    }
+  }
+
+  protected async select(i: number): Promise<void> {
+    this.index.set(i);
+    const item = this.items()[i];
+    this.detail.set(item ? await this.api.detail(item.id) : null);
+  }
+
+  protected async decide(d: Decision): Promise<void> {
+    const det = this.detail();
+    if (!det || this.busy()) return;
+    this.busy.set(true);
+    try {
+      const { record } = await this.api.decide(det.closure.id, det.closure.rev, d.fields);
+      const i = this.index();
+      this.items.update((list) => list.map((x) => (x.id === record['id'] ? { ...x, rev: record['rev'], reviewState: record['reviewState'],
+        fluxUmolM2S: record['fluxUmolM2S'], flags: record['flags'], recomputedSinceReview: null } : x)));
+      this.message.set(d.fields['reviewState'] ? `Closure ${d.fields['reviewState']}` : 'Recomputed with the new settings');
+      this.problem.set('');
+      if (d.fields['reviewState'] === 'accepted' && i < this.items().length - 1) await this.select(i + 1);
+      else this.detail.set(await this.api.detail(det.closure.id));
+    } catch (err) {
+      this.problem.set(serverMessage(err, 'The decision was not saved'));
+    } finally {
+      this.busy.set(false);
+    }
+  }
+
+  protected async bulkAccept(): Promise<void> {
+    const f = this.filter();
+    if (!f || this.busy()) return;
+    this.busy.set(true);
+    try {
+      const r = await this.api.bulkAccept(f);
+      this.message.set(`${r.accepted} closures without flags accepted${r.skipped.length ? `; ${r.skipped.length} skipped` : ''}`);
+    } catch (err) {
+      this.problem.set(serverMessage(err, 'Bulk accept failed'));
+    } finally {
+      this.busy.set(false);
+    }
+    await this.applyFilter(f);
+  }
+
+  protected handleKey(e: KeyboardEvent): void {
+    const t = e.target as HTMLElement | null;
+    if (e.ctrlKey || e.metaKey || e.altKey || (t && /^(INPUT|SELECT|TEXTAREA|BUTTON)$/.test(t.tagName) && e.key !== 'Escape')) return;
+    const v = this.view();
+    const go = (by: number) => { const i = this.index() + by; if (i >= 0 && i < this.items().length) void this.select(i); };
+    switch (e.key) {
+      case 'a': case 'A': v?.accept(); break;
+      case 'r': case 'R': v?.focusReason(); break;
+      case 'j': case 'ArrowDown': go(1); break;
+      case 'k': case 'ArrowUp': go(-1); break;
+      case ']': v?.nudgeSettle(SETTLE_STEP_S); break;
+      case '[': v?.nudgeSettle(-SETTLE_STEP_S); break;
+      default: return;
+    }
+    e.preventDefault();
+  }
 }

@@ -1,0 +1,97 @@
+import { HttpClient, HttpParams } from '@angular/common/http';
+import { Injectable, inject } from '@angular/core';
+import { firstValueFrom } from 'rxjs';
+
+/** The queue's filters as the Bench sends them (query string of GET /api/bench/queue, body of bulk accept). */
+export interface QueueFilter {
+  siteId?: string;
+  campaignId?: string;
+  round?: number;
+  treatmentId?: string;
+  plotId?: string;
+  collarId?: string;
+  flag?: string;
+  reviewState?: 'unreviewed' | 'accepted' | 'rejected';
+  installedWithinDays?: number;
+  clippedWithinDays?: number;
+  rain24h?: boolean;
+  calibrationOlderThanDays?: number;
+  driftAtLeastPpm?: number;
+  leakFailed?: boolean;
+  recomputedSinceReview?: boolean;
+}
+
+export interface RecomputedMark { oldFluxUmolM2S: number | null; newFluxUmolM2S: number | null; at: string; reason: string }
+
+export interface QueueItem {
+  id: string; rev: number; siteId: string; campaignId: string; visitId: string; collarId: string; startedAt: string; day: string;
+  settleS: number; flags: string[]; fluxUmolM2S: number | null; reviewState: string; reviewReason: string | null;
+  reviewSettleS: number | null; reviewWindowEndS: number | null; reviewModel: string | null;
+  recomputedSinceReview: RecomputedMark | null; collarCode: string; plotCode: string; blockCode: string | null;
+  treatmentCode: string | null; campaignName: string; round: number; rain24h: boolean; daysSinceInstall: number | null;
+  daysSinceClipping: number | null; calibrationAgeDays: number | null; calibrationDriftPpm: number | null; leakFailed: boolean;
+}
+
+export interface Page<T> { items: T[]; total: number; limit: number; offset: number }
+
+export interface FitNumbers { slopePpmS: number; fluxUmolM2S: number; r2: number; rmse: number; aic: number; n: number;
+  interceptPpm?: number; p1?: number; p2?: number; p3?: number; b0?: number; b1?: number; b2?: number }
+export interface FitResult {
+  linear: FitNumbers | null; exponential: FitNumbers | null; quadratic: FitNumbers | null;
+  selected: { model: 'linear' | 'exponential' | 'quadratic'; fluxUmolM2S: number; slopePpmS: number; reason: string } | null;
+  exponentialRejectedReason: string | null; flags: string[]; error: string | null;
+  window: { t0S: number; firstTS: number; lastTS: number; n: number } | null; minDetectableFluxUmolM2S: number | null;
+}
+
+export interface ClosureDetail {
+  closure: Record<string, any> & { id: string; rev: number; series: Record<string, (number | null)[] | null>;
+    results: { raw: FitResult; review: FitResult | null; volumeCm3: number | null; areaCm2: number | null; meanOffsetCm: number | null;
+      ambientPpm: number | null; pressureIsDefault: boolean; recomputedSinceReview?: RecomputedMark } };
+  context: QueueItem;
+  offsetSet: { id: string; takenAt: string; readingsCm: number[]; meanCm: number; supersedesId: string | null } | null;
+  profile: { id: string; name: string; validFrom: string; chamberVolumeCm3: number; loopVolumeCm3: number } | null;
+  collarHistory: { id: string; startedAt: string; fluxUmolM2S: number | null; reviewState: string; flags: string[] }[];
+  replicates: { id: string; startedAt: string; fluxUmolM2S: number | null; reviewState: string; flags: string[]; settleS: number;
+    tS: (number | null)[]; co2Ppm: (number | null)[] }[];
+  replicateSpread: { n: number; mean: number | null; sd: number | null; cvPct: number | null };
+  history: { id: number; at: string; kind: string; field: string; oldValue: unknown; newValue: unknown;
+    oldFluxUmolM2S: number | null; newFluxUmolM2S: number | null; userName: string | null }[];
+}
+
+export interface Named { id: string; code?: string; name?: string; rounds?: number; startsOn?: string }
+
+/** The Bench reads the REST API (it runs at the station); decisions are plain review-field PATCHes. */
+@Injectable({ providedIn: 'root' })
+export class BenchApi {
+  private readonly http = inject(HttpClient);
+
+  queue(filter: QueueFilter, offset: number, limit = 100): Promise<Page<QueueItem>> {
+    return firstValueFrom(this.http.get<Page<QueueItem>>('/api/bench/queue', { params: toParams({ ...filter, offset, limit }) }));
+  }
+
+  detail(id: string): Promise<ClosureDetail> {
+    return firstValueFrom(this.http.get<ClosureDetail>(`/api/bench/closures/${id}`));
+  }
+
+  decide(id: string, rev: number, fields: Record<string, unknown>): Promise<{ record: Record<string, any> }> {
+    return firstValueFrom(this.http.patch<{ record: Record<string, any> }>(`/api/closures/${id}`, { rev, ...fields }));
+  }
+
+  bulkAccept(filter: QueueFilter): Promise<{ accepted: number; skipped: { id: string; reason: string }[] }> {
+    return firstValueFrom(this.http.post<{ accepted: number; skipped: { id: string; reason: string }[] }>('/api/bench/bulk-accept', filter));
+  }
+
+  list(path: 'campaigns' | 'plots' | 'treatments' | 'collars', siteId: string): Promise<Named[]> {
+    return firstValueFrom(this.http.get<Page<Named>>(`/api/${path}`, { params: toParams({ siteId, limit: 1000 }) })).then((p) => p.items);
+  }
+
+  jobs(): Promise<{ items: { id: string; state: string; done: number; total: number | null; result: any; createdAt: string }[] }> {
+    return firstValueFrom(this.http.get<any>('/api/jobs', { params: toParams({ name: 'closure-recompute', limit: 5 }) }));
+  }
+}
+
+function toParams(o: Record<string, unknown>): HttpParams {
+  let p = new HttpParams();
+  for (const [k, v] of Object.entries(o)) if (v !== undefined && v !== null && v !== '') p = p.set(k, String(v));
+  return p;
+}

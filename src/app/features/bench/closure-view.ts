@@ -1,0 +1,93 @@
+import { DatePipe, DecimalPipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, ElementRef, computed, effect, input, output, signal, untracked, viewChild } from '@angular/core';
+import { FormsModule } from '@angular/forms';
+import type { ClosureDetail, FitResult } from './bench-api';
+import { ClosureChart, type ChartInput } from './closure-chart';
+
+export interface Decision { fields: Record<string, unknown> }
+
+/**
+ * One closure under review: the chart, the numbers of both fits, where the volume came from, the
+ * start against the day's ambient, the collar's flux history, the visit's replicates and the
+ * decision controls. Every decision is a review field; raw data is shown, never edited here.
+ */
+@Component({
+  selector: 'fw-closure-view',
+  imports: [ClosureChart, DatePipe, DecimalPipe, FormsModule],
+  templateUrl: './closure-view.html',
+  styleUrl: './bench.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class ClosureView {
+  readonly detail = input.required<ClosureDetail>();
+  readonly busy = input(false);
+  readonly decide = output<Decision>();
+  protected readonly settle = signal(0);
+  protected readonly windowEnd = signal<number | null>(null);
+  protected readonly model = signal<string>('');
+  protected readonly reason = signal('');
+  private readonly reasonInput = viewChild<ElementRef<HTMLInputElement>>('reasonInput');
+
+  protected readonly c = computed(() => this.detail().closure);
+  protected readonly fit = computed<FitResult>(() => this.c().results.review ?? this.c().results.raw);
+  protected readonly effectiveSettle = computed(() => Number(this.c()['reviewSettleS'] ?? this.c()['settleS']));
+  protected readonly chart = computed<ChartInput>(() => ({
+    tS: this.c().series['tS'] as (number | null)[], co2Ppm: this.c().series['co2Ppm'] as (number | null)[],
+    h2oMmolMol: (this.c().series['h2oMmolMol'] as (number | null)[] | null) ?? null,
+    settleS: this.effectiveSettle(), windowEndS: (this.c()['reviewWindowEndS'] as number | null) ?? null, fit: this.fit(),
+  }));
+  protected readonly startCo2 = computed(() => (this.c().series['co2Ppm'] as (number | null)[]).find((v) => v !== null) ?? null);
+  protected readonly models = computed(() => {
+    const f = this.fit();
+    return ([['linear', f.linear], ['exponential', f.exponential], ['quadratic', f.quadratic]] as const).filter(([, m]) => m !== null);
+  });
+  protected readonly historyMax = computed(() =>
+    Math.max(1e-9, ...this.detail().collarHistory.map((h) => Math.abs(h.fluxUmolM2S ?? 0))));
+
+  constructor() {
+    effect(() => {
+      const c = this.c();
+      untracked(() => {
+        this.settle.set(Number(c['reviewSettleS'] ?? c['settleS']));
+        this.windowEnd.set((c['reviewWindowEndS'] as number | null) ?? null);
+        this.model.set((c['reviewModel'] as string | null) ?? '');
+        this.reason.set((c['reviewReason'] as string | null) ?? '');
+      });
+    });
+  }
+
+  /** Moves the settle time by `by` seconds (keyboard widen/narrow) and recomputes at once. */
+  nudgeSettle(by: number): void {
+    this.settle.set(Math.max(0, Math.min(600, this.effectiveSettle() + by)));
+    this.applyFit();
+  }
+
+  focusReason(): void {
+    this.reasonInput()?.nativeElement.focus();
+  }
+
+  protected applyFit(): void {
+    const c = this.c();
+    const fields: Record<string, unknown> = {};
+    const settle = this.settle() === Number(c['settleS']) ? null : this.settle();
+    if (settle !== (c['reviewSettleS'] ?? null)) fields['reviewSettleS'] = settle;
+    const end = this.windowEnd() || null;
+    if (end !== (c['reviewWindowEndS'] ?? null)) fields['reviewWindowEndS'] = end;
+    const model = this.model() || null;
+    if (model !== (c['reviewModel'] ?? null)) fields['reviewModel'] = model;
+    if (Object.keys(fields).length) this.decide.emit({ fields });
+  }
+
+  accept(): void {
+    this.decide.emit({ fields: { reviewState: 'accepted', reviewReason: null } });
+  }
+
+  protected reject(): void {
+    if (!this.reason().trim()) { this.focusReason(); return; }
+    this.decide.emit({ fields: { reviewState: 'rejected', reviewReason: this.reason().trim() } });
+  }
+
+  protected numbersOf(name: 'linear' | 'exponential' | 'quadratic') {
+    return this.fit()[name];
+  }
+}
