@@ -1,5 +1,6 @@
 import type { DataSource } from 'typeorm';
 import { z } from 'zod';
+import { collarTagUrl } from '../../shared/model/collar-tag';
 import { AppError } from '../core/errors';
 import type { Actor } from '../records/record-writer';
 import { siteForActor } from './site-access';
@@ -40,10 +41,8 @@ const QR_PT = 88; // ≈ 31 mm: large enough to scan from arm's length through a
 const QUIET = 11;
 const PAPER = { a4: { size: 'A4', w: 595.28, h: 841.89 }, letter: { size: 'LETTER', w: 612, h: 792 } } as const;
 
-/** What a tag's QR code holds: the address Walk opens for that collar (the collar id is the last path part). */
-export function collarTagUrl(origin: string, collarId: string): string {
-  return `${origin.replace(/\/$/, '')}/walk/collars/${collarId}`;
-}
+// What a tag's QR code holds is defined once in shared/, where Walk reads it back.
+export { collarTagUrl } from '../../shared/model/collar-tag';
 
 export interface TagCollar {
   id: string;
