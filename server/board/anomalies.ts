@@ -1,0 +1,214 @@
+import type { DataSource, EntityManager } from 'typeorm';
+import type { QcFlag } from '../../shared/flux/qc-flags';
+
+export type AnomalyKind =
+  | 'offset-moved' | 'offset-spread' | 'closure-flag' | 'settling' | 'not-visited' | 'check-problem' | 'calibration-overdue';
+
+export interface Anomaly {
+  kind: AnomalyKind;
+  /** `problem` needs action before data are used; `warn` is worth a look. */
+  severity: 'problem' | 'warn';
+  collarId: string | null;
+  collarCode: string | null;
+  /** The record the anomaly is about (offset set, closure, check, analyzer, collar). */
+  recordId: string;
+  at: string | null;
+  value: number | null;
+  threshold: number | null;
+  message: string;
+}
+
+export interface AnomalyOptions {
+  /** The campaign whose readings are checked; default: the site's latest campaign by start date. */
+  campaignId?: string | null;
+  /** Reference time for "not visited for N days", settling and calibration; default now. */
+  now?: Date;
+  /** A collar with no visit for more than this many days is reported. */
+  notVisitedDays?: number;
+}
+
+/**
+ * Flags that ask for a look at the closure. Information-only flags (no water data, default
+ * pressure, low R², dropped gaps, exponential not used, offset taken after) stay on the Bench.
+ */
+export const REVIEW_FLAGS: readonly QcFlag[] = [
+  'invalid-input', 'too-few-points', 'short-window', 'flat', 'negative-flux', 'spike', 'exp-linear-ratio-high', 'start-above-ambient',
+];
+
+type Db = DataSource | EntityManager;
+const iso = (v: unknown) => (v == null ? null : new Date(v as string).toISOString());
+const num = (v: unknown) => (v == null ? null : Number(v));
+const round = (x: number, d = 2) => Math.round(x * 10 ** d) / 10 ** d;
+
+/**
+ * Everything on a site the lead should look at before the crew leaves: offsets that moved since
+ * the last campaign or spread widely, flagged closures, settling or long-unvisited collars,
+ * start-of-day checks skipped or failed, overdue calibrations. Thresholds are the site's own.
+ * A plain function so the daily digest can reuse it.
+ */
+export async function findAnomalies(db: Db, siteId: string, opts: AnomalyOptions = {}): Promise<{ campaignId: string | null; items: Anomaly[] }> {
+  const now = opts.now ?? new Date();
+  const [site] = await db.query(`SELECT * FROM site WHERE id = $1 AND NOT deleted`, [siteId]);
+  if (!site) return { campaignId: null, items: [] };
+  const [camp] = opts.campaignId
+    ? await db.query(`SELECT id, starts_on, ends_on FROM campaign WHERE id = $1 AND site_id = $2 AND NOT deleted`, [opts.campaignId, siteId])
+    : await db.query(`SELECT id, starts_on, ends_on FROM campaign WHERE site_id = $1 AND NOT deleted ORDER BY starts_on DESC LIMIT 1`, [siteId]);
+  const items: Anomaly[] = [];
+  if (camp) {
+    items.push(...(await offsetAnomalies(db, site, camp.id)));
+    items.push(...(await closureAnomalies(db, camp.id)));
+    items.push(...(await checkAnomalies(db, site, camp)));
+  }
+  items.push(...(await collarAnomalies(db, site, now, opts.notVisitedDays ?? 30)));
+  items.push(...(await calibrationAnomalies(db, siteId, now)));
+  const order = { problem: 0, warn: 1 };
+  items.sort((a, b) => order[a.severity] - order[b.severity] || a.kind.localeCompare(b.kind) || (a.collarCode ?? '').localeCompare(b.collarCode ?? ''));
+  return { campaignId: camp?.id ?? null, items };
+}
+
+/**
+ * Offset sets of the campaign (the latest unsuperseded set per collar) against the collar's last
+ * set before the campaign, and each set's spread. Spread is reported as the volume the range of
+ * readings spans, (max − min) × collar area, in % of the headspace volume (chamber + loop + area ×
+ * mean offset) under the profile valid that day — the share of the flux the rim tilt could move.
+ */
+async function offsetAnomalies(db: Db, site: Record<string, unknown>, campaignId: string): Promise<Anomaly[]> {
+  const rows = await db.query(`
+    WITH cur AS (
+      SELECT DISTINCT ON (o.collar_id) o.id, o.collar_id, o.mean_cm, o.taken_at, o.readings_cm
+        FROM offset_set o
+       WHERE o.campaign_id = $1 AND NOT o.deleted
+         AND NOT EXISTS (SELECT 1 FROM offset_set x WHERE x.supersedes_id = o.id AND NOT x.deleted)
+       ORDER BY o.collar_id, o.taken_at DESC)
+    SELECT cur.id, cur.collar_id, k.code, cur.mean_cm, cur.taken_at,
+           (SELECT max(r) - min(r) FROM unnest(cur.readings_cm) r) AS range_cm,
+           coalesce(k.area_cm2, CASE WHEN k.shape = 'round' THEN pi() * k.diameter_cm ^ 2 / 4 ELSE k.side_a_cm * k.side_b_cm END) AS area_cm2,
+           pf.chamber_volume_cm3 + pf.loop_volume_cm3 AS fixed_volume_cm3,
+           prev.mean_cm AS prev_mean_cm, prev.taken_at AS prev_taken_at
+      FROM cur JOIN collar k ON k.id = cur.collar_id
+      LEFT JOIN LATERAL (SELECT p.chamber_volume_cm3, p.loop_volume_cm3 FROM chamber_profile p
+                          WHERE p.site_id = k.site_id AND NOT p.deleted AND p.valid_from <= cur.taken_at::date
+                          ORDER BY p.valid_from DESC LIMIT 1) pf ON true
+      LEFT JOIN LATERAL (SELECT o.mean_cm, o.taken_at FROM offset_set o
+                          WHERE o.collar_id = cur.collar_id AND o.campaign_id <> $1 AND o.taken_at < cur.taken_at AND NOT o.deleted
+                            AND NOT EXISTS (SELECT 1 FROM offset_set x WHERE x.supersedes_id = o.id AND NOT x.deleted)
+                          ORDER BY o.taken_at DESC LIMIT 1) prev ON true`, [campaignId]);
+  const moveCm = Number(site['offset_move_cm']);
+  const spreadPct = Number(site['offset_spread_pct']);
+  const out: Anomaly[] = [];
+  for (const r of rows) {
+    const base = { collarId: r.collar_id, collarCode: r.code, recordId: r.id, at: iso(r.taken_at) };
+    if (r.prev_mean_cm !== null) {
+      const moved = Number(r.mean_cm) - Number(r.prev_mean_cm);
+      if (Math.abs(moved) > moveCm) {
+        out.push({ ...base, kind: 'offset-moved', severity: 'problem', value: round(moved), threshold: moveCm,
+          message: `Mean offset moved ${moved > 0 ? '+' : ''}${round(moved)} cm since the last campaign (limit ${moveCm} cm): reseated, frost heave or a misread?` });
+      }
+    }
+    if (r.area_cm2 !== null && r.fixed_volume_cm3 !== null) {
+      const volume = Number(r.fixed_volume_cm3) + Number(r.area_cm2) * Number(r.mean_cm);
+      const pct = (Number(r.range_cm) * Number(r.area_cm2) * 100) / volume;
+      if (pct > spreadPct) {
+        out.push({ ...base, kind: 'offset-spread', severity: 'warn', value: round(pct, 1), threshold: spreadPct,
+          message: `Offset readings span ${round(Number(r.range_cm), 1)} cm, ${round(pct, 1)} % of the headspace volume (limit ${spreadPct} %)` });
+      }
+    }
+  }
+  return out;
+}
+
+async function closureAnomalies(db: Db, campaignId: string): Promise<Anomaly[]> {
+  const rows = await db.query(`
+    SELECT z.id, z.collar_id, k.code, z.started_at, z.flags, z.flux_umol_m2_s
+      FROM closure z JOIN collar k ON k.id = z.collar_id
+     WHERE z.campaign_id = $1 AND NOT z.deleted AND z.review_state <> 'rejected' AND z.flags && $2::text[]`, [campaignId, REVIEW_FLAGS]);
+  return rows.map((r: Record<string, unknown>) => {
+    const flags = (r['flags'] as string[]).filter((f) => (REVIEW_FLAGS as readonly string[]).includes(f));
+    return {
+      kind: 'closure-flag' as const, severity: flags.includes('invalid-input') ? 'problem' as const : 'warn' as const,
+      collarId: r['collar_id'] as string, collarCode: r['code'] as string, recordId: r['id'] as string, at: iso(r['started_at']),
+      value: num(r['flux_umol_m2_s']), threshold: null, message: `Closure flagged: ${flags.join(', ')}`,
+    };
+  });
+}
+
+/** Start-of-day checks during the campaign that were skipped, failed, or whose leak slope is above the site's limit. */
+async function checkAnomalies(db: Db, site: Record<string, unknown>, camp: { starts_on: string; ends_on: string }): Promise<Anomaly[]> {
+  const leak = Number(site['leak_slope_umol_mol_s']);
+  const rows = await db.query(`
+    SELECT c.id, c.kind, c.at, c.skipped, c.skip_reason, c.passed, c.slope_umol_mol_s, a.name AS analyzer
+      FROM analyzer_check c LEFT JOIN analyzer a ON a.id = c.analyzer_id
+     WHERE c.site_id = $1 AND NOT c.deleted AND c.at >= $2::date AND c.at < $3::date + 1
+       AND (c.skipped OR c.passed = false OR (c.kind = 'leak' AND abs(c.slope_umol_mol_s) > $4))
+     ORDER BY c.at`, [site['id'], camp.starts_on, camp.ends_on, leak]);
+  return rows.map((r: Record<string, unknown>) => {
+    const who = r['analyzer'] ? ` on ${r['analyzer']}` : '';
+    const message = r['skipped'] ? `${r['kind']} check skipped${who}: ${r['skip_reason'] ?? 'no reason given'}`
+      : r['kind'] === 'leak' && r['slope_umol_mol_s'] !== null && Math.abs(Number(r['slope_umol_mol_s'])) > leak
+        ? `Leak check${who}: slope ${r['slope_umol_mol_s']} µmol/mol/s above the limit ${leak}`
+        : `${r['kind']} check failed${who}`;
+    return { kind: 'check-problem' as const, severity: r['skipped'] ? 'warn' as const : 'problem' as const, collarId: null, collarCode: null,
+      recordId: r['id'] as string, at: iso(r['at']), value: num(r['slope_umol_mol_s']), threshold: r['kind'] === 'leak' ? leak : null, message };
+  });
+}
+
+/**
+ * Live collars still settling after an install, reseat or replacement (the site's hard and
+ * warning days; common practice: a disturbed collar leaks CO2 for a day or more), and collars
+ * nobody has visited for more than `days` days.
+ */
+async function collarAnomalies(db: Db, site: Record<string, unknown>, now: Date, days: number): Promise<Anomaly[]> {
+  const rows = await db.query(`
+    SELECT k.id, k.code, ev.kind AS event_kind, ev.date AS event_date, lv.arrived_at AS last_visit, k.installed_on
+      FROM collar k
+      LEFT JOIN LATERAL (SELECT e.kind, e.date FROM collar_event e WHERE e.collar_id = k.id AND NOT e.deleted
+                           AND e.kind IN ('installed', 'reseated', 'replaced') ORDER BY e.date DESC LIMIT 1) ev ON true
+      LEFT JOIN LATERAL (SELECT max(v.arrived_at) AS arrived_at FROM visit v WHERE v.collar_id = k.id AND NOT v.deleted) lv ON true
+     WHERE k.site_id = $1 AND NOT k.deleted AND k.status = 'active'`, [site['id']]);
+  const hard = Number(site['settling_days_hard']);
+  const warn = Number(site['settling_days_warn']);
+  const dayMs = 86_400_000;
+  const out: Anomaly[] = [];
+  for (const r of rows) {
+    if (r.event_date) {
+      const ageDays = (now.getTime() - Date.parse(`${dateOnly(r.event_date)}T00:00:00Z`)) / dayMs;
+      if (ageDays >= 0 && ageDays < warn) {
+        out.push({ kind: 'settling', severity: ageDays < hard ? 'problem' : 'warn', collarId: r.id, collarCode: r.code, recordId: r.id,
+          at: `${dateOnly(r.event_date)}T00:00:00.000Z`, value: round(ageDays, 1), threshold: ageDays < hard ? hard : warn,
+          message: `Settling: ${r.event_kind} ${round(ageDays, 1)} day(s) ago (hard limit ${hard}, warning ${warn} days)` });
+      }
+    }
+    const since = r.last_visit ? Date.parse(new Date(r.last_visit).toISOString()) : null;
+    const idle = since === null ? null : (now.getTime() - since) / dayMs;
+    if (idle === null || idle > days) {
+      out.push({ kind: 'not-visited', severity: 'warn', collarId: r.id, collarCode: r.code, recordId: r.id, at: iso(r.last_visit),
+        value: idle === null ? null : Math.floor(idle), threshold: days,
+        message: idle === null ? 'Never visited' : `Not visited for ${Math.floor(idle)} days (limit ${days})` });
+    }
+  }
+  return out;
+}
+
+function dateOnly(v: unknown): string {
+  return typeof v === 'string' ? v.slice(0, 10) : new Date(v as Date).toISOString().slice(0, 10);
+}
+
+/** Analyzers whose last passed calibration is older than their own interval, or that have none. */
+async function calibrationAnomalies(db: Db, siteId: string, now: Date): Promise<Anomaly[]> {
+  const rows = await db.query(`
+    SELECT a.id, a.name, a.calibration_interval_days,
+           (SELECT max(c.at) FROM analyzer_check c WHERE c.analyzer_id = a.id AND c.kind = 'calibration' AND NOT c.deleted
+                AND NOT c.skipped AND c.passed IS DISTINCT FROM false) AS last_cal
+      FROM analyzer a WHERE a.site_id = $1 AND NOT a.deleted`, [siteId]);
+  const out: Anomaly[] = [];
+  for (const r of rows) {
+    const interval = Number(r.calibration_interval_days);
+    const age = r.last_cal ? (now.getTime() - new Date(r.last_cal).getTime()) / 86_400_000 : null;
+    if (age === null || age > interval) {
+      out.push({ kind: 'calibration-overdue', severity: 'problem', collarId: null, collarCode: null, recordId: r.id, at: iso(r.last_cal),
+        value: age === null ? null : Math.floor(age), threshold: interval,
+        message: age === null ? `${r.name}: no calibration on record` : `${r.name}: last calibrated ${Math.floor(age)} days ago (interval ${interval} days)` });
+    }
+  }
+  return out;
+}
