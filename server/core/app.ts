@@ -5,11 +5,14 @@ import { existsSync } from 'node:fs';
 import path from 'node:path';
 import type { PassportStatic } from 'passport';
 import type { DataSource } from 'typeorm';
+import { registerAttachmentRoutes } from '../attachments/attachment-routes';
+import { createObjectStorage } from '../attachments/object-storage';
 import { registerAuthRoutes } from '../auth/auth-routes';
 import { csrfProtection } from '../auth/csrf';
 import { loginRateLimit } from '../auth/login-rate-limit';
 import { createPassport } from '../auth/passport-setup';
 import { sessionMiddleware } from '../auth/session-middleware';
+import { registerBoardRoutes } from '../board/board-routes';
 import { registerCampaignRoutes } from '../campaigns/campaign-routes';
 import { registerBenchRoutes } from '../closures/bench-routes';
 import { registerJobRoutes } from '../jobs/job-routes';
@@ -72,9 +75,11 @@ export function createApp(ds: DataSource, config: ServerConfig): AppHandle {
   registerAuthRoutes(registry, passport, loginRateLimit(ds, config.loginMaxFailures, config.loginWindowMs));
   registerUserRoutes(registry, ds);
   registerCampaignRoutes(registry, ds); // before the generic /:id routes
-  registerSetupRoutes(registry, ds); // before the generic /:id routes (chamber-profile edit guard)
+  registerSetupRoutes(registry, ds); // before the generic /:id routes
+  registerAttachmentRoutes(registry, ds, config.objectStorage ? createObjectStorage(config.objectStorage) : null);
   registerBenchRoutes(registry, ds);
   registerJobRoutes(registry, ds);
+  registerBoardRoutes(registry, ds);
   registerRecordRoutes(registry, ds);
   registerSyncRoutes(registry, ds);
 
