@@ -1,4 +1,5 @@
 import { randomBytes } from 'node:crypto';
+import { objectStorageFromEnv, type ObjectStorageConfig } from '../attachments/object-storage';
 
 /** Everything the server reads from the environment, read once, with the defaults documented here. */
 export interface ServerConfig {
@@ -11,6 +12,8 @@ export interface ServerConfig {
   trustProxy: string | false;
   loginMaxFailures: number;
   loginWindowMs: number;
+  /** S3-compatible storage for logger files and photos; null when not configured. */
+  objectStorage: ObjectStorageConfig | null;
 }
 
 function int(name: string, fallback: number): number {
@@ -34,6 +37,7 @@ export function loadConfig(overrides: Partial<ServerConfig> = {}): ServerConfig 
     trustProxy: process.env['TRUST_PROXY'] || false,
     loginMaxFailures: int('LOGIN_MAX_FAILURES', 8),
     loginWindowMs: int('LOGIN_WINDOW_MS', 15 * 60 * 1000),
+    objectStorage: objectStorageFromEnv(),
     ...overrides,
   };
 }

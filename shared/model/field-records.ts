@@ -173,7 +173,8 @@ export const closureFields = z.object({
 export const CLOSURE_REVIEW_FIELDS = ['reviewState', 'reviewReason', 'reviewSettleS', 'reviewWindowEndS', 'reviewModel'] as const;
 
 export const ATTACHMENT_MEDIA_TYPES = ['text/csv', 'text/plain', 'text/tab-separated-values', 'image/jpeg', 'image/png', 'image/webp'] as const;
-export const MAX_ATTACHMENT_BYTES = 20 * 1024 * 1024;
+/** Uploads share the 5 MiB body limit of the push; photos are resized on the device first. */
+export const MAX_ATTACHMENT_BYTES = 5 * 1024 * 1024;
 export const attachmentFields = z.object({
   siteId: uuid('siteId'),
   ownerEntity: z.enum(['collar', 'collarEvent', 'visit', 'closure']),
