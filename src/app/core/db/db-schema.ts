@@ -62,6 +62,19 @@ export interface AckedOp {
   at: string;
 }
 
+/**
+ * File bytes kept on the device until they are uploaded (collar photos, analyzer files), keyed
+ * by their attachment record's id. Not a synced entity: the attachment record syncs, the bytes go
+ * to object storage separately.
+ */
+export interface BlobRow {
+  attachmentId: string;
+  blob: Blob;
+  mediaType: string;
+  createdAt: string;
+  uploadedAt: string | null;
+}
+
 export interface MetaRow {
   key: string;
   value: unknown;
@@ -94,7 +107,7 @@ const ENTITY_INDEXES: Partial<Record<SyncEntityName, string>> = {
   campaign: 'id, siteId',
 };
 
-export const SCHEMA_VERSION = 1;
+export const SCHEMA_VERSION = 2;
 
 /** One database per signed-in user, so a shared tablet keeps each person's work apart. */
 export function dbNameFor(userId: string): string {
@@ -107,6 +120,7 @@ export class FluxDb extends Dexie {
   conflicts!: Table<ConflictRow, string>;
   rejected!: Table<RejectedOp, string>;
   acked!: Table<AckedOp, string>;
+  blobs!: Table<BlobRow, string>;
 
   constructor(name: string, options?: ConstructorParameters<typeof Dexie>[1]) {
     super(name, options);
@@ -118,7 +132,9 @@ export class FluxDb extends Dexie {
       acked: 'opId, at',
     };
     for (const e of SYNC_ENTITIES) stores[e] = ENTITY_INDEXES[e] ?? 'id, siteId';
-    this.version(SCHEMA_VERSION).stores(stores);
+    this.version(1).stores(stores);
+    // Version 2 adds file bytes waiting for upload; every version-1 table is kept as it was.
+    this.version(2).stores({ blobs: 'attachmentId' });
   }
 
   records(entity: SyncEntityName): Table<LocalRecord, string> {
