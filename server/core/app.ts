@@ -16,6 +16,7 @@ import { registerBoardRoutes } from '../board/board-routes';
 import { registerCampaignRoutes } from '../campaigns/campaign-routes';
 import { registerBenchRoutes } from '../closures/bench-routes';
 import { registerJobRoutes } from '../jobs/job-routes';
+import { registerMailRoutes } from '../mail/mail-routes';
 import { registerRecordRoutes } from '../records/record-routes';
 import { registerSetupRoutes } from '../setup/setup-routes';
 import { registerSyncRoutes } from '../sync/sync-routes';
@@ -74,6 +75,7 @@ export function createApp(ds: DataSource, config: ServerConfig): AppHandle {
   registerHealthRoute(registry, ds);
   registerAuthRoutes(registry, passport, loginRateLimit(ds, config.loginMaxFailures, config.loginWindowMs));
   registerUserRoutes(registry, ds);
+  registerMailRoutes(registry, ds); // invitations, password change/reset, the daily digest
   registerCampaignRoutes(registry, ds); // before the generic /:id routes
   registerSetupRoutes(registry, ds); // before the generic /:id routes
   registerAttachmentRoutes(registry, ds, config.objectStorage ? createObjectStorage(config.objectStorage) : null);

@@ -19,6 +19,10 @@ export const PUBLIC_ROUTES: readonly string[] = [
   'GET /api/health',
   'GET /api/auth/csrf',
   'POST /api/auth/login',
+  'POST /api/invitations/lookup',
+  'POST /api/invitations/accept',
+  'POST /api/auth/password-reset',
+  'POST /api/auth/password-reset/confirm',
 ];
 
 /** Public routes that change state without a CSRF token (the token arrives with the session they start). */
