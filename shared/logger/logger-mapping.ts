@@ -1,0 +1,90 @@
+/**
+ * How the columns of a logger's text export map onto a closure series, with the unit of each
+ * column. Any logger that writes delimited text works: the crew maps its columns once and the
+ * mapping is kept as a preset per analyzer.
+ *
+ * Fluxwalk's own plain export (documented in shared/logger/README.md) uses these column names,
+ * which `suggestMapping` recognises without any choice:
+ *   timestamp | time_s, co2_ppm, h2o_mmol_mol, pressure_kpa, temp_c, closure_id
+ */
+import type { TimestampFormat } from './zoned-time';
+
+export const CO2_UNITS = { 'µmol/mol (ppm)': 1, 'mmol/mol': 1000, 'ppb (nmol/mol)': 0.001 } as const;
+export const H2O_UNITS = { 'mmol/mol (ppt)': 1, '% (mol/mol)': 10, 'ppm (µmol/mol)': 0.001 } as const;
+export const PRESSURE_UNITS = { kPa: 1, hPa: 0.1, mbar: 0.1, Pa: 0.001, 'mmHg': 0.133322387415 } as const;
+export const TEMP_UNITS = ['°C', 'K', '°F'] as const;
+export const ELAPSED_UNITS = { s: 1, ms: 0.001, min: 60 } as const;
+
+export type Co2Unit = keyof typeof CO2_UNITS;
+export type H2oUnit = keyof typeof H2O_UNITS;
+export type PressureUnit = keyof typeof PRESSURE_UNITS;
+export type TempUnit = (typeof TEMP_UNITS)[number];
+export type ElapsedUnit = keyof typeof ELAPSED_UNITS;
+
+export type TimeColumn =
+  | { kind: 'elapsed'; column: number; unit: ElapsedUnit }
+  | { kind: 'timestamp'; column: number; format: TimestampFormat; timeZone: string };
+
+export interface LoggerMapping {
+  delimiter: ',' | ';' | '\t';
+  decimalComma: boolean;
+  /** 0-based index of the header row; rows before it are the logger's preamble. */
+  headerRow: number;
+  time: TimeColumn;
+  co2: { column: number; unit: Co2Unit };
+  h2o: { column: number; unit: H2oUnit } | null;
+  pressure: { column: number; unit: PressureUnit } | null;
+  temp: { column: number; unit: TempUnit } | null;
+  closureId: { column: number } | null;
+}
+
+/** Our documented names (lower case, compared after trimming). */
+export const PLAIN_EXPORT_COLUMNS = {
+  timestamp: 'timestamp',
+  elapsed: 'time_s',
+  co2: 'co2_ppm',
+  h2o: 'h2o_mmol_mol',
+  pressure: 'pressure_kpa',
+  temp: 'temp_c',
+  closureId: 'closure_id',
+} as const;
+
+const norm = (h: string) => h.trim().toLowerCase().replace(/[\s-]+/g, '_');
+
+/**
+ * A first guess from the header names: our plain names exactly, else a loose reading of common
+ * words (co2, h2o, press, temp, time). The crew confirms or changes every column in the dialog.
+ */
+export function suggestMapping(headers: readonly string[], base: Pick<LoggerMapping, 'delimiter' | 'decimalComma' | 'headerRow'>, timeZone: string): LoggerMapping | null {
+  const h = headers.map(norm);
+  const exact = (name: string) => h.indexOf(name);
+  const loose = (re: RegExp, skip: number[] = []) => h.findIndex((x, i) => re.test(x) && !skip.includes(i));
+  const found = (i: number) => (i >= 0 ? i : null);
+  const co2 = found(exact(PLAIN_EXPORT_COLUMNS.co2)) ?? found(loose(/co2/));
+  if (co2 === null) return null;
+  const stamp = found(exact(PLAIN_EXPORT_COLUMNS.timestamp)) ?? found(loose(/date|stamp|clock/));
+  const elapsed = found(exact(PLAIN_EXPORT_COLUMNS.elapsed)) ?? found(loose(/^(t|time|elapsed|secs?|seconds)(_s)?$/));
+  let time: TimeColumn;
+  if (stamp !== null) time = { kind: 'timestamp', column: stamp, format: 'YYYY-MM-DD HH:mm:ss', timeZone };
+  else if (elapsed !== null) time = { kind: 'elapsed', column: elapsed, unit: 's' };
+  else return null;
+  const h2o = found(exact(PLAIN_EXPORT_COLUMNS.h2o)) ?? found(loose(/h2o|water|vapou?r/));
+  const pressure = found(exact(PLAIN_EXPORT_COLUMNS.pressure)) ?? found(loose(/press|^p(_kpa)?$/));
+  const temp = found(exact(PLAIN_EXPORT_COLUMNS.temp)) ?? found(loose(/temp|^t_?c$|air_t/, [time.column]));
+  const id = found(exact(PLAIN_EXPORT_COLUMNS.closureId)) ?? found(loose(/closure|obs|label|port/));
+  return {
+    ...base,
+    time,
+    co2: { column: co2, unit: 'µmol/mol (ppm)' },
+    h2o: h2o === null ? null : { column: h2o, unit: 'mmol/mol (ppt)' },
+    pressure: pressure === null ? null : { column: pressure, unit: 'kPa' },
+    temp: temp === null ? null : { column: temp, unit: '°C' },
+    closureId: id === null ? null : { column: id },
+  };
+}
+
+export function tempToC(v: number, unit: TempUnit): number {
+  if (unit === 'K') return v - 273.15;
+  if (unit === '°F') return ((v - 32) * 5) / 9;
+  return v;
+}
