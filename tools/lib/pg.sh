@@ -27,7 +27,8 @@ as_pg() { if is_root; then runuser -u postgres -- "$@"; else "$@"; fi; }
 
 # The postgres user must be able to walk every parent folder of the data folder.
 pg_data_dir() {
-  local name=$1 dir="$DATA_DIR/$name"
+  local name=$1
+  local dir="$DATA_DIR/$name"
   if is_root && ! runuser -u postgres -- test -x "$DATA_DIR" 2>/dev/null; then
     local key
     key=$(printf '%s' "$ROOT" | sha256sum | cut -c1-12)
