@@ -73,6 +73,9 @@ export interface BlobRow {
   mediaType: string;
   createdAt: string;
   uploadedAt: string | null;
+  /** Failed uploads so far and the last reason (shown; the upload is retried with the sync back-off). */
+  attempts?: number;
+  lastError?: string | null;
 }
 
 export interface MetaRow {

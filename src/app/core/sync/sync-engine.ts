@@ -10,6 +10,7 @@ import { liveSignal } from '../db/live-query-signal';
 import { applyPullPage, readCursor, resetForRedownload } from '../db/pull-apply';
 import { PUSH_BUDGET_BYTES, applyPushResults, takeBatch, toWire } from '../db/push-apply';
 import { PendingWorkGuard } from '../sw-update/pending-work-guard';
+import { uploadPendingBlobs } from './attachment-upload';
 import { StorageStatus } from './storage-status';
 import { SyncApi, SyncFailed } from './sync-api';
 import { backoffMs, describeSync, type SyncFacts } from './sync-status';
@@ -139,7 +140,12 @@ export class SyncEngine {
     try {
       const deviceId = await this.deviceDb.deviceIdNow();
       await this.pushAll(db, deviceId);
+      // Bytes of attachments whose records the push just delivered. A failed upload must not hold
+      // back the pull (e.g. storage down for hours): it is thrown after it, for the back-off.
+      const uploadFailure = await this.deviceDb.run((d) => uploadPendingBlobs(d, (id, type, blob) => this.api.putAttachment(id, type, blob)))
+        .then(() => null, (err: unknown) => err);
       await this.pullAll(db, deviceId);
+      if (uploadFailure) throw uploadFailure;
       await this.deviceDb.run((d) => d.meta.put({ key: META.lastSync, value: new Date().toISOString() }));
       this.failures = 0;
       this.error.set(null);
