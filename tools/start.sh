@@ -27,6 +27,7 @@ secret_file="$DATA_DIR/session-secret"
 export SESSION_SECRET=${SESSION_SECRET:-$(cat "$secret_file")}
 
 ensure_build
+source "$ROOT/tools/fake-smtp.sh" # mail to a local fake SMTP server (inbox on :8025) unless SMTP_HOST is set
 node dist/server/server/core/migrate.js
 node dist/server/server/seed/seed-main.js
 # Files (logger exports, photos) go to S3-compatible storage: a local fake unless S3_ENDPOINT is set.

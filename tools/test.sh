@@ -17,6 +17,7 @@ unset DATABASE_URL
 trap 'pg_down pg-test' EXIT
 
 ensure_build
+FAKE_SMTP_PORT=2526 FAKE_SMTP_WEB_PORT=8026 source "$ROOT/tools/fake-smtp.sh" # servers the tests start send mail to a fake
 # Browser tests and the API tests of the tag sheet need chromium and pdftoppm.
 bash "$ROOT/tools/lib/ensure-browser-tools.sh"
 
