@@ -8,6 +8,7 @@ import { findAnomalies } from './anomalies';
 import { setCampaignLock } from './campaign-lock';
 import { listDevices } from './devices';
 import { progressCsv } from './progress-csv';
+import { fieldMembers } from './site-members';
 
 const campaignParams = z.object({ id: z.string().uuid('Campaign ids are UUIDs') });
 const siteParams = z.object({ siteId: z.string().uuid('Site ids are UUIDs') });
@@ -49,5 +50,11 @@ export function registerBoardRoutes(r: RouteRegistry, ds: DataSource): void {
     const { siteId } = parse(siteParams, req.params);
     await siteForActor(ds, req.user!, siteId);
     return { items: await listDevices(ds, [siteId]) };
+  });
+
+  r.add('get', '/api/sites/:siteId/field-members', ['lead', 'admin'], async (req) => {
+    const { siteId } = parse(siteParams, req.params);
+    await siteForActor(ds, req.user!, siteId);
+    return { items: await fieldMembers(ds, siteId) };
   });
 }

@@ -75,6 +75,10 @@ describe('Board: planning, progress and closing a campaign', () => {
     const crewAssign = await crew.patch(`/api/campaigns/${camp.id}`, { rev: assigned.body.record.rev, routes: [] });
     expect(crewAssign.status).toBe(403);
     expect((await lead.get(`/api/routes/${route.id}`)).body.record.collarIds).toEqual(reversed);
+    // Whom the lead can assign: the site's crew and leads, never lab or admin.
+    const members = (await lead.get(`/api/sites/${DEMO_SITE_ID}/field-members`)).body.items;
+    expect(members.map((m: { email: string }) => m.email).sort()).toEqual(['crew@fluxwalk.example', 'lead@fluxwalk.example']);
+    expect((await crew.get(`/api/sites/${DEMO_SITE_ID}/field-members`)).status).toBe(403);
   });
 
   it('when a campaign is locked, then a pushed offset set is rejected with a readable message until the lead unlocks it', async () => {

@@ -1,0 +1,86 @@
+import { HttpClient } from '@angular/common/http';
+import { Injectable, inject } from '@angular/core';
+import { firstValueFrom } from 'rxjs';
+
+export type ProgressState = 'due' | 'partial' | 'complete' | 'skipped';
+export type ItemKey = 'offset' | 'closures' | 'probes';
+export interface ProgressItem { state: ProgressState; done: number; needed: number }
+export interface ProgressCollar {
+  collarId: string; code: string; routeId: string | null; plotId: string; state: ProgressState; skipReason: string | null;
+  items: Partial<Record<ItemKey, ProgressItem>>;
+}
+export type StateCounts = Record<ProgressState, number>;
+export interface Progress {
+  collars: ProgressCollar[];
+  totals: { byRoute: Record<string, StateCounts>; byPlot: Record<string, StateCounts>; byTreatment: Record<string, StateCounts> };
+}
+export type Rec = Record<string, unknown> & { id: string; rev: number };
+export interface CampaignRoute { routeId: string; crewIds: string[]; direction: 'forward' | 'reverse' | 'alternate' }
+export interface Campaign extends Rec {
+  siteId: string; name: string; startsOn: string; endsOn: string; rounds: number; dueOffset: boolean; dueClosures: number;
+  dueProbes: boolean; routes: CampaignRoute[]; roundWindows: { round: number; from: string; to: string }[]; locked: boolean;
+}
+export interface Anomaly {
+  kind: string; severity: 'problem' | 'warn'; collarId: string | null; collarCode: string | null; recordId: string;
+  at: string | null; value: number | null; threshold: number | null; message: string;
+}
+export interface DeviceRow {
+  id: string; userId: string; email: string; displayName: string; lastPushAt: string | null; lastPullAt: string | null;
+  outboxSize: number | null; lastSeenAt: string | null; silent: boolean;
+}
+export interface Member { id: string; displayName: string; email: string; roles: string[] }
+
+/** The Board's calls: generic record routes, the progress query and the Board's own routes. */
+@Injectable({ providedIn: 'root' })
+export class BoardApi {
+  private readonly http = inject(HttpClient);
+
+  async list<T = Rec>(path: string, query: Record<string, string>): Promise<T[]> {
+    const items: T[] = [];
+    for (let offset = 0; ; offset += 1000) {
+      const res = await firstValueFrom(this.http.get<{ items: T[]; total: number }>(`/api/${path}`, {
+        params: { ...query, limit: '1000', offset: String(offset) },
+      }));
+      items.push(...res.items);
+      if (items.length >= res.total || !res.items.length) return items;
+    }
+  }
+
+  record(path: string, id: string): Promise<Rec> {
+    return firstValueFrom(this.http.get<{ record: Rec }>(`/api/${path}/${id}`)).then((r) => r.record);
+  }
+
+  progress(campaignId: string, round: number | null): Promise<Progress> {
+    const params: Record<string, string> = round ? { round: String(round) } : {};
+    return firstValueFrom(this.http.get<Progress>(`/api/campaigns/${campaignId}/progress`, { params }));
+  }
+
+  csvUrl(campaignId: string, round: number | null): string {
+    return `/api/campaigns/${campaignId}/progress.csv${round ? `?round=${round}` : ''}`;
+  }
+
+  create<T = Rec>(path: string, fields: Record<string, unknown>): Promise<T> {
+    return firstValueFrom(this.http.post<{ record: T }>(`/api/${path}`, fields)).then((r) => r.record);
+  }
+
+  update<T = Rec>(path: string, id: string, rev: number, fields: Record<string, unknown>): Promise<T> {
+    return firstValueFrom(this.http.patch<{ record: T }>(`/api/${path}/${id}`, { rev, ...fields })).then((r) => r.record);
+  }
+
+  setLocked(campaignId: string, locked: boolean): Promise<Campaign> {
+    return firstValueFrom(this.http.post<{ record: Campaign }>(`/api/campaigns/${campaignId}/${locked ? 'lock' : 'unlock'}`, {})).then((r) => r.record);
+  }
+
+  anomalies(siteId: string, campaignId: string | null, days: number): Promise<{ campaignId: string | null; items: Anomaly[] }> {
+    const params: Record<string, string> = { days: String(days), ...(campaignId ? { campaignId } : {}) };
+    return firstValueFrom(this.http.get<{ campaignId: string | null; items: Anomaly[] }>(`/api/sites/${siteId}/anomalies`, { params }));
+  }
+
+  devices(siteId: string): Promise<DeviceRow[]> {
+    return firstValueFrom(this.http.get<{ items: DeviceRow[] }>(`/api/sites/${siteId}/devices`)).then((r) => r.items);
+  }
+
+  members(siteId: string): Promise<Member[]> {
+    return firstValueFrom(this.http.get<{ items: Member[] }>(`/api/sites/${siteId}/field-members`)).then((r) => r.items);
+  }
+}

@@ -1,0 +1,126 @@
+import { ChangeDetectionStrategy, Component, DestroyRef, ElementRef, afterNextRender, computed, effect, inject, signal, viewChild } from '@angular/core';
+import { DomSanitizer, type SafeHtml } from '@angular/platform-browser';
+import * as L from 'leaflet';
+import { serverMessage } from '../../core/api/api-error';
+import { BoardApi, type ProgressState, type Rec } from './board-api';
+import { BoardStore } from './board-store';
+import { STATE_LABELS, shapeSvg } from './state-badge';
+
+const STATES: ProgressState[] = ['due', 'partial', 'complete', 'skipped'];
+
+/**
+ * The progress states on a map: our own marker shapes with the collar code beside them, plot
+ * outlines with their codes, and no background tiles unless the site names a tile server
+ * (then with its attribution) — nothing is downloaded from elsewhere otherwise.
+ */
+@Component({
+  selector: 'fw-board-map',
+  template: `
+    <section aria-labelledby="map-heading">
+      <h2 id="map-heading" class="visually-hidden">Map</h2>
+      <ul class="legend" aria-label="Map legend">
+        @for (s of states; track s) { <li><span [innerHTML]="shape(s)"></span> {{ label(s) }} ({{ counts()[s] }})</li> }
+        <li><span class="outline"></span> plot outline</li>
+      </ul>
+      <div #map class="map" role="region" aria-label="Map of collars by state"></div>
+      <p class="note">{{ note() }}</p>
+      <p role="alert" class="problem">{{ problem() }}</p>
+    </section>
+  `,
+  styles: `
+    .legend { display: flex; flex-wrap: wrap; gap: 1rem; list-style: none; padding: 0; margin: .5rem 0; }
+    .legend li { display: inline-flex; align-items: center; gap: 4px; }
+    .outline { display: inline-block; width: 16px; height: 12px; border: 2px dashed #33415c; }
+    .map { height: 520px; border: 1px solid var(--mat-sys-outline-variant); border-radius: 8px; background: #f3f1ea; }
+    .note { font-size: .85rem; color: var(--mat-sys-on-surface-variant); }
+    .problem { color: var(--mat-sys-error); }
+    .visually-hidden { position: absolute; width: 1px; height: 1px; overflow: hidden; clip: rect(0 0 0 0); white-space: nowrap; }
+    :host ::ng-deep .fw-collar-icon { display: flex; align-items: center; gap: 2px; font: 600 11px/1 system-ui, sans-serif; color: #1b1b1b;
+      white-space: nowrap; text-shadow: 0 0 2px #fff, 0 0 2px #fff; }
+    :host ::ng-deep .fw-plot-label { background: transparent; border: 0; box-shadow: none; font: 700 12px system-ui, sans-serif; color: #33415c; }
+  `,
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class BoardMap {
+  private readonly store = inject(BoardStore);
+  private readonly api = inject(BoardApi);
+  private readonly host = viewChild.required<ElementRef<HTMLElement>>('map');
+  private readonly site = signal<Rec | null>(null);
+  private map: L.Map | null = null;
+  private layer: L.LayerGroup | null = null;
+  protected readonly states = STATES;
+  protected readonly problem = signal('');
+  protected readonly note = computed(() => (this.site()?.['tileUrl']
+    ? 'Background map from the tile server set for this site.'
+    : 'No background map: the site has no tile server set (an admin can set one in Setup).'));
+  protected readonly counts = computed(() => {
+    const c: Record<ProgressState, number> = { due: 0, partial: 0, complete: 0, skipped: 0 };
+    for (const r of this.store.rows()) c[r.state]++;
+    return c;
+  });
+
+  constructor() {
+    void this.store.ensureCollars();
+    const siteId = this.store.site()?.id;
+    if (siteId) {
+      this.api.record('sites', siteId).then((site) => this.site.set(site))
+        .catch((err) => this.problem.set(serverMessage(err, 'The site could not be loaded')));
+    }
+    afterNextRender(() => {
+      this.map = L.map(this.host().nativeElement, { zoomSnap: 0.5, maxZoom: 22 }).setView([0, 0], 2);
+      this.layer = L.layerGroup().addTo(this.map);
+    });
+    inject(DestroyRef).onDestroy(() => this.map?.remove());
+    effect(() => this.draw(this.store.rows(), this.store.collars(), this.store.plots(), this.site()));
+  }
+
+  private readonly sanitizer = inject(DomSanitizer);
+  // Our own constant SVG shapes (no user input), so they may bypass the HTML sanitizer that strips SVG.
+  private readonly legendShapes = Object.fromEntries(STATES.map((s) => [s, this.sanitizer.bypassSecurityTrustHtml(shapeSvg(s))])) as Record<ProgressState, SafeHtml>;
+
+  protected shape(s: ProgressState): SafeHtml {
+    return this.legendShapes[s];
+  }
+
+  protected label(s: ProgressState): string {
+    return STATE_LABELS[s];
+  }
+
+  private tiles: L.TileLayer | null = null;
+
+  private draw(rows: ReturnType<BoardStore['rows']>, collars: Rec[], plots: Rec[], site: Rec | null): void {
+    const map = this.map;
+    const layer = this.layer;
+    if (!map || !layer) return;
+    const tileUrl = site?.['tileUrl'];
+    if (typeof tileUrl === 'string' && !this.tiles) {
+      this.tiles = L.tileLayer(tileUrl, { attribution: String(site?.['tileAttribution'] ?? ''), maxZoom: 22 }).addTo(map);
+    }
+    layer.clearLayers();
+    const bounds = L.latLngBounds([]);
+    for (const p of plots) {
+      const outline = p['outline'] as GeoJSON.Polygon | null;
+      if (!outline) continue;
+      const g = L.geoJSON(outline, { style: { color: '#33415c', weight: 2, dashArray: '6 4', fill: false }, interactive: false });
+      g.bindTooltip(String(p['code']), { permanent: true, direction: 'center', className: 'fw-plot-label' });
+      g.addTo(layer);
+      bounds.extend(g.getBounds());
+    }
+    const state = new Map(rows.map((r) => [r.collarId, r.state]));
+    for (const c of collars) {
+      const s = state.get(c.id);
+      const lat = c['latitude'] as number | null;
+      const lon = c['longitude'] as number | null;
+      if (!s || lat == null || lon == null) continue;
+      const code = String(c['code']);
+      const icon = L.divIcon({ className: 'fw-collar-icon', html: `${shapeSvg(s, 14)}<span>${escapeHtml(code)}</span>`, iconSize: undefined, iconAnchor: [7, 7] });
+      L.marker([lat, lon], { icon, title: `${code}: ${STATE_LABELS[s]}`, alt: `${code}: ${STATE_LABELS[s]}`, keyboard: false }).addTo(layer);
+      bounds.extend([lat, lon]);
+    }
+    if (bounds.isValid()) map.fitBounds(bounds, { padding: [20, 20] });
+  }
+}
+
+function escapeHtml(s: string): string {
+  return s.replace(/[&<>"']/g, (ch) => `&#${ch.charCodeAt(0)};`);
+}

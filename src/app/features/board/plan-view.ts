@@ -1,0 +1,115 @@
+import { ChangeDetectionStrategy, Component, computed, effect, inject, signal, untracked } from '@angular/core';
+import { FormsModule } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatCheckboxModule } from '@angular/material/checkbox';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
+import { fieldProblems, serverMessage } from '../../core/api/api-error';
+import { BoardApi, type Campaign, type CampaignRoute } from './board-api';
+import { BoardStore } from './board-store';
+import { RouteOrder } from './route-order';
+
+interface RoutePlan { routeId: string; name: string; included: boolean; crewIds: string[]; direction: CampaignRoute['direction'] }
+interface Window { round: number; from: string; to: string }
+
+const today = () => new Date().toISOString().slice(0, 10);
+
+/**
+ * Planning: a new campaign (dates, rounds — several a day for diel work —, due items), then for
+ * the chosen campaign which routes it walks, who walks them, in which direction, and each
+ * round's time window; and the order of each route (drag and drop).
+ */
+@Component({
+  selector: 'fw-plan-view',
+  imports: [FormsModule, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatInputModule, MatSelectModule, RouteOrder],
+  templateUrl: './plan-view.html',
+  styleUrl: './plan-view.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class PlanView {
+  protected readonly store = inject(BoardStore);
+  private readonly api = inject(BoardApi);
+
+  protected draft = { name: '', startsOn: today(), endsOn: today(), rounds: 1, dueOffset: true, dueClosures: 1, dueProbes: true };
+  protected readonly createProblem = signal('');
+  protected readonly createStatus = signal('');
+  protected readonly plans = signal<RoutePlan[]>([]);
+  protected readonly windows = signal<Window[]>([]);
+  protected readonly assignStatus = signal('');
+  protected readonly assignProblem = signal('');
+  protected readonly locked = computed(() => this.store.campaign()?.locked ?? false);
+  protected readonly directions: { value: CampaignRoute['direction']; label: string }[] = [
+    { value: 'alternate', label: 'Alternate each round' }, { value: 'forward', label: 'Always forward' }, { value: 'reverse', label: 'Always reverse' },
+  ];
+
+  constructor() {
+    void this.store.ensureCollars();
+    // The assignment form follows the chosen campaign and the site's routes.
+    effect(() => {
+      const c = this.store.campaign();
+      const routes = this.store.routes();
+      untracked(() => this.resetPlans(c, routes.map((r) => ({ id: r.id, name: String(r['name']) }))));
+    });
+  }
+
+  private resetPlans(c: Campaign | null, routes: { id: string; name: string }[]): void {
+    const assigned = new Map((c?.routes ?? []).map((r) => [r.routeId, r]));
+    this.plans.set(routes.map((r) => ({
+      routeId: r.id, name: r.name, included: assigned.has(r.id),
+      crewIds: assigned.get(r.id)?.crewIds ?? [], direction: assigned.get(r.id)?.direction ?? 'alternate',
+    })));
+    const ws = c ? Array.from({ length: c.rounds }, (_, i) => {
+      const w = c.roundWindows.find((x) => x.round === i + 1);
+      return { round: i + 1, from: w ? w.from.slice(0, 16) : '', to: w ? w.to.slice(0, 16) : '' };
+    }) : [];
+    this.windows.set(ws);
+    this.assignStatus.set('');
+    this.assignProblem.set('');
+  }
+
+  protected async create(): Promise<void> {
+    this.createProblem.set('');
+    this.createStatus.set('');
+    const site = this.store.site();
+    if (!site) return;
+    try {
+      const c = await this.api.create<Campaign>('campaigns', { siteId: site.id, ...this.draft, rounds: Number(this.draft.rounds),
+        dueClosures: Number(this.draft.dueClosures), routes: [] });
+      this.store.replaceCampaign(c);
+      this.store.choose(c.id);
+      this.createStatus.set(`Campaign "${c.name}" created: choose its routes and crews below.`);
+      this.draft = { ...this.draft, name: '' };
+    } catch (err) {
+      const fields = fieldProblems(err).map((p) => `${p.path}: ${p.message}`).join('; ');
+      this.createProblem.set(`${serverMessage(err, 'The campaign could not be created')}${fields ? ` (${fields})` : ''}`);
+    }
+  }
+
+  protected update(routeId: string, change: Partial<RoutePlan>): void {
+    this.plans.update((ps) => ps.map((p) => (p.routeId === routeId ? { ...p, ...change } : p)));
+  }
+
+  protected setWindow(round: number, key: 'from' | 'to', value: string): void {
+    this.windows.update((ws) => ws.map((w) => (w.round === round ? { ...w, [key]: value } : w)));
+  }
+
+  protected async saveAssignment(): Promise<void> {
+    const c = this.store.campaign();
+    if (!c) return;
+    this.assignStatus.set('');
+    this.assignProblem.set('');
+    const routes = this.plans().filter((p) => p.included).map((p) => ({ routeId: p.routeId, crewIds: p.crewIds, direction: p.direction }));
+    // datetime-local values are the lead's local time; the wire carries UTC.
+    const roundWindows = this.windows().filter((w) => w.from && w.to)
+      .map((w) => ({ round: w.round, from: new Date(w.from).toISOString(), to: new Date(w.to).toISOString() }));
+    try {
+      const saved = await this.api.update<Campaign>('campaigns', c.id, c.rev, { routes, roundWindows });
+      this.store.replaceCampaign(saved);
+      await this.store.loadProgress();
+      this.assignStatus.set(`Saved: ${routes.length} route(s) in "${saved.name}".`);
+    } catch (err) {
+      this.assignProblem.set(serverMessage(err, 'The plan could not be saved'));
+    }
+  }
+}

@@ -1,0 +1,74 @@
+import { ScrollingModule } from '@angular/cdk/scrolling';
+import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
+import { BoardApi, type ItemKey } from './board-api';
+import { BoardStore } from './board-store';
+import { StateBadge } from './state-badge';
+import { filterRows, groupCounts, itemText, NO_FILTER, sortRows, type GroupBar, type ProgressFilter, type ProgressRow, type SortKey } from './progress-rows';
+
+/**
+ * Every collar × due item with its state, filters, counts and bars per route, plot and
+ * treatment, sortable, in a CDK virtual scroll so thousands of collars keep a small DOM.
+ */
+@Component({
+  selector: 'fw-progress-view',
+  imports: [ScrollingModule, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule, StateBadge],
+  templateUrl: './progress-view.html',
+  styleUrl: './progress-view.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class ProgressView {
+  protected readonly store = inject(BoardStore);
+  private readonly api = inject(BoardApi);
+  protected readonly filter = signal<ProgressFilter>(NO_FILTER);
+  protected readonly sortKey = signal<SortKey>('order');
+  protected readonly descending = signal(false);
+  protected readonly groupBy = signal<'route' | 'plot' | 'treatment'>('route');
+  protected readonly itemText = itemText;
+  protected readonly items: { key: ItemKey; label: string }[] = [
+    { key: 'offset', label: 'Offset' }, { key: 'closures', label: 'Closures' }, { key: 'probes', label: 'Probes' },
+  ];
+  protected readonly sorts: { key: SortKey; label: string }[] = [
+    { key: 'order', label: 'Walking order' }, { key: 'code', label: 'Collar code' }, { key: 'state', label: 'State' },
+    { key: 'plot', label: 'Plot' }, { key: 'route', label: 'Route' },
+  ];
+
+  protected readonly shown = computed(() =>
+    sortRows(filterRows(this.store.rows(), this.filter(), this.store.crewRoutes()), this.sortKey(), this.descending()));
+
+  protected readonly counts = computed(() => {
+    const c = { due: 0, partial: 0, complete: 0, skipped: 0 };
+    for (const r of this.shown()) c[r.state]++;
+    return c;
+  });
+
+  protected readonly bars = computed<GroupBar[]>(() => {
+    const by = this.groupBy();
+    return groupCounts(this.shown(), (r) => by === 'route' ? [{ key: r.routeId ?? '-', label: r.routeName || 'No route' }]
+      : by === 'plot' ? [{ key: r.plotId, label: r.plotCode }]
+      : r.treatmentCodes.map((t) => ({ key: t, label: t })));
+  });
+
+  protected readonly csvUrl = computed(() => {
+    const id = this.store.campaignId();
+    return id ? this.api.csvUrl(id, this.store.round()) : '';
+  });
+
+  protected readonly treatmentCodes = computed(() => this.store.treatments().map((t) => String(t['code'])));
+  protected readonly assignedCrew = computed(() => this.store.members().filter((m) => this.store.crewRoutes().has(m.id)));
+
+  protected set<K extends keyof ProgressFilter>(key: K, value: ProgressFilter[K]): void {
+    this.filter.update((f) => ({ ...f, [key]: value }));
+  }
+
+  protected pct(bar: GroupBar, state: 'complete' | 'skipped' | 'partial'): number {
+    return bar.total ? (100 * bar.counts[state]) / bar.total : 0;
+  }
+
+  protected byId(_: number, r: ProgressRow): string {
+    return r.collarId;
+  }
+}

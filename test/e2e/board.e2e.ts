@@ -1,0 +1,261 @@
+/// <reference lib="dom" />
+import { randomUUID } from 'node:crypto';
+import { readFileSync } from 'node:fs';
+import { Client } from 'pg';
+import { Page } from 'playwright-core';
+import { seriousAccessibilityProblems, signInAs } from './support/app-actions';
+import { RunningServer, startAppServer } from './support/app-server';
+import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
+import { syncNow, waitForFirstSync } from './support/sync-actions';
+
+jest.setTimeout(420_000);
+
+const SITE = '0f3c2a9e-5b1d-4c7e-9a2f-6d8e1b4c7a10'; // the demo site
+const CREW_ID = '1a6f0c3e-2d4b-4e8a-9c1f-3b5d7e9f1a01';
+const LEAD_ID = '1a6f0c3e-2d4b-4e8a-9c1f-3b5d7e9f1a02';
+
+let server: RunningServer;
+const browsers: Browser[] = [];
+
+beforeAll(async () => {
+  server = await startAppServer();
+});
+afterAll(async () => {
+  for (const b of browsers) await b.close();
+  await server?.stop();
+});
+
+async function noSeriousProblems(page: Page, where: string) {
+  const problems = await seriousAccessibilityProblems(page);
+  expect([where, problems]).toEqual([where, []]);
+}
+
+async function choose(page: Page, label: string, option: string | RegExp) {
+  await page.getByRole('combobox', { name: label, exact: true }).click();
+  await page.getByRole('option', { name: option }).click();
+}
+
+/** Retries a read until the expectation holds or 20 s pass, then reports the last difference. */
+function poll<T>(read: () => Promise<T>) {
+  const until = async (check: (v: T) => void) => {
+    const deadline = Date.now() + 20_000;
+    for (;;) {
+      const v = await read();
+      try {
+        check(v);
+        return;
+      } catch (err) {
+        if (Date.now() > deadline) throw err;
+      }
+      await new Promise((r) => setTimeout(r, 250));
+    }
+  };
+  return {
+    toEqual: (want: unknown) => until((v) => expect(v).toEqual(want)),
+    toBe: (want: unknown) => until((v) => expect(v).toBe(want)),
+    toContain: (want: string) => until((v) => expect(v).toContain(want)),
+  };
+}
+
+async function openTab(page: Page, name: string) {
+  await page.getByRole('tab', { name, exact: true }).click();
+}
+
+/** Shown rows of the progress table (only those the virtual scroll renders), by collar code. */
+async function shownStates(page: Page): Promise<Record<string, string>> {
+  return page.locator('[data-testid="progress-row"]').evaluateAll((rows) =>
+    Object.fromEntries(rows.map((r) => [r.getAttribute('data-collar') ?? '', r.getAttribute('data-state') ?? ''])));
+}
+
+/**
+ * Field records the crew's device stores through its device store: each record in its Dexie
+ * table and one outbox op in the same IndexedDB transaction, as the outbox writer does; then
+ * "Sync now" pushes them through the sync engine.
+ */
+async function recordOnCrewDevice(page: Page, records: { entity: string; fields: Record<string, unknown> }[]) {
+  await page.evaluate(async ({ dbName, records }) => {
+    const db = await new Promise<IDBDatabase>((resolve, reject) => {
+      const req = indexedDB.open(dbName);
+      req.onsuccess = () => resolve(req.result);
+      req.onerror = () => reject(req.error);
+    });
+    const tables = [...new Set(records.map((r) => r.entity)), 'outbox'];
+    const tx = db.transaction(tables, 'readwrite');
+    const now = new Date().toISOString();
+    for (const r of records) {
+      const id = String(r.fields['id']);
+      const { id: _id, ...fields } = r.fields;
+      tx.objectStore(r.entity).add({ ...fields, id, rev: 0, deleted: false });
+      tx.objectStore('outbox').add({ opId: crypto.randomUUID(), entity: r.entity, id, baseRev: null, op: 'upsert', fields,
+        base: {}, sentAt: null, createdAt: now, updatedAt: now });
+    }
+    await new Promise<void>((resolve, reject) => {
+      tx.oncomplete = () => resolve();
+      tx.onerror = () => reject(tx.error);
+    });
+    db.close();
+  }, { dbName: `fluxwalk-user-${CREW_ID}`, records });
+  await syncNow(page);
+}
+
+function visitOps(campaignId: string, collarId: string, round: number, what: 'offset' | 'skip') {
+  const visitId = randomUUID();
+  const at = `2026-12-0${round + 4}T09:00:00Z`;
+  const visit = { entity: 'visit', fields: { id: visitId, siteId: SITE, campaignId, round, collarId, crewId: CREW_ID, arrivedAt: at,
+    skipped: what === 'skip', skipReason: what === 'skip' ? 'Fallen spruce across the collar' : null } };
+  if (what === 'skip') return [visit];
+  return [visit, { entity: 'offsetSet', fields: { id: randomUUID(), siteId: SITE, visitId, collarId, campaignId, takenAt: at, readingsCm: [2.4, 2.6, 2.5, 2.5] } }];
+}
+
+describe('Board in Chromium', () => {
+  it('when the lead plans, watches a collar turn complete after the crew syncs, exports and closes the campaign', async () => {
+    const lead = await launchBrowser();
+    browsers.push(lead);
+    const page = lead.page;
+    await withScreenshotOnFailure(page, 'board-plan', async () => {
+      await signInAs(page, server.baseUrl, 'lead');
+      // A short loop of three demo collars for this campaign (routes are made in Setup).
+      const collars = ((await (await page.request.get(`${server.baseUrl}/api/collars?siteId=${SITE}&limit=3`)).json()) as { items: { id: string; code: string }[] }).items;
+      const csrf = ((await (await page.request.get(`${server.baseUrl}/api/auth/csrf`)).json()) as { token: string }).token;
+      const routeRes = await page.request.post(`${server.baseUrl}/api/routes`, { headers: { 'X-CSRF-Token': csrf },
+        data: { siteId: SITE, name: 'Short loop', collarIds: collars.map((c) => c.id) } });
+      expect(routeRes.status()).toBe(201);
+
+      await page.goto(`${server.baseUrl}/board`);
+      await page.locator('[data-testid="progress-row"]').first().waitFor();
+      await noSeriousProblems(page, 'Board progress');
+
+      await openTab(page, 'Plan');
+      await page.getByLabel('Name', { exact: true }).fill('Board test, two rounds');
+      await page.getByLabel('Starts on').fill('2026-12-05');
+      await page.getByLabel('Ends on').fill('2026-12-06');
+      await page.getByLabel('Rounds', { exact: true }).fill('2');
+      await page.getByLabel('Closures per collar and round').fill('0');
+      await page.getByRole('checkbox', { name: 'Probe readings due' }).uncheck();
+      await page.getByRole('button', { name: 'Create campaign' }).click();
+      await page.getByText('Campaign "Board test, two rounds" created').waitFor();
+      await page.getByRole('checkbox', { name: 'Short loop' }).check();
+      await choose(page, 'Crew on Short loop', 'Rowan Ashby');
+      await page.keyboard.press('Escape');
+      await page.getByRole('button', { name: 'Save plan' }).click();
+      await page.getByText('Saved: 1 route(s) in "Board test, two rounds".').waitFor();
+      await noSeriousProblems(page, 'Board plan');
+      const campaign = ((await (await page.request.get(`${server.baseUrl}/api/campaigns?siteId=${SITE}&limit=100`)).json()) as
+        { items: { id: string; name: string; routes: unknown[] }[] }).items.find((c) => c.name === 'Board test, two rounds')!;
+      expect(campaign.routes).toEqual([{ routeId: (await routeRes.json()).record.id, crewIds: [CREW_ID], direction: 'alternate' }]);
+
+      await openTab(page, 'Progress');
+      await choose(page, 'Round', 'Round 1');
+      await choose(page, 'Needs', 'Needs offset');
+      await poll(() => shownStates(page)).toEqual(Object.fromEntries(collars.map((c) => [c.code, 'due'])));
+
+      // The crew records an offset set on their own device and syncs.
+      const crew = await launchBrowser();
+      browsers.push(crew);
+      await signInAs(crew.page, server.baseUrl, 'crew');
+      await waitForFirstSync(crew.page);
+      await recordOnCrewDevice(crew.page, visitOps(campaign.id, collars[0].id, 1, 'offset'));
+      await poll(async () => (await (await page.request.get(`${server.baseUrl}/api/offset-sets?campaignId=${campaign.id}`)).json()).total).toBe(1);
+
+      await page.getByRole('button', { name: 'Refresh' }).click();
+      await poll(() => shownStates(page)).toEqual({ [collars[1].code]: 'due', [collars[2].code]: 'due' });
+      await choose(page, 'Needs', 'Anything');
+      await poll(async () => (await shownStates(page))[collars[0].code]).toBe('complete');
+
+      // Round 2 and the two collars the crew could not reach; then the campaign can be closed.
+      await recordOnCrewDevice(crew.page, [...visitOps(campaign.id, collars[0].id, 2, 'offset'),
+        ...[1, 2].flatMap((r) => [collars[1], collars[2]].flatMap((c) => visitOps(campaign.id, c.id, r, 'skip')))]);
+      await poll(async () => (await (await page.request.get(`${server.baseUrl}/api/visits?campaignId=${campaign.id}`)).json()).total).toBe(6);
+      await choose(page, 'Round', 'All rounds');
+      await page.getByRole('button', { name: 'Refresh' }).click();
+      await poll(() => shownStates(page)).toEqual({ [collars[0].code]: 'complete', [collars[1].code]: 'skipped', [collars[2].code]: 'skipped' });
+
+      const [download] = await Promise.all([page.waitForEvent('download'), page.getByTestId('progress-csv').click()]);
+      const csv = readFileSync((await download.path())!, 'utf8').trim().split('\r\n');
+      expect(csv).toHaveLength(4);
+      expect(csv[1]).toMatch(new RegExp(`^${collars[0].code},Short loop,P\\d+,[A-Z ]+,all,complete,,complete,2,2`));
+      expect(csv[2]).toContain(',skipped,Fallen spruce across the collar,');
+
+      await page.getByRole('button', { name: 'Close campaign' }).click();
+      await poll(() => page.getByTestId('lock-state').innerText()).toContain('Closed');
+      expect((await (await page.request.get(`${server.baseUrl}/api/campaigns/${campaign.id}`)).json()).record.locked).toBe(true);
+
+      for (const tab of ['Map', 'Anomalies', 'Devices']) {
+        await openTab(page, tab);
+        await page.getByRole('heading', { name: tab === 'Map' ? 'Map' : tab }).first().waitFor({ state: 'attached' });
+        if (tab === 'Devices') await page.getByTestId('device-row').first().waitFor();
+        if (tab === 'Anomalies') await page.getByText(/^As of /).waitFor();
+        await noSeriousProblems(page, `Board ${tab.toLowerCase()}`);
+      }
+      // The crew's device is listed with what it last reported.
+      expect(await page.getByTestId('device-row').filter({ hasText: 'Rowan Ashby' }).count()).toBeGreaterThan(0);
+    });
+  });
+
+  it('when a campaign holds 5 000 collars, then the first rows show within 300 ms of the data and the DOM keeps fewer than 200 rows', async () => {
+    const campaignId = await seedLargeCampaign(5000);
+    const page = browsers[0].page;
+    await withScreenshotOnFailure(page, 'board-5000', async () => {
+      await openTab(page, 'Progress');
+      await page.evaluate(() => {
+        performance.clearMarks();
+        const w = window as unknown as { fwRowsAt?: number };
+        w.fwRowsAt = undefined;
+        const seen = () => document.querySelector('[data-testid="progress-row"][data-collar^="BIG-"]');
+        const mo = new MutationObserver(() => {
+          if (w.fwRowsAt === undefined && seen()) {
+            w.fwRowsAt = performance.now();
+            mo.disconnect();
+          }
+        });
+        mo.observe(document.body, { subtree: true, childList: true });
+      });
+      await page.getByRole('button', { name: 'Refresh' }).click(); // the campaign was inserted behind the app's back
+      await page.waitForLoadState('networkidle');
+      await choose(page, 'Campaign', /Large campaign/);
+      await page.locator('[data-testid="progress-row"][data-collar^="BIG-"]').first().waitFor();
+      const timing = await page.evaluate((id) => {
+        const data = performance.getEntriesByName('board-progress-data').at(-1)!.startTime;
+        const res = performance.getEntriesByType('resource').filter((e) => e.name.includes(`/api/campaigns/${id}/progress`)).at(-1) as PerformanceResourceTiming;
+        return { dataMark: data, responseEnd: res?.responseEnd ?? null, rowsAt: (window as unknown as { fwRowsAt: number }).fwRowsAt };
+      }, campaignId);
+      const afterParse = timing.rowsAt - timing.dataMark;
+      const afterResponse = timing.responseEnd === null ? null : timing.rowsAt - timing.responseEnd;
+      console.log(`[board] 5 000 collars: first rows ${afterParse.toFixed(0)} ms after the progress data reached the app`
+        + (afterResponse === null ? '' : ` (${afterResponse.toFixed(0)} ms after the response ended)`));
+      // "After the data arrives" taken strictly: from the end of the HTTP response, so JSON parsing counts too.
+      expect(afterResponse ?? afterParse).toBeLessThanOrEqual(300);
+      expect(await page.getByText(/5000 collar\(s\) shown/).count()).toBe(1);
+      const inDom = await page.locator('[data-testid="progress-row"]').count();
+      await page.getByTestId('progress-viewport').evaluate((el) => el.scrollTo(0, el.scrollHeight));
+      await page.locator('[data-testid="progress-row"][data-collar="BIG-5000"]').waitFor();
+      const inDomAtEnd = await page.locator('[data-testid="progress-row"]').count();
+      console.log(`[board] rows in the DOM: ${inDom} at the top, ${inDomAtEnd} at the bottom`);
+      expect(Math.max(inDom, inDomAtEnd)).toBeLessThan(200);
+    });
+  });
+});
+
+/** 5 000 extra collars, a route through them and an open campaign, inserted set-wise on the demo site. */
+async function seedLargeCampaign(n: number): Promise<string> {
+  const db = new Client({ connectionString: process.env['E2E_DATABASE_URL'] });
+  await db.connect();
+  try {
+    const campaignId = randomUUID();
+    const routeId = randomUUID();
+    await db.query('BEGIN');
+    const [plot] = (await db.query(`SELECT id FROM plot WHERE site_id = $1 AND NOT deleted ORDER BY code LIMIT 1`, [SITE])).rows;
+    await db.query(`INSERT INTO collar (id, site_id, code, plot_id, shape, diameter_cm, area_cm2, status, updated_by)
+      SELECT gen_random_uuid(), $1, 'BIG-' || lpad(i::text, 4, '0'), $2, 'round', 20, 314.16, 'active', $3 FROM generate_series(1, $4) i`,
+      [SITE, plot.id, LEAD_ID, n]);
+    await db.query(`INSERT INTO route (id, site_id, name, collar_ids, updated_by)
+      SELECT $1, $2, 'Large loop', array_agg(id ORDER BY code), $3 FROM collar WHERE site_id = $2 AND code LIKE 'BIG-%'`, [routeId, SITE, LEAD_ID]);
+    await db.query(`INSERT INTO campaign (id, site_id, name, starts_on, ends_on, rounds, due_offset, due_closures, due_probes, routes, updated_by)
+      VALUES ($1, $2, 'Large campaign', '2026-12-20', '2026-12-21', 1, true, 1, true, $3::jsonb, $4)`,
+      [campaignId, SITE, JSON.stringify([{ routeId, crewIds: [CREW_ID], direction: 'alternate' }]), LEAD_ID]);
+    await db.query('COMMIT');
+    return campaignId;
+  } finally {
+    await db.end();
+  }
+}
