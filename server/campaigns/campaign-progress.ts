@@ -6,11 +6,13 @@ export type ProgressState = 'due' | 'partial' | 'complete' | 'skipped';
 interface Item { state: ProgressState; done: number; needed: number }
 type StateCounts = Record<ProgressState, number>;
 
+/** One row per collar and round with visits (a collar with none comes once, round null). */
 interface Row {
   collar_id: string; code: string; route_id: string | null; plot_id: string; treatment_ids: string[];
-  rounds: number; due_offset: boolean; due_closures: number; due_probes: boolean;
-  per_round: { round: number; skipped: boolean; skip_reason: string | null; offsets: number; closures: number; probes: number }[] | null;
+  round: number | null; skipped: boolean | null; skip_reason: string | null; offsets: string | null; closures: string | null; probes: string | null;
 }
+interface Needs { due_offset: boolean; due_closures: number; due_probes: boolean }
+type PerRound = Map<number, Row>;
 
 /**
  * One round trip: every collar of the campaign's routes (all live collars of the site when it has
@@ -40,13 +42,11 @@ per AS (SELECT vv.collar_id, vv.round, bool_or(vv.skipped) AS skipped,
                (array_agg(vv.skip_reason ORDER BY vv.arrived_at DESC) FILTER (WHERE vv.skipped))[1] AS skip_reason,
                count(o.visit_id) AS offsets, coalesce(sum(z.n), 0) AS closures, count(pr.visit_id) AS probes
           FROM vv LEFT JOIN o ON o.visit_id = vv.id LEFT JOIN z ON z.visit_id = vv.id LEFT JOIN pr ON pr.visit_id = vv.id
-         GROUP BY vv.collar_id, vv.round),
-perc AS (SELECT collar_id, json_agg(json_build_object('round', round, 'skipped', skipped, 'skip_reason', skip_reason,
-                 'offsets', offsets, 'closures', closures, 'probes', probes)) AS per_round FROM per GROUP BY collar_id)
+         GROUP BY vv.collar_id, vv.round)
 SELECT cols.id AS collar_id, cols.code, cols.route_id, cols.plot_id, cols.treatment_ids,
-       c.rounds, c.due_offset, c.due_closures, c.due_probes, perc.per_round
-  FROM cols CROSS JOIN c LEFT JOIN perc ON perc.collar_id = cols.id
- ORDER BY cols.route_id NULLS LAST, cols.ord NULLS LAST, cols.code`;
+       per.round, per.skipped, per.skip_reason, per.offsets, per.closures, per.probes
+  FROM cols LEFT JOIN per ON per.collar_id = cols.id
+ ORDER BY cols.route_id NULLS LAST, cols.ord NULLS LAST, cols.code, per.round`;
 
 const emptyCounts = (): StateCounts => ({ due: 0, partial: 0, complete: 0, skipped: 0 });
 
@@ -55,9 +55,8 @@ function itemState(done: number, needed: number): ProgressState {
 }
 
 /** A collar's state over the requested rounds from its per-round counts. */
-function collarProgress(row: Row, rounds: number[]) {
-  const perRound = new Map((row.per_round ?? []).map((p) => [p.round, p]));
-  const needs = { offset: row.due_offset ? 1 : 0, closures: row.due_closures, probes: row.due_probes ? 1 : 0 };
+function collarProgress(perRound: PerRound, camp: Needs, rounds: number[]) {
+  const needs = { offset: camp.due_offset ? 1 : 0, closures: camp.due_closures, probes: camp.due_probes ? 1 : 0 };
   const items: Record<string, Item> = {};
   const roundStates: ProgressState[] = [];
   let skipReason: string | null = null;
@@ -91,7 +90,8 @@ function collarProgress(row: Row, rounds: number[]) {
 }
 
 export async function campaignProgress(ds: DataSource, user: SessionUser, campaignId: string, round: number | null) {
-  const [camp] = await ds.query(`SELECT site_id, rounds FROM campaign WHERE id = $1 AND NOT deleted`, [campaignId]);
+  const [camp] = await ds.query(
+    `SELECT site_id, rounds, due_offset, due_closures, due_probes FROM campaign WHERE id = $1 AND NOT deleted`, [campaignId]);
   if (!camp || (!seesAllSites(user.roles) && !user.siteIds.includes(camp.site_id))) throw notFound('No such campaign');
   if (round !== null && round > camp.rounds) throw notFound(`The campaign has ${camp.rounds} round(s)`);
   const rows: Row[] = await ds.query(PROGRESS_SQL, [campaignId, round]);
@@ -100,8 +100,14 @@ export async function campaignProgress(ds: DataSource, user: SessionUser, campai
   const bump = (group: Record<string, StateCounts>, key: string | null, s: ProgressState) => {
     if (key) (group[key] ??= emptyCounts())[s]++;
   };
-  const collars = rows.map((row) => {
-    const p = collarProgress(row, rounds);
+  const byCollar = new Map<string, { row: Row; perRound: PerRound }>();
+  for (const row of rows) {
+    const entry = byCollar.get(row.collar_id) ?? { row, perRound: new Map() };
+    if (row.round !== null) entry.perRound.set(row.round, row);
+    byCollar.set(row.collar_id, entry);
+  }
+  const collars = [...byCollar.values()].map(({ row, perRound }) => {
+    const p = collarProgress(perRound, camp, rounds);
     bump(totals.byRoute, row.route_id, p.state);
     bump(totals.byPlot, row.plot_id, p.state);
     for (const t of row.treatment_ids) bump(totals.byTreatment, t, p.state);
