@@ -1,5 +1,6 @@
 import { Routes } from '@angular/router';
 import { destinationGuard, homeRedirect, noDestinationsGuard, signedInGuard, signedOutGuard } from './core/auth/auth-guards';
+import { PUBLIC_ACCOUNT_ROUTES, SIGNED_IN_ACCOUNT_ROUTES } from './features/accounts/account-routes';
 
 /** One lazy chunk per screen family; the guards read the remembered user, so they work offline. */
 export const routes: Routes = [
@@ -9,6 +10,7 @@ export const routes: Routes = [
     title: 'Sign in · Fluxwalk',
     loadComponent: () => import('./features/sign-in/sign-in').then((m) => m.SignIn),
   },
+  ...PUBLIC_ACCOUNT_ROUTES, // accept an invitation, forgot/reset password: reached from mail, no sign-in
   {
     path: '',
     canActivate: [signedInGuard],
@@ -61,6 +63,7 @@ export const routes: Routes = [
         title: 'Backup files · Fluxwalk',
         loadComponent: () => import('./features/backup/backup-page').then((m) => m.BackupPage),
       },
+      { path: 'accounts', children: SIGNED_IN_ACCOUNT_ROUTES }, // change password, invite (lazy pages)
       {
         path: 'no-destinations',
         canActivate: [noDestinationsGuard],

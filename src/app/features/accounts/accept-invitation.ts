@@ -1,0 +1,74 @@
+import { ChangeDetectionStrategy, Component, effect, inject, input, signal } from '@angular/core';
+import { FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatInputModule } from '@angular/material/input';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { Router, RouterLink } from '@angular/router';
+import { AuthStore } from '../../core/auth/auth-store';
+import { homePathFor } from '../../core/auth/destinations';
+import { AccountApi, type InvitationPreview } from './account-api';
+import { MIN_PASSWORD_LENGTH, PASSWORD_HINT, describeAccountError } from './password-hint';
+
+/** The page an invitation mail links to: choose a name and a password, then straight into the app. */
+@Component({
+  selector: 'fw-accept-invitation',
+  imports: [ReactiveFormsModule, RouterLink, MatButtonModule, MatFormFieldModule, MatInputModule, MatProgressBarModule],
+  templateUrl: './accept-invitation.html',
+  styleUrl: './account-card.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class AcceptInvitation {
+  private readonly api = inject(AccountApi);
+  private readonly auth = inject(AuthStore);
+  private readonly router = inject(Router);
+
+  /** From the link in the mail (?token=…). */
+  readonly token = input<string>('');
+
+  protected readonly hint = PASSWORD_HINT;
+  protected readonly invitation = signal<InvitationPreview | null>(null);
+  protected readonly problem = signal<string | null>(null);
+  protected readonly busy = signal(false);
+  protected readonly form = inject(FormBuilder).nonNullable.group({
+    displayName: ['', [Validators.required, Validators.maxLength(120)]],
+    password: ['', [Validators.required, Validators.minLength(MIN_PASSWORD_LENGTH)]],
+  });
+
+  constructor() {
+    effect(() => void this.look(this.token()));
+  }
+
+  private async look(token: string): Promise<void> {
+    if (!token) {
+      this.problem.set('This link has no invitation in it. Open the link from the mail again.');
+      return;
+    }
+    try {
+      this.invitation.set(await this.api.lookupInvitation(token));
+    } catch (err) {
+      this.problem.set(describeAccountError(err, 'This invitation could not be opened.'));
+    }
+  }
+
+  protected async createAccount(): Promise<void> {
+    const invitation = this.invitation();
+    if (this.busy() || !invitation) return;
+    if (this.form.invalid) {
+      this.form.markAllAsTouched();
+      return;
+    }
+    this.busy.set(true);
+    this.problem.set(null);
+    const { displayName, password } = this.form.getRawValue();
+    try {
+      await this.api.acceptInvitation(this.token(), displayName.trim(), password);
+      const user = await this.auth.signIn(invitation.email, password);
+      await this.router.navigateByUrl(homePathFor(user.roles));
+    } catch (err) {
+      this.problem.set(describeAccountError(err, 'The account could not be made.'));
+    } finally {
+      this.busy.set(false);
+    }
+  }
+}
