@@ -2,6 +2,7 @@ import { ChangeDetectionStrategy, Component, effect, inject, input, signal } fro
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatSlideToggleModule } from '@angular/material/slide-toggle';
 import { MatTableModule } from '@angular/material/table';
+import { RouterLink } from '@angular/router';
 import { serverMessage } from '../../core/api/api-error';
 import { SetupApi, type UserRow } from './setup-api';
 
@@ -10,10 +11,11 @@ const ROLES = ['crew', 'lead', 'lab', 'admin'] as const;
 /** Who works on the site: membership, roles and disabling a user (admins only). */
 @Component({
   selector: 'fw-members',
-  imports: [MatTableModule, MatCheckboxModule, MatSlideToggleModule],
+  imports: [MatTableModule, MatCheckboxModule, MatSlideToggleModule, RouterLink],
   template: `
     <section aria-labelledby="members-heading">
       <h3 id="members-heading">Members and roles</h3>
+      <p><a routerLink="/accounts/invite" [queryParams]="{ siteId: siteId() }">Invite someone by e-mail</a></p>
       <table mat-table [dataSource]="users()">
         <ng-container matColumnDef="name">
           <th mat-header-cell *matHeaderCellDef>Name</th>
