@@ -21,7 +21,7 @@ export const routes: Routes = [
         path: 'walk',
         canActivate: [destinationGuard('walk')],
         title: 'Walk · Fluxwalk',
-        loadComponent: () => import('./features/walk/walk').then((m) => m.Walk),
+        loadChildren: () => import('./features/walk/walk-routes').then((m) => m.WALK_ROUTES),
       },
       {
         path: 'board',
