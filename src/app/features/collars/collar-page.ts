@@ -8,6 +8,8 @@ import { MatInputModule } from '@angular/material/input';
 import { RouterLink } from '@angular/router';
 import { AuthStore } from '../../core/auth/auth-store';
 import { LocalWrites } from '../../core/sync/local-writes';
+import { CollarEvents } from './collar-events';
+import { CollarPhotos } from './collar-photos';
 import { collarView } from './collar-store';
 
 /**
@@ -17,7 +19,7 @@ import { collarView } from './collar-store';
  */
 @Component({
   selector: 'fw-collar-page',
-  imports: [DatePipe, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, ReactiveFormsModule, RouterLink],
+  imports: [CollarEvents, CollarPhotos, DatePipe, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, ReactiveFormsModule, RouterLink],
   templateUrl: './collar-page.html',
   styleUrl: './collar-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

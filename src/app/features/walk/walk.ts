@@ -1,31 +1,142 @@
-import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
-import { AuthStore } from '../../core/auth/auth-store';
+import { DecimalPipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, signal, untracked } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
+import { MatSlideToggleModule } from '@angular/material/slide-toggle';
+import { Router, RouterLink } from '@angular/router';
 import { SiteChoice } from '../../core/auth/site-choice';
-import { ScreenIntro } from '../placeholder/screen-intro';
+import { DeviceDb } from '../../core/db/device-db';
+import { SyncEngine } from '../../core/sync/sync-engine';
+import { notYetSynced } from '../../core/sync/sync-status';
+import { Gps, wayTo } from './gps';
+import { QrScan } from './qr-scan';
+import { STATE_LABEL, STATE_MARK, nextDueIndex } from './route-order';
+import { CHECK_ITEMS } from './start-of-day-items';
+import { WalkContext } from './walk-context';
+import { localDayStart, routeView, todayChecks, walkOptions } from './walk-store';
 
-/** The crew's screen for today. Works from the device only, so it opens the same offline. */
+/**
+ * The route of today's round: pick campaign, round and route; collars in walking order with
+ * what is due; the next due collar on top with distance and bearing from here. Reads the device
+ * store only, so it is the same offline.
+ */
 @Component({
   selector: 'fw-walk',
-  imports: [ScreenIntro],
-  template: `
-    <fw-screen-intro icon="directions_walk" title="Walk" [summary]="summary()" [upcoming]="upcoming" />
-  `,
+  imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatSlideToggleModule, QrScan, RouterLink],
+  templateUrl: './walk.html',
+  styleUrls: ['./walk.scss', './route-list.scss'],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class Walk {
-  private readonly auth = inject(AuthStore);
   private readonly site = inject(SiteChoice).current;
+  private readonly walk = inject(WalkContext);
+  private readonly gps = inject(Gps);
+  private readonly router = inject(Router);
+  private readonly engine = inject(SyncEngine);
+  private readonly deviceDb = inject(DeviceDb);
+  protected readonly choice = this.walk.choice;
+  protected readonly options = walkOptions(() => this.site()?.id ?? null);
+  protected readonly route = routeView(() => {
+    const c = this.choice();
+    return { campaignId: c.campaignId, routeId: c.routeId, round: c.round, flipped: c.flipped };
+  });
+  private readonly since = signal(localDayStart());
+  private readonly checks = todayChecks(() => ({ siteId: this.site()?.id ?? null, since: this.since() }));
+  protected readonly checksDone = computed(() => CHECK_ITEMS.filter((i) => this.checks().some((c) => c['kind'] === i.kind)).length);
+  protected readonly checkCount = CHECK_ITEMS.length;
+  protected readonly pendingLabel = computed(() => notYetSynced(this.engine.pending()));
+  protected readonly fix = this.gps.fix;
+  protected readonly gpsError = this.gps.error;
+  protected readonly code = signal('');
+  protected readonly codeProblem = signal('');
+  protected readonly stateLabel = STATE_LABEL;
+  protected readonly stateMark = STATE_MARK;
 
-  protected readonly summary = computed(() => {
-    const name = this.auth.user()?.displayName ?? '';
-    const where = this.site()?.name;
-    return `${name}, this is your walk for today${where ? ` at ${where}` : ''}: the route's collars in order and what is due at each.`;
+  protected readonly campaign = computed(() => this.options()?.campaigns.find((c) => c.id === this.choice().campaignId) ?? null);
+  protected readonly rounds = computed(() => Array.from({ length: Number(this.campaign()?.['rounds'] ?? 1) }, (_, i) => i + 1));
+  /** Routes of the chosen campaign (all site routes when the campaign names none). */
+  protected readonly routes = computed(() => {
+    const planned = (this.campaign()?.['routes'] as { routeId: string }[] | undefined)?.map((r) => r.routeId) ?? [];
+    const all = this.options()?.routes ?? [];
+    return planned.length ? all.filter((r) => planned.includes(r.id)) : all;
+  });
+  protected readonly next = computed(() => {
+    const rows = this.route()?.rows ?? [];
+    const i = nextDueIndex(rows.map((r) => r.state));
+    return i < 0 ? null : rows[i];
+  });
+  protected readonly nextWay = computed(() => {
+    const n = this.next();
+    return n ? wayTo(this.fix(), n.latitude, n.longitude) : null;
+  });
+  protected readonly counts = computed(() => {
+    const rows = this.route()?.rows ?? [];
+    return { done: rows.filter((r) => r.state === 'complete' || r.state === 'skipped').length, all: rows.length };
   });
 
-  protected readonly upcoming = [
-    'The route of the current round, collar by collar, with what is due: offset, closure(s), probes.',
-    'Recording an offset set, probe readings and visit conditions at a collar.',
-    'Closures from the analyzer, with a redo on the spot when a closure is bad.',
-    'Everything saved on this device first, with "n not yet synced" until it reaches the server.',
-  ] as const;
+  constructor() {
+    const stop = this.gps.watch();
+    inject(DestroyRef).onDestroy(stop);
+    // First open: take the newest open campaign and its first route, so the crew sees a route at once.
+    effect(() => {
+      const o = this.options();
+      untracked(() => {
+        if (!o) return;
+        const c = this.choice();
+        const campaign = o.campaigns.find((x) => x.id === c.campaignId) ?? o.campaigns[0];
+        if (!campaign) return;
+        const planned = (campaign['routes'] as { routeId: string }[] | undefined)?.map((r) => r.routeId) ?? [];
+        const routeOk = c.routeId && (!planned.length || planned.includes(c.routeId));
+        if (campaign.id !== c.campaignId || !routeOk) {
+          this.walk.update({ campaignId: campaign.id, routeId: routeOk ? c.routeId : (planned[0] ?? o.routes[0]?.id ?? null) });
+        }
+      });
+    });
+  }
+
+  protected pickCampaign(id: string): void {
+    const c = this.options()?.campaigns.find((x) => x.id === id);
+    const planned = (c?.['routes'] as { routeId: string }[] | undefined)?.map((r) => r.routeId) ?? [];
+    this.walk.update({ campaignId: id, round: 1, routeId: planned[0] ?? this.choice().routeId });
+  }
+
+  protected pickRound(round: number): void {
+    this.walk.update({ round });
+  }
+
+  protected pickRoute(id: string): void {
+    this.walk.update({ routeId: id });
+  }
+
+  protected flip(on: boolean): void {
+    this.walk.update({ flipped: on });
+  }
+
+  /**
+   * Opens a collar by its code: looked up in the device store (not only the route on screen, which
+   * may still be loading), so any collar of the site opens, on this route or not.
+   */
+  protected async openByCode(): Promise<void> {
+    const typed = this.code().trim();
+    if (!typed) return;
+    const wanted = typed.toLowerCase();
+    const siteId = this.site()?.id ?? null;
+    const found = await this.deviceDb.run(async (db) => {
+      const table = db.records('collar');
+      const list = siteId ? await table.where('siteId').equals(siteId).toArray() : await table.toArray();
+      return list.find((c) => !c.deleted && String(c['code']).toLowerCase() === wanted) ?? null;
+    });
+    if (!found) {
+      this.codeProblem.set(`No collar ${typed} on this device.`);
+      return;
+    }
+    this.codeProblem.set('');
+    await this.router.navigate(['/walk/visit', found.id]);
+  }
+
+  protected dueText(due: readonly string[]): string {
+    return due.length ? due.join(', ') : 'nothing due';
+  }
 }

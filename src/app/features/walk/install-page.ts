@@ -1,0 +1,141 @@
+import { DecimalPipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, signal } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatInputModule } from '@angular/material/input';
+import { MatRadioModule } from '@angular/material/radio';
+import { MatSelectModule } from '@angular/material/select';
+import { Router, RouterLink } from '@angular/router';
+import { collarAreaCm2 } from '../../../../shared/model/derived';
+import { SiteChoice } from '../../core/auth/site-choice';
+import { liveSignal } from '../../core/db/live-query-signal';
+import { LocalWrites } from '../../core/sync/local-writes';
+import { averageFixes, Gps, type Fix } from './gps';
+import { parseCm } from './offset-form';
+import { PhotoStore, resizePhoto } from './photo-store';
+import { validated } from './visit-writes';
+
+interface Photo {
+  blob: Blob;
+  url: string;
+  name: string;
+  width: number;
+  height: number;
+}
+
+const today = () => {
+  const d = new Date();
+  return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, '0')}-${String(d.getDate()).padStart(2, '0')}`;
+};
+
+/**
+ * Installing a collar in the field: code, plot, a position averaged over several GPS fixes, shape
+ * and size (area computed), height and insertion depth, photos resized on the device. Saved as
+ * the collar, its "installed" event and the photos' attachment records, all on the device first.
+ */
+@Component({
+  selector: 'fw-install-page',
+  imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatInputModule, MatRadioModule, MatSelectModule, RouterLink],
+  templateUrl: './install-page.html',
+  styleUrl: './walk.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class InstallPage {
+  private readonly site = inject(SiteChoice).current;
+  private readonly gps = inject(Gps);
+  private readonly writes = inject(LocalWrites);
+  private readonly photos$ = inject(PhotoStore);
+  private readonly router = inject(Router);
+  protected readonly plots = liveSignal(() => this.site()?.id ?? null, async (db, siteId) =>
+    siteId ? (await db.records('plot').where('siteId').equals(siteId).toArray()).sort((a, b) => String(a['code']).localeCompare(String(b['code']), undefined, { numeric: true })) : [], []);
+
+  protected readonly code = signal('');
+  protected readonly plotId = signal<string | null>(null);
+  protected readonly shape = signal<'round' | 'rectangular'>('round');
+  protected readonly diameter = signal('');
+  protected readonly sideA = signal('');
+  protected readonly sideB = signal('');
+  protected readonly height = signal('');
+  protected readonly insertion = signal('');
+  protected readonly installedOn = signal(today());
+  protected readonly note = signal('');
+  protected readonly fixes = signal<Fix[]>([]);
+  protected readonly photos = signal<Photo[]>([]);
+  protected readonly busy = signal(false);
+  protected readonly problem = signal('');
+  protected readonly currentFix = this.gps.fix;
+  protected readonly gpsError = this.gps.error;
+
+  protected readonly position = computed(() => averageFixes(this.fixes()));
+  protected readonly areaCm2 = computed(() =>
+    collarAreaCm2({ shape: this.shape(), diameterCm: parseCm(this.diameter()), sideACm: parseCm(this.sideA()), sideBCm: parseCm(this.sideB()) }));
+
+  constructor() {
+    const stop = this.gps.watch();
+    const destroy = inject(DestroyRef);
+    destroy.onDestroy(stop);
+    destroy.onDestroy(() => this.photos().forEach((p) => URL.revokeObjectURL(p.url)));
+  }
+
+  protected addFix(): void {
+    const f = this.currentFix();
+    if (!f) {
+      this.problem.set(this.gpsError() || 'No position yet: wait for the GPS.');
+      return;
+    }
+    this.problem.set('');
+    this.fixes.update((list) => [...list, { ...f, at: Date.now() }]);
+  }
+
+  protected clearFixes(): void {
+    this.fixes.set([]);
+  }
+
+  protected async addPhotos(event: Event): Promise<void> {
+    const input = event.target as HTMLInputElement;
+    const files = Array.from(input.files ?? []);
+    input.value = '';
+    for (const file of files) {
+      try {
+        const r = await resizePhoto(file);
+        const base = file.name.replace(/\.[^.]+$/, '') || 'photo';
+        this.photos.update((p) => [...p, { blob: r.blob, url: URL.createObjectURL(r.blob), name: `${base}.jpg`, width: r.width, height: r.height }]);
+      } catch {
+        this.problem.set(`${file.name} is not an image this device can read.`);
+      }
+    }
+  }
+
+  protected removePhoto(i: number): void {
+    const p = this.photos()[i];
+    URL.revokeObjectURL(p.url);
+    this.photos.update((list) => list.filter((_, j) => j !== i));
+  }
+
+  protected async save(): Promise<void> {
+    const siteId = this.site()?.id;
+    if (!siteId) return this.problem.set('No site chosen.');
+    const pos = this.position();
+    this.busy.set(true);
+    this.problem.set('');
+    try {
+      const collar = validated('collar', {
+        siteId, code: this.code().trim(), plotId: this.plotId(), shape: this.shape(),
+        diameterCm: this.shape() === 'round' ? parseCm(this.diameter()) : null,
+        sideACm: this.shape() === 'rectangular' ? parseCm(this.sideA()) : null,
+        sideBCm: this.shape() === 'rectangular' ? parseCm(this.sideB()) : null,
+        heightCm: parseCm(this.height()), insertionCm: parseCm(this.insertion()),
+        latitude: pos?.latitude ?? null, longitude: pos?.longitude ?? null, accuracyM: pos ? Math.round(pos.accuracyM * 10) / 10 : null,
+        installedOn: this.installedOn(), notes: this.note().trim(),
+      });
+      const rec = await this.writes.create('collar', collar);
+      await this.writes.create('collarEvent', validated('collarEvent', { siteId, collarId: rec.id, kind: 'installed', date: this.installedOn(), note: this.note().trim() }));
+      for (const p of this.photos()) await this.photos$.keep({ siteId, ownerEntity: 'collar', ownerId: rec.id }, p.blob, p.name);
+      await this.router.navigate(['/collars', rec.id]);
+    } catch (err) {
+      this.problem.set(err instanceof Error ? err.message : 'Could not save on this device');
+    } finally {
+      this.busy.set(false);
+    }
+  }
+}

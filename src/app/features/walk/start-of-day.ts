@@ -1,0 +1,130 @@
+import { DatePipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
+import { RouterLink } from '@angular/router';
+import { SiteChoice } from '../../core/auth/site-choice';
+import type { LocalRecord } from '../../core/db/db-schema';
+import { LocalWrites } from '../../core/sync/local-writes';
+import { parseCm } from './offset-form';
+import { CHECK_ITEMS, clockOffsetS, leakPassed, type CheckKind } from './start-of-day-items';
+import { WalkContext } from './walk-context';
+import { localDayStart, todayChecks, walkOptions } from './walk-store';
+import { validated } from './visit-writes';
+
+/**
+ * The checks before the first collar: the site's safety note (acknowledged), analyzer, warm-up,
+ * ambient CO2, leak check against the site's limit and the clock offset. Each is stored as an
+ * analyzer check; a skip needs a reason and shows on the lead's Board.
+ */
+@Component({
+  selector: 'fw-start-of-day',
+  imports: [DatePipe, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule, RouterLink],
+  templateUrl: './start-of-day.html',
+  styleUrl: './walk.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class StartOfDay {
+  private readonly site = inject(SiteChoice).current;
+  private readonly walk = inject(WalkContext);
+  private readonly writes = inject(LocalWrites);
+  protected readonly choice = this.walk.choice;
+  protected readonly options = walkOptions(() => this.site()?.id ?? null);
+  private readonly checks = todayChecks(() => ({ siteId: this.site()?.id ?? null, since: localDayStart() }));
+  protected readonly items = CHECK_ITEMS;
+  protected readonly latest = computed(() => {
+    const by: Partial<Record<string, LocalRecord>> = {};
+    for (const c of this.checks()) by[String(c['kind'])] ??= c;
+    return by;
+  });
+  protected readonly doneCount = computed(() => CHECK_ITEMS.filter((i) => this.latest()[i.kind]).length);
+  protected readonly leakLimit = computed(() => Number(this.options()?.site?.['leakSlopeUmolMolS'] ?? 0.05));
+  protected readonly safetyNote = computed(() => String(this.options()?.site?.['safetyNote'] ?? '').trim());
+
+  protected readonly ambient = signal('');
+  protected readonly slope = signal('');
+  protected readonly analyzerTime = signal('');
+  protected readonly skipping = signal<CheckKind | null>(null);
+  protected readonly skipReason = signal('');
+  protected readonly problem = signal('');
+  protected readonly message = signal('');
+
+  protected readonly slopeValue = computed(() => parseCm(this.slope()));
+  protected readonly leakOk = computed(() => {
+    const s = this.slopeValue();
+    return s === null ? null : leakPassed(s, this.leakLimit());
+  });
+
+  protected pickAnalyzer(id: string): void {
+    this.walk.update({ analyzerId: id });
+  }
+
+  protected acknowledgeSafety(): Promise<void> {
+    return this.record('safety-ack', { passed: true, note: 'Safety note read and acknowledged' });
+  }
+
+  protected warmUpDone(): Promise<void> {
+    return this.record('warm-up', { passed: true });
+  }
+
+  protected saveAmbient(): Promise<void> {
+    const v = parseCm(this.ambient());
+    if (v === null) return this.fail('Enter the ambient CO2 reading in µmol/mol.');
+    return this.record('ambient', { co2Ppm: v });
+  }
+
+  protected saveLeak(): Promise<void> {
+    const s = this.slopeValue();
+    if (s === null) return this.fail('Enter the slope on the sealed plate in µmol/mol/s.');
+    return this.record('leak', { slopeUmolMolS: s, passed: leakPassed(s, this.leakLimit()) });
+  }
+
+  protected saveClock(): Promise<void> {
+    const off = clockOffsetS(this.analyzerTime(), new Date());
+    if (off === null) return this.fail('Enter the time the analyzer shows, as HH:MM:SS.');
+    return this.record('clock', { clockOffsetS: off });
+  }
+
+  protected startSkip(kind: CheckKind): void {
+    this.skipping.set(kind);
+    this.skipReason.set('');
+  }
+
+  protected saveSkip(kind: CheckKind): Promise<void> {
+    const reason = this.skipReason().trim();
+    if (!reason) return this.fail('Say why this check is skipped: the lead sees it on the Board.');
+    return this.record(kind, { skipped: true, skipReason: reason }).then(() => this.skipping.set(null));
+  }
+
+  protected summary(c: LocalRecord): string {
+    if (c['skipped']) return `Skipped: ${c['skipReason']}`;
+    switch (c['kind']) {
+      case 'ambient': return `${c['co2Ppm']} µmol/mol`;
+      case 'leak': return `${c['slopeUmolMolS']} µmol/mol/s — ${c['passed'] ? 'passed' : 'FAILED: check seals and tubing'}`;
+      case 'clock': return `analyzer ${Number(c['clockOffsetS']) >= 0 ? '+' : ''}${c['clockOffsetS']} s against this phone`;
+      case 'safety-ack': return 'Acknowledged';
+      default: return 'Done';
+    }
+  }
+
+  private async fail(msg: string): Promise<void> {
+    this.problem.set(msg);
+  }
+
+  private async record(kind: CheckKind, fields: Record<string, unknown>): Promise<void> {
+    const siteId = this.site()?.id;
+    if (!siteId) return this.fail('No site chosen.');
+    const analyzerId = kind === 'safety-ack' ? null : this.choice().analyzerId;
+    if (kind !== 'safety-ack' && !analyzerId && !fields['skipped']) return this.fail('Choose the analyzer first.');
+    this.problem.set('');
+    try {
+      const rec = validated('analyzerCheck', { siteId, analyzerId, kind, at: new Date().toISOString(), ...fields });
+      await this.writes.create('analyzerCheck', rec);
+      this.message.set(`${CHECK_ITEMS.find((i) => i.kind === kind)!.title}: saved on this device.`);
+    } catch (err) {
+      this.problem.set(err instanceof Error ? err.message : 'Could not save on this device');
+    }
+  }
+}

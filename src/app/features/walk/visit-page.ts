@@ -1,0 +1,148 @@
+import { DatePipe, DecimalPipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, untracked, viewChild } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatCheckboxModule } from '@angular/material/checkbox';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatInputModule } from '@angular/material/input';
+import { RouterLink } from '@angular/router';
+import { collarAreaCm2, offsetStats } from '../../../../shared/model/derived';
+import { OffsetForm } from './offset-form';
+import { ProbeForm, type ProbeReadingInput } from './probe-form';
+import { SkipForm } from './skip-form';
+import { WalkContext } from './walk-context';
+import { visitView } from './visit-store';
+import { InvalidRecordError, VisitWrites, type VisitConditions, type VisitTarget } from './visit-writes';
+
+const CONDITIONS: { key: keyof Omit<VisitConditions, 'other'>; label: string }[] = [
+  { key: 'rainNow', label: 'Raining now' },
+  { key: 'rain24h', label: 'Rain in the last 24 h' },
+  { key: 'standingWater', label: 'Standing water' },
+  { key: 'frostSnow', label: 'Frost or snow' },
+  { key: 'trampled', label: 'Trampled' },
+  { key: 'animal', label: 'Animal disturbance' },
+];
+
+/**
+ * One collar in the order a crew works it: who it is and what to watch for, then conditions,
+ * the offset set and the probes; a skip asks for a reason. Every section saves to the device on
+ * its own, so a crew that is called away loses nothing.
+ */
+@Component({
+  selector: 'fw-visit-page',
+  imports: [DatePipe, DecimalPipe, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatInputModule, OffsetForm, ProbeForm, RouterLink, SkipForm],
+  templateUrl: './visit-page.html',
+  styleUrl: './walk.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class VisitPage {
+  readonly collarId = input.required<string>();
+  private readonly walk = inject(WalkContext);
+  private readonly writes = inject(VisitWrites);
+  protected readonly choice = this.walk.choice;
+  protected readonly view = visitView(() => ({ collarId: this.collarId(), campaignId: this.choice().campaignId, round: this.choice().round }));
+  protected readonly conditionList = CONDITIONS;
+  protected readonly conditions = signal<VisitConditions>({ rainNow: false, rain24h: false, standingWater: false, frostSnow: false, trampled: false, animal: false, other: '' });
+  protected readonly busy = signal(false);
+  protected readonly message = signal('');
+  protected readonly problem = signal('');
+  private readonly offsetForm = viewChild(OffsetForm);
+  private loadedVisit: string | null | undefined = undefined;
+
+  constructor() {
+    effect(() => {
+      const v = this.view()?.visit ?? null;
+      untracked(() => {
+        // Take the stored conditions when the visit first appears, not while the crew is ticking boxes.
+        if (this.loadedVisit === (v?.id ?? null)) return;
+        this.loadedVisit = v?.id ?? null;
+        if (v?.['conditions']) this.conditions.set({ ...(v['conditions'] as VisitConditions) });
+      });
+    });
+  }
+
+  protected readonly target = computed<VisitTarget | null>(() => {
+    const v = this.view();
+    const c = this.choice();
+    if (!v || !c.campaignId) return null;
+    return { siteId: String(v.collar['siteId']), campaignId: c.campaignId, round: c.round, collarId: v.collar.id };
+  });
+
+  protected readonly offsetContext = computed(() => {
+    const v = this.view();
+    if (!v) return null;
+    const c = v.collar as unknown as Parameters<typeof collarAreaCm2>[0];
+    return {
+      day: new Date().toISOString().slice(0, 10),
+      collarAreaCm2: collarAreaCm2({ shape: c.shape ?? 'round', diameterCm: c.diameterCm ?? null, sideACm: c.sideACm ?? null, sideBCm: c.sideBCm ?? null }),
+      profiles: v.profiles,
+      thresholds: { offsetSpreadPct: Number(v.site?.['offsetSpreadPct'] ?? 3), offsetMoveCm: Number(v.site?.['offsetMoveCm'] ?? 1) },
+    };
+  });
+
+  protected readonly lastReadings = computed(() => (this.view()?.lastOffsetSet?.['readingsCm'] as number[] | undefined) ?? null);
+  protected readonly lastMean = computed(() => {
+    const r = this.lastReadings();
+    return r?.length ? offsetStats(r).meanCm : null;
+  });
+  protected readonly savedReadings = computed(() => (this.view()?.offsetSet?.['readingsCm'] as number[] | undefined) ?? null);
+  protected readonly kit = computed(() => {
+    const c = this.choice();
+    return { probeId: c.probeId, rodLengthCm: c.rodLengthCm, moistureKind: c.moistureKind };
+  });
+
+  protected toggle(key: keyof Omit<VisitConditions, 'other'>, on: boolean): void {
+    this.conditions.update((c) => ({ ...c, [key]: on }));
+  }
+
+  protected setOther(text: string): void {
+    this.conditions.update((c) => ({ ...c, other: text }));
+  }
+
+  protected saveConditions(): Promise<void> {
+    return this.run('Conditions saved on this device.', (t, v) => this.writes.saveConditions(t, v.visit, this.conditions()));
+  }
+
+  protected saveOffsets(readings: number[]): Promise<void> {
+    return this.run('Offset set saved on this device.', async (t, v) => {
+      await this.writes.saveOffsetSet(t, v.visit, readings, v.offsetSet);
+      this.offsetForm()?.clear();
+    });
+  }
+
+  protected saveProbe(p: ProbeReadingInput): Promise<void> {
+    return this.run('Probe readings saved on this device.', async (t, v) => {
+      await this.writes.saveProbe(t, v.visit, { ...p }, v.probe);
+      this.walk.update({ probeId: p.probeId, rodLengthCm: p.rodLengthCm, moistureKind: p.moistureKind });
+    });
+  }
+
+  protected skip(reason: string): Promise<void> {
+    return this.run('Collar skipped; the reason goes to the Board with the next sync.', (t, v) => this.writes.skip(t, v.visit, reason));
+  }
+
+  protected undoSkip(): Promise<void> {
+    return this.run('Skip undone.', async (_t, v) => {
+      if (v.visit) await this.writes.unskip(v.visit);
+    });
+  }
+
+  private async run(done: string, work: (t: VisitTarget, v: NonNullable<ReturnType<typeof this.view>>) => Promise<void>): Promise<void> {
+    const t = this.target();
+    const v = this.view();
+    if (!t || !v) {
+      this.problem.set('Pick a campaign and round on the route screen first.');
+      return;
+    }
+    this.busy.set(true);
+    this.problem.set('');
+    this.message.set('');
+    try {
+      await work(t, v);
+      this.message.set(done);
+    } catch (err) {
+      this.problem.set(err instanceof InvalidRecordError || err instanceof Error ? err.message : 'Could not save on this device');
+    } finally {
+      this.busy.set(false);
+    }
+  }
+}

@@ -1,0 +1,106 @@
+import { Signal } from '@angular/core';
+import type { FluxDb, LocalRecord } from '../../core/db/db-schema';
+import { liveSignal } from '../../core/db/live-query-signal';
+import type { MoistureCalibration } from '../../../../shared/model/derived';
+
+export interface VisitKey {
+  collarId: string;
+  campaignId: string | null;
+  round: number;
+}
+
+export interface SettlingNote {
+  level: 'hard' | 'warn';
+  days: number;
+  since: string;
+  what: string;
+}
+
+export interface VisitView {
+  collar: LocalRecord;
+  site: LocalRecord | null;
+  plotCode: string;
+  treatment: string;
+  profiles: { validFrom: string; chamberVolumeCm3: number; loopVolumeCm3: number }[];
+  visit: LocalRecord | null;
+  /** This visit's newest offset set (a correction supersedes the earlier one). */
+  offsetSet: LocalRecord | null;
+  /** The collar's last offset set before this visit. */
+  lastOffsetSet: LocalRecord | null;
+  probe: LocalRecord | null;
+  lastFlux: { value: number; at: string } | null;
+  settling: SettlingNote | null;
+  calibration: MoistureCalibration;
+}
+
+const DAY_MS = 86_400_000;
+
+/** Whole days between a YYYY-MM-DD date and today (device clock). */
+function daysSince(date: string, now: Date): number {
+  return Math.floor((Date.UTC(now.getFullYear(), now.getMonth(), now.getDate()) - Date.parse(`${date.slice(0, 10)}T00:00:00Z`)) / DAY_MS);
+}
+
+/**
+ * A collar installed or reseated recently still breathes from the disturbance: within the site's
+ * hard limit closures should wait, within the warning limit they are flagged (common practice:
+ * wait at least a day, better a week).
+ */
+export function settlingNote(collar: LocalRecord, events: readonly LocalRecord[], site: LocalRecord | null, now = new Date()): SettlingNote | null {
+  const disturbing = events.filter((e) => ['installed', 'reseated'].includes(String(e['kind'])) && !e.deleted)
+    .map((e) => ({ date: String(e['date']), what: String(e['kind']) }));
+  if (typeof collar['installedOn'] === 'string') disturbing.push({ date: collar['installedOn'], what: 'installed' });
+  const latest = disturbing.sort((a, b) => b.date.localeCompare(a.date))[0];
+  if (!latest) return null;
+  const days = daysSince(latest.date, now);
+  const hard = Number(site?.['settlingDaysHard'] ?? 1);
+  const warn = Number(site?.['settlingDaysWarn'] ?? 7);
+  if (days < hard) return { level: 'hard', days, since: latest.date, what: latest.what };
+  if (days < warn) return { level: 'warn', days, since: latest.date, what: latest.what };
+  return null;
+}
+
+const newest = (list: LocalRecord[], field: string) => [...list].sort((a, b) => String(b[field]).localeCompare(String(a[field])))[0] ?? null;
+
+export async function loadVisit(db: FluxDb, key: VisitKey): Promise<VisitView | null> {
+  const collar = await db.records('collar').get(key.collarId);
+  if (!collar) return null;
+  const siteId = String(collar['siteId']);
+  const [site, plot, events, visits, sets, probes, closures, profiles] = await Promise.all([
+    db.records('site').get(siteId),
+    db.records('plot').get(String(collar['plotId'])),
+    db.records('collarEvent').where('collarId').equals(collar.id).toArray(),
+    db.records('visit').where('collarId').equals(collar.id).filter((v) => !v.deleted).toArray(),
+    db.records('offsetSet').where('collarId').equals(collar.id).filter((s) => !s.deleted).toArray(),
+    db.records('probeReading').where('collarId').equals(collar.id).filter((s) => !s.deleted).toArray(),
+    db.records('closure').where('collarId').equals(collar.id).filter((s) => !s.deleted).toArray(),
+    db.records('chamberProfile').where('siteId').equals(siteId).filter((s) => !s.deleted).toArray(),
+  ]);
+  const treatmentId = (collar['treatmentId'] as string | null) ?? (plot?.['treatmentId'] as string | null) ?? null;
+  const treatment = treatmentId ? await db.records('treatment').get(treatmentId) : undefined;
+  const visit = newest(visits.filter((v) => v['campaignId'] === key.campaignId && v['round'] === key.round), 'arrivedAt');
+  const superseded = new Set(sets.map((s) => s['supersedesId']).filter(Boolean));
+  const current = sets.filter((s) => !superseded.has(s.id));
+  const offsetSet = visit ? newest(current.filter((s) => s['visitId'] === visit.id), 'takenAt') : null;
+  const lastOffsetSet = newest(current.filter((s) => !visit || s['visitId'] !== visit.id), 'takenAt');
+  const probe = visit ? newest(probes.filter((p) => p['visitId'] === visit.id), 'takenAt') : null;
+  const withFlux = closures.filter((c) => typeof c['fluxUmolM2S'] === 'number');
+  const lastClosure = newest(withFlux, 'startedAt');
+  return {
+    collar,
+    site: site ?? null,
+    plotCode: String(plot?.['code'] ?? ''),
+    treatment: treatment ? [treatment['code'], treatment['name']].filter(Boolean).join(' · ') : '',
+    profiles: profiles.map((p) => ({ validFrom: String(p['validFrom']), chamberVolumeCm3: Number(p['chamberVolumeCm3']), loopVolumeCm3: Number(p['loopVolumeCm3']) })),
+    visit,
+    offsetSet,
+    lastOffsetSet,
+    probe,
+    lastFlux: lastClosure ? { value: Number(lastClosure['fluxUmolM2S']), at: String(lastClosure['startedAt']) } : null,
+    settling: settlingNote(collar, events, site ?? null),
+    calibration: (site?.['moistureCalibration'] as MoistureCalibration | undefined) ?? { kind: 'topp' },
+  };
+}
+
+export function visitView(key: () => VisitKey): Signal<VisitView | null | undefined> {
+  return liveSignal(key, loadVisit, undefined as VisitView | null | undefined);
+}

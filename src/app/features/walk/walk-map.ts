@@ -1,0 +1,124 @@
+import { ChangeDetectionStrategy, Component, DestroyRef, ElementRef, NgZone, afterNextRender, computed, effect, inject, viewChild } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { Router, RouterLink } from '@angular/router';
+import * as L from 'leaflet';
+import { SiteChoice } from '../../core/auth/site-choice';
+import { liveSignal } from '../../core/db/live-query-signal';
+import { Gps } from './gps';
+import { STATE_LABEL, STATE_MARK } from './route-order';
+import { WalkContext } from './walk-context';
+import { routeView, walkOptions } from './walk-store';
+
+const escapeHtml = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
+
+/**
+ * The route's collars over the plot outlines, with our own markers: the state is a shape and a
+ * word beside the code, never colour alone. No map tiles are fetched unless the site names a tile
+ * source, so it works with no signal.
+ */
+@Component({
+  selector: 'fw-walk-map',
+  imports: [MatButtonModule, RouterLink],
+  template: `
+    <div class="walk">
+      <a mat-button routerLink="/walk">← Route</a>
+      <h1>Map</h1>
+      <p class="legend">○ due · ◐ partly done · ● done · ⊘ skipped · ◎ you</p>
+      <div #map class="map" role="region" aria-label="Map of the route's collars" data-testid="walk-map"></div>
+      @if (!tileUrl()) { <p class="muted">No map background: this site has no tile source, so nothing is downloaded.</p> }
+    </div>
+  `,
+  styleUrl: './walk.scss',
+  styles: `
+    .map { height: 62vh; min-height: 320px; border: 1px solid var(--mat-sys-outline); border-radius: 8px; background: #f4f1ea; }
+    .legend { font-size: 1.05rem; }
+    :host ::ng-deep .fw-marker { display: flex; align-items: center; gap: 2px; white-space: nowrap; font-weight: 700; color: #111; }
+    :host ::ng-deep .fw-marker .m { font-size: 20px; line-height: 1; background: #fff; border-radius: 50%; }
+    :host ::ng-deep .fw-marker .t { background: #fff; border: 1px solid #111; border-radius: 4px; padding: 0 3px; font-size: 12px; }
+    :host ::ng-deep .fw-marker:focus-visible { outline: 3px solid #0b57d0; }
+  `,
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class WalkMap {
+  private readonly site = inject(SiteChoice).current;
+  private readonly walk = inject(WalkContext);
+  private readonly gps = inject(Gps);
+  private readonly router = inject(Router);
+  private readonly zone = inject(NgZone);
+  private readonly host = viewChild.required<ElementRef<HTMLElement>>('map');
+  private readonly options = walkOptions(() => this.site()?.id ?? null);
+  protected readonly tileUrl = computed(() => (this.options()?.site?.['tileUrl'] as string | null) ?? null);
+  private readonly route = routeView(() => {
+    const c = this.walk.choice();
+    return { campaignId: c.campaignId, routeId: c.routeId, round: c.round, flipped: c.flipped };
+  });
+  private readonly plots = liveSignal(() => this.site()?.id ?? null, async (db, siteId) =>
+    siteId ? db.records('plot').where('siteId').equals(siteId).toArray() : [], []);
+  private map: L.Map | null = null;
+  private readonly layers = { plots: L.layerGroup(), collars: L.layerGroup(), me: L.layerGroup() };
+  private fitted = false;
+
+  constructor() {
+    const stop = this.gps.watch();
+    inject(DestroyRef).onDestroy(() => {
+      stop();
+      this.map?.remove();
+    });
+    afterNextRender(() => {
+      this.map = this.zone.runOutsideAngular(() => L.map(this.host().nativeElement, { zoomControl: true, attributionControl: true }).setView([0, 0], 2));
+      Object.values(this.layers).forEach((l) => l.addTo(this.map!));
+      const url = this.tileUrl();
+      if (url) L.tileLayer(url, { attribution: escapeHtml(String(this.options()?.site?.['tileAttribution'] ?? '')), maxZoom: 20 }).addTo(this.map);
+      this.drawAll();
+    });
+    effect(() => {
+      this.route();
+      this.plots();
+      this.gps.fix();
+      this.drawAll();
+    });
+  }
+
+  private drawAll(): void {
+    const map = this.map;
+    if (!map) return;
+    const rows = this.route()?.rows ?? [];
+    this.layers.plots.clearLayers();
+    for (const p of this.plots()) {
+      const outline = p['outline'] as GeoJSON.Polygon | null;
+      if (outline) {
+        L.geoJSON(outline, { style: { color: '#333', weight: 2, dashArray: '6 4', fillOpacity: 0.04 }, interactive: false }).addTo(this.layers.plots);
+      }
+    }
+    this.layers.collars.clearLayers();
+    const points: L.LatLngExpression[] = [];
+    for (const r of rows) {
+      if (r.latitude === null || r.longitude === null) continue;
+      points.push([r.latitude, r.longitude]);
+      const label = `${r.code}, ${STATE_LABEL[r.state]}`;
+      const icon = L.divIcon({
+        className: 'fw-marker',
+        html: `<span class="m" aria-hidden="true">${STATE_MARK[r.state]}</span><span class="t" aria-hidden="true">${escapeHtml(r.code)} ${escapeHtml(STATE_LABEL[r.state].toLowerCase())}</span>`,
+        iconSize: undefined,
+        iconAnchor: [10, 10],
+      });
+      const marker = L.marker([r.latitude, r.longitude], { icon, title: label, alt: label, keyboard: true, riseOnHover: true });
+      marker.on('click', () => this.zone.run(() => void this.router.navigate(['/walk/visit', r.id])));
+      marker.addTo(this.layers.collars);
+      marker.getElement()?.setAttribute('aria-label', `Open collar ${label}`);
+    }
+    this.layers.me.clearLayers();
+    const fix = this.gps.fix();
+    if (fix) {
+      L.circle([fix.latitude, fix.longitude], { radius: fix.accuracyM, color: '#0b57d0', weight: 1, fillOpacity: 0.1, interactive: false }).addTo(this.layers.me);
+      L.marker([fix.latitude, fix.longitude], {
+        icon: L.divIcon({ className: 'fw-marker', html: '<span class="m" aria-hidden="true">◎</span><span class="t" aria-hidden="true">you</span>', iconAnchor: [10, 10] }),
+        keyboard: false, interactive: false,
+      }).addTo(this.layers.me);
+    }
+    if (!this.fitted && points.length) {
+      map.fitBounds(L.latLngBounds(points), { padding: [24, 24], maxZoom: 19 });
+      this.fitted = true;
+    }
+  }
+}
