@@ -1,0 +1,76 @@
+import { DecimalPipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, computed, input, output } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { QC_FLAGS } from '../../../../shared/flux';
+import type { LocalRecord } from '../../core/db/db-schema';
+import { fluxOnTheSpot, type SpotInputs } from './closure-flux';
+import type { ClosureSeries } from './closure-writes';
+import { SpotChart } from './spot-chart';
+
+/** One closure at the visit: its chart, the flux with flags computed here, and a large Redo. */
+@Component({
+  selector: 'fw-closure-card',
+  imports: [DecimalPipe, MatButtonModule, SpotChart],
+  template: `
+    <article class="card" [attr.data-closure]="closure().id" [class.redo]="closure()['redoOfId']">
+      <header>
+        <strong>Closure {{ index() + 1 }}</strong>
+        @if (closure()['redoOfId']) { <span class="tag">redo</span> }
+        <span class="when">on {{ time(closure()['chamberOnAt']) }} · off {{ time(closure()['chamberOffAt']) }}</span>
+      </header>
+      @if (spot(); as s) {
+        @if (s.fit.selected; as sel) {
+          <p class="flux" data-testid="spot-flux">{{ sel.fluxUmolM2S | number: '1.2-2' }} µmol m⁻² s⁻¹
+            <small>({{ sel.model }}; linear {{ s.fit.linear?.fluxUmolM2S | number: '1.2-2' }}, exponential {{ s.fit.exponential ? (s.fit.exponential.fluxUmolM2S | number: '1.2-2') : '—' }})</small></p>
+        } @else {
+          <p class="flux none" data-testid="spot-flux">No flux: {{ s.fit.error }}</p>
+        }
+        <ul class="flags" data-testid="spot-flags">
+          @for (f of s.fit.flags; track f) { <li [attr.title]="flagWord(f)">{{ f }}</li> } @empty { <li class="ok">no flags</li> }
+        </ul>
+        @if (s.startAboveAmbientPpm !== null) {
+          <p class="ambient">Start vs the day's ambient: {{ s.startAboveAmbientPpm >= 0 ? '+' : '' }}{{ s.startAboveAmbientPpm | number: '1.0-0' }} ppm</p>
+        }
+        <fw-spot-chart [data]="{ series: series(), settleS: settleS(), fit: s.fit }" />
+      } @else {
+        <p class="waiting">No series yet: import the logger file or enter the series by hand.</p>
+      }
+      @if (previous().length) {
+        <p class="previous">This collar before: @for (p of previous(); track p.id) { <span>{{ p.fluxUmolM2S | number: '1.2-2' }} ({{ p.startedAt.slice(0, 10) }})</span> }</p>
+      }
+      <button mat-flat-button class="redo-button" type="button" (click)="redo.emit(closure())">Redo this closure</button>
+    </article>
+  `,
+  styles: [`
+    .card { border: 1px solid var(--mat-sys-outline-variant, #ccc); border-radius: 8px; padding: 12px; margin: 8px 0; }
+    header { display: flex; gap: 8px; align-items: baseline; flex-wrap: wrap; }
+    .tag { background: #fff3e0; padding: 0 6px; border-radius: 4px; }
+    .when { color: var(--mat-sys-on-surface-variant, #555); font-size: 0.9em; }
+    .flux { font-size: 1.3em; margin: 8px 0 4px; }
+    .flags { display: flex; gap: 6px; flex-wrap: wrap; list-style: none; padding: 0; margin: 4px 0; }
+    .flags li { background: #fdecea; border-radius: 4px; padding: 0 6px; }
+    .flags li.ok { background: #e8f5e9; }
+    .redo-button { width: 100%; min-height: 56px; font-size: 1.1em; margin-top: 8px; }
+    .previous span { margin-right: 8px; }
+  `],
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class ClosureCard {
+  readonly closure = input.required<LocalRecord>();
+  readonly index = input(0);
+  readonly inputs = input.required<SpotInputs>();
+  readonly previous = input<{ id: string; startedAt: string; fluxUmolM2S: number }[]>([]);
+  readonly redo = output<LocalRecord>();
+
+  protected readonly spot = computed(() => fluxOnTheSpot(this.closure(), this.inputs()));
+  protected readonly series = computed(() => this.closure()['series'] as ClosureSeries);
+  protected readonly settleS = computed(() => Number(this.closure()['settleS']));
+
+  protected time(v: unknown): string {
+    return typeof v === 'string' ? new Date(v).toLocaleTimeString() : '—';
+  }
+
+  protected flagWord(f: string): string {
+    return (QC_FLAGS as Record<string, string>)[f] ?? f;
+  }
+}

@@ -1,0 +1,54 @@
+import type { Signal } from '@angular/core';
+import type { FluxDb, LocalRecord } from '../../core/db/db-schema';
+import { liveSignal } from '../../core/db/live-query-signal';
+import { localDay, type SpotInputs } from './closure-flux';
+
+export interface ClosureScene {
+  /** This visit's closures, oldest first (redos after the closure they redo). */
+  closures: LocalRecord[];
+  inputs: SpotInputs;
+  /** The collar's earlier closures with a flux (server's or none), newest first. */
+  previous: { id: string; startedAt: string; fluxUmolM2S: number }[];
+}
+
+const live = (r: LocalRecord) => !r.deleted;
+
+/** The day's ambient reading: the latest ambient check on the closure's local day. */
+export async function dayAmbientPpm(db: FluxDb, siteId: string, timeZone: string, day: string): Promise<number | null> {
+  const checks = await db.records('analyzerCheck').where('siteId').equals(siteId)
+    .filter((c) => live(c) && c['kind'] === 'ambient' && !c['skipped'] && typeof c['co2Ppm'] === 'number').toArray();
+  const today = checks.filter((c) => localDay(String(c['at']), timeZone) === day).sort((a, b) => String(b['at']).localeCompare(String(a['at'])));
+  return today.length ? Number(today[0]['co2Ppm']) : null;
+}
+
+export async function loadScene(db: FluxDb, p: { collarId: string; visitId: string | null; analyzerId: string | null }): Promise<ClosureScene | null> {
+  const collar = await db.records('collar').get(p.collarId);
+  if (!collar) return null;
+  const siteId = String(collar['siteId']);
+  const [site, profiles, sets, closures, analyzer] = await Promise.all([
+    db.records('site').get(siteId),
+    db.records('chamberProfile').where('siteId').equals(siteId).filter(live).toArray(),
+    db.records('offsetSet').where('collarId').equals(p.collarId).filter(live).toArray(),
+    db.records('closure').where('collarId').equals(p.collarId).filter(live).toArray(),
+    p.analyzerId ? db.records('analyzer').get(p.analyzerId) : Promise.resolve(undefined),
+  ]);
+  const superseded = new Set(sets.map((s) => s['supersedesId']).filter(Boolean));
+  const timeZone = String(site?.['timezone'] ?? 'UTC');
+  const here = closures.filter((c) => p.visitId !== null && c['visitId'] === p.visitId)
+    .sort((a, b) => String(a['chamberOnAt'] ?? a['startedAt']).localeCompare(String(b['chamberOnAt'] ?? b['startedAt'])));
+  const previous = closures.filter((c) => c['visitId'] !== p.visitId && typeof c['fluxUmolM2S'] === 'number')
+    .sort((a, b) => String(b['startedAt']).localeCompare(String(a['startedAt'])))
+    .slice(0, 6).map((c) => ({ id: c.id, startedAt: String(c['startedAt']), fluxUmolM2S: Number(c['fluxUmolM2S']) }));
+  return {
+    closures: here,
+    previous,
+    inputs: {
+      site: site ?? null, collar, profiles, offsetSets: sets.filter((s) => !superseded.has(s.id)), analyzer: analyzer ?? null,
+      ambientPpm: await dayAmbientPpm(db, siteId, timeZone, localDay(new Date().toISOString(), timeZone)),
+    },
+  };
+}
+
+export function closureScene(params: () => { collarId: string; visitId: string | null; analyzerId: string | null }): Signal<ClosureScene | null | undefined> {
+  return liveSignal(params, loadScene, undefined as ClosureScene | null | undefined);
+}

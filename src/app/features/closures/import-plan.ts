@@ -1,0 +1,70 @@
+import type { LoggerPiece, PieceMatch, VisitSlot } from '../../../../shared/logger';
+import type { FluxDb, LocalRecord } from '../../core/db/db-schema';
+
+/** A visit of the round with its collar code and the closures still waiting for a series. */
+export interface RoundVisit {
+  visit: LocalRecord;
+  collarCode: string;
+  waiting: LocalRecord[];
+}
+
+/** Where the crew put one piece: a tapped closure, a new closure at a visit, or nowhere (kept in the file only). */
+export type Assignment = { kind: 'closure'; closureId: string; visitId: string } | { kind: 'new'; visitId: string } | { kind: 'none' };
+
+export async function loadRoundVisits(db: FluxDb, campaignId: string, round: number): Promise<RoundVisit[]> {
+  const visits = await db.records('visit').where('campaignId').equals(campaignId).filter((v) => !v.deleted && v['round'] === round).toArray();
+  const out: RoundVisit[] = [];
+  for (const visit of visits) {
+    const [collar, closures] = await Promise.all([
+      db.records('collar').get(String(visit['collarId'])),
+      db.records('closure').where('visitId').equals(visit.id).filter((c) => !c.deleted).toArray(),
+    ]);
+    const waiting = closures.filter((c) => !(c['series'] as { tS?: unknown[] } | undefined)?.tS?.length && c['chamberOnAt'])
+      .sort((a, b) => String(a['chamberOnAt']).localeCompare(String(b['chamberOnAt'])));
+    out.push({ visit, collarCode: String(collar?.['code'] ?? '?'), waiting });
+  }
+  return out.sort((a, b) => String(a.visit['arrivedAt']).localeCompare(String(b.visit['arrivedAt'])));
+}
+
+/** The visits as the matcher sees them (phone clock). A tap still open counts until the next tap. */
+export function visitSlots(visits: readonly RoundVisit[]): VisitSlot[] {
+  return visits.map((v) => ({
+    visitId: v.visit.id,
+    arrivedMs: Date.parse(String(v.visit['arrivedAt'])),
+    taps: v.waiting.map((c) => ({ key: c.id, onMs: Date.parse(String(c['chamberOnAt'])), offMs: c['chamberOffAt'] ? Date.parse(String(c['chamberOffAt'])) : null })),
+  }));
+}
+
+/** The matcher's answer as a starting assignment; ambiguous and unmatched pieces wait for the crew. */
+export function defaultAssignments(matches: readonly PieceMatch[]): Record<string, Assignment> {
+  const out: Record<string, Assignment> = {};
+  for (const m of matches) {
+    if (m.status === 'matched' && m.tapKey && m.visitId) out[m.pieceKey] = { kind: 'closure', closureId: m.tapKey, visitId: m.visitId };
+    else if (m.status === 'matched' && m.visitId) out[m.pieceKey] = { kind: 'new', visitId: m.visitId };
+    else out[m.pieceKey] = { kind: 'none' };
+  }
+  return out;
+}
+
+/** Two pieces put into one closure would overwrite each other: name them instead. */
+export function assignmentProblems(pieces: readonly LoggerPiece[], a: Record<string, Assignment>): string[] {
+  const seen = new Map<string, string>();
+  const problems: string[] = [];
+  for (const p of pieces) {
+    const x = a[p.key];
+    if (x?.kind !== 'closure') continue;
+    const other = seen.get(x.closureId);
+    if (other) problems.push(`Lines ${p.firstLine}–${p.lastLine} and piece ${other} are both assigned to the same closure`);
+    seen.set(x.closureId, p.key);
+  }
+  return problems;
+}
+
+/** Encodes an assignment for a <select> value and back. */
+export const assignmentValue = (a: Assignment | undefined): string => (!a || a.kind === 'none' ? 'none' : a.kind === 'new' ? `new:${a.visitId}` : `closure:${a.visitId}:${a.closureId}`);
+export function parseAssignment(v: string): Assignment {
+  const [kind, visitId, closureId] = v.split(':');
+  if (kind === 'new') return { kind: 'new', visitId };
+  if (kind === 'closure') return { kind: 'closure', visitId, closureId };
+  return { kind: 'none' };
+}
