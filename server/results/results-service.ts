@@ -48,8 +48,10 @@ export async function seasonalSummary(db: Db, siteId: string, selection: Closure
   resamples: number; seed: number; method: string; totals: CellTotal[];
 }> {
   const { design, aggregate, responses } = await siteResults(db, siteId, selection);
-  const fromDay = p.from ?? design.campaigns[0]?.startsOn;
-  const toDay = p.to ?? design.campaigns.at(-1)?.endsOn;
+  // By default the season runs from the first to the last campaign that has selected closures.
+  const withData = design.campaigns.filter((c) => aggregate.plotMeans.some((m) => m.campaignId === c.campaignId));
+  const fromDay = p.from ?? withData[0]?.startsOn;
+  const toDay = p.to ?? withData.at(-1)?.endsOn;
   if (!fromDay || !toDay) throw badRequest('The site has no campaigns to total');
   if (toDay < fromDay) throw badRequest('The season ends before it starts', [{ path: 'to', message: 'Must be on or after from' }]);
   const logs = await loadTemperatureLogs(db, siteId);

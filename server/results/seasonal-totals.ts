@@ -4,6 +4,7 @@
  *    a fitted response, the day's flux is the mean over the log's samples of k · f(T) — the flux is
  *    averaged, not the temperature, because f is convex. k scales the cell's curve to the plot's
  *    own visit means (least squares through the origin: k = Σ y·f / Σ f²), so plots keep their level;
+ *    a day counts as logged when the log covers at least 75 % of its usual samples per day;
  *  - "interpolated": otherwise, linear interpolation between the plot's campaign means at their
  *    mean visit times (common practice for gap filling between survey dates);
  *  - days outside both are reported as missing, never as zero.
@@ -67,7 +68,11 @@ function dailyMeans(log: TemperatureLogSeries, f: (t: number) => number, dayOf: 
     a.n++;
     acc.set(d, a);
   }
-  return new Map([...acc].map(([d, a]) => [d, a.s / a.n]));
+  // A day counts only when the log covers most of it (≥ 75 % of the usual samples per day): the first or
+  // last hour of a file would otherwise stand for a whole day at that hour's temperature.
+  const counts = [...acc.values()].map((a) => a.n).sort((x, y) => x - y);
+  const usual = counts[Math.floor(counts.length / 2)] ?? 0;
+  return new Map([...acc].filter(([, a]) => a.n >= 0.75 * usual).map(([d, a]) => [d, a.s / a.n]));
 }
 
 function interpolate(knots: { x: number; y: number }[], x: number): number | null {

@@ -1,0 +1,90 @@
+/**
+ * Ecological Metadata Language 2.2.0 (eml.ecoinformatics.org, KNB / NCEAS) for an export: the
+ * dataset with title, creator, contact, coverage, methods, and one dataTable per CSV whose
+ * attributes come from the same definitions as the CSV headers. Units are declared as custom
+ * units in an STMML unit list (the way EML 2.2 defines units outside its dictionary).
+ */
+import { TABLES, tablePath, UNITS, type FieldDef } from './export-schema';
+import type { Provenance } from './data-package';
+
+const esc = (s: string) => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
+
+export const UNIT_IDS: Record<string, { id: string; description: string }> = {
+  [UNITS.flux]: { id: 'micromolePerMeterSquaredPerSecond', description: 'micromoles CO2 per square metre per second' },
+  [UNITS.total]: { id: 'gramPerMeterSquared', description: 'grams of carbon per square metre' },
+  [UNITS.cm]: { id: 'centimeter', description: 'centimetre' },
+  [UNITS.cm2]: { id: 'squareCentimeter', description: 'square centimetre' },
+  [UNITS.cm3]: { id: 'cubicCentimeter', description: 'cubic centimetre' },
+  [UNITS.s]: { id: 'second', description: 'second' },
+  [UNITS.degC]: { id: 'celsius', description: 'degree Celsius' },
+  [UNITS.percent]: { id: 'percent', description: 'percent (volumetric water content, m3 per 100 m3)' },
+  [UNITS.ppm]: { id: 'micromolePerMole', description: 'micromoles per mole (ppm)' },
+  [UNITS.mmolMol]: { id: 'millimolePerMole', description: 'millimoles per mole' },
+  [UNITS.kPa]: { id: 'kilopascal', description: 'kilopascal' },
+  [UNITS.degree]: { id: 'degree', description: 'degree of arc (WGS 84)' },
+  [UNITS.ppmPerS]: { id: 'micromolePerMolePerSecond', description: 'micromoles per mole per second' },
+  [UNITS.kelvin]: { id: 'kelvin', description: 'kelvin' },
+  dimensionless: { id: 'dimensionless', description: 'no unit' },
+};
+
+function scale(f: FieldDef): string {
+  if (f.type === 'date') return '<dateTime><formatString>YYYY-MM-DD</formatString></dateTime>';
+  if (f.type === 'datetime') return '<dateTime><formatString>YYYY-MM-DDThh:mm:ss.sssZ</formatString></dateTime>';
+  if (f.type === 'string' || f.type === 'boolean') {
+    const def = f.type === 'boolean' ? `${f.description} (true or false)` : f.description;
+    return `<nominal><nonNumericDomain><textDomain><definition>${esc(def)}</definition></textDomain></nonNumericDomain></nominal>`;
+  }
+  const unit = UNIT_IDS[f.unit ?? 'dimensionless'] ?? UNIT_IDS['dimensionless'];
+  const numberType = f.type === 'integer' ? 'whole' : 'real';
+  // Celsius has an arbitrary zero: an interval scale; everything else here is a ratio scale.
+  const kind = f.unit === UNITS.degC ? 'interval' : 'ratio';
+  return `<${kind}><unit><customUnit>${unit.id}</customUnit></unit><numericDomain><numberType>${numberType}</numberType></numericDomain></${kind}>`;
+}
+
+function attribute(f: FieldDef): string {
+  return `<attribute><attributeName>${esc(f.name)}</attributeName><attributeDefinition>${esc(f.description)}</attributeDefinition>`
+    + `<measurementScale>${scale(f)}</measurementScale>`
+    + '</attribute>';
+}
+
+export interface EmlCoverage { west: number; east: number; north: number; south: number; fromDay: string; toDay: string }
+
+export function emlDocument(p: Provenance, cov: EmlCoverage | null, rowCounts: Record<string, number>, bytes: Record<string, number>, methods: string[]): string {
+  const [given, ...rest] = p.generatedBy.name.split(' ');
+  const person = `<individualName>${rest.length ? `<givenName>${esc(given)}</givenName><surName>${esc(rest.join(' '))}</surName>` : `<surName>${esc(given)}</surName>`}</individualName>`
+    + `<electronicMailAddress>${esc(p.generatedBy.email)}</electronicMailAddress>`;
+  const coverage = cov ? `<coverage><geographicCoverage><geographicDescription>${esc(p.site.name)}</geographicDescription><boundingCoordinates>`
+    + `<westBoundingCoordinate>${cov.west}</westBoundingCoordinate><eastBoundingCoordinate>${cov.east}</eastBoundingCoordinate>`
+    + `<northBoundingCoordinate>${cov.north}</northBoundingCoordinate><southBoundingCoordinate>${cov.south}</southBoundingCoordinate>`
+    + `</boundingCoordinates></geographicCoverage><temporalCoverage><rangeOfDates><beginDate><calendarDate>${cov.fromDay}</calendarDate></beginDate>`
+    + `<endDate><calendarDate>${cov.toDay}</calendarDate></endDate></rangeOfDates></temporalCoverage></coverage>` : '';
+  const tables = TABLES.map((t) => `<dataTable id="${t.name}"><entityName>${esc(tablePath(t.name))}</entityName>`
+    + `<entityDescription>${esc(t.description)}</entityDescription><physical><objectName>${esc(tablePath(t.name))}</objectName>`
+    + `<size unit="byte">${bytes[t.name] ?? 0}</size><characterEncoding>UTF-8</characterEncoding><dataFormat><textFormat><numHeaderLines>1</numHeaderLines>`
+    + '<recordDelimiter>\\n</recordDelimiter><attributeOrientation>column</attributeOrientation><simpleDelimited><fieldDelimiter>,</fieldDelimiter>'
+    + '<quoteCharacter>"</quoteCharacter></simpleDelimited></textFormat></dataFormat></physical>'
+    + `<attributeList>${t.fields.map(attribute).join('')}</attributeList><numberOfRecords>${rowCounts[t.name] ?? 0}</numberOfRecords></dataTable>`).join('\n    ');
+  const units = Object.values(UNIT_IDS).map((u) => `<stmml:unit id="${u.id}" name="${u.id}"><stmml:description>${esc(u.description)}</stmml:description></stmml:unit>`).join('');
+  return `<?xml version="1.0" encoding="UTF-8"?>
+<eml:eml xmlns:eml="https://eml.ecoinformatics.org/eml-2.2.0" xmlns:stmml="http://www.xml-cml.org/schema/stmml-1.2"
+  xmlns:xsi="http://www.w3.org/2001/XMLSchema-instance"
+  xsi:schemaLocation="https://eml.ecoinformatics.org/eml-2.2.0 https://eml.ecoinformatics.org/eml-2.2.0/eml.xsd"
+  packageId="fluxwalk-${p.jobId}" system="fluxwalk">
+  <dataset>
+    <title>Soil CO2 efflux by closed chambers on permanent collars, ${esc(p.site.name)}</title>
+    <creator>${person}</creator>
+    <pubDate>${p.generatedAt.slice(0, 10)}</pubDate>
+    <language>en</language>
+    <abstract><para>Soil CO2 efflux from closed-chamber closures on permanent collars, with raw series, review decisions, QC flags, visit conditions, `
+    + `offsets and probe readings; fluxes aggregated along the experimental design, temperature responses (Q10; Lloyd and Taylor 1994) `
+    + `and seasonal totals with bootstrap intervals over plots. Generated by the flux engine ${esc(p.engineVersion)}.</para></abstract>
+    <keywordSet><keyword>soil respiration</keyword><keyword>CO2 efflux</keyword><keyword>closed chamber</keyword><keyword>temperature response</keyword></keywordSet>
+    ${coverage}
+    <contact>${person}</contact>
+    <methods>${methods.map((m) => `<methodStep><description><para>${esc(m)}</para></description></methodStep>`).join('')}</methods>
+    ${tables}
+  </dataset>
+  <additionalMetadata><metadata><stmml:unitList>${units}</stmml:unitList></metadata></additionalMetadata>
+</eml:eml>
+`;
+}

@@ -1,0 +1,141 @@
+import type { DataSource } from 'typeorm';
+import type { CsvValue } from './csv-text';
+import type { SiteResults } from './results-service';
+import type { CellTotal } from './seasonal-totals';
+
+/** Rows of each export table, in the field order of export-schema.ts; big tables are read in keyset pages. */
+export type Rows = AsyncIterable<CsvValue[]>;
+const PAGE = 500;
+
+const iso = (d: Date | null) => (d ? d.toISOString() : null);
+
+async function* query(ds: DataSource, sql: string, params: unknown[], map: (r: any) => CsvValue[]): Rows {
+  for (const r of await ds.query(sql, params)) yield map(r);
+}
+
+export function collarRows(ds: DataSource, siteId: string): Rows {
+  return query(ds, `SELECT c.*, p.code AS plot_code, b.code AS block_code, pt.code AS pt_code, ct.code AS ct_code
+      FROM collar c JOIN plot p ON p.id = c.plot_id LEFT JOIN block b ON b.id = p.block_id
+      LEFT JOIN treatment pt ON pt.id = p.treatment_id LEFT JOIN treatment ct ON ct.id = c.treatment_id
+     WHERE c.site_id = $1 AND NOT c.deleted ORDER BY c.code`, [siteId], (r) => [
+    r.id, r.code, r.plot_id, r.plot_code, r.block_code, r.pt_code, r.ct_code, r.shape, r.diameter_cm, r.area_cm2, r.height_cm, r.insertion_cm,
+    r.latitude, r.longitude, r.installed_on ? String(r.installed_on) : null, r.status]);
+}
+
+export function collarEventRows(ds: DataSource, siteId: string): Rows {
+  return query(ds, `SELECT id, collar_id, kind, date::text AS date, note FROM collar_event WHERE site_id = $1 AND NOT deleted ORDER BY date, id`, [siteId],
+    (r) => [r.id, r.collar_id, r.kind, r.date, r.note]);
+}
+
+export function visitRows(ds: DataSource, siteId: string): Rows {
+  return query(ds, `SELECT v.*, c.name AS campaign_name FROM visit v JOIN campaign c ON c.id = v.campaign_id
+     WHERE v.site_id = $1 AND NOT v.deleted ORDER BY v.arrived_at, v.id`, [siteId], (r) => [
+    r.id, r.campaign_id, r.campaign_name, r.round, r.collar_id, iso(r.arrived_at), r.skipped, r.skip_reason, JSON.stringify(r.conditions)]);
+}
+
+export function offsetSetRows(ds: DataSource, siteId: string): Rows {
+  return query(ds, `SELECT * FROM offset_set WHERE site_id = $1 AND NOT deleted ORDER BY taken_at, id`, [siteId], (r) => [
+    r.id, r.visit_id, r.collar_id, iso(r.taken_at), r.mean_cm, r.sd_cm, r.readings_cm.length, r.readings_cm.join(';'), r.supersedes_id]);
+}
+
+export function probeRows(ds: DataSource, siteId: string, depthCm: number): Rows {
+  return query(ds, `SELECT * FROM probe_reading WHERE site_id = $1 AND NOT deleted ORDER BY taken_at, id`, [siteId], (r) => {
+    const at = (r.soil_temps as { depthCm: number; tempC: number }[]).find((s) => Math.abs(s.depthCm - depthCm) < 1e-6);
+    return [r.id, r.visit_id, r.collar_id, iso(r.taken_at), at?.tempC ?? null, r.vwc_pct, r.moisture_raw, r.moisture_kind];
+  });
+}
+
+export async function* probeTempRows(ds: DataSource, siteId: string): Rows {
+  const rows = await ds.query(`SELECT id, soil_temps FROM probe_reading WHERE site_id = $1 AND NOT deleted ORDER BY taken_at, id`, [siteId]);
+  for (const r of rows) for (const s of r.soil_temps as { depthCm: number; tempC: number }[]) yield [r.id, s.depthCm, s.tempC];
+}
+
+/** Closures in keyset pages (id order), so a season of 20 000 never loads at once; `onPage` reports progress. */
+async function* closurePages(ds: DataSource, siteId: string, columns: string, onPage?: (n: number) => Promise<void>): AsyncIterable<any[]> {
+  let after = '00000000-0000-0000-0000-000000000000';
+  for (;;) {
+    const page = await ds.query(`SELECT ${columns} FROM closure WHERE site_id = $1 AND NOT deleted AND id > $2 ORDER BY id LIMIT ${PAGE}`, [siteId, after]);
+    if (!page.length) return;
+    yield page;
+    after = page[page.length - 1].id;
+    await onPage?.(page.length);
+  }
+}
+
+interface Fit { selected?: { model: string; fluxUmolM2S: number; slopePpmS: number } | null; [model: string]: any }
+
+export async function* closureRows(ds: DataSource, siteId: string, onPage?: (n: number) => Promise<void>): Rows {
+  const cols = `id, visit_id, collar_id, campaign_id, started_at, settle_s, review_state, review_reason, review_settle_s, review_window_end_s,
+    review_model, results, flags, flux_umol_m2_s`;
+  for await (const page of closurePages(ds, siteId, cols, onPage)) {
+    for (const r of page) {
+      const res = (r.results ?? {}) as { raw?: Fit; review?: Fit | null; volumeCm3?: number; areaCm2?: number; meanOffsetCm?: number; pressureIsDefault?: boolean };
+      const raw = res.raw?.selected ?? null;
+      const review = res.review?.selected ?? null;
+      yield [r.id, r.visit_id, r.collar_id, r.campaign_id, iso(r.started_at), r.settle_s, r.review_state, r.review_reason, r.review_settle_s,
+        r.review_window_end_s, r.review_model, raw?.model ?? null, raw?.slopePpmS ?? null, raw?.fluxUmolM2S ?? null,
+        raw ? res.raw?.[raw.model]?.r2 ?? null : null, review?.model ?? null, review?.fluxUmolM2S ?? null, r.flux_umol_m2_s,
+        (r.flags as string[]).join(';'), res.volumeCm3 ?? null, res.areaCm2 ?? null, res.meanOffsetCm ?? null, res.pressureIsDefault ?? null];
+    }
+  }
+}
+
+export async function* seriesRows(ds: DataSource, siteId: string, onPage?: (n: number) => Promise<void>): Rows {
+  for await (const page of closurePages(ds, siteId, 'id, series', onPage)) {
+    for (const r of page) {
+      const s = r.series as Record<string, (number | null)[] | null | undefined>;
+      const t = s['tS'] ?? [];
+      for (let i = 0; i < t.length; i++) {
+        yield [r.id, t[i], s['co2Ppm']?.[i] ?? null, s['h2oMmolMol']?.[i] ?? null, s['tempC']?.[i] ?? null, s['pressureKpa']?.[i] ?? null];
+      }
+    }
+  }
+}
+
+export async function* temperatureLogRows(ds: DataSource, siteId: string): Rows {
+  const logs = await ds.query(`SELECT plot_id, depth_cm, series FROM temperature_log WHERE site_id = $1 AND NOT deleted ORDER BY plot_id, depth_cm`, [siteId]);
+  for (const l of logs) for (let i = 0; i < l.series.t.length; i++) yield [l.plot_id, l.depth_cm, l.series.t[i], l.series.tempC[i]];
+}
+
+export async function* visitMeanRows(r: SiteResults): Rows {
+  for (const v of r.aggregate.visitMeans) yield [v.visitId, v.collarId, v.plotId, v.cellKey, v.campaignId, v.nClosures, v.fluxUmolM2S, v.soilTempC, v.vwcPct];
+}
+
+export async function* plotMeanRows(r: SiteResults): Rows {
+  for (const p of r.aggregate.plotMeans) {
+    yield [p.plotId, p.plotCode, p.blockCode, p.cellKey, p.campaignId, p.nCollars, p.nVisits, p.nClosures, p.fluxUmolM2S, p.soilTempC, p.vwcPct];
+  }
+}
+
+export async function* treatmentMeanRows(r: SiteResults): Rows {
+  const cells = new Map(r.aggregate.cells.map((c) => [c.key, c]));
+  const campaigns = new Map(r.design.campaigns.map((c) => [c.campaignId, c.name]));
+  for (const m of r.aggregate.cellMeans) {
+    const c = cells.get(m.cellKey)!;
+    yield [m.cellKey, c.label, c.level, m.campaignId, campaigns.get(m.campaignId) ?? null, m.nPlots, m.nCollars, m.nVisits, m.nClosures,
+      m.meanUmolM2S, m.sdUmolM2S, m.seUmolM2S, m.seBlockUmolM2S, m.soilTempC, m.vwcPct];
+  }
+}
+
+export async function* responseRows(r: SiteResults): Rows {
+  for (const c of r.responses) {
+    const q = c.q10;
+    const l = c.lloydTaylor;
+    yield [c.cellKey, 'q10', q.ok, q.ok ? null : q.reason, q.ok ? q.n : null, q.ok ? q.tempSpanC : null, q.ok ? q.r10.value : null,
+      q.ok ? q.r10.ciLow : null, q.ok ? q.r10.ciHigh : null, q.ok ? q.q10.value : null, q.ok ? q.q10.ciLow : null, q.ok ? q.q10.ciHigh : null,
+      null, null, null, q.ok ? q.rmse : null, q.ok ? q.warnings.join(';') : null];
+    yield [c.cellKey, 'lloyd-taylor', l.ok, l.ok ? null : l.reason, l.ok ? l.n : null, l.ok ? l.tempSpanC : null, l.ok ? l.r10.value : null,
+      l.ok ? l.r10.ciLow : null, l.ok ? l.r10.ciHigh : null, null, null, null, l.ok ? l.e0K.value : null, l.ok ? l.e0K.ciLow : null,
+      l.ok ? l.e0K.ciHigh : null, l.ok ? l.rmse : null, l.ok ? l.warnings.join(';') : null];
+  }
+}
+
+export async function* seasonalRows(totals: CellTotal[], fromDay: string, toDay: string): Rows {
+  for (const t of totals) {
+    const sum = (k: 'logged' | 'interpolated' | 'missing') => t.plots.reduce((a, p) => a + p.days[k], 0);
+    yield [t.cellKey, null, null, fromDay, toDay, t.totalGCM2, t.ciLowGCM2, t.ciHighGCM2, sum('logged'), sum('interpolated'), sum('missing')];
+    for (const p of t.plots) {
+      yield [t.cellKey, p.plotId, p.plotCode, fromDay, toDay, p.totalGCM2, null, null, p.days.logged, p.days.interpolated, p.days.missing];
+    }
+  }
+}

@@ -1,0 +1,132 @@
+/**
+ * The tables of a results export: our own column names, each with its type, unit and meaning.
+ * The same definitions write the CSV headers, the Frictionless table schemas (datapackage.json)
+ * and the EML attribute lists, so the three can never disagree.
+ */
+export type FieldType = 'string' | 'number' | 'integer' | 'boolean' | 'date' | 'datetime';
+
+export interface FieldDef { name: string; type: FieldType; unit?: string; description: string; required?: boolean }
+export interface ForeignKey { fields: string[]; reference: { resource: string; fields: string[] } }
+export interface TableDef { name: string; title: string; description: string; fields: FieldDef[]; primaryKey?: string[]; foreignKeys?: ForeignKey[] }
+
+const id = (name: string, what: string): FieldDef => ({ name, type: 'string', description: `${what} (UUID)`, required: true });
+const ref = (name: string, what: string): FieldDef => ({ name, type: 'string', description: `${what} (UUID)` });
+const num = (name: string, unit: string, description: string): FieldDef => ({ name, type: 'number', unit, description });
+const int = (name: string, description: string): FieldDef => ({ name, type: 'integer', description });
+const str = (name: string, description: string): FieldDef => ({ name, type: 'string', description });
+const fk = (field: string, resource: string, target = field): ForeignKey => ({ fields: [field], reference: { resource, fields: [target] } });
+
+export const UNITS = {
+  flux: 'umol m-2 s-1',
+  total: 'g m-2',
+  cm: 'cm', cm2: 'cm2', cm3: 'cm3', s: 's', degC: 'degC', percent: 'percent', ppm: 'umol mol-1', mmolMol: 'mmol mol-1', kPa: 'kPa', degree: 'degree',
+  ppmPerS: 'umol mol-1 s-1', kelvin: 'K',
+} as const;
+
+const FLUX_NOTE = 'CO2 efflux, µmol CO2 m-2 s-1';
+
+export const TABLES: TableDef[] = [
+  { name: 'collars', title: 'Collars', description: 'Permanent soil collars with their plot, block and treatments.', primaryKey: ['collar_id'], fields: [
+    id('collar_id', 'Collar'), str('collar_code', 'Collar code written on its tag'), ref('plot_id', 'Plot'), str('plot_code', 'Plot code'),
+    str('block_code', 'Block code (a factor of the design)'), str('plot_treatment', 'Code of the plot-level treatment'),
+    str('collar_treatment', 'Code of the collar-level treatment, empty when none'), str('shape', 'round or rectangular'),
+    num('diameter_cm', UNITS.cm, 'Inner diameter of a round collar'), num('area_cm2', UNITS.cm2, 'Soil area inside the collar'),
+    num('height_cm', UNITS.cm, 'Collar height'), num('insertion_cm', UNITS.cm, 'Depth the collar was driven into the soil'),
+    num('latitude', UNITS.degree, 'WGS 84 latitude'), num('longitude', UNITS.degree, 'WGS 84 longitude'),
+    { name: 'installed_on', type: 'date', description: 'Installation day' }, str('status', 'active, damaged or retired'),
+  ] },
+  { name: 'collar_events', title: 'Collar events', description: 'Installations, clippings, reseats, replacements, damage and retirement.', primaryKey: ['event_id'],
+    foreignKeys: [fk('collar_id', 'collars')], fields: [
+      id('event_id', 'Event'), ref('collar_id', 'Collar'), str('kind', 'installed, clipped, reseated, replaced, damaged or retired'),
+      { name: 'date', type: 'date', description: 'Day of the event' }, str('note', 'Free text'),
+    ] },
+  { name: 'visits', title: 'Visits', description: 'One crew stop at one collar in one round of a campaign.', primaryKey: ['visit_id'],
+    foreignKeys: [fk('collar_id', 'collars')], fields: [
+      id('visit_id', 'Visit'), ref('campaign_id', 'Campaign'), str('campaign_name', 'Campaign name'), int('round', 'Round number within the campaign'),
+      ref('collar_id', 'Collar'), { name: 'arrived_at', type: 'datetime', description: 'Arrival time, UTC' },
+      { name: 'skipped', type: 'boolean', description: 'The collar was skipped in this round' }, str('skip_reason', 'Why it was skipped'),
+      str('conditions', 'Visit conditions as a JSON object (standing water, animal, trampling, notes)'),
+    ] },
+  { name: 'offset_sets', title: 'Offset sets', description: 'Collar rim heights above the soil read around the rim at one visit.', primaryKey: ['offset_set_id'],
+    foreignKeys: [fk('visit_id', 'visits'), fk('collar_id', 'collars')], fields: [
+      id('offset_set_id', 'Offset set'), ref('visit_id', 'Visit'), ref('collar_id', 'Collar'), { name: 'taken_at', type: 'datetime', description: 'Time, UTC' },
+      num('mean_offset_cm', UNITS.cm, 'Mean rim height above the soil'), num('sd_offset_cm', UNITS.cm, 'Standard deviation of the readings'),
+      int('n_readings', 'Number of readings'), str('readings_cm', 'The readings in cm, separated by semicolons'),
+      ref('supersedes_id', 'Offset set this one replaces'),
+    ] },
+  { name: 'probe_readings', title: 'Probe readings', description: 'Soil moisture and the soil temperature at the site\'s response depth per visit.', primaryKey: ['probe_reading_id'],
+    foreignKeys: [fk('visit_id', 'visits')], fields: [
+      id('probe_reading_id', 'Probe reading'), ref('visit_id', 'Visit'), ref('collar_id', 'Collar'), { name: 'taken_at', type: 'datetime', description: 'Time, UTC' },
+      num('soil_temp_c', UNITS.degC, 'Soil temperature at the site\'s response depth'), num('vwc_pct', UNITS.percent, 'Volumetric water content'),
+      num('moisture_raw', 'dimensionless', 'Raw moisture reading as the probe gave it'), str('moisture_kind', 'What the raw reading is (permittivity, period, VWC)'),
+    ] },
+  { name: 'probe_soil_temperatures', title: 'Probe soil temperatures', description: 'Every soil temperature of a probe reading with its depth.',
+    foreignKeys: [fk('probe_reading_id', 'probe_readings')], fields: [
+      ref('probe_reading_id', 'Probe reading'), num('depth_cm', UNITS.cm, 'Depth below the soil surface'), num('soil_temp_c', UNITS.degC, 'Soil temperature'),
+    ] },
+  { name: 'closures', title: 'Closures', description: 'Chamber closures with the raw fit, the review fit, QC flags and the lab\'s decision.', primaryKey: ['closure_id'],
+    foreignKeys: [fk('visit_id', 'visits'), fk('collar_id', 'collars')], fields: [
+      id('closure_id', 'Closure'), ref('visit_id', 'Visit'), ref('collar_id', 'Collar'), ref('campaign_id', 'Campaign'),
+      { name: 'started_at', type: 'datetime', description: 'Chamber closed, UTC' }, num('settle_s', UNITS.s, 'Settle time skipped by the raw fit'),
+      str('review_state', 'unreviewed, accepted or rejected'), str('review_reason', 'Reason given for a rejection'),
+      num('review_settle_s', UNITS.s, 'Settle time chosen by the lab'), num('review_window_end_s', UNITS.s, 'End of the fit window chosen by the lab'),
+      str('review_model', 'Rate model chosen by the lab'), str('raw_model', 'Rate model the raw fit selected'),
+      num('raw_slope_ppm_s', UNITS.ppmPerS, 'Initial slope of dry CO2, raw fit'), num('raw_flux_umol_m2_s', UNITS.flux, `${FLUX_NOTE}, raw fit`),
+      num('raw_r2', 'dimensionless', 'R² of the selected raw model'), str('review_fit_model', 'Rate model of the review fit'),
+      num('review_flux_umol_m2_s', UNITS.flux, `${FLUX_NOTE}, review fit`),
+      num('flux_umol_m2_s', UNITS.flux, `${FLUX_NOTE}: the review fit's flux when reviewed, else the raw fit's`),
+      str('flags', 'QC flags separated by semicolons'), num('volume_cm3', UNITS.cm3, 'Total system volume'), num('area_cm2', UNITS.cm2, 'Soil area'),
+      num('mean_offset_cm', UNITS.cm, 'Mean collar offset used for the volume'),
+      { name: 'pressure_is_default', type: 'boolean', description: 'Pressure taken from site elevation (US Standard Atmosphere 1976), not measured' },
+    ] },
+  { name: 'closure_series', title: 'Closure raw series', description: 'Every sample of every closure as the analyzer gave it (wet CO2).',
+    foreignKeys: [fk('closure_id', 'closures')], fields: [
+      ref('closure_id', 'Closure'), num('t_s', UNITS.s, 'Seconds since the chamber closed'), num('co2_ppm', UNITS.ppm, 'CO2 mole fraction as measured (wet)'),
+      num('h2o_mmol_mol', UNITS.mmolMol, 'Water vapour mole fraction'), num('chamber_temp_c', UNITS.degC, 'Chamber air temperature'),
+      num('pressure_kpa', UNITS.kPa, 'Chamber pressure'),
+    ] },
+  { name: 'soil_temperature_logs', title: 'Soil temperature logs', description: 'Continuous logger series per plot and depth used for seasonal totals.',
+    fields: [ref('plot_id', 'Plot'), num('depth_cm', UNITS.cm, 'Logger depth'), { name: 't', type: 'datetime', description: 'Time, UTC' }, num('soil_temp_c', UNITS.degC, 'Soil temperature')] },
+  { name: 'visit_means', title: 'Visit means', description: 'Mean flux of the selected closures of each visit, with soil temperature and moisture.', primaryKey: ['visit_id'],
+    foreignKeys: [fk('visit_id', 'visits')], fields: [
+      ref('visit_id', 'Visit'), ref('collar_id', 'Collar'), ref('plot_id', 'Plot'), str('cell', 'Treatment cell: plot treatment|collar treatment'),
+      ref('campaign_id', 'Campaign'), int('n_closures', 'Closures averaged'), num('flux_umol_m2_s', UNITS.flux, FLUX_NOTE),
+      num('soil_temp_c', UNITS.degC, 'Soil temperature at the response depth'), num('vwc_pct', UNITS.percent, 'Volumetric water content'),
+    ] },
+  { name: 'plot_means', title: 'Plot means', description: 'Per campaign and treatment cell: the mean over collars of their visit means (the replicate).',
+    fields: [
+      ref('plot_id', 'Plot'), str('plot_code', 'Plot code'), str('block_code', 'Block code'), str('cell', 'Treatment cell'), ref('campaign_id', 'Campaign'),
+      int('n_collars', 'Collars'), int('n_visits', 'Visits'), int('n_closures', 'Closures'), num('flux_umol_m2_s', UNITS.flux, FLUX_NOTE),
+      num('soil_temp_c', UNITS.degC, 'Soil temperature'), num('vwc_pct', UNITS.percent, 'Volumetric water content'),
+    ] },
+  { name: 'treatment_means', title: 'Treatment means', description: 'Per campaign: treatment cell mean ± SE over plots, with the block-adjusted SE.',
+    primaryKey: ['cell', 'campaign_id'], fields: [
+      str('cell', 'Treatment cell'), str('cell_label', 'Treatment cell as shown'), str('level', 'plot or collar'), ref('campaign_id', 'Campaign'),
+      str('campaign_name', 'Campaign name'), int('n_plots', 'Plots (the replicates)'), int('n_collars', 'Collars'), int('n_visits', 'Visits'),
+      int('n_closures', 'Closures'), num('mean_flux_umol_m2_s', UNITS.flux, `Mean ${FLUX_NOTE} over plots`),
+      num('sd_flux_umol_m2_s', UNITS.flux, 'Standard deviation over plots'), num('se_flux_umol_m2_s', UNITS.flux, 'Standard error over plots'),
+      num('se_block_flux_umol_m2_s', UNITS.flux, 'Standard error from the additive cell + block model'),
+      num('soil_temp_c', UNITS.degC, 'Mean soil temperature'), num('vwc_pct', UNITS.percent, 'Mean volumetric water content'),
+    ] },
+  { name: 'temperature_responses', title: 'Temperature responses', description: 'Q10 and Lloyd & Taylor (1994) fits per treatment cell on visit means, with 95 % CIs.',
+    fields: [
+      str('cell', 'Treatment cell'), str('model', 'q10 or lloyd-taylor'), { name: 'fitted', type: 'boolean', description: 'The engine fitted the model' },
+      str('refusal', 'Why the engine refused to fit'), int('n', 'Visit means used'), num('temp_span_c', UNITS.degC, 'Temperature span'),
+      num('r10_umol_m2_s', UNITS.flux, 'Flux at 10 °C'), num('r10_ci_low', UNITS.flux, '95 % CI'), num('r10_ci_high', UNITS.flux, '95 % CI'),
+      num('q10', 'dimensionless', 'Q10'), num('q10_ci_low', 'dimensionless', '95 % CI'), num('q10_ci_high', 'dimensionless', '95 % CI'),
+      num('e0_k', UNITS.kelvin, 'Lloyd & Taylor E0 (T0 = 227.13 K fixed)'), num('e0_ci_low', UNITS.kelvin, '95 % CI'), num('e0_ci_high', UNITS.kelvin, '95 % CI'),
+      num('rmse_umol_m2_s', UNITS.flux, 'Root-mean-square residual'), str('warnings', 'Engine warnings separated by semicolons'),
+    ] },
+  { name: 'seasonal_totals', title: 'Seasonal totals', description: 'Cumulative carbon efflux per plot and treatment cell over the season.',
+    fields: [
+      str('cell', 'Treatment cell'), ref('plot_id', 'Plot, empty for the cell mean'), str('plot_code', 'Plot code'),
+      { name: 'from_day', type: 'date', description: 'First day' }, { name: 'to_day', type: 'date', description: 'Last day' },
+      num('total_g_c_m2', UNITS.total, 'Carbon released as CO2, g C m-2 (C = 12.011 g mol-1)'),
+      num('ci_low_g_c_m2', UNITS.total, '95 % bootstrap interval over plots (cell rows)'), num('ci_high_g_c_m2', UNITS.total, '95 % bootstrap interval over plots'),
+      int('days_logged', 'Days from logged temperature through the fitted response'), int('days_interpolated', 'Days interpolated between campaigns'),
+      int('days_missing', 'Days with neither'),
+    ] },
+];
+
+export const tableDef = (name: string) => TABLES.find((t) => t.name === name)!;
+export const tablePath = (name: string) => `data/${name}.csv`;
