@@ -18,6 +18,7 @@ import { registerBenchRoutes } from '../closures/bench-routes';
 import { registerJobRoutes } from '../jobs/job-routes';
 import { registerMailRoutes } from '../mail/mail-routes';
 import { registerRecordRoutes } from '../records/record-routes';
+import { registerResultsRoutes } from '../results/results-routes';
 import { registerSetupRoutes } from '../setup/setup-routes';
 import { registerSyncRoutes } from '../sync/sync-routes';
 import { registerUserRoutes } from '../users/user-routes';
@@ -82,6 +83,7 @@ export function createApp(ds: DataSource, config: ServerConfig): AppHandle {
   registerBenchRoutes(registry, ds);
   registerJobRoutes(registry, ds);
   registerBoardRoutes(registry, ds);
+  registerResultsRoutes(registry, ds);
   registerRecordRoutes(registry, ds);
   registerSyncRoutes(registry, ds);
 
