@@ -189,6 +189,14 @@ describe('Board in Chromium', () => {
       }
       // The crew's device is listed with what it last reported.
       expect(await page.getByTestId('device-row').filter({ hasText: 'Rowan Ashby' }).count()).toBeGreaterThan(0);
+
+      // Without signal the Board shows its last answers, and says so.
+      await openTab(page, 'Progress');
+      await lead.context.setOffline(true);
+      await page.getByRole('button', { name: 'Refresh' }).click();
+      await page.getByText(/^No connection: showing the Board as it was at /).waitFor();
+      expect(await shownStates(page)).toEqual({ [collars[0].code]: 'complete', [collars[1].code]: 'skipped', [collars[2].code]: 'skipped' });
+      await lead.context.setOffline(false);
     });
   });
 
