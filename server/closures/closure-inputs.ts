@@ -3,9 +3,18 @@ import type { ChamberProfileVersion, OffsetSetRecord } from '../../shared/flux';
 
 type Db = Pick<EntityManager, 'query'>;
 
+// Building an Intl.DateTimeFormat costs far more than formatting with one: a recompute of
+// thousands of closures spent most of its time here before the formatters were kept per zone.
+const dayFormats = new Map<string, Intl.DateTimeFormat>();
+
 /** The calendar day of an instant in the site's time zone (closures and offset sets compare by local day). */
 export function localDay(iso: string | Date, timeZone: string): string {
-  return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(new Date(iso));
+  let f = dayFormats.get(timeZone);
+  if (!f) {
+    f = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' });
+    dayFormats.set(timeZone, f);
+  }
+  return f.format(new Date(iso));
 }
 
 export interface ClosureContext {

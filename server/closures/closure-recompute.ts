@@ -44,24 +44,32 @@ export async function recomputeClosures(ds: DataSource, scope: RecomputeScope,
     `SELECT count(*)::int AS n FROM closure c JOIN site s ON s.id = c.site_id WHERE ${where}`, args);
   const out: RecomputeOutcome = { examined: 0, changed: 0, lockedKept: 0, changedIds: [] };
   const inputs = new ClosureInputs(ds);
-  let after = '00000000-0000-0000-0000-000000000000';
+  const page = (after: string): Promise<Record<string, unknown>[]> => ds.query(
+    `SELECT ${COLUMNS} FROM closure c JOIN site s ON s.id = c.site_id JOIN campaign p ON p.id = c.campaign_id
+      WHERE ${where} AND c.id > $4 ORDER BY c.id LIMIT ${PAGE}`, [...args, after]);
+  // A pipeline over three connections: while this page is fitted, the next one is read and the
+  // previous one written, so PostgreSQL's work and the engine's overlap instead of taking turns.
+  let next = page('00000000-0000-0000-0000-000000000000');
+  let writing: Promise<void> = Promise.resolve();
   for (;;) {
-    const rows: Record<string, unknown>[] = await ds.query(
-      `SELECT ${COLUMNS} FROM closure c JOIN site s ON s.id = c.site_id JOIN campaign p ON p.id = c.campaign_id
-        WHERE ${where} AND c.id > $4 ORDER BY c.id LIMIT ${PAGE}`, [...args, after]);
+    const rows = await next;
     if (!rows.length) break;
-    after = String(rows[rows.length - 1]['id']);
-    await recomputePage(ds, inputs, rows, scope, opts.jobId ?? null, out);
+    next = page(String(rows[rows.length - 1]['id']));
+    next.catch(() => undefined); // awaited on the next turn; a failure surfaces there
+    const updates = await computePage(inputs, rows, scope, out);
+    await writing;
+    writing = updates.length ? ds.transaction((em) => writeUpdates(em, updates, opts.jobId ?? null, out)) : Promise.resolve();
     out.examined += rows.length;
     await opts.progress?.(out.examined, n);
   }
+  await writing;
   return out;
 }
 
 interface Update { id: string; rev: number; siteId: string; results: string; flags: string[]; flux: number | null; oldFlux: number | null; reviewed: boolean }
 
-async function recomputePage(ds: DataSource, inputs: ClosureInputs, rows: Record<string, unknown>[], scope: RecomputeScope,
-  jobId: string | null, out: RecomputeOutcome): Promise<void> {
+async function computePage(inputs: ClosureInputs, rows: Record<string, unknown>[], scope: RecomputeScope,
+  out: RecomputeOutcome): Promise<Update[]> {
   const closures = rows.map(wireOf);
   await inputs.preload(closures);
   const updates: Update[] = [];
@@ -85,11 +93,11 @@ async function recomputePage(ds: DataSource, inputs: ClosureInputs, rows: Record
     updates.push({ id: String(c['id']), rev: Number(c['rev']), siteId: String(c['siteId']), results: JSON.stringify(results),
       flags: next.flags, flux: next.fluxUmolM2S, oldFlux, reviewed });
   }
-  if (updates.length) await ds.transaction((em) => writeUpdates(em, updates, scope, jobId, out));
+  return updates;
 }
 
 /** One statement per page; a closure whose revision moved since it was read was rewritten by the writer with current inputs and is left alone. */
-async function writeUpdates(em: EntityManager, updates: Update[], scope: RecomputeScope, jobId: string | null, out: RecomputeOutcome) {
+async function writeUpdates(em: EntityManager, updates: Update[], jobId: string | null, out: RecomputeOutcome) {
   const answer = await em.query(
     `UPDATE closure c SET results = u.results::jsonb, flags = string_to_array(u.flags, ','), flux_umol_m2_s = u.flux,
             rev = c.rev + 1, updated_at = now(), updated_by = NULL
@@ -107,16 +115,18 @@ async function writeUpdates(em: EntityManager, updates: Update[], scope: Recompu
       fields: ['results', 'flags', 'fluxUmolM2S'], deleted: false, userId: null, deviceId: null });
   }
   const ids = written.map((w) => w.id);
-  await em.query(
+  // History for reviewed closures only: their decision stands on a flux that has now moved. An
+  // unreviewed closure's new flux is in the change log like any other derived value.
+  const reviewedIds = ids.filter((id) => byId.get(id)!.reviewed);
+  if (reviewedIds.length) await em.query(
     `INSERT INTO closure_review_history (closure_id, site_id, user_id, kind, field, old_value, new_value, old_flux_umol_m2_s, new_flux_umol_m2_s, job_id)
-     SELECT u.id, u.site, NULL, 'recompute', 'fluxUmolM2S', to_jsonb(u.old), to_jsonb(u.new), u.old, u.new, $6
-       FROM unnest($1::uuid[], $2::uuid[], $3::float8[], $4::float8[], $5::boolean[]) AS u(id, site, old, new, reviewed)`,
-    [ids, ids.map((id) => byId.get(id)!.siteId), ids.map((id) => byId.get(id)!.oldFlux), ids.map((id) => byId.get(id)!.flux),
-      ids.map((id) => byId.get(id)!.reviewed), jobId]);
+     SELECT u.id, u.site, NULL, 'recompute', 'fluxUmolM2S', to_jsonb(u.old), to_jsonb(u.new), u.old, u.new, $5
+       FROM unnest($1::uuid[], $2::uuid[], $3::float8[], $4::float8[]) AS u(id, site, old, new)`,
+    [reviewedIds, reviewedIds.map((id) => byId.get(id)!.siteId), reviewedIds.map((id) => byId.get(id)!.oldFlux),
+      reviewedIds.map((id) => byId.get(id)!.flux), jobId]);
   await changes.flush(em);
   out.changed += written.length;
   for (const id of ids) if (out.changedIds.length < MAX_LISTED) out.changedIds.push(id);
-  void scope;
 }
 
 function wireOf(r: Record<string, unknown>): Record<string, unknown> {

@@ -2,6 +2,7 @@ import { Foundation1764644400000 } from './1764644400000-foundation';
 import { FieldData1764651600000 } from './1764651600000-field-data';
 import { ProgressIndexes1764658800000 } from './1764658800000-progress-indexes';
 import { BenchReview1764662400000 } from './1764662400000-bench-review';
+import { ClosureFillfactor1764662460000 } from './1764662460000-closure-fillfactor';
 import { AccountsMail1764673200000 } from './1764673200000-accounts-mail';
 import { ResultExports1764676800000 } from './1764676800000-result-exports';
 
