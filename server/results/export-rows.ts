@@ -14,12 +14,12 @@ async function* query(ds: DataSource, sql: string, params: unknown[], map: (r: a
 }
 
 export function collarRows(ds: DataSource, siteId: string): Rows {
-  return query(ds, `SELECT c.*, p.code AS plot_code, b.code AS block_code, pt.code AS pt_code, ct.code AS ct_code
+  return query(ds, `SELECT c.*, c.installed_on::text AS installed_day, p.code AS plot_code, b.code AS block_code, pt.code AS pt_code, ct.code AS ct_code
       FROM collar c JOIN plot p ON p.id = c.plot_id LEFT JOIN block b ON b.id = p.block_id
       LEFT JOIN treatment pt ON pt.id = p.treatment_id LEFT JOIN treatment ct ON ct.id = c.treatment_id
      WHERE c.site_id = $1 AND NOT c.deleted ORDER BY c.code`, [siteId], (r) => [
     r.id, r.code, r.plot_id, r.plot_code, r.block_code, r.pt_code, r.ct_code, r.shape, r.diameter_cm, r.area_cm2, r.height_cm, r.insertion_cm,
-    r.latitude, r.longitude, r.installed_on ? String(r.installed_on) : null, r.status]);
+    r.latitude, r.longitude, r.installed_day, r.status]);
 }
 
 export function collarEventRows(ds: DataSource, siteId: string): Rows {
