@@ -8,3 +8,11 @@ setupZonelessTestEnv();
 
 // jsdom lacks structuredClone; Dexie on fake-indexeddb needs it.
 globalThis.structuredClone ??= <T>(value: T): T => v8.deserialize(v8.serialize(value)) as T;
+
+// jsdom has no matchMedia; uPlot reads it when its module loads (device pixel ratio changes).
+window.matchMedia ??= (query: string) =>
+  ({
+    matches: false, media: query, onchange: null,
+    addListener: () => undefined, removeListener: () => undefined,
+    addEventListener: () => undefined, removeEventListener: () => undefined, dispatchEvent: () => false,
+  }) as MediaQueryList;
