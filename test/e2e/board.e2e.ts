@@ -139,6 +139,24 @@ describe('Board in Chromium', () => {
       await page.keyboard.press('Escape');
       await page.getByRole('button', { name: 'Save plan' }).click();
       await page.getByText('Saved: 1 route(s) in "Board test, two rounds".').waitFor();
+      // Reorder the loop by dragging its first collar below the second, then save.
+      await choose(page, 'Route to reorder', 'Short loop');
+      const stops = page.getByTestId('order-list').locator('li');
+      await page.getByTestId('order-list').locator(`li[data-collar="${collars[0].code}"]`).waitFor(); // codes shown once collars load
+      await page.getByRole('button', { name: 'Save order' }).scrollIntoViewIfNeeded();
+      const from = (await stops.nth(0).boundingBox())!;
+      const to = (await stops.nth(1).boundingBox())!;
+      await page.mouse.move(from.x + 12, from.y + from.height / 2);
+      await page.mouse.down();
+      await page.mouse.move(from.x + 12, from.y + from.height / 2 + 6, { steps: 4 });
+      await page.mouse.move(to.x + 12, to.y + to.height * 0.9, { steps: 12 });
+      await page.mouse.up();
+      await poll(() => stops.evaluateAll((ls) => ls.map((l) => l.getAttribute('data-collar')))).toEqual([collars[1].code, collars[0].code, collars[2].code]);
+      await page.getByRole('button', { name: 'Save order' }).click();
+      await page.getByText('Order of "Short loop" saved.').waitFor();
+      const routeId = (await routeRes.json()).record.id as string;
+      expect((await (await page.request.get(`${server.baseUrl}/api/routes/${routeId}`)).json()).record.collarIds)
+        .toEqual([collars[1].id, collars[0].id, collars[2].id]);
       await noSeriousProblems(page, 'Board plan');
       const campaign = ((await (await page.request.get(`${server.baseUrl}/api/campaigns?siteId=${SITE}&limit=100`)).json()) as
         { items: { id: string; name: string; routes: unknown[] }[] }).items.find((c) => c.name === 'Board test, two rounds')!;
@@ -173,8 +191,10 @@ describe('Board in Chromium', () => {
       const [download] = await Promise.all([page.waitForEvent('download'), page.getByTestId('progress-csv').click()]);
       const csv = readFileSync((await download.path())!, 'utf8').trim().split('\r\n');
       expect(csv).toHaveLength(4);
-      expect(csv[1]).toMatch(new RegExp(`^${collars[0].code},Short loop,P\\d+,[A-Z ]+,all,complete,,complete,2,2`));
-      expect(csv[2]).toContain(',skipped,Fallen spruce across the collar,');
+      // Rows follow the new walking order.
+      expect(csv.slice(1).map((l) => l.split(',')[0])).toEqual([collars[1].code, collars[0].code, collars[2].code]);
+      expect(csv[2]).toMatch(new RegExp(`^${collars[0].code},Short loop,P\\d+,[A-Z ]+,all,complete,,complete,2,2`));
+      expect(csv[1]).toContain(',skipped,Fallen spruce across the collar,');
 
       await page.getByRole('button', { name: 'Close campaign' }).click();
       await poll(() => page.getByTestId('lock-state').innerText()).toContain('Closed');
