@@ -4,7 +4,7 @@ import { MatDividerModule } from '@angular/material/divider';
 import { MatIconModule } from '@angular/material/icon';
 import { MatMenuModule } from '@angular/material/menu';
 import { MatSnackBar } from '@angular/material/snack-bar';
-import { Router } from '@angular/router';
+import { Router, RouterLink } from '@angular/router';
 import { AuthStore } from '../../core/auth/auth-store';
 import { SiteChoice } from '../../core/auth/site-choice';
 import { PendingWorkGuard } from '../../core/sw-update/pending-work-guard';
@@ -13,7 +13,7 @@ import { OutdoorMode } from '../../core/theme/outdoor-mode';
 /** The signed-in user, their sites (with the site picker), the outdoor theme and sign-out. */
 @Component({
   selector: 'fw-user-menu',
-  imports: [MatButtonModule, MatDividerModule, MatIconModule, MatMenuModule],
+  imports: [RouterLink, MatButtonModule, MatDividerModule, MatIconModule, MatMenuModule],
   templateUrl: './user-menu.html',
   styleUrl: './user-menu.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
