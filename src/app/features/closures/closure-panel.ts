@@ -34,12 +34,13 @@ export class ClosurePanel {
   readonly round = input.required<number>();
   readonly collarId = input.required<string>();
   readonly visit = input<LocalRecord | null>(null);
-  readonly due = input(1);
 
-  protected readonly scene = closureScene(() => ({ collarId: this.collarId(), visitId: this.visit()?.id ?? null, analyzerId: this.walk.choice().analyzerId }));
+  protected readonly scene = closureScene(() => ({ collarId: this.collarId(), campaignId: this.campaignId(), visitId: this.visit()?.id ?? null, analyzerId: this.walk.choice().analyzerId }));
   protected readonly list = computed(() => this.scene()?.closures ?? []);
   protected readonly open = computed(() => this.list().find((c) => c['chamberOnAt'] && !c['chamberOffAt']) ?? null);
-  protected readonly counted = computed(() => this.list().length);
+  /** A redone closure is replaced by its redo, so it does not count twice toward the due closures. */
+  protected readonly counted = computed(() => this.list().filter((c) => !this.list().some((o) => o['redoOfId'] === c.id)).length);
+  protected readonly due = computed(() => this.scene()?.dueClosures ?? 1);
   protected readonly message = signal('');
   protected readonly manualFor = signal<string | null>(null);
   protected manualText = '';

@@ -9,6 +9,8 @@ export interface ClosureScene {
   inputs: SpotInputs;
   /** The collar's earlier closures with a flux (server's or none), newest first. */
   previous: { id: string; startedAt: string; fluxUmolM2S: number }[];
+  /** Closures the campaign asks for at each visit. */
+  dueClosures: number;
 }
 
 const live = (r: LocalRecord) => !r.deleted;
@@ -21,16 +23,17 @@ export async function dayAmbientPpm(db: FluxDb, siteId: string, timeZone: string
   return today.length ? Number(today[0]['co2Ppm']) : null;
 }
 
-export async function loadScene(db: FluxDb, p: { collarId: string; visitId: string | null; analyzerId: string | null }): Promise<ClosureScene | null> {
+export async function loadScene(db: FluxDb, p: { collarId: string; campaignId: string | null; visitId: string | null; analyzerId: string | null }): Promise<ClosureScene | null> {
   const collar = await db.records('collar').get(p.collarId);
   if (!collar) return null;
   const siteId = String(collar['siteId']);
-  const [site, profiles, sets, closures, analyzer] = await Promise.all([
+  const [site, profiles, sets, closures, analyzer, campaign] = await Promise.all([
     db.records('site').get(siteId),
     db.records('chamberProfile').where('siteId').equals(siteId).filter(live).toArray(),
     db.records('offsetSet').where('collarId').equals(p.collarId).filter(live).toArray(),
     db.records('closure').where('collarId').equals(p.collarId).filter(live).toArray(),
     p.analyzerId ? db.records('analyzer').get(p.analyzerId) : Promise.resolve(undefined),
+    p.campaignId ? db.records('campaign').get(p.campaignId) : Promise.resolve(undefined),
   ]);
   const superseded = new Set(sets.map((s) => s['supersedesId']).filter(Boolean));
   const timeZone = String(site?.['timezone'] ?? 'UTC');
@@ -42,6 +45,7 @@ export async function loadScene(db: FluxDb, p: { collarId: string; visitId: stri
   return {
     closures: here,
     previous,
+    dueClosures: Number(campaign?.['dueClosures'] ?? 1),
     inputs: {
       site: site ?? null, collar, profiles, offsetSets: sets.filter((s) => !superseded.has(s.id)), analyzer: analyzer ?? null,
       ambientPpm: await dayAmbientPpm(db, siteId, timeZone, localDay(new Date().toISOString(), timeZone)),
@@ -49,6 +53,6 @@ export async function loadScene(db: FluxDb, p: { collarId: string; visitId: stri
   };
 }
 
-export function closureScene(params: () => { collarId: string; visitId: string | null; analyzerId: string | null }): Signal<ClosureScene | null | undefined> {
+export function closureScene(params: () => { collarId: string; campaignId: string | null; visitId: string | null; analyzerId: string | null }): Signal<ClosureScene | null | undefined> {
   return liveSignal(params, loadScene, undefined as ClosureScene | null | undefined);
 }

@@ -1,4 +1,3 @@
-import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -36,7 +35,7 @@ type Step = 'pick' | 'map' | 'parsing' | 'review' | 'done';
  */
 @Component({
   selector: 'fw-logger-import',
-  imports: [DecimalPipe, FormsModule, MatButtonModule, MatDialogModule, MatProgressBarModule],
+  imports: [FormsModule, MatButtonModule, MatDialogModule, MatProgressBarModule],
   templateUrl: './logger-import.html',
   styleUrl: './logger-import.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
