@@ -1,3 +1,4 @@
+import { ClosurePanel } from '../closures/closure-panel';
 import { DatePipe, DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, untracked, viewChild } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
@@ -29,7 +30,7 @@ const CONDITIONS: { key: keyof Omit<VisitConditions, 'other'>; label: string }[]
  */
 @Component({
   selector: 'fw-visit-page',
-  imports: [DatePipe, DecimalPipe, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatInputModule, OffsetForm, ProbeForm, RouterLink, SkipForm],
+  imports: [DatePipe, DecimalPipe, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatInputModule, OffsetForm, ProbeForm, RouterLink, SkipForm, ClosurePanel],
   templateUrl: './visit-page.html',
   styleUrl: './walk.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
