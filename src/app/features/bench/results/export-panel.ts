@@ -1,0 +1,59 @@
+import { DecimalPipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, OnDestroy, inject, input, signal } from '@angular/core';
+import { serverMessage } from '../../../core/api/api-error';
+import { ResultsApi, type ClosureSelection, type ExportJob } from './results-api';
+
+const POLL_MS = 1000;
+
+/** Starts the export job, shows its progress from the job API, and offers the zipped data package when it is done. */
+@Component({
+  selector: 'fw-export-panel',
+  imports: [DecimalPipe],
+  template: `
+    <p>The data package holds one CSV per table (collars and events, visits, offset sets, probe readings, closures with raw and review
+      results and flags, raw series, temperature logs, aggregates), <code>datapackage.json</code> with table schemas and units,
+      EML 2.2 metadata and the provenance of the numbers.</p>
+    <button type="button" (click)="start()" [disabled]="running()">Build data package</button>
+    @if (job(); as j) {
+      <p role="status" data-testid="export-status">{{ j.state }} · {{ j.done }} / {{ j.total ?? '?' }}
+        @if (j.total) { <progress [value]="j.done" [max]="j.total"></progress> }</p>
+      @if (j.state === 'completed' && j.result) {
+        <a [href]="'/api/results/exports/' + j.id + '/file'" [attr.download]="j.result.fileName" data-testid="export-download">
+          Download {{ j.result.fileName }} ({{ j.result.sizeBytes / 1024 | number: '1.0-0' }} kB)</a>
+      }
+      @if (j.error) { <p role="alert">{{ j.error }}</p> }
+    }
+    @if (problem()) { <p role="alert">{{ problem() }}</p> }`,
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class ExportPanel implements OnDestroy {
+  private readonly api = inject(ResultsApi);
+  readonly siteId = input.required<string>();
+  readonly selection = input.required<ClosureSelection>();
+  readonly model = input.required<string>();
+  protected readonly job = signal<ExportJob | null>(null);
+  protected readonly running = signal(false);
+  protected readonly problem = signal('');
+  private timer: ReturnType<typeof setTimeout> | null = null;
+
+  protected async start(): Promise<void> {
+    this.running.set(true);
+    this.problem.set('');
+    try {
+      const { jobId } = await this.api.startExport(this.siteId(), this.selection(), this.model());
+      await this.poll(jobId);
+    } catch (err) {
+      this.problem.set(serverMessage(err, 'The export could not be started'));
+      this.running.set(false);
+    }
+  }
+
+  private async poll(id: string): Promise<void> {
+    const { job } = await this.api.exportJob(id);
+    this.job.set(job);
+    if (job.state === 'completed' || job.state === 'failed') { this.running.set(false); return; }
+    this.timer = setTimeout(() => void this.poll(id).catch((e) => { this.problem.set(serverMessage(e, 'Progress unavailable')); this.running.set(false); }), POLL_MS);
+  }
+
+  ngOnDestroy(): void { if (this.timer) clearTimeout(this.timer); }
+}

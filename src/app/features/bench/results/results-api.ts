@@ -1,0 +1,58 @@
+import { HttpClient, HttpParams } from '@angular/common/http';
+import { Injectable, inject } from '@angular/core';
+import { firstValueFrom } from 'rxjs';
+
+export type ClosureSelection = 'accepted' | 'not-rejected';
+export interface Estimate { value: number; ciLow: number; ciHigh: number; se: number }
+export type Fit<T> = ({ ok: true; n: number; tempSpanC: number; rmse: number; r10: Estimate; warnings: string[] } & T) | { ok: false; reason: string };
+
+export interface Cell { key: string; label: string; level: 'plot' | 'collar' }
+export interface CellMean {
+  cellKey: string; campaignId: string; nPlots: number; nCollars: number; nVisits: number; nClosures: number; meanUmolM2S: number;
+  seUmolM2S: number | null; seBlockUmolM2S: number | null; soilTempC: number | null; vwcPct: number | null;
+}
+export interface Summary {
+  campaigns: { campaignId: string; name: string; startsOn: string }[]; cells: Cell[]; cellMeans: CellMean[];
+  blockStrata: { campaignId: string; stratum: string; blockEffects: { blockCode: string; effectUmolM2S: number }[] }[];
+  counts: { closures: number; visits: number; collars: number; plots: number };
+}
+export interface CellResponse {
+  cellKey: string; label: string; points: { tempC: number; fluxUmolM2S: number; vwcPct: number | null }[];
+  q10: Fit<{ q10: Estimate }>; lloydTaylor: Fit<{ e0K: Estimate; publishedE0K: number }>;
+  curve: { tempC: number; q10: number | null; lloydTaylor: number | null }[];
+}
+export interface Responses { tempDepthCm: number; responses: CellResponse[] }
+export interface CellTotal {
+  cellKey: string; label: string; nPlots: number; totalGCM2: number | null; ciLowGCM2: number | null; ciHighGCM2: number | null;
+  plots: { plotCode: string; totalGCM2: number; days: { logged: number; interpolated: number; missing: number } }[];
+  cumulative: { day: string; gCM2: number }[];
+}
+export interface Seasonal { fromDay: string; toDay: string; model: string; method: string; resamples: number; totals: CellTotal[] }
+export interface ExportJob { id: string; state: 'queued' | 'active' | 'completed' | 'failed'; done: number; total: number | null; error: string | null; result: { fileName: string; sizeBytes: number } | null }
+
+/** The results routes of the Bench (lab and admin). */
+@Injectable({ providedIn: 'root' })
+export class ResultsApi {
+  private readonly http = inject(HttpClient);
+  private params(o: Record<string, string | number | undefined>) {
+    let p = new HttpParams();
+    for (const [k, v] of Object.entries(o)) if (v !== undefined && v !== '') p = p.set(k, String(v));
+    return p;
+  }
+
+  summary(siteId: string, closures: ClosureSelection): Promise<Summary> {
+    return firstValueFrom(this.http.get<Summary>('/api/results/summary', { params: this.params({ siteId, closures }) }));
+  }
+  responses(siteId: string, closures: ClosureSelection): Promise<Responses> {
+    return firstValueFrom(this.http.get<Responses>('/api/results/responses', { params: this.params({ siteId, closures }) }));
+  }
+  seasonal(siteId: string, closures: ClosureSelection, model: string): Promise<Seasonal> {
+    return firstValueFrom(this.http.get<Seasonal>('/api/results/seasonal', { params: this.params({ siteId, closures, model }) }));
+  }
+  startExport(siteId: string, closures: ClosureSelection, model: string): Promise<{ jobId: string }> {
+    return firstValueFrom(this.http.post<{ jobId: string }>('/api/results/exports', { siteId, closures, model }));
+  }
+  exportJob(id: string): Promise<{ job: ExportJob }> {
+    return firstValueFrom(this.http.get<{ job: ExportJob }>(`/api/results/exports/${id}`));
+  }
+}
