@@ -4,6 +4,7 @@ import { serverMessage } from '../../core/api/api-error';
 import { SiteChoice } from '../../core/auth/site-choice';
 import { BenchApi, type ClosureDetail, type QueueFilter, type QueueItem } from './bench-api';
 import { ClosureView, type Decision } from './closure-view';
+import { BenchResults } from './results/bench-results';
 import { QueueFilters } from './queue-filters';
 
 const SETTLE_STEP_S = 5;
@@ -15,7 +16,7 @@ const SETTLE_STEP_S = 5;
  */
 @Component({
   selector: 'fw-bench',
-  imports: [ClosureView, DecimalPipe, QueueFilters],
+  imports: [BenchResults, ClosureView, DecimalPipe, QueueFilters],
   templateUrl: './bench.html',
   styleUrl: './bench.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -32,6 +33,8 @@ export class Bench {
   protected readonly busy = signal(false);
   protected readonly message = signal('');
   protected readonly problem = signal('');
+  /** Results (aggregates, responses, totals, export) share the screen; review keys are off while they show. */
+  protected readonly showResults = signal(false);
   protected readonly unflagged = computed(() => this.items().filter((i) => !i.flags.length && i.reviewState === 'unreviewed').length);
   private readonly view = viewChild(ClosureView);
   private loadSeq = 0;
@@ -93,6 +96,7 @@ export class Bench {
   }
 
   protected handleKey(e: KeyboardEvent): void {
+    if (this.showResults()) return;
     const t = e.target as HTMLElement | null;
     if (e.ctrlKey || e.metaKey || e.altKey || (t && /^(INPUT|SELECT|TEXTAREA|BUTTON)$/.test(t.tagName) && e.key !== 'Escape')) return;
     const v = this.view();
