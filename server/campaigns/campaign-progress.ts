@@ -17,7 +17,7 @@ type PerRound = Map<number, Row>;
 /**
  * One round trip: every collar of the campaign's routes (all live collars of the site when it has
  * no routes) with, per round, whether it was skipped and how many offset sets, non-rejected
- * closures and probe readings its visits hold. States are derived below from those counts.
+ * closures with samples (a chamber tap alone is not a closure yet) and probe readings its visits hold. States are derived below from those counts.
  * Readings are grouped per visit once and joined (indexes on campaign_id, visit_id), never looked
  * up per collar: 5 000 collars × 20 campaigns measured 2.5 s with correlated subqueries, ~60 ms this way.
  */
@@ -36,7 +36,8 @@ cols AS (SELECT k.id, k.code, k.plot_id, array_remove(ARRAY[p.treatment_id, k.tr
 vv AS (SELECT v.id, v.collar_id, v.round, v.skipped, v.skip_reason, v.arrived_at FROM visit v
         WHERE v.campaign_id = $1 AND NOT v.deleted AND ($2::int IS NULL OR v.round = $2::int)),
 o AS (SELECT DISTINCT visit_id FROM offset_set WHERE campaign_id = $1 AND NOT deleted),
-z AS (SELECT visit_id, count(*) AS n FROM closure WHERE campaign_id = $1 AND NOT deleted AND review_state <> 'rejected' GROUP BY visit_id),
+z AS (SELECT visit_id, count(*) AS n FROM closure WHERE campaign_id = $1 AND NOT deleted AND review_state <> 'rejected'
+         AND jsonb_array_length(series->'tS') > 0 GROUP BY visit_id),
 pr AS (SELECT DISTINCT visit_id FROM probe_reading WHERE campaign_id = $1 AND NOT deleted),
 per AS (SELECT vv.collar_id, vv.round, bool_or(vv.skipped) AS skipped,
                (array_agg(vv.skip_reason ORDER BY vv.arrived_at DESC) FILTER (WHERE vv.skipped))[1] AS skip_reason,

@@ -34,6 +34,8 @@ describe('campaign progress', () => {
     const rejected = rejectedRes.body.record;
     const lab = await signIn(t.app, demoEmail('lab'));
     await lab.patch(`/api/closures/${rejected.id}`, { rev: rejected.rev, reviewState: 'rejected', reviewReason: 'leak' });
+    // A chamber tapped on but with no samples yet is not a done closure.
+    await lead.post('/api/closures', { ...on(a2, ids.a), startedAt: '2026-06-01T09:00:00Z', settleS: 20, series: { tS: [], co2Ppm: [] } });
     // B, round 1: offset only. C, round 1: skipped.
     const b1 = await visit(ids.b, 1);
     await lead.post('/api/offset-sets', { ...on(b1, ids.b), readingsCm: [3, 3, 3] });
