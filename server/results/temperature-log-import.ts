@@ -1,14 +1,14 @@
 /**
- * Soil-temperature logger files into temperature logs (one plot, one depth). Minimal parsing of
- * delimited text: a time column (ISO-8601 with an offset, or a local "YYYY-MM-DD hh:mm[:ss]" read
- * in the given IANA zone) and a temperature column in °C, picked by header name. The closure-file
- * column mapping in shared/logger is being written alongside; the two should share one parser.
+ * Soil-temperature logger files into temperature logs (one plot, one depth). The file goes through
+ * the same reader as closure files (shared/logger: delimiter and decimal comma detected, header row
+ * found, times read in the site's IANA zone with daylight-saving changes handled); here only the
+ * time and temperature columns are picked, by header name.
  */
 import { randomUUID } from 'node:crypto';
-import Papa from 'papaparse';
 import type { DataSource } from 'typeorm';
 import { z } from 'zod';
 import type { SessionUser } from '../../shared/auth/roles';
+import { guessLayout, readTimestamp, splitRows, TIMESTAMP_FORMATS, type TimestampFormat } from '../../shared/logger';
 import { AppError, badRequest } from '../core/errors';
 import { ChangeBuffer, writeRecord } from '../records/record-writer';
 
@@ -21,47 +21,47 @@ export const temperatureLogImportSchema = z.object({
   timeColumn: z.string().min(1),
   tempColumn: z.string().min(1),
   timeZone: z.string().min(1).default('UTC'),
+  /** Local wall time as the logger writes it, or ISO-8601 with an offset. */
+  timeFormat: z.enum(TIMESTAMP_FORMATS).optional(),
 });
 export type TemperatureLogImport = z.infer<typeof temperatureLogImportSchema>;
 
-const LOCAL = /^(\d{4})-(\d{2})-(\d{2})[ T](\d{2}):(\d{2})(?::(\d{2}))?$/;
-
-/** Offset of a zone from UTC at an instant, in ms, read back through Intl (no zone database of our own). */
-function zoneOffsetMs(ms: number, timeZone: string): number {
-  const parts = Object.fromEntries(new Intl.DateTimeFormat('en-US', { timeZone, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit',
-    hour: '2-digit', minute: '2-digit', second: '2-digit' }).formatToParts(new Date(ms)).map((p) => [p.type, p.value]));
-  return Date.UTC(+parts['year'], +parts['month'] - 1, +parts['day'], +parts['hour'], +parts['minute'], +parts['second']) - Math.floor(ms / 1000) * 1000;
+/** The first format that reads the first data cell: ISO with an offset wins, then local wall times. */
+function pickFormat(sample: string, timeZone: string): TimestampFormat {
+  const order: TimestampFormat[] = ['ISO-8601 with offset', ...TIMESTAMP_FORMATS.filter((f) => f !== 'ISO-8601 with offset' && f !== 'Unix seconds')];
+  return order.find((f) => readTimestamp(sample, f, timeZone).ok) ?? 'ISO-8601 with offset';
 }
 
-export function parseLoggerTime(value: string, timeZone: string): number | null {
-  const v = value.trim();
-  const m = LOCAL.exec(v);
-  if (!m) {
-    const t = /[zZ]|[+-]\d{2}:?\d{2}$/.test(v) ? Date.parse(v) : NaN;
-    return Number.isFinite(t) ? t : null;
-  }
-  const wall = Date.UTC(+m[1], +m[2] - 1, +m[3], +m[4], +m[5], +(m[6] ?? 0));
-  // Two passes settle the offset on either side of a daylight-saving change.
-  let t = wall - zoneOffsetMs(wall, timeZone);
-  t = wall - zoneOffsetMs(t, timeZone);
-  return t;
-}
-
-export function parseTemperatureText(body: Pick<TemperatureLogImport, 'text' | 'timeColumn' | 'tempColumn' | 'timeZone'>): { t: string[]; tempC: number[] } {
-  const parsed = Papa.parse<Record<string, string>>(body.text.trim(), { header: true, skipEmptyLines: true, transformHeader: (h) => h.trim() });
-  const fields = parsed.meta.fields ?? [];
-  for (const [key, col] of [['timeColumn', body.timeColumn], ['tempColumn', body.tempColumn]] as const) {
-    if (!fields.includes(col)) throw badRequest(`The file has no column "${col}"`, [{ path: key, message: `Columns: ${fields.join(', ')}` }]);
-  }
+export function parseTemperatureText(body: Pick<TemperatureLogImport, 'text' | 'timeColumn' | 'tempColumn' | 'timeZone' | 'timeFormat'>): { t: string[]; tempC: number[] } {
+  const layout = guessLayout(body.text);
+  const rows = splitRows(body.text, layout.delimiter);
+  const col = (name: string, path: string) => {
+    const i = layout.headers.indexOf(name);
+    if (i < 0) throw badRequest(`The file has no column "${name}"`, [{ path, message: `Columns: ${layout.headers.join(', ')}` }]);
+    return i;
+  };
+  const ti = col(body.timeColumn, 'timeColumn');
+  const ci = col(body.tempColumn, 'tempColumn');
+  const data = rows.map((cells, i) => ({ cells, line: i + 1 })).slice(layout.headerRow + 1).filter((r) => r.cells.some((c) => c.trim()));
+  const format = body.timeFormat ?? pickFormat(data[0]?.cells[ti] ?? '', body.timeZone);
   const t: string[] = [];
   const tempC: number[] = [];
-  parsed.data.forEach((row, i) => {
-    const at = parseLoggerTime(row[body.timeColumn] ?? '', body.timeZone);
-    const temp = Number(String(row[body.tempColumn] ?? '').replace(',', '.'));
-    if (at === null || !Number.isFinite(temp)) throw badRequest(`Row ${i + 2} has no readable time or temperature`, [{ path: 'text', message: `row ${i + 2}` }]);
-    t.push(new Date(at).toISOString());
-    tempC.push(temp);
-  });
+  const problems: { path: string; message: string }[] = [];
+  let previous: number | null = null;
+  for (const { cells, line } of data) {
+    const at = readTimestamp(cells[ti] ?? '', format, body.timeZone, previous);
+    const raw = (cells[ci] ?? '').trim();
+    const temp = Number(layout.decimalComma ? raw.replace(',', '.') : raw);
+    if (!at.ok) problems.push({ path: 'text', message: `Line ${line}: ${at.message}` });
+    else if (raw === '' || !Number.isFinite(temp)) problems.push({ path: 'text', message: `Line ${line}: "${raw}" is not a temperature` });
+    else {
+      previous = at.ms;
+      t.push(new Date(at.ms).toISOString());
+      tempC.push(temp);
+    }
+  }
+  // A temperature log feeds seasonal totals: all of it or nothing, with every bad line named.
+  if (problems.length) throw badRequest(`${problems.length} line(s) could not be read; nothing was imported`, problems.slice(0, 50));
   return { t, tempC };
 }
 

@@ -29,3 +29,11 @@ describe('timestamps in a site time zone', () => {
     expect(readTimestamp('2025-06-01T12:00:00+02:00', 'ISO-8601 with offset', 'America/Chicago')).toEqual({ ok: true, ms: Date.parse('2025-06-01T10:00:00Z') });
   });
 });
+
+describe('wall times without seconds', () => {
+  it('when a logger drops zero seconds, then "YYYY-MM-DD HH:mm" reads as HH:mm:00 in the zone', () => {
+    // Berlin is UTC+2 in July (CEST): EU summer-time rule (common knowledge, from memory).
+    expect(readTimestamp('2026-07-01 00:00', 'YYYY-MM-DD HH:mm:ss', 'Europe/Berlin')).toEqual({ ok: true, ms: Date.UTC(2026, 5, 30, 22, 0, 0) });
+    expect(readTimestamp('2026-07-01 00', 'YYYY-MM-DD HH:mm:ss', 'Europe/Berlin').ok).toBe(false);
+  });
+});

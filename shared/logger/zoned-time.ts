@@ -83,7 +83,12 @@ function wallPattern(format: string): { re: RegExp; order: string[] } {
   let hit = compiled.get(format);
   if (hit) return hit;
   const order: string[] = [];
-  const src = format.replace(/YYYY|MM|DD|HH|mm|ss|[.*+?^${}()|[\]\\/]/g, (tok) => {
+  // Many loggers drop the seconds when they are zero ("2026-07-01 00:00"): ":ss" is optional.
+  const src = format.replace(/:ss|YYYY|MM|DD|HH|mm|ss|[.*+?^${}()|[\]\\/]/g, (tok) => {
+    if (tok === ':ss') {
+      order.push('ss');
+      return `(?::${FIELD_PATTERNS['ss']})?`;
+    }
     if (FIELD_PATTERNS[tok]) {
       order.push(tok);
       return FIELD_PATTERNS[tok];
@@ -101,7 +106,7 @@ export function wallTimeMs(text: string, format: string): number | null {
   const m = re.exec(text);
   if (!m) return null;
   const f: Record<string, number> = {};
-  order.forEach((tok, i) => (f[tok] = Number(m[i + 1].replace(',', '.'))));
+  order.forEach((tok, i) => (f[tok] = Number((m[i + 1] ?? '0').replace(',', '.'))));
   const sec = Math.floor(f['ss']);
   const ms = Math.round((f['ss'] - sec) * 1000);
   const t = Date.UTC(f['YYYY'], f['MM'] - 1, f['DD'], f['HH'], f['mm'], sec, ms);
