@@ -5,6 +5,7 @@ import { notFound } from '../core/errors';
 import type { RouteRegistry } from '../core/route-registry';
 import { parse } from '../core/validate';
 import { onRecordWritten } from '../records/after-write';
+import { siteForActor } from '../setup/site-access';
 import { bulkAccept } from './bulk-accept';
 import { closureDetail } from './closure-detail';
 import { closureHistory, recordReviewDecision } from './closure-history';
@@ -36,6 +37,8 @@ export function registerBenchRoutes(r: RouteRegistry, ds: DataSource): void {
     bulkAccept(ds, req.user!, parse(queueFilterSchema, stringify(req.body), 'Some queue filters are not valid')));
   r.add('post', '/api/bench/recompute', ['lab', 'admin'], async (req, res) => {
     const { siteId } = parse(recomputeBody, req.body);
+    // No job for a site that does not exist (404); the lab and admins see every site.
+    await siteForActor(ds, req.user!, siteId);
     res.status(202);
     return { jobId: await requestSiteRecompute(ds, siteId, req.user!.id) };
   });

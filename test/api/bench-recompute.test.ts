@@ -97,4 +97,14 @@ describe('Recompute when an offset set is superseded', () => {
     const res = await lab.patch(`/api/closures/${c.id}`, { rev: rec.rev, reviewSettleS: 25 });
     expect(res.body.record.results.recomputedSinceReview).toBeUndefined();
   });
+
+  it('when the lab asks to recompute a site, then a job to follow is queued for it; a site that does not exist gets 404 and no job', async () => {
+    const asked = await lab.post('/api/bench/recompute', { siteId: world.site.id });
+    expect(asked.status).toBe(202);
+    const job = (await lab.get(`/api/jobs/${asked.body.jobId}`)).body.job;
+    expect(job).toMatchObject({ name: 'closure-recompute', siteId: world.site.id });
+    const missing = randomUUID();
+    expect((await lab.post('/api/bench/recompute', { siteId: missing })).status).toBe(404);
+    expect(await t.ds.query(`SELECT id FROM job_progress WHERE site_id = $1`, [missing])).toEqual([]);
+  });
 });
