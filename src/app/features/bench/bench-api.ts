@@ -58,6 +58,13 @@ export interface ClosureDetail {
     oldFluxUmolM2S: number | null; newFluxUmolM2S: number | null; userName: string | null }[];
 }
 
+/** What a recompute job reports (GET /api/jobs): how far it got and, when done, what it changed. */
+export interface RecomputeJob {
+  id: string; name: string; siteId: string | null; state: 'queued' | 'active' | 'completed' | 'failed'; done: number; total: number | null;
+  result: { examined: number; changed: number; lockedKept: number; changedIds: string[] } | null; error: string | null;
+  createdAt: string; startedAt: string | null; finishedAt: string | null;
+}
+
 export interface Named { id: string; code?: string; name?: string; rounds?: number; startsOn?: string }
 
 /** The Bench reads the REST API (it runs at the station); decisions are plain review-field PATCHes. */
@@ -85,8 +92,18 @@ export class BenchApi {
     return firstValueFrom(this.http.get<Page<Named>>(`/api/${path}`, { params: toParams({ siteId, limit: 1000 }) })).then((p) => p.items);
   }
 
-  jobs(): Promise<{ items: { id: string; state: string; done: number; total: number | null; result: any; createdAt: string }[] }> {
-    return firstValueFrom(this.http.get<any>('/api/jobs', { params: toParams({ name: 'closure-recompute', limit: 5 }) }));
+  /** Recent recompute jobs (newest first); the server lists those of the user's sites and site-less ones. */
+  jobs(limit = 20): Promise<{ items: RecomputeJob[] }> {
+    return firstValueFrom(this.http.get<{ items: RecomputeJob[] }>('/api/jobs', { params: toParams({ name: 'closure-recompute', limit }) }));
+  }
+
+  job(id: string): Promise<RecomputeJob> {
+    return firstValueFrom(this.http.get<{ job: RecomputeJob }>(`/api/jobs/${id}`)).then((r) => r.job);
+  }
+
+  /** Asks the server to recompute every closure of a site (lab and admin); answers the job to follow. */
+  recomputeSite(siteId: string): Promise<{ jobId: string }> {
+    return firstValueFrom(this.http.post<{ jobId: string }>('/api/bench/recompute', { siteId }));
   }
 }
 

@@ -6,6 +6,7 @@ import { BenchApi, type ClosureDetail, type QueueFilter, type QueueItem } from '
 import { ClosureView, type Decision } from './closure-view';
 import { BenchResults } from './results/bench-results';
 import { QueueFilters } from './queue-filters';
+import { RecomputePanel } from './recompute-panel';
 
 const SETTLE_STEP_S = 5;
 
@@ -16,7 +17,7 @@ const SETTLE_STEP_S = 5;
  */
 @Component({
   selector: 'fw-bench',
-  imports: [BenchResults, ClosureView, DecimalPipe, QueueFilters],
+  imports: [BenchResults, ClosureView, DecimalPipe, QueueFilters, RecomputePanel],
   templateUrl: './bench.html',
   styleUrl: './bench.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -52,6 +53,12 @@ export class Bench {
     } catch (err) {
       this.problem.set(serverMessage(err, 'The queue could not be loaded'));
     }
+  }
+
+  /** Re-reads the queue with the current filter (after a recompute changed closures). */
+  protected async reload(): Promise<void> {
+    const f = this.filter();
+    if (f) await this.applyFilter(f);
   }
 
   protected async select(i: number): Promise<void> {

@@ -1,0 +1,140 @@
+import { DatePipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, output, signal, untracked } from '@angular/core';
+import { serverMessage } from '../../core/api/api-error';
+import { AuthStore } from '../../core/auth/auth-store';
+import { BenchApi, type RecomputeJob } from './bench-api';
+
+/** How often a queued or running recompute is asked for its progress. */
+export const RECOMPUTE_POLL_MS = 1500;
+/** Recompute jobs of the site listed at once (newest first). */
+const SHOWN = 3;
+
+const STATE_WORDS: Record<RecomputeJob['state'], string> = { queued: 'waiting', active: 'running', completed: 'finished', failed: 'failed' };
+
+/**
+ * Recomputes of the chosen site: the server starts one by itself when an offset set is
+ * superseded, a profile version added or a site default changed; the lab may ask for one here.
+ * Shows each job's progress while it runs and, when it ends, how many closures it looked at and
+ * changed. Emits `changed` when a job that changed closures finishes, so the queue is re-read.
+ */
+@Component({
+  selector: 'fw-recompute-panel',
+  imports: [DatePipe],
+  template: `
+    <section class="recompute" aria-labelledby="recompute-heading">
+      <h2 id="recompute-heading">Recompute</h2>
+      @if (canAsk()) {
+        <button type="button" (click)="ask()" [disabled]="asking() || running()">Recompute this site</button>
+      }
+      <ul data-testid="recompute-jobs">
+        @for (j of shown(); track j.id) {
+          <li [attr.data-state]="j.state">
+            <span class="state">{{ word(j) }}</span> · asked {{ j.createdAt | date: 'yyyy-MM-dd HH:mm' }}
+            @if (j.state === 'queued' || j.state === 'active') {
+              · {{ j.done }} / {{ j.total ?? '?' }} closures
+              <progress [attr.aria-label]="'Recompute progress, ' + j.done + ' of ' + (j.total ?? 'unknown') + ' closures'"
+                [value]="j.done" [max]="j.total || 1"></progress>
+            }
+            @if (j.state === 'completed' && j.result; as r) {
+              <span data-testid="recompute-result">· {{ r.examined }} closures looked at, {{ r.changed }} changed{{ r.lockedKept ? ', ' + r.lockedKept + ' kept as published (closed campaigns)' : '' }}</span>
+            }
+            @if (j.error) { <span class="problem">· {{ j.error }}</span> }
+          </li>
+        } @empty { <li>No recompute for this site yet.</li> }
+      </ul>
+      @if (anyChanged()) {
+        <p class="hint">Reviewed closures whose flux moved keep their decision and show “recomputed since review” with the old and new flux in the queue.</p>
+      }
+      <div role="status" aria-live="polite">{{ message() }}</div>
+      @if (problem()) { <p class="problem" role="alert">{{ problem() }}</p> }
+    </section>
+  `,
+  styles: `
+    .recompute { margin: 8px 0; padding: 4px 8px; border: 1px solid rgba(128, 128, 128, 0.4); border-radius: 4px; }
+    h2 { font-size: 1rem; margin: 4px 0; display: inline-block; margin-right: 12px; }
+    ul { margin: 4px 0; padding-left: 18px; }
+    progress { vertical-align: middle; margin-left: 6px; width: 10rem; }
+    [data-state='failed'] .state { text-decoration: underline wavy; }
+    .hint { font-size: 0.85rem; margin: 2px 0; }
+    .problem { color: #b00020; }
+  `,
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class RecomputePanel {
+  private readonly api = inject(BenchApi);
+  private readonly roles = inject(AuthStore).roles;
+  readonly siteId = input.required<string>();
+  readonly changed = output<RecomputeJob>();
+  protected readonly jobs = signal<RecomputeJob[]>([]);
+  protected readonly asking = signal(false);
+  protected readonly message = signal('');
+  protected readonly problem = signal('');
+  /** The server takes recompute requests from the lab and admins; leads only follow them. */
+  protected readonly canAsk = computed(() => this.roles().some((r) => r === 'lab' || r === 'admin'));
+  protected readonly shown = computed(() => this.jobs().filter((j) => j.siteId === this.siteId()).slice(0, SHOWN));
+  protected readonly running = computed(() => this.shown().some((j) => j.state === 'queued' || j.state === 'active'));
+  protected readonly anyChanged = computed(() => this.shown().some((j) => (j.result?.changed ?? 0) > 0));
+  private timer: ReturnType<typeof setTimeout> | null = null;
+  private alive = true;
+
+  constructor() {
+    effect(() => {
+      this.siteId();
+      untracked(() => { this.jobs.set([]); void this.refresh(); });
+    });
+    inject(DestroyRef).onDestroy(() => { this.alive = false; this.stop(); });
+  }
+
+  protected word(j: RecomputeJob): string {
+    return STATE_WORDS[j.state];
+  }
+
+  protected async ask(): Promise<void> {
+    this.asking.set(true);
+    this.problem.set('');
+    try {
+      const { jobId } = await this.api.recomputeSite(this.siteId());
+      this.message.set('Recompute asked for: the server works through every closure of this site.');
+      const job = await this.api.job(jobId);
+      this.jobs.update((js) => [job, ...js.filter((j) => j.id !== job.id)]);
+      this.schedule();
+    } catch (err) {
+      this.problem.set(serverMessage(err, 'The recompute could not be asked for'));
+    } finally {
+      this.asking.set(false);
+    }
+  }
+
+  /** Reads the recent jobs; keeps polling while one of this site's is waiting or running. */
+  async refresh(): Promise<void> {
+    this.stop();
+    const site = this.siteId();
+    try {
+      const before = new Map(this.jobs().map((j) => [j.id, j.state]));
+      const { items } = await this.api.jobs();
+      if (!this.alive || site !== this.siteId()) return;
+      this.jobs.set(items);
+      this.problem.set('');
+      for (const j of items) {
+        const was = before.get(j.id);
+        if (j.siteId === site && j.state === 'completed' && was && was !== 'completed') {
+          this.message.set(`Recompute finished: ${j.result?.changed ?? 0} closure(s) changed.`);
+          if ((j.result?.changed ?? 0) > 0) this.changed.emit(j);
+        }
+      }
+    } catch (err) {
+      this.problem.set(serverMessage(err, 'Recompute progress could not be read'));
+    }
+    if (this.running()) this.schedule();
+  }
+
+  private schedule(): void {
+    this.stop();
+    if (this.alive) this.timer = setTimeout(() => void this.refresh(), RECOMPUTE_POLL_MS);
+  }
+
+  private stop(): void {
+    if (this.timer) clearTimeout(this.timer);
+    this.timer = null;
+  }
+}
