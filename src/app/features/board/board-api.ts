@@ -28,6 +28,19 @@ export interface DeviceRow {
   id: string; userId: string; email: string; displayName: string; lastPushAt: string | null; lastPullAt: string | null;
   outboxSize: number | null; lastSeenAt: string | null; silent: boolean;
 }
+/** The lead's digest as the server would mail it now (GET /api/sites/:siteId/digest). */
+export interface Digest {
+  site: { id: string; name: string; timezone: string };
+  localDate: string;
+  campaigns: { id: string; name: string; startsOn: string; endsOn: string;
+    routes: { routeId: string | null; routeName: string; due: string[]; partial: { code: string; missing: string[] }[]; complete: number; skipped: number }[] }[];
+  anomalies: { total: number; problems: number; items: Anomaly[] };
+  silentDevices: { displayName: string; email: string; lastSeenAt: string | null; outboxSize: number | null }[];
+}
+export interface JobState {
+  id: string; state: 'queued' | 'active' | 'completed' | 'failed'; done: number; total: number | null;
+  result: Record<string, unknown> | null; error: string | null;
+}
 export interface Member { id: string; displayName: string; email: string; roles: string[] }
 
 /** The Board's calls: generic record routes, the progress query and the Board's own routes. */
@@ -82,5 +95,18 @@ export class BoardApi {
 
   members(siteId: string): Promise<Member[]> {
     return firstValueFrom(this.http.get<{ items: Member[] }>(`/api/sites/${siteId}/field-members`)).then((r) => r.items);
+  }
+
+  digest(siteId: string): Promise<Digest | null> {
+    return firstValueFrom(this.http.get<{ digest: Digest | null }>(`/api/sites/${siteId}/digest`)).then((r) => r.digest);
+  }
+
+  /** "Send me the digest now": the server queues a job that mails it to the person asking. */
+  sendDigest(siteId: string): Promise<{ jobId: string; to: string }> {
+    return firstValueFrom(this.http.post<{ jobId: string; to: string }>(`/api/sites/${siteId}/digest/send`, {}));
+  }
+
+  job(id: string): Promise<JobState> {
+    return firstValueFrom(this.http.get<{ job: JobState }>(`/api/jobs/${id}`)).then((r) => r.job);
   }
 }

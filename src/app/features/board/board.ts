@@ -8,6 +8,7 @@ import { AnomalyList } from './anomaly-list';
 import { BoardMap } from './board-map';
 import { BoardStore } from './board-store';
 import { DeviceList } from './device-list';
+import { DigestPanel } from './digest-panel';
 import { PlanView } from './plan-view';
 import { ProgressView } from './progress-view';
 import { readyToClose } from './progress-rows';
@@ -15,7 +16,7 @@ import { readyToClose } from './progress-rows';
 /** The crew lead's screen: plan campaigns, see what every collar still needs, spot anomalies and silent devices, close a campaign. */
 @Component({
   selector: 'fw-board',
-  imports: [DatePipe, MatButtonModule, MatFormFieldModule, MatSelectModule, MatTabsModule, AnomalyList, BoardMap, DeviceList, PlanView, ProgressView],
+  imports: [DatePipe, MatButtonModule, MatFormFieldModule, MatSelectModule, MatTabsModule, AnomalyList, BoardMap, DeviceList, DigestPanel, PlanView, ProgressView],
   providers: [BoardStore],
   template: `
     <h1>Board @if (store.site(); as s) { <span class="site">· {{ s.name }}</span> }</h1>
@@ -64,6 +65,7 @@ import { readyToClose } from './progress-rows';
       <mat-tab label="Map"><ng-template matTabContent><fw-board-map /></ng-template></mat-tab>
       <mat-tab label="Anomalies"><ng-template matTabContent><fw-anomaly-list /></ng-template></mat-tab>
       <mat-tab label="Devices"><ng-template matTabContent><fw-device-list /></ng-template></mat-tab>
+      <mat-tab label="Digest"><ng-template matTabContent><fw-digest-panel /></ng-template></mat-tab>
     </mat-tab-group>
   `,
   styles: `
