@@ -28,7 +28,7 @@ export function parseCm(text: string): number | null {
   imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatInputModule],
   templateUrl: './offset-form.html',
   styles: `
-    .positions { display: grid; grid-template-columns: 1fr 1fr; gap: 0 12px; }
+    .positions { display: grid; grid-template-columns: 1fr 1fr; gap: 12px 12px; }
     .positions mat-form-field { width: 100%; }
     .outlier { outline: 3px dashed var(--mat-sys-error); outline-offset: 2px; border-radius: 4px; }
     .stats { display: flex; flex-wrap: wrap; gap: 4px 16px; font-size: 1.1rem; margin: 0 0 8px; }

@@ -34,7 +34,7 @@ const escapeHtml = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt
     .legend { font-size: 1.05rem; }
     :host ::ng-deep .fw-marker { display: flex; align-items: center; gap: 2px; white-space: nowrap; font-weight: 700; color: #111; }
     :host ::ng-deep .fw-marker .m { font-size: 20px; line-height: 1; background: #fff; border-radius: 50%; }
-    :host ::ng-deep .fw-marker .t { background: #fff; border: 1px solid #111; border-radius: 4px; padding: 0 3px; font-size: 12px; }
+    :host ::ng-deep .fw-marker .t { background: #fff; border: 1px solid #111; border-radius: 4px; padding: 0 2px; font-size: 11px; }
     :host ::ng-deep .fw-marker:focus-visible { outline: 3px solid #0b57d0; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -65,7 +65,7 @@ export class WalkMap {
       this.map?.remove();
     });
     afterNextRender(() => {
-      this.map = this.zone.runOutsideAngular(() => L.map(this.host().nativeElement, { zoomControl: true, attributionControl: true }).setView([0, 0], 2));
+      this.map = this.zone.runOutsideAngular(() => L.map(this.host().nativeElement, { zoomControl: true, attributionControl: true, maxZoom: 22 }).setView([0, 0], 2));
       Object.values(this.layers).forEach((l) => l.addTo(this.map!));
       const url = this.tileUrl();
       if (url) L.tileLayer(url, { attribution: escapeHtml(String(this.options()?.site?.['tileAttribution'] ?? '')), maxZoom: 20 }).addTo(this.map);
@@ -117,7 +117,9 @@ export class WalkMap {
       }).addTo(this.layers.me);
     }
     if (!this.fitted && points.length) {
-      map.fitBounds(L.latLngBounds(points), { padding: [24, 24], maxZoom: 19 });
+      // The container may have been laid out after the map was made; measure again before fitting.
+      map.invalidateSize();
+      map.fitBounds(L.latLngBounds(points), { padding: [40, 40], maxZoom: 22 });
       this.fitted = true;
     }
   }

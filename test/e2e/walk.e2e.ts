@@ -1,0 +1,229 @@
+/// <reference lib="dom" />
+// Callbacks passed to page.evaluate() run in the browser and use its DOM types.
+import { Client } from 'pg';
+import { seriousAccessibilityProblems, signInAs, waitForServiceWorkerControl, type AxeProblem } from './support/app-actions';
+import { RunningServer, startAppServer } from './support/app-server';
+import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
+import { syncNow, waitForFirstSync, waitForSyncLabel } from './support/sync-actions';
+import { PHONE, choose, chooseByKeyboard, deviceBlob, readmeShot, testPhoto } from './support/walk-actions';
+
+jest.setTimeout(600_000);
+
+let server: RunningServer;
+let browser: Browser | null = null;
+
+beforeAll(async () => {
+  server = await startAppServer();
+});
+
+afterAll(async () => {
+  await browser?.close();
+  await server?.stop();
+});
+
+async function query<T = Record<string, unknown>>(sql: string, params: unknown[] = []): Promise<T[]> {
+  const client = new Client({ connectionString: process.env['E2E_DATABASE_URL'] });
+  await client.connect();
+  try {
+    return (await client.query(sql, params)).rows as T[];
+  } finally {
+    await client.end();
+  }
+}
+
+describe('Walk in Chromium on a phone, offline', () => {
+  it('when the crew works a day offline and then syncs, then every check, visit, offset set, probe reading, new collar and photo record is in PostgreSQL', async () => {
+    browser = await launchBrowser();
+    const { page, context } = browser;
+    await page.setViewportSize(PHONE);
+    const axe: Record<string, AxeProblem[]> = {};
+    await withScreenshotOnFailure(page, 'walk-day', async () => {
+      const user = (await signInAs(page, server.baseUrl, 'crew')) as unknown as { id: string };
+      await waitForFirstSync(page);
+      await waitForServiceWorkerControl(page);
+      const [{ latitude, longitude }] = await query<{ latitude: number; longitude: number }>(
+        `SELECT latitude, longitude FROM collar WHERE latitude IS NOT NULL ORDER BY code LIMIT 1`);
+      await context.grantPermissions(['geolocation'], { origin: server.baseUrl });
+      await context.setGeolocation({ latitude: latitude + 0.0004, longitude: longitude - 0.0003, accuracy: 4 });
+
+      // From here on there is no signal.
+      await context.setOffline(true);
+      await page.goto(`${server.baseUrl}/walk`, { waitUntil: 'load' });
+      await page.getByRole('heading', { name: 'Walk', exact: true }).waitFor();
+
+      // Start of day: safety note acknowledged, analyzer, warm-up, ambient, leak check; clock skipped with a reason.
+      await page.getByTestId('start-of-day-link').click();
+      await page.getByRole('heading', { name: 'Start of day' }).waitFor();
+      await page.getByTestId('safety-note').waitFor();
+      await choose(page, 'Analyzer', /.+/);
+      await page.getByRole('button', { name: 'I have read the safety note' }).click();
+      await page.getByRole('button', { name: 'Warm-up done' }).click();
+      await page.getByTestId('ambient-co2').fill('421.5');
+      await page.getByRole('button', { name: 'Save ambient' }).click();
+      await page.getByTestId('leak-slope').fill('0.02');
+      await page.getByTestId('leak-verdict').filter({ hasText: 'Passes' }).waitFor();
+      await page.getByRole('button', { name: 'Save leak check' }).click();
+      await page.getByTestId('check-clock').getByRole('button', { name: 'Skip with a reason…' }).click();
+      await page.getByTestId('skip-reason-clock').fill('Analyzer display unreadable in full sun');
+      await page.getByRole('button', { name: 'Save skip' }).click();
+      await page.getByTestId('checks-done').filter({ hasText: '5 of 5 checks done today' }).waitFor();
+      axe['start of day'] = await seriousAccessibilityProblems(page);
+
+      // Route: round 2 of the open campaign (picked by keyboard), collars in walking order.
+      await page.getByRole('link', { name: 'To the route' }).click();
+      await page.getByTestId('route-list').waitFor();
+      await chooseByKeyboard(page, 'Round', 'Round 2');
+      const codes = await page.locator('[data-testid^="route-collar-"] .code').allInnerTexts();
+      expect(codes.length).toBeGreaterThanOrEqual(3);
+      const [first, second, third] = codes.map((c) => c.trim());
+      await page.getByTestId('next-collar').filter({ hasText: first }).waitFor();
+      await page.getByTestId('next-way').filter({ hasText: / m (N|NE|E|SE|S|SW|W|NW) \(\d+°\)/ }).waitFor();
+      await readmeShot(page, 'walk-route');
+      axe['route'] = await seriousAccessibilityProblems(page);
+
+      // First collar, opened from the "next due" card: conditions, an uneven offset set, probes by permittivity.
+      await page.getByTestId('next-collar').getByRole('link').click();
+      await page.getByTestId('visit-code').filter({ hasText: first }).waitFor();
+      await page.getByRole('checkbox', { name: 'Rain in the last 24 h' }).check();
+      await page.getByRole('button', { name: 'Save conditions' }).click();
+      await page.getByTestId('visit-message').filter({ hasText: 'Conditions saved' }).waitFor();
+      // Offsets by keypad: type, Enter to the next position; Enter on the last saves.
+      await page.getByTestId('offset-1').focus();
+      for (const v of ['2.0', '2.1', '1.9', '5.0']) {
+        await page.keyboard.type(v);
+        if (v !== '5.0') await page.keyboard.press('Enter');
+      }
+      await page.getByTestId('offset-warning').filter({ hasText: 'Uneven rim' }).waitFor();
+      await readmeShot(page, 'walk-visit');
+      axe['visit'] = await seriousAccessibilityProblems(page);
+      await page.keyboard.press('Enter');
+      await page.getByTestId('offset-saved').waitFor();
+      await page.getByTestId('soil-temp-1').fill('6.4');
+      await page.getByRole('radio', { name: 'Permittivity (Ka)' }).check();
+      await page.getByTestId('moisture-raw').fill('20');
+      // Topp et al. (1980) at Ka = 20: 34.5 % (by hand in probe-form.spec.ts).
+      await page.getByTestId('moisture-vwc').filter({ hasText: '34.5 % VWC' }).waitFor();
+      await page.getByLabel('Rod length (cm)').fill('12');
+      await page.getByLabel('Probe id').fill('TDR-2');
+      await page.getByRole('button', { name: 'Save probe readings' }).click();
+      await page.getByTestId('probe-saved').waitFor();
+
+      // Second collar, opened by its code; the probe kit carries over.
+      await page.getByRole('link', { name: 'Back to the route' }).click();
+      await page.getByTestId('open-code').fill(second);
+      await page.getByRole('button', { name: 'Open', exact: true }).click();
+      await page.getByTestId('visit-code').filter({ hasText: second }).waitFor();
+      for (const [i, v] of ['1.6', '1.7', '1.5', '1.6'].entries()) await page.getByTestId(`offset-${i + 1}`).fill(v);
+      await page.getByRole('button', { name: 'Save offset set' }).click();
+      await page.getByTestId('offset-saved').waitFor();
+      expect(await page.getByTestId('offset-warning').count()).toBe(0);
+      expect(await page.getByLabel('Probe id').inputValue()).toBe('TDR-2');
+      await page.getByTestId('soil-temp-1').fill('7.1');
+      await page.getByTestId('moisture-raw').fill('10');
+      await page.getByTestId('moisture-vwc').filter({ hasText: '18.8 % VWC' }).waitFor();
+      await page.getByRole('button', { name: 'Save probe readings' }).click();
+      await page.getByTestId('probe-saved').waitFor();
+
+      // Third collar: skipped with a reason, by keyboard.
+      await page.getByRole('link', { name: 'Back to the route' }).click();
+      await page.getByTestId(`route-collar-${third}`).focus();
+      await page.keyboard.press('Enter');
+      await page.getByTestId('visit-code').filter({ hasText: third }).waitFor();
+      await page.getByTestId('skip-start').focus();
+      await page.keyboard.press('Enter');
+      await page.getByTestId('skip-reason').focus();
+      await page.keyboard.type('Fallen tree across the plot');
+      await page.keyboard.press('Tab');
+      await page.getByRole('button', { name: 'Skip collar' }).focus();
+      await page.keyboard.press('Enter');
+      await page.getByTestId('skip-shown').filter({ hasText: 'Fallen tree across the plot' }).waitFor();
+
+      // The map of the route, with our own markers and no tiles.
+      await page.getByRole('link', { name: 'Back to the route' }).click();
+      await page.getByRole('link', { name: 'Map' }).click();
+      await page.locator('.fw-marker[title]').first().waitFor();
+      expect(await page.locator(`.fw-marker[title="${third}, Skipped"]`).count()).toBe(1);
+      expect(await page.locator('.leaflet-tile').count()).toBe(0);
+      await readmeShot(page, 'walk-map');
+      axe['map'] = await seriousAccessibilityProblems(page);
+
+      // A new collar with a photo.
+      await page.getByRole('link', { name: '← Route' }).click();
+      await page.getByRole('link', { name: 'Install a collar' }).click();
+      await page.getByTestId('buried-services').waitFor();
+      await page.getByTestId('install-code').fill('AH-NEW-1');
+      await choose(page, 'Plot', /.+/);
+      await page.getByTestId('gps-now').filter({ hasText: '± 4 m' }).waitFor();
+      await page.getByRole('button', { name: 'Take a fix' }).click();
+      await page.getByRole('button', { name: 'Take a fix' }).click();
+      await page.getByTestId('install-position').filter({ hasText: '2 fixes' }).waitFor();
+      await page.getByTestId('install-diameter').fill('20');
+      await page.getByTestId('install-area').filter({ hasText: '314.2 cm²' }).waitFor();
+      await page.getByLabel('Height (cm)').fill('10');
+      await page.getByLabel('Insertion depth (cm)').fill('5');
+      await page.getByTestId('install-photo').setInputFiles({ name: 'collar-new.png', mimeType: 'image/png', buffer: testPhoto() });
+      await page.getByRole('img', { name: 'Photo 1 of the new collar' }).waitFor();
+      axe['install'] = await seriousAccessibilityProblems(page);
+      await page.getByRole('button', { name: 'Save the new collar' }).click();
+      await page.waitForURL(/\/collars\/[0-9a-f-]{36}$/);
+      const newCollarId = page.url().split('/').at(-1)!;
+      await page.getByTestId('collar-photo').waitFor();
+
+      // Still offline: everything waits on the device, counted.
+      const unsynced = await page.getByTestId('sync-label').innerText();
+      expect(unsynced).toMatch(/Offline · \d+ not yet synced/);
+      const kept = await deviceBlob(page, user.id, newCollarId);
+      expect(kept).toHaveLength(1);
+      expect(kept[0].type).toBe('image/jpeg');
+      expect(kept[0].size).toBe(kept[0].attachment!['sizeBytes']);
+      expect(kept[0].sha256).toBe(kept[0].attachment!['sha256']);
+
+      // Signal again: one sync puts it all on the server.
+      await context.setOffline(false);
+      await syncNow(page);
+      await waitForSyncLabel(page, /^Up to date$/, 60_000).catch(async (err) => {
+        await page.getByTestId('sync-indicator').click();
+        throw new Error(`${(err as Error).message}\nsync sheet: ${await page.getByTestId('sync-sheet').innerText()}`);
+      });
+
+      const checks = await query(`SELECT kind, skipped, skip_reason, passed, co2_ppm, slope_umol_mol_s FROM analyzer_check
+        WHERE updated_by = $1 AND at > now() - interval '2 hours' AND at < now() + interval '1 hour' ORDER BY kind`, [user.id]);
+      expect(checks.map((c) => [c['kind'], c['skipped']])).toEqual([
+        ['ambient', false], ['clock', true], ['leak', false], ['safety-ack', false], ['warm-up', false]]);
+      expect(checks.find((c) => c['kind'] === 'clock')!['skip_reason']).toBe('Analyzer display unreadable in full sun');
+      expect(checks.find((c) => c['kind'] === 'leak')).toMatchObject({ passed: true, slope_umol_mol_s: 0.02 });
+      expect(checks.find((c) => c['kind'] === 'ambient')!['co2_ppm']).toBe(421.5);
+
+      const visits = await query(`SELECT c.code, v.round, v.skipped, v.skip_reason, v.conditions FROM visit v JOIN collar c ON c.id = v.collar_id
+        WHERE v.updated_by = $1 AND v.round = 2 ORDER BY v.arrived_at`, [user.id]);
+      expect(visits.map((v) => [v['code'], v['skipped'], v['skip_reason']])).toEqual([
+        [first, false, null], [second, false, null], [third, true, 'Fallen tree across the plot']]);
+      expect((visits[0]['conditions'] as Record<string, unknown>)['rain24h']).toBe(true);
+
+      const sets = await query(`SELECT c.code, o.readings_cm, o.mean_cm, o.sd_cm FROM offset_set o JOIN collar c ON c.id = o.collar_id
+        JOIN visit v ON v.id = o.visit_id WHERE o.updated_by = $1 AND v.round = 2 ORDER BY o.taken_at`, [user.id]);
+      expect(sets.map((s) => [s['code'], s['readings_cm']])).toEqual([[first, [2.0, 2.1, 1.9, 5.0]], [second, [1.6, 1.7, 1.5, 1.6]]]);
+      expect(sets[0]['mean_cm']).toBeCloseTo(2.75, 10);
+      expect(sets[0]['sd_cm']).toBeCloseTo(1.5022, 4);
+
+      const probes = await query(`SELECT c.code, p.moisture_raw, p.moisture_kind, p.vwc_pct, p.probe_id, p.rod_length_cm, p.soil_temps
+        FROM probe_reading p JOIN collar c ON c.id = p.collar_id
+        JOIN visit v ON v.id = p.visit_id WHERE p.updated_by = $1 AND v.round = 2 ORDER BY p.taken_at`, [user.id]);
+      expect(probes.map((p) => [p['code'], p['moisture_kind'], p['moisture_raw'], p['probe_id'], p['rod_length_cm']])).toEqual([
+        [first, 'permittivity', 20, 'TDR-2', 12], [second, 'permittivity', 10, 'TDR-2', 12]]);
+      // The server's own Topp conversion agrees with what the device showed.
+      expect(probes[0]['vwc_pct']).toBeCloseTo(34.54, 2);
+      expect(probes[1]['vwc_pct']).toBeCloseTo(18.83, 2);
+
+      const [collar] = await query(`SELECT code, diameter_cm, height_cm, insertion_cm, latitude, longitude, accuracy_m, area_cm2 FROM collar WHERE id = $1`, [newCollarId]);
+      expect(collar).toMatchObject({ code: 'AH-NEW-1', diameter_cm: 20, height_cm: 10, insertion_cm: 5 });
+      expect(collar['latitude']).toBeCloseTo(latitude + 0.0004, 6);
+      expect(collar['longitude']).toBeCloseTo(longitude - 0.0003, 6);
+      const events = await query(`SELECT kind FROM collar_event WHERE collar_id = $1`, [newCollarId]);
+      expect(events).toEqual([{ kind: 'installed' }]);
+      const atts = await query(`SELECT owner_entity, media_type, size_bytes, sha256 FROM attachment WHERE owner_id = $1`, [newCollarId]);
+      expect(atts).toEqual([{ owner_entity: 'collar', media_type: 'image/jpeg', size_bytes: String(kept[0].size), sha256: kept[0].sha256 }]);
+    });
+    expect(axe).toEqual({ 'start of day': [], route: [], visit: [], map: [], install: [] });
+  });
+});
