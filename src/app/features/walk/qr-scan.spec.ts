@@ -1,9 +1,13 @@
 import { provideHttpClient } from '@angular/common/http';
+
+// The visit screen hosts the closure panel, whose logger reader starts a module Web Worker via
+// import.meta (not loadable under CommonJS jest); nothing here reads logger files.
+jest.mock('../closures/logger-reader', () => ({ readLoggerFile: jest.fn() }));
 import { provideHttpClientTesting } from '@angular/common/http/testing';
 import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
 import { TestBed } from '@angular/core/testing';
 import { MatButtonHarness } from '@angular/material/button/testing';
-import { Router, provideRouter } from '@angular/router';
+import { Router, provideRouter, withComponentInputBinding } from '@angular/router';
 import { RouterTestingHarness } from '@angular/router/testing';
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
@@ -92,7 +96,7 @@ describe('QR open path', () => {
   });
 
   it('when a tag address is opened directly (phone camera app), then Walk goes on to that collar\'s visit', async () => {
-    TestBed.configureTestingModule({ providers: [provideRouter([{ path: 'walk', children: WALK_ROUTES }]), provideHttpClient(), provideHttpClientTesting()] });
+    TestBed.configureTestingModule({ providers: [provideRouter([{ path: 'walk', children: WALK_ROUTES }], withComponentInputBinding()), provideHttpClient(), provideHttpClientTesting()] });
     const harness = await RouterTestingHarness.create();
     await harness.navigateByUrl(`/walk/collars/${TAG_COLLAR_ID.toUpperCase()}`);
     await until(() => TestBed.inject(Router).url === `/walk/visit/${TAG_COLLAR_ID}`, 'the redirect');

@@ -1,4 +1,8 @@
 import { provideHttpClient } from '@angular/common/http';
+
+// The visit screen hosts the closure panel, whose logger reader starts a module Web Worker via
+// import.meta (not loadable under CommonJS jest); nothing here reads logger files.
+jest.mock('../closures/logger-reader', () => ({ readLoggerFile: jest.fn() }));
 import { provideHttpClientTesting } from '@angular/common/http/testing';
 import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
 import { TestBed } from '@angular/core/testing';
