@@ -1,0 +1,76 @@
+import { provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
+import { TestBed } from '@angular/core/testing';
+import { MatSelectHarness } from '@angular/material/select/testing';
+import { MatSortHarness } from '@angular/material/sort/testing';
+import { MatTableHarness } from '@angular/material/table/testing';
+import { AnalyzerChecks, siteTime } from './analyzer-checks';
+
+const SITE = '0b5e7d2c-1111-4a4a-8a8a-000000000001';
+const A1 = { id: 'a0000000-0000-4000-8000-000000000001', rev: 1, siteId: SITE, name: 'Field unit 1', serial: 'FU-0193' };
+const A2 = { id: 'a0000000-0000-4000-8000-000000000002', rev: 1, siteId: SITE, name: 'Field unit 2', serial: '' };
+const ASH = 'u0000000-0000-4000-8000-000000000007';
+const check = (n: number, fields: Record<string, unknown>) => ({
+  id: `c0000000-0000-4000-8000-00000000000${n}`, rev: 1, siteId: SITE, analyzerId: A1.id, skipped: false, skipReason: null, passed: null,
+  updatedBy: ASH, ...fields,
+});
+const A1_CHECKS = [
+  check(1, { kind: 'leak', at: '2026-05-04T05:10:00.000Z', passed: true }),
+  check(2, { kind: 'calibration', at: '2026-05-06T04:55:00.000Z', skipped: true, skipReason: 'Span gas bottle empty' }),
+  check(3, { kind: 'ambient', at: '2026-05-05T05:02:00.000Z', passed: false, updatedBy: 'u0000000-0000-4000-8000-000000000099' }),
+];
+
+async function checksOf() {
+  TestBed.configureTestingModule({ imports: [AnalyzerChecks], providers: [provideHttpClient(), provideHttpClientTesting()] });
+  const fixture = TestBed.createComponent(AnalyzerChecks);
+  fixture.componentRef.setInput('siteId', SITE);
+  fixture.componentRef.setInput('analyzers', [A1, A2]);
+  fixture.componentRef.setInput('timeZone', 'Europe/Berlin');
+  fixture.detectChanges();
+  const backend = TestBed.inject(HttpTestingController);
+  backend.expectOne('/api/users').flush({ items: [{ id: ASH, email: 'r@example.org', displayName: 'Rowan Ashby', roles: ['crew'], siteIds: [SITE] }] });
+  const req = backend.expectOne((r) => r.url === '/api/analyzer-checks');
+  expect([req.request.params.get('analyzerId'), req.request.params.get('siteId')]).toEqual([A1.id, SITE]);
+  req.flush({ items: A1_CHECKS, total: 3, limit: 1000, offset: 0 });
+  await new Promise((r) => setTimeout(r, 0));
+  await fixture.whenStable();
+  const loader = TestbedHarnessEnvironment.loader(fixture);
+  return { fixture, backend, loader, grid: await loader.getHarness(MatTableHarness) };
+}
+
+describe('AnalyzerChecks', () => {
+  it('when an analyzer has checks, then each shows kind, site-local time, who and the result, newest first', async () => {
+    const { grid } = await checksOf();
+    expect(await grid.getCellTextByIndex()).toEqual([
+      ['Calibration', '2026-05-06 06:55', 'Rowan Ashby', 'Skipped: Span gas bottle empty'],
+      ['Ambient reading', '2026-05-05 07:02', 'a former user', 'Failed'],
+      ['Leak check', '2026-05-04 07:10', 'Rowan Ashby', 'Passed'],
+    ]);
+  });
+
+  it('when the Check header is clicked, then rows sort by kind', async () => {
+    const { loader, grid } = await checksOf();
+    const [kind] = await (await loader.getHarness(MatSortHarness)).getSortHeaders();
+    await kind!.click();
+    expect((await grid.getCellTextByColumnName())['kind']!.text).toEqual(['Ambient reading', 'Calibration', 'Leak check']);
+  });
+
+  it('when another analyzer is chosen, then its own checks are asked for and an empty list says so', async () => {
+    const { fixture, backend, loader, grid } = await checksOf();
+    await (await loader.getHarness(MatSelectHarness)).clickOptions({ text: 'Field unit 2' });
+    const req = backend.expectOne((r) => r.url === '/api/analyzer-checks');
+    expect(req.request.params.get('analyzerId')).toBe(A2.id);
+    req.flush({ items: [], total: 0, limit: 1000, offset: 0 });
+    await new Promise((r) => setTimeout(r, 0));
+    await fixture.whenStable();
+    expect(await grid.getRows()).toHaveLength(0);
+    expect((fixture.nativeElement as HTMLElement).querySelector('.empty')!.textContent!.trim()).toBe('No checks recorded for this analyzer.');
+  });
+
+  it('when a time is shown, then it is the wall-clock time of the site, across the change to summer time', () => {
+    // Europe/Berlin moves from UTC+1 to UTC+2 at 01:00 UTC on 29 March 2026 (EU Directive 2000/84/EC: last Sunday of March).
+    expect(siteTime('2026-03-29T00:30:00Z', 'Europe/Berlin')).toBe('2026-03-29 01:30');
+    expect(siteTime('2026-03-29T01:30:00Z', 'Europe/Berlin')).toBe('2026-03-29 03:30');
+  });
+});

@@ -1,0 +1,145 @@
+import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, viewChild } from '@angular/core';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatPaginator, MatPaginatorModule } from '@angular/material/paginator';
+import { MatSelectModule } from '@angular/material/select';
+import { MatSort, MatSortModule } from '@angular/material/sort';
+import { MatTableDataSource, MatTableModule } from '@angular/material/table';
+import { serverMessage } from '../../core/api/api-error';
+import { SetupApi, type Rec } from './setup-api';
+
+const KIND_LABEL: Record<string, string> = {
+  calibration: 'Calibration', leak: 'Leak check', ambient: 'Ambient reading', clock: 'Clock', 'warm-up': 'Warm-up', 'safety-ack': 'Safety note read',
+};
+
+export interface CheckRow {
+  id: string;
+  kind: string;
+  at: string;
+  when: string;
+  who: string;
+  outcome: string;
+}
+
+/** What a check came to, in words: a skipped check says why; a check with no verdict says so. */
+export function checkOutcome(c: Rec): string {
+  if (c['skipped']) return `Skipped: ${String(c['skipReason'] ?? '').trim() || 'no reason given'}`;
+  if (c['passed'] === true) return 'Passed';
+  if (c['passed'] === false) return 'Failed';
+  return 'Recorded (no pass/fail)';
+}
+
+/** Local time of the site, so a start-of-day check reads as the crew saw it. */
+export function siteTime(iso: string, timeZone: string): string {
+  const parts = new Intl.DateTimeFormat('en-CA', {
+    timeZone, year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', hourCycle: 'h23',
+  }).formatToParts(new Date(iso));
+  const p = Object.fromEntries(parts.map((x) => [x.type, x.value]));
+  return `${p['year']}-${p['month']}-${p['day']} ${p['hour']}:${p['minute']}`;
+}
+
+/** An analyzer's check records (calibration, leak, ambient, clock, warm-up): kind, when, who, and the result. */
+@Component({
+  selector: 'fw-analyzer-checks',
+  imports: [MatFormFieldModule, MatSelectModule, MatTableModule, MatSortModule, MatPaginatorModule],
+  template: `
+    <section aria-labelledby="checks-heading">
+      <h3 id="checks-heading">Analyzer checks</h3>
+      <mat-form-field subscriptSizing="dynamic">
+        <mat-label>Checks of analyzer</mat-label>
+        <mat-select [value]="analyzerId()" (valueChange)="analyzerId.set($event)">
+          @for (a of analyzers(); track a.id) {
+            <mat-option [value]="a.id">{{ a['name'] }}{{ a['serial'] ? ' · ' + a['serial'] : '' }}</mat-option>
+          }
+        </mat-select>
+      </mat-form-field>
+      <table mat-table [dataSource]="data" matSort matSortActive="at" matSortDirection="desc" aria-label="Check records of the analyzer">
+        <ng-container matColumnDef="kind">
+          <th mat-header-cell *matHeaderCellDef mat-sort-header>Check</th>
+          <td mat-cell *matCellDef="let c">{{ c.kind }}</td>
+        </ng-container>
+        <ng-container matColumnDef="at">
+          <th mat-header-cell *matHeaderCellDef mat-sort-header>Time ({{ timeZone() }})</th>
+          <td mat-cell *matCellDef="let c">{{ c.when }}</td>
+        </ng-container>
+        <ng-container matColumnDef="who">
+          <th mat-header-cell *matHeaderCellDef mat-sort-header>By</th>
+          <td mat-cell *matCellDef="let c">{{ c.who }}</td>
+        </ng-container>
+        <ng-container matColumnDef="outcome">
+          <th mat-header-cell *matHeaderCellDef mat-sort-header>Result</th>
+          <td mat-cell *matCellDef="let c">{{ c.outcome }}</td>
+        </ng-container>
+        <tr mat-header-row *matHeaderRowDef="columns"></tr>
+        <tr mat-row *matRowDef="let row; columns: columns"></tr>
+        <tr class="mat-mdc-row" *matNoDataRow>
+          <td class="mat-mdc-cell empty" [attr.colspan]="columns.length">{{ analyzerId() ? 'No checks recorded for this analyzer.' : 'Choose an analyzer.' }}</td>
+        </tr>
+      </table>
+      <mat-paginator [pageSize]="25" [pageSizeOptions]="[25, 100]" aria-label="Pages of analyzer checks" />
+      <p role="status">{{ message() }}</p>
+    </section>
+  `,
+  styles: `table { width: 100%; } .empty { padding: 1rem; }`,
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class AnalyzerChecks {
+  private readonly api = inject(SetupApi);
+  readonly siteId = input.required<string>();
+  readonly analyzers = input<Rec[]>([]);
+  readonly timeZone = input('UTC');
+
+  protected readonly columns = ['kind', 'at', 'who', 'outcome'];
+  protected readonly analyzerId = signal<string | null>(null);
+  protected readonly checks = signal<Rec[]>([]);
+  protected readonly message = signal('');
+  private readonly names = signal<Map<string, string>>(new Map());
+  protected readonly data = new MatTableDataSource<CheckRow>([]);
+  private readonly sort = viewChild(MatSort);
+  private readonly paginator = viewChild(MatPaginator);
+  private readonly rows = computed<CheckRow[]>(() => this.checks().map((c) => ({
+    id: c.id, kind: KIND_LABEL[String(c['kind'])] ?? String(c['kind']), at: String(c['at']), when: siteTime(String(c['at']), this.timeZone()),
+    who: this.names().get(String(c['updatedBy'])) ?? (c['updatedBy'] ? 'a former user' : 'unknown'), outcome: checkOutcome(c),
+  })));
+
+  constructor() {
+    void this.loadNames();
+    // The first analyzer is shown until another is chosen.
+    effect(() => {
+      const list = this.analyzers();
+      if (!list.some((a) => a.id === this.analyzerId())) this.analyzerId.set(list[0]?.id ?? null);
+    });
+    effect(() => {
+      const id = this.analyzerId();
+      void this.load(this.siteId(), id);
+    });
+    effect(() => {
+      this.data.data = this.rows();
+      this.data.sort = this.sort() ?? null;
+      this.data.paginator = this.paginator() ?? null;
+    });
+    // ISO-8601 UTC strings sort as times.
+    this.data.sortingDataAccessor = (r, key) => (key === 'at' ? r.at : String(r[key as keyof CheckRow]).toLowerCase());
+  }
+
+  /** Names of who recorded each check; admins may list users, anyone else sees the check without a name. */
+  private async loadNames(): Promise<void> {
+    try {
+      this.names.set(new Map((await this.api.users()).map((u) => [u.id, u.displayName])));
+    } catch {
+      this.names.set(new Map());
+    }
+  }
+
+  private async load(siteId: string, analyzerId: string | null): Promise<void> {
+    if (!analyzerId) return this.checks.set([]);
+    try {
+      const checks = await this.api.list('analyzer-checks', { siteId, analyzerId });
+      if (this.analyzerId() !== analyzerId) return; // another analyzer was chosen meanwhile
+      this.checks.set(checks);
+      this.message.set('');
+    } catch (err) {
+      this.checks.set([]);
+      this.message.set(serverMessage(err, 'Could not load the checks'));
+    }
+  }
+}
