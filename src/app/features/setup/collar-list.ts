@@ -4,16 +4,18 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
 import { serverMessage } from '../../core/api/api-error';
 import { SetupApi, type Rec } from './setup-api';
 
 /**
- * A site's collars (possibly thousands) in a virtual-scroll list with a filter, and the
- * printable tag sheet (one QR code per collar that Walk opens) in A4 or Letter.
+ * A site's collars (possibly thousands) in a virtual-scroll list with a filter and each collar's
+ * own treatment (treatments applied to single collars), and the printable tag sheet (one QR code
+ * per collar that Walk opens) in A4 or Letter, for the whole site or one plot.
  */
 @Component({
   selector: 'fw-collar-list',
-  imports: [ScrollingModule, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatInputModule],
+  imports: [ScrollingModule, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatInputModule, MatSelectModule],
   template: `
     <section aria-labelledby="collars-heading">
       <h3 id="collars-heading">Collars ({{ collars().length }})</h3>
@@ -22,17 +24,39 @@ import { SetupApi, type Rec } from './setup-api';
           <mat-button-toggle value="a4">A4</mat-button-toggle>
           <mat-button-toggle value="letter">Letter</mat-button-toggle>
         </mat-button-toggle-group>
+        <mat-form-field subscriptSizing="dynamic">
+          <mat-label>Tags of</mat-label>
+          <mat-select [value]="tagPlotId()" (valueChange)="tagPlotId.set($event)">
+            <mat-option [value]="null">All plots ({{ collars().length }} collars)</mat-option>
+            @for (p of plots(); track p.id) {
+              <mat-option [value]="p.id">Plot {{ p['code'] }} ({{ perPlot().get(p.id) ?? 0 }} collars)</mat-option>
+            }
+          </mat-select>
+        </mat-form-field>
         <a mat-flat-button [href]="tagUrl()" download data-testid="tag-sheet">Download tag sheet (PDF)</a>
       </div>
       <mat-form-field subscriptSizing="dynamic">
         <mat-label>Filter collars</mat-label>
         <input matInput (input)="filter.set($any($event.target).value.trim().toLowerCase())" />
       </mat-form-field>
-      <div class="row header" aria-hidden="true"><span>Code</span><span>Plot</span><span>Diameter (cm)</span><span>Status</span><span>Notes</span></div>
+      <div class="row header" aria-hidden="true"><span>Code</span><span>Plot</span><span>Diameter (cm)</span><span>Status</span><span>Collar treatment</span><span>Notes</span></div>
       <cdk-virtual-scroll-viewport itemSize="36" class="viewport" role="list" aria-label="Collars of the site">
         <div class="row" role="listitem" *cdkVirtualFor="let c of shown(); trackBy: byId">
           <span>{{ c['code'] }}</span><span>{{ plotCode(c) }}</span><span>{{ c['diameterCm'] ?? '' }}</span>
-          <span>{{ c['status'] }}</span><span class="notes">{{ c['notes'] }}</span>
+          <span>{{ c['status'] }}</span>
+          <span>
+            @if (collarTreatments().length) {
+              <select class="treatment" [attr.aria-label]="'Treatment of collar ' + c['code']" (change)="setTreatment(c, $any($event.target))">
+                <option value="" [selected]="!c['treatmentId']">(none)</option>
+                @for (t of collarTreatments(); track t.id) {
+                  <option [value]="t.id" [selected]="t.id === c['treatmentId']">{{ t['code'] }}</option>
+                }
+              </select>
+            } @else {
+              {{ treatmentCode(c) }}
+            }
+          </span>
+          <span class="notes">{{ c['notes'] }}</span>
         </div>
       </cdk-virtual-scroll-viewport>
       <p role="status">{{ message() }}</p>
@@ -41,8 +65,9 @@ import { SetupApi, type Rec } from './setup-api';
   styles: `
     .tags { display: flex; gap: 1rem; align-items: center; margin-block: .5rem 1rem; flex-wrap: wrap; }
     .viewport { height: 360px; border: 1px solid var(--mat-sys-outline-variant); border-radius: 8px; }
-    .row { display: grid; grid-template-columns: 8rem 6rem 8rem 6rem 1fr; gap: .5rem; height: 36px; align-items: center; padding-inline: .75rem; }
+    .row { display: grid; grid-template-columns: 8rem 6rem 8rem 6rem 9rem 1fr; gap: .5rem; height: 36px; align-items: center; padding-inline: .75rem; }
     .header { font-weight: 600; }
+    .treatment { font: inherit; padding: .1rem; max-width: 100%; }
     .notes { overflow: hidden; text-overflow: ellipsis; white-space: nowrap; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -51,17 +76,27 @@ export class CollarList {
   private readonly api = inject(SetupApi);
   readonly siteId = input.required<string>();
   readonly plots = input<Rec[]>([]);
+  readonly treatments = input<Rec[]>([]);
   readonly reloadToken = input(0);
 
   protected readonly collars = signal<Rec[]>([]);
   protected readonly filter = signal('');
   protected readonly paper = signal<'a4' | 'letter'>('a4');
   protected readonly message = signal('');
-  protected readonly tagUrl = computed(() => this.api.tagSheetUrl(this.siteId(), this.paper()));
+  protected readonly tagPlotId = signal<string | null>(null);
+  protected readonly tagUrl = computed(() => this.api.tagSheetUrl(this.siteId(), this.paper(), this.tagPlotId()));
+  protected readonly perPlot = computed(() => {
+    const n = new Map<string, number>();
+    for (const c of this.collars()) n.set(String(c['plotId']), (n.get(String(c['plotId'])) ?? 0) + 1);
+    return n;
+  });
+  /** Only treatments applied to single collars (e.g. trenched vs untrenched) belong on a collar. */
+  protected readonly collarTreatments = computed(() => this.treatments().filter((t) => t['level'] === 'collar'));
+  private readonly treatmentCodes = computed(() => new Map(this.treatments().map((t) => [t.id, String(t['code'])])));
   private readonly plotCodes = computed(() => new Map(this.plots().map((p) => [p.id, String(p['code'])])));
   protected readonly shown = computed(() => {
     const f = this.filter();
-    return f ? this.collars().filter((c) => `${c['code']} ${this.plotCode(c)} ${c['notes']}`.toLowerCase().includes(f)) : this.collars();
+    return f ? this.collars().filter((c) => `${c['code']} ${this.plotCode(c)} ${this.treatmentCode(c)} ${c['notes']}`.toLowerCase().includes(f)) : this.collars();
   });
 
   constructor() {
@@ -73,6 +108,21 @@ export class CollarList {
 
   protected plotCode(c: Rec): string {
     return this.plotCodes().get(String(c['plotId'])) ?? '';
+  }
+
+  protected treatmentCode(c: Rec): string {
+    return this.treatmentCodes().get(String(c['treatmentId'])) ?? '';
+  }
+
+  protected async setTreatment(c: Rec, select: HTMLSelectElement): Promise<void> {
+    try {
+      const saved = await this.api.update('collars', c.id, c.rev, { treatmentId: select.value || null });
+      this.collars.update((all) => all.map((x) => (x.id === saved.id ? saved : x)));
+      this.message.set(`Collar ${String(saved['code'])}: ${this.treatmentCode(saved) || 'no collar treatment'}`);
+    } catch (err) {
+      this.message.set(serverMessage(err, `Collar ${String(c['code'])} was not changed`));
+      select.value = String(c['treatmentId'] ?? ''); // back to what is stored
+    }
   }
 
   protected byId(_: number, c: Rec): string {

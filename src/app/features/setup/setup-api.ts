@@ -66,8 +66,9 @@ export class SetupApi {
     return firstValueFrom(this.http.post<{ created: number }>(`/api/sites/${siteId}/collar-import/commit`, { csv, mapping }));
   }
 
-  tagSheetUrl(siteId: string, paper: 'a4' | 'letter'): string {
-    return `/api/sites/${siteId}/collar-tags.pdf?paper=${paper}`;
+  /** One plot's tags only when plotId is given: large sites print a plot at a time. */
+  tagSheetUrl(siteId: string, paper: 'a4' | 'letter', plotId: string | null = null): string {
+    return `/api/sites/${siteId}/collar-tags.pdf?paper=${paper}${plotId ? `&plotId=${encodeURIComponent(plotId)}` : ''}`;
   }
 
   profileUsage(id: string): Promise<{ closures: number }> {

@@ -6,9 +6,11 @@ import { MatTabsModule } from '@angular/material/tabs';
 import { AuthStore } from '../../core/auth/auth-store';
 import { SiteChoice } from '../../core/auth/site-choice';
 import { serverMessage } from '../../core/api/api-error';
+import { AnalyzerChecks } from './analyzer-checks';
 import { CollarImport } from './collar-import';
 import { CollarList } from './collar-list';
 import { Members } from './members';
+import { OutlineEditor } from './outline-editor';
 import { ProfileVersion } from './profile-version';
 import type { ColumnDef } from './record-fields';
 import { RecordTable } from './record-table';
@@ -20,7 +22,7 @@ import { SiteForm } from './site-form';
 @Component({
   selector: 'fw-setup',
   imports: [MatTabsModule, MatFormFieldModule, MatSelectModule, MatButtonModule, SiteForm, RecordTable, Members, ProfileVersion,
-    CollarImport, CollarList, RouteEditor],
+    CollarImport, CollarList, RouteEditor, OutlineEditor, AnalyzerChecks],
   templateUrl: './setup.html',
   styleUrl: './setup.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -39,6 +41,7 @@ export class Setup {
   protected readonly treatments = signal<Rec[]>([]);
   protected readonly plots = signal<Rec[]>([]);
   protected readonly profiles = signal<Rec[]>([]);
+  protected readonly analyzers = signal<Rec[]>([]);
   protected readonly collarsVersion = signal(0);
   protected readonly message = signal('');
 
@@ -93,14 +96,15 @@ export class Setup {
     }
   }
 
-  /** Lists the plot and profile tables choose from; each table loads its own rows as well. */
+  /** Lists the plot, profile, outline and check views choose from; each table loads its own rows as well. */
   protected async loadLayout(siteId: string): Promise<void> {
-    const [blocks, treatments, plots, profiles] = await Promise.all(
-      ['blocks', 'treatments', 'plots', 'chamber-profiles'].map((p) => this.api.list(p, { siteId }).catch(() => [] as Rec[])));
+    const [blocks, treatments, plots, profiles, analyzers] = await Promise.all(
+      ['blocks', 'treatments', 'plots', 'chamber-profiles', 'analyzers'].map((p) => this.api.list(p, { siteId }).catch(() => [] as Rec[])));
     this.blocks.set(blocks!);
     this.treatments.set(treatments!);
     this.plots.set(plots!);
     this.profiles.set(profiles!);
+    this.analyzers.set(analyzers!);
   }
 
   protected chooseSite(id: string): void {
