@@ -74,6 +74,23 @@ describe('Setup in Chromium', () => {
         const plot = await addRow(page, 'plots', { 'Plot code': code }, { Block: 'B1', Treatment: 'CTRL' });
         expect(plot.blockId).not.toBeNull();
       }
+
+      // P1's outline drawn on the map (three corners, closed), saved through PATCH /api/plots/:id.
+      await page.getByRole('combobox', { name: 'Plot to outline' }).click();
+      await page.getByRole('option', { name: 'P1', exact: true }).click();
+      const map = page.getByTestId('outline-map');
+      await map.scrollIntoViewIfNeeded();
+      const box = (await map.boundingBox())!;
+      for (const [fx, fy] of [[0.3, 0.3], [0.7, 0.3], [0.5, 0.7]]) await map.click({ position: { x: box.width * fx!, y: box.height * fy! } });
+      await page.getByRole('button', { name: 'Close outline' }).click();
+      const patched = page.waitForResponse((r) => r.url().includes('/api/plots/') && r.request().method() === 'PATCH');
+      await page.getByRole('button', { name: 'Save outline' }).click();
+      const outlined = (await (await patched).json()).record;
+      expect([outlined.code, outlined.outline.type, outlined.outline.coordinates[0].length]).toEqual(['P1', 'Polygon', 4]);
+      expect(outlined.outline.coordinates[0][3]).toEqual(outlined.outline.coordinates[0][0]);
+      await waitForText(page.getByTestId('outline-status'), 'Outline of P1 saved');
+      expect(JSON.parse(await page.getByRole('textbox', { name: 'Outline as GeoJSON' }).inputValue())).toEqual(outlined.outline);
+      expect(await map.locator('.leaflet-tile').count()).toBe(0); // no tile source on this site: nothing fetched
       await noSeriousProblems(page, 'plots and treatments');
 
       // The crew user becomes a member.
