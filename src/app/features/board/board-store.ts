@@ -92,6 +92,8 @@ export class BoardStore {
         this.campaignId.set((campaigns.find((c) => !c.locked) ?? campaigns[0])?.id ?? null);
       }
       await this.loadProgress();
+      // Refresh re-reads the collars too: new ones belong on the map and in the rows.
+      this.collarsFor = null;
       void this.ensureCollars();
     } catch (err) {
       this.problem.set(serverMessage(err, 'The Board could not be loaded'));
