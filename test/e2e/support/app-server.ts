@@ -2,6 +2,8 @@ import { ChildProcess, spawn } from 'node:child_process';
 import { existsSync } from 'node:fs';
 import { createServer } from 'node:net';
 import path from 'node:path';
+import type { ObjectStorageConfig } from '../../../server/attachments/object-storage';
+import { startFakeS3 } from '../../support/fake-s3';
 import { resetDatabase } from '../../support/reset-database';
 
 const ROOT = path.resolve(__dirname, '../../..');
@@ -10,6 +12,8 @@ const APP_INDEX = path.join(ROOT, 'dist/app/browser/index.html');
 
 export interface RunningServer {
   baseUrl: string;
+  /** The fake S3 the server keeps files in (started in this test process), for reading objects back. */
+  storage: ObjectStorageConfig;
   stop(): Promise<void>;
 }
 
@@ -52,6 +56,8 @@ export async function startAppServer(): Promise<RunningServer> {
     if (!existsSync(file)) throw new Error(`${path.relative(ROOT, file)} is missing: run \`npm run build\` first`);
   }
   await resetDatabase(databaseUrl);
+  // Files (logger exports, photos) go to a fake S3 on loopback that lives as long as the server.
+  const s3 = await startFakeS3();
   const port = await freePort();
   let output = '';
   const child = spawn(process.execPath, [SERVER_MAIN], {
@@ -63,6 +69,11 @@ export async function startAppServer(): Promise<RunningServer> {
       DATABASE_URL: databaseUrl,
       STATIC_DIR: path.dirname(APP_INDEX),
       NODE_ENV: 'production',
+      S3_ENDPOINT: s3.config.endpoint,
+      S3_BUCKET: s3.config.bucket,
+      S3_REGION: s3.config.region,
+      S3_ACCESS_KEY: s3.config.accessKeyId,
+      S3_SECRET_KEY: s3.config.secretAccessKey,
     },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
@@ -76,19 +87,25 @@ export async function startAppServer(): Promise<RunningServer> {
     await waitForHealth(baseUrl, child, () => output);
   } catch (err) {
     child.kill('SIGKILL');
+    await s3.stop();
     throw err;
   }
+  const stopServer = () =>
+    new Promise<void>((resolve) => {
+      if (child.exitCode !== null) return resolve();
+      const timer = setTimeout(() => child.kill('SIGKILL'), 5000);
+      child.once('exit', () => {
+        clearTimeout(timer);
+        resolve();
+      });
+      child.kill('SIGTERM');
+    });
   return {
     baseUrl,
-    stop: () =>
-      new Promise<void>((resolve) => {
-        if (child.exitCode !== null) return resolve();
-        const timer = setTimeout(() => child.kill('SIGKILL'), 5000);
-        child.once('exit', () => {
-          clearTimeout(timer);
-          resolve();
-        });
-        child.kill('SIGTERM');
-      }),
+    storage: s3.config,
+    stop: async () => {
+      await stopServer();
+      await s3.stop();
+    },
   };
 }
