@@ -5,6 +5,7 @@ import type { RouteRegistry } from '../core/route-registry';
 import { parse } from '../core/validate';
 import { guardWrites } from '../records/write-guards';
 import { importRequestSchema } from './collar-csv';
+import { guardCollarTreatment } from './collar-treatment-guard';
 import { commitCollarImport, previewCollarImport } from './collar-import';
 import { collarTagSheet, tagQuerySchema } from './collar-tags-pdf';
 import { createProfileVersion, guardProfileWrite, newVersionSchema, previewSchema, profileUsage, recomputePreview } from './profile-versions';
@@ -20,10 +21,11 @@ const origin = (req: Request) => `${req.protocol}://${req.get('host') ?? 'localh
 /**
  * Setup work that is more than one record: collar import (preview, then all-or-nothing commit),
  * the printable tag sheet, and chamber-profile versions. Registered before the generic record
- * routes. Profile edits and deletes are guarded in the writer (guardProfileWrite), on every path.
+ * routes. Profile edits and deletes, and a collar's own treatment, are guarded in the writer, on every path.
  */
 export function registerSetupRoutes(r: RouteRegistry, ds: DataSource): void {
   guardWrites('chamberProfile', guardProfileWrite);
+  guardWrites('collar', guardCollarTreatment);
   r.add('post', '/api/sites/:siteId/collar-import/preview', SITE_KEEPERS, async (req) => {
     const { siteId } = parse(siteParam, req.params);
     return previewCollarImport(ds, req.user!, siteId, parse(importRequestSchema, req.body, 'The import request is not valid'));
