@@ -105,12 +105,17 @@ export function splitByGaps(samples: readonly LoggerSample[], gapS?: number): Sp
   return { method: 'gaps', pieces, outside: 0 };
 }
 
-/** The samples inside each tap window (a continuous log: the chamber taps say where closures are). */
-export function splitByTaps(samples: readonly LoggerSample[], taps: readonly TapWindow[]): SplitResult {
+/**
+ * The samples inside each tap window (a continuous log: the chamber taps say where closures are).
+ * `slackS` widens each window on both sides: an estimated clock offset is only known to within
+ * the sampling step, and a sample half a step outside still belongs to the closure.
+ */
+export function splitByTaps(samples: readonly LoggerSample[], taps: readonly TapWindow[], slackS = 0): SplitResult {
   const pieces: LoggerPiece[] = [];
   let inside = 0;
+  const slack = slackS * 1000;
   for (const tap of [...taps].sort((a, b) => a.onMs - b.onMs)) {
-    const run = samples.filter((s) => s.atMs !== null && s.atMs >= tap.onMs && s.atMs <= tap.offMs);
+    const run = samples.filter((s) => s.atMs !== null && s.atMs >= tap.onMs - slack && s.atMs <= tap.offMs + slack);
     inside += run.length;
     if (run.length) pieces.push(piece(tap.key, run));
   }
@@ -118,9 +123,9 @@ export function splitByTaps(samples: readonly LoggerSample[], taps: readonly Tap
 }
 
 /** The method the issue asks for: a closure-id column first, else taps (timestamp files only), else gaps. */
-export function splitClosures(samples: readonly LoggerSample[], opts: { taps?: readonly TapWindow[]; gapS?: number } = {}): SplitResult {
+export function splitClosures(samples: readonly LoggerSample[], opts: { taps?: readonly TapWindow[]; gapS?: number; slackS?: number } = {}): SplitResult {
   if (samples.some((s) => s.closureId !== null)) return splitByClosureId(samples);
-  if (opts.taps?.length && samples.every((s) => s.atMs !== null)) return splitByTaps(samples, opts.taps);
+  if (opts.taps?.length && samples.every((s) => s.atMs !== null)) return splitByTaps(samples, opts.taps, opts.slackS);
   return splitByGaps(samples, opts.gapS);
 }
 
