@@ -27,9 +27,9 @@ import { SetupApi, type Rec } from './setup-api';
         <mat-form-field subscriptSizing="dynamic">
           <mat-label>Tags of</mat-label>
           <mat-select [value]="tagPlotId()" (valueChange)="tagPlotId.set($event)">
-            <mat-option [value]="null">All plots ({{ collars().length }} collars)</mat-option>
+            <mat-option [value]="null">All plots ({{ count(collars().length) }})</mat-option>
             @for (p of plots(); track p.id) {
-              <mat-option [value]="p.id">Plot {{ p['code'] }} ({{ perPlot().get(p.id) ?? 0 }} collars)</mat-option>
+              <mat-option [value]="p.id">Plot {{ p['code'] }} ({{ count(perPlot().get(p.id) ?? 0) }})</mat-option>
             }
           </mat-select>
         </mat-form-field>
@@ -108,6 +108,10 @@ export class CollarList {
 
   protected plotCode(c: Rec): string {
     return this.plotCodes().get(String(c['plotId'])) ?? '';
+  }
+
+  protected count(n: number): string {
+    return `${n} collar${n === 1 ? '' : 's'}`;
   }
 
   protected treatmentCode(c: Rec): string {
