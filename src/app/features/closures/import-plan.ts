@@ -1,4 +1,4 @@
-import type { LoggerPiece, PieceMatch, VisitSlot } from '../../../../shared/logger';
+import type { LoggerPiece, PieceMatch, TapWindow, VisitSlot } from '../../../../shared/logger';
 import type { FluxDb, LocalRecord } from '../../core/db/db-schema';
 
 /** A visit of the round with its collar code and the closures still waiting for a series. */
@@ -33,6 +33,20 @@ export function visitSlots(visits: readonly RoundVisit[]): VisitSlot[] {
     arrivedMs: Date.parse(String(v.visit['arrivedAt'])),
     taps: v.waiting.map((c) => ({ key: c.id, onMs: Date.parse(String(c['chamberOnAt'])), offMs: c['chamberOffAt'] ? Date.parse(String(c['chamberOffAt'])) : null })),
   }));
+}
+
+/**
+ * The taps as windows on the logger's clock (phone time + offset). A tap never closed with
+ * "chamber off" runs until the next tap, at most `openS` (common practice: closures last minutes).
+ */
+export function tapWindows(visits: readonly VisitSlot[], offsetS: number, openS = 600): TapWindow[] {
+  const taps = visits.flatMap((v) => v.taps).sort((a, b) => a.onMs - b.onMs);
+  const shift = offsetS * 1000;
+  return taps.map((t, i) => {
+    const next = taps[i + 1]?.onMs ?? Infinity;
+    const off = t.offMs ?? Math.min(next - 1, t.onMs + openS * 1000);
+    return { key: t.key, onMs: t.onMs + shift, offMs: off + shift };
+  });
 }
 
 /** The matcher's answer as a starting assignment; ambiguous and unmatched pieces wait for the crew. */

@@ -5,7 +5,8 @@ import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/materia
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import {
   CO2_UNITS, ELAPSED_UNITS, H2O_UNITS, PRESSURE_UNITS, TEMP_UNITS, TIMESTAMP_FORMATS, estimateClockOffset, guessLayout,
-  matchPiecesToVisits, pieceSeries, splitClosures, suggestMapping, type LoggerMapping, type LoggerRead, type PieceMatch, type SplitResult, type TextLayout,
+  matchPiecesToVisits, medianStepS, pieceSeries, splitByTaps, splitClosures, suggestMapping,
+  type LoggerMapping, type LoggerRead, type PieceMatch, type SplitMethod, type SplitResult, type TextLayout,
 } from '../../../../shared/logger';
 import { TYPICAL_SETTLE_TIME_S } from '../../../../shared/flux';
 import { DeviceDb } from '../../core/db/device-db';
@@ -13,7 +14,7 @@ import { DeviceMemory } from '../../core/device/device-memory';
 import { ClosureWrites, textMediaType } from './closure-writes';
 import { localDay } from './closure-flux';
 import {
-  assignmentProblems, assignmentValue, defaultAssignments, loadRoundVisits, parseAssignment, visitSlots, type Assignment, type RoundVisit,
+  assignmentProblems, assignmentValue, defaultAssignments, loadRoundVisits, parseAssignment, tapWindows, visitSlots, type Assignment, type RoundVisit,
 } from './import-plan';
 import { readLoggerFile } from './logger-reader';
 
@@ -56,6 +57,11 @@ export class LoggerImport {
   protected mapping: LoggerMapping | null = null;
   protected readonly read = signal<LoggerRead | null>(null);
   protected readonly split = signal<SplitResult | null>(null);
+  /** How the file is cut into closures; the crew may switch between taps and gaps. */
+  protected readonly method = signal<SplitMethod>('gaps');
+  protected readonly methods = signal<SplitMethod[]>([]);
+  /** The split by the closure id column or by gaps, computed once per read. */
+  private ownSplit: SplitResult | null = null;
   protected readonly visits = signal<RoundVisit[]>([]);
   protected readonly offsetS = signal(0);
   protected readonly offsetSources = signal<{ check: number | null; estimate: number | null; pairs: number }>({ check: null, estimate: null, pairs: 0 });
@@ -119,16 +125,23 @@ export class LoggerImport {
       this.read.set(read);
       const visits = await this.deviceDb.run((db) => loadRoundVisits(db, this.data.campaignId, this.data.round));
       this.visits.set(visits);
-      const taps = visitSlots(visits).flatMap((v) => v.taps);
-      const split = splitClosures(read.samples, { taps: [] });
-      this.split.set(split);
-      const est = split.pieces.every((p) => p.startMs !== null)
-        ? estimateClockOffset(taps.map((t) => ({ key: t.key, startMs: t.onMs, endMs: t.offMs })), split.pieces.map((p) => ({ key: p.key, startMs: p.startMs!, endMs: p.endMs })))
+      const slots = visitSlots(visits);
+      const taps = slots.flatMap((v) => v.taps);
+      // Closure id column, else taps, else gaps. The taps need the clock offset first: the day's
+      // clock check, else an estimate from the taps against the closures the gaps show.
+      const own = splitClosures(read.samples);
+      this.ownSplit = own;
+      const timed = read.samples.length > 0 && read.samples.every((s) => s.atMs !== null);
+      const est = own.method === 'gaps' && timed
+        ? estimateClockOffset(taps.map((t) => ({ key: t.key, startMs: t.onMs, endMs: t.offMs })), own.pieces.map((p) => ({ key: p.key, startMs: p.startMs!, endMs: p.endMs })))
         : null;
-      const check = await this.clockCheck(split);
+      const check = timed ? await this.clockCheck(read.samples[0].atMs!) : null;
       this.offsetSources.set({ check, estimate: est?.offsetS ?? null, pairs: est?.pairs.length ?? 0 });
       this.offsetS.set(check ?? est?.offsetS ?? 0);
-      this.assignments.set(defaultAssignments(this.matches()));
+      const byTaps = own.method === 'gaps' && timed && taps.length > 0;
+      this.methods.set(own.method === 'closureId' ? ['closureId'] : byTaps ? ['taps', 'gaps'] : ['gaps']);
+      this.method.set(this.methods()[0]);
+      this.resplit();
       this.step.set('review');
     } catch (err) {
       this.error.set(err instanceof Error ? err.message : String(err));
@@ -137,10 +150,9 @@ export class LoggerImport {
   }
 
   /** The analyzer's clock offset from the start-of-day check on the file's day, when one was taken. */
-  private async clockCheck(split: SplitResult): Promise<number | null> {
-    const first = split.pieces[0]?.startMs;
-    if (!this.data.analyzerId || first == null) return null;
-    const day = localDay(new Date(first).toISOString(), this.timeZone);
+  private async clockCheck(firstMs: number): Promise<number | null> {
+    if (!this.data.analyzerId) return null;
+    const day = localDay(new Date(firstMs).toISOString(), this.timeZone);
     const checks = await this.deviceDb.run((db) => db.records('analyzerCheck').where('siteId').equals(this.data.siteId)
       .filter((c) => !c.deleted && c['kind'] === 'clock' && c['analyzerId'] === this.data.analyzerId && typeof c['clockOffsetS'] === 'number').toArray());
     const today = checks.filter((c) => localDay(String(c['at']), this.timeZone) === day).sort((a, b) => String(b['at']).localeCompare(String(a['at'])));
@@ -149,6 +161,24 @@ export class LoggerImport {
 
   protected changeOffset(v: number): void {
     this.offsetS.set(Number.isFinite(v) ? v : 0);
+    this.resplit();
+  }
+
+  protected changeMethod(m: SplitMethod): void {
+    this.method.set(m);
+    this.resplit();
+  }
+
+  /** The pieces for the chosen method and offset (the taps move with the offset), then a fresh matching. */
+  private resplit(): void {
+    const read = this.read();
+    if (!read || !this.ownSplit) return;
+    if (this.method() === 'taps') {
+      const windows = tapWindows(visitSlots(this.visits()), this.offsetS());
+      this.split.set(splitByTaps(read.samples, windows, medianStepS(read.samples) / 2));
+    } else {
+      this.split.set(this.ownSplit);
+    }
     this.assignments.set(defaultAssignments(this.matches()));
   }
 
