@@ -12,8 +12,11 @@ export interface SpotInputs {
   /** The collar's live offset sets (superseded ones left out). */
   offsetSets: LocalRecord[];
   analyzer: LocalRecord | null;
-  /** The day's ambient reading (ppm) from the start-of-day check, if taken. */
-  ambientPpm: number | null;
+  /**
+   * Ambient CO2 (ppm) by the site's local day (YYYY-MM-DD): the latest ambient check of that day.
+   * A closure is compared with its own day's reading, not today's (an import may come days later).
+   */
+  ambientPpmByDay: Readonly<Record<string, number>>;
 }
 
 export interface SpotResult {
@@ -53,8 +56,9 @@ export function fluxOnTheSpot(closure: LocalRecord, inp: SpotInputs): SpotResult
   const pressureIsDefault = !has(series.pressureKpa);
   const elevation = inp.site?.['elevationM'];
   const first = series.co2Ppm.find((v) => typeof v === 'number') ?? null;
+  const ambientPpm = inp.ambientPpmByDay[day] ?? null;
   const base = { volumeCm3: volume.ok ? volume.value.volumeCm3 : null, pressureIsDefault,
-    startAboveAmbientPpm: first !== null && inp.ambientPpm !== null ? first - inp.ambientPpm : null };
+    startAboveAmbientPpm: first !== null && ambientPpm !== null ? first - ambientPpm : null };
   const refuse = (error: string): SpotResult => ({ ...base, fit: { linear: null, exponential: null, quadratic: null, exponentialRejectedReason: null,
     selected: null, flags: ['invalid-input'], error, window: null, minDetectableFluxUmolM2S: null, fluxPerSlope: null } });
   if (!volume.ok) return refuse(volume.error);
@@ -63,7 +67,7 @@ export function fluxOnTheSpot(closure: LocalRecord, inp: SpotInputs): SpotResult
     tS: series.tS, co2Ppm: series.co2Ppm, h2oMmolMol: series.h2oMmolMol ?? null,
     pressureKpa: pressureIsDefault ? (typeof elevation === 'number' ? pressureFromElevationKpa(elevation) : NaN) : series.pressureKpa!,
     tempC: series.tempC, volumeCm3: volume.value.volumeCm3, areaCm2: volume.value.areaCm2, settleS: Number(closure['settleS']),
-    ambientPpm: inp.ambientPpm, ambientMarginPpm: Number(inp.site?.['ambientMarginPpm'] ?? 100),
+    ambientPpm, ambientMarginPpm: Number(inp.site?.['ambientMarginPpm'] ?? 100),
     precisionPpm: typeof inp.analyzer?.['precisionPpm'] === 'number' ? inp.analyzer['precisionPpm'] : undefined,
     pressureIsDefault, offsetAfter: volume.value.flags.includes('offset-after'),
   });

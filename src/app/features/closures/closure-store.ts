@@ -15,25 +15,34 @@ export interface ClosureScene {
 
 const live = (r: LocalRecord) => !r.deleted;
 
-/** The day's ambient reading: the latest ambient check on the closure's local day. */
-export async function dayAmbientPpm(db: FluxDb, siteId: string, timeZone: string, day: string): Promise<number | null> {
-  const checks = await db.records('analyzerCheck').where('siteId').equals(siteId)
-    .filter((c) => live(c) && c['kind'] === 'ambient' && !c['skipped'] && typeof c['co2Ppm'] === 'number').toArray();
-  const today = checks.filter((c) => localDay(String(c['at']), timeZone) === day).sort((a, b) => String(b['at']).localeCompare(String(a['at'])));
-  return today.length ? Number(today[0]['co2Ppm']) : null;
+/** Ambient readings by local day: the latest usable ambient check of each day (pure, for the spec). */
+export function ambientByDay(checks: readonly LocalRecord[], timeZone: string): Record<string, number> {
+  const out: Record<string, number> = {};
+  const latest: Record<string, string> = {};
+  for (const c of checks) {
+    if (!live(c) || c['kind'] !== 'ambient' || c['skipped'] || typeof c['co2Ppm'] !== 'number') continue;
+    const at = String(c['at']);
+    const day = localDay(at, timeZone);
+    if (latest[day] === undefined || at > latest[day]) {
+      latest[day] = at;
+      out[day] = c['co2Ppm'];
+    }
+  }
+  return out;
 }
 
 export async function loadScene(db: FluxDb, p: { collarId: string; campaignId: string | null; visitId: string | null; analyzerId: string | null }): Promise<ClosureScene | null> {
   const collar = await db.records('collar').get(p.collarId);
   if (!collar) return null;
   const siteId = String(collar['siteId']);
-  const [site, profiles, sets, closures, analyzer, campaign] = await Promise.all([
+  const [site, profiles, sets, closures, analyzer, campaign, checks] = await Promise.all([
     db.records('site').get(siteId),
     db.records('chamberProfile').where('siteId').equals(siteId).filter(live).toArray(),
     db.records('offsetSet').where('collarId').equals(p.collarId).filter(live).toArray(),
     db.records('closure').where('collarId').equals(p.collarId).filter(live).toArray(),
     p.analyzerId ? db.records('analyzer').get(p.analyzerId) : Promise.resolve(undefined),
     p.campaignId ? db.records('campaign').get(p.campaignId) : Promise.resolve(undefined),
+    db.records('analyzerCheck').where('siteId').equals(siteId).filter((c) => c['kind'] === 'ambient').toArray(),
   ]);
   const superseded = new Set(sets.map((s) => s['supersedesId']).filter(Boolean));
   const timeZone = String(site?.['timezone'] ?? 'UTC');
@@ -48,7 +57,7 @@ export async function loadScene(db: FluxDb, p: { collarId: string; campaignId: s
     dueClosures: Number(campaign?.['dueClosures'] ?? 1),
     inputs: {
       site: site ?? null, collar, profiles, offsetSets: sets.filter((s) => !superseded.has(s.id)), analyzer: analyzer ?? null,
-      ambientPpm: await dayAmbientPpm(db, siteId, timeZone, localDay(new Date().toISOString(), timeZone)),
+      ambientPpmByDay: ambientByDay(checks, timeZone),
     },
   };
 }
