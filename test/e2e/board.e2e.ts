@@ -242,7 +242,7 @@ describe('Board in Chromium', () => {
     });
   });
 
-  it('when a campaign holds 5 000 collars, then the first rows show within 300 ms of the data and the DOM keeps fewer than 200 rows', async () => {
+  it('when a campaign holds 5 000 collars, then the first rows show within 300 ms of the data, the DOM keeps fewer than 200 rows and the map draws them within a second', async () => {
     const campaignId = await seedLargeCampaign(5000);
     const page = browsers[0].page;
     await withScreenshotOnFailure(page, 'board-5000', async () => {
@@ -292,6 +292,25 @@ describe('Board in Chromium', () => {
         .find((m) => m.markers >= 5000) ?? null, undefined, { timeout: 60_000 }).then((h) => h.jsonValue());
       const tabToMarkers = Date.now() - opened;
       console.log(`[board] map: ${draw!.markers} markers drawn in ${draw!.ms.toFixed(0)} ms (tab click to drawn: ${tabToMarkers} ms)`);
+      // One DOM element per marker took 1 819 ms here; the canvas layer 205 ms. A second is the budget on a shared machine.
+      expect(draw!.ms).toBeLessThanOrEqual(1000);
+      // Drawn as one canvas: find a pixel of the "due" shape's colour (#8a4b00) and click it; the popup names the collar and its state.
+      const spot = await page.locator('canvas.fw-collar-canvas').evaluate((c: HTMLCanvasElement) => {
+        const ctx = c.getContext('2d')!;
+        const img = ctx.getImageData(0, 0, c.width, c.height).data;
+        const box = c.getBoundingClientRect();
+        const ratio = c.width / box.width;
+        for (let i = 0; i < img.length; i += 4) {
+          if (img[i] === 0x8a && img[i + 1] === 0x4b && img[i + 2] === 0x00 && img[i + 3] === 255) {
+            const px = (i / 4) % c.width, py = Math.floor(i / 4 / c.width);
+            return { x: box.left + px / ratio, y: box.top + py / ratio };
+          }
+        }
+        return null;
+      });
+      expect(spot).not.toBeNull();
+      await page.mouse.click(spot!.x, spot!.y);
+      await page.locator('.leaflet-popup-content').getByText(/^BIG-\d{4}: due$/).waitFor();
       await noSeriousProblems(page, 'Board map with 5 000 collars');
     });
   });

@@ -4,6 +4,7 @@ import * as L from 'leaflet';
 import { serverMessage } from '../../core/api/api-error';
 import { BoardApi, type ProgressState, type Rec } from './board-api';
 import { BoardStore } from './board-store';
+import { CollarCanvasLayer, type CollarPoint } from './collar-canvas-layer';
 import { STATE_LABELS, shapeSvg } from './state-badge';
 
 const STATES: ProgressState[] = ['due', 'partial', 'complete', 'skipped'];
@@ -23,6 +24,7 @@ const STATES: ProgressState[] = ['due', 'partial', 'complete', 'skipped'];
         <li><span class="outline"></span> plot outline</li>
       </ul>
       <div #map class="map" role="region" aria-label="Map of collars by state"></div>
+      <p class="note">Each collar is drawn as its state's shape with its code beside it where there is room; zoom in for more codes, click a collar to name it.</p>
       <p class="note">{{ note() }}</p>
       <p role="alert" class="problem">{{ problem() }}</p>
     </section>
@@ -35,8 +37,6 @@ const STATES: ProgressState[] = ['due', 'partial', 'complete', 'skipped'];
     .note { font-size: .85rem; color: var(--mat-sys-on-surface-variant); }
     .problem { color: var(--mat-sys-error); }
     .visually-hidden { position: absolute; width: 1px; height: 1px; overflow: hidden; clip: rect(0 0 0 0); white-space: nowrap; }
-    :host ::ng-deep .fw-collar-icon { display: flex; align-items: center; gap: 2px; font: 600 11px/1 system-ui, sans-serif; color: #1b1b1b;
-      white-space: nowrap; text-shadow: 0 0 2px #fff, 0 0 2px #fff; }
     :host ::ng-deep .fw-plot-label { background: transparent; border: 0; box-shadow: none; font: 700 12px system-ui, sans-serif; color: #33415c; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -48,6 +48,7 @@ export class BoardMap {
   private readonly site = signal<Rec | null>(null);
   private map: L.Map | null = null;
   private layer: L.LayerGroup | null = null;
+  private collarLayer: CollarCanvasLayer | null = null;
   protected readonly states = STATES;
   protected readonly problem = signal('');
   protected readonly note = computed(() => (this.site()?.['tileUrl']
@@ -69,6 +70,7 @@ export class BoardMap {
     afterNextRender(() => {
       this.map = L.map(this.host().nativeElement, { zoomSnap: 0.5, maxZoom: 22 }).setView([0, 0], 2);
       this.layer = L.layerGroup().addTo(this.map);
+      this.collarLayer = new CollarCanvasLayer().addTo(this.map);
     });
     inject(DestroyRef).onDestroy(() => this.map?.remove());
     effect(() => this.draw(this.store.rows(), this.store.collars(), this.store.plots(), this.site()));
@@ -108,18 +110,18 @@ export class BoardMap {
       bounds.extend(g.getBounds());
     }
     const state = new Map(rows.map((r) => [r.collarId, r.state]));
-    let drawn = 0;
+    const points: CollarPoint[] = [];
     for (const c of collars) {
       const s = state.get(c.id);
       const lat = c['latitude'] as number | null;
       const lon = c['longitude'] as number | null;
       if (!s || lat == null || lon == null) continue;
-      const code = String(c['code']);
-      const icon = L.divIcon({ className: 'fw-collar-icon', html: `${shapeSvg(s, 14)}<span>${escapeHtml(code)}</span>`, iconSize: undefined, iconAnchor: [7, 7] });
-      L.marker([lat, lon], { icon, title: `${code}: ${STATE_LABELS[s]}`, alt: `${code}: ${STATE_LABELS[s]}`, keyboard: false }).addTo(layer);
+      points.push({ lat, lon, code: String(c['code']), state: s });
       bounds.extend([lat, lon]);
-      drawn++;
     }
+    // One canvas for all collars: a DOM element per marker took 1.8 s to draw 5 000 of them.
+    this.collarLayer?.setPoints(points);
+    const drawn = points.length;
     if (bounds.isValid()) map.fitBounds(bounds, { padding: [20, 20] });
     markDrawn(t0, drawn);
   }
@@ -133,6 +135,3 @@ function markDrawn(t0: number, markers: number): void {
   requestAnimationFrame(() => setTimeout(() => performance.measure('board-map-draw', { start: t0, end: performance.now(), detail: { markers } })));
 }
 
-function escapeHtml(s: string): string {
-  return s.replace(/[&<>"']/g, (ch) => `&#${ch.charCodeAt(0)};`);
-}
