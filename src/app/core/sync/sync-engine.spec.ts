@@ -112,4 +112,21 @@ describe('SyncEngine', () => {
     expect(engine.lastError()).toBeNull();
     expect(await db.outbox.count()).toBe(1);
   });
+
+  it('when a file waits for upload, then it counts in "n not yet synced" and holds back an update reload until it is uploaded', async () => {
+    const { engine, db, pending } = await setUp();
+    await db.records('collar').put(collar(A, 1));
+    await db.blobs.put({ attachmentId: B, blob: new Blob(['timestamp,co2_ppm\n']), mediaType: 'text/csv', createdAt: '2025-06-12T07:00:00.000Z', uploadedAt: null });
+    await until(() => engine.filesWaiting() === 1, 'the file count');
+    expect(engine.pending()).toBe(1);
+    expect(engine.view().label).toBe('1 not yet synced');
+    await until(() => pending.count() === 1, 'the pending-work guard');
+    expect(pending.allowsReload()).toBe(false);
+
+    // Uploaded: the copy may stay on the device, but it no longer counts.
+    await db.blobs.update(B, { uploadedAt: '2025-06-12T08:00:00.000Z' });
+    await until(() => engine.pending() === 0, 'the count after upload');
+    expect(engine.view().label).toBe('Up to date');
+    expect(await db.blobs.count()).toBe(1);
+  });
 });

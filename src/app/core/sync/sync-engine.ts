@@ -36,7 +36,11 @@ export class SyncEngine {
   private readonly pendingWork = inject(PendingWorkGuard);
   private readonly destroyRef = inject(DestroyRef);
 
-  readonly pending = liveSignal(() => null, (db) => db.outbox.count(), 0);
+  private readonly queuedOps = liveSignal(() => null, (db) => db.outbox.count(), 0);
+  /** Files (logger exports, photos) whose bytes have not reached object storage yet. */
+  readonly filesWaiting = liveSignal(() => null, (db) => db.blobs.filter((b) => b.uploadedAt === null).count(), 0);
+  /** "n not yet synced": queued changes plus files waiting for upload (a file is not safe until uploaded). */
+  readonly pending = computed(() => this.queuedOps() + this.filesWaiting());
   readonly conflicts = liveSignal(() => null, (db) => db.conflicts.count(), 0);
   readonly rejected = liveSignal(() => null, (db) => db.rejected.count(), 0);
   readonly lastSuccess = liveSignal(() => null, async (db) => {

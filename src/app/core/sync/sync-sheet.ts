@@ -1,5 +1,5 @@
 import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { MatBottomSheetRef } from '@angular/material/bottom-sheet';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
@@ -10,6 +10,15 @@ import { fieldLabel, labelsFor } from './op-labels';
 import { StorageStatus, formatBytes } from './storage-status';
 import { SyncEngine } from './sync-engine';
 
+interface FileRow {
+  key: string;
+  name: string;
+  size: number;
+  uploadedAt: string | null;
+  attempts: number;
+  error: string | null;
+}
+
 interface PendingRow {
   key: string;
   label: string;
@@ -18,7 +27,7 @@ interface PendingRow {
   sent: boolean;
 }
 
-/** What is not yet synced, what the server refused, storage, and the backup file. */
+/** What is not yet synced (changes and files), files uploaded, what the server refused, storage, and the backup file. */
 @Component({
   selector: 'fw-sync-sheet',
   imports: [DatePipe, MatButtonModule, MatIconModule, RouterLink],
@@ -48,15 +57,29 @@ interface PendingRow {
         </a></p>
       }
 
-      <h3>Not yet synced ({{ pending().length }})</h3>
-      @if (pending().length) {
+      <h3>Not yet synced ({{ pending().length + waitingFiles().length }})</h3>
+      @if (pending().length || waitingFiles().length) {
         <ul class="rows" data-testid="unsynced-list">
           @for (p of pending(); track p.key) {
             <li><strong>{{ p.label }}</strong> · {{ p.what }} · {{ p.at | date: 'short' }}@if (p.sent) { · sent, waiting for the answer }</li>
           }
+          @for (f of waitingFiles(); track f.key) {
+            <li data-testid="file-waiting"><strong>File {{ f.name }}</strong> · {{ bytes(f.size) }} · waiting for upload
+              @if (f.attempts) { · {{ f.attempts }} failed attempt{{ f.attempts === 1 ? '' : 's' }}, retried with the next sync@if (f.error) { ({{ f.error }}) } }</li>
+          }
         </ul>
       } @else {
         <p class="muted">Everything on this device has reached the server.</p>
+      }
+
+      @if (uploadedFiles().length) {
+        <h3>Files uploaded ({{ uploadedFiles().length }})</h3>
+        <p class="muted">Safe on the server; a copy also stays on this device.</p>
+        <ul class="rows" data-testid="uploaded-list">
+          @for (f of uploadedFiles(); track f.key) {
+            <li><strong>{{ f.name }}</strong> · {{ bytes(f.size) }} · uploaded {{ f.uploadedAt | date: 'short' }}</li>
+          }
+        </ul>
       }
 
       @if (rejected().length) {
@@ -109,6 +132,18 @@ export class SyncSheet {
       sent: o.sentAt !== null,
     }));
   }, [] as PendingRow[]);
+
+  /** Files kept on this device: bytes waiting for upload, and those already uploaded (kept as a copy). */
+  private readonly files = liveSignal(() => null, async (db) => {
+    const rows = (await db.blobs.toArray()).sort((a, b) => b.createdAt.localeCompare(a.createdAt)).slice(0, 200);
+    const records = await db.records('attachment').bulkGet(rows.map((r) => r.attachmentId));
+    return rows.map((r, i): FileRow => ({
+      key: r.attachmentId, name: String(records[i]?.['fileName'] || r.attachmentId), size: r.blob.size,
+      uploadedAt: r.uploadedAt, attempts: r.attempts ?? 0, error: r.lastError ?? null,
+    }));
+  }, [] as FileRow[]);
+  protected readonly waitingFiles = computed(() => this.files().filter((f) => f.uploadedAt === null));
+  protected readonly uploadedFiles = computed(() => this.files().filter((f) => f.uploadedAt !== null));
 
   protected readonly rejected = liveSignal(() => null, async (db) => {
     const rows = await db.rejected.orderBy('opId').toArray();
