@@ -1,0 +1,49 @@
+import { TestBed } from '@angular/core/testing';
+import { ResponseChart } from './response-chart';
+import { RESPONSES } from './testing/results-fixtures';
+
+async function render() {
+  TestBed.configureTestingModule({ imports: [ResponseChart] });
+  const fixture = TestBed.createComponent(ResponseChart);
+  fixture.componentRef.setInput('data', RESPONSES);
+  await fixture.whenStable();
+  const el = fixture.nativeElement as HTMLElement;
+  const rows = () => Array.from(el.querySelectorAll('[data-testid="response-table"] tbody tr'))
+    .map((r) => Array.from(r.children).map((c) => c.textContent!.replace(/\s+/g, ' ').trim()));
+  return { fixture, el, rows };
+}
+
+describe('ResponseChart', () => {
+  it('when both fits succeed, then Q10, R10 and E0 are shown with their 95 % CI and the published E0 beside the fitted one', async () => {
+    const { rows } = await render();
+    expect(rows()[0]).toEqual(['CTRL', '3', '2.71 (2.20–3.30)', '2.02 (1.80–2.25)', '315 (250–381; published 308.56)', '2.05 (1.81–2.31)',
+      'Only 3 visit means: the interval is wide.']);
+  });
+
+  it('when a treatment cannot be fitted, then the engine\'s reason is shown instead of numbers', async () => {
+    const { rows } = await render();
+    expect(rows()[1]).toEqual(['TRENCH (collar)', '1', 'not fitted', 'not fitted', 'Fewer than 4 visit means with a soil temperature']);
+  });
+
+  it('when the chart draws, then every visit mean is a point coloured from dry (sand) to wet (blue), with both curves', async () => {
+    const { el } = await render();
+    const points = Array.from(el.querySelectorAll('[data-testid="response-chart"] circle'));
+    expect(points.map((c) => c.getAttribute('fill'))).toEqual(['rgb(214, 170, 96)', 'rgb(119, 121, 128)', 'rgb(24, 72, 160)']);
+    expect(points[1].querySelector('title')!.textContent).toBe('10.0 °C, 2.00 µmol m⁻² s⁻¹, VWC 30 %');
+    expect(el.querySelector('[data-testid="curve-lloyd-taylor"]')!.getAttribute('d')).toMatch(/^M[\d.]+,[\d.]+L[\d.]+,[\d.]+L[\d.]+,[\d.]+$/);
+    expect(el.querySelector('[data-testid="curve-q10"]')).not.toBeNull();
+    expect(el.querySelector('[data-testid="response-chart"]')!.getAttribute('aria-label'))
+      .toBe('Flux against soil temperature at 5 cm for CTRL, points coloured by soil moisture');
+    expect(el.querySelector('.legend')!.textContent).toContain('sand = dry (20 % VWC) → blue = wet (40 %)');
+  });
+
+  it('when another treatment is chosen, then its points replace the first and a cell without curves draws none', async () => {
+    const { el, fixture } = await render();
+    const select = el.querySelector('select[name=responseCell]') as HTMLSelectElement;
+    select.value = 'TRENCH';
+    select.dispatchEvent(new Event('change'));
+    await fixture.whenStable();
+    expect(el.querySelectorAll('[data-testid="response-chart"] circle')).toHaveLength(1);
+    expect(el.querySelector('[data-testid="curve-q10"]')).toBeNull();
+  });
+});
