@@ -119,7 +119,8 @@ async function createRecord(ctx: Ctx, op: WriteOp, incoming: Record<string, unkn
   const guard = membershipDenied(ctx, siteId)
     ?? ruleDenied(ctx, 'create', Object.keys(next), next)
     ?? (await checkReferences(ctx.em, d, siteId, next, Object.keys(next)))
-    ?? (await lockedCampaignMessage(ctx.em, d, next));
+    ?? (await lockedCampaignMessage(ctx.em, d, next))
+    ?? (await checkGuards({ em: ctx.em, entity: d.name, id: op.id, action: 'create', current: null, next, changed: Object.keys(next) }));
   if (guard) return guard;
   const derived = await deriveFields(ctx.em, d.name, next, null);
   const row = { ...next, ...derived, id: op.id, rev: 1, updatedAt: new Date(), updatedBy: ctx.actor.id, deleted: false };

@@ -2,15 +2,17 @@ import type { EntityManager } from 'typeorm';
 import type { EntityName } from '../../shared/model/entities';
 import type { WriteOutcome } from './write-outcome';
 
-/** An edit or delete about to be applied, as a guard sees it (inside the writing transaction). */
+/** A create, edit or delete about to be applied, as a guard sees it (inside the writing transaction). */
 export interface PendingWrite {
   em: EntityManager;
   entity: EntityName;
   id: string;
-  action: 'update' | 'delete';
-  current: Record<string, unknown>;
-  /** The whole record after the edit (the current one for a delete). */
+  action: 'create' | 'update' | 'delete';
+  /** The record as stored (null on create). */
+  current: Record<string, unknown> | null;
+  /** The whole record after the write (the current one for a delete). */
   next: Record<string, unknown>;
+  /** Fields the write sets (every field on create). */
   changed: string[];
 }
 

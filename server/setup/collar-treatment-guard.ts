@@ -4,10 +4,10 @@ import { rejected, type WriteOutcome } from '../records/write-outcome';
 /**
  * A collar's own treatment must be one applied to single collars (e.g. trenched vs untrenched):
  * a whole-plot treatment comes from the collar's plot, and setting it on a collar as well would
- * count the collar twice in the design. Checked when an edit changes the collar's treatment.
+ * count the collar twice in the design. Checked whenever a write sets the collar's treatment.
  */
 export async function guardCollarTreatment(w: PendingWrite): Promise<WriteOutcome | null> {
-  if (w.action !== 'update' || !w.changed.includes('treatmentId') || !w.next['treatmentId']) return null;
+  if (w.action === 'delete' || !w.changed.includes('treatmentId') || !w.next['treatmentId']) return null;
   const [t] = await w.em.query(`SELECT code, level FROM treatment WHERE id = $1`, [w.next['treatmentId']]);
   if (!t || t.level === 'collar') return null; // a missing treatment is the reference check's to report
   return rejected(400, 'Some fields are not valid', [

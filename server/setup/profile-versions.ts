@@ -120,11 +120,12 @@ export async function createProfileVersion(ds: DataSource, actor: Actor, profile
  * settle time for future closures may still change.
  */
 export async function guardProfileWrite(w: PendingWrite): Promise<WriteOutcome | null> {
+  if (w.action === 'create') return null; // a new version is what this rule asks for
   const touched = w.action === 'delete' ? ['deleted'] : GEOMETRY.filter((k) => w.changed.includes(k));
   if (!touched.length) return null;
   try {
     if (w.action === 'update' && w.changed.includes('validFrom')) {
-      await refuseSameDay(w.em, String(w.current['siteId']), String(w.next['validFrom']), w.id);
+      await refuseSameDay(w.em, String(w.next['siteId']), String(w.next['validFrom']), w.id);
     }
   } catch (err) {
     if (err instanceof AppError) return rejected(err.status, err.message, err.fields);

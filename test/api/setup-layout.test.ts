@@ -70,5 +70,8 @@ describe('setup layout writes: plot outlines, analyzer checks, collar treatments
     const other = await makeLayout(admin);
     const foreign = await admin.patch(`/api/collars/${collar.id}`, { rev: res.body.record.rev, treatmentId: other.treatment.id });
     expect(foreign.status).toBe(400);
+    // The same rule on create (REST and sync share the write path).
+    const created = await admin.post('/api/collars', { siteId, code: 'C2', plotId: layout.plots[0].id, diameterCm: 20, treatmentId: layout.treatment.id });
+    expect([created.status, created.body.error?.fields?.[0]?.path]).toEqual([400, 'treatmentId']);
   });
 });
