@@ -56,7 +56,11 @@ export const plotFields = z.object({
   blockId: uuid('blockId').nullable().default(null),
   treatmentId: uuid('treatmentId').nullable().default(null),
   /** GeoJSON Polygon geometry in WGS84, or a plain local layout. */
-  outline: z.object({ type: z.literal('Polygon'), coordinates: z.array(z.array(z.tuple([z.number(), z.number()]))) })
+  outline: z.object({ type: z.literal('Polygon'), coordinates: z.array(z.array(z.tuple([z.number(), z.number()]))).min(1) })
+    // A linear ring is closed and has at least four positions (RFC 7946 §3.1.6).
+    .refine((g) => g.coordinates.every((ring) => ring.length >= 4
+      && ring[0][0] === ring[ring.length - 1][0] && ring[0][1] === ring[ring.length - 1][1]),
+    { message: 'Each ring of the outline must be closed (last corner = first) with at least four positions', path: ['coordinates'] })
     .nullable().default(null),
 });
 
