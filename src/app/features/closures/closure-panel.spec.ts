@@ -1,0 +1,152 @@
+// The logger reader starts a module Web Worker via import.meta (not loadable under CommonJS jest);
+// nothing here reads a logger file.
+jest.mock('./logger-reader', () => ({ readLoggerFile: jest.fn() }));
+import { provideHttpClient } from '@angular/common/http';
+import { provideHttpClientTesting } from '@angular/common/http/testing';
+import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
+import { Component } from '@angular/core';
+import { TestBed } from '@angular/core/testing';
+import { MatButtonHarness } from '@angular/material/button/testing';
+import type { FluxDb, LocalRecord } from '../../core/db/db-schema';
+import { DeviceDb } from '../../core/db/device-db';
+import { WalkContext } from '../walk/walk-context';
+import { ClosureCard } from './closure-card';
+import { ClosurePanel } from './closure-panel';
+import { SpotChart, type SpotChartInput } from './spot-chart';
+
+const SITE = '11111111-1111-4111-8111-111111111111';
+const COLLAR = '33333333-3333-4333-8333-333333333333';
+const CAMPAIGN = '44444444-4444-4444-8444-444444444444';
+const VISIT = '55555555-5555-4555-8555-555555555555';
+const PROFILE = '66666666-6666-4666-8666-666666666666';
+const ANALYZER = '77777777-7777-4777-8777-777777777777';
+const FIRST = '88888888-8888-4888-8888-888888888888';
+let userNo = 0;
+
+/**
+ * jsdom has no canvas: the chart is replaced; what it was given is kept for the checks. (Declared
+ * without decorator syntax: a decorator in a spec stops jest.mock above from being hoisted.)
+ */
+class ChartStandIn {
+  data: SpotChartInput | null = null;
+}
+Component({ selector: 'fw-spot-chart', template: '', inputs: ['data'] })(ChartStandIn);
+
+async function until<T>(probe: () => T | undefined | null | false | Promise<T | undefined | null | false>, what: string): Promise<T> {
+  for (let i = 0; i < 400; i++) {
+    TestBed.tick();
+    const v = await probe();
+    if (v) return v;
+    await new Promise((r) => setTimeout(r, 5));
+  }
+  throw new Error(`timed out waiting for ${what}`);
+}
+
+async function render(extra: (db: FluxDb) => Promise<void> = async () => undefined) {
+  const userId = `0000000${++userNo}-0000-4000-8000-00000000000c`.slice(-36);
+  localStorage.setItem('fw.session', JSON.stringify({
+    user: { id: userId, email: 'crew@fluxwalk.example', displayName: 'Crew', roles: ['crew'], siteIds: [SITE] },
+    sites: [{ id: SITE, name: 'Test site' }],
+  }));
+  TestBed.configureTestingModule({ providers: [provideHttpClient(), provideHttpClientTesting()] });
+  TestBed.overrideComponent(ClosureCard, { remove: { imports: [SpotChart] }, add: { imports: [ChartStandIn] } });
+  const db: FluxDb = await until(() => TestBed.inject(DeviceDb).db(), 'the database');
+  await db.records('site').put({ id: SITE, rev: 1, name: 'Test site', timezone: 'Europe/Berlin', elevationM: 420, ambientMarginPpm: 100, defaultProfileId: PROFILE });
+  await db.records('collar').put({ id: COLLAR, rev: 1, siteId: SITE, code: 'W-03', shape: 'round', diameterCm: 20, status: 'active' });
+  await db.records('campaign').put({ id: CAMPAIGN, rev: 1, siteId: SITE, name: 'Dec', rounds: 2, routes: [], dueClosures: 2 });
+  await db.records('chamberProfile').put({ id: PROFILE, rev: 1, siteId: SITE, name: 'Dark 20', validFrom: '2025-01-01', chamberVolumeCm3: 4000, loopVolumeCm3: 150, settleS: 20 });
+  await db.records('analyzer').put({ id: ANALYZER, rev: 1, siteId: SITE, name: 'A1', precisionPpm: 0.2 });
+  const visit: LocalRecord = { id: VISIT, rev: 1, siteId: SITE, campaignId: CAMPAIGN, round: 1, collarId: COLLAR, arrivedAt: '2025-06-12T06:55:00.000Z' };
+  await db.records('visit').put(visit);
+  await db.records('offsetSet').put({ id: 'o1', rev: 1, siteId: SITE, visitId: VISIT, collarId: COLLAR, campaignId: CAMPAIGN, takenAt: '2025-06-12T06:58:00.000Z', readingsCm: [2, 2, 2, 2] });
+  await extra(db);
+  TestBed.inject(WalkContext).update({ analyzerId: ANALYZER });
+  const fixture = TestBed.createComponent(ClosurePanel);
+  fixture.componentRef.setInput('siteId', SITE);
+  fixture.componentRef.setInput('campaignId', CAMPAIGN);
+  fixture.componentRef.setInput('round', 1);
+  fixture.componentRef.setInput('collarId', COLLAR);
+  fixture.componentRef.setInput('visit', visit);
+  const el = fixture.nativeElement as HTMLElement;
+  const text = (sel: string) => el.querySelector(sel)?.textContent?.replace(/\s+/g, ' ').trim() ?? '';
+  // The campaign asks for 2 closures a visit; the count shows it once the scene is read.
+  await until(() => text('[data-testid="closure-count"]').includes('of 2 closures due'), 'the panel');
+  return { db, fixture, el, text, loader: TestbedHarnessEnvironment.loader(fixture) };
+}
+
+const closuresOf = (db: FluxDb) => db.records('closure').where('visitId').equals(VISIT).sortBy('chamberOnAt');
+
+describe('Closure panel', () => {
+  afterEach(() => localStorage.clear());
+
+  it('when the crew taps chamber on and off, then a closure with the phone times, the profile and the analyzer is stored and queued, and the due count follows', async () => {
+    const { db, text, loader } = await render();
+    expect(text('[data-testid="closure-count"]')).toBe('0 of 2 closures due');
+
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Chamber on' }))).click();
+    const off = await until(() => loader.getHarnessOrNull(MatButtonHarness.with({ text: 'Chamber off' })), 'the off button');
+    const [open] = await closuresOf(db);
+    expect(open).toMatchObject({ visitId: VISIT, collarId: COLLAR, profileId: PROFILE, analyzerId: ANALYZER, settleS: 20, redoOfId: null });
+    expect(open['chamberOnAt']).toBe(open['startedAt']);
+    expect(open['chamberOffAt'] ?? null).toBeNull();
+    expect(text('[data-testid="closure-count"]')).toBe('1 of 2 closures due');
+
+    await off.click();
+    await until(() => loader.getHarnessOrNull(MatButtonHarness.with({ text: 'Chamber on' })), 'the on button again');
+    const [closed] = await closuresOf(db);
+    expect(Date.parse(String(closed['chamberOffAt']))).toBeGreaterThanOrEqual(Date.parse(String(closed['chamberOnAt'])));
+    expect((await db.outbox.where('[entity+id]').equals(['closure', closed.id]).toArray()).length).toBeGreaterThanOrEqual(1);
+    expect(text('[data-testid="closure-count"]')).toBe('1 of 2 closures due');
+  });
+
+  it('when a closure has a series, then its flux and flags show; Redo starts a new closure naming it, and a series typed by hand fills the redo', async () => {
+    const tS = [0, 10, 20, 30, 40, 50, 60, 70, 80, 90, 100];
+    const { db, el, text, loader, fixture } = await render(async (d) => {
+      await d.records('analyzerCheck').put({ id: 'amb', rev: 1, siteId: SITE, analyzerId: ANALYZER, kind: 'ambient', at: '2025-06-12T06:30:00.000Z', co2Ppm: 415 });
+      await d.records('closure').put({
+        id: FIRST, rev: 1, siteId: SITE, visitId: VISIT, collarId: COLLAR, campaignId: CAMPAIGN, profileId: PROFILE, analyzerId: ANALYZER,
+        startedAt: '2025-06-12T07:00:00.000Z', chamberOnAt: '2025-06-12T07:00:00.000Z', chamberOffAt: '2025-06-12T07:02:00.000Z', settleS: 20,
+        // 560 ppm at the start is 145 ppm above the day's 415 ppm: more than the 100 ppm margin.
+        series: { tS, co2Ppm: tS.map((t) => 560 + 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20) },
+      });
+    });
+    await until(() => text('[data-testid="spot-flux"]'), 'the flux');
+    // By hand, ideal gas law F = p·V/(R·T·A)·dχ/dt (R = 8.314462618, CODATA 2018), V = 4000 + 150 cm³
+    // + 314.16 cm² × 2 cm = 4778.3 cm³: 96 000 × 4.7783e-3 / (8.314462618 × 293.15 × 0.0314159) × 0.5e-6 = 2.995.
+    expect(text('[data-testid="spot-flux"]')).toMatch(/^3\.00 µmol m⁻² s⁻¹ \(linear;/);
+    expect(text('[data-testid="spot-flags"]')).toContain('start-above-ambient');
+    expect(text('.ambient')).toBe("Start vs the day's ambient: +145 ppm");
+    const chart = fixture.debugElement.query((d) => d.componentInstance instanceof ChartStandIn).componentInstance as ChartStandIn;
+    expect(chart.data!.settleS).toBe(20);
+    expect(chart.data!.fit.window!.firstTS).toBe(20);
+
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Redo this closure' }))).click();
+    await until(async () => (await closuresOf(db)).length === 2, `the redo (${text('.message')})`);
+    const redo = (await closuresOf(db))[1];
+    expect(redo['redoOfId']).toBe(FIRST);
+    expect((await until(() => el.querySelector(`[data-closure="${redo.id}"] .tag`), 'the redo card')).textContent).toBe('redo');
+    // The redone closure is replaced by its redo: still one counted.
+    expect(text('[data-testid="closure-count"]')).toBe('1 of 2 closures due');
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Chamber off' }))).click();
+
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Enter the series by hand' }))).click();
+    await until(() => el.querySelector('textarea[name="manual"]'), 'the form');
+    const set = (sel: string, v: string) => {
+      const box = el.querySelector(sel) as HTMLInputElement | HTMLTextAreaElement;
+      box.value = v;
+      box.dispatchEvent(new Event('input'));
+    };
+    set('textarea[name="manual"]', '0 420,0\n10 425,0\n20 430,0\n30 435,0\n40 440,0\n50 445,0\n60 450,0\n70 455,0\n80 460,0\n90 465,0\n100 470,0');
+    set('input[name="temp"]', '20');
+    set('input[name="pressure"]', '96');
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Save series' }))).click();
+    const filled = await until(async () => {
+      const r = (await closuresOf(db))[1];
+      return (r['series'] as { tS: number[] }).tS.length ? r : null;
+    }, 'the typed series');
+    expect(filled['series']).toEqual({ tS, co2Ppm: tS.map((t) => 420 + 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20) });
+    await until(() => el.querySelector(`[data-closure="${redo.id}"] [data-testid="spot-flux"]`), 'the redo flux');
+    expect(el.querySelector(`[data-closure="${redo.id}"] [data-testid="spot-flux"]`)?.textContent).toMatch(/^3\.00 µmol/);
+    expect(el.querySelector(`[data-closure="${redo.id}"] [data-testid="spot-flags"]`)?.textContent).not.toContain('start-above-ambient');
+  });
+});
