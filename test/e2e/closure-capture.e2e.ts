@@ -166,7 +166,8 @@ describe('Closure capture in Chromium, offline, then synced', () => {
       await dialog.getByLabel('Chamber air temperature column').selectOption({ label: 'temp_c' });
       await dialog.getByRole('button', { name: 'Read the file' }).click();
       await dialog.getByTestId('read-summary').waitFor();
-      expect((await dialog.getByTestId('read-summary').innerText()).trim()).toBe('244 samples in 4 closures (split by gaps)');
+      expect((await dialog.getByTestId('read-summary').innerText()).trim()).toBe('244 samples in 4 closures (split by taps)');
+      expect(await dialog.getByTestId('split-method').inputValue()).toBe('taps');
       const offset = Number(await dialog.getByTestId('clock-offset').inputValue());
       // The taps land a few milliseconds after the clock was set: within half a second of 73 s.
       expect(Math.abs(offset - OFFSET_S)).toBeLessThanOrEqual(0.5);
@@ -211,8 +212,12 @@ describe('Closure capture in Chromium, offline, then synced', () => {
       shown.set(redo.id, redo);
       await page.getByTestId('closure-count').filter({ hasText: '2 of 1 closures due' }).waitFor();
 
-      // Still offline: the closures and the file wait on the device.
+      // Still offline: the closures and the file wait on the device, the file counted with them.
       expect(await page.getByTestId('sync-label').innerText()).toMatch(/^Offline · \d+ not yet synced$/);
+      await page.getByTestId('sync-indicator').click();
+      expect((await page.getByTestId('file-waiting').innerText()).trim()).toMatch(/^File walk-two-collars\.csv · .+ · waiting for upload$/);
+      await page.keyboard.press('Escape');
+      await page.getByTestId('sync-sheet').waitFor({ state: 'detached' });
 
       // Signal again: one sync.
       await context.setOffline(false);
@@ -221,6 +226,12 @@ describe('Closure capture in Chromium, offline, then synced', () => {
         await page.getByTestId('sync-indicator').click();
         throw new Error(`${(err as Error).message}\nsync sheet: ${await page.getByTestId('sync-sheet').innerText()}`);
       });
+
+      // The file is uploaded; its copy stays on the device and the sheet says so.
+      await page.getByTestId('sync-indicator').click();
+      expect(await page.getByTestId('file-waiting').count()).toBe(0);
+      expect((await page.getByTestId('uploaded-list').innerText()).trim()).toMatch(/^walk-two-collars\.csv · .+ · uploaded /);
+      await page.keyboard.press('Escape');
 
       const rows = await query<{
         id: string; code: string; chamber_on_at: Date; started_at: Date; flux_umol_m2_s: number | null; flags: string[];

@@ -1,0 +1,124 @@
+// The dialog reads files in a module Web Worker (import.meta, not loadable under CommonJS jest):
+// here the same parser runs in the test's thread.
+jest.mock('./logger-reader', () => ({
+  readLoggerFile: (text: string, mapping: unknown, progress: (f: number) => void) =>
+    Promise.resolve(jest.requireActual('./logger-parse').parseLoggerText(text, mapping, progress)),
+}));
+import { provideHttpClient } from '@angular/common/http';
+import { provideHttpClientTesting } from '@angular/common/http/testing';
+import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
+import { TestBed } from '@angular/core/testing';
+import { MatButtonHarness } from '@angular/material/button/testing';
+import { MAT_DIALOG_DATA, MatDialogRef } from '@angular/material/dialog';
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import type { LoggerMapping } from '../../../../shared/logger';
+import type { FluxDb } from '../../core/db/db-schema';
+import { DeviceDb } from '../../core/db/device-db';
+import { LoggerImport, type LoggerImportData } from './logger-import';
+
+const SITE = '11111111-1111-4111-8111-111111111111';
+const CAMPAIGN = '44444444-4444-4444-8444-444444444444';
+const ANALYZER = '77777777-7777-4777-8777-777777777777';
+// Two preamble lines, ";" and decimal comma, DD.MM.YYYY wall times in Europe/Berlin (test/fixtures/logger/README.md).
+const FILE = readFileSync(join(__dirname, '../../../../test/fixtures/logger/semicolon-decimal-comma.csv'), 'utf8');
+let userNo = 0;
+
+async function until<T>(probe: () => T | undefined | null | false | Promise<T | undefined | null | false>, what: string): Promise<T> {
+  for (let i = 0; i < 400; i++) {
+    TestBed.tick();
+    const v = await probe();
+    if (v) return v;
+    await new Promise((r) => setTimeout(r, 5));
+  }
+  throw new Error(`timed out waiting for ${what}`);
+}
+
+async function render() {
+  const userId = `0000000${++userNo}-0000-4000-8000-00000000000d`.slice(-36);
+  localStorage.setItem('fw.session', JSON.stringify({
+    user: { id: userId, email: 'crew@fluxwalk.example', displayName: 'Crew', roles: ['crew'], siteIds: [SITE] },
+    sites: [{ id: SITE, name: 'Test site' }],
+  }));
+  const data: LoggerImportData = { siteId: SITE, campaignId: CAMPAIGN, round: 1, analyzerId: ANALYZER };
+  TestBed.configureTestingModule({
+    imports: [LoggerImport],
+    providers: [provideHttpClient(), provideHttpClientTesting(), { provide: MAT_DIALOG_DATA, useValue: data }, { provide: MatDialogRef, useValue: { close: jest.fn() } }],
+  });
+  const db: FluxDb = await until(() => TestBed.inject(DeviceDb).db(), 'the database');
+  await db.records('site').put({ id: SITE, rev: 1, name: 'Test site', timezone: 'Europe/Berlin' });
+  const fixture = TestBed.createComponent(LoggerImport);
+  const el = fixture.nativeElement as HTMLElement;
+  const text = (sel: string) => el.querySelector(sel)?.textContent?.replace(/\s+/g, ' ').trim() ?? '';
+  const select = (label: string) => {
+    const l = [...el.querySelectorAll('label')].find((x) => x.firstChild?.textContent?.trim() === label);
+    if (!l) throw new Error(`no select labelled ${label}`);
+    return l.querySelector('select') as HTMLSelectElement;
+  };
+  const shown = (label: string) => select(label).selectedOptions[0]?.textContent?.trim();
+  const choose = (label: string, option: string) => {
+    const s = select(label);
+    const o = [...s.options].find((x) => x.textContent?.trim() === option);
+    if (!o) throw new Error(`no option ${option} for ${label}`);
+    s.value = o.value;
+    s.dispatchEvent(new Event('change'));
+  };
+  const pick = async (content: string, name = 'day.csv') => {
+    const input = await until(() => el.querySelector<HTMLInputElement>('input[type="file"]'), 'the file input');
+    const file = { name, size: content.length, text: async () => content };
+    Object.defineProperty(input, 'files', { value: [file], configurable: true });
+    input.dispatchEvent(new Event('change'));
+    await until(() => el.querySelector('[data-testid="layout"]'), 'the mapping step');
+    // ngModel writes the selects' values on the next tick.
+    await until(() => shown('CO2 column') !== undefined && shown('Format') !== undefined, 'the mapping values');
+  };
+  return { fixture, el, text, shown, choose, pick, loader: TestbedHarnessEnvironment.loader(fixture) };
+}
+
+describe('Logger import, mapping step', () => {
+  afterEach(() => localStorage.clear());
+
+  it('when a file with a preamble, ";" and decimal commas is chosen, then the layout and our plain column names are recognised and offered for confirmation', async () => {
+    const { text, shown, pick } = await render();
+    await pick(FILE);
+    expect(text('[data-testid="layout"]')).toBe('Delimiter: ; · decimal comma · header on line 3');
+    expect(shown('Time column')).toBe('timestamp');
+    expect(shown('Time is')).toBe('a timestamp');
+    expect(shown('CO2 column')).toBe('co2_ppm');
+    expect(shown('CO2 unit')).toBe('µmol/mol (ppm)');
+    expect(shown('H2O column')).toBe('h2o_mmol_mol');
+    expect(shown('Pressure column')).toBe('pressure_kpa');
+    expect(shown('Chamber air temperature column')).toBe('temp_c');
+    expect(shown('Closure id column')).toBe('none (split by the taps, else by gaps)');
+  });
+
+  it('when the timestamp format does not fit, then every line is reported; with the format the crew chooses, the file reads and the mapping is kept for the analyzer', async () => {
+    const first = await render();
+    await first.pick(FILE);
+    await (await first.loader.getHarness(MatButtonHarness.with({ text: 'Read the file' }))).click();
+    // The mapping step stays, with the reason: no sample could be read with YYYY-MM-DD.
+    const dataLines = FILE.trim().split(/\r?\n/).length - 3;
+    await until(() => first.text('[data-testid="read-summary"]') || first.text('[role="alert"]'), 'the read');
+    expect(first.text('[data-testid="read-summary"]')).toBe('0 samples in 0 closures (split by gaps)');
+    expect(first.text('.problems summary')).toBe(`${dataLines} line(s) could not be read and were left out`);
+    TestBed.resetTestingModule();
+
+    const { text, choose, shown, pick, loader } = await render();
+    await pick(FILE);
+    choose('Format', 'DD.MM.YYYY HH:mm:ss');
+    choose('Pressure unit', 'hPa');
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Read the file' }))).click();
+    await until(() => text('[data-testid="read-summary"]'), 'the review step');
+    expect(text('[data-testid="read-summary"]')).toBe(`${dataLines} samples in 1 closures (split by gaps)`);
+    expect(text('.problems')).toBe('');
+    const preset = JSON.parse(localStorage.getItem(`fw.logger-preset.${ANALYZER}`) ?? 'null') as LoggerMapping | null;
+    expect(preset).toMatchObject({ delimiter: ';', decimalComma: true, headerRow: 2, time: { kind: 'timestamp', format: 'DD.MM.YYYY HH:mm:ss', timeZone: 'Europe/Berlin' }, pressure: { unit: 'hPa' } });
+    TestBed.resetTestingModule();
+
+    // The same analyzer's next file opens with the remembered mapping.
+    const again = await render();
+    await again.pick(FILE);
+    expect(again.shown('Format')).toBe('DD.MM.YYYY HH:mm:ss');
+    expect(again.shown('Pressure unit')).toBe('hPa');
+  });
+});
