@@ -1,7 +1,8 @@
 /// <reference lib="dom" />
 import { readFileSync } from 'node:fs';
 import { readZip } from '../../server/results/zip-archive';
-import { signInAs } from './support/app-actions';
+import { Page } from 'playwright-core';
+import { seriousAccessibilityProblems, signInAs } from './support/app-actions';
 import { RunningServer, startAppServer } from './support/app-server';
 import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
 
@@ -18,6 +19,10 @@ afterAll(async () => {
   await browser?.close();
   await server?.stop();
 });
+
+async function noSeriousProblems(page: Page, where: string) {
+  expect([where, await seriousAccessibilityProblems(page)]).toEqual([where, []]);
+}
 
 describe('Bench results in Chromium', () => {
   it('when the lab opens the treatment summary, the temperature response and the seasonal totals, then downloads the data package, each shows real numbers', async () => {
@@ -36,6 +41,7 @@ describe('Bench results in Chromium', () => {
       expect(await table.locator('tbody tr').count()).toBe(s.cellMeans.length);
       const first = s.cellMeans[0];
       await table.locator('tbody tr').first().getByText(first.meanUmolM2S.toFixed(2), { exact: true }).waitFor();
+      await noSeriousProblems(page, 'Results: treatment summary');
 
       // Temperature response with every closure not rejected, so each treatment has points across the season.
       let resp = page.waitForResponse((r) => r.url().includes('/api/results/responses') && r.status() === 200);
@@ -51,6 +57,7 @@ describe('Bench results in Chromium', () => {
       await page.getByTestId('curve-lloyd-taylor').waitFor();
       await page.getByTestId('curve-q10').waitFor();
       expect(await page.getByTestId('response-table').locator('tbody tr').count()).toBe(r.responses.length);
+      await noSeriousProblems(page, 'Results: temperature response');
 
       // Seasonal totals: cumulative lines and the totals with their bootstrap interval.
       const seas = page.waitForResponse((x) => x.url().includes('/api/results/seasonal') && x.status() === 200);
@@ -60,6 +67,7 @@ describe('Bench results in Chromium', () => {
       expect(await page.getByTestId('seasonal-chart').locator('path').count()).toBe(st.totals.length);
       const firstTotal = st.totals[0];
       await page.getByTestId('seasonal-table').getByText(Math.round(firstTotal.totalGCM2).toLocaleString('en-US'), { exact: true }).first().waitFor();
+      await noSeriousProblems(page, 'Results: seasonal totals');
 
       // Data package: a background job with progress, then a download.
       await page.getByRole('tab', { name: 'Data package' }).click();
@@ -67,6 +75,7 @@ describe('Bench results in Chromium', () => {
       const link = page.getByTestId('export-download');
       await link.waitFor({ timeout: 120_000 });
       await page.getByTestId('export-status').getByText(/^completed/).waitFor();
+      await noSeriousProblems(page, 'Results: data package');
       const [download] = await Promise.all([page.waitForEvent('download'), link.click()]);
       expect(download.suggestedFilename()).toMatch(/^fluxwalk-results-.*\.zip$/);
       const files = readZip(readFileSync((await download.path())!));
