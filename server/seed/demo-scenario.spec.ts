@@ -7,11 +7,11 @@ import { buildDemoScenario } from './demo-scenario';
 import { DEMO_SITE_ID } from './demo-accounts';
 import { demoUserId } from './demo-plan';
 import { demoId } from './prng';
+import { isolatedDatabase } from '../../test/support/isolated-database';
 
 /**
- * The demo scenario as the server project's global setup seeded it into TEST_DATABASE_URL
- * (a fresh, migrated database per run), checked with plain SQL. API tests add their own records
- * to the same database at the same time, so every query keeps to the ids the scenario made.
+ * The demo scenario as seeded into a database of its own (other test files change the shared
+ * test database while this runs), checked with plain SQL on the ids the scenario made.
  */
 describe('the seeded demo scenario', () => {
   let db: Client;
@@ -23,7 +23,7 @@ describe('the seeded demo scenario', () => {
 
   beforeAll(async () => {
     for (const w of buildDemoScenario()) if (w.kind === 'create') (ids[w.entity] ??= []).push(w.id);
-    db = new Client({ connectionString: process.env['TEST_DATABASE_URL'] });
+    db = new Client({ connectionString: await isolatedDatabase('seedcheck') });
     await db.connect();
   });
   afterAll(async () => db.end());

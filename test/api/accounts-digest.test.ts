@@ -8,6 +8,7 @@ import { CURRENT_CAMPAIGN_ID } from '../../server/seed/demo-current';
 import { startFakeSmtp, type CapturedMail, type FakeSmtp } from '../../tools/fake-smtp-server';
 import { DEMO_SITE_ID } from '../support/fixtures';
 import { startServerProcess } from '../support/server-process';
+import { isolatedDatabase } from '../support/isolated-database';
 import { demoEmail, signIn, startTestApp, type Session, type TestApp } from '../support/test-app';
 
 const LEAD = demoEmail('lead');
@@ -26,11 +27,13 @@ describe('daily digest', () => {
   let t: TestApp;
   let smtp: FakeSmtp;
   let lead: Session;
+  let databaseUrl: string;
 
   beforeAll(async () => {
     smtp = await startFakeSmtp();
     Object.assign(process.env, { SMTP_HOST: smtp.host, SMTP_PORT: String(smtp.port), APP_ORIGIN: 'http://fluxwalk.invalid' });
-    t = await startTestApp();
+    databaseUrl = await isolatedDatabase('digest');
+    t = await startTestApp({ databaseUrl });
     lead = await signIn(t.app, LEAD);
   });
   afterAll(async () => {
@@ -96,7 +99,7 @@ describe('daily digest', () => {
     Object.assign(process.env, { DIGEST_TICK_SECONDS: '1' });
     const children: ChildProcess[] = [];
     try {
-      for (let i = 0; i < 2; i++) children.push((await startServerProcess(process.env['TEST_DATABASE_URL']!)).child);
+      for (let i = 0; i < 2; i++) children.push((await startServerProcess(databaseUrl)).child);
       const mail = await smtp.waitFor(LEAD, { seen: before, timeoutMs: 30_000 });
       expect(mail.subject).toBe(subject);
       await new Promise((r) => setTimeout(r, 4000)); // several more ticks of both processes

@@ -2,6 +2,7 @@ import { randomUUID } from 'node:crypto';
 import { CURRENT_CAMPAIGN_ID } from '../../server/seed/demo-current';
 import { buildLayout } from '../../server/seed/demo-layout';
 import { DEMO_SITE_ID } from '../support/fixtures';
+import { isolatedDatabase } from '../support/isolated-database';
 import { demoEmail, signIn, startTestApp, type Session, type TestApp } from '../support/test-app';
 
 const CREW_ID = '1a6f0c3e-2d4b-4e8a-9c1f-3b5d7e9f1a01';
@@ -14,7 +15,7 @@ describe('Board: planning, progress and closing a campaign', () => {
   const layout = buildLayout();
   const [west, east] = layout.routes;
   beforeAll(async () => {
-    t = await startTestApp();
+    t = await startTestApp({ databaseUrl: await isolatedDatabase('board') });
     lead = await signIn(t.app, demoEmail('lead'));
     crew = await signIn(t.app, demoEmail('crew'));
   });

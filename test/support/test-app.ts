@@ -18,7 +18,7 @@ export interface TestApp {
 
 /** The real app on the test database (reset once per run by global setup), never listening on a fixed port. */
 export async function startTestApp(overrides: Partial<ServerConfig> = {}): Promise<TestApp> {
-  const url = process.env['TEST_DATABASE_URL'];
+  const url = overrides.databaseUrl ?? process.env['TEST_DATABASE_URL'];
   if (!url) throw new Error('TEST_DATABASE_URL is not set');
   const ds = createDataSource(url, { poolSize: 4 });
   await ds.initialize();
