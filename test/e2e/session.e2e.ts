@@ -4,6 +4,7 @@ import { Page } from 'playwright-core';
 import { DEMO_PASSWORD, signInAs } from './support/app-actions';
 import { RunningServer, startAppServer } from './support/app-server';
 import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
+import { waitForFirstSync } from './support/sync-actions';
 
 // The project-level testTimeout in jest.config.js does not reach these tests (measured: 5 s).
 jest.setTimeout(120_000);
@@ -82,6 +83,10 @@ describe('Signing in and sessions in Chromium', () => {
 
       // A marker that a page reload would wipe: the screen must stay, not be rebuilt.
       await page.evaluate(() => ((window as unknown as { fwMarker: number }).fwMarker = 42));
+      // The first sync runs after sign-in; its answers renew the (rolling) session cookie, so
+      // the cookie is dropped only once nothing is in flight any more.
+      await waitForFirstSync(page);
+      await page.waitForLoadState('networkidle');
       // The session cookie disappears as if the server had dropped the session.
       await b.context.clearCookies();
       await page.getByTestId('user-menu').click();
