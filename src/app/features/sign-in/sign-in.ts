@@ -1,5 +1,6 @@
 import { ChangeDetectionStrategy, Component, inject, input, signal } from '@angular/core';
-import { FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { AbstractControl, FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { ErrorStateMatcher } from '@angular/material/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
@@ -10,8 +11,20 @@ import { AuthStore } from '../../core/auth/auth-store';
 import { homePathFor } from '../../core/auth/destinations';
 import { describeSignInError } from './sign-in-error';
 
+/**
+ * Field errors show once a field was touched (an empty submit touches every field), not merely
+ * because the form was submitted: after the server refuses a password the field is emptied and
+ * the one message that matters is the server's ("Wrong e-mail or password").
+ */
+class TouchedErrorStateMatcher implements ErrorStateMatcher {
+  isErrorState(control: AbstractControl | null): boolean {
+    return !!control && control.invalid && control.touched;
+  }
+}
+
 @Component({
   selector: 'fw-sign-in',
+  providers: [{ provide: ErrorStateMatcher, useClass: TouchedErrorStateMatcher }],
   imports: [ReactiveFormsModule, RouterLink, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatProgressBarModule],
   templateUrl: './sign-in.html',
   styleUrl: './sign-in.scss',
