@@ -5,11 +5,14 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { RouterLink } from '@angular/router';
+import { TYPICAL_SETTLE_TIME_S } from '../../../../shared/flux';
 import { SiteChoice } from '../../core/auth/site-choice';
 import type { LocalRecord } from '../../core/db/db-schema';
+import { liveSignal } from '../../core/db/live-query-signal';
 import { LocalWrites } from '../../core/sync/local-writes';
+import { LeakCheck, type LeakResult } from './leak-check';
 import { parseCm } from './offset-form';
-import { CHECK_ITEMS, clockOffsetS, leakPassed, type CheckKind } from './start-of-day-items';
+import { CHECK_ITEMS, clockOffsetS, type CheckKind } from './start-of-day-items';
 import { WalkContext } from './walk-context';
 import { localDayStart, todayChecks, walkOptions } from './walk-store';
 import { validated } from './visit-writes';
@@ -21,7 +24,7 @@ import { validated } from './visit-writes';
  */
 @Component({
   selector: 'fw-start-of-day',
-  imports: [DatePipe, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule, RouterLink],
+  imports: [DatePipe, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule, RouterLink, LeakCheck],
   templateUrl: './start-of-day.html',
   styleUrl: './walk.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -41,21 +44,23 @@ export class StartOfDay {
   });
   protected readonly doneCount = computed(() => CHECK_ITEMS.filter((i) => this.latest()[i.kind]).length);
   protected readonly leakLimit = computed(() => Number(this.options()?.site?.['leakSlopeUmolMolS'] ?? 0.05));
+  protected readonly timeZone = computed(() => String(this.options()?.site?.['timezone'] ?? 'UTC'));
+  /** The settle time of the site's current chamber profile: the sealed-plate closure is fitted like any other. */
+  private readonly profiles = liveSignal(() => this.site()?.id ?? null, async (db, siteId) =>
+    siteId ? (await db.records('chamberProfile').where('siteId').equals(siteId).toArray()).filter((p) => !p.deleted) : [], []);
+  protected readonly settleDefault = computed(() => {
+    const today = new Date().toISOString().slice(0, 10);
+    const current = this.profiles().filter((p) => String(p['validFrom']) <= today).sort((a, b) => String(b['validFrom']).localeCompare(String(a['validFrom'])))[0];
+    return typeof current?.['settleS'] === 'number' ? current['settleS'] : TYPICAL_SETTLE_TIME_S;
+  });
   protected readonly safetyNote = computed(() => String(this.options()?.site?.['safetyNote'] ?? '').trim());
 
   protected readonly ambient = signal('');
-  protected readonly slope = signal('');
   protected readonly analyzerTime = signal('');
   protected readonly skipping = signal<CheckKind | null>(null);
   protected readonly skipReason = signal('');
   protected readonly problem = signal('');
   protected readonly message = signal('');
-
-  protected readonly slopeValue = computed(() => parseCm(this.slope()));
-  protected readonly leakOk = computed(() => {
-    const s = this.slopeValue();
-    return s === null ? null : leakPassed(s, this.leakLimit());
-  });
 
   protected pickAnalyzer(id: string): void {
     this.walk.update({ analyzerId: id });
@@ -75,10 +80,8 @@ export class StartOfDay {
     return this.record('ambient', { co2Ppm: v });
   }
 
-  protected saveLeak(): Promise<void> {
-    const s = this.slopeValue();
-    if (s === null) return this.fail('Enter the slope on the sealed plate in µmol/mol/s.');
-    return this.record('leak', { slopeUmolMolS: s, passed: leakPassed(s, this.leakLimit()) });
+  protected saveLeak(r: LeakResult): Promise<void> {
+    return this.record('leak', { slopeUmolMolS: r.slopeUmolMolS, passed: r.passed, note: r.note });
   }
 
   protected saveClock(): Promise<void> {
@@ -102,7 +105,7 @@ export class StartOfDay {
     if (c['skipped']) return `Skipped: ${c['skipReason']}`;
     switch (c['kind']) {
       case 'ambient': return `${c['co2Ppm']} µmol/mol`;
-      case 'leak': return `${c['slopeUmolMolS']} µmol/mol/s — ${c['passed'] ? 'passed' : 'FAILED: check seals and tubing'}`;
+      case 'leak': return `${Number(c['slopeUmolMolS']).toFixed(4)} µmol/mol/s — ${c['passed'] ? 'passed' : 'FAILED: check seals and tubing'}`;
       case 'clock': return `analyzer ${Number(c['clockOffsetS']) >= 0 ? '+' : ''}${c['clockOffsetS']} s against this phone`;
       case 'safety-ack': return 'Acknowledged';
       default: return 'Done';

@@ -1,0 +1,117 @@
+import { DecimalPipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, computed, inject, input, output, signal } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatInputModule } from '@angular/material/input';
+import { MatRadioModule } from '@angular/material/radio';
+import { MatSelectModule } from '@angular/material/select';
+import type { LoggerMapping } from '../../../../shared/logger';
+import { DeviceMemory } from '../../core/device/device-memory';
+import { leakFromTyped, leakSlope, type LeakFit } from './leak-fit';
+import { leakPieces, loggerPresetKey, type LeakPiece } from './leak-file';
+import { parseCm } from './offset-form';
+import { leakPassed } from './start-of-day-items';
+
+export type LeakMethod = 'series' | 'file' | 'slope';
+
+/** What the start-of-day stores as the leak check. */
+export interface LeakResult {
+  slopeUmolMolS: number;
+  passed: boolean;
+  note: string;
+}
+
+/**
+ * The leak check: a closure on a sealed plate, given as a series typed by hand or the piece of
+ * a logger file, its slope after the settle time fitted by the flux engine's linear fit and
+ * judged against the site's limit. Typing the slope off the analyzer stays as a fallback that
+ * needs a reason.
+ */
+@Component({
+  selector: 'fw-leak-check',
+  imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatInputModule, MatRadioModule, MatSelectModule],
+  templateUrl: './leak-check.html',
+  styleUrl: './walk.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class LeakCheck {
+  private readonly memory = inject(DeviceMemory);
+  readonly limit = input.required<number>();
+  readonly settleDefault = input<number>(20);
+  readonly analyzerId = input<string | null>(null);
+  readonly timeZone = input<string>('UTC');
+  readonly save = output<LeakResult>();
+
+  protected readonly method = signal<LeakMethod>('series');
+  protected readonly settleText = signal<string | null>(null);
+  protected readonly settle = computed(() => parseCm(this.settleText() ?? String(this.settleDefault())));
+  protected readonly typed = signal('');
+  protected readonly fileName = signal('');
+  protected readonly pieces = signal<LeakPiece[]>([]);
+  protected readonly pieceIndex = signal(0);
+  protected readonly fileProblem = signal('');
+  protected readonly slopeText = signal('');
+  protected readonly reason = signal('');
+  protected readonly problem = signal('');
+
+  /** The fitted slope of the series or file piece (null until there is something to fit). */
+  protected readonly fit = computed<LeakFit | null>(() => {
+    const settle = this.settle() ?? NaN;
+    if (this.method() === 'series') return this.typed().trim() ? leakFromTyped(this.typed(), settle) : null;
+    if (this.method() === 'file') {
+      const p = this.pieces()[this.pieceIndex()];
+      return p ? leakSlope(p.series, settle) : null;
+    }
+    return null;
+  });
+
+  protected readonly slope = computed<number | null>(() => {
+    if (this.method() === 'slope') return parseCm(this.slopeText());
+    const f = this.fit();
+    return f?.ok ? f.slopeUmolMolS : null;
+  });
+
+  protected readonly verdict = computed(() => {
+    const s = this.slope();
+    return s === null ? null : leakPassed(s, this.limit());
+  });
+
+  protected async chooseFile(inputEl: HTMLInputElement): Promise<void> {
+    const f = inputEl.files?.[0];
+    if (!f) return;
+    this.fileProblem.set('');
+    this.pieces.set([]);
+    this.pieceIndex.set(0);
+    this.fileName.set(f.name);
+    try {
+      const preset = this.memory.read(loggerPresetKey(this.analyzerId())) as LoggerMapping | null;
+      const pieces = await leakPieces(await f.text(), this.timeZone(), preset);
+      if (!pieces.length) this.fileProblem.set(`${f.name}: no CO2 samples found. Check the columns once in Import logger file at a collar, then try again.`);
+      this.pieces.set(pieces);
+    } catch (err) {
+      this.fileProblem.set(err instanceof Error ? err.message : String(err));
+    }
+  }
+
+  protected submit(): void {
+    const s = this.slope();
+    const f = this.fit();
+    if (this.method() === 'slope') {
+      if (s === null) return this.problem.set('Enter the slope on the sealed plate in µmol/mol/s.');
+      const why = this.reason().trim();
+      if (!why) return this.problem.set('Say why the slope is typed instead of the closure (the lead sees it).');
+      this.problem.set('');
+      this.save.emit({ slopeUmolMolS: s, passed: leakPassed(s, this.limit()), note: `Slope typed from the analyzer: ${why}` });
+      return;
+    }
+    if (!f || !f.ok || s === null) {
+      return this.problem.set(f && !f.ok ? f.message : this.method() === 'file' ? 'Choose the logger file of the sealed-plate closure.' : 'Type the sealed-plate series, one "seconds CO2" a line.');
+    }
+    this.problem.set('');
+    const source = this.method() === 'file' ? `${this.fileName()}, ${this.pieces()[this.pieceIndex()]!.label}` : 'series typed by hand';
+    this.save.emit({
+      slopeUmolMolS: s, passed: leakPassed(s, this.limit()),
+      note: `Linear fit of ${f.n} samples from ${f.fromS} s to ${f.toS} s after a ${this.settle()} s settle time (${source})`,
+    });
+  }
+}
