@@ -60,7 +60,11 @@ describe('Walk in Chromium on a phone, offline', () => {
       await page.getByRole('button', { name: 'Warm-up done' }).click();
       await page.getByTestId('ambient-co2').fill('421.5');
       await page.getByRole('button', { name: 'Save ambient' }).click();
-      await page.getByTestId('leak-slope').fill('0.02');
+      // Leak check: the sealed-plate closure typed as a short series, fitted after a 20 s settle time:
+      // 415.0, 415.3, 415.6, 415.9 every 10 s → 0.03 µmol/mol/s (by hand), within the site's limit.
+      await page.getByTestId('leak-settle').fill('20');
+      await page.getByTestId('leak-series').fill('0 430\n10 425\n20 415.0\n30 415.3\n40 415.6\n50 415.9');
+      await page.getByTestId('leak-fitted').filter({ hasText: 'Slope 0.0300 µmol/mol/s: linear fit of 4 samples, 20–50 s' }).waitFor();
       await page.getByTestId('leak-verdict').filter({ hasText: 'Passes' }).waitFor();
       await page.getByRole('button', { name: 'Save leak check' }).click();
       await page.getByTestId('check-clock').getByRole('button', { name: 'Skip with a reason…' }).click();
@@ -84,7 +88,11 @@ describe('Walk in Chromium on a phone, offline', () => {
       // First collar, opened from the "next due" card: conditions, an uneven offset set, probes by permittivity.
       await page.getByTestId('next-collar').getByRole('link').click();
       await page.getByTestId('visit-code').filter({ hasText: first }).waitFor();
-      await page.getByRole('checkbox', { name: 'Rain in the last 24 h' }).check();
+      // Conditions by keyboard: focus and Space.
+      const rain = page.getByRole('checkbox', { name: 'Rain in the last 24 h' });
+      await rain.focus();
+      await page.keyboard.press('Space');
+      expect(await rain.isChecked()).toBe(true);
       await page.getByRole('button', { name: 'Save conditions' }).click();
       await page.getByTestId('visit-message').filter({ hasText: 'Conditions saved' }).waitFor();
       // Offsets by keypad: type, Enter to the next position; Enter on the last saves.
@@ -99,7 +107,10 @@ describe('Walk in Chromium on a phone, offline', () => {
       await page.keyboard.press('Enter');
       await page.getByTestId('offset-saved').waitFor();
       await page.getByTestId('soil-temp-1').fill('6.4');
-      await page.getByRole('radio', { name: 'Permittivity (Ka)' }).check();
+      // Moisture kind by keyboard: arrow from the checked radio to the next one.
+      await page.getByRole('radio', { name: 'VWC (%)' }).focus();
+      await page.keyboard.press('ArrowDown');
+      expect(await page.getByRole('radio', { name: 'Permittivity (Ka)' }).isChecked()).toBe(true);
       await page.getByTestId('moisture-raw').fill('20');
       // Topp et al. (1980) at Ka = 20: 34.5 % (by hand in probe-form.spec.ts).
       await page.getByTestId('moisture-vwc').filter({ hasText: '34.5 % VWC' }).waitFor();
@@ -146,9 +157,15 @@ describe('Walk in Chromium on a phone, offline', () => {
       expect(await page.locator('.leaflet-tile').count()).toBe(0);
       await readmeShot(page, 'walk-map');
       axe['map'] = await seriousAccessibilityProblems(page);
+      // A collar opened from the map by keyboard: its marker takes focus and Enter opens it.
+      const marker = page.locator(`.fw-marker[title="${third}, Skipped"]`);
+      await marker.focus();
+      expect(await marker.evaluate((el) => el === document.activeElement && el.tabIndex === 0)).toBe(true);
+      await page.keyboard.press('Enter');
+      await page.getByTestId('visit-code').filter({ hasText: third }).waitFor();
 
       // A new collar with a photo.
-      await page.getByRole('link', { name: '← Route' }).click();
+      await page.getByRole('link', { name: 'Back to the route' }).click();
       await page.getByRole('link', { name: 'Install a collar' }).click();
       await page.getByTestId('buried-services').waitFor();
       await page.getByTestId('install-code').fill('AH-NEW-1');
@@ -161,7 +178,10 @@ describe('Walk in Chromium on a phone, offline', () => {
       await page.getByTestId('install-area').filter({ hasText: '314.2 cm²' }).waitFor();
       await page.getByLabel('Height (cm)').fill('10');
       await page.getByLabel('Insertion depth (cm)').fill('5');
-      await page.getByTestId('install-photo').setInputFiles({ name: 'collar-new.png', mimeType: 'image/png', buffer: testPhoto() });
+      // The photo button by keyboard: focus and Enter open the file chooser.
+      await page.getByTestId('install-photo').focus();
+      const [chooser] = await Promise.all([page.waitForEvent('filechooser', { timeout: 10_000 }), page.keyboard.press('Enter')]);
+      await chooser.setFiles({ name: 'collar-new.png', mimeType: 'image/png', buffer: testPhoto() });
       await page.getByRole('img', { name: 'Photo 1 of the new collar' }).waitFor();
       axe['install'] = await seriousAccessibilityProblems(page);
       await page.getByRole('button', { name: 'Save the new collar' }).click();
@@ -186,12 +206,15 @@ describe('Walk in Chromium on a phone, offline', () => {
         throw new Error(`${(err as Error).message}\nsync sheet: ${await page.getByTestId('sync-sheet').innerText()}`);
       });
 
-      const checks = await query(`SELECT kind, skipped, skip_reason, passed, co2_ppm, slope_umol_mol_s FROM analyzer_check
+      const checks = await query(`SELECT kind, skipped, skip_reason, passed, co2_ppm, slope_umol_mol_s, note FROM analyzer_check
         WHERE updated_by = $1 AND at > now() - interval '2 hours' AND at < now() + interval '1 hour' ORDER BY kind`, [user.id]);
       expect(checks.map((c) => [c['kind'], c['skipped']])).toEqual([
         ['ambient', false], ['clock', true], ['leak', false], ['safety-ack', false], ['warm-up', false]]);
       expect(checks.find((c) => c['kind'] === 'clock')!['skip_reason']).toBe('Analyzer display unreadable in full sun');
-      expect(checks.find((c) => c['kind'] === 'leak')).toMatchObject({ passed: true, slope_umol_mol_s: 0.02 });
+      const leak = checks.find((c) => c['kind'] === 'leak')!;
+      expect(leak['passed']).toBe(true);
+      expect(leak['slope_umol_mol_s']).toBeCloseTo(0.03, 10);
+      expect(leak['note']).toBe('Linear fit of 4 samples from 20 s to 50 s after a 20 s settle time (series typed by hand)');
       expect(checks.find((c) => c['kind'] === 'ambient')!['co2_ppm']).toBe(421.5);
 
       const visits = await query(`SELECT c.code, v.round, v.skipped, v.skip_reason, v.conditions FROM visit v JOIN collar c ON c.id = v.collar_id

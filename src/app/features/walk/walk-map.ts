@@ -103,9 +103,18 @@ export class WalkMap {
         iconAnchor: [10, 10],
       });
       const marker = L.marker([r.latitude, r.longitude], { icon, title: label, alt: label, keyboard: true, riseOnHover: true });
-      marker.on('click', () => this.zone.run(() => void this.router.navigate(['/walk/visit', r.id])));
+      const open = () => this.zone.run(() => void this.router.navigate(['/walk/visit', r.id]));
+      marker.on('click', open);
       marker.addTo(this.layers.collars);
-      marker.getElement()?.setAttribute('aria-label', `Open collar ${label}`);
+      const el = marker.getElement();
+      el?.setAttribute('aria-label', `Open collar ${label}`);
+      // Leaflet makes the marker focusable but Enter only opens a popup: a focused marker opens its
+      // collar with Enter or Space, like the button it announces itself as.
+      el?.addEventListener('keydown', (e) => {
+        if (e.key !== 'Enter' && e.key !== ' ') return;
+        e.preventDefault();
+        open();
+      });
     }
     this.layers.me.clearLayers();
     const fix = this.gps.fix();
