@@ -15,6 +15,8 @@ import { queueFilterSchema, queueItem, reviewQueue } from './review-queue';
 /** The Bench is the lab's; leads and admins may look (decisions stay the lab's: the writer enforces it). */
 const BENCH_READERS: readonly Role[] = ['lab', 'lead', 'admin'];
 const idParams = z.object({ id: z.string().uuid('Closure ids are UUIDs') });
+/** Bulk accept always names a site: an empty filter must never accept every site's closures. */
+const bulkAcceptFilter = queueFilterSchema.extend({ siteId: z.string({ message: 'Name the site whose closures to accept' }).uuid('Site ids are UUIDs') });
 const recomputeBody = z.object({ siteId: z.string().uuid('siteId must be a UUID') });
 
 /**
@@ -34,7 +36,7 @@ export function registerBenchRoutes(r: RouteRegistry, ds: DataSource): void {
     return { items: await closureHistory(ds, id) };
   });
   r.add('post', '/api/bench/bulk-accept', ['lab'], (req) =>
-    bulkAccept(ds, req.user!, parse(queueFilterSchema, stringify(req.body), 'Some queue filters are not valid')));
+    bulkAccept(ds, req.user!, parse(bulkAcceptFilter, stringify(req.body), 'Some queue filters are not valid')));
   r.add('post', '/api/bench/recompute', ['lab', 'admin'], async (req, res) => {
     const { siteId } = parse(recomputeBody, req.body);
     // No job for a site that does not exist (404); the lab and admins see every site.

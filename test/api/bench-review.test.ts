@@ -120,6 +120,8 @@ describe('Bench review: decisions on closures', () => {
     const before = (await lab.get(`/api/bench/queue?siteId=${DEMO_SITE_ID}&campaignId=${open.id}&round=1&limit=500`)).body.items;
     const expected = before.filter((i: any) => i.flags.length === 0 && i.reviewState === 'unreviewed').map((i: any) => i.id);
     expect((await lead.post('/api/bench/bulk-accept', filter)).status).toBe(403);
+    const noSite = await lab.post('/api/bench/bulk-accept', {});
+    expect([noSite.status, noSite.body.error.fields[0].path]).toEqual([400, 'siteId']);
     const res = await lab.post('/api/bench/bulk-accept', filter);
     expect(res.status).toBe(200);
     expect(expected.length).toBeGreaterThan(0);
