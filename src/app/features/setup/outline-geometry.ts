@@ -50,16 +50,27 @@ export function parseOutline(text: string): ParsedOutline {
   const type = (geometry as { type?: unknown } | null)?.type;
   // The schema would also complain about every position of a line; the kind is the one problem to name.
   if (type !== 'Polygon') return { errors: [`The outline must be a GeoJSON Polygon${typeof type === 'string' ? `, not a ${type}` : ''}`] };
+  // Ring problems first, in words a person can act on; the shared schema (the rule on the server
+  // too) then checks everything else.
+  const rings = (geometry as { coordinates?: unknown }).coordinates;
+  const errors = Array.isArray(rings) ? ringProblems(rings as [number, number][][]) : [];
+  if (errors.length) return { errors };
   const check = outlineSchema.safeParse(geometry);
   if (!check.success) {
     return { errors: Object.entries(issuesByField(check.error.issues)).map(([path, msg]) => (path === '(form)' ? msg : `${path}: ${msg}`)) };
   }
-  const outline = check.data as Outline;
+  return { outline: check.data as Outline };
+}
+
+function ringProblems(rings: [number, number][][]): string[] {
+  // Positions that are not number pairs are the schema's to name, in its own words.
+  const pair = (p: unknown) => Array.isArray(p) && p.length === 2 && p.every((v) => typeof v === 'number');
+  if (!rings.every((r) => Array.isArray(r) && r.every(pair))) return [];
   const errors: string[] = [];
-  if (outline.coordinates.length === 0) errors.push('The polygon has no ring');
+  if (rings.length === 0) errors.push('The polygon has no ring');
   // A plot is one area: the editor keeps the outer ring only, so holes would be lost silently.
-  if (outline.coordinates.length > 1) errors.push('A plot outline is one ring without holes');
-  outline.coordinates.forEach((ring, i) => {
+  if (rings.length > 1) errors.push('A plot outline is one ring without holes');
+  rings.forEach((ring, i) => {
     const name = i === 0 ? 'The outer ring' : `Hole ${i}`;
     if (ring.length < 4) errors.push(`${name} needs at least 4 positions (3 corners and the first again)`);
     const [a, z] = [ring[0], ring[ring.length - 1]];
@@ -68,7 +79,7 @@ export function parseOutline(text: string): ParsedOutline {
       errors.push(`${name} has a position outside longitude −180…180 / latitude −90…90 (positions are [longitude, latitude])`);
     }
   });
-  return errors.length ? { errors } : { outline };
+  return errors;
 }
 
 /** Pretty GeoJSON for the text box: one position a line keeps long rings readable. */
