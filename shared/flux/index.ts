@@ -2,6 +2,7 @@
 export const engineVersion = '1.0.0';
 
 export { fitClosure } from './closure-fit';
+export { fitLinearRaw, type LinearRaw } from './linear-fit';
 export type {
   ClosureFitResult,
   ClosureInput,

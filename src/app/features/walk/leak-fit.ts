@@ -1,4 +1,4 @@
-import { fitLinearRaw } from '../../../../shared/flux/linear-fit';
+import { fitLinearRaw } from '../../../../shared/flux';
 import { readManualSeries } from '../closures/manual-series';
 
 export type LeakFit =
