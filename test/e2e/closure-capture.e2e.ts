@@ -3,12 +3,12 @@
 import { createHash } from 'node:crypto';
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
-import { Client } from 'pg';
 import type { Page } from 'playwright-core';
 import { createObjectStorage } from '../../server/attachments/object-storage';
 import { signInAs, waitForServiceWorkerControl } from './support/app-actions';
 import { RunningServer, startAppServer } from './support/app-server';
 import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
+import { queryE2eDatabase } from './support/suite';
 import { syncNow, waitForFirstSync, waitForSyncLabel } from './support/sync-actions';
 
 jest.setTimeout(600_000);
@@ -41,15 +41,7 @@ afterAll(async () => {
   await server?.stop();
 });
 
-async function query<T = Record<string, unknown>>(sql: string, params: unknown[] = []): Promise<T[]> {
-  const client = new Client({ connectionString: process.env['E2E_DATABASE_URL'] });
-  await client.connect();
-  try {
-    return (await client.query(sql, params)).rows as T[];
-  } finally {
-    await client.end();
-  }
-}
+const query = queryE2eDatabase;
 
 const sha256 = (b: Buffer) => createHash('sha256').update(b).digest('hex');
 

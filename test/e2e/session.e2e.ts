@@ -2,34 +2,14 @@
 // Callbacks passed to page.evaluate() run in the browser and use its DOM types.
 import { Page } from 'playwright-core';
 import { DEMO_PASSWORD, signInAs } from './support/app-actions';
-import { RunningServer, startAppServer } from './support/app-server';
-import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
+import { browserSuite } from './support/suite';
 import { waitForFirstSync } from './support/sync-actions';
 
 // The project-level testTimeout in jest.config.js does not reach these tests (measured: 5 s).
 jest.setTimeout(120_000);
 
-let server: RunningServer;
-let browser: Browser | null = null;
-
-beforeAll(async () => {
-  server = await startAppServer();
-});
-
-afterAll(async () => {
-  await server?.stop();
-});
-
-afterEach(async () => {
-  await browser?.close();
-  browser = null;
-});
-
-async function inBrowser(name: string, body: (page: Page, b: Browser) => Promise<void>): Promise<void> {
-  browser = await launchBrowser();
-  const b = browser;
-  await withScreenshotOnFailure(b.page, name, () => body(b.page, b));
-}
+const suite = browserSuite();
+const inBrowser = suite.inBrowser;
 
 async function signInMessage(page: Page): Promise<string> {
   const alert = page.getByRole('alert').filter({ hasText: /\S/ });
@@ -41,7 +21,7 @@ async function signInMessage(page: Page): Promise<string> {
 describe('Signing in and sessions in Chromium', () => {
   it('when the password is wrong, then the form says so and stays on sign-in', async () => {
     await inBrowser('wrong-password', async (page) => {
-      await page.goto(`${server.baseUrl}/sign-in`, { waitUntil: 'load' });
+      await page.goto(`${suite.server.baseUrl}/sign-in`, { waitUntil: 'load' });
       await page.getByLabel('E-mail').fill('crew@fluxwalk.example');
       await page.getByLabel('Password').fill('not-the-password');
       await page.getByRole('button', { name: 'Sign in' }).click();
@@ -53,13 +33,13 @@ describe('Signing in and sessions in Chromium', () => {
 
   it('when sign-in is paused after many failures, then the form explains the wait', async () => {
     await inBrowser('too-many-attempts', async (page) => {
-      await page.goto(`${server.baseUrl}/sign-in`, { waitUntil: 'load' });
+      await page.goto(`${suite.server.baseUrl}/sign-in`, { waitUntil: 'load' });
       // An address nobody uses, so the pause cannot block the other tests' demo users.
       const email = 'nobody-here@fluxwalk.example';
-      const { token } = (await (await page.request.get(`${server.baseUrl}/api/auth/csrf`)).json()) as { token: string };
+      const { token } = (await (await page.request.get(`${suite.server.baseUrl}/api/auth/csrf`)).json()) as { token: string };
       let status = 0;
       for (let i = 0; i < 30 && status !== 429; i++) {
-        const res = await page.request.post(`${server.baseUrl}/api/auth/login`, {
+        const res = await page.request.post(`${suite.server.baseUrl}/api/auth/login`, {
           headers: { 'X-CSRF-Token': token },
           data: { email, password: 'wrong' },
         });
@@ -77,7 +57,7 @@ describe('Signing in and sessions in Chromium', () => {
 
   it('when the server ends the session, then "sign in again" keeps the current screen', async () => {
     await inBrowser('sign-in-again', async (page, b) => {
-      const user = await signInAs(page, server.baseUrl, 'lead');
+      const user = await signInAs(page, suite.server.baseUrl, 'lead');
       await page.getByRole('link', { name: 'Setup' }).click();
       await page.getByRole('heading', { name: 'Setup' }).waitFor();
 

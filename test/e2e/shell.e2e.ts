@@ -10,34 +10,13 @@ import {
   signInAs,
   waitForServiceWorkerControl,
 } from './support/app-actions';
-import { RunningServer, startAppServer } from './support/app-server';
-import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
+import { browserSuite } from './support/suite';
 
 // The project-level testTimeout in jest.config.js does not reach these tests (measured: 5 s).
 jest.setTimeout(120_000);
 
-let server: RunningServer;
-let browser: Browser | null = null;
-
-beforeAll(async () => {
-  server = await startAppServer();
-});
-
-afterAll(async () => {
-  await server?.stop();
-});
-
-afterEach(async () => {
-  await browser?.close();
-  browser = null;
-});
-
-/** One fresh browser profile per test; a failing step leaves a screenshot in test-results/. */
-async function inBrowser(name: string, body: (page: Page, b: Browser) => Promise<void>): Promise<void> {
-  browser = await launchBrowser();
-  const b = browser;
-  await withScreenshotOnFailure(b.page, name, () => body(b.page, b));
-}
+const suite = browserSuite();
+const inBrowser = suite.inBrowser;
 
 async function userMenuText(page: Page): Promise<string> {
   return (await page.getByTestId('user-menu').innerText()).trim();
@@ -54,7 +33,7 @@ describe('App shell in Chromium', () => {
   for (const role of Object.keys(expected) as DemoRole[]) {
     it(`when the ${role} demo user signs in, then they see exactly their destinations and can sign out`, async () => {
       await inBrowser(`destinations-${role}`, async (page) => {
-        const user = await signInAs(page, server.baseUrl, role);
+        const user = await signInAs(page, suite.server.baseUrl, role);
 
         expect(new URL(page.url()).pathname).toBe(expected[role].landing);
         expect(await destinationNames(page)).toEqual(expected[role].names);
@@ -70,8 +49,8 @@ describe('App shell in Chromium', () => {
 
   it('when a crew user opens Board by its address, then they land on Walk', async () => {
     await inBrowser('crew-board-address', async (page) => {
-      await signInAs(page, server.baseUrl, 'crew');
-      await page.goto(`${server.baseUrl}/board`, { waitUntil: 'load' });
+      await signInAs(page, suite.server.baseUrl, 'crew');
+      await page.goto(`${suite.server.baseUrl}/board`, { waitUntil: 'load' });
       await page.getByRole('heading', { name: 'Walk' }).waitFor();
       expect(new URL(page.url()).pathname).toBe('/walk');
     });
@@ -80,7 +59,7 @@ describe('App shell in Chromium', () => {
   it('when the crew reloads offline after the service worker took control, then Walk opens with their name', async () => {
     await inBrowser('crew-offline-reload', async (page, b) => {
       // From the bare address, as someone opening the installed app would.
-      const user = await signInAs(page, server.baseUrl, 'crew', '/');
+      const user = await signInAs(page, suite.server.baseUrl, 'crew', '/');
       expect(new URL(page.url()).pathname).toBe('/walk');
       await waitForServiceWorkerControl(page);
 
@@ -103,7 +82,7 @@ describe('App shell in Chromium', () => {
 
   it('when a request fails while offline, then "Offline" is shown and no error dialog', async () => {
     await inBrowser('offline-request', async (page, b) => {
-      await signInAs(page, server.baseUrl, 'lead');
+      await signInAs(page, suite.server.baseUrl, 'lead');
       await goOffline(b.context);
 
       // Other parts of the app (sync) may also be calling the API; this waits for the menu's own request.
@@ -126,7 +105,7 @@ describe('App shell in Chromium', () => {
 
   it('when installed from the shell, then Chromium reports no installability errors', async () => {
     await inBrowser('installability', async (page, b) => {
-      await signInAs(page, server.baseUrl, 'crew');
+      await signInAs(page, suite.server.baseUrl, 'crew');
       await waitForServiceWorkerControl(page);
       expect(await installabilityErrors(b.context, page)).toEqual([]);
     });
@@ -134,7 +113,7 @@ describe('App shell in Chromium', () => {
 
   it('when checked with axe-core, then the sign-in page and the shell have no serious or critical violation', async () => {
     await inBrowser('accessibility', async (page) => {
-      await page.goto(`${server.baseUrl}/sign-in`, { waitUntil: 'networkidle' });
+      await page.goto(`${suite.server.baseUrl}/sign-in`, { waitUntil: 'networkidle' });
       expect(await seriousAccessibilityProblems(page)).toEqual([]);
 
       // The sign-in page with an error message on it.
@@ -144,7 +123,7 @@ describe('App shell in Chromium', () => {
       await page.getByRole('alert').filter({ hasText: /./ }).waitFor();
       expect(await seriousAccessibilityProblems(page)).toEqual([]);
 
-      await signInAs(page, server.baseUrl, 'lead');
+      await signInAs(page, suite.server.baseUrl, 'lead');
       expect(await seriousAccessibilityProblems(page)).toEqual([]);
 
       await page.getByTestId('user-menu').click();
@@ -156,7 +135,7 @@ describe('App shell in Chromium', () => {
 
   it('when outdoor contrast and a site are chosen, then both are remembered after a reload', async () => {
     await inBrowser('remembered-choices', async (page) => {
-      await signInAs(page, server.baseUrl, 'lead');
+      await signInAs(page, suite.server.baseUrl, 'lead');
       await page.getByTestId('user-menu').click();
       await page.getByRole('menuitemcheckbox', { name: 'Outdoor contrast' }).click();
       expect(await page.evaluate(() => document.documentElement.classList.contains('fw-outdoor'))).toBe(true);
@@ -184,9 +163,9 @@ describe('App shell in Chromium', () => {
         const url = new URL(r.url());
         if (url.protocol.startsWith('http')) hosts.add(url.host);
       });
-      await signInAs(page, server.baseUrl, 'lead');
+      await signInAs(page, suite.server.baseUrl, 'lead');
       await page.waitForLoadState('networkidle');
-      expect([...hosts]).toEqual([new URL(server.baseUrl).host]);
+      expect([...hosts]).toEqual([new URL(suite.server.baseUrl).host]);
     });
   });
 });

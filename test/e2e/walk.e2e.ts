@@ -1,10 +1,10 @@
 /// <reference lib="dom" />
 // Callbacks passed to page.evaluate() run in the browser and use its DOM types.
-import { Client } from 'pg';
 import type { Page } from 'playwright-core';
 import { seriousAccessibilityProblems, signInAs, waitForServiceWorkerControl, type AxeProblem } from './support/app-actions';
 import { RunningServer, startAppServer } from './support/app-server';
 import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
+import { queryE2eDatabase } from './support/suite';
 import { syncNow, waitForFirstSync, waitForSyncLabel } from './support/sync-actions';
 import { PHONE, choose, chooseByKeyboard, deviceBlob, readmeShot, testPhoto } from './support/walk-actions';
 
@@ -22,15 +22,7 @@ afterAll(async () => {
   await server?.stop();
 });
 
-async function query<T = Record<string, unknown>>(sql: string, params: unknown[] = []): Promise<T[]> {
-  const client = new Client({ connectionString: process.env['E2E_DATABASE_URL'] });
-  await client.connect();
-  try {
-    return (await client.query(sql, params)).rows as T[];
-  } finally {
-    await client.end();
-  }
-}
+const query = queryE2eDatabase;
 
 /**
  * axe on one of the Walk screens. The shell's "Offline" snackbar (shown for 8 s after the first
