@@ -146,7 +146,8 @@ describe('Bench review in Chromium', () => {
       await page.locator('select[name=campaignId]').selectOption('');
       await q;
       await page.getByText('Context of the day').click();
-      q = queueAnswer(page);
+      // Only the answer to this filter: the queue also reloads by itself when a recompute ends.
+      q = page.waitForResponse((r) => r.url().includes('/api/bench/queue') && r.url().includes('recomputedSinceReview=true') && r.status() === 200);
       const d = detailAnswer(page);
       await page.locator('select[name=recomputedSinceReview]').selectOption('yes');
       const marked = await (await q).json();
