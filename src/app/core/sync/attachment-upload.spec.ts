@@ -9,6 +9,7 @@ import { SITE, testDb } from '../db/testing/test-db';
 import { uploadPendingBlobs } from './attachment-upload';
 import { SyncFailed } from './sync-api';
 import { SyncEngine } from './sync-engine';
+import { until } from '../db/testing/until';
 
 const SHA = 'a'.repeat(64);
 const fields = { siteId: SITE, ownerEntity: 'closure', ownerId: '33333333-3333-4333-8333-333333333333', fileName: 'day.csv', mediaType: 'text/csv', sizeBytes: 5, sha256: SHA };
@@ -66,16 +67,6 @@ describe('uploadPendingBlobs', () => {
     expect((await db.blobs.get(id))!.uploadedAt).not.toBeNull();
   });
 });
-
-async function until<T>(probe: () => T | undefined | null | false, what: string): Promise<T> {
-  for (let i = 0; i < 300; i++) {
-    TestBed.tick();
-    const v = probe();
-    if (v) return v;
-    await new Promise((r) => setTimeout(r, 5));
-  }
-  throw new Error(`timed out waiting for ${what}`);
-}
 
 describe('SyncEngine upload step', () => {
   afterEach(() => localStorage.clear());

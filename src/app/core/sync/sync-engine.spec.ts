@@ -9,20 +9,11 @@ import { collar } from '../db/testing/test-db';
 import { PendingWorkGuard } from '../sw-update/pending-work-guard';
 import { LocalWrites } from './local-writes';
 import { SyncEngine } from './sync-engine';
+import { until } from '../db/testing/until';
 
 const A = 'aaaaaaaa-aaaa-4aaa-8aaa-aaaaaaaaaaaa';
 const B = 'bbbbbbbb-bbbb-4bbb-8bbb-bbbbbbbbbbbb';
 let userNo = 0;
-
-async function until<T>(probe: () => T | undefined | null | false, what: string): Promise<T> {
-  for (let i = 0; i < 300; i++) {
-    TestBed.tick();
-    const v = probe();
-    if (v) return v;
-    await new Promise((r) => setTimeout(r, 5));
-  }
-  throw new Error(`timed out waiting for ${what}`);
-}
 
 async function setUp() {
   const userId = `0000000${++userNo}-0000-4000-8000-000000000000`.slice(-36);

@@ -13,6 +13,7 @@ import { WalkContext } from '../walk/walk-context';
 import { ClosureCard } from './closure-card';
 import { ClosurePanel } from './closure-panel';
 import { SpotChart, type SpotChartInput } from './spot-chart';
+import { until } from '../../core/db/testing/until';
 
 const SITE = '11111111-1111-4111-8111-111111111111';
 const COLLAR = '33333333-3333-4333-8333-333333333333';
@@ -31,16 +32,6 @@ class ChartStandIn {
   data: SpotChartInput | null = null;
 }
 Component({ selector: 'fw-spot-chart', template: '', inputs: ['data'] })(ChartStandIn);
-
-async function until<T>(probe: () => T | undefined | null | false | Promise<T | undefined | null | false>, what: string): Promise<T> {
-  for (let i = 0; i < 400; i++) {
-    TestBed.tick();
-    const v = await probe();
-    if (v) return v;
-    await new Promise((r) => setTimeout(r, 5));
-  }
-  throw new Error(`timed out waiting for ${what}`);
-}
 
 async function render(extra: (db: FluxDb) => Promise<void> = async () => undefined) {
   const userId = `0000000${++userNo}-0000-4000-8000-00000000000c`.slice(-36);

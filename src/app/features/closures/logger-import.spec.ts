@@ -16,6 +16,7 @@ import type { LoggerMapping } from '../../../../shared/logger';
 import type { FluxDb } from '../../core/db/db-schema';
 import { DeviceDb } from '../../core/db/device-db';
 import { LoggerImport, type LoggerImportData } from './logger-import';
+import { until } from '../../core/db/testing/until';
 
 const SITE = '11111111-1111-4111-8111-111111111111';
 const CAMPAIGN = '44444444-4444-4444-8444-444444444444';
@@ -23,16 +24,6 @@ const ANALYZER = '77777777-7777-4777-8777-777777777777';
 // Two preamble lines, ";" and decimal comma, DD.MM.YYYY wall times in Europe/Berlin (test/fixtures/logger/README.md).
 const FILE = readFileSync(join(__dirname, '../../../../test/fixtures/logger/semicolon-decimal-comma.csv'), 'utf8');
 let userNo = 0;
-
-async function until<T>(probe: () => T | undefined | null | false | Promise<T | undefined | null | false>, what: string): Promise<T> {
-  for (let i = 0; i < 400; i++) {
-    TestBed.tick();
-    const v = await probe();
-    if (v) return v;
-    await new Promise((r) => setTimeout(r, 5));
-  }
-  throw new Error(`timed out waiting for ${what}`);
-}
 
 async function render() {
   const userId = `0000000${++userNo}-0000-4000-8000-00000000000d`.slice(-36);

@@ -9,6 +9,7 @@ import { provideRouter } from '@angular/router';
 import type { FluxDb } from '../../core/db/db-schema';
 import { DeviceDb } from '../../core/db/device-db';
 import { CollarEvents } from './collar-events';
+import { until } from '../../core/db/testing/until';
 
 const SITE = '11111111-1111-4111-8111-111111111111';
 const OTHER_SITE = '11111111-1111-4111-8111-999999999999';
@@ -17,16 +18,6 @@ const NEW_COLLAR = '33333333-3333-4333-8333-444444444444';
 const COLLAR_10 = '33333333-3333-4333-8333-555555555555';
 const ELSEWHERE = '33333333-3333-4333-8333-666666666666';
 let userNo = 0;
-
-async function until<T>(probe: () => T | undefined | null | false | Promise<T | undefined | null | false>, what: string): Promise<T> {
-  for (let i = 0; i < 400; i++) {
-    TestBed.tick();
-    const v = await probe();
-    if (v) return v;
-    await new Promise((r) => setTimeout(r, 5));
-  }
-  throw new Error(`timed out waiting for ${what}`);
-}
 
 async function render() {
   const userId = `0000000${++userNo}-0000-4000-8000-00000000000c`.slice(-36);

@@ -10,6 +10,7 @@ import type { FluxDb, LocalRecord } from '../../core/db/db-schema';
 import { DeviceDb } from '../../core/db/device-db';
 import { VisitPage } from './visit-page';
 import { settlingNote } from './visit-store';
+import { until } from '../../core/db/testing/until';
 
 // Collar insertion cuts roots and disturbs the soil, so closures right after an install or a reseat
 // read high: waiting at least a day, better about a week, is common practice (from memory; the
@@ -44,16 +45,6 @@ describe('settlingNote', () => {
     expect(settlingNote(collar('2026-06-08'), [], null, NOW)).toBeNull();
   });
 });
-
-async function until<T>(probe: () => T | undefined | null | false | Promise<T | undefined | null | false>, what: string): Promise<T> {
-  for (let i = 0; i < 400; i++) {
-    TestBed.tick();
-    const v = await probe();
-    if (v) return v;
-    await new Promise((r) => setTimeout(r, 5));
-  }
-  throw new Error(`timed out waiting for ${what}`);
-}
 
 const localDaysAgo = (n: number) => {
   const d = new Date();

@@ -15,22 +15,13 @@ import { DeviceDb } from '../../core/db/device-db';
 import { SkipForm } from './skip-form';
 import { VisitPage } from './visit-page';
 import { WalkContext } from './walk-context';
+import { until } from '../../core/db/testing/until';
 
 const SITE = '11111111-1111-4111-8111-111111111111';
 const PLOT = '22222222-2222-4222-8222-222222222222';
 const COLLAR = '33333333-3333-4333-8333-333333333333';
 const CAMPAIGN = '44444444-4444-4444-8444-444444444444';
 let userNo = 0;
-
-async function until<T>(probe: () => T | undefined | null | false | Promise<T | undefined | null | false>, what: string): Promise<T> {
-  for (let i = 0; i < 400; i++) {
-    TestBed.tick();
-    const v = await probe();
-    if (v) return v;
-    await new Promise((r) => setTimeout(r, 5));
-  }
-  throw new Error(`timed out waiting for ${what}`);
-}
 
 describe('SkipForm', () => {
   async function render() {
