@@ -16,3 +16,17 @@ window.matchMedia ??= (query: string) =>
     addListener: () => undefined, removeListener: () => undefined,
     addEventListener: () => undefined, removeEventListener: () => undefined, dispatchEvent: () => false,
   }) as MediaQueryList;
+
+// jsdom's Blob has no text(); the app reads the JSON error body of a file request with it.
+Blob.prototype.text ??= function text(this: Blob): Promise<string> {
+  return new Promise((resolve, reject) => {
+    const reader = new FileReader();
+    reader.onload = () => resolve(String(reader.result));
+    reader.onerror = () => reject(reader.error);
+    reader.readAsText(this);
+  });
+};
+
+// jsdom has no object URLs; a download made in the page creates and later revokes one.
+URL.createObjectURL ??= () => 'blob:jsdom-stand-in';
+URL.revokeObjectURL ??= () => undefined;

@@ -1,6 +1,7 @@
 import type { DataSource } from 'typeorm';
+import { v4 as uuidv4 } from 'uuid';
 import { z } from 'zod';
-import { collarTagUrl } from '../../shared/model/collar-tag';
+import { collarTagUrl, shortTagId } from '../../shared/model/collar-tag';
 import { AppError } from '../core/errors';
 import type { Actor } from '../records/record-writer';
 import { siteForActor } from './site-access';
@@ -27,6 +28,25 @@ export const tagQuerySchema = z.object({
 });
 export type TagQuery = z.infer<typeof tagQuerySchema>;
 
+/** Codes a blank tag may carry: short, printable, no spaces (they are painted on collars too). */
+const CODE_PREFIX = /^[A-Za-z0-9][A-Za-z0-9_.-]{0,11}$/;
+export const blankTagQuerySchema = z.object({
+  paper: tagQuerySchema.shape.paper,
+  count: z.coerce.number({ message: 'count must be a number' }).int('count must be a whole number')
+    .min(1, 'count must be at least 1').max(500, 'At most 500 tags per sheet').default(21),
+  codePrefix: z.string().trim().regex(CODE_PREFIX, 'codePrefix: up to 12 letters, digits, "-", "_" or ".", starting with a letter or digit').optional(),
+  firstNumber: z.coerce.number({ message: 'firstNumber must be a number' }).int('firstNumber must be a whole number')
+    .min(0, 'firstNumber must be 0 or more').max(999_999, 'firstNumber must be below 1 000 000').optional(),
+  /** Zero-padding of the running number: digits=2 gives C09, C10, … */
+  digits: z.coerce.number({ message: 'digits must be a number' }).int('digits must be a whole number')
+    .min(1, 'digits must be 1 to 6').max(6, 'digits must be 1 to 6').optional(),
+}).refine((q) => q.firstNumber === undefined || q.codePrefix !== undefined, {
+  message: 'firstNumber needs a codePrefix', path: ['firstNumber'],
+}).refine((q) => q.digits === undefined || q.codePrefix !== undefined, {
+  message: 'digits needs a codePrefix', path: ['digits'],
+});
+export type BlankTagQuery = z.infer<typeof blankTagQuerySchema>;
+
 // Measured: pdfmake draws each QR module as a vector rect, ~25 ms a tag on a busy 2-core machine
 // (3000 tags: 76 s). 500 tags keep one request near 12 s; larger sites print a plot at a time.
 export const MAX_TAGS = 500;
@@ -44,22 +64,28 @@ const PAPER = { a4: { size: 'A4', w: 595.28, h: 841.89 }, letter: { size: 'LETTE
 // What a tag's QR code holds is defined once in shared/, where Walk reads it back.
 export { collarTagUrl } from '../../shared/model/collar-tag';
 
+/** One tag: a collar that exists (with its plot), or a blank tag for a new collar (plotCode null). */
 export interface TagCollar {
   id: string;
   code: string;
-  plotCode: string;
+  plotCode: string | null;
 }
 
 function tagCell(c: TagCollar, siteName: string, origin: string) {
   const clip = (s: string, n: number) => (s.length > n ? `${s.slice(0, n - 1)}…` : s);
+  const blank = c.plotCode === null;
+  const url = blank ? collarTagUrl(origin, c.id, c.code || null) : collarTagUrl(origin, c.id);
+  const codeLine = blank && !c.code
+    ? { text: 'Code: ________', bold: true, fontSize: 11 }
+    : { text: clip(c.code, 24), bold: true, fontSize: c.code.length <= 8 ? 15 : 10 };
   return {
     columns: [
-      { qr: collarTagUrl(origin, c.id), fit: QR_PT, eccLevel: 'M', margin: [QUIET, 8, 0, 0], width: QR_PT + QUIET },
+      { qr: url, fit: QR_PT, eccLevel: 'M', margin: [QUIET, 8, 0, 0], width: QR_PT + QUIET },
       {
         width: '*', margin: [QUIET, 10, 4, 0],
         stack: [
-          { text: clip(c.code, 24), bold: true, fontSize: c.code.length <= 8 ? 15 : 10 },
-          { text: `Plot ${clip(c.plotCode, 20)}`, fontSize: 9, margin: [0, 4, 0, 0] },
+          codeLine,
+          { text: blank ? `New collar · tag ${shortTagId(c.id)}` : `Plot ${clip(c.plotCode!, 20)}`, fontSize: 9, margin: [0, 4, 0, 0] },
           { text: clip(siteName, 60), fontSize: 7, color: '#333333', margin: [0, 4, 0, 0] },
         ],
       },
@@ -111,4 +137,26 @@ export async function collarTagSheet(ds: DataSource, actor: Actor, siteId: strin
     [siteId, q.plotId ?? null, q.includeRetired === 'true']);
   if (collars.length > MAX_TAGS) throw new AppError(400, `At most ${MAX_TAGS} tags per sheet: choose one plot at a time`);
   return { pdf: await renderTagSheet(collars, site.name, q.paper, origin), count: collars.length, siteName: site.name };
+}
+
+/**
+ * Tags for collars not installed yet: each holds a fresh collar id that the collar takes when the
+ * crew scans the tag on the install screen, and, when a code prefix is given, the planned code
+ * (prefix + running number, zero-padded to `digits`). Planned codes already used at the site are refused, naming them.
+ * Nothing is stored: an unused tag costs nothing, and ids are random so they never collide.
+ */
+export async function blankTagSheet(ds: DataSource, actor: Actor, siteId: string, q: BlankTagQuery, origin: string) {
+  const site = await siteForActor(ds, actor, siteId);
+  const first = q.firstNumber ?? 1;
+  const codes = Array.from({ length: q.count }, (_, i) => (q.codePrefix ? `${q.codePrefix}${String(first + i).padStart(q.digits ?? 1, '0')}` : ''));
+  if (q.codePrefix) {
+    const taken: { code: string }[] = await ds.query(
+      `SELECT code FROM collar WHERE site_id = $1 AND NOT deleted AND code = ANY($2::text[]) ORDER BY code LIMIT 6`, [siteId, codes]);
+    if (taken.length) {
+      const names = taken.slice(0, 5).map((t) => t.code).join(', ') + (taken.length > 5 ? ', …' : '');
+      throw new AppError(409, `These codes are already used at this site: ${names}. Choose another prefix or first number.`);
+    }
+  }
+  const tags: TagCollar[] = codes.map((code) => ({ id: uuidv4(), code, plotCode: null }));
+  return { pdf: await renderTagSheet(tags, site.name, q.paper, origin), count: tags.length, siteName: site.name };
 }

@@ -1,4 +1,4 @@
-import type { Request } from 'express';
+import type { Request, Response } from 'express';
 import type { DataSource } from 'typeorm';
 import { z } from 'zod';
 import type { RouteRegistry } from '../core/route-registry';
@@ -7,7 +7,7 @@ import { guardWrites } from '../records/write-guards';
 import { importRequestSchema } from './collar-csv';
 import { guardCollarTreatment } from './collar-treatment-guard';
 import { commitCollarImport, previewCollarImport } from './collar-import';
-import { collarTagSheet, tagQuerySchema } from './collar-tags-pdf';
+import { blankTagQuerySchema, blankTagSheet, collarTagSheet, tagQuerySchema } from './collar-tags-pdf';
 import { createProfileVersion, guardProfileWrite, newVersionSchema, previewSchema, profileUsage, recomputePreview } from './profile-versions';
 
 const siteParam = z.object({ siteId: z.string().uuid('Site ids are UUIDs') });
@@ -17,6 +17,15 @@ const SITE_KEEPERS = ['lead', 'admin'] as const;
 const ADMIN = ['admin'] as const;
 
 const origin = (req: Request) => `${req.protocol}://${req.get('host') ?? 'localhost'}`;
+
+/** A tag sheet as a download named after the site and paper, with the tag count for scripts. */
+function sendTagSheet(res: Response, sheet: { pdf: Buffer; count: number; siteName: string }, kind: string, paper: string): void {
+  const site = sheet.siteName.replace(/[^A-Za-z0-9]+/g, '-').replace(/^-|-$/g, '').toLowerCase() || 'site';
+  res.setHeader('Content-Type', 'application/pdf');
+  res.setHeader('Content-Disposition', `attachment; filename="${kind}-${site}-${paper}.pdf"`);
+  res.setHeader('X-Tag-Count', String(sheet.count));
+  res.send(sheet.pdf);
+}
 
 /**
  * Setup work that is more than one record: collar import (preview, then all-or-nothing commit),
@@ -41,12 +50,13 @@ export function registerSetupRoutes(r: RouteRegistry, ds: DataSource): void {
   r.add('get', '/api/sites/:siteId/collar-tags.pdf', SITE_KEEPERS, async (req, res) => {
     const { siteId } = parse(siteParam, req.params);
     const q = parse(tagQuerySchema, req.query, 'The tag sheet options are not valid');
-    const sheet = await collarTagSheet(ds, req.user!, siteId, q, origin(req));
-    const file = `collar-tags-${sheet.siteName.replace(/[^A-Za-z0-9]+/g, '-').replace(/^-|-$/g, '').toLowerCase() || 'site'}-${q.paper}.pdf`;
-    res.setHeader('Content-Type', 'application/pdf');
-    res.setHeader('Content-Disposition', `attachment; filename="${file}"`);
-    res.setHeader('X-Tag-Count', String(sheet.count));
-    res.send(sheet.pdf);
+    sendTagSheet(res, await collarTagSheet(ds, req.user!, siteId, q, origin(req)), 'collar-tags', q.paper);
+  });
+
+  r.add('get', '/api/sites/:siteId/blank-collar-tags.pdf', SITE_KEEPERS, async (req, res) => {
+    const { siteId } = parse(siteParam, req.params);
+    const q = parse(blankTagQuerySchema, req.query, 'The blank tag options are not valid');
+    sendTagSheet(res, await blankTagSheet(ds, req.user!, siteId, q, origin(req)), 'new-collar-tags', q.paper);
   });
 
   r.add('get', '/api/chamber-profiles/:id/usage', ['lead', 'lab', 'admin'], async (req) => {

@@ -1,4 +1,4 @@
-import { collarIdFromTag, collarTagUrl } from './collar-tag';
+import { collarIdFromTag, collarTagUrl, readCollarTag } from './collar-tag';
 
 const ID = '6f1c2a4e-8b7d-4c3e-9a1f-2b3c4d5e6f70';
 
@@ -16,5 +16,17 @@ describe('collar tag addresses', () => {
   it('when the text holds no collar id, then nothing opens', () => {
     expect(collarIdFromTag('https://fw.example/walk/collars/not-an-id')).toBeNull();
     expect(collarIdFromTag('hello')).toBeNull();
+  });
+
+  it('when a blank tag carries a planned code, then the code comes back with the id, decoded', () => {
+    const url = collarTagUrl('https://fw.example', ID, 'N-7 & B');
+    expect(url).toBe(`https://fw.example/walk/collars/${ID}?code=N-7%20%26%20B`);
+    expect(readCollarTag(url)).toEqual({ id: ID, code: 'N-7 & B' });
+    expect(readCollarTag(collarTagUrl('https://fw.example', ID))).toEqual({ id: ID, code: null });
+  });
+
+  it('when the planned code is empty or longer than a code can be, then it is ignored and the id still reads', () => {
+    expect(readCollarTag(`https://fw.example/walk/collars/${ID}?code=%20`)).toEqual({ id: ID, code: null });
+    expect(readCollarTag(`https://fw.example/walk/collars/${ID}?code=${'x'.repeat(41)}`)).toEqual({ id: ID, code: null });
   });
 });

@@ -73,4 +73,53 @@ describe('printable collar tag sheet', () => {
     const member = await makeUser(t.app, admin, 'lead', [siteId]);
     expect((await sheet(member, '')).headers['x-tag-count']).toBe('40');
   });
+
+  describe('blank tags for collars not installed yet', () => {
+    const blank = (s: Session, query: string) => s.get(`/api/sites/${siteId}/blank-collar-tags.pdf${query}`).buffer(true).parse(binary);
+
+    it('when 25 blank tags with a code prefix are printed, then each QR holds a fresh collar id and its planned code in order', async () => {
+      const res = await blank(admin, '?count=25&codePrefix=N-&firstNumber=101');
+      expect(res.status).toBe(200);
+      expect(res.headers['x-tag-count']).toBe('25');
+      expect(res.headers['content-disposition']).toMatch(/^attachment; filename="new-collar-tags-.*-a4\.pdf"$/);
+      const { pages, codes } = decodePdfQrCodes(res.body as Buffer);
+      expect(pages).toBe(2);
+      const read = codes.flat().map((u) => /\/walk\/collars\/([0-9a-f-]{36})\?code=([^&]+)$/.exec(u));
+      expect(read.every(Boolean)).toBe(true);
+      expect(read.map((m) => decodeURIComponent(m![2]))).toEqual(Array.from({ length: 25 }, (_, i) => `N-${101 + i}`));
+      const ids = read.map((m) => m![1]);
+      expect(new Set(ids).size).toBe(25);
+      expect(ids.filter((id) => collars.some((c) => c.id === id))).toEqual([]);
+    });
+
+    it('when no prefix is given, then the tags carry only an id (the crew types the code) and a second sheet has other ids', async () => {
+      const one = decodePdfQrCodes((await blank(admin, '?count=3')).body as Buffer).codes.flat();
+      const two = decodePdfQrCodes((await blank(admin, '?count=3')).body as Buffer).codes.flat();
+      for (const u of [...one, ...two]) expect(u).toMatch(/\/walk\/collars\/[0-9a-f-]{36}$/);
+      expect(new Set([...one, ...two]).size).toBe(6);
+    });
+
+    it('when planned codes are already used at the site, then 409 names them and nothing is printed', async () => {
+      expect(collars.map((c) => c.code)).toEqual(expect.arrayContaining(['C09', 'C10']));
+      const res = await admin.get(`/api/sites/${siteId}/blank-collar-tags.pdf?count=2&codePrefix=C&firstNumber=9&digits=2`);
+      expect(res.status).toBe(409);
+      expect(res.body.error.message).toBe('These codes are already used at this site: C09, C10. Choose another prefix or first number.');
+      const free = await blank(admin, '?count=2&codePrefix=C&firstNumber=41&digits=2');
+      expect(decodePdfQrCodes(free.body as Buffer).codes.flat().map((u) => u.split('?code=')[1])).toEqual(['C41', 'C42']);
+    });
+
+    it('when the options are out of range, then 400 names each field', async () => {
+      const res = await admin.get(`/api/sites/${siteId}/blank-collar-tags.pdf?count=501&codePrefix=${encodeURIComponent('<b>x')}`);
+      expect(res.status).toBe(400);
+      expect(res.body.error.fields.map((f: { path: string }) => f.path).sort()).toEqual(['codePrefix', 'count']);
+      const orphan = await admin.get(`/api/sites/${siteId}/blank-collar-tags.pdf?firstNumber=3`);
+      expect(orphan.body.error.fields).toEqual([{ path: 'firstNumber', message: 'firstNumber needs a codePrefix' }]);
+    });
+
+    it('when crew or lab ask, they are refused by role; a lead outside the site by membership', async () => {
+      for (const s of [crew, lab]) expect((await s.get(`/api/sites/${siteId}/blank-collar-tags.pdf`)).status).toBe(403);
+      const outsider = await makeUser(t.app, admin, 'lead', []);
+      expect((await outsider.get(`/api/sites/${siteId}/blank-collar-tags.pdf`)).status).toBe(403);
+    });
+  });
 });

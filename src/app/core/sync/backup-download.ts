@@ -1,4 +1,5 @@
 import { Injectable, inject } from '@angular/core';
+import { saveFile } from '../api/save-file';
 import { AuthStore } from '../auth/auth-store';
 import { makeBackup } from '../db/backup-file';
 import { DeviceDb } from '../db/device-db';
@@ -15,14 +16,7 @@ export class BackupDownload {
     const file = await this.deviceDb.run((db) => makeBackup(db, { id: user.id, email: user.email, displayName: user.displayName }));
     const stamp = file.createdAt.replace(/[:.]/g, '-').slice(0, 19);
     const name = `fluxwalk-backup-${user.email.replace(/[^a-z0-9]+/gi, '-')}-${stamp}.json`;
-    const url = URL.createObjectURL(new Blob([JSON.stringify(file, null, 1)], { type: 'application/json' }));
-    const a = document.createElement('a');
-    a.href = url;
-    a.download = name;
-    document.body.appendChild(a);
-    a.click();
-    a.remove();
-    setTimeout(() => URL.revokeObjectURL(url), 10_000);
+    saveFile(new Blob([JSON.stringify(file, null, 1)], { type: 'application/json' }), name);
     return name;
   }
 }

@@ -21,8 +21,9 @@ export class LocalWrites {
     return op;
   }
 
-  async create(entity: SyncEntityName, fields: Record<string, unknown>): Promise<LocalRecord> {
-    const rec = await this.deviceDb.run((db) => createRecord(db, entity, fields));
+  /** A new record; `id` only when the id was decided elsewhere (a collar taking a printed tag's id). */
+  async create(entity: SyncEntityName, fields: Record<string, unknown>, opts: { id?: string } = {}): Promise<LocalRecord> {
+    const rec = await this.deviceDb.run((db) => createRecord(db, entity, fields, opts));
     this.engine.requestSync('create');
     return rec;
   }

@@ -1,4 +1,4 @@
-import { HttpClient } from '@angular/common/http';
+import { HttpClient, HttpErrorResponse } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
 
@@ -71,6 +71,26 @@ export class SetupApi {
     return `/api/sites/${siteId}/collar-tags.pdf?paper=${paper}${plotId ? `&plotId=${encodeURIComponent(plotId)}` : ''}`;
   }
 
+  /**
+   * A sheet of blank tags for collars not installed yet. Fetched (not a plain link) so that a
+   * refusal, e.g. planned codes already in use, is shown instead of being saved as the "PDF".
+   */
+  async blankTags(siteId: string, options: BlankTagOptions): Promise<{ pdf: Blob; fileName: string; count: number }> {
+    const params: Record<string, string> = { paper: options.paper, count: String(options.count) };
+    if (options.codePrefix) {
+      params['codePrefix'] = options.codePrefix;
+      params['firstNumber'] = String(options.firstNumber);
+      params['digits'] = String(options.digits);
+    }
+    try {
+      const res = await firstValueFrom(this.http.get(`/api/sites/${siteId}/blank-collar-tags.pdf`, { params, responseType: 'blob', observe: 'response' }));
+      const fileName = /filename="([^"]+)"/.exec(res.headers.get('Content-Disposition') ?? '')?.[1] ?? 'new-collar-tags.pdf';
+      return { pdf: res.body!, fileName, count: Number(res.headers.get('X-Tag-Count')) };
+    } catch (err) {
+      throw await withJsonError(err);
+    }
+  }
+
   profileUsage(id: string): Promise<{ closures: number }> {
     return firstValueFrom(this.http.get<{ closures: number }>(`/api/chamber-profiles/${id}/usage`));
   }
@@ -90,5 +110,25 @@ export class SetupApi {
 
   async updateUser(id: string, changes: Partial<Pick<UserRow, 'roles' | 'siteIds' | 'disabled' | 'displayName'>>): Promise<UserRow> {
     return (await firstValueFrom(this.http.patch<{ user: UserRow }>(`/api/users/${id}`, changes))).user;
+  }
+}
+
+export interface BlankTagOptions {
+  paper: 'a4' | 'letter';
+  count: number;
+  /** Empty: the tags carry no planned code and the crew types it when installing. */
+  codePrefix: string;
+  firstNumber: number;
+  digits: number;
+}
+
+/** A blob request's error body is a Blob: read it as the server's JSON so messages show as usual. */
+async function withJsonError(err: unknown): Promise<unknown> {
+  if (!(err instanceof HttpErrorResponse) || !(err.error instanceof Blob)) return err;
+  try {
+    const body = JSON.parse(await err.error.text());
+    return new HttpErrorResponse({ error: body, headers: err.headers, status: err.status, statusText: err.statusText, url: err.url ?? undefined });
+  } catch {
+    return err;
   }
 }

@@ -6,6 +6,7 @@ import { MatTabsModule } from '@angular/material/tabs';
 import { AuthStore } from '../../core/auth/auth-store';
 import { SiteChoice } from '../../core/auth/site-choice';
 import { serverMessage } from '../../core/api/api-error';
+import { BlankTags } from './blank-tags';
 import { AnalyzerChecks } from './analyzer-checks';
 import { CollarImport } from './collar-import';
 import { CollarList } from './collar-list';
@@ -21,7 +22,7 @@ import { SiteForm } from './site-form';
 /** Sites, their layout, people, equipment, routes and collars — for admins (all) and leads (routes, collars, tags). */
 @Component({
   selector: 'fw-setup',
-  imports: [MatTabsModule, MatFormFieldModule, MatSelectModule, MatButtonModule, SiteForm, RecordTable, Members, ProfileVersion,
+  imports: [BlankTags, MatTabsModule, MatFormFieldModule, MatSelectModule, MatButtonModule, SiteForm, RecordTable, Members, ProfileVersion,
     CollarImport, CollarList, RouteEditor, OutlineEditor, AnalyzerChecks],
   templateUrl: './setup.html',
   styleUrl: './setup.scss',

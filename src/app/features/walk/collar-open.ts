@@ -1,10 +1,12 @@
 import { ChangeDetectionStrategy, Component, inject, OnInit } from '@angular/core';
 import { ActivatedRoute, Router } from '@angular/router';
-import { collarIdFromTag } from '../../../../shared/model/collar-tag';
+import { plannedCode, readCollarTag } from '../../../../shared/model/collar-tag';
+import { TagOpener } from './tag-opener';
 
 /**
  * Where a collar tag's QR code leads (`/walk/collars/<id>`, e.g. from the phone's own camera app):
- * straight on to the collar's visit screen in today's walk.
+ * straight on to the collar's visit screen in today's walk, or to installing a new collar with
+ * this tag when no collar has it yet.
  */
 @Component({
   selector: 'fw-collar-open',
@@ -14,9 +16,15 @@ import { collarIdFromTag } from '../../../../shared/model/collar-tag';
 export class CollarOpen implements OnInit {
   private readonly route = inject(ActivatedRoute);
   private readonly router = inject(Router);
+  private readonly opener = inject(TagOpener);
 
   ngOnInit(): void {
-    const id = collarIdFromTag(this.route.snapshot.paramMap.get('id') ?? '');
-    void this.router.navigate(id ? ['/walk/visit', id] : ['/walk'], { replaceUrl: true });
+    const snap = this.route.snapshot;
+    const tag = readCollarTag(snap.paramMap.get('id') ?? '');
+    if (!tag) {
+      void this.router.navigate(['/walk'], { replaceUrl: true });
+      return;
+    }
+    void this.opener.open({ id: tag.id, code: plannedCode(snap.queryParamMap.get('code')) }, { replaceUrl: true });
   }
 }

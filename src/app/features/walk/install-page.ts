@@ -5,14 +5,17 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatRadioModule } from '@angular/material/radio';
 import { MatSelectModule } from '@angular/material/select';
-import { Router, RouterLink } from '@angular/router';
+import { ActivatedRoute, Router, RouterLink } from '@angular/router';
+import { plannedCode, readCollarTag, shortTagId, type CollarTag } from '../../../../shared/model/collar-tag';
 import { collarAreaCm2 } from '../../../../shared/model/derived';
+import { DeviceDb } from '../../core/db/device-db';
 import { SiteChoice } from '../../core/auth/site-choice';
 import { liveSignal } from '../../core/db/live-query-signal';
 import { LocalWrites } from '../../core/sync/local-writes';
 import { averageFixes, Gps, type Fix } from './gps';
 import { parseCm } from './offset-form';
 import { PhotoStore, resizePhoto } from './photo-store';
+import { QrScan } from './qr-scan';
 import { validated } from './visit-writes';
 
 interface Photo {
@@ -29,13 +32,14 @@ const today = () => {
 };
 
 /**
- * Installing a collar in the field: code, plot, a position averaged over several GPS fixes, shape
+ * Installing a collar in the field: code (typed, or from a blank tag scanned here, whose id the
+ * collar then takes so the tag opens it), plot, a position averaged over several GPS fixes, shape
  * and size (area computed), height and insertion depth, photos resized on the device. Saved as
  * the collar, its "installed" event and the photos' attachment records, all on the device first.
  */
 @Component({
   selector: 'fw-install-page',
-  imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatInputModule, MatRadioModule, MatSelectModule, RouterLink],
+  imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatInputModule, MatRadioModule, MatSelectModule, QrScan, RouterLink],
   templateUrl: './install-page.html',
   styleUrl: './walk.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -46,6 +50,7 @@ export class InstallPage {
   private readonly writes = inject(LocalWrites);
   private readonly photos$ = inject(PhotoStore);
   private readonly router = inject(Router);
+  private readonly deviceDb = inject(DeviceDb);
   protected readonly plots = liveSignal(() => this.site()?.id ?? null, async (db, siteId) =>
     siteId ? (await db.records('plot').where('siteId').equals(siteId).toArray()).sort((a, b) => String(a['code']).localeCompare(String(b['code']), undefined, { numeric: true })) : [], []);
 
@@ -61,6 +66,10 @@ export class InstallPage {
   protected readonly note = signal('');
   protected readonly fixes = signal<Fix[]>([]);
   protected readonly photos = signal<Photo[]>([]);
+  /** The printed tag this collar takes (its id becomes the collar's id). */
+  protected readonly tag = signal<CollarTag | null>(null);
+  protected readonly tagNote = signal('');
+  protected readonly shortTag = computed(() => { const t = this.tag(); return t ? shortTagId(t.id) : ''; });
   protected readonly busy = signal(false);
   protected readonly problem = signal('');
   protected readonly currentFix = this.gps.fix;
@@ -75,6 +84,38 @@ export class InstallPage {
     const destroy = inject(DestroyRef);
     destroy.onDestroy(stop);
     destroy.onDestroy(() => this.photos().forEach((p) => URL.revokeObjectURL(p.url)));
+    // Arriving from a scanned tag no collar on this device has (see TagOpener).
+    const q = inject(ActivatedRoute).snapshot.queryParamMap;
+    const fromLink = readCollarTag(q.get('tag') ?? '');
+    if (fromLink) {
+      void this.adoptTag({ id: fromLink.id, code: plannedCode(q.get('code')) }).then((ok) => {
+        if (ok) this.tagNote.set('No collar on this device has this tag yet. If it is already on a collar, sync first; otherwise install the new collar here.');
+      });
+    }
+  }
+
+  /** Takes a scanned tag for the new collar, unless a collar on this device already has it. */
+  protected async adoptTag(tag: CollarTag): Promise<boolean> {
+    const siteId = this.site()?.id ?? null;
+    const { owner, codeUser } = await this.deviceDb.run(async (db) => {
+      const table = db.records('collar');
+      const sameCode = tag.code && siteId ? await table.where('siteId').equals(siteId).filter((c) => !c.deleted && c['code'] === tag.code).first() : undefined;
+      return { owner: await table.get(tag.id), codeUser: sameCode };
+    });
+    if (owner && !owner.deleted) {
+      this.tagNote.set(`This tag is already on collar ${owner['code']}: use a new tag.`);
+      return false;
+    }
+    this.tag.set(tag);
+    this.tagNote.set('');
+    if (tag.code) this.code.set(tag.code);
+    if (codeUser) this.tagNote.set(`Code ${tag.code} from the tag is already used at this site by another collar: type another code.`);
+    return true;
+  }
+
+  protected forgetTag(): void {
+    this.tag.set(null);
+    this.tagNote.set('');
   }
 
   protected addFix(): void {
@@ -116,11 +157,15 @@ export class InstallPage {
     const siteId = this.site()?.id;
     if (!siteId) return this.problem.set('No site chosen.');
     const pos = this.position();
+    const code = this.code().trim();
     this.busy.set(true);
     this.problem.set('');
     try {
+      const clash = await this.deviceDb.run((db) => db.records('collar').where('siteId').equals(siteId)
+        .filter((c) => !c.deleted && String(c['code']).toLowerCase() === code.toLowerCase()).first());
+      if (clash) throw new Error(`Collar code ${code} is already used at this site: choose another code.`);
       const collar = validated('collar', {
-        siteId, code: this.code().trim(), plotId: this.plotId(), shape: this.shape(),
+        siteId, code, plotId: this.plotId(), shape: this.shape(),
         diameterCm: this.shape() === 'round' ? parseCm(this.diameter()) : null,
         sideACm: this.shape() === 'rectangular' ? parseCm(this.sideA()) : null,
         sideBCm: this.shape() === 'rectangular' ? parseCm(this.sideB()) : null,
@@ -128,7 +173,7 @@ export class InstallPage {
         latitude: pos?.latitude ?? null, longitude: pos?.longitude ?? null, accuracyM: pos ? Math.round(pos.accuracyM * 10) / 10 : null,
         installedOn: this.installedOn(), notes: this.note().trim(),
       });
-      const rec = await this.writes.create('collar', collar);
+      const rec = await this.writes.create('collar', collar, { id: this.tag()?.id });
       await this.writes.create('collarEvent', validated('collarEvent', { siteId, collarId: rec.id, kind: 'installed', date: this.installedOn(), note: this.note().trim() }));
       for (const p of this.photos()) await this.photos$.keep({ siteId, ownerEntity: 'collar', ownerId: rec.id }, p.blob, p.name);
       await this.router.navigate(['/collars', rec.id]);

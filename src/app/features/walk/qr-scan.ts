@@ -1,13 +1,15 @@
-import { ChangeDetectionStrategy, Component, DestroyRef, ElementRef, inject, signal, viewChild } from '@angular/core';
+import { ChangeDetectionStrategy, Component, DestroyRef, ElementRef, computed, inject, input, output, signal, viewChild } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
-import { Router } from '@angular/router';
-import { collarIdFromTag } from '../../../../shared/model/collar-tag';
+import { readCollarTag, type CollarTag } from '../../../../shared/model/collar-tag';
 import { CameraFrames, type Frame } from './camera-frames';
 import { decodeQr } from './qr-decode';
+import { TagOpener } from './tag-opener';
 
 /**
- * Opens a collar from its tag: the rear camera scans until a QR code reads, or a photo of the tag
- * is decoded. The tag holds `<origin>/walk/collars/<id>`; only the id at the end counts.
+ * Reads a collar tag: the rear camera scans until a QR code reads, or a photo of the tag is
+ * decoded. The tag holds `<origin>/walk/collars/<id>` (and a planned code on blank tags); only
+ * the id at the end counts. To open, the tag's collar opens (or installing one with it); to
+ * adopt, the tag is handed to the install screen as `tagRead`.
  */
 @Component({
   selector: 'fw-qr-scan',
@@ -15,13 +17,13 @@ import { decodeQr } from './qr-decode';
   template: `
     <div class="row">
       @if (!scanning()) {
-        <button mat-stroked-button type="button" (click)="startScan()" [disabled]="!camera.available">Scan a tag</button>
+        <button mat-stroked-button type="button" (click)="startScan()" [disabled]="!camera.available">{{ words().scan }}</button>
       } @else {
         <button mat-stroked-button type="button" (click)="stopScan()">Stop scanning</button>
       }
       <label class="file-button">
-        <input type="file" accept="image/*" capture="environment" class="fw-visually-hidden" aria-label="Read a photo of the tag" (change)="readPhoto($event)" />
-        <span aria-hidden="true">Read a photo of the tag</span>
+        <input type="file" accept="image/*" capture="environment" class="fw-visually-hidden" [attr.aria-label]="words().photo" (change)="readPhoto($event)" />
+        <span aria-hidden="true">{{ words().photo }}</span>
       </label>
     </div>
     <video #video [hidden]="!scanning()" playsinline aria-label="Camera view for scanning a tag"></video>
@@ -39,7 +41,13 @@ import { decodeQr } from './qr-decode';
 })
 export class QrScan {
   protected readonly camera = inject(CameraFrames);
-  private readonly router = inject(Router);
+  private readonly opener = inject(TagOpener);
+  /** open: go to the tag's collar; adopt: hand the tag to the host (a new collar takes it). */
+  readonly purpose = input<'open' | 'adopt'>('open');
+  readonly tagRead = output<CollarTag>();
+  protected readonly words = computed(() => this.purpose() === 'adopt'
+    ? { scan: 'Scan the new tag', photo: 'Read a photo of the new tag' }
+    : { scan: 'Scan a tag', photo: 'Read a photo of the tag' });
   private readonly video = viewChild.required<ElementRef<HTMLVideoElement>>('video');
   protected readonly scanning = signal(false);
   protected readonly status = signal('');
@@ -89,21 +97,26 @@ export class QrScan {
     }
   }
 
-  /** Decodes one frame; opens the collar when it holds a collar tag. True when it opened one. */
+  /** Decodes one frame; acts on it when it holds a collar tag. True when it did. */
   async openFrame(frame: Frame, reportMiss: boolean): Promise<boolean> {
     const text = await decodeQr(frame.pixels, frame.source);
     if (text === null) {
       if (reportMiss) this.status.set('No QR code found in that photo.');
       return false;
     }
-    const id = collarIdFromTag(text);
-    if (!id) {
+    const tag = readCollarTag(text);
+    if (!tag) {
       this.status.set('That QR code is not a Fluxwalk collar tag.');
       return false;
     }
     this.stopScan();
+    if (this.purpose() === 'adopt') {
+      this.status.set('Tag read.');
+      this.tagRead.emit(tag);
+      return true;
+    }
     this.status.set('Tag read: opening the collar.');
-    await this.router.navigateByUrl(`/walk/visit/${id}`);
+    await this.opener.open(tag);
     return true;
   }
 }

@@ -1,0 +1,101 @@
+import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatButtonToggleModule } from '@angular/material/button-toggle';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatInputModule } from '@angular/material/input';
+import { fieldProblems, serverMessage } from '../../core/api/api-error';
+import { saveFile } from '../../core/api/save-file';
+import { SetupApi } from './setup-api';
+
+/**
+ * Tags printed before their collars exist: each QR code holds a fresh collar id that the crew
+ * adopts by scanning the tag on Walk's install screen, so the tag opens that collar from then on.
+ * With a code prefix the tags also carry planned codes (N-101, N-102, …) that fill in the code.
+ */
+@Component({
+  selector: 'fw-blank-tags',
+  imports: [MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatInputModule],
+  template: `
+    <section aria-labelledby="blank-tags-heading">
+      <h3 id="blank-tags-heading">Tags for new collars</h3>
+      <p>Print tags before installing: the crew scans one on the install screen and the new collar takes it.</p>
+      <form class="fields" (submit)="$event.preventDefault(); download()">
+        <mat-button-toggle-group [value]="paper()" (change)="paper.set($event.value)" aria-label="Paper size of the blank tags">
+          <mat-button-toggle value="a4">A4</mat-button-toggle>
+          <mat-button-toggle value="letter">Letter</mat-button-toggle>
+        </mat-button-toggle-group>
+        <mat-form-field subscriptSizing="dynamic">
+          <mat-label>How many tags</mat-label>
+          <input matInput inputmode="numeric" data-testid="blank-count" [value]="count()" (input)="count.set($any($event.target).value)" />
+          <mat-hint>21 fit a sheet</mat-hint>
+        </mat-form-field>
+        <mat-form-field subscriptSizing="dynamic">
+          <mat-label>Code prefix (optional)</mat-label>
+          <input matInput autocomplete="off" data-testid="blank-prefix" [value]="prefix()" (input)="prefix.set($any($event.target).value)" />
+        </mat-form-field>
+        @if (prefix().trim()) {
+          <mat-form-field subscriptSizing="dynamic">
+            <mat-label>First number</mat-label>
+            <input matInput inputmode="numeric" data-testid="blank-first" [value]="first()" (input)="first.set($any($event.target).value)" />
+          </mat-form-field>
+          <mat-form-field subscriptSizing="dynamic">
+            <mat-label>Digits</mat-label>
+            <input matInput inputmode="numeric" [value]="digits()" (input)="digits.set($any($event.target).value)" />
+          </mat-form-field>
+        }
+        <button mat-flat-button type="submit" [disabled]="busy()" data-testid="blank-download">Download blank tags (PDF)</button>
+      </form>
+      <p data-testid="blank-preview">{{ preview() }}</p>
+      @if (problem()) { <p role="alert" class="problem">{{ problem() }}</p> }
+      <p role="status">{{ message() }}</p>
+    </section>
+  `,
+  styles: `
+    .fields { display: flex; gap: 1rem; align-items: center; flex-wrap: wrap; margin-block: .5rem; }
+    .fields mat-form-field { width: 11rem; }
+    .problem { color: var(--mat-sys-error); }
+  `,
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class BlankTags {
+  private readonly api = inject(SetupApi);
+  readonly siteId = input.required<string>();
+
+  protected readonly paper = signal<'a4' | 'letter'>('a4');
+  protected readonly count = signal('21');
+  protected readonly prefix = signal('');
+  protected readonly first = signal('1');
+  protected readonly digits = signal('2');
+  protected readonly busy = signal(false);
+  protected readonly problem = signal('');
+  protected readonly message = signal('');
+
+  /** The planned codes spelled out, so a lead sees "N-01 … N-21" before printing. */
+  protected readonly preview = computed(() => {
+    const n = Number(this.count());
+    const p = this.prefix().trim();
+    if (!Number.isInteger(n) || n < 1) return '';
+    if (!p) return `${n} tag${n === 1 ? '' : 's'} without codes: the crew types each code when installing.`;
+    const code = (i: number) => `${p}${String(Number(this.first()) + i).padStart(Number(this.digits()) || 1, '0')}`;
+    return n === 1 ? `Planned code ${code(0)}.` : `Planned codes ${code(0)} … ${code(n - 1)}.`;
+  });
+
+  protected async download(): Promise<void> {
+    this.busy.set(true);
+    this.problem.set('');
+    this.message.set('');
+    try {
+      const sheet = await this.api.blankTags(this.siteId(), {
+        paper: this.paper(), count: Number(this.count()), codePrefix: this.prefix().trim(),
+        firstNumber: Number(this.first()), digits: Number(this.digits()),
+      });
+      saveFile(sheet.pdf, sheet.fileName);
+      this.message.set(`${sheet.count} blank tags saved as ${sheet.fileName}.`);
+    } catch (err) {
+      const fields = fieldProblems(err);
+      this.problem.set(fields.length ? fields.map((f) => f.message).join(' · ') : serverMessage(err, 'Could not make the tag sheet'));
+    } finally {
+      this.busy.set(false);
+    }
+  }
+}
