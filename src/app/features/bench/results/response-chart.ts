@@ -24,7 +24,7 @@ export class ResponseChart {
   protected readonly W = W; protected readonly H = H; protected readonly L = L; protected readonly B = B; protected readonly T = T; protected readonly R = R;
   protected readonly cell = computed(() => {
     const rs = this.data().responses;
-    return rs.find((r) => r.cellKey === this.chosen()) ?? rs.find((r) => r.points.length) ?? rs[0] ?? null;
+    return rs.find((r) => r.cellKey === this.chosen()) ?? rs.find((r) => r.points.length) ?? rs.at(0) ?? null;
   });
   protected readonly plot = computed(() => {
     const c = this.cell();
