@@ -2,6 +2,7 @@
 import { setupZonelessTestEnv } from 'jest-preset-angular/setup-env/zoneless';
 // The shell's sync indicator opens the user's Dexie database; jsdom has no IndexedDB of its own.
 import 'fake-indexeddb/auto';
+import { webcrypto } from 'node:crypto';
 import * as v8 from 'node:v8';
 
 setupZonelessTestEnv();
@@ -17,15 +18,26 @@ window.matchMedia ??= (query: string) =>
     addEventListener: () => undefined, removeEventListener: () => undefined, dispatchEvent: () => false,
   }) as MediaQueryList;
 
-// jsdom's Blob has no text(); the app reads the JSON error body of a file request with it.
-Blob.prototype.text ??= function text(this: Blob): Promise<string> {
+// jsdom's Blob has no text() or arrayBuffer(): the app reads error bodies and hashes files with them.
+function readBlob<T>(blob: Blob, how: 'readAsText' | 'readAsArrayBuffer'): Promise<T> {
   return new Promise((resolve, reject) => {
     const reader = new FileReader();
-    reader.onload = () => resolve(String(reader.result));
+    reader.onload = () => resolve(reader.result as T);
     reader.onerror = () => reject(reader.error);
-    reader.readAsText(this);
+    reader[how](blob);
   });
-};
+}
+Blob.prototype.text ??= function text(this: Blob) { return readBlob<string>(this, 'readAsText'); };
+Blob.prototype.arrayBuffer ??= function arrayBuffer(this: Blob) { return readBlob<ArrayBuffer>(this, 'readAsArrayBuffer'); };
+
+// jsdom's crypto has no subtle: digest with Node's Web Crypto (the same standard), the bytes first
+// copied into a Node Buffer because jsdom's ArrayBuffer comes from another realm.
+if (!globalThis.crypto?.subtle) {
+  const nodeBytes = (d: ArrayBuffer | ArrayBufferView) => (ArrayBuffer.isView(d) ? Buffer.from(d.buffer, d.byteOffset, d.byteLength) : Buffer.from(d));
+  Object.defineProperty(globalThis.crypto, 'subtle', {
+    value: { digest: (algorithm: string, data: ArrayBuffer | ArrayBufferView) => webcrypto.subtle.digest(algorithm, nodeBytes(data)) },
+  });
+}
 
 // jsdom has no object URLs; a download made in the page creates and later revokes one.
 URL.createObjectURL ??= () => 'blob:jsdom-stand-in';

@@ -1,6 +1,7 @@
 import type { DataSource } from 'typeorm';
 import { z } from 'zod';
 import { seesAllSites, type SessionUser } from '../../shared/auth/roles';
+import { ATTACHMENT_OWNERS } from '../../shared/model/field-records';
 import { notFound } from '../core/errors';
 import { parse } from '../core/validate';
 import type { EntityDef } from './entity-registry';
@@ -20,6 +21,8 @@ const listQuery = z.object({
   reviewState: z.enum(['unreviewed', 'accepted', 'rejected']).optional(),
   kind: z.string().max(40).optional(),
   routeId: z.string().uuid().optional(),
+  ownerEntity: z.enum(ATTACHMENT_OWNERS).optional(),
+  ownerId: z.string().uuid().optional(),
   from: z.string().datetime({ offset: true }).or(z.string().regex(/^\d{4}-\d{2}-\d{2}$/)).optional(),
   to: z.string().datetime({ offset: true }).or(z.string().regex(/^\d{4}-\d{2}-\d{2}$/)).optional(),
   includeDeleted: z.enum(['true', 'false']).optional(),
@@ -27,7 +30,8 @@ const listQuery = z.object({
   offset: z.coerce.number().int().min(0).default(0),
 });
 
-const FILTERS = ['siteId', 'plotId', 'treatmentId', 'campaignId', 'collarId', 'visitId', 'analyzerId', 'round', 'status', 'reviewState', 'kind'] as const;
+const FILTERS = ['siteId', 'plotId', 'treatmentId', 'campaignId', 'collarId', 'visitId', 'analyzerId', 'round', 'status', 'reviewState', 'kind',
+  'ownerEntity', 'ownerId'] as const;
 
 export async function listRecords(ds: DataSource, d: EntityDef, user: SessionUser, rawQuery: unknown) {
   const q = parse(listQuery, rawQuery, 'Some list filters are not valid');

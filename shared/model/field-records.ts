@@ -175,9 +175,12 @@ export const CLOSURE_REVIEW_FIELDS = ['reviewState', 'reviewReason', 'reviewSett
 export const ATTACHMENT_MEDIA_TYPES = ['text/csv', 'text/plain', 'text/tab-separated-values', 'image/jpeg', 'image/png', 'image/webp'] as const;
 /** Uploads share the 5 MiB body limit of the push; photos are resized on the device first. */
 export const MAX_ATTACHMENT_BYTES = 5 * 1024 * 1024;
+/** What a file may belong to: photos of collars, events and visits; logger files of closures and leak checks. */
+export const ATTACHMENT_OWNERS = ['collar', 'collarEvent', 'visit', 'closure', 'analyzerCheck'] as const;
+export type AttachmentOwner = (typeof ATTACHMENT_OWNERS)[number];
 export const attachmentFields = z.object({
   siteId: uuid('siteId'),
-  ownerEntity: z.enum(['collar', 'collarEvent', 'visit', 'closure']),
+  ownerEntity: z.enum(ATTACHMENT_OWNERS, { message: `A file belongs to one of: ${ATTACHMENT_OWNERS.join(', ')}` }),
   ownerId: uuid('ownerId'),
   fileName: text(255).default(''),
   mediaType: z.enum(ATTACHMENT_MEDIA_TYPES, { message: `Allowed types: ${ATTACHMENT_MEDIA_TYPES.join(', ')}` }),

@@ -68,4 +68,19 @@ describe('attachment bytes in object storage', () => {
     expect(res.status).toBe(404);
     expect((await put(randomUUID(), csv)).status).toBe(404);
   });
+
+  it('when a leak check keeps its logger file, then the file belongs to the check and the check\'s files list by owner', async () => {
+    const analyzer = (await (await signIn(t.app, demoEmail('admin'))).post('/api/analyzers', { siteId: world.site.id, name: 'Bench unit' })).body.record;
+    const check = (await lead.post('/api/analyzer-checks', { siteId: world.site.id, analyzerId: analyzer.id, kind: 'leak',
+      at: '2026-06-01T06:00:00.000Z', slopeUmolMolS: 0.01, passed: true })).body.record;
+    const a = await record({ ownerEntity: 'analyzerCheck', ownerId: check.id, fileName: 'plate.csv' });
+    await record(); // a collar's file, not the check's
+    expect((await put(a.id, csv)).status).toBe(200);
+    const listed = await lead.get(`/api/attachments?siteId=${world.site.id}&ownerEntity=analyzerCheck&ownerId=${check.id}`);
+    expect(listed.body.items.map((x: { id: string; fileName: string }) => [x.id, x.fileName])).toEqual([[a.id, 'plate.csv']]);
+    const wrongOwner = await lead.post('/api/attachments', { siteId: world.site.id, ownerEntity: 'analyzer', ownerId: analyzer.id,
+      mediaType: 'text/csv', sizeBytes: csv.length, sha256: sha });
+    expect(wrongOwner.body.error.fields[0]).toMatchObject({ path: 'ownerEntity', message: expect.stringContaining('analyzerCheck') });
+    expect((await lead.get(`/api/attachments?ownerEntity=analyzer`)).status).toBe(400);
+  });
 });

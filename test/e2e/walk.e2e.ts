@@ -1,5 +1,7 @@
 /// <reference lib="dom" />
 // Callbacks passed to page.evaluate() run in the browser and use its DOM types.
+import { createHash } from 'node:crypto';
+import path from 'node:path';
 import type { Page } from 'playwright-core';
 import { seriousAccessibilityProblems, signInAs, waitForServiceWorkerControl, type AxeProblem } from './support/app-actions';
 import { RunningServer, startAppServer } from './support/app-server';
@@ -24,6 +26,11 @@ afterAll(async () => {
 
 const query = queryE2eDatabase;
 
+/** The sealed-plate closure as the analyzer logs it (our plain export: elapsed seconds, CO2 in µmol/mol). */
+const LEAK_FILE = 'time_s,co2_ppm\n0,430\n10,425\n20,415.0\n30,415.3\n40,415.6\n50,415.9\n';
+/** A blank tag printed for a new collar, planned code N-07 (made by tools/make-walk-qr-fixtures.js). */
+const BLANK_TAG = { photo: path.resolve(__dirname, '../fixtures/walk/blank-tag-qr.png'), id: '9e8d7c6b-5a49-4382-a716-0f1e2d3c4b5a', code: 'N-07' };
+
 /**
  * axe on one of the Walk screens. The shell's "Offline" snackbar (shown for 8 s after the first
  * failed request) is not part of them and comes and goes with timing, so the check waits for it
@@ -35,7 +42,7 @@ async function screenProblems(page: Page): Promise<AxeProblem[]> {
 }
 
 describe('Walk in Chromium on a phone, offline', () => {
-  it('when the crew works a day offline and then syncs, then every check, visit, offset set, probe reading, new collar and photo record is in PostgreSQL', async () => {
+  it('when the crew works a day offline and then syncs, then every check (with the leak check\'s logger file), visit, offset set, probe reading, tagged new collar and photo record is in PostgreSQL', async () => {
     browser = await launchBrowser();
     const { page, context } = browser;
     await page.setViewportSize(PHONE);
@@ -63,10 +70,12 @@ describe('Walk in Chromium on a phone, offline', () => {
       await page.getByRole('button', { name: 'Warm-up done' }).click();
       await page.getByTestId('ambient-co2').fill('421.5');
       await page.getByRole('button', { name: 'Save ambient' }).click();
-      // Leak check: the sealed-plate closure typed as a short series, fitted after a 20 s settle time:
-      // 415.0, 415.3, 415.6, 415.9 every 10 s → 0.03 µmol/mol/s (by hand), within the site's limit.
+      // Leak check: the sealed-plate closure from the analyzer's logger file, fitted after a 20 s settle
+      // time: 415.0, 415.3, 415.6, 415.9 every 10 s → 0.03 µmol/mol/s (by hand), within the site's limit.
+      await page.getByRole('radio', { name: 'Logger file' }).check();
       await page.getByTestId('leak-settle').fill('20');
-      await page.getByTestId('leak-series').fill('0 430\n10 425\n20 415.0\n30 415.3\n40 415.6\n50 415.9');
+      await page.getByTestId('leak-file').setInputFiles({ name: 'plate-morning.csv', mimeType: 'text/csv', buffer: Buffer.from(LEAK_FILE) });
+      await page.getByTestId('leak-file-name').filter({ hasText: 'plate-morning.csv' }).waitFor();
       await page.getByTestId('leak-fitted').filter({ hasText: 'Slope 0.0300 µmol/mol/s: linear fit of 4 samples, 20–50 s' }).waitFor();
       await page.getByTestId('leak-verdict').filter({ hasText: 'Passes' }).waitFor();
       await page.getByRole('button', { name: 'Save leak check' }).click();
@@ -171,7 +180,10 @@ describe('Walk in Chromium on a phone, offline', () => {
       await page.getByRole('link', { name: 'Back to the route' }).click();
       await page.getByRole('link', { name: 'Install a collar' }).click();
       await page.getByTestId('buried-services').waitFor();
-      await page.getByTestId('install-code').fill('AH-NEW-1');
+      // The collar gets a blank tag: a photo of it is read, and its planned code fills in.
+      await page.getByLabel('Read a photo of the new tag').setInputFiles(BLANK_TAG.photo);
+      await page.getByTestId('install-tag').filter({ hasText: 'Tag 9e8d7c6b: scanning it will open this collar.' }).waitFor();
+      expect(await page.getByTestId('install-code').inputValue()).toBe(BLANK_TAG.code);
       await choose(page, 'Plot', /.+/);
       await page.getByTestId('gps-now').filter({ hasText: '± 4 m' }).waitFor();
       await page.getByRole('button', { name: 'Take a fix' }).click();
@@ -194,6 +206,7 @@ describe('Walk in Chromium on a phone, offline', () => {
       await page.getByRole('button', { name: 'Save the new collar' }).click();
       await page.waitForURL(/\/collars\/[0-9a-f-]{36}$/);
       const newCollarId = page.url().split('/').at(-1)!;
+      expect(newCollarId).toBe(BLANK_TAG.id);
       await page.getByTestId('collar-photo').waitFor();
 
       // Still offline: everything waits on the device, counted.
@@ -221,7 +234,12 @@ describe('Walk in Chromium on a phone, offline', () => {
       const leak = checks.find((c) => c['kind'] === 'leak')!;
       expect(leak['passed']).toBe(true);
       expect(leak['slope_umol_mol_s']).toBeCloseTo(0.03, 10);
-      expect(leak['note']).toBe('Linear fit of 4 samples from 20 s to 50 s after a 20 s settle time (series typed by hand)');
+      expect(leak['note']).toMatch(/^Linear fit of 4 samples from 20 s to 50 s after a 20 s settle time \(plate-morning\.csv, Piece 1: lines 2–7[^)]*, 6 samples\)$/);
+      // The logger file stays with the check as evidence (the bytes go up with the other files; see Closure capture).
+      const leakFiles = await query(`SELECT a.file_name, a.media_type, a.size_bytes, a.sha256 FROM attachment a
+        JOIN analyzer_check c ON c.id = a.owner_id WHERE a.owner_entity = 'analyzerCheck' AND c.kind = 'leak' AND c.updated_by = $1`, [user.id]);
+      expect(leakFiles).toEqual([{ file_name: 'plate-morning.csv', media_type: 'text/csv', size_bytes: String(LEAK_FILE.length),
+        sha256: createHash('sha256').update(LEAK_FILE).digest('hex') }]);
       expect(checks.find((c) => c['kind'] === 'ambient')!['co2_ppm']).toBe(421.5);
 
       const visits = await query(`SELECT c.code, v.round, v.skipped, v.skip_reason, v.conditions FROM visit v JOIN collar c ON c.id = v.collar_id
@@ -246,7 +264,7 @@ describe('Walk in Chromium on a phone, offline', () => {
       expect(probes[1]['vwc_pct']).toBeCloseTo(18.83, 2);
 
       const [collar] = await query(`SELECT code, diameter_cm, height_cm, insertion_cm, latitude, longitude, accuracy_m, area_cm2 FROM collar WHERE id = $1`, [newCollarId]);
-      expect(collar).toMatchObject({ code: 'AH-NEW-1', diameter_cm: 20, height_cm: 10, insertion_cm: 5 });
+      expect(collar).toMatchObject({ code: BLANK_TAG.code, diameter_cm: 20, height_cm: 10, insertion_cm: 5 });
       expect(collar['latitude']).toBeCloseTo(latitude + 0.0004, 6);
       expect(collar['longitude']).toBeCloseTo(longitude - 0.0003, 6);
       const events = await query(`SELECT kind FROM collar_event WHERE collar_id = $1`, [newCollarId]);

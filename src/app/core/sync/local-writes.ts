@@ -1,8 +1,11 @@
 import { Injectable, inject } from '@angular/core';
+import { v4 as uuidv4 } from 'uuid';
 import type { SyncEntityName } from '../../../../shared/model/entity-names';
+import type { AttachmentOwner } from '../../../../shared/model/field-records';
 import type { ConflictRow, LocalRecord, OutboxOp } from '../db/db-schema';
 import { DeviceDb } from '../db/device-db';
 import { resolveConflict, type Side } from '../db/conflict-resolve';
+import { attachmentFor, keepFile } from '../db/device-files';
 import { createRecord, deleteRecord, saveEdit } from '../db/outbox-writer';
 import { SyncEngine } from './sync-engine';
 
@@ -26,6 +29,23 @@ export class LocalWrites {
     const rec = await this.deviceDb.run((db) => createRecord(db, entity, fields, opts));
     this.engine.requestSync('create');
     return rec;
+  }
+
+  /**
+   * A new record and a file that belongs to it (a leak check and the logger file it was fitted
+   * from): record, attachment record and bytes in one transaction, so neither is kept alone.
+   */
+  async createWithFile(entity: SyncEntityName & AttachmentOwner, fields: Record<string, unknown>, file: { blob: Blob; fileName: string; mediaType: string }): Promise<{ record: LocalRecord; attachmentId: string }> {
+    const id = uuidv4();
+    const owner = { siteId: String(fields['siteId']), ownerEntity: entity, ownerId: id };
+    const attachment = await attachmentFor(owner, file.blob, file.fileName, file.mediaType);
+    const result = await this.deviceDb.run((db) =>
+      db.transaction('rw', [db.records(entity), db.records('attachment'), db.outbox, db.blobs], async () => {
+        const record = await createRecord(db, entity, fields, { id });
+        return { record, attachmentId: await keepFile(db, attachment, file.blob) };
+      }));
+    this.engine.requestSync('create');
+    return result;
   }
 
   async remove(entity: SyncEntityName, id: string): Promise<void> {

@@ -2,10 +2,10 @@ import { Injectable, inject } from '@angular/core';
 import { TYPICAL_SETTLE_TIME_S } from '../../../../shared/flux';
 import type { LocalRecord } from '../../core/db/db-schema';
 import { DeviceDb } from '../../core/db/device-db';
-import { createRecord } from '../../core/db/outbox-writer';
+import { attachmentFor, keepFile } from '../../core/db/device-files';
 import { LocalWrites } from '../../core/sync/local-writes';
+import { validated } from '../../core/db/validated';
 import { SyncEngine } from '../../core/sync/sync-engine';
-import { validated } from '../walk/visit-writes';
 import { localDay } from './closure-flux';
 
 export interface ClosureSeries {
@@ -76,19 +76,10 @@ export class ClosureWrites {
     return this.writes.create('closure', fields);
   }
 
-  /**
-   * Keeps a logger file: its attachment record (size, SHA-256, type; queued for sync) and its
-   * bytes in the blobs table, in ONE transaction, so there is never one without the other.
-   */
+  /** Keeps a logger file of a closure on the device (record and bytes in one transaction; see keepFile). */
   async keepFile(siteId: string, ownerId: string, file: Blob, fileName: string, mediaType: string): Promise<string> {
-    const digest = await crypto.subtle.digest('SHA-256', await file.arrayBuffer());
-    const sha256 = Array.from(new Uint8Array(digest), (b) => b.toString(16).padStart(2, '0')).join('');
-    const fields = validated('attachment', { siteId, ownerEntity: 'closure', ownerId, fileName, mediaType, sizeBytes: file.size, sha256 });
-    const id = await this.deviceDb.run((db) => db.transaction('rw', [db.records('attachment'), db.outbox, db.blobs], async () => {
-      const rec = await createRecord(db, 'attachment', fields);
-      await db.blobs.put({ attachmentId: rec.id, blob: file, mediaType, createdAt: new Date().toISOString(), uploadedAt: null });
-      return rec.id;
-    }));
+    const fields = await attachmentFor({ siteId, ownerEntity: 'closure', ownerId }, file, fileName, mediaType);
+    const id = await this.deviceDb.run((db) => keepFile(db, fields, file));
     this.engine.requestSync('create');
     return id;
   }

@@ -21,6 +21,9 @@ const A1_CHECKS = [
   check(3, { kind: 'ambient', at: '2026-05-05T05:02:00.000Z', passed: false, updatedBy: 'u0000000-0000-4000-8000-000000000099' }),
 ];
 
+const LEAK_FILE = { id: 'f0000000-0000-4000-8000-000000000001', rev: 2, siteId: SITE, ownerEntity: 'analyzerCheck', ownerId: A1_CHECKS[0]!.id,
+  fileName: 'plate.csv', mediaType: 'text/csv', objectKey: 'sites/x/attachments/f' };
+
 async function checksOf() {
   TestBed.configureTestingModule({ imports: [AnalyzerChecks], providers: [provideHttpClient(), provideHttpClientTesting()] });
   const fixture = TestBed.createComponent(AnalyzerChecks);
@@ -33,6 +36,9 @@ async function checksOf() {
   const req = backend.expectOne((r) => r.url === '/api/analyzer-checks');
   expect([req.request.params.get('analyzerId'), req.request.params.get('siteId')]).toEqual([A1.id, SITE]);
   req.flush({ items: A1_CHECKS, total: 3, limit: 1000, offset: 0 });
+  const files = backend.expectOne((r) => r.url === '/api/attachments');
+  expect([files.request.params.get('ownerEntity'), files.request.params.get('siteId')]).toEqual(['analyzerCheck', SITE]);
+  files.flush({ items: [LEAK_FILE], total: 1, limit: 1000, offset: 0 });
   await new Promise((r) => setTimeout(r, 0));
   await fixture.whenStable();
   const loader = TestbedHarnessEnvironment.loader(fixture);
@@ -40,13 +46,15 @@ async function checksOf() {
 }
 
 describe('AnalyzerChecks', () => {
-  it('when an analyzer has checks, then each shows kind, site-local time, who and the result, newest first', async () => {
-    const { grid } = await checksOf();
+  it('when an analyzer has checks, then each shows kind, site-local time, who, the result and its file, newest first', async () => {
+    const { fixture, grid } = await checksOf();
     expect(await grid.getCellTextByIndex()).toEqual([
-      ['Calibration', '2026-05-06 06:55', 'Rowan Ashby', 'Skipped: Span gas bottle empty'],
-      ['Ambient reading', '2026-05-05 07:02', 'a former user', 'Failed'],
-      ['Leak check', '2026-05-04 07:10', 'Rowan Ashby', 'Passed'],
+      ['Calibration', '2026-05-06 06:55', 'Rowan Ashby', 'Skipped: Span gas bottle empty', ''],
+      ['Ambient reading', '2026-05-05 07:02', 'a former user', 'Failed', ''],
+      ['Leak check', '2026-05-04 07:10', 'Rowan Ashby', 'Passed', 'plate.csv'],
     ]);
+    const link = (fixture.nativeElement as HTMLElement).querySelector<HTMLAnchorElement>('td a[download]')!;
+    expect([link.getAttribute('href'), link.getAttribute('download')]).toEqual([`/api/attachments/${LEAK_FILE.id}/content`, 'plate.csv']);
   });
 
   it('when the Check header is clicked, then rows sort by kind', async () => {
@@ -62,6 +70,7 @@ describe('AnalyzerChecks', () => {
     const req = backend.expectOne((r) => r.url === '/api/analyzer-checks');
     expect(req.request.params.get('analyzerId')).toBe(A2.id);
     req.flush({ items: [], total: 0, limit: 1000, offset: 0 });
+    backend.expectOne((r) => r.url === '/api/attachments').flush({ items: [], total: 0, limit: 1000, offset: 0 });
     await new Promise((r) => setTimeout(r, 0));
     await fixture.whenStable();
     expect(await grid.getRows()).toHaveLength(0);

@@ -18,6 +18,8 @@ export interface CheckRow {
   when: string;
   who: string;
   outcome: string;
+  /** The file the check was read from (a leak check's logger file), when one was kept. */
+  file: { id: string; name: string; uploaded: boolean } | null;
 }
 
 /** What a check came to, in words: a skipped check says why; a check with no verdict says so. */
@@ -26,6 +28,10 @@ export function checkOutcome(c: Rec): string {
   if (c['passed'] === true) return 'Passed';
   if (c['passed'] === false) return 'Failed';
   return 'Recorded (no pass/fail)';
+}
+
+function fileOf(a: Rec | undefined): CheckRow['file'] {
+  return a ? { id: a.id, name: String(a['fileName'] || 'file'), uploaded: Boolean(a['objectKey']) } : null;
 }
 
 /** Local time of the site, so a start-of-day check reads as the crew saw it. */
@@ -37,7 +43,7 @@ export function siteTime(iso: string, timeZone: string): string {
   return `${p['year']}-${p['month']}-${p['day']} ${p['hour']}:${p['minute']}`;
 }
 
-/** An analyzer's check records (calibration, leak, ambient, clock, warm-up): kind, when, who, and the result. */
+/** An analyzer's check records (calibration, leak, ambient, clock, warm-up): kind, when, who, the result and the file it was read from. */
 @Component({
   selector: 'fw-analyzer-checks',
   imports: [MatFormFieldModule, MatSelectModule, MatTableModule, MatSortModule, MatPaginatorModule],
@@ -69,6 +75,15 @@ export function siteTime(iso: string, timeZone: string): string {
           <th mat-header-cell *matHeaderCellDef mat-sort-header>Result</th>
           <td mat-cell *matCellDef="let c">{{ c.outcome }}</td>
         </ng-container>
+        <ng-container matColumnDef="file">
+          <th mat-header-cell *matHeaderCellDef>File</th>
+          <td mat-cell *matCellDef="let c">
+            @if (c.file; as f) {
+              @if (f.uploaded) { <a [href]="'/api/attachments/' + f.id + '/content'" [attr.download]="f.name">{{ f.name }}</a> }
+              @else { {{ f.name }} (still on the phone) }
+            }
+          </td>
+        </ng-container>
         <tr mat-header-row *matHeaderRowDef="columns"></tr>
         <tr mat-row *matRowDef="let row; columns: columns"></tr>
         <tr class="mat-mdc-row" *matNoDataRow>
@@ -88,9 +103,11 @@ export class AnalyzerChecks {
   readonly analyzers = input<Rec[]>([]);
   readonly timeZone = input('UTC');
 
-  protected readonly columns = ['kind', 'at', 'who', 'outcome'];
+  protected readonly columns = ['kind', 'at', 'who', 'outcome', 'file'];
   protected readonly analyzerId = signal<string | null>(null);
   protected readonly checks = signal<Rec[]>([]);
+  /** Files kept with checks, by the check they belong to. */
+  private readonly files = signal<Map<string, Rec>>(new Map());
   protected readonly message = signal('');
   private readonly names = signal<Map<string, string>>(new Map());
   protected readonly data = new MatTableDataSource<CheckRow>([]);
@@ -99,6 +116,7 @@ export class AnalyzerChecks {
   private readonly rows = computed<CheckRow[]>(() => this.checks().map((c) => ({
     id: c.id, kind: KIND_LABEL[String(c['kind'])] ?? String(c['kind']), at: String(c['at']), when: siteTime(String(c['at']), this.timeZone()),
     who: this.names().get(String(c['updatedBy'])) ?? (c['updatedBy'] ? 'a former user' : 'unknown'), outcome: checkOutcome(c),
+    file: fileOf(this.files().get(c.id)),
   })));
 
   constructor() {
@@ -133,8 +151,12 @@ export class AnalyzerChecks {
   private async load(siteId: string, analyzerId: string | null): Promise<void> {
     if (!analyzerId) return this.checks.set([]);
     try {
-      const checks = await this.api.list('analyzer-checks', { siteId, analyzerId });
+      const [checks, files] = await Promise.all([
+        this.api.list('analyzer-checks', { siteId, analyzerId }),
+        this.api.list('attachments', { siteId, ownerEntity: 'analyzerCheck' }),
+      ]);
       if (this.analyzerId() !== analyzerId) return; // another analyzer was chosen meanwhile
+      this.files.set(new Map(files.map((f) => [String(f['ownerId']), f])));
       this.checks.set(checks);
       this.message.set('');
     } catch (err) {

@@ -16,7 +16,7 @@ import { averageFixes, Gps, type Fix } from './gps';
 import { parseCm } from './offset-form';
 import { PhotoStore, resizePhoto } from './photo-store';
 import { QrScan } from './qr-scan';
-import { validated } from './visit-writes';
+import { validated } from '../../core/db/validated';
 
 interface Photo {
   blob: Blob;

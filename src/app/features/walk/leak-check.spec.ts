@@ -59,7 +59,7 @@ describe('LeakCheck', () => {
     expect(text('leak-verdict')).toBe('Passes');
     await (await saveButton()).click();
     expect(saved).toEqual([{ slopeUmolMolS: expect.closeTo(0.03, 12), passed: true,
-      note: 'Linear fit of 4 samples from 20 s to 50 s after a 20 s settle time (series typed by hand)' }]);
+      note: 'Linear fit of 4 samples from 20 s to 50 s after a 20 s settle time (series typed by hand)', file: null }]);
   });
 
   it('when the settle time is shortened, then the early samples count and a fast drift fails the site limit', async () => {
@@ -79,7 +79,8 @@ describe('LeakCheck', () => {
     const csv = 'time_s,co2_ppm\n0,500\n20,501\n30,502\n40,503\n0,420\n20,420\n30,420.2\n40,420.4\n50,420.6\n';
     const fileInput = el.querySelector<HTMLInputElement>('[data-testid="leak-file"]')!;
     // jsdom's File has no text(): the same shape the browser gives, by hand.
-    Object.defineProperty(fileInput, 'files', { value: [{ name: 'plate.csv', size: csv.length, text: async () => csv }] });
+    const file = { name: 'plate.csv', size: csv.length, text: async () => csv };
+    Object.defineProperty(fileInput, 'files', { value: [file] });
     fileInput.dispatchEvent(new Event('change'));
     await new Promise((r) => setTimeout(r, 50));
     await fixture.whenStable();
@@ -95,7 +96,7 @@ describe('LeakCheck', () => {
     expect(text('leak-fitted')).toBe('Slope 0.0200 µmol/mol/s: linear fit of 4 samples, 20–50 s');
     await (await saveButton()).click();
     expect(saved).toEqual([{ slopeUmolMolS: expect.closeTo(0.02, 12), passed: true,
-      note: 'Linear fit of 4 samples from 20 s to 50 s after a 20 s settle time (plate.csv, Piece 2: lines 6–10, 5 samples)' }]);
+      note: 'Linear fit of 4 samples from 20 s to 50 s after a 20 s settle time (plate.csv, Piece 2: lines 6–10, 5 samples)', file }]);
   });
 
   it('when only a slope is typed, then it is saved only with a reason, and the note says it was typed', async () => {
@@ -108,6 +109,6 @@ describe('LeakCheck', () => {
     expect(el.querySelector('[role="alert"]')?.textContent?.trim()).toBe('Say why the slope is typed instead of the closure (the lead sees it).');
     await (await input('leak-reason')).setValue('Phone battery flat at the plate');
     await (await saveButton()).click();
-    expect(saved).toEqual([{ slopeUmolMolS: -0.02, passed: true, note: 'Slope typed from the analyzer: Phone battery flat at the plate' }]);
+    expect(saved).toEqual([{ slopeUmolMolS: -0.02, passed: true, note: 'Slope typed from the analyzer: Phone battery flat at the plate', file: null }]);
   });
 });

@@ -19,6 +19,8 @@ export interface LeakResult {
   slopeUmolMolS: number;
   passed: boolean;
   note: string;
+  /** The logger file the slope was fitted from, kept with the check as evidence; null when typed. */
+  file: File | null;
 }
 
 /**
@@ -47,6 +49,7 @@ export class LeakCheck {
   protected readonly settle = computed(() => parseCm(this.settleText() ?? String(this.settleDefault())));
   protected readonly typed = signal('');
   protected readonly fileName = signal('');
+  private file: File | null = null;
   protected readonly pieces = signal<LeakPiece[]>([]);
   protected readonly pieceIndex = signal(0);
   protected readonly fileProblem = signal('');
@@ -83,6 +86,7 @@ export class LeakCheck {
     this.pieces.set([]);
     this.pieceIndex.set(0);
     this.fileName.set(f.name);
+    this.file = f;
     try {
       const preset = this.memory.read(loggerPresetKey(this.analyzerId())) as LoggerMapping | null;
       const pieces = await leakPieces(await f.text(), this.timeZone(), preset);
@@ -101,7 +105,7 @@ export class LeakCheck {
       const why = this.reason().trim();
       if (!why) return this.problem.set('Say why the slope is typed instead of the closure (the lead sees it).');
       this.problem.set('');
-      this.save.emit({ slopeUmolMolS: s, passed: leakPassed(s, this.limit()), note: `Slope typed from the analyzer: ${why}` });
+      this.save.emit({ slopeUmolMolS: s, passed: leakPassed(s, this.limit()), note: `Slope typed from the analyzer: ${why}`, file: null });
       return;
     }
     if (!f || !f.ok || s === null) {
@@ -112,6 +116,7 @@ export class LeakCheck {
     this.save.emit({
       slopeUmolMolS: s, passed: leakPassed(s, this.limit()),
       note: `Linear fit of ${f.n} samples from ${f.fromS} s to ${f.toS} s after a ${this.settle()} s settle time (${source})`,
+      file: this.method() === 'file' ? this.file : null,
     });
   }
 }

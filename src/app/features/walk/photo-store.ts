@@ -1,8 +1,7 @@
 import { Injectable, inject } from '@angular/core';
 import { DeviceDb } from '../../core/db/device-db';
-import { createRecord } from '../../core/db/outbox-writer';
+import { attachmentFor, keepFile, type FileOwner } from '../../core/db/device-files';
 import { SyncEngine } from '../../core/sync/sync-engine';
-import { validated } from './visit-writes';
 
 /** Longest edge of a stored photo, px: enough to see a collar and its surroundings, ~0.3–0.6 MB as JPEG. */
 export const PHOTO_MAX_EDGE = 1600;
@@ -24,38 +23,19 @@ export async function resizePhoto(file: Blob, maxEdge = PHOTO_MAX_EDGE): Promise
   return { blob, width, height };
 }
 
-export async function sha256Hex(blob: Blob): Promise<string> {
-  const digest = await crypto.subtle.digest('SHA-256', await blob.arrayBuffer());
-  return Array.from(new Uint8Array(digest), (b) => b.toString(16).padStart(2, '0')).join('');
-}
-
-export interface PhotoOwner {
-  siteId: string;
+export interface PhotoOwner extends FileOwner {
   ownerEntity: 'collar' | 'collarEvent' | 'visit';
-  ownerId: string;
 }
 
-/**
- * Keeps a photo on the device: the attachment record (with its size and SHA-256, queued for sync)
- * and the bytes in the blobs table, in ONE Dexie transaction — there is never a record without
- * its bytes or bytes without a record. The upload of the bytes happens later, from the blobs table.
- */
+/** Keeps a photo on the device (record and bytes in one transaction; see keepFile) and asks for a sync. */
 @Injectable({ providedIn: 'root' })
 export class PhotoStore {
   private readonly deviceDb = inject(DeviceDb);
   private readonly engine = inject(SyncEngine);
 
   async keep(owner: PhotoOwner, blob: Blob, fileName: string): Promise<string> {
-    const fields = validated('attachment', {
-      ...owner, fileName, mediaType: blob.type || 'image/jpeg', sizeBytes: blob.size, sha256: await sha256Hex(blob),
-    });
-    const id = await this.deviceDb.run(async (db) =>
-      db.transaction('rw', [db.records('attachment'), db.outbox, db.blobs], async () => {
-        const rec = await createRecord(db, 'attachment', fields);
-        await db.blobs.put({ attachmentId: rec.id, blob, mediaType: String(fields['mediaType']), createdAt: new Date().toISOString(), uploadedAt: null });
-        return rec.id;
-      }),
-    );
+    const fields = await attachmentFor(owner, blob, fileName, blob.type || 'image/jpeg');
+    const id = await this.deviceDb.run((db) => keepFile(db, fields, blob));
     this.engine.requestSync('create');
     return id;
   }

@@ -9,13 +9,14 @@ import { TYPICAL_SETTLE_TIME_S } from '../../../../shared/flux';
 import { SiteChoice } from '../../core/auth/site-choice';
 import type { LocalRecord } from '../../core/db/db-schema';
 import { liveSignal } from '../../core/db/live-query-signal';
+import { validated } from '../../core/db/validated';
 import { LocalWrites } from '../../core/sync/local-writes';
+import { textMediaType } from '../closures/closure-writes';
 import { LeakCheck, type LeakResult } from './leak-check';
 import { parseCm } from './offset-form';
 import { CHECK_ITEMS, clockOffsetS, type CheckKind } from './start-of-day-items';
 import { WalkContext } from './walk-context';
 import { localDayStart, todayChecks, walkOptions } from './walk-store';
-import { validated } from './visit-writes';
 
 /**
  * The checks before the first collar: the site's safety note (acknowledged), analyzer, warm-up,
@@ -81,7 +82,8 @@ export class StartOfDay {
   }
 
   protected saveLeak(r: LeakResult): Promise<void> {
-    return this.record('leak', { slopeUmolMolS: r.slopeUmolMolS, passed: r.passed, note: r.note });
+    const file = r.file ? { blob: r.file, fileName: r.file.name, mediaType: textMediaType(r.file.name) } : null;
+    return this.record('leak', { slopeUmolMolS: r.slopeUmolMolS, passed: r.passed, note: r.note }, file);
   }
 
   protected saveClock(): Promise<void> {
@@ -116,7 +118,8 @@ export class StartOfDay {
     this.problem.set(msg);
   }
 
-  private async record(kind: CheckKind, fields: Record<string, unknown>): Promise<void> {
+  /** Stores one check; a file it was read from (the leak check's logger file) is kept with it. */
+  private async record(kind: CheckKind, fields: Record<string, unknown>, file: { blob: Blob; fileName: string; mediaType: string } | null = null): Promise<void> {
     const siteId = this.site()?.id;
     if (!siteId) return this.fail('No site chosen.');
     const analyzerId = kind === 'safety-ack' ? null : this.choice().analyzerId;
@@ -124,8 +127,9 @@ export class StartOfDay {
     this.problem.set('');
     try {
       const rec = validated('analyzerCheck', { siteId, analyzerId, kind, at: new Date().toISOString(), ...fields });
-      await this.writes.create('analyzerCheck', rec);
-      this.message.set(`${CHECK_ITEMS.find((i) => i.kind === kind)!.title}: saved on this device.`);
+      if (file) await this.writes.createWithFile('analyzerCheck', rec, file);
+      else await this.writes.create('analyzerCheck', rec);
+      this.message.set(`${CHECK_ITEMS.find((i) => i.kind === kind)!.title}: saved on this device${file ? `, with ${file.fileName}` : ''}.`);
     } catch (err) {
       this.problem.set(err instanceof Error ? err.message : 'Could not save on this device');
     }

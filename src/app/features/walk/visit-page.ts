@@ -12,7 +12,8 @@ import { ProbeForm, type ProbeReadingInput } from './probe-form';
 import { SkipForm } from './skip-form';
 import { WalkContext } from './walk-context';
 import { visitView } from './visit-store';
-import { InvalidRecordError, VisitWrites, type VisitConditions, type VisitTarget } from './visit-writes';
+import { InvalidRecordError } from '../../core/db/validated';
+import { VisitWrites, type VisitConditions, type VisitTarget } from './visit-writes';
 
 const CONDITIONS: { key: keyof Omit<VisitConditions, 'other'>; label: string }[] = [
   { key: 'rainNow', label: 'Raining now' },

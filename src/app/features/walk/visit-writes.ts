@@ -1,14 +1,8 @@
 import { Injectable, inject } from '@angular/core';
-import { ENTITY_FIELDS, type SyncEntityName } from '../../../../shared/model/entities';
 import { AuthStore } from '../../core/auth/auth-store';
 import type { LocalRecord } from '../../core/db/db-schema';
+import { validated } from '../../core/db/validated';
 import { LocalWrites } from '../../core/sync/local-writes';
-
-export class InvalidRecordError extends Error {
-  constructor(readonly problems: { path: string; message: string }[]) {
-    super(problems.map((p) => p.message).join('; '));
-  }
-}
 
 export interface VisitTarget {
   siteId: string;
@@ -20,15 +14,6 @@ export interface VisitTarget {
 export type VisitConditions = {
   rainNow: boolean; rain24h: boolean; standingWater: boolean; frostSnow: boolean; trampled: boolean; animal: boolean; other: string;
 };
-
-/** Checks a whole record with the shared schema the server uses, so the device never queues what the server refuses. */
-export function validated(entity: SyncEntityName, fields: Record<string, unknown>): Record<string, unknown> {
-  const parsed = ENTITY_FIELDS[entity].safeParse(fields);
-  if (!parsed.success) {
-    throw new InvalidRecordError(parsed.error.issues.map((i) => ({ path: i.path.join('.'), message: i.message })));
-  }
-  return parsed.data as Record<string, unknown>;
-}
 
 /**
  * Everything a visit writes, through the one local write path (record + outbox op in one Dexie
