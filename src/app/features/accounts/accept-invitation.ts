@@ -7,6 +7,7 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { Router, RouterLink } from '@angular/router';
 import { AuthStore } from '../../core/auth/auth-store';
 import { homePathFor } from '../../core/auth/destinations';
+import { FormSubmit } from '../../core/forms/form-submit';
 import { AccountApi, type InvitationPreview } from './account-api';
 import { MIN_PASSWORD_LENGTH, PASSWORD_HINT, describeAccountError } from './password-hint';
 
@@ -28,12 +29,11 @@ export class AcceptInvitation {
 
   protected readonly hint = PASSWORD_HINT;
   protected readonly invitation = signal<InvitationPreview | null>(null);
-  protected readonly problem = signal<string | null>(null);
-  protected readonly busy = signal(false);
   protected readonly form = inject(FormBuilder).nonNullable.group({
     displayName: ['', [Validators.required, Validators.maxLength(120)]],
     password: ['', [Validators.required, Validators.minLength(MIN_PASSWORD_LENGTH)]],
   });
+  protected readonly submit = new FormSubmit(this.form, (err) => describeAccountError(err, 'The account could not be made.'));
 
   constructor() {
     effect(() => void this.look(this.token()));
@@ -41,34 +41,24 @@ export class AcceptInvitation {
 
   private async look(token: string): Promise<void> {
     if (!token) {
-      this.problem.set('This link has no invitation in it. Open the link from the mail again.');
+      this.submit.problem.set('This link has no invitation in it. Open the link from the mail again.');
       return;
     }
     try {
       this.invitation.set(await this.api.lookupInvitation(token));
     } catch (err) {
-      this.problem.set(describeAccountError(err, 'This invitation could not be opened.'));
+      this.submit.problem.set(describeAccountError(err, 'This invitation could not be opened.'));
     }
   }
 
   protected async createAccount(): Promise<void> {
     const invitation = this.invitation();
-    if (this.busy() || !invitation) return;
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    this.busy.set(true);
-    this.problem.set(null);
-    const { displayName, password } = this.form.getRawValue();
-    try {
+    if (!invitation) return;
+    await this.submit.run(async () => {
+      const { displayName, password } = this.form.getRawValue();
       await this.api.acceptInvitation(this.token(), displayName.trim(), password);
       const user = await this.auth.signIn(invitation.email, password);
       await this.router.navigateByUrl(homePathFor(user.roles));
-    } catch (err) {
-      this.problem.set(describeAccountError(err, 'The account could not be made.'));
-    } finally {
-      this.busy.set(false);
-    }
+    });
   }
 }

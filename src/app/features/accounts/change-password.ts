@@ -3,6 +3,7 @@ import { FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
+import { FormSubmit } from '../../core/forms/form-submit';
 import { AccountApi } from './account-api';
 import { MIN_PASSWORD_LENGTH, PASSWORD_HINT, describeAccountError } from './password-hint';
 
@@ -24,9 +25,9 @@ import { MIN_PASSWORD_LENGTH, PASSWORD_HINT, describeAccountError } from './pass
           <mat-hint>{{ hint }}</mat-hint>
           @if (form.controls.newPassword.invalid) { <mat-error>{{ hint }}</mat-error> }
         </mat-form-field>
-        <p class="problem" role="alert">{{ problem() }}</p>
+        <p class="problem" role="alert">{{ submit.problem() }}</p>
         <p class="done" role="status">{{ done() }}</p>
-        <button mat-flat-button type="submit" [disabled]="busy()">Change password</button>
+        <button mat-flat-button type="submit" [disabled]="submit.busy()">Change password</button>
       </form>
     </section>
   `,
@@ -45,28 +46,16 @@ export class ChangePassword {
     currentPassword: ['', Validators.required],
     newPassword: ['', [Validators.required, Validators.minLength(MIN_PASSWORD_LENGTH)]],
   });
-  protected readonly busy = signal(false);
-  protected readonly problem = signal('');
   protected readonly done = signal('');
+  protected readonly submit = new FormSubmit(this.form, (err) => describeAccountError(err, 'The password was not changed.'));
 
   protected async changePassword(): Promise<void> {
-    if (this.busy()) return;
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    this.busy.set(true);
-    this.problem.set('');
-    this.done.set('');
-    const { currentPassword, newPassword } = this.form.getRawValue();
-    try {
+    await this.submit.run(async () => {
+      this.done.set('');
+      const { currentPassword, newPassword } = this.form.getRawValue();
       await this.api.changePassword(currentPassword, newPassword);
       this.form.reset();
       this.done.set('Password changed. Your other devices were signed out; this one stays signed in.');
-    } catch (err) {
-      this.problem.set(describeAccountError(err, 'The password was not changed.'));
-    } finally {
-      this.busy.set(false);
-    }
+    });
   }
 }

@@ -4,6 +4,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { RouterLink } from '@angular/router';
+import { FormSubmit } from '../../core/forms/form-submit';
 import { AccountApi } from './account-api';
 import { describeAccountError } from './password-hint';
 
@@ -26,8 +27,8 @@ import { describeAccountError } from './password-hint';
               <input matInput type="email" name="email" formControlName="email" autocomplete="username" required />
               @if (form.controls.email.invalid) { <mat-error>Enter an e-mail address.</mat-error> }
             </mat-form-field>
-            <p class="problem" role="alert">{{ problem() }}</p>
-            <button mat-flat-button type="submit" [disabled]="busy()">Send the link</button>
+            <p class="problem" role="alert">{{ submit.problem() }}</p>
+            <button mat-flat-button type="submit" [disabled]="submit.busy()">Send the link</button>
           </form>
           <p><a routerLink="/sign-in">Back to sign-in</a></p>
         }
@@ -40,24 +41,12 @@ import { describeAccountError } from './password-hint';
 export class ForgotPassword {
   private readonly api = inject(AccountApi);
   protected readonly form = inject(FormBuilder).nonNullable.group({ email: ['', [Validators.required, Validators.email]] });
-  protected readonly busy = signal(false);
   protected readonly sent = signal<string | null>(null);
-  protected readonly problem = signal<string | null>(null);
+  protected readonly submit = new FormSubmit(this.form, (err) => describeAccountError(err, 'The link could not be asked for.'));
 
   protected async sendLink(): Promise<void> {
-    if (this.busy()) return;
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    this.busy.set(true);
-    this.problem.set(null);
-    try {
+    await this.submit.run(async () => {
       this.sent.set(await this.api.requestReset(this.form.getRawValue().email.trim()));
-    } catch (err) {
-      this.problem.set(describeAccountError(err, 'The link could not be asked for.'));
-    } finally {
-      this.busy.set(false);
-    }
+    });
   }
 }

@@ -6,6 +6,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { AuthStore } from '../../core/auth/auth-store';
 import { ROLES, type Role } from '../../core/auth/session-user';
+import { FormSubmit } from '../../core/forms/form-submit';
 import { AccountApi, type OpenInvitation } from './account-api';
 import { describeAccountError } from './password-hint';
 
@@ -43,10 +44,9 @@ export class InviteMember {
   protected readonly chosenRoles = signal<Role[]>(['crew']);
   protected readonly chosenSites = signal<string[]>([]);
   protected readonly open = signal<OpenInvitation[]>([]);
-  protected readonly busy = signal(false);
-  protected readonly problem = signal('');
   protected readonly done = signal('');
   protected readonly form = inject(FormBuilder).nonNullable.group({ email: ['', [Validators.required, Validators.email]] });
+  protected readonly submit = new FormSubmit(this.form, (err) => describeAccountError(err, 'The invitation was not sent.'));
 
   constructor() {
     effect(() => {
@@ -62,24 +62,13 @@ export class InviteMember {
   }
 
   protected async sendInvitation(): Promise<void> {
-    if (this.busy()) return;
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    this.busy.set(true);
-    this.problem.set('');
-    this.done.set('');
-    try {
+    await this.submit.run(async () => {
+      this.done.set('');
       const sent = await this.api.invite(this.form.getRawValue().email.trim(), this.chosenRoles(), this.chosenSites());
       this.done.set(`Invitation sent to ${sent.email}. The link works once, until ${new Date(sent.expiresAt).toLocaleDateString()}.`);
       this.form.reset();
       await this.loadOpen();
-    } catch (err) {
-      this.problem.set(describeAccountError(err, 'The invitation was not sent.'));
-    } finally {
-      this.busy.set(false);
-    }
+    });
   }
 
   protected async withdraw(inv: OpenInvitation): Promise<void> {
@@ -88,7 +77,7 @@ export class InviteMember {
       this.done.set(`Invitation to ${inv.email} withdrawn; its link no longer works.`);
       await this.loadOpen();
     } catch (err) {
-      this.problem.set(describeAccountError(err, 'Not withdrawn.'));
+      this.submit.problem.set(describeAccountError(err, 'Not withdrawn.'));
     }
   }
 
@@ -96,7 +85,7 @@ export class InviteMember {
     try {
       this.open.set(await this.api.openInvitations());
     } catch (err) {
-      this.problem.set(describeAccountError(err, 'Open invitations could not be loaded.'));
+      this.submit.problem.set(describeAccountError(err, 'Open invitations could not be loaded.'));
     }
   }
 }

@@ -4,6 +4,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { RouterLink } from '@angular/router';
+import { FormSubmit } from '../../core/forms/form-submit';
 import { AccountApi } from './account-api';
 import { MIN_PASSWORD_LENGTH, PASSWORD_HINT, describeAccountError } from './password-hint';
 
@@ -26,8 +27,8 @@ import { MIN_PASSWORD_LENGTH, PASSWORD_HINT, describeAccountError } from './pass
               <mat-hint>{{ hint }}</mat-hint>
               @if (form.controls.password.invalid) { <mat-error>{{ hint }}</mat-error> }
             </mat-form-field>
-            <p class="problem" role="alert">{{ problem() }}</p>
-            <button mat-flat-button type="submit" [disabled]="busy() || !token()">Set the password</button>
+            <p class="problem" role="alert">{{ submit.problem() }}</p>
+            <button mat-flat-button type="submit" [disabled]="submit.busy() || !token()">Set the password</button>
           </form>
           @if (!token()) { <p class="problem">This link has no reset token in it. Open the link from the mail again.</p> }
           <p><a routerLink="/forgot-password">Ask for a new link</a></p>
@@ -46,25 +47,13 @@ export class ResetPassword {
   protected readonly form = inject(FormBuilder).nonNullable.group({
     password: ['', [Validators.required, Validators.minLength(MIN_PASSWORD_LENGTH)]],
   });
-  protected readonly busy = signal(false);
   protected readonly done = signal(false);
-  protected readonly problem = signal<string | null>(null);
+  protected readonly submit = new FormSubmit(this.form, (err) => describeAccountError(err, 'The password could not be set.'));
 
   protected async setPassword(): Promise<void> {
-    if (this.busy()) return;
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    this.busy.set(true);
-    this.problem.set(null);
-    try {
+    await this.submit.run(async () => {
       await this.api.confirmReset(this.token(), this.form.getRawValue().password);
       this.done.set(true);
-    } catch (err) {
-      this.problem.set(describeAccountError(err, 'The password could not be set.'));
-    } finally {
-      this.busy.set(false);
-    }
+    });
   }
 }

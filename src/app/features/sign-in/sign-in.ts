@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, inject, input, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject, input } from '@angular/core';
 import { AbstractControl, FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { ErrorStateMatcher } from '@angular/material/core';
 import { MatButtonModule } from '@angular/material/button';
@@ -9,6 +9,7 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { Router, RouterLink } from '@angular/router';
 import { AuthStore } from '../../core/auth/auth-store';
 import { homePathFor } from '../../core/auth/destinations';
+import { FormSubmit } from '../../core/forms/form-submit';
 import { describeSignInError } from './sign-in-error';
 
 /**
@@ -41,27 +42,20 @@ export class SignIn {
     email: ['', [Validators.required, Validators.email]],
     password: ['', Validators.required],
   });
-  protected readonly busy = signal(false);
-  protected readonly problem = signal<string | null>(null);
+  protected readonly submit = new FormSubmit(this.form, describeSignInError);
 
   protected async signIn(): Promise<void> {
-    if (this.busy()) return;
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    this.busy.set(true);
-    this.problem.set(null);
-    const { email, password } = this.form.getRawValue();
-    try {
-      const user = await this.auth.signIn(email.trim(), password);
-      const target = this.returnTo();
-      await this.router.navigateByUrl(target?.startsWith('/') ? target : homePathFor(user.roles));
-    } catch (err) {
-      this.problem.set(describeSignInError(err));
-      this.form.controls.password.reset();
-    } finally {
-      this.busy.set(false);
-    }
+    await this.submit.run(async () => {
+      const { email, password } = this.form.getRawValue();
+      try {
+        const user = await this.auth.signIn(email.trim(), password);
+        const target = this.returnTo();
+        await this.router.navigateByUrl(target?.startsWith('/') ? target : homePathFor(user.roles));
+      } catch (err) {
+        // A refused password is typed again, not edited; the frame still reports the error.
+        this.form.controls.password.reset();
+        throw err;
+      }
+    });
   }
 }
