@@ -17,17 +17,19 @@ interface Collars {
   plot_treatment: (string | null)[]; treatment: (string | null)[];
 }
 /**
- * The campaign's visits as parallel arrays: collar id, round, skipped, holds an offset set, closures
- * done, holds a probe reading; and for the skipped visits only: collar id, round, arrival (µs since
- * 1970, exact as a JS number), reason.
+ * The campaign's visits as parallel arrays: collar id, round, what it holds packed in one number
+ * (8 × closures done + 4 if a probe reading + 2 if an offset set: one array instead of three); and
+ * for the skipped visits only: collar id, round, arrival (µs since 1970, exact as a JS number), reason.
  */
 interface Visits {
-  collar: string[]; round: number[]; skipped: boolean[]; offset: boolean[]; closures: number[]; probe: boolean[];
+  collar: string[]; round: number[]; done: number[];
   skip_collar: string[]; skip_round: number[]; skip_at: number[]; skip_reason: (string | null)[];
 }
-interface RoundCounts { skipped: boolean; skippedAt: number; skipReason: string | null; offsets: number; closures: number; probes: number }
-/** A collar's visits summed per round, indexed by round number. */
-type PerRound = (RoundCounts | undefined)[];
+/**
+ * What the visits hold, per collar (by place in walking order) and asked round, at index
+ * place × rounds + round index; skippedAt is -Infinity for a round not skipped.
+ */
+interface Tally { offsets: Int32Array; closures: Int32Array; probes: Int32Array; skippedAt: Float64Array; skipReason: (string | null)[] }
 
 /*
  * Two queries that do not depend on each other, so they run at once on two connections (their
@@ -48,8 +50,9 @@ routes AS (SELECT r.id, r.collar_ids, row_number() OVER (ORDER BY r.id) AS no
              FROM route r WHERE NOT r.deleted AND r.id IN (SELECT (x->>'routeId')::uuid FROM c, jsonb_array_elements(c.routes) x)),
 rc AS (SELECT routes.no, u.collar_id, u.ord FROM routes CROSS JOIN LATERAL unnest(routes.collar_ids) WITH ORDINALITY u(collar_id, ord)),
 rfirst AS (SELECT collar_id, min(no) AS route_no, min(ord) AS ord FROM rc GROUP BY collar_id),
+-- Route and place as one sort key: with two, every tie on the route fetched the place from the tuple again.
 cols AS (SELECT k.id, k.code, k.plot_id, p.treatment_id AS plot_treatment_id, k.treatment_id, rf.route_no,
-                row_number() OVER (ORDER BY rf.route_no NULLS LAST, rf.ord NULLS LAST, k.code) AS pos
+                row_number() OVER (ORDER BY rf.route_no * 4294967296 + rf.ord NULLS LAST, k.code) AS pos
            FROM c JOIN collar k ON k.site_id = c.site_id AND NOT k.deleted
            JOIN plot p ON p.id = k.plot_id
            LEFT JOIN rfirst rf ON rf.collar_id = k.id
@@ -77,9 +80,8 @@ WITH done AS (SELECT visit_id, bool_or(kind = 0) AS has_offset, count(*) FILTER 
                       SELECT visit_id, 2 FROM probe_reading WHERE campaign_id = $1 AND NOT deleted) m
                GROUP BY visit_id)
 SELECT json_build_object(
-         'collar', coalesce(json_agg(v.collar_id), '[]'), 'round', coalesce(json_agg(v.round), '[]'), 'skipped', coalesce(json_agg(v.skipped), '[]'),
-         'offset', coalesce(json_agg(coalesce(d.has_offset, false)), '[]'), 'closures', coalesce(json_agg(coalesce(d.closures, 0)), '[]'),
-         'probe', coalesce(json_agg(coalesce(d.has_probe, false)), '[]'),
+         'collar', coalesce(json_agg(v.collar_id), '[]'), 'round', coalesce(json_agg(v.round), '[]'),
+         'done', coalesce(json_agg(8 * coalesce(d.closures, 0) + 4 * coalesce(d.has_probe, false)::int + 2 * coalesce(d.has_offset, false)::int), '[]'),
          'skip_collar', coalesce(json_agg(v.collar_id) FILTER (WHERE v.skipped), '[]'), 'skip_round', coalesce(json_agg(v.round) FILTER (WHERE v.skipped), '[]'),
          'skip_at', coalesce(json_agg((extract(epoch FROM v.arrived_at) * 1000000)::bigint) FILTER (WHERE v.skipped), '[]'),
          'skip_reason', coalesce(json_agg(v.skip_reason) FILTER (WHERE v.skipped), '[]'))::text AS visits
@@ -92,40 +94,40 @@ function itemState(done: number, needed: number): ProgressState {
   return done >= needed ? 'complete' : done > 0 ? 'partial' : 'due';
 }
 
-/** The counts of one round of a collar, made on first use. */
-function roundOf(visitsOf: Map<string, PerRound>, collarId: string, round: number): RoundCounts {
-  let perRound = visitsOf.get(collarId);
-  if (!perRound) visitsOf.set(collarId, perRound = []);
-  return perRound[round] ??= { skipped: false, skippedAt: -Infinity, skipReason: null, offsets: 0, closures: 0, probes: 0 };
-}
-
-/** Per collar, the campaign's visits summed per round; the latest skipped visit of a round gives the reason. */
-function sumVisits(v: Visits): Map<string, PerRound> {
-  const visitsOf = new Map<string, PerRound>();
+/** Sums the visits per collar and asked round; the latest skipped visit of a round gives the reason. */
+function tallyVisits(v: Visits, placeOf: Map<string, number>, rounds: number[]): Tally {
+  const size = placeOf.size * rounds.length;
+  const t: Tally = { offsets: new Int32Array(size), closures: new Int32Array(size), probes: new Int32Array(size),
+    skippedAt: new Float64Array(size).fill(-Infinity), skipReason: new Array(size).fill(null) };
+  // Visits of collars off the campaign's routes, or of rounds not asked, count nowhere.
+  const at = (collarId: string, round: number) => {
+    const place = placeOf.get(collarId), r = rounds.indexOf(round);
+    return place === undefined || r < 0 ? -1 : place * rounds.length + r;
+  };
   for (let i = 0; i < v.collar.length; i++) {
-    const p = roundOf(visitsOf, v.collar[i], v.round[i]);
-    if (v.offset[i]) p.offsets++;
-    p.closures += v.closures[i];
-    if (v.probe[i]) p.probes++;
+    const x = at(v.collar[i], v.round[i]);
+    if (x < 0) continue;
+    t.offsets[x] += (v.done[i] >> 1) & 1;
+    t.probes[x] += (v.done[i] >> 2) & 1;
+    t.closures[x] += v.done[i] >> 3;
   }
   for (let i = 0; i < v.skip_collar.length; i++) {
-    const p = roundOf(visitsOf, v.skip_collar[i], v.skip_round[i]);
-    if (v.skip_at[i] >= p.skippedAt) Object.assign(p, { skipped: true, skippedAt: v.skip_at[i], skipReason: v.skip_reason[i] });
+    const x = at(v.skip_collar[i], v.skip_round[i]);
+    if (x >= 0 && v.skip_at[i] >= t.skippedAt[x]) { t.skippedAt[x] = v.skip_at[i]; t.skipReason[x] = v.skip_reason[i]; }
   }
-  return visitsOf;
+  return t;
 }
 
 /** A collar's state over the requested rounds from its per-round counts (plain loops: it runs for every collar). */
-function collarProgress(perRound: PerRound | undefined, needs: ItemCounts, rounds: number[]) {
+function collarProgress(t: Tally, place: number, needs: ItemCounts, rounds: number[]) {
   let offsetDone = 0, closuresDone = 0, probesDone = 0;
   let skippedRounds = 0, completeRounds = 0, dueRounds = 0;
   let skipReason: string | null = null;
-  for (const r of rounds) {
-    const p = perRound?.[r];
-    if (p?.skipped) { skippedRounds++; skipReason = p.skipReason; continue; }
+  for (let x = place * rounds.length; x < (place + 1) * rounds.length; x++) {
+    if (t.skippedAt[x] > -Infinity) { skippedRounds++; skipReason = t.skipReason[x]; continue; }
     // Extra closures in one round do not fill another.
-    const offset = Math.min(p?.offsets ?? 0, needs.offset), closures = Math.min(p?.closures ?? 0, needs.closures);
-    const probes = Math.min(p?.probes ?? 0, needs.probes);
+    const offset = Math.min(t.offsets[x], needs.offset), closures = Math.min(t.closures[x], needs.closures);
+    const probes = Math.min(t.probes[x], needs.probes);
     offsetDone += offset; closuresDone += closures; probesDone += probes;
     if (offset >= needs.offset && closures >= needs.closures && probes >= needs.probes) completeRounds++;
     else if (offset + closures + probes === 0) dueRounds++;
@@ -144,12 +146,16 @@ function collarProgress(perRound: PerRound | undefined, needs: ItemCounts, round
   return { state, skipReason: skippedRounds ? skipReason : null, items };
 }
 
-/** The collars' parallel arrays and, for each place in walking order, the index into them. */
-function readCollars(text: string): { c: Collars; order: Int32Array } {
+/** The collars' parallel arrays, for each place in walking order the index into them, and each collar's place. */
+function readCollars(text: string): { c: Collars; order: Int32Array; placeOf: Map<string, number> } {
   const c = JSON.parse(text) as Collars;
   const order = new Int32Array(c.id.length);
-  for (let i = 0; i < c.id.length; i++) order[c.pos[i] - 1] = i;
-  return { c, order };
+  const placeOf = new Map<string, number>();
+  for (let i = 0; i < c.id.length; i++) {
+    order[c.pos[i] - 1] = i;
+    placeOf.set(c.id[i], c.pos[i] - 1);
+  }
+  return { c, order, placeOf };
 }
 
 export async function campaignProgress(ds: DataSource, user: SessionUser, campaignId: string, round: number | null) {
@@ -158,11 +164,11 @@ export async function campaignProgress(ds: DataSource, user: SessionUser, campai
   if (!camp || (!seesAllSites(user.roles) && !user.siteIds.includes(camp.site_id))) throw notFound('No such campaign');
   if (round !== null && round > camp.rounds) throw notFound(`The campaign has ${camp.rounds} round(s)`);
   // The collar list is read while the visits query still runs.
-  const [{ c, order }, [{ visits }]]: [ReturnType<typeof readCollars>, [{ visits: string }]] = await Promise.all([
+  const [{ c, order, placeOf }, [{ visits }]]: [ReturnType<typeof readCollars>, [{ visits: string }]] = await Promise.all([
     ds.query(COLLARS_SQL, [campaignId]).then(([answer]) => readCollars(answer.collars)), ds.query(VISITS_SQL, [campaignId, round])]);
-  const visitsOf = sumVisits(JSON.parse(visits));
   const needs: ItemCounts = { offset: camp.due_offset ? 1 : 0, closures: camp.due_closures, probes: camp.due_probes ? 1 : 0 };
   const rounds = round === null ? Array.from({ length: camp.rounds }, (_, i) => i + 1) : [round];
+  const tally = tallyVisits(JSON.parse(visits), placeOf, rounds);
   // Counted in maps (no property lookups by fresh id strings), handed out as objects in first-seen order.
   const byRoute = new Map<string, StateCounts>(), byPlot = new Map<string, StateCounts>(), byTreatment = new Map<string, StateCounts>();
   const bump = (group: Map<string, StateCounts>, key: string | null, s: ProgressState) => {
@@ -171,10 +177,9 @@ export async function campaignProgress(ds: DataSource, user: SessionUser, campai
     if (!counts) group.set(key, counts = emptyCounts());
     counts[s]++;
   };
-  // Visits of collars off the campaign's routes are not listed.
-  const collars = Array.from(order, (i) => {
+  const collars = Array.from(order, (i, place) => {
     const routeId = c.route[i] === null ? null : c.routes[c.route[i]! - 1];
-    const { state, skipReason, items } = collarProgress(visitsOf.get(c.id[i]), needs, rounds);
+    const { state, skipReason, items } = collarProgress(tally, place, needs, rounds);
     bump(byRoute, routeId, state);
     bump(byPlot, c.plot[i], state);
     bump(byTreatment, c.plot_treatment[i], state);
