@@ -13,12 +13,13 @@ const PLOT = '22222222-2222-4222-8222-222222222222';
 const OLD_COLLAR = '33333333-3333-4333-8333-333333333333';
 const BLANK_TAG = '9e8d7c6b-5a49-4382-a716-0f1e2d3c4b5a';
 
-/** The install screen on a device holding one plot and one collar (N-01); `query` as in the address. */
-async function render(query: Record<string, string> = {}) {
+/** The install screen on a device holding one plot and one collar (N-01) and what `before` adds; `query` as in the address. */
+async function render(query: Record<string, string> = {}, before: (db: FluxDb) => Promise<void> = async () => undefined) {
   const { db } = await signedInDevice([provideRouter([]), { provide: ActivatedRoute, useValue: { snapshot: { queryParamMap: convertToParamMap(query) } } }]);
   await db.records('site').put({ id: TEST_SITE, rev: 1, name: 'Test site' });
   await db.records('plot').put({ id: PLOT, rev: 1, siteId: TEST_SITE, code: 'P1' });
   await db.records('collar').put({ id: OLD_COLLAR, rev: 1, siteId: TEST_SITE, plotId: PLOT, code: 'N-01', deleted: false });
+  await before(db);
   const navigated: unknown[] = [];
   jest.spyOn(TestBed.inject(Router), 'navigate').mockImplementation(async (cmds) => {
     navigated.push(cmds);
@@ -65,6 +66,14 @@ describe('Install screen with a printed tag', () => {
     const made = await until(async () => (await collars(db)).find((c) => c['code'] === 'N-02'), 'the new collar');
     expect(made.id).not.toBe(OLD_COLLAR);
     expect((await db.records('collar').get(OLD_COLLAR))!['code']).toBe('N-01');
+  });
+
+  it('when the scanned tag belonged to a deleted collar, then it is refused with that reason', async () => {
+    const { text, el } = await render({ tag: BLANK_TAG }, async (db) => {
+      await db.records('collar').put({ id: BLANK_TAG, rev: 3, siteId: TEST_SITE, plotId: PLOT, code: 'N-05', deleted: true });
+    });
+    await until(() => text('install-tag-note').includes('belonged to collar N-05, since deleted'), 'the refusal');
+    expect(el.querySelector('[data-testid="install-tag"]')).toBeNull();
   });
 
   it('when the code is already used at the site, then nothing is saved and the crew is told to choose another', async () => {

@@ -102,8 +102,10 @@ export class InstallPage {
       const sameCode = tag.code && siteId ? await table.where('siteId').equals(siteId).filter((c) => !c.deleted && c['code'] === tag.code).first() : undefined;
       return { owner: await table.get(tag.id), codeUser: sameCode };
     });
-    if (owner && !owner.deleted) {
-      this.tagNote.set(`This tag is already on collar ${owner['code']}: use a new tag.`);
+    if (owner) {
+      // A deleted collar keeps its id (its history syncs as a tombstone): its tag cannot be reused.
+      this.tagNote.set(owner.deleted ? `This tag belonged to collar ${owner['code']}, since deleted: use a new tag.`
+        : `This tag is already on collar ${owner['code']}: use a new tag.`);
       return false;
     }
     this.tag.set(tag);
