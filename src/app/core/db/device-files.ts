@@ -36,3 +36,10 @@ export async function keepFile(db: FluxDb, fields: Record<string, unknown>, blob
     return rec.id;
   });
 }
+
+/** A text file's media type from its name (the server accepts these three for text). */
+export function textMediaType(fileName: string): 'text/csv' | 'text/tab-separated-values' | 'text/plain' {
+  if (/\.csv$/i.test(fileName)) return 'text/csv';
+  if (/\.tsv$/i.test(fileName)) return 'text/tab-separated-values';
+  return 'text/plain';
+}

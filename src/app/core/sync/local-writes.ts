@@ -5,7 +5,7 @@ import type { AttachmentOwner } from '../../../../shared/model/field-records';
 import type { ConflictRow, LocalRecord, OutboxOp } from '../db/db-schema';
 import { DeviceDb } from '../db/device-db';
 import { resolveConflict, type Side } from '../db/conflict-resolve';
-import { attachmentFor, keepFile } from '../db/device-files';
+import { attachmentFor, keepFile, type FileOwner } from '../db/device-files';
 import { createRecord, deleteRecord, saveEdit } from '../db/outbox-writer';
 import { SyncEngine } from './sync-engine';
 
@@ -29,6 +29,14 @@ export class LocalWrites {
     const rec = await this.deviceDb.run((db) => createRecord(db, entity, fields, opts));
     this.engine.requestSync('create');
     return rec;
+  }
+
+  /** A file for a record that exists: attachment record and bytes in one transaction (see keepFile). */
+  async keepFile(owner: FileOwner, file: { blob: Blob; fileName: string; mediaType: string }): Promise<string> {
+    const attachment = await attachmentFor(owner, file.blob, file.fileName, file.mediaType);
+    const id = await this.deviceDb.run((db) => keepFile(db, attachment, file.blob));
+    this.engine.requestSync('create');
+    return id;
   }
 
   /**

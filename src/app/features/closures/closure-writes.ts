@@ -1,11 +1,9 @@
 import { Injectable, inject } from '@angular/core';
 import { TYPICAL_SETTLE_TIME_S } from '../../../../shared/flux';
 import type { LocalRecord } from '../../core/db/db-schema';
-import { DeviceDb } from '../../core/db/device-db';
-import { attachmentFor, keepFile } from '../../core/db/device-files';
+import { textMediaType } from '../../core/db/device-files';
 import { LocalWrites } from '../../core/sync/local-writes';
 import { validated } from '../../core/db/validated';
-import { SyncEngine } from '../../core/sync/sync-engine';
 import { localDay } from './closure-flux';
 
 export interface ClosureSeries {
@@ -34,8 +32,6 @@ const EMPTY_SERIES: ClosureSeries = { tS: [], co2Ppm: [], h2oMmolMol: null, pres
 @Injectable({ providedIn: 'root' })
 export class ClosureWrites {
   private readonly writes = inject(LocalWrites);
-  private readonly deviceDb = inject(DeviceDb);
-  private readonly engine = inject(SyncEngine);
 
   /** The profile version valid on the day, among the versions of the site's default profile when it has one. */
   private profileFor(site: LocalRecord | null, profiles: LocalRecord[], at: Date): LocalRecord | null {
@@ -76,18 +72,8 @@ export class ClosureWrites {
     return this.writes.create('closure', fields);
   }
 
-  /** Keeps a logger file of a closure on the device (record and bytes in one transaction; see keepFile). */
-  async keepFile(siteId: string, ownerId: string, file: Blob, fileName: string, mediaType: string): Promise<string> {
-    const fields = await attachmentFor({ siteId, ownerEntity: 'closure', ownerId }, file, fileName, mediaType);
-    const id = await this.deviceDb.run((db) => keepFile(db, fields, file));
-    this.engine.requestSync('create');
-    return id;
+  /** Keeps a logger file of a closure on the device (record and bytes in one transaction). */
+  keepFile(siteId: string, ownerId: string, file: Blob, fileName: string): Promise<string> {
+    return this.writes.keepFile({ siteId, ownerEntity: 'closure', ownerId }, { blob: file, fileName, mediaType: textMediaType(fileName) });
   }
-}
-
-/** The logger file's media type from its name (the server accepts these three for text). */
-export function textMediaType(fileName: string): 'text/csv' | 'text/tab-separated-values' | 'text/plain' {
-  if (/\.csv$/i.test(fileName)) return 'text/csv';
-  if (/\.tsv$/i.test(fileName)) return 'text/tab-separated-values';
-  return 'text/plain';
 }

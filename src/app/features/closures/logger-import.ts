@@ -11,7 +11,7 @@ import {
 import { TYPICAL_SETTLE_TIME_S } from '../../../../shared/flux';
 import { DeviceDb } from '../../core/db/device-db';
 import { DeviceMemory } from '../../core/device/device-memory';
-import { ClosureWrites, textMediaType } from './closure-writes';
+import { ClosureWrites } from './closure-writes';
 import { localDay } from './closure-flux';
 import {
   assignmentProblems, assignmentValue, defaultAssignments, loadRoundVisits, parseAssignment, tapWindows, visitSlots, type Assignment, type RoundVisit,
@@ -223,7 +223,7 @@ export class LoggerImport {
     const pending: { key: string; visitId: string }[] = chosen.filter((p) => a[p.key].kind === 'new').map((p) => ({ key: p.key, visitId: (a[p.key] as { visitId: string }).visitId }));
     const attachmentOwner = [...targets.values()][0];
     let attachmentId: string | null = null;
-    if (attachmentOwner) attachmentId = await this.writes.keepFile(this.data.siteId, attachmentOwner, this.file!, this.file!.name, textMediaType(this.file!.name));
+    if (attachmentOwner) attachmentId = await this.writes.keepFile(this.data.siteId, attachmentOwner, this.file!, this.file!.name);
     for (const n of pending) {
       const v = visitById.get(n.visitId)!;
       const t = times(split.pieces.find((x) => x.key === n.key)!);
@@ -231,7 +231,7 @@ export class LoggerImport {
       const rec = await this.writes.createFromPiece(target, TYPICAL_SETTLE_TIME_S, t.series, t.startedAt, t.endedAt, attachmentId);
       if (!attachmentId) {
         // No tapped closure to own the file: the first new closure owns it and then names it.
-        attachmentId = await this.writes.keepFile(this.data.siteId, rec.id, this.file!, this.file!.name, textMediaType(this.file!.name));
+        attachmentId = await this.writes.keepFile(this.data.siteId, rec.id, this.file!, this.file!.name);
         await this.writes.saveSeries(rec, t.series, t.startedAt, t.endedAt, attachmentId);
       }
     }

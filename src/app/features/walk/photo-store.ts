@@ -1,7 +1,6 @@
 import { Injectable, inject } from '@angular/core';
-import { DeviceDb } from '../../core/db/device-db';
-import { attachmentFor, keepFile, type FileOwner } from '../../core/db/device-files';
-import { SyncEngine } from '../../core/sync/sync-engine';
+import type { FileOwner } from '../../core/db/device-files';
+import { LocalWrites } from '../../core/sync/local-writes';
 
 /** Longest edge of a stored photo, px: enough to see a collar and its surroundings, ~0.3–0.6 MB as JPEG. */
 export const PHOTO_MAX_EDGE = 1600;
@@ -30,13 +29,9 @@ export interface PhotoOwner extends FileOwner {
 /** Keeps a photo on the device (record and bytes in one transaction; see keepFile) and asks for a sync. */
 @Injectable({ providedIn: 'root' })
 export class PhotoStore {
-  private readonly deviceDb = inject(DeviceDb);
-  private readonly engine = inject(SyncEngine);
+  private readonly writes = inject(LocalWrites);
 
-  async keep(owner: PhotoOwner, blob: Blob, fileName: string): Promise<string> {
-    const fields = await attachmentFor(owner, blob, fileName, blob.type || 'image/jpeg');
-    const id = await this.deviceDb.run((db) => keepFile(db, fields, blob));
-    this.engine.requestSync('create');
-    return id;
+  keep(owner: PhotoOwner, blob: Blob, fileName: string): Promise<string> {
+    return this.writes.keepFile(owner, { blob, fileName, mediaType: blob.type || 'image/jpeg' });
   }
 }
