@@ -1,7 +1,7 @@
 import type { DataSource } from 'typeorm';
 import { v4 as uuidv4 } from 'uuid';
 import { z } from 'zod';
-import { collarTagUrl, shortTagId } from '../../shared/model/collar-tag';
+import { collarTagUrl, plannedTagCodes, shortTagId } from '../../shared/model/collar-tag';
 import { AppError } from '../core/errors';
 import type { Actor } from '../records/record-writer';
 import { siteForActor } from './site-access';
@@ -148,7 +148,7 @@ export async function collarTagSheet(ds: DataSource, actor: Actor, siteId: strin
 export async function blankTagSheet(ds: DataSource, actor: Actor, siteId: string, q: BlankTagQuery, origin: string) {
   const site = await siteForActor(ds, actor, siteId);
   const first = q.firstNumber ?? 1;
-  const codes = Array.from({ length: q.count }, (_, i) => (q.codePrefix ? `${q.codePrefix}${String(first + i).padStart(q.digits ?? 1, '0')}` : ''));
+  const codes = q.codePrefix ? plannedTagCodes(q.codePrefix, first, q.digits ?? 1, q.count) : Array<string>(q.count).fill('');
   if (q.codePrefix) {
     const taken: { code: string }[] = await ds.query(
       `SELECT code FROM collar WHERE site_id = $1 AND NOT deleted AND code = ANY($2::text[]) ORDER BY code LIMIT 6`, [siteId, codes]);

@@ -1,4 +1,4 @@
-import { collarIdFromTag, collarTagUrl, readCollarTag } from './collar-tag';
+import { collarIdFromTag, collarTagUrl, plannedTagCodes, readCollarTag } from './collar-tag';
 
 const ID = '6f1c2a4e-8b7d-4c3e-9a1f-2b3c4d5e6f70';
 
@@ -28,5 +28,10 @@ describe('collar tag addresses', () => {
   it('when the planned code is empty or longer than a code can be, then it is ignored and the id still reads', () => {
     expect(readCollarTag(`https://fw.example/walk/collars/${ID}?code=%20`)).toEqual({ id: ID, code: null });
     expect(readCollarTag(`https://fw.example/walk/collars/${ID}?code=${'x'.repeat(41)}`)).toEqual({ id: ID, code: null });
+  });
+
+  it('when planned codes are asked for, then they run on from the first number, padded to the digits', () => {
+    expect(plannedTagCodes('N-', 8, 2, 3)).toEqual(['N-08', 'N-09', 'N-10']);
+    expect(plannedTagCodes('C', 99, 1, 2)).toEqual(['C99', 'C100']);
   });
 });

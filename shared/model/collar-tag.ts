@@ -53,5 +53,10 @@ export function collarIdFromTag(text: string): string | null {
   return readCollarTag(text)?.id ?? null;
 }
 
+/** Planned codes for a sheet of blank tags: prefix + running number, zero-padded to `digits` (N-07, N-08, …). */
+export function plannedTagCodes(prefix: string, first: number, digits: number, count: number): string[] {
+  return Array.from({ length: count }, (_, i) => `${prefix}${String(first + i).padStart(digits, '0')}`);
+}
+
 /** The short form of a tag's id printed under a blank tag's QR code, for reading it out by voice. */
 export const shortTagId = (id: string) => id.slice(0, 8);

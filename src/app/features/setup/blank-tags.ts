@@ -3,6 +3,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
+import { plannedTagCodes } from '../../../../shared/model/collar-tag';
 import { fieldProblems, serverMessage } from '../../core/api/api-error';
 import { saveFile } from '../../core/api/save-file';
 import { SetupApi } from './setup-api';
@@ -76,7 +77,8 @@ export class BlankTags {
     const p = this.prefix().trim();
     if (!Number.isInteger(n) || n < 1) return '';
     if (!p) return `${n} tag${n === 1 ? '' : 's'} without codes: the crew types each code when installing.`;
-    const code = (i: number) => `${p}${String(Number(this.first()) + i).padStart(Number(this.digits()) || 1, '0')}`;
+    // Only the first and last code: a typed count of a million must not build a million strings.
+    const code = (i: number) => plannedTagCodes(p, Number(this.first()) + i, Number(this.digits()) || 1, 1)[0];
     return n === 1 ? `Planned code ${code(0)}.` : `Planned codes ${code(0)} … ${code(n - 1)}.`;
   });
 
