@@ -2,7 +2,6 @@
 // Callbacks passed to page.evaluate() run in the browser and use its DOM types.
 import { createHash } from 'node:crypto';
 import path from 'node:path';
-import type { Page } from 'playwright-core';
 import { seriousAccessibilityProblems, signInAs, waitForServiceWorkerControl, type AxeProblem } from './support/app-actions';
 import { RunningServer, startAppServer } from './support/app-server';
 import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
@@ -31,20 +30,13 @@ const LEAK_FILE = 'time_s,co2_ppm\n0,430\n10,425\n20,415.0\n30,415.3\n40,415.6\n
 /** A blank tag printed for a new collar, planned code N-07 (made by tools/make-walk-qr-fixtures.js). */
 const BLANK_TAG = { photo: path.resolve(__dirname, '../fixtures/walk/blank-tag-qr.png'), id: '9e8d7c6b-5a49-4382-a716-0f1e2d3c4b5a', code: 'N-07' };
 
-/**
- * axe on one of the Walk screens, including whatever the shell shows over it at that moment (the
- * "Offline" snackbar comes and goes with timing). The browser asks for reduced motion, so nothing
- * is caught half-faded in.
- */
-function screenProblems(page: Page): Promise<AxeProblem[]> {
-  return seriousAccessibilityProblems(page);
-}
-
 describe('Walk in Chromium on a phone, offline', () => {
   it('when the crew works a day offline and then syncs, then every check (with the leak check\'s logger file), visit, offset set, probe reading, tagged new collar and photo record is in PostgreSQL', async () => {
     browser = await launchBrowser();
     const { page, context } = browser;
     await page.setViewportSize(PHONE);
+    // axe on each Walk screen, with whatever the shell shows over it then (the "Offline" snackbar
+    // comes and goes with timing); the browser asks for reduced motion, so nothing is half-faded.
     const axe: Record<string, AxeProblem[]> = {};
     await withScreenshotOnFailure(page, 'walk-day', async () => {
       const user = (await signInAs(page, server.baseUrl, 'crew')) as unknown as { id: string };
@@ -82,7 +74,7 @@ describe('Walk in Chromium on a phone, offline', () => {
       await page.getByTestId('skip-reason-clock').fill('Analyzer display unreadable in full sun');
       await page.getByRole('button', { name: 'Save skip' }).click();
       await page.getByTestId('checks-done').filter({ hasText: '5 of 5 checks done today' }).waitFor();
-      axe['start of day'] = await screenProblems(page);
+      axe['start of day'] = await seriousAccessibilityProblems(page);
 
       // Route: round 2 of the open campaign (picked by keyboard), collars in walking order.
       await page.getByRole('link', { name: 'To the route' }).click();
@@ -101,7 +93,7 @@ describe('Walk in Chromium on a phone, offline', () => {
       await page.getByTestId('next-collar').filter({ hasText: first }).waitFor();
       await page.getByTestId('next-way').filter({ hasText: / m (N|NE|E|SE|S|SW|W|NW) \(\d+°\)/ }).waitFor();
       await readmeShot(page, 'walk-route');
-      axe['route'] = await screenProblems(page);
+      axe['route'] = await seriousAccessibilityProblems(page);
 
       // First collar, opened from the "next due" card: conditions, an uneven offset set, probes by permittivity.
       await page.getByTestId('next-collar').getByRole('link').click();
@@ -121,7 +113,7 @@ describe('Walk in Chromium on a phone, offline', () => {
       }
       await page.getByTestId('offset-warning').filter({ hasText: 'Uneven rim' }).waitFor();
       await readmeShot(page, 'walk-visit');
-      axe['visit'] = await screenProblems(page);
+      axe['visit'] = await seriousAccessibilityProblems(page);
       await page.keyboard.press('Enter');
       await page.getByTestId('offset-saved').waitFor();
       await page.getByTestId('soil-temp-1').fill('6.4');
@@ -174,7 +166,7 @@ describe('Walk in Chromium on a phone, offline', () => {
       expect(await page.locator(`.fw-marker[title="${third}, Skipped"]`).count()).toBe(1);
       expect(await page.locator('.leaflet-tile').count()).toBe(0);
       await readmeShot(page, 'walk-map');
-      axe['map'] = await screenProblems(page);
+      axe['map'] = await seriousAccessibilityProblems(page);
       // A collar opened from the map by keyboard: its marker takes focus and Enter opens it.
       const marker = page.locator(`.fw-marker[title="${third}, Skipped"]`);
       await marker.focus();
@@ -208,7 +200,7 @@ describe('Walk in Chromium on a phone, offline', () => {
       const chooser = await chooserOpened;
       await chooser.setFiles({ name: 'collar-new.png', mimeType: 'image/png', buffer: testPhoto() });
       await page.getByRole('img', { name: 'Photo 1 of the new collar' }).waitFor();
-      axe['install'] = await screenProblems(page);
+      axe['install'] = await seriousAccessibilityProblems(page);
       await page.getByRole('button', { name: 'Save the new collar' }).click();
       await page.waitForURL(/\/collars\/[0-9a-f-]{36}$/);
       const newCollarId = page.url().split('/').at(-1)!;
