@@ -1,16 +1,9 @@
-import Papa from 'papaparse';
 import type { DataSource } from 'typeorm';
 import type { SessionUser } from '../../shared/auth/roles';
+import { csvLine } from '../../shared/csv/csv-cell';
 import { campaignProgress } from '../campaigns/campaign-progress';
 
 const ITEMS = ['offset', 'closures', 'probes'] as const;
-
-/** A spreadsheet would run a cell starting with these as a formula; free text (skip reasons) must not. */
-function cell(v: unknown): string | number {
-  if (typeof v === 'number') return v;
-  const s = v == null ? '' : String(v);
-  return /^[=+\-@\t\r]/.test(s) ? `'${s}` : s;
-}
 
 /** The progress answer as CSV, one row per collar in walking order, with route, plot and treatment named. */
 export async function progressCsv(ds: DataSource, user: SessionUser, campaignId: string, round: number | null): Promise<string> {
@@ -30,7 +23,8 @@ export async function progressCsv(ds: DataSource, user: SessionUser, campaignId:
     const n = byId.get(c.collarId);
     const items = c.items as Record<string, { state: string; done: number; needed: number } | undefined>;
     return [c.code, c.routeId ? routeName.get(c.routeId) ?? '' : '', n?.plot ?? '', n?.treatments.join(' ') ?? '', round ?? 'all', c.state, c.skipReason ?? '',
-      ...ITEMS.flatMap((k) => (items[k] ? [items[k]!.state, items[k]!.done, items[k]!.needed] : ['not due', '', '']))].map(cell);
+      ...ITEMS.flatMap((k) => (items[k] ? [items[k]!.state, items[k]!.done, items[k]!.needed] : ['not due', '', '']))];
   });
-  return Papa.unparse({ fields: header, data: rows }, { newline: '\r\n' }) + '\r\n';
+  // Codes, names and skip reasons are typed by people: the shared writer keeps them from running as formulas.
+  return [header, ...rows].map((r) => csvLine(r, '\r\n')).join('');
 }

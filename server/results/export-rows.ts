@@ -1,5 +1,5 @@
 import type { DataSource } from 'typeorm';
-import type { CsvValue } from './csv-text';
+import type { CsvValue } from '../../shared/csv/csv-cell';
 import type { SiteResults } from './results-service';
 import type { CellTotal } from './seasonal-totals';
 

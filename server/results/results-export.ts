@@ -2,7 +2,7 @@ import { createHash } from 'node:crypto';
 import type { DataSource } from 'typeorm';
 import { engineVersion, RESPONSE_LIMITS } from '../../shared/flux';
 import { defineJob } from '../jobs/job-registry';
-import { csvLine, type CsvValue } from './csv-text';
+import { csvLine, type CsvValue } from '../../shared/csv/csv-cell';
 import { dataPackage, type Provenance } from './data-package';
 import { emlDocument } from './eml-document';
 import * as rows from './export-rows';
