@@ -2,6 +2,7 @@ import { ChangeDetectionStrategy, Component, DestroyRef, ElementRef, afterNextRe
 import { DomSanitizer, type SafeHtml } from '@angular/platform-browser';
 import * as L from 'leaflet';
 import { serverMessage } from '../../core/api/api-error';
+import { escapeHtml, mapText } from '../../core/map/map-text';
 import { BoardApi, type ProgressState, type Rec } from './board-api';
 import { BoardStore } from './board-store';
 import { CollarCanvasLayer, type CollarPoint } from './collar-canvas-layer';
@@ -96,7 +97,7 @@ export class BoardMap {
     if (!map || !layer) return;
     const tileUrl = site?.['tileUrl'];
     if (typeof tileUrl === 'string' && !this.tiles) {
-      this.tiles = L.tileLayer(tileUrl, { attribution: String(site?.['tileAttribution'] ?? ''), maxZoom: 22 }).addTo(map);
+      this.tiles = L.tileLayer(tileUrl, { attribution: escapeHtml(String(site?.['tileAttribution'] ?? '')), maxZoom: 22 }).addTo(map);
     }
     const t0 = performance.now();
     layer.clearLayers();
@@ -105,7 +106,7 @@ export class BoardMap {
       const outline = p['outline'] as GeoJSON.Polygon | null;
       if (!outline) continue;
       const g = L.geoJSON(outline, { style: { color: '#33415c', weight: 2, dashArray: '6 4', fill: false }, interactive: false });
-      g.bindTooltip(String(p['code']), { permanent: true, direction: 'center', className: 'fw-plot-label' });
+      g.bindTooltip(mapText(String(p['code'])), { permanent: true, direction: 'center', className: 'fw-plot-label' });
       g.addTo(layer);
       bounds.extend(g.getBounds());
     }

@@ -1,4 +1,5 @@
 import * as L from 'leaflet';
+import { mapText } from '../../core/map/map-text';
 import type { ProgressState } from './board-api';
 import { STATE_COLOURS, STATE_LABELS } from './state-badge';
 
@@ -161,8 +162,6 @@ export class CollarCanvasLayer extends L.Layer {
   private pick(e: L.LeafletMouseEvent): void {
     const hit = this.nearest(e.containerPoint.x, e.containerPoint.y);
     if (!hit || !this._map) return;
-    const text = document.createElement('span');
-    text.textContent = `${hit.code}: ${STATE_LABELS[hit.state]}`;
-    L.popup({ closeButton: true }).setLatLng([hit.lat, hit.lon]).setContent(text).openOn(this._map);
+    L.popup({ closeButton: true }).setLatLng([hit.lat, hit.lon]).setContent(mapText(`${hit.code}: ${STATE_LABELS[hit.state]}`)).openOn(this._map);
   }
 }

@@ -1,5 +1,6 @@
 import { ChangeDetectionStrategy, Component, DestroyRef, ElementRef, NgZone, afterNextRender, effect, inject, input, output, viewChild } from '@angular/core';
 import * as L from 'leaflet';
+import { escapeHtml, mapText } from '../../core/map/map-text';
 import type { Vertex } from './outline-geometry';
 
 export interface MapCollar {
@@ -12,8 +13,6 @@ export interface MapPlot {
   code: string;
   vertices: Vertex[];
 }
-
-const escapeHtml = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
 
 /**
  * A Leaflet map of the site with no background unless the site names a tile source: the other
@@ -74,11 +73,11 @@ export class OutlineMap {
     for (const p of others) {
       if (p.vertices.length < 3) continue;
       L.polygon(p.vertices, { color: '#33415c', weight: 2, dashArray: '6 4', fill: false, interactive: false })
-        .bindTooltip(p.code, { permanent: true, direction: 'center', className: 'fw-collar-label' }).addTo(this.layers.context);
+        .bindTooltip(mapText(p.code), { permanent: true, direction: 'center', className: 'fw-collar-label' }).addTo(this.layers.context);
     }
     for (const c of collars) {
       L.circleMarker([c.lat, c.lng], { radius: 4, color: '#111', weight: 1, fillColor: '#fff', fillOpacity: 1, interactive: false })
-        .bindTooltip(c.code, { permanent: true, direction: 'right', offset: [4, 0], className: 'fw-collar-label' }).addTo(this.layers.context);
+        .bindTooltip(mapText(c.code), { permanent: true, direction: 'right', offset: [4, 0], className: 'fw-collar-label' }).addTo(this.layers.context);
     }
     const points: L.LatLngExpression[] = [...collars.map((c) => [c.lat, c.lng] as L.LatLngTuple), ...others.flatMap((p) => p.vertices)];
     const key = JSON.stringify([points.length, center]);

@@ -4,12 +4,22 @@ import { Router, RouterLink } from '@angular/router';
 import * as L from 'leaflet';
 import { SiteChoice } from '../../core/auth/site-choice';
 import { liveSignal } from '../../core/db/live-query-signal';
+import { escapeHtml, mapText } from '../../core/map/map-text';
 import { Gps } from './gps';
 import { STATE_LABEL, STATE_MARK } from './route-order';
 import { WalkContext } from './walk-context';
 import { routeView, walkOptions } from './walk-store';
 
-const escapeHtml = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
+/** A marker's face: the state's mark and a word beside the code, both as text (codes are typed by people). */
+function markerFace(mark: string, text: string): HTMLElement {
+  const face = document.createElement('span');
+  face.className = 'face';
+  for (const part of [mapText(mark, 'm'), mapText(text, 't')]) {
+    part.setAttribute('aria-hidden', 'true');
+    face.append(part);
+  }
+  return face;
+}
 
 /**
  * The route's collars over the plot outlines, with our own markers: the state is a shape and a
@@ -33,6 +43,7 @@ const escapeHtml = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt
     .map { height: 62vh; min-height: 320px; border: 1px solid var(--mat-sys-outline); border-radius: 8px; background: #f4f1ea; }
     .legend { font-size: 1.05rem; }
     :host ::ng-deep .fw-marker { display: flex; align-items: center; gap: 2px; white-space: nowrap; font-weight: 700; color: #111; }
+    :host ::ng-deep .fw-marker .face { display: contents; }
     :host ::ng-deep .fw-marker .m { font-size: 20px; line-height: 1; background: #fff; border-radius: 50%; }
     :host ::ng-deep .fw-marker .t { background: #fff; border: 1px solid #111; border-radius: 4px; padding: 0 2px; font-size: 11px; }
     :host ::ng-deep .fw-marker:focus-visible { outline: 3px solid #0b57d0; }
@@ -98,7 +109,7 @@ export class WalkMap {
       const label = `${r.code}, ${STATE_LABEL[r.state]}`;
       const icon = L.divIcon({
         className: 'fw-marker',
-        html: `<span class="m" aria-hidden="true">${STATE_MARK[r.state]}</span><span class="t" aria-hidden="true">${escapeHtml(r.code)} ${escapeHtml(STATE_LABEL[r.state].toLowerCase())}</span>`,
+        html: markerFace(STATE_MARK[r.state], `${r.code} ${STATE_LABEL[r.state].toLowerCase()}`),
         iconSize: undefined,
         iconAnchor: [10, 10],
       });
@@ -121,7 +132,7 @@ export class WalkMap {
     if (fix) {
       L.circle([fix.latitude, fix.longitude], { radius: fix.accuracyM, color: '#0b57d0', weight: 1, fillOpacity: 0.1, interactive: false }).addTo(this.layers.me);
       L.marker([fix.latitude, fix.longitude], {
-        icon: L.divIcon({ className: 'fw-marker', html: '<span class="m" aria-hidden="true">◎</span><span class="t" aria-hidden="true">you</span>', iconAnchor: [10, 10] }),
+        icon: L.divIcon({ className: 'fw-marker', html: markerFace('◎', 'you'), iconAnchor: [10, 10] }),
         keyboard: false, interactive: false,
       }).addTo(this.layers.me);
     }
