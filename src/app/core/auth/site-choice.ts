@@ -1,10 +1,10 @@
 import { Injectable, computed, inject, linkedSignal } from '@angular/core';
-import { DeviceMemory } from '../device/device-memory';
+import { DeviceMemory, userKey } from '../device/device-memory';
 import { AuthStore } from './auth-store';
 import { SiteSummary } from './session-user';
 
 function keyFor(userId: string): string {
-  return `fw.site.${userId}`;
+  return userKey('site', userId);
 }
 
 /**

@@ -67,8 +67,21 @@ export class DeviceDb {
       });
       if (this.current() === db) this.device.set(id);
     } catch (err) {
-      if (!this.blocked()) console.error('[device-db] could not read the device id', err);
+      // A database closed meanwhile (sign-out, removal) needs no device id any more.
+      if (!this.blocked() && this.current() === db) console.error('[device-db] could not read the device id', err);
     }
+  }
+
+  /** Deletes a user's database from this device (closed first if it is the open one). */
+  async remove(userId: string): Promise<void> {
+    const name = dbNameFor(userId);
+    const open = this.current();
+    if (open?.name === name) {
+      open.close();
+      this.current.set(null);
+      this.device.set(null);
+    }
+    await Dexie.delete(name);
   }
 
   /** The device id, read from the database if it is not known yet. */

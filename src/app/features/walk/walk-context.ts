@@ -1,6 +1,6 @@
 import { Injectable, computed, inject, linkedSignal } from '@angular/core';
 import { AuthStore } from '../../core/auth/auth-store';
-import { DeviceMemory } from '../../core/device/device-memory';
+import { DeviceMemory, userKey } from '../../core/device/device-memory';
 
 /** What the crew picked for today's walk and what the next collar should start from. */
 export interface WalkChoice {
@@ -27,7 +27,7 @@ export class WalkContext {
   private readonly memory = inject(DeviceMemory);
   private readonly key = computed(() => {
     const id = this.auth.user()?.id;
-    return id ? `fw.walk.${id}` : null;
+    return id ? userKey('walk', id) : null;
   });
   private readonly state = linkedSignal<WalkChoice>(() => {
     const key = this.key();
