@@ -40,12 +40,38 @@ describe('App shell in Chromium', () => {
         expect(await userMenuText(page)).toContain(user.displayName);
 
         await page.getByTestId('user-menu').click();
-        await page.getByRole('menuitem', { name: 'Sign out' }).click();
+        await page.getByRole('menuitem', { name: 'Sign out', exact: true }).click();
         await page.waitForURL((url) => url.pathname === '/sign-in');
         expect(await page.evaluate(() => localStorage.getItem('fw.session'))).toBeNull();
       });
     });
   }
+
+  it('when the lead signs out and removes this device\'s data, then their IndexedDB database and Board copies are gone; plain sign-out keeps them', async () => {
+    await inBrowser('sign-out-remove', async (page) => {
+      const databases = () => page.evaluate(async () => (await indexedDB.databases()).map((d) => d.name ?? ''));
+      const keptFor = (id: string) => page.evaluate((userId) => Object.keys(localStorage).filter((k) => k.split('.').includes(userId)), id);
+      const user = await signInAs(page, suite.server.baseUrl, 'lead');
+      const dbName = `fluxwalk-user-${user.id}`;
+      await page.goto(`${suite.server.baseUrl}/board`, { waitUntil: 'load' });
+      await page.waitForFunction((id) => Object.keys(localStorage).some((k) => k.startsWith(`fw.board.${id}.`)), user.id, { timeout: 30_000 });
+      expect(await databases()).toContain(dbName);
+
+      await page.getByTestId('user-menu').click();
+      await page.getByRole('menuitem', { name: 'Sign out', exact: true }).click();
+      await page.waitForURL((url) => url.pathname === '/sign-in');
+      expect(await databases()).toContain(dbName); // plain sign-out keeps the user's data for next time
+      expect((await keptFor(user.id)).length).toBeGreaterThan(0);
+
+      await signInAs(page, suite.server.baseUrl, 'lead');
+      await page.getByTestId('user-menu').click();
+      await page.getByRole('menuitem', { name: 'Sign out and remove this device\'s data' }).click();
+      await page.waitForURL((url) => url.pathname === '/sign-in');
+      await page.waitForFunction(async (name) => !(await indexedDB.databases()).some((d) => d.name === name), dbName, { timeout: 30_000 });
+      expect(await keptFor(user.id)).toEqual([]);
+      expect(await page.evaluate(() => localStorage.getItem('fw.session'))).toBeNull();
+    });
+  });
 
   it('when a crew user opens Board by its address, then they land on Walk', async () => {
     await inBrowser('crew-board-address', async (page) => {
