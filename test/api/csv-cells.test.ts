@@ -1,3 +1,5 @@
+import { readFileSync, readdirSync, statSync } from 'node:fs';
+import { join, relative } from 'node:path';
 import Papa from 'papaparse';
 import { runResultsExport } from '../../server/results/results-export';
 import { TABLES, tablePath } from '../../server/results/export-schema';
@@ -93,5 +95,19 @@ describe('CSV cells never start a formula', () => {
       expect(rows.some((r) => r[0].startsWith('\'=HYPERLINK('))).toBe(true);
       expect(rows.some((r) => r[1].startsWith('\'\t=1+2'))).toBe(true);
     }
+  });
+
+  it('when the server sources are read, then CSV text is written only by the shared writer', () => {
+    const root = join(__dirname, '..', '..');
+    const files = (dir: string): string[] => readdirSync(dir).flatMap((n) => {
+      const p = join(dir, n);
+      return statSync(p).isDirectory() ? files(p) : /\.ts$/.test(n) && !/\.spec\.ts$/.test(n) ? [p] : [];
+    });
+    const writers = files(join(root, 'server')).filter((f) => /\bunparse\(|text\/csv/.test(readFileSync(f, 'utf8')))
+      .map((f) => relative(root, f)).filter((f) => !f.startsWith('server/seed/')); // the seed only names a demo file's media type
+    // The progress route sends progressCsv(), which is built with csvLine(); no file serialises CSV its own way.
+    expect(writers.sort()).toEqual(['server/board/board-routes.ts', 'server/results/data-package.ts']);
+    expect(readFileSync(join(root, 'server/board/progress-csv.ts'), 'utf8')).toContain("from '../../shared/csv/csv-cell'");
+    expect(readFileSync(join(root, 'server/results/results-export.ts'), 'utf8')).toContain("from '../../shared/csv/csv-cell'");
   });
 });
