@@ -99,4 +99,13 @@ describe('Sign out and remove this device\'s data', () => {
     await answerLogout();
     await until(async () => !(await dbExists()), 'the database to go');
   });
+
+  it('when the user signs out plainly, then the database and Board copies stay for their next sign-in', async () => {
+    const { menu, answerLogout, dbExists, navigate, userId } = await menuOnDevice(0);
+    await menu.clickItem({ text: /Sign out$/ });
+    await answerLogout();
+    await until(() => navigate.mock.calls.length > 0, 'sign-in to open');
+    expect(await dbExists()).toBe(true);
+    expect(localStorage.getItem(`fw.board.${userId}.progress.c1.all`)).toBe('{}');
+  });
 });

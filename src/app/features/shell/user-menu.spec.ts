@@ -54,7 +54,7 @@ describe('UserMenu', () => {
   it('when signing out, then the server is told, the device forgets the user and sign-in opens', async () => {
     const { menu } = await openMenu();
     const navigate = jest.spyOn(TestBed.inject(Router), 'navigateByUrl').mockResolvedValue(true);
-    await menu.clickItem({ text: /Sign out/ });
+    await menu.clickItem({ text: /Sign out$/ });
     const backend = TestBed.inject(HttpTestingController);
     backend.expectOne('/api/auth/csrf').flush({ token: 't' });
     await new Promise((r) => setTimeout(r, 0));
@@ -67,7 +67,7 @@ describe('UserMenu', () => {
   it('when work is not yet synced, then signing out is refused and the user stays', async () => {
     const { menu } = await openMenu();
     TestBed.inject(PendingWorkGuard).report(3);
-    await menu.clickItem({ text: /Sign out/ });
+    await menu.clickItem({ text: /Sign out$/ });
     TestBed.inject(HttpTestingController).expectNone('/api/auth/logout');
     expect(localStorage.getItem('fw.session')).not.toBeNull();
     expect(document.body.textContent).toContain('3 not yet synced');
