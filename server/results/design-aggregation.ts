@@ -44,7 +44,7 @@ export interface Cell {
 export interface CellMean {
   cellKey: string; campaignId: string; nPlots: number; nCollars: number; nVisits: number; nClosures: number;
   meanUmolM2S: number; sdUmolM2S: number | null; seUmolM2S: number | null;
-  /** SE from the additive cell + block model of the cell's stratum: √(MS residual / blocks). */
+  /** SE of the cell's least-squares mean in the additive cell + block (or, for collar-level cells, cell + plot) model. */
   seBlockUmolM2S: number | null;
   soilTempC: number | null; vwcPct: number | null;
 }
@@ -120,7 +120,7 @@ export function aggregateDesign(input: DesignInput): DesignAggregate {
 
   const blockStrata = blockAnalysis(plotMeans, cells);
   const seBlock = new Map<string, number | null>();
-  for (const s of blockStrata) for (const k of s.cellKeys) seBlock.set(`${s.campaignId}|${k}`, s.seBlockUmolM2S);
+  for (const s of blockStrata) for (const m of s.lsMeans) seBlock.set(`${s.campaignId}|${m.cellKey}`, m.seUmolM2S);
 
   const cellMeans: CellMean[] = [...groupBy(plotMeans, (p) => `${p.campaignId}|${p.cellKey}`).entries()].map(([key, ps]) => {
     const y = ps.map((p) => p.fluxUmolM2S);

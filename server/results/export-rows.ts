@@ -121,21 +121,29 @@ export async function* responseRows(r: SiteResults): Rows {
   for (const c of r.responses) {
     const q = c.q10;
     const l = c.lloydTaylor;
-    yield [c.cellKey, 'q10', q.ok, q.ok ? null : q.reason, q.ok ? q.n : null, q.ok ? q.tempSpanC : null, q.ok ? q.r10.value : null,
-      q.ok ? q.r10.ciLow : null, q.ok ? q.r10.ciHigh : null, q.ok ? q.q10.value : null, q.ok ? q.q10.ciLow : null, q.ok ? q.q10.ciHigh : null,
-      null, null, null, q.ok ? q.rmse : null, q.ok ? q.warnings.join(';') : null];
-    yield [c.cellKey, 'lloyd-taylor', l.ok, l.ok ? null : l.reason, l.ok ? l.n : null, l.ok ? l.tempSpanC : null, l.ok ? l.r10.value : null,
-      l.ok ? l.r10.ciLow : null, l.ok ? l.r10.ciHigh : null, null, null, null, l.ok ? l.e0K.value : null, l.ok ? l.e0K.ciLow : null,
-      l.ok ? l.e0K.ciHigh : null, l.ok ? l.rmse : null, l.ok ? l.warnings.join(';') : null];
+    const ql = c.q10Log;
+    const ll = c.lloydTaylorLog;
+    const est = (e: { value: number; ciLow: number; ciHigh: number } | null | undefined) => (e ? [e.value, e.ciLow, e.ciHigh] : [null, null, null]);
+    yield [c.cellKey, 'q10', q.ok, q.ok ? null : q.reason, q.ok ? q.n : null, c.nPlots, q.ok ? q.tempSpanC : null, ...est(q.ok ? q.r10 : null),
+      ...est(q.ok ? q.q10 : null), null, null, null, q.ok ? q.rmse : null, q.ok ? q.warnings.join(';') : null];
+    yield [c.cellKey, 'lloyd-taylor', l.ok, l.ok ? null : l.reason, l.ok ? l.n : null, c.nPlots, l.ok ? l.tempSpanC : null, ...est(l.ok ? l.r10 : null),
+      null, null, null, ...est(l.ok ? l.e0K : null), l.ok ? l.rmse : null, l.ok ? l.warnings.join(';') : null];
+    for (const [name, f] of [['q10-log', ql], ['lloyd-taylor-log', ll]] as const) {
+      yield [c.cellKey, name, f.ok, f.ok ? null : f.reason, f.ok ? f.n : null, c.nPlots, f.ok ? f.tempSpanC : null, ...est(f.ok ? f.r10 : null),
+        ...est(f.ok ? f.q10 : null), ...est(f.ok ? f.e0K : null), f.ok ? f.rmseLog : null, f.ok ? f.warnings.join(';') : null];
+    }
   }
 }
 
 export async function* seasonalRows(totals: CellTotal[], fromDay: string, toDay: string): Rows {
   for (const t of totals) {
-    const sum = (k: 'logged' | 'interpolated' | 'missing') => t.plots.reduce((a, p) => a + p.days[k], 0);
-    yield [t.cellKey, null, null, fromDay, toDay, t.totalGCM2, t.ciLowGCM2, t.ciHighGCM2, sum('logged'), sum('interpolated'), sum('missing')];
+    const d = t.days;
+    const responseDepth = t.plots[0]?.responseDepthCm ?? null;
+    yield [t.cellKey, null, null, fromDay, toDay, t.status, t.totalGCM2, t.ciLowGCM2, t.ciHighGCM2, d.logged, d.interpolated, d.missing, d.outsideRange,
+      null, responseDepth, t.flags.join(';')];
     for (const p of t.plots) {
-      yield [t.cellKey, p.plotId, p.plotCode, fromDay, toDay, p.totalGCM2, null, null, p.days.logged, p.days.interpolated, p.days.missing];
+      yield [t.cellKey, p.plotId, p.plotCode, fromDay, toDay, p.status, p.totalGCM2, null, null, p.days.logged, p.days.interpolated, p.days.missing,
+        p.days.outsideRange, p.logDepthCm, p.responseDepthCm, p.flags.join(';')];
     }
   }
 }

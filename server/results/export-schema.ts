@@ -108,23 +108,33 @@ export const TABLES: TableDef[] = [
       num('se_block_flux_umol_m2_s', UNITS.flux, 'Standard error from the additive cell + block model'),
       num('soil_temp_c', UNITS.degC, 'Mean soil temperature'), num('vwc_pct', UNITS.percent, 'Mean volumetric water content'),
     ] },
-  { name: 'temperature_responses', title: 'Temperature responses', description: 'Q10 and Lloyd & Taylor (1994) fits per treatment cell on visit means, with 95 % CIs.',
+  { name: 'temperature_responses', title: 'Temperature responses',
+    description: 'Q10 and Lloyd & Taylor (1994) fits per treatment cell on plot × campaign × round means (the experimental unit), on the flux scale '
+      + '(non-linear least squares) and on the log scale (least squares on ln flux), with 95 % CIs from t(n − 2), n = units.',
     fields: [
-      str('cell', 'Treatment cell'), str('model', 'q10 or lloyd-taylor'), { name: 'fitted', type: 'boolean', description: 'The engine fitted the model' },
-      str('refusal', 'Why the engine refused to fit'), int('n', 'Visit means used'), num('temp_span_c', UNITS.degC, 'Temperature span'),
+      str('cell', 'Treatment cell'), str('model', 'q10, lloyd-taylor, q10-log or lloyd-taylor-log'), { name: 'fitted', type: 'boolean', description: 'The model was fitted' },
+      str('refusal', 'Why the model was not fitted'), int('n', 'Plot × campaign × round means used'), int('n_plots', 'Plots behind them (independent units)'),
+      num('temp_span_c', UNITS.degC, 'Temperature span'),
       num('r10_umol_m2_s', UNITS.flux, 'Flux at 10 °C'), num('r10_ci_low', UNITS.flux, '95 % CI'), num('r10_ci_high', UNITS.flux, '95 % CI'),
       num('q10', 'dimensionless', 'Q10'), num('q10_ci_low', 'dimensionless', '95 % CI'), num('q10_ci_high', 'dimensionless', '95 % CI'),
       num('e0_k', UNITS.kelvin, 'Lloyd & Taylor E0 (T0 = 227.13 K fixed)'), num('e0_ci_low', UNITS.kelvin, '95 % CI'), num('e0_ci_high', UNITS.kelvin, '95 % CI'),
-      num('rmse_umol_m2_s', UNITS.flux, 'Root-mean-square residual'), str('warnings', 'Engine warnings separated by semicolons'),
+      num('rmse', 'dimensionless', 'Root-mean-square residual: µmol m-2 s-1 on the flux scale, ln units on the log scale'),
+      str('warnings', 'Warnings separated by semicolons'),
     ] },
-  { name: 'seasonal_totals', title: 'Seasonal totals', description: 'Cumulative carbon efflux per plot and treatment cell over the season.',
+  { name: 'seasonal_totals', title: 'Seasonal totals',
+    description: 'Cumulative carbon efflux per plot and treatment cell over the stated period; a total is given only when every plot has a value '
+      + 'for every day. Cell rows carry a 95 % Student t interval over the plots\' totals: it includes the variation between plots and what varies '
+      + 'plot by plot, and leaves out the uncertainty of the response parameters and of the gap filling (not propagated).',
     fields: [
       str('cell', 'Treatment cell'), ref('plot_id', 'Plot, empty for the cell mean'), str('plot_code', 'Plot code'),
       { name: 'from_day', type: 'date', description: 'First day' }, { name: 'to_day', type: 'date', description: 'Last day' },
-      num('total_g_c_m2', UNITS.total, 'Carbon released as CO2, g C m-2 (C = 12.011 g mol-1)'),
-      num('ci_low_g_c_m2', UNITS.total, '95 % bootstrap interval over plots (cell rows)'), num('ci_high_g_c_m2', UNITS.total, '95 % bootstrap interval over plots'),
-      int('days_logged', 'Days from logged temperature through the fitted response'), int('days_interpolated', 'Days interpolated between campaigns'),
-      int('days_missing', 'Days with neither'),
+      str('status', 'complete, partial (plots with too little signal left out), incomplete (missing days: no total) or too little signal'),
+      num('total_g_c_m2', UNITS.total, 'Carbon released as CO2, g C m-2 (C = 12.011 g mol-1); empty unless every day has a value'),
+      num('ci_low_g_c_m2', UNITS.total, '95 % Student t interval over plot totals (cell rows)'), num('ci_high_g_c_m2', UNITS.total, '95 % Student t interval over plot totals'),
+      int('days_logged', 'Plot-days from logged temperature through the fitted response'), int('days_interpolated', 'Plot-days gap-filled by interpolation between campaigns'),
+      int('days_missing', 'Plot-days with neither'), int('days_outside_range', 'Plot-days whose logged temperature left the fitted range (not taken from the response)'),
+      num('log_depth_cm', UNITS.cm, 'Depth of the temperature log used (plot rows)'), num('response_depth_cm', UNITS.cm, 'Depth of the probe temperatures the response was fitted on'),
+      str('flags', 'Reasons to read the total with care, separated by semicolons'),
     ] },
 ];
 

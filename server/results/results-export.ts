@@ -8,14 +8,14 @@ import { emlDocument } from './eml-document';
 import * as rows from './export-rows';
 import { TABLES, tablePath } from './export-schema';
 import type { ClosureSelection } from './results-data';
-import { SEASONAL_METHOD, seasonalSummary, siteResults } from './results-service';
+import { SEASONAL_METHOD, seasonalSummary, siteResults, TOTAL_INTERVAL_METHOD } from './results-service';
 import type { ResponseModelName } from './temperature-responses';
 import { ZipWriter } from './zip-archive';
 
 export const EXPORT_JOB = 'results-export';
 
 export interface ExportRequest {
-  siteId: string; selection: ClosureSelection; model: ResponseModelName; resamples: number; seed: number; userId: string;
+  siteId: string; selection: ClosureSelection; model: ResponseModelName; userId: string;
 }
 
 export interface ExportResult { exportId: string; fileName: string; sizeBytes: number; sha256: string; rows: Record<string, number> }
@@ -30,7 +30,7 @@ interface JobHooks { jobId: string; progress?: (done: number, total: number | nu
 export async function runResultsExport(ds: DataSource, req: ExportRequest, hooks: JobHooks): Promise<ExportResult> {
   const [user] = await ds.query(`SELECT id, display_name, email FROM app_user WHERE id = $1`, [req.userId]);
   const results = await siteResults(ds, req.siteId, req.selection);
-  const seasonal = await seasonalSummary(ds, req.siteId, req.selection, { model: req.model, resamples: req.resamples, seed: req.seed });
+  const seasonal = await seasonalSummary(ds, req.siteId, req.selection, { model: req.model });
   const [{ n }] = await ds.query(`SELECT count(*)::int AS n FROM closure WHERE site_id = $1 AND NOT deleted`, [req.siteId]);
   const total = 2 * n + TABLES.length;
   let done = 0;
@@ -84,7 +84,7 @@ export async function runResultsExport(ds: DataSource, req: ExportRequest, hooks
     generatedBy: { id: user?.id ?? req.userId, name: user?.display_name ?? 'unknown', email: user?.email ?? '' },
     site: { id: site.id, name: site.name, timezone: site.timezone, tempDepthCm: site.tempDepthCm },
     parameters: {
-      closureSelection: req.selection, responseModelForTotals: req.model, bootstrapResamples: req.resamples, bootstrapSeed: req.seed,
+      closureSelection: req.selection, responseModelForTotals: req.model, totalInterval: TOTAL_INTERVAL_METHOD,
       seasonFrom: seasonal.fromDay, seasonTo: seasonal.toDay, responseLimits: RESPONSE_LIMITS, lloydTaylorT0K: 227.13,
       carbonMolarMassGPerMol: 12.011, aggregation: 'closure → visit mean → collar mean → plot mean (replicate) → treatment cell mean ± SE over plots',
     },
@@ -93,7 +93,7 @@ export async function runResultsExport(ds: DataSource, req: ExportRequest, hooks
   const methods = [
     'Fluxes: ideal gas law on the initial slope of dry CO2 mole fraction after the settle time (linear, exponential after Kutzbach et al. 2007, or quadratic after Wagner et al. 1997; AIC with guards); the lab reviews each closure.',
     `Aggregation: ${String(provenance.parameters['aggregation'])}; closures: ${req.selection}. Block is a factor in an additive cell + block model per stratum.`,
-    'Temperature response per treatment cell on visit means: Q10 and Lloyd & Taylor (1994) with T0 = 227.13 K fixed; 95 % CIs from the t distribution.',
+    'Temperature response per treatment cell on plot × campaign × round means (the experimental unit): Q10 and Lloyd & Taylor (1994) with T0 = 227.13 K fixed, on the flux scale and on the log scale; 95 % CIs from t(n − 2) with n = units.',
     `Seasonal totals (${seasonal.fromDay} to ${seasonal.toDay}, ${req.model}): ${SEASONAL_METHOD}`,
   ];
   const cov = coverage(await ds.query(`SELECT min(latitude) s, max(latitude) n, min(longitude) w, max(longitude) e FROM collar WHERE site_id = $1 AND NOT deleted`, [site.id]),

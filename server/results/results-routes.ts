@@ -19,11 +19,9 @@ const base = z.object({
   closures: z.enum(['accepted', 'not-rejected']).default('accepted'),
 });
 const seasonalQuery = base.extend({
-  model: z.enum(['lloyd-taylor', 'q10']).default('lloyd-taylor'),
+  model: z.enum(['lloyd-taylor', 'q10', 'lloyd-taylor-log', 'q10-log']).default('lloyd-taylor'),
   from: day.optional(),
   to: day.optional(),
-  resamples: z.coerce.number().int().min(100).max(20000).default(2000),
-  seed: z.coerce.number().int().min(0).max(2 ** 31).default(20260101),
 });
 const idParams = z.object({ id: z.string().uuid('Export ids are UUIDs') });
 
@@ -45,7 +43,7 @@ export function registerResultsRoutes(r: RouteRegistry, ds: DataSource): void {
   r.add('post', '/api/results/exports', RESULTS_ROLES, async (req, res) => {
     const q = parse(seasonalQuery, req.body ?? {}, 'Some export settings are not valid');
     await loadSite(ds, q.siteId);
-    const data: ExportRequest = { siteId: q.siteId, selection: q.closures, model: q.model, resamples: q.resamples, seed: q.seed, userId: req.user!.id };
+    const data: ExportRequest = { siteId: q.siteId, selection: q.closures, model: q.model, userId: req.user!.id };
     const jobId = await ds.transaction((em) => enqueueJob(em, EXPORT_JOB, { ...data }, { siteId: q.siteId, createdBy: req.user!.id }));
     res.status(202);
     return { jobId };

@@ -63,7 +63,7 @@ describe('Bench results export: data package, EML, provenance, re-import', () =>
   beforeAll(async () => {
     t = await startTestApp();
     [lab, crew] = await Promise.all((['lab', 'crew'] as const).map((r) => signIn(t.app, demoEmail(r))));
-    const asked = await lab.post('/api/results/exports', { siteId: DEMO_SITE_ID, closures: 'not-rejected', resamples: 500, seed: 3 });
+    const asked = await lab.post('/api/results/exports', { siteId: DEMO_SITE_ID, closures: 'not-rejected' });
     expect(asked.status).toBe(202);
     const jobId = asked.body.jobId;
     // The request is a job in the outbox; run it as a worker would, with the data it stored and its progress reports.
@@ -143,7 +143,12 @@ describe('Bench results export: data package, EML, provenance, re-import', () =>
   it('when the provenance is read, then it names the engine version, the parameters, who and when', () => {
     const p = JSON.parse(files.get('provenance.json')!.toString('utf8'));
     expect(p).toMatchObject({ engineVersion: '1.0.0', generatedBy: { email: demoEmail('lab') },
-      parameters: { closureSelection: 'not-rejected', bootstrapResamples: 500, bootstrapSeed: 3, lloydTaylorT0K: 227.13 } });
+      parameters: { closureSelection: 'not-rejected', lloydTaylorT0K: 227.13 } });
+    // The interval over plot totals says what it includes and leaves out, in the provenance, the EML methods and the totals table's description.
+    expect(p.parameters.totalInterval).toContain('Student t interval over the plots');
+    expect(files.get('metadata.eml.xml')!.toString('utf8')).toContain('leaves out the uncertainty of the response parameters and of the gap filling');
+    const totals = pkg.resources.find((r: { name: string }) => r.name === 'seasonal_totals');
+    expect(totals.description).toContain('leaves out the uncertainty of the response parameters and of the gap filling');
     expect(Date.now() - Date.parse(p.generatedAt)).toBeLessThan(10 * 60_000);
     expect(pkg['fluxwalk:provenance']).toEqual(p);
   });
