@@ -52,7 +52,9 @@ describe('Bench results: aggregation, responses and seasonal totals on the seede
     const utr = res.body.cellMeans.find((m: any) => m.campaignId === april && m.cellKey === 'CTL|UTR');
     expect(trn.meanUmolM2S).toBeLessThan(utr.meanUmolM2S);
     const stratum = res.body.blockStrata.find((s: any) => s.campaignId === april && s.stratum === 'collar-level within CTL');
-    expect(stratum).toMatchObject({ cellKeys: ['CTL|TRN', 'CTL|UTR'], blockCodes: ['B1', 'B2', 'B3', 'B4'], dfResidual: 3 });
+    // A split plot: trenched and untrenched collars share each plot, so the plot (not the block) pairs them.
+    const ctlPlots = [...new Set(res.body.plotMeans.filter((m: any) => m.campaignId === april && m.cellKey === 'CTL|TRN').map((m: any) => m.plotCode))].sort();
+    expect(stratum).toMatchObject({ factor: 'plot', cellKeys: ['CTL|TRN', 'CTL|UTR'], blockCodes: ctlPlots, dfResidual: 3 });
     expect(trn.seBlockUmolM2S).toBeCloseTo(Math.sqrt(stratum.msResidual / 4), 12);
   });
 

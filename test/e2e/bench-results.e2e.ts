@@ -59,13 +59,15 @@ describe('Bench results in Chromium', () => {
       expect(await page.getByTestId('response-table').locator('tbody tr').count()).toBe(r.responses.length);
       await noSeriousProblems(page, 'Results: temperature response');
 
-      // Seasonal totals: cumulative lines and the totals with their bootstrap interval.
+      // Seasonal totals: cumulative lines and the totals with their t interval over plots (the default period has a value for every plot-day).
       const seas = page.waitForResponse((x) => x.url().includes('/api/results/seasonal') && x.status() === 200);
       await page.getByRole('tab', { name: 'Seasonal totals' }).click();
       const st = await (await seas).json();
       await page.getByTestId('seasonal-chart').waitFor();
       expect(await page.getByTestId('seasonal-chart').locator('path').count()).toBe(st.totals.length);
       const firstTotal = st.totals[0];
+      expect(firstTotal.status).toBe('complete');
+      await page.getByTestId('interval-note').waitFor();
       await page.getByTestId('seasonal-table').getByText(Math.round(firstTotal.totalGCM2).toLocaleString('en-US'), { exact: true }).first().waitFor();
       await noSeriousProblems(page, 'Results: seasonal totals');
 

@@ -2,7 +2,7 @@ import { ChangeDetectionStrategy, Component, effect, inject, input, signal } fro
 import { serverMessage } from '../../../core/api/api-error';
 import { ExportPanel } from './export-panel';
 import { ResponseChart } from './response-chart';
-import { ResultsApi, type ClosureSelection, type Responses, type Seasonal, type Summary } from './results-api';
+import { ResultsApi, type ClosureSelection, type ResponseModel, type Responses, type Seasonal, type Summary } from './results-api';
 import { SeasonalChart } from './seasonal-chart';
 import { SummaryTable } from './summary-table';
 
@@ -22,7 +22,7 @@ export class BenchResults {
   readonly siteId = input.required<string>();
   protected readonly tab = signal<Tab>('summary');
   protected readonly selection = signal<ClosureSelection>('accepted');
-  protected readonly model = signal<'lloyd-taylor' | 'q10'>('lloyd-taylor');
+  protected readonly model = signal<ResponseModel>('lloyd-taylor');
   protected readonly summary = signal<Summary | null>(null);
   protected readonly responses = signal<Responses | null>(null);
   protected readonly seasonal = signal<Seasonal | null>(null);

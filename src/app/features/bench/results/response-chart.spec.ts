@@ -14,18 +14,19 @@ async function render() {
 }
 
 describe('ResponseChart', () => {
-  it('when both fits succeed, then Q10, R10 and E0 are shown with their 95 % CI and the published E0 beside the fitted one', async () => {
+  it('when both fits succeed, then Q10, R10 and E0 are shown with their 95 % CI, the log-scale fits, units and plots, and the E0 warning', async () => {
     const { rows } = await render();
-    expect(rows()[0]).toEqual(['CTRL', '3', '2.71 (2.20–3.30)', '2.02 (1.80–2.25)', '315 (250–381; published 308.56)', '2.05 (1.81–2.31)',
-      'Only 3 visit means: the interval is wide.']);
+    expect(rows()[0]).toEqual(['CTRL', '3 (2)', '2.71 (2.20–3.30)', '2.02 (1.80–2.25)', '515 (450–581; published 308.56)', '2.05 (1.81–2.31)',
+      '2.65 (2.10–3.20) ; not fitted',
+      'only 2 plots (independent units; fewer than 3). Lloyd & Taylor: E0 = 515 K is outside 30–450 K (Reichstein et al. 2005).']);
   });
 
   it('when a treatment cannot be fitted, then the engine\'s reason is shown instead of numbers', async () => {
     const { rows } = await render();
-    expect(rows()[1]).toEqual(['TRENCH (collar)', '1', 'not fitted', 'not fitted', 'Fewer than 4 visit means with a soil temperature']);
+    expect(rows()[1]).toEqual(['TRENCH (collar)', '1 (1)', 'not fitted', 'not fitted', 'not fitted ; not fitted', 'fewer than 5 points (1)']);
   });
 
-  it('when the chart draws, then every visit mean is a point coloured from dry (sand) to wet (blue), with both curves', async () => {
+  it('when the chart draws, then every plot-round mean is a point coloured from dry (sand) to wet (blue), with both curves', async () => {
     const { el } = await render();
     const points = Array.from(el.querySelectorAll('[data-testid="response-chart"] circle'));
     expect(points.map((c) => c.getAttribute('fill'))).toEqual(['rgb(214, 170, 96)', 'rgb(119, 121, 128)', 'rgb(24, 72, 160)']);

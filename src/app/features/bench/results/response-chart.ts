@@ -1,6 +1,6 @@
 import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, input, signal } from '@angular/core';
-import type { Responses } from './results-api';
+import type { CellResponse, Responses } from './results-api';
 import { linearScale, moistureColour } from './svg-scale';
 
 const W = 560, H = 300, L = 48, R = 12, T = 12, B = 36;
@@ -42,4 +42,9 @@ export class ResponseChart {
     };
   });
   protected choose(key: string): void { this.chosen.set(key); }
+  /** Lloyd & Taylor warnings the Q10 column does not already show (e.g. E0 outside its plausible range). */
+  protected lloydTaylorOnly(r: CellResponse): string[] {
+    const q = r.q10.ok ? r.q10.warnings : [];
+    return r.lloydTaylor.ok ? r.lloydTaylor.warnings.filter((w) => !q.includes(w)) : [];
+  }
 }

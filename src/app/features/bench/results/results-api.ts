@@ -16,18 +16,29 @@ export interface Summary {
   blockStrata: { campaignId: string; stratum: string; blockEffects: { blockCode: string; effectUmolM2S: number }[] }[];
   counts: { closures: number; visits: number; collars: number; plots: number };
 }
+export interface LogFit { ok: true; n: number; nLeftOut: number; tempSpanC: number; rmseLog: number; r10: Estimate; q10: Estimate | null; e0K: Estimate | null; warnings: string[] }
+/** One experimental unit: a plot's visits in one campaign round. */
+export interface ResponsePoint { plotId: string; campaignId: string; round: number; nVisits: number; tempC: number; fluxUmolM2S: number; vwcPct: number | null }
 export interface CellResponse {
-  cellKey: string; label: string; points: { tempC: number; fluxUmolM2S: number; vwcPct: number | null }[];
+  cellKey: string; label: string; nPlots: number; points: ResponsePoint[];
   q10: Fit<{ q10: Estimate }>; lloydTaylor: Fit<{ e0K: Estimate; publishedE0K: number }>;
-  curve: { tempC: number; q10: number | null; lloydTaylor: number | null }[];
+  q10Log: LogFit | { ok: false; reason: string }; lloydTaylorLog: LogFit | { ok: false; reason: string };
+  curve: { tempC: number; q10: number | null; lloydTaylor: number | null; q10Log: number | null; lloydTaylorLog: number | null }[];
 }
 export interface Responses { tempDepthCm: number; responses: CellResponse[] }
-export interface CellTotal {
-  cellKey: string; label: string; nPlots: number; totalGCM2: number | null; ciLowGCM2: number | null; ciHighGCM2: number | null;
-  plots: { plotCode: string; totalGCM2: number; days: { logged: number; interpolated: number; missing: number } }[];
-  cumulative: { day: string; gCM2: number }[];
+export interface DayCounts { logged: number; interpolated: number; missing: number; outsideRange: number }
+export interface PlotTotal {
+  plotCode: string; status: 'complete' | 'incomplete' | 'too little signal'; totalGCM2: number | null; days: DayCounts;
+  logDepthCm: number | null; responseDepthCm: number; depthDiffers: boolean; daytimeVisitsOnly: boolean; flags: string[];
 }
-export interface Seasonal { fromDay: string; toDay: string; model: string; method: string; resamples: number; totals: CellTotal[] }
+export interface CellTotal {
+  cellKey: string; label: string; status: 'complete' | 'partial' | 'incomplete' | 'too little signal'; nPlots: number; nPlotsTotalled: number;
+  totalGCM2: number | null; ciLowGCM2: number | null; ciHighGCM2: number | null; days: DayCounts; shareOutsideRange: number;
+  fittedRangeC: { minTempC: number; maxTempC: number } | null; completePeriod: { fromDay: string; toDay: string } | null;
+  flags: string[]; plots: PlotTotal[]; cumulative: { day: string; gCM2: number }[];
+}
+export type ResponseModel = 'lloyd-taylor' | 'q10' | 'lloyd-taylor-log' | 'q10-log';
+export interface Seasonal { fromDay: string; toDay: string; model: ResponseModel; method: string; interval: string; totals: CellTotal[] }
 export interface ExportJob { id: string; state: 'queued' | 'active' | 'completed' | 'failed'; done: number; total: number | null; error: string | null; result: { fileName: string; sizeBytes: number } | null }
 
 /** The results routes of the Bench (lab and admin). */
