@@ -105,7 +105,7 @@ export const TABLES: TableDef[] = [
       str('campaign_name', 'Campaign name'), int('n_plots', 'Plots (the replicates)'), int('n_collars', 'Collars'), int('n_visits', 'Visits'),
       int('n_closures', 'Closures'), num('mean_flux_umol_m2_s', UNITS.flux, `Mean ${FLUX_NOTE} over plots`),
       num('sd_flux_umol_m2_s', UNITS.flux, 'Standard deviation over plots'), num('se_flux_umol_m2_s', UNITS.flux, 'Standard error over plots'),
-      num('se_block_flux_umol_m2_s', UNITS.flux, 'Standard error from the additive cell + block model'),
+      num('se_block_flux_umol_m2_s', UNITS.flux, 'SE of the least-squares mean in the additive model: cell + block for plot-level cells, cell + plot for collar-level cells'),
       num('soil_temp_c', UNITS.degC, 'Mean soil temperature'), num('vwc_pct', UNITS.percent, 'Mean volumetric water content'),
     ] },
   { name: 'temperature_responses', title: 'Temperature responses',

@@ -92,7 +92,7 @@ export async function runResultsExport(ds: DataSource, req: ExportRequest, hooks
   };
   const methods = [
     'Fluxes: ideal gas law on the initial slope of dry CO2 mole fraction after the settle time (linear, exponential after Kutzbach et al. 2007, or quadratic after Wagner et al. 1997; AIC with guards); the lab reviews each closure.',
-    `Aggregation: ${String(provenance.parameters['aggregation'])}; closures: ${req.selection}. Block is a factor in an additive cell + block model per stratum.`,
+    `Aggregation: ${String(provenance.parameters['aggregation'])}; closures: ${req.selection}. Least-squares additive models per stratum: plot-level treatments with block as a factor; collar-level treatments (split plot) paired by plot.`,
     'Temperature response per treatment cell on plot × campaign × round means (the experimental unit): Q10 and Lloyd & Taylor (1994) with T0 = 227.13 K fixed, on the flux scale and on the log scale; 95 % CIs from t(n − 2) with n = units.',
     `Seasonal totals (${seasonal.fromDay} to ${seasonal.toDay}, ${req.model}): ${SEASONAL_METHOD}`,
   ];

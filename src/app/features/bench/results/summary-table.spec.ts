@@ -28,6 +28,7 @@ describe('SummaryTable', () => {
     const text = el.querySelector('.counts')!.textContent!.replace(/\s+/g, ' ');
     expect(text).toContain('45 closures · 15 visits · 15 collars · 4 plots.');
     expect(text).toContain('n is the number of plots (the replicates)');
+    expect(text).toContain('collar-level treatments: cell + plot');
   });
 
   it('when no closure is selected yet, then the table says so instead of showing an empty body', async () => {

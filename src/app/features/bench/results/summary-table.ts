@@ -8,7 +8,7 @@ import type { Summary } from './results-api';
   imports: [DecimalPipe],
   template: `
     <p class="counts">{{ data().counts.closures }} closures · {{ data().counts.visits }} visits · {{ data().counts.collars }} collars ·
-      {{ data().counts.plots }} plots. n is the number of plots (the replicates); SE over plots, SE<sub>block</sub> from the cell + block model.</p>
+      {{ data().counts.plots }} plots. n is the number of plots (the replicates); SE over plots; SE<sub>block</sub> from the least-squares cell + block model (collar-level treatments: cell + plot, since their collars share each plot).</p>
     <table data-testid="summary-table">
       <caption>Treatment means (µmol CO₂ m⁻² s⁻¹)</caption>
       <thead><tr><th scope="col">Campaign</th><th scope="col">Treatment</th><th scope="col">Mean</th><th scope="col">± SE</th>
