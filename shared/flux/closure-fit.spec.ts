@@ -173,7 +173,8 @@ describe('fitClosure: QC flags', () => {
     expect(r.selected!.reason).toBe('linear model requested');
     const q = fitClosure(closure({ p3: -0.02, noise: 0.3, seed: 4, model: 'quadratic' }));
     expect(q.selected!.model).toBe('quadratic');
-    expect(q.selected!.slopePpmS).toBe(q.quadratic!.b1);
+    expect(q.selected!.basis).toBe('closure');
+    expect(q.selected!.slopePpmS).toBe(q.quadratic!.slopeAtClosurePpmS);
   });
 
   it('uses p, T and χw of the first sample used when they are series', () => {

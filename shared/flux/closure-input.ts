@@ -3,6 +3,15 @@ import type { QcFlag } from './qc-flags';
 
 export type ClosureModel = 'linear' | 'exponential' | 'quadratic';
 
+/**
+ * Where the selected flux takes the slope of a curved model: at chamber closure (t = 0, the
+ * undisturbed flux; Kutzbach et al. 2007, Wagner et al. 1997) or at the end of the settle time
+ * (t0, the start of the fit window). The fit itself always uses only the samples after t0.
+ */
+export type SlopeBasis = 'closure' | 'settle_end';
+export const SLOPE_BASES: readonly SlopeBasis[] = ['closure', 'settle_end'];
+export const DEFAULT_SLOPE_BASIS: SlopeBasis = 'closure';
+
 export interface ClosureInput {
   /** Elapsed seconds since the chamber seated, one per sample. */
   tS: readonly (number | null)[];
@@ -24,6 +33,8 @@ export interface ClosureInput {
   /** Analyzer precision for the detection limit, ppm (default 1). */
   precisionPpm?: number;
   model?: 'auto' | ClosureModel;
+  /** Slope basis of the selected flux (default 'closure'). */
+  slopeAt?: SlopeBasis;
   pressureIsDefault?: boolean;
   /** Set when the volume came from an offset set taken after the closure day. */
   offsetAfter?: boolean;
@@ -36,14 +47,22 @@ export interface ModelFit {
   r2: number;
   rmse: number;
   aic: number;
+  /** Gaussian AICc with the error variance counted (model-selection.ts). */
+  aicc: number;
   n: number;
+}
+
+/** A curved model's slope and flux at chamber closure (t = 0, extrapolated back over the settle time). */
+export interface AtClosure {
+  slopeAtClosurePpmS: number;
+  fluxAtClosureUmolM2S: number;
 }
 
 export interface LinearFit extends ModelFit {
   interceptPpm: number;
 }
 
-export interface ExponentialFit extends ModelFit {
+export interface ExponentialFit extends ModelFit, AtClosure {
   p1: number;
   p2: number;
   /** s⁻¹; negative for a saturating closure. */
@@ -53,7 +72,7 @@ export interface ExponentialFit extends ModelFit {
   iterations: number;
 }
 
-export interface QuadraticFit extends ModelFit {
+export interface QuadraticFit extends ModelFit, AtClosure {
   b0: number;
   b1: number;
   b2: number;
@@ -61,6 +80,8 @@ export interface QuadraticFit extends ModelFit {
 
 export interface SelectedModel {
   model: ClosureModel;
+  /** The slope basis the slope and flux below refer to. */
+  basis: SlopeBasis;
   slopePpmS: number;
   fluxUmolM2S: number;
   reason: string;

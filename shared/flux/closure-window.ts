@@ -58,6 +58,9 @@ export function checkInput(input: ClosureInput): string | null {
   if (!Array.isArray(input.tempC) && !(isNum(input.tempC) && input.tempC > -273.15)) return 'missing temperature';
   if (!(isNum(input.volumeCm3) && input.volumeCm3 > 0)) return 'missing volume';
   if (!(isNum(input.areaCm2) && input.areaCm2 > 0)) return 'missing area';
+  if (input.slopeAt != null && input.slopeAt !== 'closure' && input.slopeAt !== 'settle_end') {
+    return `unknown slope basis ${JSON.stringify(input.slopeAt)} (use "closure" or "settle_end")`;
+  }
   return null;
 }
 

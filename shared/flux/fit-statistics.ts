@@ -1,7 +1,11 @@
+import { aiccOf } from './model-selection';
+
 /**
  * Goodness-of-fit numbers shared by every closure model, so the models stay comparable:
  *   R² = 1 − RSS/TSS, RMSE = √(RSS/n), AIC = n·ln(RSS/n) + 2k (least-squares form, Akaike 1974,
- *   IEEE Trans. Autom. Control 19:716–723).
+ *   IEEE Trans. Autom. Control 19:716–723, k = regression parameters), and AICc (Hurvich & Tsai
+ *   1989, Biometrika 76; Gaussian form with the error variance counted, see model-selection.ts),
+ *   the value the model choice uses.
  * RSS is floored at 1e−12·n for the AIC only: a noise-free series would otherwise give −∞ and
  * make every comparison meaningless.
  */
@@ -9,6 +13,7 @@ export interface FitStatistics {
   r2: number;
   rmse: number;
   aic: number;
+  aicc: number;
   n: number;
 }
 
@@ -21,6 +26,7 @@ export function fitStatistics(rss: number, tss: number, n: number, k: number): F
     r2: tss > RSS_FLOOR_PER_POINT * n ? 1 - rss / tss : NaN,
     rmse: Math.sqrt(rss / n),
     aic: n * Math.log(floored / n) + 2 * k,
+    aicc: aiccOf(rss, n, k),
     n,
   };
 }

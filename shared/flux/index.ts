@@ -1,9 +1,11 @@
 /** Public API of the flux engine (pure TypeScript: devices, server and batch CLI share it). */
-export const engineVersion = '1.0.0';
+export const engineVersion = '1.1.0';
 
 export { fitClosure } from './closure-fit';
 export { fitLinearRaw, type LinearRaw } from './linear-fit';
+export { DEFAULT_SLOPE_BASIS, SLOPE_BASES, type SlopeBasis } from './closure-input';
 export type {
+  AtClosure,
   ClosureFitResult,
   ClosureInput,
   ClosureModel,
@@ -13,6 +15,7 @@ export type {
   QuadraticFit,
   SelectedModel,
 } from './closure-input';
+export { aiccOf, SELECTION_MARGIN } from './model-selection';
 export { QC_FLAGS, QC_THRESHOLDS, type QcFlag } from './qc-flags';
 export { chamberFluxUmolM2S, fluxPerSlope } from './chamber-flux';
 export { dryMoleFractionPpm, waterMoleFraction } from './dry-mole-fraction';

@@ -15,9 +15,11 @@ export const QC_FLAGS = {
   'gaps-dropped': 'Samples after the settle time with missing or non-numeric values were dropped.',
   'no-water-data': 'No water-vapour data: CO2 was fitted as reported (no dilution correction) and χw = 0 in the flux.',
   'exp-rejected':
-    'The exponential model could not be used: too few points, no convergence, optimum of p3·τmax not inside (−40, 10), or not saturating (p3 ≥ 0). See `exponentialRejectedReason`.',
+    'The exponential model could not be fitted (too few points, no convergence, optimum of p3·τmax not inside (−40, 10)) on a closure above the detection limit, or the closure rises convexly (p3 > 0) by more than the AICc margin. A straight closure whose noise gives p3 ≥ 0 is not flagged. See `exponentialRejectedReason`.',
   'exp-linear-ratio-high':
-    'Exponential initial slope / linear slope > 1.5 (rule of thumb: a leak or a disturbance at closure).',
+    'The exponential was chosen and its slope at the start of the fit window is more than 4 × the linear slope on the same window (|p3·τmax| ≳ 3.4: the window spans over three time constants, so almost all of the initial rise happened before most samples; rule of thumb: a leak or a disturbance at closure). A noise-free p3 = −0.01 s⁻¹ closure of 130 s has 1.8, p3 = −0.02 s⁻¹ has 3.1.',
+  'footprint-area-differs':
+    'The chamber profile’s footprint area differs from the collar’s own inside area by more than 0.5 %: the flux uses the collar’s area; check which is right.',
   'start-above-ambient':
     'First CO2 value more than the ambient margin (default 100 ppm) above ambient (common practice: breath near the inlet or a chamber not aired between closures).',
   'low-r2': 'R² of the selected model below 0.9 (common-practice threshold). Information only: near-zero fluxes have low R² and are valid.',
@@ -40,7 +42,9 @@ export const QC_THRESHOLDS = {
   minPointsExponential: 4,
   minPointsLinear: 3,
   shortWindowS: 60,
-  expLinearRatioHigh: 1.5,
+  expLinearRatioHigh: 4,
+  /** Relative difference between footprint and collar area that raises footprint-area-differs. */
+  areaMismatchRelative: 0.005,
   lowR2: 0.9,
   defaultAmbientMarginPpm: 100,
   defaultPrecisionPpm: 1,

@@ -1,10 +1,16 @@
 /**
  * Wire shapes of the batch CLI (snake_case JSON) and their mapping to the flux engine.
- * Beyond the contract, every result carries `min_detectable_flux_umol_m2_s` and the exponential
- * p3; `--full` adds the quadratic fit, all model parameters and the fit window. The lean default
- * matters: writing numbers is a third of a batch's cost.
+ * Beyond the contract, every result carries `min_detectable_flux_umol_m2_s`, each model's `aicc`,
+ * the exponential p3 and the quadratic fit (for its slope at closure); `--full` adds all model
+ * parameters and the fit window. The lean default matters: writing numbers is a third of a
+ * batch's cost.
+ *
+ * Slope basis: a run may carry `"slope_at": "closure" | "settle_end"` (default "closure").
+ * `slope_ppm_s`/`flux_umol_m2_s` of each model are at the start of the fit window (t0);
+ * curved models add `slope_at_closure_ppm_s`/`flux_at_closure_umol_m2_s` (t = 0); `selected`
+ * names its `basis` and its flux follows it.
  */
-import { fitClosure, type ClosureFitResult, type ClosureInput, type ModelFit } from '../../shared/flux/index';
+import { fitClosure, type AtClosure, type ClosureFitResult, type ClosureInput, type ModelFit } from '../../shared/flux/index';
 
 export interface WireModel {
   slope_ppm_s: number;
@@ -12,6 +18,7 @@ export interface WireModel {
   r2: number;
   rmse: number;
   aic: number;
+  aicc: number;
   n: number;
   [extra: string]: number | null;
 }
@@ -22,7 +29,7 @@ export interface WireResult {
   exponential: WireModel | null;
   quadratic?: WireModel | null;
   exponential_rejected_reason: string | null;
-  selected: { model: string; flux_umol_m2_s: number; slope_ppm_s: number; reason: string } | null;
+  selected: { model: string; basis: string; flux_umol_m2_s: number; slope_ppm_s: number; reason: string } | null;
   flags: string[];
   error: string | null;
   window?: { t0_s: number; first_t_s: number; last_t_s: number; n: number } | null;
@@ -50,6 +57,7 @@ export function runToInput(run: Run): ClosureInput {
     ambientMarginPpm: optionalNumber(run.ambient_margin_ppm),
     precisionPpm: optionalNumber(run.precision_ppm),
     model: model === 'linear' || model === 'exponential' || model === 'quadratic' || model === 'auto' ? model : undefined,
+    slopeAt: run.slope_at == null ? undefined : (run.slope_at as ClosureInput['slopeAt']),
     pressureIsDefault: run.pressure_is_default === true,
     offsetAfter: run.offset_after === true,
   };
@@ -57,18 +65,23 @@ export function runToInput(run: Run): ClosureInput {
 
 function wireModel(m: ModelFit | null, extra: Record<string, number>): WireModel | null {
   if (!m) return null;
-  return { slope_ppm_s: m.slopePpmS, flux_umol_m2_s: m.fluxUmolM2S, r2: m.r2, rmse: m.rmse, aic: m.aic, n: m.n, ...extra };
+  return { slope_ppm_s: m.slopePpmS, flux_umol_m2_s: m.fluxUmolM2S, r2: m.r2, rmse: m.rmse, aic: m.aic, aicc: m.aicc, n: m.n, ...extra };
 }
+
+const atClosure = (m: AtClosure) => ({ slope_at_closure_ppm_s: m.slopeAtClosurePpmS, flux_at_closure_umol_m2_s: m.fluxAtClosureUmolM2S });
 
 export function resultToWire(id: unknown, r: ClosureFitResult, full = false): WireResult {
   const e = r.exponential;
+  const q = r.quadratic;
   const out: WireResult = {
     id,
     linear: wireModel(r.linear, full && r.linear ? { intercept_ppm: r.linear.interceptPpm } : {}),
-    exponential: wireModel(e, e ? (full ? { p1: e.p1, p2: e.p2, p3: e.p3, p3_tau_max: e.p3TauMax } : { p3: e.p3 }) : {}),
+    exponential: wireModel(e, e ? { ...atClosure(e), ...(full ? { p1: e.p1, p2: e.p2, p3: e.p3, p3_tau_max: e.p3TauMax } : { p3: e.p3 }) } : {}),
+    quadratic: wireModel(q, q ? { ...atClosure(q), ...(full ? { b0: q.b0, b1: q.b1, b2: q.b2 } : {}) } : {}),
     exponential_rejected_reason: r.exponentialRejectedReason,
     selected: r.selected && {
       model: r.selected.model,
+      basis: r.selected.basis,
       flux_umol_m2_s: r.selected.fluxUmolM2S,
       slope_ppm_s: r.selected.slopePpmS,
       reason: r.selected.reason,
@@ -78,8 +91,6 @@ export function resultToWire(id: unknown, r: ClosureFitResult, full = false): Wi
     min_detectable_flux_umol_m2_s: r.minDetectableFluxUmolM2S,
   };
   if (full) {
-    const q = r.quadratic;
-    out.quadratic = wireModel(q, q ? { b0: q.b0, b1: q.b1, b2: q.b2 } : {});
     out.window = r.window && { t0_s: r.window.t0S, first_t_s: r.window.firstTS, last_t_s: r.window.lastTS, n: r.window.n };
   }
   return out;

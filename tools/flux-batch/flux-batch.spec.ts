@@ -73,14 +73,34 @@ describe('flux:batch CLI', () => {
     expect(nd.stdout.trim().split('\n')).toHaveLength(1);
   }, 60000);
 
-  it('adds the quadratic fit and the window with --full, and states the engine version', () => {
+  it('carries the slope basis: exponential and quadratic slopes at closure, selected.basis following "slope_at" (Kutzbach et al. 2007)', () => {
+    // C(t) = 400 + 60·(1 − e^(−0.01 t)): slope 0.6 ppm/s at closure, 0.6·e^(−0.2) at the end of a 20 s settle time.
+    const curved = { ...goodRun, h2o_mmol_mol: 0, t_s: Array.from({ length: 151 }, (_, i) => i) };
+    curved.co2_ppm = curved.t_s.map((t) => 400 + 60 * (1 - Math.exp(-0.01 * t)));
+    const byDefault = processRun(curved);
+    expect(byDefault.exponential!.slope_at_closure_ppm_s).toBeCloseTo(0.6, 6);
+    expect(byDefault.exponential!.slope_ppm_s).toBeCloseTo(0.6 * Math.exp(-0.2), 6);
+    expect(typeof byDefault.exponential!.flux_at_closure_umol_m2_s).toBe('number');
+    expect(typeof byDefault.quadratic!.slope_at_closure_ppm_s).toBe('number');
+    expect(byDefault.selected!.basis).toBe('closure');
+    expect(byDefault.selected!.flux_umol_m2_s).toBe(byDefault.exponential!.flux_at_closure_umol_m2_s);
+    const settle = processRun({ ...curved, slope_at: 'settle_end' });
+    expect(settle.selected!.basis).toBe('settle_end');
+    expect(settle.selected!.flux_umol_m2_s).toBe(settle.exponential!.flux_umol_m2_s);
+    const bad = processRun({ ...curved, slope_at: 'middle' });
+    expect(bad.flags).toEqual(['invalid-input']);
+    expect(bad.error).toMatch(/slope basis "middle"/);
+  });
+
+  it('adds the model parameters and the window with --full, and states the engine version', () => {
     const out = run(JSON.stringify({ runs: [goodRun] }), ['--full']);
     const doc = JSON.parse(out.stdout);
     expect(doc.engine_version).toMatch(/^\d+\.\d+\.\d+$/);
     expect(doc.results[0].quadratic.slope_ppm_s).toBeCloseTo(1, 8);
     expect(doc.results[0].window).toEqual({ t0_s: 20, first_t_s: 20, last_t_s: 89, n: 70 });
     const lean = JSON.parse(run(JSON.stringify({ runs: [goodRun] })).stdout).results[0];
-    expect(lean.quadratic).toBeUndefined();
+    expect(lean.quadratic.b1).toBeUndefined();
+    expect(lean.quadratic.slope_at_closure_ppm_s).toBeCloseTo(1, 8);
   }, 60000);
 
   it('exits 2 when the document is not {"runs": [...]}', () => {
