@@ -1,5 +1,5 @@
 import type { EntityManager } from 'typeorm';
-import type { ChamberProfileVersion, OffsetSetRecord } from '../../shared/flux';
+import type { ChamberProfileVersion, OffsetSetRecord, SlopeBasis } from '../../shared/flux';
 
 type Db = Pick<EntityManager, 'query'>;
 
@@ -21,6 +21,7 @@ export interface ClosureContext {
   timezone: string;
   elevationM: number | null;
   ambientMarginPpm: number;
+  slopeBasis: SlopeBasis;
   areaCm2: number | null;
   profiles: (ChamberProfileVersion & { id: string })[];
   offsetSets: (OffsetSetRecord & { id: string; takenAt: string })[];
@@ -34,6 +35,7 @@ interface SiteInputs {
   timezone: string;
   elevationM: number | null;
   ambientMarginPpm: number;
+  slopeBasis: SlopeBasis;
   profiles: { id: string; validFrom: string; chamberVolumeCm3: number; loopVolumeCm3: number; footprintAreaCm2: number | null }[];
   /** The day's ambient reading (latest of the local day), by local day. */
   ambientByDay: Map<string, number>;
@@ -73,10 +75,12 @@ export class ClosureInputs {
     const timezone = site?.timezone ?? 'UTC';
     const areaCm2 = collar?.areaCm2 ?? null;
     return {
-      timezone, elevationM: site?.elevationM ?? null, ambientMarginPpm: site?.ambientMarginPpm ?? 100, areaCm2,
+      timezone, elevationM: site?.elevationM ?? null, ambientMarginPpm: site?.ambientMarginPpm ?? 100,
+      slopeBasis: site?.slopeBasis ?? 'closure', areaCm2,
       profiles: (site?.profiles ?? []).map((p) => ({
         id: p.id, validFrom: p.validFrom, chamberVolumeCm3: p.chamberVolumeCm3, loopVolumeCm3: p.loopVolumeCm3,
-        areaCm2: p.footprintAreaCm2 ?? areaCm2 ?? NaN,
+        // A is the collar's own inside area; the footprint only stands in for a collar without one.
+        areaCm2: areaCm2 ?? p.footprintAreaCm2 ?? NaN, footprintAreaCm2: p.footprintAreaCm2,
       })),
       offsetSets: collar?.offsetSets ?? [],
       precisionPpm: analyzer?.precisionPpm ?? null, rangeMinPpm: analyzer?.rangeMinPpm ?? null, rangeMaxPpm: analyzer?.rangeMaxPpm ?? null,
@@ -85,7 +89,7 @@ export class ClosureInputs {
   }
 
   private async loadSite(siteId: string): Promise<void> {
-    const [s] = await this.db.query(`SELECT timezone, elevation_m, ambient_margin_ppm FROM site WHERE id = $1`, [siteId]);
+    const [s] = await this.db.query(`SELECT timezone, elevation_m, ambient_margin_ppm, slope_basis FROM site WHERE id = $1`, [siteId]);
     const profiles = await this.db.query(
       `SELECT id, to_char(valid_from, 'YYYY-MM-DD') AS valid_from, chamber_volume_cm3, loop_volume_cm3, footprint_area_cm2
          FROM chamber_profile WHERE site_id = $1 AND NOT deleted`, [siteId]);
@@ -96,6 +100,7 @@ export class ClosureInputs {
         ORDER BY day, at DESC`, [siteId, timezone]);
     this.sites.set(siteId, {
       timezone, elevationM: s?.elevation_m ?? null, ambientMarginPpm: s?.ambient_margin_ppm ?? 100,
+      slopeBasis: s?.slope_basis === 'settle_end' ? 'settle_end' : 'closure',
       profiles: profiles.map((p: Record<string, unknown>) => ({
         id: p['id'] as string, validFrom: p['valid_from'] as string, chamberVolumeCm3: p['chamber_volume_cm3'] as number,
         loopVolumeCm3: p['loop_volume_cm3'] as number, footprintAreaCm2: (p['footprint_area_cm2'] as number | null) ?? null,

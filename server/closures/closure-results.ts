@@ -34,7 +34,8 @@ export function resultsFor(c: Record<string, unknown>, ctx: ClosureContext): Clo
     if (!series.tempC?.some((v) => typeof v === 'number')) return failed('no chamber air temperature in the series');
     return fitClosure({
       tS: series.tS, co2Ppm: series.co2Ppm, h2oMmolMol: series.h2oMmolMol ?? null, pressureKpa, tempC: series.tempC,
-      volumeCm3: volume.value.volumeCm3, areaCm2: volume.value.areaCm2, settleS, windowEndS, model,
+      volumeCm3: volume.value.volumeCm3, areaCm2: volume.value.areaCm2, footprintAreaCm2: volume.value.footprintAreaCm2,
+      settleS, windowEndS, model, slopeAt: ctx.slopeBasis,
       ambientPpm: ctx.ambientPpm, ambientMarginPpm: ctx.ambientMarginPpm, precisionPpm: ctx.precisionPpm ?? undefined,
       pressureIsDefault: defaultPressure, offsetAfter: volume.value.flags.includes('offset-after'),
     });
@@ -53,7 +54,7 @@ export function resultsFor(c: Record<string, unknown>, ctx: ClosureContext): Clo
       volumeCm3: v?.volumeCm3 ?? null, areaCm2: v?.areaCm2 ?? null, meanOffsetCm: v?.meanOffsetCm ?? null,
       offsetSetId: v ? (v.offsetSet as { id?: string }).id ?? null : null,
       profileId: v ? (v.profile as { id?: string }).id ?? null : null,
-      ambientPpm: ctx.ambientPpm, pressureIsDefault: defaultPressure,
+      ambientPpm: ctx.ambientPpm, pressureIsDefault: defaultPressure, slopeBasis: ctx.slopeBasis,
       raw: finite(raw), review: review ? finite(review) : null,
     },
     flags: shown.flags,

@@ -8,8 +8,10 @@ import { localDay } from './closure-inputs';
 
 export const RECOMPUTE_JOB = 'closure-recompute';
 
-/** Site fields a closure's flux depends on (time zone → local day, elevation → default pressure, ambient margin → flag). */
-const SITE_INPUTS = ['timezone', 'elevationM', 'ambientMarginPpm', 'defaultProfileId'];
+/** Site fields a closure's flux depends on (time zone → local day, elevation → default pressure, ambient margin → flag, slope basis → flux). */
+const SITE_INPUTS = ['timezone', 'elevationM', 'ambientMarginPpm', 'defaultProfileId', 'slopeBasis'];
+/** Collar fields that enter its inside area. */
+const COLLAR_INPUTS = ['shape', 'diameterCm', 'sideACm', 'sideBCm', 'areaCm2'];
 /** Profile fields that enter the volume or the day it applies from. */
 const PROFILE_INPUTS = ['validFrom', 'chamberVolumeCm3', 'loopVolumeCm3', 'footprintAreaCm2', 'deleted'];
 
@@ -31,6 +33,9 @@ export async function recomputeScopeFor(w: WrittenRecord): Promise<RecomputeScop
       const days = [a['validFrom'], w.before?.['validFrom']].filter((d): d is string => typeof d === 'string').sort();
       return { siteId, fromDay: days[0] ?? null, reason: w.action === 'create' ? 'chamber profile version added' : 'chamber profile changed' };
     }
+    case 'collar':
+      // A is the collar's own inside area: a corrected diameter or side moves its closures' fluxes.
+      return w.action === 'update' && changedAny(COLLAR_INPUTS) ? { siteId, collarId: w.id, reason: 'collar area changed' } : null;
     case 'site':
       return w.action === 'update' && changedAny(SITE_INPUTS) ? { siteId: w.id, reason: 'site defaults changed' } : null;
     case 'analyzerCheck': {

@@ -26,6 +26,8 @@ export class SiteEntity extends SyncedColumns {
   @Column({ type: 'double precision', name: 'offset_move_cm' }) offsetMoveCm!: number;
   @Column({ type: 'double precision', name: 'leak_slope_umol_mol_s' }) leakSlopeUmolMolS!: number;
   @Column({ type: 'double precision', name: 'ambient_margin_ppm' }) ambientMarginPpm!: number;
+  /** 'closure' (slope of curved models at t = 0) or 'settle_end'; see shared/flux closure-input.ts. */
+  @Column({ type: 'text', name: 'slope_basis', default: 'closure' }) slopeBasis!: 'closure' | 'settle_end';
   @Column({ type: 'text', name: 'digest_local_time' }) digestLocalTime!: string;
   @Column({ type: 'text', name: 'tile_url', nullable: true }) tileUrl!: string | null;
   @Column({ type: 'text', name: 'tile_attribution', nullable: true }) tileAttribution!: string | null;

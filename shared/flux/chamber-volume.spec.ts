@@ -34,6 +34,14 @@ describe('chamberVolumeFor (V = chamber + loop + A × mean offset, plain geometr
     expect(r.value.flags).toEqual(['offset-after']);
   });
 
+  it('takes A from the collar (the profile’s footprint is only reported beside it)', () => {
+    const r = chamberVolumeFor('2024-05-10', [{ ...profiles[0], areaCm2: 314.159, footprintAreaCm2: 317.8 }], offsets);
+    if (!r.ok) throw new Error(r.error);
+    expect(r.value.areaCm2).toBe(314.159);
+    expect(r.value.volumeCm3).toBeCloseTo(4000 + 60 + 314.159 * 3.25, 9);
+    expect(r.value.footprintAreaCm2).toBe(317.8);
+  });
+
   it('refuses when no profile is valid yet, or the collar has no offset set', () => {
     expect(chamberVolumeFor('2024-01-01', profiles, offsets)).toEqual({ ok: false, error: 'no chamber profile valid on 2024-01-01' });
     expect(chamberVolumeFor('2024-05-01', profiles, [])).toEqual({ ok: false, error: 'no offset set for this collar' });

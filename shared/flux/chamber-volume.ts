@@ -13,7 +13,10 @@ export interface ChamberProfileVersion {
   validFrom: string;
   chamberVolumeCm3: number;
   loopVolumeCm3: number;
+  /** Soil area A: the collar's own inside area (DESIGN.md), used for the collar headspace and the flux. */
   areaCm2: number;
+  /** The chamber's footprint as the profile states it; only compared with A (footprint-area-differs). */
+  footprintAreaCm2?: number | null;
 }
 
 export interface OffsetSetRecord {
@@ -26,6 +29,8 @@ export interface ChamberVolume {
   volumeCm3: number;
   areaCm2: number;
   meanOffsetCm: number;
+  /** The profile's footprint (null when it states none), for the footprint-area-differs check. */
+  footprintAreaCm2: number | null;
   profile: ChamberProfileVersion;
   offsetSet: OffsetSetRecord;
   flags: 'offset-after'[];
@@ -91,6 +96,7 @@ export function chamberVolumeFor(
       volumeCm3: profile.chamberVolumeCm3 + profile.loopVolumeCm3 + profile.areaCm2 * mean,
       areaCm2: profile.areaCm2,
       meanOffsetCm: mean,
+      footprintAreaCm2: profile.footprintAreaCm2 ?? null,
       profile,
       offsetSet: chosen.set,
       flags: chosen.after ? ['offset-after'] : [],

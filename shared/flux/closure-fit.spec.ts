@@ -162,6 +162,15 @@ describe('fitClosure: QC flags', () => {
     expect(Number.isFinite(r.selected!.fluxUmolM2S)).toBe(true);
   });
 
+  it('uses the collar’s area and flags a chamber footprint that differs by more than 0.5 % (317.8 cm² on a 20 cm collar: 1.2 %)', () => {
+    const collar = Math.PI * 10 * 10; // 314.159 cm², REFERENCES.md §8
+    const r = fitClosure(closure({ areaCm2: collar, footprintAreaCm2: 317.8 }));
+    expect(r.flags).toContain('footprint-area-differs');
+    expect(r.fluxPerSlope! / fitClosure(closure({ areaCm2: 317.8 })).fluxPerSlope!).toBeCloseTo(317.8 / collar, 12);
+    expect(fitClosure(closure({ areaCm2: collar, footprintAreaCm2: 314.2 })).flags).not.toContain('footprint-area-differs');
+    expect(fitClosure(closure({ areaCm2: collar, footprintAreaCm2: null })).flags).not.toContain('footprint-area-differs');
+  });
+
   it('passes offset-after and default-pressure through from the caller', () => {
     const r = fitClosure(closure({ offsetAfter: true, pressureIsDefault: true }));
     expect(r.flags).toEqual(expect.arrayContaining(['offset-after', 'default-pressure']));

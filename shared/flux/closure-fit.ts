@@ -195,6 +195,10 @@ export function fitClosure(input: ClosureInput): ClosureFitResult {
   const selectedFit = selected ? models[selected.model] : null;
   if (selectedFit && selectedFit.r2 < Q.lowR2) flags.push('low-r2');
   if (input.offsetAfter) flags.push('offset-after');
+  const footprint = input.footprintAreaCm2;
+  if (typeof footprint === 'number' && footprint > 0 && Math.abs(footprint / input.areaCm2 - 1) > Q.areaMismatchRelative) {
+    flags.push('footprint-area-differs');
+  }
   if (input.pressureIsDefault) flags.push('default-pressure');
 
   return {

@@ -23,7 +23,10 @@ export interface ClosureInput {
   tempC: number | readonly (number | null)[];
   /** Total system volume: chamber + loop + collar headspace (see chamberVolumeFor). */
   volumeCm3: number;
+  /** Soil area: the collar's own inside area. */
   areaCm2: number;
+  /** The chamber profile's footprint, when stated: flagged when it differs from areaCm2. */
+  footprintAreaCm2?: number | null;
   /** Settle time: t0 of the fit window (common practice ≈ 20 s). */
   settleS: number;
   /** Optional end of the fit window, elapsed seconds. */

@@ -29,6 +29,11 @@ export const siteFields = z.object({
   offsetMoveCm: ranged(0, 30, 'cm', 'Offset move').default(1),
   leakSlopeUmolMolS: ranged(0, 100, 'µmol/mol/s', 'Leak-check slope').default(0.05),
   ambientMarginPpm: ranged(0, 5000, 'µmol/mol', 'Start-above-ambient margin').default(100),
+  /**
+   * Where a curved model's flux takes its slope: at chamber closure (t = 0, the undisturbed flux,
+   * Kutzbach et al. 2007) or at the end of the settle time. Closure unless the site chooses otherwise.
+   */
+  slopeBasis: z.enum(['closure', 'settle_end'], { message: 'Slope basis must be closure or settle_end' }).default('closure'),
   digestLocalTime: z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'Digest time must be HH:MM').default('18:00'),
   tileUrl: z.string().max(500).regex(/^https:\/\/.*\{z\}.*\{x\}.*\{y\}/, 'Tile URL must be https with {z}, {x} and {y}').nullable().default(null),
   tileAttribution: text(500).nullable().default(null),

@@ -49,7 +49,9 @@ export function fluxOnTheSpot(closure: LocalRecord, inp: SpotInputs): SpotResult
       : Number(inp.collar['sideACm']) * Number(inp.collar['sideBCm']);
   const profiles = inp.profiles.map((p) => ({
     validFrom: String(p['validFrom']), chamberVolumeCm3: Number(p['chamberVolumeCm3']), loopVolumeCm3: Number(p['loopVolumeCm3']),
-    areaCm2: typeof p['footprintAreaCm2'] === 'number' ? p['footprintAreaCm2'] : area,
+    // A is the collar's own inside area; the profile's footprint is only compared with it.
+    areaCm2: Number.isFinite(area) ? area : Number(p['footprintAreaCm2']),
+    footprintAreaCm2: typeof p['footprintAreaCm2'] === 'number' ? p['footprintAreaCm2'] : null,
   }));
   const sets: OffsetSetRecord[] = inp.offsetSets.map((s) => ({ takenOn: localDay(String(s['takenAt']), timeZone), offsetsCm: s['readingsCm'] as number[] }));
   const volume = chamberVolumeFor(day, profiles, sets);
@@ -66,7 +68,8 @@ export function fluxOnTheSpot(closure: LocalRecord, inp: SpotInputs): SpotResult
   const fit = fitClosure({
     tS: series.tS, co2Ppm: series.co2Ppm, h2oMmolMol: series.h2oMmolMol ?? null,
     pressureKpa: pressureIsDefault ? (typeof elevation === 'number' ? pressureFromElevationKpa(elevation) : NaN) : series.pressureKpa!,
-    tempC: series.tempC, volumeCm3: volume.value.volumeCm3, areaCm2: volume.value.areaCm2, settleS: Number(closure['settleS']),
+    tempC: series.tempC, volumeCm3: volume.value.volumeCm3, areaCm2: volume.value.areaCm2, footprintAreaCm2: volume.value.footprintAreaCm2,
+    settleS: Number(closure['settleS']), slopeAt: inp.site?.['slopeBasis'] === 'settle_end' ? 'settle_end' : 'closure',
     ambientPpm, ambientMarginPpm: Number(inp.site?.['ambientMarginPpm'] ?? 100),
     precisionPpm: typeof inp.analyzer?.['precisionPpm'] === 'number' ? inp.analyzer['precisionPpm'] : undefined,
     pressureIsDefault, offsetAfter: volume.value.flags.includes('offset-after'),
