@@ -39,7 +39,10 @@ describe('synthetic demo closures', () => {
     for (const seed of [11, 12, 13]) {
       const { result } = fit('normal', flux, seed);
       expect(result.error).toBeNull();
-      expect(result.selected!.fluxUmolM2S).toBeGreaterThan(flux * 0.88);
+      // A line, chosen when the gentle curvature is within the AICc margin of noise, measures the
+      // mean slope over the window: below the slope at closure by up to 1 − e^(−k·(settle + window/2))
+      // ≈ 20 % for the demo's k ≤ 0.004 s⁻¹ (the linear underestimate of Kutzbach et al. 2007).
+      expect(result.selected!.fluxUmolM2S).toBeGreaterThan(flux * (result.selected!.model === 'linear' ? 0.8 : 0.88));
       expect(result.selected!.fluxUmolM2S).toBeLessThan(flux * 1.12);
       expect(result.flags).not.toContain('negative-flux');
       expect(result.flags).not.toContain('spike');

@@ -5,9 +5,9 @@ import type { Rng } from './prng';
  * Synthetic closure series for the demo season. The headspace of a closed chamber fills with a
  * saturating curve: the soil-to-headspace gradient shrinks as CO2 builds up, so the slope
  * decays roughly exponentially (the shape behind Kutzbach et al. 2007, Biogeosciences 4, and
- * Hutchinson & Mosier 1981, SSSAJ 45). The slope at the end of the settle time is made from a
- * chosen flux through the same ideal-gas factor the engine uses, so the engine should give the
- * flux back.
+ * Hutchinson & Mosier 1981, SSSAJ 45). The slope at chamber closure is made from a chosen flux
+ * through the same ideal-gas factor the engine uses, so the engine (on its default closure basis)
+ * should give the flux back.
  */
 
 /** What went right or wrong at the collar; the odd kinds make the engine's QC flags appear. */
@@ -16,7 +16,7 @@ export type ClosureKind = (typeof CLOSURE_KINDS)[number];
 
 export interface SeriesInput {
   kind: ClosureKind;
-  /** The true flux at the end of the settle time, µmol m⁻² s⁻¹ (ignored for `flat`). */
+  /** The true flux at chamber closure, µmol m⁻² s⁻¹ (ignored for `flat`). */
   fluxUmolM2S: number;
   ambientPpm: number;
   pressureKpa: number;
@@ -36,7 +36,7 @@ export interface ClosureSeries {
   h2oMmolMol: number[];
   pressureKpa: number[];
   tempC: number[];
-  /** The dry-CO2 slope at the end of the settle time the series was built with, ppm s⁻¹. */
+  /** The dry-CO2 slope at chamber closure the series was built with, ppm s⁻¹. */
   trueSlopePpmS: number;
   /** The flux that slope stands for with the first fitted sample's p, T and χw. */
   trueFluxUmolM2S: number;
@@ -66,10 +66,12 @@ export function synthesizeClosure(input: SeriesInput, rng: Rng): ClosureSeries {
   // Stale headspace: a smaller soil–air gradient, so a smaller apparent flux.
   if (kind === 'start-above') flux *= 0.7;
   if (kind === 'uptake') flux = -Math.abs(input.fluxUmolM2S);
-  const slope = flux / factor;
   // Curvature of the saturating curve, s⁻¹: from nearly straight to gentle for a sealed chamber
-  // (so the lab sees both linear and exponential selections), strong for a leak.
-  const k = kind === 'leak' ? rng.uniform(0.02, 0.03) : kind === 'flat' ? 0 : rng.uniform(0.0003, 0.004);
+  // (so the lab sees both linear and exponential selections), strong for a leak (the headspace
+  // saturates within the closure).
+  const k = kind === 'leak' ? rng.uniform(0.045, 0.06) : kind === 'flat' ? 0 : rng.uniform(0.0003, 0.004);
+  // The slope decays as e^(−k·t) from closure: at the end of the settle time it is e^(−k·settle) of the flux's.
+  const slope = (flux / factor) * Math.exp(-k * settleS);
 
   // Start a few ppm above ambient (the soil surface under the chamber as it seats) — or, when the
   // chamber was not aired after the last closure, far above it.
@@ -97,7 +99,7 @@ export function synthesizeClosure(input: SeriesInput, rng: Rng): ClosureSeries {
     pressure.push(round(input.pressureKpa + rng.normal(0, 0.004), 3));
     tempC.push(round(tempAt(t) + rng.normal(0, 0.02), 2));
   }
-  return { tS, co2Ppm, h2oMmolMol, pressureKpa: pressure, tempC, trueSlopePpmS: slope, trueFluxUmolM2S: flux };
+  return { tS, co2Ppm, h2oMmolMol, pressureKpa: pressure, tempC, trueSlopePpmS: flux / factor, trueFluxUmolM2S: flux };
 }
 
 /**

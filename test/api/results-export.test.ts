@@ -142,7 +142,7 @@ describe('Bench results export: data package, EML, provenance, re-import', () =>
 
   it('when the provenance is read, then it names the engine version, the parameters, who and when', () => {
     const p = JSON.parse(files.get('provenance.json')!.toString('utf8'));
-    expect(p).toMatchObject({ engineVersion: '1.0.0', generatedBy: { email: demoEmail('lab') },
+    expect(p).toMatchObject({ engineVersion: '1.1.0', generatedBy: { email: demoEmail('lab') },
       parameters: { closureSelection: 'not-rejected', lloydTaylorT0K: 227.13 } });
     // The interval over plot totals says what it includes and leaves out, in the provenance, the EML methods and the totals table's description.
     expect(p.parameters.totalInterval).toContain('Student t interval over the plots');

@@ -34,11 +34,14 @@ export interface QueueItem {
 
 export interface Page<T> { items: T[]; total: number; limit: number; offset: number }
 
-export interface FitNumbers { slopePpmS: number; fluxUmolM2S: number; r2: number; rmse: number; aic: number; n: number;
+export interface FitNumbers { slopePpmS: number; fluxUmolM2S: number; r2: number; rmse: number; aic: number; aicc?: number; n: number;
+  /** Curved models: slope and flux at chamber closure (t = 0). */
+  slopeAtClosurePpmS?: number; fluxAtClosureUmolM2S?: number;
   interceptPpm?: number; p1?: number; p2?: number; p3?: number; b0?: number; b1?: number; b2?: number }
 export interface FitResult {
   linear: FitNumbers | null; exponential: FitNumbers | null; quadratic: FitNumbers | null;
-  selected: { model: 'linear' | 'exponential' | 'quadratic'; fluxUmolM2S: number; slopePpmS: number; reason: string } | null;
+  /** `basis` is absent on results stored before slope bases existed (they were on the settle end). */
+  selected: { model: 'linear' | 'exponential' | 'quadratic'; basis?: 'closure' | 'settle_end'; fluxUmolM2S: number; slopePpmS: number; reason: string } | null;
   exponentialRejectedReason: string | null; flags: string[]; error: string | null;
   window: { t0S: number; firstTS: number; lastTS: number; n: number } | null; minDetectableFluxUmolM2S: number | null;
 }
@@ -46,7 +49,7 @@ export interface FitResult {
 export interface ClosureDetail {
   closure: Record<string, any> & { id: string; rev: number; series: Record<string, (number | null)[] | null>;
     results: { raw: FitResult; review: FitResult | null; volumeCm3: number | null; areaCm2: number | null; meanOffsetCm: number | null;
-      ambientPpm: number | null; pressureIsDefault: boolean; recomputedSinceReview?: RecomputedMark } };
+      ambientPpm: number | null; pressureIsDefault: boolean; slopeBasis?: 'closure' | 'settle_end'; recomputedSinceReview?: RecomputedMark } };
   context: QueueItem;
   offsetSet: { id: string; takenAt: string; readingsCm: number[]; meanCm: number; supersedesId: string | null } | null;
   profile: { id: string; name: string; validFrom: string; chamberVolumeCm3: number; loopVolumeCm3: number } | null;

@@ -93,13 +93,14 @@ function toDraft(site: Rec | null): Draft {
     calibration: cal.kind, coefficients: (cal.coefficients ?? []).join(', '), validMin: str(cal.validMin), validMax: str(cal.validMax),
     tempDepthCm: str(s['tempDepthCm'], '5'), settlingDaysHard: str(s['settlingDaysHard'], '1'), settlingDaysWarn: str(s['settlingDaysWarn'], '7'),
     offsetSpreadPct: str(s['offsetSpreadPct'], '3'), offsetMoveCm: str(s['offsetMoveCm'], '1'), leakSlopeUmolMolS: str(s['leakSlopeUmolMolS'], '0.05'),
-    ambientMarginPpm: str(s['ambientMarginPpm'], '100'), digestLocalTime: str(s['digestLocalTime'], '18:00'),
+    ambientMarginPpm: str(s['ambientMarginPpm'], '100'), slopeBasis: str(s['slopeBasis'], 'closure'), digestLocalTime: str(s['digestLocalTime'], '18:00'),
     tileUrl: str(s['tileUrl']), tileAttribution: str(s['tileAttribution']),
   };
 }
 
 function fromDraft(d: Draft): Record<string, unknown> {
-  const out: Record<string, unknown> = { name: d['name'] ?? '', timezone: d['timezone'] ?? '', safetyNote: d['safetyNote'] ?? '', digestLocalTime: d['digestLocalTime'] ?? '' };
+  const out: Record<string, unknown> = { name: d['name'] ?? '', timezone: d['timezone'] ?? '', safetyNote: d['safetyNote'] ?? '',
+    digestLocalTime: d['digestLocalTime'] ?? '', slopeBasis: d['slopeBasis'] || 'closure' };
   for (const k of NUMBER_FIELDS) {
     const raw = (d[k] ?? '').trim();
     out[k] = raw === '' ? (NULLABLE.has(k) ? null : undefined) : Number(raw);

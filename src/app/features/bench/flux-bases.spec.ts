@@ -1,0 +1,21 @@
+import type { FitNumbers, FitResult } from './bench-api';
+import { fluxBases } from './flux-bases';
+
+const stats = { r2: 0.99, rmse: 0.2, aic: -10, n: 130 };
+const fit = (selected: FitResult['selected'], exponential: FitNumbers | null): FitResult => ({
+  linear: { slopePpmS: 0.4, fluxUmolM2S: 2.0, ...stats }, exponential, quadratic: null, selected,
+  exponentialRejectedReason: null, flags: [], error: null, window: null, minDetectableFluxUmolM2S: null,
+});
+
+describe('fluxBases (Bench: the selected flux at closure and at the end of the settle time)', () => {
+  it('when the exponential is selected, then both its values are shown with the basis in force', () => {
+    const e = { slopePpmS: 0.49, fluxUmolM2S: 2.5, slopeAtClosurePpmS: 0.6, fluxAtClosureUmolM2S: 3.05, ...stats };
+    expect(fluxBases(fit({ model: 'exponential', basis: 'closure', slopePpmS: 0.6, fluxUmolM2S: 3.05, reason: '' }, e)))
+      .toEqual({ basis: 'closure', atClosure: 3.05, atSettleEnd: 2.5 });
+  });
+
+  it('when the line is selected, then both bases give its one flux', () => {
+    expect(fluxBases(fit({ model: 'linear', basis: 'closure', slopePpmS: 0.4, fluxUmolM2S: 2.0, reason: '' }, null)))
+      .toEqual({ basis: 'closure', atClosure: 2.0, atSettleEnd: 2.0 });
+  });
+});

@@ -1,0 +1,43 @@
+import { provideHttpClient } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
+import { TestBed } from '@angular/core/testing';
+import { MatSelectHarness } from '@angular/material/select/testing';
+import { SiteForm } from './site-form';
+
+const SITE = {
+  id: '0b5e7d2c-1111-4a4a-8a8a-000000000001', rev: 3, name: 'Alder test', timezone: 'Europe/Berlin', elevationM: 300,
+  latitude: null, longitude: null, safetyNote: '', moistureCalibration: { kind: 'topp' }, tempDepthCm: 5, settlingDaysHard: 1,
+  settlingDaysWarn: 7, offsetSpreadPct: 3, offsetMoveCm: 1, leakSlopeUmolMolS: 0.05, ambientMarginPpm: 100, digestLocalTime: '18:00',
+  tileUrl: null, tileAttribution: null,
+};
+
+async function formOf(site: Record<string, unknown>) {
+  TestBed.configureTestingModule({ imports: [SiteForm], providers: [provideHttpClient(), provideHttpClientTesting()] });
+  const fixture = TestBed.createComponent(SiteForm);
+  fixture.componentRef.setInput('site', site);
+  fixture.detectChanges();
+  await fixture.whenStable();
+  const loader = TestbedHarnessEnvironment.loader(fixture);
+  return { fixture, loader, backend: TestBed.inject(HttpTestingController) };
+}
+
+describe('SiteForm: slope basis', () => {
+  it('when a site has no basis yet, then chamber closure is shown; choosing the settle end sends slopeBasis settle_end', async () => {
+    const { fixture, loader, backend } = await formOf(SITE);
+    const select = await loader.getHarness(MatSelectHarness.with({ selector: '[data-testid="slope-basis"]' }));
+    expect(await select.getValueText()).toBe('Chamber closure (t = 0, default)');
+    await select.open();
+    await select.clickOptions({ text: 'End of the settle time' });
+    (fixture.nativeElement as HTMLElement).querySelector('form')!.dispatchEvent(new Event('submit'));
+    const req = backend.expectOne((r) => r.url === `/api/sites/${SITE.id}`);
+    expect(req.request.method).toBe('PATCH');
+    expect(req.request.body).toMatchObject({ rev: 3, slopeBasis: 'settle_end' });
+  });
+
+  it('when a site stores the settle-end basis, then the select shows it', async () => {
+    const { loader } = await formOf({ ...SITE, slopeBasis: 'settle_end' });
+    const select = await loader.getHarness(MatSelectHarness.with({ selector: '[data-testid="slope-basis"]' }));
+    expect(await select.getValueText()).toBe('End of the settle time');
+  });
+});
