@@ -62,7 +62,7 @@ async function* closurePages(ds: DataSource, siteId: string, columns: string, on
   }
 }
 
-interface Fit { selected?: { model: string; fluxUmolM2S: number; slopePpmS: number } | null; [model: string]: any }
+interface Fit { selected?: { model: string; basis?: string; fluxUmolM2S: number; slopePpmS: number } | null; [model: string]: any }
 
 export async function* closureRows(ds: DataSource, siteId: string, onPage?: (n: number) => Promise<void>): Rows {
   const cols = `id, visit_id, collar_id, campaign_id, started_at, settle_s, review_state, review_reason, review_settle_s, review_window_end_s,
@@ -75,6 +75,8 @@ export async function* closureRows(ds: DataSource, siteId: string, onPage?: (n: 
       yield [r.id, r.visit_id, r.collar_id, r.campaign_id, iso(r.started_at), r.settle_s, r.review_state, r.review_reason, r.review_settle_s,
         r.review_window_end_s, r.review_model, raw?.model ?? null, raw?.slopePpmS ?? null, raw?.fluxUmolM2S ?? null,
         raw ? res.raw?.[raw.model]?.r2 ?? null : null, review?.model ?? null, review?.fluxUmolM2S ?? null, r.flux_umol_m2_s,
+        // Results stored before slope bases existed were on the end of the settle time.
+        r.flux_umol_m2_s === null ? null : ((review ?? raw)?.basis ?? 'settle_end'),
         (r.flags as string[]).join(';'), res.volumeCm3 ?? null, res.areaCm2 ?? null, res.meanOffsetCm ?? null, res.pressureIsDefault ?? null];
     }
   }

@@ -75,6 +75,7 @@ export const TABLES: TableDef[] = [
       num('raw_r2', 'dimensionless', 'R² of the selected raw model'), str('review_fit_model', 'Rate model of the review fit'),
       num('review_flux_umol_m2_s', UNITS.flux, `${FLUX_NOTE}, review fit`),
       num('flux_umol_m2_s', UNITS.flux, `${FLUX_NOTE}: the review fit's flux when reviewed, else the raw fit's`),
+      str('flux_basis', 'Where the flux takes the slope of a curved model: closure (t = 0, chamber closure) or settle_end (end of the settle time); a line has one slope'),
       str('flags', 'QC flags separated by semicolons'), num('volume_cm3', UNITS.cm3, 'Total system volume'), num('area_cm2', UNITS.cm2, 'Soil area'),
       num('mean_offset_cm', UNITS.cm, 'Mean collar offset used for the volume'),
       { name: 'pressure_is_default', type: 'boolean', description: 'Pressure taken from site elevation (US Standard Atmosphere 1976), not measured' },

@@ -1,6 +1,6 @@
 import { createHash } from 'node:crypto';
 import type { DataSource } from 'typeorm';
-import { engineVersion, RESPONSE_LIMITS } from '../../shared/flux';
+import { engineVersion, RESPONSE_LIMITS, SELECTION_MARGIN } from '../../shared/flux';
 import { defineJob } from '../jobs/job-registry';
 import { csvLine, type CsvValue } from '../../shared/csv/csv-cell';
 import { dataPackage, type Provenance } from './data-package';
@@ -79,6 +79,7 @@ export async function runResultsExport(ds: DataSource, req: ExportRequest, hooks
     await step(1);
   }
 
+  const [{ slope_basis: slopeBasis }] = await ds.query(`SELECT slope_basis FROM site WHERE id = $1`, [site.id]);
   const provenance: Provenance = {
     engineVersion, generatedAt: now.toISOString(), jobId: hooks.jobId,
     generatedBy: { id: user?.id ?? req.userId, name: user?.display_name ?? 'unknown', email: user?.email ?? '' },
@@ -86,12 +87,12 @@ export async function runResultsExport(ds: DataSource, req: ExportRequest, hooks
     parameters: {
       closureSelection: req.selection, responseModelForTotals: req.model, totalInterval: TOTAL_INTERVAL_METHOD,
       seasonFrom: seasonal.fromDay, seasonTo: seasonal.toDay, responseLimits: RESPONSE_LIMITS, lloydTaylorT0K: 227.13,
-      carbonMolarMassGPerMol: 12.011, aggregation: 'closure → visit mean → collar mean → plot mean (replicate) → treatment cell mean ± SE over plots',
+      carbonMolarMassGPerMol: 12.011, fluxSlopeBasis: slopeBasis, aggregation: 'closure → visit mean → collar mean → plot mean (replicate) → treatment cell mean ± SE over plots',
     },
     counts: rowCounts,
   };
   const methods = [
-    'Fluxes: ideal gas law on the initial slope of dry CO2 mole fraction after the settle time (linear, exponential after Kutzbach et al. 2007, or quadratic after Wagner et al. 1997; AIC with guards); the lab reviews each closure.',
+    `Fluxes: ideal gas law on the rate of change of dry CO2 mole fraction, fitted to the samples after the settle time (linear, exponential after Kutzbach et al. 2007, or quadratic after Wagner et al. 1997; the exponential only when it saturates and its AICc (Hurvich & Tsai 1989) is lower by more than ${SELECTION_MARGIN}); curved models take the ${slopeBasis === 'closure' ? 'slope at chamber closure (t = 0)' : 'slope at the end of the settle time'} (site setting; column flux_basis names the basis of each closure's flux). Soil area is the collar's inside area. The lab reviews each closure.`,
     `Aggregation: ${String(provenance.parameters['aggregation'])}; closures: ${req.selection}. Least-squares additive models per stratum: plot-level treatments with block as a factor; collar-level treatments (split plot) paired by plot.`,
     'Temperature response per treatment cell on plot × campaign × round means (the experimental unit): Q10 and Lloyd & Taylor (1994) with T0 = 227.13 K fixed, on the flux scale and on the log scale; 95 % CIs from t(n − 2) with n = units.',
     `Seasonal totals (${seasonal.fromDay} to ${seasonal.toDay}, ${req.model}): ${SEASONAL_METHOD}`,

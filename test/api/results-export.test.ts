@@ -140,6 +140,18 @@ describe('Bench results export: data package, EML, provenance, re-import', () =>
     expect(tables.get('closure_series')!.length).toBe(n);
   });
 
+  it('when closures are exported, then each names the slope basis of its flux, and the metadata names the site\'s basis', () => {
+    const closures = tables.get('closures')!;
+    expect(headers.get('closures')).toContain('flux_basis');
+    const bases = new Set(closures.filter((k) => k.flux_umol_m2_s !== '').map((k) => k.flux_basis));
+    expect([...bases]).toEqual(['closure']);
+    const p = JSON.parse(files.get('provenance.json')!.toString('utf8'));
+    expect(p.parameters.fluxSlopeBasis).toBe('closure');
+    const eml = files.get('metadata.eml.xml')!.toString('utf8');
+    expect(eml).toMatch(/slope at chamber closure \(t = 0\)/);
+    expect(eml).toContain('flux_basis');
+  });
+
   it('when the provenance is read, then it names the engine version, the parameters, who and when', () => {
     const p = JSON.parse(files.get('provenance.json')!.toString('utf8'));
     expect(p).toMatchObject({ engineVersion: '1.1.0', generatedBy: { email: demoEmail('lab') },
