@@ -1,5 +1,5 @@
 import type { EntityManager } from 'typeorm';
-import { chamberVolumeFor, engineVersion, fitClosure, pressureFromElevationKpa, type ClosureFitResult } from '../../shared/flux';
+import { chamberVolumeFor, engineVersion, fitClosure, invalidFit, pressureFromElevationKpa, type ClosureFitResult } from '../../shared/flux';
 import { loadClosureContext, localDay, type ClosureContext } from './closure-inputs';
 
 type Series = { tS: (number | null)[]; co2Ppm: (number | null)[]; h2oMmolMol?: (number | null)[] | null;
@@ -11,10 +11,7 @@ export interface ClosureResults {
   fluxUmolM2S: number | null;
 }
 
-const failed = (error: string): ClosureFitResult => ({
-  linear: null, exponential: null, quadratic: null, exponentialRejectedReason: null, selected: null,
-  flags: ['invalid-input'], error, window: null, minDetectableFluxUmolM2S: null, fluxPerSlope: null,
-});
+const failed = (error: string): ClosureFitResult => invalidFit(error);
 
 /**
  * Runs the flux engine on a closure as stored: once with the raw settle time (`raw`, never

@@ -11,6 +11,7 @@ export class AnalyzerEntity extends SyncedColumns {
   @Column({ type: 'text', name: 'serial', default: '' }) serial!: string;
   @Column({ type: 'double precision', name: 'range_min_ppm' }) rangeMinPpm!: number;
   @Column({ type: 'double precision', name: 'range_max_ppm' }) rangeMaxPpm!: number;
-  @Column({ type: 'double precision', name: 'precision_ppm' }) precisionPpm!: number;
+  /** Stated precision, µmol/mol; null when unknown (the engine then uses a 1 ppm default and says so). */
+  @Column({ type: 'double precision', name: 'precision_ppm', nullable: true }) precisionPpm!: number | null;
   @Column({ type: 'double precision', name: 'calibration_interval_days' }) calibrationIntervalDays!: number;
 }

@@ -198,3 +198,13 @@ describe('fitClosure: QC flags', () => {
     expect(r.fluxPerSlope).toBeCloseTo(ref.fluxPerSlope!, 12);
   });
 });
+
+describe('fitClosure: analyzer precision behind the detection limit', () => {
+  it('says when the 1 ppm default was used instead of the analyzer record’s precision', () => {
+    const def = fitClosure(closure());
+    expect([def.precisionPpm, def.precisionIsDefault]).toEqual([1, true]);
+    const own = fitClosure(closure({ precisionPpm: 0.3 }));
+    expect([own.precisionPpm, own.precisionIsDefault]).toEqual([0.3, false]);
+    expect(own.minDetectableFluxUmolM2S! / def.minDetectableFluxUmolM2S!).toBeCloseTo(0.3, 12);
+  });
+});

@@ -41,7 +41,8 @@ interface Models {
 
 let residualBuf = new Float64Array(256);
 
-function invalid(error: string, flags: QcFlag[] = []): ClosureFitResult {
+/** The result of a closure that cannot be fitted (also used by callers that refuse before fitting). */
+export function invalidFit(error: string, flags: QcFlag[] = []): ClosureFitResult {
   return {
     linear: null,
     exponential: null,
@@ -52,6 +53,8 @@ function invalid(error: string, flags: QcFlag[] = []): ClosureFitResult {
     error,
     window: null,
     minDetectableFluxUmolM2S: null,
+    precisionPpm: null,
+    precisionIsDefault: false,
     fluxPerSlope: null,
   };
 }
@@ -164,12 +167,13 @@ function select(m: Models, requested: ClosureInput['model'], basis: SlopeBasis):
 /** Fits one closure. Never throws for bad data: such input returns `invalid-input` and an error. */
 export function fitClosure(input: ClosureInput): ClosureFitResult {
   const outcome = extractWindow(input);
-  if (!outcome.ok) return invalid(outcome.error, input && input.pressureIsDefault ? ['default-pressure'] : []);
+  if (!outcome.ok) return invalidFit(outcome.error, input && input.pressureIsDefault ? ['default-pressure'] : []);
   const w = outcome.window;
   const factor = fluxPerSlope(w.pressureKpa, w.tempC, input.volumeCm3, input.areaCm2, w.waterMolFraction);
   const models = fitModels(w, factor);
   const { selected, rejected, expSuspect, expChosen } = select(models, input.model, input.slopeAt ?? DEFAULT_SLOPE_BASIS);
-  const precision = input.precisionPpm != null && input.precisionPpm > 0 ? input.precisionPpm : Q.defaultPrecisionPpm;
+  const precisionIsDefault = !(input.precisionPpm != null && input.precisionPpm > 0);
+  const precision = precisionIsDefault ? Q.defaultPrecisionPpm : (input.precisionPpm as number);
   const minSlope = minimumDetectableSlopePpmS(precision, w.tauMax);
   const { linear, exponential } = models;
   const flatClosure = !!linear && Math.abs(linear.slopePpmS) < minSlope;
@@ -211,6 +215,8 @@ export function fitClosure(input: ClosureInput): ClosureFitResult {
     error: null,
     window: { t0S: w.t0S, firstTS: w.t0S + w.tau[0], lastTS: w.t0S + w.tauMax, n: w.n },
     minDetectableFluxUmolM2S: minSlope * factor,
+    precisionPpm: precision,
+    precisionIsDefault,
     fluxPerSlope: factor,
   };
 }

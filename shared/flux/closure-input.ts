@@ -102,6 +102,9 @@ export interface ClosureFitResult {
   window: { t0S: number; firstTS: number; lastTS: number; n: number } | null;
   /** Minimum detectable flux (precision / window length × flux factor). */
   minDetectableFluxUmolM2S: number | null;
+  /** Analyzer precision behind the detection limit, ppm, and whether it is the 1 ppm default. */
+  precisionPpm: number | null;
+  precisionIsDefault: boolean;
   /** Flux per ppm s⁻¹ with p, T, χw of the first sample used. */
   fluxPerSlope: number | null;
 }

@@ -1,20 +1,24 @@
 /**
  * Minimum detectable slope and flux of a closure.
  *
- * Source and choice. Parkin, T.B., Venterea, R.T., Hargreaves, S.K. (2012) Calculating the
- * detection limits of chamber-based soil greenhouse gas flux measurements. J. Environ. Qual.
- * 41:705–715 (citation from memory, not re-read here) showed that the smallest flux a chamber
- * can resolve is set by the analytical precision of the concentration measurement, the closure
- * time and the sampling scheme, and that the chamber geometry turns that concentration limit
- * into a flux limit through the same ideal-gas factor as the flux itself. The widely used
- * closed form of that idea (e.g. Christiansen, Outhwaite & Smukler 2015, Agric. For. Meteorol.
- * 211–212:48–57, also from memory) is
+ * Source. The closed form is that of Christiansen, J.R., Outhwaite, J., Smukler, S.M. (2015)
+ * Comparison of CO2, CH4 and N2O soil-atmosphere exchange measured in static chambers with cavity
+ * ring-down spectroscopy and gas chromatography. Agric. For. Meteorol. 211–212:48–57, who give it
+ * "after Parkin et al. 2012":
  *
  *   MDF = (A_a / t_c) · p·V·(1 − χw) / (R·T·A)      i.e. minimum slope = A_a / t_c,
  *
- * with A_a the analyzer precision (ppm) and t_c the closure length used for the fit (s).
+ * with A_a the analyzer precision (ppm) and t_c the closure length used for the fit (s); the
+ * (1 − χw) factor is ours, the same dry-air factor as the flux itself. The idea it rests on — the
+ * smallest resolvable flux is set by analytical precision, closure time and sampling, turned into
+ * a flux limit by the chamber's ideal-gas factor — is Parkin, T.B., Venterea, R.T., Hargreaves,
+ * S.K. (2012) Calculating the detection limits of chamber-based soil greenhouse gas flux
+ * measurements. J. Environ. Qual. 41:705–715. Both citations from memory (not re-read here).
  * A closure whose CO2 changes by less than the analyzer precision over the whole window is
  * therefore not distinguishable from zero and is flagged `flat`.
+ *
+ * Precision: the analyzer record's own value; without one the engine uses 1 ppm and says so
+ * (`precisionIsDefault`), because a default is not a property of the instrument.
  *
  * Why not the regression form t·σ·√(12/n)/t_c: it assumes n independent errors, but a
  * continuous analyzer reports smoothed, autocorrelated values at 1 Hz or faster, so the

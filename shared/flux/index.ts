@@ -1,7 +1,7 @@
 /** Public API of the flux engine (pure TypeScript: devices, server and batch CLI share it). */
 export const engineVersion = '1.1.0';
 
-export { fitClosure } from './closure-fit';
+export { fitClosure, invalidFit } from './closure-fit';
 export { fitLinearRaw, type LinearRaw } from './linear-fit';
 export { DEFAULT_SLOPE_BASIS, SLOPE_BASES, type SlopeBasis } from './closure-input';
 export type {

@@ -9,9 +9,9 @@ export const QC_FLAGS = {
   'too-few-points': 'Fewer than 4 usable samples after the settle time: no exponential fit (a line needs 3).',
   'short-window': 'Less than 60 s of data after the settle time (common practice: too short for a stable slope).',
   flat:
-    'The CO2 change over the window is below the analyzer precision, i.e. |slope| < precision / window length: the flux is below the minimum detectable flux (detection-limit approach after Parkin et al. 2012, J. Environ. Qual. 41:705–715).',
+    'The CO2 change over the window is below the analyzer precision, i.e. |slope| < precision / window length: the flux is below the minimum detectable flux (closed form of Christiansen et al. 2015, Agric. For. Meteorol. 211–212:48, after Parkin et al. 2012, J. Environ. Qual. 41:705–715).',
   'negative-flux': 'The selected flux is negative (uptake): review it; the value is kept as is.',
-  spike: 'At least one sample jumps away from both neighbours by more than max(8 robust σ, 5 × precision).',
+  spike: 'At least one sample lies off the line through its two neighbours by more than max(8 robust SDs of that deviation ≈ 9.8 σ of white analyzer noise, 5 × precision).',
   'gaps-dropped': 'Samples after the settle time with missing or non-numeric values were dropped.',
   'no-water-data': 'No water-vapour data: CO2 was fitted as reported (no dilution correction) and χw = 0 in the flux.',
   'exp-rejected':

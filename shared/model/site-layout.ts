@@ -88,7 +88,8 @@ export const analyzerFields = z.object({
   serial: text(100).default(''),
   rangeMinPpm: ranged(0, 20000, 'µmol/mol', 'Calibrated range minimum').default(0),
   rangeMaxPpm: ranged(0, 20000, 'µmol/mol', 'Calibrated range maximum').default(5000),
-  precisionPpm: ranged(0, 100, 'µmol/mol', 'Precision').default(1),
+  /** The maker's stated precision; null when unknown (the flux engine then uses 1 µmol/mol and says it is a default). */
+  precisionPpm: ranged(0, 100, 'µmol/mol', 'Precision').nullable().default(null),
   calibrationIntervalDays: ranged(1, 3650, 'days', 'Calibration interval').default(365),
 });
 

@@ -10,7 +10,7 @@
  * curved models add `slope_at_closure_ppm_s`/`flux_at_closure_umol_m2_s` (t = 0); `selected`
  * names its `basis` and its flux follows it.
  */
-import { fitClosure, type AtClosure, type ClosureFitResult, type ClosureInput, type ModelFit } from '../../shared/flux/index';
+import { fitClosure, invalidFit, type AtClosure, type ClosureFitResult, type ClosureInput, type ModelFit } from '../../shared/flux/index';
 
 export interface WireModel {
   slope_ppm_s: number;
@@ -99,18 +99,7 @@ export function resultToWire(id: unknown, r: ClosureFitResult, full = false): Wi
 /** One run in, one result out; a run that is not even an object still gets a result. */
 export function processRun(run: unknown, full = false): WireResult {
   if (!run || typeof run !== 'object' || Array.isArray(run)) {
-    return resultToWire(null, {
-      linear: null,
-      exponential: null,
-      quadratic: null,
-      exponentialRejectedReason: 'invalid input',
-      selected: null,
-      flags: ['invalid-input'],
-      error: 'run is not an object',
-      window: null,
-      minDetectableFluxUmolM2S: null,
-      fluxPerSlope: null,
-    }, full);
+    return resultToWire(null, invalidFit('run is not an object'), full);
   }
   const r = run as Run;
   let result: ClosureFitResult;

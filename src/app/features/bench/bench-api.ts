@@ -44,6 +44,8 @@ export interface FitResult {
   selected: { model: 'linear' | 'exponential' | 'quadratic'; basis?: 'closure' | 'settle_end'; fluxUmolM2S: number; slopePpmS: number; reason: string } | null;
   exponentialRejectedReason: string | null; flags: string[]; error: string | null;
   window: { t0S: number; firstTS: number; lastTS: number; n: number } | null; minDetectableFluxUmolM2S: number | null;
+  /** Absent on results stored before the engine reported the precision it used. */
+  precisionPpm?: number | null; precisionIsDefault?: boolean;
 }
 
 export interface ClosureDetail {

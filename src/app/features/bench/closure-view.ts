@@ -3,7 +3,7 @@ import { ChangeDetectionStrategy, Component, ElementRef, computed, effect, input
 import { FormsModule } from '@angular/forms';
 import type { ClosureDetail, FitResult } from './bench-api';
 import { ClosureChart, type ChartInput } from './closure-chart';
-import { fluxBases } from './flux-bases';
+import { detectionLimitNote, fluxBases } from './flux-bases';
 
 export interface Decision { fields: Record<string, unknown> }
 
@@ -38,6 +38,7 @@ export class ClosureView {
     settleS: this.effectiveSettle(), windowEndS: (this.c()['reviewWindowEndS'] as number | null) ?? null, fit: this.fit(),
   }));
   protected readonly bases = computed(() => fluxBases(this.fit()));
+  protected readonly detectionLimit = computed(() => detectionLimitNote(this.fit()));
   protected readonly startCo2 = computed(() => (this.c().series['co2Ppm'] as (number | null)[]).find((v) => v !== null) ?? null);
   protected readonly models = computed(() => {
     const f = this.fit();

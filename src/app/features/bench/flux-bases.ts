@@ -22,3 +22,12 @@ export function fluxBases(fit: FitResult): FluxBases | null {
     atSettleEnd: model.fluxUmolM2S,
   };
 }
+
+/** The detection limit and the precision behind it; a 1 ppm default is named as such, never passed off as the analyzer's. */
+export function detectionLimitNote(fit: FitResult): string | null {
+  if (fit.minDetectableFluxUmolM2S == null) return null;
+  const mdf = fit.minDetectableFluxUmolM2S.toFixed(3);
+  if (fit.precisionPpm == null) return `Minimum detectable flux ${mdf} µmol m⁻² s⁻¹`;
+  const source = fit.precisionIsDefault ? 'the 1 µmol/mol default: no precision on the analyzer record' : 'from the analyzer record';
+  return `Minimum detectable flux ${mdf} µmol m⁻² s⁻¹ (analyzer precision ${fit.precisionPpm} µmol/mol, ${source})`;
+}

@@ -1,5 +1,5 @@
 import {
-  chamberVolumeFor, collarAreaCm2, fitClosure, pressureFromElevationKpa,
+  chamberVolumeFor, collarAreaCm2, fitClosure, invalidFit, pressureFromElevationKpa,
   type ClosureFitResult, type OffsetSetRecord,
 } from '../../../../shared/flux';
 import type { LocalRecord } from '../../core/db/db-schema';
@@ -61,8 +61,7 @@ export function fluxOnTheSpot(closure: LocalRecord, inp: SpotInputs): SpotResult
   const ambientPpm = inp.ambientPpmByDay[day] ?? null;
   const base = { volumeCm3: volume.ok ? volume.value.volumeCm3 : null, pressureIsDefault,
     startAboveAmbientPpm: first !== null && ambientPpm !== null ? first - ambientPpm : null };
-  const refuse = (error: string): SpotResult => ({ ...base, fit: { linear: null, exponential: null, quadratic: null, exponentialRejectedReason: null,
-    selected: null, flags: ['invalid-input'], error, window: null, minDetectableFluxUmolM2S: null, fluxPerSlope: null } });
+  const refuse = (error: string): SpotResult => ({ ...base, fit: invalidFit(error) });
   if (!volume.ok) return refuse(volume.error);
   if (!has(series.tempC)) return refuse('no chamber air temperature in the series');
   const fit = fitClosure({
