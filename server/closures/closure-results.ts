@@ -2,7 +2,7 @@ import type { EntityManager } from 'typeorm';
 import { chamberVolumeFor, engineVersion, fitClosure, invalidFit, pressureFromElevationKpa, type ClosureFitResult } from '../../shared/flux';
 import { loadClosureContext, localDay, type ClosureContext } from './closure-inputs';
 
-type Series = { tS: (number | null)[]; co2Ppm: (number | null)[]; h2oMmolMol?: (number | null)[] | null;
+type Series = { tS: (number | null)[]; co2Ppm: (number | null)[]; co2IsDry?: boolean; h2oMmolMol?: (number | null)[] | null;
   pressureKpa?: (number | null)[] | null; tempC?: (number | null)[] | null };
 
 export interface ClosureResults {
@@ -30,7 +30,7 @@ export function resultsFor(c: Record<string, unknown>, ctx: ClosureContext): Clo
     if (!volume.ok) return failed(volume.error);
     if (!series.tempC?.some((v) => typeof v === 'number')) return failed('no chamber air temperature in the series');
     return fitClosure({
-      tS: series.tS, co2Ppm: series.co2Ppm, h2oMmolMol: series.h2oMmolMol ?? null, pressureKpa, tempC: series.tempC,
+      tS: series.tS, co2Ppm: series.co2Ppm, co2IsDry: series.co2IsDry === true, h2oMmolMol: series.h2oMmolMol ?? null, pressureKpa, tempC: series.tempC,
       volumeCm3: volume.value.volumeCm3, areaCm2: volume.value.areaCm2, footprintAreaCm2: volume.value.footprintAreaCm2,
       settleS, windowEndS, model, slopeAt: ctx.slopeBasis,
       ambientPpm: ctx.ambientPpm, ambientMarginPpm: ctx.ambientMarginPpm, precisionPpm: ctx.precisionPpm ?? undefined,

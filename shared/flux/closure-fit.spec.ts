@@ -88,6 +88,32 @@ describe('fitClosure: window and models', () => {
   });
 });
 
+describe('fitClosure: CO2 that the logger already reports dry', () => {
+  // Dry χ rising 1 ppm/s while water vapour rises 10 → 16 mmol/mol (Webb et al. 1980: only the dry
+  // mole fraction obeys the headspace balance; dividing dry values by 1 − χw again would add a false rise).
+  const t = Array.from({ length: 120 }, (_, i) => i);
+  const h2o = t.map((s) => 10 + 0.05 * s);
+  const dry = t.map((s) => 420 + s);
+  const base = { ...closure(), tS: t, h2oMmolMol: h2o, pressureKpa: 100, tempC: 20, volumeCm3: 4000, areaCm2: 300 };
+
+  it('is not corrected a second time when the series says co2IsDry', () => {
+    const r = fitClosure({ ...base, co2Ppm: dry, co2IsDry: true });
+    expect(r.linear!.slopePpmS).toBeCloseTo(1, 10);
+    // χw of the first sample used (t = 20 s: 11 mmol/mol) still counts the moles of dry air.
+    expect(r.fluxPerSlope).toBeCloseTo((10 * 100 * 4000 * (1 - 0.011)) / (8.314462618153324 * 293.15 * 300), 10);
+  });
+
+  it('is corrected (wrongly, a second time) when the flag is missing: the slope is larger', () => {
+    const r = fitClosure({ ...base, co2Ppm: dry });
+    expect(r.linear!.slopePpmS).toBeGreaterThan(1.02);
+  });
+
+  it('reproduces the worked value of REFERENCES.md §1 from dry input (5.41564 µmol m⁻² s⁻¹)', () => {
+    const r = fitClosure({ ...base, h2oMmolMol: 10, co2Ppm: dry, co2IsDry: true });
+    expect(r.selected!.fluxUmolM2S).toBeCloseTo(5.41564, 5);
+  });
+});
+
 describe('fitClosure: invalid input never throws', () => {
   it.each([
     ['unequal array lengths', { co2Ppm: [1, 2] }],

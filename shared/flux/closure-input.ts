@@ -15,8 +15,13 @@ export const DEFAULT_SLOPE_BASIS: SlopeBasis = 'closure';
 export interface ClosureInput {
   /** Elapsed seconds since the chamber seated, one per sample. */
   tS: readonly (number | null)[];
-  /** Wet CO2 mole fraction as the analyzer reports it, µmol mol⁻¹. */
+  /** Wet CO2 mole fraction as the analyzer reports it, µmol mol⁻¹ (dry when co2IsDry). */
   co2Ppm: readonly (number | null)[];
+  /**
+   * The CO2 values are already per mole of dry air (the analyzer corrected them): no dilution
+   * correction is applied again; water vapour still gives χw for the moles of dry air.
+   */
+  co2IsDry?: boolean;
   /** Water vapour, mmol mol⁻¹: per sample, one value for the closure, or none. */
   h2oMmolMol?: readonly (number | null)[] | number | null;
   pressureKpa: number | readonly (number | null)[];

@@ -80,6 +80,7 @@ export function extractWindow(input: ClosureInput): WindowOutcome {
   const h2oArray = Array.isArray(h2o) ? h2o : null;
   const h2oConst = isNum(h2o) ? h2o : NaN;
   const useWater = h2oArray ? h2oArray.some(isNum) : isNum(h2o);
+  const alreadyDry = input.co2IsDry === true;
   let n = 0;
   let seenWindow = false;
   let gaps = false;
@@ -101,7 +102,7 @@ export function extractWindow(input: ClosureInput): WindowOutcome {
     const tau = t - t0;
     if (n > 0 && tau < tauBuf[n - 1]) sorted = false;
     tauBuf[n] = tau;
-    chiBuf[n] = useWater ? dryMoleFractionPpm(c, w as number) : c;
+    chiBuf[n] = useWater && !alreadyDry ? dryMoleFractionPpm(c, w as number) : c;
     idxBuf[n] = i;
     n++;
   }

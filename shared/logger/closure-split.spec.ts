@@ -1,4 +1,4 @@
-import { splitByTaps, splitClosures, type TapWindow } from './closure-split';
+import { pieceSeries, splitByTaps, splitClosures, type TapWindow } from './closure-split';
 import type { LoggerSample } from './logger-rows';
 
 // A continuous 1 Hz log (the analyzer never stops between closures): ambient 420 ppm, rising
@@ -47,5 +47,14 @@ describe('splitting a logger file into closures', () => {
     const split = splitClosures(labelled, { taps: tapsOnLogger });
     expect(split.method).toBe('closureId');
     expect(split.pieces.map((p) => p.key)).toEqual(['K1', 'K2']);
+  });
+});
+
+describe('a closure series from a logger piece', () => {
+  it('is marked co2IsDry only when the mapping says the CO2 column is already dry', () => {
+    const piece = splitClosures(continuous.map((x) => ({ ...x, h2oMmolMol: 12 }))).pieces[0];
+    expect(pieceSeries(piece, { co2: { column: 1, unit: 'µmol/mol (ppm)', dry: true } }).co2IsDry).toBe(true);
+    expect(pieceSeries(piece, { co2: { column: 1, unit: 'µmol/mol (ppm)' } }).co2IsDry).toBeUndefined();
+    expect(pieceSeries(piece).co2IsDry).toBeUndefined();
   });
 });

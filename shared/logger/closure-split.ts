@@ -4,6 +4,7 @@
  * no piece are counted and shown, never dropped without a word.
  */
 import type { LoggerSample } from './logger-rows';
+import type { LoggerMapping } from './logger-mapping';
 
 export type SplitMethod = 'closureId' | 'taps' | 'gaps';
 
@@ -129,9 +130,13 @@ export function splitClosures(samples: readonly LoggerSample[], opts: { taps?: r
   return splitByGaps(samples, opts.gapS);
 }
 
-/** A piece as a closure series: elapsed seconds from its first sample; an all-empty column becomes null. */
-export function pieceSeries(p: LoggerPiece): {
+/**
+ * A piece as a closure series: elapsed seconds from its first sample; an all-empty column becomes
+ * null. A mapping whose CO2 column is already dry marks the series `co2IsDry`.
+ */
+export function pieceSeries(p: LoggerPiece, mapping?: Pick<LoggerMapping, 'co2'> | null): {
   tS: number[]; co2Ppm: number[]; h2oMmolMol: (number | null)[] | null; pressureKpa: (number | null)[] | null; tempC: (number | null)[] | null;
+  co2IsDry?: true;
 } {
   const s0 = p.samples[0];
   const tS = p.samples.map((s) => round3(s.atMs !== null && s0.atMs !== null ? (s.atMs - s0.atMs) / 1000 : (s.elapsedS ?? 0) - (s0.elapsedS ?? 0)));
@@ -142,6 +147,7 @@ export function pieceSeries(p: LoggerPiece): {
   return {
     tS, co2Ppm: p.samples.map((s) => s.co2Ppm),
     h2oMmolMol: col((s) => s.h2oMmolMol), pressureKpa: col((s) => s.pressureKpa), tempC: col((s) => s.tempC),
+    ...(mapping?.co2.dry ? { co2IsDry: true as const } : {}),
   };
 }
 

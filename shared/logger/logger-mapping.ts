@@ -31,7 +31,11 @@ export interface LoggerMapping {
   /** 0-based index of the header row; rows before it are the logger's preamble. */
   headerRow: number;
   time: TimeColumn;
-  co2: { column: number; unit: Co2Unit };
+  /**
+   * `dry`: the logger already reports CO2 per mole of dry air (the analyzer corrected for water
+   * vapour); the flux engine then does not apply the dilution correction a second time.
+   */
+  co2: { column: number; unit: Co2Unit; dry?: boolean };
   h2o: { column: number; unit: H2oUnit } | null;
   pressure: { column: number; unit: PressureUnit } | null;
   temp: { column: number; unit: TempUnit } | null;

@@ -133,6 +133,8 @@ export const closureSeriesSchema = z.object({
   h2oMmolMol: seriesColumn('H2O', 0, 100, 'mmol/mol').nullable().default(null),
   pressureKpa: seriesColumn('Pressure', 50, 110, 'kPa').nullable().default(null),
   tempC: seriesColumn('Chamber air temperature', -40, 70, '°C').nullable().default(null),
+  /** The logger reported CO2 per mole of dry air already: no dilution correction is applied again. */
+  co2IsDry: z.boolean().optional(),
 }).superRefine((s, ctx) => {
   for (const key of ['co2Ppm', 'h2oMmolMol', 'pressureKpa', 'tempC'] as const) {
     const col = s[key];

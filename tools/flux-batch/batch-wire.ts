@@ -46,6 +46,7 @@ export function runToInput(run: Run): ClosureInput {
   return {
     tS: run.t_s as ClosureInput['tS'],
     co2Ppm: run.co2_ppm as ClosureInput['co2Ppm'],
+    co2IsDry: run.co2_is_dry === true,
     h2oMmolMol: run.h2o_mmol_mol as ClosureInput['h2oMmolMol'],
     pressureKpa: run.pressure_kpa as ClosureInput['pressureKpa'],
     tempC: run.temp_c as ClosureInput['tempC'],

@@ -40,7 +40,7 @@ const has = (c: Col): c is (number | null)[] => !!c && c.some((v) => typeof v ==
  * closure's raw settle time, so the crew sees what the lab will see before walking on.
  */
 export function fluxOnTheSpot(closure: LocalRecord, inp: SpotInputs): SpotResult | null {
-  const series = closure['series'] as { tS: (number | null)[]; co2Ppm: (number | null)[]; h2oMmolMol?: Col; pressureKpa?: Col; tempC?: Col } | undefined;
+  const series = closure['series'] as { tS: (number | null)[]; co2Ppm: (number | null)[]; co2IsDry?: boolean; h2oMmolMol?: Col; pressureKpa?: Col; tempC?: Col } | undefined;
   if (!series || series.tS.length === 0) return null;
   const timeZone = String(inp.site?.['timezone'] ?? 'UTC');
   const day = localDay(String(closure['startedAt']), timeZone);
@@ -65,7 +65,7 @@ export function fluxOnTheSpot(closure: LocalRecord, inp: SpotInputs): SpotResult
   if (!volume.ok) return refuse(volume.error);
   if (!has(series.tempC)) return refuse('no chamber air temperature in the series');
   const fit = fitClosure({
-    tS: series.tS, co2Ppm: series.co2Ppm, h2oMmolMol: series.h2oMmolMol ?? null,
+    tS: series.tS, co2Ppm: series.co2Ppm, co2IsDry: series.co2IsDry === true, h2oMmolMol: series.h2oMmolMol ?? null,
     pressureKpa: pressureIsDefault ? (typeof elevation === 'number' ? pressureFromElevationKpa(elevation) : NaN) : series.pressureKpa!,
     tempC: series.tempC, volumeCm3: volume.value.volumeCm3, areaCm2: volume.value.areaCm2, footprintAreaCm2: volume.value.footprintAreaCm2,
     settleS: Number(closure['settleS']), slopeAt: inp.site?.['slopeBasis'] === 'settle_end' ? 'settle_end' : 'closure',

@@ -9,6 +9,7 @@ import { provideHttpClientTesting } from '@angular/common/http/testing';
 import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
 import { TestBed } from '@angular/core/testing';
 import { MatButtonHarness } from '@angular/material/button/testing';
+import { MatCheckboxHarness } from '@angular/material/checkbox/testing';
 import { MAT_DIALOG_DATA, MatDialogRef } from '@angular/material/dialog';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -111,5 +112,19 @@ describe('Logger import, mapping step', () => {
     await again.pick(FILE);
     expect(again.shown('Format')).toBe('DD.MM.YYYY HH:mm:ss');
     expect(again.shown('Pressure unit')).toBe('hPa');
+  });
+});
+
+describe('Logger import, a CO2 column that is already dry', () => {
+  afterEach(() => localStorage.clear());
+  it('when the crew ticks "already dry", then the mapping kept for the analyzer says so', async () => {
+    const { text, choose, pick, loader } = await render();
+    await pick(FILE);
+    choose('Format', 'DD.MM.YYYY HH:mm:ss');
+    await (await loader.getHarness(MatCheckboxHarness.with({ selector: '[data-testid="co2-dry"]' }))).check();
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Read the file' }))).click();
+    await until(() => text('[data-testid="read-summary"]'), 'the review step');
+    const preset = JSON.parse(localStorage.getItem(`fw.logger-preset.${ANALYZER}`) ?? 'null') as LoggerMapping | null;
+    expect(preset?.co2.dry).toBe(true);
   });
 });

@@ -1,6 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
+import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import {
@@ -36,7 +37,7 @@ type Step = 'pick' | 'map' | 'parsing' | 'review' | 'done';
  */
 @Component({
   selector: 'fw-logger-import',
-  imports: [FormsModule, MatButtonModule, MatDialogModule, MatProgressBarModule],
+  imports: [FormsModule, MatButtonModule, MatCheckboxModule, MatDialogModule, MatProgressBarModule],
   templateUrl: './logger-import.html',
   styleUrl: './logger-import.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -210,7 +211,7 @@ export class LoggerImport {
       const tap = a[p.key].kind === 'closure' ? byId.get((a[p.key] as { closureId: string }).closureId) : null;
       // Elapsed-time files carry no clock: the tap's time stands in for the start.
       const start = p.startMs !== null ? p.startMs - shift : Date.parse(String(tap?.['chamberOnAt'] ?? new Date().toISOString()));
-      const series = pieceSeries(p);
+      const series = pieceSeries(p, this.mapping);
       const end = m?.correctedEndMs ?? start + 1000 * series.tS[series.tS.length - 1];
       return { series, startedAt: new Date(start).toISOString(), endedAt: new Date(end).toISOString() };
     };
