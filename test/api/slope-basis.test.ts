@@ -67,4 +67,13 @@ describe('Slope basis of a site and the soil area of a closure', () => {
     // Both values stay available for review: the exponential keeps its slope at closure.
     expect(after.results.raw.exponential.fluxAtClosureUmolM2S).toBeCloseTo(c.fluxUmolM2S, 8);
   });
+
+  it('when a collar\'s diameter is corrected, then its closures are asked to be recomputed (A is the collar\'s area)', async () => {
+    const collar = (await lead.get(`/api/collars/${world.collar.id}`)).body.record;
+    const res = await lead.patch(`/api/collars/${collar.id}`, { rev: collar.rev, diameterCm: 19.8 });
+    expect(res.status).toBe(200);
+    expect(res.body.record.areaCm2).toBeCloseTo((Math.PI * 19.8 * 19.8) / 4, 9);
+    const jobs = await t.ds.query(`SELECT data FROM job_outbox WHERE data->>'collarId' = $1 AND data->>'reason' = 'collar area changed'`, [collar.id]);
+    expect(jobs).toHaveLength(1);
+  });
 });
