@@ -1,6 +1,7 @@
 import Papa from 'papaparse';
 import { z } from 'zod';
 import { collarFields } from '../../shared/model/field-records';
+import { badRequest } from '../core/errors';
 
 /** What a collar CSV column can mean; `unit` is the only unit the import accepts for it. */
 export const IMPORT_TARGETS = {
@@ -25,6 +26,12 @@ const NUMERIC: ImportTarget[] = ['latitude', 'longitude', 'diameterCm', 'sideACm
 /** A spreadsheet export of a few thousand collars is far below this; anything larger is refused, not truncated. */
 export const MAX_CSV_BYTES = 512 * 1024;
 export const MAX_CSV_ROWS = 5000;
+/** Bounds on the parts of a file, so a hostile file costs little; the longest collar field (notes) is 4000 characters. */
+export const MAX_COLUMNS = 100;
+export const MAX_HEADER_CHARS = 200;
+export const MAX_CELL_CHARS = 4000;
+/** Structural errors listed one by one; more are counted in one last line. */
+export const MAX_FILE_ERRORS = 50;
 
 export const importRequestSchema = z.object({
   csv: z.string({ message: 'Send the CSV text in "csv"' }).min(1, 'The file is empty')
@@ -51,14 +58,26 @@ export interface ParsedTable {
 
 const UNIT_WORDS: Record<string, string> = { mm: 'mm', cm: 'cm', m: 'm', in: 'in', inch: 'in', inches: 'in', ft: 'ft', deg: '°', '°': '°' };
 
-/** Parses the CSV text; a structural problem (unbalanced quotes, ragged rows) names its row. */
+/**
+ * Parses the CSV text; a structural problem (unbalanced quotes, ragged rows) names its row. A
+ * file beyond the size bounds is refused whole (400 naming the bound) before any header is read.
+ */
 export function parseCsv(text: string): { table: ParsedTable; errors: CellError[] } {
   const res = Papa.parse<string[]>(text.replace(/^\uFEFF/, ''), { skipEmptyLines: 'greedy' });
-  const errors: CellError[] = res.errors.map((e) => ({ row: (e.row ?? 0) + 1, column: '(file)', message: `Malformed CSV: ${e.message}` }));
+  assertWithinBounds(res.data);
+  const errors: CellError[] = res.errors.slice(0, MAX_FILE_ERRORS).map((e) => ({ row: (e.row ?? 0) + 1, column: '(file)', message: `Malformed CSV: ${e.message}` }));
+  if (res.errors.length > MAX_FILE_ERRORS) {
+    errors.push({ row: (res.errors[MAX_FILE_ERRORS]!.row ?? 0) + 1, column: '(file)', message: `…and ${res.errors.length - MAX_FILE_ERRORS} more structural errors` });
+  }
   const [head, ...body] = res.data;
   if (!head || head.every((h) => !h.trim())) return { table: { headers: [], rows: [] }, errors: [{ row: 1, column: '(file)', message: 'The file has no header row' }] };
   const headers = head.map((h) => h.trim());
-  const dup = headers.find((h, i) => h && headers.indexOf(h) !== i);
+  const seenHeaders = new Set<string>();
+  let dup: string | undefined;
+  for (const h of headers) {
+    if (h && seenHeaders.has(h)) { dup = h; break; }
+    seenHeaders.add(h);
+  }
   if (dup) errors.push({ row: 1, column: dup, message: `The column "${dup}" appears twice` });
   if (body.length > MAX_CSV_ROWS) errors.push({ row: MAX_CSV_ROWS + 2, column: '(file)', message: `At most ${MAX_CSV_ROWS} collars per file` });
   const rows = body.slice(0, MAX_CSV_ROWS).map((cells, i) => {
@@ -71,7 +90,45 @@ export function parseCsv(text: string): { table: ParsedTable; errors: CellError[
   return { table: { headers, rows }, errors };
 }
 
-const norm = (s: string) => s.toLowerCase().replace(/\(.*?\)|\[.*?\]/g, '').replace(/[^a-z]/g, '');
+const shown = (s: string) => (s.length > 40 ? `${s.slice(0, 40)}…` : s);
+
+function assertWithinBounds(rows: string[][]): void {
+  const head = rows[0] ?? [];
+  if (head.length > MAX_COLUMNS) {
+    throw badRequest(`The file has more than ${MAX_COLUMNS} columns (${head.length}); keep the collar columns and remove the rest`);
+  }
+  const long = head.findIndex((h) => h.length > MAX_HEADER_CHARS);
+  if (long >= 0) {
+    throw badRequest(`Column header ${long + 1} ("${shown(head[long]!)}") is longer than ${MAX_HEADER_CHARS} characters`);
+  }
+  for (let r = 1; r < rows.length; r++) {
+    const c = rows[r]!.findIndex((cell) => cell.length > MAX_CELL_CHARS);
+    if (c >= 0) {
+      throw badRequest(`Row ${r + 1}, column "${shown(head[c] ?? String(c + 1))}": the cell is longer than ${MAX_CELL_CHARS} characters`);
+    }
+  }
+}
+
+/**
+ * A header reduced for guessing: lower-case letters only, a bracketed part ("(cm)", "[mm]")
+ * left out. One pass: the position of the next closing bracket is looked up only after the scan
+ * has passed the previous one, so a header of many "(" costs linear time (a lazy regular
+ * expression for the brackets rescanned the rest of the header from every "(").
+ */
+function norm(s: string): string {
+  const t = s.toLowerCase();
+  const next: Record<string, number> = { ')': -2, ']': -2 }; // -2: not looked up yet; -1: none left
+  let out = '';
+  for (let i = 0; i < t.length; i++) {
+    const c = t[i]!;
+    if (c === '(' || c === '[') {
+      const closer = c === '(' ? ')' : ']';
+      if (next[closer] !== -1 && next[closer]! < i) next[closer] = t.indexOf(closer, i);
+      if (next[closer] !== -1) i = next[closer]!;
+    } else if (c >= 'a' && c <= 'z') out += c;
+  }
+  return out;
+}
 const GUESSES: Record<ImportTarget, string[]> = {
   code: ['code', 'collar', 'collarcode', 'collarid', 'id', 'name'], plot: ['plot', 'plotcode', 'plotid'],
   treatment: ['treatment', 'treatmentcode'], latitude: ['lat', 'latitude'], longitude: ['lon', 'lng', 'long', 'longitude'],

@@ -35,7 +35,8 @@ export function readNumber(cell: string | undefined, decimalComma: boolean): num
   let v = cell.trim();
   if (!v) return null;
   if (decimalComma) v = v.replace(',', '.');
-  if (!/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(v)) return NaN;
+  // One way to match each digit (\d+\.?\d* splits a digit run in n ways and backtracks quadratically).
+  if (!/^[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?$/.test(v)) return NaN;
   return Number(v);
 }
 
