@@ -1,6 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import type { DataSource } from 'typeorm';
-import type { Role, SessionUser } from '../../shared/auth/roles';
+import { LEAD_INVITES, type Role, type SessionUser } from '../../shared/auth/roles';
 import { AppError, forbidden } from '../core/errors';
 import type { Mailer } from '../mail/mailer';
 import { INVITATION_TTL_MS, issueToken, markUsed, openToken } from './account-tokens';
@@ -30,9 +30,22 @@ export interface InvitationView {
 export function checkInviteRights(actor: SessionUser, input: InvitationInput): void {
   if (actor.roles.includes('admin')) return;
   if (!actor.roles.includes('lead')) throw forbidden('Only admins and leads invite people');
-  if (input.roles.some((r) => r !== 'crew')) throw forbidden('Leads invite crew only; ask an admin for other roles');
+  if (!leadMayGive(input.roles)) throw forbidden('Leads invite crew only; ask an admin for other roles');
   if (!input.siteIds.length) throw new AppError(400, 'Choose the site the crew member joins', [{ path: 'siteIds', message: 'Choose at least one site' }]);
-  if (input.siteIds.some((s) => !actor.siteIds.includes(s))) throw forbidden('Leads invite to their own sites only');
+  if (!withinSites(actor, input.siteIds)) throw forbidden('Leads invite to their own sites only');
+}
+
+const leadMayGive = (roles: readonly Role[]) => roles.length > 0 && roles.every((r) => LEAD_INVITES.includes(r));
+const withinSites = (actor: SessionUser, siteIds: readonly string[]) => siteIds.length > 0 && siteIds.every((s) => actor.siteIds.includes(s));
+
+/**
+ * The open invitations an actor sees and may withdraw are those the actor could have sent: any
+ * for an admin; for a lead only crew invitations to the lead's sites. Others do not exist for a
+ * lead (404, never a hint that an admin invited someone as lab or admin).
+ */
+export function mayManageInvitation(actor: SessionUser, invitation: { roles: readonly Role[]; siteIds: readonly string[] }): boolean {
+  if (actor.roles.includes('admin')) return true;
+  return actor.roles.includes('lead') && leadMayGive(invitation.roles) && withinSites(actor, invitation.siteIds);
 }
 
 async function siteNames(ds: DataSource, ids: string[]): Promise<{ id: string; name: string }[]> {
@@ -65,27 +78,29 @@ export async function invite(ds: DataSource, mailer: Mailer, actor: SessionUser,
   });
 }
 
-/** Open invitations an actor may see: all for an admin, those to the lead's sites for a lead. */
+interface OpenInvitationRow {
+  id: string; email: string; roles: Role[]; site_ids: string[] | null; sites: { id: string; name: string }[];
+  invited_by: string | null; created_at: Date; expires_at: Date;
+}
+
+/** Open invitations the actor may manage (mayManageInvitation), newest first. */
 export async function listInvitations(ds: DataSource, actor: SessionUser): Promise<InvitationView[]> {
-  const rows: Record<string, unknown>[] = await ds.query(`
+  const rows: OpenInvitationRow[] = await ds.query(`
     SELECT t.id, t.email, t.roles, t.site_ids, t.created_at, t.expires_at, u.display_name AS invited_by,
            coalesce((SELECT json_agg(json_build_object('id', s.id, 'name', s.name) ORDER BY s.name) FROM site s WHERE s.id = ANY(t.site_ids)), '[]') AS sites
       FROM account_token t LEFT JOIN app_user u ON u.id = t.created_by
      WHERE t.kind = 'invitation' AND t.used_at IS NULL AND t.revoked_at IS NULL AND t.expires_at > now()
-       AND ($1::uuid[] IS NULL OR t.site_ids <@ $1::uuid[])
-     ORDER BY t.created_at DESC`, [actor.roles.includes('admin') ? null : actor.siteIds]);
-  return rows.map((r) => ({
-    id: r['id'] as string, email: r['email'] as string, roles: r['roles'] as Role[], sites: r['sites'] as { id: string; name: string }[],
-    invitedBy: (r['invited_by'] as string | null) ?? null,
-    createdAt: (r['created_at'] as Date).toISOString(), expiresAt: (r['expires_at'] as Date).toISOString(),
+     ORDER BY t.created_at DESC`);
+  return rows.filter((r) => mayManageInvitation(actor, { roles: r.roles, siteIds: r.site_ids ?? [] })).map((r) => ({
+    id: r.id, email: r.email, roles: r.roles, sites: r.sites, invitedBy: r.invited_by ?? null,
+    createdAt: r.created_at.toISOString(), expiresAt: r.expires_at.toISOString(),
   }));
 }
 
-/** Withdraws an open invitation; a lead only one of the kind the lead may send. */
+/** Withdraws an open invitation the actor may manage; any other answers 404 like an unknown id. */
 export async function revokeInvitation(ds: DataSource, actor: SessionUser, id: string): Promise<void> {
   const [row] = await ds.query(`SELECT roles, site_ids FROM account_token WHERE id = $1 AND kind = 'invitation' AND used_at IS NULL AND revoked_at IS NULL`, [id]);
-  if (!row) throw new AppError(404, 'No open invitation with this id');
-  checkInviteRights(actor, { email: '', roles: row.roles, siteIds: row.site_ids ?? [] });
+  if (!row || !mayManageInvitation(actor, { roles: row.roles, siteIds: row.site_ids ?? [] })) throw new AppError(404, 'No open invitation with this id');
   await ds.query(`UPDATE account_token SET revoked_at = now() WHERE id = $1`, [id]);
 }
 

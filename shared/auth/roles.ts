@@ -5,6 +5,9 @@ export type Role = (typeof ROLES)[number];
 /** Roles that see every site; crew and leads see only the sites they are members of. */
 export const ALL_SITES_ROLES: readonly Role[] = ['lab', 'admin'];
 
+/** The roles a lead may give in an invitation (to the lead's own sites); admins invite any role. */
+export const LEAD_INVITES: readonly Role[] = ['crew'];
+
 export function seesAllSites(roles: readonly Role[]): boolean {
   return roles.some((r) => ALL_SITES_ROLES.includes(r));
 }
