@@ -1,4 +1,3 @@
-import type { Request } from 'express';
 import type { DataSource } from 'typeorm';
 import { z } from 'zod';
 import { ALL_ROLES, type RouteRegistry } from '../core/route-registry';
@@ -14,16 +13,12 @@ export const RESET_REQUESTED = 'If this address belongs to an account, a link to
 
 const idParam = z.object({ id: z.string().uuid('Invitation ids are UUIDs') });
 
-/** Links in mail point at APP_ORIGIN when set (behind a proxy), else where the request came in. */
-export function linkOrigin(mailer: Mailer, req: Request): string {
-  return mailer.config.appOrigin ?? `${req.protocol}://${req.get('host')}`;
-}
 
 /** Invitations (admins and leads), accepting one (public), password change (signed in) and reset (public). */
 export function registerAccountRoutes(r: RouteRegistry, ds: DataSource, mailer: Mailer): void {
   r.add('post', '/api/invitations', ['admin', 'lead'], async (req, res) => {
     const input = parse(invitationSchema, req.body);
-    const invitation = await invite(ds, mailer, req.user!, input, linkOrigin(mailer, req));
+    const invitation = await invite(ds, mailer, req.user!, input, mailer.config.appOrigin);
     res.status(201);
     return { invitation };
   });
@@ -55,11 +50,11 @@ export function registerAccountRoutes(r: RouteRegistry, ds: DataSource, mailer: 
   r.add('post', '/api/auth/password-reset', 'public', (req, res) => {
     const { email } = parse(resetRequestSchema, req.body);
     // Answered before the lookup and the mail, so the time taken says nothing about the address.
-    requestReset(ds, mailer, email, linkOrigin(mailer, req))
+    requestReset(ds, mailer, email, mailer.config.appOrigin)
       .catch((err: Error) => console.error('[mail] reset link not sent:', err.message));
     res.status(202);
     return { message: RESET_REQUESTED };
-  }, [resetRateLimit(ds)]);
+  }, resetRateLimit(ds));
 
   r.add('post', '/api/auth/password-reset/confirm', 'public', async (req, res) => {
     const body = parse(resetConfirmSchema, req.body);

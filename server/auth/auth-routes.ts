@@ -5,7 +5,7 @@ import { loginSchema } from '../../shared/auth/user-schemas';
 import { AppError } from '../core/errors';
 import { ALL_ROLES, type RouteRegistry } from '../core/route-registry';
 import { parse } from '../core/validate';
-import { csrfToken } from './csrf';
+import type { Csrf } from './csrf';
 import { SESSION_COOKIE } from './session-middleware';
 import type { RequestHandler } from 'express';
 
@@ -27,15 +27,15 @@ function logIn(req: Request, user: SessionUser): Promise<void> {
   return new Promise((resolve, reject) => req.logIn(user, (err) => (err ? reject(err) : resolve())));
 }
 
-export function registerAuthRoutes(r: RouteRegistry, passport: PassportStatic, loginLimiter: RequestHandler): void {
-  r.add('get', '/api/auth/csrf', 'public', (req) => ({ token: csrfToken(req) }));
+export function registerAuthRoutes(r: RouteRegistry, passport: PassportStatic, csrf: Csrf, loginLimiters: RequestHandler[]): void {
+  r.add('get', '/api/auth/csrf', 'public', (req, res) => ({ token: csrf.token(req, res) }));
 
   r.add('post', '/api/auth/login', 'public', async (req, res) => {
     req.body = parse(loginSchema, req.body, 'Enter your e-mail and password');
     const user = await authenticate(passport, req, res);
     await logIn(req, user);
     return { user };
-  }, [loginLimiter]);
+  }, loginLimiters);
 
   r.add('post', '/api/auth/logout', ALL_ROLES, async (req, res) => {
     await new Promise<void>((resolve, reject) => req.logout((err) => (err ? reject(err) : resolve())));

@@ -7,15 +7,18 @@ import type { PassportStatic } from 'passport';
 import type { DataSource } from 'typeorm';
 import { registerAttachmentRoutes } from '../attachments/attachment-routes';
 import { createObjectStorage } from '../attachments/object-storage';
+import { defineAuthPurgeJob } from '../auth/auth-purge-job';
 import { registerAuthRoutes } from '../auth/auth-routes';
-import { csrfProtection } from '../auth/csrf';
-import { loginRateLimit } from '../auth/login-rate-limit';
+import { createCsrf } from '../auth/csrf';
+import { loginRateLimits } from '../auth/login-rate-limit';
 import { createPassport } from '../auth/passport-setup';
 import { sessionMiddleware } from '../auth/session-middleware';
 import { registerBoardRoutes } from '../board/board-routes';
 import { registerCampaignRoutes } from '../campaigns/campaign-routes';
 import { registerBenchRoutes } from '../closures/bench-routes';
 import { registerJobRoutes } from '../jobs/job-routes';
+import { loadMailConfig } from '../mail/mail-config';
+import { createMailer } from '../mail/mailer';
 import { registerMailRoutes } from '../mail/mail-routes';
 import { registerRecordRoutes } from '../records/record-routes';
 import { registerResultsRoutes } from '../results/results-routes';
@@ -41,7 +44,7 @@ export interface AppHandle {
 export function createApp(ds: DataSource, config: ServerConfig): AppHandle {
   const app = express();
   app.disable('x-powered-by');
-  if (config.trustProxy) app.set('trust proxy', config.trustProxy);
+  if (config.trustProxy !== false) app.set('trust proxy', config.trustProxy);
   app.use(
     helmet({
       contentSecurityPolicy: {
@@ -70,15 +73,18 @@ export function createApp(ds: DataSource, config: ServerConfig): AppHandle {
   const passport = createPassport(ds) as unknown as PassportStatic;
   app.use('/api', sessionMiddleware(ds, config.sessionSecret));
   app.use('/api', passport.session());
-  app.use('/api', csrfProtection);
+  const csrf = createCsrf(config.sessionSecret);
+  app.use('/api', csrf.protect);
 
   const registry = new RouteRegistry(app);
   registerHealthRoute(registry, ds);
-  registerAuthRoutes(registry, passport, loginRateLimit(ds, config.loginMaxFailures, config.loginWindowMs));
+  registerAuthRoutes(registry, passport, csrf, loginRateLimits(ds, config));
+  defineAuthPurgeJob(); // expired counters and sessions, on a schedule
   registerUserRoutes(registry, ds);
-  registerMailRoutes(registry, ds); // invitations, password change/reset, the daily digest
+  // Invitations, password change/reset, the daily digest; every link in them uses config.appOrigin.
+  registerMailRoutes(registry, ds, createMailer({ ...loadMailConfig(), appOrigin: config.appOrigin }));
   registerCampaignRoutes(registry, ds); // before the generic /:id routes
-  registerSetupRoutes(registry, ds); // before the generic /:id routes
+  registerSetupRoutes(registry, ds, config.appOrigin); // before the generic /:id routes
   registerAttachmentRoutes(registry, ds, config.objectStorage ? createObjectStorage(config.objectStorage) : null);
   registerBenchRoutes(registry, ds);
   registerJobRoutes(registry, ds);

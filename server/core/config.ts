@@ -1,5 +1,9 @@
 import { randomBytes } from 'node:crypto';
+import { isIP } from 'node:net';
 import { objectStorageFromEnv, type ObjectStorageConfig } from '../attachments/object-storage';
+
+/** Express's "trust proxy" setting: off, every hop, a hop count, or addresses/subnets/names. */
+export type TrustProxy = boolean | number | string[];
 
 /** Everything the server reads from the environment, read once, with the defaults documented here. */
 export interface ServerConfig {
@@ -8,36 +12,107 @@ export interface ServerConfig {
   port: number;
   staticDir: string | null;
   sessionSecret: string;
+  /**
+   * The one origin of every absolute link the server hands out (mail, printed tags): APP_ORIGIN,
+   * else the server's own configured address. Never taken from a request's Host header.
+   */
+  appOrigin: string;
   /** Set behind a TLS reverse proxy: cookies then become Secure and req.ip the client's. */
-  trustProxy: string | false;
+  trustProxy: TrustProxy | string;
+  /** Failed sign-ins per e-mail and client address in the window. */
   loginMaxFailures: number;
+  /** Failed sign-ins per client address across all e-mails in the window (guessing many accounts). */
+  loginMaxFailuresPerAddress: number;
   loginWindowMs: number;
   /** S3-compatible storage for logger files and photos; null when not configured. */
   objectStorage: ObjectStorageConfig | null;
 }
 
-function int(name: string, fallback: number): number {
-  const raw = process.env[name];
+function int(env: NodeJS.ProcessEnv, name: string, fallback: number): number {
+  const raw = env[name];
   if (raw === undefined || raw === '') return fallback;
   const n = Number(raw);
   if (!Number.isFinite(n)) throw new Error(`${name} must be a number, got "${raw}"`);
   return n;
 }
 
-export function loadConfig(overrides: Partial<ServerConfig> = {}): ServerConfig {
-  const databaseUrl = overrides.databaseUrl ?? process.env['DATABASE_URL'];
+export function loadConfig(overrides: Partial<ServerConfig> = {}, env: NodeJS.ProcessEnv = process.env): ServerConfig {
+  const databaseUrl = overrides.databaseUrl ?? env['DATABASE_URL'];
   if (!databaseUrl) throw new Error('DATABASE_URL is not set (npm start sets it for its own cluster)');
+  const host = env['HOST'] ?? '127.0.0.1';
+  const port = int(env, 'PORT', 8080);
   return {
     databaseUrl,
-    host: process.env['HOST'] ?? '127.0.0.1',
-    port: int('PORT', 8080),
-    staticDir: process.env['STATIC_DIR'] ?? null,
+    host,
+    port,
+    staticDir: env['STATIC_DIR'] ?? null,
     // Sessions live in PostgreSQL; every process behind a proxy must share this secret.
-    sessionSecret: process.env['SESSION_SECRET'] ?? randomBytes(32).toString('hex'),
-    trustProxy: process.env['TRUST_PROXY'] || false,
-    loginMaxFailures: int('LOGIN_MAX_FAILURES', 8),
-    loginWindowMs: int('LOGIN_WINDOW_MS', 15 * 60 * 1000),
+    sessionSecret: env['SESSION_SECRET'] ?? randomBytes(32).toString('hex'),
+    appOrigin: appOrigin(env, host, port),
+    trustProxy: parseTrustProxy(env['TRUST_PROXY']),
+    loginMaxFailures: int(env, 'LOGIN_MAX_FAILURES', 8),
+    loginMaxFailuresPerAddress: int(env, 'LOGIN_MAX_FAILURES_PER_ADDRESS', 100),
+    loginWindowMs: int(env, 'LOGIN_WINDOW_MS', 15 * 60 * 1000),
     objectStorage: objectStorageFromEnv(),
     ...overrides,
   };
+}
+
+/**
+ * The origin for links in mail and on tags. A request's Host (or X-Forwarded-Host) is chosen by
+ * whoever sends it, so a reset link built from it can point at an attacker; hence only
+ * APP_ORIGIN, or in development the address this server is configured to listen on.
+ */
+export function appOrigin(env: NodeJS.ProcessEnv = process.env, host = env['HOST'] ?? '127.0.0.1', port = int(env, 'PORT', 8080)): string {
+  const raw = env['APP_ORIGIN']?.trim();
+  if (raw) return checkedOrigin(raw);
+  if (env['NODE_ENV'] === 'production') {
+    throw new Error('APP_ORIGIN is not set, and NODE_ENV=production needs it: set APP_ORIGIN to the address people open, '
+      + 'e.g. APP_ORIGIN=https://fluxwalk.example.org (links in invitation and reset mail and on printed tags use it).');
+  }
+  // A wildcard bind address is no place to send anyone; loopback is where it answers in development.
+  const linkHost = host === '0.0.0.0' || host === '::' || host === '' ? '127.0.0.1' : host.includes(':') ? `[${host}]` : host;
+  return `http://${linkHost}:${port}`;
+}
+
+function checkedOrigin(raw: string): string {
+  const bad = () => new Error(`APP_ORIGIN must be an origin like https://fluxwalk.example.org (scheme and host, optional port, no path), got "${raw}"`);
+  let url: URL;
+  try {
+    url = new URL(raw);
+  } catch {
+    throw bad();
+  }
+  const onlyOrigin = (url.pathname === '/' || url.pathname === '') && !url.search && !url.hash && !url.username && !url.password;
+  if (!['http:', 'https:'].includes(url.protocol) || !onlyOrigin || !/^https?:\/\//i.test(raw)) throw bad();
+  return url.origin;
+}
+
+const PROXY_NAMES = ['loopback', 'linklocal', 'uniquelocal'];
+
+/**
+ * TRUST_PROXY as Express means it: "true"/"false", a hop count ("1": trust the one proxy in
+ * front), or comma-separated addresses, subnets (CIDR) and the names loopback, linklocal,
+ * uniquelocal. Express reads a plain string "1" as an address, which trusts nothing; so the
+ * text is turned into the matching type here, and anything else stops the start with the forms.
+ */
+export function parseTrustProxy(raw: string | undefined): TrustProxy {
+  const text = (raw ?? '').trim();
+  if (text === '' || /^false$/i.test(text)) return false;
+  if (/^true$/i.test(text)) return true;
+  if (/^\d{1,3}$/.test(text)) return Number(text);
+  const entries = text.split(',').map((e) => e.trim());
+  if (entries.every(isProxyEntry)) return entries;
+  throw new Error(`TRUST_PROXY must be true, false, a hop count (1 = the one proxy in front), or comma-separated addresses, `
+    + `subnets (10.0.0.0/8) and the names loopback, linklocal, uniquelocal; got "${raw}"`);
+}
+
+function isProxyEntry(entry: string): boolean {
+  if (PROXY_NAMES.includes(entry)) return true;
+  const [addr, bits, ...rest] = entry.split('/');
+  const family = isIP(addr ?? '');
+  if (!family || rest.length) return false;
+  if (bits === undefined) return true;
+  if (!/^\d{1,3}$/.test(bits)) return false;
+  return Number(bits) <= (family === 4 ? 32 : 128);
 }

@@ -35,6 +35,7 @@ export async function startJobQueue(ds: DataSource, databaseUrl: string, opts: {
   for (const def of defs) {
     if (!(await boss.getQueue(def.name))) await boss.createQueue(def.name, { retryLimit: def.retryLimit ?? 2, expireInSeconds: 3600 });
     await boss.work(def.name, { batchSize: 1, pollingIntervalSeconds: opts.pollSeconds ?? 0.5 }, async ([job]) => run(ds, def, job.id, job.data as Record<string, unknown>));
+    if (def.schedule) await boss.schedule(def.name, def.schedule);
   }
   const names = new Set(defs.map((d) => d.name));
   let stopping = false;

@@ -14,6 +14,8 @@ export interface JobDefinition {
   handler: JobHandler;
   /** Attempts after the first failure (pg-boss retryLimit). */
   retryLimit?: number;
+  /** Cron (UTC) for housekeeping jobs nobody asks for; pg-boss sends each tick once across processes. */
+  schedule?: string;
 }
 
 const definitions = new Map<string, JobDefinition>();

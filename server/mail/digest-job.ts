@@ -45,7 +45,7 @@ export async function runDigest(ds: DataSource, mailer: Mailer, runId: string, c
   const digest = await buildDigest(ds, run.site_id);
   if (!digest) return { sent: 0, reason: 'site deleted' };
   const people = await recipients(ds, run);
-  const board = mailer.config.appOrigin ? `${mailer.config.appOrigin}/board` : null;
+  const board = `${mailer.config.appOrigin}/board`;
   let sent = 0;
   for (const [i, p] of people.entries()) {
     const [done] = await ds.query(`SELECT 1 FROM digest_delivery WHERE run_id = $1 AND user_id = $2`, [runId, p.id]);

@@ -1,3 +1,5 @@
+import { appOrigin } from '../core/config';
+
 /** Where mail goes and what links in it point at, from the environment (read once per app). */
 export interface MailConfig {
   /** Null when SMTP_HOST is unset: sending then fails with a clear message instead of guessing a server. */
@@ -6,8 +8,8 @@ export interface MailConfig {
   user: string | null;
   pass: string | null;
   from: string;
-  /** Origin for links in mail (https://fluxwalk.example.org); null: taken from the request that caused the mail. */
-  appOrigin: string | null;
+  /** Origin for links in mail: the server's one link origin (server/core/config.ts appOrigin). */
+  appOrigin: string;
 }
 
 export function loadMailConfig(env: NodeJS.ProcessEnv = process.env): MailConfig {
@@ -19,6 +21,6 @@ export function loadMailConfig(env: NodeJS.ProcessEnv = process.env): MailConfig
     user: env['SMTP_USER'] || null,
     pass: env['SMTP_PASS'] || null,
     from: env['MAIL_FROM'] || 'Fluxwalk <fluxwalk@localhost>',
-    appOrigin: env['APP_ORIGIN'] ? env['APP_ORIGIN'].replace(/\/+$/, '') : null,
+    appOrigin: appOrigin(env),
   };
 }

@@ -1,4 +1,4 @@
-import type { Request, Response } from 'express';
+import type { Response } from 'express';
 import type { DataSource } from 'typeorm';
 import { z } from 'zod';
 import type { RouteRegistry } from '../core/route-registry';
@@ -16,8 +16,6 @@ const idParam = z.object({ id: z.string().uuid('Chamber profile ids are UUIDs') 
 const SITE_KEEPERS = ['lead', 'admin'] as const;
 const ADMIN = ['admin'] as const;
 
-const origin = (req: Request) => `${req.protocol}://${req.get('host') ?? 'localhost'}`;
-
 /** A tag sheet as a download named after the site and paper, with the tag count for scripts. */
 function sendTagSheet(res: Response, sheet: { pdf: Buffer; count: number; siteName: string }, kind: string, paper: string): void {
   const site = sheet.siteName.replace(/[^A-Za-z0-9]+/g, '-').replace(/^-|-$/g, '').toLowerCase() || 'site';
@@ -32,7 +30,7 @@ function sendTagSheet(res: Response, sheet: { pdf: Buffer; count: number; siteNa
  * the printable tag sheet, and chamber-profile versions. Registered before the generic record
  * routes. Profile edits and deletes, and a collar's own treatment, are guarded in the writer, on every path.
  */
-export function registerSetupRoutes(r: RouteRegistry, ds: DataSource): void {
+export function registerSetupRoutes(r: RouteRegistry, ds: DataSource, appOrigin: string): void {
   guardWrites('chamberProfile', guardProfileWrite);
   guardWrites('collar', guardCollarTreatment);
   r.add('post', '/api/sites/:siteId/collar-import/preview', SITE_KEEPERS, async (req) => {
@@ -50,13 +48,13 @@ export function registerSetupRoutes(r: RouteRegistry, ds: DataSource): void {
   r.add('get', '/api/sites/:siteId/collar-tags.pdf', SITE_KEEPERS, async (req, res) => {
     const { siteId } = parse(siteParam, req.params);
     const q = parse(tagQuerySchema, req.query, 'The tag sheet options are not valid');
-    sendTagSheet(res, await collarTagSheet(ds, req.user!, siteId, q, origin(req)), 'collar-tags', q.paper);
+    sendTagSheet(res, await collarTagSheet(ds, req.user!, siteId, q, appOrigin), 'collar-tags', q.paper);
   });
 
   r.add('get', '/api/sites/:siteId/blank-collar-tags.pdf', SITE_KEEPERS, async (req, res) => {
     const { siteId } = parse(siteParam, req.params);
     const q = parse(blankTagQuerySchema, req.query, 'The blank tag options are not valid');
-    sendTagSheet(res, await blankTagSheet(ds, req.user!, siteId, q, origin(req)), 'new-collar-tags', q.paper);
+    sendTagSheet(res, await blankTagSheet(ds, req.user!, siteId, q, appOrigin), 'new-collar-tags', q.paper);
   });
 
   r.add('get', '/api/chamber-profiles/:id/usage', ['lead', 'lab', 'admin'], async (req) => {
