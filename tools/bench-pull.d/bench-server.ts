@@ -11,7 +11,7 @@ export async function startBenchServer(root: string, databaseUrl: string, port: 
   let output = '';
   const child: ChildProcess = spawn(process.execPath, [path.join(root, 'dist/server/server/main.js')], {
     cwd: root,
-    env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', DATABASE_URL: databaseUrl, STATIC_DIR: path.join(root, 'dist/app/browser'), NODE_ENV: 'production' },
+    env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', DATABASE_URL: databaseUrl, STATIC_DIR: path.join(root, 'dist/app/browser'), NODE_ENV: 'production', APP_ORIGIN: `http://127.0.0.1:${port}` },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
   const keep = (chunk: Buffer) => { output = (output + chunk.toString()).slice(-4000); };

@@ -69,6 +69,8 @@ export async function startAppServer(): Promise<RunningServer> {
       DATABASE_URL: databaseUrl,
       STATIC_DIR: path.dirname(APP_INDEX),
       NODE_ENV: 'production',
+      // Production refuses to start without the origin that mail links and tags point at.
+      APP_ORIGIN: `http://127.0.0.1:${port}`,
       S3_ENDPOINT: s3.config.endpoint,
       S3_BUCKET: s3.config.bucket,
       S3_REGION: s3.config.region,
