@@ -29,4 +29,18 @@ describe('temperature logger files', () => {
       expect((err as AppError).fields?.map((f) => f.message.split(':')[0])).toEqual(['Line 3', 'Line 4']);
     }
   });
+
+  it('when a hostile file has a huge cell or header, then the refusal quotes it shortened and answers at once', () => {
+    for (const text of [`time,soil_5cm\n${' '.repeat(800_000)}x,8.2\n`, `time,${'('.repeat(800_000)}\n2026-05-01 06:00:00,8.2\n`]) {
+      const started = Date.now();
+      try {
+        parseTemperatureText({ ...base, text });
+        throw new Error('expected a refusal');
+      } catch (err) {
+        expect(err).toBeInstanceOf(AppError);
+        expect(JSON.stringify({ m: (err as AppError).message, f: (err as AppError).fields }).length).toBeLessThan(2000);
+      }
+      expect(Date.now() - started).toBeLessThan(500);
+    }
+  });
 });

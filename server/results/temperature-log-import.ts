@@ -32,12 +32,15 @@ function pickFormat(sample: string, timeZone: string): TimestampFormat {
   return order.find((f) => readTimestamp(sample, f, timeZone).ok) ?? 'ISO-8601 with offset';
 }
 
+/** User text quoted back in a refusal, shortened: a hostile 900 kB cell must not come back whole. */
+const clip = (s: string, max = 120) => (s.length > max ? `${s.slice(0, max)}… (${s.length} characters)` : s);
+
 export function parseTemperatureText(body: Pick<TemperatureLogImport, 'text' | 'timeColumn' | 'tempColumn' | 'timeZone' | 'timeFormat'>): { t: string[]; tempC: number[] } {
   const layout = guessLayout(body.text);
   const rows = splitRows(body.text, layout.delimiter);
   const col = (name: string, path: string) => {
     const i = layout.headers.indexOf(name);
-    if (i < 0) throw badRequest(`The file has no column "${name}"`, [{ path, message: `Columns: ${layout.headers.join(', ')}` }]);
+    if (i < 0) throw badRequest(`The file has no column "${clip(name)}"`, [{ path, message: clip(`Columns: ${layout.headers.map((h) => clip(h, 40)).join(', ')}`, 600) }]);
     return i;
   };
   const ti = col(body.timeColumn, 'timeColumn');
@@ -52,8 +55,8 @@ export function parseTemperatureText(body: Pick<TemperatureLogImport, 'text' | '
     const at = readTimestamp(cells[ti] ?? '', format, body.timeZone, previous);
     const raw = (cells[ci] ?? '').trim();
     const temp = Number(layout.decimalComma ? raw.replace(',', '.') : raw);
-    if (!at.ok) problems.push({ path: 'text', message: `Line ${line}: ${at.message}` });
-    else if (raw === '' || !Number.isFinite(temp)) problems.push({ path: 'text', message: `Line ${line}: "${raw}" is not a temperature` });
+    if (!at.ok) problems.push({ path: 'text', message: `Line ${line}: ${clip(at.message, 300)}` });
+    else if (raw === '' || !Number.isFinite(temp)) problems.push({ path: 'text', message: `Line ${line}: "${clip(raw)}" is not a temperature` });
     else {
       previous = at.ms;
       t.push(new Date(at.ms).toISOString());
