@@ -1,5 +1,5 @@
 import { performance } from 'node:perf_hooks';
-import { MAX_CELL_CHARS, MAX_COLUMNS, MAX_HEADER_CHARS, parseCsv, resolveMapping } from './collar-csv';
+import { MAX_CELL_CHARS, MAX_COLUMNS, MAX_CSV_ROWS, MAX_HEADER_CHARS, parseCsv, resolveMapping } from './collar-csv';
 
 describe('collar CSV headers and bounds', () => {
   it('when a header is 50 000 "(" or "[" characters, then guessing the mapping is linear', () => {
@@ -36,5 +36,17 @@ describe('collar CSV headers and bounds', () => {
     expect(refused(`code,plot,notes\nC1,P1,${'n'.repeat(MAX_CELL_CHARS)}\n`)).toBeNull();
     expect(refused(`code,plot,notes\nC1,P1,ok\nC2,P1,${'n'.repeat(MAX_CELL_CHARS + 1)}\n`))
       .toEqual([400, `Row 3, column "notes": the cell is longer than ${MAX_CELL_CHARS} characters`]);
+  });
+
+  it('when a file has 5000 collar rows and blank lines, then it is read; 5001 rows are refused naming the bound', () => {
+    const rows = (n: number) => Array.from({ length: n }, (_, i) => `C${i},P1\n\n  \n`).join('');
+    expect(parseCsv(`code,plot\n${rows(MAX_CSV_ROWS)}`).table.rows).toHaveLength(MAX_CSV_ROWS);
+    expect(() => parseCsv(`code,plot\n${rows(MAX_CSV_ROWS + 1)}`)).toThrow(`The file has more than ${MAX_CSV_ROWS} collar rows; split it into files of at most ${MAX_CSV_ROWS}`);
+  });
+
+  it('when cells are quoted with delimiters, quotes and line breaks inside, or the file uses semicolons, then they read as written', () => {
+    const { table, errors } = parseCsv('code;plot;notes\r\n"C1";P1;"say ""hi""; then\nleave"\r\nC2;P2;\r\n');
+    expect(errors).toEqual([]);
+    expect(table.rows.map((r) => r.cells)).toEqual([{ code: 'C1', plot: 'P1', notes: 'say "hi"; then\nleave' }, { code: 'C2', plot: 'P2', notes: '' }]);
   });
 });

@@ -1,7 +1,6 @@
-import Papa from 'papaparse';
 import { z } from 'zod';
 import { collarFields } from '../../shared/model/field-records';
-import { badRequest } from '../core/errors';
+import { parseBoundedCsv } from './csv-bounds';
 
 /** What a collar CSV column can mean; `unit` is the only unit the import accepts for it. */
 export const IMPORT_TARGETS = {
@@ -63,8 +62,9 @@ const UNIT_WORDS: Record<string, string> = { mm: 'mm', cm: 'cm', m: 'm', in: 'in
  * file beyond the size bounds is refused whole (400 naming the bound) before any header is read.
  */
 export function parseCsv(text: string): { table: ParsedTable; errors: CellError[] } {
-  const res = Papa.parse<string[]>(text.replace(/^\uFEFF/, ''), { skipEmptyLines: 'greedy' });
-  assertWithinBounds(res.data);
+  const res = parseBoundedCsv(text.replace(/^\uFEFF/, ''), {
+    maxRows: MAX_CSV_ROWS, maxColumns: MAX_COLUMNS, maxHeaderChars: MAX_HEADER_CHARS, maxCellChars: MAX_CELL_CHARS,
+  });
   const errors: CellError[] = res.errors.slice(0, MAX_FILE_ERRORS).map((e) => ({ row: (e.row ?? 0) + 1, column: '(file)', message: `Malformed CSV: ${e.message}` }));
   if (res.errors.length > MAX_FILE_ERRORS) {
     errors.push({ row: (res.errors[MAX_FILE_ERRORS]!.row ?? 0) + 1, column: '(file)', message: `…and ${res.errors.length - MAX_FILE_ERRORS} more structural errors` });
@@ -79,8 +79,7 @@ export function parseCsv(text: string): { table: ParsedTable; errors: CellError[
     seenHeaders.add(h);
   }
   if (dup) errors.push({ row: 1, column: dup, message: `The column "${dup}" appears twice` });
-  if (body.length > MAX_CSV_ROWS) errors.push({ row: MAX_CSV_ROWS + 2, column: '(file)', message: `At most ${MAX_CSV_ROWS} collars per file` });
-  const rows = body.slice(0, MAX_CSV_ROWS).map((cells, i) => {
+  const rows = body.map((cells, i) => {
     const row = i + 2; // the header is row 1, as a spreadsheet numbers it
     if (cells.length !== headers.length) {
       errors.push({ row, column: '(file)', message: `Row has ${cells.length} cells but the header has ${headers.length}` });
@@ -88,25 +87,6 @@ export function parseCsv(text: string): { table: ParsedTable; errors: CellError[
     return { row, cells: Object.fromEntries(headers.map((h, j) => [h, (cells[j] ?? '').trim()])) };
   });
   return { table: { headers, rows }, errors };
-}
-
-const shown = (s: string) => (s.length > 40 ? `${s.slice(0, 40)}…` : s);
-
-function assertWithinBounds(rows: string[][]): void {
-  const head = rows[0] ?? [];
-  if (head.length > MAX_COLUMNS) {
-    throw badRequest(`The file has more than ${MAX_COLUMNS} columns (${head.length}); keep the collar columns and remove the rest`);
-  }
-  const long = head.findIndex((h) => h.length > MAX_HEADER_CHARS);
-  if (long >= 0) {
-    throw badRequest(`Column header ${long + 1} ("${shown(head[long]!)}") is longer than ${MAX_HEADER_CHARS} characters`);
-  }
-  for (let r = 1; r < rows.length; r++) {
-    const c = rows[r]!.findIndex((cell) => cell.length > MAX_CELL_CHARS);
-    if (c >= 0) {
-      throw badRequest(`Row ${r + 1}, column "${shown(head[c] ?? String(c + 1))}": the cell is longer than ${MAX_CELL_CHARS} characters`);
-    }
-  }
 }
 
 /**

@@ -63,6 +63,8 @@ describe('hostile collar files', () => {
     { name: 'a notes cell of 300 000 spaces', csv: `code,plot,notes\nC1,P1,"a${' '.repeat(300_000)}"\n`, limit: /cell.*longer than 4000 characters/i },
     // Broken quoting makes one quoted cell of the rest of the file (150 000 parser errors before).
     { name: 'nothing but broken quoting', csv: `code,plot\n${'"a"b,c\n'.repeat(60_000)}`, limit: /cell.*longer than 4000 characters/i },
+    { name: '60 000 short rows with stray quotes', csv: `code,plot\n${'"a"b",x\n'.repeat(60_000)}`, limit: /more than 5000 collar rows/i },
+    { name: '120 000 plain rows', csv: `code,plot\n${'a,x\n'.repeat(120_000)}`, limit: /more than 5000 collar rows/i },
   ];
 
   it.each(cases)('when the file has $name, then 400 names the limit at once and health stays responsive', async ({ csv, limit }) => {
