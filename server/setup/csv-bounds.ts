@@ -19,8 +19,8 @@ const shown = (s: string) => (s.length > 40 ? `${s.slice(0, 40)}…` : s);
  * refuses only fields over twice the bound and the parsed cells are checked exactly after.
  */
 export function parseBoundedCsv(text: string, b: CsvBounds): Papa.ParseResult<string[]> {
-  // The delimiter as the parser guesses it, from the first lines only (cheap whatever follows).
-  const delimiter = Papa.parse<string[]>(text.slice(0, 64 * 1024), { preview: 10, skipEmptyLines: 'greedy' }).meta.delimiter || ',';
+  // The delimiter as the parser guesses it from the first few kilobytes (cheap whatever follows).
+  const delimiter = Papa.parse<string[]>(text.slice(0, 8 * 1024), { preview: 10, skipEmptyLines: 'greedy' }).meta.delimiter || ',';
   measureRaw(text, delimiter, b);
   const res = Papa.parse<string[]>(text, { delimiter, skipEmptyLines: 'greedy' });
   checkParsed(res.data, b);
