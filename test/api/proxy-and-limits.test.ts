@@ -76,6 +76,23 @@ describe('behind a TLS reverse proxy with TRUST_PROXY=1', () => {
     expect((await login(otherAddress(), emails[5], 'fluxwalk-demo')).status).toBe(200);
   });
 
+  it('when two server processes share the database, then failures from one address through either count together', async () => {
+    const other = await startTestApp();
+    try {
+      const guesser = clientAddress();
+      const emails: string[] = [];
+      for (let i = 0; i < 6; i++) emails.push(await freshUser());
+      const statuses: number[] = [];
+      for (const [i, email] of emails.entries()) {
+        const app = i % 2 ? other.app : t.app;
+        statuses.push((await request(app).post('/api/auth/login').set('X-Forwarded-For', guesser).send({ email, password: 'wrong' })).status);
+      }
+      expect(statuses).toEqual([401, 401, 401, 401, 401, 429]);
+    } finally {
+      await other.close();
+    }
+  });
+
   it('when one address asks for resets of many accounts, then it is stopped after 20 while another address still may ask', async () => {
     const from = clientAddress();
     const agent = request.agent(t.app);
