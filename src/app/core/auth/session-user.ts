@@ -1,7 +1,7 @@
-import { ROLES, type Role, type SessionUser } from '../../../../shared/auth/roles';
+import { LEAD_INVITES, ROLES, type Role, type SessionUser } from '../../../../shared/auth/roles';
 
 /** The signed-in user as the server describes it (`/api/auth/login`, `/api/auth/me`): one type, from shared/. */
-export { ROLES, type Role, type SessionUser };
+export { LEAD_INVITES, ROLES, type Role, type SessionUser };
 
 export interface SiteSummary {
   id: string;

@@ -5,7 +5,7 @@ import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { AuthStore } from '../../core/auth/auth-store';
-import { ROLES, type Role } from '../../core/auth/session-user';
+import { LEAD_INVITES, ROLES, type Role } from '../../core/auth/session-user';
 import { FormSubmit } from '../../core/forms/form-submit';
 import { AccountApi, type OpenInvitation } from './account-api';
 import { describeAccountError } from './password-hint';
@@ -39,9 +39,9 @@ export class InviteMember {
   readonly siteId = input<string>('');
 
   protected readonly isAdmin = computed(() => this.auth.roles().includes('admin'));
-  protected readonly roleChoices = computed<readonly Role[]>(() => (this.isAdmin() ? ROLES : ['crew']));
+  protected readonly roleChoices = computed<readonly Role[]>(() => (this.isAdmin() ? ROLES : LEAD_INVITES));
   protected readonly sites = this.auth.sites;
-  protected readonly chosenRoles = signal<Role[]>(['crew']);
+  protected readonly chosenRoles = signal<Role[]>([...LEAD_INVITES]);
   protected readonly chosenSites = signal<string[]>([]);
   protected readonly open = signal<OpenInvitation[]>([]);
   protected readonly done = signal('');
