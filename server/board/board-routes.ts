@@ -5,7 +5,8 @@ import { parse } from '../core/validate';
 import { answer } from '../records/record-routes';
 import { siteForActor } from '../setup/site-access';
 import { findAnomalies } from './anomalies';
-import { setCampaignLock } from './campaign-lock';
+import { guardWrites } from '../records/write-guards';
+import { guardCampaignLock, setCampaignLock } from './campaign-lock';
 import { listDevices } from './devices';
 import { progressCsv } from './progress-csv';
 import { fieldMembers } from './site-members';
@@ -20,6 +21,7 @@ const anomalyQuery = z.object({
 
 /** The Board's own routes: progress as CSV, anomalies, devices, and closing/reopening a campaign. */
 export function registerBoardRoutes(r: RouteRegistry, ds: DataSource): void {
+  guardWrites('campaign', guardCampaignLock);
   r.add('get', '/api/campaigns/:id/progress.csv', ALL_ROLES, async (req, res) => {
     const { id } = parse(campaignParams, req.params);
     const { round } = parse(roundQuery, req.query);

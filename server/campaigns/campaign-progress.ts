@@ -1,4 +1,4 @@
-import type { DataSource } from 'typeorm';
+import type { DataSource, EntityManager } from 'typeorm';
 import { seesAllSites, type SessionUser } from '../../shared/auth/roles';
 import { notFound } from '../core/errors';
 
@@ -158,7 +158,8 @@ function readCollars(text: string): { c: Collars; order: Int32Array; placeOf: Ma
   return { c, order, placeOf };
 }
 
-export async function campaignProgress(ds: DataSource, user: SessionUser, campaignId: string, round: number | null) {
+/** A campaign's progress; inside a write (an EntityManager) it counts the transaction's own records too. */
+export async function campaignProgress(ds: DataSource | EntityManager, user: SessionUser, campaignId: string, round: number | null) {
   const [camp] = await ds.query(
     `SELECT site_id, rounds, due_offset, due_closures, due_probes FROM campaign WHERE id = $1 AND NOT deleted`, [campaignId]);
   if (!camp || (!seesAllSites(user.roles) && !user.siteIds.includes(camp.site_id))) throw notFound('No such campaign');

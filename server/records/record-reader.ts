@@ -1,11 +1,12 @@
 import type { DataSource } from 'typeorm';
 import { z } from 'zod';
-import { seesAllSites, type SessionUser } from '../../shared/auth/roles';
+import { readsSite, seesAllSites, type SessionUser } from '../../shared/auth/roles';
 import { ATTACHMENT_OWNERS } from '../../shared/model/field-records';
 import { notFound } from '../core/errors';
 import { parse } from '../core/validate';
 import type { EntityDef } from './entity-registry';
 import { toWire } from './wire';
+import { noRecordMessage } from './write-outcome';
 
 /** Query parameters every list route understands; a filter applies only where the entity has that field. */
 const listQuery = z.object({
@@ -66,6 +67,6 @@ export async function getRecord(ds: DataSource, d: EntityDef, user: SessionUser,
   parse(z.string().uuid('Ids are UUIDs'), id);
   const row = await ds.getRepository(d.target).findOneBy({ id });
   const siteId = row ? (d.name === 'site' ? row['id'] : row['siteId']) : null;
-  if (!row || (!seesAllSites(user.roles) && !user.siteIds.includes(siteId))) throw notFound(`No ${d.name} ${id}`);
+  if (!row || !readsSite(user, siteId)) throw notFound(noRecordMessage(d.name, id));
   return toWire(row);
 }

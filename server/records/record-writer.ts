@@ -1,5 +1,5 @@
 import type { EntityManager, ObjectLiteral } from 'typeorm';
-import { seesAllSites, type Role } from '../../shared/auth/roles';
+import { readsSite, type Role } from '../../shared/auth/roles';
 import { DERIVED_FIELDS, ENTITY_FIELDS, type EntityName } from '../../shared/model/entities';
 import { CLOSURE_REVIEW_FIELDS } from '../../shared/model/field-records';
 import { fieldErrorsFromZod } from '../core/errors';
@@ -10,7 +10,7 @@ import { ENTITY_DEFS, type EntityDef, type WriteAction } from './entity-registry
 import { deriveFields, warningsFor } from './record-derivations';
 import { checkReferences, forgetReference, lockedCampaignMessage } from './record-references';
 import { sameValue, toWire } from './wire';
-import { rejected, type WriteOutcome } from './write-outcome';
+import { noRecordMessage, rejected, type WriteOutcome } from './write-outcome';
 
 export type { WriteOutcome } from './write-outcome';
 export { ChangeBuffer } from './change-buffer';
@@ -49,6 +49,9 @@ export async function writeRecord(em: EntityManager, actor: Actor, op: WriteOp, 
     if (created !== ID_TAKEN) return created;
   }
   const existing = await lockRecord(em, d, op.id);
+  // Before any branch that can answer the stored record: who may see it, then who may do this to it.
+  const refused = existing ? accessDenied(ctx, op, existing) : null;
+  if (refused) return refused;
   if (op.op === 'delete') return deleteRecord(ctx, op, existing);
   if (!existing) {
     if (op.baseRev !== null) return rejected(404, `There is no ${op.entity} ${op.id} to change`);
@@ -87,6 +90,16 @@ function clientFields(entity: EntityName, fields: Record<string, unknown>): Reco
   return Object.fromEntries(Object.entries(fields ?? {}).filter(([k]) => !META.includes(k) && !derived.includes(k)));
 }
 
+/**
+ * A stored record the actor may not read is answered as a read would (404, the same message), so no
+ * write branch hands back another site's record; then the role for what the op would do to it.
+ */
+function accessDenied(ctx: Ctx, op: WriteOp, existing: ObjectLiteral): WriteOutcome | null {
+  const siteId = siteOf(ctx.d, op.id, existing);
+  if (!readsSite(ctx.actor, siteId)) return rejected(404, noRecordMessage(ctx.d.name, op.id));
+  return roleDenied(ctx, op.op === 'delete' ? 'delete' : op.baseRev === null ? 'create' : 'update');
+}
+
 function roleDenied(ctx: Ctx, action: WriteAction): WriteOutcome | null {
   const allowed = ctx.d.rules[action];
   if (ctx.actor.roles.some((r) => allowed.includes(r))) return null;
@@ -98,7 +111,7 @@ function siteOf(d: EntityDef, id: string, rec: Record<string, unknown>): string 
 }
 
 function membershipDenied(ctx: Ctx, siteId: string): WriteOutcome | null {
-  if (seesAllSites(ctx.actor.roles) || ctx.actor.siteIds.includes(siteId)) return null;
+  if (readsSite(ctx.actor, siteId)) return null;
   return rejected(403, 'You are not a member of this site');
 }
 
@@ -169,8 +182,6 @@ async function updateRecord(ctx: Ctx, op: WriteOp, current: Record<string, unkno
   const rev = Number(current['rev']);
   const changed = Object.keys(incoming).filter((k) => !sameValue(incoming[k], current[k]));
   if (!changed.length) return { status: 'applied', rev, record: current };
-  const denied = roleDenied(ctx, 'update');
-  if (denied) return denied;
   const siteId = siteOf(d, op.id, current);
   const fixed = changed.filter((k) => d.immutable.includes(k));
   if (fixed.length) return rejected(400, `${fixed.join(', ')} cannot change after creation`, fixed.map((path) => ({ path, message: 'Fixed at creation' })));
@@ -183,8 +194,7 @@ async function updateRecord(ctx: Ctx, op: WriteOp, current: Record<string, unkno
   const v = validate(d.name, { ...current, ...Object.fromEntries(changed.map((k) => [k, incoming[k]])) });
   if (v.error) return v.error;
   const next = v.value;
-  const guard = membershipDenied(ctx, siteId)
-    ?? ruleDenied(ctx, 'update', changed, next)
+  const guard = ruleDenied(ctx, 'update', changed, next)
     ?? (await checkReferences(ctx.em, d, siteId, next, changed))
     ?? (reviewOnly(d, changed) ? null : await lockedCampaignMessage(ctx.em, d, next))
     ?? (await checkGuards({ em: ctx.em, entity: d.name, id: op.id, action: 'update', current, next, changed }));
@@ -206,7 +216,7 @@ async function deleteRecord(ctx: Ctx, op: WriteOp, existing: ObjectLiteral | nul
   const rev = Number(current['rev']);
   if (current['deleted']) return { status: 'applied', rev, record: current };
   const siteId = siteOf(d, op.id, current);
-  const guard = roleDenied(ctx, 'delete') ?? membershipDenied(ctx, siteId) ?? (await lockedCampaignMessage(ctx.em, d, current))
+  const guard = (await lockedCampaignMessage(ctx.em, d, current))
     ?? (await checkGuards({ em: ctx.em, entity: d.name, id: op.id, action: 'delete', current, next: current, changed: ['deleted'] }));
   if (guard) return guard;
   if (op.baseRev !== null && op.baseRev < rev) {

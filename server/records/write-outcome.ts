@@ -24,3 +24,11 @@ export interface WriteOutcome {
 export function rejected(httpStatus: number, message: string, fields?: FieldError[]): WriteOutcome {
   return { status: 'rejected', httpStatus, error: fields?.length ? { message, fields } : { message } };
 }
+
+/**
+ * What a read answers for a record the caller may not see (or that does not exist); every write
+ * path answers the same, so a write never tells more about another site's record than a read.
+ */
+export function noRecordMessage(entity: string, id: string): string {
+  return `No ${entity} ${id}`;
+}

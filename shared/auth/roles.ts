@@ -12,6 +12,11 @@ export function seesAllSites(roles: readonly Role[]): boolean {
   return roles.some((r) => ALL_SITES_ROLES.includes(r));
 }
 
+/** Whether a user may read the records of a site: every site for lab and admin, their memberships otherwise. */
+export function readsSite(user: { roles: readonly Role[]; siteIds: readonly string[] }, siteId: string): boolean {
+  return seesAllSites(user.roles) || user.siteIds.includes(siteId);
+}
+
 /** What the API answers for the signed-in user (`/api/auth/login`, `/api/auth/me`). */
 export interface SessionUser {
   id: string;

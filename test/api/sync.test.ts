@@ -93,11 +93,12 @@ describe('sync push and pull', () => {
     expect(rg.status).toBe('applied');
   });
 
-  it("when a crew member pushes to another site's collar, then it is rejected", async () => {
+  it("when a crew member pushes to another site's collar, then it is rejected as a read would be, without the record", async () => {
     const crew = await signIn(t.app, demoEmail('crew'));
     const base = await currentCollar();
     const r = (await push(crew, [collarEdit(base.rev, { notes: 'not my site' })], randomUUID())).body.results[0];
-    expect(r).toMatchObject({ status: 'rejected', error: { message: 'You are not a member of this site' } });
+    expect(r).toMatchObject({ status: 'rejected', error: { message: `No collar ${world.collar.id}` } });
+    expect(r.record).toBeUndefined();
   });
 
   it('when pulling in pages, then every page is ordered, the cursor advances and the last page says more=false', async () => {
