@@ -17,7 +17,7 @@ describe('writes never answer a record the caller may not read', () => {
   /** Nothing of the foreign record may appear in an answer: no code, no notes, no coordinates, no ids of its neighbours. */
   const leaks = (body: unknown, w: World) => {
     const text = JSON.stringify(body);
-    return [String(w.collar['code']), String(w.collar['notes']), '47.1239876', w.site.id, w.plot.id, String(w.campaign['name'])]
+    return [String(w.collar['code']), String(w.collar['notes']), String(w.collar['latitude']), w.site.id, w.plot.id, String(w.campaign['name'])]
       .filter((needle) => text.includes(needle));
   };
 

@@ -41,14 +41,16 @@ const made = async (s: Session, entity: EntityName, body: Record<string, unknown
 export async function buildWorld(m: WorldMakers, leadId: string, marker: string): Promise<World> {
   const w = {} as World;
   const hex = randomBytes(32).toString('hex');
-  w.site = await made(m.admin, 'site', { name: `Site ${marker}`, timezone: 'UTC', elevationM: 321, latitude: 47.1234567, longitude: 8.7654321 });
+  // Coordinates of this world only (7 decimals), so an answer that shows them is caught.
+  const coord = (base: number) => Number(`${base}.${String(randomBytes(4).readUInt32BE() % 1e6).padStart(6, '0')}${1 + (randomBytes(1)[0] % 9)}`);
+  w.site = await made(m.admin, 'site', { name: `Site ${marker}`, timezone: 'UTC', elevationM: 321, latitude: coord(47), longitude: coord(8) });
   await addMember(m.admin, leadId, [w.site.id]);
   const siteId = w.site.id;
   w.block = await made(m.admin, 'block', { siteId, code: `B${marker}` });
   w.treatment = await made(m.admin, 'treatment', { siteId, code: `T${marker}`, level: 'plot' });
   w.plot = await made(m.admin, 'plot', { siteId, code: `P${marker}`, blockId: w.block.id, treatmentId: w.treatment.id });
   w.collar = await made(m.lead, 'collar', { siteId, code: `C${marker}`, plotId: w.plot.id, diameterCm: 20, notes: `notes ${marker}`,
-    latitude: 47.1239876, longitude: 8.7651234 });
+    latitude: coord(46), longitude: coord(7) });
   w.collarEvent = await made(m.lead, 'collarEvent', { siteId, collarId: w.collar.id, kind: 'clipped', date: '2026-06-02', note: `event ${marker}` });
   w.chamberProfile = await made(m.admin, 'chamberProfile', { siteId, name: `Profile ${marker}`, validFrom: '2026-01-01', chamberVolumeCm3: 4000, loopVolumeCm3: 100 });
   w.analyzer = await made(m.admin, 'analyzer', { siteId, name: `Analyzer ${marker}`, serial: `SN-${marker}` });
