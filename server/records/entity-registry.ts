@@ -35,8 +35,17 @@ export interface EntityDef {
   target: EntityTarget<ObjectLiteral>;
   table: string;
   rules: EntityRules;
-  /** Reference fields that must point at a live record of the same site. */
+  /**
+   * References that must point at a live record of the same site, by path: `visitId`, or a list
+   * (`collarIds[]`, `routes[].routeId`).
+   */
   refs: Partial<Record<string, EntityName>>;
+  /** A reference whose entity is named by another field (an attachment's owner). */
+  owner?: { entityField: string; idField: string };
+  /** Paths of user ids that must be members of the record's site. */
+  members?: readonly string[];
+  /** A parent whose fields the record must carry unchanged (a reading carries its visit's collar and campaign). */
+  agreements?: readonly { ref: string; target: EntityName; same: readonly string[] }[];
   /** Records that belong to a campaign: refused while it is locked. */
   underCampaign: boolean;
   /** Fields fixed at creation. */
@@ -50,6 +59,11 @@ export interface EntityDef {
 const ADMIN: Role[] = ['admin'];
 const FIELD: Role[] = ['crew', 'lead'];
 const LEAD: Role[] = ['lead'];
+/**
+ * Readings, offset sets and closures name their visit and carry its collar and campaign (a record
+ * that disagrees is refused with a field message rather than corrected, so a device bug shows).
+ */
+const UNDER_VISIT = { ref: 'visitId', target: 'visit', same: ['collarId', 'campaignId'] } as const;
 const has = (roles: readonly Role[], ...any: Role[]) => roles.some((r) => any.includes(r));
 
 /** Crew may change a collar's notes and report it damaged; geometry and lifecycle are the lead's. */
@@ -87,7 +101,8 @@ function def(name: EntityName, target: EntityTarget<ObjectLiteral>, table: strin
 }
 
 export const ENTITY_DEFS: Record<EntityName, EntityDef> = {
-  site: def('site', SiteEntity, 'site', { create: ADMIN, update: ADMIN, delete: ADMIN }, { immutable: [], order: { name: 'ASC' } }),
+  site: def('site', SiteEntity, 'site', { create: ADMIN, update: ADMIN, delete: ADMIN },
+    { refs: { defaultProfileId: 'chamberProfile' }, immutable: [], order: { name: 'ASC' } }),
   block: def('block', BlockEntity, 'block', { create: ADMIN, update: ADMIN, delete: ADMIN }, { order: { code: 'ASC' } }),
   treatment: def('treatment', TreatmentEntity, 'treatment', { create: ADMIN, update: ADMIN, delete: ADMIN }, { order: { code: 'ASC' } }),
   plot: def('plot', PlotEntity, 'plot', { create: ADMIN, update: ADMIN, delete: ADMIN },
@@ -102,23 +117,26 @@ export const ENTITY_DEFS: Record<EntityName, EntityDef> = {
   analyzerCheck: def('analyzerCheck', AnalyzerCheckEntity, 'analyzer_check', { create: ['crew', 'lead', 'admin'], update: LEAD, delete: LEAD },
     { refs: { analyzerId: 'analyzer' }, timeField: 'at', order: { at: 'DESC' } }),
   route: def('route', RouteEntity, 'route', { create: ['lead', 'admin'], update: ['lead', 'admin'], delete: ['lead', 'admin'] },
-    { order: { name: 'ASC' } }),
+    { refs: { 'collarIds[]': 'collar' }, order: { name: 'ASC' } }),
   campaign: def('campaign', CampaignEntity, 'campaign', { create: LEAD, update: LEAD, delete: LEAD },
-    { timeField: 'startsOn', order: { startsOn: 'DESC' } }),
+    { refs: { 'routes[].routeId': 'route' }, members: ['routes[].crewIds[]'], timeField: 'startsOn', order: { startsOn: 'DESC' } }),
   visit: def('visit', VisitEntity, 'visit', { create: FIELD, update: FIELD, delete: LEAD },
-    { refs: { campaignId: 'campaign', collarId: 'collar' }, underCampaign: true,
+    { refs: { campaignId: 'campaign', collarId: 'collar' }, members: ['crewId'], underCampaign: true,
       immutable: ['siteId', 'campaignId', 'collarId', 'round'], timeField: 'arrivedAt', order: { arrivedAt: 'ASC' } }),
   offsetSet: def('offsetSet', OffsetSetEntity, 'offset_set', { create: FIELD, update: FIELD, delete: LEAD, fieldRule: offsetFieldRule },
     { refs: { visitId: 'visit', collarId: 'collar', campaignId: 'campaign', supersedesId: 'offsetSet' }, underCampaign: true,
+      agreements: [UNDER_VISIT, { ref: 'supersedesId', target: 'offsetSet', same: ['collarId'] }],
       timeField: 'takenAt', order: { takenAt: 'ASC' } }),
   probeReading: def('probeReading', ProbeReadingEntity, 'probe_reading', { create: FIELD, update: FIELD, delete: LEAD },
-    { refs: { visitId: 'visit', collarId: 'collar', campaignId: 'campaign' }, underCampaign: true,
+    { refs: { visitId: 'visit', collarId: 'collar', campaignId: 'campaign' }, underCampaign: true, agreements: [UNDER_VISIT],
       immutable: ['siteId', 'visitId', 'collarId', 'campaignId'], timeField: 'takenAt', order: { takenAt: 'ASC' } }),
   closure: def('closure', ClosureEntity, 'closure', { create: FIELD, update: ['crew', 'lead', 'lab'], delete: LEAD, fieldRule: closureFieldRule },
-    { refs: { visitId: 'visit', collarId: 'collar', campaignId: 'campaign', profileId: 'chamberProfile', analyzerId: 'analyzer' },
+    { refs: { visitId: 'visit', collarId: 'collar', campaignId: 'campaign', profileId: 'chamberProfile', analyzerId: 'analyzer',
+      sourceAttachmentId: 'attachment', redoOfId: 'closure' },
+      agreements: [UNDER_VISIT, { ref: 'redoOfId', target: 'closure', same: ['visitId'] }],
       underCampaign: true, immutable: ['siteId', 'visitId', 'collarId', 'campaignId'], timeField: 'startedAt', order: { startedAt: 'ASC' } }),
   attachment: def('attachment', AttachmentEntity, 'attachment', { create: ['crew', 'lead', 'admin'], update: ['crew', 'lead', 'admin'], delete: LEAD },
-    { immutable: ['siteId', 'ownerEntity', 'ownerId', 'sha256', 'sizeBytes', 'mediaType'] }),
+    { owner: { entityField: 'ownerEntity', idField: 'ownerId' }, immutable: ['siteId', 'ownerEntity', 'ownerId', 'sha256', 'sizeBytes', 'mediaType'] }),
   temperatureLog: def('temperatureLog', TemperatureLogEntity, 'temperature_log', { create: ['lab', 'admin'], update: ['lab', 'admin'], delete: ['lab', 'admin'] },
     { refs: { plotId: 'plot' }, order: { depthCm: 'ASC' } }),
 };

@@ -86,6 +86,10 @@ describe('chamber profile versions', () => {
   });
 
   it('when the campaign is locked, then the preview counts its closures as kept, not recomputed', async () => {
+    // Locking needs every collar complete: the visit's probe reading is the item still due.
+    const c = (await lead.get(`/api/closures/${closureId}`)).body.record;
+    expect((await lead.post('/api/probe-readings', { siteId, visitId: c.visitId, collarId: c.collarId, campaignId: campaign.id,
+      takenAt: '2026-06-01T08:05:00Z' })).status).toBe(201);
     const locked = await lead.patch(`/api/campaigns/${campaign.id}`, { rev: campaign.rev, locked: true });
     expect(locked.status).toBe(200);
     const res = await admin.post(`/api/sites/${siteId}/chamber-profiles/recompute-preview`, { validFrom: '2026-05-15' });
