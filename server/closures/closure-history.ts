@@ -5,7 +5,7 @@ import type { WrittenRecord } from '../records/after-write';
 export interface HistoryEntry {
   id: number;
   at: string;
-  kind: 'decision' | 'recompute';
+  kind: 'decision' | 'recompute' | 'raw-change';
   field: string;
   oldValue: unknown;
   newValue: unknown;
@@ -16,22 +16,34 @@ export interface HistoryEntry {
   jobId: string | null;
 }
 
+const isReviewField = (f: string) => (CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f);
+
+/** A history value: large raw values (the series) are summarised by their sample count. */
+function historyValue(field: string, v: unknown): string {
+  if (field === 'series' && v && typeof v === 'object') return JSON.stringify({ samples: ((v as { tS?: unknown[] }).tS ?? []).length });
+  return JSON.stringify(v ?? null);
+}
+
 /**
  * Every review decision, whichever way it arrives (Bench, REST, a sync push), leaves one history
- * row per review field it changed: who, when, old → new, and the flux before and after.
- * Runs in the writer's transaction (see records/after-write.ts).
+ * row per review field it changed: who, when, old → new, and the flux before and after. A raw
+ * change to a reviewed closure (which sends it back to review, see reviewResetOnRawChange) leaves
+ * `raw-change` rows instead: one per raw field and one for the review state it reset, all by the
+ * person who changed the data. Runs in the writer's transaction (see records/after-write.ts).
  */
 export async function recordReviewDecision(w: WrittenRecord): Promise<void> {
   if (w.entity !== 'closure' || w.action !== 'update' || !w.before) return;
-  const fields = w.changed.filter((f) => (CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f));
-  if (!fields.length) return;
+  const raw = w.before['reviewState'] !== 'unreviewed' ? w.changed.filter((f) => !isReviewField(f)) : [];
+  const fields = [...raw, ...w.changed.filter(isReviewField)];
+  if (!fields.length || fields.length === raw.length) return;
+  const kind = raw.length ? 'raw-change' : 'decision';
   const oldFlux = (w.before['fluxUmolM2S'] as number | null) ?? null;
   const newFlux = (w.after['fluxUmolM2S'] as number | null) ?? null;
   await w.em.query(
     `INSERT INTO closure_review_history (closure_id, site_id, user_id, kind, field, old_value, new_value, old_flux_umol_m2_s, new_flux_umol_m2_s)
-     SELECT $1, $2, $3, 'decision', f, o, n, $7, $8 FROM unnest($4::text[], $5::jsonb[], $6::jsonb[]) AS t(f, o, n)`,
-    [w.id, w.after['siteId'], w.actorId, fields, fields.map((f) => JSON.stringify(w.before![f] ?? null)),
-      fields.map((f) => JSON.stringify(w.after[f] ?? null)), oldFlux, newFlux]);
+     SELECT $1, $2, $3, $9, f, o, n, $7, $8 FROM unnest($4::text[], $5::jsonb[], $6::jsonb[]) AS t(f, o, n)`,
+    [w.id, w.after['siteId'], w.actorId, fields, fields.map((f) => historyValue(f, w.before![f])),
+      fields.map((f) => historyValue(f, w.after[f])), oldFlux, newFlux, kind]);
 }
 
 export async function closureHistory(ds: DataSource, closureId: string): Promise<HistoryEntry[]> {

@@ -70,7 +70,7 @@ function queueSql(filter: QueueFilter & { id?: string }, readable: string[] | nu
     WITH q AS (
       SELECT c.id, c.rev, c.site_id, c.campaign_id, c.visit_id, c.collar_id, c.started_at, c.settle_s, c.flags, c.flux_umol_m2_s,
              c.review_state, c.review_reason, c.review_settle_s, c.review_window_end_s, c.review_model, c.redo_of_id,
-             c.results->'recomputedSinceReview' AS recomputed_since_review,
+             c.results->'recomputedSinceReview' AS recomputed_since_review, chg.changed AS changed_since_review,
              k.code AS collar_code, pl.code AS plot_code, b.code AS block_code, t.code AS treatment_code, cp.name AS campaign_name,
              cp.locked AS campaign_locked, v.round, coalesce((v.conditions->>'rain24h')::boolean, false) AS rain24h,
              d.day, d.day - inst.date AS days_since_install, d.day - clip.date AS days_since_clipping,
@@ -87,6 +87,15 @@ function queueSql(filter: QueueFilter & { id?: string }, readable: string[] | nu
         JOIN campaign cp ON cp.id = c.campaign_id
         JOIN visit v ON v.id = c.visit_id
         CROSS JOIN LATERAL (SELECT (c.started_at AT TIME ZONE s.timezone)::date AS day) d
+        -- Raw data changed after the last decision (the change reset the review): when, by whom, which fields.
+        LEFT JOIN LATERAL (
+          SELECT json_build_object('at', h.at, 'userName', u.display_name,
+                   'fields', json_agg(h.field ORDER BY h.id) FILTER (WHERE h.field NOT IN ('reviewState', 'reviewReason')),
+                   'previousState', max(h.old_value #>> '{}') FILTER (WHERE h.field = 'reviewState')) AS changed
+            FROM closure_review_history h LEFT JOIN app_user u ON u.id = h.user_id
+           WHERE h.closure_id = c.id AND h.kind = 'raw-change'
+             AND NOT EXISTS (SELECT 1 FROM closure_review_history x WHERE x.closure_id = c.id AND x.kind = 'decision' AND x.id > h.id)
+           GROUP BY h.at, u.display_name ORDER BY h.at DESC LIMIT 1) chg ON true
         LEFT JOIN LATERAL (
           SELECT max(x.date) AS date FROM (
             SELECT e.date FROM collar_event e WHERE e.collar_id = c.collar_id AND NOT e.deleted AND e.kind IN ('installed', 'reseated') AND e.date <= d.day
@@ -109,10 +118,14 @@ export interface QueueItem {
   settleS: number; flags: string[]; fluxUmolM2S: number | null; reviewState: string; reviewReason: string | null;
   reviewSettleS: number | null; reviewWindowEndS: number | null; reviewModel: string | null; redoOfId: string | null;
   recomputedSinceReview: { oldFluxUmolM2S: number | null; newFluxUmolM2S: number | null; at: string; reason: string } | null;
+  /** Raw data changed after the last review decision, which sent the closure back to review. */
+  changedSinceReview: ChangedMark | null;
   collarCode: string; plotCode: string; blockCode: string | null; treatmentCode: string | null; campaignName: string;
   campaignLocked: boolean; round: number; rain24h: boolean; daysSinceInstall: number | null; daysSinceClipping: number | null;
   calibrationAgeDays: number | null; calibrationDriftPpm: number | null; leakFailed: boolean;
 }
+
+export interface ChangedMark { at: string; userName: string | null; fields: string[]; previousState: string | null }
 
 const readableSites = (user: SessionUser) => (seesAllSites(user.roles) ? null : user.siteIds);
 
@@ -155,6 +168,7 @@ function toItem(r: Record<string, unknown>): QueueItem {
     reviewSettleS: num(r['review_settle_s']), reviewWindowEndS: num(r['review_window_end_s']),
     reviewModel: (r['review_model'] as string | null) ?? null, redoOfId: (r['redo_of_id'] as string | null) ?? null,
     recomputedSinceReview: (r['recomputed_since_review'] as QueueItem['recomputedSinceReview']) ?? null,
+    changedSinceReview: (r['changed_since_review'] as ChangedMark | null) ?? null,
     collarCode: r['collar_code'] as string, plotCode: r['plot_code'] as string, blockCode: (r['block_code'] as string | null) ?? null,
     treatmentCode: (r['treatment_code'] as string | null) ?? null, campaignName: r['campaign_name'] as string,
     campaignLocked: Boolean(r['campaign_locked']), round: Number(r['round']), rain24h: Boolean(r['rain24h']),

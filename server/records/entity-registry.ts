@@ -48,6 +48,11 @@ export interface EntityDef {
   agreements?: readonly { ref: string; target: EntityName; same: readonly string[] }[];
   /** Records that belong to a campaign: refused while it is locked. */
   underCampaign: boolean;
+  /**
+   * Client fields the server sets because of an edit (after the field rules, so the editor need
+   * not be allowed to set them): e.g. a raw change to a reviewed closure sends it back to review.
+   */
+  follows?: (current: Record<string, unknown>, changed: readonly string[]) => Record<string, unknown>;
   /** Fields fixed at creation. */
   immutable: readonly string[];
   /** The time field list filters use for a date range, if any. */
@@ -89,6 +94,17 @@ function closureFieldRule(roles: readonly Role[], action: WriteAction, changed: 
     return `Only the lab may set review fields (${review.join(', ')})`;
   }
   return null;
+}
+
+/**
+ * A review judges the raw data it saw: when raw data of a reviewed (accepted or rejected) closure
+ * changes, the closure goes back to `unreviewed` (the lab's window and model stay as its starting
+ * point); the review history records who changed which field (closures/closure-history.ts).
+ */
+export function reviewResetOnRawChange(current: Record<string, unknown>, changed: readonly string[]): Record<string, unknown> {
+  if (current['reviewState'] === 'unreviewed') return {};
+  const raw = changed.filter((f) => !(CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f));
+  return raw.length ? { reviewState: 'unreviewed', reviewReason: null } : {};
 }
 
 function offsetFieldRule(_roles: readonly Role[], action: WriteAction) {
@@ -133,7 +149,7 @@ export const ENTITY_DEFS: Record<EntityName, EntityDef> = {
   closure: def('closure', ClosureEntity, 'closure', { create: FIELD, update: ['crew', 'lead', 'lab'], delete: LEAD, fieldRule: closureFieldRule },
     { refs: { visitId: 'visit', collarId: 'collar', campaignId: 'campaign', profileId: 'chamberProfile', analyzerId: 'analyzer',
       sourceAttachmentId: 'attachment', redoOfId: 'closure' },
-      agreements: [UNDER_VISIT, { ref: 'redoOfId', target: 'closure', same: ['visitId'] }],
+      agreements: [UNDER_VISIT, { ref: 'redoOfId', target: 'closure', same: ['visitId'] }], follows: reviewResetOnRawChange,
       underCampaign: true, immutable: ['siteId', 'visitId', 'collarId', 'campaignId'], timeField: 'startedAt', order: { startedAt: 'ASC' } }),
   attachment: def('attachment', AttachmentEntity, 'attachment', { create: ['crew', 'lead', 'admin'], update: ['crew', 'lead', 'admin'], delete: LEAD },
     { owner: { entityField: 'ownerEntity', idField: 'ownerId' }, immutable: ['siteId', 'ownerEntity', 'ownerId', 'sha256', 'sizeBytes', 'mediaType'] }),

@@ -199,6 +199,9 @@ async function updateRecord(ctx: Ctx, op: WriteOp, current: Record<string, unkno
     ?? (reviewOnly(d, changed) ? null : await lockedCampaignMessage(ctx.em, d, next))
     ?? (await checkGuards({ em: ctx.em, entity: d.name, id: op.id, action: 'update', current, next, changed }));
   if (guard) return guard;
+  const follow = d.follows?.(current, changed) ?? {};
+  Object.assign(next, follow);
+  changed.push(...Object.keys(follow).filter((k) => !changed.includes(k) && !sameValue(follow[k], current[k])));
   const derived = await deriveFields(ctx.em, d.name, next, current);
   const patch = { ...Object.fromEntries(changed.map((k) => [k, next[k]])), ...derived, rev: rev + 1, updatedAt: new Date(), updatedBy: ctx.actor.id };
   await ctx.em.getRepository(d.target).update({ id: op.id }, patch);

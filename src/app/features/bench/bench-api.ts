@@ -22,12 +22,14 @@ export interface QueueFilter {
 }
 
 export interface RecomputedMark { oldFluxUmolM2S: number | null; newFluxUmolM2S: number | null; at: string; reason: string }
+/** Raw data changed after the last review decision (the change sent the closure back to review). */
+export interface ChangedMark { at: string; userName: string | null; fields: string[]; previousState: string | null }
 
 export interface QueueItem {
   id: string; rev: number; siteId: string; campaignId: string; visitId: string; collarId: string; startedAt: string; day: string;
   settleS: number; flags: string[]; fluxUmolM2S: number | null; reviewState: string; reviewReason: string | null;
   reviewSettleS: number | null; reviewWindowEndS: number | null; reviewModel: string | null;
-  recomputedSinceReview: RecomputedMark | null; collarCode: string; plotCode: string; blockCode: string | null;
+  recomputedSinceReview: RecomputedMark | null; changedSinceReview: ChangedMark | null; collarCode: string; plotCode: string; blockCode: string | null;
   treatmentCode: string | null; campaignName: string; round: number; rain24h: boolean; daysSinceInstall: number | null;
   daysSinceClipping: number | null; calibrationAgeDays: number | null; calibrationDriftPpm: number | null; leakFailed: boolean;
 }
