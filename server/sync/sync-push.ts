@@ -16,8 +16,8 @@ type Parsed = { ok: true; op: SyncOp } | { ok: false; result: PushResult };
 /**
  * Applies a device's batch in one transaction with a savepoint per op, so one bad op never sinks
  * its neighbours and a crash mid-batch leaves nothing half-applied (the retry applies it all once).
- * Every opId is claimed in the ledger up front (one statement): a replay, even one racing in
- * another request, gets the stored answer instead of running twice.
+ * Every opId is claimed in the user's ledger up front (one statement): a replay by the same user,
+ * even one racing in another request, gets the stored answer instead of running twice.
  */
 export async function pushOps(ds: DataSource, user: SessionUser, deviceId: string, outboxSize: number, ops: unknown[]): Promise<PushResult[]> {
   const parsed = ops.map(parseOp);
@@ -42,7 +42,7 @@ function parseOp(raw: unknown): Parsed {
 async function applyBatch(em: EntityManager, user: SessionUser, deviceId: string, outboxSize: number, parsed: Parsed[]): Promise<PushResult[]> {
   const valid = parsed.flatMap((p) => (p.ok ? [p.op] : []));
   const claimed = await claimOps(em, deviceId, user.id, valid);
-  const earlier = await storedAnswers(em, valid.map((o) => o.opId).filter((id) => !claimed.has(id)));
+  const earlier = await storedAnswers(em, user.id, valid.map((o) => o.opId).filter((id) => !claimed.has(id)));
   const changes = new ChangeBuffer();
   const results: PushResult[] = [];
   const thisBatch = new Map<string, PushResult>();
@@ -68,7 +68,7 @@ async function applyBatch(em: EntityManager, user: SessionUser, deviceId: string
     thisBatch.set(op.opId, result);
     results.push(result);
   }
-  await saveAnswers(em, [...thisBatch.values()]);
+  await saveAnswers(em, user.id, [...thisBatch.values()]);
   await changes.flush(em);
   await recordPush(em, deviceId, user.id, outboxSize);
   return results;
