@@ -5,7 +5,8 @@ import { readsSite, ROLES, type Role } from '../../shared/auth/roles';
 import { RouteRegistry } from '../../server/core/route-registry';
 import { errorMiddleware, notFound } from '../../server/core/errors';
 import { checkExposure, ID_KINDS, type ExposureInput, type IdKind, type Send } from '../support/exposure-check';
-import { buildWorld, deleteWorld, makeUser, type World } from '../support/site-world';
+import { startFakeS3 } from '../support/fake-s3';
+import { buildWorld, deleteWorld, fileOf, makeUser, type World } from '../support/site-world';
 import { demoEmail, signIn, startTestApp, type Session, type TestApp } from '../support/test-app';
 
 /**
@@ -26,8 +27,11 @@ describe('no route shows another site\'s records', () => {
   const reads = (role: Role, siteId: string) => readsSite({ roles: [role], siteIds: readable[role] }, siteId);
   const marker = (p: string) => { const m = `${p}${randomUUID().slice(0, 8)}`; markers.push(m); return m; };
 
+  let s3: Awaited<ReturnType<typeof startFakeS3>>;
   beforeAll(async () => {
-    t = await startTestApp();
+    // With object storage, so the file routes answer bytes (the foreign files carry their world's marker).
+    s3 = await startFakeS3();
+    t = await startTestApp({ objectStorage: s3.config });
     admin = await signIn(t.app, demoEmail('admin'));
     lab = await signIn(t.app, demoEmail('lab'));
     const fl = await makeUser(admin, ['lead'], []);
@@ -43,6 +47,11 @@ describe('no route shows another site\'s records', () => {
     foreign.deleted = await deleteWorld(by, await buildWorld(by, fl.id, marker('dl')));
     foreign.deleted.site = (await admin.get(`/api/sites/${foreign.deleted.site.id}`)).body.record;
     foreign['just-created'] = await buildWorld(by, fl.id, marker('nw'));
+    // The live world's file has reached the server (just-created records stay at rev 1).
+    const put = await foreignLead.agent.put(`/api/attachments/${foreign.live.attachment.id}/content`).set('X-CSRF-Token', foreignLead.csrf)
+      .set('Content-Type', 'text/csv').send(fileOf(markers[0]));
+    expect(put.status).toBe(200);
+    foreign.live.attachment = put.body.record;
     // Callers of every role; the site-scoped ones belong to the home site only.
     const crew = await makeUser(admin, ['crew'], [home.site.id]);
     emails.set('crew', crew.email).set('lead', hl.email).set('lab', demoEmail('lab')).set('admin', demoEmail('admin'));
@@ -52,7 +61,7 @@ describe('no route shows another site\'s records', () => {
       readable[role] = (await s.get('/api/auth/me')).body.user.siteIds;
     }
   });
-  afterAll(() => t.close());
+  afterAll(async () => { await t.close(); await s3.stop(); });
 
   /** A request as the role's caller; a route that ended the session (sign-out) gets a fresh one. */
   const send: Send = async (role, method, path, body) => {
@@ -73,7 +82,8 @@ describe('no route shows another site\'s records', () => {
     expect(scoped).toEqual(['crew', 'lead']);
     expect(report.cases).toBe(t.registry.routes.length * scoped.length * ID_KINDS.length);
     console.log(`exposure check: ${t.registry.routes.length} routes × ${scoped.length} site-scoped roles (${scoped.join(', ')}) × `
-      + `${ID_KINDS.length} id kinds = ${report.cases} cases, ${report.requests} requests; lab and admin read every site`);
+      + `${ID_KINDS.length} id kinds = ${report.cases} cases, ${report.requests} requests; lab and admin read every site; `
+      + `answers by status ${JSON.stringify(report.statuses)}`);
     expect(report.problems).toEqual([]);
   }, 600_000);
 

@@ -29,6 +29,8 @@ export interface ExposureReport {
   cases: number;
   requests: number;
   perRole: Record<string, number>;
+  /** How many answers had each HTTP status (a route answered only 4xx/5xx was reached but refused). */
+  statuses: Record<number, number>;
 }
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
@@ -123,7 +125,7 @@ function syncProbes(w: World, home: World): Probe[] {
  */
 export async function checkExposure(input: ExposureInput, markers: string[]): Promise<ExposureReport> {
   const needles = needlesOf(Object.values(input.foreign), markers, input.home);
-  const report: ExposureReport = { problems: [], cases: 0, requests: 0, perRole: {} };
+  const report: ExposureReport = { problems: [], cases: 0, requests: 0, perRole: {}, statuses: {} };
   for (const role of input.roles) {
     report.perRole[role] = 0;
     for (const kind of ID_KINDS) {
@@ -135,6 +137,7 @@ export async function checkExposure(input: ExposureInput, markers: string[]): Pr
         for (const probe of probesFor(route, w, input.home)) {
           const res = await input.send(role, route.method, probe.path, probe.body);
           report.requests++;
+          report.statuses[res.status] = (report.statuses[res.status] ?? 0) + 1;
           const found = [...needles].filter((n) => !probe.sent.includes(n) && res.text.includes(n));
           if (found.length) {
             report.problems.push(`${role} ${route.method.toUpperCase()} ${route.path} (${kind}) → ${res.status} shows ${found.slice(0, 3).join(', ')}`);

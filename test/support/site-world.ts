@@ -1,4 +1,4 @@
-import { randomBytes, randomUUID } from 'node:crypto';
+import { createHash, randomBytes, randomUUID } from 'node:crypto';
 import { ENTITY_NAMES, ENTITY_PATHS, type EntityName } from '../../shared/model/entities';
 import type { Session } from './test-app';
 
@@ -40,7 +40,6 @@ const made = async (s: Session, entity: EntityName, body: Record<string, unknown
  */
 export async function buildWorld(m: WorldMakers, leadId: string, marker: string): Promise<World> {
   const w = {} as World;
-  const hex = randomBytes(32).toString('hex');
   // Coordinates of this world only (7 decimals), so an answer that shows them is caught.
   const coord = (base: number) => Number(`${base}.${String(randomBytes(4).readUInt32BE() % 1e6).padStart(6, '0')}${1 + (randomBytes(1)[0] % 9)}`);
   w.site = await made(m.admin, 'site', { name: `Site ${marker}`, timezone: 'UTC', elevationM: 321, latitude: coord(47), longitude: coord(8) });
@@ -68,12 +67,18 @@ export async function buildWorld(m: WorldMakers, leadId: string, marker: string)
   const tS = Array.from({ length: 60 }, (_, i) => i);
   w.closure = await made(m.lead, 'closure', { ...at, startedAt: '2026-06-01T08:03:00Z', settleS: 20,
     series: { tS, co2Ppm: tS.map((s) => 420 + 0.75 * s), tempC: tS.map(() => 15), pressureKpa: tS.map(() => 98) } });
-  w.attachment = await made(m.lead, 'attachment', { siteId, ownerEntity: 'collar', ownerId: w.collar.id, mediaType: 'image/jpeg', sizeBytes: 1000,
-    sha256: hex, fileName: `photo-${marker}.jpg` });
+  const file = fileOf(marker);
+  w.attachment = await made(m.lead, 'attachment', { siteId, ownerEntity: 'collar', ownerId: w.collar.id, mediaType: 'text/csv',
+    sizeBytes: file.length, sha256: createHash('sha256').update(file).digest('hex'), fileName: `log-${marker}.csv` });
   w.temperatureLog = await made(m.lab, 'temperatureLog', { siteId, plotId: w.plot.id, depthCm: 5, source: `logger ${marker}`,
     series: { t: ['2026-06-01T00:00:00Z'], tempC: [11.5] } });
   if (ENTITY_NAMES.some((e) => !w[e])) throw new Error('buildWorld misses an entity');
   return w;
+}
+
+/** The bytes of a world's logger file (its attachment): the marker is in them. */
+export function fileOf(marker: string): Buffer {
+  return Buffer.from(`t_s;co2_ppm\n# file ${marker}\n0;420\n1;421\n`, 'utf8');
 }
 
 /** Children before parents, so every delete names a record whose dependants are already gone. */
