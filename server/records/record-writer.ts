@@ -54,7 +54,8 @@ export async function writeRecord(em: EntityManager, actor: Actor, op: WriteOp, 
   if (refused) return refused;
   if (op.op === 'delete') return deleteRecord(ctx, op, existing);
   if (!existing) {
-    if (op.baseRev !== null) return rejected(404, `There is no ${op.entity} ${op.id} to change`);
+    // The same answer as for a record the caller may not read: a write never tells the two apart.
+    if (op.baseRev !== null) return rejected(404, noRecordMessage(op.entity, op.id));
     // The insert was skipped yet no row has this id: another unique value (a collar code) is taken.
     return isUuid(op.id)
       ? rejected(409, `Another ${op.entity} already uses one of these values (for example the same code at this site)`)
@@ -214,7 +215,7 @@ async function updateRecord(ctx: Ctx, op: WriteOp, current: Record<string, unkno
 
 async function deleteRecord(ctx: Ctx, op: WriteOp, existing: ObjectLiteral | null): Promise<WriteOutcome> {
   const { d } = ctx;
-  if (!existing) return rejected(404, `There is no ${d.name} ${op.id} to delete`);
+  if (!existing) return rejected(404, noRecordMessage(d.name, op.id));
   const current = toWire(existing);
   const rev = Number(current['rev']);
   if (current['deleted']) return { status: 'applied', rev, record: current };

@@ -104,6 +104,16 @@ describe('writes never answer a record the caller may not read', () => {
     expect((await admin.get(`/api/campaigns/${foreign.campaign.id}`)).body.record.rev).toBe(foreign.campaign.rev);
   });
 
+  it('when an id exists nowhere, then edits and deletes answer as for another site\'s record, so the answer does not tell them apart', async () => {
+    const nowhere = randomUUID();
+    const strip = (res: { status: number; body: { error?: { message: string } } }, id: string) => [res.status, res.body.error?.message.replace(id, '<id>')];
+    expect(strip(await homeLead.patch(`/api/collars/${nowhere}`, { rev: 1, notes: 'x' }), nowhere))
+      .toEqual(strip(await homeLead.patch(`/api/collars/${foreign.collar.id}`, { rev: 1, notes: 'x' }), foreign.collar.id));
+    expect(strip(await homeLead.delete(`/api/collars/${nowhere}`), nowhere))
+      .toEqual(strip(await homeLead.delete(`/api/collars/${foreign.collar.id}`), foreign.collar.id));
+    expect(strip(await homeLead.get(`/api/collars/${nowhere}`), nowhere)).toEqual([404, 'No collar <id>']);
+  });
+
   it('when a role that may not edit a record sends an edit that changes nothing, then it is refused for the role', async () => {
     const current = (await lab.get(`/api/collars/${home.collar.id}`)).body.record;
     const res = await push(lab, [{ opId: randomUUID(), entity: 'collar', id: home.collar.id, baseRev: current.rev, op: 'upsert', fields: {} }]);
