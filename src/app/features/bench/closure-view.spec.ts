@@ -1,0 +1,51 @@
+import { Component, input } from '@angular/core';
+import { TestBed } from '@angular/core/testing';
+import type { ClosureDetail, FitResult, QueueItem } from './bench-api';
+import { ClosureChart } from './closure-chart';
+import { ClosureView } from './closure-view';
+
+/** jsdom has no canvas: the chart is replaced by an empty element with the same inputs. */
+@Component({ selector: 'fw-closure-chart', template: '' })
+class NoChart {
+  readonly data = input<unknown>();
+  readonly label = input('');
+}
+
+const fit: FitResult = { linear: null, exponential: null, quadratic: null, selected: null, exponentialRejectedReason: null, flags: [], error: null,
+  window: null, minDetectableFluxUmolM2S: null };
+
+function detail(context: Partial<QueueItem>, history: ClosureDetail['history'] = []): ClosureDetail {
+  const ctx = { id: 'c1', rev: 3, siteId: 's', campaignId: 'p', visitId: 'v', collarId: 'k', startedAt: '2026-06-01T08:00:00.000Z', day: '2026-06-01',
+    settleS: 30, flags: [], fluxUmolM2S: 1.2, reviewState: 'unreviewed', reviewReason: null, reviewSettleS: null, reviewWindowEndS: null,
+    reviewModel: null, recomputedSinceReview: null, changedSinceReview: null, collarCode: 'K7', plotCode: 'P1', blockCode: null,
+    treatmentCode: null, campaignName: 'June', round: 1, rain24h: false, daysSinceInstall: null, daysSinceClipping: null,
+    calibrationAgeDays: null, calibrationDriftPpm: null, leakFailed: false, ...context } as QueueItem;
+  return {
+    closure: { id: 'c1', rev: 3, startedAt: ctx.startedAt, settleS: 30, reviewState: 'unreviewed', series: { tS: [0, 1, 2], co2Ppm: [420, 421, 422] },
+      results: { raw: fit, review: null, volumeCm3: 4000, areaCm2: 314, meanOffsetCm: 2, ambientPpm: null, pressureIsDefault: false } },
+    context: ctx, offsetSet: null, profile: null, collarHistory: [], replicates: [], replicateSpread: { n: 1, mean: 1.2, sd: null, cvPct: null }, history,
+  };
+}
+
+function render(d: ClosureDetail): HTMLElement {
+  TestBed.configureTestingModule({ imports: [ClosureView] });
+  TestBed.overrideComponent(ClosureView, { remove: { imports: [ClosureChart] }, add: { imports: [NoChart] } });
+  const fixture = TestBed.createComponent(ClosureView);
+  fixture.componentRef.setInput('detail', d);
+  fixture.detectChanges();
+  return fixture.nativeElement as HTMLElement;
+}
+
+describe('ClosureView: raw changes since review', () => {
+  it('when raw data changed after the lab accepted it, then the view says who changed which field and asks for a new review', () => {
+    const el = render(detail({ changedSinceReview: { at: '2026-06-02T10:15:00.000Z', userName: 'Ana Crew', fields: ['settleS'], previousState: 'accepted' } },
+      [{ id: 1, at: '2026-06-02T10:15:00.000Z', kind: 'raw-change', field: 'settleS', oldValue: 20, newValue: 30, oldFluxUmolM2S: 1, newFluxUmolM2S: 1.2, userName: 'Ana Crew' }]));
+    const notice = el.querySelector('[data-testid="changed-since-review"]')!.textContent!.replace(/\s+/g, ' ').trim();
+    expect(notice).toBe('Changed since review: Ana Crew changed settleS on 2026-06-02 10:15 UTC after it was accepted. Review it again.');
+    expect(el.querySelector('[data-testid="history"]')!.textContent).toContain('raw data changed · settleS: 20 → 30');
+  });
+
+  it('when nothing changed since the last decision, then there is no such notice', () => {
+    expect(render(detail({})).querySelector('[data-testid="changed-since-review"]')).toBeNull();
+  });
+});
