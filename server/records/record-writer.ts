@@ -33,8 +33,10 @@ const META = ['id', 'rev', 'updatedAt', 'updatedBy', 'deleted'];
 
 /**
  * The one write path for every record, used by the REST routes, the sync push and the seed:
- * permission and membership checks, validation of the whole resulting record, same-site
- * references, locked campaigns, derived values, revision bump and the change log. The caller
+ * permission and membership checks (for a stored record, before any branch that could answer
+ * with it: a record the actor may not read gets the read's 404), validation of the whole resulting
+ * record, references and parent agreement, locked campaigns, guards, follow-on and derived values,
+ * revision bump and the change log (order in DEVELOPERS.md). The caller
  * owns the transaction (a savepoint per op in a push) and flushes `changes` before commit.
  */
 export async function writeRecord(em: EntityManager, actor: Actor, op: WriteOp, changes: ChangeBuffer,
