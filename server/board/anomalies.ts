@@ -1,8 +1,10 @@
 import type { DataSource, EntityManager } from 'typeorm';
 import type { QcFlag } from '../../shared/flux/qc-flags';
+import { worstDriftPct } from '../../shared/model/calibration';
+import { localDay } from '../closures/closure-inputs';
 
 export type AnomalyKind =
-  | 'offset-moved' | 'offset-spread' | 'closure-flag' | 'settling' | 'not-visited' | 'check-problem' | 'calibration-overdue';
+  | 'offset-moved' | 'offset-spread' | 'closure-flag' | 'settling' | 'not-visited' | 'check-problem' | 'calibration-overdue' | 'calibration-drift';
 
 export interface Anomaly {
   kind: AnomalyKind;
@@ -60,7 +62,7 @@ export async function findAnomalies(db: Db, siteId: string, opts: AnomalyOptions
     items.push(...(await checkAnomalies(db, site, camp)));
   }
   items.push(...(await collarAnomalies(db, site, now, opts.notVisitedDays ?? 30)));
-  items.push(...(await calibrationAnomalies(db, siteId, now)));
+  items.push(...(await calibrationAnomalies(db, site, now)));
   const order = { problem: 0, warn: 1 };
   items.sort((a, b) => order[a.severity] - order[b.severity] || a.kind.localeCompare(b.kind) || (a.collarCode ?? '').localeCompare(b.collarCode ?? ''));
   return { campaignId: camp?.id ?? null, items };
@@ -193,13 +195,24 @@ function dateOnly(v: unknown): string {
   return typeof v === 'string' ? v.slice(0, 10) : new Date(v as Date).toISOString().slice(0, 10);
 }
 
-/** Analyzers whose last passed calibration is older than their own interval, or that have none. */
-async function calibrationAnomalies(db: Db, siteId: string, now: Date): Promise<Anomaly[]> {
+/**
+ * Analyzers whose last passed calibration is older than their own interval, or that have none;
+ * and analyzers whose latest calibration found them drifted beyond the site's limit (in % of the
+ * span gas): the fluxes since the calibration before it need a look.
+ */
+async function calibrationAnomalies(db: Db, site: Record<string, unknown>, now: Date): Promise<Anomaly[]> {
   const rows = await db.query(`
     SELECT a.id, a.name, a.calibration_interval_days,
            (SELECT max(c.at) FROM analyzer_check c WHERE c.analyzer_id = a.id AND c.kind = 'calibration' AND NOT c.deleted
-                AND NOT c.skipped AND c.passed IS DISTINCT FROM false) AS last_cal
-      FROM analyzer a WHERE a.site_id = $1 AND NOT a.deleted`, [siteId]);
+                AND NOT c.skipped AND c.passed IS DISTINCT FROM false) AS last_cal,
+           d.id AS drift_check_id, d.at AS drift_at, d.drift_ppm, d.zero_drift_ppm, d.span_gas_ppm
+      FROM analyzer a
+      LEFT JOIN LATERAL (
+        SELECT c.id, c.at, c.drift_ppm, c.zero_drift_ppm, c.span_gas_ppm FROM analyzer_check c
+         WHERE c.analyzer_id = a.id AND c.kind = 'calibration' AND NOT c.deleted AND NOT c.skipped
+         ORDER BY c.at DESC LIMIT 1) d ON true
+     WHERE a.site_id = $1 AND NOT a.deleted`, [site['id']]);
+  const limitPct = Number(site['calibration_drift_limit_pct']);
   const out: Anomaly[] = [];
   for (const r of rows) {
     const interval = Number(r.calibration_interval_days);
@@ -208,6 +221,14 @@ async function calibrationAnomalies(db: Db, siteId: string, now: Date): Promise<
       out.push({ kind: 'calibration-overdue', severity: 'problem', collarId: null, collarCode: null, recordId: r.id, at: iso(r.last_cal),
         value: age === null ? null : Math.floor(age), threshold: interval,
         message: age === null ? `${r.name}: no calibration on record` : `${r.name}: last calibrated ${Math.floor(age)} days ago (interval ${interval} days)` });
+    }
+    const pct = worstDriftPct({ driftPpm: num(r.drift_ppm), zeroDriftPpm: num(r.zero_drift_ppm), spanGasPpm: num(r.span_gas_ppm) });
+    if (pct !== null && pct > limitPct) {
+      const drifts = [['zero', num(r.zero_drift_ppm)], ['span', num(r.drift_ppm)]].filter(([, v]) => v !== null)
+        .map(([w, v]) => `${w} ${(v as number) > 0 ? '+' : ''}${v} µmol/mol`).join(', ');
+      out.push({ kind: 'calibration-drift', severity: 'problem', collarId: null, collarCode: null, recordId: r.drift_check_id, at: iso(r.drift_at),
+        value: pct, threshold: limitPct,
+        message: `${r.name}: drift found at calibration on ${localDay(r.drift_at, String(site['timezone']))} was ${drifts} (${pct} % of the ${num(r.span_gas_ppm)} µmol/mol span gas, limit ${limitPct} %): check the closures since the calibration before it` });
     }
   }
   return out;

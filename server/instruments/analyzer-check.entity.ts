@@ -16,7 +16,15 @@ export class AnalyzerCheckEntity extends SyncedColumns {
   @Column({ type: 'double precision', name: 'co2_ppm', nullable: true }) co2Ppm!: number | null;
   @Column({ type: 'double precision', name: 'slope_umol_mol_s', nullable: true }) slopeUmolMolS!: number | null;
   @Column({ type: 'double precision', name: 'clock_offset_s', nullable: true }) clockOffsetS!: number | null;
+  @Column({ type: 'double precision', name: 'zero_gas_ppm', nullable: true }) zeroGasPpm!: number | null;
+  @Column({ type: 'text', name: 'zero_cylinder', nullable: true }) zeroCylinder!: string | null;
+  @Column({ type: 'double precision', name: 'zero_before_ppm', nullable: true }) zeroBeforePpm!: number | null;
+  @Column({ type: 'double precision', name: 'zero_after_ppm', nullable: true }) zeroAfterPpm!: number | null;
   @Column({ type: 'double precision', name: 'span_gas_ppm', nullable: true }) spanGasPpm!: number | null;
+  @Column({ type: 'text', name: 'span_cylinder', nullable: true }) spanCylinder!: string | null;
+  @Column({ type: 'double precision', name: 'span_before_ppm', nullable: true }) spanBeforePpm!: number | null;
+  @Column({ type: 'double precision', name: 'span_after_ppm', nullable: true }) spanAfterPpm!: number | null;
+  @Column({ type: 'double precision', name: 'zero_drift_ppm', nullable: true }) zeroDriftPpm!: number | null;
   @Column({ type: 'double precision', name: 'drift_ppm', nullable: true }) driftPpm!: number | null;
   @Column({ type: 'text', name: 'note', default: '' }) note!: string;
 }

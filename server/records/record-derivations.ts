@@ -21,6 +21,8 @@ export async function deriveFields(em: EntityManager, entity: EntityName, next: 
     }
     case 'closure':
       return computeClosureResults(em, next);
+    case 'analyzerCheck': // the schema computed the drifts from the readings; an edit stores them too
+      return next['kind'] === 'calibration' ? { zeroDriftPpm: next['zeroDriftPpm'] ?? null, driftPpm: next['driftPpm'] ?? null } : {};
     default:
       return {};
   }

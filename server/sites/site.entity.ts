@@ -28,6 +28,7 @@ export class SiteEntity extends SyncedColumns {
   @Column({ type: 'double precision', name: 'ambient_margin_ppm' }) ambientMarginPpm!: number;
   /** 'closure' (slope of curved models at t = 0) or 'settle_end'; see shared/flux closure-input.ts. */
   @Column({ type: 'text', name: 'slope_basis', default: 'closure' }) slopeBasis!: 'closure' | 'settle_end';
+  @Column({ type: 'double precision', name: 'calibration_drift_limit_pct' }) calibrationDriftLimitPct!: number;
   @Column({ type: 'text', name: 'digest_local_time' }) digestLocalTime!: string;
   @Column({ type: 'text', name: 'tile_url', nullable: true }) tileUrl!: string | null;
   @Column({ type: 'text', name: 'tile_attribution', nullable: true }) tileAttribution!: string | null;

@@ -4,3 +4,4 @@ export * from './entities';
 export * from './field-records';
 export * from './site-layout';
 export * from './temperature-log';
+export * from './calibration';

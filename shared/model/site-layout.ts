@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { calibrationDrifts } from './calibration';
 import { isoDate, name, ranged, text, uuid } from './common';
 
 export const moistureCalibrationSchema = z.discriminatedUnion('kind', [
@@ -34,6 +35,9 @@ export const siteFields = z.object({
    * Kutzbach et al. 2007) or at the end of the settle time. Closure unless the site chooses otherwise.
    */
   slopeBasis: z.enum(['closure', 'settle_end'], { message: 'Slope basis must be closure or settle_end' }).default('closure'),
+  // Common practice: an analyzer found more than about 2 % of the span gas off at calibration puts
+  // the fluxes since its previous calibration in question (a gain error moves every flux by its share).
+  calibrationDriftLimitPct: ranged(0.1, 50, '%', 'Calibration drift limit').default(2),
   digestLocalTime: z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'Digest time must be HH:MM').default('18:00'),
   tileUrl: z.string().max(500).regex(/^https:\/\/.*\{z\}.*\{x\}.*\{y\}/, 'Tile URL must be https with {z}, {x} and {y}').nullable().default(null),
   tileAttribution: text(500).nullable().default(null),
@@ -94,6 +98,9 @@ export const analyzerFields = z.object({
 });
 
 export const ANALYZER_CHECK_KINDS = ['calibration', 'leak', 'ambient', 'clock', 'warm-up', 'safety-ack'] as const;
+const reading = (what: string) => ranged(-5000, 20000, 'µmol/mol', what).nullable().default(null);
+const cylinder = (what: string) => z.string().trim().max(100, `${what}: at most 100 characters`).nullable().default(null);
+
 export const analyzerCheckFields = z.object({
   siteId: uuid('siteId'),
   analyzerId: uuid('analyzerId').nullable().default(null),
@@ -105,10 +112,37 @@ export const analyzerCheckFields = z.object({
   co2Ppm: ranged(0, 20000, 'µmol/mol', 'CO2').nullable().default(null),
   slopeUmolMolS: ranged(-1000, 1000, 'µmol/mol/s', 'Slope').nullable().default(null),
   clockOffsetS: ranged(-86400, 86400, 's', 'Clock offset').nullable().default(null),
+  /** Calibration: the zero gas (scrubbed air or a cylinder) and the analyzer's readings before and after adjustment. */
+  zeroGasPpm: ranged(0, 20000, 'µmol/mol', 'Zero gas').nullable().default(null),
+  zeroCylinder: cylinder('Zero gas cylinder'),
+  zeroBeforePpm: reading('Zero reading before'),
+  zeroAfterPpm: reading('Zero reading after'),
+  /** Calibration: the span gas cylinder's certified concentration, its id and the readings before and after. */
   spanGasPpm: ranged(0, 20000, 'µmol/mol', 'Span gas').nullable().default(null),
+  spanCylinder: cylinder('Span gas cylinder'),
+  spanBeforePpm: reading('Span reading before'),
+  spanAfterPpm: reading('Span reading after'),
+  /** As-found drift, reading before − gas (shared/model/calibration.ts); computed whenever the readings are given. */
+  zeroDriftPpm: ranged(-5000, 5000, 'µmol/mol', 'Zero drift').nullable().default(null),
   driftPpm: ranged(-5000, 5000, 'µmol/mol', 'Drift').nullable().default(null),
   note: text(2000).default(''),
-}).refine((c) => !c.skipped || (c.skipReason ?? '').trim().length > 0, { message: 'A skipped check needs a reason', path: ['skipReason'] });
+}).superRefine((c, ctx) => {
+  if (c.skipped && !(c.skipReason ?? '').trim()) ctx.addIssue({ code: 'custom', message: 'A skipped check needs a reason', path: ['skipReason'] });
+  if (c.kind !== 'calibration' || c.skipped) return;
+  if (c.spanGasPpm !== null && c.spanGasPpm <= 0) ctx.addIssue({ code: 'custom', message: 'The span gas concentration must be above 0 µmol/mol', path: ['spanGasPpm'] });
+  if (c.spanGasPpm !== null && c.zeroGasPpm !== null && c.spanGasPpm <= c.zeroGasPpm) {
+    ctx.addIssue({ code: 'custom', message: 'The span gas must be above the zero gas', path: ['spanGasPpm'] });
+  }
+  for (const [gas, before, after] of [['zeroGasPpm', 'zeroBeforePpm', 'zeroAfterPpm'], ['spanGasPpm', 'spanBeforePpm', 'spanAfterPpm']] as const) {
+    if (c[gas] === null && (c[before] !== null || c[after] !== null)) {
+      ctx.addIssue({ code: 'custom', message: `Give the ${gas.startsWith('zero') ? 'zero' : 'span'} gas concentration its readings were taken on`, path: [gas] });
+    }
+  }
+}).transform((c) => {
+  if (c.kind !== 'calibration') return c;
+  const d = calibrationDrifts(c);
+  return { ...c, zeroDriftPpm: d.zeroDriftPpm ?? c.zeroDriftPpm, driftPpm: d.driftPpm ?? c.driftPpm };
+});
 
 function isTimeZone(tz: string): boolean {
   try {

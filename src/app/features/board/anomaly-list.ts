@@ -17,6 +17,7 @@ const KIND_LABELS: Record<string, string> = {
   'not-visited': 'Collars not visited lately',
   'check-problem': 'Start-of-day checks skipped or failed',
   'calibration-overdue': 'Analyzer calibration overdue',
+  'calibration-drift': 'Analyzer drift over the site limit',
 };
 
 /** What looks wrong on the site for the chosen campaign, grouped by kind, problems first. */
