@@ -93,7 +93,7 @@ export function buildLayout(seed = 20260401): DemoLayout {
   writes.push(updateOp('site', site, 'admin', { defaultProfileId: PROFILES[0].id }));
   const analyzerId = demoId('analyzer:A1');
   writes.push(createOp('analyzer', analyzerId, 'admin', {
-    siteId: site, name: 'Analyzer A1 (orange case)', serial: 'AH-0713-2291', rangeMinPpm: 0, rangeMaxPpm: 3000,
+    siteId: site, name: 'Analyzer A1', serial: 'AH-0713-2291', rangeMinPpm: 0, rangeMaxPpm: 3000,
     precisionPpm: 1, calibrationIntervalDays: 180,
   }));
 

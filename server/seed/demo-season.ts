@@ -155,12 +155,14 @@ function collarStory(layout: DemoLayout): SeedWrite[] {
   return out;
 }
 
-/** Zero/span calibrations before the season and mid-season (span gas 1000 µmol/mol). */
+/** Zero/span calibrations before the season and mid-season: zero on scrubbed air, span on a 1000 µmol/mol cylinder. */
 function calibrations(analyzerId: string): SeedWrite[] {
-  return [['2026-03-30T08:00:00Z', 3.1], ['2026-07-06T08:00:00Z', -4.6]].map(([at, drift]) =>
+  return ([['2026-03-30T08:00:00Z', 0.8, 1003.1], ['2026-07-06T08:00:00Z', -1.2, 995.4]] as const).map(([at, zeroBefore, spanBefore]) =>
     createOp('analyzerCheck', demoId(`check:calibration:${at}`), 'lead', {
       siteId: DEMO_SITE_ID, analyzerId, kind: 'calibration', at, skipped: false, skipReason: null, passed: true,
-      co2Ppm: null, slopeUmolMolS: null, clockOffsetS: null, spanGasPpm: 1000, driftPpm: drift,
+      co2Ppm: null, slopeUmolMolS: null, clockOffsetS: null,
+      zeroGasPpm: 0, zeroCylinder: null, zeroBeforePpm: zeroBefore, zeroAfterPpm: 0.1,
+      spanGasPpm: 1000, spanCylinder: 'SG-1000-0417', spanBeforePpm: spanBefore, spanAfterPpm: 1000.2,
       note: 'Zero with scrubbed air, span with the 1000 µmol/mol cylinder',
     }));
 }

@@ -10,7 +10,7 @@
 import type { TimestampFormat } from './zoned-time';
 
 export const CO2_UNITS = { 'µmol/mol (ppm)': 1, 'mmol/mol': 1000, 'ppb (nmol/mol)': 0.001 } as const;
-export const H2O_UNITS = { 'mmol/mol (ppt)': 1, '% (mol/mol)': 10, 'ppm (µmol/mol)': 0.001 } as const;
+export const H2O_UNITS = { 'mmol/mol': 1, '% (mol/mol)': 10, 'ppm (µmol/mol)': 0.001 } as const;
 export const PRESSURE_UNITS = { kPa: 1, hPa: 0.1, mbar: 0.1, Pa: 0.001, 'mmHg': 0.133322387415 } as const;
 export const TEMP_UNITS = ['°C', 'K', '°F'] as const;
 export const ELAPSED_UNITS = { s: 1, ms: 0.001, min: 60 } as const;
@@ -57,7 +57,9 @@ const norm = (h: string) => h.trim().toLowerCase().replace(/[\s-]+/g, '_');
 
 /**
  * A first guess from the header names: our plain names exactly, else a loose reading of common
- * words (co2, h2o, press, temp, time). The crew confirms or changes every column in the dialog.
+ * words (co2, h2o, press, temp, time). A closure id column is only guessed from our own word
+ * "closure"; any other name comes from the crew's saved mapping. The crew confirms or changes
+ * every column in the dialog.
  */
 export function suggestMapping(headers: readonly string[], base: Pick<LoggerMapping, 'delimiter' | 'decimalComma' | 'headerRow'>, timeZone: string): LoggerMapping | null {
   const h = headers.map(norm);
@@ -75,16 +77,27 @@ export function suggestMapping(headers: readonly string[], base: Pick<LoggerMapp
   const h2o = found(exact(PLAIN_EXPORT_COLUMNS.h2o)) ?? found(loose(/h2o|water|vapou?r/));
   const pressure = found(exact(PLAIN_EXPORT_COLUMNS.pressure)) ?? found(loose(/press|^p(_kpa)?$/));
   const temp = found(exact(PLAIN_EXPORT_COLUMNS.temp)) ?? found(loose(/temp|^t_?c$|air_t/, [time.column]));
-  const id = found(exact(PLAIN_EXPORT_COLUMNS.closureId)) ?? found(loose(/closure|obs|label|port/));
+  const id = found(exact(PLAIN_EXPORT_COLUMNS.closureId)) ?? found(loose(/closure/));
   return {
     ...base,
     time,
     co2: { column: co2, unit: 'µmol/mol (ppm)' },
-    h2o: h2o === null ? null : { column: h2o, unit: 'mmol/mol (ppt)' },
+    h2o: h2o === null ? null : { column: h2o, unit: 'mmol/mol' },
     pressure: pressure === null ? null : { column: pressure, unit: 'kPa' },
     temp: temp === null ? null : { column: temp, unit: '°C' },
     closureId: id === null ? null : { column: id },
   };
+}
+
+/** Unit names earlier versions saved in mappings, and the name each has now. */
+const RENAMED_H2O_UNITS: Record<string, H2oUnit> = { 'mmol/mol (ppt)': 'mmol/mol' };
+
+/** A mapping saved on the device (a preset per analyzer), with unit names of earlier versions brought up to date. */
+export function savedMapping(stored: unknown): LoggerMapping | null {
+  if (!stored || typeof stored !== 'object') return null;
+  const m = stored as LoggerMapping;
+  const renamed = m.h2o ? RENAMED_H2O_UNITS[m.h2o.unit] : undefined;
+  return renamed ? { ...m, h2o: { ...m.h2o!, unit: renamed } } : m;
 }
 
 export function tempToC(v: number, unit: TempUnit): number {

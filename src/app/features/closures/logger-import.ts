@@ -6,7 +6,7 @@ import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/materia
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import {
   CO2_UNITS, ELAPSED_UNITS, H2O_UNITS, PRESSURE_UNITS, TEMP_UNITS, TIMESTAMP_FORMATS, estimateClockOffset, guessLayout,
-  matchPiecesToVisits, medianStepS, pieceSeries, splitByTaps, splitClosures, suggestMapping,
+  matchPiecesToVisits, medianStepS, pieceSeries, savedMapping, splitByTaps, splitClosures, suggestMapping,
   type LoggerMapping, type LoggerRead, type PieceMatch, type SplitMethod, type SplitResult, type TextLayout,
 } from '../../../../shared/logger';
 import { TYPICAL_SETTLE_TIME_S } from '../../../../shared/flux';
@@ -95,7 +95,7 @@ export class LoggerImport {
     this.timeZone = String(site?.['timezone'] ?? 'UTC');
     const layout = guessLayout(this.text);
     this.layout.set(layout);
-    const preset = this.memory.read(this.presetKey()) as LoggerMapping | null;
+    const preset = savedMapping(this.memory.read(this.presetKey()));
     const fits = preset && preset.headerRow === layout.headerRow && preset.delimiter === layout.delimiter;
     this.mapping = fits ? structuredClone(preset) : suggestMapping(layout.headers, layout, this.timeZone) ?? {
       ...layout, time: { kind: 'elapsed', column: 0, unit: 's' }, co2: { column: Math.min(1, layout.headers.length - 1), unit: 'µmol/mol (ppm)' },
@@ -112,7 +112,7 @@ export class LoggerImport {
   /** Optional columns: -1 in the select means "not in this file". */
   protected optional(key: 'h2o' | 'pressure' | 'temp' | 'closureId', column: number): void {
     const m = this.mapping! as unknown as Record<string, { column: number; unit?: string } | null>;
-    const unit = { h2o: 'mmol/mol (ppt)', pressure: 'kPa', temp: '°C', closureId: undefined }[key];
+    const unit = { h2o: 'mmol/mol', pressure: 'kPa', temp: '°C', closureId: undefined }[key];
     m[key] = column < 0 ? null : { ...(m[key] ?? (unit ? { unit } : {})), column };
   }
 

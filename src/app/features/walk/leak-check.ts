@@ -5,7 +5,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatRadioModule } from '@angular/material/radio';
 import { MatSelectModule } from '@angular/material/select';
-import type { LoggerMapping } from '../../../../shared/logger';
+import { savedMapping } from '../../../../shared/logger';
 import { DeviceMemory } from '../../core/device/device-memory';
 import { leakFromTyped, leakSlope, type LeakFit } from './leak-fit';
 import { leakPieces, loggerPresetKey, type LeakPiece } from './leak-file';
@@ -88,7 +88,7 @@ export class LeakCheck {
     this.fileName.set(f.name);
     this.file = f;
     try {
-      const preset = this.memory.read(loggerPresetKey(this.analyzerId())) as LoggerMapping | null;
+      const preset = savedMapping(this.memory.read(loggerPresetKey(this.analyzerId())));
       const pieces = await leakPieces(await f.text(), this.timeZone(), preset);
       if (!pieces.length) this.fileProblem.set(`${f.name}: no CO2 samples found. Check the columns once in Import logger file at a collar, then try again.`);
       this.pieces.set(pieces);
