@@ -1,6 +1,6 @@
 import type { DataSource, EntityManager } from 'typeorm';
 import type { QcFlag } from '../../shared/flux/qc-flags';
-import { worstDriftPct } from '../../shared/model/calibration';
+import { calibrationAgeDays, worstDriftPct } from '../../shared/model/calibration';
 import { localDay } from '../closures/closure-inputs';
 
 export type AnomalyKind =
@@ -216,11 +216,11 @@ async function calibrationAnomalies(db: Db, site: Record<string, unknown>, now: 
   const out: Anomaly[] = [];
   for (const r of rows) {
     const interval = Number(r.calibration_interval_days);
-    const age = r.last_cal ? (now.getTime() - new Date(r.last_cal).getTime()) / 86_400_000 : null;
-    if (age === null || age > interval) {
+    const age = r.last_cal ? calibrationAgeDays(r.last_cal, now) : null;
+    if (age === null || age >= interval) {
       out.push({ kind: 'calibration-overdue', severity: 'problem', collarId: null, collarCode: null, recordId: r.id, at: iso(r.last_cal),
-        value: age === null ? null : Math.floor(age), threshold: interval,
-        message: age === null ? `${r.name}: no calibration on record` : `${r.name}: last calibrated ${Math.floor(age)} days ago (interval ${interval} days)` });
+        value: age, threshold: interval,
+        message: age === null ? `${r.name}: no calibration on record` : `${r.name}: last calibrated ${age} days ago (interval ${interval} days)` });
     }
     const pct = worstDriftPct({ driftPpm: num(r.drift_ppm), zeroDriftPpm: num(r.zero_drift_ppm), spanGasPpm: num(r.span_gas_ppm) });
     if (pct !== null && pct > limitPct) {

@@ -7,6 +7,12 @@
  * analyzer had moved since it was last set; judged in % of the span gas concentration because a
  * gain error moves every flux by that share (common practice; no published constant).
  */
+/**
+ * Common practice: an analyzer found more than about 2 % of the span gas off at calibration puts
+ * the fluxes since its previous calibration in question (a gain error moves every flux by its share).
+ */
+export const DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT = 2;
+
 export interface CalibrationReadings {
   zeroGasPpm?: number | null;
   zeroBeforePpm?: number | null;
@@ -49,4 +55,9 @@ export function calibrationPassed(c: CalibrationReadings & { zeroAfterPpm?: numb
   if (given(c.zeroAfterPpm) && given(c.zeroGasPpm)) left.push(Math.abs(c.zeroAfterPpm - c.zeroGasPpm));
   if (given(c.spanAfterPpm)) left.push(Math.abs(c.spanAfterPpm - c.spanGasPpm));
   return left.length ? left.every((e) => e <= tolerance + 1e-9) : null;
+}
+
+/** Whole days since a calibration (24 h each, rounded down), as the Board and Walk count them. */
+export function calibrationAgeDays(atIso: string | Date, now: Date): number {
+  return Math.floor((now.getTime() - new Date(atIso).getTime()) / 86_400_000);
 }

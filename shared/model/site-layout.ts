@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { calibrationDrifts } from './calibration';
+import { calibrationDrifts, DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT } from './calibration';
 import { isoDate, name, ranged, text, uuid } from './common';
 
 export const moistureCalibrationSchema = z.discriminatedUnion('kind', [
@@ -35,9 +35,7 @@ export const siteFields = z.object({
    * Kutzbach et al. 2007) or at the end of the settle time. Closure unless the site chooses otherwise.
    */
   slopeBasis: z.enum(['closure', 'settle_end'], { message: 'Slope basis must be closure or settle_end' }).default('closure'),
-  // Common practice: an analyzer found more than about 2 % of the span gas off at calibration puts
-  // the fluxes since its previous calibration in question (a gain error moves every flux by its share).
-  calibrationDriftLimitPct: ranged(0.1, 50, '%', 'Calibration drift limit').default(2),
+  calibrationDriftLimitPct: ranged(0.1, 50, '%', 'Calibration drift limit').default(DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT),
   digestLocalTime: z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'Digest time must be HH:MM').default('18:00'),
   tileUrl: z.string().max(500).regex(/^https:\/\/.*\{z\}.*\{x\}.*\{y\}/, 'Tile URL must be https with {z}, {x} and {y}').nullable().default(null),
   tileAttribution: text(500).nullable().default(null),

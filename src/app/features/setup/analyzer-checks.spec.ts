@@ -5,7 +5,8 @@ import { TestBed } from '@angular/core/testing';
 import { MatSelectHarness } from '@angular/material/select/testing';
 import { MatSortHarness } from '@angular/material/sort/testing';
 import { MatTableHarness } from '@angular/material/table/testing';
-import { AnalyzerChecks, siteTime } from './analyzer-checks';
+import { siteTime } from '../calibration/site-clock';
+import { AnalyzerChecks } from './analyzer-checks';
 
 const SITE = '0b5e7d2c-1111-4a4a-8a8a-000000000001';
 const A1 = { id: 'a0000000-0000-4000-8000-000000000001', rev: 1, siteId: SITE, name: 'Field unit 1', serial: 'FU-0193' };

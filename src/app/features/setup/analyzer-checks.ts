@@ -5,6 +5,7 @@ import { MatSelectModule } from '@angular/material/select';
 import { MatSort, MatSortModule } from '@angular/material/sort';
 import { MatTableDataSource, MatTableModule } from '@angular/material/table';
 import { serverMessage } from '../../core/api/api-error';
+import { siteTime } from '../calibration/site-clock';
 import { SetupApi, type Rec } from './setup-api';
 
 const KIND_LABEL: Record<string, string> = {
@@ -32,15 +33,6 @@ export function checkOutcome(c: Rec): string {
 
 function fileOf(a: Rec | undefined): CheckRow['file'] {
   return a ? { id: a.id, name: String(a['fileName'] || 'file'), uploaded: Boolean(a['objectKey']) } : null;
-}
-
-/** Local time of the site, so a start-of-day check reads as the crew saw it. */
-export function siteTime(iso: string, timeZone: string): string {
-  const parts = new Intl.DateTimeFormat('en-CA', {
-    timeZone, year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', hourCycle: 'h23',
-  }).formatToParts(new Date(iso));
-  const p = Object.fromEntries(parts.map((x) => [x.type, x.value]));
-  return `${p['year']}-${p['month']}-${p['day']} ${p['hour']}:${p['minute']}`;
 }
 
 /** An analyzer's check records (calibration, leak, ambient, clock, warm-up): kind, when, who, the result and the file it was read from. */

@@ -6,12 +6,14 @@ import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { RouterLink } from '@angular/router';
 import { TYPICAL_SETTLE_TIME_S } from '../../../../shared/flux';
+import { DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT } from '../../../../shared/model/calibration';
 import { SiteChoice } from '../../core/auth/site-choice';
 import type { LocalRecord } from '../../core/db/db-schema';
 import { textMediaType } from '../../core/db/device-files';
 import { liveSignal } from '../../core/db/live-query-signal';
 import { validated } from '../../core/db/validated';
 import { LocalWrites } from '../../core/sync/local-writes';
+import { CalibrationCard } from './calibration-card';
 import { LeakCheck, type LeakResult } from './leak-check';
 import { parseCm } from './offset-form';
 import { CHECK_ITEMS, clockOffsetS, type CheckKind } from './start-of-day-items';
@@ -25,7 +27,7 @@ import { localDayStart, todayChecks, walkOptions } from './walk-store';
  */
 @Component({
   selector: 'fw-start-of-day',
-  imports: [DatePipe, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule, RouterLink, LeakCheck],
+  imports: [DatePipe, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule, RouterLink, LeakCheck, CalibrationCard],
   templateUrl: './start-of-day.html',
   styleUrl: './walk.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -54,6 +56,8 @@ export class StartOfDay {
     const current = this.profiles().filter((p) => String(p['validFrom']) <= today).sort((a, b) => String(b['validFrom']).localeCompare(String(a['validFrom'])))[0];
     return typeof current?.['settleS'] === 'number' ? current['settleS'] : TYPICAL_SETTLE_TIME_S;
   });
+  protected readonly analyzer = computed(() => this.options()?.analyzers.find((a) => a.id === this.choice().analyzerId) ?? null);
+  protected readonly driftLimit = computed(() => Number(this.options()?.site?.['calibrationDriftLimitPct'] ?? DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT));
   protected readonly safetyNote = computed(() => String(this.options()?.site?.['safetyNote'] ?? '').trim());
 
   protected readonly ambient = signal('');
