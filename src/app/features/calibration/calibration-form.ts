@@ -5,7 +5,7 @@ import { FormControl, FormGroup, ReactiveFormsModule, Validators, type AbstractC
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
-import { calibrationDrifts, calibrationPassed, worstDriftPct } from '../../../../shared/model/calibration';
+import { DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT, calibrationDrifts, calibrationPassed, worstDriftPct } from '../../../../shared/model/calibration';
 import { fromSiteWallTime, siteWallTime } from './site-clock';
 
 /** The fields of an analyzer check of kind 'calibration' that the form fills. */
@@ -41,7 +41,7 @@ const reading = () => new FormControl<number | null>(null, [Validators.required,
 })
 export class CalibrationForm implements OnInit {
   /** Largest drift the site accepts, in % of the span gas. */
-  readonly driftLimitPct = input(2);
+  readonly driftLimitPct = input(DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT);
   readonly timeZone = input('UTC');
   /** Who is recording (the signed-in person), shown so the record's author is plain. */
   readonly recordedBy = input('');

@@ -2,6 +2,8 @@ import { provideHttpClient } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
 import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
 import { TestBed } from '@angular/core/testing';
+import { MatButtonHarness } from '@angular/material/button/testing';
+import { MatInputHarness } from '@angular/material/input/testing';
 import { MatSelectHarness } from '@angular/material/select/testing';
 import { MatSortHarness } from '@angular/material/sort/testing';
 import { MatTableHarness } from '@angular/material/table/testing';
@@ -31,6 +33,7 @@ async function checksOf() {
   fixture.componentRef.setInput('siteId', SITE);
   fixture.componentRef.setInput('analyzers', [A1, A2]);
   fixture.componentRef.setInput('timeZone', 'Europe/Berlin');
+  fixture.componentRef.setInput('driftLimitPct', 2);
   fixture.detectChanges();
   const backend = TestBed.inject(HttpTestingController);
   backend.expectOne('/api/users').flush({ items: [{ id: ASH, email: 'r@example.org', displayName: 'Rowan Ashby', roles: ['crew'], siteIds: [SITE] }] });
@@ -76,6 +79,50 @@ describe('AnalyzerChecks', () => {
     await fixture.whenStable();
     expect(await grid.getRows()).toHaveLength(0);
     expect((fixture.nativeElement as HTMLElement).querySelector('.empty')!.textContent!.trim()).toBe('No checks recorded for this analyzer.');
+  });
+
+  it('when the admin records a calibration, then it is posted for the chosen analyzer in UTC and the list shows its drift', async () => {
+    const { fixture, backend, loader, grid } = await checksOf();
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Record a calibration…' }))).click();
+    expect((fixture.nativeElement as HTMLElement).querySelector('[data-testid="cylinder-caution"]')!.textContent).toContain("follow the supplier's handling rules");
+    const type = async (id: string, v: string) => (await loader.getHarness(MatInputHarness.with({ selector: `[data-testid="${id}"]` }))).setValue(v);
+    await type('cal-at', '2026-06-12T09:15');
+    await type('cal-zero-gas', '0');
+    await type('cal-zero-cylinder', 'N2-77');
+    await type('cal-zero-before', '3');
+    await type('cal-zero-after', '0.2');
+    await type('cal-span-gas', '800');
+    await type('cal-span-cylinder', 'SG-800-5');
+    await type('cal-span-before', '790');
+    await type('cal-span-after', '800.1');
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Save calibration' }))).click();
+    const post = backend.expectOne((r) => r.method === 'POST' && r.url === '/api/analyzer-checks');
+    // 09:15 in Berlin in June is UTC+2 (EU summer time).
+    expect(post.request.body).toEqual({ siteId: SITE, analyzerId: A1.id, kind: 'calibration', at: '2026-06-12T07:15:00.000Z', zeroGasPpm: 0, zeroCylinder: 'N2-77',
+      zeroBeforePpm: 3, zeroAfterPpm: 0.2, spanGasPpm: 800, spanCylinder: 'SG-800-5', spanBeforePpm: 790, spanAfterPpm: 800.1, passed: true, note: '' });
+    const stored = check(4, { ...post.request.body, zeroDriftPpm: 3, driftPpm: -10, passed: true });
+    post.flush({ record: stored });
+    await new Promise((r) => setTimeout(r, 0));
+    backend.expectOne((r) => r.url === '/api/analyzer-checks').flush({ items: [stored, ...A1_CHECKS], total: 4, limit: 1000, offset: 0 });
+    backend.expectOne((r) => r.url === '/api/attachments').flush({ items: [], total: 0, limit: 1000, offset: 0 });
+    await new Promise((r) => setTimeout(r, 0));
+    await fixture.whenStable();
+    expect((await grid.getCellTextByIndex())[0]).toEqual(['Calibration', '2026-06-12 09:15', 'Rowan Ashby',
+      'Passed · drift zero +3, span -10 µmol/mol (1.25 %) · span gas 800 µmol/mol (SG-800-5)', '']);
+    expect((fixture.nativeElement as HTMLElement).querySelector('[data-testid="checks-message"]')!.textContent).toContain('Calibration of Field unit 1 saved.');
+  });
+
+  it('when the server refuses a calibration, then its message shows and the form stays open with what was typed', async () => {
+    const { fixture, backend, loader } = await checksOf();
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Record a calibration…' }))).click();
+    const type = async (id: string, v: string) => (await loader.getHarness(MatInputHarness.with({ selector: `[data-testid="${id}"]` }))).setValue(v);
+    for (const [id, v] of [['cal-zero-before', '1'], ['cal-zero-after', '0'], ['cal-span-gas', '800'], ['cal-span-cylinder', 'SG-800-5'], ['cal-span-before', '801'], ['cal-span-after', '800']]) await type(id!, v!);
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Save calibration' }))).click();
+    backend.expectOne((r) => r.method === 'POST').flush({ error: { message: 'You are not a member of this site', fields: [] } }, { status: 403, statusText: 'Forbidden' });
+    await new Promise((r) => setTimeout(r, 0));
+    await fixture.whenStable();
+    expect((fixture.nativeElement as HTMLElement).querySelector('[data-testid="checks-message"]')!.textContent).toContain('You are not a member of this site');
+    expect(await (await loader.getHarness(MatInputHarness.with({ selector: '[data-testid="cal-span-cylinder"]' }))).getValue()).toBe('SG-800-5');
   });
 
   it('when a time is shown, then it is the wall-clock time of the site, across the change to summer time', () => {

@@ -1,10 +1,13 @@
 import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, viewChild } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatPaginator, MatPaginatorModule } from '@angular/material/paginator';
 import { MatSelectModule } from '@angular/material/select';
 import { MatSort, MatSortModule } from '@angular/material/sort';
 import { MatTableDataSource, MatTableModule } from '@angular/material/table';
+import { DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT, worstDriftPct } from '../../../../shared/model/calibration';
 import { serverMessage } from '../../core/api/api-error';
+import { CalibrationForm, type CalibrationEntry } from '../calibration/calibration-form';
 import { siteTime } from '../calibration/site-clock';
 import { SetupApi, type Rec } from './setup-api';
 
@@ -23,12 +26,23 @@ export interface CheckRow {
   file: { id: string; name: string; uploaded: boolean } | null;
 }
 
-/** What a check came to, in words: a skipped check says why; a check with no verdict says so. */
+/** What a check came to, in words: a skipped check says why; a check with no verdict says so; a calibration gives its drift and cylinder. */
 export function checkOutcome(c: Rec): string {
   if (c['skipped']) return `Skipped: ${String(c['skipReason'] ?? '').trim() || 'no reason given'}`;
-  if (c['passed'] === true) return 'Passed';
-  if (c['passed'] === false) return 'Failed';
-  return 'Recorded (no pass/fail)';
+  const verdict = c['passed'] === true ? 'Passed' : c['passed'] === false ? 'Failed' : 'Recorded (no pass/fail)';
+  return c['kind'] === 'calibration' ? [verdict, ...calibrationFacts(c)].join(' · ') : verdict;
+}
+
+const signed = (x: number) => `${x > 0 ? '+' : ''}${x}`;
+
+function calibrationFacts(c: Rec): string[] {
+  const n = (k: string) => (typeof c[k] === 'number' ? (c[k] as number) : null);
+  const out: string[] = [];
+  const drifts = [['zero', n('zeroDriftPpm')], ['span', n('driftPpm')]].filter(([, v]) => v !== null).map(([w, v]) => `${w} ${signed(v as number)}`);
+  const pct = worstDriftPct({ zeroDriftPpm: n('zeroDriftPpm'), driftPpm: n('driftPpm'), spanGasPpm: n('spanGasPpm') });
+  if (drifts.length) out.push(`drift ${drifts.join(', ')} µmol/mol${pct === null ? '' : ` (${pct} %)`}`);
+  if (n('spanGasPpm') !== null) out.push(`span gas ${n('spanGasPpm')} µmol/mol${c['spanCylinder'] ? ` (${String(c['spanCylinder'])})` : ''}`);
+  return out;
 }
 
 function fileOf(a: Rec | undefined): CheckRow['file'] {
@@ -38,7 +52,7 @@ function fileOf(a: Rec | undefined): CheckRow['file'] {
 /** An analyzer's check records (calibration, leak, ambient, clock, warm-up): kind, when, who, the result and the file it was read from. */
 @Component({
   selector: 'fw-analyzer-checks',
-  imports: [MatFormFieldModule, MatSelectModule, MatTableModule, MatSortModule, MatPaginatorModule],
+  imports: [CalibrationForm, MatButtonModule, MatFormFieldModule, MatSelectModule, MatTableModule, MatSortModule, MatPaginatorModule],
   template: `
     <section aria-labelledby="checks-heading">
       <h3 id="checks-heading">Analyzer checks</h3>
@@ -83,7 +97,16 @@ function fileOf(a: Rec | undefined): CheckRow['file'] {
         </tr>
       </table>
       <mat-paginator [pageSize]="25" [pageSizeOptions]="[25, 100]" aria-label="Pages of analyzer checks" />
-      <p role="status">{{ message() }}</p>
+      @if (analyzerId()) {
+        @if (calibrating()) {
+          <h4>New calibration of {{ analyzerName() }}</h4>
+          <fw-calibration-form [driftLimitPct]="driftLimitPct()" [timeZone]="timeZone()" [busy]="saving()" (save)="saveCalibration($event)" />
+          <button mat-button type="button" (click)="calibrating.set(false)">Cancel</button>
+        } @else {
+          <button mat-stroked-button type="button" (click)="calibrating.set(true)">Record a calibration…</button>
+        }
+      }
+      <p role="status" data-testid="checks-message">{{ message() }}</p>
     </section>
   `,
   styles: `table { width: 100%; } .empty { padding: 1rem; }`,
@@ -94,6 +117,8 @@ export class AnalyzerChecks {
   readonly siteId = input.required<string>();
   readonly analyzers = input<Rec[]>([]);
   readonly timeZone = input('UTC');
+  /** The site's calibration drift limit, % of the span gas. */
+  readonly driftLimitPct = input(DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT);
 
   protected readonly columns = ['kind', 'at', 'who', 'outcome', 'file'];
   protected readonly analyzerId = signal<string | null>(null);
@@ -101,6 +126,9 @@ export class AnalyzerChecks {
   /** Files kept with checks, by the check they belong to. */
   private readonly files = signal<Map<string, Rec>>(new Map());
   protected readonly message = signal('');
+  protected readonly calibrating = signal(false);
+  protected readonly saving = signal(false);
+  protected readonly analyzerName = computed(() => String(this.analyzers().find((a) => a.id === this.analyzerId())?.['name'] ?? ''));
   private readonly names = signal<Map<string, string>>(new Map());
   protected readonly data = new MatTableDataSource<CheckRow>([]);
   private readonly sort = viewChild(MatSort);
@@ -140,7 +168,24 @@ export class AnalyzerChecks {
     }
   }
 
-  private async load(siteId: string, analyzerId: string | null): Promise<void> {
+  /** Sends a calibration of the chosen analyzer to the server; the list shows it once stored. */
+  protected async saveCalibration(entry: CalibrationEntry): Promise<void> {
+    const analyzerId = this.analyzerId();
+    if (!analyzerId || this.saving()) return;
+    this.saving.set(true);
+    try {
+      await this.api.create('analyzer-checks', { siteId: this.siteId(), analyzerId, kind: 'calibration', ...entry });
+      this.calibrating.set(false);
+      this.message.set(`Calibration of ${this.analyzerName()} saved.`);
+      await this.load(this.siteId(), analyzerId, false);
+    } catch (err) {
+      this.message.set(serverMessage(err, 'The calibration was not saved'));
+    } finally {
+      this.saving.set(false);
+    }
+  }
+
+  private async load(siteId: string, analyzerId: string | null, clearMessage = true): Promise<void> {
     if (!analyzerId) return this.checks.set([]);
     try {
       const [checks, files] = await Promise.all([
@@ -150,7 +195,7 @@ export class AnalyzerChecks {
       if (this.analyzerId() !== analyzerId) return; // another analyzer was chosen meanwhile
       this.files.set(new Map(files.map((f) => [String(f['ownerId']), f])));
       this.checks.set(checks);
-      this.message.set('');
+      if (clearMessage) this.message.set('');
     } catch (err) {
       this.checks.set([]);
       this.message.set(serverMessage(err, 'Could not load the checks'));

@@ -73,6 +73,7 @@ export class Setup {
     { key: 'rangeMinPpm', label: 'Calibrated from (µmol/mol)', kind: 'number' },
     { key: 'rangeMaxPpm', label: 'Calibrated to (µmol/mol)', kind: 'number' },
     { key: 'precisionPpm', label: 'Precision (µmol/mol; empty: 1 is used as a default)', kind: 'number', optional: true },
+    { key: 'calibrationIntervalDays', label: 'Calibrate every (days)', kind: 'number' },
   ];
 
   constructor() {

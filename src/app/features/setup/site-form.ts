@@ -4,6 +4,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { pressureFromElevationKpa } from '../../../../shared/flux/standard-atmosphere';
+import { DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT } from '../../../../shared/model/calibration';
 import { siteFields } from '../../../../shared/model/site-layout';
 import { fieldProblems, serverMessage } from '../../core/api/api-error';
 import { issuesByField } from './record-fields';
@@ -12,7 +13,7 @@ import { SetupApi, type Rec } from './setup-api';
 type Draft = Partial<Record<string, string>>;
 
 const NUMBER_FIELDS = ['elevationM', 'latitude', 'longitude', 'tempDepthCm', 'settlingDaysHard', 'settlingDaysWarn', 'offsetSpreadPct',
-  'offsetMoveCm', 'leakSlopeUmolMolS', 'ambientMarginPpm'] as const;
+  'offsetMoveCm', 'leakSlopeUmolMolS', 'ambientMarginPpm', 'calibrationDriftLimitPct'] as const;
 const NULLABLE = new Set(['elevationM', 'latitude', 'longitude', 'tileUrl', 'tileAttribution']);
 
 /** Thresholds of the site, with the unit each is entered in. */
@@ -23,6 +24,7 @@ export const THRESHOLDS = [
   { key: 'offsetMoveCm', label: 'Offset move', unit: 'cm' },
   { key: 'leakSlopeUmolMolS', label: 'Leak-check slope', unit: 'µmol/mol/s' },
   { key: 'ambientMarginPpm', label: 'Start-above-ambient margin', unit: 'µmol/mol' },
+  { key: 'calibrationDriftLimitPct', label: 'Calibration drift limit (of the span gas)', unit: '%' },
   { key: 'tempDepthCm', label: 'Soil temperature depth for responses', unit: 'cm' },
 ] as const;
 
@@ -93,7 +95,8 @@ function toDraft(site: Rec | null): Draft {
     calibration: cal.kind, coefficients: (cal.coefficients ?? []).join(', '), validMin: str(cal.validMin), validMax: str(cal.validMax),
     tempDepthCm: str(s['tempDepthCm'], '5'), settlingDaysHard: str(s['settlingDaysHard'], '1'), settlingDaysWarn: str(s['settlingDaysWarn'], '7'),
     offsetSpreadPct: str(s['offsetSpreadPct'], '3'), offsetMoveCm: str(s['offsetMoveCm'], '1'), leakSlopeUmolMolS: str(s['leakSlopeUmolMolS'], '0.05'),
-    ambientMarginPpm: str(s['ambientMarginPpm'], '100'), slopeBasis: str(s['slopeBasis'], 'closure'), digestLocalTime: str(s['digestLocalTime'], '18:00'),
+    ambientMarginPpm: str(s['ambientMarginPpm'], '100'), slopeBasis: str(s['slopeBasis'], 'closure'),
+    calibrationDriftLimitPct: str(s['calibrationDriftLimitPct'], String(DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT)), digestLocalTime: str(s['digestLocalTime'], '18:00'),
     tileUrl: str(s['tileUrl']), tileAttribution: str(s['tileAttribution']),
   };
 }

@@ -1,6 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
-import { calibrationAgeDays } from '../../../../shared/model/calibration';
+import { DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT, calibrationAgeDays } from '../../../../shared/model/calibration';
 import type { RecordMeta } from '../../../../shared/model/common';
 import type { EntityFields } from '../../../../shared/model/entities';
 import { AuthStore } from '../../core/auth/auth-store';
@@ -53,7 +53,7 @@ export class CalibrationCard {
   private readonly auth = inject(AuthStore);
   readonly siteId = input.required<string>();
   readonly analyzer = input<Analyzer | null>(null);
-  readonly driftLimitPct = input(2);
+  readonly driftLimitPct = input(DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT);
   readonly timeZone = input('UTC');
 
   protected readonly open = signal(false);
