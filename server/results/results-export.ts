@@ -3,6 +3,7 @@ import type { DataSource } from 'typeorm';
 import { engineVersion, RESPONSE_LIMITS, SELECTION_MARGIN } from '../../shared/flux';
 import { defineJob } from '../jobs/job-registry';
 import { csvLine, type CsvValue } from '../../shared/csv/csv-cell';
+import { calibrationRows } from './calibration-rows';
 import { dataPackage, type Provenance } from './data-package';
 import { emlDocument } from './eml-document';
 import * as rows from './export-rows';
@@ -41,6 +42,7 @@ export async function runResultsExport(ds: DataSource, req: ExportRequest, hooks
   const sources: Record<string, () => rows.Rows> = {
     collars: () => rows.collarRows(ds, site.id),
     collar_events: () => rows.collarEventRows(ds, site.id),
+    calibrations: () => calibrationRows(ds, site.id),
     visits: () => rows.visitRows(ds, site.id),
     offset_sets: () => rows.offsetSetRows(ds, site.id),
     probe_readings: () => rows.probeRows(ds, site.id, site.tempDepthCm),

@@ -152,6 +152,20 @@ describe('Bench results export: data package, EML, provenance, re-import', () =>
     expect(eml).toContain('flux_basis');
   });
 
+  it('when calibrations.csv is read, then it holds each calibration of the season with gases, cylinder, readings and drift against the site limit', () => {
+    const rows = tables.get('calibrations')!;
+    const cols = ['calibrated_at', 'zero_gas_ppm', 'zero_cylinder', 'zero_before_ppm', 'zero_drift_ppm', 'span_gas_ppm', 'span_cylinder',
+      'span_before_ppm', 'span_after_ppm', 'span_drift_ppm', 'drift_pct', 'drift_limit_pct', 'over_limit', 'passed', 'skipped'];
+    // The demo's zero/span calibrations (server/seed): drift = reading before − gas; % of the 1000 µmol/mol span gas.
+    expect(rows.map((r) => cols.map((c) => r[c]))).toEqual([
+      ['2026-03-30T08:00:00.000Z', '0', '', '0.8', '0.8', '1000', 'SG-1000-0417', '1003.1', '1000.2', '3.1', '0.31', '2', 'false', 'true', 'false'],
+      ['2026-07-06T08:00:00.000Z', '0', '', '-1.2', '-1.2', '1000', 'SG-1000-0417', '995.4', '1000.2', '-4.6', '0.46', '2', 'false', 'true', 'false'],
+    ]);
+    expect(rows.every((r) => r['analyzer_name'] === 'Analyzer A1' && r['recorded_by'] !== '')).toBe(true);
+    const resource = pkg.resources.find((r: any) => r.name === 'calibrations');
+    expect([resource.path, resource.schema.primaryKey]).toEqual(['data/calibrations.csv', ['calibration_id']]);
+  });
+
   it('when the provenance is read, then it names the engine version, the parameters, who and when', () => {
     const p = JSON.parse(files.get('provenance.json')!.toString('utf8'));
     expect(p).toMatchObject({ engineVersion: '1.1.0', generatedBy: { email: demoEmail('lab') },
