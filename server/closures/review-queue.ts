@@ -1,6 +1,7 @@
 import type { DataSource } from 'typeorm';
 import { z } from 'zod';
 import { seesAllSites, type SessionUser } from '../../shared/auth/roles';
+import { worstDriftPct } from '../../shared/model/calibration';
 import { REVIEW_STATES } from '../../shared/model/field-records';
 import { QC_FLAGS } from '../../shared/flux';
 import { parse } from '../core/validate';
@@ -75,6 +76,8 @@ function queueSql(filter: QueueFilter & { id?: string }, readable: string[] | nu
              cp.locked AS campaign_locked, v.round, coalesce((v.conditions->>'rain24h')::boolean, false) AS rain24h,
              d.day, d.day - inst.date AS days_since_install, d.day - clip.date AS days_since_clipping,
              (c.started_at::date - cal.at::date) AS calibration_age_days, cal.drift_ppm AS calibration_drift_ppm,
+             cal.zero_drift_ppm AS calibration_zero_drift_ppm, cal.span_gas_ppm AS calibration_span_gas_ppm,
+             an.calibration_interval_days, s.calibration_drift_limit_pct,
              EXISTS (SELECT 1 FROM analyzer_check l WHERE l.site_id = c.site_id AND l.kind = 'leak' AND l.passed = false AND NOT l.deleted
                         AND (l.analyzer_id IS NULL OR c.analyzer_id IS NULL OR l.analyzer_id = c.analyzer_id)
                         AND (l.at AT TIME ZONE s.timezone)::date = d.day) AS leak_failed
@@ -104,10 +107,11 @@ function queueSql(filter: QueueFilter & { id?: string }, readable: string[] | nu
           SELECT max(e.date) AS date FROM collar_event e
            WHERE e.collar_id = c.collar_id AND NOT e.deleted AND e.kind = 'clipped' AND e.date <= d.day) clip ON true
         LEFT JOIN LATERAL (
-          SELECT a.at, a.drift_ppm FROM analyzer_check a
+          SELECT a.at, a.drift_ppm, a.zero_drift_ppm, a.span_gas_ppm, a.analyzer_id FROM analyzer_check a
            WHERE a.site_id = c.site_id AND a.kind = 'calibration' AND NOT a.deleted AND NOT a.skipped AND a.at <= c.started_at
              AND (a.analyzer_id IS NULL OR c.analyzer_id IS NULL OR a.analyzer_id = c.analyzer_id)
            ORDER BY a.at DESC LIMIT 1) cal ON true
+        LEFT JOIN analyzer an ON an.id = coalesce(c.analyzer_id, cal.analyzer_id)
        WHERE ${where.join(' AND ')})
     SELECT q.*, count(*) OVER () AS total FROM q ${ctx.length ? `WHERE ${ctx.join(' AND ')}` : ''}`;
   return { sql, args, p };
@@ -123,6 +127,8 @@ export interface QueueItem {
   collarCode: string; plotCode: string; blockCode: string | null; treatmentCode: string | null; campaignName: string;
   campaignLocked: boolean; round: number; rain24h: boolean; daysSinceInstall: number | null; daysSinceClipping: number | null;
   calibrationAgeDays: number | null; calibrationDriftPpm: number | null; leakFailed: boolean;
+  /** The analyzer's interval, the calibration's larger drift in % of its span gas, and the site's limit for it. */
+  calibrationIntervalDays: number | null; calibrationDriftPct: number | null; calibrationDriftLimitPct: number;
 }
 
 export interface ChangedMark { at: string; userName: string | null; fields: string[]; previousState: string | null }
@@ -174,6 +180,8 @@ function toItem(r: Record<string, unknown>): QueueItem {
     campaignLocked: Boolean(r['campaign_locked']), round: Number(r['round']), rain24h: Boolean(r['rain24h']),
     daysSinceInstall: num(r['days_since_install']), daysSinceClipping: num(r['days_since_clipping']),
     calibrationAgeDays: num(r['calibration_age_days']), calibrationDriftPpm: num(r['calibration_drift_ppm']), leakFailed: Boolean(r['leak_failed']),
+    calibrationIntervalDays: num(r['calibration_interval_days']), calibrationDriftLimitPct: Number(r['calibration_drift_limit_pct']),
+    calibrationDriftPct: worstDriftPct({ driftPpm: num(r['calibration_drift_ppm']), zeroDriftPpm: num(r['calibration_zero_drift_ppm']), spanGasPpm: num(r['calibration_span_gas_ppm']) }),
   };
 }
 

@@ -1,6 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import { findAnomalies } from '../../server/board/anomalies';
-import { makeSiteWithCollar } from '../support/fixtures';
+import { DEMO_SITE_ID, makeSiteWithCollar } from '../support/fixtures';
 import { demoEmail, signIn, startTestApp, type Session, type TestApp } from '../support/test-app';
 
 const LEAD_ID = '1a6f0c3e-2d4b-4e8a-9c1f-3b5d7e9f1a02';
@@ -101,5 +101,29 @@ describe('Analyzer calibrations: recorded by the crew, judged on the Board', () 
     const ids = res.body.items.filter((a: { kind: string }) => a.kind === 'calibration-overdue').map((a: { recordId: string }) => a.recordId);
     expect(ids).toContain(analyzer['Never']);
     expect(ids).not.toContain(analyzer['Calibrated']);
+  });
+});
+
+describe('Bench: the calibration behind each closure', () => {
+  let t: TestApp;
+  let lab: Session;
+  beforeAll(async () => {
+    t = await startTestApp();
+    lab = await signIn(t.app, demoEmail('lab'));
+  });
+  afterAll(() => t.close());
+
+  it('when the lab reads the queue, then each closure carries the age, interval and drift against the site limit of the calibration before it', async () => {
+    const res = await lab.get(`/api/bench/queue?siteId=${DEMO_SITE_ID}&limit=200`);
+    expect(res.status).toBe(200);
+    expect(res.body.items.length).toBeGreaterThan(0);
+    // The demo analyzer (interval 180 days) was calibrated on 30 March (largest drift 3.1 µmol/mol of 1000) and 6 July (4.6 of 1000).
+    for (const q of res.body.items) {
+      const after = q.startedAt >= '2026-07-06T08:00:00.000Z';
+      const from = after ? '2026-07-06' : '2026-03-30';
+      const age = Math.round((Date.parse(q.startedAt.slice(0, 10)) - Date.parse(from)) / 86_400_000);
+      expect([q.calibrationAgeDays, q.calibrationIntervalDays, q.calibrationDriftPct, q.calibrationDriftLimitPct])
+        .toEqual([age, 180, after ? 0.46 : 0.31, 2]);
+    }
   });
 });

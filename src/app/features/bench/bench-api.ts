@@ -32,6 +32,7 @@ export interface QueueItem {
   recomputedSinceReview: RecomputedMark | null; changedSinceReview: ChangedMark | null; collarCode: string; plotCode: string; blockCode: string | null;
   treatmentCode: string | null; campaignName: string; round: number; rain24h: boolean; daysSinceInstall: number | null;
   daysSinceClipping: number | null; calibrationAgeDays: number | null; calibrationDriftPpm: number | null; leakFailed: boolean;
+  calibrationIntervalDays: number | null; calibrationDriftPct: number | null; calibrationDriftLimitPct: number;
 }
 
 export interface Page<T> { items: T[]; total: number; limit: number; offset: number }
