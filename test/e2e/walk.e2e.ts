@@ -74,7 +74,15 @@ describe('Walk in Chromium on a phone, offline', () => {
       await page.getByTestId('skip-reason-clock').fill('Analyzer display unreadable in full sun');
       await page.getByRole('button', { name: 'Save skip' }).click();
       await page.getByTestId('checks-done').filter({ hasText: '5 of 5 checks done today' }).waitFor();
+      // Calibration at the car: zero on scrubbed air, span on a 1000 µmol/mol cylinder; time left at now on the site clock.
+      await page.getByRole('button', { name: 'Record a calibration…' }).click();
+      await page.getByTestId('cylinder-caution').waitFor();
+      for (const [id, v] of [['cal-zero-before', '2.4'], ['cal-zero-after', '0.1'], ['cal-span-gas', '1000'], ['cal-span-cylinder', 'SG-1000-0988'],
+        ['cal-span-before', '1012.3'], ['cal-span-after', '1000.4']] as const) await page.getByTestId(id).fill(v);
+      await page.getByTestId('cal-drift-verdict').filter({ hasText: 'Drift within the site limit.' }).waitFor();
       axe['start of day'] = await seriousAccessibilityProblems(page);
+      await page.getByRole('button', { name: 'Save calibration' }).click();
+      await page.getByTestId('calibration-status').filter({ hasText: /^\s*Last calibrated .*\(0 days ago; due every 180 days\)/ }).waitFor();
 
       // Route: round 2 of the open campaign (picked by keyboard), collars in walking order.
       await page.getByRole('link', { name: 'To the route' }).click();
@@ -227,7 +235,10 @@ describe('Walk in Chromium on a phone, offline', () => {
       const checks = await query(`SELECT kind, skipped, skip_reason, passed, co2_ppm, slope_umol_mol_s, note FROM analyzer_check
         WHERE updated_by = $1 AND at > now() - interval '2 hours' AND at < now() + interval '1 hour' ORDER BY kind`, [user.id]);
       expect(checks.map((c) => [c['kind'], c['skipped']])).toEqual([
-        ['ambient', false], ['clock', true], ['leak', false], ['safety-ack', false], ['warm-up', false]]);
+        ['ambient', false], ['calibration', false], ['clock', true], ['leak', false], ['safety-ack', false], ['warm-up', false]]);
+      const [calibration] = await query(`SELECT span_cylinder, zero_drift_ppm, drift_ppm, passed FROM analyzer_check
+        WHERE updated_by = $1 AND kind = 'calibration'`, [user.id]);
+      expect(calibration).toEqual({ span_cylinder: 'SG-1000-0988', zero_drift_ppm: 2.4, drift_ppm: 12.3, passed: true });
       expect(checks.find((c) => c['kind'] === 'clock')!['skip_reason']).toBe('Analyzer display unreadable in full sun');
       const leak = checks.find((c) => c['kind'] === 'leak')!;
       expect(leak['passed']).toBe(true);
