@@ -6,6 +6,7 @@ import { MatSelectModule } from '@angular/material/select';
 import { MatSort, MatSortModule } from '@angular/material/sort';
 import { MatTableDataSource, MatTableModule } from '@angular/material/table';
 import { DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT, worstDriftPct } from '../../../../shared/model/calibration';
+import type { EntityFields } from '../../../../shared/model/entities';
 import { serverMessage } from '../../core/api/api-error';
 import { CalibrationForm, type CalibrationEntry } from '../calibration/calibration-form';
 import { siteTime } from '../calibration/site-clock';
@@ -35,13 +36,14 @@ export function checkOutcome(c: Rec): string {
 
 const signed = (x: number) => `${x > 0 ? '+' : ''}${x}`;
 
-function calibrationFacts(c: Rec): string[] {
-  const n = (k: string) => (typeof c[k] === 'number' ? (c[k] as number) : null);
+function calibrationFacts(rec: Rec): string[] {
+  const c = rec as unknown as Partial<EntityFields<'analyzerCheck'>>;
   const out: string[] = [];
-  const drifts = [['zero', n('zeroDriftPpm')], ['span', n('driftPpm')]].filter(([, v]) => v !== null).map(([w, v]) => `${w} ${signed(v as number)}`);
-  const pct = worstDriftPct({ zeroDriftPpm: n('zeroDriftPpm'), driftPpm: n('driftPpm'), spanGasPpm: n('spanGasPpm') });
+  const drifts = ([['zero', c.zeroDriftPpm], ['span', c.driftPpm]] as const).filter(([, v]) => typeof v === 'number')
+    .map(([w, v]) => `${w} ${signed(v!)}`);
+  const pct = worstDriftPct(c);
   if (drifts.length) out.push(`drift ${drifts.join(', ')} µmol/mol${pct === null ? '' : ` (${pct} %)`}`);
-  if (n('spanGasPpm') !== null) out.push(`span gas ${n('spanGasPpm')} µmol/mol${c['spanCylinder'] ? ` (${String(c['spanCylinder'])})` : ''}`);
+  if (typeof c.spanGasPpm === 'number') out.push(`span gas ${c.spanGasPpm} µmol/mol${c.spanCylinder ? ` (${c.spanCylinder})` : ''}`);
   return out;
 }
 
