@@ -65,7 +65,7 @@ describe('CalibrationForm', () => {
     expect(saved).toEqual([]);
     const errors = await Promise.all((await loader.getAllHarnesses(MatFormFieldHarness)).map((f) => f.getTextErrors()));
     expect(errors.flat()).toEqual(expect.arrayContaining([
-      'The certified concentration, above 0 µmol/mol', "Write the id on the cylinder's label", 'Enter what the analyzer showed before adjusting',
+      'Certified value, above 0', 'The id on its label', 'Reading before adjusting',
     ]));
   });
 
