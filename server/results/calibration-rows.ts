@@ -2,6 +2,11 @@ import type { DataSource } from 'typeorm';
 import { worstDriftPct } from '../../shared/model/calibration';
 import type { Rows } from './export-rows';
 
+/** The EML method step for calibrations.csv. */
+export const CALIBRATION_METHOD = 'Analyzer calibrations (calibrations.csv): zero and span gas with their cylinders, the analyzer reading of each before (as found) '
+  + 'and after (as left) adjustment; drift = reading before − gas concentration, judged as the larger of zero and span drift in % of the span gas '
+  + 'against the site limit (default 2 %, common practice).';
+
 /**
  * Rows of calibrations.csv: one per calibration record of the site (skipped ones too, with their
  * reason), oldest first, with the drift judged against the site's limit. Who recorded it is the

@@ -3,7 +3,7 @@ import type { DataSource } from 'typeorm';
 import { engineVersion, RESPONSE_LIMITS, SELECTION_MARGIN } from '../../shared/flux';
 import { defineJob } from '../jobs/job-registry';
 import { csvLine, type CsvValue } from '../../shared/csv/csv-cell';
-import { calibrationRows } from './calibration-rows';
+import { CALIBRATION_METHOD, calibrationRows } from './calibration-rows';
 import { dataPackage, type Provenance } from './data-package';
 import { emlDocument } from './eml-document';
 import * as rows from './export-rows';
@@ -98,6 +98,7 @@ export async function runResultsExport(ds: DataSource, req: ExportRequest, hooks
     `Aggregation: ${String(provenance.parameters['aggregation'])}; closures: ${req.selection}. Least-squares additive models per stratum: plot-level treatments with block as a factor; collar-level treatments (split plot) paired by plot.`,
     'Temperature response per treatment cell on plot × campaign × round means (the experimental unit): Q10 and Lloyd & Taylor (1994) with T0 = 227.13 K fixed, on the flux scale and on the log scale; 95 % CIs from t(n − 2) with n = units.',
     `Seasonal totals (${seasonal.fromDay} to ${seasonal.toDay}, ${req.model}): ${SEASONAL_METHOD}`,
+    CALIBRATION_METHOD,
   ];
   const cov = coverage(await ds.query(`SELECT min(latitude) s, max(latitude) n, min(longitude) w, max(longitude) e FROM collar WHERE site_id = $1 AND NOT deleted`, [site.id]),
     seasonal.fromDay, seasonal.toDay);

@@ -164,6 +164,7 @@ describe('Bench results export: data package, EML, provenance, re-import', () =>
     expect(rows.every((r) => r['analyzer_name'] === 'Analyzer A1' && r['recorded_by'] !== '')).toBe(true);
     const resource = pkg.resources.find((r: any) => r.name === 'calibrations');
     expect([resource.path, resource.schema.primaryKey]).toEqual(['data/calibrations.csv', ['calibration_id']]);
+    expect(files.get('metadata.eml.xml')!.toString('utf8')).toContain('drift = reading before − gas concentration');
   });
 
   it('when the provenance is read, then it names the engine version, the parameters, who and when', () => {
