@@ -1,6 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import { findAnomalies } from '../../server/board/anomalies';
 import { DEMO_SITE_ID, makeSiteWithCollar } from '../support/fixtures';
+import { makeUser } from '../support/site-world';
 import { demoEmail, signIn, startTestApp, type Session, type TestApp } from '../support/test-app';
 
 const LEAD_ID = '1a6f0c3e-2d4b-4e8a-9c1f-3b5d7e9f1a02';
@@ -24,12 +25,10 @@ describe('Analyzer calibrations: recorded by the crew, judged on the Board', () 
     t = await startTestApp();
     admin = await signIn(t.app, demoEmail('admin'));
     lead = await signIn(t.app, demoEmail('lead'));
-    crew = await signIn(t.app, demoEmail('crew'));
     const w = await makeSiteWithCollar(admin, lead, LEAD_ID);
     siteId = w.site.id;
-    const me = (await crew.get('/api/auth/me')).body.user;
-    await admin.patch(`/api/users/${me.id}`, { siteIds: [...me.siteIds, siteId] });
-    crew = await signIn(t.app, demoEmail('crew'));
+    // A crew member of its own: the demo crew's memberships stay as seeded for other test files.
+    crew = await signIn(t.app, (await makeUser(admin, ['crew'], [siteId])).email);
     for (const name of ['Calibrated', 'Overdue', 'Never', 'Drifted']) {
       analyzer[name] = (await admin.post('/api/analyzers', { siteId, name: `Unit ${name}`, calibrationIntervalDays: 180 })).body.record.id;
     }
