@@ -1,5 +1,5 @@
 import type { DataSource } from 'typeorm';
-import { CLOSURE_REVIEW_FIELDS } from '../../shared/model/field-records';
+import { CLOSURE_REVIEW_FIELDS, CLOSURE_SYSTEM_FIELDS } from '../../shared/model/field-records';
 import type { WrittenRecord } from '../records/after-write';
 
 export interface HistoryEntry {
@@ -16,7 +16,8 @@ export interface HistoryEntry {
   jobId: string | null;
 }
 
-const isReviewField = (f: string) => (CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f);
+// A corrected chamber profile or analyzer moves the flux like a review decision: kept the same way.
+const isReviewField = (f: string) => (CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f) || (CLOSURE_SYSTEM_FIELDS as readonly string[]).includes(f);
 
 /** A history value: large raw values (the series) are summarised by their sample count. */
 function historyValue(field: string, v: unknown): string {
@@ -25,8 +26,8 @@ function historyValue(field: string, v: unknown): string {
 }
 
 /**
- * Every review decision, whichever way it arrives (Bench, REST, a sync push), leaves one history
- * row per review field it changed: who, when, old → new, and the flux before and after. A raw
+ * Every review decision (and every change of a closure's chamber profile or analyzer), whichever
+ * way it arrives (Bench, REST, a sync push), leaves one history row per field it changed: who, when, old → new, and the flux before and after. A raw
  * change to a reviewed closure (which sends it back to review, see reviewResetOnRawChange) leaves
  * `raw-change` rows instead: one per raw field and one for the review state it reset, all by the
  * person who changed the data. Runs in the writer's transaction (see records/after-write.ts).

@@ -1,5 +1,5 @@
 import type { EntityManager } from 'typeorm';
-import type { ChamberProfileVersion, OffsetSetRecord, SlopeBasis } from '../../shared/flux';
+import { ambientForClosure, type AmbientCheck, type AmbientChoice, type NamedProfileVersion, type OffsetSetRecord, type SlopeBasis } from '../../shared/flux';
 
 type Db = Pick<EntityManager, 'query'>;
 
@@ -23,12 +23,19 @@ export interface ClosureContext {
   ambientMarginPpm: number;
   slopeBasis: SlopeBasis;
   areaCm2: number | null;
-  profiles: (ChamberProfileVersion & { id: string })[];
+  /** Every chamber profile version of the site, by name (shared/flux/chamber-system.ts picks the closure's). */
+  profiles: NamedProfileVersion[];
+  defaultProfileId: string | null;
   offsetSets: (OffsetSetRecord & { id: string; takenAt: string })[];
   precisionPpm: number | null;
   rangeMinPpm: number | null;
   rangeMaxPpm: number | null;
+  /** The ambient reading of the closure's own analyzer nearest in time (null: none). */
+  ambient: AmbientChoice | null;
   ambientPpm: number | null;
+  /** The visit's air temperature and the site's default, for closures whose file has no chamber temperature. */
+  visitAirTempC: number | null;
+  defaultAirTempC: number;
 }
 
 interface SiteInputs {
@@ -36,9 +43,11 @@ interface SiteInputs {
   elevationM: number | null;
   ambientMarginPpm: number;
   slopeBasis: SlopeBasis;
-  profiles: { id: string; validFrom: string; chamberVolumeCm3: number; loopVolumeCm3: number; footprintAreaCm2: number | null }[];
-  /** The day's ambient reading (latest of the local day), by local day. */
-  ambientByDay: Map<string, number>;
+  defaultProfileId: string | null;
+  defaultAirTempC: number;
+  profiles: { id: string; name: string; validFrom: string; chamberVolumeCm3: number; loopVolumeCm3: number; footprintAreaCm2: number | null }[];
+  /** Every usable ambient reading of the site, of any analyzer (ambientForClosure picks the closure's). */
+  ambientChecks: AmbientCheck[];
 }
 
 interface AnalyzerInputs { precisionPpm: number | null; rangeMinPpm: number | null; rangeMaxPpm: number | null }
@@ -54,6 +63,7 @@ export class ClosureInputs {
   private readonly sites = new Map<string, SiteInputs>();
   private readonly collars = new Map<string, { areaCm2: number | null; offsetSets: ClosureContext['offsetSets'] }>();
   private readonly analyzers = new Map<string, AnalyzerInputs>();
+  private readonly visits = new Map<string, number | null>();
 
   constructor(private readonly db: Db) {}
 
@@ -65,6 +75,8 @@ export class ClosureInputs {
     if (collarIds.length) await this.loadCollars(collarIds);
     const analyzerIds = missing(closures.map((c) => c['analyzerId']), this.analyzers);
     if (analyzerIds.length) await this.loadAnalyzers(analyzerIds);
+    const visitIds = missing(closures.map((c) => c['visitId']), this.visits);
+    if (visitIds.length) await this.loadVisits(visitIds);
   }
 
   async contextFor(c: Record<string, unknown>): Promise<ClosureContext> {
@@ -74,38 +86,43 @@ export class ClosureInputs {
     const analyzer = typeof c['analyzerId'] === 'string' ? this.analyzers.get(c['analyzerId']) : undefined;
     const timezone = site?.timezone ?? 'UTC';
     const areaCm2 = collar?.areaCm2 ?? null;
+    const ambient = ambientForClosure(site?.ambientChecks ?? [], (c['analyzerId'] as string | null) ?? null, String(c['startedAt']));
     return {
       timezone, elevationM: site?.elevationM ?? null, ambientMarginPpm: site?.ambientMarginPpm ?? 100,
       slopeBasis: site?.slopeBasis ?? 'closure', areaCm2,
+      defaultProfileId: site?.defaultProfileId ?? null,
       profiles: (site?.profiles ?? []).map((p) => ({
-        id: p.id, validFrom: p.validFrom, chamberVolumeCm3: p.chamberVolumeCm3, loopVolumeCm3: p.loopVolumeCm3,
+        id: p.id, name: p.name, validFrom: p.validFrom, chamberVolumeCm3: p.chamberVolumeCm3, loopVolumeCm3: p.loopVolumeCm3,
         // A is the collar's own inside area; the footprint only stands in for a collar without one.
         areaCm2: areaCm2 ?? p.footprintAreaCm2 ?? NaN, footprintAreaCm2: p.footprintAreaCm2,
       })),
       offsetSets: collar?.offsetSets ?? [],
       precisionPpm: analyzer?.precisionPpm ?? null, rangeMinPpm: analyzer?.rangeMinPpm ?? null, rangeMaxPpm: analyzer?.rangeMaxPpm ?? null,
-      ambientPpm: site?.ambientByDay.get(localDay(String(c['startedAt']), timezone)) ?? null,
+      ambient, ambientPpm: ambient?.ppm ?? null,
+      visitAirTempC: this.visits.get(String(c['visitId'])) ?? null,
+      defaultAirTempC: site?.defaultAirTempC ?? 15,
     };
   }
 
   private async loadSite(siteId: string): Promise<void> {
-    const [s] = await this.db.query(`SELECT timezone, elevation_m, ambient_margin_ppm, slope_basis FROM site WHERE id = $1`, [siteId]);
+    const [s] = await this.db.query(
+      `SELECT timezone, elevation_m, ambient_margin_ppm, slope_basis, default_profile_id, default_air_temp_c FROM site WHERE id = $1`, [siteId]);
     const profiles = await this.db.query(
-      `SELECT id, to_char(valid_from, 'YYYY-MM-DD') AS valid_from, chamber_volume_cm3, loop_volume_cm3, footprint_area_cm2
+      `SELECT id, name, to_char(valid_from, 'YYYY-MM-DD') AS valid_from, chamber_volume_cm3, loop_volume_cm3, footprint_area_cm2
          FROM chamber_profile WHERE site_id = $1 AND NOT deleted`, [siteId]);
     const timezone: string = s?.timezone ?? 'UTC';
-    const ambient: { day: string; co2_ppm: number }[] = await this.db.query(
-      `SELECT DISTINCT ON (day) to_char((at AT TIME ZONE $2)::date, 'YYYY-MM-DD') AS day, co2_ppm
-         FROM analyzer_check WHERE site_id = $1 AND kind = 'ambient' AND NOT skipped AND NOT deleted AND co2_ppm IS NOT NULL
-        ORDER BY day, at DESC`, [siteId, timezone]);
+    const ambient: { id: string; analyzer_id: string | null; at: Date; co2_ppm: number }[] = await this.db.query(
+      `SELECT id, analyzer_id, at, co2_ppm
+         FROM analyzer_check WHERE site_id = $1 AND kind = 'ambient' AND NOT skipped AND NOT deleted AND co2_ppm IS NOT NULL`, [siteId]);
     this.sites.set(siteId, {
       timezone, elevationM: s?.elevation_m ?? null, ambientMarginPpm: s?.ambient_margin_ppm ?? 100,
       slopeBasis: s?.slope_basis === 'settle_end' ? 'settle_end' : 'closure',
+      defaultProfileId: s?.default_profile_id ?? null, defaultAirTempC: s?.default_air_temp_c ?? 15,
       profiles: profiles.map((p: Record<string, unknown>) => ({
-        id: p['id'] as string, validFrom: p['valid_from'] as string, chamberVolumeCm3: p['chamber_volume_cm3'] as number,
+        id: p['id'] as string, name: p['name'] as string, validFrom: p['valid_from'] as string, chamberVolumeCm3: p['chamber_volume_cm3'] as number,
         loopVolumeCm3: p['loop_volume_cm3'] as number, footprintAreaCm2: (p['footprint_area_cm2'] as number | null) ?? null,
       })),
-      ambientByDay: new Map(ambient.map((a) => [a.day, a.co2_ppm])),
+      ambientChecks: ambient.map((a) => ({ id: a.id, analyzerId: a.analyzer_id, at: a.at.toISOString(), co2Ppm: a.co2_ppm })),
     });
   }
 
@@ -126,6 +143,12 @@ export class ClosureInputs {
         })),
       });
     }
+  }
+
+  private async loadVisits(ids: string[]): Promise<void> {
+    const rows: { id: string; air: number | null }[] = await this.db.query(
+      `SELECT id, (conditions->>'airTempC')::double precision AS air FROM visit WHERE id = ANY($1)`, [ids]);
+    for (const id of ids) this.visits.set(id, rows.find((r) => r.id === id)?.air ?? null);
   }
 
   private async loadAnalyzers(ids: string[]): Promise<void> {

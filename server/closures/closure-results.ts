@@ -1,5 +1,7 @@
 import type { EntityManager } from 'typeorm';
-import { chamberVolumeFor, engineVersion, fitClosure, invalidFit, pressureFromElevationKpa, type ClosureFitResult } from '../../shared/flux';
+import {
+  chamberAirTemperature, chamberVolumeFor, engineVersion, fitClosure, invalidFit, pressureFromElevationKpa, profileForClosure, type ClosureFitResult,
+} from '../../shared/flux';
 import { loadClosureContext, localDay, type ClosureContext } from './closure-inputs';
 
 type Series = { tS: (number | null)[]; co2Ppm: (number | null)[]; co2IsDry?: boolean; h2oMmolMol?: (number | null)[] | null;
@@ -21,16 +23,20 @@ const failed = (error: string): ClosureFitResult => invalidFit(error);
 export function resultsFor(c: Record<string, unknown>, ctx: ClosureContext): ClosureResults {
   const series = c['series'] as Series;
   const day = localDay(String(c['startedAt']), ctx.timezone);
-  const volume = chamberVolumeFor(day, ctx.profiles, ctx.offsetSets);
+  // The closure's own chamber (chamber-system.ts), never the newest profile of any name.
+  const chosen = profileForClosure(ctx.profiles, (c['profileId'] as string | null) ?? null, day, ctx.defaultProfileId);
+  const volume = chosen.ok ? chamberVolumeFor(day, [chosen.profile], ctx.offsetSets) : chosen;
+  const temp = chamberAirTemperature(series.tempC, ctx.visitAirTempC, ctx.defaultAirTempC);
   const defaultPressure = !series.pressureKpa?.some((v) => typeof v === 'number');
   const pressureKpa = defaultPressure
     ? (ctx.elevationM === null ? NaN : pressureFromElevationKpa(ctx.elevationM))
     : (series.pressureKpa as (number | null)[]);
   const fit = (settleS: number, windowEndS: number | null, model: 'auto' | 'linear' | 'exponential' | 'quadratic') => {
     if (!volume.ok) return failed(volume.error);
-    if (!series.tempC?.some((v) => typeof v === 'number')) return failed('no chamber air temperature in the series');
+    if (!temp.ok) return failed(temp.error);
     return fitClosure({
-      tS: series.tS, co2Ppm: series.co2Ppm, co2IsDry: series.co2IsDry === true, h2oMmolMol: series.h2oMmolMol ?? null, pressureKpa, tempC: series.tempC,
+      tS: series.tS, co2Ppm: series.co2Ppm, co2IsDry: series.co2IsDry === true, h2oMmolMol: series.h2oMmolMol ?? null, pressureKpa,
+      tempC: temp.tempC, tempSource: temp.source,
       volumeCm3: volume.value.volumeCm3, areaCm2: volume.value.areaCm2, footprintAreaCm2: volume.value.footprintAreaCm2,
       settleS, windowEndS, model, slopeAt: ctx.slopeBasis,
       ambientPpm: ctx.ambientPpm, ambientMarginPpm: ctx.ambientMarginPpm, precisionPpm: ctx.precisionPpm ?? undefined,
@@ -51,7 +57,10 @@ export function resultsFor(c: Record<string, unknown>, ctx: ClosureContext): Clo
       volumeCm3: v?.volumeCm3 ?? null, areaCm2: v?.areaCm2 ?? null, meanOffsetCm: v?.meanOffsetCm ?? null,
       offsetSetId: v ? (v.offsetSet as { id?: string }).id ?? null : null,
       profileId: v ? (v.profile as { id?: string }).id ?? null : null,
-      ambientPpm: ctx.ambientPpm, pressureIsDefault: defaultPressure, slopeBasis: ctx.slopeBasis,
+      profileName: chosen.ok ? chosen.profile.name : null, profileSource: chosen.ok ? chosen.source : null,
+      ambientPpm: ctx.ambientPpm, ambientCheckId: ctx.ambient?.checkId ?? null, ambientAt: ctx.ambient?.at ?? null,
+      airTempSource: temp.ok ? temp.source : null, airTempC: temp.ok && typeof temp.tempC === 'number' ? temp.tempC : null,
+      pressureIsDefault: defaultPressure, slopeBasis: ctx.slopeBasis,
       raw: finite(raw), review: review ? finite(review) : null,
     },
     flags: shown.flags,

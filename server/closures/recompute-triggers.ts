@@ -4,12 +4,13 @@ import type { WrittenRecord } from '../records/after-write';
 import { defineJob } from '../jobs/job-registry';
 import { enqueueJob } from '../jobs/job-store';
 import { recomputeClosures, type RecomputeScope } from './closure-recompute';
+import { AMBIENT_MAX_GAP_H } from '../../shared/flux';
 import { localDay } from './closure-inputs';
 
 export const RECOMPUTE_JOB = 'closure-recompute';
 
 /** Site fields a closure's flux depends on (time zone → local day, elevation → default pressure, ambient margin → flag, slope basis → flux). */
-const SITE_INPUTS = ['timezone', 'elevationM', 'ambientMarginPpm', 'defaultProfileId', 'slopeBasis'];
+const SITE_INPUTS = ['timezone', 'elevationM', 'ambientMarginPpm', 'defaultProfileId', 'slopeBasis', 'defaultAirTempC'];
 /** Collar fields that enter its inside area. */
 const COLLAR_INPUTS = ['shape', 'diameterCm', 'sideACm', 'sideBCm', 'areaCm2'];
 /** Profile fields that enter the volume or the day it applies from. */
@@ -41,8 +42,15 @@ export async function recomputeScopeFor(w: WrittenRecord): Promise<RecomputeScop
     case 'analyzerCheck': {
       if (a['kind'] !== 'ambient' && w.before?.['kind'] !== 'ambient') return null;
       const [s] = await w.em.query(`SELECT timezone FROM site WHERE id = $1`, [siteId]);
-      return { siteId, fromDay: localDay(String(a['at']), s?.timezone ?? 'UTC'), reason: 'ambient reading recorded' };
+      // A reading serves closures up to AMBIENT_MAX_GAP_H before it (chamber-system.ts).
+      const from = new Date(Date.parse(String(a['at'])) - AMBIENT_MAX_GAP_H * 3600_000);
+      return { siteId, fromDay: localDay(from, s?.timezone ?? 'UTC'), reason: 'ambient reading recorded' };
     }
+    case 'visit':
+      // The visit's air temperature stands in for a missing chamber temperature.
+      return w.action === 'update' && w.before && !sameValue((w.before['conditions'] as { airTempC?: unknown } | null)?.airTempC ?? null,
+        (a['conditions'] as { airTempC?: unknown } | null)?.airTempC ?? null)
+        ? { siteId, collarId: String(a['collarId']), reason: 'visit air temperature changed' } : null;
     default:
       return null;
   }

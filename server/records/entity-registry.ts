@@ -1,6 +1,6 @@
 import type { EntityTarget, ObjectLiteral } from 'typeorm';
 import type { Role } from '../../shared/auth/roles';
-import { CLOSURE_REVIEW_FIELDS } from '../../shared/model/field-records';
+import { CLOSURE_REVIEW_FIELDS, CLOSURE_SYSTEM_FIELDS } from '../../shared/model/field-records';
 import type { EntityName } from '../../shared/model/entities';
 import { CampaignEntity } from '../campaigns/campaign.entity';
 import { RouteEntity } from '../campaigns/route.entity';
@@ -81,12 +81,15 @@ function collarFieldRule(roles: readonly Role[], action: WriteAction, changed: r
   return null;
 }
 
-/** The lab sets review fields and never raw readings; field crews never set review fields. */
+/**
+ * The lab sets review fields and never raw readings; field crews never set review fields. The
+ * chamber system (profile, analyzer) is the crew's pick that the lab may correct.
+ */
 function closureFieldRule(roles: readonly Role[], action: WriteAction, changed: readonly string[], next: Record<string, unknown>) {
   // A device creating a closure sends the review fields at their defaults; only a real decision counts.
   const isDecision = (f: string) => action !== 'create' || (next[f] !== null && next[f] !== 'unreviewed');
   const review = changed.filter((f) => (CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f) && isDecision(f));
-  const raw = changed.filter((f) => !(CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f));
+  const raw = changed.filter((f) => !(CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f) && !(CLOSURE_SYSTEM_FIELDS as readonly string[]).includes(f));
   if (action === 'update' && raw.length && !has(roles, 'crew', 'lead')) {
     return `The lab reviews closures but never changes raw readings (${raw.join(', ')})`;
   }

@@ -69,10 +69,11 @@ export async function recomputePreview(ds: DataSource, actor: Actor, siteId: str
   return { validFrom, until: a.until, closures: a.recompute.length, lockedKept: a.lockedKept };
 }
 
-async function refuseSameDay(db: Db, siteId: string, validFrom: string, exceptId: string | null) {
+/** Two versions of one chamber cannot start on the same day; two chambers of a site may (several systems run at once). */
+async function refuseSameDay(db: Db, siteId: string, name: string, validFrom: string, exceptId: string | null) {
   const [dup] = await db.query(
-    `SELECT name FROM chamber_profile WHERE site_id = $1 AND NOT deleted AND valid_from = $2::date AND ($3::uuid IS NULL OR id <> $3)`,
-    [siteId, validFrom, exceptId]);
+    `SELECT name FROM chamber_profile WHERE site_id = $1 AND name = $4 AND NOT deleted AND valid_from = $2::date AND ($3::uuid IS NULL OR id <> $3)`,
+    [siteId, validFrom, exceptId, name]);
   if (dup) throw new AppError(409, `A chamber profile version valid from ${validFrom} exists already (${dup.name}); pick another day`,
     [{ path: 'validFrom', message: 'Another version starts on this day' }]);
 }
@@ -101,7 +102,7 @@ export async function createProfileVersion(ds: DataSource, actor: Actor, profile
     const siteId = String(base['siteId']);
     await siteForActor(em, actor, siteId);
     await em.query(`SELECT id FROM site WHERE id = $1 FOR UPDATE`, [siteId]);
-    await refuseSameDay(em, siteId, body.validFrom, null);
+    await refuseSameDay(em, siteId, String(base['name']), body.validFrom, null);
     const { id: _id, rev: _rev, ...copy } = base;
     const changes = new ChangeBuffer();
     const id = randomUUID();
@@ -125,7 +126,7 @@ export async function guardProfileWrite(w: PendingWrite): Promise<WriteOutcome |
   if (!touched.length) return null;
   try {
     if (w.action === 'update' && w.changed.includes('validFrom')) {
-      await refuseSameDay(w.em, String(w.next['siteId']), String(w.next['validFrom']), w.id);
+      await refuseSameDay(w.em, String(w.next['siteId']), String(w.next['name']), String(w.next['validFrom']), w.id);
     }
   } catch (err) {
     if (err instanceof AppError) return rejected(err.status, err.message, err.fields);

@@ -26,6 +26,8 @@ export class SiteEntity extends SyncedColumns {
   @Column({ type: 'double precision', name: 'offset_move_cm' }) offsetMoveCm!: number;
   @Column({ type: 'double precision', name: 'leak_slope_umol_mol_s' }) leakSlopeUmolMolS!: number;
   @Column({ type: 'double precision', name: 'ambient_margin_ppm' }) ambientMarginPpm!: number;
+  /** Chamber air temperature when neither the file nor the visit has one (shared/flux/chamber-air-temperature.ts). */
+  @Column({ type: 'double precision', name: 'default_air_temp_c', default: 15 }) defaultAirTempC!: number;
   /** 'closure' (slope of curved models at t = 0) or 'settle_end'; see shared/flux closure-input.ts. */
   @Column({ type: 'text', name: 'slope_basis', default: 'closure' }) slopeBasis!: 'closure' | 'settle_end';
   @Column({ type: 'double precision', name: 'calibration_drift_limit_pct' }) calibrationDriftLimitPct!: number;

@@ -204,6 +204,8 @@ export function fitClosure(input: ClosureInput): ClosureFitResult {
     flags.push('footprint-area-differs');
   }
   if (input.pressureIsDefault) flags.push('default-pressure');
+  if (input.tempSource === 'visit') flags.push('temp-from-visit');
+  if (input.tempSource === 'site-default') flags.push('temp-site-default');
 
   return {
     linear,

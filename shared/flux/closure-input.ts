@@ -44,6 +44,8 @@ export interface ClosureInput {
   /** Slope basis of the selected flux (default 'closure'). */
   slopeAt?: SlopeBasis;
   pressureIsDefault?: boolean;
+  /** Where tempC came from (chamber-air-temperature.ts): 'visit' and 'site-default' are flagged. */
+  tempSource?: 'series' | 'visit' | 'site-default';
   /** Set when the volume came from an offset set taken after the closure day. */
   offsetAfter?: boolean;
 }

@@ -17,6 +17,12 @@ export type {
 } from './closure-input';
 export { aiccOf, SELECTION_MARGIN } from './model-selection';
 export { QC_FLAGS, QC_THRESHOLDS, type QcFlag } from './qc-flags';
+export { FLAG_ADVICE, flagAdvice, type FlagAction, type FlagAdvice } from './flag-advice';
+export {
+  AMBIENT_MAX_GAP_H, ambientForClosure, profileForClosure,
+  type AmbientCheck, type AmbientChoice, type NamedProfileVersion, type ProfileChoice, type ProfileSource,
+} from './chamber-system';
+export { AIR_TEMP_SOURCES, DEFAULT_SITE_AIR_TEMP_C, chamberAirTemperature, type AirTempChoice, type AirTempSource } from './chamber-air-temperature';
 export { chamberFluxUmolM2S, fluxPerSlope } from './chamber-flux';
 export { dryMoleFractionPpm, waterMoleFraction } from './dry-mole-fraction';
 export { minimumDetectableSlopePpmS } from './detection-limit';

@@ -25,6 +25,9 @@ export const QC_FLAGS = {
   'low-r2': 'R² of the selected model below 0.9 (common-practice threshold). Information only: near-zero fluxes have low R² and are valid.',
   'offset-after': 'No offset set on or before the closure day: the earliest later offset set was used for the volume.',
   'default-pressure': 'Pressure was not measured: a default from site elevation (US Standard Atmosphere 1976) was used.',
+  'temp-from-visit': 'The analyzer file has no chamber air temperature: the air temperature noted at the visit was used (chamber-air-temperature.ts).',
+  'temp-site-default':
+    'Neither the analyzer file nor the visit has an air temperature: the site’s default (15 °C unless the site states another) was used; 10 °C off moves the flux by about 3.5 %.',
 } as const;
 
 export type QcFlag = keyof typeof QC_FLAGS;

@@ -70,6 +70,8 @@ export const visitConditionsSchema = z.object({
   trampled: z.boolean().default(false),
   animal: z.boolean().default(false),
   other: text(500).default(''),
+  /** Air temperature at the collar, °C: the chamber air temperature of closures whose file has none. */
+  airTempC: ranged(-40, 60, '°C', 'Air temperature').nullable().default(null),
 });
 
 export const visitFields = z.object({
@@ -80,7 +82,7 @@ export const visitFields = z.object({
   crewId: uuid('crewId').nullable().default(null),
   arrivedAt: isoDateTime('arrivedAt'),
   conditions: visitConditionsSchema.default({
-    rainNow: false, rain24h: false, standingWater: false, frostSnow: false, trampled: false, animal: false, other: '',
+    rainNow: false, rain24h: false, standingWater: false, frostSnow: false, trampled: false, animal: false, other: '', airTempC: null,
   }),
   skipped: z.boolean().default(false),
   skipReason: text(500).nullable().default(null),
@@ -173,6 +175,12 @@ export const closureFields = z.object({
 
 /** Closure fields only the lab (review) may set; every other closure field is raw data. */
 export const CLOSURE_REVIEW_FIELDS = ['reviewState', 'reviewReason', 'reviewSettleS', 'reviewWindowEndS', 'reviewModel'] as const;
+/**
+ * The chamber system a closure was made with: set by the crew's device when the closure is made
+ * and correctable by the lab (a wrong pick at the start of the day), each correction kept in the
+ * closure's history.
+ */
+export const CLOSURE_SYSTEM_FIELDS = ['profileId', 'analyzerId'] as const;
 
 export const ATTACHMENT_MEDIA_TYPES = ['text/csv', 'text/plain', 'text/tab-separated-values', 'image/jpeg', 'image/png', 'image/webp'] as const;
 /** Uploads share the 5 MiB body limit of the push; photos are resized on the device first. */

@@ -31,6 +31,11 @@ export const siteFields = z.object({
   leakSlopeUmolMolS: ranged(0, 100, 'µmol/mol/s', 'Leak-check slope').default(0.05),
   ambientMarginPpm: ranged(0, 5000, 'µmol/mol', 'Start-above-ambient margin').default(100),
   /**
+   * Chamber air temperature used when neither the analyzer file nor the visit has one (flagged
+   * temp-site-default). Default 15 °C: US Standard Atmosphere 1976 sea level (shared/flux/chamber-air-temperature.ts).
+   */
+  defaultAirTempC: ranged(-40, 60, '°C', 'Default air temperature').default(15),
+  /**
    * Where a curved model's flux takes its slope: at chamber closure (t = 0, the undisturbed flux,
    * Kutzbach et al. 2007) or at the end of the settle time. Closure unless the site chooses otherwise.
    */
