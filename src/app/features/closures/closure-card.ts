@@ -1,16 +1,16 @@
 import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, input, output } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
-import { QC_FLAGS } from '../../../../shared/flux';
 import type { LocalRecord } from '../../core/db/db-schema';
 import { fluxOnTheSpot, type SpotInputs } from './closure-flux';
 import type { ClosureSeries } from './closure-writes';
+import { FlagAdviceList } from './flag-advice-list';
 import { SpotChart } from './spot-chart';
 
 /** One closure at the visit: its chart, the flux with flags computed here, and a large Redo. */
 @Component({
   selector: 'fw-closure-card',
-  imports: [DecimalPipe, MatButtonModule, SpotChart],
+  imports: [DecimalPipe, MatButtonModule, SpotChart, FlagAdviceList],
   template: `
     <article class="card" [attr.data-closure]="closure().id" [class.redo]="closure()['redoOfId']">
       <header>
@@ -25,11 +25,9 @@ import { SpotChart } from './spot-chart';
         } @else {
           <p class="flux none" data-testid="spot-flux">No flux: {{ s.fit.error }}</p>
         }
-        <ul class="flags" data-testid="spot-flags">
-          @for (f of s.fit.flags; track f) { <li [attr.title]="flagWord(f)">{{ f }}</li> } @empty { <li class="ok">no flags</li> }
-        </ul>
+        <fw-flag-advice-list data-testid="spot-flags" [flags]="s.fit.flags" (redo)="redo.emit(closure())" />
         @if (s.startAboveAmbientPpm !== null) {
-          <p class="ambient">Start vs the day's ambient: {{ s.startAboveAmbientPpm >= 0 ? '+' : '' }}{{ s.startAboveAmbientPpm | number: '1.0-0' }} ppm</p>
+          <p class="ambient">Start vs this analyzer's ambient reading: {{ s.startAboveAmbientPpm >= 0 ? '+' : '' }}{{ s.startAboveAmbientPpm | number: '1.0-0' }} ppm</p>
         }
         <fw-spot-chart [data]="{ series: series(), settleS: settleS(), fit: s.fit }" />
       } @else {
@@ -47,9 +45,6 @@ import { SpotChart } from './spot-chart';
     .tag { background: #fff3e0; padding: 0 6px; border-radius: 4px; }
     .when { color: var(--mat-sys-on-surface-variant, #555); font-size: 0.9em; }
     .flux { font-size: 1.3em; margin: 8px 0 4px; }
-    .flags { display: flex; gap: 6px; flex-wrap: wrap; list-style: none; padding: 0; margin: 4px 0; }
-    .flags li { background: #fdecea; border-radius: 4px; padding: 0 6px; }
-    .flags li.ok { background: #e8f5e9; }
     .redo-button { width: 100%; min-height: 56px; font-size: 1.1em; margin-top: 8px; }
     .previous span { margin-right: 8px; }
   `],
@@ -68,9 +63,5 @@ export class ClosureCard {
 
   protected time(v: unknown): string {
     return typeof v === 'string' ? new Date(v).toLocaleTimeString() : '—';
-  }
-
-  protected flagWord(f: string): string {
-    return (QC_FLAGS as Record<string, string>)[f] ?? f;
   }
 }

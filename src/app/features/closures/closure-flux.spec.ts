@@ -1,23 +1,24 @@
 import { chamberFluxUmolM2S, fitClosure } from '../../../../shared/flux';
 import type { LocalRecord } from '../../core/db/db-schema';
 import { fluxOnTheSpot } from './closure-flux';
-import { ambientByDay } from './closure-store';
+import { ambientChecks } from './closure-store';
 import { readManualSeries } from './manual-series';
 
 const rec = (id: string, fields: Record<string, unknown>): LocalRecord => ({ id, rev: 1, ...fields });
 const site = rec('s', { timezone: 'Europe/Berlin', elevationM: 450, ambientMarginPpm: 100 });
 const collar = rec('k', { siteId: 's', diameterCm: 20, shape: 'round' });
-const profile = rec('p', { siteId: 's', validFrom: '2025-01-01', chamberVolumeCm3: 4000, loopVolumeCm3: 50, settleS: 10 });
+const profile = rec('p', { siteId: 's', name: 'Opaque', validFrom: '2025-01-01', chamberVolumeCm3: 4000, loopVolumeCm3: 50, settleS: 10 });
 const offsets = rec('o', { collarId: 'k', takenAt: '2025-06-12T06:50:00Z', readingsCm: [2, 2, 2, 2] });
 
 describe('flux on the spot', () => {
   it('when a closure has a series, then the device gets the engine result with the volume chamber + loop + area × offset', () => {
     const tS = [0, 10, 20, 30, 40, 50, 60, 70, 80, 90];
     const closure = rec('c', {
-      startedAt: '2025-06-12T07:00:00Z', settleS: 10,
+      startedAt: '2025-06-12T07:00:00Z', settleS: 10, analyzerId: 'A',
       series: { tS, co2Ppm: tS.map((t) => 420 + 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20) },
     });
-    const spot = fluxOnTheSpot(closure, { site, collar, profiles: [profile], offsetSets: [offsets], analyzer: null, ambientPpmByDay: { '2025-06-12': 415 } })!;
+    const spot = fluxOnTheSpot(closure, { site, collar, profiles: [profile], offsetSets: [offsets], analyzer: null, visitAirTempC: null,
+      ambientChecks: [{ id: 'a', analyzerId: 'A', at: '2025-06-12T06:30:00Z', co2Ppm: 415 }] })!;
     const area = (Math.PI * 20 * 20) / 4;
     expect(spot.volumeCm3).toBeCloseTo(4000 + 50 + area * 2, 6);
     // The same call the server makes, so the crew sees the lab's number.
@@ -34,7 +35,7 @@ describe('flux on the spot', () => {
 
   it('when there is no offset set for the collar, then no flux is made up and the reason is shown', () => {
     const closure = rec('c', { startedAt: '2025-06-12T07:00:00Z', settleS: 10, series: { tS: [0, 10, 20, 30], co2Ppm: [420, 425, 430, 435], tempC: [20, 20, 20, 20] } });
-    const spot = fluxOnTheSpot(closure, { site, collar, profiles: [profile], offsetSets: [], analyzer: null, ambientPpmByDay: {} })!;
+    const spot = fluxOnTheSpot(closure, { site, collar, profiles: [profile], offsetSets: [], analyzer: null, ambientChecks: [], visitAirTempC: null })!;
     expect(spot.fit.selected).toBeNull();
     expect(spot.fit.flags).toEqual(['invalid-input']);
     expect(spot.fit.error).toMatch(/offset/i);
@@ -46,22 +47,37 @@ describe('flux on the spot', () => {
     expect(readManualSeries('0 415\n10 416\n5 417', 18, null)).toEqual({ ok: false, message: 'Line 3: time must increase' });
   });
 
-  it('when the series is brought in on a later day, then the start is compared with the ambient reading of the closure\'s own local day', () => {
-    const check = (id: string, at: string, co2Ppm: number, extra: Record<string, unknown> = {}) => rec(id, { kind: 'ambient', at, co2Ppm, ...extra });
-    const byDay = ambientByDay([
-      // 22:30 UTC on the 11th is 00:30 on the 12th in Berlin (UTC+2 in June).
-      check('a', '2025-06-11T22:30:00Z', 412),
-      check('b', '2025-06-12T09:00:00Z', 418),
-      check('c', '2025-06-12T10:00:00Z', 900, { skipped: true }),
-      check('d', '2025-06-14T06:00:00Z', 440),
-    ], 'Europe/Berlin');
-    expect(byDay).toEqual({ '2025-06-12': 418, '2025-06-14': 440 });
+  it('when two analyzers took ambient readings, then the closure is compared with its own analyzer’s reading nearest in time', () => {
+    const check = (id: string, analyzerId: string, at: string, co2Ppm: number, extra: Record<string, unknown> = {}) =>
+      rec(id, { kind: 'ambient', analyzerId, at, co2Ppm, ...extra });
+    const checks = ambientChecks([
+      check('a', 'A', '2025-06-12T05:00:00Z', 412),
+      check('b', 'B', '2025-06-12T06:55:00Z', 440),
+      check('c', 'A', '2025-06-12T06:50:00Z', 900, { skipped: true }),
+      check('d', 'A', '2025-06-12T20:00:00Z', 470),
+    ]);
+    expect(checks.map((c) => c.id)).toEqual(['a', 'b', 'd']);
+    const tS = [0, 10, 20, 30, 40, 50, 60, 70, 80, 90];
+    const closure = rec('c', { startedAt: '2025-06-12T07:00:00Z', settleS: 10, analyzerId: 'A',
+      series: { tS, co2Ppm: tS.map((t) => 430 + 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20) } });
+    const inputs = { site, collar, profiles: [profile], offsetSets: [offsets], analyzer: null, ambientChecks: checks, visitAirTempC: null };
+    expect(fluxOnTheSpot(closure, inputs)!.startAboveAmbientPpm).toBe(18);
+    expect(fluxOnTheSpot({ ...closure, startedAt: '2025-06-12T19:00:00Z' }, inputs)!.startAboveAmbientPpm).toBe(-40);
+    expect(fluxOnTheSpot({ ...closure, analyzerId: 'C' }, inputs)!.startAboveAmbientPpm).toBeNull();
+  });
+
+  it('when the file has no chamber temperature, then the visit’s air temperature gives the flux and says so', () => {
     const tS = [0, 10, 20, 30, 40, 50, 60, 70, 80, 90];
     const closure = rec('c', { startedAt: '2025-06-12T07:00:00Z', settleS: 10,
-      series: { tS, co2Ppm: tS.map((t) => 430 + 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20) } });
-    const spot = fluxOnTheSpot(closure, { site, collar, profiles: [profile], offsetSets: [offsets], analyzer: null, ambientPpmByDay: byDay })!;
-    expect(spot.startAboveAmbientPpm).toBe(12);
-    const noReading = fluxOnTheSpot({ ...closure, startedAt: '2025-06-13T07:00:00Z' }, { site, collar, profiles: [profile], offsetSets: [offsets], analyzer: null, ambientPpmByDay: byDay })!;
-    expect(noReading.startAboveAmbientPpm).toBeNull();
+      series: { tS, co2Ppm: tS.map((t) => 420 + 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: null } });
+    const inputs = { site, collar, profiles: [profile], offsetSets: [offsets], analyzer: null, ambientChecks: [], visitAirTempC: 8 };
+    const spot = fluxOnTheSpot(closure, inputs)!;
+    expect(spot.airTempSource).toBe('visit');
+    expect(spot.fit.flags).toContain('temp-from-visit');
+    const area = (Math.PI * 20 * 20) / 4;
+    expect(spot.fit.linear!.fluxUmolM2S).toBeCloseTo(chamberFluxUmolM2S(0.5, 96, 8, spot.volumeCm3!, area, 0), 6);
+    const none = fluxOnTheSpot(closure, { ...inputs, visitAirTempC: null })!;
+    expect(none.airTempSource).toBe('site-default');
+    expect(none.fit.flags).toContain('temp-site-default');
   });
 });

@@ -105,13 +105,19 @@ describe('Closure panel', () => {
     // By hand, ideal gas law F = p·V/(R·T·A)·dχ/dt (R = 8.314462618, CODATA 2018), V = 4000 + 150 cm³
     // + 314.16 cm² × 2 cm = 4778.3 cm³: 96 000 × 4.7783e-3 / (8.314462618 × 293.15 × 0.0314159) × 0.5e-6 = 2.995.
     expect(text('[data-testid="spot-flux"]')).toMatch(/^3\.00 µmol m⁻² s⁻¹ \(linear;/);
-    expect(text('[data-testid="spot-flags"]')).toContain('start-above-ambient');
-    expect(text('.ambient')).toBe("Start vs the day's ambient: +145 ppm");
+    // Words and what to do now, not a code behind a tooltip a touch screen never shows.
+    const flags = text('[data-testid="spot-flags"]');
+    expect(flags).toContain('CO2 started well above the ambient air.');
+    expect(flags).toContain('wait until the analyzer shows ambient, then redo');
+    expect(flags).not.toContain('start-above-ambient');
+    expect(el.querySelector('[data-testid="spot-flags"] [title]')).toBeNull();
+    expect(text('.ambient')).toBe("Start vs this analyzer's ambient reading: +145 ppm");
     const chart = fixture.debugElement.query((d) => d.componentInstance instanceof ChartStandIn).componentInstance as ChartStandIn;
     expect(chart.data!.settleS).toBe(20);
     expect(chart.data!.fit.window!.firstTS).toBe(20);
 
-    await (await loader.getHarness(MatButtonHarness.with({ text: 'Redo this closure' }))).click();
+    // The redo is offered right beside the advice.
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Analyzer at ambient: redo now' }))).click();
     await until(async () => (await closuresOf(db)).length === 2, `the redo (${text('.message')})`);
     const redo = (await closuresOf(db))[1];
     expect(redo['redoOfId']).toBe(FIRST);
@@ -138,6 +144,19 @@ describe('Closure panel', () => {
     expect(filled['series']).toEqual({ tS, co2Ppm: tS.map((t) => 420 + 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20) });
     await until(() => el.querySelector(`[data-closure="${redo.id}"] [data-testid="spot-flux"]`), 'the redo flux');
     expect(el.querySelector(`[data-closure="${redo.id}"] [data-testid="spot-flux"]`)?.textContent).toMatch(/^3\.00 µmol/);
-    expect(el.querySelector(`[data-closure="${redo.id}"] [data-testid="spot-flags"]`)?.textContent).not.toContain('start-above-ambient');
+    expect(el.querySelector(`[data-closure="${redo.id}"] [data-testid="spot-flags"]`)?.textContent).not.toContain('above the ambient');
+  });
+
+  it('when the crew chose a chamber at the start of the day, then a tapped closure carries that chamber’s version of the day and its settle time, not the site default', async () => {
+    const TALL = '99999999-9999-4999-8999-999999999999';
+    const TALL_NEW = '99999999-9999-4999-8999-99999999999a';
+    const { db, loader } = await render(async (d) => {
+      await d.records('chamberProfile').put({ id: TALL, rev: 1, siteId: SITE, name: 'Tall', validFrom: '2025-01-01', chamberVolumeCm3: 6000, loopVolumeCm3: 150, settleS: 30 });
+      await d.records('chamberProfile').put({ id: TALL_NEW, rev: 1, siteId: SITE, name: 'Tall', validFrom: '2025-03-01', chamberVolumeCm3: 6000, loopVolumeCm3: 210, settleS: 35 });
+      TestBed.inject(WalkContext).update({ profileId: TALL });
+    });
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Chamber on' }))).click();
+    const [open] = await until(async () => { const l = await closuresOf(db); return l.length ? l : null; }, 'the closure');
+    expect(open).toMatchObject({ profileId: TALL_NEW, analyzerId: ANALYZER, settleS: 35 });
   });
 });

@@ -50,7 +50,8 @@ export class ClosurePanel {
 
   private async target() {
     const v = await this.visits.ensureVisit({ siteId: this.siteId(), campaignId: this.campaignId(), round: this.round(), collarId: this.collarId() }, this.visit());
-    return { siteId: this.siteId(), campaignId: this.campaignId(), collarId: this.collarId(), visitId: v.id, analyzerId: this.walk.choice().analyzerId };
+    return { siteId: this.siteId(), campaignId: this.campaignId(), collarId: this.collarId(), visitId: v.id, analyzerId: this.walk.choice().analyzerId,
+      profileId: this.walk.choice().profileId };
   }
 
   protected async chamberOn(redoOf: LocalRecord | null = null): Promise<void> {
@@ -75,7 +76,8 @@ export class ClosurePanel {
   }
 
   protected openImport(): void {
-    const data: LoggerImportData = { siteId: this.siteId(), campaignId: this.campaignId(), round: this.round(), analyzerId: this.walk.choice().analyzerId };
+    const data: LoggerImportData = { siteId: this.siteId(), campaignId: this.campaignId(), round: this.round(), analyzerId: this.walk.choice().analyzerId,
+      profileId: this.walk.choice().profileId };
     this.dialog.open(LoggerImport, { data, width: '960px', maxWidth: '100vw', autoFocus: 'first-tabbable' });
   }
 

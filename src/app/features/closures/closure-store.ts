@@ -1,7 +1,8 @@
 import type { Signal } from '@angular/core';
 import type { FluxDb, LocalRecord } from '../../core/db/db-schema';
 import { liveSignal } from '../../core/db/live-query-signal';
-import { localDay, type SpotInputs } from './closure-flux';
+import type { AmbientCheck } from '../../../../shared/flux';
+import type { SpotInputs } from './closure-flux';
 
 export interface ClosureScene {
   /** This visit's closures, oldest first (redos after the closure they redo). */
@@ -15,27 +16,17 @@ export interface ClosureScene {
 
 const live = (r: LocalRecord) => !r.deleted;
 
-/** Ambient readings by local day: the latest usable ambient check of each day (pure, for the spec). */
-export function ambientByDay(checks: readonly LocalRecord[], timeZone: string): Record<string, number> {
-  const out: Record<string, number> = {};
-  const latest: Record<string, string> = {};
-  for (const c of checks) {
-    if (!live(c) || c['kind'] !== 'ambient' || c['skipped'] || typeof c['co2Ppm'] !== 'number') continue;
-    const at = String(c['at']);
-    const day = localDay(at, timeZone);
-    if (latest[day] === undefined || at > latest[day]) {
-      latest[day] = at;
-      out[day] = c['co2Ppm'];
-    }
-  }
-  return out;
+/** The usable ambient readings among analyzer checks (live, not skipped, with a value), with their analyzer. */
+export function ambientChecks(checks: readonly LocalRecord[]): AmbientCheck[] {
+  return checks.filter((c) => live(c) && c['kind'] === 'ambient' && !c['skipped'] && typeof c['co2Ppm'] === 'number')
+    .map((c) => ({ id: c.id, analyzerId: (c['analyzerId'] as string | null) ?? null, at: String(c['at']), co2Ppm: Number(c['co2Ppm']) }));
 }
 
 export async function loadScene(db: FluxDb, p: { collarId: string; campaignId: string | null; visitId: string | null; analyzerId: string | null }): Promise<ClosureScene | null> {
   const collar = await db.records('collar').get(p.collarId);
   if (!collar) return null;
   const siteId = String(collar['siteId']);
-  const [site, profiles, sets, closures, analyzer, campaign, checks] = await Promise.all([
+  const [site, profiles, sets, closures, analyzer, campaign, checks, visit] = await Promise.all([
     db.records('site').get(siteId),
     db.records('chamberProfile').where('siteId').equals(siteId).filter(live).toArray(),
     db.records('offsetSet').where('collarId').equals(p.collarId).filter(live).toArray(),
@@ -43,9 +34,10 @@ export async function loadScene(db: FluxDb, p: { collarId: string; campaignId: s
     p.analyzerId ? db.records('analyzer').get(p.analyzerId) : Promise.resolve(undefined),
     p.campaignId ? db.records('campaign').get(p.campaignId) : Promise.resolve(undefined),
     db.records('analyzerCheck').where('siteId').equals(siteId).filter((c) => c['kind'] === 'ambient').toArray(),
+    p.visitId ? db.records('visit').get(p.visitId) : Promise.resolve(undefined),
   ]);
+  const air = (visit?.['conditions'] as { airTempC?: unknown } | undefined)?.airTempC;
   const superseded = new Set(sets.map((s) => s['supersedesId']).filter(Boolean));
-  const timeZone = String(site?.['timezone'] ?? 'UTC');
   const here = closures.filter((c) => p.visitId !== null && c['visitId'] === p.visitId)
     .sort((a, b) => String(a['chamberOnAt'] ?? a['startedAt']).localeCompare(String(b['chamberOnAt'] ?? b['startedAt'])));
   const previous = closures.filter((c) => c['visitId'] !== p.visitId && typeof c['fluxUmolM2S'] === 'number')
@@ -57,7 +49,7 @@ export async function loadScene(db: FluxDb, p: { collarId: string; campaignId: s
     dueClosures: Number(campaign?.['dueClosures'] ?? 1),
     inputs: {
       site: site ?? null, collar, profiles, offsetSets: sets.filter((s) => !superseded.has(s.id)), analyzer: analyzer ?? null,
-      ambientPpmByDay: ambientByDay(checks, timeZone),
+      ambientChecks: ambientChecks(checks), visitAirTempC: typeof air === 'number' ? air : null,
     },
   };
 }

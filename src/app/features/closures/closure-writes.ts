@@ -1,5 +1,5 @@
 import { Injectable, inject } from '@angular/core';
-import { TYPICAL_SETTLE_TIME_S } from '../../../../shared/flux';
+import { profileForClosure, TYPICAL_SETTLE_TIME_S } from '../../../../shared/flux';
 import type { LocalRecord } from '../../core/db/db-schema';
 import { textMediaType } from '../../core/db/device-files';
 import { LocalWrites } from '../../core/sync/local-writes';
@@ -20,6 +20,8 @@ export interface ClosureTarget {
   collarId: string;
   visitId: string;
   analyzerId: string | null;
+  /** The chamber profile the crew chose at the start of the day (any version of that chamber). */
+  profileId: string | null;
 }
 
 const EMPTY_SERIES: ClosureSeries = { tS: [], co2Ppm: [], h2oMmolMol: null, pressureKpa: null, tempC: null };
@@ -33,16 +35,19 @@ const EMPTY_SERIES: ClosureSeries = { tS: [], co2Ppm: [], h2oMmolMol: null, pres
 export class ClosureWrites {
   private readonly writes = inject(LocalWrites);
 
-  /** The profile version valid on the day, among the versions of the site's default profile when it has one. */
-  private profileFor(site: LocalRecord | null, profiles: LocalRecord[], at: Date): LocalRecord | null {
-    const day = localDay(at.toISOString(), String(site?.['timezone'] ?? 'UTC'));
-    const defaultName = profiles.find((p) => p.id === site?.['defaultProfileId'])?.['name'];
-    const pool = defaultName ? profiles.filter((p) => p['name'] === defaultName) : profiles;
-    return pool.filter((p) => String(p['validFrom']) <= day).sort((a, b) => String(b['validFrom']).localeCompare(String(a['validFrom'])))[0] ?? null;
+  /**
+   * The version valid on the day of the chamber the crew chose at the start of the day, else of the
+   * site's default or only chamber (the rule the server computes the volume with, shared/flux chamber-system.ts).
+   */
+  private profileFor(t: ClosureTarget, site: LocalRecord | null, profiles: LocalRecord[], at: string): LocalRecord | null {
+    const day = localDay(at, String(site?.['timezone'] ?? 'UTC'));
+    const named = profiles.map((p) => ({ id: p.id, name: String(p['name'] ?? ''), validFrom: String(p['validFrom']), chamberVolumeCm3: 0, loopVolumeCm3: 0, areaCm2: 0 }));
+    const chosen = profileForClosure(named, t.profileId, day, (site?.['defaultProfileId'] as string | null) ?? null);
+    return chosen.ok ? profiles.find((p) => p.id === chosen.profile.id) ?? null : null;
   }
 
   async chamberOn(t: ClosureTarget, site: LocalRecord | null, profiles: LocalRecord[], redoOf: LocalRecord | null = null, now = new Date()): Promise<LocalRecord> {
-    const profile = this.profileFor(site, profiles, now);
+    const profile = this.profileFor(t, site, profiles, now.toISOString());
     const at = now.toISOString();
     const fields = validated('closure', {
       siteId: t.siteId, visitId: t.visitId, collarId: t.collarId, campaignId: t.campaignId,
@@ -63,11 +68,16 @@ export class ClosureWrites {
     await this.writes.edit('closure', closure.id, changes);
   }
 
-  /** A closure made from a logger piece the crew assigned to a visit without a tap. */
-  async createFromPiece(t: ClosureTarget, settleS: number, series: ClosureSeries, startedAt: string, endedAt: string | null, sourceAttachmentId: string | null): Promise<LocalRecord> {
+  /**
+   * A closure made from a logger piece the crew assigned to a visit without a tap: it carries the
+   * crew's chamber profile and analyzer like a tapped one, and that profile's settle time.
+   */
+  async createFromPiece(t: ClosureTarget, site: LocalRecord | null, profiles: LocalRecord[], series: ClosureSeries, startedAt: string, endedAt: string | null,
+    sourceAttachmentId: string | null): Promise<LocalRecord> {
+    const profile = this.profileFor(t, site, profiles, startedAt);
     const fields = validated('closure', {
       siteId: t.siteId, visitId: t.visitId, collarId: t.collarId, campaignId: t.campaignId, analyzerId: t.analyzerId,
-      startedAt, endedAt, settleS, series, sourceAttachmentId,
+      profileId: profile?.id ?? null, startedAt, endedAt, settleS: Number(profile?.['settleS'] ?? TYPICAL_SETTLE_TIME_S), series, sourceAttachmentId,
     });
     return this.writes.create('closure', fields);
   }

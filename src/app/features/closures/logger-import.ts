@@ -9,7 +9,6 @@ import {
   matchPiecesToVisits, medianStepS, pieceSeries, savedMapping, splitByTaps, splitClosures, suggestMapping,
   type LoggerMapping, type LoggerRead, type PieceMatch, type SplitMethod, type SplitResult, type TextLayout,
 } from '../../../../shared/logger';
-import { TYPICAL_SETTLE_TIME_S } from '../../../../shared/flux';
 import { DeviceDb } from '../../core/db/device-db';
 import { DeviceMemory } from '../../core/device/device-memory';
 import { ClosureWrites } from './closure-writes';
@@ -24,6 +23,8 @@ export interface LoggerImportData {
   campaignId: string;
   round: number;
   analyzerId: string | null;
+  /** The crew's chamber profile for today: closures made from pieces carry it and its settle time. */
+  profileId?: string | null;
 }
 
 type Step = 'pick' | 'map' | 'parsing' | 'review' | 'done';
@@ -225,11 +226,16 @@ export class LoggerImport {
     const attachmentOwner = [...targets.values()][0];
     let attachmentId: string | null = null;
     if (attachmentOwner) attachmentId = await this.writes.keepFile(this.data.siteId, attachmentOwner, this.file!, this.file!.name);
+    const [siteRec, profiles] = pending.length ? await this.deviceDb.run((db) => Promise.all([
+      db.records('site').get(this.data.siteId),
+      db.records('chamberProfile').where('siteId').equals(this.data.siteId).filter((p) => !p.deleted).toArray(),
+    ])) : [undefined, []];
     for (const n of pending) {
       const v = visitById.get(n.visitId)!;
       const t = times(split.pieces.find((x) => x.key === n.key)!);
-      const target = { siteId: this.data.siteId, campaignId: this.data.campaignId, collarId: String(v['collarId']), visitId: v.id, analyzerId: this.data.analyzerId };
-      const rec = await this.writes.createFromPiece(target, TYPICAL_SETTLE_TIME_S, t.series, t.startedAt, t.endedAt, attachmentId);
+      const target = { siteId: this.data.siteId, campaignId: this.data.campaignId, collarId: String(v['collarId']), visitId: v.id, analyzerId: this.data.analyzerId,
+        profileId: this.data.profileId ?? null };
+      const rec = await this.writes.createFromPiece(target, siteRec ?? null, profiles, t.series, t.startedAt, t.endedAt, attachmentId);
       if (!attachmentId) {
         // No tapped closure to own the file: the first new closure owns it and then names it.
         attachmentId = await this.writes.keepFile(this.data.siteId, rec.id, this.file!, this.file!.name);

@@ -58,6 +58,24 @@ export class StartOfDay {
   });
   protected readonly analyzer = computed(() => this.options()?.analyzers.find((a) => a.id === this.choice().analyzerId) ?? null);
   protected readonly driftLimit = computed(() => Number(this.options()?.site?.['calibrationDriftLimitPct'] ?? DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT));
+  /** The site's chambers (one entry per profile name, its version valid today): the crew picks the one it carries. */
+  protected readonly chambers = computed(() => {
+    const today = new Date().toISOString().slice(0, 10);
+    const byName = new Map<string, LocalRecord>();
+    for (const p of this.profiles()) {
+      const name = String(p['name'] ?? '');
+      const best = byName.get(name);
+      const valid = String(p['validFrom']) <= today;
+      if (!best || (valid && (String(best['validFrom']) > today || String(p['validFrom']) > String(best['validFrom'])))) byName.set(name, p);
+    }
+    return [...byName.entries()].sort(([a], [b]) => a.localeCompare(b)).map(([name, p]) => ({ id: p.id, name }));
+  });
+  /** The chosen chamber, shown by name even when the remembered id is another version of it. */
+  protected readonly chamberChoice = computed(() => {
+    const id = this.choice().profileId;
+    const name = this.profiles().find((p) => p.id === id)?.['name'];
+    return this.chambers().find((c) => c.name === name)?.id ?? null;
+  });
   protected readonly safetyNote = computed(() => String(this.options()?.site?.['safetyNote'] ?? '').trim());
 
   protected readonly ambient = signal('');
@@ -69,6 +87,10 @@ export class StartOfDay {
 
   protected pickAnalyzer(id: string): void {
     this.walk.update({ analyzerId: id });
+  }
+
+  protected pickChamber(id: string): void {
+    this.walk.update({ profileId: id });
   }
 
   protected acknowledgeSafety(): Promise<void> {

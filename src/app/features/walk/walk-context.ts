@@ -10,6 +10,8 @@ export interface WalkChoice {
   /** The crew turned the route around on the spot (on top of the campaign's direction). */
   flipped: boolean;
   analyzerId: string | null;
+  /** The chamber profile this crew measures with today (each closure carries it). */
+  profileId: string | null;
   /** Probe kit remembered between collars: one probe is used along a whole route. */
   probeId: string;
   rodLengthCm: number | null;
@@ -17,7 +19,7 @@ export interface WalkChoice {
 }
 
 const EMPTY: WalkChoice = {
-  campaignId: null, round: 1, routeId: null, flipped: false, analyzerId: null, probeId: '', rodLengthCm: null, moistureKind: 'vwc',
+  campaignId: null, round: 1, routeId: null, flipped: false, analyzerId: null, profileId: null, probeId: '', rodLengthCm: null, moistureKind: 'vwc',
 };
 
 /** Remembered per user on this device (localStorage), so Walk reopens where the crew left it, offline too. */
