@@ -7,3 +7,4 @@ export * from './logger-text';
 export * from './closure-split';
 export * from './clock-offset';
 export * from './visit-match';
+export * from './temperature-columns';

@@ -7,6 +7,7 @@
  * which `suggestMapping` recognises without any choice:
  *   timestamp | time_s, co2_ppm, h2o_mmol_mol, pressure_kpa, temp_c, closure_id
  */
+import { temperatureKind } from './temperature-columns';
 import type { TimestampFormat } from './zoned-time';
 
 export const CO2_UNITS = { 'µmol/mol (ppm)': 1, 'mmol/mol': 1000, 'ppb (nmol/mol)': 0.001 } as const;
@@ -57,9 +58,9 @@ const norm = (h: string) => h.trim().toLowerCase().replace(/[\s-]+/g, '_');
 
 /**
  * A first guess from the header names: our plain names exactly, else a loose reading of common
- * words (co2, h2o, press, temp, time). A closure id column is only guessed from our own word
- * "closure"; any other name comes from the crew's saved mapping. The crew confirms or changes
- * every column in the dialog.
+ * words (co2, h2o, press, chamber/air temperature, time). A closure id column is only guessed
+ * from our own word "closure"; any other name comes from the crew's saved mapping. The crew
+ * confirms or changes every column in the dialog.
  */
 export function suggestMapping(headers: readonly string[], base: Pick<LoggerMapping, 'delimiter' | 'decimalComma' | 'headerRow'>, timeZone: string): LoggerMapping | null {
   const h = headers.map(norm);
@@ -76,7 +77,10 @@ export function suggestMapping(headers: readonly string[], base: Pick<LoggerMapp
   else return null;
   const h2o = found(exact(PLAIN_EXPORT_COLUMNS.h2o)) ?? found(loose(/h2o|water|vapou?r/));
   const pressure = found(exact(PLAIN_EXPORT_COLUMNS.pressure)) ?? found(loose(/press|^p(_kpa)?$/));
-  const temp = found(exact(PLAIN_EXPORT_COLUMNS.temp)) ?? found(loose(/temp|^t_?c$|air_t/, [time.column]));
+  // Only a column named as chamber or air temperature: an analyzer's internal cell temperature is
+  // never taken without the crew choosing it (temperature-columns.ts).
+  const temp = found(exact(PLAIN_EXPORT_COLUMNS.temp))
+    ?? found(h.findIndex((x, i) => i !== time.column && temperatureKind(x) === 'chamber'));
   const id = found(exact(PLAIN_EXPORT_COLUMNS.closureId)) ?? found(loose(/closure/));
   return {
     ...base,

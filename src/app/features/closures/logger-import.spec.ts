@@ -128,3 +128,20 @@ describe('Logger import, a CO2 column that is already dry', () => {
     expect(preset?.co2.dry).toBe(true);
   });
 });
+
+describe('Logger import, temperature columns', () => {
+  afterEach(() => localStorage.clear());
+
+  it('when the file has the analyzer’s cell temperature and an unclear one, then neither is taken as chamber air: both are listed with their ranges and the crew chooses', async () => {
+    const { text, shown, choose, pick } = await render();
+    await pick('timestamp,co2_ppm,Cell_Temp,Temp\n2025-06-12 07:00:00,420.1,51.2,18.0\n2025-06-12 07:00:01,420.6,51.0,18.2\n2025-06-12 07:00:02,421.0,50.9,18.3\n');
+    expect(shown('Chamber air temperature column')).toBe('not in this file');
+    const list = text('[data-testid="temp-columns"]');
+    expect(list).toContain('Cell_Temp: 50.9 to 51.2 — looks like the analyzer’s own (cell or electronics) temperature, not the chamber air');
+    expect(list).toContain('Temp: 18 to 18.3 — not clear which temperature this is');
+    expect(list).toContain('the flux will use the visit\'s air temperature');
+    choose('Chamber air temperature column', 'Temp');
+    await until(() => !text('[data-testid="temp-columns"]').includes('No chamber air temperature chosen'), 'the choice');
+    expect(shown('Chamber air temperature column')).toBe('Temp');
+  });
+});

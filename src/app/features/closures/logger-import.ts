@@ -6,7 +6,7 @@ import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/materia
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import {
   CO2_UNITS, ELAPSED_UNITS, H2O_UNITS, PRESSURE_UNITS, TEMP_UNITS, TIMESTAMP_FORMATS, estimateClockOffset, guessLayout,
-  matchPiecesToVisits, medianStepS, pieceSeries, savedMapping, splitByTaps, splitClosures, suggestMapping,
+  matchPiecesToVisits, medianStepS, pieceSeries, savedMapping, splitByTaps, splitClosures, suggestMapping, temperatureColumns, type TempColumn,
   type LoggerMapping, type LoggerRead, type PieceMatch, type SplitMethod, type SplitResult, type TextLayout,
 } from '../../../../shared/logger';
 import { DeviceDb } from '../../core/db/device-db';
@@ -55,6 +55,13 @@ export class LoggerImport {
   protected readonly step = signal<Step>('pick');
   protected readonly error = signal('');
   protected readonly progress = signal(0);
+  /** Temperature-like columns with their value ranges: the crew tells chamber air from the analyzer's own. */
+  protected readonly tempColumns = signal<TempColumn[]>([]);
+  protected readonly tempKindWords: Record<TempColumn['kind'], string> = {
+    chamber: 'named as chamber or air temperature',
+    internal: 'looks like the analyzer’s own (cell or electronics) temperature, not the chamber air',
+    unknown: 'not clear which temperature this is',
+  };
   protected readonly layout = signal<TextLayout | null>(null);
   protected mapping: LoggerMapping | null = null;
   protected readonly read = signal<LoggerRead | null>(null);
@@ -96,6 +103,7 @@ export class LoggerImport {
     this.timeZone = String(site?.['timezone'] ?? 'UTC');
     const layout = guessLayout(this.text);
     this.layout.set(layout);
+    this.tempColumns.set(temperatureColumns(this.text, layout));
     const preset = savedMapping(this.memory.read(this.presetKey()));
     const fits = preset && preset.headerRow === layout.headerRow && preset.delimiter === layout.delimiter;
     this.mapping = fits ? structuredClone(preset) : suggestMapping(layout.headers, layout, this.timeZone) ?? {
