@@ -7,6 +7,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { RouterLink } from '@angular/router';
 import { collarAreaCm2, offsetStats } from '../../../../shared/model/derived';
+import { AirTempField } from './air-temp-field';
 import { OffsetForm } from './offset-form';
 import { ProbeForm, type ProbeReadingInput } from './probe-form';
 import { SkipForm } from './skip-form';
@@ -15,7 +16,7 @@ import { visitView } from './visit-store';
 import { InvalidRecordError } from '../../core/db/validated';
 import { VisitWrites, type VisitConditions, type VisitTarget } from './visit-writes';
 
-const CONDITIONS: { key: keyof Omit<VisitConditions, 'other'>; label: string }[] = [
+const CONDITIONS: { key: keyof Omit<VisitConditions, 'other' | 'airTempC'>; label: string }[] = [
   { key: 'rainNow', label: 'Raining now' },
   { key: 'rain24h', label: 'Rain in the last 24 h' },
   { key: 'standingWater', label: 'Standing water' },
@@ -31,7 +32,7 @@ const CONDITIONS: { key: keyof Omit<VisitConditions, 'other'>; label: string }[]
  */
 @Component({
   selector: 'fw-visit-page',
-  imports: [DatePipe, DecimalPipe, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatInputModule, OffsetForm, ProbeForm, RouterLink, SkipForm, ClosurePanel],
+  imports: [DatePipe, DecimalPipe, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatInputModule, OffsetForm, ProbeForm, RouterLink, SkipForm, ClosurePanel, AirTempField],
   templateUrl: './visit-page.html',
   styleUrl: './walk.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -92,7 +93,11 @@ export class VisitPage {
     return { probeId: c.probeId, rodLengthCm: c.rodLengthCm, moistureKind: c.moistureKind };
   });
 
-  protected toggle(key: keyof Omit<VisitConditions, 'other'>, on: boolean): void {
+  protected setAirTemp(airTempC: number | null): void {
+    this.conditions.update((c) => ({ ...c, airTempC }));
+  }
+
+  protected toggle(key: keyof Omit<VisitConditions, 'other' | 'airTempC'>, on: boolean): void {
     this.conditions.update((c) => ({ ...c, [key]: on }));
   }
 

@@ -13,6 +13,8 @@ export interface VisitTarget {
 
 export type VisitConditions = {
   rainNow: boolean; rain24h: boolean; standingWater: boolean; frostSnow: boolean; trampled: boolean; animal: boolean; other: string;
+  /** °C at the collar; null when not read. */
+  airTempC?: number | null;
 };
 
 /**
