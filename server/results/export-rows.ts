@@ -66,10 +66,11 @@ interface Fit { selected?: { model: string; basis?: string; fluxUmolM2S: number;
 
 export async function* closureRows(ds: DataSource, siteId: string, onPage?: (n: number) => Promise<void>): Rows {
   const cols = `id, visit_id, collar_id, campaign_id, started_at, settle_s, review_state, review_reason, review_settle_s, review_window_end_s,
-    review_model, results, flags, flux_umol_m2_s`;
+    review_model, results, flags, flux_umol_m2_s, analyzer_id`;
   for await (const page of closurePages(ds, siteId, cols, onPage)) {
     for (const r of page) {
-      const res = (r.results ?? {}) as { raw?: Fit; review?: Fit | null; volumeCm3?: number; areaCm2?: number; meanOffsetCm?: number; pressureIsDefault?: boolean };
+      const res = (r.results ?? {}) as { raw?: Fit; review?: Fit | null; volumeCm3?: number; areaCm2?: number; meanOffsetCm?: number; pressureIsDefault?: boolean;
+        profileId?: string | null; profileName?: string | null; ambientPpm?: number | null; airTempSource?: string | null; airTempC?: number | null };
       const raw = res.raw?.selected ?? null;
       const review = res.review?.selected ?? null;
       yield [r.id, r.visit_id, r.collar_id, r.campaign_id, iso(r.started_at), r.settle_s, r.review_state, r.review_reason, r.review_settle_s,
@@ -77,7 +78,10 @@ export async function* closureRows(ds: DataSource, siteId: string, onPage?: (n: 
         raw ? res.raw?.[raw.model]?.r2 ?? null : null, review?.model ?? null, review?.fluxUmolM2S ?? null, r.flux_umol_m2_s,
         // Results stored before slope bases existed were on the end of the settle time.
         r.flux_umol_m2_s === null ? null : ((review ?? raw)?.basis ?? 'settle_end'),
-        (r.flags as string[]).join(';'), res.volumeCm3 ?? null, res.areaCm2 ?? null, res.meanOffsetCm ?? null, res.pressureIsDefault ?? null];
+        (r.flags as string[]).join(';'), res.volumeCm3 ?? null, res.areaCm2 ?? null, res.meanOffsetCm ?? null, res.pressureIsDefault ?? null,
+        res.profileId ?? null, res.profileName ?? null, r.analyzer_id ?? null, res.ambientPpm ?? null,
+        // Results stored before the temperature order existed always had the file's own column.
+        res.airTempSource ?? (r.flux_umol_m2_s === null ? null : 'series'), res.airTempC ?? null];
     }
   }
 }

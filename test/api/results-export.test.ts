@@ -167,6 +167,15 @@ describe('Bench results export: data package, EML, provenance, re-import', () =>
     expect(files.get('metadata.eml.xml')!.toString('utf8')).toContain('drift = reading before − gas concentration');
   });
 
+  it('when closures are exported, then each names its chamber, analyzer, ambient reading and where its chamber air temperature came from', () => {
+    const closures = tables.get('closures')!;
+    for (const col of ['profile_id', 'profile_name', 'analyzer_id', 'ambient_ppm', 'air_temp_source', 'air_temp_c']) expect(headers.get('closures')).toContain(col);
+    const fluxed = closures.filter((k) => k.flux_umol_m2_s !== '');
+    expect(fluxed.length).toBeGreaterThan(0);
+    expect(new Set(fluxed.map((k) => k.air_temp_source))).toEqual(new Set(['series']));
+    expect(fluxed.every((k) => k.profile_id !== '' && k.profile_name !== '' && k.analyzer_id !== '')).toBe(true);
+  });
+
   it('when the provenance is read, then it names the engine version, the parameters, who and when', () => {
     const p = JSON.parse(files.get('provenance.json')!.toString('utf8'));
     expect(p).toMatchObject({ engineVersion: '1.1.0', generatedBy: { email: demoEmail('lab') },

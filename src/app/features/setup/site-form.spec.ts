@@ -8,7 +8,7 @@ import { SiteForm } from './site-form';
 const SITE = {
   id: '0b5e7d2c-1111-4a4a-8a8a-000000000001', rev: 3, name: 'Alder test', timezone: 'Europe/Berlin', elevationM: 300,
   latitude: null, longitude: null, safetyNote: '', moistureCalibration: { kind: 'topp' }, tempDepthCm: 5, settlingDaysHard: 1,
-  settlingDaysWarn: 7, offsetSpreadPct: 3, offsetMoveCm: 1, leakSlopeUmolMolS: 0.05, ambientMarginPpm: 100, digestLocalTime: '18:00',
+  settlingDaysWarn: 7, offsetSpreadPct: 3, offsetMoveCm: 1, leakSlopeUmolMolS: 0.05, ambientMarginPpm: 100, defaultAirTempC: 15, digestLocalTime: '18:00',
   tileUrl: null, tileAttribution: null,
 };
 

@@ -3,6 +3,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
+import { DEFAULT_SITE_AIR_TEMP_C } from '../../../../shared/flux/chamber-air-temperature';
 import { pressureFromElevationKpa } from '../../../../shared/flux/standard-atmosphere';
 import { DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT } from '../../../../shared/model/calibration';
 import { siteFields } from '../../../../shared/model/site-layout';
@@ -13,7 +14,7 @@ import { SetupApi, type Rec } from './setup-api';
 type Draft = Partial<Record<string, string>>;
 
 const NUMBER_FIELDS = ['elevationM', 'latitude', 'longitude', 'tempDepthCm', 'settlingDaysHard', 'settlingDaysWarn', 'offsetSpreadPct',
-  'offsetMoveCm', 'leakSlopeUmolMolS', 'ambientMarginPpm', 'calibrationDriftLimitPct'] as const;
+  'offsetMoveCm', 'leakSlopeUmolMolS', 'ambientMarginPpm', 'calibrationDriftLimitPct', 'defaultAirTempC'] as const;
 const NULLABLE = new Set(['elevationM', 'latitude', 'longitude', 'tileUrl', 'tileAttribution']);
 
 /** Thresholds of the site, with the unit each is entered in. */
@@ -25,6 +26,7 @@ export const THRESHOLDS = [
   { key: 'leakSlopeUmolMolS', label: 'Leak-check slope', unit: 'µmol/mol/s' },
   { key: 'ambientMarginPpm', label: 'Start-above-ambient margin', unit: 'µmol/mol' },
   { key: 'calibrationDriftLimitPct', label: 'Calibration drift limit (of the span gas)', unit: '%' },
+  { key: 'defaultAirTempC', label: 'Default air temperature (no chamber or visit reading)', unit: '°C' },
   { key: 'tempDepthCm', label: 'Soil temperature depth for responses', unit: 'cm' },
 ] as const;
 
@@ -97,6 +99,7 @@ function toDraft(site: Rec | null): Draft {
     offsetSpreadPct: str(s['offsetSpreadPct'], '3'), offsetMoveCm: str(s['offsetMoveCm'], '1'), leakSlopeUmolMolS: str(s['leakSlopeUmolMolS'], '0.05'),
     ambientMarginPpm: str(s['ambientMarginPpm'], '100'), slopeBasis: str(s['slopeBasis'], 'closure'),
     calibrationDriftLimitPct: str(s['calibrationDriftLimitPct'], String(DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT)), digestLocalTime: str(s['digestLocalTime'], '18:00'),
+    defaultAirTempC: str(s['defaultAirTempC'], String(DEFAULT_SITE_AIR_TEMP_C)),
     tileUrl: str(s['tileUrl']), tileAttribution: str(s['tileAttribution']),
   };
 }
