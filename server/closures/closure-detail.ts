@@ -36,6 +36,12 @@ export async function closureDetail(ds: DataSource, user: SessionUser, id: strin
     `SELECT c.id, c.started_at, c.flux_umol_m2_s, c.review_state, c.flags, c.redo_of_id, c.settle_s, c.review_settle_s,
             c.series->'tS' AS t_s, c.series->'co2Ppm' AS co2_ppm
        FROM closure c WHERE c.visit_id = $1 AND NOT c.deleted ORDER BY c.started_at`, [closure['visitId']]);
+  // The site's chambers and analyzers, for the lab's correction of the closure's system.
+  const profiles: { id: string; name: string; valid_from: string }[] = await ds.query(
+    `SELECT id, name, to_char(valid_from, 'YYYY-MM-DD') AS valid_from FROM chamber_profile WHERE site_id = $1 AND NOT deleted ORDER BY name, valid_from`,
+    [closure['siteId']]);
+  const analyzers: { id: string; name: string; serial: string }[] = await ds.query(
+    `SELECT id, name, serial FROM analyzer WHERE site_id = $1 AND NOT deleted ORDER BY name`, [closure['siteId']]);
   const counted = replicates.filter((r) => r['review_state'] !== 'rejected' && typeof r['flux_umol_m2_s'] === 'number');
   return {
     closure,
@@ -51,5 +57,6 @@ export async function closureDetail(ds: DataSource, user: SessionUser, id: strin
       tS: r['t_s'], co2Ppm: r['co2_ppm'] })),
     replicateSpread: replicateSpread(counted.map((r) => r['flux_umol_m2_s'] as number)),
     history: await closureHistory(ds, id),
+    systems: { profiles: profiles.map((p) => ({ id: p.id, name: p.name, validFrom: p.valid_from })), analyzers },
   };
 }

@@ -54,7 +54,10 @@ export interface FitResult {
 export interface ClosureDetail {
   closure: Record<string, any> & { id: string; rev: number; series: Record<string, (number | null)[] | null>;
     results: { raw: FitResult; review: FitResult | null; volumeCm3: number | null; areaCm2: number | null; meanOffsetCm: number | null;
-      ambientPpm: number | null; pressureIsDefault: boolean; slopeBasis?: 'closure' | 'settle_end'; recomputedSinceReview?: RecomputedMark } };
+      ambientPpm: number | null; pressureIsDefault: boolean; slopeBasis?: 'closure' | 'settle_end'; recomputedSinceReview?: RecomputedMark;
+      /** Absent on results stored before several chamber systems and the air-temperature order. */
+      profileName?: string | null; profileSource?: 'closure' | 'site-default' | 'only-chamber' | null; ambientCheckId?: string | null;
+      ambientAt?: string | null; airTempSource?: 'series' | 'visit' | 'site-default' | null; airTempC?: number | null } };
   context: QueueItem;
   offsetSet: { id: string; takenAt: string; readingsCm: number[]; meanCm: number; supersedesId: string | null } | null;
   profile: { id: string; name: string; validFrom: string; chamberVolumeCm3: number; loopVolumeCm3: number } | null;
@@ -64,6 +67,8 @@ export interface ClosureDetail {
   replicateSpread: { n: number; mean: number | null; sd: number | null; cvPct: number | null };
   history: { id: number; at: string; kind: string; field: string; oldValue: unknown; newValue: unknown;
     oldFluxUmolM2S: number | null; newFluxUmolM2S: number | null; userName: string | null }[];
+  /** The site's chamber profile versions and analyzers (the lab may correct which a closure was made with). */
+  systems?: { profiles: { id: string; name: string; validFrom: string }[]; analyzers: { id: string; name: string; serial: string }[] };
 }
 
 /** What a recompute job reports (GET /api/jobs): how far it got and, when done, what it changed. */

@@ -3,6 +3,7 @@ import { ChangeDetectionStrategy, Component, ElementRef, computed, effect, input
 import { FormsModule } from '@angular/forms';
 import type { ClosureDetail, FitResult } from './bench-api';
 import { ClosureChart, type ChartInput } from './closure-chart';
+import { ClosureSystem } from './closure-system';
 import { detectionLimitNote, fluxBases } from './flux-bases';
 
 export interface Decision { fields: Record<string, unknown> }
@@ -14,7 +15,7 @@ export interface Decision { fields: Record<string, unknown> }
  */
 @Component({
   selector: 'fw-closure-view',
-  imports: [ClosureChart, DatePipe, DecimalPipe, FormsModule],
+  imports: [ClosureChart, ClosureSystem, DatePipe, DecimalPipe, FormsModule],
   templateUrl: './closure-view.html',
   styleUrl: './bench.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
