@@ -76,12 +76,12 @@ interface ShownClosure {
   flags: string[];
 }
 
-/** The closure cards on the visit screen: the flux as shown and the flags. */
+/** The closure cards on the visit screen: the flux as shown and the flags (each shown in words, its code kept in data-flag). */
 async function shownClosures(page: Page): Promise<ShownClosure[]> {
   return page.locator('[data-closure]').evaluateAll((cards) => cards.map((c) => ({
     id: c.getAttribute('data-closure') ?? '',
     flux: c.querySelector('[data-testid="spot-flux"]')?.textContent?.trim() ?? '',
-    flags: Array.from(c.querySelectorAll('[data-testid="spot-flags"] li')).map((li) => li.textContent?.trim() ?? ''),
+    flags: Array.from(c.querySelectorAll('[data-testid="spot-flags"] li[data-flag]')).map((li) => li.getAttribute('data-flag') ?? ''),
   })));
 }
 
@@ -183,7 +183,7 @@ describe('Closure capture in Chromium, offline, then synced', () => {
       // 610 ppm at the start against the day's 421.5 ppm is more than the 100 ppm margin.
       expect(atA[0].flags).not.toContain('start-above-ambient');
       expect(atA[1].flags).toContain('start-above-ambient');
-      expect(await page.locator('[data-closure]').nth(1).locator('.ambient').innerText()).toMatch(/^Start vs the day's ambient: \+189 ppm$/);
+      expect(await page.locator('[data-closure]').nth(1).locator('.ambient').innerText()).toMatch(/^Start vs this analyzer's ambient reading: \+189 ppm$/);
 
       // Redo the flagged closure: a new closure at the same visit, its short series typed in.
       await page.clock.setSystemTime(new Date('2026-12-03T09:10:00Z'));
@@ -238,7 +238,7 @@ describe('Closure capture in Chromium, offline, then synced', () => {
         expect(r.results).not.toBeNull();
         expect(r.flux_umol_m2_s).not.toBeNull();
         expect(shown.get(r.id)!.flux.startsWith(`${r.flux_umol_m2_s!.toFixed(2)} µmol`)).toBe(true);
-        expect(shown.get(r.id)!.flags).toEqual(r.flags.length ? r.flags : ['no flags']);
+        expect(shown.get(r.id)!.flags).toEqual(r.flags);
         expect(r.analyzer_id).not.toBeNull();
         if (i < 4) {
           // Taps at the planned moments; the series starts where the file does, moved by the offset.

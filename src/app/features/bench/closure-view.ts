@@ -10,7 +10,7 @@ export interface Decision { fields: Record<string, unknown> }
 
 /**
  * One closure under review: the chart, the numbers of both fits, where the volume came from, the
- * start against the day's ambient, the collar's flux history, the visit's replicates and the
+ * start against its analyzer's ambient, the collar's flux history, the visit's replicates and the
  * decision controls. Every decision is a review field; raw data is shown, never edited here.
  */
 @Component({

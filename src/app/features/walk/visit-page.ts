@@ -6,6 +6,7 @@ import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { RouterLink } from '@angular/router';
+import { profileForClosure } from '../../../../shared/flux/chamber-system';
 import { collarAreaCm2, offsetStats } from '../../../../shared/model/derived';
 import { AirTempField } from './air-temp-field';
 import { OffsetForm } from './offset-form';
@@ -74,10 +75,14 @@ export class VisitPage {
     const v = this.view();
     if (!v) return null;
     const c = v.collar as unknown as Parameters<typeof collarAreaCm2>[0];
+    const day = new Date().toISOString().slice(0, 10);
+    // The crew's own chamber (the one its closures carry), not the newest profile of the site.
+    const chamber = profileForClosure(v.profiles.map((p) => ({ ...p, areaCm2: 0 })), this.choice().profileId, day,
+      (v.site?.['defaultProfileId'] as string | null) ?? null);
     return {
-      day: new Date().toISOString().slice(0, 10),
+      day,
       collarAreaCm2: collarAreaCm2({ shape: c.shape ?? 'round', diameterCm: c.diameterCm ?? null, sideACm: c.sideACm ?? null, sideBCm: c.sideBCm ?? null }),
-      profiles: v.profiles,
+      profiles: chamber.ok ? [chamber.profile] : [],
       thresholds: { offsetSpreadPct: Number(v.site?.['offsetSpreadPct'] ?? 3), offsetMoveCm: Number(v.site?.['offsetMoveCm'] ?? 1) },
     };
   });

@@ -21,7 +21,7 @@ export interface VisitView {
   site: LocalRecord | null;
   plotCode: string;
   treatment: string;
-  profiles: { validFrom: string; chamberVolumeCm3: number; loopVolumeCm3: number }[];
+  profiles: { id: string; name: string; validFrom: string; chamberVolumeCm3: number; loopVolumeCm3: number }[];
   visit: LocalRecord | null;
   /** This visit's newest offset set (a correction supersedes the earlier one). */
   offsetSet: LocalRecord | null;
@@ -90,7 +90,7 @@ export async function loadVisit(db: FluxDb, key: VisitKey): Promise<VisitView | 
     site: site ?? null,
     plotCode: String(plot?.['code'] ?? ''),
     treatment: treatment ? [treatment['code'], treatment['name']].filter(Boolean).join(' · ') : '',
-    profiles: profiles.map((p) => ({ validFrom: String(p['validFrom']), chamberVolumeCm3: Number(p['chamberVolumeCm3']), loopVolumeCm3: Number(p['loopVolumeCm3']) })),
+    profiles: profiles.map((p) => ({ id: p.id, name: String(p['name'] ?? ''), validFrom: String(p['validFrom']), chamberVolumeCm3: Number(p['chamberVolumeCm3']), loopVolumeCm3: Number(p['loopVolumeCm3']) })),
     visit,
     offsetSet,
     lastOffsetSet,
