@@ -31,10 +31,13 @@ export interface AnomalyOptions {
 
 /**
  * Flags that ask for a look at the closure. Information-only flags (no water data, default
- * pressure, low R², dropped gaps, exponential not used, offset taken after) stay on the Bench.
+ * pressure, low R², dropped gaps, exponential not used, offset taken after, temperature from the
+ * visit) stay on the Bench; a site-default temperature is listed because the crew can still note
+ * the visit's air temperature before leaving.
  */
 export const REVIEW_FLAGS: readonly QcFlag[] = [
   'invalid-input', 'too-few-points', 'short-window', 'flat', 'negative-flux', 'spike', 'exp-linear-ratio-high', 'start-above-ambient',
+  'temp-site-default',
 ];
 
 type Db = DataSource | EntityManager;
