@@ -27,9 +27,9 @@ const PROFILE_SOURCE: Record<string, string> = {
       · ambient {{ r.ambientPpm === null ? 'none of this analyzer within 12 h' : (r.ambientPpm | number: '1.0-0') + ' µmol/mol' }}
       @if (r.ambientAt) { read {{ r.ambientAt | date: 'yyyy-MM-dd HH:mm' : 'UTC' }} UTC }
       · chamber air temperature {{ airTemp() }}</p>
-    @if (c().flags.length) {
+    @if (flags().length) {
       <ul class="flag-words" data-testid="flag-words">
-        @for (f of c().flags; track f) { <li><strong>{{ advice(f).words }}</strong> {{ advice(f).advice }} <code>{{ f }}</code></li> }
+        @for (f of flags(); track f) { <li><strong>{{ advice(f).words }}</strong> {{ advice(f).advice }} <code>{{ f }}</code></li> }
       </ul>
     }
     @if (systems(); as s) {
@@ -59,6 +59,7 @@ export class ClosureSystem {
   readonly decide = output<Decision>();
 
   protected readonly c = computed(() => this.detail().closure);
+  protected readonly flags = computed(() => (this.c()['flags'] as string[] | null | undefined) ?? []);
   protected readonly systems = computed(() => this.detail().systems ?? null);
   protected readonly profileId = linkedSignal<string | null>(() => (this.c()['profileId'] as string | null) ?? null);
   protected readonly analyzerId = linkedSignal<string | null>(() => (this.c()['analyzerId'] as string | null) ?? null);
