@@ -85,12 +85,15 @@ describe('Bench review in Chromium', () => {
       await focusPage(page);
       p = patchAnswer(page);
       d = detailAnswer(page);
+      const second = await title(page);
       await page.keyboard.press('a');
       expect((await (await p).json()).record.reviewState).toBe('accepted');
       await d;
+      await page.waitForFunction((t) => document.querySelector('#closure-title')?.textContent?.trim() !== t, second);
 
       // 3rd: R puts the cursor in the reason; Enter rejects with it.
       await page.keyboard.press('r');
+      await page.waitForFunction(() => document.activeElement?.getAttribute('name') === 'reason');
       await page.keyboard.type('Curve bends over within a minute: chamber not sealed');
       p = patchAnswer(page);
       await page.keyboard.press('Enter');
