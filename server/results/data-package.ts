@@ -4,7 +4,8 @@
  * `unit` property beside the standard ones), primary and foreign keys; provenance as a custom
  * property and as its own JSON file.
  */
-import { TABLES, tablePath, type FieldType } from './export-schema';
+import type { DataLicence } from '../../shared/results/data-licences';
+import { TABLES, tablePath, type FieldDef, type FieldType } from './export-schema';
 
 export interface Provenance {
   engineVersion: string;
@@ -12,11 +13,18 @@ export interface Provenance {
   generatedBy: { id: string; name: string; email: string };
   jobId: string;
   site: { id: string; name: string; timezone: string; tempDepthCm: number };
+  license: DataLicence;
   parameters: Record<string, unknown>;
   counts: Record<string, number>;
 }
 
 const FORMAT: Partial<Record<FieldType, string>> = { date: 'default', datetime: 'default' };
+
+function constraints(f: FieldDef) {
+  const c = { ...(f.required ? { required: true } : {}), ...(f.enum ? { enum: [...f.enum] } : {}),
+    ...(f.minimum !== undefined ? { minimum: f.minimum } : {}), ...(f.maximum !== undefined ? { maximum: f.maximum } : {}) };
+  return Object.keys(c).length ? { constraints: c } : {};
+}
 
 export function dataPackage(p: Provenance, rowCounts: Record<string, number>, bytes: Record<string, number>) {
   return {
@@ -28,6 +36,7 @@ export function dataPackage(p: Provenance, rowCounts: Record<string, number>, by
       + '(closure → visit → collar → plot → treatment), temperature responses and seasonal totals.',
     version: '1.0.0',
     created: p.generatedAt,
+    licenses: [{ name: p.license.id, path: p.license.url, title: p.license.title }],
     contributors: [{ title: p.generatedBy.name, email: p.generatedBy.email, role: 'author' }],
     'fluxwalk:provenance': p,
     resources: [
@@ -46,7 +55,7 @@ export function dataPackage(p: Provenance, rowCounts: Record<string, number>, by
         schema: {
           fields: t.fields.map((f) => ({
             name: f.name, type: f.type, ...(FORMAT[f.type] ? { format: FORMAT[f.type] } : {}), description: f.description,
-            ...(f.unit ? { unit: f.unit } : {}), ...(f.required ? { constraints: { required: true } } : {}),
+            ...(f.unit ? { unit: f.unit } : {}), ...constraints(f),
           })),
           missingValues: [''],
           ...(t.primaryKey ? { primaryKey: t.primaryKey } : {}),

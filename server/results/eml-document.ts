@@ -9,23 +9,38 @@ import type { Provenance } from './data-package';
 
 const esc = (s: string) => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
 
-export const UNIT_IDS: Record<string, { id: string; description: string }> = {
-  [UNITS.flux]: { id: 'micromolePerMeterSquaredPerSecond', description: 'micromoles CO2 per square metre per second' },
-  [UNITS.total]: { id: 'gramPerMeterSquared', description: 'grams of carbon per square metre' },
-  [UNITS.cm]: { id: 'centimeter', description: 'centimetre' },
-  [UNITS.cm2]: { id: 'squareCentimeter', description: 'square centimetre' },
-  [UNITS.cm3]: { id: 'cubicCentimeter', description: 'cubic centimetre' },
-  [UNITS.s]: { id: 'second', description: 'second' },
-  [UNITS.degC]: { id: 'celsius', description: 'degree Celsius' },
-  [UNITS.percent]: { id: 'percent', description: 'percent (volumetric water content, m3 per 100 m3)' },
-  [UNITS.ppm]: { id: 'micromolePerMole', description: 'micromoles per mole (ppm)' },
-  [UNITS.mmolMol]: { id: 'millimolePerMole', description: 'millimoles per mole' },
-  [UNITS.kPa]: { id: 'kilopascal', description: 'kilopascal' },
-  [UNITS.degree]: { id: 'degree', description: 'degree of arc (WGS 84)' },
-  [UNITS.ppmPerS]: { id: 'micromolePerMolePerSecond', description: 'micromoles per mole per second' },
-  [UNITS.kelvin]: { id: 'kelvin', description: 'kelvin' },
-  dimensionless: { id: 'dimensionless', description: 'no unit' },
+/** A unit of EML's standard unit dictionary (eml-unitDictionary.xml), by its name there. */
+interface StandardUnit { standard: string }
+/** A unit the dictionary lacks, defined completely (STMML: unitType, parentSI, multiplierToSI) so a program can convert it. */
+export interface CustomUnit { custom: string; unitType: string; parentSI: string; multiplierToSI: string; abbreviation: string; description: string }
+
+/** Every unit of export-schema.ts in EML terms: the dictionary's names where they exist. */
+export const EML_UNITS: Record<string, StandardUnit | CustomUnit> = {
+  [UNITS.flux]: { standard: 'micromolePerMeterSquaredPerSecond' },
+  [UNITS.total]: { custom: 'gramCarbonPerMeterSquared', unitType: 'arealMassDensity', parentSI: 'kilogramPerMeterSquared', multiplierToSI: '0.001',
+    abbreviation: 'g C/m²', description: 'grams of carbon (as CO2-C, 12.011 g per mol) per square metre' },
+  [UNITS.cm]: { standard: 'centimeter' },
+  [UNITS.cm2]: { standard: 'centimeterSquared' },
+  [UNITS.cm3]: { standard: 'centimeterCubed' },
+  [UNITS.s]: { standard: 'second' },
+  [UNITS.degC]: { standard: 'celsius' },
+  [UNITS.percent]: { standard: 'percent' },
+  [UNITS.ppm]: { standard: 'micromolePerMole' },
+  [UNITS.mmolMol]: { standard: 'millimolePerMole' },
+  [UNITS.kPa]: { standard: 'kilopascal' },
+  [UNITS.degree]: { standard: 'degree' },
+  // µmol mol-1 is dimensionless (1e-6), so µmol mol-1 s-1 is 1e-6 per second: a frequency in SI terms.
+  [UNITS.ppmPerS]: { custom: 'micromolePerMolePerSecond', unitType: 'frequency', parentSI: 'hertz', multiplierToSI: '0.000001',
+    abbreviation: 'µmol/mol/s', description: 'micromoles per mole per second (rate of change of a mole fraction)' },
+  [UNITS.kelvin]: { standard: 'kelvin' },
+  [UNITS.none]: { standard: 'dimensionless' },
 };
+
+function unitXml(unit: string | undefined): string {
+  const u = EML_UNITS[unit ?? UNITS.none];
+  if (!u) throw new Error(`No EML unit for ${unit}`);
+  return 'standard' in u ? `<standardUnit>${u.standard}</standardUnit>` : `<customUnit>${u.custom}</customUnit>`;
+}
 
 function scale(f: FieldDef): string {
   if (f.type === 'date') return '<dateTime><formatString>YYYY-MM-DD</formatString></dateTime>';
@@ -34,11 +49,10 @@ function scale(f: FieldDef): string {
     const def = f.type === 'boolean' ? `${f.description} (true or false)` : f.description;
     return `<nominal><nonNumericDomain><textDomain><definition>${esc(def)}</definition></textDomain></nonNumericDomain></nominal>`;
   }
-  const unit = UNIT_IDS[f.unit ?? 'dimensionless'] ?? UNIT_IDS['dimensionless'];
   const numberType = f.type === 'integer' ? 'whole' : 'real';
   // Celsius has an arbitrary zero: an interval scale; everything else here is a ratio scale.
   const kind = f.unit === UNITS.degC ? 'interval' : 'ratio';
-  return `<${kind}><unit><customUnit>${unit.id}</customUnit></unit><numericDomain><numberType>${numberType}</numberType></numericDomain></${kind}>`;
+  return `<${kind}><unit>${unitXml(f.unit)}</unit><numericDomain><numberType>${numberType}</numberType></numericDomain></${kind}>`;
 }
 
 function attribute(f: FieldDef): string {
@@ -64,7 +78,9 @@ export function emlDocument(p: Provenance, cov: EmlCoverage | null, rowCounts: R
     + '<recordDelimiter>\\n</recordDelimiter><attributeOrientation>column</attributeOrientation><simpleDelimited><fieldDelimiter>,</fieldDelimiter>'
     + '<quoteCharacter>"</quoteCharacter></simpleDelimited></textFormat></dataFormat></physical>'
     + `<attributeList>${t.fields.map(attribute).join('')}</attributeList><numberOfRecords>${rowCounts[t.name] ?? 0}</numberOfRecords></dataTable>`).join('\n    ');
-  const units = Object.values(UNIT_IDS).map((u) => `<stmml:unit id="${u.id}" name="${u.id}"><stmml:description>${esc(u.description)}</stmml:description></stmml:unit>`).join('');
+  const units = Object.values(EML_UNITS).filter((u): u is CustomUnit => 'custom' in u).map((u) => `<stmml:unit id="${u.custom}" name="${u.custom}" `
+    + `unitType="${u.unitType}" parentSI="${u.parentSI}" multiplierToSI="${u.multiplierToSI}" abbreviation="${esc(u.abbreviation)}">`
+    + `<stmml:description>${esc(u.description)}</stmml:description></stmml:unit>`).join('');
   return `<?xml version="1.0" encoding="UTF-8"?>
 <eml:eml xmlns:eml="https://eml.ecoinformatics.org/eml-2.2.0" xmlns:stmml="http://www.xml-cml.org/schema/stmml-1.2"
   xmlns:xsi="http://www.w3.org/2001/XMLSchema-instance"
@@ -79,6 +95,8 @@ export function emlDocument(p: Provenance, cov: EmlCoverage | null, rowCounts: R
     + `offsets and probe readings; fluxes aggregated along the experimental design, temperature responses (Q10; Lloyd and Taylor 1994) `
     + `and seasonal totals over a stated period with Student t intervals over plots. Generated by the flux engine ${esc(p.engineVersion)}.</para></abstract>
     <keywordSet><keyword>soil respiration</keyword><keyword>CO2 efflux</keyword><keyword>closed chamber</keyword><keyword>temperature response</keyword></keywordSet>
+    <intellectualRights><para>${esc(`This dataset is licensed under ${p.license.title} (SPDX ${p.license.id}, ${p.license.url}).`)}</para></intellectualRights>
+    <licensed><licenseName>${esc(p.license.title)}</licenseName><url>${esc(p.license.url)}</url><identifier>${esc(p.license.id)}</identifier></licensed>
     ${coverage}
     <contact>${person}</contact>
     <methods>${methods.map((m) => `<methodStep><description><para>${esc(m)}</para></description></methodStep>`).join('')}</methods>

@@ -2,6 +2,7 @@ import type { DataSource } from 'typeorm';
 import type { CsvValue } from '../../shared/csv/csv-cell';
 import type { SiteResults } from './results-service';
 import type { CellTotal } from './seasonal-totals';
+import { probeFlags } from '../../shared/model/probe-plausibility';
 
 /** Rows of each export table, in the field order of export-schema.ts; big tables are read in keyset pages. */
 export type Rows = AsyncIterable<CsvValue[]>;
@@ -41,7 +42,10 @@ export function offsetSetRows(ds: DataSource, siteId: string): Rows {
 export function probeRows(ds: DataSource, siteId: string, depthCm: number): Rows {
   return query(ds, `SELECT * FROM probe_reading WHERE site_id = $1 AND NOT deleted ORDER BY taken_at, id`, [siteId], (r) => {
     const at = (r.soil_temps as { depthCm: number; tempC: number }[]).find((s) => Math.abs(s.depthCm - depthCm) < 1e-6);
-    return [r.id, r.visit_id, r.collar_id, iso(r.taken_at), at?.tempC ?? null, r.vwc_pct, r.moisture_raw, r.moisture_kind];
+    const kind = r.moisture_kind as 'vwc' | 'permittivity' | null;
+    const flags = probeFlags({ soilTemps: r.soil_temps, moistureRaw: r.moisture_raw, moistureKind: kind, vwcPct: r.vwc_pct });
+    return [r.id, r.visit_id, r.collar_id, iso(r.taken_at), at?.tempC ?? null, r.vwc_pct, kind,
+      kind === 'vwc' ? r.moisture_raw : null, kind === 'permittivity' ? r.moisture_raw : null, flags.join(';')];
   });
 }
 
@@ -62,7 +66,11 @@ async function* closurePages(ds: DataSource, siteId: string, columns: string, on
   }
 }
 
-interface Fit { selected?: { model: string; basis?: string; fluxUmolM2S: number; slopePpmS: number } | null; [model: string]: any }
+interface Fit {
+  selected?: { model: string; basis?: string; fluxUmolM2S: number; slopePpmS: number } | null;
+  minDetectableFluxUmolM2S?: number | null; precisionPpm?: number; fluxPerSlope?: number; window?: { firstTS: number; lastTS: number; n: number } | null;
+  [model: string]: any;
+}
 
 export async function* closureRows(ds: DataSource, siteId: string, onPage?: (n: number) => Promise<void>): Rows {
   const cols = `id, visit_id, collar_id, campaign_id, started_at, settle_s, review_state, review_reason, review_settle_s, review_window_end_s,
@@ -78,12 +86,19 @@ export async function* closureRows(ds: DataSource, siteId: string, onPage?: (n: 
         raw ? res.raw?.[raw.model]?.r2 ?? null : null, review?.model ?? null, review?.fluxUmolM2S ?? null, r.flux_umol_m2_s,
         // Results stored before slope bases existed were on the end of the settle time.
         r.flux_umol_m2_s === null ? null : ((review ?? raw)?.basis ?? 'settle_end'),
+        ...fitNumbers(review ? res.review! : raw ? res.raw! : null),
         (r.flags as string[]).join(';'), res.volumeCm3 ?? null, res.areaCm2 ?? null, res.meanOffsetCm ?? null, res.pressureIsDefault ?? null,
         res.profileId ?? null, res.profileName ?? null, r.analyzer_id ?? null, res.ambientPpm ?? null,
         // Results stored before the temperature order existed always had the file's own column.
         res.airTempSource ?? (r.flux_umol_m2_s === null ? null : 'series'), res.airTempC ?? null];
     }
   }
+}
+
+/** Detection limit, precision, fit window and flux-per-slope factor of the fit behind a closure's flux. */
+function fitNumbers(f: Fit | null): (number | null)[] {
+  if (!f) return [null, null, null, null, null, null];
+  return [f.minDetectableFluxUmolM2S ?? null, f.precisionPpm ?? null, f.window?.firstTS ?? null, f.window?.lastTS ?? null, f.window?.n ?? null, f.fluxPerSlope ?? null];
 }
 
 export async function* seriesRows(ds: DataSource, siteId: string, onPage?: (n: number) => Promise<void>): Rows {

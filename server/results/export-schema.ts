@@ -5,22 +5,27 @@
  */
 export type FieldType = 'string' | 'number' | 'integer' | 'boolean' | 'date' | 'datetime';
 
-export interface FieldDef { name: string; type: FieldType; unit?: string; description: string; required?: boolean }
+/** `enum`, `minimum`, `maximum` become Table Schema constraints; `decimals` is the precision the value carries (rounding in the CSV). */
+export interface FieldDef {
+  name: string; type: FieldType; unit?: string; description: string; required?: boolean;
+  enum?: readonly string[]; minimum?: number; maximum?: number; decimals?: number;
+}
 export interface ForeignKey { fields: string[]; reference: { resource: string; fields: string[] } }
 export interface TableDef { name: string; title: string; description: string; fields: FieldDef[]; primaryKey?: string[]; foreignKeys?: ForeignKey[] }
 
 const id = (name: string, what: string): FieldDef => ({ name, type: 'string', description: `${what} (UUID)`, required: true });
 const ref = (name: string, what: string): FieldDef => ({ name, type: 'string', description: `${what} (UUID)` });
-const num = (name: string, unit: string, description: string): FieldDef => ({ name, type: 'number', unit, description });
-const int = (name: string, description: string): FieldDef => ({ name, type: 'integer', description });
+const num = (name: string, unit: string, description: string, more: Partial<FieldDef> = {}): FieldDef => ({ name, type: 'number', unit, description, ...more });
+const oneOf = (name: string, values: readonly string[], description: string): FieldDef => ({ name, type: 'string', description, enum: values });
+const count = (name: string, description: string): FieldDef => ({ name, type: 'integer', description, minimum: 0 });
 const str = (name: string, description: string): FieldDef => ({ name, type: 'string', description });
 const fk = (field: string, resource: string, target = field): ForeignKey => ({ fields: [field], reference: { resource, fields: [target] } });
 
 export const UNITS = {
   flux: 'umol m-2 s-1',
-  total: 'g m-2',
+  total: 'g C m-2',
   cm: 'cm', cm2: 'cm2', cm3: 'cm3', s: 's', degC: 'degC', percent: 'percent', ppm: 'umol mol-1', mmolMol: 'mmol mol-1', kPa: 'kPa', degree: 'degree',
-  ppmPerS: 'umol mol-1 s-1', kelvin: 'K',
+  ppmPerS: 'umol mol-1 s-1', kelvin: 'K', none: 'dimensionless',
 } as const;
 
 const FLUX_NOTE = 'CO2 efflux, µmol CO2 m-2 s-1';
@@ -32,7 +37,7 @@ export const TABLES: TableDef[] = [
     str('collar_treatment', 'Code of the collar-level treatment, empty when none'), str('shape', 'round or rectangular'),
     num('diameter_cm', UNITS.cm, 'Inner diameter of a round collar'), num('area_cm2', UNITS.cm2, 'Soil area inside the collar'),
     num('height_cm', UNITS.cm, 'Collar height'), num('insertion_cm', UNITS.cm, 'Depth the collar was driven into the soil'),
-    num('latitude', UNITS.degree, 'WGS 84 latitude'), num('longitude', UNITS.degree, 'WGS 84 longitude'),
+    num('latitude', UNITS.degree, 'WGS 84 latitude', { minimum: -90, maximum: 90, decimals: 7 }), num('longitude', UNITS.degree, 'WGS 84 longitude', { minimum: -180, maximum: 180, decimals: 7 }),
     { name: 'installed_on', type: 'date', description: 'Installation day' }, str('status', 'active, damaged or retired'),
   ] },
   { name: 'collar_events', title: 'Collar events', description: 'Installations, clippings, reseats, replacements, damage and retirement.', primaryKey: ['event_id'],
@@ -60,7 +65,7 @@ export const TABLES: TableDef[] = [
     ] },
   { name: 'visits', title: 'Visits', description: 'One crew stop at one collar in one round of a campaign.', primaryKey: ['visit_id'],
     foreignKeys: [fk('collar_id', 'collars')], fields: [
-      id('visit_id', 'Visit'), ref('campaign_id', 'Campaign'), str('campaign_name', 'Campaign name'), int('round', 'Round number within the campaign'),
+      id('visit_id', 'Visit'), ref('campaign_id', 'Campaign'), str('campaign_name', 'Campaign name'), count('round', 'Round number within the campaign'),
       ref('collar_id', 'Collar'), { name: 'arrived_at', type: 'datetime', description: 'Arrival time, UTC' },
       { name: 'skipped', type: 'boolean', description: 'The collar was skipped in this round' }, str('skip_reason', 'Why it was skipped'),
       str('conditions', 'Visit conditions as a JSON object (standing water, animal, trampling, notes)'),
@@ -69,14 +74,18 @@ export const TABLES: TableDef[] = [
     foreignKeys: [fk('visit_id', 'visits'), fk('collar_id', 'collars')], fields: [
       id('offset_set_id', 'Offset set'), ref('visit_id', 'Visit'), ref('collar_id', 'Collar'), { name: 'taken_at', type: 'datetime', description: 'Time, UTC' },
       num('mean_offset_cm', UNITS.cm, 'Mean rim height above the soil'), num('sd_offset_cm', UNITS.cm, 'Standard deviation of the readings'),
-      int('n_readings', 'Number of readings'), str('readings_cm', 'The readings in cm, separated by semicolons'),
+      count('n_readings', 'Number of readings'), str('readings_cm', 'The readings in cm, separated by semicolons'),
       ref('supersedes_id', 'Offset set this one replaces'),
     ] },
   { name: 'probe_readings', title: 'Probe readings', description: 'Soil moisture and the soil temperature at the site\'s response depth per visit.', primaryKey: ['probe_reading_id'],
     foreignKeys: [fk('visit_id', 'visits')], fields: [
       id('probe_reading_id', 'Probe reading'), ref('visit_id', 'Visit'), ref('collar_id', 'Collar'), { name: 'taken_at', type: 'datetime', description: 'Time, UTC' },
-      num('soil_temp_c', UNITS.degC, 'Soil temperature at the site\'s response depth'), num('vwc_pct', UNITS.percent, 'Volumetric water content'),
-      num('moisture_raw', 'dimensionless', 'Raw moisture reading as the probe gave it'), str('moisture_kind', 'What the raw reading is (permittivity, period, VWC)'),
+      num('soil_temp_c', UNITS.degC, 'Soil temperature at the site\'s response depth', { decimals: 2 }),
+      num('vwc_pct', UNITS.percent, 'Volumetric water content: the VWC reading, or the permittivity through the site\'s calibration (Topp et al. 1980 unless set)', { decimals: 2 }),
+      oneOf('moisture_kind', ['vwc', 'permittivity'], 'What the probe gave: vwc (a VWC in %) or permittivity (apparent permittivity Ka)'),
+      num('moisture_vwc_reading_pct', UNITS.percent, 'The probe\'s own VWC reading (moisture_kind vwc)', { minimum: 0, maximum: 100 }),
+      num('moisture_permittivity', UNITS.none, 'Apparent permittivity Ka as read (moisture_kind permittivity)', { minimum: 1, maximum: 90 }),
+      str('flags', 'Plausible-range flags (soil-temp-implausible, vwc-implausible, permittivity-implausible) separated by semicolons; see the EML methods'),
     ] },
   { name: 'probe_soil_temperatures', title: 'Probe soil temperatures', description: 'Every soil temperature of a probe reading with its depth.',
     foreignKeys: [fk('probe_reading_id', 'probe_readings')], fields: [
@@ -86,15 +95,20 @@ export const TABLES: TableDef[] = [
     foreignKeys: [fk('visit_id', 'visits'), fk('collar_id', 'collars')], fields: [
       id('closure_id', 'Closure'), ref('visit_id', 'Visit'), ref('collar_id', 'Collar'), ref('campaign_id', 'Campaign'),
       { name: 'started_at', type: 'datetime', description: 'Chamber closed, UTC' }, num('settle_s', UNITS.s, 'Settle time skipped by the raw fit'),
-      str('review_state', 'unreviewed, accepted or rejected'), str('review_reason', 'Reason given for a rejection'),
+      oneOf('review_state', ['unreviewed', 'accepted', 'rejected'], 'unreviewed, accepted or rejected'), str('review_reason', 'Reason given for a rejection'),
       num('review_settle_s', UNITS.s, 'Settle time chosen by the lab'), num('review_window_end_s', UNITS.s, 'End of the fit window chosen by the lab'),
       str('review_model', 'Rate model chosen by the lab'), str('raw_model', 'Rate model the raw fit selected'),
       num('raw_slope_ppm_s', UNITS.ppmPerS, 'Initial slope of dry CO2, raw fit'), num('raw_flux_umol_m2_s', UNITS.flux, `${FLUX_NOTE}, raw fit`),
-      num('raw_r2', 'dimensionless', 'R² of the selected raw model'), str('review_fit_model', 'Rate model of the review fit'),
+      num('raw_r2', UNITS.none, 'R² of the selected raw model'), str('review_fit_model', 'Rate model of the review fit'),
       num('review_flux_umol_m2_s', UNITS.flux, `${FLUX_NOTE}, review fit`),
       num('flux_umol_m2_s', UNITS.flux, `${FLUX_NOTE}: the review fit's flux when reviewed, else the raw fit's`),
-      str('flux_basis', 'Where the flux takes the slope of a curved model: closure (t = 0, chamber closure) or settle_end (end of the settle time); a line has one slope'),
-      str('flags', 'QC flags separated by semicolons'), num('volume_cm3', UNITS.cm3, 'Total system volume'), num('area_cm2', UNITS.cm2, 'Soil area'),
+      oneOf('flux_basis', ['closure', 'settle_end'], 'Where the flux takes the slope of a curved model: closure (t = 0, chamber closure) or settle_end (end of the settle time); a line has one slope'),
+      num('min_detectable_flux_umol_m2_s', UNITS.flux, 'Minimum detectable flux of the fit behind flux_umol_m2_s: precision_ppm / fit window length × flux per slope'),
+      num('precision_ppm', UNITS.ppm, 'Analyzer precision used for the detection limit (1 µmol mol-1 when the analyzer has none)'),
+      num('fit_first_t_s', UNITS.s, 'First sample time used by the fit behind flux_umol_m2_s'), num('fit_last_t_s', UNITS.s, 'Last sample time used by that fit'),
+      count('fit_n', 'Samples used by that fit'),
+      num('flux_per_slope', UNITS.none, 'p·V·(1 − χw)/(R·T·A) × 10 of that fit: µmol m-2 s-1 of flux per µmol mol-1 s-1 of dry CO2 slope (p, T, χw of the first sample used)'),
+      str('flags', 'QC flags separated by semicolons; see the EML methods'), num('volume_cm3', UNITS.cm3, 'Total system volume'), num('area_cm2', UNITS.cm2, 'Soil area'),
       num('mean_offset_cm', UNITS.cm, 'Mean collar offset used for the volume'),
       { name: 'pressure_is_default', type: 'boolean', description: 'Pressure taken from site elevation (US Standard Atmosphere 1976), not measured' },
       ref('profile_id', 'Chamber profile version the volume came from (the closure\'s own chamber, its version valid that day)'),
@@ -114,20 +128,20 @@ export const TABLES: TableDef[] = [
   { name: 'visit_means', title: 'Visit means', description: 'Mean flux of the selected closures of each visit, with soil temperature and moisture.', primaryKey: ['visit_id'],
     foreignKeys: [fk('visit_id', 'visits')], fields: [
       ref('visit_id', 'Visit'), ref('collar_id', 'Collar'), ref('plot_id', 'Plot'), str('cell', 'Treatment cell: plot treatment|collar treatment'),
-      ref('campaign_id', 'Campaign'), int('n_closures', 'Closures averaged'), num('flux_umol_m2_s', UNITS.flux, FLUX_NOTE),
-      num('soil_temp_c', UNITS.degC, 'Soil temperature at the response depth'), num('vwc_pct', UNITS.percent, 'Volumetric water content'),
+      ref('campaign_id', 'Campaign'), count('n_closures', 'Closures averaged'), num('flux_umol_m2_s', UNITS.flux, FLUX_NOTE),
+      num('soil_temp_c', UNITS.degC, 'Soil temperature at the response depth'), num('vwc_pct', UNITS.percent, 'Volumetric water content', { minimum: 0, maximum: 100 }),
     ] },
   { name: 'plot_means', title: 'Plot means', description: 'Per campaign and treatment cell: the mean over collars of their visit means (the replicate).',
     fields: [
       ref('plot_id', 'Plot'), str('plot_code', 'Plot code'), str('block_code', 'Block code'), str('cell', 'Treatment cell'), ref('campaign_id', 'Campaign'),
-      int('n_collars', 'Collars'), int('n_visits', 'Visits'), int('n_closures', 'Closures'), num('flux_umol_m2_s', UNITS.flux, FLUX_NOTE),
-      num('soil_temp_c', UNITS.degC, 'Soil temperature'), num('vwc_pct', UNITS.percent, 'Volumetric water content'),
+      count('n_collars', 'Collars'), count('n_visits', 'Visits'), count('n_closures', 'Closures'), num('flux_umol_m2_s', UNITS.flux, FLUX_NOTE),
+      num('soil_temp_c', UNITS.degC, 'Soil temperature'), num('vwc_pct', UNITS.percent, 'Volumetric water content', { minimum: 0, maximum: 100 }),
     ] },
   { name: 'treatment_means', title: 'Treatment means', description: 'Per campaign: treatment cell mean ± SE over plots, with the block-adjusted SE.',
     primaryKey: ['cell', 'campaign_id'], fields: [
-      str('cell', 'Treatment cell'), str('cell_label', 'Treatment cell as shown'), str('level', 'plot or collar'), ref('campaign_id', 'Campaign'),
-      str('campaign_name', 'Campaign name'), int('n_plots', 'Plots (the replicates)'), int('n_collars', 'Collars'), int('n_visits', 'Visits'),
-      int('n_closures', 'Closures'), num('mean_flux_umol_m2_s', UNITS.flux, `Mean ${FLUX_NOTE} over plots`),
+      str('cell', 'Treatment cell'), str('cell_label', 'Treatment cell as shown'), oneOf('level', ['plot', 'collar'], 'plot or collar'), ref('campaign_id', 'Campaign'),
+      str('campaign_name', 'Campaign name'), count('n_plots', 'Plots (the replicates)'), count('n_collars', 'Collars'), count('n_visits', 'Visits'),
+      count('n_closures', 'Closures'), num('mean_flux_umol_m2_s', UNITS.flux, `Mean ${FLUX_NOTE} over plots`),
       num('sd_flux_umol_m2_s', UNITS.flux, 'Standard deviation over plots'), num('se_flux_umol_m2_s', UNITS.flux, 'Standard error over plots'),
       num('se_block_flux_umol_m2_s', UNITS.flux, 'SE of the least-squares mean in the additive model: cell + block for plot-level cells, cell + plot for collar-level cells'),
       num('soil_temp_c', UNITS.degC, 'Mean soil temperature'), num('vwc_pct', UNITS.percent, 'Mean volumetric water content'),
@@ -136,13 +150,13 @@ export const TABLES: TableDef[] = [
     description: 'Q10 and Lloyd & Taylor (1994) fits per treatment cell on plot × campaign × round means (the experimental unit), on the flux scale '
       + '(non-linear least squares) and on the log scale (least squares on ln flux), with 95 % CIs from t(n − 2), n = units.',
     fields: [
-      str('cell', 'Treatment cell'), str('model', 'q10, lloyd-taylor, q10-log or lloyd-taylor-log'), { name: 'fitted', type: 'boolean', description: 'The model was fitted' },
-      str('refusal', 'Why the model was not fitted'), int('n', 'Plot × campaign × round means used'), int('n_plots', 'Plots behind them (independent units)'),
+      str('cell', 'Treatment cell'), oneOf('model', ['q10', 'lloyd-taylor', 'q10-log', 'lloyd-taylor-log'], 'q10, lloyd-taylor, q10-log or lloyd-taylor-log'), { name: 'fitted', type: 'boolean', description: 'The model was fitted' },
+      str('refusal', 'Why the model was not fitted'), count('n', 'Plot × campaign × round means used'), count('n_plots', 'Plots behind them (independent units)'),
       num('temp_span_c', UNITS.degC, 'Temperature span'),
       num('r10_umol_m2_s', UNITS.flux, 'Flux at 10 °C'), num('r10_ci_low', UNITS.flux, '95 % CI'), num('r10_ci_high', UNITS.flux, '95 % CI'),
-      num('q10', 'dimensionless', 'Q10'), num('q10_ci_low', 'dimensionless', '95 % CI'), num('q10_ci_high', 'dimensionless', '95 % CI'),
+      num('q10', UNITS.none, 'Q10'), num('q10_ci_low', UNITS.none, '95 % CI'), num('q10_ci_high', UNITS.none, '95 % CI'),
       num('e0_k', UNITS.kelvin, 'Lloyd & Taylor E0 (T0 = 227.13 K fixed)'), num('e0_ci_low', UNITS.kelvin, '95 % CI'), num('e0_ci_high', UNITS.kelvin, '95 % CI'),
-      num('rmse', 'dimensionless', 'Root-mean-square residual: µmol m-2 s-1 on the flux scale, ln units on the log scale'),
+      num('rmse', UNITS.none, 'Root-mean-square residual: µmol m-2 s-1 on the flux scale, ln units on the log scale'),
       str('warnings', 'Warnings separated by semicolons'),
     ] },
   { name: 'seasonal_totals', title: 'Seasonal totals',
@@ -155,8 +169,8 @@ export const TABLES: TableDef[] = [
       str('status', 'complete, partial (plots with too little signal left out), incomplete (missing days: no total) or too little signal'),
       num('total_g_c_m2', UNITS.total, 'Carbon released as CO2, g C m-2 (C = 12.011 g mol-1); empty unless every day has a value'),
       num('ci_low_g_c_m2', UNITS.total, '95 % Student t interval over plot totals (cell rows)'), num('ci_high_g_c_m2', UNITS.total, '95 % Student t interval over plot totals'),
-      int('days_logged', 'Plot-days from logged temperature through the fitted response'), int('days_interpolated', 'Plot-days gap-filled by interpolation between campaigns'),
-      int('days_missing', 'Plot-days with neither'), int('days_outside_range', 'Plot-days whose logged temperature left the fitted range (not taken from the response)'),
+      count('days_logged', 'Plot-days from logged temperature through the fitted response'), count('days_interpolated', 'Plot-days gap-filled by interpolation between campaigns'),
+      count('days_missing', 'Plot-days with neither'), count('days_outside_range', 'Plot-days whose logged temperature left the fitted range (not taken from the response)'),
       num('log_depth_cm', UNITS.cm, 'Depth of the temperature log used (plot rows)'), num('response_depth_cm', UNITS.cm, 'Depth of the probe temperatures the response was fitted on'),
       str('flags', 'Reasons to read the total with care, separated by semicolons'),
     ] },

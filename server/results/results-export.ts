@@ -1,13 +1,15 @@
 import { createHash } from 'node:crypto';
 import type { DataSource } from 'typeorm';
-import { engineVersion, RESPONSE_LIMITS, SELECTION_MARGIN } from '../../shared/flux';
+import { engineVersion, QC_FLAGS, QC_THRESHOLDS, RESPONSE_LIMITS, SELECTION_MARGIN } from '../../shared/flux';
+import { dataLicence, type DataLicence } from '../../shared/results/data-licences';
+import { PROBE_FLAGS, PROBE_RANGES } from '../../shared/model/probe-plausibility';
 import { defineJob } from '../jobs/job-registry';
 import { csvLine, type CsvValue } from '../../shared/csv/csv-cell';
 import { CALIBRATION_METHOD, calibrationRows } from './calibration-rows';
 import { dataPackage, type Provenance } from './data-package';
 import { emlDocument } from './eml-document';
 import * as rows from './export-rows';
-import { TABLES, tablePath } from './export-schema';
+import { TABLES, tablePath, type FieldDef } from './export-schema';
 import type { ClosureSelection } from './results-data';
 import { SEASONAL_METHOD, seasonalSummary, siteResults, TOTAL_INTERVAL_METHOD } from './results-service';
 import type { ResponseModelName } from './temperature-responses';
@@ -17,6 +19,8 @@ export const EXPORT_JOB = 'results-export';
 
 export interface ExportRequest {
   siteId: string; selection: ClosureSelection; model: ResponseModelName; userId: string;
+  /** SPDX id of the data licence (shared/results/data-licences.ts). */
+  license: string;
 }
 
 export interface ExportResult { exportId: string; fileName: string; sizeBytes: number; sha256: string; rows: Record<string, number> }
@@ -29,6 +33,8 @@ interface JobHooks { jobId: string; progress?: (done: number, total: number | nu
  * so a season of 20 000 closures streams through and the Bench can show how far the job got.
  */
 export async function runResultsExport(ds: DataSource, req: ExportRequest, hooks: JobHooks): Promise<ExportResult> {
+  const licence = dataLicence(req.license);
+  if (!licence) throw new Error(`The export needs a data licence (SPDX id); got ${String(req.license)}`);
   const [user] = await ds.query(`SELECT id, display_name, email FROM app_user WHERE id = $1`, [req.userId]);
   const results = await siteResults(ds, req.siteId, req.selection);
   const seasonal = await seasonalSummary(ds, req.siteId, req.selection, { model: req.model });
@@ -69,7 +75,7 @@ export async function runResultsExport(ds: DataSource, req: ExportRequest, hooks
       yield head;
       for await (const r of sources[t.name]()) {
         if (r.length !== t.fields.length) throw new Error(`${t.name}: a row has ${r.length} values for ${t.fields.length} fields`);
-        const line = csvLine(r as CsvValue[]);
+        const line = csvLine((r as CsvValue[]).map((v, i) => tidy(v, t.fields[i])));
         count++;
         size += Buffer.byteLength(line);
         yield line;
@@ -86,6 +92,7 @@ export async function runResultsExport(ds: DataSource, req: ExportRequest, hooks
     engineVersion, generatedAt: now.toISOString(), jobId: hooks.jobId,
     generatedBy: { id: user?.id ?? req.userId, name: user?.display_name ?? 'unknown', email: user?.email ?? '' },
     site: { id: site.id, name: site.name, timezone: site.timezone, tempDepthCm: site.tempDepthCm },
+    license: licence,
     parameters: {
       closureSelection: req.selection, responseModelForTotals: req.model, totalInterval: TOTAL_INTERVAL_METHOD,
       seasonFrom: seasonal.fromDay, seasonTo: seasonal.toDay, responseLimits: RESPONSE_LIMITS, lloydTaylorT0K: 227.13,
@@ -93,15 +100,13 @@ export async function runResultsExport(ds: DataSource, req: ExportRequest, hooks
     },
     counts: rowCounts,
   };
-  const methods = [
-    `Fluxes: ideal gas law on the rate of change of dry CO2 mole fraction, fitted to the samples after the settle time (linear, exponential after Kutzbach et al. 2007, or quadratic after Wagner et al. 1997; the exponential only when it saturates and its AICc (Hurvich & Tsai 1989) is lower by more than ${SELECTION_MARGIN}); curved models take the ${slopeBasis === 'closure' ? 'slope at chamber closure (t = 0)' : 'slope at the end of the settle time'} (site setting; column flux_basis names the basis of each closure's flux). Soil area is the collar's inside area. The lab reviews each closure.`,
-    `Aggregation: ${String(provenance.parameters['aggregation'])}; closures: ${req.selection}. Least-squares additive models per stratum: plot-level treatments with block as a factor; collar-level treatments (split plot) paired by plot.`,
-    'Temperature response per treatment cell on plot × campaign × round means (the experimental unit): Q10 and Lloyd & Taylor (1994) with T0 = 227.13 K fixed, on the flux scale and on the log scale; 95 % CIs from t(n − 2) with n = units.',
-    `Seasonal totals (${seasonal.fromDay} to ${seasonal.toDay}, ${req.model}): ${SEASONAL_METHOD}`,
-    CALIBRATION_METHOD,
-  ];
+  const methods = exportMethods(slopeBasis, req, seasonal.fromDay, seasonal.toDay, String(provenance.parameters['aggregation']));
+  const span = (await ds.query(`SELECT to_char(min(d) AT TIME ZONE 'UTC', 'YYYY-MM-DD') AS from_day, to_char(max(d) AT TIME ZONE 'UTC', 'YYYY-MM-DD') AS to_day
+      FROM (SELECT started_at AS d FROM closure WHERE site_id = $1 AND NOT deleted
+            UNION ALL SELECT arrived_at FROM visit WHERE site_id = $1 AND NOT deleted
+            UNION ALL SELECT taken_at FROM probe_reading WHERE site_id = $1 AND NOT deleted) x`, [site.id]))[0] as { from_day: string | null; to_day: string | null };
   const cov = coverage(await ds.query(`SELECT min(latitude) s, max(latitude) n, min(longitude) w, max(longitude) e FROM collar WHERE site_id = $1 AND NOT deleted`, [site.id]),
-    seasonal.fromDay, seasonal.toDay);
+    span.from_day ?? seasonal.fromDay, span.to_day ?? seasonal.toDay);
   await zip.add('provenance.json', JSON.stringify(provenance, null, 2));
   await zip.add('metadata.eml.xml', emlDocument(provenance, cov, rowCounts, bytes, methods));
   await zip.add('datapackage.json', JSON.stringify(dataPackage(provenance, rowCounts, bytes), null, 2));
@@ -112,6 +117,47 @@ export async function runResultsExport(ds: DataSource, req: ExportRequest, hooks
     ON CONFLICT (id) DO UPDATE SET file_name = EXCLUDED.file_name, size_bytes = EXCLUDED.size_bytes, sha256 = EXCLUDED.sha256, bytes = EXCLUDED.bytes, created_at = now()`,
     [hooks.jobId, site.id, req.userId, fileName, file.length, sha256, file]);
   return { exportId: hooks.jobId, fileName, sizeBytes: file.length, sha256, rows: rowCounts };
+}
+
+/** A number as the precision it carries: the field's decimals, else 12 significant digits (drops binary float noise such as 0.09999999999999998). */
+function tidy(v: CsvValue, f: FieldDef): CsvValue {
+  if (typeof v !== 'number' || !Number.isFinite(v) || f.type !== 'number') return v;
+  const r = f.decimals !== undefined ? Number(v.toFixed(f.decimals)) : Number(v.toPrecision(12));
+  return Object.is(r, -0) ? 0 : r;
+}
+
+/** The EML methods: enough for a reader to recompute every flux and total from the package alone. */
+function exportMethods(slopeBasis: string, req: ExportRequest, fromDay: string, toDay: string, aggregation: string): string[] {
+  const flags = Object.entries(QC_FLAGS).map(([k, v]) => `${k}: ${v}`).join(' ');
+  const probe = Object.entries(PROBE_FLAGS).map(([k, v]) => `${k}: ${v}`).join(' ');
+  return [
+    'Samples (closure_series.csv): CO2 as measured (wet), H2O, chamber air temperature and pressure per sample, t_s from chamber closure. '
+      + 'Water-vapour (dilution) correction per sample: dry CO2 χc = CO2 / (1 − χw), χw = H2O [mmol mol-1] / 1000 (Webb, Pearman & Leuning 1980, Q. J. R. Meteorol. Soc. 106:85–100). '
+      + 'The fit uses the samples from the settle time (closures.settle_s, or review_settle_s when the lab set one) to the end of the closure '
+      + '(or review_window_end_s); samples with a missing value are dropped (flag gaps-dropped).',
+    'Flux = slope × p·V·(1 − χw)/(R·T·A) × 10, in µmol m-2 s-1 with slope in µmol mol-1 s-1 of dry CO2, p in kPa, V in cm3 (closures.volume_cm3 = chamber volume + loop volume '
+      + '+ chamber footprint area × mean collar offset, mean_offset_cm), A in cm2 (closures.area_cm2, the collar\'s inside area), T in K (chamber °C + 273.15), R = 8.31446261815324 J mol-1 K-1 (Avogadro constant × Boltzmann constant, SI 2019); '
+      + 'p, T and χw are those of the first sample used by the fit (closures.fit_first_t_s). closures.flux_per_slope gives the factor. '
+      + 'Pressure defaults to the US Standard Atmosphere 1976 at site elevation when not measured (pressure_is_default, flag default-pressure).',
+    `Rate models fitted by least squares to dry CO2 against time since closure: linear; exponential χ = p1 + (p2 − p1)·exp(p3·t) (Kutzbach et al. 2007, Biogeosciences 4:1005–1025); `
+      + `quadratic (Wagner et al. 1997, Soil Biol. Biochem. 29:1329). Model choice: the exponential only when it saturates (p3 < 0) and its AICc (Hurvich & Tsai 1989, Biometrika 76:297) is lower `
+      + `than the linear one's by more than ${SELECTION_MARGIN}; otherwise linear, unless the lab chose a model (review_model). Slope basis: curved models take the `
+      + `${slopeBasis === 'closure' ? 'slope at chamber closure (t = 0)' : 'slope at the end of the settle time'} (site setting); closures.flux_basis names the basis of each flux `
+      + '(closure: t = 0; settle_end: end of the settle time); a line has one slope. raw_* columns are the automatic fit, review_* the lab\'s refit; flux_umol_m2_s is the review flux when reviewed, else the raw one.',
+    `Detection limit (Christiansen et al. 2015, Agric. For. Meteorol. 211–212:48–57, after Parkin et al. 2012, J. Environ. Qual. 41:705–715): minimum detectable slope = analyzer precision `
+      + `(closures.precision_ppm; ${QC_THRESHOLDS.defaultPrecisionPpm} µmol mol-1 when the analyzer has none) / fit window length (fit_last_t_s − fit_first_t_s); `
+      + 'min_detectable_flux_umol_m2_s = that slope × flux_per_slope. Fluxes below it are flagged flat and kept, as are negative fluxes.',
+    `QC flags of a closure (closures.flags; none changes a value): ${flags}`,
+    `Probe readings: soil temperature at the site's response depth and soil moisture; moisture_kind says whether the probe gave a VWC (moisture_vwc_reading_pct) `
+      + `or an apparent permittivity (moisture_permittivity, converted by Topp et al. 1980, Water Resour. Res. 16:574–582, unless the site set its own polynomial). `
+      + `Plausible-range flags (probe_readings.flags; common-practice range tests, readings kept): ${probe} Ranges: soil temperature ${PROBE_RANGES.soilTempC.min} … ${PROBE_RANGES.soilTempC.max} °C `
+      + `from ${PROBE_RANGES.soilTempC.fromDepthCm} cm down, VWC ${PROBE_RANGES.vwcPct.min} … ${PROBE_RANGES.vwcPct.max} %, permittivity ${PROBE_RANGES.permittivity.min} … ${PROBE_RANGES.permittivity.max}.`,
+    `Aggregation: ${aggregation}; closures: ${req.selection}. Least-squares additive models per stratum: plot-level treatments with block as a factor; collar-level treatments (split plot) paired by plot.`,
+    'Temperature response per treatment cell on plot × campaign × round means (the experimental unit): Q10 and Lloyd & Taylor (1994, Funct. Ecol. 8:315–323) with T0 = 227.13 K fixed, on the flux scale and on the log scale; 95 % CIs from t(n − 2) with n = units.',
+    `Seasonal totals (seasonal_totals.csv, ${fromDay} to ${toDay}, response model ${req.model}): ${SEASONAL_METHOD}`,
+    CALIBRATION_METHOD,
+    'Numbers are written to the precision they carry (12 significant digits at most; coordinates to 7 decimals, probe readings to 2); empty cells are missing values.',
+  ];
 }
 
 function coverage(r: { s: number | null; n: number | null; w: number | null; e: number | null }[], fromDay: string, toDay: string) {

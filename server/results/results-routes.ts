@@ -1,7 +1,8 @@
 import type { DataSource } from 'typeorm';
 import { z } from 'zod';
 import type { Role } from '../../shared/auth/roles';
-import { notFound } from '../core/errors';
+import { AppError, notFound } from '../core/errors';
+import { DATA_LICENCE_IDS } from '../../shared/results/data-licences';
 import type { RouteRegistry } from '../core/route-registry';
 import { parse } from '../core/validate';
 import { enqueueJob, jobProgress } from '../jobs/job-store';
@@ -23,6 +24,8 @@ const seasonalQuery = base.extend({
   from: day.optional(),
   to: day.optional(),
 });
+const LICENCE_HELP = `Choose a licence for the data package by its SPDX id: one of ${DATA_LICENCE_IDS.join(', ')}`;
+const exportRequest = seasonalQuery.extend({ license: z.enum(DATA_LICENCE_IDS, { message: LICENCE_HELP }) });
 const idParams = z.object({ id: z.string().uuid('Export ids are UUIDs') });
 
 export function registerResultsRoutes(r: RouteRegistry, ds: DataSource): void {
@@ -41,9 +44,14 @@ export function registerResultsRoutes(r: RouteRegistry, ds: DataSource): void {
     return seasonalSummary(ds, q.siteId, q.closures, q);
   });
   r.add('post', '/api/results/exports', RESULTS_ROLES, async (req, res) => {
-    const q = parse(seasonalQuery, req.body ?? {}, 'Some export settings are not valid');
+    const body = (req.body ?? {}) as { license?: unknown };
+    // A package without a licence is one a repository cannot publish and a stranger cannot reuse.
+    if (typeof body.license !== 'string' || !DATA_LICENCE_IDS.includes(body.license)) {
+      throw new AppError(400, LICENCE_HELP, [{ path: 'license', message: body.license === undefined ? 'No licence was chosen' : `${String(body.license)} is not one of the listed licences` }]);
+    }
+    const q = parse(exportRequest, body, 'Some export settings are not valid');
     await loadSite(ds, q.siteId);
-    const data: ExportRequest = { siteId: q.siteId, selection: q.closures, model: q.model, userId: req.user!.id };
+    const data: ExportRequest = { siteId: q.siteId, selection: q.closures, model: q.model, license: q.license, userId: req.user!.id };
     const jobId = await ds.transaction((em) => enqueueJob(em, EXPORT_JOB, { ...data }, { siteId: q.siteId, createdBy: req.user!.id }));
     res.status(202);
     return { jobId };

@@ -1,0 +1,142 @@
+import { execFileSync } from 'node:child_process';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import Ajv from 'ajv';
+import addFormats from 'ajv-formats';
+import Papa from 'papaparse';
+import { runResultsExport, type ExportRequest } from '../../server/results/results-export';
+import { readZip } from '../../server/results/zip-archive';
+import { DEMO_SITE_ID } from '../support/fixtures';
+import { checkTable, type Row, type TableResource } from '../support/table-schema-check';
+import { demoEmail, signIn, startTestApp, type Session, type TestApp } from '../support/test-app';
+
+// The official EML 2.2.0 XML Schema and Frictionless v1.0 / v2.0 profiles, vendored (test/fixtures/standards/README.md).
+const STANDARDS = join(__dirname, '../fixtures/standards');
+const profile = (v: string, name: string) => JSON.parse(readFileSync(join(STANDARDS, 'datapackage', v, `${name}.json`), 'utf8'));
+
+/** xmllint's verdict on a file against a schema (Debian libxml2-utils): '' when valid, else its messages. */
+function xmllint(schema: string, file: string): string {
+  try { execFileSync('xmllint', ['--noout', '--nonet', '--schema', schema, file], { stdio: 'pipe' }); return ''; } catch (e) { return String((e as { stderr: Buffer }).stderr); }
+}
+
+function parseCsv(text: string): { header: string[]; rows: Row[] } {
+  const parsed = Papa.parse<Row>(text, { header: true, skipEmptyLines: true });
+  return { header: parsed.meta.fields ?? [], rows: parsed.data };
+}
+
+function checkPackage(pkg: { resources: (TableResource & { path: string; format: string })[] }, files: Map<string, Buffer>): string[] {
+  const csvs = pkg.resources.filter((r) => r.format === 'csv');
+  const parsed = new Map(csvs.map((r) => [r.name, parseCsv(files.get(r.path)!.toString('utf8'))]));
+  const tables = new Map([...parsed].map(([k, v]) => [k, v.rows]));
+  return csvs.flatMap((r) => checkTable(r, parsed.get(r.name)!.header, parsed.get(r.name)!.rows, tables));
+}
+
+describe('data package against the official standards: EML 2.2.0 XSD, Frictionless v1/v2 profiles, table schemas', () => {
+  let t: TestApp;
+  let lab: Session;
+  let files: Map<string, Buffer>;
+  let dir: string;
+  let pkg: any;
+
+  beforeAll(async () => {
+    t = await startTestApp();
+    lab = await signIn(t.app, demoEmail('lab'));
+    const asked = await lab.post('/api/results/exports', { siteId: DEMO_SITE_ID, closures: 'not-rejected', license: 'CC-BY-4.0' });
+    expect(asked.status).toBe(202);
+    const [outbox] = await t.ds.query(`SELECT data FROM job_outbox WHERE id = $1`, [asked.body.jobId]);
+    await runResultsExport(t.ds, outbox.data as ExportRequest, { jobId: asked.body.jobId });
+    const [f] = await t.ds.query(`SELECT bytes FROM result_export WHERE id = $1`, [asked.body.jobId]);
+    files = readZip(f.bytes as Buffer);
+    pkg = JSON.parse(files.get('datapackage.json')!.toString('utf8'));
+    dir = mkdtempSync(join(tmpdir(), 'fluxwalk-package-'));
+    writeFileSync(join(dir, 'metadata.eml.xml'), files.get('metadata.eml.xml')!);
+  });
+  afterAll(() => t.close());
+
+  it('when no licence or an unknown one is asked for, then the export is refused with a 400 that lists the licences', async () => {
+    for (const body of [{ siteId: DEMO_SITE_ID }, { siteId: DEMO_SITE_ID, license: 'WTFPL' }]) {
+      const res = await lab.post('/api/results/exports', body);
+      expect(res.status).toBe(400);
+      expect(res.body.error.message).toMatch(/^Choose a licence for the data package by its SPDX id: one of CC0-1.0, CC-BY-4.0/);
+    }
+  });
+
+  it('when the EML is checked with xmllint against eml.xsd, then it validates; its custom units validate against stmml.xsd', () => {
+    const eml = join(dir, 'metadata.eml.xml');
+    expect(xmllint(join(STANDARDS, 'eml-2.2.0/eml.xsd'), eml)).toBe('');
+    const text = files.get('metadata.eml.xml')!.toString('utf8');
+    const unitList = text.match(/<stmml:unitList>[\s\S]*<\/stmml:unitList>/)![0]
+      .replace('<stmml:unitList>', '<stmml:unitList xmlns:stmml="http://www.xml-cml.org/schema/stmml-1.2">');
+    writeFileSync(join(dir, 'units.xml'), `<?xml version="1.0" encoding="UTF-8"?>\n${unitList}\n`);
+    expect(xmllint(join(STANDARDS, 'eml-2.2.0/stmml.xsd'), join(dir, 'units.xml'))).toBe('');
+    expect(text).toContain('<licensed><licenseName>Creative Commons Attribution 4.0 International</licenseName>');
+    expect(text).toContain('<identifier>CC-BY-4.0</identifier>');
+  });
+
+  it('when the units are read, then dictionary names are used where they exist and every custom unit is defined completely', () => {
+    const text = files.get('metadata.eml.xml')!.toString('utf8');
+    const dictionary = readFileSync(join(STANDARDS, 'eml-2.2.0/eml-unitDictionary.xml'), 'utf8');
+    const standardIds = new Set([...dictionary.matchAll(/<unit id="([^"]+)"/g)].map((m) => m[1]));
+    const custom = [...text.matchAll(/<stmml:unit ([^>]*)>/g)].map((m) => m[1]);
+    expect(custom.length).toBeGreaterThan(0);
+    for (const attrs of custom) {
+      const id = attrs.match(/id="([^"]+)"/)![1];
+      expect([id, standardIds.has(id)]).toEqual([id, false]);
+      for (const a of ['unitType', 'parentSI', 'multiplierToSI']) expect([id, new RegExp(`${a}="[^"]+"`).test(attrs)]).toEqual([id, true]);
+      expect(standardIds.has(attrs.match(/parentSI="([^"]+)"/)![1])).toBe(true);
+    }
+    for (const m of text.matchAll(/<standardUnit>([^<]+)<\/standardUnit>/g)) expect(standardIds.has(m[1])).toBe(true);
+    expect(text).toMatch(/<attributeName>total_g_c_m2<\/attributeName>.*?<customUnit>gramCarbonPerMeterSquared<\/customUnit>/);
+    expect(text).toMatch(/<attributeName>moisture_vwc_reading_pct<\/attributeName>.*?<standardUnit>percent<\/standardUnit>/);
+    expect(text).toMatch(/<attributeName>moisture_permittivity<\/attributeName>.*?<standardUnit>dimensionless<\/standardUnit>/);
+  });
+
+  it('when datapackage.json, every resource, table schema and dialect is checked with ajv, then all validate against Frictionless v1.0 and v2.0', () => {
+    for (const v of ['1.0', '2.0']) {
+      const ajv = new Ajv({ strict: false, allErrors: true });
+      addFormats(ajv);
+      // "textarea" is an editor hint of the Frictionless profiles, not a JSON Schema format: any string.
+      ajv.addFormat('textarea', true);
+      const check = (name: string, data: unknown) => {
+        const validate = ajv.compile(profile(v, name));
+        return validate(data) ? [] : [`${v} ${name}: ${ajv.errorsText(validate.errors)}`];
+      };
+      const problems = [...check('datapackage', pkg), ...pkg.resources.flatMap((r: any) => [...check('dataresource', r),
+        ...(r.schema ? check('tableschema', r.schema) : []), ...(r.dialect ? check('tabledialect', r.dialect) : [])])];
+      expect(problems).toEqual([]);
+    }
+    expect(pkg.licenses).toEqual([{ name: 'CC-BY-4.0', path: 'https://creativecommons.org/licenses/by/4.0/', title: 'Creative Commons Attribution 4.0 International' }]);
+  });
+
+  it('when every CSV is checked against its table schema, then types, required, enums, ranges and keys hold; a corrupted copy fails', () => {
+    expect(checkPackage(pkg, files)).toEqual([]);
+    const broken = new Map(files);
+    const closures = files.get('data/closures.csv')!.toString('utf8').split('\n');
+    const cells = closures[1].split(',');
+    const state = pkg.resources.find((r: any) => r.name === 'closures').schema.fields.findIndex((f: any) => f.name === 'review_state');
+    cells[state] = 'maybe';
+    closures[1] = cells.join(',');
+    closures.push(closures[2]);
+    broken.set('data/closures.csv', Buffer.from(closures.join('\n')));
+    const problems = checkPackage(pkg, broken);
+    expect(problems).toEqual(expect.arrayContaining([expect.stringMatching(/^closures row 1: review_state = "maybe" is not one of/),
+      'closures: primary key closure_id is not unique']));
+    const eml = files.get('metadata.eml.xml')!.toString('utf8').replace(/<title>[^<]*<\/title>/, '');
+    writeFileSync(join(dir, 'broken.eml.xml'), eml);
+    expect(xmllint(join(STANDARDS, 'eml-2.2.0/eml.xsd'), join(dir, 'broken.eml.xml'))).toMatch(/fails to validate/);
+  });
+
+  it('when numbers, coverage and probe flags are read, then numbers carry no float noise, coverage is the data span, implausible readings are flagged', async () => {
+    const noise = [...files].filter(([k]) => k.endsWith('.csv')).flatMap(([, b]) => b.toString('utf8').match(/\d\.\d*(0{6,}|9{6,})\d/g) ?? []);
+    expect(noise).toEqual([]);
+    const [span] = await t.ds.query(`SELECT to_char(min(started_at) AT TIME ZONE 'UTC', 'YYYY-MM-DD') AS f, to_char(max(started_at) AT TIME ZONE 'UTC', 'YYYY-MM-DD') AS l
+      FROM closure WHERE site_id = $1 AND NOT deleted`, [DEMO_SITE_ID]);
+    const text = files.get('metadata.eml.xml')!.toString('utf8');
+    const [, begin, end] = text.match(/<beginDate><calendarDate>([^<]+)<\/calendarDate><\/beginDate><endDate><calendarDate>([^<]+)</)!;
+    expect(begin <= span.f && end >= span.l).toBe(true);
+    for (const words of ['1 − χw', 'first sample used', 'AICc', 'flux_basis', 'minimum detectable slope', 'flat:', 'interpolation', 'Student t interval', 'Webb, Pearman &amp; Leuning 1980']) {
+      expect([words, text.includes(words)]).toEqual([words, true]);
+    }
+  });
+});
