@@ -38,6 +38,7 @@ describe('data package against the official standards: EML 2.2.0 XSD, Frictionle
   let files: Map<string, Buffer>;
   let dir: string;
   let pkg: any;
+  let probe: { id: string; soil_temps: unknown; moisture_raw: number | null; moisture_kind: string | null };
 
   beforeAll(async () => {
     t = await startTestApp();
@@ -45,7 +46,15 @@ describe('data package against the official standards: EML 2.2.0 XSD, Frictionle
     const asked = await lab.post('/api/results/exports', { siteId: DEMO_SITE_ID, closures: 'not-rejected', license: 'CC-BY-4.0' });
     expect(asked.status).toBe(202);
     const [outbox] = await t.ds.query(`SELECT data FROM job_outbox WHERE id = $1`, [asked.body.jobId]);
-    await runResultsExport(t.ds, outbox.data as ExportRequest, { jobId: asked.body.jobId });
+    // One probe reading made implausible (65 °C at 5 cm, VWC 99 %) for the export only, then put back.
+    [probe] = await t.ds.query(`SELECT id, soil_temps, moisture_raw, moisture_kind FROM probe_reading WHERE site_id = $1 AND NOT deleted ORDER BY id LIMIT 1`, [DEMO_SITE_ID]);
+    await t.ds.query(`UPDATE probe_reading SET soil_temps = $2, moisture_raw = 99, moisture_kind = 'vwc' WHERE id = $1`, [probe.id, JSON.stringify([{ depthCm: 5, tempC: 65 }])]);
+    try {
+      await runResultsExport(t.ds, outbox.data as ExportRequest, { jobId: asked.body.jobId });
+    } finally {
+      await t.ds.query(`UPDATE probe_reading SET soil_temps = $2, moisture_raw = $3, moisture_kind = $4 WHERE id = $1`,
+        [probe.id, JSON.stringify(probe.soil_temps), probe.moisture_raw, probe.moisture_kind]);
+    }
     const [f] = await t.ds.query(`SELECT bytes FROM result_export WHERE id = $1`, [asked.body.jobId]);
     files = readZip(f.bytes as Buffer);
     pkg = JSON.parse(files.get('datapackage.json')!.toString('utf8'));
@@ -135,6 +144,9 @@ describe('data package against the official standards: EML 2.2.0 XSD, Frictionle
     const text = files.get('metadata.eml.xml')!.toString('utf8');
     const [, begin, end] = text.match(/<beginDate><calendarDate>([^<]+)<\/calendarDate><\/beginDate><endDate><calendarDate>([^<]+)</)!;
     expect(begin <= span.f && end >= span.l).toBe(true);
+    const probes = parseCsv(files.get('data/probe_readings.csv')!.toString('utf8')).rows;
+    expect(probes.find((r) => r.probe_reading_id === probe.id)).toMatchObject({ moisture_kind: 'vwc', moisture_vwc_reading_pct: '99', flags: 'soil-temp-implausible;vwc-implausible' });
+    expect(probes.filter((r) => r.flags !== '').map((r) => r.probe_reading_id)).toEqual([probe.id]);
     for (const words of ['1 − χw', 'first sample used', 'AICc', 'flux_basis', 'minimum detectable slope', 'flat:', 'interpolation', 'Student t interval', 'Webb, Pearman &amp; Leuning 1980']) {
       expect([words, text.includes(words)]).toEqual([words, true]);
     }
