@@ -73,6 +73,8 @@ describe('Bench results in Chromium', () => {
 
       // Data package: a background job with progress, then a download.
       await page.getByRole('tab', { name: 'Data package' }).click();
+      await page.getByRole('combobox', { name: 'Data licence' }).click();
+      await page.getByRole('option', { name: /^CC-BY-4\.0/ }).click();
       await page.getByRole('button', { name: 'Build data package' }).click();
       const link = page.getByTestId('export-download');
       await link.waitFor({ timeout: 120_000 });

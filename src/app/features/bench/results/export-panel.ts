@@ -1,5 +1,9 @@
 import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, OnDestroy, inject, input, signal } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatSelectModule } from '@angular/material/select';
+import { DATA_LICENCES } from '../../../../../shared/results/data-licences';
 import { serverMessage } from '../../../core/api/api-error';
 import { ResultsApi, type ClosureSelection, type ExportJob } from './results-api';
 
@@ -8,12 +12,19 @@ const POLL_MS = 1000;
 /** Starts the export job, shows its progress from the job API, and offers the zipped data package when it is done. */
 @Component({
   selector: 'fw-export-panel',
-  imports: [DecimalPipe],
+  imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatSelectModule],
   template: `
     <p>The data package holds one CSV per table (collars and events, visits, offset sets, probe readings, closures with raw and review
       results and flags, raw series, temperature logs, aggregates), <code>datapackage.json</code> with table schemas and units,
       EML 2.2 metadata and the provenance of the numbers.</p>
-    <button type="button" (click)="start()" [disabled]="running()">Build data package</button>
+    <mat-form-field appearance="outline">
+      <mat-label>Data licence</mat-label>
+      <mat-select [value]="licence()" (selectionChange)="licence.set($event.value)" required>
+        @for (l of licences; track l.id) { <mat-option [value]="l.id">{{ l.id }} — {{ l.title }}</mat-option> }
+      </mat-select>
+      <mat-hint>Written into datapackage.json and the EML; a repository needs one to publish the data.</mat-hint>
+    </mat-form-field>
+    <p><button mat-flat-button type="button" (click)="start()" [disabled]="running() || !licence()">Build data package</button></p>
     @if (job(); as j) {
       <p role="status" data-testid="export-status">{{ j.state }} · {{ j.done }} / {{ j.total ?? '?' }}
         @if (j.total) { <progress [value]="j.done" [max]="j.total"></progress> }</p>
@@ -31,6 +42,8 @@ export class ExportPanel implements OnDestroy {
   readonly siteId = input.required<string>();
   readonly selection = input.required<ClosureSelection>();
   readonly model = input.required<string>();
+  protected readonly licences = DATA_LICENCES;
+  protected readonly licence = signal<string>('');
   protected readonly job = signal<ExportJob | null>(null);
   protected readonly running = signal(false);
   protected readonly problem = signal('');
@@ -40,7 +53,7 @@ export class ExportPanel implements OnDestroy {
     this.running.set(true);
     this.problem.set('');
     try {
-      const { jobId } = await this.api.startExport(this.siteId(), this.selection(), this.model());
+      const { jobId } = await this.api.startExport(this.siteId(), this.selection(), this.model(), this.licence());
       await this.poll(jobId);
     } catch (err) {
       this.problem.set(serverMessage(err, 'The export could not be started'));

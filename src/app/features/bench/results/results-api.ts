@@ -60,8 +60,8 @@ export class ResultsApi {
   seasonal(siteId: string, closures: ClosureSelection, model: string): Promise<Seasonal> {
     return firstValueFrom(this.http.get<Seasonal>('/api/results/seasonal', { params: this.params({ siteId, closures, model }) }));
   }
-  startExport(siteId: string, closures: ClosureSelection, model: string): Promise<{ jobId: string }> {
-    return firstValueFrom(this.http.post<{ jobId: string }>('/api/results/exports', { siteId, closures, model }));
+  startExport(siteId: string, closures: ClosureSelection, model: string, license: string): Promise<{ jobId: string }> {
+    return firstValueFrom(this.http.post<{ jobId: string }>('/api/results/exports', { siteId, closures, model, license }));
   }
   exportJob(id: string): Promise<{ job: ExportJob }> {
     return firstValueFrom(this.http.get<{ job: ExportJob }>(`/api/results/exports/${id}`));
