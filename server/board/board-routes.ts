@@ -9,11 +9,13 @@ import { guardWrites } from '../records/write-guards';
 import { guardCampaignLock, setCampaignLock } from './campaign-lock';
 import { listDevices } from './devices';
 import { progressCsv } from './progress-csv';
+import { UTF8_BOM } from '../../shared/csv/csv-cell';
 import { fieldMembers } from './site-members';
 
 const campaignParams = z.object({ id: z.string().uuid('Campaign ids are UUIDs') });
 const siteParams = z.object({ siteId: z.string().uuid('Site ids are UUIDs') });
 const roundQuery = z.object({ round: z.coerce.number().int().min(1, 'Rounds count from 1').optional() });
+const csvQuery = roundQuery.extend({ bom: z.enum(['0', '1'], { message: 'bom is 0 or 1' }).optional() });
 const anomalyQuery = z.object({
   campaignId: z.string().uuid('Campaign ids are UUIDs').optional(),
   days: z.coerce.number().int().min(1).max(3650).optional(),
@@ -24,11 +26,12 @@ export function registerBoardRoutes(r: RouteRegistry, ds: DataSource): void {
   guardWrites('campaign', guardCampaignLock);
   r.add('get', '/api/campaigns/:id/progress.csv', ALL_ROLES, async (req, res) => {
     const { id } = parse(campaignParams, req.params);
-    const { round } = parse(roundQuery, req.query);
+    const { round, bom } = parse(csvQuery, req.query, 'Some CSV options are not valid');
     const csv = await progressCsv(ds, req.user!, id, round ?? null);
     res.setHeader('Content-Type', 'text/csv; charset=utf-8');
     res.setHeader('Content-Disposition', `attachment; filename="progress-${id.slice(0, 8)}${round ? `-round-${round}` : ''}.csv"`);
-    res.send(csv);
+    // ?bom=1: a UTF-8 byte order mark so a spreadsheet reads the file as UTF-8.
+    res.send(bom === '1' ? UTF8_BOM + csv : csv);
   });
 
   r.add('post', '/api/campaigns/:id/lock', ['lead'], async (req, res) => {

@@ -30,3 +30,10 @@ export function csvField(v: CsvValue): string {
 export function csvLine(values: readonly CsvValue[], newline: '\n' | '\r\n' = '\n'): string {
   return values.map(csvField).join(',') + newline;
 }
+
+/**
+ * UTF-8 byte order mark: put before a CSV a person downloads to open in a spreadsheet, which
+ * otherwise may read UTF-8 (µ, °, –, names with accents) in a legacy code page. Files for
+ * programs (the data package) stay without it, as RFC 4180 and the Table Dialect expect.
+ */
+export const UTF8_BOM = '\uFEFF';

@@ -55,6 +55,18 @@ describe('Board: planning, progress and closing a campaign', () => {
       [...Array(41).fill('due'), ...Array(5).fill('complete'), 'partial', 'skipped'].sort().join(' '));
   });
 
+  it('when the progress CSV is asked for a spreadsheet (?bom=1), then it starts with the UTF-8 byte order mark; without, it does not', async () => {
+    const bytes = async (q: string) => (await lead.get(`/api/campaigns/${CURRENT_CAMPAIGN_ID}/progress.csv${q}`).buffer(true)
+      .parse((res, cb) => { const c: Buffer[] = []; res.on('data', (x: Buffer) => c.push(x)); res.on('end', () => cb(null, Buffer.concat(c))); })).body as Buffer;
+    const withBom = await bytes('?round=1&bom=1');
+    const plain = await bytes('?round=1');
+    // EF BB BF is U+FEFF in UTF-8 (Unicode Standard, ch. 23.8).
+    expect([...withBom.subarray(0, 3)]).toEqual([0xef, 0xbb, 0xbf]);
+    expect(withBom.subarray(3).equals(plain)).toBe(true);
+    expect(plain[0]).toBe('c'.charCodeAt(0));
+    expect((await lead.get(`/api/campaigns/${CURRENT_CAMPAIGN_ID}/progress.csv?bom=yes`)).status).toBe(400);
+  });
+
   it('when the lead reorders a route and assigns crews, then both are saved; the crew user gets 403 for each', async () => {
     const collars = west.collarIds.slice(0, 4);
     const route = (await lead.post('/api/routes', { siteId: DEMO_SITE_ID, name: `Reorder ${randomUUID().slice(0, 6)}`, collarIds: collars })).body.record;

@@ -68,8 +68,10 @@ export class BoardApi {
     return firstValueFrom(this.http.get<Progress>(`/api/campaigns/${campaignId}/progress`, { params }));
   }
 
-  csvUrl(campaignId: string, round: number | null): string {
-    return `/api/campaigns/${campaignId}/progress.csv${round ? `?round=${round}` : ''}`;
+  /** `forSpreadsheet` adds a UTF-8 byte order mark (?bom=1) so spreadsheets read accents and symbols right. */
+  csvUrl(campaignId: string, round: number | null, forSpreadsheet = false): string {
+    const q = [round ? `round=${round}` : '', forSpreadsheet ? 'bom=1' : ''].filter(Boolean).join('&');
+    return `/api/campaigns/${campaignId}/progress.csv${q ? `?${q}` : ''}`;
   }
 
   create<T = Rec>(path: string, fields: Record<string, unknown>): Promise<T> {

@@ -4,6 +4,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
+import { MatSlideToggleModule } from '@angular/material/slide-toggle';
 import { BoardApi, type ItemKey } from './board-api';
 import { BoardStore } from './board-store';
 import { StateBadge } from './state-badge';
@@ -15,7 +16,7 @@ import { filterRows, groupCounts, itemText, NO_FILTER, sortRows, type GroupBar, 
  */
 @Component({
   selector: 'fw-progress-view',
-  imports: [ScrollingModule, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule, StateBadge],
+  imports: [ScrollingModule, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatSlideToggleModule, StateBadge],
   templateUrl: './progress-view.html',
   styleUrl: './progress-view.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -52,9 +53,10 @@ export class ProgressView {
       : r.treatmentCodes.map((t) => ({ key: t, label: t })));
   });
 
+  protected readonly csvForSpreadsheet = signal(false);
   protected readonly csvUrl = computed(() => {
     const id = this.store.campaignId();
-    return id ? this.api.csvUrl(id, this.store.round()) : '';
+    return id ? this.api.csvUrl(id, this.store.round(), this.csvForSpreadsheet()) : '';
   });
 
   protected readonly treatmentCodes = computed(() => this.store.treatments().map((t) => String(t['code'])));
