@@ -156,14 +156,17 @@ export async function* responseRows(r: SiteResults): Rows {
   }
 }
 
+const dayCount = (fromDay: string, toDay: string) => Math.round((Date.parse(`${toDay}T00:00:00Z`) - Date.parse(`${fromDay}T00:00:00Z`)) / 86_400_000) + 1;
+
 export async function* seasonalRows(totals: CellTotal[], fromDay: string, toDay: string): Rows {
   for (const t of totals) {
-    const d = t.days;
     const responseDepth = t.plots[0]?.responseDepthCm ?? null;
-    yield [t.cellKey, null, null, fromDay, toDay, t.status, t.totalGCM2, t.ciLowGCM2, t.ciHighGCM2, d.logged, d.interpolated, d.missing, d.outsideRange,
+    const days = dayCount(fromDay, toDay);
+    // Cell rows leave the day counts to the plot rows: summed over plots they would be plot-days, more than the period has.
+    yield [t.cellKey, null, null, fromDay, toDay, t.status, t.totalGCM2, t.ciLowGCM2, t.ciHighGCM2, days, t.plots.length, null, null, null, null,
       null, responseDepth, t.flags.join(';')];
     for (const p of t.plots) {
-      yield [t.cellKey, p.plotId, p.plotCode, fromDay, toDay, p.status, p.totalGCM2, null, null, p.days.logged, p.days.interpolated, p.days.missing,
+      yield [t.cellKey, p.plotId, p.plotCode, fromDay, toDay, p.status, p.totalGCM2, null, null, days, 1, p.days.logged, p.days.interpolated, p.days.missing,
         p.days.outsideRange, p.logDepthCm, p.responseDepthCm, p.flags.join(';')];
     }
   }

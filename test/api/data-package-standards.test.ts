@@ -151,4 +151,32 @@ describe('data package against the official standards: EML 2.2.0 XSD, Frictionle
       expect([words, text.includes(words)]).toEqual([words, true]);
     }
   });
+
+  it('when a stranger recomputes fluxes from the tables and the methods alone, then they match; totals rows add no days across plots', () => {
+    const csv = (name: string) => parseCsv(files.get(`data/${name}.csv`)!.toString('utf8')).rows;
+    const series = new Map<string, Row[]>();
+    for (const s of csv('closure_series')) series.set(s.closure_id, [...(series.get(s.closure_id) ?? []), s]);
+    // flux = slope × 10·p·V·(1 − χw)/(R·T·A), p, T, χw of the first sample of the fit (EML methods); R = NA·kB (SI 2019).
+    const R = 6.02214076e23 * 1.380649e-23;
+    let checked = 0;
+    for (const k of csv('closures').filter((c) => c.review_fit_model === '' && c.raw_flux_umol_m2_s !== '' && c.pressure_is_default === 'false')) {
+      const first = series.get(k.closure_id)!.find((s) => Number(s.t_s) === Number(k.fit_first_t_s))!;
+      const chiW = Number(first.h2o_mmol_mol) / 1000;
+      const factor = 10 * Number(first.pressure_kpa) * Number(k.volume_cm3) * (1 - chiW) / (R * (Number(first.chamber_temp_c) + 273.15) * Number(k.area_cm2));
+      expect(Number(k.flux_per_slope)).toBeCloseTo(factor, 9);
+      expect(Number(k.raw_flux_umol_m2_s)).toBeCloseTo(Number(k.raw_slope_ppm_s) * factor, 9);
+      const window = Number(k.fit_last_t_s) - Number(k.fit_first_t_s);
+      expect(Number(k.min_detectable_flux_umol_m2_s)).toBeCloseTo(Number(k.precision_ppm) / window * factor, 9);
+      checked++;
+    }
+    expect(checked).toBeGreaterThan(20);
+    const totals = csv('seasonal_totals');
+    for (const r of totals.filter((x) => x.plot_id === '')) {
+      expect([r.days_logged, r.days_interpolated, r.days_missing, r.days_outside_range]).toEqual(['', '', '', '']);
+      const plots = totals.filter((x) => x.cell === r.cell && x.plot_id !== '');
+      expect(Number(r.n_plots)).toBe(plots.length);
+      for (const p of plots) expect(Number(p.days_logged) + Number(p.days_interpolated) + Number(p.days_missing)).toBe(Number(p.period_days));
+      if (r.status === 'complete') expect(Number(r.total_g_c_m2)).toBeCloseTo(plots.reduce((a, p) => a + Number(p.total_g_c_m2), 0) / plots.length, 6);
+    }
+  });
 });
