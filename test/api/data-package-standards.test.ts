@@ -176,7 +176,7 @@ describe('data package against the official standards: EML 2.2.0 XSD, Frictionle
       const plots = totals.filter((x) => x.cell === r.cell && x.plot_id !== '');
       expect(Number(r.n_plots)).toBe(plots.length);
       for (const p of plots) expect(Number(p.days_logged) + Number(p.days_interpolated) + Number(p.days_missing)).toBe(Number(p.period_days));
-      if (r.status === 'complete') expect(Number(r.total_g_c_m2)).toBeCloseTo(plots.reduce((a, p) => a + Number(p.total_g_c_m2), 0) / plots.length, 6);
+      if (r.status === 'complete') expect(Number(r.total_g_c_m2)).toBeCloseTo(plots.reduce((a, p) => a + Number(p.total_g_c_m2), 0) / plots.length, 2);
     }
   });
 });
