@@ -33,6 +33,7 @@ export const EML_UNITS: Record<string, StandardUnit | CustomUnit> = {
   [UNITS.ppmPerS]: { custom: 'micromolePerMolePerSecond', unitType: 'frequency', parentSI: 'hertz', multiplierToSI: '0.000001',
     abbreviation: 'µmol/mol/s', description: 'micromoles per mole per second (rate of change of a mole fraction)' },
   [UNITS.kelvin]: { standard: 'kelvin' },
+  [UNITS.day]: { standard: 'nominalDay' },
   [UNITS.none]: { standard: 'dimensionless' },
 };
 

@@ -28,6 +28,25 @@ export function collarEventRows(ds: DataSource, siteId: string): Rows {
     (r) => [r.id, r.collar_id, r.kind, r.date, r.note]);
 }
 
+export function analyzerRows(ds: DataSource, siteId: string): Rows {
+  return query(ds, `SELECT * FROM analyzer WHERE site_id = $1 AND NOT deleted ORDER BY name, id`, [siteId], (r) => [
+    r.id, r.name, r.serial, r.range_min_ppm, r.range_max_ppm, r.precision_ppm, r.calibration_interval_days]);
+}
+
+/** Checks other than calibrations (calibration-rows.ts writes those). */
+export function analyzerCheckRows(ds: DataSource, siteId: string): Rows {
+  return query(ds, `SELECT * FROM analyzer_check WHERE site_id = $1 AND kind <> 'calibration' AND NOT deleted ORDER BY at, id`, [siteId], (r) => [
+    r.id, r.analyzer_id, r.kind, iso(r.at), r.skipped, r.skip_reason, r.passed, r.co2_ppm, r.slope_umol_mol_s, r.clock_offset_s, r.note]);
+}
+
+/** Profile versions with the last day each applies: the day before the next version of the same name. */
+export function chamberProfileRows(ds: DataSource, siteId: string): Rows {
+  return query(ds, `SELECT *, valid_from::text AS from_day,
+      (lead(valid_from) OVER (PARTITION BY name ORDER BY valid_from) - 1)::text AS to_day
+      FROM chamber_profile WHERE site_id = $1 AND NOT deleted ORDER BY name, valid_from`, [siteId], (r) => [
+    r.id, r.name, r.from_day, r.to_day, r.chamber_volume_cm3, r.loop_volume_cm3, r.footprint_area_cm2, r.settle_s, r.closure_length_s]);
+}
+
 export function visitRows(ds: DataSource, siteId: string): Rows {
   return query(ds, `SELECT v.*, c.name AS campaign_name FROM visit v JOIN campaign c ON c.id = v.campaign_id
      WHERE v.site_id = $1 AND NOT v.deleted ORDER BY v.arrived_at, v.id`, [siteId], (r) => [

@@ -25,7 +25,7 @@ export const UNITS = {
   flux: 'umol m-2 s-1',
   total: 'g C m-2',
   cm: 'cm', cm2: 'cm2', cm3: 'cm3', s: 's', degC: 'degC', percent: 'percent', ppm: 'umol mol-1', mmolMol: 'mmol mol-1', kPa: 'kPa', degree: 'degree',
-  ppmPerS: 'umol mol-1 s-1', kelvin: 'K', none: 'dimensionless',
+  ppmPerS: 'umol mol-1 s-1', kelvin: 'K', day: 'd', none: 'dimensionless',
 } as const;
 
 const FLUX_NOTE = 'CO2 efflux, µmol CO2 m-2 s-1';
@@ -45,7 +45,35 @@ export const TABLES: TableDef[] = [
       id('event_id', 'Event'), ref('collar_id', 'Collar'), str('kind', 'installed, clipped, reseated, replaced, damaged or retired'),
       { name: 'date', type: 'date', description: 'Day of the event' }, str('note', 'Free text'),
     ] },
-  { name: 'calibrations', title: 'Analyzer calibrations', primaryKey: ['calibration_id'],
+  { name: 'analyzers', title: 'Analyzers', description: 'Gas analyzers with range, precision (used for the detection limit) and calibration interval.',
+    primaryKey: ['analyzer_id'], fields: [
+      id('analyzer_id', 'Analyzer'), str('name', 'Analyzer name'), str('serial', 'Serial number'),
+      num('range_min_ppm', UNITS.ppm, 'Lower end of the CO2 range'), num('range_max_ppm', UNITS.ppm, 'Upper end of the CO2 range'),
+      num('precision_ppm', UNITS.ppm, 'CO2 precision; empty when not known (the detection limit then uses 1 µmol mol-1)', { minimum: 0 }),
+      num('calibration_interval_days', UNITS.day, 'Days between zero/span calibrations the site asks for', { minimum: 0 }),
+    ] },
+  { name: 'analyzer_checks', title: 'Analyzer checks', primaryKey: ['check_id'], foreignKeys: [fk('analyzer_id', 'analyzers')],
+    description: 'Checks of the day other than calibrations (those are in calibrations.csv): leak, ambient, clock, warm-up and safety acknowledgement.',
+    fields: [
+      id('check_id', 'Check record'), ref('analyzer_id', 'Analyzer'),
+      oneOf('kind', ['leak', 'ambient', 'clock', 'warm-up', 'safety-ack'], 'leak, ambient, clock, warm-up or safety-ack'),
+      { name: 'checked_at', type: 'datetime', description: 'Time of the check, UTC' },
+      { name: 'skipped', type: 'boolean', description: 'The check was skipped' }, str('skip_reason', 'Why it was skipped'),
+      { name: 'passed', type: 'boolean', description: 'The check passed; empty when not judged' },
+      num('co2_ppm', UNITS.ppm, 'Ambient CO2 read (ambient check)'), num('slope_ppm_s', UNITS.ppmPerS, 'CO2 slope with the chamber sealed on a blank (leak check)'),
+      num('clock_offset_s', UNITS.s, 'Analyzer clock minus reference clock (clock check)'), str('note', 'Free text'),
+    ] },
+  { name: 'chamber_profiles', title: 'Chamber profile versions', primaryKey: ['profile_id'],
+    description: 'Chamber geometry versions: each applies to closures from valid_from until the day before the next version of the same name.',
+    fields: [
+      id('profile_id', 'Chamber profile version'), str('name', 'Profile name (the versions of one chamber share it)'),
+      { name: 'valid_from', type: 'date', description: 'First day this version applies' },
+      { name: 'valid_to', type: 'date', description: 'Last day it applies (the day before the next version); empty while current' },
+      num('chamber_volume_cm3', UNITS.cm3, 'Chamber headspace volume', { minimum: 0 }), num('loop_volume_cm3', UNITS.cm3, 'Tubing and analyzer cell volume', { minimum: 0 }),
+      num('footprint_area_cm2', UNITS.cm2, 'Chamber footprint area (the volume adds footprint × mean collar offset)', { minimum: 0 }),
+      num('settle_s', UNITS.s, 'Default settle time', { minimum: 0 }), num('closure_length_s', UNITS.s, 'Default closure length', { minimum: 0 }),
+    ] },
+  { name: 'calibrations', title: 'Analyzer calibrations', primaryKey: ['calibration_id'], foreignKeys: [fk('analyzer_id', 'analyzers')],
     description: 'Zero/span calibrations of the gas analyzers: gases, cylinders, readings before (as found) and after (as left) adjustment, drift against the site limit.',
     fields: [
       id('calibration_id', 'Calibration record'), ref('analyzer_id', 'Analyzer'), str('analyzer_name', 'Analyzer name'), str('analyzer_serial', 'Analyzer serial number'),
@@ -92,7 +120,7 @@ export const TABLES: TableDef[] = [
       ref('probe_reading_id', 'Probe reading'), num('depth_cm', UNITS.cm, 'Depth below the soil surface'), num('soil_temp_c', UNITS.degC, 'Soil temperature'),
     ] },
   { name: 'closures', title: 'Closures', description: 'Chamber closures with the raw fit, the review fit, QC flags and the lab\'s decision.', primaryKey: ['closure_id'],
-    foreignKeys: [fk('visit_id', 'visits'), fk('collar_id', 'collars')], fields: [
+    foreignKeys: [fk('visit_id', 'visits'), fk('collar_id', 'collars'), fk('profile_id', 'chamber_profiles'), fk('analyzer_id', 'analyzers')], fields: [
       id('closure_id', 'Closure'), ref('visit_id', 'Visit'), ref('collar_id', 'Collar'), ref('campaign_id', 'Campaign'),
       { name: 'started_at', type: 'datetime', description: 'Chamber closed, UTC' }, num('settle_s', UNITS.s, 'Settle time skipped by the raw fit'),
       oneOf('review_state', ['unreviewed', 'accepted', 'rejected'], 'unreviewed, accepted or rejected'), str('review_reason', 'Reason given for a rejection'),

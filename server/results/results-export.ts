@@ -48,6 +48,9 @@ export async function runResultsExport(ds: DataSource, req: ExportRequest, hooks
   const sources: Record<string, () => rows.Rows> = {
     collars: () => rows.collarRows(ds, site.id),
     collar_events: () => rows.collarEventRows(ds, site.id),
+    analyzers: () => rows.analyzerRows(ds, site.id),
+    analyzer_checks: () => rows.analyzerCheckRows(ds, site.id),
+    chamber_profiles: () => rows.chamberProfileRows(ds, site.id),
     calibrations: () => calibrationRows(ds, site.id),
     visits: () => rows.visitRows(ds, site.id),
     offset_sets: () => rows.offsetSetRows(ds, site.id),
@@ -156,6 +159,8 @@ function exportMethods(slopeBasis: string, req: ExportRequest, fromDay: string, 
     'Temperature response per treatment cell on plot × campaign × round means (the experimental unit): Q10 and Lloyd & Taylor (1994, Funct. Ecol. 8:315–323) with T0 = 227.13 K fixed, on the flux scale and on the log scale; 95 % CIs from t(n − 2) with n = units.',
     `Seasonal totals (seasonal_totals.csv, ${fromDay} to ${toDay}, response model ${req.model}): ${SEASONAL_METHOD}`,
     CALIBRATION_METHOD,
+    'Instruments: analyzers.csv (range, precision), analyzer_checks.csv (leak checks with the sealed-chamber slope, ambient CO2, clock offset, '
+      + 'warm-up), chamber_profiles.csv (the geometry versions with the days each applies; closures.profile_id names the version used).',
     'Numbers are written to the precision they carry (12 significant digits at most; coordinates to 7 decimals, probe readings to 2); empty cells are missing values.',
   ];
 }

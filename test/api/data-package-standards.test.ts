@@ -170,6 +170,9 @@ describe('data package against the official standards: EML 2.2.0 XSD, Frictionle
       checked++;
     }
     expect(checked).toBeGreaterThan(20);
+    // Instruments behind the fluxes: every closure names its analyzer and profile version, which the package describes.
+    expect([csv('analyzers').length, csv('chamber_profiles').length, csv('analyzer_checks').length].every((n) => n > 0)).toBe(true);
+    expect(csv('closures').every((k) => k.profile_id !== '' && k.analyzer_id !== '')).toBe(true);
     const totals = csv('seasonal_totals');
     for (const r of totals.filter((x) => x.plot_id === '')) {
       expect([r.days_logged, r.days_interpolated, r.days_missing, r.days_outside_range]).toEqual(['', '', '', '']);
