@@ -4,6 +4,7 @@ import { readZip } from '../../server/results/zip-archive';
 import { Page } from 'playwright-core';
 import { seriousAccessibilityProblems, signInAs } from './support/app-actions';
 import { RunningServer, startAppServer } from './support/app-server';
+import { choose } from './support/walk-actions';
 import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
 
 jest.setTimeout(240_000);
@@ -73,8 +74,7 @@ describe('Bench results in Chromium', () => {
 
       // Data package: a background job with progress, then a download.
       await page.getByRole('tab', { name: 'Data package' }).click();
-      await page.getByRole('combobox', { name: 'Data licence' }).click();
-      await page.getByRole('option', { name: /^CC-BY-4\.0/ }).click();
+      await choose(page, 'Data licence', /^CC-BY-4\.0/);
       await page.getByRole('button', { name: 'Build data package' }).click();
       const link = page.getByTestId('export-download');
       await link.waitFor({ timeout: 120_000 });

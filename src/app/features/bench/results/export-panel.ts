@@ -19,10 +19,10 @@ const POLL_MS = 1000;
       EML 2.2 metadata and the provenance of the numbers.</p>
     <mat-form-field appearance="outline">
       <mat-label>Data licence</mat-label>
-      <mat-select [value]="licence()" (selectionChange)="licence.set($event.value)" required>
+      <mat-select [value]="licence()" (selectionChange)="licence.set($event.value)">
         @for (l of licences; track l.id) { <mat-option [value]="l.id">{{ l.id }} — {{ l.title }}</mat-option> }
       </mat-select>
-      <mat-hint>Written into datapackage.json and the EML; a repository needs one to publish the data.</mat-hint>
+      <mat-hint>Needed to build: written into datapackage.json and the EML, so a repository can publish the data.</mat-hint>
     </mat-form-field>
     <p><button mat-flat-button type="button" (click)="start()" [disabled]="running() || !licence()">Build data package</button></p>
     @if (job(); as j) {
