@@ -64,20 +64,28 @@ function attribute(f: FieldDef): string {
 
 export interface EmlCoverage { west: number; east: number; north: number; south: number; fromDay: string; toDay: string }
 
-export function emlDocument(p: Provenance, cov: EmlCoverage | null, rowCounts: Record<string, number>, bytes: Record<string, number>, methods: string[]): string {
+const dateRange = (fromDay: string, toDay: string) => `<temporalCoverage><rangeOfDates><beginDate><calendarDate>${fromDay}</calendarDate></beginDate>`
+  + `<endDate><calendarDate>${toDay}</calendarDate></endDate></rangeOfDates></temporalCoverage>`;
+
+/**
+ * `cov` is the dataset's coverage (the span of the data); `tableWindows` gives a table its own
+ * period where it covers less (the seasonal totals' window).
+ */
+export function emlDocument(p: Provenance, cov: EmlCoverage | null, rowCounts: Record<string, number>, bytes: Record<string, number>, methods: string[],
+  tableWindows: Record<string, { fromDay: string; toDay: string }> = {}): string {
   const [given, ...rest] = p.generatedBy.name.split(' ');
   const person = `<individualName>${rest.length ? `<givenName>${esc(given)}</givenName><surName>${esc(rest.join(' '))}</surName>` : `<surName>${esc(given)}</surName>`}</individualName>`
     + `<electronicMailAddress>${esc(p.generatedBy.email)}</electronicMailAddress>`;
   const coverage = cov ? `<coverage><geographicCoverage><geographicDescription>${esc(p.site.name)}</geographicDescription><boundingCoordinates>`
     + `<westBoundingCoordinate>${cov.west}</westBoundingCoordinate><eastBoundingCoordinate>${cov.east}</eastBoundingCoordinate>`
     + `<northBoundingCoordinate>${cov.north}</northBoundingCoordinate><southBoundingCoordinate>${cov.south}</southBoundingCoordinate>`
-    + `</boundingCoordinates></geographicCoverage><temporalCoverage><rangeOfDates><beginDate><calendarDate>${cov.fromDay}</calendarDate></beginDate>`
-    + `<endDate><calendarDate>${cov.toDay}</calendarDate></endDate></rangeOfDates></temporalCoverage></coverage>` : '';
+    + `</boundingCoordinates></geographicCoverage>${dateRange(cov.fromDay, cov.toDay)}</coverage>` : '';
   const tables = TABLES.map((t) => `<dataTable id="${t.name}"><entityName>${esc(tablePath(t.name))}</entityName>`
     + `<entityDescription>${esc(t.description)}</entityDescription><physical><objectName>${esc(tablePath(t.name))}</objectName>`
     + `<size unit="byte">${bytes[t.name] ?? 0}</size><characterEncoding>UTF-8</characterEncoding><dataFormat><textFormat><numHeaderLines>1</numHeaderLines>`
     + '<recordDelimiter>\\n</recordDelimiter><attributeOrientation>column</attributeOrientation><simpleDelimited><fieldDelimiter>,</fieldDelimiter>'
     + '<quoteCharacter>"</quoteCharacter></simpleDelimited></textFormat></dataFormat></physical>'
+    + (tableWindows[t.name] ? `<coverage>${dateRange(tableWindows[t.name].fromDay, tableWindows[t.name].toDay)}</coverage>` : '')
     + `<attributeList>${t.fields.map(attribute).join('')}</attributeList><numberOfRecords>${rowCounts[t.name] ?? 0}</numberOfRecords></dataTable>`).join('\n    ');
   const units = Object.values(EML_UNITS).filter((u): u is CustomUnit => 'custom' in u).map((u) => `<stmml:unit id="${u.custom}" name="${u.custom}" `
     + `unitType="${u.unitType}" parentSI="${u.parentSI}" multiplierToSI="${u.multiplierToSI}" abbreviation="${esc(u.abbreviation)}">`

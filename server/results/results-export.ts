@@ -111,7 +111,7 @@ export async function runResultsExport(ds: DataSource, req: ExportRequest, hooks
   const cov = coverage(await ds.query(`SELECT min(latitude) s, max(latitude) n, min(longitude) w, max(longitude) e FROM collar WHERE site_id = $1 AND NOT deleted`, [site.id]),
     span.from_day ?? seasonal.fromDay, span.to_day ?? seasonal.toDay);
   await zip.add('provenance.json', JSON.stringify(provenance, null, 2));
-  await zip.add('metadata.eml.xml', emlDocument(provenance, cov, rowCounts, bytes, methods));
+  await zip.add('metadata.eml.xml', emlDocument(provenance, cov, rowCounts, bytes, methods, { seasonal_totals: { fromDay: seasonal.fromDay, toDay: seasonal.toDay } }));
   await zip.add('datapackage.json', JSON.stringify(dataPackage(provenance, rowCounts, bytes), null, 2));
   const file = zip.finish();
   const sha256 = createHash('sha256').update(file).digest('hex');

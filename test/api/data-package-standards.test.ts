@@ -144,6 +144,10 @@ describe('data package against the official standards: EML 2.2.0 XSD, Frictionle
     const text = files.get('metadata.eml.xml')!.toString('utf8');
     const [, begin, end] = text.match(/<beginDate><calendarDate>([^<]+)<\/calendarDate><\/beginDate><endDate><calendarDate>([^<]+)</)!;
     expect(begin <= span.f && end >= span.l).toBe(true);
+    // The totals carry their own window, inside the data's span.
+    const totals = parseCsv(files.get('data/seasonal_totals.csv')!.toString('utf8')).rows;
+    expect(text).toMatch(new RegExp(`<dataTable id="seasonal_totals">.*<coverage><temporalCoverage><rangeOfDates><beginDate><calendarDate>${totals[0].from_day}<`
+      + `.*<calendarDate>${totals[0].to_day}</calendarDate></endDate></rangeOfDates></temporalCoverage></coverage>.*</dataTable>`));
     const probes = parseCsv(files.get('data/probe_readings.csv')!.toString('utf8')).rows;
     expect(probes.find((r) => r.probe_reading_id === probe.id)).toMatchObject({ moisture_kind: 'vwc', moisture_vwc_reading_pct: '99', flags: 'soil-temp-implausible;vwc-implausible' });
     expect(probes.filter((r) => r.flags !== '').map((r) => r.probe_reading_id)).toEqual([probe.id]);
