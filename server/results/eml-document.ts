@@ -48,12 +48,19 @@ function scale(f: FieldDef): string {
   if (f.type === 'datetime') return '<dateTime><formatString>YYYY-MM-DDThh:mm:ss.sssZ</formatString></dateTime>';
   if (f.type === 'string' || f.type === 'boolean') {
     const def = f.type === 'boolean' ? `${f.description} (true or false)` : f.description;
-    return `<nominal><nonNumericDomain><textDomain><definition>${esc(def)}</definition></textDomain></nonNumericDomain></nominal>`;
+    // A closed list of codes is an enumerated domain; the field's description says what each code means.
+    const domain = f.enum
+      ? `<enumeratedDomain>${f.enum.map((c) => `<codeDefinition><code>${esc(c)}</code><definition>${esc(`${c}: ${f.description}`)}</definition></codeDefinition>`).join('')}</enumeratedDomain>`
+      : `<textDomain><definition>${esc(def)}</definition></textDomain>`;
+    return `<nominal><nonNumericDomain>${domain}</nonNumericDomain></nominal>`;
   }
   const numberType = f.type === 'integer' ? 'whole' : 'real';
   // Celsius has an arbitrary zero: an interval scale; everything else here is a ratio scale.
   const kind = f.unit === UNITS.degC ? 'interval' : 'ratio';
-  return `<${kind}><unit>${unitXml(f.unit)}</unit><numericDomain><numberType>${numberType}</numberType></numericDomain></${kind}>`;
+  const bounds = f.minimum !== undefined || f.maximum !== undefined
+    ? `<bounds>${f.minimum !== undefined ? `<minimum exclusive="false">${f.minimum}</minimum>` : ''}${f.maximum !== undefined ? `<maximum exclusive="false">${f.maximum}</maximum>` : ''}</bounds>`
+    : '';
+  return `<${kind}><unit>${unitXml(f.unit)}</unit><numericDomain><numberType>${numberType}</numberType>${bounds}</numericDomain></${kind}>`;
 }
 
 function attribute(f: FieldDef): string {

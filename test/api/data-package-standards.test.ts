@@ -99,6 +99,9 @@ describe('data package against the official standards: EML 2.2.0 XSD, Frictionle
     expect(text).toMatch(/<attributeName>total_g_c_m2<\/attributeName>.*?<customUnit>gramCarbonPerMeterSquared<\/customUnit>/);
     expect(text).toMatch(/<attributeName>moisture_vwc_reading_pct<\/attributeName>.*?<standardUnit>percent<\/standardUnit>/);
     expect(text).toMatch(/<attributeName>moisture_permittivity<\/attributeName>.*?<standardUnit>dimensionless<\/standardUnit>/);
+    // The table schema's enums and ranges are in the EML too: enumerated domains and numeric bounds.
+    expect(text).toMatch(/<attributeName>review_state<\/attributeName>.*?<enumeratedDomain><codeDefinition><code>unreviewed<\/code>/);
+    expect(text).toMatch(/<attributeName>moisture_vwc_reading_pct<\/attributeName>.*?<bounds><minimum exclusive="false">0<\/minimum><maximum exclusive="false">100<\/maximum><\/bounds>/);
   });
 
   it('when datapackage.json, every resource, table schema and dialect is checked with ajv, then all validate against Frictionless v1.0 and v2.0', () => {
