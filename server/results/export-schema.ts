@@ -142,7 +142,7 @@ export const TABLES: TableDef[] = [
       ref('profile_id', 'Chamber profile version the volume came from (the closure\'s own chamber, its version valid that day)'),
       str('profile_name', 'Chamber the closure was made with'), ref('analyzer_id', 'Analyzer the closure was made with'),
       num('ambient_ppm', UNITS.ppm, 'Ambient CO2 reading of the closure\'s own analyzer nearest in time (within 12 h) used for start-above-ambient'),
-      str('air_temp_source', 'Where the chamber air temperature came from: series (the analyzer file), visit (air temperature noted at the visit) or site-default'),
+      oneOf('air_temp_source', ['series', 'visit', 'site-default'], 'Where the chamber air temperature came from: series (the analyzer file), visit (air temperature noted at the visit) or site-default'),
       num('air_temp_c', UNITS.degC, 'Chamber air temperature used when it did not come from the file (visit or site default); empty when the file\'s own values were used'),
     ] },
   { name: 'closure_series', title: 'Closure raw series', description: 'Every sample of every closure as the analyzer gave it (wet CO2).',

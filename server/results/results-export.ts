@@ -140,7 +140,8 @@ function exportMethods(slopeBasis: string, req: ExportRequest, fromDay: string, 
       + '(or review_window_end_s); samples with a missing value are dropped (flag gaps-dropped).',
     'Flux = slope × p·V·(1 − χw)/(R·T·A) × 10, in µmol m-2 s-1 with slope in µmol mol-1 s-1 of dry CO2, p in kPa, V in cm3 (closures.volume_cm3 = chamber volume + loop volume '
       + '+ chamber footprint area × mean collar offset, mean_offset_cm), A in cm2 (closures.area_cm2, the collar\'s inside area), T in K (chamber °C + 273.15), R = 8.31446261815324 J mol-1 K-1 (Avogadro constant × Boltzmann constant, SI 2019); '
-      + 'p, T and χw are those of the first sample used by the fit (closures.fit_first_t_s). closures.flux_per_slope gives the factor. '
+      + 'p, T and χw are those of the first sample used by the fit (closures.fit_first_t_s); when the file had no chamber temperature, T is closures.air_temp_c '
+      + '(air_temp_source visit: noted at the visit; site-default: the site\'s default). closures.flux_per_slope gives the factor. '
       + 'Pressure defaults to the US Standard Atmosphere 1976 at site elevation when not measured (pressure_is_default, flag default-pressure).',
     `Rate models fitted by least squares to dry CO2 against time since closure: linear; exponential χ = p1 + (p2 − p1)·exp(p3·t) (Kutzbach et al. 2007, Biogeosciences 4:1005–1025); `
       + `quadratic (Wagner et al. 1997, Soil Biol. Biochem. 29:1329). Model choice: the exponential only when it saturates (p3 < 0) and its AICc (Hurvich & Tsai 1989, Biometrika 76:297) is lower `
