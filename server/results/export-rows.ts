@@ -165,12 +165,12 @@ export async function* responseRows(r: SiteResults): Rows {
     const ll = c.lloydTaylorLog;
     const est = (e: { value: number; ciLow: number; ciHigh: number } | null | undefined) => (e ? [e.value, e.ciLow, e.ciHigh] : [null, null, null]);
     yield [c.cellKey, 'q10', q.ok, q.ok ? null : q.reason, q.ok ? q.n : null, c.nPlots, q.ok ? q.tempSpanC : null, ...est(q.ok ? q.r10 : null),
-      ...est(q.ok ? q.q10 : null), null, null, null, q.ok ? q.rmse : null, q.ok ? q.warnings.join(';') : null];
+      ...est(q.ok ? q.q10 : null), null, null, null, q.ok ? q.rmse : null, null, q.ok ? q.warnings.join(';') : null];
     yield [c.cellKey, 'lloyd-taylor', l.ok, l.ok ? null : l.reason, l.ok ? l.n : null, c.nPlots, l.ok ? l.tempSpanC : null, ...est(l.ok ? l.r10 : null),
-      null, null, null, ...est(l.ok ? l.e0K : null), l.ok ? l.rmse : null, l.ok ? l.warnings.join(';') : null];
+      null, null, null, ...est(l.ok ? l.e0K : null), l.ok ? l.rmse : null, null, l.ok ? l.warnings.join(';') : null];
     for (const [name, f] of [['q10-log', ql], ['lloyd-taylor-log', ll]] as const) {
       yield [c.cellKey, name, f.ok, f.ok ? null : f.reason, f.ok ? f.n : null, c.nPlots, f.ok ? f.tempSpanC : null, ...est(f.ok ? f.r10 : null),
-        ...est(f.ok ? f.q10 : null), ...est(f.ok ? f.e0K : null), f.ok ? f.rmseLog : null, f.ok ? f.warnings.join(';') : null];
+        ...est(f.ok ? f.q10 : null), ...est(f.ok ? f.e0K : null), null, f.ok ? f.rmseLog : null, f.ok ? f.warnings.join(';') : null];
     }
   }
 }
