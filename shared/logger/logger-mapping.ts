@@ -41,6 +41,8 @@ export interface LoggerMapping {
   pressure: { column: number; unit: PressureUnit } | null;
   temp: { column: number; unit: TempUnit } | null;
   closureId: { column: number } | null;
+  /** The header names the mapping was made for (kept with a saved mapping, so a file with other columns is not read with it). */
+  headers?: string[];
 }
 
 /** Our documented names (lower case, compared after trimming). */
@@ -93,6 +95,17 @@ export function suggestMapping(headers: readonly string[], base: Pick<LoggerMapp
   };
 }
 
+/**
+ * The mapping of a file in our plain export (every header one of our documented names): such a
+ * file needs no mapping step. Any other header gets null: its columns are the crew's to confirm.
+ */
+export function plainExportMapping(headers: readonly string[], base: Pick<LoggerMapping, 'delimiter' | 'decimalComma' | 'headerRow'>, timeZone: string): LoggerMapping | null {
+  const names: readonly string[] = Object.values(PLAIN_EXPORT_COLUMNS);
+  if (!headers.length || !headers.every((h) => names.includes(norm(h)))) return null;
+  const m = suggestMapping(headers, base, timeZone);
+  return m && { ...m, headers: [...headers] };
+}
+
 /** Unit names earlier versions saved in mappings, and the name each has now. */
 const RENAMED_H2O_UNITS: Record<string, H2oUnit> = { 'mmol/mol (ppt)': 'mmol/mol' };
 
@@ -102,6 +115,18 @@ export function savedMapping(stored: unknown): LoggerMapping | null {
   const m = stored as LoggerMapping;
   const renamed = m.h2o ? RENAMED_H2O_UNITS[m.h2o.unit] : undefined;
   return renamed ? { ...m, h2o: { ...m.h2o!, unit: renamed } } : m;
+}
+
+/**
+ * A saved mapping is used as it is (no mapping step) only for a file laid out the same way: same
+ * delimiter and header row, and the same header names when the mapping kept them; every mapped
+ * column must exist in the file.
+ */
+export function mappingFits(m: LoggerMapping | null, layout: Pick<LoggerMapping, 'delimiter' | 'headerRow'> & { headers: readonly string[] }): m is LoggerMapping {
+  if (!m || m.delimiter !== layout.delimiter || m.headerRow !== layout.headerRow) return false;
+  if (m.headers && (m.headers.length !== layout.headers.length || m.headers.some((h, i) => h.trim() !== layout.headers[i]?.trim()))) return false;
+  const cols = [m.time.column, m.co2.column, m.h2o?.column, m.pressure?.column, m.temp?.column, m.closureId?.column].filter((c): c is number => c !== undefined);
+  return cols.every((c) => c >= 0 && c < layout.headers.length);
 }
 
 export function tempToC(v: number, unit: TempUnit): number {

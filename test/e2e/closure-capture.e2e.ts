@@ -163,8 +163,8 @@ describe('Closure capture in Chromium, offline, then synced', () => {
       const offset = Number(await dialog.getByTestId('clock-offset').inputValue());
       // The taps land a few milliseconds after the clock was set: within half a second of 73 s.
       expect(Math.abs(offset - OFFSET_S)).toBeLessThanOrEqual(0.5);
-      const statuses = await dialog.locator('table.matches tbody tr td:nth-child(4)').allInnerTexts();
-      expect(statuses.map((s) => s.trim())).toEqual(['matched (tap)', 'matched (tap)', 'matched (tap)', 'matched (tap)']);
+      const statuses = await dialog.locator('fw-piece-card .how').allInnerTexts();
+      expect(statuses.map((s) => s.trim())).toEqual(Array(4).fill('matched by its chamber tap'));
       await dialog.getByRole('button', { name: 'Save closures' }).click();
       expect((await dialog.getByTestId('import-done').innerText()).trim()).toBe('4 closures filled from walk-two-collars.csv.');
       await dialog.getByRole('button', { name: 'Close' }).click();

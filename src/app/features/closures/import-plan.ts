@@ -1,5 +1,9 @@
-import type { LoggerPiece, PieceMatch, TapWindow, VisitSlot } from '../../../../shared/logger';
+import {
+  estimateClockOffset, medianStepS, splitByTaps, splitClosures,
+  type LoggerPiece, type LoggerSample, type PieceMatch, type SplitMethod, type SplitResult, type TapWindow, type VisitSlot,
+} from '../../../../shared/logger';
 import type { FluxDb, LocalRecord } from '../../core/db/db-schema';
+import { localDay } from './closure-flux';
 
 /** A visit of the round with its collar code and the closures still waiting for a series. */
 export interface RoundVisit {
@@ -81,4 +85,50 @@ export function parseAssignment(v: string): Assignment {
   if (kind === 'new') return { kind: 'new', visitId };
   if (kind === 'closure') return { kind: 'closure', visitId, closureId };
   return { kind: 'none' };
+}
+
+/** How the file was first cut and the clock offset to start from. */
+export interface FirstCut {
+  own: SplitResult;
+  offsetS: number;
+  check: number | null;
+  estimate: number | null;
+  pairs: number;
+  methods: SplitMethod[];
+}
+
+/**
+ * Closure id column, else taps, else gaps. The taps need the clock offset first: the day's clock
+ * check, else an estimate from the taps against the closures the gaps show.
+ */
+export function firstCut(samples: readonly LoggerSample[], slots: readonly VisitSlot[], check: number | null): FirstCut {
+  const taps = slots.flatMap((v) => v.taps);
+  const own = splitClosures(samples);
+  const timed = samples.length > 0 && samples.every((s) => s.atMs !== null);
+  const est = own.method === 'gaps' && timed
+    ? estimateClockOffset(taps.map((t) => ({ key: t.key, startMs: t.onMs, endMs: t.offMs })), own.pieces.map((p) => ({ key: p.key, startMs: p.startMs!, endMs: p.endMs })))
+    : null;
+  const byTaps = own.method === 'gaps' && timed && taps.length > 0;
+  return {
+    own, check: timed ? check : null, estimate: est?.offsetS ?? null, pairs: est?.pairs.length ?? 0, offsetS: (timed ? check : null) ?? est?.offsetS ?? 0,
+    methods: own.method === 'closureId' ? ['closureId'] : byTaps ? ['taps', 'gaps'] : ['gaps'],
+  };
+}
+
+/** The pieces for a method and offset (the taps move with the offset). */
+export function cutBy(method: SplitMethod, samples: readonly LoggerSample[], own: SplitResult, slots: readonly VisitSlot[], offsetS: number): SplitResult {
+  return method === 'taps' ? splitByTaps(samples, tapWindows(slots, offsetS), medianStepS(samples) / 2) : own;
+}
+
+/** Where the column mapping of an analyzer is kept on this device (one preset per analyzer). */
+export const mappingPresetKey = (analyzerId: string | null): string => `fw.logger-preset.${analyzerId ?? 'none'}`;
+
+/** The analyzer's clock offset from the latest clock check on the file's day (site zone), when one was taken. */
+export async function dayClockCheck(db: FluxDb, siteId: string, analyzerId: string | null, firstMs: number, timeZone: string): Promise<number | null> {
+  if (!analyzerId) return null;
+  const day = localDay(new Date(firstMs).toISOString(), timeZone);
+  const checks = await db.records('analyzerCheck').where('siteId').equals(siteId)
+    .filter((c) => !c.deleted && c['kind'] === 'clock' && c['analyzerId'] === analyzerId && typeof c['clockOffsetS'] === 'number').toArray();
+  const today = checks.filter((c) => localDay(String(c['at']), timeZone) === day).sort((a, b) => String(b['at']).localeCompare(String(a['at'])));
+  return today.length ? Number(today[0]['clockOffsetS']) : null;
 }

@@ -92,7 +92,7 @@ describe('Logger import, mapping step', () => {
     const dataLines = FILE.trim().split(/\r?\n/).length - 3;
     await until(() => first.text('[data-testid="read-summary"]') || first.text('[role="alert"]'), 'the read');
     expect(first.text('[data-testid="read-summary"]')).toBe('0 samples in 0 closures (split by gaps)');
-    expect(first.text('.problems summary')).toBe(`${dataLines} line(s) could not be read and were left out`);
+    expect(first.text('.problems summary')).toBe(`${dataLines} lines could not be read and were left out`);
     TestBed.resetTestingModule();
 
     const { text, choose, shown, pick, loader } = await render();
@@ -101,7 +101,7 @@ describe('Logger import, mapping step', () => {
     choose('Pressure unit', 'hPa');
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Read the file' }))).click();
     await until(() => text('[data-testid="read-summary"]'), 'the review step');
-    expect(text('[data-testid="read-summary"]')).toBe(`${dataLines} samples in 1 closures (split by gaps)`);
+    expect(text('[data-testid="read-summary"]')).toBe(`${dataLines} samples in 1 closure (split by gaps)`);
     expect(text('.problems')).toBe('');
     const preset = JSON.parse(localStorage.getItem(`fw.logger-preset.${ANALYZER}`) ?? 'null') as LoggerMapping | null;
     expect(preset).toMatchObject({ delimiter: ';', decimalComma: true, headerRow: 2, time: { kind: 'timestamp', format: 'DD.MM.YYYY HH:mm:ss', timeZone: 'Europe/Berlin' }, pressure: { unit: 'hPa' } });

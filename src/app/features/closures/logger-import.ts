@@ -5,17 +5,18 @@ import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import {
-  CO2_UNITS, ELAPSED_UNITS, H2O_UNITS, PRESSURE_UNITS, TEMP_UNITS, TIMESTAMP_FORMATS, estimateClockOffset, guessLayout,
-  matchPiecesToVisits, medianStepS, pieceSeries, savedMapping, splitByTaps, splitClosures, suggestMapping, temperatureColumns, type TempColumn,
+  CO2_UNITS, ELAPSED_UNITS, H2O_UNITS, PRESSURE_UNITS, TEMP_UNITS, TIMESTAMP_FORMATS, guessLayout, mappingFits,
+  matchPiecesToVisits, savedMapping, suggestMapping, temperatureColumns, type TempColumn,
   type LoggerMapping, type LoggerRead, type PieceMatch, type SplitMethod, type SplitResult, type TextLayout,
 } from '../../../../shared/logger';
+import { counted } from '../../../../shared/text/counted';
 import { DeviceDb } from '../../core/db/device-db';
 import { DeviceMemory } from '../../core/device/device-memory';
-import { ClosureWrites } from './closure-writes';
-import { localDay } from './closure-flux';
 import {
-  assignmentProblems, assignmentValue, defaultAssignments, loadRoundVisits, parseAssignment, tapWindows, visitSlots, type Assignment, type RoundVisit,
+  assignmentProblems, assignmentValue, cutBy, dayClockCheck, defaultAssignments, firstCut, mappingPresetKey, loadRoundVisits, parseAssignment, visitSlots, type Assignment, type RoundVisit,
 } from './import-plan';
+import { ImportWriter } from './import-writer';
+import { PieceCard } from './piece-card';
 import { readLoggerFile } from './logger-reader';
 
 export interface LoggerImportData {
@@ -38,7 +39,7 @@ type Step = 'pick' | 'map' | 'parsing' | 'review' | 'done';
  */
 @Component({
   selector: 'fw-logger-import',
-  imports: [FormsModule, MatButtonModule, MatCheckboxModule, MatDialogModule, MatProgressBarModule],
+  imports: [FormsModule, PieceCard, MatButtonModule, MatCheckboxModule, MatDialogModule, MatProgressBarModule],
   templateUrl: './logger-import.html',
   styleUrl: './logger-import.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -48,7 +49,7 @@ export class LoggerImport {
   private readonly ref = inject(MatDialogRef<LoggerImport>);
   private readonly deviceDb = inject(DeviceDb);
   private readonly memory = inject(DeviceMemory);
-  private readonly writes = inject(ClosureWrites);
+  private readonly writer = inject(ImportWriter);
 
   protected readonly units = { co2: Object.keys(CO2_UNITS), h2o: Object.keys(H2O_UNITS), pressure: Object.keys(PRESSURE_UNITS), temp: TEMP_UNITS, elapsed: Object.keys(ELAPSED_UNITS) };
   protected readonly formats = TIMESTAMP_FORMATS;
@@ -83,10 +84,10 @@ export class LoggerImport {
   protected readonly summary = signal('');
   private file: File | null = null;
   private text = '';
-  private timeZone = 'UTC';
+  protected timeZone = 'UTC';
 
   private presetKey(): string {
-    return `fw.logger-preset.${this.data.analyzerId ?? 'none'}`;
+    return mappingPresetKey(this.data.analyzerId);
   }
 
   protected async chooseFile(input: HTMLInputElement): Promise<void> {
@@ -105,8 +106,7 @@ export class LoggerImport {
     this.layout.set(layout);
     this.tempColumns.set(temperatureColumns(this.text, layout));
     const preset = savedMapping(this.memory.read(this.presetKey()));
-    const fits = preset && preset.headerRow === layout.headerRow && preset.delimiter === layout.delimiter;
-    this.mapping = fits ? structuredClone(preset) : suggestMapping(layout.headers, layout, this.timeZone) ?? {
+    this.mapping = mappingFits(preset, layout) ? structuredClone(preset) : suggestMapping(layout.headers, layout, this.timeZone) ?? {
       ...layout, time: { kind: 'elapsed', column: 0, unit: 's' }, co2: { column: Math.min(1, layout.headers.length - 1), unit: 'µmol/mol (ppm)' },
       h2o: null, pressure: null, temp: null, closureId: null,
     };
@@ -127,6 +127,7 @@ export class LoggerImport {
 
   protected async parse(): Promise<void> {
     const m = this.mapping!;
+    m.headers = [...(this.layout()?.headers ?? [])];
     this.memory.write(this.presetKey(), m);
     this.step.set('parsing');
     this.progress.set(0);
@@ -135,22 +136,14 @@ export class LoggerImport {
       this.read.set(read);
       const visits = await this.deviceDb.run((db) => loadRoundVisits(db, this.data.campaignId, this.data.round));
       this.visits.set(visits);
-      const slots = visitSlots(visits);
-      const taps = slots.flatMap((v) => v.taps);
-      // Closure id column, else taps, else gaps. The taps need the clock offset first: the day's
-      // clock check, else an estimate from the taps against the closures the gaps show.
-      const own = splitClosures(read.samples);
-      this.ownSplit = own;
       const timed = read.samples.length > 0 && read.samples.every((s) => s.atMs !== null);
-      const est = own.method === 'gaps' && timed
-        ? estimateClockOffset(taps.map((t) => ({ key: t.key, startMs: t.onMs, endMs: t.offMs })), own.pieces.map((p) => ({ key: p.key, startMs: p.startMs!, endMs: p.endMs })))
-        : null;
       const check = timed ? await this.clockCheck(read.samples[0].atMs!) : null;
-      this.offsetSources.set({ check, estimate: est?.offsetS ?? null, pairs: est?.pairs.length ?? 0 });
-      this.offsetS.set(check ?? est?.offsetS ?? 0);
-      const byTaps = own.method === 'gaps' && timed && taps.length > 0;
-      this.methods.set(own.method === 'closureId' ? ['closureId'] : byTaps ? ['taps', 'gaps'] : ['gaps']);
-      this.method.set(this.methods()[0]);
+      const cut = firstCut(read.samples, visitSlots(visits), check);
+      this.ownSplit = cut.own;
+      this.offsetSources.set({ check: cut.check, estimate: cut.estimate, pairs: cut.pairs });
+      this.offsetS.set(cut.offsetS);
+      this.methods.set(cut.methods);
+      this.method.set(cut.methods[0]);
       this.resplit();
       this.step.set('review');
     } catch (err) {
@@ -159,14 +152,8 @@ export class LoggerImport {
     }
   }
 
-  /** The analyzer's clock offset from the start-of-day check on the file's day, when one was taken. */
-  private async clockCheck(firstMs: number): Promise<number | null> {
-    if (!this.data.analyzerId) return null;
-    const day = localDay(new Date(firstMs).toISOString(), this.timeZone);
-    const checks = await this.deviceDb.run((db) => db.records('analyzerCheck').where('siteId').equals(this.data.siteId)
-      .filter((c) => !c.deleted && c['kind'] === 'clock' && c['analyzerId'] === this.data.analyzerId && typeof c['clockOffsetS'] === 'number').toArray());
-    const today = checks.filter((c) => localDay(String(c['at']), this.timeZone) === day).sort((a, b) => String(b['at']).localeCompare(String(a['at'])));
-    return today.length ? Number(today[0]['clockOffsetS']) : null;
+  private clockCheck(firstMs: number): Promise<number | null> {
+    return this.deviceDb.run((db) => dayClockCheck(db, this.data.siteId, this.data.analyzerId, firstMs, this.timeZone));
   }
 
   protected changeOffset(v: number): void {
@@ -183,12 +170,7 @@ export class LoggerImport {
   private resplit(): void {
     const read = this.read();
     if (!read || !this.ownSplit) return;
-    if (this.method() === 'taps') {
-      const windows = tapWindows(visitSlots(this.visits()), this.offsetS());
-      this.split.set(splitByTaps(read.samples, windows, medianStepS(read.samples) / 2));
-    } else {
-      this.split.set(this.ownSplit);
-    }
+    this.split.set(cutBy(this.method(), read.samples, this.ownSplit, visitSlots(this.visits()), this.offsetS()));
     this.assignments.set(defaultAssignments(this.matches()));
   }
 
@@ -200,66 +182,18 @@ export class LoggerImport {
     return assignmentValue(this.assignments()[pieceKey]);
   }
 
-  protected time(ms: number | null): string {
-    return ms === null ? '—' : new Date(ms).toLocaleTimeString();
-  }
-
-  protected tapTime(c: { [k: string]: unknown }): string {
-    return this.time(Date.parse(String(c['chamberOnAt'])));
-  }
-
   protected async apply(): Promise<void> {
-    const split = this.split()!;
-    const a = this.assignments();
-    const byId = new Map(this.visits().flatMap((v) => v.waiting.map((c) => [c.id, c] as const)));
-    const visitById = new Map(this.visits().map((v) => [v.visit.id, v.visit]));
-    const chosen = split.pieces.filter((p) => a[p.key] && a[p.key].kind !== 'none');
-    const shift = this.offsetS() * 1000;
-    const times = (p: (typeof chosen)[number]) => {
-      const m = this.matches().find((x) => x.pieceKey === p.key);
-      const tap = a[p.key].kind === 'closure' ? byId.get((a[p.key] as { closureId: string }).closureId) : null;
-      // Elapsed-time files carry no clock: the tap's time stands in for the start.
-      const start = p.startMs !== null ? p.startMs - shift : Date.parse(String(tap?.['chamberOnAt'] ?? new Date().toISOString()));
-      const series = pieceSeries(p, this.mapping);
-      const end = m?.correctedEndMs ?? start + 1000 * series.tS[series.tS.length - 1];
-      return { series, startedAt: new Date(start).toISOString(), endedAt: new Date(end).toISOString() };
-    };
-    // New closures first, so the file can name one of them as its owner.
-    const targets = new Map<string, string>();
-    for (const p of chosen) {
-      const x = a[p.key];
-      if (x.kind === 'closure') targets.set(p.key, x.closureId);
-    }
-    const pending: { key: string; visitId: string }[] = chosen.filter((p) => a[p.key].kind === 'new').map((p) => ({ key: p.key, visitId: (a[p.key] as { visitId: string }).visitId }));
-    const attachmentOwner = [...targets.values()][0];
-    let attachmentId: string | null = null;
-    if (attachmentOwner) attachmentId = await this.writes.keepFile(this.data.siteId, attachmentOwner, this.file!, this.file!.name);
-    const [siteRec, profiles] = pending.length ? await this.deviceDb.run((db) => Promise.all([
-      db.records('site').get(this.data.siteId),
-      db.records('chamberProfile').where('siteId').equals(this.data.siteId).filter((p) => !p.deleted).toArray(),
-    ])) : [undefined, []];
-    for (const n of pending) {
-      const v = visitById.get(n.visitId)!;
-      const t = times(split.pieces.find((x) => x.key === n.key)!);
-      const target = { siteId: this.data.siteId, campaignId: this.data.campaignId, collarId: String(v['collarId']), visitId: v.id, analyzerId: this.data.analyzerId,
-        profileId: this.data.profileId ?? null };
-      const rec = await this.writes.createFromPiece(target, siteRec ?? null, profiles, t.series, t.startedAt, t.endedAt, attachmentId);
-      if (!attachmentId) {
-        // No tapped closure to own the file: the first new closure owns it and then names it.
-        attachmentId = await this.writes.keepFile(this.data.siteId, rec.id, this.file!, this.file!.name);
-        await this.writes.saveSeries(rec, t.series, t.startedAt, t.endedAt, attachmentId);
-      }
-    }
-    for (const p of chosen) {
-      const closureId = targets.get(p.key);
-      if (!closureId) continue;
-      const t = times(p);
-      await this.writes.saveSeries(byId.get(closureId)!, t.series, t.startedAt, t.endedAt, attachmentId);
-    }
-    const left = split.pieces.length - chosen.length;
-    this.summary.set(`${chosen.length} closure${chosen.length === 1 ? '' : 's'} filled from ${this.file!.name}${left ? `; ${left} piece(s) left unassigned (kept in the file)` : ''}.`);
+    const { filled, left } = await this.writer.write(
+      { siteId: this.data.siteId, campaignId: this.data.campaignId, analyzerId: this.data.analyzerId, profileId: this.data.profileId ?? null },
+      { file: this.file!, fileName: this.file!.name, mapping: this.mapping, pieces: this.split()!.pieces, matches: this.matches(),
+        assignments: this.assignments(), visits: this.visits(), offsetS: this.offsetS() },
+    );
+    this.summary.set(`${counted(filled, 'closure')} filled from ${this.file!.name}${left ? `; ${counted(left, 'piece')} left unassigned (kept in the file)` : ''}.`);
     this.step.set('done');
   }
+
+  /** "1 closure", "2 closures": for the template. */
+  protected readonly counted = counted;
 
   protected close(): void {
     this.ref.close();
