@@ -123,6 +123,20 @@ export function splitByTaps(samples: readonly LoggerSample[], taps: readonly Tap
   return { method: 'taps', pieces, outside: Math.max(0, samples.length - inside) };
 }
 
+/**
+ * The taps first; a closure the file's own gaps show wholly outside every tap window (one the crew
+ * did not tap) is kept as a piece of its own for the crew to place, never dropped. A continuous log
+ * has no such gaps, so its open-chamber stretches between taps stay outside.
+ */
+export function splitByTapsKeepingUntapped(samples: readonly LoggerSample[], taps: readonly TapWindow[], slackS = 0, gapS?: number): SplitResult {
+  const byTaps = splitByTaps(samples, taps, slackS);
+  const slack = slackS * 1000;
+  const inWindow = (ms: number) => taps.some((t) => ms >= t.onMs - slack && ms <= t.offMs + slack);
+  const untapped = splitByGaps(samples, gapS).pieces.filter((p) => p.samples.every((x) => x.atMs !== null && !inWindow(x.atMs)));
+  const pieces = [...byTaps.pieces, ...untapped].sort((a, b) => a.firstLine - b.firstLine);
+  return { method: 'taps', pieces, outside: byTaps.outside - untapped.reduce((n, p) => n + p.samples.length, 0) };
+}
+
 /** The method the issue asks for: a closure-id column first, else taps (timestamp files only), else gaps. */
 export function splitClosures(samples: readonly LoggerSample[], opts: { taps?: readonly TapWindow[]; gapS?: number; slackS?: number } = {}): SplitResult {
   if (samples.some((s) => s.closureId !== null)) return splitByClosureId(samples);

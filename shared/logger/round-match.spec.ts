@@ -1,7 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { estimateClockOffset } from './clock-offset';
-import { splitClosures, type LoggerPiece } from './closure-split';
+import { splitByTapsKeepingUntapped, splitClosures, type LoggerPiece } from './closure-split';
 import { plainExportMapping } from './logger-mapping';
 import { readLoggerRows } from './logger-rows';
 import { guessLayout, splitRows } from './logger-text';
@@ -62,5 +62,31 @@ describe('one logger file matched to every collar of the round', () => {
     const visits = round().map((v) => ({ ...v, arrivedMs: v.arrivedMs + 3 * 3600_000, taps: v.taps.map((t) => ({ ...t, onMs: t.onMs + 3 * 3600_000, offMs: t.offMs! + 3 * 3600_000 })) }));
     const m = matchPiecesToVisits(roundPieces(), visits, { offsetS: 73 });
     expect(m.every((x) => x.status === 'unmatched' && x.visitId === null)).toBe(true);
+  });
+});
+
+describe('cutting a round file by the taps', () => {
+  const windows = (visits: VisitSlot[], offsetS: number) => visits.flatMap((v) => v.taps).map((t) => ({ key: t.key, onMs: t.onMs + offsetS * 1000, offMs: t.offMs! + offsetS * 1000 }));
+  const samples = () => roundPieces().flatMap((p) => p.samples);
+
+  it('when a closure in the file has no tap, then it is kept as a piece of its own (for the crew), the tapped ones are cut by their taps', () => {
+    const visits = round();
+    visits[1].taps.pop();
+    const cut = splitByTapsKeepingUntapped(samples(), windows(visits, 73), 1);
+    expect(cut.pieces.map((p) => [p.key, p.samples.length])).toEqual([['a1', 61], ['a2', 61], ['b1', 61], ['gap-4', 61]]);
+    expect(cut.outside).toBe(0);
+    const m = matchPiecesToVisits(cut.pieces, visits, { offsetS: 73 });
+    expect(m[3]).toMatchObject({ pieceKey: 'gap-4', status: 'matched', visitId: 'visit-B', tapKey: null, how: 'arrival' });
+  });
+
+  it('when the log runs on between closures, then the stretches between taps are not made into closures', () => {
+    const all = samples();
+    // One continuous log: the same samples with the pauses closed up, so no gap separates closures.
+    const t0 = all[0].atMs!;
+    const continuous = all.map((s, i) => ({ ...s, atMs: t0 + i * 2000 }));
+    const taps = [{ key: 'x', onMs: t0 + 10_000, offMs: t0 + 60_000 }];
+    const cut = splitByTapsKeepingUntapped(continuous, taps, 1);
+    expect(cut.pieces.map((p) => p.key)).toEqual(['x']);
+    expect(cut.outside).toBe(continuous.length - cut.pieces[0].samples.length);
   });
 });

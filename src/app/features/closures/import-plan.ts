@@ -1,5 +1,5 @@
 import {
-  estimateClockOffset, medianStepS, splitByTaps, splitClosures,
+  estimateClockOffset, medianStepS, splitByTapsKeepingUntapped, splitClosures,
   type LoggerPiece, type LoggerSample, type PieceMatch, type SplitMethod, type SplitResult, type TapWindow, type VisitSlot,
 } from '../../../../shared/logger';
 import type { FluxDb, LocalRecord } from '../../core/db/db-schema';
@@ -115,9 +115,9 @@ export function firstCut(samples: readonly LoggerSample[], slots: readonly Visit
   };
 }
 
-/** The pieces for a method and offset (the taps move with the offset). */
+/** The pieces for a method and offset (the taps move with the offset); closures without a tap are kept. */
 export function cutBy(method: SplitMethod, samples: readonly LoggerSample[], own: SplitResult, slots: readonly VisitSlot[], offsetS: number): SplitResult {
-  return method === 'taps' ? splitByTaps(samples, tapWindows(slots, offsetS), medianStepS(samples) / 2) : own;
+  return method === 'taps' ? splitByTapsKeepingUntapped(samples, tapWindows(slots, offsetS), medianStepS(samples) / 2) : own;
 }
 
 /** Where the column mapping of an analyzer is kept on this device (one preset per analyzer). */

@@ -50,6 +50,8 @@ export class RoundImport {
   /** Only what the crew or the matcher placed; an unplaced piece has no entry and blocks saving. */
   protected readonly assignments = signal<Record<string, Assignment>>({});
   protected readonly summary = signal('');
+  /** Lines the mapping could not read (left out, kept in the file). */
+  protected readonly unread = signal(0);
   protected timeZone = 'UTC';
   private siteId = '';
   private mapping: LoggerMapping | null = null;
@@ -96,6 +98,13 @@ export class RoundImport {
     this.progress.set(0);
     try {
       const read = await readLoggerFile(text, this.mapping, (x) => this.progress.set(x));
+      if (!read.samples.length && read.problems.length) {
+        // Our column names but another time format, say: the mapping has to be confirmed first.
+        this.error.set(`No line of ${f.name} could be read with the mapping kept for this analyzer (${read.problems[0].message})`);
+        this.step.set('unmapped');
+        return;
+      }
+      this.unread.set(read.problems.length);
       const visits = await this.deviceDb.run((db) => loadRoundVisits(db, c.campaignId!, c.round));
       const slots = visitSlots(visits);
       const timed = read.samples.length > 0 && read.samples.every((s) => s.atMs !== null);
@@ -110,7 +119,7 @@ export class RoundImport {
       this.pieces.set(split.pieces);
       this.matches.set(matches);
       this.assignments.set(start);
-      if (!split.pieces.length) this.error.set(`No closures found in ${f.name}${read.problems.length ? ` (${counted(read.problems.length, 'line')} could not be read)` : ''}`);
+      if (!split.pieces.length) this.error.set(`No closures found in ${f.name}`);
       this.step.set('review');
     } catch (err) {
       this.error.set(err instanceof Error ? err.message : String(err));
