@@ -10,6 +10,8 @@ import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
 import { TestBed } from '@angular/core/testing';
 import { MatButtonHarness } from '@angular/material/button/testing';
 import { MatCheckboxHarness } from '@angular/material/checkbox/testing';
+import { MatFormFieldHarness } from '@angular/material/form-field/testing';
+import { MatSelectHarness } from '@angular/material/select/testing';
 import { MAT_DIALOG_DATA, MatDialogRef } from '@angular/material/dialog';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -42,18 +44,16 @@ async function render() {
   const fixture = TestBed.createComponent(LoggerImport);
   const el = fixture.nativeElement as HTMLElement;
   const text = (sel: string) => el.querySelector(sel)?.textContent?.replace(/\s+/g, ' ').trim() ?? '';
-  const select = (label: string) => {
-    const l = [...el.querySelectorAll('label')].find((x) => x.firstChild?.textContent?.trim() === label);
-    if (!l) throw new Error(`no select labelled ${label}`);
-    return l.querySelector('select') as HTMLSelectElement;
+  const loader = TestbedHarnessEnvironment.loader(fixture);
+  const select = async (label: string) => {
+    const field = await loader.getHarness(MatFormFieldHarness.with({ floatingLabelText: label }));
+    return (await field.getControl(MatSelectHarness))!;
   };
-  const shown = (label: string) => select(label).selectedOptions[0]?.textContent?.trim();
-  const choose = (label: string, option: string) => {
-    const s = select(label);
-    const o = [...s.options].find((x) => x.textContent?.trim() === option);
-    if (!o) throw new Error(`no option ${option} for ${label}`);
-    s.value = o.value;
-    s.dispatchEvent(new Event('change'));
+  const shown = async (label: string) => (await select(label)).getValueText();
+  const choose = async (label: string, option: string) => {
+    const s = await select(label);
+    await s.open();
+    await s.clickOptions({ text: option });
   };
   const pick = async (content: string, name = 'day.csv') => {
     const input = await until(() => el.querySelector<HTMLInputElement>('input[type="file"]'), 'the file input');
@@ -62,26 +62,29 @@ async function render() {
     input.dispatchEvent(new Event('change'));
     await until(() => el.querySelector('[data-testid="layout"]'), 'the mapping step');
     // ngModel writes the selects' values on the next tick.
-    await until(() => shown('CO2 column') !== undefined && shown('Format') !== undefined, 'the mapping values');
+    await fixture.whenStable();
   };
-  return { fixture, el, text, shown, choose, pick, loader: TestbedHarnessEnvironment.loader(fixture) };
+  return { fixture, el, text, shown, choose, pick, loader };
 }
 
 describe('Logger import, mapping step', () => {
   afterEach(() => localStorage.clear());
 
   it('when a file with a preamble, ";" and decimal commas is chosen, then the layout and our plain column names are recognised and offered for confirmation', async () => {
-    const { text, shown, pick } = await render();
+    const { el, text, shown, pick } = await render();
     await pick(FILE);
     expect(text('[data-testid="layout"]')).toBe('Delimiter: ; · decimal comma · header on line 3');
-    expect(shown('Time column')).toBe('timestamp');
-    expect(shown('Time is')).toBe('a timestamp');
-    expect(shown('CO2 column')).toBe('co2_ppm');
-    expect(shown('CO2 unit')).toBe('µmol/mol (ppm)');
-    expect(shown('H2O column')).toBe('h2o_mmol_mol');
-    expect(shown('Pressure column')).toBe('pressure_kpa');
-    expect(shown('Chamber air temperature column')).toBe('temp_c');
-    expect(shown('Closure id column')).toBe('none (split by the taps, else by gaps)');
+    expect(await shown('Time column')).toBe('timestamp');
+    expect(await shown('Time is')).toBe('a timestamp');
+    expect(await shown('CO2 column')).toBe('co2_ppm');
+    expect(await shown('CO2 unit')).toBe('µmol/mol (ppm)');
+    expect(await shown('H2O column')).toBe('h2o_mmol_mol');
+    expect(await shown('Pressure column')).toBe('pressure_kpa');
+    expect(await shown('Chamber air temperature column')).toBe('temp_c');
+    expect(await shown('Closure id column')).toBe('none (split by the taps, else by gaps)');
+    // Every choice is a Material select (touch-sized), none a native dropdown.
+    expect(el.querySelectorAll('select')).toHaveLength(0);
+    expect(el.querySelectorAll('mat-select').length).toBeGreaterThanOrEqual(10);
   });
 
   it('when the timestamp format does not fit, then every line is reported; with the format the crew chooses, the file reads and the mapping is kept for the analyzer', async () => {
@@ -97,8 +100,8 @@ describe('Logger import, mapping step', () => {
 
     const { text, choose, shown, pick, loader } = await render();
     await pick(FILE);
-    choose('Format', 'DD.MM.YYYY HH:mm:ss');
-    choose('Pressure unit', 'hPa');
+    await choose('Format', 'DD.MM.YYYY HH:mm:ss');
+    await choose('Pressure unit', 'hPa');
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Read the file' }))).click();
     await until(() => text('[data-testid="read-summary"]'), 'the review step');
     expect(text('[data-testid="read-summary"]')).toBe(`${dataLines} samples in 1 closure (split by gaps)`);
@@ -110,8 +113,8 @@ describe('Logger import, mapping step', () => {
     // The same analyzer's next file opens with the remembered mapping.
     const again = await render();
     await again.pick(FILE);
-    expect(again.shown('Format')).toBe('DD.MM.YYYY HH:mm:ss');
-    expect(again.shown('Pressure unit')).toBe('hPa');
+    expect(await again.shown('Format')).toBe('DD.MM.YYYY HH:mm:ss');
+    expect(await again.shown('Pressure unit')).toBe('hPa');
   });
 });
 
@@ -120,7 +123,7 @@ describe('Logger import, a CO2 column that is already dry', () => {
   it('when the crew ticks "already dry", then the mapping kept for the analyzer says so', async () => {
     const { text, choose, pick, loader } = await render();
     await pick(FILE);
-    choose('Format', 'DD.MM.YYYY HH:mm:ss');
+    await choose('Format', 'DD.MM.YYYY HH:mm:ss');
     await (await loader.getHarness(MatCheckboxHarness.with({ selector: '[data-testid="co2-dry"]' }))).check();
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Read the file' }))).click();
     await until(() => text('[data-testid="read-summary"]'), 'the review step');
@@ -135,13 +138,13 @@ describe('Logger import, temperature columns', () => {
   it('when the file has the analyzer’s cell temperature and an unclear one, then neither is taken as chamber air: both are listed with their ranges and the crew chooses', async () => {
     const { text, shown, choose, pick } = await render();
     await pick('timestamp,co2_ppm,Cell_Temp,Temp\n2025-06-12 07:00:00,420.1,51.2,18.0\n2025-06-12 07:00:01,420.6,51.0,18.2\n2025-06-12 07:00:02,421.0,50.9,18.3\n');
-    expect(shown('Chamber air temperature column')).toBe('not in this file');
+    expect(await shown('Chamber air temperature column')).toBe('not in this file');
     const list = text('[data-testid="temp-columns"]');
     expect(list).toContain('Cell_Temp: 50.9 to 51.2 — looks like the analyzer’s own (cell or electronics) temperature, not the chamber air');
     expect(list).toContain('Temp: 18 to 18.3 — not clear which temperature this is');
     expect(list).toContain('the flux will use the visit\'s air temperature');
-    choose('Chamber air temperature column', 'Temp');
+    await choose('Chamber air temperature column', 'Temp');
     await until(() => !text('[data-testid="temp-columns"]').includes('No chamber air temperature chosen'), 'the choice');
-    expect(shown('Chamber air temperature column')).toBe('Temp');
+    expect(await shown('Chamber air temperature column')).toBe('Temp');
   });
 });

@@ -3,7 +3,10 @@ import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { MatSelectModule } from '@angular/material/select';
 import {
   CO2_UNITS, ELAPSED_UNITS, H2O_UNITS, PRESSURE_UNITS, TEMP_UNITS, TIMESTAMP_FORMATS, guessLayout, mappingFits,
   matchPiecesToVisits, savedMapping, suggestMapping, temperatureColumns, type TempColumn,
@@ -39,7 +42,7 @@ type Step = 'pick' | 'map' | 'parsing' | 'review' | 'done';
  */
 @Component({
   selector: 'fw-logger-import',
-  imports: [FormsModule, PieceCard, MatButtonModule, MatCheckboxModule, MatDialogModule, MatProgressBarModule],
+  imports: [FormsModule, PieceCard, MatButtonModule, MatCheckboxModule, MatDialogModule, MatFormFieldModule, MatInputModule, MatProgressBarModule, MatSelectModule],
   templateUrl: './logger-import.html',
   styleUrl: './logger-import.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
