@@ -146,20 +146,20 @@ describe('Closure capture in Chromium, offline, then synced', () => {
       const dialog = page.getByRole('dialog');
       await dialog.getByLabel('Logger file').setInputFiles(FIXTURE);
       await dialog.getByTestId('layout').filter({ hasText: 'Delimiter: , · decimal point · header on line 1' }).waitFor();
-      await dialog.getByLabel('Time column').selectOption({ label: 'timestamp' });
-      await dialog.getByLabel('Time is').selectOption({ label: 'a timestamp' });
-      await dialog.getByLabel('Format').selectOption({ label: 'YYYY-MM-DD HH:mm:ss' });
+      await choose(page, 'Time column', /^timestamp$/);
+      await choose(page, 'Time is', /^a timestamp$/);
+      await choose(page, 'Format', /^YYYY-MM-DD HH:mm:ss$/);
       await dialog.getByLabel('Time zone').fill('Europe/Berlin');
-      await dialog.getByLabel('CO2 column').selectOption({ label: 'co2_ppm' });
-      await dialog.getByLabel('CO2 unit').selectOption({ label: 'µmol/mol (ppm)' });
-      await dialog.getByLabel('H2O column').selectOption({ label: 'h2o_mmol_mol' });
-      await dialog.getByLabel('Pressure column').selectOption({ label: 'pressure_kpa' });
-      await dialog.getByLabel('Pressure unit').selectOption({ label: 'kPa' });
-      await dialog.getByLabel('Chamber air temperature column').selectOption({ label: 'temp_c' });
+      await choose(page, 'CO2 column', /^co2_ppm$/);
+      await choose(page, 'CO2 unit', /^µmol\/mol \(ppm\)$/);
+      await choose(page, 'H2O column', /^h2o_mmol_mol$/);
+      await choose(page, 'Pressure column', /^pressure_kpa$/);
+      await choose(page, 'Pressure unit', /^kPa$/);
+      await choose(page, 'Chamber air temperature column', /^temp_c$/);
       await dialog.getByRole('button', { name: 'Read the file' }).click();
       await dialog.getByTestId('read-summary').waitFor();
       expect((await dialog.getByTestId('read-summary').innerText()).trim()).toBe('244 samples in 4 closures (split by taps)');
-      expect(await dialog.getByTestId('split-method').inputValue()).toBe('taps');
+      expect((await dialog.getByTestId('split-method').innerText()).trim()).toBe('by the chamber taps (moved by the clock offset)');
       const offset = Number(await dialog.getByTestId('clock-offset').inputValue());
       // The taps land a few milliseconds after the clock was set: within half a second of 73 s.
       expect(Math.abs(offset - OFFSET_S)).toBeLessThanOrEqual(0.5);
@@ -270,6 +270,66 @@ describe('Closure capture in Chromium, offline, then synced', () => {
       const chunks: Buffer[] = [];
       for await (const chunk of object.body) chunks.push(Buffer.from(chunk as Uint8Array));
       expect(sha256(Buffer.concat(chunks))).toBe(sha256(fileBytes));
+    });
+  });
+  it('when the crew taps at two more collars and imports the day\'s file once from the route, then one confirm fills every tapped closure of both collars with one attachment', async () => {
+    await browser?.close();
+    browser = await launchBrowser();
+    const { page } = browser;
+    await page.setViewportSize({ width: 390, height: 844 });
+    await withScreenshotOnFailure(page, 'round-import', async () => {
+      const user = (await signInAs(page, server.baseUrl, 'crew')) as unknown as { id: string };
+      await waitForFirstSync(page);
+      await page.clock.install({ time: new Date('2026-12-03T08:20:00Z') });
+      await page.clock.resume();
+      await page.goto(`${server.baseUrl}/walk/start`, { waitUntil: 'load' });
+      await page.getByRole('heading', { name: 'Start of day' }).waitFor();
+      await choose(page, 'Analyzer', /.+/);
+      await page.getByRole('link', { name: 'To the route' }).click();
+      await page.getByTestId('route-list').waitFor();
+      await choose(page, 'Round', 'Round 2');
+      const codes = (await page.locator('[data-testid^="route-collar-"] .code').allInnerTexts()).map((c) => c.trim());
+      const [, , collarC, collarD] = codes;
+      await page.getByTestId(`route-collar-${collarC}`).click();
+      await page.getByTestId('visit-code').filter({ hasText: collarC }).waitFor();
+      for (const [i, v] of ['2.0', '2.1', '1.9', '2.0'].entries()) await page.getByTestId(`offset-${i + 1}`).fill(v);
+      await page.getByRole('button', { name: 'Save offset set' }).click();
+      await page.getByTestId('offset-saved').waitFor();
+      await tapClosure(page, TAPS[0]);
+      await tapClosure(page, TAPS[1]);
+      await page.clock.setSystemTime(new Date('2026-12-03T08:52:00Z'));
+      await openCollar(page, collarD);
+      for (const [i, v] of ['1.6', '1.7', '1.5', '1.6'].entries()) await page.getByTestId(`offset-${i + 1}`).fill(v);
+      await page.getByRole('button', { name: 'Save offset set' }).click();
+      await page.getByTestId('offset-saved').waitFor();
+      await tapClosure(page, TAPS[2]);
+      await tapClosure(page, TAPS[3]);
+      await page.clock.setSystemTime(new Date('2026-12-03T09:03:00Z'));
+
+      // From the route: one link, the file, one confirm (the plain export needs no mapping).
+      await page.getByRole('link', { name: 'Back to the route' }).click();
+      let taps = 0;
+      await page.getByTestId('round-import-link').click();
+      taps++;
+      await page.getByLabel('Logger file').setInputFiles(FIXTURE);
+      taps++;
+      await page.getByTestId('round-summary').waitFor();
+      expect((await page.getByTestId('round-summary').innerText()).trim()).toBe('4 closures of 4 closures in walk-two-collars.csv matched to 2 collars\' taps.');
+      await page.getByRole('button', { name: 'Save 4 closures' }).click();
+      taps++;
+      expect((await page.getByTestId('import-done').innerText()).trim()).toBe('4 closures filled from walk-two-collars.csv.');
+      expect(taps).toBe(3);
+      // Nothing on the screen is wider than the phone.
+      expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
+
+      await syncNow(page);
+      await waitForSyncLabel(page, /^Up to date$/, 60_000);
+      const rows = await query<{ code: string; source_attachment_id: string | null; n: number }>(
+        `SELECT k.code, c.source_attachment_id, jsonb_array_length(c.series->'tS') AS n FROM closure c JOIN collar k ON k.id = c.collar_id
+          JOIN visit v ON v.id = c.visit_id WHERE v.crew_id = $1 AND v.round = 2 AND k.code = ANY($2) ORDER BY c.chamber_on_at`, [user.id, [collarC, collarD]]);
+      expect(rows.map((r) => [r.code, r.n])).toEqual([[collarC, 61], [collarC, 61], [collarD, 61], [collarD, 61]]);
+      expect(new Set(rows.map((r) => r.source_attachment_id)).size).toBe(1);
+      expect(rows[0].source_attachment_id).not.toBeNull();
     });
   });
 });
