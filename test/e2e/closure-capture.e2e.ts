@@ -314,7 +314,7 @@ describe('Closure capture in Chromium, offline, then synced', () => {
       await page.getByLabel('Logger file').setInputFiles(FIXTURE);
       taps++;
       await page.getByTestId('round-summary').waitFor();
-      expect((await page.getByTestId('round-summary').innerText()).trim()).toBe('4 closures of 4 closures in walk-two-collars.csv matched to 2 collars\' taps.');
+      expect((await page.getByTestId('round-summary').innerText()).trim()).toBe('4 closures of 4 closures in walk-two-collars.csv matched to their taps at 2 collars.');
       await page.getByRole('button', { name: 'Save 4 closures' }).click();
       taps++;
       expect((await page.getByTestId('import-done').innerText()).trim()).toBe('4 closures filled from walk-two-collars.csv.');

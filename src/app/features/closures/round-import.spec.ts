@@ -83,7 +83,7 @@ describe('Round import: one logger file for every collar of the round', () => {
     const { db, text, pick, save, tap, taps } = await render();
     await pick(ROUND_FILE);
     await until(() => text('[data-testid="round-summary"]'), 'the review');
-    expect(text('[data-testid="round-summary"]')).toBe('4 closures of 4 closures in round.csv matched to 2 collars\' taps.');
+    expect(text('[data-testid="round-summary"]')).toBe('4 closures of 4 closures in round.csv matched to their taps at 2 collars.');
     expect(text('[data-testid="unplaced"]')).toBe('');
     const button = await save();
     expect(await button.getText()).toBe('Save 4 closures');
@@ -146,7 +146,7 @@ describe('Round import: one logger file for every collar of the round', () => {
     await until(() => again.text('[data-testid="round-summary"]'), 'the review');
     expect(again.text('[data-testid="unmapped"]')).toBe('');
     // The file is of another day: its one closure matches no tap of this round and waits for the crew.
-    expect(again.text('[data-testid="round-summary"]')).toBe('0 closures of 1 closure in day.csv matched to 2 collars\' taps.');
+    expect(again.text('[data-testid="round-summary"]')).toBe('0 closures of 1 closure in day.csv matched to their taps at 2 collars.');
     expect(again.text('[data-testid="taps-without"] h2')).toBe('Taps with no closure in this file (4)');
   });
 });
