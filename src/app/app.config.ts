@@ -8,7 +8,7 @@ import {
   provideZonelessChangeDetection,
 } from '@angular/core';
 import { MatIconRegistry } from '@angular/material/icon';
-import { provideRouter, withComponentInputBinding } from '@angular/router';
+import { provideRouter, withComponentInputBinding, withInMemoryScrolling } from '@angular/router';
 import { provideServiceWorker } from '@angular/service-worker';
 import { routes } from './app.routes';
 import { apiInterceptor } from './core/api/api-interceptor';
@@ -19,7 +19,8 @@ export const appConfig: ApplicationConfig = {
   providers: [
     provideBrowserGlobalErrorListeners(),
     provideZonelessChangeDetection(),
-    provideRouter(routes, withComponentInputBinding()),
+    // A new screen (the next collar, too) opens at its top; Back returns to where the user was.
+    provideRouter(routes, withComponentInputBinding(), withInMemoryScrolling({ scrollPositionRestoration: 'enabled' })),
     provideHttpClient(withInterceptors([apiInterceptor])),
     // The worker is registered at once (not "when stable"): a zoneless field app may never be
     // idle for long, and the first online visit must leave the shell cached for the offline start.

@@ -125,7 +125,6 @@ describe('Closure capture in Chromium, offline, then synced', () => {
       await page.getByTestId(`route-collar-${collarA}`).click();
       await page.getByTestId('visit-code').filter({ hasText: collarA }).waitFor();
       for (const [i, v] of ['2.0', '2.1', '1.9', '2.0'].entries()) await page.getByTestId(`offset-${i + 1}`).fill(v);
-      await page.getByRole('button', { name: 'Save offset set' }).click();
       await page.getByTestId('offset-saved').waitFor();
       await tapClosure(page, TAPS[0]);
       await tapClosure(page, TAPS[1]);
@@ -135,7 +134,6 @@ describe('Closure capture in Chromium, offline, then synced', () => {
       await page.clock.setSystemTime(new Date('2026-12-03T08:52:00Z'));
       await openCollar(page, collarB);
       for (const [i, v] of ['1.6', '1.7', '1.5', '1.6'].entries()) await page.getByTestId(`offset-${i + 1}`).fill(v);
-      await page.getByRole('button', { name: 'Save offset set' }).click();
       await page.getByTestId('offset-saved').waitFor();
       await tapClosure(page, TAPS[2]);
       await tapClosure(page, TAPS[3]);
@@ -187,7 +185,7 @@ describe('Closure capture in Chromium, offline, then synced', () => {
 
       // Redo the flagged closure: a new closure at the same visit, its short series typed in.
       await page.clock.setSystemTime(new Date('2026-12-03T09:10:00Z'));
-      await page.locator(`[data-closure="${atA[1].id}"]`).getByRole('button', { name: 'Redo this closure' }).click();
+      await page.locator(`[data-closure="${atA[1].id}"]`).getByRole('button', { name: 'Redo' }).click();
       const panel = page.getByRole('region', { name: 'Closures at this visit' });
       await panel.getByRole('button', { name: 'Chamber off' }).waitFor();
       await page.clock.setSystemTime(new Date('2026-12-03T09:12:00Z'));

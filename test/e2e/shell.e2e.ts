@@ -117,10 +117,10 @@ describe('App shell in Chromium', () => {
       await page.getByRole('menuitem', { name: 'Refresh account and sites' }).click();
       expect((await failed).url()).toContain('/api/auth/me');
 
-      await page.getByTestId('connection-status').waitFor();
-      expect(await page.getByTestId('connection-status').innerText()).toContain('Offline');
-      // The snackbar (Material keeps a second copy for screen readers, hence first()).
-      await page.getByText('Offline — the server cannot be reached').first().waitFor();
+      // Said once: the sync chip's status; no second badge and no snackbar over the screen.
+      await page.getByTestId('sync-label').filter({ hasText: /^Offline/ }).waitFor();
+      expect(await page.getByText(/Offline/).count()).toBe(1);
+      expect(await page.locator('mat-snack-bar-container').count()).toBe(0);
       expect(await page.getByRole('dialog').count()).toBe(0);
       expect(await page.getByRole('alertdialog').count()).toBe(0);
       // The screen the user was on stays.

@@ -16,7 +16,7 @@ export interface Browser {
  * context is what lets the service worker and storage behave as in a real install
  * (`launch()` refuses --user-data-dir).
  */
-export async function launchBrowser(): Promise<Browser> {
+export async function launchBrowser(options: { hasTouch?: boolean } = {}): Promise<Browser> {
   const profile = mkdtempSync(path.join(tmpdir(), 'fw-e2e-'));
   const context = await chromium.launchPersistentContext(profile, {
     executablePath: process.env['CHROMIUM_PATH'] ?? '/usr/bin/chromium',
@@ -24,6 +24,7 @@ export async function launchBrowser(): Promise<Browser> {
     viewport: { width: 1000, height: 760 },
     // As a user who asks for less motion: nothing is caught mid-fade when axe or a screenshot looks.
     reducedMotion: 'reduce',
+    hasTouch: options.hasTouch ?? false,
     args: [
       '--headless',
       '--no-sandbox',

@@ -7,7 +7,10 @@ import type { ClosureSeries } from './closure-writes';
 import { FlagAdviceList } from './flag-advice-list';
 import { SpotChart } from './spot-chart';
 
-/** One closure at the visit: its chart, the flux with flags computed here, and a large Redo. */
+/**
+ * One closure at the visit: its chart, the flux with flags computed here, and a Redo that is
+ * offered only once no closure runs (a tap meant for "chamber off" never lands on it).
+ */
 @Component({
   selector: 'fw-closure-card',
   imports: [DecimalPipe, MatButtonModule, SpotChart, FlagAdviceList],
@@ -17,7 +20,13 @@ import { SpotChart } from './spot-chart';
         <strong>Closure {{ index() + 1 }}</strong>
         @if (closure()['redoOfId']) { <span class="tag">redo</span> }
         <span class="when">on {{ time(closure()['chamberOnAt']) }} · off {{ time(closure()['chamberOffAt']) }}</span>
+        @if (!running()) {
+          <button mat-stroked-button class="redo-button" type="button" (click)="redo.emit(closure())">Redo</button>
+        }
       </header>
+      @if (!closure()['analyzerId']) {
+        <p class="no-analyzer" role="note" data-testid="no-analyzer">No analyzer named for this closure: its precision and flags cannot be checked. Name the day's analyzer before the next closure.</p>
+      }
       @if (spot(); as s) {
         @if (s.fit.selected; as sel) {
           <p class="flux" data-testid="spot-flux">{{ sel.fluxUmolM2S | number: '1.2-2' }} µmol m⁻² s⁻¹
@@ -36,7 +45,6 @@ import { SpotChart } from './spot-chart';
       @if (previous().length) {
         <p class="previous">This collar before: @for (p of previous(); track p.id) { <span>{{ p.fluxUmolM2S | number: '1.2-2' }} ({{ p.startedAt.slice(0, 10) }})</span> }</p>
       }
-      <button mat-flat-button class="redo-button" type="button" (click)="redo.emit(closure())">Redo this closure</button>
     </article>
   `,
   styles: [`
@@ -45,7 +53,8 @@ import { SpotChart } from './spot-chart';
     .tag { background: #fff3e0; padding: 0 6px; border-radius: 4px; }
     .when { color: var(--mat-sys-on-surface-variant, #555); font-size: 0.9em; }
     .flux { font-size: 1.3em; margin: 8px 0 4px; }
-    .redo-button { width: 100%; min-height: 56px; font-size: 1.1em; margin-top: 8px; }
+    .redo-button { margin-left: auto; min-height: 48px; }
+    .no-analyzer { border: 2px solid var(--mat-sys-error, #b3261e); border-radius: 6px; padding: 4px 8px; font-weight: 600; }
     .previous span { margin-right: 8px; }
   `],
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -55,6 +64,8 @@ export class ClosureCard {
   readonly index = input(0);
   readonly inputs = input.required<SpotInputs>();
   readonly previous = input<{ id: string; startedAt: string; fluxUmolM2S: number }[]>([]);
+  /** A closure runs at this visit: no Redo is offered until it ends. */
+  readonly running = input(false);
   readonly redo = output<LocalRecord>();
 
   protected readonly spot = computed(() => fluxOnTheSpot(this.closure(), this.inputs()));
@@ -62,6 +73,7 @@ export class ClosureCard {
   protected readonly settleS = computed(() => Number(this.closure()['settleS']));
 
   protected time(v: unknown): string {
-    return typeof v === 'string' ? new Date(v).toLocaleTimeString() : '—';
+    const timeZone = String(this.inputs().site?.['timezone'] ?? 'UTC');
+    return typeof v === 'string' ? new Date(v).toLocaleTimeString('en-GB', { timeZone, hour: '2-digit', minute: '2-digit', second: '2-digit' }) : '—';
   }
 }

@@ -6,6 +6,7 @@ import { provideHttpClientTesting } from '@angular/common/http/testing';
 import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
 import { Component } from '@angular/core';
 import { TestBed } from '@angular/core/testing';
+import { provideRouter } from '@angular/router';
 import { MatButtonHarness } from '@angular/material/button/testing';
 import type { FluxDb, LocalRecord } from '../../core/db/db-schema';
 import { DeviceDb } from '../../core/db/device-db';
@@ -33,13 +34,13 @@ class ChartStandIn {
 }
 Component({ selector: 'fw-spot-chart', template: '', inputs: ['data'] })(ChartStandIn);
 
-async function render(extra: (db: FluxDb) => Promise<void> = async () => undefined) {
+async function render(extra: (db: FluxDb) => Promise<void> = async () => undefined, chooseAnalyzer = true) {
   const userId = `0000000${++userNo}-0000-4000-8000-00000000000c`.slice(-36);
   localStorage.setItem('fw.session', JSON.stringify({
     user: { id: userId, email: 'crew@fluxwalk.example', displayName: 'Crew', roles: ['crew'], siteIds: [SITE] },
     sites: [{ id: SITE, name: 'Test site' }],
   }));
-  TestBed.configureTestingModule({ providers: [provideHttpClient(), provideHttpClientTesting()] });
+  TestBed.configureTestingModule({ providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([])] });
   TestBed.overrideComponent(ClosureCard, { remove: { imports: [SpotChart] }, add: { imports: [ChartStandIn] } });
   const db: FluxDb = await until(() => TestBed.inject(DeviceDb).db(), 'the database');
   await db.records('site').put({ id: SITE, rev: 1, name: 'Test site', timezone: 'Europe/Berlin', elevationM: 420, ambientMarginPpm: 100, defaultProfileId: PROFILE });
@@ -51,7 +52,7 @@ async function render(extra: (db: FluxDb) => Promise<void> = async () => undefin
   await db.records('visit').put(visit);
   await db.records('offsetSet').put({ id: 'o1', rev: 1, siteId: SITE, visitId: VISIT, collarId: COLLAR, campaignId: CAMPAIGN, takenAt: '2025-06-12T06:58:00.000Z', readingsCm: [2, 2, 2, 2] });
   await extra(db);
-  TestBed.inject(WalkContext).update({ analyzerId: ANALYZER });
+  if (chooseAnalyzer) TestBed.inject(WalkContext).update({ analyzerId: ANALYZER });
   const fixture = TestBed.createComponent(ClosurePanel);
   fixture.componentRef.setInput('siteId', SITE);
   fixture.componentRef.setInput('campaignId', CAMPAIGN);
@@ -124,7 +125,11 @@ describe('Closure panel', () => {
     expect((await until(() => el.querySelector(`[data-closure="${redo.id}"] .tag`), 'the redo card')).textContent).toBe('redo');
     // The redone closure is replaced by its redo: still one counted.
     expect(text('[data-testid="closure-count"]')).toBe('1 of 2 closures due');
+    // While the redo runs no Redo is offered anywhere: the tap for "Chamber off" cannot land on one.
+    expect(await loader.getAllHarnesses(MatButtonHarness.with({ text: 'Redo' }))).toHaveLength(0);
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Chamber off' }))).click();
+    await until(() => loader.getHarnessOrNull(MatButtonHarness.with({ text: 'Chamber on' })), 'the on button again');
+    expect(await loader.getAllHarnesses(MatButtonHarness.with({ text: 'Redo' }))).toHaveLength(2);
 
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Enter the series by hand' }))).click();
     await until(() => el.querySelector('textarea[name="manual"]'), 'the form');
@@ -158,5 +163,38 @@ describe('Closure panel', () => {
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Chamber on' }))).click();
     const [open] = await until(async () => { const l = await closuresOf(db); return l.length ? l : null; }, 'the closure');
     expect(open).toMatchObject({ profileId: TALL_NEW, analyzerId: ANALYZER, settleS: 35 });
+  });
+
+  it('when no analyzer was chosen today, then no closure can start: the bar asks for one (last used first) and one tap starts the day', async () => {
+    const second = '99999999-9999-4999-8999-999999999999';
+    const { db, text, loader } = await render(async (d) => {
+      await d.records('analyzer').put({ id: second, rev: 1, siteId: SITE, name: 'B2', precisionPpm: 0.5 });
+    }, false);
+    // Yesterday's analyzer is the last used, but it is not today's.
+    TestBed.inject(WalkContext).update({ analyzerId: ANALYZER, kitAt: new Date(Date.now() - 2 * 86_400_000).toISOString() });
+    await until(() => text('[data-testid="day-kit-gate"]'), 'the gate');
+    expect(text('[data-testid="day-kit-gate"]')).toMatch(/^Which analyzer today\? .*\)\.\s*A1 \(last used\)\s*B2\s*Start of day$/);
+    expect(await loader.getAllHarnesses(MatButtonHarness.with({ text: 'Chamber on' }))).toHaveLength(0);
+    expect(await closuresOf(db)).toHaveLength(0);
+
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'B2' }))).click();
+    await (await until(() => loader.getHarnessOrNull(MatButtonHarness.with({ text: 'Chamber on' })), 'the on button')).click();
+    await until(async () => (await closuresOf(db)).length === 1, 'the closure');
+    expect((await closuresOf(db))[0]).toMatchObject({ analyzerId: second, profileId: PROFILE });
+    expect(text('[data-testid="day-kit"]')).toBe('Today: B2 · Dark 20, 120 s closures');
+  });
+
+  it('when a closure was stored without an analyzer, then its card says so instead of "no flags"', async () => {
+    const tS = [0, 10, 20, 30, 40, 50, 60, 70, 80, 90, 100];
+    const { text } = await render(async (d) => {
+      await d.records('closure').put({
+        id: FIRST, rev: 1, siteId: SITE, visitId: VISIT, collarId: COLLAR, campaignId: CAMPAIGN, profileId: PROFILE, analyzerId: null,
+        startedAt: '2025-06-12T07:00:00.000Z', chamberOnAt: '2025-06-12T07:00:00.000Z', chamberOffAt: '2025-06-12T07:02:00.000Z', settleS: 20,
+        series: { tS, co2Ppm: tS.map((t) => 420 + 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20) },
+      });
+    });
+    await until(() => text('[data-testid="no-analyzer"]'), 'the warning');
+    expect(text('[data-testid="no-analyzer"]')).toContain('No analyzer named for this closure');
+    expect(text('[data-testid="spot-flags"]')).not.toContain('no flags');
   });
 });

@@ -5,20 +5,26 @@ import { MatDialog } from '@angular/material/dialog';
 import type { LocalRecord } from '../../core/db/db-schema';
 import { WalkContext } from '../walk/walk-context';
 import { VisitWrites } from '../walk/visit-writes';
+import { RouterLink } from '@angular/router';
 import { ClosureCard } from './closure-card';
+import { ClosureTimer, clockText } from './closure-timer';
+import { dayKit } from './day-kit';
 import { closureScene } from './closure-store';
 import { ClosureWrites } from './closure-writes';
 import { LoggerImport, type LoggerImportData } from './logger-import';
 import { readManualSeries } from './manual-series';
 
 /**
- * Closures at one visit: big "chamber on" / "chamber off" taps (the phone's time; several
- * closures per visit), the due count, each closure with its flux on the spot and a Redo, the
- * logger file import, and a short series by hand when there is no file.
+ * Closures at one visit. A bar fixed to the bottom of the screen holds what the crew needs with
+ * the chamber on: the big "chamber on" / "chamber off" tap (the phone's time), the elapsed time
+ * against the profile's closure length, and "Next collar". A closure starts only with today's
+ * analyzer and chamber profile, each chosen in one tap. Below: the due count, each closure with
+ * its flux on the spot and a Redo (never beside a running closure), the logger file import, and a
+ * short series by hand when there is no file.
  */
 @Component({
   selector: 'fw-closure-panel',
-  imports: [FormsModule, MatButtonModule, ClosureCard],
+  imports: [FormsModule, MatButtonModule, RouterLink, ClosureCard, ClosureTimer],
   templateUrl: './closure-panel.html',
   styleUrl: './closure-panel.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -34,6 +40,8 @@ export class ClosurePanel {
   readonly round = input.required<number>();
   readonly collarId = input.required<string>();
   readonly visit = input<LocalRecord | null>(null);
+  /** The next due collar on the route, for the bar's "Next collar". */
+  readonly next = input<{ id: string; code: string } | null>(null);
 
   protected readonly scene = closureScene(() => ({ collarId: this.collarId(), campaignId: this.campaignId(), visitId: this.visit()?.id ?? null, analyzerId: this.walk.choice().analyzerId }));
   protected readonly list = computed(() => this.scene()?.closures ?? []);
@@ -41,6 +49,15 @@ export class ClosurePanel {
   /** A redone closure is replaced by its redo, so it does not count twice toward the due closures. */
   protected readonly counted = computed(() => this.list().filter((c) => !this.list().some((o) => o['redoOfId'] === c.id)).length);
   protected readonly due = computed(() => this.scene()?.dueClosures ?? 1);
+  protected readonly kit = computed(() => {
+    const s = this.scene();
+    const c = this.walk.choice();
+    if (!s) return null;
+    return dayKit({ analyzerId: c.analyzerId, kitAt: c.kitAt, profileId: c.profileId, site: s.inputs.site, analyzers: s.analyzers, profiles: s.inputs.profiles });
+  });
+  protected readonly lastAnalyzerId = computed(() => this.walk.choice().analyzerId);
+  protected readonly targetS = computed(() => Number(this.kit()?.profile?.['closureLengthS'] ?? 120));
+  protected readonly targetLabel = computed(() => clockText(this.targetS()));
   protected readonly message = signal('');
   protected readonly manualFor = signal<string | null>(null);
   protected manualText = '';
@@ -58,8 +75,12 @@ export class ClosurePanel {
     if (this.busy) return;
     this.busy = true;
     try {
-      const s = this.scene();
-      await this.closures.chamberOn(await this.target(), s?.inputs.site ?? null, s?.inputs.profiles ?? [], redoOf);
+      const kit = this.kit();
+      if (!kit || kit.missing) {
+        this.message.set(kit?.missing ?? 'Loading the day\'s analyzer and chamber…');
+        return;
+      }
+      await this.closures.chamberOn({ ...(await this.target()), analyzerId: kit.analyzer!.id }, kit.profile, redoOf);
       this.message.set(redoOf ? 'Redo started: chamber on' : 'Chamber on');
     } catch (err) {
       this.message.set(err instanceof Error ? err.message : String(err));
@@ -73,6 +94,17 @@ export class ClosurePanel {
     if (!c) return;
     await this.closures.chamberOff(c);
     this.message.set('Chamber off');
+  }
+
+  protected pickAnalyzer(id: string): void {
+    this.walk.update({ analyzerId: id, kitAt: new Date().toISOString() });
+    this.message.set('');
+  }
+
+  protected pickProfile(name: string): void {
+    const version = this.scene()?.inputs.profiles.find((p) => p['name'] === name);
+    if (version) this.walk.update({ profileId: version.id });
+    this.message.set('');
   }
 
   protected openImport(): void {

@@ -12,6 +12,8 @@ export interface ClosureScene {
   previous: { id: string; startedAt: string; fluxUmolM2S: number }[];
   /** Closures the campaign asks for at each visit. */
   dueClosures: number;
+  /** The site's analyzers (for today's choice). */
+  analyzers: LocalRecord[];
 }
 
 const live = (r: LocalRecord) => !r.deleted;
@@ -26,17 +28,18 @@ export async function loadScene(db: FluxDb, p: { collarId: string; campaignId: s
   const collar = await db.records('collar').get(p.collarId);
   if (!collar) return null;
   const siteId = String(collar['siteId']);
-  const [site, profiles, sets, closures, analyzer, campaign, checks, visit] = await Promise.all([
+  const [site, profiles, sets, closures, analyzers, campaign, checks, visit] = await Promise.all([
     db.records('site').get(siteId),
     db.records('chamberProfile').where('siteId').equals(siteId).filter(live).toArray(),
     db.records('offsetSet').where('collarId').equals(p.collarId).filter(live).toArray(),
     db.records('closure').where('collarId').equals(p.collarId).filter(live).toArray(),
-    p.analyzerId ? db.records('analyzer').get(p.analyzerId) : Promise.resolve(undefined),
+    db.records('analyzer').where('siteId').equals(siteId).filter(live).toArray(),
     p.campaignId ? db.records('campaign').get(p.campaignId) : Promise.resolve(undefined),
     db.records('analyzerCheck').where('siteId').equals(siteId).filter((c) => c['kind'] === 'ambient').toArray(),
     p.visitId ? db.records('visit').get(p.visitId) : Promise.resolve(undefined),
   ]);
   const air = (visit?.['conditions'] as { airTempC?: unknown } | undefined)?.airTempC;
+  const analyzer = analyzers.find((a) => a.id === p.analyzerId);
   const superseded = new Set(sets.map((s) => s['supersedesId']).filter(Boolean));
   const here = closures.filter((c) => p.visitId !== null && c['visitId'] === p.visitId)
     .sort((a, b) => String(a['chamberOnAt'] ?? a['startedAt']).localeCompare(String(b['chamberOnAt'] ?? b['startedAt'])));
@@ -47,6 +50,7 @@ export async function loadScene(db: FluxDb, p: { collarId: string; campaignId: s
     closures: here,
     previous,
     dueClosures: Number(campaign?.['dueClosures'] ?? 1),
+    analyzers,
     inputs: {
       site: site ?? null, collar, profiles, offsetSets: sets.filter((s) => !superseded.has(s.id)), analyzer: analyzer ?? null,
       ambientChecks: ambientChecks(checks), visitAirTempC: typeof air === 'number' ? air : null,

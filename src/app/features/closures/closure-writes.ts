@@ -46,13 +46,15 @@ export class ClosureWrites {
     return chosen.ok ? profiles.find((p) => p.id === chosen.profile.id) ?? null : null;
   }
 
-  async chamberOn(t: ClosureTarget, site: LocalRecord | null, profiles: LocalRecord[], redoOf: LocalRecord | null = null, now = new Date()): Promise<LocalRecord> {
-    const profile = this.profileFor(t, site, profiles, now.toISOString());
+  /** A closure starts only with today's analyzer and chamber profile (see dayKit), so no closure is stored without them. */
+  async chamberOn(t: ClosureTarget, profile: LocalRecord | null, redoOf: LocalRecord | null = null, now = new Date()): Promise<LocalRecord> {
+    if (!t.analyzerId) throw new Error('Choose today\'s analyzer before a closure.');
+    if (!profile) throw new Error('Choose today\'s chamber profile before a closure.');
     const at = now.toISOString();
     const fields = validated('closure', {
       siteId: t.siteId, visitId: t.visitId, collarId: t.collarId, campaignId: t.campaignId,
-      profileId: profile?.id ?? null, analyzerId: t.analyzerId, startedAt: at, chamberOnAt: at,
-      settleS: Number(profile?.['settleS'] ?? TYPICAL_SETTLE_TIME_S), series: EMPTY_SERIES, redoOfId: redoOf?.id ?? null,
+      profileId: profile.id, analyzerId: t.analyzerId, startedAt: at, chamberOnAt: at,
+      settleS: Number(profile['settleS'] ?? TYPICAL_SETTLE_TIME_S), series: EMPTY_SERIES, redoOfId: redoOf?.id ?? null,
     });
     return this.writes.create('closure', fields);
   }

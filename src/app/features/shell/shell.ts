@@ -3,7 +3,6 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { MatToolbarModule } from '@angular/material/toolbar';
 import { RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
-import { ConnectionStatus } from '../../core/api/connection-status';
 import { AuthStore } from '../../core/auth/auth-store';
 import { destinationsFor } from '../../core/auth/destinations';
 import { SiteChoice } from '../../core/auth/site-choice';
@@ -33,7 +32,6 @@ import { UserMenu } from './user-menu';
 })
 export class Shell implements OnInit {
   private readonly auth = inject(AuthStore);
-  protected readonly connection = inject(ConnectionStatus);
   protected readonly site = inject(SiteChoice).current;
   protected readonly destinations = computed(() => destinationsFor(this.auth.roles()));
   protected readonly deviceDb = inject(DeviceDb);

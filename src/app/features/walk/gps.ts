@@ -21,20 +21,12 @@ export class Gps {
   readonly error = this.problem.asReadonly();
   private watchId: number | null = null;
   private users = 0;
+  private permissionWatched = false;
 
   /** Starts watching; call the returned function to stop (the watch ends when no screen wants it). */
   watch(): () => void {
     this.users++;
-    if (this.watchId === null && typeof navigator !== 'undefined' && navigator.geolocation) {
-      this.watchId = navigator.geolocation.watchPosition(
-        (p) => {
-          this.problem.set('');
-          this.last.set({ latitude: p.coords.latitude, longitude: p.coords.longitude, accuracyM: p.coords.accuracy, at: p.timestamp });
-        },
-        (e) => this.problem.set(e.code === e.PERMISSION_DENIED ? 'Location is blocked for Fluxwalk' : 'No position yet'),
-        { enableHighAccuracy: true, maximumAge: 5000, timeout: 30000 },
-      );
-    }
+    this.start();
     return () => {
       this.users--;
       if (this.users <= 0 && this.watchId !== null) {
@@ -44,7 +36,44 @@ export class Gps {
       }
     };
   }
+
+  private start(): void {
+    if (this.watchId !== null || typeof navigator === 'undefined' || !navigator.geolocation) return;
+    this.watchId = navigator.geolocation.watchPosition(
+      (p) => {
+        this.problem.set('');
+        this.last.set({ latitude: p.coords.latitude, longitude: p.coords.longitude, accuracyM: p.coords.accuracy, at: p.timestamp });
+      },
+      (e) => {
+        if (e.code !== e.PERMISSION_DENIED) {
+          this.problem.set('No position yet: under canopy this can take a minute.');
+          return;
+        }
+        this.problem.set(LOCATION_BLOCKED);
+        // A denied watch never recovers on its own: wait for the permission to change, then watch again.
+        if (this.watchId !== null) navigator.geolocation.clearWatch(this.watchId);
+        this.watchId = null;
+        this.followPermission();
+      },
+      { enableHighAccuracy: true, maximumAge: 5000, timeout: 30000 },
+    );
+  }
+
+  /** Where the Permissions API exists, a grant made in the browser's settings restarts the watch. */
+  private followPermission(): void {
+    if (this.permissionWatched || !navigator.permissions?.query) return;
+    this.permissionWatched = true;
+    navigator.permissions.query({ name: 'geolocation' }).then((status) => {
+      status.addEventListener('change', () => {
+        if (status.state !== 'granted' || this.users <= 0) return;
+        this.problem.set('');
+        this.start();
+      });
+    }).catch(() => { this.permissionWatched = false; });
+  }
 }
+
+export const LOCATION_BLOCKED = 'Location is blocked for Fluxwalk. Allow it in the browser\'s site settings (the icon left of the address, then Permissions → Location); the position comes back here by itself. Collars still open by tap, code or tag.';
 
 const COMPASS = ['N', 'NE', 'E', 'SE', 'S', 'SW', 'W', 'NW'];
 

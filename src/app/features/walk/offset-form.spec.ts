@@ -2,7 +2,7 @@ import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
 import { TestBed } from '@angular/core/testing';
 import { MatButtonHarness } from '@angular/material/button/testing';
 import { MatInputHarness } from '@angular/material/input/testing';
-import { OffsetForm } from './offset-form';
+import { AUTOSAVE_MS, OffsetForm } from './offset-form';
 
 // A 20 cm collar: A = π·10² = 314.159 cm² (plain geometry). Chamber 4000 cm³ + loop 150 cm³.
 const CONTEXT = {
@@ -12,11 +12,14 @@ const CONTEXT = {
   thresholds: { offsetSpreadPct: 3, offsetMoveCm: 1 },
 };
 
-async function render(previous: number[] | null = null) {
+const pause = (ms: number) => new Promise((r) => setTimeout(r, ms));
+
+async function render(previous: number[] | null = null, savedSet: number[] | null = null) {
   TestBed.configureTestingModule({ imports: [OffsetForm] });
   const fixture = TestBed.createComponent(OffsetForm);
   fixture.componentRef.setInput('context', CONTEXT);
   fixture.componentRef.setInput('previous', previous);
+  fixture.componentRef.setInput('saved', savedSet);
   const loader = TestbedHarnessEnvironment.loader(fixture);
   const saved: number[][] = [];
   fixture.componentInstance.save.subscribe((v) => saved.push(v));
@@ -53,7 +56,7 @@ describe('OffsetForm', () => {
     expect(text('offset-spread')).toBe('9.4 % of volume');
     expect(warnings()).toHaveLength(1);
     expect(warnings()[0]).toContain('9.4 % of the headspace volume (limit 3.0 %)');
-    const fields = (fixture.nativeElement as HTMLElement).querySelectorAll('mat-form-field');
+    const fields = (fixture.nativeElement as HTMLElement).querySelectorAll('.position');
     expect(Array.from(fields).map((f) => f.classList.contains('outlier'))).toEqual([false, false, false, true]);
   });
 
@@ -89,8 +92,11 @@ describe('OffsetForm', () => {
   it('when a position is empty, then saving is refused and names it; positions stay between 3 and 8', async () => {
     const { fixture, loader, saved, enter } = await render();
     await enter(['2.0', '', '1.9', '2.0']);
-    await (await loader.getHarness(MatButtonHarness.with({ text: 'Save offset set' }))).click();
+    const boxes = (fixture.nativeElement as HTMLElement).querySelectorAll<HTMLInputElement>('input');
+    boxes[3].dispatchEvent(new KeyboardEvent('keydown', { key: 'Enter', bubbles: true }));
+    await pause(AUTOSAVE_MS + 100);
     expect(saved).toEqual([]);
+    fixture.detectChanges();
     expect((fixture.nativeElement as HTMLElement).textContent).toContain('Read position 2 first');
     const fewer = await loader.getHarness(MatButtonHarness.with({ text: 'Fewer positions' }));
     await fewer.click();
@@ -99,5 +105,48 @@ describe('OffsetForm', () => {
     for (let i = 0; i < 6; i++) await more.click();
     expect(await loader.getAllHarnesses(MatInputHarness)).toHaveLength(8);
     expect(await more.isDisabled()).toBe(true);
+  });
+
+  it('when a full set is typed and the crew pauses, then it saves itself once, and the saved values stay in view', async () => {
+    const { fixture, saved, enter, text } = await render();
+    await enter(['2.0', '2.1', '1.9', '2.0']);
+    expect(saved).toEqual([]);
+    await pause(AUTOSAVE_MS + 150);
+    expect(saved).toEqual([[2.0, 2.1, 1.9, 2.0]]);
+    // The page hands the stored set back: the section folds to what it holds.
+    fixture.componentRef.setInput('saved', [2.0, 2.1, 1.9, 2.0]);
+    await fixture.whenStable();
+    expect(text('offset-saved')).toMatch(/^Saved: 2\.0 · 2\.1 · 1\.9 · 2\.0 cm \(mean 2\.00\)\s*Change$/);
+    await pause(AUTOSAVE_MS + 150);
+    expect(saved).toHaveLength(1);
+  });
+
+  it('when the visit is opened again, then the boxes hold the saved set (not empty), and Change opens them', async () => {
+    const { fixture, loader, text } = await render([1.0, 1.0, 1.0, 1.0], [1.5, 1.6, 1.7, 1.8]);
+    expect(text('offset-saved')).toContain('Saved: 1.5 · 1.6 · 1.7 · 1.8 cm');
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Change' }))).click();
+    const inputs = await loader.getAllHarnesses(MatInputHarness.with({ selector: '[data-testid^="offset-"]' }));
+    expect(await Promise.all(inputs.map((i) => i.getValue()))).toEqual(['1.5', '1.6', '1.7', '1.8']);
+    expect(fixture.nativeElement.textContent).not.toContain('both are kept');
+  });
+
+  it('when the rim has not moved, then "Same as last" saves the last set in one tap', async () => {
+    const { loader, saved } = await render([1.4, 1.6, 1.5, 1.7]);
+    await (await loader.getHarness(MatButtonHarness.with({ text: /^Same as last: 1\.4 · 1\.6 · 1\.5 · 1\.7 cm$/ }))).click();
+    expect(saved).toEqual([[1.4, 1.6, 1.5, 1.7]]);
+  });
+
+  it('when a position moved a little, then ± steps of 0.1 cm start from the last set and the set saves itself', async () => {
+    const { loader, saved } = await render([1.4, 1.6, 1.5, 1.7]);
+    const plus = (n: number) => loader.getHarness(MatButtonHarness.with({ selector: `[aria-label="Position ${n} plus 0.1 cm"]` }));
+    const minus = (n: number) => loader.getHarness(MatButtonHarness.with({ selector: `[aria-label="Position ${n} minus 0.1 cm"]` }));
+    await (await plus(1)).click();
+    await (await plus(1)).click();
+    await (await minus(2)).click();
+    await (await plus(3)).click();
+    await (await minus(4)).click();
+    await pause(AUTOSAVE_MS + 150);
+    // 1.4 + 0.2, 1.6 − 0.1, 1.5 + 0.1, 1.7 − 0.1 (no floating-point tails: 1.6, not 1.5999…).
+    expect(saved).toEqual([[1.6, 1.5, 1.6, 1.6]]);
   });
 });

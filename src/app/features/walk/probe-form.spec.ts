@@ -4,12 +4,16 @@ import { MatButtonHarness } from '@angular/material/button/testing';
 import { MatInputHarness } from '@angular/material/input/testing';
 import { MatRadioGroupHarness } from '@angular/material/radio/testing';
 import type { MoistureCalibration } from '../../../../shared/model/derived';
+import { AUTOSAVE_MS } from './offset-form';
 import { ProbeForm, type ProbeReadingInput } from './probe-form';
 
-async function render(calibration: MoistureCalibration) {
+const pause = (ms: number) => new Promise((r) => setTimeout(r, ms));
+
+async function render(calibration: MoistureCalibration, savedRecord: Record<string, unknown> | null = null) {
   TestBed.configureTestingModule({ imports: [ProbeForm] });
   const fixture = TestBed.createComponent(ProbeForm);
   fixture.componentRef.setInput('calibration', calibration);
+  fixture.componentRef.setInput('saved', savedRecord);
   fixture.componentRef.setInput('kit', { probeId: 'TDR-2', rodLengthCm: 12, moistureKind: 'vwc' });
   const loader = TestbedHarnessEnvironment.loader(fixture);
   const saved: ProbeReadingInput[] = [];
@@ -46,7 +50,21 @@ describe('ProbeForm moisture display', () => {
     await (await moisture()).setValue('23.5');
     expect(shown()).toBeNull();
     await (await loader.getHarness(MatInputHarness.with({ selector: '[data-testid="soil-temp-1"]' }))).setValue('6.4');
-    await (await loader.getHarness(MatButtonHarness.with({ text: 'Save probe readings' }))).click();
+    // No Save button: the reading saves itself after a pause, once.
+    await pause(AUTOSAVE_MS + 150);
     expect(saved).toEqual([{ soilTemps: [{ depthCm: 5, tempC: 6.4 }], moistureRaw: 23.5, moistureKind: 'vwc', rodLengthCm: 12, probeId: 'TDR-2' }]);
+  });
+
+  it('when the visit is opened again, then the saved reading is what the section shows, and Change puts it back in the boxes', async () => {
+    const { fixture, loader, moisture } = await render({ kind: 'topp' }, {
+      id: 'p1', soilTemps: [{ depthCm: 10, tempC: 7.5 }], moistureRaw: 18, moistureKind: 'permittivity', rodLengthCm: 20, probeId: 'TDR-9',
+    });
+    const el = fixture.nativeElement as HTMLElement;
+    expect(el.querySelector('[data-testid="probe-saved"]')?.textContent).toContain('Saved: 7.5 °C at 10 cm · Ka 18');
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Change' }))).click();
+    expect(await (await moisture()).getValue()).toBe('18');
+    expect(await (await loader.getHarness(MatInputHarness.with({ selector: '[data-testid="soil-temp-1"]' }))).getValue()).toBe('7.5');
+    expect(await (await loader.getHarness(MatInputHarness.with({ placeholder: '' , selector: '[formcontrolname="probeId"]' }))).getValue()).toBe('TDR-9');
+    expect(await (await loader.getHarness(MatRadioGroupHarness)).getCheckedValue()).toBe('permittivity');
   });
 });

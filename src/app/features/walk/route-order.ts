@@ -1,6 +1,7 @@
 import type { LocalRecord } from '../../core/db/db-schema';
+import type { CollarState } from '../../core/map/collar-states';
 
-export type CollarState = 'due' | 'partial' | 'complete' | 'skipped';
+export type { CollarState };
 export type Direction = 'forward' | 'reverse' | 'alternate';
 
 export interface DueSettings {
@@ -51,17 +52,7 @@ export function collarProgress(
   return { state, due: left, skipReason: null };
 }
 
-export const STATE_LABEL: Record<CollarState, string> = {
-  due: 'Due',
-  partial: 'Partly done',
-  complete: 'Done',
-  skipped: 'Skipped',
-};
-
 /** The next collar to walk to: the first in walking order that is still due or partly done. */
 export function nextDueIndex(states: readonly CollarState[]): number {
   return states.findIndex((s) => s === 'due' || s === 'partial');
 }
-
-/** Shape marks for a collar's state: readable without colour (always next to a text label). */
-export const STATE_MARK: Record<CollarState, string> = { due: '○', partial: '◐', complete: '●', skipped: '⊘' };

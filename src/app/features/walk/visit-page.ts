@@ -1,6 +1,9 @@
 import { ClosurePanel } from '../closures/closure-panel';
 import { DatePipe, DecimalPipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, untracked, viewChild } from '@angular/core';
+import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, signal, untracked } from '@angular/core';
+import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
+import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
+import { debounceTime } from 'rxjs';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -9,7 +12,9 @@ import { RouterLink } from '@angular/router';
 import { profileForClosure } from '../../../../shared/flux/chamber-system';
 import { collarAreaCm2, offsetStats } from '../../../../shared/model/derived';
 import { AirTempField } from './air-temp-field';
-import { OffsetForm } from './offset-form';
+import { AUTOSAVE_MS, OffsetForm } from './offset-form';
+import { nextDueIndex } from './route-order';
+import { routeView } from './walk-store';
 import { ProbeForm, type ProbeReadingInput } from './probe-form';
 import { SkipForm } from './skip-form';
 import { WalkContext } from './walk-context';
@@ -26,14 +31,18 @@ const CONDITIONS: { key: keyof Omit<VisitConditions, 'other' | 'airTempC'>; labe
   { key: 'animal', label: 'Animal disturbance' },
 ];
 
+type ConditionsForm = FormGroup<{ [K in keyof Required<VisitConditions>]: FormControl<Required<VisitConditions>[K]> }>;
+
 /**
- * One collar in the order a crew works it: who it is and what to watch for, then conditions,
- * the offset set and the probes; a skip asks for a reason. Every section saves to the device on
- * its own, so a crew that is called away loses nothing.
+ * One collar in one pass: who it is and what to watch for, then conditions, the offset set and
+ * the probes (taken while the chamber runs), the closures; the chamber, its timer and "Next
+ * collar" sit in a bar at the bottom of the screen. Every section saves itself to the device as
+ * it is filled (no Save buttons), shows what it holds, and folds to one line once done, so the
+ * next control is on screen without scrolling; a skip asks for a reason.
  */
 @Component({
   selector: 'fw-visit-page',
-  imports: [DatePipe, DecimalPipe, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatInputModule, OffsetForm, ProbeForm, RouterLink, SkipForm, ClosurePanel, AirTempField],
+  imports: [DatePipe, DecimalPipe, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatInputModule, OffsetForm, ProbeForm, ReactiveFormsModule, RouterLink, SkipForm, ClosurePanel, AirTempField],
   templateUrl: './visit-page.html',
   styleUrl: './walk.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -45,12 +54,22 @@ export class VisitPage {
   protected readonly choice = this.walk.choice;
   protected readonly view = visitView(() => ({ collarId: this.collarId(), campaignId: this.choice().campaignId, round: this.choice().round }));
   protected readonly conditionList = CONDITIONS;
-  protected readonly conditions = signal<VisitConditions>({ rainNow: false, rain24h: false, standingWater: false, frostSnow: false, trampled: false, animal: false, other: '' });
+  protected readonly conditions: ConditionsForm = new FormGroup({
+    rainNow: new FormControl(false, { nonNullable: true }), rain24h: new FormControl(false, { nonNullable: true }),
+    standingWater: new FormControl(false, { nonNullable: true }), frostSnow: new FormControl(false, { nonNullable: true }),
+    trampled: new FormControl(false, { nonNullable: true }), animal: new FormControl(false, { nonNullable: true }),
+    other: new FormControl('', { nonNullable: true }), airTempC: new FormControl<number | null>(null),
+  });
   protected readonly busy = signal(false);
   protected readonly message = signal('');
   protected readonly problem = signal('');
-  private readonly offsetForm = viewChild(OffsetForm);
+  /** The crew opened the conditions again after they folded. */
+  protected readonly conditionsOpen = signal(false);
   private loadedVisit: string | null | undefined = undefined;
+  private readonly route = routeView(() => {
+    const c = this.choice();
+    return { campaignId: c.campaignId, routeId: c.routeId, round: c.round, flipped: c.flipped };
+  });
 
   constructor() {
     effect(() => {
@@ -59,10 +78,36 @@ export class VisitPage {
         // Take the stored conditions when the visit first appears, not while the crew is ticking boxes.
         if (this.loadedVisit === (v?.id ?? null)) return;
         this.loadedVisit = v?.id ?? null;
-        if (v?.['conditions']) this.conditions.set({ ...(v['conditions'] as VisitConditions) });
+        if (v?.['conditions']) this.conditions.setValue({ ...this.conditions.getRawValue(), ...(v['conditions'] as VisitConditions) }, { emitEvent: false });
       });
     });
+    this.conditions.valueChanges.pipe(debounceTime(AUTOSAVE_MS), takeUntilDestroyed(inject(DestroyRef))).subscribe(() => void this.saveConditions());
   }
+
+  /** The next collar still due on the route, after this one in walking order (then from the top). */
+  protected readonly next = computed(() => {
+    const rows = this.route()?.rows ?? [];
+    const here = rows.findIndex((r) => r.id === this.collarId());
+    const after = [...rows.slice(here + 1), ...rows.slice(0, Math.max(0, here))];
+    const i = nextDueIndex(after.map((r) => r.state));
+    return i < 0 ? null : { id: after[i].id, code: after[i].code };
+  });
+
+  /**
+   * Conditions are done once the visit holds them and the crew has saved the next part (offsets
+   * or probes), so ticking a second box a moment later never finds the list folded.
+   */
+  protected readonly conditionsFolded = computed(() => {
+    const v = this.view();
+    return !!v?.visit?.['conditions'] && (!!v.offsetSet || !!v.probe) && !this.conditionsOpen();
+  });
+  protected readonly conditionsText = computed(() => {
+    const c = this.view()?.visit?.['conditions'] as VisitConditions | undefined;
+    if (!c) return '';
+    const words = CONDITIONS.filter((x) => c[x.key]).map((x) => x.label.toLowerCase());
+    if (c.other?.trim()) words.push(c.other.trim());
+    return words.length ? words.join(', ') : 'nothing special';
+  });
 
   protected readonly target = computed<VisitTarget | null>(() => {
     const v = this.view();
@@ -98,27 +143,15 @@ export class VisitPage {
     return { probeId: c.probeId, rodLengthCm: c.rodLengthCm, moistureKind: c.moistureKind };
   });
 
-  protected setAirTemp(airTempC: number | null): void {
-    this.conditions.update((c) => ({ ...c, airTempC }));
-  }
-
-  protected toggle(key: keyof Omit<VisitConditions, 'other' | 'airTempC'>, on: boolean): void {
-    this.conditions.update((c) => ({ ...c, [key]: on }));
-  }
-
-  protected setOther(text: string): void {
-    this.conditions.update((c) => ({ ...c, other: text }));
-  }
-
   protected saveConditions(): Promise<void> {
-    return this.run('Conditions saved on this device.', (t, v) => this.writes.saveConditions(t, v.visit, this.conditions()));
+    const now = this.conditions.getRawValue();
+    const stored = this.view()?.visit?.['conditions'];
+    if (stored && JSON.stringify({ ...now, ...(stored as object) }) === JSON.stringify(now)) return Promise.resolve();
+    return this.run('Conditions saved on this device.', (t, v) => this.writes.saveConditions(t, v.visit, now));
   }
 
   protected saveOffsets(readings: number[]): Promise<void> {
-    return this.run('Offset set saved on this device.', async (t, v) => {
-      await this.writes.saveOffsetSet(t, v.visit, readings, v.offsetSet);
-      this.offsetForm()?.clear();
-    });
+    return this.run('Offset set saved on this device.', (t, v) => this.writes.saveOffsetSet(t, v.visit, readings, v.offsetSet).then(() => undefined));
   }
 
   protected saveProbe(p: ProbeReadingInput): Promise<void> {

@@ -28,6 +28,8 @@ export interface VisitView {
   /** The collar's last offset set before this visit. */
   lastOffsetSet: LocalRecord | null;
   probe: LocalRecord | null;
+  /** Closures started at this visit. */
+  closureCount: number;
   lastFlux: { value: number; at: string } | null;
   settling: SettlingNote | null;
   calibration: MoistureCalibration;
@@ -95,6 +97,7 @@ export async function loadVisit(db: FluxDb, key: VisitKey): Promise<VisitView | 
     offsetSet,
     lastOffsetSet,
     probe,
+    closureCount: visit ? closures.filter((c) => c['visitId'] === visit.id).length : 0,
     lastFlux: lastClosure ? { value: Number(lastClosure['fluxUmolM2S']), at: String(lastClosure['startedAt']) } : null,
     settling: settlingNote(collar, events, site ?? null),
     calibration: (site?.['moistureCalibration'] as MoistureCalibration | undefined) ?? { kind: 'topp' },

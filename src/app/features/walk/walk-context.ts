@@ -12,6 +12,8 @@ export interface WalkChoice {
   analyzerId: string | null;
   /** The chamber profile this crew measures with today (each closure carries it). */
   profileId: string | null;
+  /** When the analyzer was last chosen (ISO): it counts for closures on that day only. */
+  kitAt: string | null;
   /** Probe kit remembered between collars: one probe is used along a whole route. */
   probeId: string;
   rodLengthCm: number | null;
@@ -19,7 +21,7 @@ export interface WalkChoice {
 }
 
 const EMPTY: WalkChoice = {
-  campaignId: null, round: 1, routeId: null, flipped: false, analyzerId: null, profileId: null, probeId: '', rodLengthCm: null, moistureKind: 'vwc',
+  campaignId: null, round: 1, routeId: null, flipped: false, analyzerId: null, kitAt: null, profileId: null, probeId: '', rodLengthCm: null, moistureKind: 'vwc',
 };
 
 /** Remembered per user on this device (localStorage), so Walk reopens where the crew left it, offline too. */
@@ -39,7 +41,8 @@ export class WalkContext {
   readonly choice = this.state.asReadonly();
 
   update(changes: Partial<WalkChoice>): void {
-    const next = { ...this.state(), ...changes };
+    // Choosing an analyzer (here or on the start of day) makes it today's analyzer.
+    const next = { ...this.state(), ...changes, ...('analyzerId' in changes && !('kitAt' in changes) ? { kitAt: new Date().toISOString() } : {}) };
     this.state.set(next);
     const key = this.key();
     if (key) this.memory.write(key, next);

@@ -6,15 +6,23 @@ import { SiteChoice } from '../../core/auth/site-choice';
 import { liveSignal } from '../../core/db/live-query-signal';
 import { escapeHtml, mapText } from '../../core/map/map-text';
 import { Gps } from './gps';
-import { STATE_LABEL, STATE_MARK } from './route-order';
+import { STATE_COLOURS, STATE_GLYPHS, STATE_LEGEND, STATE_WORDS } from '../../core/map/collar-states';
+import { LABEL_H, MARKER_PX, estimateLabelWidth, placeLabels } from './map-labels';
 import { WalkContext } from './walk-context';
 import { routeView, walkOptions } from './walk-store';
 
-/** A marker's face: the state's mark and a word beside the code, both as text (codes are typed by people). */
-function markerFace(mark: string, text: string): HTMLElement {
+/**
+ * A marker's face: the state's shape (the Board's glyph) filling a 48 px target, and a label with
+ * the code and the state's word, both as text (codes are typed by people). The label is placed
+ * afterwards by placeLabels().
+ */
+function markerFace(mark: string, text: string, colour: string): HTMLElement {
   const face = document.createElement('span');
   face.className = 'face';
-  for (const part of [mapText(mark, 'm'), mapText(text, 't')]) {
+  const m = mapText(mark, 'm');
+  m.style.color = colour;
+  const t = mapText(text, 't');
+  for (const part of [m, t]) {
     part.setAttribute('aria-hidden', 'true');
     face.append(part);
   }
@@ -33,7 +41,7 @@ function markerFace(mark: string, text: string): HTMLElement {
     <div class="walk">
       <a mat-button routerLink="/walk">← Route</a>
       <h1>Map</h1>
-      <p class="legend">○ due · ◐ partly done · ● done · ⊘ skipped · ◎ you</p>
+      <p class="legend" data-testid="map-legend">{{ legend }} · ◎ you</p>
       <div #map class="map" role="region" aria-label="Map of the route's collars" data-testid="walk-map"></div>
       @if (!tileUrl()) { <p class="muted">No map background: this site has no tile source, so nothing is downloaded.</p> }
     </div>
@@ -42,10 +50,11 @@ function markerFace(mark: string, text: string): HTMLElement {
   styles: `
     .map { height: 62vh; min-height: 320px; border: 1px solid var(--mat-sys-outline); border-radius: 8px; background: #f4f1ea; }
     .legend { font-size: 1.05rem; }
-    :host ::ng-deep .fw-marker { display: flex; align-items: center; gap: 2px; white-space: nowrap; font-weight: 700; color: #111; }
+    :host ::ng-deep .fw-marker { position: relative; display: block; font-weight: 700; color: #111; }
     :host ::ng-deep .fw-marker .face { display: contents; }
-    :host ::ng-deep .fw-marker .m { font-size: 20px; line-height: 1; background: #fff; border-radius: 50%; }
-    :host ::ng-deep .fw-marker .t { background: #fff; border: 1px solid #111; border-radius: 4px; padding: 0 2px; font-size: 11px; }
+    :host ::ng-deep .fw-marker .m { display: flex; align-items: center; justify-content: center; width: 48px; height: 48px; font-size: 30px; line-height: 1; background: rgba(255, 255, 255, 0.85); border-radius: 50%; }
+    :host ::ng-deep .fw-marker .t { position: absolute; height: 22px; box-sizing: border-box; background: #fff; border: 1px solid #111; border-radius: 4px; padding: 0 4px; font-size: 13px; line-height: 20px; white-space: nowrap; }
+    :host ::ng-deep .fw-marker .t.hidden { display: none; }
     :host ::ng-deep .fw-marker:focus-visible { outline: 3px solid #0b57d0; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -65,7 +74,9 @@ export class WalkMap {
   });
   private readonly plots = liveSignal(() => this.site()?.id ?? null, async (db, siteId) =>
     siteId ? db.records('plot').where('siteId').equals(siteId).toArray() : [], []);
+  protected readonly legend = STATE_LEGEND;
   private map: L.Map | null = null;
+  private placed: { marker: L.Marker; label: string }[] = [];
   private readonly layers = { plots: L.layerGroup(), collars: L.layerGroup(), me: L.layerGroup() };
   private fitted = false;
 
@@ -78,6 +89,7 @@ export class WalkMap {
     afterNextRender(() => {
       this.map = this.zone.runOutsideAngular(() => L.map(this.host().nativeElement, { zoomControl: true, attributionControl: true, maxZoom: 22 }).setView([0, 0], 2));
       Object.values(this.layers).forEach((l) => l.addTo(this.map!));
+      this.map.on('zoomend moveend resize', () => this.layoutLabels());
       const url = this.tileUrl();
       if (url) L.tileLayer(url, { attribution: escapeHtml(String(this.options()?.site?.['tileAttribution'] ?? '')), maxZoom: 20 }).addTo(this.map);
       this.drawAll();
@@ -102,21 +114,23 @@ export class WalkMap {
       }
     }
     this.layers.collars.clearLayers();
+    this.placed = [];
     const points: L.LatLngExpression[] = [];
     for (const r of rows) {
       if (r.latitude === null || r.longitude === null) continue;
       points.push([r.latitude, r.longitude]);
-      const label = `${r.code}, ${STATE_LABEL[r.state]}`;
+      const label = `${r.code}, ${STATE_WORDS[r.state]}`;
       const icon = L.divIcon({
         className: 'fw-marker',
-        html: markerFace(STATE_MARK[r.state], `${r.code} ${STATE_LABEL[r.state].toLowerCase()}`),
-        iconSize: undefined,
-        iconAnchor: [10, 10],
+        html: markerFace(STATE_GLYPHS[r.state], `${r.code} ${STATE_WORDS[r.state]}`, STATE_COLOURS[r.state]),
+        iconSize: [MARKER_PX, MARKER_PX],
+        iconAnchor: [MARKER_PX / 2, MARKER_PX / 2],
       });
       const marker = L.marker([r.latitude, r.longitude], { icon, title: label, alt: label, keyboard: true, riseOnHover: true });
       const open = () => this.zone.run(() => void this.router.navigate(['/walk/visit', r.id]));
       marker.on('click', open);
       marker.addTo(this.layers.collars);
+      this.placed.push({ marker, label: `${r.code} ${STATE_WORDS[r.state]}` });
       const el = marker.getElement();
       el?.setAttribute('aria-label', `Open collar ${label}`);
       // Leaflet makes the marker focusable but Enter only opens a popup: a focused marker opens its
@@ -132,7 +146,7 @@ export class WalkMap {
     if (fix) {
       L.circle([fix.latitude, fix.longitude], { radius: fix.accuracyM, color: '#0b57d0', weight: 1, fillOpacity: 0.1, interactive: false }).addTo(this.layers.me);
       L.marker([fix.latitude, fix.longitude], {
-        icon: L.divIcon({ className: 'fw-marker', html: markerFace('◎', 'you'), iconAnchor: [10, 10] }),
+        icon: L.divIcon({ className: 'fw-marker', html: markerFace('◎', 'you', '#0b57d0'), iconSize: [MARKER_PX, MARKER_PX], iconAnchor: [MARKER_PX / 2, MARKER_PX / 2] }),
         keyboard: false, interactive: false,
       }).addTo(this.layers.me);
     }
@@ -142,5 +156,30 @@ export class WalkMap {
       map.fitBounds(L.latLngBounds(points), { padding: [40, 40], maxZoom: 22 });
       this.fitted = true;
     }
+    this.layoutLabels();
+  }
+
+  /** Puts each code label beside its marker where it overlaps nothing and stays inside the map; hides the rest. */
+  private layoutLabels(): void {
+    const map = this.map;
+    if (!map) return;
+    const size = map.getSize();
+    const items = this.placed.map(({ marker, label }) => {
+      const el = marker.getElement()?.querySelector<HTMLElement>('.t') ?? null;
+      const p = map.latLngToContainerPoint(marker.getLatLng());
+      return { el, x: p.x, y: p.y, width: el?.offsetWidth || estimateLabelWidth(label) };
+    });
+    const places = placeLabels(items, { width: size.x, height: size.y });
+    items.forEach((it, i) => {
+      const place = places[i];
+      if (!it.el) return;
+      it.el.classList.toggle('hidden', !place);
+      it.el.dataset['side'] = place?.side ?? 'none';
+      if (!place) return;
+      // Label box from container pixels to the marker element's own box (its top-left is centre − 24 px).
+      it.el.style.left = `${place.left - (it.x - MARKER_PX / 2)}px`;
+      it.el.style.top = `${place.top - (it.y - MARKER_PX / 2)}px`;
+      it.el.style.height = `${LABEL_H}px`;
+    });
   }
 }

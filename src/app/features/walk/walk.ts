@@ -10,9 +10,11 @@ import { SiteChoice } from '../../core/auth/site-choice';
 import { DeviceDb } from '../../core/db/device-db';
 import { SyncEngine } from '../../core/sync/sync-engine';
 import { notYetSynced } from '../../core/sync/sync-status';
+import { localDay } from '../closures/closure-flux';
 import { Gps, wayTo } from './gps';
 import { QrScan } from './qr-scan';
-import { STATE_LABEL, STATE_MARK, nextDueIndex } from './route-order';
+import { STATE_GLYPHS, STATE_WORDS } from '../../core/map/collar-states';
+import { nextDueIndex } from './route-order';
 import { CHECK_ITEMS } from './start-of-day-items';
 import { WalkContext } from './walk-context';
 import { localDayStart, routeView, todayChecks, walkOptions } from './walk-store';
@@ -46,13 +48,20 @@ export class Walk {
   private readonly checks = todayChecks(() => ({ siteId: this.site()?.id ?? null, since: this.since() }));
   protected readonly checksDone = computed(() => CHECK_ITEMS.filter((i) => this.checks().some((c) => c['kind'] === i.kind)).length);
   protected readonly checkCount = CHECK_ITEMS.length;
+  /** Today's analyzer by name, or '' when none was chosen today (closures wait for one). */
+  protected readonly analyzerToday = computed(() => {
+    const c = this.choice();
+    const tz = String(this.options()?.site?.['timezone'] ?? 'UTC');
+    if (!c.kitAt || localDay(c.kitAt, tz) !== localDay(new Date().toISOString(), tz)) return '';
+    return String(this.options()?.analyzers.find((a) => a.id === c.analyzerId)?.['name'] ?? '');
+  });
   protected readonly pendingLabel = computed(() => notYetSynced(this.engine.pending()));
   protected readonly fix = this.gps.fix;
   protected readonly gpsError = this.gps.error;
   protected readonly code = signal('');
   protected readonly codeProblem = signal('');
-  protected readonly stateLabel = STATE_LABEL;
-  protected readonly stateMark = STATE_MARK;
+  protected readonly stateLabel = STATE_WORDS;
+  protected readonly stateMark = STATE_GLYPHS;
 
   protected readonly campaign = computed(() => this.options()?.campaigns.find((c) => c.id === this.choice().campaignId) ?? null);
   protected readonly rounds = computed(() => Array.from({ length: Number(this.campaign()?.['rounds'] ?? 1) }, (_, i) => i + 1));
@@ -129,7 +138,7 @@ export class Walk {
       return list.find((c) => !c.deleted && String(c['code']).toLowerCase() === wanted) ?? null;
     });
     if (!found) {
-      this.codeProblem.set(`No collar ${typed} on this device.`);
+      this.codeProblem.set(`No collar ${typed} on this device. Check the code, sync when you have signal (it may be new), scan its tag, or install it as a new collar.`);
       return;
     }
     this.codeProblem.set('');
