@@ -7,7 +7,7 @@ import { RunningServer, startAppServer } from './support/app-server';
 import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
 import { waitForFirstSync } from './support/sync-actions';
 import { VisitCounter } from './support/visit-counter';
-import { PHONE, choose, readmeShot } from './support/walk-actions';
+import { PHONE, choose } from './support/walk-actions';
 
 jest.setTimeout(600_000);
 
@@ -142,7 +142,6 @@ async function duringTheClosure(page: Page, count: VisitCounter): Promise<void> 
 async function visitB(page: Page, count: VisitCounter): Promise<void> {
   await importClosure(page, count, '2026-12-04T08:40:00Z');
   await noteShot(page, 'closure-card-after');
-  await readmeShot(page, 'walk-visit');
   const next = page.getByTestId('next-collar-bar');
   const codeC = (await next.innerText()).trim().split(/\s+/).at(-1)!;
   await count.tap(next, 'next collar');

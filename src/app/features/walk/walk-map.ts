@@ -50,7 +50,7 @@ function markerFace(mark: string, text: string, colour: string): HTMLElement {
   styles: `
     .map { height: 62vh; min-height: 320px; border: 1px solid var(--mat-sys-outline); border-radius: 8px; background: #f4f1ea; }
     .legend { font-size: 1.05rem; }
-    :host ::ng-deep .fw-marker { position: relative; display: block; font-weight: 700; color: #111; }
+    :host ::ng-deep .fw-marker { font-weight: 700; color: #111; }
     :host ::ng-deep .fw-marker .face { display: contents; }
     :host ::ng-deep .fw-marker .m { display: flex; align-items: center; justify-content: center; width: 48px; height: 48px; font-size: 30px; line-height: 1; background: rgba(255, 255, 255, 0.85); border-radius: 50%; }
     :host ::ng-deep .fw-marker .t { position: absolute; height: 22px; box-sizing: border-box; background: #fff; border: 1px solid #111; border-radius: 4px; padding: 0 4px; font-size: 13px; line-height: 20px; white-space: nowrap; }
