@@ -185,7 +185,7 @@ describe('Closure capture in Chromium, offline, then synced', () => {
 
       // Redo the flagged closure: a new closure at the same visit, its short series typed in.
       await page.clock.setSystemTime(new Date('2026-12-03T09:10:00Z'));
-      await page.locator(`[data-closure="${atA[1].id}"]`).getByRole('button', { name: 'Redo' }).click();
+      await page.locator(`[data-closure="${atA[1].id}"]`).getByRole('button', { name: 'Redo', exact: true }).click();
       const panel = page.getByRole('region', { name: 'Closures at this visit' });
       await panel.getByRole('button', { name: 'Chamber off' }).waitFor();
       await page.clock.setSystemTime(new Date('2026-12-03T09:12:00Z'));
