@@ -4,7 +4,7 @@ import { DERIVED_FIELDS, ENTITY_FIELDS, type EntityName } from '../../shared/mod
 import { CLOSURE_REVIEW_FIELDS } from '../../shared/model/field-records';
 import { fieldErrorsFromZod } from '../core/errors';
 import { notifyWritten } from './after-write';
-import { checkGuards } from './write-guards';
+import { checkGuards, hasGuards } from './write-guards';
 import type { ChangeBuffer } from './change-buffer';
 import { ENTITY_DEFS, type EntityDef, type WriteAction } from './entity-registry';
 import { deriveFields, warningsFor } from './record-derivations';
@@ -125,6 +125,25 @@ function validate(entity: EntityName, candidate: Record<string, unknown>) {
 }
 
 async function createRecord(ctx: Ctx, op: WriteOp, incoming: Record<string, unknown>): Promise<WriteOutcome> {
+  const prepared = await prepareCreate(ctx, op, incoming);
+  if ('status' in prepared) return prepared;
+  const inserted = await ctx.em.getRepository(ctx.d.target).createQueryBuilder().insert()
+    .values({ ...prepared.row }).orIgnore().returning('id').execute(); // a copy: insert writes DB defaults back into its values
+  if (!inserted.raw.length) return ID_TAKEN;
+  return finishCreate(ctx, prepared);
+}
+
+/** A create that passed every check before its insert: the row to store and what to log about it. */
+export interface PreparedCreate {
+  id: string;
+  siteId: string;
+  fields: string[];
+  row: Record<string, unknown>;
+  record: Record<string, unknown>;
+}
+
+/** Every check of a create, in order, then the derived values: a refusal or the row to insert. */
+async function prepareCreate(ctx: Ctx, op: WriteOp, incoming: Record<string, unknown>): Promise<WriteOutcome | PreparedCreate> {
   const { d } = ctx;
   const denied = roleDenied(ctx, 'create');
   if (denied) return denied;
@@ -140,13 +159,50 @@ async function createRecord(ctx: Ctx, op: WriteOp, incoming: Record<string, unkn
   if (guard) return guard;
   const derived = await deriveFields(ctx.em, d.name, next, null);
   const row = { ...next, ...derived, id: op.id, rev: 1, updatedAt: new Date(), updatedBy: ctx.actor.id, deleted: false };
-  const record = toWire(row);
-  const inserted = await ctx.em.getRepository(d.target).createQueryBuilder().insert()
-    .values({ ...row }).orIgnore().returning('id').execute(); // a copy: insert writes DB defaults back into its values
-  if (!inserted.raw.length) return ID_TAKEN;
-  ctx.changes.add({ entity: d.name, recordId: op.id, rev: 1, siteId, fields: Object.keys(next), deleted: false, userId: ctx.actor.id, deviceId: ctx.deviceId });
-  await notifyWritten({ em: ctx.em, actorId: ctx.actor.id, entity: d.name, id: op.id, action: 'create', before: null, after: record, changed: Object.keys(next), changes: ctx.changes });
-  return { status: 'applied', rev: 1, record, warnings: await warningsFor(ctx.em, d.name, record) };
+  return { id: op.id, siteId, fields: Object.keys(next), row, record: toWire(row) };
+}
+
+/** After the row is stored: the change log entry, the after-write listeners, the answer. */
+async function finishCreate(ctx: Ctx, p: PreparedCreate): Promise<WriteOutcome> {
+  const { d } = ctx;
+  ctx.changes.add({ entity: d.name, recordId: p.id, rev: 1, siteId: p.siteId, fields: p.fields, deleted: false, userId: ctx.actor.id, deviceId: ctx.deviceId });
+  await notifyWritten({ em: ctx.em, actorId: ctx.actor.id, entity: d.name, id: p.id, action: 'create', before: null, after: p.record, changed: p.fields, changes: ctx.changes });
+  return { status: 'applied', rev: 1, record: p.record, warnings: await warningsFor(ctx.em, d.name, p.record) };
+}
+
+/**
+ * Entities whose creates may be stored several rows to a statement (the sync push's batched
+ * creates): no write guard (a guard may count rows an earlier create of the same statement adds),
+ * and derived values that read no record a create could add (a closure's fit reads its profile
+ * and site, a site is what other records read).
+ */
+export function batchableCreate(op: WriteOp): boolean {
+  return op.op === 'upsert' && op.baseRev === null && isUuid(op.id) && !!ENTITY_DEFS[op.entity]
+    && op.entity !== 'site' && op.entity !== 'closure' && !hasGuards(op.entity);
+}
+
+/** The checks of a create without its insert (the batched path inserts many at once), or the refusal. */
+export async function prepareBatchedCreate(em: EntityManager, actor: Actor, op: WriteOp, changes: ChangeBuffer,
+  opts: { deviceId?: string | null } = {}): Promise<WriteOutcome | PreparedCreate> {
+  const d = ENTITY_DEFS[op.entity];
+  return prepareCreate({ em, actor, d, changes, deviceId: opts.deviceId ?? null }, op, clientFields(op.entity, op.fields));
+}
+
+/**
+ * Stores prepared creates of one entity as one multi-row INSERT; returns the ids it stored (an id
+ * or another unique value already taken is skipped, as the single create's ON CONFLICT DO NOTHING).
+ */
+export async function insertPrepared(em: EntityManager, entity: EntityName, prepared: PreparedCreate[]): Promise<Set<string>> {
+  if (!prepared.length) return new Set();
+  const inserted = await em.getRepository(ENTITY_DEFS[entity].target).createQueryBuilder().insert()
+    .values(prepared.map((p) => ({ ...p.row }))).orIgnore().returning('id').execute();
+  return new Set((inserted.raw as { id: string }[]).map((r) => r.id));
+}
+
+/** The change log entry, listeners and answer of a create stored by insertPrepared. */
+export function finishBatchedCreate(em: EntityManager, actor: Actor, entity: EntityName, p: PreparedCreate, changes: ChangeBuffer,
+  opts: { deviceId?: string | null } = {}): Promise<WriteOutcome> {
+  return finishCreate({ em, actor, d: ENTITY_DEFS[entity], changes, deviceId: opts.deviceId ?? null }, p);
 }
 
 /** A create whose id is already known: the same content is a harmless repeat, anything else a conflict. */

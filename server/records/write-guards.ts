@@ -37,3 +37,8 @@ export async function checkGuards(w: PendingWrite): Promise<WriteOutcome | null>
   }
   return null;
 }
+
+/** Whether any guard watches this entity's writes. */
+export function hasGuards(entity: EntityName): boolean {
+  return !!guards.get(entity)?.length;
+}

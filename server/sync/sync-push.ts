@@ -3,7 +3,7 @@ import type { SessionUser } from '../../shared/auth/roles';
 import { syncOpSchema, type PushResult, type SyncOp, type SyncStatus } from '../../shared/sync/sync-wire';
 import { fieldErrorsFromZod } from '../core/errors';
 import { ChangeBuffer } from '../records/change-buffer';
-import { writeRecord } from '../records/record-writer';
+import { batchableCreate, finishBatchedCreate, insertPrepared, prepareBatchedCreate, writeRecord, type PreparedCreate } from '../records/record-writer';
 import type { WriteOutcome } from '../records/write-outcome';
 import { recordPush } from './device-service';
 import { claimOps, saveAnswers, storedAnswers } from './op-ledger';
@@ -11,7 +11,7 @@ import { claimOps, saveAnswers, storedAnswers } from './op-ledger';
 const DEADLOCK = '40P01';
 const MAX_ATTEMPTS = 5;
 
-type Parsed = { ok: true; op: SyncOp } | { ok: false; result: PushResult };
+export type Parsed = { ok: true; op: SyncOp } | { ok: false; result: PushResult };
 
 /**
  * Applies a device's batch in one transaction with a savepoint per op, so one bad op never sinks
@@ -32,14 +32,20 @@ export async function pushOps(ds: DataSource, user: SessionUser, deviceId: strin
   }
 }
 
-function parseOp(raw: unknown): Parsed {
+export function parseOp(raw: unknown): Parsed {
   const r = syncOpSchema.safeParse(raw);
   if (r.success) return { ok: true, op: r.data };
   const opId = typeof (raw as { opId?: unknown })?.opId === 'string' ? (raw as { opId: string }).opId : '';
   return { ok: false, result: { opId, status: 'rejected', error: { message: 'The operation is malformed', fields: fieldErrorsFromZod(r.error) } } };
 }
 
-async function applyBatch(em: EntityManager, user: SessionUser, deviceId: string, outboxSize: number, parsed: Parsed[]): Promise<PushResult[]> {
+/**
+ * One push inside the caller's transaction. `batchCreates: false` applies every op alone (the
+ * reference the batched creates are tested against: both must give the same answers and rows).
+ */
+export async function applyBatch(em: EntityManager, user: SessionUser, deviceId: string, outboxSize: number, parsed: Parsed[],
+  opts: { batchCreates?: boolean } = {}): Promise<PushResult[]> {
+  const batching = opts.batchCreates ?? true;
   const valid = parsed.flatMap((p) => (p.ok ? [p.op] : []));
   const claimed = await claimOps(em, deviceId, user.id, valid);
   const earlier = await storedAnswers(em, user.id, valid.map((o) => o.opId).filter((id) => !claimed.has(id)));
@@ -47,31 +53,106 @@ async function applyBatch(em: EntityManager, user: SessionUser, deviceId: string
   const results: PushResult[] = [];
   const thisBatch = new Map<string, PushResult>();
   let savepoint = false;
-  for (const p of parsed) {
-    if (!p.ok) { results.push(p.result); continue; }
-    const { op } = p;
-    const first = thisBatch.get(op.opId) ?? earlier.get(op.opId);
-    if (first || !claimed.has(op.opId)) {
-      results.push(replay(op.opId, first));
-      continue;
-    }
-    // One round trip per op for the savepoint: release the last one and open the next together.
+  // One round trip per op for the savepoint: release the last one and open the next together.
+  const nextSavepoint = async () => {
     await em.query(savepoint ? 'RELEASE SAVEPOINT sync_op; SAVEPOINT sync_op' : 'SAVEPOINT sync_op');
     savepoint = true;
+  };
+  const answer = (at: number, opId: string, outcome: WriteOutcome) => {
+    const result = toResult(opId, outcome);
+    thisBatch.set(opId, result);
+    results[at] = result;
+  };
+  const perOp = async (op: SyncOp, at: number) => {
+    await nextSavepoint();
     const mark = changes.mark();
     const outcome = await applyOne(em, user, deviceId, op, changes);
     if (outcome.status !== 'applied' && outcome.status !== 'merged') {
       await em.query('ROLLBACK TO SAVEPOINT sync_op'); // the savepoint stays open for the next op
       changes.rollbackTo(mark);
     }
-    const result = toResult(op.opId, outcome);
-    thisBatch.set(op.opId, result);
-    results.push(result);
+    answer(at, op.opId, outcome);
+  };
+  // Creates that passed every check wait here in op order and are stored together (one INSERT per
+  // table) before any op that is not such a create, so every op still sees the ones before it.
+  let run: Pending[] = [];
+  const flush = async () => {
+    if (!run.length) return;
+    const pending = run;
+    run = [];
+    await storeRun(em, user, deviceId, pending, changes, nextSavepoint, answer, perOp);
+  };
+  for (const p of parsed) {
+    const at = results.length;
+    results.push(undefined as unknown as PushResult); // filled in op order by answer()
+    if (!p.ok) { results[at] = p.result; continue; }
+    const { op } = p;
+    if (run.some((r) => r.op.opId === op.opId || r.op.id === op.id)) await flush();
+    const first = thisBatch.get(op.opId) ?? earlier.get(op.opId);
+    if (first || !claimed.has(op.opId)) {
+      results[at] = replay(op.opId, first);
+      continue;
+    }
+    if (batching && batchableCreate(op)) {
+      const prepared = await prepareOne(em, user, deviceId, op, changes);
+      if (prepared) { run.push({ op, at, prepared }); continue; }
+    }
+    // Refused by a check or not a plain create: the single-op path gives the answer, after the run is stored.
+    await flush();
+    await perOp(op, at);
   }
+  await flush();
   await saveAnswers(em, user.id, [...thisBatch.values()]);
   await changes.flush(em);
   await recordPush(em, deviceId, user.id, outboxSize);
   return results;
+}
+
+interface Pending { op: SyncOp; at: number; prepared: PreparedCreate }
+
+/** The create's checks without its insert; null when a check refuses it (the single-op path answers then). */
+async function prepareOne(em: EntityManager, user: SessionUser, deviceId: string, op: SyncOp, changes: ChangeBuffer): Promise<PreparedCreate | null> {
+  try {
+    const p = await prepareBatchedCreate(em, user, { entity: op.entity, id: op.id, baseRev: op.baseRev, op: op.op, fields: op.fields }, changes, { deviceId });
+    return 'status' in p ? null : p;
+  } catch (err) {
+    if ((err as { code?: string }).code === DEADLOCK) throw err;
+    return null;
+  }
+}
+
+/**
+ * Stores a run of prepared creates under one savepoint: one INSERT per table, then each create's
+ * change log entry, listeners and answer in op order. A create whose id (or another unique value)
+ * was taken, and every create of the run when anything fails, goes through the single-op path,
+ * so the answers are the ones it would have given.
+ */
+async function storeRun(em: EntityManager, user: SessionUser, deviceId: string, run: Pending[], changes: ChangeBuffer,
+  nextSavepoint: () => Promise<void>, answer: (at: number, opId: string, o: WriteOutcome) => void,
+  perOp: (op: SyncOp, at: number) => Promise<void>): Promise<void> {
+  await nextSavepoint();
+  const mark = changes.mark();
+  const outcomes: [Pending, WriteOutcome][] = [];
+  const taken: Pending[] = [];
+  try {
+    const stored = new Set<string>();
+    for (const entity of new Set(run.map((r) => r.op.entity))) {
+      const ids = await insertPrepared(em, entity, run.filter((r) => r.op.entity === entity).map((r) => r.prepared));
+      ids.forEach((id) => stored.add(id));
+    }
+    for (const r of run) {
+      if (!stored.has(r.op.id)) { taken.push(r); continue; }
+      outcomes.push([r, await finishBatchedCreate(em, user, r.op.entity, r.prepared, changes, { deviceId })]);
+    }
+  } catch (err) {
+    if ((err as { code?: string }).code === DEADLOCK) throw err;
+    await em.query('ROLLBACK TO SAVEPOINT sync_op');
+    changes.rollbackTo(mark);
+    for (const r of run) await perOp(r.op, r.at);
+    return;
+  }
+  for (const [r, o] of outcomes) answer(r.at, r.op.opId, o);
+  for (const r of taken) await perOp(r.op, r.at);
 }
 
 async function applyOne(em: EntityManager, user: SessionUser, deviceId: string, op: SyncOp, changes: ChangeBuffer): Promise<WriteOutcome> {
