@@ -1,0 +1,74 @@
+/**
+ * The fleet's view of the servers: one address made of several server processes, picked round-robin
+ * per request (sessions live in PostgreSQL, so any process serves any device). A process that refuses
+ * or drops a connection is taken out of the rotation and the request is sent again to the next one,
+ * a bounded number of times: the device's retry after a crash, with the same body (and opIds).
+ */
+export class FleetAddress {
+  private next = 0;
+  readonly down = new Set<string>();
+  /** Attempts that failed and were sent again (connection lost, 5xx). */
+  retries = 0;
+
+  constructor(private readonly bases: string[]) {}
+
+  async fetch(path: string, init: RequestInit, attempts = 8): Promise<Response> {
+    let last: unknown;
+    for (let a = 0; a < attempts; a++) {
+      const live = this.bases.filter((b) => !this.down.has(b));
+      if (!live.length) throw new Error('no server process is left');
+      const base = live[this.next++ % live.length];
+      try {
+        const res = await fetch(base + path, { ...init, signal: AbortSignal.timeout(120_000) });
+        if (res.status < 500 || a === attempts - 1) return res;
+        last = new Error(`HTTP ${res.status}: ${await res.text()}`);
+      } catch (err) {
+        last = err;
+        // Refused or reset: that process is gone (the bench never restarts one).
+        if (connectionLost(err)) this.down.add(base);
+      }
+      this.retries++;
+      await sleep(100 * (a + 1));
+    }
+    throw last;
+  }
+}
+
+function connectionLost(err: unknown): boolean {
+  const code = (err as { cause?: { code?: string } }).cause?.code ?? '';
+  return ['ECONNREFUSED', 'ECONNRESET', 'UND_ERR_SOCKET', 'EPIPE', 'UND_ERR_CLOSED'].includes(code) || /other side closed|socket/i.test(String(err));
+}
+
+export const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
+
+/** A signed-in device: cookie jar and CSRF token, every call through the fleet's address. */
+export async function deviceSession(addr: FleetAddress, email: string, password = 'fluxwalk-demo') {
+  const jar = new Map<string, string>();
+  let token = '';
+  const call = async (method: string, path: string, body?: unknown): Promise<{ status: number; json: any }> => { // eslint-disable-line @typescript-eslint/no-explicit-any
+    const headers: Record<string, string> = { cookie: [...jar].map(([k, v]) => `${k}=${v}`).join('; '), accept: 'application/json' };
+    if (body !== undefined) headers['content-type'] = 'application/json';
+    if (token && method !== 'GET') headers['x-csrf-token'] = token;
+    const res = await addr.fetch(path, { method, headers, body: body === undefined ? undefined : JSON.stringify(body) });
+    for (const c of res.headers.getSetCookie()) {
+      const [kv] = c.split(';');
+      const i = kv.indexOf('=');
+      jar.set(kv.slice(0, i).trim(), kv.slice(i + 1));
+    }
+    const text = await res.text();
+    return { status: res.status, json: text ? JSON.parse(text) : null };
+  };
+  token = (await call('GET', '/api/auth/csrf')).json.token;
+  const login = await call('POST', '/api/auth/login', { email, password });
+  if (login.status !== 200) throw new Error(`sign-in failed: ${login.status} ${JSON.stringify(login.json)}`);
+  token = (await call('GET', '/api/auth/csrf')).json.token;
+  return call;
+}
+
+export type Call = Awaited<ReturnType<typeof deviceSession>>;
+
+export function percentile(xs: number[], p: number): number {
+  if (!xs.length) return NaN;
+  const s = [...xs].sort((a, b) => a - b);
+  return s[Math.min(s.length - 1, Math.ceil((p / 100) * s.length) - 1)];
+}
