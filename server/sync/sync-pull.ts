@@ -28,17 +28,20 @@ export async function pullChanges(ds: DataSource, user: SessionUser, deviceId: s
   const lost = cursor > 0 && known ? known.filter((s) => !readable.includes(s)) : [];
 
   const removals = lost.length ? await accessRemovals(ds, lost, cursor) : [];
+  // The log's end before the page: every seq up to it is committed (seqs are handed out in commit
+  // order), so the page below sees all of them. Read after the page, it could name a row committed
+  // in between that the page never saw, and the cursor would pass over it for good.
+  const [{ max }] = await ds.query(`SELECT coalesce(max(seq), 0) AS max FROM change_log`);
   const rows: LogRow[] = await ds.query(
     `SELECT seq, entity, record_id, rev, deleted FROM change_log
-      WHERE seq > $1 AND site_id = ANY($2::uuid[]) AND entity = ANY($3::text[]) ORDER BY seq LIMIT $4`,
-    [cursor, readable, SYNC_ENTITIES, limit + 1]);
+      WHERE seq > $1 AND seq <= $5 AND site_id = ANY($2::uuid[]) AND entity = ANY($3::text[]) ORDER BY seq LIMIT $4`,
+    [cursor, readable, SYNC_ENTITIES, limit + 1, max]);
   const more = rows.length > limit;
   const page = rows.slice(0, limit);
   const changes = [...removals, ...(await currentStates(ds, page))];
   let next = page.length ? Number(page[page.length - 1].seq) : cursor;
   if (!more) {
-    // Every readable change after the cursor is in this page; later rows of other sites can be passed over.
-    const [{ max }] = await ds.query(`SELECT coalesce(max(seq), 0) AS max FROM change_log`);
+    // Every readable change up to the log's end read above is in this page; rows of other sites can be passed over.
     next = Math.max(next, Number(max));
   }
   await recordPull(ds.manager, deviceId, user.id, next, readable);
