@@ -76,10 +76,12 @@ export async function applyBatch(em: EntityManager, user: SessionUser, deviceId:
   // Creates that passed every check wait here in op order and are stored together (one INSERT per
   // table) before any op that is not such a create, so every op still sees the ones before it.
   let run: Pending[] = [];
+  const inRun = new Set<string>(); // opIds and record ids of the run
   const flush = async () => {
     if (!run.length) return;
     const pending = run;
     run = [];
+    inRun.clear();
     await storeRun(em, user, deviceId, pending, changes, nextSavepoint, answer, perOp);
   };
   for (const p of parsed) {
@@ -87,7 +89,7 @@ export async function applyBatch(em: EntityManager, user: SessionUser, deviceId:
     results.push(undefined as unknown as PushResult); // filled in op order by answer()
     if (!p.ok) { results[at] = p.result; continue; }
     const { op } = p;
-    if (run.some((r) => r.op.opId === op.opId || r.op.id === op.id)) await flush();
+    if (inRun.has(op.opId) || inRun.has(op.id)) await flush();
     const first = thisBatch.get(op.opId) ?? earlier.get(op.opId);
     if (first || !claimed.has(op.opId)) {
       results[at] = replay(op.opId, first);
@@ -95,7 +97,11 @@ export async function applyBatch(em: EntityManager, user: SessionUser, deviceId:
     }
     if (batching && batchableCreate(op)) {
       const prepared = await prepareOne(em, user, deviceId, op, changes);
-      if (prepared) { run.push({ op, at, prepared }); continue; }
+      if (prepared) {
+        run.push({ op, at, prepared });
+        inRun.add(op.opId).add(op.id);
+        continue;
+      }
     }
     // Refused by a check or not a plain create: the single-op path gives the answer, after the run is stored.
     await flush();
