@@ -48,7 +48,7 @@ async function main() {
     const totalPushes = DEVICES * Math.ceil(OPS / BATCH);
     let release!: () => void;
     const run: FleetRun = {
-      siteId: DEMO_SITE_ID, collarIds, shared, ops: OPS, batch: BATCH, fates: new Map(), pushMs: [], pullMs: [], errors: [],
+      siteId: DEMO_SITE_ID, collarIds, shared, ops: OPS, batch: BATCH, fates: new Map(), cursors: new Map(), pushMs: [], pullMs: [], errors: [],
       allPushed: new Promise<void>((r) => { release = r; }),
       devicePushed: (n) => { if (!pushedDevices.has(n)) { pushedDevices.add(n); if (pushedDevices.size === DEVICES) release(); } },
       onPush: () => {
@@ -83,7 +83,7 @@ async function main() {
     console.log(`${DEVICES} devices × ${OPS} ops in batches of ${BATCH} on 2 server processes${KILL ? `, one SIGKILLed after push ${killedAt} of ${totalPushes}` : ''}: ${(wallMs / 1000).toFixed(1)} s`);
     console.log(`push: ${ms(run.pushMs)}`);
     console.log(`pull: ${ms(run.pullMs)}`);
-    console.log(`requests sent again after a lost connection or 5xx: ${addr.retries}; errors: ${run.errors.length}`);
+    console.log(`requests sent again after a lost connection or 5xx: ${addr.retries} ${JSON.stringify(Object.fromEntries(addr.reasons))}; errors: ${run.errors.length}`);
     for (const e of run.errors.slice(0, 10)) console.log(`  ${e}`);
     const failed = await prove(db, run, states, siteIds);
     const p95 = percentile(run.pushMs, 95);
@@ -117,6 +117,7 @@ async function prove(db: Client, run: FleetRun, states: (DeviceState | null)[], 
   const wrongRev = rows.filter((r) => Number(r.rev) !== want.get(r.id) || r.logged !== Number(r.rev));
   check(rows.length === want.size && !wrongRev.length,
     `ops: ${rows.length} of ${want.size} created records stored, ${wrongRev.length} whose rev or log differs from the applied creates + edits`);
+  for (const r of wrongRev.slice(0, 3)) console.log(`     ${r.id}${run.shared.includes(r.id) ? ' (shared)' : ''}: rev ${r.rev}, ${r.logged} log entries, ${want.get(r.id)} applied ops`);
   const dbState: DeviceState = new Map();
   for (const e of SYNC_ENTITIES) {
     const d = ENTITY_DEFS[e];
@@ -125,6 +126,16 @@ async function prove(db: Client, run: FleetRun, states: (DeviceState | null)[], 
   }
   const differing = states.filter((s) => !s || s.size !== dbState.size || [...dbState].some(([k, v]) => s.get(k) !== v));
   check(!differing.length, `final pulls: ${states.length - differing.length} of ${states.length} devices hold exactly the database's ${dbState.size} records and revs`);
+  for (const st of differing.slice(0, 2)) {
+    console.log(`     device ${states.indexOf(st)}: cursor after its first pull ${run.cursors.get(states.indexOf(st))}`);
+    if (!st) { console.log('     a device that failed holds nothing'); continue; }
+    const keys = [...new Set([...dbState.keys(), ...st.keys()])].filter((k) => st.get(k) !== dbState.get(k));
+    for (const k of keys.slice(0, 3)) {
+      const [e, id] = k.split(':');
+      const seqs = (await db.query(`SELECT seq, rev FROM change_log WHERE entity = $1 AND record_id = $2 ORDER BY seq`, [e, id])).rows.map((r) => `${r.seq}/r${r.rev}`);
+      console.log(`     ${k}: device ${st.get(k) ?? 'missing'}, database ${dbState.get(k) ?? 'missing'}; log ${seqs.join(' ')}`);
+    }
+  }
   return failed;
 }
 

@@ -7,8 +7,9 @@
 export class FleetAddress {
   private next = 0;
   readonly down = new Set<string>();
-  /** Attempts that failed and were sent again (connection lost, 5xx). */
+  /** Attempts that failed and were sent again (connection lost, 5xx), by reason. */
   retries = 0;
+  readonly reasons = new Map<string, number>();
 
   constructor(private readonly bases: string[]) {}
 
@@ -24,19 +25,22 @@ export class FleetAddress {
         last = new Error(`HTTP ${res.status}: ${await res.text()}`);
       } catch (err) {
         last = err;
-        // Refused or reset: that process is gone (the bench never restarts one).
-        if (connectionLost(err)) this.down.add(base);
+        // Refused: that process is gone (the bench never restarts one). A reset (a kept-alive socket the
+        // server closed, or a process killed mid-request) is only retried: the push is idempotent by opId.
+        if (refused(err)) this.down.add(base);
       }
       this.retries++;
+      const why = String((last as { cause?: { code?: string } }).cause?.code ?? (last as Error).message ?? last).slice(0, 60);
+      this.reasons.set(why, (this.reasons.get(why) ?? 0) + 1);
       await sleep(100 * (a + 1));
     }
     throw last;
   }
 }
 
-function connectionLost(err: unknown): boolean {
-  const code = (err as { cause?: { code?: string } }).cause?.code ?? '';
-  return ['ECONNREFUSED', 'ECONNRESET', 'UND_ERR_SOCKET', 'EPIPE', 'UND_ERR_CLOSED'].includes(code) || /other side closed|socket/i.test(String(err));
+function refused(err: unknown): boolean {
+  const cause = (err as { cause?: { code?: string; errors?: { code?: string }[] } }).cause;
+  return cause?.code === 'ECONNREFUSED' || !!cause?.errors?.some((e) => e.code === 'ECONNREFUSED');
 }
 
 export const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));

@@ -19,6 +19,8 @@ export interface FleetRun {
   onPush: () => void;
   /** Resolves when every device has pushed everything: the final pulls then see a still database. */
   allPushed: Promise<void>;
+  /** Each device's cursor after its first pull. */
+  cursors: Map<number, number>;
   /** A device says it has pushed everything (or given up); called once per device. */
   devicePushed: (n: number) => void;
 }
@@ -51,6 +53,7 @@ export async function runDevice(call: Call, run: FleetRun, n: number, rand: () =
   const deviceId = randomUUID();
   const state: DeviceState = new Map();
   const cursor = await pullAll(call, run, deviceId, 0, state);
+  run.cursors.set(n, cursor);
   const own: { id: string; rev: number }[] = [];
   const sent: Op[] = [];
   let made = 0;
@@ -66,7 +69,9 @@ export async function runDevice(call: Call, run: FleetRun, n: number, rand: () =
         if (touched.has(id)) continue;
         touched.add(id);
         const known = Number((state.get(`collarEvent:${id}`) ?? '1:false').split(':')[0]);
-        ops.push(edit(id, known, rand() < 0.5 ? { note: `device ${n} op ${k}` } : { date: `2026-06-${String(10 + (k % 18)).padStart(2, '0')}` }));
+        // Every edit sets a value no other op sets: an edit that changed nothing would keep the rev.
+        const day = new Date(Date.UTC(2030, 0, 1) + (n * run.ops + k) * 86_400_000).toISOString().slice(0, 10);
+        ops.push(edit(id, known, rand() < 0.5 ? { note: `device ${n} op ${k}` } : { date: day }));
       } else if (r < 0.15 && sent.length) {
         ops.push(sent[Math.floor(rand() * sent.length)]); // the same op again, as after a lost answer
       } else if (r < 0.45 && own.length) {
