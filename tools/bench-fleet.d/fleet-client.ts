@@ -13,7 +13,8 @@ export class FleetAddress {
 
   constructor(private readonly bases: string[]) {}
 
-  async fetch(path: string, init: RequestInit, attempts = 8): Promise<Response> {
+  /** The answer with its body read: a body cut off by a dying process is sent again too. */
+  async fetch(path: string, init: RequestInit, attempts = 8): Promise<{ res: Response; text: string }> {
     let last: unknown;
     for (let a = 0; a < attempts; a++) {
       const live = this.bases.filter((b) => !this.down.has(b));
@@ -21,8 +22,9 @@ export class FleetAddress {
       const base = live[this.next++ % live.length];
       try {
         const res = await fetch(base + path, { ...init, signal: AbortSignal.timeout(120_000) });
-        if (res.status < 500 || a === attempts - 1) return res;
-        last = new Error(`HTTP ${res.status}: ${await res.text()}`);
+        const text = await res.text();
+        if (res.status < 500 || a === attempts - 1) return { res, text };
+        last = new Error(`HTTP ${res.status}: ${text}`);
       } catch (err) {
         last = err;
         // Refused: that process is gone (the bench never restarts one). A reset (a kept-alive socket the
@@ -53,13 +55,12 @@ export async function deviceSession(addr: FleetAddress, email: string, password 
     const headers: Record<string, string> = { cookie: [...jar].map(([k, v]) => `${k}=${v}`).join('; '), accept: 'application/json' };
     if (body !== undefined) headers['content-type'] = 'application/json';
     if (token && method !== 'GET') headers['x-csrf-token'] = token;
-    const res = await addr.fetch(path, { method, headers, body: body === undefined ? undefined : JSON.stringify(body) });
+    const { res, text } = await addr.fetch(path, { method, headers, body: body === undefined ? undefined : JSON.stringify(body) });
     for (const c of res.headers.getSetCookie()) {
       const [kv] = c.split(';');
       const i = kv.indexOf('=');
       jar.set(kv.slice(0, i).trim(), kv.slice(i + 1));
     }
-    const text = await res.text();
     return { status: res.status, json: text ? JSON.parse(text) : null };
   };
   token = (await call('GET', '/api/auth/csrf')).json.token;
