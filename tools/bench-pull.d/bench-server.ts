@@ -9,7 +9,9 @@ import { resetDatabase } from '../../test/support/reset-database';
 export async function startBenchServer(root: string, databaseUrl: string, port: number): Promise<{ baseUrl: string; stop(): Promise<void> }> {
   await resetDatabase(databaseUrl);
   let output = '';
-  const child: ChildProcess = spawn(process.execPath, [path.join(root, 'dist/server/server/main.js')], {
+  // BENCH_CPU_PROF=dir: the server writes a V8 CPU profile there when it stops (open in Chrome DevTools).
+  const prof = process.env['BENCH_CPU_PROF'] ? ['--cpu-prof', `--cpu-prof-dir=${process.env['BENCH_CPU_PROF']}`] : [];
+  const child: ChildProcess = spawn(process.execPath, [...prof, path.join(root, 'dist/server/server/main.js')], {
     cwd: root,
     env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', DATABASE_URL: databaseUrl, STATIC_DIR: path.join(root, 'dist/app/browser'), NODE_ENV: 'production', APP_ORIGIN: `http://127.0.0.1:${port}` },
     stdio: ['ignore', 'pipe', 'pipe'],
