@@ -3,8 +3,13 @@
  * no class instances. Comparing values goes through the same normalisation.
  */
 export function toWire<T extends object>(row: T): Record<string, unknown> {
+  // A plain key loop: called once per record of every sync page, where entries() arrays showed in the profile.
   const out: Record<string, unknown> = {};
-  for (const [k, v] of Object.entries(row)) out[k] = v instanceof Date ? v.toISOString() : v;
+  const src = row as Record<string, unknown>;
+  for (const k of Object.keys(src)) {
+    const v = src[k];
+    out[k] = v instanceof Date ? v.toISOString() : v;
+  }
   return out;
 }
 
