@@ -1,0 +1,137 @@
+/// <reference lib="dom" />
+/**
+ * Interaction latency on a slow phone: the demo scenario plus N collars on every route of the
+ * first site, the real app in headless Chromium, synced, then the CPU slowed 4× (CDP). Each
+ * interaction's time from input to the next paint comes from PerformanceObserver 'event' entries
+ * (durationThreshold 16); the worst per screen is printed. Selectors are roles, labels and test
+ * ids, so the bench survives layout changes; a step whose control is not found is reported, not fatal.
+ * The same interactions at full speed are the reference in the same run. Target: ≤ 100 ms each.
+ */
+import { Client } from 'pg';
+import type { Page } from 'playwright-core';
+import { signInAs } from '../../test/e2e/support/app-actions';
+import { launchBrowser } from '../../test/e2e/support/browser';
+import { startBenchServer } from '../bench-pull.d/bench-server';
+
+const EXTRA = Number(process.argv[2] ?? 5_000);
+const STEP_MS = 30_000;
+
+async function addCollarsToRoutes(url: string, n: number): Promise<void> {
+  const db = new Client({ connectionString: url });
+  await db.connect();
+  try {
+    const [{ site_id, plot_id }] = (await db.query(
+      `SELECT p.site_id, p.id AS plot_id FROM plot p JOIN site s ON s.id = p.site_id ORDER BY s.name, p.code LIMIT 1`)).rows;
+    await db.query('BEGIN');
+    await db.query(`SELECT pg_advisory_xact_lock(72011)`); // the ChangeBuffer's lock: seq order stays commit order
+    const made = await db.query(
+      `INSERT INTO collar (id, site_id, code, plot_id, shape, diameter_cm, area_cm2, notes)
+       SELECT gen_random_uuid(), $1, 'L-' || lpad(g::text, 5, '0'), $2, 'round', 20, 314.159, ''
+         FROM generate_series(1, $3::int) g RETURNING id`, [site_id, plot_id, n]);
+    const ids = made.rows.map((r: { id: string }) => r.id);
+    await db.query(`INSERT INTO change_log (seq, entity, record_id, rev, site_id, fields, deleted)
+       SELECT nextval('change_seq'), 'collar', id, 1, $1, ARRAY['code'], false FROM unnest($2::uuid[]) id`, [site_id, ids]);
+    const routes = await db.query(`UPDATE route SET collar_ids = collar_ids || $2::uuid[], rev = rev + 1 WHERE site_id = $1 RETURNING id, rev`, [site_id, ids]);
+    for (const r of routes.rows) {
+      await db.query(`INSERT INTO change_log (seq, entity, record_id, rev, site_id, fields, deleted) VALUES (nextval('change_seq'), 'route', $1, $2, $3, ARRAY['collarIds'], false)`, [r.id, r.rev, site_id]);
+    }
+    await db.query('COMMIT');
+  } finally {
+    await db.end();
+  }
+}
+
+type Entry = { name: string; duration: number; target: string };
+
+async function measure(page: Page, label: string, act: () => Promise<void>): Promise<Entry[] | string> {
+  await page.evaluate(() => { (window as unknown as { fwEvents: Entry[] }).fwEvents = []; });
+  try {
+    await act();
+  } catch (err) {
+    return `not reached (${String((err as Error).message).split('\n')[0].slice(0, 90)})`;
+  }
+  await page.waitForTimeout(300); // the observer reports after the next paint
+  return page.evaluate(() => (window as unknown as { fwEvents: Entry[] }).fwEvents);
+}
+
+async function main(): Promise<void> {
+  const url = process.env['E2E_DATABASE_URL'];
+  const root = process.env['BENCH_ROOT'];
+  if (!url || !root) throw new Error('E2E_DATABASE_URL and BENCH_ROOT are not set: run tools/bench-interaction');
+  const server = await startBenchServer(root, url, Number(process.env['BENCH_PORT'] ?? 4398));
+  const browser = await launchBrowser();
+  const { page, context } = browser;
+  try {
+    await addCollarsToRoutes(url, EXTRA);
+    await page.setViewportSize({ width: 390, height: 844 });
+    await context.addInitScript(() => {
+      const w = window as unknown as { fwEvents: Entry[] };
+      w.fwEvents = [];
+      new PerformanceObserver((list) => {
+        for (const e of list.getEntries() as PerformanceEventTiming[]) {
+          const t = e.target as Element | null;
+          w.fwEvents.push({ name: e.name, duration: e.duration, target: t ? `${t.tagName.toLowerCase()} ${(t.textContent ?? '').trim().slice(0, 30)}` : '' });
+        }
+      }).observe({ type: 'event', durationThreshold: 16, buffered: false } as PerformanceObserverInit);
+    });
+    await signInAs(page, server.baseUrl, 'crew');
+    await page.locator('[data-testid="sync-indicator"][data-synced-at]').waitFor({ timeout: 300_000 });
+    console.log(`database: demo scenario + ${EXTRA} collars on every route of the first site`);
+    const cdp = await context.newCDPSession(page);
+    const steps: [string, string, () => Promise<void>][] = [
+      ['Walk', 'open the Walk', async () => {
+        await page.goto(`${server.baseUrl}/walk`);
+        await page.getByTestId('route-list').waitFor({ timeout: STEP_MS });
+      }],
+      ['route', 'open a collar from the route', async () => {
+        await page.locator('[data-testid^="route-collar-"]').first().click({ timeout: STEP_MS });
+        await page.getByTestId('visit-code').waitFor({ timeout: STEP_MS });
+      }],
+      ['visit', 'save an offset set', async () => {
+        for (const [i, v] of ['1.6', '1.7', '1.5', '1.6'].entries()) await page.getByTestId(`offset-${i + 1}`).fill(v, { timeout: STEP_MS });
+        await page.getByRole('button', { name: 'Save offset set' }).click({ timeout: STEP_MS });
+        await page.getByTestId('offset-saved').waitFor({ timeout: STEP_MS });
+      }],
+      ['visit', 'chamber tap', async () => {
+        await page.getByRole('button', { name: 'Chamber on' }).click({ timeout: STEP_MS });
+        await page.getByRole('button', { name: 'Chamber off' }).click({ timeout: STEP_MS });
+      }],
+      ['route', 'back to the route', async () => {
+        await page.getByRole('link', { name: 'Back to the route' }).click({ timeout: STEP_MS });
+        await page.getByTestId('route-list').waitFor({ timeout: STEP_MS });
+      }],
+      ['map', 'switch to the map', async () => {
+        await page.getByRole('link', { name: 'Map' }).click({ timeout: STEP_MS });
+        await page.locator('.fw-marker').first().waitFor({ timeout: STEP_MS });
+      }],
+    ];
+    const worst: Record<string, Record<string, number>> = {};
+    for (const rate of [1, 4]) {
+      await cdp.send('Emulation.setCPUThrottlingRate', { rate });
+      console.log(`CPU ${rate === 1 ? 'at full speed (reference)' : 'slowed 4x'}:`);
+      for (const [screen, what, act] of steps) {
+        const r = await measure(page, what, act);
+        if (typeof r === 'string') {
+          console.log(`  ${screen.padEnd(6)} ${what}: ${r}`);
+          continue;
+        }
+        const top = r.reduce<Entry | null>((a, e) => (!a || e.duration > a.duration ? e : a), null);
+        const ms = top?.duration ?? 0;
+        (worst[`x${rate}`] ??= {})[screen] = Math.max(worst[`x${rate}`]?.[screen] ?? 0, ms);
+        console.log(`  ${screen.padEnd(6)} ${what}: worst ${ms.toFixed(0)} ms${top ? ` (${top.name} on ${top.target})` : ' (no event over 16 ms)'}`);
+      }
+    }
+    await cdp.send('Emulation.setCPUThrottlingRate', { rate: 1 });
+    for (const [screen, ms] of Object.entries(worst['x4'] ?? {})) {
+      console.log(`worst at 4x, ${screen}: ${ms.toFixed(0)} ms (full speed ${(worst['x1']?.[screen] ?? 0).toFixed(0)} ms) -> ${ms <= 100 ? 'met' : 'NOT met'}`);
+    }
+  } finally {
+    await browser.close();
+    await server.stop();
+  }
+}
+
+main().catch((err) => {
+  console.error(err);
+  process.exit(1);
+});
