@@ -16,15 +16,24 @@ export interface Browser {
  * context is what lets the service worker and storage behave as in a real install
  * (`launch()` refuses --user-data-dir).
  */
-export async function launchBrowser(options: { hasTouch?: boolean } = {}): Promise<Browser> {
+export interface BrowserShape {
+  viewport?: { width: number; height: number };
+  /** A phone: touch events and the mobile viewport (meta viewport honoured). */
+  touch?: boolean;
+  /** Touch events only, with the desktop viewport. */
+  hasTouch?: boolean;
+}
+
+export async function launchBrowser(shape: BrowserShape = {}): Promise<Browser> {
   const profile = mkdtempSync(path.join(tmpdir(), 'fw-e2e-'));
   const context = await chromium.launchPersistentContext(profile, {
     executablePath: process.env['CHROMIUM_PATH'] ?? '/usr/bin/chromium',
     headless: true,
-    viewport: { width: 1000, height: 760 },
+    viewport: shape.viewport ?? { width: 1000, height: 760 },
+    hasTouch: shape.touch ?? shape.hasTouch ?? false,
+    isMobile: shape.touch ?? false,
     // As a user who asks for less motion: nothing is caught mid-fade when axe or a screenshot looks.
     reducedMotion: 'reduce',
-    hasTouch: options.hasTouch ?? false,
     args: [
       '--headless',
       '--no-sandbox',

@@ -1,0 +1,140 @@
+/// <reference lib="dom" />
+// Callbacks passed to page.evaluate() run in the browser and use its DOM types.
+import AxeBuilder from '@axe-core/playwright';
+import { Page } from 'playwright-core';
+
+/** One thing the layout guard found on a screen: which check, and where (a short element description). */
+export interface LayoutFinding {
+  check: 'page-wider-than-screen' | 'cut-off' | 'covered' | 'text-overflow' | 'default-look' | 'small-target' | 'tab-arrows' | 'axe';
+  where: string;
+}
+
+/**
+ * Material's own controls render a <button> or <input> carrying these classes; any other button
+ * is the browser's default look. Named one by one so a new kind of control has to be looked at.
+ */
+const MATERIAL_BUTTONS = [
+  '.mat-mdc-button-base', // mat-button, mat-flat-button, mat-stroked-button, mat-raised-button, mat-icon-button, mat-fab
+  '.mat-mdc-list-item', // a list item that is a button
+  '.mat-mdc-menu-item',
+  '.mat-button-toggle-button',
+  '.mdc-switch', // mat-slide-toggle
+  '.mat-mdc-chip-action',
+  '.mat-mdc-tab-header-pagination', // reported on its own as "tab-arrows"
+  '.mat-calendar-body-cell',
+  '.mat-expansion-panel-header',
+];
+/** Native inputs Material wraps (checkbox, radio, slider) or hides behind a Material button (file). */
+const MATERIAL_INPUTS = ['.mdc-checkbox__native-control', '.mdc-radio__native-control', '.mdc-slider__input', '[type=hidden]'];
+
+/**
+ * The layout checks of one screen, run in the page (it scrolls to look at each element):
+ * - page-wider-than-screen: document.scrollingElement.scrollWidth > innerWidth;
+ * - cut-off: visible text or a control whose box ends beyond the viewport's right edge with no
+ *   scrolling box around it (the part beyond cannot be reached);
+ * - covered: a form-field label, hint or error whose centre is painted over by something else;
+ * - text-overflow: a label, hint, error, button or tab label whose text is wider than its box;
+ * - default-look: a button, select, progress bar, disclosure or text input the browser draws itself;
+ * - small-target: a control smaller than 24×24 CSS px (WCAG 2.2, 2.5.8 Target Size (Minimum));
+ *   inline links inside a sentence are the criterion's own exception;
+ * - tab-arrows: tabs hidden behind Material's pagination arrows.
+ */
+export async function layoutFindings(page: Page): Promise<LayoutFinding[]> {
+  return page.evaluate(({ materialButtons, materialInputs }) => {
+    const found: { check: string; where: string }[] = [];
+    const describe = (el: Element) => {
+      const text = (el.getAttribute('aria-label') || (el as HTMLElement).innerText || el.getAttribute('name') || '').trim().replace(/\s+/g, ' ').slice(0, 40);
+      const cls = typeof el.className === 'string' && el.className ? `.${el.className.trim().split(/\s+/).slice(0, 2).join('.')}` : '';
+      return `${el.tagName.toLowerCase()}${cls}${text ? ` "${text}"` : ''}`;
+    };
+    const visible = (el: Element) => {
+      const r = el.getBoundingClientRect();
+      if (r.width <= 1 || r.height <= 1) return false;
+      const s = getComputedStyle(el);
+      return s.visibility !== 'hidden' && s.display !== 'none' && Number(s.opacity) > 0 && !el.closest('[aria-hidden="true"], .cdk-visually-hidden, [inert]');
+    };
+    const scrollsX = (el: Element | null): boolean => {
+      for (let p = el?.parentElement ?? null; p && p !== document.body; p = p.parentElement) {
+        const o = getComputedStyle(p).overflowX;
+        if (o === 'auto' || o === 'scroll') return true;
+      }
+      return false;
+    };
+    const inMap = (el: Element) => !!el.closest('.leaflet-container, canvas, svg');
+
+    const doc = document.scrollingElement ?? document.documentElement;
+    if (doc.scrollWidth > innerWidth) found.push({ check: 'page-wider-than-screen', where: `${doc.scrollWidth} px in a ${innerWidth} px window` });
+
+    // Leaf text and controls past the right edge, not inside a box that scrolls sideways.
+    const leaves = Array.from(document.querySelectorAll('body *')).filter((el) =>
+      !inMap(el) && (el.matches('button, a, input, select, textarea, [role=tab], th, td') ||
+        Array.from(el.childNodes).some((n) => n.nodeType === Node.TEXT_NODE && n.textContent!.trim())));
+    for (const el of leaves) {
+      if (!visible(el)) continue;
+      const r = el.getBoundingClientRect();
+      if (r.right > innerWidth + 1 && !scrollsX(el)) found.push({ check: 'cut-off', where: `${describe(el)} ends at ${Math.round(r.right)} px` });
+    }
+
+    for (const el of Array.from(document.querySelectorAll('.mat-mdc-tab-header-pagination'))) {
+      if (visible(el) && !el.classList.contains('mat-mdc-tab-header-pagination-disabled')) {
+        found.push({ check: 'tab-arrows', where: describe(el.closest('.mat-mdc-tab-header')?.parentElement ?? el) });
+        break;
+      }
+    }
+
+    const words = '.mdc-floating-label, mat-label, mat-hint, mat-error, .mdc-button__label, .mdc-tab__text-label, .mdc-list-item__primary-text';
+    for (const el of Array.from(document.querySelectorAll(words))) {
+      if (!visible(el) || inMap(el)) continue;
+      const h = el as HTMLElement;
+      if (h.scrollWidth > h.clientWidth + 1 && getComputedStyle(h).overflowX !== 'visible') {
+        found.push({ check: 'text-overflow', where: describe(h) });
+      }
+    }
+
+    // A field's label, hint or error overlapping another field, control or text box.
+    const fieldWords = Array.from(document.querySelectorAll('.mat-mdc-form-field .mdc-floating-label, .mat-mdc-form-field mat-hint, .mat-mdc-form-field mat-error')).filter(visible);
+    const others = Array.from(document.querySelectorAll('.mat-mdc-text-field-wrapper, button, a[href], input:not([type=hidden]), textarea, mat-select, p, h1, h2, h3, label, li, th, td')).filter((o) => visible(o) && !inMap(o));
+    for (const el of fieldWords) {
+      const r = el.getBoundingClientRect();
+      const own = el.closest('.mat-mdc-form-field')!;
+      for (const o of others) {
+        if (own.contains(o) || o.contains(el)) continue;
+        const q = o.getBoundingClientRect();
+        const w = Math.min(r.right, q.right) - Math.max(r.left, q.left), h = Math.min(r.bottom, q.bottom) - Math.max(r.top, q.top);
+        if (w > 2 && h > 2) { found.push({ check: 'covered', where: `${describe(el)} under ${describe(o)}` }); break; }
+      }
+    }
+
+    const plain = [
+      `button:not(${materialButtons.join(', ')})`, 'input[type=button], input[type=submit], input[type=reset]', 'select', 'progress', 'summary',
+      `input:not(${materialInputs.join(', ')}):not(.mat-mdc-form-field input)`, 'textarea:not(.mat-mdc-form-field textarea)',
+    ].join(', ');
+    for (const el of Array.from(document.querySelectorAll(plain))) {
+      if (visible(el) && !inMap(el)) found.push({ check: 'default-look', where: describe(el) });
+    }
+
+    const targets = 'a[href], button, input:not([type=hidden]), select, textarea, [role=button], [role=tab], [role=link], [role=checkbox], [role=radio], mat-select';
+    for (const el of Array.from(document.querySelectorAll(targets))) {
+      if (!visible(el) || inMap(el) || el.closest('.mat-mdc-form-field')) continue;
+      const r = el.getBoundingClientRect();
+      if (r.width >= 24 - 0.5 && r.height >= 24 - 0.5) continue;
+      // WCAG 2.5.8 exception: a link inside a sentence.
+      if (el.matches('a') && getComputedStyle(el).display === 'inline' && el.parentElement && (el.parentElement.textContent ?? '').trim().length > (el.textContent ?? '').trim().length) continue;
+      found.push({ check: 'small-target', where: `${describe(el)} ${Math.round(r.width)}×${Math.round(r.height)}` });
+    }
+    for (const f of Array.from(document.querySelectorAll('.mat-mdc-form-field .mat-mdc-text-field-wrapper'))) {
+      if (!visible(f)) continue;
+      const r = f.getBoundingClientRect();
+      if (r.width < 24 || r.height < 24) found.push({ check: 'small-target', where: `${describe(f.closest('.mat-mdc-form-field')!)} ${Math.round(r.width)}×${Math.round(r.height)}` });
+    }
+    return found as { check: LayoutFinding['check']; where: string }[];
+  }, { materialButtons: MATERIAL_BUTTONS, materialInputs: MATERIAL_INPUTS });
+}
+
+/** axe-core (WCAG 2.0–2.2 A/AA rules) on the page: every serious, critical or moderate violation. */
+export async function axeFindings(page: Page): Promise<LayoutFinding[]> {
+  const result = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22aa']).analyze();
+  return result.violations
+    .filter((v) => v.impact === 'serious' || v.impact === 'critical' || v.impact === 'moderate')
+    .map((v) => ({ check: 'axe' as const, where: `${v.id} (${v.impact}): ${v.nodes.slice(0, 3).map((n) => n.target.join(' ')).join(' | ')}` }));
+}
