@@ -97,6 +97,16 @@ describe('Bench review: decisions on closures', () => {
     expect(new Date(h[4].at).getTime()).toBeGreaterThanOrEqual(new Date(h[0].at).getTime());
   });
 
+  it('when the demo seed has accepted and rejected closures, then each decision is in their history like any other lab decision', async () => {
+    for (const state of ['accepted', 'rejected'] as const) {
+      const q = await lab.get(`/api/bench/queue?siteId=${DEMO_SITE_ID}&reviewState=${state}&limit=1`);
+      const item = q.body.items[0];
+      expect(item).toBeDefined();
+      const h = (await lab.get(`/api/bench/closures/${item.id}/history`)).body.items;
+      expect(h.find((e: any) => e.field === 'reviewState')).toMatchObject({ kind: 'decision', oldValue: 'unreviewed', newValue: state, userName: expect.any(String) });
+    }
+  });
+
   it('when the queue is filtered by a flag, then only closures with that flag come back, each with its context', async () => {
     const q = await lab.get(`/api/bench/queue?siteId=${DEMO_SITE_ID}&flag=spike&limit=50`);
     expect(q.status).toBe(200);
