@@ -49,7 +49,8 @@ describe('Bench results in Chromium', () => {
       await page.getByRole('tab', { name: 'Temperature response' }).click();
       await resp;
       resp = page.waitForResponse((r) => r.url().includes('closures=not-rejected') && r.url().includes('/api/results/responses'));
-      await page.locator('select[name=closureSelection]').selectOption('not-rejected');
+      await page.getByRole('combobox', { name: 'Closures', exact: true }).click();
+      await page.getByRole('option', { name: 'accepted and not yet reviewed' }).click();
       const r = await (await resp).json();
       const chart = page.getByTestId('response-chart');
       await chart.waitFor();

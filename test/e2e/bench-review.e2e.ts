@@ -34,6 +34,14 @@ async function noSeriousProblems(page: Page, where: string) {
 }
 
 /** Moves focus off the filter fields so the Bench's keys reach the page, as a click on the page does. */
+/** Chooses an option of one of the queue's Material selects (by its exact label), as a person does. */
+async function pick(page: Page, label: string, option: string | number): Promise<void> {
+  await page.getByRole('combobox', { name: label, exact: true }).click();
+  const options = page.getByRole('option');
+  await (typeof option === 'number' ? options.nth(option) : options.filter({ hasText: new RegExp(`^\\s*${option}\\s*$`) }).first()).click();
+  await page.getByRole('listbox').waitFor({ state: 'detached' });
+}
+
 async function focusPage(page: Page): Promise<void> {
   await page.getByRole('heading', { name: 'Bench', level: 1 }).click();
 }
@@ -50,11 +58,11 @@ describe('Bench review in Chromium', () => {
 
       // Filter: one QC flag, unreviewed only.
       let q = queueAnswer(page);
-      await page.locator('select[name=flag]').selectOption('exp-linear-ratio-high');
+      await pick(page, 'QC flag', 'exp-linear-ratio-high');
       await q;
       q = queueAnswer(page);
       let d = detailAnswer(page);
-      await page.locator('select[name=reviewState]').selectOption('unreviewed');
+      await pick(page, 'Review', 'unreviewed');
       const filtered = await (await q).json();
       await d;
       expect(filtered.total).toBeGreaterThanOrEqual(3);
@@ -104,11 +112,10 @@ describe('Bench review in Chromium', () => {
 
       // Bulk accept: unflagged, unreviewed closures of one campaign.
       q = queueAnswer(page);
-      await page.locator('select[name=flag]').selectOption('none');
+      await pick(page, 'QC flag', 'No flag');
       await q;
-      const campaign = (await page.locator('select[name=campaignId]').locator('option').nth(1).getAttribute('value'))!;
       q = queueAnswer(page);
-      await page.locator('select[name=campaignId]').selectOption(campaign);
+      await pick(page, 'Campaign', 1);
       const before = await (await q).json();
       expect(before.total).toBeGreaterThan(0);
       const bulk = page.waitForResponse((r) => r.url().includes('/api/bench/bulk-accept'));
@@ -143,16 +150,16 @@ describe('Bench review in Chromium', () => {
       await noSeriousProblems(page, 'Bench review: recompute finished');
 
       // Reviewed closures recomputed since their review, as the queue lists them.
-      await page.locator('select[name=flag]').selectOption('');
-      await page.locator('select[name=reviewState]').selectOption('');
+      await pick(page, 'QC flag', 'Any or none');
+      await pick(page, 'Review', 'All decisions');
       let q = queueAnswer(page);
-      await page.locator('select[name=campaignId]').selectOption('');
+      await pick(page, 'Campaign', 'All campaigns');
       await q;
       await page.getByText('Context of the day').click();
       // Only the answer to this filter: the queue also reloads by itself when a recompute ends.
       q = page.waitForResponse((r) => r.url().includes('/api/bench/queue') && r.url().includes('recomputedSinceReview=true') && r.status() === 200);
       const d = detailAnswer(page);
-      await page.locator('select[name=recomputedSinceReview]').selectOption('yes');
+      await pick(page, 'Recomputed since review', 'yes');
       const marked = await (await q).json();
       await d;
       expect(marked.total).toBeGreaterThan(0);

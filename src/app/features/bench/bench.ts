@@ -1,4 +1,6 @@
 import { DecimalPipe } from '@angular/common';
+import { MatButtonModule } from '@angular/material/button';
+import { MatListModule } from '@angular/material/list';
 import { ChangeDetectionStrategy, Component, computed, inject, signal, viewChild } from '@angular/core';
 import { serverMessage } from '../../core/api/api-error';
 import { SiteChoice } from '../../core/auth/site-choice';
@@ -17,7 +19,7 @@ const SETTLE_STEP_S = 5;
  */
 @Component({
   selector: 'fw-bench',
-  imports: [BenchResults, ClosureView, DecimalPipe, QueueFilters, RecomputePanel],
+  imports: [BenchResults, ClosureView, DecimalPipe, MatButtonModule, MatListModule, QueueFilters, RecomputePanel],
   templateUrl: './bench.html',
   styleUrl: './bench.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -106,7 +108,8 @@ export class Bench {
   protected handleKey(e: KeyboardEvent): void {
     if (this.showResults()) return;
     const t = e.target as HTMLElement | null;
-    if (e.ctrlKey || e.metaKey || e.altKey || (t && /^(INPUT|SELECT|TEXTAREA|BUTTON)$/.test(t.tagName) && e.key !== 'Escape')) return;
+    const typing = t && (/^(INPUT|SELECT|TEXTAREA|BUTTON)$/.test(t.tagName) || t.closest('[role=combobox], [role=listbox], [role=option]'));
+    if (e.ctrlKey || e.metaKey || e.altKey || (typing && e.key !== 'Escape')) return;
     const v = this.view();
     const go = (by: number) => { const i = this.index() + by; if (i >= 0 && i < this.items().length) void this.select(i); };
     switch (e.key) {

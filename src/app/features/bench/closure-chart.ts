@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, ElementRef, OnDestroy, effect, input, viewChild } from '@angular/core';
+import { ChangeDetectionStrategy, Component, ElementRef, OnDestroy, afterNextRender, effect, input, viewChild } from '@angular/core';
 import uPlot from 'uplot';
 import { dryMoleFractionPpm } from '../../../../shared/flux';
 import type { FitResult } from './bench-api';
@@ -30,7 +30,7 @@ function curves(c: ChartInput) {
 @Component({
   selector: 'fw-closure-chart',
   template: `<div #plot class="plot" role="img" [attr.aria-label]="label()"></div><div #resid class="plot resid" aria-hidden="true"></div>`,
-  styles: [`:host { display: block; } .plot { width: 100%; } .resid { margin-top: 4px; }`],
+  styles: [`:host { display: block; min-width: 0; } .plot { width: 100%; overflow: hidden; } .resid { margin-top: 4px; }`],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ClosureChart implements OnDestroy {
@@ -39,13 +39,26 @@ export class ClosureChart implements OnDestroy {
   private readonly plotEl = viewChild.required<ElementRef<HTMLElement>>('plot');
   private readonly residEl = viewChild.required<ElementRef<HTMLElement>>('resid');
   private charts: uPlot[] = [];
+  /** The charts follow their box's width (window resize, rotation, the queue column folding away). */
+  private readonly resize = typeof ResizeObserver === 'undefined' ? null : new ResizeObserver(() => this.fit());
 
   constructor() {
     effect(() => this.draw(this.data()));
+    afterNextRender(() => this.resize?.observe(this.plotEl().nativeElement));
   }
 
   ngOnDestroy(): void {
+    this.resize?.disconnect();
     this.charts.forEach((c) => c.destroy());
+  }
+
+  private width(): number {
+    return Math.max(200, Math.floor(this.plotEl().nativeElement.clientWidth) || 640);
+  }
+
+  private fit(): void {
+    const w = this.width();
+    for (const c of this.charts) if (c.width !== w) c.setSize({ width: w, height: c.height });
   }
 
   private draw(c: ChartInput): void {
@@ -58,7 +71,7 @@ export class ClosureChart implements OnDestroy {
     const { line, expo } = curves(c);
     const selected = c.fit.selected?.model === 'exponential' ? expo : line;
     const resid = dry.map((v, i) => (v !== null && selected[i] !== null ? v - (selected[i] as number) : null));
-    const width = Math.max(320, this.plotEl().nativeElement.clientWidth || 640);
+    const width = this.width();
     const settle = c.settleS, end = c.windowEndS;
     const shade = (u: uPlot) => {
       const ctx = u.ctx, top = u.bbox.top, h = u.bbox.height;

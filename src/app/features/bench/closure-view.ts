@@ -1,6 +1,10 @@
 import { DatePipe, DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, ElementRef, computed, effect, input, output, signal, untracked, viewChild } from '@angular/core';
 import { FormsModule } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatInputModule } from '@angular/material/input';
+import { MatListModule } from '@angular/material/list';
+import { MatSelectModule } from '@angular/material/select';
 import type { ClosureDetail, FitResult } from './bench-api';
 import { ClosureChart, type ChartInput } from './closure-chart';
 import { ClosureSystem } from './closure-system';
@@ -15,7 +19,7 @@ export interface Decision { fields: Record<string, unknown> }
  */
 @Component({
   selector: 'fw-closure-view',
-  imports: [ClosureChart, ClosureSystem, DatePipe, DecimalPipe, FormsModule],
+  imports: [ClosureChart, ClosureSystem, DatePipe, DecimalPipe, FormsModule, MatButtonModule, MatInputModule, MatListModule, MatSelectModule],
   templateUrl: './closure-view.html',
   styleUrl: './bench.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

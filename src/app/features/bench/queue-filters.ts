@@ -1,12 +1,18 @@
-import { ChangeDetectionStrategy, Component, effect, inject, input, output, signal } from '@angular/core';
-import { FormsModule } from '@angular/forms';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, input, output, signal, untracked } from '@angular/core';
+import { MatExpansionModule } from '@angular/material/expansion';
+import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
+import { narrowScreen } from '../../core/layout/narrow-screen';
 import { QC_FLAGS } from '../../../../shared/flux';
 import { BenchApi, type Named, type QueueFilter } from './bench-api';
 
-/** The queue's filters: design, fit and the context of the day. Emits a whole filter on every change. */
+/**
+ * The queue's filters: design, fit and the context of the day. Emits a whole filter on every change.
+ * The panel folds on a phone (the queue comes first there) and says which filters are set.
+ */
 @Component({
   selector: 'fw-queue-filters',
-  imports: [FormsModule],
+  imports: [MatExpansionModule, MatInputModule, MatSelectModule],
   templateUrl: './queue-filters.html',
   styleUrl: './bench.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -20,20 +26,32 @@ export class QueueFilters {
   protected readonly plots = signal<Named[]>([]);
   protected readonly treatments = signal<Named[]>([]);
   protected readonly collars = signal<Named[]>([]);
-  protected f: Record<string, string> = {};
+  protected readonly yesNo = [
+    { key: 'rain24h', label: 'Rain in the last 24 h' }, { key: 'leakFailed', label: 'Failed leak check that day' },
+    { key: 'recomputedSinceReview', label: 'Recomputed since review' },
+  ];
+  protected readonly phone = narrowScreen();
+  private readonly current = signal<Record<string, string>>({});
+  protected get f(): Record<string, string> { return this.current(); }
+  protected readonly summary = computed(() => {
+    const set = Object.values(this.current()).filter((v) => v !== '' && v !== undefined).length;
+    return set ? `${set} set` : 'All closures';
+  });
 
   constructor() {
     effect(() => {
       const site = this.siteId();
       void Promise.all([this.api.list('campaigns', site), this.api.list('plots', site), this.api.list('treatments', site), this.api.list('collars', site)])
         .then(([c, p, t, k]) => { this.campaigns.set(c); this.plots.set(p); this.treatments.set(t); this.collars.set(k); });
-      this.f = {};
-      this.emit();
+      untracked(() => {
+        this.current.set({});
+        this.emit();
+      });
     });
   }
 
   protected set(key: string, value: string): void {
-    this.f = { ...this.f, [key]: value };
+    this.current.set({ ...this.current(), [key]: value });
     this.emit();
   }
 

@@ -1,5 +1,7 @@
 import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, output, signal, untracked } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { serverMessage } from '../../core/api/api-error';
 import { AuthStore } from '../../core/auth/auth-store';
 import { BenchApi, type RecomputeJob } from './bench-api';
@@ -19,12 +21,12 @@ const STATE_WORDS: Record<RecomputeJob['state'], string> = { queued: 'waiting', 
  */
 @Component({
   selector: 'fw-recompute-panel',
-  imports: [DatePipe],
+  imports: [DatePipe, MatButtonModule, MatProgressBarModule],
   template: `
     <section class="recompute" aria-labelledby="recompute-heading">
       <h2 id="recompute-heading">Recompute</h2>
       @if (canAsk()) {
-        <button type="button" (click)="ask()" [disabled]="asking() || running()">Recompute this site</button>
+ <button type="button" matButton="outlined" (click)="ask()" [disabled]="asking() || running()">Recompute this site</button>
       }
       <ul data-testid="recompute-jobs">
         @for (j of shown(); track j.id) {
@@ -32,8 +34,8 @@ const STATE_WORDS: Record<RecomputeJob['state'], string> = { queued: 'waiting', 
             <span class="state">{{ word(j) }}</span> · asked {{ j.createdAt | date: 'yyyy-MM-dd HH:mm' }}
             @if (j.state === 'queued' || j.state === 'active') {
               · {{ j.done }} / {{ j.total ?? '?' }} closures
-              <progress [attr.aria-label]="'Recompute progress, ' + j.done + ' of ' + (j.total ?? 'unknown') + ' closures'"
-                [value]="j.done" [max]="j.total || 1"></progress>
+              <mat-progress-bar [attr.aria-label]="'Recompute progress, ' + j.done + ' of ' + (j.total ?? 'unknown') + ' closures'"
+                [mode]="j.total ? 'determinate' : 'indeterminate'" [value]="j.total ? (100 * j.done) / j.total : 0" />
             }
             @if (j.state === 'completed' && j.result; as r) {
               <span data-testid="recompute-result">· {{ r.examined }} closures looked at, {{ r.changed }} changed{{ r.lockedKept ? ', ' + r.lockedKept + ' kept as published (closed campaigns)' : '' }}</span>
@@ -53,7 +55,7 @@ const STATE_WORDS: Record<RecomputeJob['state'], string> = { queued: 'waiting', 
     .recompute { margin: 8px 0; padding: 4px 8px; border: 1px solid rgba(128, 128, 128, 0.4); border-radius: 4px; }
     h2 { font-size: 1rem; margin: 4px 0; display: inline-block; margin-right: 12px; }
     ul { margin: 4px 0; padding-left: 18px; }
-    progress { vertical-align: middle; margin-left: 6px; width: 10rem; }
+    mat-progress-bar { margin: 4px 0; max-width: 20rem; }
     [data-state='failed'] .state { text-decoration: underline wavy; }
     .hint { font-size: 0.85rem; margin: 2px 0; }
     .problem { color: #b00020; }

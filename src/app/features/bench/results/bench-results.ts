@@ -1,4 +1,6 @@
 import { ChangeDetectionStrategy, Component, effect, inject, input, signal } from '@angular/core';
+import { MatSelectModule } from '@angular/material/select';
+import { MatTabsModule } from '@angular/material/tabs';
 import { serverMessage } from '../../../core/api/api-error';
 import { ExportPanel } from './export-panel';
 import { ResponseChart } from './response-chart';
@@ -11,10 +13,10 @@ type Tab = 'summary' | 'response' | 'seasonal' | 'export';
 /** The lab's results for one site: treatment summary, temperature response, seasonal totals and the data package. */
 @Component({
   selector: 'fw-bench-results',
-  imports: [ExportPanel, ResponseChart, SeasonalChart, SummaryTable],
+  imports: [ExportPanel, MatSelectModule, MatTabsModule, ResponseChart, SeasonalChart, SummaryTable],
   templateUrl: './bench-results.html',
-  styles: [`[role=tablist] { display: flex; gap: 4px; margin: 8px 0; } [role=tab][aria-selected=true] { font-weight: 700; border-bottom: 3px solid currentColor; }
-    .options { display: flex; gap: 16px; flex-wrap: wrap; margin: 8px 0; }`],
+  styles: [`.options { display: flex; gap: 8px 16px; flex-wrap: wrap; margin: 8px 0; } .options mat-form-field { flex: 1 1 220px; min-width: 0; }
+    mat-tab-nav-panel { display: block; padding-top: 8px; }`],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class BenchResults {

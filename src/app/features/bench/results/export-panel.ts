@@ -2,6 +2,7 @@ import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, OnDestroy, inject, input, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
 import { DATA_LICENCES } from '../../../../../shared/results/data-licences';
 import { serverMessage } from '../../../core/api/api-error';
@@ -12,7 +13,7 @@ const POLL_MS = 1000;
 /** Starts the export job, shows its progress from the job API, and offers the zipped data package when it is done. */
 @Component({
   selector: 'fw-export-panel',
-  imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatSelectModule],
+  imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatProgressBarModule, MatSelectModule],
   template: `
     <p>The data package holds one CSV per table (collars and events, visits, offset sets, probe readings, closures with raw and review
       results and flags, raw series, temperature logs, aggregates), <code>datapackage.json</code> with table schemas and units,
@@ -27,9 +28,10 @@ const POLL_MS = 1000;
     <p><button mat-flat-button type="button" (click)="start()" [disabled]="running() || !licence()">Build data package</button></p>
     @if (job(); as j) {
       <p role="status" data-testid="export-status">{{ j.state }} · {{ j.done }} / {{ j.total ?? '?' }}
-        @if (j.total) { <progress [value]="j.done" [max]="j.total"></progress> }</p>
+</p>
+      @if (j.total) { <mat-progress-bar mode="determinate" [value]="(100 * j.done) / j.total" [attr.aria-label]="'Data package progress, ' + j.done + ' of ' + j.total" /> }
       @if (j.state === 'completed' && j.result) {
-        <a [href]="'/api/results/exports/' + j.id + '/file'" [attr.download]="j.result.fileName" data-testid="export-download">
+        <a matButton="outlined" [href]="'/api/results/exports/' + j.id + '/file'" [attr.download]="j.result.fileName" data-testid="export-download">
           Download {{ j.result.fileName }} ({{ j.result.sizeBytes / 1024 | number: '1.0-0' }} kB)</a>
       }
       @if (j.error) { <p role="alert">{{ j.error }}</p> }

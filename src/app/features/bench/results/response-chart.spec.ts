@@ -40,9 +40,10 @@ describe('ResponseChart', () => {
 
   it('when another treatment is chosen, then its points replace the first and a cell without curves draws none', async () => {
     const { el, fixture } = await render();
-    const select = el.querySelector('select[name=responseCell]') as HTMLSelectElement;
-    select.value = 'TRENCH';
-    select.dispatchEvent(new Event('change'));
+    (el.querySelector('mat-select[name=responseCell]') as HTMLElement).click();
+    await fixture.whenStable();
+    const option = Array.from(document.querySelectorAll('mat-option')).find((o) => o.textContent!.includes('TRENCH'))! as HTMLElement;
+    option.click();
     await fixture.whenStable();
     expect(el.querySelectorAll('[data-testid="response-chart"] circle')).toHaveLength(1);
     expect(el.querySelector('[data-testid="curve-q10"]')).toBeNull();

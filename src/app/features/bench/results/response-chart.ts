@@ -1,5 +1,6 @@
 import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, input, signal } from '@angular/core';
+import { MatSelectModule } from '@angular/material/select';
 import type { CellResponse, Responses } from './results-api';
 import { linearScale, moistureColour } from './svg-scale';
 
@@ -12,9 +13,9 @@ const W = 560, H = 300, L = 48, R = 12, T = 12, B = 36;
  */
 @Component({
   selector: 'fw-response-chart',
-  imports: [DecimalPipe],
+  imports: [DecimalPipe, MatSelectModule],
   templateUrl: './response-chart.html',
-  styles: [`svg { max-width: 100%; background: #fff; } .axis { font-size: 11px; fill: #333; } table { border-collapse: collapse; }
+  styles: [`svg { max-width: 100%; height: auto; background: #fff; } .cell { width: 100%; max-width: 36rem; } .axis { font-size: 11px; fill: #333; } table { border-collapse: collapse; }
     th, td { padding: 2px 8px; border-bottom: 1px solid #ddd; text-align: left; font-variant-numeric: tabular-nums; } .warn { color: #8a4b00; }`],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -32,7 +32,7 @@ const MODEL_LABELS: Record<string, string> = {
     }
     <p class="method">{{ data().method }} Response used: {{ modelLabel() }}.</p>
     <p class="interval" data-testid="interval-note">{{ data().interval }}</p>
-    <table data-testid="seasonal-table">
+    <div class="fw-table-box" tabindex="0" role="region" aria-label="Seasonal totals, scrolls sideways"><table data-testid="seasonal-table">
       <caption>Seasonal totals {{ data().fromDay }} – {{ data().toDay }}</caption>
       <thead><tr><th scope="col">Treatment</th><th scope="col">Total g C m⁻²</th><th scope="col">95 % interval (t, over plots)</th>
         <th scope="col">Plots totalled</th><th scope="col">Plot-days logged / gap-filled / missing</th><th scope="col">Outside fitted range</th></tr></thead>
@@ -47,8 +47,8 @@ const MODEL_LABELS: Record<string, string> = {
           @if (t.flags.length) { <tr class="flags"><td colspan="6"><ul>@for (f of t.flags; track f) { <li>{{ f }}</li> }</ul></td></tr> }
         }
       </tbody>
-    </table>
-    <table data-testid="seasonal-plots">
+    </table></div>
+    <div class="fw-table-box" tabindex="0" role="region" aria-label="Totals per plot, scrolls sideways"><table data-testid="seasonal-plots">
       <caption>Per plot</caption>
       <thead><tr><th scope="col">Treatment</th><th scope="col">Plot</th><th scope="col">Total g C m⁻²</th><th scope="col">Days logged / gap-filled / missing</th>
         <th scope="col">Logger depth / response depth</th><th scope="col">Notes</th></tr></thead>
@@ -63,10 +63,10 @@ const MODEL_LABELS: Record<string, string> = {
           }
         }
       </tbody>
-    </table>`,
+    </table></div>`,
   styles: [`svg { max-width: 100%; background: #fff; } .axis { font-size: 11px; fill: #333; } table { border-collapse: collapse; }
     th, td { padding: 2px 8px; border-bottom: 1px solid #ddd; text-align: left; font-variant-numeric: tabular-nums; }
-    .swatch { display: inline-block; width: 10px; height: 10px; margin-right: 6px; } table { display: block; overflow-x: auto; max-width: 100%; margin: 8px 0; }
+    .swatch { display: inline-block; width: 10px; height: 10px; margin-right: 6px; } table { margin: 8px 0; } svg { height: auto; }
     .flags td { font-size: 0.9em; color: #5c3b00; } .flags ul { margin: 0; padding-left: 18px; } .differs { color: #8c1c1c; font-weight: 600; }`],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
