@@ -46,7 +46,7 @@ const SCREENS: Record<DemoRole, Screen[]> = {
     { name: 'setup-site', open: async (page, base) => { await page.goto(`${base}/setup`); await page.getByRole('tab', { name: 'Site', selected: true }).waitFor(); } },
     ...['Plots and treatments', 'Members', 'Equipment', 'Collars', 'Routes'].map((t) => ({ name: `setup-${t.split(' ')[0].toLowerCase()}`, open: tab(t) })),
     { name: 'accounts-invite', open: async (page, base) => { await page.goto(`${base}/accounts/invite`); await page.getByRole('heading', { name: 'Invite someone' }).waitFor(); } },
-    { name: 'accounts-password', open: async (page, base) => { await page.goto(`${base}/accounts/password`); await page.getByRole('heading', { level: 1 }).waitFor(); } },
+    { name: 'accounts-password', open: async (page, base) => { await page.goto(`${base}/accounts/password`); await page.getByRole('heading', { name: 'Change your password' }).waitFor(); } },
   ],
 };
 
@@ -55,7 +55,9 @@ const SCREENS: Record<DemoRole, Screen[]> = {
  * they are reported as pending, by name and with the reason, and do not fail this file. Anything
  * else found on those screens fails.
  */
-const PENDING: { screen: RegExp; check: LayoutFinding['check']; where: RegExp; note: string }[] = [];
+const PENDING: { screen: RegExp; check: LayoutFinding['check']; where: RegExp; note: string }[] = [
+  { screen: /^walk-map$/, check: 'axe', where: /^target-size/, note: 'collar markers on the Walk map are smaller than 24 px and too close together; the Walk map is being reworked separately' },
+];
 
 describe('Layout guard: every main screen of every role, on a phone and at the station', () => {
   const suite = browserSuite();
@@ -67,8 +69,13 @@ describe('Layout guard: every main screen of every role, on a phone and at the s
         const pending: string[] = [];
         await suite.inBrowser(`layout-${role}-${width.name}`, async (page, b) => {
           await b.page.setViewportSize(width.viewport);
-          await signInAs(page, suite.server.baseUrl, role);
+          const user = await signInAs(page, suite.server.baseUrl, role);
           mkdirSync(SHOTS, { recursive: true });
+          // The header names the site the data belongs to, and a phone spends at most 64 px on it when there is one screen to go to.
+          await page.getByTestId('current-site').filter({ hasText: /\S/ }).waitFor();
+          const header = (await page.locator('header.top').boundingBox())!;
+          const screens = (await page.getByRole('navigation', { name: 'Screens' }).getByRole('link').count());
+          if (width.touch && screens === 1 && header.height > 64) all['header'] = [{ check: 'header', where: `header ${header.height} px high for ${user.email}'s one screen` }];
           for (const screen of SCREENS[role]) {
             await screen.open(page, suite.server.baseUrl);
             await page.waitForTimeout(400); // let late rows and charts settle
@@ -84,6 +91,7 @@ describe('Layout guard: every main screen of every role, on a phone and at the s
         writeFileSync(path.join(SHOTS, `${role}-${width.name}.json`), JSON.stringify({ findings: all, pending }, null, 1));
         if (pending.length) console.warn(`PENDING (owned by the Walk screens' work, not fixed here):\n${pending.join('\n')}`);
         expect(all).toEqual(Object.fromEntries(Object.keys(all).map((k) => [k, []])));
+        expect(Object.keys(all)).toEqual(expect.arrayContaining(SCREENS[role].map((x) => x.name)));
       });
     }
   }

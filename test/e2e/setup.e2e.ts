@@ -110,7 +110,7 @@ describe('Setup in Chromium', () => {
 
       // The 40-collar file: two bad rows, fixed after the check, then imported.
       await page.getByRole('tab', { name: 'Collars' }).click();
-      await page.getByLabel('CSV file of collars').setInputFiles(CSV);
+      await page.getByTestId('collar-csv-input').setInputFiles(CSV);
       const status = page.getByTestId('import-status');
       await waitForText(status, '2 of 40 rows need a fix');
       expect(await page.getByTestId('import-error').allInnerTexts()).toEqual([

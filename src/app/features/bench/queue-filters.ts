@@ -32,7 +32,7 @@ export class QueueFilters {
   ];
   protected readonly phone = narrowScreen();
   private readonly current = signal<Record<string, string>>({});
-  protected get f(): Record<string, string> { return this.current(); }
+  protected get f(): Partial<Record<string, string>> { return this.current(); }
   protected readonly summary = computed(() => {
     const set = Object.values(this.current()).filter((v) => v !== '' && v !== undefined).length;
     return set ? `${set} set` : 'All closures';

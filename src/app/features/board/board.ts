@@ -12,11 +12,12 @@ import { DigestPanel } from './digest-panel';
 import { PlanView } from './plan-view';
 import { ProgressView } from './progress-view';
 import { readyToClose } from './progress-rows';
+import { RoundSelect } from './round-select';
 
 /** The crew lead's screen: plan campaigns, see what every collar still needs, spot anomalies and silent devices, close a campaign. */
 @Component({
   selector: 'fw-board',
-  imports: [DatePipe, MatButtonModule, MatFormFieldModule, MatSelectModule, MatTabsModule, AnomalyList, BoardMap, DeviceList, DigestPanel, PlanView, ProgressView],
+  imports: [DatePipe, MatButtonModule, MatFormFieldModule, MatSelectModule, MatTabsModule, AnomalyList, BoardMap, DeviceList, DigestPanel, PlanView, ProgressView, RoundSelect],
   providers: [BoardStore],
   template: `
     <h1>Board @if (store.site(); as s) { <span class="site">· {{ s.name }}</span> }</h1>
@@ -30,13 +31,7 @@ import { readyToClose } from './progress-rows';
         </mat-select>
       </mat-form-field>
       @if (store.campaign(); as c) {
-        <mat-form-field subscriptSizing="dynamic">
-          <mat-label>Round</mat-label>
-          <mat-select [value]="store.round()" (valueChange)="store.round.set($event); store.loadProgress()" data-testid="round-select">
-            <mat-option [value]="null">All rounds</mat-option>
-            @for (n of roundsOf(c.rounds); track n) { <mat-option [value]="n">Round {{ n }}</mat-option> }
-          </mat-select>
-        </mat-form-field>
+        <fw-round-select [rounds]="c.rounds" [value]="store.round()" (chosen)="store.round.set($event); store.loadProgress()" />
       }
       <button mat-stroked-button type="button" (click)="store.loadSite()" [disabled]="store.loading()">Refresh</button>
       @if (store.campaign(); as c) {
@@ -55,7 +50,7 @@ import { readyToClose } from './progress-rows';
     }
     <p class="problem" role="alert">{{ store.problem() }}</p>
 
-    <mat-tab-group [preserveContent]="false" animationDuration="0ms" mat-stretch-tabs="false">
+    <mat-tab-group class="fw-wrap-tabs" [preserveContent]="false" animationDuration="0ms" mat-stretch-tabs="false">
       <mat-tab label="Progress">
         <ng-template matTabContent>
           @if (store.campaign()) { <fw-progress-view /> } @else { <p>No campaign yet: plan one under Plan.</p> }
@@ -72,7 +67,7 @@ import { readyToClose } from './progress-rows';
     h1 { font: var(--mat-sys-headline-small); margin-block: .5rem; }
     .site { color: var(--mat-sys-on-surface-variant); }
     .bar { display: flex; flex-wrap: wrap; gap: .75rem; align-items: center; }
-    .campaign { min-width: 20rem; }
+    .campaign { min-width: min(20rem, 100%); max-width: 100%; }
     .lock { font-weight: 600; }
     .hint { font-size: .85rem; color: var(--mat-sys-on-surface-variant); }
     .offline { background: #fff4d6; color: #3d2c00; padding: .5rem .75rem; border-radius: 6px; }
@@ -90,9 +85,5 @@ export class Board {
       const site = this.store.site();
       if (site) untracked(() => void this.store.loadSite());
     });
-  }
-
-  protected roundsOf(n: number): number[] {
-    return Array.from({ length: n }, (_, i) => i + 1);
   }
 }

@@ -20,6 +20,7 @@ import { BoardStore } from './board-store';
     <section aria-labelledby="devices-heading">
       <h2 id="devices-heading">Devices</h2>
       <p role="alert" class="problem">{{ problem() }}</p>
+      <div class="fw-table-box" tabindex="0" role="region" aria-label="Devices, scrolls sideways">
       <table>
         <caption>Devices of this site's members, least recently heard from first</caption>
         <thead><tr><th scope="col">Person</th><th scope="col">Device</th><th scope="col">Last push</th><th scope="col">Last pull</th>
@@ -37,10 +38,13 @@ import { BoardStore } from './board-store';
           } @empty { <tr><td colspan="6">No device has synced for this site yet.</td></tr> }
         </tbody>
       </table>
+      </div>
 
       <h3>Open a crew's backup file</h3>
       <p>Read-only: the changes reach the server when their owner syncs or loads the file on their own device.</p>
-      <label class="file">Backup file <input type="file" accept="application/json,.json" (change)="open($event)" data-testid="board-backup-input" /></label>
+      <!-- The file input stays hidden; a Material button opens the browser's file picker for it. -->
+      <input #backupInput type="file" class="fw-visually-hidden" tabindex="-1" aria-hidden="true" accept="application/json,.json" (change)="open($event)" data-testid="board-backup-input" />
+      <button type="button" matButton="outlined" (click)="backupInput.click()">Choose a backup file…</button>
       <p role="alert" class="problem">{{ fileProblem() }}</p>
       @if (file(); as f) {
         <h4>{{ f.user.displayName }} ({{ f.user.email }}) · saved {{ f.createdAt | date: 'medium' }} · {{ rows().length }} change(s) not yet synced</h4>

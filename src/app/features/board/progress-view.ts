@@ -2,9 +2,11 @@ import { ScrollingModule } from '@angular/cdk/scrolling';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatExpansionModule } from '@angular/material/expansion';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { MatSlideToggleModule } from '@angular/material/slide-toggle';
+import { narrowScreen } from '../../core/layout/narrow-screen';
 import { BoardApi, type ItemKey } from './board-api';
 import { BoardStore } from './board-store';
 import { StateBadge } from './state-badge';
@@ -16,7 +18,7 @@ import { filterRows, groupCounts, itemText, NO_FILTER, sortRows, type GroupBar, 
  */
 @Component({
   selector: 'fw-progress-view',
-  imports: [ScrollingModule, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatSlideToggleModule, StateBadge],
+  imports: [ScrollingModule, MatButtonModule, MatExpansionModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatSlideToggleModule, StateBadge],
   templateUrl: './progress-view.html',
   styleUrl: './progress-view.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -25,6 +27,10 @@ export class ProgressView {
   protected readonly store = inject(BoardStore);
   private readonly api = inject(BoardApi);
   protected readonly filter = signal<ProgressFilter>(NO_FILTER);
+  protected readonly phone = narrowScreen();
+  /** How many filters differ from "everything", for the folded panel's summary. */
+  protected readonly filtersSet = computed(() =>
+    (Object.keys(NO_FILTER) as (keyof ProgressFilter)[]).filter((k) => this.filter()[k] !== NO_FILTER[k]).length);
   protected readonly sortKey = signal<SortKey>('order');
   protected readonly descending = signal(false);
   protected readonly groupBy = signal<'route' | 'plot' | 'treatment'>('route');

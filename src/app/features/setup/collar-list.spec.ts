@@ -25,10 +25,16 @@ describe('CollarList tag sheet', () => {
     expect(link()).toBe(`/api/sites/${SITE}/collar-tags.pdf?paper=a4`);
 
     const select = await loader.getHarness(MatSelectHarness.with({ selector: '.tags mat-select' }));
+    // Nothing chosen yet means every plot, and the field says so (it is not left blank).
+    expect(await select.getValueText()).toBe('All plots (4 collars)');
     await select.open();
     expect(await Promise.all((await select.getOptions()).map((o) => o.getText()))).toEqual(['All plots (4 collars)', 'Plot P1 (3 collars)', 'Plot P2 (1 collar)']);
     await select.clickOptions({ text: 'Plot P2 (1 collar)' });
     await (await loader.getHarness(MatButtonToggleGroupHarness)).getToggles({ text: 'Letter' }).then(([t]) => t!.check());
     expect(link()).toBe(`/api/sites/${SITE}/collar-tags.pdf?paper=letter&plotId=${plot(2).id}`);
+    await select.open();
+    await select.clickOptions({ text: 'All plots (4 collars)' });
+    expect(link()).toBe(`/api/sites/${SITE}/collar-tags.pdf?paper=letter`);
+    expect(await select.getValueText()).toBe('All plots (4 collars)');
   });
 });

@@ -4,7 +4,8 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
-import { MatSelectModule } from '@angular/material/select';
+import { MatSelectModule, type MatSelectChange } from '@angular/material/select';
+import { narrowScreen } from '../../core/layout/narrow-screen';
 import { serverMessage } from '../../core/api/api-error';
 import { SetupApi, type Rec } from './setup-api';
 
@@ -26,8 +27,9 @@ import { SetupApi, type Rec } from './setup-api';
         </mat-button-toggle-group>
         <mat-form-field subscriptSizing="dynamic">
           <mat-label>Tags of</mat-label>
-          <mat-select [value]="tagPlotId()" (valueChange)="tagPlotId.set($event)">
-            <mat-option [value]="null">All plots ({{ count(collars().length) }})</mat-option>
+          <!-- "All plots" has a value of its own: mat-select shows a null value as a blank field. -->
+          <mat-select [value]="tagPlotId() ?? ''" (valueChange)="tagPlotId.set($event || null)">
+            <mat-option value="">All plots ({{ count(collars().length) }})</mat-option>
             @for (p of plots(); track p.id) {
               <mat-option [value]="p.id">Plot {{ p['code'] }} ({{ count(perPlot().get(p.id) ?? 0) }})</mat-option>
             }
@@ -40,18 +42,18 @@ import { SetupApi, type Rec } from './setup-api';
         <input matInput (input)="filter.set($any($event.target).value.trim().toLowerCase())" />
       </mat-form-field>
       <div class="row header" aria-hidden="true"><span>Code</span><span>Plot</span><span>Diameter (cm)</span><span>Status</span><span>Collar treatment</span><span>Notes</span></div>
-      <cdk-virtual-scroll-viewport itemSize="36" class="viewport" role="list" aria-label="Collars of the site">
+      <cdk-virtual-scroll-viewport [itemSize]="phone() ? 100 : 44" class="viewport" role="list" aria-label="Collars of the site">
         <div class="row" role="listitem" *cdkVirtualFor="let c of shown(); trackBy: byId">
-          <span>{{ c['code'] }}</span><span>{{ plotCode(c) }}</span><span>{{ c['diameterCm'] ?? '' }}</span>
-          <span>{{ c['status'] }}</span>
+          <span class="code">{{ c['code'] }}</span><span data-label="Plot">{{ plotCode(c) }}</span><span data-label="Diameter (cm)">{{ c['diameterCm'] ?? '' }}</span>
+          <span data-label="Status">{{ c['status'] }}</span>
           <span>
             @if (collarTreatments().length) {
-              <select class="treatment" [attr.aria-label]="'Treatment of collar ' + c['code']" (change)="setTreatment(c, $any($event.target))">
-                <option value="" [selected]="!c['treatmentId']">(none)</option>
+              <mat-select class="treatment" [aria-label]="'Treatment of collar ' + c['code']" [value]="c['treatmentId'] ?? ''" (selectionChange)="setTreatment(c, $event)">
+                <mat-option value="">(no collar treatment)</mat-option>
                 @for (t of collarTreatments(); track t.id) {
-                  <option [value]="t.id" [selected]="t.id === c['treatmentId']">{{ t['code'] }}</option>
+                  <mat-option [value]="t.id">{{ t['code'] }}</mat-option>
                 }
-              </select>
+              </mat-select>
             } @else {
               {{ treatmentCode(c) }}
             }
@@ -65,9 +67,17 @@ import { SetupApi, type Rec } from './setup-api';
   styles: `
     .tags { display: flex; gap: 1rem; align-items: center; margin-block: .5rem 1rem; flex-wrap: wrap; }
     .viewport { height: 360px; border: 1px solid var(--mat-sys-outline-variant); border-radius: 8px; }
-    .row { display: grid; grid-template-columns: 8rem 6rem 8rem 6rem 9rem 1fr; gap: .5rem; height: 36px; align-items: center; padding-inline: .75rem; }
+    .row { display: grid; grid-template-columns: 8rem 6rem 8rem 6rem 10rem 1fr; gap: .5rem; height: 44px; align-items: center; padding-inline: .75rem; box-sizing: border-box; }
     .header { font-weight: 600; }
-    .treatment { font: inherit; padding: .1rem; max-width: 100%; }
+    .code { font-weight: 600; }
+    .treatment { min-height: 36px; display: flex; align-items: center; border-bottom: 1px solid var(--mat-sys-outline); }
+    // A phone shows each collar as a small card: two columns, each value with its name.
+    @media (max-width: 599.98px) {
+      .header { display: none; }
+      .row { grid-template-columns: minmax(0, 1fr) minmax(0, 1fr); grid-auto-rows: minmax(22px, auto); height: 100px; gap: 2px .5rem;
+        padding-block: 6px; border-bottom: 1px solid var(--mat-sys-outline-variant); }
+      .row > [data-label]::before { content: attr(data-label) ': '; color: var(--mat-sys-on-surface-variant); }
+    }
     .notes { overflow: hidden; text-overflow: ellipsis; white-space: nowrap; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -84,6 +94,7 @@ export class CollarList {
   protected readonly paper = signal<'a4' | 'letter'>('a4');
   protected readonly message = signal('');
   protected readonly tagPlotId = signal<string | null>(null);
+  protected readonly phone = narrowScreen();
   protected readonly tagUrl = computed(() => this.api.tagSheetUrl(this.siteId(), this.paper(), this.tagPlotId()));
   protected readonly perPlot = computed(() => {
     const n = new Map<string, number>();
@@ -118,14 +129,14 @@ export class CollarList {
     return this.treatmentCodes().get(String(c['treatmentId'])) ?? '';
   }
 
-  protected async setTreatment(c: Rec, select: HTMLSelectElement): Promise<void> {
+  protected async setTreatment(c: Rec, change: MatSelectChange): Promise<void> {
     try {
-      const saved = await this.api.update('collars', c.id, c.rev, { treatmentId: select.value || null });
+      const saved = await this.api.update('collars', c.id, c.rev, { treatmentId: (change.value as string) || null });
       this.collars.update((all) => all.map((x) => (x.id === saved.id ? saved : x)));
       this.message.set(`Collar ${String(saved['code'])}: ${this.treatmentCode(saved) || 'no collar treatment'}`);
     } catch (err) {
       this.message.set(serverMessage(err, `Collar ${String(c['code'])} was not changed`));
-      select.value = String(c['treatmentId'] ?? ''); // back to what is stored
+      change.source.value = String(c['treatmentId'] ?? ''); // back to what is stored
     }
   }
 

@@ -1,4 +1,5 @@
 import { ChangeDetectionStrategy, Component, effect, inject, input, signal } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatSlideToggleModule } from '@angular/material/slide-toggle';
 import { MatTableModule } from '@angular/material/table';
@@ -11,11 +12,12 @@ const ROLES = ['crew', 'lead', 'lab', 'admin'] as const;
 /** Who works on the site: membership, roles and disabling a user (admins only). */
 @Component({
   selector: 'fw-members',
-  imports: [MatTableModule, MatCheckboxModule, MatSlideToggleModule, RouterLink],
+  imports: [MatButtonModule, MatTableModule, MatCheckboxModule, MatSlideToggleModule, RouterLink],
   template: `
     <section aria-labelledby="members-heading">
       <h3 id="members-heading">Members and roles</h3>
-      <p><a routerLink="/accounts/invite" [queryParams]="{ siteId: siteId() }">Invite someone by e-mail</a></p>
+      <p><a matButton="outlined" routerLink="/accounts/invite" [queryParams]="{ siteId: siteId() }">Invite someone by e-mail</a></p>
+      <div class="fw-table-box" tabindex="0" role="region" aria-label="Members and roles, scrolls sideways">
       <table mat-table [dataSource]="users()">
         <ng-container matColumnDef="name">
           <th mat-header-cell *matHeaderCellDef>Name</th>
@@ -31,9 +33,11 @@ const ROLES = ['crew', 'lead', 'lab', 'admin'] as const;
         <ng-container matColumnDef="roles">
           <th mat-header-cell *matHeaderCellDef>Roles</th>
           <td mat-cell *matCellDef="let u">
+            <div class="roles">
             @for (r of roles; track r) {
               <mat-checkbox [checked]="u.roles.includes(r)" (change)="setRole(u, r, $event.checked)" [aria-label]="u.displayName + ' has role ' + r">{{ r }}</mat-checkbox>
             }
+            </div>
           </td>
         </ng-container>
         <ng-container matColumnDef="disabled">
@@ -45,10 +49,12 @@ const ROLES = ['crew', 'lead', 'lab', 'admin'] as const;
         <tr mat-header-row *matHeaderRowDef="columns"></tr>
         <tr mat-row *matRowDef="let row; columns: columns"></tr>
       </table>
+      </div>
       <p role="status">{{ message() }}</p>
     </section>
   `,
-  styles: `.email { display: block; font-size: .85rem; opacity: .8; } table { width: 100%; }`,
+  styles: `.email { display: block; font-size: .85rem; opacity: .8; } table { width: 100%; }
+    .roles { display: flex; flex-wrap: wrap; min-width: 12rem; }`,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class Members {

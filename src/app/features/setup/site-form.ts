@@ -1,6 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, effect, inject, input, output, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
-import { MatFormFieldModule } from '@angular/material/form-field';
+import { MAT_FORM_FIELD_DEFAULT_OPTIONS, MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { DEFAULT_SITE_AIR_TEMP_C } from '../../../../shared/flux/chamber-air-temperature';
@@ -34,6 +34,9 @@ export const THRESHOLDS = [
 @Component({
   selector: 'fw-site-form',
   imports: [MatFormFieldModule, MatInputModule, MatSelectModule, MatButtonModule],
+  // Hints and errors here run to two lines in a narrow field: the field grows with them instead of
+  // letting them slide under the next field.
+  providers: [{ provide: MAT_FORM_FIELD_DEFAULT_OPTIONS, useValue: { subscriptSizing: 'dynamic' } }],
   templateUrl: './site-form.html',
   styleUrl: './site-form.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

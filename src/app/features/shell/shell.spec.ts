@@ -55,6 +55,34 @@ describe('Shell navigation by role', () => {
   });
 });
 
+describe('Shell header rows', () => {
+  async function render(roles: Role[]) {
+    localStorage.clear();
+    rememberOnDevice(testUser(roles));
+    TestBed.configureTestingModule({
+      imports: [Shell],
+      providers: [provideRouter([]), provideHttpClient(withInterceptors([apiInterceptor])), provideHttpClientTesting()],
+    });
+    const fixture = TestBed.createComponent(Shell);
+    await fixture.whenStable();
+    TestBed.inject(HttpTestingController).match(() => true);
+    return fixture.nativeElement as HTMLElement;
+  }
+
+  it('when the user has one destination, then its link sits in the toolbar row and the header has no second row', async () => {
+    const el = await render(['crew']);
+    expect(el.querySelector('mat-toolbar nav[aria-label=Screens]')).not.toBeNull();
+    expect(el.querySelectorAll('header > nav')).toHaveLength(0);
+    expect(el.querySelector('[data-testid=current-site]')!.textContent!.trim()).not.toBe('');
+  });
+
+  it('when the user has several destinations, then they get a row of their own under the toolbar', async () => {
+    const el = await render(['lead']);
+    expect(el.querySelector('mat-toolbar nav')).toBeNull();
+    expect(el.querySelectorAll('header > nav[aria-label=Screens] a')).toHaveLength(3);
+  });
+});
+
 describe('Shell start-up', () => {
   it('when opened, then it asks the server again who the user is and which sites they see', async () => {
     localStorage.clear();

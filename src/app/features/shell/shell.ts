@@ -1,3 +1,4 @@
+import { NgTemplateOutlet } from '@angular/common';
 import { ChangeDetectionStrategy, Component, OnInit, computed, inject } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
@@ -19,6 +20,7 @@ import { UserMenu } from './user-menu';
     MatButtonModule,
     MatIconModule,
     MatToolbarModule,
+    NgTemplateOutlet,
     RouterLink,
     RouterLinkActive,
     RouterOutlet,
@@ -34,6 +36,8 @@ export class Shell implements OnInit {
   private readonly auth = inject(AuthStore);
   protected readonly site = inject(SiteChoice).current;
   protected readonly destinations = computed(() => destinationsFor(this.auth.roles()));
+  /** With one destination there is nothing to switch between: its link joins the toolbar row. */
+  protected readonly single = computed(() => this.destinations().length < 2);
   protected readonly deviceDb = inject(DeviceDb);
   private readonly sync = inject(SyncEngine);
 
