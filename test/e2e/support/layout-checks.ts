@@ -46,9 +46,12 @@ export async function layoutFindings(page: Page): Promise<LayoutFinding[]> {
   return page.evaluate(({ materialButtons, materialInputs }) => {
     const found: { check: string; where: string }[] = [];
     const describe = (el: Element) => {
+      // The app component that drew it, so a finding names its owner (fw-bench > button "Results").
+      let owner = el.parentElement;
+      while (owner && !owner.tagName.startsWith('FW-')) owner = owner.parentElement;
       const text = (el.getAttribute('aria-label') || (el as HTMLElement).innerText || el.getAttribute('name') || '').trim().replace(/\s+/g, ' ').slice(0, 40);
       const cls = typeof el.className === 'string' && el.className ? `.${el.className.trim().split(/\s+/).slice(0, 2).join('.')}` : '';
-      return `${el.tagName.toLowerCase()}${cls}${text ? ` "${text}"` : ''}`;
+      return `${owner ? `${owner.tagName.toLowerCase()} > ` : ''}${el.tagName.toLowerCase()}${cls}${text ? ` "${text}"` : ''}`;
     };
     const visible = (el: Element) => {
       const r = el.getBoundingClientRect();
@@ -62,6 +65,18 @@ export async function layoutFindings(page: Page): Promise<LayoutFinding[]> {
         if (o === 'auto' || o === 'scroll') return true;
       }
       return false;
+    };
+    /** The part of an element's box that shows: cut to every ancestor that clips or scrolls. */
+    const shownRect = (el: Element) => {
+      const r = el.getBoundingClientRect();
+      let { left, top, right, bottom } = r;
+      for (let p = el.parentElement; p && p !== document.body; p = p.parentElement) {
+        const st = getComputedStyle(p);
+        if (st.overflowX === 'visible' && st.overflowY === 'visible') continue;
+        const q = p.getBoundingClientRect();
+        left = Math.max(left, q.left); top = Math.max(top, q.top); right = Math.min(right, q.right); bottom = Math.min(bottom, q.bottom);
+      }
+      return { left, top, right, bottom };
     };
     const inMap = (el: Element) => !!el.closest('.leaflet-container, canvas, svg');
 
@@ -98,11 +113,11 @@ export async function layoutFindings(page: Page): Promise<LayoutFinding[]> {
     const fieldWords = Array.from(document.querySelectorAll('.mat-mdc-form-field .mdc-floating-label, .mat-mdc-form-field mat-hint, .mat-mdc-form-field mat-error')).filter(visible);
     const others = Array.from(document.querySelectorAll('.mat-mdc-text-field-wrapper, button, a[href], input:not([type=hidden]), textarea, mat-select, p, h1, h2, h3, label, li, th, td')).filter((o) => visible(o) && !inMap(o));
     for (const el of fieldWords) {
-      const r = el.getBoundingClientRect();
+      const r = shownRect(el);
       const own = el.closest('.mat-mdc-form-field')!;
       for (const o of others) {
         if (own.contains(o) || o.contains(el)) continue;
-        const q = o.getBoundingClientRect();
+        const q = shownRect(o);
         const w = Math.min(r.right, q.right) - Math.max(r.left, q.left), h = Math.min(r.bottom, q.bottom) - Math.max(r.top, q.top);
         if (w > 2 && h > 2) { found.push({ check: 'covered', where: `${describe(el)} under ${describe(o)}` }); break; }
       }
@@ -117,10 +132,19 @@ export async function layoutFindings(page: Page): Promise<LayoutFinding[]> {
     }
 
     const targets = 'a[href], button, input:not([type=hidden]), select, textarea, [role=button], [role=tab], [role=link], [role=checkbox], [role=radio], mat-select';
-    for (const el of Array.from(document.querySelectorAll(targets))) {
-      if (!visible(el) || inMap(el) || el.closest('.mat-mdc-form-field')) continue;
+    const allTargets = Array.from(document.querySelectorAll(targets)).filter((el) => visible(el) && !inMap(el) && !el.closest('.mat-mdc-form-field'));
+    for (const el of allTargets) {
       const r = el.getBoundingClientRect();
       if (r.width >= 24 - 0.5 && r.height >= 24 - 0.5) continue;
+      // WCAG 2.5.8 spacing exception: a 24 px circle on the small target's centre meets no other target.
+      const cx = r.left + r.width / 2, cy = r.top + r.height / 2;
+      const near = allTargets.some((o) => {
+        if (o === el || o.contains(el) || el.contains(o)) return false;
+        const q = o.getBoundingClientRect();
+        const dx = Math.max(q.left - cx, 0, cx - q.right), dy = Math.max(q.top - cy, 0, cy - q.bottom);
+        return dx * dx + dy * dy < 12 * 12;
+      });
+      if (!near) continue;
       // WCAG 2.5.8 exception: a link inside a sentence.
       if (el.matches('a') && getComputedStyle(el).display === 'inline' && el.parentElement && (el.parentElement.textContent ?? '').trim().length > (el.textContent ?? '').trim().length) continue;
       found.push({ check: 'small-target', where: `${describe(el)} ${Math.round(r.width)}×${Math.round(r.height)}` });

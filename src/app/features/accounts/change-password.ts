@@ -19,7 +19,7 @@ import { MIN_PASSWORD_LENGTH, PASSWORD_HINT, describeAccountError } from './pass
           <mat-label>Current password</mat-label>
           <input matInput type="password" name="currentPassword" formControlName="currentPassword" autocomplete="current-password" required />
         </mat-form-field>
-        <mat-form-field appearance="outline">
+        <mat-form-field appearance="outline" subscriptSizing="dynamic">
           <mat-label>New password</mat-label>
           <input matInput type="password" name="newPassword" formControlName="newPassword" autocomplete="new-password" required />
           <mat-hint>{{ hint }}</mat-hint>

@@ -21,7 +21,7 @@ import { MIN_PASSWORD_LENGTH, PASSWORD_HINT, describeAccountError } from './pass
           <p><a routerLink="/sign-in">Sign in</a></p>
         } @else {
           <form [formGroup]="form" (ngSubmit)="setPassword()" novalidate>
-            <mat-form-field appearance="outline">
+            <mat-form-field appearance="outline" subscriptSizing="dynamic">
               <mat-label>New password</mat-label>
               <input matInput type="password" name="password" formControlName="password" autocomplete="new-password" required />
               <mat-hint>{{ hint }}</mat-hint>

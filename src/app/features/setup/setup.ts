@@ -72,7 +72,7 @@ export class Setup {
     { key: 'serial', label: 'Serial number', kind: 'text' },
     { key: 'rangeMinPpm', label: 'Calibrated from (µmol/mol)', kind: 'number' },
     { key: 'rangeMaxPpm', label: 'Calibrated to (µmol/mol)', kind: 'number' },
-    { key: 'precisionPpm', label: 'Precision (µmol/mol; empty: 1 is used as a default)', kind: 'number', optional: true },
+    { key: 'precisionPpm', label: 'Precision (µmol/mol; default 1)', kind: 'number', optional: true },
     { key: 'calibrationIntervalDays', label: 'Calibrate every (days)', kind: 'number' },
   ];
 
