@@ -18,7 +18,8 @@ const POLL_MS = 1000;
     <p>The data package holds one CSV per table (collars and events, visits, offset sets, probe readings, closures with raw and review
       results and flags, raw series, temperature logs, aggregates), <code>datapackage.json</code> with table schemas and units,
       EML 2.2 metadata and the provenance of the numbers.</p>
-    <mat-form-field appearance="outline">
+    <!-- The hint runs to two lines: the field grows with it instead of sliding it under the button. -->
+    <mat-form-field appearance="outline" subscriptSizing="dynamic">
       <mat-label>Data licence</mat-label>
       <mat-select [value]="licence()" (selectionChange)="licence.set($event.value)">
         @for (l of licences; track l.id) { <mat-option [value]="l.id">{{ l.id }} — {{ l.title }}</mat-option> }
