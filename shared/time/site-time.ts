@@ -1,0 +1,78 @@
+/**
+ * The one home for "what time and day is it at the site": every screen and export that shows a time
+ * or means "today" goes through here, so all of them use the site's IANA zone (never UTC, never the
+ * device's zone). The zone rules come from the runtime's IANA tz database through Intl.
+ */
+
+// Building an Intl.DateTimeFormat costs far more than formatting with one: keep one per zone.
+const dayFormats = new Map<string, Intl.DateTimeFormat>();
+const timeFormats = new Map<string, Intl.DateTimeFormat>();
+
+function cached(map: Map<string, Intl.DateTimeFormat>, timeZone: string, make: () => Intl.DateTimeFormat): Intl.DateTimeFormat {
+  let f = map.get(timeZone);
+  if (!f) {
+    f = make();
+    map.set(timeZone, f);
+  }
+  return f;
+}
+
+/** The site's calendar day (YYYY-MM-DD) of an instant. */
+export function localDay(instant: string | number | Date, timeZone: string): string {
+  const f = cached(dayFormats, timeZone, () => new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }));
+  return f.format(new Date(instant));
+}
+
+/** "Today" at the site: the site's calendar day at `now`. */
+export function siteToday(timeZone: string, now: Date | number = Date.now()): string {
+  return localDay(now, timeZone);
+}
+
+export interface SiteTimeParts {
+  day: string;
+  /** HH:mm or HH:mm:ss, 24-hour. */
+  time: string;
+  /** The zone's short name at that instant (CEST, AKDT, NZDT, or GMT+x where the zone has no letters). */
+  zone: string;
+}
+
+/** The wall-clock parts of an instant in the site's zone. */
+export function siteTimeParts(instant: string | number | Date, timeZone: string, seconds = false): SiteTimeParts {
+  const f = cached(timeFormats, timeZone, () => new Intl.DateTimeFormat('en-US', {
+    timeZone, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', second: '2-digit', timeZoneName: 'short',
+  }));
+  const p: Record<string, string> = {};
+  for (const part of f.formatToParts(new Date(instant))) p[part.type] = part.value;
+  const hh = p['hour'] === '24' ? '00' : p['hour'];
+  return { day: `${p['year']}-${p['month']}-${p['day']}`, time: seconds ? `${hh}:${p['minute']}:${p['second']}` : `${hh}:${p['minute']}`, zone: p['timeZoneName'] ?? timeZone };
+}
+
+export interface SiteTimeOptions {
+  /** Leave out the day (for lists already grouped by day). */
+  timeOnly?: boolean;
+  seconds?: boolean;
+}
+
+/** "2026-03-29 03:15 CEST": the time a person reads, in the site's zone and naming it. Empty for no time. */
+export function formatSiteTime(instant: string | number | Date | null | undefined, timeZone: string, opts: SiteTimeOptions = {}): string {
+  if (instant === null || instant === undefined || instant === '') return '';
+  const d = new Date(instant);
+  if (Number.isNaN(d.getTime())) return '';
+  const p = siteTimeParts(d, timeZone, opts.seconds);
+  return opts.timeOnly ? `${p.time} ${p.zone}` : `${p.day} ${p.time} ${p.zone}`;
+}
+
+/** ISO-8601 local time with the zone's offset ("2026-03-29T03:15:00+02:00") for export columns beside the UTC one. */
+export function siteIsoLocal(instant: string | number | Date | null | undefined, timeZone: string): string {
+  if (instant === null || instant === undefined || instant === '') return '';
+  const d = new Date(instant);
+  if (Number.isNaN(d.getTime())) return '';
+  const p = siteTimeParts(d, timeZone, true);
+  const [y, mo, da] = p.day.split('-').map(Number);
+  const [h, mi, s] = p.time.split(':').map(Number);
+  const offsetMin = Math.round((Date.UTC(y, mo - 1, da, h, mi, s) - Math.floor(d.getTime() / 1000) * 1000) / 60_000);
+  const sign = offsetMin < 0 ? '-' : '+';
+  const abs = Math.abs(offsetMin);
+  const pad = (n: number) => String(n).padStart(2, '0');
+  return `${p.day}T${p.time}${sign}${pad(Math.floor(abs / 60))}:${pad(abs % 60)}`;
+}
