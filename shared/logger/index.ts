@@ -8,3 +8,4 @@ export * from './closure-split';
 export * from './clock-offset';
 export * from './visit-match';
 export * from './temperature-columns';
+export * from './temperature-series';
