@@ -36,6 +36,12 @@ export const routes: Routes = [
         loadComponent: () => import('./features/bench/bench').then((m) => m.Bench),
       },
       {
+        path: 'bench/temperature-logs',
+        canActivate: [destinationGuard('bench')],
+        title: 'Temperature logs · Bench · Fluxwalk',
+        loadComponent: () => import('./features/temperature-logs/temperature-log-import').then((m) => m.TemperatureLogImport),
+      },
+      {
         path: 'setup',
         canActivate: [destinationGuard('setup')],
         title: 'Setup · Fluxwalk',

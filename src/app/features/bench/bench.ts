@@ -2,6 +2,7 @@ import { DecimalPipe } from '@angular/common';
 import { MatButtonModule } from '@angular/material/button';
 import { MatListModule } from '@angular/material/list';
 import { ChangeDetectionStrategy, Component, computed, inject, signal, viewChild } from '@angular/core';
+import { RouterLink } from '@angular/router';
 import { serverMessage } from '../../core/api/api-error';
 import { SiteChoice } from '../../core/auth/site-choice';
 import { BenchApi, type ClosureDetail, type QueueFilter, type QueueItem } from './bench-api';
@@ -19,7 +20,7 @@ const SETTLE_STEP_S = 5;
  */
 @Component({
   selector: 'fw-bench',
-  imports: [BenchResults, ClosureView, DecimalPipe, MatButtonModule, MatListModule, QueueFilters, RecomputePanel],
+  imports: [BenchResults, ClosureView, DecimalPipe, MatButtonModule, MatListModule, QueueFilters, RecomputePanel, RouterLink],
   templateUrl: './bench.html',
   styleUrl: './bench.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
