@@ -1,21 +1,12 @@
 import type { EntityManager } from 'typeorm';
 import { ambientForClosure, type AmbientCheck, type AmbientChoice, type NamedProfileVersion, type OffsetSetRecord, type SlopeBasis } from '../../shared/flux';
 
+import { localDay } from '../../shared/time/site-time';
+
 type Db = Pick<EntityManager, 'query'>;
 
-// Building an Intl.DateTimeFormat costs far more than formatting with one: a recompute of
-// thousands of closures spent most of its time here before the formatters were kept per zone.
-const dayFormats = new Map<string, Intl.DateTimeFormat>();
-
-/** The calendar day of an instant in the site's time zone (closures and offset sets compare by local day). */
-export function localDay(iso: string | Date, timeZone: string): string {
-  let f = dayFormats.get(timeZone);
-  if (!f) {
-    f = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' });
-    dayFormats.set(timeZone, f);
-  }
-  return f.format(new Date(iso));
-}
+/** The calendar day of an instant in the site's time zone (closures and offset sets compare by local day): shared/time is its home. */
+export { localDay };
 
 export interface ClosureContext {
   timezone: string;

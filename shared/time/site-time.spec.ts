@@ -6,14 +6,14 @@ import { formatSiteTime, localDay, siteIsoLocal, siteToday } from './site-time';
 // Pacific/Auckland NZST+12/NZDT+13 (last Sunday of September, first Sunday of April).
 describe('site time', () => {
   it('Berlin spring change (2026-03-29): 00:59 UTC is 01:59 CET, 01:00 UTC is 03:00 CEST', () => {
-    expect(formatSiteTime('2026-03-29T00:59:00Z', 'Europe/Berlin')).toBe('2026-03-29 01:59 GMT+1');
-    expect(formatSiteTime('2026-03-29T01:00:00Z', 'Europe/Berlin')).toBe('2026-03-29 03:00 GMT+2');
+    expect(formatSiteTime('2026-03-29T00:59:00Z', 'Europe/Berlin')).toBe('2026-03-29 01:59 CET');
+    expect(formatSiteTime('2026-03-29T01:00:00Z', 'Europe/Berlin')).toBe('2026-03-29 03:00 CEST');
     expect(siteIsoLocal('2026-03-29T01:00:00Z', 'Europe/Berlin')).toBe('2026-03-29T03:00:00+02:00');
   });
 
   it('Berlin autumn change (2026-10-25): the repeated 02:30 is told apart by the zone', () => {
-    expect(formatSiteTime('2026-10-25T00:30:00Z', 'Europe/Berlin')).toBe('2026-10-25 02:30 GMT+2');
-    expect(formatSiteTime('2026-10-25T01:30:00Z', 'Europe/Berlin')).toBe('2026-10-25 02:30 GMT+1');
+    expect(formatSiteTime('2026-10-25T00:30:00Z', 'Europe/Berlin')).toBe('2026-10-25 02:30 CEST');
+    expect(formatSiteTime('2026-10-25T01:30:00Z', 'Europe/Berlin')).toBe('2026-10-25 02:30 CET');
     expect(siteIsoLocal('2026-10-25T01:30:00Z', 'Europe/Berlin')).toBe('2026-10-25T02:30:00+01:00');
   });
 
@@ -46,6 +46,13 @@ describe('site time', () => {
     expect(siteToday('UTC', now)).toBe('2026-07-01');
     expect(siteToday('Europe/Berlin', now)).toBe('2026-07-02');
     expect(siteToday('America/Anchorage', now)).toBe('2026-07-01');
+  });
+
+  it('zones are named by their letters where a locale has them, else by the offset', () => {
+    expect(formatSiteTime('2026-01-15T00:00:00Z', 'Pacific/Auckland', { timeOnly: true })).toBe('13:00 NZDT');
+    expect(formatSiteTime('2026-07-15T00:00:00Z', 'Pacific/Auckland', { timeOnly: true })).toBe('12:00 NZST');
+    expect(formatSiteTime('2026-07-15T00:00:00Z', 'Europe/London', { timeOnly: true })).toBe('01:00 BST');
+    expect(formatSiteTime('2026-07-15T00:00:00Z', 'Asia/Kathmandu', { timeOnly: true })).toBe('05:45 GMT+5:45');
   });
 
   it('no time shows as nothing, and time-only keeps the zone', () => {

@@ -28,6 +28,28 @@ export function siteToday(timeZone: string, now: Date | number = Date.now()): st
   return localDay(now, timeZone);
 }
 
+// The short zone name differs by locale: CET/CEST only in en-GB, AKDT in en-US, NZDT/AEDT in en-AU,
+// IST in en-IN. The first locale that has letters for the zone wins; else the GMT±h offset stays.
+const NAME_LOCALES = ['en-US', 'en-GB', 'en-AU', 'en-IN'];
+const nameFormats = new Map<string, Intl.DateTimeFormat[]>();
+
+/** The zone's short name at an instant: CEST, AKDT, NZDT, UTC, or GMT+5:30 where no locale has letters for it. */
+export function zoneAbbreviation(instant: string | number | Date, timeZone: string): string {
+  let fs = nameFormats.get(timeZone);
+  if (!fs) {
+    fs = NAME_LOCALES.map((l) => new Intl.DateTimeFormat(l, { timeZone, timeZoneName: 'short' }));
+    nameFormats.set(timeZone, fs);
+  }
+  const d = new Date(instant);
+  let fallback = timeZone;
+  for (const f of fs) {
+    const name = f.formatToParts(d).find((p) => p.type === 'timeZoneName')?.value ?? '';
+    if (name && !/^GMT[+-]/.test(name)) return name;
+    if (name && fallback === timeZone) fallback = name;
+  }
+  return fallback;
+}
+
 export interface SiteTimeParts {
   day: string;
   /** HH:mm or HH:mm:ss, 24-hour. */
@@ -39,17 +61,19 @@ export interface SiteTimeParts {
 /** The wall-clock parts of an instant in the site's zone. */
 export function siteTimeParts(instant: string | number | Date, timeZone: string, seconds = false): SiteTimeParts {
   const f = cached(timeFormats, timeZone, () => new Intl.DateTimeFormat('en-US', {
-    timeZone, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', second: '2-digit', timeZoneName: 'short',
+    timeZone, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', second: '2-digit',
   }));
   const p: Record<string, string> = {};
   for (const part of f.formatToParts(new Date(instant))) p[part.type] = part.value;
   const hh = p['hour'] === '24' ? '00' : p['hour'];
-  return { day: `${p['year']}-${p['month']}-${p['day']}`, time: seconds ? `${hh}:${p['minute']}:${p['second']}` : `${hh}:${p['minute']}`, zone: p['timeZoneName'] ?? timeZone };
+  return { day: `${p['year']}-${p['month']}-${p['day']}`, time: seconds ? `${hh}:${p['minute']}:${p['second']}` : `${hh}:${p['minute']}`, zone: zoneAbbreviation(instant, timeZone) };
 }
 
 export interface SiteTimeOptions {
   /** Leave out the day (for lists already grouped by day). */
   timeOnly?: boolean;
+  /** Only the site's calendar day (YYYY-MM-DD). */
+  dayOnly?: boolean;
   seconds?: boolean;
 }
 
@@ -58,6 +82,7 @@ export function formatSiteTime(instant: string | number | Date | null | undefine
   if (instant === null || instant === undefined || instant === '') return '';
   const d = new Date(instant);
   if (Number.isNaN(d.getTime())) return '';
+  if (opts.dayOnly) return localDay(d, timeZone);
   const p = siteTimeParts(d, timeZone, opts.seconds);
   return opts.timeOnly ? `${p.time} ${p.zone}` : `${p.day} ${p.time} ${p.zone}`;
 }

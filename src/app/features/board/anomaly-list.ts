@@ -1,10 +1,10 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, effect, inject, signal, untracked } from '@angular/core';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { serverMessage } from '../../core/api/api-error';
+import { SiteTimePipe } from '../../core/time/site-time-pipe';
 import { BoardApi, type Anomaly } from './board-api';
 import { BoardCache } from './board-cache';
 import { BoardStore } from './board-store';
@@ -23,7 +23,7 @@ const KIND_LABELS: Record<string, string> = {
 /** What looks wrong on the site for the chosen campaign, grouped by kind, problems first. */
 @Component({
   selector: 'fw-anomaly-list',
-  imports: [DatePipe, FormsModule, MatButtonModule, MatFormFieldModule, MatInputModule],
+  imports: [SiteTimePipe, FormsModule, MatButtonModule, MatFormFieldModule, MatInputModule],
   template: `
     <section aria-labelledby="anomaly-heading">
       <h2 id="anomaly-heading">Anomalies</h2>
@@ -33,7 +33,7 @@ const KIND_LABELS: Record<string, string> = {
           <input matInput type="number" min="1" [ngModel]="days()" (ngModelChange)="days.set(+$event)" />
         </mat-form-field>
         <button mat-stroked-button type="button" (click)="load()">Check again</button>
-        @if (savedAt(); as at) { <span>As of {{ at | date: 'medium' }}</span> }
+        @if (savedAt(); as at) { <span>As of {{ at | siteTime: zone() }}</span> }
       </div>
       <p role="alert" class="problem">{{ problem() }}</p>
       @for (g of groups(); track g.kind) {
@@ -44,7 +44,7 @@ const KIND_LABELS: Record<string, string> = {
               <span class="sev">{{ a.severity === 'problem' ? '▲ problem' : '△ check' }}</span>
               @if (a.collarCode) { <strong>{{ a.collarCode }}</strong> }
               <span>{{ a.message }}</span>
-              @if (a.at) { <span class="at">{{ a.at | date: 'mediumDate' }}</span> }
+              @if (a.at) { <span class="at">{{ a.at | siteTime: zone() : { dayOnly: true } }}</span> }
             </li>
           }
         </ul>
@@ -68,6 +68,7 @@ export class AnomalyList {
   private readonly store = inject(BoardStore);
   private readonly api = inject(BoardApi);
   private readonly cache = inject(BoardCache);
+  protected readonly zone = this.store.zone;
   protected readonly days = signal(30);
   protected readonly items = signal<Anomaly[]>([]);
   protected readonly savedAt = signal<string | null>(null);

@@ -17,6 +17,8 @@ export class BoardStore {
   private readonly siteChoice = inject(SiteChoice);
 
   readonly site = this.siteChoice.current;
+  /** The site's IANA zone: every time the Board shows, and its "today", is in it. */
+  readonly zone = computed(() => this.site()?.timezone ?? 'UTC');
   readonly campaigns = signal<Campaign[]>([]);
   readonly campaignId = signal<string | null>(null);
   readonly round = signal<number | null>(null);

@@ -1,9 +1,9 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, effect, inject, untracked } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatSelectModule } from '@angular/material/select';
 import { MatTabsModule } from '@angular/material/tabs';
+import { SiteTimePipe } from '../../core/time/site-time-pipe';
 import { AnomalyList } from './anomaly-list';
 import { BoardMap } from './board-map';
 import { BoardStore } from './board-store';
@@ -17,7 +17,7 @@ import { RoundSelect } from './round-select';
 /** The crew lead's screen: plan campaigns, see what every collar still needs, spot anomalies and silent devices, close a campaign. */
 @Component({
   selector: 'fw-board',
-  imports: [DatePipe, MatButtonModule, MatFormFieldModule, MatSelectModule, MatTabsModule, AnomalyList, BoardMap, DeviceList, DigestPanel, PlanView, ProgressView, RoundSelect],
+  imports: [SiteTimePipe, MatButtonModule, MatFormFieldModule, MatSelectModule, MatTabsModule, AnomalyList, BoardMap, DeviceList, DigestPanel, PlanView, ProgressView, RoundSelect],
   providers: [BoardStore],
   template: `
     <h1>Board @if (store.site(); as s) { <span class="site">· {{ s.name }}</span> }</h1>
@@ -46,7 +46,7 @@ import { RoundSelect } from './round-select';
       }
     </div>
     @if (store.offlineSince(); as at) {
-      <p class="offline" role="status">No connection: showing the Board as it was at {{ at | date: 'medium' }}.</p>
+      <p class="offline" role="status">No connection: showing the Board as it was at {{ at | siteTime: store.zone() }}.</p>
     }
     <p class="problem" role="alert">{{ store.problem() }}</p>
 

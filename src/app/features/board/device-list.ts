@@ -1,9 +1,9 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { serverMessage } from '../../core/api/api-error';
 import { BackupFileError, parseBackup, summarizeBackup, type BackupFile, type BackupSummaryRow } from '../../core/db/backup-file';
 import { entityName } from '../../core/sync/op-labels';
+import { SiteTimePipe } from '../../core/time/site-time-pipe';
 import { BoardApi, type DeviceRow } from './board-api';
 import { BoardCache } from './board-cache';
 import { BoardStore } from './board-store';
@@ -15,7 +15,7 @@ import { BoardStore } from './board-store';
  */
 @Component({
   selector: 'fw-device-list',
-  imports: [DatePipe, MatButtonModule],
+  imports: [MatButtonModule, SiteTimePipe],
   template: `
     <section aria-labelledby="devices-heading">
       <h2 id="devices-heading">Devices</h2>
@@ -30,8 +30,8 @@ import { BoardStore } from './board-store';
             <tr [class.silent]="d.silent" data-testid="device-row">
               <td>{{ d.displayName }} <span class="email">{{ d.email }}</span></td>
               <td class="mono">{{ d.id.slice(0, 8) }}</td>
-              <td>{{ d.lastPushAt ? (d.lastPushAt | date: 'short') : 'never' }}</td>
-              <td>{{ d.lastPullAt ? (d.lastPullAt | date: 'short') : 'never' }}</td>
+              <td>{{ d.lastPushAt ? (d.lastPushAt | siteTime: zone()) : 'never' }}</td>
+              <td>{{ d.lastPullAt ? (d.lastPullAt | siteTime: zone()) : 'never' }}</td>
               <td>{{ d.outboxSize ?? 'unknown' }}</td>
               <td>{{ d.silent ? '⚠ silent for more than a day' : 'heard from today' }}</td>
             </tr>
@@ -47,10 +47,10 @@ import { BoardStore } from './board-store';
       <button type="button" matButton="outlined" (click)="backupInput.click()">Choose a backup file…</button>
       <p role="alert" class="problem">{{ fileProblem() }}</p>
       @if (file(); as f) {
-        <h4>{{ f.user.displayName }} ({{ f.user.email }}) · saved {{ f.createdAt | date: 'medium' }} · {{ rows().length }} change(s) not yet synced</h4>
+        <h4>{{ f.user.displayName }} ({{ f.user.email }}) · saved {{ f.createdAt | siteTime: zone() }} · {{ rows().length }} change(s) not yet synced</h4>
         <ul class="changes" tabindex="0" aria-label="Changes in the backup file">
           @for (r of rows(); track $index) {
-            <li>{{ label(r) }} {{ r.id.slice(0, 8) }} · {{ r.op === 'delete' ? 'deleted' : r.created ? 'created' : 'changed' }} · {{ r.at | date: 'short' }}</li>
+            <li>{{ label(r) }} {{ r.id.slice(0, 8) }} · {{ r.op === 'delete' ? 'deleted' : r.created ? 'created' : 'changed' }} · {{ r.at | siteTime: zone() }}</li>
           }
         </ul>
       }
@@ -74,6 +74,7 @@ export class DeviceList {
   private readonly store = inject(BoardStore);
   private readonly api = inject(BoardApi);
   private readonly cache = inject(BoardCache);
+  protected readonly zone = this.store.zone;
   protected readonly devices = signal<DeviceRow[]>([]);
   protected readonly problem = signal('');
   protected readonly file = signal<BackupFile | null>(null);

@@ -6,14 +6,13 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { fieldProblems, serverMessage } from '../../core/api/api-error';
+import { siteToday } from '../../../../shared/time/site-time';
 import { BoardApi, type Campaign, type CampaignRoute } from './board-api';
 import { BoardStore } from './board-store';
 import { RouteOrder } from './route-order';
 
 interface RoutePlan { routeId: string; name: string; included: boolean; crewIds: string[]; direction: CampaignRoute['direction'] }
 interface Window { round: number; from: string; to: string }
-
-const today = () => new Date().toISOString().slice(0, 10);
 
 /**
  * Planning: a new campaign (dates, rounds — several a day for diel work —, due items), then for
@@ -31,7 +30,7 @@ export class PlanView {
   protected readonly store = inject(BoardStore);
   private readonly api = inject(BoardApi);
 
-  protected draft = { name: '', startsOn: today(), endsOn: today(), rounds: 1, dueOffset: true, dueClosures: 1, dueProbes: true };
+  protected draft = { name: '', startsOn: siteToday(this.store.zone()), endsOn: siteToday(this.store.zone()), rounds: 1, dueOffset: true, dueClosures: 1, dueProbes: true };
   protected readonly createProblem = signal('');
   protected readonly createStatus = signal('');
   protected readonly plans = signal<RoutePlan[]>([]);

@@ -1,17 +1,15 @@
 import { readTimestamp } from '../../../../shared/logger/zoned-time';
+import { formatSiteTime, siteTimeParts } from '../../../../shared/time/site-time';
 
-/** Local time of the site as YYYY-MM-DD HH:mm, so a check reads as the crew saw it. */
+/** Local time of the site as "YYYY-MM-DD HH:mm CEST", so a check reads as the crew saw it and says in which zone. */
 export function siteTime(iso: string, timeZone: string): string {
-  const parts = new Intl.DateTimeFormat('en-CA', {
-    timeZone, year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', hourCycle: 'h23',
-  }).formatToParts(new Date(iso));
-  const p = Object.fromEntries(parts.map((x) => [x.type, x.value]));
-  return `${p['year']}-${p['month']}-${p['day']} ${p['hour']}:${p['minute']}`;
+  return formatSiteTime(iso, timeZone);
 }
 
 /** The value a datetime-local field shows for an instant, in the site's zone. */
 export function siteWallTime(iso: string, timeZone: string): string {
-  return siteTime(iso, timeZone).replace(' ', 'T');
+  const p = siteTimeParts(iso, timeZone);
+  return `${p.day}T${p.time}`;
 }
 
 /**

@@ -4,6 +4,7 @@ import {
   type OffsetSetRecord,
 } from '../../../../shared/flux';
 import type { LocalRecord } from '../../core/db/db-schema';
+import { localDay } from '../../../../shared/time/site-time';
 
 /** What a closure's flux depends on beyond its series, read from the device store. */
 export interface SpotInputs {
@@ -33,10 +34,8 @@ export interface SpotResult {
   airTempSource: AirTempSource | null;
 }
 
-/** The site's calendar day of an instant (closures and offset sets compare by local day). */
-export function localDay(iso: string, timeZone: string): string {
-  return new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).format(new Date(iso));
-}
+/** The site's calendar day of an instant (closures and offset sets compare by local day): shared/time is its home. */
+export { localDay };
 
 type Col = (number | null)[] | null | undefined;
 const has = (c: Col): c is (number | null)[] => !!c && c.some((v) => typeof v === 'number');

@@ -53,9 +53,9 @@ describe('AnalyzerChecks', () => {
   it('when an analyzer has checks, then each shows kind, site-local time, who, the result and its file, newest first', async () => {
     const { fixture, grid } = await checksOf();
     expect(await grid.getCellTextByIndex()).toEqual([
-      ['Calibration', '2026-05-06 06:55', 'Rowan Ashby', 'Skipped: Span gas bottle empty', ''],
-      ['Ambient reading', '2026-05-05 07:02', 'a former user', 'Failed', ''],
-      ['Leak check', '2026-05-04 07:10', 'Rowan Ashby', 'Passed', 'plate.csv'],
+      ['Calibration', '2026-05-06 06:55 CEST', 'Rowan Ashby', 'Skipped: Span gas bottle empty', ''],
+      ['Ambient reading', '2026-05-05 07:02 CEST', 'a former user', 'Failed', ''],
+      ['Leak check', '2026-05-04 07:10 CEST', 'Rowan Ashby', 'Passed', 'plate.csv'],
     ]);
     const link = (fixture.nativeElement as HTMLElement).querySelector<HTMLAnchorElement>('td a[download]')!;
     expect([link.getAttribute('href'), link.getAttribute('download')]).toEqual([`/api/attachments/${LEAK_FILE.id}/content`, 'plate.csv']);
@@ -107,7 +107,7 @@ describe('AnalyzerChecks', () => {
     backend.expectOne((r) => r.url === '/api/attachments').flush({ items: [], total: 0, limit: 1000, offset: 0 });
     await new Promise((r) => setTimeout(r, 0));
     await fixture.whenStable();
-    expect((await grid.getCellTextByIndex())[0]).toEqual(['Calibration', '2026-06-12 09:15', 'Rowan Ashby',
+    expect((await grid.getCellTextByIndex())[0]).toEqual(['Calibration', '2026-06-12 09:15 CEST', 'Rowan Ashby',
       'Passed · drift zero +3, span -10 µmol/mol (1.25 %) · span gas 800 µmol/mol (SG-800-5)', '']);
     expect((fixture.nativeElement as HTMLElement).querySelector('[data-testid="checks-message"]')!.textContent).toContain('Calibration of Field unit 1 saved.');
   });
@@ -127,7 +127,7 @@ describe('AnalyzerChecks', () => {
 
   it('when a time is shown, then it is the wall-clock time of the site, across the change to summer time', () => {
     // Europe/Berlin moves from UTC+1 to UTC+2 at 01:00 UTC on 29 March 2026 (EU Directive 2000/84/EC: last Sunday of March).
-    expect(siteTime('2026-03-29T00:30:00Z', 'Europe/Berlin')).toBe('2026-03-29 01:30');
-    expect(siteTime('2026-03-29T01:30:00Z', 'Europe/Berlin')).toBe('2026-03-29 03:30');
+    expect(siteTime('2026-03-29T00:30:00Z', 'Europe/Berlin')).toBe('2026-03-29 01:30 CET');
+    expect(siteTime('2026-03-29T01:30:00Z', 'Europe/Berlin')).toBe('2026-03-29 03:30 CEST');
   });
 });

@@ -59,7 +59,7 @@ describe('Walk: the calibration card at the start of the day', () => {
       await db.records('analyzerCheck').bulkPut([calibration(daysAgo(45)), calibration(daysAgo(400))]);
     });
     await until(() => text('calibration-status').includes('45 days ago'), 'the status');
-    expect(text('calibration-status')).toMatch(/^Last calibrated \d{4}-\d\d-\d\d \d\d:\d\d \(45 days ago; due every 30 days\): overdue · span drift 4 µmol\/mol$/);
+    expect(text('calibration-status')).toMatch(/^Last calibrated \d{4}-\d\d-\d\d \d\d:\d\d [A-Z][A-Za-z0-9+:-]* \(45 days ago; due every 30 days\): overdue · span drift 4 µmol\/mol$/);
   });
 
   it('when the last calibration is within the interval, then it is not overdue', async () => {
