@@ -5,7 +5,7 @@
  * property and as its own JSON file.
  */
 import type { DataLicence } from '../../shared/results/data-licences';
-import { TABLES, tablePath, type FieldDef, type FieldType } from './export-schema';
+import { tablesForSite, tablePath, type FieldDef, type FieldType } from './export-schema';
 
 export interface Provenance {
   engineVersion: string;
@@ -40,7 +40,7 @@ export function dataPackage(p: Provenance, rowCounts: Record<string, number>, by
     contributors: [{ title: p.generatedBy.name, email: p.generatedBy.email, role: 'author' }],
     'fluxwalk:provenance': p,
     resources: [
-      ...TABLES.map((t) => ({
+      ...tablesForSite(p.site.timezone).map((t) => ({
         name: t.name,
         path: tablePath(t.name),
         profile: 'tabular-data-resource',

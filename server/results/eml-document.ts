@@ -4,7 +4,7 @@
  * attributes come from the same definitions as the CSV headers. Units are declared as custom
  * units in an STMML unit list (the way EML 2.2 defines units outside its dictionary).
  */
-import { TABLES, tablePath, UNITS, type FieldDef } from './export-schema';
+import { tablesForSite, tablePath, UNITS, type FieldDef } from './export-schema';
 import type { Provenance } from './data-package';
 
 const esc = (s: string) => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;');
@@ -45,6 +45,8 @@ function unitXml(unit: string | undefined): string {
 
 function scale(f: FieldDef): string {
   if (f.type === 'date') return '<dateTime><formatString>YYYY-MM-DD</formatString></dateTime>';
+  // Local twins carry the offset of their moment in the site's zone (named in the attribute definition).
+  if (f.type === 'datetime' && f.localOf) return '<dateTime><formatString>YYYY-MM-DDThh:mm:ss+hh:mm</formatString></dateTime>';
   if (f.type === 'datetime') return '<dateTime><formatString>YYYY-MM-DDThh:mm:ss.sssZ</formatString></dateTime>';
   if (f.type === 'string' || f.type === 'boolean') {
     const def = f.type === 'boolean' ? `${f.description} (true or false)` : f.description;
@@ -87,7 +89,7 @@ export function emlDocument(p: Provenance, cov: EmlCoverage | null, rowCounts: R
     + `<westBoundingCoordinate>${cov.west}</westBoundingCoordinate><eastBoundingCoordinate>${cov.east}</eastBoundingCoordinate>`
     + `<northBoundingCoordinate>${cov.north}</northBoundingCoordinate><southBoundingCoordinate>${cov.south}</southBoundingCoordinate>`
     + `</boundingCoordinates></geographicCoverage>${dateRange(cov.fromDay, cov.toDay)}</coverage>` : '';
-  const tables = TABLES.map((t) => `<dataTable id="${t.name}"><entityName>${esc(tablePath(t.name))}</entityName>`
+  const tables = tablesForSite(p.site.timezone).map((t) => `<dataTable id="${t.name}"><entityName>${esc(tablePath(t.name))}</entityName>`
     + `<entityDescription>${esc(t.description)}</entityDescription><physical><objectName>${esc(tablePath(t.name))}</objectName>`
     + `<size unit="byte">${bytes[t.name] ?? 0}</size><characterEncoding>UTF-8</characterEncoding><dataFormat><textFormat><numHeaderLines>1</numHeaderLines>`
     + '<recordDelimiter>\\n</recordDelimiter><attributeOrientation>column</attributeOrientation><simpleDelimited><fieldDelimiter>,</fieldDelimiter>'

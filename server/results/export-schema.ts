@@ -9,6 +9,8 @@ export type FieldType = 'string' | 'number' | 'integer' | 'boolean' | 'date' | '
 export interface FieldDef {
   name: string; type: FieldType; unit?: string; description: string; required?: boolean;
   enum?: readonly string[]; minimum?: number; maximum?: number; decimals?: number;
+  /** A site-local copy of the UTC datetime field named here: filled by the export, never by a row source. */
+  localOf?: string;
 }
 export interface ForeignKey { fields: string[]; reference: { resource: string; fields: string[] } }
 export interface TableDef { name: string; title: string; description: string; fields: FieldDef[]; primaryKey?: string[]; foreignKeys?: ForeignKey[] }
@@ -19,6 +21,11 @@ const num = (name: string, unit: string, description: string, more: Partial<Fiel
 const oneOf = (name: string, values: readonly string[], description: string): FieldDef => ({ name, type: 'string', description, enum: values });
 const count = (name: string, description: string): FieldDef => ({ name, type: 'integer', description, minimum: 0 });
 const str = (name: string, description: string): FieldDef => ({ name, type: 'string', description });
+/** Written where the site's IANA zone goes in a description; tablesForSite puts the zone in. */
+const SITE_ZONE = '{site zone}';
+/** UTC datetime field followed by its site-local twin: exports keep UTC and add the wall time people noted. */
+const at = (name: string, what: string): FieldDef[] => [{ name, type: 'datetime', description: `${what}, UTC` },
+  { name: `${name}_local`, type: 'datetime', localOf: name, description: `${what}, local time at the site (${SITE_ZONE}), ISO 8601 with that moment's UTC offset` }];
 const fk = (field: string, resource: string, target = field): ForeignKey => ({ fields: [field], reference: { resource, fields: [target] } });
 
 export const UNITS = {
@@ -57,7 +64,7 @@ export const TABLES: TableDef[] = [
     fields: [
       id('check_id', 'Check record'), ref('analyzer_id', 'Analyzer'),
       oneOf('kind', ['leak', 'ambient', 'clock', 'warm-up', 'safety-ack'], 'leak, ambient, clock, warm-up or safety-ack'),
-      { name: 'checked_at', type: 'datetime', description: 'Time of the check, UTC' },
+      ...at('checked_at', 'Time of the check'),
       { name: 'skipped', type: 'boolean', description: 'The check was skipped' }, str('skip_reason', 'Why it was skipped'),
       { name: 'passed', type: 'boolean', description: 'The check passed; empty when not judged' },
       num('co2_ppm', UNITS.ppm, 'Ambient CO2 read (ambient check)'), num('slope_ppm_s', UNITS.ppmPerS, 'CO2 slope with the chamber sealed on a blank (leak check)'),
@@ -77,7 +84,7 @@ export const TABLES: TableDef[] = [
     description: 'Zero/span calibrations of the gas analyzers: gases, cylinders, readings before (as found) and after (as left) adjustment, drift against the site limit.',
     fields: [
       id('calibration_id', 'Calibration record'), ref('analyzer_id', 'Analyzer'), str('analyzer_name', 'Analyzer name'), str('analyzer_serial', 'Analyzer serial number'),
-      { name: 'calibrated_at', type: 'datetime', description: 'Time of the calibration, UTC' }, str('recorded_by', 'Who recorded it (display name)'),
+      ...at('calibrated_at', 'Time of the calibration'), str('recorded_by', 'Who recorded it (display name)'),
       { name: 'skipped', type: 'boolean', description: 'The calibration was skipped' }, str('skip_reason', 'Why it was skipped'),
       { name: 'passed', type: 'boolean', description: 'Left within the site limit after adjustment; empty when not judged' },
       num('zero_gas_ppm', UNITS.ppm, 'CO2 concentration of the zero gas'), str('zero_cylinder', 'Zero gas cylinder id, empty for scrubbed air'),
@@ -94,20 +101,20 @@ export const TABLES: TableDef[] = [
   { name: 'visits', title: 'Visits', description: 'One crew stop at one collar in one round of a campaign.', primaryKey: ['visit_id'],
     foreignKeys: [fk('collar_id', 'collars')], fields: [
       id('visit_id', 'Visit'), ref('campaign_id', 'Campaign'), str('campaign_name', 'Campaign name'), count('round', 'Round number within the campaign'),
-      ref('collar_id', 'Collar'), { name: 'arrived_at', type: 'datetime', description: 'Arrival time, UTC' },
+      ref('collar_id', 'Collar'), ...at('arrived_at', 'Arrival time'),
       { name: 'skipped', type: 'boolean', description: 'The collar was skipped in this round' }, str('skip_reason', 'Why it was skipped'),
       str('conditions', 'Visit conditions as a JSON object (standing water, animal, trampling, notes)'),
     ] },
   { name: 'offset_sets', title: 'Offset sets', description: 'Collar rim heights above the soil read around the rim at one visit.', primaryKey: ['offset_set_id'],
     foreignKeys: [fk('visit_id', 'visits'), fk('collar_id', 'collars')], fields: [
-      id('offset_set_id', 'Offset set'), ref('visit_id', 'Visit'), ref('collar_id', 'Collar'), { name: 'taken_at', type: 'datetime', description: 'Time, UTC' },
+      id('offset_set_id', 'Offset set'), ref('visit_id', 'Visit'), ref('collar_id', 'Collar'), ...at('taken_at', 'Time'),
       num('mean_offset_cm', UNITS.cm, 'Mean rim height above the soil'), num('sd_offset_cm', UNITS.cm, 'Standard deviation of the readings'),
       count('n_readings', 'Number of readings'), str('readings_cm', 'The readings in cm, separated by semicolons'),
       ref('supersedes_id', 'Offset set this one replaces'),
     ] },
   { name: 'probe_readings', title: 'Probe readings', description: 'Soil moisture and the soil temperature at the site\'s response depth per visit.', primaryKey: ['probe_reading_id'],
     foreignKeys: [fk('visit_id', 'visits')], fields: [
-      id('probe_reading_id', 'Probe reading'), ref('visit_id', 'Visit'), ref('collar_id', 'Collar'), { name: 'taken_at', type: 'datetime', description: 'Time, UTC' },
+      id('probe_reading_id', 'Probe reading'), ref('visit_id', 'Visit'), ref('collar_id', 'Collar'), ...at('taken_at', 'Time'),
       num('soil_temp_c', UNITS.degC, 'Soil temperature at the site\'s response depth', { decimals: 2 }),
       num('vwc_pct', UNITS.percent, 'Volumetric water content: the VWC reading, or the permittivity through the site\'s calibration (Topp et al. 1980 unless set)', { decimals: 2 }),
       oneOf('moisture_kind', ['vwc', 'permittivity'], 'What the probe gave: vwc (a VWC in %) or permittivity (apparent permittivity Ka)'),
@@ -122,7 +129,7 @@ export const TABLES: TableDef[] = [
   { name: 'closures', title: 'Closures', description: 'Chamber closures with the raw fit, the review fit, QC flags and the lab\'s decision.', primaryKey: ['closure_id'],
     foreignKeys: [fk('visit_id', 'visits'), fk('collar_id', 'collars'), fk('profile_id', 'chamber_profiles'), fk('analyzer_id', 'analyzers')], fields: [
       id('closure_id', 'Closure'), ref('visit_id', 'Visit'), ref('collar_id', 'Collar'), ref('campaign_id', 'Campaign'),
-      { name: 'started_at', type: 'datetime', description: 'Chamber closed, UTC' }, num('settle_s', UNITS.s, 'Settle time skipped by the raw fit'),
+      ...at('started_at', 'Chamber closed'), num('settle_s', UNITS.s, 'Settle time skipped by the raw fit'),
       oneOf('review_state', ['unreviewed', 'accepted', 'rejected'], 'unreviewed, accepted or rejected'), str('review_reason', 'Reason given for a rejection'),
       num('review_settle_s', UNITS.s, 'Settle time chosen by the lab'), num('review_window_end_s', UNITS.s, 'End of the fit window chosen by the lab'),
       str('review_model', 'Rate model chosen by the lab'), str('raw_model', 'Rate model the raw fit selected'),
@@ -152,7 +159,7 @@ export const TABLES: TableDef[] = [
       num('pressure_kpa', UNITS.kPa, 'Chamber pressure'),
     ] },
   { name: 'soil_temperature_logs', title: 'Soil temperature logs', description: 'Continuous logger series per plot and depth used for seasonal totals.',
-    fields: [ref('plot_id', 'Plot'), num('depth_cm', UNITS.cm, 'Logger depth'), { name: 't', type: 'datetime', description: 'Time, UTC' }, num('soil_temp_c', UNITS.degC, 'Soil temperature')] },
+    fields: [ref('plot_id', 'Plot'), num('depth_cm', UNITS.cm, 'Logger depth'), ...at('t', 'Time'), num('soil_temp_c', UNITS.degC, 'Soil temperature')] },
   { name: 'visit_means', title: 'Visit means', description: 'Mean flux of the selected closures of each visit, with soil temperature and moisture.', primaryKey: ['visit_id'],
     foreignKeys: [fk('visit_id', 'visits')], fields: [
       ref('visit_id', 'Visit'), ref('collar_id', 'Collar'), ref('plot_id', 'Plot'), str('cell', 'Treatment cell: plot treatment|collar treatment'),
@@ -210,3 +217,11 @@ export const TABLES: TableDef[] = [
 
 export const tableDef = (name: string) => TABLES.find((t) => t.name === name)!;
 export const tablePath = (name: string) => `data/${name}.csv`;
+
+/** The tables with the site's zone named in every local-time field's description (CSV headers, datapackage.json, EML). */
+export function tablesForSite(timeZone: string): TableDef[] {
+  return TABLES.map((t) => ({ ...t, fields: t.fields.map((f) => (f.localOf ? { ...f, description: f.description.replace(SITE_ZONE, timeZone) } : f)) }));
+}
+
+/** The fields a row source writes: every field but the local-time twins. */
+export const sourceFields = (t: TableDef): FieldDef[] => t.fields.filter((f) => !f.localOf);

@@ -9,7 +9,8 @@ import { CALIBRATION_METHOD, calibrationRows } from './calibration-rows';
 import { dataPackage, type Provenance } from './data-package';
 import { emlDocument } from './eml-document';
 import * as rows from './export-rows';
-import { TABLES, tablePath, type FieldDef } from './export-schema';
+import { siteIsoLocal } from '../../shared/time/site-time';
+import { sourceFields, TABLES, tablePath, tablesForSite, type FieldDef } from './export-schema';
 import type { ClosureSelection } from './results-data';
 import { SEASONAL_METHOD, seasonalSummary, siteResults, TOTAL_INTERVAL_METHOD } from './results-service';
 import type { ResponseModelName } from './temperature-responses';
@@ -69,7 +70,9 @@ export async function runResultsExport(ds: DataSource, req: ExportRequest, hooks
   const zip = new ZipWriter(now);
   const rowCounts: Record<string, number> = {};
   const bytes: Record<string, number> = {};
-  for (const t of TABLES) {
+  for (const t of tablesForSite(site.timezone)) {
+    const raw = sourceFields(t);
+    const local = localTimes(t.fields, raw, site.timezone);
     let count = 0;
     let size = 0;
     async function* csv() {
@@ -77,8 +80,8 @@ export async function runResultsExport(ds: DataSource, req: ExportRequest, hooks
       size += Buffer.byteLength(head);
       yield head;
       for await (const r of sources[t.name]()) {
-        if (r.length !== t.fields.length) throw new Error(`${t.name}: a row has ${r.length} values for ${t.fields.length} fields`);
-        const line = csvLine((r as CsvValue[]).map((v, i) => tidy(v, t.fields[i])));
+        if (r.length !== raw.length) throw new Error(`${t.name}: a row has ${r.length} values for ${raw.length} fields`);
+        const line = csvLine(local(r as CsvValue[]).map((v, i) => tidy(v, t.fields[i])));
         count++;
         size += Buffer.byteLength(line);
         yield line;
@@ -173,4 +176,11 @@ function coverage(r: { s: number | null; n: number | null; w: number | null; e: 
 
 export function defineExportJob(): void {
   defineJob({ name: EXPORT_JOB, retryLimit: 1, handler: (data, ctx) => runResultsExport(ctx.ds, data as unknown as ExportRequest, { jobId: ctx.jobId, progress: ctx.progress }) });
+}
+
+/** A source row (UTC only) → the table's row, each `*_local` field the same instant in the site's zone. */
+function localTimes(fields: FieldDef[], raw: FieldDef[], timeZone: string): (r: CsvValue[]) => CsvValue[] {
+  if (fields.length === raw.length) return (r) => r;
+  const pick = fields.map((f) => raw.findIndex((x) => x.name === (f.localOf ?? f.name)));
+  return (r) => fields.map((f, i) => (f.localOf ? (r[pick[i]] === null || r[pick[i]] === '' ? null : siteIsoLocal(String(r[pick[i]]), timeZone)) : r[pick[i]]));
 }
