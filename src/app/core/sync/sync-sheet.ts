@@ -1,5 +1,6 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { SiteTimePipe } from '../time/site-time-pipe';
+import { SiteChoice } from '../auth/site-choice';
 import { MatBottomSheetRef } from '@angular/material/bottom-sheet';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
@@ -30,13 +31,13 @@ interface PendingRow {
 /** What is not yet synced (changes and files), files uploaded, what the server refused, storage, and the backup file. */
 @Component({
   selector: 'fw-sync-sheet',
-  imports: [DatePipe, MatButtonModule, MatIconModule, RouterLink],
+  imports: [SiteTimePipe, MatButtonModule, MatIconModule, RouterLink],
   template: `
     <section aria-labelledby="sync-sheet-title" data-testid="sync-sheet">
       <h2 id="sync-sheet-title">{{ engine.view().label }}</h2>
       <p class="muted">
         Last successful sync:
-        @if (engine.lastSuccess(); as t) { {{ t | date: 'medium' }} } @else { not yet on this device }
+        @if (engine.lastSuccess(); as t) { {{ t | siteTime: zone() }} } @else { not yet on this device }
       </p>
       @if (engine.lastError(); as e) { <p class="error" role="alert">{{ e }}</p> }
 
@@ -61,7 +62,7 @@ interface PendingRow {
       @if (pending().length || waitingFiles().length) {
         <ul class="rows" data-testid="unsynced-list">
           @for (p of pending(); track p.key) {
-            <li><strong>{{ p.label }}</strong> · {{ p.what }} · {{ p.at | date: 'short' }}@if (p.sent) { · sent, waiting for the answer }</li>
+            <li><strong>{{ p.label }}</strong> · {{ p.what }} · {{ p.at | siteTime: zone() }}@if (p.sent) { · sent, waiting for the answer }</li>
           }
           @for (f of waitingFiles(); track f.key) {
             <li data-testid="file-waiting"><strong>File {{ f.name }}</strong> · {{ bytes(f.size) }} · waiting for upload
@@ -77,7 +78,7 @@ interface PendingRow {
         <p class="muted">Safe on the server; a copy also stays on this device.</p>
         <ul class="rows" data-testid="uploaded-list">
           @for (f of uploadedFiles(); track f.key) {
-            <li><strong>{{ f.name }}</strong> · {{ bytes(f.size) }} · uploaded {{ f.uploadedAt | date: 'short' }}</li>
+            <li><strong>{{ f.name }}</strong> · {{ bytes(f.size) }} · uploaded {{ f.uploadedAt | siteTime: zone() }}</li>
           }
         </ul>
       }
@@ -115,6 +116,9 @@ interface PendingRow {
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class SyncSheet {
+  private readonly siteChoiceForTimes = inject(SiteChoice);
+  /** Times shown here are the chosen site's wall time, zone named. */
+  protected readonly zone = computed(() => this.siteChoiceForTimes.current()?.timezone ?? 'UTC');
   protected readonly engine = inject(SyncEngine);
   protected readonly storage = inject(StorageStatus);
   private readonly backup = inject(BackupDownload);

@@ -1,5 +1,6 @@
-import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject, signal, computed } from '@angular/core';
+import { SiteTimePipe } from '../../core/time/site-time-pipe';
+import { SiteChoice } from '../../core/auth/site-choice';
 import { MatButtonModule } from '@angular/material/button';
 import { AuthStore } from '../../core/auth/auth-store';
 import { BackupFileError, importBackup, parseBackup, summarizeBackup, type BackupFile, type BackupSummaryRow } from '../../core/db/backup-file';
@@ -15,7 +16,7 @@ import { SyncEngine } from '../../core/sync/sync-engine';
  */
 @Component({
   selector: 'fw-backup-page',
-  imports: [DatePipe, MatButtonModule],
+  imports: [SiteTimePipe, MatButtonModule],
   template: `
     <h1>Backup files</h1>
     <p>A backup file holds every change on this device that the server does not have yet, and changes it refused.
@@ -30,7 +31,7 @@ import { SyncEngine } from '../../core/sync/sync-engine';
 
     @if (file(); as f) {
       <section aria-labelledby="read-title">
-        <h3 id="read-title">{{ f.user.displayName }} ({{ f.user.email }}) · saved {{ f.createdAt | date: 'medium' }}</h3>
+        <h3 id="read-title">{{ f.user.displayName }} ({{ f.user.email }}) · saved {{ f.createdAt | siteTime: zone() }}</h3>
         @if (f.user.id === me()) {
           <button mat-stroked-button type="button" (click)="load(f)">Queue these {{ rows().length }} changes on this device</button>
         } @else {
@@ -38,7 +39,7 @@ import { SyncEngine } from '../../core/sync/sync-engine';
         }
         <ul>
           @for (r of rows(); track $index) {
-            <li>{{ r.entity }} {{ r.id.slice(0, 8) }} · {{ r.op === 'delete' ? 'deleted' : r.created ? 'created' : 'changed ' + fields(r) }} · {{ r.at | date: 'short' }}</li>
+            <li>{{ r.entity }} {{ r.id.slice(0, 8) }} · {{ r.op === 'delete' ? 'deleted' : r.created ? 'created' : 'changed ' + fields(r) }} · {{ r.at | siteTime: zone() }}</li>
           }
         </ul>
         @if (f.rejected.length) { <p>{{ f.rejected.length }} change(s) in the file were refused by the server.</p> }
@@ -54,6 +55,9 @@ import { SyncEngine } from '../../core/sync/sync-engine';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class BackupPage {
+  private readonly siteChoiceForTimes = inject(SiteChoice);
+  /** Times shown here are the chosen site's wall time, zone named. */
+  protected readonly zone = computed(() => this.siteChoiceForTimes.current()?.timezone ?? 'UTC');
   private readonly auth = inject(AuthStore);
   private readonly deviceDb = inject(DeviceDb);
   private readonly engine = inject(SyncEngine);

@@ -1,5 +1,6 @@
 import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, input, output } from '@angular/core';
+import { formatSiteTime } from '../../../../shared/time/site-time';
 import { MatButtonModule } from '@angular/material/button';
 import type { LocalRecord } from '../../core/db/db-schema';
 import { fluxOnTheSpot, type SpotInputs } from './closure-flux';
@@ -73,7 +74,6 @@ export class ClosureCard {
   protected readonly settleS = computed(() => Number(this.closure()['settleS']));
 
   protected time(v: unknown): string {
-    const timeZone = String(this.inputs().site?.['timezone'] ?? 'UTC');
-    return typeof v === 'string' ? new Date(v).toLocaleTimeString('en-GB', { timeZone, hour: '2-digit', minute: '2-digit', second: '2-digit' }) : '—';
+    return typeof v === 'string' ? formatSiteTime(v, String(this.inputs().site?.['timezone'] ?? 'UTC'), { timeOnly: true, seconds: true }) || '—' : '—';
   }
 }

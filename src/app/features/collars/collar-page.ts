@@ -1,5 +1,6 @@
-import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, effect, inject, input, signal, untracked } from '@angular/core';
+import { ChangeDetectionStrategy, Component, effect, inject, input, signal, untracked, computed } from '@angular/core';
+import { SiteTimePipe } from '../../core/time/site-time-pipe';
+import { SiteChoice } from '../../core/auth/site-choice';
 import { FormControl, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -19,12 +20,15 @@ import { collarView } from './collar-store';
  */
 @Component({
   selector: 'fw-collar-page',
-  imports: [CollarEvents, CollarPhotos, DatePipe, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, ReactiveFormsModule, RouterLink],
+  imports: [CollarEvents, CollarPhotos, SiteTimePipe, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, ReactiveFormsModule, RouterLink],
   templateUrl: './collar-page.html',
   styleUrl: './collar-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class CollarPage {
+  private readonly siteChoiceForTimes = inject(SiteChoice);
+  /** Times shown here are the chosen site's wall time, zone named. */
+  protected readonly zone = computed(() => this.siteChoiceForTimes.current()?.timezone ?? 'UTC');
   readonly id = input.required<string>();
   private readonly writes = inject(LocalWrites);
   private readonly auth = inject(AuthStore);

@@ -1,5 +1,6 @@
-import { DatePipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject, signal, computed } from '@angular/core';
+import { SiteTimePipe } from '../../core/time/site-time-pipe';
+import { SiteChoice } from '../../core/auth/site-choice';
 import { MatButtonModule } from '@angular/material/button';
 import { MatRadioModule } from '@angular/material/radio';
 import { AuthStore } from '../../core/auth/auth-store';
@@ -26,12 +27,15 @@ interface ConflictCard {
  */
 @Component({
   selector: 'fw-conflicts',
-  imports: [DatePipe, MatButtonModule, MatRadioModule],
+  imports: [SiteTimePipe, MatButtonModule, MatRadioModule],
   templateUrl: './conflicts.html',
   styleUrl: './conflicts.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class Conflicts {
+  private readonly siteChoiceForTimes = inject(SiteChoice);
+  /** Times shown here are the chosen site's wall time, zone named. */
+  protected readonly zone = computed(() => this.siteChoiceForTimes.current()?.timezone ?? 'UTC');
   private readonly writes = inject(LocalWrites);
   private readonly auth = inject(AuthStore);
   protected readonly picks = signal<Record<string, Record<string, Side>>>({});
