@@ -1,10 +1,9 @@
-/** The wall-clock date and minute of the day at `at` in an IANA time zone (DST included, via Intl). */
+import { siteTimeParts } from '../../shared/time/site-time';
+
+/** The wall-clock date and minute of the day at `at` in an IANA time zone (DST included): shared/time is the home of the rule. */
 export function localClock(at: Date, timeZone: string): { date: string; minutes: number } {
-  const parts = new Intl.DateTimeFormat('en-CA', {
-    timeZone, year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', hourCycle: 'h23',
-  }).formatToParts(at);
-  const get = (t: string) => parts.find((p) => p.type === t)?.value ?? '00';
-  return { date: `${get('year')}-${get('month')}-${get('day')}`, minutes: Number(get('hour')) * 60 + Number(get('minute')) };
+  const p = siteTimeParts(at, timeZone);
+  return { date: p.day, minutes: Number(p.time.slice(0, 2)) * 60 + Number(p.time.slice(3, 5)) };
 }
 
 export const hhmmToMinutes = (hhmm: string) => Number(hhmm.slice(0, 2)) * 60 + Number(hhmm.slice(3, 5));
