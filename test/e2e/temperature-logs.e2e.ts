@@ -1,0 +1,45 @@
+/// <reference lib="dom" />
+import { signInAs } from './support/app-actions';
+import { RunningServer, startAppServer } from './support/app-server';
+import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
+
+jest.setTimeout(240_000);
+
+let server: RunningServer;
+let browser: Browser | null = null;
+
+beforeAll(async () => {
+  server = await startAppServer();
+});
+
+afterAll(async () => {
+  await browser?.close();
+  await server?.stop();
+});
+
+describe('Bench temperature logs in Chromium at 390 px', () => {
+  it('when the lab picks a logger file, fixes nothing, chooses a plot and depth, then the log is stored and the screen fits a phone', async () => {
+    browser = await launchBrowser();
+    const page = browser.page;
+    await withScreenshotOnFailure(page, 'temperature-logs', async () => {
+      await page.setViewportSize({ width: 390, height: 844 });
+      await signInAs(page, server.baseUrl, 'lab');
+      await page.getByRole('link', { name: 'Temperature logs' }).click();
+      await page.getByRole('heading', { name: 'Soil temperature logs' }).waitFor();
+      const text = 'Zeit;Boden 5 cm\n2026-07-01 00:00;14,2\n2026-07-01 01:00;14,0\n2026-07-01 02:00;13,8\n';
+      await page.locator('input[type=file][aria-label="Temperature logger file"]').setInputFiles({ name: 'soil-5cm.csv', mimeType: 'text/csv', buffer: Buffer.from(text) });
+      await page.getByTestId('preview-summary').getByText(/3 readings/).waitFor();
+      await page.getByLabel('Depth (cm)').fill('5');
+      // A multiple select stays open after a choice: pick one plot, then close it.
+      await page.getByRole('combobox', { name: 'Plot(s) this logger stands for' }).click();
+      await page.getByRole('option').first().click();
+      await page.keyboard.press('Escape');
+      await page.getByRole('listbox').waitFor({ state: 'detached' });
+      const done = page.waitForResponse((r) => r.url().includes('/api/results/temperature-logs/import'));
+      await page.getByRole('button', { name: 'Import', exact: true }).click();
+      expect((await done).status()).toBe(201);
+      await page.getByTestId('outcome').getByText(/Imported \(append\): 3 readings/).waitFor();
+      expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
+    });
+  });
+});
