@@ -1,6 +1,7 @@
 import { provideHttpClient } from '@angular/common/http';
 import { provideHttpClientTesting } from '@angular/common/http/testing';
 import { TestBed } from '@angular/core/testing';
+import { provideRouter } from '@angular/router';
 import { rememberOnDevice, testUser } from '../../core/auth/testing/demo-sessions';
 import { Bench } from './bench';
 import { BenchApi, type QueueItem } from './bench-api';
@@ -26,7 +27,7 @@ async function render(items: QueueItem[]) {
     detail: () => new Promise(() => undefined),
     jobs: async () => ({ items: [] }),
   };
-  TestBed.configureTestingModule({ imports: [Bench], providers: [provideHttpClient(), provideHttpClientTesting(), { provide: BenchApi, useValue: api }] });
+  TestBed.configureTestingModule({ imports: [Bench], providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([]), { provide: BenchApi, useValue: api }] });
   const fixture = TestBed.createComponent(Bench);
   fixture.detectChanges();
   for (let i = 0; i < 3; i++) { await settle(); await fixture.whenStable(); }
