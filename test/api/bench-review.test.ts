@@ -99,11 +99,16 @@ describe('Bench review: decisions on closures', () => {
 
   it('when the demo seed has accepted and rejected closures, then each decision is in their history like any other lab decision', async () => {
     for (const state of ['accepted', 'rejected'] as const) {
-      const q = await lab.get(`/api/bench/queue?siteId=${DEMO_SITE_ID}&reviewState=${state}&limit=1`);
-      const item = q.body.items[0];
-      expect(item).toBeDefined();
-      const h = (await lab.get(`/api/bench/closures/${item.id}/history`)).body.items;
-      expect(h.find((e: any) => e.field === 'reviewState')).toMatchObject({ kind: 'decision', oldValue: 'unreviewed', newValue: state, userName: expect.any(String) });
+      // Other test files share the demo and may decide a demo closure again: look at several.
+      const q = await lab.get(`/api/bench/queue?siteId=${DEMO_SITE_ID}&reviewState=${state}&limit=10`);
+      expect(q.body.items.length).toBeGreaterThan(0);
+      const seeded = [];
+      for (const item of q.body.items) {
+        const h = (await lab.get(`/api/bench/closures/${item.id}/history`)).body.items;
+        seeded.push(h.find((e: any) => e.field === 'reviewState' && e.oldValue === 'unreviewed' && e.newValue === state));
+      }
+      expect(seeded.filter(Boolean).length).toBeGreaterThan(0);
+      expect(seeded.find(Boolean)).toMatchObject({ kind: 'decision', oldValue: 'unreviewed', newValue: state, userName: expect.any(String) });
     }
   });
 
