@@ -291,14 +291,12 @@ describe('Closure capture in Chromium, offline, then synced', () => {
       await page.getByTestId(`route-collar-${collarC}`).click();
       await page.getByTestId('visit-code').filter({ hasText: collarC }).waitFor();
       for (const [i, v] of ['2.0', '2.1', '1.9', '2.0'].entries()) await page.getByTestId(`offset-${i + 1}`).fill(v);
-      await page.getByRole('button', { name: 'Save offset set' }).click();
       await page.getByTestId('offset-saved').waitFor();
       await tapClosure(page, TAPS[0]);
       await tapClosure(page, TAPS[1]);
       await page.clock.setSystemTime(new Date('2026-12-03T08:52:00Z'));
       await openCollar(page, collarD);
       for (const [i, v] of ['1.6', '1.7', '1.5', '1.6'].entries()) await page.getByTestId(`offset-${i + 1}`).fill(v);
-      await page.getByRole('button', { name: 'Save offset set' }).click();
       await page.getByTestId('offset-saved').waitFor();
       await tapClosure(page, TAPS[2]);
       await tapClosure(page, TAPS[3]);
