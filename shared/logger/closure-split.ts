@@ -137,7 +137,7 @@ export function splitByTapsKeepingUntapped(samples: readonly LoggerSample[], tap
   return { method: 'taps', pieces, outside: byTaps.outside - untapped.reduce((n, p) => n + p.samples.length, 0) };
 }
 
-/** The method the issue asks for: a closure-id column first, else taps (timestamp files only), else gaps. */
+/** How a file is cut into closures: a closure-id column first, else taps (timestamp files only), else gaps. */
 export function splitClosures(samples: readonly LoggerSample[], opts: { taps?: readonly TapWindow[]; gapS?: number; slackS?: number } = {}): SplitResult {
   if (samples.some((s) => s.closureId !== null)) return splitByClosureId(samples);
   if (opts.taps?.length && samples.every((s) => s.atMs !== null)) return splitByTaps(samples, opts.taps, opts.slackS);

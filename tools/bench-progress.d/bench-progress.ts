@@ -2,7 +2,7 @@
  * Campaign progress benchmark: builds 5 000 collars and 20 campaigns with readings in an empty
  * database, then times GET /api/campaigns/:id/progress's work (campaignProgress: its SQL round
  * trip and the shaping in Node) against a plain count(*) over the same campaign's readings in
- * the same run. Target from the issue: median ≤ 50 ms for one 5 000-collar campaign.
+ * the same run. Target: median ≤ 50 ms for one 5 000-collar campaign.
  * Usage: DATABASE_URL=postgres://…/<name>_bench node bench-progress.js [collars] [campaigns] [repetitions]
  */
 import 'reflect-metadata';
