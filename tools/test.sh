@@ -21,6 +21,10 @@ FAKE_SMTP_PORT=2526 FAKE_SMTP_WEB_PORT=8026 source "$ROOT/tools/fake-smtp.sh" # 
 # Browser tests and the API tests of the tag sheet need chromium and pdftoppm.
 bash "$ROOT/tools/lib/ensure-browser-tools.sh"
 
+# Tests are compiled one file at a time (isolatedModules) and so never type-checked by jest: check them here.
+say "type-checking the tests…"
+npx tsc --noEmit -p tsconfig.node-jest.json || die "the tests do not type-check"
+
 rc=0
 npx jest --selectProjects shared server app "$@" || rc=$?
 if ls test/e2e/*.e2e.ts >/dev/null 2>&1; then

@@ -25,7 +25,7 @@ describe('results export: local-time columns', () => {
     zone = zone === 'UTC' ? 'America/Anchorage' : zone;
     await t.ds.query(`UPDATE site SET timezone = $2 WHERE id = $1`, [DEMO_SITE_ID, zone]);
     const [lab] = await t.ds.query(`SELECT id FROM app_user WHERE email = $1`, [demoEmail('lab')]);
-    const out = await runResultsExport(t.ds, { siteId: DEMO_SITE_ID, selection: 'not-rejected', model: 'q10', resamples: 20, seed: 1, userId: lab.id, license: 'CC0-1.0' },
+    const out = await runResultsExport(t.ds, { siteId: DEMO_SITE_ID, selection: 'not-rejected', model: 'q10', userId: lab.id, license: 'CC0-1.0' },
       { jobId: '0b6d7e1a-2f4c-4d8e-9a1b-3c5d7e9f1a2b' });
     const [{ bytes }] = await t.ds.query(`SELECT bytes FROM result_export WHERE id = $1`, [out.exportId]);
     files = readZip(bytes as Buffer);

@@ -36,7 +36,7 @@ describe('sync push: batched creates answer as single creates', () => {
   });
   afterAll(() => t.close());
 
-  const create = (entity: string, fields: Record<string, unknown>, id = randomUUID()) =>
+  const create = (entity: string, fields: Record<string, unknown>, id: string = randomUUID()) =>
     ({ opId: randomUUID(), entity, id, baseRev: null, op: 'upsert', fields });
   const event = (n: number, collarId = home.collar.id, siteId = home.site.id) =>
     create('collarEvent', { siteId, collarId, kind: 'clipped', date: '2026-06-03', note: `batched ${n}` });

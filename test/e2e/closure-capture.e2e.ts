@@ -10,6 +10,7 @@ import { RunningServer, startAppServer } from './support/app-server';
 import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
 import { queryE2eDatabase } from './support/suite';
 import { syncNow, waitForFirstSync, waitForSyncLabel } from './support/sync-actions';
+import { choose } from './support/walk-actions';
 
 jest.setTimeout(600_000);
 
@@ -44,13 +45,6 @@ afterAll(async () => {
 const query = queryE2eDatabase;
 
 const sha256 = (b: Buffer) => createHash('sha256').update(b).digest('hex');
-
-/** A Material select, as a person uses it: open, then choose. */
-async function choose(page: Page, label: string, option: string | RegExp): Promise<void> {
-  await page.getByRole('combobox', { name: label }).click();
-  await page.getByRole('option', { name: option }).first().click();
-  await page.getByRole('listbox').waitFor({ state: 'detached' });
-}
 
 async function openCollar(page: Page, code: string): Promise<void> {
   await page.getByRole('link', { name: 'Back to the route' }).click();

@@ -2,6 +2,7 @@
 import { signInAs } from './support/app-actions';
 import { RunningServer, startAppServer } from './support/app-server';
 import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
+import { choose } from './support/walk-actions';
 
 jest.setTimeout(240_000);
 
@@ -31,8 +32,7 @@ describe('Bench temperature logs in Chromium at 390 px', () => {
       await page.getByTestId('preview-summary').getByText(/3 readings/).waitFor();
       await page.getByLabel('Depth (cm)').fill('5');
       // A multiple select stays open after a choice: pick one plot, then close it.
-      await page.getByRole('combobox', { name: 'Plot(s) this logger stands for' }).click();
-      await page.getByRole('option').first().click();
+      await choose(page, 'Plot(s) this logger stands for', /.+/, { multiple: true });
       await page.keyboard.press('Escape');
       await page.getByRole('listbox').waitFor({ state: 'detached' });
       const done = page.waitForResponse((r) => r.url().includes('/api/results/temperature-logs/import'));

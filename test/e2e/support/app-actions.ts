@@ -7,6 +7,7 @@ export const DEMO_PASSWORD = 'fluxwalk-demo';
 export type DemoRole = 'crew' | 'lead' | 'lab' | 'admin';
 
 export interface SignedInUser {
+  id: string;
   email: string;
   displayName: string;
   roles: string[];

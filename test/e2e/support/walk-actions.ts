@@ -13,11 +13,27 @@ const { PNG } = require('pngjs') as {
 
 export const PHONE = { width: 390, height: 844 };
 
-/** Picks an option of a Material select by its label, as a person does: open, then choose. */
-export async function choose(page: Page, label: string, option: string | RegExp): Promise<void> {
-  await page.getByRole('combobox', { name: label }).click();
-  await page.getByRole('option', { name: option }).first().click();
-  await page.getByRole('listbox').waitFor({ state: 'detached' });
+/**
+ * Picks an option of a Material select by its label, as a person does: open, then choose. A Material
+ * select does not open while it has no options, and its options may still be loading (a live query or
+ * a request): open again until the option is there. A multiple select stays open after a choice.
+ */
+export async function choose(page: Page, label: string, option: string | RegExp, opts: { multiple?: boolean } = {}): Promise<void> {
+  const listbox = page.getByRole('listbox');
+  const wanted = page.getByRole('option', { name: option }).first();
+  const deadline = Date.now() + 30_000;
+  for (;;) {
+    if (!(await listbox.isVisible())) await page.getByRole('combobox', { name: label }).click();
+    try {
+      await wanted.waitFor({ timeout: 3_000 });
+      break;
+    } catch (err) {
+      if (Date.now() > deadline) throw err;
+      if (await listbox.isVisible()) await page.keyboard.press('Escape');
+    }
+  }
+  await wanted.click();
+  if (!opts.multiple) await listbox.waitFor({ state: 'detached' });
 }
 
 /** The same with the keyboard only: focus, open with Space, arrow to the option, Enter. */
