@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, computed, effect, inject, input, output, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input, linkedSignal, output, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MAT_FORM_FIELD_DEFAULT_OPTIONS, MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
@@ -47,7 +47,8 @@ export class SiteForm {
   readonly saved = output<Rec>();
 
   protected readonly thresholds = THRESHOLDS;
-  protected readonly draft = signal<Draft>({});
+  /** The form's values: the site's own, until the person types; a different site starts them afresh. */
+  protected readonly draft = linkedSignal<Draft>(() => toDraft(this.site()));
   protected readonly errors = signal<Record<string, string>>({});
   protected readonly message = signal('');
   protected readonly busy = signal(false);
@@ -57,10 +58,6 @@ export class SiteForm {
     const kpa = raw.trim() === '' ? NaN : pressureFromElevationKpa(Number(raw));
     return Number.isFinite(kpa) ? kpa.toFixed(2) : null;
   });
-
-  constructor() {
-    effect(() => this.draft.set(toDraft(this.site())));
-  }
 
   protected set(key: string, value: string): void {
     this.draft.update((d) => ({ ...d, [key]: value }));
