@@ -164,7 +164,8 @@ describe('App shell in Chromium', () => {
       await signInAs(page, suite.server.baseUrl, 'lead');
       await page.getByTestId('user-menu').click();
       await page.getByRole('menuitemcheckbox', { name: 'Outdoor contrast' }).click();
-      expect(await page.evaluate(() => document.documentElement.classList.contains('fw-outdoor'))).toBe(true);
+      // The class follows the setting on the next change detection, not within the click.
+      await page.waitForFunction(() => document.documentElement.classList.contains('fw-outdoor'), undefined, { timeout: 5_000 });
 
       await page.getByTestId('user-menu').click();
       const sites = page.getByRole('menuitemradio');
@@ -175,7 +176,7 @@ describe('App shell in Chromium', () => {
 
       await page.reload({ waitUntil: 'load' });
       await page.getByRole('navigation', { name: 'Screens' }).waitFor();
-      expect(await page.evaluate(() => document.documentElement.classList.contains('fw-outdoor'))).toBe(true);
+      await page.waitForFunction(() => document.documentElement.classList.contains('fw-outdoor'), undefined, { timeout: 5_000 });
       expect((await page.getByTestId('current-site').innerText()).trim()).toBe(lastSite);
       // Outdoor contrast must stay accessible too.
       expect(await seriousAccessibilityProblems(page)).toEqual([]);
