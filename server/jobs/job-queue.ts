@@ -1,9 +1,13 @@
+import PgBoss from 'pg-boss';
 import type { DataSource } from 'typeorm';
 import { jobDefinitions, type JobDefinition } from './job-registry';
 import { markFinished, markStarted, reportProgress } from './job-store';
+import { retireNewerQueueSchema } from './queue-schema';
 
-type PgBossModule = typeof import('pg-boss');
-type Boss = InstanceType<PgBossModule['PgBoss']>;
+type Boss = PgBoss;
+
+/** The schema pg-boss keeps its tables in. */
+export const QUEUE_SCHEMA = 'pgboss';
 
 /** How often each process moves committed outbox rows into pg-boss and polls for work. */
 const RELAY_MS = 500;
@@ -16,24 +20,19 @@ export interface JobQueue {
 }
 
 /**
- * The PostgreSQL-backed job queue of one server process (pg-boss 12). Every process that starts
- * it works every defined job; pg-boss hands each job to exactly one of them (row locks with
- * SKIP LOCKED), so a job runs once across processes. Jobs enter through the transactional
- * outbox (job-store.ts) and are relayed here.
- *
- * pg-boss ships as an ES module only: it is loaded with require() at start (Node ≥ 20.19
- * loads ES modules that way), so code that merely imports this file — the API tests under
- * Jest, which cannot load ES modules — never touches it.
+ * The PostgreSQL-backed job queue of one server process (pg-boss 10, the line that supports the
+ * Node 20 the project runs on). Every process that starts it works every defined job; pg-boss
+ * hands each job to exactly one of them (row locks with SKIP LOCKED), so a job runs once across
+ * processes. Jobs enter through the transactional outbox (job-store.ts) and are relayed here.
  */
 export async function startJobQueue(ds: DataSource, databaseUrl: string, opts: { pollSeconds?: number } = {}): Promise<JobQueue> {
-  // eslint-disable-next-line @typescript-eslint/no-require-imports
-  const { PgBoss } = require('pg-boss') as PgBossModule;
-  const boss: Boss = new PgBoss({ connectionString: databaseUrl, schema: 'pgboss', max: 4 });
+  await retireNewerQueueSchema(ds, QUEUE_SCHEMA);
+  const boss: Boss = new PgBoss({ connectionString: databaseUrl, schema: QUEUE_SCHEMA, max: 4 });
   boss.on('error', (err: Error) => console.error('[jobs] queue error:', err.message));
   await boss.start();
   const defs = jobDefinitions();
   for (const def of defs) {
-    if (!(await boss.getQueue(def.name))) await boss.createQueue(def.name, { retryLimit: def.retryLimit ?? 2, expireInSeconds: 3600 });
+    if (!(await boss.getQueue(def.name))) await boss.createQueue(def.name, { name: def.name, retryLimit: def.retryLimit ?? 2, expireInSeconds: 3600 });
     await boss.work(def.name, { batchSize: 1, pollingIntervalSeconds: opts.pollSeconds ?? 0.5 }, async ([job]) => run(ds, def, job.id, job.data as Record<string, unknown>));
     if (def.schedule) await boss.schedule(def.name, def.schedule);
   }

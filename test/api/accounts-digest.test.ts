@@ -46,7 +46,7 @@ describe('daily digest', () => {
     expect(asked.status).toBe(202);
     const [run] = await t.ds.query(`SELECT id, kind, requested_by FROM digest_run WHERE job_id = $1`, [asked.body.jobId]);
     expect(run).toMatchObject({ kind: 'manual', requested_by: '1a6f0c3e-2d4b-4e8a-9c1f-3b5d7e9f1a02' });
-    // The API tests run no job workers (pg-boss cannot load under Jest): run the job's handler here.
+    // The API tests run no job workers: run the job's handler here.
     const result = await runDigest(t.ds, createMailer(loadMailConfig()), run.id);
     const mail = await smtp.waitFor(LEAD);
 
