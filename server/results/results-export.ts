@@ -116,7 +116,7 @@ export async function runResultsExport(ds: DataSource, req: ExportRequest, hooks
   await zip.add('provenance.json', JSON.stringify(provenance, null, 2));
   await zip.add('metadata.eml.xml', emlDocument(provenance, cov, rowCounts, bytes, methods, { seasonal_totals: { fromDay: seasonal.fromDay, toDay: seasonal.toDay } }));
   await zip.add('datapackage.json', JSON.stringify(dataPackage(provenance, rowCounts, bytes), null, 2));
-  const file = zip.finish();
+  const file = await zip.finish();
   const sha256 = createHash('sha256').update(file).digest('hex');
   const fileName = `fluxwalk-results-${site.name.toLowerCase().replace(/[^a-z0-9]+/g, '-')}-${now.toISOString().slice(0, 10)}.zip`;
   await ds.query(`INSERT INTO result_export (id, site_id, created_by, file_name, size_bytes, sha256, bytes) VALUES ($1, $2, $3, $4, $5, $6, $7)

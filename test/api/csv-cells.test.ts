@@ -3,7 +3,7 @@ import { join, relative } from 'node:path';
 import Papa from 'papaparse';
 import { runResultsExport } from '../../server/results/results-export';
 import { TABLES, tablePath } from '../../server/results/export-schema';
-import { readZip } from '../../server/results/zip-archive';
+import { readZip } from '../support/read-zip';
 import { CURRENT_CAMPAIGN_ID } from '../../server/seed/demo-current';
 import { DEMO_SITE_ID } from '../support/fixtures';
 import { isolatedDatabase } from '../support/isolated-database';
@@ -58,7 +58,7 @@ describe('CSV cells never start a formula', () => {
     const jobId = '7d0c0f4e-4c1a-4b7e-9b7e-0c5f7a1d2e30';
     const out = await runResultsExport(t.ds, { siteId: DEMO_SITE_ID, selection: 'not-rejected', model: 'q10', userId: lab.id, license: 'CC0-1.0' }, { jobId });
     const [{ bytes }] = await t.ds.query(`SELECT bytes FROM result_export WHERE id = $1`, [out.exportId]);
-    const files = readZip(bytes as Buffer);
+    const files = await readZip(bytes as Buffer);
     const live: string[] = [];
     let hostileSeen = 0;
     for (const table of TABLES) {

@@ -6,7 +6,7 @@ import Ajv from 'ajv';
 import addFormats from 'ajv-formats';
 import Papa from 'papaparse';
 import { runResultsExport, type ExportRequest } from '../../server/results/results-export';
-import { readZip } from '../../server/results/zip-archive';
+import { readZip } from '../support/read-zip';
 import { DEMO_SITE_ID } from '../support/fixtures';
 import { checkTable, type Row, type TableResource } from '../support/table-schema-check';
 import { demoEmail, signIn, startTestApp, type Session, type TestApp } from '../support/test-app';
@@ -56,7 +56,7 @@ describe('data package against the official standards: EML 2.2.0 XSD, Frictionle
         [probe.id, JSON.stringify(probe.soil_temps), probe.moisture_raw, probe.moisture_kind]);
     }
     const [f] = await t.ds.query(`SELECT bytes FROM result_export WHERE id = $1`, [asked.body.jobId]);
-    files = readZip(f.bytes as Buffer);
+    files = await readZip(f.bytes as Buffer);
     pkg = JSON.parse(files.get('datapackage.json')!.toString('utf8'));
     dir = mkdtempSync(join(tmpdir(), 'fluxwalk-package-'));
     writeFileSync(join(dir, 'metadata.eml.xml'), files.get('metadata.eml.xml')!);

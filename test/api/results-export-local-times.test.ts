@@ -1,7 +1,7 @@
 import Papa from 'papaparse';
 import { runResultsExport } from '../../server/results/results-export';
 import { tablePath, TABLES } from '../../server/results/export-schema';
-import { readZip } from '../../server/results/zip-archive';
+import { readZip } from '../support/read-zip';
 import { DEMO_SITE_ID } from '../support/fixtures';
 import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
 
@@ -28,7 +28,7 @@ describe('results export: local-time columns', () => {
     const out = await runResultsExport(t.ds, { siteId: DEMO_SITE_ID, selection: 'not-rejected', model: 'q10', userId: lab.id, license: 'CC0-1.0' },
       { jobId: '0b6d7e1a-2f4c-4d8e-9a1b-3c5d7e9f1a2b' });
     const [{ bytes }] = await t.ds.query(`SELECT bytes FROM result_export WHERE id = $1`, [out.exportId]);
-    files = readZip(bytes as Buffer);
+    files = await readZip(bytes as Buffer);
   });
   afterAll(() => t.close());
 

@@ -1,7 +1,7 @@
 import Papa from 'papaparse';
 import { reportProgress } from '../../server/jobs/job-store';
 import { runResultsExport, type ExportRequest } from '../../server/results/results-export';
-import { readZip } from '../../server/results/zip-archive';
+import { readZip } from '../support/read-zip';
 import { DEMO_SITE_ID } from '../support/fixtures';
 import { demoEmail, signIn, startTestApp, type Session, type TestApp } from '../support/test-app';
 import { handTreatmentMeans, type HandRow } from './results-hand-calculation';
@@ -79,7 +79,7 @@ describe('Bench results export: data package, EML, provenance, re-import', () =>
     });
     expect(file.status).toBe(200);
     expect(file.headers['content-type']).toBe('application/zip');
-    files = readZip(file.body as Buffer);
+    files = await readZip(file.body as Buffer);
     pkg = JSON.parse(files.get('datapackage.json')!.toString('utf8'));
     for (const r of pkg.resources.filter((x: any) => x.format === 'csv')) {
       const parsed = Papa.parse<Row>(files.get(r.path)!.toString('utf8'), { header: true, skipEmptyLines: true });

@@ -1,6 +1,6 @@
 /// <reference lib="dom" />
 import { readFileSync } from 'node:fs';
-import { readZip } from '../../server/results/zip-archive';
+import { readZip } from '../support/read-zip';
 import { Page } from 'playwright-core';
 import { seriousAccessibilityProblems, signInAs } from './support/app-actions';
 import { RunningServer, startAppServer } from './support/app-server';
@@ -83,7 +83,7 @@ describe('Bench results in Chromium', () => {
       await noSeriousProblems(page, 'Results: data package');
       const [download] = await Promise.all([page.waitForEvent('download'), link.click()]);
       expect(download.suggestedFilename()).toMatch(/^fluxwalk-results-.*\.zip$/);
-      const files = readZip(readFileSync((await download.path())!));
+      const files = await readZip(readFileSync((await download.path())!));
       const pkg = JSON.parse(files.get('datapackage.json')!.toString('utf8'));
       expect(pkg['fluxwalk:provenance'].generatedBy.email).toBe('lab@fluxwalk.example');
       expect(files.get('data/closures.csv')!.toString('utf8').split('\n')[0]).toMatch(/^closure_id,visit_id,collar_id,/);
