@@ -18,7 +18,7 @@
  * curve_fit wherever curve_fit converges (checked against a committed scipy fixture).
  */
 
-/** The optimum u = p3·τmax must lie strictly inside this interval (issue contract). */
+/** The optimum u = p3·τmax must lie strictly inside this interval; an optimum on or past a bound is reported as such, not as a fit. */
 export const EXP_U_MIN = -40;
 export const EXP_U_MAX = 10;
 /** The search may wander a bit beyond, so that an optimum at or past the bound is recognised. */
