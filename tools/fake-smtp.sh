@@ -6,7 +6,7 @@ if [ -z "${SMTP_HOST:-}" ]; then
   fake_smtp_web=${FAKE_SMTP_WEB_PORT:-8025}
   fake_smtp_ready="$DATA_DIR/fake-smtp.$$.ready"
   rm -f "$fake_smtp_ready"
-  node "$ROOT/dist/server/tools/fake-smtp.js" --smtp-port "$fake_smtp_port" --web-port "$fake_smtp_web" \
+  node "$ROOT/dist/tools/tools/fake-smtp.js" --smtp-port "$fake_smtp_port" --web-port "$fake_smtp_web" \
     --parent $$ --ready-file "$fake_smtp_ready" &
   for _ in $(seq 1 50); do [ -s "$fake_smtp_ready" ] && break; sleep 0.1; done
   if [ -s "$fake_smtp_ready" ]; then

@@ -34,7 +34,7 @@ node dist/server/server/seed/seed-main.js
 if [ -z "${S3_ENDPOINT:-}" ]; then
   export FAKE_S3_PORT=${FAKE_S3_PORT:-4569} S3_BUCKET=fluxwalk S3_ACCESS_KEY=S3RVER S3_SECRET_KEY=S3RVER
   export S3_ENDPOINT="http://127.0.0.1:$FAKE_S3_PORT"
-  node dist/server/tools/fake-s3/fake-s3-main.js &
+  node dist/tools/tools/fake-s3/fake-s3-main.js &
   s3_pid=$!
 fi
 say "open http://127.0.0.1:$PORT (demo accounts in README.md); Ctrl-C stops"

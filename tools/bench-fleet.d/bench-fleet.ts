@@ -139,7 +139,7 @@ async function prove(db: Client, run: FleetRun, states: (DeviceState | null)[], 
   return failed;
 }
 
-const MAIN = path.resolve(__dirname, '../../server/main.js');
+const MAIN = path.resolve(__dirname, '../../../server/server/main.js');
 
 /** Starts the compiled server on a free loopback port; resolves with its base URL. */
 function startServerProcess(databaseUrl: string): Promise<{ base: string; child: ChildProcess }> {

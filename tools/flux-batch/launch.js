@@ -1,6 +1,6 @@
 #!/usr/bin/env node
 // Launcher for `npm run flux:batch`: runs the compiled CLI, compiling it first (TypeScript API,
-// same output layout as `npm run build:server`) when the compiled file is missing or older than
+// same output layout as `npm run build:tools`) when the compiled file is missing or older than
 // any file the compiler read for it. That list is written beside the output at each compile, so
 // an import from any folder counts, not only the folders the entry sits in. Plain JS so it needs
 // no build itself.
@@ -9,7 +9,7 @@ const fs = require('fs');
 const path = require('path');
 
 const root = path.resolve(__dirname, '..', '..');
-const outDir = path.join(root, 'dist', 'server');
+const outDir = path.join(root, 'dist', 'tools');
 
 const configPath = path.join(root, 'server', 'tsconfig.json');
 const manifestOf = (entryJs) => `${entryJs}.sources.json`;
