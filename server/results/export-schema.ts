@@ -215,7 +215,6 @@ export const TABLES: TableDef[] = [
     ] },
 ];
 
-export const tableDef = (name: string) => TABLES.find((t) => t.name === name)!;
 export const tablePath = (name: string) => `data/${name}.csv`;
 
 /** The tables with the site's zone named in every local-time field's description (CSV headers, datapackage.json, EML). */

@@ -21,14 +21,6 @@ export function sd(xs: readonly number[]): number {
   return Math.sqrt(ss / (xs.length - 1));
 }
 
-/** Linear-interpolated quantile of sorted values (type 7, the R default). */
-export function quantileSorted(sorted: readonly number[], p: number): number {
-  const h = (sorted.length - 1) * p;
-  const lo = Math.floor(h);
-  const hi = Math.ceil(h);
-  return sorted[lo] + (h - lo) * (sorted[hi] - sorted[lo]);
-}
-
 /**
  * 95 % Student t interval of a mean over independent replicates: mean ± t(0.975, n − 1)·s/√n
  * (Student 1908, Biometrika 6:1–25). Exact for normally distributed replicates, so its coverage holds

@@ -15,8 +15,6 @@ import { AppError, badRequest } from '../core/errors';
 import { ChangeBuffer, writeRecord } from '../records/record-writer';
 
 export const TEMPERATURE_LOG_MODES = ['replace', 'append'] as const;
-export type TemperatureLogMode = (typeof TEMPERATURE_LOG_MODES)[number];
-
 export const temperatureLogImportSchema = z.object({
   siteId: z.string().uuid(),
   /** One plot (older callers) or several: a logger in one spot may stand for neighbouring plots. */

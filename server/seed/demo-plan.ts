@@ -29,6 +29,5 @@ export function demoUserId(role: DemoRole): string {
 
 /** ISO-8601 UTC with milliseconds, as the wire carries times. */
 export const iso = (ms: number) => new Date(ms).toISOString();
-export const isoDay = (ms: number) => new Date(ms).toISOString().slice(0, 10);
 export const MINUTE_MS = 60_000;
 export const DAY_MS = 86_400_000;

@@ -33,5 +33,3 @@ export function probeVwcPct(
   const theta = calibration.kind === 'topp' ? toppVwc(p.moistureRaw) : polynomialVwc(p.moistureRaw, calibration.coefficients);
   return Math.max(0, theta) * 100;
 }
-
-export type OffsetSetInput = z.infer<typeof offsetSetFields>;

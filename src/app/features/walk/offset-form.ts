@@ -66,6 +66,8 @@ export class OffsetForm {
 
   protected readonly positions = new FormArray<FormControl<string>>(Array.from({ length: DEFAULT_POSITIONS }, () => new FormControl('', { nonNullable: true })));
   private readonly texts = toSignal(this.positions.valueChanges, { initialValue: this.positions.getRawValue() });
+  /** The size of one ± step at a position. */
+  protected readonly stepCm = STEP_CM;
   protected readonly problem = signal('');
   /** The crew asked to change a saved set: the boxes stay open. */
   protected readonly editing = signal(false);
