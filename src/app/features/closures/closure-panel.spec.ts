@@ -10,7 +10,7 @@ import { provideRouter } from '@angular/router';
 import { MatButtonHarness } from '@angular/material/button/testing';
 import type { FluxDb, LocalRecord } from '../../core/db/db-schema';
 import { DeviceDb } from '../../core/db/device-db';
-import { WalkContext } from '../walk/walk-context';
+import { WalkContext } from '../field-day/walk-context';
 import { ClosureCard } from './closure-card';
 import { ClosurePanel } from './closure-panel';
 import { SpotChart, type SpotChartInput } from './spot-chart';

@@ -17,7 +17,7 @@ import { guessLayout, suggestMapping, type LoggerMapping } from '../../../../sha
 import type { FluxDb, LocalRecord } from '../../core/db/db-schema';
 import { DeviceDb } from '../../core/db/device-db';
 import { until } from '../../core/db/testing/until';
-import { WalkContext } from '../walk/walk-context';
+import { WalkContext } from '../field-day/walk-context';
 import { RoundImport } from './round-import';
 
 const SITE = '11111111-1111-4111-8111-111111111111';

@@ -7,7 +7,7 @@ import { guessLayout, mappingFits, matchPiecesToVisits, plainExportMapping, save
 import { counted } from '../../../../shared/text/counted';
 import { DeviceDb } from '../../core/db/device-db';
 import { DeviceMemory } from '../../core/device/device-memory';
-import { WalkContext } from '../walk/walk-context';
+import { WalkContext } from '../field-day/walk-context';
 import {
   assignmentProblems, assignmentValue, cutBy, dayClockCheck, defaultAssignments, firstCut, loadRoundVisits, mappingPresetKey, parseAssignment, visitSlots,
   type Assignment, type RoundVisit,

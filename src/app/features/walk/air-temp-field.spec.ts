@@ -15,7 +15,7 @@ import { DeviceDb } from '../../core/db/device-db';
 import { until } from '../../core/db/testing/until';
 import { parseAirTemp } from './air-temp-field';
 import { VisitPage } from './visit-page';
-import { WalkContext } from './walk-context';
+import { WalkContext } from '../field-day/walk-context';
 
 const SITE = '11111111-1111-4111-8111-111111111111';
 const PLOT = '22222222-2222-4222-8222-222222222222';

@@ -14,7 +14,7 @@ import type { FluxDb } from '../../core/db/db-schema';
 import { DeviceDb } from '../../core/db/device-db';
 import { SkipForm } from './skip-form';
 import { VisitPage } from './visit-page';
-import { WalkContext } from './walk-context';
+import { WalkContext } from '../field-day/walk-context';
 import { until } from '../../core/db/testing/until';
 
 const SITE = '11111111-1111-4111-8111-111111111111';

@@ -7,7 +7,7 @@ import { ClosureWrites } from '../closures/closure-writes';
 import { signedInDevice, TEST_SITE } from '../../core/db/testing/signed-in-device';
 import { until } from '../../core/db/testing/until';
 import { StartOfDay } from './start-of-day';
-import { WalkContext } from './walk-context';
+import { WalkContext } from '../field-day/walk-context';
 
 const TALL_OLD = 'aaaaaaaa-0000-4000-8000-000000000001';
 const TALL = 'aaaaaaaa-0000-4000-8000-000000000002';

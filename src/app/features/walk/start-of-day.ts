@@ -17,7 +17,7 @@ import { CalibrationCard } from './calibration-card';
 import { LeakCheck, type LeakResult } from './leak-check';
 import { parseCm } from './offset-form';
 import { CHECK_ITEMS, clockOffsetS, type CheckKind } from './start-of-day-items';
-import { WalkContext } from './walk-context';
+import { WalkContext } from '../field-day/walk-context';
 import { localDayStart, todayChecks, walkOptions } from './walk-store';
 
 /**

@@ -17,10 +17,10 @@ import { nextDueIndex } from './route-order';
 import { routeView } from './walk-store';
 import { ProbeForm, type ProbeReadingInput } from './probe-form';
 import { SkipForm } from './skip-form';
-import { WalkContext } from './walk-context';
+import { WalkContext } from '../field-day/walk-context';
 import { visitView } from './visit-store';
 import { InvalidRecordError } from '../../core/db/validated';
-import { VisitWrites, type VisitConditions, type VisitTarget } from './visit-writes';
+import { VisitWrites, type VisitConditions, type VisitTarget } from '../field-day/visit-writes';
 
 const CONDITIONS: { key: keyof Omit<VisitConditions, 'other' | 'airTempC'>; label: string }[] = [
   { key: 'rainNow', label: 'Raining now' },

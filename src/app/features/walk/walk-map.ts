@@ -8,7 +8,7 @@ import { escapeHtml, mapText } from '../../core/map/map-text';
 import { Gps } from './gps';
 import { STATE_COLOURS, STATE_GLYPHS, STATE_LEGEND, STATE_WORDS } from '../../core/map/collar-states';
 import { LABEL_H, MARKER_PX, estimateLabelWidth, placeLabels } from './map-labels';
-import { WalkContext } from './walk-context';
+import { WalkContext } from '../field-day/walk-context';
 import { routeView, walkOptions } from './walk-store';
 
 /**

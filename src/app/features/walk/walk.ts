@@ -16,7 +16,7 @@ import { QrScan } from './qr-scan';
 import { STATE_GLYPHS, STATE_WORDS } from '../../core/map/collar-states';
 import { nextDueIndex } from './route-order';
 import { CHECK_ITEMS } from './start-of-day-items';
-import { WalkContext } from './walk-context';
+import { WalkContext } from '../field-day/walk-context';
 import { localDayStart, routeView, todayChecks, walkOptions } from './walk-store';
 
 /**
