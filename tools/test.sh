@@ -8,6 +8,9 @@ cd "$ROOT"
 
 export PGPORT_TEST=${PGPORT_TEST:-54339}
 ensure_node_modules
+# Lint before anything else: a lint error fails the run in seconds, not after the browser tests.
+say "linting…"
+npm run --silent lint || die "lint found problems (npm run lint)"
 ensure_postgres_installed
 pg_up pg-test "$PGPORT_TEST" fluxwalk_e2e_test
 export E2E_DATABASE_URL=$DATABASE_URL

@@ -1,7 +1,6 @@
 import type { SessionUser } from '../../shared/auth/roles';
 
 declare global {
-  // eslint-disable-next-line @typescript-eslint/no-namespace
   namespace Express {
     // passport puts the deserialised user here.
     // eslint-disable-next-line @typescript-eslint/no-empty-object-type

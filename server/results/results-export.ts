@@ -1,7 +1,7 @@
 import { createHash } from 'node:crypto';
 import type { DataSource } from 'typeorm';
 import { engineVersion, QC_FLAGS, QC_THRESHOLDS, RESPONSE_LIMITS, SELECTION_MARGIN } from '../../shared/flux';
-import { dataLicence, type DataLicence } from '../../shared/results/data-licences';
+import { dataLicence } from '../../shared/results/data-licences';
 import { PROBE_FLAGS, PROBE_RANGES } from '../../shared/model/probe-plausibility';
 import { defineJob } from '../jobs/job-registry';
 import { csvLine, type CsvValue } from '../../shared/csv/csv-cell';

@@ -1,7 +1,7 @@
 import { collarAreaCm2 as roundCollarAreaCm2, meanOffsetCm } from '../flux/chamber-volume';
 import { polynomialVwc, toppVwc } from '../flux/soil-moisture';
 import type { z } from 'zod';
-import type { collarFields, offsetSetFields, probeReadingFields } from './field-records';
+import type { collarFields, probeReadingFields } from './field-records';
 import type { moistureCalibrationSchema } from './site-layout';
 
 /** Soil area inside a collar, cm²: π d²/4 for round collars, a·b for rectangular ones (plain geometry). */

@@ -51,7 +51,7 @@ export const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 export async function deviceSession(addr: FleetAddress, email: string, password = 'fluxwalk-demo') {
   const jar = new Map<string, string>();
   let token = '';
-  const call = async (method: string, path: string, body?: unknown): Promise<{ status: number; json: any }> => { // eslint-disable-line @typescript-eslint/no-explicit-any
+  const call = async (method: string, path: string, body?: unknown): Promise<{ status: number; json: any }> => {
     const headers: Record<string, string> = { cookie: [...jar].map(([k, v]) => `${k}=${v}`).join('; '), accept: 'application/json' };
     if (body !== undefined) headers['content-type'] = 'application/json';
     if (token && method !== 'GET') headers['x-csrf-token'] = token;

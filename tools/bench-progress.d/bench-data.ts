@@ -61,7 +61,7 @@ export async function generateBenchData(ds: DataSource, size: BenchSize = DEFAUL
   }
 }
 
-type Query = (sql: string, params?: unknown[]) => Promise<any>; // eslint-disable-line @typescript-eslint/no-explicit-any
+type Query = (sql: string, params?: unknown[]) => Promise<any>;
 
 async function fill(q: Query, n: number, last: number, collarsPerRoute: number): Promise<string> {
   await q(`INSERT INTO site (id, name, timezone, elevation_m) VALUES ($1, 'Benchmark site', 'Europe/Berlin', 420)`, [BENCH_SITE_ID]);

@@ -7,7 +7,6 @@ import { AuthStore } from './auth-store';
 import { SessionExpiry } from './session-expiry';
 import { rememberOnDevice, testUser } from './testing/demo-sessions';
 
-const tick = () => new Promise((r) => setTimeout(r, 0));
 
 function store(): AuthStore {
   TestBed.configureTestingModule({

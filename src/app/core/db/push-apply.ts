@@ -79,7 +79,7 @@ export async function applyPushResults(db: FluxDb, sent: OutboxOp[], results: Pu
       await db.outbox.delete(op.seq!);
       const later = await db.outbox.where('[entity+id]').equals([op.entity, op.id]).sortBy('seq');
       const local = await table.get(op.id);
-      let server: LocalRecord | null = null;
+      let server: LocalRecord | null;
       if (status === 'applied' || status === 'merged' || status === 'duplicate') {
         tally.done++;
         await db.acked.put({ opId: op.opId, at });

@@ -1,6 +1,11 @@
 import { HttpClient, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
+import type { RecordMeta } from '../../../../shared/model/common';
+import type { EntityFields } from '../../../../shared/model/entities';
+
+/** A closure as the server stores it: the shared schema's fields, the fields only the server derives, and the record's metadata. */
+type StoredClosure = Omit<EntityFields<'closure'>, 'series' | 'results'> & RecordMeta & { flags: string[]; fluxUmolM2S: number | null };
 
 /** The queue's filters as the Bench sends them (query string of GET /api/bench/queue, body of bulk accept). */
 export interface QueueFilter {
@@ -52,7 +57,7 @@ export interface FitResult {
 }
 
 export interface ClosureDetail {
-  closure: Record<string, any> & { id: string; rev: number; series: Record<string, (number | null)[] | null>;
+  closure: StoredClosure & { series: Record<string, (number | null)[] | null>;
     results: { raw: FitResult; review: FitResult | null; volumeCm3: number | null; areaCm2: number | null; meanOffsetCm: number | null;
       ambientPpm: number | null; pressureIsDefault: boolean; slopeBasis?: 'closure' | 'settle_end'; recomputedSinceReview?: RecomputedMark;
       /** Absent on results stored before several chamber systems and the air-temperature order. */
@@ -93,8 +98,8 @@ export class BenchApi {
     return firstValueFrom(this.http.get<ClosureDetail>(`/api/bench/closures/${id}`));
   }
 
-  decide(id: string, rev: number, fields: Record<string, unknown>): Promise<{ record: Record<string, any> }> {
-    return firstValueFrom(this.http.patch<{ record: Record<string, any> }>(`/api/closures/${id}`, { rev, ...fields }));
+  decide(id: string, rev: number, fields: Record<string, unknown>): Promise<{ record: StoredClosure }> {
+    return firstValueFrom(this.http.patch<{ record: StoredClosure }>(`/api/closures/${id}`, { rev, ...fields }));
   }
 
   bulkAccept(filter: QueueFilter): Promise<{ accepted: number; skipped: { id: string; reason: string }[] }> {

@@ -77,8 +77,8 @@ export class Bench {
     try {
       const { record } = await this.api.decide(det.closure.id, det.closure.rev, d.fields);
       const i = this.index();
-      this.items.update((list) => list.map((x) => (x.id === record['id'] ? { ...x, rev: record['rev'], reviewState: record['reviewState'],
-        fluxUmolM2S: record['fluxUmolM2S'], flags: record['flags'], recomputedSinceReview: null,
+      this.items.update((list) => list.map((x) => (x.id === record.id ? { ...x, rev: record.rev, reviewState: record.reviewState,
+        fluxUmolM2S: record.fluxUmolM2S, flags: record.flags, recomputedSinceReview: null,
         changedSinceReview: d.fields['reviewState'] ? null : x.changedSinceReview } : x)));
       this.message.set(d.fields['reviewState'] ? `Closure ${d.fields['reviewState']}` : 'Recomputed with the new settings');
       this.problem.set('');

@@ -59,9 +59,9 @@ export class ClosureSystem {
   readonly decide = output<Decision>();
 
   protected readonly c = computed(() => this.detail().closure);
-  protected readonly flags = computed(() => (this.c()['flags'] as string[] | null | undefined) ?? []);
+  protected readonly flags = computed(() => this.c().flags ?? []);
   protected readonly systems = computed(() => this.detail().systems ?? null);
-  protected readonly profileId = linkedSignal<string | null>(() => (this.c()['profileId'] as string | null) ?? null);
+  protected readonly profileId = linkedSignal<string | null>(() => this.c().profileId ?? null);
   protected readonly analyzerId = linkedSignal<string | null>(() => (this.c()['analyzerId'] as string | null) ?? null);
   protected readonly changed = computed(() => this.profileId() !== (this.c()['profileId'] ?? null) || this.analyzerId() !== (this.c()['analyzerId'] ?? null));
   protected readonly analyzerName = computed(() => {

@@ -1,11 +1,11 @@
-import { Component, input } from '@angular/core';
+import { ChangeDetectionStrategy, Component, input } from '@angular/core';
 import { TestBed } from '@angular/core/testing';
 import type { ClosureDetail, FitResult, QueueItem } from './bench-api';
 import { ClosureChart } from './closure-chart';
 import { ClosureView } from './closure-view';
 
 /** jsdom has no canvas: the chart is replaced by an empty element with the same inputs. */
-@Component({ selector: 'fw-closure-chart', template: '' })
+@Component({ selector: 'fw-closure-chart', template: '', changeDetection: ChangeDetectionStrategy.OnPush })
 class NoChart {
   readonly data = input<unknown>();
   readonly label = input('');
@@ -22,7 +22,7 @@ function detail(context: Partial<QueueItem>, history: ClosureDetail['history'] =
     calibrationAgeDays: null, calibrationDriftPpm: null, leakFailed: false, ...context } as QueueItem;
   return {
     closure: { id: 'c1', rev: 3, startedAt: ctx.startedAt, settleS: 30, reviewState: 'unreviewed', series: { tS: [0, 1, 2], co2Ppm: [420, 421, 422] },
-      results: { raw: fit, review: null, volumeCm3: 4000, areaCm2: 314, meanOffsetCm: 2, ambientPpm: null, pressureIsDefault: false } },
+      results: { raw: fit, review: null, volumeCm3: 4000, areaCm2: 314, meanOffsetCm: 2, ambientPpm: null, pressureIsDefault: false } } as ClosureDetail['closure'],
     context: ctx, offsetSet: null, profile: null, collarHistory: [], replicates: [], replicateSpread: { n: 1, mean: 1.2, sd: null, cvPct: null }, history,
   };
 }

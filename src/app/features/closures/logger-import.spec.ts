@@ -98,7 +98,7 @@ describe('Logger import, mapping step', () => {
     expect(first.text('.problems summary')).toBe(`${dataLines} lines could not be read and were left out`);
     TestBed.resetTestingModule();
 
-    const { text, choose, shown, pick, loader } = await render();
+    const { text, choose, pick, loader } = await render();
     await pick(FILE);
     await choose('Format', 'DD.MM.YYYY HH:mm:ss');
     await choose('Pressure unit', 'hPa');

@@ -17,11 +17,12 @@ const OP = { opId: 'op-1', entity: 'collar', id: 'c-1', baseRev: null, op: 'upse
 const REMOVE = /Sign out and remove this device's data/;
 
 async function menuOnDevice(queued: number) {
-  let db!: FluxDb;
-  const engine = { syncNow: jest.fn(async () => { await db.outbox.clear(); }), pending: () => 0, rejected: () => 0, conflicts: () => 0 };
+  // The fake engine empties the outbox of the device it is given to, which exists only after sign-in.
+  const signedIn: { db?: FluxDb } = {};
+  const engine = { syncNow: jest.fn(async () => { await signedIn.db!.outbox.clear(); }), pending: () => 0, rejected: () => 0, conflicts: () => 0 };
   const backup = { save: jest.fn(async () => 'fluxwalk-backup-crew.json') };
   const device = await signedInDevice([provideRouter([]), { provide: SyncEngine, useValue: engine }, { provide: BackupDownload, useValue: backup }]);
-  db = device.db;
+  const db = (signedIn.db = device.db);
   for (let i = 0; i < queued; i++) await db.outbox.add({ ...OP, opId: `op-${i}`, id: `c-${i}` });
   localStorage.setItem(`fw.board.${device.userId}.progress.c1.all`, '{}');
   const navigate = jest.spyOn(TestBed.inject(Router), 'navigateByUrl').mockResolvedValue(true);
