@@ -4,12 +4,11 @@ import type { Role } from '../../shared/auth/roles';
 import { notFound } from '../core/errors';
 import type { RouteRegistry } from '../core/route-registry';
 import { parse } from '../core/validate';
-import { onRecordWritten } from '../records/after-write';
 import { siteForActor } from '../setup/site-access';
 import { bulkAccept } from './bulk-accept';
 import { closureDetail } from './closure-detail';
-import { closureHistory, recordReviewDecision } from './closure-history';
-import { defineRecomputeJob, requestRecompute, requestSiteRecompute } from './recompute-triggers';
+import { closureHistory } from './closure-history';
+import { defineRecomputeJob, requestSiteRecompute } from './recompute-triggers';
 import { queueFilterSchema, queueItem, reviewQueue } from './review-queue';
 
 /** The Bench is the lab's; leads and admins may look (decisions stay the lab's: the writer enforces it). */
@@ -24,8 +23,6 @@ const recomputeBody = z.object({ siteId: z.string().uuid('siteId must be a UUID'
  * decision and a recompute job whenever an offset set, a profile version or a site default changes.
  */
 export function registerBenchRoutes(r: RouteRegistry, ds: DataSource): void {
-  onRecordWritten(recordReviewDecision);
-  onRecordWritten(requestRecompute);
   defineRecomputeJob();
 
   r.add('get', '/api/bench/queue', BENCH_READERS, (req) => reviewQueue(ds, req.user!, req.query));

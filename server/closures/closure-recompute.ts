@@ -10,6 +10,11 @@ export interface RecomputeScope {
   collarId?: string | null;
   /** Local days, inclusive; a closure outside them is not looked at. */
   fromDay?: string | null;
+  /** Instants (ISO), inclusive: closures started between them, when a write affects only a stretch of time. */
+  fromAt?: string | null;
+  toAt?: string | null;
+  /** Closures carrying this flag are in scope whatever their day (e.g. a volume taken from a later offset set). */
+  orFlagged?: string | null;
   reason: string;
 }
 
@@ -35,18 +40,31 @@ const COLUMNS = `c.id, c.rev, c.site_id, c.collar_id, c.analyzer_id, c.profile_i
  * A reviewed closure keeps its decision; when its flux moves, `results.recomputedSinceReview`
  * keeps the flux it had when it was reviewed beside the new one, and the history says why.
  */
+/** The closures of a scope: the site's live closures, of one collar and from a site-local day on when given. */
+const SCOPE_WHERE = `c.site_id = $1 AND NOT c.deleted AND ($2::uuid IS NULL OR c.collar_id = $2)
+    AND ((($3::date IS NULL OR (c.started_at AT TIME ZONE s.timezone)::date >= $3::date)
+      AND ($4::timestamptz IS NULL OR c.started_at >= $4) AND ($5::timestamptz IS NULL OR c.started_at <= $5))
+      OR ($6::text IS NOT NULL AND $6 = ANY(c.flags)))`;
+const scopeArgs = (scope: RecomputeScope) =>
+  [scope.siteId, scope.collarId ?? null, scope.fromDay ?? null, scope.fromAt ?? null, scope.toAt ?? null, scope.orFlagged ?? null];
+
+/** Whether any stored closure falls in the scope (a closure written later computes with the inputs of its day itself). */
+export async function scopeHasClosures(db: Pick<DataSource, 'query'>, scope: RecomputeScope): Promise<boolean> {
+  const [row] = await db.query(`SELECT EXISTS (SELECT 1 FROM closure c JOIN site s ON s.id = c.site_id WHERE ${SCOPE_WHERE}) AS any`, scopeArgs(scope));
+  return row.any === true;
+}
+
 export async function recomputeClosures(ds: DataSource, scope: RecomputeScope,
   opts: { jobId?: string | null; progress?: (done: number, total: number) => Promise<void> } = {}): Promise<RecomputeOutcome> {
-  const where = `c.site_id = $1 AND NOT c.deleted AND ($2::uuid IS NULL OR c.collar_id = $2)
-    AND ($3::date IS NULL OR (c.started_at AT TIME ZONE s.timezone)::date >= $3::date)`;
-  const args = [scope.siteId, scope.collarId ?? null, scope.fromDay ?? null];
+  const where = SCOPE_WHERE;
+  const args = scopeArgs(scope);
   const [{ n }] = await ds.query(
     `SELECT count(*)::int AS n FROM closure c JOIN site s ON s.id = c.site_id WHERE ${where}`, args);
   const out: RecomputeOutcome = { examined: 0, changed: 0, lockedKept: 0, changedIds: [] };
   const inputs = new ClosureInputs(ds);
   const page = (after: string): Promise<Record<string, unknown>[]> => ds.query(
     `SELECT ${COLUMNS} FROM closure c JOIN site s ON s.id = c.site_id JOIN campaign p ON p.id = c.campaign_id
-      WHERE ${where} AND c.id > $4 ORDER BY c.id LIMIT ${PAGE}`, [...args, after]);
+      WHERE ${where} AND c.id > $7 ORDER BY c.id LIMIT ${PAGE}`, [...args, after]);
   // A pipeline over three connections: while this page is fitted, the next one is read and the
   // previous one written, so PostgreSQL's work and the engine's overlap instead of taking turns.
   let next = page('00000000-0000-0000-0000-000000000000');

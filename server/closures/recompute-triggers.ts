@@ -3,9 +3,9 @@ import { sameValue } from '../records/wire';
 import type { WrittenRecord } from '../records/after-write';
 import { defineJob } from '../jobs/job-registry';
 import { enqueueJob } from '../jobs/job-store';
-import { recomputeClosures, type RecomputeScope } from './closure-recompute';
-import { AMBIENT_MAX_GAP_H } from '../../shared/flux';
 import { localDay } from './closure-inputs';
+import { recomputeClosures, scopeHasClosures, type RecomputeScope } from './closure-recompute';
+import { AMBIENT_MAX_GAP_H } from '../../shared/flux';
 
 export const RECOMPUTE_JOB = 'closure-recompute';
 
@@ -20,15 +20,24 @@ const PROFILE_INPUTS = ['validFrom', 'chamberVolumeCm3', 'loopVolumeCm3', 'footp
  * Which closures a write may have changed the flux of, or null when none: an offset set added,
  * superseding another or removed (that collar's closures); a chamber profile version added, changed
  * or removed (the site's closures from its day on); a site default changed (all the site's closures);
- * an ambient reading (that day's closures of the site, for the start-above-ambient flag).
+ * an ambient reading (the site's closures within reach of it, for the start-above-ambient flag).
  */
 export async function recomputeScopeFor(w: WrittenRecord): Promise<RecomputeScope | null> {
   const a = w.after;
   const siteId = String(a['siteId'] ?? (w.entity === 'site' ? w.id : ''));
   const changedAny = (fields: string[]) => w.action !== 'update' || fields.some((f) => w.before && !sameValue(w.before[f], a[f]));
   switch (w.entity) {
-    case 'offsetSet':
-      return { siteId, collarId: String(a['collarId']), reason: a['supersedesId'] ? 'offset set superseded' : `offset set ${w.action === 'delete' ? 'removed' : 'added'}` };
+    case 'offsetSet': {
+      // A set serves its collar's closures from its own day on, and earlier ones that had no set before
+      // them (they borrowed a later one, flagged offset-after); a superseded set, those of its day too.
+      const [s] = await w.em.query(`SELECT timezone FROM site WHERE id = $1`, [siteId]);
+      const superseded = a['supersedesId']
+        ? (await w.em.query(`SELECT taken_at FROM offset_set WHERE id = $1`, [a['supersedesId']]))[0]?.taken_at ?? null : null;
+      const days = [a['takenAt'], w.before?.['takenAt'], superseded].filter((t) => t != null)
+        .map((t) => localDay(t instanceof Date ? t : new Date(String(t)), s?.timezone ?? 'UTC')).sort();
+      return { siteId, collarId: String(a['collarId']), fromDay: days[0] ?? null, orFlagged: 'offset-after',
+        reason: a['supersedesId'] ? 'offset set superseded' : `offset set ${w.action === 'delete' ? 'removed' : 'added'}` };
+    }
     case 'chamberProfile': {
       if (!changedAny(PROFILE_INPUTS)) return null;
       const days = [a['validFrom'], w.before?.['validFrom']].filter((d): d is string => typeof d === 'string').sort();
@@ -41,10 +50,11 @@ export async function recomputeScopeFor(w: WrittenRecord): Promise<RecomputeScop
       return w.action === 'update' && changedAny(SITE_INPUTS) ? { siteId: w.id, reason: 'site defaults changed' } : null;
     case 'analyzerCheck': {
       if (a['kind'] !== 'ambient' && w.before?.['kind'] !== 'ambient') return null;
-      const [s] = await w.em.query(`SELECT timezone FROM site WHERE id = $1`, [siteId]);
-      // A reading serves closures up to AMBIENT_MAX_GAP_H before it (chamber-system.ts).
-      const from = new Date(Date.parse(String(a['at'])) - AMBIENT_MAX_GAP_H * 3600_000);
-      return { siteId, fromDay: localDay(from, s?.timezone ?? 'UTC'), reason: 'ambient reading recorded' };
+      // A reading serves the closures within AMBIENT_MAX_GAP_H of it (chamber-system.ts); a moved reading, those of its old time too.
+      const times = [a['at'], w.before?.['at']].filter((t): t is string => typeof t === 'string').map((t) => Date.parse(t));
+      const gapMs = AMBIENT_MAX_GAP_H * 3600_000;
+      return { siteId, fromAt: new Date(Math.min(...times) - gapMs).toISOString(), toAt: new Date(Math.max(...times) + gapMs).toISOString(),
+        reason: 'ambient reading recorded' };
     }
     case 'visit':
       // The visit's air temperature stands in for a missing chamber temperature.
@@ -56,12 +66,12 @@ export async function recomputeScopeFor(w: WrittenRecord): Promise<RecomputeScop
   }
 }
 
-/** After-write listener: asks for a recompute job in the same transaction as the write that makes it necessary. */
+/** After-write listener: asks for a recompute job in the same transaction as the write that makes it necessary, when a stored closure is affected. */
 export async function requestRecompute(w: WrittenRecord): Promise<void> {
   const scope = await recomputeScopeFor(w);
-  if (!scope) return;
+  if (!scope || !(await scopeHasClosures(w.em, scope))) return;
   await enqueueJob(w.em, RECOMPUTE_JOB, { ...scope }, {
-    dedupeKey: `${RECOMPUTE_JOB}:${scope.siteId}:${scope.collarId ?? '*'}:${scope.fromDay ?? '*'}`,
+    dedupeKey: [RECOMPUTE_JOB, scope.siteId, scope.collarId, scope.fromDay, scope.fromAt, scope.toAt, scope.orFlagged].map((x) => x ?? '*').join(':'),
     siteId: scope.siteId, createdBy: w.actorId,
   });
 }

@@ -1,6 +1,7 @@
 import type { EntityManager } from 'typeorm';
 import type { EntityName } from '../../shared/model/entities';
 import type { ChangeBuffer } from './change-buffer';
+import { afterWriteListeners } from './write-rules';
 
 /** One applied write, as the listeners see it: inside the writing transaction, after the row changed. */
 export interface WrittenRecord {
@@ -19,17 +20,11 @@ export interface WrittenRecord {
 
 export type AfterWrite = (w: WrittenRecord) => Promise<void>;
 
-const listeners = new Set<AfterWrite>();
-
 /**
- * Features that must follow writes (review history, recompute requests) register here instead
- * of adding special cases to the writer. Listeners run in the writer's transaction, so what
- * they store commits or rolls back with the write. Registering the same function twice is a no-op.
+ * Features that must follow writes (review history, recompute requests) are listed in
+ * write-rules.ts instead of adding special cases to the writer. Listeners run in the writer's
+ * transaction, so what they store commits or rolls back with the write.
  */
-export function onRecordWritten(listener: AfterWrite): void {
-  listeners.add(listener);
-}
-
 export async function notifyWritten(w: WrittenRecord): Promise<void> {
-  for (const l of listeners) await l(w);
+  for (const l of afterWriteListeners()) await l(w);
 }

@@ -1,5 +1,6 @@
 import type { EntityManager } from 'typeorm';
 import type { EntityName } from '../../shared/model/entities';
+import { writeGuardsFor } from './write-rules';
 import type { WriteOutcome } from './write-outcome';
 
 /** A create, edit or delete about to be applied, as a guard sees it (inside the writing transaction). */
@@ -19,19 +20,12 @@ export interface PendingWrite {
 /** Returns a refusal (rejected outcome) or null to let the write through. */
 export type WriteGuard = (w: PendingWrite) => Promise<WriteOutcome | null>;
 
-const guards = new Map<EntityName, WriteGuard[]>();
-
 /**
  * Feature rules that need the database to decide (e.g. a chamber profile used by closures is
- * never edited) register here, so REST, sync and seed writes all obey them.
+ * never edited), listed in write-rules.ts, so REST, sync and seed writes all obey them.
  */
-export function guardWrites(entity: EntityName, guard: WriteGuard): void {
-  const list = guards.get(entity) ?? [];
-  if (!list.includes(guard)) guards.set(entity, [...list, guard]);
-}
-
 export async function checkGuards(w: PendingWrite): Promise<WriteOutcome | null> {
-  for (const g of guards.get(w.entity) ?? []) {
+  for (const g of writeGuardsFor(w.entity)) {
     const refusal = await g(w);
     if (refusal) return refusal;
   }
@@ -40,5 +34,5 @@ export async function checkGuards(w: PendingWrite): Promise<WriteOutcome | null>
 
 /** Whether any guard watches this entity's writes. */
 export function hasGuards(entity: EntityName): boolean {
-  return !!guards.get(entity)?.length;
+  return writeGuardsFor(entity).length > 0;
 }

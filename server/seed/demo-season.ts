@@ -103,9 +103,11 @@ export function buildSeason(layout: DemoLayout): SeasonOutput {
         t += (STOP_MIN + (odd?.redo ? 3.5 : 0) + rng.uniform(-1, 1.5)) * MINUTE_MS;
       }
     });
+    // The lead closes the fieldwork once every collar is done; the lab reviews afterwards (a rejected
+    // closure cannot be measured again weeks later, so it does not reopen the campaign).
+    writes.push(updateOp('campaign', campaignId, 'lead', { locked: true }));
     writes.push(...reviews(c.key, closures, layout));
     allClosures.push(...closures);
-    writes.push(updateOp('campaign', campaignId, 'lead', { locked: true }));
   }
   return { writes, campaignIds, closures: allClosures };
 }

@@ -3,12 +3,10 @@ import type { DataSource } from 'typeorm';
 import { z } from 'zod';
 import type { RouteRegistry } from '../core/route-registry';
 import { parse } from '../core/validate';
-import { guardWrites } from '../records/write-guards';
 import { importRequestSchema } from './collar-csv';
-import { guardCollarTreatment } from './collar-treatment-guard';
 import { commitCollarImport, previewCollarImport } from './collar-import';
 import { blankTagQuerySchema, blankTagSheet, collarTagSheet, tagQuerySchema } from './collar-tags-pdf';
-import { createProfileVersion, guardProfileWrite, newVersionSchema, previewSchema, profileUsage, recomputePreview } from './profile-versions';
+import { createProfileVersion, newVersionSchema, previewSchema, profileUsage, recomputePreview } from './profile-versions';
 
 const siteParam = z.object({ siteId: z.string().uuid('Site ids are UUIDs') });
 const idParam = z.object({ id: z.string().uuid('Chamber profile ids are UUIDs') });
@@ -31,8 +29,6 @@ function sendTagSheet(res: Response, sheet: { pdf: Buffer; count: number; siteNa
  * routes. Profile edits and deletes, and a collar's own treatment, are guarded in the writer, on every path.
  */
 export function registerSetupRoutes(r: RouteRegistry, ds: DataSource, appOrigin: string): void {
-  guardWrites('chamberProfile', guardProfileWrite);
-  guardWrites('collar', guardCollarTreatment);
   r.add('post', '/api/sites/:siteId/collar-import/preview', SITE_KEEPERS, async (req) => {
     const { siteId } = parse(siteParam, req.params);
     return previewCollarImport(ds, req.user!, siteId, parse(importRequestSchema, req.body, 'The import request is not valid'));

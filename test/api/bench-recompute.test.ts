@@ -62,7 +62,8 @@ describe('Recompute when an offset set is superseded', () => {
     // The write asked for a job in its own transaction; run it as the worker would, with the data it stored.
     const [request] = await t.ds.query(`SELECT id, data FROM job_outbox WHERE data->>'collarId' = $1`, [world.collar.id]);
     const scope = request.data as RecomputeScope;
-    expect(scope).toEqual({ siteId: world.site.id, collarId: world.collar.id, reason: 'offset set superseded' });
+    // From the set's own day on, and any closure that borrowed a later set (none here).
+    expect(scope).toEqual({ siteId: world.site.id, collarId: world.collar.id, fromDay: '2026-06-01', orFlagged: 'offset-after', reason: 'offset set superseded' });
     const job = (await lab.get(`/api/jobs/${request.id}`)).body.job;
     expect(job).toMatchObject({ name: 'closure-recompute', state: 'queued', siteId: world.site.id });
 
@@ -106,5 +107,29 @@ describe('Recompute when an offset set is superseded', () => {
     const missing = randomUUID();
     expect((await lab.post('/api/bench/recompute', { siteId: missing })).status).toBe(404);
     expect(await t.ds.query(`SELECT id FROM job_progress WHERE site_id = $1`, [missing])).toEqual([]);
+  });
+
+  it('when an offset set is added after every closure of its collar, then no recompute is asked for; when a closure had borrowed a later set, then one is', async () => {
+    await t.ds.query(`DELETE FROM job_outbox WHERE data->>'collarId' = $1`, [world.collar.id]);
+    const camp = (await lead.post('/api/campaigns', { siteId: world.site.id, name: 'Later sets', startsOn: '2026-08-01', endsOn: '2026-08-30', rounds: 3 })).body.record;
+    const asked = async () => (await t.ds.query(`SELECT data FROM job_outbox WHERE data->>'collarId' = $1`, [world.collar.id])).map((r: { data: RecomputeScope }) => r.data);
+    // Every closure so far is in June and took June's sets: an August set changes none of them.
+    const v1 = await visitOn(camp.id, 1, '2026-08-10');
+    await offsetSet(v1, '2026-08-10', [2.5, 2.5, 2.5, 2.5]);
+    expect(await asked()).toEqual([]);
+    // A closure with no set on or before its day takes the next one (offset-after); a set placed before it changes its volume.
+    const other = (await admin.post('/api/collars', { siteId: world.site.id, plotId: world.collar.plotId, code: `LATE-${Date.now() % 100000}`,
+      shape: 'round', diameterCm: 20, heightCm: 10, installedOn: '2026-01-01' })).body.record;
+    expect(other?.id).toBeDefined();
+    const visit = (await lead.post('/api/visits', { siteId: world.site.id, campaignId: camp.id, round: 2, collarId: other.id, arrivedAt: '2026-08-20T09:00:00Z' })).body.record;
+    const late = await lead.post('/api/offset-sets', { siteId: world.site.id, visitId: visit.id, collarId: other.id, campaignId: camp.id, takenAt: '2026-08-25T09:05:00Z', readingsCm: [3, 3, 3, 3] });
+    expect(late.status).toBe(201);
+    const c = (await lead.post('/api/closures', { id: randomUUID(), siteId: world.site.id, visitId: visit.id, collarId: other.id, campaignId: camp.id,
+      startedAt: '2026-08-20T09:10:00Z', settleS: 20, series: series() })).body.record;
+    expect(c.flags).toContain('offset-after');
+    const early = await lead.post('/api/offset-sets', { siteId: world.site.id, visitId: visit.id, collarId: other.id, campaignId: camp.id, takenAt: '2026-08-26T09:05:00Z', readingsCm: [1, 1, 1, 1] });
+    expect(early.status).toBe(201);
+    const [request] = await t.ds.query(`SELECT data FROM job_outbox WHERE data->>'collarId' = $1`, [other.id]);
+    expect(request?.data).toMatchObject({ collarId: other.id, fromDay: '2026-08-26', orFlagged: 'offset-after' });
   });
 });
