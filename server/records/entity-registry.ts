@@ -146,9 +146,10 @@ export const ENTITY_DEFS: Record<EntityName, EntityDef> = {
     { refs: { visitId: 'visit', collarId: 'collar', campaignId: 'campaign', supersedesId: 'offsetSet' }, underCampaign: true,
       agreements: [UNDER_VISIT, { ref: 'supersedesId', target: 'offsetSet', same: ['collarId'] }],
       timeField: 'takenAt', order: { takenAt: 'ASC' } }),
-  probeReading: def('probeReading', ProbeReadingEntity, 'probe_reading', { create: FIELD, update: FIELD, delete: LEAD },
-    { refs: { visitId: 'visit', collarId: 'collar', campaignId: 'campaign' }, underCampaign: true, agreements: [UNDER_VISIT],
-      immutable: ['siteId', 'visitId', 'collarId', 'campaignId'], timeField: 'takenAt', order: { takenAt: 'ASC' } }),
+  // A crew deletes a wrong replicate on the spot (a tombstone, synced like every record).
+  probeReading: def('probeReading', ProbeReadingEntity, 'probe_reading', { create: FIELD, update: FIELD, delete: FIELD },
+    { refs: { visitId: 'visit', collarId: 'collar', campaignId: 'campaign' }, members: ['takenById'], underCampaign: true, agreements: [UNDER_VISIT],
+      immutable: ['siteId', 'visitId', 'collarId', 'campaignId', 'takenById'], timeField: 'takenAt', order: { takenAt: 'ASC' } }),
   closure: def('closure', ClosureEntity, 'closure', { create: FIELD, update: ['crew', 'lead', 'lab'], delete: LEAD, fieldRule: closureFieldRule },
     { refs: { visitId: 'visit', collarId: 'collar', campaignId: 'campaign', profileId: 'chamberProfile', analyzerId: 'analyzer',
       sourceAttachmentId: 'attachment', redoOfId: 'closure' },

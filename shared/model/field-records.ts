@@ -100,12 +100,8 @@ export const offsetSetFields = z.object({
 });
 
 export const MOISTURE_KINDS = ['vwc', 'permittivity'] as const;
-export const probeReadingFields = z.object({
-  siteId: uuid('siteId'),
-  visitId: uuid('visitId'),
-  collarId: uuid('collarId'),
-  campaignId: uuid('campaignId'),
-  takenAt: isoDateTime('takenAt'),
+/** What one probe insertion reads: the part of a probe reading the crew types. */
+const probeValueFields = {
   soilTemps: z.array(z.object({
     depthCm: ranged(0, 200, 'cm', 'Probe depth'),
     tempC: ranged(-40, 70, '°C', 'Soil temperature'),
@@ -114,7 +110,8 @@ export const probeReadingFields = z.object({
   moistureKind: z.enum(MOISTURE_KINDS).nullable().default(null),
   rodLengthCm: ranged(1, 100, 'cm', 'Rod length').nullable().default(null),
   probeId: text(100).default(''),
-}).superRefine((p, ctx) => {
+};
+function checkMoisture(p: { moistureRaw: number | null; moistureKind: string | null }, ctx: z.RefinementCtx): void {
   if (p.moistureRaw === null) return;
   if (p.moistureKind === null) ctx.addIssue({ code: 'custom', path: ['moistureKind'], message: 'Say whether moisture is VWC or permittivity' });
   if (p.moistureKind === 'vwc' && (p.moistureRaw < 0 || p.moistureRaw > 100)) {
@@ -123,7 +120,24 @@ export const probeReadingFields = z.object({
   if (p.moistureKind === 'permittivity' && (p.moistureRaw < 1 || p.moistureRaw > 90)) {
     ctx.addIssue({ code: 'custom', path: ['moistureRaw'], message: 'Permittivity Ka must be between 1 and 90' });
   }
-});
+}
+/** The typed values of one probe insertion, checked by the same rules as the stored record (the form uses it). */
+export const probeValuesSchema = z.object(probeValueFields).superRefine(checkMoisture);
+
+/**
+ * One probe insertion (a replicate): a visit keeps every one as its own record; its value for
+ * fluxes and exports is their mean (shared/model/probe-replicates.ts).
+ */
+export const probeReadingFields = z.object({
+  siteId: uuid('siteId'),
+  visitId: uuid('visitId'),
+  collarId: uuid('collarId'),
+  campaignId: uuid('campaignId'),
+  takenAt: isoDateTime('takenAt'),
+  /** Who took the replicate (a member of the site). */
+  takenById: uuid('takenById').nullable().default(null),
+  ...probeValueFields,
+}).superRefine(checkMoisture);
 
 const seriesColumn = (what: string, min: number, max: number, unit: string) =>
   z.array(z.number().finite().min(min, `${what} must be at least ${min} ${unit}`).max(max, `${what} must be at most ${max} ${unit}`).nullable())

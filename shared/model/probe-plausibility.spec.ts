@@ -11,4 +11,9 @@ describe('probe plausibility flags', () => {
     expect(probeFlags({ soilTemps: [], moistureRaw: 85, moistureKind: 'permittivity', vwcPct: 70 })).toEqual(['vwc-implausible', 'permittivity-implausible']);
     expect(probeFlags({ soilTemps: [{ depthCm: 10, tempC: -31 }], moistureRaw: 20, moistureKind: 'permittivity', vwcPct: 34 })).toEqual(['soil-temp-implausible']);
   });
+  it('flags a temperature more than ±1 cm from the site probe depth, and none within it', () => {
+    expect(probeFlags({ soilTemps: [{ depthCm: 10, tempC: 9 }], moistureRaw: null, moistureKind: null, probeDepthCm: 5 })).toEqual(['soil-temp-off-depth']);
+    expect(probeFlags({ soilTemps: [{ depthCm: 6, tempC: 9 }], moistureRaw: null, moistureKind: null, probeDepthCm: 5 })).toEqual([]);
+    expect(probeFlags({ soilTemps: [{ depthCm: 10, tempC: 9 }], moistureRaw: null, moistureKind: null })).toEqual([]);
+  });
 });

@@ -62,7 +62,7 @@ export async function buildWorld(m: WorldMakers, leadId: string, marker: string)
     conditions: { other: `visit ${marker}` } });
   const at = { siteId, visitId: w.visit.id, collarId: w.collar.id, campaignId: w.campaign.id };
   w.offsetSet = await made(m.lead, 'offsetSet', { ...at, takenAt: '2026-06-01T08:01:00Z', readingsCm: [2.125, 2.375, 2.625] });
-  w.probeReading = await made(m.lead, 'probeReading', { ...at, takenAt: '2026-06-01T08:02:00Z', moistureRaw: 21.75, moistureKind: 'permittivity',
+  w.probeReading = await made(m.lead, 'probeReading', { ...at, takenAt: '2026-06-01T08:02:00Z', takenById: leadId, moistureRaw: 21.75, moistureKind: 'permittivity',
     probeId: `probe ${marker}` });
   const tS = Array.from({ length: 60 }, (_, i) => i);
   w.closure = await made(m.lead, 'closure', { ...at, startedAt: '2026-06-01T08:03:00Z', settleS: 20,
