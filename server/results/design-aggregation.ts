@@ -14,7 +14,12 @@ import { blockAnalysis, type BlockStratum } from './block-analysis';
 import { mean, meanOrNull, sd } from './stats';
 
 export interface ClosureIn { closureId: string; visitId: string; fluxUmolM2S: number }
-export interface VisitIn { visitId: string; collarId: string; campaignId: string; round: number; arrivedAt: string; soilTempC: number | null; vwcPct: number | null }
+/** A visit's probe replicates: mean (soilTempC, vwcPct), SD and n, and temperatures left out for their depth. */
+export interface VisitProbeStats { soilTempSdC: number | null; soilTempN: number; vwcSdPct: number | null; vwcN: number; offDepthN: number }
+export interface VisitIn {
+  visitId: string; collarId: string; campaignId: string; round: number; arrivedAt: string; soilTempC: number | null; vwcPct: number | null;
+  probe?: VisitProbeStats;
+}
 export interface TreatmentRef { id: string; code: string; name: string }
 export interface CollarIn { collarId: string; collarCode: string; plotId: string; collarTreatment: TreatmentRef | null }
 export interface PlotIn { plotId: string; plotCode: string; blockId: string | null; blockCode: string | null; plotTreatment: TreatmentRef | null }
@@ -30,7 +35,7 @@ export interface DesignInput {
 
 export interface VisitMean {
   visitId: string; collarId: string; plotId: string; cellKey: string; campaignId: string; round: number; arrivedAt: string;
-  nClosures: number; fluxUmolM2S: number; soilTempC: number | null; vwcPct: number | null;
+  nClosures: number; fluxUmolM2S: number; soilTempC: number | null; vwcPct: number | null; probe?: VisitProbeStats;
 }
 export interface CollarMean { collarId: string; plotId: string; cellKey: string; campaignId: string; nVisits: number; nClosures: number; fluxUmolM2S: number; soilTempC: number | null; vwcPct: number | null }
 export interface PlotMean {
@@ -98,7 +103,7 @@ export function aggregateDesign(input: DesignInput): DesignAggregate {
     visitMeans.push({
       visitId: v.visitId, collarId: v.collarId, plotId: plot.plotId, cellKey: cell.key, campaignId: v.campaignId, round: v.round,
       arrivedAt: v.arrivedAt, nClosures: closures.length, fluxUmolM2S: mean(closures.map((c) => c.fluxUmolM2S)),
-      soilTempC: v.soilTempC, vwcPct: v.vwcPct,
+      soilTempC: v.soilTempC, vwcPct: v.vwcPct, probe: v.probe,
     });
   }
 

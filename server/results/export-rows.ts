@@ -3,6 +3,7 @@ import type { CsvValue } from '../../shared/csv/csv-cell';
 import type { SiteResults } from './results-service';
 import type { CellTotal } from './seasonal-totals';
 import { probeFlags } from '../../shared/model/probe-plausibility';
+import { tempAtProbeDepth } from '../../shared/model/probe-replicates';
 
 /** Rows of each export table, in the field order of export-schema.ts; big tables are read in keyset pages. */
 export type Rows = AsyncIterable<CsvValue[]>;
@@ -67,10 +68,9 @@ export function offsetSetRows(ds: DataSource, siteId: string): Rows {
 
 export function probeRows(ds: DataSource, siteId: string, depthCm: number): Rows {
   return query(ds, `SELECT * FROM probe_reading WHERE site_id = $1 AND NOT deleted ORDER BY taken_at, id`, [siteId], (r) => {
-    const at = (r.soil_temps as { depthCm: number; tempC: number }[]).find((s) => Math.abs(s.depthCm - depthCm) < 1e-6);
     const kind = r.moisture_kind as 'vwc' | 'permittivity' | null;
-    const flags = probeFlags({ soilTemps: r.soil_temps, moistureRaw: r.moisture_raw, moistureKind: kind, vwcPct: r.vwc_pct });
-    return [r.id, r.visit_id, r.collar_id, iso(r.taken_at), at?.tempC ?? null, r.vwc_pct, kind,
+    const flags = probeFlags({ soilTemps: r.soil_temps, moistureRaw: r.moisture_raw, moistureKind: kind, vwcPct: r.vwc_pct, probeDepthCm: depthCm });
+    return [r.id, r.visit_id, r.collar_id, iso(r.taken_at), tempAtProbeDepth(r.soil_temps, depthCm), r.vwc_pct, kind,
       kind === 'vwc' ? r.moisture_raw : null, kind === 'permittivity' ? r.moisture_raw : null, flags.join(';')];
   });
 }
@@ -145,7 +145,11 @@ export async function* temperatureLogRows(ds: DataSource, siteId: string): Rows 
 }
 
 export async function* visitMeanRows(r: SiteResults): Rows {
-  for (const v of r.aggregate.visitMeans) yield [v.visitId, v.collarId, v.plotId, v.cellKey, v.campaignId, v.nClosures, v.fluxUmolM2S, v.soilTempC, v.vwcPct];
+  for (const v of r.aggregate.visitMeans) {
+    const p = v.probe;
+    yield [v.visitId, v.collarId, v.plotId, v.cellKey, v.campaignId, v.nClosures, v.fluxUmolM2S, v.soilTempC, p?.soilTempSdC ?? null, p?.soilTempN ?? 0,
+      p?.offDepthN ?? 0, v.vwcPct, p?.vwcSdPct ?? null, p?.vwcN ?? 0];
+  }
 }
 
 export async function* plotMeanRows(r: SiteResults): Rows {

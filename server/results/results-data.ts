@@ -1,5 +1,6 @@
 import type { DataSource, EntityManager } from 'typeorm';
 import { notFound } from '../core/errors';
+import { probeSummary, type ProbeSummary, type ReplicateValues } from '../../shared/model/probe-replicates';
 import type { CampaignIn, ClosureIn, CollarIn, DesignInput, PlotIn, VisitIn } from './design-aggregation';
 
 type Db = Pick<DataSource, 'query'> | Pick<EntityManager, 'query'>;
@@ -9,7 +10,8 @@ interface TreatmentCols { t_id: string | null; t_code: string | null; t_name: st
 type PlotRow = TreatmentCols & { id: string; code: string; block_id: string | null; block_code: string | null };
 type CollarRow = TreatmentCols & { id: string; code: string; plot_id: string };
 interface CampaignRow { id: string; name: string; starts_on: string; ends_on: string }
-interface VisitRow { id: string; collar_id: string; campaign_id: string; round: number; arrived_at: Date; soil_temp_c: string | number | null; vwc_pct: string | number | null }
+interface VisitRow { id: string; collar_id: string; campaign_id: string; round: number; arrived_at: Date }
+interface ProbeRow { id: string; visit_id: string; soil_temps: { depthCm: number; tempC: number }[]; vwc_pct: number | null }
 interface ClosureRow { id: string; visit_id: string; flux_umol_m2_s: number }
 interface TemperatureLogRow { id: string; plot_id: string; depth_cm: number; source: string; series: { t: string[]; tempC: number[] } }
 
@@ -32,9 +34,25 @@ export async function loadSite(db: Db, siteId: string): Promise<SiteInfo> {
 const ref = (id: string | null, code: string | null, name: string | null) => (id ? { id, code: code ?? '', name: name ?? '' } : null);
 
 /**
- * Everything the design aggregation needs for one site, in five queries. Soil temperature is the
- * probe's reading at the site's chosen depth (DESIGN: the depth used for responses); moisture is
- * the converted VWC. Skipped and deleted visits, deleted closures and closures without a flux are left out.
+ * Each visit's probe value: the mean of its replicates (moisture as converted VWC; soil temperature
+ * at the site's probe depth ± the shared tolerance, temperatures further off left out and counted).
+ */
+async function visitProbes(db: Db, siteId: string, depthCm: number): Promise<Map<string, ProbeSummary>> {
+  const rows: ProbeRow[] = await db.query(
+    `SELECT id, visit_id, soil_temps, vwc_pct FROM probe_reading WHERE site_id = $1 AND NOT deleted ORDER BY taken_at, id`, [siteId]);
+  const byVisit = new Map<string, ReplicateValues[]>();
+  for (const r of rows) {
+    const list = byVisit.get(r.visit_id) ?? [];
+    list.push({ id: r.id, soilTemps: r.soil_temps, vwcPct: r.vwc_pct });
+    byVisit.set(r.visit_id, list);
+  }
+  return new Map([...byVisit].map(([visitId, reps]) => [visitId, probeSummary(reps, depthCm)]));
+}
+
+/**
+ * Everything the design aggregation needs for one site, in six queries. Soil temperature and
+ * moisture of a visit are the means of its probe replicates (visitProbes; the temperature at the
+ * site's chosen depth, DESIGN: the depth used for responses). Skipped and deleted visits, deleted closures and closures without a flux are left out.
  */
 export async function loadSiteDesign(db: Db, siteId: string, selection: ClosureSelection): Promise<SiteDesign> {
   const site = await loadSite(db, siteId);
@@ -52,14 +70,16 @@ export async function loadSiteDesign(db: Db, siteId: string, selection: ClosureS
     `SELECT id, name, starts_on::text AS starts_on, ends_on::text AS ends_on FROM campaign
       WHERE site_id = $1 AND NOT deleted ORDER BY starts_on, name`, [siteId]))
     .map((r: CampaignRow) => ({ campaignId: r.id, name: r.name, startsOn: r.starts_on, endsOn: r.ends_on }));
+  const probes = await visitProbes(db, siteId, site.tempDepthCm);
   const visits: VisitIn[] = (await db.query(
-    `SELECT v.id, v.collar_id, v.campaign_id, v.round, v.arrived_at,
-       (SELECT avg((e->>'tempC')::float8) FROM probe_reading p CROSS JOIN jsonb_array_elements(p.soil_temps) e
-         WHERE p.visit_id = v.id AND NOT p.deleted AND abs((e->>'depthCm')::float8 - $2) < 1e-6) AS soil_temp_c,
-       (SELECT avg(p.vwc_pct) FROM probe_reading p WHERE p.visit_id = v.id AND NOT p.deleted) AS vwc_pct
-       FROM visit v WHERE v.site_id = $1 AND NOT v.deleted AND NOT v.skipped ORDER BY v.arrived_at, v.id`, [siteId, site.tempDepthCm]))
-    .map((r: VisitRow) => ({ visitId: r.id, collarId: r.collar_id, campaignId: r.campaign_id, round: r.round, arrivedAt: r.arrived_at.toISOString(),
-      soilTempC: r.soil_temp_c === null ? null : Number(r.soil_temp_c), vwcPct: r.vwc_pct === null ? null : Number(r.vwc_pct) }));
+    `SELECT v.id, v.collar_id, v.campaign_id, v.round, v.arrived_at
+       FROM visit v WHERE v.site_id = $1 AND NOT v.deleted AND NOT v.skipped ORDER BY v.arrived_at, v.id`, [siteId]))
+    .map((r: VisitRow) => {
+      const p = probes.get(r.id);
+      return { visitId: r.id, collarId: r.collar_id, campaignId: r.campaign_id, round: r.round, arrivedAt: r.arrived_at.toISOString(),
+        soilTempC: p?.soilTemp.mean ?? null, vwcPct: p?.vwc.mean ?? null,
+        probe: { soilTempSdC: p?.soilTemp.sd ?? null, soilTempN: p?.soilTemp.n ?? 0, vwcSdPct: p?.vwc.sd ?? null, vwcN: p?.vwc.n ?? 0, offDepthN: p?.offDepth.length ?? 0 } };
+    });
   const states = selection === 'accepted' ? ['accepted'] : ['accepted', 'unreviewed'];
   const closures: ClosureIn[] = (await db.query(
     `SELECT id, visit_id, flux_umol_m2_s FROM closure

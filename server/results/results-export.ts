@@ -3,6 +3,7 @@ import type { DataSource } from 'typeorm';
 import { engineVersion, QC_FLAGS, QC_THRESHOLDS, RESPONSE_LIMITS, SELECTION_MARGIN } from '../../shared/flux';
 import { dataLicence } from '../../shared/results/data-licences';
 import { PROBE_FLAGS, PROBE_RANGES } from '../../shared/model/probe-plausibility';
+import { PROBE_DEPTH_TOLERANCE_CM } from '../../shared/model/probe-replicates';
 import { defineJob } from '../jobs/job-registry';
 import { csvLine, type CsvValue } from '../../shared/csv/csv-cell';
 import { CALIBRATION_METHOD, calibrationRows } from './calibration-rows';
@@ -158,7 +159,9 @@ function exportMethods(slopeBasis: string, req: ExportRequest, fromDay: string, 
     `Probe readings: soil temperature at the site's response depth and soil moisture; moisture_kind says whether the probe gave a VWC (moisture_vwc_reading_pct) `
       + `or an apparent permittivity (moisture_permittivity, converted by Topp et al. 1980, Water Resour. Res. 16:574–582, unless the site set its own polynomial). `
       + `Plausible-range flags (probe_readings.flags; common-practice range tests, readings kept): ${probe} Ranges: soil temperature ${PROBE_RANGES.soilTempC.min} … ${PROBE_RANGES.soilTempC.max} °C `
-      + `from ${PROBE_RANGES.soilTempC.fromDepthCm} cm down, VWC ${PROBE_RANGES.vwcPct.min} … ${PROBE_RANGES.vwcPct.max} %, permittivity ${PROBE_RANGES.permittivity.min} … ${PROBE_RANGES.permittivity.max}.`,
+      + `from ${PROBE_RANGES.soilTempC.fromDepthCm} cm down, VWC ${PROBE_RANGES.vwcPct.min} … ${PROBE_RANGES.vwcPct.max} %, permittivity ${PROBE_RANGES.permittivity.min} … ${PROBE_RANGES.permittivity.max}. `
+      + `Each probe reading is one insertion (replicate); a visit's soil temperature and moisture (visit_means, and every mean built on it) are the means of its replicates, `
+      + `with sample SD (n − 1) and n in visit_means; temperatures more than ±${PROBE_DEPTH_TOLERANCE_CM} cm from the response depth are flagged soil-temp-off-depth and left out of the mean.`,
     `Aggregation: ${aggregation}; closures: ${req.selection}. Least-squares additive models per stratum: plot-level treatments with block as a factor; collar-level treatments (split plot) paired by plot.`,
     'Temperature response per treatment cell on plot × campaign × round means (the experimental unit): Q10 and Lloyd & Taylor (1994, Funct. Ecol. 8:315–323) with T0 = 227.13 K fixed, on the flux scale and on the log scale; 95 % CIs from t(n − 2) with n = units.',
     `Seasonal totals (seasonal_totals.csv, ${fromDay} to ${toDay}, response model ${req.model}): ${SEASONAL_METHOD}`,

@@ -52,17 +52,24 @@ export interface ProbeSummary {
   offDepth: { id: string; depthCm: number; tempC: number }[];
 }
 
+/** A replicate's soil temperature at the probe depth: the one nearest it within the tolerance, or null. */
+export function tempAtProbeDepth(soilTemps: readonly { depthCm: number; tempC: number }[], probeDepthCm: number, toleranceCm = PROBE_DEPTH_TOLERANCE_CM): number | null {
+  let nearest: { depthCm: number; tempC: number } | null = null;
+  for (const t of soilTemps) {
+    if (!atProbeDepth(t.depthCm, probeDepthCm, toleranceCm)) continue;
+    if (!nearest || Math.abs(t.depthCm - probeDepthCm) < Math.abs(nearest.depthCm - probeDepthCm)) nearest = t;
+  }
+  return nearest ? nearest.tempC : null;
+}
+
 /** A visit's probe value: mean, SD and n of its replicates' moisture and of their temperatures at the probe depth. */
 export function probeSummary(replicates: readonly ReplicateValues[], probeDepthCm: number, toleranceCm = PROBE_DEPTH_TOLERANCE_CM): ProbeSummary {
   const temps: number[] = [];
   const offDepth: ProbeSummary['offDepth'] = [];
   for (const r of replicates) {
-    let nearest: { depthCm: number; tempC: number } | null = null;
-    for (const t of r.soilTemps) {
-      if (!atProbeDepth(t.depthCm, probeDepthCm, toleranceCm)) offDepth.push({ id: r.id, depthCm: t.depthCm, tempC: t.tempC });
-      else if (!nearest || Math.abs(t.depthCm - probeDepthCm) < Math.abs(nearest.depthCm - probeDepthCm)) nearest = t;
-    }
-    if (nearest) temps.push(nearest.tempC);
+    for (const t of r.soilTemps) if (!atProbeDepth(t.depthCm, probeDepthCm, toleranceCm)) offDepth.push({ id: r.id, depthCm: t.depthCm, tempC: t.tempC });
+    const at = tempAtProbeDepth(r.soilTemps, probeDepthCm, toleranceCm);
+    if (at !== null) temps.push(at);
   }
   const vwc = replicates.map((r) => r.vwcPct).filter((v): v is number => v !== null && Number.isFinite(v));
   return { vwc: sampleStats(vwc), soilTemp: sampleStats(temps), offDepth };
