@@ -1,6 +1,7 @@
 import { Injectable, inject } from '@angular/core';
 import { AuthStore } from '../../core/auth/auth-store';
 import type { LocalRecord } from '../../core/db/db-schema';
+import { RecordMissingError } from '../../core/db/outbox-writer';
 import { validated } from '../../core/db/validated';
 import { LocalWrites } from '../../core/sync/local-writes';
 
@@ -27,6 +28,7 @@ export class VisitWrites {
   private readonly writes = inject(LocalWrites);
   private readonly auth = inject(AuthStore);
   private readonly creating = new Map<string, Promise<LocalRecord>>();
+  private readonly probeSaves = new Map<string, Promise<void>>();
 
   /** The visit at this collar in this round: the existing one, or a new one (made once even on a double tap). */
   async ensureVisit(target: VisitTarget, existing: LocalRecord | null, extra: Record<string, unknown> = {}): Promise<LocalRecord> {
@@ -61,14 +63,36 @@ export class VisitWrites {
     return this.writes.create('offsetSet', fields);
   }
 
-  async saveProbe(target: VisitTarget, visit: LocalRecord | null, reading: Record<string, unknown>, existing: LocalRecord | null): Promise<void> {
-    const v = await this.ensureVisit(target, visit);
-    const fields = validated('probeReading', {
-      siteId: target.siteId, visitId: v.id, collarId: target.collarId, campaignId: target.campaignId,
-      takenAt: new Date().toISOString(), ...reading,
+  /**
+   * Saves one probe replicate under its id: the first save creates it (taken now, by the signed-in
+   * user), later saves of the same id correct its values only. Another replicate is another id, so
+   * saving one never overwrites another. Saves of one id run one after the other.
+   */
+  saveProbe(target: VisitTarget, visit: LocalRecord | null, reading: Record<string, unknown>, replicateId: string): Promise<void> {
+    const previous = this.probeSaves.get(replicateId) ?? Promise.resolve();
+    const next = previous.catch(() => undefined).then(async () => {
+      const v = await this.ensureVisit(target, visit);
+      const fields = validated('probeReading', {
+        siteId: target.siteId, visitId: v.id, collarId: target.collarId, campaignId: target.campaignId,
+        takenAt: new Date().toISOString(), takenById: this.auth.user()?.id ?? null, ...reading,
+      });
+      const { takenAt: _at, takenById: _by, ...values } = fields;
+      try {
+        await this.writes.edit('probeReading', replicateId, values);
+      } catch (err) {
+        if (!(err instanceof RecordMissingError)) throw err;
+        await this.writes.create('probeReading', fields, { id: replicateId });
+      }
     });
-    if (existing) await this.writes.edit('probeReading', existing.id, fields);
-    else await this.writes.create('probeReading', fields);
+    this.probeSaves.set(replicateId, next);
+    next.finally(() => { if (this.probeSaves.get(replicateId) === next) this.probeSaves.delete(replicateId); }).catch(() => undefined);
+    return next;
+  }
+
+  /** A wrong replicate goes: deleted here, a tombstone on the server after the next sync. */
+  async deleteProbe(replicateId: string): Promise<void> {
+    await this.probeSaves.get(replicateId)?.catch(() => undefined);
+    await this.writes.remove('probeReading', replicateId);
   }
 
   async skip(target: VisitTarget, visit: LocalRecord | null, reason: string): Promise<void> {

@@ -1,5 +1,5 @@
 import { DecimalPipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, output, signal, untracked } from '@angular/core';
+import { ChangeDetectionStrategy, Component, DestroyRef, ElementRef, computed, effect, inject, input, output, signal, untracked } from '@angular/core';
 import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
 import { FormArray, FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -7,50 +7,41 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatRadioModule } from '@angular/material/radio';
 import { debounceTime } from 'rxjs';
+import { v4 as uuidv4 } from 'uuid';
+import type { z } from 'zod';
 import { probeVwcPct, type MoistureCalibration } from '../../../../shared/model/derived';
+import type { probeReadingFields } from '../../../../shared/model/field-records';
+import { AuthStore } from '../../core/auth/auth-store';
 import { AUTOSAVE_MS, parseCm } from './offset-form';
+import { readProbe, type ProbeKit, type ProbeReadingInput } from './probe-input';
+import { ProbeReplicateList, type ReplicateRow } from './probe-replicate-list';
 
-export interface ProbeKit {
-  probeId: string;
-  rodLengthCm: number | null;
-  moistureKind: 'vwc' | 'permittivity';
-}
+export { readProbe, type ProbeKit, type ProbeReadingInput } from './probe-input';
 
-export interface ProbeReadingInput extends ProbeKit {
-  soilTemps: { depthCm: number; tempC: number }[];
-  moistureRaw: number | null;
-}
+/** One replicate to store under its id (a new id is a new replicate; the same id corrects it). */
+export interface ProbeSave { id: string; reading: ProbeReadingInput }
+
+/** A stored probe replicate as the device keeps it. */
+export type ProbeRecord = Partial<z.infer<typeof probeReadingFields>> & { id: string };
 
 type DepthRow = FormGroup<{ depth: FormControl<string>; temp: FormControl<string> }>;
 const text = (v: unknown) => (v === null || v === undefined ? '' : String(v));
 const depthRow = (depth: string, temp = ''): DepthRow => new FormGroup({ depth: new FormControl(depth, { nonNullable: true }), temp: new FormControl(temp, { nonNullable: true }) });
-
-/** Reads the form into a reading, or says what is wrong (pure, for the spec). */
-export function readProbe(v: { temps: { depth: string; temp: string }[]; kind: 'vwc' | 'permittivity'; moisture: string; rod: string; probeId: string }): { ok: true; reading: ProbeReadingInput } | { ok: false; message: string } {
-  const soilTemps: { depthCm: number; tempC: number }[] = [];
-  for (const row of v.temps) {
-    const depthCm = parseCm(row.depth);
-    const tempC = parseCm(row.temp);
-    if (tempC === null && !row.temp.trim()) continue;
-    if (depthCm === null || tempC === null) return { ok: false, message: 'Give both depth and temperature for each soil temperature, or leave the temperature empty.' };
-    soilTemps.push({ depthCm, tempC });
-  }
-  const moistureRaw = parseCm(v.moisture);
-  if (v.moisture.trim() && moistureRaw === null) return { ok: false, message: 'Moisture must be a number.' };
-  if (!soilTemps.length && moistureRaw === null) return { ok: false, message: 'Enter a soil temperature or a moisture reading.' };
-  return { ok: true, reading: { soilTemps, moistureRaw, moistureKind: v.kind, rodLengthCm: parseCm(v.rod), probeId: v.probeId.trim() } };
-}
+const valuesOf = (r: Pick<ProbeRecord, 'soilTemps' | 'moistureRaw' | 'moistureKind' | 'rodLengthCm' | 'probeId'>) =>
+  JSON.stringify([r.soilTemps ?? [], r.moistureRaw ?? null, r.moistureKind ?? null, r.rodLengthCm ?? null, r.probeId ?? '']);
+const complete = (r: Pick<ProbeRecord, 'soilTemps' | 'moistureRaw'> | null) => !!r && (r.soilTemps?.length ?? 0) > 0 && typeof r.moistureRaw === 'number';
 
 /**
  * Soil temperature at one or more depths and soil moisture, as VWC or as permittivity converted
- * live with the site's calibration (Topp et al. 1980 unless the site has its own polynomial). The
- * probe kit (id, rod length, kind) carries over from the last collar. Readings save themselves
- * after a short pause; the saved values are what the boxes show when the visit is opened again,
- * and the section folds to one line once temperature and moisture are both in.
+ * live with the site's calibration (Topp et al. 1980 unless the site has its own polynomial). A
+ * visit keeps every probe insertion as its own replicate: the boxes hold one replicate (its id
+ * decided here), "Add a replicate" empties them for the next (kit and depths carry over), and the
+ * list above shows each replicate with mean, SD and n. Values save themselves after a short pause;
+ * the section folds to one line once the replicate in the boxes has temperature and moisture.
  */
 @Component({
   selector: 'fw-probe-form',
-  imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatInputModule, MatRadioModule, ReactiveFormsModule],
+  imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatInputModule, MatRadioModule, ReactiveFormsModule, ProbeReplicateList],
   templateUrl: './probe-form.html',
   styles: `
     .depth { display: grid; grid-template-columns: 1fr 1fr; gap: 0 12px; }
@@ -59,7 +50,7 @@ export function readProbe(v: { temps: { depth: string; temp: string }[]; kind: '
     .warning { border: 2px solid var(--mat-sys-error); padding: 8px 12px; border-radius: 8px; font-weight: 600; }
     mat-radio-button { min-height: 48px; display: inline-flex; align-items: center; }
     .row { display: flex; flex-wrap: wrap; gap: 8px; margin-bottom: 8px; }
-    .summary { display: flex; align-items: center; justify-content: space-between; gap: 8px; margin: 0; }
+    .summary { display: flex; flex-wrap: wrap; align-items: center; justify-content: space-between; gap: 8px; margin: 0; }
     button { min-height: 48px; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -68,10 +59,18 @@ export class ProbeForm {
   readonly calibration = input.required<MoistureCalibration>();
   readonly defaultDepthCm = input(5);
   readonly kit = input<ProbeKit>({ probeId: '', rodLengthCm: null, moistureKind: 'vwc' });
-  readonly saved = input<Record<string, unknown> | null>(null);
+  /** The visit's newest replicate: what the boxes show when the visit is opened again. */
+  readonly saved = input<ProbeRecord | Record<string, unknown> | null>(null);
+  /** Every live replicate of the visit, oldest first. */
+  readonly replicates = input<readonly (ProbeRecord | Record<string, unknown>)[]>([]);
+  /** The site's time zone: replicate times are shown in it. */
+  readonly zone = input('UTC');
   readonly busy = input(false);
-  readonly save = output<ProbeReadingInput>();
+  readonly save = output<ProbeSave>();
+  readonly remove = output<string>();
 
+  private readonly auth = inject(AuthStore, { optional: true });
+  private readonly host = inject(ElementRef<HTMLElement>);
   protected readonly form = new FormGroup({
     temps: new FormArray<DepthRow>([depthRow('5')]),
     kind: new FormControl<'vwc' | 'permittivity'>('vwc', { nonNullable: true }),
@@ -82,67 +81,81 @@ export class ProbeForm {
   private readonly value = toSignal(this.form.valueChanges, { initialValue: this.form.getRawValue() });
   protected readonly problem = signal('');
   protected readonly editing = signal(false);
-  /** The record id whose values are in the boxes (so a save does not overwrite what is being typed). */
-  private shownRecord: string | null = null;
-  /** A first save is on its way: its record takes over the boxes as they are. */
-  private adoptNext = false;
+  /** The replicate in the boxes: a stored one, or a new id not stored yet. */
+  private readonly draftId = signal(uuidv4());
+  /** What was last sent for the draft (shown until the stored record comes back). */
+  private readonly sent = signal<(ProbeReadingInput & { id: string }) | null>(null);
+  /** The boxes took a stored replicate (or the kit) once; later arrivals never replace what is typed. */
+  private started = false;
+
+  protected readonly records = computed(() => this.replicates() as readonly ProbeRecord[]);
+  protected readonly draft = computed((): ProbeRecord | null => {
+    const id = this.draftId();
+    const stored = this.records().find((r) => r.id === id);
+    if (stored) return stored;
+    const sent = this.sent();
+    return sent?.id === id ? sent : null;
+  });
 
   constructor() {
     effect(() => {
       const k = this.kit();
       const depth = this.defaultDepthCm();
-      const saved = this.saved();
+      const saved = this.saved() as ProbeRecord | null;
       untracked(() => {
+        if (this.started) return;
         if (saved) {
-          if (this.shownRecord === saved['id']) return;
-          this.shownRecord = String(saved['id']);
-          if (this.adoptNext) {
-            this.adoptNext = false;
-            return;
-          }
+          this.started = true;
+          this.draftId.set(saved.id);
           this.fill(saved);
           return;
         }
         this.form.patchValue({ kind: k.moistureKind, probeId: k.probeId, rod: text(k.rodLengthCm) });
         const temps = this.form.controls.temps;
-        if (temps.length === 1 && !temps.at(0).controls.temp.value) temps.at(0).controls.depth.setValue(String(depth));
+        if (temps.length === 1 && !temps.at(0).controls.temp.value) temps.at(0).controls.depth.setValue(String(depth), { emitEvent: false });
       });
     });
     this.form.valueChanges.pipe(debounceTime(AUTOSAVE_MS), takeUntilDestroyed(inject(DestroyRef))).subscribe(() => this.autosave());
   }
 
-  private fill(r: Record<string, unknown>): void {
-    const temps = (r['soilTemps'] as { depthCm: number; tempC: number }[] | undefined) ?? [];
+  private fill(r: ProbeRecord): void {
+    const temps = r.soilTemps ?? [];
     const arr = this.form.controls.temps;
     arr.clear({ emitEvent: false });
     for (const t of temps.length ? temps : [{ depthCm: this.defaultDepthCm(), tempC: null }]) arr.push(depthRow(text(t.depthCm), text(t.tempC)), { emitEvent: false });
     this.form.patchValue({
-      kind: (r['moistureKind'] as 'vwc' | 'permittivity') ?? 'vwc', moisture: text(r['moistureRaw']),
-      rod: text(r['rodLengthCm']), probeId: text(r['probeId']),
+      kind: r.moistureKind ?? 'vwc', moisture: text(r.moistureRaw), rod: text(r.rodLengthCm), probeId: text(r.probeId),
     });
   }
 
   protected readonly kind = computed(() => this.value().kind ?? 'vwc');
   /** The VWC this reading stands for, % — the same function the server uses for the stored value. */
   protected readonly vwcPct = computed(() => {
-    const raw = parseCm(this.value().moisture ?? '');
+    const raw = parseCm((this.value().moisture ?? '').replace(/\s*%$/, ''));
     if (raw === null) return null;
     return probeVwcPct({ moistureRaw: raw, moistureKind: this.kind() }, this.calibration());
   });
   protected readonly calibrationName = computed(() => (this.calibration().kind === 'topp' ? 'Topp et al. 1980' : 'the site calibration'));
-  /** Both parts are in: the section folds. */
-  protected readonly complete = computed(() => {
-    const s = this.saved();
-    return !!s && ((s['soilTemps'] as unknown[] | undefined)?.length ?? 0) > 0 && typeof s['moistureRaw'] === 'number';
-  });
-  protected readonly collapsed = computed(() => this.complete() && !this.editing());
+  /** The replicate in the boxes has both parts: the section folds. */
+  protected readonly collapsed = computed(() => !this.editing() && complete(this.draft()));
   protected readonly summary = computed(() => {
-    const s = this.saved();
-    if (!s) return '';
-    const temps = ((s['soilTemps'] as { depthCm: number; tempC: number }[]) ?? []).map((t) => `${t.tempC} °C at ${t.depthCm} cm`).join(', ');
-    const m = s['moistureKind'] === 'permittivity' ? `Ka ${s['moistureRaw']}` : `${s['moistureRaw']} % VWC`;
-    return `${temps} · ${m}`;
+    const s = this.draft();
+    return s ? `${(s.soilTemps ?? []).map((t) => `${t.tempC} °C at ${t.depthCm} cm`).join(', ')} · ${this.moistureText(s)}` : '';
   });
+  protected readonly rows = computed((): ReplicateRow[] => {
+    const me = this.auth?.user()?.id ?? null;
+    const cal = this.calibration();
+    return this.records().map((r) => ({
+      id: r.id, takenAt: r.takenAt ?? '', takenBy: !r.takenById ? 'taker not recorded' : r.takenById === me ? 'you' : 'another member',
+      soilTemps: r.soilTemps ?? [], moistureText: this.moistureText(r),
+      vwcPct: probeVwcPct({ moistureRaw: r.moistureRaw ?? null, moistureKind: r.moistureKind ?? null }, cal),
+    }));
+  });
+
+  private moistureText(r: Pick<ProbeRecord, 'moistureRaw' | 'moistureKind'>): string {
+    if (typeof r.moistureRaw !== 'number') return '';
+    return r.moistureKind === 'permittivity' ? `Ka ${r.moistureRaw}` : `${r.moistureRaw} % VWC`;
+  }
 
   protected addDepth(): void {
     this.form.controls.temps.push(depthRow(''));
@@ -156,21 +169,47 @@ export class ProbeForm {
     this.editing.set(true);
   }
 
+  /** Empties the boxes for the next insertion (kit and depths stay) under a new id, and puts the cursor in Moisture. */
+  protected addReplicate(): void {
+    this.started = true;
+    this.draftId.set(uuidv4());
+    this.sent.set(null);
+    this.problem.set('');
+    const temps = this.form.controls.temps;
+    for (const row of temps.controls) row.controls.temp.setValue('', { emitEvent: false });
+    this.form.controls.moisture.setValue('');
+    this.editing.set(true);
+    setTimeout(() => (this.host.nativeElement as HTMLElement).querySelector<HTMLInputElement>('[data-testid="moisture-raw"]')?.focus());
+  }
+
+  protected deleteReplicate(id: string): void {
+    if (id === this.draftId()) {
+      this.draftId.set(uuidv4());
+      this.sent.set(null);
+      this.editing.set(false);
+    }
+    this.remove.emit(id);
+  }
+
   private autosave(): void {
     const r = readProbe(this.form.getRawValue());
-    if (!r.ok) return;
+    if (!r.ok) {
+      // Only what is typed is wrong: say so; nothing stored is touched.
+      if (this.form.controls.moisture.value.trim() || this.form.controls.temps.controls.some((t) => t.controls.temp.value.trim())) this.problem.set(r.message);
+      return;
+    }
+    this.problem.set('');
     this.emit(r.reading);
   }
 
   private emit(reading: ProbeReadingInput): void {
-    const s = this.saved();
-    const same = s && JSON.stringify([s['soilTemps'], s['moistureRaw'] ?? null, s['moistureKind'], s['rodLengthCm'] ?? null, s['probeId'] ?? ''])
-      === JSON.stringify([reading.soilTemps, reading.moistureRaw, reading.moistureKind, reading.rodLengthCm, reading.probeId]);
-    if (same) return;
-    if (s) this.shownRecord = String(s['id']);
-    else this.adoptNext = true;
+    const d = this.draft();
+    if (d && valuesOf(d) === valuesOf(reading)) return;
+    this.started = true;
+    const id = this.draftId();
+    this.sent.set({ ...reading, id });
     this.editing.set(false);
-    this.save.emit(reading);
+    this.save.emit({ id, reading });
   }
 
   /** Saves now (Enter in a box); the pause-save does the same without a tap. */

@@ -15,7 +15,7 @@ import { AirTempField } from './air-temp-field';
 import { AUTOSAVE_MS, OffsetForm } from './offset-form';
 import { nextDueIndex } from './route-order';
 import { routeView } from './walk-store';
-import { ProbeForm, type ProbeReadingInput } from './probe-form';
+import { ProbeForm, type ProbeSave } from './probe-form';
 import { SkipForm } from './skip-form';
 import { WalkContext } from '../field-day/walk-context';
 import { visitView } from './visit-store';
@@ -154,11 +154,15 @@ export class VisitPage {
     return this.run('Offset set saved on this device.', (t, v) => this.writes.saveOffsetSet(t, v.visit, readings, v.offsetSet).then(() => undefined));
   }
 
-  protected saveProbe(p: ProbeReadingInput): Promise<void> {
+  protected saveProbe(p: ProbeSave): Promise<void> {
     return this.run('Probe readings saved on this device.', async (t, v) => {
-      await this.writes.saveProbe(t, v.visit, { ...p }, v.probe);
-      this.walk.update({ probeId: p.probeId, rodLengthCm: p.rodLengthCm, moistureKind: p.moistureKind });
+      await this.writes.saveProbe(t, v.visit, { ...p.reading }, p.id);
+      this.walk.update({ probeId: p.reading.probeId, rodLengthCm: p.reading.rodLengthCm, moistureKind: p.reading.moistureKind });
     });
+  }
+
+  protected deleteProbe(id: string): Promise<void> {
+    return this.run('Replicate deleted on this device.', () => this.writes.deleteProbe(id));
   }
 
   protected skip(reason: string): Promise<void> {

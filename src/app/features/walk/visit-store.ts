@@ -27,7 +27,10 @@ export interface VisitView {
   offsetSet: LocalRecord | null;
   /** The collar's last offset set before this visit. */
   lastOffsetSet: LocalRecord | null;
+  /** This visit's newest probe replicate. */
   probe: LocalRecord | null;
+  /** Every live probe replicate of this visit, oldest first. */
+  probes: LocalRecord[];
   /** Closures started at this visit. */
   closureCount: number;
   lastFlux: { value: number; at: string } | null;
@@ -84,7 +87,9 @@ export async function loadVisit(db: FluxDb, key: VisitKey): Promise<VisitView | 
   const current = sets.filter((s) => !superseded.has(s.id));
   const offsetSet = visit ? newest(current.filter((s) => s['visitId'] === visit.id), 'takenAt') : null;
   const lastOffsetSet = newest(current.filter((s) => !visit || s['visitId'] !== visit.id), 'takenAt');
-  const probe = visit ? newest(probes.filter((p) => p['visitId'] === visit.id), 'takenAt') : null;
+  const visitProbes = visit ? probes.filter((p) => p['visitId'] === visit.id)
+    .sort((a, b) => String(a['takenAt']).localeCompare(String(b['takenAt'])) || a.id.localeCompare(b.id)) : [];
+  const probe = visitProbes[visitProbes.length - 1] ?? null;
   const withFlux = closures.filter((c) => typeof c['fluxUmolM2S'] === 'number');
   const lastClosure = newest(withFlux, 'startedAt');
   return {
@@ -97,6 +102,7 @@ export async function loadVisit(db: FluxDb, key: VisitKey): Promise<VisitView | 
     offsetSet,
     lastOffsetSet,
     probe,
+    probes: visitProbes,
     closureCount: visit ? closures.filter((c) => c['visitId'] === visit.id).length : 0,
     lastFlux: lastClosure ? { value: Number(lastClosure['fluxUmolM2S']), at: String(lastClosure['startedAt']) } : null,
     settling: settlingNote(collar, events, site ?? null),
