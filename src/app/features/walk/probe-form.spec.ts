@@ -24,7 +24,7 @@ async function render(calibration: MoistureCalibration, savedRecord: ProbeRecord
   const saved: ProbeSave[] = [];
   const removed: string[] = [];
   fixture.componentInstance.save.subscribe((v) => saved.push(v));
-  fixture.componentInstance.remove.subscribe((id) => removed.push(id));
+  fixture.componentInstance.removeReplicate.subscribe((id) => removed.push(id));
   await fixture.whenStable();
   const el = fixture.nativeElement as HTMLElement;
   const shown = () => el.querySelector('[data-testid="moisture-vwc"]')?.textContent?.trim() ?? null;

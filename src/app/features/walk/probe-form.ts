@@ -67,7 +67,7 @@ export class ProbeForm {
   readonly zone = input('UTC');
   readonly busy = input(false);
   readonly save = output<ProbeSave>();
-  readonly remove = output<string>();
+  readonly removeReplicate = output<string>();
 
   private readonly auth = inject(AuthStore, { optional: true });
   private readonly host = inject(ElementRef<HTMLElement>);
@@ -188,7 +188,7 @@ export class ProbeForm {
       this.sent.set(null);
       this.editing.set(false);
     }
-    this.remove.emit(id);
+    this.removeReplicate.emit(id);
   }
 
   private autosave(): void {

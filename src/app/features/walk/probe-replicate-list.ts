@@ -42,7 +42,7 @@ export class ProbeReplicateList {
   readonly rows = input.required<readonly ReplicateRow[]>();
   readonly probeDepthCm = input.required<number>();
   readonly zone = input('UTC');
-  readonly remove = output<string>();
+  readonly removeReplicate = output<string>();
 
   protected readonly tolerance = PROBE_DEPTH_TOLERANCE_CM;
   protected readonly confirming = signal<string | null>(null);
@@ -66,6 +66,6 @@ export class ProbeReplicateList {
 
   protected confirmDelete(id: string): void {
     this.confirming.set(null);
-    this.remove.emit(id);
+    this.removeReplicate.emit(id);
   }
 }
