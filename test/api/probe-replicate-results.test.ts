@@ -1,6 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import { TABLES } from '../../server/results/export-schema';
-import { visitMeanRows } from '../../server/results/export-rows';
+import { probeRows, visitMeanRows } from '../../server/results/export-rows';
 import { siteResults } from '../../server/results/results-service';
 import { buildWorld, makeUser, type World } from '../support/site-world';
 import { demoEmail, signIn, startTestApp, type Session, type TestApp } from '../support/test-app';
@@ -53,5 +53,15 @@ describe('results use the mean of a visit\'s probe replicates', () => {
     expect(rows.find((x) => x['visit_id'] === w.visit.id)).toMatchObject({
       soil_temp_c: 11, soil_temp_sd_c: Math.sqrt(2), soil_temp_n: 2, soil_temp_off_depth_n: 1, vwc_pct: 22, vwc_sd_pct: 2, vwc_n: 3,
     });
+  });
+
+  it('when probe readings are exported, then each replicate is a row and the one off the probe depth carries soil-temp-off-depth', async () => {
+    // Source rows hold UTC times only; the writer adds the *_local twins.
+    const names = TABLES.find((x) => x.name === 'probe_readings')!.fields.filter((f) => !f.localOf).map((f) => f.name);
+    const rows: Record<string, unknown>[] = [];
+    for await (const row of probeRows(t.ds, w.site.id, 5)) rows.push(Object.fromEntries(names.map((n, i) => [n, row[i]])));
+    const mine = rows.filter((r) => r['visit_id'] === w.visit.id);
+    // 5.5 cm is within ±1 cm of 5 cm, so its temperature is the row's soil_temp_c; 10 cm is not.
+    expect(mine.map((r) => [r['vwc_pct'], r['soil_temp_c'], r['flags']])).toEqual([[20, 10, ''], [22, 12, ''], [24, null, 'soil-temp-off-depth']]);
   });
 });
