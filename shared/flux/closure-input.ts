@@ -36,6 +36,11 @@ export interface ClosureInput {
   settleS: number;
   /** Optional end of the fit window, elapsed seconds. */
   windowEndS?: number | null;
+  /**
+   * Sample indices (positions in tS) the lab left out of the fit (a spike, a knocked chamber):
+   * the fit is that of the remaining samples; a left-out sample is not a gap.
+   */
+  excludedIndices?: readonly number[] | null;
   ambientPpm?: number | null;
   ambientMarginPpm?: number;
   /** Analyzer precision for the detection limit, ppm (default 1). */

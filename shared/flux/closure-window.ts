@@ -1,7 +1,7 @@
 /**
  * Input checks and the fit window of a closure: every sample with t ≥ t0 (end of the settle
- * time, even when the first usable sample comes later) and finite values, converted to dry
- * mole fraction. The arrays returned are scratch buffers reused by the next call.
+ * time, even when the first usable sample comes later) and finite values, less the samples
+ * the lab left out, converted to dry mole fraction. The arrays returned are scratch buffers reused by the next call.
  */
 import type { ClosureInput } from './closure-input';
 import { dryMoleFractionPpm, waterMoleFraction } from './dry-mole-fraction';
@@ -64,9 +64,17 @@ export function checkInput(input: ClosureInput): string | null {
   return null;
 }
 
-export function extractWindow(input: ClosureInput): WindowOutcome {
-  const error = checkInput(input);
-  if (error) return { ok: false, error };
+/** The series fields that decide which samples a fit uses. */
+export type WindowSeries = Pick<ClosureInput, 'tS' | 'co2Ppm' | 'h2oMmolMol' | 'co2IsDry' | 'settleS' | 'windowEndS' | 'excludedIndices'>;
+
+interface Collected { n: number; gaps: boolean; sorted: boolean; useWater: boolean; h2oArray: readonly (number | null)[] | null; h2oConst: number }
+
+/**
+ * The one rule for which samples a fit uses: finite t within [t0, window end], not left out by
+ * the lab (`excludedIndices`), finite CO2 and, when the closure has water data, a usable H2O
+ * value. Fills the scratch buffers; a left-out sample is not a gap.
+ */
+function collectWindow(input: WindowSeries): Collected {
   const { tS, co2Ppm } = input;
   const len = tS.length;
   if (tauBuf.length < len) {
@@ -81,6 +89,7 @@ export function extractWindow(input: ClosureInput): WindowOutcome {
   const h2oConst = isNum(h2o) ? h2o : NaN;
   const useWater = h2oArray ? h2oArray.some(isNum) : isNum(h2o);
   const alreadyDry = input.co2IsDry === true;
+  const left = input.excludedIndices?.length ? excludedMask(input.excludedIndices, len) : null;
   let n = 0;
   let seenWindow = false;
   let gaps = false;
@@ -93,6 +102,7 @@ export function extractWindow(input: ClosureInput): WindowOutcome {
     }
     if (t < t0 || t > end) continue;
     seenWindow = true;
+    if (left && left[i]) continue;
     const c = co2Ppm[i];
     const w = h2oArray ? h2oArray[i] : h2oConst;
     if (!isNum(c) || (useWater && !(isNum(w) && w < 1000))) {
@@ -106,6 +116,25 @@ export function extractWindow(input: ClosureInput): WindowOutcome {
     idxBuf[n] = i;
     n++;
   }
+  return { n, gaps, sorted, useWater, h2oArray, h2oConst };
+}
+
+function excludedMask(indices: readonly number[], len: number): Uint8Array {
+  const mask = new Uint8Array(len);
+  for (const i of indices) if (Number.isInteger(i) && i >= 0 && i < len) mask[i] = 1;
+  return mask;
+}
+
+/** How many samples a fit of this series would use (the window rule of collectWindow). */
+export function usablePointCount(input: WindowSeries): number {
+  if (!Array.isArray(input.tS) || !Array.isArray(input.co2Ppm) || !isNum(input.settleS)) return 0;
+  return collectWindow(input).n;
+}
+
+export function extractWindow(input: ClosureInput): WindowOutcome {
+  const error = checkInput(input);
+  if (error) return { ok: false, error };
+  const { n, gaps, sorted, useWater, h2oArray, h2oConst } = collectWindow(input);
   if (n === 0) return { ok: false, error: 'no usable points after the settle time' };
   if (!sorted) sortByTau(n);
   const p = atFirstUsed(input.pressureKpa, idxBuf, n);
@@ -117,7 +146,7 @@ export function extractWindow(input: ClosureInput): WindowOutcome {
     ok: true,
     window: {
       n,
-      t0S: t0,
+      t0S: input.settleS,
       tau: tauBuf,
       chi: chiBuf,
       tauMax: tauBuf[n - 1],

@@ -2,6 +2,7 @@
 export const engineVersion = '1.1.0';
 
 export { fitClosure, invalidFit } from './closure-fit';
+export { exclusionProblems, usablePointCount, type ExclusionProblem } from './point-exclusion';
 export { fitLinearRaw, type LinearRaw } from './linear-fit';
 export { DEFAULT_SLOPE_BASIS, SLOPE_BASES, type SlopeBasis } from './closure-input';
 export type {
