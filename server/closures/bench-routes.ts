@@ -3,11 +3,14 @@ import { z } from 'zod';
 import type { Role } from '../../shared/auth/roles';
 import { notFound } from '../core/errors';
 import type { RouteRegistry } from '../core/route-registry';
+import { excludePointsSchema, restorePointsSchema } from '../../shared/model/point-exclusion';
 import { parse } from '../core/validate';
+import { answer } from '../records/record-routes';
 import { siteForActor } from '../setup/site-access';
 import { bulkAccept } from './bulk-accept';
 import { closureDetail } from './closure-detail';
 import { closureHistory } from './closure-history';
+import { changeExclusions } from './point-exclusions';
 import { defineRecomputeJob, requestSiteRecompute } from './recompute-triggers';
 import { queueFilterSchema, queueItem, reviewQueue } from './review-queue';
 
@@ -16,6 +19,8 @@ const BENCH_READERS: readonly Role[] = ['lab', 'lead', 'admin'];
 const idParams = z.object({ id: z.string().uuid('Closure ids are UUIDs') });
 /** Bulk accept always names a site: an empty filter must never accept every site's closures. */
 const bulkAcceptFilter = queueFilterSchema.extend({ siteId: z.string({ message: 'Name the site whose closures to accept' }).uuid('Site ids are UUIDs') });
+/** Leaving points out of a fit changes the data a flux stands on: the lab's, and admins' (the writer enforces it too). */
+const FIT_DATA_EDITORS: readonly Role[] = ['lab', 'admin'];
 const recomputeBody = z.object({ siteId: z.string().uuid('siteId must be a UUID') });
 
 /**
@@ -31,6 +36,16 @@ export function registerBenchRoutes(r: RouteRegistry, ds: DataSource): void {
     const { id } = parse(idParams, req.params);
     if (!(await queueItem(ds, req.user!, id))) throw notFound(`No closure ${id}`);
     return { items: await closureHistory(ds, id) };
+  });
+  r.add('post', '/api/bench/closures/:id/exclusions', FIT_DATA_EDITORS, async (req, res) => {
+    const { id } = parse(idParams, req.params);
+    const exclude = parse(excludePointsSchema, req.body, 'Name the points to leave out and why');
+    return answer(res, await changeExclusions(ds, req.user!, id, { exclude }));
+  });
+  r.add('post', '/api/bench/closures/:id/exclusions/restore', FIT_DATA_EDITORS, async (req, res) => {
+    const { id } = parse(idParams, req.params);
+    const restore = parse(restorePointsSchema, req.body, 'Name the excluded points to put back');
+    return answer(res, await changeExclusions(ds, req.user!, id, { restore }));
   });
   r.add('post', '/api/bench/bulk-accept', ['lab'], (req) =>
     bulkAccept(ds, req.user!, parse(bulkAcceptFilter, stringify(req.body), 'Some queue filters are not valid')));

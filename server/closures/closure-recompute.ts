@@ -31,7 +31,7 @@ const PAGE = 1000;
 const MAX_LISTED = 2000;
 
 const COLUMNS = `c.id, c.rev, c.site_id, c.collar_id, c.analyzer_id, c.profile_id, c.visit_id, c.started_at, c.settle_s, c.series, c.review_state,
-  c.review_settle_s, c.review_window_end_s, c.review_model, c.results, c.flags, c.flux_umol_m2_s, p.locked`;
+  c.review_settle_s, c.review_window_end_s, c.review_model, c.review_exclusions, c.results, c.flags, c.flux_umol_m2_s, p.locked`;
 
 /**
  * Recomputes the closures of a scope with the engine and writes only those whose results,
@@ -152,7 +152,7 @@ function wireOf(r: Record<string, unknown>): Record<string, unknown> {
     id: r['id'], rev: Number(r['rev']), siteId: r['site_id'], collarId: r['collar_id'], analyzerId: r['analyzer_id'],
     profileId: r['profile_id'], visitId: r['visit_id'],
     startedAt: (r['started_at'] as Date).toISOString(), settleS: r['settle_s'], series: r['series'], reviewState: r['review_state'],
-    reviewSettleS: r['review_settle_s'], reviewWindowEndS: r['review_window_end_s'], reviewModel: r['review_model'],
+    reviewSettleS: r['review_settle_s'], reviewWindowEndS: r['review_window_end_s'], reviewModel: r['review_model'], reviewExclusions: r['review_exclusions'],
     results: r['results'], flags: r['flags'], fluxUmolM2S: r['flux_umol_m2_s'],
   };
 }

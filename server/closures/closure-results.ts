@@ -18,7 +18,7 @@ const failed = (error: string): ClosureFitResult => invalidFit(error);
 /**
  * Runs the flux engine on a closure as stored: once with the raw settle time (`raw`, never
  * changed by review) and, when the lab moved the settle time, window or model, once more with
- * those (`review`). The flux shown is the review's when there is one.
+ * those or left points out (`review`). The flux shown is the review's when there is one.
  */
 export function resultsFor(c: Record<string, unknown>, ctx: ClosureContext): ClosureResults {
   const series = c['series'] as Series;
@@ -31,23 +31,24 @@ export function resultsFor(c: Record<string, unknown>, ctx: ClosureContext): Clo
   const pressureKpa = defaultPressure
     ? (ctx.elevationM === null ? NaN : pressureFromElevationKpa(ctx.elevationM))
     : (series.pressureKpa as (number | null)[]);
-  const fit = (settleS: number, windowEndS: number | null, model: 'auto' | 'linear' | 'exponential' | 'quadratic') => {
+  const fit = (settleS: number, windowEndS: number | null, model: 'auto' | 'linear' | 'exponential' | 'quadratic', excludedIndices: number[] = []) => {
     if (!volume.ok) return failed(volume.error);
     if (!temp.ok) return failed(temp.error);
     return fitClosure({
       tS: series.tS, co2Ppm: series.co2Ppm, co2IsDry: series.co2IsDry === true, h2oMmolMol: series.h2oMmolMol ?? null, pressureKpa,
       tempC: temp.tempC, tempSource: temp.source,
       volumeCm3: volume.value.volumeCm3, areaCm2: volume.value.areaCm2, footprintAreaCm2: volume.value.footprintAreaCm2,
-      settleS, windowEndS, model, slopeAt: ctx.slopeBasis,
+      settleS, windowEndS, excludedIndices, model, slopeAt: ctx.slopeBasis,
       ambientPpm: ctx.ambientPpm, ambientMarginPpm: ctx.ambientMarginPpm, precisionPpm: ctx.precisionPpm ?? undefined,
       pressureIsDefault: defaultPressure, offsetAfter: volume.value.flags.includes('offset-after'),
     });
   };
   const raw = fit(Number(c['settleS']), null, 'auto');
-  const reviewed = c['reviewSettleS'] != null || c['reviewWindowEndS'] != null || c['reviewModel'] != null;
+  const excluded = ((c['reviewExclusions'] as { index: number }[] | null | undefined) ?? []).map((e) => e.index);
+  const reviewed = c['reviewSettleS'] != null || c['reviewWindowEndS'] != null || c['reviewModel'] != null || excluded.length > 0;
   const review = reviewed
     ? fit(Number(c['reviewSettleS'] ?? c['settleS']), (c['reviewWindowEndS'] as number | null) ?? null,
-      (c['reviewModel'] as 'linear' | 'exponential' | 'quadratic' | null) ?? 'auto')
+      (c['reviewModel'] as 'linear' | 'exponential' | 'quadratic' | null) ?? 'auto', excluded)
     : null;
   const shown = review ?? raw;
   const v = volume.ok ? volume.value : null;

@@ -1,6 +1,6 @@
 import type { EntityTarget, ObjectLiteral } from 'typeorm';
 import type { Role } from '../../shared/auth/roles';
-import { CLOSURE_REVIEW_FIELDS, CLOSURE_SYSTEM_FIELDS } from '../../shared/model/field-records';
+import { CLOSURE_FIT_DATA_FIELDS, CLOSURE_REVIEW_FIELDS, CLOSURE_SYSTEM_FIELDS } from '../../shared/model/field-records';
 import type { EntityName } from '../../shared/model/entities';
 import { CampaignEntity } from '../campaigns/campaign.entity';
 import { RouteEntity } from '../campaigns/route.entity';
@@ -83,12 +83,21 @@ function collarFieldRule(roles: readonly Role[], action: WriteAction, changed: r
 
 /**
  * The lab sets review fields and never raw readings; field crews never set review fields. The
- * chamber system (profile, analyzer) is the crew's pick that the lab may correct.
+ * chamber system (profile, analyzer) is the crew's pick that the lab may correct. Admins may
+ * leave points out of a fit (CLOSURE_FIT_DATA_FIELDS) and change nothing else of a closure.
  */
 function closureFieldRule(roles: readonly Role[], action: WriteAction, changed: readonly string[], next: Record<string, unknown>) {
   // A device creating a closure sends the review fields at their defaults; only a real decision counts.
-  const isDecision = (f: string) => action !== 'create' || (next[f] !== null && next[f] !== 'unreviewed');
-  const review = changed.filter((f) => (CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f) && isDecision(f));
+  const isDecision = (f: string) => action !== 'create'
+    || (next[f] !== null && next[f] !== 'unreviewed' && !(Array.isArray(next[f]) && !(next[f] as unknown[]).length));
+  const fitData = (f: string) => (CLOSURE_FIT_DATA_FIELDS as readonly string[]).includes(f);
+  if (action === 'update' && has(roles, 'admin') && !has(roles, 'lab', 'crew', 'lead')) {
+    const other = changed.filter((f) => !fitData(f));
+    return other.length ? `An admin may only leave points out of a closure's fit, not change ${other.join(', ')}` : null;
+  }
+  const fitDataSet = changed.filter((f) => fitData(f) && isDecision(f));
+  if (fitDataSet.length && !has(roles, 'lab', 'admin')) return 'Only the lab or an admin may leave points out of a closure\'s fit';
+  const review = changed.filter((f) => (CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f) && !fitData(f) && isDecision(f));
   const raw = changed.filter((f) => !(CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f) && !(CLOSURE_SYSTEM_FIELDS as readonly string[]).includes(f));
   if (action === 'update' && raw.length && !has(roles, 'crew', 'lead')) {
     return `The lab reviews closures but never changes raw readings (${raw.join(', ')})`;
@@ -150,7 +159,7 @@ export const ENTITY_DEFS: Record<EntityName, EntityDef> = {
   probeReading: def('probeReading', ProbeReadingEntity, 'probe_reading', { create: FIELD, update: FIELD, delete: FIELD },
     { refs: { visitId: 'visit', collarId: 'collar', campaignId: 'campaign' }, members: ['takenById'], underCampaign: true, agreements: [UNDER_VISIT],
       immutable: ['siteId', 'visitId', 'collarId', 'campaignId', 'takenById'], timeField: 'takenAt', order: { takenAt: 'ASC' } }),
-  closure: def('closure', ClosureEntity, 'closure', { create: FIELD, update: ['crew', 'lead', 'lab'], delete: LEAD, fieldRule: closureFieldRule },
+  closure: def('closure', ClosureEntity, 'closure', { create: FIELD, update: ['crew', 'lead', 'lab', 'admin'], delete: LEAD, fieldRule: closureFieldRule },
     { refs: { visitId: 'visit', collarId: 'collar', campaignId: 'campaign', profileId: 'chamberProfile', analyzerId: 'analyzer',
       sourceAttachmentId: 'attachment', redoOfId: 'closure' },
       agreements: [UNDER_VISIT, { ref: 'redoOfId', target: 'closure', same: ['visitId'] }], follows: reviewResetOnRawChange,

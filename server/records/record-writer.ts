@@ -1,7 +1,7 @@
 import type { EntityManager, ObjectLiteral } from 'typeorm';
 import { readsSite, type Role } from '../../shared/auth/roles';
 import { DERIVED_FIELDS, ENTITY_FIELDS, type EntityName } from '../../shared/model/entities';
-import { CLOSURE_REVIEW_FIELDS } from '../../shared/model/field-records';
+import { CLOSURE_FIT_DATA_FIELDS, CLOSURE_REVIEW_FIELDS } from '../../shared/model/field-records';
 import { fieldErrorsFromZod } from '../core/errors';
 import { notifyWritten } from './after-write';
 import { checkGuards, hasGuards } from './write-guards';
@@ -215,9 +215,13 @@ function repeatedCreate(d: EntityDef, current: Record<string, unknown>, incoming
   return conflict(differing, current);
 }
 
-/** The lab's review of a closure is not a field edit: a locked campaign still accepts it. */
+/**
+ * The lab's decision on a closure is not a field edit: a locked campaign still accepts it. Points
+ * left out of the fit change the data the flux stands on: a locked campaign refuses them.
+ */
 function reviewOnly(d: EntityDef, changed: string[]): boolean {
-  return d.name === 'closure' && changed.every((f) => (CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f));
+  return d.name === 'closure' && changed.every((f) => (CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f)
+    && !(CLOSURE_FIT_DATA_FIELDS as readonly string[]).includes(f));
 }
 
 function conflict(fields: string[], server: Record<string, unknown>): WriteOutcome {

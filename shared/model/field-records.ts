@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { isoDate, isoDateTime, name, ranged, text, uuid } from './common';
+import { checkExclusions, reviewExclusionsSchema } from './point-exclusion';
 
 export const COLLAR_STATUSES = ['active', 'damaged', 'retired'] as const;
 export const COLLAR_SHAPES = ['round', 'rectangular'] as const;
@@ -183,12 +184,23 @@ export const closureFields = z.object({
   reviewSettleS: ranged(0, 600, 's', 'Review settle time').nullable().default(null),
   reviewWindowEndS: ranged(1, 7200, 's', 'Review window end').nullable().default(null),
   reviewModel: z.enum(['linear', 'exponential', 'quadratic']).nullable().default(null),
-}).refine((c) => c.reviewState !== 'rejected' || (c.reviewReason ?? '').trim().length > 0, {
-  message: 'A rejection needs a reason', path: ['reviewReason'],
+  /** Samples the lab left out of the fit, each with its reason (point-exclusion.ts); the series keeps them. */
+  reviewExclusions: reviewExclusionsSchema.default([]),
+}).superRefine((c, ctx) => {
+  if (c.reviewState === 'rejected' && !(c.reviewReason ?? '').trim().length) {
+    ctx.addIssue({ code: 'custom', message: 'A rejection needs a reason', path: ['reviewReason'] });
+  }
+  checkExclusions(c, ctx);
 });
 
 /** Closure fields only the lab (review) may set; every other closure field is raw data. */
-export const CLOSURE_REVIEW_FIELDS = ['reviewState', 'reviewReason', 'reviewSettleS', 'reviewWindowEndS', 'reviewModel'] as const;
+export const CLOSURE_REVIEW_FIELDS = ['reviewState', 'reviewReason', 'reviewSettleS', 'reviewWindowEndS', 'reviewModel', 'reviewExclusions'] as const;
+/**
+ * Review fields that change which data the flux stands on (points left out): refused in a locked
+ * campaign like raw edits, and open to admins as well as the lab. The other review fields are
+ * decisions a locked campaign still takes.
+ */
+export const CLOSURE_FIT_DATA_FIELDS = ['reviewExclusions'] as const;
 /**
  * The chamber system a closure was made with: set by the crew's device when the closure is made
  * and correctable by the lab (a wrong pick at the start of the day), each correction kept in the

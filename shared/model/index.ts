@@ -5,3 +5,4 @@ export * from './field-records';
 export * from './site-layout';
 export * from './temperature-log';
 export * from './calibration';
+export * from './point-exclusion';
