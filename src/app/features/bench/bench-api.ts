@@ -3,6 +3,7 @@ import { Injectable, inject } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
 import type { RecordMeta } from '../../../../shared/model/common';
 import type { EntityFields } from '../../../../shared/model/entities';
+import type { PointsChange } from './point-exclusions';
 
 /** A closure as the server stores it: the shared schema's fields, the fields only the server derives, and the record's metadata. */
 type StoredClosure = Omit<EntityFields<'closure'>, 'series' | 'results'> & RecordMeta & { flags: string[]; fluxUmolM2S: number | null };
@@ -100,6 +101,13 @@ export class BenchApi {
 
   decide(id: string, rev: number, fields: Record<string, unknown>): Promise<{ record: StoredClosure }> {
     return firstValueFrom(this.http.patch<{ record: StoredClosure }>(`/api/closures/${id}`, { rev, ...fields }));
+  }
+
+  /** Leaves points out of a closure's fit, or puts them back; answers the recomputed closure. */
+  changePoints(id: string, change: PointsChange): Promise<{ record: StoredClosure }> {
+    return 'exclude' in change
+      ? firstValueFrom(this.http.post<{ record: StoredClosure }>(`/api/bench/closures/${id}/exclusions`, { indices: change.exclude, reason: change.reason }))
+      : firstValueFrom(this.http.post<{ record: StoredClosure }>(`/api/bench/closures/${id}/exclusions/restore`, { indices: change.restore }));
   }
 
   bulkAccept(filter: QueueFilter): Promise<{ accepted: number; skipped: { id: string; reason: string }[] }> {

@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, ElementRef, OnDestroy, afterNextRender, effect, input, viewChild } from '@angular/core';
+import { ChangeDetectionStrategy, Component, ElementRef, OnDestroy, afterNextRender, effect, input, output, viewChild } from '@angular/core';
 import uPlot from 'uplot';
 import { dryMoleFractionPpm } from '../../../../shared/flux';
 import type { FitResult } from './bench-api';
@@ -10,6 +10,8 @@ export interface ChartInput {
   settleS: number;
   windowEndS: number | null;
   fit: FitResult;
+  /** Sample indices the lab left out of the fit: drawn apart (open red rings), no residual. */
+  excluded?: readonly number[];
 }
 
 /** Fitted curves as the engine defines them: τ = t − settle; line a + b·τ; Kutzbach et al. (2007) p1 + p2·exp(p3·τ). */
@@ -22,8 +24,8 @@ function curves(c: ChartInput) {
 }
 
 /**
- * Dry CO2 against time with the settle time shaded, the linear and exponential fits, and the
- * residuals of the selected model below. uPlot draws to a canvas and handles tens of thousands of
+ * Dry CO2 against time with the settle time shaded, the linear and exponential fits, points the
+ * lab left out as open red rings, and the residuals of the selected model below. uPlot draws to a canvas and handles tens of thousands of
  * points per series without slowing the review down (closures at 10 Hz and the collar's season);
  * an SVG or DOM-per-point chart would not keep up with next/previous at keyboard speed.
  */
@@ -36,6 +38,8 @@ function curves(c: ChartInput) {
 export class ClosureChart implements OnDestroy {
   readonly data = input.required<ChartInput>();
   readonly label = input('Dry CO2 against time');
+  /** A sample tapped or clicked on the main chart (its index in the series). */
+  readonly pick = output<number>();
   private readonly plotEl = viewChild.required<ElementRef<HTMLElement>>('plot');
   private readonly residEl = viewChild.required<ElementRef<HTMLElement>>('resid');
   private charts: uPlot[] = [];
@@ -68,9 +72,12 @@ export class ClosureChart implements OnDestroy {
       const h = c.h2oMmolMol?.[i];
       return v === null ? null : typeof h === 'number' ? dryMoleFractionPpm(v, h) : v;
     });
+    const out = new Set(c.excluded ?? []);
+    const kept = dry.map((v, i) => (out.has(i) ? null : v));
+    const left = dry.map((v, i) => (out.has(i) ? v : null));
     const { line, expo } = curves(c);
     const selected = c.fit.selected?.model === 'exponential' ? expo : line;
-    const resid = dry.map((v, i) => (v !== null && selected[i] !== null ? v - (selected[i] as number) : null));
+    const resid = kept.map((v, i) => (v !== null && selected[i] !== null ? v - (selected[i] as number) : null));
     const width = this.width();
     const settle = c.settleS, end = c.windowEndS;
     const shade = (u: uPlot) => {
@@ -91,9 +98,14 @@ export class ClosureChart implements OnDestroy {
       axes: [{ label: 's since the chamber seated' }, { label: 'dry CO2, µmol/mol', size: 60 }],
       series: [{}, { label: 'dry CO2', stroke: '#37474f', width: 0, points: { show: true, size: 3, fill: '#37474f' } },
         { label: 'linear', stroke: '#1565c0', width: 2, points: { show: false } },
-        { label: 'exponential', stroke: '#c62828', width: 2, dash: [6, 4], points: { show: false } }],
+        { label: 'exponential', stroke: '#c62828', width: 2, dash: [6, 4], points: { show: false } },
+        { label: 'left out', stroke: '#d32f2f', width: 0, points: { show: true, size: 8, width: 2, stroke: '#d32f2f', fill: '#ffffff' } }],
       hooks: { drawClear: [shade] },
-    }, [x, dry, line, expo] as uPlot.AlignedData, this.plotEl().nativeElement);
+    }, [x, kept, line, expo, left] as uPlot.AlignedData, this.plotEl().nativeElement);
+    main.over.addEventListener('click', () => {
+      const i = main.cursor.idx;
+      if (typeof i === 'number' && dry[i] !== null) this.pick.emit(i);
+    });
     const res = new uPlot({
       width, height: 110, legend: { show: false }, scales: { x: { time: false } },
       axes: [{}, { label: 'residual', size: 60 }],

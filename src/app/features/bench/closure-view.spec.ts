@@ -45,6 +45,17 @@ describe('ClosureView: raw changes since review', () => {
     expect(el.querySelector('[data-testid="history"]')!.textContent).toContain('raw data changed · settleS: 20 → 30');
   });
 
+  it('when points were left out and put back, then the history says which points and why', () => {
+    const el = render(detail({}, [
+      { id: 1, at: '2026-06-02T10:15:00.000Z', kind: 'decision', field: 'reviewExclusions', oldValue: [],
+        newValue: [{ index: 1, reason: 'Spike' }, { index: 2, reason: 'Spike' }], oldFluxUmolM2S: 1, newFluxUmolM2S: 0.9, userName: 'Lab' },
+      { id: 2, at: '2026-06-02T10:16:00.000Z', kind: 'decision', field: 'reviewExclusions', oldValue: [{ index: 1, reason: 'Spike' }, { index: 2, reason: 'Spike' }],
+        newValue: [], oldFluxUmolM2S: 0.9, newFluxUmolM2S: 1, userName: 'Lab' }]));
+    const text = el.querySelector('[data-testid="history"]')!.textContent!.replace(/\s+/g, ' ');
+    expect(text).toContain('points left out: none → 1–2 (Spike)');
+    expect(text).toContain('points left out: 1–2 (Spike) → none');
+  });
+
   it('when nothing changed since the last decision, then there is no such notice', () => {
     expect(render(detail({})).querySelector('[data-testid="changed-since-review"]')).toBeNull();
   });

@@ -9,8 +9,11 @@ import type { ClosureDetail, FitResult } from './bench-api';
 import { ClosureChart, type ChartInput } from './closure-chart';
 import { ClosureSystem } from './closure-system';
 import { detectionLimitNote, fluxBases } from './flux-bases';
+import { PointExclusions, exclusionText, type PointsChange } from './point-exclusions';
+import type { PointExclusion } from '../../../../shared/model/point-exclusion';
 
-export interface Decision { fields: Record<string, unknown> }
+/** A review-field edit (PATCH), or points left out of the fit / put back (the Bench's exclusion routes). */
+export interface Decision { fields: Record<string, unknown>; points?: PointsChange }
 
 /**
  * One closure under review: the chart, the numbers of both fits, where the volume came from, the
@@ -19,7 +22,7 @@ export interface Decision { fields: Record<string, unknown> }
  */
 @Component({
   selector: 'fw-closure-view',
-  imports: [ClosureChart, ClosureSystem, DatePipe, DecimalPipe, FormsModule, MatButtonModule, MatInputModule, MatListModule, MatSelectModule],
+  imports: [ClosureChart, ClosureSystem, DatePipe, PointExclusions, DecimalPipe, FormsModule, MatButtonModule, MatInputModule, MatListModule, MatSelectModule],
   templateUrl: './closure-view.html',
   styleUrl: './bench.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -33,6 +36,7 @@ export class ClosureView {
   protected readonly model = signal<string>('');
   protected readonly reason = signal('');
   private readonly reasonInput = viewChild<ElementRef<HTMLInputElement>>('reasonInput');
+  private readonly pointPicker = viewChild(PointExclusions);
 
   protected readonly c = computed(() => this.detail().closure);
   protected readonly fit = computed<FitResult>(() => this.c().results.review ?? this.c().results.raw);
@@ -41,7 +45,12 @@ export class ClosureView {
     tS: this.c().series['tS'] as (number | null)[], co2Ppm: this.c().series['co2Ppm'] as (number | null)[],
     h2oMmolMol: (this.c().series['h2oMmolMol'] as (number | null)[] | null) ?? null,
     settleS: this.effectiveSettle(), windowEndS: (this.c()['reviewWindowEndS'] as number | null) ?? null, fit: this.fit(),
+    excluded: this.exclusions().map((e) => e.index),
   }));
+  protected readonly exclusions = computed<PointExclusion[]>(() => (this.c()['reviewExclusions'] as PointExclusion[] | undefined) ?? []);
+  /** The review history with points left out in words ("45–48 (Spike)") rather than as lists. */
+  protected readonly history = computed(() => this.detail().history.map((h) => (h.field === 'reviewExclusions'
+    ? { ...h, field: 'points left out', oldValue: exclusionText(h.oldValue), newValue: exclusionText(h.newValue) } : h)));
   protected readonly bases = computed(() => fluxBases(this.fit()));
   protected readonly detectionLimit = computed(() => detectionLimitNote(this.fit()));
   protected readonly startCo2 = computed(() => (this.c().series['co2Ppm'] as (number | null)[]).find((v) => v !== null) ?? null);
@@ -68,6 +77,14 @@ export class ClosureView {
   nudgeSettle(by: number): void {
     this.settle.set(Math.max(0, Math.min(600, this.effectiveSettle() + by)));
     this.applyFit();
+  }
+
+  protected pickPoint(index: number): void {
+    this.pointPicker()?.pick(index);
+  }
+
+  protected changePoints(points: PointsChange): void {
+    this.decide.emit({ fields: {}, points });
   }
 
   focusReason(): void {
