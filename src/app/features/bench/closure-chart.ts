@@ -14,6 +14,9 @@ export interface ChartInput {
   excluded?: readonly number[];
 }
 
+/** Charts of one closure share their cursor (the traces under the CO2 chart follow it). */
+export const CURSOR_SYNC_KEY = 'fw-closure';
+
 /** Fitted curves as the engine defines them: τ = t − settle; line a + b·τ; Kutzbach et al. (2007) p1 + p2·exp(p3·τ). */
 function curves(c: ChartInput) {
   const lin = c.fit.linear, exp = c.fit.exponential, w = c.fit.window;
@@ -93,7 +96,7 @@ export class ClosureChart implements OnDestroy {
       ctx.restore();
     };
     const main = new uPlot({
-      width, height: 260, legend: { show: false }, cursor: { drag: { x: false, y: false } },
+      width, height: 260, legend: { show: false }, cursor: { drag: { x: false, y: false }, sync: { key: CURSOR_SYNC_KEY } },
       scales: { x: { time: false } },
       axes: [{ label: 's since the chamber seated' }, { label: 'dry CO2, µmol/mol', size: 60 }],
       series: [{}, { label: 'dry CO2', stroke: '#37474f', width: 0, points: { show: true, size: 3, fill: '#37474f' } },

@@ -2,6 +2,7 @@ import { ChangeDetectionStrategy, Component, input } from '@angular/core';
 import { TestBed } from '@angular/core/testing';
 import type { ClosureDetail, FitResult, QueueItem } from './bench-api';
 import { ClosureChart } from './closure-chart';
+import { ClosureTraces } from './closure-traces';
 import { ClosureView } from './closure-view';
 
 /** jsdom has no canvas: the chart is replaced by an empty element with the same inputs. */
@@ -27,9 +28,14 @@ function detail(context: Partial<QueueItem>, history: ClosureDetail['history'] =
   };
 }
 
+@Component({ selector: 'fw-closure-traces', template: '' })
+class NoTraces {
+  readonly series = input<unknown>();
+}
+
 function render(d: ClosureDetail): HTMLElement {
   TestBed.configureTestingModule({ imports: [ClosureView] });
-  TestBed.overrideComponent(ClosureView, { remove: { imports: [ClosureChart] }, add: { imports: [NoChart] } });
+  TestBed.overrideComponent(ClosureView, { remove: { imports: [ClosureChart, ClosureTraces] }, add: { imports: [NoChart, NoTraces] } });
   const fixture = TestBed.createComponent(ClosureView);
   fixture.componentRef.setInput('detail', d);
   fixture.detectChanges();

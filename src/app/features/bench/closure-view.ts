@@ -8,6 +8,7 @@ import { MatSelectModule } from '@angular/material/select';
 import type { ClosureDetail, FitResult } from './bench-api';
 import { ClosureChart, type ChartInput } from './closure-chart';
 import { ClosureSystem } from './closure-system';
+import { ClosureTraces } from './closure-traces';
 import { detectionLimitNote, fluxBases } from './flux-bases';
 import { PointExclusions, exclusionText, type PointsChange } from './point-exclusions';
 import type { PointExclusion } from '../../../../shared/model/point-exclusion';
@@ -22,7 +23,7 @@ export interface Decision { fields: Record<string, unknown>; points?: PointsChan
  */
 @Component({
   selector: 'fw-closure-view',
-  imports: [ClosureChart, ClosureSystem, DatePipe, PointExclusions, DecimalPipe, FormsModule, MatButtonModule, MatInputModule, MatListModule, MatSelectModule],
+  imports: [ClosureChart, ClosureSystem, ClosureTraces, DatePipe, PointExclusions, DecimalPipe, FormsModule, MatButtonModule, MatInputModule, MatListModule, MatSelectModule],
   templateUrl: './closure-view.html',
   styleUrl: './bench.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
