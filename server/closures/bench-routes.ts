@@ -11,6 +11,7 @@ import { bulkAccept } from './bulk-accept';
 import { closureDetail } from './closure-detail';
 import { closureHistory } from './closure-history';
 import { changeExclusions } from './point-exclusions';
+import { moveClosure, moveClosureSchema } from './closure-move';
 import { defineRecomputeJob, requestSiteRecompute } from './recompute-triggers';
 import { queueFilterSchema, queueItem, reviewQueue } from './review-queue';
 
@@ -19,7 +20,7 @@ const BENCH_READERS: readonly Role[] = ['lab', 'lead', 'admin'];
 const idParams = z.object({ id: z.string().uuid('Closure ids are UUIDs') });
 /** Bulk accept always names a site: an empty filter must never accept every site's closures. */
 const bulkAcceptFilter = queueFilterSchema.extend({ siteId: z.string({ message: 'Name the site whose closures to accept' }).uuid('Site ids are UUIDs') });
-/** Leaving points out of a fit changes the data a flux stands on: the lab's, and admins' (the writer enforces it too). */
+/** Leaving points out of a fit or moving a closure changes the data a flux stands on: the lab's, and admins' (the writer enforces it too). */
 const FIT_DATA_EDITORS: readonly Role[] = ['lab', 'admin'];
 const recomputeBody = z.object({ siteId: z.string().uuid('siteId must be a UUID') });
 
@@ -46,6 +47,11 @@ export function registerBenchRoutes(r: RouteRegistry, ds: DataSource): void {
     const { id } = parse(idParams, req.params);
     const restore = parse(restorePointsSchema, req.body, 'Name the excluded points to put back');
     return answer(res, await changeExclusions(ds, req.user!, id, { restore }));
+  });
+  r.add('post', '/api/bench/closures/:id/move', FIT_DATA_EDITORS, async (req, res) => {
+    const { id } = parse(idParams, req.params);
+    const { visitId } = parse(moveClosureSchema, req.body ?? {}, 'Name the visit to move the closure to');
+    return answer(res, await moveClosure(ds, req.user!, id, visitId));
   });
   r.add('post', '/api/bench/bulk-accept', ['lab'], (req) =>
     bulkAccept(ds, req.user!, parse(bulkAcceptFilter, stringify(req.body), 'Some queue filters are not valid')));

@@ -42,6 +42,10 @@ export async function closureDetail(ds: DataSource, user: SessionUser, id: strin
     [closure['siteId']]);
   const analyzers: { id: string; name: string; serial: string }[] = await ds.query(
     `SELECT id, name, serial FROM analyzer WHERE site_id = $1 AND NOT deleted ORDER BY name`, [closure['siteId']]);
+  // Where the lab may move the closure (a crew tapped the wrong collar): the other visits of its campaign.
+  const moveTargets: { id: string; round: number; collar_id: string; code: string }[] = await ds.query(
+    `SELECT v.id, v.round, v.collar_id, k.code FROM visit v JOIN collar k ON k.id = v.collar_id
+      WHERE v.campaign_id = $1 AND v.id <> $2 AND NOT v.deleted ORDER BY v.round, k.code LIMIT 5000`, [closure['campaignId'], closure['visitId']]);
   const counted = replicates.filter((r) => r['review_state'] !== 'rejected' && typeof r['flux_umol_m2_s'] === 'number');
   return {
     closure,
@@ -57,6 +61,7 @@ export async function closureDetail(ds: DataSource, user: SessionUser, id: strin
       tS: r['t_s'], co2Ppm: r['co2_ppm'] })),
     replicateSpread: replicateSpread(counted.map((r) => r['flux_umol_m2_s'] as number)),
     history: await closureHistory(ds, id),
+    moveTargets: moveTargets.map((v) => ({ visitId: v.id, round: v.round, collarId: v.collar_id, collarCode: v.code })),
     systems: { profiles: profiles.map((p) => ({ id: p.id, name: p.name, validFrom: p.valid_from })), analyzers },
   };
 }

@@ -5,7 +5,7 @@ import type { WrittenRecord } from '../records/after-write';
 export interface HistoryEntry {
   id: number;
   at: string;
-  kind: 'decision' | 'recompute' | 'raw-change';
+  kind: 'decision' | 'recompute' | 'raw-change' | 'move';
   field: string;
   oldValue: unknown;
   newValue: unknown;
@@ -30,15 +30,22 @@ function historyValue(field: string, v: unknown): string {
  * way it arrives (Bench, REST, a sync push), leaves one history row per field it changed: who, when, old → new, and the flux before and after. A raw
  * change to a reviewed closure (which sends it back to review, see reviewResetOnRawChange) leaves
  * `raw-change` rows instead: one per raw field and one for the review state it reset, all by the
- * person who changed the data. Runs in the writer's transaction (see records/after-write.ts).
+ * person who changed the data. A move to another visit leaves `move` rows (visitId, collarId). Runs
+ * in the writer's transaction (see records/after-write.ts).
  */
 export async function recordReviewDecision(w: WrittenRecord): Promise<void> {
   if (w.entity !== 'closure' || w.action !== 'update' || !w.before) return;
+  // A move (closures/closure-move.ts) is the only write that changes a closure's visit and collar.
+  const moved = w.changed.filter((f) => f === 'visitId' || f === 'collarId');
+  if (moved.length) return insertRows(w, moved, 'move');
   const raw = w.before['reviewState'] !== 'unreviewed' ? w.changed.filter((f) => !isReviewField(f)) : [];
   const fields = [...raw, ...w.changed.filter(isReviewField)];
   if (!fields.length || fields.length === raw.length) return;
-  const kind = raw.length ? 'raw-change' : 'decision';
-  const oldFlux = (w.before['fluxUmolM2S'] as number | null) ?? null;
+  return insertRows(w, fields, raw.length ? 'raw-change' : 'decision');
+}
+
+async function insertRows(w: WrittenRecord, fields: string[], kind: HistoryEntry['kind']): Promise<void> {
+  const oldFlux = (w.before!['fluxUmolM2S'] as number | null) ?? null;
   const newFlux = (w.after['fluxUmolM2S'] as number | null) ?? null;
   await w.em.query(
     `INSERT INTO closure_review_history (closure_id, site_id, user_id, kind, field, old_value, new_value, old_flux_umol_m2_s, new_flux_umol_m2_s)

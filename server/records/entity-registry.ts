@@ -55,6 +55,8 @@ export interface EntityDef {
   follows?: (current: Record<string, unknown>, changed: readonly string[]) => Record<string, unknown>;
   /** Fields fixed at creation. */
   immutable: readonly string[];
+  /** Fixed fields a move may change (writeRecord's `move` option, never a plain edit or a sync op). */
+  movable?: readonly string[];
   /** The time field list filters use for a date range, if any. */
   timeField?: string;
   /** List order. */
@@ -163,7 +165,8 @@ export const ENTITY_DEFS: Record<EntityName, EntityDef> = {
     { refs: { visitId: 'visit', collarId: 'collar', campaignId: 'campaign', profileId: 'chamberProfile', analyzerId: 'analyzer',
       sourceAttachmentId: 'attachment', redoOfId: 'closure' },
       agreements: [UNDER_VISIT, { ref: 'redoOfId', target: 'closure', same: ['visitId'] }], follows: reviewResetOnRawChange,
-      underCampaign: true, immutable: ['siteId', 'visitId', 'collarId', 'campaignId'], timeField: 'startedAt', order: { startedAt: 'ASC' } }),
+      underCampaign: true, immutable: ['siteId', 'visitId', 'collarId', 'campaignId'], movable: ['visitId', 'collarId'],
+      timeField: 'startedAt', order: { startedAt: 'ASC' } }),
   attachment: def('attachment', AttachmentEntity, 'attachment', { create: ['crew', 'lead', 'admin'], update: ['crew', 'lead', 'admin'], delete: LEAD },
     { owner: { entityField: 'ownerEntity', idField: 'ownerId' }, immutable: ['siteId', 'ownerEntity', 'ownerId', 'sha256', 'sizeBytes', 'mediaType'] }),
   temperatureLog: def('temperatureLog', TemperatureLogEntity, 'temperature_log', { create: ['lab', 'admin'], update: ['lab', 'admin'], delete: ['lab', 'admin'] },

@@ -40,10 +40,10 @@ const META = ['id', 'rev', 'updatedAt', 'updatedBy', 'deleted'];
  * owns the transaction (a savepoint per op in a push) and flushes `changes` before commit.
  */
 export async function writeRecord(em: EntityManager, actor: Actor, op: WriteOp, changes: ChangeBuffer,
-  opts: { deviceId?: string | null } = {}): Promise<WriteOutcome> {
+  opts: { deviceId?: string | null; move?: boolean } = {}): Promise<WriteOutcome> {
   const d = ENTITY_DEFS[op.entity];
   if (!d) return rejected(400, `Unknown entity "${String(op.entity)}"`);
-  const ctx = { em, actor, d, changes, deviceId: opts.deviceId ?? null };
+  const ctx: Ctx = { em, actor, d, changes, deviceId: opts.deviceId ?? null, movable: opts.move ? d.movable ?? [] : [] };
   const incoming = clientFields(op.entity, op.fields);
   // Creates try the insert first (ON CONFLICT DO NOTHING): one round trip fewer for the common case.
   if (op.op === 'upsert' && op.baseRev === null && isUuid(op.id)) {
@@ -75,6 +75,11 @@ interface Ctx {
   d: EntityDef;
   changes: ChangeBuffer;
   deviceId: string | null;
+  /**
+   * Fields fixed at creation that this write may change: only a move (the Bench's move of a closure
+   * to the right visit, closures/closure-move.ts) passes them; no REST edit or sync op can.
+   */
+  movable?: readonly string[];
 }
 
 const isUuid = (id: string) => /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(id);
@@ -246,7 +251,10 @@ async function updateRecord(ctx: Ctx, op: WriteOp, current: Record<string, unkno
   const changed = Object.keys(incoming).filter((k) => !sameValue(incoming[k], current[k]));
   if (!changed.length) return { status: 'applied', rev, record: current };
   const siteId = siteOf(d, op.id, current);
-  const fixed = changed.filter((k) => d.immutable.includes(k));
+  const movable = ctx.movable ?? [];
+  const fixed = changed.filter((k) => d.immutable.includes(k) && !movable.includes(k));
+  // A move's own fields were allowed by its route's role; the field rules and follow-ons judge the rest.
+  const edited = changed.filter((k) => !movable.includes(k));
   if (fixed.length) return rejected(400, `${fixed.join(', ')} cannot change after creation`, fixed.map((path) => ({ path, message: 'Fixed at creation' })));
   const stale = op.baseRev !== null && op.baseRev < rev;
   if (stale) {
@@ -257,12 +265,12 @@ async function updateRecord(ctx: Ctx, op: WriteOp, current: Record<string, unkno
   const v = validate(d.name, { ...current, ...Object.fromEntries(changed.map((k) => [k, incoming[k]])) });
   if (v.error) return v.error;
   const next = v.value;
-  const guard = ruleDenied(ctx, 'update', changed, next)
+  const guard = (edited.length ? ruleDenied(ctx, 'update', edited, next) : null)
     ?? (await checkReferences(ctx.em, d, siteId, next, changed))
     ?? (reviewOnly(d, changed) ? null : await lockedCampaignMessage(ctx.em, d, next))
     ?? (await checkGuards({ em: ctx.em, entity: d.name, id: op.id, action: 'update', current, next, changed }));
   if (guard) return guard;
-  const follow = d.follows?.(current, changed) ?? {};
+  const follow = edited.length ? d.follows?.(current, edited) ?? {} : {};
   Object.assign(next, follow);
   changed.push(...Object.keys(follow).filter((k) => !changed.includes(k) && !sameValue(follow[k], current[k])));
   const derived = await deriveFields(ctx.em, d.name, next, current);

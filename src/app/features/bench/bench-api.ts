@@ -73,6 +73,8 @@ export interface ClosureDetail {
   replicateSpread: { n: number; mean: number | null; sd: number | null; cvPct: number | null };
   history: { id: number; at: string; kind: string; field: string; oldValue: unknown; newValue: unknown;
     oldFluxUmolM2S: number | null; newFluxUmolM2S: number | null; userName: string | null }[];
+  /** The other visits of the closure's campaign (where the lab may move it). */
+  moveTargets?: { visitId: string; round: number; collarId: string; collarCode: string }[];
   /** The site's chamber profile versions and analyzers (the lab may correct which a closure was made with). */
   systems?: { profiles: { id: string; name: string; validFrom: string }[]; analyzers: { id: string; name: string; serial: string }[] };
 }
@@ -108,6 +110,11 @@ export class BenchApi {
     return 'exclude' in change
       ? firstValueFrom(this.http.post<{ record: StoredClosure }>(`/api/bench/closures/${id}/exclusions`, { indices: change.exclude, reason: change.reason }))
       : firstValueFrom(this.http.post<{ record: StoredClosure }>(`/api/bench/closures/${id}/exclusions/restore`, { indices: change.restore }));
+  }
+
+  /** Moves a closure to another visit of its campaign; answers the recomputed closure. */
+  move(id: string, visitId: string): Promise<{ record: Record<string, any> }> {
+    return firstValueFrom(this.http.post<{ record: Record<string, any> }>(`/api/bench/closures/${id}/move`, { visitId }));
   }
 
   bulkAccept(filter: QueueFilter): Promise<{ accepted: number; skipped: { id: string; reason: string }[] }> {

@@ -75,12 +75,14 @@ export class Bench {
     if (!det || this.busy()) return;
     this.busy.set(true);
     try {
-      const { record } = d.points ? await this.api.changePoints(det.closure.id, d.points) : await this.api.decide(det.closure.id, det.closure.rev, d.fields);
+      const { record } = d.move ? await this.api.move(det.closure.id, d.move)
+        : d.points ? await this.api.changePoints(det.closure.id, d.points) : await this.api.decide(det.closure.id, det.closure.rev, d.fields);
       const i = this.index();
       this.items.update((list) => list.map((x) => (x.id === record.id ? { ...x, rev: record.rev, reviewState: record.reviewState,
         fluxUmolM2S: record.fluxUmolM2S, flags: record.flags, recomputedSinceReview: null,
         changedSinceReview: d.fields['reviewState'] ? null : x.changedSinceReview } : x)));
       this.message.set(d.fields['reviewState'] ? `Closure ${d.fields['reviewState']}`
+        : d.move ? 'Moved to the other visit and recomputed'
         : d.points ? ('exclude' in d.points ? 'Recomputed without those points' : 'Recomputed with those points back') : 'Recomputed with the new settings');
       this.problem.set('');
       if (d.fields['reviewState'] === 'accepted' && i < this.items().length - 1) await this.select(i + 1);

@@ -7,14 +7,15 @@ import { MatListModule } from '@angular/material/list';
 import { MatSelectModule } from '@angular/material/select';
 import type { ClosureDetail, FitResult } from './bench-api';
 import { ClosureChart, type ChartInput } from './closure-chart';
+import { ClosureMove } from './closure-move';
 import { ClosureSystem } from './closure-system';
 import { ClosureTraces } from './closure-traces';
 import { detectionLimitNote, fluxBases } from './flux-bases';
 import { PointExclusions, exclusionText, type PointsChange } from './point-exclusions';
 import type { PointExclusion } from '../../../../shared/model/point-exclusion';
 
-/** A review-field edit (PATCH), or points left out of the fit / put back (the Bench's exclusion routes). */
-export interface Decision { fields: Record<string, unknown>; points?: PointsChange }
+/** A review-field edit (PATCH), points left out of the fit / put back, or a move to another visit (the Bench's routes). */
+export interface Decision { fields: Record<string, unknown>; points?: PointsChange; move?: string }
 
 /**
  * One closure under review: the chart, the numbers of both fits, where the volume came from, the
@@ -23,7 +24,7 @@ export interface Decision { fields: Record<string, unknown>; points?: PointsChan
  */
 @Component({
   selector: 'fw-closure-view',
-  imports: [ClosureChart, ClosureSystem, ClosureTraces, DatePipe, PointExclusions, DecimalPipe, FormsModule, MatButtonModule, MatInputModule, MatListModule, MatSelectModule],
+  imports: [ClosureChart, ClosureMove, ClosureSystem, ClosureTraces, DatePipe, PointExclusions, DecimalPipe, FormsModule, MatButtonModule, MatInputModule, MatListModule, MatSelectModule],
   templateUrl: './closure-view.html',
   styleUrl: './bench.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -82,6 +83,10 @@ export class ClosureView {
 
   protected pickPoint(index: number): void {
     this.pointPicker()?.pick(index);
+  }
+
+  protected moveTo(visitId: string): void {
+    this.decide.emit({ fields: {}, move: visitId });
   }
 
   protected changePoints(points: PointsChange): void {
