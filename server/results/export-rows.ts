@@ -98,9 +98,15 @@ interface Fit {
   [model: string]: unknown;
 }
 
+/** The lab's excluded samples as "45;46;47" (null when none). */
+function excludedSamples(v: unknown): string | null {
+  const list = Array.isArray(v) ? (v as { index: number }[]).map((e) => e.index).sort((a, b) => a - b) : [];
+  return list.length ? list.join(';') : null;
+}
+
 export async function* closureRows(ds: DataSource, siteId: string, onPage?: (n: number) => Promise<void>): Rows {
   const cols = `id, visit_id, collar_id, campaign_id, started_at, settle_s, review_state, review_reason, review_settle_s, review_window_end_s,
-    review_model, results, flags, flux_umol_m2_s, analyzer_id`;
+    review_model, review_exclusions, results, flags, flux_umol_m2_s, analyzer_id`;
   for await (const page of closurePages(ds, siteId, cols, onPage)) {
     for (const r of page) {
       const res = (r.results ?? {}) as { raw?: Fit; review?: Fit | null; volumeCm3?: number; areaCm2?: number; meanOffsetCm?: number; pressureIsDefault?: boolean;
@@ -108,7 +114,7 @@ export async function* closureRows(ds: DataSource, siteId: string, onPage?: (n: 
       const raw = res.raw?.selected ?? null;
       const review = res.review?.selected ?? null;
       yield [r.id, r.visit_id, r.collar_id, r.campaign_id, iso(r.started_at), r.settle_s, r.review_state, r.review_reason, r.review_settle_s,
-        r.review_window_end_s, r.review_model, raw?.model ?? null, raw?.slopePpmS ?? null, raw?.fluxUmolM2S ?? null,
+        r.review_window_end_s, r.review_model, excludedSamples(r.review_exclusions), raw?.model ?? null, raw?.slopePpmS ?? null, raw?.fluxUmolM2S ?? null,
         raw ? (res.raw?.[raw.model] as { r2?: number } | undefined)?.r2 ?? null : null, review?.model ?? null, review?.fluxUmolM2S ?? null, r.flux_umol_m2_s,
         // Results stored before slope bases existed were on the end of the settle time.
         r.flux_umol_m2_s === null ? null : ((review ?? raw)?.basis ?? 'settle_end'),

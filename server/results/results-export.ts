@@ -141,7 +141,8 @@ function exportMethods(slopeBasis: string, req: ExportRequest, fromDay: string, 
     'Samples (closure_series.csv): CO2 as measured (wet), H2O, chamber air temperature and pressure per sample, t_s from chamber closure. '
       + 'Water-vapour (dilution) correction per sample: dry CO2 χc = CO2 / (1 − χw), χw = H2O [mmol mol-1] / 1000 (Webb, Pearman & Leuning 1980, Q. J. R. Meteorol. Soc. 106:85–100). '
       + 'The fit uses the samples from the settle time (closures.settle_s, or review_settle_s when the lab set one) to the end of the closure '
-      + '(or review_window_end_s); samples with a missing value are dropped (flag gaps-dropped).',
+      + '(or review_window_end_s); samples with a missing value are dropped (flag gaps-dropped), and so are the samples the lab left out '
+      + '(closures.review_excluded_samples, review fit only; the samples stay in closure_series.csv).',
     'Flux = slope × p·V·(1 − χw)/(R·T·A) × 10, in µmol m-2 s-1 with slope in µmol mol-1 s-1 of dry CO2, p in kPa, V in cm3 (closures.volume_cm3 = chamber volume + loop volume '
       + '+ chamber footprint area × mean collar offset, mean_offset_cm), A in cm2 (closures.area_cm2, the collar\'s inside area), T in K (chamber °C + 273.15), R = 8.31446261815324 J mol-1 K-1 (Avogadro constant × Boltzmann constant, SI 2019); '
       + 'p, T and χw are those of the first sample used by the fit (closures.fit_first_t_s); when the file had no chamber temperature, T is closures.air_temp_c '

@@ -1,4 +1,6 @@
 import { randomUUID } from 'node:crypto';
+import { sourceFields, tableDef } from '../../server/results/export-schema';
+import { closureRows } from '../../server/results/export-rows';
 import { buildWorld, type World, type Wire } from '../support/site-world';
 import { demoEmail, signIn, startTestApp, type Session, type TestApp } from '../support/test-app';
 
@@ -56,6 +58,13 @@ describe('Bench: points left out of a fit', () => {
     expect(after.fluxUmolM2S).toBe(review.selected.fluxUmolM2S);
     expect(after.fluxUmolM2S).not.toBe(c['fluxUmolM2S']);
     expect(await stored(c.id)).toMatchObject({ rev: after.rev, fluxUmolM2S: after.fluxUmolM2S, reviewExclusions: after.reviewExclusions });
+    // The data package says which samples the review fit left out.
+    const columns = sourceFields(tableDef('closures')).map((f) => f.name);
+    const exported = [];
+    for await (const row of closureRows(t.ds, w.site.id)) if (row[0] === c.id) exported.push(row);
+    expect(exported).toHaveLength(1);
+    expect(exported[0][columns.indexOf('review_excluded_samples')]).toBe('45;46;47;48');
+    expect(exported[0][columns.indexOf('flux_umol_m2_s')]).toBe(after.fluxUmolM2S);
   });
 
   it('when the lab puts the points back, then the fit is the one of every point again, and both steps are in the history with who, when, which points and why', async () => {
