@@ -36,8 +36,11 @@ describe('Bench: points left out of a fit, on a phone', () => {
       const loaded = queueAnswer(page);
       await signInAs(page, server.baseUrl, 'lab');
       await loaded;
+      // On a phone the filters start folded.
+      await page.getByRole('button', { name: /^Filters/ }).first().click();
       let q = queueAnswer(page);
-      await pick(page, 'QC flag', 'spike');
+      // The campaign under way (the past season's campaigns are locked: no points can be left out there).
+      await pick(page, 'Campaign', 'December 2026 survey, two rounds');
       await q;
       q = queueAnswer(page);
       const d = detailAnswer(page);
@@ -50,10 +53,10 @@ describe('Bench: points left out of a fit, on a phone', () => {
       expect(await page.locator('fw-closure-traces canvas').count()).toBe(3);
 
       // Tap the middle of the chart: the nearest sample becomes the range.
+      await page.waitForLoadState('networkidle');
       const over = page.locator('fw-closure-chart .u-over').first();
-      await over.scrollIntoViewIfNeeded();
-      const box = (await over.boundingBox())!;
-      await page.mouse.click(box.x + box.width * 0.6, box.y + box.height / 2);
+      const size = await over.evaluate((e) => ({ w: e.clientWidth, h: e.clientHeight }));
+      await over.click({ position: { x: Math.round(size.w * 0.6), y: Math.round(size.h / 2) } });
       await page.waitForFunction(() => (document.querySelector('[data-testid="exclude-from"]') as HTMLInputElement | null)?.value !== '');
       const button = page.getByRole('button', { name: 'Leave out 1 point' });
       let a = pointsAnswer(page);

@@ -105,9 +105,10 @@ export class ClosureChart implements OnDestroy {
         { label: 'left out', stroke: '#d32f2f', width: 0, points: { show: true, size: 8, width: 2, stroke: '#d32f2f', fill: '#ffffff' } }],
       hooks: { drawClear: [shade] },
     }, [x, kept, line, expo, left] as uPlot.AlignedData, this.plotEl().nativeElement);
-    main.over.addEventListener('click', () => {
-      const i = main.cursor.idx;
-      if (typeof i === 'number' && dry[i] !== null) this.pick.emit(i);
+    // The sample nearest the tap or click (from the event's own position: a tap moves no cursor first).
+    main.over.addEventListener('click', (e: MouseEvent) => {
+      const i = main.posToIdx(e.clientX - main.over.getBoundingClientRect().left);
+      if (i >= 0 && i < dry.length && dry[i] !== null) this.pick.emit(i);
     });
     const res = new uPlot({
       width, height: 110, legend: { show: false }, scales: { x: { time: false } },
