@@ -113,8 +113,8 @@ export class BenchApi {
   }
 
   /** Moves a closure to another visit of its campaign; answers the recomputed closure. */
-  move(id: string, visitId: string): Promise<{ record: Record<string, any> }> {
-    return firstValueFrom(this.http.post<{ record: Record<string, any> }>(`/api/bench/closures/${id}/move`, { visitId }));
+  move(id: string, visitId: string): Promise<{ record: StoredClosure }> {
+    return firstValueFrom(this.http.post<{ record: StoredClosure }>(`/api/bench/closures/${id}/move`, { visitId }));
   }
 
   bulkAccept(filter: QueueFilter): Promise<{ accepted: number; skipped: { id: string; reason: string }[] }> {

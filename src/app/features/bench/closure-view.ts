@@ -24,7 +24,7 @@ export interface Decision { fields: Record<string, unknown>; points?: PointsChan
  */
 @Component({
   selector: 'fw-closure-view',
-  imports: [ClosureChart, ClosureMove, ClosureSystem, ClosureTraces, DatePipe, PointExclusions, DecimalPipe, FormsModule, MatButtonModule, MatInputModule, MatListModule, MatSelectModule],
+  imports: [ClosureChart, ClosureMove, ClosureSystem, ClosureTraces, DatePipe, DecimalPipe, PointExclusions, FormsModule, MatButtonModule, MatInputModule, MatListModule, MatSelectModule],
   templateUrl: './closure-view.html',
   styleUrl: './bench.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -49,7 +49,8 @@ export class ClosureView {
     settleS: this.effectiveSettle(), windowEndS: (this.c()['reviewWindowEndS'] as number | null) ?? null, fit: this.fit(),
     excluded: this.exclusions().map((e) => e.index),
   }));
-  protected readonly exclusions = computed<PointExclusion[]>(() => (this.c()['reviewExclusions'] as PointExclusion[] | undefined) ?? []);
+  // Closures stored before exclusions existed may come without the field.
+  protected readonly exclusions = computed<PointExclusion[]>(() => this.c().reviewExclusions ?? []);
   /** The review history with points left out in words ("45–48 (Spike)") rather than as lists. */
   protected readonly history = computed(() => this.detail().history.map((h) => (h.field === 'reviewExclusions'
     ? { ...h, field: 'points left out', oldValue: exclusionText(h.oldValue), newValue: exclusionText(h.newValue) } : h)));
