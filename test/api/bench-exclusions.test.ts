@@ -1,5 +1,5 @@
 import { randomUUID } from 'node:crypto';
-import { sourceFields, tableDef } from '../../server/results/export-schema';
+import { sourceFields, TABLES } from '../../server/results/export-schema';
 import { closureRows } from '../../server/results/export-rows';
 import { buildWorld, type World, type Wire } from '../support/site-world';
 import { demoEmail, signIn, startTestApp, type Session, type TestApp } from '../support/test-app';
@@ -59,7 +59,7 @@ describe('Bench: points left out of a fit', () => {
     expect(after.fluxUmolM2S).not.toBe(c['fluxUmolM2S']);
     expect(await stored(c.id)).toMatchObject({ rev: after.rev, fluxUmolM2S: after.fluxUmolM2S, reviewExclusions: after.reviewExclusions });
     // The data package says which samples the review fit left out.
-    const columns = sourceFields(tableDef('closures')).map((f) => f.name);
+    const columns = sourceFields(TABLES.find((x) => x.name === 'closures')!).map((f) => f.name);
     const exported = [];
     for await (const row of closureRows(t.ds, w.site.id)) if (row[0] === c.id) exported.push(row);
     expect(exported).toHaveLength(1);
