@@ -150,6 +150,10 @@ describe('Bench: points left out of a fit', () => {
       expect(res.body.error.message).toMatch(/locked/);
       expect((await lab.post(`/api/bench/closures/${c.id}/exclusions/restore`, { indices: [50] })).status).toBe(423);
       expect(await stored(c.id)).toMatchObject({ rev: ex.rev, reviewExclusions: ex.reviewExclusions, fluxUmolM2S: ex.fluxUmolM2S });
+      // A decision on the data as it stands is still taken in a locked campaign; a decision with new exclusions is not.
+      const both = await lab.patch(`/api/closures/${c.id}`, { rev: ex.rev, reviewState: 'accepted', reviewExclusions: [] });
+      expect(both.status).toBe(423);
+      expect((await lab.patch(`/api/closures/${c.id}`, { rev: ex.rev, reviewState: 'accepted' })).status).toBe(200);
     } finally {
       await lead.post(`/api/campaigns/${camp.id}/unlock`);
     }

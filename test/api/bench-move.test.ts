@@ -83,6 +83,17 @@ describe('Bench: moving a closure to another visit', () => {
     expect((await lab.get(`/api/closures/${c.id}`)).body.record).toMatchObject({ rev: c.rev, visitId: w.visit.id, collarId: w.collar.id });
   });
 
+  it('when the closure is one of a redo pair, then neither is moved alone', async () => {
+    const first = await closureAt(w.visit, w.collar.id);
+    const redo = await post(lead, '/api/closures', { id: randomUUID(), siteId: w.site.id, visitId: w.visit.id, collarId: w.collar.id,
+      campaignId: w.campaign.id, startedAt: '2026-06-01T08:30:00Z', settleS: 20, series, redoOfId: first.id });
+    for (const c of [first, redo]) {
+      const res = await lab.post(`/api/bench/closures/${c.id}/move`, { visitId: visit2.id });
+      expect([res.status, res.body.error.message]).toEqual([409, expect.stringMatching(/redo/)]);
+      expect((await lab.get(`/api/closures/${c.id}`)).body.record).toMatchObject({ rev: c.rev, visitId: w.visit.id });
+    }
+  });
+
   it('when the campaign is locked, then the move is refused and nothing changes', async () => {
     const c = await closureAt(w.visit, w.collar.id);
     expect((await lead.post(`/api/campaigns/${w.campaign.id}/lock`)).status).toBe(200);
