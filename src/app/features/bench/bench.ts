@@ -86,7 +86,12 @@ export class Bench {
         : d.points ? ('exclude' in d.points ? 'Recomputed without those points' : 'Recomputed with those points back') : 'Recomputed with the new settings');
       this.problem.set('');
       if (d.fields['reviewState'] === 'accepted' && i < this.items().length - 1) await this.select(i + 1);
-      else this.detail.set(await this.api.detail(det.closure.id));
+      else {
+        const fresh = await this.api.detail(det.closure.id);
+        this.detail.set(fresh);
+        // A moved closure names another collar (and maybe round) in the queue too.
+        if (d.move) this.items.update((list) => list.map((x) => (x.id === fresh.closure.id ? { ...x, ...fresh.context } : x)));
+      }
     } catch (err) {
       this.problem.set(serverMessage(err, 'The decision was not saved'));
     } finally {
