@@ -28,7 +28,7 @@ function detail(context: Partial<QueueItem>, history: ClosureDetail['history'] =
   };
 }
 
-@Component({ selector: 'fw-closure-traces', template: '' })
+@Component({ selector: 'fw-closure-traces', template: '', changeDetection: ChangeDetectionStrategy.OnPush })
 class NoTraces {
   readonly series = input<unknown>();
 }
