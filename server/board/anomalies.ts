@@ -1,7 +1,7 @@
 import type { DataSource, EntityManager } from 'typeorm';
 import type { QcFlag } from '../../shared/flux/qc-flags';
 import { calibrationAgeDays, worstDriftPct } from '../../shared/model/calibration';
-import { localDay } from '../closures/closure-inputs';
+import { localDay } from '../../shared/time/site-time';
 
 export type AnomalyKind =
   | 'offset-moved' | 'offset-spread' | 'closure-flag' | 'settling' | 'not-visited' | 'check-problem' | 'calibration-overdue' | 'calibration-drift';

@@ -1,32 +1,17 @@
 import type { EntityManager } from 'typeorm';
-import { ambientForClosure, type AmbientCheck, type AmbientChoice, type NamedProfileVersion, type OffsetSetRecord, type SlopeBasis } from '../../shared/flux';
-
+import { ambientForClosure, withCollarArea, type AmbientCheck, type AmbientChoice, type FitContext, type OffsetSetRecord, type SlopeBasis } from '../../shared/flux';
 import { localDay } from '../../shared/time/site-time';
 
 type Db = Pick<EntityManager, 'query'>;
 
-/** The calendar day of an instant in the site's time zone (closures and offset sets compare by local day): shared/time is its home. */
-export { localDay };
-
-export interface ClosureContext {
-  timezone: string;
-  elevationM: number | null;
-  ambientMarginPpm: number;
-  slopeBasis: SlopeBasis;
+/** The fit context (shared/flux closure-fit-plan.ts) and what the server stores or checks beside it. */
+export interface ClosureContext extends FitContext {
   areaCm2: number | null;
-  /** Every chamber profile version of the site, by name (shared/flux/chamber-system.ts picks the closure's). */
-  profiles: NamedProfileVersion[];
-  defaultProfileId: string | null;
   offsetSets: (OffsetSetRecord & { id: string; takenAt: string })[];
-  precisionPpm: number | null;
   rangeMinPpm: number | null;
   rangeMaxPpm: number | null;
   /** The ambient reading of the closure's own analyzer nearest in time (null: none). */
   ambient: AmbientChoice | null;
-  ambientPpm: number | null;
-  /** The visit's air temperature and the site's default, for closures whose file has no chamber temperature. */
-  visitAirTempC: number | null;
-  defaultAirTempC: number;
 }
 
 interface SiteInputs {
@@ -82,11 +67,7 @@ export class ClosureInputs {
       timezone, elevationM: site?.elevationM ?? null, ambientMarginPpm: site?.ambientMarginPpm ?? 100,
       slopeBasis: site?.slopeBasis ?? 'closure', areaCm2,
       defaultProfileId: site?.defaultProfileId ?? null,
-      profiles: (site?.profiles ?? []).map((p) => ({
-        id: p.id, name: p.name, validFrom: p.validFrom, chamberVolumeCm3: p.chamberVolumeCm3, loopVolumeCm3: p.loopVolumeCm3,
-        // A is the collar's own inside area; the footprint only stands in for a collar without one.
-        areaCm2: areaCm2 ?? p.footprintAreaCm2 ?? NaN, footprintAreaCm2: p.footprintAreaCm2,
-      })),
+      profiles: withCollarArea(site?.profiles ?? [], areaCm2),
       offsetSets: collar?.offsetSets ?? [],
       precisionPpm: analyzer?.precisionPpm ?? null, rangeMinPpm: analyzer?.rangeMinPpm ?? null, rangeMaxPpm: analyzer?.rangeMaxPpm ?? null,
       ambient, ambientPpm: ambient?.ppm ?? null,

@@ -3,7 +3,7 @@ import { sameValue } from '../records/wire';
 import type { WrittenRecord } from '../records/after-write';
 import { defineJob } from '../jobs/job-registry';
 import { enqueueJob } from '../jobs/job-store';
-import { localDay } from './closure-inputs';
+import { localDay } from '../../shared/time/site-time';
 import { recomputeClosures, scopeHasClosures, type RecomputeScope } from './closure-recompute';
 import { AMBIENT_MAX_GAP_H } from '../../shared/flux';
 

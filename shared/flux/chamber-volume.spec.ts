@@ -1,4 +1,4 @@
-import { chamberVolumeFor, collarAreaCm2 } from './chamber-volume';
+import { chamberVolumeFor, roundCollarAreaCm2 } from './chamber-volume';
 
 const profiles = [
   { validFrom: '2024-03-01', chamberVolumeCm3: 4000, loopVolumeCm3: 60, areaCm2: 317.8 },
@@ -48,7 +48,7 @@ describe('chamberVolumeFor (V = chamber + loop + A × mean offset, plain geometr
   });
 
   it('collar area π d²/4: 20 cm → 314.159 cm², so a 3.5 cm offset adds 1099.557 cm³ (REFERENCES.md §8)', () => {
-    expect(collarAreaCm2(20)).toBeCloseTo(314.159, 3);
-    expect(collarAreaCm2(20) * 3.5).toBeCloseTo(1099.557, 3);
+    expect(roundCollarAreaCm2(20)).toBeCloseTo(314.159, 3);
+    expect(roundCollarAreaCm2(20) * 3.5).toBeCloseTo(1099.557, 3);
   });
 });

@@ -105,6 +105,6 @@ export function chamberVolumeFor(
 }
 
 /** Collar area from its inner diameter, A = π d²/4. */
-export function collarAreaCm2(innerDiameterCm: number): number {
+export function roundCollarAreaCm2(innerDiameterCm: number): number {
   return (Math.PI * innerDiameterCm * innerDiameterCm) / 4;
 }

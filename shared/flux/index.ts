@@ -2,6 +2,7 @@
 export const engineVersion = '1.1.0';
 
 export { fitClosure, invalidFit } from './closure-fit';
+export { planClosureFit, withCollarArea, type ClosureFitPlan, type ClosureSeries, type FitContext, type FitSettings, type StoredProfileVersion } from './closure-fit-plan';
 export { exclusionProblems, usablePointCount, type ExclusionProblem } from './point-exclusion';
 export { fitLinearRaw, type LinearRaw } from './linear-fit';
 export { DEFAULT_SLOPE_BASIS, SLOPE_BASES, type SlopeBasis } from './closure-input';
@@ -29,7 +30,7 @@ export { dryMoleFractionPpm, waterMoleFraction } from './dry-mole-fraction';
 export { minimumDetectableSlopePpmS } from './detection-limit';
 export {
   chamberVolumeFor,
-  collarAreaCm2,
+  roundCollarAreaCm2,
   meanOffsetCm,
   offsetSetFor,
   profileValidOn,

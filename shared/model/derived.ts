@@ -1,4 +1,4 @@
-import { collarAreaCm2 as roundCollarAreaCm2, meanOffsetCm } from '../flux/chamber-volume';
+import { meanOffsetCm, roundCollarAreaCm2 } from '../flux/chamber-volume';
 import { polynomialVwc, toppVwc } from '../flux/soil-moisture';
 import type { z } from 'zod';
 import type { collarFields, probeReadingFields } from './field-records';

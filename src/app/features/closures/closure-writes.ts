@@ -4,7 +4,7 @@ import type { LocalRecord } from '../../core/db/db-schema';
 import { textMediaType } from '../../core/db/device-files';
 import { LocalWrites } from '../../core/sync/local-writes';
 import { validated } from '../../core/db/validated';
-import { localDay } from './closure-flux';
+import { localDay } from '../../../../shared/time/site-time';
 
 export interface ClosureSeries {
   tS: (number | null)[];

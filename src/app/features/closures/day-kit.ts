@@ -1,5 +1,5 @@
 import type { LocalRecord } from '../../core/db/db-schema';
-import { localDay } from './closure-flux';
+import { localDay } from '../../../../shared/time/site-time';
 
 /** What a closure needs from the day before it may start: the analyzer and the chamber profile. */
 export interface DayKit {

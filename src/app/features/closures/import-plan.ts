@@ -3,7 +3,7 @@ import {
   type LoggerPiece, type LoggerSample, type PieceMatch, type SplitMethod, type SplitResult, type TapWindow, type VisitSlot,
 } from '../../../../shared/logger';
 import type { FluxDb, LocalRecord } from '../../core/db/db-schema';
-import { localDay } from './closure-flux';
+import { localDay } from '../../../../shared/time/site-time';
 
 /** A visit of the round with its collar code and the closures still waiting for a series. */
 export interface RoundVisit {

@@ -10,7 +10,7 @@ import { SiteChoice } from '../../core/auth/site-choice';
 import { DeviceDb } from '../../core/db/device-db';
 import { SyncEngine } from '../../core/sync/sync-engine';
 import { notYetSynced } from '../../core/sync/sync-status';
-import { localDay } from '../closures/closure-flux';
+import { localDay } from '../../../../shared/time/site-time';
 import { Gps, wayTo } from './gps';
 import { QrScan } from './qr-scan';
 import { STATE_GLYPHS, STATE_WORDS } from '../../core/map/collar-states';
