@@ -87,12 +87,13 @@ async function offsetAnomalies(db: Db, site: Record<string, unknown>, campaignId
        ORDER BY o.collar_id, o.taken_at DESC)
     SELECT cur.id, cur.collar_id, k.code, cur.mean_cm, cur.taken_at,
            (SELECT max(r) - min(r) FROM unnest(cur.readings_cm) r) AS range_cm,
-           coalesce(k.area_cm2, CASE WHEN k.shape = 'round' THEN pi() * k.diameter_cm ^ 2 / 4 ELSE k.side_a_cm * k.side_b_cm END) AS area_cm2,
+           k.area_cm2,
            pf.chamber_volume_cm3 + pf.loop_volume_cm3 AS fixed_volume_cm3,
            prev.mean_cm AS prev_mean_cm, prev.taken_at AS prev_taken_at
       FROM cur JOIN collar k ON k.id = cur.collar_id
       LEFT JOIN LATERAL (SELECT p.chamber_volume_cm3, p.loop_volume_cm3 FROM chamber_profile p
-                          WHERE p.site_id = k.site_id AND NOT p.deleted AND p.valid_from <= cur.taken_at::date
+                          WHERE p.site_id = k.site_id AND NOT p.deleted
+                            AND p.valid_from <= (cur.taken_at AT TIME ZONE (SELECT timezone FROM site WHERE id = k.site_id))::date
                           ORDER BY p.valid_from DESC LIMIT 1) pf ON true
       LEFT JOIN LATERAL (SELECT o.mean_cm, o.taken_at FROM offset_set o
                           WHERE o.collar_id = cur.collar_id AND o.campaign_id <> $1 AND o.taken_at < cur.taken_at AND NOT o.deleted

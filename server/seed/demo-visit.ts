@@ -1,3 +1,4 @@
+import { profileValidOn } from '../../shared/flux';
 import { DEMO_SITE_ID } from './demo-accounts';
 import { airH2oMmolMol, airTempC, permittivityForVwc, pressureKpa, rainedOn, soilTempC, soilVwcPct } from './demo-climate';
 import { COLLAR_DIAMETER_CM, DEMO_Q10, type DemoCollar, type DemoProfile } from './demo-layout';
@@ -57,9 +58,9 @@ function offsetReadings(collar: DemoCollar, ms: number, shiftCm: number, rng: Rn
 }
 
 export function profileOn(profiles: readonly DemoProfile[], day: string): DemoProfile {
-  const valid = profiles.filter((p) => p.validFrom <= day).sort((a, b) => (a.validFrom < b.validFrom ? 1 : -1));
-  if (!valid.length) throw new Error(`no demo profile valid on ${day}`);
-  return valid[0];
+  const valid = profileValidOn(profiles, day);
+  if (!valid) throw new Error(`no demo profile valid on ${day}`);
+  return valid;
 }
 
 export function buildVisit(plan: VisitPlan): VisitOutcome {

@@ -53,7 +53,7 @@ export function meanOffsetCm(set: OffsetSetRecord): number {
 }
 
 /** The profile version valid on `closureDay`, or null when every version starts later. */
-export function profileValidOn<P extends ChamberProfileVersion>(profiles: readonly P[], closureDay: string): P | null {
+export function profileValidOn<P extends Pick<ChamberProfileVersion, 'validFrom'>>(profiles: readonly P[], closureDay: string): P | null {
   const d = day(closureDay);
   let best: P | null = null;
   for (const p of profiles) {
