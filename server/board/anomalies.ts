@@ -1,4 +1,5 @@
 import type { DataSource, EntityManager } from 'typeorm';
+import { flagAdvice } from '../../shared/flux/flag-advice';
 import type { QcFlag } from '../../shared/flux/qc-flags';
 import { calibrationAgeDays, worstDriftPct } from '../../shared/model/calibration';
 import { localDay } from '../../shared/time/site-time';
@@ -18,6 +19,8 @@ export interface Anomaly {
   value: number | null;
   threshold: number | null;
   message: string;
+  /** For `closure-flag`: the QC flag codes behind the message (the message says them in words). */
+  flags?: string[];
 }
 
 export interface AnomalyOptions {
@@ -133,7 +136,9 @@ async function closureAnomalies(db: Db, campaignId: string): Promise<Anomaly[]> 
     return {
       kind: 'closure-flag' as const, severity: flags.includes('invalid-input') ? 'problem' as const : 'warn' as const,
       collarId: r['collar_id'] as string, collarCode: r['code'] as string, recordId: r['id'] as string, at: iso(r['started_at']),
-      value: num(r['flux_umol_m2_s']), threshold: null, message: `Closure flagged: ${flags.join(', ')}`,
+      value: num(r['flux_umol_m2_s']), threshold: null, flags,
+      // In words from the one flag table, so the Board and the digest read like the Walk's closure card.
+      message: `Closure flagged: ${flags.map((f) => flagAdvice(f).words).join(' ')}`,
     };
   });
 }

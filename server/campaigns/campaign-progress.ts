@@ -1,8 +1,8 @@
 import type { DataSource, EntityManager } from 'typeorm';
 import { seesAllSites, type SessionUser } from '../../shared/auth/roles';
 import { notFound } from '../core/errors';
-
-export type ProgressState = 'due' | 'partial' | 'complete' | 'skipped';
+import type { ProgressState } from '../../shared/model/progress-state';
+export type { ProgressState };
 interface Item { state: ProgressState; done: number; needed: number }
 type StateCounts = Record<ProgressState, number>;
 type ItemCounts = Record<'offset' | 'closures' | 'probes', number>;

@@ -1,3 +1,5 @@
+import { progressCountsText, progressStateHeading } from '../../shared/model/progress-state';
+import { formatSiteTime } from '../../shared/time/site-time';
 import type { Digest } from './digest-content';
 import { renderHtml, renderText, type MailBlock } from './mail-html';
 import type { OutgoingMail } from './mailer';
@@ -12,10 +14,11 @@ export function digestMail(d: Digest, to: string, displayName: string, boardLink
   for (const c of d.campaigns) {
     blocks.push({ kind: 'heading', text: `${c.name} (${c.startsOn} to ${c.endsOn})` });
     for (const r of c.routes) {
-      blocks.push({ kind: 'para', text: `${r.routeName}: ${r.due.length} due, ${r.partial.length} partial, ${r.complete} complete, ${r.skipped} skipped.` });
+      const counts = { due: r.due.length, partial: r.partial.length, complete: r.complete, skipped: r.skipped };
+      blocks.push({ kind: 'para', text: `${r.routeName}: ${progressCountsText(counts)}.` });
       const items: string[] = [];
-      if (r.due.length) items.push(`Due (${r.due.length}): ${r.due.join(', ')}`);
-      for (const p of r.partial) items.push(`Partial ${p.code}: still needs ${p.missing.join(', ')}`);
+      if (r.due.length) items.push(`${progressStateHeading('due')} (${r.due.length}): ${r.due.join(', ')}`);
+      for (const p of r.partial) items.push(`${progressStateHeading('partial')} ${p.code}: still needs ${p.missing.join(', ')}`);
       if (items.length) blocks.push({ kind: 'list', items });
     }
   }
@@ -28,7 +31,7 @@ export function digestMail(d: Digest, to: string, displayName: string, boardLink
   }
   blocks.push({ kind: 'heading', text: `Devices silent for a day or more (${d.silentDevices.length})` });
   blocks.push(d.silentDevices.length
-    ? { kind: 'list', items: d.silentDevices.map((s) => `${s.displayName} (${s.email}): ${s.lastSeenAt ? `last heard ${s.lastSeenAt.slice(0, 16).replace('T', ' ')} UTC` : 'never synced'}${s.outboxSize ? `, ${s.outboxSize} not yet synced` : ''}`) }
+    ? { kind: 'list', items: d.silentDevices.map((s) => `${s.displayName} (${s.email}): ${s.lastSeenAt ? `last heard ${formatSiteTime(s.lastSeenAt, d.site.timezone)}` : 'never synced'}${s.outboxSize ? `, ${s.outboxSize} not yet synced` : ''}`) }
     : { kind: 'para', text: 'Every device has synced within the last day.' });
   if (boardLink) blocks.push({ kind: 'link', text: 'Open the Board', href: boardLink });
   blocks.push({ kind: 'para', text: 'You get this mail as a lead of the site. The time it comes is set in Setup (digest time).' });

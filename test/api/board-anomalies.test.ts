@@ -1,4 +1,5 @@
 import { randomUUID } from 'node:crypto';
+import { FLAG_ADVICE } from '../../shared/flux/flag-advice';
 import { findAnomalies } from '../../server/board/anomalies';
 import { listDevices } from '../../server/board/devices';
 import { DEMO_SITE_ID, makeSiteWithCollar } from '../support/fixtures';
@@ -69,7 +70,9 @@ describe('Board: anomalies and devices', () => {
     expect(pick('offset-spread')).toEqual([expect.objectContaining({ collarId: ids['c2'], recordId: ids['c2Offset'], threshold: 3 })]);
     expect(pick('offset-spread')[0].value).toBeCloseTo(13.1, 1); // 2 × 100π / (4150 + 100π × 2) × 100
     expect(pick('closure-flag')).toEqual([expect.objectContaining({ recordId: ids['closure'], collarCode: 'C1' })]);
-    expect(pick('closure-flag')[0].message).toContain('negative-flux');
+    // The lead reads the flag in words (shared/flux/flag-advice.ts); the code rides along for lab staff.
+    expect(pick('closure-flag')[0].message).toBe(`Closure flagged: ${FLAG_ADVICE['negative-flux'].words}`);
+    expect(pick('closure-flag')[0].flags).toEqual(['negative-flux']);
     expect(pick('settling')).toEqual([expect.objectContaining({ collarId: ids['c2'], severity: 'warn', value: 2.5, threshold: 7 })]);
     expect(pick('not-visited')).toEqual([expect.objectContaining({ collarId: ids['c3'], message: 'Never visited' })]);
     expect(pick('check-problem')).toEqual([expect.objectContaining({ recordId: ids['leak'], severity: 'warn' })]);

@@ -5,11 +5,12 @@
  * Colours are picked apart in lightness as well as hue so they stay distinct for colour-blind
  * viewers and in greyscale; each has ≥ 4.5:1 contrast on white for the label text.
  */
-export type CollarState = 'due' | 'partial' | 'complete' | 'skipped';
+import { PROGRESS_STATE_WORDS, PROGRESS_STATES, type ProgressState } from '../../../../shared/model/progress-state';
 
-export const COLLAR_STATES: readonly CollarState[] = ['due', 'partial', 'complete', 'skipped'];
-
-export const STATE_WORDS: Record<CollarState, string> = { due: 'due', partial: 'partial', complete: 'complete', skipped: 'skipped' };
+// The states and their words live in shared/ (the server's digest, mail and CSV use them too).
+export type CollarState = ProgressState;
+export const COLLAR_STATES: readonly CollarState[] = PROGRESS_STATES;
+export const STATE_WORDS: Readonly<Record<CollarState, string>> = PROGRESS_STATE_WORDS;
 
 /** The shapes as text glyphs (lists, tables, the map's legend). */
 export const STATE_GLYPHS: Record<CollarState, string> = { due: '○', partial: '◐', complete: '■', skipped: '◇' };

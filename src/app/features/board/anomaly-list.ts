@@ -3,6 +3,7 @@ import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
+import { flagAdvice } from '../../../../shared/flux/flag-advice';
 import { serverMessage } from '../../core/api/api-error';
 import { SiteTimePipe } from '../../core/time/site-time-pipe';
 import { BoardApi, type Anomaly } from './board-api';
@@ -43,8 +44,19 @@ const KIND_LABELS: Record<string, string> = {
             <li [class.severe]="a.severity === 'problem'" data-testid="anomaly">
               <span class="sev">{{ a.severity === 'problem' ? '▲ problem' : '△ check' }}</span>
               @if (a.collarCode) { <strong>{{ a.collarCode }}</strong> }
-              <span>{{ a.message }}</span>
-              @if (a.at) { <span class="at">{{ a.at | siteTime: zone() : { dayOnly: true } }}</span> }
+              @if (a.flags?.length) {
+                <span>Closure flagged:</span>
+                @if (a.at) { <span class="at">{{ a.at | siteTime: zone() : { dayOnly: true } }}</span> }
+                <!-- Words and advice from the one flag table (as on the Walk's closure card); the code is for lab staff. -->
+                <ul class="flags">
+                  @for (f of advice(a.flags!); track f.code) {
+                    <li data-testid="anomaly-flag"><strong class="words">{{ f.words }}</strong> <span class="advice">{{ f.advice }}</span> <small class="flag-code">{{ f.code }}</small></li>
+                  }
+                </ul>
+              } @else {
+                <span>{{ a.message }}</span>
+                @if (a.at) { <span class="at">{{ a.at | siteTime: zone() : { dayOnly: true } }}</span> }
+              }
             </li>
           }
         </ul>
@@ -59,7 +71,10 @@ const KIND_LABELS: Record<string, string> = {
     li { display: flex; gap: .5rem; flex-wrap: wrap; align-items: baseline; padding: 4px 8px; border-left: 4px solid #8a8a8a; }
     li.severe { border-left: 4px double #8a2a00; }
     .sev { font-weight: 700; min-width: 6rem; }
-    .at { color: var(--mat-sys-on-surface-variant); }
+    .at, .flag-code { color: var(--mat-sys-on-surface-variant); }
+    .flags { flex-basis: 100%; margin: 0; padding-left: 1rem; display: grid; gap: 2px; }
+    .flags li { border: 0; padding: 0; display: block; }
+    .advice { display: block; }
     .problem { color: var(--mat-sys-error); font-weight: 600; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -79,6 +94,10 @@ export class AnomalyList {
     for (const a of this.items()) by.set(a.kind, [...(by.get(a.kind) ?? []), a]);
     return [...by.entries()].map(([kind, items]) => ({ kind, label: KIND_LABELS[kind] ?? kind, items }));
   });
+
+  protected advice(flags: readonly string[]) {
+    return flags.map((code) => ({ code, ...flagAdvice(code) }));
+  }
 
   constructor() {
     effect(() => {

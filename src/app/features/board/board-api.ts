@@ -1,8 +1,8 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
-
-export type ProgressState = 'due' | 'partial' | 'complete' | 'skipped';
+import type { ProgressState } from '../../../../shared/model/progress-state';
+export type { ProgressState };
 export type ItemKey = 'offset' | 'closures' | 'probes';
 export interface ProgressItem { state: ProgressState; done: number; needed: number }
 export interface ProgressCollar {
@@ -23,17 +23,20 @@ export interface Campaign extends Rec {
 export interface Anomaly {
   kind: string; severity: 'problem' | 'warn'; collarId: string | null; collarCode: string | null; recordId: string;
   at: string | null; value: number | null; threshold: number | null; message: string;
+  /** For a flagged closure: its QC flag codes (shown in words from shared/flux/flag-advice.ts). */
+  flags?: string[];
 }
 export interface DeviceRow {
   id: string; userId: string; email: string; displayName: string; lastPushAt: string | null; lastPullAt: string | null;
   outboxSize: number | null; lastSeenAt: string | null; silent: boolean;
 }
 /** The lead's digest as the server would mail it now (GET /api/sites/:siteId/digest). */
+export interface DigestRoute { routeId: string | null; routeName: string; due: string[]; partial: { code: string; missing: string[] }[]; complete: number; skipped: number }
 export interface Digest {
   site: { id: string; name: string; timezone: string };
   localDate: string;
   campaigns: { id: string; name: string; startsOn: string; endsOn: string;
-    routes: { routeId: string | null; routeName: string; due: string[]; partial: { code: string; missing: string[] }[]; complete: number; skipped: number }[] }[];
+    routes: DigestRoute[] }[];
   anomalies: { total: number; problems: number; items: Anomaly[] };
   silentDevices: { displayName: string; email: string; lastSeenAt: string | null; outboxSize: number | null }[];
 }

@@ -1,7 +1,8 @@
 import { ChangeDetectionStrategy, Component, DestroyRef, inject, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
+import { progressCountsText, progressStateHeading } from '../../../../shared/model/progress-state';
 import { serverMessage } from '../../core/api/api-error';
-import { BoardApi, type Digest, type JobState } from './board-api';
+import { BoardApi, type Digest, type DigestRoute, type JobState } from './board-api';
 import { BoardStore } from './board-store';
 
 /** How often the send job is asked whether the mail went out. */
@@ -34,9 +35,9 @@ const CODES_SHOWN = 40;
             <h4>{{ c.name }} ({{ c.startsOn }} to {{ c.endsOn }})</h4>
             <ul>
               @for (r of c.routes; track r.routeId) {
-                <li><strong>{{ r.routeName }}</strong>: {{ r.due.length }} due, {{ r.partial.length }} partial, {{ r.complete }} complete, {{ r.skipped }} skipped
-                  @if (r.due.length) { <br />Due: {{ codes(r.due) }} }
-                  @for (p of r.partial; track p.code) { <br />Partial {{ p.code }}: still needs {{ p.missing.join(', ') }} }
+                <li><strong>{{ r.routeName }}</strong>: {{ counts(r) }}
+                  @if (r.due.length) { <br />{{ heading.due }}: {{ codes(r.due) }} }
+                  @for (p of r.partial; track p.code) { <br />{{ heading.partial }} {{ p.code }}: still needs {{ p.missing.join(', ') }} }
                 </li>
               }
             </ul>
@@ -74,6 +75,13 @@ export class DigestPanel {
 
   constructor() {
     inject(DestroyRef).onDestroy(() => { if (this.timer) clearTimeout(this.timer); });
+  }
+
+  /** The state words of the shared table, as the first word of a line. */
+  protected readonly heading = { due: progressStateHeading('due'), partial: progressStateHeading('partial') };
+
+  protected counts(r: DigestRoute): string {
+    return progressCountsText({ due: r.due.length, partial: r.partial.length, complete: r.complete, skipped: r.skipped });
   }
 
   protected codes(due: string[]): string {
