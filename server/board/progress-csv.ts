@@ -1,6 +1,7 @@
 import type { DataSource } from 'typeorm';
 import type { SessionUser } from '../../shared/auth/roles';
 import { csvLine } from '../../shared/csv/csv-cell';
+import { NOT_DUE_WORDS, progressStateWords } from '../../shared/model/progress-state';
 import { campaignProgress } from '../campaigns/campaign-progress';
 
 const ITEMS = ['offset', 'closures', 'probes'] as const;
@@ -22,8 +23,8 @@ export async function progressCsv(ds: DataSource, user: SessionUser, campaignId:
   const rows = progress.collars.map((c) => {
     const n = byId.get(c.collarId);
     const items = c.items as Record<string, { state: string; done: number; needed: number } | undefined>;
-    return [c.code, c.routeId ? routeName.get(c.routeId) ?? '' : '', n?.plot ?? '', n?.treatments.join(' ') ?? '', round ?? 'all', c.state, c.skipReason ?? '',
-      ...ITEMS.flatMap((k) => (items[k] ? [items[k]!.state, items[k]!.done, items[k]!.needed] : ['not due', '', '']))];
+    return [c.code, c.routeId ? routeName.get(c.routeId) ?? '' : '', n?.plot ?? '', n?.treatments.join(' ') ?? '', round ?? 'all', progressStateWords(c.state), c.skipReason ?? '',
+      ...ITEMS.flatMap((k) => (items[k] ? [progressStateWords(items[k]!.state), items[k]!.done, items[k]!.needed] : [NOT_DUE_WORDS, '', '']))];
   });
   // Codes, names and skip reasons are typed by people: the shared writer keeps them from running as formulas.
   return [header, ...rows].map((r) => csvLine(r, '\r\n')).join('');

@@ -77,7 +77,7 @@ function queueSql(filter: QueueFilter & { id?: string }, readable: string[] | nu
              d.day, d.day - inst.date AS days_since_install, d.day - clip.date AS days_since_clipping,
              (c.started_at::date - cal.at::date) AS calibration_age_days, cal.drift_ppm AS calibration_drift_ppm,
              cal.zero_drift_ppm AS calibration_zero_drift_ppm, cal.span_gas_ppm AS calibration_span_gas_ppm,
-             an.calibration_interval_days, s.calibration_drift_limit_pct,
+             an.calibration_interval_days, s.calibration_drift_limit_pct, s.timezone AS site_timezone,
              EXISTS (SELECT 1 FROM analyzer_check l WHERE l.site_id = c.site_id AND l.kind = 'leak' AND l.passed = false AND NOT l.deleted
                         AND (l.analyzer_id IS NULL OR c.analyzer_id IS NULL OR l.analyzer_id = c.analyzer_id)
                         AND (l.at AT TIME ZONE s.timezone)::date = d.day) AS leak_failed
@@ -129,6 +129,8 @@ export interface QueueItem {
   calibrationAgeDays: number | null; calibrationDriftPpm: number | null; leakFailed: boolean;
   /** The analyzer's interval, the calibration's larger drift in % of its span gas, and the site's limit for it. */
   calibrationIntervalDays: number | null; calibrationDriftPct: number | null; calibrationDriftLimitPct: number;
+  /** The site's IANA zone: the Bench shows every time of the closure in it. */
+  timezone: string;
 }
 
 export interface ChangedMark { at: string; userName: string | null; fields: string[]; previousState: string | null }
@@ -181,6 +183,7 @@ function toItem(r: Record<string, unknown>): QueueItem {
     daysSinceInstall: num(r['days_since_install']), daysSinceClipping: num(r['days_since_clipping']),
     calibrationAgeDays: num(r['calibration_age_days']), calibrationDriftPpm: num(r['calibration_drift_ppm']), leakFailed: Boolean(r['leak_failed']),
     calibrationIntervalDays: num(r['calibration_interval_days']), calibrationDriftLimitPct: Number(r['calibration_drift_limit_pct']),
+    timezone: r['site_timezone'] as string,
     calibrationDriftPct: worstDriftPct({ driftPpm: num(r['calibration_drift_ppm']), zeroDriftPpm: num(r['calibration_zero_drift_ppm']), spanGasPpm: num(r['calibration_span_gas_ppm']) }),
   };
 }

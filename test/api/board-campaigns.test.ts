@@ -4,6 +4,7 @@ import { buildLayout } from '../../server/seed/demo-layout';
 import { DEMO_SITE_ID } from '../support/fixtures';
 import { isolatedDatabase } from '../support/isolated-database';
 import { demoEmail, signIn, startTestApp, type Session, type TestApp } from '../support/test-app';
+import { NOT_DUE_WORDS, PROGRESS_STATE_WORDS } from '../../shared/model/progress-state';
 
 const CREW_ID = '1a6f0c3e-2d4b-4e8a-9c1f-3b5d7e9f1a01';
 type Collar = { collarId: string; code: string; routeId: string; state: string; skipReason: string | null; items: Record<string, { state: string; done: number; needed: number }> };
@@ -53,6 +54,13 @@ describe('Board: planning, progress and closing a campaign', () => {
     expect(lines.find((l) => l.startsWith(`${first.code},`))).toMatch(new RegExp(`^${first.code},West loop \\(blocks 1–2\\),${first.plotCode},[A-Z ]+,1,complete,,complete,1,1,complete,1,1,complete,1,1$`));
     expect(lines.slice(1).map((l) => l.split(',')[5]).sort().join(' ')).toBe(
       [...Array(41).fill('due'), ...Array(5).fill('complete'), 'partial', 'skipped'].sort().join(' '));
+    // Every state cell is a word of the shared table (the Board, Walk and the digest show the same words).
+    const words = new Set(Object.values(PROGRESS_STATE_WORDS));
+    for (const l of lines.slice(1)) {
+      const cells = l.split(',');
+      expect(words.has(cells[5])).toBe(true);
+      for (const i of [7, 10, 13]) expect([...words, NOT_DUE_WORDS]).toContain(cells[i]);
+    }
   });
 
   it('when the progress CSV is asked for a spreadsheet (?bom=1), then it starts with the UTF-8 byte order mark; without, it does not', async () => {

@@ -1,6 +1,7 @@
 /// <reference lib="dom" />
 import { Client } from 'pg';
 import { Page } from 'playwright-core';
+import { FLAG_ADVICE } from '../../shared/flux/flag-advice';
 import { seriousAccessibilityProblems, signInAs } from './support/app-actions';
 import { RunningServer, startAppServer } from './support/app-server';
 import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
@@ -58,7 +59,9 @@ describe('Bench review in Chromium', () => {
 
       // Filter: one QC flag, unreviewed only.
       let q = queueAnswer(page);
-      await pick(page, 'QC flag', 'exp-linear-ratio-high');
+      // The option reads as the flag's words with its code after them.
+      const words = FLAG_ADVICE['exp-linear-ratio-high'].words.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
+      await pick(page, 'QC flag', `${words}\\s*exp-linear-ratio-high`);
       await q;
       q = queueAnswer(page);
       let d = detailAnswer(page);

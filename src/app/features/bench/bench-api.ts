@@ -39,6 +39,8 @@ export interface QueueItem {
   treatmentCode: string | null; campaignName: string; round: number; rain24h: boolean; daysSinceInstall: number | null;
   daysSinceClipping: number | null; calibrationAgeDays: number | null; calibrationDriftPpm: number | null; leakFailed: boolean;
   calibrationIntervalDays: number | null; calibrationDriftPct: number | null; calibrationDriftLimitPct: number;
+  /** The site's IANA zone: every time of the closure is shown in it. */
+  timezone: string;
 }
 
 export interface Page<T> { items: T[]; total: number; limit: number; offset: number }

@@ -2,6 +2,7 @@ import { provideHttpClient } from '@angular/common/http';
 import { provideHttpClientTesting } from '@angular/common/http/testing';
 import { TestBed } from '@angular/core/testing';
 import { provideRouter } from '@angular/router';
+import { FLAG_ADVICE } from '../../../../shared/flux/flag-advice';
 import { rememberOnDevice, testUser } from '../../core/auth/testing/demo-sessions';
 import { Bench } from './bench';
 import { BenchApi, type QueueItem } from './bench-api';
@@ -41,8 +42,16 @@ describe('Bench queue', () => {
     const { rows } = await render([item({}), item({ id: 'c-2', collarCode: 'B1-P01-C2', reviewState: 'unreviewed', fluxUmolM2S: null, flags: ['low-r2', 'ambient-mismatch'] })]);
     expect(rows()).toEqual([
       'B1-P01-C1 · 2026-04-14 accepted · 1.10 µmol m⁻² s⁻¹',
-      'B1-P01-C2 · 2026-04-14 unreviewed · — µmol m⁻² s⁻¹ low-r2 ambient-mismatch',
+      `B1-P01-C2 · 2026-04-14 unreviewed · — µmol m⁻² s⁻¹ ${FLAG_ADVICE['low-r2'].words} low-r2 ambient-mismatch`,
     ]);
+  });
+
+  it('when a closure is flagged, then the queue shows each flag in the words of the shared flag table first, its code only as a detail', async () => {
+    const { el } = await render([item({ flags: ['negative-flux', 'spike'] })]);
+    const flags = [...el.querySelectorAll('.queue-list .flag')];
+    expect(flags.map((f) => f.querySelector('.flag-words')!.textContent!.trim())).toEqual([FLAG_ADVICE['negative-flux'].words, FLAG_ADVICE.spike.words]);
+    expect(flags.map((f) => f.querySelector('.flag-code')!.textContent!.trim())).toEqual(['negative-flux', 'spike']);
+    expect(flags[0].textContent!.trim().startsWith(FLAG_ADVICE['negative-flux'].words)).toBe(true);
   });
 
   it('when a reviewed closure was recomputed since, then its row says so on a line of its own with old → new flux', async () => {

@@ -3,9 +3,11 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatListModule } from '@angular/material/list';
 import { ChangeDetectionStrategy, Component, computed, inject, signal, viewChild } from '@angular/core';
 import { RouterLink } from '@angular/router';
+import { reviewStateWords } from '../../../../shared/model/progress-state';
 import { serverMessage } from '../../core/api/api-error';
 import { SiteChoice } from '../../core/auth/site-choice';
 import { BenchApi, type ClosureDetail, type QueueFilter, type QueueItem } from './bench-api';
+import { FlagWordsPipe } from '../closures/flag-words-pipe';
 import { ClosureView, type Decision } from './closure-view';
 import { BenchResults } from './results/bench-results';
 import { QueueFilters } from './queue-filters';
@@ -20,7 +22,7 @@ const SETTLE_STEP_S = 5;
  */
 @Component({
   selector: 'fw-bench',
-  imports: [BenchResults, ClosureView, DecimalPipe, MatButtonModule, MatListModule, QueueFilters, RecomputePanel, RouterLink],
+  imports: [BenchResults, ClosureView, DecimalPipe, FlagWordsPipe, MatButtonModule, MatListModule, QueueFilters, RecomputePanel, RouterLink],
   templateUrl: './bench.html',
   styleUrl: './bench.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -39,6 +41,7 @@ export class Bench {
   protected readonly problem = signal('');
   /** Results (aggregates, responses, totals, export) share the screen; review keys are off while they show. */
   protected readonly showResults = signal(false);
+  protected readonly reviewWords = reviewStateWords;
   protected readonly unflagged = computed(() => this.items().filter((i) => !i.flags.length && i.reviewState === 'unreviewed').length);
   private readonly view = viewChild(ClosureView);
   private loadSeq = 0;

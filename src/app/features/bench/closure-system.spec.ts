@@ -17,6 +17,7 @@ const detail = {
     profiles: [{ id: 'short-1', name: 'Short', validFrom: '2026-05-01' }, { id: 'tall-1', name: 'Tall', validFrom: '2026-03-01' }],
     analyzers: [{ id: 'A', name: 'A', serial: 'S-1' }, { id: 'B', name: 'B', serial: '' }],
   },
+  context: { timezone: 'UTC' },
 } as unknown as ClosureDetail;
 
 describe('Bench: the closure’s chamber system and flags in words', () => {
@@ -42,5 +43,13 @@ describe('Bench: the closure’s chamber system and flags in words', () => {
     await profile.clickOptions({ text: 'Tall (from 2026-03-01)' });
     await button.click();
     expect(sent).toEqual([{ fields: { profileId: 'tall-1' } }]);
+  });
+
+  it('when the ambient reading is shown, then its time reads in the site’s zone (naming it), not the device’s', async () => {
+    // The device runs in UTC here; 06:00 UTC on 1 June is 18:00 in Auckland (NZST, UTC+12).
+    const fixture = TestBed.createComponent(ClosureSystem);
+    fixture.componentRef.setInput('detail', { ...detail, context: { timezone: 'Pacific/Auckland' } });
+    await fixture.whenStable();
+    expect((fixture.nativeElement as HTMLElement).querySelector('[data-testid="closure-system"]')!.textContent).toContain('read 2026-06-01 18:00 NZST');
   });
 });

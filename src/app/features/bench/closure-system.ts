@@ -1,9 +1,10 @@
-import { DatePipe, DecimalPipe } from '@angular/common';
+import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, input, linkedSignal, output } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatSelectModule } from '@angular/material/select';
 import { flagAdvice } from '../../../../shared/flux';
+import { SiteTimePipe } from '../../core/time/site-time-pipe';
 import type { ClosureDetail } from './bench-api';
 import type { Decision } from './closure-view';
 
@@ -19,13 +20,13 @@ const PROFILE_SOURCE: Record<string, string> = {
  */
 @Component({
   selector: 'fw-closure-system',
-  imports: [DatePipe, DecimalPipe, MatButtonModule, MatFormFieldModule, MatSelectModule],
+  imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatSelectModule, SiteTimePipe],
   template: `
     @let r = c().results;
     <p data-testid="closure-system">Chamber “{{ r.profileName ?? '?' }}”@if (r.profileSource) { ({{ profileSource(r.profileSource) }}) }
       · analyzer {{ analyzerName() }}
       · ambient {{ r.ambientPpm === null ? 'none of this analyzer within 12 h' : (r.ambientPpm | number: '1.0-0') + ' µmol/mol' }}
-      @if (r.ambientAt) { read {{ r.ambientAt | date: 'yyyy-MM-dd HH:mm' : 'UTC' }} UTC }
+      @if (r.ambientAt) { read {{ r.ambientAt | siteTime: detail().context.timezone }} }
       · chamber air temperature {{ airTemp() }}</p>
     @if (flags().length) {
       <ul class="flag-words" data-testid="flag-words">

@@ -20,7 +20,7 @@ function detail(context: Partial<QueueItem>, history: ClosureDetail['history'] =
     settleS: 30, flags: [], fluxUmolM2S: 1.2, reviewState: 'unreviewed', reviewReason: null, reviewSettleS: null, reviewWindowEndS: null,
     reviewModel: null, recomputedSinceReview: null, changedSinceReview: null, collarCode: 'K7', plotCode: 'P1', blockCode: null,
     treatmentCode: null, campaignName: 'June', round: 1, rain24h: false, daysSinceInstall: null, daysSinceClipping: null,
-    calibrationAgeDays: null, calibrationDriftPpm: null, leakFailed: false, ...context } as QueueItem;
+    calibrationAgeDays: null, calibrationDriftPpm: null, leakFailed: false, timezone: 'UTC', ...context } as QueueItem;
   return {
     closure: { id: 'c1', rev: 3, startedAt: ctx.startedAt, settleS: 30, reviewState: 'unreviewed', series: { tS: [0, 1, 2], co2Ppm: [420, 421, 422] },
       results: { raw: fit, review: null, volumeCm3: 4000, areaCm2: 314, meanOffsetCm: 2, ambientPpm: null, pressureIsDefault: false } } as ClosureDetail['closure'],
@@ -64,5 +64,27 @@ describe('ClosureView: raw changes since review', () => {
 
   it('when nothing changed since the last decision, then there is no such notice', () => {
     expect(render(detail({})).querySelector('[data-testid="changed-since-review"]')).toBeNull();
+  });
+});
+
+describe('ClosureView: times in the site’s zone', () => {
+  // The test runs with the device in UTC; the site is in Auckland (NZST, UTC+12 in June), so a
+  // time shown in the device's zone or in UTC reads differently from the site's.
+  it('when a closure is shown, then its start, the change notice, the offset set day, replicates and history read in the site’s zone', () => {
+    const d = detail({ timezone: 'Pacific/Auckland', startedAt: '2026-06-01T20:30:00.000Z',
+      changedSinceReview: { at: '2026-06-02T13:15:00.000Z', userName: 'Ana Crew', fields: ['settleS'], previousState: 'accepted' } },
+    [{ id: 1, at: '2026-06-02T13:15:00.000Z', kind: 'raw-change', field: 'settleS', oldValue: 20, newValue: 30, oldFluxUmolM2S: 1, newFluxUmolM2S: 1.2, userName: 'Ana Crew' }]);
+    d.closure.startedAt = '2026-06-01T20:30:00.000Z';
+    d.offsetSet = { id: 'o', takenAt: '2026-05-31T19:00:00.000Z', meanCm: 2, supersedesId: null } as ClosureDetail['offsetSet'];
+    d.replicates = [{ id: 'c1', startedAt: '2026-06-01T20:30:05.000Z', fluxUmolM2S: 1.2, reviewState: 'unreviewed', flags: [], settleS: 30 } as ClosureDetail['replicates'][number]];
+    d.collarHistory = [{ id: 'c1', startedAt: '2026-06-01T20:30:00.000Z', fluxUmolM2S: 1.2, reviewState: 'unreviewed', flags: [] }];
+    const el = render(d);
+    const text = (sel: string) => el.querySelector(sel)!.textContent!.replace(/\s+/g, ' ').trim();
+    expect(text('#closure-title')).toBe('Collar K7 · 2026-06-02 08:30 NZST');
+    expect(text('[data-testid="changed-since-review"]')).toContain('on 2026-06-03 01:15 NZST after it was accepted');
+    expect(el.textContent).toContain('offset set of 2026-06-01,');
+    expect(text('.replicates li')).toMatch(/^08:30:05 NZST/);
+    expect(el.querySelector('.history-bars li')!.getAttribute('title')).toBe('2026-06-02: 1.200');
+    expect(text('[data-testid="history"]')).toContain('2026-06-03 01:15 NZST · Ana Crew');
   });
 });

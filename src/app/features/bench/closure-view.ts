@@ -1,4 +1,4 @@
-import { DatePipe, DecimalPipe } from '@angular/common';
+import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, ElementRef, computed, effect, input, output, signal, untracked, viewChild } from '@angular/core';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -13,6 +13,8 @@ import { ClosureTraces } from './closure-traces';
 import { detectionLimitNote, fluxBases } from './flux-bases';
 import { PointExclusions, exclusionText, type PointsChange } from './point-exclusions';
 import type { PointExclusion } from '../../../../shared/model/point-exclusion';
+import { SiteTimePipe } from '../../core/time/site-time-pipe';
+import { FlagWordsPipe } from '../closures/flag-words-pipe';
 
 /** A review-field edit (PATCH), points left out of the fit / put back, or a move to another visit (the Bench's routes). */
 export interface Decision { fields: Record<string, unknown>; points?: PointsChange; move?: string }
@@ -24,7 +26,7 @@ export interface Decision { fields: Record<string, unknown>; points?: PointsChan
  */
 @Component({
   selector: 'fw-closure-view',
-  imports: [ClosureChart, ClosureMove, ClosureSystem, ClosureTraces, DatePipe, DecimalPipe, PointExclusions, FormsModule, MatButtonModule, MatInputModule, MatListModule, MatSelectModule],
+  imports: [ClosureChart, ClosureMove, ClosureSystem, ClosureTraces, DecimalPipe, FlagWordsPipe, PointExclusions, FormsModule, SiteTimePipe, MatButtonModule, MatInputModule, MatListModule, MatSelectModule],
   templateUrl: './closure-view.html',
   styleUrl: './bench.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

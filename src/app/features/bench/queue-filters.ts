@@ -4,6 +4,8 @@ import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { narrowScreen } from '../../core/layout/narrow-screen';
 import { QC_FLAGS } from '../../../../shared/flux';
+import { REVIEW_STATE_WORDS, REVIEW_STATES } from '../../../../shared/model/progress-state';
+import { FlagWordsPipe } from '../closures/flag-words-pipe';
 import { BenchApi, type Named, type QueueFilter } from './bench-api';
 
 /**
@@ -12,7 +14,7 @@ import { BenchApi, type Named, type QueueFilter } from './bench-api';
  */
 @Component({
   selector: 'fw-queue-filters',
-  imports: [MatExpansionModule, MatInputModule, MatSelectModule],
+  imports: [FlagWordsPipe, MatExpansionModule, MatInputModule, MatSelectModule],
   templateUrl: './queue-filters.html',
   styleUrl: './bench.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -22,6 +24,8 @@ export class QueueFilters {
   readonly changed = output<QueueFilter>();
   private readonly api = inject(BenchApi);
   protected readonly flags = Object.keys(QC_FLAGS);
+  protected readonly reviewStates = REVIEW_STATES;
+  protected readonly reviewWords = REVIEW_STATE_WORDS;
   protected readonly campaigns = signal<Named[]>([]);
   protected readonly plots = signal<Named[]>([]);
   protected readonly treatments = signal<Named[]>([]);

@@ -13,9 +13,10 @@ function job(over: Partial<RecomputeJob>): RecomputeJob {
 
 const settle = () => new Promise((r) => setTimeout(r, 0));
 
-async function render(roles: Role[], jobs: RecomputeJob[]) {
+async function render(roles: Role[], jobs: RecomputeJob[], timezone?: string) {
   localStorage.clear();
-  rememberOnDevice(testUser(roles));
+  if (timezone) rememberOnDevice(testUser(roles), [{ id: 'site-a', name: 'Hollow Creek Meadow', timezone }]);
+  else rememberOnDevice(testUser(roles));
   TestBed.configureTestingModule({ imports: [RecomputePanel], providers: [provideHttpClient(), provideHttpClientTesting()] });
   const fixture = TestBed.createComponent(RecomputePanel);
   fixture.componentRef.setInput('siteId', 'site-a');
@@ -36,6 +37,13 @@ async function render(roles: Role[], jobs: RecomputeJob[]) {
 
 describe('RecomputePanel', () => {
   afterEach(() => TestBed.inject(HttpTestingController).verify({ ignoreCancelled: true }));
+
+  it('when a job is listed, then the time it was asked reads in the site’s zone (naming it), not the device’s', async () => {
+    // The device runs in UTC here; 08:00 UTC on 4 May is 20:00 in Auckland (NZST, UTC+12).
+    const { items, fixture } = await render(['lab'], [job({ state: 'completed', done: 1, total: 1, result: { examined: 1, changed: 0, lockedKept: 0, changedIds: [] } })], 'Pacific/Auckland');
+    expect(items()[0]).toContain('asked 2026-05-04 20:00 NZST');
+    fixture.destroy();
+  });
 
   it('when a recompute of the chosen site is running, then its progress bar shows done of total and other sites are left out', async () => {
     const { el, items, fixture } = await render(['lab'], [

@@ -1,9 +1,9 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, output, signal, untracked } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { serverMessage } from '../../core/api/api-error';
 import { AuthStore } from '../../core/auth/auth-store';
+import { SiteTimePipe } from '../../core/time/site-time-pipe';
 import { BenchApi, type RecomputeJob } from './bench-api';
 
 /** How often a queued or running recompute is asked for its progress. */
@@ -21,7 +21,7 @@ const STATE_WORDS: Record<RecomputeJob['state'], string> = { queued: 'waiting', 
  */
 @Component({
   selector: 'fw-recompute-panel',
-  imports: [DatePipe, MatButtonModule, MatProgressBarModule],
+  imports: [MatButtonModule, MatProgressBarModule, SiteTimePipe],
   template: `
     <section class="recompute" aria-labelledby="recompute-heading">
       <h2 id="recompute-heading">Recompute</h2>
@@ -31,7 +31,7 @@ const STATE_WORDS: Record<RecomputeJob['state'], string> = { queued: 'waiting', 
       <ul data-testid="recompute-jobs">
         @for (j of shown(); track j.id) {
           <li [attr.data-state]="j.state">
-            <span class="state">{{ word(j) }}</span> · asked {{ j.createdAt | date: 'yyyy-MM-dd HH:mm' }}
+            <span class="state">{{ word(j) }}</span> · asked {{ j.createdAt | siteTime: zone() }}
             @if (j.state === 'queued' || j.state === 'active') {
               · {{ j.done }} / {{ j.total ?? '?' }} closures
               <mat-progress-bar [attr.aria-label]="'Recompute progress, ' + j.done + ' of ' + (j.total ?? 'unknown') + ' closures'"
@@ -64,8 +64,11 @@ const STATE_WORDS: Record<RecomputeJob['state'], string> = { queued: 'waiting', 
 })
 export class RecomputePanel {
   private readonly api = inject(BenchApi);
-  private readonly roles = inject(AuthStore).roles;
+  private readonly auth = inject(AuthStore);
+  private readonly roles = this.auth.roles;
   readonly siteId = input.required<string>();
+  /** The site's zone: times are shown in it. */
+  protected readonly zone = computed(() => this.auth.sites().find((s) => s.id === this.siteId())?.timezone ?? 'UTC');
   readonly changed = output<RecomputeJob>();
   protected readonly jobs = signal<RecomputeJob[]>([]);
   protected readonly asking = signal(false);

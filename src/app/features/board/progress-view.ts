@@ -6,6 +6,7 @@ import { MatExpansionModule } from '@angular/material/expansion';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { MatSlideToggleModule } from '@angular/material/slide-toggle';
+import { NOT_DUE_WORDS, PROGRESS_STATE_WORDS, PROGRESS_STATES, progressCountsText } from '../../../../shared/model/progress-state';
 import { narrowScreen } from '../../core/layout/narrow-screen';
 import { BoardApi, type ItemKey } from './board-api';
 import { BoardStore } from './board-store';
@@ -35,6 +36,9 @@ export class ProgressView {
   protected readonly descending = signal(false);
   protected readonly groupBy = signal<'route' | 'plot' | 'treatment'>('route');
   protected readonly itemText = itemText;
+  protected readonly states = PROGRESS_STATES;
+  protected readonly stateWords = PROGRESS_STATE_WORDS;
+  protected readonly notDue = NOT_DUE_WORDS;
   protected readonly items: { key: ItemKey; label: string }[] = [
     { key: 'offset', label: 'Offset' }, { key: 'closures', label: 'Closures' }, { key: 'probes', label: 'Probes' },
   ];
@@ -51,6 +55,7 @@ export class ProgressView {
     for (const r of this.shown()) c[r.state]++;
     return c;
   });
+  protected readonly countsText = computed(() => progressCountsText(this.counts(), ' · '));
 
   protected readonly bars = computed<GroupBar[]>(() => {
     const by = this.groupBy();
@@ -74,6 +79,12 @@ export class ProgressView {
 
   protected pct(bar: GroupBar, state: 'complete' | 'skipped' | 'partial'): number {
     return bar.total ? (100 * bar.counts[state]) / bar.total : 0;
+  }
+
+  /** The bar read aloud: done states first, as the bar fills. */
+  protected barLabel(b: GroupBar): string {
+    const w = PROGRESS_STATE_WORDS;
+    return `${b.label}: ${b.counts.complete} ${w.complete}, ${b.counts.skipped} ${w.skipped}, ${b.counts.partial} ${w.partial}, ${b.counts.due} ${w.due} of ${b.total}`;
   }
 
   protected byId(_: number, r: ProgressRow): string {

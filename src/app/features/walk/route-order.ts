@@ -1,4 +1,5 @@
 import type { LocalRecord } from '../../core/db/db-schema';
+import { progressCountsText } from '../../../../shared/model/progress-state';
 import type { CollarState } from '../../core/map/collar-states';
 
 export type { CollarState };
@@ -55,4 +56,11 @@ export function collarProgress(
 /** The next collar to walk to: the first in walking order that is still due or partly done. */
 export function nextDueIndex(states: readonly CollarState[]): number {
   return states.findIndex((s) => s === 'due' || s === 'partial');
+}
+
+/** "2 due, 1 partial, 3 complete, 1 skipped": the route's collars counted in the words the Board and the digest use. */
+export function routeSummary(states: readonly CollarState[]): string {
+  const counts = { due: 0, partial: 0, complete: 0, skipped: 0 };
+  for (const s of states) counts[s]++;
+  return progressCountsText(counts);
 }

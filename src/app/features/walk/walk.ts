@@ -14,7 +14,7 @@ import { localDay } from '../../../../shared/time/site-time';
 import { Gps, wayTo } from './gps';
 import { QrScan } from './qr-scan';
 import { STATE_GLYPHS, STATE_WORDS } from '../../core/map/collar-states';
-import { nextDueIndex } from './route-order';
+import { nextDueIndex, routeSummary } from './route-order';
 import { CHECK_ITEMS } from './start-of-day-items';
 import { WalkContext } from '../field-day/walk-context';
 import { localDayStart, routeView, todayChecks, walkOptions } from './walk-store';
@@ -80,10 +80,7 @@ export class Walk {
     const n = this.next();
     return n ? wayTo(this.fix(), n.latitude, n.longitude) : null;
   });
-  protected readonly counts = computed(() => {
-    const rows = this.route()?.rows ?? [];
-    return { done: rows.filter((r) => r.state === 'complete' || r.state === 'skipped').length, all: rows.length };
-  });
+  protected readonly summary = computed(() => routeSummary((this.route()?.rows ?? []).map((r) => r.state)));
 
   constructor() {
     const stop = this.gps.watch();
