@@ -1,4 +1,4 @@
-import { formatSiteTime, localDay, siteIsoLocal, siteToday } from './site-time';
+import { formatSiteTime, localDay, siteDayStart, siteDayStartOf, siteIsoLocal, siteToday } from './site-time';
 
 // Expected values are the IANA tz database's rules (tzdata, read through the runtime's Intl):
 // Europe/Berlin CET+1/CEST+2 switching on the last Sundays of March and October at 01:00 UTC;
@@ -59,5 +59,31 @@ describe('site time', () => {
     expect(formatSiteTime(null, 'UTC')).toBe('');
     expect(formatSiteTime('not a time', 'UTC')).toBe('');
     expect(formatSiteTime('2026-07-01T10:05:09Z', 'UTC', { timeOnly: true, seconds: true })).toBe('10:05:09 UTC');
+  });
+});
+
+describe('start of the site day', () => {
+  it('when the site is in Auckland, then its day starts at its own midnight (11:00 or 12:00 UTC the day before), not the device’s', () => {
+    // NZST UTC+12 in June; NZDT UTC+13 in January (tz database).
+    expect(siteDayStartOf('2026-06-02', 'Pacific/Auckland')).toBe('2026-06-01T12:00:00.000Z');
+    expect(siteDayStartOf('2026-01-15', 'Pacific/Auckland')).toBe('2026-01-14T11:00:00.000Z');
+    // 20:00 UTC on 1 June is already 2 June in Auckland.
+    expect(siteDayStart('Pacific/Auckland', new Date('2026-06-01T20:00:00Z'))).toBe('2026-06-01T12:00:00.000Z');
+    expect(siteDayStart('America/Anchorage', new Date('2026-07-02T03:30:00Z'))).toBe('2026-07-01T08:00:00.000Z');
+  });
+
+  it('when the clocks change that day, then the day still starts at its midnight in the offset before the change', () => {
+    // Berlin switches at 02:00 CET on 2026-03-29: midnight is still CET (UTC+1).
+    expect(siteDayStartOf('2026-03-29', 'Europe/Berlin')).toBe('2026-03-28T23:00:00.000Z');
+    expect(siteDayStartOf('2026-10-25', 'Europe/Berlin')).toBe('2026-10-24T22:00:00.000Z');
+  });
+
+  it('when the clocks skip midnight, then the day starts at the first instant that is on it', () => {
+    // America/Santiago moves from 00:00 to 01:00 on 2026-09-06 (UTC−4 → UTC−3, tz database):
+    // the day starts at 01:00 UTC−3 = 04:00 UTC.
+    const start = siteDayStartOf('2026-09-06', 'America/Santiago');
+    expect(start).toBe('2026-09-06T04:00:00.000Z');
+    expect(localDay(start, 'America/Santiago')).toBe('2026-09-06');
+    expect(localDay(new Date(Date.parse(start) - 1), 'America/Santiago')).toBe('2026-09-05');
   });
 });

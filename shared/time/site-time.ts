@@ -28,6 +28,36 @@ export function siteToday(timeZone: string, now: Date | number = Date.now()): st
   return localDay(now, timeZone);
 }
 
+/**
+ * The first instant of a site day (YYYY-MM-DD) as an ISO string: the site's midnight. Where the
+ * clocks skip midnight it is the first instant on that day; where midnight repeats, the earlier one.
+ */
+export function siteDayStartOf(day: string, timeZone: string): string {
+  const [y, m, d] = day.split('-').map(Number);
+  const wall = Date.UTC(y, m - 1, d);
+  let t = wall - offsetMs(wall, timeZone);
+  t = wall - offsetMs(t, timeZone);
+  // Zone changes fall on whole quarter hours: step to the day's first quarter hour, then back while still on it.
+  for (let i = 0; i < 16 && localDay(t, timeZone) < day; i++) t += QUARTER_HOUR_MS;
+  for (let i = 0; i < 16 && localDay(t - QUARTER_HOUR_MS, timeZone) === day; i++) t -= QUARTER_HOUR_MS;
+  return new Date(t).toISOString();
+}
+
+/** The start of "today" at the site (its midnight), as an ISO instant: what "made today" means. */
+export function siteDayStart(timeZone: string, now: Date | number = Date.now()): string {
+  return siteDayStartOf(siteToday(timeZone, now), timeZone);
+}
+
+const QUARTER_HOUR_MS = 900_000;
+
+/** The zone's offset from UTC (ms, local − UTC) at an instant. */
+function offsetMs(instant: number, timeZone: string): number {
+  const p = siteTimeParts(instant, timeZone, true);
+  const [y, mo, da] = p.day.split('-').map(Number);
+  const [h, mi, s] = p.time.split(':').map(Number);
+  return Date.UTC(y, mo - 1, da, h, mi, s) - Math.floor(instant / 1000) * 1000;
+}
+
 // The short zone name differs by locale: CET/CEST only in en-GB, AKDT in en-US, NZDT/AEDT in en-AU,
 // IST in en-IN. The first locale that has letters for the zone wins; else the GMT±h offset stays.
 const NAME_LOCALES = ['en-US', 'en-GB', 'en-AU', 'en-IN'];

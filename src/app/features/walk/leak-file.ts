@@ -1,4 +1,5 @@
 import { guessLayout, pieceSeries, splitClosures, suggestMapping, type LoggerMapping } from '../../../../shared/logger';
+import { formatSiteTime } from '../../../../shared/time/site-time';
 import { readLoggerFile } from '../closures/logger-reader';
 
 export interface LeakPiece {
@@ -23,7 +24,8 @@ export async function leakPieces(text: string, timeZone: string, preset: LoggerM
   const read = await readLoggerFile(text, mapping, () => undefined);
   return splitClosures(read.samples).pieces.map((p, i) => {
     const s = pieceSeries(p);
-    const when = p.startMs !== null ? `, ${new Date(p.startMs).toLocaleTimeString()}` : '';
+    // The site's wall clock, as the crew's logger and watch read it (not the phone's zone).
+    const when = p.startMs !== null ? `, ${formatSiteTime(p.startMs, timeZone, { timeOnly: true, seconds: true })}` : '';
     return { label: `Piece ${i + 1}: lines ${p.firstLine}–${p.lastLine}${when}, ${s.tS.length} samples`, series: { tS: s.tS, co2Ppm: s.co2Ppm } };
   });
 }

@@ -33,6 +33,14 @@ describe('settlingNote', () => {
     expect(settlingNote(collar('2026-03-01'), events, site, NOW)).toEqual({ level: 'warn', days: 3, since: '2026-06-12', what: 'reseated' });
   });
 
+  it('when the site’s day is ahead of the device’s, then the days since the install count by the site’s calendar', () => {
+    // 20:00 UTC on 14 June is 08:00 on 15 June in Auckland (NZST, UTC+12): an install on the 14th is a day old there.
+    const auckland = { ...site, timezone: 'Pacific/Auckland' } as LocalRecord;
+    expect(settlingNote(collar('2026-06-14'), [], auckland, new Date('2026-06-14T20:00:00Z'))).toMatchObject({ days: 1 });
+    // 11:00 UTC on 15 June is 01:00 on 15 June in Honolulu (HST, UTC−10): still the day of a 15 June install.
+    expect(settlingNote(collar('2026-06-15'), [], { ...site, timezone: 'Pacific/Honolulu' } as LocalRecord, new Date('2026-06-15T11:00:00Z'))).toMatchObject({ days: 0 });
+  });
+
   it('when the warning limit has passed, or the only recent reseat was deleted, then there is no note', () => {
     expect(settlingNote(collar('2026-06-08'), [], site, NOW)).toBeNull(); // 7 days: not < 7
     expect(settlingNote(collar('2026-01-10'), [event('reseated', '2026-06-14', true)], site, NOW)).toBeNull();
@@ -56,7 +64,7 @@ describe('Visit screen settling warning', () => {
   let userNo = 0;
   afterEach(() => localStorage.clear());
 
-  async function open(installedOn: string, events: LocalRecord[]) {
+  async function open(installedOn: string, events: LocalRecord[], extra: { timezone?: string; closures?: LocalRecord[] } = {}) {
     const userId = `0000000${++userNo}-0000-4000-8000-00000000000d`.slice(-36);
     localStorage.setItem('fw.session', JSON.stringify({
       user: { id: userId, email: 'crew@fluxwalk.example', displayName: 'Crew', roles: ['crew'], siteIds: [SITE] },
@@ -64,7 +72,8 @@ describe('Visit screen settling warning', () => {
     }));
     TestBed.configureTestingModule({ providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting()] });
     const db: FluxDb = await until(() => TestBed.inject(DeviceDb).db(), 'the database');
-    await db.records('site').put({ ...site, name: 'Test site', moistureCalibration: { kind: 'topp' } });
+    await db.records('site').put({ ...site, name: 'Test site', moistureCalibration: { kind: 'topp' }, ...(extra.timezone ? { timezone: extra.timezone } : {}) });
+    if (extra.closures) await db.records('closure').bulkPut(extra.closures.map((c) => ({ ...c, siteId: SITE, collarId: COLLAR })));
     await db.records('plot').put({ id: PLOT, rev: 1, siteId: SITE, code: 'P1' });
     await db.records('collar').put({ id: COLLAR, rev: 1, siteId: SITE, plotId: PLOT, code: 'W-03', shape: 'round', diameterCm: 20, status: 'active', installedOn });
     await db.records('collarEvent').bulkPut(events.map((e) => ({ ...e, siteId: SITE, collarId: COLLAR })));
@@ -73,7 +82,7 @@ describe('Visit screen settling warning', () => {
     const el = fixture.nativeElement as HTMLElement;
     await until(() => el.querySelector('[data-testid="visit-code"]')?.textContent === 'W-03', 'the collar');
     const warning = () => el.querySelector('[data-testid="settling"]');
-    return { fixture, warning };
+    return { fixture, warning, el };
   }
 
   it('when the collar went in today, then the screen tells the crew to wait before closures, as an alert', async () => {
@@ -94,6 +103,15 @@ describe('Visit screen settling warning', () => {
   it('when the last disturbance is older than the warning limit, then no settling warning shows', async () => {
     const { fixture, warning } = await open(localDaysAgo(30), [event('reseated', localDaysAgo(8))]);
     expect(warning()).toBeNull();
+    fixture.destroy();
+  });
+
+  it('when the collar has a flux from an earlier visit, then its day reads as the site’s day, not the device’s', async () => {
+    // 20:30 UTC on 1 June is 08:30 on 2 June in Auckland (NZST, UTC+12); the device runs in UTC.
+    const { fixture, el } = await open('2026-01-10', [], { timezone: 'Pacific/Auckland',
+      closures: [{ id: '55555555-5555-4555-8555-555555555555', rev: 1, startedAt: '2026-06-01T20:30:00.000Z', fluxUmolM2S: 2.5 } as LocalRecord] });
+    const line = await until(() => (el.querySelector('.facts-line')?.textContent?.includes('2.50') ? el.querySelector('.facts-line')!.textContent! : null), 'the last flux');
+    expect(line.replace(/\s+/g, ' ')).toContain('last flux 2.50 µmol m⁻² s⁻¹ (2026-06-02)');
     fixture.destroy();
   });
 });

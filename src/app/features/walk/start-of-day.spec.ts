@@ -6,6 +6,7 @@ import { MatSelectHarness } from '@angular/material/select/testing';
 import { ClosureWrites } from '../closures/closure-writes';
 import { signedInDevice, TEST_SITE } from '../../core/db/testing/signed-in-device';
 import { until } from '../../core/db/testing/until';
+import { formatSiteTime, siteDayStart } from '../../../../shared/time/site-time';
 import { StartOfDay } from './start-of-day';
 import { WalkContext } from '../field-day/walk-context';
 
@@ -45,6 +46,45 @@ describe('Start of day: the crew’s chamber system', () => {
       site, profiles, { tS, co2Ppm: [420, 421, 422, 423], h2oMmolMol: null, pressureKpa: null, tempC: null },
       '2026-06-01T09:00:00.000Z', '2026-06-01T09:00:30.000Z', null);
     expect(rec).toMatchObject({ profileId: TALL, analyzerId: ANALYZER, settleS: 30 });
+    fixture.destroy();
+  });
+});
+
+describe('Start of day: the site’s day and time', () => {
+  afterEach(() => localStorage.clear());
+  const ZONE = 'Pacific/Auckland';
+
+  async function render(checks: { kind: string; at: string }[]) {
+    const { db } = await signedInDevice();
+    await db.records('site').put({ id: TEST_SITE, rev: 1, name: 'Test site', timezone: ZONE });
+    let n = 0;
+    for (const c of checks) {
+      await db.records('analyzerCheck').put({ id: `bbbbbbbb-0000-4000-8000-00000000000${++n}`, rev: 1, siteId: TEST_SITE, skipped: false, passed: true, ...c });
+    }
+    const fixture = TestBed.createComponent(StartOfDay);
+    const el = fixture.nativeElement as HTMLElement;
+    return { fixture, el };
+  }
+
+  it('when a check was made today, then its time reads in the site’s zone (naming it), not the device’s', async () => {
+    // The device runs in UTC; Auckland is 12 or 13 hours ahead.
+    const at = new Date(Date.now() - 60_000).toISOString();
+    const { fixture, el } = await render([{ kind: 'safety-ack', at }]);
+    const shown = await until(async () => { fixture.detectChanges(); return el.querySelector('[data-testid="check-safety-ack"] [data-testid="check-result"]')?.textContent ?? null; }, 'the check');
+    expect(shown.replace(/\s+/g, ' ')).toContain(`(${formatSiteTime(at, ZONE, { timeOnly: true })})`);
+    fixture.destroy();
+  });
+
+  it('when the device’s day and the site’s day start at different instants, then a check counts for today by the site’s day', async () => {
+    const now = new Date();
+    const deviceStart = new Date(now.getFullYear(), now.getMonth(), now.getDate()).getTime();
+    const siteStart = Date.parse(siteDayStart(ZONE, now));
+    // An instant between the two starts is "today" on one clock and "yesterday" on the other.
+    const between = new Date(Math.min(deviceStart, siteStart) + Math.abs(siteStart - deviceStart) / 2).toISOString();
+    const todayAtSite = between >= new Date(siteStart).toISOString();
+    const { fixture, el } = await render([{ kind: 'warm-up', at: between }, { kind: 'safety-ack', at: new Date(now.getTime() - 1000).toISOString() }]);
+    await until(async () => { fixture.detectChanges(); return el.querySelector('[data-testid="check-safety-ack"] [data-testid="check-result"]'); }, 'the checks');
+    expect(!!el.querySelector('[data-testid="check-warm-up"] [data-testid="check-result"]')).toBe(todayAtSite);
     fixture.destroy();
   });
 });

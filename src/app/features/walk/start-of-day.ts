@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -7,6 +6,7 @@ import { MatSelectModule } from '@angular/material/select';
 import { RouterLink } from '@angular/router';
 import { TYPICAL_SETTLE_TIME_S } from '../../../../shared/flux';
 import { DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT } from '../../../../shared/model/calibration';
+import { siteDayStart, siteToday } from '../../../../shared/time/site-time';
 import { SiteChoice } from '../../core/auth/site-choice';
 import type { LocalRecord } from '../../core/db/db-schema';
 import { textMediaType } from '../../core/db/device-files';
@@ -18,7 +18,8 @@ import { LeakCheck, type LeakResult } from './leak-check';
 import { parseCm } from './offset-form';
 import { CHECK_ITEMS, clockOffsetS, type CheckKind } from './start-of-day-items';
 import { WalkContext } from '../field-day/walk-context';
-import { localDayStart, todayChecks, walkOptions } from './walk-store';
+import { SiteTimePipe } from '../../core/time/site-time-pipe';
+import { todayChecks, walkOptions } from './walk-store';
 
 /**
  * The checks before the first collar: the site's safety note (acknowledged), analyzer, warm-up,
@@ -27,7 +28,7 @@ import { localDayStart, todayChecks, walkOptions } from './walk-store';
  */
 @Component({
   selector: 'fw-start-of-day',
-  imports: [DatePipe, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule, RouterLink, LeakCheck, CalibrationCard],
+  imports: [SiteTimePipe, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule, RouterLink, LeakCheck, CalibrationCard],
   templateUrl: './start-of-day.html',
   styleUrl: './walk.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -38,7 +39,7 @@ export class StartOfDay {
   private readonly writes = inject(LocalWrites);
   protected readonly choice = this.walk.choice;
   protected readonly options = walkOptions(() => this.site()?.id ?? null);
-  private readonly checks = todayChecks(() => ({ siteId: this.site()?.id ?? null, since: localDayStart() }));
+  private readonly checks = todayChecks(() => ({ siteId: this.site()?.id ?? null, since: siteDayStart(this.timeZone()) }));
   protected readonly items = CHECK_ITEMS;
   protected readonly latest = computed(() => {
     const by: Partial<Record<string, LocalRecord>> = {};
@@ -52,7 +53,7 @@ export class StartOfDay {
   private readonly profiles = liveSignal(() => this.site()?.id ?? null, async (db, siteId) =>
     siteId ? (await db.records('chamberProfile').where('siteId').equals(siteId).toArray()).filter((p) => !p.deleted) : [], []);
   protected readonly settleDefault = computed(() => {
-    const today = new Date().toISOString().slice(0, 10);
+    const today = siteToday(this.timeZone());
     const current = this.profiles().filter((p) => String(p['validFrom']) <= today).sort((a, b) => String(b['validFrom']).localeCompare(String(a['validFrom'])))[0];
     return typeof current?.['settleS'] === 'number' ? current['settleS'] : TYPICAL_SETTLE_TIME_S;
   });
@@ -60,7 +61,7 @@ export class StartOfDay {
   protected readonly driftLimit = computed(() => Number(this.options()?.site?.['calibrationDriftLimitPct'] ?? DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT));
   /** The site's chambers (one entry per profile name, its version valid today): the crew picks the one it carries. */
   protected readonly chambers = computed(() => {
-    const today = new Date().toISOString().slice(0, 10);
+    const today = siteToday(this.timeZone());
     const byName = new Map<string, LocalRecord>();
     for (const p of this.profiles()) {
       const name = String(p['name'] ?? '');

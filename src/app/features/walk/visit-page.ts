@@ -1,5 +1,5 @@
 import { ClosurePanel } from '../closures/closure-panel';
-import { DatePipe, DecimalPipe } from '@angular/common';
+import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, signal, untracked } from '@angular/core';
 import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
@@ -11,6 +11,8 @@ import { MatInputModule } from '@angular/material/input';
 import { RouterLink } from '@angular/router';
 import { profileForClosure } from '../../../../shared/flux/chamber-system';
 import { collarAreaCm2, offsetStats } from '../../../../shared/model/derived';
+import { siteToday } from '../../../../shared/time/site-time';
+import { SiteTimePipe } from '../../core/time/site-time-pipe';
 import { AirTempField } from './air-temp-field';
 import { AUTOSAVE_MS, OffsetForm } from './offset-form';
 import { nextDueIndex } from './route-order';
@@ -42,7 +44,7 @@ type ConditionsForm = FormGroup<{ [K in keyof Required<VisitConditions>]: FormCo
  */
 @Component({
   selector: 'fw-visit-page',
-  imports: [DatePipe, DecimalPipe, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatInputModule, OffsetForm, ProbeForm, ReactiveFormsModule, RouterLink, SkipForm, ClosurePanel, AirTempField],
+  imports: [SiteTimePipe, DecimalPipe, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatInputModule, OffsetForm, ProbeForm, ReactiveFormsModule, RouterLink, SkipForm, ClosurePanel, AirTempField],
   templateUrl: './visit-page.html',
   styleUrl: './walk.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -116,11 +118,14 @@ export class VisitPage {
     return { siteId: String(v.collar['siteId']), campaignId: c.campaignId, round: c.round, collarId: v.collar.id };
   });
 
+  /** The site's zone: days and times on this screen are the site's. */
+  protected readonly zone = computed(() => String(this.view()?.site?.['timezone'] ?? 'UTC'));
+
   protected readonly offsetContext = computed(() => {
     const v = this.view();
     if (!v) return null;
     const c = v.collar as unknown as Parameters<typeof collarAreaCm2>[0];
-    const day = new Date().toISOString().slice(0, 10);
+    const day = siteToday(this.zone());
     // The crew's own chamber (the one its closures carry), not the newest profile of the site.
     const chamber = profileForClosure(v.profiles.map((p) => ({ ...p, areaCm2: 0 })), this.choice().profileId, day,
       (v.site?.['defaultProfileId'] as string | null) ?? null);

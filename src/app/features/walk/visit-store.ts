@@ -2,6 +2,7 @@ import { Signal } from '@angular/core';
 import type { FluxDb, LocalRecord } from '../../core/db/db-schema';
 import { liveSignal } from '../../core/db/live-query-signal';
 import type { MoistureCalibration } from '../../../../shared/model/derived';
+import { siteToday } from '../../../../shared/time/site-time';
 
 export interface VisitKey {
   collarId: string;
@@ -40,9 +41,9 @@ export interface VisitView {
 
 const DAY_MS = 86_400_000;
 
-/** Whole days between a YYYY-MM-DD date and today (device clock). */
-function daysSince(date: string, now: Date): number {
-  return Math.floor((Date.UTC(now.getFullYear(), now.getMonth(), now.getDate()) - Date.parse(`${date.slice(0, 10)}T00:00:00Z`)) / DAY_MS);
+/** Whole calendar days from a YYYY-MM-DD date to the site day `today`. */
+function daysSince(date: string, today: string): number {
+  return Math.round((Date.parse(`${today}T00:00:00Z`) - Date.parse(`${date.slice(0, 10)}T00:00:00Z`)) / DAY_MS);
 }
 
 /**
@@ -56,7 +57,8 @@ export function settlingNote(collar: LocalRecord, events: readonly LocalRecord[]
   if (typeof collar['installedOn'] === 'string') disturbing.push({ date: collar['installedOn'], what: 'installed' });
   const latest = disturbing.sort((a, b) => b.date.localeCompare(a.date))[0];
   if (!latest) return null;
-  const days = daysSince(latest.date, now);
+  // Event dates are site days, so "today" is the site's too (not the device's).
+  const days = daysSince(latest.date, siteToday(String(site?.['timezone'] ?? 'UTC'), now));
   const hard = Number(site?.['settlingDaysHard'] ?? 1);
   const warn = Number(site?.['settlingDaysWarn'] ?? 7);
   if (days < hard) return { level: 'hard', days, since: latest.date, what: latest.what };

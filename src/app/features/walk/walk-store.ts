@@ -100,12 +100,7 @@ export function routeView(params: () => RouteParams): Signal<RouteView | null | 
   return liveSignal(params, loadRoute, undefined as RouteView | null | undefined);
 }
 
-/** Start of the device's local day, as an ISO instant (checks count for the day they were made). */
-export function localDayStart(now: Date = new Date()): string {
-  return new Date(now.getFullYear(), now.getMonth(), now.getDate()).toISOString();
-}
-
-/** Today's analyzer checks at the site, newest first per kind. */
+/** Today's analyzer checks at the site, newest first per kind; `since` is the site day's start (shared/time siteDayStart). */
 export function todayChecks(params: () => { siteId: string | null; since: string }): Signal<LocalRecord[]> {
   return liveSignal(params, async (db, p) => {
     if (!p.siteId) return [];

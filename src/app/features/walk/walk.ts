@@ -10,14 +10,14 @@ import { SiteChoice } from '../../core/auth/site-choice';
 import { DeviceDb } from '../../core/db/device-db';
 import { SyncEngine } from '../../core/sync/sync-engine';
 import { notYetSynced } from '../../core/sync/sync-status';
-import { localDay } from '../../../../shared/time/site-time';
+import { localDay, siteDayStart } from '../../../../shared/time/site-time';
 import { Gps, wayTo } from './gps';
 import { QrScan } from './qr-scan';
 import { STATE_GLYPHS, STATE_WORDS } from '../../core/map/collar-states';
 import { nextDueIndex, routeSummary } from './route-order';
 import { CHECK_ITEMS } from './start-of-day-items';
 import { WalkContext } from '../field-day/walk-context';
-import { localDayStart, routeView, todayChecks, walkOptions } from './walk-store';
+import { routeView, todayChecks, walkOptions } from './walk-store';
 
 /**
  * The route of today's round: pick campaign, round and route; collars in walking order with
@@ -44,8 +44,7 @@ export class Walk {
     const c = this.choice();
     return { campaignId: c.campaignId, routeId: c.routeId, round: c.round, flipped: c.flipped };
   });
-  private readonly since = signal(localDayStart());
-  private readonly checks = todayChecks(() => ({ siteId: this.site()?.id ?? null, since: this.since() }));
+  private readonly checks = todayChecks(() => ({ siteId: this.site()?.id ?? null, since: siteDayStart(String(this.options()?.site?.['timezone'] ?? 'UTC')) }));
   protected readonly checksDone = computed(() => CHECK_ITEMS.filter((i) => this.checks().some((c) => c['kind'] === i.kind)).length);
   protected readonly checkCount = CHECK_ITEMS.length;
   /** Today's analyzer by name, or '' when none was chosen today (closures wait for one). */
