@@ -44,7 +44,7 @@ import { SpotChart } from './spot-chart';
         <p class="waiting">No series yet: import the logger file or enter the series by hand.</p>
       }
       @if (previous().length) {
-        <p class="previous">This collar before: @for (p of previous(); track p.id) { <span>{{ p.fluxUmolM2S | number: '1.2-2' }} ({{ p.startedAt.slice(0, 10) }})</span> }</p>
+        <p class="previous">This collar before: @for (p of previous(); track p.id) { <span>{{ p.fluxUmolM2S | number: '1.2-2' }} ({{ day(p.startedAt) }})</span> }</p>
       }
     </article>
   `,
@@ -73,7 +73,14 @@ export class ClosureCard {
   protected readonly series = computed(() => this.closure()['series'] as ClosureSeries);
   protected readonly settleS = computed(() => Number(this.closure()['settleS']));
 
+  private readonly zone = computed(() => String(this.inputs().site?.['timezone'] ?? 'UTC'));
+
   protected time(v: unknown): string {
-    return typeof v === 'string' ? formatSiteTime(v, String(this.inputs().site?.['timezone'] ?? 'UTC'), { timeOnly: true, seconds: true }) || '—' : '—';
+    return typeof v === 'string' ? formatSiteTime(v, this.zone(), { timeOnly: true, seconds: true }) || '—' : '—';
+  }
+
+  /** The site's day of an instant (not the UTC day of its ISO text). */
+  protected day(at: string): string {
+    return formatSiteTime(at, this.zone(), { dayOnly: true });
   }
 }

@@ -3,6 +3,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatSelectModule } from '@angular/material/select';
 import type { LoggerPiece, PieceMatch } from '../../../../shared/logger';
 import { counted } from '../../../../shared/text/counted';
+import { siteTimeParts } from '../../../../shared/time/site-time';
 import type { RoundVisit } from './import-plan';
 
 const STATUS_WORDS: Record<PieceMatch['status'], string> = {
@@ -60,6 +61,6 @@ export class PieceCard {
   /** Wall time on the site's clock. */
   protected clock(at: unknown): string {
     const ms = Date.parse(String(at));
-    return Number.isFinite(ms) ? new Intl.DateTimeFormat('en-GB', { timeZone: this.timeZone(), hour: '2-digit', minute: '2-digit', second: '2-digit' }).format(ms) : '—';
+    return Number.isFinite(ms) ? siteTimeParts(ms, this.timeZone(), true).time : '—';
   }
 }

@@ -5,6 +5,7 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { RouterLink } from '@angular/router';
 import { guessLayout, mappingFits, matchPiecesToVisits, plainExportMapping, savedMapping, type LoggerMapping, type LoggerPiece, type PieceMatch } from '../../../../shared/logger';
 import { counted } from '../../../../shared/text/counted';
+import { siteTimeParts } from '../../../../shared/time/site-time';
 import { DeviceDb } from '../../core/db/device-db';
 import { DeviceMemory } from '../../core/device/device-memory';
 import { WalkContext } from '../field-day/walk-context';
@@ -154,6 +155,7 @@ export class RoundImport {
   }
 
   protected clock(at: string): string {
-    return new Intl.DateTimeFormat('en-GB', { timeZone: this.timeZone, hour: '2-digit', minute: '2-digit', second: '2-digit' }).format(Date.parse(at));
+    // The site's wall clock (shared/time), as the crew's logger and taps read it; one zone for the whole list.
+    return siteTimeParts(at, this.timeZone, true).time;
   }
 }

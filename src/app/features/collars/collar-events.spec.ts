@@ -10,6 +10,8 @@ import type { FluxDb } from '../../core/db/db-schema';
 import { DeviceDb } from '../../core/db/device-db';
 import { CollarEvents } from './collar-events';
 import { until } from '../../core/db/testing/until';
+import { zoneAwayFromDevice } from '../../core/db/testing/signed-in-device';
+import { siteToday } from '../../../../shared/time/site-time';
 
 const SITE = '11111111-1111-4111-8111-111111111111';
 const OTHER_SITE = '11111111-1111-4111-8111-999999999999';
@@ -19,11 +21,11 @@ const COLLAR_10 = '33333333-3333-4333-8333-555555555555';
 const ELSEWHERE = '33333333-3333-4333-8333-666666666666';
 let userNo = 0;
 
-async function render() {
+async function render(timezone?: string) {
   const userId = `0000000${++userNo}-0000-4000-8000-00000000000c`.slice(-36);
   localStorage.setItem('fw.session', JSON.stringify({
     user: { id: userId, email: 'crew@fluxwalk.example', displayName: 'Crew', roles: ['crew'], siteIds: [SITE] },
-    sites: [{ id: SITE, name: 'Test site' }],
+    sites: [{ id: SITE, name: 'Test site', ...(timezone ? { timezone } : {}) }],
   }));
   TestBed.configureTestingModule({ providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting()] });
   const db: FluxDb = await until(() => TestBed.inject(DeviceDb).db(), 'the database');
@@ -49,6 +51,15 @@ async function render() {
 
 describe('CollarEvents', () => {
   afterEach(() => localStorage.clear());
+
+  it('when an event is recorded, then the day offered is today at the collar’s site, not on the device', async () => {
+    const { zone, deviceDay } = zoneAwayFromDevice();
+    const { el, fixture } = await render(zone);
+    const day = el.querySelector<HTMLInputElement>('input[type="date"]')!.value;
+    expect(day).toBe(siteToday(zone));
+    expect(day).not.toBe(deviceDay);
+    fixture.destroy();
+  });
 
   it('when a collar has events, then they are listed newest first, deleted ones left out', async () => {
     const { items, fixture } = await render();

@@ -1,9 +1,11 @@
-import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input, linkedSignal, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { ENTITY_FIELDS } from '../../../../shared/model/entities';
+import { siteToday } from '../../../../shared/time/site-time';
+import { AuthStore } from '../../core/auth/auth-store';
 import { liveSignal } from '../../core/db/live-query-signal';
 import { LocalWrites } from '../../core/sync/local-writes';
 
@@ -15,11 +17,6 @@ export const LATER_EVENTS = [
   { kind: 'damaged', label: 'Damaged' },
   { kind: 'retired', label: 'Retired' },
 ] as const;
-
-const localToday = () => {
-  const d = new Date();
-  return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, '0')}-${String(d.getDate()).padStart(2, '0')}`;
-};
 
 /** A collar's life: its events, newest first, and a form for the next one (saved on the device first). */
 @Component({
@@ -66,13 +63,15 @@ export class CollarEvents {
   readonly collarId = input.required<string>();
   readonly siteId = input.required<string>();
   private readonly writes = inject(LocalWrites);
+  private readonly auth = inject(AuthStore);
   protected readonly kinds = LATER_EVENTS;
   protected readonly events = liveSignal(() => this.collarId(), async (db, id) =>
     (await db.records('collarEvent').where('collarId').equals(id).toArray()).filter((e) => !e.deleted).sort((a, b) => String(b['date']).localeCompare(String(a['date']))), []);
   private readonly siteCollars = liveSignal(() => this.siteId(), async (db, id) => db.records('collar').where('siteId').equals(id).toArray(), []);
   protected readonly others = computed(() => this.siteCollars().filter((c) => c.id !== this.collarId()).sort((a, b) => String(a['code']).localeCompare(String(b['code']), undefined, { numeric: true })));
   protected readonly kind = signal<string>('clipped');
-  protected readonly date = signal(localToday());
+  /** Today at the collar's site (not on the phone), until the crew picks another day. */
+  protected readonly date = linkedSignal(() => siteToday(this.auth.sites().find((s) => s.id === this.siteId())?.timezone ?? 'UTC'));
   protected readonly note = signal('');
   protected readonly replacedById = signal<string | null>(null);
   protected readonly problem = signal('');

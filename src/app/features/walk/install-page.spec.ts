@@ -5,7 +5,8 @@ import { MatInputHarness } from '@angular/material/input/testing';
 import { MatSelectHarness } from '@angular/material/select/testing';
 import { ActivatedRoute, Router, convertToParamMap, provideRouter } from '@angular/router';
 import type { FluxDb } from '../../core/db/db-schema';
-import { signedInDevice, TEST_SITE } from '../../core/db/testing/signed-in-device';
+import { siteToday } from '../../../../shared/time/site-time';
+import { signedInDevice, TEST_SITE, zoneAwayFromDevice } from '../../core/db/testing/signed-in-device';
 import { until } from '../../core/db/testing/until';
 import { InstallPage } from './install-page';
 
@@ -14,8 +15,9 @@ const OLD_COLLAR = '33333333-3333-4333-8333-333333333333';
 const BLANK_TAG = '9e8d7c6b-5a49-4382-a716-0f1e2d3c4b5a';
 
 /** The install screen on a device holding one plot and one collar (N-01) and what `before` adds; `query` as in the address. */
-async function render(query: Record<string, string> = {}, before: (db: FluxDb) => Promise<void> = async () => undefined) {
-  const { db } = await signedInDevice([provideRouter([]), { provide: ActivatedRoute, useValue: { snapshot: { queryParamMap: convertToParamMap(query) } } }]);
+async function render(query: Record<string, string> = {}, before: (db: FluxDb) => Promise<void> = async () => undefined, timezone?: string) {
+  const { db } = await signedInDevice([provideRouter([]), { provide: ActivatedRoute, useValue: { snapshot: { queryParamMap: convertToParamMap(query) } } }],
+    timezone ? { timezone } : {});
   await db.records('site').put({ id: TEST_SITE, rev: 1, name: 'Test site' });
   await db.records('plot').put({ id: PLOT, rev: 1, siteId: TEST_SITE, code: 'P1' });
   await db.records('collar').put({ id: OLD_COLLAR, rev: 1, siteId: TEST_SITE, plotId: PLOT, code: 'N-01', deleted: false });
@@ -83,5 +85,17 @@ describe('Install screen with a printed tag', () => {
     await until(() => el.querySelector('.problem')?.textContent?.includes('already used at this site'), 'the problem');
     expect(await collars(db)).toHaveLength(1);
     expect(await db.outbox.count()).toBe(0);
+  });
+});
+
+describe('Install screen: the site’s day', () => {
+  afterEach(() => localStorage.clear());
+
+  it('when a collar is installed, then the install day offered is today at the site, not on the device', async () => {
+    const { zone, deviceDay } = zoneAwayFromDevice();
+    const { el } = await render({}, async () => undefined, zone);
+    const day = el.querySelector<HTMLInputElement>('input[type="date"]')!.value;
+    expect(day).toBe(siteToday(zone));
+    expect(day).not.toBe(deviceDay);
   });
 });

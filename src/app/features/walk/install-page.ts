@@ -1,5 +1,5 @@
 import { DecimalPipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, linkedSignal, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
@@ -8,6 +8,7 @@ import { MatSelectModule } from '@angular/material/select';
 import { ActivatedRoute, Router, RouterLink } from '@angular/router';
 import { plannedCode, readCollarTag, shortTagId, type CollarTag } from '../../../../shared/model/collar-tag';
 import { collarAreaCm2 } from '../../../../shared/model/derived';
+import { siteToday } from '../../../../shared/time/site-time';
 import { DeviceDb } from '../../core/db/device-db';
 import { SiteChoice } from '../../core/auth/site-choice';
 import { liveSignal } from '../../core/db/live-query-signal';
@@ -25,11 +26,6 @@ interface Photo {
   width: number;
   height: number;
 }
-
-const today = () => {
-  const d = new Date();
-  return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, '0')}-${String(d.getDate()).padStart(2, '0')}`;
-};
 
 /**
  * Installing a collar in the field: code (typed, or from a blank tag scanned here, whose id the
@@ -62,7 +58,8 @@ export class InstallPage {
   protected readonly sideB = signal('');
   protected readonly height = signal('');
   protected readonly insertion = signal('');
-  protected readonly installedOn = signal(today());
+  /** Today at the site (not on the phone), until the crew picks another day. */
+  protected readonly installedOn = linkedSignal(() => siteToday(this.site()?.timezone ?? 'UTC'));
   protected readonly note = signal('');
   protected readonly fixes = signal<Fix[]>([]);
   protected readonly photos = signal<Photo[]>([]);

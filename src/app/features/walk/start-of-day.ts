@@ -114,7 +114,7 @@ export class StartOfDay {
   }
 
   protected saveClock(): Promise<void> {
-    const off = clockOffsetS(this.analyzerTime(), new Date());
+    const off = clockOffsetS(this.analyzerTime(), new Date(), this.timeZone());
     if (off === null) return this.fail('Enter the time the analyzer shows, as HH:MM:SS.');
     return this.record('clock', { clockOffsetS: off });
   }
