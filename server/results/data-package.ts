@@ -5,6 +5,7 @@
  * property and as its own JSON file.
  */
 import type { DataLicence } from '../../shared/results/data-licences';
+import { localDay } from '../../shared/time/site-time';
 import { tablesForSite, tablePath, type FieldDef, type FieldType } from './export-schema';
 
 export interface Provenance {
@@ -29,7 +30,7 @@ function constraints(f: FieldDef) {
 export function dataPackage(p: Provenance, rowCounts: Record<string, number>, bytes: Record<string, number>) {
   return {
     profile: 'data-package',
-    name: `fluxwalk-${p.site.name.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '')}-${p.generatedAt.slice(0, 10)}`,
+    name: `fluxwalk-${p.site.name.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '')}-${localDay(p.generatedAt, p.site.timezone)}`,
     id: p.jobId,
     title: `Soil CO2 efflux, ${p.site.name}`,
     description: 'Chamber closures, their raw series, visits, collars, probe readings, and fluxes aggregated along the experimental design '

@@ -4,6 +4,7 @@
  * attributes come from the same definitions as the CSV headers. Units are declared as custom
  * units in an STMML unit list (the way EML 2.2 defines units outside its dictionary).
  */
+import { localDay } from '../../shared/time/site-time';
 import { tablesForSite, tablePath, UNITS, type FieldDef } from './export-schema';
 import type { Provenance } from './data-package';
 
@@ -107,7 +108,7 @@ export function emlDocument(p: Provenance, cov: EmlCoverage | null, rowCounts: R
   <dataset>
     <title>Soil CO2 efflux by closed chambers on permanent collars, ${esc(p.site.name)}</title>
     <creator>${person}</creator>
-    <pubDate>${p.generatedAt.slice(0, 10)}</pubDate>
+    <pubDate>${localDay(p.generatedAt, p.site.timezone)}</pubDate>
     <language>en</language>
     <abstract><para>Soil CO2 efflux from closed-chamber closures on permanent collars, with raw series, review decisions, QC flags, visit conditions, `
     + `offsets and probe readings; fluxes aggregated along the experimental design, temperature responses (Q10; Lloyd and Taylor 1994) `

@@ -4,6 +4,7 @@
  * and the EML attribute lists, so the three can never disagree.
  */
 import { PROBE_DEPTH_TOLERANCE_CM } from '../../shared/model/probe-replicates';
+import { REVIEW_STATES } from '../../shared/model/progress-state';
 
 export type FieldType = 'string' | 'number' | 'integer' | 'boolean' | 'date' | 'datetime';
 
@@ -132,7 +133,7 @@ export const TABLES: TableDef[] = [
     foreignKeys: [fk('visit_id', 'visits'), fk('collar_id', 'collars'), fk('profile_id', 'chamber_profiles'), fk('analyzer_id', 'analyzers')], fields: [
       id('closure_id', 'Closure'), ref('visit_id', 'Visit'), ref('collar_id', 'Collar'), ref('campaign_id', 'Campaign'),
       ...at('started_at', 'Chamber closed'), num('settle_s', UNITS.s, 'Settle time skipped by the raw fit'),
-      oneOf('review_state', ['unreviewed', 'accepted', 'rejected'], 'unreviewed, accepted or rejected'), str('review_reason', 'Reason given for a rejection'),
+      oneOf('review_state', REVIEW_STATES, 'unreviewed, accepted or rejected'), str('review_reason', 'Reason given for a rejection'),
       num('review_settle_s', UNITS.s, 'Settle time chosen by the lab'), num('review_window_end_s', UNITS.s, 'End of the fit window chosen by the lab'),
       str('review_model', 'Rate model chosen by the lab'),
       str('review_excluded_samples', 'Samples the lab left out of the review fit: 0-based positions in the closure\'s series (closure_series.csv sample order), separated by semicolons; empty when none'),

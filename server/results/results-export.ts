@@ -10,7 +10,7 @@ import { CALIBRATION_METHOD, calibrationRows } from './calibration-rows';
 import { dataPackage, type Provenance } from './data-package';
 import { emlDocument } from './eml-document';
 import * as rows from './export-rows';
-import { siteIsoLocal } from '../../shared/time/site-time';
+import { localDay, siteIsoLocal } from '../../shared/time/site-time';
 import { sourceFields, TABLES, tablePath, tablesForSite, type FieldDef } from './export-schema';
 import type { ClosureSelection } from './results-data';
 import { SEASONAL_METHOD, seasonalSummary, siteResults, TOTAL_INTERVAL_METHOD } from './results-service';
@@ -108,10 +108,11 @@ export async function runResultsExport(ds: DataSource, req: ExportRequest, hooks
     counts: rowCounts,
   };
   const methods = exportMethods(slopeBasis, req, seasonal.fromDay, seasonal.toDay, String(provenance.parameters['aggregation']));
-  const span = (await ds.query(`SELECT to_char(min(d) AT TIME ZONE 'UTC', 'YYYY-MM-DD') AS from_day, to_char(max(d) AT TIME ZONE 'UTC', 'YYYY-MM-DD') AS to_day
+  // The data's span in site days (the days the crews were out), as every other day of the package.
+  const span = (await ds.query(`SELECT to_char(min(d) AT TIME ZONE $2, 'YYYY-MM-DD') AS from_day, to_char(max(d) AT TIME ZONE $2, 'YYYY-MM-DD') AS to_day
       FROM (SELECT started_at AS d FROM closure WHERE site_id = $1 AND NOT deleted
             UNION ALL SELECT arrived_at FROM visit WHERE site_id = $1 AND NOT deleted
-            UNION ALL SELECT taken_at FROM probe_reading WHERE site_id = $1 AND NOT deleted) x`, [site.id]))[0] as { from_day: string | null; to_day: string | null };
+            UNION ALL SELECT taken_at FROM probe_reading WHERE site_id = $1 AND NOT deleted) x`, [site.id, site.timezone]))[0] as { from_day: string | null; to_day: string | null };
   const cov = coverage(await ds.query(`SELECT min(latitude) s, max(latitude) n, min(longitude) w, max(longitude) e FROM collar WHERE site_id = $1 AND NOT deleted`, [site.id]),
     span.from_day ?? seasonal.fromDay, span.to_day ?? seasonal.toDay);
   await zip.add('provenance.json', JSON.stringify(provenance, null, 2));
@@ -119,7 +120,7 @@ export async function runResultsExport(ds: DataSource, req: ExportRequest, hooks
   await zip.add('datapackage.json', JSON.stringify(dataPackage(provenance, rowCounts, bytes), null, 2));
   const file = await zip.finish();
   const sha256 = createHash('sha256').update(file).digest('hex');
-  const fileName = `fluxwalk-results-${site.name.toLowerCase().replace(/[^a-z0-9]+/g, '-')}-${now.toISOString().slice(0, 10)}.zip`;
+  const fileName = `fluxwalk-results-${site.name.toLowerCase().replace(/[^a-z0-9]+/g, '-')}-${localDay(now, site.timezone)}.zip`;
   await ds.query(`INSERT INTO result_export (id, site_id, created_by, file_name, size_bytes, sha256, bytes) VALUES ($1, $2, $3, $4, $5, $6, $7)
     ON CONFLICT (id) DO UPDATE SET file_name = EXCLUDED.file_name, size_bytes = EXCLUDED.size_bytes, sha256 = EXCLUDED.sha256, bytes = EXCLUDED.bytes, created_at = now()`,
     [hooks.jobId, site.id, req.userId, fileName, file.length, sha256, file]);

@@ -142,8 +142,9 @@ describe('data package against the official standards: EML 2.2.0 XSD, Frictionle
   it('when numbers, coverage and probe flags are read, then numbers carry no float noise, coverage is the data span, implausible readings are flagged', async () => {
     const noise = [...files].filter(([k]) => k.endsWith('.csv')).flatMap(([, b]) => b.toString('utf8').match(/\d\.\d*(0{6,}|9{6,})\d/g) ?? []);
     expect(noise).toEqual([]);
-    const [span] = await t.ds.query(`SELECT to_char(min(started_at) AT TIME ZONE 'UTC', 'YYYY-MM-DD') AS f, to_char(max(started_at) AT TIME ZONE 'UTC', 'YYYY-MM-DD') AS l
-      FROM closure WHERE site_id = $1 AND NOT deleted`, [DEMO_SITE_ID]);
+    // Site days: the span is the days the crews were out, at the site.
+    const [span] = await t.ds.query(`SELECT to_char(min(started_at) AT TIME ZONE z.tz, 'YYYY-MM-DD') AS f, to_char(max(started_at) AT TIME ZONE z.tz, 'YYYY-MM-DD') AS l
+      FROM closure, (SELECT timezone AS tz FROM site WHERE id = $1) z WHERE site_id = $1 AND NOT deleted GROUP BY z.tz`, [DEMO_SITE_ID]);
     const text = files.get('metadata.eml.xml')!.toString('utf8');
     const [, begin, end] = text.match(/<beginDate><calendarDate>([^<]+)<\/calendarDate><\/beginDate><endDate><calendarDate>([^<]+)</)!;
     expect(begin <= span.f && end >= span.l).toBe(true);

@@ -7,6 +7,7 @@ import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { fieldProblems, serverMessage } from '../../core/api/api-error';
 import { siteToday } from '../../../../shared/time/site-time';
+import { fromSiteWallTime, siteWallTime } from '../calibration/site-clock';
 import { BoardApi, type Campaign, type CampaignRoute } from './board-api';
 import { BoardStore } from './board-store';
 import { RouteOrder } from './route-order';
@@ -60,7 +61,8 @@ export class PlanView {
     })));
     const ws = c ? Array.from({ length: c.rounds }, (_, i) => {
       const w = c.roundWindows.find((x) => x.round === i + 1);
-      return { round: i + 1, from: w ? w.from.slice(0, 16) : '', to: w ? w.to.slice(0, 16) : '' };
+      // datetime-local fields hold the site's wall time (not UTC, not the lead's device zone).
+      return { round: i + 1, from: w ? siteWallTime(w.from, this.store.zone()) : '', to: w ? siteWallTime(w.to, this.store.zone()) : '' };
     }) : [];
     this.windows.set(ws);
     this.assignStatus.set('');
@@ -99,9 +101,16 @@ export class PlanView {
     this.assignStatus.set('');
     this.assignProblem.set('');
     const routes = this.plans().filter((p) => p.included).map((p) => ({ routeId: p.routeId, crewIds: p.crewIds, direction: p.direction }));
-    // datetime-local values are the lead's local time; the wire carries UTC.
-    const roundWindows = this.windows().filter((w) => w.from && w.to)
-      .map((w) => ({ round: w.round, from: new Date(w.from).toISOString(), to: new Date(w.to).toISOString() }));
+    // datetime-local values are the site's wall time; the wire carries UTC instants.
+    const zone = this.store.zone();
+    const roundWindows: { round: number; from: string; to: string }[] = [];
+    for (const w of this.windows().filter((x) => x.from && x.to)) {
+      const from = fromSiteWallTime(w.from, zone);
+      const to = fromSiteWallTime(w.to, zone);
+      if (!from.ok) return this.assignProblem.set(`Round ${w.round} from: ${from.message}`);
+      if (!to.ok) return this.assignProblem.set(`Round ${w.round} to: ${to.message}`);
+      roundWindows.push({ round: w.round, from: from.iso, to: to.iso });
+    }
     try {
       const saved = await this.api.update<Campaign>('campaigns', c.id, c.rev, { routes, roundWindows });
       this.store.replaceCampaign(saved);
