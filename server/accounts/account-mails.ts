@@ -1,5 +1,6 @@
 import { renderHtml, renderText, type MailBlock } from '../mail/mail-html';
 import type { OutgoingMail } from '../mail/mailer';
+import { formatSiteTime } from '../../shared/time/site-time';
 
 const ROLE_WORDS: Record<string, string> = {
   crew: 'crew (walks routes and records visits)',
@@ -14,6 +15,8 @@ function mail(to: string, subject: string, blocks: MailBlock[]): OutgoingMail {
 
 export function invitationMail(p: {
   to: string; inviter: string; siteNames: string[]; roles: string[]; link: string; expiresAt: Date;
+  /** The (first) invited site's zone, in which the expiry is written; UTC when no site is named. */
+  timeZone: string | null;
 }): OutgoingMail {
   const where = p.siteNames.length ? p.siteNames.join(', ') : 'Fluxwalk';
   return mail(p.to, `Invitation to ${where} on Fluxwalk`, [
@@ -22,7 +25,7 @@ export function invitationMail(p: {
     { kind: 'para', text: 'Your role:' },
     { kind: 'list', items: p.roles.map((r) => ROLE_WORDS[r] ?? r) },
     { kind: 'link', text: 'Choose your name and password here', href: p.link },
-    { kind: 'para', text: `The link works once and until ${p.expiresAt.toUTCString()}. If you did not expect this invitation, ignore this mail; no account is made until the link is used.` },
+    { kind: 'para', text: `The link works once and until ${formatSiteTime(p.expiresAt, p.timeZone ?? 'UTC')}. If you did not expect this invitation, ignore this mail; no account is made until the link is used.` },
   ]);
 }
 

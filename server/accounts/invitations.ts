@@ -48,9 +48,9 @@ export function mayManageInvitation(actor: SessionUser, invitation: { roles: rea
   return actor.roles.includes('lead') && leadMayGive(invitation.roles) && withinSites(actor, invitation.siteIds);
 }
 
-async function siteNames(ds: DataSource, ids: string[]): Promise<{ id: string; name: string }[]> {
+async function siteNames(ds: DataSource, ids: string[]): Promise<{ id: string; name: string; timezone: string }[]> {
   if (!ids.length) return [];
-  return ds.query(`SELECT id, name FROM site WHERE id = ANY($1::uuid[]) AND NOT deleted ORDER BY name`, [ids]);
+  return ds.query(`SELECT id, name, timezone FROM site WHERE id = ANY($1::uuid[]) AND NOT deleted ORDER BY name`, [ids]);
 }
 
 /**
@@ -68,7 +68,8 @@ export async function invite(ds: DataSource, mailer: Mailer, actor: SessionUser,
     const issued = await issueToken(em, { kind: 'invitation', email: input.email, roles: input.roles, siteIds: input.siteIds, createdBy: actor.id, ttlMs: INVITATION_TTL_MS });
     const link = `${origin}/accept-invitation?token=${encodeURIComponent(issued.token)}`;
     try {
-      await mailer.send(invitationMail({ to: input.email, inviter: actor.displayName, siteNames: sites.map((s) => s.name), roles: input.roles, link, expiresAt: issued.expiresAt }));
+      await mailer.send(invitationMail({ to: input.email, inviter: actor.displayName, siteNames: sites.map((s) => s.name), roles: input.roles, link, expiresAt: issued.expiresAt,
+        timeZone: sites[0]?.timezone ?? null }));
     } catch (err) {
       if (err instanceof AppError) throw err;
       console.error('[mail] invitation not sent:', (err as Error).message);
@@ -107,7 +108,7 @@ export async function revokeInvitation(ds: DataSource, actor: SessionUser, id: s
 /** What the invitee sees before choosing a password. */
 export async function lookupInvitation(ds: DataSource, token: string) {
   const row = await ds.transaction((em) => openToken(em, 'invitation', token, false));
-  return { email: row.email, roles: row.roles as Role[], sites: await siteNames(ds, row.site_ids ?? []), expiresAt: row.expires_at.toISOString() };
+  return { email: row.email, roles: row.roles as Role[], sites: (await siteNames(ds, row.site_ids ?? [])).map(({ id, name }) => ({ id, name })), expiresAt: row.expires_at.toISOString() };
 }
 
 /**

@@ -4,10 +4,11 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
+import { formatSiteTime } from '../../../../shared/time/site-time';
 import { AuthStore } from '../../core/auth/auth-store';
 import { LEAD_INVITES, ROLES, type Role } from '../../core/auth/session-user';
 import { FormSubmit } from '../../core/forms/form-submit';
-import { AccountApi, type OpenInvitation } from './account-api';
+import { AccountApi, type InvitationPreview, type OpenInvitation } from './account-api';
 import { describeAccountError } from './password-hint';
 
 /**
@@ -65,7 +66,7 @@ export class InviteMember {
     await this.submit.run(async () => {
       this.done.set('');
       const sent = await this.api.invite(this.form.getRawValue().email.trim(), this.chosenRoles(), this.chosenSites());
-      this.done.set(`Invitation sent to ${sent.email}. The link works once, until ${new Date(sent.expiresAt).toLocaleDateString()}.`);
+      this.done.set(`Invitation sent to ${sent.email}. The link works once, until ${this.expiry(sent)}.`);
       this.form.reset();
       await this.loadOpen();
     });
@@ -79,6 +80,12 @@ export class InviteMember {
     } catch (err) {
       this.submit.problem.set(describeAccountError(err, 'Not withdrawn.'));
     }
+  }
+
+  /** When the link stops working, in the (first) invited site's zone, as the server's mail says it; UTC for no site. */
+  protected expiry(inv: InvitationPreview): string {
+    const zone = this.sites().find((s) => s.id === inv.sites[0]?.id)?.timezone ?? 'UTC';
+    return formatSiteTime(inv.expiresAt, zone);
   }
 
   private async loadOpen(): Promise<void> {
