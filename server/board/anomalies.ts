@@ -3,6 +3,7 @@ import { flagAdvice } from '../../shared/flux/flag-advice';
 import type { QcFlag } from '../../shared/flux/qc-flags';
 import { calibrationAgeDays, worstDriftPct } from '../../shared/model/calibration';
 import { localDay } from '../../shared/time/site-time';
+import { pgDay } from '../core/pg-day';
 
 export type AnomalyKind =
   | 'offset-moved' | 'offset-spread' | 'closure-flag' | 'settling' | 'not-visited' | 'check-problem' | 'calibration-overdue' | 'calibration-drift';
@@ -182,10 +183,10 @@ async function collarAnomalies(db: Db, site: Record<string, unknown>, now: Date,
   const out: Anomaly[] = [];
   for (const r of rows) {
     if (r.event_date) {
-      const ageDays = (now.getTime() - Date.parse(`${dateOnly(r.event_date)}T00:00:00Z`)) / dayMs;
+      const ageDays = (now.getTime() - Date.parse(`${pgDay(r.event_date)}T00:00:00Z`)) / dayMs;
       if (ageDays >= 0 && ageDays < warn) {
         out.push({ kind: 'settling', severity: ageDays < hard ? 'problem' : 'warn', collarId: r.id, collarCode: r.code, recordId: r.id,
-          at: `${dateOnly(r.event_date)}T00:00:00.000Z`, value: round(ageDays, 1), threshold: ageDays < hard ? hard : warn,
+          at: `${pgDay(r.event_date)}T00:00:00.000Z`, value: round(ageDays, 1), threshold: ageDays < hard ? hard : warn,
           message: `Settling: ${r.event_kind} ${round(ageDays, 1)} day(s) ago (hard limit ${hard}, warning ${warn} days)` });
       }
     }
@@ -200,9 +201,7 @@ async function collarAnomalies(db: Db, site: Record<string, unknown>, now: Date,
   return out;
 }
 
-function dateOnly(v: unknown): string {
-  return typeof v === 'string' ? v.slice(0, 10) : new Date(v as Date).toISOString().slice(0, 10);
-}
+
 
 /**
  * Analyzers whose last passed calibration is older than their own interval, or that have none;

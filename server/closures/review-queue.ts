@@ -5,6 +5,7 @@ import { worstDriftPct } from '../../shared/model/calibration';
 import { REVIEW_STATES } from '../../shared/model/field-records';
 import { QC_FLAGS } from '../../shared/flux';
 import { parse } from '../core/validate';
+import { pgDay } from '../core/pg-day';
 
 const bool = z.enum(['true', 'false']).transform((v) => v === 'true');
 const days = z.coerce.number().min(0).max(36500);
@@ -75,7 +76,8 @@ function queueSql(filter: QueueFilter & { id?: string }, readable: string[] | nu
              k.code AS collar_code, pl.code AS plot_code, b.code AS block_code, t.code AS treatment_code, cp.name AS campaign_name,
              cp.locked AS campaign_locked, v.round, coalesce((v.conditions->>'rain24h')::boolean, false) AS rain24h,
              d.day, d.day - inst.date AS days_since_install, d.day - clip.date AS days_since_clipping,
-             (c.started_at::date - cal.at::date) AS calibration_age_days, cal.drift_ppm AS calibration_drift_ppm,
+             -- Site days from the calibration to the closure (not the database session's calendar).
+             (d.day - (cal.at AT TIME ZONE s.timezone)::date) AS calibration_age_days, cal.drift_ppm AS calibration_drift_ppm,
              cal.zero_drift_ppm AS calibration_zero_drift_ppm, cal.span_gas_ppm AS calibration_span_gas_ppm,
              an.calibration_interval_days, s.calibration_drift_limit_pct, s.timezone AS site_timezone,
              EXISTS (SELECT 1 FROM analyzer_check l WHERE l.site_id = c.site_id AND l.kind = 'leak' AND l.passed = false AND NOT l.deleted
@@ -171,7 +173,7 @@ function toItem(r: Record<string, unknown>): QueueItem {
   return {
     id: r['id'] as string, rev: Number(r['rev']), siteId: r['site_id'] as string, campaignId: r['campaign_id'] as string,
     visitId: r['visit_id'] as string, collarId: r['collar_id'] as string, startedAt: (r['started_at'] as Date).toISOString(),
-    day: toDay(r['day']), settleS: Number(r['settle_s']), flags: r['flags'] as string[], fluxUmolM2S: num(r['flux_umol_m2_s']),
+    day: pgDay(r['day']), settleS: Number(r['settle_s']), flags: r['flags'] as string[], fluxUmolM2S: num(r['flux_umol_m2_s']),
     reviewState: r['review_state'] as string, reviewReason: (r['review_reason'] as string | null) ?? null,
     reviewSettleS: num(r['review_settle_s']), reviewWindowEndS: num(r['review_window_end_s']),
     reviewModel: (r['review_model'] as string | null) ?? null, redoOfId: (r['redo_of_id'] as string | null) ?? null,
@@ -186,10 +188,4 @@ function toItem(r: Record<string, unknown>): QueueItem {
     timezone: r['site_timezone'] as string,
     calibrationDriftPct: worstDriftPct({ driftPpm: num(r['calibration_drift_ppm']), zeroDriftPpm: num(r['calibration_zero_drift_ppm']), spanGasPpm: num(r['calibration_span_gas_ppm']) }),
   };
-}
-
-/** PostgreSQL dates arrive as local-midnight Date objects from the driver; the day is what we want. */
-function toDay(v: unknown): string {
-  if (v instanceof Date) return `${v.getFullYear()}-${String(v.getMonth() + 1).padStart(2, '0')}-${String(v.getDate()).padStart(2, '0')}`;
-  return String(v);
 }

@@ -120,7 +120,8 @@ describe('Bench: the calibration behind each closure', () => {
     for (const q of res.body.items) {
       const after = q.startedAt >= '2026-07-06T08:00:00.000Z';
       const from = after ? '2026-07-06' : '2026-03-30';
-      const age = Math.round((Date.parse(q.startedAt.slice(0, 10)) - Date.parse(from)) / 86_400_000);
+      // Site days (the queue's `day`), as the crew counts them.
+      const age = Math.round((Date.parse(q.day) - Date.parse(from)) / 86_400_000);
       expect([q.calibrationAgeDays, q.calibrationIntervalDays, q.calibrationDriftPct, q.calibrationDriftLimitPct])
         .toEqual([age, 180, after ? 0.46 : 0.31, 2]);
     }
