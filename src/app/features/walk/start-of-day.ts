@@ -39,7 +39,8 @@ export class StartOfDay {
   private readonly writes = inject(LocalWrites);
   protected readonly choice = this.walk.choice;
   protected readonly options = walkOptions(() => this.site()?.id ?? null);
-  private readonly checks = todayChecks(() => ({ siteId: this.site()?.id ?? null, since: siteDayStart(this.timeZone()) }));
+  // Asked once the site's record (its zone) is read, so "today" is never the UTC day for a moment.
+  private readonly checks = todayChecks(() => ({ siteId: this.options() ? this.site()?.id ?? null : null, since: siteDayStart(this.timeZone()) }));
   protected readonly items = CHECK_ITEMS;
   protected readonly latest = computed(() => {
     const by: Partial<Record<string, LocalRecord>> = {};

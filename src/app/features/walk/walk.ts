@@ -44,7 +44,10 @@ export class Walk {
     const c = this.choice();
     return { campaignId: c.campaignId, routeId: c.routeId, round: c.round, flipped: c.flipped };
   });
-  private readonly checks = todayChecks(() => ({ siteId: this.site()?.id ?? null, since: siteDayStart(String(this.options()?.site?.['timezone'] ?? 'UTC')) }));
+  // Asked once the site's record (its zone) is read, so "today" is never the UTC day for a moment.
+  private readonly checks = todayChecks(() => ({
+    siteId: this.options() ? this.site()?.id ?? null : null, since: siteDayStart(String(this.options()?.site?.['timezone'] ?? 'UTC')),
+  }));
   protected readonly checksDone = computed(() => CHECK_ITEMS.filter((i) => this.checks().some((c) => c['kind'] === i.kind)).length);
   protected readonly checkCount = CHECK_ITEMS.length;
   /** Today's analyzer by name, or '' when none was chosen today (closures wait for one). */
