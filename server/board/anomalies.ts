@@ -2,7 +2,7 @@ import type { DataSource, EntityManager } from 'typeorm';
 import { flagAdvice } from '../../shared/flux/flag-advice';
 import type { QcFlag } from '../../shared/flux/qc-flags';
 import { calibrationAgeDays, worstDriftPct } from '../../shared/model/calibration';
-import { localDay } from '../../shared/time/site-time';
+import { localDay, siteDayStartOf } from '../../shared/time/site-time';
 import { pgDay } from '../core/pg-day';
 
 export type AnomalyKind =
@@ -183,10 +183,12 @@ async function collarAnomalies(db: Db, site: Record<string, unknown>, now: Date,
   const out: Anomaly[] = [];
   for (const r of rows) {
     if (r.event_date) {
-      const ageDays = (now.getTime() - Date.parse(`${pgDay(r.event_date)}T00:00:00Z`)) / dayMs;
+      // Counted from the site's midnight of the event's (site) day, not UTC midnight.
+      const start = siteDayStartOf(pgDay(r.event_date), String(site['timezone']));
+      const ageDays = (now.getTime() - Date.parse(start)) / dayMs;
       if (ageDays >= 0 && ageDays < warn) {
         out.push({ kind: 'settling', severity: ageDays < hard ? 'problem' : 'warn', collarId: r.id, collarCode: r.code, recordId: r.id,
-          at: `${pgDay(r.event_date)}T00:00:00.000Z`, value: round(ageDays, 1), threshold: ageDays < hard ? hard : warn,
+          at: start, value: round(ageDays, 1), threshold: ageDays < hard ? hard : warn,
           message: `Settling: ${r.event_kind} ${round(ageDays, 1)} day(s) ago (hard limit ${hard}, warning ${warn} days)` });
       }
     }

@@ -1,5 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import { FLAG_ADVICE } from '../../shared/flux/flag-advice';
+import { localDay } from '../../shared/time/site-time';
 import { findAnomalies } from '../../server/board/anomalies';
 import { listDevices } from '../../server/board/devices';
 import { DEMO_SITE_ID, makeSiteWithCollar } from '../support/fixtures';
@@ -78,6 +79,20 @@ describe('Board: anomalies and devices', () => {
     expect(pick('check-problem')).toEqual([expect.objectContaining({ recordId: ids['leak'], severity: 'warn' })]);
     expect(pick('check-problem')[0].message).toBe('leak check skipped on Unit B: Sealed plate left at the station');
     expect(pick('calibration-overdue')).toEqual([expect.objectContaining({ recordId: ids['analyzer'], value: 200, threshold: 180 })]);
+  });
+
+  it('when the site is west of UTC, then a settling collar counts from the site’s midnight of its install day, and that day reads as the site’s', async () => {
+    await t.ds.query(`UPDATE site SET timezone = 'America/Anchorage' WHERE id = $1`, [w.site.id]);
+    try {
+      const { items } = await findAnomalies(t.ds, w.site.id, { campaignId: ids['july'], now: NOW, notVisitedDays: 30 });
+      const settling = items.find((a) => a.kind === 'settling')!;
+      // Midnight of 18 July in Anchorage is 08:00 UTC (AKDT, UTC−8, tz database): 2 d 4 h before 20 July 12:00 UTC.
+      expect(settling.at).toBe('2026-07-18T08:00:00.000Z');
+      expect(localDay(settling.at!, 'America/Anchorage')).toBe('2026-07-18');
+      expect(settling.value).toBe(2.2);
+    } finally {
+      await t.ds.query(`UPDATE site SET timezone = 'UTC' WHERE id = $1`, [w.site.id]);
+    }
   });
 
   it('when the same anomalies are asked a year later, then every collar counts as not visited and settling is over', async () => {
