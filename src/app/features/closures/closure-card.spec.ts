@@ -1,4 +1,4 @@
-import { Component, input } from '@angular/core';
+import { ChangeDetectionStrategy, Component, input } from '@angular/core';
 import { TestBed } from '@angular/core/testing';
 import type { LocalRecord } from '../../core/db/db-schema';
 import { ClosureCard } from './closure-card';
@@ -6,7 +6,7 @@ import type { SpotInputs } from './closure-flux';
 import { SpotChart } from './spot-chart';
 
 /** jsdom has no canvas: the chart is replaced by an empty element with the same input. */
-@Component({ selector: 'fw-spot-chart', template: '' })
+@Component({ selector: 'fw-spot-chart', template: '', changeDetection: ChangeDetectionStrategy.OnPush })
 class NoChart {
   readonly data = input<unknown>();
 }
