@@ -4,8 +4,8 @@ import { SYNC_ENTITIES, type EntityName } from '../../shared/model/entities';
 import type { PullAnswer, PullChange } from '../../shared/sync/sync-wire';
 import { AppError } from '../core/errors';
 import { ENTITY_DEFS } from '../records/entity-registry';
-import { toWire } from '../records/wire';
 import { knownSites, recordPull } from './device-service';
+import { wireRecords } from './pull-records';
 
 interface LogRow { seq: string; entity: EntityName; record_id: string; rev: string; deleted: boolean }
 
@@ -64,10 +64,7 @@ async function currentStates(ds: DataSource, page: LogRow[]): Promise<PullChange
   }
   const current = new Map<string, Record<string, unknown>>();
   for (const [entity, ids] of byEntity) {
-    // One array parameter, not one placeholder per id: a 5 000-record page stays one short statement.
-    const rows = await ds.getRepository(ENTITY_DEFS[entity].target).createQueryBuilder('r')
-      .where('r.id = ANY(:ids)', { ids }).getMany();
-    for (const row of rows) current.set(`${entity}:${(row as { id: string }).id}`, toWire(row));
+    for (const rec of await wireRecords(ds, entity, ids)) current.set(`${entity}:${rec['id'] as string}`, rec);
   }
   const out: PullChange[] = [];
   for (const [key, r] of last) {
