@@ -6,7 +6,7 @@ import { ChangeBuffer } from '../records/change-buffer';
 import { batchableCreate, finishBatchedCreate, insertPrepared, prepareBatchedCreate, writeRecord, type PreparedCreate } from '../records/record-writer';
 import type { WriteOutcome } from '../records/write-outcome';
 import { recordPush } from './device-service';
-import { claimOps, saveAnswers, storedAnswers } from './op-ledger';
+import { LedgerRace, saveAnswers, storedAnswers } from './op-ledger';
 
 const DEADLOCK = '40P01';
 const MAX_ATTEMPTS = 5;
@@ -16,8 +16,9 @@ export type Parsed = { ok: true; op: SyncOp } | { ok: false; result: PushResult 
 /**
  * Applies a device's batch in one transaction with a savepoint per op, so one bad op never sinks
  * its neighbours and a crash mid-batch leaves nothing half-applied (the retry applies it all once).
- * Every opId is claimed in the user's ledger up front (one statement): a replay by the same user,
- * even one racing in another request, gets the stored answer instead of running twice.
+ * An opId with an answer in the user's ledger is answered from it; the others are applied and
+ * their ledger rows written once, with their answers, at the end (one statement). A replay racing
+ * in another request meets that row at commit and runs again, answered from the ledger then.
  */
 export async function pushOps(ds: DataSource, user: SessionUser, deviceId: string, outboxSize: number, ops: unknown[]): Promise<PushResult[]> {
   const parsed = ops.map(parseOp);
@@ -26,7 +27,8 @@ export async function pushOps(ds: DataSource, user: SessionUser, deviceId: strin
       return await ds.transaction((em) => applyBatch(em, user, deviceId, outboxSize, parsed));
     } catch (err) {
       // Two batches touching the same records in opposite order: PostgreSQL aborts one; run it again.
-      if ((err as { code?: string }).code === DEADLOCK && attempt < MAX_ATTEMPTS) continue;
+      // The same opId answered by another request meanwhile: run again, answered from the ledger.
+      if (((err as { code?: string }).code === DEADLOCK || err instanceof LedgerRace) && attempt < MAX_ATTEMPTS) continue;
       throw err;
     }
   }
@@ -47,8 +49,9 @@ export async function applyBatch(em: EntityManager, user: SessionUser, deviceId:
   opts: { batchCreates?: boolean } = {}): Promise<PushResult[]> {
   const batching = opts.batchCreates ?? true;
   const valid = parsed.flatMap((p) => (p.ok ? [p.op] : []));
-  const claimed = await claimOps(em, deviceId, user.id, valid);
-  const earlier = await storedAnswers(em, user.id, valid.map((o) => o.opId).filter((id) => !claimed.has(id)));
+  const earlier = await storedAnswers(em, user.id, valid.map((o) => o.opId));
+  const byOpId = new Map<string, SyncOp>();
+  for (const o of valid) if (!byOpId.has(o.opId)) byOpId.set(o.opId, o); // a repeat in the batch is answered as the first
   const changes = new ChangeBuffer();
   const results: PushResult[] = [];
   const thisBatch = new Map<string, PushResult>();
@@ -91,7 +94,7 @@ export async function applyBatch(em: EntityManager, user: SessionUser, deviceId:
     const { op } = p;
     if (inRun.has(op.opId) || inRun.has(op.id)) await flush();
     const first = thisBatch.get(op.opId) ?? earlier.get(op.opId);
-    if (first || !claimed.has(op.opId)) {
+    if (first) {
       results[at] = replay(op.opId, first);
       continue;
     }
@@ -108,7 +111,7 @@ export async function applyBatch(em: EntityManager, user: SessionUser, deviceId:
     await perOp(op, at);
   }
   await flush();
-  await saveAnswers(em, user.id, [...thisBatch.values()]);
+  await saveAnswers(em, deviceId, user.id, byOpId, [...thisBatch.values()]);
   await changes.flush(em);
   await recordPush(em, deviceId, user.id, outboxSize);
   return results;
@@ -172,8 +175,7 @@ async function applyOne(em: EntityManager, user: SessionUser, deviceId: string, 
 }
 
 /** A replayed opId: the first answer, marked duplicate, with its status kept in originalStatus. */
-function replay(opId: string, first: PushResult | undefined): PushResult {
-  if (!first) return { opId, status: 'rejected', error: { message: 'This operation is being applied by another request; retry later' } };
+function replay(opId: string, first: PushResult): PushResult {
   const { record: _r, ...rest } = first;
   return { ...rest, opId, status: 'duplicate', originalStatus: (first.originalStatus ?? first.status) as SyncStatus };
 }
