@@ -7,6 +7,7 @@ import { notifyWritten } from './after-write';
 import { checkGuards, hasGuards } from './write-guards';
 import type { ChangeBuffer } from './change-buffer';
 import { ENTITY_DEFS, type EntityDef, type WriteAction } from './entity-registry';
+import { insertRows } from './insert-rows';
 import { deriveFields, warningsFor } from './record-derivations';
 import { checkReferences, forgetReference, lockedCampaignMessage } from './record-references';
 import { sameValue, toWire } from './wire';
@@ -198,10 +199,7 @@ export async function prepareBatchedCreate(em: EntityManager, actor: Actor, op: 
  * or another unique value already taken is skipped, as the single create's ON CONFLICT DO NOTHING).
  */
 export async function insertPrepared(em: EntityManager, entity: EntityName, prepared: PreparedCreate[]): Promise<Set<string>> {
-  if (!prepared.length) return new Set();
-  const inserted = await em.getRepository(ENTITY_DEFS[entity].target).createQueryBuilder().insert()
-    .values(prepared.map((p) => ({ ...p.row }))).orIgnore().returning('id').execute();
-  return new Set((inserted.raw as { id: string }[]).map((r) => r.id));
+  return insertRows(em, entity, prepared.map((p) => p.row));
 }
 
 /** The change log entry, listeners and answer of a create stored by insertPrepared. */
