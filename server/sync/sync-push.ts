@@ -3,6 +3,8 @@ import type { SessionUser } from '../../shared/auth/roles';
 import { syncOpSchema, type PushResult, type SyncOp, type SyncStatus } from '../../shared/sync/sync-wire';
 import { fieldErrorsFromZod } from '../core/errors';
 import { ChangeBuffer } from '../records/change-buffer';
+import { ENTITY_DEFS } from '../records/entity-registry';
+import { warmReferences } from '../records/record-references';
 import { batchableCreate, finishBatchedCreate, insertPrepared, prepareBatchedCreate, writeRecord, type PreparedCreate } from '../records/record-writer';
 import type { WriteOutcome } from '../records/write-outcome';
 import { recordPush } from './device-service';
@@ -52,6 +54,10 @@ export async function applyBatch(em: EntityManager, user: SessionUser, deviceId:
   const earlier = await storedAnswers(em, user.id, valid.map((o) => o.opId));
   const byOpId = new Map<string, SyncOp>();
   for (const o of valid) if (!byOpId.has(o.opId)) byOpId.set(o.opId, o); // a repeat in the batch is answered as the first
+  if (batching) {
+    const creates = valid.filter((o) => batchableCreate(o) && !earlier.has(o.opId));
+    await warmReferences(em, creates.map((o) => ({ d: ENTITY_DEFS[o.entity], rec: o.fields })));
+  }
   const changes = new ChangeBuffer();
   const results: PushResult[] = [];
   const thisBatch = new Map<string, PushResult>();

@@ -48,4 +48,25 @@ describe('multi-row insert of prepared rows', () => {
       throw rollback;
     }).catch((err) => { if (err !== rollback) throw err; });
   });
+
+  it('when rows of one call set different columns, then a missing one takes its default and of two equal codes the first is stored', async () => {
+    const rollback = new Error('rollback');
+    await t.ds.transaction(async (em) => {
+      const base = { siteId: w.site.id, plotId: w.plot.id, rev: 1, deleted: false, updatedAt: new Date() };
+      const rows = [
+        { ...base, id: randomUUID(), code: `IR-${randomUUID()}`, notes: 'set' },
+        { ...base, id: randomUUID(), code: `IR-${randomUUID()}` },
+        { ...base, id: randomUUID(), code: 'IR-same', notes: 'first' },
+        { ...base, id: randomUUID(), code: 'IR-same' },
+      ];
+      const stored = await insertRows(em, 'collar', rows);
+      expect([...stored].sort()).toEqual([rows[0].id, rows[1].id, rows[2].id].sort());
+      const got = await em.query(`SELECT id, notes, shape FROM collar WHERE id = ANY($1::uuid[])`, [rows.map((r) => r.id)]);
+      const byId = new Map(got.map((r: { id: string }) => [r.id, r]));
+      expect(byId.get(rows[0].id)).toMatchObject({ notes: 'set', shape: 'round' });
+      expect(byId.get(rows[1].id)).toMatchObject({ notes: '', shape: 'round' });
+      expect(byId.get(rows[2].id)).toMatchObject({ notes: 'first' });
+      throw rollback;
+    }).catch((err) => { if (err !== rollback) throw err; });
+  });
 });
