@@ -1,16 +1,20 @@
 /// <reference lib="dom" />
 // Callbacks passed to page.evaluate() run in the browser and use its DOM types.
 /**
- * Pull benchmark (Device store issue): the demo scenario plus N extra collars in PostgreSQL, the
+ * Pull benchmark: the demo scenario plus N extra collars in PostgreSQL, the
  * real server, and the real app in headless Chromium signed in as the crew. The sync engine pulls
  * everything into Dexie; the time is the engine's own measure of its pull loop (first request to
  * last page written), and the wall time from sign-in to "Up to date" is printed beside it.
- * Also: the page's JS heap sampled over CDP during the pull (target under 300 MB), the Dexie side
- * alone (records / time spent writing), and the pull endpoint alone (every page fetched and parsed
- * in the page, nothing written) for several page sizes, each against the same database.
+ * Also: the page's JS heap sampled over CDP during the pull (target under 300 MB); the server side
+ * alone (every page fetched from Node, with the server's and PostgreSQL's CPU per record read from
+ * /proc) and the Dexie side alone (the same records written from memory into a scratch database)
+ * for several page and transaction sizes, each against the same database.
  * Target: 50 000 records in ≤ 3 s.
  */
+import { randomUUID } from 'node:crypto';
+import { readdirSync, readFileSync } from 'node:fs';
 import { Client } from 'pg';
+import { httpSession } from '../../test/support/http-session';
 import { signInAs } from '../../test/e2e/support/app-actions';
 import { launchBrowser } from '../../test/e2e/support/browser';
 import { startBenchServer } from './bench-server';
@@ -18,6 +22,36 @@ import { startBenchServer } from './bench-server';
 const EXTRA = Number(process.argv[2] ?? 50_000);
 const TARGET_S = 3;
 const PAGE_SIZES = [1000, 2500, 5000];
+/** [page size, pages a transaction] for the Dexie-only runs; two sizes twice, early and late, to show the drift. */
+const DEXIE_RUNS: [number, number][] = [[1000, 1], [5000, 1], [2500, 1], [5000, 10], [500, 1], [1000, 5], [5000, 1], [1000, 1]];
+const TICKS_PER_S = 100; // USER_HZ on Linux
+
+/** User + system CPU ticks of one process (0 when it is gone). */
+function cpuTicks(pid: number): number {
+  try {
+    const f = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1].split(' ');
+    return Number(f[11]) + Number(f[12]);
+  } catch {
+    return 0;
+  }
+}
+
+/** CPU ticks of the benchmark's PostgreSQL: its backends alive now plus those ended (reaped by the postmaster). */
+function clusterTicks(): number {
+  const postmaster = Number(readFileSync(`${process.env['BENCH_PGDATA']}/postmaster.pid`, 'utf8').split('\n')[0]);
+  const own = readFileSync(`/proc/${postmaster}/stat`, 'utf8').split(') ')[1].split(' ');
+  let sum = Number(own[13]) + Number(own[14]);
+  for (const d of readdirSync('/proc')) {
+    if (!/^\d+$/.test(d)) continue;
+    try {
+      const f = readFileSync(`/proc/${d}/stat`, 'utf8').split(') ')[1].split(' ');
+      if (Number(f[1]) === postmaster) sum += Number(f[11]) + Number(f[12]);
+    } catch {
+      // gone meanwhile
+    }
+  }
+  return sum;
+}
 
 async function addCollars(url: string, n: number): Promise<number> {
   const db = new Client({ connectionString: url });
@@ -97,27 +131,52 @@ async function main(): Promise<void> {
     console.log(`  Dexie side alone: ${Math.round(stats.lastPull.records / (stats.lastPull.writeMs / 1000))} records/s`);
     console.log(`sign-in to "Up to date" (wall): ${wall.toFixed(2)} s`);
     console.log(`page JS heap during the pull: max ${(heapMax / 1e6).toFixed(0)} MB (target < 300 MB) -> ${heapMax < 300e6 ? 'met' : 'NOT met'}`);
-    console.log('pull endpoint alone (fetch + JSON parse of every page in the page, no Dexie writes):');
-    console.log('  page size | pages | records | seconds | records/s');
+    console.log('server side alone (every page fetched by Node over HTTP, gzip as the browser gets it, JSON parsed; nothing written):');
+    console.log('  page size | pages | records | seconds | records/s | server CPU µs/record | PostgreSQL CPU µs/record');
+    const call = await httpSession(server.baseUrl, 'crew@fluxwalk.example');
     for (const limit of PAGE_SIZES) {
-      const r = await browser.page.evaluate(async (lim) => {
-        const deviceId = crypto.randomUUID();
-        const t = performance.now();
-        let cursor = 0;
-        let pages = 0;
-        let records = 0;
-        for (let i = 0; i < 10_000; i++) {
-          const res = await fetch(`/api/sync/pull?cursor=${cursor}&limit=${lim}&deviceId=${deviceId}`, { credentials: 'include' });
-          if (!res.ok) throw new Error(`pull answered ${res.status}`);
-          const a = (await res.json()) as { changes: unknown[]; cursor: number; more: boolean };
-          pages++;
-          records += a.changes.length;
-          cursor = a.cursor;
-          if (!a.more) break;
-        }
-        return { pages, records, ms: performance.now() - t };
-      }, limit);
-      console.log(`  ${String(limit).padStart(9)} | ${String(r.pages).padStart(5)} | ${String(r.records).padStart(7)} | ${(r.ms / 1000).toFixed(2).padStart(7)} | ${Math.round(r.records / (r.ms / 1000))}`);
+      const deviceId = randomUUID();
+      const cpu0 = [cpuTicks(server.pid), clusterTicks()];
+      const t = performance.now();
+      let cursor = 0, pages = 0, records = 0;
+      for (let i = 0; i < 10_000; i++) {
+        const r = await call('GET', `/api/sync/pull?cursor=${cursor}&limit=${limit}&deviceId=${deviceId}`);
+        if (r.status !== 200) throw new Error(`pull answered ${r.status}`);
+        pages++;
+        records += r.json.changes.length;
+        cursor = r.json.cursor;
+        if (!r.json.more) break;
+      }
+      const sec = (performance.now() - t) / 1000;
+      const perRecord = (ticks: number) => ((ticks * 1e6) / TICKS_PER_S / records).toFixed(0);
+      console.log(`  ${String(limit).padStart(9)} | ${String(pages).padStart(5)} | ${String(records).padStart(7)} | ${sec.toFixed(2).padStart(7)} | `
+        + `${String(Math.round(records / sec)).padStart(9)} | ${perRecord(cpuTicks(server.pid) - cpu0[0]).padStart(20)} | ${perRecord(clusterTicks() - cpu0[1]).padStart(24)}`);
+    }
+    // The Dexie side alone: the records of a full pull, already in the page, written the engine's way.
+    const bundle = readFileSync(process.env['BENCH_DEXIE_BUNDLE'] ?? '', 'utf8');
+    await browser.page.evaluate(bundle);
+    const held = await browser.page.evaluate(async () => {
+      const deviceId = crypto.randomUUID();
+      const all: unknown[] = [];
+      let cursor = 0;
+      for (let i = 0; i < 10_000; i++) {
+        const res = await fetch(`/api/sync/pull?cursor=${cursor}&limit=5000&deviceId=${deviceId}`, { credentials: 'include' });
+        const a = (await res.json()) as { changes: { entity: string; id: string; rev: number; record: Record<string, unknown> | null }[]; cursor: number; more: boolean };
+        for (const c of a.changes) if (c.entity === 'collar' && c.record) all.push({ ...c.record, id: c.id, rev: c.rev });
+        cursor = a.cursor;
+        if (!a.more) break;
+      }
+      (globalThis as unknown as { benchRecords: unknown[] }).benchRecords = all;
+      return all.length;
+    });
+    console.log(`Dexie side alone (${held} collar records in memory, bulkPut of a page + the cursor, the app's indexes; fresh database each run):`);
+    console.log('  page size | pages a transaction | seconds | records/s');
+    for (const [pageSize, perTxn] of DEXIE_RUNS) {
+      const r = await browser.page.evaluate(([p, n]) => {
+        const g = globalThis as unknown as { benchRecords: { id: string }[]; benchDexieWrite(r: { id: string }[], p: number, n: number): Promise<{ ms: number; records: number }> };
+        return g.benchDexieWrite(g.benchRecords, p, n);
+      }, [pageSize, perTxn] as const);
+      console.log(`  ${String(pageSize).padStart(9)} | ${String(perTxn).padStart(19)} | ${(r.ms / 1000).toFixed(2).padStart(7)} | ${Math.round(r.records / (r.ms / 1000))}`);
     }
     console.log(`target: ${EXTRA} records in <= ${TARGET_S} s -> ${s <= TARGET_S ? 'met' : 'NOT met'}`);
     if (stats.collars < EXTRA) throw new Error(`only ${stats.collars} collars reached Dexie`);

@@ -6,7 +6,7 @@ import { resetDatabase } from '../../test/support/reset-database';
  * The built server on a loopback port against a freshly reset database with the demo scenario.
  * (The e2e helper finds the build relative to its own file, which moves when compiled here.)
  */
-export async function startBenchServer(root: string, databaseUrl: string, port: number): Promise<{ baseUrl: string; stop(): Promise<void> }> {
+export async function startBenchServer(root: string, databaseUrl: string, port: number): Promise<{ baseUrl: string; pid: number; stop(): Promise<void> }> {
   await resetDatabase(databaseUrl);
   let output = '';
   // BENCH_CPU_PROF=dir: the server writes a V8 CPU profile there when it stops (open in Chrome DevTools).
@@ -36,6 +36,7 @@ export async function startBenchServer(root: string, databaseUrl: string, port: 
   }
   return {
     baseUrl,
+    pid: child.pid ?? 0,
     stop: () => new Promise<void>((resolve) => {
       if (child.exitCode !== null) return resolve();
       child.once('exit', () => resolve());
