@@ -54,8 +54,9 @@ describe('pull records from raw rows', () => {
       const a = await pullChanges(t.ds, lead, randomUUID(), cursor, 7);
       for (const c of a.changes) {
         if (!c.record) continue;
-        const m = seen.get(c.entity) ?? new Map<string, string>();
-        seen.set(c.entity, m.set(c.id, JSON.stringify(c.record)));
+        const entity = c.entity as EntityName; // the wire names an entity as text
+        const m = seen.get(entity) ?? new Map<string, string>();
+        seen.set(entity, m.set(c.id, JSON.stringify(c.record)));
       }
       cursor = a.cursor;
       if (!a.more) break;
