@@ -1,6 +1,7 @@
 import { HttpClient, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
+import { RecordsApi } from '../../core/api/records-api';
 import type { RecordMeta } from '../../../../shared/model/common';
 import type { EntityFields } from '../../../../shared/model/entities';
 import type { PointsChange } from './point-exclusions';
@@ -94,6 +95,7 @@ export interface Named { id: string; code?: string; name?: string; rounds?: numb
 @Injectable({ providedIn: 'root' })
 export class BenchApi {
   private readonly http = inject(HttpClient);
+  private readonly records = inject(RecordsApi);
 
   queue(filter: QueueFilter, offset: number, limit = 100): Promise<Page<QueueItem>> {
     return firstValueFrom(this.http.get<Page<QueueItem>>('/api/bench/queue', { params: toParams({ ...filter, offset, limit }) }));
@@ -123,8 +125,9 @@ export class BenchApi {
     return firstValueFrom(this.http.post<{ accepted: number; skipped: { id: string; reason: string }[] }>('/api/bench/bulk-accept', filter));
   }
 
+  /** Every campaign, plot, treatment or collar of a site (all pages: a site may hold more than one page of collars). */
   list(path: 'campaigns' | 'plots' | 'treatments' | 'collars', siteId: string): Promise<Named[]> {
-    return firstValueFrom(this.http.get<Page<Named>>(`/api/${path}`, { params: toParams({ siteId, limit: 1000 }) })).then((p) => p.items);
+    return this.records.listAt<Named>(path, { siteId });
   }
 
   /** Recent recompute jobs (newest first); the server lists those of the user's sites and site-less ones. */

@@ -1,6 +1,7 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
+import { RecordsApi } from '../../core/api/records-api';
 import type { ProgressState } from '../../../../shared/model/progress-state';
 export type { ProgressState };
 export type ItemKey = 'offset' | 'closures' | 'probes';
@@ -50,16 +51,10 @@ export interface Member { id: string; displayName: string; email: string; roles:
 @Injectable({ providedIn: 'root' })
 export class BoardApi {
   private readonly http = inject(HttpClient);
+  private readonly records = inject(RecordsApi);
 
-  async list<T = Rec>(path: string, query: Record<string, string>): Promise<T[]> {
-    const items: T[] = [];
-    for (let offset = 0; ; offset += 1000) {
-      const res = await firstValueFrom(this.http.get<{ items: T[]; total: number }>(`/api/${path}`, {
-        params: { ...query, limit: '1000', offset: String(offset) },
-      }));
-      items.push(...res.items);
-      if (items.length >= res.total || !res.items.length) return items;
-    }
+  list<T = Rec>(path: string, query: Record<string, string>): Promise<T[]> {
+    return this.records.listAt<T>(path, query);
   }
 
   record(path: string, id: string): Promise<Rec> {

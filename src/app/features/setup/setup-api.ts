@@ -1,6 +1,7 @@
 import { HttpClient, HttpErrorResponse } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
+import { RecordsApi } from '../../core/api/records-api';
 
 export type Rec = Record<string, unknown> & { id: string; rev: number };
 
@@ -33,17 +34,10 @@ export interface UserRow {
 @Injectable({ providedIn: 'root' })
 export class SetupApi {
   private readonly http = inject(HttpClient);
+  private readonly records = inject(RecordsApi);
 
-  async list(path: string, query: Record<string, string> = {}): Promise<Rec[]> {
-    const items: Rec[] = [];
-    // Pages of 1000 (the server's cap) until the total is reached: a site may hold thousands of collars.
-    for (let offset = 0; ; offset += 1000) {
-      const res = await firstValueFrom(this.http.get<{ items: Rec[]; total: number }>(`/api/${path}`, {
-        params: { ...query, limit: '1000', offset: String(offset) },
-      }));
-      items.push(...res.items);
-      if (items.length >= res.total || !res.items.length) return items;
-    }
+  list(path: string, query: Record<string, string> = {}): Promise<Rec[]> {
+    return this.records.listAt<Rec>(path, query);
   }
 
   async create(path: string, fields: Record<string, unknown>): Promise<Rec> {
