@@ -1,5 +1,5 @@
 import type { EntityManager } from 'typeorm';
-import { ambientForClosure, withCollarArea, type AmbientCheck, type AmbientChoice, type FitContext, type OffsetSetRecord, type SlopeBasis } from '../../shared/flux';
+import { ambientForClosure, withCollarArea, type AmbientCheck, type AmbientChoice, type FitContext, type OffsetSetRecord, type StoredProfileVersion } from '../../shared/flux';
 import { localDay } from '../../shared/time/site-time';
 
 type Db = Pick<EntityManager, 'query'>;
@@ -14,17 +14,12 @@ export interface ClosureContext extends FitContext {
   ambient: AmbientChoice | null;
 }
 
-interface SiteInputs {
-  timezone: string;
-  elevationM: number | null;
-  ambientMarginPpm: number;
-  slopeBasis: SlopeBasis;
-  defaultProfileId: string | null;
-  defaultAirTempC: number;
-  profiles: { id: string; name: string; validFrom: string; chamberVolumeCm3: number; loopVolumeCm3: number; footprintAreaCm2: number | null }[];
+/** The site's part of the fit context, read once per site. */
+type SiteInputs = Pick<FitContext, 'timezone' | 'elevationM' | 'ambientMarginPpm' | 'slopeBasis' | 'defaultProfileId' | 'defaultAirTempC'> & {
+  profiles: StoredProfileVersion[];
   /** Every usable ambient reading of the site, of any analyzer (ambientForClosure picks the closure's). */
   ambientChecks: AmbientCheck[];
-}
+};
 
 interface AnalyzerInputs { precisionPpm: number | null; rangeMinPpm: number | null; rangeMaxPpm: number | null }
 
