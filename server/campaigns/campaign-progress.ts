@@ -1,11 +1,11 @@
 import type { DataSource, EntityManager } from 'typeorm';
 import { seesAllSites, type SessionUser } from '../../shared/auth/roles';
+import { addVisit, collarProgress, emptyTally, type DueSettings, type ProgressState, type RoundTally } from '../../shared/progress/visit-progress';
 import { notFound } from '../core/errors';
-import type { ProgressState } from '../../shared/model/progress-state';
+
 export type { ProgressState };
-interface Item { state: ProgressState; done: number; needed: number }
+
 type StateCounts = Record<ProgressState, number>;
-type ItemCounts = Record<'offset' | 'closures' | 'probes', number>;
 
 /**
  * The campaign's collars as parallel arrays: place in walking order (from 1), id, code, route
@@ -17,19 +17,15 @@ interface Collars {
   plot_treatment: (string | null)[]; treatment: (string | null)[];
 }
 /**
- * The campaign's visits as parallel arrays: collar id, round, what it holds packed in one number
- * (8 × closures done + 4 if a probe reading + 2 if an offset set: one array instead of three); and
- * for the skipped visits only: collar id, round, arrival (µs since 1970, exact as a JS number), reason.
+ * The campaign's live visits as parallel arrays. Worked (not skipped) visits: collar id, round and
+ * what the visit holds as the shared rule counts it, packed in one number (8 × closures + 4 if a
+ * probe reading + 2 if an offset set: one array instead of three). Skipped visits: collar id,
+ * round, id, arrival (ms since 1970) and reason (their readings never count).
  */
 interface Visits {
   collar: string[]; round: number[]; done: number[];
-  skip_collar: string[]; skip_round: number[]; skip_at: number[]; skip_reason: (string | null)[];
+  skip_collar: string[]; skip_round: number[]; skip_id: string[]; skip_at: number[]; skip_reason: (string | null)[];
 }
-/**
- * What the visits hold, per collar (by place in walking order) and asked round, at index
- * place × rounds + round index; skippedAt is -Infinity for a round not skipped.
- */
-interface Tally { offsets: Int32Array; closures: Int32Array; probes: Int32Array; skippedAt: Float64Array; skipReason: (string | null)[] }
 
 /*
  * Two queries that do not depend on each other, so they run at once on two connections (their
@@ -64,86 +60,66 @@ SELECT json_build_object('routes', (SELECT coalesce(json_agg(id ORDER BY no), '[
   FROM cols`;
 
 /**
- * Every visit of the campaign (of the asked round) with whether it holds an offset set, a probe
- * reading and how many non-rejected closures with samples (a chamber tap alone is not a closure
- * yet; closure_progress_idx holds exactly those, so no series is read). Readings are marked per
- * visit in one pass (indexes on campaign_id, visit_id), never looked up per collar: correlated
+ * Every live visit of the campaign (of the asked round) with what it holds by the shared rule
+ * (shared/progress/visit-progress.ts; test/api/progress-rule.test.ts proves the two agree): an
+ * offset set, a probe reading, and its closures that are live, have samples (a chamber tap alone is
+ * not a closure yet; closure_progress_idx holds exactly those, so no series is read), are not
+ * rejected and are not redone by a live closure (redos name a closure of the same visit, so of the
+ * same campaign). Readings are marked per visit in one pass, never looked up per collar: correlated
  * subqueries measured 2.5 s for 5 000 collars × 20 campaigns.
  */
 const VISITS_SQL = `
-WITH done AS (SELECT visit_id, bool_or(kind = 0) AS has_offset, count(*) FILTER (WHERE kind = 1) AS closures, bool_or(kind = 2) AS has_probe
+WITH redone AS (SELECT redo_of_id FROM closure WHERE campaign_id = $1 AND NOT deleted AND redo_of_id IS NOT NULL),
+done AS (SELECT visit_id, bool_or(kind = 0) AS has_offset, count(*) FILTER (WHERE kind = 1) AS closures, bool_or(kind = 2) AS has_probe
                 FROM (SELECT visit_id, 0 AS kind FROM offset_set WHERE campaign_id = $1 AND NOT deleted
                       UNION ALL
                       SELECT visit_id, 1 FROM closure WHERE campaign_id = $1 AND NOT deleted AND review_state <> 'rejected'
-                         AND jsonb_array_length(series->'tS') > 0
+                         AND jsonb_array_length(series->'tS') > 0 AND id NOT IN (SELECT redo_of_id FROM redone)
                       UNION ALL
                       SELECT visit_id, 2 FROM probe_reading WHERE campaign_id = $1 AND NOT deleted) m
                GROUP BY visit_id)
 SELECT json_build_object(
-         'collar', coalesce(json_agg(v.collar_id), '[]'), 'round', coalesce(json_agg(v.round), '[]'),
-         'done', coalesce(json_agg(8 * coalesce(d.closures, 0) + 4 * coalesce(d.has_probe, false)::int + 2 * coalesce(d.has_offset, false)::int), '[]'),
+         'collar', coalesce(json_agg(v.collar_id) FILTER (WHERE NOT v.skipped), '[]'),
+         'round', coalesce(json_agg(v.round) FILTER (WHERE NOT v.skipped), '[]'),
+         'done', coalesce(json_agg(8 * coalesce(d.closures, 0) + 4 * coalesce(d.has_probe, false)::int + 2 * coalesce(d.has_offset, false)::int)
+                   FILTER (WHERE NOT v.skipped), '[]'),
          'skip_collar', coalesce(json_agg(v.collar_id) FILTER (WHERE v.skipped), '[]'), 'skip_round', coalesce(json_agg(v.round) FILTER (WHERE v.skipped), '[]'),
-         'skip_at', coalesce(json_agg((extract(epoch FROM v.arrived_at) * 1000000)::bigint) FILTER (WHERE v.skipped), '[]'),
+         'skip_id', coalesce(json_agg(v.id) FILTER (WHERE v.skipped), '[]'),
+         'skip_at', coalesce(json_agg(floor(extract(epoch FROM v.arrived_at) * 1000)::bigint) FILTER (WHERE v.skipped), '[]'),
          'skip_reason', coalesce(json_agg(v.skip_reason) FILTER (WHERE v.skipped), '[]'))::text AS visits
   FROM visit v LEFT JOIN done d ON d.visit_id = v.id
  WHERE v.campaign_id = $1 AND NOT v.deleted AND ($2::int IS NULL OR v.round = $2::int)`;
 
 const emptyCounts = (): StateCounts => ({ due: 0, partial: 0, complete: 0, skipped: 0 });
+const NO_VISIT: RoundTally = Object.freeze(emptyTally());
 
-function itemState(done: number, needed: number): ProgressState {
-  return done >= needed ? 'complete' : done > 0 ? 'partial' : 'due';
-}
-
-/** Sums the visits per collar and asked round; the latest skipped visit of a round gives the reason. */
-function tallyVisits(v: Visits, placeOf: Map<string, number>, rounds: number[]): Tally {
-  const size = placeOf.size * rounds.length;
-  const t: Tally = { offsets: new Int32Array(size), closures: new Int32Array(size), probes: new Int32Array(size),
-    skippedAt: new Float64Array(size).fill(-Infinity), skipReason: new Array(size).fill(null) };
+/**
+ * Each collar's rounds (by place in walking order, at place × rounds + round index), summed visit by
+ * visit with the shared rule's addVisit; a round without a visit stays NO_VISIT.
+ */
+function tallyVisits(v: Visits, placeOf: Map<string, number>, rounds: number[]): RoundTally[] {
+  const t: RoundTally[] = new Array(placeOf.size * rounds.length).fill(NO_VISIT);
   // Visits of collars off the campaign's routes, or of rounds not asked, count nowhere.
   const at = (collarId: string, round: number) => {
     const place = placeOf.get(collarId), r = rounds.indexOf(round);
     return place === undefined || r < 0 ? -1 : place * rounds.length + r;
   };
+  const add = (x: number, visit: Parameters<typeof addVisit>[1]) => {
+    if (t[x] === NO_VISIT) t[x] = emptyTally();
+    addVisit(t[x], visit);
+  };
   for (let i = 0; i < v.collar.length; i++) {
     const x = at(v.collar[i], v.round[i]);
     if (x < 0) continue;
-    t.offsets[x] += (v.done[i] >> 1) & 1;
-    t.probes[x] += (v.done[i] >> 2) & 1;
-    t.closures[x] += v.done[i] >> 3;
+    add(x, { id: '', skipped: false, skipReason: null, arrivedMs: 0,
+      offsets: (v.done[i] >> 1) & 1, probes: (v.done[i] >> 2) & 1, closures: v.done[i] >> 3 });
   }
   for (let i = 0; i < v.skip_collar.length; i++) {
     const x = at(v.skip_collar[i], v.skip_round[i]);
-    if (x >= 0 && v.skip_at[i] >= t.skippedAt[x]) { t.skippedAt[x] = v.skip_at[i]; t.skipReason[x] = v.skip_reason[i]; }
+    if (x < 0) continue;
+    add(x, { id: v.skip_id[i], skipped: true, skipReason: v.skip_reason[i], arrivedMs: v.skip_at[i], offsets: 0, probes: 0, closures: 0 });
   }
   return t;
-}
-
-/** A collar's state over the requested rounds from its per-round counts (plain loops: it runs for every collar). */
-function collarProgress(t: Tally, place: number, needs: ItemCounts, rounds: number[]) {
-  let offsetDone = 0, closuresDone = 0, probesDone = 0;
-  let skippedRounds = 0, completeRounds = 0, dueRounds = 0;
-  let skipReason: string | null = null;
-  for (let x = place * rounds.length; x < (place + 1) * rounds.length; x++) {
-    if (t.skippedAt[x] > -Infinity) { skippedRounds++; skipReason = t.skipReason[x]; continue; }
-    // Extra closures in one round do not fill another.
-    const offset = Math.min(t.offsets[x], needs.offset), closures = Math.min(t.closures[x], needs.closures);
-    const probes = Math.min(t.probes[x], needs.probes);
-    offsetDone += offset; closuresDone += closures; probesDone += probes;
-    if (offset >= needs.offset && closures >= needs.closures && probes >= needs.probes) completeRounds++;
-    else if (offset + closures + probes === 0) dueRounds++;
-  }
-  const allSkipped = skippedRounds === rounds.length;
-  const item = (done: number, need: number): Item => ({
-    state: allSkipped ? 'skipped' : itemState(done, need * (rounds.length - skippedRounds)), done, needed: need * rounds.length });
-  const items: Partial<Record<keyof ItemCounts, Item>> = {};
-  if (needs.offset) items.offset = item(offsetDone, needs.offset);
-  if (needs.closures) items.closures = item(closuresDone, needs.closures);
-  if (needs.probes) items.probes = item(probesDone, needs.probes);
-  const state: ProgressState = allSkipped ? 'skipped'
-    : completeRounds + skippedRounds === rounds.length ? 'complete'
-    // A skipped round is handled, not progress: skipped + untouched rounds are still "due".
-    : dueRounds + skippedRounds === rounds.length ? 'due' : 'partial';
-  return { state, skipReason: skippedRounds ? skipReason : null, items };
 }
 
 /** The collars' parallel arrays, for each place in walking order the index into them, and each collar's place. */
@@ -167,7 +143,7 @@ export async function campaignProgress(ds: DataSource | EntityManager, user: Ses
   // The collar list is read while the visits query still runs.
   const [{ c, order, placeOf }, [{ visits }]]: [ReturnType<typeof readCollars>, [{ visits: string }]] = await Promise.all([
     ds.query(COLLARS_SQL, [campaignId]).then(([answer]) => readCollars(answer.collars)), ds.query(VISITS_SQL, [campaignId, round])]);
-  const needs: ItemCounts = { offset: camp.due_offset ? 1 : 0, closures: camp.due_closures, probes: camp.due_probes ? 1 : 0 };
+  const due: DueSettings = { dueOffset: camp.due_offset, dueClosures: camp.due_closures, dueProbes: camp.due_probes };
   const rounds = round === null ? Array.from({ length: camp.rounds }, (_, i) => i + 1) : [round];
   const tally = tallyVisits(JSON.parse(visits), placeOf, rounds);
   // Counted in maps (no property lookups by fresh id strings), handed out as objects in first-seen order.
@@ -180,7 +156,7 @@ export async function campaignProgress(ds: DataSource | EntityManager, user: Ses
   };
   const collars = Array.from(order, (i, place) => {
     const routeId = c.route[i] === null ? null : c.routes[c.route[i]! - 1];
-    const { state, skipReason, items } = collarProgress(tally, place, needs, rounds);
+    const { state, skipReason, items } = collarProgress(due, tally.slice(place * rounds.length, (place + 1) * rounds.length));
     bump(byRoute, routeId, state);
     bump(byPlot, c.plot[i], state);
     bump(byTreatment, c.plot_treatment[i], state);

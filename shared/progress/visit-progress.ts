@@ -1,4 +1,5 @@
 import type { EntityFields } from '../model/entities';
+import { PROGRESS_STATES, type ProgressState } from '../model/progress-state';
 
 /**
  * The one rule for a collar's progress in a campaign, used by Walk (on the device) and by the
@@ -16,8 +17,7 @@ import type { EntityFields } from '../model/entities';
  * when every round is due or skipped; otherwise partial. An item's done count sums the rounds
  * not skipped, each capped at that round's need (extra closures in one round do not fill another).
  */
-export type ProgressState = 'due' | 'partial' | 'complete' | 'skipped';
-export const PROGRESS_STATES: readonly ProgressState[] = ['due', 'partial', 'complete', 'skipped'];
+export { PROGRESS_STATES, type ProgressState };
 export type ItemKey = 'offset' | 'closures' | 'probes';
 
 /** What a campaign asks at each collar in each round. */

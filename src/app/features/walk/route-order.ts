@@ -1,15 +1,12 @@
+import {
+  collarProgress as roundProgress, countVisits, dueItems, tallyRound, type ClosureFacts, type DueSettings, type ReadingFacts, type VisitFacts,
+} from '../../../../shared/progress/visit-progress';
 import type { LocalRecord } from '../../core/db/db-schema';
 import { progressCountsText } from '../../../../shared/model/progress-state';
 import type { CollarState } from '../../core/map/collar-states';
 
-export type { CollarState };
+export type { CollarState, DueSettings };
 export type Direction = 'forward' | 'reverse' | 'alternate';
-
-export interface DueSettings {
-  dueOffset: boolean;
-  dueClosures: number;
-  dueProbes: boolean;
-}
 
 export interface CollarProgress {
   state: CollarState;
@@ -27,7 +24,10 @@ export function walkingOrder<T>(collarIds: readonly T[], direction: Direction, r
   return reverse ? [...collarIds].reverse() : [...collarIds];
 }
 
-/** What the campaign still needs at one collar in one round, from the records on the device. */
+/**
+ * What the campaign still needs at one collar in one round, from the records on the device, by the
+ * one progress rule (shared/progress/visit-progress.ts) that the Board's progress route follows too.
+ */
 export function collarProgress(
   due: DueSettings,
   visits: readonly LocalRecord[],
@@ -35,22 +35,10 @@ export function collarProgress(
   probes: readonly LocalRecord[],
   closures: readonly LocalRecord[],
 ): CollarProgress {
-  const skipped = visits.find((v) => v['skipped'] === true);
-  const active = visits.filter((v) => v['skipped'] !== true);
-  if (skipped && !active.length) return { state: 'skipped', due: [], skipReason: String(skipped['skipReason'] ?? '') };
-  const ids = new Set(active.map((v) => v.id));
-  const mine = (r: LocalRecord) => ids.has(String(r['visitId']));
-  const left: string[] = [];
-  if (due.dueOffset && !offsetSets.some(mine)) left.push('offset');
-  const closuresDone = closures.filter(mine).filter((c) => !closures.some((o) => o['redoOfId'] === c.id)).length;
-  if (closuresDone < due.dueClosures) {
-    const n = due.dueClosures - closuresDone;
-    left.push(n === 1 ? 'closure' : `${n} closures`);
-  }
-  if (due.dueProbes && !probes.some(mine)) left.push('probes');
-  // A visit with nothing recorded yet (conditions only) already counts as started.
-  const state: CollarState = !left.length ? 'complete' : active.length ? 'partial' : 'due';
-  return { state, due: left, skipReason: null };
+  const tally = tallyRound(countVisits(visits as unknown as VisitFacts[], offsetSets as unknown as ReadingFacts[],
+    probes as unknown as ReadingFacts[], closures as unknown as ClosureFacts[]));
+  const { state, skipReason } = roundProgress(due, [tally]);
+  return { state, due: dueItems(due, tally), skipReason };
 }
 
 /** The next collar to walk to: the first in walking order that is still due or partly done. */
