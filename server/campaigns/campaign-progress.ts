@@ -61,34 +61,22 @@ SELECT json_build_object('routes', (SELECT coalesce(json_agg(id ORDER BY no), '[
 
 /**
  * Every live visit of the campaign (of the asked round) with what it holds by the shared rule
- * (shared/progress/visit-progress.ts; test/api/progress-rule.test.ts proves the two agree): an
- * offset set, a probe reading, and its closures that are live, have samples (a chamber tap alone is
- * not a closure yet; closure_progress_idx holds exactly those, so no series is read), are not
- * rejected and are not redone by a live closure (redos name a closure of the same visit, so of the
- * same campaign). Readings are marked per visit in one pass, never looked up per collar: correlated
- * subqueries measured 2.5 s for 5 000 collars × 20 campaigns.
+ * (shared/progress/visit-progress.ts), as the visit_progress table keeps it: triggers recount a
+ * visit in the transaction that writes it or its offset sets, probe readings and closures
+ * (server/migrations/20261204232500-visit-progress.ts). test/api/progress-rule.test.ts proves the
+ * counts equal the rule's on seeded campaigns. One narrow row per visit: nothing is aggregated on ask.
  */
 const VISITS_SQL = `
-WITH redone AS (SELECT redo_of_id FROM closure WHERE campaign_id = $1 AND NOT deleted AND redo_of_id IS NOT NULL),
-done AS (SELECT visit_id, bool_or(kind = 0) AS has_offset, count(*) FILTER (WHERE kind = 1) AS closures, bool_or(kind = 2) AS has_probe
-                FROM (SELECT visit_id, 0 AS kind FROM offset_set WHERE campaign_id = $1 AND NOT deleted
-                      UNION ALL
-                      SELECT visit_id, 1 FROM closure WHERE campaign_id = $1 AND NOT deleted AND review_state <> 'rejected'
-                         AND jsonb_array_length(series->'tS') > 0 AND id NOT IN (SELECT redo_of_id FROM redone)
-                      UNION ALL
-                      SELECT visit_id, 2 FROM probe_reading WHERE campaign_id = $1 AND NOT deleted) m
-               GROUP BY visit_id)
 SELECT json_build_object(
-         'collar', coalesce(json_agg(v.collar_id) FILTER (WHERE NOT v.skipped), '[]'),
-         'round', coalesce(json_agg(v.round) FILTER (WHERE NOT v.skipped), '[]'),
-         'done', coalesce(json_agg(8 * coalesce(d.closures, 0) + 4 * coalesce(d.has_probe, false)::int + 2 * coalesce(d.has_offset, false)::int)
-                   FILTER (WHERE NOT v.skipped), '[]'),
-         'skip_collar', coalesce(json_agg(v.collar_id) FILTER (WHERE v.skipped), '[]'), 'skip_round', coalesce(json_agg(v.round) FILTER (WHERE v.skipped), '[]'),
-         'skip_id', coalesce(json_agg(v.id) FILTER (WHERE v.skipped), '[]'),
-         'skip_at', coalesce(json_agg(floor(extract(epoch FROM v.arrived_at) * 1000)::bigint) FILTER (WHERE v.skipped), '[]'),
-         'skip_reason', coalesce(json_agg(v.skip_reason) FILTER (WHERE v.skipped), '[]'))::text AS visits
-  FROM visit v LEFT JOIN done d ON d.visit_id = v.id
- WHERE v.campaign_id = $1 AND NOT v.deleted AND ($2::int IS NULL OR v.round = $2::int)`;
+         'collar', coalesce(json_agg(collar_id) FILTER (WHERE NOT skipped), '[]'),
+         'round', coalesce(json_agg(round) FILTER (WHERE NOT skipped), '[]'),
+         'done', coalesce(json_agg(8 * closures + 4 * probes + 2 * offsets) FILTER (WHERE NOT skipped), '[]'),
+         'skip_collar', coalesce(json_agg(collar_id) FILTER (WHERE skipped), '[]'), 'skip_round', coalesce(json_agg(round) FILTER (WHERE skipped), '[]'),
+         'skip_id', coalesce(json_agg(visit_id) FILTER (WHERE skipped), '[]'),
+         'skip_at', coalesce(json_agg(floor(extract(epoch FROM arrived_at) * 1000)::bigint) FILTER (WHERE skipped), '[]'),
+         'skip_reason', coalesce(json_agg(skip_reason) FILTER (WHERE skipped), '[]'))::text AS visits
+  FROM visit_progress
+ WHERE campaign_id = $1 AND ($2::int IS NULL OR round = $2::int)`;
 
 const emptyCounts = (): StateCounts => ({ due: 0, partial: 0, complete: 0, skipped: 0 });
 const NO_VISIT: RoundTally = Object.freeze(emptyTally());
@@ -154,9 +142,12 @@ export async function campaignProgress(ds: DataSource | EntityManager, user: Ses
     if (!counts) group.set(key, counts = emptyCounts());
     counts[s]++;
   };
+  // One array reused for every collar's rounds (no slice per collar).
+  const mine: RoundTally[] = new Array(rounds.length);
   const collars = Array.from(order, (i, place) => {
     const routeId = c.route[i] === null ? null : c.routes[c.route[i]! - 1];
-    const { state, skipReason, items } = collarProgress(due, tally.slice(place * rounds.length, (place + 1) * rounds.length));
+    for (let r = 0; r < rounds.length; r++) mine[r] = tally[place * rounds.length + r];
+    const { state, skipReason, items } = collarProgress(due, mine);
     bump(byRoute, routeId, state);
     bump(byPlot, c.plot[i], state);
     bump(byTreatment, c.plot_treatment[i], state);

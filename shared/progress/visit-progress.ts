@@ -113,6 +113,21 @@ export interface CollarProgress {
 
 const roundSkipped = (t: RoundTally) => t.skips > 0 && t.worked === 0;
 
+/**
+ * Item answers are few distinct values repeated over thousands of collars: one frozen object per
+ * value (the server builds 20 000 collars' items per ask; fresh objects were most of its garbage).
+ */
+const ITEMS = new Map<number, ItemProgress>();
+function sharedItem(state: ProgressState, done: number, needed: number): ItemProgress {
+  const key = (needed * 65536 + done) * 4 + PROGRESS_STATES.indexOf(state);
+  let it = ITEMS.get(key);
+  if (!it) {
+    it = Object.freeze({ state, done, needed });
+    if (ITEMS.size < 10_000) ITEMS.set(key, it);
+  }
+  return it;
+}
+
 function itemState(done: number, needed: number): ProgressState {
   return done >= needed ? 'complete' : done > 0 ? 'partial' : 'due';
 }
@@ -134,7 +149,7 @@ export function collarProgress(due: DueSettings, rounds: readonly RoundTally[]):
   }
   const n = rounds.length, allSkipped = skipped === n;
   const item = (done: number, per: number): ItemProgress =>
-    ({ state: allSkipped ? 'skipped' : itemState(done, per * (n - skipped)), done, needed: per * n });
+    sharedItem(allSkipped ? 'skipped' : itemState(done, per * (n - skipped)), done, per * n);
   const items: CollarProgress['items'] = {};
   if (need.offset) items.offset = item(offsetDone, need.offset);
   if (need.closures) items.closures = item(closuresDone, need.closures);
