@@ -26,6 +26,29 @@ describe('visit_progress table', () => {
     }
   });
 
+  it('when a closure moves to another visit or a visit is deleted, then both visits are recounted in the same statement', async () => {
+    const runner = t.ds.createQueryRunner();
+    await runner.connect();
+    await runner.startTransaction();
+    try {
+      const [c] = await runner.query(`SELECT c.id, c.visit_id, (SELECT v2.id FROM visit v2 WHERE v2.campaign_id = v.campaign_id AND v2.id <> v.id AND NOT v2.deleted LIMIT 1) AS other
+                                        FROM closure c JOIN visit v ON v.id = c.visit_id
+                                       WHERE NOT c.deleted AND c.review_state <> 'rejected' AND jsonb_array_length(c.series->'tS') > 0 LIMIT 1`);
+      const before = await runner.query(`SELECT visit_id, closures FROM visit_progress WHERE visit_id = ANY($1) ORDER BY visit_id`, [[c.visit_id, c.other]]);
+      await runner.query(`UPDATE closure SET visit_id = $2 WHERE id = $1`, [c.id, c.other]);
+      await runner.query(`UPDATE visit SET deleted = true WHERE id = $1`, [c.visit_id]);
+      const after = await runner.query(`SELECT visit_id, closures FROM visit_progress WHERE visit_id = ANY($1)`, [[c.visit_id, c.other]]);
+      expect(after).toEqual([{ visit_id: c.other, closures: before.find((r: { visit_id: string }) => r.visit_id === c.other).closures + 1 }]);
+      const kept = await runner.query(`SELECT ${COLUMNS} FROM visit_progress ORDER BY visit_id`);
+      await runner.query(`DELETE FROM visit_progress`);
+      await runner.query(`SELECT visit_progress_recount(ARRAY(SELECT id FROM visit))`);
+      expect(await runner.query(`SELECT ${COLUMNS} FROM visit_progress ORDER BY visit_id`)).toEqual(kept);
+    } finally {
+      await runner.rollbackTransaction();
+      await runner.release();
+    }
+  });
+
   it('when two transactions add closures at one visit at once, then both count', async () => {
     const admin = await signIn(t.app, demoEmail('admin'));
     const lead = await signIn(t.app, demoEmail('lead'));
