@@ -1,4 +1,4 @@
-import type { DataSource, EntityManager } from 'typeorm';
+import { DataSource, type EntityManager } from 'typeorm';
 import { seesAllSites, type SessionUser } from '../../shared/auth/roles';
 import { addVisit, collarProgress, emptyTally, type DueSettings, type ProgressState, type RoundTally } from '../../shared/progress/visit-progress';
 import { notFound } from '../core/errors';
@@ -122,15 +122,40 @@ function readCollars(text: string): { c: Collars; order: Int32Array; placeOf: Ma
   return { c, order, placeOf };
 }
 
+type CollarList = ReturnType<typeof readCollars>;
+const LISTS = new Map<string, { layout: string | null; list: CollarList }>();
+const KEPT_LISTS = 8;
+
+/**
+ * The campaign's collar list, reused while the site's latest collar/plot/route/campaign change-log
+ * seq is the one it was read at (seqs are handed out in commit order, never reused). Inside a
+ * transaction it is always read afresh: the transaction's own changes reach the log only at its end.
+ */
+async function collarList(ds: DataSource | EntityManager, campaignId: string, layout: string | null): Promise<CollarList> {
+  const shared = ds instanceof DataSource;
+  const kept = shared ? LISTS.get(campaignId) : undefined;
+  if (kept && kept.layout === layout) return kept.list;
+  const [answer] = await ds.query(COLLARS_SQL, [campaignId]);
+  const list = readCollars(answer.collars);
+  if (shared) {
+    LISTS.delete(campaignId);
+    LISTS.set(campaignId, { layout, list });
+    if (LISTS.size > KEPT_LISTS) LISTS.delete(LISTS.keys().next().value!);
+  }
+  return list;
+}
+
 /** A campaign's progress; inside a write (an EntityManager) it counts the transaction's own records too. */
 export async function campaignProgress(ds: DataSource | EntityManager, user: SessionUser, campaignId: string, round: number | null) {
   const [camp] = await ds.query(
-    `SELECT site_id, rounds, due_offset, due_closures, due_probes FROM campaign WHERE id = $1 AND NOT deleted`, [campaignId]);
+    `SELECT site_id, rounds, due_offset, due_closures, due_probes,
+            (SELECT max(seq) FROM change_log l WHERE l.site_id = campaign.site_id AND l.entity IN ('collar', 'plot', 'route', 'campaign'))::text AS layout
+       FROM campaign WHERE id = $1 AND NOT deleted`, [campaignId]);
   if (!camp || (!seesAllSites(user.roles) && !user.siteIds.includes(camp.site_id))) throw notFound('No such campaign');
   if (round !== null && round > camp.rounds) throw notFound(`The campaign has ${camp.rounds} round(s)`);
   // The collar list is read while the visits query still runs.
-  const [{ c, order, placeOf }, [{ visits }]]: [ReturnType<typeof readCollars>, [{ visits: string }]] = await Promise.all([
-    ds.query(COLLARS_SQL, [campaignId]).then(([answer]) => readCollars(answer.collars)), ds.query(VISITS_SQL, [campaignId, round])]);
+  const [{ c, order, placeOf }, [{ visits }]]: [CollarList, [{ visits: string }]] = await Promise.all([
+    collarList(ds, campaignId, camp.layout), ds.query(VISITS_SQL, [campaignId, round])]);
   const due: DueSettings = { dueOffset: camp.due_offset, dueClosures: camp.due_closures, dueProbes: camp.due_probes };
   const rounds = round === null ? Array.from({ length: camp.rounds }, (_, i) => i + 1) : [round];
   const tally = tallyVisits(JSON.parse(visits), placeOf, rounds);

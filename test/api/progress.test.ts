@@ -67,6 +67,21 @@ describe('campaign progress', () => {
     expect(r.totals.byRoute[ids.route]).toEqual({ due: 1, partial: 2, complete: 0, skipped: 0 });
   });
 
+  it('when a collar is renamed and the route reordered after an ask, then the next ask shows both (the kept collar list is renewed)', async () => {
+    const path = `/api/campaigns/${ids.campaign}/progress?round=1`;
+    expect((await lead.get(path)).body.collars.map((c: { collarId: string }) => c.collarId)).toEqual([ids.a, ids.b, ids.c]);
+    const collar = (await lead.get(`/api/collars/${ids.b}`)).body.record ?? (await lead.get(`/api/collars/${ids.b}`)).body;
+    expect((await lead.patch(`/api/collars/${ids.b}`, { rev: collar.rev, code: 'C2-renamed' })).status).toBe(200);
+    const after = (await lead.get(path)).body.collars;
+    expect(after.find((c: { collarId: string }) => c.collarId === ids.b).code).toBe('C2-renamed');
+    const route = (await lead.get(`/api/routes/${ids.route}`)).body.record ?? (await lead.get(`/api/routes/${ids.route}`)).body;
+    expect((await lead.patch(`/api/routes/${ids.route}`, { rev: route.rev, collarIds: [ids.c, ids.b, ids.a] })).status).toBe(200);
+    expect((await lead.get(path)).body.collars.map((c: { collarId: string }) => c.collarId)).toEqual([ids.c, ids.b, ids.a]);
+    // Put the walking order back for the other tests.
+    const again = (await lead.get(`/api/routes/${ids.route}`)).body.record ?? (await lead.get(`/api/routes/${ids.route}`)).body;
+    expect((await lead.patch(`/api/routes/${ids.route}`, { rev: again.rev, collarIds: [ids.a, ids.b, ids.c] })).status).toBe(200);
+  });
+
   it('when a round beyond the campaign is asked, then 404', async () => {
     expect((await lead.get(`/api/campaigns/${ids.campaign}/progress?round=3`)).status).toBe(404);
     expect((await lead.get(`/api/campaigns/${randomUUID()}/progress`)).status).toBe(404);
