@@ -35,6 +35,8 @@ describe('Walk: a collar in a round', () => {
     const p = collarProgress(DUE, [visit('v')], [], [], []);
     expect(p).toEqual({ state: 'partial', due: ['offset', 'closure', 'probes'], skipReason: null });
     expect(nextDueIndex(['complete', p.state, 'due'])).toBe(1);
+  });
+});
 
 describe('Walk route summary words', () => {
   it('when the route list is summed up, then it counts each state with the word the Board and the digest use', () => {
