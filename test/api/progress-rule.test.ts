@@ -130,15 +130,17 @@ describe('campaign progress follows the shared rule', () => {
     };
   }
 
+  interface StoredVisit { collarId: string; round: number; facts: VisitFacts }
+
   /** What the shared rule says for each collar of the route over the asked rounds. */
   function expected(due: DueSettings, s: Awaited<ReturnType<typeof stored>>, rounds: number[]) {
     return collars.slice(0, COLLARS).map((collarId) => {
       const tallies = rounds.map((round) => {
-        const visits = s.visits.filter((v) => v.collarId === collarId && v.round === round).map((v) => v.facts);
+        const visits = s.visits.filter((v: StoredVisit) => v.collarId === collarId && v.round === round).map((v: StoredVisit) => v.facts);
         const counted = countVisits(visits, s.sets, s.probes, s.closures);
-        const live = visits.filter((v) => !v.deleted);
+        const live = visits.filter((v: VisitFacts) => !v.deleted);
         if (!live.length) note('no visit');
-        if (live.some((v) => v.skipped) && live.some((v) => !v.skipped)) note('skipped and worked');
+        if (live.some((v: VisitFacts) => v.skipped) && live.some((v: VisitFacts) => !v.skipped)) note('skipped and worked');
         if (counted.some((v) => !v.skipped && !v.offsets && !v.probes && !v.closures)) note('visit with nothing counted');
         return tallyRound(counted);
       });
@@ -156,7 +158,7 @@ describe('campaign progress follows the shared rule', () => {
     it(`when campaign ${seed} is generated, then the server's answer for all rounds and for each round is the shared rule's`, async () => {
       const { campaignId, due } = await generate(seed);
       const s = await stored(campaignId);
-      expect(s.closures.some((c) => c.redoOfId && !c.deleted)).toBe(true);
+      expect(s.closures.some((c: ClosureFacts) => c.redoOfId && !c.deleted)).toBe(true);
       for (const round of [null, ...Array.from({ length: ROUNDS }, (_, i) => i + 1)]) {
         const res = await lead.get(`/api/campaigns/${campaignId}/progress${round ? `?round=${round}` : ''}`);
         expect(res.status).toBe(200);
