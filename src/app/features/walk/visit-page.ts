@@ -16,7 +16,7 @@ import { SiteTimePipe } from '../../core/time/site-time-pipe';
 import { AirTempField } from './air-temp-field';
 import { AUTOSAVE_MS, OffsetForm } from './offset-form';
 import { nextDueIndex } from './route-order';
-import { routeView } from './walk-store';
+import { RouteStore } from './route-store';
 import { ProbeForm, type ProbeSave } from './probe-form';
 import { SkipForm } from './skip-form';
 import { WalkContext } from '../field-day/walk-context';
@@ -68,7 +68,7 @@ export class VisitPage {
   /** The crew opened the conditions again after they folded. */
   protected readonly conditionsOpen = signal(false);
   private loadedVisit: string | null | undefined = undefined;
-  private readonly route = routeView(() => {
+  private readonly route = inject(RouteStore).view(() => {
     const c = this.choice();
     return { campaignId: c.campaignId, routeId: c.routeId, round: c.round, flipped: c.flipped };
   });

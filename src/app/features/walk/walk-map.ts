@@ -9,7 +9,8 @@ import { Gps } from './gps';
 import { STATE_COLOURS, STATE_GLYPHS, STATE_LEGEND, STATE_WORDS } from '../../core/map/collar-states';
 import { LABEL_H, MARKER_PX, estimateLabelWidth, placeLabels } from './map-labels';
 import { WalkContext } from '../field-day/walk-context';
-import { routeView, walkOptions } from './walk-store';
+import { RouteStore } from './route-store';
+import { walkOptions } from './walk-store';
 
 /**
  * A marker's face: the state's shape (the Board's glyph) filling a 48 px target, and a label with
@@ -68,7 +69,7 @@ export class WalkMap {
   private readonly host = viewChild.required<ElementRef<HTMLElement>>('map');
   private readonly options = walkOptions(() => this.site()?.id ?? null);
   protected readonly tileUrl = computed(() => (this.options()?.site?.['tileUrl'] as string | null) ?? null);
-  private readonly route = routeView(() => {
+  private readonly route = inject(RouteStore).view(() => {
     const c = this.walk.choice();
     return { campaignId: c.campaignId, routeId: c.routeId, round: c.round, flipped: c.flipped };
   });

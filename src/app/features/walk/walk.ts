@@ -1,4 +1,5 @@
-import { DecimalPipe } from '@angular/common';
+import { ScrollingModule } from '@angular/cdk/scrolling';
+import { DOCUMENT, DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, signal, untracked } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -9,6 +10,7 @@ import { Router, RouterLink } from '@angular/router';
 import { SiteChoice } from '../../core/auth/site-choice';
 import { DeviceDb } from '../../core/db/device-db';
 import { SyncEngine } from '../../core/sync/sync-engine';
+import { OutdoorMode } from '../../core/theme/outdoor-mode';
 import { notYetSynced } from '../../core/sync/sync-status';
 import { localDay, siteDayStart } from '../../../../shared/time/site-time';
 import { Gps, wayTo } from './gps';
@@ -17,7 +19,11 @@ import { STATE_GLYPHS, STATE_WORDS } from '../../core/map/collar-states';
 import { nextDueIndex, routeSummary } from './route-order';
 import { CHECK_ITEMS } from './start-of-day-items';
 import { WalkContext } from '../field-day/walk-context';
-import { routeView, todayChecks, walkOptions } from './walk-store';
+import { RouteStore, type RouteRow } from './route-store';
+import { todayChecks, walkOptions } from './walk-store';
+
+/** One route row's height in rem (route-list.scss gives every row exactly this height). */
+export const ROUTE_ROW_REM = 4.125;
 
 /**
  * The route of today's round: pick campaign, round and route; collars in walking order with
@@ -26,7 +32,7 @@ import { routeView, todayChecks, walkOptions } from './walk-store';
  */
 @Component({
   selector: 'fw-walk',
-  imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatSlideToggleModule, QrScan, RouterLink],
+  imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatSlideToggleModule, QrScan, RouterLink, ScrollingModule],
   templateUrl: './walk.html',
   styleUrls: ['./walk.scss', './route-list.scss'],
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -38,9 +44,11 @@ export class Walk {
   private readonly router = inject(Router);
   private readonly engine = inject(SyncEngine);
   private readonly deviceDb = inject(DeviceDb);
+  private readonly outdoor = inject(OutdoorMode);
+  private readonly document = inject(DOCUMENT);
   protected readonly choice = this.walk.choice;
   protected readonly options = walkOptions(() => this.site()?.id ?? null);
-  protected readonly route = routeView(() => {
+  protected readonly route = inject(RouteStore).view(() => {
     const c = this.choice();
     return { campaignId: c.campaignId, routeId: c.routeId, round: c.round, flipped: c.flipped };
   });
@@ -64,6 +72,13 @@ export class Walk {
   protected readonly codeProblem = signal('');
   protected readonly stateLabel = STATE_WORDS;
   protected readonly stateMark = STATE_GLYPHS;
+  /** One row's height in px for the virtual scroll: rem follow the device's font size and the outdoor theme's larger type. */
+  protected readonly rowPx = computed(() => {
+    this.outdoor.enabled();
+    const rootPx = parseFloat(getComputedStyle(this.document.documentElement).fontSize) || 16;
+    return ROUTE_ROW_REM * rootPx;
+  });
+  protected readonly byId = (_: number, r: RouteRow) => r.id;
 
   protected readonly campaign = computed(() => this.options()?.campaigns.find((c) => c.id === this.choice().campaignId) ?? null);
   protected readonly rounds = computed(() => Array.from({ length: Number(this.campaign()?.['rounds'] ?? 1) }, (_, i) => i + 1));

@@ -1,0 +1,163 @@
+import { DestroyRef, Injectable, Signal, computed, inject, signal } from '@angular/core';
+import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
+import { Observable, ReplaySubject, combineLatest, map, of, retry, share, switchMap, timer } from 'rxjs';
+import type { FluxDb, LocalRecord } from '../../core/db/db-schema';
+import { DeviceDb } from '../../core/db/device-db';
+import { liveQuery$ } from '../../core/db/live-query-signal';
+import { collarProgress, walkingOrder, type CollarProgress, type Direction, type DueSettings } from './route-order';
+
+/** One collar of the route as the crew's screens show it, with its state in the round. */
+export interface RouteRow extends CollarProgress {
+  id: string;
+  code: string;
+  plotCode: string;
+  latitude: number | null;
+  longitude: number | null;
+  status: string;
+}
+
+export interface RouteView {
+  rows: RouteRow[];
+  due: DueSettings;
+  direction: Direction;
+  rounds: number;
+}
+
+export interface RouteParams {
+  campaignId: string | null;
+  routeId: string | null;
+  round: number;
+  flipped: boolean;
+}
+
+/** The route's collars in walking order, without the round's records (these change at every save). */
+export interface RoutePlan {
+  collars: Omit<RouteRow, keyof CollarProgress>[];
+  due: DueSettings;
+  direction: Direction;
+  rounds: number;
+}
+
+/** The round's records of a campaign: they change with every save at a visit. */
+export interface RoundRecords {
+  visits: LocalRecord[];
+  offsetSets: LocalRecord[];
+  probes: LocalRecord[];
+  closures: LocalRecord[];
+}
+
+const live = (r: LocalRecord) => !r.deleted;
+
+export async function loadRoutePlan(db: FluxDb, p: RouteParams): Promise<RoutePlan | null> {
+  if (!p.campaignId || !p.routeId) return null;
+  const [campaign, route] = await Promise.all([db.records('campaign').get(p.campaignId), db.records('route').get(p.routeId)]);
+  if (!campaign || !route) return null;
+  const plan = (campaign['routes'] as { routeId: string; direction: Direction }[] | undefined)?.find((r) => r.routeId === p.routeId);
+  const direction = plan?.direction ?? 'forward';
+  const ids = walkingOrder(route['collarIds'] as string[], direction, p.round, p.flipped);
+  const collars = (await db.records('collar').bulkGet(ids)).filter((c): c is LocalRecord => !!c);
+  // A site has a handful of plots: each is read once, not once per collar.
+  const plotIds = [...new Set(collars.map((c) => String(c['plotId'])))];
+  const plots = new Map((await db.records('plot').bulkGet(plotIds)).filter((pl): pl is LocalRecord => !!pl).map((pl) => [pl.id, pl]));
+  return {
+    collars: collars.map((c) => ({
+      id: c.id,
+      code: String(c['code']),
+      plotCode: String(plots.get(String(c['plotId']))?.['code'] ?? ''),
+      latitude: (c['latitude'] as number | null) ?? null,
+      longitude: (c['longitude'] as number | null) ?? null,
+      status: String(c['status'] ?? 'active'),
+    })),
+    due: {
+      dueOffset: campaign['dueOffset'] !== false,
+      dueClosures: Number(campaign['dueClosures'] ?? 1),
+      dueProbes: campaign['dueProbes'] !== false,
+    },
+    direction,
+    rounds: Number(campaign['rounds'] ?? 1),
+  };
+}
+
+export async function loadRoundRecords(db: FluxDb, p: { campaignId: string | null; round: number }): Promise<RoundRecords> {
+  if (!p.campaignId) return { visits: [], offsetSets: [], probes: [], closures: [] };
+  const visits = await db.records('visit').where('campaignId').equals(p.campaignId).filter((v) => v['round'] === p.round && live(v)).toArray();
+  const ids = visits.map((v) => v.id);
+  const of = (entity: 'offsetSet' | 'probeReading' | 'closure') => (ids.length ? db.records(entity).where('visitId').anyOf(ids).filter(live).toArray() : []);
+  const [offsetSets, probes, closures] = await Promise.all([of('offsetSet'), of('probeReading'), of('closure')]);
+  return { visits, offsetSets, probes, closures };
+}
+
+/** Groups records by their collar in one pass over them. */
+function byCollar(records: readonly LocalRecord[]): Map<string, LocalRecord[]> {
+  const out = new Map<string, LocalRecord[]>();
+  for (const r of records) {
+    const id = r['collarId'] as string;
+    const list = out.get(id);
+    if (list) list.push(r);
+    else out.set(id, [r]);
+  }
+  return out;
+}
+
+/**
+ * Each collar's state in the round. The round's records are grouped by collar once, so the work
+ * grows with collars + records, not collars × records (5 000 collars on a route).
+ */
+export function routeRows(plan: RoutePlan, round: RoundRecords): RouteRow[] {
+  const visits = byCollar(round.visits), sets = byCollar(round.offsetSets), probes = byCollar(round.probes), closures = byCollar(round.closures);
+  const none: LocalRecord[] = [];
+  const untouched = collarProgress(plan.due, none, none, none, none);
+  return plan.collars.map((c) => {
+    const v = visits.get(c.id);
+    // A collar with no visit in this round has nothing of its own yet: it is due in full.
+    const progress = v ? collarProgress(plan.due, v, sets.get(c.id) ?? none, probes.get(c.id) ?? none, closures.get(c.id) ?? none)
+      : { ...untouched, due: [...untouched.due] };
+    return { ...c, ...progress };
+  });
+}
+
+/** How long a route no screen shows stays ready (route → visit → route reuses it). */
+const KEEP_MS = 60_000;
+
+/**
+ * The route of the walk, shared by the route list, the visit screen's "next collar" and the map.
+ * The collars are read once per route and round (the read that grows with the route), the
+ * round's records on every save; a screen opened from another one gets the route at once.
+ */
+@Injectable({ providedIn: 'root' })
+export class RouteStore {
+  private readonly deviceDb = inject(DeviceDb);
+  private readonly shared = new WeakMap<FluxDb, Map<string, Observable<RouteView | null>>>();
+
+  /** The route for the given choice, live; call in an injection context. */
+  view(params: () => RouteParams): Signal<RouteView | null | undefined> {
+    const out = signal<RouteView | null | undefined>(undefined);
+    const input = computed(() => ({ db: this.deviceDb.db(), p: params() }), { equal: (a, b) => a.db === b.db && keyOf(a.p) === keyOf(b.p) });
+    toObservable(input)
+      .pipe(switchMap(({ db, p }) => (db ? this.live(db, p) : of(undefined))), takeUntilDestroyed(inject(DestroyRef)))
+      .subscribe({ next: (v) => out.set(v), error: (e) => console.error('[route]', e) });
+    return out.asReadonly();
+  }
+
+  private live(db: FluxDb, p: RouteParams): Observable<RouteView | null> {
+    const byKey = this.shared.get(db) ?? new Map<string, Observable<RouteView | null>>();
+    this.shared.set(db, byKey);
+    const key = keyOf(p);
+    let view = byKey.get(key);
+    if (!view) {
+      // A closed or lost connection ends a live query; it starts again once the database is back.
+      const plan$ = liveQuery$(() => loadRoutePlan(db, p)).pipe(retry({ delay: 1000 }));
+      const round$ = liveQuery$(() => loadRoundRecords(db, p)).pipe(retry({ delay: 1000 }));
+      view = combineLatest([plan$, round$]).pipe(
+        map(([plan, round]) => (plan ? { rows: routeRows(plan, round), due: plan.due, direction: plan.direction, rounds: plan.rounds } : null)),
+        share({ connector: () => new ReplaySubject(1), resetOnRefCountZero: () => timer(KEEP_MS), resetOnError: true }),
+      );
+      byKey.set(key, view);
+    }
+    return view;
+  }
+}
+
+function keyOf(p: RouteParams): string {
+  return `${p.campaignId}|${p.routeId}|${p.round}|${p.flipped}`;
+}
