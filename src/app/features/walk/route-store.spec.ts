@@ -75,6 +75,19 @@ describe('The route of a walk', () => {
     expect(reads).toBe(visits.length + sets.length);
   });
 
+  it('when one collar of a long route gets a visit, then the other collars keep their rows as they were', () => {
+    const plan: RoutePlan = {
+      collars: Array.from({ length: 3 }, (_, i) => ({ id: `c${i}`, code: `L-${i}`, plotCode: '', latitude: null, longitude: null, status: 'active' })),
+      due: { dueOffset: true, dueClosures: 1, dueProbes: false }, direction: 'forward', rounds: 1,
+    };
+    const before = routeRows(plan, { visits: [], offsetSets: [], probes: [], closures: [] });
+    const after = routeRows(plan, { visits: [{ id: 'v1', rev: 1, collarId: 'c1', round: 1 }], offsetSets: [], probes: [], closures: [] });
+    expect(after.map((r) => r.state)).toEqual(['due', 'partial', 'due']);
+    expect(after[0]).toBe(before[0]);
+    expect(after[2]).toBe(before[2]);
+    expect(before[1]).toMatchObject({ state: 'due', due: ['offset', 'closure'] });
+  });
+
   it('when a second screen asks for the route the first one shows, then it has the route at once and both follow a save', async () => {
     const { db } = await signedInDevice();
     const [a] = await putRoute(db, ['A', 'B']);

@@ -99,20 +99,26 @@ function byCollar(records: readonly LocalRecord[]): Map<string, LocalRecord[]> {
   return out;
 }
 
+/** Rows of collars with nothing recorded in the round, made once per plan: a save elsewhere on the route leaves them as they are. */
+const untouchedRows = new WeakMap<RoutePlan, Map<string, RouteRow>>();
+
 /**
  * Each collar's state in the round. The round's records are grouped by collar once, so the work
- * grows with collars + records, not collars × records (5 000 collars on a route).
+ * grows with collars + records, not collars × records (5 000 collars on a route); a collar with
+ * nothing recorded keeps its row object from one save to the next.
  */
 export function routeRows(plan: RoutePlan, round: RoundRecords): RouteRow[] {
   const visits = byCollar(round.visits), sets = byCollar(round.offsetSets), probes = byCollar(round.probes), closures = byCollar(round.closures);
   const none: LocalRecord[] = [];
-  const untouched = collarProgress(plan.due, none, none, none, none);
+  let untouched = untouchedRows.get(plan);
+  if (!untouched) untouchedRows.set(plan, (untouched = new Map()));
   return plan.collars.map((c) => {
     const v = visits.get(c.id);
+    if (v) return { ...c, ...collarProgress(plan.due, v, sets.get(c.id) ?? none, probes.get(c.id) ?? none, closures.get(c.id) ?? none) };
     // A collar with no visit in this round has nothing of its own yet: it is due in full.
-    const progress = v ? collarProgress(plan.due, v, sets.get(c.id) ?? none, probes.get(c.id) ?? none, closures.get(c.id) ?? none)
-      : { ...untouched, due: [...untouched.due] };
-    return { ...c, ...progress };
+    let row = untouched.get(c.id);
+    if (!row) untouched.set(c.id, (row = { ...c, ...collarProgress(plan.due, none, none, none, none) }));
+    return row;
   });
 }
 
