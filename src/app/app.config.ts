@@ -8,10 +8,11 @@ import {
   provideZonelessChangeDetection,
 } from '@angular/core';
 import { MatIconRegistry } from '@angular/material/icon';
-import { provideRouter, withComponentInputBinding, withInMemoryScrolling } from '@angular/router';
+import { RouteReuseStrategy, provideRouter, withComponentInputBinding, withInMemoryScrolling } from '@angular/router';
 import { provideServiceWorker } from '@angular/service-worker';
 import { routes } from './app.routes';
 import { apiInterceptor } from './core/api/api-interceptor';
+import { KeptScreens } from './core/router/kept-screens';
 import { AppUpdate } from './core/sw-update/app-update';
 import { OutdoorMode } from './core/theme/outdoor-mode';
 
@@ -21,6 +22,8 @@ export const appConfig: ApplicationConfig = {
     provideZonelessChangeDetection(),
     // A new screen (the next collar, too) opens at its top; Back returns to where the user was.
     provideRouter(routes, withComponentInputBinding(), withInMemoryScrolling({ scrollPositionRestoration: 'enabled' })),
+    // Walk's route list stays drawn while a collar or the map is open (core/router/kept-screens.ts).
+    { provide: RouteReuseStrategy, useExisting: KeptScreens },
     provideHttpClient(withInterceptors([apiInterceptor])),
     // The worker is registered at once (not "when stable"): a zoneless field app may never be
     // idle for long, and the first online visit must leave the shell cached for the offline start.
