@@ -1,4 +1,4 @@
-import { Component, OnDestroy, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, OnDestroy, signal } from '@angular/core';
 import { TestBed } from '@angular/core/testing';
 import { RouteReuseStrategy, provideRouter } from '@angular/router';
 import { RouterTestingHarness } from '@angular/router/testing';
@@ -8,13 +8,13 @@ import { KEEP_SCREEN_MS, KeptScreens } from './kept-screens';
 let made = 0;
 let destroyed = 0;
 
-@Component({ selector: 'fw-test-list', template: '<p>list</p>' })
+@Component({ selector: 'fw-test-list', template: '<p>list</p>', changeDetection: ChangeDetectionStrategy.OnPush })
 class ListScreen implements OnDestroy {
   readonly no = ++made;
   ngOnDestroy(): void { destroyed++; }
 }
 
-@Component({ selector: 'fw-test-detail', template: '<p>detail</p>' })
+@Component({ selector: 'fw-test-detail', template: '<p>detail</p>', changeDetection: ChangeDetectionStrategy.OnPush })
 class DetailScreen {}
 
 describe('Kept screens', () => {

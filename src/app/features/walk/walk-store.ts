@@ -1,5 +1,5 @@
 import { Signal } from '@angular/core';
-import type { FluxDb, LocalRecord } from '../../core/db/db-schema';
+import type { LocalRecord } from '../../core/db/db-schema';
 import { liveSignal } from '../../core/db/live-query-signal';
 
 export interface WalkOptions {
