@@ -2,7 +2,7 @@ import { TestBed } from '@angular/core/testing';
 import { TEST_SITE, signedInDevice } from '../../core/db/testing/signed-in-device';
 import { until } from '../../core/db/testing/until';
 import { Walk } from './walk';
-import { WalkContext } from './walk-context';
+import { WalkContext } from '../field-day/walk-context';
 
 const CAMPAIGN = '44444444-4444-4444-8444-444444444444';
 const ROUTE = '55555555-5555-4555-8555-555555555555';
