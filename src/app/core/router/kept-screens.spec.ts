@@ -50,10 +50,12 @@ describe('Kept screens', () => {
     expect(harness.routeNativeElement?.textContent).toContain('list');
   });
 
-  it('when another user signs in on the device, then the kept screen is ended and a new one made', async () => {
+  it('when another user signs in on the device, then the kept screen is ended at once and a new one made', async () => {
     const { harness, first } = await start();
     await harness.navigateByUrl('/detail', DetailScreen);
     user.set({ id: 'crew-b' });
+    TestBed.tick();
+    expect(destroyed).toBe(1);
     const again = await harness.navigateByUrl('/list', ListScreen);
     expect(again).not.toBe(first);
     expect(made).toBe(2);

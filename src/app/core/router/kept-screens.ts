@@ -1,4 +1,4 @@
-import { ComponentRef, Injectable, inject } from '@angular/core';
+import { ComponentRef, Injectable, effect, inject } from '@angular/core';
 import { ActivatedRouteSnapshot, BaseRouteReuseStrategy, DetachedRouteHandle, Route } from '@angular/router';
 import { AuthStore } from '../auth/auth-store';
 
@@ -25,6 +25,15 @@ export class KeptScreens extends BaseRouteReuseStrategy {
   /** For tests: the clock. */
   now = () => Date.now();
 
+  constructor() {
+    super();
+    // Signed out, or another user: the kept screen ends at once (its device queries read that user's data).
+    effect(() => {
+      const id = this.auth.user()?.id ?? null;
+      if (this.kept && this.kept.userId !== id) this.drop();
+    });
+  }
+
   override shouldDetach(route: ActivatedRouteSnapshot): boolean {
     return route.routeConfig?.data?.['keepScreen'] === true;
   }
@@ -44,13 +53,17 @@ export class KeptScreens extends BaseRouteReuseStrategy {
     if (!k || k.config !== route.routeConfig) return false;
     if (k.userId === this.userId() && this.now() - k.at <= KEEP_SCREEN_MS) return true;
     // Another user on this device, or kept too long ("today" may have moved on): made anew.
-    destroy(k.handle);
-    this.kept = null;
+    this.drop();
     return false;
   }
 
   override retrieve(route: ActivatedRouteSnapshot): DetachedRouteHandle | null {
     return this.kept && this.kept.config === route.routeConfig ? this.kept.handle : null;
+  }
+
+  private drop(): void {
+    if (this.kept) destroy(this.kept.handle);
+    this.kept = null;
   }
 
   private userId(): string | null {
