@@ -112,6 +112,8 @@ describe('Closure capture in Chromium, offline, then synced', () => {
       await page.getByRole('link', { name: 'To the route' }).click();
       await page.getByTestId('route-list').waitFor();
       await choose(page, 'Round', 'Round 2');
+      // The list draws only rows near the screen and reuses them: read it once it shows round 2's order.
+      await page.locator('[data-testid="route-list"][data-round="2"]').waitFor();
       const codes = (await page.locator('[data-testid^="route-collar-"] .code').allInnerTexts()).map((c) => c.trim());
       const [collarA, collarB] = codes;
 
@@ -280,6 +282,8 @@ describe('Closure capture in Chromium, offline, then synced', () => {
       await page.getByRole('link', { name: 'To the route' }).click();
       await page.getByTestId('route-list').waitFor();
       await choose(page, 'Round', 'Round 2');
+      // The list draws only rows near the screen and reuses them: read it once it shows round 2's order.
+      await page.locator('[data-testid="route-list"][data-round="2"]').waitFor();
       const codes = (await page.locator('[data-testid^="route-collar-"] .code').allInnerTexts()).map((c) => c.trim());
       const [, , collarC, collarD] = codes;
       await page.getByTestId(`route-collar-${collarC}`).click();

@@ -45,9 +45,12 @@ describe('Probe replicates on a phone', () => {
       await page.goto(`${server.baseUrl}/walk`, { waitUntil: 'load' });
       await page.getByRole('heading', { name: 'Walk', exact: true }).waitFor();
       await choose(page, 'Round', 'Round 2');
-      await page.getByTestId('route-list').waitFor();
-      // The last collar of the route: other tests work the first ones.
-      await page.locator('[data-testid^="route-collar-"]').last().click();
+      await page.locator('[data-testid="route-list"][data-round="2"]').waitFor();
+      // The last collar of the route: other tests work the first ones. The list draws only rows near
+      // the screen, so scroll to its end first.
+      await page.evaluate(() => window.scrollTo(0, document.documentElement.scrollHeight));
+      const size = await page.locator('[data-testid="route-list"] li').first().getAttribute('aria-setsize');
+      await page.locator(`[data-testid="route-list"] li[aria-posinset="${size}"] a`).click();
       await page.getByTestId('visit-code').waitFor();
 
       await page.getByTestId('soil-temp-1').fill('8.2');

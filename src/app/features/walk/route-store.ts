@@ -21,6 +21,8 @@ export interface RouteView {
   due: DueSettings;
   direction: Direction;
   rounds: number;
+  /** The round these rows are in (the list says so, so a test can wait for a new round's order). */
+  round: number;
 }
 
 export interface RouteParams {
@@ -155,7 +157,7 @@ export class RouteStore {
       const plan$ = liveQuery$(() => loadRoutePlan(db, p)).pipe(retry({ delay: 1000 }));
       const round$ = liveQuery$(() => loadRoundRecords(db, p)).pipe(retry({ delay: 1000 }));
       view = combineLatest([plan$, round$]).pipe(
-        map(([plan, round]) => (plan ? { rows: routeRows(plan, round), due: plan.due, direction: plan.direction, rounds: plan.rounds } : null)),
+        map(([plan, round]) => (plan ? { rows: routeRows(plan, round), due: plan.due, direction: plan.direction, rounds: plan.rounds, round: p.round } : null)),
         share({ connector: () => new ReplaySubject(1), resetOnRefCountZero: () => timer(KEEP_MS), resetOnError: true }),
       );
       byKey.set(key, view);
