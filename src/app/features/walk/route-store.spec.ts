@@ -37,10 +37,11 @@ describe('The route of a walk', () => {
       ({ id: id('r', n), rev: 1, siteId: TEST_SITE, campaignId: CAMPAIGN, visitId, collarId, ...extra });
     await db.records('offsetSet').bulkPut([rec(1, id('v', 1), a), rec(2, id('v', 2), b), rec(3, id('v', 6), d)]);
     await db.records('probeReading').bulkPut([rec(4, id('v', 1), a), rec(5, id('v', 5), e, { deleted: true })]);
+    const series = { tS: [0, 10, 20], co2Ppm: [420, 425, 430] };
     await db.records('closure').bulkPut([
-      rec(6, id('v', 1), a), rec(7, id('v', 1), a),
+      rec(6, id('v', 1), a, { series }), rec(7, id('v', 1), a, { series }),
       // E: a closure and its redo count as one, so one of the two is still due.
-      rec(8, id('v', 5), e), rec(9, id('v', 5), e, { redoOfId: id('r', 8) }),
+      rec(8, id('v', 5), e, { series }), rec(9, id('v', 5), e, { series, redoOfId: id('r', 8) }),
     ]);
 
     const plan = await loadRoutePlan(db, params(2));

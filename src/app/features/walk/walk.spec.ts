@@ -20,7 +20,7 @@ describe('Walk route list', () => {
     await db.records('collar').bulkPut(ids.map((id, i) => ({ id, rev: 1, siteId: TEST_SITE, plotId: PLOT, code: `L-${String(i + 1).padStart(5, '0')}`, status: 'active' })));
     await db.records('route').put({ id: ROUTE, rev: 1, siteId: TEST_SITE, name: 'Long', collarIds: ids });
     await db.records('campaign').put({ id: CAMPAIGN, rev: 1, siteId: TEST_SITE, name: 'Dec', rounds: 1, startsOn: '2026-12-01', routes: [{ routeId: ROUTE, direction: 'forward' }] });
-    await db.records('visit').put({ id: 'vvvvvvvv-0000-4000-8000-000000000000', rev: 1, siteId: TEST_SITE, campaignId: CAMPAIGN, collarId: ids[1], round: 1, skipped: true, skipReason: 'Standing water' });
+    await db.records('visit').put({ id: 'vvvvvvvv-0000-4000-8000-000000000000', rev: 1, siteId: TEST_SITE, campaignId: CAMPAIGN, collarId: ids[1], round: 1, arrivedAt: '2026-12-03T08:00:00Z', skipped: true, skipReason: 'Standing water' });
     TestBed.inject(WalkContext).update({ campaignId: CAMPAIGN, routeId: ROUTE, round: 1 });
 
     const fixture = TestBed.createComponent(Walk);
