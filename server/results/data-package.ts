@@ -13,7 +13,7 @@ export interface Provenance {
   generatedAt: string;
   generatedBy: { id: string; name: string; email: string };
   jobId: string;
-  site: { id: string; name: string; timezone: string; tempDepthCm: number };
+  site: { id: string; name: string; timezone: string; tempDepthCm: number; tempDepthToleranceCm: number };
   license: DataLicence;
   parameters: Record<string, unknown>;
   counts: Record<string, number>;
@@ -41,7 +41,7 @@ export function dataPackage(p: Provenance, rowCounts: Record<string, number>, by
     contributors: [{ title: p.generatedBy.name, email: p.generatedBy.email, role: 'author' }],
     'fluxwalk:provenance': p,
     resources: [
-      ...tablesForSite(p.site.timezone).map((t) => ({
+      ...tablesForSite(p.site).map((t) => ({
         name: t.name,
         path: tablePath(t.name),
         profile: 'tabular-data-resource',

@@ -90,7 +90,7 @@ export function emlDocument(p: Provenance, cov: EmlCoverage | null, rowCounts: R
     + `<westBoundingCoordinate>${cov.west}</westBoundingCoordinate><eastBoundingCoordinate>${cov.east}</eastBoundingCoordinate>`
     + `<northBoundingCoordinate>${cov.north}</northBoundingCoordinate><southBoundingCoordinate>${cov.south}</southBoundingCoordinate>`
     + `</boundingCoordinates></geographicCoverage>${dateRange(cov.fromDay, cov.toDay)}</coverage>` : '';
-  const tables = tablesForSite(p.site.timezone).map((t) => `<dataTable id="${t.name}"><entityName>${esc(tablePath(t.name))}</entityName>`
+  const tables = tablesForSite(p.site).map((t) => `<dataTable id="${t.name}"><entityName>${esc(tablePath(t.name))}</entityName>`
     + `<entityDescription>${esc(t.description)}</entityDescription><physical><objectName>${esc(tablePath(t.name))}</objectName>`
     + `<size unit="byte">${bytes[t.name] ?? 0}</size><characterEncoding>UTF-8</characterEncoding><dataFormat><textFormat><numHeaderLines>1</numHeaderLines>`
     + '<recordDelimiter>\\n</recordDelimiter><attributeOrientation>column</attributeOrientation><simpleDelimited><fieldDelimiter>,</fieldDelimiter>'

@@ -66,11 +66,11 @@ export function offsetSetRows(ds: DataSource, siteId: string): Rows {
     r.id, r.visit_id, r.collar_id, iso(r.taken_at), r.mean_cm, r.sd_cm, r.readings_cm.length, r.readings_cm.join(';'), r.supersedes_id]);
 }
 
-export function probeRows(ds: DataSource, siteId: string, depthCm: number): Rows {
+export function probeRows(ds: DataSource, siteId: string, depth: { depthCm: number; toleranceCm: number }): Rows {
   return query(ds, `SELECT * FROM probe_reading WHERE site_id = $1 AND NOT deleted ORDER BY taken_at, id`, [siteId], (r) => {
     const kind = r.moisture_kind as 'vwc' | 'permittivity' | null;
-    const flags = probeFlags({ soilTemps: r.soil_temps, moistureRaw: r.moisture_raw, moistureKind: kind, vwcPct: r.vwc_pct, probeDepthCm: depthCm });
-    return [r.id, r.visit_id, r.collar_id, iso(r.taken_at), tempAtProbeDepth(r.soil_temps, depthCm), r.vwc_pct, kind,
+    const flags = probeFlags({ soilTemps: r.soil_temps, moistureRaw: r.moisture_raw, moistureKind: kind, vwcPct: r.vwc_pct, probeDepth: depth });
+    return [r.id, r.visit_id, r.collar_id, iso(r.taken_at), tempAtProbeDepth(r.soil_temps, depth.depthCm, depth.toleranceCm), r.vwc_pct, kind,
       kind === 'vwc' ? r.moisture_raw : null, kind === 'permittivity' ? r.moisture_raw : null, flags.join(';')];
   });
 }

@@ -3,7 +3,6 @@
  * The same definitions write the CSV headers, the Frictionless table schemas (datapackage.json)
  * and the EML attribute lists, so the three can never disagree.
  */
-import { PROBE_DEPTH_TOLERANCE_CM } from '../../shared/model/probe-replicates';
 import { REVIEW_STATES } from '../../shared/model/progress-state';
 
 export type FieldType = 'string' | 'number' | 'integer' | 'boolean' | 'date' | 'datetime';
@@ -26,6 +25,8 @@ const count = (name: string, description: string): FieldDef => ({ name, type: 'i
 const str = (name: string, description: string): FieldDef => ({ name, type: 'string', description });
 /** Written where the site's IANA zone goes in a description; tablesForSite puts the zone in. */
 const SITE_ZONE = '{site zone}';
+/** Written where the site's soil-temperature depth tolerance (cm) goes; tablesForSite puts the value in. */
+const SITE_TOLERANCE = '{site tolerance}';
 /** UTC datetime field followed by its site-local twin: exports keep UTC and add the wall time people noted. */
 const at = (name: string, what: string): FieldDef[] => [{ name, type: 'datetime', description: `${what}, UTC` },
   { name: `${name}_local`, type: 'datetime', localOf: name, description: `${what}, local time at the site (${SITE_ZONE}), ISO 8601 with that moment's UTC offset` }];
@@ -118,12 +119,12 @@ export const TABLES: TableDef[] = [
   { name: 'probe_readings', title: 'Probe readings', description: 'Every probe insertion (replicate) of a visit: soil moisture and the soil temperature at the site\'s response depth. A visit\'s value is the mean of its replicates (visit_means).', primaryKey: ['probe_reading_id'],
     foreignKeys: [fk('visit_id', 'visits')], fields: [
       id('probe_reading_id', 'Probe reading'), ref('visit_id', 'Visit'), ref('collar_id', 'Collar'), ...at('taken_at', 'Time'),
-      num('soil_temp_c', UNITS.degC, `Soil temperature at the site's response depth (within ±${PROBE_DEPTH_TOLERANCE_CM} cm, the nearest)`, { decimals: 2 }),
+      num('soil_temp_c', UNITS.degC, `Soil temperature at the site's response depth (within ±${SITE_TOLERANCE} cm, the site's depth tolerance; the nearest)`, { decimals: 2 }),
       num('vwc_pct', UNITS.percent, 'Volumetric water content: the VWC reading, or the permittivity through the site\'s calibration (Topp et al. 1980 unless set)', { decimals: 2 }),
       oneOf('moisture_kind', ['vwc', 'permittivity'], 'What the probe gave: vwc (a VWC in %) or permittivity (apparent permittivity Ka)'),
       num('moisture_vwc_reading_pct', UNITS.percent, 'The probe\'s own VWC reading (moisture_kind vwc)', { minimum: 0, maximum: 100 }),
       num('moisture_permittivity', UNITS.none, 'Apparent permittivity Ka as read (moisture_kind permittivity)', { minimum: 1, maximum: 90 }),
-      str('flags', 'Plausible-range flags (soil-temp-implausible, vwc-implausible, permittivity-implausible) and soil-temp-off-depth (a temperature more than the tolerance from the response depth, left out of the visit mean) separated by semicolons; see the EML methods'),
+      str('flags', `Plausible-range flags (soil-temp-implausible, vwc-implausible, permittivity-implausible) and soil-temp-off-depth (a temperature more than ±${SITE_TOLERANCE} cm, the site's depth tolerance, from the response depth, left out of the visit mean) separated by semicolons; see the EML methods`),
     ] },
   { name: 'probe_soil_temperatures', title: 'Probe soil temperatures', description: 'Every soil temperature of a probe reading with its depth.',
     foreignKeys: [fk('probe_reading_id', 'probe_readings')], fields: [
@@ -169,10 +170,10 @@ export const TABLES: TableDef[] = [
     foreignKeys: [fk('visit_id', 'visits')], fields: [
       ref('visit_id', 'Visit'), ref('collar_id', 'Collar'), ref('plot_id', 'Plot'), str('cell', 'Treatment cell: plot treatment|collar treatment'),
       ref('campaign_id', 'Campaign'), count('n_closures', 'Closures averaged'), num('flux_umol_m2_s', UNITS.flux, FLUX_NOTE),
-      num('soil_temp_c', UNITS.degC, `Mean soil temperature of the visit's probe replicates at the response depth (±${PROBE_DEPTH_TOLERANCE_CM} cm)`),
+      num('soil_temp_c', UNITS.degC, `Mean soil temperature of the visit's probe replicates at the response depth (±${SITE_TOLERANCE} cm, the site's depth tolerance)`),
       num('soil_temp_sd_c', UNITS.degC, 'Sample standard deviation (n − 1) of those temperatures; empty below two'),
       count('soil_temp_n', 'Replicates behind soil_temp_c'),
-      count('soil_temp_off_depth_n', `Temperatures more than ±${PROBE_DEPTH_TOLERANCE_CM} cm from the response depth, left out of soil_temp_c (flagged in probe_readings)`),
+      count('soil_temp_off_depth_n', `Temperatures more than ±${SITE_TOLERANCE} cm from the response depth, left out of soil_temp_c (flagged in probe_readings)`),
       num('vwc_pct', UNITS.percent, 'Mean volumetric water content of the visit\'s probe replicates', { minimum: 0, maximum: 100 }),
       num('vwc_sd_pct', UNITS.percent, 'Sample standard deviation (n − 1) of the replicates\' VWC; empty below two'),
       count('vwc_n', 'Replicates behind vwc_pct'),
@@ -228,9 +229,13 @@ export const TABLES: TableDef[] = [
 
 export const tablePath = (name: string) => `data/${name}.csv`;
 
-/** The tables with the site's zone named in every local-time field's description (CSV headers, datapackage.json, EML). */
-export function tablesForSite(timeZone: string): TableDef[] {
-  return TABLES.map((t) => ({ ...t, fields: t.fields.map((f) => (f.localOf ? { ...f, description: f.description.replace(SITE_ZONE, timeZone) } : f)) }));
+/**
+ * The tables with the site's zone named in every local-time field's description and its depth
+ * tolerance in every probe-temperature one (CSV headers, datapackage.json, EML).
+ */
+export function tablesForSite(site: { timezone: string; tempDepthToleranceCm: number }): TableDef[] {
+  const fill = (d: string) => d.replace(SITE_ZONE, site.timezone).replaceAll(SITE_TOLERANCE, String(site.tempDepthToleranceCm));
+  return TABLES.map((t) => ({ ...t, fields: t.fields.map((f) => ({ ...f, description: fill(f.description) })) }));
 }
 
 /** The fields a row source writes: every field but the local-time twins. */

@@ -20,24 +20,26 @@ export type ClosureSelection = 'accepted' | 'not-rejected';
 
 export interface SiteInfo {
   id: string; name: string; timezone: string; tempDepthCm: number;
+  /** ± cm around tempDepthCm within which a probe temperature counts (read when results are built). */
+  tempDepthToleranceCm: number;
   latitude: number | null; longitude: number | null; elevationM: number | null;
 }
 
 export interface SiteDesign extends DesignInput { site: SiteInfo; selection: ClosureSelection }
 
 export async function loadSite(db: Db, siteId: string): Promise<SiteInfo> {
-  const [s] = await db.query(`SELECT id, name, timezone, temp_depth_cm, latitude, longitude, elevation_m FROM site WHERE id = $1 AND NOT deleted`, [siteId]);
+  const [s] = await db.query(`SELECT id, name, timezone, temp_depth_cm, temp_depth_tolerance_cm, latitude, longitude, elevation_m FROM site WHERE id = $1 AND NOT deleted`, [siteId]);
   if (!s) throw notFound(`No site ${siteId}`);
-  return { id: s.id, name: s.name, timezone: s.timezone, tempDepthCm: s.temp_depth_cm, latitude: s.latitude, longitude: s.longitude, elevationM: s.elevation_m };
+  return { id: s.id, name: s.name, timezone: s.timezone, tempDepthCm: s.temp_depth_cm, tempDepthToleranceCm: s.temp_depth_tolerance_cm, latitude: s.latitude, longitude: s.longitude, elevationM: s.elevation_m };
 }
 
 const ref = (id: string | null, code: string | null, name: string | null) => (id ? { id, code: code ?? '', name: name ?? '' } : null);
 
 /**
  * Each visit's probe value: the mean of its replicates (moisture as converted VWC; soil temperature
- * at the site's probe depth ± the shared tolerance, temperatures further off left out and counted).
+ * at the site's probe depth ± the site's tolerance, temperatures further off left out and counted).
  */
-async function visitProbes(db: Db, siteId: string, depthCm: number): Promise<Map<string, ProbeSummary>> {
+async function visitProbes(db: Db, siteId: string, depthCm: number, toleranceCm: number): Promise<Map<string, ProbeSummary>> {
   const rows: ProbeRow[] = await db.query(
     `SELECT id, visit_id, soil_temps, vwc_pct FROM probe_reading WHERE site_id = $1 AND NOT deleted ORDER BY taken_at, id`, [siteId]);
   const byVisit = new Map<string, ReplicateValues[]>();
@@ -46,7 +48,7 @@ async function visitProbes(db: Db, siteId: string, depthCm: number): Promise<Map
     list.push({ id: r.id, soilTemps: r.soil_temps, vwcPct: r.vwc_pct });
     byVisit.set(r.visit_id, list);
   }
-  return new Map([...byVisit].map(([visitId, reps]) => [visitId, probeSummary(reps, depthCm)]));
+  return new Map([...byVisit].map(([visitId, reps]) => [visitId, probeSummary(reps, depthCm, toleranceCm)]));
 }
 
 /**
@@ -70,7 +72,7 @@ export async function loadSiteDesign(db: Db, siteId: string, selection: ClosureS
     `SELECT id, name, starts_on::text AS starts_on, ends_on::text AS ends_on FROM campaign
       WHERE site_id = $1 AND NOT deleted ORDER BY starts_on, name`, [siteId]))
     .map((r: CampaignRow) => ({ campaignId: r.id, name: r.name, startsOn: r.starts_on, endsOn: r.ends_on }));
-  const probes = await visitProbes(db, siteId, site.tempDepthCm);
+  const probes = await visitProbes(db, siteId, site.tempDepthCm, site.tempDepthToleranceCm);
   const visits: VisitIn[] = (await db.query(
     `SELECT v.id, v.collar_id, v.campaign_id, v.round, v.arrived_at
        FROM visit v WHERE v.site_id = $1 AND NOT v.deleted AND NOT v.skipped ORDER BY v.arrived_at, v.id`, [siteId]))

@@ -3,7 +3,6 @@ import type { DataSource } from 'typeorm';
 import { engineVersion, QC_FLAGS, QC_THRESHOLDS, RESPONSE_LIMITS, SELECTION_MARGIN } from '../../shared/flux';
 import { dataLicence } from '../../shared/results/data-licences';
 import { PROBE_FLAGS, PROBE_RANGES } from '../../shared/model/probe-plausibility';
-import { PROBE_DEPTH_TOLERANCE_CM } from '../../shared/model/probe-replicates';
 import { defineJob } from '../jobs/job-registry';
 import { csvLine, type CsvValue } from '../../shared/csv/csv-cell';
 import { CALIBRATION_METHOD, calibrationRows } from './calibration-rows';
@@ -56,7 +55,7 @@ export async function runResultsExport(ds: DataSource, req: ExportRequest, hooks
     calibrations: () => calibrationRows(ds, site.id),
     visits: () => rows.visitRows(ds, site.id),
     offset_sets: () => rows.offsetSetRows(ds, site.id),
-    probe_readings: () => rows.probeRows(ds, site.id, site.tempDepthCm),
+    probe_readings: () => rows.probeRows(ds, site.id, { depthCm: site.tempDepthCm, toleranceCm: site.tempDepthToleranceCm }),
     probe_soil_temperatures: () => rows.probeTempRows(ds, site.id),
     closures: () => rows.closureRows(ds, site.id, step),
     closure_series: () => rows.seriesRows(ds, site.id, step),
@@ -71,7 +70,7 @@ export async function runResultsExport(ds: DataSource, req: ExportRequest, hooks
   const zip = new ZipWriter(now);
   const rowCounts: Record<string, number> = {};
   const bytes: Record<string, number> = {};
-  for (const t of tablesForSite(site.timezone)) {
+  for (const t of tablesForSite(site)) {
     const raw = sourceFields(t);
     const local = localTimes(t.fields, raw, site.timezone);
     let count = 0;
@@ -98,7 +97,7 @@ export async function runResultsExport(ds: DataSource, req: ExportRequest, hooks
   const provenance: Provenance = {
     engineVersion, generatedAt: now.toISOString(), jobId: hooks.jobId,
     generatedBy: { id: user?.id ?? req.userId, name: user?.display_name ?? 'unknown', email: user?.email ?? '' },
-    site: { id: site.id, name: site.name, timezone: site.timezone, tempDepthCm: site.tempDepthCm },
+    site: { id: site.id, name: site.name, timezone: site.timezone, tempDepthCm: site.tempDepthCm, tempDepthToleranceCm: site.tempDepthToleranceCm },
     license: licence,
     parameters: {
       closureSelection: req.selection, responseModelForTotals: req.model, totalInterval: TOTAL_INTERVAL_METHOD,
@@ -107,7 +106,7 @@ export async function runResultsExport(ds: DataSource, req: ExportRequest, hooks
     },
     counts: rowCounts,
   };
-  const methods = exportMethods(slopeBasis, req, seasonal.fromDay, seasonal.toDay, String(provenance.parameters['aggregation']));
+  const methods = exportMethods(slopeBasis, site.tempDepthToleranceCm, req, seasonal.fromDay, seasonal.toDay, String(provenance.parameters['aggregation']));
   // The data's span in site days (the days the crews were out), as every other day of the package.
   const span = (await ds.query(`SELECT to_char(min(d) AT TIME ZONE $2, 'YYYY-MM-DD') AS from_day, to_char(max(d) AT TIME ZONE $2, 'YYYY-MM-DD') AS to_day
       FROM (SELECT started_at AS d FROM closure WHERE site_id = $1 AND NOT deleted
@@ -135,7 +134,7 @@ function tidy(v: CsvValue, f: FieldDef): CsvValue {
 }
 
 /** The EML methods: enough for a reader to recompute every flux and total from the package alone. */
-function exportMethods(slopeBasis: string, req: ExportRequest, fromDay: string, toDay: string, aggregation: string): string[] {
+function exportMethods(slopeBasis: string, toleranceCm: number, req: ExportRequest, fromDay: string, toDay: string, aggregation: string): string[] {
   const flags = Object.entries(QC_FLAGS).map(([k, v]) => `${k}: ${v}`).join(' ');
   const probe = Object.entries(PROBE_FLAGS).map(([k, v]) => `${k}: ${v}`).join(' ');
   return [
@@ -163,7 +162,7 @@ function exportMethods(slopeBasis: string, req: ExportRequest, fromDay: string, 
       + `Plausible-range flags (probe_readings.flags; common-practice range tests, readings kept): ${probe} Ranges: soil temperature ${PROBE_RANGES.soilTempC.min} … ${PROBE_RANGES.soilTempC.max} °C `
       + `from ${PROBE_RANGES.soilTempC.fromDepthCm} cm down, VWC ${PROBE_RANGES.vwcPct.min} … ${PROBE_RANGES.vwcPct.max} %, permittivity ${PROBE_RANGES.permittivity.min} … ${PROBE_RANGES.permittivity.max}. `
       + `Each probe reading is one insertion (replicate); a visit's soil temperature and moisture (visit_means, and every mean built on it) are the means of its replicates, `
-      + `with sample SD (n − 1) and n in visit_means; temperatures more than ±${PROBE_DEPTH_TOLERANCE_CM} cm from the response depth are flagged soil-temp-off-depth and left out of the mean.`,
+      + `with sample SD (n − 1) and n in visit_means; temperatures more than ±${toleranceCm} cm (the site's depth tolerance) from the response depth are flagged soil-temp-off-depth and left out of the mean.`,
     `Aggregation: ${aggregation}; closures: ${req.selection}. Least-squares additive models per stratum: plot-level treatments with block as a factor; collar-level treatments (split plot) paired by plot.`,
     'Temperature response per treatment cell on plot × campaign × round means (the experimental unit): Q10 and Lloyd & Taylor (1994, Funct. Ecol. 8:315–323) with T0 = 227.13 K fixed, on the flux scale and on the log scale; 95 % CIs from t(n − 2) with n = units.',
     `Seasonal totals (seasonal_totals.csv, ${fromDay} to ${toDay}, response model ${req.model}): ${SEASONAL_METHOD}`,

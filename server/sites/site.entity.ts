@@ -20,6 +20,8 @@ export class SiteEntity extends SyncedColumns {
   @Column({ type: 'text', name: 'safety_note', default: '' }) safetyNote!: string;
   @Column({ type: 'jsonb', name: 'moisture_calibration' }) moistureCalibration!: Record<string, unknown>;
   @Column({ type: 'double precision', name: 'temp_depth_cm' }) tempDepthCm!: number;
+  /** ± cm around tempDepthCm within which a soil temperature counts in a visit's mean (shared/model/probe-replicates.ts). */
+  @Column({ type: 'double precision', name: 'temp_depth_tolerance_cm' }) tempDepthToleranceCm!: number;
   @Column({ type: 'double precision', name: 'settling_days_hard' }) settlingDaysHard!: number;
   @Column({ type: 'double precision', name: 'settling_days_warn' }) settlingDaysWarn!: number;
   @Column({ type: 'double precision', name: 'offset_spread_pct' }) offsetSpreadPct!: number;

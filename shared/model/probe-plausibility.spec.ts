@@ -11,9 +11,13 @@ describe('probe plausibility flags', () => {
     expect(probeFlags({ soilTemps: [], moistureRaw: 85, moistureKind: 'permittivity', vwcPct: 70 })).toEqual(['vwc-implausible', 'permittivity-implausible']);
     expect(probeFlags({ soilTemps: [{ depthCm: 10, tempC: -31 }], moistureRaw: 20, moistureKind: 'permittivity', vwcPct: 34 })).toEqual(['soil-temp-implausible']);
   });
-  it('flags a temperature more than ±1 cm from the site probe depth, and none within it', () => {
-    expect(probeFlags({ soilTemps: [{ depthCm: 10, tempC: 9 }], moistureRaw: null, moistureKind: null, probeDepthCm: 5 })).toEqual(['soil-temp-off-depth']);
-    expect(probeFlags({ soilTemps: [{ depthCm: 6, tempC: 9 }], moistureRaw: null, moistureKind: null, probeDepthCm: 5 })).toEqual([]);
+  it('flags a temperature further than the site tolerance from the site probe depth, and none within it', () => {
+    const at = (depthCm: number, toleranceCm: number) => probeFlags({ soilTemps: [{ depthCm, tempC: 9 }], moistureRaw: null, moistureKind: null, probeDepth: { depthCm: 5, toleranceCm } });
+    expect(at(10, 1)).toEqual(['soil-temp-off-depth']);
+    expect(at(6, 1)).toEqual([]);
+    expect(at(6.5, 1)).toEqual(['soil-temp-off-depth']);
+    expect(at(6.5, 2)).toEqual([]);
+    expect(at(7.5, 2)).toEqual(['soil-temp-off-depth']);
     expect(probeFlags({ soilTemps: [{ depthCm: 10, tempC: 9 }], moistureRaw: null, moistureKind: null })).toEqual([]);
   });
 });

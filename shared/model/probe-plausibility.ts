@@ -1,4 +1,4 @@
-import { PROBE_DEPTH_TOLERANCE_CM, atProbeDepth } from './probe-replicates';
+import { atProbeDepth } from './probe-replicates';
 
 /**
  * Plausible-range checks of probe readings (soil temperature, soil moisture). A reading outside
@@ -14,7 +14,7 @@ export const PROBE_FLAGS = {
   'soil-temp-implausible': 'A soil temperature at 2 cm or deeper is outside −30 … 50 °C (common-practice range test).',
   'vwc-implausible': 'Volumetric water content outside 0 … 60 % (common-practice range test; peat soils may exceed it).',
   'permittivity-implausible': 'Apparent permittivity outside 1 (air) … 81 (free water).',
-  'soil-temp-off-depth': `A soil temperature taken more than ±${PROBE_DEPTH_TOLERANCE_CM} cm from the site's probe depth: kept, but not in the visit's mean temperature.`,
+  'soil-temp-off-depth': "A soil temperature taken further from the site's probe depth than the site's depth tolerance: kept, but not in the visit's mean temperature.",
 } as const;
 export type ProbeFlag = keyof typeof PROBE_FLAGS;
 
@@ -30,8 +30,8 @@ export interface ProbeValues {
   moistureKind: 'vwc' | 'permittivity' | null;
   /** VWC after the site's calibration, when known. */
   vwcPct?: number | null;
-  /** The site's probe depth, cm: temperatures further off than the tolerance are flagged. */
-  probeDepthCm?: number;
+  /** The site's probe depth and depth tolerance, cm: temperatures further off than the tolerance are flagged. */
+  probeDepth?: { depthCm: number; toleranceCm: number };
 }
 
 const outside = (v: number, r: { min: number; max: number }) => v < r.min || v > r.max;
@@ -44,6 +44,7 @@ export function probeFlags(p: ProbeValues): ProbeFlag[] {
   const vwc = p.moistureKind === 'vwc' ? p.moistureRaw : p.vwcPct ?? null;
   if (vwc !== null && outside(vwc, PROBE_RANGES.vwcPct)) out.push('vwc-implausible');
   if (p.moistureKind === 'permittivity' && p.moistureRaw !== null && outside(p.moistureRaw, PROBE_RANGES.permittivity)) out.push('permittivity-implausible');
-  if (p.probeDepthCm !== undefined && p.soilTemps.some((s) => !atProbeDepth(s.depthCm, p.probeDepthCm!))) out.push('soil-temp-off-depth');
+  const d = p.probeDepth;
+  if (d && p.soilTemps.some((s) => !atProbeDepth(s.depthCm, d.depthCm, d.toleranceCm))) out.push('soil-temp-off-depth');
   return out;
 }

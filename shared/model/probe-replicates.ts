@@ -4,12 +4,12 @@
  * beside it (device, server aggregation and exports all use these functions).
  */
 
-/**
+/*
  * How far (cm) a soil temperature's depth may sit from the site's probe depth and still be averaged
- * with the others: ±1 cm, about the placement accuracy of a hand-pushed thermometer (common
- * practice). A temperature further off is flagged and kept apart, never averaged silently.
+ * with the others is the site's `tempDepthToleranceCm` (default in shared/model/site-layout.ts):
+ * every function below takes it as an argument, so no caller can fall back to a fixed value.
+ * A temperature further off is flagged and kept apart, never averaged silently.
  */
-export const PROBE_DEPTH_TOLERANCE_CM = 1;
 
 export interface SampleStats {
   n: number;
@@ -33,7 +33,7 @@ export function sampleStats(values: readonly number[]): SampleStats {
 }
 
 /** Whether a depth counts as the probe depth (the boundary is inclusive; 1e-9 absorbs decimal input). */
-export function atProbeDepth(depthCm: number, probeDepthCm: number, toleranceCm = PROBE_DEPTH_TOLERANCE_CM): boolean {
+export function atProbeDepth(depthCm: number, probeDepthCm: number, toleranceCm: number): boolean {
   return Math.abs(depthCm - probeDepthCm) <= toleranceCm + 1e-9;
 }
 
@@ -53,7 +53,7 @@ export interface ProbeSummary {
 }
 
 /** A replicate's soil temperature at the probe depth: the one nearest it within the tolerance, or null. */
-export function tempAtProbeDepth(soilTemps: readonly { depthCm: number; tempC: number }[], probeDepthCm: number, toleranceCm = PROBE_DEPTH_TOLERANCE_CM): number | null {
+export function tempAtProbeDepth(soilTemps: readonly { depthCm: number; tempC: number }[], probeDepthCm: number, toleranceCm: number): number | null {
   let nearest: { depthCm: number; tempC: number } | null = null;
   for (const t of soilTemps) {
     if (!atProbeDepth(t.depthCm, probeDepthCm, toleranceCm)) continue;
@@ -63,7 +63,7 @@ export function tempAtProbeDepth(soilTemps: readonly { depthCm: number; tempC: n
 }
 
 /** A visit's probe value: mean, SD and n of its replicates' moisture and of their temperatures at the probe depth. */
-export function probeSummary(replicates: readonly ReplicateValues[], probeDepthCm: number, toleranceCm = PROBE_DEPTH_TOLERANCE_CM): ProbeSummary {
+export function probeSummary(replicates: readonly ReplicateValues[], probeDepthCm: number, toleranceCm: number): ProbeSummary {
   const temps: number[] = [];
   const offDepth: ProbeSummary['offDepth'] = [];
   for (const r of replicates) {

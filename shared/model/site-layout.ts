@@ -23,6 +23,13 @@ export const siteFields = z.object({
   safetyNote: text(20000).default(''),
   moistureCalibration: moistureCalibrationSchema.default({ kind: 'topp' }),
   tempDepthCm: ranged(0, 200, 'cm', 'Temperature depth').default(5),
+  /**
+   * How far (cm) a soil temperature's depth may sit from tempDepthCm and still count in a visit's
+   * mean; one further off is flagged soil-temp-off-depth and kept apart. Default ±1 cm, about the
+   * placement accuracy of a hand-pushed thermometer (common practice). Results read it when built:
+   * fluxes do not depend on it, so a change needs no recompute.
+   */
+  tempDepthToleranceCm: ranged(0, 10, 'cm', 'Temperature depth tolerance').default(1),
   // Collars disturb the soil: common practice is to wait ≥ 1 day after install, better a week.
   settlingDaysHard: ranged(0, 365, 'days', 'Settling days').default(1),
   settlingDaysWarn: ranged(0, 365, 'days', 'Settling warning days').default(7),
@@ -45,6 +52,9 @@ export const siteFields = z.object({
   tileUrl: z.string().max(500).regex(/^https:\/\/.*\{z\}.*\{x\}.*\{y\}/, 'Tile URL must be https with {z}, {x} and {y}').nullable().default(null),
   tileAttribution: text(500).nullable().default(null),
 });
+
+/** A site's probe depth and depth tolerance, the schema defaults filling what a record lacks (e.g. a copy stored before the field). */
+export const siteProbeDepth = siteFields.pick({ tempDepthCm: true, tempDepthToleranceCm: true });
 
 export const blockFields = z.object({
   siteId: uuid('siteId'),

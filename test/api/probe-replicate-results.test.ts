@@ -59,7 +59,7 @@ describe('results use the mean of a visit\'s probe replicates', () => {
     // Source rows hold UTC times only; the writer adds the *_local twins.
     const names = TABLES.find((x) => x.name === 'probe_readings')!.fields.filter((f) => !f.localOf).map((f) => f.name);
     const rows: Record<string, unknown>[] = [];
-    for await (const row of probeRows(t.ds, w.site.id, 5)) rows.push(Object.fromEntries(names.map((n, i) => [n, row[i]])));
+    for await (const row of probeRows(t.ds, w.site.id, { depthCm: 5, toleranceCm: 1 })) rows.push(Object.fromEntries(names.map((n, i) => [n, row[i]])));
     const mine = rows.filter((r) => r['visit_id'] === w.visit.id);
     // 5.5 cm is within ±1 cm of 5 cm, so its temperature is the row's soil_temp_c; 10 cm is not.
     expect(mine.map((r) => [r['vwc_pct'], r['soil_temp_c'], r['flags']])).toEqual([[20, 10, ''], [22, 12, ''], [24, null, 'soil-temp-off-depth']]);

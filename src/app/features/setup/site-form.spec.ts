@@ -41,3 +41,34 @@ describe('SiteForm: slope basis', () => {
     expect(await select.getValueText()).toBe('End of the settle time');
   });
 });
+
+describe('SiteForm: soil temperature depth tolerance', () => {
+  const field = (el: HTMLElement) => [...el.querySelectorAll('mat-form-field')].find((f) => f.textContent?.includes('Soil temperature depth tolerance'))!;
+
+  it('when a site has none stored, then ±1 cm is shown beside the depth with its hint; typing 2 sends tempDepthToleranceCm 2', async () => {
+    const { fixture, backend } = await formOf(SITE);
+    const el = fixture.nativeElement as HTMLElement;
+    const input = field(el).querySelector('input')!;
+    expect(input.value).toBe('1');
+    expect(field(el).textContent).toContain('left out of the visit mean (0–10 cm)');
+    input.value = '2';
+    input.dispatchEvent(new Event('input'));
+    el.querySelector('form')!.dispatchEvent(new Event('submit'));
+    const req = backend.expectOne((r) => r.url === `/api/sites/${SITE.id}`);
+    expect(req.request.body).toMatchObject({ rev: 3, tempDepthToleranceCm: 2 });
+  });
+
+  it('when 12 cm is typed, then the range message shows and nothing is sent', async () => {
+    const { fixture, backend } = await formOf({ ...SITE, tempDepthToleranceCm: 1.5 });
+    const el = fixture.nativeElement as HTMLElement;
+    const input = field(el).querySelector('input')!;
+    expect(input.value).toBe('1.5');
+    input.value = '12';
+    input.dispatchEvent(new Event('input'));
+    el.querySelector('form')!.dispatchEvent(new Event('submit'));
+    fixture.detectChanges();
+    await fixture.whenStable();
+    expect(field(el).textContent).toContain('Temperature depth tolerance must be at most 10 cm');
+    backend.expectNone((r) => r.url === `/api/sites/${SITE.id}`);
+  });
+});

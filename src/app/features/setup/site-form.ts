@@ -6,19 +6,19 @@ import { MatSelectModule } from '@angular/material/select';
 import { DEFAULT_SITE_AIR_TEMP_C } from '../../../../shared/flux/chamber-air-temperature';
 import { pressureFromElevationKpa } from '../../../../shared/flux/standard-atmosphere';
 import { DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT } from '../../../../shared/model/calibration';
-import { siteFields } from '../../../../shared/model/site-layout';
+import { siteFields, siteProbeDepth } from '../../../../shared/model/site-layout';
 import { fieldProblems, serverMessage } from '../../core/api/api-error';
 import { issuesByField } from './record-fields';
 import { SetupApi, type Rec } from './setup-api';
 
 type Draft = Partial<Record<string, string>>;
 
-const NUMBER_FIELDS = ['elevationM', 'latitude', 'longitude', 'tempDepthCm', 'settlingDaysHard', 'settlingDaysWarn', 'offsetSpreadPct',
+const NUMBER_FIELDS = ['elevationM', 'latitude', 'longitude', 'tempDepthCm', 'tempDepthToleranceCm', 'settlingDaysHard', 'settlingDaysWarn', 'offsetSpreadPct',
   'offsetMoveCm', 'leakSlopeUmolMolS', 'ambientMarginPpm', 'calibrationDriftLimitPct', 'defaultAirTempC'] as const;
 const NULLABLE = new Set(['elevationM', 'latitude', 'longitude', 'tileUrl', 'tileAttribution']);
 
-/** Thresholds of the site, with the unit each is entered in. */
-export const THRESHOLDS = [
+/** Thresholds of the site, with the unit each is entered in and, where it helps, what it does. */
+export const THRESHOLDS: readonly { key: (typeof NUMBER_FIELDS)[number]; label: string; unit: string; hint?: string }[] = [
   { key: 'settlingDaysHard', label: 'Settling days (refuse before)', unit: 'days' },
   { key: 'settlingDaysWarn', label: 'Settling days (warn before)', unit: 'days' },
   { key: 'offsetSpreadPct', label: 'Offset spread', unit: '%' },
@@ -28,7 +28,9 @@ export const THRESHOLDS = [
   { key: 'calibrationDriftLimitPct', label: 'Calibration drift limit (of the span gas)', unit: '%' },
   { key: 'defaultAirTempC', label: 'Default air temperature (no chamber or visit reading)', unit: '°C' },
   { key: 'tempDepthCm', label: 'Soil temperature depth for responses', unit: 'cm' },
-] as const;
+  { key: 'tempDepthToleranceCm', label: 'Soil temperature depth tolerance (±)', unit: 'cm',
+    hint: 'A temperature further from the depth above is flagged off-depth, kept and left out of the visit mean (0–10 cm).' },
+];
 
 /** Creates or edits a site; checked with the shared site schema before it is sent. */
 @Component({
@@ -95,7 +97,8 @@ function toDraft(site: Rec | null): Draft {
     name: str(s['name']), timezone: str(s['timezone'], Intl.DateTimeFormat().resolvedOptions().timeZone),
     elevationM: str(s['elevationM']), latitude: str(s['latitude']), longitude: str(s['longitude']), safetyNote: str(s['safetyNote']),
     calibration: cal.kind, coefficients: (cal.coefficients ?? []).join(', '), validMin: str(cal.validMin), validMax: str(cal.validMax),
-    tempDepthCm: str(s['tempDepthCm'], '5'), settlingDaysHard: str(s['settlingDaysHard'], '1'), settlingDaysWarn: str(s['settlingDaysWarn'], '7'),
+    tempDepthCm: str(s['tempDepthCm'], '5'),
+    tempDepthToleranceCm: str(s['tempDepthToleranceCm'], String(siteProbeDepth.parse({}).tempDepthToleranceCm)), settlingDaysHard: str(s['settlingDaysHard'], '1'), settlingDaysWarn: str(s['settlingDaysWarn'], '7'),
     offsetSpreadPct: str(s['offsetSpreadPct'], '3'), offsetMoveCm: str(s['offsetMoveCm'], '1'), leakSlopeUmolMolS: str(s['leakSlopeUmolMolS'], '0.05'),
     ambientMarginPpm: str(s['ambientMarginPpm'], '100'), slopeBasis: str(s['slopeBasis'], 'closure'),
     calibrationDriftLimitPct: str(s['calibrationDriftLimitPct'], String(DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT)), digestLocalTime: str(s['digestLocalTime'], '18:00'),

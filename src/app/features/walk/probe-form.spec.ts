@@ -12,13 +12,14 @@ import { ProbeForm, type ProbeRecord, type ProbeSave } from './probe-form';
 const pause = (ms: number) => new Promise((r) => setTimeout(r, ms));
 const ME = 'a0000000-0000-4000-8000-000000000001';
 
-async function render(calibration: MoistureCalibration, savedRecord: ProbeRecord | null = null, replicates: ProbeRecord[] = savedRecord ? [savedRecord] : []) {
+async function render(calibration: MoistureCalibration, savedRecord: ProbeRecord | null = null, replicates: ProbeRecord[] = savedRecord ? [savedRecord] : [], tolerance = 1) {
   TestBed.configureTestingModule({ imports: [ProbeForm], providers: [{ provide: AuthStore, useValue: { user: signal({ id: ME }) } }] });
   const fixture = TestBed.createComponent(ProbeForm);
   fixture.componentRef.setInput('calibration', calibration);
   fixture.componentRef.setInput('saved', savedRecord);
   fixture.componentRef.setInput('replicates', replicates);
   fixture.componentRef.setInput('zone', 'Europe/Zurich');
+  fixture.componentRef.setInput('depthToleranceCm', tolerance);
   fixture.componentRef.setInput('kit', { probeId: 'TDR-2', rodLengthCm: 12, moistureKind: 'vwc' });
   const loader = TestbedHarnessEnvironment.loader(fixture);
   const saved: ProbeSave[] = [];
@@ -147,6 +148,15 @@ describe('ProbeForm replicates', () => {
     expect(testid('probe-stats')).toContain('soil 7.5 °C at 5 cm (n = 1)');
     expect(testid('probe-off-depth')).toContain('1 temperature was taken more than ±1 cm from the site\'s 5 cm probe depth');
     expect(testid('replicate-2')).toContain('4 °C at 10 cm (off depth)');
+  });
+
+  it('when the site allows ±2 cm, then a temperature 1.5 cm off counts in the mean and the warning names ±2 cm', async () => {
+    const reps = [first, { ...first, id: 'p2', soilTemps: [{ depthCm: 6.5, tempC: 9.5 }] }, { ...first, id: 'p3', soilTemps: [{ depthCm: 8, tempC: 4 }] }];
+    const { testid } = await render({ kind: 'topp' }, reps[2], reps, 2);
+    expect(testid('probe-stats')).toContain('soil 8.5 °C at 5 cm, SD 1.4 (n = 2)');
+    expect(testid('probe-off-depth')).toContain('1 temperature was taken more than ±2 cm from the site\'s 5 cm probe depth');
+    expect(testid('replicate-2')).not.toContain('off depth');
+    expect(testid('replicate-3')).toContain('4 °C at 8 cm (off depth)');
   });
 });
 

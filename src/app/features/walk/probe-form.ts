@@ -58,6 +58,8 @@ const complete = (r: Pick<ProbeRecord, 'soilTemps' | 'moistureRaw'> | null) => !
 export class ProbeForm {
   readonly calibration = input.required<MoistureCalibration>();
   readonly defaultDepthCm = input(5);
+  /** The site's depth tolerance, cm: temperatures further from defaultDepthCm are flagged and left out of the mean. */
+  readonly depthToleranceCm = input.required<number>();
   readonly kit = input<ProbeKit>({ probeId: '', rodLengthCm: null, moistureKind: 'vwc' });
   /** The visit's newest replicate: what the boxes show when the visit is opened again. */
   readonly saved = input<ProbeRecord | Record<string, unknown> | null>(null);

@@ -1,6 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, input, output, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
-import { PROBE_DEPTH_TOLERANCE_CM, atProbeDepth, probeSummary, type SampleStats } from '../../../../shared/model/probe-replicates';
+import { atProbeDepth, probeSummary, type SampleStats } from '../../../../shared/model/probe-replicates';
 import { SiteTimePipe } from '../../core/time/site-time-pipe';
 
 const one = (v: number) => (Math.round(v * 10) / 10).toFixed(1);
@@ -19,7 +19,7 @@ export interface ReplicateRow {
 /**
  * A visit's probe replicates: each with its time (site zone), values and who took it; mean, sample
  * SD and n of moisture and of the temperatures at the site's probe depth; temperatures further
- * than the tolerance from that depth are named and kept out of the mean. A replicate is deleted
+ * than the site's tolerance from that depth are named and kept out of the mean. A replicate is deleted
  * after a second tap on "Delete" (a tombstone once synced).
  */
 @Component({
@@ -41,12 +41,13 @@ export interface ReplicateRow {
 export class ProbeReplicateList {
   readonly rows = input.required<readonly ReplicateRow[]>();
   readonly probeDepthCm = input.required<number>();
+  /** The site's depth tolerance, cm (site setting tempDepthToleranceCm). */
+  readonly depthToleranceCm = input.required<number>();
   readonly zone = input('UTC');
   readonly removeReplicate = output<string>();
 
-  protected readonly tolerance = PROBE_DEPTH_TOLERANCE_CM;
   protected readonly confirming = signal<string | null>(null);
-  protected readonly summary = computed(() => probeSummary(this.rows(), this.probeDepthCm()));
+  protected readonly summary = computed(() => probeSummary(this.rows(), this.probeDepthCm(), this.depthToleranceCm()));
   /** "3 replicates · VWC mean 24.2 %, SD 0.9 (n = 3) · soil 11.6 °C at 5 cm, SD 0.1 (n = 2)". */
   protected readonly statsText = computed(() => {
     const s = this.summary();
@@ -57,7 +58,7 @@ export class ProbeReplicateList {
   });
 
   protected offDepth(depthCm: number): boolean {
-    return !atProbeDepth(depthCm, this.probeDepthCm());
+    return !atProbeDepth(depthCm, this.probeDepthCm(), this.depthToleranceCm());
   }
 
   protected askDelete(id: string): void {

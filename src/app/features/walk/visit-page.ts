@@ -11,6 +11,7 @@ import { MatInputModule } from '@angular/material/input';
 import { RouterLink } from '@angular/router';
 import { profileForClosure } from '../../../../shared/flux/chamber-system';
 import { collarAreaCm2, offsetStats } from '../../../../shared/model/derived';
+import { siteProbeDepth } from '../../../../shared/model/site-layout';
 import { siteToday } from '../../../../shared/time/site-time';
 import { SiteTimePipe } from '../../core/time/site-time-pipe';
 import { AirTempField } from './air-temp-field';
@@ -118,6 +119,11 @@ export class VisitPage {
     return { siteId: String(v.collar['siteId']), campaignId: c.campaignId, round: c.round, collarId: v.collar.id };
   });
 
+  /** The site's probe depth tolerance (the schema default when the stored site copy predates the field). */
+  protected readonly depthToleranceCm = computed(() => {
+    const r = siteProbeDepth.safeParse(this.view()?.site ?? {});
+    return (r.success ? r.data : siteProbeDepth.parse({})).tempDepthToleranceCm;
+  });
   /** The site's zone: days and times on this screen are the site's. */
   protected readonly zone = computed(() => String(this.view()?.site?.['timezone'] ?? 'UTC'));
 
