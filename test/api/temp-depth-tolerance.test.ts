@@ -1,6 +1,10 @@
 import { randomUUID } from 'node:crypto';
+import Papa from 'papaparse';
+import { reportProgress } from '../../server/jobs/job-store';
 import { tablesForSite } from '../../server/results/export-schema';
+import { runResultsExport, type ExportRequest } from '../../server/results/results-export';
 import { siteResults } from '../../server/results/results-service';
+import { readZip } from '../support/read-zip';
 import { buildWorld, makeUser, type World } from '../support/site-world';
 import { demoEmail, signIn, startTestApp, type Session, type TestApp } from '../support/test-app';
 
@@ -11,7 +15,7 @@ import { demoEmail, signIn, startTestApp, type Session, type TestApp } from '../
  */
 describe('a site sets how far a soil temperature may sit from its probe depth', () => {
   let t: TestApp;
-  let admin: Session, lead: Session, crew: Session;
+  let admin: Session, lead: Session, crew: Session, lab: Session;
   let w: World;
 
   const visitMean = async () => (await siteResults(t.ds, w.site.id, 'not-rejected')).aggregate.visitMeans.find((m) => m.visitId === w.visit.id)!;
@@ -20,7 +24,7 @@ describe('a site sets how far a soil temperature may sit from its probe depth', 
   beforeAll(async () => {
     t = await startTestApp();
     admin = await signIn(t.app, demoEmail('admin'));
-    const lab = await signIn(t.app, demoEmail('lab'));
+    lab = await signIn(t.app, demoEmail('lab'));
     const hl = await makeUser(admin, ['lead'], []);
     lead = await signIn(t.app, hl.email);
     w = await buildWorld({ admin, lead, lab }, hl.id, `tt${randomUUID().slice(0, 6)}`);
@@ -61,6 +65,28 @@ describe('a site sets how far a soil temperature may sit from its probe depth', 
     const desc = visitMeans.fields.filter((f) => f.name.startsWith('soil_temp')).map((f) => f.description).join(' ');
     expect(desc).toContain('±2 cm');
     expect(desc).not.toContain('±1 cm');
+  });
+
+  it('when the site\'s results are exported after the change, then the package counts the temperature and states ±2 cm in its columns, methods and provenance', async () => {
+    const asked = await lab.post('/api/results/exports', { siteId: w.site.id, closures: 'not-rejected', license: 'CC0-1.0' });
+    expect(asked.status).toBe(202);
+    const jobId = asked.body.jobId;
+    const [outbox] = await t.ds.query(`SELECT data FROM job_outbox WHERE id = $1`, [jobId]);
+    await runResultsExport(t.ds, outbox.data as ExportRequest, { jobId, progress: (d, n) => reportProgress(t.ds, jobId, d, n) });
+    const file = await lab.get(`/api/results/exports/${jobId}/file`).buffer(true).parse((res, cb) => {
+      const chunks: Buffer[] = [];
+      res.on('data', (c: Buffer) => chunks.push(c));
+      res.on('end', () => cb(null, Buffer.concat(chunks)));
+    });
+    const files = await readZip(file.body as Buffer);
+    const probes = Papa.parse<Record<string, string>>(files.get('data/probe_readings.csv')!.toString('utf8'), { header: true, skipEmptyLines: true }).data;
+    expect(probes.filter((r) => r['visit_id'] === w.visit.id).map((r) => [r['soil_temp_c'], r['flags']])).toEqual([['10', ''], ['14', '']]);
+    const eml = files.get('metadata.eml.xml')!.toString('utf8');
+    expect(eml).toContain('temperatures more than ±2 cm (the site\'s depth tolerance) from the response depth are flagged soil-temp-off-depth');
+    const pkg = JSON.parse(files.get('datapackage.json')!.toString('utf8'));
+    const visitMeans = pkg.resources.find((r: { name: string }) => r.name === 'visit_means');
+    expect(visitMeans.schema.fields.find((f: { name: string }) => f.name === 'soil_temp_off_depth_n').description).toContain('±2 cm');
+    expect(JSON.parse(files.get('provenance.json')!.toString('utf8')).site.tempDepthToleranceCm).toBe(2);
   });
 
   it('when a lead (not an admin) sets the tolerance, then it is refused and the value stays', async () => {
