@@ -9,8 +9,8 @@ import { FlagAdviceList } from './flag-advice-list';
 import { SpotChart } from './spot-chart';
 
 /**
- * One closure at the visit: its chart, the flux with flags computed here, and a Redo that is
- * offered only once no closure runs (a tap meant for "chamber off" never lands on it).
+ * One closure at the visit: its chart, the flux with flags computed here, and a Redo (its own and
+ * the flag advice's) offered only once no closure runs (a tap meant for "chamber off" never lands on it).
  */
 @Component({
   selector: 'fw-closure-card',
@@ -35,7 +35,7 @@ import { SpotChart } from './spot-chart';
         } @else {
           <p class="flux none" data-testid="spot-flux">No flux: {{ s.fit.error }}</p>
         }
-        <fw-flag-advice-list data-testid="spot-flags" [flags]="s.fit.flags" (redo)="redo.emit(closure())" />
+        <fw-flag-advice-list data-testid="spot-flags" [flags]="s.fit.flags" [canRedo]="!running()" (redo)="redo.emit(closure())" />
         @if (s.startAboveAmbientPpm !== null) {
           <p class="ambient">Start vs this analyzer's ambient reading: {{ s.startAboveAmbientPpm >= 0 ? '+' : '' }}{{ s.startAboveAmbientPpm | number: '1.0-0' }} ppm</p>
         }

@@ -125,11 +125,12 @@ describe('Closure panel', () => {
     expect((await until(() => el.querySelector(`[data-closure="${redo.id}"] .tag`), 'the redo card')).textContent).toBe('redo');
     // The redone closure is replaced by its redo: still one counted.
     expect(text('[data-testid="closure-count"]')).toBe('1 of 2 closures due');
-    // While the redo runs no Redo is offered anywhere: the tap for "Chamber off" cannot land on one.
-    expect(await loader.getAllHarnesses(MatButtonHarness.with({ text: 'Redo' }))).toHaveLength(0);
+    // While the redo runs no redo of any kind is offered (the card's nor the flag advice's): the tap for "Chamber off" cannot land on one.
+    expect(await loader.getAllHarnesses(MatButtonHarness.with({ text: /redo/i }))).toHaveLength(0);
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Chamber off' }))).click();
     await until(() => loader.getHarnessOrNull(MatButtonHarness.with({ text: 'Chamber on' })), 'the on button again');
     expect(await loader.getAllHarnesses(MatButtonHarness.with({ text: 'Redo' }))).toHaveLength(2);
+    expect(await loader.getAllHarnesses(MatButtonHarness.with({ text: 'Analyzer at ambient: redo now' }))).toHaveLength(1);
 
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Enter the series by hand' }))).click();
     await until(() => el.querySelector('textarea[name="manual"]'), 'the form');
@@ -150,6 +151,34 @@ describe('Closure panel', () => {
     await until(() => el.querySelector(`[data-closure="${redo.id}"] [data-testid="spot-flux"]`), 'the redo flux');
     expect(el.querySelector(`[data-closure="${redo.id}"] [data-testid="spot-flux"]`)?.textContent).toMatch(/^3\.00 µmol/);
     expect(el.querySelector(`[data-closure="${redo.id}"] [data-testid="spot-flags"]`)?.textContent).not.toContain('above the ambient');
+  });
+
+  it('when the page opens on a closure still running after a flagged one, then no redo is offered until the chamber goes off', async () => {
+    const tS = [0, 10, 20, 30, 40, 50, 60, 70, 80, 90, 100];
+    const { el, text, loader } = await render(async (d) => {
+      await d.records('analyzerCheck').put({ id: 'amb', rev: 1, siteId: SITE, analyzerId: ANALYZER, kind: 'ambient', at: '2025-06-12T06:30:00.000Z', co2Ppm: 415 });
+      await d.records('closure').put({
+        id: FIRST, rev: 1, siteId: SITE, visitId: VISIT, collarId: COLLAR, campaignId: CAMPAIGN, profileId: PROFILE, analyzerId: ANALYZER,
+        startedAt: '2025-06-12T07:00:00.000Z', chamberOnAt: '2025-06-12T07:00:00.000Z', chamberOffAt: '2025-06-12T07:02:00.000Z', settleS: 20,
+        // A fall of CO2 with the chamber on: the flag advice asks for a seal check and a redo.
+        series: { tS, co2Ppm: tS.map((t) => 430 - 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20) },
+      });
+      const on = new Date(Date.now() - 30_000).toISOString();
+      await d.records('closure').put({
+        id: 'running', rev: 1, siteId: SITE, visitId: VISIT, collarId: COLLAR, campaignId: CAMPAIGN, profileId: PROFILE, analyzerId: ANALYZER,
+        startedAt: on, chamberOnAt: on, chamberOffAt: null, settleS: 20, redoOfId: null,
+        series: { tS: [], co2Ppm: [], h2oMmolMol: null, pressureKpa: null, tempC: null },
+      });
+    });
+    await until(() => text('[data-testid="spot-flux"]'), 'the first closure\'s flux');
+    await until(() => loader.getHarnessOrNull(MatButtonHarness.with({ text: 'Chamber off' })), 'the running closure');
+    expect(text('[data-testid="spot-flags"]')).toContain('then redo the closure');
+    expect(await loader.getAllHarnesses(MatButtonHarness.with({ text: /redo/i }))).toHaveLength(0);
+    expect(el.querySelector('[data-testid="flag-redo"]')).toBeNull();
+
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Chamber off' }))).click();
+    await until(() => loader.getHarnessOrNull(MatButtonHarness.with({ text: 'Seal checked: redo now' })), 'the flag advice\'s redo once the closure ended');
+    expect(await loader.getAllHarnesses(MatButtonHarness.with({ text: 'Redo' }))).toHaveLength(2);
   });
 
   it('when the crew chose a chamber at the start of the day, then a tapped closure carries that chamber’s version of the day and its settle time, not the site default', async () => {

@@ -72,7 +72,8 @@ export class ClosurePanel {
   }
 
   protected async chamberOn(redoOf: LocalRecord | null = null): Promise<void> {
-    if (this.busy) return;
+    // One closure at a time: nothing starts (a redo least of all) while the chamber is on.
+    if (this.busy || this.open()) return;
     this.busy = true;
     try {
       const kit = this.kit();

@@ -9,7 +9,8 @@ const ACTION_LABEL: Record<FlagAction, string> = {
 /**
  * A closure's QC flags in words with what to do now, for a touch screen (no tooltips): the ones
  * to act on before leaving the collar first, and the redo offered right there. The words come
- * from the one flag table (shared/flux/flag-advice.ts) the Bench uses too.
+ * from the one flag table (shared/flux/flag-advice.ts) the Bench uses too. The redo is offered
+ * only when the visit has no running closure (`canRedo`).
  */
 @Component({
   selector: 'fw-flag-advice-list',
@@ -23,7 +24,7 @@ const ACTION_LABEL: Record<FlagAction, string> = {
           </li>
         }
       </ul>
-      @if (redoLabel(); as label) {
+      @if (canRedo() && redoLabel(); as label) {
         <button mat-stroked-button type="button" class="redo-now" data-testid="flag-redo" (click)="redo.emit()">{{ label }}</button>
       }
     } @else {
@@ -42,6 +43,8 @@ const ACTION_LABEL: Record<FlagAction, string> = {
 })
 export class FlagAdviceList {
   readonly flags = input.required<readonly string[]>();
+  /** False while a closure runs at the visit: the advice still reads "redo", but the button waits until the chamber is off. */
+  readonly canRedo = input(true);
   readonly redo = output<void>();
 
   protected readonly items = computed(() => this.flags().map((code) => ({ code, ...flagAdvice(code) }))
