@@ -66,6 +66,7 @@ function fileOf(a: Rec | undefined): CheckRow['file'] {
           }
         </mat-select>
       </mat-form-field>
+      <div class="fw-table-box" tabindex="0" role="region" aria-label="Check records of the analyzer, scrolls sideways">
       <table mat-table [dataSource]="data" matSort matSortActive="at" matSortDirection="desc" aria-label="Check records of the analyzer">
         <ng-container matColumnDef="kind">
           <th mat-header-cell *matHeaderCellDef mat-sort-header>Check</th>
@@ -98,6 +99,7 @@ function fileOf(a: Rec | undefined): CheckRow['file'] {
           <td class="mat-mdc-cell empty" [attr.colspan]="columns.length">{{ analyzerId() ? 'No checks recorded for this analyzer.' : 'Choose an analyzer.' }}</td>
         </tr>
       </table>
+      </div>
       <mat-paginator [pageSize]="25" [pageSizeOptions]="[25, 100]" aria-label="Pages of analyzer checks" />
       @if (analyzerId()) {
         @if (calibrating()) {
