@@ -27,7 +27,7 @@ import { SyncSheet } from './sync-sheet';
   styles: `
     :host { position: relative; display: inline-flex; flex-direction: column; }
     .chip {
-      display: inline-flex; align-items: center; gap: 6px; min-height: 40px; padding: 2px 12px;
+      display: inline-flex; align-items: center; gap: 6px; min-height: 48px; padding: 2px 12px;
       border: 0; border-radius: 999px; cursor: pointer;
       background: var(--mat-sys-surface-container-high); color: var(--mat-sys-on-surface);
       font: var(--mat-sys-label-large); font-weight: 600;
