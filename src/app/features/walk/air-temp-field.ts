@@ -25,13 +25,15 @@ const validAirTemp = (c: AbstractControl<string>): ValidationErrors | null => (p
   selector: 'fw-air-temp-field',
   imports: [ReactiveFormsModule, MatFormFieldModule, MatInputModule],
   template: `
-    <mat-form-field appearance="outline">
+    <mat-form-field appearance="outline" subscriptSizing="dynamic">
       <mat-label>Air temperature (°C)</mat-label>
       <input matInput type="text" inputmode="decimal" autocomplete="off" data-testid="air-temp" [formControl]="control" />
       <mat-hint>For closures whose analyzer file has no chamber temperature</mat-hint>
       <mat-error>Enter a temperature from −40 to 60 °C, e.g. 12,5</mat-error>
     </mat-form-field>
   `,
+  // The field takes its row's width, and its two-line hint pushes what follows down instead of running over it.
+  styles: `:host { display: block; } mat-form-field { width: 100%; }`,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class AirTempField {

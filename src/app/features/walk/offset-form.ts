@@ -39,12 +39,15 @@ const cmText = (v: number) => (Math.round(v * 100) / 100).toFixed(1).replace(/(\
   imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatInputModule, ReactiveFormsModule],
   templateUrl: './offset-form.html',
   styles: `
-    .positions { display: grid; grid-template-columns: 1fr 1fr; gap: 4px 8px; }
+    // Rows 12 px apart: an outlined field's floating label rises above its box, over the hint or text above.
+    .positions { display: grid; grid-template-columns: 1fr 1fr; gap: 12px 8px; }
+    // A phone has room for one position a row between its two 48 px steps.
+    @media (max-width: 599.98px) { .positions { grid-template-columns: 1fr; } }
     .position { display: flex; align-items: center; gap: 2px; }
     .position mat-form-field { flex: 1; min-width: 0; width: 0; }
     :host ::ng-deep .position .mat-mdc-form-field-infix { width: auto; min-width: 0; }
     :host ::ng-deep .position .mdc-notched-outline__notch { max-width: calc(100% - 24px) !important; }
-    .position .step { flex: none; width: 36px; min-width: 36px; height: 48px; padding: 0; font-size: 1.3rem; }
+    .position .step { flex: none; width: 48px; min-width: 48px; height: 48px; padding: 0; font-size: 1.3rem; }
     .outlier { outline: 3px dashed var(--mat-sys-error); outline-offset: 2px; border-radius: 4px; }
     .stats { display: flex; flex-wrap: wrap; gap: 4px 16px; font-size: 1.05rem; margin: 0 0 8px; }
     .stats dt { font-weight: 600; } .stats div { display: flex; gap: 6px; } .stats dd { margin: 0; }
@@ -53,7 +56,7 @@ const cmText = (v: number) => (Math.round(v * 100) / 100).toFixed(1).replace(/(\
     .row { display: flex; flex-wrap: wrap; gap: 8px; align-items: center; }
     .summary { display: flex; align-items: center; justify-content: space-between; gap: 8px; margin: 0; }
     button { min-height: 48px; }
-    .help { margin: 0 0 4px; }
+    .help { margin: 0 0 12px; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -44,7 +44,10 @@ const complete = (r: Pick<ProbeRecord, 'soilTemps' | 'moistureRaw'> | null) => !
   imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatInputModule, MatRadioModule, ReactiveFormsModule, ProbeReplicateList],
   templateUrl: './probe-form.html',
   styles: `
-    .depth { display: grid; grid-template-columns: 1fr 1fr; gap: 0 12px; }
+    // Rows 12 px apart: an outlined field's floating label rises above its box, over the field above.
+    .depth { display: grid; grid-template-columns: 1fr 1fr; gap: 12px; margin-top: 12px; }
+    // On a phone the moisture value takes the row and its reading kind goes below (the label stays whole).
+    @media (max-width: 599.98px) { .depth.moisture { grid-template-columns: 1fr; } }
     mat-form-field { width: 100%; }
     .vwc { font-size: 1.25rem; font-weight: 700; margin: 0 0 12px; }
     .warning { border: 2px solid var(--mat-sys-error); padding: 8px 12px; border-radius: 8px; font-weight: 600; }
