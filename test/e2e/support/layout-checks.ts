@@ -35,15 +35,19 @@ const MATERIAL_INPUTS = ['.mdc-checkbox__native-control', '.mdc-radio__native-co
  * - page-wider-than-screen: document.scrollingElement.scrollWidth > innerWidth;
  * - cut-off: visible text or a control whose box ends beyond the viewport's right edge with no
  *   scrolling box around it (the part beyond cannot be reached);
- * - covered: a form-field label, hint or error whose centre is painted over by something else;
- * - text-overflow: a label, hint, error, button or tab label whose text is wider than its box;
+ * - covered: a form-field label, hint or error overlapping another field, control or text (a bar
+ *   fixed to the window's edge counts only where no scroll position brings the words out from under it);
+ * - text-overflow: a label, hint, error, button or tab label whose text is wider than its box, or a
+ *   hint or error that runs out of its form field's box (below or beside it);
  * - default-look: a button, select, progress bar, disclosure or text input the browser draws itself;
- * - small-target: a control smaller than 24×24 CSS px (WCAG 2.2, 2.5.8 Target Size (Minimum));
- *   inline links inside a sentence are the criterion's own exception;
+ * - small-target: a control smaller than `minTargetPx` square: 24×24 CSS px by default (WCAG 2.2,
+ *   2.5.8 Target Size (Minimum), with its spacing exception), 48×48 on Walk screens (the product's
+ *   rule for use with gloves, no spacing exception); inline links inside a sentence are the
+ *   criterion's own exception at either size;
  * - tab-arrows: tabs hidden behind Material's pagination arrows.
  */
-export async function layoutFindings(page: Page): Promise<LayoutFinding[]> {
-  return page.evaluate(({ materialButtons, materialInputs }) => {
+export async function layoutFindings(page: Page, { minTargetPx = 24 }: { minTargetPx?: number } = {}): Promise<LayoutFinding[]> {
+  return page.evaluate(({ materialButtons, materialInputs, minTarget }) => {
     const found: { check: string; where: string }[] = [];
     const describe = (el: Element) => {
       // The app component that drew it, so a finding names its owner (fw-bench > button "Results").
@@ -109,14 +113,40 @@ export async function layoutFindings(page: Page): Promise<LayoutFinding[]> {
       }
     }
 
+    // A hint or error longer than the room its field keeps for it (a fixed one-line subscript) runs
+    // out of the field's box, over whatever follows.
+    for (const el of Array.from(document.querySelectorAll('.mat-mdc-form-field mat-hint, .mat-mdc-form-field mat-error'))) {
+      if (!visible(el) || inMap(el)) continue;
+      const r = el.getBoundingClientRect(), q = el.closest('.mat-mdc-form-field')!.getBoundingClientRect();
+      if (r.bottom > q.bottom + 1 || r.right > q.right + 1) found.push({ check: 'text-overflow', where: `${describe(el)} runs out of its field's box` });
+    }
+
     // A field's label, hint or error overlapping another field, control or text box.
     const fieldWords = Array.from(document.querySelectorAll('.mat-mdc-form-field .mdc-floating-label, .mat-mdc-form-field mat-hint, .mat-mdc-form-field mat-error')).filter(visible);
     const others = Array.from(document.querySelectorAll('.mat-mdc-text-field-wrapper, button, a[href], input:not([type=hidden]), textarea, mat-select, p, h1, h2, h3, label, li, th, td')).filter((o) => visible(o) && !inMap(o));
+    /** A bar fixed or stuck to the window's top or bottom edge that the page scrolls under (the header, Walk's chamber bar). */
+    const pinnedBar = (el: Element): Element | null => {
+      for (let p: Element | null = el; p && p !== document.body; p = p.parentElement) {
+        const pos = getComputedStyle(p).position;
+        if (pos === 'fixed' || pos === 'sticky') return p;
+      }
+      return null;
+    };
+    /** Whether some scroll position shows `r` (a box in window coordinates) clear of the bar `q`. */
+    const scrollsClear = (r: DOMRect, q: DOMRect) => {
+      const maxY = doc.scrollHeight - innerHeight;
+      return q.top > innerHeight / 2
+        ? r.bottom + scrollY <= maxY + q.top + 1 // under a bottom bar: the page's end leaves room above it
+        : r.top + scrollY >= q.bottom - 1; // under a top bar (at the page's top): scrolled to the top, it shows below the bar
+    };
     for (const el of fieldWords) {
       const r = shownRect(el);
       const own = el.closest('.mat-mdc-form-field')!;
+      const ownBar = pinnedBar(el);
       for (const o of others) {
         if (own.contains(o) || o.contains(el)) continue;
+        const bar = pinnedBar(o);
+        if (bar && bar !== ownBar && scrollsClear(el.getBoundingClientRect(), bar.getBoundingClientRect())) continue;
         const q = shownRect(o);
         const w = Math.min(r.right, q.right) - Math.max(r.left, q.left), h = Math.min(r.bottom, q.bottom) - Math.max(r.top, q.top);
         if (w > 2 && h > 2) { found.push({ check: 'covered', where: `${describe(el)} under ${describe(o)}` }); break; }
@@ -135,10 +165,10 @@ export async function layoutFindings(page: Page): Promise<LayoutFinding[]> {
     const allTargets = Array.from(document.querySelectorAll(targets)).filter((el) => visible(el) && !inMap(el) && !el.closest('.mat-mdc-form-field'));
     for (const el of allTargets) {
       const r = el.getBoundingClientRect();
-      if (r.width >= 24 - 0.5 && r.height >= 24 - 0.5) continue;
-      // WCAG 2.5.8 spacing exception: a 24 px circle on the small target's centre meets no other target.
+      if (r.width >= minTarget - 0.5 && r.height >= minTarget - 0.5) continue;
+      // WCAG 2.5.8 spacing exception (the 24 px rule only): a 24 px circle on the small target's centre meets no other target.
       const cx = r.left + r.width / 2, cy = r.top + r.height / 2;
-      const near = allTargets.some((o) => {
+      const near = minTarget > 24 || allTargets.some((o) => {
         if (o === el || o.contains(el) || el.contains(o)) return false;
         const q = o.getBoundingClientRect();
         const dx = Math.max(q.left - cx, 0, cx - q.right), dy = Math.max(q.top - cy, 0, cy - q.bottom);
@@ -152,10 +182,10 @@ export async function layoutFindings(page: Page): Promise<LayoutFinding[]> {
     for (const f of Array.from(document.querySelectorAll('.mat-mdc-form-field .mat-mdc-text-field-wrapper'))) {
       if (!visible(f)) continue;
       const r = f.getBoundingClientRect();
-      if (r.width < 24 || r.height < 24) found.push({ check: 'small-target', where: `${describe(f.closest('.mat-mdc-form-field')!)} ${Math.round(r.width)}×${Math.round(r.height)}` });
+      if (r.width < minTarget - 0.5 || r.height < minTarget - 0.5) found.push({ check: 'small-target', where: `${describe(f.closest('.mat-mdc-form-field')!)} ${Math.round(r.width)}×${Math.round(r.height)}` });
     }
     return found as { check: LayoutFinding['check']; where: string }[];
-  }, { materialButtons: MATERIAL_BUTTONS, materialInputs: MATERIAL_INPUTS });
+  }, { materialButtons: MATERIAL_BUTTONS, materialInputs: MATERIAL_INPUTS, minTarget: minTargetPx });
 }
 
 /** axe-core (WCAG 2.0–2.2 A/AA rules) on the page: every serious, critical or moderate violation. */

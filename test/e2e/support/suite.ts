@@ -1,7 +1,7 @@
 import { Client } from 'pg';
 import type { Page } from 'playwright-core';
 import { RunningServer, startAppServer } from './app-server';
-import { Browser, launchBrowser, withScreenshotOnFailure } from './browser';
+import { Browser, BrowserShape, launchBrowser, withScreenshotOnFailure } from './browser';
 
 /**
  * The usual frame of a browser test file: the real server on a freshly reset E2E database for the
@@ -19,8 +19,8 @@ export function browserSuite() {
       if (!server) throw new Error('the server is not started yet (use it inside a test)');
       return server;
     },
-    async inBrowser(name: string, body: (page: Page, b: Browser) => Promise<void>): Promise<void> {
-      browser = await launchBrowser();
+    async inBrowser(name: string, body: (page: Page, b: Browser) => Promise<void>, shape: BrowserShape = {}): Promise<void> {
+      browser = await launchBrowser(shape);
       const b = browser;
       await withScreenshotOnFailure(b.page, name, () => body(b.page, b));
     },
