@@ -51,7 +51,10 @@ const PROFILE_SOURCE: Record<string, string> = {
       </form>
     }
   `,
-  styles: [`.flag-words { margin: 4px 0; padding-left: 20px; } .flag-words code { color: #666; font-size: 0.85em; }`],
+  // The Bench's own form styles do not reach inside this component: the fields wrap, each wide enough for its floating label.
+  styles: [`.flag-words { margin: 4px 0; padding-left: 20px; } .flag-words code { color: #666; font-size: 0.85em; }
+    .decide { display: flex; flex-wrap: wrap; gap: 8px 12px; align-items: center; margin: 8px 0; }
+    .decide mat-form-field { flex: 1 1 200px; min-width: 180px; }`],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ClosureSystem {

@@ -88,6 +88,13 @@ describe('ProbeForm moisture display', () => {
     expect(await (await loader.getHarness(MatInputHarness.with({ selector: '[formcontrolname="probeId"]' }))).getValue()).toBe('TDR-9');
     expect(await (await loader.getHarness(MatRadioGroupHarness)).getCheckedValue()).toBe('permittivity');
   });
+  it('when the visit is opened with a stored reading, then nothing is saved again, whatever the order of its stored fields', async () => {
+    // A record from the server or the device store may list a depth's fields in another order.
+    const stored = { ...first, moistureRaw: 22, moistureKind: 'vwc', soilTemps: [{ tempC: 7.5, depthCm: 10 }] } as unknown as ProbeRecord;
+    const { saved } = await render({ kind: 'topp' }, stored);
+    await pause(AUTOSAVE_MS + 300);
+    expect(saved).toEqual([]);
+  });
 });
 
 describe('ProbeForm replicates', () => {

@@ -27,8 +27,10 @@ export type ProbeRecord = Partial<z.infer<typeof probeReadingFields>> & { id: st
 type DepthRow = FormGroup<{ depth: FormControl<string>; temp: FormControl<string> }>;
 const text = (v: unknown) => (v === null || v === undefined ? '' : String(v));
 const depthRow = (depth: string, temp = ''): DepthRow => new FormGroup({ depth: new FormControl(depth, { nonNullable: true }), temp: new FormControl(temp, { nonNullable: true }) });
+/** What a reading says, compared by value: a stored record may list a depth's fields in any order. */
 const valuesOf = (r: Pick<ProbeRecord, 'soilTemps' | 'moistureRaw' | 'moistureKind' | 'rodLengthCm' | 'probeId'>) =>
-  JSON.stringify([r.soilTemps ?? [], r.moistureRaw ?? null, r.moistureKind ?? null, r.rodLengthCm ?? null, r.probeId ?? '']);
+  JSON.stringify([(r.soilTemps ?? []).map((t) => [t.depthCm ?? null, t.tempC ?? null]), r.moistureRaw ?? null, r.moistureKind ?? null,
+    r.rodLengthCm ?? null, r.probeId ?? '']);
 const complete = (r: Pick<ProbeRecord, 'soilTemps' | 'moistureRaw'> | null) => !!r && (r.soilTemps?.length ?? 0) > 0 && typeof r.moistureRaw === 'number';
 
 /**

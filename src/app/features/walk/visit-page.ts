@@ -1,3 +1,4 @@
+import { sameValue } from '../../core/db/record-values';
 import { ClosurePanel } from '../closures/closure-panel';
 import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, signal, untracked } from '@angular/core';
@@ -157,7 +158,7 @@ export class VisitPage {
   protected saveConditions(): Promise<void> {
     const now = this.conditions.getRawValue();
     const stored = this.view()?.visit?.['conditions'];
-    if (stored && JSON.stringify({ ...now, ...(stored as object) }) === JSON.stringify(now)) return Promise.resolve();
+    if (stored && sameValue({ ...now, ...(stored as object) }, now)) return Promise.resolve();
     return this.run('Conditions saved on this device.', (t, v) => this.writes.saveConditions(t, v.visit, now));
   }
 
