@@ -32,13 +32,37 @@ module.exports = tseslint.config(
   {
     // Closures is hosted by Walk's visit page; what both need lives in features/field-day.
     files: ['src/app/features/closures/**/*.ts'],
-    rules: { 'no-restricted-imports': ['error', { patterns: [{ group: ['**/features/walk/**', '../walk/*'], message: 'closures must not import walk: put what both need in features/field-day' }] }] },
+    rules: {
+      'no-restricted-imports': [
+        'error',
+        {
+          patterns: [
+            {
+              group: ['**/features/walk/**', '../walk/*'],
+              message: 'closures must not import walk: put what both need in features/field-day',
+            },
+          ],
+        },
+      ],
+    },
   },
   {
     // The production server and shared code never reach into the app, the tools or the tests.
     files: ['server/**/*.ts', 'shared/**/*.ts'],
     ignores: ['**/*.spec.ts'],
-    rules: { 'no-restricted-imports': ['error', { patterns: [{ group: ['**/src/app/**', '**/tools/**', '**/test/**'], message: 'server and shared code must not import the app, tools or tests' }] }] },
+    rules: {
+      'no-restricted-imports': [
+        'error',
+        {
+          patterns: [
+            {
+              group: ['**/src/app/**', '**/tools/**', '**/test/**'],
+              message: 'server and shared code must not import the app, tools or tests',
+            },
+          ],
+        },
+      ],
+    },
   },
   {
     // API and browser tests read JSON answers whose shape the test itself asserts.
@@ -48,6 +72,9 @@ module.exports = tseslint.config(
   {
     files: ['**/*.js'],
     extends: [js.configs.recommended],
-    languageOptions: { sourceType: 'commonjs', globals: { require: 'readonly', module: 'writable', process: 'readonly', __dirname: 'readonly', console: 'readonly' } },
+    languageOptions: {
+      sourceType: 'commonjs',
+      globals: { require: 'readonly', module: 'writable', process: 'readonly', __dirname: 'readonly', console: 'readonly' },
+    },
   },
 );

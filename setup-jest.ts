@@ -13,9 +13,14 @@ globalThis.structuredClone ??= <T>(value: T): T => v8.deserialize(v8.serialize(v
 // jsdom has no matchMedia; uPlot reads it when its module loads (device pixel ratio changes).
 window.matchMedia ??= (query: string) =>
   ({
-    matches: false, media: query, onchange: null,
-    addListener: () => undefined, removeListener: () => undefined,
-    addEventListener: () => undefined, removeEventListener: () => undefined, dispatchEvent: () => false,
+    matches: false,
+    media: query,
+    onchange: null,
+    addListener: () => undefined,
+    removeListener: () => undefined,
+    addEventListener: () => undefined,
+    removeEventListener: () => undefined,
+    dispatchEvent: () => false,
   }) as MediaQueryList;
 
 // jsdom's Blob has no text() or arrayBuffer(): the app reads error bodies and hashes files with them.
@@ -27,13 +32,18 @@ function readBlob<T>(blob: Blob, how: 'readAsText' | 'readAsArrayBuffer'): Promi
     reader[how](blob);
   });
 }
-Blob.prototype.text ??= function text(this: Blob) { return readBlob<string>(this, 'readAsText'); };
-Blob.prototype.arrayBuffer ??= function arrayBuffer(this: Blob) { return readBlob<ArrayBuffer>(this, 'readAsArrayBuffer'); };
+Blob.prototype.text ??= function text(this: Blob) {
+  return readBlob<string>(this, 'readAsText');
+};
+Blob.prototype.arrayBuffer ??= function arrayBuffer(this: Blob) {
+  return readBlob<ArrayBuffer>(this, 'readAsArrayBuffer');
+};
 
 // jsdom's crypto has no subtle: digest with Node's Web Crypto (the same standard), the bytes first
 // copied into a Node Buffer because jsdom's ArrayBuffer comes from another realm.
 if (!globalThis.crypto?.subtle) {
-  const nodeBytes = (d: ArrayBuffer | ArrayBufferView) => (ArrayBuffer.isView(d) ? Buffer.from(d.buffer, d.byteOffset, d.byteLength) : Buffer.from(d));
+  const nodeBytes = (d: ArrayBuffer | ArrayBufferView) =>
+    ArrayBuffer.isView(d) ? Buffer.from(d.buffer, d.byteOffset, d.byteLength) : Buffer.from(d);
   Object.defineProperty(globalThis.crypto, 'subtle', {
     value: { digest: (algorithm: string, data: ArrayBuffer | ArrayBufferView) => webcrypto.subtle.digest(algorithm, nodeBytes(data)) },
   });

@@ -5,9 +5,16 @@ const root = path.resolve(__dirname, '..');
 
 /** Every project file the compiler reads for one tsconfig (its own files and all they import). */
 function filesRead(config: string): string[] {
-  const parsed = ts.getParsedCommandLineOfConfigFile(path.join(root, config), {}, { ...ts.sys, onUnRecoverableConfigFileDiagnostic: () => undefined })!;
+  const parsed = ts.getParsedCommandLineOfConfigFile(
+    path.join(root, config),
+    {},
+    { ...ts.sys, onUnRecoverableConfigFileDiagnostic: () => undefined },
+  )!;
   const program = ts.createProgram(parsed.fileNames, { ...parsed.options, noEmit: true, incremental: false });
-  return program.getSourceFiles().map((f) => path.relative(root, f.fileName)).filter((f) => !f.startsWith('node_modules'));
+  return program
+    .getSourceFiles()
+    .map((f) => path.relative(root, f.fileName))
+    .filter((f) => !f.startsWith('node_modules'));
 }
 
 describe('production server build', () => {

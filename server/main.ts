@@ -24,8 +24,13 @@ async function main() {
   const stop = (signal: string) => {
     console.log(`[fluxwalk] ${signal}: stopping`);
     digests?.stop();
-    server.close(() => void (jobs?.stop() ?? Promise.resolve()).catch(() => undefined)
-      .then(() => ds.destroy()).finally(() => process.exit(0)));
+    server.close(
+      () =>
+        void (jobs?.stop() ?? Promise.resolve())
+          .catch(() => undefined)
+          .then(() => ds.destroy())
+          .finally(() => process.exit(0)),
+    );
     setTimeout(() => process.exit(0), 12000).unref();
   };
   process.on('SIGINT', () => stop('SIGINT'));

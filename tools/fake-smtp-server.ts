@@ -47,7 +47,14 @@ export async function startFakeSmtp(opts: { port?: number; host?: string } = {})
         const raw = Buffer.concat(chunks).toString('utf8');
         const envelope = session.envelope;
         const from = envelope.mailFrom ? envelope.mailFrom.address : '';
-        kept.push({ id: nextId++, receivedAt: new Date().toISOString(), from, to: envelope.rcptTo.map((r) => r.address.toLowerCase()), ...parseMail(raw), raw });
+        kept.push({
+          id: nextId++,
+          receivedAt: new Date().toISOString(),
+          from,
+          to: envelope.rcptTo.map((r) => r.address.toLowerCase()),
+          ...parseMail(raw),
+          raw,
+        });
         for (const w of [...waiters]) w();
         cb();
       });
@@ -84,7 +91,9 @@ export async function startFakeSmtp(opts: { port?: number; host?: string } = {})
         check();
       });
     },
-    clear: () => { kept.length = 0; },
+    clear: () => {
+      kept.length = 0;
+    },
     close: () => new Promise<void>((resolve) => server.close(() => resolve())),
   };
 }
@@ -151,7 +160,6 @@ function decodeWords(s: string): string {
   return s
     .replace(/\?=\s+=\?/g, '?==?')
     .replace(/=\?([^?]+)\?([BQ])\?([^?]*)\?=/gi, (_m, _charset: string, enc: string, data: string) =>
-      enc.toUpperCase() === 'B'
-        ? Buffer.from(data, 'base64').toString('utf8')
-        : decodeQuotedPrintable(data.replace(/_/g, ' ')));
+      enc.toUpperCase() === 'B' ? Buffer.from(data, 'base64').toString('utf8') : decodeQuotedPrintable(data.replace(/_/g, ' ')),
+    );
 }

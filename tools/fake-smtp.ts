@@ -16,12 +16,17 @@ function arg(name: string, fallback: string): string {
 const esc = (s: string) => s.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
 
 function inboxPage(mails: CapturedMail[]): string {
-  const rows = [...mails].reverse().map((m) => `
+  const rows = [...mails]
+    .reverse()
+    .map(
+      (m) => `
     <article>
       <h2>${esc(m.subject || '(no subject)')}</h2>
       <p class="meta">#${m.id} · ${esc(m.receivedAt)} · from ${esc(m.from)} · to ${esc(m.to.join(', '))}</p>
       <pre>${esc(m.text || m.html)}</pre>
-    </article>`).join('');
+    </article>`,
+    )
+    .join('');
   // The HTML part of a mail is shown as text on purpose: the inbox must never run a message's markup.
   return `<!doctype html><html lang="en"><head><meta charset="utf-8"><title>Fluxwalk development inbox</title>
 <style>body{font:15px/1.4 system-ui,sans-serif;margin:1rem auto;max-width:60rem;padding:0 1rem}

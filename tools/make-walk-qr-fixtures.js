@@ -19,7 +19,9 @@ async function main() {
   await QRCode.toFile(path.join(OUT, 'collar-tag-qr.png'), TAG, opts);
   await QRCode.toFile(path.join(OUT, 'blank-tag-qr.png'), BLANK_TAG, opts);
   await QRCode.toFile(path.join(OUT, 'not-a-tag-qr.png'), 'https://example.org/some/other/thing', opts);
-  console.log(`wrote collar-tag-qr.png (${TAG}), blank-tag-qr.png (${BLANK_TAG}) and not-a-tag-qr.png to ${path.relative(process.cwd(), OUT)}`);
+  console.log(
+    `wrote collar-tag-qr.png (${TAG}), blank-tag-qr.png (${BLANK_TAG}) and not-a-tag-qr.png to ${path.relative(process.cwd(), OUT)}`,
+  );
 }
 
 main().catch((err) => {

@@ -14,7 +14,12 @@ function mail(to: string, subject: string, blocks: MailBlock[]): OutgoingMail {
 }
 
 export function invitationMail(p: {
-  to: string; inviter: string; siteNames: string[]; roles: string[]; link: string; expiresAt: Date;
+  to: string;
+  inviter: string;
+  siteNames: string[];
+  roles: string[];
+  link: string;
+  expiresAt: Date;
   /** The (first) invited site's zone, in which the expiry is written; UTC when no site is named. */
   timeZone: string | null;
 }): OutgoingMail {
@@ -25,7 +30,10 @@ export function invitationMail(p: {
     { kind: 'para', text: 'Your role:' },
     { kind: 'list', items: p.roles.map((r) => ROLE_WORDS[r] ?? r) },
     { kind: 'link', text: 'Choose your name and password here', href: p.link },
-    { kind: 'para', text: `The link works once and until ${formatSiteTime(p.expiresAt, p.timeZone ?? 'UTC')}. If you did not expect this invitation, ignore this mail; no account is made until the link is used.` },
+    {
+      kind: 'para',
+      text: `The link works once and until ${formatSiteTime(p.expiresAt, p.timeZone ?? 'UTC')}. If you did not expect this invitation, ignore this mail; no account is made until the link is used.`,
+    },
   ]);
 }
 
@@ -34,6 +42,9 @@ export function resetMail(p: { to: string; displayName: string; link: string; mi
     { kind: 'para', text: `Hello ${p.displayName},` },
     { kind: 'para', text: 'Someone (we hope you) asked to reset the password of your Fluxwalk account.' },
     { kind: 'link', text: 'Set a new password here', href: p.link },
-    { kind: 'para', text: `The link works once, for ${p.minutes} minutes. Setting a new password signs you out on every device. If you did not ask for this, ignore this mail: your password stays as it is.` },
+    {
+      kind: 'para',
+      text: `The link works once, for ${p.minutes} minutes. Setting a new password signs you out on every device. If you did not ask for this, ignore this mail: your password stays as it is.`,
+    },
   ]);
 }

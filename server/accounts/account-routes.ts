@@ -4,15 +4,22 @@ import { ALL_ROLES, type RouteRegistry } from '../core/route-registry';
 import { parse } from '../core/validate';
 import type { Mailer } from '../mail/mailer';
 import { hashPassword } from '../users/user-service';
-import { acceptSchema, changePasswordSchema, invitationSchema, resetConfirmSchema, resetRequestSchema, tokenSchema } from './account-schemas';
+import {
+  acceptSchema,
+  changePasswordSchema,
+  invitationSchema,
+  resetConfirmSchema,
+  resetRequestSchema,
+  tokenSchema,
+} from './account-schemas';
 import { acceptInvitation, invite, listInvitations, lookupInvitation, revokeInvitation } from './invitations';
 import { changePassword, confirmReset, requestReset } from './passwords';
 import { resetRateLimit } from './reset-rate-limit';
 
-export const RESET_REQUESTED = 'If this address belongs to an account, a link to set a new password is on its way. It works once, within 60 minutes.';
+export const RESET_REQUESTED =
+  'If this address belongs to an account, a link to set a new password is on its way. It works once, within 60 minutes.';
 
 const idParam = z.object({ id: z.string().uuid('Invitation ids are UUIDs') });
-
 
 /** Invitations (admins and leads), accepting one (public), password change (signed in) and reset (public). */
 export function registerAccountRoutes(r: RouteRegistry, ds: DataSource, mailer: Mailer): void {
@@ -33,7 +40,9 @@ export function registerAccountRoutes(r: RouteRegistry, ds: DataSource, mailer: 
     res.status(204).end();
   });
 
-  r.add('post', '/api/invitations/lookup', 'public', async (req) => ({ invitation: await lookupInvitation(ds, parse(tokenSchema, req.body).token) }));
+  r.add('post', '/api/invitations/lookup', 'public', async (req) => ({
+    invitation: await lookupInvitation(ds, parse(tokenSchema, req.body).token),
+  }));
 
   r.add('post', '/api/invitations/accept', 'public', async (req, res) => {
     const account = await acceptInvitation(ds, parse(acceptSchema, req.body), hashPassword);
@@ -47,14 +56,21 @@ export function registerAccountRoutes(r: RouteRegistry, ds: DataSource, mailer: 
     res.status(204).end();
   });
 
-  r.add('post', '/api/auth/password-reset', 'public', (req, res) => {
-    const { email } = parse(resetRequestSchema, req.body);
-    // Answered before the lookup and the mail, so the time taken says nothing about the address.
-    requestReset(ds, mailer, email, mailer.config.appOrigin)
-      .catch((err: Error) => console.error('[mail] reset link not sent:', err.message));
-    res.status(202);
-    return { message: RESET_REQUESTED };
-  }, resetRateLimit(ds));
+  r.add(
+    'post',
+    '/api/auth/password-reset',
+    'public',
+    (req, res) => {
+      const { email } = parse(resetRequestSchema, req.body);
+      // Answered before the lookup and the mail, so the time taken says nothing about the address.
+      requestReset(ds, mailer, email, mailer.config.appOrigin).catch((err: Error) =>
+        console.error('[mail] reset link not sent:', err.message),
+      );
+      res.status(202);
+      return { message: RESET_REQUESTED };
+    },
+    resetRateLimit(ds),
+  );
 
   r.add('post', '/api/auth/password-reset/confirm', 'public', async (req, res) => {
     const body = parse(resetConfirmSchema, req.body);

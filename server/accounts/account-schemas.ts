@@ -9,10 +9,17 @@ const token = z.string().trim().min(20, 'The link is incomplete').max(200);
 export const invitationSchema = z.object({
   email,
   roles: roleListSchema,
-  siteIds: z.array(z.string().uuid('Site ids are UUIDs')).max(200).default([]).transform((ids) => [...new Set(ids)]),
+  siteIds: z
+    .array(z.string().uuid('Site ids are UUIDs'))
+    .max(200)
+    .default([])
+    .transform((ids) => [...new Set(ids)]),
 });
 export const tokenSchema = z.object({ token });
 export const acceptSchema = z.object({ token, displayName: z.string().trim().min(1, 'Enter your name').max(120), password });
-export const changePasswordSchema = z.object({ currentPassword: z.string().min(1, 'Enter your current password').max(200), newPassword: password });
+export const changePasswordSchema = z.object({
+  currentPassword: z.string().min(1, 'Enter your current password').max(200),
+  newPassword: password,
+});
 export const resetRequestSchema = z.object({ email });
 export const resetConfirmSchema = z.object({ token, password });

@@ -39,14 +39,19 @@ export interface NewToken {
  * so only the newest link works. Returns the token itself, which exists only in the mail.
  */
 export async function issueToken(em: EntityManager, t: NewToken): Promise<{ id: string; token: string; expiresAt: Date }> {
-  await em.query(`UPDATE account_token SET revoked_at = now()
-                   WHERE kind = $1 AND email = $2 AND used_at IS NULL AND revoked_at IS NULL`, [t.kind, t.email]);
+  await em.query(
+    `UPDATE account_token SET revoked_at = now()
+                   WHERE kind = $1 AND email = $2 AND used_at IS NULL AND revoked_at IS NULL`,
+    [t.kind, t.email],
+  );
   const token = randomBytes(32).toString('base64url');
   const id = randomUUID();
   const expiresAt = new Date(Date.now() + t.ttlMs);
-  await em.query(`INSERT INTO account_token (id, kind, token_hash, email, user_id, roles, site_ids, created_by, expires_at)
+  await em.query(
+    `INSERT INTO account_token (id, kind, token_hash, email, user_id, roles, site_ids, created_by, expires_at)
                   VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9)`,
-    [id, t.kind, hashToken(token), t.email, t.userId ?? null, t.roles ?? null, t.siteIds ?? null, t.createdBy ?? null, expiresAt]);
+    [id, t.kind, hashToken(token), t.email, t.userId ?? null, t.roles ?? null, t.siteIds ?? null, t.createdBy ?? null, expiresAt],
+  );
   return { id, token, expiresAt };
 }
 
@@ -62,7 +67,9 @@ const INVALID: Record<TokenKind, string> = {
 export async function openToken(em: EntityManager, kind: TokenKind, token: string, lock: boolean): Promise<TokenRow> {
   const [row]: TokenRow[] = await em.query(
     `SELECT id, kind, email, user_id, roles, site_ids, created_by, expires_at, used_at, revoked_at
-       FROM account_token WHERE token_hash = $1 AND kind = $2 ${lock ? 'FOR UPDATE' : ''}`, [hashToken(token), kind]);
+       FROM account_token WHERE token_hash = $1 AND kind = $2 ${lock ? 'FOR UPDATE' : ''}`,
+    [hashToken(token), kind],
+  );
   if (!row || row.used_at || row.revoked_at || row.expires_at.getTime() <= Date.now()) throw new AppError(410, INVALID[kind]);
   return row;
 }

@@ -20,8 +20,14 @@ async function readable(ds: DataSource, user: SessionUser, id: string): Promise<
  * must match the record, so a retry after a lost answer is harmless and a corrupt upload is
  * refused. On success the record gets its objectKey (a new rev, so devices learn it is safe).
  */
-export async function storeAttachmentContent(ds: DataSource, storage: ObjectStorage, user: SessionUser, id: string,
-  body: Buffer, mediaType: string | undefined): Promise<Record<string, unknown>> {
+export async function storeAttachmentContent(
+  ds: DataSource,
+  storage: ObjectStorage,
+  user: SessionUser,
+  id: string,
+  body: Buffer,
+  mediaType: string | undefined,
+): Promise<Record<string, unknown>> {
   const a = await readable(ds, user, id);
   if (body.length !== a.sizeBytes) {
     throw new AppError(400, `The file has ${body.length} bytes but its record says ${a.sizeBytes}; nothing was stored`);
@@ -38,9 +44,19 @@ export async function storeAttachmentContent(ds: DataSource, storage: ObjectStor
     // TypeORM answers an UPDATE … RETURNING as [rows, affected].
     const [[row]] = await em.query(
       `UPDATE attachment SET object_key = $2, rev = rev + 1, updated_at = now(), updated_by = $3 WHERE id = $1 RETURNING rev`,
-      [a.id, key, user.id]);
+      [a.id, key, user.id],
+    );
     const changes = new ChangeBuffer();
-    changes.add({ entity: 'attachment', recordId: a.id, rev: Number(row.rev), siteId: a.siteId, fields: ['objectKey'], deleted: false, userId: user.id, deviceId: null });
+    changes.add({
+      entity: 'attachment',
+      recordId: a.id,
+      rev: Number(row.rev),
+      siteId: a.siteId,
+      fields: ['objectKey'],
+      deleted: false,
+      userId: user.id,
+      deviceId: null,
+    });
     await changes.flush(em);
     return toWire((await em.getRepository(AttachmentEntity).findOneBy({ id: a.id }))!);
   });

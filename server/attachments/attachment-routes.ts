@@ -18,11 +18,17 @@ export function registerAttachmentRoutes(r: RouteRegistry, ds: DataSource, stora
   };
   const raw = express.raw({ type: () => true, limit: MAX_ATTACHMENT_BYTES });
 
-  r.add('put', '/api/attachments/:id/content', ['crew', 'lead', 'admin'], async (req) => {
-    const { id } = parse(idParam, req.params);
-    const body = Buffer.isBuffer(req.body) ? req.body : Buffer.alloc(0);
-    return { record: await storeAttachmentContent(ds, need(), req.user!, id, body, req.headers['content-type']) };
-  }, [raw]);
+  r.add(
+    'put',
+    '/api/attachments/:id/content',
+    ['crew', 'lead', 'admin'],
+    async (req) => {
+      const { id } = parse(idParam, req.params);
+      const body = Buffer.isBuffer(req.body) ? req.body : Buffer.alloc(0);
+      return { record: await storeAttachmentContent(ds, need(), req.user!, id, body, req.headers['content-type']) };
+    },
+    [raw],
+  );
 
   r.add('get', '/api/attachments/:id/content', ALL_ROLES, async (req, res) => {
     const { id } = parse(idParam, req.params);

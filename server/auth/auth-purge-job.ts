@@ -11,9 +11,11 @@ export const AUTH_PURGE_SCHEDULE = '*/15 * * * *';
  * and sessions without a signed-in user (sessions are stored only once someone signs in).
  */
 export async function purgeAuthRows(ds: DataSource): Promise<{ rateLimitRows: number; sessionRows: number }> {
-  const [, rateLimitRows] = await ds.query(`DELETE FROM rate_limit_hit WHERE reset_at <= now()`) as [unknown, number];
-  const [, sessionRows] = await ds.query(
-    `DELETE FROM session WHERE expire <= now() OR (sess->'passport'->>'user') IS NULL`) as [unknown, number];
+  const [, rateLimitRows] = (await ds.query(`DELETE FROM rate_limit_hit WHERE reset_at <= now()`)) as [unknown, number];
+  const [, sessionRows] = (await ds.query(`DELETE FROM session WHERE expire <= now() OR (sess->'passport'->>'user') IS NULL`)) as [
+    unknown,
+    number,
+  ];
   return { rateLimitRows, sessionRows };
 }
 

@@ -30,12 +30,18 @@ function logIn(req: Request, user: SessionUser): Promise<void> {
 export function registerAuthRoutes(r: RouteRegistry, passport: PassportStatic, csrf: Csrf, loginLimiters: RequestHandler[]): void {
   r.add('get', '/api/auth/csrf', 'public', (req, res) => ({ token: csrf.token(req, res) }));
 
-  r.add('post', '/api/auth/login', 'public', async (req, res) => {
-    req.body = parse(loginSchema, req.body, 'Enter your e-mail and password');
-    const user = await authenticate(passport, req, res);
-    await logIn(req, user);
-    return { user };
-  }, loginLimiters);
+  r.add(
+    'post',
+    '/api/auth/login',
+    'public',
+    async (req, res) => {
+      req.body = parse(loginSchema, req.body, 'Enter your e-mail and password');
+      const user = await authenticate(passport, req, res);
+      await logIn(req, user);
+      return { user };
+    },
+    loginLimiters,
+  );
 
   r.add('post', '/api/auth/logout', ALL_ROLES, async (req, res) => {
     await new Promise<void>((resolve, reject) => req.logout((err) => (err ? reject(err) : resolve())));

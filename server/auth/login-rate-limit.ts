@@ -19,21 +19,32 @@ const address = (req: Request) => ipKeyGenerator(req.ip ?? '');
  */
 export function loginRateLimits(ds: DataSource, config: LimitConfig): RequestHandler[] {
   const minutes = Math.ceil(config.loginWindowMs / 60000);
-  const limit = (prefix: string, max: number, key: (req: Request) => string, message: string) => rateLimit({
-    windowMs: config.loginWindowMs,
-    limit: max,
-    skipSuccessfulRequests: true,
-    standardHeaders: 'draft-7',
-    legacyHeaders: false,
-    store: new PostgresRateLimitStore(ds, prefix),
-    keyGenerator: key,
-    handler: (_req, res) => { res.status(429).json(errorBody(message)); },
-  });
+  const limit = (prefix: string, max: number, key: (req: Request) => string, message: string) =>
+    rateLimit({
+      windowMs: config.loginWindowMs,
+      limit: max,
+      skipSuccessfulRequests: true,
+      standardHeaders: 'draft-7',
+      legacyHeaders: false,
+      store: new PostgresRateLimitStore(ds, prefix),
+      keyGenerator: key,
+      handler: (_req, res) => {
+        res.status(429).json(errorBody(message));
+      },
+    });
   return [
-    limit('login-address:', config.loginMaxFailuresPerAddress, address,
-      `Too many failed sign-ins from this address. Wait up to ${minutes} minutes and try again.`),
-    limit('login:', config.loginMaxFailures, (req) => `${emailOf(req)}|${address(req)}`,
-      `Too many failed sign-ins for this e-mail from this address. Wait up to ${minutes} minutes and try again, or ask an admin to check the account.`),
+    limit(
+      'login-address:',
+      config.loginMaxFailuresPerAddress,
+      address,
+      `Too many failed sign-ins from this address. Wait up to ${minutes} minutes and try again.`,
+    ),
+    limit(
+      'login:',
+      config.loginMaxFailures,
+      (req) => `${emailOf(req)}|${address(req)}`,
+      `Too many failed sign-ins for this e-mail from this address. Wait up to ${minutes} minutes and try again, or ask an admin to check the account.`,
+    ),
   ];
 }
 

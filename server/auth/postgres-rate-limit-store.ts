@@ -9,7 +9,10 @@ export class PostgresRateLimitStore implements Store {
   private windowMs = 60_000;
   localKeys = false;
 
-  constructor(private readonly ds: DataSource, readonly prefix: string) {}
+  constructor(
+    private readonly ds: DataSource,
+    readonly prefix: string,
+  ) {}
 
   init(options: Options): void {
     this.windowMs = options.windowMs;
@@ -17,7 +20,9 @@ export class PostgresRateLimitStore implements Store {
 
   async get(key: string): Promise<ClientRateLimitInfo | undefined> {
     const rows: { hits: number; reset_at: Date }[] = await this.ds.query(
-      `SELECT hits, reset_at FROM rate_limit_hit WHERE key = $1 AND reset_at > now()`, [this.prefix + key]);
+      `SELECT hits, reset_at FROM rate_limit_hit WHERE key = $1 AND reset_at > now()`,
+      [this.prefix + key],
+    );
     return rows[0] ? { totalHits: rows[0].hits, resetTime: rows[0].reset_at } : undefined;
   }
 
@@ -29,7 +34,8 @@ export class PostgresRateLimitStore implements Store {
          hits = CASE WHEN rate_limit_hit.reset_at <= now() THEN 1 ELSE rate_limit_hit.hits + 1 END,
          reset_at = CASE WHEN rate_limit_hit.reset_at <= now() THEN EXCLUDED.reset_at ELSE rate_limit_hit.reset_at END
        RETURNING hits, reset_at`,
-      [this.prefix + key, this.windowMs]);
+      [this.prefix + key, this.windowMs],
+    );
     return { totalHits: rows[0].hits, resetTime: rows[0].reset_at };
   }
 

@@ -6,7 +6,14 @@ import { localDay, siteDayStartOf } from '../../shared/time/site-time';
 import { pgDay } from '../core/pg-day';
 
 export type AnomalyKind =
-  | 'offset-moved' | 'offset-spread' | 'closure-flag' | 'settling' | 'not-visited' | 'check-problem' | 'calibration-overdue' | 'calibration-drift';
+  | 'offset-moved'
+  | 'offset-spread'
+  | 'closure-flag'
+  | 'settling'
+  | 'not-visited'
+  | 'check-problem'
+  | 'calibration-overdue'
+  | 'calibration-drift';
 
 export interface Anomaly {
   kind: AnomalyKind;
@@ -40,7 +47,14 @@ export interface AnomalyOptions {
  * the visit's air temperature before leaving.
  */
 export const REVIEW_FLAGS: readonly QcFlag[] = [
-  'invalid-input', 'too-few-points', 'short-window', 'flat', 'negative-flux', 'spike', 'exp-linear-ratio-high', 'start-above-ambient',
+  'invalid-input',
+  'too-few-points',
+  'short-window',
+  'flat',
+  'negative-flux',
+  'spike',
+  'exp-linear-ratio-high',
+  'start-above-ambient',
   'temp-site-default',
 ];
 
@@ -55,13 +69,22 @@ const round = (x: number, d = 2) => Math.round(x * 10 ** d) / 10 ** d;
  * start-of-day checks skipped or failed, overdue calibrations. Thresholds are the site's own.
  * A plain function so the daily digest can reuse it.
  */
-export async function findAnomalies(db: Db, siteId: string, opts: AnomalyOptions = {}): Promise<{ campaignId: string | null; items: Anomaly[] }> {
+export async function findAnomalies(
+  db: Db,
+  siteId: string,
+  opts: AnomalyOptions = {},
+): Promise<{ campaignId: string | null; items: Anomaly[] }> {
   const now = opts.now ?? new Date();
   const [site] = await db.query(`SELECT * FROM site WHERE id = $1 AND NOT deleted`, [siteId]);
   if (!site) return { campaignId: null, items: [] };
   const [camp] = opts.campaignId
-    ? await db.query(`SELECT id, starts_on, ends_on FROM campaign WHERE id = $1 AND site_id = $2 AND NOT deleted`, [opts.campaignId, siteId])
-    : await db.query(`SELECT id, starts_on, ends_on FROM campaign WHERE site_id = $1 AND NOT deleted ORDER BY starts_on DESC LIMIT 1`, [siteId]);
+    ? await db.query(`SELECT id, starts_on, ends_on FROM campaign WHERE id = $1 AND site_id = $2 AND NOT deleted`, [
+        opts.campaignId,
+        siteId,
+      ])
+    : await db.query(`SELECT id, starts_on, ends_on FROM campaign WHERE site_id = $1 AND NOT deleted ORDER BY starts_on DESC LIMIT 1`, [
+        siteId,
+      ]);
   const items: Anomaly[] = [];
   if (camp) {
     items.push(...(await offsetAnomalies(db, site, camp.id)));
@@ -71,7 +94,10 @@ export async function findAnomalies(db: Db, siteId: string, opts: AnomalyOptions
   items.push(...(await collarAnomalies(db, site, now, opts.notVisitedDays ?? 30)));
   items.push(...(await calibrationAnomalies(db, site, now)));
   const order = { problem: 0, warn: 1 };
-  items.sort((a, b) => order[a.severity] - order[b.severity] || a.kind.localeCompare(b.kind) || (a.collarCode ?? '').localeCompare(b.collarCode ?? ''));
+  items.sort(
+    (a, b) =>
+      order[a.severity] - order[b.severity] || a.kind.localeCompare(b.kind) || (a.collarCode ?? '').localeCompare(b.collarCode ?? ''),
+  );
   return { campaignId: camp?.id ?? null, items };
 }
 
@@ -82,7 +108,8 @@ export async function findAnomalies(db: Db, siteId: string, opts: AnomalyOptions
  * mean offset) under the profile valid that day — the share of the flux the rim tilt could move.
  */
 async function offsetAnomalies(db: Db, site: Record<string, unknown>, campaignId: string): Promise<Anomaly[]> {
-  const rows = await db.query(`
+  const rows = await db.query(
+    `
     WITH cur AS (
       SELECT DISTINCT ON (o.collar_id) o.id, o.collar_id, o.mean_cm, o.taken_at, o.readings_cm
         FROM offset_set o
@@ -102,7 +129,9 @@ async function offsetAnomalies(db: Db, site: Record<string, unknown>, campaignId
       LEFT JOIN LATERAL (SELECT o.mean_cm, o.taken_at FROM offset_set o
                           WHERE o.collar_id = cur.collar_id AND o.campaign_id <> $1 AND o.taken_at < cur.taken_at AND NOT o.deleted
                             AND NOT EXISTS (SELECT 1 FROM offset_set x WHERE x.supersedes_id = o.id AND NOT x.deleted)
-                          ORDER BY o.taken_at DESC LIMIT 1) prev ON true`, [campaignId]);
+                          ORDER BY o.taken_at DESC LIMIT 1) prev ON true`,
+    [campaignId],
+  );
   const moveCm = Number(site['offset_move_cm']);
   const spreadPct = Number(site['offset_spread_pct']);
   const out: Anomaly[] = [];
@@ -111,16 +140,28 @@ async function offsetAnomalies(db: Db, site: Record<string, unknown>, campaignId
     if (r.prev_mean_cm !== null) {
       const moved = Number(r.mean_cm) - Number(r.prev_mean_cm);
       if (Math.abs(moved) > moveCm) {
-        out.push({ ...base, kind: 'offset-moved', severity: 'problem', value: round(moved), threshold: moveCm,
-          message: `Mean offset moved ${moved > 0 ? '+' : ''}${round(moved)} cm since the last campaign (limit ${moveCm} cm): reseated, frost heave or a misread?` });
+        out.push({
+          ...base,
+          kind: 'offset-moved',
+          severity: 'problem',
+          value: round(moved),
+          threshold: moveCm,
+          message: `Mean offset moved ${moved > 0 ? '+' : ''}${round(moved)} cm since the last campaign (limit ${moveCm} cm): reseated, frost heave or a misread?`,
+        });
       }
     }
     if (r.area_cm2 !== null && r.fixed_volume_cm3 !== null) {
       const volume = Number(r.fixed_volume_cm3) + Number(r.area_cm2) * Number(r.mean_cm);
       const pct = (Number(r.range_cm) * Number(r.area_cm2) * 100) / volume;
       if (pct > spreadPct) {
-        out.push({ ...base, kind: 'offset-spread', severity: 'warn', value: round(pct, 1), threshold: spreadPct,
-          message: `Offset readings span ${round(Number(r.range_cm), 1)} cm, ${round(pct, 1)} % of the headspace volume (limit ${spreadPct} %)` });
+        out.push({
+          ...base,
+          kind: 'offset-spread',
+          severity: 'warn',
+          value: round(pct, 1),
+          threshold: spreadPct,
+          message: `Offset readings span ${round(Number(r.range_cm), 1)} cm, ${round(pct, 1)} % of the headspace volume (limit ${spreadPct} %)`,
+        });
       }
     }
   }
@@ -128,16 +169,25 @@ async function offsetAnomalies(db: Db, site: Record<string, unknown>, campaignId
 }
 
 async function closureAnomalies(db: Db, campaignId: string): Promise<Anomaly[]> {
-  const rows = await db.query(`
+  const rows = await db.query(
+    `
     SELECT z.id, z.collar_id, k.code, z.started_at, z.flags, z.flux_umol_m2_s
       FROM closure z JOIN collar k ON k.id = z.collar_id
-     WHERE z.campaign_id = $1 AND NOT z.deleted AND z.review_state <> 'rejected' AND z.flags && $2::text[]`, [campaignId, REVIEW_FLAGS]);
+     WHERE z.campaign_id = $1 AND NOT z.deleted AND z.review_state <> 'rejected' AND z.flags && $2::text[]`,
+    [campaignId, REVIEW_FLAGS],
+  );
   return rows.map((r: Record<string, unknown>) => {
     const flags = (r['flags'] as string[]).filter((f) => (REVIEW_FLAGS as readonly string[]).includes(f));
     return {
-      kind: 'closure-flag' as const, severity: flags.includes('invalid-input') ? 'problem' as const : 'warn' as const,
-      collarId: r['collar_id'] as string, collarCode: r['code'] as string, recordId: r['id'] as string, at: iso(r['started_at']),
-      value: num(r['flux_umol_m2_s']), threshold: null, flags,
+      kind: 'closure-flag' as const,
+      severity: flags.includes('invalid-input') ? ('problem' as const) : ('warn' as const),
+      collarId: r['collar_id'] as string,
+      collarCode: r['code'] as string,
+      recordId: r['id'] as string,
+      at: iso(r['started_at']),
+      value: num(r['flux_umol_m2_s']),
+      threshold: null,
+      flags,
       // In words from the one flag table, so the Board and the digest read like the Walk's closure card.
       message: `Closure flagged: ${flags.map((f) => flagAdvice(f).words).join(' ')}`,
     };
@@ -147,20 +197,33 @@ async function closureAnomalies(db: Db, campaignId: string): Promise<Anomaly[]> 
 /** Start-of-day checks during the campaign that were skipped, failed, or whose leak slope is above the site's limit. */
 async function checkAnomalies(db: Db, site: Record<string, unknown>, camp: { starts_on: string; ends_on: string }): Promise<Anomaly[]> {
   const leak = Number(site['leak_slope_umol_mol_s']);
-  const rows = await db.query(`
+  const rows = await db.query(
+    `
     SELECT c.id, c.kind, c.at, c.skipped, c.skip_reason, c.passed, c.slope_umol_mol_s, a.name AS analyzer
       FROM analyzer_check c LEFT JOIN analyzer a ON a.id = c.analyzer_id
      WHERE c.site_id = $1 AND NOT c.deleted AND c.at >= $2::date AND c.at < $3::date + 1
        AND (c.skipped OR c.passed = false OR (c.kind = 'leak' AND abs(c.slope_umol_mol_s) > $4))
-     ORDER BY c.at`, [site['id'], camp.starts_on, camp.ends_on, leak]);
+     ORDER BY c.at`,
+    [site['id'], camp.starts_on, camp.ends_on, leak],
+  );
   return rows.map((r: Record<string, unknown>) => {
     const who = r['analyzer'] ? ` on ${r['analyzer']}` : '';
-    const message = r['skipped'] ? `${r['kind']} check skipped${who}: ${r['skip_reason'] ?? 'no reason given'}`
+    const message = r['skipped']
+      ? `${r['kind']} check skipped${who}: ${r['skip_reason'] ?? 'no reason given'}`
       : r['kind'] === 'leak' && r['slope_umol_mol_s'] !== null && Math.abs(Number(r['slope_umol_mol_s'])) > leak
         ? `Leak check${who}: slope ${r['slope_umol_mol_s']} µmol/mol/s above the limit ${leak}`
         : `${r['kind']} check failed${who}`;
-    return { kind: 'check-problem' as const, severity: r['skipped'] ? 'warn' as const : 'problem' as const, collarId: null, collarCode: null,
-      recordId: r['id'] as string, at: iso(r['at']), value: num(r['slope_umol_mol_s']), threshold: r['kind'] === 'leak' ? leak : null, message };
+    return {
+      kind: 'check-problem' as const,
+      severity: r['skipped'] ? ('warn' as const) : ('problem' as const),
+      collarId: null,
+      collarCode: null,
+      recordId: r['id'] as string,
+      at: iso(r['at']),
+      value: num(r['slope_umol_mol_s']),
+      threshold: r['kind'] === 'leak' ? leak : null,
+      message,
+    };
   });
 }
 
@@ -170,13 +233,16 @@ async function checkAnomalies(db: Db, site: Record<string, unknown>, camp: { sta
  * nobody has visited for more than `days` days.
  */
 async function collarAnomalies(db: Db, site: Record<string, unknown>, now: Date, days: number): Promise<Anomaly[]> {
-  const rows = await db.query(`
+  const rows = await db.query(
+    `
     SELECT k.id, k.code, ev.kind AS event_kind, ev.date AS event_date, lv.arrived_at AS last_visit, k.installed_on
       FROM collar k
       LEFT JOIN LATERAL (SELECT e.kind, e.date FROM collar_event e WHERE e.collar_id = k.id AND NOT e.deleted
                            AND e.kind IN ('installed', 'reseated', 'replaced') ORDER BY e.date DESC LIMIT 1) ev ON true
       LEFT JOIN LATERAL (SELECT max(v.arrived_at) AS arrived_at FROM visit v WHERE v.collar_id = k.id AND NOT v.deleted) lv ON true
-     WHERE k.site_id = $1 AND NOT k.deleted AND k.status = 'active'`, [site['id']]);
+     WHERE k.site_id = $1 AND NOT k.deleted AND k.status = 'active'`,
+    [site['id']],
+  );
   const hard = Number(site['settling_days_hard']);
   const warn = Number(site['settling_days_warn']);
   const dayMs = 86_400_000;
@@ -187,23 +253,37 @@ async function collarAnomalies(db: Db, site: Record<string, unknown>, now: Date,
       const start = siteDayStartOf(pgDay(r.event_date), String(site['timezone']));
       const ageDays = (now.getTime() - Date.parse(start)) / dayMs;
       if (ageDays >= 0 && ageDays < warn) {
-        out.push({ kind: 'settling', severity: ageDays < hard ? 'problem' : 'warn', collarId: r.id, collarCode: r.code, recordId: r.id,
-          at: start, value: round(ageDays, 1), threshold: ageDays < hard ? hard : warn,
-          message: `Settling: ${r.event_kind} ${round(ageDays, 1)} day(s) ago (hard limit ${hard}, warning ${warn} days)` });
+        out.push({
+          kind: 'settling',
+          severity: ageDays < hard ? 'problem' : 'warn',
+          collarId: r.id,
+          collarCode: r.code,
+          recordId: r.id,
+          at: start,
+          value: round(ageDays, 1),
+          threshold: ageDays < hard ? hard : warn,
+          message: `Settling: ${r.event_kind} ${round(ageDays, 1)} day(s) ago (hard limit ${hard}, warning ${warn} days)`,
+        });
       }
     }
     const since = r.last_visit ? Date.parse(new Date(r.last_visit).toISOString()) : null;
     const idle = since === null ? null : (now.getTime() - since) / dayMs;
     if (idle === null || idle > days) {
-      out.push({ kind: 'not-visited', severity: 'warn', collarId: r.id, collarCode: r.code, recordId: r.id, at: iso(r.last_visit),
-        value: idle === null ? null : Math.floor(idle), threshold: days,
-        message: idle === null ? 'Never visited' : `Not visited for ${Math.floor(idle)} days (limit ${days})` });
+      out.push({
+        kind: 'not-visited',
+        severity: 'warn',
+        collarId: r.id,
+        collarCode: r.code,
+        recordId: r.id,
+        at: iso(r.last_visit),
+        value: idle === null ? null : Math.floor(idle),
+        threshold: days,
+        message: idle === null ? 'Never visited' : `Not visited for ${Math.floor(idle)} days (limit ${days})`,
+      });
     }
   }
   return out;
 }
-
-
 
 /**
  * Analyzers whose last passed calibration is older than their own interval, or that have none;
@@ -211,7 +291,8 @@ async function collarAnomalies(db: Db, site: Record<string, unknown>, now: Date,
  * span gas): the fluxes since the calibration before it need a look.
  */
 async function calibrationAnomalies(db: Db, site: Record<string, unknown>, now: Date): Promise<Anomaly[]> {
-  const rows = await db.query(`
+  const rows = await db.query(
+    `
     SELECT a.id, a.name, a.calibration_interval_days,
            (SELECT max(c.at) FROM analyzer_check c WHERE c.analyzer_id = a.id AND c.kind = 'calibration' AND NOT c.deleted
                 AND NOT c.skipped AND c.passed IS DISTINCT FROM false) AS last_cal,
@@ -221,24 +302,48 @@ async function calibrationAnomalies(db: Db, site: Record<string, unknown>, now: 
         SELECT c.id, c.at, c.drift_ppm, c.zero_drift_ppm, c.span_gas_ppm FROM analyzer_check c
          WHERE c.analyzer_id = a.id AND c.kind = 'calibration' AND NOT c.deleted AND NOT c.skipped
          ORDER BY c.at DESC LIMIT 1) d ON true
-     WHERE a.site_id = $1 AND NOT a.deleted`, [site['id']]);
+     WHERE a.site_id = $1 AND NOT a.deleted`,
+    [site['id']],
+  );
   const limitPct = Number(site['calibration_drift_limit_pct']);
   const out: Anomaly[] = [];
   for (const r of rows) {
     const interval = Number(r.calibration_interval_days);
     const age = r.last_cal ? calibrationAgeDays(r.last_cal, now) : null;
     if (age === null || age >= interval) {
-      out.push({ kind: 'calibration-overdue', severity: 'problem', collarId: null, collarCode: null, recordId: r.id, at: iso(r.last_cal),
-        value: age, threshold: interval,
-        message: age === null ? `${r.name}: no calibration on record` : `${r.name}: last calibrated ${age} days ago (interval ${interval} days)` });
+      out.push({
+        kind: 'calibration-overdue',
+        severity: 'problem',
+        collarId: null,
+        collarCode: null,
+        recordId: r.id,
+        at: iso(r.last_cal),
+        value: age,
+        threshold: interval,
+        message:
+          age === null ? `${r.name}: no calibration on record` : `${r.name}: last calibrated ${age} days ago (interval ${interval} days)`,
+      });
     }
     const pct = worstDriftPct({ driftPpm: num(r.drift_ppm), zeroDriftPpm: num(r.zero_drift_ppm), spanGasPpm: num(r.span_gas_ppm) });
     if (pct !== null && pct > limitPct) {
-      const drifts = [['zero', num(r.zero_drift_ppm)], ['span', num(r.drift_ppm)]].filter(([, v]) => v !== null)
-        .map(([w, v]) => `${w} ${(v as number) > 0 ? '+' : ''}${v} µmol/mol`).join(', ');
-      out.push({ kind: 'calibration-drift', severity: 'problem', collarId: null, collarCode: null, recordId: r.drift_check_id, at: iso(r.drift_at),
-        value: pct, threshold: limitPct,
-        message: `${r.name}: drift found at calibration on ${localDay(r.drift_at, String(site['timezone']))} was ${drifts} (${pct} % of the ${num(r.span_gas_ppm)} µmol/mol span gas, limit ${limitPct} %): check the closures since the calibration before it` });
+      const drifts = [
+        ['zero', num(r.zero_drift_ppm)],
+        ['span', num(r.drift_ppm)],
+      ]
+        .filter(([, v]) => v !== null)
+        .map(([w, v]) => `${w} ${(v as number) > 0 ? '+' : ''}${v} µmol/mol`)
+        .join(', ');
+      out.push({
+        kind: 'calibration-drift',
+        severity: 'problem',
+        collarId: null,
+        collarCode: null,
+        recordId: r.drift_check_id,
+        at: iso(r.drift_at),
+        value: pct,
+        threshold: limitPct,
+        message: `${r.name}: drift found at calibration on ${localDay(r.drift_at, String(site['timezone']))} was ${drifts} (${pct} % of the ${num(r.span_gas_ppm)} µmol/mol span gas, limit ${limitPct} %): check the closures since the calibration before it`,
+      });
     }
   }
   return out;

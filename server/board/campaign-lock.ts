@@ -9,7 +9,13 @@ import type { PendingWrite } from '../records/write-guards';
 import { noRecordMessage, rejected } from '../records/write-outcome';
 
 // The lock rule reads the campaign as a role that sees every site: who may lock was decided by the writer.
-const LOCK_CHECK: SessionUser = { id: '00000000-0000-0000-0000-000000000000', email: '', displayName: 'Campaign lock', roles: ['admin'], siteIds: [] };
+const LOCK_CHECK: SessionUser = {
+  id: '00000000-0000-0000-0000-000000000000',
+  email: '',
+  displayName: 'Campaign lock',
+  roles: ['admin'],
+  siteIds: [],
+};
 
 /** Collars that keep a campaign from being closed: anything not complete and not skipped with a reason. */
 export async function openCollars(db: DataSource | EntityManager, campaignId: string): Promise<{ code: string; state: string }[]> {
@@ -25,11 +31,20 @@ export async function openCollars(db: DataSource | EntityManager, campaignId: st
  */
 export async function guardCampaignLock(w: PendingWrite): Promise<WriteOutcome | null> {
   if (w.action === 'delete' || !w.changed.includes('locked') || w.next['locked'] !== true) return null;
-  if (w.action === 'create') return rejected(400, 'A campaign is created open: lock it once its collars are done', [{ path: 'locked', message: 'Create the campaign unlocked' }]);
+  if (w.action === 'create')
+    return rejected(400, 'A campaign is created open: lock it once its collars are done', [
+      { path: 'locked', message: 'Create the campaign unlocked' },
+    ]);
   const open = await openCollars(w.em, w.id);
   if (!open.length) return null;
-  const sample = open.slice(0, 5).map((c) => `${c.code} (${c.state})`).join(', ');
-  return rejected(409, `${open.length} collar(s) are still due or partial: ${sample}${open.length > 5 ? ', …' : ''}. Finish them or record a skip with its reason first.`);
+  const sample = open
+    .slice(0, 5)
+    .map((c) => `${c.code} (${c.state})`)
+    .join(', ');
+  return rejected(
+    409,
+    `${open.length} collar(s) are still due or partial: ${sample}${open.length > 5 ? ', …' : ''}. Finish them or record a skip with its reason first.`,
+  );
 }
 
 /**

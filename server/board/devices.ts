@@ -24,18 +24,26 @@ const iso = (v: unknown) => (v == null ? null : new Date(v as string).toISOStrin
  * null), least recently heard from first. A plain function so the daily digest can reuse it.
  */
 export async function listDevices(db: DataSource | EntityManager, siteIds: string[] | null, now = new Date()): Promise<DeviceRow[]> {
-  const rows = await db.query(`
+  const rows = await db.query(
+    `
     SELECT d.id, d.user_id, u.email, u.display_name, d.last_push_at, d.last_pull_at, d.outbox_size,
            greatest(d.last_push_at, d.last_pull_at) AS last_seen
       FROM device d JOIN app_user u ON u.id = d.user_id
      WHERE $1::uuid[] IS NULL OR EXISTS (SELECT 1 FROM site_member m WHERE m.user_id = d.user_id AND m.site_id = ANY($1::uuid[]))
-     ORDER BY last_seen ASC NULLS FIRST, u.email, d.id`, [siteIds]);
+     ORDER BY last_seen ASC NULLS FIRST, u.email, d.id`,
+    [siteIds],
+  );
   return rows.map((r: Record<string, unknown>) => {
     const lastSeen = iso(r['last_seen']);
     return {
-      id: r['id'] as string, userId: r['user_id'] as string, email: r['email'] as string, displayName: r['display_name'] as string,
-      lastPushAt: iso(r['last_push_at']), lastPullAt: iso(r['last_pull_at']),
-      outboxSize: r['outbox_size'] == null ? null : Number(r['outbox_size']), lastSeenAt: lastSeen,
+      id: r['id'] as string,
+      userId: r['user_id'] as string,
+      email: r['email'] as string,
+      displayName: r['display_name'] as string,
+      lastPushAt: iso(r['last_push_at']),
+      lastPullAt: iso(r['last_pull_at']),
+      outboxSize: r['outbox_size'] == null ? null : Number(r['outbox_size']),
+      lastSeenAt: lastSeen,
       silent: lastSeen === null || now.getTime() - Date.parse(lastSeen) > SILENT_AFTER_MS,
     };
   });

@@ -1,11 +1,24 @@
 import type { DataSource } from 'typeorm';
 
-export interface MemberRow { id: string; displayName: string; email: string; roles: string[] }
+export interface MemberRow {
+  id: string;
+  displayName: string;
+  email: string;
+  roles: string[];
+}
 
 /** The people a lead can assign to a route: enabled members of the site who walk (crew or lead). */
 export async function fieldMembers(ds: DataSource, siteId: string): Promise<MemberRow[]> {
-  const rows = await ds.query(`
+  const rows = await ds.query(
+    `
     SELECT u.id, u.display_name, u.email, u.roles FROM site_member m JOIN app_user u ON u.id = m.user_id
-     WHERE m.site_id = $1 AND NOT u.disabled AND u.roles && ARRAY['crew','lead']::text[] ORDER BY u.display_name`, [siteId]);
-  return rows.map((r: Record<string, unknown>) => ({ id: r['id'] as string, displayName: r['display_name'] as string, email: r['email'] as string, roles: r['roles'] as string[] }));
+     WHERE m.site_id = $1 AND NOT u.disabled AND u.roles && ARRAY['crew','lead']::text[] ORDER BY u.display_name`,
+    [siteId],
+  );
+  return rows.map((r: Record<string, unknown>) => ({
+    id: r['id'] as string,
+    displayName: r['display_name'] as string,
+    email: r['email'] as string,
+    roles: r['roles'] as string[],
+  }));
 }

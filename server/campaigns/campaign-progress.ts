@@ -1,6 +1,13 @@
 import { DataSource, type EntityManager } from 'typeorm';
 import { seesAllSites, type SessionUser } from '../../shared/auth/roles';
-import { addVisit, collarProgress, emptyTally, type DueSettings, type ProgressState, type RoundTally } from '../../shared/progress/visit-progress';
+import {
+  addVisit,
+  collarProgress,
+  emptyTally,
+  type DueSettings,
+  type ProgressState,
+  type RoundTally,
+} from '../../shared/progress/visit-progress';
 import { notFound } from '../core/errors';
 
 export type { ProgressState };
@@ -13,8 +20,14 @@ type StateCounts = Record<ProgressState, number>;
  * treatment ids.
  */
 interface Collars {
-  routes: string[]; pos: number[]; id: string[]; code: string[]; route: (number | null)[]; plot: string[];
-  plot_treatment: (string | null)[]; treatment: (string | null)[];
+  routes: string[];
+  pos: number[];
+  id: string[];
+  code: string[];
+  route: (number | null)[];
+  plot: string[];
+  plot_treatment: (string | null)[];
+  treatment: (string | null)[];
 }
 /**
  * The campaign's live visits as parallel arrays. Worked (not skipped) visits: collar id, round and
@@ -23,8 +36,14 @@ interface Collars {
  * round, id, arrival (ms since 1970) and reason (their readings never count).
  */
 interface Visits {
-  collar: string[]; round: number[]; done: number[];
-  skip_collar: string[]; skip_round: number[]; skip_id: string[]; skip_at: number[]; skip_reason: (string | null)[];
+  collar: string[];
+  round: number[];
+  done: number[];
+  skip_collar: string[];
+  skip_round: number[];
+  skip_id: string[];
+  skip_at: number[];
+  skip_reason: (string | null)[];
 }
 
 /*
@@ -89,7 +108,8 @@ function tallyVisits(v: Visits, placeOf: Map<string, number>, rounds: number[]):
   const t: RoundTally[] = new Array(placeOf.size * rounds.length).fill(NO_VISIT);
   // Visits of collars off the campaign's routes, or of rounds not asked, count nowhere.
   const at = (collarId: string, round: number) => {
-    const place = placeOf.get(collarId), r = rounds.indexOf(round);
+    const place = placeOf.get(collarId),
+      r = rounds.indexOf(round);
     return place === undefined || r < 0 ? -1 : place * rounds.length + r;
   };
   const add = (x: number, visit: Parameters<typeof addVisit>[1]) => {
@@ -99,8 +119,15 @@ function tallyVisits(v: Visits, placeOf: Map<string, number>, rounds: number[]):
   for (let i = 0; i < v.collar.length; i++) {
     const x = at(v.collar[i], v.round[i]);
     if (x < 0) continue;
-    add(x, { id: '', skipped: false, skipReason: null, arrivedMs: 0,
-      offsets: (v.done[i] >> 1) & 1, probes: (v.done[i] >> 2) & 1, closures: v.done[i] >> 3 });
+    add(x, {
+      id: '',
+      skipped: false,
+      skipReason: null,
+      arrivedMs: 0,
+      offsets: (v.done[i] >> 1) & 1,
+      probes: (v.done[i] >> 2) & 1,
+      closures: v.done[i] >> 3,
+    });
   }
   for (let i = 0; i < v.skip_collar.length; i++) {
     const x = at(v.skip_collar[i], v.skip_round[i]);
@@ -150,21 +177,27 @@ export async function campaignProgress(ds: DataSource | EntityManager, user: Ses
   const [camp] = await ds.query(
     `SELECT site_id, rounds, due_offset, due_closures, due_probes,
             (SELECT max(seq) FROM change_log l WHERE l.site_id = campaign.site_id AND l.entity IN ('collar', 'plot', 'route', 'campaign'))::text AS layout
-       FROM campaign WHERE id = $1 AND NOT deleted`, [campaignId]);
+       FROM campaign WHERE id = $1 AND NOT deleted`,
+    [campaignId],
+  );
   if (!camp || (!seesAllSites(user.roles) && !user.siteIds.includes(camp.site_id))) throw notFound('No such campaign');
   if (round !== null && round > camp.rounds) throw notFound(`The campaign has ${camp.rounds} round(s)`);
   // The collar list is read while the visits query still runs.
   const [{ c, order, placeOf }, [{ visits }]]: [CollarList, [{ visits: string }]] = await Promise.all([
-    collarList(ds, campaignId, camp.layout), ds.query(VISITS_SQL, [campaignId, round])]);
+    collarList(ds, campaignId, camp.layout),
+    ds.query(VISITS_SQL, [campaignId, round]),
+  ]);
   const due: DueSettings = { dueOffset: camp.due_offset, dueClosures: camp.due_closures, dueProbes: camp.due_probes };
   const rounds = round === null ? Array.from({ length: camp.rounds }, (_, i) => i + 1) : [round];
   const tally = tallyVisits(JSON.parse(visits), placeOf, rounds);
   // Counted in maps (no property lookups by fresh id strings), handed out as objects in first-seen order.
-  const byRoute = new Map<string, StateCounts>(), byPlot = new Map<string, StateCounts>(), byTreatment = new Map<string, StateCounts>();
+  const byRoute = new Map<string, StateCounts>(),
+    byPlot = new Map<string, StateCounts>(),
+    byTreatment = new Map<string, StateCounts>();
   const bump = (group: Map<string, StateCounts>, key: string | null, s: ProgressState) => {
     if (!key) return;
     let counts = group.get(key);
-    if (!counts) group.set(key, counts = emptyCounts());
+    if (!counts) group.set(key, (counts = emptyCounts()));
     counts[s]++;
   };
   // One array reused for every collar's rounds (no slice per collar).

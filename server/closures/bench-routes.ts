@@ -19,7 +19,9 @@ import { queueFilterSchema, queueItem, reviewQueue } from './review-queue';
 const BENCH_READERS: readonly Role[] = ['lab', 'lead', 'admin'];
 const idParams = z.object({ id: z.string().uuid('Closure ids are UUIDs') });
 /** Bulk accept always names a site: an empty filter must never accept every site's closures. */
-const bulkAcceptFilter = queueFilterSchema.extend({ siteId: z.string({ message: 'Name the site whose closures to accept' }).uuid('Site ids are UUIDs') });
+const bulkAcceptFilter = queueFilterSchema.extend({
+  siteId: z.string({ message: 'Name the site whose closures to accept' }).uuid('Site ids are UUIDs'),
+});
 /** Leaving points out of a fit or moving a closure changes the data a flux stands on: the lab's, and admins' (the writer enforces it too). */
 const FIT_DATA_EDITORS: readonly Role[] = ['lab', 'admin'];
 const recomputeBody = z.object({ siteId: z.string().uuid('siteId must be a UUID') });
@@ -54,7 +56,8 @@ export function registerBenchRoutes(r: RouteRegistry, ds: DataSource): void {
     return answer(res, await moveClosure(ds, req.user!, id, visitId));
   });
   r.add('post', '/api/bench/bulk-accept', ['lab'], (req) =>
-    bulkAccept(ds, req.user!, parse(bulkAcceptFilter, stringify(req.body), 'Some queue filters are not valid')));
+    bulkAccept(ds, req.user!, parse(bulkAcceptFilter, stringify(req.body), 'Some queue filters are not valid')),
+  );
   r.add('post', '/api/bench/recompute', ['lab', 'admin'], async (req, res) => {
     const { siteId } = parse(recomputeBody, req.body);
     // No job for a site that does not exist (404); the lab and admins see every site.
@@ -67,5 +70,9 @@ export function registerBenchRoutes(r: RouteRegistry, ds: DataSource): void {
 /** The bulk body carries the queue's filter as the query string would (the schema coerces strings). */
 function stringify(body: unknown): Record<string, string> {
   const o = (body ?? {}) as Record<string, unknown>;
-  return Object.fromEntries(Object.entries(o).filter(([, v]) => v !== null && v !== undefined && v !== '').map(([k, v]) => [k, String(v)]));
+  return Object.fromEntries(
+    Object.entries(o)
+      .filter(([, v]) => v !== null && v !== undefined && v !== '')
+      .map(([k, v]) => [k, String(v)]),
+  );
 }

@@ -16,14 +16,22 @@ export const BULK_ACCEPT_CAP = 2000;
 export async function bulkAccept(ds: DataSource, user: SessionUser, filter: QueueFilter) {
   const targets = await queueIds(ds, user, { ...filter, flag: 'none', reviewState: 'unreviewed' }, BULK_ACCEPT_CAP + 1);
   if (targets.length > BULK_ACCEPT_CAP) {
-    throw new AppError(400, `This filter selects more than ${BULK_ACCEPT_CAP} closures; narrow it (a campaign, a round) and accept in steps`);
+    throw new AppError(
+      400,
+      `This filter selects more than ${BULK_ACCEPT_CAP} closures; narrow it (a campaign, a round) and accept in steps`,
+    );
   }
   return ds.transaction(async (em) => {
     const changes = new ChangeBuffer();
     let accepted = 0;
     const skipped: { id: string; reason: string }[] = [];
     for (const t of targets) {
-      const out = await writeRecord(em, user, { entity: 'closure', id: t.id, baseRev: t.rev, op: 'upsert', fields: { reviewState: 'accepted' } }, changes);
+      const out = await writeRecord(
+        em,
+        user,
+        { entity: 'closure', id: t.id, baseRev: t.rev, op: 'upsert', fields: { reviewState: 'accepted' } },
+        changes,
+      );
       if (out.status === 'applied' || out.status === 'merged') accepted++;
       else skipped.push({ id: t.id, reason: out.error?.message ?? out.status });
     }

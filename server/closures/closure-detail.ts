@@ -26,39 +26,80 @@ export async function closureDetail(ds: DataSource, user: SessionUser, id: strin
   const closure = toWire((await ds.getRepository(ClosureEntity).findOneByOrFail({ id })) as object);
   const results = (closure['results'] ?? {}) as Record<string, unknown>;
   const [offsetSet] = results['offsetSetId']
-    ? await ds.query(`SELECT id, taken_at, readings_cm, mean_cm, supersedes_id FROM offset_set WHERE id = $1`, [results['offsetSetId']]) : [];
+    ? await ds.query(`SELECT id, taken_at, readings_cm, mean_cm, supersedes_id FROM offset_set WHERE id = $1`, [results['offsetSetId']])
+    : [];
   const [profile] = results['profileId']
-    ? await ds.query(`SELECT id, name, to_char(valid_from, 'YYYY-MM-DD') AS valid_from, chamber_volume_cm3, loop_volume_cm3 FROM chamber_profile WHERE id = $1`, [results['profileId']]) : [];
+    ? await ds.query(
+        `SELECT id, name, to_char(valid_from, 'YYYY-MM-DD') AS valid_from, chamber_volume_cm3, loop_volume_cm3 FROM chamber_profile WHERE id = $1`,
+        [results['profileId']],
+      )
+    : [];
   const collarHistory: Record<string, unknown>[] = await ds.query(
     `SELECT c.id, c.started_at, c.flux_umol_m2_s, c.review_state, c.flags FROM closure c
-      WHERE c.collar_id = $1 AND NOT c.deleted ORDER BY c.started_at`, [closure['collarId']]);
+      WHERE c.collar_id = $1 AND NOT c.deleted ORDER BY c.started_at`,
+    [closure['collarId']],
+  );
   const replicates: Record<string, unknown>[] = await ds.query(
     `SELECT c.id, c.started_at, c.flux_umol_m2_s, c.review_state, c.flags, c.redo_of_id, c.settle_s, c.review_settle_s,
             c.series->'tS' AS t_s, c.series->'co2Ppm' AS co2_ppm
-       FROM closure c WHERE c.visit_id = $1 AND NOT c.deleted ORDER BY c.started_at`, [closure['visitId']]);
+       FROM closure c WHERE c.visit_id = $1 AND NOT c.deleted ORDER BY c.started_at`,
+    [closure['visitId']],
+  );
   // The site's chambers and analyzers, for the lab's correction of the closure's system.
   const profiles: { id: string; name: string; valid_from: string }[] = await ds.query(
     `SELECT id, name, to_char(valid_from, 'YYYY-MM-DD') AS valid_from FROM chamber_profile WHERE site_id = $1 AND NOT deleted ORDER BY name, valid_from`,
-    [closure['siteId']]);
+    [closure['siteId']],
+  );
   const analyzers: { id: string; name: string; serial: string }[] = await ds.query(
-    `SELECT id, name, serial FROM analyzer WHERE site_id = $1 AND NOT deleted ORDER BY name`, [closure['siteId']]);
+    `SELECT id, name, serial FROM analyzer WHERE site_id = $1 AND NOT deleted ORDER BY name`,
+    [closure['siteId']],
+  );
   // Where the lab may move the closure (a crew tapped the wrong collar): the other visits of its campaign.
   const moveTargets: { id: string; round: number; collar_id: string; code: string }[] = await ds.query(
     `SELECT v.id, v.round, v.collar_id, k.code FROM visit v JOIN collar k ON k.id = v.collar_id
-      WHERE v.campaign_id = $1 AND v.id <> $2 AND NOT v.deleted ORDER BY v.round, k.code LIMIT 5000`, [closure['campaignId'], closure['visitId']]);
+      WHERE v.campaign_id = $1 AND v.id <> $2 AND NOT v.deleted ORDER BY v.round, k.code LIMIT 5000`,
+    [closure['campaignId'], closure['visitId']],
+  );
   const counted = replicates.filter((r) => r['review_state'] !== 'rejected' && typeof r['flux_umol_m2_s'] === 'number');
   return {
     closure,
     context,
-    offsetSet: offsetSet ? { id: offsetSet.id, takenAt: offsetSet.taken_at.toISOString(), readingsCm: offsetSet.readings_cm,
-      meanCm: offsetSet.mean_cm, supersedesId: offsetSet.supersedes_id } : null,
-    profile: profile ? { id: profile.id, name: profile.name, validFrom: profile.valid_from,
-      chamberVolumeCm3: profile.chamber_volume_cm3, loopVolumeCm3: profile.loop_volume_cm3 } : null,
-    collarHistory: collarHistory.map((r) => ({ id: r['id'], startedAt: (r['started_at'] as Date).toISOString(),
-      fluxUmolM2S: r['flux_umol_m2_s'], reviewState: r['review_state'], flags: r['flags'] })),
-    replicates: replicates.map((r) => ({ id: r['id'], startedAt: (r['started_at'] as Date).toISOString(), fluxUmolM2S: r['flux_umol_m2_s'],
-      reviewState: r['review_state'], flags: r['flags'], redoOfId: r['redo_of_id'], settleS: r['review_settle_s'] ?? r['settle_s'],
-      tS: r['t_s'], co2Ppm: r['co2_ppm'] })),
+    offsetSet: offsetSet
+      ? {
+          id: offsetSet.id,
+          takenAt: offsetSet.taken_at.toISOString(),
+          readingsCm: offsetSet.readings_cm,
+          meanCm: offsetSet.mean_cm,
+          supersedesId: offsetSet.supersedes_id,
+        }
+      : null,
+    profile: profile
+      ? {
+          id: profile.id,
+          name: profile.name,
+          validFrom: profile.valid_from,
+          chamberVolumeCm3: profile.chamber_volume_cm3,
+          loopVolumeCm3: profile.loop_volume_cm3,
+        }
+      : null,
+    collarHistory: collarHistory.map((r) => ({
+      id: r['id'],
+      startedAt: (r['started_at'] as Date).toISOString(),
+      fluxUmolM2S: r['flux_umol_m2_s'],
+      reviewState: r['review_state'],
+      flags: r['flags'],
+    })),
+    replicates: replicates.map((r) => ({
+      id: r['id'],
+      startedAt: (r['started_at'] as Date).toISOString(),
+      fluxUmolM2S: r['flux_umol_m2_s'],
+      reviewState: r['review_state'],
+      flags: r['flags'],
+      redoOfId: r['redo_of_id'],
+      settleS: r['review_settle_s'] ?? r['settle_s'],
+      tS: r['t_s'],
+      co2Ppm: r['co2_ppm'],
+    })),
     replicateSpread: replicateSpread(counted.map((r) => r['flux_umol_m2_s'] as number)),
     history: await closureHistory(ds, id),
     moveTargets: moveTargets.map((v) => ({ visitId: v.id, round: v.round, collarId: v.collar_id, collarCode: v.code })),

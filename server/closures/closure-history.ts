@@ -17,7 +17,8 @@ export interface HistoryEntry {
 }
 
 // A corrected chamber profile or analyzer moves the flux like a review decision: kept the same way.
-const isReviewField = (f: string) => (CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f) || (CLOSURE_SYSTEM_FIELDS as readonly string[]).includes(f);
+const isReviewField = (f: string) =>
+  (CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f) || (CLOSURE_SYSTEM_FIELDS as readonly string[]).includes(f);
 
 /** A history value: large raw values (the series) are summarised by their sample count. */
 function historyValue(field: string, v: unknown): string {
@@ -50,8 +51,18 @@ async function insertRows(w: WrittenRecord, fields: string[], kind: HistoryEntry
   await w.em.query(
     `INSERT INTO closure_review_history (closure_id, site_id, user_id, kind, field, old_value, new_value, old_flux_umol_m2_s, new_flux_umol_m2_s)
      SELECT $1, $2, $3, $9, f, o, n, $7, $8 FROM unnest($4::text[], $5::jsonb[], $6::jsonb[]) AS t(f, o, n)`,
-    [w.id, w.after['siteId'], w.actorId, fields, fields.map((f) => historyValue(f, w.before![f])),
-      fields.map((f) => historyValue(f, w.after[f])), oldFlux, newFlux, kind]);
+    [
+      w.id,
+      w.after['siteId'],
+      w.actorId,
+      fields,
+      fields.map((f) => historyValue(f, w.before![f])),
+      fields.map((f) => historyValue(f, w.after[f])),
+      oldFlux,
+      newFlux,
+      kind,
+    ],
+  );
 }
 
 export async function closureHistory(ds: DataSource, closureId: string): Promise<HistoryEntry[]> {
@@ -59,11 +70,20 @@ export async function closureHistory(ds: DataSource, closureId: string): Promise
     `SELECT h.id, h.at, h.kind, h.field, h.old_value, h.new_value, h.old_flux_umol_m2_s, h.new_flux_umol_m2_s, h.user_id, h.job_id,
             u.display_name
        FROM closure_review_history h LEFT JOIN app_user u ON u.id = h.user_id
-      WHERE h.closure_id = $1 ORDER BY h.at, h.id`, [closureId]);
+      WHERE h.closure_id = $1 ORDER BY h.at, h.id`,
+    [closureId],
+  );
   return rows.map((r: Record<string, unknown>) => ({
-    id: Number(r['id']), at: (r['at'] as Date).toISOString(), kind: r['kind'] as HistoryEntry['kind'], field: r['field'] as string,
-    oldValue: r['old_value'], newValue: r['new_value'], oldFluxUmolM2S: r['old_flux_umol_m2_s'] as number | null,
-    newFluxUmolM2S: r['new_flux_umol_m2_s'] as number | null, userId: (r['user_id'] as string | null) ?? null,
-    userName: (r['display_name'] as string | null) ?? null, jobId: (r['job_id'] as string | null) ?? null,
+    id: Number(r['id']),
+    at: (r['at'] as Date).toISOString(),
+    kind: r['kind'] as HistoryEntry['kind'],
+    field: r['field'] as string,
+    oldValue: r['old_value'],
+    newValue: r['new_value'],
+    oldFluxUmolM2S: r['old_flux_umol_m2_s'] as number | null,
+    newFluxUmolM2S: r['new_flux_umol_m2_s'] as number | null,
+    userId: (r['user_id'] as string | null) ?? null,
+    userName: (r['display_name'] as string | null) ?? null,
+    jobId: (r['job_id'] as string | null) ?? null,
   }));
 }

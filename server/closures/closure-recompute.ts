@@ -45,26 +45,40 @@ const SCOPE_WHERE = `c.site_id = $1 AND NOT c.deleted AND ($2::uuid IS NULL OR c
     AND ((($3::date IS NULL OR (c.started_at AT TIME ZONE s.timezone)::date >= $3::date)
       AND ($4::timestamptz IS NULL OR c.started_at >= $4) AND ($5::timestamptz IS NULL OR c.started_at <= $5))
       OR ($6::text IS NOT NULL AND $6 = ANY(c.flags)))`;
-const scopeArgs = (scope: RecomputeScope) =>
-  [scope.siteId, scope.collarId ?? null, scope.fromDay ?? null, scope.fromAt ?? null, scope.toAt ?? null, scope.orFlagged ?? null];
+const scopeArgs = (scope: RecomputeScope) => [
+  scope.siteId,
+  scope.collarId ?? null,
+  scope.fromDay ?? null,
+  scope.fromAt ?? null,
+  scope.toAt ?? null,
+  scope.orFlagged ?? null,
+];
 
 /** Whether any stored closure falls in the scope (a closure written later computes with the inputs of its day itself). */
 export async function scopeHasClosures(db: Pick<DataSource, 'query'>, scope: RecomputeScope): Promise<boolean> {
-  const [row] = await db.query(`SELECT EXISTS (SELECT 1 FROM closure c JOIN site s ON s.id = c.site_id WHERE ${SCOPE_WHERE}) AS any`, scopeArgs(scope));
+  const [row] = await db.query(
+    `SELECT EXISTS (SELECT 1 FROM closure c JOIN site s ON s.id = c.site_id WHERE ${SCOPE_WHERE}) AS any`,
+    scopeArgs(scope),
+  );
   return row.any === true;
 }
 
-export async function recomputeClosures(ds: DataSource, scope: RecomputeScope,
-  opts: { jobId?: string | null; progress?: (done: number, total: number) => Promise<void> } = {}): Promise<RecomputeOutcome> {
+export async function recomputeClosures(
+  ds: DataSource,
+  scope: RecomputeScope,
+  opts: { jobId?: string | null; progress?: (done: number, total: number) => Promise<void> } = {},
+): Promise<RecomputeOutcome> {
   const where = SCOPE_WHERE;
   const args = scopeArgs(scope);
-  const [{ n }] = await ds.query(
-    `SELECT count(*)::int AS n FROM closure c JOIN site s ON s.id = c.site_id WHERE ${where}`, args);
+  const [{ n }] = await ds.query(`SELECT count(*)::int AS n FROM closure c JOIN site s ON s.id = c.site_id WHERE ${where}`, args);
   const out: RecomputeOutcome = { examined: 0, changed: 0, lockedKept: 0, changedIds: [] };
   const inputs = new ClosureInputs(ds);
-  const page = (after: string): Promise<Record<string, unknown>[]> => ds.query(
-    `SELECT ${COLUMNS} FROM closure c JOIN site s ON s.id = c.site_id JOIN campaign p ON p.id = c.campaign_id
-      WHERE ${where} AND c.id > $7 ORDER BY c.id LIMIT ${PAGE}`, [...args, after]);
+  const page = (after: string): Promise<Record<string, unknown>[]> =>
+    ds.query(
+      `SELECT ${COLUMNS} FROM closure c JOIN site s ON s.id = c.site_id JOIN campaign p ON p.id = c.campaign_id
+      WHERE ${where} AND c.id > $7 ORDER BY c.id LIMIT ${PAGE}`,
+      [...args, after],
+    );
   // A pipeline over three connections: while this page is fitted, the next one is read and the
   // previous one written, so PostgreSQL's work and the engine's overlap instead of taking turns.
   let next = page('00000000-0000-0000-0000-000000000000');
@@ -84,32 +98,66 @@ export async function recomputeClosures(ds: DataSource, scope: RecomputeScope,
   return out;
 }
 
-interface Update { id: string; rev: number; siteId: string; results: string; flags: string[]; flux: number | null; oldFlux: number | null; reviewed: boolean }
+interface Update {
+  id: string;
+  rev: number;
+  siteId: string;
+  results: string;
+  flags: string[];
+  flux: number | null;
+  oldFlux: number | null;
+  reviewed: boolean;
+}
 
-async function computePage(inputs: ClosureInputs, rows: Record<string, unknown>[], scope: RecomputeScope,
-  out: RecomputeOutcome): Promise<Update[]> {
+async function computePage(
+  inputs: ClosureInputs,
+  rows: Record<string, unknown>[],
+  scope: RecomputeScope,
+  out: RecomputeOutcome,
+): Promise<Update[]> {
   const closures = rows.map(wireOf);
   await inputs.preload(closures);
   const updates: Update[] = [];
   for (let i = 0; i < rows.length; i++) {
     const c = closures[i];
-    if (rows[i]['locked']) { out.lockedKept++; continue; }
+    if (rows[i]['locked']) {
+      out.lockedKept++;
+      continue;
+    }
     const next = resultsFor(c, await inputs.contextFor(c));
     const stored = (c['results'] ?? null) as Record<string, unknown> | null;
     const { recomputedSinceReview: marker, ...storedResults } = stored ?? {};
     const oldFlux = (c['fluxUmolM2S'] as number | null) ?? null;
-    const same = stored !== null && canonicalJson(storedResults) === canonicalJson(next.results)
-      && canonicalJson(c['flags']) === canonicalJson(next.flags) && oldFlux === next.fluxUmolM2S;
+    const same =
+      stored !== null &&
+      canonicalJson(storedResults) === canonicalJson(next.results) &&
+      canonicalJson(c['flags']) === canonicalJson(next.flags) &&
+      oldFlux === next.fluxUmolM2S;
     if (same) continue;
     const reviewed = c['reviewState'] !== 'unreviewed';
     const prior = marker as { oldFluxUmolM2S: number | null } | undefined;
-    const results = reviewed && (prior || oldFlux !== next.fluxUmolM2S)
-      ? { ...next.results, recomputedSinceReview: {
-        at: new Date().toISOString(), reason: scope.reason,
-        oldFluxUmolM2S: prior ? prior.oldFluxUmolM2S : oldFlux, newFluxUmolM2S: next.fluxUmolM2S } }
-      : next.results;
-    updates.push({ id: String(c['id']), rev: Number(c['rev']), siteId: String(c['siteId']), results: JSON.stringify(results),
-      flags: next.flags, flux: next.fluxUmolM2S, oldFlux, reviewed });
+    const results =
+      reviewed && (prior || oldFlux !== next.fluxUmolM2S)
+        ? {
+            ...next.results,
+            recomputedSinceReview: {
+              at: new Date().toISOString(),
+              reason: scope.reason,
+              oldFluxUmolM2S: prior ? prior.oldFluxUmolM2S : oldFlux,
+              newFluxUmolM2S: next.fluxUmolM2S,
+            },
+          }
+        : next.results;
+    updates.push({
+      id: String(c['id']),
+      rev: Number(c['rev']),
+      siteId: String(c['siteId']),
+      results: JSON.stringify(results),
+      flags: next.flags,
+      flux: next.fluxUmolM2S,
+      oldFlux,
+      reviewed,
+    });
   }
   return updates;
 }
@@ -122,26 +170,47 @@ async function writeUpdates(em: EntityManager, updates: Update[], jobId: string 
        FROM unnest($1::uuid[], $2::bigint[], $3::text[], $4::text[], $5::float8[]) AS u(id, rev, results, flags, flux)
       WHERE c.id = u.id AND c.rev = u.rev
       RETURNING c.id, c.rev, c.site_id`,
-    [updates.map((u) => u.id), updates.map((u) => u.rev), updates.map((u) => u.results),
-      updates.map((u) => u.flags.join(',')), updates.map((u) => u.flux)]);
+    [
+      updates.map((u) => u.id),
+      updates.map((u) => u.rev),
+      updates.map((u) => u.results),
+      updates.map((u) => u.flags.join(',')),
+      updates.map((u) => u.flux),
+    ],
+  );
   // TypeORM answers an UPDATE … RETURNING on PostgreSQL as [rows, affected count].
   const written: { id: string; rev: string; site_id: string }[] = Array.isArray(answer[0]) ? answer[0] : answer;
   const byId = new Map(updates.map((u) => [u.id, u]));
   const changes = new ChangeBuffer();
   for (const w of written) {
-    changes.add({ entity: 'closure', recordId: w.id, rev: Number(w.rev), siteId: w.site_id,
-      fields: ['results', 'flags', 'fluxUmolM2S'], deleted: false, userId: null, deviceId: null });
+    changes.add({
+      entity: 'closure',
+      recordId: w.id,
+      rev: Number(w.rev),
+      siteId: w.site_id,
+      fields: ['results', 'flags', 'fluxUmolM2S'],
+      deleted: false,
+      userId: null,
+      deviceId: null,
+    });
   }
   const ids = written.map((w) => w.id);
   // History for reviewed closures only: their decision stands on a flux that has now moved. An
   // unreviewed closure's new flux is in the change log like any other derived value.
   const reviewedIds = ids.filter((id) => byId.get(id)!.reviewed);
-  if (reviewedIds.length) await em.query(
-    `INSERT INTO closure_review_history (closure_id, site_id, user_id, kind, field, old_value, new_value, old_flux_umol_m2_s, new_flux_umol_m2_s, job_id)
+  if (reviewedIds.length)
+    await em.query(
+      `INSERT INTO closure_review_history (closure_id, site_id, user_id, kind, field, old_value, new_value, old_flux_umol_m2_s, new_flux_umol_m2_s, job_id)
      SELECT u.id, u.site, NULL, 'recompute', 'fluxUmolM2S', to_jsonb(u.old), to_jsonb(u.new), u.old, u.new, $5
        FROM unnest($1::uuid[], $2::uuid[], $3::float8[], $4::float8[]) AS u(id, site, old, new)`,
-    [reviewedIds, reviewedIds.map((id) => byId.get(id)!.siteId), reviewedIds.map((id) => byId.get(id)!.oldFlux),
-      reviewedIds.map((id) => byId.get(id)!.flux), jobId]);
+      [
+        reviewedIds,
+        reviewedIds.map((id) => byId.get(id)!.siteId),
+        reviewedIds.map((id) => byId.get(id)!.oldFlux),
+        reviewedIds.map((id) => byId.get(id)!.flux),
+        jobId,
+      ],
+    );
   await changes.flush(em);
   out.changed += written.length;
   for (const id of ids) if (out.changedIds.length < MAX_LISTED) out.changedIds.push(id);
@@ -149,10 +218,23 @@ async function writeUpdates(em: EntityManager, updates: Update[], jobId: string 
 
 function wireOf(r: Record<string, unknown>): Record<string, unknown> {
   return {
-    id: r['id'], rev: Number(r['rev']), siteId: r['site_id'], collarId: r['collar_id'], analyzerId: r['analyzer_id'],
-    profileId: r['profile_id'], visitId: r['visit_id'],
-    startedAt: (r['started_at'] as Date).toISOString(), settleS: r['settle_s'], series: r['series'], reviewState: r['review_state'],
-    reviewSettleS: r['review_settle_s'], reviewWindowEndS: r['review_window_end_s'], reviewModel: r['review_model'], reviewExclusions: r['review_exclusions'],
-    results: r['results'], flags: r['flags'], fluxUmolM2S: r['flux_umol_m2_s'],
+    id: r['id'],
+    rev: Number(r['rev']),
+    siteId: r['site_id'],
+    collarId: r['collar_id'],
+    analyzerId: r['analyzer_id'],
+    profileId: r['profile_id'],
+    visitId: r['visit_id'],
+    startedAt: (r['started_at'] as Date).toISOString(),
+    settleS: r['settle_s'],
+    series: r['series'],
+    reviewState: r['review_state'],
+    reviewSettleS: r['review_settle_s'],
+    reviewWindowEndS: r['review_window_end_s'],
+    reviewModel: r['review_model'],
+    reviewExclusions: r['review_exclusions'],
+    results: r['results'],
+    flags: r['flags'],
+    fluxUmolM2S: r['flux_umol_m2_s'],
   };
 }

@@ -14,13 +14,20 @@ export interface ClosureResults {
  * those or left points out (`review`). The flux shown is the review's when there is one.
  */
 export function resultsFor(c: Record<string, unknown>, ctx: ClosureContext): ClosureResults {
-  const plan = planClosureFit({ startedAt: String(c['startedAt']), profileId: (c['profileId'] as string | null) ?? null, series: c['series'] as ClosureSeries }, ctx);
+  const plan = planClosureFit(
+    { startedAt: String(c['startedAt']), profileId: (c['profileId'] as string | null) ?? null, series: c['series'] as ClosureSeries },
+    ctx,
+  );
   const raw = plan.fit({ settleS: Number(c['settleS']) });
   const excluded = ((c['reviewExclusions'] as { index: number }[] | null | undefined) ?? []).map((e) => e.index);
   const reviewed = c['reviewSettleS'] != null || c['reviewWindowEndS'] != null || c['reviewModel'] != null || excluded.length > 0;
   const review = reviewed
-    ? plan.fit({ settleS: Number(c['reviewSettleS'] ?? c['settleS']), windowEndS: (c['reviewWindowEndS'] as number | null) ?? null,
-      model: (c['reviewModel'] as 'linear' | 'exponential' | 'quadratic' | null) ?? 'auto', excludedIndices: excluded })
+    ? plan.fit({
+        settleS: Number(c['reviewSettleS'] ?? c['settleS']),
+        windowEndS: (c['reviewWindowEndS'] as number | null) ?? null,
+        model: (c['reviewModel'] as 'linear' | 'exponential' | 'quadratic' | null) ?? 'auto',
+        excludedIndices: excluded,
+      })
     : null;
   const shown = review ?? raw;
   const { profile: chosen, temp } = plan;
@@ -28,14 +35,22 @@ export function resultsFor(c: Record<string, unknown>, ctx: ClosureContext): Clo
   return {
     results: {
       engineVersion,
-      volumeCm3: v?.volumeCm3 ?? null, areaCm2: v?.areaCm2 ?? null, meanOffsetCm: v?.meanOffsetCm ?? null,
-      offsetSetId: v ? (v.offsetSet as { id?: string }).id ?? null : null,
-      profileId: v ? (v.profile as { id?: string }).id ?? null : null,
-      profileName: chosen.ok ? chosen.profile.name : null, profileSource: chosen.ok ? chosen.source : null,
-      ambientPpm: ctx.ambientPpm, ambientCheckId: ctx.ambient?.checkId ?? null, ambientAt: ctx.ambient?.at ?? null,
-      airTempSource: temp.ok ? temp.source : null, airTempC: temp.ok && typeof temp.tempC === 'number' ? temp.tempC : null,
-      pressureIsDefault: plan.pressureIsDefault, slopeBasis: ctx.slopeBasis,
-      raw: finite(raw), review: review ? finite(review) : null,
+      volumeCm3: v?.volumeCm3 ?? null,
+      areaCm2: v?.areaCm2 ?? null,
+      meanOffsetCm: v?.meanOffsetCm ?? null,
+      offsetSetId: v ? ((v.offsetSet as { id?: string }).id ?? null) : null,
+      profileId: v ? ((v.profile as { id?: string }).id ?? null) : null,
+      profileName: chosen.ok ? chosen.profile.name : null,
+      profileSource: chosen.ok ? chosen.source : null,
+      ambientPpm: ctx.ambientPpm,
+      ambientCheckId: ctx.ambient?.checkId ?? null,
+      ambientAt: ctx.ambient?.at ?? null,
+      airTempSource: temp.ok ? temp.source : null,
+      airTempC: temp.ok && typeof temp.tempC === 'number' ? temp.tempC : null,
+      pressureIsDefault: plan.pressureIsDefault,
+      slopeBasis: ctx.slopeBasis,
+      raw: finite(raw),
+      review: review ? finite(review) : null,
     },
     flags: shown.flags,
     fluxUmolM2S: shown.selected && Number.isFinite(shown.selected.fluxUmolM2S) ? shown.selected.fluxUmolM2S : null,

@@ -12,14 +12,21 @@ export async function closureWarnings(em: EntityManager, c: Record<string, unkno
   const [a] = c['analyzerId'] ? await em.query(`SELECT range_min_ppm, range_max_ppm FROM analyzer WHERE id = $1`, [c['analyzerId']]) : [];
   if (a) {
     const outside = series.co2Ppm.filter((v) => typeof v === 'number' && (v < a.range_min_ppm || v > a.range_max_ppm)).length;
-    if (outside) out.push({ path: 'series.co2Ppm', message: `${outside} CO2 values are outside the analyzer's calibrated range (${a.range_min_ppm}–${a.range_max_ppm} µmol/mol)` });
+    if (outside)
+      out.push({
+        path: 'series.co2Ppm',
+        message: `${outside} CO2 values are outside the analyzer's calibrated range (${a.range_min_ppm}–${a.range_max_ppm} µmol/mol)`,
+      });
   }
   const [s] = await em.query(`SELECT elevation_m FROM site WHERE id = $1`, [c['siteId']]);
   const p = series.pressureKpa?.find((v): v is number => typeof v === 'number');
   if (s?.elevation_m != null && p !== undefined) {
     const expected = pressureFromElevationKpa(s.elevation_m);
     if (Math.abs(p - expected) > PRESSURE_WARN_KPA) {
-      out.push({ path: 'series.pressureKpa', message: `Pressure ${p} kPa is more than ${PRESSURE_WARN_KPA} kPa from ${expected.toFixed(1)} kPa expected at ${s.elevation_m} m` });
+      out.push({
+        path: 'series.pressureKpa',
+        message: `Pressure ${p} kPa is more than ${PRESSURE_WARN_KPA} kPa from ${expected.toFixed(1)} kPa expected at ${s.elevation_m} m`,
+      });
     }
   }
   return out;

@@ -26,7 +26,10 @@ export class ClosureEntity extends SyncedColumns {
   @Column({ type: 'double precision', name: 'review_window_end_s', nullable: true }) reviewWindowEndS!: number | null;
   @Column({ type: 'text', name: 'review_model', nullable: true }) reviewModel!: string | null;
   /** Samples the lab left out of the fit ({index, reason}); the series keeps them. */
-  @Column({ type: 'jsonb', name: 'review_exclusions', default: () => "'[]'::jsonb" }) reviewExclusions!: { index: number; reason: string }[];
+  @Column({ type: 'jsonb', name: 'review_exclusions', default: () => "'[]'::jsonb" }) reviewExclusions!: {
+    index: number;
+    reason: string;
+  }[];
   /** Engine output for the raw fields and for the review fields; derived, never sent by a client. */
   @Column({ type: 'jsonb', name: 'results', nullable: true }) results!: Record<string, unknown> | null;
   @Column({ type: 'text', name: 'flags', array: true, default: () => "'{}'" }) flags!: string[];

@@ -16,14 +16,29 @@ type Restore = { indices: number[] };
  * stays possible, the flux and flags recomputed by the engine, a history row with who, when, the
  * points and the reason). The request is checked first so its errors name its own indices.
  */
-export async function changeExclusions(ds: DataSource, user: SessionUser, id: string, change: { exclude: Exclude } | { restore: Restore }): Promise<WriteOutcome> {
+export async function changeExclusions(
+  ds: DataSource,
+  user: SessionUser,
+  id: string,
+  change: { exclude: Exclude } | { restore: Restore },
+): Promise<WriteOutcome> {
   return ds.transaction(async (em) => {
-    const c = await em.getRepository(ClosureEntity).createQueryBuilder('c').setLock('pessimistic_write').where('c.id = :id', { id }).getOne();
+    const c = await em
+      .getRepository(ClosureEntity)
+      .createQueryBuilder('c')
+      .setLock('pessimistic_write')
+      .where('c.id = :id', { id })
+      .getOne();
     if (!c || c.deleted) throw notFound(`No closure ${id}`);
     const current: PointExclusion[] = c.reviewExclusions ?? [];
     const next = 'exclude' in change ? excluded(c, current, change.exclude) : restored(current, change.restore);
     const changes = new ChangeBuffer();
-    const outcome = await writeRecord(em, user, { entity: 'closure', id, baseRev: Number(c.rev), op: 'upsert', fields: { reviewExclusions: next } }, changes);
+    const outcome = await writeRecord(
+      em,
+      user,
+      { entity: 'closure', id, baseRev: Number(c.rev), op: 'upsert', fields: { reviewExclusions: next } },
+      changes,
+    );
     if (outcome.status === 'applied' || outcome.status === 'merged') await changes.flush(em);
     return outcome;
   });
@@ -31,13 +46,26 @@ export async function changeExclusions(ds: DataSource, user: SessionUser, id: st
 
 function excluded(c: ClosureEntity, current: PointExclusion[], req: Exclude): PointExclusion[] {
   const already = new Set(current.map((e) => e.index));
-  const fields = req.indices.flatMap((i, k) => (already.has(i) ? [{ path: `indices.${k}`, message: `Point ${i} is already left out` }] : []));
+  const fields = req.indices.flatMap((i, k) =>
+    already.has(i) ? [{ path: `indices.${k}`, message: `Point ${i} is already left out` }] : [],
+  );
   if (fields.length) throw new AppError(400, 'Some of these points are already left out of the fit', fields);
-  const series = c.series as { tS: (number | null)[]; co2Ppm: (number | null)[]; h2oMmolMol?: (number | null)[] | null; co2IsDry?: boolean };
-  const problems = exclusionProblems(series, c.reviewSettleS ?? c.settleS, c.reviewWindowEndS, [...current.map((e) => e.index), ...req.indices]);
+  const series = c.series as {
+    tS: (number | null)[];
+    co2Ppm: (number | null)[];
+    h2oMmolMol?: (number | null)[] | null;
+    co2IsDry?: boolean;
+  };
+  const problems = exclusionProblems(series, c.reviewSettleS ?? c.settleS, c.reviewWindowEndS, [
+    ...current.map((e) => e.index),
+    ...req.indices,
+  ]);
   if (problems.length) {
-    throw new AppError(400, problems.length === 1 ? problems[0].message : 'These points cannot be left out',
-      problems.map((p) => ({ path: p.index === null ? 'indices' : `indices.${p.index - current.length}`, message: p.message })));
+    throw new AppError(
+      400,
+      problems.length === 1 ? problems[0].message : 'These points cannot be left out',
+      problems.map((p) => ({ path: p.index === null ? 'indices' : `indices.${p.index - current.length}`, message: p.message })),
+    );
   }
   return [...current, ...req.indices.map((index) => ({ index, reason: req.reason }))].sort((a, b) => a.index - b.index);
 }

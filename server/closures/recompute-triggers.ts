@@ -32,16 +32,28 @@ export async function recomputeScopeFor(w: WrittenRecord): Promise<RecomputeScop
       // them (they borrowed a later one, flagged offset-after); a superseded set, those of its day too.
       const [s] = await w.em.query(`SELECT timezone FROM site WHERE id = $1`, [siteId]);
       const superseded = a['supersedesId']
-        ? (await w.em.query(`SELECT taken_at FROM offset_set WHERE id = $1`, [a['supersedesId']]))[0]?.taken_at ?? null : null;
-      const days = [a['takenAt'], w.before?.['takenAt'], superseded].filter((t) => t != null)
-        .map((t) => localDay(t instanceof Date ? t : new Date(String(t)), s?.timezone ?? 'UTC')).sort();
-      return { siteId, collarId: String(a['collarId']), fromDay: days[0] ?? null, orFlagged: 'offset-after',
-        reason: a['supersedesId'] ? 'offset set superseded' : `offset set ${w.action === 'delete' ? 'removed' : 'added'}` };
+        ? ((await w.em.query(`SELECT taken_at FROM offset_set WHERE id = $1`, [a['supersedesId']]))[0]?.taken_at ?? null)
+        : null;
+      const days = [a['takenAt'], w.before?.['takenAt'], superseded]
+        .filter((t) => t != null)
+        .map((t) => localDay(t instanceof Date ? t : new Date(String(t)), s?.timezone ?? 'UTC'))
+        .sort();
+      return {
+        siteId,
+        collarId: String(a['collarId']),
+        fromDay: days[0] ?? null,
+        orFlagged: 'offset-after',
+        reason: a['supersedesId'] ? 'offset set superseded' : `offset set ${w.action === 'delete' ? 'removed' : 'added'}`,
+      };
     }
     case 'chamberProfile': {
       if (!changedAny(PROFILE_INPUTS)) return null;
       const days = [a['validFrom'], w.before?.['validFrom']].filter((d): d is string => typeof d === 'string').sort();
-      return { siteId, fromDay: days[0] ?? null, reason: w.action === 'create' ? 'chamber profile version added' : 'chamber profile changed' };
+      return {
+        siteId,
+        fromDay: days[0] ?? null,
+        reason: w.action === 'create' ? 'chamber profile version added' : 'chamber profile changed',
+      };
     }
     case 'collar':
       // A is the collar's own inside area: a corrected diameter or side moves its closures' fluxes.
@@ -53,14 +65,23 @@ export async function recomputeScopeFor(w: WrittenRecord): Promise<RecomputeScop
       // A reading serves the closures within AMBIENT_MAX_GAP_H of it (chamber-system.ts); a moved reading, those of its old time too.
       const times = [a['at'], w.before?.['at']].filter((t): t is string => typeof t === 'string').map((t) => Date.parse(t));
       const gapMs = AMBIENT_MAX_GAP_H * 3600_000;
-      return { siteId, fromAt: new Date(Math.min(...times) - gapMs).toISOString(), toAt: new Date(Math.max(...times) + gapMs).toISOString(),
-        reason: 'ambient reading recorded' };
+      return {
+        siteId,
+        fromAt: new Date(Math.min(...times) - gapMs).toISOString(),
+        toAt: new Date(Math.max(...times) + gapMs).toISOString(),
+        reason: 'ambient reading recorded',
+      };
     }
     case 'visit':
       // The visit's air temperature stands in for a missing chamber temperature.
-      return w.action === 'update' && w.before && !sameValue((w.before['conditions'] as { airTempC?: unknown } | null)?.airTempC ?? null,
-        (a['conditions'] as { airTempC?: unknown } | null)?.airTempC ?? null)
-        ? { siteId, collarId: String(a['collarId']), reason: 'visit air temperature changed' } : null;
+      return w.action === 'update' &&
+        w.before &&
+        !sameValue(
+          (w.before['conditions'] as { airTempC?: unknown } | null)?.airTempC ?? null,
+          (a['conditions'] as { airTempC?: unknown } | null)?.airTempC ?? null,
+        )
+        ? { siteId, collarId: String(a['collarId']), reason: 'visit air temperature changed' }
+        : null;
     default:
       return null;
   }
@@ -70,10 +91,18 @@ export async function recomputeScopeFor(w: WrittenRecord): Promise<RecomputeScop
 export async function requestRecompute(w: WrittenRecord): Promise<void> {
   const scope = await recomputeScopeFor(w);
   if (!scope || !(await scopeHasClosures(w.em, scope))) return;
-  await enqueueJob(w.em, RECOMPUTE_JOB, { ...scope }, {
-    dedupeKey: [RECOMPUTE_JOB, scope.siteId, scope.collarId, scope.fromDay, scope.fromAt, scope.toAt, scope.orFlagged].map((x) => x ?? '*').join(':'),
-    siteId: scope.siteId, createdBy: w.actorId,
-  });
+  await enqueueJob(
+    w.em,
+    RECOMPUTE_JOB,
+    { ...scope },
+    {
+      dedupeKey: [RECOMPUTE_JOB, scope.siteId, scope.collarId, scope.fromDay, scope.fromAt, scope.toAt, scope.orFlagged]
+        .map((x) => x ?? '*')
+        .join(':'),
+      siteId: scope.siteId,
+      createdBy: w.actorId,
+    },
+  );
 }
 
 export function defineRecomputeJob(): void {
@@ -85,5 +114,10 @@ export function defineRecomputeJob(): void {
 
 /** A recompute asked for from the Bench (e.g. after a fix outside the app), recorded like any other. */
 export async function requestSiteRecompute(ds: DataSource, siteId: string, userId: string): Promise<string> {
-  return enqueueJob(ds, RECOMPUTE_JOB, { siteId, reason: 'asked for from the Bench' }, { siteId, createdBy: userId, dedupeKey: `${RECOMPUTE_JOB}:${siteId}:*:*` });
+  return enqueueJob(
+    ds,
+    RECOMPUTE_JOB,
+    { siteId, reason: 'asked for from the Bench' },
+    { siteId, createdBy: userId, dedupeKey: `${RECOMPUTE_JOB}:${siteId}:*:*` },
+  );
 }

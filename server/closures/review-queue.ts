@@ -18,7 +18,11 @@ export const queueFilterSchema = z.object({
   treatmentId: z.string().uuid().optional(),
   plotId: z.string().uuid().optional(),
   collarId: z.string().uuid().optional(),
-  flag: z.enum(Object.keys(QC_FLAGS) as [string, ...string[]]).or(z.literal('none')).or(z.literal('any')).optional(),
+  flag: z
+    .enum(Object.keys(QC_FLAGS) as [string, ...string[]])
+    .or(z.literal('none'))
+    .or(z.literal('any'))
+    .optional(),
   reviewState: z.enum(REVIEW_STATES).optional(),
   /** At most this many days since the collar was installed or reseated (settling disturbance). */
   installedWithinDays: days.optional(),
@@ -46,7 +50,10 @@ const pageSchema = z.object({
  */
 function queueSql(filter: QueueFilter & { id?: string }, readable: string[] | null) {
   const args: unknown[] = [];
-  const p = (v: unknown) => { args.push(v); return `$${args.length}`; };
+  const p = (v: unknown) => {
+    args.push(v);
+    return `$${args.length}`;
+  };
   const where: string[] = ['NOT c.deleted'];
   if (readable) where.push(`c.site_id = ANY(${p(readable)}::uuid[])`);
   if (filter.id) where.push(`c.id = ${p(filter.id)}`);
@@ -65,7 +72,8 @@ function queueSql(filter: QueueFilter & { id?: string }, readable: string[] | nu
   const ctx: string[] = [];
   if (filter.installedWithinDays !== undefined) ctx.push(`days_since_install <= ${p(filter.installedWithinDays)}`);
   if (filter.clippedWithinDays !== undefined) ctx.push(`days_since_clipping <= ${p(filter.clippedWithinDays)}`);
-  if (filter.calibrationOlderThanDays !== undefined) ctx.push(`(calibration_age_days IS NULL OR calibration_age_days >= ${p(filter.calibrationOlderThanDays)})`);
+  if (filter.calibrationOlderThanDays !== undefined)
+    ctx.push(`(calibration_age_days IS NULL OR calibration_age_days >= ${p(filter.calibrationOlderThanDays)})`);
   if (filter.driftAtLeastPpm !== undefined) ctx.push(`abs(calibration_drift_ppm) >= ${p(filter.driftAtLeastPpm)}`);
   if (filter.leakFailed !== undefined) ctx.push(`leak_failed = ${p(filter.leakFailed)}`);
   const sql = `
@@ -120,22 +128,53 @@ function queueSql(filter: QueueFilter & { id?: string }, readable: string[] | nu
 }
 
 export interface QueueItem {
-  id: string; rev: number; siteId: string; campaignId: string; visitId: string; collarId: string; startedAt: string; day: string;
-  settleS: number; flags: string[]; fluxUmolM2S: number | null; reviewState: string; reviewReason: string | null;
-  reviewSettleS: number | null; reviewWindowEndS: number | null; reviewModel: string | null; redoOfId: string | null;
+  id: string;
+  rev: number;
+  siteId: string;
+  campaignId: string;
+  visitId: string;
+  collarId: string;
+  startedAt: string;
+  day: string;
+  settleS: number;
+  flags: string[];
+  fluxUmolM2S: number | null;
+  reviewState: string;
+  reviewReason: string | null;
+  reviewSettleS: number | null;
+  reviewWindowEndS: number | null;
+  reviewModel: string | null;
+  redoOfId: string | null;
   recomputedSinceReview: { oldFluxUmolM2S: number | null; newFluxUmolM2S: number | null; at: string; reason: string } | null;
   /** Raw data changed after the last review decision, which sent the closure back to review. */
   changedSinceReview: ChangedMark | null;
-  collarCode: string; plotCode: string; blockCode: string | null; treatmentCode: string | null; campaignName: string;
-  campaignLocked: boolean; round: number; rain24h: boolean; daysSinceInstall: number | null; daysSinceClipping: number | null;
-  calibrationAgeDays: number | null; calibrationDriftPpm: number | null; leakFailed: boolean;
+  collarCode: string;
+  plotCode: string;
+  blockCode: string | null;
+  treatmentCode: string | null;
+  campaignName: string;
+  campaignLocked: boolean;
+  round: number;
+  rain24h: boolean;
+  daysSinceInstall: number | null;
+  daysSinceClipping: number | null;
+  calibrationAgeDays: number | null;
+  calibrationDriftPpm: number | null;
+  leakFailed: boolean;
   /** The analyzer's interval, the calibration's larger drift in % of its span gas, and the site's limit for it. */
-  calibrationIntervalDays: number | null; calibrationDriftPct: number | null; calibrationDriftLimitPct: number;
+  calibrationIntervalDays: number | null;
+  calibrationDriftPct: number | null;
+  calibrationDriftLimitPct: number;
   /** The site's IANA zone: the Bench shows every time of the closure in it. */
   timezone: string;
 }
 
-export interface ChangedMark { at: string; userName: string | null; fields: string[]; previousState: string | null }
+export interface ChangedMark {
+  at: string;
+  userName: string | null;
+  fields: string[];
+  previousState: string | null;
+}
 
 const readableSites = (user: SessionUser) => (seesAllSites(user.roles) ? null : user.siteIds);
 
@@ -143,8 +182,11 @@ export async function reviewQueue(ds: DataSource, user: SessionUser, rawQuery: u
   const filter = parse(queueFilterSchema, rawQuery, 'Some queue filters are not valid');
   const page = parse(pageSchema, rawQuery, 'Some queue filters are not valid');
   const { sql, args, p } = queueSql(filter, readableSites(user));
-  const rows: Record<string, unknown>[] = await ds.query(`${sql} ORDER BY started_at, id LIMIT ${p(page.limit)} OFFSET ${p(page.offset)}`, args);
-  const total = rows.length ? Number(rows[0]['total']) : page.offset ? (await countQueue(ds, filter, user)) : 0;
+  const rows: Record<string, unknown>[] = await ds.query(
+    `${sql} ORDER BY started_at, id LIMIT ${p(page.limit)} OFFSET ${p(page.offset)}`,
+    args,
+  );
+  const total = rows.length ? Number(rows[0]['total']) : page.offset ? await countQueue(ds, filter, user) : 0;
   return { items: rows.map(toItem), total, limit: page.limit, offset: page.offset };
 }
 
@@ -162,7 +204,12 @@ export async function queueItem(ds: DataSource, user: SessionUser, id: string): 
 }
 
 /** Ids (and revisions) of every closure a filter selects, for bulk actions; capped. */
-export async function queueIds(ds: DataSource, user: SessionUser, filter: QueueFilter, cap: number): Promise<{ id: string; rev: number }[]> {
+export async function queueIds(
+  ds: DataSource,
+  user: SessionUser,
+  filter: QueueFilter,
+  cap: number,
+): Promise<{ id: string; rev: number }[]> {
   const { sql, args, p } = queueSql(filter, readableSites(user));
   const rows: { id: string; rev: string }[] = await ds.query(`${sql} ORDER BY started_at, id LIMIT ${p(cap)}`, args);
   return rows.map((r) => ({ id: r.id, rev: Number(r.rev) }));
@@ -171,21 +218,45 @@ export async function queueIds(ds: DataSource, user: SessionUser, filter: QueueF
 function toItem(r: Record<string, unknown>): QueueItem {
   const num = (v: unknown) => (v === null || v === undefined ? null : Number(v));
   return {
-    id: r['id'] as string, rev: Number(r['rev']), siteId: r['site_id'] as string, campaignId: r['campaign_id'] as string,
-    visitId: r['visit_id'] as string, collarId: r['collar_id'] as string, startedAt: (r['started_at'] as Date).toISOString(),
-    day: pgDay(r['day']), settleS: Number(r['settle_s']), flags: r['flags'] as string[], fluxUmolM2S: num(r['flux_umol_m2_s']),
-    reviewState: r['review_state'] as string, reviewReason: (r['review_reason'] as string | null) ?? null,
-    reviewSettleS: num(r['review_settle_s']), reviewWindowEndS: num(r['review_window_end_s']),
-    reviewModel: (r['review_model'] as string | null) ?? null, redoOfId: (r['redo_of_id'] as string | null) ?? null,
+    id: r['id'] as string,
+    rev: Number(r['rev']),
+    siteId: r['site_id'] as string,
+    campaignId: r['campaign_id'] as string,
+    visitId: r['visit_id'] as string,
+    collarId: r['collar_id'] as string,
+    startedAt: (r['started_at'] as Date).toISOString(),
+    day: pgDay(r['day']),
+    settleS: Number(r['settle_s']),
+    flags: r['flags'] as string[],
+    fluxUmolM2S: num(r['flux_umol_m2_s']),
+    reviewState: r['review_state'] as string,
+    reviewReason: (r['review_reason'] as string | null) ?? null,
+    reviewSettleS: num(r['review_settle_s']),
+    reviewWindowEndS: num(r['review_window_end_s']),
+    reviewModel: (r['review_model'] as string | null) ?? null,
+    redoOfId: (r['redo_of_id'] as string | null) ?? null,
     recomputedSinceReview: (r['recomputed_since_review'] as QueueItem['recomputedSinceReview']) ?? null,
     changedSinceReview: (r['changed_since_review'] as ChangedMark | null) ?? null,
-    collarCode: r['collar_code'] as string, plotCode: r['plot_code'] as string, blockCode: (r['block_code'] as string | null) ?? null,
-    treatmentCode: (r['treatment_code'] as string | null) ?? null, campaignName: r['campaign_name'] as string,
-    campaignLocked: Boolean(r['campaign_locked']), round: Number(r['round']), rain24h: Boolean(r['rain24h']),
-    daysSinceInstall: num(r['days_since_install']), daysSinceClipping: num(r['days_since_clipping']),
-    calibrationAgeDays: num(r['calibration_age_days']), calibrationDriftPpm: num(r['calibration_drift_ppm']), leakFailed: Boolean(r['leak_failed']),
-    calibrationIntervalDays: num(r['calibration_interval_days']), calibrationDriftLimitPct: Number(r['calibration_drift_limit_pct']),
+    collarCode: r['collar_code'] as string,
+    plotCode: r['plot_code'] as string,
+    blockCode: (r['block_code'] as string | null) ?? null,
+    treatmentCode: (r['treatment_code'] as string | null) ?? null,
+    campaignName: r['campaign_name'] as string,
+    campaignLocked: Boolean(r['campaign_locked']),
+    round: Number(r['round']),
+    rain24h: Boolean(r['rain24h']),
+    daysSinceInstall: num(r['days_since_install']),
+    daysSinceClipping: num(r['days_since_clipping']),
+    calibrationAgeDays: num(r['calibration_age_days']),
+    calibrationDriftPpm: num(r['calibration_drift_ppm']),
+    leakFailed: Boolean(r['leak_failed']),
+    calibrationIntervalDays: num(r['calibration_interval_days']),
+    calibrationDriftLimitPct: Number(r['calibration_drift_limit_pct']),
     timezone: r['site_timezone'] as string,
-    calibrationDriftPct: worstDriftPct({ driftPpm: num(r['calibration_drift_ppm']), zeroDriftPpm: num(r['calibration_zero_drift_ppm']), spanGasPpm: num(r['calibration_span_gas_ppm']) }),
+    calibrationDriftPct: worstDriftPct({
+      driftPpm: num(r['calibration_drift_ppm']),
+      zeroDriftPpm: num(r['calibration_zero_drift_ppm']),
+      spanGasPpm: num(r['calibration_span_gas_ppm']),
+    }),
   };
 }

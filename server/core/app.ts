@@ -108,12 +108,14 @@ function serveApp(app: Express, dir: string): void {
     return;
   }
   // Hashed bundles may be cached for long; index.html and the service worker files must not be.
-  app.use(express.static(dir, {
-    index: false,
-    setHeaders: (res, file) => {
-      if (/\.(html|webmanifest)$|ngsw/.test(file)) res.setHeader('Cache-Control', 'no-cache');
-    },
-  }));
+  app.use(
+    express.static(dir, {
+      index: false,
+      setHeaders: (res, file) => {
+        if (/\.(html|webmanifest)$|ngsw/.test(file)) res.setHeader('Cache-Control', 'no-cache');
+      },
+    }),
+  );
   app.get('/{*splat}', (_req, res) => {
     res.setHeader('Cache-Control', 'no-cache');
     res.sendFile(index);

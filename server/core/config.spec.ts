@@ -10,7 +10,7 @@ describe('server configuration', () => {
       expect(load({ APP_ORIGIN: 'https://fluxwalk.example.org/' }).appOrigin).toBe('https://fluxwalk.example.org');
     });
 
-    it('when APP_ORIGIN is unset, then links use the server\'s own configured address (loopback for a wildcard bind)', () => {
+    it("when APP_ORIGIN is unset, then links use the server's own configured address (loopback for a wildcard bind)", () => {
       expect(load({ PORT: '8123' }).appOrigin).toBe('http://127.0.0.1:8123');
       expect(load({ HOST: '0.0.0.0', PORT: '9000' }).appOrigin).toBe('http://127.0.0.1:9000');
       expect(load({ HOST: 'fw.lan', PORT: '80' }).appOrigin).toBe('http://fw.lan:80');
@@ -22,7 +22,13 @@ describe('server configuration', () => {
     });
 
     it('when APP_ORIGIN is not a bare http(s) origin, then the message names the expected form', () => {
-      for (const bad of ['fluxwalk.example.org', 'ftp://fw.example.org', 'https://fw.example.org/app', 'https://user:pw@fw.example.org', 'https://fw.example.org?x=1']) {
+      for (const bad of [
+        'fluxwalk.example.org',
+        'ftp://fw.example.org',
+        'https://fw.example.org/app',
+        'https://user:pw@fw.example.org',
+        'https://fw.example.org?x=1',
+      ]) {
         expect(() => load({ APP_ORIGIN: bad })).toThrow(/APP_ORIGIN must be an origin like https:\/\/fluxwalk\.example\.org/);
       }
     });
@@ -30,14 +36,22 @@ describe('server configuration', () => {
 
   describe('TRUST_PROXY, read as Express reads its "trust proxy" setting', () => {
     it.each([
-      ['', false], ['false', false], ['FALSE', false], ['true', true], ['1', 1], ['2', 2], [' 3 ', 3],
-      ['loopback', ['loopback']], ['10.0.0.1, 10.0.0.2', ['10.0.0.1', '10.0.0.2']],
-      ['192.168.0.0/16,fc00::/7', ['192.168.0.0/16', 'fc00::/7']], ['loopback, uniquelocal', ['loopback', 'uniquelocal']],
+      ['', false],
+      ['false', false],
+      ['FALSE', false],
+      ['true', true],
+      ['1', 1],
+      ['2', 2],
+      [' 3 ', 3],
+      ['loopback', ['loopback']],
+      ['10.0.0.1, 10.0.0.2', ['10.0.0.1', '10.0.0.2']],
+      ['192.168.0.0/16,fc00::/7', ['192.168.0.0/16', 'fc00::/7']],
+      ['loopback, uniquelocal', ['loopback', 'uniquelocal']],
     ])('when TRUST_PROXY is "%s", then the setting is %p', (raw, expected) => {
       expect(load({ TRUST_PROXY: raw }).trustProxy).toEqual(expected);
     });
 
-    it('when TRUST_PROXY is a hop count, then Express counts hops (the README\'s TRUST_PROXY=1 trusts the proxy in front)', () => {
+    it("when TRUST_PROXY is a hop count, then Express counts hops (the README's TRUST_PROXY=1 trusts the proxy in front)", () => {
       const app = express();
       app.set('trust proxy', load({ TRUST_PROXY: '1' }).trustProxy);
       const trust = app.get('trust proxy fn') as (addr: string, i: number) => boolean;

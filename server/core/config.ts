@@ -67,8 +67,10 @@ export function appOrigin(env: NodeJS.ProcessEnv = process.env, host = env['HOST
   const raw = env['APP_ORIGIN']?.trim();
   if (raw) return checkedOrigin(raw);
   if (env['NODE_ENV'] === 'production') {
-    throw new Error('APP_ORIGIN is not set, and NODE_ENV=production needs it: set APP_ORIGIN to the address people open, '
-      + 'e.g. APP_ORIGIN=https://fluxwalk.example.org (links in invitation and reset mail and on printed tags use it).');
+    throw new Error(
+      'APP_ORIGIN is not set, and NODE_ENV=production needs it: set APP_ORIGIN to the address people open, ' +
+        'e.g. APP_ORIGIN=https://fluxwalk.example.org (links in invitation and reset mail and on printed tags use it).',
+    );
   }
   // A wildcard bind address is no place to send anyone; loopback is where it answers in development.
   const linkHost = host === '0.0.0.0' || host === '::' || host === '' ? '127.0.0.1' : host.includes(':') ? `[${host}]` : host;
@@ -76,7 +78,8 @@ export function appOrigin(env: NodeJS.ProcessEnv = process.env, host = env['HOST
 }
 
 function checkedOrigin(raw: string): string {
-  const bad = () => new Error(`APP_ORIGIN must be an origin like https://fluxwalk.example.org (scheme and host, optional port, no path), got "${raw}"`);
+  const bad = () =>
+    new Error(`APP_ORIGIN must be an origin like https://fluxwalk.example.org (scheme and host, optional port, no path), got "${raw}"`);
   let url: URL;
   try {
     url = new URL(raw);
@@ -103,8 +106,10 @@ export function parseTrustProxy(raw: string | undefined): TrustProxy {
   if (/^\d{1,3}$/.test(text)) return Number(text);
   const entries = text.split(',').map((e) => e.trim());
   if (entries.every(isProxyEntry)) return entries;
-  throw new Error(`TRUST_PROXY must be true, false, a hop count (1 = the one proxy in front), or comma-separated addresses, `
-    + `subnets (10.0.0.0/8) and the names loopback, linklocal, uniquelocal; got "${raw}"`);
+  throw new Error(
+    `TRUST_PROXY must be true, false, a hop count (1 = the one proxy in front), or comma-separated addresses, ` +
+      `subnets (10.0.0.0/8) and the names loopback, linklocal, uniquelocal; got "${raw}"`,
+  );
 }
 
 function isProxyEntry(entry: string): boolean {

@@ -33,7 +33,7 @@ export function errorBody(message: string, fields?: FieldError[]) {
 }
 
 export const apiNotFound: RequestHandler = (req, _res, next) => {
-  next(new AppError(404, `No API route for ${req.method} ${req.originalUrl.split("?")[0]}`));
+  next(new AppError(404, `No API route for ${req.method} ${req.originalUrl.split('?')[0]}`));
 };
 
 /** Turns every error into the JSON error shape; never sends a stack trace to a client. */
@@ -48,8 +48,9 @@ export const errorMiddleware: ErrorRequestHandler = (err, req, res, _next) => {
   }
   const status = typeof err?.status === 'number' ? err.status : 500;
   if (err?.type === 'entity.too.large') {
-    res.status(413).json(errorBody(
-      `The request body is larger than the limit of ${err.limit} bytes for ${req.path}; send it in smaller parts.`));
+    res
+      .status(413)
+      .json(errorBody(`The request body is larger than the limit of ${err.limit} bytes for ${req.path}; send it in smaller parts.`));
     return;
   }
   if (err?.type === 'entity.parse.failed') {

@@ -32,15 +32,23 @@ export async function startJobQueue(ds: DataSource, databaseUrl: string, opts: {
   await boss.start();
   const defs = jobDefinitions();
   for (const def of defs) {
-    if (!(await boss.getQueue(def.name))) await boss.createQueue(def.name, { name: def.name, retryLimit: def.retryLimit ?? 2, expireInSeconds: 3600 });
-    await boss.work(def.name, { batchSize: 1, pollingIntervalSeconds: opts.pollSeconds ?? 0.5 }, async ([job]) => run(ds, def, job.id, job.data as Record<string, unknown>));
+    if (!(await boss.getQueue(def.name)))
+      await boss.createQueue(def.name, { name: def.name, retryLimit: def.retryLimit ?? 2, expireInSeconds: 3600 });
+    await boss.work(def.name, { batchSize: 1, pollingIntervalSeconds: opts.pollSeconds ?? 0.5 }, async ([job]) =>
+      run(ds, def, job.id, job.data as Record<string, unknown>),
+    );
     if (def.schedule) await boss.schedule(def.name, def.schedule);
   }
   const names = new Set(defs.map((d) => d.name));
   let stopping = false;
   let relaying: Promise<number> | null = null;
-  const relay = () => (relaying ??= relayOutbox(ds, boss, names).finally(() => { relaying = null; }));
-  const timer = setInterval(() => { if (!stopping) relay().catch((e: Error) => console.error('[jobs] relay failed:', e.message)); }, RELAY_MS);
+  const relay = () =>
+    (relaying ??= relayOutbox(ds, boss, names).finally(() => {
+      relaying = null;
+    }));
+  const timer = setInterval(() => {
+    if (!stopping) relay().catch((e: Error) => console.error('[jobs] relay failed:', e.message));
+  }, RELAY_MS);
   timer.unref();
   return {
     relay,
@@ -62,7 +70,9 @@ async function relayOutbox(ds: DataSource, boss: Boss, names: Set<string>): Prom
   return ds.transaction(async (em) => {
     const rows: { id: string; name: string; data: Record<string, unknown> }[] = await em.query(
       `SELECT id, name, data FROM job_outbox WHERE name = ANY($1) ORDER BY created_at
-        FOR UPDATE SKIP LOCKED LIMIT ${RELAY_BATCH}`, [[...names]]);
+        FOR UPDATE SKIP LOCKED LIMIT ${RELAY_BATCH}`,
+      [[...names]],
+    );
     for (const r of rows) await boss.send(r.name, r.data, { id: r.id });
     if (rows.length) await em.query(`DELETE FROM job_outbox WHERE id = ANY($1)`, [rows.map((r) => r.id)]);
     return rows.length;

@@ -11,7 +11,10 @@ export const JOB_READERS: readonly Role[] = ['lab', 'lead', 'admin'];
 
 const idParams = z.object({ id: z.string().uuid('Job ids are UUIDs') });
 const listQuery = z.object({
-  name: z.string().regex(/^[a-z][a-z0-9-]*$/).optional(),
+  name: z
+    .string()
+    .regex(/^[a-z][a-z0-9-]*$/)
+    .optional(),
   limit: z.coerce.number().int().min(1).max(100).default(20),
 });
 

@@ -20,10 +20,16 @@ export async function enqueueJob(em: Queryable, name: string, data: Record<strin
   const [row]: { id: string }[] = await em.query(
     `INSERT INTO job_outbox (id, name, data, dedupe_key) VALUES ($1, $2, $3, $4)
      ON CONFLICT (dedupe_key) DO UPDATE SET data = EXCLUDED.data
-     RETURNING id`, [id, name, JSON.stringify(data), opts.dedupeKey ?? null]);
+     RETURNING id`,
+    [id, name, JSON.stringify(data), opts.dedupeKey ?? null],
+  );
   if (row.id === id) {
-    await em.query(`INSERT INTO job_progress (id, name, site_id, created_by) VALUES ($1, $2, $3, $4)`,
-      [id, name, opts.siteId ?? null, opts.createdBy ?? null]);
+    await em.query(`INSERT INTO job_progress (id, name, site_id, created_by) VALUES ($1, $2, $3, $4)`, [
+      id,
+      name,
+      opts.siteId ?? null,
+      opts.createdBy ?? null,
+    ]);
   }
   return row.id;
 }
@@ -48,10 +54,18 @@ const COLUMNS = `id, name, site_id, state, done, total, attempts, result, error,
 function toProgress(r: Record<string, unknown>): JobProgress {
   const iso = (v: unknown) => (v instanceof Date ? v.toISOString() : null);
   return {
-    id: r['id'] as string, name: r['name'] as string, siteId: (r['site_id'] as string | null) ?? null,
-    state: r['state'] as JobProgress['state'], done: Number(r['done']), total: r['total'] === null ? null : Number(r['total']),
-    attempts: Number(r['attempts']), result: r['result'] ?? null, error: (r['error'] as string | null) ?? null,
-    createdAt: iso(r['created_at'])!, startedAt: iso(r['started_at']), finishedAt: iso(r['finished_at']),
+    id: r['id'] as string,
+    name: r['name'] as string,
+    siteId: (r['site_id'] as string | null) ?? null,
+    state: r['state'] as JobProgress['state'],
+    done: Number(r['done']),
+    total: r['total'] === null ? null : Number(r['total']),
+    attempts: Number(r['attempts']),
+    result: r['result'] ?? null,
+    error: (r['error'] as string | null) ?? null,
+    createdAt: iso(r['created_at'])!,
+    startedAt: iso(r['started_at']),
+    finishedAt: iso(r['finished_at']),
   };
 }
 
@@ -65,7 +79,9 @@ export async function recentJobs(db: Queryable, name: string | null, siteIds: st
   const rows = await db.query(
     `SELECT ${COLUMNS} FROM job_progress
       WHERE ($1::text IS NULL OR name = $1) AND ($2::uuid[] IS NULL OR site_id = ANY($2) OR site_id IS NULL)
-      ORDER BY created_at DESC LIMIT $3`, [name, siteIds, limit]);
+      ORDER BY created_at DESC LIMIT $3`,
+    [name, siteIds, limit],
+  );
   return rows.map(toProgress);
 }
 
@@ -78,6 +94,10 @@ export async function reportProgress(db: Queryable, id: string, done: number, to
 }
 
 export async function markFinished(db: Queryable, id: string, result: unknown, error: string | null): Promise<void> {
-  await db.query(`UPDATE job_progress SET state = $2, result = $3, error = $4, finished_at = now() WHERE id = $1`,
-    [id, error ? 'failed' : 'completed', result === undefined ? null : JSON.stringify(result), error]);
+  await db.query(`UPDATE job_progress SET state = $2, result = $3, error = $4, finished_at = now() WHERE id = $1`, [
+    id,
+    error ? 'failed' : 'completed',
+    result === undefined ? null : JSON.stringify(result),
+    error,
+  ]);
 }

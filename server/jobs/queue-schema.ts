@@ -21,11 +21,14 @@ export async function retireNewerQueueSchema(ds: DataSource, schema: string): Pr
       `INSERT INTO job_outbox (id, name, data)
        SELECT j.id, j.name, COALESCE(j.data, '{}'::jsonb) FROM "${schema}".job j
         WHERE j.state IN ('created', 'retry', 'active') AND j.name NOT LIKE '\\_\\_%'
-       ON CONFLICT (id) DO NOTHING RETURNING id`);
+       ON CONFLICT (id) DO NOTHING RETURNING id`,
+    );
     const retired = `${schema}_v${row.version}_retired_${Date.now()}`;
     await em.query(`ALTER SCHEMA "${schema}" RENAME TO "${retired}"`);
-    console.warn(`[jobs] queue schema "${schema}" was version ${row.version} (this pg-boss knows ${SUPPORTED_QUEUE_VERSION}): `
-      + `renamed to "${retired}", ${carried.length} unfinished job(s) queued again`);
+    console.warn(
+      `[jobs] queue schema "${schema}" was version ${row.version} (this pg-boss knows ${SUPPORTED_QUEUE_VERSION}): ` +
+        `renamed to "${retired}", ${carried.length} unfinished job(s) queued again`,
+    );
     return carried.length;
   });
 }

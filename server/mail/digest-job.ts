@@ -8,19 +8,29 @@ import type { Mailer } from './mailer';
 
 export const DIGEST_JOB = 'daily-digest';
 
-interface Recipient { id: string; email: string; display_name: string }
+interface Recipient {
+  id: string;
+  email: string;
+  display_name: string;
+}
 
 /**
  * Asks for one digest run inside the caller's transaction: the run row and the job commit
  * together (transactional outbox). Scheduled runs are unique per site and local date, so when
  * several processes ask at once only one gets a row back and only that one asks for a job.
  */
-export async function askForDigest(em: EntityManager, siteId: string, localDate: string, requestedBy: string | null): Promise<{ runId: string; jobId: string } | null> {
+export async function askForDigest(
+  em: EntityManager,
+  siteId: string,
+  localDate: string,
+  requestedBy: string | null,
+): Promise<{ runId: string; jobId: string } | null> {
   const runId = randomUUID();
   const inserted = await em.query(
     `INSERT INTO digest_run (id, site_id, local_date, kind, requested_by) VALUES ($1, $2, $3, $4, $5)
      ON CONFLICT (site_id, local_date) WHERE kind = 'scheduled' DO NOTHING RETURNING id`,
-    [runId, siteId, localDate, requestedBy ? 'manual' : 'scheduled', requestedBy]);
+    [runId, siteId, localDate, requestedBy ? 'manual' : 'scheduled', requestedBy],
+  );
   if (!inserted.length) return null;
   const jobId = await enqueueJob(em, DIGEST_JOB, { runId }, { siteId, createdBy: requestedBy });
   await em.query(`UPDATE digest_run SET job_id = $2 WHERE id = $1`, [runId, jobId]);
@@ -31,8 +41,11 @@ export async function askForDigest(em: EntityManager, siteId: string, localDate:
 async function recipients(ds: DataSource, run: { site_id: string; requested_by: string | null }): Promise<Recipient[]> {
   return run.requested_by
     ? ds.query(`SELECT id, email, display_name FROM app_user WHERE id = $1 AND NOT disabled`, [run.requested_by])
-    : ds.query(`SELECT u.id, u.email, u.display_name FROM app_user u JOIN site_member m ON m.user_id = u.id
-                 WHERE m.site_id = $1 AND 'lead' = ANY(u.roles) AND NOT u.disabled ORDER BY u.email`, [run.site_id]);
+    : ds.query(
+        `SELECT u.id, u.email, u.display_name FROM app_user u JOIN site_member m ON m.user_id = u.id
+                 WHERE m.site_id = $1 AND 'lead' = ANY(u.roles) AND NOT u.disabled ORDER BY u.email`,
+        [run.site_id],
+      );
 }
 
 /**
@@ -51,7 +64,11 @@ export async function runDigest(ds: DataSource, mailer: Mailer, runId: string, c
     const [done] = await ds.query(`SELECT 1 FROM digest_delivery WHERE run_id = $1 AND user_id = $2`, [runId, p.id]);
     if (!done) {
       await mailer.send(digestMail(digest, p.email, p.display_name, board));
-      await ds.query(`INSERT INTO digest_delivery (run_id, user_id, email) VALUES ($1, $2, $3) ON CONFLICT DO NOTHING`, [runId, p.id, p.email]);
+      await ds.query(`INSERT INTO digest_delivery (run_id, user_id, email) VALUES ($1, $2, $3) ON CONFLICT DO NOTHING`, [
+        runId,
+        p.id,
+        p.email,
+      ]);
       sent++;
     }
     await ctx?.progress(i + 1, people.length);

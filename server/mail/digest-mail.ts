@@ -24,15 +24,29 @@ export function digestMail(d: Digest, to: string, displayName: string, boardLink
   }
   blocks.push({ kind: 'heading', text: `Worth a look (${d.anomalies.total}, ${d.anomalies.problems} to act on)` });
   if (d.anomalies.total) {
-    blocks.push({ kind: 'list', items: d.anomalies.items.map((a) => `${a.severity === 'problem' ? 'Act: ' : ''}${a.collarCode ? `${a.collarCode}: ` : ''}${a.message}`) });
-    if (d.anomalies.total > d.anomalies.items.length) blocks.push({ kind: 'para', text: `… and ${d.anomalies.total - d.anomalies.items.length} more on the Board.` });
+    blocks.push({
+      kind: 'list',
+      items: d.anomalies.items.map(
+        (a) => `${a.severity === 'problem' ? 'Act: ' : ''}${a.collarCode ? `${a.collarCode}: ` : ''}${a.message}`,
+      ),
+    });
+    if (d.anomalies.total > d.anomalies.items.length)
+      blocks.push({ kind: 'para', text: `… and ${d.anomalies.total - d.anomalies.items.length} more on the Board.` });
   } else {
     blocks.push({ kind: 'para', text: 'Nothing unusual found.' });
   }
   blocks.push({ kind: 'heading', text: `Devices silent for a day or more (${d.silentDevices.length})` });
-  blocks.push(d.silentDevices.length
-    ? { kind: 'list', items: d.silentDevices.map((s) => `${s.displayName} (${s.email}): ${s.lastSeenAt ? `last heard ${formatSiteTime(s.lastSeenAt, d.site.timezone)}` : 'never synced'}${s.outboxSize ? `, ${s.outboxSize} not yet synced` : ''}`) }
-    : { kind: 'para', text: 'Every device has synced within the last day.' });
+  blocks.push(
+    d.silentDevices.length
+      ? {
+          kind: 'list',
+          items: d.silentDevices.map(
+            (s) =>
+              `${s.displayName} (${s.email}): ${s.lastSeenAt ? `last heard ${formatSiteTime(s.lastSeenAt, d.site.timezone)}` : 'never synced'}${s.outboxSize ? `, ${s.outboxSize} not yet synced` : ''}`,
+          ),
+        }
+      : { kind: 'para', text: 'Every device has synced within the last day.' },
+  );
   if (boardLink) blocks.push({ kind: 'link', text: 'Open the Board', href: boardLink });
   blocks.push({ kind: 'para', text: 'You get this mail as a lead of the site. The time it comes is set in Setup (digest time).' });
   return { to, subject, text: renderText(blocks), html: renderHtml(subject, blocks) };

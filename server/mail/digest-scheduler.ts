@@ -11,7 +11,8 @@ export const DIGEST_CATCH_UP_MINUTES = 180;
  */
 export async function scheduleDueDigests(ds: DataSource, now = new Date()): Promise<string[]> {
   const sites: { id: string; timezone: string; digest_local_time: string }[] = await ds.query(
-    `SELECT s.id, s.timezone, s.digest_local_time FROM site s WHERE NOT s.deleted`);
+    `SELECT s.id, s.timezone, s.digest_local_time FROM site s WHERE NOT s.deleted`,
+  );
   const asked: string[] = [];
   for (const s of sites) {
     const clock = localClock(now, s.timezone);
@@ -31,7 +32,11 @@ export function startDigestScheduler(ds: DataSource, tickSeconds = Number(proces
   const tick = () => {
     if (running) return;
     running = true;
-    scheduleDueDigests(ds).catch((e: Error) => console.error('[digest] scheduling failed:', e.message)).finally(() => { running = false; });
+    scheduleDueDigests(ds)
+      .catch((e: Error) => console.error('[digest] scheduling failed:', e.message))
+      .finally(() => {
+        running = false;
+      });
   };
   const timer = setInterval(tick, tickSeconds * 1000);
   timer.unref();

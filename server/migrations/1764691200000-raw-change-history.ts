@@ -16,6 +16,8 @@ export class RawChangeHistory1764691200000 implements MigrationInterface {
   async down(q: QueryRunner): Promise<void> {
     await q.query(`DELETE FROM closure_review_history WHERE kind = 'raw-change'`);
     await q.query(`ALTER TABLE closure_review_history DROP CONSTRAINT closure_review_history_kind_check`);
-    await q.query(`ALTER TABLE closure_review_history ADD CONSTRAINT closure_review_history_kind_check CHECK (kind IN ('decision', 'recompute'))`);
+    await q.query(
+      `ALTER TABLE closure_review_history ADD CONSTRAINT closure_review_history_kind_check CHECK (kind IN ('decision', 'recompute'))`,
+    );
   }
 }

@@ -78,8 +78,12 @@ export class VisitProgress1796426700000 implements MigrationInterface {
         END IF;
         RETURN NULL;
       END $$`);
-    for (const [table, fn] of [['visit', 'visit_progress_from_visit'], ['offset_set', 'visit_progress_from_record'],
-      ['probe_reading', 'visit_progress_from_record'], ['closure', 'visit_progress_from_record']]) {
+    for (const [table, fn] of [
+      ['visit', 'visit_progress_from_visit'],
+      ['offset_set', 'visit_progress_from_record'],
+      ['probe_reading', 'visit_progress_from_record'],
+      ['closure', 'visit_progress_from_record'],
+    ]) {
       await q.query(`CREATE TRIGGER ${table}_progress_ins AFTER INSERT ON ${table} REFERENCING NEW TABLE AS new_rows
                        FOR EACH STATEMENT EXECUTE FUNCTION ${fn}()`);
       await q.query(`CREATE TRIGGER ${table}_progress_upd AFTER UPDATE ON ${table} REFERENCING OLD TABLE AS old_rows NEW TABLE AS new_rows

@@ -10,7 +10,9 @@ export class LayoutChangeIndex1796427000000 implements MigrationInterface {
   name = 'LayoutChangeIndex1796427000000';
 
   async up(q: QueryRunner): Promise<void> {
-    await q.query(`CREATE INDEX change_log_layout_idx ON change_log (site_id, seq) WHERE entity IN ('collar', 'plot', 'route', 'campaign')`);
+    await q.query(
+      `CREATE INDEX change_log_layout_idx ON change_log (site_id, seq) WHERE entity IN ('collar', 'plot', 'route', 'campaign')`,
+    );
   }
 
   async down(q: QueryRunner): Promise<void> {

@@ -20,4 +20,25 @@ import { LayoutChangeIndex1796427000000 } from './20261204233000-layout-change-i
 import { TempDepthTolerance1796427060000 } from './1796427060000-temp-depth-tolerance';
 
 /** Every migration, oldest first. Add new ones at the end (see DEVELOPERS.md). */
-export const MIGRATIONS = [Foundation1764644400000, FieldData1764651600000, ProgressIndexes1764658800000, BenchReview1764662400000, ClosureFillfactor1764662460000, AccountsMail1764673200000, ResultExports1764676800000, ClosureProgressIndex1764680400000, FluxBasisPrecision1764688000000, RawChangeHistory1764691200000, SyncOpPerUser1764694800000, AnalyzerCalibrations1764698400000, ChamberAirTemperature1764700000000, RecomputeAfterEngineUpdate1764703600000, PointExclusions1796425800000, ClosureMove1796426400000, ProbeReplicates1796426460000, VisitProgress1796426700000, LayoutChangeIndex1796427000000, TempDepthTolerance1796427060000];
+export const MIGRATIONS = [
+  Foundation1764644400000,
+  FieldData1764651600000,
+  ProgressIndexes1764658800000,
+  BenchReview1764662400000,
+  ClosureFillfactor1764662460000,
+  AccountsMail1764673200000,
+  ResultExports1764676800000,
+  ClosureProgressIndex1764680400000,
+  FluxBasisPrecision1764688000000,
+  RawChangeHistory1764691200000,
+  SyncOpPerUser1764694800000,
+  AnalyzerCalibrations1764698400000,
+  ChamberAirTemperature1764700000000,
+  RecomputeAfterEngineUpdate1764703600000,
+  PointExclusions1796425800000,
+  ClosureMove1796426400000,
+  ProbeReplicates1796426460000,
+  VisitProgress1796426700000,
+  LayoutChangeIndex1796427000000,
+  TempDepthTolerance1796427060000,
+];

@@ -52,8 +52,14 @@ export class ChangeBuffer {
            WITH ORDINALITY AS t(e, r, v, s, f, d, u, dv, ord)
         ORDER BY ord`,
       [
-        rows.map((x) => x.entity), rows.map((x) => x.recordId), rows.map((x) => x.rev), rows.map((x) => x.siteId),
-        rows.map((x) => x.fields.join(',')), rows.map((x) => x.deleted), rows.map((x) => x.userId), rows.map((x) => x.deviceId),
+        rows.map((x) => x.entity),
+        rows.map((x) => x.recordId),
+        rows.map((x) => x.rev),
+        rows.map((x) => x.siteId),
+        rows.map((x) => x.fields.join(',')),
+        rows.map((x) => x.deleted),
+        rows.map((x) => x.userId),
+        rows.map((x) => x.deviceId),
       ],
     );
   }

@@ -90,17 +90,19 @@ function collarFieldRule(roles: readonly Role[], action: WriteAction, changed: r
  */
 function closureFieldRule(roles: readonly Role[], action: WriteAction, changed: readonly string[], next: Record<string, unknown>) {
   // A device creating a closure sends the review fields at their defaults; only a real decision counts.
-  const isDecision = (f: string) => action !== 'create'
-    || (next[f] !== null && next[f] !== 'unreviewed' && !(Array.isArray(next[f]) && !(next[f] as unknown[]).length));
+  const isDecision = (f: string) =>
+    action !== 'create' || (next[f] !== null && next[f] !== 'unreviewed' && !(Array.isArray(next[f]) && !(next[f] as unknown[]).length));
   const fitData = (f: string) => (CLOSURE_FIT_DATA_FIELDS as readonly string[]).includes(f);
   if (action === 'update' && has(roles, 'admin') && !has(roles, 'lab', 'crew', 'lead')) {
     const other = changed.filter((f) => !fitData(f));
     return other.length ? `An admin may only leave points out of a closure's fit, not change ${other.join(', ')}` : null;
   }
   const fitDataSet = changed.filter((f) => fitData(f) && isDecision(f));
-  if (fitDataSet.length && !has(roles, 'lab', 'admin')) return 'Only the lab or an admin may leave points out of a closure\'s fit';
+  if (fitDataSet.length && !has(roles, 'lab', 'admin')) return "Only the lab or an admin may leave points out of a closure's fit";
   const review = changed.filter((f) => (CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f) && !fitData(f) && isDecision(f));
-  const raw = changed.filter((f) => !(CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f) && !(CLOSURE_SYSTEM_FIELDS as readonly string[]).includes(f));
+  const raw = changed.filter(
+    (f) => !(CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f) && !(CLOSURE_SYSTEM_FIELDS as readonly string[]).includes(f),
+  );
   if (action === 'update' && raw.length && !has(roles, 'crew', 'lead')) {
     return `The lab reviews closures but never changes raw readings (${raw.join(', ')})`;
   }
@@ -125,52 +127,160 @@ function offsetFieldRule(_roles: readonly Role[], action: WriteAction) {
   return action === 'update' ? 'An offset set is never edited: record a new set that supersedes it (supersedesId)' : null;
 }
 
-function def(name: EntityName, target: EntityTarget<ObjectLiteral>, table: string, rules: EntityRules,
-  extra: Partial<Omit<EntityDef, 'name' | 'target' | 'table' | 'rules'>> = {}): EntityDef {
+function def(
+  name: EntityName,
+  target: EntityTarget<ObjectLiteral>,
+  table: string,
+  rules: EntityRules,
+  extra: Partial<Omit<EntityDef, 'name' | 'target' | 'table' | 'rules'>> = {},
+): EntityDef {
   return { name, target, table, rules, refs: {}, underCampaign: false, immutable: ['siteId'], order: { id: 'ASC' }, ...extra };
 }
 
 export const ENTITY_DEFS: Record<EntityName, EntityDef> = {
-  site: def('site', SiteEntity, 'site', { create: ADMIN, update: ADMIN, delete: ADMIN },
-    { refs: { defaultProfileId: 'chamberProfile' }, immutable: [], order: { name: 'ASC' } }),
+  site: def(
+    'site',
+    SiteEntity,
+    'site',
+    { create: ADMIN, update: ADMIN, delete: ADMIN },
+    { refs: { defaultProfileId: 'chamberProfile' }, immutable: [], order: { name: 'ASC' } },
+  ),
   block: def('block', BlockEntity, 'block', { create: ADMIN, update: ADMIN, delete: ADMIN }, { order: { code: 'ASC' } }),
   treatment: def('treatment', TreatmentEntity, 'treatment', { create: ADMIN, update: ADMIN, delete: ADMIN }, { order: { code: 'ASC' } }),
-  plot: def('plot', PlotEntity, 'plot', { create: ADMIN, update: ADMIN, delete: ADMIN },
-    { refs: { blockId: 'block', treatmentId: 'treatment' }, order: { code: 'ASC' } }),
-  collar: def('collar', CollarEntity, 'collar', { create: [...FIELD, 'admin'], update: [...FIELD, 'admin'], delete: [...LEAD, 'admin'], fieldRule: collarFieldRule },
-    { refs: { plotId: 'plot', treatmentId: 'treatment' }, order: { code: 'ASC' } }),
-  collarEvent: def('collarEvent', CollarEventEntity, 'collar_event', { create: FIELD, update: LEAD, delete: LEAD },
-    { refs: { collarId: 'collar', replacedById: 'collar' }, immutable: ['siteId', 'collarId'], timeField: 'date', order: { date: 'ASC' } }),
-  chamberProfile: def('chamberProfile', ChamberProfileEntity, 'chamber_profile', { create: ADMIN, update: ADMIN, delete: ADMIN },
-    { order: { validFrom: 'ASC' } }),
+  plot: def(
+    'plot',
+    PlotEntity,
+    'plot',
+    { create: ADMIN, update: ADMIN, delete: ADMIN },
+    { refs: { blockId: 'block', treatmentId: 'treatment' }, order: { code: 'ASC' } },
+  ),
+  collar: def(
+    'collar',
+    CollarEntity,
+    'collar',
+    { create: [...FIELD, 'admin'], update: [...FIELD, 'admin'], delete: [...LEAD, 'admin'], fieldRule: collarFieldRule },
+    { refs: { plotId: 'plot', treatmentId: 'treatment' }, order: { code: 'ASC' } },
+  ),
+  collarEvent: def(
+    'collarEvent',
+    CollarEventEntity,
+    'collar_event',
+    { create: FIELD, update: LEAD, delete: LEAD },
+    { refs: { collarId: 'collar', replacedById: 'collar' }, immutable: ['siteId', 'collarId'], timeField: 'date', order: { date: 'ASC' } },
+  ),
+  chamberProfile: def(
+    'chamberProfile',
+    ChamberProfileEntity,
+    'chamber_profile',
+    { create: ADMIN, update: ADMIN, delete: ADMIN },
+    { order: { validFrom: 'ASC' } },
+  ),
   analyzer: def('analyzer', AnalyzerEntity, 'analyzer', { create: ADMIN, update: ADMIN, delete: ADMIN }, { order: { name: 'ASC' } }),
-  analyzerCheck: def('analyzerCheck', AnalyzerCheckEntity, 'analyzer_check', { create: ['crew', 'lead', 'admin'], update: LEAD, delete: LEAD },
-    { refs: { analyzerId: 'analyzer' }, timeField: 'at', order: { at: 'DESC' } }),
-  route: def('route', RouteEntity, 'route', { create: ['lead', 'admin'], update: ['lead', 'admin'], delete: ['lead', 'admin'] },
-    { refs: { 'collarIds[]': 'collar' }, order: { name: 'ASC' } }),
-  campaign: def('campaign', CampaignEntity, 'campaign', { create: LEAD, update: LEAD, delete: LEAD },
-    { refs: { 'routes[].routeId': 'route' }, members: ['routes[].crewIds[]'], timeField: 'startsOn', order: { startsOn: 'DESC' } }),
-  visit: def('visit', VisitEntity, 'visit', { create: FIELD, update: FIELD, delete: LEAD },
-    { refs: { campaignId: 'campaign', collarId: 'collar' }, members: ['crewId'], underCampaign: true,
-      immutable: ['siteId', 'campaignId', 'collarId', 'round'], timeField: 'arrivedAt', order: { arrivedAt: 'ASC' } }),
-  offsetSet: def('offsetSet', OffsetSetEntity, 'offset_set', { create: FIELD, update: FIELD, delete: LEAD, fieldRule: offsetFieldRule },
-    { refs: { visitId: 'visit', collarId: 'collar', campaignId: 'campaign', supersedesId: 'offsetSet' }, underCampaign: true,
+  analyzerCheck: def(
+    'analyzerCheck',
+    AnalyzerCheckEntity,
+    'analyzer_check',
+    { create: ['crew', 'lead', 'admin'], update: LEAD, delete: LEAD },
+    { refs: { analyzerId: 'analyzer' }, timeField: 'at', order: { at: 'DESC' } },
+  ),
+  route: def(
+    'route',
+    RouteEntity,
+    'route',
+    { create: ['lead', 'admin'], update: ['lead', 'admin'], delete: ['lead', 'admin'] },
+    { refs: { 'collarIds[]': 'collar' }, order: { name: 'ASC' } },
+  ),
+  campaign: def(
+    'campaign',
+    CampaignEntity,
+    'campaign',
+    { create: LEAD, update: LEAD, delete: LEAD },
+    { refs: { 'routes[].routeId': 'route' }, members: ['routes[].crewIds[]'], timeField: 'startsOn', order: { startsOn: 'DESC' } },
+  ),
+  visit: def(
+    'visit',
+    VisitEntity,
+    'visit',
+    { create: FIELD, update: FIELD, delete: LEAD },
+    {
+      refs: { campaignId: 'campaign', collarId: 'collar' },
+      members: ['crewId'],
+      underCampaign: true,
+      immutable: ['siteId', 'campaignId', 'collarId', 'round'],
+      timeField: 'arrivedAt',
+      order: { arrivedAt: 'ASC' },
+    },
+  ),
+  offsetSet: def(
+    'offsetSet',
+    OffsetSetEntity,
+    'offset_set',
+    { create: FIELD, update: FIELD, delete: LEAD, fieldRule: offsetFieldRule },
+    {
+      refs: { visitId: 'visit', collarId: 'collar', campaignId: 'campaign', supersedesId: 'offsetSet' },
+      underCampaign: true,
       agreements: [UNDER_VISIT, { ref: 'supersedesId', target: 'offsetSet', same: ['collarId'] }],
-      timeField: 'takenAt', order: { takenAt: 'ASC' } }),
+      timeField: 'takenAt',
+      order: { takenAt: 'ASC' },
+    },
+  ),
   // A crew deletes a wrong replicate on the spot (a tombstone, synced like every record).
-  probeReading: def('probeReading', ProbeReadingEntity, 'probe_reading', { create: FIELD, update: FIELD, delete: FIELD },
-    { refs: { visitId: 'visit', collarId: 'collar', campaignId: 'campaign' }, members: ['takenById'], underCampaign: true, agreements: [UNDER_VISIT],
-      immutable: ['siteId', 'visitId', 'collarId', 'campaignId', 'takenById'], timeField: 'takenAt', order: { takenAt: 'ASC' } }),
-  closure: def('closure', ClosureEntity, 'closure', { create: FIELD, update: ['crew', 'lead', 'lab', 'admin'], delete: LEAD, fieldRule: closureFieldRule },
-    { refs: { visitId: 'visit', collarId: 'collar', campaignId: 'campaign', profileId: 'chamberProfile', analyzerId: 'analyzer',
-      sourceAttachmentId: 'attachment', redoOfId: 'closure' },
-      agreements: [UNDER_VISIT, { ref: 'redoOfId', target: 'closure', same: ['visitId'] }], follows: reviewResetOnRawChange,
-      underCampaign: true, immutable: ['siteId', 'visitId', 'collarId', 'campaignId'], movable: ['visitId', 'collarId'],
-      timeField: 'startedAt', order: { startedAt: 'ASC' } }),
-  attachment: def('attachment', AttachmentEntity, 'attachment', { create: ['crew', 'lead', 'admin'], update: ['crew', 'lead', 'admin'], delete: LEAD },
-    { owner: { entityField: 'ownerEntity', idField: 'ownerId' }, immutable: ['siteId', 'ownerEntity', 'ownerId', 'sha256', 'sizeBytes', 'mediaType'] }),
-  temperatureLog: def('temperatureLog', TemperatureLogEntity, 'temperature_log', { create: ['lab', 'admin'], update: ['lab', 'admin'], delete: ['lab', 'admin'] },
-    { refs: { plotId: 'plot' }, order: { depthCm: 'ASC' } }),
+  probeReading: def(
+    'probeReading',
+    ProbeReadingEntity,
+    'probe_reading',
+    { create: FIELD, update: FIELD, delete: FIELD },
+    {
+      refs: { visitId: 'visit', collarId: 'collar', campaignId: 'campaign' },
+      members: ['takenById'],
+      underCampaign: true,
+      agreements: [UNDER_VISIT],
+      immutable: ['siteId', 'visitId', 'collarId', 'campaignId', 'takenById'],
+      timeField: 'takenAt',
+      order: { takenAt: 'ASC' },
+    },
+  ),
+  closure: def(
+    'closure',
+    ClosureEntity,
+    'closure',
+    { create: FIELD, update: ['crew', 'lead', 'lab', 'admin'], delete: LEAD, fieldRule: closureFieldRule },
+    {
+      refs: {
+        visitId: 'visit',
+        collarId: 'collar',
+        campaignId: 'campaign',
+        profileId: 'chamberProfile',
+        analyzerId: 'analyzer',
+        sourceAttachmentId: 'attachment',
+        redoOfId: 'closure',
+      },
+      agreements: [UNDER_VISIT, { ref: 'redoOfId', target: 'closure', same: ['visitId'] }],
+      follows: reviewResetOnRawChange,
+      underCampaign: true,
+      immutable: ['siteId', 'visitId', 'collarId', 'campaignId'],
+      movable: ['visitId', 'collarId'],
+      timeField: 'startedAt',
+      order: { startedAt: 'ASC' },
+    },
+  ),
+  attachment: def(
+    'attachment',
+    AttachmentEntity,
+    'attachment',
+    { create: ['crew', 'lead', 'admin'], update: ['crew', 'lead', 'admin'], delete: LEAD },
+    {
+      owner: { entityField: 'ownerEntity', idField: 'ownerId' },
+      immutable: ['siteId', 'ownerEntity', 'ownerId', 'sha256', 'sizeBytes', 'mediaType'],
+    },
+  ),
+  temperatureLog: def(
+    'temperatureLog',
+    TemperatureLogEntity,
+    'temperature_log',
+    { create: ['lab', 'admin'], update: ['lab', 'admin'], delete: ['lab', 'admin'] },
+    { refs: { plotId: 'plot' }, order: { depthCm: 'ASC' } },
+  ),
 };
 
 /** Union of roles that may write an entity at all: the route registry's rule for write routes. */

@@ -29,7 +29,9 @@ export async function insertRows(em: EntityManager, entity: EntityName, rows: Re
     for (const c of cols) {
       const v = row[c.propertyName];
       item[c.databaseName] = JSON_TYPES.has(c.type)
-        ? (c.transformer ? ApplyValueTransformers.transformTo(c.transformer, v) : v)
+        ? c.transformer
+          ? ApplyValueTransformers.transformTo(c.transformer, v)
+          : v
         : driver.preparePersistentValue(v, c);
     }
     const key = cols.map((c) => c.databaseName).join();
@@ -41,7 +43,9 @@ export async function insertRows(em: EntityManager, entity: EntityName, rows: Re
     const names = cols.map((c) => quote(c.databaseName)).join(', ');
     const out: { id: string }[] = await em.query(
       `INSERT INTO ${quote(meta.tableName)} (${names}) SELECT ${names} FROM json_populate_recordset(NULL::${quote(meta.tableName)}, $1::json)
-       ON CONFLICT DO NOTHING RETURNING "id"`, [JSON.stringify(items)]);
+       ON CONFLICT DO NOTHING RETURNING "id"`,
+      [JSON.stringify(items)],
+    );
     for (const r of out) stored.add(r.id);
   }
   return stored;

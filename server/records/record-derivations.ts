@@ -15,8 +15,9 @@ export async function deriveFields(em: EntityManager, entity: EntityName, next: 
     case 'offsetSet':
       return offsetStats(next['readingsCm'] as number[]);
     case 'probeReading': {
-      const rows: { moisture_calibration: MoistureCalibration }[] = await em.query(
-        `SELECT moisture_calibration FROM site WHERE id = $1`, [next['siteId']]);
+      const rows: { moisture_calibration: MoistureCalibration }[] = await em.query(`SELECT moisture_calibration FROM site WHERE id = $1`, [
+        next['siteId'],
+      ]);
       return { vwcPct: probeVwcPct(next as never, rows[0]?.moisture_calibration ?? { kind: 'topp' }) };
     }
     case 'closure':
@@ -33,7 +34,8 @@ function offsetWarnings(rec: Rec): Warning[] {
   const out: Warning[] = [];
   (rec['readingsCm'] as number[]).forEach((v, i) => {
     if (v === 0) out.push({ path: `readingsCm.${i}`, message: 'Offset 0 cm: the chamber may not seal on the collar rim' });
-    else if (v > 10) out.push({ path: `readingsCm.${i}`, message: `Offset ${v} cm is above 10 cm: check the reading; the chamber may not seal` });
+    else if (v > 10)
+      out.push({ path: `readingsCm.${i}`, message: `Offset ${v} cm is above 10 cm: check the reading; the chamber may not seal` });
   });
   return out;
 }

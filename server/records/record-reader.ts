@@ -24,15 +24,36 @@ const listQuery = z.object({
   routeId: z.string().uuid().optional(),
   ownerEntity: z.enum(ATTACHMENT_OWNERS).optional(),
   ownerId: z.string().uuid().optional(),
-  from: z.string().datetime({ offset: true }).or(z.string().regex(/^\d{4}-\d{2}-\d{2}$/)).optional(),
-  to: z.string().datetime({ offset: true }).or(z.string().regex(/^\d{4}-\d{2}-\d{2}$/)).optional(),
+  from: z
+    .string()
+    .datetime({ offset: true })
+    .or(z.string().regex(/^\d{4}-\d{2}-\d{2}$/))
+    .optional(),
+  to: z
+    .string()
+    .datetime({ offset: true })
+    .or(z.string().regex(/^\d{4}-\d{2}-\d{2}$/))
+    .optional(),
   includeDeleted: z.enum(['true', 'false']).optional(),
   limit: z.coerce.number().int().min(1).max(1000).default(100),
   offset: z.coerce.number().int().min(0).default(0),
 });
 
-const FILTERS = ['siteId', 'plotId', 'treatmentId', 'campaignId', 'collarId', 'visitId', 'analyzerId', 'round', 'status', 'reviewState', 'kind',
-  'ownerEntity', 'ownerId'] as const;
+const FILTERS = [
+  'siteId',
+  'plotId',
+  'treatmentId',
+  'campaignId',
+  'collarId',
+  'visitId',
+  'analyzerId',
+  'round',
+  'status',
+  'reviewState',
+  'kind',
+  'ownerEntity',
+  'ownerId',
+] as const;
 
 export async function listRecords(ds: DataSource, d: EntityDef, user: SessionUser, rawQuery: unknown) {
   const q = parse(listQuery, rawQuery, 'Some list filters are not valid');
@@ -40,7 +61,8 @@ export async function listRecords(ds: DataSource, d: EntityDef, user: SessionUse
   const qb = ds.getRepository(d.target).createQueryBuilder('r');
   const siteColumn = d.name === 'site' ? 'r.id' : 'r.siteId';
   const readable = seesAllSites(user.roles) ? null : user.siteIds;
-  if (readable) qb.andWhere(`${siteColumn} IN (:...readable)`, { readable: readable.length ? readable : ['00000000-0000-0000-0000-000000000000'] });
+  if (readable)
+    qb.andWhere(`${siteColumn} IN (:...readable)`, { readable: readable.length ? readable : ['00000000-0000-0000-0000-000000000000'] });
   for (const f of FILTERS) {
     const value = q[f];
     if (value === undefined) continue;

@@ -4,7 +4,10 @@ import type { FieldError } from '../core/errors';
 import { ENTITY_DEFS, type EntityDef } from './entity-registry';
 import { rejected, type WriteOutcome } from './write-outcome';
 
-interface RefState { site_id: string; deleted: boolean }
+interface RefState {
+  site_id: string;
+  deleted: boolean;
+}
 
 /**
  * Referenced records seen in this transaction. A push of 500 readings names the same few collars
@@ -25,7 +28,9 @@ async function referenceStates(em: EntityManager, table: string, ids: string[]):
   if (missing.length) {
     const siteColumn = table === 'site' ? 'id' : 'site_id';
     const rows: (RefState & { id: string })[] = await em.query(
-      `SELECT id, ${siteColumn} AS site_id, deleted FROM ${table} WHERE id = ANY($1::uuid[])`, [missing]);
+      `SELECT id, ${siteColumn} AS site_id, deleted FROM ${table} WHERE id = ANY($1::uuid[])`,
+      [missing],
+    );
     // Not-found ids are not cached: they may be created later in the same batch.
     for (const r of rows) cache.set(`${table}:${r.id}`, { site_id: r.site_id, deleted: r.deleted });
   }
@@ -77,8 +82,13 @@ const fieldOf = (path: string) => path.split(/[.[]/)[0];
  * record that hangs under a parent must agree with it (`agreements`: a reading carries its visit's
  * collar and campaign). Only references the write changes are looked at.
  */
-export async function checkReferences(em: EntityManager, d: EntityDef, siteId: string, next: Record<string, unknown>,
-  changed: readonly string[]): Promise<WriteOutcome | null> {
+export async function checkReferences(
+  em: EntityManager,
+  d: EntityDef,
+  siteId: string,
+  next: Record<string, unknown>,
+  changed: readonly string[],
+): Promise<WriteOutcome | null> {
   const problems: FieldError[] = [];
   const refs: [string, EntityName][] = Object.entries(d.refs).filter((e): e is [string, EntityName] => !!e[1]);
   if (d.owner && changed.includes(d.owner.idField)) {
@@ -103,13 +113,20 @@ export async function checkReferences(em: EntityManager, d: EntityDef, siteId: s
 }
 
 /** People named on a record (a visit's crew, a campaign's route crews) must be members of its site. */
-async function notMembers(em: EntityManager, d: EntityDef, siteId: string, next: Record<string, unknown>,
-  changed: readonly string[]): Promise<FieldError[]> {
+async function notMembers(
+  em: EntityManager,
+  d: EntityDef,
+  siteId: string,
+  next: Record<string, unknown>,
+  changed: readonly string[],
+): Promise<FieldError[]> {
   const paths = (d.members ?? []).filter((p) => changed.includes(fieldOf(p)));
   const named = paths.flatMap((p) => valuesAt(next, p).map((id) => ({ path: fieldOf(p), id })));
   if (!named.length) return [];
-  const rows: { user_id: string }[] = await em.query(
-    `SELECT user_id FROM site_member WHERE site_id = $1 AND user_id = ANY($2::uuid[])`, [siteId, named.map((n) => n.id).filter((id) => UUID.test(id))]);
+  const rows: { user_id: string }[] = await em.query(`SELECT user_id FROM site_member WHERE site_id = $1 AND user_id = ANY($2::uuid[])`, [
+    siteId,
+    named.map((n) => n.id).filter((id) => UUID.test(id)),
+  ]);
   const members = new Set(rows.map((r) => r.user_id));
   return named.filter((n) => !members.has(n.id)).map((n) => ({ path: n.path, message: `${n.id} is not a member of this site` }));
 }
@@ -117,17 +134,27 @@ async function notMembers(em: EntityManager, d: EntityDef, siteId: string, next:
 const column = (field: string) => field.replace(/[A-Z]/g, (c) => `_${c.toLowerCase()}`);
 
 /** Fields that must equal the parent's (a probe reading's collar and campaign are its visit's). */
-async function disagreements(em: EntityManager, d: EntityDef, next: Record<string, unknown>, changed: readonly string[]): Promise<FieldError[]> {
+async function disagreements(
+  em: EntityManager,
+  d: EntityDef,
+  next: Record<string, unknown>,
+  changed: readonly string[],
+): Promise<FieldError[]> {
   const out: FieldError[] = [];
   for (const a of d.agreements ?? []) {
     const parentId = next[a.ref];
     if (typeof parentId !== 'string' || ![a.ref, ...a.same].some((f) => changed.includes(f))) continue;
     const [parent]: Record<string, unknown>[] = await em.query(
-      `SELECT ${a.same.map((f) => `${column(f)} AS "${f}"`).join(', ')} FROM ${ENTITY_DEFS[a.target].table} WHERE id = $1`, [parentId]);
+      `SELECT ${a.same.map((f) => `${column(f)} AS "${f}"`).join(', ')} FROM ${ENTITY_DEFS[a.target].table} WHERE id = $1`,
+      [parentId],
+    );
     if (!parent) continue; // a missing parent is the reference check's to report
     for (const f of a.same) {
       if (String(parent[f]) !== String(next[f])) {
-        out.push({ path: f, message: `The ${a.target} (${a.ref}) has ${f} ${String(parent[f])}: a ${d.name} carries its ${a.target}'s ${f}` });
+        out.push({
+          path: f,
+          message: `The ${a.target} (${a.ref}) has ${f} ${String(parent[f])}: a ${d.name} carries its ${a.target}'s ${f}`,
+        });
       }
     }
   }
@@ -144,7 +171,8 @@ export async function lockedCampaignMessage(em: EntityManager, d: EntityDef, rec
   const visitId = d.name !== 'visit' && typeof rec['visitId'] === 'string' ? rec['visitId'] : null;
   const rows: { locked: boolean; name: string }[] = await em.query(
     `SELECT locked, name FROM campaign WHERE id = $1 OR id = (SELECT campaign_id FROM visit WHERE id = $2::uuid) ORDER BY locked DESC LIMIT 1`,
-    [rec['campaignId'], visitId]);
+    [rec['campaignId'], visitId],
+  );
   if (rows[0]?.locked) {
     return rejected(423, `Campaign "${rows[0].name}" is locked: field records cannot change until a lead unlocks it`);
   }

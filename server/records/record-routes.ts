@@ -11,7 +11,7 @@ import { ENTITY_DEFS, writeRoles } from './entity-registry';
 import { getRecord, listRecords } from './record-reader';
 import { writeRecord, type WriteOp, type WriteOutcome } from './record-writer';
 
-const revSchema = z.object({ rev: z.number({ message: 'Send the record\'s rev you edited' }).int().min(1) }).passthrough();
+const revSchema = z.object({ rev: z.number({ message: "Send the record's rev you edited" }).int().min(1) }).passthrough();
 const deleteQuery = z.object({ rev: z.coerce.number().int().min(1).optional() });
 
 /** Runs one write in its own transaction, flushing the change log before commit. */
@@ -28,8 +28,9 @@ export async function writeOne(ds: DataSource, req: Request, op: WriteOp): Promi
 export function answer(res: Response, outcome: WriteOutcome, created = false) {
   if (outcome.status === 'rejected') throw new AppError(outcome.httpStatus ?? 400, outcome.error!.message, outcome.error!.fields);
   if (outcome.status === 'conflict') {
-    throw new AppError(409, `Someone else changed ${outcome.conflict!.fields.join(', ')} since your copy; nothing was saved`,
-      undefined, { conflict: outcome.conflict });
+    throw new AppError(409, `Someone else changed ${outcome.conflict!.fields.join(', ')} since your copy; nothing was saved`, undefined, {
+      conflict: outcome.conflict,
+    });
   }
   res.status(created && outcome.rev === 1 ? 201 : 200);
   return outcome.warnings ? { record: outcome.record, warnings: outcome.warnings } : { record: outcome.record };
@@ -53,7 +54,10 @@ export function registerRecordRoutes(r: RouteRegistry, ds: DataSource, only?: En
     });
     r.add('delete', `${base}/:id`, d.rules.delete, async (req, res) => {
       const { rev } = parse(deleteQuery, req.query);
-      return answer(res, await writeOne(ds, req, { entity: d.name, id: String(req.params['id']), baseRev: rev ?? null, op: 'delete', fields: {} }));
+      return answer(
+        res,
+        await writeOne(ds, req, { entity: d.name, id: String(req.params['id']), baseRev: rev ?? null, op: 'delete', fields: {} }),
+      );
     });
   }
 }

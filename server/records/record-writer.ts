@@ -40,11 +40,16 @@ const META = ['id', 'rev', 'updatedAt', 'updatedBy', 'deleted'];
  * revision bump and the change log (order in DEVELOPERS.md). The caller
  * owns the transaction (a savepoint per op in a push) and flushes `changes` before commit.
  */
-export async function writeRecord(em: EntityManager, actor: Actor, op: WriteOp, changes: ChangeBuffer,
-  opts: { deviceId?: string | null; move?: boolean } = {}): Promise<WriteOutcome> {
+export async function writeRecord(
+  em: EntityManager,
+  actor: Actor,
+  op: WriteOp,
+  changes: ChangeBuffer,
+  opts: { deviceId?: string | null; move?: boolean } = {},
+): Promise<WriteOutcome> {
   const d = ENTITY_DEFS[op.entity];
   if (!d) return rejected(400, `Unknown entity "${String(op.entity)}"`);
-  const ctx: Ctx = { em, actor, d, changes, deviceId: opts.deviceId ?? null, movable: opts.move ? d.movable ?? [] : [] };
+  const ctx: Ctx = { em, actor, d, changes, deviceId: opts.deviceId ?? null, movable: opts.move ? (d.movable ?? []) : [] };
   const incoming = clientFields(op.entity, op.fields);
   // Creates try the insert first (ON CONFLICT DO NOTHING): one round trip fewer for the common case.
   if (op.op === 'upsert' && op.baseRev === null && isUuid(op.id)) {
@@ -133,8 +138,14 @@ function validate(entity: EntityName, candidate: Record<string, unknown>) {
 async function createRecord(ctx: Ctx, op: WriteOp, incoming: Record<string, unknown>): Promise<WriteOutcome> {
   const prepared = await prepareCreate(ctx, op, incoming);
   if ('status' in prepared) return prepared;
-  const inserted = await ctx.em.getRepository(ctx.d.target).createQueryBuilder().insert()
-    .values({ ...prepared.row }).orIgnore().returning('id').execute(); // a copy: insert writes DB defaults back into its values
+  const inserted = await ctx.em
+    .getRepository(ctx.d.target)
+    .createQueryBuilder()
+    .insert()
+    .values({ ...prepared.row })
+    .orIgnore()
+    .returning('id')
+    .execute(); // a copy: insert writes DB defaults back into its values
   if (!inserted.raw.length) return ID_TAKEN;
   return finishCreate(ctx, prepared);
 }
@@ -157,11 +168,12 @@ async function prepareCreate(ctx: Ctx, op: WriteOp, incoming: Record<string, unk
   if (v.error) return v.error;
   const next = v.value;
   const siteId = siteOf(d, op.id, next);
-  const guard = membershipDenied(ctx, siteId)
-    ?? ruleDenied(ctx, 'create', Object.keys(next), next)
-    ?? (await checkReferences(ctx.em, d, siteId, next, Object.keys(next)))
-    ?? (await lockedCampaignMessage(ctx.em, d, next))
-    ?? (await checkGuards({ em: ctx.em, entity: d.name, id: op.id, action: 'create', current: null, next, changed: Object.keys(next) }));
+  const guard =
+    membershipDenied(ctx, siteId) ??
+    ruleDenied(ctx, 'create', Object.keys(next), next) ??
+    (await checkReferences(ctx.em, d, siteId, next, Object.keys(next))) ??
+    (await lockedCampaignMessage(ctx.em, d, next)) ??
+    (await checkGuards({ em: ctx.em, entity: d.name, id: op.id, action: 'create', current: null, next, changed: Object.keys(next) }));
   if (guard) return guard;
   const derived = await deriveFields(ctx.em, d.name, next, null);
   const row = { ...next, ...derived, id: op.id, rev: 1, updatedAt: new Date(), updatedBy: ctx.actor.id, deleted: false };
@@ -171,8 +183,27 @@ async function prepareCreate(ctx: Ctx, op: WriteOp, incoming: Record<string, unk
 /** After the row is stored: the change log entry, the after-write listeners, the answer. */
 async function finishCreate(ctx: Ctx, p: PreparedCreate): Promise<WriteOutcome> {
   const { d } = ctx;
-  ctx.changes.add({ entity: d.name, recordId: p.id, rev: 1, siteId: p.siteId, fields: p.fields, deleted: false, userId: ctx.actor.id, deviceId: ctx.deviceId });
-  await notifyWritten({ em: ctx.em, actorId: ctx.actor.id, entity: d.name, id: p.id, action: 'create', before: null, after: p.record, changed: p.fields, changes: ctx.changes });
+  ctx.changes.add({
+    entity: d.name,
+    recordId: p.id,
+    rev: 1,
+    siteId: p.siteId,
+    fields: p.fields,
+    deleted: false,
+    userId: ctx.actor.id,
+    deviceId: ctx.deviceId,
+  });
+  await notifyWritten({
+    em: ctx.em,
+    actorId: ctx.actor.id,
+    entity: d.name,
+    id: p.id,
+    action: 'create',
+    before: null,
+    after: p.record,
+    changed: p.fields,
+    changes: ctx.changes,
+  });
   return { status: 'applied', rev: 1, record: p.record, warnings: await warningsFor(ctx.em, d.name, p.record) };
 }
 
@@ -183,13 +214,25 @@ async function finishCreate(ctx: Ctx, p: PreparedCreate): Promise<WriteOutcome> 
  * and site, a site is what other records read).
  */
 export function batchableCreate(op: WriteOp): boolean {
-  return op.op === 'upsert' && op.baseRev === null && isUuid(op.id) && !!ENTITY_DEFS[op.entity]
-    && op.entity !== 'site' && op.entity !== 'closure' && !hasGuards(op.entity);
+  return (
+    op.op === 'upsert' &&
+    op.baseRev === null &&
+    isUuid(op.id) &&
+    !!ENTITY_DEFS[op.entity] &&
+    op.entity !== 'site' &&
+    op.entity !== 'closure' &&
+    !hasGuards(op.entity)
+  );
 }
 
 /** The checks of a create without its insert (the batched path inserts many at once), or the refusal. */
-export async function prepareBatchedCreate(em: EntityManager, actor: Actor, op: WriteOp, changes: ChangeBuffer,
-  opts: { deviceId?: string | null } = {}): Promise<WriteOutcome | PreparedCreate> {
+export async function prepareBatchedCreate(
+  em: EntityManager,
+  actor: Actor,
+  op: WriteOp,
+  changes: ChangeBuffer,
+  opts: { deviceId?: string | null } = {},
+): Promise<WriteOutcome | PreparedCreate> {
   const d = ENTITY_DEFS[op.entity];
   return prepareCreate({ em, actor, d, changes, deviceId: opts.deviceId ?? null }, op, clientFields(op.entity, op.fields));
 }
@@ -199,12 +242,22 @@ export async function prepareBatchedCreate(em: EntityManager, actor: Actor, op: 
  * or another unique value already taken is skipped, as the single create's ON CONFLICT DO NOTHING).
  */
 export async function insertPrepared(em: EntityManager, entity: EntityName, prepared: PreparedCreate[]): Promise<Set<string>> {
-  return insertRows(em, entity, prepared.map((p) => p.row));
+  return insertRows(
+    em,
+    entity,
+    prepared.map((p) => p.row),
+  );
 }
 
 /** The change log entry, listeners and answer of a create stored by insertPrepared. */
-export function finishBatchedCreate(em: EntityManager, actor: Actor, entity: EntityName, p: PreparedCreate, changes: ChangeBuffer,
-  opts: { deviceId?: string | null } = {}): Promise<WriteOutcome> {
+export function finishBatchedCreate(
+  em: EntityManager,
+  actor: Actor,
+  entity: EntityName,
+  p: PreparedCreate,
+  changes: ChangeBuffer,
+  opts: { deviceId?: string | null } = {},
+): Promise<WriteOutcome> {
   return finishCreate({ em, actor, d: ENTITY_DEFS[entity], changes, deviceId: opts.deviceId ?? null }, p);
 }
 
@@ -223,12 +276,22 @@ function repeatedCreate(d: EntityDef, current: Record<string, unknown>, incoming
  * left out of the fit change the data the flux stands on: a locked campaign refuses them.
  */
 function reviewOnly(d: EntityDef, changed: string[]): boolean {
-  return d.name === 'closure' && changed.every((f) => (CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f)
-    && !(CLOSURE_FIT_DATA_FIELDS as readonly string[]).includes(f));
+  return (
+    d.name === 'closure' &&
+    changed.every(
+      (f) => (CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f) && !(CLOSURE_FIT_DATA_FIELDS as readonly string[]).includes(f),
+    )
+  );
 }
 
 function conflict(fields: string[], server: Record<string, unknown>): WriteOutcome {
-  return { status: 'conflict', rev: Number(server['rev']), record: server, conflict: { fields, server, serverRev: Number(server['rev']) }, httpStatus: 409 };
+  return {
+    status: 'conflict',
+    rev: Number(server['rev']),
+    record: server,
+    conflict: { fields, server, serverRev: Number(server['rev']) },
+    httpStatus: 409,
+  };
 }
 
 function ruleDenied(ctx: Ctx, action: WriteAction, changed: string[], next: Record<string, unknown>): WriteOutcome | null {
@@ -239,11 +302,18 @@ function ruleDenied(ctx: Ctx, action: WriteAction, changed: string[], next: Reco
 /** Fields changed on the server after `baseRev`, from the change log. */
 async function serverChangedSince(em: EntityManager, d: EntityDef, id: string, baseRev: number): Promise<Set<string>> {
   const rows: { f: string }[] = await em.query(
-    `SELECT DISTINCT unnest(fields) AS f FROM change_log WHERE entity = $1 AND record_id = $2 AND rev > $3`, [d.name, id, baseRev]);
+    `SELECT DISTINCT unnest(fields) AS f FROM change_log WHERE entity = $1 AND record_id = $2 AND rev > $3`,
+    [d.name, id, baseRev],
+  );
   return new Set(rows.map((r) => r.f));
 }
 
-async function updateRecord(ctx: Ctx, op: WriteOp, current: Record<string, unknown>, incoming: Record<string, unknown>): Promise<WriteOutcome> {
+async function updateRecord(
+  ctx: Ctx,
+  op: WriteOp,
+  current: Record<string, unknown>,
+  incoming: Record<string, unknown>,
+): Promise<WriteOutcome> {
   const { d } = ctx;
   const rev = Number(current['rev']);
   const changed = Object.keys(incoming).filter((k) => !sameValue(incoming[k], current[k]));
@@ -253,7 +323,12 @@ async function updateRecord(ctx: Ctx, op: WriteOp, current: Record<string, unkno
   const fixed = changed.filter((k) => d.immutable.includes(k) && !movable.includes(k));
   // A move's own fields were allowed by its route's role; the field rules and follow-ons judge the rest.
   const edited = changed.filter((k) => !movable.includes(k));
-  if (fixed.length) return rejected(400, `${fixed.join(', ')} cannot change after creation`, fixed.map((path) => ({ path, message: 'Fixed at creation' })));
+  if (fixed.length)
+    return rejected(
+      400,
+      `${fixed.join(', ')} cannot change after creation`,
+      fixed.map((path) => ({ path, message: 'Fixed at creation' })),
+    );
   const stale = op.baseRev !== null && op.baseRev < rev;
   if (stale) {
     const serverChanged = await serverChangedSince(ctx.em, d, op.id, op.baseRev!);
@@ -263,21 +338,47 @@ async function updateRecord(ctx: Ctx, op: WriteOp, current: Record<string, unkno
   const v = validate(d.name, { ...current, ...Object.fromEntries(changed.map((k) => [k, incoming[k]])) });
   if (v.error) return v.error;
   const next = v.value;
-  const guard = (edited.length ? ruleDenied(ctx, 'update', edited, next) : null)
-    ?? (await checkReferences(ctx.em, d, siteId, next, changed))
-    ?? (reviewOnly(d, changed) ? null : await lockedCampaignMessage(ctx.em, d, next))
-    ?? (await checkGuards({ em: ctx.em, entity: d.name, id: op.id, action: 'update', current, next, changed }));
+  const guard =
+    (edited.length ? ruleDenied(ctx, 'update', edited, next) : null) ??
+    (await checkReferences(ctx.em, d, siteId, next, changed)) ??
+    (reviewOnly(d, changed) ? null : await lockedCampaignMessage(ctx.em, d, next)) ??
+    (await checkGuards({ em: ctx.em, entity: d.name, id: op.id, action: 'update', current, next, changed }));
   if (guard) return guard;
-  const follow = edited.length ? d.follows?.(current, edited) ?? {} : {};
+  const follow = edited.length ? (d.follows?.(current, edited) ?? {}) : {};
   Object.assign(next, follow);
   changed.push(...Object.keys(follow).filter((k) => !changed.includes(k) && !sameValue(follow[k], current[k])));
   const derived = await deriveFields(ctx.em, d.name, next, current);
-  const patch = { ...Object.fromEntries(changed.map((k) => [k, next[k]])), ...derived, rev: rev + 1, updatedAt: new Date(), updatedBy: ctx.actor.id };
+  const patch = {
+    ...Object.fromEntries(changed.map((k) => [k, next[k]])),
+    ...derived,
+    rev: rev + 1,
+    updatedAt: new Date(),
+    updatedBy: ctx.actor.id,
+  };
   await ctx.em.getRepository(d.target).update({ id: op.id }, patch);
   const derivedChanged = Object.keys(derived).filter((k) => !sameValue(derived[k], current[k]));
-  ctx.changes.add({ entity: d.name, recordId: op.id, rev: rev + 1, siteId, fields: [...changed, ...derivedChanged], deleted: false, userId: ctx.actor.id, deviceId: ctx.deviceId });
+  ctx.changes.add({
+    entity: d.name,
+    recordId: op.id,
+    rev: rev + 1,
+    siteId,
+    fields: [...changed, ...derivedChanged],
+    deleted: false,
+    userId: ctx.actor.id,
+    deviceId: ctx.deviceId,
+  });
   const record = toWire({ ...current, ...patch });
-  await notifyWritten({ em: ctx.em, actorId: ctx.actor.id, entity: d.name, id: op.id, action: 'update', before: current, after: record, changed, changes: ctx.changes });
+  await notifyWritten({
+    em: ctx.em,
+    actorId: ctx.actor.id,
+    entity: d.name,
+    id: op.id,
+    action: 'update',
+    before: current,
+    after: record,
+    changed,
+    changes: ctx.changes,
+  });
   return { status: stale ? 'merged' : 'applied', rev: rev + 1, record, warnings: await warningsFor(ctx.em, d.name, record) };
 }
 
@@ -288,8 +389,9 @@ async function deleteRecord(ctx: Ctx, op: WriteOp, existing: ObjectLiteral | nul
   const rev = Number(current['rev']);
   if (current['deleted']) return { status: 'applied', rev, record: current };
   const siteId = siteOf(d, op.id, current);
-  const guard = (await lockedCampaignMessage(ctx.em, d, current))
-    ?? (await checkGuards({ em: ctx.em, entity: d.name, id: op.id, action: 'delete', current, next: current, changed: ['deleted'] }));
+  const guard =
+    (await lockedCampaignMessage(ctx.em, d, current)) ??
+    (await checkGuards({ em: ctx.em, entity: d.name, id: op.id, action: 'delete', current, next: current, changed: ['deleted'] }));
   if (guard) return guard;
   if (op.baseRev !== null && op.baseRev < rev) {
     const serverChanged = [...(await serverChangedSince(ctx.em, d, op.id, op.baseRev))];
@@ -298,8 +400,27 @@ async function deleteRecord(ctx: Ctx, op: WriteOp, existing: ObjectLiteral | nul
   const patch = { deleted: true, rev: rev + 1, updatedAt: new Date(), updatedBy: ctx.actor.id };
   await ctx.em.getRepository(d.target).update({ id: op.id }, patch);
   forgetReference(ctx.em, d.table, op.id);
-  ctx.changes.add({ entity: d.name, recordId: op.id, rev: rev + 1, siteId, fields: ['deleted'], deleted: true, userId: ctx.actor.id, deviceId: ctx.deviceId });
+  ctx.changes.add({
+    entity: d.name,
+    recordId: op.id,
+    rev: rev + 1,
+    siteId,
+    fields: ['deleted'],
+    deleted: true,
+    userId: ctx.actor.id,
+    deviceId: ctx.deviceId,
+  });
   const record = toWire({ ...current, ...patch });
-  await notifyWritten({ em: ctx.em, actorId: ctx.actor.id, entity: d.name, id: op.id, action: 'delete', before: current, after: record, changed: ['deleted'], changes: ctx.changes });
+  await notifyWritten({
+    em: ctx.em,
+    actorId: ctx.actor.id,
+    entity: d.name,
+    id: op.id,
+    action: 'delete',
+    before: current,
+    after: record,
+    changed: ['deleted'],
+    changes: ctx.changes,
+  });
   return { status: 'applied', rev: rev + 1, record };
 }

@@ -29,7 +29,11 @@ export function sameValue(a: unknown, b: unknown): boolean {
 function canonical(v: unknown): unknown {
   if (Array.isArray(v)) return v.map((x) => canonical(normalizeValue(x)));
   if (v && typeof v === 'object') {
-    return Object.fromEntries(Object.keys(v).sort().map((k) => [k, canonical(normalizeValue((v as Record<string, unknown>)[k]))]));
+    return Object.fromEntries(
+      Object.keys(v)
+        .sort()
+        .map((k) => [k, canonical(normalizeValue((v as Record<string, unknown>)[k]))]),
+    );
   }
   return v === undefined ? null : v;
 }

@@ -15,10 +15,14 @@ import type { WriteGuard } from './write-guards';
  */
 export function writeGuardsFor(entity: EntityName): readonly WriteGuard[] {
   switch (entity) {
-    case 'campaign': return [guardCampaignLock];
-    case 'chamberProfile': return [guardProfileWrite];
-    case 'collar': return [guardCollarTreatment];
-    default: return [];
+    case 'campaign':
+      return [guardCampaignLock];
+    case 'chamberProfile':
+      return [guardProfileWrite];
+    case 'collar':
+      return [guardCollarTreatment];
+    default:
+      return [];
   }
 }
 

@@ -3,8 +3,14 @@ import { join } from 'node:path';
 import { blockAnalysis, fitAdditive } from './block-analysis';
 import type { Cell, PlotMean } from './design-aggregation';
 
-interface BlockCase { name: string; rows: [string, string, number][]; df_resid: number; mse_resid: number;
-  lsmeans: Record<string, { mean: number; se: number }>; factor_effects: Record<string, number> }
+interface BlockCase {
+  name: string;
+  rows: [string, string, number][];
+  df_resid: number;
+  mse_resid: number;
+  lsmeans: Record<string, { mean: number; se: number }>;
+  factor_effects: Record<string, number>;
+}
 const blocks: { cases: BlockCase[] } = JSON.parse(readFileSync(join(__dirname, 'fixtures', 'statsmodels-blocks.json'), 'utf8'));
 
 /**
@@ -13,26 +19,42 @@ const blocks: { cases: BlockCase[] } = JSON.parse(readFileSync(join(__dirname, '
  * balanced, unbalanced and missing-block strata, and split-plot strata paired by plot.
  */
 describe('block and split-plot analysis (statsmodels reference)', () => {
-  it.each(blocks.cases.map((c) => [c.name, c] as const))('when the stratum is %s, then df, MS, LS means, their SEs and effects match statsmodels', (_n, c) => {
-    const fit = fitAdditive(c.rows.map(([cell, factor, y]) => ({ cell, factor, y })))!;
-    expect(fit.dfResidual).toBe(c.df_resid);
-    expect(fit.msResidual!).toBeCloseTo(c.mse_resid, 10);
-    for (const [cell, m] of Object.entries(c.lsmeans)) {
-      expect(fit.lsMeans.get(cell)!.mean).toBeCloseTo(m.mean, 10);
-      expect(fit.lsMeans.get(cell)!.se!).toBeCloseTo(m.se, 10);
-    }
-    for (const [level, e] of Object.entries(c.factor_effects)) expect(fit.effects.get(level)!).toBeCloseTo(e, 10);
-  });
+  it.each(blocks.cases.map((c) => [c.name, c] as const))(
+    'when the stratum is %s, then df, MS, LS means, their SEs and effects match statsmodels',
+    (_n, c) => {
+      const fit = fitAdditive(c.rows.map(([cell, factor, y]) => ({ cell, factor, y })))!;
+      expect(fit.dfResidual).toBe(c.df_resid);
+      expect(fit.msResidual!).toBeCloseTo(c.mse_resid, 10);
+      for (const [cell, m] of Object.entries(c.lsmeans)) {
+        expect(fit.lsMeans.get(cell)!.mean).toBeCloseTo(m.mean, 10);
+        expect(fit.lsMeans.get(cell)!.se!).toBeCloseTo(m.se, 10);
+      }
+      for (const [level, e] of Object.entries(c.factor_effects)) expect(fit.effects.get(level)!).toBeCloseTo(e, 10);
+    },
+  );
 
   it('when collar-level cells share plots spread over blocks, then the plot, not the block, pairs them', () => {
     const t = (code: string) => ({ id: code, code, name: code });
-    const cells = new Map<string, Cell>([['C|X', { key: 'C|X', label: 'C · X', level: 'collar', plotTreatment: t('C'), collarTreatment: t('X') }],
-      ['C|Y', { key: 'C|Y', label: 'C · Y', level: 'collar', plotTreatment: t('C'), collarTreatment: t('Y') }]]);
+    const cells = new Map<string, Cell>([
+      ['C|X', { key: 'C|X', label: 'C · X', level: 'collar', plotTreatment: t('C'), collarTreatment: t('X') }],
+      ['C|Y', { key: 'C|Y', label: 'C · Y', level: 'collar', plotTreatment: t('C'), collarTreatment: t('Y') }],
+    ]);
     const split = blocks.cases.find((c) => c.name === 'split plot, balanced')!;
     // Two plots per block: pairing by block would mix plots and change df and MS.
     const blockOf: Record<string, string> = { P1: 'B1', P2: 'B1', P3: 'B2', P4: 'B2', P5: 'B3' };
-    const plotMeans: PlotMean[] = split.rows.map(([cell, plot, y]) => ({ plotId: String(plot), plotCode: String(plot), blockCode: blockOf[String(plot)],
-      cellKey: `C|${cell}`, campaignId: 'K', nCollars: 1, nVisits: 1, nClosures: 1, fluxUmolM2S: Number(y), soilTempC: null, vwcPct: null }));
+    const plotMeans: PlotMean[] = split.rows.map(([cell, plot, y]) => ({
+      plotId: String(plot),
+      plotCode: String(plot),
+      blockCode: blockOf[String(plot)],
+      cellKey: `C|${cell}`,
+      campaignId: 'K',
+      nCollars: 1,
+      nVisits: 1,
+      nClosures: 1,
+      fluxUmolM2S: Number(y),
+      soilTempC: null,
+      vwcPct: null,
+    }));
     const [s] = blockAnalysis(plotMeans, cells);
     expect(s).toMatchObject({ factor: 'plot', blockCodes: ['P1', 'P2', 'P3', 'P4', 'P5'], dfResidual: split.df_resid });
     expect(s.msResidual!).toBeCloseTo(split.mse_resid, 10);

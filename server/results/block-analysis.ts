@@ -32,7 +32,8 @@ export interface BlockStratum {
 }
 
 export interface AdditiveFit {
-  dfResidual: number; msResidual: number | null;
+  dfResidual: number;
+  msResidual: number | null;
   lsMeans: Map<string, { mean: number; se: number | null }>;
   effects: Map<string, number>;
 }
@@ -73,7 +74,10 @@ export function fitAdditive(rows: readonly { cell: string; factor: string; y: nu
   const xty = new Array<number>(p).fill(0);
   for (const r of rows) {
     const x = row(r.cell, r.factor);
-    for (let i = 0; i < p; i++) { xty[i] += x[i] * r.y; for (let j = 0; j < p; j++) xtx[i][j] += x[i] * x[j]; }
+    for (let i = 0; i < p; i++) {
+      xty[i] += x[i] * r.y;
+      for (let j = 0; j < p; j++) xtx[i][j] += x[i] * x[j];
+    }
   }
   const inv = invert(xtx);
   if (!inv) return null;
@@ -83,11 +87,26 @@ export function fitAdditive(rows: readonly { cell: string; factor: string; y: nu
   for (const r of rows) rss += (r.y - dot(row(r.cell, r.factor), beta)) ** 2;
   const df = rows.length - p;
   const ms = df > 0 ? rss / df : null;
-  const se = (l: number[]) => (ms === null ? null : Math.sqrt(ms * dot(l, inv.map((r) => dot(r, l)))));
+  const se = (l: number[]) =>
+    ms === null
+      ? null
+      : Math.sqrt(
+          ms *
+            dot(
+              l,
+              inv.map((r) => dot(r, l)),
+            ),
+        );
   const grand = dot(row(null, null), beta);
   return {
-    dfResidual: Math.max(df, 0), msResidual: ms,
-    lsMeans: new Map(cells.map((c) => { const l = row(c, null); return [c, { mean: dot(l, beta), se: se(l) }]; })),
+    dfResidual: Math.max(df, 0),
+    msResidual: ms,
+    lsMeans: new Map(
+      cells.map((c) => {
+        const l = row(c, null);
+        return [c, { mean: dot(l, beta), se: se(l) }];
+      }),
+    ),
     effects: new Map(levels.map((l) => [l, dot(row(null, l), beta) - grand])),
   };
 }
@@ -116,10 +135,15 @@ export function blockAnalysis(plotMeans: readonly PlotMean[], cells: ReadonlyMap
     const levels = [...new Set(g.rows.map((r) => r.factor))].sort();
     const fit = cellKeys.length > 1 && levels.length > 1 ? fitAdditive(g.rows) : null;
     out.push({
-      campaignId, stratum, factor: g.factor, cellKeys, blockCodes: levels,
+      campaignId,
+      stratum,
+      factor: g.factor,
+      cellKeys,
+      blockCodes: levels,
       blockEffects: fit ? levels.map((l) => ({ blockCode: l, effectUmolM2S: fit.effects.get(l)! })) : [],
       lsMeans: fit ? cellKeys.map((c) => ({ cellKey: c, meanUmolM2S: fit.lsMeans.get(c)!.mean, seUmolM2S: fit.lsMeans.get(c)!.se })) : [],
-      dfResidual: fit?.dfResidual ?? 0, msResidual: fit?.msResidual ?? null,
+      dfResidual: fit?.dfResidual ?? 0,
+      msResidual: fit?.msResidual ?? null,
       seBlockUmolM2S: fit?.msResidual == null ? null : Math.sqrt(fit.msResidual / levels.length),
     });
   }

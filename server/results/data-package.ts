@@ -22,19 +22,27 @@ export interface Provenance {
 const FORMAT: Partial<Record<FieldType, string>> = { date: 'default', datetime: 'default' };
 
 function constraints(f: FieldDef) {
-  const c = { ...(f.required ? { required: true } : {}), ...(f.enum ? { enum: [...f.enum] } : {}),
-    ...(f.minimum !== undefined ? { minimum: f.minimum } : {}), ...(f.maximum !== undefined ? { maximum: f.maximum } : {}) };
+  const c = {
+    ...(f.required ? { required: true } : {}),
+    ...(f.enum ? { enum: [...f.enum] } : {}),
+    ...(f.minimum !== undefined ? { minimum: f.minimum } : {}),
+    ...(f.maximum !== undefined ? { maximum: f.maximum } : {}),
+  };
   return Object.keys(c).length ? { constraints: c } : {};
 }
 
 export function dataPackage(p: Provenance, rowCounts: Record<string, number>, bytes: Record<string, number>) {
   return {
     profile: 'data-package',
-    name: `fluxwalk-${p.site.name.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '')}-${localDay(p.generatedAt, p.site.timezone)}`,
+    name: `fluxwalk-${p.site.name
+      .toLowerCase()
+      .replace(/[^a-z0-9]+/g, '-')
+      .replace(/^-|-$/g, '')}-${localDay(p.generatedAt, p.site.timezone)}`,
     id: p.jobId,
     title: `Soil CO2 efflux, ${p.site.name}`,
-    description: 'Chamber closures, their raw series, visits, collars, probe readings, and fluxes aggregated along the experimental design '
-      + '(closure → visit → collar → plot → treatment), temperature responses and seasonal totals.',
+    description:
+      'Chamber closures, their raw series, visits, collars, probe readings, and fluxes aggregated along the experimental design ' +
+      '(closure → visit → collar → plot → treatment), temperature responses and seasonal totals.',
     version: '1.0.0',
     created: p.generatedAt,
     licenses: [{ name: p.license.id, path: p.license.url, title: p.license.title }],
@@ -55,18 +63,34 @@ export function dataPackage(p: Provenance, rowCounts: Record<string, number>, by
         dialect: { delimiter: ',', doubleQuote: true, header: true, lineTerminator: '\n' },
         schema: {
           fields: t.fields.map((f) => ({
-            name: f.name, type: f.type, ...(FORMAT[f.type] ? { format: FORMAT[f.type] } : {}), description: f.description,
-            ...(f.unit ? { unit: f.unit } : {}), ...constraints(f),
+            name: f.name,
+            type: f.type,
+            ...(FORMAT[f.type] ? { format: FORMAT[f.type] } : {}),
+            description: f.description,
+            ...(f.unit ? { unit: f.unit } : {}),
+            ...constraints(f),
           })),
           missingValues: [''],
           ...(t.primaryKey ? { primaryKey: t.primaryKey } : {}),
           ...(t.foreignKeys ? { foreignKeys: t.foreignKeys } : {}),
         },
       })),
-      { name: 'provenance', path: 'provenance.json', profile: 'data-resource', format: 'json', mediatype: 'application/json',
-        description: 'Engine version, parameters, who generated the export and when.' },
-      { name: 'metadata-eml', path: 'metadata.eml.xml', profile: 'data-resource', format: 'xml', mediatype: 'application/xml',
-        description: 'Ecological Metadata Language 2.2 description of the dataset.' },
+      {
+        name: 'provenance',
+        path: 'provenance.json',
+        profile: 'data-resource',
+        format: 'json',
+        mediatype: 'application/json',
+        description: 'Engine version, parameters, who generated the export and when.',
+      },
+      {
+        name: 'metadata-eml',
+        path: 'metadata.eml.xml',
+        profile: 'data-resource',
+        format: 'xml',
+        mediatype: 'application/xml',
+        description: 'Ecological Metadata Language 2.2 description of the dataset.',
+      },
     ],
   };
 }

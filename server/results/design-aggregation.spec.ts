@@ -7,19 +7,62 @@ import { aggregateDesign, type ClosureIn, type DesignInput, type VisitIn } from 
 function design(): DesignInput {
   const t = (code: string) => ({ id: `t-${code}`, code, name: code });
   const plots = [
-    ['P1', 'B1', 'A'], ['P2', 'B1', 'B'], ['P3', 'B2', 'A'], ['P4', 'B2', 'B'], ['P5', 'B1', 'C'], ['P6', 'B2', 'C'],
+    ['P1', 'B1', 'A'],
+    ['P2', 'B1', 'B'],
+    ['P3', 'B2', 'A'],
+    ['P4', 'B2', 'B'],
+    ['P5', 'B1', 'C'],
+    ['P6', 'B2', 'C'],
   ].map(([p, b, tr]) => ({ plotId: p, plotCode: p, blockId: b, blockCode: b, plotTreatment: t(tr) }));
   const collars = [
-    ['c1', 'P1', null], ['c2', 'P1', null], ['c3', 'P2', null], ['c4', 'P3', null], ['c5', 'P4', null], ['c6', 'P4', null],
-    ['x1', 'P5', 'X'], ['y1', 'P5', 'Y'], ['x2', 'P6', 'X'], ['y2', 'P6', 'Y'],
+    ['c1', 'P1', null],
+    ['c2', 'P1', null],
+    ['c3', 'P2', null],
+    ['c4', 'P3', null],
+    ['c5', 'P4', null],
+    ['c6', 'P4', null],
+    ['x1', 'P5', 'X'],
+    ['y1', 'P5', 'Y'],
+    ['x2', 'P6', 'X'],
+    ['y2', 'P6', 'Y'],
   ].map(([c, p, ct]) => ({ collarId: c!, collarCode: c!, plotId: p!, collarTreatment: ct ? t(ct) : null }));
-  const visit = (visitId: string, collarId: string, round: number, soilTempC: number | null = null): VisitIn =>
-    ({ visitId, collarId, campaignId: 'K', round, arrivedAt: '2026-06-01T08:00:00Z', soilTempC, vwcPct: null });
-  const visits = [visit('v1', 'c1', 1, 10), visit('v1b', 'c1', 2, 14), visit('v2', 'c2', 1), visit('v3', 'c3', 1), visit('v4', 'c4', 1),
-    visit('v5', 'c5', 1), visit('v6', 'c6', 1), visit('vx1', 'x1', 1), visit('vy1', 'y1', 1), visit('vx2', 'x2', 1), visit('vy2', 'y2', 1),
-    visit('vskip', 'c3', 2)];
-  const fluxes: [string, number][] = [['v1', 2], ['v1', 4], ['v1b', 5], ['v2', 2], ['v3', 6], ['v4', 5], ['v5', 8], ['v6', 10],
-    ['vx1', 1], ['vy1', 3], ['vx2', 2], ['vy2', 5]];
+  const visit = (visitId: string, collarId: string, round: number, soilTempC: number | null = null): VisitIn => ({
+    visitId,
+    collarId,
+    campaignId: 'K',
+    round,
+    arrivedAt: '2026-06-01T08:00:00Z',
+    soilTempC,
+    vwcPct: null,
+  });
+  const visits = [
+    visit('v1', 'c1', 1, 10),
+    visit('v1b', 'c1', 2, 14),
+    visit('v2', 'c2', 1),
+    visit('v3', 'c3', 1),
+    visit('v4', 'c4', 1),
+    visit('v5', 'c5', 1),
+    visit('v6', 'c6', 1),
+    visit('vx1', 'x1', 1),
+    visit('vy1', 'y1', 1),
+    visit('vx2', 'x2', 1),
+    visit('vy2', 'y2', 1),
+    visit('vskip', 'c3', 2),
+  ];
+  const fluxes: [string, number][] = [
+    ['v1', 2],
+    ['v1', 4],
+    ['v1b', 5],
+    ['v2', 2],
+    ['v3', 6],
+    ['v4', 5],
+    ['v5', 8],
+    ['v6', 10],
+    ['vx1', 1],
+    ['vy1', 3],
+    ['vx2', 2],
+    ['vy2', 5],
+  ];
   const closures: ClosureIn[] = fluxes.map(([visitId, f], i) => ({ closureId: `k${i}`, visitId, fluxUmolM2S: f }));
   return { plots, collars, visits, closures, campaigns: [{ campaignId: 'K', name: 'K', startsOn: '2026-06-01', endsOn: '2026-06-01' }] };
 }
@@ -61,7 +104,10 @@ describe('aggregation along the experimental design (hand calculation)', () => {
     expect(plot.cellKeys).toEqual(['A|none', 'B|none']);
     expect(plot.dfResidual).toBe(1);
     expect(plot.msResidual).toBeCloseTo(0.25, 12);
-    expect(plot.blockEffects).toEqual([{ blockCode: 'B1', effectUmolM2S: -1.25 }, { blockCode: 'B2', effectUmolM2S: 1.25 }]);
+    expect(plot.blockEffects).toEqual([
+      { blockCode: 'B1', effectUmolM2S: -1.25 },
+      { blockCode: 'B2', effectUmolM2S: 1.25 },
+    ]);
     expect(cell('A|none').seBlockUmolM2S).toBeCloseTo(Math.sqrt(0.125), 12);
     // Collar stratum inside C: X (1, 2), Y (3, 5); grand 2.75; residuals ±0.25 as well.
     const collar = agg.blockStrata.find((s) => s.stratum === 'collar-level within C')!;

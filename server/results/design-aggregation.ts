@@ -13,17 +13,53 @@
 import { blockAnalysis, type BlockStratum } from './block-analysis';
 import { mean, meanOrNull, sd } from './stats';
 
-export interface ClosureIn { closureId: string; visitId: string; fluxUmolM2S: number }
+export interface ClosureIn {
+  closureId: string;
+  visitId: string;
+  fluxUmolM2S: number;
+}
 /** A visit's probe replicates: mean (soilTempC, vwcPct), SD and n, and temperatures left out for their depth. */
-export interface VisitProbeStats { soilTempSdC: number | null; soilTempN: number; vwcSdPct: number | null; vwcN: number; offDepthN: number }
+export interface VisitProbeStats {
+  soilTempSdC: number | null;
+  soilTempN: number;
+  vwcSdPct: number | null;
+  vwcN: number;
+  offDepthN: number;
+}
 export interface VisitIn {
-  visitId: string; collarId: string; campaignId: string; round: number; arrivedAt: string; soilTempC: number | null; vwcPct: number | null;
+  visitId: string;
+  collarId: string;
+  campaignId: string;
+  round: number;
+  arrivedAt: string;
+  soilTempC: number | null;
+  vwcPct: number | null;
   probe?: VisitProbeStats;
 }
-export interface TreatmentRef { id: string; code: string; name: string }
-export interface CollarIn { collarId: string; collarCode: string; plotId: string; collarTreatment: TreatmentRef | null }
-export interface PlotIn { plotId: string; plotCode: string; blockId: string | null; blockCode: string | null; plotTreatment: TreatmentRef | null }
-export interface CampaignIn { campaignId: string; name: string; startsOn: string; endsOn: string }
+export interface TreatmentRef {
+  id: string;
+  code: string;
+  name: string;
+}
+export interface CollarIn {
+  collarId: string;
+  collarCode: string;
+  plotId: string;
+  collarTreatment: TreatmentRef | null;
+}
+export interface PlotIn {
+  plotId: string;
+  plotCode: string;
+  blockId: string | null;
+  blockCode: string | null;
+  plotTreatment: TreatmentRef | null;
+}
+export interface CampaignIn {
+  campaignId: string;
+  name: string;
+  startsOn: string;
+  endsOn: string;
+}
 
 export interface DesignInput {
   closures: ClosureIn[];
@@ -34,24 +70,64 @@ export interface DesignInput {
 }
 
 export interface VisitMean {
-  visitId: string; collarId: string; plotId: string; cellKey: string; campaignId: string; round: number; arrivedAt: string;
-  nClosures: number; fluxUmolM2S: number; soilTempC: number | null; vwcPct: number | null; probe?: VisitProbeStats;
+  visitId: string;
+  collarId: string;
+  plotId: string;
+  cellKey: string;
+  campaignId: string;
+  round: number;
+  arrivedAt: string;
+  nClosures: number;
+  fluxUmolM2S: number;
+  soilTempC: number | null;
+  vwcPct: number | null;
+  probe?: VisitProbeStats;
 }
-export interface CollarMean { collarId: string; plotId: string; cellKey: string; campaignId: string; nVisits: number; nClosures: number; fluxUmolM2S: number; soilTempC: number | null; vwcPct: number | null }
+export interface CollarMean {
+  collarId: string;
+  plotId: string;
+  cellKey: string;
+  campaignId: string;
+  nVisits: number;
+  nClosures: number;
+  fluxUmolM2S: number;
+  soilTempC: number | null;
+  vwcPct: number | null;
+}
 export interface PlotMean {
-  plotId: string; plotCode: string; blockCode: string | null; cellKey: string; campaignId: string;
-  nCollars: number; nVisits: number; nClosures: number; fluxUmolM2S: number; soilTempC: number | null; vwcPct: number | null;
+  plotId: string;
+  plotCode: string;
+  blockCode: string | null;
+  cellKey: string;
+  campaignId: string;
+  nCollars: number;
+  nVisits: number;
+  nClosures: number;
+  fluxUmolM2S: number;
+  soilTempC: number | null;
+  vwcPct: number | null;
 }
 export interface Cell {
-  key: string; label: string; level: 'plot' | 'collar';
-  plotTreatment: TreatmentRef | null; collarTreatment: TreatmentRef | null;
+  key: string;
+  label: string;
+  level: 'plot' | 'collar';
+  plotTreatment: TreatmentRef | null;
+  collarTreatment: TreatmentRef | null;
 }
 export interface CellMean {
-  cellKey: string; campaignId: string; nPlots: number; nCollars: number; nVisits: number; nClosures: number;
-  meanUmolM2S: number; sdUmolM2S: number | null; seUmolM2S: number | null;
+  cellKey: string;
+  campaignId: string;
+  nPlots: number;
+  nCollars: number;
+  nVisits: number;
+  nClosures: number;
+  meanUmolM2S: number;
+  sdUmolM2S: number | null;
+  seUmolM2S: number | null;
   /** SE of the cell's least-squares mean in the additive cell + block (or, for collar-level cells, cell + plot) model. */
   seBlockUmolM2S: number | null;
-  soilTempC: number | null; vwcPct: number | null;
+  soilTempC: number | null;
+  vwcPct: number | null;
 }
 
 export interface DesignAggregate {
@@ -101,25 +177,47 @@ export function aggregateDesign(input: DesignInput): DesignAggregate {
     const cell = cellOf(plot, collar);
     cells.set(cell.key, cell);
     visitMeans.push({
-      visitId: v.visitId, collarId: v.collarId, plotId: plot.plotId, cellKey: cell.key, campaignId: v.campaignId, round: v.round,
-      arrivedAt: v.arrivedAt, nClosures: closures.length, fluxUmolM2S: mean(closures.map((c) => c.fluxUmolM2S)),
-      soilTempC: v.soilTempC, vwcPct: v.vwcPct, probe: v.probe,
+      visitId: v.visitId,
+      collarId: v.collarId,
+      plotId: plot.plotId,
+      cellKey: cell.key,
+      campaignId: v.campaignId,
+      round: v.round,
+      arrivedAt: v.arrivedAt,
+      nClosures: closures.length,
+      fluxUmolM2S: mean(closures.map((c) => c.fluxUmolM2S)),
+      soilTempC: v.soilTempC,
+      vwcPct: v.vwcPct,
+      probe: v.probe,
     });
   }
 
   const collarMeans: CollarMean[] = [...groupBy(visitMeans, (v) => `${v.campaignId}|${v.collarId}`).values()].map((vs) => ({
-    collarId: vs[0].collarId, plotId: vs[0].plotId, cellKey: vs[0].cellKey, campaignId: vs[0].campaignId,
-    nVisits: vs.length, nClosures: sum(vs.map((v) => v.nClosures)), fluxUmolM2S: mean(vs.map((v) => v.fluxUmolM2S)),
-    soilTempC: meanOrNull(vs.map((v) => v.soilTempC)), vwcPct: meanOrNull(vs.map((v) => v.vwcPct)),
+    collarId: vs[0].collarId,
+    plotId: vs[0].plotId,
+    cellKey: vs[0].cellKey,
+    campaignId: vs[0].campaignId,
+    nVisits: vs.length,
+    nClosures: sum(vs.map((v) => v.nClosures)),
+    fluxUmolM2S: mean(vs.map((v) => v.fluxUmolM2S)),
+    soilTempC: meanOrNull(vs.map((v) => v.soilTempC)),
+    vwcPct: meanOrNull(vs.map((v) => v.vwcPct)),
   }));
 
   const plotMeans: PlotMean[] = [...groupBy(collarMeans, (c) => `${c.campaignId}|${c.cellKey}|${c.plotId}`).values()].map((cs) => {
     const plot = plots.get(cs[0].plotId)!;
     return {
-      plotId: plot.plotId, plotCode: plot.plotCode, blockCode: plot.blockCode, cellKey: cs[0].cellKey, campaignId: cs[0].campaignId,
-      nCollars: cs.length, nVisits: sum(cs.map((c) => c.nVisits)), nClosures: sum(cs.map((c) => c.nClosures)),
+      plotId: plot.plotId,
+      plotCode: plot.plotCode,
+      blockCode: plot.blockCode,
+      cellKey: cs[0].cellKey,
+      campaignId: cs[0].campaignId,
+      nCollars: cs.length,
+      nVisits: sum(cs.map((c) => c.nVisits)),
+      nClosures: sum(cs.map((c) => c.nClosures)),
       fluxUmolM2S: mean(cs.map((c) => c.fluxUmolM2S)),
-      soilTempC: meanOrNull(cs.map((c) => c.soilTempC)), vwcPct: meanOrNull(cs.map((c) => c.vwcPct)),
+      soilTempC: meanOrNull(cs.map((c) => c.soilTempC)),
+      vwcPct: meanOrNull(cs.map((c) => c.vwcPct)),
     };
   });
 
@@ -131,17 +229,26 @@ export function aggregateDesign(input: DesignInput): DesignAggregate {
     const y = ps.map((p) => p.fluxUmolM2S);
     const s = ps.length > 1 ? sd(y) : null;
     return {
-      cellKey: ps[0].cellKey, campaignId: ps[0].campaignId, nPlots: ps.length, nCollars: sum(ps.map((p) => p.nCollars)),
-      nVisits: sum(ps.map((p) => p.nVisits)), nClosures: sum(ps.map((p) => p.nClosures)),
-      meanUmolM2S: mean(y), sdUmolM2S: s, seUmolM2S: s === null ? null : s / Math.sqrt(ps.length),
+      cellKey: ps[0].cellKey,
+      campaignId: ps[0].campaignId,
+      nPlots: ps.length,
+      nCollars: sum(ps.map((p) => p.nCollars)),
+      nVisits: sum(ps.map((p) => p.nVisits)),
+      nClosures: sum(ps.map((p) => p.nClosures)),
+      meanUmolM2S: mean(y),
+      sdUmolM2S: s,
+      seUmolM2S: s === null ? null : s / Math.sqrt(ps.length),
       seBlockUmolM2S: seBlock.get(key) ?? null,
-      soilTempC: meanOrNull(ps.map((p) => p.soilTempC)), vwcPct: meanOrNull(ps.map((p) => p.vwcPct)),
+      soilTempC: meanOrNull(ps.map((p) => p.soilTempC)),
+      vwcPct: meanOrNull(ps.map((p) => p.vwcPct)),
     };
   });
 
   const order = new Map(input.campaigns.map((c, i) => [c.campaignId, i]));
   const cellList = [...cells.values()].sort((a, b) => a.key.localeCompare(b.key));
   const cellOrder = new Map(cellList.map((c, i) => [c.key, i]));
-  cellMeans.sort((a, b) => (order.get(a.campaignId) ?? 0) - (order.get(b.campaignId) ?? 0) || cellOrder.get(a.cellKey)! - cellOrder.get(b.cellKey)!);
+  cellMeans.sort(
+    (a, b) => (order.get(a.campaignId) ?? 0) - (order.get(b.campaignId) ?? 0) || cellOrder.get(a.cellKey)! - cellOrder.get(b.cellKey)!,
+  );
   return { cells: cellList, visitMeans, collarMeans, plotMeans, cellMeans, blockStrata };
 }

@@ -5,9 +5,14 @@ import { TABLES } from './export-schema';
 
 // 20:30 UTC on 1 June 2026 is 08:30 on 2 June in Auckland (NZST, UTC+12, tz database).
 const provenance = {
-  engineVersion: 'test', generatedAt: '2026-06-01T20:30:00.000Z', generatedBy: { id: 'u', name: 'Lab', email: 'lab@x' }, jobId: 'job-1',
-  site: { id: 's', name: 'Hollow Creek', timezone: 'Pacific/Auckland', tempDepthCm: 5, tempDepthToleranceCm: 1 }, license: dataLicence('CC-BY-4.0')!,
-  parameters: {}, counts: {},
+  engineVersion: 'test',
+  generatedAt: '2026-06-01T20:30:00.000Z',
+  generatedBy: { id: 'u', name: 'Lab', email: 'lab@x' },
+  jobId: 'job-1',
+  site: { id: 's', name: 'Hollow Creek', timezone: 'Pacific/Auckland', tempDepthCm: 5, tempDepthToleranceCm: 1 },
+  license: dataLicence('CC-BY-4.0')!,
+  parameters: {},
+  counts: {},
 } as Provenance;
 
 describe('data package dates and state words', () => {

@@ -9,15 +9,37 @@
  * β ± t(0.975, n − 2)·SE, back-transformed for R10 and Q10. Non-positive fluxes have no logarithm:
  * they are left out and counted, since leaving them out lifts the curve.
  */
-import { LLOYD_TAYLOR_T0_K, lloydTaylorModel, q10Model, RESPONSE_LIMITS, ZERO_CELSIUS_K, type Estimate, type Refusal } from '../../shared/flux';
+import {
+  LLOYD_TAYLOR_T0_K,
+  lloydTaylorModel,
+  q10Model,
+  RESPONSE_LIMITS,
+  ZERO_CELSIUS_K,
+  type Estimate,
+  type Refusal,
+} from '../../shared/flux';
 import { studentTQuantile } from '../../shared/flux/student-t';
 
 export interface LogScaleFit {
-  ok: true; n: number; nLeftOut: number; tempSpanC: number; rmseLog: number;
-  r10: Estimate; q10: Estimate | null; e0K: Estimate | null; warnings: string[];
+  ok: true;
+  n: number;
+  nLeftOut: number;
+  tempSpanC: number;
+  rmseLog: number;
+  r10: Estimate;
+  q10: Estimate | null;
+  e0K: Estimate | null;
+  warnings: string[];
 }
 
-interface Line { a: number; b: number; seA: number; seB: number; rss: number; n: number }
+interface Line {
+  a: number;
+  b: number;
+  seA: number;
+  seB: number;
+  rss: number;
+  n: number;
+}
 
 /** Simple linear regression y = a + b·x with the usual standard errors (n − 2 degrees of freedom). */
 export function olsLine(x: readonly number[], y: readonly number[]): Line {
@@ -26,7 +48,10 @@ export function olsLine(x: readonly number[], y: readonly number[]): Line {
   const my = y.reduce((s, v) => s + v, 0) / n;
   let sxx = 0;
   let sxy = 0;
-  for (let i = 0; i < n; i++) { sxx += (x[i] - mx) ** 2; sxy += (x[i] - mx) * (y[i] - my); }
+  for (let i = 0; i < n; i++) {
+    sxx += (x[i] - mx) ** 2;
+    sxy += (x[i] - mx) * (y[i] - my);
+  }
   const b = sxy / sxx;
   const a = my - b * mx;
   let rss = 0;
@@ -35,8 +60,12 @@ export function olsLine(x: readonly number[], y: readonly number[]): Line {
   return { a, b, seB: Math.sqrt(s2 / sxx), seA: Math.sqrt(s2 * (1 / n + (mx * mx) / sxx)), rss, n };
 }
 
-const expEstimate = (v: number, se: number, tq: number): Estimate =>
-  ({ value: Math.exp(v), se: Math.exp(v) * se, ciLow: Math.exp(v - tq * se), ciHigh: Math.exp(v + tq * se) });
+const expEstimate = (v: number, se: number, tq: number): Estimate => ({
+  value: Math.exp(v),
+  se: Math.exp(v) * se,
+  ciLow: Math.exp(v - tq * se),
+  ciHigh: Math.exp(v + tq * se),
+});
 
 export function fitLogScale(model: 'q10' | 'lloyd-taylor', tempC: readonly number[], flux: readonly number[]): LogScaleFit | Refusal {
   const t: number[] = [];
@@ -44,11 +73,16 @@ export function fitLogScale(model: 'q10' | 'lloyd-taylor', tempC: readonly numbe
   let leftOut = 0;
   for (let i = 0; i < tempC.length; i++) {
     if (!Number.isFinite(tempC[i]) || !Number.isFinite(flux[i])) continue;
-    if (flux[i] > 0) { t.push(tempC[i]); ly.push(Math.log(flux[i])); } else leftOut++;
+    if (flux[i] > 0) {
+      t.push(tempC[i]);
+      ly.push(Math.log(flux[i]));
+    } else leftOut++;
   }
   const span = t.length ? Math.max(...t) - Math.min(...t) : 0;
-  if (t.length < RESPONSE_LIMITS.minPoints) return { ok: false, reason: `fewer than ${RESPONSE_LIMITS.minPoints} points with a positive flux (${t.length})` };
-  if (span < RESPONSE_LIMITS.minSpanC) return { ok: false, reason: `temperature span ${span.toFixed(1)} °C is below ${RESPONSE_LIMITS.minSpanC} °C` };
+  if (t.length < RESPONSE_LIMITS.minPoints)
+    return { ok: false, reason: `fewer than ${RESPONSE_LIMITS.minPoints} points with a positive flux (${t.length})` };
+  if (span < RESPONSE_LIMITS.minSpanC)
+    return { ok: false, reason: `temperature span ${span.toFixed(1)} °C is below ${RESPONSE_LIMITS.minSpanC} °C` };
   if (model === 'lloyd-taylor' && t.some((tc) => tc + ZERO_CELSIUS_K <= LLOYD_TAYLOR_T0_K + 1)) {
     return { ok: false, reason: 'temperature at or below T0 = 227.13 K' };
   }
@@ -58,7 +92,11 @@ export function fitLogScale(model: 'q10' | 'lloyd-taylor', tempC: readonly numbe
   const warnings: string[] = [];
   if (leftOut) warnings.push(`${leftOut} non-positive fluxes left out of the log-scale fit (the curve is lifted)`);
   return {
-    ok: true, n: line.n, nLeftOut: leftOut, tempSpanC: span, rmseLog: Math.sqrt(line.rss / line.n),
+    ok: true,
+    n: line.n,
+    nLeftOut: leftOut,
+    tempSpanC: span,
+    rmseLog: Math.sqrt(line.rss / line.n),
     r10: expEstimate(line.a, line.seA, tq),
     q10: model === 'q10' ? expEstimate(line.b, line.seB, tq) : null,
     e0K: model === 'lloyd-taylor' ? { value: line.b, se: line.seB, ciLow: line.b - tq * line.seB, ciHigh: line.b + tq * line.seB } : null,

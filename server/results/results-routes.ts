@@ -47,7 +47,12 @@ export function registerResultsRoutes(r: RouteRegistry, ds: DataSource): void {
     const body = (req.body ?? {}) as { license?: unknown };
     // A package without a licence is one a repository cannot publish and a stranger cannot reuse.
     if (typeof body.license !== 'string' || !DATA_LICENCE_IDS.includes(body.license)) {
-      throw new AppError(400, LICENCE_HELP, [{ path: 'license', message: body.license === undefined ? 'No licence was chosen' : `${String(body.license)} is not one of the listed licences` }]);
+      throw new AppError(400, LICENCE_HELP, [
+        {
+          path: 'license',
+          message: body.license === undefined ? 'No licence was chosen' : `${String(body.license)} is not one of the listed licences`,
+        },
+      ]);
     }
     const q = parse(exportRequest, body, 'Some export settings are not valid');
     await loadSite(ds, q.siteId);

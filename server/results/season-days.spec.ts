@@ -2,8 +2,8 @@ import { localHourFormatter, localNoonFormatter } from './season-days';
 
 // Zone offsets from the IANA time zone database (via Intl): Central European Time UTC+1, summer time UTC+2
 // from the last Sunday of March; Pacific Daylight Time UTC−7.
-describe('local noon and local hour in the site\'s zone', () => {
-  it('when a day starts or ends summer time, then noon is read with that day\'s own offset', () => {
+describe("local noon and local hour in the site's zone", () => {
+  it("when a day starts or ends summer time, then noon is read with that day's own offset", () => {
     const noon = localNoonFormatter('Europe/Berlin');
     expect(new Date(noon('2026-03-28')).toISOString()).toBe('2026-03-28T11:00:00.000Z');
     expect(new Date(noon('2026-03-29')).toISOString()).toBe('2026-03-29T10:00:00.000Z');

@@ -17,13 +17,27 @@ export function localDayFormatter(timeZone: string): (t: string | number) => str
 /** Wall-clock fields of an instant in a zone, read back as if they were UTC (offset = that − instant). */
 function wallClockMs(f: Intl.DateTimeFormat, ms: number): number {
   const p = Object.fromEntries(f.formatToParts(new Date(ms)).map((x) => [x.type, x.value]));
-  return Date.UTC(Number(p['year']), Number(p['month']) - 1, Number(p['day']), Number(p['hour']) % 24, Number(p['minute']), Number(p['second']));
+  return Date.UTC(
+    Number(p['year']),
+    Number(p['month']) - 1,
+    Number(p['day']),
+    Number(p['hour']) % 24,
+    Number(p['minute']),
+    Number(p['second']),
+  );
 }
 
 /** The instant of 12:00 local time on each day, in ms since the epoch (DST-safe: the offset is read at noon itself). */
 export function localNoonFormatter(timeZone: string): (day: string) => number {
   const f = new Intl.DateTimeFormat('en-US', {
-    timeZone, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', second: '2-digit',
+    timeZone,
+    hourCycle: 'h23',
+    year: 'numeric',
+    month: '2-digit',
+    day: '2-digit',
+    hour: '2-digit',
+    minute: '2-digit',
+    second: '2-digit',
   });
   return (day) => {
     const guess = Date.parse(`${day}T12:00:00Z`);
@@ -35,7 +49,14 @@ export function localNoonFormatter(timeZone: string): (day: string) => number {
 /** Local hour of day (0–23, fractional) of each instant. */
 export function localHourFormatter(timeZone: string): (iso: string) => number {
   const f = new Intl.DateTimeFormat('en-US', {
-    timeZone, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', second: '2-digit',
+    timeZone,
+    hourCycle: 'h23',
+    year: 'numeric',
+    month: '2-digit',
+    day: '2-digit',
+    hour: '2-digit',
+    minute: '2-digit',
+    second: '2-digit',
   });
   return (iso) => {
     const ms = Date.parse(iso);

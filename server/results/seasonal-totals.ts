@@ -24,30 +24,60 @@ export type DayMethod = 'logged temperature' | 'interpolated' | 'missing';
 export type PlotStatus = 'complete' | 'incomplete' | 'too little signal';
 export type CellStatus = 'complete' | 'partial' | 'incomplete' | 'too little signal';
 
-export interface SeasonalOptions { fromDay: string; toDay: string; timezone: string; tempDepthCm: number }
+export interface SeasonalOptions {
+  fromDay: string;
+  toDay: string;
+  timezone: string;
+  tempDepthCm: number;
+}
 
 /** A cell's fitted response (°C → µmol m⁻² s⁻¹) and the temperature range of the points it was fitted on. */
-export interface ResponseCurve { f: (tempC: number) => number; minTempC: number; maxTempC: number }
+export interface ResponseCurve {
+  f: (tempC: number) => number;
+  minTempC: number;
+  maxTempC: number;
+}
 
 /** Plot-days by how their flux was obtained; outsideRange days had a log beyond the fitted range (then gap-filled or missing). */
-export interface DayCounts { logged: number; interpolated: number; missing: number; outsideRange: number }
+export interface DayCounts {
+  logged: number;
+  interpolated: number;
+  missing: number;
+  outsideRange: number;
+}
 
 export interface PlotTotal {
-  plotId: string; plotCode: string; status: PlotStatus; scale: number | null;
-  logDepthCm: number | null; responseDepthCm: number; depthDiffers: boolean;
+  plotId: string;
+  plotCode: string;
+  status: PlotStatus;
+  scale: number | null;
+  logDepthCm: number | null;
+  responseDepthCm: number;
+  depthDiffers: boolean;
   /** Interpolated days rest on campaign means of daytime visits only: they stand for daily means (diel bias). */
   daytimeVisitsOnly: boolean;
-  totalGCM2: number | null; days: DayCounts; flags: string[];
+  totalGCM2: number | null;
+  days: DayCounts;
+  flags: string[];
   daily: { day: string; fluxUmolM2S: number | null; method: DayMethod }[];
 }
 
 export interface CellTotal {
-  cellKey: string; label: string; status: CellStatus; nPlots: number; nPlotsTotalled: number;
-  totalGCM2: number | null; ciLowGCM2: number | null; ciHighGCM2: number | null;
-  days: DayCounts; shareOutsideRange: number; fittedRangeC: { minTempC: number; maxTempC: number } | null;
+  cellKey: string;
+  label: string;
+  status: CellStatus;
+  nPlots: number;
+  nPlotsTotalled: number;
+  totalGCM2: number | null;
+  ciLowGCM2: number | null;
+  ciHighGCM2: number | null;
+  days: DayCounts;
+  shareOutsideRange: number;
+  fittedRangeC: { minTempC: number; maxTempC: number } | null;
   /** The longest run of days in which every plot with signal has a value. */
   completePeriod: { fromDay: string; toDay: string } | null;
-  flags: string[]; plots: PlotTotal[];
+  flags: string[];
+  plots: PlotTotal[];
   /** Mean over the totalled plots of the cumulative g C m⁻², per day (empty when there is no total). */
   cumulative: { day: string; gCM2: number }[];
 }
@@ -70,7 +100,10 @@ function logFor(logs: readonly TemperatureLogSeries[], plotId: string, depthCm: 
   return own[0] ?? null;
 }
 
-interface LoggedDay { flux: number; inRange: boolean }
+interface LoggedDay {
+  flux: number;
+  inRange: boolean;
+}
 
 function dailyMeans(log: TemperatureLogSeries, c: ResponseCurve, k: number, dayOf: (iso: string) => string): Map<string, LoggedDay> {
   const acc = new Map<string, { s: number; n: number; out: boolean }>();
@@ -102,17 +135,24 @@ function interpolate(knots: { x: number; y: number }[], x: number): number | nul
   return knots[0].y;
 }
 
-interface Clock { days: string[]; dayOf: (t: string | number) => string; noon: Map<string, number>; hourOf: (iso: string) => number }
+interface Clock {
+  days: string[];
+  dayOf: (t: string | number) => string;
+  noon: Map<string, number>;
+  hourOf: (iso: string) => number;
+}
 
 function plotTotal(input: SeasonalInput, o: SeasonalOptions, clock: Clock, cell: Cell, plotId: string): PlotTotal {
   const curve = input.responses.get(cell.key) ?? null;
   const visits = input.visitMeans.filter((v) => v.cellKey === cell.key && v.plotId === plotId);
   const means = input.plotMeans.filter((p) => p.cellKey === cell.key && p.plotId === plotId);
   // Campaign means of this plot at the mean time of their visits, as fractional day numbers.
-  const knots = means.map((p) => {
-    const vs = visits.filter((v) => v.campaignId === p.campaignId);
-    return { x: mean(vs.map((v) => Date.parse(v.arrivedAt))) / MS_PER_DAY, y: p.fluxUmolM2S };
-  }).sort((a, b) => a.x - b.x);
+  const knots = means
+    .map((p) => {
+      const vs = visits.filter((v) => v.campaignId === p.campaignId);
+      return { x: mean(vs.map((v) => Date.parse(v.arrivedAt))) / MS_PER_DAY, y: p.fluxUmolM2S };
+    })
+    .sort((a, b) => a.x - b.x);
   // The local days of the first and last campaign means carry those means (noon may fall just outside them).
   const ends = new Map(knots.length ? [knots.at(-1)!, knots[0]].map((k) => [clock.dayOf(k.x * MS_PER_DAY), k.y]) : []);
   const signal = visits.length > 0 && mean(visits.map((v) => v.fluxUmolM2S)) > 0;
@@ -134,7 +174,7 @@ function plotTotal(input: SeasonalInput, o: SeasonalOptions, clock: Clock, cell:
     const fromLog = logged.get(day);
     if (fromLog && !fromLog.inRange) days.outsideRange++;
     const useLog = fromLog !== undefined && fromLog.inRange;
-    const interp = useLog ? null : interpolate(knots, clock.noon.get(day)! / MS_PER_DAY) ?? ends.get(day) ?? null;
+    const interp = useLog ? null : (interpolate(knots, clock.noon.get(day)! / MS_PER_DAY) ?? ends.get(day) ?? null);
     const flux = useLog ? fromLog.flux : interp;
     const method: DayMethod = useLog ? 'logged temperature' : interp !== null ? 'interpolated' : 'missing';
     if (method === 'logged temperature') days.logged++;
@@ -146,17 +186,38 @@ function plotTotal(input: SeasonalInput, o: SeasonalOptions, clock: Clock, cell:
   const status: PlotStatus = !signal ? 'too little signal' : days.missing ? 'incomplete' : 'complete';
   const logDepthCm = log?.depthCm ?? null;
   const depthDiffers = logDepthCm !== null && days.logged > 0 && logDepthCm !== o.tempDepthCm;
-  const daytimeVisitsOnly = days.interpolated > 0 && visits.length > 0
-    && visits.every((v) => { const h = clock.hourOf(v.arrivedAt); return h >= DAYTIME_HOURS.from && h < DAYTIME_HOURS.to; });
+  const daytimeVisitsOnly =
+    days.interpolated > 0 &&
+    visits.length > 0 &&
+    visits.every((v) => {
+      const h = clock.hourOf(v.arrivedAt);
+      return h >= DAYTIME_HOURS.from && h < DAYTIME_HOURS.to;
+    });
   const flags: string[] = [];
   if (!signal) flags.push('too little signal: its visit fluxes do not sum to a positive value, so it is neither scaled nor totalled');
   if (days.missing) flags.push(`${days.missing} missing days: no total for this period`);
-  if (days.outsideRange) flags.push(`${days.outsideRange} logged days outside the fitted range ${curve!.minTempC.toFixed(1)}–${curve!.maxTempC.toFixed(1)} °C were not taken from the response`);
+  if (days.outsideRange)
+    flags.push(
+      `${days.outsideRange} logged days outside the fitted range ${curve!.minTempC.toFixed(1)}–${curve!.maxTempC.toFixed(1)} °C were not taken from the response`,
+    );
   if (depthDiffers) flags.push(`logger depth ${logDepthCm} cm differs from the response depth ${o.tempDepthCm} cm`);
-  if (daytimeVisitsOnly) flags.push(`interpolated days use means of daytime visits (${DAYTIME_HOURS.from}–${DAYTIME_HOURS.to} h) as daily means: diel bias`);
+  if (daytimeVisitsOnly)
+    flags.push(`interpolated days use means of daytime visits (${DAYTIME_HOURS.from}–${DAYTIME_HOURS.to} h) as daily means: diel bias`);
   const plotCode = means[0]?.plotCode ?? plotId;
-  return { plotId, plotCode, status, scale, logDepthCm, responseDepthCm: o.tempDepthCm, depthDiffers, daytimeVisitsOnly,
-    totalGCM2: status === 'complete' ? total : null, days, flags, daily };
+  return {
+    plotId,
+    plotCode,
+    status,
+    scale,
+    logDepthCm,
+    responseDepthCm: o.tempDepthCm,
+    depthDiffers,
+    daytimeVisitsOnly,
+    totalGCM2: status === 'complete' ? total : null,
+    days,
+    flags,
+    daily,
+  };
 }
 
 /** Longest run of days on which every given plot has a value. */
@@ -179,7 +240,12 @@ export function seasonalTotals(input: SeasonalInput, o: SeasonalOptions): CellTo
   const days: string[] = [];
   for (let n = dayNumber(o.fromDay); n <= dayNumber(o.toDay); n++) days.push(dayString(n));
   const noonOf = localNoonFormatter(o.timezone);
-  const clock: Clock = { days, dayOf: localDayFormatter(o.timezone), noon: new Map(days.map((d) => [d, noonOf(d)])), hourOf: localHourFormatter(o.timezone) };
+  const clock: Clock = {
+    days,
+    dayOf: localDayFormatter(o.timezone),
+    noon: new Map(days.map((d) => [d, noonOf(d)])),
+    hourOf: localHourFormatter(o.timezone),
+  };
   const toG = convertFlux(1, 'g_c_m2_d');
 
   return input.cells.map((cell) => {
@@ -190,22 +256,34 @@ export function seasonalTotals(input: SeasonalInput, o: SeasonalOptions): CellTo
     for (const p of plots) for (const k of Object.keys(counts) as (keyof DayCounts)[]) counts[k] += p.days[k];
     const withSignal = plots.filter((p) => p.status !== 'too little signal');
     const totalled = plots.filter((p) => p.status === 'complete');
-    const status: CellStatus = withSignal.some((p) => p.status === 'incomplete') || !plots.length ? 'incomplete'
-      : !withSignal.length ? 'too little signal' : totalled.length < plots.length ? 'partial' : 'complete';
+    const status: CellStatus =
+      withSignal.some((p) => p.status === 'incomplete') || !plots.length
+        ? 'incomplete'
+        : !withSignal.length
+          ? 'too little signal'
+          : totalled.length < plots.length
+            ? 'partial'
+            : 'complete';
     const counted = status === 'complete' || status === 'partial';
     const totals = totalled.map((p) => p.totalGCM2!);
     const interval = counted ? tMeanInterval(totals) : null;
     const cumulative: CellTotal['cumulative'] = [];
     let run = 0;
-    if (counted) days.forEach((day, i) => { run += mean(totalled.map((p) => p.daily[i].fluxUmolM2S! * toG)); cumulative.push({ day, gCM2: run }); });
+    if (counted)
+      days.forEach((day, i) => {
+        run += mean(totalled.map((p) => p.daily[i].fluxUmolM2S! * toG));
+        cumulative.push({ day, gCM2: run });
+      });
     const period = completePeriod(withSignal, days);
     const list = (ps: PlotTotal[]) => ps.map((p) => p.plotCode).join(', ');
     const flags: string[] = [];
     const quiet = plots.filter((p) => p.status === 'too little signal');
     if (quiet.length) flags.push(`${quiet.length} of ${plots.length} plots have too little signal and are not totalled: ${list(quiet)}`);
     if (status === 'incomplete') {
-      flags.push(`missing days at ${list(withSignal.filter((p) => p.status === 'incomplete'))}: no total for ${o.fromDay} to ${o.toDay}`
-        + (period ? `; every plot has a value from ${period.fromDay} to ${period.toDay}` : ''));
+      flags.push(
+        `missing days at ${list(withSignal.filter((p) => p.status === 'incomplete'))}: no total for ${o.fromDay} to ${o.toDay}` +
+          (period ? `; every plot has a value from ${period.fromDay} to ${period.toDay}` : ''),
+      );
     }
     if (counts.outsideRange) flags.push(`${counts.outsideRange} plot-days outside the fitted temperature range were gap-filled or missing`);
     const deep = plots.filter((p) => p.depthDiffers);
@@ -213,11 +291,21 @@ export function seasonalTotals(input: SeasonalInput, o: SeasonalOptions): CellTo
     const diel = plots.filter((p) => p.daytimeVisitsOnly);
     if (diel.length) flags.push(`daytime visit means stand for daily means on interpolated days at ${list(diel)} (diel bias)`);
     return {
-      cellKey: cell.key, label: cell.label, status, nPlots: plots.length, nPlotsTotalled: counted ? totalled.length : 0,
-      totalGCM2: counted ? mean(totals) : null, ciLowGCM2: interval?.[0] ?? null, ciHighGCM2: interval?.[1] ?? null,
-      days: counts, shareOutsideRange: plots.length && days.length ? counts.outsideRange / (plots.length * days.length) : 0,
+      cellKey: cell.key,
+      label: cell.label,
+      status,
+      nPlots: plots.length,
+      nPlotsTotalled: counted ? totalled.length : 0,
+      totalGCM2: counted ? mean(totals) : null,
+      ciLowGCM2: interval?.[0] ?? null,
+      ciHighGCM2: interval?.[1] ?? null,
+      days: counts,
+      shareOutsideRange: plots.length && days.length ? counts.outsideRange / (plots.length * days.length) : 0,
       fittedRangeC: curve ? { minTempC: curve.minTempC, maxTempC: curve.maxTempC } : null,
-      completePeriod: period, flags, plots, cumulative,
+      completePeriod: period,
+      flags,
+      plots,
+      cumulative,
     };
   });
 }

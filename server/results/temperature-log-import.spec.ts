@@ -7,7 +7,8 @@ describe('temperature logger files', () => {
   it('when a tab file with ISO times is read, then the instants are kept as written', () => {
     const text = 'time\tsoil_5cm\n2026-05-01T06:00:00+02:00\t8.25\n2026-05-01T07:00:00+02:00\t8.5\n';
     expect(parseTemperatureText({ ...base, text })).toEqual({
-      t: ['2026-05-01T04:00:00.000Z', '2026-05-01T05:00:00.000Z'], tempC: [8.25, 8.5],
+      t: ['2026-05-01T04:00:00.000Z', '2026-05-01T05:00:00.000Z'],
+      tempC: [8.25, 8.5],
     });
   });
 
@@ -15,7 +16,12 @@ describe('temperature logger files', () => {
     // Berlin leaves summer time at 03:00 CEST on 25 October 2026 (EU rule; from memory): 02:30 happens twice.
     const text = 'time;soil_5cm\n25.10.2026 02:00:00;9,5\n25.10.2026 02:30:00;9,4\n25.10.2026 02:00:00;9,4\n25.10.2026 02:30:00;9,3\n';
     const read = parseTemperatureText({ ...base, text });
-    expect(read.t).toEqual(['2026-10-25T00:00:00.000Z', '2026-10-25T00:30:00.000Z', '2026-10-25T01:00:00.000Z', '2026-10-25T01:30:00.000Z']);
+    expect(read.t).toEqual([
+      '2026-10-25T00:00:00.000Z',
+      '2026-10-25T00:30:00.000Z',
+      '2026-10-25T01:00:00.000Z',
+      '2026-10-25T01:30:00.000Z',
+    ]);
     expect(read.tempC).toEqual([9.5, 9.4, 9.4, 9.3]);
   });
 

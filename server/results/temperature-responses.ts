@@ -10,7 +10,16 @@
  * so the chart can colour them: warm months are often the dry ones, and the fitted sensitivity then
  * mixes both drivers (Davidson, Janssens & Luo 2006, Global Change Biol. 12:154–164).
  */
-import { fitLloydTaylor, fitQ10, lloydTaylorModel, q10Model, RESPONSE_LIMITS, type LloydTaylorFit, type Q10Fit, type Refusal } from '../../shared/flux';
+import {
+  fitLloydTaylor,
+  fitQ10,
+  lloydTaylorModel,
+  q10Model,
+  RESPONSE_LIMITS,
+  type LloydTaylorFit,
+  type Q10Fit,
+  type Refusal,
+} from '../../shared/flux';
 import type { Cell, VisitMean } from './design-aggregation';
 import { fitLogScale, type LogScaleFit } from './log-scale-response';
 import type { ResponseCurve } from './seasonal-totals';
@@ -20,7 +29,15 @@ export type ResponseModelName = 'lloyd-taylor' | 'q10' | 'lloyd-taylor-log' | 'q
 export const RESPONSE_MODELS: readonly ResponseModelName[] = ['lloyd-taylor', 'q10', 'lloyd-taylor-log', 'q10-log'];
 
 /** One experimental unit: a plot's visits (all its collars in the cell) in one campaign round. */
-export interface ResponsePoint { plotId: string; campaignId: string; round: number; nVisits: number; tempC: number; fluxUmolM2S: number; vwcPct: number | null }
+export interface ResponsePoint {
+  plotId: string;
+  campaignId: string;
+  round: number;
+  nVisits: number;
+  tempC: number;
+  fluxUmolM2S: number;
+  vwcPct: number | null;
+}
 
 export interface CellResponse {
   cellKey: string;
@@ -50,8 +67,13 @@ export function responseUnits(cellKey: string, visitMeans: readonly VisitMean[])
     groups.set(k, [...(groups.get(k) ?? []), v]);
   }
   return [...groups.values()].map((vs) => ({
-    plotId: vs[0].plotId, campaignId: vs[0].campaignId, round: vs[0].round, nVisits: vs.length,
-    tempC: mean(vs.map((v) => v.soilTempC!)), fluxUmolM2S: mean(vs.map((v) => v.fluxUmolM2S)), vwcPct: meanOrNull(vs.map((v) => v.vwcPct)),
+    plotId: vs[0].plotId,
+    campaignId: vs[0].campaignId,
+    round: vs[0].round,
+    nVisits: vs.length,
+    tempC: mean(vs.map((v) => v.soilTempC!)),
+    fluxUmolM2S: mean(vs.map((v) => v.fluxUmolM2S)),
+    vwcPct: meanOrNull(vs.map((v) => v.vwcPct)),
   }));
 }
 
@@ -65,7 +87,8 @@ function unitWarnings(warnings: readonly string[], n: number, nPlots: number): s
 
 function e0Warning(e0: number | undefined): string[] {
   return e0 !== undefined && (e0 < E0_PLAUSIBLE_K.low || e0 > E0_PLAUSIBLE_K.high)
-    ? [`E0 = ${e0.toFixed(0)} K is outside ${E0_PLAUSIBLE_K.low}–${E0_PLAUSIBLE_K.high} K (Reichstein et al. 2005)`] : [];
+    ? [`E0 = ${e0.toFixed(0)} K is outside ${E0_PLAUSIBLE_K.low}–${E0_PLAUSIBLE_K.high} K (Reichstein et al. 2005)`]
+    : [];
 }
 
 export function fitResponses(cells: readonly Cell[], visitMeans: readonly VisitMean[]): CellResponse[] {
@@ -77,11 +100,15 @@ export function fitResponses(cells: readonly Cell[], visitMeans: readonly VisitM
     const q10e = fitQ10(t, y);
     const lte = fitLloydTaylor(t, y);
     const q10: Q10Fit | Refusal = q10e.ok ? { ...q10e, warnings: unitWarnings(q10e.warnings, q10e.n, nPlots) } : q10e;
-    const lloydTaylor: LloydTaylorFit | Refusal = lte.ok ? { ...lte, warnings: [...unitWarnings(lte.warnings, lte.n, nPlots), ...e0Warning(lte.e0K.value)] } : lte;
+    const lloydTaylor: LloydTaylorFit | Refusal = lte.ok
+      ? { ...lte, warnings: [...unitWarnings(lte.warnings, lte.n, nPlots), ...e0Warning(lte.e0K.value)] }
+      : lte;
     const q10l = fitLogScale('q10', t, y);
     const ltl = fitLogScale('lloyd-taylor', t, y);
     const q10Log: LogScaleFit | Refusal = q10l.ok ? { ...q10l, warnings: unitWarnings(q10l.warnings, q10l.n, nPlots) } : q10l;
-    const lloydTaylorLog: LogScaleFit | Refusal = ltl.ok ? { ...ltl, warnings: [...unitWarnings(ltl.warnings, ltl.n, nPlots), ...e0Warning(ltl.e0K?.value)] } : ltl;
+    const lloydTaylorLog: LogScaleFit | Refusal = ltl.ok
+      ? { ...ltl, warnings: [...unitWarnings(ltl.warnings, ltl.n, nPlots), ...e0Warning(ltl.e0K?.value)] }
+      : ltl;
     const r: CellResponse = { cellKey: cell.key, label: cell.label, nPlots, points, q10, lloydTaylor, q10Log, lloydTaylorLog, curve: [] };
     if (points.length) {
       const lo = Math.min(...t);
@@ -100,10 +127,22 @@ export function fitResponses(cells: readonly Cell[], visitMeans: readonly VisitM
 /** The fitted response of one cell as a function of temperature (°C → µmol m⁻² s⁻¹), or null when it was refused. */
 export function responseFunction(r: CellResponse, model: ResponseModelName): ((tempC: number) => number) | null {
   switch (model) {
-    case 'q10': { const f = r.q10; return f.ok ? (tc) => q10Model(tc, f.r10.value, f.q10.value) : null; }
-    case 'lloyd-taylor': { const f = r.lloydTaylor; return f.ok ? (tc) => lloydTaylorModel(tc, f.r10.value, f.e0K.value) : null; }
-    case 'q10-log': { const f = r.q10Log; return f.ok ? (tc) => q10Model(tc, f.r10.value, f.q10!.value) : null; }
-    case 'lloyd-taylor-log': { const f = r.lloydTaylorLog; return f.ok ? (tc) => lloydTaylorModel(tc, f.r10.value, f.e0K!.value) : null; }
+    case 'q10': {
+      const f = r.q10;
+      return f.ok ? (tc) => q10Model(tc, f.r10.value, f.q10.value) : null;
+    }
+    case 'lloyd-taylor': {
+      const f = r.lloydTaylor;
+      return f.ok ? (tc) => lloydTaylorModel(tc, f.r10.value, f.e0K.value) : null;
+    }
+    case 'q10-log': {
+      const f = r.q10Log;
+      return f.ok ? (tc) => q10Model(tc, f.r10.value, f.q10!.value) : null;
+    }
+    case 'lloyd-taylor-log': {
+      const f = r.lloydTaylorLog;
+      return f.ok ? (tc) => lloydTaylorModel(tc, f.r10.value, f.e0K!.value) : null;
+    }
   }
 }
 

@@ -11,7 +11,9 @@ describe('results archive writer', () => {
     const bytes = Buffer.from([0, 1, 2, 250, 255]);
     await z.add('a.csv', 'x,y\n1,2\n');
     await z.add('dir/b.bin', bytes);
-    async function* rows() { for (let i = 0; i < 20000; i++) yield `${i},µ${i * 2}\n`; }
+    async function* rows() {
+      for (let i = 0; i < 20000; i++) yield `${i},µ${i * 2}\n`;
+    }
     await z.add('series.csv', rows());
     const files = await readZip(await z.finish());
     expect([...files.keys()]).toEqual(['a.csv', 'dir/b.bin', 'series.csv']);
@@ -24,7 +26,12 @@ describe('results archive writer', () => {
   it('when a streamed entry is added, then it has been read to its end before the next line runs (row counts are final)', async () => {
     const z = new ZipWriter();
     let counted = 0;
-    async function* rows() { for (let i = 0; i < 5000; i++) { counted++; yield `${i}\n`; } }
+    async function* rows() {
+      for (let i = 0; i < 5000; i++) {
+        counted++;
+        yield `${i}\n`;
+      }
+    }
     await z.add('t.csv', rows());
     expect(counted).toBe(5000);
     await z.add('counts.json', JSON.stringify({ counted }));
@@ -33,7 +40,10 @@ describe('results archive writer', () => {
 
   it('when a streamed entry fails, then the archive is refused instead of written short', async () => {
     const z = new ZipWriter();
-    async function* rows() { yield 'a\n'; throw new Error('source went away'); }
+    async function* rows() {
+      yield 'a\n';
+      throw new Error('source went away');
+    }
     await expect(z.add('t.csv', rows())).rejects.toThrow('source went away');
   });
 

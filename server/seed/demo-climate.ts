@@ -56,7 +56,7 @@ export const NEUTRAL_PLOT: PlotClimate = { offsetC: 0, dailyAmplitudeFactor: 1 }
 export function soilTempC(ms: number, plot: PlotClimate = NEUTRAL_PLOT, depthCm = 5): number {
   const d = dayOfYear(ms);
   const seasonal = 9 + 8.5 * Math.sin((2 * Math.PI * (d - 117)) / 365);
-  const hourUtc = ((ms % DAY_MS) + DAY_MS) % DAY_MS / 3_600_000;
+  const hourUtc = (((ms % DAY_MS) + DAY_MS) % DAY_MS) / 3_600_000;
   const summer = Math.max(0, Math.sin((2 * Math.PI * (d - 80)) / 365));
   const damping = Math.exp(-(depthCm - 5) / 10);
   const lagH = ((depthCm - 5) / 10) * 3.8; // phase lag grows with depth: 24 h / 2π per damping depth
@@ -69,7 +69,7 @@ export function soilTempC(ms: number, plot: PlotClimate = NEUTRAL_PLOT, depthCm 
 export function airTempC(ms: number): number {
   const d = dayOfYear(ms);
   const seasonal = 9.5 + 9 * Math.sin((2 * Math.PI * (d - 110)) / 365);
-  const hourUtc = ((ms % DAY_MS) + DAY_MS) % DAY_MS / 3_600_000;
+  const hourUtc = (((ms % DAY_MS) + DAY_MS) % DAY_MS) / 3_600_000;
   const summer = Math.max(0, Math.sin((2 * Math.PI * (d - 80)) / 365));
   return seasonal + (3.5 + 2.5 * summer) * Math.cos((2 * Math.PI * (hourUtc - 13.3)) / 24) + 1.5 * weatherAnomalyC(ms);
 }
@@ -102,7 +102,7 @@ export function saturationVapourKpa(tempC: number): number {
 /** Water vapour of the air entering the chamber, mmol mol⁻¹, at a relative humidity that falls in the afternoon. */
 export function airH2oMmolMol(ms: number): number {
   const t = airTempC(ms);
-  const hourUtc = ((ms % DAY_MS) + DAY_MS) % DAY_MS / 3_600_000;
+  const hourUtc = (((ms % DAY_MS) + DAY_MS) % DAY_MS) / 3_600_000;
   const rh = 0.74 - 0.12 * Math.cos((2 * Math.PI * (hourUtc - 13)) / 24);
   // Capped where a temperate summer's dew point tops out (≈ 16 °C), so the headspace stays below ~20 mmol/mol.
   return Math.min(18.5, Math.max(5, ((rh * saturationVapourKpa(t)) / pressureKpa(ms)) * 1000));

@@ -17,16 +17,24 @@ export const CURRENT_DAY = '2026-12-01';
 
 export function buildCurrentCampaign(layout: DemoLayout): SeedWrite[] {
   const crew = demoUserId('crew');
-  const writes: SeedWrite[] = [createOp('campaign', CURRENT_CAMPAIGN_ID, 'lead', {
-    siteId: DEMO_SITE_ID, name: 'December 2026 survey, two rounds', startsOn: CURRENT_DAY, endsOn: '2026-12-04', rounds: 2,
-    dueOffset: true, dueClosures: 1, dueProbes: true,
-    routes: layout.routes.map((r) => ({ routeId: r.id, crewIds: [crew], direction: 'alternate' })),
-    roundWindows: [
-      { round: 1, from: '2026-12-01T08:00:00Z', to: '2026-12-02T16:00:00Z' },
-      { round: 2, from: '2026-12-03T08:00:00Z', to: '2026-12-04T16:00:00Z' },
-    ],
-    locked: false,
-  })];
+  const writes: SeedWrite[] = [
+    createOp('campaign', CURRENT_CAMPAIGN_ID, 'lead', {
+      siteId: DEMO_SITE_ID,
+      name: 'December 2026 survey, two rounds',
+      startsOn: CURRENT_DAY,
+      endsOn: '2026-12-04',
+      rounds: 2,
+      dueOffset: true,
+      dueClosures: 1,
+      dueProbes: true,
+      routes: layout.routes.map((r) => ({ routeId: r.id, crewIds: [crew], direction: 'alternate' })),
+      roundWindows: [
+        { round: 1, from: '2026-12-01T08:00:00Z', to: '2026-12-02T16:00:00Z' },
+        { round: 2, from: '2026-12-03T08:00:00Z', to: '2026-12-04T16:00:00Z' },
+      ],
+      locked: false,
+    }),
+  ];
   const dayMs = Date.parse(`${CURRENT_DAY}T00:00:00Z`);
   writes.push(...dayChecks(layout.analyzerId, dayMs + 3_600_000));
   const rng = new Rng(hashString('walk:2026-12'));
@@ -35,8 +43,14 @@ export function buildCurrentCampaign(layout: DemoLayout): SeedWrite[] {
   stops.forEach((collarId, i) => {
     const collar = layout.collars.find((c) => c.id === collarId)!;
     const plan: VisitPlan = {
-      campaignId: CURRENT_CAMPAIGN_ID, campaignKey: '2026-12', round: 1, collar, arrivalMs: t,
-      profiles: layout.profiles, analyzerId: layout.analyzerId, closure: 'normal',
+      campaignId: CURRENT_CAMPAIGN_ID,
+      campaignKey: '2026-12',
+      round: 1,
+      collar,
+      arrivalMs: t,
+      profiles: layout.profiles,
+      analyzerId: layout.analyzerId,
+      closure: 'normal',
       conditions: { rain24h: true, frostSnow: soilTempC(t, collar.climate) < 2 || i < 2 },
     };
     if (i === 5) {
@@ -55,7 +69,6 @@ export function buildCurrentCampaign(layout: DemoLayout): SeedWrite[] {
   return writes;
 }
 
-
 /**
  * The analyzer's own file for the first closure of the day, kept as the closure's source: a
  * plain CSV of the same samples. The record carries the file's size and SHA-256; the bytes are
@@ -73,8 +86,13 @@ function sourceFile(closure: SeedWrite): SeedWrite[] {
   const id = demoId(`attachment:${closure.id}`);
   return [
     createOp('attachment', id, 'crew', {
-      siteId: DEMO_SITE_ID, ownerEntity: 'closure', ownerId: closure.id, fileName: `A1-${String(closure.fields['startedAt']).slice(0, 16).replace(/[-:]/g, '').replace('T', '-')}.csv`, mediaType: 'text/csv',
-      sizeBytes: Buffer.byteLength(csv), sha256: createHash('sha256').update(csv).digest('hex'),
+      siteId: DEMO_SITE_ID,
+      ownerEntity: 'closure',
+      ownerId: closure.id,
+      fileName: `A1-${String(closure.fields['startedAt']).slice(0, 16).replace(/[-:]/g, '').replace('T', '-')}.csv`,
+      mediaType: 'text/csv',
+      sizeBytes: Buffer.byteLength(csv),
+      sha256: createHash('sha256').update(csv).digest('hex'),
     }),
     updateOp('closure', closure.id, 'crew', { sourceAttachmentId: id }),
   ];

@@ -25,7 +25,9 @@ describe('demo layout', () => {
   it('when collars are listed, then there are 48 unique codes, 4 per plot, each inside its plot outline', () => {
     const collars = creates('collar').map((w) => w.fields as { code: string; plotId: string; latitude: number; longitude: number });
     expect(new Set(collars.map((c) => c.code)).size).toBe(48);
-    const outlines = new Map(creates('plot').map((w) => [w.id, (w.fields as { outline: { coordinates: [number, number][][] } }).outline.coordinates[0]]));
+    const outlines = new Map(
+      creates('plot').map((w) => [w.id, (w.fields as { outline: { coordinates: [number, number][][] } }).outline.coordinates[0]]),
+    );
     for (const c of collars) {
       const ring = outlines.get(c.plotId)!;
       const lons = ring.map((p) => p[0]);

@@ -17,11 +17,21 @@ export interface SeedWrite {
   fields: Record<string, unknown>;
 }
 
-export const createOp = (entity: EntityName, id: string, as: DemoRole, fields: Record<string, unknown>): SeedWrite =>
-  ({ entity, id, as, kind: 'create', fields });
+export const createOp = (entity: EntityName, id: string, as: DemoRole, fields: Record<string, unknown>): SeedWrite => ({
+  entity,
+  id,
+  as,
+  kind: 'create',
+  fields,
+});
 
-export const updateOp = (entity: EntityName, id: string, as: DemoRole, fields: Record<string, unknown>): SeedWrite =>
-  ({ entity, id, as, kind: 'update', fields });
+export const updateOp = (entity: EntityName, id: string, as: DemoRole, fields: Record<string, unknown>): SeedWrite => ({
+  entity,
+  id,
+  as,
+  kind: 'update',
+  fields,
+});
 
 export function demoUserId(role: DemoRole): string {
   return DEMO_USERS.find((u) => u.roles.includes(role))!.id;

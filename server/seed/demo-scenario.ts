@@ -34,7 +34,7 @@ export async function seedDemoScenario(em: EntityManager, writes: readonly SeedW
   const changes = new ChangeBuffer();
   for (const w of writes) {
     const key = `${w.entity}:${w.id}`;
-    const baseRev = w.kind === 'create' ? null : revs.get(key) ?? (await currentRev(em, w));
+    const baseRev = w.kind === 'create' ? null : (revs.get(key) ?? (await currentRev(em, w)));
     const outcome = await writeRecord(em, actor(w.as), { entity: w.entity, id: w.id, baseRev, op: 'upsert', fields: w.fields }, changes);
     if (outcome.status !== 'applied' || outcome.rev === undefined) {
       const detail = JSON.stringify(outcome.error ?? outcome.conflict ?? outcome.status);

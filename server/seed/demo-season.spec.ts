@@ -46,7 +46,8 @@ describe('demo season plan', () => {
     const months = new Set(reviews.map((r) => String(closures.get(r.id)!.fields['startedAt']).slice(0, 7)));
     expect(months).toEqual(new Set(['2026-04', '2026-05']));
     expect(reviews.length).toBe(48 + 1 + 24 + 1);
-    for (const r of reviews.filter((x) => x.fields['reviewState'] === 'rejected')) expect(String(r.fields['reviewReason']).length).toBeGreaterThan(10);
+    for (const r of reviews.filter((x) => x.fields['reviewState'] === 'rejected'))
+      expect(String(r.fields['reviewReason']).length).toBeGreaterThan(10);
     expect(reviews.filter((x) => x.fields['reviewState'] === 'rejected')).toHaveLength(5);
   });
 

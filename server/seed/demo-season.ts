@@ -21,7 +21,10 @@ export const SEASON = [
   { key: '2026-10', name: 'October 2026 survey', days: ['2026-10-13', '2026-10-14'] },
 ] as const;
 
-interface Oddity { kind: ClosureKind; redo?: boolean }
+interface Oddity {
+  kind: ClosureKind;
+  redo?: boolean;
+}
 
 /** Hand-placed problems: campaign key → collar code → what went wrong. */
 const ODDITIES: Record<string, Record<string, Oddity>> = {
@@ -72,12 +75,21 @@ export function buildSeason(layout: DemoLayout): SeasonOutput {
   for (const c of SEASON) {
     const campaignId = demoId(`campaign:${c.key}`);
     campaignIds.push(campaignId);
-    writes.push(createOp('campaign', campaignId, 'lead', {
-      siteId: DEMO_SITE_ID, name: c.name, startsOn: c.days[0], endsOn: c.days[1], rounds: 1,
-      dueOffset: true, dueClosures: 1, dueProbes: true,
-      routes: layout.routes.map((r) => ({ routeId: r.id, crewIds: [demoUserId('crew')], direction: 'forward' })),
-      roundWindows: [], locked: false,
-    }));
+    writes.push(
+      createOp('campaign', campaignId, 'lead', {
+        siteId: DEMO_SITE_ID,
+        name: c.name,
+        startsOn: c.days[0],
+        endsOn: c.days[1],
+        rounds: 1,
+        dueOffset: true,
+        dueClosures: 1,
+        dueProbes: true,
+        routes: layout.routes.map((r) => ({ routeId: r.id, crewIds: [demoUserId('crew')], direction: 'forward' })),
+        roundWindows: [],
+        locked: false,
+      }),
+    );
     const closures: DemoClosureRef[] = [];
     layout.routes.forEach((route, r) => {
       const dayMs = Date.parse(`${c.days[r]}T00:00:00Z`);
@@ -88,12 +100,22 @@ export function buildSeason(layout: DemoLayout): SeasonOutput {
         const collar = layout.collars.find((x) => x.id === collarId)!;
         const odd = ODDITIES[c.key]?.[collar.code];
         const plan: VisitPlan = {
-          campaignId, campaignKey: c.key, round: 1, collar, arrivalMs: t, profiles: layout.profiles, analyzerId: layout.analyzerId,
-          closure: odd?.kind ?? 'normal', redo: odd?.redo, skipReason: SKIPS[c.key]?.[collar.code],
+          campaignId,
+          campaignKey: c.key,
+          round: 1,
+          collar,
+          arrivalMs: t,
+          profiles: layout.profiles,
+          analyzerId: layout.analyzerId,
+          closure: odd?.kind ?? 'normal',
+          redo: odd?.redo,
+          skipReason: SKIPS[c.key]?.[collar.code],
           offsetShiftCm: collar.code === BOAR_COLLAR && c.days[0] > RESEAT_DAY ? RESEAT_SHIFT_CM : 0,
           conditions: {
             standingWater: STANDING_WATER[c.key]?.includes(collar.code) ?? false,
-            ...(collar.code === BOAR_COLLAR && c.key === '2026-05' ? { animal: true, other: 'Ground rooted by wild boar around the collar' } : {}),
+            ...(collar.code === BOAR_COLLAR && c.key === '2026-05'
+              ? { animal: true, other: 'Ground rooted by wild boar around the collar' }
+              : {}),
             trampled: rng.chance(0.02),
           },
         };
@@ -138,19 +160,35 @@ function reviews(key: string, closures: DemoClosureRef[], layout: DemoLayout): S
 function collarStory(layout: DemoLayout): SeedWrite[] {
   const out: SeedWrite[] = [];
   for (const c of layout.collars) {
-    out.push(createOp('collarEvent', demoId(`event:clip:2026-06-08:${c.code}`), 'crew', {
-      siteId: DEMO_SITE_ID, collarId: c.id, kind: 'clipped', date: '2026-06-08',
-      note: 'Vegetation inside the collar clipped at the soil surface', replacedById: null,
-    }));
+    out.push(
+      createOp('collarEvent', demoId(`event:clip:2026-06-08:${c.code}`), 'crew', {
+        siteId: DEMO_SITE_ID,
+        collarId: c.id,
+        kind: 'clipped',
+        date: '2026-06-08',
+        note: 'Vegetation inside the collar clipped at the soil surface',
+        replacedById: null,
+      }),
+    );
   }
   const boar = collarByCode(layout, BOAR_COLLAR);
   out.push(
     createOp('collarEvent', demoId('event:boar:damaged'), 'crew', {
-      siteId: DEMO_SITE_ID, collarId: boar.id, kind: 'damaged', date: '2026-05-12', note: 'Tilted by rooting wild boar', replacedById: null,
+      siteId: DEMO_SITE_ID,
+      collarId: boar.id,
+      kind: 'damaged',
+      date: '2026-05-12',
+      note: 'Tilted by rooting wild boar',
+      replacedById: null,
     }),
     updateOp('collar', boar.id, 'crew', { status: 'damaged', statusReason: 'Tilted by rooting wild boar' }),
     createOp('collarEvent', demoId('event:boar:reseated'), 'lead', {
-      siteId: DEMO_SITE_ID, collarId: boar.id, kind: 'reseated', date: RESEAT_DAY, note: 'Reseated 5 cm deep; left to settle before June', replacedById: null,
+      siteId: DEMO_SITE_ID,
+      collarId: boar.id,
+      kind: 'reseated',
+      date: RESEAT_DAY,
+      note: 'Reseated 5 cm deep; left to settle before June',
+      replacedById: null,
     }),
     updateOp('collar', boar.id, 'lead', { status: 'active', statusReason: null }),
   );
@@ -159,33 +197,91 @@ function collarStory(layout: DemoLayout): SeedWrite[] {
 
 /** Zero/span calibrations before the season and mid-season: zero on scrubbed air, span on a 1000 µmol/mol cylinder. */
 function calibrations(analyzerId: string): SeedWrite[] {
-  return ([['2026-03-30T08:00:00Z', 0.8, 1003.1], ['2026-07-06T08:00:00Z', -1.2, 995.4]] as const).map(([at, zeroBefore, spanBefore]) =>
+  return (
+    [
+      ['2026-03-30T08:00:00Z', 0.8, 1003.1],
+      ['2026-07-06T08:00:00Z', -1.2, 995.4],
+    ] as const
+  ).map(([at, zeroBefore, spanBefore]) =>
     createOp('analyzerCheck', demoId(`check:calibration:${at}`), 'lead', {
-      siteId: DEMO_SITE_ID, analyzerId, kind: 'calibration', at, skipped: false, skipReason: null, passed: true,
-      co2Ppm: null, slopeUmolMolS: null, clockOffsetS: null,
-      zeroGasPpm: 0, zeroCylinder: null, zeroBeforePpm: zeroBefore, zeroAfterPpm: 0.1,
-      spanGasPpm: 1000, spanCylinder: 'SG-1000-0417', spanBeforePpm: spanBefore, spanAfterPpm: 1000.2,
+      siteId: DEMO_SITE_ID,
+      analyzerId,
+      kind: 'calibration',
+      at,
+      skipped: false,
+      skipReason: null,
+      passed: true,
+      co2Ppm: null,
+      slopeUmolMolS: null,
+      clockOffsetS: null,
+      zeroGasPpm: 0,
+      zeroCylinder: null,
+      zeroBeforePpm: zeroBefore,
+      zeroAfterPpm: 0.1,
+      spanGasPpm: 1000,
+      spanCylinder: 'SG-1000-0417',
+      spanBeforePpm: spanBefore,
+      spanAfterPpm: 1000.2,
       note: 'Zero with scrubbed air, span with the 1000 µmol/mol cylinder',
-    }));
+    }),
+  );
 }
 
 /** The start-of-day checklist: warm-up, clock, ambient, leak (sealed plate), safety note. */
 export function dayChecks(analyzerId: string, dayMs: number, skipLeak = false): SeedWrite[] {
   const rng = new Rng(hashString(`checks:${dayMs}`));
   const at = (min: number) => iso(dayMs + 7 * 3_600_000 + min * MINUTE_MS);
-  const base = { siteId: DEMO_SITE_ID, analyzerId, skipped: false, skipReason: null, passed: true as boolean | null,
-    co2Ppm: null as number | null, slopeUmolMolS: null as number | null, clockOffsetS: null as number | null,
-    spanGasPpm: null, driftPpm: null, note: '' };
+  const base = {
+    siteId: DEMO_SITE_ID,
+    analyzerId,
+    skipped: false,
+    skipReason: null,
+    passed: true as boolean | null,
+    co2Ppm: null as number | null,
+    slopeUmolMolS: null as number | null,
+    clockOffsetS: null as number | null,
+    spanGasPpm: null,
+    driftPpm: null,
+    note: '',
+  };
   const id = (kind: string) => demoId(`check:${kind}:${dayMs}`);
   const slope = Math.round(rng.normal(0.01, 0.008) * 1000) / 1000;
   return [
     createOp('analyzerCheck', id('warm-up'), 'crew', { ...base, kind: 'warm-up', at: at(0), note: 'Warmed up 15 min in the car' }),
-    createOp('analyzerCheck', id('clock'), 'crew', { ...base, kind: 'clock', at: at(16), clockOffsetS: Math.round(rng.normal(0.4, 0.3) * 10) / 10 }),
-    createOp('analyzerCheck', id('ambient'), 'crew', { ...base, kind: 'ambient', at: at(18), co2Ppm: Math.round(rng.normal(423, 3) * 10) / 10 }),
+    createOp('analyzerCheck', id('clock'), 'crew', {
+      ...base,
+      kind: 'clock',
+      at: at(16),
+      clockOffsetS: Math.round(rng.normal(0.4, 0.3) * 10) / 10,
+    }),
+    createOp('analyzerCheck', id('ambient'), 'crew', {
+      ...base,
+      kind: 'ambient',
+      at: at(18),
+      co2Ppm: Math.round(rng.normal(423, 3) * 10) / 10,
+    }),
     skipLeak
-      ? createOp('analyzerCheck', id('leak'), 'crew', { ...base, kind: 'leak', at: at(20), skipped: true, passed: null,
-        skipReason: 'Sealing plate left at the station' })
-      : createOp('analyzerCheck', id('leak'), 'crew', { ...base, kind: 'leak', at: at(20), slopeUmolMolS: slope, passed: Math.abs(slope) <= 0.05 }),
-    createOp('analyzerCheck', id('safety-ack'), 'crew', { ...base, kind: 'safety-ack', at: at(22), analyzerId: null, note: 'Safety note read' }),
+      ? createOp('analyzerCheck', id('leak'), 'crew', {
+          ...base,
+          kind: 'leak',
+          at: at(20),
+          skipped: true,
+          passed: null,
+          skipReason: 'Sealing plate left at the station',
+        })
+      : createOp('analyzerCheck', id('leak'), 'crew', {
+          ...base,
+          kind: 'leak',
+          at: at(20),
+          slopeUmolMolS: slope,
+          passed: Math.abs(slope) <= 0.05,
+        }),
+    createOp('analyzerCheck', id('safety-ack'), 'crew', {
+      ...base,
+      kind: 'safety-ack',
+      at: at(22),
+      analyzerId: null,
+      note: 'Safety note read',
+    }),
   ];
 }

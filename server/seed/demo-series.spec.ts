@@ -9,16 +9,33 @@ const VOLUME = 4000 + 150 + AREA * 2.5;
 
 function input(kind: ClosureKind, flux: number): SeriesInput {
   return {
-    kind, fluxUmolM2S: flux, ambientPpm: 421, pressureKpa: 96.4, airTempC: 15, h2oMmolMol: 12,
-    volumeCm3: VOLUME, areaCm2: AREA, settleS: 20, durationS: 120, noisePpm: 0.5,
+    kind,
+    fluxUmolM2S: flux,
+    ambientPpm: 421,
+    pressureKpa: 96.4,
+    airTempC: 15,
+    h2oMmolMol: 12,
+    volumeCm3: VOLUME,
+    areaCm2: AREA,
+    settleS: 20,
+    durationS: 120,
+    noisePpm: 0.5,
   };
 }
 
 function fit(kind: ClosureKind, flux: number, seed: number) {
   const s = synthesizeClosure(input(kind, flux), new Rng(seed));
   const result = fitClosure({
-    tS: s.tS, co2Ppm: s.co2Ppm, h2oMmolMol: s.h2oMmolMol, pressureKpa: s.pressureKpa, tempC: s.tempC,
-    volumeCm3: VOLUME, areaCm2: AREA, settleS: 20, ambientPpm: 421, precisionPpm: 1,
+    tS: s.tS,
+    co2Ppm: s.co2Ppm,
+    h2oMmolMol: s.h2oMmolMol,
+    pressureKpa: s.pressureKpa,
+    tempC: s.tempC,
+    volumeCm3: VOLUME,
+    areaCm2: AREA,
+    settleS: 20,
+    ambientPpm: 421,
+    precisionPpm: 1,
   });
   return { s, result };
 }
@@ -35,19 +52,22 @@ describe('synthetic demo closures', () => {
     expect(s.h2oMmolMol[120]).toBeGreaterThan(s.h2oMmolMol[0]);
   });
 
-  it.each([0.8, 3, 7])('when the engine fits a normal closure made with %p µmol m⁻² s⁻¹, then it gives that flux back within 12 %', (flux) => {
-    for (const seed of [11, 12, 13]) {
-      const { result } = fit('normal', flux, seed);
-      expect(result.error).toBeNull();
-      // A line, chosen when the gentle curvature is within the AICc margin of noise, measures the
-      // mean slope over the window: below the slope at closure by up to 1 − e^(−k·(settle + window/2))
-      // ≈ 20 % for the demo's k ≤ 0.004 s⁻¹ (the linear underestimate of Kutzbach et al. 2007).
-      expect(result.selected!.fluxUmolM2S).toBeGreaterThan(flux * (result.selected!.model === 'linear' ? 0.8 : 0.88));
-      expect(result.selected!.fluxUmolM2S).toBeLessThan(flux * 1.12);
-      expect(result.flags).not.toContain('negative-flux');
-      expect(result.flags).not.toContain('spike');
-    }
-  });
+  it.each([0.8, 3, 7])(
+    'when the engine fits a normal closure made with %p µmol m⁻² s⁻¹, then it gives that flux back within 12 %',
+    (flux) => {
+      for (const seed of [11, 12, 13]) {
+        const { result } = fit('normal', flux, seed);
+        expect(result.error).toBeNull();
+        // A line, chosen when the gentle curvature is within the AICc margin of noise, measures the
+        // mean slope over the window: below the slope at closure by up to 1 − e^(−k·(settle + window/2))
+        // ≈ 20 % for the demo's k ≤ 0.004 s⁻¹ (the linear underestimate of Kutzbach et al. 2007).
+        expect(result.selected!.fluxUmolM2S).toBeGreaterThan(flux * (result.selected!.model === 'linear' ? 0.8 : 0.88));
+        expect(result.selected!.fluxUmolM2S).toBeLessThan(flux * 1.12);
+        expect(result.flags).not.toContain('negative-flux');
+        expect(result.flags).not.toContain('spike');
+      }
+    },
+  );
 
   it('when a flat closure is fitted, then its linear flux is below the minimum detectable flux', () => {
     for (const seed of [21, 22, 23, 24]) {

@@ -24,7 +24,11 @@ export function buildTemperatureLogs(layout: DemoLayout): SeedWrite[] {
       tempC.push(Math.round((soilTempC(ms, collar.climate) + rng.normal(0, 0.05)) * 10) / 10);
     }
     return createOp('temperatureLog', demoId(`templog:${collar.plotCode}`), 'lab', {
-      siteId: DEMO_SITE_ID, plotId, depthCm: 5, source: `Plot logger ${collar.plotCode} (hourly export)`, series: { t, tempC },
+      siteId: DEMO_SITE_ID,
+      plotId,
+      depthCm: 5,
+      source: `Plot logger ${collar.plotCode} (hourly export)`,
+      series: { t, tempC },
     });
   });
 }

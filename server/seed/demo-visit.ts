@@ -27,10 +27,21 @@ export interface VisitPlan {
 }
 
 export interface VisitConditions {
-  rainNow: boolean; rain24h: boolean; standingWater: boolean; frostSnow: boolean; trampled: boolean; animal: boolean; other: string;
+  rainNow: boolean;
+  rain24h: boolean;
+  standingWater: boolean;
+  frostSnow: boolean;
+  trampled: boolean;
+  animal: boolean;
+  other: string;
 }
 
-export interface DemoClosureRef { id: string; collarCode: string; kind: ClosureKind; redoOfId: string | null }
+export interface DemoClosureRef {
+  id: string;
+  collarCode: string;
+  kind: ClosureKind;
+  redoOfId: string | null;
+}
 
 export interface VisitOutcome {
   visitId: string;
@@ -43,7 +54,9 @@ const round = (x: number, d: number) => Math.round(x * 10 ** d) / 10 ** d;
 
 /** The probe kit differs by route: a permittivity probe on the west loop, a VWC probe on the east loop. */
 function probeKit(collar: DemoCollar): { kind: 'permittivity' | 'vwc'; probeId: string; rodLengthCm: number } {
-  return collar.blockIndex < 2 ? { kind: 'permittivity', probeId: 'TDR-2', rodLengthCm: 12 } : { kind: 'vwc', probeId: 'SM-7', rodLengthCm: 6 };
+  return collar.blockIndex < 2
+    ? { kind: 'permittivity', probeId: 'TDR-2', rodLengthCm: 12 }
+    : { kind: 'vwc', probeId: 'SM-7', rodLengthCm: 6 };
 }
 
 /** The rim is never perfectly level: each collar tilts a little in its own direction. */
@@ -83,16 +96,30 @@ export function buildVisit(plan: VisitPlan): VisitOutcome {
     other: '',
     ...plan.conditions,
   };
-  const writes: SeedWrite[] = [createOp('visit', visitId, 'crew', {
-    siteId: site, campaignId: plan.campaignId, round: plan.round, collarId: collar.id, crewId, arrivedAt: iso(t0),
-    conditions, skipped: !!plan.skipReason, skipReason: plan.skipReason ?? null,
-  })];
+  const writes: SeedWrite[] = [
+    createOp('visit', visitId, 'crew', {
+      siteId: site,
+      campaignId: plan.campaignId,
+      round: plan.round,
+      collarId: collar.id,
+      crewId,
+      arrivedAt: iso(t0),
+      conditions,
+      skipped: !!plan.skipReason,
+      skipReason: plan.skipReason ?? null,
+    }),
+  ];
   if (plan.skipReason) return { visitId, writes, closures: [] };
 
   const readingsCm = offsetReadings(collar, t0, plan.offsetShiftCm ?? 0, rng);
-  writes.push(createOp('offsetSet', demoId(`offset:${key}`), 'crew', {
-    ...link, takenAt: iso(t0 + 1.5 * MINUTE_MS), readingsCm, supersedesId: null,
-  }));
+  writes.push(
+    createOp('offsetSet', demoId(`offset:${key}`), 'crew', {
+      ...link,
+      takenAt: iso(t0 + 1.5 * MINUTE_MS),
+      readingsCm,
+      supersedesId: null,
+    }),
+  );
 
   const closures: DemoClosureRef[] = [];
   if (plan.closure) {
@@ -112,43 +139,78 @@ export function buildVisit(plan: VisitPlan): VisitOutcome {
   const probeMs = t0 + (closures.length ? 4 + 3.5 * closures.length : 3) * MINUTE_MS;
   const vwc = soilVwcPct(probeMs, collar.vwcOffsetPct) + rng.normal(0, 0.8);
   const kit = probeKit(collar);
-  writes.push(createOp('probeReading', demoId(`probe:${key}`), 'crew', {
-    ...link, takenAt: iso(probeMs),
-    soilTemps: [{ depthCm: 5, tempC: round(soilTempC(probeMs, collar.climate) + rng.normal(0, 0.15), 1) }],
-    moistureRaw: kit.kind === 'vwc' ? round(Math.max(1, vwc), 1) : round(permittivityForVwc(vwc) + rng.normal(0, 0.2), 1),
-    moistureKind: kit.kind, rodLengthCm: kit.rodLengthCm, probeId: kit.probeId,
-  }));
+  writes.push(
+    createOp('probeReading', demoId(`probe:${key}`), 'crew', {
+      ...link,
+      takenAt: iso(probeMs),
+      soilTemps: [{ depthCm: 5, tempC: round(soilTempC(probeMs, collar.climate) + rng.normal(0, 0.15), 1) }],
+      moistureRaw: kit.kind === 'vwc' ? round(Math.max(1, vwc), 1) : round(permittivityForVwc(vwc) + rng.normal(0, 0.2), 1),
+      moistureKind: kit.kind,
+      rodLengthCm: kit.rodLengthCm,
+      probeId: kit.probeId,
+    }),
+  );
   return { visitId, writes, closures };
 }
 
 function closureWrite(
-  plan: VisitPlan, link: Record<string, string>, id: string, kind: ClosureKind, startMs: number,
-  readingsCm: number[], redoOfId: string | null, conditions: VisitConditions, rng: Rng,
+  plan: VisitPlan,
+  link: Record<string, string>,
+  id: string,
+  kind: ClosureKind,
+  startMs: number,
+  readingsCm: number[],
+  redoOfId: string | null,
+  conditions: VisitConditions,
+  rng: Rng,
 ): SeedWrite {
   const { collar } = plan;
   const profile = profileOn(plan.profiles, iso(startMs).slice(0, 10));
   const meanOffset = readingsCm.reduce((a, b) => a + b, 0) / readingsCm.length;
   const soil = soilTempC(startMs, collar.climate);
   const flux = respirationUmolM2S({
-    r10: collar.r10, q10: DEMO_Q10, soilTempC: soil, vwcPct: soilVwcPct(startMs, collar.vwcOffsetPct),
+    r10: collar.r10,
+    q10: DEMO_Q10,
+    soilTempC: soil,
+    vwcPct: soilVwcPct(startMs, collar.vwcOffsetPct),
     factor: collar.respirationFactor * Math.exp(rng.normal(0, 0.08)),
   });
   // Near-ground air carries a little extra CO2 in the morning and in winter (weaker mixing).
   const ambient = 419 + (conditions.frostSnow ? 8 : 4) + rng.normal(0, 3);
-  const series = synthesizeClosure({
-    kind,
-    fluxUmolM2S: flux, ambientPpm: ambient, pressureKpa: pressureKpa(startMs), airTempC: airTempC(startMs),
-    h2oMmolMol: airH2oMmolMol(startMs), volumeCm3: profile.chamberVolumeCm3 + profile.loopVolumeCm3 + AREA_CM2 * meanOffset,
-    areaCm2: AREA_CM2, settleS: profile.settleS, durationS: profile.closureLengthS, noisePpm: 0.5,
-  }, rng);
+  const series = synthesizeClosure(
+    {
+      kind,
+      fluxUmolM2S: flux,
+      ambientPpm: ambient,
+      pressureKpa: pressureKpa(startMs),
+      airTempC: airTempC(startMs),
+      h2oMmolMol: airH2oMmolMol(startMs),
+      volumeCm3: profile.chamberVolumeCm3 + profile.loopVolumeCm3 + AREA_CM2 * meanOffset,
+      areaCm2: AREA_CM2,
+      settleS: profile.settleS,
+      durationS: profile.closureLengthS,
+      noisePpm: 0.5,
+    },
+    rng,
+  );
   const endMs = startMs + profile.closureLengthS * 1000;
   return createOp('closure', id, 'crew', {
-    ...link, profileId: profile.id, analyzerId: plan.analyzerId, startedAt: iso(startMs), endedAt: iso(endMs),
+    ...link,
+    profileId: profile.id,
+    analyzerId: plan.analyzerId,
+    startedAt: iso(startMs),
+    endedAt: iso(endMs),
     settleS: profile.settleS,
     series: { tS: series.tS, co2Ppm: series.co2Ppm, h2oMmolMol: series.h2oMmolMol, pressureKpa: series.pressureKpa, tempC: series.tempC },
     // The phone's chamber-on/off taps land a second or two off the logger's clock.
-    chamberOnAt: iso(startMs - rng.int(0, 2) * 1000), chamberOffAt: iso(endMs + rng.int(0, 3) * 1000),
-    sourceAttachmentId: null, redoOfId,
-    reviewState: 'unreviewed', reviewReason: null, reviewSettleS: null, reviewWindowEndS: null, reviewModel: null,
+    chamberOnAt: iso(startMs - rng.int(0, 2) * 1000),
+    chamberOffAt: iso(endMs + rng.int(0, 3) * 1000),
+    sourceAttachmentId: null,
+    redoOfId,
+    reviewState: 'unreviewed',
+    reviewReason: null,
+    reviewSettleS: null,
+    reviewWindowEndS: null,
+    reviewModel: null,
   });
 }

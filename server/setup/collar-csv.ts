@@ -33,14 +33,24 @@ export const MAX_CELL_CHARS = 4000;
 export const MAX_FILE_ERRORS = 50;
 
 export const importRequestSchema = z.object({
-  csv: z.string({ message: 'Send the CSV text in "csv"' }).min(1, 'The file is empty')
-    .refine((s) => Buffer.byteLength(s, 'utf8') <= MAX_CSV_BYTES, `The file is larger than ${MAX_CSV_BYTES / 1024} KiB; split it into smaller files`),
+  csv: z
+    .string({ message: 'Send the CSV text in "csv"' })
+    .min(1, 'The file is empty')
+    .refine(
+      (s) => Buffer.byteLength(s, 'utf8') <= MAX_CSV_BYTES,
+      `The file is larger than ${MAX_CSV_BYTES / 1024} KiB; split it into smaller files`,
+    ),
   /** target → CSV header; a target left out is guessed from the headers. */
-  mapping: z.record(z.string(), z.string().max(200)).default({}).superRefine((m, ctx) => {
-    for (const k of Object.keys(m)) {
-      if (!(TARGETS as string[]).includes(k)) ctx.addIssue({ code: 'custom', path: [k], message: `Unknown import field "${k}" (known: ${TARGETS.join(', ')})` });
-    }
-  }).transform((m) => m as Partial<Record<ImportTarget, string>>),
+  mapping: z
+    .record(z.string(), z.string().max(200))
+    .default({})
+    .superRefine((m, ctx) => {
+      for (const k of Object.keys(m)) {
+        if (!(TARGETS as string[]).includes(k))
+          ctx.addIssue({ code: 'custom', path: [k], message: `Unknown import field "${k}" (known: ${TARGETS.join(', ')})` });
+      }
+    })
+    .transform((m) => m as Partial<Record<ImportTarget, string>>),
 });
 export type ImportRequest = z.infer<typeof importRequestSchema>;
 
@@ -63,19 +73,32 @@ const UNIT_WORDS: Record<string, string> = { mm: 'mm', cm: 'cm', m: 'm', in: 'in
  */
 export function parseCsv(text: string): { table: ParsedTable; errors: CellError[] } {
   const res = parseBoundedCsv(text.replace(/^\uFEFF/, ''), {
-    maxRows: MAX_CSV_ROWS, maxColumns: MAX_COLUMNS, maxHeaderChars: MAX_HEADER_CHARS, maxCellChars: MAX_CELL_CHARS,
+    maxRows: MAX_CSV_ROWS,
+    maxColumns: MAX_COLUMNS,
+    maxHeaderChars: MAX_HEADER_CHARS,
+    maxCellChars: MAX_CELL_CHARS,
   });
-  const errors: CellError[] = res.errors.slice(0, MAX_FILE_ERRORS).map((e) => ({ row: (e.row ?? 0) + 1, column: '(file)', message: `Malformed CSV: ${e.message}` }));
+  const errors: CellError[] = res.errors
+    .slice(0, MAX_FILE_ERRORS)
+    .map((e) => ({ row: (e.row ?? 0) + 1, column: '(file)', message: `Malformed CSV: ${e.message}` }));
   if (res.errors.length > MAX_FILE_ERRORS) {
-    errors.push({ row: (res.errors[MAX_FILE_ERRORS]!.row ?? 0) + 1, column: '(file)', message: `…and ${res.errors.length - MAX_FILE_ERRORS} more structural errors` });
+    errors.push({
+      row: (res.errors[MAX_FILE_ERRORS]!.row ?? 0) + 1,
+      column: '(file)',
+      message: `…and ${res.errors.length - MAX_FILE_ERRORS} more structural errors`,
+    });
   }
   const [head, ...body] = res.data;
-  if (!head || head.every((h) => !h.trim())) return { table: { headers: [], rows: [] }, errors: [{ row: 1, column: '(file)', message: 'The file has no header row' }] };
+  if (!head || head.every((h) => !h.trim()))
+    return { table: { headers: [], rows: [] }, errors: [{ row: 1, column: '(file)', message: 'The file has no header row' }] };
   const headers = head.map((h) => h.trim());
   const seenHeaders = new Set<string>();
   let dup: string | undefined;
   for (const h of headers) {
-    if (h && seenHeaders.has(h)) { dup = h; break; }
+    if (h && seenHeaders.has(h)) {
+      dup = h;
+      break;
+    }
     seenHeaders.add(h);
   }
   if (dup) errors.push({ row: 1, column: dup, message: `The column "${dup}" appears twice` });
@@ -110,11 +133,19 @@ function norm(s: string): string {
   return out;
 }
 const GUESSES: Record<ImportTarget, string[]> = {
-  code: ['code', 'collar', 'collarcode', 'collarid', 'id', 'name'], plot: ['plot', 'plotcode', 'plotid'],
-  treatment: ['treatment', 'treatmentcode'], latitude: ['lat', 'latitude'], longitude: ['lon', 'lng', 'long', 'longitude'],
-  shape: ['shape'], diameterCm: ['diameter', 'diametercm', 'dia', 'innerdiameter'], sideACm: ['sidea', 'sideacm', 'length'],
-  sideBCm: ['sideb', 'sidebcm', 'width'], heightCm: ['height', 'heightcm'], insertionCm: ['insertion', 'insertioncm', 'depth', 'insertiondepth'],
-  installedOn: ['installed', 'installedon', 'installdate', 'date'], notes: ['notes', 'note', 'comment', 'comments'],
+  code: ['code', 'collar', 'collarcode', 'collarid', 'id', 'name'],
+  plot: ['plot', 'plotcode', 'plotid'],
+  treatment: ['treatment', 'treatmentcode'],
+  latitude: ['lat', 'latitude'],
+  longitude: ['lon', 'lng', 'long', 'longitude'],
+  shape: ['shape'],
+  diameterCm: ['diameter', 'diametercm', 'dia', 'innerdiameter'],
+  sideACm: ['sidea', 'sideacm', 'length'],
+  sideBCm: ['sideb', 'sidebcm', 'width'],
+  heightCm: ['height', 'heightcm'],
+  insertionCm: ['insertion', 'insertioncm', 'depth', 'insertiondepth'],
+  installedOn: ['installed', 'installedon', 'installdate', 'date'],
+  notes: ['notes', 'note', 'comment', 'comments'],
 };
 
 /** The mapping to use: the one sent, completed by guesses from header names. */
@@ -123,13 +154,19 @@ export function resolveMapping(headers: string[], sent: Partial<Record<ImportTar
   const taken = new Set<string>();
   for (const t of TARGETS) {
     const h = sent[t];
-    if (h !== undefined && h !== '') { out[t] = h; taken.add(h); }
+    if (h !== undefined && h !== '') {
+      out[t] = h;
+      taken.add(h);
+    }
   }
   for (const t of TARGETS) {
     if (t in sent) continue;
     // Strip a trailing unit word (diameter_cm → diameter) before comparing.
     const h = headers.find((x) => !taken.has(x) && GUESSES[t].includes(norm(x.replace(/[_\s-]?(cm|mm|m|in|deg)$/i, ''))));
-    if (h) { out[t] = h; taken.add(h); }
+    if (h) {
+      out[t] = h;
+      taken.add(h);
+    }
   }
   return out;
 }
@@ -137,7 +174,7 @@ export function resolveMapping(headers: string[], sent: Partial<Record<ImportTar
 /** The unit a header declares: "Diameter (mm)", "height_in", "diameter [cm]". */
 export function headerUnit(header: string): string | null {
   const m = /[([]\s*([a-z°]+)\s*[)\]]\s*$/i.exec(header) ?? /[_\s-](mm|cm|m|in|inch|inches|ft|deg)$/i.exec(header);
-  return m ? UNIT_WORDS[m[1]!.toLowerCase()] ?? m[1]!.toLowerCase() : null;
+  return m ? (UNIT_WORDS[m[1]!.toLowerCase()] ?? m[1]!.toLowerCase()) : null;
 }
 
 /** Mapping problems that concern every row: missing required columns, unknown headers, wrong units. */
@@ -150,10 +187,17 @@ export function mappingErrors(headers: string[], mapping: Partial<Record<ImportT
       if (spec.required) errors.push({ row: 1, column: spec.label, message: `No column is mapped to ${spec.label}` });
       continue;
     }
-    if (!headers.includes(h)) { errors.push({ row: 1, column: h, message: `The file has no column "${h}"` }); continue; }
+    if (!headers.includes(h)) {
+      errors.push({ row: 1, column: h, message: `The file has no column "${h}"` });
+      continue;
+    }
     const unit = headerUnit(h);
     if (spec.unit && unit && unit !== spec.unit) {
-      errors.push({ row: 1, column: h, message: `${spec.label} is given in ${unit}; the import takes ${spec.unit} (convert the column first)` });
+      errors.push({
+        row: 1,
+        column: h,
+        message: `${spec.label} is given in ${unit}; the import takes ${spec.unit} (convert the column first)`,
+      });
     }
   }
   return errors;
@@ -168,7 +212,7 @@ function numberCell(raw: string, t: ImportTarget): { value: number | null; error
     const hint = /^-?\d+,\d+$/.test(raw) ? ' (use a point as the decimal separator)' : '';
     return { value: null, error: `"${raw}" is not a number${hint}` };
   }
-  const unit = m[2] ? UNIT_WORDS[m[2].toLowerCase()] ?? m[2] : null;
+  const unit = m[2] ? (UNIT_WORDS[m[2].toLowerCase()] ?? m[2]) : null;
   if (unit && unit !== spec.unit) return { value: null, error: `"${raw}" is in ${unit}; ${spec.label} must be in ${spec.unit}` };
   return { value: Number(m[1]) };
 }
@@ -187,17 +231,24 @@ export interface RowResult {
 }
 
 /** Turns one CSV row into collar fields validated with the shared collar schema; errors name row and column. */
-export function rowToCollar(siteId: string, r: ParsedTable['rows'][number], mapping: Partial<Record<ImportTarget, string>>,
-  codes: LookupCodes, seen: Map<string, number>): RowResult {
+export function rowToCollar(
+  siteId: string,
+  r: ParsedTable['rows'][number],
+  mapping: Partial<Record<ImportTarget, string>>,
+  codes: LookupCodes,
+  seen: Map<string, number>,
+): RowResult {
   const errors: CellError[] = [];
   const col = (t: ImportTarget) => mapping[t] ?? IMPORT_TARGETS[t].label;
-  const cell = (t: ImportTarget) => (mapping[t] ? r.cells[mapping[t]!] ?? '' : '');
+  const cell = (t: ImportTarget) => (mapping[t] ? (r.cells[mapping[t]!] ?? '') : '');
   const fields: Record<string, unknown> = { siteId };
   fields['code'] = cell('code');
   const code = cell('code');
-  if (code && codes.existingCollarCodes.has(code.toLowerCase())) errors.push({ row: r.row, column: col('code'), message: `A collar ${code} exists at this site already` });
+  if (code && codes.existingCollarCodes.has(code.toLowerCase()))
+    errors.push({ row: r.row, column: col('code'), message: `A collar ${code} exists at this site already` });
   const first = seen.get(code.toLowerCase());
-  if (code && first !== undefined) errors.push({ row: r.row, column: col('code'), message: `Collar ${code} appears twice in the file (also row ${first})` });
+  if (code && first !== undefined)
+    errors.push({ row: r.row, column: col('code'), message: `Collar ${code} appears twice in the file (also row ${first})` });
   else if (code) seen.set(code.toLowerCase(), r.row);
   const plot = cell('plot');
   if (plot) {
@@ -219,7 +270,8 @@ export function rowToCollar(siteId: string, r: ParsedTable['rows'][number], mapp
   const shape = cell('shape').toLowerCase();
   if (shape) fields['shape'] = shape;
   const installed = cell('installedOn');
-  if (installed && !isCalendarDate(installed)) errors.push({ row: r.row, column: col('installedOn'), message: `"${installed}" is not a date YYYY-MM-DD` });
+  if (installed && !isCalendarDate(installed))
+    errors.push({ row: r.row, column: col('installedOn'), message: `"${installed}" is not a date YYYY-MM-DD` });
   else if (installed) fields['installedOn'] = installed;
   if (cell('notes')) fields['notes'] = cell('notes');
   const parsed = collarFields.safeParse(fields);

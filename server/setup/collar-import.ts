@@ -3,8 +3,16 @@ import type { DataSource, EntityManager } from 'typeorm';
 import { AppError } from '../core/errors';
 import { ChangeBuffer, writeRecord, type Actor } from '../records/record-writer';
 import {
-  IMPORT_TARGETS, mappingErrors, parseCsv, resolveMapping, rowToCollar,
-  type CellError, type ImportRequest, type ImportTarget, type LookupCodes, type RowResult,
+  IMPORT_TARGETS,
+  mappingErrors,
+  parseCsv,
+  resolveMapping,
+  rowToCollar,
+  type CellError,
+  type ImportRequest,
+  type ImportTarget,
+  type LookupCodes,
+  type RowResult,
 } from './collar-csv';
 import { siteForActor } from './site-access';
 
@@ -22,7 +30,9 @@ export interface ImportPreview {
 async function lookupCodes(db: DataSource | EntityManager, siteId: string): Promise<LookupCodes> {
   const plots: { id: string; code: string }[] = await db.query(`SELECT id, code FROM plot WHERE site_id = $1 AND NOT deleted`, [siteId]);
   const treatments: { id: string; code: string }[] = await db.query(
-    `SELECT id, code FROM treatment WHERE site_id = $1 AND NOT deleted AND level = 'collar'`, [siteId]);
+    `SELECT id, code FROM treatment WHERE site_id = $1 AND NOT deleted AND level = 'collar'`,
+    [siteId],
+  );
   const collars: { code: string }[] = await db.query(`SELECT code FROM collar WHERE site_id = $1 AND NOT deleted`, [siteId]);
   return {
     plots: new Map(plots.map((p) => [p.code.toLowerCase(), p.id])),
@@ -47,9 +57,13 @@ export async function previewCollarImport(ds: DataSource, actor: Actor, siteId: 
   const c = check(siteId, req, await lookupCodes(ds, siteId));
   const errorRows = c.rows.filter((r) => r.errors.length).length;
   return {
-    headers: c.headers, mapping: c.mapping, targets: IMPORT_TARGETS, fileErrors: c.fileErrors,
+    headers: c.headers,
+    mapping: c.mapping,
+    targets: IMPORT_TARGETS,
+    fileErrors: c.fileErrors,
     rows: c.rows.map((r) => ({ row: r.row, cells: r.cells, errors: r.errors })),
-    validRows: c.rows.length - errorRows, errorRows,
+    validRows: c.rows.length - errorRows,
+    errorRows,
   };
 }
 
@@ -60,7 +74,12 @@ const asFields = (errors: CellError[]) => errors.map((e) => ({ path: `row ${e.ro
  * added a collar since the preview) and written through the one record writer; the first
  * refusal rolls everything back and the answer lists every row's errors.
  */
-export async function commitCollarImport(ds: DataSource, actor: Actor, siteId: string, req: ImportRequest): Promise<{ created: number; collarIds: string[] }> {
+export async function commitCollarImport(
+  ds: DataSource,
+  actor: Actor,
+  siteId: string,
+  req: ImportRequest,
+): Promise<{ created: number; collarIds: string[] }> {
   return ds.transaction(async (em) => {
     await siteForActor(em, actor, siteId);
     // Serialise imports of one site so two concurrent files cannot both add the same code.
@@ -78,8 +97,11 @@ export async function commitCollarImport(ds: DataSource, actor: Actor, siteId: s
       const id = randomUUID();
       const outcome = await writeRecord(em, actor, { entity: 'collar', id, baseRev: null, op: 'upsert', fields: r.fields! }, changes);
       if (outcome.status !== 'applied') {
-        throw new AppError(outcome.httpStatus ?? 400, `Nothing was imported: row ${r.row}: ${outcome.error?.message ?? outcome.status}`,
-          (outcome.error?.fields ?? []).map((f) => ({ path: `row ${r.row} · ${f.path}`, message: f.message })));
+        throw new AppError(
+          outcome.httpStatus ?? 400,
+          `Nothing was imported: row ${r.row}: ${outcome.error?.message ?? outcome.status}`,
+          (outcome.error?.fields ?? []).map((f) => ({ path: `row ${r.row} · ${f.path}`, message: f.message })),
+        );
       }
       collarIds.push(id);
     }

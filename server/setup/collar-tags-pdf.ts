@@ -16,7 +16,9 @@ const pdfmake = require('pdfmake') as {
 };
 // The PDF standard fonts need no font files; nothing is fetched from disk or network.
 const STANDARD_FONTS = ['Helvetica', 'Helvetica-Bold', 'Helvetica-Oblique', 'Helvetica-BoldOblique'];
-pdfmake.setFonts({ Helvetica: { normal: 'Helvetica', bold: 'Helvetica-Bold', italics: 'Helvetica-Oblique', bolditalics: 'Helvetica-BoldOblique' } });
+pdfmake.setFonts({
+  Helvetica: { normal: 'Helvetica', bold: 'Helvetica-Bold', italics: 'Helvetica-Oblique', bolditalics: 'Helvetica-BoldOblique' },
+});
 pdfmake.setUrlAccessPolicy(() => false);
 // Only the names of the PDF standard fonts pass; no other local file is read.
 pdfmake.setLocalAccessPolicy((p) => STANDARD_FONTS.includes(p));
@@ -30,21 +32,42 @@ export type TagQuery = z.infer<typeof tagQuerySchema>;
 
 /** Codes a blank tag may carry: short, printable, no spaces (they are painted on collars too). */
 const CODE_PREFIX = /^[A-Za-z0-9][A-Za-z0-9_.-]{0,11}$/;
-export const blankTagQuerySchema = z.object({
-  paper: tagQuerySchema.shape.paper,
-  count: z.coerce.number({ message: 'count must be a number' }).int('count must be a whole number')
-    .min(1, 'count must be at least 1').max(500, 'At most 500 tags per sheet').default(21),
-  codePrefix: z.string().trim().regex(CODE_PREFIX, 'codePrefix: up to 12 letters, digits, "-", "_" or ".", starting with a letter or digit').optional(),
-  firstNumber: z.coerce.number({ message: 'firstNumber must be a number' }).int('firstNumber must be a whole number')
-    .min(0, 'firstNumber must be 0 or more').max(999_999, 'firstNumber must be below 1 000 000').optional(),
-  /** Zero-padding of the running number: digits=2 gives C09, C10, … */
-  digits: z.coerce.number({ message: 'digits must be a number' }).int('digits must be a whole number')
-    .min(1, 'digits must be 1 to 6').max(6, 'digits must be 1 to 6').optional(),
-}).refine((q) => q.firstNumber === undefined || q.codePrefix !== undefined, {
-  message: 'firstNumber needs a codePrefix', path: ['firstNumber'],
-}).refine((q) => q.digits === undefined || q.codePrefix !== undefined, {
-  message: 'digits needs a codePrefix', path: ['digits'],
-});
+export const blankTagQuerySchema = z
+  .object({
+    paper: tagQuerySchema.shape.paper,
+    count: z.coerce
+      .number({ message: 'count must be a number' })
+      .int('count must be a whole number')
+      .min(1, 'count must be at least 1')
+      .max(500, 'At most 500 tags per sheet')
+      .default(21),
+    codePrefix: z
+      .string()
+      .trim()
+      .regex(CODE_PREFIX, 'codePrefix: up to 12 letters, digits, "-", "_" or ".", starting with a letter or digit')
+      .optional(),
+    firstNumber: z.coerce
+      .number({ message: 'firstNumber must be a number' })
+      .int('firstNumber must be a whole number')
+      .min(0, 'firstNumber must be 0 or more')
+      .max(999_999, 'firstNumber must be below 1 000 000')
+      .optional(),
+    /** Zero-padding of the running number: digits=2 gives C09, C10, … */
+    digits: z.coerce
+      .number({ message: 'digits must be a number' })
+      .int('digits must be a whole number')
+      .min(1, 'digits must be 1 to 6')
+      .max(6, 'digits must be 1 to 6')
+      .optional(),
+  })
+  .refine((q) => q.firstNumber === undefined || q.codePrefix !== undefined, {
+    message: 'firstNumber needs a codePrefix',
+    path: ['firstNumber'],
+  })
+  .refine((q) => q.digits === undefined || q.codePrefix !== undefined, {
+    message: 'digits needs a codePrefix',
+    path: ['digits'],
+  });
 export type BlankTagQuery = z.infer<typeof blankTagQuerySchema>;
 
 // Measured: pdfmake draws each QR module as a vector rect, ~25 ms a tag on a busy 2-core machine
@@ -75,14 +98,16 @@ function tagCell(c: TagCollar, siteName: string, origin: string) {
   const clip = (s: string, n: number) => (s.length > n ? `${s.slice(0, n - 1)}…` : s);
   const blank = c.plotCode === null;
   const url = blank ? collarTagUrl(origin, c.id, c.code || null) : collarTagUrl(origin, c.id);
-  const codeLine = blank && !c.code
-    ? { text: 'Code: ________', bold: true, fontSize: 11 }
-    : { text: clip(c.code, 24), bold: true, fontSize: c.code.length <= 8 ? 15 : 10 };
+  const codeLine =
+    blank && !c.code
+      ? { text: 'Code: ________', bold: true, fontSize: 11 }
+      : { text: clip(c.code, 24), bold: true, fontSize: c.code.length <= 8 ? 15 : 10 };
   return {
     columns: [
       { qr: url, fit: QR_PT, eccLevel: 'M', margin: [QUIET, 8, 0, 0], width: QR_PT + QUIET },
       {
-        width: '*', margin: [QUIET, 10, 4, 0],
+        width: '*',
+        margin: [QUIET, 10, 4, 0],
         stack: [
           codeLine,
           { text: blank ? `New collar · tag ${shortTagId(c.id)}` : `Plot ${clip(c.plotCode!, 20)}`, fontSize: 9, margin: [0, 4, 0, 0] },
@@ -110,15 +135,23 @@ export async function renderTagSheet(collars: TagCollar[], siteName: string, pap
     pages.push({
       table: { widths: Array(COLS).fill(TAG_W - 1), heights: TAG_H - 1, body, dontBreakRows: true },
       layout: {
-        hLineWidth: () => 0.3, vLineWidth: () => 0.3, hLineColor: () => '#999999', vLineColor: () => '#999999',
-        hLineStyle: () => ({ dash: { length: 3, space: 3 } }), vLineStyle: () => ({ dash: { length: 3, space: 3 } }),
-        paddingLeft: () => 0, paddingRight: () => 0, paddingTop: () => 0, paddingBottom: () => 0,
+        hLineWidth: () => 0.3,
+        vLineWidth: () => 0.3,
+        hLineColor: () => '#999999',
+        vLineColor: () => '#999999',
+        hLineStyle: () => ({ dash: { length: 3, space: 3 } }),
+        vLineStyle: () => ({ dash: { length: 3, space: 3 } }),
+        paddingLeft: () => 0,
+        paddingRight: () => 0,
+        paddingTop: () => 0,
+        paddingBottom: () => 0,
       },
       pageBreak: i + COLS * ROWS < collars.length ? 'after' : undefined,
     });
   }
   const doc = {
-    pageSize: p.size, pageMargins: [marginX, marginY, marginX, 0],
+    pageSize: p.size,
+    pageMargins: [marginX, marginY, marginX, 0],
     info: { title: `Collar tags · ${siteName}`, creator: 'Fluxwalk' },
     defaultStyle: { font: 'Helvetica' },
     content: pages.length ? pages : [{ text: 'No collars to tag at this site.' }],
@@ -134,7 +167,8 @@ export async function collarTagSheet(ds: DataSource, actor: Actor, siteId: strin
       WHERE c.site_id = $1 AND NOT c.deleted AND ($2::uuid IS NULL OR c.plot_id = $2)
         AND ($3 OR c.status <> 'retired')
       ORDER BY p.code, c.code LIMIT ${MAX_TAGS + 1}`,
-    [siteId, q.plotId ?? null, q.includeRetired === 'true']);
+    [siteId, q.plotId ?? null, q.includeRetired === 'true'],
+  );
   if (collars.length > MAX_TAGS) throw new AppError(400, `At most ${MAX_TAGS} tags per sheet: choose one plot at a time`);
   return { pdf: await renderTagSheet(collars, site.name, q.paper, origin), count: collars.length, siteName: site.name };
 }
@@ -151,9 +185,15 @@ export async function blankTagSheet(ds: DataSource, actor: Actor, siteId: string
   const codes = q.codePrefix ? plannedTagCodes(q.codePrefix, first, q.digits ?? 1, q.count) : Array<string>(q.count).fill('');
   if (q.codePrefix) {
     const taken: { code: string }[] = await ds.query(
-      `SELECT code FROM collar WHERE site_id = $1 AND NOT deleted AND code = ANY($2::text[]) ORDER BY code LIMIT 6`, [siteId, codes]);
+      `SELECT code FROM collar WHERE site_id = $1 AND NOT deleted AND code = ANY($2::text[]) ORDER BY code LIMIT 6`,
+      [siteId, codes],
+    );
     if (taken.length) {
-      const names = taken.slice(0, 5).map((t) => t.code).join(', ') + (taken.length > 5 ? ', …' : '');
+      const names =
+        taken
+          .slice(0, 5)
+          .map((t) => t.code)
+          .join(', ') + (taken.length > 5 ? ', …' : '');
       throw new AppError(409, `These codes are already used at this site: ${names}. Choose another prefix or first number.`);
     }
   }

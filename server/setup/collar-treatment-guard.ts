@@ -11,6 +11,9 @@ export async function guardCollarTreatment(w: PendingWrite): Promise<WriteOutcom
   const [t] = await w.em.query(`SELECT code, level FROM treatment WHERE id = $1`, [w.next['treatmentId']]);
   if (!t || t.level === 'collar') return null; // a missing treatment is the reference check's to report
   return rejected(400, 'Some fields are not valid', [
-    { path: 'treatmentId', message: `Treatment ${t.code} is applied to whole plots; a collar takes only a treatment applied to single collars` },
+    {
+      path: 'treatmentId',
+      message: `Treatment ${t.code} is applied to whole plots; a collar takes only a treatment applied to single collars`,
+    },
   ]);
 }

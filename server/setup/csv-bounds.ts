@@ -50,11 +50,15 @@ function measureRaw(text: string, delimiter: string, b: CsvBounds): void {
       throw badRequest(`Column header ${fields} ("${shown(text.slice(start, i))}") is longer than ${b.maxHeaderChars} characters`);
     }
     if (i - start > 2 * b.maxCellChars + 2) throw badRequest(`Row ${records + 1}: a cell is longer than ${b.maxCellChars} characters`);
-    if (i < n && text[i] === delimiter) { i++; continue; }
+    if (i < n && text[i] === delimiter) {
+      i++;
+      continue;
+    }
     // End of a record: a line break (\r\n, \n or \r) or the end of the text.
     if (hasText && records === 0 && fields > b.maxColumns) tooManyColumns(b, fields);
     if (hasText) records++;
-    if (records > b.maxRows + 1) throw badRequest(`The file has more than ${b.maxRows} collar rows; split it into files of at most ${b.maxRows}`);
+    if (records > b.maxRows + 1)
+      throw badRequest(`The file has more than ${b.maxRows} collar rows; split it into files of at most ${b.maxRows}`);
     fields = 0;
     hasText = false;
     if (i >= n) break;
@@ -72,7 +76,10 @@ function endOfQuoted(text: string, open: number, delimiter: string): number {
     const q = text.indexOf('"', j);
     if (q < 0) return text.length;
     const after = text[q + 1];
-    if (after === '"') { j = q + 2; continue; }
+    if (after === '"') {
+      j = q + 2;
+      continue;
+    }
     if (after === undefined || after === delimiter || after === '\n' || after === '\r') return q + 1;
     j = q + 1;
   }
@@ -87,9 +94,11 @@ function checkParsed(rows: string[][], b: CsvBounds): void {
   if (head.length > b.maxColumns) tooManyColumns(b, head.length);
   const long = head.findIndex((h) => h.length > b.maxHeaderChars);
   if (long >= 0) throw badRequest(`Column header ${long + 1} ("${shown(head[long]!)}") is longer than ${b.maxHeaderChars} characters`);
-  if (rows.length > b.maxRows + 1) throw badRequest(`The file has more than ${b.maxRows} collar rows; split it into files of at most ${b.maxRows}`);
+  if (rows.length > b.maxRows + 1)
+    throw badRequest(`The file has more than ${b.maxRows} collar rows; split it into files of at most ${b.maxRows}`);
   for (let r = 1; r < rows.length; r++) {
     const c = rows[r]!.findIndex((cell) => cell.length > b.maxCellChars);
-    if (c >= 0) throw badRequest(`Row ${r + 1}, column "${shown(head[c] ?? String(c + 1))}": the cell is longer than ${b.maxCellChars} characters`);
+    if (c >= 0)
+      throw badRequest(`Row ${r + 1}, column "${shown(head[c] ?? String(c + 1))}": the cell is longer than ${b.maxCellChars} characters`);
   }
 }

@@ -13,9 +13,18 @@ import { rejected, type WriteOutcome } from '../records/write-outcome';
 import { siteForActor } from './site-access';
 
 /** A new version names its day and the geometry that changed; the rest is copied from the version it follows. */
-export const newVersionSchema = chamberProfileFields.pick({
-  validFrom: true, chamberVolumeCm3: true, loopVolumeCm3: true, settleS: true, closureLengthS: true, footprintAreaCm2: true,
-}).partial().required({ validFrom: true }).strict();
+export const newVersionSchema = chamberProfileFields
+  .pick({
+    validFrom: true,
+    chamberVolumeCm3: true,
+    loopVolumeCm3: true,
+    settleS: true,
+    closureLengthS: true,
+    footprintAreaCm2: true,
+  })
+  .partial()
+  .required({ validFrom: true })
+  .strict();
 export const previewSchema = z.object({ validFrom: chamberProfileFields.shape.validFrom });
 
 /** Editing these on a profile that closures use would silently change stored fluxes. */
@@ -27,7 +36,9 @@ async function loadProfile(db: Db, id: string): Promise<Record<string, unknown>>
   const [p] = await db.query(
     `SELECT id, site_id AS "siteId", name, to_char(valid_from, 'YYYY-MM-DD') AS "validFrom", chamber_volume_cm3 AS "chamberVolumeCm3",
             loop_volume_cm3 AS "loopVolumeCm3", settle_s AS "settleS", closure_length_s AS "closureLengthS",
-            footprint_area_cm2 AS "footprintAreaCm2", rev FROM chamber_profile WHERE id = $1 AND NOT deleted`, [id]);
+            footprint_area_cm2 AS "footprintAreaCm2", rev FROM chamber_profile WHERE id = $1 AND NOT deleted`,
+    [id],
+  );
   if (!p) throw new AppError(404, 'There is no such chamber profile');
   return p;
 }
@@ -35,7 +46,9 @@ async function loadProfile(db: Db, id: string): Promise<Record<string, unknown>>
 /** Closures whose stored flux was computed with this profile version. */
 export async function closuresUsing(db: Db, profileId: string): Promise<number> {
   const [r] = await db.query(
-    `SELECT count(*)::int AS n FROM closure WHERE NOT deleted AND (profile_id = $1 OR results->>'profileId' = $1::text)`, [profileId]);
+    `SELECT count(*)::int AS n FROM closure WHERE NOT deleted AND (profile_id = $1 OR results->>'profileId' = $1::text)`,
+    [profileId],
+  );
   return r.n;
 }
 
@@ -56,11 +69,18 @@ async function affectedClosures(db: Db, siteId: string, validFrom: string) {
      SELECT c.id, k.locked FROM closure c JOIN campaign k ON k.id = c.campaign_id JOIN site s ON s.id = c.site_id, nxt
       WHERE c.site_id = $1 AND NOT c.deleted
         AND (c.started_at AT TIME ZONE s.timezone)::date >= $2::date
-        AND (nxt.d IS NULL OR (c.started_at AT TIME ZONE s.timezone)::date < nxt.d)`, [siteId, validFrom]);
+        AND (nxt.d IS NULL OR (c.started_at AT TIME ZONE s.timezone)::date < nxt.d)`,
+    [siteId, validFrom],
+  );
   const until: { d: string | null }[] = await db.query(
     `SELECT to_char(min(valid_from), 'YYYY-MM-DD') AS d FROM chamber_profile WHERE site_id = $1 AND NOT deleted AND valid_from > $2::date`,
-    [siteId, validFrom]);
-  return { recompute: rows.filter((r) => !r.locked).map((r) => r.id), lockedKept: rows.filter((r) => r.locked).length, until: until[0]?.d ?? null };
+    [siteId, validFrom],
+  );
+  return {
+    recompute: rows.filter((r) => !r.locked).map((r) => r.id),
+    lockedKept: rows.filter((r) => r.locked).length,
+    until: until[0]?.d ?? null,
+  };
 }
 
 export async function recomputePreview(ds: DataSource, actor: Actor, siteId: string, validFrom: string) {
@@ -73,9 +93,12 @@ export async function recomputePreview(ds: DataSource, actor: Actor, siteId: str
 async function refuseSameDay(db: Db, siteId: string, name: string, validFrom: string, exceptId: string | null) {
   const [dup] = await db.query(
     `SELECT name FROM chamber_profile WHERE site_id = $1 AND name = $4 AND NOT deleted AND valid_from = $2::date AND ($3::uuid IS NULL OR id <> $3)`,
-    [siteId, validFrom, exceptId, name]);
-  if (dup) throw new AppError(409, `A chamber profile version valid from ${validFrom} exists already (${dup.name}); pick another day`,
-    [{ path: 'validFrom', message: 'Another version starts on this day' }]);
+    [siteId, validFrom, exceptId, name],
+  );
+  if (dup)
+    throw new AppError(409, `A chamber profile version valid from ${validFrom} exists already (${dup.name}); pick another day`, [
+      { path: 'validFrom', message: 'Another version starts on this day' },
+    ]);
 }
 
 /** Re-derives the flux of closures after their profile version changed, with a change-log entry each. */
@@ -90,7 +113,16 @@ async function recomputeClosures(em: EntityManager, actor: Actor, ids: string[],
     if (!changed.length) continue;
     const rev = Number(current['rev']) + 1;
     await repo.update({ id: row.id }, { ...derived, rev, updatedAt: new Date(), updatedBy: actor.id } as never);
-    changes.add({ entity: 'closure', recordId: row.id, rev, siteId: row.siteId, fields: changed, deleted: false, userId: actor.id, deviceId: null });
+    changes.add({
+      entity: 'closure',
+      recordId: row.id,
+      rev,
+      siteId: row.siteId,
+      fields: changed,
+      deleted: false,
+      userId: actor.id,
+      deviceId: null,
+    });
   }
   return rows.length;
 }
@@ -106,8 +138,14 @@ export async function createProfileVersion(ds: DataSource, actor: Actor, profile
     const { id: _id, rev: _rev, ...copy } = base;
     const changes = new ChangeBuffer();
     const id = randomUUID();
-    const out = await writeRecord(em, actor, { entity: 'chamberProfile', id, baseRev: null, op: 'upsert', fields: { ...copy, ...body } }, changes);
-    if (out.status !== 'applied') throw new AppError(out.httpStatus ?? 400, out.error?.message ?? 'The version was not saved', out.error?.fields);
+    const out = await writeRecord(
+      em,
+      actor,
+      { entity: 'chamberProfile', id, baseRev: null, op: 'upsert', fields: { ...copy, ...body } },
+      changes,
+    );
+    if (out.status !== 'applied')
+      throw new AppError(out.httpStatus ?? 400, out.error?.message ?? 'The version was not saved', out.error?.fields);
     const a = await affectedClosures(em, siteId, body.validFrom);
     const recomputed = await recomputeClosures(em, actor, a.recompute, changes);
     await changes.flush(em);
@@ -134,8 +172,10 @@ export async function guardProfileWrite(w: PendingWrite): Promise<WriteOutcome |
   }
   const n = await closuresUsing(w.em, w.id);
   if (n === 0) return null;
-  return rejected(409, `${n} closure${n === 1 ? ' uses' : 's use'} this chamber profile; add a new version valid from a date instead of `
-    + (w.action === 'delete' ? 'deleting it' : 'editing it'),
-  touched.filter((k) => k !== 'deleted').map((path) => ({ path, message: 'Fixed once closures use this version' })));
+  return rejected(
+    409,
+    `${n} closure${n === 1 ? ' uses' : 's use'} this chamber profile; add a new version valid from a date instead of ` +
+      (w.action === 'delete' ? 'deleting it' : 'editing it'),
+    touched.filter((k) => k !== 'deleted').map((path) => ({ path, message: 'Fixed once closures use this version' })),
+  );
 }
-

@@ -16,7 +16,11 @@ const ADMIN = ['admin'] as const;
 
 /** A tag sheet as a download named after the site and paper, with the tag count for scripts. */
 function sendTagSheet(res: Response, sheet: { pdf: Buffer; count: number; siteName: string }, kind: string, paper: string): void {
-  const site = sheet.siteName.replace(/[^A-Za-z0-9]+/g, '-').replace(/^-|-$/g, '').toLowerCase() || 'site';
+  const site =
+    sheet.siteName
+      .replace(/[^A-Za-z0-9]+/g, '-')
+      .replace(/^-|-$/g, '')
+      .toLowerCase() || 'site';
   res.setHeader('Content-Type', 'application/pdf');
   res.setHeader('Content-Disposition', `attachment; filename="${kind}-${site}-${paper}.pdf"`);
   res.setHeader('X-Tag-Count', String(sheet.count));
@@ -66,9 +70,13 @@ export function registerSetupRoutes(r: RouteRegistry, ds: DataSource, appOrigin:
 
   r.add('post', '/api/chamber-profiles/:id/versions', ADMIN, async (req, res) => {
     const { id } = parse(idParam, req.params);
-    const result = await createProfileVersion(ds, req.user!, id, parse(newVersionSchema, req.body, 'Some chamber profile fields are not valid'));
+    const result = await createProfileVersion(
+      ds,
+      req.user!,
+      id,
+      parse(newVersionSchema, req.body, 'Some chamber profile fields are not valid'),
+    );
     res.status(201);
     return result;
   });
-
 }

@@ -5,7 +5,8 @@ export async function recordPush(em: EntityManager, deviceId: string, userId: st
   await em.query(
     `INSERT INTO device (id, user_id, last_push_at, outbox_size) VALUES ($1, $2, now(), $3)
      ON CONFLICT (id) DO UPDATE SET user_id = EXCLUDED.user_id, last_push_at = now(), outbox_size = EXCLUDED.outbox_size`,
-    [deviceId, userId, outboxSize]);
+    [deviceId, userId, outboxSize],
+  );
 }
 
 export async function knownSites(em: EntityManager, deviceId: string, userId: string): Promise<string[] | null> {
@@ -19,5 +20,6 @@ export async function recordPull(em: EntityManager, deviceId: string, userId: st
     `INSERT INTO device (id, user_id, last_pull_at, pull_cursor, site_ids) VALUES ($1, $2, now(), $3, $4)
      ON CONFLICT (id) DO UPDATE SET user_id = EXCLUDED.user_id, last_pull_at = now(), pull_cursor = EXCLUDED.pull_cursor,
        site_ids = EXCLUDED.site_ids`,
-    [deviceId, userId, cursor, siteIds]);
+    [deviceId, userId, cursor, siteIds],
+  );
 }

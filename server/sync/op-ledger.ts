@@ -16,7 +16,9 @@ export class LedgerRace extends Error {
 export async function storedAnswers(em: EntityManager, userId: string, opIds: string[]): Promise<Map<string, PushResult>> {
   if (!opIds.length) return new Map();
   const rows: { op_id: string; status: SyncStatus; response: PushResult }[] = await em.query(
-    `SELECT op_id, status, response FROM sync_op WHERE user_id = $2 AND op_id = ANY($1::uuid[]) AND status <> 'pending'`, [opIds, userId]);
+    `SELECT op_id, status, response FROM sync_op WHERE user_id = $2 AND op_id = ANY($1::uuid[]) AND status <> 'pending'`,
+    [opIds, userId],
+  );
   return new Map(rows.map((r) => [r.op_id, { ...r.response, status: r.status }]));
 }
 
@@ -26,16 +28,31 @@ export async function storedAnswers(em: EntityManager, userId: string, opIds: st
  * request with the same opId wait here until this one commits; the one that finds a row already
  * there throws LedgerRace and runs again.
  */
-export async function saveAnswers(em: EntityManager, deviceId: string, userId: string, ops: Map<string, SyncOp>, results: PushResult[]): Promise<void> {
+export async function saveAnswers(
+  em: EntityManager,
+  deviceId: string,
+  userId: string,
+  ops: Map<string, SyncOp>,
+  results: PushResult[],
+): Promise<void> {
   if (!results.length) return;
   const stored = results.map(({ record: _r, conflict, ...rest }) =>
-    JSON.stringify(conflict ? { ...rest, conflict: { fields: conflict.fields, serverRev: conflict.serverRev } } : rest));
+    JSON.stringify(conflict ? { ...rest, conflict: { fields: conflict.fields, serverRev: conflict.serverRev } } : rest),
+  );
   const rows: { op_id: string }[] = await em.query(
     `INSERT INTO sync_op (op_id, device_id, user_id, entity, record_id, status, response)
      SELECT o, $1, $2, e, r, s, a::jsonb FROM unnest($3::uuid[], $4::text[], $5::uuid[], $6::text[], $7::text[]) AS t(o, e, r, s, a)
      ON CONFLICT (user_id, op_id) DO NOTHING RETURNING op_id`,
-    [deviceId, userId, results.map((r) => r.opId), results.map((r) => ops.get(r.opId)!.entity), results.map((r) => ops.get(r.opId)!.id),
-      results.map((r) => r.status), stored]);
+    [
+      deviceId,
+      userId,
+      results.map((r) => r.opId),
+      results.map((r) => ops.get(r.opId)!.entity),
+      results.map((r) => ops.get(r.opId)!.id),
+      results.map((r) => r.status),
+      stored,
+    ],
+  );
   if (rows.length < results.length) {
     const written = new Set(rows.map((r) => r.op_id));
     throw new LedgerRace(results.map((r) => r.opId).filter((id) => !written.has(id)));

@@ -7,7 +7,13 @@ import { ENTITY_DEFS } from '../records/entity-registry';
 import { knownSites, recordPull } from './device-service';
 import { wireRecords } from './pull-records';
 
-interface LogRow { seq: string; entity: EntityName; record_id: string; rev: string; deleted: boolean }
+interface LogRow {
+  seq: string;
+  entity: EntityName;
+  record_id: string;
+  rev: string;
+  deleted: boolean;
+}
 
 const resetAnswer = (message: string) => new AppError(410, message, undefined, { reset: true });
 
@@ -19,7 +25,9 @@ const resetAnswer = (message: string) => new AppError(410, message, undefined, {
 export async function pullChanges(ds: DataSource, user: SessionUser, deviceId: string, cursor: number, limit: number): Promise<PullAnswer> {
   const [{ min_seq }] = await ds.query(`SELECT min_seq FROM sync_horizon`);
   if (cursor > 0 && cursor < Number(min_seq)) {
-    throw resetAnswer('This device has been away longer than the server keeps deletions: download everything again (unsent work stays on the device).');
+    throw resetAnswer(
+      'This device has been away longer than the server keeps deletions: download everything again (unsent work stays on the device).',
+    );
   }
   const readable = user.siteIds;
   const known = await knownSites(ds.manager, deviceId, user.id);
@@ -35,7 +43,8 @@ export async function pullChanges(ds: DataSource, user: SessionUser, deviceId: s
   const rows: LogRow[] = await ds.query(
     `SELECT seq, entity, record_id, rev, deleted FROM change_log
       WHERE seq > $1 AND seq <= $5 AND site_id = ANY($2::uuid[]) AND entity = ANY($3::text[]) ORDER BY seq LIMIT $4`,
-    [cursor, readable, SYNC_ENTITIES, limit + 1, max]);
+    [cursor, readable, SYNC_ENTITIES, limit + 1, max],
+  );
   const more = rows.length > limit;
   const page = rows.slice(0, limit);
   const changes = [...removals, ...(await currentStates(ds, page))];
@@ -70,9 +79,11 @@ async function currentStates(ds: DataSource, page: LogRow[]): Promise<PullChange
   for (const [key, r] of last) {
     const rec = current.get(key);
     if (!rec || Number(rec['rev']) > Number(r.rev)) continue;
-    out.push(rec['deleted']
-      ? { seq: Number(r.seq), entity: r.entity, id: r.record_id, rev: Number(rec['rev']), deleted: true, record: null, reason: 'deleted' }
-      : { seq: Number(r.seq), entity: r.entity, id: r.record_id, rev: Number(rec['rev']), deleted: false, record: rec });
+    out.push(
+      rec['deleted']
+        ? { seq: Number(r.seq), entity: r.entity, id: r.record_id, rev: Number(rec['rev']), deleted: true, record: null, reason: 'deleted' }
+        : { seq: Number(r.seq), entity: r.entity, id: r.record_id, rev: Number(rec['rev']), deleted: false, record: rec },
+    );
   }
   return out.sort((a, b) => a.seq - b.seq);
 }

@@ -5,7 +5,14 @@ import { fieldErrorsFromZod } from '../core/errors';
 import { ChangeBuffer } from '../records/change-buffer';
 import { ENTITY_DEFS } from '../records/entity-registry';
 import { warmReferences } from '../records/record-references';
-import { batchableCreate, finishBatchedCreate, insertPrepared, prepareBatchedCreate, writeRecord, type PreparedCreate } from '../records/record-writer';
+import {
+  batchableCreate,
+  finishBatchedCreate,
+  insertPrepared,
+  prepareBatchedCreate,
+  writeRecord,
+  type PreparedCreate,
+} from '../records/record-writer';
 import type { WriteOutcome } from '../records/write-outcome';
 import { recordPush } from './device-service';
 import { LedgerRace, saveAnswers, storedAnswers } from './op-ledger';
@@ -22,7 +29,13 @@ export type Parsed = { ok: true; op: SyncOp } | { ok: false; result: PushResult 
  * their ledger rows written once, with their answers, at the end (one statement). A replay racing
  * in another request meets that row at commit and runs again, answered from the ledger then.
  */
-export async function pushOps(ds: DataSource, user: SessionUser, deviceId: string, outboxSize: number, ops: unknown[]): Promise<PushResult[]> {
+export async function pushOps(
+  ds: DataSource,
+  user: SessionUser,
+  deviceId: string,
+  outboxSize: number,
+  ops: unknown[],
+): Promise<PushResult[]> {
   const parsed = ops.map(parseOp);
   for (let attempt = 1; ; attempt++) {
     try {
@@ -40,23 +53,39 @@ export function parseOp(raw: unknown): Parsed {
   const r = syncOpSchema.safeParse(raw);
   if (r.success) return { ok: true, op: r.data };
   const opId = typeof (raw as { opId?: unknown })?.opId === 'string' ? (raw as { opId: string }).opId : '';
-  return { ok: false, result: { opId, status: 'rejected', error: { message: 'The operation is malformed', fields: fieldErrorsFromZod(r.error) } } };
+  return {
+    ok: false,
+    result: { opId, status: 'rejected', error: { message: 'The operation is malformed', fields: fieldErrorsFromZod(r.error) } },
+  };
 }
 
 /**
  * One push inside the caller's transaction. `batchCreates: false` applies every op alone (the
  * reference the batched creates are tested against: both must give the same answers and rows).
  */
-export async function applyBatch(em: EntityManager, user: SessionUser, deviceId: string, outboxSize: number, parsed: Parsed[],
-  opts: { batchCreates?: boolean } = {}): Promise<PushResult[]> {
+export async function applyBatch(
+  em: EntityManager,
+  user: SessionUser,
+  deviceId: string,
+  outboxSize: number,
+  parsed: Parsed[],
+  opts: { batchCreates?: boolean } = {},
+): Promise<PushResult[]> {
   const batching = opts.batchCreates ?? true;
   const valid = parsed.flatMap((p) => (p.ok ? [p.op] : []));
-  const earlier = await storedAnswers(em, user.id, valid.map((o) => o.opId));
+  const earlier = await storedAnswers(
+    em,
+    user.id,
+    valid.map((o) => o.opId),
+  );
   const byOpId = new Map<string, SyncOp>();
   for (const o of valid) if (!byOpId.has(o.opId)) byOpId.set(o.opId, o); // a repeat in the batch is answered as the first
   if (batching) {
     const creates = valid.filter((o) => batchableCreate(o) && !earlier.has(o.opId));
-    await warmReferences(em, creates.map((o) => ({ d: ENTITY_DEFS[o.entity], rec: o.fields })));
+    await warmReferences(
+      em,
+      creates.map((o) => ({ d: ENTITY_DEFS[o.entity], rec: o.fields })),
+    );
   }
   const changes = new ChangeBuffer();
   const results: PushResult[] = [];
@@ -96,7 +125,10 @@ export async function applyBatch(em: EntityManager, user: SessionUser, deviceId:
   for (const p of parsed) {
     const at = results.length;
     results.push(undefined as unknown as PushResult); // filled in op order by answer()
-    if (!p.ok) { results[at] = p.result; continue; }
+    if (!p.ok) {
+      results[at] = p.result;
+      continue;
+    }
     const { op } = p;
     if (inRun.has(op.opId) || inRun.has(op.id)) await flush();
     const first = thisBatch.get(op.opId) ?? earlier.get(op.opId);
@@ -123,12 +155,28 @@ export async function applyBatch(em: EntityManager, user: SessionUser, deviceId:
   return results;
 }
 
-interface Pending { op: SyncOp; at: number; prepared: PreparedCreate }
+interface Pending {
+  op: SyncOp;
+  at: number;
+  prepared: PreparedCreate;
+}
 
 /** The create's checks without its insert; null when a check refuses it (the single-op path answers then). */
-async function prepareOne(em: EntityManager, user: SessionUser, deviceId: string, op: SyncOp, changes: ChangeBuffer): Promise<PreparedCreate | null> {
+async function prepareOne(
+  em: EntityManager,
+  user: SessionUser,
+  deviceId: string,
+  op: SyncOp,
+  changes: ChangeBuffer,
+): Promise<PreparedCreate | null> {
   try {
-    const p = await prepareBatchedCreate(em, user, { entity: op.entity, id: op.id, baseRev: op.baseRev, op: op.op, fields: op.fields }, changes, { deviceId });
+    const p = await prepareBatchedCreate(
+      em,
+      user,
+      { entity: op.entity, id: op.id, baseRev: op.baseRev, op: op.op, fields: op.fields },
+      changes,
+      { deviceId },
+    );
     return 'status' in p ? null : p;
   } catch (err) {
     if ((err as { code?: string }).code === DEADLOCK) throw err;
@@ -142,9 +190,16 @@ async function prepareOne(em: EntityManager, user: SessionUser, deviceId: string
  * was taken, and every create of the run when anything fails, goes through the single-op path,
  * so the answers are the ones it would have given.
  */
-async function storeRun(em: EntityManager, user: SessionUser, deviceId: string, run: Pending[], changes: ChangeBuffer,
-  nextSavepoint: () => Promise<void>, answer: (at: number, opId: string, o: WriteOutcome) => void,
-  perOp: (op: SyncOp, at: number) => Promise<void>): Promise<void> {
+async function storeRun(
+  em: EntityManager,
+  user: SessionUser,
+  deviceId: string,
+  run: Pending[],
+  changes: ChangeBuffer,
+  nextSavepoint: () => Promise<void>,
+  answer: (at: number, opId: string, o: WriteOutcome) => void,
+  perOp: (op: SyncOp, at: number) => Promise<void>,
+): Promise<void> {
   await nextSavepoint();
   const mark = changes.mark();
   const outcomes: [Pending, WriteOutcome][] = [];
@@ -152,11 +207,18 @@ async function storeRun(em: EntityManager, user: SessionUser, deviceId: string, 
   try {
     const stored = new Set<string>();
     for (const entity of new Set(run.map((r) => r.op.entity))) {
-      const ids = await insertPrepared(em, entity, run.filter((r) => r.op.entity === entity).map((r) => r.prepared));
+      const ids = await insertPrepared(
+        em,
+        entity,
+        run.filter((r) => r.op.entity === entity).map((r) => r.prepared),
+      );
       ids.forEach((id) => stored.add(id));
     }
     for (const r of run) {
-      if (!stored.has(r.op.id)) { taken.push(r); continue; }
+      if (!stored.has(r.op.id)) {
+        taken.push(r);
+        continue;
+      }
       outcomes.push([r, await finishBatchedCreate(em, user, r.op.entity, r.prepared, changes, { deviceId })]);
     }
   } catch (err) {
@@ -172,7 +234,9 @@ async function storeRun(em: EntityManager, user: SessionUser, deviceId: string, 
 
 async function applyOne(em: EntityManager, user: SessionUser, deviceId: string, op: SyncOp, changes: ChangeBuffer): Promise<WriteOutcome> {
   try {
-    return await writeRecord(em, user, { entity: op.entity, id: op.id, baseRev: op.baseRev, op: op.op, fields: op.fields }, changes, { deviceId });
+    return await writeRecord(em, user, { entity: op.entity, id: op.id, baseRev: op.baseRev, op: op.op, fields: op.fields }, changes, {
+      deviceId,
+    });
   } catch (err) {
     if ((err as { code?: string }).code === DEADLOCK) throw err;
     console.error(`[sync] op ${op.opId} failed:`, err);

@@ -16,9 +16,7 @@ export async function hashPassword(password: string): Promise<string> {
   return bcrypt.hash(password, BCRYPT_ROUNDS);
 }
 
-export type CredentialCheck =
-  | { ok: true; user: UserEntity }
-  | { ok: false; reason: 'invalid' | 'disabled' };
+export type CredentialCheck = { ok: true; user: UserEntity } | { ok: false; reason: 'invalid' | 'disabled' };
 
 export async function checkCredentials(ds: DataSource, email: string, password: string): Promise<CredentialCheck> {
   const user = await ds.getRepository(UserEntity).findOneBy({ email: email.toLowerCase() });
@@ -34,7 +32,9 @@ export async function readableSiteIds(db: DataSource | EntityManager, userId: st
     ? await db.query(`SELECT id FROM site WHERE NOT deleted ORDER BY name`)
     : await db.query(
         `SELECT s.id FROM site s JOIN site_member m ON m.site_id = s.id
-          WHERE m.user_id = $1 AND NOT s.deleted ORDER BY s.name`, [userId]);
+          WHERE m.user_id = $1 AND NOT s.deleted ORDER BY s.name`,
+        [userId],
+      );
   return rows.map((r) => r.id);
 }
 
@@ -114,7 +114,11 @@ async function setMemberships(em: EntityManager, userId: string, siteIds: string
     if (missing.length) throw new AppError(400, 'Unknown site', [{ path: 'siteIds', message: `No site ${missing.join(', ')}` }]);
   }
   await em.delete(SiteMemberEntity, { userId });
-  if (unique.length) await em.insert(SiteMemberEntity, unique.map((siteId) => ({ siteId, userId })));
+  if (unique.length)
+    await em.insert(
+      SiteMemberEntity,
+      unique.map((siteId) => ({ siteId, userId })),
+    );
 }
 
 export async function listUsers(ds: DataSource) {

@@ -3,11 +3,21 @@ import { csvField, csvLine, neutralizeFormula } from './csv-cell';
 
 // The trigger characters and the apostrophe are OWASP's "CSV Injection" guidance (common practice).
 describe('CSV cells', () => {
-  it.each(['=HYPERLINK("http://x.example","y")', '+cmd|\' /C calc\'!A0', '-2+3+cmd|\' /C calc\'!A0', '@SUM(1+1)', '\t=1+2', '\r=1+2', '-', '+', '=', '-x'])(
-    'when text starts a formula (%j), then it is written as text behind an apostrophe', (text) => {
-      expect(neutralizeFormula(text)).toBe(`'${text}`);
-      expect(Papa.parse<string[]>(csvLine([text, 'next'])).data[0]).toEqual([`'${text}`, 'next']);
-    });
+  it.each([
+    '=HYPERLINK("http://x.example","y")',
+    "+cmd|' /C calc'!A0",
+    "-2+3+cmd|' /C calc'!A0",
+    '@SUM(1+1)',
+    '\t=1+2',
+    '\r=1+2',
+    '-',
+    '+',
+    '=',
+    '-x',
+  ])('when text starts a formula (%j), then it is written as text behind an apostrophe', (text) => {
+    expect(neutralizeFormula(text)).toBe(`'${text}`);
+    expect(Papa.parse<string[]>(csvLine([text, 'next'])).data[0]).toEqual([`'${text}`, 'next']);
+  });
 
   it.each(['-0.31', '+5', '-12', '-1e-3', '-.5', '12.50'])('when text is a plain number (%j), then it stays a number', (text) => {
     expect(neutralizeFormula(text)).toBe(text);

@@ -17,7 +17,8 @@ describe('Chamber air temperature: file, then visit, then site default', () => {
   it('a visit temperature gives the ideal-gas flux at that temperature and is flagged', () => {
     // flux ∝ 1/T (ideal gas law): 5 °C instead of 25 °C raises it by 298.15/278.15.
     const c = syntheticClosure({ points: 121, dtS: 1, settleS: 20, c0: 420, slope: 0.5, p3: 0 });
-    const at = (tempC: number, tempSource?: 'visit') => fitClosure({ ...c, pressureKpa: 100, tempC, volumeCm3: 4000, areaCm2: 314.16, settleS: 20, tempSource });
+    const at = (tempC: number, tempSource?: 'visit') =>
+      fitClosure({ ...c, pressureKpa: 100, tempC, volumeCm3: 4000, areaCm2: 314.16, settleS: 20, tempSource });
     const warm = at(25);
     const cold = at(5, 'visit');
     expect(cold.selected!.fluxUmolM2S / warm.selected!.fluxUmolM2S).toBeCloseTo(298.15 / 278.15, 9);

@@ -14,9 +14,7 @@ export const AIR_TEMP_SOURCES: readonly AirTempSource[] = ['series', 'visit', 's
  */
 export const DEFAULT_SITE_AIR_TEMP_C = 15;
 
-export type AirTempChoice =
-  | { ok: true; tempC: number | readonly (number | null)[]; source: AirTempSource }
-  | { ok: false; error: string };
+export type AirTempChoice = { ok: true; tempC: number | readonly (number | null)[]; source: AirTempSource } | { ok: false; error: string };
 
 const usable = (v: unknown): v is number => typeof v === 'number' && Number.isFinite(v);
 

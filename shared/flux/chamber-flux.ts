@@ -22,18 +22,9 @@ const KPA_CM3_PER_CM2_TO_SI = 1e3 * 1e-6 * 1e4; // = 10, see the derivation abov
  * Flux (µmol m⁻² s⁻¹) per unit of dry-mole-fraction slope (µmol mol⁻¹ s⁻¹).
  * Multiply any model's initial slope by this factor to obtain its flux.
  */
-export function fluxPerSlope(
-  pressureKpa: number,
-  tempC: number,
-  volumeCm3: number,
-  areaCm2: number,
-  waterMolFraction: number,
-): number {
+export function fluxPerSlope(pressureKpa: number, tempC: number, volumeCm3: number, areaCm2: number, waterMolFraction: number): number {
   const tempK = tempC + ZERO_CELSIUS_K;
-  return (
-    (KPA_CM3_PER_CM2_TO_SI * pressureKpa * volumeCm3 * (1 - waterMolFraction)) /
-    (GAS_CONSTANT_J_PER_MOL_K * tempK * areaCm2)
-  );
+  return (KPA_CM3_PER_CM2_TO_SI * pressureKpa * volumeCm3 * (1 - waterMolFraction)) / (GAS_CONSTANT_J_PER_MOL_K * tempK * areaCm2);
 }
 
 /** Flux density in µmol m⁻² s⁻¹ from a dry-mole-fraction slope in ppm s⁻¹. */

@@ -17,7 +17,11 @@ describe('profileForClosure: the chamber a closure was made with', () => {
     expect(profileForClosure(all, 'tall-1', '2026-06-10', null)).toEqual({ ok: true, profile: tall[0], source: 'closure' });
     expect(profileForClosure(all, 'short-1', '2026-06-10', null)).toEqual({ ok: true, profile: short[0], source: 'closure' });
     // The old rule (latest validFrom ≤ day of any name) gave the short chamber to both.
-    const v = chamberVolumeFor('2026-06-10', [profileForClosure(all, 'tall-1', '2026-06-10', null).ok ? tall[0] : short[0]], [{ takenOn: '2026-06-01', offsetsCm: [2, 2, 2] }]);
+    const v = chamberVolumeFor(
+      '2026-06-10',
+      [profileForClosure(all, 'tall-1', '2026-06-10', null).ok ? tall[0] : short[0]],
+      [{ takenOn: '2026-06-01', offsetsCm: [2, 2, 2] }],
+    );
     expect(v.ok && v.value.volumeCm3).toBeCloseTo(6000 + 150 + 314.16 * 2, 9);
   });
 
@@ -27,15 +31,26 @@ describe('profileForClosure: the chamber a closure was made with', () => {
   });
 
   it('when a closure names no profile, then the site default chamber, else the only chamber, else a clear refusal', () => {
-    expect(profileForClosure(all, null, '2026-06-10', 'short-1')).toMatchObject({ ok: true, source: 'site-default', profile: { id: 'short-1' } });
-    expect(profileForClosure(tall, null, '2026-06-10', null)).toMatchObject({ ok: true, source: 'only-chamber', profile: { id: 'tall-1' } });
+    expect(profileForClosure(all, null, '2026-06-10', 'short-1')).toMatchObject({
+      ok: true,
+      source: 'site-default',
+      profile: { id: 'short-1' },
+    });
+    expect(profileForClosure(tall, null, '2026-06-10', null)).toMatchObject({
+      ok: true,
+      source: 'only-chamber',
+      profile: { id: 'tall-1' },
+    });
     const refused = profileForClosure(all, null, '2026-06-10', null);
     expect(refused.ok).toBe(false);
     expect(!refused.ok && refused.error).toMatch(/names no chamber profile.*2 chambers/);
   });
 
   it('when the chamber has no version valid that day or the named profile is gone, then it is refused with the reason', () => {
-    expect(profileForClosure(all, 'short-1', '2026-04-01', null)).toEqual({ ok: false, error: 'no version of chamber profile “Short” valid on 2026-04-01' });
+    expect(profileForClosure(all, 'short-1', '2026-04-01', null)).toEqual({
+      ok: false,
+      error: 'no version of chamber profile “Short” valid on 2026-04-01',
+    });
     expect(profileForClosure(all, 'gone', '2026-06-10', null).ok).toBe(false);
   });
 });

@@ -19,9 +19,7 @@ export interface NamedProfileVersion extends ChamberProfileVersion {
 /** How the chamber was chosen: the closure's own profile, or (a closure that names none) the site's default or only chamber. */
 export type ProfileSource = 'closure' | 'site-default' | 'only-chamber';
 
-export type ProfileChoice<P extends NamedProfileVersion> =
-  | { ok: true; profile: P; source: ProfileSource }
-  | { ok: false; error: string };
+export type ProfileChoice<P extends NamedProfileVersion> = { ok: true; profile: P; source: ProfileSource } | { ok: false; error: string };
 
 /**
  * The profile version a closure's volume uses: the version valid on `day` of the chamber the
@@ -30,10 +28,14 @@ export type ProfileChoice<P extends NamedProfileVersion> =
  * guessing one would give a wrong volume without a warning.
  */
 export function profileForClosure<P extends NamedProfileVersion>(
-  profiles: readonly P[], closureProfileId: string | null | undefined, day: string, siteDefaultProfileId: string | null | undefined,
+  profiles: readonly P[],
+  closureProfileId: string | null | undefined,
+  day: string,
+  siteDefaultProfileId: string | null | undefined,
 ): ProfileChoice<P> {
   const own = closureProfileId ? profiles.find((p) => p.id === closureProfileId) : undefined;
-  if (closureProfileId && !own) return { ok: false, error: 'the closure’s chamber profile no longer exists: choose the profile on the Bench' };
+  if (closureProfileId && !own)
+    return { ok: false, error: 'the closure’s chamber profile no longer exists: choose the profile on the Bench' };
   let name: string;
   let source: ProfileSource;
   if (own) {
@@ -51,10 +53,16 @@ export function profileForClosure<P extends NamedProfileVersion>(
     } else if (names.length === 0) {
       return { ok: false, error: `no chamber profile valid on ${day.slice(0, 10)}` };
     } else {
-      return { ok: false, error: `the closure names no chamber profile and the site has ${names.length} chambers (${names.join(', ')}) and no default: choose the profile on the Bench` };
+      return {
+        ok: false,
+        error: `the closure names no chamber profile and the site has ${names.length} chambers (${names.join(', ')}) and no default: choose the profile on the Bench`,
+      };
     }
   }
-  const version = profileValidOn(profiles.filter((p) => p.name === name), day);
+  const version = profileValidOn(
+    profiles.filter((p) => p.name === name),
+    day,
+  );
   if (!version) return { ok: false, error: `no version of chamber profile “${name}” valid on ${day.slice(0, 10)}` };
   return { ok: true, profile: version, source };
 }
@@ -87,7 +95,11 @@ export interface AmbientChoice {
  * analyzer's calibration differs), the one nearest in time to the closure's start, within
  * AMBIENT_MAX_GAP_H hours. Null when the closure names no analyzer or there is no such reading.
  */
-export function ambientForClosure(checks: readonly AmbientCheck[], analyzerId: string | null | undefined, startedAt: string): AmbientChoice | null {
+export function ambientForClosure(
+  checks: readonly AmbientCheck[],
+  analyzerId: string | null | undefined,
+  startedAt: string,
+): AmbientChoice | null {
   if (!analyzerId) return null;
   const t = Date.parse(startedAt);
   if (!Number.isFinite(t)) return null;
@@ -96,7 +108,8 @@ export function ambientForClosure(checks: readonly AmbientCheck[], analyzerId: s
     if (c.analyzerId !== analyzerId || !Number.isFinite(c.co2Ppm)) continue;
     const gapMin = Math.abs(Date.parse(c.at) - t) / 60000;
     if (!(gapMin <= AMBIENT_MAX_GAP_H * 60)) continue;
-    if (!best || gapMin < best.gapMin || (gapMin === best.gapMin && c.at > best.at)) best = { ppm: c.co2Ppm, checkId: c.id, at: c.at, gapMin };
+    if (!best || gapMin < best.gapMin || (gapMin === best.gapMin && c.at > best.at))
+      best = { ppm: c.co2Ppm, checkId: c.id, at: c.at, gapMin };
   }
   return best;
 }

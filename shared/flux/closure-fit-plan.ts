@@ -78,7 +78,10 @@ const hasNumber = (c: Column): c is readonly (number | null)[] => !!c && c.some(
  * from the day's offset set → air temperature → pressure) used by the flux on the phone and by the
  * server, so both give the same flux and the same refusal for the same closure.
  */
-export function planClosureFit(closure: { startedAt: string; profileId: string | null; series: ClosureSeries }, ctx: FitContext): ClosureFitPlan {
+export function planClosureFit(
+  closure: { startedAt: string; profileId: string | null; series: ClosureSeries },
+  ctx: FitContext,
+): ClosureFitPlan {
   const { series } = closure;
   const day = localDay(closure.startedAt, ctx.timezone);
   // The closure's own chamber (chamber-system.ts), never the newest profile of any name.
@@ -88,17 +91,35 @@ export function planClosureFit(closure: { startedAt: string; profileId: string |
   const pressureIsDefault = !hasNumber(series.pressureKpa);
   const pressureKpa = pressureIsDefault ? (ctx.elevationM === null ? NaN : pressureFromElevationKpa(ctx.elevationM)) : series.pressureKpa!;
   return {
-    day, profile, volume, temp, pressureIsDefault,
+    day,
+    profile,
+    volume,
+    temp,
+    pressureIsDefault,
     fit(s) {
       if (!volume.ok) return invalidFit(volume.error);
       if (!temp.ok) return invalidFit(temp.error);
       return fitClosure({
-        tS: series.tS, co2Ppm: series.co2Ppm, co2IsDry: series.co2IsDry === true, h2oMmolMol: series.h2oMmolMol ?? null, pressureKpa,
-        tempC: temp.tempC, tempSource: temp.source,
-        volumeCm3: volume.value.volumeCm3, areaCm2: volume.value.areaCm2, footprintAreaCm2: volume.value.footprintAreaCm2,
-        settleS: s.settleS, windowEndS: s.windowEndS ?? null, excludedIndices: s.excludedIndices ?? [], model: s.model ?? 'auto',
-        slopeAt: ctx.slopeBasis, ambientPpm: ctx.ambientPpm, ambientMarginPpm: ctx.ambientMarginPpm, precisionPpm: ctx.precisionPpm ?? undefined,
-        pressureIsDefault, offsetAfter: volume.value.flags.includes('offset-after'),
+        tS: series.tS,
+        co2Ppm: series.co2Ppm,
+        co2IsDry: series.co2IsDry === true,
+        h2oMmolMol: series.h2oMmolMol ?? null,
+        pressureKpa,
+        tempC: temp.tempC,
+        tempSource: temp.source,
+        volumeCm3: volume.value.volumeCm3,
+        areaCm2: volume.value.areaCm2,
+        footprintAreaCm2: volume.value.footprintAreaCm2,
+        settleS: s.settleS,
+        windowEndS: s.windowEndS ?? null,
+        excludedIndices: s.excludedIndices ?? [],
+        model: s.model ?? 'auto',
+        slopeAt: ctx.slopeBasis,
+        ambientPpm: ctx.ambientPpm,
+        ambientMarginPpm: ctx.ambientMarginPpm,
+        precisionPpm: ctx.precisionPpm ?? undefined,
+        pressureIsDefault,
+        offsetAfter: volume.value.flags.includes('offset-after'),
       });
     },
   };

@@ -75,8 +75,14 @@ function fitModels(w: ClosureWindow, factor: number): Models {
     // dχ/dt = b1 + 2·b2·τ; closure is τ = −t0.
     const atClosure = quad.b1 - 2 * quad.b2 * t0S;
     quadratic = {
-      slopePpmS: quad.b1, fluxUmolM2S: quad.b1 * factor, ...fitStatistics(quad.rss, tss, n, 3),
-      slopeAtClosurePpmS: atClosure, fluxAtClosureUmolM2S: atClosure * factor, b0: quad.b0, b1: quad.b1, b2: quad.b2,
+      slopePpmS: quad.b1,
+      fluxUmolM2S: quad.b1 * factor,
+      ...fitStatistics(quad.rss, tss, n, 3),
+      slopeAtClosurePpmS: atClosure,
+      fluxAtClosureUmolM2S: atClosure * factor,
+      b0: quad.b0,
+      b1: quad.b1,
+      b2: quad.b2,
     };
   }
   if (n < Q.minPointsExponential) return { linear, exponential: null, quadratic, expFailure: 'fewer than 4 points', ...base };
@@ -112,7 +118,8 @@ function fitModels(w: ClosureWindow, factor: number): Models {
 
 /** Slope and flux of a fit on the requested basis (a line has the same slope everywhere). */
 function onBasis(fit: LinearFit | ExponentialFit | QuadraticFit, basis: SlopeBasis): { slopePpmS: number; fluxUmolM2S: number } {
-  if (basis === 'closure' && 'slopeAtClosurePpmS' in fit) return { slopePpmS: fit.slopeAtClosurePpmS, fluxUmolM2S: fit.fluxAtClosureUmolM2S };
+  if (basis === 'closure' && 'slopeAtClosurePpmS' in fit)
+    return { slopePpmS: fit.slopeAtClosurePpmS, fluxUmolM2S: fit.fluxAtClosureUmolM2S };
   return { slopePpmS: fit.slopePpmS, fluxUmolM2S: fit.fluxUmolM2S };
 }
 
@@ -128,11 +135,12 @@ interface Selection {
 function select(m: Models, requested: ClosureInput['model'], basis: SlopeBasis): Selection {
   const { linear, exponential, quadratic } = m;
   const pick = (model: SelectedModel['model'], fit: LinearFit | ExponentialFit | QuadraticFit, reason: string): SelectedModel => ({
-    model, basis, ...onBasis(fit, basis), reason,
+    model,
+    basis,
+    ...onBasis(fit, basis),
+    reason,
   });
-  const advantage = exponential && linear
-    ? exponentialAdvantage(m.rssLinear, m.rssExponential, effectiveSampleSize(linear.n, m.rho))
-    : NaN;
+  const advantage = exponential && linear ? exponentialAdvantage(m.rssLinear, m.rssExponential, effectiveSampleSize(linear.n, m.rho)) : NaN;
   const significant = advantage > SELECTION_MARGIN;
   let rejected: string | null = null;
   let expSuspect = false;
@@ -149,16 +157,35 @@ function select(m: Models, requested: ClosureInput['model'], basis: SlopeBasis):
   }
   const expChosen = rejected === null;
   if (requested === 'linear') {
-    return { selected: linear && pick('linear', linear, 'linear model requested'), rejected: rejected ?? 'linear model requested', expSuspect, expChosen };
+    return {
+      selected: linear && pick('linear', linear, 'linear model requested'),
+      rejected: rejected ?? 'linear model requested',
+      expSuspect,
+      expChosen,
+    };
   }
   if (requested === 'quadratic' && quadratic) {
-    return { selected: pick('quadratic', quadratic, 'quadratic model requested'), rejected: rejected ?? 'quadratic model requested', expSuspect, expChosen };
+    return {
+      selected: pick('quadratic', quadratic, 'quadratic model requested'),
+      rejected: rejected ?? 'quadratic model requested',
+      expSuspect,
+      expChosen,
+    };
   }
   if (requested === 'exponential' && exponential) {
     return { selected: pick('exponential', exponential, 'exponential model requested'), rejected: null, expSuspect, expChosen: true };
   }
   if (expChosen && exponential) {
-    return { selected: pick('exponential', exponential, `exponential: saturating (p3 < 0) and AICc lower than linear by ${advantage.toFixed(2)} (margin ${SELECTION_MARGIN})`), rejected: null, expSuspect, expChosen };
+    return {
+      selected: pick(
+        'exponential',
+        exponential,
+        `exponential: saturating (p3 < 0) and AICc lower than linear by ${advantage.toFixed(2)} (margin ${SELECTION_MARGIN})`,
+      ),
+      rejected: null,
+      expSuspect,
+      expChosen,
+    };
   }
   const prefix = requested && requested !== 'auto' ? `${requested} model unavailable; ` : '';
   return { selected: linear && pick('linear', linear, `${prefix}linear: exponential ${rejected}`), rejected, expSuspect, expChosen: false };

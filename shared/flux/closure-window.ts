@@ -50,7 +50,11 @@ export function checkInput(input: ClosureInput): string | null {
   if (!Array.isArray(tS) || !Array.isArray(co2Ppm)) return 'time and CO2 series are required';
   const len = tS.length;
   if (co2Ppm.length !== len) return `unequal array lengths: t ${len}, co2 ${co2Ppm.length}`;
-  for (const [name, v] of [['h2o', input.h2oMmolMol], ['pressure', input.pressureKpa], ['temperature', input.tempC]] as const) {
+  for (const [name, v] of [
+    ['h2o', input.h2oMmolMol],
+    ['pressure', input.pressureKpa],
+    ['temperature', input.tempC],
+  ] as const) {
     if (!sameLength(v, len)) return `unequal array lengths: t ${len}, ${name} ${(v as unknown[]).length}`;
   }
   if (!isNum(input.settleS) || input.settleS < 0) return 'missing settle time';
@@ -67,7 +71,14 @@ export function checkInput(input: ClosureInput): string | null {
 /** The series fields that decide which samples a fit uses. */
 export type WindowSeries = Pick<ClosureInput, 'tS' | 'co2Ppm' | 'h2oMmolMol' | 'co2IsDry' | 'settleS' | 'windowEndS' | 'excludedIndices'>;
 
-interface Collected { n: number; gaps: boolean; sorted: boolean; useWater: boolean; h2oArray: readonly (number | null)[] | null; h2oConst: number }
+interface Collected {
+  n: number;
+  gaps: boolean;
+  sorted: boolean;
+  useWater: boolean;
+  h2oArray: readonly (number | null)[] | null;
+  h2oConst: number;
+}
 
 /**
  * The one rule for which samples a fit uses: finite t within [t0, window end], not left out by

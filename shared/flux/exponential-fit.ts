@@ -51,11 +51,18 @@ let sBuf = new Float64Array(256);
 let yBuf = new Float64Array(256);
 
 // Result registers of the last profile evaluation (kept as plain variables for speed).
-let phi = 0, phi1 = 0, phi2 = 0, sff = 0, sfy = 0, fSum = 0;
+let phi = 0,
+  phi1 = 0,
+  phi2 = 0,
+  sff = 0,
+  sfy = 0,
+  fSum = 0;
 // Equally spaced samples (the usual 1 Hz record) let exp(u·s_i) = exp(u·s0)·rⁱ be computed by
 // multiplication: the exponential is most of the cost of a pass, and the recurrence's rounding
 // (≈ n·ε relative) is far below what a slope needs.
-let uniform = false, s0 = 0, ds = 0;
+let uniform = false,
+  s0 = 0,
+  ds = 0;
 
 function detectUniform(n: number): void {
   s0 = sBuf[0];
@@ -68,7 +75,16 @@ function detectUniform(n: number): void {
 
 /** Evaluates φ(u), φ'(u), φ''(u) over the scaled times in sBuf and centred values in yBuf. */
 function evaluate(u: number, n: number): void {
-  let F = 0, G = 0, H = 0, FF = 0, FG = 0, GG = 0, FH = 0, FY = 0, GY = 0, HY = 0;
+  let F = 0,
+    G = 0,
+    H = 0,
+    FF = 0,
+    FG = 0,
+    GG = 0,
+    FH = 0,
+    FY = 0,
+    GY = 0,
+    HY = 0;
   const ratio = uniform ? Math.exp(u * ds) : 0;
   let eNext = uniform ? Math.exp(u * s0) : 0;
   for (let i = 0; i < n; i++) {
@@ -89,9 +105,16 @@ function evaluate(u: number, n: number): void {
       g = (s * e - f) / u;
       h = (s * s * e - 2 * g) / u;
     }
-    F += f; G += g; H += h;
-    FF += f * f; FG += f * g; GG += g * g; FH += f * h;
-    FY += f * yc; GY += g * yc; HY += h * yc;
+    F += f;
+    G += g;
+    H += h;
+    FF += f * f;
+    FG += f * g;
+    GG += g * g;
+    FH += f * h;
+    FY += f * yc;
+    GY += g * yc;
+    HY += h * yc;
   }
   const D = FF - (F * F) / n;
   const D1 = 2 * (FG - (F * G) / n);
@@ -155,13 +178,7 @@ function newton(u0: number, n: number, counter: { iterations: number }): number 
  * Fits the exponential model to (τ, χ) with τ ≥ 0, τmax > 0.
  * `uStart` is a first guess of p3·τmax (e.g. from the quadratic fit: 2·b2·τmax/b1).
  */
-export function fitExponentialRaw(
-  tau: ArrayLike<number>,
-  y: ArrayLike<number>,
-  n: number,
-  tauMax: number,
-  uStart = 0,
-): ExponentialOutcome {
+export function fitExponentialRaw(tau: ArrayLike<number>, y: ArrayLike<number>, n: number, tauMax: number, uStart = 0): ExponentialOutcome {
   if (n < 4) return { ok: false, reason: 'fewer than 4 points' };
   if (!(tauMax > 0)) return { ok: false, reason: 'no time span' };
   if (sBuf.length < n) {
@@ -211,9 +228,10 @@ export function fitExponentialRaw(
     const x = u * s;
     const eRec = eNext;
     eNext *= ratio;
-    const f = x < SERIES_LIMIT && x > -SERIES_LIMIT
-      ? s * (1 + x * (1 / 2 + x * (1 / 6 + x * (1 / 24 + x * (1 / 120 + x * (1 / 720 + x * (1 / 5040 + x / 40320)))))))
-      : ((uniform ? eRec : Math.exp(x)) - 1) / u;
+    const f =
+      x < SERIES_LIMIT && x > -SERIES_LIMIT
+        ? s * (1 + x * (1 / 2 + x * (1 / 6 + x * (1 / 24 + x * (1 / 120 + x * (1 / 720 + x * (1 / 5040 + x / 40320)))))))
+        : ((uniform ? eRec : Math.exp(x)) - 1) / u;
     const r = y[i] - a - bScaled * f;
     rss += r * r;
   }

@@ -28,9 +28,13 @@ describe('Flag words and advice (one table for the phone and the Bench)', () => 
     const spiky = syntheticClosure({ points: 121, dtS: 1, settleS: 20, c0: 420, slope: 0.5, p3: 0 });
     spiky.co2Ppm[60] += 80;
     const inputs: ClosureInput[] = [
-      base({}), base({ ...short }), base({ ...curved, ambientPpm: 420, footprintAreaCm2: 330 }), base({ ...spiky }),
+      base({}),
+      base({ ...short }),
+      base({ ...curved, ambientPpm: 420, footprintAreaCm2: 330 }),
+      base({ ...spiky }),
       base({ co2Ppm: base({}).co2Ppm.map(() => 420), pressureIsDefault: true, offsetAfter: true, tempSource: 'visit' }),
-      base({ tempSource: 'site-default' }), base({ tS: [0, 1] }),
+      base({ tempSource: 'site-default' }),
+      base({ tS: [0, 1] }),
     ];
     for (const i of inputs) for (const f of fitClosure(i).flags) seen.add(f);
     expect(seen.size).toBeGreaterThan(8);

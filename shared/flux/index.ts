@@ -2,7 +2,15 @@
 export const engineVersion = '1.1.0';
 
 export { fitClosure, invalidFit } from './closure-fit';
-export { planClosureFit, withCollarArea, type ClosureFitPlan, type ClosureSeries, type FitContext, type FitSettings, type StoredProfileVersion } from './closure-fit-plan';
+export {
+  planClosureFit,
+  withCollarArea,
+  type ClosureFitPlan,
+  type ClosureSeries,
+  type FitContext,
+  type FitSettings,
+  type StoredProfileVersion,
+} from './closure-fit-plan';
 export { exclusionProblems, usablePointCount, type ExclusionProblem } from './point-exclusion';
 export { fitLinearRaw, type LinearRaw } from './linear-fit';
 export { DEFAULT_SLOPE_BASIS, SLOPE_BASES, type SlopeBasis } from './closure-input';
@@ -21,10 +29,22 @@ export { aiccOf, SELECTION_MARGIN } from './model-selection';
 export { QC_FLAGS, QC_THRESHOLDS, type QcFlag } from './qc-flags';
 export { FLAG_ADVICE, flagAdvice, type FlagAction, type FlagAdvice } from './flag-advice';
 export {
-  AMBIENT_MAX_GAP_H, ambientForClosure, profileForClosure,
-  type AmbientCheck, type AmbientChoice, type NamedProfileVersion, type ProfileChoice, type ProfileSource,
+  AMBIENT_MAX_GAP_H,
+  ambientForClosure,
+  profileForClosure,
+  type AmbientCheck,
+  type AmbientChoice,
+  type NamedProfileVersion,
+  type ProfileChoice,
+  type ProfileSource,
 } from './chamber-system';
-export { AIR_TEMP_SOURCES, DEFAULT_SITE_AIR_TEMP_C, chamberAirTemperature, type AirTempChoice, type AirTempSource } from './chamber-air-temperature';
+export {
+  AIR_TEMP_SOURCES,
+  DEFAULT_SITE_AIR_TEMP_C,
+  chamberAirTemperature,
+  type AirTempChoice,
+  type AirTempSource,
+} from './chamber-air-temperature';
 export { chamberFluxUmolM2S, fluxPerSlope } from './chamber-flux';
 export { dryMoleFractionPpm, waterMoleFraction } from './dry-mole-fraction';
 export { minimumDetectableSlopePpmS } from './detection-limit';

@@ -34,7 +34,10 @@ function closures(p3: number, phi: number, seed: number): ClosureInput[] {
   });
 }
 
-interface Outcome { expShare: number; meanBiasPct: number }
+interface Outcome {
+  expShare: number;
+  meanBiasPct: number;
+}
 
 function simulate(p3: number, phi: number, seed: number): Outcome {
   let exp = 0;
@@ -50,7 +53,11 @@ function simulate(p3: number, phi: number, seed: number): Outcome {
 const measured: Record<string, Outcome> = {};
 afterAll(() => {
   // The numbers quoted in docs/flux-engine.md.
-  console.log(Object.entries(measured).map(([k, v]) => `${k}: exponential ${(100 * v.expShare).toFixed(1)} %, mean bias ${v.meanBiasPct.toFixed(2)} %`).join('\n'));
+  console.log(
+    Object.entries(measured)
+      .map(([k, v]) => `${k}: exponential ${(100 * v.expShare).toFixed(1)} %, mean bias ${v.meanBiasPct.toFixed(2)} %`)
+      .join('\n'),
+  );
 });
 
 describe('model choice that does not reward noise (simulation, seeded)', () => {
@@ -77,7 +84,9 @@ describe('model choice that does not reward noise (simulation, seeded)', () => {
 
   it('does not raise exp-rejected or exp-linear-ratio-high on healthy closures (at most 1 of 300)', () => {
     const healthy = [...closures(0, 0, 21).slice(0, 100), ...closures(0, 0.8, 22).slice(0, 100), ...closures(-0.01, 0, 23).slice(0, 100)];
-    const flagged = healthy.map((c) => fitClosure(c).flags).filter((f) => f.includes('exp-rejected') || f.includes('exp-linear-ratio-high'));
+    const flagged = healthy
+      .map((c) => fitClosure(c).flags)
+      .filter((f) => f.includes('exp-rejected') || f.includes('exp-linear-ratio-high'));
     expect(flagged.length).toBeLessThanOrEqual(1);
     // A noise-free p3 = −0.01 closure has an exponential/linear slope ratio of 1.8: ordinary curvature.
     const clean = { ...closures(-0.01, 0, 24)[0] };
@@ -104,7 +113,7 @@ describe('AICc and the margin', () => {
 
   it('flags a clearly convex rise (p3 > 0, AICc advantage above 10) as exp-rejected', () => {
     const c = closures(0, 0, 31)[0];
-    c.co2Ppm = c.tS.map((x, i) => 420 + (Math.expm1(0.01 * (x as number)) / 0.01) + ((c.co2Ppm[i] as number) - 420 - (x as number)));
+    c.co2Ppm = c.tS.map((x, i) => 420 + Math.expm1(0.01 * (x as number)) / 0.01 + ((c.co2Ppm[i] as number) - 420 - (x as number)));
     const r = fitClosure(c);
     expect(r.exponential!.p3).toBeGreaterThan(0);
     expect(r.selected!.model).toBe('linear');

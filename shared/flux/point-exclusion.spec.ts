@@ -11,13 +11,25 @@ import { QC_THRESHOLDS } from './qc-flags';
  * written by tools/flux-reference/make-exclusion-fixtures.py (shared/flux/fixtures/numpy-exclusions.json).
  */
 interface Case {
-  t_s: number[]; co2_ppm: number[]; settle_s: number; excluded: number[]; n_used: number;
+  t_s: number[];
+  co2_ppm: number[];
+  settle_s: number;
+  excluded: number[];
+  n_used: number;
   linear: { slope: number; intercept: number; rss: number; r2: number };
   quadratic: { b0: number; b1: number; b2: number; rss: number; r2: number };
 }
-const cases = (JSON.parse(readFileSync(join(__dirname, 'fixtures', 'numpy-exclusions.json'), 'utf8')).closures) as Case[];
+const cases = JSON.parse(readFileSync(join(__dirname, 'fixtures', 'numpy-exclusions.json'), 'utf8')).closures as Case[];
 const input = (c: Case, over: Partial<ClosureInput> = {}): ClosureInput => ({
-  tS: c.t_s, co2Ppm: c.co2_ppm, h2oMmolMol: null, pressureKpa: 100, tempC: 20, volumeCm3: 4000, areaCm2: 300, settleS: c.settle_s, ...over,
+  tS: c.t_s,
+  co2Ppm: c.co2_ppm,
+  h2oMmolMol: null,
+  pressureKpa: 100,
+  tempC: 20,
+  volumeCm3: 4000,
+  areaCm2: 300,
+  settleS: c.settle_s,
+  ...over,
 });
 const rel = (a: number, b: number) => Math.abs(a - b) / Math.max(1e-12, Math.abs(b));
 
@@ -38,11 +50,14 @@ describe('a fit with points left out (fixture numpy-exclusions.json)', () => {
     expect(Math.abs(r.quadratic!.r2 - c.quadratic.r2)).toBeLessThan(1e-9);
   });
 
-  it.each(cases.map((c, i) => [i, c] as const))('closure %i: the whole result equals the fit of a series without those samples', (_i, c) => {
-    const drop = new Set(c.excluded);
-    const kept = { ...c, t_s: c.t_s.filter((_t, i) => !drop.has(i)), co2_ppm: c.co2_ppm.filter((_v, i) => !drop.has(i)) };
-    expect(fitClosure(input(c, { excludedIndices: c.excluded }))).toEqual(fitClosure(input(kept)));
-  });
+  it.each(cases.map((c, i) => [i, c] as const))(
+    'closure %i: the whole result equals the fit of a series without those samples',
+    (_i, c) => {
+      const drop = new Set(c.excluded);
+      const kept = { ...c, t_s: c.t_s.filter((_t, i) => !drop.has(i)), co2_ppm: c.co2_ppm.filter((_v, i) => !drop.has(i)) };
+      expect(fitClosure(input(c, { excludedIndices: c.excluded }))).toEqual(fitClosure(input(kept)));
+    },
+  );
 
   it('differs from the fit with every point, and the spike flag goes once the spike is left out', () => {
     const c = cases[0];

@@ -22,7 +22,12 @@ type Series = Pick<WindowSeries, 'tS' | 'co2Ppm' | 'h2oMmolMol' | 'co2IsDry'>;
  * an index that names no sample, an index named twice, or so few usable points left in the fit
  * window that no line can be fitted (fewer than QC_THRESHOLDS.minPointsLinear). Empty: fine.
  */
-export function exclusionProblems(series: Series, settleS: number, windowEndS: number | null, indices: readonly number[]): ExclusionProblem[] {
+export function exclusionProblems(
+  series: Series,
+  settleS: number,
+  windowEndS: number | null,
+  indices: readonly number[],
+): ExclusionProblem[] {
   if (!indices.length) return [];
   const len = series.tS.length;
   const problems: ExclusionProblem[] = [];
@@ -41,7 +46,10 @@ export function exclusionProblems(series: Series, settleS: number, windowEndS: n
   const after = usablePointCount({ ...series, settleS, windowEndS, excludedIndices: indices });
   // A closure that never had enough points is not made worse by leaving out points outside its window.
   if (after < min && after < before) {
-    problems.push({ index: null, message: `Leaving out these points keeps ${after} usable points in the fit window; a fit needs at least ${min}` });
+    problems.push({
+      index: null,
+      message: `Leaving out these points keeps ${after} usable points in the fit window; a fit needs at least ${min}`,
+    });
   }
   return problems;
 }

@@ -8,10 +8,10 @@ export const QC_FLAGS = {
     'The closure cannot be fitted: unequal array lengths, missing settle time, pressure, temperature, volume or area, or no usable points. See `error`.',
   'too-few-points': 'Fewer than 4 usable samples after the settle time: no exponential fit (a line needs 3).',
   'short-window': 'Less than 60 s of data after the settle time (common practice: too short for a stable slope).',
-  flat:
-    'The CO2 change over the window is below the analyzer precision, i.e. |slope| < precision / window length: the flux is below the minimum detectable flux (closed form of Christiansen et al. 2015, Agric. For. Meteorol. 211–212:48, after Parkin et al. 2012, J. Environ. Qual. 41:705–715).',
+  flat: 'The CO2 change over the window is below the analyzer precision, i.e. |slope| < precision / window length: the flux is below the minimum detectable flux (closed form of Christiansen et al. 2015, Agric. For. Meteorol. 211–212:48, after Parkin et al. 2012, J. Environ. Qual. 41:705–715).',
   'negative-flux': 'The selected flux is negative (uptake): review it; the value is kept as is.',
-  spike: 'At least one sample lies off the line through its two neighbours by more than max(8 robust SDs of that deviation ≈ 9.8 σ of white analyzer noise, 5 × precision).',
+  spike:
+    'At least one sample lies off the line through its two neighbours by more than max(8 robust SDs of that deviation ≈ 9.8 σ of white analyzer noise, 5 × precision).',
   'gaps-dropped': 'Samples after the settle time with missing or non-numeric values were dropped.',
   'no-water-data': 'No water-vapour data: CO2 was fitted as reported (no dilution correction) and χw = 0 in the flux.',
   'exp-rejected':
@@ -25,7 +25,8 @@ export const QC_FLAGS = {
   'low-r2': 'R² of the selected model below 0.9 (common-practice threshold). Information only: near-zero fluxes have low R² and are valid.',
   'offset-after': 'No offset set on or before the closure day: the earliest later offset set was used for the volume.',
   'default-pressure': 'Pressure was not measured: a default from site elevation (US Standard Atmosphere 1976) was used.',
-  'temp-from-visit': 'The analyzer file has no chamber air temperature: the air temperature noted at the visit was used (chamber-air-temperature.ts).',
+  'temp-from-visit':
+    'The analyzer file has no chamber air temperature: the air temperature noted at the visit was used (chamber-air-temperature.ts).',
   'temp-site-default':
     'Neither the analyzer file nor the visit has an air temperature: the site’s default (15 °C unless the site states another) was used; 10 °C off moves the flux by about 3.5 %.',
 } as const;

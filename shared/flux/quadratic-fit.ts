@@ -10,17 +10,18 @@ export interface QuadraticRaw {
   rss: number;
 }
 
-export function fitQuadraticRaw(
-  tau: ArrayLike<number>,
-  y: ArrayLike<number>,
-  n: number,
-  tauMax: number,
-): QuadraticRaw | null {
+export function fitQuadraticRaw(tau: ArrayLike<number>, y: ArrayLike<number>, n: number, tauMax: number): QuadraticRaw | null {
   if (n < 4 || !(tauMax > 0)) return null;
   let my = 0;
   for (let i = 0; i < n; i++) my += y[i];
   my /= n;
-  let s1 = 0, s2 = 0, s3 = 0, s4 = 0, ys0 = 0, ys1 = 0, ys2 = 0;
+  let s1 = 0,
+    s2 = 0,
+    s3 = 0,
+    s4 = 0,
+    ys0 = 0,
+    ys1 = 0,
+    ys2 = 0;
   for (let i = 0; i < n; i++) {
     const s = tau[i] / tauMax;
     const ss = s * s;

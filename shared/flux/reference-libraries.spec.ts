@@ -14,14 +14,32 @@ import { fitQuadraticRaw } from './quadratic-fit';
  */
 const fixture = (name: string) => JSON.parse(readFileSync(join(__dirname, 'fixtures', name), 'utf8')).closures;
 
-interface Case { t_s: number[]; co2_ppm: number[]; settle_s: number }
+interface Case {
+  t_s: number[];
+  co2_ppm: number[];
+  settle_s: number;
+}
 const input = (c: Case): ClosureInput => ({
-  tS: c.t_s, co2Ppm: c.co2_ppm, h2oMmolMol: null, pressureKpa: 100, tempC: 20, volumeCm3: 4000, areaCm2: 300, settleS: c.settle_s,
+  tS: c.t_s,
+  co2Ppm: c.co2_ppm,
+  h2oMmolMol: null,
+  pressureKpa: 100,
+  tempC: 20,
+  volumeCm3: 4000,
+  areaCm2: 300,
+  settleS: c.settle_s,
 });
 const rel = (a: number, b: number) => Math.abs(a - b) / Math.max(1e-12, Math.abs(b));
 
 describe('quadratic fit against numpy.polyfit (fixture numpy-quadratic.json)', () => {
-  const cases = fixture('numpy-quadratic.json') as (Case & { b0: number; b1: number; b2: number; rss: number; slope_at_settle_end: number; slope_at_closure: number })[];
+  const cases = fixture('numpy-quadratic.json') as (Case & {
+    b0: number;
+    b1: number;
+    b2: number;
+    rss: number;
+    slope_at_settle_end: number;
+    slope_at_closure: number;
+  })[];
 
   it.each(cases.map((c, i) => [i, c] as const))('closure %i: coefficients, RSS and both slopes agree', (_i, c) => {
     const tau = c.t_s.map((t) => t - c.settle_s);
@@ -38,7 +56,13 @@ describe('quadratic fit against numpy.polyfit (fixture numpy-quadratic.json)', (
 });
 
 describe('AICc and the model choice against statsmodels (fixture statsmodels-aicc.json)', () => {
-  const cases = fixture('statsmodels-aicc.json') as (Case & { aicc_linear: number; aicc_exponential: number; near_margin: boolean; choice: string; p3_true: number })[];
+  const cases = fixture('statsmodels-aicc.json') as (Case & {
+    aicc_linear: number;
+    aicc_exponential: number;
+    near_margin: boolean;
+    choice: string;
+    p3_true: number;
+  })[];
 
   it('has straight and curved closures of 6 to 130 samples, and both choices', () => {
     expect(cases.length).toBeGreaterThanOrEqual(60);
@@ -47,7 +71,8 @@ describe('AICc and the model choice against statsmodels (fixture statsmodels-aic
   });
 
   it('gives the line’s AICc of statsmodels OLS on every closure', () => {
-    for (const c of cases) expect(Math.abs(fitClosure(input(c)).linear!.aicc - c.aicc_linear)).toBeLessThan(1e-8 * Math.abs(c.aicc_linear) + 1e-9);
+    for (const c of cases)
+      expect(Math.abs(fitClosure(input(c)).linear!.aicc - c.aicc_linear)).toBeLessThan(1e-8 * Math.abs(c.aicc_linear) + 1e-9);
   });
 
   it('gives the exponential’s AICc (scipy fit, statsmodels aicc) wherever both fits exist', () => {

@@ -17,16 +17,27 @@ export interface ScaledExponentialFit {
 }
 
 function profile(z: Float64Array, y: Float64Array, theta: number) {
-  let A = 0, A1 = 0, A2 = 0, B = 0, B1 = 0, B2 = 0;
+  let A = 0,
+    A1 = 0,
+    A2 = 0,
+    B = 0,
+    B1 = 0,
+    B2 = 0;
   for (let i = 0; i < z.length; i++) {
     const zi = z[i];
     const e = Math.exp(theta * zi);
     const ey = e * y[i];
     const ee = e * e;
-    A += ey; A1 += zi * ey; A2 += zi * zi * ey;
-    B += ee; B1 += 2 * zi * ee; B2 += 4 * zi * zi * ee;
+    A += ey;
+    A1 += zi * ey;
+    A2 += zi * zi * ey;
+    B += ee;
+    B1 += 2 * zi * ee;
+    B2 += 4 * zi * zi * ee;
   }
-  const N = A * A, N1 = 2 * A * A1, N2 = 2 * (A1 * A1 + A * A2);
+  const N = A * A,
+    N1 = 2 * A * A1,
+    N2 = 2 * (A1 * A1 + A * A2);
   const num1 = N1 * B - N * B1;
   return {
     phi: N / B,
@@ -81,7 +92,8 @@ export function fitScaledExponential(zIn: readonly number[], yIn: readonly numbe
   if (pos.length >= 3) {
     const mz = pos.reduce((s, i) => s + z[i], 0) / pos.length;
     const ml = pos.reduce((s, i) => s + Math.log(y[i]), 0) / pos.length;
-    let sxy = 0, sxx = 0;
+    let sxy = 0,
+      sxx = 0;
     for (const i of pos) {
       sxy += (z[i] - mz) * (Math.log(y[i]) - ml);
       sxx += (z[i] - mz) ** 2;
@@ -103,7 +115,10 @@ export function fitScaledExponential(zIn: readonly number[], yIn: readonly numbe
   }
   const c = profile(z, y, th).c;
   // Covariance in the original θ: J = [E, c·z·E] with z unscaled.
-  let rss = 0, jcc = 0, jct = 0, jtt = 0;
+  let rss = 0,
+    jcc = 0,
+    jct = 0,
+    jtt = 0;
   for (let i = 0; i < n; i++) {
     const zi = zIn[i];
     const e = Math.exp(th * z[i]);

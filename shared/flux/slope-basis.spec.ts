@@ -9,7 +9,13 @@ import type { ClosureInput } from './closure-input';
  */
 const t = Array.from({ length: 151 }, (_, i) => i);
 const base: Omit<ClosureInput, 'co2Ppm'> = {
-  tS: t, h2oMmolMol: 0, pressureKpa: 100, tempC: 20, volumeCm3: 4000, areaCm2: 300, settleS: 20,
+  tS: t,
+  h2oMmolMol: 0,
+  pressureKpa: 100,
+  tempC: 20,
+  volumeCm3: 4000,
+  areaCm2: 300,
+  settleS: 20,
 };
 
 describe('slope basis: chamber closure (default) or end of the settle time', () => {

@@ -26,10 +26,7 @@ export function geopotentialHeightM(geometricM: number): number {
  * Pressure in kPa at an elevation in metres. Map and GPS elevations are geometric, which is
  * the default; pass `geopotential: true` to use the value as H directly. Valid to 11 km.
  */
-export function pressureFromElevationKpa(
-  elevationM: number,
-  options: { geopotential?: boolean } = {},
-): number {
+export function pressureFromElevationKpa(elevationM: number, options: { geopotential?: boolean } = {}): number {
   if (!Number.isFinite(elevationM)) return NaN;
   const h = options.geopotential ? elevationM : geopotentialHeightM(elevationM);
   if (h > TROPOPAUSE_M || h < -5000) return NaN;

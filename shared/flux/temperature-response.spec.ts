@@ -36,11 +36,17 @@ describe('Student t quantiles', () => {
 describe('fitQ10 and fitLloydTaylor (non-linear least squares on the fluxes)', () => {
   it('recover the generating parameters from noise-free data', () => {
     const t = [2, 5, 8, 11, 14, 17, 20, 23];
-    const q = fitQ10(t, t.map((x) => q10Model(x, 1.7, 2.4))) as Q10Fit;
+    const q = fitQ10(
+      t,
+      t.map((x) => q10Model(x, 1.7, 2.4)),
+    ) as Q10Fit;
     expect(q.ok).toBe(true);
     expect(q.q10.value).toBeCloseTo(2.4, 8);
     expect(q.r10.value).toBeCloseTo(1.7, 8);
-    const lt = fitLloydTaylor(t, t.map((x) => lloydTaylorModel(x, 0.9, 308.56))) as LloydTaylorFit;
+    const lt = fitLloydTaylor(
+      t,
+      t.map((x) => lloydTaylorModel(x, 0.9, 308.56)),
+    ) as LloydTaylorFit;
     expect(lt.e0K.value).toBeCloseTo(308.56, 5);
     expect(lt.r10AtPublishedE0).toBeCloseTo(0.9, 10);
   });
@@ -82,10 +88,20 @@ describe('fitQ10 and fitLloydTaylor (non-linear least squares on the fluxes)', (
 
   it('warns below 20 visit means, below a 10 °C span and when Q10 is outside 1–5 (common practice)', () => {
     const t = [10, 11.5, 13, 14.5, 16, 17];
-    const q = fitQ10(t, t.map((x) => q10Model(x, 1, 7))) as Q10Fit;
-    expect(q.warnings).toEqual(['only 6 visit means (fewer than 20)', 'temperature span 7.0 °C is below 10 °C', 'Q10 = 7.00 is outside 1–5']);
+    const q = fitQ10(
+      t,
+      t.map((x) => q10Model(x, 1, 7)),
+    ) as Q10Fit;
+    expect(q.warnings).toEqual([
+      'only 6 visit means (fewer than 20)',
+      'temperature span 7.0 °C is below 10 °C',
+      'Q10 = 7.00 is outside 1–5',
+    ]);
     const wide = Array.from({ length: 20 }, (_, i) => i * 1.2);
-    const ok = fitQ10(wide, wide.map((x) => q10Model(x, 1, 2))) as Q10Fit;
+    const ok = fitQ10(
+      wide,
+      wide.map((x) => q10Model(x, 1, 2)),
+    ) as Q10Fit;
     expect(ok.warnings).toEqual([]);
   });
 });

@@ -86,7 +86,8 @@ function prepare(tempC: readonly number[], flux: readonly number[]): Prepared | 
   }
   const span = t.length ? Math.max(...t) - Math.min(...t) : 0;
   if (t.length < RESPONSE_LIMITS.minPoints) return { ok: false, reason: `fewer than ${RESPONSE_LIMITS.minPoints} points (${t.length})` };
-  if (span < RESPONSE_LIMITS.minSpanC) return { ok: false, reason: `temperature span ${span.toFixed(1)} °C is below ${RESPONSE_LIMITS.minSpanC} °C` };
+  if (span < RESPONSE_LIMITS.minSpanC)
+    return { ok: false, reason: `temperature span ${span.toFixed(1)} °C is below ${RESPONSE_LIMITS.minSpanC} °C` };
   const warnings: string[] = [];
   if (t.length < RESPONSE_LIMITS.warnPoints) warnings.push(`only ${t.length} visit means (fewer than ${RESPONSE_LIMITS.warnPoints})`);
   if (span < RESPONSE_LIMITS.warnSpanC) warnings.push(`temperature span ${span.toFixed(1)} °C is below ${RESPONSE_LIMITS.warnSpanC} °C`);
@@ -100,7 +101,10 @@ function estimate(value: number, se: number, tq: number): Estimate {
 export function fitQ10(tempC: readonly number[], flux: readonly number[]): Q10Fit | Refusal {
   const p = prepare(tempC, flux);
   if ('ok' in p) return p;
-  const fit = fitScaledExponential(p.t.map((t) => t - REFERENCE_TEMP_C), p.y);
+  const fit = fitScaledExponential(
+    p.t.map((t) => t - REFERENCE_TEMP_C),
+    p.y,
+  );
   if (!fit) return { ok: false, reason: 'the fit did not converge' };
   const tq = studentTQuantile(0.975, fit.n - 2);
   const q10 = Math.exp(10 * fit.theta);

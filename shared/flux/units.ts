@@ -1,9 +1,4 @@
-import {
-  MOLAR_MASS_C_G_PER_MOL,
-  MOLAR_MASS_CO2_G_PER_MOL,
-  SECONDS_PER_DAY,
-  SECONDS_PER_HOUR,
-} from './constants';
+import { MOLAR_MASS_C_G_PER_MOL, MOLAR_MASS_CO2_G_PER_MOL, SECONDS_PER_DAY, SECONDS_PER_HOUR } from './constants';
 
 /** Units a CO2 flux can be shown in. The engine always computes µmol m⁻² s⁻¹. */
 export type FluxUnit = 'umol_m2_s' | 'g_c_m2_d' | 'g_co2_m2_h' | 'mg_co2_m2_h';

@@ -61,7 +61,12 @@ function pairUp(taps: readonly TimedWindow[], pieces: readonly TimedWindow[], of
  *   within seconds of seating the chamber; 20 s by default)
  * @param maxS largest offset considered (a wrong time zone on the analyzer is hours; 12 h by default)
  */
-export function estimateClockOffset(taps: readonly TimedWindow[], pieces: readonly TimedWindow[], tolS = 20, maxS = 43_200): OffsetEstimate | null {
+export function estimateClockOffset(
+  taps: readonly TimedWindow[],
+  pieces: readonly TimedWindow[],
+  tolS = 20,
+  maxS = 43_200,
+): OffsetEstimate | null {
   let best: ReturnType<typeof pairUp> = [];
   let bestCost = Infinity;
   for (const tap of taps) {
@@ -78,6 +83,8 @@ export function estimateClockOffset(taps: readonly TimedWindow[], pieces: readon
   }
   if (!best.length) return null;
   const offsetS = Math.round(median(best.map((p) => p.diffS)) * 10) / 10;
-  const pairs = pairUp(taps, pieces, offsetS, tolS).sort((a, b) => a.tap.startMs - b.tap.startMs).map((p) => ({ tapKey: p.tap.key, pieceKey: p.piece.key, diffS: p.diffS }));
+  const pairs = pairUp(taps, pieces, offsetS, tolS)
+    .sort((a, b) => a.tap.startMs - b.tap.startMs)
+    .map((p) => ({ tapKey: p.tap.key, pieceKey: p.piece.key, diffS: p.diffS }));
   return { offsetS, pairs, spreadS: Math.max(0, ...pairs.map((p) => Math.abs(p.diffS - offsetS))) };
 }

@@ -4,10 +4,22 @@ import type { LoggerSample } from './logger-rows';
 // A continuous 1 Hz log (the analyzer never stops between closures): ambient 420 ppm, rising
 // 0.5 ppm/s while the chamber is closed at 10:02:13–10:04:13 and 10:08:13–10:10:13 (logger clock).
 const T0 = Date.parse('2025-07-03T10:00:00Z');
-const closedS = [[133, 253], [493, 613]];
+const closedS = [
+  [133, 253],
+  [493, 613],
+];
 const sample = (i: number, closureId: string | null = null): LoggerSample => {
   const inside = closedS.find(([a, b]) => i >= a && i <= b);
-  return { line: i + 2, atMs: T0 + i * 1000, elapsedS: null, co2Ppm: inside ? 420 + 0.5 * (i - inside[0]) : 420, h2oMmolMol: null, pressureKpa: null, tempC: 20, closureId };
+  return {
+    line: i + 2,
+    atMs: T0 + i * 1000,
+    elapsedS: null,
+    co2Ppm: inside ? 420 + 0.5 * (i - inside[0]) : 420,
+    h2oMmolMol: null,
+    pressureKpa: null,
+    tempC: 20,
+    closureId,
+  };
 };
 const continuous = Array.from({ length: 900 }, (_, i) => sample(i));
 // The phone's taps, 73 s behind the logger, moved onto the logger's clock with that offset.
@@ -43,7 +55,9 @@ describe('splitting a logger file into closures', () => {
   });
 
   it('when the file has a closure id column, then it decides over the taps', () => {
-    const labelled = continuous.map((s, i) => (closedS.some(([a, b]) => i >= a && i <= b) ? { ...s, closureId: i < 300 ? 'K1' : 'K2' } : s));
+    const labelled = continuous.map((s, i) =>
+      closedS.some(([a, b]) => i >= a && i <= b) ? { ...s, closureId: i < 300 ? 'K1' : 'K2' } : s,
+    );
     const split = splitClosures(labelled, { taps: tapsOnLogger });
     expect(split.method).toBe('closureId');
     expect(split.pieces.map((p) => p.key)).toEqual(['K1', 'K2']);

@@ -36,9 +36,13 @@ export interface TapWindow {
 
 function piece(key: string, samples: LoggerSample[], closureId: string | null = null): LoggerPiece {
   return {
-    key, closureId, samples,
-    firstLine: samples[0].line, lastLine: samples[samples.length - 1].line,
-    startMs: samples[0].atMs, endMs: samples[samples.length - 1].atMs,
+    key,
+    closureId,
+    samples,
+    firstLine: samples[0].line,
+    lastLine: samples[samples.length - 1].line,
+    startMs: samples[0].atMs,
+    endMs: samples[samples.length - 1].atMs,
   };
 }
 
@@ -128,7 +132,12 @@ export function splitByTaps(samples: readonly LoggerSample[], taps: readonly Tap
  * did not tap) is kept as a piece of its own for the crew to place, never dropped. A continuous log
  * has no such gaps, so its open-chamber stretches between taps stay outside.
  */
-export function splitByTapsKeepingUntapped(samples: readonly LoggerSample[], taps: readonly TapWindow[], slackS = 0, gapS?: number): SplitResult {
+export function splitByTapsKeepingUntapped(
+  samples: readonly LoggerSample[],
+  taps: readonly TapWindow[],
+  slackS = 0,
+  gapS?: number,
+): SplitResult {
   const byTaps = splitByTaps(samples, taps, slackS);
   const slack = slackS * 1000;
   const inWindow = (ms: number) => taps.some((t) => ms >= t.onMs - slack && ms <= t.offMs + slack);
@@ -138,7 +147,10 @@ export function splitByTapsKeepingUntapped(samples: readonly LoggerSample[], tap
 }
 
 /** How a file is cut into closures: a closure-id column first, else taps (timestamp files only), else gaps. */
-export function splitClosures(samples: readonly LoggerSample[], opts: { taps?: readonly TapWindow[]; gapS?: number; slackS?: number } = {}): SplitResult {
+export function splitClosures(
+  samples: readonly LoggerSample[],
+  opts: { taps?: readonly TapWindow[]; gapS?: number; slackS?: number } = {},
+): SplitResult {
   if (samples.some((s) => s.closureId !== null)) return splitByClosureId(samples);
   if (opts.taps?.length && samples.every((s) => s.atMs !== null)) return splitByTaps(samples, opts.taps, opts.slackS);
   return splitByGaps(samples, opts.gapS);
@@ -148,19 +160,31 @@ export function splitClosures(samples: readonly LoggerSample[], opts: { taps?: r
  * A piece as a closure series: elapsed seconds from its first sample; an all-empty column becomes
  * null. A mapping whose CO2 column is already dry marks the series `co2IsDry`.
  */
-export function pieceSeries(p: LoggerPiece, mapping?: Pick<LoggerMapping, 'co2'> | null): {
-  tS: number[]; co2Ppm: number[]; h2oMmolMol: (number | null)[] | null; pressureKpa: (number | null)[] | null; tempC: (number | null)[] | null;
+export function pieceSeries(
+  p: LoggerPiece,
+  mapping?: Pick<LoggerMapping, 'co2'> | null,
+): {
+  tS: number[];
+  co2Ppm: number[];
+  h2oMmolMol: (number | null)[] | null;
+  pressureKpa: (number | null)[] | null;
+  tempC: (number | null)[] | null;
   co2IsDry?: true;
 } {
   const s0 = p.samples[0];
-  const tS = p.samples.map((s) => round3(s.atMs !== null && s0.atMs !== null ? (s.atMs - s0.atMs) / 1000 : (s.elapsedS ?? 0) - (s0.elapsedS ?? 0)));
+  const tS = p.samples.map((s) =>
+    round3(s.atMs !== null && s0.atMs !== null ? (s.atMs - s0.atMs) / 1000 : (s.elapsedS ?? 0) - (s0.elapsedS ?? 0)),
+  );
   const col = (f: (s: LoggerSample) => number | null) => {
     const v = p.samples.map(f);
     return v.some((x) => x !== null) ? v : null;
   };
   return {
-    tS, co2Ppm: p.samples.map((s) => s.co2Ppm),
-    h2oMmolMol: col((s) => s.h2oMmolMol), pressureKpa: col((s) => s.pressureKpa), tempC: col((s) => s.tempC),
+    tS,
+    co2Ppm: p.samples.map((s) => s.co2Ppm),
+    h2oMmolMol: col((s) => s.h2oMmolMol),
+    pressureKpa: col((s) => s.pressureKpa),
+    tempC: col((s) => s.tempC),
     ...(mapping?.co2.dry ? { co2IsDry: true as const } : {}),
   };
 }

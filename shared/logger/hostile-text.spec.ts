@@ -21,8 +21,14 @@ describe('logger text readers on hostile cells stay linear', () => {
 
   it('when number cells are ordinary, then they read as before', () => {
     const cases: [string, boolean, number | null][] = [
-      ['12', false, 12], ['12.', false, 12], ['.5', false, 0.5], ['-1.5E-2', false, -0.015], ['+3e2', false, 300],
-      ['412,5', true, 412.5], ['', false, null], ['  7  ', false, 7],
+      ['12', false, 12],
+      ['12.', false, 12],
+      ['.5', false, 0.5],
+      ['-1.5E-2', false, -0.015],
+      ['+3e2', false, 300],
+      ['412,5', true, 412.5],
+      ['', false, null],
+      ['  7  ', false, 7],
     ];
     for (const [cell, comma, want] of cases) expect([cell, readNumber(cell, comma)]).toEqual([cell, want]);
     for (const bad of ['1.2.3', '1e', 'e5', '.', '1,5', '12 ppm']) expect(readNumber(bad, false)).toBeNaN();

@@ -23,8 +23,15 @@ describe('column guesses from header names', () => {
 });
 
 describe('mappings saved on the device', () => {
-  const saved = { ...base, time: { kind: 'elapsed', column: 0, unit: 's' }, co2: { column: 1, unit: 'µmol/mol (ppm)' },
-    h2o: { column: 2, unit: 'mmol/mol (ppt)' }, pressure: null, temp: null, closureId: { column: 3 } };
+  const saved = {
+    ...base,
+    time: { kind: 'elapsed', column: 0, unit: 's' },
+    co2: { column: 1, unit: 'µmol/mol (ppm)' },
+    h2o: { column: 2, unit: 'mmol/mol (ppt)' },
+    pressure: null,
+    temp: null,
+    closureId: { column: 3 },
+  };
 
   it('when a saved mapping names water vapour in mmol/mol by its earlier label, then it reads as mmol/mol and keeps its closure id column', () => {
     const m = savedMapping(saved)!;
@@ -42,8 +49,16 @@ describe('mappings saved on the device', () => {
 describe('when a saved mapping is used without asking', () => {
   const headers = ['Zeit', 'CO2', 'H2O', 'Temp'];
   const layout = { ...base, headers };
-  const saved: LoggerMapping = { ...base, time: { kind: 'timestamp', column: 0, format: 'DD.MM.YYYY HH:mm:ss', timeZone: 'Europe/Berlin' },
-    co2: { column: 1, unit: 'µmol/mol (ppm)' }, h2o: null, pressure: null, temp: { column: 3, unit: '°C' }, closureId: null, headers };
+  const saved: LoggerMapping = {
+    ...base,
+    time: { kind: 'timestamp', column: 0, format: 'DD.MM.YYYY HH:mm:ss', timeZone: 'Europe/Berlin' },
+    co2: { column: 1, unit: 'µmol/mol (ppm)' },
+    h2o: null,
+    pressure: null,
+    temp: { column: 3, unit: '°C' },
+    closureId: null,
+    headers,
+  };
 
   it('when the file has the same delimiter, header row and header names, then the saved mapping fits', () => {
     expect(mappingFits(saved, layout)).toBe(true);

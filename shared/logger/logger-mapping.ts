@@ -12,7 +12,7 @@ import type { TimestampFormat } from './zoned-time';
 
 export const CO2_UNITS = { 'µmol/mol (ppm)': 1, 'mmol/mol': 1000, 'ppb (nmol/mol)': 0.001 } as const;
 export const H2O_UNITS = { 'mmol/mol': 1, '% (mol/mol)': 10, 'ppm (µmol/mol)': 0.001 } as const;
-export const PRESSURE_UNITS = { kPa: 1, hPa: 0.1, mbar: 0.1, Pa: 0.001, 'mmHg': 0.133322387415 } as const;
+export const PRESSURE_UNITS = { kPa: 1, hPa: 0.1, mbar: 0.1, Pa: 0.001, mmHg: 0.133322387415 } as const;
 export const TEMP_UNITS = ['°C', 'K', '°F'] as const;
 export const ELAPSED_UNITS = { s: 1, ms: 0.001, min: 60 } as const;
 
@@ -23,8 +23,7 @@ export type TempUnit = (typeof TEMP_UNITS)[number];
 export type ElapsedUnit = keyof typeof ELAPSED_UNITS;
 
 export type TimeColumn =
-  | { kind: 'elapsed'; column: number; unit: ElapsedUnit }
-  | { kind: 'timestamp'; column: number; format: TimestampFormat; timeZone: string };
+  { kind: 'elapsed'; column: number; unit: ElapsedUnit } | { kind: 'timestamp'; column: number; format: TimestampFormat; timeZone: string };
 
 export interface LoggerMapping {
   delimiter: ',' | ';' | '\t';
@@ -56,7 +55,11 @@ export const PLAIN_EXPORT_COLUMNS = {
   closureId: 'closure_id',
 } as const;
 
-const norm = (h: string) => h.trim().toLowerCase().replace(/[\s-]+/g, '_');
+const norm = (h: string) =>
+  h
+    .trim()
+    .toLowerCase()
+    .replace(/[\s-]+/g, '_');
 
 /**
  * A first guess from the header names: our plain names exactly, else a loose reading of common
@@ -64,7 +67,11 @@ const norm = (h: string) => h.trim().toLowerCase().replace(/[\s-]+/g, '_');
  * from our own word "closure"; any other name comes from the crew's saved mapping. The crew
  * confirms or changes every column in the dialog.
  */
-export function suggestMapping(headers: readonly string[], base: Pick<LoggerMapping, 'delimiter' | 'decimalComma' | 'headerRow'>, timeZone: string): LoggerMapping | null {
+export function suggestMapping(
+  headers: readonly string[],
+  base: Pick<LoggerMapping, 'delimiter' | 'decimalComma' | 'headerRow'>,
+  timeZone: string,
+): LoggerMapping | null {
   const h = headers.map(norm);
   const exact = (name: string) => h.indexOf(name);
   const loose = (re: RegExp, skip: number[] = []) => h.findIndex((x, i) => re.test(x) && !skip.includes(i));
@@ -81,8 +88,8 @@ export function suggestMapping(headers: readonly string[], base: Pick<LoggerMapp
   const pressure = found(exact(PLAIN_EXPORT_COLUMNS.pressure)) ?? found(loose(/press|^p(_kpa)?$/));
   // Only a column named as chamber or air temperature: an analyzer's internal cell temperature is
   // never taken without the crew choosing it (temperature-columns.ts).
-  const temp = found(exact(PLAIN_EXPORT_COLUMNS.temp))
-    ?? found(h.findIndex((x, i) => i !== time.column && temperatureKind(x) === 'chamber'));
+  const temp =
+    found(exact(PLAIN_EXPORT_COLUMNS.temp)) ?? found(h.findIndex((x, i) => i !== time.column && temperatureKind(x) === 'chamber'));
   const id = found(exact(PLAIN_EXPORT_COLUMNS.closureId)) ?? found(loose(/closure/));
   return {
     ...base,
@@ -99,7 +106,11 @@ export function suggestMapping(headers: readonly string[], base: Pick<LoggerMapp
  * The mapping of a file in our plain export (every header one of our documented names): such a
  * file needs no mapping step. Any other header gets null: its columns are the crew's to confirm.
  */
-export function plainExportMapping(headers: readonly string[], base: Pick<LoggerMapping, 'delimiter' | 'decimalComma' | 'headerRow'>, timeZone: string): LoggerMapping | null {
+export function plainExportMapping(
+  headers: readonly string[],
+  base: Pick<LoggerMapping, 'delimiter' | 'decimalComma' | 'headerRow'>,
+  timeZone: string,
+): LoggerMapping | null {
   const names: readonly string[] = Object.values(PLAIN_EXPORT_COLUMNS);
   if (!headers.length || !headers.every((h) => names.includes(norm(h)))) return null;
   const m = suggestMapping(headers, base, timeZone);
@@ -122,10 +133,16 @@ export function savedMapping(stored: unknown): LoggerMapping | null {
  * delimiter and header row, and the same header names when the mapping kept them; every mapped
  * column must exist in the file.
  */
-export function mappingFits(m: LoggerMapping | null, layout: Pick<LoggerMapping, 'delimiter' | 'headerRow'> & { headers: readonly string[] }): m is LoggerMapping {
+export function mappingFits(
+  m: LoggerMapping | null,
+  layout: Pick<LoggerMapping, 'delimiter' | 'headerRow'> & { headers: readonly string[] },
+): m is LoggerMapping {
   if (!m || m.delimiter !== layout.delimiter || m.headerRow !== layout.headerRow) return false;
-  if (m.headers && (m.headers.length !== layout.headers.length || m.headers.some((h, i) => h.trim() !== layout.headers[i]?.trim()))) return false;
-  const cols = [m.time.column, m.co2.column, m.h2o?.column, m.pressure?.column, m.temp?.column, m.closureId?.column].filter((c): c is number => c !== undefined);
+  if (m.headers && (m.headers.length !== layout.headers.length || m.headers.some((h, i) => h.trim() !== layout.headers[i]?.trim())))
+    return false;
+  const cols = [m.time.column, m.co2.column, m.h2o?.column, m.pressure?.column, m.temp?.column, m.closureId?.column].filter(
+    (c): c is number => c !== undefined,
+  );
   return cols.every((c) => c >= 0 && c < layout.headers.length);
 }
 

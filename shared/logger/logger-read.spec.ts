@@ -17,7 +17,8 @@ function read(name: string, timeZone: string, adjust: (m: LoggerMapping) => Logg
 describe('reading logger files we make (test/fixtures/logger)', () => {
   it('when a file uses semicolons and decimal commas after a preamble, then both are detected and the numbers read as decimals', () => {
     const r = read('semicolon-decimal-comma.csv', 'Europe/Berlin', (m) => ({
-      ...m, time: { kind: 'timestamp', column: 0, format: 'DD.MM.YYYY HH:mm:ss', timeZone: 'Europe/Berlin' },
+      ...m,
+      time: { kind: 'timestamp', column: 0, format: 'DD.MM.YYYY HH:mm:ss', timeZone: 'Europe/Berlin' },
     }));
     expect(r.layout).toMatchObject({ delimiter: ';', decimalComma: true, headerRow: 2 });
     expect(r.layout.headers).toEqual(['timestamp', 'co2_ppm', 'h2o_mmol_mol', 'pressure_kpa', 'temp_c']);
@@ -36,7 +37,10 @@ describe('reading logger files we make (test/fixtures/logger)', () => {
     expect(r.samples[0].tempC).toBeCloseTo(18.4, 10); // 291.55 K − 273.15
     const split = splitClosures(r.samples);
     expect(split.method).toBe('gaps');
-    expect(split.pieces.map((p) => [p.firstLine, p.lastLine, p.samples.length])).toEqual([[2, 47, 46], [48, 93, 46]]);
+    expect(split.pieces.map((p) => [p.firstLine, p.lastLine, p.samples.length])).toEqual([
+      [2, 47, 46],
+      [48, 93, 46],
+    ]);
   });
 
   it('when wall times repeat the autumn hour in Europe/Berlin, then the repeated 02:xx rows follow on in UTC without a jump', () => {
@@ -59,12 +63,17 @@ describe('reading logger files we make (test/fixtures/logger)', () => {
     expect(split.pieces.map((p) => p.samples.length)).toEqual([61, 61, 61]);
     // 10:05:13 in Chicago in July is CDT, UTC−5.
     expect(split.pieces.map((p) => new Date(p.startMs!).toISOString())).toEqual([
-      '2025-07-03T15:05:13.000Z', '2025-07-03T15:12:43.000Z', '2025-07-03T15:21:03.000Z',
+      '2025-07-03T15:05:13.000Z',
+      '2025-07-03T15:12:43.000Z',
+      '2025-07-03T15:21:03.000Z',
     ]);
   });
 
   it('when one line is garbage, then it is reported with its line number and every other row is kept', () => {
-    const r = read('garbage-line.csv', 'UTC', (m) => ({ ...m, time: { kind: 'timestamp', column: 0, format: 'ISO-8601 with offset', timeZone: 'UTC' } }));
+    const r = read('garbage-line.csv', 'UTC', (m) => ({
+      ...m,
+      time: { kind: 'timestamp', column: 0, format: 'ISO-8601 with offset', timeZone: 'UTC' },
+    }));
     expect(r.problems).toHaveLength(1);
     expect(r.problems[0].line).toBe(14);
     expect(r.problems[0].message).toMatch(/^Line 14: /);

@@ -82,7 +82,10 @@ export function readLoggerRows(rows: readonly string[][], m: LoggerMapping, firs
       const t = m.temp ? num(row, m.temp.column, 'Temperature', false) : null;
       const id = m.closureId ? (row[m.closureId.column] ?? '').trim() : '';
       samples.push({
-        line, atMs, elapsedS, co2Ppm: co2,
+        line,
+        atMs,
+        elapsedS,
+        co2Ppm: co2,
         h2oMmolMol: h2o === null || !m.h2o ? null : h2o * H2O_UNITS[m.h2o.unit],
         pressureKpa: p === null || !m.pressure ? null : p * PRESSURE_UNITS[m.pressure.unit],
         tempC: t === null || !m.temp ? null : tempToC(t, m.temp.unit),

@@ -29,5 +29,11 @@ export function guessLayout(text: string): TextLayout {
   const head = splitRows(text.slice(0, 64 * 1024), delimiter);
   const headerRow = findHeaderRow(head);
   const preview = head.slice(headerRow + 1, headerRow + 9).filter((r) => r.some((c) => c.trim()));
-  return { delimiter, decimalComma: detectDecimalComma(preview, delimiter), headerRow, headers: (head[headerRow] ?? []).map((h) => h.trim()), preview };
+  return {
+    delimiter,
+    decimalComma: detectDecimalComma(preview, delimiter),
+    headerRow,
+    headers: (head[headerRow] ?? []).map((h) => h.trim()),
+    preview,
+  };
 }

@@ -26,7 +26,9 @@ describe('Temperature columns of a logger file', () => {
     const layout = guessLayout(text);
     expect(suggestMapping(layout.headers, layout, 'UTC')!.temp).toEqual({ column: 4, unit: '°C' });
     expect(temperatureColumns(text, layout).map((c) => [c.header, c.kind, c.min, c.max])).toEqual([
-      ['Temp', 'unknown', 21.5, 21.6], ['T_cell', 'internal', 51, 51.2], ['T_air', 'chamber', 18.4, 18.5],
+      ['Temp', 'unknown', 21.5, 21.6],
+      ['T_cell', 'internal', 51, 51.2],
+      ['T_air', 'chamber', 18.4, 18.5],
     ]);
   });
 });

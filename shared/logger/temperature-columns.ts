@@ -19,9 +19,14 @@ export interface TempColumn {
   max: number | null;
 }
 
-const norm = (h: string) => h.trim().toLowerCase().replace(/[\s-]+/g, '_');
+const norm = (h: string) =>
+  h
+    .trim()
+    .toLowerCase()
+    .replace(/[\s-]+/g, '_');
 const TEMPERATURE = /temp|^t$|^t_|_t$|_t_|°c|degc|deg_c/;
-const INTERNAL = /cell|block|bench|optic|detector|internal|irga|analy[sz]er|sensor|board|case|box|housing|lamp|source|cpu|logger|pcb|electronics/;
+const INTERNAL =
+  /cell|block|bench|optic|detector|internal|irga|analy[sz]er|sensor|board|case|box|housing|lamp|source|cpu|logger|pcb|electronics/;
 const CHAMBER = /chamber|cham|air|headspace|^temp_c$/;
 
 /** What a header says about a temperature column, or null when it is not one. */
@@ -34,7 +39,10 @@ export function temperatureKind(header: string): TempColumnKind | null {
 }
 
 /** The temperature-like columns of a file with the range of their values in the first rows (64 KiB). */
-export function temperatureColumns(text: string, layout: Pick<TextLayout, 'delimiter' | 'decimalComma' | 'headerRow' | 'headers'>): TempColumn[] {
+export function temperatureColumns(
+  text: string,
+  layout: Pick<TextLayout, 'delimiter' | 'decimalComma' | 'headerRow' | 'headers'>,
+): TempColumn[] {
   const rows = splitRows(text.slice(0, 64 * 1024), layout.delimiter).slice(layout.headerRow + 1);
   const out: TempColumn[] = [];
   layout.headers.forEach((header, column) => {

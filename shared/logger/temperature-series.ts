@@ -15,7 +15,10 @@ export interface TemperatureSeriesRequest {
   timeFormat?: TimestampFormat;
 }
 
-export interface TemperatureLineProblem { line: number; message: string }
+export interface TemperatureLineProblem {
+  line: number;
+  message: string;
+}
 
 export interface TemperatureSeriesRead {
   t: string[];
@@ -31,7 +34,10 @@ export const clipText = (s: string, max = 120) => (s.length > max ? `${s.slice(0
 
 /** The first format that reads the first data cell: ISO with an offset wins, then local wall times. */
 export function pickTimestampFormat(sample: string, timeZone: string): TimestampFormat {
-  const order: TimestampFormat[] = ['ISO-8601 with offset', ...TIMESTAMP_FORMATS.filter((f) => f !== 'ISO-8601 with offset' && f !== 'Unix seconds')];
+  const order: TimestampFormat[] = [
+    'ISO-8601 with offset',
+    ...TIMESTAMP_FORMATS.filter((f) => f !== 'ISO-8601 with offset' && f !== 'Unix seconds'),
+  ];
   return order.find((f) => readTimestamp(sample, f, timeZone).ok) ?? 'ISO-8601 with offset';
 }
 
@@ -40,10 +46,13 @@ export function readTemperatureSeries(req: TemperatureSeriesRequest): Temperatur
   const rows = splitRows(req.text, layout.delimiter);
   const ti = layout.headers.indexOf(req.timeColumn);
   const ci = layout.headers.indexOf(req.tempColumn);
-  const empty = { t: [], tempC: [], format: req.timeFormat ?? 'ISO-8601 with offset' as TimestampFormat, problems: [] };
+  const empty = { t: [], tempC: [], format: req.timeFormat ?? ('ISO-8601 with offset' as TimestampFormat), problems: [] };
   if (ti < 0) return { ...empty, missingColumn: { path: 'timeColumn', name: req.timeColumn, headers: layout.headers } };
   if (ci < 0) return { ...empty, missingColumn: { path: 'tempColumn', name: req.tempColumn, headers: layout.headers } };
-  const data = rows.map((cells, i) => ({ cells, line: i + 1 })).slice(layout.headerRow + 1).filter((r) => r.cells.some((c) => c.trim()));
+  const data = rows
+    .map((cells, i) => ({ cells, line: i + 1 }))
+    .slice(layout.headerRow + 1)
+    .filter((r) => r.cells.some((c) => c.trim()));
   const format = req.timeFormat ?? pickTimestampFormat(data[0]?.cells[ti] ?? '', req.timeZone);
   const t: string[] = [];
   const tempC: number[] = [];

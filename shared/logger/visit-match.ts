@@ -51,7 +51,8 @@ export function matchPiecesToVisits(pieces: readonly LoggerPiece[], visits: read
     const cs = p.startMs! - shift;
     const ce = (p.endMs ?? p.startMs!) - shift;
     const mid = (cs + ce) / 2;
-    const byTap = allTaps.filter((t) => mid >= t.onMs - tol && mid <= (t.offMs ?? t.onMs + maxVisit) + tol)
+    const byTap = allTaps
+      .filter((t) => mid >= t.onMs - tol && mid <= (t.offMs ?? t.onMs + maxVisit) + tol)
       .map((t) => ({ visitId: t.visitId, tapKey: t.key as string | null }));
     let candidates = byTap;
     let how: PieceMatch['how'] = byTap.length ? 'tap' : null;
@@ -64,8 +65,14 @@ export function matchPiecesToVisits(pieces: readonly LoggerPiece[], visits: read
     }
     const one = candidates.length === 1 ? candidates[0] : null;
     return {
-      pieceKey: p.key, status: one ? 'matched' : candidates.length ? 'ambiguous' : 'unmatched',
-      visitId: one?.visitId ?? null, tapKey: one?.tapKey ?? null, how, candidates, correctedStartMs: cs, correctedEndMs: ce,
+      pieceKey: p.key,
+      status: one ? 'matched' : candidates.length ? 'ambiguous' : 'unmatched',
+      visitId: one?.visitId ?? null,
+      tapKey: one?.tapKey ?? null,
+      how,
+      candidates,
+      correctedStartMs: cs,
+      correctedEndMs: ce,
     };
   });
   // Two pieces in one tap window: the crew says which one is the closure (the other may be a redo).

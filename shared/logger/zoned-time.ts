@@ -25,7 +25,14 @@ function formatter(timeZone: string): Intl.DateTimeFormat {
   let f = formatters.get(timeZone);
   if (!f) {
     f = new Intl.DateTimeFormat('en-US', {
-      timeZone, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', second: '2-digit',
+      timeZone,
+      hourCycle: 'h23',
+      year: 'numeric',
+      month: '2-digit',
+      day: '2-digit',
+      hour: '2-digit',
+      minute: '2-digit',
+      second: '2-digit',
     });
     formatters.set(timeZone, f);
   }
@@ -65,7 +72,11 @@ export function zoneOffsetMs(utcMs: number, timeZone: string): number {
  * one normally, two in the repeated autumn hour (earlier first), none in the skipped spring hour.
  */
 export function instantsForWallTime(wallMs: number, timeZone: string): number[] {
-  const offsets = new Set([zoneOffsetMs(wallMs - 86_400_000, timeZone), zoneOffsetMs(wallMs, timeZone), zoneOffsetMs(wallMs + 86_400_000, timeZone)]);
+  const offsets = new Set([
+    zoneOffsetMs(wallMs - 86_400_000, timeZone),
+    zoneOffsetMs(wallMs, timeZone),
+    zoneOffsetMs(wallMs + 86_400_000, timeZone),
+  ]);
   const out: number[] = [];
   for (const o of offsets) {
     const utc = wallMs - o;
@@ -76,7 +87,14 @@ export function instantsForWallTime(wallMs: number, timeZone: string): number[] 
 
 export type TimestampRead = { ok: true; ms: number } | { ok: false; message: string };
 
-const FIELD_PATTERNS: Record<string, string> = { YYYY: '(\\d{4})', MM: '(\\d{1,2})', DD: '(\\d{1,2})', HH: '(\\d{1,2})', mm: '(\\d{2})', ss: '(\\d{2}(?:[.,]\\d+)?)' };
+const FIELD_PATTERNS: Record<string, string> = {
+  YYYY: '(\\d{4})',
+  MM: '(\\d{1,2})',
+  DD: '(\\d{1,2})',
+  HH: '(\\d{1,2})',
+  mm: '(\\d{2})',
+  ss: '(\\d{2}(?:[.,]\\d+)?)',
+};
 const compiled = new Map<string, { re: RegExp; order: string[] }>();
 
 function wallPattern(format: string): { re: RegExp; order: string[] } {
@@ -125,17 +143,24 @@ const ISO_WITH_OFFSET = /^\s*\d{4}-\d{2}-\d{2}[T ]\d{2}:\d{2}(:\d{2}(\.\d+)?)?(Z
 export function readTimestamp(text: string, format: TimestampFormat, timeZone: string, previousMs: number | null = null): TimestampRead {
   if (format === 'Unix seconds') {
     const v = Number(text.trim().replace(',', '.'));
-    return text.trim() !== '' && Number.isFinite(v) ? { ok: true, ms: Math.round(v * 1000) } : { ok: false, message: `"${text}" is not a number of seconds` };
+    return text.trim() !== '' && Number.isFinite(v)
+      ? { ok: true, ms: Math.round(v * 1000) }
+      : { ok: false, message: `"${text}" is not a number of seconds` };
   }
   if (format === 'ISO-8601 with offset') {
     const ms = ISO_WITH_OFFSET.test(text) ? Date.parse(text.trim().replace(' ', 'T')) : NaN;
-    return Number.isFinite(ms) ? { ok: true, ms } : { ok: false, message: `"${text}" is not an ISO-8601 time with an offset (Z or ±hh:mm)` };
+    return Number.isFinite(ms)
+      ? { ok: true, ms }
+      : { ok: false, message: `"${text}" is not an ISO-8601 time with an offset (Z or ±hh:mm)` };
   }
   const wall = wallTimeMs(text, format);
   if (wall === null) return { ok: false, message: `"${text}" does not fit the time format ${format}` };
   const instants = instantsForWallTime(wall, timeZone);
   if (!instants.length) {
-    return { ok: false, message: `"${text}" does not exist in ${timeZone} (the clocks skipped that hour): is the logger on standard time?` };
+    return {
+      ok: false,
+      message: `"${text}" does not exist in ${timeZone} (the clocks skipped that hour): is the logger on standard time?`,
+    };
   }
   if (instants.length === 1 || previousMs === null) return { ok: true, ms: instants[0] };
   const after = instants.find((t) => t >= previousMs);

@@ -48,7 +48,10 @@ export function worstDriftPct(d: { zeroDriftPpm?: number | null; driftPpm?: numb
  * Whether the analyzer was left within the site's limit: the as-left reading of each gas given is
  * within the limit (in % of the span gas) of its concentration. Null when nothing was read after.
  */
-export function calibrationPassed(c: CalibrationReadings & { zeroAfterPpm?: number | null; spanAfterPpm?: number | null }, limitPct: number): boolean | null {
+export function calibrationPassed(
+  c: CalibrationReadings & { zeroAfterPpm?: number | null; spanAfterPpm?: number | null },
+  limitPct: number,
+): boolean | null {
   if (!given(c.spanGasPpm) || c.spanGasPpm <= 0) return null;
   const tolerance = (limitPct / 100) * c.spanGasPpm;
   const left: number[] = [];

@@ -18,8 +18,11 @@ export const name = (what = 'name') => z.string().trim().min(1, `Enter a ${what}
 
 /** A number in a hard range; the message names the range and unit. */
 export const ranged = (min: number, max: number, unit: string, what = 'value') =>
-  z.number({ message: `${what} must be a number` }).finite(`${what} must be a finite number`)
-    .min(min, `${what} must be at least ${min} ${unit}`).max(max, `${what} must be at most ${max} ${unit}`);
+  z
+    .number({ message: `${what} must be a number` })
+    .finite(`${what} must be a finite number`)
+    .min(min, `${what} must be at least ${min} ${unit}`)
+    .max(max, `${what} must be at most ${max} ${unit}`);
 
 export interface Warning {
   path: string;

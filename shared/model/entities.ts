@@ -1,9 +1,24 @@
 import type { z } from 'zod';
 import {
-  attachmentFields, campaignFields, closureFields, collarEventFields, collarFields, offsetSetFields,
-  probeReadingFields, routeFields, visitFields,
+  attachmentFields,
+  campaignFields,
+  closureFields,
+  collarEventFields,
+  collarFields,
+  offsetSetFields,
+  probeReadingFields,
+  routeFields,
+  visitFields,
 } from './field-records';
-import { analyzerCheckFields, analyzerFields, blockFields, chamberProfileFields, plotFields, siteFields, treatmentFields } from './site-layout';
+import {
+  analyzerCheckFields,
+  analyzerFields,
+  blockFields,
+  chamberProfileFields,
+  plotFields,
+  siteFields,
+  treatmentFields,
+} from './site-layout';
 import { temperatureLogFields } from './temperature-log';
 import type { EntityName } from './entity-names';
 

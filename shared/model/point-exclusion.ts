@@ -16,23 +16,41 @@ export const reviewExclusionsSchema = z.array(pointExclusionSchema).max(20000, '
 
 /** Bench request: leave these points out, for this reason. */
 export const excludePointsSchema = z.object({
-  indices: z.array(sampleIndex, { message: 'Name the points to leave out (indices)' }).min(1, 'Name at least one point to leave out').max(20000),
+  indices: z
+    .array(sampleIndex, { message: 'Name the points to leave out (indices)' })
+    .min(1, 'Name at least one point to leave out')
+    .max(20000),
   reason,
 });
 /** Bench request: put these excluded points back into the fit. */
 export const restorePointsSchema = z.object({
-  indices: z.array(sampleIndex, { message: 'Name the excluded points to put back (indices)' }).min(1, 'Name at least one point to put back').max(20000),
+  indices: z
+    .array(sampleIndex, { message: 'Name the excluded points to put back (indices)' })
+    .min(1, 'Name at least one point to put back')
+    .max(20000),
 });
 
 type ClosureLike = {
   series: { tS: (number | null)[]; co2Ppm: (number | null)[]; h2oMmolMol?: (number | null)[] | null; co2IsDry?: boolean };
-  settleS: number; reviewSettleS: number | null; reviewWindowEndS: number | null; reviewExclusions: PointExclusion[];
+  settleS: number;
+  reviewSettleS: number | null;
+  reviewWindowEndS: number | null;
+  reviewExclusions: PointExclusion[];
 };
 
 /** The record rule (every write path): exclusions name samples of the series, once each, and leave a fit possible. */
 export function checkExclusions(c: ClosureLike, ctx: z.RefinementCtx): void {
-  const problems = exclusionProblems(c.series, c.reviewSettleS ?? c.settleS, c.reviewWindowEndS, c.reviewExclusions.map((e) => e.index));
+  const problems = exclusionProblems(
+    c.series,
+    c.reviewSettleS ?? c.settleS,
+    c.reviewWindowEndS,
+    c.reviewExclusions.map((e) => e.index),
+  );
   for (const p of problems) {
-    ctx.addIssue({ code: 'custom', path: p.index === null ? ['reviewExclusions'] : ['reviewExclusions', p.index, 'index'], message: p.message });
+    ctx.addIssue({
+      code: 'custom',
+      path: p.index === null ? ['reviewExclusions'] : ['reviewExclusions', p.index, 'index'],
+      message: p.message,
+    });
   }
 }

@@ -14,7 +14,8 @@ export const PROBE_FLAGS = {
   'soil-temp-implausible': 'A soil temperature at 2 cm or deeper is outside −30 … 50 °C (common-practice range test).',
   'vwc-implausible': 'Volumetric water content outside 0 … 60 % (common-practice range test; peat soils may exceed it).',
   'permittivity-implausible': 'Apparent permittivity outside 1 (air) … 81 (free water).',
-  'soil-temp-off-depth': "A soil temperature taken further from the site's probe depth than the site's depth tolerance: kept, but not in the visit's mean temperature.",
+  'soil-temp-off-depth':
+    "A soil temperature taken further from the site's probe depth than the site's depth tolerance: kept, but not in the visit's mean temperature.",
 } as const;
 export type ProbeFlag = keyof typeof PROBE_FLAGS;
 
@@ -41,9 +42,10 @@ export function probeFlags(p: ProbeValues): ProbeFlag[] {
   const out: ProbeFlag[] = [];
   const t = PROBE_RANGES.soilTempC;
   if (p.soilTemps.some((s) => s.depthCm >= t.fromDepthCm && outside(s.tempC, t))) out.push('soil-temp-implausible');
-  const vwc = p.moistureKind === 'vwc' ? p.moistureRaw : p.vwcPct ?? null;
+  const vwc = p.moistureKind === 'vwc' ? p.moistureRaw : (p.vwcPct ?? null);
   if (vwc !== null && outside(vwc, PROBE_RANGES.vwcPct)) out.push('vwc-implausible');
-  if (p.moistureKind === 'permittivity' && p.moistureRaw !== null && outside(p.moistureRaw, PROBE_RANGES.permittivity)) out.push('permittivity-implausible');
+  if (p.moistureKind === 'permittivity' && p.moistureRaw !== null && outside(p.moistureRaw, PROBE_RANGES.permittivity))
+    out.push('permittivity-implausible');
   const d = p.probeDepth;
   if (d && p.soilTemps.some((s) => !atProbeDepth(s.depthCm, d.depthCm, d.toleranceCm))) out.push('soil-temp-off-depth');
   return out;

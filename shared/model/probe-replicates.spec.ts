@@ -2,7 +2,9 @@ import { readFileSync } from 'fs';
 import { join } from 'path';
 import { atProbeDepth, probeSummary, sampleStats } from './probe-replicates';
 
-const reference = JSON.parse(readFileSync(join(__dirname, 'fixtures', 'python-replicate-stats.json'), 'utf8')) as { cases: { values: number[]; mean: number; sd: number }[] };
+const reference = JSON.parse(readFileSync(join(__dirname, 'fixtures', 'python-replicate-stats.json'), 'utf8')) as {
+  cases: { values: number[]; mean: number; sd: number }[];
+};
 
 const close = (a: number | null, b: number) => {
   expect(a).not.toBeNull();
@@ -30,7 +32,11 @@ describe('replicate mean and sample SD', () => {
 });
 
 describe('a visit’s probe replicates', () => {
-  const rep = (id: string, vwcPct: number | null, temps: [number, number][]) => ({ id, vwcPct, soilTemps: temps.map(([depthCm, tempC]) => ({ depthCm, tempC })) });
+  const rep = (id: string, vwcPct: number | null, temps: [number, number][]) => ({
+    id,
+    vwcPct,
+    soilTemps: temps.map(([depthCm, tempC]) => ({ depthCm, tempC })),
+  });
 
   it('when replicates are taken at the probe depth, then moisture and temperature are their means', () => {
     const s = probeSummary([rep('a', 20, [[5, 10]]), rep('b', 22, [[5, 11]]), rep('c', 24, [[5, 12]])], 5, 1);
@@ -39,8 +45,19 @@ describe('a visit’s probe replicates', () => {
     expect(s.offDepth).toEqual([]);
   });
 
-  it('when a temperature is more than the site\'s ±1 cm from the probe depth, then it is flagged and left out of the mean', () => {
-    const s = probeSummary([rep('a', 20, [[5, 10]]), rep('b', null, [[5.5, 12]]), rep('c', 24, [[10, 4], [4, 11]])], 5, 1);
+  it("when a temperature is more than the site's ±1 cm from the probe depth, then it is flagged and left out of the mean", () => {
+    const s = probeSummary(
+      [
+        rep('a', 20, [[5, 10]]),
+        rep('b', null, [[5.5, 12]]),
+        rep('c', 24, [
+          [10, 4],
+          [4, 11],
+        ]),
+      ],
+      5,
+      1,
+    );
     // 5 and 5.5 and 4 are within ±1 cm of 5 cm; 10 cm is not.
     expect(s.soilTemp.n).toBe(3);
     expect(s.soilTemp.mean).toBeCloseTo(11, 12);
@@ -50,7 +67,17 @@ describe('a visit’s probe replicates', () => {
   });
 
   it('when one replicate has two depths within the tolerance, then only the one nearest the probe depth counts', () => {
-    const s = probeSummary([rep('a', null, [[4.5, 9], [5, 10]]), rep('b', null, [[5, 12]])], 5, 1);
+    const s = probeSummary(
+      [
+        rep('a', null, [
+          [4.5, 9],
+          [5, 10],
+        ]),
+        rep('b', null, [[5, 12]]),
+      ],
+      5,
+      1,
+    );
     expect(s.soilTemp).toEqual({ n: 2, mean: 11, sd: Math.sqrt(2) });
     expect(s.offDepth).toEqual([]);
   });

@@ -53,7 +53,11 @@ export interface ProbeSummary {
 }
 
 /** A replicate's soil temperature at the probe depth: the one nearest it within the tolerance, or null. */
-export function tempAtProbeDepth(soilTemps: readonly { depthCm: number; tempC: number }[], probeDepthCm: number, toleranceCm: number): number | null {
+export function tempAtProbeDepth(
+  soilTemps: readonly { depthCm: number; tempC: number }[],
+  probeDepthCm: number,
+  toleranceCm: number,
+): number | null {
   let nearest: { depthCm: number; tempC: number } | null = null;
   for (const t of soilTemps) {
     if (!atProbeDepth(t.depthCm, probeDepthCm, toleranceCm)) continue;
@@ -67,7 +71,8 @@ export function probeSummary(replicates: readonly ReplicateValues[], probeDepthC
   const temps: number[] = [];
   const offDepth: ProbeSummary['offDepth'] = [];
   for (const r of replicates) {
-    for (const t of r.soilTemps) if (!atProbeDepth(t.depthCm, probeDepthCm, toleranceCm)) offDepth.push({ id: r.id, depthCm: t.depthCm, tempC: t.tempC });
+    for (const t of r.soilTemps)
+      if (!atProbeDepth(t.depthCm, probeDepthCm, toleranceCm)) offDepth.push({ id: r.id, depthCm: t.depthCm, tempC: t.tempC });
     const at = tempAtProbeDepth(r.soilTemps, probeDepthCm, toleranceCm);
     if (at !== null) temps.push(at);
   }

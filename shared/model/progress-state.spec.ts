@@ -1,4 +1,12 @@
-import { NOT_DUE_WORDS, PROGRESS_STATE_WORDS, PROGRESS_STATES, REVIEW_STATE_WORDS, progressCountsText, progressStateWords, reviewStateWords } from './progress-state';
+import {
+  NOT_DUE_WORDS,
+  PROGRESS_STATE_WORDS,
+  PROGRESS_STATES,
+  REVIEW_STATE_WORDS,
+  progressCountsText,
+  progressStateWords,
+  reviewStateWords,
+} from './progress-state';
 
 describe('progress and review state words (one table for every surface)', () => {
   it('when a collar state is shown, then the word is the design vocabulary: due · partial · complete · skipped', () => {

@@ -10,7 +10,10 @@ export const PROGRESS_STATES = ['due', 'partial', 'complete', 'skipped'] as cons
 export type ProgressState = (typeof PROGRESS_STATES)[number];
 
 export const PROGRESS_STATE_WORDS: Readonly<Record<ProgressState, string>> = {
-  due: 'due', partial: 'partial', complete: 'complete', skipped: 'skipped',
+  due: 'due',
+  partial: 'partial',
+  complete: 'complete',
+  skipped: 'skipped',
 };
 
 /** An item (offset, closures, probes) the round does not ask for at this collar. */
@@ -20,7 +23,9 @@ export type ReviewState = (typeof REVIEW_STATES)[number];
 export { REVIEW_STATES };
 
 export const REVIEW_STATE_WORDS: Readonly<Record<ReviewState, string>> = {
-  unreviewed: 'unreviewed', accepted: 'accepted', rejected: 'rejected',
+  unreviewed: 'unreviewed',
+  accepted: 'accepted',
+  rejected: 'rejected',
 };
 
 /** The word for a progress state; an unknown state (a newer server) reads as itself. */

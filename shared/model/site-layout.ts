@@ -48,8 +48,16 @@ export const siteFields = z.object({
    */
   slopeBasis: z.enum(['closure', 'settle_end'], { message: 'Slope basis must be closure or settle_end' }).default('closure'),
   calibrationDriftLimitPct: ranged(0.1, 50, '%', 'Calibration drift limit').default(DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT),
-  digestLocalTime: z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'Digest time must be HH:MM').default('18:00'),
-  tileUrl: z.string().max(500).regex(/^https:\/\/.*\{z\}.*\{x\}.*\{y\}/, 'Tile URL must be https with {z}, {x} and {y}').nullable().default(null),
+  digestLocalTime: z
+    .string()
+    .regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'Digest time must be HH:MM')
+    .default('18:00'),
+  tileUrl: z
+    .string()
+    .max(500)
+    .regex(/^https:\/\/.*\{z\}.*\{x\}.*\{y\}/, 'Tile URL must be https with {z}, {x} and {y}')
+    .nullable()
+    .default(null),
   tileAttribution: text(500).nullable().default(null),
 });
 
@@ -78,12 +86,18 @@ export const plotFields = z.object({
   blockId: uuid('blockId').nullable().default(null),
   treatmentId: uuid('treatmentId').nullable().default(null),
   /** GeoJSON Polygon geometry in WGS84, or a plain local layout. */
-  outline: z.object({ type: z.literal('Polygon'), coordinates: z.array(z.array(z.tuple([z.number(), z.number()]))).min(1) })
+  outline: z
+    .object({ type: z.literal('Polygon'), coordinates: z.array(z.array(z.tuple([z.number(), z.number()]))).min(1) })
     // A linear ring is closed and has at least four positions (RFC 7946 §3.1.6).
-    .refine((g) => g.coordinates.every((ring) => ring.length >= 4
-      && ring[0][0] === ring[ring.length - 1][0] && ring[0][1] === ring[ring.length - 1][1]),
-    { message: 'Each ring of the outline must be closed (last corner = first) with at least four positions', path: ['coordinates'] })
-    .nullable().default(null),
+    .refine(
+      (g) =>
+        g.coordinates.every(
+          (ring) => ring.length >= 4 && ring[0][0] === ring[ring.length - 1][0] && ring[0][1] === ring[ring.length - 1][1],
+        ),
+      { message: 'Each ring of the outline must be closed (last corner = first) with at least four positions', path: ['coordinates'] },
+    )
+    .nullable()
+    .default(null),
 });
 
 export const chamberProfileFields = z.object({
@@ -114,48 +128,60 @@ export const ANALYZER_CHECK_KINDS = ['calibration', 'leak', 'ambient', 'clock', 
 const reading = (what: string) => ranged(-5000, 20000, 'µmol/mol', what).nullable().default(null);
 const cylinder = (what: string) => z.string().trim().max(100, `${what}: at most 100 characters`).nullable().default(null);
 
-export const analyzerCheckFields = z.object({
-  siteId: uuid('siteId'),
-  analyzerId: uuid('analyzerId').nullable().default(null),
-  kind: z.enum(ANALYZER_CHECK_KINDS),
-  at: z.string().datetime({ offset: true, message: 'at must be an ISO-8601 date-time' }),
-  skipped: z.boolean().default(false),
-  skipReason: text(500).nullable().default(null),
-  passed: z.boolean().nullable().default(null),
-  co2Ppm: ranged(0, 20000, 'µmol/mol', 'CO2').nullable().default(null),
-  slopeUmolMolS: ranged(-1000, 1000, 'µmol/mol/s', 'Slope').nullable().default(null),
-  clockOffsetS: ranged(-86400, 86400, 's', 'Clock offset').nullable().default(null),
-  /** Calibration: the zero gas (scrubbed air or a cylinder) and the analyzer's readings before and after adjustment. */
-  zeroGasPpm: ranged(0, 20000, 'µmol/mol', 'Zero gas').nullable().default(null),
-  zeroCylinder: cylinder('Zero gas cylinder'),
-  zeroBeforePpm: reading('Zero reading before'),
-  zeroAfterPpm: reading('Zero reading after'),
-  /** Calibration: the span gas cylinder's certified concentration, its id and the readings before and after. */
-  spanGasPpm: ranged(0, 20000, 'µmol/mol', 'Span gas').nullable().default(null),
-  spanCylinder: cylinder('Span gas cylinder'),
-  spanBeforePpm: reading('Span reading before'),
-  spanAfterPpm: reading('Span reading after'),
-  /** As-found drift, reading before − gas (shared/model/calibration.ts); computed whenever the readings are given. */
-  zeroDriftPpm: ranged(-5000, 5000, 'µmol/mol', 'Zero drift').nullable().default(null),
-  driftPpm: ranged(-5000, 5000, 'µmol/mol', 'Drift').nullable().default(null),
-  note: text(2000).default(''),
-}).superRefine((c, ctx) => {
-  if (c.skipped && !(c.skipReason ?? '').trim()) ctx.addIssue({ code: 'custom', message: 'A skipped check needs a reason', path: ['skipReason'] });
-  if (c.kind !== 'calibration' || c.skipped) return;
-  if (c.spanGasPpm !== null && c.spanGasPpm <= 0) ctx.addIssue({ code: 'custom', message: 'The span gas concentration must be above 0 µmol/mol', path: ['spanGasPpm'] });
-  if (c.spanGasPpm !== null && c.zeroGasPpm !== null && c.spanGasPpm <= c.zeroGasPpm) {
-    ctx.addIssue({ code: 'custom', message: 'The span gas must be above the zero gas', path: ['spanGasPpm'] });
-  }
-  for (const [gas, before, after] of [['zeroGasPpm', 'zeroBeforePpm', 'zeroAfterPpm'], ['spanGasPpm', 'spanBeforePpm', 'spanAfterPpm']] as const) {
-    if (c[gas] === null && (c[before] !== null || c[after] !== null)) {
-      ctx.addIssue({ code: 'custom', message: `Give the ${gas.startsWith('zero') ? 'zero' : 'span'} gas concentration its readings were taken on`, path: [gas] });
+export const analyzerCheckFields = z
+  .object({
+    siteId: uuid('siteId'),
+    analyzerId: uuid('analyzerId').nullable().default(null),
+    kind: z.enum(ANALYZER_CHECK_KINDS),
+    at: z.string().datetime({ offset: true, message: 'at must be an ISO-8601 date-time' }),
+    skipped: z.boolean().default(false),
+    skipReason: text(500).nullable().default(null),
+    passed: z.boolean().nullable().default(null),
+    co2Ppm: ranged(0, 20000, 'µmol/mol', 'CO2').nullable().default(null),
+    slopeUmolMolS: ranged(-1000, 1000, 'µmol/mol/s', 'Slope').nullable().default(null),
+    clockOffsetS: ranged(-86400, 86400, 's', 'Clock offset').nullable().default(null),
+    /** Calibration: the zero gas (scrubbed air or a cylinder) and the analyzer's readings before and after adjustment. */
+    zeroGasPpm: ranged(0, 20000, 'µmol/mol', 'Zero gas').nullable().default(null),
+    zeroCylinder: cylinder('Zero gas cylinder'),
+    zeroBeforePpm: reading('Zero reading before'),
+    zeroAfterPpm: reading('Zero reading after'),
+    /** Calibration: the span gas cylinder's certified concentration, its id and the readings before and after. */
+    spanGasPpm: ranged(0, 20000, 'µmol/mol', 'Span gas').nullable().default(null),
+    spanCylinder: cylinder('Span gas cylinder'),
+    spanBeforePpm: reading('Span reading before'),
+    spanAfterPpm: reading('Span reading after'),
+    /** As-found drift, reading before − gas (shared/model/calibration.ts); computed whenever the readings are given. */
+    zeroDriftPpm: ranged(-5000, 5000, 'µmol/mol', 'Zero drift').nullable().default(null),
+    driftPpm: ranged(-5000, 5000, 'µmol/mol', 'Drift').nullable().default(null),
+    note: text(2000).default(''),
+  })
+  .superRefine((c, ctx) => {
+    if (c.skipped && !(c.skipReason ?? '').trim())
+      ctx.addIssue({ code: 'custom', message: 'A skipped check needs a reason', path: ['skipReason'] });
+    if (c.kind !== 'calibration' || c.skipped) return;
+    if (c.spanGasPpm !== null && c.spanGasPpm <= 0)
+      ctx.addIssue({ code: 'custom', message: 'The span gas concentration must be above 0 µmol/mol', path: ['spanGasPpm'] });
+    if (c.spanGasPpm !== null && c.zeroGasPpm !== null && c.spanGasPpm <= c.zeroGasPpm) {
+      ctx.addIssue({ code: 'custom', message: 'The span gas must be above the zero gas', path: ['spanGasPpm'] });
     }
-  }
-}).transform((c) => {
-  if (c.kind !== 'calibration') return c;
-  const d = calibrationDrifts(c);
-  return { ...c, zeroDriftPpm: d.zeroDriftPpm ?? c.zeroDriftPpm, driftPpm: d.driftPpm ?? c.driftPpm };
-});
+    for (const [gas, before, after] of [
+      ['zeroGasPpm', 'zeroBeforePpm', 'zeroAfterPpm'],
+      ['spanGasPpm', 'spanBeforePpm', 'spanAfterPpm'],
+    ] as const) {
+      if (c[gas] === null && (c[before] !== null || c[after] !== null)) {
+        ctx.addIssue({
+          code: 'custom',
+          message: `Give the ${gas.startsWith('zero') ? 'zero' : 'span'} gas concentration its readings were taken on`,
+          path: [gas],
+        });
+      }
+    }
+  })
+  .transform((c) => {
+    if (c.kind !== 'calibration') return c;
+    const d = calibrationDrifts(c);
+    return { ...c, zeroDriftPpm: d.zeroDriftPpm ?? c.zeroDriftPpm, driftPpm: d.driftPpm ?? c.driftPpm };
+  });
 
 function isTimeZone(tz: string): boolean {
   try {

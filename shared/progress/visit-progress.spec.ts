@@ -1,13 +1,31 @@
 import {
-  collarProgress, countVisits, dueItems, tallyRound, type ClosureFacts, type DueSettings, type ReadingFacts, type VisitFacts,
+  collarProgress,
+  countVisits,
+  dueItems,
+  tallyRound,
+  type ClosureFacts,
+  type DueSettings,
+  type ReadingFacts,
+  type VisitFacts,
 } from './visit-progress';
 
 const ALL: DueSettings = { dueOffset: true, dueClosures: 2, dueProbes: true };
-const visit = (id: string, extra: Partial<VisitFacts> = {}): VisitFacts =>
-  ({ id, skipped: false, skipReason: null, arrivedAt: '2026-06-01T08:00:00.000Z', ...extra });
+const visit = (id: string, extra: Partial<VisitFacts> = {}): VisitFacts => ({
+  id,
+  skipped: false,
+  skipReason: null,
+  arrivedAt: '2026-06-01T08:00:00.000Z',
+  ...extra,
+});
 const reading = (visitId: string, deleted = false): ReadingFacts => ({ visitId, deleted });
-const closure = (id: string, visitId: string, extra: Partial<ClosureFacts> = {}): ClosureFacts =>
-  ({ id, visitId, redoOfId: null, reviewState: 'unreviewed', series: { tS: [0, 1, 2] }, ...extra });
+const closure = (id: string, visitId: string, extra: Partial<ClosureFacts> = {}): ClosureFacts => ({
+  id,
+  visitId,
+  redoOfId: null,
+  reviewState: 'unreviewed',
+  series: { tS: [0, 1, 2] },
+  ...extra,
+});
 
 /** One round's tally from its records. */
 function round(visits: VisitFacts[], sets: ReadingFacts[] = [], probes: ReadingFacts[] = [], closures: ClosureFacts[] = []) {
@@ -28,15 +46,31 @@ describe('visit progress: one round', () => {
   });
 
   it('when a round has a skipped and a worked visit, then the worked visit wins and its readings count', () => {
-    const t = round([visit('s', { skipped: true, skipReason: 'flooded' }), visit('w')], [reading('w')], [reading('w')],
-      [closure('c1', 'w'), closure('c2', 'w')]);
-    expect(collarProgress(ALL, [t])).toEqual({ state: 'complete', skipReason: null, items: {
-      offset: { state: 'complete', done: 1, needed: 1 }, closures: { state: 'complete', done: 2, needed: 2 }, probes: { state: 'complete', done: 1, needed: 1 } } });
+    const t = round(
+      [visit('s', { skipped: true, skipReason: 'flooded' }), visit('w')],
+      [reading('w')],
+      [reading('w')],
+      [closure('c1', 'w'), closure('c2', 'w')],
+    );
+    expect(collarProgress(ALL, [t])).toEqual({
+      state: 'complete',
+      skipReason: null,
+      items: {
+        offset: { state: 'complete', done: 1, needed: 1 },
+        closures: { state: 'complete', done: 2, needed: 2 },
+        probes: { state: 'complete', done: 1, needed: 1 },
+      },
+    });
   });
 
   it('when every visit of the round is skipped, then it is skipped with the latest reason and their readings do not count', () => {
-    const t = round([visit('a', { skipped: true, skipReason: 'first', arrivedAt: '2026-06-01T08:00:00Z' }),
-      visit('b', { skipped: true, skipReason: 'later', arrivedAt: '2026-06-01T09:00:00Z' })], [reading('a')]);
+    const t = round(
+      [
+        visit('a', { skipped: true, skipReason: 'first', arrivedAt: '2026-06-01T08:00:00Z' }),
+        visit('b', { skipped: true, skipReason: 'later', arrivedAt: '2026-06-01T09:00:00Z' }),
+      ],
+      [reading('a')],
+    );
     const p = collarProgress(ALL, [t]);
     expect(p).toMatchObject({ state: 'skipped', skipReason: 'later' });
     expect(p.items.offset).toEqual({ state: 'skipped', done: 0, needed: 1 });
@@ -54,9 +88,11 @@ describe('visit progress: one round', () => {
       closure('deleted', 'v', { deleted: true }),
       closure('rejected', 'v', { reviewState: 'rejected' }),
       closure('tap-only', 'v', { series: { tS: [] } }),
-      closure('first', 'v'), closure('redo', 'v', { redoOfId: 'first' }),
+      closure('first', 'v'),
+      closure('redo', 'v', { redoOfId: 'first' }),
       // A deleted redo replaces nothing: its original counts again.
-      closure('kept', 'v'), closure('dropped-redo', 'v', { redoOfId: 'kept', deleted: true }),
+      closure('kept', 'v'),
+      closure('dropped-redo', 'v', { redoOfId: 'kept', deleted: true }),
     ];
     const t = round([visit('v')], [], [], closures);
     expect(t.closures).toBe(2);
@@ -74,7 +110,11 @@ describe('visit progress: one round', () => {
   });
 
   it('when nothing is due, then the collar is complete without a visit', () => {
-    expect(collarProgress({ dueOffset: false, dueClosures: 0, dueProbes: false }, [round([])])).toEqual({ state: 'complete', skipReason: null, items: {} });
+    expect(collarProgress({ dueOffset: false, dueClosures: 0, dueProbes: false }, [round([])])).toEqual({
+      state: 'complete',
+      skipReason: null,
+      items: {},
+    });
   });
 });
 

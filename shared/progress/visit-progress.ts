@@ -30,7 +30,8 @@ export interface DueSettings {
 type Live = { id: string; deleted?: boolean };
 export type VisitFacts = Live & Pick<EntityFields<'visit'>, 'skipped' | 'skipReason' | 'arrivedAt'>;
 export type ReadingFacts = { deleted?: boolean } & Pick<EntityFields<'offsetSet'>, 'visitId'>;
-export type ClosureFacts = Live & Pick<EntityFields<'closure'>, 'visitId' | 'redoOfId' | 'reviewState'> & { series: { tS: readonly unknown[] } };
+export type ClosureFacts = Live &
+  Pick<EntityFields<'closure'>, 'visitId' | 'redoOfId' | 'reviewState'> & { series: { tS: readonly unknown[] } };
 
 /** What one visit holds, as counted by the rule (the server's SQL answers exactly these numbers). */
 export interface VisitCount {
@@ -57,8 +58,16 @@ export interface RoundTally {
   closures: number;
 }
 
-export const emptyTally = (): RoundTally =>
-  ({ worked: 0, skips: 0, skipReason: null, skipMs: -Infinity, skipId: '', offsets: 0, probes: 0, closures: 0 });
+export const emptyTally = (): RoundTally => ({
+  worked: 0,
+  skips: 0,
+  skipReason: null,
+  skipMs: -Infinity,
+  skipId: '',
+  offsets: 0,
+  probes: 0,
+  closures: 0,
+});
 
 /** The closures that count, by visit id: live, with samples, not rejected, not redone by a live closure. */
 export function countedClosures(closures: readonly ClosureFacts[]): Map<string, number> {
@@ -74,14 +83,26 @@ export function countedClosures(closures: readonly ClosureFacts[]): Map<string, 
 
 /** Each live visit with what it holds, from the records that name it. */
 export function countVisits(
-  visits: readonly VisitFacts[], offsetSets: readonly ReadingFacts[], probes: readonly ReadingFacts[], closures: readonly ClosureFacts[],
+  visits: readonly VisitFacts[],
+  offsetSets: readonly ReadingFacts[],
+  probes: readonly ReadingFacts[],
+  closures: readonly ClosureFacts[],
 ): VisitCount[] {
   const has = (list: readonly ReadingFacts[]) => new Set(list.filter((r) => !r.deleted).map((r) => r.visitId));
-  const offsets = has(offsetSets), probed = has(probes), closed = countedClosures(closures);
-  return visits.filter((v) => !v.deleted).map((v) => ({
-    id: v.id, skipped: v.skipped, skipReason: v.skipReason, arrivedMs: Date.parse(v.arrivedAt),
-    offsets: offsets.has(v.id) ? 1 : 0, probes: probed.has(v.id) ? 1 : 0, closures: closed.get(v.id) ?? 0,
-  }));
+  const offsets = has(offsetSets),
+    probed = has(probes),
+    closed = countedClosures(closures);
+  return visits
+    .filter((v) => !v.deleted)
+    .map((v) => ({
+      id: v.id,
+      skipped: v.skipped,
+      skipReason: v.skipReason,
+      arrivedMs: Date.parse(v.arrivedAt),
+      offsets: offsets.has(v.id) ? 1 : 0,
+      probes: probed.has(v.id) ? 1 : 0,
+      closures: closed.get(v.id) ?? 0,
+    }));
 }
 
 /** Adds one live visit to its round's tally: a skipped visit adds its skip only, never its readings. */
@@ -89,7 +110,9 @@ export function addVisit(t: RoundTally, v: VisitCount): RoundTally {
   if (v.skipped) {
     t.skips++;
     if (v.arrivedMs > t.skipMs || (v.arrivedMs === t.skipMs && v.id > t.skipId)) {
-      t.skipMs = v.arrivedMs; t.skipId = v.id; t.skipReason = v.skipReason;
+      t.skipMs = v.arrivedMs;
+      t.skipId = v.id;
+      t.skipReason = v.skipReason;
     }
     return t;
   }
@@ -104,7 +127,11 @@ export function tallyRound(visits: readonly VisitCount[]): RoundTally {
   return visits.reduce(addVisit, emptyTally());
 }
 
-export interface ItemProgress { state: ProgressState; done: number; needed: number }
+export interface ItemProgress {
+  state: ProgressState;
+  done: number;
+  needed: number;
+}
 export interface CollarProgress {
   state: ProgressState;
   skipReason: string | null;
@@ -138,26 +165,44 @@ function itemState(done: number, needed: number): ProgressState {
  */
 export function collarProgress(due: DueSettings, rounds: readonly RoundTally[]): CollarProgress {
   const need = { offset: due.dueOffset ? 1 : 0, closures: due.dueClosures, probes: due.dueProbes ? 1 : 0 };
-  let offsetDone = 0, closuresDone = 0, probesDone = 0, skipped = 0, complete = 0, untouched = 0;
+  let offsetDone = 0,
+    closuresDone = 0,
+    probesDone = 0,
+    skipped = 0,
+    complete = 0,
+    untouched = 0;
   let skipReason: string | null = null;
   for (const t of rounds) {
-    if (roundSkipped(t)) { skipped++; skipReason = t.skipReason; continue; }
-    const offset = Math.min(t.offsets, need.offset), closures = Math.min(t.closures, need.closures), probes = Math.min(t.probes, need.probes);
-    offsetDone += offset; closuresDone += closures; probesDone += probes;
+    if (roundSkipped(t)) {
+      skipped++;
+      skipReason = t.skipReason;
+      continue;
+    }
+    const offset = Math.min(t.offsets, need.offset),
+      closures = Math.min(t.closures, need.closures),
+      probes = Math.min(t.probes, need.probes);
+    offsetDone += offset;
+    closuresDone += closures;
+    probesDone += probes;
     if (offset >= need.offset && closures >= need.closures && probes >= need.probes) complete++;
     else if (t.worked === 0) untouched++;
   }
-  const n = rounds.length, allSkipped = skipped === n;
+  const n = rounds.length,
+    allSkipped = skipped === n;
   const item = (done: number, per: number): ItemProgress =>
     sharedItem(allSkipped ? 'skipped' : itemState(done, per * (n - skipped)), done, per * n);
   const items: CollarProgress['items'] = {};
   if (need.offset) items.offset = item(offsetDone, need.offset);
   if (need.closures) items.closures = item(closuresDone, need.closures);
   if (need.probes) items.probes = item(probesDone, need.probes);
-  const state: ProgressState = allSkipped ? 'skipped'
-    : complete + skipped === n ? 'complete'
-    // A skipped round is handled, not progress: skipped + untouched rounds are still "due".
-    : untouched + skipped === n ? 'due' : 'partial';
+  const state: ProgressState = allSkipped
+    ? 'skipped'
+    : complete + skipped === n
+      ? 'complete'
+      : // A skipped round is handled, not progress: skipped + untouched rounds are still "due".
+        untouched + skipped === n
+        ? 'due'
+        : 'partial';
   return { state, skipReason: skipped ? skipReason : null, items };
 }
 

@@ -19,7 +19,11 @@ function cached(map: Map<string, Intl.DateTimeFormat>, timeZone: string, make: (
 
 /** The site's calendar day (YYYY-MM-DD) of an instant. */
 export function localDay(instant: string | number | Date, timeZone: string): string {
-  const f = cached(dayFormats, timeZone, () => new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }));
+  const f = cached(
+    dayFormats,
+    timeZone,
+    () => new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }),
+  );
   return f.format(new Date(instant));
 }
 
@@ -90,13 +94,29 @@ export interface SiteTimeParts {
 
 /** The wall-clock parts of an instant in the site's zone. */
 export function siteTimeParts(instant: string | number | Date, timeZone: string, seconds = false): SiteTimeParts {
-  const f = cached(timeFormats, timeZone, () => new Intl.DateTimeFormat('en-US', {
-    timeZone, hourCycle: 'h23', year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', second: '2-digit',
-  }));
+  const f = cached(
+    timeFormats,
+    timeZone,
+    () =>
+      new Intl.DateTimeFormat('en-US', {
+        timeZone,
+        hourCycle: 'h23',
+        year: 'numeric',
+        month: '2-digit',
+        day: '2-digit',
+        hour: '2-digit',
+        minute: '2-digit',
+        second: '2-digit',
+      }),
+  );
   const p: Record<string, string> = {};
   for (const part of f.formatToParts(new Date(instant))) p[part.type] = part.value;
   const hh = p['hour'] === '24' ? '00' : p['hour'];
-  return { day: `${p['year']}-${p['month']}-${p['day']}`, time: seconds ? `${hh}:${p['minute']}:${p['second']}` : `${hh}:${p['minute']}`, zone: zoneAbbreviation(instant, timeZone) };
+  return {
+    day: `${p['year']}-${p['month']}-${p['day']}`,
+    time: seconds ? `${hh}:${p['minute']}:${p['second']}` : `${hh}:${p['minute']}`,
+    zone: zoneAbbreviation(instant, timeZone),
+  };
 }
 
 export interface SiteTimeOptions {

@@ -33,7 +33,9 @@ export class App {
       // Unsent ops live in IndexedDB and survive a reload, but the person decides, knowing the count.
       const n = this.pendingWork.count();
       this.snackBar
-        .open(`${n} not yet synced. They stay on this device through the update; syncing first is safer.`, 'Reload anyway', { duration: 15000 })
+        .open(`${n} not yet synced. They stay on this device through the update; syncing first is safer.`, 'Reload anyway', {
+          duration: 15000,
+        })
         .onAction()
         .subscribe(() => this.reloadPage());
     }

@@ -51,7 +51,8 @@ describe('daily digest', () => {
     const mail = await smtp.waitFor(LEAD);
 
     const progress = (await lead.get(`/api/campaigns/${CURRENT_CAMPAIGN_ID}/progress`)).body;
-    const codes = (state: string) => progress.collars.filter((c: { state: string }) => c.state === state).map((c: { code: string }) => c.code);
+    const codes = (state: string) =>
+      progress.collars.filter((c: { state: string }) => c.state === state).map((c: { code: string }) => c.code);
     const listed = listedCollars(mail, 'December 2026 survey, two rounds');
     expect(listed.due).toEqual(codes('due'));
     expect(listed.partial).toEqual(codes('partial'));
@@ -63,7 +64,9 @@ describe('daily digest', () => {
     const anomalies = (await lead.get(`/api/sites/${DEMO_SITE_ID}/anomalies`)).body.items;
     expect(mail.text).toContain(`Worth a look (${anomalies.length}, `);
     expect(mail.subject).toBe(`Daily digest: Alder Hollow Field Station, ${localClock(new Date(), 'Europe/Berlin').date}`);
-    expect(mail.html).toContain('<h2 style="font-size:17px;margin:18px 0 6px">December 2026 survey, two rounds (2026-12-01 to 2026-12-04)</h2>');
+    expect(mail.html).toContain(
+      '<h2 style="font-size:17px;margin:18px 0 6px">December 2026 survey, two rounds (2026-12-01 to 2026-12-04)</h2>',
+    );
   });
 
   it('when crew ask for the digest, then they are refused; a lead of another site gets 403', async () => {
@@ -78,7 +81,9 @@ describe('daily digest', () => {
     // 17:30 UTC on a March day is 18:30 in Berlin: past the demo site's 18:00, within the catch-up window.
     const now = new Date('2031-03-05T17:30:00Z');
     const asked = await Promise.all([scheduleDueDigests(t.ds, now), scheduleDueDigests(t.ds, now), scheduleDueDigests(t.ds, now)]);
-    const runs = await t.ds.query(`SELECT site_id, local_date::text AS day FROM digest_run WHERE kind = 'scheduled' AND local_date = '2031-03-05'`);
+    const runs = await t.ds.query(
+      `SELECT site_id, local_date::text AS day FROM digest_run WHERE kind = 'scheduled' AND local_date = '2031-03-05'`,
+    );
     expect(runs.filter((r: { site_id: string }) => r.site_id === DEMO_SITE_ID)).toEqual([{ site_id: DEMO_SITE_ID, day: '2031-03-05' }]);
     expect(asked.flat()).toHaveLength(runs.length);
     const early = await scheduleDueDigests(t.ds, new Date('2031-03-06T16:59:00Z')); // 17:59 in Berlin
@@ -103,14 +108,32 @@ describe('daily digest', () => {
       const mail = await smtp.waitFor(LEAD, { seen: before, timeoutMs: 30_000 });
       expect(mail.subject).toBe(subject);
       await new Promise((r) => setTimeout(r, 4000)); // several more ticks of both processes
-      expect(smtp.messagesTo(LEAD).slice(before).map((m) => m.subject)).toEqual([subject]);
-      const runs = await t.ds.query(`SELECT r.local_date::text AS day, j.state FROM digest_run r JOIN job_progress j ON j.id = r.job_id
-                                      WHERE r.site_id = $1 AND r.kind = 'scheduled'`, [DEMO_SITE_ID]);
+      expect(
+        smtp
+          .messagesTo(LEAD)
+          .slice(before)
+          .map((m) => m.subject),
+      ).toEqual([subject]);
+      const runs = await t.ds.query(
+        `SELECT r.local_date::text AS day, j.state FROM digest_run r JOIN job_progress j ON j.id = r.job_id
+                                      WHERE r.site_id = $1 AND r.kind = 'scheduled'`,
+        [DEMO_SITE_ID],
+      );
       expect(runs).toEqual([{ day: clock.date, state: 'completed' }]);
-      const delivered = await t.ds.query(`SELECT d.email FROM digest_delivery d JOIN digest_run r ON r.id = d.run_id WHERE r.kind = 'scheduled'`);
+      const delivered = await t.ds.query(
+        `SELECT d.email FROM digest_delivery d JOIN digest_run r ON r.id = d.run_id WHERE r.kind = 'scheduled'`,
+      );
       expect(delivered).toEqual([{ email: LEAD }]);
     } finally {
-      await Promise.all(children.map((c) => new Promise((r) => { c.once('exit', r); c.kill('SIGTERM'); })));
+      await Promise.all(
+        children.map(
+          (c) =>
+            new Promise((r) => {
+              c.once('exit', r);
+              c.kill('SIGTERM');
+            }),
+        ),
+      );
     }
   });
 });

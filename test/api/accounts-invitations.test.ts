@@ -28,7 +28,12 @@ describe('invitations', () => {
 
   beforeAll(async () => {
     smtp = await startFakeSmtp();
-    Object.assign(process.env, { SMTP_HOST: smtp.host, SMTP_PORT: String(smtp.port), APP_ORIGIN: ORIGIN, MAIL_FROM: 'Fluxwalk <noreply@fluxwalk.invalid>' });
+    Object.assign(process.env, {
+      SMTP_HOST: smtp.host,
+      SMTP_PORT: String(smtp.port),
+      APP_ORIGIN: ORIGIN,
+      MAIL_FROM: 'Fluxwalk <noreply@fluxwalk.invalid>',
+    });
     t = await startTestApp();
     admin = await signIn(t.app, demoEmail('admin'));
     lead = await signIn(t.app, demoEmail('lead'));
@@ -47,7 +52,11 @@ describe('invitations', () => {
   it('when the admin invites a crew member, then the mailed link lets them choose a password and sign in', async () => {
     const { res, mail } = await invite(admin, 'Hazel.Quarry@fluxwalk.example');
     expect(res.status).toBe(201);
-    expect(res.body.invitation).toMatchObject({ email: 'hazel.quarry@fluxwalk.example', roles: ['crew'], sites: [{ id: DEMO_SITE_ID, name: 'Alder Hollow Field Station' }] });
+    expect(res.body.invitation).toMatchObject({
+      email: 'hazel.quarry@fluxwalk.example',
+      roles: ['crew'],
+      sites: [{ id: DEMO_SITE_ID, name: 'Alder Hollow Field Station' }],
+    });
     const days = (Date.parse(res.body.invitation.expiresAt) - Date.now()) / 86_400_000;
     expect(days).toBeGreaterThan(6.99);
     expect(days).toBeLessThanOrEqual(7);
@@ -60,7 +69,11 @@ describe('invitations', () => {
     const v = await visitor(t);
     const lookup = await v.post('/api/invitations/lookup', { token });
     expect(lookup.status).toBe(200);
-    expect(lookup.body.invitation).toMatchObject({ email: 'hazel.quarry@fluxwalk.example', roles: ['crew'], sites: [{ name: 'Alder Hollow Field Station' }] });
+    expect(lookup.body.invitation).toMatchObject({
+      email: 'hazel.quarry@fluxwalk.example',
+      roles: ['crew'],
+      sites: [{ name: 'Alder Hollow Field Station' }],
+    });
     const accepted = await v.post('/api/invitations/accept', { token, displayName: 'Hazel Quarry', password: GOOD_PASSWORD });
     expect(accepted.status).toBe(201);
     expect(accepted.body.account).toEqual({ email: 'hazel.quarry@fluxwalk.example' });
@@ -73,7 +86,9 @@ describe('invitations', () => {
   it('when an invitation is stored, then only a SHA-256 of its token is in the database', async () => {
     const { mail } = await invite(admin, 'stored.hashed@fluxwalk.example');
     const token = linkToken(mail!, 'accept-invitation');
-    const rows: { token_hash: string }[] = await t.ds.query(`SELECT token_hash FROM account_token WHERE email = 'stored.hashed@fluxwalk.example'`);
+    const rows: { token_hash: string }[] = await t.ds.query(
+      `SELECT token_hash FROM account_token WHERE email = 'stored.hashed@fluxwalk.example'`,
+    );
     expect(rows).toEqual([{ token_hash: createHash('sha256').update(token).digest('hex') }]);
     expect(JSON.stringify(await t.ds.query(`SELECT * FROM account_token`))).not.toContain(token);
   });
@@ -114,7 +129,12 @@ describe('invitations', () => {
   it('when the chosen password is short, common or contains the address, then accepting names the problem and keeps the link usable', async () => {
     const token = linkToken((await invite(admin, 'weak.choice@fluxwalk.example')).mail!, 'accept-invitation');
     const v = await visitor(t);
-    const tries: [string, RegExp][] = [['short1', /at least 10/], ['Password2026!', /too common/], ['qwertyuiop', /too common/], ['weak.choice-garden', /e-mail address/]];
+    const tries: [string, RegExp][] = [
+      ['short1', /at least 10/],
+      ['Password2026!', /too common/],
+      ['qwertyuiop', /too common/],
+      ['weak.choice-garden', /e-mail address/],
+    ];
     for (const [password, why] of tries) {
       const res = await v.post('/api/invitations/accept', { token, displayName: 'Weak', password });
       expect(res.status).toBe(400);
@@ -128,16 +148,25 @@ describe('invitations', () => {
     expect(own.res.status).toBe(201);
     expect(own.mail!.text).toContain('Imke Dahlberg has invited you');
 
-    const lab = await lead.post('/api/invitations', { email: 'lead.invites.lab@fluxwalk.example', roles: ['lab'], siteIds: [DEMO_SITE_ID] });
+    const lab = await lead.post('/api/invitations', {
+      email: 'lead.invites.lab@fluxwalk.example',
+      roles: ['lab'],
+      siteIds: [DEMO_SITE_ID],
+    });
     expect(lab.status).toBe(403);
     expect(lab.body.error.message).toBe('Leads invite crew only; ask an admin for other roles');
 
-    const other = (await admin.post('/api/sites', { name: 'Birch Fen (not the lead\'s)', timezone: 'UTC', elevationM: 12 })).body.record;
-    const elsewhere = await lead.post('/api/invitations', { email: 'lead.invites.elsewhere@fluxwalk.example', roles: ['crew'], siteIds: [other.id] });
+    const other = (await admin.post('/api/sites', { name: "Birch Fen (not the lead's)", timezone: 'UTC', elevationM: 12 })).body.record;
+    const elsewhere = await lead.post('/api/invitations', {
+      email: 'lead.invites.elsewhere@fluxwalk.example',
+      roles: ['crew'],
+      siteIds: [other.id],
+    });
     expect(elsewhere.status).toBe(403);
     expect(elsewhere.body.error.message).toBe('Leads invite to their own sites only');
-    expect(await t.ds.query(`SELECT email FROM account_token WHERE email LIKE 'lead.invites.%' ORDER BY email`))
-      .toEqual([{ email: 'lead.invites.crew@fluxwalk.example' }]);
+    expect(await t.ds.query(`SELECT email FROM account_token WHERE email LIKE 'lead.invites.%' ORDER BY email`)).toEqual([
+      { email: 'lead.invites.crew@fluxwalk.example' },
+    ]);
     expect(smtp.messagesTo('lead.invites.lab@fluxwalk.example')).toEqual([]);
   });
 
@@ -145,7 +174,11 @@ describe('invitations', () => {
     const { res, mail } = await invite(admin, 'new.lab@fluxwalk.example', ['lab'], []);
     expect(res.status).toBe(201);
     const v = await visitor(t);
-    await v.post('/api/invitations/accept', { token: linkToken(mail!, 'accept-invitation'), displayName: 'New Lab', password: GOOD_PASSWORD });
+    await v.post('/api/invitations/accept', {
+      token: linkToken(mail!, 'accept-invitation'),
+      displayName: 'New Lab',
+      password: GOOD_PASSWORD,
+    });
     const s = await signIn(t.app, 'new.lab@fluxwalk.example', GOOD_PASSWORD);
     const sites: { id: string }[] = await t.ds.query(`SELECT id FROM site WHERE NOT deleted`);
     expect([...s.login.body.user.siteIds].sort()).toEqual(sites.map((x) => x.id).sort());
@@ -156,7 +189,9 @@ describe('invitations', () => {
     const existing = await admin.post('/api/invitations', { email: demoEmail('crew'), roles: ['crew'], siteIds: [DEMO_SITE_ID] });
     expect(existing.status).toBe(409);
     const crew = await signIn(t.app, demoEmail('crew'));
-    expect((await crew.post('/api/invitations', { email: 'by.crew@fluxwalk.example', roles: ['crew'], siteIds: [DEMO_SITE_ID] })).status).toBe(403);
+    expect(
+      (await crew.post('/api/invitations', { email: 'by.crew@fluxwalk.example', roles: ['crew'], siteIds: [DEMO_SITE_ID] })).status,
+    ).toBe(403);
   });
 
   it('when an invitation is withdrawn, then its link stops working', async () => {

@@ -35,7 +35,13 @@ describe('passwords', () => {
   });
 
   async function newUser(email: string): Promise<void> {
-    const res = await admin.post('/api/users', { email, displayName: 'Test Person', password: FIRST, roles: ['crew'], siteIds: [DEMO_SITE_ID] });
+    const res = await admin.post('/api/users', {
+      email,
+      displayName: 'Test Person',
+      password: FIRST,
+      roles: ['crew'],
+      siteIds: [DEMO_SITE_ID],
+    });
     expect(res.status).toBe(201);
   }
 
@@ -68,7 +74,9 @@ describe('passwords', () => {
     expect(mail.text).toContain(`${ORIGIN}/reset-password?token=`);
     const token = resetToken(mail);
     // The expiry is set by the server's clock, the creation time by the database's: a millisecond apart.
-    const [row] = await t.ds.query(`SELECT extract(epoch FROM expires_at - created_at)::float8 AS ttl_s FROM account_token WHERE kind = 'reset' AND email = 'forgetful@fluxwalk.example'`);
+    const [row] = await t.ds.query(
+      `SELECT extract(epoch FROM expires_at - created_at)::float8 AS ttl_s FROM account_token WHERE kind = 'reset' AND email = 'forgetful@fluxwalk.example'`,
+    );
     expect(Math.abs(row.ttl_s - 3600)).toBeLessThan(5);
 
     const weak = await v.post('/api/auth/password-reset/confirm', { token, password: 'sunshine123' });
@@ -105,7 +113,9 @@ describe('passwords', () => {
     await v.post('/api/auth/password-reset', { email: 'twice.asked@fluxwalk.example' });
     const second = resetToken(await smtp.waitFor('twice.asked@fluxwalk.example', { seen: 1 }));
     expect((await v.post('/api/auth/password-reset/confirm', { token: first, password: 'Sedge-meadow-3141' })).status).toBe(410);
-    await t.ds.query(`UPDATE account_token SET expires_at = now() - interval '1 second' WHERE email = 'twice.asked@fluxwalk.example' AND used_at IS NULL AND revoked_at IS NULL`);
+    await t.ds.query(
+      `UPDATE account_token SET expires_at = now() - interval '1 second' WHERE email = 'twice.asked@fluxwalk.example' AND used_at IS NULL AND revoked_at IS NULL`,
+    );
     expect((await v.post('/api/auth/password-reset/confirm', { token: second, password: 'Sedge-meadow-3141' })).status).toBe(410);
     expect((await signIn(t.app, 'twice.asked@fluxwalk.example', FIRST)).login.status).toBe(200);
   });

@@ -9,9 +9,21 @@ const NOW = new Date('2026-07-20T12:00:00Z');
 
 /** A calibration as the crew records it at the car: zero on scrubbed air, span on a 1000 µmol/mol cylinder. */
 const calibration = (siteId: string, analyzerId: string, at: string, spanBeforePpm: number, extra: Record<string, unknown> = {}) => ({
-  siteId, analyzerId, kind: 'calibration', at, passed: true,
-  zeroGasPpm: 0, zeroCylinder: null, zeroBeforePpm: 1.5, zeroAfterPpm: 0.2,
-  spanGasPpm: 1000, spanCylinder: 'CYL-4471', spanBeforePpm, spanAfterPpm: 1000.6, note: 'Zero on the soda-lime column', ...extra,
+  siteId,
+  analyzerId,
+  kind: 'calibration',
+  at,
+  passed: true,
+  zeroGasPpm: 0,
+  zeroCylinder: null,
+  zeroBeforePpm: 1.5,
+  zeroAfterPpm: 0.2,
+  spanGasPpm: 1000,
+  spanCylinder: 'CYL-4471',
+  spanBeforePpm,
+  spanAfterPpm: 1000.6,
+  note: 'Zero on the soda-lime column',
+  ...extra,
 });
 
 describe('Analyzer calibrations: recorded by the crew, judged on the Board', () => {
@@ -41,32 +53,60 @@ describe('Analyzer calibrations: recorded by the crew, judged on the Board', () 
 
   it('when the crew pushes a calibration from the phone, then it is stored with who recorded it and the drift from its readings', async () => {
     const id = randomUUID();
-    const res = await push(crew, [{ opId: randomUUID(), entity: 'analyzerCheck', id, baseRev: null, op: 'upsert',
-      fields: calibration(siteId, analyzer['Calibrated']!, '2026-07-10T06:40:00Z', 1008.4) }]);
+    const res = await push(crew, [
+      {
+        opId: randomUUID(),
+        entity: 'analyzerCheck',
+        id,
+        baseRev: null,
+        op: 'upsert',
+        fields: calibration(siteId, analyzer['Calibrated']!, '2026-07-10T06:40:00Z', 1008.4),
+      },
+    ]);
     expect(res.body.results[0]).toMatchObject({ status: 'applied', rev: 1 });
     const stored = (await lead.get(`/api/analyzer-checks/${id}`)).body.record;
-    expect(stored).toMatchObject({ kind: 'calibration', spanCylinder: 'CYL-4471', zeroCylinder: null, zeroBeforePpm: 1.5, spanAfterPpm: 1000.6,
-      zeroDriftPpm: 1.5, driftPpm: 8.4, note: 'Zero on the soda-lime column' });
+    expect(stored).toMatchObject({
+      kind: 'calibration',
+      spanCylinder: 'CYL-4471',
+      zeroCylinder: null,
+      zeroBeforePpm: 1.5,
+      spanAfterPpm: 1000.6,
+      zeroDriftPpm: 1.5,
+      driftPpm: 8.4,
+      note: 'Zero on the soda-lime column',
+    });
     const crewId = (await crew.get('/api/auth/me')).body.user.id;
     expect(stored.updatedBy).toBe(crewId);
   });
 
   it('when the crew posts a calibration over REST with a span gas of 0, then it is refused field by field and nothing is stored', async () => {
     const before = (await lead.get(`/api/analyzer-checks?siteId=${siteId}&analyzerId=${analyzer['Never']}`)).body.total;
-    const res = await crew.post('/api/analyzer-checks', calibration(siteId, analyzer['Never']!, '2026-07-11T06:40:00Z', 3, { spanGasPpm: 0 }));
+    const res = await crew.post(
+      '/api/analyzer-checks',
+      calibration(siteId, analyzer['Never']!, '2026-07-11T06:40:00Z', 3, { spanGasPpm: 0 }),
+    );
     expect(res.status).toBe(400);
-    expect(res.body.error.fields).toEqual(expect.arrayContaining([{ path: 'spanGasPpm', message: 'The span gas concentration must be above 0 µmol/mol' }]));
+    expect(res.body.error.fields).toEqual(
+      expect.arrayContaining([{ path: 'spanGasPpm', message: 'The span gas concentration must be above 0 µmol/mol' }]),
+    );
     expect((await lead.get(`/api/analyzer-checks?siteId=${siteId}&analyzerId=${analyzer['Never']}`)).body.total).toBe(before);
   });
 
   it('when calibrations are on record, then the Board reports only the overdue and the never-calibrated analyzers', async () => {
     const overdue = (await anomalies()).filter((a) => a.kind === 'calibration-overdue');
-    expect(overdue.map((a) => [a.recordId, a.value, a.threshold]).sort()).toEqual([
-      [analyzer['Never'], null, 180], [analyzer['Overdue'], 200, 180], [analyzer['Drifted'], null, 180]].sort());
-    expect(overdue.find((a) => a.recordId === analyzer['Overdue'])!.message).toBe('Unit Overdue: last calibrated 200 days ago (interval 180 days)');
+    expect(overdue.map((a) => [a.recordId, a.value, a.threshold]).sort()).toEqual(
+      [
+        [analyzer['Never'], null, 180],
+        [analyzer['Overdue'], 200, 180],
+        [analyzer['Drifted'], null, 180],
+      ].sort(),
+    );
+    expect(overdue.find((a) => a.recordId === analyzer['Overdue'])!.message).toBe(
+      'Unit Overdue: last calibrated 200 days ago (interval 180 days)',
+    );
   });
 
-  it('when the admin lengthens an analyzer\'s interval in Setup, then its calibration is no longer overdue', async () => {
+  it("when the admin lengthens an analyzer's interval in Setup, then its calibration is no longer overdue", async () => {
     const a = (await admin.get(`/api/analyzers/${analyzer['Overdue']}`)).body.record;
     expect((await admin.patch(`/api/analyzers/${a.id}`, { rev: a.rev, calibrationIntervalDays: 365 })).status).toBe(200);
     expect((await anomalies()).some((x) => x.recordId === analyzer['Overdue'])).toBe(false);
@@ -79,11 +119,13 @@ describe('Analyzer calibrations: recorded by the crew, judged on the Board', () 
     expect(found.some((a) => a.kind === 'calibration-overdue' && a.recordId === analyzer['Drifted'])).toBe(false);
     const drift = found.filter((a) => a.kind === 'calibration-drift');
     expect(drift).toEqual([expect.objectContaining({ recordId: res.body.record.id, severity: 'problem', value: 3.5, threshold: 2 })]);
-    expect(drift[0]!.message).toBe('Unit Drifted: drift found at calibration on 2026-07-18 was zero +1.5 µmol/mol, span +35 µmol/mol '
-      + '(3.5 % of the 1000 µmol/mol span gas, limit 2 %): check the closures since the calibration before it');
+    expect(drift[0]!.message).toBe(
+      'Unit Drifted: drift found at calibration on 2026-07-18 was zero +1.5 µmol/mol, span +35 µmol/mol ' +
+        '(3.5 % of the 1000 µmol/mol span gas, limit 2 %): check the closures since the calibration before it',
+    );
   });
 
-  it('when the site limit is raised above the drift, then the drift problem goes; a lead\'s correction of the reading recomputes the drift', async () => {
+  it("when the site limit is raised above the drift, then the drift problem goes; a lead's correction of the reading recomputes the drift", async () => {
     const site = (await admin.get(`/api/sites/${siteId}`)).body.record;
     expect((await admin.patch(`/api/sites/${siteId}`, { rev: site.rev, calibrationDriftLimitPct: 4 })).status).toBe(200);
     expect((await anomalies()).filter((a) => a.kind === 'calibration-drift')).toEqual([]);
@@ -97,7 +139,9 @@ describe('Analyzer calibrations: recorded by the crew, judged on the Board', () 
   it('when the Board is asked over HTTP, then a calibrated analyzer is absent from the calibration anomalies', async () => {
     const res = await lead.get(`/api/sites/${siteId}/anomalies`);
     expect(res.status).toBe(200);
-    const ids = res.body.items.filter((a: { kind: string }) => a.kind === 'calibration-overdue').map((a: { recordId: string }) => a.recordId);
+    const ids = res.body.items
+      .filter((a: { kind: string }) => a.kind === 'calibration-overdue')
+      .map((a: { recordId: string }) => a.recordId);
     expect(ids).toContain(analyzer['Never']);
     expect(ids).not.toContain(analyzer['Calibrated']);
   });
@@ -122,8 +166,12 @@ describe('Bench: the calibration behind each closure', () => {
       const from = after ? '2026-07-06' : '2026-03-30';
       // Site days (the queue's `day`), as the crew counts them.
       const age = Math.round((Date.parse(q.day) - Date.parse(from)) / 86_400_000);
-      expect([q.calibrationAgeDays, q.calibrationIntervalDays, q.calibrationDriftPct, q.calibrationDriftLimitPct])
-        .toEqual([age, 180, after ? 0.46 : 0.31, 2]);
+      expect([q.calibrationAgeDays, q.calibrationIntervalDays, q.calibrationDriftPct, q.calibrationDriftLimitPct]).toEqual([
+        age,
+        180,
+        after ? 0.46 : 0.31,
+        2,
+      ]);
     }
   });
 });

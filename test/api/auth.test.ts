@@ -3,7 +3,9 @@ import { demoEmail, signIn, startTestApp, type TestApp } from '../support/test-a
 
 describe('sign-in', () => {
   let t: TestApp;
-  beforeAll(async () => { t = await startTestApp(); });
+  beforeAll(async () => {
+    t = await startTestApp();
+  });
   afterAll(() => t.close());
 
   it('when a demo user signs in with the right password, then the answer lists their roles and sites', async () => {
@@ -48,7 +50,9 @@ describe('sign-in', () => {
     const behindProxy = await startTestApp({ trustProxy: 'loopback' });
     try {
       const agent = request.agent(behindProxy.app);
-      const res = await agent.post('/api/auth/login').set('X-Forwarded-Proto', 'https')
+      const res = await agent
+        .post('/api/auth/login')
+        .set('X-Forwarded-Proto', 'https')
         .send({ email: demoEmail('lab'), password: 'fluxwalk-demo' });
       expect(res.status).toBe(200);
       const cookie = (res.headers['set-cookie'] as unknown as string[]).find((c) => c.startsWith('fluxwalk.sid='))!;
@@ -81,7 +85,10 @@ describe('sign-in', () => {
   it('when a disabled user gives the right password, then the answer is 403 "account disabled"', async () => {
     const admin = await signIn(t.app, demoEmail('admin'));
     const created = await admin.post('/api/users', {
-      email: `disabled-${Date.now()}@fluxwalk.example`, displayName: 'Test Disabled', password: 'a-long-password-1', roles: ['crew'],
+      email: `disabled-${Date.now()}@fluxwalk.example`,
+      displayName: 'Test Disabled',
+      password: 'a-long-password-1',
+      roles: ['crew'],
     });
     expect(created.status).toBe(201);
     const open = await signIn(t.app, created.body.user.email, 'a-long-password-1');
@@ -97,7 +104,9 @@ describe('sign-in', () => {
 
 describe('sign-in rate limit', () => {
   let t: TestApp;
-  beforeAll(async () => { t = await startTestApp({ loginMaxFailures: 3, loginWindowMs: 60_000 }); });
+  beforeAll(async () => {
+    t = await startTestApp({ loginMaxFailures: 3, loginWindowMs: 60_000 });
+  });
   afterAll(() => t.close());
 
   // Own users: the counters live in the shared test database, and other test files sign in the demo users.

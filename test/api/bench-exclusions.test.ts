@@ -9,8 +9,11 @@ const SPIKE = [45, 46, 47, 48];
 
 /** Ordinary least squares of y on x, written out (textbook normal equations), apart from the engine. */
 function ols(x: number[], y: number[]) {
-  const n = x.length, mx = x.reduce((a, b) => a + b, 0) / n, my = y.reduce((a, b) => a + b, 0) / n;
-  const sxy = x.reduce((a, xi, i) => a + (xi - mx) * (y[i] - my), 0), sxx = x.reduce((a, xi) => a + (xi - mx) ** 2, 0);
+  const n = x.length,
+    mx = x.reduce((a, b) => a + b, 0) / n,
+    my = y.reduce((a, b) => a + b, 0) / n;
+  const sxy = x.reduce((a, xi, i) => a + (xi - mx) * (y[i] - my), 0),
+    sxx = x.reduce((a, xi) => a + (xi - mx) ** 2, 0);
   return { slope: sxy / sxx, intercept: my - (sxy / sxx) * mx, n };
 }
 
@@ -23,9 +26,16 @@ describe('Bench: points left out of a fit', () => {
   const co2Ppm = tS.map((s) => 420 + 0.6 * s + 0.3 * Math.sin(s * 1.7) + (SPIKE.includes(s) ? 35 : 0));
 
   const newClosure = async (): Promise<Wire> => {
-    const res = await lead.post('/api/closures', { id: randomUUID(), siteId: w.site.id, visitId: w.visit.id, collarId: w.collar.id,
-      campaignId: w.campaign.id, startedAt: '2026-06-01T08:10:00Z', settleS: 20,
-      series: { tS, co2Ppm, tempC: tS.map(() => 15), pressureKpa: tS.map(() => 98) } });
+    const res = await lead.post('/api/closures', {
+      id: randomUUID(),
+      siteId: w.site.id,
+      visitId: w.visit.id,
+      collarId: w.collar.id,
+      campaignId: w.campaign.id,
+      startedAt: '2026-06-01T08:10:00Z',
+      settleS: 20,
+      series: { tS, co2Ppm, tempC: tS.map(() => 15), pressureKpa: tS.map(() => 98) },
+    });
     expect(res.status).toBe(201);
     return res.body.record;
   };
@@ -48,7 +58,10 @@ describe('Bench: points left out of a fit', () => {
     expect(after.series).toEqual(c['series']);
     expect(after.results.raw).toEqual((c['results'] as Record<string, unknown>)['raw']);
     const keep = tS.filter((s) => s >= 20 && !SPIKE.includes(s));
-    const ref = ols(keep.map((s) => s - 20), keep.map((s) => co2Ppm[s]));
+    const ref = ols(
+      keep.map((s) => s - 20),
+      keep.map((s) => co2Ppm[s]),
+    );
     const review = after.results.review;
     expect(review.linear.n).toBe(ref.n);
     expect(review.linear.slopePpmS).toBeCloseTo(ref.slope, 10);
@@ -77,10 +90,19 @@ describe('Bench: points left out of a fit', () => {
     expect(back.body.record.reviewExclusions).toEqual([]);
     expect(back.body.record.fluxUmolM2S).toBe(c['fluxUmolM2S']);
     expect(back.body.record.flags).toEqual(c['flags']);
-    const h = (await lab.get(`/api/bench/closures/${c.id}/history`)).body.items.filter((e: { field: string }) => e.field === 'reviewExclusions');
+    const h = (await lab.get(`/api/bench/closures/${c.id}/history`)).body.items.filter(
+      (e: { field: string }) => e.field === 'reviewExclusions',
+    );
     expect(h.map((e: { newValue: unknown }) => e.newValue)).toEqual([
-      [{ index: 45, reason: 'Chamber knocked' }, { index: 46, reason: 'Chamber knocked' }],
-      [{ index: 45, reason: 'Chamber knocked' }, { index: 46, reason: 'Chamber knocked' }, { index: 70, reason: 'Analyzer glitch' }],
+      [
+        { index: 45, reason: 'Chamber knocked' },
+        { index: 46, reason: 'Chamber knocked' },
+      ],
+      [
+        { index: 45, reason: 'Chamber knocked' },
+        { index: 46, reason: 'Chamber knocked' },
+        { index: 70, reason: 'Analyzer glitch' },
+      ],
       [],
     ]);
     expect(h.every((e: { userName: string | null; at: string }) => e.userName && !Number.isNaN(Date.parse(e.at)))).toBe(true);
@@ -96,7 +118,7 @@ describe('Bench: points left out of a fit', () => {
     }
     // The lead is a member of the site: a plain edit of the field is refused by the closure's field rule too.
     const patch = await lead.patch(`/api/closures/${c.id}`, { rev: c.rev, reviewExclusions: [{ index: 50, reason: 'Spike' }] });
-    expect([patch.status, patch.body.error.message]).toEqual([403, 'Only the lab or an admin may leave points out of a closure\'s fit']);
+    expect([patch.status, patch.body.error.message]).toEqual([403, "Only the lab or an admin may leave points out of a closure's fit"]);
     expect((await stored(c.id)).rev).toBe(c.rev);
     const byAdmin = await admin.post(`/api/bench/closures/${c.id}/exclusions`, { indices: [50], reason: 'Spike' });
     expect(byAdmin.status).toBe(200);

@@ -18,8 +18,17 @@ describe('Bench: moving a closure to another visit', () => {
     if (res.status !== 201) throw new Error(`${path}: ${res.status} ${JSON.stringify(res.body)}`);
     return res.body.record;
   };
-  const closureAt = (visit: Wire, collarId: string) => post(lead, '/api/closures', { id: randomUUID(), siteId: visit['siteId'], visitId: visit.id,
-    collarId, campaignId: visit['campaignId'], startedAt: '2026-06-01T08:20:00Z', settleS: 20, series });
+  const closureAt = (visit: Wire, collarId: string) =>
+    post(lead, '/api/closures', {
+      id: randomUUID(),
+      siteId: visit['siteId'],
+      visitId: visit.id,
+      collarId,
+      campaignId: visit['campaignId'],
+      startedAt: '2026-06-01T08:20:00Z',
+      settleS: 20,
+      series,
+    });
 
   beforeAll(async () => {
     t = await startTestApp();
@@ -27,14 +36,31 @@ describe('Bench: moving a closure to another visit', () => {
     w = await buildWorld({ admin, lead, lab }, LEAD_ID, `mv${randomUUID().slice(0, 6)}`);
     other = await buildWorld({ admin, lead, lab }, LEAD_ID, `mo${randomUUID().slice(0, 6)}`);
     // The right collar: wider than the tapped one and set deeper, so area and volume differ.
-    collar2 = await post(lead, '/api/collars', { siteId: w.site.id, code: `R${randomUUID().slice(0, 4)}`, plotId: w.plot.id, diameterCm: 25 });
-    visit2 = await post(lead, '/api/visits', { siteId: w.site.id, campaignId: w.campaign.id, round: 1, collarId: collar2.id, arrivedAt: '2026-06-01T08:15:00Z' });
-    await post(lead, '/api/offset-sets', { siteId: w.site.id, visitId: visit2.id, collarId: collar2.id, campaignId: w.campaign.id,
-      takenAt: '2026-06-01T08:16:00Z', readingsCm: [4.5, 5, 5.5] });
+    collar2 = await post(lead, '/api/collars', {
+      siteId: w.site.id,
+      code: `R${randomUUID().slice(0, 4)}`,
+      plotId: w.plot.id,
+      diameterCm: 25,
+    });
+    visit2 = await post(lead, '/api/visits', {
+      siteId: w.site.id,
+      campaignId: w.campaign.id,
+      round: 1,
+      collarId: collar2.id,
+      arrivedAt: '2026-06-01T08:15:00Z',
+    });
+    await post(lead, '/api/offset-sets', {
+      siteId: w.site.id,
+      visitId: visit2.id,
+      collarId: collar2.id,
+      campaignId: w.campaign.id,
+      takenAt: '2026-06-01T08:16:00Z',
+      readingsCm: [4.5, 5, 5.5],
+    });
   });
   afterAll(() => t.close());
 
-  it('when the lab moves a closure to the right collar\'s visit, then it belongs there and its flux is the one a closure recorded there has', async () => {
+  it("when the lab moves a closure to the right collar's visit, then it belongs there and its flux is the one a closure recorded there has", async () => {
     const c = await closureAt(w.visit, w.collar.id);
     const res = await lab.post(`/api/bench/closures/${c.id}/move`, { visitId: visit2.id });
     expect(res.status).toBe(200);
@@ -49,8 +75,11 @@ describe('Bench: moving a closure to another visit', () => {
     expect(moved.results.areaCm2).not.toBe((c['results'] as { areaCm2: number }).areaCm2);
     expect(moved.fluxUmolM2S).not.toBe(c['fluxUmolM2S']);
     const h = (await lab.get(`/api/bench/closures/${c.id}/history`)).body.items;
-    expect(h.map((e: { kind: string; field: string; oldValue: unknown; newValue: unknown }) => [e.kind, e.field, e.oldValue, e.newValue])).toEqual([
-      ['move', 'visitId', w.visit.id, visit2.id], ['move', 'collarId', w.collar.id, collar2.id],
+    expect(
+      h.map((e: { kind: string; field: string; oldValue: unknown; newValue: unknown }) => [e.kind, e.field, e.oldValue, e.newValue]),
+    ).toEqual([
+      ['move', 'visitId', w.visit.id, visit2.id],
+      ['move', 'collarId', w.collar.id, collar2.id],
     ]);
     expect(h[0]).toMatchObject({ userName: expect.any(String), oldFluxUmolM2S: c['fluxUmolM2S'], newFluxUmolM2S: moved.fluxUmolM2S });
     expect((await lab.get(`/api/bench/closures/${c.id}`)).body.closure.visitId).toBe(visit2.id);
@@ -66,8 +95,20 @@ describe('Bench: moving a closure to another visit', () => {
 
   it('when the target is at another site, in another campaign, the same visit or no visit, then 400/404 with the reason and nothing changes', async () => {
     const c = await closureAt(w.visit, w.collar.id);
-    const camp2 = await post(lead, '/api/campaigns', { siteId: w.site.id, name: `Other ${randomUUID().slice(0, 4)}`, startsOn: '2026-07-01', endsOn: '2026-07-02', rounds: 1 });
-    const visitElsewhere = await post(lead, '/api/visits', { siteId: w.site.id, campaignId: camp2.id, round: 1, collarId: collar2.id, arrivedAt: '2026-07-01T08:00:00Z' });
+    const camp2 = await post(lead, '/api/campaigns', {
+      siteId: w.site.id,
+      name: `Other ${randomUUID().slice(0, 4)}`,
+      startsOn: '2026-07-01',
+      endsOn: '2026-07-02',
+      rounds: 1,
+    });
+    const visitElsewhere = await post(lead, '/api/visits', {
+      siteId: w.site.id,
+      campaignId: camp2.id,
+      round: 1,
+      collarId: collar2.id,
+      arrivedAt: '2026-07-01T08:00:00Z',
+    });
     const tries: [Record<string, unknown>, number, RegExp][] = [
       [{ visitId: other.visit.id }, 400, /another site/],
       [{ visitId: visitElsewhere.id }, 400, /same campaign/],
@@ -85,8 +126,17 @@ describe('Bench: moving a closure to another visit', () => {
 
   it('when the closure is one of a redo pair, then neither is moved alone', async () => {
     const first = await closureAt(w.visit, w.collar.id);
-    const redo = await post(lead, '/api/closures', { id: randomUUID(), siteId: w.site.id, visitId: w.visit.id, collarId: w.collar.id,
-      campaignId: w.campaign.id, startedAt: '2026-06-01T08:30:00Z', settleS: 20, series, redoOfId: first.id });
+    const redo = await post(lead, '/api/closures', {
+      id: randomUUID(),
+      siteId: w.site.id,
+      visitId: w.visit.id,
+      collarId: w.collar.id,
+      campaignId: w.campaign.id,
+      startedAt: '2026-06-01T08:30:00Z',
+      settleS: 20,
+      series,
+      redoOfId: first.id,
+    });
     for (const c of [first, redo]) {
       const res = await lab.post(`/api/bench/closures/${c.id}/move`, { visitId: visit2.id });
       expect([res.status, res.body.error.message]).toEqual([409, expect.stringMatching(/redo/)]);

@@ -9,8 +9,11 @@ const LEAD_ID = '1a6f0c3e-2d4b-4e8a-9c1f-3b5d7e9f1a02';
 function series() {
   const tS = Array.from({ length: 121 }, (_, i) => i);
   return {
-    tS, co2Ppm: tS.map((t) => 420 + 0.3 * t - 0.0004 * t * t + 0.05 * Math.sin(t)),
-    h2oMmolMol: tS.map(() => 12), pressureKpa: tS.map(() => 97.5), tempC: tS.map(() => 18),
+    tS,
+    co2Ppm: tS.map((t) => 420 + 0.3 * t - 0.0004 * t * t + 0.05 * Math.sin(t)),
+    h2oMmolMol: tS.map(() => 12),
+    pressureKpa: tS.map(() => 97.5),
+    tempC: tS.map(() => 18),
   };
 }
 
@@ -28,24 +31,55 @@ describe('Recompute when an offset set is superseded', () => {
   afterAll(() => t.close());
 
   async function visitOn(campaignId: string, round: number, day: string) {
-    return (await lead.post('/api/visits', { siteId: world.site.id, campaignId, round, collarId: world.collar.id, arrivedAt: `${day}T09:00:00Z` })).body.record;
+    return (
+      await lead.post('/api/visits', { siteId: world.site.id, campaignId, round, collarId: world.collar.id, arrivedAt: `${day}T09:00:00Z` })
+    ).body.record;
   }
   async function offsetSet(visit: any, day: string, readingsCm: number[], supersedesId: string | null = null) {
-    const res = await lead.post('/api/offset-sets', { siteId: world.site.id, visitId: visit.id, collarId: world.collar.id,
-      campaignId: visit.campaignId, takenAt: `${day}T09:05:00Z`, readingsCm, supersedesId });
+    const res = await lead.post('/api/offset-sets', {
+      siteId: world.site.id,
+      visitId: visit.id,
+      collarId: world.collar.id,
+      campaignId: visit.campaignId,
+      takenAt: `${day}T09:05:00Z`,
+      readingsCm,
+      supersedesId,
+    });
     expect(res.status).toBe(201);
     return res.body.record;
   }
   async function closure(visit: any, day: string) {
-    const res = await lead.post('/api/closures', { id: randomUUID(), siteId: world.site.id, visitId: visit.id, collarId: world.collar.id,
-      campaignId: visit.campaignId, startedAt: `${day}T09:10:00Z`, settleS: 20, series: series() });
+    const res = await lead.post('/api/closures', {
+      id: randomUUID(),
+      siteId: world.site.id,
+      visitId: visit.id,
+      collarId: world.collar.id,
+      campaignId: visit.campaignId,
+      startedAt: `${day}T09:10:00Z`,
+      settleS: 20,
+      series: series(),
+    });
     expect(res.status).toBe(201);
     return res.body.record;
   }
 
   it('then exactly the closures whose volume came from the old set are recomputed; a reviewed one keeps its decision and shows old and new flux; a second run changes nothing', async () => {
-    await admin.post('/api/chamber-profiles', { siteId: world.site.id, name: 'Chamber T', validFrom: '2026-01-01', chamberVolumeCm3: 4000, loopVolumeCm3: 150 });
-    const camp = (await lead.post('/api/campaigns', { siteId: world.site.id, name: 'Recompute', startsOn: '2026-06-01', endsOn: '2026-06-05', rounds: 3 })).body.record;
+    await admin.post('/api/chamber-profiles', {
+      siteId: world.site.id,
+      name: 'Chamber T',
+      validFrom: '2026-01-01',
+      chamberVolumeCm3: 4000,
+      loopVolumeCm3: 150,
+    });
+    const camp = (
+      await lead.post('/api/campaigns', {
+        siteId: world.site.id,
+        name: 'Recompute',
+        startsOn: '2026-06-01',
+        endsOn: '2026-06-05',
+        rounds: 3,
+      })
+    ).body.record;
     const v1 = await visitOn(camp.id, 1, '2026-06-01');
     const v2 = await visitOn(camp.id, 2, '2026-06-02');
     const v3 = await visitOn(camp.id, 3, '2026-06-03');
@@ -63,7 +97,13 @@ describe('Recompute when an offset set is superseded', () => {
     const [request] = await t.ds.query(`SELECT id, data FROM job_outbox WHERE data->>'collarId' = $1`, [world.collar.id]);
     const scope = request.data as RecomputeScope;
     // From the set's own day on, and any closure that borrowed a later set (none here).
-    expect(scope).toEqual({ siteId: world.site.id, collarId: world.collar.id, fromDay: '2026-06-01', orFlagged: 'offset-after', reason: 'offset set superseded' });
+    expect(scope).toEqual({
+      siteId: world.site.id,
+      collarId: world.collar.id,
+      fromDay: '2026-06-01',
+      orFlagged: 'offset-after',
+      reason: 'offset set superseded',
+    });
     const job = (await lab.get(`/api/jobs/${request.id}`)).body.job;
     expect(job).toMatchObject({ name: 'closure-recompute', state: 'queued', siteId: world.site.id });
 
@@ -81,9 +121,18 @@ describe('Recompute when an offset set is superseded', () => {
     // flux = p·V·(1 − χw)/(R·T·A)·dχ/dt (ideal gas law, DESIGN.md): same series, so fluxes scale with the volume.
     expect(n2.fluxUmolM2S / c2.fluxUmolM2S).toBeCloseTo(n2.results.volumeCm3 / c2.results.volumeCm3, 12);
     expect(n1.reviewState).toBe('accepted');
-    expect(n1.results.recomputedSinceReview).toMatchObject({ oldFluxUmolM2S: accepted.fluxUmolM2S, newFluxUmolM2S: n1.fluxUmolM2S, reason: 'offset set superseded' });
+    expect(n1.results.recomputedSinceReview).toMatchObject({
+      oldFluxUmolM2S: accepted.fluxUmolM2S,
+      newFluxUmolM2S: n1.fluxUmolM2S,
+      reason: 'offset set superseded',
+    });
     const history = (await lab.get(`/api/bench/closures/${c1.id}/history`)).body.items;
-    expect(history.at(-1)).toMatchObject({ kind: 'recompute', oldFluxUmolM2S: accepted.fluxUmolM2S, newFluxUmolM2S: n1.fluxUmolM2S, jobId: request.id });
+    expect(history.at(-1)).toMatchObject({
+      kind: 'recompute',
+      oldFluxUmolM2S: accepted.fluxUmolM2S,
+      newFluxUmolM2S: n1.fluxUmolM2S,
+      jobId: request.id,
+    });
     const queue = (await lab.get(`/api/bench/queue?siteId=${world.site.id}&recomputedSinceReview=true`)).body.items;
     expect(queue.map((i: any) => i.id)).toEqual([c1.id]);
 
@@ -111,23 +160,75 @@ describe('Recompute when an offset set is superseded', () => {
 
   it('when an offset set is added after every closure of its collar, then no recompute is asked for; when a closure had borrowed a later set, then one is', async () => {
     await t.ds.query(`DELETE FROM job_outbox WHERE data->>'collarId' = $1`, [world.collar.id]);
-    const camp = (await lead.post('/api/campaigns', { siteId: world.site.id, name: 'Later sets', startsOn: '2026-08-01', endsOn: '2026-08-30', rounds: 3 })).body.record;
-    const asked = async () => (await t.ds.query(`SELECT data FROM job_outbox WHERE data->>'collarId' = $1`, [world.collar.id])).map((r: { data: RecomputeScope }) => r.data);
+    const camp = (
+      await lead.post('/api/campaigns', {
+        siteId: world.site.id,
+        name: 'Later sets',
+        startsOn: '2026-08-01',
+        endsOn: '2026-08-30',
+        rounds: 3,
+      })
+    ).body.record;
+    const asked = async () =>
+      (await t.ds.query(`SELECT data FROM job_outbox WHERE data->>'collarId' = $1`, [world.collar.id])).map(
+        (r: { data: RecomputeScope }) => r.data,
+      );
     // Every closure so far is in June and took June's sets: an August set changes none of them.
     const v1 = await visitOn(camp.id, 1, '2026-08-10');
     await offsetSet(v1, '2026-08-10', [2.5, 2.5, 2.5, 2.5]);
     expect(await asked()).toEqual([]);
     // A closure with no set on or before its day takes the next one (offset-after); a set placed before it changes its volume.
-    const other = (await admin.post('/api/collars', { siteId: world.site.id, plotId: world.collar.plotId, code: `LATE-${Date.now() % 100000}`,
-      shape: 'round', diameterCm: 20, heightCm: 10, installedOn: '2026-01-01' })).body.record;
+    const other = (
+      await admin.post('/api/collars', {
+        siteId: world.site.id,
+        plotId: world.collar.plotId,
+        code: `LATE-${Date.now() % 100000}`,
+        shape: 'round',
+        diameterCm: 20,
+        heightCm: 10,
+        installedOn: '2026-01-01',
+      })
+    ).body.record;
     expect(other?.id).toBeDefined();
-    const visit = (await lead.post('/api/visits', { siteId: world.site.id, campaignId: camp.id, round: 2, collarId: other.id, arrivedAt: '2026-08-20T09:00:00Z' })).body.record;
-    const late = await lead.post('/api/offset-sets', { siteId: world.site.id, visitId: visit.id, collarId: other.id, campaignId: camp.id, takenAt: '2026-08-25T09:05:00Z', readingsCm: [3, 3, 3, 3] });
+    const visit = (
+      await lead.post('/api/visits', {
+        siteId: world.site.id,
+        campaignId: camp.id,
+        round: 2,
+        collarId: other.id,
+        arrivedAt: '2026-08-20T09:00:00Z',
+      })
+    ).body.record;
+    const late = await lead.post('/api/offset-sets', {
+      siteId: world.site.id,
+      visitId: visit.id,
+      collarId: other.id,
+      campaignId: camp.id,
+      takenAt: '2026-08-25T09:05:00Z',
+      readingsCm: [3, 3, 3, 3],
+    });
     expect(late.status).toBe(201);
-    const c = (await lead.post('/api/closures', { id: randomUUID(), siteId: world.site.id, visitId: visit.id, collarId: other.id, campaignId: camp.id,
-      startedAt: '2026-08-20T09:10:00Z', settleS: 20, series: series() })).body.record;
+    const c = (
+      await lead.post('/api/closures', {
+        id: randomUUID(),
+        siteId: world.site.id,
+        visitId: visit.id,
+        collarId: other.id,
+        campaignId: camp.id,
+        startedAt: '2026-08-20T09:10:00Z',
+        settleS: 20,
+        series: series(),
+      })
+    ).body.record;
     expect(c.flags).toContain('offset-after');
-    const early = await lead.post('/api/offset-sets', { siteId: world.site.id, visitId: visit.id, collarId: other.id, campaignId: camp.id, takenAt: '2026-08-26T09:05:00Z', readingsCm: [1, 1, 1, 1] });
+    const early = await lead.post('/api/offset-sets', {
+      siteId: world.site.id,
+      visitId: visit.id,
+      collarId: other.id,
+      campaignId: camp.id,
+      takenAt: '2026-08-26T09:05:00Z',
+      readingsCm: [1, 1, 1, 1],
+    });
     expect(early.status).toBe(201);
     const [request] = await t.ds.query(`SELECT data FROM job_outbox WHERE data->>'collarId' = $1`, [other.id]);
     expect(request?.data).toMatchObject({ collarId: other.id, fromDay: '2026-08-26', orFlagged: 'offset-after' });

@@ -19,7 +19,7 @@ describe('Bench review: decisions on closures', () => {
   });
   afterAll(() => t.close());
 
-  it('when the lab moves the settle time, then the flux is the engine\'s fit after the new settle time and the raw fit is kept', async () => {
+  it("when the lab moves the settle time, then the flux is the engine's fit after the new settle time and the raw fit is kept", async () => {
     const c = await pickClosure(lab, used);
     used.push(String(c['id']));
     const raw = c['results'] as Record<string, any>;
@@ -38,11 +38,21 @@ describe('Bench review: decisions on closures', () => {
     const measured = Array.isArray(s['pressureKpa']) && s['pressureKpa'].some((v: unknown) => typeof v === 'number');
     // The exponential model of Kutzbach et al. (2007, Biogeosciences 4) and the line, fitted after the settle time.
     const engine = fitClosure({
-      tS: s['tS'], co2Ppm: s['co2Ppm'], h2oMmolMol: s['h2oMmolMol'], tempC: s['tempC'],
+      tS: s['tS'],
+      co2Ppm: s['co2Ppm'],
+      h2oMmolMol: s['h2oMmolMol'],
+      tempC: s['tempC'],
       pressureKpa: measured ? s['pressureKpa'] : pressureFromElevationKpa(site.elevationM),
-      volumeCm3: raw['volumeCm3'], areaCm2: raw['areaCm2'], settleS: 45, windowEndS: null, model: 'auto',
-      ambientPpm: raw['ambientPpm'], ambientMarginPpm: site.ambientMarginPpm, precisionPpm: analyzer.precisionPpm,
-      pressureIsDefault: !measured, offsetAfter: raw['raw'].flags.includes('offset-after'),
+      volumeCm3: raw['volumeCm3'],
+      areaCm2: raw['areaCm2'],
+      settleS: 45,
+      windowEndS: null,
+      model: 'auto',
+      ambientPpm: raw['ambientPpm'],
+      ambientMarginPpm: site.ambientMarginPpm,
+      precisionPpm: analyzer.precisionPpm,
+      pressureIsDefault: !measured,
+      offsetAfter: raw['raw'].flags.includes('offset-after'),
     });
     const after = res.body.record;
     expect(after.fluxUmolM2S).toBe(engine.selected!.fluxUmolM2S);
@@ -59,13 +69,20 @@ describe('Bench review: decisions on closures', () => {
     const settle = await lab.patch(`/api/closures/${c['id']}`, { rev: c['rev'], settleS: 5 });
     expect(settle.status).toBe(403);
     const series = c['series'] as Record<string, number[]>;
-    const co2 = await lab.patch(`/api/closures/${c['id']}`, { rev: c['rev'], series: { ...series, co2Ppm: series['co2Ppm'].map((v) => v + 1) } });
+    const co2 = await lab.patch(`/api/closures/${c['id']}`, {
+      rev: c['rev'],
+      series: { ...series, co2Ppm: series['co2Ppm'].map((v) => v + 1) },
+    });
     expect(co2.status).toBe(403);
     expect((await lab.get(`/api/closures/${c['id']}`)).body.record.rev).toBe(c['rev']);
     const review = await lab.patch(`/api/closures/${c['id']}`, { rev: c['rev'], reviewState: 'accepted' });
     expect(review.status).toBe(200);
     expect(review.body.record.reviewState).toBe('accepted');
-    const crewReview = await crew.patch(`/api/closures/${c['id']}`, { rev: review.body.record.rev, reviewState: 'rejected', reviewReason: 'x' });
+    const crewReview = await crew.patch(`/api/closures/${c['id']}`, {
+      rev: review.body.record.rev,
+      reviewState: 'rejected',
+      reviewReason: 'x',
+    });
     expect(crewReview.status).toBe(403);
   });
 
@@ -75,7 +92,11 @@ describe('Bench review: decisions on closures', () => {
     const bare = await lab.patch(`/api/closures/${c['id']}`, { rev: c['rev'], reviewState: 'rejected' });
     expect(bare.status).toBe(400);
     expect(bare.body.error.fields).toEqual([{ path: 'reviewReason', message: 'A rejection needs a reason' }]);
-    const ok = await lab.patch(`/api/closures/${c['id']}`, { rev: c['rev'], reviewState: 'rejected', reviewReason: 'Chamber knocked at 50 s' });
+    const ok = await lab.patch(`/api/closures/${c['id']}`, {
+      rev: c['rev'],
+      reviewState: 'rejected',
+      reviewReason: 'Chamber knocked at 50 s',
+    });
     expect(ok.status).toBe(200);
   });
 
@@ -87,8 +108,11 @@ describe('Bench review: decisions on closures', () => {
     await lab.patch(`/api/closures/${c['id']}`, { rev: b.rev, reviewState: 'rejected', reviewReason: 'Curve bends: leak' });
     const h = (await lab.get(`/api/bench/closures/${c['id']}/history`)).body.items;
     expect(h.map((e: any) => [e.field, e.oldValue, e.newValue])).toEqual([
-      ['reviewSettleS', null, 30], ['reviewModel', null, 'linear'], ['reviewWindowEndS', null, 100],
-      ['reviewState', 'unreviewed', 'rejected'], ['reviewReason', null, 'Curve bends: leak'],
+      ['reviewSettleS', null, 30],
+      ['reviewModel', null, 'linear'],
+      ['reviewWindowEndS', null, 100],
+      ['reviewState', 'unreviewed', 'rejected'],
+      ['reviewReason', null, 'Curve bends: leak'],
     ]);
     expect(h.every((e: any) => e.kind === 'decision' && e.userName && e.userId)).toBe(true);
     expect(h[0].oldFluxUmolM2S).toBe(c['fluxUmolM2S']);
@@ -108,7 +132,12 @@ describe('Bench review: decisions on closures', () => {
         seeded.push(h.find((e: any) => e.field === 'reviewState' && e.oldValue === 'unreviewed' && e.newValue === state));
       }
       expect(seeded.filter(Boolean).length).toBeGreaterThan(0);
-      expect(seeded.find(Boolean)).toMatchObject({ kind: 'decision', oldValue: 'unreviewed', newValue: state, userName: expect.any(String) });
+      expect(seeded.find(Boolean)).toMatchObject({
+        kind: 'decision',
+        oldValue: 'unreviewed',
+        newValue: state,
+        userName: expect.any(String),
+      });
     }
   });
 

@@ -23,19 +23,42 @@ describe('Board: anomalies and devices', () => {
     crew = await signIn(t.app, demoEmail('crew'));
     w = await makeSiteWithCollar(admin, lead, LEAD_ID);
     const site = w.site.id;
-    await admin.post('/api/chamber-profiles', { siteId: site, name: 'Dark 20 cm', validFrom: '2026-01-01', chamberVolumeCm3: 4000, loopVolumeCm3: 150 });
-    const collar = async (code: string) => (await lead.post('/api/collars', { siteId: site, code, plotId: w.plot.id, diameterCm: 20 })).body.record.id as string;
+    await admin.post('/api/chamber-profiles', {
+      siteId: site,
+      name: 'Dark 20 cm',
+      validFrom: '2026-01-01',
+      chamberVolumeCm3: 4000,
+      loopVolumeCm3: 150,
+    });
+    const collar = async (code: string) =>
+      (await lead.post('/api/collars', { siteId: site, code, plotId: w.plot.id, diameterCm: 20 })).body.record.id as string;
     ids['c1'] = w.collar.id;
     ids['c2'] = await collar('C2');
     ids['c3'] = await collar('C3');
-    const camp = async (name: string, day: string) => (await lead.post('/api/campaigns', { siteId: site, name, startsOn: day, endsOn: day, rounds: 1 })).body.record.id as string;
+    const camp = async (name: string, day: string) =>
+      (await lead.post('/api/campaigns', { siteId: site, name, startsOn: day, endsOn: day, rounds: 1 })).body.record.id as string;
     ids['june'] = await camp('June', '2026-06-15');
     ids['july'] = await camp('July', '2026-07-15');
-    const visit = async (campaignId: string, collarId: string, day: string) => (await lead.post('/api/visits', {
-      siteId: site, campaignId, round: 1, collarId, arrivedAt: `${day}T09:00:00Z` })).body.record.id as string;
+    const visit = async (campaignId: string, collarId: string, day: string) =>
+      (
+        await lead.post('/api/visits', {
+          siteId: site,
+          campaignId,
+          round: 1,
+          collarId,
+          arrivedAt: `${day}T09:00:00Z`,
+        })
+      ).body.record.id as string;
     const offsets = async (campaignId: string, collarId: string, day: string, readingsCm: number[]) => {
       const visitId = await visit(campaignId, collarId, day);
-      const res = await lead.post('/api/offset-sets', { siteId: site, visitId, collarId, campaignId, takenAt: `${day}T09:02:00Z`, readingsCm });
+      const res = await lead.post('/api/offset-sets', {
+        siteId: site,
+        visitId,
+        collarId,
+        campaignId,
+        takenAt: `${day}T09:02:00Z`,
+        readingsCm,
+      });
       if (res.status !== 201) throw new Error(JSON.stringify(res.body));
       return { visitId, id: res.body.record.id as string };
     };
@@ -48,17 +71,41 @@ describe('Board: anomalies and devices', () => {
     ids['c2Offset'] = c2.id;
     // A closure whose CO2 falls: the engine flags it negative-flux.
     const tS = Array.from({ length: 120 }, (_, i) => i);
-    const closure = await lead.post('/api/closures', { siteId: site, visitId: c1.visitId, collarId: ids['c1'], campaignId: ids['july'],
-      startedAt: '2026-07-15T09:05:00Z', settleS: 20,
-      series: { tS, co2Ppm: tS.map((s) => 480 - 0.5 * s), h2oMmolMol: tS.map(() => 12), pressureKpa: tS.map(() => 97), tempC: tS.map(() => 18) } });
+    const closure = await lead.post('/api/closures', {
+      siteId: site,
+      visitId: c1.visitId,
+      collarId: ids['c1'],
+      campaignId: ids['july'],
+      startedAt: '2026-07-15T09:05:00Z',
+      settleS: 20,
+      series: {
+        tS,
+        co2Ppm: tS.map((s) => 480 - 0.5 * s),
+        h2oMmolMol: tS.map(() => 12),
+        pressureKpa: tS.map(() => 97),
+        tempC: tS.map(() => 18),
+      },
+    });
     if (closure.status !== 201) throw new Error(JSON.stringify(closure.body));
     ids['closure'] = closure.body.record.id;
     await lead.post('/api/collar-events', { siteId: site, collarId: ids['c2'], kind: 'reseated', date: '2026-07-18', note: 'Frost heave' });
     const analyzer = (await admin.post('/api/analyzers', { siteId: site, name: 'Unit B', calibrationIntervalDays: 180 })).body.record.id;
     ids['analyzer'] = analyzer;
-    await lead.post('/api/analyzer-checks', { siteId: site, analyzerId: analyzer, kind: 'calibration', at: '2026-01-01T08:00:00Z', passed: true });
-    const leak = await lead.post('/api/analyzer-checks', { siteId: site, analyzerId: analyzer, kind: 'leak', at: '2026-07-15T07:30:00Z',
-      skipped: true, skipReason: 'Sealed plate left at the station' });
+    await lead.post('/api/analyzer-checks', {
+      siteId: site,
+      analyzerId: analyzer,
+      kind: 'calibration',
+      at: '2026-01-01T08:00:00Z',
+      passed: true,
+    });
+    const leak = await lead.post('/api/analyzer-checks', {
+      siteId: site,
+      analyzerId: analyzer,
+      kind: 'leak',
+      at: '2026-07-15T07:30:00Z',
+      skipped: true,
+      skipReason: 'Sealed plate left at the station',
+    });
     ids['leak'] = leak.body.record.id;
   });
   afterAll(() => t.close());
@@ -67,7 +114,9 @@ describe('Board: anomalies and devices', () => {
     const { campaignId, items } = await findAnomalies(t.ds, w.site.id, { campaignId: ids['july'], now: NOW, notVisitedDays: 30 });
     expect(campaignId).toBe(ids['july']);
     const pick = (kind: string) => items.filter((a) => a.kind === kind);
-    expect(pick('offset-moved')).toEqual([expect.objectContaining({ collarId: ids['c1'], recordId: ids['c1Offset'], value: 1.5, threshold: 1, severity: 'problem' })]);
+    expect(pick('offset-moved')).toEqual([
+      expect.objectContaining({ collarId: ids['c1'], recordId: ids['c1Offset'], value: 1.5, threshold: 1, severity: 'problem' }),
+    ]);
     expect(pick('offset-spread')).toEqual([expect.objectContaining({ collarId: ids['c2'], recordId: ids['c2Offset'], threshold: 3 })]);
     expect(pick('offset-spread')[0].value).toBeCloseTo(13.1, 1); // 2 × 100π / (4150 + 100π × 2) × 100
     expect(pick('closure-flag')).toEqual([expect.objectContaining({ recordId: ids['closure'], collarCode: 'C1' })]);
@@ -96,8 +145,17 @@ describe('Board: anomalies and devices', () => {
   });
 
   it('when the same anomalies are asked a year later, then every collar counts as not visited and settling is over', async () => {
-    const { items } = await findAnomalies(t.ds, w.site.id, { campaignId: ids['july'], now: new Date('2027-07-20T12:00:00Z'), notVisitedDays: 30 });
-    expect(items.filter((a) => a.kind === 'not-visited').map((a) => a.collarCode).sort()).toEqual(['C1', 'C2', 'C3']);
+    const { items } = await findAnomalies(t.ds, w.site.id, {
+      campaignId: ids['july'],
+      now: new Date('2027-07-20T12:00:00Z'),
+      notVisitedDays: 30,
+    });
+    expect(
+      items
+        .filter((a) => a.kind === 'not-visited')
+        .map((a) => a.collarCode)
+        .sort(),
+    ).toEqual(['C1', 'C2', 'C3']);
     expect(items.filter((a) => a.kind === 'settling')).toEqual([]);
   });
 
@@ -107,7 +165,8 @@ describe('Board: anomalies and devices', () => {
     expect(res.body.campaignId).toBe(ids['july']);
     expect(res.body.items.some((a: { kind: string }) => a.kind === 'offset-moved')).toBe(true);
     expect((await crew.get(`/api/sites/${w.site.id}/anomalies`)).status).toBe(403);
-    const other = (await admin.post('/api/sites', { name: `Elsewhere ${randomUUID().slice(0, 6)}`, timezone: 'UTC', elevationM: 100 })).body.record.id;
+    const other = (await admin.post('/api/sites', { name: `Elsewhere ${randomUUID().slice(0, 6)}`, timezone: 'UTC', elevationM: 100 })).body
+      .record.id;
     expect((await lead.get(`/api/sites/${other}/anomalies`)).status).toBe(403);
   });
 

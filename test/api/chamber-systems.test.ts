@@ -9,7 +9,13 @@ const R = 8.314462618; // CODATA 2018, exact
 /** A straight closure, 0.5 ppm/s, dry air, 100 kPa; `tempC` null = the analyzer file has no chamber temperature. */
 function series(tempC: number | null, start = 420) {
   const tS = Array.from({ length: 121 }, (_, i) => i);
-  return { tS, co2Ppm: tS.map((t) => start + 0.5 * t), h2oMmolMol: tS.map(() => 0), pressureKpa: tS.map(() => 100), tempC: tempC === null ? null : tS.map(() => tempC) };
+  return {
+    tS,
+    co2Ppm: tS.map((t) => start + 0.5 * t),
+    h2oMmolMol: tS.map(() => 0),
+    pressureKpa: tS.map(() => 100),
+    tempC: tempC === null ? null : tS.map(() => tempC),
+  };
 }
 /** Ideal-gas flux (DESIGN.md): p·V/(R·T·A)·dχ/dt, ×10 for kPa·cm³/cm² → µmol m⁻² s⁻¹ with the slope in ppm/s. */
 const flux = (volumeCm3: number, tempC: number, slope = 0.5) => (10 * 100 * volumeCm3 * slope) / (R * (tempC + 273.15) * Math.PI * 100);
@@ -28,10 +34,32 @@ describe('Several chamber systems at one site, and the chamber air temperature w
     lead = await signIn(t.app, demoEmail('lead'));
     const siteId = world.site.id;
     // Two systems on the same day: the short chamber's version is the newest of the site.
-    tall = (await admin.post('/api/chamber-profiles', { siteId, name: 'Tall', validFrom: '2026-03-01', chamberVolumeCm3: 6000, loopVolumeCm3: 150 })).body.record;
-    short = (await admin.post('/api/chamber-profiles', { siteId, name: 'Short', validFrom: '2026-05-01', chamberVolumeCm3: 2500, loopVolumeCm3: 90 })).body.record;
+    tall = (
+      await admin.post('/api/chamber-profiles', {
+        siteId,
+        name: 'Tall',
+        validFrom: '2026-03-01',
+        chamberVolumeCm3: 6000,
+        loopVolumeCm3: 150,
+      })
+    ).body.record;
+    short = (
+      await admin.post('/api/chamber-profiles', {
+        siteId,
+        name: 'Short',
+        validFrom: '2026-05-01',
+        chamberVolumeCm3: 2500,
+        loopVolumeCm3: 90,
+      })
+    ).body.record;
     // A second version of the short chamber on the same day as a tall one is allowed (different chambers).
-    const sameDay = await admin.post('/api/chamber-profiles', { siteId, name: 'Short', validFrom: '2026-03-01', chamberVolumeCm3: 2400, loopVolumeCm3: 90 });
+    const sameDay = await admin.post('/api/chamber-profiles', {
+      siteId,
+      name: 'Short',
+      validFrom: '2026-03-01',
+      chamberVolumeCm3: 2400,
+      loopVolumeCm3: 90,
+    });
     expect(sameDay.status).toBe(201);
     analyzerA = (await admin.post('/api/analyzers', { siteId, name: 'A' })).body.record;
     analyzerB = (await admin.post('/api/analyzers', { siteId, name: 'B' })).body.record;
@@ -40,21 +68,46 @@ describe('Several chamber systems at one site, and the chamber air temperature w
     expect((await check(analyzerA.id, '2026-06-01T06:00:00Z', 418)).status).toBe(201);
     expect((await check(analyzerB.id, '2026-06-01T06:30:00Z', 431)).status).toBe(201);
     expect((await check(analyzerA.id, '2026-06-01T21:30:00Z', 470)).status).toBe(201); // the night round's own reading
-    visit = (await lead.post('/api/visits', { siteId, campaignId: world.campaign.id, round: 1, collarId: world.collar.id,
-      arrivedAt: '2026-06-01T09:00:00Z' })).body.record;
-    await lead.post('/api/offset-sets', { siteId, visitId: visit.id, collarId: world.collar.id, campaignId: world.campaign.id,
-      takenAt: '2026-06-01T09:05:00Z', readingsCm: [offsetCm, offsetCm, offsetCm] });
+    visit = (
+      await lead.post('/api/visits', {
+        siteId,
+        campaignId: world.campaign.id,
+        round: 1,
+        collarId: world.collar.id,
+        arrivedAt: '2026-06-01T09:00:00Z',
+      })
+    ).body.record;
+    await lead.post('/api/offset-sets', {
+      siteId,
+      visitId: visit.id,
+      collarId: world.collar.id,
+      campaignId: world.campaign.id,
+      takenAt: '2026-06-01T09:05:00Z',
+      readingsCm: [offsetCm, offsetCm, offsetCm],
+    });
   });
   afterAll(() => t.close());
 
-  const closure = (over: Record<string, unknown>) => lead.post('/api/closures', { id: randomUUID(), siteId: world.site.id, visitId: visit.id,
-    collarId: world.collar.id, campaignId: world.campaign.id, settleS: 20, ...over });
+  const closure = (over: Record<string, unknown>) =>
+    lead.post('/api/closures', {
+      id: randomUUID(),
+      siteId: world.site.id,
+      visitId: visit.id,
+      collarId: world.collar.id,
+      campaignId: world.campaign.id,
+      settleS: 20,
+      ...over,
+    });
 
   it('when two systems measure on one day, then each closure gets its own chamber’s volume and its own analyzer’s nearest ambient', async () => {
     const area = Math.PI * 100;
-    const a = (await closure({ profileId: tall.id, analyzerId: analyzerA.id, startedAt: '2026-06-01T09:10:00Z', series: series(20) })).body.record;
-    const b = (await closure({ profileId: short.id, analyzerId: analyzerB.id, startedAt: '2026-06-01T09:20:00Z', series: series(20) })).body.record;
-    const night = (await closure({ profileId: tall.id, analyzerId: analyzerA.id, startedAt: '2026-06-01T23:00:00Z', series: series(20, 530) })).body.record;
+    const a = (await closure({ profileId: tall.id, analyzerId: analyzerA.id, startedAt: '2026-06-01T09:10:00Z', series: series(20) })).body
+      .record;
+    const b = (await closure({ profileId: short.id, analyzerId: analyzerB.id, startedAt: '2026-06-01T09:20:00Z', series: series(20) })).body
+      .record;
+    const night = (
+      await closure({ profileId: tall.id, analyzerId: analyzerA.id, startedAt: '2026-06-01T23:00:00Z', series: series(20, 530) })
+    ).body.record;
 
     expect(a.results).toMatchObject({ profileId: tall.id, profileName: 'Tall', profileSource: 'closure', ambientPpm: 418 });
     expect(a.results.volumeCm3).toBeCloseTo(6000 + 150 + area * offsetCm, 6);
@@ -73,19 +126,27 @@ describe('Several chamber systems at one site, and the chamber air temperature w
   });
 
   it('when the lab corrects a closure’s profile, then the flux follows and the history keeps the change; the crew’s raw data stay closed to the lab', async () => {
-    const c = (await closure({ profileId: short.id, analyzerId: analyzerA.id, startedAt: '2026-06-01T11:00:00Z', series: series(20) })).body.record;
+    const c = (await closure({ profileId: short.id, analyzerId: analyzerA.id, startedAt: '2026-06-01T11:00:00Z', series: series(20) })).body
+      .record;
     const fixed = await lab.patch(`/api/closures/${c.id}`, { rev: c.rev, profileId: tall.id });
     expect(fixed.status).toBe(200);
     expect(fixed.body.record.results.profileName).toBe('Tall');
-    expect(fixed.body.record.fluxUmolM2S / c.fluxUmolM2S).toBeCloseTo((6150 + Math.PI * 100 * offsetCm) / (2590 + Math.PI * 100 * offsetCm), 6);
+    expect(fixed.body.record.fluxUmolM2S / c.fluxUmolM2S).toBeCloseTo(
+      (6150 + Math.PI * 100 * offsetCm) / (2590 + Math.PI * 100 * offsetCm),
+      6,
+    );
     const history = (await lab.get(`/api/bench/closures/${c.id}/history`)).body.items;
-    expect(history).toEqual(expect.arrayContaining([expect.objectContaining({ field: 'profileId', oldValue: short.id, newValue: tall.id })]));
+    expect(history).toEqual(
+      expect.arrayContaining([expect.objectContaining({ field: 'profileId', oldValue: short.id, newValue: tall.id })]),
+    );
     const raw = await lab.patch(`/api/closures/${c.id}`, { rev: fixed.body.record.rev, settleS: 30 });
     expect(raw.status).toBe(403);
   });
 
   it('when the analyzer file has no chamber temperature, then the visit’s air temperature is used, else the site default, each flagged', async () => {
-    const siteDefault = (await closure({ profileId: tall.id, analyzerId: analyzerA.id, startedAt: '2026-06-01T12:00:00Z', series: series(null) })).body.record;
+    const siteDefault = (
+      await closure({ profileId: tall.id, analyzerId: analyzerA.id, startedAt: '2026-06-01T12:00:00Z', series: series(null) })
+    ).body.record;
     expect(siteDefault.results.airTempSource).toBe('site-default');
     expect(siteDefault.results.airTempC).toBe(15);
     expect(siteDefault.flags).toContain('temp-site-default');
@@ -97,7 +158,10 @@ describe('Several chamber systems at one site, and the chamber air temperature w
     expect(bad.status).toBe(400);
     const patched = await lead.patch(`/api/visits/${visit.id}`, { rev: current.rev, conditions: { ...current.conditions, airTempC: 4 } });
     expect(patched.status).toBe(200);
-    const [job] = await t.ds.query(`SELECT id, data FROM job_outbox WHERE data->>'reason' = 'visit air temperature changed' AND data->>'siteId' = $1`, [world.site.id]);
+    const [job] = await t.ds.query(
+      `SELECT id, data FROM job_outbox WHERE data->>'reason' = 'visit air temperature changed' AND data->>'siteId' = $1`,
+      [world.site.id],
+    );
     const out = await recomputeClosures(t.ds, job.data as RecomputeScope, { jobId: job.id });
     expect(out.changedIds).toContain(siteDefault.id);
     const after = (await lab.get(`/api/closures/${siteDefault.id}`)).body.record;
@@ -106,7 +170,9 @@ describe('Several chamber systems at one site, and the chamber air temperature w
     expect(after.flags).not.toContain('temp-site-default');
     expect(after.fluxUmolM2S).toBeCloseTo(flux(v, 4), 4);
 
-    const fromFile = (await closure({ profileId: tall.id, analyzerId: analyzerA.id, startedAt: '2026-06-01T12:10:00Z', series: series(25) })).body.record;
+    const fromFile = (
+      await closure({ profileId: tall.id, analyzerId: analyzerA.id, startedAt: '2026-06-01T12:10:00Z', series: series(25) })
+    ).body.record;
     expect(fromFile.results.airTempSource).toBe('series');
     expect(fromFile.flags.filter((f: string) => f.startsWith('temp-'))).toEqual([]);
   });

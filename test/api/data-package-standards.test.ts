@@ -17,7 +17,12 @@ const profile = (v: string, name: string) => JSON.parse(readFileSync(join(STANDA
 
 /** xmllint's verdict on a file against a schema (Debian libxml2-utils): '' when valid, else its messages. */
 function xmllint(schema: string, file: string): string {
-  try { execFileSync('xmllint', ['--noout', '--nonet', '--schema', schema, file], { stdio: 'pipe' }); return ''; } catch (e) { return String((e as { stderr: Buffer }).stderr); }
+  try {
+    execFileSync('xmllint', ['--noout', '--nonet', '--schema', schema, file], { stdio: 'pipe' });
+    return '';
+  } catch (e) {
+    return String((e as { stderr: Buffer }).stderr);
+  }
 }
 
 function parseCsv(text: string): { header: string[]; rows: Row[] } {
@@ -47,13 +52,23 @@ describe('data package against the official standards: EML 2.2.0 XSD, Frictionle
     expect(asked.status).toBe(202);
     const [outbox] = await t.ds.query(`SELECT data FROM job_outbox WHERE id = $1`, [asked.body.jobId]);
     // One probe reading made implausible (65 °C at 5 cm, VWC 99 %) for the export only, then put back.
-    [probe] = await t.ds.query(`SELECT id, soil_temps, moisture_raw, moisture_kind FROM probe_reading WHERE site_id = $1 AND NOT deleted ORDER BY id LIMIT 1`, [DEMO_SITE_ID]);
-    await t.ds.query(`UPDATE probe_reading SET soil_temps = $2, moisture_raw = 99, moisture_kind = 'vwc' WHERE id = $1`, [probe.id, JSON.stringify([{ depthCm: 5, tempC: 65 }])]);
+    [probe] = await t.ds.query(
+      `SELECT id, soil_temps, moisture_raw, moisture_kind FROM probe_reading WHERE site_id = $1 AND NOT deleted ORDER BY id LIMIT 1`,
+      [DEMO_SITE_ID],
+    );
+    await t.ds.query(`UPDATE probe_reading SET soil_temps = $2, moisture_raw = 99, moisture_kind = 'vwc' WHERE id = $1`, [
+      probe.id,
+      JSON.stringify([{ depthCm: 5, tempC: 65 }]),
+    ]);
     try {
       await runResultsExport(t.ds, outbox.data as ExportRequest, { jobId: asked.body.jobId });
     } finally {
-      await t.ds.query(`UPDATE probe_reading SET soil_temps = $2, moisture_raw = $3, moisture_kind = $4 WHERE id = $1`,
-        [probe.id, JSON.stringify(probe.soil_temps), probe.moisture_raw, probe.moisture_kind]);
+      await t.ds.query(`UPDATE probe_reading SET soil_temps = $2, moisture_raw = $3, moisture_kind = $4 WHERE id = $1`, [
+        probe.id,
+        JSON.stringify(probe.soil_temps),
+        probe.moisture_raw,
+        probe.moisture_kind,
+      ]);
     }
     const [f] = await t.ds.query(`SELECT bytes FROM result_export WHERE id = $1`, [asked.body.jobId]);
     files = await readZip(f.bytes as Buffer);
@@ -75,7 +90,8 @@ describe('data package against the official standards: EML 2.2.0 XSD, Frictionle
     const eml = join(dir, 'metadata.eml.xml');
     expect(xmllint(join(STANDARDS, 'eml-2.2.0/eml.xsd'), eml)).toBe('');
     const text = files.get('metadata.eml.xml')!.toString('utf8');
-    const unitList = text.match(/<stmml:unitList>[\s\S]*<\/stmml:unitList>/)![0]
+    const unitList = text
+      .match(/<stmml:unitList>[\s\S]*<\/stmml:unitList>/)![0]
       .replace('<stmml:unitList>', '<stmml:unitList xmlns:stmml="http://www.xml-cml.org/schema/stmml-1.2">');
     writeFileSync(join(dir, 'units.xml'), `<?xml version="1.0" encoding="UTF-8"?>\n${unitList}\n`);
     expect(xmllint(join(STANDARDS, 'eml-2.2.0/stmml.xsd'), join(dir, 'units.xml'))).toBe('');
@@ -101,7 +117,9 @@ describe('data package against the official standards: EML 2.2.0 XSD, Frictionle
     expect(text).toMatch(/<attributeName>moisture_permittivity<\/attributeName>.*?<standardUnit>dimensionless<\/standardUnit>/);
     // The table schema's enums and ranges are in the EML too: enumerated domains and numeric bounds.
     expect(text).toMatch(/<attributeName>review_state<\/attributeName>.*?<enumeratedDomain><codeDefinition><code>unreviewed<\/code>/);
-    expect(text).toMatch(/<attributeName>moisture_vwc_reading_pct<\/attributeName>.*?<bounds><minimum exclusive="false">0<\/minimum><maximum exclusive="false">100<\/maximum><\/bounds>/);
+    expect(text).toMatch(
+      /<attributeName>moisture_vwc_reading_pct<\/attributeName>.*?<bounds><minimum exclusive="false">0<\/minimum><maximum exclusive="false">100<\/maximum><\/bounds>/,
+    );
   });
 
   it('when datapackage.json, every resource, table schema and dialect is checked with ajv, then all validate against Frictionless v1.0 and v2.0', () => {
@@ -114,11 +132,19 @@ describe('data package against the official standards: EML 2.2.0 XSD, Frictionle
         const validate = ajv.compile(profile(v, name));
         return validate(data) ? [] : [`${v} ${name}: ${ajv.errorsText(validate.errors)}`];
       };
-      const problems = [...check('datapackage', pkg), ...pkg.resources.flatMap((r: any) => [...check('dataresource', r),
-        ...(r.schema ? check('tableschema', r.schema) : []), ...(r.dialect ? check('tabledialect', r.dialect) : [])])];
+      const problems = [
+        ...check('datapackage', pkg),
+        ...pkg.resources.flatMap((r: any) => [
+          ...check('dataresource', r),
+          ...(r.schema ? check('tableschema', r.schema) : []),
+          ...(r.dialect ? check('tabledialect', r.dialect) : []),
+        ]),
+      ];
       expect(problems).toEqual([]);
     }
-    expect(pkg.licenses).toEqual([{ name: 'CC-BY-4.0', path: 'https://creativecommons.org/licenses/by/4.0/', title: 'Creative Commons Attribution 4.0 International' }]);
+    expect(pkg.licenses).toEqual([
+      { name: 'CC-BY-4.0', path: 'https://creativecommons.org/licenses/by/4.0/', title: 'Creative Commons Attribution 4.0 International' },
+    ]);
   });
 
   it('when every CSV is checked against its table schema, then types, required, enums, ranges and keys hold; a corrupted copy fails', () => {
@@ -132,30 +158,60 @@ describe('data package against the official standards: EML 2.2.0 XSD, Frictionle
     closures.push(closures[2]);
     broken.set('data/closures.csv', Buffer.from(closures.join('\n')));
     const problems = checkPackage(pkg, broken);
-    expect(problems).toEqual(expect.arrayContaining([expect.stringMatching(/^closures row 1: review_state = "maybe" is not one of/),
-      'closures: primary key closure_id is not unique']));
-    const eml = files.get('metadata.eml.xml')!.toString('utf8').replace(/<title>[^<]*<\/title>/, '');
+    expect(problems).toEqual(
+      expect.arrayContaining([
+        expect.stringMatching(/^closures row 1: review_state = "maybe" is not one of/),
+        'closures: primary key closure_id is not unique',
+      ]),
+    );
+    const eml = files
+      .get('metadata.eml.xml')!
+      .toString('utf8')
+      .replace(/<title>[^<]*<\/title>/, '');
     writeFileSync(join(dir, 'broken.eml.xml'), eml);
     expect(xmllint(join(STANDARDS, 'eml-2.2.0/eml.xsd'), join(dir, 'broken.eml.xml'))).toMatch(/fails to validate/);
   });
 
   it('when numbers, coverage and probe flags are read, then numbers carry no float noise, coverage is the data span, implausible readings are flagged', async () => {
-    const noise = [...files].filter(([k]) => k.endsWith('.csv')).flatMap(([, b]) => b.toString('utf8').match(/\d\.\d*(0{6,}|9{6,})\d/g) ?? []);
+    const noise = [...files]
+      .filter(([k]) => k.endsWith('.csv'))
+      .flatMap(([, b]) => b.toString('utf8').match(/\d\.\d*(0{6,}|9{6,})\d/g) ?? []);
     expect(noise).toEqual([]);
     // Site days: the span is the days the crews were out, at the site.
-    const [span] = await t.ds.query(`SELECT to_char(min(started_at) AT TIME ZONE z.tz, 'YYYY-MM-DD') AS f, to_char(max(started_at) AT TIME ZONE z.tz, 'YYYY-MM-DD') AS l
-      FROM closure, (SELECT timezone AS tz FROM site WHERE id = $1) z WHERE site_id = $1 AND NOT deleted GROUP BY z.tz`, [DEMO_SITE_ID]);
+    const [span] = await t.ds.query(
+      `SELECT to_char(min(started_at) AT TIME ZONE z.tz, 'YYYY-MM-DD') AS f, to_char(max(started_at) AT TIME ZONE z.tz, 'YYYY-MM-DD') AS l
+      FROM closure, (SELECT timezone AS tz FROM site WHERE id = $1) z WHERE site_id = $1 AND NOT deleted GROUP BY z.tz`,
+      [DEMO_SITE_ID],
+    );
     const text = files.get('metadata.eml.xml')!.toString('utf8');
     const [, begin, end] = text.match(/<beginDate><calendarDate>([^<]+)<\/calendarDate><\/beginDate><endDate><calendarDate>([^<]+)</)!;
     expect(begin <= span.f && end >= span.l).toBe(true);
     // The totals carry their own window, inside the data's span.
     const totals = parseCsv(files.get('data/seasonal_totals.csv')!.toString('utf8')).rows;
-    expect(text).toMatch(new RegExp(`<dataTable id="seasonal_totals">.*<coverage><temporalCoverage><rangeOfDates><beginDate><calendarDate>${totals[0].from_day}<`
-      + `.*<calendarDate>${totals[0].to_day}</calendarDate></endDate></rangeOfDates></temporalCoverage></coverage>.*</dataTable>`));
+    expect(text).toMatch(
+      new RegExp(
+        `<dataTable id="seasonal_totals">.*<coverage><temporalCoverage><rangeOfDates><beginDate><calendarDate>${totals[0].from_day}<` +
+          `.*<calendarDate>${totals[0].to_day}</calendarDate></endDate></rangeOfDates></temporalCoverage></coverage>.*</dataTable>`,
+      ),
+    );
     const probes = parseCsv(files.get('data/probe_readings.csv')!.toString('utf8')).rows;
-    expect(probes.find((r) => r.probe_reading_id === probe.id)).toMatchObject({ moisture_kind: 'vwc', moisture_vwc_reading_pct: '99', flags: 'soil-temp-implausible;vwc-implausible' });
+    expect(probes.find((r) => r.probe_reading_id === probe.id)).toMatchObject({
+      moisture_kind: 'vwc',
+      moisture_vwc_reading_pct: '99',
+      flags: 'soil-temp-implausible;vwc-implausible',
+    });
     expect(probes.filter((r) => r.flags !== '').map((r) => r.probe_reading_id)).toEqual([probe.id]);
-    for (const words of ['1 − χw', 'first sample used', 'AICc', 'flux_basis', 'minimum detectable slope', 'flat:', 'interpolation', 'Student t interval', 'Webb, Pearman &amp; Leuning 1980']) {
+    for (const words of [
+      '1 − χw',
+      'first sample used',
+      'AICc',
+      'flux_basis',
+      'minimum detectable slope',
+      'flat:',
+      'interpolation',
+      'Student t interval',
+      'Webb, Pearman &amp; Leuning 1980',
+    ]) {
       expect([words, text.includes(words)]).toEqual([words, true]);
     }
   });
@@ -167,15 +223,17 @@ describe('data package against the official standards: EML 2.2.0 XSD, Frictionle
     // flux = slope × 10·p·V·(1 − χw)/(R·T·A), p, T, χw of the first sample of the fit (EML methods); R = NA·kB (SI 2019).
     const R = 6.02214076e23 * 1.380649e-23;
     let checked = 0;
-    for (const k of csv('closures').filter((c) => c.review_fit_model === '' && c.raw_flux_umol_m2_s !== '' && c.pressure_is_default === 'false')) {
+    for (const k of csv('closures').filter(
+      (c) => c.review_fit_model === '' && c.raw_flux_umol_m2_s !== '' && c.pressure_is_default === 'false',
+    )) {
       const first = series.get(k.closure_id)!.find((s) => Number(s.t_s) === Number(k.fit_first_t_s))!;
       const chiW = Number(first.h2o_mmol_mol) / 1000;
       const tempC = k.air_temp_source === 'series' ? Number(first.chamber_temp_c) : Number(k.air_temp_c);
-      const factor = 10 * Number(first.pressure_kpa) * Number(k.volume_cm3) * (1 - chiW) / (R * (tempC + 273.15) * Number(k.area_cm2));
+      const factor = (10 * Number(first.pressure_kpa) * Number(k.volume_cm3) * (1 - chiW)) / (R * (tempC + 273.15) * Number(k.area_cm2));
       expect(Number(k.flux_per_slope)).toBeCloseTo(factor, 9);
       expect(Number(k.raw_flux_umol_m2_s)).toBeCloseTo(Number(k.raw_slope_ppm_s) * factor, 9);
       const window = Number(k.fit_last_t_s) - Number(k.fit_first_t_s);
-      expect(Number(k.min_detectable_flux_umol_m2_s)).toBeCloseTo(Number(k.precision_ppm) / window * factor, 9);
+      expect(Number(k.min_detectable_flux_umol_m2_s)).toBeCloseTo((Number(k.precision_ppm) / window) * factor, 9);
       checked++;
     }
     expect(checked).toBeGreaterThan(20);
@@ -187,8 +245,10 @@ describe('data package against the official standards: EML 2.2.0 XSD, Frictionle
       expect([r.days_logged, r.days_interpolated, r.days_missing, r.days_outside_range]).toEqual(['', '', '', '']);
       const plots = totals.filter((x) => x.cell === r.cell && x.plot_id !== '');
       expect(Number(r.n_plots)).toBe(plots.length);
-      for (const p of plots) expect(Number(p.days_logged) + Number(p.days_interpolated) + Number(p.days_missing)).toBe(Number(p.period_days));
-      if (r.status === 'complete') expect(Number(r.total_g_c_m2)).toBeCloseTo(plots.reduce((a, p) => a + Number(p.total_g_c_m2), 0) / plots.length, 2);
+      for (const p of plots)
+        expect(Number(p.days_logged) + Number(p.days_interpolated) + Number(p.days_missing)).toBe(Number(p.period_days));
+      if (r.status === 'complete')
+        expect(Number(r.total_g_c_m2)).toBeCloseTo(plots.reduce((a, p) => a + Number(p.total_g_c_m2), 0) / plots.length, 2);
     }
   });
 });

@@ -6,7 +6,9 @@ import { demoEmail, signIn, startTestApp, type TestApp } from '../support/test-a
 
 describe('error shapes and health', () => {
   let t: TestApp;
-  beforeAll(async () => { t = await startTestApp(); });
+  beforeAll(async () => {
+    t = await startTestApp();
+  });
   afterAll(() => t.close());
 
   it('when the database answers, then health says ok', async () => {

@@ -9,7 +9,12 @@ import { demoEmail, signIn, startTestApp, type TestApp } from '../support/test-a
 const ANSWER_MS = 1500;
 const HEALTH_MS = 1000;
 
-interface Measured { status: number; body: { error?: { message: string }; fileErrors?: unknown[] }; answerMs: number; healthMs: number[] }
+interface Measured {
+  status: number;
+  body: { error?: { message: string }; fileErrors?: unknown[] };
+  answerMs: number;
+  healthMs: number[];
+}
 
 /**
  * Collar import previews of hostile files: each must be answered quickly, and /api/health (served
@@ -50,17 +55,44 @@ describe('hostile collar files', () => {
       healthMs.push(performance.now() - s);
     } while (!answered);
     const r = await preview;
-    if (process.env['SHOW_TIMINGS']) console.log(`${csv.slice(0, 12)}… ${csv.length} chars: ${r.status} in ${r.answerMs.toFixed(0)} ms; health max ${Math.max(...healthMs).toFixed(0)} ms over ${healthMs.length}`);
+    if (process.env['SHOW_TIMINGS'])
+      console.log(
+        `${csv.slice(0, 12)}… ${csv.length} chars: ${r.status} in ${r.answerMs.toFixed(0)} ms; health max ${Math.max(...healthMs).toFixed(0)} ms over ${healthMs.length}`,
+      );
     return { status: r.status, body: r.json, answerMs: r.answerMs, healthMs };
   }
 
   const cases: { name: string; csv: string; limit: RegExp }[] = [
-    { name: 'a header of 60 000 "("', csv: `code,plot,${'('.repeat(60_000)}\nC1,P1,x\n`, limit: /column header.*longer than 200 characters/i },
-    { name: 'a header of 60 000 "["', csv: `${'['.repeat(60_000)},code,plot\nx,C1,P1\n`, limit: /column header.*longer than 200 characters/i },
-    { name: 'a header of "(a" pairs and spaces', csv: `code,plot,${'(a '.repeat(40_000)}x\nC1,P1,x\n`, limit: /longer than 200 characters/i },
-    { name: '60 000 distinct columns', csv: `code,plot,${Array.from({ length: 60_000 }, (_, i) => `c${i}`).join(',')}\n`, limit: /more than 100 columns/i },
-    { name: 'a cell of 300 000 digits', csv: `code,plot,diameter_cm\nC1,P1,${'1'.repeat(300_000)}x\n`, limit: /cell.*longer than 4000 characters/i },
-    { name: 'a notes cell of 300 000 spaces', csv: `code,plot,notes\nC1,P1,"a${' '.repeat(300_000)}"\n`, limit: /cell.*longer than 4000 characters/i },
+    {
+      name: 'a header of 60 000 "("',
+      csv: `code,plot,${'('.repeat(60_000)}\nC1,P1,x\n`,
+      limit: /column header.*longer than 200 characters/i,
+    },
+    {
+      name: 'a header of 60 000 "["',
+      csv: `${'['.repeat(60_000)},code,plot\nx,C1,P1\n`,
+      limit: /column header.*longer than 200 characters/i,
+    },
+    {
+      name: 'a header of "(a" pairs and spaces',
+      csv: `code,plot,${'(a '.repeat(40_000)}x\nC1,P1,x\n`,
+      limit: /longer than 200 characters/i,
+    },
+    {
+      name: '60 000 distinct columns',
+      csv: `code,plot,${Array.from({ length: 60_000 }, (_, i) => `c${i}`).join(',')}\n`,
+      limit: /more than 100 columns/i,
+    },
+    {
+      name: 'a cell of 300 000 digits',
+      csv: `code,plot,diameter_cm\nC1,P1,${'1'.repeat(300_000)}x\n`,
+      limit: /cell.*longer than 4000 characters/i,
+    },
+    {
+      name: 'a notes cell of 300 000 spaces',
+      csv: `code,plot,notes\nC1,P1,"a${' '.repeat(300_000)}"\n`,
+      limit: /cell.*longer than 4000 characters/i,
+    },
     // Broken quoting makes one quoted cell of the rest of the file (150 000 parser errors before).
     { name: 'nothing but broken quoting', csv: `code,plot\n${'"a"b,c\n'.repeat(60_000)}`, limit: /cell.*longer than 4000 characters/i },
     { name: '60 000 short rows with stray quotes', csv: `code,plot\n${'"a"b",x\n'.repeat(60_000)}`, limit: /more than 5000 collar rows/i },

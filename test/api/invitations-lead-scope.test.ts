@@ -43,7 +43,7 @@ describe('invitations a lead sees and withdraws', () => {
     process.env = saved;
   });
 
-  it('when a lead lists invitations, then only crew invitations to the lead\'s sites are there', async () => {
+  it("when a lead lists invitations, then only crew invitations to the lead's sites are there", async () => {
     const ids = ((await lead.get('/api/invitations')).body.items as { id: string }[]).map((i) => i.id);
     expect(ids).toContain(invited['crew']);
     for (const name of ['lab', 'admin', 'lead', 'crewAndLab', 'labNoSite']) expect(ids).not.toContain(invited[name]);
@@ -51,14 +51,15 @@ describe('invitations a lead sees and withdraws', () => {
     expect(all).toEqual(expect.arrayContaining(Object.values(invited)));
   });
 
-  it('when a lead tries to withdraw an admin\'s lab or admin invitation, then the answer is 404 and it stays open', async () => {
+  it("when a lead tries to withdraw an admin's lab or admin invitation, then the answer is 404 and it stays open", async () => {
     for (const name of ['lab', 'admin', 'lead', 'crewAndLab', 'labNoSite']) {
       const res = await lead.delete(`/api/invitations/${invited[name]}`);
       expect([name, res.status]).toEqual([name, 404]);
       expect(res.body.error.message).toBe('No open invitation with this id');
     }
-    const open = await t.ds.query(`SELECT count(*)::int AS n FROM account_token WHERE id = ANY($1) AND revoked_at IS NULL`,
-      [['lab', 'admin', 'lead', 'crewAndLab', 'labNoSite'].map((n) => invited[n])]);
+    const open = await t.ds.query(`SELECT count(*)::int AS n FROM account_token WHERE id = ANY($1) AND revoked_at IS NULL`, [
+      ['lab', 'admin', 'lead', 'crewAndLab', 'labNoSite'].map((n) => invited[n]),
+    ]);
     expect(open[0].n).toBe(5);
   });
 

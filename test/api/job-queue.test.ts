@@ -50,7 +50,9 @@ describe('job queue (pg-boss on PostgreSQL)', () => {
         const [row] = await t.ds.query(`SELECT count(*)::int AS n FROM job_progress WHERE id = ANY($1) AND state = 'completed'`, [ids]);
         return row.n === ids.length;
       });
-      const runs: { job_id: string; n: number }[] = await t.ds.query(`SELECT job_id, count(*)::int AS n FROM job_run_probe GROUP BY job_id`);
+      const runs: { job_id: string; n: number }[] = await t.ds.query(
+        `SELECT job_id, count(*)::int AS n FROM job_run_probe GROUP BY job_id`,
+      );
       expect(runs.map((r) => r.job_id).sort()).toEqual([...ids].sort());
       expect(runs.every((r) => r.n === 1)).toBe(true);
       const [left] = await t.ds.query(`SELECT count(*)::int AS n FROM job_outbox WHERE id = ANY($1)`, [ids]);

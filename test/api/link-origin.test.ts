@@ -21,7 +21,7 @@ const urls = (text: string) => text.match(/https?:\/\/[^\s"'<>]+/g) ?? [];
  */
 describe.each([
   { name: 'APP_ORIGIN set', env: { APP_ORIGIN: 'https://fluxwalk.example.org/' }, origin: 'https://fluxwalk.example.org' },
-  { name: 'APP_ORIGIN unset (the server\'s own address)', env: { APP_ORIGIN: '', PORT: '8123' }, origin: 'http://127.0.0.1:8123' },
+  { name: "APP_ORIGIN unset (the server's own address)", env: { APP_ORIGIN: '', PORT: '8123' }, origin: 'http://127.0.0.1:8123' },
 ])('links in mail and tags with $name', ({ env, origin }) => {
   let t: TestApp;
   let smtp: FakeSmtp;
@@ -42,11 +42,14 @@ describe.each([
     process.env = saved;
   });
 
-  const forged = <T extends request.Test>(req: T) => req.set('Host', FORGED_HOST).set('X-Forwarded-Host', FORGED_HOST).set('X-Forwarded-Proto', 'http');
+  const forged = <T extends request.Test>(req: T) =>
+    req.set('Host', FORGED_HOST).set('X-Forwarded-Host', FORGED_HOST).set('X-Forwarded-Proto', 'http');
 
   it('when a password reset is asked for with a forged Host, then the mailed link points at the configured origin', async () => {
     const email = `reset-origin-${Date.now()}@fluxwalk.example`;
-    expect((await admin.post('/api/users', { email, displayName: 'Origin Test', password: 'Origin-test-phrase-1', roles: ['crew'] })).status).toBe(201);
+    expect(
+      (await admin.post('/api/users', { email, displayName: 'Origin Test', password: 'Origin-test-phrase-1', roles: ['crew'] })).status,
+    ).toBe(201);
     const agent = request.agent(t.app);
     const csrf: string = (await forged(agent.get('/api/auth/csrf'))).body.token;
     const res = await forged(agent.post('/api/auth/password-reset')).set('X-CSRF-Token', csrf).send({ email });
@@ -71,9 +74,19 @@ describe.each([
 
   it('when tag sheets are printed with a forged Host, then every QR code holds the configured origin', async () => {
     const { site } = await makeLayout(admin);
-    expect((await admin.post(`/api/sites/${site.id}/collar-import/commit`, { csv: 'code,plot,diameter_cm,height_cm\nK1,P1,20,10\nK2,P2,20,10\n' })).status).toBe(201);
-    const tags = await forged(admin.get(`/api/sites/${site.id}/collar-tags.pdf`)).buffer(true).parse(binary);
-    const blank = await forged(admin.get(`/api/sites/${site.id}/blank-collar-tags.pdf?count=2`)).buffer(true).parse(binary);
+    expect(
+      (
+        await admin.post(`/api/sites/${site.id}/collar-import/commit`, {
+          csv: 'code,plot,diameter_cm,height_cm\nK1,P1,20,10\nK2,P2,20,10\n',
+        })
+      ).status,
+    ).toBe(201);
+    const tags = await forged(admin.get(`/api/sites/${site.id}/collar-tags.pdf`))
+      .buffer(true)
+      .parse(binary);
+    const blank = await forged(admin.get(`/api/sites/${site.id}/blank-collar-tags.pdf?count=2`))
+      .buffer(true)
+      .parse(binary);
     expect([tags.status, blank.status]).toEqual([200, 200]);
     const scanned = [...decodePdfQrCodes(tags.body as Buffer).codes.flat(), ...decodePdfQrCodes(blank.body as Buffer).codes.flat()];
     expect(scanned).toHaveLength(4);

@@ -10,7 +10,7 @@ import { demoEmail, signIn, startTestApp, type Session, type TestApp } from '../
  * of its probe replicates, with SD and n beside it; a temperature more than the shared tolerance
  * (±1 cm) from the site's probe depth (5 cm here) is counted and flagged, never averaged in.
  */
-describe('results use the mean of a visit\'s probe replicates', () => {
+describe("results use the mean of a visit's probe replicates", () => {
   let t: TestApp;
   let lead: Session, crew: Session;
   let w: World;
@@ -30,8 +30,18 @@ describe('results use the mean of a visit\'s probe replicates', () => {
       { takenAt: '2026-06-01T08:05:30Z', moistureRaw: 22, soilTemps: [{ depthCm: 5.5, tempC: 12 }] },
       { takenAt: '2026-06-01T08:06:00Z', moistureRaw: 24, soilTemps: [{ depthCm: 10, tempC: 4 }] },
     ];
-    const pushed = await crew.post('/api/sync/push', { deviceId: randomUUID(), outboxSize: 3, ops: replicates.map((r) =>
-      ({ opId: randomUUID(), entity: 'probeReading', id: randomUUID(), baseRev: null, op: 'upsert', fields: { ...at, ...r } })) });
+    const pushed = await crew.post('/api/sync/push', {
+      deviceId: randomUUID(),
+      outboxSize: 3,
+      ops: replicates.map((r) => ({
+        opId: randomUUID(),
+        entity: 'probeReading',
+        id: randomUUID(),
+        baseRev: null,
+        op: 'upsert',
+        fields: { ...at, ...r },
+      })),
+    });
     expect(pushed.body.results.map((r: { status: string }) => r.status)).toEqual(['applied', 'applied', 'applied']);
   });
   afterAll(() => t.close());
@@ -51,17 +61,30 @@ describe('results use the mean of a visit\'s probe replicates', () => {
     const rows: Record<string, unknown>[] = [];
     for await (const row of visitMeanRows(r)) rows.push(Object.fromEntries(names.map((n, i) => [n, row[i]])));
     expect(rows.find((x) => x['visit_id'] === w.visit.id)).toMatchObject({
-      soil_temp_c: 11, soil_temp_sd_c: Math.sqrt(2), soil_temp_n: 2, soil_temp_off_depth_n: 1, vwc_pct: 22, vwc_sd_pct: 2, vwc_n: 3,
+      soil_temp_c: 11,
+      soil_temp_sd_c: Math.sqrt(2),
+      soil_temp_n: 2,
+      soil_temp_off_depth_n: 1,
+      vwc_pct: 22,
+      vwc_sd_pct: 2,
+      vwc_n: 3,
     });
   });
 
   it('when probe readings are exported, then each replicate is a row and the one off the probe depth carries soil-temp-off-depth', async () => {
     // Source rows hold UTC times only; the writer adds the *_local twins.
-    const names = TABLES.find((x) => x.name === 'probe_readings')!.fields.filter((f) => !f.localOf).map((f) => f.name);
+    const names = TABLES.find((x) => x.name === 'probe_readings')!
+      .fields.filter((f) => !f.localOf)
+      .map((f) => f.name);
     const rows: Record<string, unknown>[] = [];
-    for await (const row of probeRows(t.ds, w.site.id, { depthCm: 5, toleranceCm: 1 })) rows.push(Object.fromEntries(names.map((n, i) => [n, row[i]])));
+    for await (const row of probeRows(t.ds, w.site.id, { depthCm: 5, toleranceCm: 1 }))
+      rows.push(Object.fromEntries(names.map((n, i) => [n, row[i]])));
     const mine = rows.filter((r) => r['visit_id'] === w.visit.id);
     // 5.5 cm is within ±1 cm of 5 cm, so its temperature is the row's soil_temp_c; 10 cm is not.
-    expect(mine.map((r) => [r['vwc_pct'], r['soil_temp_c'], r['flags']])).toEqual([[20, 10, ''], [22, 12, ''], [24, null, 'soil-temp-off-depth']]);
+    expect(mine.map((r) => [r['vwc_pct'], r['soil_temp_c'], r['flags']])).toEqual([
+      [20, 10, ''],
+      [22, 12, ''],
+      [24, null, 'soil-temp-off-depth'],
+    ]);
   });
 });

@@ -34,14 +34,32 @@ describe('probe replicates through sync', () => {
 
   const push = (s: Session, ops: unknown[], deviceId = randomUUID()) => s.post('/api/sync/push', { deviceId, outboxSize: ops.length, ops });
   const replicate = (over: Record<string, unknown> = {}) => ({
-    siteId: home.site.id, visitId: home.visit.id, collarId: home.collar.id, campaignId: home.campaign.id,
-    takenAt: '2026-06-01T08:10:00Z', takenById: crewId, soilTemps: [{ depthCm: 5, tempC: 11.5 }], moistureRaw: 23.4, moistureKind: 'vwc',
-    rodLengthCm: 12, probeId: 'TDR-7', ...over,
+    siteId: home.site.id,
+    visitId: home.visit.id,
+    collarId: home.collar.id,
+    campaignId: home.campaign.id,
+    takenAt: '2026-06-01T08:10:00Z',
+    takenById: crewId,
+    soilTemps: [{ depthCm: 5, tempC: 11.5 }],
+    moistureRaw: 23.4,
+    moistureKind: 'vwc',
+    rodLengthCm: 12,
+    probeId: 'TDR-7',
+    ...over,
   });
-  const create = (fields: Record<string, unknown>, id = randomUUID()) => ({ opId: randomUUID(), entity: 'probeReading', id, baseRev: null, op: 'upsert', fields });
+  const create = (fields: Record<string, unknown>, id = randomUUID()) => ({
+    opId: randomUUID(),
+    entity: 'probeReading',
+    id,
+    baseRev: null,
+    op: 'upsert',
+    fields,
+  });
   const rows = async (visitId = home.visit.id) =>
-    (await t.ds.query(`SELECT id, deleted, taken_by_id, moisture_raw, soil_temps FROM probe_reading WHERE visit_id = $1 ORDER BY taken_at, id`, [visitId])) as
-      { id: string; deleted: boolean; taken_by_id: string | null; moisture_raw: number | null; soil_temps: unknown }[];
+    (await t.ds.query(
+      `SELECT id, deleted, taken_by_id, moisture_raw, soil_temps FROM probe_reading WHERE visit_id = $1 ORDER BY taken_at, id`,
+      [visitId],
+    )) as { id: string; deleted: boolean; taken_by_id: string | null; moisture_raw: number | null; soil_temps: unknown }[];
   const maxSeq = async () => (await t.ds.query(`SELECT coalesce(max(seq), 0)::int AS n FROM change_log`))[0].n as number;
   async function pullFrom(s: Session, cursor: number) {
     const out: { entity: string; id: string; deleted: boolean; record: Record<string, unknown> | null }[] = [];
@@ -50,7 +68,8 @@ describe('probe replicates through sync', () => {
       const r = await s.get(`/api/sync/pull?cursor=${cursor}&limit=5000&deviceId=${dev}`);
       expect(r.status).toBe(200);
       out.push(...r.body.changes);
-      cursor = r.body.cursor; more = r.body.more;
+      cursor = r.body.cursor;
+      more = r.body.more;
     }
     return out;
   }
@@ -72,12 +91,26 @@ describe('probe replicates through sync', () => {
     const stored = await rows();
     expect(stored.length).toBe(before + 3);
     const mine = stored.filter((r) => ops.some((o) => o.id === r.id));
-    expect(mine.map((r) => [r.moisture_raw, r.taken_by_id])).toEqual([[23.4, crewId], [25.1, crewId], [24.0, crewId]]);
+    expect(mine.map((r) => [r.moisture_raw, r.taken_by_id])).toEqual([
+      [23.4, crewId],
+      [25.1, crewId],
+      [24.0, crewId],
+    ]);
 
     // The lead's device pulls them: three separate records, each with its own time, depth and taker.
     const pulled = (await pullFrom(lead, cursor)).filter((c) => c.entity === 'probeReading' && ops.some((o) => o.id === c.id));
-    expect(pulled.map((c) => [c.record?.['takenAt'], (c.record?.['soilTemps'] as { depthCm: number }[])[0].depthCm, c.record?.['takenById'], c.record?.['vwcPct']]))
-      .toEqual([['2026-06-01T08:10:00.000Z', 5, crewId, 23.4], ['2026-06-01T08:10:30.000Z', 5, crewId, 25.1], ['2026-06-01T08:11:00.000Z', 10, crewId, 24]]);
+    expect(
+      pulled.map((c) => [
+        c.record?.['takenAt'],
+        (c.record?.['soilTemps'] as { depthCm: number }[])[0].depthCm,
+        c.record?.['takenById'],
+        c.record?.['vwcPct'],
+      ]),
+    ).toEqual([
+      ['2026-06-01T08:10:00.000Z', 5, crewId, 23.4],
+      ['2026-06-01T08:10:30.000Z', 5, crewId, 25.1],
+      ['2026-06-01T08:11:00.000Z', 10, crewId, 24],
+    ]);
   });
 
   it('when another replicate is saved, then the earlier one keeps its values and revision', async () => {
@@ -89,7 +122,8 @@ describe('probe replicates through sync', () => {
   });
 
   it('when a crew deletes a replicate, then it becomes a tombstone that pulls as deleted, the others stay, and a replayed delete changes nothing', async () => {
-    const keep = randomUUID(), drop = randomUUID();
+    const keep = randomUUID(),
+      drop = randomUUID();
     await push(crew, [create(replicate({ moistureRaw: 19 }), keep), create(replicate({ moistureRaw: 99 }), drop)]);
     const cursor = await maxSeq();
     const del = { opId: randomUUID(), entity: 'probeReading', id: drop, baseRev: 1, op: 'delete', fields: {} };
@@ -113,7 +147,9 @@ describe('probe replicates through sync', () => {
     const foreign = await push(outsider, [create(replicate({ takenById: outsiderId }))]);
     expect(foreign.body.results[0].status).toBe('rejected');
     // Deleting another site's replicate answers as if it did not exist.
-    const theirs = await push(outsider, [{ opId: randomUUID(), entity: 'probeReading', id: home.probeReading.id, baseRev: home.probeReading.rev, op: 'delete', fields: {} }]);
+    const theirs = await push(outsider, [
+      { opId: randomUUID(), entity: 'probeReading', id: home.probeReading.id, baseRev: home.probeReading.rev, op: 'delete', fields: {} },
+    ]);
     expect(theirs.body.results[0]).toMatchObject({ status: 'rejected', error: { message: `No probeReading ${home.probeReading.id}` } });
     expect((await lab.delete(`/api/probe-readings/${home.probeReading.id}`)).status).toBe(403);
     expect(await rows()).toEqual(before);
@@ -148,15 +184,19 @@ describe('probe replicates through sync', () => {
 
 describe('the replicate migration', () => {
   let t: TestApp;
-  beforeAll(async () => { t = await startTestApp(); });
+  beforeAll(async () => {
+    t = await startTestApp();
+  });
   afterAll(() => t.close());
 
-  it('when a single reading stored before the migration is migrated, then it stays as the visit\'s one replicate, taken by the visit\'s crew', async () => {
+  it("when a single reading stored before the migration is migrated, then it stays as the visit's one replicate, taken by the visit's crew", async () => {
     const q = t.ds.createQueryRunner();
     await q.connect();
     await q.startTransaction();
     try {
-      const [visit] = await q.query(`SELECT v.id, v.crew_id FROM visit v JOIN probe_reading p ON p.visit_id = v.id WHERE v.crew_id IS NOT NULL LIMIT 1`);
+      const [visit] = await q.query(
+        `SELECT v.id, v.crew_id FROM visit v JOIN probe_reading p ON p.visit_id = v.id WHERE v.crew_id IS NOT NULL LIMIT 1`,
+      );
       expect(visit).toBeDefined();
       const migration = new ProbeReplicates1796426460000();
       await migration.down(q);

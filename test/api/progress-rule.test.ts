@@ -1,6 +1,13 @@
 import { randomUUID } from 'node:crypto';
 import {
-  collarProgress, countVisits, tallyRound, type ClosureFacts, type DueSettings, type ProgressState, type ReadingFacts, type VisitFacts,
+  collarProgress,
+  countVisits,
+  tallyRound,
+  type ClosureFacts,
+  type DueSettings,
+  type ProgressState,
+  type ReadingFacts,
+  type VisitFacts,
 } from '../../shared/progress/visit-progress';
 import { makeSiteWithCollar } from '../support/fixtures';
 import { demoEmail, signIn, startTestApp, type Session, type TestApp } from '../support/test-app';
@@ -22,8 +29,22 @@ function rng(seed: number) {
   return { chance: (p: number) => next() < p, int: (n: number) => Math.floor(next() * n) };
 }
 
-interface Op { opId: string; entity: string; id: string; baseRev: number | null; op: 'upsert' | 'delete'; fields: Record<string, unknown> }
-const create = (entity: string, fields: Record<string, unknown>, id = randomUUID()): Op => ({ opId: randomUUID(), entity, id, baseRev: null, op: 'upsert', fields });
+interface Op {
+  opId: string;
+  entity: string;
+  id: string;
+  baseRev: number | null;
+  op: 'upsert' | 'delete';
+  fields: Record<string, unknown>;
+}
+const create = (entity: string, fields: Record<string, unknown>, id = randomUUID()): Op => ({
+  opId: randomUUID(),
+  entity,
+  id,
+  baseRev: null,
+  op: 'upsert',
+  fields,
+});
 
 /**
  * The server's progress (for all rounds and for each round) against the shared rule applied to the
@@ -48,7 +69,9 @@ describe('campaign progress follows the shared rule', () => {
     w = await makeSiteWithCollar(admin, lead, LEAD_ID);
     collars = [w.collar.id];
     for (let i = 2; i <= COLLARS + 1; i++) {
-      collars.push((await lead.post('/api/collars', { siteId: w.site.id, code: `C${i}`, plotId: w.plot.id, diameterCm: 20 })).body.record.id);
+      collars.push(
+        (await lead.post('/api/collars', { siteId: w.site.id, code: `C${i}`, plotId: w.plot.id, diameterCm: 20 })).body.record.id,
+      );
     }
     // The last collar is off the route: its visits count nowhere.
     routeId = (await lead.post('/api/routes', { siteId: w.site.id, name: 'Loop', collarIds: collars.slice(0, COLLARS) })).body.record.id;
@@ -66,10 +89,27 @@ describe('campaign progress follows the shared rule', () => {
   async function generate(seed: number): Promise<{ campaignId: string; due: DueSettings }> {
     const r = rng(seed);
     const due: DueSettings = { dueOffset: r.chance(0.7), dueClosures: r.int(4), dueProbes: r.chance(0.7) };
-    const campaign = (await lead.post('/api/campaigns', { siteId: w.site.id, name: `Seed ${seed}`, startsOn: '2026-06-01', endsOn: '2026-06-03',
-      rounds: ROUNDS, ...due, routes: [{ routeId, crewIds: [] }] })).body.record;
-    const ops: Op[] = [], deletes: string[][] = [], rejects: string[] = [];
-    const base = (visitId: string, collarId: string) => ({ siteId: w.site.id, visitId, collarId, campaignId: campaign.id, takenAt: '2026-06-01T08:01:00Z' });
+    const campaign = (
+      await lead.post('/api/campaigns', {
+        siteId: w.site.id,
+        name: `Seed ${seed}`,
+        startsOn: '2026-06-01',
+        endsOn: '2026-06-03',
+        rounds: ROUNDS,
+        ...due,
+        routes: [{ routeId, crewIds: [] }],
+      })
+    ).body.record;
+    const ops: Op[] = [],
+      deletes: string[][] = [],
+      rejects: string[] = [];
+    const base = (visitId: string, collarId: string) => ({
+      siteId: w.site.id,
+      visitId,
+      collarId,
+      campaignId: campaign.id,
+      takenAt: '2026-06-01T08:01:00Z',
+    });
     // The first collar is skipped in every round and the second fully worked in every round; the rest are drawn.
     collars.forEach((collarId, place) => {
       for (let round = 1; round <= ROUNDS; round++) {
@@ -77,13 +117,23 @@ describe('campaign progress follows the shared rule', () => {
         for (let v = 0; v < visits; v++) {
           const skipped = place === 0 || (place > 1 && r.chance(0.3));
           const full = place === 1;
-          const visit = create('visit', { siteId: w.site.id, campaignId: campaign.id, round, collarId,
-            arrivedAt: `2026-06-0${round}T0${8 + r.int(2)}:00:00.000Z`, skipped, skipReason: skipped ? `reason ${seed}.${round}.${v}` : null });
+          const visit = create('visit', {
+            siteId: w.site.id,
+            campaignId: campaign.id,
+            round,
+            collarId,
+            arrivedAt: `2026-06-0${round}T0${8 + r.int(2)}:00:00.000Z`,
+            skipped,
+            skipReason: skipped ? `reason ${seed}.${round}.${v}` : null,
+          });
           ops.push(visit);
           if (!full && r.chance(0.08)) deletes.push(['visit', visit.id]);
           for (const entity of ['offsetSet', 'probeReading'] as const) {
             if (!full && !r.chance(0.5)) continue;
-            const reading = create(entity, { ...base(visit.id, collarId), ...(entity === 'offsetSet' ? { readingsCm: [2, 2, 3] } : { soilTemps: [{ depthCm: 5, tempC: 12 }] }) });
+            const reading = create(entity, {
+              ...base(visit.id, collarId),
+              ...(entity === 'offsetSet' ? { readingsCm: [2, 2, 3] } : { soilTemps: [{ depthCm: 5, tempC: 12 }] }),
+            });
             ops.push(reading);
             if (!full && r.chance(0.15)) deletes.push([entity, reading.id]);
           }
@@ -91,7 +141,13 @@ describe('campaign progress follows the shared rule', () => {
           for (let k = full ? 3 : r.int(4); k > 0; k--) {
             const samples = !full && r.chance(0.15) ? 0 : 40;
             const redoOfId = !full && made.length && r.chance(0.3) ? made[r.int(made.length)] : null;
-            const c = create('closure', { ...base(visit.id, collarId), startedAt: '2026-06-01T08:02:00Z', settleS: 10, redoOfId, series: series(samples) });
+            const c = create('closure', {
+              ...base(visit.id, collarId),
+              startedAt: '2026-06-01T08:02:00Z',
+              settleS: 10,
+              redoOfId,
+              series: series(samples),
+            });
             ops.push(c);
             made.push(c.id);
             if (full) continue;
@@ -105,8 +161,14 @@ describe('campaign progress follows the shared rule', () => {
     expect(created.filter((x) => x.status !== 'applied')).toEqual([]);
     const del = deletes.map(([entity, id]) => ({ opId: randomUUID(), entity, id, baseRev: 1, op: 'delete' as const, fields: {} }));
     expect((await push(lead, del)).filter((x) => x.status !== 'applied')).toEqual([]);
-    const rej = rejects.map((id) => ({ opId: randomUUID(), entity: 'closure', id, baseRev: 1, op: 'upsert' as const,
-      fields: { reviewState: 'rejected', reviewReason: 'leak at the collar' } }));
+    const rej = rejects.map((id) => ({
+      opId: randomUUID(),
+      entity: 'closure',
+      id,
+      baseRev: 1,
+      op: 'upsert' as const,
+      fields: { reviewState: 'rejected', reviewReason: 'leak at the collar' },
+    }));
     expect((await push(lab, rej)).filter((x) => x.status === 'rejected' || x.status === 'conflict')).toEqual([]);
     return { campaignId: campaign.id, due };
   }
@@ -118,19 +180,41 @@ describe('campaign progress follows the shared rule', () => {
       q(`SELECT id, collar_id, round, skipped, skip_reason, arrived_at, deleted FROM visit WHERE campaign_id = $1`),
       q(`SELECT visit_id, deleted FROM offset_set WHERE campaign_id = $1`),
       q(`SELECT visit_id, deleted FROM probe_reading WHERE campaign_id = $1`),
-      q(`SELECT id, visit_id, redo_of_id, review_state, jsonb_array_length(series->'tS') AS samples, deleted FROM closure WHERE campaign_id = $1`),
+      q(
+        `SELECT id, visit_id, redo_of_id, review_state, jsonb_array_length(series->'tS') AS samples, deleted FROM closure WHERE campaign_id = $1`,
+      ),
     ]);
     const reading = (x: { visit_id: string; deleted: boolean }): ReadingFacts => ({ visitId: x.visit_id, deleted: x.deleted });
     return {
-      visits: visits.map((v: Record<string, never>) => ({ collarId: v['collar_id'] as string, round: v['round'] as number,
-        facts: { id: v['id'], skipped: v['skipped'], skipReason: v['skip_reason'], arrivedAt: (v['arrived_at'] as Date).toISOString(), deleted: v['deleted'] } as VisitFacts })),
-      sets: sets.map(reading), probes: probes.map(reading),
-      closures: closures.map((c: Record<string, never>): ClosureFacts => ({ id: c['id'], visitId: c['visit_id'], redoOfId: c['redo_of_id'],
-        reviewState: c['review_state'], series: { tS: new Array(c['samples']) }, deleted: c['deleted'] })),
+      visits: visits.map((v: Record<string, never>) => ({
+        collarId: v['collar_id'] as string,
+        round: v['round'] as number,
+        facts: {
+          id: v['id'],
+          skipped: v['skipped'],
+          skipReason: v['skip_reason'],
+          arrivedAt: (v['arrived_at'] as Date).toISOString(),
+          deleted: v['deleted'],
+        } as VisitFacts,
+      })),
+      sets: sets.map(reading),
+      probes: probes.map(reading),
+      closures: closures.map((c: Record<string, never>): ClosureFacts => ({
+        id: c['id'],
+        visitId: c['visit_id'],
+        redoOfId: c['redo_of_id'],
+        reviewState: c['review_state'],
+        series: { tS: new Array(c['samples']) },
+        deleted: c['deleted'],
+      })),
     };
   }
 
-  interface StoredVisit { collarId: string; round: number; facts: VisitFacts }
+  interface StoredVisit {
+    collarId: string;
+    round: number;
+    facts: VisitFacts;
+  }
 
   /** What the shared rule says for each collar of the route over the asked rounds. */
   function expected(due: DueSettings, s: Awaited<ReturnType<typeof stored>>, rounds: number[]) {
@@ -163,7 +247,12 @@ describe('campaign progress follows the shared rule', () => {
         const res = await lead.get(`/api/campaigns/${campaignId}/progress${round ? `?round=${round}` : ''}`);
         expect(res.status).toBe(200);
         const want = expected(due, s, round ? [round] : Array.from({ length: ROUNDS }, (_, i) => i + 1));
-        const got = res.body.collars.map((c: Record<string, unknown>) => ({ collarId: c['collarId'], state: c['state'], skipReason: c['skipReason'], items: c['items'] }));
+        const got = res.body.collars.map((c: Record<string, unknown>) => ({
+          collarId: c['collarId'],
+          state: c['state'],
+          skipReason: c['skipReason'],
+          items: c['items'],
+        }));
         expect({ round, collars: got }).toEqual({ round, collars: want });
         expect(res.body.totals.byRoute).toEqual({ [routeId]: counts(want) });
         for (const state of new Set(want.map((c) => c.state))) note(`${round ? 'round' : 'all'} ${state}`);
@@ -172,8 +261,19 @@ describe('campaign progress follows the shared rule', () => {
   }
 
   it('when the seeds ran, then they covered every case the rule decides', () => {
-    for (const what of ['no visit', 'skipped and worked', 'visit with nothing counted', 'all due', 'all partial', 'all complete', 'all skipped',
-      'round due', 'round partial', 'round complete', 'round skipped']) {
+    for (const what of [
+      'no visit',
+      'skipped and worked',
+      'visit with nothing counted',
+      'all due',
+      'all partial',
+      'all complete',
+      'all skipped',
+      'round due',
+      'round partial',
+      'round complete',
+      'round skipped',
+    ]) {
       expect({ what, seen: (seen.get(what) ?? 0) > 0 }).toEqual({ what, seen: true });
     }
   });

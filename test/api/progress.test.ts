@@ -17,12 +17,38 @@ describe('campaign progress', () => {
       (await lead.post('/api/collars', { siteId: w.site.id, code, plotId: w.plot.id, diameterCm: 20 })).body.record.id as string;
     const [b, c] = [await collar('C2'), await collar('C3')];
     const route = (await lead.post('/api/routes', { siteId: w.site.id, name: 'North', collarIds: [w.collar.id, b, c] })).body.record.id;
-    const camp = (await lead.post('/api/campaigns', { siteId: w.site.id, name: 'Two rounds', startsOn: '2026-06-01', endsOn: '2026-06-02',
-      rounds: 2, dueOffset: true, dueClosures: 1, dueProbes: true, routes: [{ routeId: route, crewIds: [] }] })).body.record.id;
+    const camp = (
+      await lead.post('/api/campaigns', {
+        siteId: w.site.id,
+        name: 'Two rounds',
+        startsOn: '2026-06-01',
+        endsOn: '2026-06-02',
+        rounds: 2,
+        dueOffset: true,
+        dueClosures: 1,
+        dueProbes: true,
+        routes: [{ routeId: route, crewIds: [] }],
+      })
+    ).body.record.id;
     ids = { a: w.collar.id, b, c, route, campaign: camp, plot: w.plot.id, treatment: w.treatment.id };
     const visit = async (collarId: string, round: number, extra: Record<string, unknown> = {}) =>
-      (await lead.post('/api/visits', { siteId: w.site.id, campaignId: camp, round, collarId, arrivedAt: '2026-06-01T08:00:00Z', ...extra })).body.record.id as string;
-    const on = (visitId: string, collarId: string) => ({ siteId: w.site.id, visitId, collarId, campaignId: camp, takenAt: '2026-06-01T08:01:00Z' });
+      (
+        await lead.post('/api/visits', {
+          siteId: w.site.id,
+          campaignId: camp,
+          round,
+          collarId,
+          arrivedAt: '2026-06-01T08:00:00Z',
+          ...extra,
+        })
+      ).body.record.id as string;
+    const on = (visitId: string, collarId: string) => ({
+      siteId: w.site.id,
+      visitId,
+      collarId,
+      campaignId: camp,
+      takenAt: '2026-06-01T08:01:00Z',
+    });
     // A, round 1: everything due is done. A, round 2: a rejected closure only (does not count).
     const a1 = await visit(ids.a, 1);
     await lead.post('/api/offset-sets', { ...on(a1, ids.a), readingsCm: [2, 2, 2, 2] });
@@ -46,9 +72,18 @@ describe('campaign progress', () => {
   it('when round 1 is asked, then states and counts match the visits made', async () => {
     const r = (await lead.get(`/api/campaigns/${ids.campaign}/progress?round=1`)).body;
     const byId = Object.fromEntries(r.collars.map((c: { collarId: string }) => [c.collarId, c]));
-    expect(byId[ids.a]).toMatchObject({ state: 'complete', items: {
-      offset: { state: 'complete', done: 1, needed: 1 }, closures: { state: 'complete', done: 1, needed: 1 }, probes: { state: 'complete', done: 1, needed: 1 } } });
-    expect(byId[ids.b]).toMatchObject({ state: 'partial', items: { offset: { state: 'complete', done: 1, needed: 1 }, closures: { state: 'due', done: 0 } } });
+    expect(byId[ids.a]).toMatchObject({
+      state: 'complete',
+      items: {
+        offset: { state: 'complete', done: 1, needed: 1 },
+        closures: { state: 'complete', done: 1, needed: 1 },
+        probes: { state: 'complete', done: 1, needed: 1 },
+      },
+    });
+    expect(byId[ids.b]).toMatchObject({
+      state: 'partial',
+      items: { offset: { state: 'complete', done: 1, needed: 1 }, closures: { state: 'due', done: 0 } },
+    });
     expect(byId[ids.c]).toMatchObject({ state: 'skipped', skipReason: 'standing water over the collar' });
     expect(r.collars.map((c: { collarId: string }) => c.collarId)).toEqual([ids.a, ids.b, ids.c]); // walking order
     expect(r.totals.byRoute[ids.route]).toEqual({ due: 0, partial: 1, complete: 1, skipped: 1 });
@@ -90,6 +125,16 @@ describe('campaign progress', () => {
 
 function closure(base: Record<string, unknown>) {
   const tS = Array.from({ length: 90 }, (_, i) => i);
-  return { ...base, startedAt: '2026-06-01T08:02:00Z', settleS: 20, series: {
-    tS, co2Ppm: tS.map((s) => 420 + 0.8 * s), h2oMmolMol: tS.map(() => 12), pressureKpa: tS.map(() => 97), tempC: tS.map(() => 15) } };
+  return {
+    ...base,
+    startedAt: '2026-06-01T08:02:00Z',
+    settleS: 20,
+    series: {
+      tS,
+      co2Ppm: tS.map((s) => 420 + 0.8 * s),
+      h2oMmolMol: tS.map(() => 12),
+      pressureKpa: tS.map(() => 97),
+      tempC: tS.map(() => 15),
+    },
+  };
 }

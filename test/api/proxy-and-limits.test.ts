@@ -19,7 +19,12 @@ describe('behind a TLS reverse proxy with TRUST_PROXY=1', () => {
   let admin: Awaited<ReturnType<typeof adminThroughProxy>> | undefined;
   beforeAll(async () => {
     saved = { ...process.env };
-    Object.assign(process.env, { TRUST_PROXY: '1', LOGIN_MAX_FAILURES: '3', LOGIN_MAX_FAILURES_PER_ADDRESS: '5', LOGIN_WINDOW_MS: '60000' });
+    Object.assign(process.env, {
+      TRUST_PROXY: '1',
+      LOGIN_MAX_FAILURES: '3',
+      LOGIN_MAX_FAILURES_PER_ADDRESS: '5',
+      LOGIN_WINDOW_MS: '60000',
+    });
     t = await startTestApp();
   });
   afterAll(async () => {
@@ -31,7 +36,14 @@ describe('behind a TLS reverse proxy with TRUST_PROXY=1', () => {
   async function adminThroughProxy() {
     const agent = request.agent(t.app);
     const from = clientAddress();
-    expect((await agent.post('/api/auth/login').set('X-Forwarded-For', from).send({ email: demoEmail('admin'), password: 'fluxwalk-demo' })).status).toBe(200);
+    expect(
+      (
+        await agent
+          .post('/api/auth/login')
+          .set('X-Forwarded-For', from)
+          .send({ email: demoEmail('admin'), password: 'fluxwalk-demo' })
+      ).status,
+    ).toBe(200);
     const csrf: string = (await agent.get('/api/auth/csrf').set('X-Forwarded-For', from)).body.token;
     return (path: string, body: object) => agent.post(path).set('X-Forwarded-For', from).set('X-CSRF-Token', csrf).send(body);
   }
@@ -85,7 +97,9 @@ describe('behind a TLS reverse proxy with TRUST_PROXY=1', () => {
       const statuses: number[] = [];
       for (const [i, email] of emails.entries()) {
         const app = i % 2 ? other.app : t.app;
-        statuses.push((await request(app).post('/api/auth/login').set('X-Forwarded-For', guesser).send({ email, password: 'wrong' })).status);
+        statuses.push(
+          (await request(app).post('/api/auth/login').set('X-Forwarded-For', guesser).send({ email, password: 'wrong' })).status,
+        );
       }
       expect(statuses).toEqual([401, 401, 401, 401, 401, 429]);
     } finally {
@@ -97,7 +111,8 @@ describe('behind a TLS reverse proxy with TRUST_PROXY=1', () => {
     const from = clientAddress();
     const agent = request.agent(t.app);
     const csrf: string = (await agent.get('/api/auth/csrf').set('X-Forwarded-For', from)).body.token;
-    const ask = (who: string, email: string) => agent.post('/api/auth/password-reset').set('X-Forwarded-For', who).set('X-CSRF-Token', csrf).send({ email });
+    const ask = (who: string, email: string) =>
+      agent.post('/api/auth/password-reset').set('X-Forwarded-For', who).set('X-CSRF-Token', csrf).send({ email });
     const statuses: number[] = [];
     for (let i = 0; i < 21; i++) statuses.push((await ask(from, `nobody-${i}-${Date.now()}@reset-spray.example`)).status);
     expect(statuses.slice(0, 20).every((s) => s === 202)).toBe(true);

@@ -17,8 +17,15 @@ describe('each record type over REST', () => {
     const lead = await signIn(t.app, demoEmail('lead'));
     w = await makeSiteWithCollar(admin, lead, LEAD_ID);
     sessions = { admin, lead, crew: await signIn(t.app, demoEmail('crew')), lab: await signIn(t.app, demoEmail('lab')) };
-    visitId = (await lead.post('/api/visits', { siteId: w.site.id, campaignId: w.campaign.id, round: 1, collarId: w.collar.id,
-      arrivedAt: '2026-06-01T08:00:00Z' })).body.record.id;
+    visitId = (
+      await lead.post('/api/visits', {
+        siteId: w.site.id,
+        campaignId: w.campaign.id,
+        round: 1,
+        collarId: w.collar.id,
+        arrivedAt: '2026-06-01T08:00:00Z',
+      })
+    ).body.record.id;
   });
   afterAll(() => t.close());
 
@@ -32,22 +39,65 @@ describe('each record type over REST', () => {
       ['treatment', 'admin', { siteId: w.site.id, code: 'TRN', level: 'collar' }, { name: 'trenched' }],
       ['plot', 'admin', { siteId: w.site.id, code: 'P9', blockId: w.block.id }, { treatmentId: w.treatment.id }],
       ['collar', 'lead', { siteId: w.site.id, code: `K-${randomUUID().slice(0, 6)}`, plotId: w.plot.id, diameterCm: 10 }, { heightCm: 8 }],
-      ['collarEvent', 'lead', { siteId: w.site.id, collarId: w.collar.id, kind: 'clipped', date: '2026-06-02' }, { note: 'grass cut to 2 cm' }],
-      ['chamberProfile', 'admin', { siteId: w.site.id, name: 'C', validFrom: '2026-01-01', chamberVolumeCm3: 4000, loopVolumeCm3: 100 }, { settleS: 25 }],
+      [
+        'collarEvent',
+        'lead',
+        { siteId: w.site.id, collarId: w.collar.id, kind: 'clipped', date: '2026-06-02' },
+        { note: 'grass cut to 2 cm' },
+      ],
+      [
+        'chamberProfile',
+        'admin',
+        { siteId: w.site.id, name: 'C', validFrom: '2026-01-01', chamberVolumeCm3: 4000, loopVolumeCm3: 100 },
+        { settleS: 25 },
+      ],
       ['analyzer', 'admin', { siteId: w.site.id, name: 'A1', serial: 'X-1' }, { precisionPpm: 0.5 }],
       ['analyzerCheck', 'lead', { siteId: w.site.id, kind: 'ambient', at: '2026-06-01T07:00:00Z', co2Ppm: 425 }, { note: 'windy' }],
       ['route', 'lead', { siteId: w.site.id, name: 'R', collarIds: [w.collar.id] }, { name: 'R north' }],
       ['campaign', 'lead', { siteId: w.site.id, name: 'C2', startsOn: '2026-07-01', endsOn: '2026-07-01', rounds: 1 }, { rounds: 2 }],
-      ['visit', 'lead', { siteId: w.site.id, campaignId: w.campaign.id, round: 1, collarId: w.collar.id, arrivedAt: '2026-06-01T09:00:00Z' },
-        { skipped: true, skipReason: 'flooded' }],
+      [
+        'visit',
+        'lead',
+        { siteId: w.site.id, campaignId: w.campaign.id, round: 1, collarId: w.collar.id, arrivedAt: '2026-06-01T09:00:00Z' },
+        { skipped: true, skipReason: 'flooded' },
+      ],
       ['offsetSet', 'lead', { ...at, takenAt: '2026-06-01T08:01:00Z', readingsCm: [2, 2.5, 3] }, {}],
-      ['probeReading', 'lead', { ...at, takenAt: '2026-06-01T08:02:00Z', moistureRaw: 20, moistureKind: 'permittivity' }, { probeId: 'TDR-2' }],
-      ['closure', 'lead', { ...at, startedAt: '2026-06-01T08:03:00Z', settleS: 20,
-        series: { tS, co2Ppm: tS.map((s) => 420 + s), tempC: tS.map(() => 15), pressureKpa: tS.map(() => 98) } }, { chamberOffAt: '2026-06-01T08:04:00Z' }],
-      ['attachment', 'lead', { siteId: w.site.id, ownerEntity: 'collar', ownerId: w.collar.id, mediaType: 'image/jpeg', sizeBytes: 1000,
-        sha256: 'a'.repeat(64) }, { fileName: 'rim.jpg' }],
-      ['temperatureLog', 'lab', { siteId: w.site.id, plotId: w.plot.id, depthCm: 5, series: { t: ['2026-06-01T00:00:00Z'], tempC: [11.5] } },
-        { source: 'logger 7' }],
+      [
+        'probeReading',
+        'lead',
+        { ...at, takenAt: '2026-06-01T08:02:00Z', moistureRaw: 20, moistureKind: 'permittivity' },
+        { probeId: 'TDR-2' },
+      ],
+      [
+        'closure',
+        'lead',
+        {
+          ...at,
+          startedAt: '2026-06-01T08:03:00Z',
+          settleS: 20,
+          series: { tS, co2Ppm: tS.map((s) => 420 + s), tempC: tS.map(() => 15), pressureKpa: tS.map(() => 98) },
+        },
+        { chamberOffAt: '2026-06-01T08:04:00Z' },
+      ],
+      [
+        'attachment',
+        'lead',
+        {
+          siteId: w.site.id,
+          ownerEntity: 'collar',
+          ownerId: w.collar.id,
+          mediaType: 'image/jpeg',
+          sizeBytes: 1000,
+          sha256: 'a'.repeat(64),
+        },
+        { fileName: 'rim.jpg' },
+      ],
+      [
+        'temperatureLog',
+        'lab',
+        { siteId: w.site.id, plotId: w.plot.id, depthCm: 5, series: { t: ['2026-06-01T00:00:00Z'], tempC: [11.5] } },
+        { source: 'logger 7' },
+      ],
     ];
   };
 
@@ -78,8 +128,17 @@ describe('each record type over REST', () => {
   });
 
   it('when a pushed-style closure is created, then the engine results and flags are stored with it at once', async () => {
-    const c = (await sessions.lead.post('/api/closures', { siteId: w.site.id, visitId, collarId: w.collar.id, campaignId: w.campaign.id,
-      startedAt: '2026-06-01T08:10:00Z', settleS: 20, series: { tS, co2Ppm: tS.map((s) => 420 + 0.5 * s), tempC: tS.map(() => 15) } })).body.record;
+    const c = (
+      await sessions.lead.post('/api/closures', {
+        siteId: w.site.id,
+        visitId,
+        collarId: w.collar.id,
+        campaignId: w.campaign.id,
+        startedAt: '2026-06-01T08:10:00Z',
+        settleS: 20,
+        series: { tS, co2Ppm: tS.map((s) => 420 + 0.5 * s), tempC: tS.map(() => 15) },
+      })
+    ).body.record;
     expect(c.results.raw).toBeTruthy();
     expect(Array.isArray(c.flags)).toBe(true);
   });

@@ -43,37 +43,69 @@ describe('field records through the REST API', () => {
   });
 
   it('when offsets include 0 or more than 10 cm, then they are stored and warnings come back beside them', async () => {
-    const visit = (await crew.post('/api/visits', {
-      siteId: DEMO_SITE_ID, campaignId: await openDemoCampaign(crew), round: 1, collarId: await demoCollar(crew), arrivedAt: new Date().toISOString(),
-    }));
+    const visit = await crew.post('/api/visits', {
+      siteId: DEMO_SITE_ID,
+      campaignId: await openDemoCampaign(crew),
+      round: 1,
+      collarId: await demoCollar(crew),
+      arrivedAt: new Date().toISOString(),
+    });
     expect(visit.status).toBe(201);
     const v = visit.body.record;
-    const res = await crew.post('/api/offset-sets', { siteId: DEMO_SITE_ID, visitId: v.id, collarId: v.collarId, campaignId: v.campaignId,
-      takenAt: new Date().toISOString(), readingsCm: [0, 2, 12, 3] });
+    const res = await crew.post('/api/offset-sets', {
+      siteId: DEMO_SITE_ID,
+      visitId: v.id,
+      collarId: v.collarId,
+      campaignId: v.campaignId,
+      takenAt: new Date().toISOString(),
+      readingsCm: [0, 2, 12, 3],
+    });
     expect(res.status).toBe(201);
     expect(res.body.record.meanCm).toBeCloseTo(4.25, 10);
     expect(res.body.warnings.map((w: { path: string }) => w.path)).toEqual(['readingsCm.0', 'readingsCm.2']);
-    const neg = await crew.post('/api/offset-sets', { siteId: DEMO_SITE_ID, visitId: v.id, collarId: v.collarId, campaignId: v.campaignId,
-      takenAt: new Date().toISOString(), readingsCm: [-1, 2, 3] });
+    const neg = await crew.post('/api/offset-sets', {
+      siteId: DEMO_SITE_ID,
+      visitId: v.id,
+      collarId: v.collarId,
+      campaignId: v.campaignId,
+      takenAt: new Date().toISOString(),
+      readingsCm: [-1, 2, 3],
+    });
     expect(neg.body.error.fields[0]).toEqual({ path: 'readingsCm.0', message: 'Offset reading must be at least 0 cm' });
   });
 
   it('when an offset set is corrected, then the new set supersedes the old one and the old one is kept; an edit is refused', async () => {
     const v = await newDemoVisit(crew);
-    const first = (await crew.post('/api/offset-sets', { siteId: DEMO_SITE_ID, visitId: v.id, collarId: v.collarId, campaignId: v.campaignId,
-      takenAt: new Date().toISOString(), readingsCm: [2, 2, 2, 2] })).body.record;
+    const first = (
+      await crew.post('/api/offset-sets', {
+        siteId: DEMO_SITE_ID,
+        visitId: v.id,
+        collarId: v.collarId,
+        campaignId: v.campaignId,
+        takenAt: new Date().toISOString(),
+        readingsCm: [2, 2, 2, 2],
+      })
+    ).body.record;
     const edit = await crew.patch(`/api/offset-sets/${first.id}`, { rev: first.rev, readingsCm: [3, 3, 3, 3] });
     expect(edit.status).toBe(403);
     expect(edit.body.error.message).toMatch(/supersedes/);
-    const second = await crew.post('/api/offset-sets', { siteId: DEMO_SITE_ID, visitId: v.id, collarId: v.collarId, campaignId: v.campaignId,
-      takenAt: new Date().toISOString(), readingsCm: [3, 3, 3, 3], supersedesId: first.id });
+    const second = await crew.post('/api/offset-sets', {
+      siteId: DEMO_SITE_ID,
+      visitId: v.id,
+      collarId: v.collarId,
+      campaignId: v.campaignId,
+      takenAt: new Date().toISOString(),
+      readingsCm: [3, 3, 3, 3],
+      supersedesId: first.id,
+    });
     expect(second.status).toBe(201);
     const both = await crew.get(`/api/offset-sets?visitId=${v.id}`);
     expect(both.body.items.map((s: { id: string }) => s.id).sort()).toEqual([first.id, second.body.record.id].sort());
   });
 
   it('when a record is deleted, then it becomes a tombstone: hidden from lists, kept with deleted=true', async () => {
-    const c = (await lead.post('/api/collars', { siteId: world.site.id, code: `DEL-${Date.now()}`, plotId: world.plot.id, diameterCm: 10 })).body.record;
+    const c = (await lead.post('/api/collars', { siteId: world.site.id, code: `DEL-${Date.now()}`, plotId: world.plot.id, diameterCm: 10 }))
+      .body.record;
     const del = await lead.delete(`/api/collars/${c.id}?rev=${c.rev}`);
     expect(del.status).toBe(200);
     expect(del.body.record.deleted).toBe(true);
@@ -88,7 +120,11 @@ describe('field records through the REST API', () => {
     const raw = await lab.patch(`/api/closures/${closure.id}`, { rev: Number(closure.rev), settleS: 40 });
     expect(raw.status).toBe(403);
     expect(raw.body.error.message).toMatch(/never changes raw readings/);
-    const review = await lab.patch(`/api/closures/${closure.id}`, { rev: Number(closure.rev), reviewState: 'rejected', reviewReason: 'chamber lifted' });
+    const review = await lab.patch(`/api/closures/${closure.id}`, {
+      rev: Number(closure.rev),
+      reviewState: 'rejected',
+      reviewReason: 'chamber lifted',
+    });
     expect(review.status).toBe(200);
     expect(review.body.record.reviewState).toBe('rejected');
     expect((await lab.post('/api/offset-sets', {})).status).toBe(403);
@@ -112,8 +148,24 @@ describe('field records through the REST API', () => {
   });
 
   it('when a chamber profile changes, then a new version with a later validFrom sits beside the old one', async () => {
-    const p1 = (await admin.post('/api/chamber-profiles', { siteId: world.site.id, name: 'Chamber A', validFrom: '2026-04-01', chamberVolumeCm3: 4000, loopVolumeCm3: 150 })).body.record;
-    const p2 = (await admin.post('/api/chamber-profiles', { siteId: world.site.id, name: 'Chamber A', validFrom: '2026-07-01', chamberVolumeCm3: 4000, loopVolumeCm3: 210 })).body.record;
+    const p1 = (
+      await admin.post('/api/chamber-profiles', {
+        siteId: world.site.id,
+        name: 'Chamber A',
+        validFrom: '2026-04-01',
+        chamberVolumeCm3: 4000,
+        loopVolumeCm3: 150,
+      })
+    ).body.record;
+    const p2 = (
+      await admin.post('/api/chamber-profiles', {
+        siteId: world.site.id,
+        name: 'Chamber A',
+        validFrom: '2026-07-01',
+        chamberVolumeCm3: 4000,
+        loopVolumeCm3: 210,
+      })
+    ).body.record;
     const list = await admin.get(`/api/chamber-profiles?siteId=${world.site.id}`);
     expect(list.body.items.map((p: { id: string }) => p.id)).toEqual([p1.id, p2.id]);
     expect(p1.settleS).toBe(20);
@@ -128,11 +180,26 @@ describe('field records through the REST API', () => {
   });
 
   it('when a campaign is locked, then new field records for it are refused with a readable message', async () => {
-    const camp = (await lead.post('/api/campaigns', { siteId: world.site.id, name: 'Locked', startsOn: '2026-06-01', endsOn: '2026-06-01', rounds: 1 })).body.record;
-    await lead.post('/api/visits', { siteId: world.site.id, campaignId: camp.id, round: 1, collarId: world.collar.id,
-      arrivedAt: new Date().toISOString(), skipped: true, skipReason: 'flooded' });
+    const camp = (
+      await lead.post('/api/campaigns', { siteId: world.site.id, name: 'Locked', startsOn: '2026-06-01', endsOn: '2026-06-01', rounds: 1 })
+    ).body.record;
+    await lead.post('/api/visits', {
+      siteId: world.site.id,
+      campaignId: camp.id,
+      round: 1,
+      collarId: world.collar.id,
+      arrivedAt: new Date().toISOString(),
+      skipped: true,
+      skipReason: 'flooded',
+    });
     expect((await lead.patch(`/api/campaigns/${camp.id}`, { rev: camp.rev, locked: true })).status).toBe(200);
-    const v = await lead.post('/api/visits', { siteId: world.site.id, campaignId: camp.id, round: 1, collarId: world.collar.id, arrivedAt: new Date().toISOString() });
+    const v = await lead.post('/api/visits', {
+      siteId: world.site.id,
+      campaignId: camp.id,
+      round: 1,
+      collarId: world.collar.id,
+      arrivedAt: new Date().toISOString(),
+    });
     expect(v.status).toBe(423);
     expect(v.body.error.message).toMatch(/locked/);
   });
@@ -146,7 +213,13 @@ async function demoCollar(s: Session): Promise<string> {
   return (await s.get(`/api/collars?siteId=${DEMO_SITE_ID}&limit=1`)).body.items[0].id;
 }
 async function newDemoVisit(s: Session) {
-  const res = await s.post('/api/visits', { id: randomUUID(), siteId: DEMO_SITE_ID, campaignId: await openDemoCampaign(s), round: 1,
-    collarId: await demoCollar(s), arrivedAt: new Date().toISOString() });
+  const res = await s.post('/api/visits', {
+    id: randomUUID(),
+    siteId: DEMO_SITE_ID,
+    campaignId: await openDemoCampaign(s),
+    round: 1,
+    collarId: await demoCollar(s),
+    arrivedAt: new Date().toISOString(),
+  });
   return res.body.record;
 }

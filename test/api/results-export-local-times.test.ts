@@ -15,7 +15,8 @@ describe('results export: local-time columns', () => {
   let t: TestApp;
   let files: Map<string, Buffer>;
   let zone: string;
-  const table = (name: string) => Papa.parse<Row>(files.get(tablePath(name))!.toString('utf8'), { header: true, skipEmptyLines: true }).data;
+  const table = (name: string) =>
+    Papa.parse<Row>(files.get(tablePath(name))!.toString('utf8'), { header: true, skipEmptyLines: true }).data;
   const wall = (iso: string) => new Date(iso).toLocaleString('sv-SE', { timeZone: zone }).replace(' ', 'T');
 
   beforeAll(async () => {
@@ -25,22 +26,35 @@ describe('results export: local-time columns', () => {
     zone = zone === 'UTC' ? 'America/Anchorage' : zone;
     await t.ds.query(`UPDATE site SET timezone = $2 WHERE id = $1`, [DEMO_SITE_ID, zone]);
     const [lab] = await t.ds.query(`SELECT id FROM app_user WHERE email = $1`, [demoEmail('lab')]);
-    const out = await runResultsExport(t.ds, { siteId: DEMO_SITE_ID, selection: 'not-rejected', model: 'q10', userId: lab.id, license: 'CC0-1.0' },
-      { jobId: '0b6d7e1a-2f4c-4d8e-9a1b-3c5d7e9f1a2b' });
+    const out = await runResultsExport(
+      t.ds,
+      { siteId: DEMO_SITE_ID, selection: 'not-rejected', model: 'q10', userId: lab.id, license: 'CC0-1.0' },
+      { jobId: '0b6d7e1a-2f4c-4d8e-9a1b-3c5d7e9f1a2b' },
+    );
     const [{ bytes }] = await t.ds.query(`SELECT bytes FROM result_export WHERE id = $1`, [out.exportId]);
     files = await readZip(bytes as Buffer);
   });
   afterAll(() => t.close());
 
-  it('when a table has a UTC time, then the column beside it is the same instant as the site\'s wall time with its offset', () => {
-    const pairs: [string, string][] = [['closures', 'started_at'], ['visits', 'arrived_at'], ['offset_sets', 'taken_at'], ['probe_readings', 'taken_at'],
-      ['analyzer_checks', 'checked_at'], ['calibrations', 'calibrated_at'], ['soil_temperature_logs', 't']];
+  it("when a table has a UTC time, then the column beside it is the same instant as the site's wall time with its offset", () => {
+    const pairs: [string, string][] = [
+      ['closures', 'started_at'],
+      ['visits', 'arrived_at'],
+      ['offset_sets', 'taken_at'],
+      ['probe_readings', 'taken_at'],
+      ['analyzer_checks', 'checked_at'],
+      ['calibrations', 'calibrated_at'],
+      ['soil_temperature_logs', 't'],
+    ];
     let checked = 0;
     for (const [name, col] of pairs) {
       const rows = table(name);
       expect(Object.keys(rows[0] ?? { [col]: '', [`${col}_local`]: '' })).toEqual(expect.arrayContaining([col, `${col}_local`]));
       for (const r of rows.slice(0, 200)) {
-        if (!r[col]) { expect(r[`${col}_local`]).toBe(''); continue; }
+        if (!r[col]) {
+          expect(r[`${col}_local`]).toBe('');
+          continue;
+        }
         const local = r[`${col}_local`];
         expect(local).toMatch(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}:\d{2}[+-]\d{2}:\d{2}$/);
         expect(Date.parse(local)).toBe(Math.floor(Date.parse(r[col]) / 1000) * 1000);
@@ -51,7 +65,7 @@ describe('results export: local-time columns', () => {
     expect(checked).toBeGreaterThan(100);
   });
 
-  it('when the package describes the local columns, then the schema and the EML name the site\'s zone', () => {
+  it("when the package describes the local columns, then the schema and the EML name the site's zone", () => {
     const pkg = JSON.parse(files.get('datapackage.json')!.toString('utf8'));
     const closures = pkg.resources.find((r: { name: string }) => r.name === 'closures');
     const field = closures.schema.fields.find((f: { name: string }) => f.name === 'started_at_local');

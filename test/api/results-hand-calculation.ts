@@ -1,4 +1,14 @@
-export interface HandRow { closureId: string; flux: number; visitId: string; collarId: string; campaignId: string; plotId: string; blockCode: string | null; plotTreatment: string | null; collarTreatment: string | null }
+export interface HandRow {
+  closureId: string;
+  flux: number;
+  visitId: string;
+  collarId: string;
+  campaignId: string;
+  plotId: string;
+  blockCode: string | null;
+  plotTreatment: string | null;
+  collarTreatment: string | null;
+}
 
 /**
  * The hand calculation, written out plainly and apart from the server's code: closures → visit mean
@@ -7,7 +17,11 @@ export interface HandRow { closureId: string; flux: number; visitId: string; col
  */
 export function handTreatmentMeans(rows: HandRow[]): Map<string, { mean: number; se: number | null; nPlots: number; nCollars: number }> {
   const avg = (xs: number[]) => xs.reduce((a, b) => a + b, 0) / xs.length;
-  const push = <T>(m: Map<string, T[]>, k: string, v: T) => { const l = m.get(k); if (l) l.push(v); else m.set(k, [v]); };
+  const push = <T>(m: Map<string, T[]>, k: string, v: T) => {
+    const l = m.get(k);
+    if (l) l.push(v);
+    else m.set(k, [v]);
+  };
   const visits = new Map<string, HandRow[]>();
   for (const r of rows) push(visits, r.visitId, r);
   const collars = new Map<string, { flux: number[]; row: HandRow }>();

@@ -8,9 +8,20 @@ async function seededRows(t: TestApp, states: string[]): Promise<HandRow[]> {
     `SELECT k.id, k.flux_umol_m2_s, k.visit_id, v.collar_id, v.campaign_id, c.plot_id, b.code AS block, pt.code AS pt, ct.code AS ct
        FROM closure k JOIN visit v ON v.id = k.visit_id JOIN collar c ON c.id = v.collar_id JOIN plot p ON p.id = c.plot_id
        LEFT JOIN block b ON b.id = p.block_id LEFT JOIN treatment pt ON pt.id = p.treatment_id LEFT JOIN treatment ct ON ct.id = c.treatment_id
-      WHERE k.site_id = $1 AND NOT k.deleted AND NOT v.skipped AND k.flux_umol_m2_s IS NOT NULL AND k.review_state = ANY($2)`, [DEMO_SITE_ID, states]);
-  return rows.map((r: any) => ({ closureId: r.id, flux: r.flux_umol_m2_s, visitId: r.visit_id, collarId: r.collar_id, campaignId: r.campaign_id,
-    plotId: r.plot_id, blockCode: r.block, plotTreatment: r.pt, collarTreatment: r.ct }));
+      WHERE k.site_id = $1 AND NOT k.deleted AND NOT v.skipped AND k.flux_umol_m2_s IS NOT NULL AND k.review_state = ANY($2)`,
+    [DEMO_SITE_ID, states],
+  );
+  return rows.map((r: any) => ({
+    closureId: r.id,
+    flux: r.flux_umol_m2_s,
+    visitId: r.visit_id,
+    collarId: r.collar_id,
+    campaignId: r.campaign_id,
+    plotId: r.plot_id,
+    blockCode: r.block,
+    plotTreatment: r.pt,
+    collarTreatment: r.ct,
+  }));
 }
 
 describe('Bench results: aggregation, responses and seasonal totals on the seeded season', () => {
@@ -53,7 +64,9 @@ describe('Bench results: aggregation, responses and seasonal totals on the seede
     expect(trn.meanUmolM2S).toBeLessThan(utr.meanUmolM2S);
     const stratum = res.body.blockStrata.find((s: any) => s.campaignId === april && s.stratum === 'collar-level within CTL');
     // A split plot: trenched and untrenched collars share each plot, so the plot (not the block) pairs them.
-    const ctlPlots = [...new Set(res.body.plotMeans.filter((m: any) => m.campaignId === april && m.cellKey === 'CTL|TRN').map((m: any) => m.plotCode))].sort();
+    const ctlPlots = [
+      ...new Set(res.body.plotMeans.filter((m: any) => m.campaignId === april && m.cellKey === 'CTL|TRN').map((m: any) => m.plotCode)),
+    ].sort();
     expect(stratum).toMatchObject({ factor: 'plot', cellKeys: ['CTL|TRN', 'CTL|UTR'], blockCodes: ctlPlots, dfResidual: 3 });
     expect(trn.seBlockUmolM2S).toBeCloseTo(Math.sqrt(stratum.msResidual / 4), 12);
   });
@@ -128,7 +141,7 @@ describe('Bench results: aggregation, responses and seasonal totals on the seede
     expect(auto.body.totals.every((c: any) => c.status === 'complete')).toBe(true);
   });
 
-  it('when a trenched plot\'s only accepted closures are flat near zero, then it is reported as too little signal, never a negative total', async () => {
+  it("when a trenched plot's only accepted closures are flat near zero, then it is reported as too little signal, never a negative total", async () => {
     const res = await lab.get(`/api/results/seasonal?siteId=${DEMO_SITE_ID}&from=2026-04-15&to=2026-05-12`);
     expect(res.status).toBe(200);
     const trn = res.body.totals.find((c: any) => c.cellKey === 'CTL|TRN');

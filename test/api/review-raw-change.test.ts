@@ -27,20 +27,47 @@ describe('raw changes after review', () => {
     const c = await makeUser(admin, ['crew'], [w.site.id]);
     crew = await signIn(t.app, c.email);
     crewName = (await crew.get('/api/auth/me')).body.user.displayName;
-    visit = (await lead.post('/api/visits', { siteId: w.site.id, campaignId: w.campaign.id, round: 1, collarId: w.collar.id,
-      arrivedAt: '2026-06-01T08:00:00Z' })).body.record;
+    visit = (
+      await lead.post('/api/visits', {
+        siteId: w.site.id,
+        campaignId: w.campaign.id,
+        round: 1,
+        collarId: w.collar.id,
+        arrivedAt: '2026-06-01T08:00:00Z',
+      })
+    ).body.record;
     // Volume from a chamber profile and the visit's offsets, so the flux is a number.
-    await admin.post('/api/chamber-profiles', { siteId: w.site.id, name: 'P', validFrom: '2026-01-01', chamberVolumeCm3: 4000, loopVolumeCm3: 100 });
-    await lead.post('/api/offset-sets', { siteId: w.site.id, visitId: visit.id, collarId: w.collar.id, campaignId: w.campaign.id,
-      takenAt: '2026-06-01T08:01:00Z', readingsCm: [2, 2, 2] });
+    await admin.post('/api/chamber-profiles', {
+      siteId: w.site.id,
+      name: 'P',
+      validFrom: '2026-01-01',
+      chamberVolumeCm3: 4000,
+      loopVolumeCm3: 100,
+    });
+    await lead.post('/api/offset-sets', {
+      siteId: w.site.id,
+      visitId: visit.id,
+      collarId: w.collar.id,
+      campaignId: w.campaign.id,
+      takenAt: '2026-06-01T08:01:00Z',
+      readingsCm: [2, 2, 2],
+    });
   });
   afterAll(() => t.close());
 
   /** A closure whose flux depends on the settle time (a curved rise), then reviewed by the lab. */
   async function reviewed(decision: Record<string, unknown>): Promise<Rec> {
-    const made = (await crew.post('/api/closures', { siteId: w.site.id, visitId: visit.id, collarId: w.collar.id, campaignId: w.campaign.id,
-      startedAt: `2026-06-01T08:${String(10 + Math.floor(Math.random() * 40)).padStart(2, '0')}:00Z`, settleS: 10,
-      series: { tS, co2Ppm: tS.map((s) => 420 + 2 * s - 0.008 * s * s), tempC: tS.map(() => 15), pressureKpa: tS.map(() => 98) } })).body.record;
+    const made = (
+      await crew.post('/api/closures', {
+        siteId: w.site.id,
+        visitId: visit.id,
+        collarId: w.collar.id,
+        campaignId: w.campaign.id,
+        startedAt: `2026-06-01T08:${String(10 + Math.floor(Math.random() * 40)).padStart(2, '0')}:00Z`,
+        settleS: 10,
+        series: { tS, co2Ppm: tS.map((s) => 420 + 2 * s - 0.008 * s * s), tempC: tS.map(() => 15), pressureKpa: tS.map(() => 98) },
+      })
+    ).body.record;
     const res = await lab.patch(`/api/closures/${made.id}`, { rev: made.rev, ...decision });
     expect(res.status).toBe(200);
     return res.body.record;
@@ -55,7 +82,9 @@ describe('raw changes after review', () => {
     const history = (await lab.get(`/api/bench/closures/${c.id}/history`)).body.items;
     const raw = history.filter((h: { kind: string }) => h.kind === 'raw-change');
     expect(raw.map((h: Rec) => [h.field, h.oldValue, h.newValue, h.userName])).toEqual([
-      ['settleS', 10, 30, crewName], ['reviewState', 'accepted', 'unreviewed', crewName]]);
+      ['settleS', 10, 30, crewName],
+      ['reviewState', 'accepted', 'unreviewed', crewName],
+    ]);
     expect(raw[0].oldFluxUmolM2S).toBe(c.fluxUmolM2S);
     expect(raw[0].newFluxUmolM2S).toBe(res.body.record.fluxUmolM2S);
     // The Bench shows it as changed since review, and a new decision clears the mark.
@@ -71,20 +100,36 @@ describe('raw changes after review', () => {
   it('when a device pushes a new series for a rejected closure, then it is unreviewed with the reason cleared', async () => {
     const c = await reviewed({ reviewState: 'rejected', reviewReason: 'chamber not sealed' });
     const series = { ...c.series, co2Ppm: tS.map((s) => 421 + 2 * s - 0.008 * s * s) };
-    const res = await crew.post('/api/sync/push', { deviceId: randomUUID(), outboxSize: 1,
-      ops: [{ opId: randomUUID(), entity: 'closure', id: c.id, baseRev: c.rev, op: 'upsert', fields: { series } }] });
+    const res = await crew.post('/api/sync/push', {
+      deviceId: randomUUID(),
+      outboxSize: 1,
+      ops: [{ opId: randomUUID(), entity: 'closure', id: c.id, baseRev: c.rev, op: 'upsert', fields: { series } }],
+    });
     expect(res.body.results[0]).toMatchObject({ status: 'applied', record: { reviewState: 'unreviewed', reviewReason: null } });
     const history = (await lab.get(`/api/bench/closures/${c.id}/history`)).body.items.filter((h: Rec) => h.kind === 'raw-change');
     expect(history.map((h: Rec) => [h.field, h.oldValue, h.newValue])).toEqual([
-      ['series', { samples: 90 }, { samples: 90 }], ['reviewState', 'rejected', 'unreviewed'], ['reviewReason', 'chamber not sealed', null]]);
+      ['series', { samples: 90 }, { samples: 90 }],
+      ['reviewState', 'rejected', 'unreviewed'],
+      ['reviewReason', 'chamber not sealed', null],
+    ]);
   });
 
-  it('when an unreviewed closure\'s raw data changes, or the lab only moves its window, then no raw-change history is written', async () => {
-    const made = (await crew.post('/api/closures', { siteId: w.site.id, visitId: visit.id, collarId: w.collar.id, campaignId: w.campaign.id,
-      startedAt: '2026-06-01T09:00:00Z', settleS: 10, series: { tS, co2Ppm: tS.map((s) => 420 + s), tempC: tS.map(() => 15) } })).body.record;
+  it("when an unreviewed closure's raw data changes, or the lab only moves its window, then no raw-change history is written", async () => {
+    const made = (
+      await crew.post('/api/closures', {
+        siteId: w.site.id,
+        visitId: visit.id,
+        collarId: w.collar.id,
+        campaignId: w.campaign.id,
+        startedAt: '2026-06-01T09:00:00Z',
+        settleS: 10,
+        series: { tS, co2Ppm: tS.map((s) => 420 + s), tempC: tS.map(() => 15) },
+      })
+    ).body.record;
     const edited = (await crew.patch(`/api/closures/${made.id}`, { rev: made.rev, settleS: 12 })).body.record;
     expect(edited.reviewState).toBe('unreviewed');
-    const accepted = (await lab.patch(`/api/closures/${made.id}`, { rev: edited.rev, reviewState: 'accepted', reviewSettleS: 20 })).body.record;
+    const accepted = (await lab.patch(`/api/closures/${made.id}`, { rev: edited.rev, reviewState: 'accepted', reviewSettleS: 20 })).body
+      .record;
     const moved = await lab.patch(`/api/closures/${made.id}`, { rev: accepted.rev, reviewSettleS: 25 });
     expect(moved.body.record.reviewState).toBe('accepted');
     const kinds = (await lab.get(`/api/bench/closures/${made.id}/history`)).body.items.map((h: Rec) => h.kind);

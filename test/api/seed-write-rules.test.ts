@@ -5,7 +5,7 @@ import { isolatedDatabase } from '../support/isolated-database';
  * The seed writes without the app (no routes are wired): the feature rules still apply because
  * they belong to the writer, so seeded lab decisions leave their review history like the Bench's.
  */
-describe('seed and the writer\'s rules', () => {
+describe("seed and the writer's rules", () => {
   let db: Client;
 
   beforeAll(async () => {

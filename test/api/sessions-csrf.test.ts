@@ -6,7 +6,8 @@ import { demoEmail, signIn, startTestApp, type TestApp } from '../support/test-a
 
 const anonymousSessionRows = async (t: TestApp) =>
   Number((await t.ds.query(`SELECT count(*) AS n FROM session WHERE (sess->'passport'->>'user') IS NULL`))[0].n);
-const cookieNames = (res: request.Response) => ((res.headers['set-cookie'] as unknown as string[] | undefined) ?? []).map((c) => c.split('=')[0]);
+const cookieNames = (res: request.Response) =>
+  ((res.headers['set-cookie'] as unknown as string[] | undefined) ?? []).map((c) => c.split('=')[0]);
 
 describe('sessions exist only for signed-in users; CSRF works before sign-in', () => {
   let t: TestApp;
@@ -48,7 +49,7 @@ describe('sessions exist only for signed-in users; CSRF works before sign-in', (
     { route: '/api/invitations/accept', body: { token: 'x'.repeat(43), displayName: 'Nobody', password: 'Harbour-lantern-77' }, ok: 410 },
     { route: '/api/auth/password-reset/confirm', body: { token: 'x'.repeat(43), password: 'Harbour-lantern-77' }, ok: 410 },
   ])('public POST $route', ({ route, body, ok }) => {
-    it('when it comes without a token, with another visitor\'s token, or with a made-up one, then it is refused with 403', async () => {
+    it("when it comes without a token, with another visitor's token, or with a made-up one, then it is refused with 403", async () => {
       const mine = request.agent(t.app);
       const other = request.agent(t.app);
       await mine.get('/api/auth/csrf');
@@ -62,7 +63,7 @@ describe('sessions exist only for signed-in users; CSRF works before sign-in', (
       }
     });
 
-    it('when it carries the visitor\'s own token, then it passes the CSRF check', async () => {
+    it("when it carries the visitor's own token, then it passes the CSRF check", async () => {
       const agent = request.agent(t.app);
       const token: string = (await agent.get('/api/auth/csrf')).body.token;
       expect((await agent.post(route).set('X-CSRF-Token', token).send(body)).status).toBe(ok);
@@ -85,32 +86,46 @@ describe('sessions exist only for signed-in users; CSRF works before sign-in', (
     const token = /accept-invitation\?token=([A-Za-z0-9_-]+)/.exec((await smtp.waitFor(email)).text)![1];
     const agent = request.agent(t.app);
     const csrf: string = (await agent.get('/api/auth/csrf')).body.token;
-    const res = await agent.post('/api/invitations/accept').set('X-CSRF-Token', csrf).send({ token, displayName: 'Csrf Accept', password: 'Harbour-lantern-77' });
+    const res = await agent
+      .post('/api/invitations/accept')
+      .set('X-CSRF-Token', csrf)
+      .send({ token, displayName: 'Csrf Accept', password: 'Harbour-lantern-77' });
     expect(res.status).toBe(201);
   });
 });
 
 describe('the purge job for expired sign-in counters and sessions', () => {
   let t: TestApp;
-  beforeAll(async () => { t = await startTestApp(); });
+  beforeAll(async () => {
+    t = await startTestApp();
+  });
   afterAll(() => t.close());
 
   it('when the purge runs, then expired counters, expired sessions and sessions without a user are gone and live ones stay', async () => {
     const tag = `purge-${Date.now()}`;
-    await t.ds.query(`INSERT INTO rate_limit_hit (key, hits, reset_at) VALUES ($1, 3, now() - interval '1 minute'), ($2, 2, now() + interval '10 minutes')`,
-      [`${tag}:old`, `${tag}:live`]);
+    await t.ds.query(
+      `INSERT INTO rate_limit_hit (key, hits, reset_at) VALUES ($1, 3, now() - interval '1 minute'), ($2, 2, now() + interval '10 minutes')`,
+      [`${tag}:old`, `${tag}:live`],
+    );
     const sess = (user: string | null) => JSON.stringify({ cookie: { originalMaxAge: 1000 }, ...(user ? { passport: { user } } : {}) });
     const [u] = await t.ds.query(`SELECT id FROM app_user WHERE email = $1`, [demoEmail('crew')]);
-    await t.ds.query(`INSERT INTO session (sid, sess, expire) VALUES
+    await t.ds.query(
+      `INSERT INTO session (sid, sess, expire) VALUES
       ($1, $4, now() - interval '1 day'), ($2, $5, now() + interval '1 day'), ($3, $4, now() + interval '1 day')`,
-    [`${tag}-expired`, `${tag}-anonymous`, `${tag}-live`, sess(u.id), sess(null)]);
+      [`${tag}-expired`, `${tag}-anonymous`, `${tag}-live`, sess(u.id), sess(null)],
+    );
 
     const job = jobDefinitions().find((d) => d.name === 'purge-auth-rows');
     expect(job?.schedule).toBeTruthy();
-    const result = await job!.handler({}, { ds: t.ds, jobId: tag, progress: async () => undefined }) as { rateLimitRows: number; sessionRows: number };
+    const result = (await job!.handler({}, { ds: t.ds, jobId: tag, progress: async () => undefined })) as {
+      rateLimitRows: number;
+      sessionRows: number;
+    };
     expect(result.rateLimitRows).toBeGreaterThanOrEqual(1);
     expect(result.sessionRows).toBeGreaterThanOrEqual(2);
-    expect(await t.ds.query(`SELECT key FROM rate_limit_hit WHERE key LIKE $1 ORDER BY key`, [`${tag}%`])).toEqual([{ key: `${tag}:live` }]);
+    expect(await t.ds.query(`SELECT key FROM rate_limit_hit WHERE key LIKE $1 ORDER BY key`, [`${tag}%`])).toEqual([
+      { key: `${tag}:live` },
+    ]);
     expect(await t.ds.query(`SELECT sid FROM session WHERE sid LIKE $1`, [`${tag}%`])).toEqual([{ sid: `${tag}-live` }]);
   });
 });

@@ -22,10 +22,21 @@ describe('collar CSV import: preview, then all or nothing', () => {
     expect(res.body.validRows).toBe(38);
     expect(res.body.errorRows).toBe(2);
     expect(res.body.fileErrors).toEqual([]);
-    expect(res.body.mapping).toMatchObject({ code: 'code', plot: 'plot', latitude: 'lat', longitude: 'lon', diameterCm: 'diameter_cm', installedOn: 'installed_on' });
+    expect(res.body.mapping).toMatchObject({
+      code: 'code',
+      plot: 'plot',
+      latitude: 'lat',
+      longitude: 'lon',
+      diameterCm: 'diameter_cm',
+      installedOn: 'installed_on',
+    });
     const bad = (res.body.rows as RowPreview[]).filter((r) => r.errors.length);
     expect(bad).toEqual([
-      { row: 8, cells: expect.any(Object), errors: [{ row: 8, column: 'diameter_cm', message: '"200 mm" is in mm; Inner diameter must be in cm' }] },
+      {
+        row: 8,
+        cells: expect.any(Object),
+        errors: [{ row: 8, column: 'diameter_cm', message: '"200 mm" is in mm; Inner diameter must be in cm' }],
+      },
       { row: 23, cells: expect.any(Object), errors: [{ row: 23, column: 'lat', message: 'Latitude must be at most 90 °' }] },
     ]);
     expect(await collarCount(admin, site.id)).toBe(0);
@@ -100,14 +111,22 @@ describe('collar CSV import: preview, then all or nothing', () => {
   it('when a column header declares the wrong unit or the CSV is broken, then the file is refused before any row', async () => {
     const { site } = await makeLayout(admin);
     const mm = await admin.post(`/api/sites/${site.id}/collar-import/preview`, { csv: 'code,plot,Diameter (mm)\nM1,P1,200\n' });
-    expect(mm.body.fileErrors).toEqual([{ row: 1, column: 'Diameter (mm)', message: 'Inner diameter is given in mm; the import takes cm (convert the column first)' }]);
+    expect(mm.body.fileErrors).toEqual([
+      { row: 1, column: 'Diameter (mm)', message: 'Inner diameter is given in mm; the import takes cm (convert the column first)' },
+    ]);
     const commit = await admin.post(`/api/sites/${site.id}/collar-import/commit`, { csv: 'code,plot,Diameter (mm)\nM1,P1,200\n' });
     expect(commit.status).toBe(400);
     expect(commit.body.error.message).toBe('Nothing was imported: the file has errors');
 
-    const ragged = await admin.post(`/api/sites/${site.id}/collar-import/preview`, { csv: 'code,plot,diameter_cm\nR1,P1,20,extra\nR2,P1,"20\n' });
+    const ragged = await admin.post(`/api/sites/${site.id}/collar-import/preview`, {
+      csv: 'code,plot,diameter_cm\nR1,P1,20,extra\nR2,P1,"20\n',
+    });
     expect(ragged.body.fileErrors.map((e: { row: number; message: string }) => [e.row, e.message.split(':')[0]])).toEqual(
-      expect.arrayContaining([[2, 'Row has 4 cells but the header has 3'], [3, 'Malformed CSV']]));
+      expect.arrayContaining([
+        [2, 'Row has 4 cells but the header has 3'],
+        [3, 'Malformed CSV'],
+      ]),
+    );
 
     const noPlot = await admin.post(`/api/sites/${site.id}/collar-import/preview`, { csv: 'code,diameter_cm\nN1,20\n' });
     expect(noPlot.body.fileErrors).toEqual([{ row: 1, column: 'Plot code', message: 'No column is mapped to Plot code' }]);
@@ -116,7 +135,8 @@ describe('collar CSV import: preview, then all or nothing', () => {
   it('when a column is mapped by hand, then that header is used', async () => {
     const { site } = await makeLayout(admin);
     const res = await admin.post(`/api/sites/${site.id}/collar-import/preview`, {
-      csv: 'Ring,Parcel,Ring size cm\nH1,P2,25\n', mapping: { code: 'Ring', plot: 'Parcel', diameterCm: 'Ring size cm' },
+      csv: 'Ring,Parcel,Ring size cm\nH1,P2,25\n',
+      mapping: { code: 'Ring', plot: 'Parcel', diameterCm: 'Ring size cm' },
     });
     expect(res.body.fileErrors).toEqual([]);
     expect(res.body.validRows).toBe(1);

@@ -18,10 +18,21 @@ describe('chamber profile versions', () => {
     const { site, plots } = await makeLayout(admin);
     siteId = site.id;
     lead = await makeUser(t.app, admin, 'lead', [siteId]);
-    v1 = (await admin.post('/api/chamber-profiles', { siteId, name: 'Opaque 20 cm', validFrom: '2026-01-01', chamberVolumeCm3: 4000, loopVolumeCm3: 50 })).body.record;
+    v1 = (
+      await admin.post('/api/chamber-profiles', {
+        siteId,
+        name: 'Opaque 20 cm',
+        validFrom: '2026-01-01',
+        chamberVolumeCm3: 4000,
+        loopVolumeCm3: 50,
+      })
+    ).body.record;
     const collar = (await lead.post('/api/collars', { siteId, code: 'V1', plotId: plots[0].id, diameterCm: 20 })).body.record;
-    campaign = (await lead.post('/api/campaigns', { siteId, name: 'June', startsOn: '2026-06-01', endsOn: '2026-06-02', rounds: 1 })).body.record;
-    const visit = (await lead.post('/api/visits', { siteId, campaignId: campaign.id, round: 1, collarId: collar.id, arrivedAt: '2026-06-01T08:00:00Z' })).body.record;
+    campaign = (await lead.post('/api/campaigns', { siteId, name: 'June', startsOn: '2026-06-01', endsOn: '2026-06-02', rounds: 1 })).body
+      .record;
+    const visit = (
+      await lead.post('/api/visits', { siteId, campaignId: campaign.id, round: 1, collarId: collar.id, arrivedAt: '2026-06-01T08:00:00Z' })
+    ).body.record;
     const ids = { siteId, visitId: visit.id, collarId: collar.id, campaignId: campaign.id };
     expect((await lead.post('/api/offset-sets', { ...ids, takenAt: '2026-06-01T08:01:00Z', readingsCm: [2, 2, 2, 2] })).status).toBe(201);
     const closure = await lead.post('/api/closures', { ...ids, startedAt: '2026-06-01T08:02:00Z', settleS: 20, series: closureSeries() });
@@ -40,7 +51,10 @@ describe('chamber profile versions', () => {
       fields: [{ path: 'chamberVolumeCm3', message: 'Fixed once closures use this version' }],
     });
     const del = await admin.delete(`/api/chamber-profiles/${v1.id}?rev=${v1.rev}`);
-    expect([del.status, del.body.error.message]).toEqual([409, '1 closure uses this chamber profile; add a new version valid from a date instead of deleting it']);
+    expect([del.status, del.body.error.message]).toEqual([
+      409,
+      '1 closure uses this chamber profile; add a new version valid from a date instead of deleting it',
+    ]);
     const rename = await admin.patch(`/api/chamber-profiles/${v1.id}`, { rev: v1.rev, name: 'Opaque 20 cm <b>A</b>' });
     expect([rename.status, rename.body.record.name]).toEqual([200, 'Opaque 20 cm <b>A</b>']);
     v1 = rename.body.record;
@@ -60,7 +74,13 @@ describe('chamber profile versions', () => {
     const res = await admin.post(`/api/chamber-profiles/${v1.id}/versions`, { validFrom: '2026-05-01', chamberVolumeCm3: 8000 });
     expect(res.status).toBe(201);
     expect(res.body.recomputed).toBe(1);
-    expect(res.body.record).toMatchObject({ name: 'Opaque 20 cm <b>A</b>', validFrom: '2026-05-01', chamberVolumeCm3: 8000, loopVolumeCm3: 50, siteId });
+    expect(res.body.record).toMatchObject({
+      name: 'Opaque 20 cm <b>A</b>',
+      validFrom: '2026-05-01',
+      chamberVolumeCm3: 8000,
+      loopVolumeCm3: 50,
+      siteId,
+    });
     const after = (await lead.get(`/api/closures/${closureId}`)).body.record;
     expect(after.results.profileId).toBe(res.body.record.id);
     expect(after.rev).toBe(before.rev + 1);
@@ -88,8 +108,17 @@ describe('chamber profile versions', () => {
   it('when the campaign is locked, then the preview counts its closures as kept, not recomputed', async () => {
     // Locking needs every collar complete: the visit's probe reading is the item still due.
     const c = (await lead.get(`/api/closures/${closureId}`)).body.record;
-    expect((await lead.post('/api/probe-readings', { siteId, visitId: c.visitId, collarId: c.collarId, campaignId: campaign.id,
-      takenAt: '2026-06-01T08:05:00Z' })).status).toBe(201);
+    expect(
+      (
+        await lead.post('/api/probe-readings', {
+          siteId,
+          visitId: c.visitId,
+          collarId: c.collarId,
+          campaignId: campaign.id,
+          takenAt: '2026-06-01T08:05:00Z',
+        })
+      ).status,
+    ).toBe(201);
     const locked = await lead.patch(`/api/campaigns/${campaign.id}`, { rev: campaign.rev, locked: true });
     expect(locked.status).toBe(200);
     const res = await admin.post(`/api/sites/${siteId}/chamber-profiles/recompute-preview`, { validFrom: '2026-05-15' });
@@ -97,7 +126,15 @@ describe('chamber profile versions', () => {
   });
 
   it('when a profile no closure uses is edited, then the edit applies; leads and crew may not add versions', async () => {
-    const spare = (await admin.post('/api/chamber-profiles', { siteId, name: 'Spare', validFrom: '2027-01-01', chamberVolumeCm3: 3000, loopVolumeCm3: 40 })).body.record;
+    const spare = (
+      await admin.post('/api/chamber-profiles', {
+        siteId,
+        name: 'Spare',
+        validFrom: '2027-01-01',
+        chamberVolumeCm3: 3000,
+        loopVolumeCm3: 40,
+      })
+    ).body.record;
     const edit = await admin.patch(`/api/chamber-profiles/${spare.id}`, { rev: spare.rev, chamberVolumeCm3: 3100 });
     expect([edit.status, edit.body.record.chamberVolumeCm3]).toEqual([200, 3100]);
     const byLead = await lead.post(`/api/chamber-profiles/${spare.id}/versions`, { validFrom: '2027-02-01' });

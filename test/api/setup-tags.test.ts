@@ -105,7 +105,11 @@ describe('printable collar tag sheet', () => {
       expect(res.status).toBe(409);
       expect(res.body.error.message).toBe('These codes are already used at this site: C09, C10. Choose another prefix or first number.');
       const free = await blank(admin, '?count=2&codePrefix=C&firstNumber=41&digits=2');
-      expect(decodePdfQrCodes(free.body as Buffer).codes.flat().map((u) => u.split('?code=')[1])).toEqual(['C41', 'C42']);
+      expect(
+        decodePdfQrCodes(free.body as Buffer)
+          .codes.flat()
+          .map((u) => u.split('?code=')[1]),
+      ).toEqual(['C41', 'C42']);
     });
 
     it('when the options are out of range, then 400 names each field', async () => {

@@ -13,8 +13,11 @@ const LEAD_ID = '1a6f0c3e-2d4b-4e8a-9c1f-3b5d7e9f1a02';
 function series() {
   const tS = Array.from({ length: 151 }, (_, i) => i);
   return {
-    tS, co2Ppm: tS.map((t) => 420 + 60 * (1 - Math.exp(-0.01 * t))),
-    h2oMmolMol: tS.map(() => 0), pressureKpa: tS.map(() => 100), tempC: tS.map(() => 20),
+    tS,
+    co2Ppm: tS.map((t) => 420 + 60 * (1 - Math.exp(-0.01 * t))),
+    h2oMmolMol: tS.map(() => 0),
+    pressureKpa: tS.map(() => 100),
+    tempC: tS.map(() => 20),
   };
 }
 
@@ -33,14 +36,41 @@ describe('Slope basis of a site and the soil area of a closure', () => {
   it('when a site switches to the settle-end basis, then its closures are recomputed with that basis; the collar’s area is A and a differing footprint is flagged', async () => {
     expect(world.site.slopeBasis).toBe('closure');
     // A 317.8 cm² footprint on a 20 cm collar (314.16 cm², π d²/4): 1.2 % apart.
-    await admin.post('/api/chamber-profiles', { siteId: world.site.id, name: 'Chamber S', validFrom: '2026-01-01', chamberVolumeCm3: 4000,
-      loopVolumeCm3: 0, footprintAreaCm2: 317.8 });
-    const visit = (await lead.post('/api/visits', { siteId: world.site.id, campaignId: world.campaign.id, round: 1, collarId: world.collar.id,
-      arrivedAt: '2026-06-01T09:00:00Z' })).body.record;
-    await lead.post('/api/offset-sets', { siteId: world.site.id, visitId: visit.id, collarId: world.collar.id, campaignId: world.campaign.id,
-      takenAt: '2026-06-01T09:05:00Z', readingsCm: [0, 0, 0, 0] });
-    const res = await lead.post('/api/closures', { id: randomUUID(), siteId: world.site.id, visitId: visit.id, collarId: world.collar.id,
-      campaignId: world.campaign.id, startedAt: '2026-06-01T09:10:00Z', settleS: 20, series: series() });
+    await admin.post('/api/chamber-profiles', {
+      siteId: world.site.id,
+      name: 'Chamber S',
+      validFrom: '2026-01-01',
+      chamberVolumeCm3: 4000,
+      loopVolumeCm3: 0,
+      footprintAreaCm2: 317.8,
+    });
+    const visit = (
+      await lead.post('/api/visits', {
+        siteId: world.site.id,
+        campaignId: world.campaign.id,
+        round: 1,
+        collarId: world.collar.id,
+        arrivedAt: '2026-06-01T09:00:00Z',
+      })
+    ).body.record;
+    await lead.post('/api/offset-sets', {
+      siteId: world.site.id,
+      visitId: visit.id,
+      collarId: world.collar.id,
+      campaignId: world.campaign.id,
+      takenAt: '2026-06-01T09:05:00Z',
+      readingsCm: [0, 0, 0, 0],
+    });
+    const res = await lead.post('/api/closures', {
+      id: randomUUID(),
+      siteId: world.site.id,
+      visitId: visit.id,
+      collarId: world.collar.id,
+      campaignId: world.campaign.id,
+      startedAt: '2026-06-01T09:10:00Z',
+      settleS: 20,
+      series: series(),
+    });
     expect(res.status).toBe(201);
     const c = res.body.record;
     const collarArea = Math.PI * 100;
@@ -57,7 +87,10 @@ describe('Slope basis of a site and the soil area of a closure', () => {
     expect(bad.status).toBe(400);
     const patched = await admin.patch(`/api/sites/${world.site.id}`, { rev: site.rev, slopeBasis: 'settle_end' });
     expect(patched.status).toBe(200);
-    const [request] = await t.ds.query(`SELECT id, data FROM job_outbox WHERE data->>'siteId' = $1 AND data->>'reason' = 'site defaults changed'`, [world.site.id]);
+    const [request] = await t.ds.query(
+      `SELECT id, data FROM job_outbox WHERE data->>'siteId' = $1 AND data->>'reason' = 'site defaults changed'`,
+      [world.site.id],
+    );
     const out = await recomputeClosures(t.ds, request.data as RecomputeScope, { jobId: request.id });
     expect(out.changedIds).toEqual([c.id]);
     const after = (await lab.get(`/api/closures/${c.id}`)).body.record;
@@ -68,12 +101,14 @@ describe('Slope basis of a site and the soil area of a closure', () => {
     expect(after.results.raw.exponential.fluxAtClosureUmolM2S).toBeCloseTo(c.fluxUmolM2S, 8);
   });
 
-  it('when a collar\'s diameter is corrected, then its closures are asked to be recomputed (A is the collar\'s area)', async () => {
+  it("when a collar's diameter is corrected, then its closures are asked to be recomputed (A is the collar's area)", async () => {
     const collar = (await lead.get(`/api/collars/${world.collar.id}`)).body.record;
     const res = await lead.patch(`/api/collars/${collar.id}`, { rev: collar.rev, diameterCm: 19.8 });
     expect(res.status).toBe(200);
     expect(res.body.record.areaCm2).toBeCloseTo((Math.PI * 19.8 * 19.8) / 4, 9);
-    const jobs = await t.ds.query(`SELECT data FROM job_outbox WHERE data->>'collarId' = $1 AND data->>'reason' = 'collar area changed'`, [collar.id]);
+    const jobs = await t.ds.query(`SELECT data FROM job_outbox WHERE data->>'collarId' = $1 AND data->>'reason' = 'collar area changed'`, [
+      collar.id,
+    ]);
     expect(jobs).toHaveLength(1);
   });
 });

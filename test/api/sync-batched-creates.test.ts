@@ -29,39 +29,71 @@ describe('sync push: batched creates answer as single creates', () => {
     other = await buildWorld({ admin, lead: await signIn(t.app, ol.email), lab }, ol.id, `bo${randomUUID().slice(0, 6)}`);
     lead = (await leadSession.get('/api/auth/me')).body.user;
     crew = (await (await signIn(t.app, (await makeUser(admin, ['crew'], [home.site.id])).email)).get('/api/auth/me')).body.user;
-    const campaign = (await leadSession.post('/api/campaigns', { siteId: home.site.id, name: 'Closed', startsOn: '2026-05-01', endsOn: '2026-05-01', rounds: 1 })).body.record;
-    lockedVisitId = (await leadSession.post('/api/visits', { siteId: home.site.id, campaignId: campaign.id, round: 1, collarId: home.collar.id,
-      arrivedAt: '2026-05-01T08:00:00Z', skipped: true, skipReason: 'flooded' })).body.record.id;
+    const campaign = (
+      await leadSession.post('/api/campaigns', {
+        siteId: home.site.id,
+        name: 'Closed',
+        startsOn: '2026-05-01',
+        endsOn: '2026-05-01',
+        rounds: 1,
+      })
+    ).body.record;
+    lockedVisitId = (
+      await leadSession.post('/api/visits', {
+        siteId: home.site.id,
+        campaignId: campaign.id,
+        round: 1,
+        collarId: home.collar.id,
+        arrivedAt: '2026-05-01T08:00:00Z',
+        skipped: true,
+        skipReason: 'flooded',
+      })
+    ).body.record.id;
     expect((await leadSession.post(`/api/campaigns/${campaign.id}/lock`)).status).toBe(200);
   });
   afterAll(() => t.close());
 
-  const create = (entity: string, fields: Record<string, unknown>, id: string = randomUUID()) =>
-    ({ opId: randomUUID(), entity, id, baseRev: null, op: 'upsert', fields });
+  const create = (entity: string, fields: Record<string, unknown>, id: string = randomUUID()) => ({
+    opId: randomUUID(),
+    entity,
+    id,
+    baseRev: null,
+    op: 'upsert',
+    fields,
+  });
   const event = (n: number, collarId = home.collar.id, siteId = home.site.id) =>
     create('collarEvent', { siteId, collarId, kind: 'clipped', date: '2026-06-03', note: `batched ${n}` });
-  const offset = (over: Record<string, unknown> = {}) => create('offsetSet', { ...createBody(home.offsetSet), readingsCm: [1.5, 2.5, 12], ...over });
-  const probe = (over: Record<string, unknown> = {}) => create('probeReading', { ...createBody(home.probeReading), moistureRaw: 18.25, ...over });
+  const offset = (over: Record<string, unknown> = {}) =>
+    create('offsetSet', { ...createBody(home.offsetSet), readingsCm: [1.5, 2.5, 12], ...over });
+  const probe = (over: Record<string, unknown> = {}) =>
+    create('probeReading', { ...createBody(home.probeReading), moistureRaw: 18.25, ...over });
 
   /** Runs the ops in a transaction, reads back everything they wrote, and rolls it all back. */
   async function run(user: SessionUser, deviceId: string, ops: unknown[], batchCreates: boolean) {
     const rollback = new Error('rollback');
     let seen: unknown;
     const [{ s: since }] = await t.ds.query(`SELECT coalesce(max(seq), 0)::bigint AS s FROM change_log`);
-    await t.ds.transaction(async (em: EntityManager) => {
-      const results = await applyBatch(em, user, deviceId, ops.length, ops.map(parseOp), { batchCreates });
-      const log = await em.query(
-        `SELECT entity, record_id, rev, site_id, fields, deleted, user_id, device_id FROM change_log WHERE seq > $1 ORDER BY seq`, [since]);
-      const rows: Record<string, unknown[]> = {};
-      for (const table of ['collar_event', 'offset_set', 'probe_reading', 'visit', 'analyzer', 'collar']) {
-        const ids = (ops as { id: string }[]).map((o) => o.id);
-        rows[table] = (await em.query(`SELECT * FROM ${table} WHERE id::text = ANY($1) ORDER BY id`, [ids]))
-          .map(({ updated_at: _u, ...r }: Record<string, unknown>) => r);
-      }
-      const ledger = await em.query(`SELECT op_id, status, response FROM sync_op WHERE device_id = $1 ORDER BY op_id`, [deviceId]);
-      seen = { results: JSON.parse(JSON.stringify(results, (k, v) => (k === 'updatedAt' ? undefined : v))), log, rows, ledger };
-      throw rollback;
-    }).catch((err) => { if (err !== rollback) throw err; });
+    await t.ds
+      .transaction(async (em: EntityManager) => {
+        const results = await applyBatch(em, user, deviceId, ops.length, ops.map(parseOp), { batchCreates });
+        const log = await em.query(
+          `SELECT entity, record_id, rev, site_id, fields, deleted, user_id, device_id FROM change_log WHERE seq > $1 ORDER BY seq`,
+          [since],
+        );
+        const rows: Record<string, unknown[]> = {};
+        for (const table of ['collar_event', 'offset_set', 'probe_reading', 'visit', 'analyzer', 'collar']) {
+          const ids = (ops as { id: string }[]).map((o) => o.id);
+          rows[table] = (await em.query(`SELECT * FROM ${table} WHERE id::text = ANY($1) ORDER BY id`, [ids])).map(
+            ({ updated_at: _u, ...r }: Record<string, unknown>) => r,
+          );
+        }
+        const ledger = await em.query(`SELECT op_id, status, response FROM sync_op WHERE device_id = $1 ORDER BY op_id`, [deviceId]);
+        seen = { results: JSON.parse(JSON.stringify(results, (k, v) => (k === 'updatedAt' ? undefined : v))), log, rows, ledger };
+        throw rollback;
+      })
+      .catch((err) => {
+        if (err !== rollback) throw err;
+      });
     return seen as { results: { status: string }[]; log: unknown[]; rows: Record<string, unknown[]>; ledger: unknown[] };
   }
 
@@ -101,23 +133,62 @@ describe('sync push: batched creates answer as single creates', () => {
       create('analyzer', { siteId: home.site.id, name: 'Not for a lead', serial: 'X' }), // role
       create('collarEvent', createBody(home.collarEvent), home.collarEvent.id), // repeated create, same content
       create('collarEvent', { ...createBody(home.collarEvent), note: 'changed' }, home.collarEvent.id), // repeated create, other content
-      twice, twice, // the same op twice
-      sameId, { ...event(8), id: sameId.id }, // one id, two contents
-      { opId: randomUUID(), entity: 'collar', id: home.collar.id, baseRev: home.collar.rev, op: 'upsert', fields: { notes: 'edited in the batch' } },
-      create('visit', { siteId: home.site.id, campaignId: home.campaign.id, round: 1, collarId: home.collar.id, arrivedAt: '2026-06-01T10:00:00Z' }, visitId),
-      offset({ visitId }), probe({ visitId }), // under the visit created just before
+      twice,
+      twice, // the same op twice
+      sameId,
+      { ...event(8), id: sameId.id }, // one id, two contents
+      {
+        opId: randomUUID(),
+        entity: 'collar',
+        id: home.collar.id,
+        baseRev: home.collar.rev,
+        op: 'upsert',
+        fields: { notes: 'edited in the batch' },
+      },
+      create(
+        'visit',
+        { siteId: home.site.id, campaignId: home.campaign.id, round: 1, collarId: home.collar.id, arrivedAt: '2026-06-01T10:00:00Z' },
+        visitId,
+      ),
+      offset({ visitId }),
+      probe({ visitId }), // under the visit created just before
       create('collar', { siteId: home.site.id, code: home.collar.code as string, plotId: home.plot.id, diameterCm: 20 }), // taken code: guarded entity
-      event(9), probe(),
+      event(9),
+      probe(),
     ];
     const { batched, batchedRows } = await bothWays(lead, ops);
     expect(batchedRows).toBeGreaterThanOrEqual(5);
     expect(batched.results.map((r) => r.status)).toEqual([
-      'applied', 'rejected', 'rejected', 'rejected', 'rejected', 'rejected', 'duplicate', 'conflict', 'applied', 'duplicate',
-      'applied', 'conflict', 'applied', 'applied', 'applied', 'applied', 'rejected', 'applied', 'applied']);
+      'applied',
+      'rejected',
+      'rejected',
+      'rejected',
+      'rejected',
+      'rejected',
+      'duplicate',
+      'conflict',
+      'applied',
+      'duplicate',
+      'applied',
+      'conflict',
+      'applied',
+      'applied',
+      'applied',
+      'applied',
+      'rejected',
+      'applied',
+      'applied',
+    ]);
   });
 
   it('when a crew member pushes creates their role allows and one it does not, then the answers are the single-op ones', async () => {
-    const ops = [probe(), offset(), create('route', { siteId: home.site.id, name: 'Crew route', collarIds: [home.collar.id] }), probe(), event(10)];
+    const ops = [
+      probe(),
+      offset(),
+      create('route', { siteId: home.site.id, name: 'Crew route', collarIds: [home.collar.id] }),
+      probe(),
+      event(10),
+    ];
     const { batched } = await bothWays(crew, ops);
     expect(batched.results.filter((r) => r.status === 'applied').length).toBeGreaterThanOrEqual(3);
   });

@@ -22,7 +22,9 @@ describe('sync under concurrency', () => {
     lead = await signIn(t.app, demoEmail('lead'));
     world = await makeSiteWithCollar(admin, lead, LEAD_ID);
     for (let i = 0; i < SHARED_COLLARS; i++) {
-      shared.push((await lead.post('/api/collars', { siteId: world.site.id, code: `SH-${i}`, plotId: world.plot.id, diameterCm: 20 })).body.record.id);
+      shared.push(
+        (await lead.post('/api/collars', { siteId: world.site.id, code: `SH-${i}`, plotId: world.plot.id, diameterCm: 20 })).body.record.id,
+      );
     }
   });
   afterAll(() => t.close());
@@ -32,8 +34,14 @@ describe('sync under concurrency', () => {
     for (let i = 0; ops.length < OPS_PER_DEVICE; i++) {
       const kind = i % 10;
       if (kind < 6) {
-        ops.push({ opId: randomUUID(), entity: 'collarEvent', id: randomUUID(), baseRev: null, op: 'upsert',
-          fields: { siteId: world.site.id, collarId: shared[i % SHARED_COLLARS], kind: 'clipped', date: '2026-06-01', note: `d${d} #${i}` } });
+        ops.push({
+          opId: randomUUID(),
+          entity: 'collarEvent',
+          id: randomUUID(),
+          baseRev: null,
+          op: 'upsert',
+          fields: { siteId: world.site.id, collarId: shared[i % SHARED_COLLARS], kind: 'clipped', date: '2026-06-01', note: `d${d} #${i}` },
+        });
       } else if (kind < 8) {
         // Every device edits the shared collars from rev 1: the first wins, disjoint fields merge, the rest conflict.
         const field = kind === 6 ? { notes: `device ${d} op ${i}` } : { heightCm: 5 + d };
@@ -41,8 +49,14 @@ describe('sync under concurrency', () => {
       } else if (kind === 8) {
         ops.push({ ...ops[ops.length - 3] }); // the same opId again in the same batch: a replay
       } else {
-        ops.push({ opId: randomUUID(), entity: 'collar', id: randomUUID(), baseRev: null, op: 'upsert',
-          fields: { siteId: world.site.id, code: `BAD-${d}-${i}`, plotId: world.plot.id, diameterCm: 500 } });
+        ops.push({
+          opId: randomUUID(),
+          entity: 'collar',
+          id: randomUUID(),
+          baseRev: null,
+          op: 'upsert',
+          fields: { siteId: world.site.id, code: `BAD-${d}-${i}`, plotId: world.plot.id, diameterCm: 500 },
+        });
       }
     }
     return ops;
@@ -50,8 +64,9 @@ describe('sync under concurrency', () => {
 
   it('when 20 devices push at once, then every op is answered once, nothing is duplicated and a full pull reproduces the database', async () => {
     const batches = Array.from({ length: DEVICES }, (_, d) => deviceOps(d));
-    const answers = await Promise.all(batches.map((ops) =>
-      lead.post('/api/sync/push', { deviceId: randomUUID(), outboxSize: ops.length, ops })));
+    const answers = await Promise.all(
+      batches.map((ops) => lead.post('/api/sync/push', { deviceId: randomUUID(), outboxSize: ops.length, ops })),
+    );
 
     const statuses: Record<string, number> = {};
     for (const a of answers) {
@@ -70,7 +85,8 @@ describe('sync under concurrency', () => {
     const [{ n: events }] = await t.ds.query(`SELECT count(*)::int AS n FROM collar_event WHERE site_id = $1`, [world.site.id]);
     expect(events).toBe(DEVICES * 300);
     const [{ n: revs }] = await t.ds.query(
-      `SELECT count(*)::int AS n FROM (SELECT record_id, rev FROM change_log GROUP BY 1, 2 HAVING count(*) > 1) x`);
+      `SELECT count(*)::int AS n FROM (SELECT record_id, rev FROM change_log GROUP BY 1, 2 HAVING count(*) > 1) x`,
+    );
     expect(revs).toBe(0);
 
     // A full pull from cursor 0 reproduces every record of the site exactly.
@@ -79,7 +95,8 @@ describe('sync under concurrency', () => {
     for (let more = true; more;) {
       const r = await lead.get(`/api/sync/pull?cursor=${cursor}&limit=5000&deviceId=${randomUUID()}`);
       for (const c of r.body.changes) pulled.set(`${c.entity}:${c.id}`, c.record);
-      cursor = r.body.cursor; more = r.body.more;
+      cursor = r.body.cursor;
+      more = r.body.more;
     }
     for (const entity of SYNC_ENTITIES) {
       const d = ENTITY_DEFS[entity];

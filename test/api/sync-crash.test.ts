@@ -9,7 +9,9 @@ const OPS = 4000;
 
 describe('sync when the server process dies', () => {
   let t: TestApp;
-  beforeAll(async () => { t = await startTestApp(); });
+  beforeAll(async () => {
+    t = await startTestApp();
+  });
   afterAll(() => t.close());
 
   it('when the server is SIGKILLed during a large push and the client retries, then every op is applied exactly once', async () => {
@@ -17,15 +19,24 @@ describe('sync when the server process dies', () => {
     const lead = await signIn(t.app, demoEmail('lead'));
     const world = await makeSiteWithCollar(admin, lead, LEAD_ID);
     const ids = Array.from({ length: OPS }, () => randomUUID());
-    const ops = ids.map((id, i) => ({ opId: randomUUID(), entity: 'collarEvent', id, baseRev: null, op: 'upsert',
-      fields: { siteId: world.site.id, collarId: world.collar.id, kind: 'clipped', date: '2026-06-01', note: `crash #${i}` } }));
+    const ops = ids.map((id, i) => ({
+      opId: randomUUID(),
+      entity: 'collarEvent',
+      id,
+      baseRev: null,
+      op: 'upsert',
+      fields: { siteId: world.site.id, collarId: world.collar.id, kind: 'clipped', date: '2026-06-01', note: `crash #${i}` },
+    }));
     const body = { deviceId: randomUUID(), outboxSize: OPS, ops };
     const countStored = async () =>
       (await t.ds.query(`SELECT count(*)::int AS n FROM collar_event WHERE id = ANY($1::uuid[])`, [ids]))[0].n as number;
 
     const first = await startServerProcess(process.env['TEST_DATABASE_URL']!);
     const call = await httpSession(first.base, demoEmail('lead'));
-    const lost = call('POST', '/api/sync/push', body).then(() => 'answered', () => 'lost');
+    const lost = call('POST', '/api/sync/push', body).then(
+      () => 'answered',
+      () => 'lost',
+    );
     await new Promise((r) => setTimeout(r, 400));
     first.child.kill('SIGKILL');
     expect(await lost).toBe('lost');

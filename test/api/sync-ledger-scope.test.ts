@@ -21,8 +21,15 @@ describe('the sync op ledger is per user', () => {
   });
   afterAll(() => t.close());
 
-  it('when another user replays someone\'s opId, then the op is judged as theirs and the stored answer stays with its sender', async () => {
-    const op = { opId: randomUUID(), entity: 'collar', id: w.collar.id, baseRev: w.collar.rev, op: 'upsert', fields: { notes: 'ledger test' } };
+  it("when another user replays someone's opId, then the op is judged as theirs and the stored answer stays with its sender", async () => {
+    const op = {
+      opId: randomUUID(),
+      entity: 'collar',
+      id: w.collar.id,
+      baseRev: w.collar.rev,
+      op: 'upsert',
+      fields: { notes: 'ledger test' },
+    };
     const first = (await push(owner, [op])).body.results[0];
     expect(first).toMatchObject({ status: 'applied', rev: w.collar.rev + 1 });
     const stolen = (await push(other, [op])).body.results[0];

@@ -14,7 +14,9 @@ const LEAD_ID = '1a6f0c3e-2d4b-4e8a-9c1f-3b5d7e9f1a02';
  */
 describe('sync pull while others push', () => {
   let t: TestApp;
-  beforeAll(async () => { t = await startTestApp(); });
+  beforeAll(async () => {
+    t = await startTestApp();
+  });
   afterAll(() => t.close());
 
   it('when a push commits right after a pull read its page, then the next pull from its cursor sends that record', async () => {
@@ -33,8 +35,16 @@ describe('sync pull while others push', () => {
       const out = await query(...args);
       if (!injected && /FROM change_log\s+WHERE seq > \$1/.test(args[0])) {
         injected = true; // another device's push commits now, between the page and the answer
-        const [r] = await pushOps(t.ds, lead, randomUUID(), 1, [{ opId: randomUUID(), entity: 'collarEvent', id, baseRev: null, op: 'upsert',
-          fields: { siteId: world.site.id, collarId: world.collar.id, kind: 'clipped', date: '2026-06-01', note: 'committed mid-pull' } }]);
+        const [r] = await pushOps(t.ds, lead, randomUUID(), 1, [
+          {
+            opId: randomUUID(),
+            entity: 'collarEvent',
+            id,
+            baseRev: null,
+            op: 'upsert',
+            fields: { siteId: world.site.id, collarId: world.collar.id, kind: 'clipped', date: '2026-06-01', note: 'committed mid-pull' },
+          },
+        ]);
         expect(r.status).toBe('applied');
       }
       return out;

@@ -27,8 +27,12 @@ describe('pull records from raw rows', () => {
     await deleteWorld(by, await buildWorld(by, made.id, `rd${randomUUID().slice(0, 6)}`));
     // A record with odd values: an empty note, a negative and a tiny number, unicode text.
     const w = await buildWorld(by, made.id, `ro${randomUUID().slice(0, 6)}`);
-    const res = await leadSession.patch(`/api/collars/${w.collar.id}`,
-      { rev: w.collar.rev, notes: 'Größe ≈ 20 cm "quoted" \\ back\nline', latitude: -0.000001234, longitude: 1e-7 });
+    const res = await leadSession.patch(`/api/collars/${w.collar.id}`, {
+      rev: w.collar.rev,
+      notes: 'Größe ≈ 20 cm "quoted" \\ back\nline',
+      latitude: -0.000001234,
+      longitude: 1e-7,
+    });
     expect([res.status, res.body.error]).toEqual([200, undefined]);
     lead = (await leadSession.get('/api/auth/me')).body.user;
   });
@@ -37,17 +41,20 @@ describe('pull records from raw rows', () => {
   const hydrated = async (entity: EntityName, ids: string[]) =>
     (await t.ds.getRepository(ENTITY_DEFS[entity].target).createQueryBuilder('r').where('r.id = ANY(:ids)', { ids }).getMany()).map(toWire);
 
-  it.each(SYNC_ENTITIES)('when %s records are read for a pull page, then their JSON is byte for byte the hydrated entities\' JSON', async (entity) => {
-    const ids = (await t.ds.query(`SELECT id FROM ${ENTITY_DEFS[entity].table}`) as { id: string }[]).map((r) => r.id);
-    expect(ids.length).toBeGreaterThan(1);
-    const byId = (recs: Record<string, unknown>[]) => new Map(recs.map((r) => [r['id'] as string, JSON.stringify(r)]));
-    const before = byId(await hydrated(entity, ids));
-    const after = byId(await wireRecords(t.ds, entity, ids));
-    expect(after.size).toBe(ids.length);
-    for (const id of ids) expect(after.get(id)).toBe(before.get(id));
-  });
+  it.each(SYNC_ENTITIES)(
+    "when %s records are read for a pull page, then their JSON is byte for byte the hydrated entities' JSON",
+    async (entity) => {
+      const ids = ((await t.ds.query(`SELECT id FROM ${ENTITY_DEFS[entity].table}`)) as { id: string }[]).map((r) => r.id);
+      expect(ids.length).toBeGreaterThan(1);
+      const byId = (recs: Record<string, unknown>[]) => new Map(recs.map((r) => [r['id'] as string, JSON.stringify(r)]));
+      const before = byId(await hydrated(entity, ids));
+      const after = byId(await wireRecords(t.ds, entity, ids));
+      expect(after.size).toBe(ids.length);
+      for (const id of ids) expect(after.get(id)).toBe(before.get(id));
+    },
+  );
 
-  it('when a whole download is pulled, then every record in it is the hydrated entity\'s wire form', async () => {
+  it("when a whole download is pulled, then every record in it is the hydrated entity's wire form", async () => {
     let cursor = 0;
     const seen = new Map<EntityName, Map<string, string>>();
     for (let page = 0; page < 100; page++) {

@@ -19,8 +19,14 @@ describe('sync push and pull', () => {
   afterAll(() => t.close());
 
   const push = (s: Session, ops: unknown[], deviceId = device) => s.post('/api/sync/push', { deviceId, outboxSize: ops.length, ops });
-  const collarEdit = (baseRev: number, fields: Record<string, unknown>) =>
-    ({ opId: randomUUID(), entity: 'collar', id: world.collar.id, baseRev, op: 'upsert', fields });
+  const collarEdit = (baseRev: number, fields: Record<string, unknown>) => ({
+    opId: randomUUID(),
+    entity: 'collar',
+    id: world.collar.id,
+    baseRev,
+    op: 'upsert',
+    fields,
+  });
   const currentCollar = async () => (await lead.get(`/api/collars/${world.collar.id}`)).body.record;
 
   it('when an op is replayed, then the answer is duplicate with the first status and nothing changes', async () => {
@@ -59,11 +65,15 @@ describe('sync push and pull', () => {
   it('when a create reuses an existing id, then identical content is duplicate and different content a conflict', async () => {
     const id = randomUUID();
     const fields = { siteId: world.site.id, code: `SYNC-${id.slice(0, 6)}`, plotId: world.plot.id, diameterCm: 20 };
-    expect((await push(lead, [{ opId: randomUUID(), entity: 'collar', id, baseRev: null, op: 'upsert', fields }])).body.results[0].status).toBe('applied');
+    expect(
+      (await push(lead, [{ opId: randomUUID(), entity: 'collar', id, baseRev: null, op: 'upsert', fields }])).body.results[0].status,
+    ).toBe('applied');
     const same = (await push(lead, [{ opId: randomUUID(), entity: 'collar', id, baseRev: null, op: 'upsert', fields }])).body.results[0];
     expect(same.status).toBe('duplicate');
     expect(same.originalStatus).toBeUndefined();
-    const other = (await push(lead, [{ opId: randomUUID(), entity: 'collar', id, baseRev: null, op: 'upsert', fields: { ...fields, diameterCm: 25 } }])).body.results[0];
+    const other = (
+      await push(lead, [{ opId: randomUUID(), entity: 'collar', id, baseRev: null, op: 'upsert', fields: { ...fields, diameterCm: 25 } }])
+    ).body.results[0];
     expect(other.status).toBe('conflict');
   });
 
@@ -72,11 +82,13 @@ describe('sync push and pull', () => {
     const fields = { siteId: world.site.id, code: `DEL-${id.slice(0, 6)}`, plotId: world.plot.id, diameterCm: 20 };
     await push(lead, [{ opId: randomUUID(), entity: 'collar', id, baseRev: null, op: 'upsert', fields }]);
     await push(lead, [{ opId: randomUUID(), entity: 'collar', id, baseRev: 1, op: 'upsert', fields: { notes: 'edited' } }]);
-    const staleDelete = (await push(lead, [{ opId: randomUUID(), entity: 'collar', id, baseRev: 1, op: 'delete', fields: {} }])).body.results[0];
+    const staleDelete = (await push(lead, [{ opId: randomUUID(), entity: 'collar', id, baseRev: 1, op: 'delete', fields: {} }])).body
+      .results[0];
     expect(staleDelete.status).toBe('conflict');
     const del = (await push(lead, [{ opId: randomUUID(), entity: 'collar', id, baseRev: 2, op: 'delete', fields: {} }])).body.results[0];
     expect(del.status).toBe('applied');
-    const editTomb = (await push(lead, [{ opId: randomUUID(), entity: 'collar', id, baseRev: 3, op: 'upsert', fields: { notes: 'x' } }])).body.results[0];
+    const editTomb = (await push(lead, [{ opId: randomUUID(), entity: 'collar', id, baseRev: 3, op: 'upsert', fields: { notes: 'x' } }]))
+      .body.results[0];
     expect(editTomb.status).toBe('conflict');
     const again = (await push(lead, [{ opId: randomUUID(), entity: 'collar', id, baseRev: 3, op: 'delete', fields: {} }])).body.results[0];
     expect(again).toMatchObject({ status: 'applied', rev: 3 });
@@ -84,8 +96,14 @@ describe('sync push and pull', () => {
 
   it('when one op of a batch is invalid, then it alone is rejected with a readable message', async () => {
     const base = await currentCollar();
-    const bad = { opId: randomUUID(), entity: 'collar', id: randomUUID(), baseRev: null, op: 'upsert',
-      fields: { siteId: world.site.id, code: 'NEG', plotId: world.plot.id, diameterCm: -3 } };
+    const bad = {
+      opId: randomUUID(),
+      entity: 'collar',
+      id: randomUUID(),
+      baseRev: null,
+      op: 'upsert',
+      fields: { siteId: world.site.id, code: 'NEG', plotId: world.plot.id, diameterCm: -3 },
+    };
     const good = collarEdit(base.rev, { notes: 'batch mate' });
     const [rb, rg] = (await push(lead, [bad, good])).body.results;
     expect(rb.status).toBe('rejected');
@@ -103,7 +121,9 @@ describe('sync push and pull', () => {
 
   it('when pulling in pages, then every page is ordered, the cursor advances and the last page says more=false', async () => {
     const dev = randomUUID();
-    let cursor = 0, pages = 0, more = true;
+    let cursor = 0,
+      pages = 0,
+      more = true;
     const seen = new Map<string, number>();
     while (more) {
       const r = await lead.get(`/api/sync/pull?cursor=${cursor}&limit=50&deviceId=${dev}`);
@@ -112,7 +132,9 @@ describe('sync push and pull', () => {
       expect(seqs).toEqual([...seqs].sort((a: number, b: number) => a - b));
       for (const c of r.body.changes) seen.set(`${c.entity}:${c.id}`, c.rev);
       expect(r.body.cursor).toBeGreaterThanOrEqual(cursor);
-      cursor = r.body.cursor; more = r.body.more; pages++;
+      cursor = r.body.cursor;
+      more = r.body.more;
+      pages++;
     }
     expect(pages).toBeGreaterThan(1);
     expect(seen.get(`collar:${world.collar.id}`)).toBe((await currentCollar()).rev);
@@ -126,7 +148,8 @@ describe('sync push and pull', () => {
     let cursor = 0;
     for (let more = true; more;) {
       const r = await crewSession.get(`/api/sync/pull?cursor=${cursor}&limit=5000&deviceId=${dev}`);
-      cursor = r.body.cursor; more = r.body.more;
+      cursor = r.body.cursor;
+      more = r.body.more;
     }
     await admin.patch(`/api/users/${CREW_ID}`, { siteIds: crewMe.siteIds });
     const after = await crewSession.get(`/api/sync/pull?cursor=${cursor}&limit=5000&deviceId=${dev}`);
@@ -148,15 +171,29 @@ describe('sync push and pull', () => {
   });
 
   it('when a pushed edit changes the volume of a profile that closures use, then it is rejected: a new version is the way', async () => {
-    const [p] = await t.ds.query(`SELECT p.id, p.rev FROM chamber_profile p WHERE EXISTS (SELECT 1 FROM closure c WHERE c.profile_id = p.id OR c.results->>'profileId' = p.id::text) LIMIT 1`);
-    const r = (await push(admin, [{ opId: randomUUID(), entity: 'chamberProfile', id: p.id, baseRev: Number(p.rev), op: 'upsert', fields: { loopVolumeCm3: 999 } }], randomUUID())).body.results[0];
+    const [p] = await t.ds.query(
+      `SELECT p.id, p.rev FROM chamber_profile p WHERE EXISTS (SELECT 1 FROM closure c WHERE c.profile_id = p.id OR c.results->>'profileId' = p.id::text) LIMIT 1`,
+    );
+    const r = (
+      await push(
+        admin,
+        [{ opId: randomUUID(), entity: 'chamberProfile', id: p.id, baseRev: Number(p.rev), op: 'upsert', fields: { loopVolumeCm3: 999 } }],
+        randomUUID(),
+      )
+    ).body.results[0];
     expect(r.status).toBe('rejected');
     expect(r.error.message).toMatch(/add a new version/);
   });
 
   it('when a push body is over the limit, then 413 tells the device to split it', async () => {
-    const big = Array.from({ length: 3 }, () => ({ opId: randomUUID(), entity: 'collar', id: randomUUID(), baseRev: null, op: 'upsert',
-      fields: { notes: 'x'.repeat(2 * 1024 * 1024) } }));
+    const big = Array.from({ length: 3 }, () => ({
+      opId: randomUUID(),
+      entity: 'collar',
+      id: randomUUID(),
+      baseRev: null,
+      op: 'upsert',
+      fields: { notes: 'x'.repeat(2 * 1024 * 1024) },
+    }));
     const r = await push(lead, big);
     expect(r.status).toBe(413);
     expect(r.body.error.message).toMatch(/smaller parts/);

@@ -8,7 +8,10 @@ describe('several server processes on one database', () => {
     a = await startTestApp({ loginMaxFailures: 2, loginWindowMs: 60_000 });
     b = await startTestApp({ loginMaxFailures: 2, loginWindowMs: 60_000 });
   });
-  afterAll(async () => { await a.close(); await b.close(); });
+  afterAll(async () => {
+    await a.close();
+    await b.close();
+  });
 
   it('when a user signs in on one instance, then the other instance knows the session', async () => {
     const s = await signIn(a.app, demoEmail('crew'));

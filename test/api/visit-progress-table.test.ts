@@ -7,7 +7,9 @@ const COLUMNS = 'visit_id, campaign_id, collar_id, round, skipped, skip_reason, 
 /** visit_progress is kept by triggers in the writing transaction (server/migrations/20261204232500-visit-progress.ts). */
 describe('visit_progress table', () => {
   let t: TestApp;
-  beforeAll(async () => { t = await startTestApp(); });
+  beforeAll(async () => {
+    t = await startTestApp();
+  });
   afterAll(() => t.close());
 
   it('when the demo season was written through the record writer, then the kept rows equal a recount from scratch', async () => {
@@ -31,14 +33,19 @@ describe('visit_progress table', () => {
     await runner.connect();
     await runner.startTransaction();
     try {
-      const [c] = await runner.query(`SELECT c.id, c.visit_id, (SELECT v2.id FROM visit v2 WHERE v2.campaign_id = v.campaign_id AND v2.id <> v.id AND NOT v2.deleted LIMIT 1) AS other
+      const [c] =
+        await runner.query(`SELECT c.id, c.visit_id, (SELECT v2.id FROM visit v2 WHERE v2.campaign_id = v.campaign_id AND v2.id <> v.id AND NOT v2.deleted LIMIT 1) AS other
                                         FROM closure c JOIN visit v ON v.id = c.visit_id
                                        WHERE NOT c.deleted AND c.review_state <> 'rejected' AND jsonb_array_length(c.series->'tS') > 0 LIMIT 1`);
-      const before = await runner.query(`SELECT visit_id, closures FROM visit_progress WHERE visit_id = ANY($1) ORDER BY visit_id`, [[c.visit_id, c.other]]);
+      const before = await runner.query(`SELECT visit_id, closures FROM visit_progress WHERE visit_id = ANY($1) ORDER BY visit_id`, [
+        [c.visit_id, c.other],
+      ]);
       await runner.query(`UPDATE closure SET visit_id = $2 WHERE id = $1`, [c.id, c.other]);
       await runner.query(`UPDATE visit SET deleted = true WHERE id = $1`, [c.visit_id]);
       const after = await runner.query(`SELECT visit_id, closures FROM visit_progress WHERE visit_id = ANY($1)`, [[c.visit_id, c.other]]);
-      expect(after).toEqual([{ visit_id: c.other, closures: before.find((r: { visit_id: string }) => r.visit_id === c.other).closures + 1 }]);
+      expect(after).toEqual([
+        { visit_id: c.other, closures: before.find((r: { visit_id: string }) => r.visit_id === c.other).closures + 1 },
+      ]);
       const kept = await runner.query(`SELECT ${COLUMNS} FROM visit_progress ORDER BY visit_id`);
       await runner.query(`DELETE FROM visit_progress`);
       await runner.query(`SELECT visit_progress_recount(ARRAY(SELECT id FROM visit))`);
@@ -53,18 +60,34 @@ describe('visit_progress table', () => {
     const admin = await signIn(t.app, demoEmail('admin'));
     const lead = await signIn(t.app, demoEmail('lead'));
     const w = await makeSiteWithCollar(admin, lead, LEAD_ID);
-    const visit = (await lead.post('/api/visits', { siteId: w.site.id, campaignId: w.campaign.id, round: 1, collarId: w.collar.id,
-      arrivedAt: '2026-06-01T08:00:00Z' })).body.record;
+    const visit = (
+      await lead.post('/api/visits', {
+        siteId: w.site.id,
+        campaignId: w.campaign.id,
+        round: 1,
+        collarId: w.collar.id,
+        arrivedAt: '2026-06-01T08:00:00Z',
+      })
+    ).body.record;
     const tS = Array.from({ length: 30 }, (_, i) => i);
-    const first = await lead.post('/api/closures', { siteId: w.site.id, visitId: visit.id, collarId: w.collar.id, campaignId: w.campaign.id,
-      startedAt: '2026-06-01T08:02:00Z', settleS: 5, series: { tS, co2Ppm: tS.map((s) => 420 + s) } });
+    const first = await lead.post('/api/closures', {
+      siteId: w.site.id,
+      visitId: visit.id,
+      collarId: w.collar.id,
+      campaignId: w.campaign.id,
+      startedAt: '2026-06-01T08:02:00Z',
+      settleS: 5,
+      series: { tS, co2Ppm: tS.map((s) => 420 + s) },
+    });
     expect(first.status).toBe(201);
     const copy = `INSERT INTO closure SELECT (jsonb_populate_record(NULL::closure, to_jsonb(c) || jsonb_build_object('id', gen_random_uuid()))).*
                     FROM closure c WHERE c.id = $1`;
     const [a, b] = [t.ds.createQueryRunner(), t.ds.createQueryRunner()];
-    await a.connect(); await b.connect();
+    await a.connect();
+    await b.connect();
     try {
-      await a.startTransaction(); await b.startTransaction();
+      await a.startTransaction();
+      await b.startTransaction();
       await a.query(copy, [first.body.record.id]);
       const second = b.query(copy, [first.body.record.id]); // waits for a's lock on the visit's row
       await new Promise((r) => setTimeout(r, 300));
@@ -72,7 +95,8 @@ describe('visit_progress table', () => {
       await second;
       await b.commitTransaction();
     } finally {
-      await a.release(); await b.release();
+      await a.release();
+      await b.release();
     }
     const [row] = await t.ds.query(`SELECT closures FROM visit_progress WHERE visit_id = $1`, [visit.id]);
     expect(row.closures).toBe(3);

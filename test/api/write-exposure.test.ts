@@ -14,7 +14,7 @@ import { demoEmail, signIn, startTestApp, type Session, type TestApp } from '../
  * every role with ids of records at a site the caller does not belong to: no answer may show any
  * of those records' values. Built from the registry, so a new route is covered when it is added.
  */
-describe('no route shows another site\'s records', () => {
+describe("no route shows another site's records", () => {
   let t: TestApp;
   let admin: Session, lab: Session;
   const sessions = new Map<Role, Session>();
@@ -25,7 +25,11 @@ describe('no route shows another site\'s records', () => {
   const readable: Record<string, string[]> = {};
 
   const reads = (role: Role, siteId: string) => readsSite({ roles: [role], siteIds: readable[role] }, siteId);
-  const marker = (p: string) => { const m = `${p}${randomUUID().slice(0, 8)}`; markers.push(m); return m; };
+  const marker = (p: string) => {
+    const m = `${p}${randomUUID().slice(0, 8)}`;
+    markers.push(m);
+    return m;
+  };
 
   let s3: Awaited<ReturnType<typeof startFakeS3>>;
   beforeAll(async () => {
@@ -48,8 +52,11 @@ describe('no route shows another site\'s records', () => {
     foreign.deleted.site = (await admin.get(`/api/sites/${foreign.deleted.site.id}`)).body.record;
     foreign['just-created'] = await buildWorld(by, fl.id, marker('nw'));
     // The live world's file has reached the server (just-created records stay at rev 1).
-    const put = await foreignLead.agent.put(`/api/attachments/${foreign.live.attachment.id}/content`).set('X-CSRF-Token', foreignLead.csrf)
-      .set('Content-Type', 'text/csv').send(fileOf(markers[0]));
+    const put = await foreignLead.agent
+      .put(`/api/attachments/${foreign.live.attachment.id}/content`)
+      .set('X-CSRF-Token', foreignLead.csrf)
+      .set('Content-Type', 'text/csv')
+      .send(fileOf(markers[0]));
     expect(put.status).toBe(200);
     foreign.live.attachment = put.body.record;
     // Callers of every role; the site-scoped ones belong to the home site only.
@@ -61,7 +68,10 @@ describe('no route shows another site\'s records', () => {
       readable[role] = (await s.get('/api/auth/me')).body.user.siteIds;
     }
   });
-  afterAll(async () => { await t.close(); await s3.stop(); });
+  afterAll(async () => {
+    await t.close();
+    await s3.stop();
+  });
 
   /** A request as the role's caller; a route that ended the session (sign-out) gets a fresh one. */
   const send: Send = async (role, method, path, body) => {
@@ -81,9 +91,11 @@ describe('no route shows another site\'s records', () => {
     // Lab and admin read every site (shared/auth), so no record is foreign to them; every other role is checked on every route.
     expect(scoped).toEqual(['crew', 'lead']);
     expect(report.cases).toBe(t.registry.routes.length * scoped.length * ID_KINDS.length);
-    console.log(`exposure check: ${t.registry.routes.length} routes × ${scoped.length} site-scoped roles (${scoped.join(', ')}) × `
-      + `${ID_KINDS.length} id kinds = ${report.cases} cases, ${report.requests} requests; lab and admin read every site; `
-      + `answers by status ${JSON.stringify(report.statuses)}`);
+    console.log(
+      `exposure check: ${t.registry.routes.length} routes × ${scoped.length} site-scoped roles (${scoped.join(', ')}) × ` +
+        `${ID_KINDS.length} id kinds = ${report.cases} cases, ${report.requests} requests; lab and admin read every site; ` +
+        `answers by status ${JSON.stringify(report.statuses)}`,
+    );
     expect(report.problems).toEqual([]);
   }, 600_000);
 
@@ -91,15 +103,25 @@ describe('no route shows another site\'s records', () => {
     const app = express();
     app.use(express.json());
     const users = new Map<Role, { id: string; roles: Role[]; siteIds: string[] }>(
-      ROLES.map((r) => [r, { id: randomUUID(), roles: [r], siteIds: readable[r] }]));
-    app.use((req, _res, next) => { (req as unknown as { user: unknown }).user = users.get(req.header('x-role') as Role); next(); });
+      ROLES.map((r) => [r, { id: randomUUID(), roles: [r], siteIds: readable[r] }]),
+    );
+    app.use((req, _res, next) => {
+      (req as unknown as { user: unknown }).user = users.get(req.header('x-role') as Role);
+      next();
+    });
     const registry = new RouteRegistry(app);
-    registry.add('get', '/api/leaky/collars/:id', ['crew', 'lead'], async (req) =>
-      ({ record: (await t.ds.query(`SELECT code, notes FROM collar WHERE id = $1`, [req.params['id']]))[0] ?? null }));
-    registry.add('patch', '/api/careful/collars/:id', ['crew', 'lead'], () => { throw notFound('No collar'); });
+    registry.add('get', '/api/leaky/collars/:id', ['crew', 'lead'], async (req) => ({
+      record: (await t.ds.query(`SELECT code, notes FROM collar WHERE id = $1`, [req.params['id']]))[0] ?? null,
+    }));
+    registry.add('patch', '/api/careful/collars/:id', ['crew', 'lead'], () => {
+      throw notFound('No collar');
+    });
     app.use(errorMiddleware);
     const leakySend: Send = async (role, method, path, body) => {
-      const res = await request(app)[method](path).set('x-role', role).send(body as object);
+      const agent = request(app);
+      const res = await agent[method](path)
+        .set('x-role', role)
+        .send(body as object);
       return { status: res.status, text: res.text };
     };
     const report = await checkExposure({ routes: registry.routes, roles: ROLES, foreign, reads, home, send: leakySend }, markers);

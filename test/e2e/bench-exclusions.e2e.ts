@@ -19,12 +19,17 @@ afterAll(async () => {
 });
 
 const queueAnswer = (page: Page) => page.waitForResponse((r) => r.url().includes('/api/bench/queue') && r.status() === 200);
-const detailAnswer = (page: Page) => page.waitForResponse((r) => /\/api\/bench\/closures\/[0-9a-f-]+$/.test(new URL(r.url()).pathname) && r.status() === 200);
+const detailAnswer = (page: Page) =>
+  page.waitForResponse((r) => /\/api\/bench\/closures\/[0-9a-f-]+$/.test(new URL(r.url()).pathname) && r.status() === 200);
 const pointsAnswer = (page: Page) => page.waitForResponse((r) => /\/exclusions(\/restore)?$/.test(new URL(r.url()).pathname));
 
 async function pick(page: Page, label: string, option: string): Promise<void> {
   await page.getByRole('combobox', { name: label, exact: true }).click();
-  await page.getByRole('option').filter({ hasText: new RegExp(`^\\s*${option}\\s*$`) }).first().click();
+  await page
+    .getByRole('option')
+    .filter({ hasText: new RegExp(`^\\s*${option}\\s*$`) })
+    .first()
+    .click();
   await page.getByRole('listbox').waitFor({ state: 'detached' });
 }
 
@@ -37,7 +42,10 @@ describe('Bench: points left out of a fit, on a phone', () => {
       await signInAs(page, server.baseUrl, 'lab');
       await loaded;
       // On a phone the filters start folded.
-      await page.getByRole('button', { name: /^Filters/ }).first().click();
+      await page
+        .getByRole('button', { name: /^Filters/ })
+        .first()
+        .click();
       let q = queueAnswer(page);
       // The campaign under way (the past season's campaigns are locked: no points can be left out there).
       await pick(page, 'Campaign', 'December 2026 survey, two rounds');

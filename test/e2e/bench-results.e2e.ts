@@ -70,7 +70,11 @@ describe('Bench results in Chromium', () => {
       const firstTotal = st.totals[0];
       expect(firstTotal.status).toBe('complete');
       await page.getByTestId('interval-note').waitFor();
-      await page.getByTestId('seasonal-table').getByText(Math.round(firstTotal.totalGCM2).toLocaleString('en-US'), { exact: true }).first().waitFor();
+      await page
+        .getByTestId('seasonal-table')
+        .getByText(Math.round(firstTotal.totalGCM2).toLocaleString('en-US'), { exact: true })
+        .first()
+        .waitFor();
       await noSeriousProblems(page, 'Results: seasonal totals');
 
       // Data package: a background job with progress, then a download.
@@ -79,7 +83,10 @@ describe('Bench results in Chromium', () => {
       await page.getByRole('button', { name: 'Build data package' }).click();
       const link = page.getByTestId('export-download');
       await link.waitFor({ timeout: 120_000 });
-      await page.getByTestId('export-status').getByText(/^completed/).waitFor();
+      await page
+        .getByTestId('export-status')
+        .getByText(/^completed/)
+        .waitFor();
       await noSeriousProblems(page, 'Results: data package');
       const [download] = await Promise.all([page.waitForEvent('download'), link.click()]);
       expect(download.suggestedFilename()).toMatch(/^fluxwalk-results-.*\.zip$/);

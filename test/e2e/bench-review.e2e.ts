@@ -23,7 +23,8 @@ afterAll(async () => {
 });
 
 const queueAnswer = (page: Page) => page.waitForResponse((r) => r.url().includes('/api/bench/queue') && r.status() === 200);
-const detailAnswer = (page: Page) => page.waitForResponse((r) => /\/api\/bench\/closures\/[0-9a-f-]+$/.test(new URL(r.url()).pathname) && r.status() === 200);
+const detailAnswer = (page: Page) =>
+  page.waitForResponse((r) => /\/api\/bench\/closures\/[0-9a-f-]+$/.test(new URL(r.url()).pathname) && r.status() === 200);
 const patchAnswer = (page: Page) => page.waitForResponse((r) => r.url().includes('/api/closures/') && r.request().method() === 'PATCH');
 
 async function title(page: Page): Promise<string> {
@@ -126,7 +127,10 @@ describe('Bench review in Chromium', () => {
       await page.getByRole('button', { name: 'Accept all without flags in this filter' }).click();
       expect((await (await bulk).json()).accepted).toBe(before.total);
       expect((await (await q).json()).total).toBe(0);
-      await page.getByRole('status').filter({ hasText: `${before.total} closures without flags accepted` }).waitFor();
+      await page
+        .getByRole('status')
+        .filter({ hasText: `${before.total} closures without flags accepted` })
+        .waitFor();
     });
   });
 
@@ -160,7 +164,9 @@ describe('Bench review in Chromium', () => {
       await q;
       await page.getByText('Context of the day').click();
       // Only the answer to this filter: the queue also reloads by itself when a recompute ends.
-      q = page.waitForResponse((r) => r.url().includes('/api/bench/queue') && r.url().includes('recomputedSinceReview=true') && r.status() === 200);
+      q = page.waitForResponse(
+        (r) => r.url().includes('/api/bench/queue') && r.url().includes('recomputedSinceReview=true') && r.status() === 200,
+      );
       const d = detailAnswer(page);
       await pick(page, 'Recomputed since review', 'yes');
       const marked = await (await q).json();
@@ -172,7 +178,10 @@ describe('Bench review in Chromium', () => {
       expect(Math.abs(mark.newFluxUmolM2S)).toBeGreaterThan(Math.abs(mark.oldFluxUmolM2S));
       const shown = (await page.getByTestId('queue-recomputed').first().innerText()).replace(/\s+/g, ' ').trim();
       expect(shown).toBe(`recomputed since review: ${mark.oldFluxUmolM2S.toFixed(2)} → ${mark.newFluxUmolM2S.toFixed(2)}`);
-      await page.getByTestId('recomputed').getByText(`${mark.oldFluxUmolM2S.toFixed(3)} → ${mark.newFluxUmolM2S.toFixed(3)}`).waitFor();
+      await page
+        .getByTestId('recomputed')
+        .getByText(`${mark.oldFluxUmolM2S.toFixed(3)} → ${mark.newFluxUmolM2S.toFixed(3)}`)
+        .waitFor();
       await noSeriousProblems(page, 'Bench review: recomputed since review');
     });
   });

@@ -69,8 +69,9 @@ async function openTab(page: Page, name: string) {
 
 /** Shown rows of the progress table (only those the virtual scroll renders), by collar code. */
 async function shownStates(page: Page): Promise<Record<string, string>> {
-  return page.locator('[data-testid="progress-row"]').evaluateAll((rows) =>
-    Object.fromEntries(rows.map((r) => [r.getAttribute('data-collar') ?? '', r.getAttribute('data-state') ?? ''])));
+  return page
+    .locator('[data-testid="progress-row"]')
+    .evaluateAll((rows) => Object.fromEntries(rows.map((r) => [r.getAttribute('data-collar') ?? '', r.getAttribute('data-state') ?? ''])));
 }
 
 /**
@@ -79,38 +80,69 @@ async function shownStates(page: Page): Promise<Record<string, string>> {
  * "Sync now" pushes them through the sync engine.
  */
 async function recordOnCrewDevice(page: Page, records: { entity: string; fields: Record<string, unknown> }[]) {
-  await page.evaluate(async ({ dbName, records }) => {
-    const db = await new Promise<IDBDatabase>((resolve, reject) => {
-      const req = indexedDB.open(dbName);
-      req.onsuccess = () => resolve(req.result);
-      req.onerror = () => reject(req.error);
-    });
-    const tables = [...new Set(records.map((r) => r.entity)), 'outbox'];
-    const tx = db.transaction(tables, 'readwrite');
-    const now = new Date().toISOString();
-    for (const r of records) {
-      const id = String(r.fields['id']);
-      const { id: _id, ...fields } = r.fields;
-      tx.objectStore(r.entity).add({ ...fields, id, rev: 0, deleted: false });
-      tx.objectStore('outbox').add({ opId: crypto.randomUUID(), entity: r.entity, id, baseRev: null, op: 'upsert', fields,
-        base: {}, sentAt: null, createdAt: now, updatedAt: now });
-    }
-    await new Promise<void>((resolve, reject) => {
-      tx.oncomplete = () => resolve();
-      tx.onerror = () => reject(tx.error);
-    });
-    db.close();
-  }, { dbName: `fluxwalk-user-${CREW_ID}`, records });
+  await page.evaluate(
+    async ({ dbName, records }) => {
+      const db = await new Promise<IDBDatabase>((resolve, reject) => {
+        const req = indexedDB.open(dbName);
+        req.onsuccess = () => resolve(req.result);
+        req.onerror = () => reject(req.error);
+      });
+      const tables = [...new Set(records.map((r) => r.entity)), 'outbox'];
+      const tx = db.transaction(tables, 'readwrite');
+      const now = new Date().toISOString();
+      for (const r of records) {
+        const id = String(r.fields['id']);
+        const { id: _id, ...fields } = r.fields;
+        tx.objectStore(r.entity).add({ ...fields, id, rev: 0, deleted: false });
+        tx.objectStore('outbox').add({
+          opId: crypto.randomUUID(),
+          entity: r.entity,
+          id,
+          baseRev: null,
+          op: 'upsert',
+          fields,
+          base: {},
+          sentAt: null,
+          createdAt: now,
+          updatedAt: now,
+        });
+      }
+      await new Promise<void>((resolve, reject) => {
+        tx.oncomplete = () => resolve();
+        tx.onerror = () => reject(tx.error);
+      });
+      db.close();
+    },
+    { dbName: `fluxwalk-user-${CREW_ID}`, records },
+  );
   await syncNow(page);
 }
 
 function visitOps(campaignId: string, collarId: string, round: number, what: 'offset' | 'skip') {
   const visitId = randomUUID();
   const at = `2026-12-0${round + 4}T09:00:00Z`;
-  const visit = { entity: 'visit', fields: { id: visitId, siteId: SITE, campaignId, round, collarId, crewId: CREW_ID, arrivedAt: at,
-    skipped: what === 'skip', skipReason: what === 'skip' ? 'Fallen spruce across the collar' : null } };
+  const visit = {
+    entity: 'visit',
+    fields: {
+      id: visitId,
+      siteId: SITE,
+      campaignId,
+      round,
+      collarId,
+      crewId: CREW_ID,
+      arrivedAt: at,
+      skipped: what === 'skip',
+      skipReason: what === 'skip' ? 'Fallen spruce across the collar' : null,
+    },
+  };
   if (what === 'skip') return [visit];
-  return [visit, { entity: 'offsetSet', fields: { id: randomUUID(), siteId: SITE, visitId, collarId, campaignId, takenAt: at, readingsCm: [2.4, 2.6, 2.5, 2.5] } }];
+  return [
+    visit,
+    {
+      entity: 'offsetSet',
+      fields: { id: randomUUID(), siteId: SITE, visitId, collarId, campaignId, takenAt: at, readingsCm: [2.4, 2.6, 2.5, 2.5] },
+    },
+  ];
 }
 
 describe('Board in Chromium', () => {
@@ -121,10 +153,16 @@ describe('Board in Chromium', () => {
     await withScreenshotOnFailure(page, 'board-plan', async () => {
       await signInAs(page, server.baseUrl, 'lead');
       // A short loop of three demo collars for this campaign (routes are made in Setup).
-      const collars = ((await (await page.request.get(`${server.baseUrl}/api/collars?siteId=${SITE}&limit=3`)).json()) as { items: { id: string; code: string }[] }).items;
+      const collars = (
+        (await (await page.request.get(`${server.baseUrl}/api/collars?siteId=${SITE}&limit=3`)).json()) as {
+          items: { id: string; code: string }[];
+        }
+      ).items;
       const csrf = ((await (await page.request.get(`${server.baseUrl}/api/auth/csrf`)).json()) as { token: string }).token;
-      const routeRes = await page.request.post(`${server.baseUrl}/api/routes`, { headers: { 'X-CSRF-Token': csrf },
-        data: { siteId: SITE, name: 'Short loop', collarIds: collars.map((c) => c.id) } });
+      const routeRes = await page.request.post(`${server.baseUrl}/api/routes`, {
+        headers: { 'X-CSRF-Token': csrf },
+        data: { siteId: SITE, name: 'Short loop', collarIds: collars.map((c) => c.id) },
+      });
       expect(routeRes.status()).toBe(201);
 
       await page.goto(`${server.baseUrl}/board`);
@@ -157,15 +195,25 @@ describe('Board in Chromium', () => {
       await page.mouse.move(from.x + 12, from.y + from.height / 2 + 6, { steps: 4 });
       await page.mouse.move(to.x + 12, to.y + to.height * 0.9, { steps: 12 });
       await page.mouse.up();
-      await poll(() => stops.evaluateAll((ls) => ls.map((l) => l.getAttribute('data-collar')))).toEqual([collars[1].code, collars[0].code, collars[2].code]);
+      await poll(() => stops.evaluateAll((ls) => ls.map((l) => l.getAttribute('data-collar')))).toEqual([
+        collars[1].code,
+        collars[0].code,
+        collars[2].code,
+      ]);
       await page.getByRole('button', { name: 'Save order' }).click();
       await page.getByText('Order of "Short loop" saved.').waitFor();
       const routeId = (await routeRes.json()).record.id as string;
-      expect((await (await page.request.get(`${server.baseUrl}/api/routes/${routeId}`)).json()).record.collarIds)
-        .toEqual([collars[1].id, collars[0].id, collars[2].id]);
+      expect((await (await page.request.get(`${server.baseUrl}/api/routes/${routeId}`)).json()).record.collarIds).toEqual([
+        collars[1].id,
+        collars[0].id,
+        collars[2].id,
+      ]);
       await noSeriousProblems(page, 'Board plan');
-      const campaign = ((await (await page.request.get(`${server.baseUrl}/api/campaigns?siteId=${SITE}&limit=100`)).json()) as
-        { items: { id: string; name: string; routes: unknown[] }[] }).items.find((c) => c.name === 'Board test, two rounds')!;
+      const campaign = (
+        (await (await page.request.get(`${server.baseUrl}/api/campaigns?siteId=${SITE}&limit=100`)).json()) as {
+          items: { id: string; name: string; routes: unknown[] }[];
+        }
+      ).items.find((c) => c.name === 'Board test, two rounds')!;
       expect(campaign.routes).toEqual([{ routeId: (await routeRes.json()).record.id, crewIds: [CREW_ID], direction: 'alternate' }]);
 
       await openTab(page, 'Progress');
@@ -179,7 +227,9 @@ describe('Board in Chromium', () => {
       await signInAs(crew.page, server.baseUrl, 'crew');
       await waitForFirstSync(crew.page);
       await recordOnCrewDevice(crew.page, visitOps(campaign.id, collars[0].id, 1, 'offset'));
-      await poll(async () => (await (await page.request.get(`${server.baseUrl}/api/offset-sets?campaignId=${campaign.id}`)).json()).total).toBe(1);
+      await poll(
+        async () => (await (await page.request.get(`${server.baseUrl}/api/offset-sets?campaignId=${campaign.id}`)).json()).total,
+      ).toBe(1);
 
       await page.getByRole('button', { name: 'Refresh' }).click();
       await poll(() => shownStates(page)).toEqual({ [collars[1].code]: 'due', [collars[2].code]: 'due' });
@@ -187,15 +237,25 @@ describe('Board in Chromium', () => {
       await poll(async () => (await shownStates(page))[collars[0].code]).toBe('complete');
 
       // Round 2 and the two collars the crew could not reach; then the campaign can be closed.
-      await recordOnCrewDevice(crew.page, [...visitOps(campaign.id, collars[0].id, 2, 'offset'),
-        ...[1, 2].flatMap((r) => [collars[1], collars[2]].flatMap((c) => visitOps(campaign.id, c.id, r, 'skip')))]);
-      await poll(async () => (await (await page.request.get(`${server.baseUrl}/api/visits?campaignId=${campaign.id}`)).json()).total).toBe(6);
+      await recordOnCrewDevice(crew.page, [
+        ...visitOps(campaign.id, collars[0].id, 2, 'offset'),
+        ...[1, 2].flatMap((r) => [collars[1], collars[2]].flatMap((c) => visitOps(campaign.id, c.id, r, 'skip'))),
+      ]);
+      await poll(async () => (await (await page.request.get(`${server.baseUrl}/api/visits?campaignId=${campaign.id}`)).json()).total).toBe(
+        6,
+      );
       await choose(page, 'Round', 'All rounds');
       await page.getByRole('button', { name: 'Refresh' }).click();
-      await poll(() => shownStates(page)).toEqual({ [collars[0].code]: 'complete', [collars[1].code]: 'skipped', [collars[2].code]: 'skipped' });
+      await poll(() => shownStates(page)).toEqual({
+        [collars[0].code]: 'complete',
+        [collars[1].code]: 'skipped',
+        [collars[2].code]: 'skipped',
+      });
 
       const [download] = await Promise.all([page.waitForEvent('download'), page.getByTestId('progress-csv').click()]);
-      const csv = readFileSync((await download.path())!, 'utf8').trim().split('\r\n');
+      const csv = readFileSync((await download.path())!, 'utf8')
+        .trim()
+        .split('\r\n');
       expect(csv).toHaveLength(4);
       // Rows follow the new walking order.
       expect(csv.slice(1).map((l) => l.split(',')[0])).toEqual([collars[1].code, collars[0].code, collars[2].code]);
@@ -208,7 +268,10 @@ describe('Board in Chromium', () => {
 
       for (const tab of ['Map', 'Anomalies', 'Devices']) {
         await openTab(page, tab);
-        await page.getByRole('heading', { name: tab === 'Map' ? 'Map' : tab }).first().waitFor({ state: 'attached' });
+        await page
+          .getByRole('heading', { name: tab === 'Map' ? 'Map' : tab })
+          .first()
+          .waitFor({ state: 'attached' });
         if (tab === 'Devices') await page.getByTestId('device-row').first().waitFor();
         if (tab === 'Anomalies') await page.getByText(/^As of /).waitFor();
         await noSeriousProblems(page, `Board ${tab.toLowerCase()}`);
@@ -221,14 +284,20 @@ describe('Board in Chromium', () => {
       await page.getByRole('button', { name: 'Preview digest' }).click();
       const preview = page.getByTestId('digest-preview');
       await preview.waitFor();
-      const digest = ((await (await page.request.get(`${server.baseUrl}/api/sites/${SITE}/digest`)).json()) as
-        { digest: { campaigns: { routes: { due: string[] }[] }[] } }).digest;
+      const digest = (
+        (await (await page.request.get(`${server.baseUrl}/api/sites/${SITE}/digest`)).json()) as {
+          digest: { campaigns: { routes: { due: string[] }[] }[] };
+        }
+      ).digest;
       const due = digest.campaigns.reduce((n, c) => n + c.routes.reduce((m, r) => m + r.due.length, 0), 0);
       expect(await preview.locator('h4').count()).toBe(digest.campaigns.length + 2);
       await noSeriousProblems(page, 'Board digest');
       const seen = smtp.messagesTo('lead@fluxwalk.example').length;
       await page.getByRole('button', { name: 'Send me the digest now' }).click();
-      await page.getByTestId('digest-status').getByText(`Digest sent to lead@fluxwalk.example (${due} collar(s) due).`).waitFor({ timeout: 60_000 });
+      await page
+        .getByTestId('digest-status')
+        .getByText(`Digest sent to lead@fluxwalk.example (${due} collar(s) due).`)
+        .waitFor({ timeout: 60_000 });
       const mail = await smtp.waitFor('lead@fluxwalk.example', { seen, timeoutMs: 10_000 });
       expect(mail.subject).toMatch(/^Daily digest: .+, \d{4}-\d{2}-\d{2}$/);
 
@@ -237,7 +306,11 @@ describe('Board in Chromium', () => {
       await lead.context.setOffline(true);
       await page.getByRole('button', { name: 'Refresh' }).click();
       await page.getByText(/^No connection: showing the Board as it was at /).waitFor();
-      expect(await shownStates(page)).toEqual({ [collars[0].code]: 'complete', [collars[1].code]: 'skipped', [collars[2].code]: 'skipped' });
+      expect(await shownStates(page)).toEqual({
+        [collars[0].code]: 'complete',
+        [collars[1].code]: 'skipped',
+        [collars[2].code]: 'skipped',
+      });
       await lead.context.setOffline(false);
     });
   });
@@ -266,13 +339,18 @@ describe('Board in Chromium', () => {
       await page.locator('[data-testid="progress-row"][data-collar^="BIG-"]').first().waitFor();
       const timing = await page.evaluate((id) => {
         const data = performance.getEntriesByName('board-progress-data').at(-1)!.startTime;
-        const res = performance.getEntriesByType('resource').filter((e) => e.name.includes(`/api/campaigns/${id}/progress`)).at(-1) as PerformanceResourceTiming;
+        const res = performance
+          .getEntriesByType('resource')
+          .filter((e) => e.name.includes(`/api/campaigns/${id}/progress`))
+          .at(-1) as PerformanceResourceTiming;
         return { dataMark: data, responseEnd: res?.responseEnd ?? null, rowsAt: (window as unknown as { fwRowsAt: number }).fwRowsAt };
       }, campaignId);
       const afterParse = timing.rowsAt - timing.dataMark;
       const afterResponse = timing.responseEnd === null ? null : timing.rowsAt - timing.responseEnd;
-      console.log(`[board] 5 000 collars: first rows ${afterParse.toFixed(0)} ms after the progress data reached the app`
-        + (afterResponse === null ? '' : ` (${afterResponse.toFixed(0)} ms after the response ended)`));
+      console.log(
+        `[board] 5 000 collars: first rows ${afterParse.toFixed(0)} ms after the progress data reached the app` +
+          (afterResponse === null ? '' : ` (${afterResponse.toFixed(0)} ms after the response ended)`),
+      );
       // "After the data arrives" taken strictly: from the end of the HTTP response, so JSON parsing counts too.
       expect(afterResponse ?? afterParse).toBeLessThanOrEqual(300);
       expect(await page.getByText(/5000 collar\(s\) shown/).count()).toBe(1);
@@ -287,9 +365,17 @@ describe('Board in Chromium', () => {
       await page.evaluate(() => performance.clearMeasures('board-map-draw'));
       const opened = Date.now();
       await openTab(page, 'Map');
-      const draw = await page.waitForFunction(() => performance.getEntriesByName('board-map-draw')
-        .map((m) => ({ ms: m.duration, markers: ((m as PerformanceMeasure).detail as { markers: number }).markers }))
-        .find((m) => m.markers >= 5000) ?? null, undefined, { timeout: 60_000 }).then((h) => h.jsonValue());
+      const draw = await page
+        .waitForFunction(
+          () =>
+            performance
+              .getEntriesByName('board-map-draw')
+              .map((m) => ({ ms: m.duration, markers: ((m as PerformanceMeasure).detail as { markers: number }).markers }))
+              .find((m) => m.markers >= 5000) ?? null,
+          undefined,
+          { timeout: 60_000 },
+        )
+        .then((h) => h.jsonValue());
       const tabToMarkers = Date.now() - opened;
       console.log(`[board] map: ${draw!.markers} markers drawn in ${draw!.ms.toFixed(0)} ms (tab click to drawn: ${tabToMarkers} ms)`);
       // One DOM element per marker took 1 819 ms here; the canvas layer 205 ms. A second is the budget on a shared machine.
@@ -302,7 +388,8 @@ describe('Board in Chromium', () => {
         const ratio = c.width / box.width;
         for (let i = 0; i < img.length; i += 4) {
           if (img[i] === 0x8a && img[i + 1] === 0x4b && img[i + 2] === 0x00 && img[i + 3] === 255) {
-            const px = (i / 4) % c.width, py = Math.floor(i / 4 / c.width);
+            const px = (i / 4) % c.width,
+              py = Math.floor(i / 4 / c.width);
             return { x: box.left + px / ratio, y: box.top + py / ratio };
           }
         }
@@ -310,7 +397,10 @@ describe('Board in Chromium', () => {
       });
       expect(spot).not.toBeNull();
       await page.mouse.click(spot!.x, spot!.y);
-      await page.locator('.leaflet-popup-content').getByText(/^BIG-\d{4}: due$/).waitFor();
+      await page
+        .locator('.leaflet-popup-content')
+        .getByText(/^BIG-\d{4}: due$/)
+        .waitFor();
       await noSeriousProblems(page, 'Board map with 5 000 collars');
     });
   });
@@ -325,17 +415,26 @@ async function seedLargeCampaign(n: number): Promise<string> {
     const routeId = randomUUID();
     await db.query('BEGIN');
     const [plot] = (await db.query(`SELECT id FROM plot WHERE site_id = $1 AND NOT deleted ORDER BY code LIMIT 1`, [SITE])).rows;
-    const [at] = (await db.query(`SELECT avg(latitude) AS lat, avg(longitude) AS lon FROM collar WHERE site_id = $1 AND latitude IS NOT NULL`, [SITE])).rows;
+    const [at] = (
+      await db.query(`SELECT avg(latitude) AS lat, avg(longitude) AS lon FROM collar WHERE site_id = $1 AND latitude IS NOT NULL`, [SITE])
+    ).rows;
     // A 100-column grid, 1 m apart, beside the demo collars, so the map has 5 000 positions to draw.
-    await db.query(`INSERT INTO collar (id, site_id, code, plot_id, shape, diameter_cm, area_cm2, status, updated_by, latitude, longitude)
+    await db.query(
+      `INSERT INTO collar (id, site_id, code, plot_id, shape, diameter_cm, area_cm2, status, updated_by, latitude, longitude)
       SELECT gen_random_uuid(), $1, 'BIG-' || lpad(i::text, 4, '0'), $2, 'round', 20, 314.16, 'active', $3,
              $5::float8 + 0.001 + ((i - 1) / 100) * 0.000009, $6::float8 + ((i - 1) % 100) * 0.000013 FROM generate_series(1, $4) i`,
-      [SITE, plot.id, LEAD_ID, n, Number(at.lat), Number(at.lon)]);
-    await db.query(`INSERT INTO route (id, site_id, name, collar_ids, updated_by)
-      SELECT $1, $2, 'Large loop', array_agg(id ORDER BY code), $3 FROM collar WHERE site_id = $2 AND code LIKE 'BIG-%'`, [routeId, SITE, LEAD_ID]);
-    await db.query(`INSERT INTO campaign (id, site_id, name, starts_on, ends_on, rounds, due_offset, due_closures, due_probes, routes, updated_by)
+      [SITE, plot.id, LEAD_ID, n, Number(at.lat), Number(at.lon)],
+    );
+    await db.query(
+      `INSERT INTO route (id, site_id, name, collar_ids, updated_by)
+      SELECT $1, $2, 'Large loop', array_agg(id ORDER BY code), $3 FROM collar WHERE site_id = $2 AND code LIKE 'BIG-%'`,
+      [routeId, SITE, LEAD_ID],
+    );
+    await db.query(
+      `INSERT INTO campaign (id, site_id, name, starts_on, ends_on, rounds, due_offset, due_closures, due_probes, routes, updated_by)
       VALUES ($1, $2, 'Large campaign', '2026-12-20', '2026-12-21', 1, true, 1, true, $3::jsonb, $4)`,
-      [campaignId, SITE, JSON.stringify([{ routeId, crewIds: [CREW_ID], direction: 'alternate' }]), LEAD_ID]);
+      [campaignId, SITE, JSON.stringify([{ routeId, crewIds: [CREW_ID], direction: 'alternate' }]), LEAD_ID],
+    );
     await db.query('COMMIT');
     return campaignId;
   } finally {

@@ -72,11 +72,13 @@ interface ShownClosure {
 
 /** The closure cards on the visit screen: the flux as shown and the flags (each shown in words, its code kept in data-flag). */
 async function shownClosures(page: Page): Promise<ShownClosure[]> {
-  return page.locator('[data-closure]').evaluateAll((cards) => cards.map((c) => ({
-    id: c.getAttribute('data-closure') ?? '',
-    flux: c.querySelector('[data-testid="spot-flux"]')?.textContent?.trim() ?? '',
-    flags: Array.from(c.querySelectorAll('[data-testid="spot-flags"] li[data-flag]')).map((li) => li.getAttribute('data-flag') ?? ''),
-  })));
+  return page.locator('[data-closure]').evaluateAll((cards) =>
+    cards.map((c) => ({
+      id: c.getAttribute('data-closure') ?? '',
+      flux: c.querySelector('[data-testid="spot-flux"]')?.textContent?.trim() ?? '',
+      flags: Array.from(c.querySelectorAll('[data-testid="spot-flags"] li[data-flag]')).map((li) => li.getAttribute('data-flag') ?? ''),
+    })),
+  );
 }
 
 describe('Closure capture in Chromium, offline, then synced', () => {
@@ -177,7 +179,9 @@ describe('Closure capture in Chromium, offline, then synced', () => {
       // 610 ppm at the start against the day's 421.5 ppm is more than the 100 ppm margin.
       expect(atA[0].flags).not.toContain('start-above-ambient');
       expect(atA[1].flags).toContain('start-above-ambient');
-      expect(await page.locator('[data-closure]').nth(1).locator('.ambient').innerText()).toMatch(/^Start vs this analyzer's ambient reading: \+189 ppm$/);
+      expect(await page.locator('[data-closure]').nth(1).locator('.ambient').innerText()).toMatch(
+        /^Start vs this analyzer's ambient reading: \+189 ppm$/,
+      );
 
       // Redo the flagged closure: a new closure at the same visit, its short series typed in.
       await page.clock.setSystemTime(new Date('2026-12-03T09:10:00Z'));
@@ -220,13 +224,29 @@ describe('Closure capture in Chromium, offline, then synced', () => {
       await page.keyboard.press('Escape');
 
       const rows = await query<{
-        id: string; code: string; chamber_on_at: Date; started_at: Date; flux_umol_m2_s: number | null; flags: string[];
-        redo_of_id: string | null; source_attachment_id: string | null; analyzer_id: string | null; results: Record<string, unknown> | null;
-      }>(`SELECT c.id, k.code, c.chamber_on_at, c.started_at, c.flux_umol_m2_s, c.flags, c.redo_of_id, c.source_attachment_id, c.analyzer_id, c.results
+        id: string;
+        code: string;
+        chamber_on_at: Date;
+        started_at: Date;
+        flux_umol_m2_s: number | null;
+        flags: string[];
+        redo_of_id: string | null;
+        source_attachment_id: string | null;
+        analyzer_id: string | null;
+        results: Record<string, unknown> | null;
+      }>(
+        `SELECT c.id, k.code, c.chamber_on_at, c.started_at, c.flux_umol_m2_s, c.flags, c.redo_of_id, c.source_attachment_id, c.analyzer_id, c.results
         FROM closure c JOIN collar k ON k.id = c.collar_id JOIN visit v ON v.id = c.visit_id
-        WHERE v.crew_id = $1 AND v.round = 2 ORDER BY c.chamber_on_at`, [user.id]);
+        WHERE v.crew_id = $1 AND v.round = 2 ORDER BY c.chamber_on_at`,
+        [user.id],
+      );
       expect(rows.map((r) => r.code)).toEqual([collarA, collarA, collarB, collarB, collarA]);
-      expect(rows.map((r) => r.id)).toEqual([atA[0].id, atA[1].id, ...[...shown.keys()].filter((id) => id !== atA[0].id && id !== atA[1].id && id !== redo.id), redo.id]);
+      expect(rows.map((r) => r.id)).toEqual([
+        atA[0].id,
+        atA[1].id,
+        ...[...shown.keys()].filter((id) => id !== atA[0].id && id !== atA[1].id && id !== redo.id),
+        redo.id,
+      ]);
       for (const [i, r] of rows.entries()) {
         // The engine ran on the server; the crew saw the same number.
         expect(r.results).not.toBeNull();
@@ -253,8 +273,15 @@ describe('Closure capture in Chromium, offline, then synced', () => {
       expect(rows.slice(0, 4).map((r) => r.source_attachment_id)).toEqual([attachmentId, attachmentId, attachmentId, attachmentId]);
 
       const [att] = await query<{ sha256: string; size_bytes: string; media_type: string; file_name: string; object_key: string | null }>(
-        `SELECT sha256, size_bytes, media_type, file_name, object_key FROM attachment WHERE id = $1`, [attachmentId]);
-      expect(att).toMatchObject({ sha256: sha256(fileBytes), size_bytes: String(fileBytes.length), media_type: 'text/csv', file_name: 'walk-two-collars.csv' });
+        `SELECT sha256, size_bytes, media_type, file_name, object_key FROM attachment WHERE id = $1`,
+        [attachmentId],
+      );
+      expect(att).toMatchObject({
+        sha256: sha256(fileBytes),
+        size_bytes: String(fileBytes.length),
+        media_type: 'text/csv',
+        file_name: 'walk-two-collars.csv',
+      });
       expect(att.object_key).toEqual(expect.any(String));
       // Read back through the API and straight from the object store: the same bytes.
       const res = await page.request.get(`${server.baseUrl}/api/attachments/${attachmentId}/content`);
@@ -266,7 +293,7 @@ describe('Closure capture in Chromium, offline, then synced', () => {
       expect(sha256(Buffer.concat(chunks))).toBe(sha256(fileBytes));
     });
   });
-  it('when the crew taps at two more collars and imports the day\'s file once from the route, then one confirm fills every tapped closure of both collars with one attachment', async () => {
+  it("when the crew taps at two more collars and imports the day's file once from the route, then one confirm fills every tapped closure of both collars with one attachment", async () => {
     await browser?.close();
     browser = await launchBrowser();
     const { page } = browser;
@@ -308,7 +335,9 @@ describe('Closure capture in Chromium, offline, then synced', () => {
       await page.getByLabel('Logger file').setInputFiles(FIXTURE);
       taps++;
       await page.getByTestId('round-summary').waitFor();
-      expect((await page.getByTestId('round-summary').innerText()).trim()).toBe('4 closures of 4 closures in walk-two-collars.csv matched to their taps at 2 collars.');
+      expect((await page.getByTestId('round-summary').innerText()).trim()).toBe(
+        '4 closures of 4 closures in walk-two-collars.csv matched to their taps at 2 collars.',
+      );
       await page.getByRole('button', { name: 'Save 4 closures' }).click();
       taps++;
       expect((await page.getByTestId('import-done').innerText()).trim()).toBe('4 closures filled from walk-two-collars.csv.');
@@ -320,8 +349,15 @@ describe('Closure capture in Chromium, offline, then synced', () => {
       await waitForSyncLabel(page, /^Up to date$/, 60_000);
       const rows = await query<{ code: string; source_attachment_id: string | null; n: number }>(
         `SELECT k.code, c.source_attachment_id, jsonb_array_length(c.series->'tS') AS n FROM closure c JOIN collar k ON k.id = c.collar_id
-          JOIN visit v ON v.id = c.visit_id WHERE v.crew_id = $1 AND v.round = 2 AND k.code = ANY($2) ORDER BY c.chamber_on_at`, [user.id, [collarC, collarD]]);
-      expect(rows.map((r) => [r.code, r.n])).toEqual([[collarC, 61], [collarC, 61], [collarD, 61], [collarD, 61]]);
+          JOIN visit v ON v.id = c.visit_id WHERE v.crew_id = $1 AND v.round = 2 AND k.code = ANY($2) ORDER BY c.chamber_on_at`,
+        [user.id, [collarC, collarD]],
+      );
+      expect(rows.map((r) => [r.code, r.n])).toEqual([
+        [collarC, 61],
+        [collarC, 61],
+        [collarD, 61],
+        [collarD, 61],
+      ]);
       expect(new Set(rows.map((r) => r.source_attachment_id)).size).toBe(1);
       expect(rows[0].source_attachment_id).not.toBeNull();
     });

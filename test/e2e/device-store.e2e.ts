@@ -3,7 +3,16 @@
 import { signInAs, waitForServiceWorkerControl } from './support/app-actions';
 import { RunningServer, startAppServer } from './support/app-server';
 import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
-import { editNotes, firstCollars, serverCollar, shownNotes, syncLabel, syncNow, waitForFirstSync, waitForSyncLabel } from './support/sync-actions';
+import {
+  editNotes,
+  firstCollars,
+  serverCollar,
+  shownNotes,
+  syncLabel,
+  syncNow,
+  waitForFirstSync,
+  waitForSyncLabel,
+} from './support/sync-actions';
 
 jest.setTimeout(240_000);
 

@@ -23,10 +23,12 @@ interface Screen {
   walk?: boolean;
 }
 
-const tab = (name: string): Screen['open'] => async (page) => {
-  await page.getByRole('tab', { name, exact: true }).click();
-  await page.getByRole('tab', { name, exact: true, selected: true }).waitFor();
-};
+const tab =
+  (name: string): Screen['open'] =>
+  async (page) => {
+    await page.getByRole('tab', { name, exact: true }).click();
+    await page.getByRole('tab', { name, exact: true, selected: true }).waitFor();
+  };
 
 /**
  * One collar's visit page, opened from the route screen as the crew does: the next collar due, so
@@ -76,30 +78,107 @@ async function startClosure(page: Page): Promise<void> {
 
 const SCREENS: Record<DemoRole, Screen[]> = {
   crew: [
-    { name: 'walk-route', walk: true, open: async (page) => { await waitForFirstSync(page); await page.getByTestId('route-list').waitFor(); } },
-    { name: 'walk-map', walk: true, open: async (page) => { await page.getByRole('link', { name: 'Map', exact: true }).click(); await page.locator('.leaflet-container').waitFor(); } },
+    {
+      name: 'walk-route',
+      walk: true,
+      open: async (page) => {
+        await waitForFirstSync(page);
+        await page.getByTestId('route-list').waitFor();
+      },
+    },
+    {
+      name: 'walk-map',
+      walk: true,
+      open: async (page) => {
+        await page.getByRole('link', { name: 'Map', exact: true }).click();
+        await page.locator('.leaflet-container').waitFor();
+      },
+    },
     { name: 'walk-visit', walk: true, open: openVisit },
     { name: 'walk-visit-running', walk: true, open: startClosure },
   ],
   lead: [
-    { name: 'board-progress', open: async (page, base) => { await page.goto(`${base}/board`); await page.getByTestId('campaign-select').waitFor(); await page.locator('[data-testid="progress-row"]').first().waitFor(); } },
+    {
+      name: 'board-progress',
+      open: async (page, base) => {
+        await page.goto(`${base}/board`);
+        await page.getByTestId('campaign-select').waitFor();
+        await page.locator('[data-testid="progress-row"]').first().waitFor();
+      },
+    },
     ...['Plan', 'Map', 'Anomalies', 'Devices', 'Digest'].map((t) => ({ name: `board-${t.toLowerCase()}`, open: tab(t) })),
-    { name: 'setup-collars', open: async (page, base) => { await page.goto(`${base}/setup`); await tab('Collars')(page, base); } },
+    {
+      name: 'setup-collars',
+      open: async (page, base) => {
+        await page.goto(`${base}/setup`);
+        await tab('Collars')(page, base);
+      },
+    },
     { name: 'setup-routes', open: tab('Routes') },
   ],
   lab: [
-    { name: 'bench-queue', open: async (page) => { await page.getByTestId('queue-total').filter({ hasText: /[1-9]/ }).waitFor(); } },
-    { name: 'bench-review', open: async (page) => { await page.getByTestId('review-state').waitFor(); await page.getByTestId('history').scrollIntoViewIfNeeded(); } },
-    { name: 'bench-results', open: async (page) => { await page.getByRole('button', { name: 'Results' }).click(); await page.getByTestId('summary-table').waitFor(); } },
-    { name: 'bench-response', open: async (page) => { await page.getByRole('tab', { name: 'Temperature response' }).click(); await page.getByTestId('response-table').waitFor(); } },
-    { name: 'bench-seasonal', open: async (page) => { await page.getByRole('tab', { name: 'Seasonal totals' }).click(); await page.getByTestId('seasonal-table').waitFor(); } },
+    {
+      name: 'bench-queue',
+      open: async (page) => {
+        await page.getByTestId('queue-total').filter({ hasText: /[1-9]/ }).waitFor();
+      },
+    },
+    {
+      name: 'bench-review',
+      open: async (page) => {
+        await page.getByTestId('review-state').waitFor();
+        await page.getByTestId('history').scrollIntoViewIfNeeded();
+      },
+    },
+    {
+      name: 'bench-results',
+      open: async (page) => {
+        await page.getByRole('button', { name: 'Results' }).click();
+        await page.getByTestId('summary-table').waitFor();
+      },
+    },
+    {
+      name: 'bench-response',
+      open: async (page) => {
+        await page.getByRole('tab', { name: 'Temperature response' }).click();
+        await page.getByTestId('response-table').waitFor();
+      },
+    },
+    {
+      name: 'bench-seasonal',
+      open: async (page) => {
+        await page.getByRole('tab', { name: 'Seasonal totals' }).click();
+        await page.getByTestId('seasonal-table').waitFor();
+      },
+    },
     { name: 'bench-package', open: tab('Data package') },
   ],
   admin: [
-    { name: 'setup-site', open: async (page, base) => { await page.goto(`${base}/setup`); await page.getByRole('tab', { name: 'Site', selected: true }).waitFor(); } },
-    ...['Plots and treatments', 'Members', 'Equipment', 'Collars', 'Routes'].map((t) => ({ name: `setup-${t.split(' ')[0].toLowerCase()}`, open: tab(t) })),
-    { name: 'accounts-invite', open: async (page, base) => { await page.goto(`${base}/accounts/invite`); await page.getByRole('heading', { name: 'Invite someone' }).waitFor(); } },
-    { name: 'accounts-password', open: async (page, base) => { await page.goto(`${base}/accounts/password`); await page.getByRole('heading', { name: 'Change your password' }).waitFor(); } },
+    {
+      name: 'setup-site',
+      open: async (page, base) => {
+        await page.goto(`${base}/setup`);
+        await page.getByRole('tab', { name: 'Site', selected: true }).waitFor();
+      },
+    },
+    ...['Plots and treatments', 'Members', 'Equipment', 'Collars', 'Routes'].map((t) => ({
+      name: `setup-${t.split(' ')[0].toLowerCase()}`,
+      open: tab(t),
+    })),
+    {
+      name: 'accounts-invite',
+      open: async (page, base) => {
+        await page.goto(`${base}/accounts/invite`);
+        await page.getByRole('heading', { name: 'Invite someone' }).waitFor();
+      },
+    },
+    {
+      name: 'accounts-password',
+      open: async (page, base) => {
+        await page.goto(`${base}/accounts/password`);
+        await page.getByRole('heading', { name: 'Change your password' }).waitFor();
+      },
+    },
   ],
 };
 
@@ -110,22 +189,27 @@ describe('Layout guard: every main screen of every role, on a phone and at the s
     for (const width of WIDTHS) {
       it(`${role} at ${width.name} px: no page wider than the screen, nothing cut or covered, Material controls only, targets ≥ 24 px (48 px on Walk), no axe finding`, async () => {
         const all: Record<string, LayoutFinding[]> = {};
-        await suite.inBrowser(`layout-${role}-${width.name}`, async (page) => {
-          const user = await signInAs(page, suite.server.baseUrl, role);
-          mkdirSync(SHOTS, { recursive: true });
-          // The header names the site the data belongs to, and a phone spends at most 64 px on it when there is one screen to go to.
-          await page.getByTestId('current-site').filter({ hasText: /\S/ }).waitFor();
-          const header = (await page.locator('header.top').boundingBox())!;
-          const screens = (await page.getByRole('navigation', { name: 'Screens' }).getByRole('link').count());
-          if (width.touch && screens === 1 && header.height > 64) all['header'] = [{ check: 'header', where: `header ${header.height} px high for ${user.email}'s one screen` }];
-          for (const screen of SCREENS[role]) {
-            await screen.open(page, suite.server.baseUrl);
-            await page.waitForTimeout(400); // let late rows and charts settle
-            const found = [...(await layoutFindings(page, { minTargetPx: screen.walk ? 48 : 24 })), ...(await axeFindings(page))];
-            await page.screenshot({ path: path.join(SHOTS, `${role}-${screen.name}-${width.name}.png`), fullPage: true });
-            all[screen.name] = found;
-          }
-        }, { viewport: width.viewport, hasTouch: width.touch });
+        await suite.inBrowser(
+          `layout-${role}-${width.name}`,
+          async (page) => {
+            const user = await signInAs(page, suite.server.baseUrl, role);
+            mkdirSync(SHOTS, { recursive: true });
+            // The header names the site the data belongs to, and a phone spends at most 64 px on it when there is one screen to go to.
+            await page.getByTestId('current-site').filter({ hasText: /\S/ }).waitFor();
+            const header = (await page.locator('header.top').boundingBox())!;
+            const screens = await page.getByRole('navigation', { name: 'Screens' }).getByRole('link').count();
+            if (width.touch && screens === 1 && header.height > 64)
+              all['header'] = [{ check: 'header', where: `header ${header.height} px high for ${user.email}'s one screen` }];
+            for (const screen of SCREENS[role]) {
+              await screen.open(page, suite.server.baseUrl);
+              await page.waitForTimeout(400); // let late rows and charts settle
+              const found = [...(await layoutFindings(page, { minTargetPx: screen.walk ? 48 : 24 })), ...(await axeFindings(page))];
+              await page.screenshot({ path: path.join(SHOTS, `${role}-${screen.name}-${width.name}.png`), fullPage: true });
+              all[screen.name] = found;
+            }
+          },
+          { viewport: width.viewport, hasTouch: width.touch },
+        );
         writeFileSync(path.join(SHOTS, `${role}-${width.name}.json`), JSON.stringify({ findings: all }, null, 1));
         expect(all).toEqual(Object.fromEntries(Object.keys(all).map((k) => [k, []])));
         expect(Object.keys(all)).toEqual(expect.arrayContaining(SCREENS[role].map((x) => x.name)));

@@ -23,8 +23,11 @@ afterAll(async () => {
 
 /** This test's readings: the probe id typed here marks them. */
 const PROBE = `REP-${Date.now().toString(36)}`;
-const stored = () => queryE2eDatabase<{ moisture_raw: number; deleted: boolean; taken_by_id: string | null }>(
-  `SELECT moisture_raw, deleted, taken_by_id FROM probe_reading WHERE probe_id = $1 ORDER BY taken_at`, [PROBE]);
+const stored = () =>
+  queryE2eDatabase<{ moisture_raw: number; deleted: boolean; taken_by_id: string | null }>(
+    `SELECT moisture_raw, deleted, taken_by_id FROM probe_reading WHERE probe_id = $1 ORDER BY taken_at`,
+    [PROBE],
+  );
 async function until<T>(read: () => Promise<T>, ok: (v: T) => boolean, what: string): Promise<T> {
   for (let i = 0; i < 60; i++) {
     const v = await read();
@@ -56,17 +59,29 @@ describe('Probe replicates on a phone', () => {
       await page.getByTestId('soil-temp-1').fill('8.2');
       await page.getByTestId('moisture-raw').fill('23.4');
       await page.getByLabel('Probe id').fill(PROBE);
-      await page.getByTestId('probe-saved').filter({ hasText: /Saved: 8\.2 °C/ }).waitFor();
-      await page.getByTestId('probe-stats').filter({ hasText: /^\s*1 replicate/ }).waitFor();
+      await page
+        .getByTestId('probe-saved')
+        .filter({ hasText: /Saved: 8\.2 °C/ })
+        .waitFor();
+      await page
+        .getByTestId('probe-stats')
+        .filter({ hasText: /^\s*1 replicate/ })
+        .waitFor();
 
       // Each further insertion: one tap and one value.
       const add = page.getByTestId('add-replicate');
-      for (const [n, v] of [[2, '25.1'], [3, '24.0']] as const) {
+      for (const [n, v] of [
+        [2, '25.1'],
+        [3, '24.0'],
+      ] as const) {
         const box = await add.boundingBox();
         expect(box!.height).toBeGreaterThanOrEqual(48);
         await add.tap();
         await page.getByTestId('moisture-raw').fill(v);
-        await page.getByTestId('probe-stats').filter({ hasText: new RegExp(`^\\s*${n} replicates`) }).waitFor();
+        await page
+          .getByTestId('probe-stats')
+          .filter({ hasText: new RegExp(`^\\s*${n} replicates`) })
+          .waitFor();
       }
       // 23.4, 25.1, 24.0: mean 24.17, sample SD 0.86 (Python statistics.stdev).
       await page.getByTestId('probe-stats').filter({ hasText: 'VWC mean 24.2 %, SD 0.9 (n = 3)' }).waitFor();
@@ -75,16 +90,27 @@ describe('Probe replicates on a phone', () => {
 
       await syncNow(page);
       const three = await until(stored, (r) => r.length === 3, 'three replicates on the server');
-      expect(three.map((r) => [r.moisture_raw, r.deleted, r.taken_by_id])).toEqual([[23.4, false, user.id], [25.1, false, user.id], [24, false, user.id]]);
+      expect(three.map((r) => [r.moisture_raw, r.deleted, r.taken_by_id])).toEqual([
+        [23.4, false, user.id],
+        [25.1, false, user.id],
+        [24, false, user.id],
+      ]);
 
       const del = page.getByRole('button', { name: 'Delete replicate 3' });
       expect((await del.boundingBox())!.height).toBeGreaterThanOrEqual(48);
       await del.tap();
       await page.getByRole('button', { name: 'Delete replicate 3' }).filter({ hasText: 'Delete replicate 3' }).tap();
-      await page.getByTestId('probe-stats').filter({ hasText: /^\s*2 replicates · VWC mean 24\.3 %/ }).waitFor();
+      await page
+        .getByTestId('probe-stats')
+        .filter({ hasText: /^\s*2 replicates · VWC mean 24\.3 %/ })
+        .waitFor();
       await syncNow(page);
       const after = await until(stored, (r) => r.some((x) => x.deleted), 'the tombstone');
-      expect(after.map((r) => [r.moisture_raw, r.deleted])).toEqual([[23.4, false], [25.1, false], [24, true]]);
+      expect(after.map((r) => [r.moisture_raw, r.deleted])).toEqual([
+        [23.4, false],
+        [25.1, false],
+        [24, true],
+      ]);
     });
   });
 });

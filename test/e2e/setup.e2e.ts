@@ -81,7 +81,12 @@ describe('Setup in Chromium', () => {
       const map = page.getByTestId('outline-map');
       await map.scrollIntoViewIfNeeded();
       const box = (await map.boundingBox())!;
-      for (const [fx, fy] of [[0.3, 0.3], [0.7, 0.3], [0.5, 0.7]]) await map.click({ position: { x: box.width * fx!, y: box.height * fy! } });
+      for (const [fx, fy] of [
+        [0.3, 0.3],
+        [0.7, 0.3],
+        [0.5, 0.7],
+      ])
+        await map.click({ position: { x: box.width * fx!, y: box.height * fy! } });
       await page.getByRole('button', { name: 'Close outline' }).click();
       const patched = page.waitForResponse((r) => r.url().includes('/api/plots/') && r.request().method() === 'PATCH');
       await page.getByRole('button', { name: 'Save outline' }).click();
@@ -103,7 +108,11 @@ describe('Setup in Chromium', () => {
       // A chamber profile.
       await page.getByRole('tab', { name: 'Equipment' }).click();
       const profile = await addRow(page, 'chamber profiles', {
-        'Profile name': 'Opaque 20 cm', 'Valid from': '2026-01-01', 'Chamber volume (cm³)': '4000', 'Loop volume (cm³)': '50', 'Settle time (s)': '20',
+        'Profile name': 'Opaque 20 cm',
+        'Valid from': '2026-01-01',
+        'Chamber volume (cm³)': '4000',
+        'Loop volume (cm³)': '50',
+        'Settle time (s)': '20',
       });
       expect(profile).toMatchObject({ validFrom: '2026-01-01', chamberVolumeCm3: 4000 });
       await noSeriousProblems(page, 'equipment');
@@ -135,7 +144,9 @@ describe('Setup in Chromium', () => {
       await page.getByTestId('tag-sheet').click();
       const file = await (await download).path();
       const { pages, codes } = decodePdfQrCodes(readFileSync(file));
-      const collars = (await (await page.request.get(`${server.baseUrl}/api/collars?siteId=${site.id}&limit=100`)).json()).items as { id: string }[];
+      const collars = (await (await page.request.get(`${server.baseUrl}/api/collars?siteId=${site.id}&limit=100`)).json()).items as {
+        id: string;
+      }[];
       expect(pages).toBe(2);
       const ids = codes.flat().map((u) => u.split('/').pop());
       expect(ids).toHaveLength(40);

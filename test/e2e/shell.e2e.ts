@@ -47,14 +47,16 @@ describe('App shell in Chromium', () => {
     });
   }
 
-  it('when the lead signs out and removes this device\'s data, then their IndexedDB database and Board copies are gone; plain sign-out keeps them', async () => {
+  it("when the lead signs out and removes this device's data, then their IndexedDB database and Board copies are gone; plain sign-out keeps them", async () => {
     await inBrowser('sign-out-remove', async (page) => {
       const databases = () => page.evaluate(async () => (await indexedDB.databases()).map((d) => d.name ?? ''));
       const keptFor = (id: string) => page.evaluate((userId) => Object.keys(localStorage).filter((k) => k.split('.').includes(userId)), id);
       const user = await signInAs(page, suite.server.baseUrl, 'lead');
       const dbName = `fluxwalk-user-${user.id}`;
       await page.goto(`${suite.server.baseUrl}/board`, { waitUntil: 'load' });
-      await page.waitForFunction((id) => Object.keys(localStorage).some((k) => k.startsWith(`fw.board.${id}.`)), user.id, { timeout: 30_000 });
+      await page.waitForFunction((id) => Object.keys(localStorage).some((k) => k.startsWith(`fw.board.${id}.`)), user.id, {
+        timeout: 30_000,
+      });
       expect(await databases()).toContain(dbName);
 
       await page.getByTestId('user-menu').click();
@@ -65,7 +67,7 @@ describe('App shell in Chromium', () => {
 
       await signInAs(page, suite.server.baseUrl, 'lead');
       await page.getByTestId('user-menu').click();
-      await page.getByRole('menuitem', { name: 'Sign out and remove this device\'s data' }).click();
+      await page.getByRole('menuitem', { name: "Sign out and remove this device's data" }).click();
       await page.waitForURL((url) => url.pathname === '/sign-in');
       await page.waitForFunction(async (name) => !(await indexedDB.databases()).some((d) => d.name === name), dbName, { timeout: 30_000 });
       expect(await keptFor(user.id)).toEqual([]);
@@ -118,7 +120,10 @@ describe('App shell in Chromium', () => {
       expect((await failed).url()).toContain('/api/auth/me');
 
       // Said once: the sync chip's status; no second badge and no snackbar over the screen.
-      await page.getByTestId('sync-label').filter({ hasText: /^Offline/ }).waitFor();
+      await page
+        .getByTestId('sync-label')
+        .filter({ hasText: /^Offline/ })
+        .waitFor();
       expect(await page.getByText(/Offline/).count()).toBe(1);
       expect(await page.locator('mat-snack-bar-container').count()).toBe(0);
       expect(await page.getByRole('dialog').count()).toBe(0);

@@ -28,8 +28,13 @@ describe('Bench temperature logs in Chromium at 390 px', () => {
       await page.getByRole('link', { name: 'Temperature logs' }).click();
       await page.getByRole('heading', { name: 'Soil temperature logs' }).waitFor();
       const text = 'Zeit;Boden 5 cm\n2026-07-01 00:00;14,2\n2026-07-01 01:00;14,0\n2026-07-01 02:00;13,8\n';
-      await page.locator('input[type=file][aria-label="Temperature logger file"]').setInputFiles({ name: 'soil-5cm.csv', mimeType: 'text/csv', buffer: Buffer.from(text) });
-      await page.getByTestId('preview-summary').getByText(/3 readings/).waitFor();
+      await page
+        .locator('input[type=file][aria-label="Temperature logger file"]')
+        .setInputFiles({ name: 'soil-5cm.csv', mimeType: 'text/csv', buffer: Buffer.from(text) });
+      await page
+        .getByTestId('preview-summary')
+        .getByText(/3 readings/)
+        .waitFor();
       await page.getByLabel('Depth (cm)').fill('5');
       // A multiple select stays open after a choice: pick one plot, then close it.
       await choose(page, 'Plot(s) this logger stands for', /.+/, { multiple: true });
@@ -38,7 +43,10 @@ describe('Bench temperature logs in Chromium at 390 px', () => {
       const done = page.waitForResponse((r) => r.url().includes('/api/results/temperature-logs/import'));
       await page.getByRole('button', { name: 'Import', exact: true }).click();
       expect((await done).status()).toBe(201);
-      await page.getByTestId('outcome').getByText(/Imported \(append\): 3 readings/).waitFor();
+      await page
+        .getByTestId('outcome')
+        .getByText(/Imported \(append\): 3 readings/)
+        .waitFor();
       expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
     });
   });

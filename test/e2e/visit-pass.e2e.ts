@@ -39,7 +39,8 @@ async function noteShot(page: Page, name: string): Promise<void> {
 function loggerFile(onIso: string, seconds: number): Buffer {
   const on = Date.parse(onIso) + 3600_000;
   const lines = ['timestamp,co2_ppm,temp_c'];
-  for (let t = 0; t <= seconds; t += 2) lines.push(`${new Date(on + t * 1000).toISOString().slice(0, 19).replace('T', ' ')},${(420 + 0.5 * t).toFixed(2)},8.00`);
+  for (let t = 0; t <= seconds; t += 2)
+    lines.push(`${new Date(on + t * 1000).toISOString().slice(0, 19).replace('T', ' ')},${(420 + 0.5 * t).toFixed(2)},8.00`);
   return Buffer.from(`${lines.join('\n')}\n`);
 }
 
@@ -64,7 +65,10 @@ describe('One pass per collar on a phone', () => {
       await page.getByRole('heading', { name: 'Start of day' }).waitFor();
       await choose(page, 'Analyzer', /.+/);
       await page.getByRole('link', { name: 'To the route' }).click();
-      await page.getByTestId('start-of-day-link').filter({ hasText: /· analyzer .+/ }).waitFor();
+      await page
+        .getByTestId('start-of-day-link')
+        .filter({ hasText: /· analyzer .+/ })
+        .waitFor();
       await choose(page, 'Round', 'Round 2');
       await page.getByTestId('route-list').waitFor();
 
@@ -136,7 +140,10 @@ async function duringTheClosure(page: Page, count: VisitCounter): Promise<void> 
   await noteShot(page, 'visit-after-offsets');
   await count.type(page.getByTestId('soil-temp-1'), '6.4', 'soil temperature');
   await count.type(page.getByTestId('moisture-raw'), '23', 'moisture');
-  await page.getByTestId('probe-saved').filter({ hasText: /Saved: 6\.4 °C/ }).waitFor();
+  await page
+    .getByTestId('probe-saved')
+    .filter({ hasText: /Saved: 6\.4 °C/ })
+    .waitFor();
 }
 
 async function visitB(page: Page, count: VisitCounter): Promise<void> {

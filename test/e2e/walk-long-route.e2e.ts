@@ -44,7 +44,11 @@ describe('Walk on a route of thousands of collars', () => {
       const total = Number(await rows.first().getAttribute('aria-setsize'));
       expect(total).toBeGreaterThan(EXTRA);
       // The heading counts every collar of the route, drawn or not.
-      const counted = async () => (await page.locator('#list-title').innerText()).match(/\d+/g)!.map(Number).reduce((a, b) => a + b, 0);
+      const counted = async () =>
+        (await page.locator('#list-title').innerText())
+          .match(/\d+/g)!
+          .map(Number)
+          .reduce((a, b) => a + b, 0);
       expect(await counted()).toBe(total);
       expect(await rows.count()).toBeLessThan(60);
       await page.locator('#list-title').evaluate((h) => h.scrollIntoView());

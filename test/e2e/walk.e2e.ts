@@ -28,10 +28,14 @@ const query = queryE2eDatabase;
 /** The sealed-plate closure as the analyzer logs it (our plain export: elapsed seconds, CO2 in µmol/mol). */
 const LEAK_FILE = 'time_s,co2_ppm\n0,430\n10,425\n20,415.0\n30,415.3\n40,415.6\n50,415.9\n';
 /** A blank tag printed for a new collar, planned code N-07 (made by tools/make-walk-qr-fixtures.js). */
-const BLANK_TAG = { photo: path.resolve(__dirname, '../fixtures/walk/blank-tag-qr.png'), id: '9e8d7c6b-5a49-4382-a716-0f1e2d3c4b5a', code: 'N-07' };
+const BLANK_TAG = {
+  photo: path.resolve(__dirname, '../fixtures/walk/blank-tag-qr.png'),
+  id: '9e8d7c6b-5a49-4382-a716-0f1e2d3c4b5a',
+  code: 'N-07',
+};
 
 describe('Walk in Chromium on a phone, offline', () => {
-  it('when the crew works a day offline and then syncs, then every check (with the leak check\'s logger file), visit, offset set, probe reading, tagged new collar and photo record is in PostgreSQL', async () => {
+  it("when the crew works a day offline and then syncs, then every check (with the leak check's logger file), visit, offset set, probe reading, tagged new collar and photo record is in PostgreSQL", async () => {
     browser = await launchBrowser();
     const { page, context } = browser;
     await page.setViewportSize(PHONE);
@@ -43,7 +47,8 @@ describe('Walk in Chromium on a phone, offline', () => {
       await waitForFirstSync(page);
       await waitForServiceWorkerControl(page);
       const [{ latitude, longitude }] = await query<{ latitude: number; longitude: number }>(
-        `SELECT latitude, longitude FROM collar WHERE latitude IS NOT NULL ORDER BY code LIMIT 1`);
+        `SELECT latitude, longitude FROM collar WHERE latitude IS NOT NULL ORDER BY code LIMIT 1`,
+      );
       await context.grantPermissions(['geolocation'], { origin: server.baseUrl });
       await context.setGeolocation({ latitude: latitude + 0.0004, longitude: longitude - 0.0003, accuracy: 4 });
 
@@ -65,7 +70,9 @@ describe('Walk in Chromium on a phone, offline', () => {
       // time: 415.0, 415.3, 415.6, 415.9 every 10 s → 0.03 µmol/mol/s (by hand), within the site's limit.
       await page.getByRole('radio', { name: 'Logger file' }).check();
       await page.getByTestId('leak-settle').fill('20');
-      await page.getByTestId('leak-file').setInputFiles({ name: 'plate-morning.csv', mimeType: 'text/csv', buffer: Buffer.from(LEAK_FILE) });
+      await page
+        .getByTestId('leak-file')
+        .setInputFiles({ name: 'plate-morning.csv', mimeType: 'text/csv', buffer: Buffer.from(LEAK_FILE) });
       await page.getByTestId('leak-file-name').filter({ hasText: 'plate-morning.csv' }).waitFor();
       await page.getByTestId('leak-fitted').filter({ hasText: 'Slope 0.0300 µmol/mol/s: linear fit of 4 samples, 20–50 s' }).waitFor();
       await page.getByTestId('leak-verdict').filter({ hasText: 'Passes' }).waitFor();
@@ -77,12 +84,22 @@ describe('Walk in Chromium on a phone, offline', () => {
       // Calibration at the car: zero on scrubbed air, span on a 1000 µmol/mol cylinder; time left at now on the site clock.
       await page.getByRole('button', { name: 'Record a calibration…' }).click();
       await page.getByTestId('cylinder-caution').waitFor();
-      for (const [id, v] of [['cal-zero-before', '2.4'], ['cal-zero-after', '0.1'], ['cal-span-gas', '1000'], ['cal-span-cylinder', 'SG-1000-0988'],
-        ['cal-span-before', '1012.3'], ['cal-span-after', '1000.4']] as const) await page.getByTestId(id).fill(v);
+      for (const [id, v] of [
+        ['cal-zero-before', '2.4'],
+        ['cal-zero-after', '0.1'],
+        ['cal-span-gas', '1000'],
+        ['cal-span-cylinder', 'SG-1000-0988'],
+        ['cal-span-before', '1012.3'],
+        ['cal-span-after', '1000.4'],
+      ] as const)
+        await page.getByTestId(id).fill(v);
       await page.getByTestId('cal-drift-verdict').filter({ hasText: 'Drift within the site limit.' }).waitFor();
       axe['start of day'] = await seriousAccessibilityProblems(page);
       await page.getByRole('button', { name: 'Save calibration' }).click();
-      await page.getByTestId('calibration-status').filter({ hasText: /^\s*Last calibrated .*\(0 days ago; due every 180 days\)/ }).waitFor();
+      await page
+        .getByTestId('calibration-status')
+        .filter({ hasText: /^\s*Last calibrated .*\(0 days ago; due every 180 days\)/ })
+        .waitFor();
 
       // Route: round 2 of the open campaign (picked by keyboard), collars in walking order.
       await page.getByRole('link', { name: 'To the route' }).click();
@@ -92,14 +109,20 @@ describe('Walk in Chromium on a phone, offline', () => {
       // (its first collar is then the next due one).
       await page.waitForFunction(() => {
         const top = document.querySelector('[data-testid^="route-collar-"] .code')?.textContent?.trim();
-        return !!top && (document.querySelector('[data-testid="next-collar"]')?.textContent ?? '').includes(top)
-          && /reverse this round/.test(document.body.textContent ?? '');
+        return (
+          !!top &&
+          (document.querySelector('[data-testid="next-collar"]')?.textContent ?? '').includes(top) &&
+          /reverse this round/.test(document.body.textContent ?? '')
+        );
       });
       const codes = await page.locator('[data-testid^="route-collar-"] .code').allInnerTexts();
       expect(codes.length).toBeGreaterThanOrEqual(3);
       const [first, second, third] = codes.map((c) => c.trim());
       await page.getByTestId('next-collar').filter({ hasText: first }).waitFor();
-      await page.getByTestId('next-way').filter({ hasText: / m (N|NE|E|SE|S|SW|W|NW) \(\d+°\)/ }).waitFor();
+      await page
+        .getByTestId('next-way')
+        .filter({ hasText: / m (N|NE|E|SE|S|SW|W|NW) \(\d+°\)/ })
+        .waitFor();
       await readmeShot(page, 'walk-route');
       axe['route'] = await seriousAccessibilityProblems(page);
 
@@ -229,54 +252,99 @@ describe('Walk in Chromium on a phone, offline', () => {
         throw new Error(`${(err as Error).message}\nsync sheet: ${await page.getByTestId('sync-sheet').innerText()}`);
       });
 
-      const checks = await query(`SELECT kind, skipped, skip_reason, passed, co2_ppm, slope_umol_mol_s, note FROM analyzer_check
-        WHERE updated_by = $1 AND at > now() - interval '2 hours' AND at < now() + interval '1 hour' ORDER BY kind`, [user.id]);
+      const checks = await query(
+        `SELECT kind, skipped, skip_reason, passed, co2_ppm, slope_umol_mol_s, note FROM analyzer_check
+        WHERE updated_by = $1 AND at > now() - interval '2 hours' AND at < now() + interval '1 hour' ORDER BY kind`,
+        [user.id],
+      );
       expect(checks.map((c) => [c['kind'], c['skipped']])).toEqual([
-        ['ambient', false], ['calibration', false], ['clock', true], ['leak', false], ['safety-ack', false], ['warm-up', false]]);
-      const [calibration] = await query(`SELECT span_cylinder, zero_drift_ppm, drift_ppm, passed FROM analyzer_check
-        WHERE updated_by = $1 AND kind = 'calibration'`, [user.id]);
+        ['ambient', false],
+        ['calibration', false],
+        ['clock', true],
+        ['leak', false],
+        ['safety-ack', false],
+        ['warm-up', false],
+      ]);
+      const [calibration] = await query(
+        `SELECT span_cylinder, zero_drift_ppm, drift_ppm, passed FROM analyzer_check
+        WHERE updated_by = $1 AND kind = 'calibration'`,
+        [user.id],
+      );
       expect(calibration).toEqual({ span_cylinder: 'SG-1000-0988', zero_drift_ppm: 2.4, drift_ppm: 12.3, passed: true });
       expect(checks.find((c) => c['kind'] === 'clock')!['skip_reason']).toBe('Analyzer display unreadable in full sun');
       const leak = checks.find((c) => c['kind'] === 'leak')!;
       expect(leak['passed']).toBe(true);
       expect(leak['slope_umol_mol_s']).toBeCloseTo(0.03, 10);
-      expect(leak['note']).toMatch(/^Linear fit of 4 samples from 20 s to 50 s after a 20 s settle time \(plate-morning\.csv, Piece 1: lines 2–7[^)]*, 6 samples\)$/);
+      expect(leak['note']).toMatch(
+        /^Linear fit of 4 samples from 20 s to 50 s after a 20 s settle time \(plate-morning\.csv, Piece 1: lines 2–7[^)]*, 6 samples\)$/,
+      );
       // The logger file stays with the check as evidence (the bytes go up with the other files; see Closure capture).
-      const leakFiles = await query(`SELECT a.file_name, a.media_type, a.size_bytes, a.sha256 FROM attachment a
-        JOIN analyzer_check c ON c.id = a.owner_id WHERE a.owner_entity = 'analyzerCheck' AND c.kind = 'leak' AND c.updated_by = $1`, [user.id]);
-      expect(leakFiles).toEqual([{ file_name: 'plate-morning.csv', media_type: 'text/csv', size_bytes: String(LEAK_FILE.length),
-        sha256: createHash('sha256').update(LEAK_FILE).digest('hex') }]);
+      const leakFiles = await query(
+        `SELECT a.file_name, a.media_type, a.size_bytes, a.sha256 FROM attachment a
+        JOIN analyzer_check c ON c.id = a.owner_id WHERE a.owner_entity = 'analyzerCheck' AND c.kind = 'leak' AND c.updated_by = $1`,
+        [user.id],
+      );
+      expect(leakFiles).toEqual([
+        {
+          file_name: 'plate-morning.csv',
+          media_type: 'text/csv',
+          size_bytes: String(LEAK_FILE.length),
+          sha256: createHash('sha256').update(LEAK_FILE).digest('hex'),
+        },
+      ]);
       expect(checks.find((c) => c['kind'] === 'ambient')!['co2_ppm']).toBe(421.5);
 
-      const visits = await query(`SELECT c.code, v.round, v.skipped, v.skip_reason, v.conditions FROM visit v JOIN collar c ON c.id = v.collar_id
-        WHERE v.updated_by = $1 AND v.round = 2 ORDER BY v.arrived_at`, [user.id]);
+      const visits = await query(
+        `SELECT c.code, v.round, v.skipped, v.skip_reason, v.conditions FROM visit v JOIN collar c ON c.id = v.collar_id
+        WHERE v.updated_by = $1 AND v.round = 2 ORDER BY v.arrived_at`,
+        [user.id],
+      );
       expect(visits.map((v) => [v['code'], v['skipped'], v['skip_reason']])).toEqual([
-        [first, false, null], [second, false, null], [third, true, 'Fallen tree across the plot']]);
+        [first, false, null],
+        [second, false, null],
+        [third, true, 'Fallen tree across the plot'],
+      ]);
       expect((visits[0]['conditions'] as Record<string, unknown>)['rain24h']).toBe(true);
 
-      const sets = await query(`SELECT c.code, o.readings_cm, o.mean_cm, o.sd_cm FROM offset_set o JOIN collar c ON c.id = o.collar_id
-        JOIN visit v ON v.id = o.visit_id WHERE o.updated_by = $1 AND v.round = 2 ORDER BY o.taken_at`, [user.id]);
-      expect(sets.map((s) => [s['code'], s['readings_cm']])).toEqual([[first, [2.0, 2.1, 1.9, 5.0]], [second, [1.6, 1.7, 1.5, 1.6]]]);
+      const sets = await query(
+        `SELECT c.code, o.readings_cm, o.mean_cm, o.sd_cm FROM offset_set o JOIN collar c ON c.id = o.collar_id
+        JOIN visit v ON v.id = o.visit_id WHERE o.updated_by = $1 AND v.round = 2 ORDER BY o.taken_at`,
+        [user.id],
+      );
+      expect(sets.map((s) => [s['code'], s['readings_cm']])).toEqual([
+        [first, [2.0, 2.1, 1.9, 5.0]],
+        [second, [1.6, 1.7, 1.5, 1.6]],
+      ]);
       expect(sets[0]['mean_cm']).toBeCloseTo(2.75, 10);
       expect(sets[0]['sd_cm']).toBeCloseTo(1.5022, 4);
 
-      const probes = await query(`SELECT c.code, p.moisture_raw, p.moisture_kind, p.vwc_pct, p.probe_id, p.rod_length_cm, p.soil_temps
+      const probes = await query(
+        `SELECT c.code, p.moisture_raw, p.moisture_kind, p.vwc_pct, p.probe_id, p.rod_length_cm, p.soil_temps
         FROM probe_reading p JOIN collar c ON c.id = p.collar_id
-        JOIN visit v ON v.id = p.visit_id WHERE p.updated_by = $1 AND v.round = 2 ORDER BY p.taken_at`, [user.id]);
+        JOIN visit v ON v.id = p.visit_id WHERE p.updated_by = $1 AND v.round = 2 ORDER BY p.taken_at`,
+        [user.id],
+      );
       expect(probes.map((p) => [p['code'], p['moisture_kind'], p['moisture_raw'], p['probe_id'], p['rod_length_cm']])).toEqual([
-        [first, 'permittivity', 20, 'TDR-2', 12], [second, 'permittivity', 10, 'TDR-2', 12]]);
+        [first, 'permittivity', 20, 'TDR-2', 12],
+        [second, 'permittivity', 10, 'TDR-2', 12],
+      ]);
       // The server's own Topp conversion agrees with what the device showed.
       expect(probes[0]['vwc_pct']).toBeCloseTo(34.54, 2);
       expect(probes[1]['vwc_pct']).toBeCloseTo(18.83, 2);
 
-      const [collar] = await query(`SELECT code, diameter_cm, height_cm, insertion_cm, latitude, longitude, accuracy_m, area_cm2 FROM collar WHERE id = $1`, [newCollarId]);
+      const [collar] = await query(
+        `SELECT code, diameter_cm, height_cm, insertion_cm, latitude, longitude, accuracy_m, area_cm2 FROM collar WHERE id = $1`,
+        [newCollarId],
+      );
       expect(collar).toMatchObject({ code: BLANK_TAG.code, diameter_cm: 20, height_cm: 10, insertion_cm: 5 });
       expect(collar['latitude']).toBeCloseTo(latitude + 0.0004, 6);
       expect(collar['longitude']).toBeCloseTo(longitude - 0.0003, 6);
       const events = await query(`SELECT kind FROM collar_event WHERE collar_id = $1`, [newCollarId]);
       expect(events).toEqual([{ kind: 'installed' }]);
       const atts = await query(`SELECT owner_entity, media_type, size_bytes, sha256 FROM attachment WHERE owner_id = $1`, [newCollarId]);
-      expect(atts).toEqual([{ owner_entity: 'collar', media_type: 'image/jpeg', size_bytes: String(kept[0].size), sha256: kept[0].sha256 }]);
+      expect(atts).toEqual([
+        { owner_entity: 'collar', media_type: 'image/jpeg', size_bytes: String(kept[0].size), sha256: kept[0].sha256 },
+      ]);
     });
     expect(axe).toEqual({ 'start of day': [], route: [], visit: [], map: [], install: [] });
   });

@@ -8,7 +8,10 @@ import { createBody, type Wire, type World } from './site-world';
 export const ID_KINDS = ['live', 'deleted', 'just-created'] as const;
 export type IdKind = (typeof ID_KINDS)[number];
 
-export interface Answer { status: number; text: string }
+export interface Answer {
+  status: number;
+  text: string;
+}
 export type Send = (role: Role, method: RegisteredRoute['method'], path: string, body?: unknown) => Promise<Answer>;
 
 export interface ExposureInput {
@@ -71,7 +74,11 @@ export function paramEntity(path: string, param: string): EntityName | null {
 const collectionOf = (path: string): EntityName | null =>
   (Object.entries(ENTITY_PATHS).find(([, p]) => path === `/api/${p}`)?.[0] as EntityName | undefined) ?? null;
 
-interface Probe { path: string; body?: unknown; sent: string[] }
+interface Probe {
+  path: string;
+  body?: unknown;
+  sent: string[];
+}
 
 /** Every request one route gets for one id kind: foreign ids in the path, the query and the body. */
 function probesFor(route: RegisteredRoute, w: World, home: World): Probe[] {
@@ -79,18 +86,26 @@ function probesFor(route: RegisteredRoute, w: World, home: World): Probe[] {
   const mapped = params.map((p) => paramEntity(route.path, p));
   const collection = params.length ? null : collectionOf(route.path);
   // A parameter the path does not explain is tried with every entity's id; a known one with its own.
-  const targets: (EntityName | 'all')[] = mapped.some((m) => m === null) ? [...ENTITY_NAMES]
-    : mapped.length ? [mapped[0]!] : collection ? [collection] : ['all'];
+  const targets: (EntityName | 'all')[] = mapped.some((m) => m === null)
+    ? [...ENTITY_NAMES]
+    : mapped.length
+      ? [mapped[0]!]
+      : collection
+        ? [collection]
+        : ['all'];
   const out: Probe[] = [];
   for (const target of targets) {
     const idOf = (e: EntityName) => w[e].id;
     const main = target === 'all' ? w.collar : w[target];
     let path = route.path;
-    params.forEach((p, i) => { path = path.replace(`:${p}`, idOf(mapped[i] ?? (target === 'all' ? 'collar' : target))); });
-    const refs: Record<string, string> = target === 'all'
-      ? Object.fromEntries(ENTITY_NAMES.map((e) => [`${e}Id`, idOf(e)]))
-      : { [`${target}Id`]: main.id, siteId: w.site.id };
-    const sent = [...new Set([main.id, ...Object.values(refs), ...params.map((_, i) => idOf(mapped[i] ?? (target === 'all' ? 'collar' : target)))])];
+    params.forEach((p, i) => {
+      path = path.replace(`:${p}`, idOf(mapped[i] ?? (target === 'all' ? 'collar' : target)));
+    });
+    const refs: Record<string, string> =
+      target === 'all' ? Object.fromEntries(ENTITY_NAMES.map((e) => [`${e}Id`, idOf(e)])) : { [`${target}Id`]: main.id, siteId: w.site.id };
+    const sent = [
+      ...new Set([main.id, ...Object.values(refs), ...params.map((_, i) => idOf(mapped[i] ?? (target === 'all' ? 'collar' : target)))]),
+    ];
     if (route.method === 'get' || route.method === 'delete') {
       const q = new URLSearchParams({ id: main.id, ...refs, deviceId: randomUUID(), rev: '1' });
       out.push({ path: `${path}?${q}`, sent });
@@ -112,9 +127,22 @@ function syncProbes(w: World, home: World): Probe[] {
     const rec: Wire = w[e];
     const own = createBody(home[e]);
     const { siteId: _s, ...edit } = own;
-    const op = (baseRev: number | null, kind: 'upsert' | 'delete', fields: Record<string, unknown>) =>
-      ({ opId: randomUUID(), entity: e, id: rec.id, baseRev, op: kind, fields });
-    const ops = [op(null, 'upsert', own), op(1, 'upsert', {}), op(rec.rev, 'upsert', {}), op(1, 'upsert', edit), op(null, 'delete', {}), op(1, 'delete', {})];
+    const op = (baseRev: number | null, kind: 'upsert' | 'delete', fields: Record<string, unknown>) => ({
+      opId: randomUUID(),
+      entity: e,
+      id: rec.id,
+      baseRev,
+      op: kind,
+      fields,
+    });
+    const ops = [
+      op(null, 'upsert', own),
+      op(1, 'upsert', {}),
+      op(rec.rev, 'upsert', {}),
+      op(1, 'upsert', edit),
+      op(null, 'delete', {}),
+      op(1, 'delete', {}),
+    ];
     return { path: '/api/sync/push', body: { deviceId: randomUUID(), outboxSize: ops.length, ops }, sent: [rec.id] };
   });
 }
@@ -140,7 +168,9 @@ export async function checkExposure(input: ExposureInput, markers: string[]): Pr
           report.statuses[res.status] = (report.statuses[res.status] ?? 0) + 1;
           const found = [...needles].filter((n) => !probe.sent.includes(n) && res.text.includes(n));
           if (found.length) {
-            report.problems.push(`${role} ${route.method.toUpperCase()} ${route.path} (${kind}) → ${res.status} shows ${found.slice(0, 3).join(', ')}`);
+            report.problems.push(
+              `${role} ${route.method.toUpperCase()} ${route.path} (${kind}) → ${res.status} shows ${found.slice(0, 3).join(', ')}`,
+            );
           }
         }
       }

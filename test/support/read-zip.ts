@@ -4,7 +4,8 @@ import { fromBuffer, type Entry, type ZipFile } from 'yauzl';
 /** Reads every entry of a ZIP with yauzl (an independent reader), checking each entry's CRC-32, which yauzl leaves to its caller. */
 export async function readZip(zip: Buffer): Promise<Map<string, Buffer>> {
   const file = await new Promise<ZipFile>((resolve, reject) =>
-    fromBuffer(zip, { lazyEntries: true, validateEntrySizes: true }, (err, z) => (err ? reject(err) : resolve(z))));
+    fromBuffer(zip, { lazyEntries: true, validateEntrySizes: true }, (err, z) => (err ? reject(err) : resolve(z))),
+  );
   const files = new Map<string, Buffer>();
   await new Promise<void>((resolve, reject) => {
     file.on('error', reject);

@@ -17,10 +17,18 @@ export async function startServerProcess(databaseUrl: string): Promise<{ base: s
     child.stdout!.on('data', (b: Buffer) => {
       out += b.toString();
       const m = /listening on (http:\/\/[\d.]+:\d+)/.exec(out);
-      if (m) { clearTimeout(timer); resolve(m[1]); }
+      if (m) {
+        clearTimeout(timer);
+        resolve(m[1]);
+      }
     });
-    child.stderr!.on('data', (b: Buffer) => { out += b.toString(); });
-    child.on('exit', (code) => { clearTimeout(timer); reject(new Error(`server exited (${code}): ${out}`)); });
+    child.stderr!.on('data', (b: Buffer) => {
+      out += b.toString();
+    });
+    child.on('exit', (code) => {
+      clearTimeout(timer);
+      reject(new Error(`server exited (${code}): ${out}`));
+    });
   });
   return { base, child };
 }

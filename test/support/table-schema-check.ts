@@ -6,9 +6,20 @@
  */
 export type Row = Record<string, string>;
 
-interface Field { name: string; type: string; format?: string; constraints?: { required?: boolean; enum?: unknown[]; minimum?: number; maximum?: number } }
-interface ForeignKey { fields: string[] | string; reference: { resource: string; fields: string[] | string } }
-export interface TableResource { name: string; schema: { fields: Field[]; missingValues?: string[]; primaryKey?: string[] | string; foreignKeys?: ForeignKey[] } }
+interface Field {
+  name: string;
+  type: string;
+  format?: string;
+  constraints?: { required?: boolean; enum?: unknown[]; minimum?: number; maximum?: number };
+}
+interface ForeignKey {
+  fields: string[] | string;
+  reference: { resource: string; fields: string[] | string };
+}
+export interface TableResource {
+  name: string;
+  schema: { fields: Field[]; missingValues?: string[]; primaryKey?: string[] | string; foreignKeys?: ForeignKey[] };
+}
 
 const list = (x: string[] | string | undefined) => (x === undefined ? [] : Array.isArray(x) ? x : [x]);
 
@@ -18,7 +29,8 @@ const CAST: Record<string, (v: string) => unknown> = {
   integer: (v) => (/^[+-]?\d+$/.test(v) ? Number(v) : undefined),
   boolean: (v) => (v === 'true' ? true : v === 'false' ? false : undefined),
   date: (v) => (/^\d{4}-\d{2}-\d{2}$/.test(v) && !Number.isNaN(Date.parse(`${v}T00:00:00Z`)) ? v : undefined),
-  datetime: (v) => (/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}:\d{2}(\.\d+)?(Z|[+-]\d{2}:\d{2})$/.test(v) && !Number.isNaN(Date.parse(v)) ? v : undefined),
+  datetime: (v) =>
+    /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}:\d{2}(\.\d+)?(Z|[+-]\d{2}:\d{2})$/.test(v) && !Number.isNaN(Date.parse(v)) ? v : undefined,
 };
 
 /** Problems of one table; `tables` holds every table of the package by resource name (for foreign keys). */
@@ -27,15 +39,22 @@ export function checkTable(resource: TableResource, header: string[], rows: Row[
   const { fields } = resource.schema;
   const missing = new Set(resource.schema.missingValues ?? ['']);
   const name = resource.name;
-  if (JSON.stringify(header) !== JSON.stringify(fields.map((f) => f.name))) problems.push(`${name}: header ${header.join(',')} ≠ schema fields`);
+  if (JSON.stringify(header) !== JSON.stringify(fields.map((f) => f.name)))
+    problems.push(`${name}: header ${header.join(',')} ≠ schema fields`);
   for (const f of fields) if (!CAST[f.type]) problems.push(`${name}.${f.name}: unknown type ${f.type}`);
   rows.forEach((r, i) => {
     for (const f of fields) {
       const v = r[f.name];
       const c = f.constraints ?? {};
-      if (v === undefined || missing.has(v)) { if (c.required) problems.push(`${name} row ${i + 1}: ${f.name} is required`); continue; }
+      if (v === undefined || missing.has(v)) {
+        if (c.required) problems.push(`${name} row ${i + 1}: ${f.name} is required`);
+        continue;
+      }
       const value = CAST[f.type]?.(v);
-      if (value === undefined) { problems.push(`${name} row ${i + 1}: ${f.name} = "${v}" is not a ${f.type}`); continue; }
+      if (value === undefined) {
+        problems.push(`${name} row ${i + 1}: ${f.name} = "${v}" is not a ${f.type}`);
+        continue;
+      }
       if (c.enum && !c.enum.includes(value)) problems.push(`${name} row ${i + 1}: ${f.name} = "${v}" is not one of ${c.enum.join(', ')}`);
       if (c.minimum !== undefined && (value as number) < c.minimum) problems.push(`${name} row ${i + 1}: ${f.name} = ${v} < ${c.minimum}`);
       if (c.maximum !== undefined && (value as number) > c.maximum) problems.push(`${name} row ${i + 1}: ${f.name} = ${v} > ${c.maximum}`);
@@ -52,7 +71,10 @@ export function checkTable(resource: TableResource, header: string[], rows: Row[
     const from = list(fk.fields);
     const to = list(fk.reference.fields);
     const target = tables.get(fk.reference.resource || name);
-    if (!target) { problems.push(`${name}: foreign key to missing resource ${fk.reference.resource}`); continue; }
+    if (!target) {
+      problems.push(`${name}: foreign key to missing resource ${fk.reference.resource}`);
+      continue;
+    }
     const known = new Set(target.map((r) => JSON.stringify(to.map((k) => r[k]))));
     const bad = rows.filter((r) => from.every((k) => !missing.has(r[k])) && !known.has(JSON.stringify(from.map((k) => r[k]))));
     if (bad.length) problems.push(`${name}.${from.join(',')}: ${bad.length} values not in ${fk.reference.resource}.${to.join(',')}`);

@@ -24,7 +24,15 @@ export async function startTestApp(overrides: Partial<ServerConfig> = {}): Promi
   await ds.initialize();
   const { app, registry } = createApp(ds, loadConfig({ databaseUrl: url, staticDir: null, sessionSecret: 'test-secret', ...overrides }));
   // Let response-finish work (the rate limiter's decrement) settle before the pool closes.
-  return { app, ds, registry, close: async () => { await new Promise((r) => setTimeout(r, 100)); await ds.destroy(); } };
+  return {
+    app,
+    ds,
+    registry,
+    close: async () => {
+      await new Promise((r) => setTimeout(r, 100));
+      await ds.destroy();
+    },
+  };
 }
 
 export type Agent = ReturnType<typeof request.agent>;
@@ -46,9 +54,12 @@ export async function signIn(app: Express, email: string, password = DEMO_PASSWO
   await agent.get('/api/auth/csrf');
   const login = await agent.post('/api/auth/login').send({ email, password });
   const csrf: string = (await agent.get('/api/auth/csrf')).body.token;
-  const withToken = (t: request.Test, body?: unknown) => (body === undefined ? t.set('X-CSRF-Token', csrf) : t.set('X-CSRF-Token', csrf).send(body as object));
+  const withToken = (t: request.Test, body?: unknown) =>
+    body === undefined ? t.set('X-CSRF-Token', csrf) : t.set('X-CSRF-Token', csrf).send(body as object);
   return {
-    agent, login, csrf,
+    agent,
+    login,
+    csrf,
     get: (p) => agent.get(p),
     post: (p, b) => withToken(agent.post(p), b),
     put: (p, b) => withToken(agent.put(p), b),

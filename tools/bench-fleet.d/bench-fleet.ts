@@ -22,7 +22,9 @@ import { runDevice, type DeviceState, type FleetRun } from './fleet-device';
  */
 const args = process.argv.slice(2).filter((a) => !a.startsWith('--'));
 const KILL = process.argv.includes('--kill');
-const DEVICES = Number(args[0] ?? 200), OPS = Number(args[1] ?? 150), BATCH = Number(args[2] ?? 25);
+const DEVICES = Number(args[0] ?? 200),
+  OPS = Number(args[1] ?? 150),
+  BATCH = Number(args[2] ?? 25);
 const SHARED = 20;
 const TIME_LIMIT_MS = 20 * 60_000;
 
@@ -34,60 +36,109 @@ async function main() {
   const db = new Client({ connectionString: url });
   await db.connect();
   try {
-    const collarIds = (await db.query(`SELECT id FROM collar WHERE site_id = $1 AND NOT deleted ORDER BY code`, [DEMO_SITE_ID])).rows.map((r) => r.id as string);
+    const collarIds = (await db.query(`SELECT id FROM collar WHERE site_id = $1 AND NOT deleted ORDER BY code`, [DEMO_SITE_ID])).rows.map(
+      (r) => r.id as string,
+    );
     const setup = await deviceSession(addr, 'lead@fluxwalk.example');
     const shared = Array.from({ length: SHARED }, () => randomUUID());
-    const setupOps = shared.map((id, i) => ({ opId: randomUUID(), entity: 'collarEvent', id, baseRev: null, op: 'upsert',
-      fields: { siteId: DEMO_SITE_ID, collarId: collarIds[i % collarIds.length], kind: 'clipped', date: '2026-06-01', note: `shared ${i}` } }));
+    const setupOps = shared.map((id, i) => ({
+      opId: randomUUID(),
+      entity: 'collarEvent',
+      id,
+      baseRev: null,
+      op: 'upsert',
+      fields: { siteId: DEMO_SITE_ID, collarId: collarIds[i % collarIds.length], kind: 'clipped', date: '2026-06-01', note: `shared ${i}` },
+    }));
     const made = await setup('POST', '/api/sync/push', { deviceId: randomUUID(), outboxSize: SHARED, ops: setupOps });
-    if (made.status !== 200 || made.json.results.some((r: { status: string }) => r.status !== 'applied')) throw new Error('setup push failed');
+    if (made.status !== 200 || made.json.results.some((r: { status: string }) => r.status !== 'applied'))
+      throw new Error('setup push failed');
     const siteIds: string[] = (await setup('GET', '/api/auth/me')).json.user.siteIds;
 
-    let pushed = 0, killedAt: number | null = null;
+    let pushed = 0,
+      killedAt: number | null = null;
     const pushedDevices = new Set<number>();
     const totalPushes = DEVICES * Math.ceil(OPS / BATCH);
     let release!: () => void;
     const run: FleetRun = {
-      siteId: DEMO_SITE_ID, collarIds, shared, ops: OPS, batch: BATCH, fates: new Map(), cursors: new Map(), pushMs: [], pullMs: [], errors: [],
-      allPushed: new Promise<void>((r) => { release = r; }),
-      devicePushed: (n) => { if (!pushedDevices.has(n)) { pushedDevices.add(n); if (pushedDevices.size === DEVICES) release(); } },
+      siteId: DEMO_SITE_ID,
+      collarIds,
+      shared,
+      ops: OPS,
+      batch: BATCH,
+      fates: new Map(),
+      cursors: new Map(),
+      pushMs: [],
+      pullMs: [],
+      errors: [],
+      allPushed: new Promise<void>((r) => {
+        release = r;
+      }),
+      devicePushed: (n) => {
+        if (!pushedDevices.has(n)) {
+          pushedDevices.add(n);
+          if (pushedDevices.size === DEVICES) release();
+        }
+      },
       onPush: () => {
         pushed++;
-        if (KILL && killedAt === null && pushed >= totalPushes / 2) { killedAt = pushed; servers[0].child.kill('SIGKILL'); }
+        if (KILL && killedAt === null && pushed >= totalPushes / 2) {
+          killedAt = pushed;
+          servers[0].child.kill('SIGKILL');
+        }
       },
     };
     for (const o of setupOps) run.fates.set(o.opId, { entity: o.entity, id: o.id, kind: 'create', status: 'applied' });
 
     // Sign-ins 4 at a time: a sign-in in flight counts against the per-e-mail limit (8) until it succeeds.
     const calls: Call[] = [];
-    for (let i = 0; i < DEVICES; i += 4) calls.push(...(await Promise.all(Array.from({ length: Math.min(4, DEVICES - i) }, () => deviceSession(addr, 'lead@fluxwalk.example')))));
-    const timer = setTimeout(() => { console.error(`bench-fleet: over ${TIME_LIMIT_MS / 60000} min, stopping`); process.exit(2); }, TIME_LIMIT_MS);
+    for (let i = 0; i < DEVICES; i += 4)
+      calls.push(
+        ...(await Promise.all(Array.from({ length: Math.min(4, DEVICES - i) }, () => deviceSession(addr, 'lead@fluxwalk.example')))),
+      );
+    const timer = setTimeout(() => {
+      console.error(`bench-fleet: over ${TIME_LIMIT_MS / 60000} min, stopping`);
+      process.exit(2);
+    }, TIME_LIMIT_MS);
     const t0 = performance.now();
-    const states = await Promise.all(calls.map(async (call, n) => {
-      let rng = n * 2654435761 % 2 ** 32 || 1; // a fixed sequence per device: two runs plan the same ops
-      const rand = () => ((rng = (rng * 1664525 + 1013904223) % 2 ** 32) / 2 ** 32);
-      try {
-        return await runDevice(call, run, n, rand);
-      } catch (err) {
-        run.errors.push(`device ${n}: ${err instanceof Error ? err.message : String(err)}`);
-        return null;
-      } finally {
-        run.devicePushed(n);
-      }
-    }));
+    const states = await Promise.all(
+      calls.map(async (call, n) => {
+        let rng = (n * 2654435761) % 2 ** 32 || 1; // a fixed sequence per device: two runs plan the same ops
+        const rand = () => (rng = (rng * 1664525 + 1013904223) % 2 ** 32) / 2 ** 32;
+        try {
+          return await runDevice(call, run, n, rand);
+        } catch (err) {
+          run.errors.push(`device ${n}: ${err instanceof Error ? err.message : String(err)}`);
+          return null;
+        } finally {
+          run.devicePushed(n);
+        }
+      }),
+    );
     clearTimeout(timer);
     const wallMs = performance.now() - t0;
 
-    const ms = (xs: number[]) => `p50 ${percentile(xs, 50).toFixed(0)} ms, p95 ${percentile(xs, 95).toFixed(0)} ms, p99 ${percentile(xs, 99).toFixed(0)} ms (n=${xs.length})`;
-    console.log(`load average at the end: ${os.loadavg().map((x) => x.toFixed(1)).join(' ')} (${os.cpus().length} cores)`);
-    console.log(`${DEVICES} devices × ${OPS} ops in batches of ${BATCH} on 2 server processes${KILL ? `, one SIGKILLed after push ${killedAt} of ${totalPushes}` : ''}: ${(wallMs / 1000).toFixed(1)} s`);
+    const ms = (xs: number[]) =>
+      `p50 ${percentile(xs, 50).toFixed(0)} ms, p95 ${percentile(xs, 95).toFixed(0)} ms, p99 ${percentile(xs, 99).toFixed(0)} ms (n=${xs.length})`;
+    console.log(
+      `load average at the end: ${os
+        .loadavg()
+        .map((x) => x.toFixed(1))
+        .join(' ')} (${os.cpus().length} cores)`,
+    );
+    console.log(
+      `${DEVICES} devices × ${OPS} ops in batches of ${BATCH} on 2 server processes${KILL ? `, one SIGKILLed after push ${killedAt} of ${totalPushes}` : ''}: ${(wallMs / 1000).toFixed(1)} s`,
+    );
     console.log(`push: ${ms(run.pushMs)}`);
     console.log(`pull: ${ms(run.pullMs)}`);
-    console.log(`requests sent again after a lost connection or 5xx: ${addr.retries} ${JSON.stringify(Object.fromEntries(addr.reasons))}; errors: ${run.errors.length}`);
+    console.log(
+      `requests sent again after a lost connection or 5xx: ${addr.retries} ${JSON.stringify(Object.fromEntries(addr.reasons))}; errors: ${run.errors.length}`,
+    );
     for (const e of run.errors.slice(0, 10)) console.log(`  ${e}`);
     const failed = await prove(db, run, states, siteIds);
     const p95 = percentile(run.pushMs, 95);
-    console.log(`target p95 push ≤ 1 s: ${p95 <= 1000 ? 'met' : 'NOT met'}; zero errors: ${run.errors.length ? 'NOT met' : 'met'}; proofs: ${failed ? 'FAILED' : 'hold'}`);
+    console.log(
+      `target p95 push ≤ 1 s: ${p95 <= 1000 ? 'met' : 'NOT met'}; zero errors: ${run.errors.length ? 'NOT met' : 'met'}; proofs: ${failed ? 'FAILED' : 'hold'}`,
+    );
     if (failed || run.errors.length) process.exitCode = 1;
   } finally {
     await db.end();
@@ -98,10 +149,19 @@ async function main() {
 /** The database against what the fleet sent and saw; returns the number of failed proofs. */
 async function prove(db: Client, run: FleetRun, states: (DeviceState | null)[], siteIds: string[]): Promise<number> {
   let failed = 0;
-  const check = (ok: boolean, what: string) => { console.log(`${ok ? 'ok  ' : 'FAIL'} ${what}`); if (!ok) failed++; };
-  const ledger = (await db.query(`SELECT count(*)::int AS n, count(*) FILTER (WHERE status = 'pending')::int AS pending FROM sync_op`)).rows[0];
-  check(ledger.n === run.fates.size && ledger.pending === 0, `op ledger: ${ledger.n} entries for ${run.fates.size} distinct ops sent, ${ledger.pending} pending`);
-  const dup = (await db.query(`SELECT count(*)::int AS n FROM (SELECT 1 FROM change_log GROUP BY entity, record_id, rev HAVING count(*) > 1) d`)).rows[0].n;
+  const check = (ok: boolean, what: string) => {
+    console.log(`${ok ? 'ok  ' : 'FAIL'} ${what}`);
+    if (!ok) failed++;
+  };
+  const ledger = (await db.query(`SELECT count(*)::int AS n, count(*) FILTER (WHERE status = 'pending')::int AS pending FROM sync_op`))
+    .rows[0];
+  check(
+    ledger.n === run.fates.size && ledger.pending === 0,
+    `op ledger: ${ledger.n} entries for ${run.fates.size} distinct ops sent, ${ledger.pending} pending`,
+  );
+  const dup = (
+    await db.query(`SELECT count(*)::int AS n FROM (SELECT 1 FROM change_log GROUP BY entity, record_id, rev HAVING count(*) > 1) d`)
+  ).rows[0].n;
   check(dup === 0, `change log: ${dup} (record, rev) pairs logged twice`);
   // Each bench record's rev is 1 + the edits answered applied or merged; its log has one entry per rev.
   const want = new Map<string, number>();
@@ -111,28 +171,46 @@ async function prove(db: Client, run: FleetRun, states: (DeviceState | null)[], 
   for (const f of run.fates.values()) {
     if (f.kind === 'edit' && (f.status === 'applied' || f.status === 'merged')) want.set(f.id, (want.get(f.id) ?? 0) + 1);
   }
-  const rows = (await db.query(
-    `SELECT e.id, e.rev, (SELECT count(*)::int FROM change_log l WHERE l.entity = 'collarEvent' AND l.record_id = e.id) AS logged
-       FROM collar_event e WHERE e.id = ANY($1::uuid[])`, [[...want.keys()]])).rows as { id: string; rev: number; logged: number }[];
+  const rows = (
+    await db.query(
+      `SELECT e.id, e.rev, (SELECT count(*)::int FROM change_log l WHERE l.entity = 'collarEvent' AND l.record_id = e.id) AS logged
+       FROM collar_event e WHERE e.id = ANY($1::uuid[])`,
+      [[...want.keys()]],
+    )
+  ).rows as { id: string; rev: number; logged: number }[];
   const wrongRev = rows.filter((r) => Number(r.rev) !== want.get(r.id) || r.logged !== Number(r.rev));
-  check(rows.length === want.size && !wrongRev.length,
-    `ops: ${rows.length} of ${want.size} created records stored, ${wrongRev.length} whose rev or log differs from the applied creates + edits`);
-  for (const r of wrongRev.slice(0, 3)) console.log(`     ${r.id}${run.shared.includes(r.id) ? ' (shared)' : ''}: rev ${r.rev}, ${r.logged} log entries, ${want.get(r.id)} applied ops`);
+  check(
+    rows.length === want.size && !wrongRev.length,
+    `ops: ${rows.length} of ${want.size} created records stored, ${wrongRev.length} whose rev or log differs from the applied creates + edits`,
+  );
+  for (const r of wrongRev.slice(0, 3))
+    console.log(
+      `     ${r.id}${run.shared.includes(r.id) ? ' (shared)' : ''}: rev ${r.rev}, ${r.logged} log entries, ${want.get(r.id)} applied ops`,
+    );
   const dbState: DeviceState = new Map();
   for (const e of SYNC_ENTITIES) {
     const d = ENTITY_DEFS[e];
     const where = e === 'site' ? 'id = ANY($1::uuid[])' : 'site_id = ANY($1::uuid[])';
-    for (const r of (await db.query(`SELECT id, rev, deleted FROM ${d.table} WHERE ${where}`, [siteIds])).rows) dbState.set(`${e}:${r.id}`, `${r.rev}:${r.deleted}`);
+    for (const r of (await db.query(`SELECT id, rev, deleted FROM ${d.table} WHERE ${where}`, [siteIds])).rows)
+      dbState.set(`${e}:${r.id}`, `${r.rev}:${r.deleted}`);
   }
   const differing = states.filter((s) => !s || s.size !== dbState.size || [...dbState].some(([k, v]) => s.get(k) !== v));
-  check(!differing.length, `final pulls: ${states.length - differing.length} of ${states.length} devices hold exactly the database's ${dbState.size} records and revs`);
+  check(
+    !differing.length,
+    `final pulls: ${states.length - differing.length} of ${states.length} devices hold exactly the database's ${dbState.size} records and revs`,
+  );
   for (const st of differing.slice(0, 2)) {
     console.log(`     device ${states.indexOf(st)}: cursor after its first pull ${run.cursors.get(states.indexOf(st))}`);
-    if (!st) { console.log('     a device that failed holds nothing'); continue; }
+    if (!st) {
+      console.log('     a device that failed holds nothing');
+      continue;
+    }
     const keys = [...new Set([...dbState.keys(), ...st.keys()])].filter((k) => st.get(k) !== dbState.get(k));
     for (const k of keys.slice(0, 3)) {
       const [e, id] = k.split(':');
-      const seqs = (await db.query(`SELECT seq, rev FROM change_log WHERE entity = $1 AND record_id = $2 ORDER BY seq`, [e, id])).rows.map((r) => `${r.seq}/r${r.rev}`);
+      const seqs = (await db.query(`SELECT seq, rev FROM change_log WHERE entity = $1 AND record_id = $2 ORDER BY seq`, [e, id])).rows.map(
+        (r) => `${r.seq}/r${r.rev}`,
+      );
       console.log(`     ${k}: device ${st.get(k) ?? 'missing'}, database ${dbState.get(k) ?? 'missing'}; log ${seqs.join(' ')}`);
     }
   }
@@ -144,21 +222,39 @@ const MAIN = path.resolve(__dirname, '../../../server/server/main.js');
 /** Starts the compiled server on a free loopback port; resolves with its base URL. */
 function startServerProcess(databaseUrl: string): Promise<{ base: string; child: ChildProcess }> {
   const child = spawn(process.execPath, [MAIN], {
-    env: { ...process.env, DATABASE_URL: databaseUrl, PORT: '0', HOST: '127.0.0.1', STATIC_DIR: '/nonexistent', SESSION_SECRET: 'bench-fleet' },
+    env: {
+      ...process.env,
+      DATABASE_URL: databaseUrl,
+      PORT: '0',
+      HOST: '127.0.0.1',
+      STATIC_DIR: '/nonexistent',
+      SESSION_SECRET: 'bench-fleet',
+    },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
   return new Promise((resolve, reject) => {
     let out = '';
     const timer = setTimeout(() => reject(new Error(`server did not start: ${out}`)), 60000);
-    const keep = (b: Buffer) => { out = (out + b.toString()).slice(-4000); };
+    const keep = (b: Buffer) => {
+      out = (out + b.toString()).slice(-4000);
+    };
     child.stdout!.on('data', (b: Buffer) => {
       keep(b);
       const m = /listening on (http:\/\/[\d.]+:\d+)/.exec(out);
-      if (m) { clearTimeout(timer); resolve({ base: m[1], child }); }
+      if (m) {
+        clearTimeout(timer);
+        resolve({ base: m[1], child });
+      }
     });
     child.stderr!.on('data', keep);
-    child.on('exit', (code) => { clearTimeout(timer); reject(new Error(`server exited (${code}): ${out}`)); });
+    child.on('exit', (code) => {
+      clearTimeout(timer);
+      reject(new Error(`server exited (${code}): ${out}`));
+    });
   });
 }
 
-main().catch((err) => { console.error(err); process.exit(1); });
+main().catch((err) => {
+  console.error(err);
+  process.exit(1);
+});

@@ -2,7 +2,12 @@ import { randomUUID } from 'node:crypto';
 import { sleep, type Call } from './fleet-client';
 
 /** What the fleet sent for one opId and the status it finally had (a replay's originalStatus counts). */
-export interface OpFate { entity: string; id: string; kind: 'create' | 'edit'; status: string }
+export interface OpFate {
+  entity: string;
+  id: string;
+  kind: 'create' | 'edit';
+  status: string;
+}
 
 export interface FleetRun {
   siteId: string;
@@ -57,14 +62,14 @@ export async function runDevice(call: Call, run: FleetRun, n: number, rand: () =
   const own: { id: string; rev: number }[] = [];
   const sent: Op[] = [];
   let made = 0;
-  for (let done = 0; done < run.ops; ) {
+  for (let done = 0; done < run.ops;) {
     const ops: Op[] = [];
     const touched = new Set<string>();
     const size = Math.min(run.batch, run.ops - done);
     while (ops.length < size) {
       const r = rand();
       const k = done + ops.length;
-      if (r < 0.10 && run.shared.length) {
+      if (r < 0.1 && run.shared.length) {
         const id = run.shared[Math.floor(rand() * run.shared.length)];
         if (touched.has(id)) continue;
         touched.add(id);
@@ -80,15 +85,28 @@ export async function runDevice(call: Call, run: FleetRun, n: number, rand: () =
         touched.add(rec.id);
         ops.push(edit(rec.id, rec.rev, { note: `device ${n} op ${k} edit` }));
       } else {
-        ops.push({ opId: randomUUID(), entity: 'collarEvent', id: randomUUID(), baseRev: null, op: 'upsert',
-          fields: { siteId: run.siteId, collarId: run.collarIds[(n * 7 + made++) % run.collarIds.length], kind: 'clipped', date: '2026-06-01', note: `device ${n} op ${k}` } });
+        ops.push({
+          opId: randomUUID(),
+          entity: 'collarEvent',
+          id: randomUUID(),
+          baseRev: null,
+          op: 'upsert',
+          fields: {
+            siteId: run.siteId,
+            collarId: run.collarIds[(n * 7 + made++) % run.collarIds.length],
+            kind: 'clipped',
+            date: '2026-06-01',
+            note: `device ${n} op ${k}`,
+          },
+        });
       }
     }
     const results = await pushWithRetry(call, run, deviceId, run.ops - done, ops);
     ops.forEach((op, i) => {
       const res = results[i];
       const status = res.status === 'duplicate' && res.originalStatus ? res.originalStatus : res.status;
-      if (!run.fates.has(op.opId)) run.fates.set(op.opId, { entity: op.entity, id: op.id, kind: op.baseRev === null ? 'create' : 'edit', status });
+      if (!run.fates.has(op.opId))
+        run.fates.set(op.opId, { entity: op.entity, id: op.id, kind: op.baseRev === null ? 'create' : 'edit', status });
       if (res.status === 'rejected') run.errors.push(`device ${n}: ${op.opId} rejected: ${res.error?.message}`);
       if (res.status === 'duplicate' && sent.includes(op)) return;
       if (op.baseRev === null && status === 'applied') own.push({ id: op.id, rev: res.rev ?? 1 });
@@ -106,8 +124,14 @@ export async function runDevice(call: Call, run: FleetRun, n: number, rand: () =
   return state;
 }
 
-const edit = (id: string, baseRev: number, fields: Record<string, unknown>): Op =>
-  ({ opId: randomUUID(), entity: 'collarEvent', id, baseRev, op: 'upsert', fields });
+const edit = (id: string, baseRev: number, fields: Record<string, unknown>): Op => ({
+  opId: randomUUID(),
+  entity: 'collarEvent',
+  id,
+  baseRev,
+  op: 'upsert',
+  fields,
+});
 
 type Result = { opId: string; status: string; originalStatus?: string; rev?: number; error?: { message: string } };
 

@@ -25,7 +25,16 @@ export function benchRun(k: number, rand: () => number): WireRun {
   const slope = kind === 2 ? -(0.2 + rand()) : kind === 3 ? 0.02 * gaussian(rand) : 0.3 + 3 * rand();
   const u = kind === 0 || kind === 3 ? 0 : -(0.5 + 6 * rand());
   const noise = kind === 3 ? 1 : 0.3;
-  const c = syntheticClosure({ points: POINTS, dtS: 1, settleS: SETTLE_S, c0: 425 + 30 * rand(), slope, p3: u / (POINTS - 1 - SETTLE_S), noise, rand });
+  const c = syntheticClosure({
+    points: POINTS,
+    dtS: 1,
+    settleS: SETTLE_S,
+    c0: 425 + 30 * rand(),
+    slope,
+    p3: u / (POINTS - 1 - SETTLE_S),
+    noise,
+    rand,
+  });
   const h0 = 8 + 6 * rand();
   const h2o = c.tS.map((t) => Math.round((h0 + 0.004 * t) * 1000) / 1000);
   return {

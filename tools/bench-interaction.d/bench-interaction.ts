@@ -24,20 +24,32 @@ async function addCollarsToRoutes(url: string, n: number): Promise<void> {
   const db = new Client({ connectionString: url });
   await db.connect();
   try {
-    const [{ site_id, plot_id }] = (await db.query(
-      `SELECT p.site_id, p.id AS plot_id FROM plot p JOIN site s ON s.id = p.site_id ORDER BY s.name, p.code LIMIT 1`)).rows;
+    const [{ site_id, plot_id }] = (
+      await db.query(`SELECT p.site_id, p.id AS plot_id FROM plot p JOIN site s ON s.id = p.site_id ORDER BY s.name, p.code LIMIT 1`)
+    ).rows;
     await db.query('BEGIN');
     await db.query(`SELECT pg_advisory_xact_lock(72011)`); // the ChangeBuffer's lock: seq order stays commit order
     const made = await db.query(
       `INSERT INTO collar (id, site_id, code, plot_id, shape, diameter_cm, area_cm2, notes)
        SELECT gen_random_uuid(), $1, 'L-' || lpad(g::text, 5, '0'), $2, 'round', 20, 314.159, ''
-         FROM generate_series(1, $3::int) g RETURNING id`, [site_id, plot_id, n]);
+         FROM generate_series(1, $3::int) g RETURNING id`,
+      [site_id, plot_id, n],
+    );
     const ids = made.rows.map((r: { id: string }) => r.id);
-    await db.query(`INSERT INTO change_log (seq, entity, record_id, rev, site_id, fields, deleted)
-       SELECT nextval('change_seq'), 'collar', id, 1, $1, ARRAY['code'], false FROM unnest($2::uuid[]) id`, [site_id, ids]);
-    const routes = await db.query(`UPDATE route SET collar_ids = collar_ids || $2::uuid[], rev = rev + 1 WHERE site_id = $1 RETURNING id, rev`, [site_id, ids]);
+    await db.query(
+      `INSERT INTO change_log (seq, entity, record_id, rev, site_id, fields, deleted)
+       SELECT nextval('change_seq'), 'collar', id, 1, $1, ARRAY['code'], false FROM unnest($2::uuid[]) id`,
+      [site_id, ids],
+    );
+    const routes = await db.query(
+      `UPDATE route SET collar_ids = collar_ids || $2::uuid[], rev = rev + 1 WHERE site_id = $1 RETURNING id, rev`,
+      [site_id, ids],
+    );
     for (const r of routes.rows) {
-      await db.query(`INSERT INTO change_log (seq, entity, record_id, rev, site_id, fields, deleted) VALUES (nextval('change_seq'), 'route', $1, $2, $3, ARRAY['collarIds'], false)`, [r.id, r.rev, site_id]);
+      await db.query(
+        `INSERT INTO change_log (seq, entity, record_id, rev, site_id, fields, deleted) VALUES (nextval('change_seq'), 'route', $1, $2, $3, ARRAY['collarIds'], false)`,
+        [r.id, r.rev, site_id],
+      );
     }
     await db.query('COMMIT');
   } finally {
@@ -49,17 +61,25 @@ type Entry = { name: string; duration: number; target: string; interactionId: nu
 type Step = { screen: string; what: string; act: () => Promise<void>; measured?: false };
 
 async function measure(page: Page, act: () => Promise<void>): Promise<Entry[] | string> {
-  await page.evaluate(() => { (window as unknown as { fwEvents: Entry[] }).fwEvents = []; });
+  await page.evaluate(() => {
+    (window as unknown as { fwEvents: Entry[] }).fwEvents = [];
+  });
   try {
     await act();
   } catch (err) {
-    return `not reached (${String((err as Error).message).split('\n')[0].slice(0, 90)})`;
+    return `not reached (${String((err as Error).message)
+      .split('\n')[0]
+      .slice(0, 90)})`;
   }
   await page.waitForTimeout(300); // the observer reports after the next paint
   return page.evaluate(() => (window as unknown as { fwEvents: Entry[] }).fwEvents);
 }
 
-const load = () => os.loadavg().map((x) => x.toFixed(1)).join(' ');
+const load = () =>
+  os
+    .loadavg()
+    .map((x) => x.toFixed(1))
+    .join(' ');
 
 /**
  * The crew's moves, each pass on its own collar (the first one still due, so every pass finds an
@@ -74,49 +94,83 @@ function crewSteps(page: Page, baseUrl: string): Step[] {
   const chamber = (word: 'on' | 'off') => bar.locator('button', { hasText: `Chamber ${word}` });
   const link = (text: string) => page.locator('a', { hasText: text });
   return [
-    { screen: 'route', what: 'open the Walk', measured: false, act: async () => {
-      await page.goto(`${baseUrl}/walk`);
-      await page.getByTestId('route-list').waitFor({ timeout: STEP_MS });
-    } },
-    { screen: 'route', what: 'open a collar from the route', act: async () => {
-      await page.locator('li[data-state="due"] [data-testid^="route-collar-"]').first().click({ timeout: STEP_MS });
-      await page.getByTestId('visit-code').waitFor({ timeout: STEP_MS });
-    } },
-    { screen: 'visit', what: "choose the day's analyzer and chamber", measured: false, act: async () => {
-      await page.getByTestId('visit-bar').waitFor({ timeout: STEP_MS });
-      await page.waitForTimeout(500);
-      if (await page.getByTestId('day-kit-gate').isVisible()) {
-        await page.getByTestId('day-kit-gate').getByRole('button').first().click();
+    {
+      screen: 'route',
+      what: 'open the Walk',
+      measured: false,
+      act: async () => {
+        await page.goto(`${baseUrl}/walk`);
+        await page.getByTestId('route-list').waitFor({ timeout: STEP_MS });
+      },
+    },
+    {
+      screen: 'route',
+      what: 'open a collar from the route',
+      act: async () => {
+        await page.locator('li[data-state="due"] [data-testid^="route-collar-"]').first().click({ timeout: STEP_MS });
+        await page.getByTestId('visit-code').waitFor({ timeout: STEP_MS });
+      },
+    },
+    {
+      screen: 'visit',
+      what: "choose the day's analyzer and chamber",
+      measured: false,
+      act: async () => {
+        await page.getByTestId('visit-bar').waitFor({ timeout: STEP_MS });
         await page.waitForTimeout(500);
-      }
-      if (await page.getByTestId('day-kit-gate').isVisible()) await page.getByTestId('day-kit-gate').getByRole('button').first().click();
-      await chamber('on').waitFor({ timeout: STEP_MS });
-    } },
-    { screen: 'visit', what: 'key in an offset set (Enter to the next box; saves itself)', act: async () => {
-      await page.getByTestId('offset-1').focus({ timeout: STEP_MS });
-      for (const v of ['1.6', '1.7', '1.5', '1.6']) {
-        await page.keyboard.type(v, { delay: 60 });
-        await page.keyboard.press('Enter');
-      }
-      await page.getByTestId('offset-saved').waitFor({ timeout: STEP_MS });
-    } },
-    { screen: 'visit', what: 'chamber tap (on, then off)', act: async () => {
-      await chamber('on').click({ timeout: STEP_MS });
-      await chamber('off').click({ timeout: STEP_MS });
-      await chamber('on').waitFor({ timeout: STEP_MS });
-    } },
-    { screen: 'route', what: 'back to the route', act: async () => {
-      await link('Back to the route').click({ timeout: STEP_MS });
-      await page.getByTestId('route-list').waitFor({ timeout: STEP_MS });
-    } },
-    { screen: 'map', what: 'switch to the map', act: async () => {
-      await page.locator('nav a', { hasText: /^\s*Map\s*$/ }).click({ timeout: STEP_MS });
-      await page.locator('.fw-marker').first().waitFor({ timeout: STEP_MS });
-    } },
-    { screen: 'map', what: 'from the map back to the route', act: async () => {
-      await link('← Route').click({ timeout: STEP_MS });
-      await page.getByTestId('route-list').waitFor({ timeout: STEP_MS });
-    } },
+        if (await page.getByTestId('day-kit-gate').isVisible()) {
+          await page.getByTestId('day-kit-gate').getByRole('button').first().click();
+          await page.waitForTimeout(500);
+        }
+        if (await page.getByTestId('day-kit-gate').isVisible()) await page.getByTestId('day-kit-gate').getByRole('button').first().click();
+        await chamber('on').waitFor({ timeout: STEP_MS });
+      },
+    },
+    {
+      screen: 'visit',
+      what: 'key in an offset set (Enter to the next box; saves itself)',
+      act: async () => {
+        await page.getByTestId('offset-1').focus({ timeout: STEP_MS });
+        for (const v of ['1.6', '1.7', '1.5', '1.6']) {
+          await page.keyboard.type(v, { delay: 60 });
+          await page.keyboard.press('Enter');
+        }
+        await page.getByTestId('offset-saved').waitFor({ timeout: STEP_MS });
+      },
+    },
+    {
+      screen: 'visit',
+      what: 'chamber tap (on, then off)',
+      act: async () => {
+        await chamber('on').click({ timeout: STEP_MS });
+        await chamber('off').click({ timeout: STEP_MS });
+        await chamber('on').waitFor({ timeout: STEP_MS });
+      },
+    },
+    {
+      screen: 'route',
+      what: 'back to the route',
+      act: async () => {
+        await link('Back to the route').click({ timeout: STEP_MS });
+        await page.getByTestId('route-list').waitFor({ timeout: STEP_MS });
+      },
+    },
+    {
+      screen: 'map',
+      what: 'switch to the map',
+      act: async () => {
+        await page.locator('nav a', { hasText: /^\s*Map\s*$/ }).click({ timeout: STEP_MS });
+        await page.locator('.fw-marker').first().waitFor({ timeout: STEP_MS });
+      },
+    },
+    {
+      screen: 'map',
+      what: 'from the map back to the route',
+      act: async () => {
+        await link('← Route').click({ timeout: STEP_MS });
+        await page.getByTestId('route-list').waitFor({ timeout: STEP_MS });
+      },
+    },
   ];
 }
 
@@ -136,14 +190,20 @@ async function main(): Promise<void> {
       new PerformanceObserver((list) => {
         for (const e of list.getEntries() as PerformanceEventTiming[]) {
           const t = e.target as Element | null;
-          w.fwEvents.push({ name: e.name, duration: e.duration, interactionId: (e as PerformanceEventTiming & { interactionId?: number }).interactionId ?? 0,
-            target: t ? `${t.tagName.toLowerCase()} ${(t.textContent ?? '').trim().slice(0, 30)}` : '' });
+          w.fwEvents.push({
+            name: e.name,
+            duration: e.duration,
+            interactionId: (e as PerformanceEventTiming & { interactionId?: number }).interactionId ?? 0,
+            target: t ? `${t.tagName.toLowerCase()} ${(t.textContent ?? '').trim().slice(0, 30)}` : '',
+          });
         }
       }).observe({ type: 'event', durationThreshold: 16, buffered: false } as PerformanceObserverInit);
     });
     await signInAs(page, server.baseUrl, 'crew');
     await page.locator('[data-testid="sync-indicator"][data-synced-at]').waitFor({ timeout: 300_000 });
-    console.log(`database: demo scenario + ${EXTRA} collars on every route of the first site; load average ${load()} (${os.cpus().length} cores)`);
+    console.log(
+      `database: demo scenario + ${EXTRA} collars on every route of the first site; load average ${load()} (${os.cpus().length} cores)`,
+    );
     const cdp = await context.newCDPSession(page);
     const trace = StepTrace.fromEnv(cdp);
     const steps = crewSteps(page, server.baseUrl);
@@ -174,16 +234,20 @@ async function main(): Promise<void> {
         const ms = top?.duration ?? 0;
         const screen = (worst[`x${rate}`] ??= {});
         if (ms >= (screen[step.screen]?.ms ?? 0)) screen[step.screen] = { ms, what: step.what };
-        console.log(`  ${step.screen.padEnd(6)} ${step.what}: worst interaction ${ms.toFixed(0)} ms${top ? ` (${top.name} on ${top.target})` : ' (none over 16 ms)'}`
-          + (other ? `; other events up to ${other.duration.toFixed(0)} ms (${other.name})` : ''));
+        console.log(
+          `  ${step.screen.padEnd(6)} ${step.what}: worst interaction ${ms.toFixed(0)} ms${top ? ` (${top.name} on ${top.target})` : ' (none over 16 ms)'}` +
+            (other ? `; other events up to ${other.duration.toFixed(0)} ms (${other.name})` : ''),
+        );
         for (const line of summary) console.log(line);
       }
     }
     await cdp.send('Emulation.setCPUThrottlingRate', { rate: 1 });
     for (const [screen, w] of Object.entries(worst['x4'] ?? {})) {
       const ref = worst['x1']?.[screen];
-      console.log(`worst at 4x, ${screen}: ${w.ms.toFixed(0)} ms (${w.what}); full speed in the same run ${(ref?.ms ?? 0).toFixed(0)} ms`
-        + ` -> ${w.ms <= 100 ? 'met' : 'NOT met'} (target <= 100 ms)`);
+      console.log(
+        `worst at 4x, ${screen}: ${w.ms.toFixed(0)} ms (${w.what}); full speed in the same run ${(ref?.ms ?? 0).toFixed(0)} ms` +
+          ` -> ${w.ms <= 100 ? 'met' : 'NOT met'} (target <= 100 ms)`,
+      );
     }
     console.log(`load average at the end: ${load()}`);
   } finally {

@@ -9,26 +9,64 @@ import type { CDPSession } from 'playwright-core';
  * self time (names as the production build spells them; its source maps are not shipped).
  */
 const CATEGORIES = [
-  'devtools.timeline', 'disabled-by-default-devtools.timeline', 'v8', 'v8.execute', 'blink.user_timing', 'loading',
+  'devtools.timeline',
+  'disabled-by-default-devtools.timeline',
+  'v8',
+  'v8.execute',
+  'blink.user_timing',
+  'loading',
   'disabled-by-default-devtools.timeline.frame',
 ].join(',');
 
-interface TraceEvent { name: string; ph: string; ts: number; dur?: number; pid: number; tid: number; args?: { name?: string } }
-interface ProfileNode { id: number; callFrame: { functionName: string; url: string; lineNumber: number; columnNumber: number } }
-interface CpuProfile { nodes: ProfileNode[]; samples: number[]; timeDeltas: number[] }
+interface TraceEvent {
+  name: string;
+  ph: string;
+  ts: number;
+  dur?: number;
+  pid: number;
+  tid: number;
+  args?: { name?: string };
+}
+interface ProfileNode {
+  id: number;
+  callFrame: { functionName: string; url: string; lineNumber: number; columnNumber: number };
+}
+interface CpuProfile {
+  nodes: ProfileNode[];
+  samples: number[];
+  timeDeltas: number[];
+}
 
 /** Main-thread kinds of work, by the trace event names Chromium uses for them. */
 const KINDS: Record<string, string> = {
-  FunctionCall: 'script', EvaluateScript: 'script', 'v8.callFunction': 'script', TimerFire: 'script', FireAnimationFrame: 'script',
-  EventDispatch: 'script', RunMicrotasks: 'script', 'V8.GCScavenger': 'gc', MinorGC: 'gc', MajorGC: 'gc', 'V8.GCFinalizeMC': 'gc',
-  UpdateLayoutTree: 'style', RecalculateStyles: 'style', Layout: 'layout', PrePaint: 'paint', Paint: 'paint', Layerize: 'paint',
-  'Document::updateStyleAndLayout': 'layout', HitTest: 'layout',
+  FunctionCall: 'script',
+  EvaluateScript: 'script',
+  'v8.callFunction': 'script',
+  TimerFire: 'script',
+  FireAnimationFrame: 'script',
+  EventDispatch: 'script',
+  RunMicrotasks: 'script',
+  'V8.GCScavenger': 'gc',
+  MinorGC: 'gc',
+  MajorGC: 'gc',
+  'V8.GCFinalizeMC': 'gc',
+  UpdateLayoutTree: 'style',
+  RecalculateStyles: 'style',
+  Layout: 'layout',
+  PrePaint: 'paint',
+  Paint: 'paint',
+  Layerize: 'paint',
+  'Document::updateStyleAndLayout': 'layout',
+  HitTest: 'layout',
 };
 
 export class StepTrace {
   private chunks: TraceEvent[] = [];
 
-  private constructor(private readonly cdp: CDPSession, private readonly dir: string) {}
+  private constructor(
+    private readonly cdp: CDPSession,
+    private readonly dir: string,
+  ) {}
 
   static fromEnv(cdp: CDPSession): StepTrace | null {
     const dir = process.env['BENCH_TRACE'];
@@ -47,7 +85,9 @@ export class StepTrace {
 
   /** Stops both recordings, writes them as `<name>.json` / `<name>.cpuprofile` and returns the summary lines. */
   async stop(name: string): Promise<string[]> {
-    const collect = (e: { value: object[] }) => { this.chunks.push(...(e.value as unknown as TraceEvent[])); };
+    const collect = (e: { value: object[] }) => {
+      this.chunks.push(...(e.value as unknown as TraceEvent[]));
+    };
     this.cdp.on('Tracing.dataCollected', collect);
     const done = new Promise<void>((resolve) => this.cdp.once('Tracing.tracingComplete', () => resolve()));
     await this.cdp.send('Tracing.end');
@@ -74,8 +114,13 @@ export class StepTrace {
     }
     const tasks = main.filter((e) => e.name === 'RunTask' || e.name === 'ThreadControllerImpl::RunTask');
     const longest = tasks.reduce((m, e) => Math.max(m, e.dur! / 1000), 0);
-    const kinds = Object.entries(byKind).sort((a, b) => b[1] - a[1]).map(([k, ms]) => `${k} ${ms.toFixed(0)} ms`).join(', ');
-    return [`    main thread: ${kinds || 'idle'}; longest task ${longest.toFixed(0)} ms (${tasks.filter((t) => t.dur! > 50_000).length} over 50 ms)`];
+    const kinds = Object.entries(byKind)
+      .sort((a, b) => b[1] - a[1])
+      .map(([k, ms]) => `${k} ${ms.toFixed(0)} ms`)
+      .join(', ');
+    return [
+      `    main thread: ${kinds || 'idle'}; longest task ${longest.toFixed(0)} ms (${tasks.filter((t) => t.dur! > 50_000).length} over 50 ms)`,
+    ];
   }
 }
 
@@ -93,5 +138,8 @@ export function topFunctions(profile: CpuProfile, n: number): string[] {
     const key = `${f.functionName || '(anonymous)'} ${where}`.trim();
     byFunction.set(key, (byFunction.get(key) ?? 0) + us);
   }
-  return [...byFunction].sort((a, b) => b[1] - a[1]).slice(0, n).map(([k, us]) => `    ${(us / 1000).toFixed(1).padStart(7)} ms  ${k}`);
+  return [...byFunction]
+    .sort((a, b) => b[1] - a[1])
+    .slice(0, n)
+    .map(([k, us]) => `    ${(us / 1000).toFixed(1).padStart(7)} ms  ${k}`);
 }

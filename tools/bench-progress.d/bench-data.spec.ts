@@ -6,7 +6,16 @@ describe('benchmark progress states', () => {
   });
 
   it('when collars are taken in order, then the state follows the collar index modulo 20 as documented', () => {
-    expect([0, 9, 10, 12, 13, 14, 15, 19, 20].map(plannedState))
-      .toEqual(['complete', 'complete', 'partial', 'partial', 'partial', 'skipped', 'due', 'due', 'complete']);
+    expect([0, 9, 10, 12, 13, 14, 15, 19, 20].map(plannedState)).toEqual([
+      'complete',
+      'complete',
+      'partial',
+      'partial',
+      'partial',
+      'skipped',
+      'due',
+      'due',
+      'complete',
+    ]);
   });
 });

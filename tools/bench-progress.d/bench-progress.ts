@@ -61,7 +61,13 @@ export async function main(argv: string[]): Promise<void> {
     const campaignId = await generateBenchData(ds, size);
     console.log(`data: ${JSON.stringify(await benchCounts(ds))} built in ${(ms(t0) / 1000).toFixed(1)} s`);
 
-    const lab: SessionUser = { id: '00000000-0000-4000-8000-000000000001', email: 'bench@fluxwalk.example', displayName: 'Bench', roles: ['lab'], siteIds: [] };
+    const lab: SessionUser = {
+      id: '00000000-0000-4000-8000-000000000001',
+      email: 'bench@fluxwalk.example',
+      displayName: 'Bench',
+      roles: ['lab'],
+      siteIds: [],
+    };
     const progress = await campaignProgress(ds, lab, campaignId, null);
     checkTotals(progress.totals.byRoute, size.collars);
     t0 = process.hrtime.bigint();
@@ -71,7 +77,9 @@ export async function main(argv: string[]): Promise<void> {
     const countTimes = await timeIt(reps, () => ds.query(COUNT_SQL, [campaignId]));
     const p = median(progressTimes);
     const c = median(countTimes);
-    console.log(`progress, all rounds, ${progress.collars.length} collars: median ${p.toFixed(1)} ms (min ${Math.min(...progressTimes).toFixed(1)}, max ${Math.max(...progressTimes).toFixed(1)}, n=${reps})`);
+    console.log(
+      `progress, all rounds, ${progress.collars.length} collars: median ${p.toFixed(1)} ms (min ${Math.min(...progressTimes).toFixed(1)}, max ${Math.max(...progressTimes).toFixed(1)}, n=${reps})`,
+    );
     console.log(`progress, round 1: median ${median(roundTimes).toFixed(1)} ms`);
     console.log(`plain count(*) over the campaign's ${readings} visits and readings: median ${c.toFixed(1)} ms`);
     console.log(`ratio progress / count: ${(p / c).toFixed(1)}x   target ≤ 50 ms: ${p <= 50 ? 'met' : 'NOT met'}`);
@@ -85,7 +93,8 @@ function checkTotals(byRoute: Record<string, Record<BenchState, number>>, collar
   const got: Record<BenchState, number> = { due: 0, partial: 0, complete: 0, skipped: 0 };
   for (const t of Object.values(byRoute)) for (const k of Object.keys(got) as BenchState[]) got[k] += t[k];
   const want = expectedTotals(collars);
-  if (JSON.stringify(got) !== JSON.stringify(want)) throw new Error(`progress totals ${JSON.stringify(got)} differ from the planted ${JSON.stringify(want)}`);
+  if (JSON.stringify(got) !== JSON.stringify(want))
+    throw new Error(`progress totals ${JSON.stringify(got)} differ from the planted ${JSON.stringify(want)}`);
   console.log(`progress totals match the planted states: ${JSON.stringify(got)}`);
 }
 

@@ -23,7 +23,16 @@ const EXTRA = Number(process.argv[2] ?? 50_000);
 const TARGET_S = 3;
 const PAGE_SIZES = [1000, 2500, 5000];
 /** [page size, pages a transaction] for the Dexie-only runs; two sizes twice, early and late, to show the drift. */
-const DEXIE_RUNS: [number, number][] = [[1000, 1], [5000, 1], [2500, 1], [5000, 10], [500, 1], [1000, 5], [5000, 1], [1000, 1]];
+const DEXIE_RUNS: [number, number][] = [
+  [1000, 1],
+  [5000, 1],
+  [2500, 1],
+  [5000, 10],
+  [500, 1],
+  [1000, 5],
+  [5000, 1],
+  [1000, 1],
+];
 const TICKS_PER_S = 100; // USER_HZ on Linux
 
 /** User + system CPU ticks of one process (0 when it is gone). */
@@ -57,8 +66,9 @@ async function addCollars(url: string, n: number): Promise<number> {
   const db = new Client({ connectionString: url });
   await db.connect();
   try {
-    const [{ site_id, plot_id }] = (await db.query(
-      `SELECT p.site_id, p.id AS plot_id FROM plot p JOIN site s ON s.id = p.site_id ORDER BY s.name, p.code LIMIT 1`)).rows;
+    const [{ site_id, plot_id }] = (
+      await db.query(`SELECT p.site_id, p.id AS plot_id FROM plot p JOIN site s ON s.id = p.site_id ORDER BY s.name, p.code LIMIT 1`)
+    ).rows;
     await db.query('BEGIN');
     // Sequence numbers under the advisory lock the server's ChangeBuffer takes (72011), so seq order stays commit order.
     await db.query(`SELECT pg_advisory_xact_lock(72011)`);
@@ -71,7 +81,8 @@ async function addCollars(url: string, n: number): Promise<number> {
          RETURNING id, site_id)
        INSERT INTO change_log (seq, entity, record_id, rev, site_id, fields, deleted)
        SELECT nextval('change_seq'), 'collar', id, 1, site_id, ARRAY['code','plotId','notes'], false FROM made`,
-      [site_id, plot_id, n]);
+      [site_id, plot_id, n],
+    );
     await db.query('COMMIT');
     const [{ count }] = (await db.query(`SELECT count(*)::int AS count FROM change_log`)).rows;
     return count;
@@ -113,24 +124,37 @@ async function main(): Promise<void> {
         r.onsuccess = () => res(r.result);
         r.onerror = () => rej(r.error);
       });
-      const get = <T>(store: string, fn: (s: IDBObjectStore) => IDBRequest<T>) => new Promise<T>((res, rej) => {
-        const r = fn(db.transaction(store).objectStore(store));
-        r.onsuccess = () => res(r.result);
-        r.onerror = () => rej(r.error);
-      });
-      const lastPull = (await get('meta', (s) => s.get('lastPull')) as { value: { ms: number; fetchMs: number; writeMs: number; records: number } }).value;
+      const get = <T>(store: string, fn: (s: IDBObjectStore) => IDBRequest<T>) =>
+        new Promise<T>((res, rej) => {
+          const r = fn(db.transaction(store).objectStore(store));
+          r.onsuccess = () => res(r.result);
+          r.onerror = () => rej(r.error);
+        });
+      const lastPull = (
+        (await get('meta', (s) => s.get('lastPull'))) as { value: { ms: number; fetchMs: number; writeMs: number; records: number } }
+      ).value;
       const collars = await get('collar', (s) => s.count());
-      const records = await Promise.all(Array.from(db.objectStoreNames).filter((n) => !['meta', 'outbox', 'conflicts', 'rejected', 'acked'].includes(n)).map((n) => get(n, (s) => s.count())));
+      const records = await Promise.all(
+        Array.from(db.objectStoreNames)
+          .filter((n) => !['meta', 'outbox', 'conflicts', 'rejected', 'acked'].includes(n))
+          .map((n) => get(n, (s) => s.count())),
+      );
       db.close();
       return { lastPull, collars, total: records.reduce((a, b) => a + b, 0) };
     }, `fluxwalk-user-${user.id}`);
     const s = stats.lastPull.ms / 1000;
     console.log(`records in Dexie: ${stats.total} (${stats.collars} collars)`);
-    console.log(`pull loop (engine): ${stats.lastPull.records} records in ${s.toFixed(2)} s = ${Math.round(stats.lastPull.records / s)} records/s`);
-    console.log(`  of which waiting for the server ${(stats.lastPull.fetchMs / 1000).toFixed(2)} s, writing to Dexie ${(stats.lastPull.writeMs / 1000).toFixed(2)} s`);
+    console.log(
+      `pull loop (engine): ${stats.lastPull.records} records in ${s.toFixed(2)} s = ${Math.round(stats.lastPull.records / s)} records/s`,
+    );
+    console.log(
+      `  of which waiting for the server ${(stats.lastPull.fetchMs / 1000).toFixed(2)} s, writing to Dexie ${(stats.lastPull.writeMs / 1000).toFixed(2)} s`,
+    );
     console.log(`  Dexie side alone: ${Math.round(stats.lastPull.records / (stats.lastPull.writeMs / 1000))} records/s`);
     console.log(`sign-in to "Up to date" (wall): ${wall.toFixed(2)} s`);
-    console.log(`page JS heap during the pull: max ${(heapMax / 1e6).toFixed(0)} MB (target < 300 MB) -> ${heapMax < 300e6 ? 'met' : 'NOT met'}`);
+    console.log(
+      `page JS heap during the pull: max ${(heapMax / 1e6).toFixed(0)} MB (target < 300 MB) -> ${heapMax < 300e6 ? 'met' : 'NOT met'}`,
+    );
     console.log('server side alone (every page fetched by Node over HTTP, gzip as the browser gets it, JSON parsed; nothing written):');
     console.log('  page size | pages | records | seconds | records/s | server CPU µs/record | PostgreSQL CPU µs/record');
     const call = await httpSession(server.baseUrl, 'crew@fluxwalk.example');
@@ -138,7 +162,9 @@ async function main(): Promise<void> {
       const deviceId = randomUUID();
       const cpu0 = [cpuTicks(server.pid), clusterTicks()];
       const t = performance.now();
-      let cursor = 0, pages = 0, records = 0;
+      let cursor = 0,
+        pages = 0,
+        records = 0;
       for (let i = 0; i < 10_000; i++) {
         const r = await call('GET', `/api/sync/pull?cursor=${cursor}&limit=${limit}&deviceId=${deviceId}`);
         if (r.status !== 200) throw new Error(`pull answered ${r.status}`);
@@ -149,8 +175,10 @@ async function main(): Promise<void> {
       }
       const sec = (performance.now() - t) / 1000;
       const perRecord = (ticks: number) => ((ticks * 1e6) / TICKS_PER_S / records).toFixed(0);
-      console.log(`  ${String(limit).padStart(9)} | ${String(pages).padStart(5)} | ${String(records).padStart(7)} | ${sec.toFixed(2).padStart(7)} | `
-        + `${String(Math.round(records / sec)).padStart(9)} | ${perRecord(cpuTicks(server.pid) - cpu0[0]).padStart(20)} | ${perRecord(clusterTicks() - cpu0[1]).padStart(24)}`);
+      console.log(
+        `  ${String(limit).padStart(9)} | ${String(pages).padStart(5)} | ${String(records).padStart(7)} | ${sec.toFixed(2).padStart(7)} | ` +
+          `${String(Math.round(records / sec)).padStart(9)} | ${perRecord(cpuTicks(server.pid) - cpu0[0]).padStart(20)} | ${perRecord(clusterTicks() - cpu0[1]).padStart(24)}`,
+      );
     }
     // The Dexie side alone: the records of a full pull, already in the page, written the engine's way.
     const bundle = readFileSync(process.env['BENCH_DEXIE_BUNDLE'] ?? '', 'utf8');
@@ -161,7 +189,11 @@ async function main(): Promise<void> {
       let cursor = 0;
       for (let i = 0; i < 10_000; i++) {
         const res = await fetch(`/api/sync/pull?cursor=${cursor}&limit=5000&deviceId=${deviceId}`, { credentials: 'include' });
-        const a = (await res.json()) as { changes: { entity: string; id: string; rev: number; record: Record<string, unknown> | null }[]; cursor: number; more: boolean };
+        const a = (await res.json()) as {
+          changes: { entity: string; id: string; rev: number; record: Record<string, unknown> | null }[];
+          cursor: number;
+          more: boolean;
+        };
         for (const c of a.changes) if (c.entity === 'collar' && c.record) all.push({ ...c.record, id: c.id, rev: c.rev });
         cursor = a.cursor;
         if (!a.more) break;
@@ -169,26 +201,46 @@ async function main(): Promise<void> {
       (globalThis as unknown as { benchRecords: unknown[] }).benchRecords = all;
       return all.length;
     });
-    console.log(`Dexie side alone (${held} collar records in memory, bulkPut of a page + the cursor, the app's indexes; fresh database each run):`);
+    console.log(
+      `Dexie side alone (${held} collar records in memory, bulkPut of a page + the cursor, the app's indexes; fresh database each run):`,
+    );
     console.log('  page size | pages a transaction | seconds | records/s');
     const rawFirst = await browser.page.evaluate(() => {
-      const g = globalThis as unknown as { benchRecords: { id: string }[]; benchRawWrite(r: { id: string }[], p: number): Promise<{ ms: number; records: number }> };
+      const g = globalThis as unknown as {
+        benchRecords: { id: string }[];
+        benchRawWrite(r: { id: string }[], p: number): Promise<{ ms: number; records: number }>;
+      };
       return g.benchRawWrite(g.benchRecords, 5000);
     });
-    console.log(`  IndexedDB put() without Dexie, pages of 5000 (before the Dexie runs): ${(rawFirst.ms / 1000).toFixed(2)} s = ${Math.round(rawFirst.records / (rawFirst.ms / 1000))} records/s`);
+    console.log(
+      `  IndexedDB put() without Dexie, pages of 5000 (before the Dexie runs): ${(rawFirst.ms / 1000).toFixed(2)} s = ${Math.round(rawFirst.records / (rawFirst.ms / 1000))} records/s`,
+    );
     for (const [pageSize, perTxn] of DEXIE_RUNS) {
-      const r = await browser.page.evaluate(([p, n]) => {
-        const g = globalThis as unknown as { benchRecords: { id: string }[]; benchDexieWrite(r: { id: string }[], p: number, n: number): Promise<{ ms: number; records: number }> };
-        return g.benchDexieWrite(g.benchRecords, p, n);
-      }, [pageSize, perTxn] as const);
-      console.log(`  ${String(pageSize).padStart(9)} | ${String(perTxn).padStart(19)} | ${(r.ms / 1000).toFixed(2).padStart(7)} | ${Math.round(r.records / (r.ms / 1000))}`);
+      const r = await browser.page.evaluate(
+        ([p, n]) => {
+          const g = globalThis as unknown as {
+            benchRecords: { id: string }[];
+            benchDexieWrite(r: { id: string }[], p: number, n: number): Promise<{ ms: number; records: number }>;
+          };
+          return g.benchDexieWrite(g.benchRecords, p, n);
+        },
+        [pageSize, perTxn] as const,
+      );
+      console.log(
+        `  ${String(pageSize).padStart(9)} | ${String(perTxn).padStart(19)} | ${(r.ms / 1000).toFixed(2).padStart(7)} | ${Math.round(r.records / (r.ms / 1000))}`,
+      );
     }
     // Reference: IndexedDB's own put() without Dexie, pages of 5 000, first and last to bracket the drift.
     const raw = await browser.page.evaluate(() => {
-      const g = globalThis as unknown as { benchRecords: { id: string }[]; benchRawWrite(r: { id: string }[], p: number): Promise<{ ms: number; records: number }> };
+      const g = globalThis as unknown as {
+        benchRecords: { id: string }[];
+        benchRawWrite(r: { id: string }[], p: number): Promise<{ ms: number; records: number }>;
+      };
       return g.benchRawWrite(g.benchRecords, 5000);
     });
-    console.log(`  IndexedDB put() without Dexie, pages of 5000 (after the runs above): ${(raw.ms / 1000).toFixed(2)} s = ${Math.round(raw.records / (raw.ms / 1000))} records/s`);
+    console.log(
+      `  IndexedDB put() without Dexie, pages of 5000 (after the runs above): ${(raw.ms / 1000).toFixed(2)} s = ${Math.round(raw.records / (raw.ms / 1000))} records/s`,
+    );
     console.log(`target: ${EXTRA} records in <= ${TARGET_S} s -> ${s <= TARGET_S ? 'met' : 'NOT met'}`);
     if (stats.collars < EXTRA) throw new Error(`only ${stats.collars} collars reached Dexie`);
   } finally {

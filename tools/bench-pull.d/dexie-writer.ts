@@ -5,7 +5,12 @@
  */
 import Dexie from 'dexie';
 
-interface Run { pageSize: number; pagesPerTransaction: number; records: number; ms: number }
+interface Run {
+  pageSize: number;
+  pagesPerTransaction: number;
+  records: number;
+  ms: number;
+}
 
 async function writeAll(records: { id: string }[], pageSize: number, pagesPerTransaction: number): Promise<Run> {
   const name = `bench-dexie-${crypto.randomUUID()}`;
@@ -53,7 +58,10 @@ async function writeRaw(records: { id: string }[], pageSize: number): Promise<Ru
   }
   const ms = performance.now() - t;
   db.close();
-  await new Promise((r) => { const d = indexedDB.deleteDatabase(name); d.onsuccess = d.onerror = r; });
+  await new Promise((r) => {
+    const d = indexedDB.deleteDatabase(name);
+    d.onsuccess = d.onerror = r;
+  });
   return { pageSize, pagesPerTransaction: 1, records: records.length, ms };
 }
 

@@ -34,8 +34,14 @@ async function main() {
   const pushRows = Array.from({ length: N }, (_, i) => row(i));
   let t = performance.now();
   for (let i = 0; i < N; i += BATCH) {
-    const ops = pushRows.slice(i, i + BATCH).map((r) => ({ opId: randomUUID(), entity: 'collarEvent', id: r.id, baseRev: null, op: 'upsert',
-      fields: { siteId: DEMO_SITE_ID, collarId: r.collarId, kind: 'clipped', date: '2026-06-01', note: r.note } }));
+    const ops = pushRows.slice(i, i + BATCH).map((r) => ({
+      opId: randomUUID(),
+      entity: 'collarEvent',
+      id: r.id,
+      baseRev: null,
+      op: 'upsert',
+      fields: { siteId: DEMO_SITE_ID, collarId: r.collarId, kind: 'clipped', date: '2026-06-01', note: r.note },
+    }));
     const res = await call('POST', '/api/sync/push', { deviceId, outboxSize: N - i, ops });
     const bad = res.json.results.filter((x: { status: string }) => x.status !== 'applied');
     if (res.status !== 200 || bad.length) throw new Error(`push failed: ${res.status} ${JSON.stringify(bad[0] ?? res.json).slice(0, 200)}`);
@@ -59,7 +65,8 @@ async function main() {
   await client.query(
     `INSERT INTO collar_event (id, site_id, collar_id, kind, date, note)
      SELECT id, $1, c, 'clipped', '2026-06-01', n FROM unnest($2::uuid[], $3::uuid[], $4::text[]) AS t(id, c, n)`,
-    [DEMO_SITE_ID, many.map((r) => r.id), many.map((r) => r.collarId), many.map((r) => r.note)]);
+    [DEMO_SITE_ID, many.map((r) => r.id), many.map((r) => r.collarId), many.map((r) => r.note)],
+  );
   const multiMs = performance.now() - t;
   await client.end();
   server.close();
@@ -69,8 +76,15 @@ async function main() {
   console.log(`push, ${N} ops in batches of ${BATCH} over HTTP: ${fmt(pushMs)}`);
   console.log(`${N} single-row transactions:              ${fmt(singleMs)}`);
   console.log(`one multi-row INSERT of ${N} rows:          ${fmt(multiMs)}`);
-  console.log(`ratio push / single-row transactions: ${(pushMs / singleMs).toFixed(2)}x (target ≤ 1.5x: ${pushMs / singleMs <= 1.5 ? 'met' : 'NOT met'})`);
-  console.log(`ratio push / multi-row INSERT:        ${(pushMs / multiMs).toFixed(1)}x (stretch ≤ 10x: ${pushMs / multiMs <= 10 ? 'met' : 'NOT met'})`);
+  console.log(
+    `ratio push / single-row transactions: ${(pushMs / singleMs).toFixed(2)}x (target ≤ 1.5x: ${pushMs / singleMs <= 1.5 ? 'met' : 'NOT met'})`,
+  );
+  console.log(
+    `ratio push / multi-row INSERT:        ${(pushMs / multiMs).toFixed(1)}x (stretch ≤ 10x: ${pushMs / multiMs <= 10 ? 'met' : 'NOT met'})`,
+  );
 }
 
-main().catch((err) => { console.error(err); process.exit(1); });
+main().catch((err) => {
+  console.error(err);
+  process.exit(1);
+});

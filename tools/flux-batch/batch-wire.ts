@@ -77,7 +77,10 @@ export function resultToWire(id: unknown, r: ClosureFitResult, full = false): Wi
   const out: WireResult = {
     id,
     linear: wireModel(r.linear, full && r.linear ? { intercept_ppm: r.linear.interceptPpm } : {}),
-    exponential: wireModel(e, e ? { ...atClosure(e), ...(full ? { p1: e.p1, p2: e.p2, p3: e.p3, p3_tau_max: e.p3TauMax } : { p3: e.p3 }) } : {}),
+    exponential: wireModel(
+      e,
+      e ? { ...atClosure(e), ...(full ? { p1: e.p1, p2: e.p2, p3: e.p3, p3_tau_max: e.p3TauMax } : { p3: e.p3 }) } : {},
+    ),
     quadratic: wireModel(q, q ? { ...atClosure(q), ...(full ? { b0: q.b0, b1: q.b1, b2: q.b2 } : {}) } : {}),
     exponential_rejected_reason: r.exponentialRejectedReason,
     selected: r.selected && {

@@ -32,7 +32,9 @@ describe('flux:batch CLI', () => {
   });
 
   it('returns one result per run in input order, with invalid runs as invalid-input results', () => {
-    const input = JSON.stringify({ runs: [goodRun, { id: 'broken', t_s: [1, 2], co2_ppm: [1] }, 'not a run', { ...goodRun, id: 'second' }] });
+    const input = JSON.stringify({
+      runs: [goodRun, { id: 'broken', t_s: [1, 2], co2_ppm: [1] }, 'not a run', { ...goodRun, id: 'second' }],
+    });
     const out = run(input);
     expect(out.status).toBe(0);
     const results = JSON.parse(out.stdout).results;
@@ -56,7 +58,10 @@ describe('flux:batch CLI', () => {
     const lines = [JSON.stringify(goodRun), '', JSON.stringify({ ...goodRun, id: 'b', settle_s: null })].join('\n');
     const out = run(lines + '\n', ['--ndjson']);
     expect(out.status).toBe(0);
-    const results = out.stdout.trim().split('\n').map((l) => JSON.parse(l));
+    const results = out.stdout
+      .trim()
+      .split('\n')
+      .map((l) => JSON.parse(l));
     expect(results.map((x) => x.id)).toEqual(['collar-7/closure-1', 'b']);
     expect(results[1].error).toBe('missing settle time');
   }, 60000);

@@ -29,13 +29,19 @@ function compile(entryTs, entryJs) {
   const options = { ...parsed.options, incremental: false, tsBuildInfoFile: undefined, outDir, rootDir: root };
   const program = ts.createProgram([entryTs], options);
   const result = program.emit();
-  const errors = ts.getPreEmitDiagnostics(program).concat(result.diagnostics).filter((d) => d.category === ts.DiagnosticCategory.Error);
+  const errors = ts
+    .getPreEmitDiagnostics(program)
+    .concat(result.diagnostics)
+    .filter((d) => d.category === ts.DiagnosticCategory.Error);
   if (errors.length) {
     const host = { getCanonicalFileName: (f) => f, getCurrentDirectory: () => root, getNewLine: () => '\n' };
     process.stderr.write(ts.formatDiagnostics(errors, host));
     process.exit(1);
   }
-  const read = program.getSourceFiles().map((f) => path.resolve(f.fileName)).filter((f) => !f.includes(`${path.sep}node_modules${path.sep}`));
+  const read = program
+    .getSourceFiles()
+    .map((f) => path.resolve(f.fileName))
+    .filter((f) => !f.includes(`${path.sep}node_modules${path.sep}`));
   fs.writeFileSync(manifestOf(entryJs), JSON.stringify([configPath, ...read]));
 }
 
@@ -51,8 +57,10 @@ module.exports = { ensureBuilt, isStale };
 
 if (require.main === module) {
   const entry = ensureBuilt('tools/flux-batch/flux-batch.ts');
-  require(entry).main(process.argv).catch((err) => {
-    process.stderr.write(`flux-batch: ${String(err && err.message).replace(/\s+/g, ' ')}\n`);
-    process.exit(2);
-  });
+  require(entry)
+    .main(process.argv)
+    .catch((err) => {
+      process.stderr.write(`flux-batch: ${String(err && err.message).replace(/\s+/g, ' ')}\n`);
+      process.exit(2);
+    });
 }

@@ -9,7 +9,14 @@
  */
 export class MalformedJson extends Error {}
 
-const QUOTE = 34, BACKSLASH = 92, LBRACE = 123, RBRACE = 125, LBRACKET = 91, RBRACKET = 93, COMMA = 44, COLON = 58;
+const QUOTE = 34,
+  BACKSLASH = 92,
+  LBRACE = 123,
+  RBRACE = 125,
+  LBRACKET = 91,
+  RBRACKET = 93,
+  COMMA = 44,
+  COLON = 58;
 
 /**
  * Structural characters only: the regular-expression engine skips the long runs of digits

@@ -11,9 +11,17 @@ import { Browser, BrowserShape, launchBrowser, withScreenshotOnFailure } from '.
 export function browserSuite() {
   let server: RunningServer | null = null;
   let browser: Browser | null = null;
-  beforeAll(async () => { server = await startAppServer(); });
-  afterAll(async () => { await browser?.close(); await server?.stop(); });
-  afterEach(async () => { await browser?.close(); browser = null; });
+  beforeAll(async () => {
+    server = await startAppServer();
+  });
+  afterAll(async () => {
+    await browser?.close();
+    await server?.stop();
+  });
+  afterEach(async () => {
+    await browser?.close();
+    browser = null;
+  });
   return {
     get server(): RunningServer {
       if (!server) throw new Error('the server is not started yet (use it inside a test)');

@@ -60,7 +60,9 @@ export class VisitCounter {
 
   summary(): string {
     const c = this.count;
-    return `${c.taps} taps + ${c.typedFields} typed fields (${c.characters} characters) + ${c.scrolls} scrolls + ${c.filePickers} file picker`
-      + (this.scrolledTo.length ? ` (scrolled to: ${this.scrolledTo.join(', ')})` : '');
+    return (
+      `${c.taps} taps + ${c.typedFields} typed fields (${c.characters} characters) + ${c.scrolls} scrolls + ${c.filePickers} file picker` +
+      (this.scrolledTo.length ? ` (scrolled to: ${this.scrolledTo.join(', ')})` : '')
+    );
   }
 }

@@ -5,7 +5,11 @@ import path from 'node:path';
 import { Page } from 'playwright-core';
 
 /** The part of pngjs (installed with qrcode; it ships no types) that these tests use. */
-interface PngImage { width: number; height: number; data: Buffer }
+interface PngImage {
+  width: number;
+  height: number;
+  data: Buffer;
+}
 // eslint-disable-next-line @typescript-eslint/no-require-imports
 const { PNG } = require('pngjs') as {
   PNG: (new (o: { width: number; height: number }) => PngImage) & { sync: { read(b: Buffer): PngImage; write(p: PngImage): Buffer } };
@@ -77,33 +81,37 @@ export interface DeviceBlob {
 
 /** Reads a kept photo straight from the device's IndexedDB: the bytes, their SHA-256 and the attachment record. */
 export async function deviceBlob(page: Page, userId: string, ownerId: string): Promise<DeviceBlob[]> {
-  return page.evaluate(async ({ dbName, owner }) => {
-    const db = await new Promise<IDBDatabase>((resolve, reject) => {
-      const r = indexedDB.open(dbName);
-      r.onsuccess = () => resolve(r.result);
-      r.onerror = () => reject(r.error);
-    });
-    const all = <T,>(store: string) => new Promise<T[]>((resolve, reject) => {
-      const r = db.transaction(store).objectStore(store).getAll();
-      r.onsuccess = () => resolve(r.result as T[]);
-      r.onerror = () => reject(r.error);
-    });
-    const atts = (await all<Record<string, unknown>>('attachment')).filter((a) => a['ownerId'] === owner);
-    const blobs = await all<{ attachmentId: string; blob: Blob }>('blobs');
-    const out = [];
-    for (const a of atts) {
-      const row = blobs.find((b) => b.attachmentId === a['id']);
-      if (!row) {
-        out.push({ size: 0, type: '', sha256: '', attachment: a });
-        continue;
+  return page.evaluate(
+    async ({ dbName, owner }) => {
+      const db = await new Promise<IDBDatabase>((resolve, reject) => {
+        const r = indexedDB.open(dbName);
+        r.onsuccess = () => resolve(r.result);
+        r.onerror = () => reject(r.error);
+      });
+      const all = <T>(store: string) =>
+        new Promise<T[]>((resolve, reject) => {
+          const r = db.transaction(store).objectStore(store).getAll();
+          r.onsuccess = () => resolve(r.result as T[]);
+          r.onerror = () => reject(r.error);
+        });
+      const atts = (await all<Record<string, unknown>>('attachment')).filter((a) => a['ownerId'] === owner);
+      const blobs = await all<{ attachmentId: string; blob: Blob }>('blobs');
+      const out = [];
+      for (const a of atts) {
+        const row = blobs.find((b) => b.attachmentId === a['id']);
+        if (!row) {
+          out.push({ size: 0, type: '', sha256: '', attachment: a });
+          continue;
+        }
+        const digest = await crypto.subtle.digest('SHA-256', await row.blob.arrayBuffer());
+        const hex = Array.from(new Uint8Array(digest), (b) => b.toString(16).padStart(2, '0')).join('');
+        out.push({ size: row.blob.size, type: row.blob.type, sha256: hex, attachment: a });
       }
-      const digest = await crypto.subtle.digest('SHA-256', await row.blob.arrayBuffer());
-      const hex = Array.from(new Uint8Array(digest), (b) => b.toString(16).padStart(2, '0')).join('');
-      out.push({ size: row.blob.size, type: row.blob.type, sha256: hex, attachment: a });
-    }
-    db.close();
-    return out;
-  }, { dbName: `fluxwalk-user-${userId}`, owner: ownerId });
+      db.close();
+      return out;
+    },
+    { dbName: `fluxwalk-user-${userId}`, owner: ownerId },
+  );
 }
 
 /** README screenshots at phone size, written only when asked (WALK_SCREENSHOTS=1), so normal runs leave the tree alone. */

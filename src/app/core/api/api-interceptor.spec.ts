@@ -71,9 +71,7 @@ describe('apiInterceptor', () => {
   });
 
   it('when sign-in itself answers 401, then it is a wrong password, not an ended session', async () => {
-    const answer = firstValueFrom(
-      http.get('/api/auth/me', { context: new HttpContext().set(SKIP_SESSION_EXPIRY, true) }),
-    );
+    const answer = firstValueFrom(http.get('/api/auth/me', { context: new HttpContext().set(SKIP_SESSION_EXPIRY, true) }));
     backend.expectOne('/api/auth/me').flush({ error: { message: 'Wrong' } }, { status: 401, statusText: 'Unauthorized' });
     await expect(answer).rejects.toMatchObject({ status: 401 });
     expect(TestBed.inject(SessionExpiry).expired()).toBe(false);

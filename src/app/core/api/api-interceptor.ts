@@ -1,10 +1,4 @@
-import {
-  HttpContextToken,
-  HttpErrorResponse,
-  HttpEvent,
-  HttpInterceptorFn,
-  HttpResponse,
-} from '@angular/common/http';
+import { HttpContextToken, HttpErrorResponse, HttpEvent, HttpInterceptorFn, HttpResponse } from '@angular/common/http';
 import { inject } from '@angular/core';
 import { Observable, catchError, from, switchMap, tap, throwError } from 'rxjs';
 import { SessionExpiry } from '../auth/session-expiry';

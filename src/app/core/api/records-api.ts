@@ -21,9 +21,11 @@ export class RecordsApi {
   async listAt<T>(path: string, query: Record<string, string> = {}): Promise<T[]> {
     const items: T[] = [];
     for (let offset = 0; ; offset += PAGE) {
-      const res = await firstValueFrom(this.http.get<{ items: T[]; total: number }>(`/api/${path}`, {
-        params: { ...query, limit: String(PAGE), offset: String(offset) },
-      }));
+      const res = await firstValueFrom(
+        this.http.get<{ items: T[]; total: number }>(`/api/${path}`, {
+          params: { ...query, limit: String(PAGE), offset: String(offset) },
+        }),
+      );
       items.push(...res.items);
       if (items.length >= res.total || !res.items.length) return items;
     }

@@ -7,9 +7,7 @@ import { rememberOnDevice, testUser } from './testing/demo-sessions';
 import { Role } from './session-user';
 
 function run(guard: typeof signedInGuard, url = '/walk'): boolean | UrlTree {
-  return TestBed.runInInjectionContext(
-    () => guard({} as ActivatedRouteSnapshot, { url } as RouterStateSnapshot) as boolean | UrlTree,
-  );
+  return TestBed.runInInjectionContext(() => guard({} as ActivatedRouteSnapshot, { url } as RouterStateSnapshot) as boolean | UrlTree);
 }
 
 function serialized(result: boolean | UrlTree): string | boolean {

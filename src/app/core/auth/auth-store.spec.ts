@@ -7,7 +7,6 @@ import { AuthStore } from './auth-store';
 import { SessionExpiry } from './session-expiry';
 import { rememberOnDevice, testUser } from './testing/demo-sessions';
 
-
 function store(): AuthStore {
   TestBed.configureTestingModule({
     providers: [provideHttpClient(withInterceptors([apiInterceptor])), provideHttpClientTesting()],

@@ -82,9 +82,7 @@ export class AuthStore {
   /** Ends the session on the server when reachable, and always forgets it on this device. */
   async signOut(): Promise<void> {
     try {
-      await firstValueFrom(
-        this.http.post('/api/auth/logout', null, { context: new HttpContext().set(SKIP_SESSION_EXPIRY, true) }),
-      );
+      await firstValueFrom(this.http.post('/api/auth/logout', null, { context: new HttpContext().set(SKIP_SESSION_EXPIRY, true) }));
     } catch {
       // Offline or already ended: the device forgets the session anyway.
     }

@@ -62,10 +62,14 @@ describe('resolving a conflict', () => {
     await db.records('collar').put(collar(A, 1, { notes: 'base', statusReason: null }));
     await saveEdit(db, 'collar', A, { notes: 'mine', status: 'damaged', statusReason: 'boar' });
     const sent = await takeBatch(db);
-    await applyPushResults(db, sent, [{
-      opId: sent[0].opId, status: 'conflict', rev: 2,
-      conflict: { fields: ['notes'], server: collar(A, 2, { notes: 'theirs' }), serverRev: 2 },
-    }]);
+    await applyPushResults(db, sent, [
+      {
+        opId: sent[0].opId,
+        status: 'conflict',
+        rev: 2,
+        conflict: { fields: ['notes'], server: collar(A, 2, { notes: 'theirs' }), serverRev: 2 },
+      },
+    ]);
     return { db, c: (await db.conflicts.toArray())[0] };
   }
 

@@ -39,9 +39,16 @@ const ENTITIES = new Set<string>(SYNC_ENTITIES);
 
 function isOp(v: unknown): v is Omit<OutboxOp, 'seq'> {
   const o = v as Partial<OutboxOp> | null;
-  return !!o && typeof o.opId === 'string' && typeof o.id === 'string' && ENTITIES.has(String(o.entity))
-    && (o.op === 'upsert' || o.op === 'delete') && typeof o.fields === 'object' && o.fields !== null
-    && (o.baseRev === null || typeof o.baseRev === 'number');
+  return (
+    !!o &&
+    typeof o.opId === 'string' &&
+    typeof o.id === 'string' &&
+    ENTITIES.has(String(o.entity)) &&
+    (o.op === 'upsert' || o.op === 'delete') &&
+    typeof o.fields === 'object' &&
+    o.fields !== null &&
+    (o.baseRev === null || typeof o.baseRev === 'number')
+  );
 }
 
 /** Reads a backup file's text; a file that is not one says so in words. */
@@ -54,10 +61,15 @@ export function parseBackup(text: string): BackupFile {
   }
   const b = raw as Partial<BackupFile> | null;
   if (!b || b.format !== BACKUP_FORMAT) throw new BackupFileError('This file is not a Fluxwalk backup file.');
-  if (typeof b.version !== 'number' || b.version > BACKUP_VERSION) throw new BackupFileError('This backup file comes from a newer Fluxwalk: update the app first.');
+  if (typeof b.version !== 'number' || b.version > BACKUP_VERSION)
+    throw new BackupFileError('This backup file comes from a newer Fluxwalk: update the app first.');
   if (!b.user || typeof b.user.id !== 'string') throw new BackupFileError('This backup file does not say whose work it holds.');
   if (!Array.isArray(b.outbox) || !b.outbox.every(isOp)) throw new BackupFileError('The changes in this backup file cannot be read.');
-  return { ...b, conflicts: Array.isArray(b.conflicts) ? b.conflicts : [], rejected: Array.isArray(b.rejected) ? b.rejected : [] } as BackupFile;
+  return {
+    ...b,
+    conflicts: Array.isArray(b.conflicts) ? b.conflicts : [],
+    rejected: Array.isArray(b.rejected) ? b.rejected : [],
+  } as BackupFile;
 }
 
 export interface ImportTally {
@@ -72,13 +84,16 @@ export interface ImportTally {
  */
 export async function importBackup(db: FluxDb, file: BackupFile, userId: string): Promise<ImportTally> {
   if (file.user.id !== userId) {
-    throw new BackupFileError(`This backup file holds the work of ${file.user.email}; only they can load it. It can still be opened read-only.`);
+    throw new BackupFileError(
+      `This backup file holds the work of ${file.user.email}; only they can load it. It can still be opened read-only.`,
+    );
   }
   const tables = SYNC_ENTITIES.map((e) => db.records(e));
   const tally: ImportTally = { queued: 0, skipped: 0 };
   await db.transaction('rw', [...tables, db.outbox, db.acked, db.rejected], async () => {
     for (const op of file.outbox) {
-      const known = (await db.outbox.where('opId').equals(op.opId).count()) || (await db.acked.get(op.opId)) || (await db.rejected.get(op.opId));
+      const known =
+        (await db.outbox.where('opId').equals(op.opId).count()) || (await db.acked.get(op.opId)) || (await db.rejected.get(op.opId));
       if (known) {
         tally.skipped++;
         continue;
@@ -107,6 +122,11 @@ export interface BackupSummaryRow {
 /** A read-only view of someone's backup (a lead checking a crew's progress without signal). */
 export function summarizeBackup(file: BackupFile): BackupSummaryRow[] {
   return file.outbox.map((op) => ({
-    entity: op.entity, id: op.id, op: op.op, created: op.baseRev === null, fields: Object.keys(op.fields), at: op.updatedAt,
+    entity: op.entity,
+    id: op.id,
+    op: op.op,
+    created: op.baseRev === null,
+    fields: Object.keys(op.fields),
+    at: op.updatedAt,
   }));
 }

@@ -48,9 +48,16 @@ export async function resolveConflict(db: FluxDb, c: ConflictRow, choice: Record
       });
     } else {
       await db.outbox.add({
-        opId, entity: c.entity, id: c.recordId, baseRev: c.serverRev, op: keepMineDelete ? 'delete' : 'upsert',
-        fields, base: theirs ? Object.fromEntries(Object.keys(fields).map((k) => [k, theirs[k] ?? null])) : {},
-        sentAt: null, createdAt: at, updatedAt: at,
+        opId,
+        entity: c.entity,
+        id: c.recordId,
+        baseRev: c.serverRev,
+        op: keepMineDelete ? 'delete' : 'upsert',
+        fields,
+        base: theirs ? Object.fromEntries(Object.keys(fields).map((k) => [k, theirs[k] ?? null])) : {},
+        sentAt: null,
+        createdAt: at,
+        updatedAt: at,
       });
     }
     const after = await unsentOp(db, c.entity, c.recordId);

@@ -8,8 +8,12 @@ import { FluxDb, META, SCHEMA_VERSION, dbNameFor } from './db-schema';
 function connectionLost(err: unknown): boolean {
   const e = err as { name?: string; message?: string; inner?: { name?: string } } | null;
   const name = e?.name ?? '';
-  return name === Dexie.errnames.DatabaseClosed || name === 'InvalidStateError' || e?.inner?.name === 'InvalidStateError'
-    || /connection to indexed ?db server lost/i.test(e?.message ?? '');
+  return (
+    name === Dexie.errnames.DatabaseClosed ||
+    name === 'InvalidStateError' ||
+    e?.inner?.name === 'InvalidStateError' ||
+    /connection to indexed ?db server lost/i.test(e?.message ?? '')
+  );
 }
 
 /**
@@ -62,7 +66,10 @@ export class DeviceDb {
         const row = await db.meta.get(META.deviceId);
         if (typeof row?.value === 'string') return row.value;
         const fresh = uuidv4();
-        await db.meta.bulkPut([{ key: META.deviceId, value: fresh }, { key: META.schemaVersion, value: SCHEMA_VERSION }]);
+        await db.meta.bulkPut([
+          { key: META.deviceId, value: fresh },
+          { key: META.schemaVersion, value: SCHEMA_VERSION },
+        ]);
         return fresh;
       });
       if (this.current() === db) this.device.set(id);

@@ -32,7 +32,13 @@ export async function attachmentFor(owner: FileOwner, blob: Blob, fileName: stri
 export async function keepFile(db: FluxDb, fields: Record<string, unknown>, blob: Blob): Promise<string> {
   return db.transaction('rw', [db.records('attachment'), db.outbox, db.blobs], async () => {
     const rec = await createRecord(db, 'attachment', fields);
-    await db.blobs.put({ attachmentId: rec.id, blob, mediaType: String(fields['mediaType']), createdAt: new Date().toISOString(), uploadedAt: null });
+    await db.blobs.put({
+      attachmentId: rec.id,
+      blob,
+      mediaType: String(fields['mediaType']),
+      createdAt: new Date().toISOString(),
+      uploadedAt: null,
+    });
     return rec.id;
   });
 }

@@ -13,7 +13,15 @@ describe('local writes and the outbox', () => {
     expect((await db.records('collar').get(ID))?.['notes']).toBe('roots exposed');
     const ops = await db.outbox.toArray();
     expect(ops).toHaveLength(1);
-    expect(ops[0]).toMatchObject({ entity: 'collar', id: ID, baseRev: 3, op: 'upsert', fields: { notes: 'roots exposed' }, base: { notes: 'old' }, sentAt: null });
+    expect(ops[0]).toMatchObject({
+      entity: 'collar',
+      id: ID,
+      baseRev: 3,
+      op: 'upsert',
+      fields: { notes: 'roots exposed' },
+      base: { notes: 'old' },
+      sentAt: null,
+    });
   });
 
   it('when the write fails inside the transaction, then neither the record nor the op is stored', async () => {
@@ -67,7 +75,12 @@ describe('local writes and the outbox', () => {
 
   it('when a record created here is deleted before it was sent, then both the record and its create disappear', async () => {
     const db = testDb();
-    const rec = await createRecord(db, 'collar', { siteId: collar(ID, 0)['siteId'], code: 'NEW', plotId: collar(ID, 0)['plotId'], diameterCm: 20 });
+    const rec = await createRecord(db, 'collar', {
+      siteId: collar(ID, 0)['siteId'],
+      code: 'NEW',
+      plotId: collar(ID, 0)['plotId'],
+      diameterCm: 20,
+    });
     await saveEdit(db, 'collar', rec.id, { notes: 'typo' });
     expect(await db.outbox.count()).toBe(1); // the edit merged into the create
 

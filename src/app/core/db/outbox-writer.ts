@@ -18,10 +18,22 @@ export class RecordMissingError extends Error {
 
 /** The record's op that has not gone out yet (an op that was sent is never changed again). */
 export async function unsentOp(db: FluxDb, entity: SyncEntityName, id: string): Promise<OutboxOp | undefined> {
-  return db.outbox.where('[entity+id]').equals([entity, id]).filter((o) => o.sentAt === null).first();
+  return db.outbox
+    .where('[entity+id]')
+    .equals([entity, id])
+    .filter((o) => o.sentAt === null)
+    .first();
 }
 
-function newOp(entity: SyncEntityName, id: string, baseRev: number | null, op: OutboxOp['op'], fields: Record<string, unknown>, base: Record<string, unknown>, now: string): OutboxOp {
+function newOp(
+  entity: SyncEntityName,
+  id: string,
+  baseRev: number | null,
+  op: OutboxOp['op'],
+  fields: Record<string, unknown>,
+  base: Record<string, unknown>,
+  now: string,
+): OutboxOp {
   return { opId: uuidv4(), entity, id, baseRev, op, fields, base, sentAt: null, createdAt: now, updatedAt: now };
 }
 
@@ -29,7 +41,13 @@ function newOp(entity: SyncEntityName, id: string, baseRev: number | null, op: O
  * Changes some fields of a record on this device and queues them. Returns the op (new or merged),
  * or null when nothing actually changed.
  */
-export async function saveEdit(db: FluxDb, entity: SyncEntityName, id: string, changes: Record<string, unknown>, opts: { baseRev?: number; now?: Date } = {}): Promise<OutboxOp | null> {
+export async function saveEdit(
+  db: FluxDb,
+  entity: SyncEntityName,
+  id: string,
+  changes: Record<string, unknown>,
+  opts: { baseRev?: number; now?: Date } = {},
+): Promise<OutboxOp | null> {
   const table = db.records(entity);
   const now = nowIso(opts.now);
   return db.transaction('rw', [table, db.outbox], async () => {
@@ -62,7 +80,12 @@ export async function saveEdit(db: FluxDb, entity: SyncEntityName, id: string, c
 }
 
 /** Creates a record on this device (rev 0 until the server has it) and queues its create. */
-export async function createRecord(db: FluxDb, entity: SyncEntityName, fields: Record<string, unknown>, opts: { id?: string; now?: Date } = {}): Promise<LocalRecord> {
+export async function createRecord(
+  db: FluxDb,
+  entity: SyncEntityName,
+  fields: Record<string, unknown>,
+  opts: { id?: string; now?: Date } = {},
+): Promise<LocalRecord> {
   const table = db.records(entity);
   const id = opts.id ?? uuidv4();
   const now = nowIso(opts.now);

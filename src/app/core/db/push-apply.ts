@@ -24,17 +24,20 @@ export async function takeBatch(db: FluxDb, budget = PUSH_BUDGET_BYTES, maxOps =
     const seen = new Set<string>();
     const batch: OutboxOp[] = [];
     let bytes = 0;
-    await db.outbox.orderBy('seq').until(() => batch.length >= maxOps).each((op) => {
-      const key = `${op.entity}:${op.id}`;
-      if (seen.has(key)) return;
-      seen.add(key);
-      const size = encoder.encode(JSON.stringify(toWire(op))).length + 1;
-      if (batch.length && bytes + size > budget) return;
-      if (!batch.length || bytes + size <= budget) {
-        batch.push(op);
-        bytes += size;
-      }
-    });
+    await db.outbox
+      .orderBy('seq')
+      .until(() => batch.length >= maxOps)
+      .each((op) => {
+        const key = `${op.entity}:${op.id}`;
+        if (seen.has(key)) return;
+        seen.add(key);
+        const size = encoder.encode(JSON.stringify(toWire(op))).length + 1;
+        if (batch.length && bytes + size > budget) return;
+        if (!batch.length || bytes + size <= budget) {
+          batch.push(op);
+          bytes += size;
+        }
+      });
     const sentAt = nowIso(now);
     for (const op of batch) if (op.sentAt === null) await db.outbox.update(op.seq!, { sentAt });
     return batch;
@@ -96,15 +99,33 @@ export async function applyPushResults(db: FluxDb, sent: OutboxOp[], results: Pu
         tally.conflicts++;
         const theirs = r.conflict?.server ?? r.record ?? null;
         await db.conflicts.put({
-          opId: op.opId, entity: op.entity, recordId: op.id, fields: r.conflict?.fields ?? Object.keys(op.fields),
-          mine: op.fields, base: op.base, theirs, serverRev: r.conflict?.serverRev ?? r.rev ?? 0, wasDelete: op.op === 'delete', at,
+          opId: op.opId,
+          entity: op.entity,
+          recordId: op.id,
+          fields: r.conflict?.fields ?? Object.keys(op.fields),
+          mine: op.fields,
+          base: op.base,
+          theirs,
+          serverRev: r.conflict?.serverRev ?? r.rev ?? 0,
+          wasDelete: op.op === 'delete',
+          at,
         });
-        server = theirs && !theirs['deleted'] ? ({ ...theirs, id: op.id, rev: r.conflict?.serverRev ?? Number(theirs['rev']) } as LocalRecord) : revert(local, op);
+        server =
+          theirs && !theirs['deleted']
+            ? ({ ...theirs, id: op.id, rev: r.conflict?.serverRev ?? Number(theirs['rev']) } as LocalRecord)
+            : revert(local, op);
       } else {
         tally.rejected++;
         await db.rejected.put({
-          opId: op.opId, entity: op.entity, id: op.id, op: op.op, fields: op.fields, baseRev: op.baseRev,
-          message: r.error?.message ?? 'The server refused this change', problems: r.error?.fields ?? [], at,
+          opId: op.opId,
+          entity: op.entity,
+          id: op.id,
+          op: op.op,
+          fields: op.fields,
+          baseRev: op.baseRev,
+          message: r.error?.message ?? 'The server refused this change',
+          problems: r.error?.fields ?? [],
+          at,
         });
         server = revert(local, op);
       }

@@ -7,7 +7,11 @@ function canonical(v: unknown): unknown {
   if (Array.isArray(v)) return v.map(canonical);
   if (v && typeof v === 'object') {
     const o = v as Record<string, unknown>;
-    return Object.fromEntries(Object.keys(o).sort().map((k) => [k, canonical(o[k])]));
+    return Object.fromEntries(
+      Object.keys(o)
+        .sort()
+        .map((k) => [k, canonical(o[k])]),
+    );
   }
   return v === undefined ? null : v;
 }

@@ -16,11 +16,17 @@ describe('applying pull pages', () => {
     const db = testDb();
     await db.records('collar').put(collar(B, 1));
 
-    await applyPullPage(db, page([
-      { seq: 7, entity: 'collar', id: A, rev: 2, deleted: false, record: collar(A, 2, { notes: 'from server' }) },
-      { seq: 8, entity: 'collar', id: B, rev: 2, deleted: true, record: null, reason: 'deleted' },
-      { seq: 9, entity: 'somethingNew', id: A, rev: 1, deleted: false, record: {} },
-    ], 9));
+    await applyPullPage(
+      db,
+      page(
+        [
+          { seq: 7, entity: 'collar', id: A, rev: 2, deleted: false, record: collar(A, 2, { notes: 'from server' }) },
+          { seq: 8, entity: 'collar', id: B, rev: 2, deleted: true, record: null, reason: 'deleted' },
+          { seq: 9, entity: 'somethingNew', id: A, rev: 1, deleted: false, record: {} },
+        ],
+        9,
+      ),
+    );
 
     expect((await db.records('collar').get(A))?.['notes']).toBe('from server');
     expect(await db.records('collar').get(B)).toBeUndefined();
@@ -32,7 +38,10 @@ describe('applying pull pages', () => {
     await db.records('collar').put(collar(A, 1, { notes: 'old', code: 'C-01' }));
     await saveEdit(db, 'collar', A, { notes: 'mine' });
 
-    await applyPullPage(db, page([{ seq: 3, entity: 'collar', id: A, rev: 2, deleted: false, record: collar(A, 2, { notes: 'old', code: 'C-01b' }) }], 3));
+    await applyPullPage(
+      db,
+      page([{ seq: 3, entity: 'collar', id: A, rev: 2, deleted: false, record: collar(A, 2, { notes: 'old', code: 'C-01b' }) }], 3),
+    );
 
     const rec = await db.records('collar').get(A);
     expect(rec).toMatchObject({ rev: 2, code: 'C-01b', notes: 'mine' });
@@ -42,7 +51,10 @@ describe('applying pull pages', () => {
   it('when a page holds an older rev than the copy from a push answer, then the newer copy is kept', async () => {
     const db = testDb();
     await db.records('collar').put(collar(A, 5, { notes: 'rev 5' }));
-    await applyPullPage(db, page([{ seq: 3, entity: 'collar', id: A, rev: 4, deleted: false, record: collar(A, 4, { notes: 'rev 4' }) }], 3));
+    await applyPullPage(
+      db,
+      page([{ seq: 3, entity: 'collar', id: A, rev: 4, deleted: false, record: collar(A, 4, { notes: 'rev 4' }) }], 3),
+    );
     expect((await db.records('collar').get(A))?.['notes']).toBe('rev 5');
   });
 
@@ -50,7 +62,12 @@ describe('applying pull pages', () => {
     const db = testDb();
     await db.records('collar').bulkPut([collar(A, 2), collar(B, 1)]);
     await saveEdit(db, 'collar', A, { notes: 'unsent edit' });
-    const made = await createRecord(db, 'collar', { siteId: collar(A, 0)['siteId'], code: 'NEW', plotId: collar(A, 0)['plotId'], diameterCm: 20 });
+    const made = await createRecord(db, 'collar', {
+      siteId: collar(A, 0)['siteId'],
+      code: 'NEW',
+      plotId: collar(A, 0)['plotId'],
+      diameterCm: 20,
+    });
     await db.meta.put({ key: 'pullCursor', value: 40 });
 
     await resetForRedownload(db);
@@ -60,7 +77,10 @@ describe('applying pull pages', () => {
     expect(await db.records('collar').get(B)).toBeUndefined();
     expect((await db.records('collar').get(made.id))?.['code']).toBe('NEW');
     // The full download then brings A back with the queued edit over it.
-    await applyPullPage(db, page([{ seq: 50, entity: 'collar', id: A, rev: 3, deleted: false, record: collar(A, 3, { notes: 'server' }) }], 50));
+    await applyPullPage(
+      db,
+      page([{ seq: 50, entity: 'collar', id: A, rev: 3, deleted: false, record: collar(A, 3, { notes: 'server' }) }], 50),
+    );
     expect((await db.records('collar').get(A))?.['notes']).toBe('unsent edit');
   });
 });
@@ -76,7 +96,10 @@ describe('applying push answers', () => {
 
     const batch = await takeBatch(db);
 
-    expect(batch.map((o) => [o.id, o.fields['notes']])).toEqual([[A, '1'], [B, 'b']]);
+    expect(batch.map((o) => [o.id, o.fields['notes']])).toEqual([
+      [A, '1'],
+      [B, 'b'],
+    ]);
     expect((await db.outbox.toArray()).filter((o) => o.sentAt !== null)).toHaveLength(2);
   });
 
@@ -101,7 +124,12 @@ describe('applying push answers', () => {
 
     const tally = await applyPushResults(db, sent, [
       { opId: sent[0].opId, status: 'applied', rev: 2, record: collar(A, 2, { notes: 'a1' }) },
-      { opId: sent[1].opId, status: 'conflict', rev: 3, conflict: { fields: ['notes'], server: collar(B, 3, { notes: 'lead' }), serverRev: 3 } },
+      {
+        opId: sent[1].opId,
+        status: 'conflict',
+        rev: 3,
+        conflict: { fields: ['notes'], server: collar(B, 3, { notes: 'lead' }), serverRev: 3 },
+      },
       { opId: sent[2].opId, status: 'rejected', error: { message: 'Only a lead may change code of a collar' } },
     ]);
 
@@ -123,7 +151,13 @@ describe('applying push answers', () => {
     await saveEdit(db, 'collar', A, { notes: 'a1' });
     const sent = await takeBatch(db);
     const tally = await applyPushResults(db, sent, [
-      { opId: sent[0].opId, status: 'duplicate', originalStatus: 'conflict', rev: 4, conflict: { fields: ['notes'], server: null, serverRev: 4 } },
+      {
+        opId: sent[0].opId,
+        status: 'duplicate',
+        originalStatus: 'conflict',
+        rev: 4,
+        conflict: { fields: ['notes'], server: null, serverRev: 4 },
+      },
     ]);
     expect(tally.conflicts).toBe(1);
     expect(await db.conflicts.count()).toBe(1);

@@ -8,7 +8,18 @@ import { until } from '../db/testing/until';
 import { DeviceDb } from '../db/device-db';
 import { DeviceRemoval } from './device-removal';
 
-const OP = { opId: 'op-1', entity: 'collar', id: 'c-1', baseRev: null, op: 'upsert', fields: { code: 'A1' }, base: {}, sentAt: null, createdAt: 'now', updatedAt: 'now' } as const;
+const OP = {
+  opId: 'op-1',
+  entity: 'collar',
+  id: 'c-1',
+  baseRev: null,
+  op: 'upsert',
+  fields: { code: 'A1' },
+  base: {},
+  sentAt: null,
+  createdAt: 'now',
+  updatedAt: 'now',
+} as const;
 
 async function answerSignOut(): Promise<void> {
   const backend = TestBed.inject(HttpTestingController);
@@ -24,12 +35,22 @@ describe('DeviceRemoval', () => {
   it('when a device holds unsynced work, refused changes and conflicts, then they are counted before anything is removed', async () => {
     const { db } = await signedInDevice();
     await db.outbox.add({ ...OP });
-    await db.rejected.add({ opId: 'op-2', entity: 'collar', id: 'c-2', op: 'upsert', fields: {}, baseRev: 1, message: 'no', problems: [], at: 'now' });
+    await db.rejected.add({
+      opId: 'op-2',
+      entity: 'collar',
+      id: 'c-2',
+      op: 'upsert',
+      fields: {},
+      baseRev: 1,
+      message: 'no',
+      problems: [],
+      at: 'now',
+    });
     await db.blobs.add({ attachmentId: 'a-1', blob: new Blob(['x']), mediaType: 'text/csv', createdAt: 'now', uploadedAt: null });
     expect(await TestBed.inject(DeviceRemoval).unsaved()).toEqual({ pending: 2, refused: 1, conflicts: 0 });
   });
 
-  it('when the user signs out and removes the device data, then their database and every value kept for them are gone; others\' stay', async () => {
+  it("when the user signs out and removes the device data, then their database and every value kept for them are gone; others' stay", async () => {
     const { db, userId } = await signedInDevice();
     await db.outbox.add({ ...OP });
     localStorage.setItem(`fw.board.${userId}.progress.c1.all`, '{}');

@@ -4,7 +4,11 @@ import { DeviceDb } from '../db/device-db';
 import { DeviceMemory } from './device-memory';
 
 /** What would be lost with the device's data: unsynced changes and files, refused changes, open conflicts. */
-export interface Unsaved { pending: number; refused: number; conflicts: number }
+export interface Unsaved {
+  pending: number;
+  refused: number;
+  conflicts: number;
+}
 
 /**
  * "Sign out and remove this device's data", for a tablet that several people use: the user's own

@@ -18,11 +18,14 @@ const SINKS: [RegExp, string][] = [
   [/\bhtml:\s*[`'"]/, 'a divIcon takes an element built with mapText, not an HTML string'],
   [/\battribution:(?!\s*escapeHtml\()/, 'a tile attribution is escaped with escapeHtml'],
   [/innerHTML|outerHTML|insertAdjacentHTML|document\.write/, 'no HTML strings into the page'],
-  [/bypassSecurityTrust/, 'no bypass of Angular\'s sanitizer'],
+  [/bypassSecurityTrust/, "no bypass of Angular's sanitizer"],
 ];
 
 /** Markup that holds no record text: our own constant SVG shapes for the Board map's legend. */
-const ALLOWED = new Set(['features/board/board-map.ts: no HTML strings into the page', 'features/board/board-map.ts: no bypass of Angular\'s sanitizer']);
+const ALLOWED = new Set([
+  'features/board/board-map.ts: no HTML strings into the page',
+  "features/board/board-map.ts: no bypass of Angular's sanitizer",
+]);
 
 describe('Record text reaches the page as text', () => {
   it('when a code holds HTML, then mapText keeps it as the text of one span', () => {
@@ -37,9 +40,11 @@ describe('Record text reaches the page as text', () => {
     const found: string[] = [];
     for (const file of sources(APP)) {
       const rel = relative(APP, file);
-      readFileSync(file, 'utf8').split('\n').forEach((line, i) => {
-        for (const [re, rule] of SINKS) if (re.test(line) && !ALLOWED.has(`${rel}: ${rule}`)) found.push(`${rel}:${i + 1} ${rule}`);
-      });
+      readFileSync(file, 'utf8')
+        .split('\n')
+        .forEach((line, i) => {
+          for (const [re, rule] of SINKS) if (re.test(line) && !ALLOWED.has(`${rel}: ${rule}`)) found.push(`${rel}:${i + 1} ${rule}`);
+        });
     }
     expect(found).toEqual([]);
   });

@@ -11,7 +11,9 @@ let destroyed = 0;
 @Component({ selector: 'fw-test-list', template: '<p>list</p>', changeDetection: ChangeDetectionStrategy.OnPush })
 class ListScreen implements OnDestroy {
   readonly no = ++made;
-  ngOnDestroy(): void { destroyed++; }
+  ngOnDestroy(): void {
+    destroyed++;
+  }
 }
 
 @Component({ selector: 'fw-test-detail', template: '<p>detail</p>', changeDetection: ChangeDetectionStrategy.OnPush })

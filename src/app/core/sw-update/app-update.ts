@@ -39,7 +39,12 @@ export class AppUpdate {
       )
       .subscribe(() => this.ready.set(true));
     this.sw.unrecoverable.pipe(first(), takeUntilDestroyed(this.destroyRef)).subscribe(() => {
-      this.pending$.pipe(filter((n) => n === 0), first()).subscribe(() => this.reloadPage());
+      this.pending$
+        .pipe(
+          filter((n) => n === 0),
+          first(),
+        )
+        .subscribe(() => this.reloadPage());
     });
     // Field devices stay open for days: look again periodically and whenever the app comes back
     // to the foreground.

@@ -12,7 +12,15 @@ import { SyncEngine } from './sync-engine';
 import { until } from '../db/testing/until';
 
 const SHA = 'a'.repeat(64);
-const fields = { siteId: SITE, ownerEntity: 'closure', ownerId: '33333333-3333-4333-8333-333333333333', fileName: 'day.csv', mediaType: 'text/csv', sizeBytes: 5, sha256: SHA };
+const fields = {
+  siteId: SITE,
+  ownerEntity: 'closure',
+  ownerId: '33333333-3333-4333-8333-333333333333',
+  fileName: 'day.csv',
+  mediaType: 'text/csv',
+  sizeBytes: 5,
+  sha256: SHA,
+};
 // jsdom's Blob does not survive fake-indexeddb's structured clone, so the tests keep a stand-in
 // value in the blob column; the upload passes it through untouched, which is what is checked.
 const BYTES = 'bytes-of-day.csv' as unknown as Blob;
@@ -50,7 +58,9 @@ describe('uploadPendingBlobs', () => {
   it('when the PUT fails, then the blob stays queued with the reason, the error is thrown, and a later round sends it', async () => {
     const db = testDb();
     const id = await keep(db, 1);
-    const failing = jest.fn(async () => { throw new SyncFailed({ kind: 'server', status: 503, message: 'File storage is not configured' }); });
+    const failing = jest.fn(async () => {
+      throw new SyncFailed({ kind: 'server', status: 503, message: 'File storage is not configured' });
+    });
     await expect(uploadPendingBlobs(db, failing)).rejects.toThrow('File storage is not configured');
     expect(await db.blobs.get(id)).toMatchObject({ uploadedAt: null, attempts: 1, lastError: 'File storage is not configured' });
     const ok = jest.fn(async () => ({ ...fields, id, rev: 2, objectKey: 'k' }));
@@ -72,7 +82,13 @@ describe('SyncEngine upload step', () => {
   afterEach(() => localStorage.clear());
 
   it('when a round runs, then push acknowledges the record, the bytes are PUT, and the pull still runs after a failed PUT', async () => {
-    localStorage.setItem('fw.session', JSON.stringify({ user: { id: '00000099-0000-4000-8000-000000000000', email: 'crew@fluxwalk.example', roles: ['crew'], siteIds: [] }, sites: [] }));
+    localStorage.setItem(
+      'fw.session',
+      JSON.stringify({
+        user: { id: '00000099-0000-4000-8000-000000000000', email: 'crew@fluxwalk.example', roles: ['crew'], siteIds: [] },
+        sites: [],
+      }),
+    );
     TestBed.configureTestingModule({ providers: [provideHttpClient(), provideHttpClientTesting()] });
     const engine = TestBed.inject(SyncEngine);
     const deviceDb = TestBed.inject(DeviceDb);
@@ -80,11 +96,21 @@ describe('SyncEngine upload step', () => {
     const db: FluxDb = await until(() => deviceDb.db(), 'the database');
     await deviceDb.deviceIdNow();
     const rec: LocalRecord = await createRecord(db, 'attachment', fields);
-    await db.blobs.put({ attachmentId: rec.id, blob: BYTES, mediaType: 'text/csv', createdAt: '2025-06-12T07:00:00.000Z', uploadedAt: null });
+    await db.blobs.put({
+      attachmentId: rec.id,
+      blob: BYTES,
+      mediaType: 'text/csv',
+      createdAt: '2025-06-12T07:00:00.000Z',
+      uploadedAt: null,
+    });
 
     const done = engine.syncNow();
     const push = await until(() => http.match('/api/sync/push')[0], 'push');
-    push.flush({ results: [{ opId: push.request.body.ops[0].opId, status: 'applied', rev: 1, record: { ...fields, id: rec.id, rev: 1, objectKey: null } }] });
+    push.flush({
+      results: [
+        { opId: push.request.body.ops[0].opId, status: 'applied', rev: 1, record: { ...fields, id: rec.id, rev: 1, objectKey: null } },
+      ],
+    });
     const put = await until(() => http.match(`/api/attachments/${rec.id}/content`)[0], 'the PUT');
     expect(put.request.method).toBe('PUT');
     expect(put.request.headers.get('Content-Type')).toBe('text/csv');

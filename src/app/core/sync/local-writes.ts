@@ -43,7 +43,11 @@ export class LocalWrites {
    * A new record and a file that belongs to it (a leak check and the logger file it was fitted
    * from): record, attachment record and bytes in one transaction, so neither is kept alone.
    */
-  async createWithFile(entity: SyncEntityName & AttachmentOwner, fields: Record<string, unknown>, file: { blob: Blob; fileName: string; mediaType: string }): Promise<{ record: LocalRecord; attachmentId: string }> {
+  async createWithFile(
+    entity: SyncEntityName & AttachmentOwner,
+    fields: Record<string, unknown>,
+    file: { blob: Blob; fileName: string; mediaType: string },
+  ): Promise<{ record: LocalRecord; attachmentId: string }> {
     const id = uuidv4();
     const owner = { siteId: String(fields['siteId']), ownerEntity: entity, ownerId: id };
     const attachment = await attachmentFor(owner, file.blob, file.fileName, file.mediaType);
@@ -51,7 +55,8 @@ export class LocalWrites {
       db.transaction('rw', [db.records(entity), db.records('attachment'), db.outbox, db.blobs], async () => {
         const record = await createRecord(db, entity, fields, { id });
         return { record, attachmentId: await keepFile(db, attachment, file.blob) };
-      }));
+      }),
+    );
     this.engine.requestSync('create');
     return result;
   }

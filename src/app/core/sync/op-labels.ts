@@ -2,9 +2,21 @@ import type { SyncEntityName } from '../../../../shared/model/entity-names';
 import type { FluxDb, LocalRecord } from '../db/db-schema';
 
 const NAMES: Record<SyncEntityName, string> = {
-  site: 'Site', block: 'Block', treatment: 'Treatment', plot: 'Plot', collar: 'Collar', collarEvent: 'Collar event',
-  chamberProfile: 'Chamber profile', analyzer: 'Analyzer', analyzerCheck: 'Analyzer check', route: 'Route',
-  campaign: 'Campaign', visit: 'Visit', offsetSet: 'Offset set', probeReading: 'Probe reading', closure: 'Closure',
+  site: 'Site',
+  block: 'Block',
+  treatment: 'Treatment',
+  plot: 'Plot',
+  collar: 'Collar',
+  collarEvent: 'Collar event',
+  chamberProfile: 'Chamber profile',
+  analyzer: 'Analyzer',
+  analyzerCheck: 'Analyzer check',
+  route: 'Route',
+  campaign: 'Campaign',
+  visit: 'Visit',
+  offsetSet: 'Offset set',
+  probeReading: 'Probe reading',
+  closure: 'Closure',
   attachment: 'Attachment',
 };
 
@@ -31,7 +43,12 @@ export async function labelsFor(db: FluxDb, items: { entity: SyncEntityName; id:
 }
 
 const FIELD_LABELS: Record<string, string> = {
-  notes: 'notes', status: 'status', statusReason: 'reason', code: 'code', plotId: 'plot', treatmentId: 'treatment',
+  notes: 'notes',
+  status: 'status',
+  statusReason: 'reason',
+  code: 'code',
+  plotId: 'plot',
+  treatmentId: 'treatment',
 };
 
 export function fieldLabel(field: string): string {

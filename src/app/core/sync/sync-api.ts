@@ -49,8 +49,11 @@ export class SyncApi {
   /** The bytes of an attachment whose record has synced; answers the server's record (with objectKey). */
   async putAttachment(id: string, mediaType: string, blob: Blob): Promise<Record<string, unknown>> {
     try {
-      const res = await firstValueFrom(this.http.put<{ record: Record<string, unknown> }>(
-        `/api/attachments/${encodeURIComponent(id)}/content`, blob, { headers: { 'Content-Type': mediaType } }));
+      const res = await firstValueFrom(
+        this.http.put<{ record: Record<string, unknown> }>(`/api/attachments/${encodeURIComponent(id)}/content`, blob, {
+          headers: { 'Content-Type': mediaType },
+        }),
+      );
       return res.record;
     } catch (err) {
       throw new SyncFailed(classify(err));

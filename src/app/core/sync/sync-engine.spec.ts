@@ -17,7 +17,10 @@ let userNo = 0;
 
 async function setUp() {
   const userId = `0000000${++userNo}-0000-4000-8000-000000000000`.slice(-36);
-  localStorage.setItem('fw.session', JSON.stringify({ user: { id: userId, email: 'crew@fluxwalk.example', roles: ['crew'], siteIds: [] }, sites: [] }));
+  localStorage.setItem(
+    'fw.session',
+    JSON.stringify({ user: { id: userId, email: 'crew@fluxwalk.example', roles: ['crew'], siteIds: [] }, sites: [] }),
+  );
   TestBed.configureTestingModule({ providers: [provideHttpClient(), provideHttpClientTesting()] });
   const engine = TestBed.inject(SyncEngine);
   const deviceDb = TestBed.inject(DeviceDb);
@@ -49,7 +52,9 @@ describe('SyncEngine', () => {
     const done = engine.syncNow();
 
     const push = await request(http, '/api/sync/push');
-    expect(push.request.body.ops).toEqual([{ opId: op!.opId, entity: 'collar', id: A, baseRev: 1, op: 'upsert', fields: { notes: 'from the field' } }]);
+    expect(push.request.body.ops).toEqual([
+      { opId: op!.opId, entity: 'collar', id: A, baseRev: 1, op: 'upsert', fields: { notes: 'from the field' } },
+    ]);
     push.flush({ results: [{ opId: op!.opId, status: 'applied', rev: 2, record: collar(A, 2, { notes: 'from the field' }) }] });
     const first = await request(http, '/api/sync/pull');
     expect(first.request.params.get('cursor')).toBe('0');
@@ -107,7 +112,13 @@ describe('SyncEngine', () => {
   it('when a file waits for upload, then it counts in "n not yet synced" and holds back an update reload until it is uploaded', async () => {
     const { engine, db, pending } = await setUp();
     await db.records('collar').put(collar(A, 1));
-    await db.blobs.put({ attachmentId: B, blob: new Blob(['timestamp,co2_ppm\n']), mediaType: 'text/csv', createdAt: '2025-06-12T07:00:00.000Z', uploadedAt: null });
+    await db.blobs.put({
+      attachmentId: B,
+      blob: new Blob(['timestamp,co2_ppm\n']),
+      mediaType: 'text/csv',
+      createdAt: '2025-06-12T07:00:00.000Z',
+      uploadedAt: null,
+    });
     await until(() => engine.filesWaiting() === 1, 'the file count');
     expect(engine.pending()).toBe(1);
     expect(engine.view().label).toBe('1 not yet synced');

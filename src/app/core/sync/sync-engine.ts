@@ -36,17 +36,37 @@ export class SyncEngine {
   private readonly pendingWork = inject(PendingWorkGuard);
   private readonly destroyRef = inject(DestroyRef);
 
-  private readonly queuedOps = liveSignal(() => null, (db) => db.outbox.count(), 0);
+  private readonly queuedOps = liveSignal(
+    () => null,
+    (db) => db.outbox.count(),
+    0,
+  );
   /** Files (logger exports, photos) whose bytes have not reached object storage yet. */
-  readonly filesWaiting = liveSignal(() => null, (db) => db.blobs.filter((b) => b.uploadedAt === null).count(), 0);
+  readonly filesWaiting = liveSignal(
+    () => null,
+    (db) => db.blobs.filter((b) => b.uploadedAt === null).count(),
+    0,
+  );
   /** "n not yet synced": queued changes plus files waiting for upload (a file is not safe until uploaded). */
   readonly pending = computed(() => this.queuedOps() + this.filesWaiting());
-  readonly conflicts = liveSignal(() => null, (db) => db.conflicts.count(), 0);
-  readonly rejected = liveSignal(() => null, (db) => db.rejected.count(), 0);
-  readonly lastSuccess = liveSignal(() => null, async (db) => {
-    const v = (await db.meta.get(META.lastSync))?.value;
-    return typeof v === 'string' ? v : null;
-  }, null as string | null);
+  readonly conflicts = liveSignal(
+    () => null,
+    (db) => db.conflicts.count(),
+    0,
+  );
+  readonly rejected = liveSignal(
+    () => null,
+    (db) => db.rejected.count(),
+    0,
+  );
+  readonly lastSuccess = liveSignal(
+    () => null,
+    async (db) => {
+      const v = (await db.meta.get(META.lastSync))?.value;
+      return typeof v === 'string' ? v : null;
+    },
+    null as string | null,
+  );
 
   private readonly phase = signal<SyncFacts['phase']>('idle');
   private readonly pushed = signal(0);
@@ -55,10 +75,18 @@ export class SyncEngine {
   private readonly error = signal<string | null>(null);
   readonly lastError = this.error.asReadonly();
 
-  readonly view = computed(() => describeSync({
-    pending: this.pending(), phase: this.phase(), pushed: this.pushed(), pushTotal: this.pushTotal(), pulled: this.pulled(),
-    offline: this.connection.offline(), needsSignIn: this.expiry.expired(), error: this.error(),
-  }));
+  readonly view = computed(() =>
+    describeSync({
+      pending: this.pending(),
+      phase: this.phase(),
+      pushed: this.pushed(),
+      pushTotal: this.pushTotal(),
+      pulled: this.pulled(),
+      offline: this.connection.offline(),
+      needsSignIn: this.expiry.expired(),
+      error: this.error(),
+    }),
+  );
 
   private readonly requests = new Subject<string>();
   private started = false;
@@ -67,7 +95,10 @@ export class SyncEngine {
   private again = false;
 
   private readonly signedIn$ = toObservable(computed(() => this.auth.user()?.id ?? null)).pipe(filter((id) => id !== null));
-  private readonly signedInAgain$ = toObservable(this.expiry.expired).pipe(pairwise(), filter(([was, is]) => was && !is));
+  private readonly signedInAgain$ = toObservable(this.expiry.expired).pipe(
+    pairwise(),
+    filter(([was, is]) => was && !is),
+  );
 
   constructor() {
     // The update prompt must not reload over unsent work without saying so.
@@ -146,8 +177,12 @@ export class SyncEngine {
       await this.pushAll(db, deviceId);
       // Bytes of attachments whose records the push just delivered. A failed upload must not hold
       // back the pull (e.g. storage down for hours): it is thrown after it, for the back-off.
-      const uploadFailure = await this.deviceDb.run((d) => uploadPendingBlobs(d, (id, type, blob) => this.api.putAttachment(id, type, blob)))
-        .then(() => null, (err: unknown) => err);
+      const uploadFailure = await this.deviceDb
+        .run((d) => uploadPendingBlobs(d, (id, type, blob) => this.api.putAttachment(id, type, blob)))
+        .then(
+          () => null,
+          (err: unknown) => err,
+        );
       await this.pullAll(db, deviceId);
       if (uploadFailure) throw uploadFailure;
       await this.deviceDb.run((d) => d.meta.put({ key: META.lastSync, value: new Date().toISOString() }));
@@ -191,7 +226,11 @@ export class SyncEngine {
           continue;
         }
         if (err instanceof SyncFailed && err.failure.kind === 'tooLarge') {
-          results = batch.map((op) => ({ opId: op.opId, status: 'rejected' as const, error: { message: 'This change is larger than the server accepts in one request' } }));
+          results = batch.map((op) => ({
+            opId: op.opId,
+            status: 'rejected' as const,
+            error: { message: 'This change is larger than the server accepts in one request' },
+          }));
         } else {
           throw err;
         }
@@ -219,7 +258,13 @@ export class SyncEngine {
       await this.pullPages(deviceId, 0, t);
     }
     const ms = Math.round(performance.now() - started);
-    const value = { ms, fetchMs: Math.round(t.fetchMs), writeMs: Math.round(t.writeMs), records: this.pulled(), at: new Date().toISOString() };
+    const value = {
+      ms,
+      fetchMs: Math.round(t.fetchMs),
+      writeMs: Math.round(t.writeMs),
+      records: this.pulled(),
+      at: new Date().toISOString(),
+    };
     await this.deviceDb.run((d) => d.meta.put({ key: META.lastPull, value }));
   }
 
@@ -248,5 +293,4 @@ export class SyncEngine {
       if (!answer.more) return;
     }
   }
-
 }

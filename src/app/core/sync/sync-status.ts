@@ -29,9 +29,15 @@ export function describeSync(f: SyncFacts): SyncView {
   if (f.needsSignIn) return { kind: 'signIn', label: `Sign in to sync${tail}`, icon: 'lock_clock' };
   if (f.phase === 'pushing') {
     const k = Math.min(f.pushed, f.pushTotal);
-    return { kind: 'pushing', label: `Pushing ${k} of ${f.pushTotal}`, icon: 'cloud_upload', progress: f.pushTotal ? (100 * k) / f.pushTotal : 0 };
+    return {
+      kind: 'pushing',
+      label: `Pushing ${k} of ${f.pushTotal}`,
+      icon: 'cloud_upload',
+      progress: f.pushTotal ? (100 * k) / f.pushTotal : 0,
+    };
   }
-  if (f.phase === 'pulling') return { kind: 'pulling', label: f.pulled ? `Pulling · ${f.pulled} records` : 'Pulling', icon: 'cloud_download', progress: null };
+  if (f.phase === 'pulling')
+    return { kind: 'pulling', label: f.pulled ? `Pulling · ${f.pulled} records` : 'Pulling', icon: 'cloud_download', progress: null };
   if (f.offline) return { kind: 'offline', label: `Offline${tail}`, icon: 'cloud_off' };
   if (f.error) return { kind: 'error', label: `Sync error${tail}`, icon: 'sync_problem' };
   if (f.pending > 0) return { kind: 'unsynced', label: notYetSynced(f.pending), icon: 'cloud_sync' };

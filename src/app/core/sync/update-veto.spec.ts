@@ -30,7 +30,12 @@ describe('update prompt with unsent work', () => {
   it('when ops are not yet synced, then "Reload" says how many and reloads only on "Reload anyway"', async () => {
     const sw = new FakeSwUpdate();
     const reload = jest.fn();
-    TestBed.configureTestingModule({ providers: [{ provide: SwUpdate, useValue: sw }, { provide: RELOAD_PAGE, useValue: reload }] });
+    TestBed.configureTestingModule({
+      providers: [
+        { provide: SwUpdate, useValue: sw },
+        { provide: RELOAD_PAGE, useValue: reload },
+      ],
+    });
     TestBed.inject(AppUpdate).start();
     TestBed.createComponent(App);
     TestBed.inject(PendingWorkGuard).report(2);

@@ -26,7 +26,9 @@ export class AccountApi {
   }
 
   async acceptInvitation(token: string, displayName: string, password: string): Promise<{ email: string }> {
-    return (await firstValueFrom(this.http.post<{ account: { email: string } }>('/api/invitations/accept', { token, displayName, password }))).account;
+    return (
+      await firstValueFrom(this.http.post<{ account: { email: string } }>('/api/invitations/accept', { token, displayName, password }))
+    ).account;
   }
 
   async invite(email: string, roles: Role[], siteIds: string[]): Promise<OpenInvitation> {

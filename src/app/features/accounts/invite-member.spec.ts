@@ -12,14 +12,31 @@ describe('InviteMember: expiry in the site’s zone', () => {
     localStorage.clear();
     rememberOnDevice(testUser(['admin']), [{ id: 'site-a', name: 'Hollow Creek Meadow', timezone: 'Pacific/Auckland' }]);
     // 20:30 UTC on 1 June is 08:30 on 2 June in Auckland (NZST, UTC+12).
-    const open: OpenInvitation[] = [{ id: 'i1', email: 'new@fluxwalk.example', roles: ['crew'], sites: [{ id: 'site-a', name: 'Hollow Creek Meadow' }],
-      expiresAt: '2026-06-01T20:30:00.000Z', invitedBy: 'Admin', createdAt: '2026-05-25T20:30:00.000Z' }];
-    TestBed.configureTestingModule({ imports: [InviteMember], providers: [provideHttpClient(), provideHttpClientTesting(),
-      { provide: AccountApi, useValue: { openInvitations: async () => open } as Partial<AccountApi> }] });
+    const open: OpenInvitation[] = [
+      {
+        id: 'i1',
+        email: 'new@fluxwalk.example',
+        roles: ['crew'],
+        sites: [{ id: 'site-a', name: 'Hollow Creek Meadow' }],
+        expiresAt: '2026-06-01T20:30:00.000Z',
+        invitedBy: 'Admin',
+        createdAt: '2026-05-25T20:30:00.000Z',
+      },
+    ];
+    TestBed.configureTestingModule({
+      imports: [InviteMember],
+      providers: [
+        provideHttpClient(),
+        provideHttpClientTesting(),
+        { provide: AccountApi, useValue: { openInvitations: async () => open } as Partial<AccountApi> },
+      ],
+    });
     const fixture = TestBed.createComponent(InviteMember);
     await settle();
     await fixture.whenStable();
     fixture.detectChanges();
-    expect((fixture.nativeElement as HTMLElement).querySelector('ul.open .meta')!.textContent).toContain('valid until 2026-06-02 08:30 NZST');
+    expect((fixture.nativeElement as HTMLElement).querySelector('ul.open .meta')!.textContent).toContain(
+      'valid until 2026-06-02 08:30 NZST',
+    );
   });
 });

@@ -20,15 +20,51 @@ import { describeAccountError } from './password-hint';
   imports: [ReactiveFormsModule, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatInputModule],
   templateUrl: './invite-member.html',
   styles: `
-    .page { max-width: 640px; padding: 16px; }
-    form { display: flex; flex-direction: column; gap: 4px; }
-    fieldset { border: 1px solid var(--mat-sys-outline-variant); border-radius: 8px; margin: 0 0 12px; padding: 8px 12px; }
-    legend { padding: 0 4px; }
-    .problem { color: var(--mat-sys-error); font-weight: 600; margin: 0; }
-    .done { color: var(--mat-sys-primary); font-weight: 600; margin: 0; }
-    ul.open { list-style: none; padding: 0; }
-    ul.open li { display: flex; gap: 12px; align-items: center; justify-content: space-between; border-top: 1px solid var(--mat-sys-outline-variant); padding: 6px 0; }
-    .meta { font-size: .85rem; color: var(--mat-sys-on-surface-variant); display: block; }
+    .page {
+      max-width: 640px;
+      padding: 16px;
+    }
+    form {
+      display: flex;
+      flex-direction: column;
+      gap: 4px;
+    }
+    fieldset {
+      border: 1px solid var(--mat-sys-outline-variant);
+      border-radius: 8px;
+      margin: 0 0 12px;
+      padding: 8px 12px;
+    }
+    legend {
+      padding: 0 4px;
+    }
+    .problem {
+      color: var(--mat-sys-error);
+      font-weight: 600;
+      margin: 0;
+    }
+    .done {
+      color: var(--mat-sys-primary);
+      font-weight: 600;
+      margin: 0;
+    }
+    ul.open {
+      list-style: none;
+      padding: 0;
+    }
+    ul.open li {
+      display: flex;
+      gap: 12px;
+      align-items: center;
+      justify-content: space-between;
+      border-top: 1px solid var(--mat-sys-outline-variant);
+      padding: 6px 0;
+    }
+    .meta {
+      font-size: 0.85rem;
+      color: var(--mat-sys-on-surface-variant);
+      display: block;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -28,54 +28,154 @@ export interface QueueFilter {
   recomputedSinceReview?: boolean;
 }
 
-export interface RecomputedMark { oldFluxUmolM2S: number | null; newFluxUmolM2S: number | null; at: string; reason: string }
+export interface RecomputedMark {
+  oldFluxUmolM2S: number | null;
+  newFluxUmolM2S: number | null;
+  at: string;
+  reason: string;
+}
 /** Raw data changed after the last review decision (the change sent the closure back to review). */
-export interface ChangedMark { at: string; userName: string | null; fields: string[]; previousState: string | null }
+export interface ChangedMark {
+  at: string;
+  userName: string | null;
+  fields: string[];
+  previousState: string | null;
+}
 
 export interface QueueItem {
-  id: string; rev: number; siteId: string; campaignId: string; visitId: string; collarId: string; startedAt: string; day: string;
-  settleS: number; flags: string[]; fluxUmolM2S: number | null; reviewState: string; reviewReason: string | null;
-  reviewSettleS: number | null; reviewWindowEndS: number | null; reviewModel: string | null;
-  recomputedSinceReview: RecomputedMark | null; changedSinceReview: ChangedMark | null; collarCode: string; plotCode: string; blockCode: string | null;
-  treatmentCode: string | null; campaignName: string; round: number; rain24h: boolean; daysSinceInstall: number | null;
-  daysSinceClipping: number | null; calibrationAgeDays: number | null; calibrationDriftPpm: number | null; leakFailed: boolean;
-  calibrationIntervalDays: number | null; calibrationDriftPct: number | null; calibrationDriftLimitPct: number;
+  id: string;
+  rev: number;
+  siteId: string;
+  campaignId: string;
+  visitId: string;
+  collarId: string;
+  startedAt: string;
+  day: string;
+  settleS: number;
+  flags: string[];
+  fluxUmolM2S: number | null;
+  reviewState: string;
+  reviewReason: string | null;
+  reviewSettleS: number | null;
+  reviewWindowEndS: number | null;
+  reviewModel: string | null;
+  recomputedSinceReview: RecomputedMark | null;
+  changedSinceReview: ChangedMark | null;
+  collarCode: string;
+  plotCode: string;
+  blockCode: string | null;
+  treatmentCode: string | null;
+  campaignName: string;
+  round: number;
+  rain24h: boolean;
+  daysSinceInstall: number | null;
+  daysSinceClipping: number | null;
+  calibrationAgeDays: number | null;
+  calibrationDriftPpm: number | null;
+  leakFailed: boolean;
+  calibrationIntervalDays: number | null;
+  calibrationDriftPct: number | null;
+  calibrationDriftLimitPct: number;
   /** The site's IANA zone: every time of the closure is shown in it. */
   timezone: string;
 }
 
-export interface Page<T> { items: T[]; total: number; limit: number; offset: number }
+export interface Page<T> {
+  items: T[];
+  total: number;
+  limit: number;
+  offset: number;
+}
 
-export interface FitNumbers { slopePpmS: number; fluxUmolM2S: number; r2: number; rmse: number; aic: number; aicc?: number; n: number;
+export interface FitNumbers {
+  slopePpmS: number;
+  fluxUmolM2S: number;
+  r2: number;
+  rmse: number;
+  aic: number;
+  aicc?: number;
+  n: number;
   /** Curved models: slope and flux at chamber closure (t = 0). */
-  slopeAtClosurePpmS?: number; fluxAtClosureUmolM2S?: number;
-  interceptPpm?: number; p1?: number; p2?: number; p3?: number; b0?: number; b1?: number; b2?: number }
+  slopeAtClosurePpmS?: number;
+  fluxAtClosureUmolM2S?: number;
+  interceptPpm?: number;
+  p1?: number;
+  p2?: number;
+  p3?: number;
+  b0?: number;
+  b1?: number;
+  b2?: number;
+}
 export interface FitResult {
-  linear: FitNumbers | null; exponential: FitNumbers | null; quadratic: FitNumbers | null;
+  linear: FitNumbers | null;
+  exponential: FitNumbers | null;
+  quadratic: FitNumbers | null;
   /** `basis` is absent on results stored before slope bases existed (they were on the settle end). */
-  selected: { model: 'linear' | 'exponential' | 'quadratic'; basis?: 'closure' | 'settle_end'; fluxUmolM2S: number; slopePpmS: number; reason: string } | null;
-  exponentialRejectedReason: string | null; flags: string[]; error: string | null;
-  window: { t0S: number; firstTS: number; lastTS: number; n: number } | null; minDetectableFluxUmolM2S: number | null;
+  selected: {
+    model: 'linear' | 'exponential' | 'quadratic';
+    basis?: 'closure' | 'settle_end';
+    fluxUmolM2S: number;
+    slopePpmS: number;
+    reason: string;
+  } | null;
+  exponentialRejectedReason: string | null;
+  flags: string[];
+  error: string | null;
+  window: { t0S: number; firstTS: number; lastTS: number; n: number } | null;
+  minDetectableFluxUmolM2S: number | null;
   /** Absent on results stored before the engine reported the precision it used. */
-  precisionPpm?: number | null; precisionIsDefault?: boolean;
+  precisionPpm?: number | null;
+  precisionIsDefault?: boolean;
 }
 
 export interface ClosureDetail {
-  closure: StoredClosure & { series: Record<string, (number | null)[] | null>;
-    results: { raw: FitResult; review: FitResult | null; volumeCm3: number | null; areaCm2: number | null; meanOffsetCm: number | null;
-      ambientPpm: number | null; pressureIsDefault: boolean; slopeBasis?: 'closure' | 'settle_end'; recomputedSinceReview?: RecomputedMark;
+  closure: StoredClosure & {
+    series: Record<string, (number | null)[] | null>;
+    results: {
+      raw: FitResult;
+      review: FitResult | null;
+      volumeCm3: number | null;
+      areaCm2: number | null;
+      meanOffsetCm: number | null;
+      ambientPpm: number | null;
+      pressureIsDefault: boolean;
+      slopeBasis?: 'closure' | 'settle_end';
+      recomputedSinceReview?: RecomputedMark;
       /** Absent on results stored before several chamber systems and the air-temperature order. */
-      profileName?: string | null; profileSource?: 'closure' | 'site-default' | 'only-chamber' | null; ambientCheckId?: string | null;
-      ambientAt?: string | null; airTempSource?: 'series' | 'visit' | 'site-default' | null; airTempC?: number | null } };
+      profileName?: string | null;
+      profileSource?: 'closure' | 'site-default' | 'only-chamber' | null;
+      ambientCheckId?: string | null;
+      ambientAt?: string | null;
+      airTempSource?: 'series' | 'visit' | 'site-default' | null;
+      airTempC?: number | null;
+    };
+  };
   context: QueueItem;
   offsetSet: { id: string; takenAt: string; readingsCm: number[]; meanCm: number; supersedesId: string | null } | null;
   profile: { id: string; name: string; validFrom: string; chamberVolumeCm3: number; loopVolumeCm3: number } | null;
   collarHistory: { id: string; startedAt: string; fluxUmolM2S: number | null; reviewState: string; flags: string[] }[];
-  replicates: { id: string; startedAt: string; fluxUmolM2S: number | null; reviewState: string; flags: string[]; settleS: number;
-    tS: (number | null)[]; co2Ppm: (number | null)[] }[];
+  replicates: {
+    id: string;
+    startedAt: string;
+    fluxUmolM2S: number | null;
+    reviewState: string;
+    flags: string[];
+    settleS: number;
+    tS: (number | null)[];
+    co2Ppm: (number | null)[];
+  }[];
   replicateSpread: { n: number; mean: number | null; sd: number | null; cvPct: number | null };
-  history: { id: number; at: string; kind: string; field: string; oldValue: unknown; newValue: unknown;
-    oldFluxUmolM2S: number | null; newFluxUmolM2S: number | null; userName: string | null }[];
+  history: {
+    id: number;
+    at: string;
+    kind: string;
+    field: string;
+    oldValue: unknown;
+    newValue: unknown;
+    oldFluxUmolM2S: number | null;
+    newFluxUmolM2S: number | null;
+    userName: string | null;
+  }[];
   /** The other visits of the closure's campaign (where the lab may move it). */
   moveTargets?: { visitId: string; round: number; collarId: string; collarCode: string }[];
   /** The site's chamber profile versions and analyzers (the lab may correct which a closure was made with). */
@@ -84,12 +184,26 @@ export interface ClosureDetail {
 
 /** What a recompute job reports (GET /api/jobs): how far it got and, when done, what it changed. */
 export interface RecomputeJob {
-  id: string; name: string; siteId: string | null; state: 'queued' | 'active' | 'completed' | 'failed'; done: number; total: number | null;
-  result: { examined: number; changed: number; lockedKept: number; changedIds: string[] } | null; error: string | null;
-  createdAt: string; startedAt: string | null; finishedAt: string | null;
+  id: string;
+  name: string;
+  siteId: string | null;
+  state: 'queued' | 'active' | 'completed' | 'failed';
+  done: number;
+  total: number | null;
+  result: { examined: number; changed: number; lockedKept: number; changedIds: string[] } | null;
+  error: string | null;
+  createdAt: string;
+  startedAt: string | null;
+  finishedAt: string | null;
 }
 
-export interface Named { id: string; code?: string; name?: string; rounds?: number; startsOn?: string }
+export interface Named {
+  id: string;
+  code?: string;
+  name?: string;
+  rounds?: number;
+  startsOn?: string;
+}
 
 /** The Bench reads the REST API (it runs at the station); decisions are plain review-field PATCHes. */
 @Injectable({ providedIn: 'root' })
@@ -112,8 +226,15 @@ export class BenchApi {
   /** Leaves points out of a closure's fit, or puts them back; answers the recomputed closure. */
   changePoints(id: string, change: PointsChange): Promise<{ record: StoredClosure }> {
     return 'exclude' in change
-      ? firstValueFrom(this.http.post<{ record: StoredClosure }>(`/api/bench/closures/${id}/exclusions`, { indices: change.exclude, reason: change.reason }))
-      : firstValueFrom(this.http.post<{ record: StoredClosure }>(`/api/bench/closures/${id}/exclusions/restore`, { indices: change.restore }));
+      ? firstValueFrom(
+          this.http.post<{ record: StoredClosure }>(`/api/bench/closures/${id}/exclusions`, {
+            indices: change.exclude,
+            reason: change.reason,
+          }),
+        )
+      : firstValueFrom(
+          this.http.post<{ record: StoredClosure }>(`/api/bench/closures/${id}/exclusions/restore`, { indices: change.restore }),
+        );
   }
 
   /** Moves a closure to another visit of its campaign; answers the recomputed closure. */
@@ -122,7 +243,9 @@ export class BenchApi {
   }
 
   bulkAccept(filter: QueueFilter): Promise<{ accepted: number; skipped: { id: string; reason: string }[] }> {
-    return firstValueFrom(this.http.post<{ accepted: number; skipped: { id: string; reason: string }[] }>('/api/bench/bulk-accept', filter));
+    return firstValueFrom(
+      this.http.post<{ accepted: number; skipped: { id: string; reason: string }[] }>('/api/bench/bulk-accept', filter),
+    );
   }
 
   /** Every campaign, plot, treatment or collar of a site (all pages: a site may hold more than one page of collars). */
@@ -132,7 +255,9 @@ export class BenchApi {
 
   /** Recent recompute jobs (newest first); the server lists those of the user's sites and site-less ones. */
   jobs(limit = 20): Promise<{ items: RecomputeJob[] }> {
-    return firstValueFrom(this.http.get<{ items: RecomputeJob[] }>('/api/jobs', { params: toParams({ name: 'closure-recompute', limit }) }));
+    return firstValueFrom(
+      this.http.get<{ items: RecomputeJob[] }>('/api/jobs', { params: toParams({ name: 'closure-recompute', limit }) }),
+    );
   }
 
   job(id: string): Promise<RecomputeJob> {

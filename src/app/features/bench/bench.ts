@@ -22,7 +22,17 @@ const SETTLE_STEP_S = 5;
  */
 @Component({
   selector: 'fw-bench',
-  imports: [BenchResults, ClosureView, DecimalPipe, FlagWordsPipe, MatButtonModule, MatListModule, QueueFilters, RecomputePanel, RouterLink],
+  imports: [
+    BenchResults,
+    ClosureView,
+    DecimalPipe,
+    FlagWordsPipe,
+    MatButtonModule,
+    MatListModule,
+    QueueFilters,
+    RecomputePanel,
+    RouterLink,
+  ],
   templateUrl: './bench.html',
   styleUrl: './bench.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -78,15 +88,38 @@ export class Bench {
     if (!det || this.busy()) return;
     this.busy.set(true);
     try {
-      const { record } = d.move ? await this.api.move(det.closure.id, d.move)
-        : d.points ? await this.api.changePoints(det.closure.id, d.points) : await this.api.decide(det.closure.id, det.closure.rev, d.fields);
+      const { record } = d.move
+        ? await this.api.move(det.closure.id, d.move)
+        : d.points
+          ? await this.api.changePoints(det.closure.id, d.points)
+          : await this.api.decide(det.closure.id, det.closure.rev, d.fields);
       const i = this.index();
-      this.items.update((list) => list.map((x) => (x.id === record.id ? { ...x, rev: record.rev, reviewState: record.reviewState,
-        fluxUmolM2S: record.fluxUmolM2S, flags: record.flags, recomputedSinceReview: null,
-        changedSinceReview: d.fields['reviewState'] ? null : x.changedSinceReview } : x)));
-      this.message.set(d.fields['reviewState'] ? `Closure ${d.fields['reviewState']}`
-        : d.move ? 'Moved to the other visit and recomputed'
-        : d.points ? ('exclude' in d.points ? 'Recomputed without those points' : 'Recomputed with those points back') : 'Recomputed with the new settings');
+      this.items.update((list) =>
+        list.map((x) =>
+          x.id === record.id
+            ? {
+                ...x,
+                rev: record.rev,
+                reviewState: record.reviewState,
+                fluxUmolM2S: record.fluxUmolM2S,
+                flags: record.flags,
+                recomputedSinceReview: null,
+                changedSinceReview: d.fields['reviewState'] ? null : x.changedSinceReview,
+              }
+            : x,
+        ),
+      );
+      this.message.set(
+        d.fields['reviewState']
+          ? `Closure ${d.fields['reviewState']}`
+          : d.move
+            ? 'Moved to the other visit and recomputed'
+            : d.points
+              ? 'exclude' in d.points
+                ? 'Recomputed without those points'
+                : 'Recomputed with those points back'
+              : 'Recomputed with the new settings',
+      );
       this.problem.set('');
       if (d.fields['reviewState'] === 'accepted' && i < this.items().length - 1) await this.select(i + 1);
       else {
@@ -123,15 +156,35 @@ export class Bench {
     const typing = t && (/^(INPUT|SELECT|TEXTAREA|BUTTON)$/.test(t.tagName) || t.closest('[role=combobox], [role=listbox], [role=option]'));
     if (e.ctrlKey || e.metaKey || e.altKey || (typing && e.key !== 'Escape')) return;
     const v = this.view();
-    const go = (by: number) => { const i = this.index() + by; if (i >= 0 && i < this.items().length) void this.select(i); };
+    const go = (by: number) => {
+      const i = this.index() + by;
+      if (i >= 0 && i < this.items().length) void this.select(i);
+    };
     switch (e.key) {
-      case 'a': case 'A': v?.accept(); break;
-      case 'r': case 'R': v?.focusReason(); break;
-      case 'j': case 'ArrowDown': go(1); break;
-      case 'k': case 'ArrowUp': go(-1); break;
-      case ']': v?.nudgeSettle(SETTLE_STEP_S); break;
-      case '[': v?.nudgeSettle(-SETTLE_STEP_S); break;
-      default: return;
+      case 'a':
+      case 'A':
+        v?.accept();
+        break;
+      case 'r':
+      case 'R':
+        v?.focusReason();
+        break;
+      case 'j':
+      case 'ArrowDown':
+        go(1);
+        break;
+      case 'k':
+      case 'ArrowUp':
+        go(-1);
+        break;
+      case ']':
+        v?.nudgeSettle(SETTLE_STEP_S);
+        break;
+      case '[':
+        v?.nudgeSettle(-SETTLE_STEP_S);
+        break;
+      default:
+        return;
     }
     e.preventDefault();
   }

@@ -1,4 +1,14 @@
-import { ChangeDetectionStrategy, Component, ElementRef, OnDestroy, afterNextRender, effect, input, output, viewChild } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  ElementRef,
+  OnDestroy,
+  afterNextRender,
+  effect,
+  input,
+  output,
+  viewChild,
+} from '@angular/core';
 import uPlot from 'uplot';
 import { dryMoleFractionPpm } from '../../../../shared/flux';
 import type { FitResult } from './bench-api';
@@ -19,7 +29,9 @@ export const CURSOR_SYNC_KEY = 'fw-closure';
 
 /** Fitted curves as the engine defines them: τ = t − settle; line a + b·τ; Kutzbach et al. (2007) p1 + p2·exp(p3·τ). */
 function curves(c: ChartInput) {
-  const lin = c.fit.linear, exp = c.fit.exponential, w = c.fit.window;
+  const lin = c.fit.linear,
+    exp = c.fit.exponential,
+    w = c.fit.window;
   const inWindow = (t: number) => w !== null && t >= w.firstTS && t <= w.lastTS;
   const line = c.tS.map((t) => (t !== null && lin && inWindow(t) ? lin.interceptPpm! + lin.slopePpmS * (t - c.settleS) : null));
   const expo = c.tS.map((t) => (t !== null && exp && inWindow(t) ? exp.p1! + exp.p2! * Math.exp(exp.p3! * (t - c.settleS)) : null));
@@ -34,8 +46,23 @@ function curves(c: ChartInput) {
  */
 @Component({
   selector: 'fw-closure-chart',
-  template: `<div #plot class="plot" role="img" [attr.aria-label]="label()"></div><div #resid class="plot resid" aria-hidden="true"></div>`,
-  styles: [`:host { display: block; min-width: 0; } .plot { width: 100%; overflow: hidden; } .resid { margin-top: 4px; }`],
+  template: `<div #plot class="plot" role="img" [attr.aria-label]="label()"></div>
+    <div #resid class="plot resid" aria-hidden="true"></div>`,
+  styles: [
+    `
+      :host {
+        display: block;
+        min-width: 0;
+      }
+      .plot {
+        width: 100%;
+        overflow: hidden;
+      }
+      .resid {
+        margin-top: 4px;
+      }
+    `,
+  ],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ClosureChart implements OnDestroy {
@@ -82,40 +109,62 @@ export class ClosureChart implements OnDestroy {
     const selected = c.fit.selected?.model === 'exponential' ? expo : line;
     const resid = kept.map((v, i) => (v !== null && selected[i] !== null ? v - (selected[i] as number) : null));
     const width = this.width();
-    const settle = c.settleS, end = c.windowEndS;
+    const settle = c.settleS,
+      end = c.windowEndS;
     const shade = (u: uPlot) => {
-      const ctx = u.ctx, top = u.bbox.top, h = u.bbox.height;
-      const x0 = u.valToPos(u.scales['x'].min ?? 0, 'x', true), xs = u.valToPos(settle, 'x', true);
+      const ctx = u.ctx,
+        top = u.bbox.top,
+        h = u.bbox.height;
+      const x0 = u.valToPos(u.scales['x'].min ?? 0, 'x', true),
+        xs = u.valToPos(settle, 'x', true);
       ctx.save();
       ctx.fillStyle = 'rgba(120,120,120,0.18)';
       ctx.fillRect(x0, top, Math.max(0, xs - x0), h);
       if (end !== null) {
-        const xe = u.valToPos(end, 'x', true), x1 = u.valToPos(u.scales['x'].max ?? end, 'x', true);
+        const xe = u.valToPos(end, 'x', true),
+          x1 = u.valToPos(u.scales['x'].max ?? end, 'x', true);
         ctx.fillRect(xe, top, Math.max(0, x1 - xe), h);
       }
       ctx.restore();
     };
-    const main = new uPlot({
-      width, height: 260, legend: { show: false }, cursor: { drag: { x: false, y: false }, sync: { key: CURSOR_SYNC_KEY } },
-      scales: { x: { time: false } },
-      axes: [{ label: 's since the chamber seated' }, { label: 'dry CO2, µmol/mol', size: 60 }],
-      series: [{}, { label: 'dry CO2', stroke: '#37474f', width: 0, points: { show: true, size: 3, fill: '#37474f' } },
-        { label: 'linear', stroke: '#1565c0', width: 2, points: { show: false } },
-        { label: 'exponential', stroke: '#c62828', width: 2, dash: [6, 4], points: { show: false } },
-        { label: 'left out', stroke: '#d32f2f', width: 0, points: { show: true, size: 8, width: 2, stroke: '#d32f2f', fill: '#ffffff' } }],
-      hooks: { drawClear: [shade] },
-    }, [x, kept, line, expo, left] as uPlot.AlignedData, this.plotEl().nativeElement);
+    const main = new uPlot(
+      {
+        width,
+        height: 260,
+        legend: { show: false },
+        cursor: { drag: { x: false, y: false }, sync: { key: CURSOR_SYNC_KEY } },
+        scales: { x: { time: false } },
+        axes: [{ label: 's since the chamber seated' }, { label: 'dry CO2, µmol/mol', size: 60 }],
+        series: [
+          {},
+          { label: 'dry CO2', stroke: '#37474f', width: 0, points: { show: true, size: 3, fill: '#37474f' } },
+          { label: 'linear', stroke: '#1565c0', width: 2, points: { show: false } },
+          { label: 'exponential', stroke: '#c62828', width: 2, dash: [6, 4], points: { show: false } },
+          { label: 'left out', stroke: '#d32f2f', width: 0, points: { show: true, size: 8, width: 2, stroke: '#d32f2f', fill: '#ffffff' } },
+        ],
+        hooks: { drawClear: [shade] },
+      },
+      [x, kept, line, expo, left] as uPlot.AlignedData,
+      this.plotEl().nativeElement,
+    );
     // The sample nearest the tap or click (from the event's own position: a tap moves no cursor first).
     main.over.addEventListener('click', (e: MouseEvent) => {
       const i = main.posToIdx(e.clientX - main.over.getBoundingClientRect().left);
       if (i >= 0 && i < dry.length && dry[i] !== null) this.pick.emit(i);
     });
-    const res = new uPlot({
-      width, height: 110, legend: { show: false }, scales: { x: { time: false } },
-      axes: [{}, { label: 'residual', size: 60 }],
-      series: [{}, { label: 'residual', stroke: '#6a1b9a', width: 0, points: { show: true, size: 3, fill: '#6a1b9a' } }],
-      hooks: { drawClear: [shade] },
-    }, [x, resid] as uPlot.AlignedData, this.residEl().nativeElement);
+    const res = new uPlot(
+      {
+        width,
+        height: 110,
+        legend: { show: false },
+        scales: { x: { time: false } },
+        axes: [{}, { label: 'residual', size: 60 }],
+        series: [{}, { label: 'residual', stroke: '#6a1b9a', width: 0, points: { show: true, size: 3, fill: '#6a1b9a' } }],
+        hooks: { drawClear: [shade] },
+      },
+      [x, resid] as uPlot.AlignedData,
+      this.residEl().nativeElement,
+    );
     this.charts = [main, res];
   }
 }

@@ -19,7 +19,7 @@ function render(list: MoveTarget[]) {
 }
 
 describe('moving a closure to another visit', () => {
-  it('offers the visits of the closure\'s round first, by collar code, and sends the one chosen', async () => {
+  it("offers the visits of the closure's round first, by collar code, and sends the one chosen", async () => {
     const { fixture, moved, el } = render(targets);
     const button = el.querySelector('button')!;
     expect(button.disabled).toBe(true);

@@ -5,7 +5,12 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatSelectModule } from '@angular/material/select';
 
-export interface MoveTarget { visitId: string; round: number; collarId: string; collarCode: string }
+export interface MoveTarget {
+  visitId: string;
+  round: number;
+  collarId: string;
+  collarCode: string;
+}
 
 /**
  * Moves the closure to another visit of its campaign when the crew tapped the wrong collar: the
@@ -21,7 +26,9 @@ export interface MoveTarget { visitId: string; round: number; collarId: string; 
         <mat-form-field subscriptSizing="dynamic">
           <mat-label>Wrong collar? Move to</mat-label>
           <mat-select [formControl]="visit" data-testid="move-target">
-            @for (t of ordered(); track t.visitId) { <mat-option [value]="t.visitId">Collar {{ t.collarCode }}, round {{ t.round }}</mat-option> }
+            @for (t of ordered(); track t.visitId) {
+              <mat-option [value]="t.visitId">Collar {{ t.collarCode }}, round {{ t.round }}</mat-option>
+            }
           </mat-select>
         </mat-form-field>
         <button matButton="outlined" type="submit" [disabled]="busy() || !chosen()">Move the closure</button>
@@ -39,7 +46,9 @@ export class ClosureMove {
   protected readonly chosen = toSignal(this.visit.valueChanges, { initialValue: null });
   protected readonly ordered = computed(() => {
     const r = this.round();
-    return [...this.targets()].sort((a, b) => Number(b.round === r) - Number(a.round === r) || a.round - b.round || a.collarCode.localeCompare(b.collarCode));
+    return [...this.targets()].sort(
+      (a, b) => Number(b.round === r) - Number(a.round === r) || a.round - b.round || a.collarCode.localeCompare(b.collarCode),
+    );
   });
 
   protected send(): void {

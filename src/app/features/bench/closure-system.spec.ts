@@ -9,13 +9,30 @@ import type { Decision } from './closure-view';
 
 const detail = {
   closure: {
-    id: 'c1', rev: 3, profileId: 'short-1', analyzerId: 'A', flags: ['temp-site-default', 'start-above-ambient'], series: {},
-    results: { profileName: 'Short', profileSource: 'closure', ambientPpm: 418, ambientAt: '2026-06-01T06:00:00.000Z',
-      airTempSource: 'site-default', airTempC: 15 },
+    id: 'c1',
+    rev: 3,
+    profileId: 'short-1',
+    analyzerId: 'A',
+    flags: ['temp-site-default', 'start-above-ambient'],
+    series: {},
+    results: {
+      profileName: 'Short',
+      profileSource: 'closure',
+      ambientPpm: 418,
+      ambientAt: '2026-06-01T06:00:00.000Z',
+      airTempSource: 'site-default',
+      airTempC: 15,
+    },
   },
   systems: {
-    profiles: [{ id: 'short-1', name: 'Short', validFrom: '2026-05-01' }, { id: 'tall-1', name: 'Tall', validFrom: '2026-03-01' }],
-    analyzers: [{ id: 'A', name: 'A', serial: 'S-1' }, { id: 'B', name: 'B', serial: '' }],
+    profiles: [
+      { id: 'short-1', name: 'Short', validFrom: '2026-05-01' },
+      { id: 'tall-1', name: 'Tall', validFrom: '2026-03-01' },
+    ],
+    analyzers: [
+      { id: 'A', name: 'A', serial: 'S-1' },
+      { id: 'B', name: 'B', serial: '' },
+    ],
   },
   context: { timezone: 'UTC' },
 } as unknown as ClosureDetail;
@@ -30,8 +47,10 @@ describe('Bench: the closure’s chamber system and flags in words', () => {
     await fixture.whenStable();
     const el = fixture.nativeElement as HTMLElement;
     const text = (sel: string) => el.querySelector(sel)?.textContent?.replace(/\s+/g, ' ').trim() ?? '';
-    expect(text('[data-testid="closure-system"]')).toBe('Chamber “Short” (the closure’s own chamber) · analyzer A · ambient 418 µmol/mol read 2026-06-01 06:00 UTC'
-      + ' · chamber air temperature 15 °C, the site’s default (neither the file nor the visit has one)');
+    expect(text('[data-testid="closure-system"]')).toBe(
+      'Chamber “Short” (the closure’s own chamber) · analyzer A · ambient 418 µmol/mol read 2026-06-01 06:00 UTC' +
+        ' · chamber air temperature 15 °C, the site’s default (neither the file nor the visit has one)',
+    );
     // The same words the phone shows (one table).
     expect(text('[data-testid="flag-words"]')).toContain(FLAG_ADVICE['temp-site-default'].words);
     expect(text('[data-testid="flag-words"]')).toContain(FLAG_ADVICE['start-above-ambient'].advice);
@@ -50,6 +69,8 @@ describe('Bench: the closure’s chamber system and flags in words', () => {
     const fixture = TestBed.createComponent(ClosureSystem);
     fixture.componentRef.setInput('detail', { ...detail, context: { timezone: 'Pacific/Auckland' } });
     await fixture.whenStable();
-    expect((fixture.nativeElement as HTMLElement).querySelector('[data-testid="closure-system"]')!.textContent).toContain('read 2026-06-01 18:00 NZST');
+    expect((fixture.nativeElement as HTMLElement).querySelector('[data-testid="closure-system"]')!.textContent).toContain(
+      'read 2026-06-01 18:00 NZST',
+    );
   });
 });

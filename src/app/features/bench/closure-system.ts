@@ -9,7 +9,9 @@ import type { ClosureDetail } from './bench-api';
 import type { Decision } from './closure-view';
 
 const PROFILE_SOURCE: Record<string, string> = {
-  closure: 'the closure’s own chamber', 'site-default': 'the site’s default chamber (the closure names none)', 'only-chamber': 'the site’s only chamber (the closure names none)',
+  closure: 'the closure’s own chamber',
+  'site-default': 'the site’s default chamber (the closure names none)',
+  'only-chamber': 'the site’s only chamber (the closure names none)',
 };
 
 /**
@@ -23,14 +25,25 @@ const PROFILE_SOURCE: Record<string, string> = {
   imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatSelectModule, SiteTimePipe],
   template: `
     @let r = c().results;
-    <p data-testid="closure-system">Chamber “{{ r.profileName ?? '?' }}”@if (r.profileSource) { ({{ profileSource(r.profileSource) }}) }
-      · analyzer {{ analyzerName() }}
-      · ambient {{ r.ambientPpm === null ? 'none of this analyzer within 12 h' : (r.ambientPpm | number: '1.0-0') + ' µmol/mol' }}
-      @if (r.ambientAt) { read {{ r.ambientAt | siteTime: detail().context.timezone }} }
-      · chamber air temperature {{ airTemp() }}</p>
+    <p data-testid="closure-system">
+      Chamber “{{ r.profileName ?? '?' }}”
+      @if (r.profileSource) {
+        ({{ profileSource(r.profileSource) }})
+      }
+      · analyzer {{ analyzerName() }} · ambient
+      {{ r.ambientPpm === null ? 'none of this analyzer within 12 h' : (r.ambientPpm | number: '1.0-0') + ' µmol/mol' }}
+      @if (r.ambientAt) {
+        read {{ r.ambientAt | siteTime: detail().context.timezone }}
+      }
+      · chamber air temperature {{ airTemp() }}
+    </p>
     @if (flags().length) {
       <ul class="flag-words" data-testid="flag-words">
-        @for (f of flags(); track f) { <li><strong>{{ advice(f).words }}</strong> {{ advice(f).advice }} <code>{{ f }}</code></li> }
+        @for (f of flags(); track f) {
+          <li>
+            <strong>{{ advice(f).words }}</strong> {{ advice(f).advice }} <code>{{ f }}</code>
+          </li>
+        }
       </ul>
     }
     @if (systems(); as s) {
@@ -38,13 +51,22 @@ const PROFILE_SOURCE: Record<string, string> = {
         <mat-form-field appearance="outline">
           <mat-label>Chamber profile</mat-label>
           <mat-select data-testid="system-profile" [value]="profileId()" (selectionChange)="profileId.set($event.value)">
-            @for (p of s.profiles; track p.id) { <mat-option [value]="p.id">{{ p.name }} (from {{ p.validFrom }})</mat-option> }
+            @for (p of s.profiles; track p.id) {
+              <mat-option [value]="p.id">{{ p.name }} (from {{ p.validFrom }})</mat-option>
+            }
           </mat-select>
         </mat-form-field>
         <mat-form-field appearance="outline">
           <mat-label>Analyzer</mat-label>
           <mat-select data-testid="system-analyzer" [value]="analyzerId()" (selectionChange)="analyzerId.set($event.value)">
-            @for (a of s.analyzers; track a.id) { <mat-option [value]="a.id">{{ a.name }}@if (a.serial) { ({{ a.serial }}) }</mat-option> }
+            @for (a of s.analyzers; track a.id) {
+              <mat-option [value]="a.id"
+                >{{ a.name }}
+                @if (a.serial) {
+                  ({{ a.serial }})
+                }
+              </mat-option>
+            }
           </mat-select>
         </mat-form-field>
         <button mat-stroked-button type="submit" [disabled]="busy() || !changed()">Correct the chamber system</button>
@@ -52,9 +74,29 @@ const PROFILE_SOURCE: Record<string, string> = {
     }
   `,
   // The Bench's own form styles do not reach inside this component: the fields wrap, each wide enough for its floating label.
-  styles: [`.flag-words { margin: 4px 0; padding-left: 20px; } .flag-words code { color: #666; font-size: 0.85em; }
-    .decide { display: flex; flex-wrap: wrap; gap: 8px 12px; align-items: center; margin: 8px 0; }
-    .decide mat-form-field { flex: 1 1 200px; min-width: 180px; }`],
+  styles: [
+    `
+      .flag-words {
+        margin: 4px 0;
+        padding-left: 20px;
+      }
+      .flag-words code {
+        color: #666;
+        font-size: 0.85em;
+      }
+      .decide {
+        display: flex;
+        flex-wrap: wrap;
+        gap: 8px 12px;
+        align-items: center;
+        margin: 8px 0;
+      }
+      .decide mat-form-field {
+        flex: 1 1 200px;
+        min-width: 180px;
+      }
+    `,
+  ],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ClosureSystem {
@@ -67,18 +109,24 @@ export class ClosureSystem {
   protected readonly systems = computed(() => this.detail().systems ?? null);
   protected readonly profileId = linkedSignal<string | null>(() => this.c().profileId ?? null);
   protected readonly analyzerId = linkedSignal<string | null>(() => (this.c()['analyzerId'] as string | null) ?? null);
-  protected readonly changed = computed(() => this.profileId() !== (this.c()['profileId'] ?? null) || this.analyzerId() !== (this.c()['analyzerId'] ?? null));
+  protected readonly changed = computed(
+    () => this.profileId() !== (this.c()['profileId'] ?? null) || this.analyzerId() !== (this.c()['analyzerId'] ?? null),
+  );
   protected readonly analyzerName = computed(() => {
     const id = this.c()['analyzerId'];
-    return id ? this.systems()?.analyzers.find((a) => a.id === id)?.name ?? 'unknown' : 'none named';
+    return id ? (this.systems()?.analyzers.find((a) => a.id === id)?.name ?? 'unknown') : 'none named';
   });
   protected readonly airTemp = computed(() => {
     const r = this.c().results;
     switch (r.airTempSource) {
-      case 'series': return 'from the analyzer file';
-      case 'visit': return `${r.airTempC} °C noted at the visit (the file has none)`;
-      case 'site-default': return `${r.airTempC} °C, the site’s default (neither the file nor the visit has one)`;
-      default: return 'not known';
+      case 'series':
+        return 'from the analyzer file';
+      case 'visit':
+        return `${r.airTempC} °C noted at the visit (the file has none)`;
+      case 'site-default':
+        return `${r.airTempC} °C, the site’s default (neither the file nor the visit has one)`;
+      default:
+        return 'not known';
     }
   });
 

@@ -1,10 +1,27 @@
-import { ChangeDetectionStrategy, Component, ElementRef, OnDestroy, afterNextRender, computed, effect, input, viewChild } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  ElementRef,
+  OnDestroy,
+  afterNextRender,
+  computed,
+  effect,
+  input,
+  viewChild,
+} from '@angular/core';
 import uPlot from 'uplot';
 import { CURSOR_SYNC_KEY } from './closure-chart';
 
 type Column = (number | null)[] | null | undefined;
 
-export interface Trace { key: 'h2o' | 'temp' | 'pressure'; label: string; short: string; unit: string; color: string; values: (number | null)[] }
+export interface Trace {
+  key: 'h2o' | 'temp' | 'pressure';
+  label: string;
+  short: string;
+  unit: string;
+  color: string;
+  values: (number | null)[];
+}
 
 /**
  * The closure's other logged columns, as stored in its series (the logger import converts them to
@@ -26,26 +43,48 @@ export function tracesOf(series: Record<string, Column>): Trace[] {
  */
 @Component({
   selector: 'fw-closure-traces',
-  template: `
-    @if (traces().length) {
+  template: ` @if (traces().length) {
       <div #box class="traces" role="img" [attr.aria-label]="label()"></div>
     } @else {
       <p class="none" data-testid="no-traces">This closure's file has no H2O, temperature or pressure column.</p>
     }`,
-  styles: [`:host { display: block; min-width: 0; } .traces { width: 100%; overflow: hidden; } .none { font-size: 0.85rem; opacity: 0.8; }`],
+  styles: [
+    `
+      :host {
+        display: block;
+        min-width: 0;
+      }
+      .traces {
+        width: 100%;
+        overflow: hidden;
+      }
+      .none {
+        font-size: 0.85rem;
+        opacity: 0.8;
+      }
+    `,
+  ],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ClosureTraces implements OnDestroy {
   readonly series = input.required<Record<string, Column>>();
   protected readonly traces = computed(() => tracesOf(this.series()));
-  protected readonly label = computed(() => this.traces().map((t) => `${t.label} (${t.unit})`).join(', ') + ' against time');
+  protected readonly label = computed(
+    () =>
+      this.traces()
+        .map((t) => `${t.label} (${t.unit})`)
+        .join(', ') + ' against time',
+  );
   private readonly box = viewChild<ElementRef<HTMLElement>>('box');
   private charts: uPlot[] = [];
   private readonly resize = typeof ResizeObserver === 'undefined' ? null : new ResizeObserver(() => this.fit());
 
   constructor() {
     effect(() => this.draw(this.series(), this.traces(), this.box()?.nativeElement ?? null));
-    afterNextRender(() => { const el = this.box()?.nativeElement; if (el) this.resize?.observe(el); });
+    afterNextRender(() => {
+      const el = this.box()?.nativeElement;
+      if (el) this.resize?.observe(el);
+    });
   }
 
   ngOnDestroy(): void {
@@ -73,12 +112,24 @@ export class ClosureTraces implements OnDestroy {
     // The CO2 chart's x range is the data's: the same here, so a time lines up across the charts.
     const range: [number, number] = finite.length ? [Math.min(...finite), Math.max(...finite)] : [0, 1];
     const width = this.width(el);
-    this.charts = traces.map((t, k) => new uPlot({
-      width, height: 90, legend: { show: false }, cursor: { sync: { key: CURSOR_SYNC_KEY }, drag: { x: false, y: false } },
-      scales: { x: { time: false, range: () => range } },
-      axes: [{ show: k === traces.length - 1, label: k === traces.length - 1 ? 's since the chamber seated' : undefined },
-        { label: `${t.short}, ${t.unit}`, size: 60 }],
-      series: [{}, { label: `${t.label}, ${t.unit}`, stroke: t.color, width: 1.5, points: { show: false } }],
-    }, [x, t.values] as uPlot.AlignedData, el));
+    this.charts = traces.map(
+      (t, k) =>
+        new uPlot(
+          {
+            width,
+            height: 90,
+            legend: { show: false },
+            cursor: { sync: { key: CURSOR_SYNC_KEY }, drag: { x: false, y: false } },
+            scales: { x: { time: false, range: () => range } },
+            axes: [
+              { show: k === traces.length - 1, label: k === traces.length - 1 ? 's since the chamber seated' : undefined },
+              { label: `${t.short}, ${t.unit}`, size: 60 },
+            ],
+            series: [{}, { label: `${t.label}, ${t.unit}`, stroke: t.color, width: 1.5, points: { show: false } }],
+          },
+          [x, t.values] as uPlot.AlignedData,
+          el,
+        ),
+    );
   }
 }

@@ -1,5 +1,16 @@
 import { DecimalPipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, ElementRef, computed, effect, input, output, signal, untracked, viewChild } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  ElementRef,
+  computed,
+  effect,
+  input,
+  output,
+  signal,
+  untracked,
+  viewChild,
+} from '@angular/core';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatInputModule } from '@angular/material/input';
@@ -17,7 +28,11 @@ import { SiteTimePipe } from '../../core/time/site-time-pipe';
 import { FlagWordsPipe } from '../closures/flag-words-pipe';
 
 /** A review-field edit (PATCH), points left out of the fit / put back, or a move to another visit (the Bench's routes). */
-export interface Decision { fields: Record<string, unknown>; points?: PointsChange; move?: string }
+export interface Decision {
+  fields: Record<string, unknown>;
+  points?: PointsChange;
+  move?: string;
+}
 
 /**
  * One closure under review: the chart, the numbers of both fits, where the volume came from, the
@@ -26,7 +41,21 @@ export interface Decision { fields: Record<string, unknown>; points?: PointsChan
  */
 @Component({
   selector: 'fw-closure-view',
-  imports: [ClosureChart, ClosureMove, ClosureSystem, ClosureTraces, DecimalPipe, FlagWordsPipe, PointExclusions, FormsModule, SiteTimePipe, MatButtonModule, MatInputModule, MatListModule, MatSelectModule],
+  imports: [
+    ClosureChart,
+    ClosureMove,
+    ClosureSystem,
+    ClosureTraces,
+    DecimalPipe,
+    FlagWordsPipe,
+    PointExclusions,
+    FormsModule,
+    SiteTimePipe,
+    MatButtonModule,
+    MatInputModule,
+    MatListModule,
+    MatSelectModule,
+  ],
   templateUrl: './closure-view.html',
   styleUrl: './bench.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -46,25 +75,38 @@ export class ClosureView {
   protected readonly fit = computed<FitResult>(() => this.c().results.review ?? this.c().results.raw);
   protected readonly effectiveSettle = computed(() => Number(this.c()['reviewSettleS'] ?? this.c()['settleS']));
   protected readonly chart = computed<ChartInput>(() => ({
-    tS: this.c().series['tS'] as (number | null)[], co2Ppm: this.c().series['co2Ppm'] as (number | null)[],
+    tS: this.c().series['tS'] as (number | null)[],
+    co2Ppm: this.c().series['co2Ppm'] as (number | null)[],
     h2oMmolMol: (this.c().series['h2oMmolMol'] as (number | null)[] | null) ?? null,
-    settleS: this.effectiveSettle(), windowEndS: (this.c()['reviewWindowEndS'] as number | null) ?? null, fit: this.fit(),
+    settleS: this.effectiveSettle(),
+    windowEndS: (this.c()['reviewWindowEndS'] as number | null) ?? null,
+    fit: this.fit(),
     excluded: this.exclusions().map((e) => e.index),
   }));
   // Closures stored before exclusions existed may come without the field.
   protected readonly exclusions = computed<PointExclusion[]>(() => this.c().reviewExclusions ?? []);
   /** The review history with points left out in words ("45–48 (Spike)") rather than as lists. */
-  protected readonly history = computed(() => this.detail().history.map((h) => (h.field === 'reviewExclusions'
-    ? { ...h, field: 'points left out', oldValue: exclusionText(h.oldValue), newValue: exclusionText(h.newValue) } : h)));
+  protected readonly history = computed(() =>
+    this.detail().history.map((h) =>
+      h.field === 'reviewExclusions'
+        ? { ...h, field: 'points left out', oldValue: exclusionText(h.oldValue), newValue: exclusionText(h.newValue) }
+        : h,
+    ),
+  );
   protected readonly bases = computed(() => fluxBases(this.fit()));
   protected readonly detectionLimit = computed(() => detectionLimitNote(this.fit()));
   protected readonly startCo2 = computed(() => (this.c().series['co2Ppm'] as (number | null)[]).find((v) => v !== null) ?? null);
   protected readonly models = computed(() => {
     const f = this.fit();
-    return ([['linear', f.linear], ['exponential', f.exponential], ['quadratic', f.quadratic]] as const).filter(([, m]) => m !== null);
+    return (
+      [
+        ['linear', f.linear],
+        ['exponential', f.exponential],
+        ['quadratic', f.quadratic],
+      ] as const
+    ).filter(([, m]) => m !== null);
   });
-  protected readonly historyMax = computed(() =>
-    Math.max(1e-9, ...this.detail().collarHistory.map((h) => Math.abs(h.fluxUmolM2S ?? 0))));
+  protected readonly historyMax = computed(() => Math.max(1e-9, ...this.detail().collarHistory.map((h) => Math.abs(h.fluxUmolM2S ?? 0))));
 
   constructor() {
     effect(() => {
@@ -117,7 +159,10 @@ export class ClosureView {
   }
 
   protected reject(): void {
-    if (!this.reason().trim()) { this.focusReason(); return; }
+    if (!this.reason().trim()) {
+      this.focusReason();
+      return;
+    }
     this.decide.emit({ fields: { reviewState: 'rejected', reviewReason: this.reason().trim() } });
   }
 

@@ -24,9 +24,18 @@ function render(exclusions: { index: number; reason: string }[]) {
 
 describe('points left out of a fit', () => {
   it('groups consecutive samples with one reason into runs, in words for the history', () => {
-    const list = [{ index: 46, reason: 'Spike' }, { index: 45, reason: 'Spike' }, { index: 47, reason: 'Spike' }, { index: 70, reason: 'Analyzer glitch' },
-      { index: 48, reason: 'Other' }];
-    expect(exclusionGroups(list).map((g) => [g.from, g.to, g.reason])).toEqual([[45, 47, 'Spike'], [48, 48, 'Other'], [70, 70, 'Analyzer glitch']]);
+    const list = [
+      { index: 46, reason: 'Spike' },
+      { index: 45, reason: 'Spike' },
+      { index: 47, reason: 'Spike' },
+      { index: 70, reason: 'Analyzer glitch' },
+      { index: 48, reason: 'Other' },
+    ];
+    expect(exclusionGroups(list).map((g) => [g.from, g.to, g.reason])).toEqual([
+      [45, 47, 'Spike'],
+      [48, 48, 'Other'],
+      [70, 70, 'Analyzer glitch'],
+    ]);
     expect(exclusionText(list)).toBe('45–47 (Spike), 48 (Other), 70 (Analyzer glitch)');
     expect(exclusionText([])).toBe('none');
   });
@@ -56,7 +65,10 @@ describe('points left out of a fit', () => {
   });
 
   it('lists what is left out with times, and "Put back" sends that run', () => {
-    const { el, sent } = render([{ index: 20, reason: 'Spike' }, { index: 21, reason: 'Spike' }]);
+    const { el, sent } = render([
+      { index: 20, reason: 'Spike' },
+      { index: 21, reason: 'Spike' },
+    ]);
     const item = el.querySelector('[data-testid="excluded-points"] li')!;
     expect(item.querySelector('span')!.textContent!.replace(/\s+/g, ' ').trim()).toBe('Samples 20–21 (t 40–42 s): Spike');
     item.querySelector('button')!.click();

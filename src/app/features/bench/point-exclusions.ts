@@ -17,8 +17,10 @@ export function exclusionGroups(list: readonly PointExclusion[]): { from: number
   const groups: { from: number; to: number; reason: string; indices: number[] }[] = [];
   for (const e of [...list].sort((a, b) => a.index - b.index)) {
     const last = groups[groups.length - 1];
-    if (last && last.to === e.index - 1 && last.reason === e.reason) { last.to = e.index; last.indices.push(e.index); }
-    else groups.push({ from: e.index, to: e.index, reason: e.reason, indices: [e.index] });
+    if (last && last.to === e.index - 1 && last.reason === e.reason) {
+      last.to = e.index;
+      last.indices.push(e.index);
+    } else groups.push({ from: e.index, to: e.index, reason: e.reason, indices: [e.index] });
   }
   return groups;
 }
@@ -26,7 +28,9 @@ export function exclusionGroups(list: readonly PointExclusion[]): { from: number
 /** The review history's words for a list of excluded points. */
 export function exclusionText(v: unknown): string {
   if (!Array.isArray(v) || !v.length) return 'none';
-  return exclusionGroups(v as PointExclusion[]).map((g) => `${g.from === g.to ? g.from : `${g.from}–${g.to}`} (${g.reason})`).join(', ');
+  return exclusionGroups(v as PointExclusion[])
+    .map((g) => `${g.from === g.to ? g.from : `${g.from}–${g.to}`} (${g.reason})`)
+    .join(', ');
 }
 
 /**
@@ -42,11 +46,21 @@ export function exclusionText(v: unknown): string {
     @if (groups().length) {
       <ul class="excluded" data-testid="excluded-points">
         @for (g of groups(); track g.from) {
-          <li><span>Samples {{ g.from === g.to ? g.from : g.from + '–' + g.to }} (t {{ timeOf(g.from) }}@if (g.to !== g.from) {–{{ timeOf(g.to) }}} s): {{ g.reason }}</span>
-            <button matButton type="button" [disabled]="busy()" (click)="pointsChange.emit({ restore: g.indices })">Put back</button></li>
+          <li>
+            <span
+              >Samples {{ g.from === g.to ? g.from : g.from + '–' + g.to }} (t {{ timeOf(g.from) }}
+              @if (g.to !== g.from) {
+                –{{ timeOf(g.to) }}
+              }
+              s): {{ g.reason }}</span
+            >
+            <button matButton type="button" [disabled]="busy()" (click)="pointsChange.emit({ restore: g.indices })">Put back</button>
+          </li>
         }
       </ul>
-    } @else { <p>None: every sample in the window is fitted.</p> }
+    } @else {
+      <p>None: every sample in the window is fitted.</p>
+    }
     <form class="decide" aria-label="Leave points out" [formGroup]="form" (ngSubmit)="leaveOut()">
       <mat-form-field subscriptSizing="dynamic">
         <mat-label>From (s)</mat-label>
@@ -59,7 +73,9 @@ export function exclusionText(v: unknown): string {
       <mat-form-field subscriptSizing="dynamic">
         <mat-label>Reason</mat-label>
         <mat-select formControlName="reason" data-testid="exclude-reason">
-          @for (r of reasons; track r) { <mat-option [value]="r">{{ r }}</mat-option> }
+          @for (r of reasons; track r) {
+            <mat-option [value]="r">{{ r }}</mat-option>
+          }
           <mat-option value="other">Other (type it)</mat-option>
         </mat-select>
       </mat-form-field>
@@ -70,12 +86,30 @@ export function exclusionText(v: unknown): string {
         </mat-form-field>
       }
       <button matButton="outlined" type="submit" [disabled]="busy() || !picked().length || !reasonText()">
-        Leave out {{ picked().length }} {{ picked().length === 1 ? 'point' : 'points' }}</button>
+        Leave out {{ picked().length }} {{ picked().length === 1 ? 'point' : 'points' }}
+      </button>
     </form>
     <p class="hint">Tap a point on the chart to pick it; left-out points are drawn as open red rings.</p>
   `,
-  styles: [`.excluded { padding-left: 20px; margin: 4px 0; } .excluded li { display: flex; flex-wrap: wrap; align-items: center; gap: 0 8px; }
-    .hint { font-size: 0.85rem; opacity: 0.8; margin-top: 0; }`],
+  styles: [
+    `
+      .excluded {
+        padding-left: 20px;
+        margin: 4px 0;
+      }
+      .excluded li {
+        display: flex;
+        flex-wrap: wrap;
+        align-items: center;
+        gap: 0 8px;
+      }
+      .hint {
+        font-size: 0.85rem;
+        opacity: 0.8;
+        margin-top: 0;
+      }
+    `,
+  ],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class PointExclusions {
@@ -103,7 +137,7 @@ export class PointExclusions {
   });
   protected readonly reasonText = computed(() => {
     const v = this.value();
-    return (v.reason === OTHER ? v.note ?? '' : v.reason ?? '').trim();
+    return (v.reason === OTHER ? (v.note ?? '') : (v.reason ?? '')).trim();
   });
 
   constructor() {
@@ -126,7 +160,8 @@ export class PointExclusions {
   }
 
   protected leaveOut(): void {
-    const indices = this.picked(), reason = this.reasonText();
+    const indices = this.picked(),
+      reason = this.reasonText();
     if (indices.length && reason) this.pointsChange.emit({ exclude: indices, reason });
   }
 }

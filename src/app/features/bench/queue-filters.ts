@@ -31,12 +31,15 @@ export class QueueFilters {
   protected readonly treatments = signal<Named[]>([]);
   protected readonly collars = signal<Named[]>([]);
   protected readonly yesNo = [
-    { key: 'rain24h', label: 'Rain in the last 24 h' }, { key: 'leakFailed', label: 'Failed leak check that day' },
+    { key: 'rain24h', label: 'Rain in the last 24 h' },
+    { key: 'leakFailed', label: 'Failed leak check that day' },
     { key: 'recomputedSinceReview', label: 'Recomputed since review' },
   ];
   protected readonly phone = narrowScreen();
   private readonly current = signal<Record<string, string>>({});
-  protected get f(): Partial<Record<string, string>> { return this.current(); }
+  protected get f(): Partial<Record<string, string>> {
+    return this.current();
+  }
   protected readonly summary = computed(() => {
     const set = Object.values(this.current()).filter((v) => v !== '' && v !== undefined).length;
     return set ? `${set} set` : 'All closures';
@@ -45,8 +48,17 @@ export class QueueFilters {
   constructor() {
     effect(() => {
       const site = this.siteId();
-      void Promise.all([this.api.list('campaigns', site), this.api.list('plots', site), this.api.list('treatments', site), this.api.list('collars', site)])
-        .then(([c, p, t, k]) => { this.campaigns.set(c); this.plots.set(p); this.treatments.set(t); this.collars.set(k); });
+      void Promise.all([
+        this.api.list('campaigns', site),
+        this.api.list('plots', site),
+        this.api.list('treatments', site),
+        this.api.list('collars', site),
+      ]).then(([c, p, t, k]) => {
+        this.campaigns.set(c);
+        this.plots.set(p);
+        this.treatments.set(t);
+        this.collars.set(k);
+      });
       untracked(() => {
         this.current.set({});
         this.emit();
@@ -64,10 +76,20 @@ export class QueueFilters {
     const b = (k: string) => (this.f[k] === 'yes' ? true : this.f[k] === 'no' ? false : undefined);
     const s = (k: string) => this.f[k] || undefined;
     this.changed.emit({
-      siteId: this.siteId(), campaignId: s('campaignId'), round: n('round'), treatmentId: s('treatmentId'), plotId: s('plotId'),
-      collarId: s('collarId'), flag: s('flag'), reviewState: s('reviewState') as QueueFilter['reviewState'],
-      installedWithinDays: n('installedWithinDays'), clippedWithinDays: n('clippedWithinDays'), rain24h: b('rain24h'),
-      calibrationOlderThanDays: n('calibrationOlderThanDays'), driftAtLeastPpm: n('driftAtLeastPpm'), leakFailed: b('leakFailed'),
+      siteId: this.siteId(),
+      campaignId: s('campaignId'),
+      round: n('round'),
+      treatmentId: s('treatmentId'),
+      plotId: s('plotId'),
+      collarId: s('collarId'),
+      flag: s('flag'),
+      reviewState: s('reviewState') as QueueFilter['reviewState'],
+      installedWithinDays: n('installedWithinDays'),
+      clippedWithinDays: n('clippedWithinDays'),
+      rain24h: b('rain24h'),
+      calibrationOlderThanDays: n('calibrationOlderThanDays'),
+      driftAtLeastPpm: n('driftAtLeastPpm'),
+      leakFailed: b('leakFailed'),
       recomputedSinceReview: b('recomputedSinceReview'),
     });
   }

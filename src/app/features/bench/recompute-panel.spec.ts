@@ -7,8 +7,20 @@ import type { RecomputeJob } from './bench-api';
 import { RecomputePanel } from './recompute-panel';
 
 function job(over: Partial<RecomputeJob>): RecomputeJob {
-  return { id: 'job-1', name: 'closure-recompute', siteId: 'site-a', state: 'queued', done: 0, total: null, result: null, error: null,
-    createdAt: '2026-05-04T08:00:00.000Z', startedAt: null, finishedAt: null, ...over };
+  return {
+    id: 'job-1',
+    name: 'closure-recompute',
+    siteId: 'site-a',
+    state: 'queued',
+    done: 0,
+    total: null,
+    result: null,
+    error: null,
+    createdAt: '2026-05-04T08:00:00.000Z',
+    startedAt: null,
+    finishedAt: null,
+    ...over,
+  };
 }
 
 const settle = () => new Promise((r) => setTimeout(r, 0));
@@ -30,7 +42,8 @@ async function render(roles: Role[], jobs: RecomputeJob[], timezone?: string) {
   await settle();
   await fixture.whenStable();
   const el = fixture.nativeElement as HTMLElement;
-  const items = () => Array.from(el.querySelectorAll('[data-testid="recompute-jobs"] li')).map((li) => li.textContent!.replace(/\s+/g, ' ').trim());
+  const items = () =>
+    Array.from(el.querySelectorAll('[data-testid="recompute-jobs"] li')).map((li) => li.textContent!.replace(/\s+/g, ' ').trim());
   const button = () => Array.from(el.querySelectorAll('button')).find((b) => b.textContent!.trim() === 'Recompute this site') ?? null;
   return { fixture, http, el, items, button, changed };
 }
@@ -40,16 +53,30 @@ describe('RecomputePanel', () => {
 
   it('when a job is listed, then the time it was asked reads in the site’s zone (naming it), not the device’s', async () => {
     // The device runs in UTC here; 08:00 UTC on 4 May is 20:00 in Auckland (NZST, UTC+12).
-    const { items, fixture } = await render(['lab'], [job({ state: 'completed', done: 1, total: 1, result: { examined: 1, changed: 0, lockedKept: 0, changedIds: [] } })], 'Pacific/Auckland');
+    const { items, fixture } = await render(
+      ['lab'],
+      [job({ state: 'completed', done: 1, total: 1, result: { examined: 1, changed: 0, lockedKept: 0, changedIds: [] } })],
+      'Pacific/Auckland',
+    );
     expect(items()[0]).toContain('asked 2026-05-04 20:00 NZST');
     fixture.destroy();
   });
 
   it('when a recompute of the chosen site is running, then its progress bar shows done of total and other sites are left out', async () => {
-    const { el, items, fixture } = await render(['lab'], [
-      job({ id: 'j-a', state: 'active', done: 400, total: 1600 }),
-      job({ id: 'j-b', siteId: 'site-b', state: 'completed', done: 10, total: 10, result: { examined: 10, changed: 2, lockedKept: 0, changedIds: [] } }),
-    ]);
+    const { el, items, fixture } = await render(
+      ['lab'],
+      [
+        job({ id: 'j-a', state: 'active', done: 400, total: 1600 }),
+        job({
+          id: 'j-b',
+          siteId: 'site-b',
+          state: 'completed',
+          done: 10,
+          total: 10,
+          result: { examined: 10, changed: 2, lockedKept: 0, changedIds: [] },
+        }),
+      ],
+    );
     const bar = el.querySelector('mat-progress-bar')!;
     expect(bar.getAttribute('aria-valuenow')).toBe('25');
     expect(bar.getAttribute('aria-label')).toBe('Recompute progress, 400 of 1600 closures');
@@ -75,8 +102,19 @@ describe('RecomputePanel', () => {
 
     // The next poll finds it finished.
     const poll = fixture.componentInstance.refresh();
-    http.expectOne((r) => r.url === '/api/jobs').flush({ items: [job({ id: 'job-9', state: 'completed', done: 1600, total: 1600,
-      result: { examined: 1600, changed: 37, lockedKept: 120, changedIds: [] } })] });
+    http
+      .expectOne((r) => r.url === '/api/jobs')
+      .flush({
+        items: [
+          job({
+            id: 'job-9',
+            state: 'completed',
+            done: 1600,
+            total: 1600,
+            result: { examined: 1600, changed: 37, lockedKept: 120, changedIds: [] },
+          }),
+        ],
+      });
     await poll;
     await fixture.whenStable();
     expect(items()[0]).toContain('finished');

@@ -15,22 +15,41 @@ async function render(items: Anomaly[]) {
   TestBed.configureTestingModule({ imports: [AnomalyList], providers: [BoardStore, provideHttpClient(), provideHttpClientTesting()] });
   const fixture = TestBed.createComponent(AnomalyList);
   await fixture.whenStable();
-  TestBed.inject(HttpTestingController).expectOne((r) => r.url.startsWith('/api/sites/site-a/anomalies')).flush({ campaignId: null, items });
-  for (let i = 0; i < 3; i++) { await settle(); await fixture.whenStable(); }
+  TestBed.inject(HttpTestingController)
+    .expectOne((r) => r.url.startsWith('/api/sites/site-a/anomalies'))
+    .flush({ campaignId: null, items });
+  for (let i = 0; i < 3; i++) {
+    await settle();
+    await fixture.whenStable();
+  }
   return fixture.nativeElement as HTMLElement;
 }
 
 const flagged = (flags: string[]): Anomaly => ({
-  kind: 'closure-flag', severity: 'warn', collarId: 'k1', collarCode: 'C7', recordId: 'z1', at: '2026-05-03T22:00:00.000Z', value: -0.4,
-  threshold: null, message: 'Closure flagged: …', flags,
+  kind: 'closure-flag',
+  severity: 'warn',
+  collarId: 'k1',
+  collarCode: 'C7',
+  recordId: 'z1',
+  at: '2026-05-03T22:00:00.000Z',
+  value: -0.4,
+  threshold: null,
+  message: 'Closure flagged: …',
+  flags,
 });
 
 describe('Board anomalies: flagged closures in words', () => {
   it('when a closure is flagged, then the list says each flag in the words and advice of the shared flag table, the code only as a detail', async () => {
     const el = await render([flagged(['negative-flux', 'spike'])]);
     const rows = [...el.querySelectorAll('[data-testid="anomaly-flag"]')];
-    expect(rows.map((r) => r.querySelector('.words')!.textContent!.trim())).toEqual([FLAG_ADVICE['negative-flux'].words, FLAG_ADVICE.spike.words]);
-    expect(rows.map((r) => r.querySelector('.advice')!.textContent!.trim())).toEqual([FLAG_ADVICE['negative-flux'].advice, FLAG_ADVICE.spike.advice]);
+    expect(rows.map((r) => r.querySelector('.words')!.textContent!.trim())).toEqual([
+      FLAG_ADVICE['negative-flux'].words,
+      FLAG_ADVICE.spike.words,
+    ]);
+    expect(rows.map((r) => r.querySelector('.advice')!.textContent!.trim())).toEqual([
+      FLAG_ADVICE['negative-flux'].advice,
+      FLAG_ADVICE.spike.advice,
+    ]);
     expect(rows.map((r) => r.querySelector('.flag-code')!.textContent!.trim())).toEqual(['negative-flux', 'spike']);
     // The code is a secondary detail: never the first thing the lead reads.
     expect(rows[0].textContent!.trim().startsWith(FLAG_ADVICE['negative-flux'].words)).toBe(true);

@@ -5,9 +5,18 @@ import { RecordsApi } from '../../core/api/records-api';
 import type { ProgressState } from '../../../../shared/model/progress-state';
 export type { ProgressState };
 export type ItemKey = 'offset' | 'closures' | 'probes';
-export interface ProgressItem { state: ProgressState; done: number; needed: number }
+export interface ProgressItem {
+  state: ProgressState;
+  done: number;
+  needed: number;
+}
 export interface ProgressCollar {
-  collarId: string; code: string; routeId: string | null; plotId: string; state: ProgressState; skipReason: string | null;
+  collarId: string;
+  code: string;
+  routeId: string | null;
+  plotId: string;
+  state: ProgressState;
+  skipReason: string | null;
   items: Partial<Record<ItemKey, ProgressItem>>;
 }
 export type StateCounts = Record<ProgressState, number>;
@@ -16,36 +25,78 @@ export interface Progress {
   totals: { byRoute: Record<string, StateCounts>; byPlot: Record<string, StateCounts>; byTreatment: Record<string, StateCounts> };
 }
 export type Rec = Record<string, unknown> & { id: string; rev: number };
-export interface CampaignRoute { routeId: string; crewIds: string[]; direction: 'forward' | 'reverse' | 'alternate' }
+export interface CampaignRoute {
+  routeId: string;
+  crewIds: string[];
+  direction: 'forward' | 'reverse' | 'alternate';
+}
 export interface Campaign extends Rec {
-  siteId: string; name: string; startsOn: string; endsOn: string; rounds: number; dueOffset: boolean; dueClosures: number;
-  dueProbes: boolean; routes: CampaignRoute[]; roundWindows: { round: number; from: string; to: string }[]; locked: boolean;
+  siteId: string;
+  name: string;
+  startsOn: string;
+  endsOn: string;
+  rounds: number;
+  dueOffset: boolean;
+  dueClosures: number;
+  dueProbes: boolean;
+  routes: CampaignRoute[];
+  roundWindows: { round: number; from: string; to: string }[];
+  locked: boolean;
 }
 export interface Anomaly {
-  kind: string; severity: 'problem' | 'warn'; collarId: string | null; collarCode: string | null; recordId: string;
-  at: string | null; value: number | null; threshold: number | null; message: string;
+  kind: string;
+  severity: 'problem' | 'warn';
+  collarId: string | null;
+  collarCode: string | null;
+  recordId: string;
+  at: string | null;
+  value: number | null;
+  threshold: number | null;
+  message: string;
   /** For a flagged closure: its QC flag codes (shown in words from shared/flux/flag-advice.ts). */
   flags?: string[];
 }
 export interface DeviceRow {
-  id: string; userId: string; email: string; displayName: string; lastPushAt: string | null; lastPullAt: string | null;
-  outboxSize: number | null; lastSeenAt: string | null; silent: boolean;
+  id: string;
+  userId: string;
+  email: string;
+  displayName: string;
+  lastPushAt: string | null;
+  lastPullAt: string | null;
+  outboxSize: number | null;
+  lastSeenAt: string | null;
+  silent: boolean;
 }
 /** The lead's digest as the server would mail it now (GET /api/sites/:siteId/digest). */
-export interface DigestRoute { routeId: string | null; routeName: string; due: string[]; partial: { code: string; missing: string[] }[]; complete: number; skipped: number }
+export interface DigestRoute {
+  routeId: string | null;
+  routeName: string;
+  due: string[];
+  partial: { code: string; missing: string[] }[];
+  complete: number;
+  skipped: number;
+}
 export interface Digest {
   site: { id: string; name: string; timezone: string };
   localDate: string;
-  campaigns: { id: string; name: string; startsOn: string; endsOn: string;
-    routes: DigestRoute[] }[];
+  campaigns: { id: string; name: string; startsOn: string; endsOn: string; routes: DigestRoute[] }[];
   anomalies: { total: number; problems: number; items: Anomaly[] };
   silentDevices: { displayName: string; email: string; lastSeenAt: string | null; outboxSize: number | null }[];
 }
 export interface JobState {
-  id: string; state: 'queued' | 'active' | 'completed' | 'failed'; done: number; total: number | null;
-  result: Record<string, unknown> | null; error: string | null;
+  id: string;
+  state: 'queued' | 'active' | 'completed' | 'failed';
+  done: number;
+  total: number | null;
+  result: Record<string, unknown> | null;
+  error: string | null;
 }
-export interface Member { id: string; displayName: string; email: string; roles: string[] }
+export interface Member {
+  id: string;
+  displayName: string;
+  email: string;
+  roles: string[];
+}
 
 /** The Board's calls: generic record routes, the progress query and the Board's own routes. */
 @Injectable({ providedIn: 'root' })
@@ -81,7 +132,9 @@ export class BoardApi {
   }
 
   setLocked(campaignId: string, locked: boolean): Promise<Campaign> {
-    return firstValueFrom(this.http.post<{ record: Campaign }>(`/api/campaigns/${campaignId}/${locked ? 'lock' : 'unlock'}`, {})).then((r) => r.record);
+    return firstValueFrom(this.http.post<{ record: Campaign }>(`/api/campaigns/${campaignId}/${locked ? 'lock' : 'unlock'}`, {})).then(
+      (r) => r.record,
+    );
   }
 
   anomalies(siteId: string, campaignId: string | null, days: number): Promise<{ campaignId: string | null; items: Anomaly[] }> {

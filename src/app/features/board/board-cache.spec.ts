@@ -49,7 +49,7 @@ describe('BoardCache', () => {
     await expect(cacheFor().load('never', () => Promise.reject(offline))).rejects.toBe(offline);
   });
 
-  it('when two users use the same tablet, then the kept answers are stored under each user and B never sees A\'s', async () => {
+  it("when two users use the same tablet, then the kept answers are stored under each user and B never sees A's", async () => {
     const a = cacheFor(leadA);
     await a.load('progress.site-a.c1', async () => ({ collars: ['A-only'] }));
     await idle();

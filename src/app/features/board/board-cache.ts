@@ -3,7 +3,11 @@ import { isOfflineError } from '../../core/api/api-error';
 import { AuthStore } from '../../core/auth/auth-store';
 import { userKey } from '../../core/device/device-memory';
 
-export interface Cached<T> { value: T; savedAt: string; fromCache: boolean }
+export interface Cached<T> {
+  value: T;
+  savedAt: string;
+  fromCache: boolean;
+}
 
 /** The stored name of one kept answer: per user (then per question, which names the site), so a shared tablet never shows one lead's Board to another. */
 export function boardCacheKey(userId: string, key: string): string {
@@ -34,13 +38,14 @@ export class BoardCache {
       const savedAt = new Date().toISOString();
       const stored = this.storageKey(key);
       // Serialising a 5 000-collar answer takes ~100 ms on a slow phone: keep it off the first paint.
-      if (stored) whenIdle(() => {
-        try {
-          localStorage.setItem(stored, JSON.stringify({ value, savedAt }));
-        } catch {
-          // Storage full (a 5 000-collar answer is ~1.5 MB): the live answer is still shown.
-        }
-      });
+      if (stored)
+        whenIdle(() => {
+          try {
+            localStorage.setItem(stored, JSON.stringify({ value, savedAt }));
+          } catch {
+            // Storage full (a 5 000-collar answer is ~1.5 MB): the live answer is still shown.
+          }
+        });
       return { value, savedAt, fromCache: false };
     } catch (err) {
       const copy = isOfflineError(err) ? this.recall<T>(key) : null;
@@ -64,7 +69,9 @@ export class BoardCache {
 /** Copies kept by an earlier version under `fw.board.<question>`, whose owner is unknown. */
 function dropUnownedCopies(): void {
   try {
-    const old = Object.keys(localStorage).filter((k) => /^fw\.board\.(progress|anomalies|devices|campaigns|routes|plots|treatments|members|collars)\./.test(k));
+    const old = Object.keys(localStorage).filter((k) =>
+      /^fw\.board\.(progress|anomalies|devices|campaigns|routes|plots|treatments|members|collars)\./.test(k),
+    );
     for (const k of old) localStorage.removeItem(k);
   } catch {
     // Storage unavailable: nothing was kept either.

@@ -5,9 +5,29 @@ import { BoardMap } from './board-map';
 import { BoardStore } from './board-store';
 
 const HOSTILE = '<img src=x onerror=alert(1)>';
-const SITE = { id: 'site-a', rev: 1, name: 'Hollow Creek Meadow', tileUrl: 'http://tiles.invalid/{z}/{x}/{y}.png', tileAttribution: `© ${HOSTILE}` };
-const PLOT: Rec = { id: 'plot-1', rev: 1, code: `P${HOSTILE}`,
-  outline: { type: 'Polygon', coordinates: [[[11.6, 50.97], [11.601, 50.97], [11.601, 50.971], [11.6, 50.97]]] } };
+const SITE = {
+  id: 'site-a',
+  rev: 1,
+  name: 'Hollow Creek Meadow',
+  tileUrl: 'http://tiles.invalid/{z}/{x}/{y}.png',
+  tileAttribution: `© ${HOSTILE}`,
+};
+const PLOT: Rec = {
+  id: 'plot-1',
+  rev: 1,
+  code: `P${HOSTILE}`,
+  outline: {
+    type: 'Polygon',
+    coordinates: [
+      [
+        [11.6, 50.97],
+        [11.601, 50.97],
+        [11.601, 50.971],
+        [11.6, 50.97],
+      ],
+    ],
+  },
+};
 
 describe('BoardMap', () => {
   it('when a plot code or the tile attribution holds HTML, then the map shows it as literal text and no element is made from it', async () => {
@@ -15,7 +35,16 @@ describe('BoardMap', () => {
     TestBed.configureTestingModule({
       imports: [BoardMap],
       providers: [
-        { provide: BoardStore, useValue: { ensureCollars: async () => undefined, site: signal({ id: SITE.id, name: SITE.name }), rows: signal([]), collars: signal([]), plots: signal([PLOT]) } },
+        {
+          provide: BoardStore,
+          useValue: {
+            ensureCollars: async () => undefined,
+            site: signal({ id: SITE.id, name: SITE.name }),
+            rows: signal([]),
+            collars: signal([]),
+            plots: signal([PLOT]),
+          },
+        },
         { provide: BoardApi, useValue: { record: async () => SITE } },
       ],
     });

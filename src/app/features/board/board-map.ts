@@ -1,4 +1,15 @@
-import { ChangeDetectionStrategy, Component, DestroyRef, ElementRef, afterNextRender, computed, effect, inject, signal, viewChild } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  DestroyRef,
+  ElementRef,
+  afterNextRender,
+  computed,
+  effect,
+  inject,
+  signal,
+  viewChild,
+} from '@angular/core';
 import { DomSanitizer, type SafeHtml } from '@angular/platform-browser';
 import * as L from 'leaflet';
 import { serverMessage } from '../../core/api/api-error';
@@ -21,24 +32,70 @@ const STATES: ProgressState[] = ['due', 'partial', 'complete', 'skipped'];
     <section aria-labelledby="map-heading">
       <h2 id="map-heading" class="visually-hidden">Map</h2>
       <ul class="legend" aria-label="Map legend">
-        @for (s of states; track s) { <li><span [innerHTML]="shape(s)"></span> {{ label(s) }} ({{ counts()[s] }})</li> }
+        @for (s of states; track s) {
+          <li><span [innerHTML]="shape(s)"></span> {{ label(s) }} ({{ counts()[s] }})</li>
+        }
         <li><span class="outline"></span> plot outline</li>
       </ul>
       <div #map class="map" role="region" aria-label="Map of collars by state"></div>
-      <p class="note">Each collar is drawn as its state's shape with its code beside it where there is room; zoom in for more codes, click a collar to name it.</p>
+      <p class="note">
+        Each collar is drawn as its state's shape with its code beside it where there is room; zoom in for more codes, click a collar to
+        name it.
+      </p>
       <p class="note">{{ note() }}</p>
       <p role="alert" class="problem">{{ problem() }}</p>
     </section>
   `,
   styles: `
-    .legend { display: flex; flex-wrap: wrap; gap: 1rem; list-style: none; padding: 0; margin: .5rem 0; }
-    .legend li { display: inline-flex; align-items: center; gap: 4px; }
-    .outline { display: inline-block; width: 16px; height: 12px; border: 2px dashed #33415c; }
-    .map { height: 520px; border: 1px solid var(--mat-sys-outline-variant); border-radius: 8px; background: #f3f1ea; }
-    .note { font-size: .85rem; color: var(--mat-sys-on-surface-variant); }
-    .problem { color: var(--mat-sys-error); }
-    .visually-hidden { position: absolute; width: 1px; height: 1px; overflow: hidden; clip: rect(0 0 0 0); white-space: nowrap; }
-    :host ::ng-deep .fw-plot-label { background: transparent; border: 0; box-shadow: none; font: 700 12px system-ui, sans-serif; color: #33415c; }
+    .legend {
+      display: flex;
+      flex-wrap: wrap;
+      gap: 1rem;
+      list-style: none;
+      padding: 0;
+      margin: 0.5rem 0;
+    }
+    .legend li {
+      display: inline-flex;
+      align-items: center;
+      gap: 4px;
+    }
+    .outline {
+      display: inline-block;
+      width: 16px;
+      height: 12px;
+      border: 2px dashed #33415c;
+    }
+    .map {
+      height: 520px;
+      border: 1px solid var(--mat-sys-outline-variant);
+      border-radius: 8px;
+      background: #f3f1ea;
+    }
+    .note {
+      font-size: 0.85rem;
+      color: var(--mat-sys-on-surface-variant);
+    }
+    .problem {
+      color: var(--mat-sys-error);
+    }
+    .visually-hidden {
+      position: absolute;
+      width: 1px;
+      height: 1px;
+      overflow: hidden;
+      clip: rect(0 0 0 0);
+      white-space: nowrap;
+    }
+    :host ::ng-deep .fw-plot-label {
+      background: transparent;
+      border: 0;
+      box-shadow: none;
+      font:
+        700 12px system-ui,
+        sans-serif;
+      color: #33415c;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -52,9 +109,11 @@ export class BoardMap {
   private collarLayer: CollarCanvasLayer | null = null;
   protected readonly states = STATES;
   protected readonly problem = signal('');
-  protected readonly note = computed(() => (this.site()?.['tileUrl']
-    ? 'Background map from the tile server set for this site.'
-    : 'No background map: the site has no tile server set (an admin can set one in Setup).'));
+  protected readonly note = computed(() =>
+    this.site()?.['tileUrl']
+      ? 'Background map from the tile server set for this site.'
+      : 'No background map: the site has no tile server set (an admin can set one in Setup).',
+  );
   protected readonly counts = computed(() => {
     const c: Record<ProgressState, number> = { due: 0, partial: 0, complete: 0, skipped: 0 };
     for (const r of this.store.rows()) c[r.state]++;
@@ -65,7 +124,9 @@ export class BoardMap {
     void this.store.ensureCollars();
     const siteId = this.store.site()?.id;
     if (siteId) {
-      this.api.record('sites', siteId).then((site) => this.site.set(site))
+      this.api
+        .record('sites', siteId)
+        .then((site) => this.site.set(site))
         .catch((err) => this.problem.set(serverMessage(err, 'The site could not be loaded')));
     }
     afterNextRender(() => {
@@ -79,7 +140,10 @@ export class BoardMap {
 
   private readonly sanitizer = inject(DomSanitizer);
   // Our own constant SVG shapes (no user input), so they may bypass the HTML sanitizer that strips SVG.
-  private readonly legendShapes = Object.fromEntries(STATES.map((s) => [s, this.sanitizer.bypassSecurityTrustHtml(shapeSvg(s))])) as Record<ProgressState, SafeHtml>;
+  private readonly legendShapes = Object.fromEntries(STATES.map((s) => [s, this.sanitizer.bypassSecurityTrustHtml(shapeSvg(s))])) as Record<
+    ProgressState,
+    SafeHtml
+  >;
 
   protected shape(s: ProgressState): SafeHtml {
     return this.legendShapes[s];
@@ -133,6 +197,7 @@ export class BoardMap {
  * next frame, so style, layout and paint of the markers count too (read by the e2e run).
  */
 function markDrawn(t0: number, markers: number): void {
-  requestAnimationFrame(() => setTimeout(() => performance.measure('board-map-draw', { start: t0, end: performance.now(), detail: { markers } })));
+  requestAnimationFrame(() =>
+    setTimeout(() => performance.measure('board-map-draw', { start: t0, end: performance.now(), detail: { markers } })),
+  );
 }
-

@@ -51,15 +51,24 @@ export class BoardStore {
     const treatment = new Map(this.treatments().map((t) => [t.id, String(t['code'])]));
     const memberName = new Map(this.members().map((m) => [m.id, m.displayName]));
     // Collar-level treatments (e.g. trenched/untrenched) arrive with the collar list, after the first paint.
-    const collarTreatment = new Map(this.collars().filter((k) => k['treatmentId']).map((k) => [k.id, String(k['treatmentId'])]));
+    const collarTreatment = new Map(
+      this.collars()
+        .filter((k) => k['treatmentId'])
+        .map((k) => [k.id, String(k['treatmentId'])]),
+    );
     const crewOf = new Map((this.campaign()?.routes ?? []).map((r) => [r.routeId, r.crewIds.map((id) => memberName.get(id) ?? 'someone')]));
     return p.collars.map((c, order) => {
       const pl = plot.get(c.plotId);
       const codes = [pl?.['treatmentId'], collarTreatment.get(c.collarId)]
-        .map((id) => (id ? treatment.get(String(id)) : undefined)).filter((x): x is string => !!x);
+        .map((id) => (id ? treatment.get(String(id)) : undefined))
+        .filter((x): x is string => !!x);
       return {
-        ...c, order, routeName: c.routeId ? routeName.get(c.routeId) ?? '' : '', plotCode: pl ? String(pl['code']) : '',
-        treatmentCodes: codes, crewNames: c.routeId ? crewOf.get(c.routeId) ?? [] : [],
+        ...c,
+        order,
+        routeName: c.routeId ? (routeName.get(c.routeId) ?? '') : '',
+        plotCode: pl ? String(pl['code']) : '',
+        treatmentCodes: codes,
+        crewNames: c.routeId ? (crewOf.get(c.routeId) ?? []) : [],
       };
     });
   });

@@ -6,8 +6,14 @@ import { STATE_COLOURS } from './state-badge';
 function recorder() {
   const calls: string[] = [];
   const ctx = new Proxy({} as Record<string, unknown>, {
-    get: (_t, name: string) => (...args: number[]) => calls.push(`${name}(${args.map((a) => Math.round(a * 100) / 100).join(',')})`),
-    set: (_t, name: string, value: unknown) => { calls.push(`${name}=${value}`); return true; },
+    get:
+      (_t, name: string) =>
+      (...args: number[]) =>
+        calls.push(`${name}(${args.map((a) => Math.round(a * 100) / 100).join(',')})`),
+    set: (_t, name: string, value: unknown) => {
+      calls.push(`${name}=${value}`);
+      return true;
+    },
   }) as unknown as CanvasRenderingContext2D;
   return { ctx, calls };
 }
@@ -25,7 +31,7 @@ describe('drawShape (map markers on one canvas)', () => {
   it('when partial, then the same ring plus its left half filled', () => {
     const { ctx, calls } = recorder();
     drawShape(ctx, 'partial', 100, 50);
-    expect(calls).toContain(`arc(100,50,4.81,${Math.round((Math.PI / 2) * 100) / 100},${Math.round((3 * Math.PI / 2) * 100) / 100})`);
+    expect(calls).toContain(`arc(100,50,4.81,${Math.round((Math.PI / 2) * 100) / 100},${Math.round(((3 * Math.PI) / 2) * 100) / 100})`);
     expect(calls.at(-1)).toBe('fill()');
   });
 

@@ -3,7 +3,12 @@ import { mapText } from '../../core/map/map-text';
 import type { ProgressState } from './board-api';
 import { STATE_COLOURS, STATE_LABELS } from './state-badge';
 
-export interface CollarPoint { lat: number; lon: number; code: string; state: ProgressState }
+export interface CollarPoint {
+  lat: number;
+  lon: number;
+  code: string;
+  state: ProgressState;
+}
 
 /** Marker box in CSS pixels (the 16-unit shapes of state-badge.ts drawn at 14 px). */
 const BOX = 14;
@@ -20,7 +25,8 @@ const HIT_PX = 10;
  */
 export function drawShape(ctx: CanvasRenderingContext2D, state: ProgressState, x: number, y: number): void {
   const c = STATE_COLOURS[state];
-  const ox = x - BOX / 2, oy = y - BOX / 2;
+  const ox = x - BOX / 2,
+    oy = y - BOX / 2;
   const p = (u: number) => u * UNIT;
   ctx.fillStyle = c;
   ctx.strokeStyle = c;
@@ -154,7 +160,10 @@ export class CollarCanvasLayer extends L.Layer {
     let bestD = HIT_PX * HIT_PX;
     for (const s of this.placed) {
       const d = (s.x - x) ** 2 + (s.y - y) ** 2;
-      if (d <= bestD) { bestD = d; best = s.p; }
+      if (d <= bestD) {
+        bestD = d;
+        best = s.p;
+      }
     }
     return best;
   }
@@ -162,6 +171,9 @@ export class CollarCanvasLayer extends L.Layer {
   private pick(e: L.LeafletMouseEvent): void {
     const hit = this.nearest(e.containerPoint.x, e.containerPoint.y);
     if (!hit || !this._map) return;
-    L.popup({ closeButton: true }).setLatLng([hit.lat, hit.lon]).setContent(mapText(`${hit.code}: ${STATE_LABELS[hit.state]}`)).openOn(this._map);
+    L.popup({ closeButton: true })
+      .setLatLng([hit.lat, hit.lon])
+      .setContent(mapText(`${hit.code}: ${STATE_LABELS[hit.state]}`))
+      .openOn(this._map);
   }
 }

@@ -10,7 +10,15 @@ import { BoardStore } from './board-store';
 import { DIGEST_POLL_MS, DigestPanel } from './digest-panel';
 
 const settle = () => new Promise((r) => setTimeout(r, 0));
-const job = (over: Partial<JobState>): JobState => ({ id: 'job-1', state: 'queued', done: 0, total: null, result: null, error: null, ...over });
+const job = (over: Partial<JobState>): JobState => ({
+  id: 'job-1',
+  state: 'queued',
+  done: 0,
+  total: null,
+  result: null,
+  error: null,
+  ...over,
+});
 
 async function render() {
   localStorage.clear();
@@ -23,7 +31,10 @@ async function render() {
   const el = fixture.nativeElement as HTMLElement;
   const text = (sel: string) => el.querySelector(sel)?.textContent?.replace(/\s+/g, ' ').trim() ?? '';
   const button = (name: string) => loader.getHarness(MatButtonHarness.with({ text: name }));
-  const stable = async () => { await settle(); await fixture.whenStable(); };
+  const stable = async () => {
+    await settle();
+    await fixture.whenStable();
+  };
   return { fixture, http, text, button, stable };
 }
 
@@ -43,7 +54,9 @@ describe('DigestPanel', () => {
     expect(await (await button('Send me the digest now')).isDisabled()).toBe(true);
 
     await new Promise((r) => setTimeout(r, DIGEST_POLL_MS + 50));
-    http.expectOne('/api/jobs/job-1').flush({ job: job({ state: 'completed', done: 1, total: 1, result: { sent: 1, recipients: 1, due: 12 } }) });
+    http
+      .expectOne('/api/jobs/job-1')
+      .flush({ job: job({ state: 'completed', done: 1, total: 1, result: { sent: 1, recipients: 1, due: 12 } }) });
     await stable();
     expect(text('[data-testid="digest-status"]')).toBe('Digest sent to lead@fluxwalk.example (12 collar(s) due).');
     expect(await (await button('Send me the digest now')).isDisabled()).toBe(false);
@@ -66,11 +79,43 @@ describe('DigestPanel', () => {
     await (await button('Preview digest')).click();
     const due = Array.from({ length: 45 }, (_, i) => `C${String(i + 1).padStart(3, '0')}`);
     const digest: Digest = {
-      site: { id: 'site-a', name: 'Hollow Creek Meadow', timezone: 'Europe/Vienna' }, localDate: '2026-05-04',
-      campaigns: [{ id: 'c1', name: 'May round', startsOn: '2026-05-03', endsOn: '2026-05-05', routes: [
-        { routeId: 'r1', routeName: 'North loop', due, partial: [{ code: 'C200', missing: ['closures 1/2'] }], complete: 3, skipped: 1 }] }],
-      anomalies: { total: 1, problems: 1, items: [{ kind: 'offset-moved', severity: 'problem', collarId: 'k', collarCode: 'C007', recordId: 'o',
-        at: null, value: 1.4, threshold: 1, message: 'Offset moved 1.4 cm since the last campaign' }] },
+      site: { id: 'site-a', name: 'Hollow Creek Meadow', timezone: 'Europe/Vienna' },
+      localDate: '2026-05-04',
+      campaigns: [
+        {
+          id: 'c1',
+          name: 'May round',
+          startsOn: '2026-05-03',
+          endsOn: '2026-05-05',
+          routes: [
+            {
+              routeId: 'r1',
+              routeName: 'North loop',
+              due,
+              partial: [{ code: 'C200', missing: ['closures 1/2'] }],
+              complete: 3,
+              skipped: 1,
+            },
+          ],
+        },
+      ],
+      anomalies: {
+        total: 1,
+        problems: 1,
+        items: [
+          {
+            kind: 'offset-moved',
+            severity: 'problem',
+            collarId: 'k',
+            collarCode: 'C007',
+            recordId: 'o',
+            at: null,
+            value: 1.4,
+            threshold: 1,
+            message: 'Offset moved 1.4 cm since the last campaign',
+          },
+        ],
+      },
       silentDevices: [{ displayName: 'Rowan Ashby', email: 'crew@fluxwalk.example', lastSeenAt: null, outboxSize: 4 }],
     };
     http.expectOne('/api/sites/site-a/digest').flush({ digest });
@@ -87,10 +132,31 @@ describe('DigestPanel', () => {
     const { http, text, button, stable } = await render();
     await (await button('Preview digest')).click();
     const digest: Digest = {
-      site: { id: 'site-a', name: 'Hollow Creek Meadow', timezone: 'Europe/Vienna' }, localDate: '2026-05-04',
-      campaigns: [{ id: 'c1', name: 'May round', startsOn: '2026-05-03', endsOn: '2026-05-05', routes: [
-        { routeId: 'r1', routeName: 'North loop', due: ['C1'], partial: [{ code: 'C2', missing: ['probes 0/1'] }, { code: 'C3', missing: ['offset 0/1'] }], complete: 3, skipped: 4 }] }],
-      anomalies: { total: 0, problems: 0, items: [] }, silentDevices: [],
+      site: { id: 'site-a', name: 'Hollow Creek Meadow', timezone: 'Europe/Vienna' },
+      localDate: '2026-05-04',
+      campaigns: [
+        {
+          id: 'c1',
+          name: 'May round',
+          startsOn: '2026-05-03',
+          endsOn: '2026-05-05',
+          routes: [
+            {
+              routeId: 'r1',
+              routeName: 'North loop',
+              due: ['C1'],
+              partial: [
+                { code: 'C2', missing: ['probes 0/1'] },
+                { code: 'C3', missing: ['offset 0/1'] },
+              ],
+              complete: 3,
+              skipped: 4,
+            },
+          ],
+        },
+      ],
+      anomalies: { total: 0, problems: 0, items: [] },
+      silentDevices: [],
     };
     http.expectOne('/api/sites/site-a/digest').flush({ digest });
     await stable();

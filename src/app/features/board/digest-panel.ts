@@ -35,31 +35,56 @@ const CODES_SHOWN = 40;
             <h4>{{ c.name }} ({{ c.startsOn }} to {{ c.endsOn }})</h4>
             <ul>
               @for (r of c.routes; track r.routeId) {
-                <li><strong>{{ r.routeName }}</strong>: {{ counts(r) }}
-                  @if (r.due.length) { <br />{{ heading.due }}: {{ codes(r.due) }} }
-                  @for (p of r.partial; track p.code) { <br />{{ heading.partial }} {{ p.code }}: still needs {{ p.missing.join(', ') }} }
+                <li>
+                  <strong>{{ r.routeName }}</strong>: {{ counts(r) }}
+                  @if (r.due.length) {
+                    <br />{{ heading.due }}: {{ codes(r.due) }}
+                  }
+                  @for (p of r.partial; track p.code) {
+                    <br />{{ heading.partial }} {{ p.code }}: still needs {{ p.missing.join(', ') }}
+                  }
                 </li>
               }
             </ul>
-          } @empty { <p>No open campaign: nothing is due.</p> }
+          } @empty {
+            <p>No open campaign: nothing is due.</p>
+          }
           <h4>Worth a look ({{ d.anomalies.total }}, {{ d.anomalies.problems }} to act on)</h4>
           <ul>
-            @for (a of d.anomalies.items; track $index) { <li>{{ a.severity === 'problem' ? 'Act: ' : '' }}{{ a.collarCode ? a.collarCode + ': ' : '' }}{{ a.message }}</li> }
-            @empty { <li>Nothing unusual found.</li> }
+            @for (a of d.anomalies.items; track $index) {
+              <li>{{ a.severity === 'problem' ? 'Act: ' : '' }}{{ a.collarCode ? a.collarCode + ': ' : '' }}{{ a.message }}</li>
+            } @empty {
+              <li>Nothing unusual found.</li>
+            }
           </ul>
           <h4>Devices silent for a day or more ({{ d.silentDevices.length }})</h4>
           <ul>
-            @for (s of d.silentDevices; track s.email) { <li>{{ s.displayName }} ({{ s.email }}){{ s.outboxSize ? ', ' + s.outboxSize + ' not yet synced' : '' }}</li> }
-            @empty { <li>Every device has synced within the last day.</li> }
+            @for (s of d.silentDevices; track s.email) {
+              <li>{{ s.displayName }} ({{ s.email }}){{ s.outboxSize ? ', ' + s.outboxSize + ' not yet synced' : '' }}</li>
+            } @empty {
+              <li>Every device has synced within the last day.</li>
+            }
           </ul>
         </article>
       }
     </section>
   `,
   styles: `
-    .actions { display: flex; gap: .75rem; flex-wrap: wrap; }
-    .preview { border: 1px solid var(--mat-sys-outline-variant); border-radius: 8px; padding: .5rem 1rem; max-width: 60rem; }
-    .problem { color: var(--mat-sys-error); font-weight: 600; }
+    .actions {
+      display: flex;
+      gap: 0.75rem;
+      flex-wrap: wrap;
+    }
+    .preview {
+      border: 1px solid var(--mat-sys-outline-variant);
+      border-radius: 8px;
+      padding: 0.5rem 1rem;
+      max-width: 60rem;
+    }
+    .problem {
+      color: var(--mat-sys-error);
+      font-weight: 600;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -74,7 +99,9 @@ export class DigestPanel {
   private timer: ReturnType<typeof setTimeout> | null = null;
 
   constructor() {
-    inject(DestroyRef).onDestroy(() => { if (this.timer) clearTimeout(this.timer); });
+    inject(DestroyRef).onDestroy(() => {
+      if (this.timer) clearTimeout(this.timer);
+    });
   }
 
   /** The state words of the shared table, as the first word of a line. */
@@ -116,10 +143,14 @@ export class DigestPanel {
       this.status.set('');
       this.sending.set(false);
     } else {
-      this.timer = setTimeout(() => void this.follow(jobId, to).catch((err) => {
-        this.problem.set(serverMessage(err, 'Could not learn whether the digest went out'));
-        this.sending.set(false);
-      }), DIGEST_POLL_MS);
+      this.timer = setTimeout(
+        () =>
+          void this.follow(jobId, to).catch((err) => {
+            this.problem.set(serverMessage(err, 'Could not learn whether the digest went out'));
+            this.sending.set(false);
+          }),
+        DIGEST_POLL_MS,
+      );
     }
   }
 

@@ -7,8 +7,18 @@ import { BoardStore } from './board-store';
 import { PlanView } from './plan-view';
 
 const campaign = {
-  id: 'camp', rev: 2, siteId: 'site-a', name: 'June', startsOn: '2026-06-01', endsOn: '2026-06-03', rounds: 1, dueOffset: true, dueClosures: 1,
-  dueProbes: true, routes: [], locked: false,
+  id: 'camp',
+  rev: 2,
+  siteId: 'site-a',
+  name: 'June',
+  startsOn: '2026-06-01',
+  endsOn: '2026-06-03',
+  rounds: 1,
+  dueOffset: true,
+  dueClosures: 1,
+  dueProbes: true,
+  routes: [],
+  locked: false,
   // 20:00–23:00 UTC on 1 June is 08:00–11:00 on 2 June in Auckland (NZST, UTC+12).
   roundWindows: [{ round: 1, from: '2026-06-01T20:00:00.000Z', to: '2026-06-01T23:00:00.000Z' }],
 } as unknown as Campaign;
@@ -18,9 +28,15 @@ async function render() {
   rememberOnDevice(testUser(['lead']), [{ id: 'site-a', name: 'Hollow Creek Meadow', timezone: 'Pacific/Auckland' }]);
   const sent: Record<string, unknown>[] = [];
   const api: Partial<BoardApi> = {
-    update: (async (_e: string, _id: string, _rev: number, body: Record<string, unknown>) => { sent.push(body); return { ...campaign, rev: 3 }; }) as BoardApi['update'],
+    update: (async (_e: string, _id: string, _rev: number, body: Record<string, unknown>) => {
+      sent.push(body);
+      return { ...campaign, rev: 3 };
+    }) as BoardApi['update'],
   };
-  TestBed.configureTestingModule({ imports: [PlanView], providers: [BoardStore, provideHttpClient(), provideHttpClientTesting(), { provide: BoardApi, useValue: api }] });
+  TestBed.configureTestingModule({
+    imports: [PlanView],
+    providers: [BoardStore, provideHttpClient(), provideHttpClientTesting(), { provide: BoardApi, useValue: api }],
+  });
   const store = TestBed.inject(BoardStore);
   store.loadProgress = async () => undefined;
   store.campaigns.set([campaign]);

@@ -12,8 +12,18 @@ import { BoardApi, type Campaign, type CampaignRoute } from './board-api';
 import { BoardStore } from './board-store';
 import { RouteOrder } from './route-order';
 
-interface RoutePlan { routeId: string; name: string; included: boolean; crewIds: string[]; direction: CampaignRoute['direction'] }
-interface Window { round: number; from: string; to: string }
+interface RoutePlan {
+  routeId: string;
+  name: string;
+  included: boolean;
+  crewIds: string[];
+  direction: CampaignRoute['direction'];
+}
+interface Window {
+  round: number;
+  from: string;
+  to: string;
+}
 
 /**
  * Planning: a new campaign (dates, rounds — several a day for diel work —, due items), then for
@@ -31,7 +41,15 @@ export class PlanView {
   protected readonly store = inject(BoardStore);
   private readonly api = inject(BoardApi);
 
-  protected draft = { name: '', startsOn: siteToday(this.store.zone()), endsOn: siteToday(this.store.zone()), rounds: 1, dueOffset: true, dueClosures: 1, dueProbes: true };
+  protected draft = {
+    name: '',
+    startsOn: siteToday(this.store.zone()),
+    endsOn: siteToday(this.store.zone()),
+    rounds: 1,
+    dueOffset: true,
+    dueClosures: 1,
+    dueProbes: true,
+  };
   protected readonly createProblem = signal('');
   protected readonly createStatus = signal('');
   protected readonly plans = signal<RoutePlan[]>([]);
@@ -40,7 +58,9 @@ export class PlanView {
   protected readonly assignProblem = signal('');
   protected readonly locked = computed(() => this.store.campaign()?.locked ?? false);
   protected readonly directions: { value: CampaignRoute['direction']; label: string }[] = [
-    { value: 'alternate', label: 'Alternate each round' }, { value: 'forward', label: 'Always forward' }, { value: 'reverse', label: 'Always reverse' },
+    { value: 'alternate', label: 'Alternate each round' },
+    { value: 'forward', label: 'Always forward' },
+    { value: 'reverse', label: 'Always reverse' },
   ];
 
   constructor() {
@@ -49,21 +69,37 @@ export class PlanView {
     effect(() => {
       const c = this.store.campaign();
       const routes = this.store.routes();
-      untracked(() => this.resetPlans(c, routes.map((r) => ({ id: r.id, name: String(r['name']) }))));
+      untracked(() =>
+        this.resetPlans(
+          c,
+          routes.map((r) => ({ id: r.id, name: String(r['name']) })),
+        ),
+      );
     });
   }
 
   private resetPlans(c: Campaign | null, routes: { id: string; name: string }[]): void {
     const assigned = new Map((c?.routes ?? []).map((r) => [r.routeId, r]));
-    this.plans.set(routes.map((r) => ({
-      routeId: r.id, name: r.name, included: assigned.has(r.id),
-      crewIds: assigned.get(r.id)?.crewIds ?? [], direction: assigned.get(r.id)?.direction ?? 'alternate',
-    })));
-    const ws = c ? Array.from({ length: c.rounds }, (_, i) => {
-      const w = c.roundWindows.find((x) => x.round === i + 1);
-      // datetime-local fields hold the site's wall time (not UTC, not the lead's device zone).
-      return { round: i + 1, from: w ? siteWallTime(w.from, this.store.zone()) : '', to: w ? siteWallTime(w.to, this.store.zone()) : '' };
-    }) : [];
+    this.plans.set(
+      routes.map((r) => ({
+        routeId: r.id,
+        name: r.name,
+        included: assigned.has(r.id),
+        crewIds: assigned.get(r.id)?.crewIds ?? [],
+        direction: assigned.get(r.id)?.direction ?? 'alternate',
+      })),
+    );
+    const ws = c
+      ? Array.from({ length: c.rounds }, (_, i) => {
+          const w = c.roundWindows.find((x) => x.round === i + 1);
+          // datetime-local fields hold the site's wall time (not UTC, not the lead's device zone).
+          return {
+            round: i + 1,
+            from: w ? siteWallTime(w.from, this.store.zone()) : '',
+            to: w ? siteWallTime(w.to, this.store.zone()) : '',
+          };
+        })
+      : [];
     this.windows.set(ws);
     this.assignStatus.set('');
     this.assignProblem.set('');
@@ -75,14 +111,21 @@ export class PlanView {
     const site = this.store.site();
     if (!site) return;
     try {
-      const c = await this.api.create<Campaign>('campaigns', { siteId: site.id, ...this.draft, rounds: Number(this.draft.rounds),
-        dueClosures: Number(this.draft.dueClosures), routes: [] });
+      const c = await this.api.create<Campaign>('campaigns', {
+        siteId: site.id,
+        ...this.draft,
+        rounds: Number(this.draft.rounds),
+        dueClosures: Number(this.draft.dueClosures),
+        routes: [],
+      });
       this.store.replaceCampaign(c);
       this.store.choose(c.id);
       this.createStatus.set(`Campaign "${c.name}" created: choose its routes and crews below.`);
       this.draft = { ...this.draft, name: '' };
     } catch (err) {
-      const fields = fieldProblems(err).map((p) => `${p.path}: ${p.message}`).join('; ');
+      const fields = fieldProblems(err)
+        .map((p) => `${p.path}: ${p.message}`)
+        .join('; ');
       this.createProblem.set(`${serverMessage(err, 'The campaign could not be created')}${fields ? ` (${fields})` : ''}`);
     }
   }
@@ -100,7 +143,9 @@ export class PlanView {
     if (!c) return;
     this.assignStatus.set('');
     this.assignProblem.set('');
-    const routes = this.plans().filter((p) => p.included).map((p) => ({ routeId: p.routeId, crewIds: p.crewIds, direction: p.direction }));
+    const routes = this.plans()
+      .filter((p) => p.included)
+      .map((p) => ({ routeId: p.routeId, crewIds: p.crewIds, direction: p.direction }));
     // datetime-local values are the site's wall time; the wire carries UTC instants.
     const zone = this.store.zone();
     const roundWindows: { round: number; from: string; to: string }[] = [];

@@ -3,16 +3,29 @@ import { filterRows, groupCounts, needs, NO_FILTER, readyToClose, sortRows, type
 
 function row(code: string, order: number, over: Partial<ProgressRow> = {}): ProgressRow {
   return {
-    collarId: code, code, routeId: 'r1', plotId: 'p1', state: 'due', skipReason: null, order,
+    collarId: code,
+    code,
+    routeId: 'r1',
+    plotId: 'p1',
+    state: 'due',
+    skipReason: null,
+    order,
     items: { offset: { state: 'due', done: 0, needed: 1 }, closures: { state: 'due', done: 0, needed: 1 } },
-    routeName: 'West', plotCode: 'P01', treatmentCodes: ['CTL'], crewNames: [], ...over,
+    routeName: 'West',
+    plotCode: 'P01',
+    treatmentCodes: ['CTL'],
+    crewNames: [],
+    ...over,
   };
 }
 
 describe('progress rows', () => {
   const rows = [
     row('C10', 0),
-    row('C2', 1, { state: 'partial', items: { offset: { state: 'complete', done: 1, needed: 1 }, closures: { state: 'due', done: 0, needed: 1 } } }),
+    row('C2', 1, {
+      state: 'partial',
+      items: { offset: { state: 'complete', done: 1, needed: 1 }, closures: { state: 'due', done: 0, needed: 1 } },
+    }),
     row('C3', 2, { state: 'skipped', skipReason: 'standing water', routeId: 'r2', plotId: 'p2', plotCode: 'P02', treatmentCodes: ['WRM'] }),
   ];
 

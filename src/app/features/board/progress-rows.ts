@@ -34,13 +34,16 @@ export function needs(row: ProgressCollar, key: ItemKey): boolean {
 export function filterRows(rows: readonly ProgressRow[], f: ProgressFilter, crewRoutes: ReadonlyMap<string, string[]>): ProgressRow[] {
   const text = f.text.trim().toLowerCase();
   const crewRouteIds = f.crewId ? new Set(crewRoutes.get(f.crewId) ?? []) : null;
-  return rows.filter((r) => (!f.need || needs(r, f.need))
-    && (!f.routeId || r.routeId === f.routeId)
-    && (!f.plotId || r.plotId === f.plotId)
-    && (!f.treatment || r.treatmentCodes.includes(f.treatment))
-    && (!crewRouteIds || (r.routeId !== null && crewRouteIds.has(r.routeId)))
-    && (!f.state || r.state === f.state)
-    && (!text || r.code.toLowerCase().includes(text) || (r.skipReason ?? '').toLowerCase().includes(text)));
+  return rows.filter(
+    (r) =>
+      (!f.need || needs(r, f.need)) &&
+      (!f.routeId || r.routeId === f.routeId) &&
+      (!f.plotId || r.plotId === f.plotId) &&
+      (!f.treatment || r.treatmentCodes.includes(f.treatment)) &&
+      (!crewRouteIds || (r.routeId !== null && crewRouteIds.has(r.routeId))) &&
+      (!f.state || r.state === f.state) &&
+      (!text || r.code.toLowerCase().includes(text) || (r.skipReason ?? '').toLowerCase().includes(text)),
+  );
 }
 
 export function sortRows(rows: ProgressRow[], key: SortKey, descending: boolean): ProgressRow[] {
@@ -55,7 +58,12 @@ export function sortRows(rows: ProgressRow[], key: SortKey, descending: boolean)
   return descending ? sorted.reverse() : sorted;
 }
 
-export interface GroupBar { key: string; label: string; counts: StateCounts; total: number }
+export interface GroupBar {
+  key: string;
+  label: string;
+  counts: StateCounts;
+  total: number;
+}
 
 /** Counts per group for the progress bars, computed from the rows shown (so filters narrow them too). */
 export function groupCounts(rows: readonly ProgressRow[], by: (r: ProgressRow) => { key: string; label: string }[]): GroupBar[] {

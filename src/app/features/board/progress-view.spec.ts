@@ -7,8 +7,15 @@ import type { ProgressCollar } from './board-api';
 import { BoardStore } from './board-store';
 import { ProgressView } from './progress-view';
 
-const collar = (code: string, state: ProgressCollar['state'], items: ProgressCollar['items'] = {}): ProgressCollar =>
-  ({ collarId: `id-${code}`, code, routeId: null, plotId: 'p', state, skipReason: state === 'skipped' ? 'Flooded' : null, items });
+const collar = (code: string, state: ProgressCollar['state'], items: ProgressCollar['items'] = {}): ProgressCollar => ({
+  collarId: `id-${code}`,
+  code,
+  routeId: null,
+  plotId: 'p',
+  state,
+  skipReason: state === 'skipped' ? 'Flooded' : null,
+  items,
+});
 
 async function render() {
   localStorage.clear();
@@ -16,8 +23,13 @@ async function render() {
   TestBed.configureTestingModule({ imports: [ProgressView], providers: [BoardStore, provideHttpClient(), provideHttpClientTesting()] });
   const store = TestBed.inject(BoardStore);
   store.progress.set({
-    collars: [collar('C1', 'due', { closures: { state: 'due', done: 0, needed: 1 } }), collar('C2', 'partial', { offset: { state: 'complete', done: 1, needed: 1 }, closures: { state: 'partial', done: 1, needed: 2 } }),
-      collar('C3', 'complete'), collar('C4', 'complete'), collar('C5', 'skipped')],
+    collars: [
+      collar('C1', 'due', { closures: { state: 'due', done: 0, needed: 1 } }),
+      collar('C2', 'partial', { offset: { state: 'complete', done: 1, needed: 1 }, closures: { state: 'partial', done: 1, needed: 2 } }),
+      collar('C3', 'complete'),
+      collar('C4', 'complete'),
+      collar('C5', 'skipped'),
+    ],
     totals: { byRoute: {}, byPlot: {}, byTreatment: {} },
   });
   const fixture = TestBed.createComponent(ProgressView);
@@ -36,6 +48,8 @@ describe('Board progress words', () => {
   it('when the bars are read aloud, then each state is named with the word of the shared state table', async () => {
     const el = await render();
     const bar = el.querySelector('.bar[role="img"]')!.getAttribute('aria-label')!;
-    expect(bar).toBe(`No route: 2 ${PROGRESS_STATE_WORDS.complete}, 1 ${PROGRESS_STATE_WORDS.skipped}, 1 ${PROGRESS_STATE_WORDS.partial}, 1 ${PROGRESS_STATE_WORDS.due} of 5`);
+    expect(bar).toBe(
+      `No route: 2 ${PROGRESS_STATE_WORDS.complete}, 1 ${PROGRESS_STATE_WORDS.skipped}, 1 ${PROGRESS_STATE_WORDS.partial}, 1 ${PROGRESS_STATE_WORDS.due} of 5`,
+    );
   });
 });

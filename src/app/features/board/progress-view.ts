@@ -11,7 +11,17 @@ import { narrowScreen } from '../../core/layout/narrow-screen';
 import { BoardApi, type ItemKey } from './board-api';
 import { BoardStore } from './board-store';
 import { StateBadge } from './state-badge';
-import { filterRows, groupCounts, itemText, NO_FILTER, sortRows, type GroupBar, type ProgressFilter, type ProgressRow, type SortKey } from './progress-rows';
+import {
+  filterRows,
+  groupCounts,
+  itemText,
+  NO_FILTER,
+  sortRows,
+  type GroupBar,
+  type ProgressFilter,
+  type ProgressRow,
+  type SortKey,
+} from './progress-rows';
 
 /**
  * Every collar × due item with its state, filters, counts and bars per route, plot and
@@ -19,7 +29,16 @@ import { filterRows, groupCounts, itemText, NO_FILTER, sortRows, type GroupBar, 
  */
 @Component({
   selector: 'fw-progress-view',
-  imports: [ScrollingModule, MatButtonModule, MatExpansionModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatSlideToggleModule, StateBadge],
+  imports: [
+    ScrollingModule,
+    MatButtonModule,
+    MatExpansionModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatSelectModule,
+    MatSlideToggleModule,
+    StateBadge,
+  ],
   templateUrl: './progress-view.html',
   styleUrl: './progress-view.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -30,8 +49,9 @@ export class ProgressView {
   protected readonly filter = signal<ProgressFilter>(NO_FILTER);
   protected readonly phone = narrowScreen();
   /** How many filters differ from "everything", for the folded panel's summary. */
-  protected readonly filtersSet = computed(() =>
-    (Object.keys(NO_FILTER) as (keyof ProgressFilter)[]).filter((k) => this.filter()[k] !== NO_FILTER[k]).length);
+  protected readonly filtersSet = computed(
+    () => (Object.keys(NO_FILTER) as (keyof ProgressFilter)[]).filter((k) => this.filter()[k] !== NO_FILTER[k]).length,
+  );
   protected readonly sortKey = signal<SortKey>('order');
   protected readonly descending = signal(false);
   protected readonly groupBy = signal<'route' | 'plot' | 'treatment'>('route');
@@ -40,15 +60,21 @@ export class ProgressView {
   protected readonly stateWords = PROGRESS_STATE_WORDS;
   protected readonly notDue = NOT_DUE_WORDS;
   protected readonly items: { key: ItemKey; label: string }[] = [
-    { key: 'offset', label: 'Offset' }, { key: 'closures', label: 'Closures' }, { key: 'probes', label: 'Probes' },
+    { key: 'offset', label: 'Offset' },
+    { key: 'closures', label: 'Closures' },
+    { key: 'probes', label: 'Probes' },
   ];
   protected readonly sorts: { key: SortKey; label: string }[] = [
-    { key: 'order', label: 'Walking order' }, { key: 'code', label: 'Collar code' }, { key: 'state', label: 'State' },
-    { key: 'plot', label: 'Plot' }, { key: 'route', label: 'Route' },
+    { key: 'order', label: 'Walking order' },
+    { key: 'code', label: 'Collar code' },
+    { key: 'state', label: 'State' },
+    { key: 'plot', label: 'Plot' },
+    { key: 'route', label: 'Route' },
   ];
 
   protected readonly shown = computed(() =>
-    sortRows(filterRows(this.store.rows(), this.filter(), this.store.crewRoutes()), this.sortKey(), this.descending()));
+    sortRows(filterRows(this.store.rows(), this.filter(), this.store.crewRoutes()), this.sortKey(), this.descending()),
+  );
 
   protected readonly counts = computed(() => {
     const c = { due: 0, partial: 0, complete: 0, skipped: 0 };
@@ -59,9 +85,13 @@ export class ProgressView {
 
   protected readonly bars = computed<GroupBar[]>(() => {
     const by = this.groupBy();
-    return groupCounts(this.shown(), (r) => by === 'route' ? [{ key: r.routeId ?? '-', label: r.routeName || 'No route' }]
-      : by === 'plot' ? [{ key: r.plotId, label: r.plotCode }]
-      : r.treatmentCodes.map((t) => ({ key: t, label: t })));
+    return groupCounts(this.shown(), (r) =>
+      by === 'route'
+        ? [{ key: r.routeId ?? '-', label: r.routeName || 'No route' }]
+        : by === 'plot'
+          ? [{ key: r.plotId, label: r.plotCode }]
+          : r.treatmentCodes.map((t) => ({ key: t, label: t })),
+    );
   });
 
   protected readonly csvForSpreadsheet = signal(false);

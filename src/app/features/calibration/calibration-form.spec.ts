@@ -19,7 +19,8 @@ async function render(limitPct = 2, timeZone = 'Europe/Berlin') {
   const loader = TestbedHarnessEnvironment.loader(fixture);
   const el = fixture.nativeElement as HTMLElement;
   const text = (id: string) => el.querySelector(`[data-testid="${id}"]`)?.textContent?.replace(/\s+/g, ' ').trim() ?? null;
-  const type = async (id: string, value: string) => (await loader.getHarness(MatInputHarness.with({ selector: `[data-testid="${id}"]` }))).setValue(value);
+  const type = async (id: string, value: string) =>
+    (await loader.getHarness(MatInputHarness.with({ selector: `[data-testid="${id}"]` }))).setValue(value);
   const save = async () => (await loader.getHarness(MatButtonHarness.with({ text: 'Save calibration' }))).click();
   return { fixture, loader, saved, el, text, type, save };
 }
@@ -45,16 +46,29 @@ describe('CalibrationForm', () => {
     expect(text('cal-left')).toBe('Left within the limit after adjustment.');
     await save();
     // 08:40 in Berlin in July is UTC+2 (EU summer time, Directive 2000/84/EC).
-    expect(saved).toEqual([{
-      at: '2026-07-10T06:40:00.000Z', zeroGasPpm: 0, zeroCylinder: null, zeroBeforePpm: 2.4, zeroAfterPpm: 0.1,
-      spanGasPpm: 1000, spanCylinder: 'CYL 88317', spanBeforePpm: 1012.3, spanAfterPpm: 1000.4, passed: true, note: 'Span after warm-up',
-    }]);
+    expect(saved).toEqual([
+      {
+        at: '2026-07-10T06:40:00.000Z',
+        zeroGasPpm: 0,
+        zeroCylinder: null,
+        zeroBeforePpm: 2.4,
+        zeroAfterPpm: 0.1,
+        spanGasPpm: 1000,
+        spanCylinder: 'CYL 88317',
+        spanBeforePpm: 1012.3,
+        spanAfterPpm: 1000.4,
+        passed: true,
+        note: 'Span after warm-up',
+      },
+    ]);
   });
 
   it('when the span was found 35 µmol/mol off a 1000 µmol/mol gas, then the form says it is over the 2 % site limit', async () => {
     const { text, type } = await render();
     await fillReadings(type, '1035', '1030');
-    expect(text('cal-drift-verdict')).toBe('Drift over the site limit: the lead sees it on the Board; fluxes since the last calibration need a look.');
+    expect(text('cal-drift-verdict')).toBe(
+      'Drift over the site limit: the lead sees it on the Board; fluxes since the last calibration need a look.',
+    );
     expect(text('cal-left')).toBe('Not left within the limit: adjust again, or record it and tell the lead.');
   });
 
@@ -64,9 +78,7 @@ describe('CalibrationForm', () => {
     await save();
     expect(saved).toEqual([]);
     const errors = await Promise.all((await loader.getAllHarnesses(MatFormFieldHarness)).map((f) => f.getTextErrors()));
-    expect(errors.flat()).toEqual(expect.arrayContaining([
-      'Certified value, above 0', 'The id on its label', 'Reading before adjusting',
-    ]));
+    expect(errors.flat()).toEqual(expect.arrayContaining(['Certified value, above 0', 'The id on its label', 'Reading before adjusting']));
   });
 
   it('when the form opens, then the time field shows now on the site clock', async () => {

@@ -5,7 +5,12 @@ import { FormControl, FormGroup, ReactiveFormsModule, Validators, type AbstractC
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
-import { DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT, calibrationDrifts, calibrationPassed, worstDriftPct } from '../../../../shared/model/calibration';
+import {
+  DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT,
+  calibrationDrifts,
+  calibrationPassed,
+  worstDriftPct,
+} from '../../../../shared/model/calibration';
 import { fromSiteWallTime, siteWallTime } from './site-clock';
 
 /** The fields of an analyzer check of kind 'calibration' that the form fills. */
@@ -23,7 +28,8 @@ export interface CalibrationEntry {
   note: string;
 }
 
-const positive = (c: AbstractControl<number | null>): ValidationErrors | null => (c.value !== null && c.value <= 0 ? { positive: true } : null);
+const positive = (c: AbstractControl<number | null>): ValidationErrors | null =>
+  c.value !== null && c.value <= 0 ? { positive: true } : null;
 const reading = () => new FormControl<number | null>(null, [Validators.required, Validators.min(-5000), Validators.max(20000)]);
 
 /**
@@ -90,9 +96,17 @@ export class CalibrationForm implements OnInit {
     }
     const v = this.form.getRawValue();
     this.save.emit({
-      at: at.iso, zeroGasPpm: v.zeroGasPpm!, zeroCylinder: v.zeroCylinder.trim() || null, zeroBeforePpm: v.zeroBeforePpm!, zeroAfterPpm: v.zeroAfterPpm!,
-      spanGasPpm: v.spanGasPpm!, spanCylinder: v.spanCylinder.trim(), spanBeforePpm: v.spanBeforePpm!, spanAfterPpm: v.spanAfterPpm!,
-      passed: this.leftWithin(), note: v.note.trim(),
+      at: at.iso,
+      zeroGasPpm: v.zeroGasPpm!,
+      zeroCylinder: v.zeroCylinder.trim() || null,
+      zeroBeforePpm: v.zeroBeforePpm!,
+      zeroAfterPpm: v.zeroAfterPpm!,
+      spanGasPpm: v.spanGasPpm!,
+      spanCylinder: v.spanCylinder.trim(),
+      spanBeforePpm: v.spanBeforePpm!,
+      spanAfterPpm: v.spanAfterPpm!,
+      passed: this.leftWithin(),
+      note: v.note.trim(),
     });
   }
 }

@@ -18,10 +18,20 @@ describe('ClosureCard: days in the site’s zone', () => {
     const fixture = TestBed.createComponent(ClosureCard);
     const site = { id: 's', rev: 1, timezone: 'Pacific/Auckland' } as LocalRecord;
     fixture.componentRef.setInput('closure', { id: 'z', rev: 1, analyzerId: 'a', chamberOnAt: null, chamberOffAt: null } as LocalRecord);
-    fixture.componentRef.setInput('inputs', { site, collar: { id: 'k', rev: 1 } as LocalRecord, profiles: [], offsetSets: [], analyzer: null, ambientChecks: [], visitAirTempC: null } as SpotInputs);
+    fixture.componentRef.setInput('inputs', {
+      site,
+      collar: { id: 'k', rev: 1 } as LocalRecord,
+      profiles: [],
+      offsetSets: [],
+      analyzer: null,
+      ambientChecks: [],
+      visitAirTempC: null,
+    } as SpotInputs);
     // 20:30 UTC on 1 June is 08:30 on 2 June in Auckland (NZST, UTC+12).
     fixture.componentRef.setInput('previous', [{ id: 'p1', startedAt: '2026-06-01T20:30:00.000Z', fluxUmolM2S: 2.5 }]);
     fixture.detectChanges();
-    expect((fixture.nativeElement as HTMLElement).querySelector('.previous')!.textContent!.replace(/\s+/g, ' ')).toContain('2.50 (2026-06-02)');
+    expect((fixture.nativeElement as HTMLElement).querySelector('.previous')!.textContent!.replace(/\s+/g, ' ')).toContain(
+      '2.50 (2026-06-02)',
+    );
   });
 });

@@ -14,16 +14,37 @@ describe('flux on the spot', () => {
   it('when a closure has a series, then the device gets the engine result with the volume chamber + loop + area × offset', () => {
     const tS = [0, 10, 20, 30, 40, 50, 60, 70, 80, 90];
     const closure = rec('c', {
-      startedAt: '2025-06-12T07:00:00Z', settleS: 10, analyzerId: 'A',
+      startedAt: '2025-06-12T07:00:00Z',
+      settleS: 10,
+      analyzerId: 'A',
       series: { tS, co2Ppm: tS.map((t) => 420 + 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20) },
     });
-    const spot = fluxOnTheSpot(closure, { site, collar, profiles: [profile], offsetSets: [offsets], analyzer: null, visitAirTempC: null,
-      ambientChecks: [{ id: 'a', analyzerId: 'A', at: '2025-06-12T06:30:00Z', co2Ppm: 415 }] })!;
+    const spot = fluxOnTheSpot(closure, {
+      site,
+      collar,
+      profiles: [profile],
+      offsetSets: [offsets],
+      analyzer: null,
+      visitAirTempC: null,
+      ambientChecks: [{ id: 'a', analyzerId: 'A', at: '2025-06-12T06:30:00Z', co2Ppm: 415 }],
+    })!;
     const area = (Math.PI * 20 * 20) / 4;
     expect(spot.volumeCm3).toBeCloseTo(4000 + 50 + area * 2, 6);
     // The same call the server makes, so the crew sees the lab's number.
-    const direct = fitClosure({ tS, co2Ppm: tS.map((t) => 420 + 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20),
-      volumeCm3: spot.volumeCm3!, areaCm2: area, settleS: 10, ambientPpm: 415, ambientMarginPpm: 100, pressureIsDefault: false, offsetAfter: false });
+    const direct = fitClosure({
+      tS,
+      co2Ppm: tS.map((t) => 420 + 0.5 * t),
+      h2oMmolMol: null,
+      pressureKpa: tS.map(() => 96),
+      tempC: tS.map(() => 20),
+      volumeCm3: spot.volumeCm3!,
+      areaCm2: area,
+      settleS: 10,
+      ambientPpm: 415,
+      ambientMarginPpm: 100,
+      pressureIsDefault: false,
+      offsetAfter: false,
+    });
     expect(spot.fit.selected!.fluxUmolM2S).toBeCloseTo(direct.selected!.fluxUmolM2S, 10);
     expect(spot.fit.linear!.slopePpmS).toBeCloseTo(0.5, 6);
     expect(spot.fit.linear!.fluxUmolM2S).toBeCloseTo(chamberFluxUmolM2S(0.5, 96, 20, spot.volumeCm3!, area, 0), 6);
@@ -34,8 +55,20 @@ describe('flux on the spot', () => {
   });
 
   it('when there is no offset set for the collar, then no flux is made up and the reason is shown', () => {
-    const closure = rec('c', { startedAt: '2025-06-12T07:00:00Z', settleS: 10, series: { tS: [0, 10, 20, 30], co2Ppm: [420, 425, 430, 435], tempC: [20, 20, 20, 20] } });
-    const spot = fluxOnTheSpot(closure, { site, collar, profiles: [profile], offsetSets: [], analyzer: null, ambientChecks: [], visitAirTempC: null })!;
+    const closure = rec('c', {
+      startedAt: '2025-06-12T07:00:00Z',
+      settleS: 10,
+      series: { tS: [0, 10, 20, 30], co2Ppm: [420, 425, 430, 435], tempC: [20, 20, 20, 20] },
+    });
+    const spot = fluxOnTheSpot(closure, {
+      site,
+      collar,
+      profiles: [profile],
+      offsetSets: [],
+      analyzer: null,
+      ambientChecks: [],
+      visitAirTempC: null,
+    })!;
     expect(spot.fit.selected).toBeNull();
     expect(spot.fit.flags).toEqual(['invalid-input']);
     expect(spot.fit.error).toMatch(/offset/i);
@@ -43,7 +76,10 @@ describe('flux on the spot', () => {
 
   it('when a short series is typed with decimal commas, then it is read; a line out of order is named', () => {
     const ok = readManualSeries('0 415,2\n10 418,9\n20 422,4', 18.5, null);
-    expect(ok).toEqual({ ok: true, series: { tS: [0, 10, 20], co2Ppm: [415.2, 418.9, 422.4], h2oMmolMol: null, pressureKpa: null, tempC: [18.5, 18.5, 18.5] } });
+    expect(ok).toEqual({
+      ok: true,
+      series: { tS: [0, 10, 20], co2Ppm: [415.2, 418.9, 422.4], h2oMmolMol: null, pressureKpa: null, tempC: [18.5, 18.5, 18.5] },
+    });
     expect(readManualSeries('0 415\n10 416\n5 417', 18, null)).toEqual({ ok: false, message: 'Line 3: time must increase' });
   });
 
@@ -58,8 +94,12 @@ describe('flux on the spot', () => {
     ]);
     expect(checks.map((c) => c.id)).toEqual(['a', 'b', 'd']);
     const tS = [0, 10, 20, 30, 40, 50, 60, 70, 80, 90];
-    const closure = rec('c', { startedAt: '2025-06-12T07:00:00Z', settleS: 10, analyzerId: 'A',
-      series: { tS, co2Ppm: tS.map((t) => 430 + 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20) } });
+    const closure = rec('c', {
+      startedAt: '2025-06-12T07:00:00Z',
+      settleS: 10,
+      analyzerId: 'A',
+      series: { tS, co2Ppm: tS.map((t) => 430 + 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20) },
+    });
     const inputs = { site, collar, profiles: [profile], offsetSets: [offsets], analyzer: null, ambientChecks: checks, visitAirTempC: null };
     expect(fluxOnTheSpot(closure, inputs)!.startAboveAmbientPpm).toBe(18);
     expect(fluxOnTheSpot({ ...closure, startedAt: '2025-06-12T19:00:00Z' }, inputs)!.startAboveAmbientPpm).toBe(-40);
@@ -68,8 +108,11 @@ describe('flux on the spot', () => {
 
   it('when the file has no chamber temperature, then the visit’s air temperature gives the flux and says so', () => {
     const tS = [0, 10, 20, 30, 40, 50, 60, 70, 80, 90];
-    const closure = rec('c', { startedAt: '2025-06-12T07:00:00Z', settleS: 10,
-      series: { tS, co2Ppm: tS.map((t) => 420 + 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: null } });
+    const closure = rec('c', {
+      startedAt: '2025-06-12T07:00:00Z',
+      settleS: 10,
+      series: { tS, co2Ppm: tS.map((t) => 420 + 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: null },
+    });
     const inputs = { site, collar, profiles: [profile], offsetSets: [offsets], analyzer: null, ambientChecks: [], visitAirTempC: 8 };
     const spot = fluxOnTheSpot(closure, inputs)!;
     expect(spot.airTempSource).toBe('visit');

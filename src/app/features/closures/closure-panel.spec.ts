@@ -36,21 +36,58 @@ Component({ selector: 'fw-spot-chart', template: '', inputs: ['data'] })(ChartSt
 
 async function render(extra: (db: FluxDb) => Promise<void> = async () => undefined, chooseAnalyzer = true) {
   const userId = `0000000${++userNo}-0000-4000-8000-00000000000c`.slice(-36);
-  localStorage.setItem('fw.session', JSON.stringify({
-    user: { id: userId, email: 'crew@fluxwalk.example', displayName: 'Crew', roles: ['crew'], siteIds: [SITE] },
-    sites: [{ id: SITE, name: 'Test site' }],
-  }));
+  localStorage.setItem(
+    'fw.session',
+    JSON.stringify({
+      user: { id: userId, email: 'crew@fluxwalk.example', displayName: 'Crew', roles: ['crew'], siteIds: [SITE] },
+      sites: [{ id: SITE, name: 'Test site' }],
+    }),
+  );
   TestBed.configureTestingModule({ providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([])] });
   TestBed.overrideComponent(ClosureCard, { remove: { imports: [SpotChart] }, add: { imports: [ChartStandIn] } });
   const db: FluxDb = await until(() => TestBed.inject(DeviceDb).db(), 'the database');
-  await db.records('site').put({ id: SITE, rev: 1, name: 'Test site', timezone: 'Europe/Berlin', elevationM: 420, ambientMarginPpm: 100, defaultProfileId: PROFILE });
+  await db.records('site').put({
+    id: SITE,
+    rev: 1,
+    name: 'Test site',
+    timezone: 'Europe/Berlin',
+    elevationM: 420,
+    ambientMarginPpm: 100,
+    defaultProfileId: PROFILE,
+  });
   await db.records('collar').put({ id: COLLAR, rev: 1, siteId: SITE, code: 'W-03', shape: 'round', diameterCm: 20, status: 'active' });
   await db.records('campaign').put({ id: CAMPAIGN, rev: 1, siteId: SITE, name: 'Dec', rounds: 2, routes: [], dueClosures: 2 });
-  await db.records('chamberProfile').put({ id: PROFILE, rev: 1, siteId: SITE, name: 'Dark 20', validFrom: '2025-01-01', chamberVolumeCm3: 4000, loopVolumeCm3: 150, settleS: 20 });
+  await db.records('chamberProfile').put({
+    id: PROFILE,
+    rev: 1,
+    siteId: SITE,
+    name: 'Dark 20',
+    validFrom: '2025-01-01',
+    chamberVolumeCm3: 4000,
+    loopVolumeCm3: 150,
+    settleS: 20,
+  });
   await db.records('analyzer').put({ id: ANALYZER, rev: 1, siteId: SITE, name: 'A1', precisionPpm: 0.2 });
-  const visit: LocalRecord = { id: VISIT, rev: 1, siteId: SITE, campaignId: CAMPAIGN, round: 1, collarId: COLLAR, arrivedAt: '2025-06-12T06:55:00.000Z' };
+  const visit: LocalRecord = {
+    id: VISIT,
+    rev: 1,
+    siteId: SITE,
+    campaignId: CAMPAIGN,
+    round: 1,
+    collarId: COLLAR,
+    arrivedAt: '2025-06-12T06:55:00.000Z',
+  };
   await db.records('visit').put(visit);
-  await db.records('offsetSet').put({ id: 'o1', rev: 1, siteId: SITE, visitId: VISIT, collarId: COLLAR, campaignId: CAMPAIGN, takenAt: '2025-06-12T06:58:00.000Z', readingsCm: [2, 2, 2, 2] });
+  await db.records('offsetSet').put({
+    id: 'o1',
+    rev: 1,
+    siteId: SITE,
+    visitId: VISIT,
+    collarId: COLLAR,
+    campaignId: CAMPAIGN,
+    takenAt: '2025-06-12T06:58:00.000Z',
+    readingsCm: [2, 2, 2, 2],
+  });
   await extra(db);
   if (chooseAnalyzer) TestBed.inject(WalkContext).update({ analyzerId: ANALYZER });
   const fixture = TestBed.createComponent(ClosurePanel);
@@ -94,10 +131,22 @@ describe('Closure panel', () => {
   it('when a closure has a series, then its flux and flags show; Redo starts a new closure naming it, and a series typed by hand fills the redo', async () => {
     const tS = [0, 10, 20, 30, 40, 50, 60, 70, 80, 90, 100];
     const { db, el, text, loader, fixture } = await render(async (d) => {
-      await d.records('analyzerCheck').put({ id: 'amb', rev: 1, siteId: SITE, analyzerId: ANALYZER, kind: 'ambient', at: '2025-06-12T06:30:00.000Z', co2Ppm: 415 });
+      await d
+        .records('analyzerCheck')
+        .put({ id: 'amb', rev: 1, siteId: SITE, analyzerId: ANALYZER, kind: 'ambient', at: '2025-06-12T06:30:00.000Z', co2Ppm: 415 });
       await d.records('closure').put({
-        id: FIRST, rev: 1, siteId: SITE, visitId: VISIT, collarId: COLLAR, campaignId: CAMPAIGN, profileId: PROFILE, analyzerId: ANALYZER,
-        startedAt: '2025-06-12T07:00:00.000Z', chamberOnAt: '2025-06-12T07:00:00.000Z', chamberOffAt: '2025-06-12T07:02:00.000Z', settleS: 20,
+        id: FIRST,
+        rev: 1,
+        siteId: SITE,
+        visitId: VISIT,
+        collarId: COLLAR,
+        campaignId: CAMPAIGN,
+        profileId: PROFILE,
+        analyzerId: ANALYZER,
+        startedAt: '2025-06-12T07:00:00.000Z',
+        chamberOnAt: '2025-06-12T07:00:00.000Z',
+        chamberOffAt: '2025-06-12T07:02:00.000Z',
+        settleS: 20,
         // 560 ppm at the start is 145 ppm above the day's 415 ppm: more than the 100 ppm margin.
         series: { tS, co2Ppm: tS.map((t) => 560 + 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20) },
       });
@@ -139,7 +188,10 @@ describe('Closure panel', () => {
       box.value = v;
       box.dispatchEvent(new Event('input'));
     };
-    set('textarea[name="manual"]', '0 420,0\n10 425,0\n20 430,0\n30 435,0\n40 440,0\n50 445,0\n60 450,0\n70 455,0\n80 460,0\n90 465,0\n100 470,0');
+    set(
+      'textarea[name="manual"]',
+      '0 420,0\n10 425,0\n20 430,0\n30 435,0\n40 440,0\n50 445,0\n60 450,0\n70 455,0\n80 460,0\n90 465,0\n100 470,0',
+    );
     set('input[name="temp"]', '20');
     set('input[name="pressure"]', '96');
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Save series' }))).click();
@@ -147,7 +199,13 @@ describe('Closure panel', () => {
       const r = (await closuresOf(db))[1];
       return (r['series'] as { tS: number[] }).tS.length ? r : null;
     }, 'the typed series');
-    expect(filled['series']).toEqual({ tS, co2Ppm: tS.map((t) => 420 + 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20) });
+    expect(filled['series']).toEqual({
+      tS,
+      co2Ppm: tS.map((t) => 420 + 0.5 * t),
+      h2oMmolMol: null,
+      pressureKpa: tS.map(() => 96),
+      tempC: tS.map(() => 20),
+    });
     await until(() => el.querySelector(`[data-closure="${redo.id}"] [data-testid="spot-flux"]`), 'the redo flux');
     expect(el.querySelector(`[data-closure="${redo.id}"] [data-testid="spot-flux"]`)?.textContent).toMatch(/^3\.00 µmol/);
     expect(el.querySelector(`[data-closure="${redo.id}"] [data-testid="spot-flags"]`)?.textContent).not.toContain('above the ambient');
@@ -156,28 +214,54 @@ describe('Closure panel', () => {
   it('when the page opens on a closure still running after a flagged one, then no redo is offered until the chamber goes off', async () => {
     const tS = [0, 10, 20, 30, 40, 50, 60, 70, 80, 90, 100];
     const { el, text, loader } = await render(async (d) => {
-      await d.records('analyzerCheck').put({ id: 'amb', rev: 1, siteId: SITE, analyzerId: ANALYZER, kind: 'ambient', at: '2025-06-12T06:30:00.000Z', co2Ppm: 415 });
+      await d
+        .records('analyzerCheck')
+        .put({ id: 'amb', rev: 1, siteId: SITE, analyzerId: ANALYZER, kind: 'ambient', at: '2025-06-12T06:30:00.000Z', co2Ppm: 415 });
       await d.records('closure').put({
-        id: FIRST, rev: 1, siteId: SITE, visitId: VISIT, collarId: COLLAR, campaignId: CAMPAIGN, profileId: PROFILE, analyzerId: ANALYZER,
-        startedAt: '2025-06-12T07:00:00.000Z', chamberOnAt: '2025-06-12T07:00:00.000Z', chamberOffAt: '2025-06-12T07:02:00.000Z', settleS: 20,
+        id: FIRST,
+        rev: 1,
+        siteId: SITE,
+        visitId: VISIT,
+        collarId: COLLAR,
+        campaignId: CAMPAIGN,
+        profileId: PROFILE,
+        analyzerId: ANALYZER,
+        startedAt: '2025-06-12T07:00:00.000Z',
+        chamberOnAt: '2025-06-12T07:00:00.000Z',
+        chamberOffAt: '2025-06-12T07:02:00.000Z',
+        settleS: 20,
         // A fall of CO2 with the chamber on: the flag advice asks for a seal check and a redo.
         series: { tS, co2Ppm: tS.map((t) => 430 - 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20) },
       });
       const on = new Date(Date.now() - 30_000).toISOString();
       await d.records('closure').put({
-        id: 'running', rev: 1, siteId: SITE, visitId: VISIT, collarId: COLLAR, campaignId: CAMPAIGN, profileId: PROFILE, analyzerId: ANALYZER,
-        startedAt: on, chamberOnAt: on, chamberOffAt: null, settleS: 20, redoOfId: null,
+        id: 'running',
+        rev: 1,
+        siteId: SITE,
+        visitId: VISIT,
+        collarId: COLLAR,
+        campaignId: CAMPAIGN,
+        profileId: PROFILE,
+        analyzerId: ANALYZER,
+        startedAt: on,
+        chamberOnAt: on,
+        chamberOffAt: null,
+        settleS: 20,
+        redoOfId: null,
         series: { tS: [], co2Ppm: [], h2oMmolMol: null, pressureKpa: null, tempC: null },
       });
     });
-    await until(() => text('[data-testid="spot-flux"]'), 'the first closure\'s flux');
+    await until(() => text('[data-testid="spot-flux"]'), "the first closure's flux");
     await until(() => loader.getHarnessOrNull(MatButtonHarness.with({ text: 'Chamber off' })), 'the running closure');
     expect(text('[data-testid="spot-flags"]')).toContain('then redo the closure');
     expect(await loader.getAllHarnesses(MatButtonHarness.with({ text: /redo/i }))).toHaveLength(0);
     expect(el.querySelector('[data-testid="flag-redo"]')).toBeNull();
 
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Chamber off' }))).click();
-    await until(() => loader.getHarnessOrNull(MatButtonHarness.with({ text: 'Seal checked: redo now' })), 'the flag advice\'s redo once the closure ended');
+    await until(
+      () => loader.getHarnessOrNull(MatButtonHarness.with({ text: 'Seal checked: redo now' })),
+      "the flag advice's redo once the closure ended",
+    );
     expect(await loader.getAllHarnesses(MatButtonHarness.with({ text: 'Redo' }))).toHaveLength(2);
   });
 
@@ -185,12 +269,33 @@ describe('Closure panel', () => {
     const TALL = '99999999-9999-4999-8999-999999999999';
     const TALL_NEW = '99999999-9999-4999-8999-99999999999a';
     const { db, loader } = await render(async (d) => {
-      await d.records('chamberProfile').put({ id: TALL, rev: 1, siteId: SITE, name: 'Tall', validFrom: '2025-01-01', chamberVolumeCm3: 6000, loopVolumeCm3: 150, settleS: 30 });
-      await d.records('chamberProfile').put({ id: TALL_NEW, rev: 1, siteId: SITE, name: 'Tall', validFrom: '2025-03-01', chamberVolumeCm3: 6000, loopVolumeCm3: 210, settleS: 35 });
+      await d.records('chamberProfile').put({
+        id: TALL,
+        rev: 1,
+        siteId: SITE,
+        name: 'Tall',
+        validFrom: '2025-01-01',
+        chamberVolumeCm3: 6000,
+        loopVolumeCm3: 150,
+        settleS: 30,
+      });
+      await d.records('chamberProfile').put({
+        id: TALL_NEW,
+        rev: 1,
+        siteId: SITE,
+        name: 'Tall',
+        validFrom: '2025-03-01',
+        chamberVolumeCm3: 6000,
+        loopVolumeCm3: 210,
+        settleS: 35,
+      });
       TestBed.inject(WalkContext).update({ profileId: TALL });
     });
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Chamber on' }))).click();
-    const [open] = await until(async () => { const l = await closuresOf(db); return l.length ? l : null; }, 'the closure');
+    const [open] = await until(async () => {
+      const l = await closuresOf(db);
+      return l.length ? l : null;
+    }, 'the closure');
     expect(open).toMatchObject({ profileId: TALL_NEW, analyzerId: ANALYZER, settleS: 35 });
   });
 
@@ -217,8 +322,18 @@ describe('Closure panel', () => {
     const tS = [0, 10, 20, 30, 40, 50, 60, 70, 80, 90, 100];
     const { text } = await render(async (d) => {
       await d.records('closure').put({
-        id: FIRST, rev: 1, siteId: SITE, visitId: VISIT, collarId: COLLAR, campaignId: CAMPAIGN, profileId: PROFILE, analyzerId: null,
-        startedAt: '2025-06-12T07:00:00.000Z', chamberOnAt: '2025-06-12T07:00:00.000Z', chamberOffAt: '2025-06-12T07:02:00.000Z', settleS: 20,
+        id: FIRST,
+        rev: 1,
+        siteId: SITE,
+        visitId: VISIT,
+        collarId: COLLAR,
+        campaignId: CAMPAIGN,
+        profileId: PROFILE,
+        analyzerId: null,
+        startedAt: '2025-06-12T07:00:00.000Z',
+        chamberOnAt: '2025-06-12T07:00:00.000Z',
+        chamberOffAt: '2025-06-12T07:02:00.000Z',
+        settleS: 20,
         series: { tS, co2Ppm: tS.map((t) => 420 + 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20) },
       });
     });

@@ -43,7 +43,12 @@ export class ClosurePanel {
   /** The next due collar on the route, for the bar's "Next collar". */
   readonly next = input<{ id: string; code: string } | null>(null);
 
-  protected readonly scene = closureScene(() => ({ collarId: this.collarId(), campaignId: this.campaignId(), visitId: this.visit()?.id ?? null, analyzerId: this.walk.choice().analyzerId }));
+  protected readonly scene = closureScene(() => ({
+    collarId: this.collarId(),
+    campaignId: this.campaignId(),
+    visitId: this.visit()?.id ?? null,
+    analyzerId: this.walk.choice().analyzerId,
+  }));
   protected readonly list = computed(() => this.scene()?.closures ?? []);
   protected readonly open = computed(() => this.list().find((c) => c['chamberOnAt'] && !c['chamberOffAt']) ?? null);
   /** A redone closure is replaced by its redo, so it does not count twice toward the due closures. */
@@ -53,7 +58,14 @@ export class ClosurePanel {
     const s = this.scene();
     const c = this.walk.choice();
     if (!s) return null;
-    return dayKit({ analyzerId: c.analyzerId, kitAt: c.kitAt, profileId: c.profileId, site: s.inputs.site, analyzers: s.analyzers, profiles: s.inputs.profiles });
+    return dayKit({
+      analyzerId: c.analyzerId,
+      kitAt: c.kitAt,
+      profileId: c.profileId,
+      site: s.inputs.site,
+      analyzers: s.analyzers,
+      profiles: s.inputs.profiles,
+    });
   });
   protected readonly lastAnalyzerId = computed(() => this.walk.choice().analyzerId);
   protected readonly targetS = computed(() => Number(this.kit()?.profile?.['closureLengthS'] ?? 120));
@@ -66,9 +78,18 @@ export class ClosurePanel {
   private busy = false;
 
   private async target() {
-    const v = await this.visits.ensureVisit({ siteId: this.siteId(), campaignId: this.campaignId(), round: this.round(), collarId: this.collarId() }, this.visit());
-    return { siteId: this.siteId(), campaignId: this.campaignId(), collarId: this.collarId(), visitId: v.id, analyzerId: this.walk.choice().analyzerId,
-      profileId: this.walk.choice().profileId };
+    const v = await this.visits.ensureVisit(
+      { siteId: this.siteId(), campaignId: this.campaignId(), round: this.round(), collarId: this.collarId() },
+      this.visit(),
+    );
+    return {
+      siteId: this.siteId(),
+      campaignId: this.campaignId(),
+      collarId: this.collarId(),
+      visitId: v.id,
+      analyzerId: this.walk.choice().analyzerId,
+      profileId: this.walk.choice().profileId,
+    };
   }
 
   protected async chamberOn(redoOf: LocalRecord | null = null): Promise<void> {
@@ -78,7 +99,7 @@ export class ClosurePanel {
     try {
       const kit = this.kit();
       if (!kit || kit.missing) {
-        this.message.set(kit?.missing ?? 'Loading the day\'s analyzer and chamber…');
+        this.message.set(kit?.missing ?? "Loading the day's analyzer and chamber…");
         return;
       }
       await this.closures.chamberOn({ ...(await this.target()), analyzerId: kit.analyzer!.id }, kit.profile, redoOf);
@@ -109,8 +130,13 @@ export class ClosurePanel {
   }
 
   protected openImport(): void {
-    const data: LoggerImportData = { siteId: this.siteId(), campaignId: this.campaignId(), round: this.round(), analyzerId: this.walk.choice().analyzerId,
-      profileId: this.walk.choice().profileId };
+    const data: LoggerImportData = {
+      siteId: this.siteId(),
+      campaignId: this.campaignId(),
+      round: this.round(),
+      analyzerId: this.walk.choice().analyzerId,
+      profileId: this.walk.choice().profileId,
+    };
     this.dialog.open(LoggerImport, { data, width: '960px', maxWidth: '100vw', autoFocus: 'first-tabbable' });
   }
 

@@ -34,7 +34,7 @@ describe('ClosureTimer', () => {
     expect([clockText(0), clockText(9.9), clockText(65), clockText(600)]).toEqual(['0:00', '0:09', '1:05', '10:00']);
   });
 
-  it('when the chamber is on, then the elapsed time counts up against the profile\'s closure length, with no end signal before it', () => {
+  it("when the chamber is on, then the elapsed time counts up against the profile's closure length, with no end signal before it", () => {
     const { text, advance } = render(120);
     expect(text('[data-testid="closure-timer"]')).toBe('0:00 of 2:00');
     advance(45_000);

@@ -13,7 +13,9 @@ export function clockText(totalS: number): string {
 export function closureEndSignal(): void {
   try {
     navigator.vibrate?.([200, 100, 200]);
-  } catch { /* vibration refused: the visible signal stays */ }
+  } catch {
+    /* vibration refused: the visible signal stays */
+  }
   try {
     const Ctx = (globalThis as { AudioContext?: typeof AudioContext }).AudioContext;
     if (!Ctx) return;
@@ -26,7 +28,9 @@ export function closureEndSignal(): void {
     osc.start();
     osc.stop(ctx.currentTime + 0.35);
     osc.onended = () => void ctx.close();
-  } catch { /* no audio: the visible signal stays */ }
+  } catch {
+    /* no audio: the visible signal stays */
+  }
 }
 
 /**
@@ -41,17 +45,46 @@ export function closureEndSignal(): void {
         <span class="elapsed" role="timer" aria-live="off">{{ elapsedText() }}</span>
         <span class="target"> of {{ targetText() }}</span>
       </div>
-      <p class="end" role="alert" data-testid="closure-end">@if (done()) { Closure length reached: chamber off }</p>
+      <p class="end" role="alert" data-testid="closure-end">
+        @if (done()) {
+          Closure length reached: chamber off
+        }
+      </p>
     }
   `,
   styles: `
-    :host { display: flex; flex-direction: column; align-items: center; min-width: 64px; }
-    .timer { display: flex; flex-direction: column; align-items: center; font-variant-numeric: tabular-nums; }
-    .elapsed { font-size: 1.75rem; font-weight: 700; line-height: 1; }
-    .target { font-size: 0.85rem; }
-    .done .elapsed { color: var(--mat-sys-error); }
-    .end { margin: 0; font-weight: 700; font-size: 0.85rem; text-align: center; }
-    .end:empty { display: none; }
+    :host {
+      display: flex;
+      flex-direction: column;
+      align-items: center;
+      min-width: 64px;
+    }
+    .timer {
+      display: flex;
+      flex-direction: column;
+      align-items: center;
+      font-variant-numeric: tabular-nums;
+    }
+    .elapsed {
+      font-size: 1.75rem;
+      font-weight: 700;
+      line-height: 1;
+    }
+    .target {
+      font-size: 0.85rem;
+    }
+    .done .elapsed {
+      color: var(--mat-sys-error);
+    }
+    .end {
+      margin: 0;
+      font-weight: 700;
+      font-size: 0.85rem;
+      text-align: center;
+    }
+    .end:empty {
+      display: none;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

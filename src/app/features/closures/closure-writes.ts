@@ -41,20 +41,40 @@ export class ClosureWrites {
    */
   private profileFor(t: ClosureTarget, site: LocalRecord | null, profiles: LocalRecord[], at: string): LocalRecord | null {
     const day = localDay(at, String(site?.['timezone'] ?? 'UTC'));
-    const named = profiles.map((p) => ({ id: p.id, name: String(p['name'] ?? ''), validFrom: String(p['validFrom']), chamberVolumeCm3: 0, loopVolumeCm3: 0, areaCm2: 0 }));
+    const named = profiles.map((p) => ({
+      id: p.id,
+      name: String(p['name'] ?? ''),
+      validFrom: String(p['validFrom']),
+      chamberVolumeCm3: 0,
+      loopVolumeCm3: 0,
+      areaCm2: 0,
+    }));
     const chosen = profileForClosure(named, t.profileId, day, (site?.['defaultProfileId'] as string | null) ?? null);
-    return chosen.ok ? profiles.find((p) => p.id === chosen.profile.id) ?? null : null;
+    return chosen.ok ? (profiles.find((p) => p.id === chosen.profile.id) ?? null) : null;
   }
 
   /** A closure starts only with today's analyzer and chamber profile (see dayKit), so no closure is stored without them. */
-  async chamberOn(t: ClosureTarget, profile: LocalRecord | null, redoOf: LocalRecord | null = null, now = new Date()): Promise<LocalRecord> {
-    if (!t.analyzerId) throw new Error('Choose today\'s analyzer before a closure.');
-    if (!profile) throw new Error('Choose today\'s chamber profile before a closure.');
+  async chamberOn(
+    t: ClosureTarget,
+    profile: LocalRecord | null,
+    redoOf: LocalRecord | null = null,
+    now = new Date(),
+  ): Promise<LocalRecord> {
+    if (!t.analyzerId) throw new Error("Choose today's analyzer before a closure.");
+    if (!profile) throw new Error("Choose today's chamber profile before a closure.");
     const at = now.toISOString();
     const fields = validated('closure', {
-      siteId: t.siteId, visitId: t.visitId, collarId: t.collarId, campaignId: t.campaignId,
-      profileId: profile.id, analyzerId: t.analyzerId, startedAt: at, chamberOnAt: at,
-      settleS: Number(profile['settleS'] ?? TYPICAL_SETTLE_TIME_S), series: EMPTY_SERIES, redoOfId: redoOf?.id ?? null,
+      siteId: t.siteId,
+      visitId: t.visitId,
+      collarId: t.collarId,
+      campaignId: t.campaignId,
+      profileId: profile.id,
+      analyzerId: t.analyzerId,
+      startedAt: at,
+      chamberOnAt: at,
+      settleS: Number(profile['settleS'] ?? TYPICAL_SETTLE_TIME_S),
+      series: EMPTY_SERIES,
+      redoOfId: redoOf?.id ?? null,
     });
     return this.writes.create('closure', fields);
   }
@@ -64,7 +84,13 @@ export class ClosureWrites {
   }
 
   /** A series for a closure (from a logger piece or typed in), checked by the shared schema first. */
-  async saveSeries(closure: LocalRecord, series: ClosureSeries, startedAt: string, endedAt: string | null, sourceAttachmentId: string | null): Promise<void> {
+  async saveSeries(
+    closure: LocalRecord,
+    series: ClosureSeries,
+    startedAt: string,
+    endedAt: string | null,
+    sourceAttachmentId: string | null,
+  ): Promise<void> {
     const changes = { series, startedAt, endedAt, sourceAttachmentId };
     validated('closure', { ...closure, ...changes });
     await this.writes.edit('closure', closure.id, changes);
@@ -74,12 +100,28 @@ export class ClosureWrites {
    * A closure made from a logger piece the crew assigned to a visit without a tap: it carries the
    * crew's chamber profile and analyzer like a tapped one, and that profile's settle time.
    */
-  async createFromPiece(t: ClosureTarget, site: LocalRecord | null, profiles: LocalRecord[], series: ClosureSeries, startedAt: string, endedAt: string | null,
-    sourceAttachmentId: string | null): Promise<LocalRecord> {
+  async createFromPiece(
+    t: ClosureTarget,
+    site: LocalRecord | null,
+    profiles: LocalRecord[],
+    series: ClosureSeries,
+    startedAt: string,
+    endedAt: string | null,
+    sourceAttachmentId: string | null,
+  ): Promise<LocalRecord> {
     const profile = this.profileFor(t, site, profiles, startedAt);
     const fields = validated('closure', {
-      siteId: t.siteId, visitId: t.visitId, collarId: t.collarId, campaignId: t.campaignId, analyzerId: t.analyzerId,
-      profileId: profile?.id ?? null, startedAt, endedAt, settleS: Number(profile?.['settleS'] ?? TYPICAL_SETTLE_TIME_S), series, sourceAttachmentId,
+      siteId: t.siteId,
+      visitId: t.visitId,
+      collarId: t.collarId,
+      campaignId: t.campaignId,
+      analyzerId: t.analyzerId,
+      profileId: profile?.id ?? null,
+      startedAt,
+      endedAt,
+      settleS: Number(profile?.['settleS'] ?? TYPICAL_SETTLE_TIME_S),
+      series,
+      sourceAttachmentId,
     });
     return this.writes.create('closure', fields);
   }

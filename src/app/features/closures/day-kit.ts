@@ -33,14 +33,19 @@ function validToday(profiles: readonly LocalRecord[], day: string): Map<string, 
  * is the crew's choice, else the site default, else the only one valid on the day.
  */
 export function dayKit(p: {
-  analyzerId: string | null; kitAt: string | null; profileId: string | null;
-  site: LocalRecord | null; analyzers: readonly LocalRecord[]; profiles: readonly LocalRecord[]; now?: Date;
+  analyzerId: string | null;
+  kitAt: string | null;
+  profileId: string | null;
+  site: LocalRecord | null;
+  analyzers: readonly LocalRecord[];
+  profiles: readonly LocalRecord[];
+  now?: Date;
 }): DayKit {
   const tz = String(p.site?.['timezone'] ?? 'UTC');
   const day = localDay((p.now ?? new Date()).toISOString(), tz);
   const analyzers = p.analyzers.filter(live);
   const chosenToday = !!p.kitAt && localDay(p.kitAt, tz) === day;
-  const analyzer = chosenToday ? analyzers.find((a) => a.id === p.analyzerId) ?? null : null;
+  const analyzer = chosenToday ? (analyzers.find((a) => a.id === p.analyzerId) ?? null) : null;
   const last = analyzers.find((a) => a.id === p.analyzerId);
   const analyzerChoices = last ? [last, ...analyzers.filter((a) => a !== last)] : [...analyzers];
 
@@ -52,9 +57,11 @@ export function dayKit(p: {
   const profileChoices = profile ? [] : [...valid.keys()].sort();
 
   let missing = '';
-  if (!analyzers.length) missing = 'No analyzer for this site on this device: sync when you have signal, or ask the lead to add one in Setup.';
+  if (!analyzers.length)
+    missing = 'No analyzer for this site on this device: sync when you have signal, or ask the lead to add one in Setup.';
   else if (!analyzer) missing = 'Which analyzer today? Tap it to start closures (or do the start of day).';
-  else if (!valid.size) missing = 'No chamber profile valid today on this device: sync when you have signal, or ask the lead to add one in Setup.';
+  else if (!valid.size)
+    missing = 'No chamber profile valid today on this device: sync when you have signal, or ask the lead to add one in Setup.';
   else if (!profile) missing = 'Which chamber today? Tap its profile to start closures.';
   return { analyzer, profile, analyzerChoices, profileChoices, missing };
 }

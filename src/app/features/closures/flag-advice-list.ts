@@ -3,7 +3,11 @@ import { MatButtonModule } from '@angular/material/button';
 import { flagAdvice, type FlagAction } from '../../../../shared/flux';
 
 const ACTION_LABEL: Record<FlagAction, string> = {
-  redo: 'Redo now', 'check-seal': 'Seal checked: redo now', wait: 'Analyzer at ambient: redo now', note: '', none: '',
+  redo: 'Redo now',
+  'check-seal': 'Seal checked: redo now',
+  wait: 'Analyzer at ambient: redo now',
+  note: '',
+  none: '',
 };
 
 /**
@@ -31,14 +35,40 @@ const ACTION_LABEL: Record<FlagAction, string> = {
       <p class="ok">No flags: this closure looks good.</p>
     }
   `,
-  styles: [`
-    .advice { list-style: none; padding: 0; margin: 4px 0; display: grid; gap: 4px; }
-    .advice li { background: #f5f5f5; border-left: 4px solid #9e9e9e; padding: 4px 8px; border-radius: 4px; }
-    .advice li.act { background: #fdecea; border-left-color: #c62828; }
-    .what { display: block; }
-    .ok { background: #e8f5e9; padding: 4px 8px; border-radius: 4px; }
-    .redo-now { width: 100%; min-height: 48px; margin: 4px 0; }
-  `],
+  styles: [
+    `
+      .advice {
+        list-style: none;
+        padding: 0;
+        margin: 4px 0;
+        display: grid;
+        gap: 4px;
+      }
+      .advice li {
+        background: #f5f5f5;
+        border-left: 4px solid #9e9e9e;
+        padding: 4px 8px;
+        border-radius: 4px;
+      }
+      .advice li.act {
+        background: #fdecea;
+        border-left-color: #c62828;
+      }
+      .what {
+        display: block;
+      }
+      .ok {
+        background: #e8f5e9;
+        padding: 4px 8px;
+        border-radius: 4px;
+      }
+      .redo-now {
+        width: 100%;
+        min-height: 48px;
+        margin: 4px 0;
+      }
+    `,
+  ],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class FlagAdviceList {
@@ -47,8 +77,11 @@ export class FlagAdviceList {
   readonly canRedo = input(true);
   readonly redo = output<void>();
 
-  protected readonly items = computed(() => this.flags().map((code) => ({ code, ...flagAdvice(code) }))
-    .sort((a, b) => Number(b.actNow) - Number(a.actNow)));
+  protected readonly items = computed(() =>
+    this.flags()
+      .map((code) => ({ code, ...flagAdvice(code) }))
+      .sort((a, b) => Number(b.actNow) - Number(a.actNow)),
+  );
   /** The first act-now flag that a redo answers names the button. */
   protected readonly redoLabel = computed(() => {
     const first = this.items().find((a) => a.actNow && ACTION_LABEL[a.action]);

@@ -1,6 +1,15 @@
 import {
-  estimateClockOffset, medianStepS, splitByTapsKeepingUntapped, splitClosures,
-  type LoggerPiece, type LoggerSample, type PieceMatch, type SplitMethod, type SplitResult, type TapWindow, type VisitSlot,
+  estimateClockOffset,
+  medianStepS,
+  splitByTapsKeepingUntapped,
+  splitClosures,
+  type LoggerPiece,
+  type LoggerSample,
+  type PieceMatch,
+  type SplitMethod,
+  type SplitResult,
+  type TapWindow,
+  type VisitSlot,
 } from '../../../../shared/logger';
 import type { FluxDb, LocalRecord } from '../../core/db/db-schema';
 import { localDay } from '../../../../shared/time/site-time';
@@ -16,14 +25,25 @@ export interface RoundVisit {
 export type Assignment = { kind: 'closure'; closureId: string; visitId: string } | { kind: 'new'; visitId: string } | { kind: 'none' };
 
 export async function loadRoundVisits(db: FluxDb, campaignId: string, round: number): Promise<RoundVisit[]> {
-  const visits = await db.records('visit').where('campaignId').equals(campaignId).filter((v) => !v.deleted && v['round'] === round).toArray();
+  const visits = await db
+    .records('visit')
+    .where('campaignId')
+    .equals(campaignId)
+    .filter((v) => !v.deleted && v['round'] === round)
+    .toArray();
   const out: RoundVisit[] = [];
   for (const visit of visits) {
     const [collar, closures] = await Promise.all([
       db.records('collar').get(String(visit['collarId'])),
-      db.records('closure').where('visitId').equals(visit.id).filter((c) => !c.deleted).toArray(),
+      db
+        .records('closure')
+        .where('visitId')
+        .equals(visit.id)
+        .filter((c) => !c.deleted)
+        .toArray(),
     ]);
-    const waiting = closures.filter((c) => !(c['series'] as { tS?: unknown[] } | undefined)?.tS?.length && c['chamberOnAt'])
+    const waiting = closures
+      .filter((c) => !(c['series'] as { tS?: unknown[] } | undefined)?.tS?.length && c['chamberOnAt'])
       .sort((a, b) => String(a['chamberOnAt']).localeCompare(String(b['chamberOnAt'])));
     out.push({ visit, collarCode: String(collar?.['code'] ?? '?'), waiting });
   }
@@ -35,7 +55,11 @@ export function visitSlots(visits: readonly RoundVisit[]): VisitSlot[] {
   return visits.map((v) => ({
     visitId: v.visit.id,
     arrivedMs: Date.parse(String(v.visit['arrivedAt'])),
-    taps: v.waiting.map((c) => ({ key: c.id, onMs: Date.parse(String(c['chamberOnAt'])), offMs: c['chamberOffAt'] ? Date.parse(String(c['chamberOffAt'])) : null })),
+    taps: v.waiting.map((c) => ({
+      key: c.id,
+      onMs: Date.parse(String(c['chamberOnAt'])),
+      offMs: c['chamberOffAt'] ? Date.parse(String(c['chamberOffAt'])) : null,
+    })),
   }));
 }
 
@@ -79,7 +103,8 @@ export function assignmentProblems(pieces: readonly LoggerPiece[], a: Record<str
 }
 
 /** Encodes an assignment for a <select> value and back. */
-export const assignmentValue = (a: Assignment | undefined): string => (!a || a.kind === 'none' ? 'none' : a.kind === 'new' ? `new:${a.visitId}` : `closure:${a.visitId}:${a.closureId}`);
+export const assignmentValue = (a: Assignment | undefined): string =>
+  !a || a.kind === 'none' ? 'none' : a.kind === 'new' ? `new:${a.visitId}` : `closure:${a.visitId}:${a.closureId}`;
 export function parseAssignment(v: string): Assignment {
   const [kind, visitId, closureId] = v.split(':');
   if (kind === 'new') return { kind: 'new', visitId };
@@ -105,18 +130,32 @@ export function firstCut(samples: readonly LoggerSample[], slots: readonly Visit
   const taps = slots.flatMap((v) => v.taps);
   const own = splitClosures(samples);
   const timed = samples.length > 0 && samples.every((s) => s.atMs !== null);
-  const est = own.method === 'gaps' && timed
-    ? estimateClockOffset(taps.map((t) => ({ key: t.key, startMs: t.onMs, endMs: t.offMs })), own.pieces.map((p) => ({ key: p.key, startMs: p.startMs!, endMs: p.endMs })))
-    : null;
+  const est =
+    own.method === 'gaps' && timed
+      ? estimateClockOffset(
+          taps.map((t) => ({ key: t.key, startMs: t.onMs, endMs: t.offMs })),
+          own.pieces.map((p) => ({ key: p.key, startMs: p.startMs!, endMs: p.endMs })),
+        )
+      : null;
   const byTaps = own.method === 'gaps' && timed && taps.length > 0;
   return {
-    own, check: timed ? check : null, estimate: est?.offsetS ?? null, pairs: est?.pairs.length ?? 0, offsetS: (timed ? check : null) ?? est?.offsetS ?? 0,
+    own,
+    check: timed ? check : null,
+    estimate: est?.offsetS ?? null,
+    pairs: est?.pairs.length ?? 0,
+    offsetS: (timed ? check : null) ?? est?.offsetS ?? 0,
     methods: own.method === 'closureId' ? ['closureId'] : byTaps ? ['taps', 'gaps'] : ['gaps'],
   };
 }
 
 /** The pieces for a method and offset (the taps move with the offset); closures without a tap are kept. */
-export function cutBy(method: SplitMethod, samples: readonly LoggerSample[], own: SplitResult, slots: readonly VisitSlot[], offsetS: number): SplitResult {
+export function cutBy(
+  method: SplitMethod,
+  samples: readonly LoggerSample[],
+  own: SplitResult,
+  slots: readonly VisitSlot[],
+  offsetS: number,
+): SplitResult {
   return method === 'taps' ? splitByTapsKeepingUntapped(samples, tapWindows(slots, offsetS), medianStepS(samples) / 2) : own;
 }
 
@@ -124,11 +163,23 @@ export function cutBy(method: SplitMethod, samples: readonly LoggerSample[], own
 export const mappingPresetKey = (analyzerId: string | null): string => `fw.logger-preset.${analyzerId ?? 'none'}`;
 
 /** The analyzer's clock offset from the latest clock check on the file's day (site zone), when one was taken. */
-export async function dayClockCheck(db: FluxDb, siteId: string, analyzerId: string | null, firstMs: number, timeZone: string): Promise<number | null> {
+export async function dayClockCheck(
+  db: FluxDb,
+  siteId: string,
+  analyzerId: string | null,
+  firstMs: number,
+  timeZone: string,
+): Promise<number | null> {
   if (!analyzerId) return null;
   const day = localDay(new Date(firstMs).toISOString(), timeZone);
-  const checks = await db.records('analyzerCheck').where('siteId').equals(siteId)
-    .filter((c) => !c.deleted && c['kind'] === 'clock' && c['analyzerId'] === analyzerId && typeof c['clockOffsetS'] === 'number').toArray();
-  const today = checks.filter((c) => localDay(String(c['at']), timeZone) === day).sort((a, b) => String(b['at']).localeCompare(String(a['at'])));
+  const checks = await db
+    .records('analyzerCheck')
+    .where('siteId')
+    .equals(siteId)
+    .filter((c) => !c.deleted && c['kind'] === 'clock' && c['analyzerId'] === analyzerId && typeof c['clockOffsetS'] === 'number')
+    .toArray();
+  const today = checks
+    .filter((c) => localDay(String(c['at']), timeZone) === day)
+    .sort((a, b) => String(b['at']).localeCompare(String(a['at'])));
   return today.length ? Number(today[0]['clockOffsetS']) : null;
 }

@@ -62,10 +62,19 @@ export class ImportWriter {
     });
     const owner = [...targets.values()][0];
     let attachmentId: string | null = owner ? await this.writes.keepFile(t.siteId, owner, b.file, b.fileName) : null;
-    const [siteRec, profiles]: [LocalRecord | undefined, LocalRecord[]] = pending.length ? await this.deviceDb.run((db) => Promise.all([
-      db.records('site').get(t.siteId),
-      db.records('chamberProfile').where('siteId').equals(t.siteId).filter((p) => !p.deleted).toArray(),
-    ])) : [undefined, []];
+    const [siteRec, profiles]: [LocalRecord | undefined, LocalRecord[]] = pending.length
+      ? await this.deviceDb.run((db) =>
+          Promise.all([
+            db.records('site').get(t.siteId),
+            db
+              .records('chamberProfile')
+              .where('siteId')
+              .equals(t.siteId)
+              .filter((p) => !p.deleted)
+              .toArray(),
+          ]),
+        )
+      : [undefined, []];
     for (const n of pending) {
       const v = visitById.get(n.visitId)!;
       const s = times(n.piece);

@@ -30,14 +30,22 @@ let userNo = 0;
 
 async function render() {
   const userId = `0000000${++userNo}-0000-4000-8000-00000000000d`.slice(-36);
-  localStorage.setItem('fw.session', JSON.stringify({
-    user: { id: userId, email: 'crew@fluxwalk.example', displayName: 'Crew', roles: ['crew'], siteIds: [SITE] },
-    sites: [{ id: SITE, name: 'Test site' }],
-  }));
+  localStorage.setItem(
+    'fw.session',
+    JSON.stringify({
+      user: { id: userId, email: 'crew@fluxwalk.example', displayName: 'Crew', roles: ['crew'], siteIds: [SITE] },
+      sites: [{ id: SITE, name: 'Test site' }],
+    }),
+  );
   const data: LoggerImportData = { siteId: SITE, campaignId: CAMPAIGN, round: 1, analyzerId: ANALYZER };
   TestBed.configureTestingModule({
     imports: [LoggerImport],
-    providers: [provideHttpClient(), provideHttpClientTesting(), { provide: MAT_DIALOG_DATA, useValue: data }, { provide: MatDialogRef, useValue: { close: jest.fn() } }],
+    providers: [
+      provideHttpClient(),
+      provideHttpClientTesting(),
+      { provide: MAT_DIALOG_DATA, useValue: data },
+      { provide: MatDialogRef, useValue: { close: jest.fn() } },
+    ],
   });
   const db: FluxDb = await until(() => TestBed.inject(DeviceDb).db(), 'the database');
   await db.records('site').put({ id: SITE, rev: 1, name: 'Test site', timezone: 'Europe/Berlin' });
@@ -107,7 +115,13 @@ describe('Logger import, mapping step', () => {
     expect(text('[data-testid="read-summary"]')).toBe(`${dataLines} samples in 1 closure (split by gaps)`);
     expect(text('.problems')).toBe('');
     const preset = JSON.parse(localStorage.getItem(`fw.logger-preset.${ANALYZER}`) ?? 'null') as LoggerMapping | null;
-    expect(preset).toMatchObject({ delimiter: ';', decimalComma: true, headerRow: 2, time: { kind: 'timestamp', format: 'DD.MM.YYYY HH:mm:ss', timeZone: 'Europe/Berlin' }, pressure: { unit: 'hPa' } });
+    expect(preset).toMatchObject({
+      delimiter: ';',
+      decimalComma: true,
+      headerRow: 2,
+      time: { kind: 'timestamp', format: 'DD.MM.YYYY HH:mm:ss', timeZone: 'Europe/Berlin' },
+      pressure: { unit: 'hPa' },
+    });
     TestBed.resetTestingModule();
 
     // The same analyzer's next file opens with the remembered mapping.
@@ -137,12 +151,16 @@ describe('Logger import, temperature columns', () => {
 
   it('when the file has the analyzer’s cell temperature and an unclear one, then neither is taken as chamber air: both are listed with their ranges and the crew chooses', async () => {
     const { text, shown, choose, pick } = await render();
-    await pick('timestamp,co2_ppm,Cell_Temp,Temp\n2025-06-12 07:00:00,420.1,51.2,18.0\n2025-06-12 07:00:01,420.6,51.0,18.2\n2025-06-12 07:00:02,421.0,50.9,18.3\n');
+    await pick(
+      'timestamp,co2_ppm,Cell_Temp,Temp\n2025-06-12 07:00:00,420.1,51.2,18.0\n2025-06-12 07:00:01,420.6,51.0,18.2\n2025-06-12 07:00:02,421.0,50.9,18.3\n',
+    );
     expect(await shown('Chamber air temperature column')).toBe('not in this file');
     const list = text('[data-testid="temp-columns"]');
-    expect(list).toContain('Cell_Temp: 50.9 to 51.2 — looks like the analyzer’s own (cell or electronics) temperature, not the chamber air');
+    expect(list).toContain(
+      'Cell_Temp: 50.9 to 51.2 — looks like the analyzer’s own (cell or electronics) temperature, not the chamber air',
+    );
     expect(list).toContain('Temp: 18 to 18.3 — not clear which temperature this is');
-    expect(list).toContain('the flux will use the visit\'s air temperature');
+    expect(list).toContain("the flux will use the visit's air temperature");
     await choose('Chamber air temperature column', 'Temp');
     await until(() => !text('[data-testid="temp-columns"]').includes('No chamber air temperature chosen'), 'the choice');
     expect(await shown('Chamber air temperature column')).toBe('Temp');

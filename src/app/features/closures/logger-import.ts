@@ -8,15 +8,42 @@ import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
 import {
-  CO2_UNITS, ELAPSED_UNITS, H2O_UNITS, PRESSURE_UNITS, TEMP_UNITS, TIMESTAMP_FORMATS, guessLayout, mappingFits,
-  matchPiecesToVisits, savedMapping, suggestMapping, temperatureColumns, type TempColumn,
-  type LoggerMapping, type LoggerRead, type PieceMatch, type SplitMethod, type SplitResult, type TextLayout,
+  CO2_UNITS,
+  ELAPSED_UNITS,
+  H2O_UNITS,
+  PRESSURE_UNITS,
+  TEMP_UNITS,
+  TIMESTAMP_FORMATS,
+  guessLayout,
+  mappingFits,
+  matchPiecesToVisits,
+  savedMapping,
+  suggestMapping,
+  temperatureColumns,
+  type TempColumn,
+  type LoggerMapping,
+  type LoggerRead,
+  type PieceMatch,
+  type SplitMethod,
+  type SplitResult,
+  type TextLayout,
 } from '../../../../shared/logger';
 import { counted } from '../../../../shared/text/counted';
 import { DeviceDb } from '../../core/db/device-db';
 import { DeviceMemory } from '../../core/device/device-memory';
 import {
-  assignmentProblems, assignmentValue, cutBy, dayClockCheck, defaultAssignments, firstCut, mappingPresetKey, loadRoundVisits, parseAssignment, visitSlots, type Assignment, type RoundVisit,
+  assignmentProblems,
+  assignmentValue,
+  cutBy,
+  dayClockCheck,
+  defaultAssignments,
+  firstCut,
+  mappingPresetKey,
+  loadRoundVisits,
+  parseAssignment,
+  visitSlots,
+  type Assignment,
+  type RoundVisit,
 } from './import-plan';
 import { ImportWriter } from './import-writer';
 import { PieceCard } from './piece-card';
@@ -42,7 +69,17 @@ type Step = 'pick' | 'map' | 'parsing' | 'review' | 'done';
  */
 @Component({
   selector: 'fw-logger-import',
-  imports: [FormsModule, PieceCard, MatButtonModule, MatCheckboxModule, MatDialogModule, MatFormFieldModule, MatInputModule, MatProgressBarModule, MatSelectModule],
+  imports: [
+    FormsModule,
+    PieceCard,
+    MatButtonModule,
+    MatCheckboxModule,
+    MatDialogModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatProgressBarModule,
+    MatSelectModule,
+  ],
   templateUrl: './logger-import.html',
   styleUrl: './logger-import.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -54,7 +91,13 @@ export class LoggerImport {
   private readonly memory = inject(DeviceMemory);
   private readonly writer = inject(ImportWriter);
 
-  protected readonly units = { co2: Object.keys(CO2_UNITS), h2o: Object.keys(H2O_UNITS), pressure: Object.keys(PRESSURE_UNITS), temp: TEMP_UNITS, elapsed: Object.keys(ELAPSED_UNITS) };
+  protected readonly units = {
+    co2: Object.keys(CO2_UNITS),
+    h2o: Object.keys(H2O_UNITS),
+    pressure: Object.keys(PRESSURE_UNITS),
+    temp: TEMP_UNITS,
+    elapsed: Object.keys(ELAPSED_UNITS),
+  };
   protected readonly formats = TIMESTAMP_FORMATS;
   protected readonly step = signal<Step>('pick');
   protected readonly error = signal('');
@@ -77,7 +120,11 @@ export class LoggerImport {
   private ownSplit: SplitResult | null = null;
   protected readonly visits = signal<RoundVisit[]>([]);
   protected readonly offsetS = signal(0);
-  protected readonly offsetSources = signal<{ check: number | null; estimate: number | null; pairs: number }>({ check: null, estimate: null, pairs: 0 });
+  protected readonly offsetSources = signal<{ check: number | null; estimate: number | null; pairs: number }>({
+    check: null,
+    estimate: null,
+    pairs: 0,
+  });
   protected readonly assignments = signal<Record<string, Assignment>>({});
   protected readonly matches = computed<PieceMatch[]>(() => {
     const s = this.split();
@@ -109,16 +156,26 @@ export class LoggerImport {
     this.layout.set(layout);
     this.tempColumns.set(temperatureColumns(this.text, layout));
     const preset = savedMapping(this.memory.read(this.presetKey()));
-    this.mapping = mappingFits(preset, layout) ? structuredClone(preset) : suggestMapping(layout.headers, layout, this.timeZone) ?? {
-      ...layout, time: { kind: 'elapsed', column: 0, unit: 's' }, co2: { column: Math.min(1, layout.headers.length - 1), unit: 'µmol/mol (ppm)' },
-      h2o: null, pressure: null, temp: null, closureId: null,
-    };
+    this.mapping = mappingFits(preset, layout)
+      ? structuredClone(preset)
+      : (suggestMapping(layout.headers, layout, this.timeZone) ?? {
+          ...layout,
+          time: { kind: 'elapsed', column: 0, unit: 's' },
+          co2: { column: Math.min(1, layout.headers.length - 1), unit: 'µmol/mol (ppm)' },
+          h2o: null,
+          pressure: null,
+          temp: null,
+          closureId: null,
+        });
     this.step.set('map');
   }
 
   protected setTimeKind(kind: 'elapsed' | 'timestamp'): void {
     const m = this.mapping!;
-    m.time = kind === 'elapsed' ? { kind, column: m.time.column, unit: 's' } : { kind, column: m.time.column, format: 'YYYY-MM-DD HH:mm:ss', timeZone: this.timeZone };
+    m.time =
+      kind === 'elapsed'
+        ? { kind, column: m.time.column, unit: 's' }
+        : { kind, column: m.time.column, format: 'YYYY-MM-DD HH:mm:ss', timeZone: this.timeZone };
   }
 
   /** Optional columns: -1 in the select means "not in this file". */
@@ -187,11 +244,26 @@ export class LoggerImport {
 
   protected async apply(): Promise<void> {
     const { filled, left } = await this.writer.write(
-      { siteId: this.data.siteId, campaignId: this.data.campaignId, analyzerId: this.data.analyzerId, profileId: this.data.profileId ?? null },
-      { file: this.file!, fileName: this.file!.name, mapping: this.mapping, pieces: this.split()!.pieces, matches: this.matches(),
-        assignments: this.assignments(), visits: this.visits(), offsetS: this.offsetS() },
+      {
+        siteId: this.data.siteId,
+        campaignId: this.data.campaignId,
+        analyzerId: this.data.analyzerId,
+        profileId: this.data.profileId ?? null,
+      },
+      {
+        file: this.file!,
+        fileName: this.file!.name,
+        mapping: this.mapping,
+        pieces: this.split()!.pieces,
+        matches: this.matches(),
+        assignments: this.assignments(),
+        visits: this.visits(),
+        offsetS: this.offsetS(),
+      },
     );
-    this.summary.set(`${counted(filled, 'closure')} filled from ${this.file!.name}${left ? `; ${counted(left, 'piece')} left unassigned (kept in the file)` : ''}.`);
+    this.summary.set(
+      `${counted(filled, 'closure')} filled from ${this.file!.name}${left ? `; ${counted(left, 'piece')} left unassigned (kept in the file)` : ''}.`,
+    );
     this.step.set('done');
   }
 

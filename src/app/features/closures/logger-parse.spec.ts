@@ -22,7 +22,10 @@ describe('parseLoggerText (papaparse, as the worker runs it)', () => {
   it('when one line is garbage, then the worker path reports the same line as the shared reader', () => {
     const text = fixture('garbage-line.csv');
     const layout = guessLayout(text);
-    const mapping = { ...suggestMapping(layout.headers, layout, 'UTC')!, time: { kind: 'timestamp' as const, column: 0, format: 'ISO-8601 with offset' as const, timeZone: 'UTC' } };
+    const mapping = {
+      ...suggestMapping(layout.headers, layout, 'UTC')!,
+      time: { kind: 'timestamp' as const, column: 0, format: 'ISO-8601 with offset' as const, timeZone: 'UTC' },
+    };
     const read = parseLoggerText(text, mapping);
     expect(read.problems.map((p) => p.line)).toEqual([14]);
     expect(read.samples).toHaveLength(30);

@@ -28,32 +28,59 @@ const VISITS = { A: '55555555-5555-4555-8555-55555555555a', B: '55555555-5555-45
 const fixture = (name: string) => readFileSync(join(__dirname, '../../../../test/fixtures/logger', name), 'utf8');
 // Two collars, two closures each; the analyzer's clock runs 73 s ahead of the taps (test/fixtures/logger/README.md).
 const ROUND_FILE = fixture('walk-two-collars.csv');
-const TAPS: [keyof typeof COLLARS, string][] = [['A', '08:41'], ['A', '08:45'], ['B', '08:55'], ['B', '08:59']];
+const TAPS: [keyof typeof COLLARS, string][] = [
+  ['A', '08:41'],
+  ['A', '08:45'],
+  ['B', '08:55'],
+  ['B', '08:59'],
+];
 let userNo = 0;
 
 function closure(i: number, collar: keyof typeof COLLARS, hhmm: string, closed: boolean): LocalRecord {
   const on = `2026-12-03T${hhmm}:00.000Z`;
   return {
-    id: `99999999-9999-4999-8999-99999999999${i}`, rev: 1, siteId: SITE, visitId: VISITS[collar], collarId: COLLARS[collar], campaignId: CAMPAIGN,
-    profileId: null, analyzerId: ANALYZER, startedAt: on, chamberOnAt: on, chamberOffAt: closed ? new Date(Date.parse(on) + 120_000).toISOString() : null,
-    settleS: 20, redoOfId: null, series: { tS: [], co2Ppm: [], h2oMmolMol: null, pressureKpa: null, tempC: null },
+    id: `99999999-9999-4999-8999-99999999999${i}`,
+    rev: 1,
+    siteId: SITE,
+    visitId: VISITS[collar],
+    collarId: COLLARS[collar],
+    campaignId: CAMPAIGN,
+    profileId: null,
+    analyzerId: ANALYZER,
+    startedAt: on,
+    chamberOnAt: on,
+    chamberOffAt: closed ? new Date(Date.parse(on) + 120_000).toISOString() : null,
+    settleS: 20,
+    redoOfId: null,
+    series: { tS: [], co2Ppm: [], h2oMmolMol: null, pressureKpa: null, tempC: null },
   };
 }
 
 /** The round on the device: two visits, the taps (the last two left open when `openTaps`), and the walk's choice. */
 async function render(opts: { openTaps?: boolean } = {}) {
   const userId = `0000000${++userNo}-0000-4000-8000-00000000000e`.slice(-36);
-  localStorage.setItem('fw.session', JSON.stringify({
-    user: { id: userId, email: 'crew@fluxwalk.example', displayName: 'Crew', roles: ['crew'], siteIds: [SITE] },
-    sites: [{ id: SITE, name: 'Test site' }],
-  }));
+  localStorage.setItem(
+    'fw.session',
+    JSON.stringify({
+      user: { id: userId, email: 'crew@fluxwalk.example', displayName: 'Crew', roles: ['crew'], siteIds: [SITE] },
+      sites: [{ id: SITE, name: 'Test site' }],
+    }),
+  );
   TestBed.configureTestingModule({ providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([])] });
   const db: FluxDb = await until(() => TestBed.inject(DeviceDb).db(), 'the database');
   await db.records('site').put({ id: SITE, rev: 1, name: 'Test site', timezone: 'Europe/Berlin', elevationM: 420 });
   await db.records('campaign').put({ id: CAMPAIGN, rev: 1, siteId: SITE, name: 'Dec', rounds: 2, routes: [], dueClosures: 2 });
   for (const k of ['A', 'B'] as const) {
     await db.records('collar').put({ id: COLLARS[k], rev: 1, siteId: SITE, code: k, shape: 'round', diameterCm: 20, status: 'active' });
-    await db.records('visit').put({ id: VISITS[k], rev: 1, siteId: SITE, campaignId: CAMPAIGN, round: 1, collarId: COLLARS[k], arrivedAt: k === 'A' ? '2026-12-03T08:38:00.000Z' : '2026-12-03T08:52:00.000Z' });
+    await db.records('visit').put({
+      id: VISITS[k],
+      rev: 1,
+      siteId: SITE,
+      campaignId: CAMPAIGN,
+      round: 1,
+      collarId: COLLARS[k],
+      arrivedAt: k === 'A' ? '2026-12-03T08:38:00.000Z' : '2026-12-03T08:52:00.000Z',
+    });
   }
   for (const [i, [k, hhmm]] of TAPS.entries()) await db.records('closure').put(closure(i, k, hhmm, !(opts.openTaps && k === 'B')));
   TestBed.inject(WalkContext).update({ campaignId: CAMPAIGN, round: 1, analyzerId: ANALYZER });
@@ -65,7 +92,10 @@ async function render(opts: { openTaps?: boolean } = {}) {
   let taps = 0;
   const pick = async (content: string, name = 'round.csv') => {
     const input = await until(() => el.querySelector<HTMLInputElement>('input[type="file"]'), 'the file input');
-    Object.defineProperty(input, 'files', { value: [Object.assign(new Blob([content], { type: 'text/csv' }), { name })], configurable: true });
+    Object.defineProperty(input, 'files', {
+      value: [Object.assign(new Blob([content], { type: 'text/csv' }), { name })],
+      configurable: true,
+    });
     taps++;
     input.dispatchEvent(new Event('change'));
   };
@@ -104,7 +134,12 @@ describe('Round import: one logger file for every collar of the round', () => {
     // Each collar's closures got the pieces that started just after its own taps (logger 73 s ahead).
     for (const c of closures) expect(Date.parse(String(c['startedAt'])) - Date.parse(String(c['chamberOnAt']))).toBeLessThan(5000);
     const ops = await db.outbox.toArray();
-    expect(ops.filter((o) => o.entity === 'closure' && o.op === 'upsert').map((o) => o.id).sort()).toEqual(closures.map((c) => c.id).sort());
+    expect(
+      ops
+        .filter((o) => o.entity === 'closure' && o.op === 'upsert')
+        .map((o) => o.id)
+        .sort(),
+    ).toEqual(closures.map((c) => c.id).sort());
     expect(ops.filter((o) => o.entity === 'attachment')).toHaveLength(1);
   });
 
@@ -118,7 +153,15 @@ describe('Round import: one logger file for every collar of the round', () => {
     const select = await loader.getHarness(MatSelectHarness.with({ ancestor: 'section[aria-labelledby="open-title"]' }));
     await select.open();
     const options = (await select.getOptions()).map((o) => o.getText());
-    expect(await Promise.all(options)).toEqual(['leave out (kept in the file)', 'A · tap 09:41:00', 'A · tap 09:45:00', 'A · new closure', 'B · tap 09:55:00', 'B · tap 09:59:00', 'B · new closure']);
+    expect(await Promise.all(options)).toEqual([
+      'leave out (kept in the file)',
+      'A · tap 09:41:00',
+      'A · tap 09:45:00',
+      'A · new closure',
+      'B · tap 09:55:00',
+      'B · tap 09:59:00',
+      'B · new closure',
+    ]);
     await select.clickOptions({ text: 'B · tap 09:59:00' });
     expect(text('[data-testid="unplaced"]')).toBe('');
     const button = await save();
@@ -138,8 +181,11 @@ describe('Round import: one logger file for every collar of the round', () => {
     TestBed.resetTestingModule();
 
     const layout = guessLayout(file);
-    const saved: LoggerMapping = { ...suggestMapping(layout.headers, layout, 'Europe/Berlin')!, headers: layout.headers,
-      time: { kind: 'timestamp', column: 0, format: 'DD.MM.YYYY HH:mm:ss', timeZone: 'Europe/Berlin' } };
+    const saved: LoggerMapping = {
+      ...suggestMapping(layout.headers, layout, 'Europe/Berlin')!,
+      headers: layout.headers,
+      time: { kind: 'timestamp', column: 0, format: 'DD.MM.YYYY HH:mm:ss', timeZone: 'Europe/Berlin' },
+    };
     localStorage.setItem(`fw.logger-preset.${ANALYZER}`, JSON.stringify(saved));
     const again = await render();
     await again.pick(file, 'day.csv');

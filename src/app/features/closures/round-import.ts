@@ -3,15 +3,34 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { RouterLink } from '@angular/router';
-import { guessLayout, mappingFits, matchPiecesToVisits, plainExportMapping, savedMapping, type LoggerMapping, type LoggerPiece, type PieceMatch } from '../../../../shared/logger';
+import {
+  guessLayout,
+  mappingFits,
+  matchPiecesToVisits,
+  plainExportMapping,
+  savedMapping,
+  type LoggerMapping,
+  type LoggerPiece,
+  type PieceMatch,
+} from '../../../../shared/logger';
 import { counted } from '../../../../shared/text/counted';
 import { siteTimeParts } from '../../../../shared/time/site-time';
 import { DeviceDb } from '../../core/db/device-db';
 import { DeviceMemory } from '../../core/device/device-memory';
 import { WalkContext } from '../field-day/walk-context';
 import {
-  assignmentProblems, assignmentValue, cutBy, dayClockCheck, defaultAssignments, firstCut, loadRoundVisits, mappingPresetKey, parseAssignment, visitSlots,
-  type Assignment, type RoundVisit,
+  assignmentProblems,
+  assignmentValue,
+  cutBy,
+  dayClockCheck,
+  defaultAssignments,
+  firstCut,
+  loadRoundVisits,
+  mappingPresetKey,
+  parseAssignment,
+  visitSlots,
+  type Assignment,
+  type RoundVisit,
 } from './import-plan';
 import { ImportWriter } from './import-writer';
 import { LoggerImport, type LoggerImportData } from './logger-import';
@@ -67,10 +86,19 @@ export class RoundImport {
   /** Taps of the round no piece went to: the crew sees which collars the file does not cover. */
   protected readonly tapsWithout = computed(() => {
     const used = new Set(Object.values(this.assignments()).flatMap((a) => (a.kind === 'closure' ? [a.closureId] : [])));
-    return this.visits().flatMap((v) => v.waiting.filter((c) => !used.has(c.id)).map((c) => ({ code: v.collarCode, at: String(c['chamberOnAt']) })));
+    return this.visits().flatMap((v) =>
+      v.waiting.filter((c) => !used.has(c.id)).map((c) => ({ code: v.collarCode, at: String(c['chamberOnAt']) })),
+    );
   });
   protected readonly toWrite = computed(() => Object.values(this.assignments()).filter((a) => a.kind !== 'none').length);
-  protected readonly collars = computed(() => new Set(this.visits().filter((v) => v.waiting.length).map((v) => v.visit['collarId'])).size);
+  protected readonly collars = computed(
+    () =>
+      new Set(
+        this.visits()
+          .filter((v) => v.waiting.length)
+          .map((v) => v.visit['collarId']),
+      ).size,
+  );
 
   protected async chooseFile(input: HTMLInputElement): Promise<void> {
     const f = input.files?.[0];
@@ -109,7 +137,9 @@ export class RoundImport {
       const visits = await this.deviceDb.run((db) => loadRoundVisits(db, c.campaignId!, c.round));
       const slots = visitSlots(visits);
       const timed = read.samples.length > 0 && read.samples.every((s) => s.atMs !== null);
-      const check = timed ? await this.deviceDb.run((db) => dayClockCheck(db, this.siteId, c.analyzerId, read.samples[0].atMs!, this.timeZone)) : null;
+      const check = timed
+        ? await this.deviceDb.run((db) => dayClockCheck(db, this.siteId, c.analyzerId, read.samples[0].atMs!, this.timeZone))
+        : null;
       const cut = firstCut(read.samples, slots, check);
       this.offsetS = cut.offsetS;
       const split = cutBy(cut.methods[0], read.samples, cut.own, slots, cut.offsetS);
@@ -131,7 +161,13 @@ export class RoundImport {
   /** A file in columns this analyzer has no saved mapping for: mapped once in the full import, kept for next time. */
   protected mapColumns(): void {
     const c = this.choice();
-    const data: LoggerImportData = { siteId: this.siteId, campaignId: c.campaignId!, round: c.round, analyzerId: c.analyzerId, profileId: c.profileId };
+    const data: LoggerImportData = {
+      siteId: this.siteId,
+      campaignId: c.campaignId!,
+      round: c.round,
+      analyzerId: c.analyzerId,
+      profileId: c.profileId,
+    };
     this.dialog.open(LoggerImport, { data, width: '960px', maxWidth: '100vw', autoFocus: 'first-tabbable' });
   }
 
@@ -147,10 +183,20 @@ export class RoundImport {
     const c = this.choice();
     const { filled, left } = await this.writer.write(
       { siteId: this.siteId, campaignId: c.campaignId!, analyzerId: c.analyzerId, profileId: c.profileId },
-      { file: this.file!, fileName: this.file!.name, mapping: this.mapping, pieces: this.pieces(), matches: this.matches(), assignments: this.assignments(),
-        visits: this.visits(), offsetS: this.offsetS },
+      {
+        file: this.file!,
+        fileName: this.file!.name,
+        mapping: this.mapping,
+        pieces: this.pieces(),
+        matches: this.matches(),
+        assignments: this.assignments(),
+        visits: this.visits(),
+        offsetS: this.offsetS,
+      },
     );
-    this.summary.set(`${counted(filled, 'closure')} filled from ${this.file!.name}${left ? `; ${counted(left, 'piece')} left out (kept in the file)` : ''}.`);
+    this.summary.set(
+      `${counted(filled, 'closure')} filled from ${this.file!.name}${left ? `; ${counted(left, 'piece')} left out (kept in the file)` : ''}.`,
+    );
     this.step.set('done');
   }
 

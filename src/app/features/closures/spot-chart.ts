@@ -17,7 +17,14 @@ export interface SpotChartInput {
 @Component({
   selector: 'fw-spot-chart',
   template: `<div #plot role="img" [attr.aria-label]="label()"></div>`,
-  styles: [`:host { display: block; overflow: hidden; }`],
+  styles: [
+    `
+      :host {
+        display: block;
+        overflow: hidden;
+      }
+    `,
+  ],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class SpotChart implements OnDestroy {
@@ -41,7 +48,9 @@ export class SpotChart implements OnDestroy {
     const inWindow = (t: number | null) => t !== null && w !== null && t >= w.firstTS && t <= w.lastTS;
     const lin = d.fit.linear;
     const exp = d.fit.exponential;
-    const dry = co2Ppm.map((v, i) => (v === null ? null : typeof h2oMmolMol?.[i] === 'number' ? dryMoleFractionPpm(v, h2oMmolMol[i] as number) : v));
+    const dry = co2Ppm.map((v, i) =>
+      v === null ? null : typeof h2oMmolMol?.[i] === 'number' ? dryMoleFractionPpm(v, h2oMmolMol[i] as number) : v,
+    );
     const line = tS.map((t) => (lin && inWindow(t) ? lin.interceptPpm + lin.slopePpmS * (t! - d.settleS) : null));
     const expo = tS.map((t) => (exp && inWindow(t) ? exp.p1 + exp.p2 * Math.exp(exp.p3 * (t! - d.settleS)) : null));
     const host = this.el().nativeElement;
@@ -58,15 +67,17 @@ export class SpotChart implements OnDestroy {
         { label: 'exponential', stroke: '#c62828', width: 2, dash: [6, 4], points: { show: false } },
       ],
       hooks: {
-        drawClear: [(u) => {
-          // Settle time: the seconds after seating that every fit skips.
-          const x0 = u.valToPos(tS[0] ?? 0, 'x', true);
-          const x1 = u.valToPos(settle, 'x', true);
-          u.ctx.save();
-          u.ctx.fillStyle = 'rgba(255, 193, 7, 0.25)';
-          u.ctx.fillRect(x0, u.bbox.top, Math.max(0, x1 - x0), u.bbox.height);
-          u.ctx.restore();
-        }],
+        drawClear: [
+          (u) => {
+            // Settle time: the seconds after seating that every fit skips.
+            const x0 = u.valToPos(tS[0] ?? 0, 'x', true);
+            const x1 = u.valToPos(settle, 'x', true);
+            u.ctx.save();
+            u.ctx.fillStyle = 'rgba(255, 193, 7, 0.25)';
+            u.ctx.fillRect(x0, u.bbox.top, Math.max(0, x1 - x0), u.bbox.height);
+            u.ctx.restore();
+          },
+        ],
       },
     };
     this.chart = new uPlot(opts, [tS.map((t) => t ?? NaN), dry, line, expo] as uPlot.AlignedData, host);

@@ -23,10 +23,13 @@ let userNo = 0;
 
 async function render(timezone?: string) {
   const userId = `0000000${++userNo}-0000-4000-8000-00000000000c`.slice(-36);
-  localStorage.setItem('fw.session', JSON.stringify({
-    user: { id: userId, email: 'crew@fluxwalk.example', displayName: 'Crew', roles: ['crew'], siteIds: [SITE] },
-    sites: [{ id: SITE, name: 'Test site', ...(timezone ? { timezone } : {}) }],
-  }));
+  localStorage.setItem(
+    'fw.session',
+    JSON.stringify({
+      user: { id: userId, email: 'crew@fluxwalk.example', displayName: 'Crew', roles: ['crew'], siteIds: [SITE] },
+      sites: [{ id: SITE, name: 'Test site', ...(timezone ? { timezone } : {}) }],
+    }),
+  );
   TestBed.configureTestingModule({ providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting()] });
   const db: FluxDb = await until(() => TestBed.inject(DeviceDb).db(), 'the database');
   await db.records('collar').bulkPut([
@@ -76,7 +79,14 @@ describe('CollarEvents', () => {
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Record event' }))).click();
 
     const saved = await until(async () => (await db.records('collarEvent').toArray()).find((e) => e['kind'] === 'reseated'), 'the event');
-    expect(saved).toMatchObject({ siteId: SITE, collarId: COLLAR, kind: 'reseated', date: '2026-07-01', note: 'Frost heave lifted the rim 1 cm', replacedById: null });
+    expect(saved).toMatchObject({
+      siteId: SITE,
+      collarId: COLLAR,
+      kind: 'reseated',
+      date: '2026-07-01',
+      note: 'Frost heave lifted the rim 1 cm',
+      replacedById: null,
+    });
     const ops = await db.outbox.toArray();
     expect(ops.map((o) => [o.entity, o.id])).toEqual([['collarEvent', saved.id]]);
     await until(() => items().length === 3, 'the new event in the list');
@@ -99,7 +109,10 @@ describe('CollarEvents', () => {
     expect(await Promise.all((await selects[1].getOptions()).map((o) => o.getText()))).toEqual(['W-9', 'W-10']);
     await selects[1].clickOptions({ text: 'W-9' });
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Record event' }))).click();
-    const saved = await until(async () => (await db.records('collarEvent').toArray()).find((e) => e['kind'] === 'replaced'), 'the replacement');
+    const saved = await until(
+      async () => (await db.records('collarEvent').toArray()).find((e) => e['kind'] === 'replaced'),
+      'the replacement',
+    );
     expect(saved['replacedById']).toBe(NEW_COLLAR);
     fixture.destroy();
   });

@@ -25,21 +25,32 @@ export const LATER_EVENTS = [
   template: `
     <ol class="events" data-testid="collar-events">
       @for (e of events(); track e.id) {
-        <li><strong>{{ e['date'] }}</strong> {{ labelOf(e['kind']) }}@if (e['note']) { — {{ e['note'] }} }</li>
-      } @empty { <li>No events recorded.</li> }
+        <li>
+          <strong>{{ e['date'] }}</strong> {{ labelOf(e['kind']) }}
+          @if (e['note']) {
+            — {{ e['note'] }}
+          }
+        </li>
+      } @empty {
+        <li>No events recorded.</li>
+      }
     </ol>
     <form (submit)="$event.preventDefault(); addEvent()">
       <mat-form-field appearance="outline" class="wide">
         <mat-label>What happened</mat-label>
         <mat-select [value]="kind()" (selectionChange)="kind.set($event.value)">
-          @for (k of kinds; track k.kind) { <mat-option [value]="k.kind">{{ k.label }}</mat-option> }
+          @for (k of kinds; track k.kind) {
+            <mat-option [value]="k.kind">{{ k.label }}</mat-option>
+          }
         </mat-select>
       </mat-form-field>
       @if (kind() === 'replaced') {
         <mat-form-field appearance="outline" class="wide">
           <mat-label>New collar</mat-label>
           <mat-select [value]="replacedById()" (selectionChange)="replacedById.set($event.value)">
-            @for (c of others(); track c.id) { <mat-option [value]="c.id">{{ c['code'] }}</mat-option> }
+            @for (c of others(); track c.id) {
+              <mat-option [value]="c.id">{{ c['code'] }}</mat-option>
+            }
           </mat-select>
         </mat-form-field>
       }
@@ -52,11 +63,29 @@ export const LATER_EVENTS = [
         <textarea matInput rows="2" maxlength="2000" [value]="note()" (input)="note.set($any($event.target).value)"></textarea>
       </mat-form-field>
       <button mat-flat-button type="submit">Record event</button>
-      @if (problem()) { <p role="alert" class="problem">{{ problem() }}</p> }
-      @if (message()) { <p role="status">{{ message() }}</p> }
+      @if (problem()) {
+        <p role="alert" class="problem">{{ problem() }}</p>
+      }
+      @if (message()) {
+        <p role="status">{{ message() }}</p>
+      }
     </form>
   `,
-  styles: `.wide { width: 100%; } button { min-height: 48px; } .events { padding-left: 20px; } .problem { font-weight: 600; color: var(--mat-sys-error); }`,
+  styles: `
+    .wide {
+      width: 100%;
+    }
+    button {
+      min-height: 48px;
+    }
+    .events {
+      padding-left: 20px;
+    }
+    .problem {
+      font-weight: 600;
+      color: var(--mat-sys-error);
+    }
+  `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class CollarEvents {
@@ -65,10 +94,24 @@ export class CollarEvents {
   private readonly writes = inject(LocalWrites);
   private readonly auth = inject(AuthStore);
   protected readonly kinds = LATER_EVENTS;
-  protected readonly events = liveSignal(() => this.collarId(), async (db, id) =>
-    (await db.records('collarEvent').where('collarId').equals(id).toArray()).filter((e) => !e.deleted).sort((a, b) => String(b['date']).localeCompare(String(a['date']))), []);
-  private readonly siteCollars = liveSignal(() => this.siteId(), async (db, id) => db.records('collar').where('siteId').equals(id).toArray(), []);
-  protected readonly others = computed(() => this.siteCollars().filter((c) => c.id !== this.collarId()).sort((a, b) => String(a['code']).localeCompare(String(b['code']), undefined, { numeric: true })));
+  protected readonly events = liveSignal(
+    () => this.collarId(),
+    async (db, id) =>
+      (await db.records('collarEvent').where('collarId').equals(id).toArray())
+        .filter((e) => !e.deleted)
+        .sort((a, b) => String(b['date']).localeCompare(String(a['date']))),
+    [],
+  );
+  private readonly siteCollars = liveSignal(
+    () => this.siteId(),
+    async (db, id) => db.records('collar').where('siteId').equals(id).toArray(),
+    [],
+  );
+  protected readonly others = computed(() =>
+    this.siteCollars()
+      .filter((c) => c.id !== this.collarId())
+      .sort((a, b) => String(a['code']).localeCompare(String(b['code']), undefined, { numeric: true })),
+  );
   protected readonly kind = signal<string>('clipped');
   /** Today at the collar's site (not on the phone), until the crew picks another day. */
   protected readonly date = linkedSignal(() => siteToday(this.auth.sites().find((s) => s.id === this.siteId())?.timezone ?? 'UTC'));
@@ -83,7 +126,11 @@ export class CollarEvents {
 
   protected async addEvent(): Promise<void> {
     const fields = {
-      siteId: this.siteId(), collarId: this.collarId(), kind: this.kind(), date: this.date(), note: this.note().trim(),
+      siteId: this.siteId(),
+      collarId: this.collarId(),
+      kind: this.kind(),
+      date: this.date(),
+      note: this.note().trim(),
       replacedById: this.kind() === 'replaced' ? this.replacedById() : null,
     };
     const parsed = ENTITY_FIELDS.collarEvent.safeParse(fields);

@@ -20,7 +20,17 @@ import { collarView } from './collar-store';
  */
 @Component({
   selector: 'fw-collar-page',
-  imports: [CollarEvents, CollarPhotos, SiteTimePipe, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, ReactiveFormsModule, RouterLink],
+  imports: [
+    CollarEvents,
+    CollarPhotos,
+    SiteTimePipe,
+    MatButtonModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    ReactiveFormsModule,
+    RouterLink,
+  ],
   templateUrl: './collar-page.html',
   styleUrl: './collar-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

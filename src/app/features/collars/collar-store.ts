@@ -16,23 +16,32 @@ export interface CollarView {
  * Call in an injection context. `undefined` while loading, `null` when the collar is not here.
  */
 export function collarView(id: () => string): Signal<CollarView | null | undefined> {
-  return liveSignal(id, async (db, collarId) => {
-    const collar = await db.records('collar').get(collarId);
-    if (!collar) return null;
-    const plot = typeof collar['plotId'] === 'string' ? await db.records('plot').get(collar['plotId']) : undefined;
-    const treatmentId = (collar['treatmentId'] as string | null) ?? (plot?.['treatmentId'] as string | null) ?? null;
-    const treatment = treatmentId ? await db.records('treatment').get(treatmentId) : undefined;
-    const visits = await db.records('visit').where('collarId').equals(collarId).toArray();
-    const last = visits.filter((v) => !v['skipped']).map((v) => String(v['arrivedAt'])).sort().at(-1) ?? null;
-    const pending = (await db.outbox.where('[entity+id]').equals(['collar', collarId]).count()) > 0;
-    return {
-      collar,
-      plotCode: (plot?.['code'] as string | undefined) ?? null,
-      treatment: treatment ? [treatment['code'], treatment['name']].filter(Boolean).join(' · ') : null,
-      lastVisit: last,
-      pending,
-    };
-  }, undefined as CollarView | null | undefined);
+  return liveSignal(
+    id,
+    async (db, collarId) => {
+      const collar = await db.records('collar').get(collarId);
+      if (!collar) return null;
+      const plot = typeof collar['plotId'] === 'string' ? await db.records('plot').get(collar['plotId']) : undefined;
+      const treatmentId = (collar['treatmentId'] as string | null) ?? (plot?.['treatmentId'] as string | null) ?? null;
+      const treatment = treatmentId ? await db.records('treatment').get(treatmentId) : undefined;
+      const visits = await db.records('visit').where('collarId').equals(collarId).toArray();
+      const last =
+        visits
+          .filter((v) => !v['skipped'])
+          .map((v) => String(v['arrivedAt']))
+          .sort()
+          .at(-1) ?? null;
+      const pending = (await db.outbox.where('[entity+id]').equals(['collar', collarId]).count()) > 0;
+      return {
+        collar,
+        plotCode: (plot?.['code'] as string | undefined) ?? null,
+        treatment: treatment ? [treatment['code'], treatment['name']].filter(Boolean).join(' · ') : null,
+        lastVisit: last,
+        pending,
+      };
+    },
+    undefined as CollarView | null | undefined,
+  );
 }
 
 export interface CollarRow {
@@ -44,10 +53,14 @@ export interface CollarRow {
 
 /** Collars of a site by code, live from the device store. */
 export function collarList(siteId: () => string | null): Signal<CollarRow[] | undefined> {
-  return liveSignal(siteId, async (db, site) => {
-    const all = site ? await db.records('collar').where('siteId').equals(site).toArray() : await db.records('collar').toArray();
-    return all
-      .map((c) => ({ id: c.id, code: String(c['code'] ?? ''), status: String(c['status'] ?? ''), notes: String(c['notes'] ?? '') }))
-      .sort((a, b) => a.code.localeCompare(b.code, undefined, { numeric: true }));
-  }, undefined as CollarRow[] | undefined);
+  return liveSignal(
+    siteId,
+    async (db, site) => {
+      const all = site ? await db.records('collar').where('siteId').equals(site).toArray() : await db.records('collar').toArray();
+      return all
+        .map((c) => ({ id: c.id, code: String(c['code'] ?? ''), status: String(c['status'] ?? ''), notes: String(c['notes'] ?? '') }))
+        .sort((a, b) => a.code.localeCompare(b.code, undefined, { numeric: true }));
+    },
+    undefined as CollarRow[] | undefined,
+  );
 }

@@ -18,7 +18,9 @@ export function showValue(v: unknown): string {
 }
 
 /** One row per conflicting field: base (where known), mine and theirs. A delete shows as such. */
-export function conflictFieldRows(c: Pick<ConflictRow, 'fields' | 'mine' | 'base' | 'wasDelete'> & { theirs: Record<string, unknown> | null }): ConflictFieldRow[] {
+export function conflictFieldRows(
+  c: Pick<ConflictRow, 'fields' | 'mine' | 'base' | 'wasDelete'> & { theirs: Record<string, unknown> | null },
+): ConflictFieldRow[] {
   if (c.wasDelete) {
     return [{ field: 'deleted', label: 'record', base: null, mine: 'deleted', theirs: c.theirs ? 'changed' : 'unknown' }];
   }

@@ -41,24 +41,33 @@ export class Conflicts {
   protected readonly picks = signal<Record<string, Record<string, Side>>>({});
   protected readonly problem = signal('');
 
-  protected readonly cards = liveSignal(() => this.auth.user()?.id ?? null, async (db, me) => {
-    const rows = await db.conflicts.orderBy('opId').toArray();
-    const labels = await labelsFor(db, rows.map((r) => ({ entity: r.entity, id: r.recordId })));
-    const cards: ConflictCard[] = [];
-    for (const row of rows) {
-      const theirs = row.theirs ?? (await db.records(row.entity).get(row.recordId)) ?? null;
-      const by = theirs?.['updatedBy'];
-      cards.push({
-        row,
-        label: labels.get(`${row.entity}:${row.recordId}`) ?? row.entity,
-        fields: conflictFieldRows({ ...row, theirs }),
-        alsoSent: Object.keys(row.mine).filter((k) => !row.fields.includes(k)).map(fieldLabel),
-        theirsAt: typeof theirs?.['updatedAt'] === 'string' ? theirs['updatedAt'] : null,
-        theirsBy: by && by === me ? 'you, on another device' : 'another person',
-      });
-    }
-    return cards.sort((a, b) => a.row.at.localeCompare(b.row.at));
-  }, undefined as ConflictCard[] | undefined);
+  protected readonly cards = liveSignal(
+    () => this.auth.user()?.id ?? null,
+    async (db, me) => {
+      const rows = await db.conflicts.orderBy('opId').toArray();
+      const labels = await labelsFor(
+        db,
+        rows.map((r) => ({ entity: r.entity, id: r.recordId })),
+      );
+      const cards: ConflictCard[] = [];
+      for (const row of rows) {
+        const theirs = row.theirs ?? (await db.records(row.entity).get(row.recordId)) ?? null;
+        const by = theirs?.['updatedBy'];
+        cards.push({
+          row,
+          label: labels.get(`${row.entity}:${row.recordId}`) ?? row.entity,
+          fields: conflictFieldRows({ ...row, theirs }),
+          alsoSent: Object.keys(row.mine)
+            .filter((k) => !row.fields.includes(k))
+            .map(fieldLabel),
+          theirsAt: typeof theirs?.['updatedAt'] === 'string' ? theirs['updatedAt'] : null,
+          theirsBy: by && by === me ? 'you, on another device' : 'another person',
+        });
+      }
+      return cards.sort((a, b) => a.row.at.localeCompare(b.row.at));
+    },
+    undefined as ConflictCard[] | undefined,
+  );
 
   protected pick(opId: string, field: string, side: Side): void {
     this.picks.update((p) => ({ ...p, [opId]: { ...(p[opId] ?? {}), [field]: side } }));

@@ -3,9 +3,18 @@ import { signedInDevice, TEST_SITE } from '../../core/db/testing/signed-in-devic
 import { VisitWrites, type VisitTarget } from './visit-writes';
 
 const target: VisitTarget = {
-  siteId: TEST_SITE, campaignId: '44444444-4444-4444-8444-444444444444', round: 1, collarId: '33333333-3333-4333-8333-333333333333',
+  siteId: TEST_SITE,
+  campaignId: '44444444-4444-4444-8444-444444444444',
+  round: 1,
+  collarId: '33333333-3333-4333-8333-333333333333',
 };
-const reading = (moistureRaw: number) => ({ soilTemps: [{ depthCm: 5, tempC: 11.5 }], moistureRaw, moistureKind: 'vwc', rodLengthCm: 12, probeId: 'TDR-2' });
+const reading = (moistureRaw: number) => ({
+  soilTemps: [{ depthCm: 5, tempC: 11.5 }],
+  moistureRaw,
+  moistureKind: 'vwc',
+  rodLengthCm: 12,
+  probeId: 'TDR-2',
+});
 
 describe('VisitWrites probe replicates on the device', () => {
   afterEach(() => localStorage.clear());
@@ -13,21 +22,29 @@ describe('VisitWrites probe replicates on the device', () => {
   it('when two replicates are saved and the first corrected, then two records and two create ops exist, each taken by the signed-in user', async () => {
     const { db, userId } = await signedInDevice();
     const writes = TestBed.inject(VisitWrites);
-    const a = 'aaaaaaaa-0000-4000-8000-000000000001', b = 'bbbbbbbb-0000-4000-8000-000000000002';
+    const a = 'aaaaaaaa-0000-4000-8000-000000000001',
+      b = 'bbbbbbbb-0000-4000-8000-000000000002';
     await Promise.all([writes.saveProbe(target, null, reading(23.4), a), writes.saveProbe(target, null, reading(23.5), a)]);
     await writes.saveProbe(target, null, reading(25.1), b);
     const records = await db.records('probeReading').toArray();
-    expect(records.map((r) => [r.id, r['moistureRaw'], r['takenById']]).sort()).toEqual([[a, 23.5, userId], [b, 25.1, userId]]);
+    expect(records.map((r) => [r.id, r['moistureRaw'], r['takenById']]).sort()).toEqual([
+      [a, 23.5, userId],
+      [b, 25.1, userId],
+    ]);
     const ops = (await db.outbox.toArray()).filter((o) => o.entity === 'probeReading');
     // An unsent create takes the correction in (the device never conflicts with itself); the replicates stay apart.
-    expect(ops.map((o) => [o.id, o.baseRev, o.fields['moistureRaw']]).sort()).toEqual([[a, null, 23.5], [b, null, 25.1]]);
+    expect(ops.map((o) => [o.id, o.baseRev, o.fields['moistureRaw']]).sort()).toEqual([
+      [a, null, 23.5],
+      [b, null, 25.1],
+    ]);
     expect(new Set(records.map((r) => r['visitId'])).size).toBe(1);
   });
 
   it('when a replicate is deleted, then it leaves the device and the other stays', async () => {
     const { db } = await signedInDevice();
     const writes = TestBed.inject(VisitWrites);
-    const a = 'aaaaaaaa-0000-4000-8000-000000000003', b = 'bbbbbbbb-0000-4000-8000-000000000004';
+    const a = 'aaaaaaaa-0000-4000-8000-000000000003',
+      b = 'bbbbbbbb-0000-4000-8000-000000000004';
     await writes.saveProbe(target, null, reading(20), a);
     await writes.saveProbe(target, null, reading(99), b);
     await writes.deleteProbe(b);
@@ -37,7 +54,9 @@ describe('VisitWrites probe replicates on the device', () => {
   it('when a replicate is out of range, then it is refused with the schema message and nothing is stored', async () => {
     const { db } = await signedInDevice();
     const writes = TestBed.inject(VisitWrites);
-    await expect(writes.saveProbe(target, null, reading(150), 'cccccccc-0000-4000-8000-000000000005')).rejects.toThrow('VWC must be between 0 and 100 %');
+    await expect(writes.saveProbe(target, null, reading(150), 'cccccccc-0000-4000-8000-000000000005')).rejects.toThrow(
+      'VWC must be between 0 and 100 %',
+    );
     expect(await db.records('probeReading').count()).toBe(0);
   });
 });

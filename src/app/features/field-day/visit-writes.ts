@@ -13,7 +13,13 @@ export interface VisitTarget {
 }
 
 export type VisitConditions = {
-  rainNow: boolean; rain24h: boolean; standingWater: boolean; frostSnow: boolean; trampled: boolean; animal: boolean; other: string;
+  rainNow: boolean;
+  rain24h: boolean;
+  standingWater: boolean;
+  frostSnow: boolean;
+  trampled: boolean;
+  animal: boolean;
+  other: string;
   /** °C at the collar; null when not read. */
   airTempC?: number | null;
 };
@@ -54,11 +60,21 @@ export class VisitWrites {
   }
 
   /** A new offset set; a second set at the same visit is a correction that supersedes the first (both are kept). */
-  async saveOffsetSet(target: VisitTarget, visit: LocalRecord | null, readingsCm: number[], previousAtVisit: LocalRecord | null): Promise<LocalRecord> {
+  async saveOffsetSet(
+    target: VisitTarget,
+    visit: LocalRecord | null,
+    readingsCm: number[],
+    previousAtVisit: LocalRecord | null,
+  ): Promise<LocalRecord> {
     const v = await this.ensureVisit(target, visit);
     const fields = validated('offsetSet', {
-      siteId: target.siteId, visitId: v.id, collarId: target.collarId, campaignId: target.campaignId,
-      takenAt: new Date().toISOString(), readingsCm, supersedesId: previousAtVisit?.id ?? null,
+      siteId: target.siteId,
+      visitId: v.id,
+      collarId: target.collarId,
+      campaignId: target.campaignId,
+      takenAt: new Date().toISOString(),
+      readingsCm,
+      supersedesId: previousAtVisit?.id ?? null,
     });
     return this.writes.create('offsetSet', fields);
   }
@@ -70,22 +86,33 @@ export class VisitWrites {
    */
   saveProbe(target: VisitTarget, visit: LocalRecord | null, reading: Record<string, unknown>, replicateId: string): Promise<void> {
     const previous = this.probeSaves.get(replicateId) ?? Promise.resolve();
-    const next = previous.catch(() => undefined).then(async () => {
-      const v = await this.ensureVisit(target, visit);
-      const fields = validated('probeReading', {
-        siteId: target.siteId, visitId: v.id, collarId: target.collarId, campaignId: target.campaignId,
-        takenAt: new Date().toISOString(), takenById: this.auth.user()?.id ?? null, ...reading,
+    const next = previous
+      .catch(() => undefined)
+      .then(async () => {
+        const v = await this.ensureVisit(target, visit);
+        const fields = validated('probeReading', {
+          siteId: target.siteId,
+          visitId: v.id,
+          collarId: target.collarId,
+          campaignId: target.campaignId,
+          takenAt: new Date().toISOString(),
+          takenById: this.auth.user()?.id ?? null,
+          ...reading,
+        });
+        const { takenAt: _at, takenById: _by, ...values } = fields;
+        try {
+          await this.writes.edit('probeReading', replicateId, values);
+        } catch (err) {
+          if (!(err instanceof RecordMissingError)) throw err;
+          await this.writes.create('probeReading', fields, { id: replicateId });
+        }
       });
-      const { takenAt: _at, takenById: _by, ...values } = fields;
-      try {
-        await this.writes.edit('probeReading', replicateId, values);
-      } catch (err) {
-        if (!(err instanceof RecordMissingError)) throw err;
-        await this.writes.create('probeReading', fields, { id: replicateId });
-      }
-    });
     this.probeSaves.set(replicateId, next);
-    next.finally(() => { if (this.probeSaves.get(replicateId) === next) this.probeSaves.delete(replicateId); }).catch(() => undefined);
+    next
+      .finally(() => {
+        if (this.probeSaves.get(replicateId) === next) this.probeSaves.delete(replicateId);
+      })
+      .catch(() => undefined);
     return next;
   }
 

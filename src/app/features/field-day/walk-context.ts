@@ -21,7 +21,16 @@ export interface WalkChoice {
 }
 
 const EMPTY: WalkChoice = {
-  campaignId: null, round: 1, routeId: null, flipped: false, analyzerId: null, kitAt: null, profileId: null, probeId: '', rodLengthCm: null, moistureKind: 'vwc',
+  campaignId: null,
+  round: 1,
+  routeId: null,
+  flipped: false,
+  analyzerId: null,
+  kitAt: null,
+  profileId: null,
+  probeId: '',
+  rodLengthCm: null,
+  moistureKind: 'vwc',
 };
 
 /** Remembered per user on this device (localStorage), so Walk reopens where the crew left it, offline too. */
@@ -42,7 +51,11 @@ export class WalkContext {
 
   update(changes: Partial<WalkChoice>): void {
     // Choosing an analyzer (here or on the start of day) makes it today's analyzer.
-    const next = { ...this.state(), ...changes, ...('analyzerId' in changes && !('kitAt' in changes) ? { kitAt: new Date().toISOString() } : {}) };
+    const next = {
+      ...this.state(),
+      ...changes,
+      ...('analyzerId' in changes && !('kitAt' in changes) ? { kitAt: new Date().toISOString() } : {}),
+    };
     this.state.set(next);
     const key = this.key();
     if (key) this.memory.write(key, next);

@@ -15,8 +15,15 @@ const A1 = { id: 'a0000000-0000-4000-8000-000000000001', rev: 1, siteId: SITE, n
 const A2 = { id: 'a0000000-0000-4000-8000-000000000002', rev: 1, siteId: SITE, name: 'Field unit 2', serial: '' };
 const ASH = 'u0000000-0000-4000-8000-000000000007';
 const check = (n: number, fields: Record<string, unknown>) => ({
-  id: `c0000000-0000-4000-8000-00000000000${n}`, rev: 1, siteId: SITE, analyzerId: A1.id, skipped: false, skipReason: null, passed: null,
-  updatedBy: ASH, ...fields,
+  id: `c0000000-0000-4000-8000-00000000000${n}`,
+  rev: 1,
+  siteId: SITE,
+  analyzerId: A1.id,
+  skipped: false,
+  skipReason: null,
+  passed: null,
+  updatedBy: ASH,
+  ...fields,
 });
 const A1_CHECKS = [
   check(1, { kind: 'leak', at: '2026-05-04T05:10:00.000Z', passed: true }),
@@ -24,8 +31,16 @@ const A1_CHECKS = [
   check(3, { kind: 'ambient', at: '2026-05-05T05:02:00.000Z', passed: false, updatedBy: 'u0000000-0000-4000-8000-000000000099' }),
 ];
 
-const LEAK_FILE = { id: 'f0000000-0000-4000-8000-000000000001', rev: 2, siteId: SITE, ownerEntity: 'analyzerCheck', ownerId: A1_CHECKS[0]!.id,
-  fileName: 'plate.csv', mediaType: 'text/csv', objectKey: 'sites/x/attachments/f' };
+const LEAK_FILE = {
+  id: 'f0000000-0000-4000-8000-000000000001',
+  rev: 2,
+  siteId: SITE,
+  ownerEntity: 'analyzerCheck',
+  ownerId: A1_CHECKS[0]!.id,
+  fileName: 'plate.csv',
+  mediaType: 'text/csv',
+  objectKey: 'sites/x/attachments/f',
+};
 
 async function checksOf() {
   TestBed.configureTestingModule({ imports: [AnalyzerChecks], providers: [provideHttpClient(), provideHttpClientTesting()] });
@@ -36,7 +51,9 @@ async function checksOf() {
   fixture.componentRef.setInput('driftLimitPct', 2);
   fixture.detectChanges();
   const backend = TestBed.inject(HttpTestingController);
-  backend.expectOne('/api/users').flush({ items: [{ id: ASH, email: 'r@example.org', displayName: 'Rowan Ashby', roles: ['crew'], siteIds: [SITE] }] });
+  backend
+    .expectOne('/api/users')
+    .flush({ items: [{ id: ASH, email: 'r@example.org', displayName: 'Rowan Ashby', roles: ['crew'], siteIds: [SITE] }] });
   const req = backend.expectOne((r) => r.url === '/api/analyzer-checks');
   expect([req.request.params.get('analyzerId'), req.request.params.get('siteId')]).toEqual([A1.id, SITE]);
   req.flush({ items: A1_CHECKS, total: 3, limit: 1000, offset: 0 });
@@ -78,14 +95,19 @@ describe('AnalyzerChecks', () => {
     await new Promise((r) => setTimeout(r, 0));
     await fixture.whenStable();
     expect(await grid.getRows()).toHaveLength(0);
-    expect((fixture.nativeElement as HTMLElement).querySelector('.empty')!.textContent!.trim()).toBe('No checks recorded for this analyzer.');
+    expect((fixture.nativeElement as HTMLElement).querySelector('.empty')!.textContent!.trim()).toBe(
+      'No checks recorded for this analyzer.',
+    );
   });
 
   it('when the admin records a calibration, then it is posted for the chosen analyzer in UTC and the list shows its drift', async () => {
     const { fixture, backend, loader, grid } = await checksOf();
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Record a calibration…' }))).click();
-    expect((fixture.nativeElement as HTMLElement).querySelector('[data-testid="cylinder-caution"]')!.textContent).toContain("follow the supplier's handling rules");
-    const type = async (id: string, v: string) => (await loader.getHarness(MatInputHarness.with({ selector: `[data-testid="${id}"]` }))).setValue(v);
+    expect((fixture.nativeElement as HTMLElement).querySelector('[data-testid="cylinder-caution"]')!.textContent).toContain(
+      "follow the supplier's handling rules",
+    );
+    const type = async (id: string, v: string) =>
+      (await loader.getHarness(MatInputHarness.with({ selector: `[data-testid="${id}"]` }))).setValue(v);
     await type('cal-at', '2026-06-12T09:15');
     await type('cal-zero-gas', '0');
     await type('cal-zero-cylinder', 'N2-77');
@@ -98,8 +120,22 @@ describe('AnalyzerChecks', () => {
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Save calibration' }))).click();
     const post = backend.expectOne((r) => r.method === 'POST' && r.url === '/api/analyzer-checks');
     // 09:15 in Berlin in June is UTC+2 (EU summer time).
-    expect(post.request.body).toEqual({ siteId: SITE, analyzerId: A1.id, kind: 'calibration', at: '2026-06-12T07:15:00.000Z', zeroGasPpm: 0, zeroCylinder: 'N2-77',
-      zeroBeforePpm: 3, zeroAfterPpm: 0.2, spanGasPpm: 800, spanCylinder: 'SG-800-5', spanBeforePpm: 790, spanAfterPpm: 800.1, passed: true, note: '' });
+    expect(post.request.body).toEqual({
+      siteId: SITE,
+      analyzerId: A1.id,
+      kind: 'calibration',
+      at: '2026-06-12T07:15:00.000Z',
+      zeroGasPpm: 0,
+      zeroCylinder: 'N2-77',
+      zeroBeforePpm: 3,
+      zeroAfterPpm: 0.2,
+      spanGasPpm: 800,
+      spanCylinder: 'SG-800-5',
+      spanBeforePpm: 790,
+      spanAfterPpm: 800.1,
+      passed: true,
+      note: '',
+    });
     const stored = check(4, { ...post.request.body, zeroDriftPpm: 3, driftPpm: -10, passed: true });
     post.flush({ record: stored });
     await new Promise((r) => setTimeout(r, 0));
@@ -107,22 +143,44 @@ describe('AnalyzerChecks', () => {
     backend.expectOne((r) => r.url === '/api/attachments').flush({ items: [], total: 0, limit: 1000, offset: 0 });
     await new Promise((r) => setTimeout(r, 0));
     await fixture.whenStable();
-    expect((await grid.getCellTextByIndex())[0]).toEqual(['Calibration', '2026-06-12 09:15 CEST', 'Rowan Ashby',
-      'Passed · drift zero +3, span -10 µmol/mol (1.25 %) · span gas 800 µmol/mol (SG-800-5)', '']);
-    expect((fixture.nativeElement as HTMLElement).querySelector('[data-testid="checks-message"]')!.textContent).toContain('Calibration of Field unit 1 saved.');
+    expect((await grid.getCellTextByIndex())[0]).toEqual([
+      'Calibration',
+      '2026-06-12 09:15 CEST',
+      'Rowan Ashby',
+      'Passed · drift zero +3, span -10 µmol/mol (1.25 %) · span gas 800 µmol/mol (SG-800-5)',
+      '',
+    ]);
+    expect((fixture.nativeElement as HTMLElement).querySelector('[data-testid="checks-message"]')!.textContent).toContain(
+      'Calibration of Field unit 1 saved.',
+    );
   });
 
   it('when the server refuses a calibration, then its message shows and the form stays open with what was typed', async () => {
     const { fixture, backend, loader } = await checksOf();
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Record a calibration…' }))).click();
-    const type = async (id: string, v: string) => (await loader.getHarness(MatInputHarness.with({ selector: `[data-testid="${id}"]` }))).setValue(v);
-    for (const [id, v] of [['cal-zero-before', '1'], ['cal-zero-after', '0'], ['cal-span-gas', '800'], ['cal-span-cylinder', 'SG-800-5'], ['cal-span-before', '801'], ['cal-span-after', '800']]) await type(id!, v!);
+    const type = async (id: string, v: string) =>
+      (await loader.getHarness(MatInputHarness.with({ selector: `[data-testid="${id}"]` }))).setValue(v);
+    for (const [id, v] of [
+      ['cal-zero-before', '1'],
+      ['cal-zero-after', '0'],
+      ['cal-span-gas', '800'],
+      ['cal-span-cylinder', 'SG-800-5'],
+      ['cal-span-before', '801'],
+      ['cal-span-after', '800'],
+    ])
+      await type(id!, v!);
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Save calibration' }))).click();
-    backend.expectOne((r) => r.method === 'POST').flush({ error: { message: 'You are not a member of this site', fields: [] } }, { status: 403, statusText: 'Forbidden' });
+    backend
+      .expectOne((r) => r.method === 'POST')
+      .flush({ error: { message: 'You are not a member of this site', fields: [] } }, { status: 403, statusText: 'Forbidden' });
     await new Promise((r) => setTimeout(r, 0));
     await fixture.whenStable();
-    expect((fixture.nativeElement as HTMLElement).querySelector('[data-testid="checks-message"]')!.textContent).toContain('You are not a member of this site');
-    expect(await (await loader.getHarness(MatInputHarness.with({ selector: '[data-testid="cal-span-cylinder"]' }))).getValue()).toBe('SG-800-5');
+    expect((fixture.nativeElement as HTMLElement).querySelector('[data-testid="checks-message"]')!.textContent).toContain(
+      'You are not a member of this site',
+    );
+    expect(await (await loader.getHarness(MatInputHarness.with({ selector: '[data-testid="cal-span-cylinder"]' }))).getValue()).toBe(
+      'SG-800-5',
+    );
   });
 
   it('when a time is shown, then it is the wall-clock time of the site, across the change to summer time', () => {

@@ -13,7 +13,12 @@ import { siteTime } from '../calibration/site-clock';
 import { SetupApi, type Rec } from './setup-api';
 
 const KIND_LABEL: Record<string, string> = {
-  calibration: 'Calibration', leak: 'Leak check', ambient: 'Ambient reading', clock: 'Clock', 'warm-up': 'Warm-up', 'safety-ack': 'Safety note read',
+  calibration: 'Calibration',
+  leak: 'Leak check',
+  ambient: 'Ambient reading',
+  clock: 'Clock',
+  'warm-up': 'Warm-up',
+  'safety-ack': 'Safety note read',
 };
 
 export interface CheckRow {
@@ -39,7 +44,13 @@ const signed = (x: number) => `${x > 0 ? '+' : ''}${x}`;
 function calibrationFacts(rec: Rec): string[] {
   const c = rec as unknown as Partial<EntityFields<'analyzerCheck'>>;
   const out: string[] = [];
-  const drifts = ([['zero', c.zeroDriftPpm], ['span', c.driftPpm]] as const).filter(([, v]) => typeof v === 'number')
+  const drifts = (
+    [
+      ['zero', c.zeroDriftPpm],
+      ['span', c.driftPpm],
+    ] as const
+  )
+    .filter(([, v]) => typeof v === 'number')
     .map(([w, v]) => `${w} ${signed(v!)}`);
   const pct = worstDriftPct(c);
   if (drifts.length) out.push(`drift ${drifts.join(', ')} µmol/mol${pct === null ? '' : ` (${pct} %)`}`);
@@ -67,44 +78,54 @@ function fileOf(a: Rec | undefined): CheckRow['file'] {
         </mat-select>
       </mat-form-field>
       <div class="fw-table-box" tabindex="0" role="region" aria-label="Check records of the analyzer, scrolls sideways">
-      <table mat-table [dataSource]="data" matSort matSortActive="at" matSortDirection="desc" aria-label="Check records of the analyzer">
-        <ng-container matColumnDef="kind">
-          <th mat-header-cell *matHeaderCellDef mat-sort-header>Check</th>
-          <td mat-cell *matCellDef="let c">{{ c.kind }}</td>
-        </ng-container>
-        <ng-container matColumnDef="at">
-          <th mat-header-cell *matHeaderCellDef mat-sort-header>Time ({{ timeZone() }})</th>
-          <td mat-cell *matCellDef="let c">{{ c.when }}</td>
-        </ng-container>
-        <ng-container matColumnDef="who">
-          <th mat-header-cell *matHeaderCellDef mat-sort-header>By</th>
-          <td mat-cell *matCellDef="let c">{{ c.who }}</td>
-        </ng-container>
-        <ng-container matColumnDef="outcome">
-          <th mat-header-cell *matHeaderCellDef mat-sort-header>Result</th>
-          <td mat-cell *matCellDef="let c">{{ c.outcome }}</td>
-        </ng-container>
-        <ng-container matColumnDef="file">
-          <th mat-header-cell *matHeaderCellDef>File</th>
-          <td mat-cell *matCellDef="let c">
-            @if (c.file; as f) {
-              @if (f.uploaded) { <a [href]="'/api/attachments/' + f.id + '/content'" [attr.download]="f.name">{{ f.name }}</a> }
-              @else { {{ f.name }} (still on the phone) }
-            }
-          </td>
-        </ng-container>
-        <tr mat-header-row *matHeaderRowDef="columns"></tr>
-        <tr mat-row *matRowDef="let row; columns: columns"></tr>
-        <tr class="mat-mdc-row" *matNoDataRow>
-          <td class="mat-mdc-cell empty" [attr.colspan]="columns.length">{{ analyzerId() ? 'No checks recorded for this analyzer.' : 'Choose an analyzer.' }}</td>
-        </tr>
-      </table>
+        <table mat-table [dataSource]="data" matSort matSortActive="at" matSortDirection="desc" aria-label="Check records of the analyzer">
+          <ng-container matColumnDef="kind">
+            <th mat-header-cell *matHeaderCellDef mat-sort-header>Check</th>
+            <td mat-cell *matCellDef="let c">{{ c.kind }}</td>
+          </ng-container>
+          <ng-container matColumnDef="at">
+            <th mat-header-cell *matHeaderCellDef mat-sort-header>Time ({{ timeZone() }})</th>
+            <td mat-cell *matCellDef="let c">{{ c.when }}</td>
+          </ng-container>
+          <ng-container matColumnDef="who">
+            <th mat-header-cell *matHeaderCellDef mat-sort-header>By</th>
+            <td mat-cell *matCellDef="let c">{{ c.who }}</td>
+          </ng-container>
+          <ng-container matColumnDef="outcome">
+            <th mat-header-cell *matHeaderCellDef mat-sort-header>Result</th>
+            <td mat-cell *matCellDef="let c">{{ c.outcome }}</td>
+          </ng-container>
+          <ng-container matColumnDef="file">
+            <th mat-header-cell *matHeaderCellDef>File</th>
+            <td mat-cell *matCellDef="let c">
+              @if (c.file; as f) {
+                @if (f.uploaded) {
+                  <a [href]="'/api/attachments/' + f.id + '/content'" [attr.download]="f.name">{{ f.name }}</a>
+                } @else {
+                  {{ f.name }} (still on the phone)
+                }
+              }
+            </td>
+          </ng-container>
+          <tr mat-header-row *matHeaderRowDef="columns"></tr>
+          <tr mat-row *matRowDef="let row; columns: columns"></tr>
+          <tr class="mat-mdc-row" *matNoDataRow>
+            <td class="mat-mdc-cell empty" [attr.colspan]="columns.length">
+              {{ analyzerId() ? 'No checks recorded for this analyzer.' : 'Choose an analyzer.' }}
+            </td>
+          </tr>
+        </table>
       </div>
       <mat-paginator [pageSize]="25" [pageSizeOptions]="[25, 100]" aria-label="Pages of analyzer checks" />
       @if (analyzerId()) {
         @if (calibrating()) {
           <h4>New calibration of {{ analyzerName() }}</h4>
-          <fw-calibration-form [driftLimitPct]="driftLimitPct()" [timeZone]="timeZone()" [busy]="saving()" (save)="saveCalibration($event)" />
+          <fw-calibration-form
+            [driftLimitPct]="driftLimitPct()"
+            [timeZone]="timeZone()"
+            [busy]="saving()"
+            (save)="saveCalibration($event)"
+          />
           <button mat-button type="button" (click)="calibrating.set(false)">Cancel</button>
         } @else {
           <button mat-stroked-button type="button" (click)="calibrating.set(true)">Record a calibration…</button>
@@ -113,7 +134,14 @@ function fileOf(a: Rec | undefined): CheckRow['file'] {
       <p role="status" data-testid="checks-message">{{ message() }}</p>
     </section>
   `,
-  styles: `table { width: 100%; } .empty { padding: 1rem; }`,
+  styles: `
+    table {
+      width: 100%;
+    }
+    .empty {
+      padding: 1rem;
+    }
+  `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class AnalyzerChecks {
@@ -137,11 +165,17 @@ export class AnalyzerChecks {
   protected readonly data = new MatTableDataSource<CheckRow>([]);
   private readonly sort = viewChild(MatSort);
   private readonly paginator = viewChild(MatPaginator);
-  private readonly rows = computed<CheckRow[]>(() => this.checks().map((c) => ({
-    id: c.id, kind: KIND_LABEL[String(c['kind'])] ?? String(c['kind']), at: String(c['at']), when: siteTime(String(c['at']), this.timeZone()),
-    who: this.names().get(String(c['updatedBy'])) ?? (c['updatedBy'] ? 'a former user' : 'unknown'), outcome: checkOutcome(c),
-    file: fileOf(this.files().get(c.id)),
-  })));
+  private readonly rows = computed<CheckRow[]>(() =>
+    this.checks().map((c) => ({
+      id: c.id,
+      kind: KIND_LABEL[String(c['kind'])] ?? String(c['kind']),
+      at: String(c['at']),
+      when: siteTime(String(c['at']), this.timeZone()),
+      who: this.names().get(String(c['updatedBy'])) ?? (c['updatedBy'] ? 'a former user' : 'unknown'),
+      outcome: checkOutcome(c),
+      file: fileOf(this.files().get(c.id)),
+    })),
+  );
 
   constructor() {
     void this.loadNames();

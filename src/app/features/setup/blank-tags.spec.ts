@@ -35,7 +35,10 @@ describe('Blank tags for new collars', () => {
     req.flush(new Blob(['%PDF-'], { type: 'application/pdf' }), {
       headers: { 'Content-Disposition': 'attachment; filename="new-collar-tags-test-a4.pdf"', 'X-Tag-Count': '12' },
     });
-    await until(() => el.querySelector('[role="status"]')!.textContent!.includes('12 blank tags saved as new-collar-tags-test-a4.pdf'), 'the message');
+    await until(
+      () => el.querySelector('[role="status"]')!.textContent!.includes('12 blank tags saved as new-collar-tags-test-a4.pdf'),
+      'the message',
+    );
     expect(clicks).toHaveBeenCalledTimes(1);
     clicks.mockRestore();
   });
@@ -45,7 +48,9 @@ describe('Blank tags for new collars', () => {
     await (await input('blank-prefix')).setValue('C');
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Download blank tags (PDF)' }))).click();
     const body = { error: { message: 'These codes are already used at this site: C01, C02. Choose another prefix or first number.' } };
-    http.expectOne(() => true).flush(new Blob([JSON.stringify(body)], { type: 'application/json' }), { status: 409, statusText: 'Conflict' });
+    http
+      .expectOne(() => true)
+      .flush(new Blob([JSON.stringify(body)], { type: 'application/json' }), { status: 409, statusText: 'Conflict' });
     await until(() => el.querySelector('[role="alert"]')?.textContent?.includes('already used at this site: C01, C02'), 'the refusal');
   });
 });

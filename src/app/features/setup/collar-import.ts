@@ -65,9 +65,11 @@ export class CollarImport {
       const p = await this.api.previewImport(this.siteId(), this.csv(), this.mapping());
       this.preview.set(p);
       this.mapping.set(p.mapping);
-      this.message.set(p.errorRows || p.fileErrors.length
-        ? `${p.errorRows} of ${p.rows.length} rows need a fix${p.fileErrors.length ? `; ${p.fileErrors.length} problem(s) with the file` : ''}. Nothing was stored.`
-        : `All ${p.validRows} rows are ready to import.`);
+      this.message.set(
+        p.errorRows || p.fileErrors.length
+          ? `${p.errorRows} of ${p.rows.length} rows need a fix${p.fileErrors.length ? `; ${p.fileErrors.length} problem(s) with the file` : ''}. Nothing was stored.`
+          : `All ${p.validRows} rows are ready to import.`,
+      );
     } catch (err) {
       this.message.set(serverMessage(err, 'The file could not be checked'));
     } finally {

@@ -11,10 +11,34 @@ import { parseOutline, toOutline, toVertices } from './outline-geometry';
 const SITE = '0b5e7d2c-1111-4a4a-8a8a-000000000001';
 const P1 = { id: '00000000-0000-4000-8000-000000000001', rev: 3, siteId: SITE, code: 'P1', outline: null };
 const P2 = {
-  id: '00000000-0000-4000-8000-000000000002', rev: 5, siteId: SITE, code: 'P2',
-  outline: { type: 'Polygon', coordinates: [[[11.5, 50.9], [11.5002, 50.9], [11.5002, 50.9002], [11.5, 50.9]]] },
+  id: '00000000-0000-4000-8000-000000000002',
+  rev: 5,
+  siteId: SITE,
+  code: 'P2',
+  outline: {
+    type: 'Polygon',
+    coordinates: [
+      [
+        [11.5, 50.9],
+        [11.5002, 50.9],
+        [11.5002, 50.9002],
+        [11.5, 50.9],
+      ],
+    ],
+  },
 };
-const SQUARE = { type: 'Polygon', coordinates: [[[11.6, 50.97], [11.6004, 50.97], [11.6004, 50.9703], [11.6, 50.9703], [11.6, 50.97]]] };
+const SQUARE = {
+  type: 'Polygon',
+  coordinates: [
+    [
+      [11.6, 50.97],
+      [11.6004, 50.97],
+      [11.6004, 50.9703],
+      [11.6, 50.9703],
+      [11.6, 50.97],
+    ],
+  ],
+};
 
 async function editor() {
   TestBed.configureTestingModule({ imports: [OutlineEditor], providers: [provideHttpClient(), provideHttpClientTesting()] });
@@ -30,7 +54,8 @@ async function editor() {
   const text = await loader.getHarness(MatInputHarness.with({ selector: 'textarea' }));
   const button = (name: string) => loader.getHarness(MatButtonHarness.with({ text: name }));
   const status = () => (fixture.nativeElement as HTMLElement).querySelector('[data-testid=outline-status]')!.textContent!.trim();
-  const problems = () => [...(fixture.nativeElement as HTMLElement).querySelectorAll('[data-testid=outline-errors] li')].map((li) => li.textContent!.trim());
+  const problems = () =>
+    [...(fixture.nativeElement as HTMLElement).querySelectorAll('[data-testid=outline-errors] li')].map((li) => li.textContent!.trim());
   const choose = async (code: string) => (await loader.getHarness(MatSelectHarness)).clickOptions({ text: new RegExp(`^${code}`) });
   return { fixture, backend, text, button, status, problems, choose };
 }
@@ -66,7 +91,10 @@ describe('OutlineEditor', () => {
     expect(problems()).toEqual(['The outline must be a GeoJSON Polygon, not a LineString']);
     await text.setValue('{"type":"Polygon","coordinates":[[[11.6,50.97],[11.6004,50.97],[11.6004,50.9703]]]}');
     await (await button('Use this GeoJSON')).click();
-    expect(problems()).toEqual(['The outer ring needs at least 4 positions (3 corners and the first again)', 'The outer ring must end where it starts']);
+    expect(problems()).toEqual([
+      'The outer ring needs at least 4 positions (3 corners and the first again)',
+      'The outer ring must end where it starts',
+    ]);
     await text.setValue('{"type":"Polygon",');
     await (await button('Use this GeoJSON')).click();
     expect(problems()).toEqual(['This is not JSON: check brackets, commas and quotes']);
@@ -88,15 +116,48 @@ describe('OutlineEditor', () => {
 
 describe('outline geometry', () => {
   it('when corners are drawn, then the GeoJSON ring repeats the first position and stores [longitude, latitude]', () => {
-    const outline = toOutline([{ lat: 50.97, lng: 11.6 }, { lat: 50.97, lng: 11.6004 }, { lat: 50.9703, lng: 11.6004 }]);
-    expect(outline).toEqual({ type: 'Polygon', coordinates: [[[11.6, 50.97], [11.6004, 50.97], [11.6004, 50.9703], [11.6, 50.97]]] });
-    expect(toVertices(outline)).toEqual([{ lat: 50.97, lng: 11.6 }, { lat: 50.97, lng: 11.6004 }, { lat: 50.9703, lng: 11.6004 }]);
-    expect(toOutline([{ lat: 1, lng: 2 }, { lat: 3, lng: 4 }])).toBeNull();
+    const outline = toOutline([
+      { lat: 50.97, lng: 11.6 },
+      { lat: 50.97, lng: 11.6004 },
+      { lat: 50.9703, lng: 11.6004 },
+    ]);
+    expect(outline).toEqual({
+      type: 'Polygon',
+      coordinates: [
+        [
+          [11.6, 50.97],
+          [11.6004, 50.97],
+          [11.6004, 50.9703],
+          [11.6, 50.97],
+        ],
+      ],
+    });
+    expect(toVertices(outline)).toEqual([
+      { lat: 50.97, lng: 11.6 },
+      { lat: 50.97, lng: 11.6004 },
+      { lat: 50.9703, lng: 11.6004 },
+    ]);
+    expect(
+      toOutline([
+        { lat: 1, lng: 2 },
+        { lat: 3, lng: 4 },
+      ]),
+    ).toBeNull();
   });
 
   it('when a Feature holds the polygon, then its geometry is used; latitude and longitude swapped past 90° is refused', () => {
     expect(parseOutline(JSON.stringify({ type: 'Feature', properties: {}, geometry: SQUARE })).outline).toEqual(SQUARE);
-    const swapped = { type: 'Polygon', coordinates: [[[50, 120], [50.1, 120], [50.1, 120.1], [50, 120]]] };
+    const swapped = {
+      type: 'Polygon',
+      coordinates: [
+        [
+          [50, 120],
+          [50.1, 120],
+          [50.1, 120.1],
+          [50, 120],
+        ],
+      ],
+    };
     expect(parseOutline(JSON.stringify(swapped)).errors).toEqual([
       'The outer ring has a position outside longitude −180…180 / latitude −90…90 (positions are [longitude, latitude])',
     ]);

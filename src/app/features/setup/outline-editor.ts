@@ -40,7 +40,10 @@ export class OutlineEditor {
   protected readonly collars = signal<MapCollar[]>([]);
   protected readonly minVertices = MIN_VERTICES;
   protected readonly others = computed<MapPlot[]>(() =>
-    this.allPlots().filter((p) => p.id !== this.plotId()).map((p) => ({ code: String(p['code']), vertices: toVertices(p['outline']) })));
+    this.allPlots()
+      .filter((p) => p.id !== this.plotId())
+      .map((p) => ({ code: String(p['code']), vertices: toVertices(p['outline']) })),
+  );
   protected readonly center = computed<Vertex | null>(() => {
     const s = this.site();
     return typeof s?.['latitude'] === 'number' && typeof s['longitude'] === 'number' ? { lat: s['latitude'], lng: s['longitude'] } : null;
@@ -65,8 +68,11 @@ export class OutlineEditor {
   private async loadCollars(siteId: string): Promise<void> {
     try {
       const rows = await this.api.list('collars', { siteId });
-      this.collars.set(rows.filter((c) => typeof c['latitude'] === 'number' && typeof c['longitude'] === 'number')
-        .map((c) => ({ code: String(c['code']), lat: c['latitude'] as number, lng: c['longitude'] as number })));
+      this.collars.set(
+        rows
+          .filter((c) => typeof c['latitude'] === 'number' && typeof c['longitude'] === 'number')
+          .map((c) => ({ code: String(c['code']), lat: c['latitude'] as number, lng: c['longitude'] as number })),
+      );
     } catch {
       this.collars.set([]); // the outline can be drawn without them
     }
@@ -93,11 +99,19 @@ export class OutlineEditor {
     if (!this.plot()) return this.message.set('Choose a plot first');
     if (this.closed()) return this.message.set('The outline is closed: drag a corner to move it, or clear it to start again');
     const v = [...this.vertices(), at];
-    this.changed(v, false, `${v.length} corner${v.length === 1 ? '' : 's'}${v.length < MIN_VERTICES ? '' : '; close the outline when the last one is in'}`);
+    this.changed(
+      v,
+      false,
+      `${v.length} corner${v.length === 1 ? '' : 's'}${v.length < MIN_VERTICES ? '' : '; close the outline when the last one is in'}`,
+    );
   }
 
   protected moveCorner(e: { index: number; to: Vertex }): void {
-    this.changed(this.vertices().map((v, i) => (i === e.index ? e.to : v)), this.closed(), `Corner ${e.index + 1} moved`);
+    this.changed(
+      this.vertices().map((v, i) => (i === e.index ? e.to : v)),
+      this.closed(),
+      `Corner ${e.index + 1} moved`,
+    );
   }
 
   protected close(): void {

@@ -46,7 +46,8 @@ export function parseOutline(text: string): ParsedOutline {
   } catch {
     return { errors: ['This is not JSON: check brackets, commas and quotes'] };
   }
-  const geometry = (json as { type?: unknown; geometry?: unknown } | null)?.type === 'Feature' ? (json as { geometry: unknown }).geometry : json;
+  const geometry =
+    (json as { type?: unknown; geometry?: unknown } | null)?.type === 'Feature' ? (json as { geometry: unknown }).geometry : json;
   const type = (geometry as { type?: unknown } | null)?.type;
   // The schema would also complain about every position of a line; the kind is the one problem to name.
   if (type !== 'Polygon') return { errors: [`The outline must be a GeoJSON Polygon${typeof type === 'string' ? `, not a ${type}` : ''}`] };
@@ -57,7 +58,9 @@ export function parseOutline(text: string): ParsedOutline {
   if (errors.length) return { errors };
   const check = outlineSchema.safeParse(geometry);
   if (!check.success) {
-    return { errors: Object.entries(issuesByField(check.error.issues)).map(([path, msg]) => (path === '(form)' ? msg : `${path}: ${msg}`)) };
+    return {
+      errors: Object.entries(issuesByField(check.error.issues)).map(([path, msg]) => (path === '(form)' ? msg : `${path}: ${msg}`)),
+    };
   }
   return { outline: check.data as Outline };
 }

@@ -7,7 +7,16 @@ describe('OutlineMap', () => {
   it('when a collar or plot code holds HTML, then the map labels show it as literal text and no element is made from it', async () => {
     const fixture = TestBed.createComponent(OutlineMap);
     fixture.componentRef.setInput('collars', [{ code: HOSTILE, lat: 50.97, lng: 11.6 }]);
-    fixture.componentRef.setInput('others', [{ code: `P${HOSTILE}`, vertices: [{ lat: 50.97, lng: 11.6 }, { lat: 50.97, lng: 11.601 }, { lat: 50.971, lng: 11.601 }] }]);
+    fixture.componentRef.setInput('others', [
+      {
+        code: `P${HOSTILE}`,
+        vertices: [
+          { lat: 50.97, lng: 11.6 },
+          { lat: 50.97, lng: 11.601 },
+          { lat: 50.971, lng: 11.601 },
+        ],
+      },
+    ]);
     fixture.componentRef.setInput('tileUrl', 'http://tiles.invalid/{z}/{x}/{y}.png');
     fixture.componentRef.setInput('tileAttribution', `© ${HOSTILE}`);
     fixture.detectChanges();

@@ -1,4 +1,16 @@
-import { ChangeDetectionStrategy, Component, DestroyRef, ElementRef, NgZone, afterNextRender, effect, inject, input, output, viewChild } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  DestroyRef,
+  ElementRef,
+  NgZone,
+  afterNextRender,
+  effect,
+  inject,
+  input,
+  output,
+  viewChild,
+} from '@angular/core';
 import * as L from 'leaflet';
 import { escapeHtml, mapText } from '../../core/map/map-text';
 import type { Vertex } from './outline-geometry';
@@ -23,9 +35,27 @@ export interface MapPlot {
   selector: 'fw-outline-map',
   template: `<div #map class="map" role="region" [attr.aria-label]="label()" data-testid="outline-map"></div>`,
   styles: `
-    .map { height: 420px; border: 1px solid var(--mat-sys-outline); border-radius: 8px; background: #f4f1ea; cursor: crosshair; }
-    :host ::ng-deep .fw-corner { background: #fff; border: 2px solid #7a2e00; border-radius: 50%; }
-    :host ::ng-deep .fw-collar-label { background: #fff; border: 1px solid #555; border-radius: 3px; padding: 0 2px; font-size: 11px; color: #111; white-space: nowrap; }
+    .map {
+      height: 420px;
+      border: 1px solid var(--mat-sys-outline);
+      border-radius: 8px;
+      background: #f4f1ea;
+      cursor: crosshair;
+    }
+    :host ::ng-deep .fw-corner {
+      background: #fff;
+      border: 2px solid #7a2e00;
+      border-radius: 50%;
+    }
+    :host ::ng-deep .fw-collar-label {
+      background: #fff;
+      border: 1px solid #555;
+      border-radius: 3px;
+      padding: 0 2px;
+      font-size: 11px;
+      color: #111;
+      white-space: nowrap;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -51,7 +81,9 @@ export class OutlineMap {
   constructor() {
     inject(DestroyRef).onDestroy(() => this.map?.remove());
     afterNextRender(() => {
-      this.map = this.zone.runOutsideAngular(() => L.map(this.host().nativeElement, { zoomControl: true, attributionControl: true, doubleClickZoom: false }));
+      this.map = this.zone.runOutsideAngular(() =>
+        L.map(this.host().nativeElement, { zoomControl: true, attributionControl: true, doubleClickZoom: false }),
+      );
       this.map.setView([0, 0], 2);
       Object.values(this.layers).forEach((l) => l.addTo(this.map!));
       this.map.on('click', (e: L.LeafletMouseEvent) => this.zone.run(() => this.mapClick.emit({ lat: e.latlng.lat, lng: e.latlng.lng })));
@@ -64,7 +96,13 @@ export class OutlineMap {
 
   /** Tiles (only when the site names a source), other plots and collars; the view fits them once per site layout. */
   private drawContext(): void {
-    const [others, collars, url, attribution, center] = [this.others(), this.collars(), this.tileUrl(), this.tileAttribution(), this.center()];
+    const [others, collars, url, attribution, center] = [
+      this.others(),
+      this.collars(),
+      this.tileUrl(),
+      this.tileAttribution(),
+      this.center(),
+    ];
     const map = this.map;
     if (!map) return;
     this.tiles?.remove();
@@ -73,11 +111,13 @@ export class OutlineMap {
     for (const p of others) {
       if (p.vertices.length < 3) continue;
       L.polygon(p.vertices, { color: '#33415c', weight: 2, dashArray: '6 4', fill: false, interactive: false })
-        .bindTooltip(mapText(p.code), { permanent: true, direction: 'center', className: 'fw-collar-label' }).addTo(this.layers.context);
+        .bindTooltip(mapText(p.code), { permanent: true, direction: 'center', className: 'fw-collar-label' })
+        .addTo(this.layers.context);
     }
     for (const c of collars) {
       L.circleMarker([c.lat, c.lng], { radius: 4, color: '#111', weight: 1, fillColor: '#fff', fillOpacity: 1, interactive: false })
-        .bindTooltip(mapText(c.code), { permanent: true, direction: 'right', offset: [4, 0], className: 'fw-collar-label' }).addTo(this.layers.context);
+        .bindTooltip(mapText(c.code), { permanent: true, direction: 'right', offset: [4, 0], className: 'fw-collar-label' })
+        .addTo(this.layers.context);
     }
     const points: L.LatLngExpression[] = [...collars.map((c) => [c.lat, c.lng] as L.LatLngTuple), ...others.flatMap((p) => p.vertices)];
     const key = JSON.stringify([points.length, center]);
@@ -98,7 +138,9 @@ export class OutlineMap {
     else if (vertices.length > 1) L.polyline(vertices, { ...style, dashArray: '4 4', interactive: false }).addTo(this.layers.shape);
     vertices.forEach((v, index) => {
       const handle = L.marker(v, {
-        draggable: true, keyboard: false, title: `Corner ${index + 1}`,
+        draggable: true,
+        keyboard: false,
+        title: `Corner ${index + 1}`,
         icon: L.divIcon({ className: 'fw-corner', iconSize: [12, 12] }),
       });
       handle.on('dragend', () => {

@@ -17,8 +17,11 @@ const columns: ColumnDef[] = [
 ];
 // 30 plots named out of order: P01…P30, with areas that sort differently from the codes.
 const plots = Array.from({ length: 30 }, (_, i) => ({
-  id: `00000000-0000-4000-8000-${String(i + 1).padStart(12, '0')}`, rev: 1, siteId: SITE,
-  code: `P${String(((i * 7) % 30) + 1).padStart(2, '0')}`, areaM2: (i * 13) % 30,
+  id: `00000000-0000-4000-8000-${String(i + 1).padStart(12, '0')}`,
+  rev: 1,
+  siteId: SITE,
+  code: `P${String(((i * 7) % 30) + 1).padStart(2, '0')}`,
+  areaM2: (i * 13) % 30,
 }));
 
 async function table() {

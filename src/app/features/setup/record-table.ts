@@ -19,7 +19,16 @@ import { issuesByField, toFields, type ColumnDef } from './record-fields';
  */
 @Component({
   selector: 'fw-record-table',
-  imports: [MatTableModule, MatSortModule, MatPaginatorModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatButtonModule, MatIconModule],
+  imports: [
+    MatTableModule,
+    MatSortModule,
+    MatPaginatorModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatSelectModule,
+    MatButtonModule,
+    MatIconModule,
+  ],
   templateUrl: './record-table.html',
   styleUrl: './record-table.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -57,7 +66,7 @@ export class RecordTable {
     this.data.filterPredicate = (r, f) => this.columns().some((c) => this.display(r, c).toLowerCase().includes(f));
     this.data.sortingDataAccessor = (r, key) => {
       const c = this.columns().find((x) => x.key === key);
-      return c?.kind === 'number' ? Number(r[key] ?? -Infinity) : (c ? this.display(r, c).toLowerCase() : '');
+      return c?.kind === 'number' ? Number(r[key] ?? -Infinity) : c ? this.display(r, c).toLowerCase() : '';
     };
   }
 
@@ -86,7 +95,9 @@ export class RecordTable {
   protected startEdit(r: Rec): void {
     this.editingId.set(r.id);
     this.errors.set({});
-    this.draft.set(Object.fromEntries(this.columns().map((c) => [c.key, r[c.key] === null || r[c.key] === undefined ? '' : String(r[c.key])])));
+    this.draft.set(
+      Object.fromEntries(this.columns().map((c) => [c.key, r[c.key] === null || r[c.key] === undefined ? '' : String(r[c.key])])),
+    );
   }
 
   protected setDraft(which: 'edit' | 'add', key: string, value: string): void {

@@ -77,7 +77,9 @@ export class SetupApi {
       params['digits'] = String(options.digits);
     }
     try {
-      const res = await firstValueFrom(this.http.get(`/api/sites/${siteId}/blank-collar-tags.pdf`, { params, responseType: 'blob', observe: 'response' }));
+      const res = await firstValueFrom(
+        this.http.get(`/api/sites/${siteId}/blank-collar-tags.pdf`, { params, responseType: 'blob', observe: 'response' }),
+      );
       const fileName = /filename="([^"]+)"/.exec(res.headers.get('Content-Disposition') ?? '')?.[1] ?? 'new-collar-tags.pdf';
       return { pdf: res.body!, fileName, count: Number(res.headers.get('X-Tag-Count')) };
     } catch (err) {
@@ -90,12 +92,18 @@ export class SetupApi {
   }
 
   recomputePreview(siteId: string, validFrom: string): Promise<{ closures: number; lockedKept: number; until: string | null }> {
-    return firstValueFrom(this.http.post<{ closures: number; lockedKept: number; until: string | null }>(
-      `/api/sites/${siteId}/chamber-profiles/recompute-preview`, { validFrom }));
+    return firstValueFrom(
+      this.http.post<{ closures: number; lockedKept: number; until: string | null }>(
+        `/api/sites/${siteId}/chamber-profiles/recompute-preview`,
+        { validFrom },
+      ),
+    );
   }
 
   addProfileVersion(id: string, fields: Record<string, unknown>): Promise<{ record: Rec; recomputed: number; lockedKept: number }> {
-    return firstValueFrom(this.http.post<{ record: Rec; recomputed: number; lockedKept: number }>(`/api/chamber-profiles/${id}/versions`, fields));
+    return firstValueFrom(
+      this.http.post<{ record: Rec; recomputed: number; lockedKept: number }>(`/api/chamber-profiles/${id}/versions`, fields),
+    );
   }
 
   async users(): Promise<UserRow[]> {
@@ -121,7 +129,13 @@ async function withJsonError(err: unknown): Promise<unknown> {
   if (!(err instanceof HttpErrorResponse) || !(err.error instanceof Blob)) return err;
   try {
     const body = JSON.parse(await err.error.text());
-    return new HttpErrorResponse({ error: body, headers: err.headers, status: err.status, statusText: err.statusText, url: err.url ?? undefined });
+    return new HttpErrorResponse({
+      error: body,
+      headers: err.headers,
+      status: err.status,
+      statusText: err.statusText,
+      url: err.url ?? undefined,
+    });
   } catch {
     return err;
   }

@@ -22,8 +22,22 @@ import { SiteForm } from './site-form';
 /** Sites, their layout, people, equipment, routes and collars — for admins (all) and leads (routes, collars, tags). */
 @Component({
   selector: 'fw-setup',
-  imports: [BlankTags, MatTabsModule, MatFormFieldModule, MatSelectModule, MatButtonModule, SiteForm, RecordTable, Members, ProfileVersion,
-    CollarImport, CollarList, RouteEditor, OutlineEditor, AnalyzerChecks],
+  imports: [
+    BlankTags,
+    MatTabsModule,
+    MatFormFieldModule,
+    MatSelectModule,
+    MatButtonModule,
+    SiteForm,
+    RecordTable,
+    Members,
+    ProfileVersion,
+    CollarImport,
+    CollarList,
+    RouteEditor,
+    OutlineEditor,
+    AnalyzerChecks,
+  ],
   templateUrl: './setup.html',
   styleUrl: './setup.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -53,12 +67,25 @@ export class Setup {
   protected readonly treatmentColumns: ColumnDef[] = [
     { key: 'code', label: 'Treatment code', kind: 'text' },
     { key: 'name', label: 'Name', kind: 'text' },
-    { key: 'level', label: 'Applied to', kind: 'select', options: () => [{ value: 'plot', label: 'Whole plots' }, { value: 'collar', label: 'Single collars' }] },
+    {
+      key: 'level',
+      label: 'Applied to',
+      kind: 'select',
+      options: () => [
+        { value: 'plot', label: 'Whole plots' },
+        { value: 'collar', label: 'Single collars' },
+      ],
+    },
   ];
   protected readonly plotColumns: ColumnDef[] = [
     { key: 'code', label: 'Plot code', kind: 'text' },
     { key: 'blockId', label: 'Block', kind: 'select', options: () => this.optionsOf(this.blocks()) },
-    { key: 'treatmentId', label: 'Treatment', kind: 'select', options: () => this.optionsOf(this.treatments().filter((t) => t['level'] === 'plot')) },
+    {
+      key: 'treatmentId',
+      label: 'Treatment',
+      kind: 'select',
+      options: () => this.optionsOf(this.treatments().filter((t) => t['level'] === 'plot')),
+    },
   ];
   protected readonly profileColumns: ColumnDef[] = [
     { key: 'name', label: 'Profile name', kind: 'text' },
@@ -101,7 +128,8 @@ export class Setup {
   /** Lists the plot, profile, outline and check views choose from; each table loads its own rows as well. */
   protected async loadLayout(siteId: string): Promise<void> {
     const [blocks, treatments, plots, profiles, analyzers] = await Promise.all(
-      ['blocks', 'treatments', 'plots', 'chamber-profiles', 'analyzers'].map((p) => this.api.list(p, { siteId }).catch(() => [] as Rec[])));
+      ['blocks', 'treatments', 'plots', 'chamber-profiles', 'analyzers'].map((p) => this.api.list(p, { siteId }).catch(() => [] as Rec[])),
+    );
     this.blocks.set(blocks!);
     this.treatments.set(treatments!);
     this.plots.set(plots!);
@@ -116,7 +144,9 @@ export class Setup {
   }
 
   protected async siteSaved(rec: Rec): Promise<void> {
-    this.sites.update((all) => [...all.filter((s) => s.id !== rec.id), rec].sort((a, b) => String(a['name']).localeCompare(String(b['name']))));
+    this.sites.update((all) =>
+      [...all.filter((s) => s.id !== rec.id), rec].sort((a, b) => String(a['name']).localeCompare(String(b['name']))),
+    );
     this.creating.set(false);
     this.siteId.set(rec.id);
     await this.auth.refresh(); // the user menu's site list

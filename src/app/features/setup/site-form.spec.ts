@@ -6,10 +6,26 @@ import { MatSelectHarness } from '@angular/material/select/testing';
 import { SiteForm } from './site-form';
 
 const SITE = {
-  id: '0b5e7d2c-1111-4a4a-8a8a-000000000001', rev: 3, name: 'Alder test', timezone: 'Europe/Berlin', elevationM: 300,
-  latitude: null, longitude: null, safetyNote: '', moistureCalibration: { kind: 'topp' }, tempDepthCm: 5, settlingDaysHard: 1,
-  settlingDaysWarn: 7, offsetSpreadPct: 3, offsetMoveCm: 1, leakSlopeUmolMolS: 0.05, ambientMarginPpm: 100, defaultAirTempC: 15, digestLocalTime: '18:00',
-  tileUrl: null, tileAttribution: null,
+  id: '0b5e7d2c-1111-4a4a-8a8a-000000000001',
+  rev: 3,
+  name: 'Alder test',
+  timezone: 'Europe/Berlin',
+  elevationM: 300,
+  latitude: null,
+  longitude: null,
+  safetyNote: '',
+  moistureCalibration: { kind: 'topp' },
+  tempDepthCm: 5,
+  settlingDaysHard: 1,
+  settlingDaysWarn: 7,
+  offsetSpreadPct: 3,
+  offsetMoveCm: 1,
+  leakSlopeUmolMolS: 0.05,
+  ambientMarginPpm: 100,
+  defaultAirTempC: 15,
+  digestLocalTime: '18:00',
+  tileUrl: null,
+  tileAttribution: null,
 };
 
 async function formOf(site: Record<string, unknown>) {
@@ -43,7 +59,8 @@ describe('SiteForm: slope basis', () => {
 });
 
 describe('SiteForm: soil temperature depth tolerance', () => {
-  const field = (el: HTMLElement) => [...el.querySelectorAll('mat-form-field')].find((f) => f.textContent?.includes('Soil temperature depth tolerance'))!;
+  const field = (el: HTMLElement) =>
+    [...el.querySelectorAll('mat-form-field')].find((f) => f.textContent?.includes('Soil temperature depth tolerance'))!;
 
   it('when a site has none stored, then ±1 cm is shown beside the depth with its hint; typing 2 sends tempDepthToleranceCm 2', async () => {
     const { fixture, backend } = await formOf(SITE);

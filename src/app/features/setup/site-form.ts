@@ -13,8 +13,21 @@ import { SetupApi, type Rec } from './setup-api';
 
 type Draft = Partial<Record<string, string>>;
 
-const NUMBER_FIELDS = ['elevationM', 'latitude', 'longitude', 'tempDepthCm', 'tempDepthToleranceCm', 'settlingDaysHard', 'settlingDaysWarn', 'offsetSpreadPct',
-  'offsetMoveCm', 'leakSlopeUmolMolS', 'ambientMarginPpm', 'calibrationDriftLimitPct', 'defaultAirTempC'] as const;
+const NUMBER_FIELDS = [
+  'elevationM',
+  'latitude',
+  'longitude',
+  'tempDepthCm',
+  'tempDepthToleranceCm',
+  'settlingDaysHard',
+  'settlingDaysWarn',
+  'offsetSpreadPct',
+  'offsetMoveCm',
+  'leakSlopeUmolMolS',
+  'ambientMarginPpm',
+  'calibrationDriftLimitPct',
+  'defaultAirTempC',
+] as const;
 const NULLABLE = new Set(['elevationM', 'latitude', 'longitude', 'tileUrl', 'tileAttribution']);
 
 /** Thresholds of the site, with the unit each is entered in and, where it helps, what it does. */
@@ -28,8 +41,12 @@ export const THRESHOLDS: readonly { key: (typeof NUMBER_FIELDS)[number]; label: 
   { key: 'calibrationDriftLimitPct', label: 'Calibration drift limit (of the span gas)', unit: '%' },
   { key: 'defaultAirTempC', label: 'Default air temperature (no chamber or visit reading)', unit: '°C' },
   { key: 'tempDepthCm', label: 'Soil temperature depth for responses', unit: 'cm' },
-  { key: 'tempDepthToleranceCm', label: 'Soil temperature depth tolerance (±)', unit: 'cm',
-    hint: 'A temperature further from the depth above is flagged off-depth, kept and left out of the visit mean (0–10 cm).' },
+  {
+    key: 'tempDepthToleranceCm',
+    label: 'Soil temperature depth tolerance (±)',
+    unit: 'cm',
+    hint: 'A temperature further from the depth above is flagged off-depth, kept and left out of the visit mean (0–10 cm).',
+  },
 ];
 
 /** Creates or edits a site; checked with the shared site schema before it is sent. */
@@ -92,32 +109,65 @@ export class SiteForm {
 function toDraft(site: Rec | null): Draft {
   const s = (site ?? {}) as Record<string, unknown>;
   const str = (v: unknown, d = '') => (v === null || v === undefined ? d : String(v));
-  const cal = (s['moistureCalibration'] ?? { kind: 'topp' }) as { kind: string; coefficients?: number[]; validMin?: number | null; validMax?: number | null };
+  const cal = (s['moistureCalibration'] ?? { kind: 'topp' }) as {
+    kind: string;
+    coefficients?: number[];
+    validMin?: number | null;
+    validMax?: number | null;
+  };
   return {
-    name: str(s['name']), timezone: str(s['timezone'], Intl.DateTimeFormat().resolvedOptions().timeZone),
-    elevationM: str(s['elevationM']), latitude: str(s['latitude']), longitude: str(s['longitude']), safetyNote: str(s['safetyNote']),
-    calibration: cal.kind, coefficients: (cal.coefficients ?? []).join(', '), validMin: str(cal.validMin), validMax: str(cal.validMax),
+    name: str(s['name']),
+    timezone: str(s['timezone'], Intl.DateTimeFormat().resolvedOptions().timeZone),
+    elevationM: str(s['elevationM']),
+    latitude: str(s['latitude']),
+    longitude: str(s['longitude']),
+    safetyNote: str(s['safetyNote']),
+    calibration: cal.kind,
+    coefficients: (cal.coefficients ?? []).join(', '),
+    validMin: str(cal.validMin),
+    validMax: str(cal.validMax),
     tempDepthCm: str(s['tempDepthCm'], '5'),
-    tempDepthToleranceCm: str(s['tempDepthToleranceCm'], String(siteProbeDepth.parse({}).tempDepthToleranceCm)), settlingDaysHard: str(s['settlingDaysHard'], '1'), settlingDaysWarn: str(s['settlingDaysWarn'], '7'),
-    offsetSpreadPct: str(s['offsetSpreadPct'], '3'), offsetMoveCm: str(s['offsetMoveCm'], '1'), leakSlopeUmolMolS: str(s['leakSlopeUmolMolS'], '0.05'),
-    ambientMarginPpm: str(s['ambientMarginPpm'], '100'), slopeBasis: str(s['slopeBasis'], 'closure'),
-    calibrationDriftLimitPct: str(s['calibrationDriftLimitPct'], String(DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT)), digestLocalTime: str(s['digestLocalTime'], '18:00'),
+    tempDepthToleranceCm: str(s['tempDepthToleranceCm'], String(siteProbeDepth.parse({}).tempDepthToleranceCm)),
+    settlingDaysHard: str(s['settlingDaysHard'], '1'),
+    settlingDaysWarn: str(s['settlingDaysWarn'], '7'),
+    offsetSpreadPct: str(s['offsetSpreadPct'], '3'),
+    offsetMoveCm: str(s['offsetMoveCm'], '1'),
+    leakSlopeUmolMolS: str(s['leakSlopeUmolMolS'], '0.05'),
+    ambientMarginPpm: str(s['ambientMarginPpm'], '100'),
+    slopeBasis: str(s['slopeBasis'], 'closure'),
+    calibrationDriftLimitPct: str(s['calibrationDriftLimitPct'], String(DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT)),
+    digestLocalTime: str(s['digestLocalTime'], '18:00'),
     defaultAirTempC: str(s['defaultAirTempC'], String(DEFAULT_SITE_AIR_TEMP_C)),
-    tileUrl: str(s['tileUrl']), tileAttribution: str(s['tileAttribution']),
+    tileUrl: str(s['tileUrl']),
+    tileAttribution: str(s['tileAttribution']),
   };
 }
 
 function fromDraft(d: Draft): Record<string, unknown> {
-  const out: Record<string, unknown> = { name: d['name'] ?? '', timezone: d['timezone'] ?? '', safetyNote: d['safetyNote'] ?? '',
-    digestLocalTime: d['digestLocalTime'] ?? '', slopeBasis: d['slopeBasis'] || 'closure' };
+  const out: Record<string, unknown> = {
+    name: d['name'] ?? '',
+    timezone: d['timezone'] ?? '',
+    safetyNote: d['safetyNote'] ?? '',
+    digestLocalTime: d['digestLocalTime'] ?? '',
+    slopeBasis: d['slopeBasis'] || 'closure',
+  };
   for (const k of NUMBER_FIELDS) {
     const raw = (d[k] ?? '').trim();
     out[k] = raw === '' ? (NULLABLE.has(k) ? null : undefined) : Number(raw);
   }
   for (const k of ['tileUrl', 'tileAttribution']) out[k] = (d[k] ?? '').trim() === '' ? null : d[k];
   const num = (s: string | undefined) => ((s ?? '').trim() === '' ? null : Number(s));
-  out['moistureCalibration'] = d['calibration'] === 'polynomial'
-    ? { kind: 'polynomial', coefficients: (d['coefficients'] ?? '').split(/[,;\s]+/).filter(Boolean).map(Number), validMin: num(d['validMin']), validMax: num(d['validMax']) }
-    : { kind: 'topp' };
+  out['moistureCalibration'] =
+    d['calibration'] === 'polynomial'
+      ? {
+          kind: 'polynomial',
+          coefficients: (d['coefficients'] ?? '')
+            .split(/[,;\s]+/)
+            .filter(Boolean)
+            .map(Number),
+          validMin: num(d['validMin']),
+          validMax: num(d['validMax']),
+        }
+      : { kind: 'topp' };
   return out;
 }

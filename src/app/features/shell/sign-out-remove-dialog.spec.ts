@@ -13,15 +13,37 @@ import { BackupDownload } from '../../core/sync/backup-download';
 import { SyncEngine } from '../../core/sync/sync-engine';
 import { UserMenu } from './user-menu';
 
-const OP = { opId: 'op-1', entity: 'collar', id: 'c-1', baseRev: null, op: 'upsert', fields: { code: 'A1' }, base: {}, sentAt: null, createdAt: 'now', updatedAt: 'now' } as const;
+const OP = {
+  opId: 'op-1',
+  entity: 'collar',
+  id: 'c-1',
+  baseRev: null,
+  op: 'upsert',
+  fields: { code: 'A1' },
+  base: {},
+  sentAt: null,
+  createdAt: 'now',
+  updatedAt: 'now',
+} as const;
 const REMOVE = /Sign out and remove this device's data/;
 
 async function menuOnDevice(queued: number) {
   // The fake engine empties the outbox of the device it is given to, which exists only after sign-in.
   const signedIn: { db?: FluxDb } = {};
-  const engine = { syncNow: jest.fn(async () => { await signedIn.db!.outbox.clear(); }), pending: () => 0, rejected: () => 0, conflicts: () => 0 };
+  const engine = {
+    syncNow: jest.fn(async () => {
+      await signedIn.db!.outbox.clear();
+    }),
+    pending: () => 0,
+    rejected: () => 0,
+    conflicts: () => 0,
+  };
   const backup = { save: jest.fn(async () => 'fluxwalk-backup-crew.json') };
-  const device = await signedInDevice([provideRouter([]), { provide: SyncEngine, useValue: engine }, { provide: BackupDownload, useValue: backup }]);
+  const device = await signedInDevice([
+    provideRouter([]),
+    { provide: SyncEngine, useValue: engine },
+    { provide: BackupDownload, useValue: backup },
+  ]);
   const db = (signedIn.db = device.db);
   for (let i = 0; i < queued; i++) await db.outbox.add({ ...OP, opId: `op-${i}`, id: `c-${i}` });
   localStorage.setItem(`fw.board.${device.userId}.progress.c1.all`, '{}');
@@ -30,11 +52,12 @@ async function menuOnDevice(queued: number) {
   const loader = TestbedHarnessEnvironment.documentRootLoader(fixture);
   const menu = await TestbedHarnessEnvironment.loader(fixture).getHarness(MatMenuHarness);
   await menu.open();
-  const answerLogout = () => until(() => {
-    const backend = TestBed.inject(HttpTestingController);
-    backend.match('/api/auth/csrf').forEach((r) => r.flush({ token: 't' }));
-    return backend.match('/api/auth/logout').map((r) => r.flush(null, { status: 204, statusText: 'No Content' })).length;
-  }, 'the logout');
+  const answerLogout = () =>
+    until(() => {
+      const backend = TestBed.inject(HttpTestingController);
+      backend.match('/api/auth/csrf').forEach((r) => r.flush({ token: 't' }));
+      return backend.match('/api/auth/logout').map((r) => r.flush(null, { status: 204, statusText: 'No Content' })).length;
+    }, 'the logout');
   const dbExists = () => Dexie.exists(dbNameFor(device.userId));
   return { ...device, engine, backup, navigate, loader, menu, answerLogout, dbExists };
 }
@@ -42,7 +65,7 @@ async function menuOnDevice(queued: number) {
 const dialogButton = (loader: ReturnType<typeof TestbedHarnessEnvironment.documentRootLoader>, text: RegExp) =>
   loader.getHarness(MatButtonHarness.with({ ancestor: 'mat-dialog-container', text }));
 
-describe('Sign out and remove this device\'s data', () => {
+describe("Sign out and remove this device's data", () => {
   beforeEach(() => localStorage.clear());
 
   it('when nothing waits to be synced, then the user is signed out and their database and Board copies are removed', async () => {

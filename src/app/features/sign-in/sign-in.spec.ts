@@ -47,7 +47,11 @@ describe('SignIn', () => {
     backend.expectOne('/api/sites').flush({ items: TEST_SITES, total: 2 });
     await tick();
     await tick();
-    expect(TestBed.inject(AuthStore).sites().map((s) => s.name)).toEqual(['Hollow Creek Meadow', 'Ridge Pine Plots']);
+    expect(
+      TestBed.inject(AuthStore)
+        .sites()
+        .map((s) => s.name),
+    ).toEqual(['Hollow Creek Meadow', 'Ridge Pine Plots']);
     expect(JSON.parse(localStorage.getItem('fw.session')!).user.email).toBe('lab@fluxwalk.example');
     expect(navigate).toHaveBeenCalledWith('/bench');
   });
@@ -65,7 +69,9 @@ describe('SignIn', () => {
       { error: { message: 'Too many attempts' } },
       { status: 429, statusText: 'Too Many Requests', headers: { 'Retry-After': '600' } },
     );
-    expect(await alertText()).toContain('Too many failed sign-in attempts with this e-mail. To protect the account, signing in is paused — try again in 10 minutes.');
+    expect(await alertText()).toContain(
+      'Too many failed sign-in attempts with this e-mail. To protect the account, signing in is paused — try again in 10 minutes.',
+    );
   });
 
   it('when the account is disabled, then the user is told so', async () => {

@@ -7,12 +7,39 @@ export type LogMode = 'replace' | 'append';
 
 /** The body of POST /api/results/temperature-logs/import. */
 export interface TemperatureLogRequest {
-  siteId: string; plotIds: string[]; depthCm: number; source: string; text: string;
-  timeColumn: string; tempColumn: string; timeZone: string; timeFormat?: TimestampFormat; mode: LogMode; dryRun: boolean;
+  siteId: string;
+  plotIds: string[];
+  depthCm: number;
+  source: string;
+  text: string;
+  timeColumn: string;
+  tempColumn: string;
+  timeZone: string;
+  timeFormat?: TimestampFormat;
+  mode: LogMode;
+  dryRun: boolean;
 }
-export interface PlotOutcome { plotId: string; logId: string | null; samples: number; skipped: number; replacedSamples: number; touchedLogs: string[] }
-export interface TemperatureLogOutcome { id: string | null; mode: LogMode; dryRun: boolean; samples: number; from: string | null; to: string | null; plots: PlotOutcome[] }
-export interface PlotChoice { id: string; code: string }
+export interface PlotOutcome {
+  plotId: string;
+  logId: string | null;
+  samples: number;
+  skipped: number;
+  replacedSamples: number;
+  touchedLogs: string[];
+}
+export interface TemperatureLogOutcome {
+  id: string | null;
+  mode: LogMode;
+  dryRun: boolean;
+  samples: number;
+  from: string | null;
+  to: string | null;
+  plots: PlotOutcome[];
+}
+export interface PlotChoice {
+  id: string;
+  code: string;
+}
 
 @Injectable({ providedIn: 'root' })
 export class TemperatureLogApi {

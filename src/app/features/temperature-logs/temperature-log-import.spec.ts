@@ -13,15 +13,34 @@ import { TemperatureLogApi } from './temperature-log-api';
 import { TemperatureLogImport } from './temperature-log-import';
 
 const SITE = { id: 'site-1', name: 'Hainich', timezone: 'Europe/Berlin' };
-const PLOTS = [{ id: 'p-1', code: 'A1' }, { id: 'p-2', code: 'A2' }, { id: 'p-3', code: 'B1' }];
+const PLOTS = [
+  { id: 'p-1', code: 'A1' },
+  { id: 'p-2', code: 'A2' },
+  { id: 'p-3', code: 'B1' },
+];
 
 async function setup() {
-  const importLog = jest.fn().mockResolvedValue({ id: 'log-1', mode: 'replace', dryRun: false, samples: 3, from: null, to: null,
-    plots: [{ plotId: 'p-1', logId: 'log-1', samples: 3, skipped: 0, replacedSamples: 2, touchedLogs: [] }, { plotId: 'p-3', logId: 'log-2', samples: 3, skipped: 0, replacedSamples: 0, touchedLogs: [] }] });
+  const importLog = jest.fn().mockResolvedValue({
+    id: 'log-1',
+    mode: 'replace',
+    dryRun: false,
+    samples: 3,
+    from: null,
+    to: null,
+    plots: [
+      { plotId: 'p-1', logId: 'log-1', samples: 3, skipped: 0, replacedSamples: 2, touchedLogs: [] },
+      { plotId: 'p-3', logId: 'log-2', samples: 3, skipped: 0, replacedSamples: 0, touchedLogs: [] },
+    ],
+  });
   TestBed.configureTestingModule({
     imports: [TemperatureLogImport],
-    providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([]),
-      { provide: SiteChoice, useValue: { current: signal(SITE) } }, { provide: TemperatureLogApi, useValue: { importLog } }],
+    providers: [
+      provideHttpClient(),
+      provideHttpClientTesting(),
+      provideRouter([]),
+      { provide: SiteChoice, useValue: { current: signal(SITE) } },
+      { provide: TemperatureLogApi, useValue: { importLog } },
+    ],
   });
   const fixture = TestBed.createComponent(TemperatureLogImport);
   fixture.detectChanges();
@@ -29,7 +48,13 @@ async function setup() {
   await fixture.whenStable();
   const loader = TestbedHarnessEnvironment.loader(fixture);
   const el = fixture.nativeElement as HTMLElement;
-  return { fixture, loader, el, importLog, component: fixture.componentInstance as unknown as { useText(n: string, t: string): Promise<void> } };
+  return {
+    fixture,
+    loader,
+    el,
+    importLog,
+    component: fixture.componentInstance as unknown as { useText(n: string, t: string): Promise<void> },
+  };
 }
 
 describe('TemperatureLogImport', () => {
@@ -70,8 +95,19 @@ describe('TemperatureLogImport', () => {
     expect(await send.isDisabled()).toBe(false);
     await send.click();
     await fixture.whenStable();
-    expect(importLog).toHaveBeenCalledWith({ siteId: 'site-1', plotIds: ['p-1', 'p-3'], depthCm: 10, source: 'logger-7.txt', text, timeColumn: 'Zeit',
-      tempColumn: 'T soil', timeZone: 'Europe/Berlin', timeFormat: undefined, mode: 'replace', dryRun: false });
+    expect(importLog).toHaveBeenCalledWith({
+      siteId: 'site-1',
+      plotIds: ['p-1', 'p-3'],
+      depthCm: 10,
+      source: 'logger-7.txt',
+      text,
+      timeColumn: 'Zeit',
+      tempColumn: 'T soil',
+      timeZone: 'Europe/Berlin',
+      timeFormat: undefined,
+      mode: 'replace',
+      dryRun: false,
+    });
     fixture.detectChanges();
     const outcome = el.querySelector('[data-testid="outcome"]')!.textContent!;
     expect(outcome).toContain('Plot A1: 3');

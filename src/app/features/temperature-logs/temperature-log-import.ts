@@ -10,7 +10,12 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
 import { RouterLink } from '@angular/router';
 import {
-  guessLayout, readTemperatureSeries, temperatureColumns, TIMESTAMP_FORMATS, type TextLayout, type TimestampFormat,
+  guessLayout,
+  readTemperatureSeries,
+  temperatureColumns,
+  TIMESTAMP_FORMATS,
+  type TextLayout,
+  type TimestampFormat,
 } from '../../../../shared/logger';
 import { serverMessage } from '../../core/api/api-error';
 import { SiteChoice } from '../../core/auth/site-choice';
@@ -28,7 +33,17 @@ const TIME_HEADER = /time|date|zeit|datum|stamp/i;
  */
 @Component({
   selector: 'fw-temperature-log-import',
-  imports: [ReactiveFormsModule, RouterLink, SiteTimePipe, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatInputModule, MatProgressBarModule, MatSelectModule],
+  imports: [
+    ReactiveFormsModule,
+    RouterLink,
+    SiteTimePipe,
+    MatButtonModule,
+    MatButtonToggleModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatProgressBarModule,
+    MatSelectModule,
+  ],
   templateUrl: './temperature-log-import.html',
   styleUrl: './temperature-log-import.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -67,8 +82,13 @@ export class TemperatureLogImport {
     const text = this.text();
     const v = this.values();
     if (!text || !v.timeColumn || !v.tempColumn) return null;
-    return readTemperatureSeries({ text, timeColumn: v.timeColumn, tempColumn: v.tempColumn, timeZone: this.zone(),
-      timeFormat: v.timeFormat === 'auto' ? undefined : v.timeFormat });
+    return readTemperatureSeries({
+      text,
+      timeColumn: v.timeColumn,
+      tempColumn: v.tempColumn,
+      timeZone: this.zone(),
+      timeFormat: v.timeFormat === 'auto' ? undefined : v.timeFormat,
+    });
   });
   protected readonly canSend = computed(() => {
     const p = this.preview();
@@ -84,7 +104,9 @@ export class TemperatureLogImport {
     this.problem.set('');
     this.outcome.set(null);
     if (f.size > MAX_BYTES) {
-      this.problem.set(`${f.name} has ${(f.size / 1_000_000).toFixed(1)} MB; temperature files are limited to 0.9 MB (split the season into several files)`);
+      this.problem.set(
+        `${f.name} has ${(f.size / 1_000_000).toFixed(1)} MB; temperature files are limited to 0.9 MB (split the season into several files)`,
+      );
       return;
     }
     await this.useText(f.name, await f.text());
@@ -96,7 +118,9 @@ export class TemperatureLogImport {
     this.layout.set(layout);
     this.fileName.set(name);
     const time = layout.headers.find((h) => TIME_HEADER.test(h)) ?? layout.headers[0] ?? '';
-    const temps = temperatureColumns(text, layout).map((c) => c.header).filter((h) => h !== time);
+    const temps = temperatureColumns(text, layout)
+      .map((c) => c.header)
+      .filter((h) => h !== time);
     const temp = temps[0] ?? layout.headers.find((h) => h !== time) ?? '';
     this.form.patchValue({ timeColumn: time, tempColumn: temp, source: this.form.controls.source.value || name });
     this.text.set(text);
@@ -109,10 +133,21 @@ export class TemperatureLogImport {
     this.busy.set(true);
     this.problem.set('');
     try {
-      this.outcome.set(await this.api.importLog({
-        siteId: s.id, plotIds: v.plotIds, depthCm: Number(v.depthCm), source: v.source, text: this.text(), timeColumn: v.timeColumn,
-        tempColumn: v.tempColumn, timeZone: s.timezone, timeFormat: v.timeFormat === 'auto' ? undefined : v.timeFormat, mode: v.mode, dryRun,
-      }));
+      this.outcome.set(
+        await this.api.importLog({
+          siteId: s.id,
+          plotIds: v.plotIds,
+          depthCm: Number(v.depthCm),
+          source: v.source,
+          text: this.text(),
+          timeColumn: v.timeColumn,
+          tempColumn: v.tempColumn,
+          timeZone: s.timezone,
+          timeFormat: v.timeFormat === 'auto' ? undefined : v.timeFormat,
+          mode: v.mode,
+          dryRun,
+        }),
+      );
     } catch (err) {
       this.problem.set(serverMessage(err, 'The temperature log was not imported'));
     } finally {

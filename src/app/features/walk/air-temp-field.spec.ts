@@ -33,15 +33,28 @@ describe('Air temperature at the visit', () => {
   });
 
   it('when the crew types the air temperature and saves the conditions, then the visit on the device carries it and it is queued for sync', async () => {
-    localStorage.setItem('fw.session', JSON.stringify({
-      user: { id: '00000001-0000-4000-8000-0000000000ae', email: 'crew@fluxwalk.example', displayName: 'Crew', roles: ['crew'], siteIds: [SITE] },
-      sites: [{ id: SITE, name: 'Test site' }],
-    }));
+    localStorage.setItem(
+      'fw.session',
+      JSON.stringify({
+        user: {
+          id: '00000001-0000-4000-8000-0000000000ae',
+          email: 'crew@fluxwalk.example',
+          displayName: 'Crew',
+          roles: ['crew'],
+          siteIds: [SITE],
+        },
+        sites: [{ id: SITE, name: 'Test site' }],
+      }),
+    );
     TestBed.configureTestingModule({ providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting()] });
     const db: FluxDb = await until(() => TestBed.inject(DeviceDb).db(), 'the database');
-    await db.records('site').put({ id: SITE, rev: 1, name: 'Test site', offsetSpreadPct: 3, offsetMoveCm: 1, moistureCalibration: { kind: 'topp' } });
+    await db
+      .records('site')
+      .put({ id: SITE, rev: 1, name: 'Test site', offsetSpreadPct: 3, offsetMoveCm: 1, moistureCalibration: { kind: 'topp' } });
     await db.records('plot').put({ id: PLOT, rev: 1, siteId: SITE, code: 'P1' });
-    await db.records('collar').put({ id: COLLAR, rev: 1, siteId: SITE, plotId: PLOT, code: 'W-03', shape: 'round', diameterCm: 20, status: 'active' });
+    await db
+      .records('collar')
+      .put({ id: COLLAR, rev: 1, siteId: SITE, plotId: PLOT, code: 'W-03', shape: 'round', diameterCm: 20, status: 'active' });
     await db.records('campaign').put({ id: CAMPAIGN, rev: 1, siteId: SITE, name: 'Dec', rounds: 2, routes: [] });
     TestBed.inject(WalkContext).update({ campaignId: CAMPAIGN, round: 1 });
     const fixture = TestBed.createComponent(VisitPage);
@@ -64,7 +77,9 @@ describe('Air temperature at the visit', () => {
     }, 'the visit');
     expect((visit['conditions'] as { airTempC: number }).airTempC).toBe(12.5);
     const ops = await db.outbox.toArray();
-    expect(ops.some((o) => o.entity === 'visit' && (o.fields['conditions'] as { airTempC?: number } | undefined)?.airTempC === 12.5)).toBe(true);
+    expect(ops.some((o) => o.entity === 'visit' && (o.fields['conditions'] as { airTempC?: number } | undefined)?.airTempC === 12.5)).toBe(
+      true,
+    );
     fixture.destroy();
   });
 });

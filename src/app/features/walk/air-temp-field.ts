@@ -15,7 +15,8 @@ export function parseAirTemp(text: string): number | null | undefined {
   return airTemp.safeParse(v).success ? v : undefined;
 }
 
-const validAirTemp = (c: AbstractControl<string>): ValidationErrors | null => (parseAirTemp(c.value) === undefined ? { airTemp: true } : null);
+const validAirTemp = (c: AbstractControl<string>): ValidationErrors | null =>
+  parseAirTemp(c.value) === undefined ? { airTemp: true } : null;
 
 /**
  * The air temperature at the collar, one of the visit conditions: the chamber air temperature of
@@ -33,7 +34,14 @@ const validAirTemp = (c: AbstractControl<string>): ValidationErrors | null => (p
     </mat-form-field>
   `,
   // The field takes its row's width, and its two-line hint pushes what follows down instead of running over it.
-  styles: `:host { display: block; } mat-form-field { width: 100%; }`,
+  styles: `
+    :host {
+      display: block;
+    }
+    mat-form-field {
+      width: 100%;
+    }
+  `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class AirTempField {
@@ -47,7 +55,8 @@ export class AirTempField {
     // Show a value that arrives from outside (the stored visit), never an echo of the crew's typing.
     effect(() => {
       const v = this.value();
-      if (v !== this.sent && parseAirTemp(this.control.value) !== v) this.control.setValue(v === null ? '' : String(v), { emitEvent: false });
+      if (v !== this.sent && parseAirTemp(this.control.value) !== v)
+        this.control.setValue(v === null ? '' : String(v), { emitEvent: false });
     });
     this.control.valueChanges.subscribe((text) => {
       const v = parseAirTemp(text);

@@ -28,14 +28,25 @@ type Check = EntityFields<'analyzerCheck'> & RecordMeta;
       } @else {
         @if (last(); as c) {
           <p [class.ok]="!overdue()" [class.warning]="overdue()" data-testid="calibration-status">
-            Last calibrated {{ when(c.at) }} ({{ ageDays() }} days ago; due every {{ analyzer()!.calibrationIntervalDays }} days)@if (overdue()) {: overdue}
-            @if (c.driftPpm !== null) { · span drift {{ c.driftPpm }} µmol/mol }
+            Last calibrated {{ when(c.at) }} ({{ ageDays() }} days ago; due every {{ analyzer()!.calibrationIntervalDays }} days)
+            @if (overdue()) {
+              : overdue
+            }
+            @if (c.driftPpm !== null) {
+              · span drift {{ c.driftPpm }} µmol/mol
+            }
           </p>
         } @else {
           <p class="warning" data-testid="calibration-status">No calibration of {{ analyzer()!.name }} on record</p>
         }
         @if (open()) {
-          <fw-calibration-form [driftLimitPct]="driftLimitPct()" [timeZone]="timeZone()" [recordedBy]="recordedBy()" [busy]="busy()" (save)="saveCalibration($event)" />
+          <fw-calibration-form
+            [driftLimitPct]="driftLimitPct()"
+            [timeZone]="timeZone()"
+            [recordedBy]="recordedBy()"
+            [busy]="busy()"
+            (save)="saveCalibration($event)"
+          />
           <button mat-button type="button" (click)="open.set(false)">Cancel</button>
         } @else {
           <button mat-stroked-button type="button" (click)="open.set(true)">Record a calibration…</button>
@@ -62,12 +73,19 @@ export class CalibrationCard {
   protected readonly problem = signal('');
   protected readonly recordedBy = computed(() => this.auth.user()?.displayName ?? '');
   /** The analyzer's latest calibration on this device (skipped ones do not count). */
-  protected readonly last = liveSignal(() => ({ siteId: this.siteId(), analyzerId: this.analyzer()?.id ?? null }), async (db, p) => {
-    if (!p.analyzerId) return null;
-    const all = (await db.records('analyzerCheck').where('siteId').equals(p.siteId).toArray()) as unknown as Check[];
-    return all.filter((c) => c.analyzerId === p.analyzerId && c.kind === 'calibration' && !c.skipped && !c.deleted && c.passed !== false)
-      .sort((a, b) => b.at.localeCompare(a.at))[0] ?? null;
-  }, null as Check | null);
+  protected readonly last = liveSignal(
+    () => ({ siteId: this.siteId(), analyzerId: this.analyzer()?.id ?? null }),
+    async (db, p) => {
+      if (!p.analyzerId) return null;
+      const all = (await db.records('analyzerCheck').where('siteId').equals(p.siteId).toArray()) as unknown as Check[];
+      return (
+        all
+          .filter((c) => c.analyzerId === p.analyzerId && c.kind === 'calibration' && !c.skipped && !c.deleted && c.passed !== false)
+          .sort((a, b) => b.at.localeCompare(a.at))[0] ?? null
+      );
+    },
+    null as Check | null,
+  );
   protected readonly ageDays = computed(() => {
     const c = this.last();
     return c ? calibrationAgeDays(c.at, new Date()) : null;

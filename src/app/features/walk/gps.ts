@@ -63,22 +63,32 @@ export class Gps {
   private followPermission(): void {
     if (this.permissionWatched || !navigator.permissions?.query) return;
     this.permissionWatched = true;
-    navigator.permissions.query({ name: 'geolocation' }).then((status) => {
-      status.addEventListener('change', () => {
-        if (status.state !== 'granted' || this.users <= 0) return;
-        this.problem.set('');
-        this.start();
+    navigator.permissions
+      .query({ name: 'geolocation' })
+      .then((status) => {
+        status.addEventListener('change', () => {
+          if (status.state !== 'granted' || this.users <= 0) return;
+          this.problem.set('');
+          this.start();
+        });
+      })
+      .catch(() => {
+        this.permissionWatched = false;
       });
-    }).catch(() => { this.permissionWatched = false; });
   }
 }
 
-export const LOCATION_BLOCKED = 'Location is blocked for Fluxwalk. Allow it in the browser\'s site settings (the icon left of the address, then Permissions → Location); the position comes back here by itself. Collars still open by tap, code or tag.';
+export const LOCATION_BLOCKED =
+  "Location is blocked for Fluxwalk. Allow it in the browser's site settings (the icon left of the address, then Permissions → Location); the position comes back here by itself. Collars still open by tap, code or tag.";
 
 const COMPASS = ['N', 'NE', 'E', 'SE', 'S', 'SW', 'W', 'NW'];
 
 /** Distance (m) and compass bearing from the device to a collar, via turf (great-circle). */
-export function wayTo(from: Fix | null, lat: number | null, lon: number | null): { metres: number; degrees: number; compass: string } | null {
+export function wayTo(
+  from: Fix | null,
+  lat: number | null,
+  lon: number | null,
+): { metres: number; degrees: number; compass: string } | null {
   if (!from || lat === null || lon === null) return null;
   const a: [number, number] = [from.longitude, from.latitude];
   const b: [number, number] = [lon, lat];

@@ -15,9 +15,15 @@ const OLD_COLLAR = '33333333-3333-4333-8333-333333333333';
 const BLANK_TAG = '9e8d7c6b-5a49-4382-a716-0f1e2d3c4b5a';
 
 /** The install screen on a device holding one plot and one collar (N-01) and what `before` adds; `query` as in the address. */
-async function render(query: Record<string, string> = {}, before: (db: FluxDb) => Promise<void> = async () => undefined, timezone?: string) {
-  const { db } = await signedInDevice([provideRouter([]), { provide: ActivatedRoute, useValue: { snapshot: { queryParamMap: convertToParamMap(query) } } }],
-    timezone ? { timezone } : {});
+async function render(
+  query: Record<string, string> = {},
+  before: (db: FluxDb) => Promise<void> = async () => undefined,
+  timezone?: string,
+) {
+  const { db } = await signedInDevice(
+    [provideRouter([]), { provide: ActivatedRoute, useValue: { snapshot: { queryParamMap: convertToParamMap(query) } } }],
+    timezone ? { timezone } : {},
+  );
   await db.records('site').put({ id: TEST_SITE, rev: 1, name: 'Test site' });
   await db.records('plot').put({ id: PLOT, rev: 1, siteId: TEST_SITE, code: 'P1' });
   await db.records('collar').put({ id: OLD_COLLAR, rev: 1, siteId: TEST_SITE, plotId: PLOT, code: 'N-01', deleted: false });
@@ -46,7 +52,7 @@ const collars = (db: FluxDb) => db.records('collar').toArray();
 describe('Install screen with a printed tag', () => {
   afterEach(() => localStorage.clear());
 
-  it('when a blank tag led here, then its planned code fills in and the saved collar takes the tag\'s id', async () => {
+  it("when a blank tag led here, then its planned code fills in and the saved collar takes the tag's id", async () => {
     const { db, loader, text, navigated } = await render({ tag: BLANK_TAG, code: 'N-07' });
     await until(() => text('install-tag').startsWith('Tag 9e8d7c6b'), 'the adopted tag');
     expect(await (await loader.getHarness(MatInputHarness.with({ selector: '[data-testid="install-code"]' }))).getValue()).toBe('N-07');

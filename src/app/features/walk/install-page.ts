@@ -47,8 +47,16 @@ export class InstallPage {
   private readonly photos$ = inject(PhotoStore);
   private readonly router = inject(Router);
   private readonly deviceDb = inject(DeviceDb);
-  protected readonly plots = liveSignal(() => this.site()?.id ?? null, async (db, siteId) =>
-    siteId ? (await db.records('plot').where('siteId').equals(siteId).toArray()).sort((a, b) => String(a['code']).localeCompare(String(b['code']), undefined, { numeric: true })) : [], []);
+  protected readonly plots = liveSignal(
+    () => this.site()?.id ?? null,
+    async (db, siteId) =>
+      siteId
+        ? (await db.records('plot').where('siteId').equals(siteId).toArray()).sort((a, b) =>
+            String(a['code']).localeCompare(String(b['code']), undefined, { numeric: true }),
+          )
+        : [],
+    [],
+  );
 
   protected readonly code = signal('');
   protected readonly plotId = signal<string | null>(null);
@@ -66,7 +74,10 @@ export class InstallPage {
   /** The printed tag this collar takes (its id becomes the collar's id). */
   protected readonly tag = signal<CollarTag | null>(null);
   protected readonly tagNote = signal('');
-  protected readonly shortTag = computed(() => { const t = this.tag(); return t ? shortTagId(t.id) : ''; });
+  protected readonly shortTag = computed(() => {
+    const t = this.tag();
+    return t ? shortTagId(t.id) : '';
+  });
   protected readonly busy = signal(false);
   protected readonly problem = signal('');
   protected readonly currentFix = this.gps.fix;
@@ -74,7 +85,13 @@ export class InstallPage {
 
   protected readonly position = computed(() => averageFixes(this.fixes()));
   protected readonly areaCm2 = computed(() =>
-    collarAreaCm2({ shape: this.shape(), diameterCm: parseCm(this.diameter()), sideACm: parseCm(this.sideA()), sideBCm: parseCm(this.sideB()) }));
+    collarAreaCm2({
+      shape: this.shape(),
+      diameterCm: parseCm(this.diameter()),
+      sideACm: parseCm(this.sideA()),
+      sideBCm: parseCm(this.sideB()),
+    }),
+  );
 
   constructor() {
     const stop = this.gps.watch();
@@ -86,7 +103,10 @@ export class InstallPage {
     const fromLink = readCollarTag(q.get('tag') ?? '');
     if (fromLink) {
       void this.adoptTag({ id: fromLink.id, code: plannedCode(q.get('code')) }).then((ok) => {
-        if (ok) this.tagNote.set('No collar on this device has this tag yet. If it is already on a collar, sync first; otherwise install the new collar here.');
+        if (ok)
+          this.tagNote.set(
+            'No collar on this device has this tag yet. If it is already on a collar, sync first; otherwise install the new collar here.',
+          );
       });
     }
   }
@@ -96,13 +116,23 @@ export class InstallPage {
     const siteId = this.site()?.id ?? null;
     const { owner, codeUser } = await this.deviceDb.run(async (db) => {
       const table = db.records('collar');
-      const sameCode = tag.code && siteId ? await table.where('siteId').equals(siteId).filter((c) => !c.deleted && c['code'] === tag.code).first() : undefined;
+      const sameCode =
+        tag.code && siteId
+          ? await table
+              .where('siteId')
+              .equals(siteId)
+              .filter((c) => !c.deleted && c['code'] === tag.code)
+              .first()
+          : undefined;
       return { owner: await table.get(tag.id), codeUser: sameCode };
     });
     if (owner) {
       // A deleted collar keeps its id (its history syncs as a tombstone): its tag cannot be reused.
-      this.tagNote.set(owner.deleted ? `This tag belonged to collar ${owner['code']}, since deleted: use a new tag.`
-        : `This tag is already on collar ${owner['code']}: use a new tag.`);
+      this.tagNote.set(
+        owner.deleted
+          ? `This tag belonged to collar ${owner['code']}, since deleted: use a new tag.`
+          : `This tag is already on collar ${owner['code']}: use a new tag.`,
+      );
       return false;
     }
     this.tag.set(tag);
@@ -139,7 +169,10 @@ export class InstallPage {
       try {
         const r = await resizePhoto(file);
         const base = file.name.replace(/\.[^.]+$/, '') || 'photo';
-        this.photos.update((p) => [...p, { blob: r.blob, url: URL.createObjectURL(r.blob), name: `${base}.jpg`, width: r.width, height: r.height }]);
+        this.photos.update((p) => [
+          ...p,
+          { blob: r.blob, url: URL.createObjectURL(r.blob), name: `${base}.jpg`, width: r.width, height: r.height },
+        ]);
       } catch {
         this.problem.set(`${file.name} is not an image this device can read.`);
       }
@@ -160,20 +193,36 @@ export class InstallPage {
     this.busy.set(true);
     this.problem.set('');
     try {
-      const clash = await this.deviceDb.run((db) => db.records('collar').where('siteId').equals(siteId)
-        .filter((c) => !c.deleted && String(c['code']).toLowerCase() === code.toLowerCase()).first());
+      const clash = await this.deviceDb.run((db) =>
+        db
+          .records('collar')
+          .where('siteId')
+          .equals(siteId)
+          .filter((c) => !c.deleted && String(c['code']).toLowerCase() === code.toLowerCase())
+          .first(),
+      );
       if (clash) throw new Error(`Collar code ${code} is already used at this site: choose another code.`);
       const collar = validated('collar', {
-        siteId, code, plotId: this.plotId(), shape: this.shape(),
+        siteId,
+        code,
+        plotId: this.plotId(),
+        shape: this.shape(),
         diameterCm: this.shape() === 'round' ? parseCm(this.diameter()) : null,
         sideACm: this.shape() === 'rectangular' ? parseCm(this.sideA()) : null,
         sideBCm: this.shape() === 'rectangular' ? parseCm(this.sideB()) : null,
-        heightCm: parseCm(this.height()), insertionCm: parseCm(this.insertion()),
-        latitude: pos?.latitude ?? null, longitude: pos?.longitude ?? null, accuracyM: pos ? Math.round(pos.accuracyM * 10) / 10 : null,
-        installedOn: this.installedOn(), notes: this.note().trim(),
+        heightCm: parseCm(this.height()),
+        insertionCm: parseCm(this.insertion()),
+        latitude: pos?.latitude ?? null,
+        longitude: pos?.longitude ?? null,
+        accuracyM: pos ? Math.round(pos.accuracyM * 10) / 10 : null,
+        installedOn: this.installedOn(),
+        notes: this.note().trim(),
       });
       const rec = await this.writes.create('collar', collar, { id: this.tag()?.id });
-      await this.writes.create('collarEvent', validated('collarEvent', { siteId, collarId: rec.id, kind: 'installed', date: this.installedOn(), note: this.note().trim() }));
+      await this.writes.create(
+        'collarEvent',
+        validated('collarEvent', { siteId, collarId: rec.id, kind: 'installed', date: this.installedOn(), note: this.note().trim() }),
+      );
       for (const p of this.photos()) await this.photos$.keep({ siteId, ownerEntity: 'collar', ownerId: rec.id }, p.blob, p.name);
       await this.router.navigate(['/collars', rec.id]);
     } catch (err) {

@@ -30,7 +30,10 @@ describe('leakSlope', () => {
   });
 
   it('when fewer than 3 samples remain after the settle time, then no slope is given and the crew is told why', () => {
-    expect(leakSlope({ tS: [0, 10, 20, 30], co2Ppm: [415, 415, 415, 415] }, 25)).toEqual({ ok: false, message: '1 sample after the 25 s settle time: at least 3 are needed.' });
+    expect(leakSlope({ tS: [0, 10, 20, 30], co2Ppm: [415, 415, 415, 415] }, 25)).toEqual({
+      ok: false,
+      message: '1 sample after the 25 s settle time: at least 3 are needed.',
+    });
     expect(leakFromTyped('0 415\n10 x', 0)).toEqual({ ok: false, message: 'Line 2: write seconds and CO2, e.g. "30 421.5"' });
   });
 });
@@ -58,8 +61,14 @@ describe('LeakCheck', () => {
     expect(text('leak-fitted')).toBe('Slope 0.0300 µmol/mol/s: linear fit of 4 samples, 20–50 s');
     expect(text('leak-verdict')).toBe('Passes');
     await (await saveButton()).click();
-    expect(saved).toEqual([{ slopeUmolMolS: expect.closeTo(0.03, 12), passed: true,
-      note: 'Linear fit of 4 samples from 20 s to 50 s after a 20 s settle time (series typed by hand)', file: null }]);
+    expect(saved).toEqual([
+      {
+        slopeUmolMolS: expect.closeTo(0.03, 12),
+        passed: true,
+        note: 'Linear fit of 4 samples from 20 s to 50 s after a 20 s settle time (series typed by hand)',
+        file: null,
+      },
+    ]);
   });
 
   it('when the settle time is shortened, then the early samples count and a fast drift fails the site limit', async () => {
@@ -95,8 +104,14 @@ describe('LeakCheck', () => {
     // Piece 2 after 20 s: 420, 420.2, 420.4, 420.6 every 10 s → 0.02 per s.
     expect(text('leak-fitted')).toBe('Slope 0.0200 µmol/mol/s: linear fit of 4 samples, 20–50 s');
     await (await saveButton()).click();
-    expect(saved).toEqual([{ slopeUmolMolS: expect.closeTo(0.02, 12), passed: true,
-      note: 'Linear fit of 4 samples from 20 s to 50 s after a 20 s settle time (plate.csv, Piece 2: lines 6–10, 5 samples)', file }]);
+    expect(saved).toEqual([
+      {
+        slopeUmolMolS: expect.closeTo(0.02, 12),
+        passed: true,
+        note: 'Linear fit of 4 samples from 20 s to 50 s after a 20 s settle time (plate.csv, Piece 2: lines 6–10, 5 samples)',
+        file,
+      },
+    ]);
   });
 
   it('when only a slope is typed, then it is saved only with a reason, and the note says it was typed', async () => {
@@ -106,9 +121,13 @@ describe('LeakCheck', () => {
     expect(text('leak-verdict')).toBe('Passes');
     await (await saveButton()).click();
     expect(saved).toEqual([]);
-    expect(el.querySelector('[role="alert"]')?.textContent?.trim()).toBe('Say why the slope is typed instead of the closure (the lead sees it).');
+    expect(el.querySelector('[role="alert"]')?.textContent?.trim()).toBe(
+      'Say why the slope is typed instead of the closure (the lead sees it).',
+    );
     await (await input('leak-reason')).setValue('Phone battery flat at the plate');
     await (await saveButton()).click();
-    expect(saved).toEqual([{ slopeUmolMolS: -0.02, passed: true, note: 'Slope typed from the analyzer: Phone battery flat at the plate', file: null }]);
+    expect(saved).toEqual([
+      { slopeUmolMolS: -0.02, passed: true, note: 'Slope typed from the analyzer: Phone battery flat at the plate', file: null },
+    ]);
   });
 });

@@ -90,7 +90,8 @@ export class LeakCheck {
     try {
       const preset = savedMapping(this.memory.read(loggerPresetKey(this.analyzerId())));
       const pieces = await leakPieces(await f.text(), this.timeZone(), preset);
-      if (!pieces.length) this.fileProblem.set(`${f.name}: no CO2 samples found. Check the columns once in Import logger file at a collar, then try again.`);
+      if (!pieces.length)
+        this.fileProblem.set(`${f.name}: no CO2 samples found. Check the columns once in Import logger file at a collar, then try again.`);
       this.pieces.set(pieces);
     } catch (err) {
       this.fileProblem.set(err instanceof Error ? err.message : String(err));
@@ -109,12 +110,19 @@ export class LeakCheck {
       return;
     }
     if (!f || !f.ok || s === null) {
-      return this.problem.set(f && !f.ok ? f.message : this.method() === 'file' ? 'Choose the logger file of the sealed-plate closure.' : 'Type the sealed-plate series, one "seconds CO2" a line.');
+      return this.problem.set(
+        f && !f.ok
+          ? f.message
+          : this.method() === 'file'
+            ? 'Choose the logger file of the sealed-plate closure.'
+            : 'Type the sealed-plate series, one "seconds CO2" a line.',
+      );
     }
     this.problem.set('');
     const source = this.method() === 'file' ? `${this.fileName()}, ${this.pieces()[this.pieceIndex()]!.label}` : 'series typed by hand';
     this.save.emit({
-      slopeUmolMolS: s, passed: leakPassed(s, this.limit()),
+      slopeUmolMolS: s,
+      passed: leakPassed(s, this.limit()),
       note: `Linear fit of ${f.n} samples from ${f.fromS} s to ${f.toS} s after a ${this.settle()} s settle time (${source})`,
       file: this.method() === 'file' ? this.file : null,
     });

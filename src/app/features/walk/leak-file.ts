@@ -16,17 +16,28 @@ export interface LeakPiece {
 export async function leakPieces(text: string, timeZone: string, preset: LoggerMapping | null): Promise<LeakPiece[]> {
   const layout = guessLayout(text);
   const fits = preset && preset.headerRow === layout.headerRow && preset.delimiter === layout.delimiter;
-  const mapping: LoggerMapping = fits ? preset : suggestMapping(layout.headers, layout, timeZone) ?? {
-    delimiter: layout.delimiter, decimalComma: layout.decimalComma, headerRow: layout.headerRow,
-    time: { kind: 'elapsed', column: 0, unit: 's' }, co2: { column: Math.min(1, layout.headers.length - 1), unit: 'µmol/mol (ppm)' },
-    h2o: null, pressure: null, temp: null, closureId: null,
-  };
+  const mapping: LoggerMapping = fits
+    ? preset
+    : (suggestMapping(layout.headers, layout, timeZone) ?? {
+        delimiter: layout.delimiter,
+        decimalComma: layout.decimalComma,
+        headerRow: layout.headerRow,
+        time: { kind: 'elapsed', column: 0, unit: 's' },
+        co2: { column: Math.min(1, layout.headers.length - 1), unit: 'µmol/mol (ppm)' },
+        h2o: null,
+        pressure: null,
+        temp: null,
+        closureId: null,
+      });
   const read = await readLoggerFile(text, mapping, () => undefined);
   return splitClosures(read.samples).pieces.map((p, i) => {
     const s = pieceSeries(p);
     // The site's wall clock, as the crew's logger and watch read it (not the phone's zone).
     const when = p.startMs !== null ? `, ${formatSiteTime(p.startMs, timeZone, { timeOnly: true, seconds: true })}` : '';
-    return { label: `Piece ${i + 1}: lines ${p.firstLine}–${p.lastLine}${when}, ${s.tS.length} samples`, series: { tS: s.tS, co2Ppm: s.co2Ppm } };
+    return {
+      label: `Piece ${i + 1}: lines ${p.firstLine}–${p.lastLine}${when}, ${s.tS.length} samples`,
+      series: { tS: s.tS, co2Ppm: s.co2Ppm },
+    };
   });
 }
 

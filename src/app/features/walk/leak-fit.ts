@@ -1,9 +1,7 @@
 import { fitLinearRaw } from '../../../../shared/flux';
 import { readManualSeries } from '../closures/manual-series';
 
-export type LeakFit =
-  | { ok: true; slopeUmolMolS: number; n: number; fromS: number; toS: number }
-  | { ok: false; message: string };
+export type LeakFit = { ok: true; slopeUmolMolS: number; n: number; fromS: number; toS: number } | { ok: false; message: string };
 
 /**
  * The CO2 slope of a closure on a sealed plate: the flux engine's least-squares line through the
@@ -21,7 +19,11 @@ export function leakSlope(series: { tS: readonly (number | null)[]; co2Ppm: read
       co2.push(c);
     }
   });
-  if (tau.length < 3) return { ok: false, message: `${tau.length} sample${tau.length === 1 ? '' : 's'} after the ${settleS} s settle time: at least 3 are needed.` };
+  if (tau.length < 3)
+    return {
+      ok: false,
+      message: `${tau.length} sample${tau.length === 1 ? '' : 's'} after the ${settleS} s settle time: at least 3 are needed.`,
+    };
   const fit = fitLinearRaw(tau, co2, tau.length);
   if (!fit) return { ok: false, message: 'The samples after the settle time share one time: no slope.' };
   return { ok: true, slopeUmolMolS: fit.slope, n: tau.length, fromS: settleS + tau[0], toS: settleS + tau[tau.length - 1] };

@@ -8,8 +8,17 @@ describe('Walk map labels', () => {
   });
 
   it('when markers are far apart, then each label sits to the right of its marker', () => {
-    const places = placeLabels([{ x: 60, y: 60, width: 70 }, { x: 60, y: 200, width: 70 }], SIZE);
-    expect(places).toEqual([{ side: 'right', left: 84, top: 60 - LABEL_H / 2 }, { side: 'right', left: 84, top: 200 - LABEL_H / 2 }]);
+    const places = placeLabels(
+      [
+        { x: 60, y: 60, width: 70 },
+        { x: 60, y: 200, width: 70 },
+      ],
+      SIZE,
+    );
+    expect(places).toEqual([
+      { side: 'right', left: 84, top: 60 - LABEL_H / 2 },
+      { side: 'right', left: 84, top: 200 - LABEL_H / 2 },
+    ]);
   });
 
   it('when a marker is at the right edge, then its label goes to the left and stays inside the map', () => {
@@ -20,11 +29,15 @@ describe('Walk map labels', () => {
   });
 
   it('when two markers are close, then the labels do not overlap each other or a marker: one moves, and one is hidden when no side is free', () => {
-    const markers = [{ x: 100, y: 100, width: 70 }, { x: 150, y: 100, width: 70 }, { x: 125, y: 130, width: 70 }];
+    const markers = [
+      { x: 100, y: 100, width: 70 },
+      { x: 150, y: 100, width: 70 },
+      { x: 125, y: 130, width: 70 },
+    ];
     const places = placeLabels(markers, SIZE);
     const boxes = places.flatMap((p, i) => (p ? [{ l: p.left, t: p.top, r: p.left + markers[i].width, b: p.top + LABEL_H }] : []));
     const markerBoxes = markers.map((m) => ({ l: m.x - 24, t: m.y - 24, r: m.x + 24, b: m.y + 24 }));
-    const hit = (a: typeof boxes[0], b: typeof boxes[0]) => a.l < b.r && b.l < a.r && a.t < b.b && b.t < a.b;
+    const hit = (a: (typeof boxes)[0], b: (typeof boxes)[0]) => a.l < b.r && b.l < a.r && a.t < b.b && b.t < a.b;
     for (const [i, a] of boxes.entries()) {
       for (const [j, b] of boxes.entries()) if (i !== j) expect(hit(a, b)).toBe(false);
       for (const m of markerBoxes) expect(hit(a, m)).toBe(false);
@@ -34,7 +47,13 @@ describe('Walk map labels', () => {
   });
 
   it('when a marker is boxed in on every side, then its label is hidden (null), not drawn over the others', () => {
-    const ring = [{ x: 200, y: 200, width: 60 }, { x: 250, y: 200, width: 60 }, { x: 150, y: 200, width: 60 }, { x: 200, y: 150, width: 60 }, { x: 200, y: 250, width: 60 }];
+    const ring = [
+      { x: 200, y: 200, width: 60 },
+      { x: 250, y: 200, width: 60 },
+      { x: 150, y: 200, width: 60 },
+      { x: 200, y: 150, width: 60 },
+      { x: 200, y: 250, width: 60 },
+    ];
     const places = placeLabels(ring, SIZE);
     expect(places[0]).toBeNull();
   });

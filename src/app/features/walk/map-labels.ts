@@ -20,17 +20,26 @@ export interface LabelPlace {
   top: number;
 }
 
-interface Box { l: number; t: number; r: number; b: number }
+interface Box {
+  l: number;
+  t: number;
+  r: number;
+  b: number;
+}
 
 const overlaps = (a: Box, b: Box) => a.l < b.r && b.l < a.r && a.t < b.b && b.t < a.b;
 
 function boxFor(m: LabelRequest, side: LabelSide): Box {
   const half = MARKER_PX / 2;
   switch (side) {
-    case 'right': return { l: m.x + half, t: m.y - LABEL_H / 2, r: m.x + half + m.width, b: m.y + LABEL_H / 2 };
-    case 'left': return { l: m.x - half - m.width, t: m.y - LABEL_H / 2, r: m.x - half, b: m.y + LABEL_H / 2 };
-    case 'above': return { l: m.x - m.width / 2, t: m.y - half - LABEL_H, r: m.x + m.width / 2, b: m.y - half };
-    case 'below': return { l: m.x - m.width / 2, t: m.y + half, r: m.x + m.width / 2, b: m.y + half + LABEL_H };
+    case 'right':
+      return { l: m.x + half, t: m.y - LABEL_H / 2, r: m.x + half + m.width, b: m.y + LABEL_H / 2 };
+    case 'left':
+      return { l: m.x - half - m.width, t: m.y - LABEL_H / 2, r: m.x - half, b: m.y + LABEL_H / 2 };
+    case 'above':
+      return { l: m.x - m.width / 2, t: m.y - half - LABEL_H, r: m.x + m.width / 2, b: m.y - half };
+    case 'below':
+      return { l: m.x - m.width / 2, t: m.y + half, r: m.x + m.width / 2, b: m.y + half + LABEL_H };
   }
 }
 

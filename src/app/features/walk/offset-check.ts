@@ -47,7 +47,11 @@ export function checkOffsets(readingsCm: readonly number[], ctx: OffsetContext):
   if (ctx.collarAreaCm2 !== null) {
     spreadCm3 = sdCm * ctx.collarAreaCm2;
     const area = ctx.collarAreaCm2;
-    const volume = chamberVolumeFor(ctx.day, ctx.profiles.map((p) => ({ ...p, areaCm2: area })), [{ takenOn: ctx.day, offsetsCm: values }]);
+    const volume = chamberVolumeFor(
+      ctx.day,
+      ctx.profiles.map((p) => ({ ...p, areaCm2: area })),
+      [{ takenOn: ctx.day, offsetsCm: values }],
+    );
     if (volume.ok) volumeCm3 = volume.value.volumeCm3;
   }
   const spreadPct = spreadCm3 !== null && volumeCm3 ? (100 * spreadCm3) / volumeCm3 : null;
@@ -56,10 +60,14 @@ export function checkOffsets(readingsCm: readonly number[], ctx: OffsetContext):
   const movedTooFar = movedCm !== null && Math.abs(movedCm) > ctx.thresholds.offsetMoveCm;
   const warnings: string[] = [];
   if (spreadTooLarge) {
-    warnings.push(`Uneven rim: SD × area is ${fmt(spreadPct!)} % of the headspace volume (limit ${fmt(ctx.thresholds.offsetSpreadPct)} %). Check the readings or reseat the collar.`);
+    warnings.push(
+      `Uneven rim: SD × area is ${fmt(spreadPct!)} % of the headspace volume (limit ${fmt(ctx.thresholds.offsetSpreadPct)} %). Check the readings or reseat the collar.`,
+    );
   }
   if (movedTooFar) {
-    warnings.push(`The mean moved ${movedCm! > 0 ? '+' : ''}${fmt(movedCm!, 2)} cm since the last set (limit ${fmt(ctx.thresholds.offsetMoveCm, 2)} cm). Was the collar disturbed?`);
+    warnings.push(
+      `The mean moved ${movedCm! > 0 ? '+' : ''}${fmt(movedCm!, 2)} cm since the last set (limit ${fmt(ctx.thresholds.offsetMoveCm, 2)} cm). Was the collar disturbed?`,
+    );
   }
   return { meanCm, sdCm, spreadCm3, volumeCm3, spreadPct, spreadTooLarge, movedCm, movedTooFar, warnings };
 }

@@ -29,8 +29,10 @@ async function render(previous: number[] | null = null, savedSet: number[] | nul
     for (let i = 0; i < values.length; i++) await inputs[i].setValue(values[i]);
     await fixture.whenStable();
   };
-  const text = (testId: string) => (fixture.nativeElement as HTMLElement).querySelector(`[data-testid="${testId}"]`)?.textContent?.trim() ?? null;
-  const warnings = () => Array.from((fixture.nativeElement as HTMLElement).querySelectorAll('[data-testid="offset-warning"]')).map((e) => e.textContent!.trim());
+  const text = (testId: string) =>
+    (fixture.nativeElement as HTMLElement).querySelector(`[data-testid="${testId}"]`)?.textContent?.trim() ?? null;
+  const warnings = () =>
+    Array.from((fixture.nativeElement as HTMLElement).querySelectorAll('[data-testid="offset-warning"]')).map((e) => e.textContent!.trim());
   return { fixture, loader, saved, enter, text, warnings };
 }
 

@@ -1,5 +1,18 @@
 import { DecimalPipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, DestroyRef, ElementRef, computed, effect, inject, input, output, signal, untracked, viewChildren } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  DestroyRef,
+  ElementRef,
+  computed,
+  effect,
+  inject,
+  input,
+  output,
+  signal,
+  untracked,
+  viewChildren,
+} from '@angular/core';
 import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
 import { FormArray, FormControl, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -25,7 +38,8 @@ export function parseCm(text: string): number | null {
   return Number.isFinite(v) ? v : null;
 }
 
-const sameValues = (a: readonly number[] | null, b: readonly number[] | null) => !!a && !!b && a.length === b.length && a.every((v, i) => v === b[i]);
+const sameValues = (a: readonly number[] | null, b: readonly number[] | null) =>
+  !!a && !!b && a.length === b.length && a.every((v, i) => v === b[i]);
 const cmText = (v: number) => (Math.round(v * 100) / 100).toFixed(1).replace(/(\.\d)0$/, '$1');
 
 /**
@@ -40,23 +54,93 @@ const cmText = (v: number) => (Math.round(v * 100) / 100).toFixed(1).replace(/(\
   templateUrl: './offset-form.html',
   styles: `
     // Rows 12 px apart: an outlined field's floating label rises above its box, over the hint or text above.
-    .positions { display: grid; grid-template-columns: 1fr 1fr; gap: 12px 8px; }
+    .positions {
+      display: grid;
+      grid-template-columns: 1fr 1fr;
+      gap: 12px 8px;
+    }
     // A phone has room for one position a row between its two 48 px steps.
-    @media (max-width: 599.98px) { .positions { grid-template-columns: 1fr; } }
-    .position { display: flex; align-items: center; gap: 2px; }
-    .position mat-form-field { flex: 1; min-width: 0; width: 0; }
-    :host ::ng-deep .position .mat-mdc-form-field-infix { width: auto; min-width: 0; }
-    :host ::ng-deep .position .mdc-notched-outline__notch { max-width: calc(100% - 24px) !important; }
-    .position .step { flex: none; width: 48px; min-width: 48px; height: 48px; padding: 0; font-size: 1.3rem; }
-    .outlier { outline: 3px dashed var(--mat-sys-error); outline-offset: 2px; border-radius: 4px; }
-    .stats { display: flex; flex-wrap: wrap; gap: 4px 16px; font-size: 1.05rem; margin: 0 0 8px; }
-    .stats dt { font-weight: 600; } .stats div { display: flex; gap: 6px; } .stats dd { margin: 0; }
-    .warning { border: 2px solid var(--mat-sys-error); padding: 8px 12px; border-radius: 8px; margin: 8px 0; font-weight: 600; }
-    .warning::before { content: '⚠ '; }
-    .row { display: flex; flex-wrap: wrap; gap: 8px; align-items: center; }
-    .summary { display: flex; align-items: center; justify-content: space-between; gap: 8px; margin: 0; }
-    button { min-height: 48px; }
-    .help { margin: 0 0 12px; }
+    @media (max-width: 599.98px) {
+      .positions {
+        grid-template-columns: 1fr;
+      }
+    }
+    .position {
+      display: flex;
+      align-items: center;
+      gap: 2px;
+    }
+    .position mat-form-field {
+      flex: 1;
+      min-width: 0;
+      width: 0;
+    }
+    :host ::ng-deep .position .mat-mdc-form-field-infix {
+      width: auto;
+      min-width: 0;
+    }
+    :host ::ng-deep .position .mdc-notched-outline__notch {
+      max-width: calc(100% - 24px) !important;
+    }
+    .position .step {
+      flex: none;
+      width: 48px;
+      min-width: 48px;
+      height: 48px;
+      padding: 0;
+      font-size: 1.3rem;
+    }
+    .outlier {
+      outline: 3px dashed var(--mat-sys-error);
+      outline-offset: 2px;
+      border-radius: 4px;
+    }
+    .stats {
+      display: flex;
+      flex-wrap: wrap;
+      gap: 4px 16px;
+      font-size: 1.05rem;
+      margin: 0 0 8px;
+    }
+    .stats dt {
+      font-weight: 600;
+    }
+    .stats div {
+      display: flex;
+      gap: 6px;
+    }
+    .stats dd {
+      margin: 0;
+    }
+    .warning {
+      border: 2px solid var(--mat-sys-error);
+      padding: 8px 12px;
+      border-radius: 8px;
+      margin: 8px 0;
+      font-weight: 600;
+    }
+    .warning::before {
+      content: '⚠ ';
+    }
+    .row {
+      display: flex;
+      flex-wrap: wrap;
+      gap: 8px;
+      align-items: center;
+    }
+    .summary {
+      display: flex;
+      align-items: center;
+      justify-content: space-between;
+      gap: 8px;
+      margin: 0;
+    }
+    button {
+      min-height: 48px;
+    }
+    .help {
+      margin: 0 0 12px;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -67,7 +151,9 @@ export class OffsetForm {
   readonly busy = input(false);
   readonly save = output<number[]>();
 
-  protected readonly positions = new FormArray<FormControl<string>>(Array.from({ length: DEFAULT_POSITIONS }, () => new FormControl('', { nonNullable: true })));
+  protected readonly positions = new FormArray<FormControl<string>>(
+    Array.from({ length: DEFAULT_POSITIONS }, () => new FormControl('', { nonNullable: true })),
+  );
   private readonly texts = toSignal(this.positions.valueChanges, { initialValue: this.positions.getRawValue() });
   /** The size of one ± step at a position. */
   protected readonly stepCm = STEP_CM;
@@ -80,7 +166,10 @@ export class OffsetForm {
   protected readonly check = computed(() => {
     const prev = this.previous();
     const lastMeanCm = prev?.length ? offsetStats(prev).meanCm : null;
-    return checkOffsets(this.values().filter((v): v is number => v !== null), { ...this.context(), lastMeanCm });
+    return checkOffsets(
+      this.values().filter((v): v is number => v !== null),
+      { ...this.context(), lastMeanCm },
+    );
   });
   protected readonly outliers = computed(() => outlierPositions(this.values(), this.check()));
   protected readonly collapsed = computed(() => !!this.saved()?.length && !this.editing());
@@ -107,7 +196,8 @@ export class OffsetForm {
 
   private setValues(values: readonly number[], emit: boolean): void {
     while (this.positions.length < values.length) this.positions.push(new FormControl('', { nonNullable: true }), { emitEvent: false });
-    while (this.positions.length > values.length && this.positions.length > MIN_POSITIONS) this.positions.removeAt(this.positions.length - 1, { emitEvent: false });
+    while (this.positions.length > values.length && this.positions.length > MIN_POSITIONS)
+      this.positions.removeAt(this.positions.length - 1, { emitEvent: false });
     this.positions.setValue(values.map(cmText), { emitEvent: emit });
     if (!emit) this.positions.updateValueAndValidity({ emitEvent: true });
   }

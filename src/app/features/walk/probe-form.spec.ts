@@ -12,7 +12,12 @@ import { ProbeForm, type ProbeRecord, type ProbeSave } from './probe-form';
 const pause = (ms: number) => new Promise((r) => setTimeout(r, ms));
 const ME = 'a0000000-0000-4000-8000-000000000001';
 
-async function render(calibration: MoistureCalibration, savedRecord: ProbeRecord | null = null, replicates: ProbeRecord[] = savedRecord ? [savedRecord] : [], tolerance = 1) {
+async function render(
+  calibration: MoistureCalibration,
+  savedRecord: ProbeRecord | null = null,
+  replicates: ProbeRecord[] = savedRecord ? [savedRecord] : [],
+  tolerance = 1,
+) {
   TestBed.configureTestingModule({ imports: [ProbeForm], providers: [{ provide: AuthStore, useValue: { user: signal({ id: ME }) } }] });
   const fixture = TestBed.createComponent(ProbeForm);
   fixture.componentRef.setInput('calibration', calibration);
@@ -35,7 +40,8 @@ async function render(calibration: MoistureCalibration, savedRecord: ProbeRecord
   /** The stored replicates as the live query would hand them back after the saves. */
   const storeSaves = async (base: ProbeRecord[]) => {
     const byId = new Map(base.map((r) => [r.id, r]));
-    for (const s of saved) byId.set(s.id, { ...(byId.get(s.id) ?? { takenAt: '2026-06-01T08:30:00Z', takenById: ME }), ...s.reading, id: s.id });
+    for (const s of saved)
+      byId.set(s.id, { ...(byId.get(s.id) ?? { takenAt: '2026-06-01T08:30:00Z', takenById: ME }), ...s.reading, id: s.id });
     const list = [...byId.values()];
     fixture.componentRef.setInput('replicates', list);
     fixture.componentRef.setInput('saved', list[list.length - 1]);
@@ -45,7 +51,14 @@ async function render(calibration: MoistureCalibration, savedRecord: ProbeRecord
 }
 
 const first: ProbeRecord = {
-  id: 'p1', takenAt: '2026-06-01T08:10:00Z', takenById: ME, soilTemps: [{ depthCm: 5, tempC: 7.5 }], moistureRaw: 23.4, moistureKind: 'vwc', rodLengthCm: 20, probeId: 'TDR-9',
+  id: 'p1',
+  takenAt: '2026-06-01T08:10:00Z',
+  takenById: ME,
+  soilTemps: [{ depthCm: 5, tempC: 7.5 }],
+  moistureRaw: 23.4,
+  moistureKind: 'vwc',
+  rodLengthCm: 20,
+  probeId: 'TDR-9',
 };
 
 describe('ProbeForm moisture display', () => {
@@ -76,11 +89,19 @@ describe('ProbeForm moisture display', () => {
     await (await soilTemp()).setValue('6.4');
     // No Save button: the reading saves itself after a pause, once.
     await pause(AUTOSAVE_MS + 150);
-    expect(saved).toEqual([{ id: expect.stringMatching(/^[0-9a-f-]{36}$/), reading: { soilTemps: [{ depthCm: 5, tempC: 6.4 }], moistureRaw: 23.5, moistureKind: 'vwc', rodLengthCm: 12, probeId: 'TDR-2' } }]);
+    expect(saved).toEqual([
+      {
+        id: expect.stringMatching(/^[0-9a-f-]{36}$/),
+        reading: { soilTemps: [{ depthCm: 5, tempC: 6.4 }], moistureRaw: 23.5, moistureKind: 'vwc', rodLengthCm: 12, probeId: 'TDR-2' },
+      },
+    ]);
   });
 
   it('when the visit is opened again, then the saved reading is what the section shows, and Change puts it back in the boxes', async () => {
-    const { loader, testid, moisture } = await render({ kind: 'topp' }, { ...first, moistureRaw: 18, moistureKind: 'permittivity', soilTemps: [{ depthCm: 10, tempC: 7.5 }] });
+    const { loader, testid, moisture } = await render(
+      { kind: 'topp' },
+      { ...first, moistureRaw: 18, moistureKind: 'permittivity', soilTemps: [{ depthCm: 10, tempC: 7.5 }] },
+    );
     expect(testid('probe-saved')).toContain('Saved: 7.5 °C at 10 cm · Ka 18');
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Change' }))).click();
     expect(await (await moisture()).getValue()).toBe('18');
@@ -101,7 +122,14 @@ describe('ProbeForm replicates', () => {
   it('when a visit has three replicates, then each is listed with its site time and taker, and count, mean and sample SD are shown', async () => {
     const reps: ProbeRecord[] = [
       first,
-      { ...first, id: 'p2', takenAt: '2026-06-01T08:10:30Z', moistureRaw: 25.1, soilTemps: [{ depthCm: 5, tempC: 7.7 }], takenById: 'b0000000-0000-4000-8000-000000000002' },
+      {
+        ...first,
+        id: 'p2',
+        takenAt: '2026-06-01T08:10:30Z',
+        moistureRaw: 25.1,
+        soilTemps: [{ depthCm: 5, tempC: 7.7 }],
+        takenById: 'b0000000-0000-4000-8000-000000000002',
+      },
       { ...first, id: 'p3', takenAt: '2026-06-01T08:11:00Z', moistureRaw: 24.0, soilTemps: [{ depthCm: 5, tempC: 7.9 }] },
     ];
     const { testid } = await render({ kind: 'topp' }, reps[2], reps);
@@ -120,7 +148,12 @@ describe('ProbeForm replicates', () => {
     expect(await (await moisture()).getValue()).toBe('');
     await (await moisture()).setValue('25.1');
     await pause(AUTOSAVE_MS + 150);
-    expect(saved).toEqual([{ id: expect.not.stringMatching(/^p1$/), reading: { soilTemps: [], moistureRaw: 25.1, moistureKind: 'vwc', rodLengthCm: 20, probeId: 'TDR-9' } }]);
+    expect(saved).toEqual([
+      {
+        id: expect.not.stringMatching(/^p1$/),
+        reading: { soilTemps: [], moistureRaw: 25.1, moistureKind: 'vwc', rodLengthCm: 20, probeId: 'TDR-9' },
+      },
+    ]);
     await storeSaves([first]);
     // A correction while the boxes still hold it goes to the same new replicate.
     await (await moisture()).setValue('25.3');
@@ -153,15 +186,19 @@ describe('ProbeForm replicates', () => {
     const reps = [first, { ...first, id: 'p2', soilTemps: [{ depthCm: 10, tempC: 4 }] }];
     const { testid } = await render({ kind: 'topp' }, reps[1], reps);
     expect(testid('probe-stats')).toContain('soil 7.5 °C at 5 cm (n = 1)');
-    expect(testid('probe-off-depth')).toContain('1 temperature was taken more than ±1 cm from the site\'s 5 cm probe depth');
+    expect(testid('probe-off-depth')).toContain("1 temperature was taken more than ±1 cm from the site's 5 cm probe depth");
     expect(testid('replicate-2')).toContain('4 °C at 10 cm (off depth)');
   });
 
   it('when the site allows ±2 cm, then a temperature 1.5 cm off counts in the mean and the warning names ±2 cm', async () => {
-    const reps = [first, { ...first, id: 'p2', soilTemps: [{ depthCm: 6.5, tempC: 9.5 }] }, { ...first, id: 'p3', soilTemps: [{ depthCm: 8, tempC: 4 }] }];
+    const reps = [
+      first,
+      { ...first, id: 'p2', soilTemps: [{ depthCm: 6.5, tempC: 9.5 }] },
+      { ...first, id: 'p3', soilTemps: [{ depthCm: 8, tempC: 4 }] },
+    ];
     const { testid } = await render({ kind: 'topp' }, reps[2], reps, 2);
     expect(testid('probe-stats')).toContain('soil 8.5 °C at 5 cm, SD 1.4 (n = 2)');
-    expect(testid('probe-off-depth')).toContain('1 temperature was taken more than ±2 cm from the site\'s 5 cm probe depth');
+    expect(testid('probe-off-depth')).toContain("1 temperature was taken more than ±2 cm from the site's 5 cm probe depth");
     expect(testid('replicate-2')).not.toContain('off depth');
     expect(testid('replicate-3')).toContain('4 °C at 8 cm (off depth)');
   });

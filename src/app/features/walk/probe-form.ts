@@ -1,5 +1,17 @@
 import { DecimalPipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, DestroyRef, ElementRef, computed, effect, inject, input, output, signal, untracked } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  DestroyRef,
+  ElementRef,
+  computed,
+  effect,
+  inject,
+  input,
+  output,
+  signal,
+  untracked,
+} from '@angular/core';
 import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
 import { FormArray, FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -19,19 +31,29 @@ import { ProbeReplicateList, type ReplicateRow } from './probe-replicate-list';
 export { readProbe, type ProbeKit, type ProbeReadingInput } from './probe-input';
 
 /** One replicate to store under its id (a new id is a new replicate; the same id corrects it). */
-export interface ProbeSave { id: string; reading: ProbeReadingInput }
+export interface ProbeSave {
+  id: string;
+  reading: ProbeReadingInput;
+}
 
 /** A stored probe replicate as the device keeps it. */
 export type ProbeRecord = Partial<z.infer<typeof probeReadingFields>> & { id: string };
 
 type DepthRow = FormGroup<{ depth: FormControl<string>; temp: FormControl<string> }>;
 const text = (v: unknown) => (v === null || v === undefined ? '' : String(v));
-const depthRow = (depth: string, temp = ''): DepthRow => new FormGroup({ depth: new FormControl(depth, { nonNullable: true }), temp: new FormControl(temp, { nonNullable: true }) });
+const depthRow = (depth: string, temp = ''): DepthRow =>
+  new FormGroup({ depth: new FormControl(depth, { nonNullable: true }), temp: new FormControl(temp, { nonNullable: true }) });
 /** What a reading says, compared by value: a stored record may list a depth's fields in any order. */
 const valuesOf = (r: Pick<ProbeRecord, 'soilTemps' | 'moistureRaw' | 'moistureKind' | 'rodLengthCm' | 'probeId'>) =>
-  JSON.stringify([(r.soilTemps ?? []).map((t) => [t.depthCm ?? null, t.tempC ?? null]), r.moistureRaw ?? null, r.moistureKind ?? null,
-    r.rodLengthCm ?? null, r.probeId ?? '']);
-const complete = (r: Pick<ProbeRecord, 'soilTemps' | 'moistureRaw'> | null) => !!r && (r.soilTemps?.length ?? 0) > 0 && typeof r.moistureRaw === 'number';
+  JSON.stringify([
+    (r.soilTemps ?? []).map((t) => [t.depthCm ?? null, t.tempC ?? null]),
+    r.moistureRaw ?? null,
+    r.moistureKind ?? null,
+    r.rodLengthCm ?? null,
+    r.probeId ?? '',
+  ]);
+const complete = (r: Pick<ProbeRecord, 'soilTemps' | 'moistureRaw'> | null) =>
+  !!r && (r.soilTemps?.length ?? 0) > 0 && typeof r.moistureRaw === 'number';
 
 /**
  * Soil temperature at one or more depths and soil moisture, as VWC or as permittivity converted
@@ -47,16 +69,54 @@ const complete = (r: Pick<ProbeRecord, 'soilTemps' | 'moistureRaw'> | null) => !
   templateUrl: './probe-form.html',
   styles: `
     // Rows 12 px apart: an outlined field's floating label rises above its box, over the field above.
-    .depth { display: grid; grid-template-columns: 1fr 1fr; gap: 12px; margin-top: 12px; }
+    .depth {
+      display: grid;
+      grid-template-columns: 1fr 1fr;
+      gap: 12px;
+      margin-top: 12px;
+    }
     // On a phone the moisture value takes the row and its reading kind goes below (the label stays whole).
-    @media (max-width: 599.98px) { .depth.moisture { grid-template-columns: 1fr; } }
-    mat-form-field { width: 100%; }
-    .vwc { font-size: 1.25rem; font-weight: 700; margin: 0 0 12px; }
-    .warning { border: 2px solid var(--mat-sys-error); padding: 8px 12px; border-radius: 8px; font-weight: 600; }
-    mat-radio-button { min-height: 48px; display: inline-flex; align-items: center; }
-    .row { display: flex; flex-wrap: wrap; gap: 8px; margin-bottom: 8px; }
-    .summary { display: flex; flex-wrap: wrap; align-items: center; justify-content: space-between; gap: 8px; margin: 0; }
-    button { min-height: 48px; }
+    @media (max-width: 599.98px) {
+      .depth.moisture {
+        grid-template-columns: 1fr;
+      }
+    }
+    mat-form-field {
+      width: 100%;
+    }
+    .vwc {
+      font-size: 1.25rem;
+      font-weight: 700;
+      margin: 0 0 12px;
+    }
+    .warning {
+      border: 2px solid var(--mat-sys-error);
+      padding: 8px 12px;
+      border-radius: 8px;
+      font-weight: 600;
+    }
+    mat-radio-button {
+      min-height: 48px;
+      display: inline-flex;
+      align-items: center;
+    }
+    .row {
+      display: flex;
+      flex-wrap: wrap;
+      gap: 8px;
+      margin-bottom: 8px;
+    }
+    .summary {
+      display: flex;
+      flex-wrap: wrap;
+      align-items: center;
+      justify-content: space-between;
+      gap: 8px;
+      margin: 0;
+    }
+    button {
+      min-height: 48px;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -119,7 +179,8 @@ export class ProbeForm {
         }
         this.form.patchValue({ kind: k.moistureKind, probeId: k.probeId, rod: text(k.rodLengthCm) });
         const temps = this.form.controls.temps;
-        if (temps.length === 1 && !temps.at(0).controls.temp.value) temps.at(0).controls.depth.setValue(String(depth), { emitEvent: false });
+        if (temps.length === 1 && !temps.at(0).controls.temp.value)
+          temps.at(0).controls.depth.setValue(String(depth), { emitEvent: false });
       });
     });
     this.form.valueChanges.pipe(debounceTime(AUTOSAVE_MS), takeUntilDestroyed(inject(DestroyRef))).subscribe(() => this.autosave());
@@ -129,9 +190,13 @@ export class ProbeForm {
     const temps = r.soilTemps ?? [];
     const arr = this.form.controls.temps;
     arr.clear({ emitEvent: false });
-    for (const t of temps.length ? temps : [{ depthCm: this.defaultDepthCm(), tempC: null }]) arr.push(depthRow(text(t.depthCm), text(t.tempC)), { emitEvent: false });
+    for (const t of temps.length ? temps : [{ depthCm: this.defaultDepthCm(), tempC: null }])
+      arr.push(depthRow(text(t.depthCm), text(t.tempC)), { emitEvent: false });
     this.form.patchValue({
-      kind: r.moistureKind ?? 'vwc', moisture: text(r.moistureRaw), rod: text(r.rodLengthCm), probeId: text(r.probeId),
+      kind: r.moistureKind ?? 'vwc',
+      moisture: text(r.moistureRaw),
+      rod: text(r.rodLengthCm),
+      probeId: text(r.probeId),
     });
   }
 
@@ -153,8 +218,11 @@ export class ProbeForm {
     const me = this.auth?.user()?.id ?? null;
     const cal = this.calibration();
     return this.records().map((r) => ({
-      id: r.id, takenAt: r.takenAt ?? '', takenBy: !r.takenById ? 'taker not recorded' : r.takenById === me ? 'you' : 'another member',
-      soilTemps: r.soilTemps ?? [], moistureText: this.moistureText(r),
+      id: r.id,
+      takenAt: r.takenAt ?? '',
+      takenBy: !r.takenById ? 'taker not recorded' : r.takenById === me ? 'you' : 'another member',
+      soilTemps: r.soilTemps ?? [],
+      moistureText: this.moistureText(r),
       vwcPct: probeVwcPct({ moistureRaw: r.moistureRaw ?? null, moistureKind: r.moistureKind ?? null }, cal),
     }));
   });
@@ -202,7 +270,8 @@ export class ProbeForm {
     const r = readProbe(this.form.getRawValue());
     if (!r.ok) {
       // Only what is typed is wrong: say so; nothing stored is touched.
-      if (this.form.controls.moisture.value.trim() || this.form.controls.temps.controls.some((t) => t.controls.temp.value.trim())) this.problem.set(r.message);
+      if (this.form.controls.moisture.value.trim() || this.form.controls.temps.controls.some((t) => t.controls.temp.value.trim()))
+        this.problem.set(r.message);
       return;
     }
     this.problem.set('');

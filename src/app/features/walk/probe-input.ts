@@ -46,17 +46,25 @@ export function readProbe(v: ProbeBoxes): { ok: true; reading: ProbeReadingInput
     if (!temp.ok) return temp;
     const depth = parseWithUnit(row.depth, /\s*cm$/i, 'Depth', 'cm');
     if (!depth.ok) return depth;
-    if (depth.value === null) return { ok: false, message: 'Give both depth and temperature for each soil temperature, or leave the temperature empty.' };
+    if (depth.value === null)
+      return { ok: false, message: 'Give both depth and temperature for each soil temperature, or leave the temperature empty.' };
     soilTemps.push({ depthCm: depth.value, tempC: temp.value! });
   }
-  const moisture = v.kind === 'vwc'
-    ? parseWithUnit(v.moisture, /\s*%$/, 'Moisture', '% VWC (e.g. 23.5)')
-    : parseWithUnit(v.moisture, /^$/, 'Permittivity', 'Ka, no unit (e.g. 20)');
+  const moisture =
+    v.kind === 'vwc'
+      ? parseWithUnit(v.moisture, /\s*%$/, 'Moisture', '% VWC (e.g. 23.5)')
+      : parseWithUnit(v.moisture, /^$/, 'Permittivity', 'Ka, no unit (e.g. 20)');
   if (!moisture.ok) return moisture;
   const rod = parseWithUnit(v.rod, /\s*cm$/i, 'Rod length', 'cm');
   if (!rod.ok) return rod;
   if (!soilTemps.length && moisture.value === null) return { ok: false, message: 'Enter a soil temperature or a moisture reading.' };
-  const reading: ProbeReadingInput = { soilTemps, moistureRaw: moisture.value, moistureKind: v.kind, rodLengthCm: rod.value, probeId: v.probeId.trim() };
+  const reading: ProbeReadingInput = {
+    soilTemps,
+    moistureRaw: moisture.value,
+    moistureKind: v.kind,
+    rodLengthCm: rod.value,
+    probeId: v.probeId.trim(),
+  };
   const checked = probeValuesSchema.safeParse(reading);
   if (!checked.success) return { ok: false, message: checked.error.issues[0].message };
   return { ok: true, reading };

@@ -27,14 +27,47 @@ export interface ReplicateRow {
   imports: [MatButtonModule, SiteTimePipe],
   templateUrl: './probe-replicate-list.html',
   styles: `
-    .stats { margin: 0 0 8px; font-weight: 600; }
-    ol { list-style: none; margin: 0 0 8px; padding: 0; }
-    li { display: flex; flex-wrap: wrap; align-items: center; justify-content: space-between; gap: 4px 8px; padding: 4px 0; border-bottom: 1px solid var(--mat-sys-outline-variant); }
-    li span { min-width: 0; overflow-wrap: anywhere; }
-    .off { font-weight: 600; color: var(--mat-sys-error); }
-    .warning { border: 2px solid var(--mat-sys-error); padding: 8px 12px; border-radius: 8px; font-weight: 600; }
-    .actions { display: flex; flex-wrap: wrap; gap: 8px; }
-    button { min-height: 48px; min-width: 48px; }
+    .stats {
+      margin: 0 0 8px;
+      font-weight: 600;
+    }
+    ol {
+      list-style: none;
+      margin: 0 0 8px;
+      padding: 0;
+    }
+    li {
+      display: flex;
+      flex-wrap: wrap;
+      align-items: center;
+      justify-content: space-between;
+      gap: 4px 8px;
+      padding: 4px 0;
+      border-bottom: 1px solid var(--mat-sys-outline-variant);
+    }
+    li span {
+      min-width: 0;
+      overflow-wrap: anywhere;
+    }
+    .off {
+      font-weight: 600;
+      color: var(--mat-sys-error);
+    }
+    .warning {
+      border: 2px solid var(--mat-sys-error);
+      padding: 8px 12px;
+      border-radius: 8px;
+      font-weight: 600;
+    }
+    .actions {
+      display: flex;
+      flex-wrap: wrap;
+      gap: 8px;
+    }
+    button {
+      min-height: 48px;
+      min-width: 48px;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

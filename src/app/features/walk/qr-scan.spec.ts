@@ -10,7 +10,11 @@ import { readFileSync } from 'node:fs';
 import path from 'node:path';
 
 /** The part of pngjs (installed with qrcode; it ships no types) that these tests use. */
-interface PngImage { width: number; height: number; data: Buffer }
+interface PngImage {
+  width: number;
+  height: number;
+  data: Buffer;
+}
 // eslint-disable-next-line @typescript-eslint/no-require-imports
 const { PNG } = require('pngjs') as {
   PNG: (new (o: { width: number; height: number }) => PngImage) & { sync: { read(b: Buffer): PngImage; write(p: PngImage): Buffer } };
@@ -29,7 +33,9 @@ const BLANK_TAG_ID = '9e8d7c6b-5a49-4382-a716-0f1e2d3c4b5a';
 
 function fixtureFrame(name: string): Frame {
   const png = PNG.sync.read(readFileSync(path.join(FIXTURES, name)));
-  return { pixels: { data: new Uint8ClampedArray(png.data.buffer, png.data.byteOffset, png.data.length), width: png.width, height: png.height } };
+  return {
+    pixels: { data: new Uint8ClampedArray(png.data.buffer, png.data.byteOffset, png.data.length), width: png.width, height: png.height },
+  };
 }
 
 /** A camera that shows one still frame (the fixture) instead of a video stream. */
@@ -108,7 +114,7 @@ describe('QR open path', () => {
     fixtureRef.destroy();
   });
 
-  it('when a tag address is opened directly (phone camera app), then Walk goes on to that collar\'s visit, or to install for a blank tag', async () => {
+  it("when a tag address is opened directly (phone camera app), then Walk goes on to that collar's visit, or to install for a blank tag", async () => {
     const { db } = await signedInDevice([provideRouter([{ path: 'walk', children: WALK_ROUTES }], withComponentInputBinding())]);
     await db.records('collar').put({ id: TAG_COLLAR_ID, rev: 1, siteId: TEST_SITE, code: 'W-01', deleted: false });
     const harness = await RouterTestingHarness.create();

@@ -1,4 +1,15 @@
-import { ChangeDetectionStrategy, Component, DestroyRef, ElementRef, computed, inject, input, output, signal, viewChild } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  DestroyRef,
+  ElementRef,
+  computed,
+  inject,
+  input,
+  output,
+  signal,
+  viewChild,
+} from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { readCollarTag, type CollarTag } from '../../../../shared/model/collar-tag';
 import { CameraFrames, type Frame } from './camera-frames';
@@ -22,7 +33,14 @@ import { TagOpener } from './tag-opener';
         <button mat-stroked-button type="button" (click)="stopScan()">Stop scanning</button>
       }
       <label class="file-button">
-        <input type="file" accept="image/*" capture="environment" class="fw-visually-hidden" [attr.aria-label]="words().photo" (change)="readPhoto($event)" />
+        <input
+          type="file"
+          accept="image/*"
+          capture="environment"
+          class="fw-visually-hidden"
+          [attr.aria-label]="words().photo"
+          (change)="readPhoto($event)"
+        />
         <span aria-hidden="true">{{ words().photo }}</span>
       </label>
     </div>
@@ -30,12 +48,37 @@ import { TagOpener } from './tag-opener';
     <p role="status" data-testid="qr-status">{{ status() }}</p>
   `,
   styles: `
-    .row { display: flex; flex-wrap: wrap; gap: 8px; }
-    button { min-height: 48px; }
-    .file-button { display: inline-flex; align-items: center; min-height: 48px; padding: 0 16px; border: 1px solid var(--mat-sys-outline); border-radius: 24px; cursor: pointer; font-weight: 600; }
-    .file-button:focus-within { outline: 3px solid var(--mat-sys-primary); outline-offset: 2px; }
-    video { width: 100%; max-height: 50vh; border-radius: 8px; margin-top: 8px; }
-    p:empty { display: none; }
+    .row {
+      display: flex;
+      flex-wrap: wrap;
+      gap: 8px;
+    }
+    button {
+      min-height: 48px;
+    }
+    .file-button {
+      display: inline-flex;
+      align-items: center;
+      min-height: 48px;
+      padding: 0 16px;
+      border: 1px solid var(--mat-sys-outline);
+      border-radius: 24px;
+      cursor: pointer;
+      font-weight: 600;
+    }
+    .file-button:focus-within {
+      outline: 3px solid var(--mat-sys-primary);
+      outline-offset: 2px;
+    }
+    video {
+      width: 100%;
+      max-height: 50vh;
+      border-radius: 8px;
+      margin-top: 8px;
+    }
+    p:empty {
+      display: none;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -45,9 +88,11 @@ export class QrScan {
   /** open: go to the tag's collar; adopt: hand the tag to the host (a new collar takes it). */
   readonly purpose = input<'open' | 'adopt'>('open');
   readonly tagRead = output<CollarTag>();
-  protected readonly words = computed(() => this.purpose() === 'adopt'
-    ? { scan: 'Scan the new tag', photo: 'Read a photo of the new tag' }
-    : { scan: 'Scan a tag', photo: 'Read a photo of the tag' });
+  protected readonly words = computed(() =>
+    this.purpose() === 'adopt'
+      ? { scan: 'Scan the new tag', photo: 'Read a photo of the new tag' }
+      : { scan: 'Scan a tag', photo: 'Read a photo of the tag' },
+  );
   private readonly video = viewChild.required<ElementRef<HTMLVideoElement>>('video');
   protected readonly scanning = signal(false);
   protected readonly status = signal('');

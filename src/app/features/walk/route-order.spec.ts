@@ -12,8 +12,11 @@ const done = [rec('o', { visitId: 'v' })];
 
 describe('Walk: a collar in a round', () => {
   it('when the lab rejected the only closure, then a closure is due again (as on the Board)', () => {
-    expect(collarProgress(DUE, [visit('v')], done, done, [closure('c', { reviewState: 'rejected' })]))
-      .toEqual({ state: 'partial', due: ['closure'], skipReason: null });
+    expect(collarProgress(DUE, [visit('v')], done, done, [closure('c', { reviewState: 'rejected' })])).toEqual({
+      state: 'partial',
+      due: ['closure'],
+      skipReason: null,
+    });
   });
 
   it('when the only closure has no samples yet, then it is not done', () => {
@@ -26,9 +29,14 @@ describe('Walk: a collar in a round', () => {
   });
 
   it('when a skipped and a worked visit share the round, then the worked one wins; skipped alone gives its reason', () => {
-    expect(collarProgress(DUE, [visit('s', { skipped: true, skipReason: 'flooded' }), visit('v')], done, done, [closure('c')]).state).toBe('complete');
-    expect(collarProgress(DUE, [visit('s', { skipped: true, skipReason: 'flooded' })], [], [], []))
-      .toEqual({ state: 'skipped', due: [], skipReason: 'flooded' });
+    expect(collarProgress(DUE, [visit('s', { skipped: true, skipReason: 'flooded' }), visit('v')], done, done, [closure('c')]).state).toBe(
+      'complete',
+    );
+    expect(collarProgress(DUE, [visit('s', { skipped: true, skipReason: 'flooded' })], [], [], [])).toEqual({
+      state: 'skipped',
+      due: [],
+      skipReason: 'flooded',
+    });
   });
 
   it('when a visit holds only its conditions, then the collar is partial and stays next in line', () => {
@@ -46,6 +54,8 @@ describe('Walk route summary words', () => {
   });
 
   it('when a route is empty, then every state counts zero', () => {
-    expect(routeSummary([])).toBe(`0 ${PROGRESS_STATE_WORDS.due}, 0 ${PROGRESS_STATE_WORDS.partial}, 0 ${PROGRESS_STATE_WORDS.complete}, 0 ${PROGRESS_STATE_WORDS.skipped}`);
+    expect(routeSummary([])).toBe(
+      `0 ${PROGRESS_STATE_WORDS.due}, 0 ${PROGRESS_STATE_WORDS.partial}, 0 ${PROGRESS_STATE_WORDS.complete}, 0 ${PROGRESS_STATE_WORDS.skipped}`,
+    );
   });
 });

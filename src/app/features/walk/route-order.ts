@@ -1,5 +1,12 @@
 import {
-  collarProgress as roundProgress, countVisits, dueItems, tallyRound, type ClosureFacts, type DueSettings, type ReadingFacts, type VisitFacts,
+  collarProgress as roundProgress,
+  countVisits,
+  dueItems,
+  tallyRound,
+  type ClosureFacts,
+  type DueSettings,
+  type ReadingFacts,
+  type VisitFacts,
 } from '../../../../shared/progress/visit-progress';
 import type { LocalRecord } from '../../core/db/db-schema';
 import { progressCountsText } from '../../../../shared/model/progress-state';
@@ -35,8 +42,14 @@ export function collarProgress(
   probes: readonly LocalRecord[],
   closures: readonly LocalRecord[],
 ): CollarProgress {
-  const tally = tallyRound(countVisits(visits as unknown as VisitFacts[], offsetSets as unknown as ReadingFacts[],
-    probes as unknown as ReadingFacts[], closures as unknown as ClosureFacts[]));
+  const tally = tallyRound(
+    countVisits(
+      visits as unknown as VisitFacts[],
+      offsetSets as unknown as ReadingFacts[],
+      probes as unknown as ReadingFacts[],
+      closures as unknown as ClosureFacts[],
+    ),
+  );
   const { state, skipReason } = roundProgress(due, [tally]);
   return { state, due: dueItems(due, tally), skipReason };
 }

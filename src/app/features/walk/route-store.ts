@@ -82,9 +82,15 @@ export async function loadRoutePlan(db: FluxDb, p: RouteParams): Promise<RoutePl
 
 export async function loadRoundRecords(db: FluxDb, p: { campaignId: string | null; round: number }): Promise<RoundRecords> {
   if (!p.campaignId) return { visits: [], offsetSets: [], probes: [], closures: [] };
-  const visits = await db.records('visit').where('campaignId').equals(p.campaignId).filter((v) => v['round'] === p.round && live(v)).toArray();
+  const visits = await db
+    .records('visit')
+    .where('campaignId')
+    .equals(p.campaignId)
+    .filter((v) => v['round'] === p.round && live(v))
+    .toArray();
   const ids = visits.map((v) => v.id);
-  const of = (entity: 'offsetSet' | 'probeReading' | 'closure') => (ids.length ? db.records(entity).where('visitId').anyOf(ids).filter(live).toArray() : []);
+  const of = (entity: 'offsetSet' | 'probeReading' | 'closure') =>
+    ids.length ? db.records(entity).where('visitId').anyOf(ids).filter(live).toArray() : [];
   const [offsetSets, probes, closures] = await Promise.all([of('offsetSet'), of('probeReading'), of('closure')]);
   return { visits, offsetSets, probes, closures };
 }
@@ -110,7 +116,10 @@ const untouchedRows = new WeakMap<RoutePlan, Map<string, RouteRow>>();
  * nothing recorded keeps its row object from one save to the next.
  */
 export function routeRows(plan: RoutePlan, round: RoundRecords): RouteRow[] {
-  const visits = byCollar(round.visits), sets = byCollar(round.offsetSets), probes = byCollar(round.probes), closures = byCollar(round.closures);
+  const visits = byCollar(round.visits),
+    sets = byCollar(round.offsetSets),
+    probes = byCollar(round.probes),
+    closures = byCollar(round.closures);
   const none: LocalRecord[] = [];
   let untouched = untouchedRows.get(plan);
   if (!untouched) untouchedRows.set(plan, (untouched = new Map()));
@@ -140,9 +149,14 @@ export class RouteStore {
   /** The route for the given choice, live; call in an injection context. */
   view(params: () => RouteParams): Signal<RouteView | null | undefined> {
     const out = signal<RouteView | null | undefined>(undefined);
-    const input = computed(() => ({ db: this.deviceDb.db(), p: params() }), { equal: (a, b) => a.db === b.db && keyOf(a.p) === keyOf(b.p) });
+    const input = computed(() => ({ db: this.deviceDb.db(), p: params() }), {
+      equal: (a, b) => a.db === b.db && keyOf(a.p) === keyOf(b.p),
+    });
     toObservable(input)
-      .pipe(switchMap(({ db, p }) => (db ? this.live(db, p) : of(undefined))), takeUntilDestroyed(inject(DestroyRef)))
+      .pipe(
+        switchMap(({ db, p }) => (db ? this.live(db, p) : of(undefined))),
+        takeUntilDestroyed(inject(DestroyRef)),
+      )
       .subscribe({ next: (v) => out.set(v), error: (e) => console.error('[route]', e) });
     return out.asReadonly();
   }
@@ -157,7 +171,9 @@ export class RouteStore {
       const plan$ = liveQuery$(() => loadRoutePlan(db, p)).pipe(retry({ delay: 1000 }));
       const round$ = liveQuery$(() => loadRoundRecords(db, p)).pipe(retry({ delay: 1000 }));
       view = combineLatest([plan$, round$]).pipe(
-        map(([plan, round]) => (plan ? { rows: routeRows(plan, round), due: plan.due, direction: plan.direction, rounds: plan.rounds, round: p.round } : null)),
+        map(([plan, round]) =>
+          plan ? { rows: routeRows(plan, round), due: plan.due, direction: plan.direction, rounds: plan.rounds, round: p.round } : null,
+        ),
         share({ connector: () => new ReplaySubject(1), resetOnRefCountZero: () => timer(KEEP_MS), resetOnError: true }),
       );
       byKey.set(key, view);

@@ -58,16 +58,23 @@ describe('Visit screen skip flow', () => {
 
   it('when the crew skips a collar with a reason, then a skipped visit and its outbox op are on the device and the screen shows the reason', async () => {
     const userId = `0000000${++userNo}-0000-4000-8000-00000000000a`.slice(-36);
-    localStorage.setItem('fw.session', JSON.stringify({
-      user: { id: userId, email: 'crew@fluxwalk.example', displayName: 'Crew', roles: ['crew'], siteIds: [SITE] },
-      sites: [{ id: SITE, name: 'Test site' }],
-    }));
+    localStorage.setItem(
+      'fw.session',
+      JSON.stringify({
+        user: { id: userId, email: 'crew@fluxwalk.example', displayName: 'Crew', roles: ['crew'], siteIds: [SITE] },
+        sites: [{ id: SITE, name: 'Test site' }],
+      }),
+    );
     TestBed.configureTestingModule({ providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting()] });
     const deviceDb = TestBed.inject(DeviceDb);
     const db: FluxDb = await until(() => deviceDb.db(), 'the database');
-    await db.records('site').put({ id: SITE, rev: 1, name: 'Test site', offsetSpreadPct: 3, offsetMoveCm: 1, moistureCalibration: { kind: 'topp' } });
+    await db
+      .records('site')
+      .put({ id: SITE, rev: 1, name: 'Test site', offsetSpreadPct: 3, offsetMoveCm: 1, moistureCalibration: { kind: 'topp' } });
     await db.records('plot').put({ id: PLOT, rev: 1, siteId: SITE, code: 'P1' });
-    await db.records('collar').put({ id: COLLAR, rev: 1, siteId: SITE, plotId: PLOT, code: 'W-03', shape: 'round', diameterCm: 20, status: 'active' });
+    await db
+      .records('collar')
+      .put({ id: COLLAR, rev: 1, siteId: SITE, plotId: PLOT, code: 'W-03', shape: 'round', diameterCm: 20, status: 'active' });
     await db.records('campaign').put({ id: CAMPAIGN, rev: 1, siteId: SITE, name: 'Dec', rounds: 2, routes: [] });
     TestBed.inject(WalkContext).update({ campaignId: CAMPAIGN, round: 2 });
 
@@ -85,7 +92,15 @@ describe('Visit screen skip flow', () => {
       return v.length ? v : null;
     }, 'the visit');
     expect(visits).toHaveLength(1);
-    expect(visits[0]).toMatchObject({ collarId: COLLAR, campaignId: CAMPAIGN, round: 2, siteId: SITE, skipped: true, skipReason: 'Plot flooded', crewId: userId });
+    expect(visits[0]).toMatchObject({
+      collarId: COLLAR,
+      campaignId: CAMPAIGN,
+      round: 2,
+      siteId: SITE,
+      skipped: true,
+      skipReason: 'Plot flooded',
+      crewId: userId,
+    });
     const ops = await db.outbox.toArray();
     expect(ops.map((o) => [o.entity, o.id, o.fields['skipped']])).toEqual([['visit', visits[0].id, true]]);
     await until(() => el.querySelector('[data-testid="skip-shown"]'), 'the skipped state');

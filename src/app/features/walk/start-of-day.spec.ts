@@ -14,7 +14,11 @@ const TALL_OLD = 'aaaaaaaa-0000-4000-8000-000000000001';
 const TALL = 'aaaaaaaa-0000-4000-8000-000000000002';
 const SHORT = 'aaaaaaaa-0000-4000-8000-000000000003';
 const ANALYZER = 'aaaaaaaa-0000-4000-8000-000000000004';
-const ids = { campaignId: 'aaaaaaaa-0000-4000-8000-000000000005', collarId: 'aaaaaaaa-0000-4000-8000-000000000006', visitId: 'aaaaaaaa-0000-4000-8000-000000000007' };
+const ids = {
+  campaignId: 'aaaaaaaa-0000-4000-8000-000000000005',
+  collarId: 'aaaaaaaa-0000-4000-8000-000000000006',
+  visitId: 'aaaaaaaa-0000-4000-8000-000000000007',
+};
 
 describe('Start of day: the crew’s chamber system', () => {
   afterEach(() => localStorage.clear());
@@ -24,7 +28,9 @@ describe('Start of day: the crew’s chamber system', () => {
     await db.records('site').put({ id: TEST_SITE, rev: 1, name: 'Test site', timezone: 'UTC', defaultProfileId: SHORT });
     await db.records('analyzer').put({ id: ANALYZER, rev: 1, siteId: TEST_SITE, name: 'A', serial: '' });
     const profile = (id: string, name: string, validFrom: string, settleS: number) =>
-      db.records('chamberProfile').put({ id, rev: 1, siteId: TEST_SITE, name, validFrom, chamberVolumeCm3: 4000, loopVolumeCm3: 100, settleS });
+      db
+        .records('chamberProfile')
+        .put({ id, rev: 1, siteId: TEST_SITE, name, validFrom, chamberVolumeCm3: 4000, loopVolumeCm3: 100, settleS });
     await profile(TALL_OLD, 'Tall', '2020-01-01', 25);
     await profile(TALL, 'Tall', '2021-01-01', 30);
     await profile(SHORT, 'Short', '2021-06-01', 15);
@@ -32,7 +38,10 @@ describe('Start of day: the crew’s chamber system', () => {
     const fixture = TestBed.createComponent(StartOfDay);
     const loader = TestbedHarnessEnvironment.loader(fixture);
     const select = await loader.getHarness(MatSelectHarness.with({ selector: '[data-testid="chamber-profile"]' }));
-    await until(async () => { await select.open(); return (await select.getOptions()).length === 2 ? true : null; }, 'the chambers');
+    await until(async () => {
+      await select.open();
+      return (await select.getOptions()).length === 2 ? true : null;
+    }, 'the chambers');
     expect(await Promise.all((await select.getOptions()).map((o) => o.getText()))).toEqual(['Short', 'Tall']);
     await select.clickOptions({ text: 'Tall' });
     expect(TestBed.inject(WalkContext).choice().profileId).toBe(TALL);
@@ -43,8 +52,13 @@ describe('Start of day: the crew’s chamber system', () => {
     const tS = [0, 10, 20, 30];
     const rec = await TestBed.inject(ClosureWrites).createFromPiece(
       { siteId: TEST_SITE, ...ids, analyzerId: ANALYZER, profileId: TestBed.inject(WalkContext).choice().profileId },
-      site, profiles, { tS, co2Ppm: [420, 421, 422, 423], h2oMmolMol: null, pressureKpa: null, tempC: null },
-      '2026-06-01T09:00:00.000Z', '2026-06-01T09:00:30.000Z', null);
+      site,
+      profiles,
+      { tS, co2Ppm: [420, 421, 422, 423], h2oMmolMol: null, pressureKpa: null, tempC: null },
+      '2026-06-01T09:00:00.000Z',
+      '2026-06-01T09:00:30.000Z',
+      null,
+    );
     expect(rec).toMatchObject({ profileId: TALL, analyzerId: ANALYZER, settleS: 30 });
     fixture.destroy();
   });
@@ -59,7 +73,9 @@ describe('Start of day: the site’s day and time', () => {
     await db.records('site').put({ id: TEST_SITE, rev: 1, name: 'Test site', timezone: ZONE });
     let n = 0;
     for (const c of checks) {
-      await db.records('analyzerCheck').put({ id: `bbbbbbbb-0000-4000-8000-00000000000${++n}`, rev: 1, siteId: TEST_SITE, skipped: false, passed: true, ...c });
+      await db
+        .records('analyzerCheck')
+        .put({ id: `bbbbbbbb-0000-4000-8000-00000000000${++n}`, rev: 1, siteId: TEST_SITE, skipped: false, passed: true, ...c });
     }
     const fixture = TestBed.createComponent(StartOfDay);
     const el = fixture.nativeElement as HTMLElement;
@@ -70,7 +86,10 @@ describe('Start of day: the site’s day and time', () => {
     // The device runs in UTC; Auckland is 12 or 13 hours ahead.
     const at = new Date(Date.now() - 60_000).toISOString();
     const { fixture, el } = await render([{ kind: 'safety-ack', at }]);
-    const shown = await until(async () => { fixture.detectChanges(); return el.querySelector('[data-testid="check-safety-ack"] [data-testid="check-result"]')?.textContent ?? null; }, 'the check');
+    const shown = await until(async () => {
+      fixture.detectChanges();
+      return el.querySelector('[data-testid="check-safety-ack"] [data-testid="check-result"]')?.textContent ?? null;
+    }, 'the check');
     expect(shown.replace(/\s+/g, ' ')).toContain(`(${formatSiteTime(at, ZONE, { timeOnly: true })})`);
     fixture.destroy();
   });
@@ -82,8 +101,14 @@ describe('Start of day: the site’s day and time', () => {
     // An instant between the two starts is "today" on one clock and "yesterday" on the other.
     const between = new Date(Math.min(deviceStart, siteStart) + Math.abs(siteStart - deviceStart) / 2).toISOString();
     const todayAtSite = between >= new Date(siteStart).toISOString();
-    const { fixture, el } = await render([{ kind: 'warm-up', at: between }, { kind: 'safety-ack', at: new Date(now.getTime() - 1000).toISOString() }]);
-    await until(async () => { fixture.detectChanges(); return el.querySelector('[data-testid="check-safety-ack"] [data-testid="check-result"]'); }, 'the checks');
+    const { fixture, el } = await render([
+      { kind: 'warm-up', at: between },
+      { kind: 'safety-ack', at: new Date(now.getTime() - 1000).toISOString() },
+    ]);
+    await until(async () => {
+      fixture.detectChanges();
+      return el.querySelector('[data-testid="check-safety-ack"] [data-testid="check-result"]');
+    }, 'the checks');
     expect(!!el.querySelector('[data-testid="check-warm-up"] [data-testid="check-result"]')).toBe(todayAtSite);
     fixture.destroy();
   });

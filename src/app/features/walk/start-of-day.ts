@@ -40,7 +40,10 @@ export class StartOfDay {
   protected readonly choice = this.walk.choice;
   protected readonly options = walkOptions(() => this.site()?.id ?? null);
   // Asked once the site's record (its zone) is read, so "today" is never the UTC day for a moment.
-  private readonly checks = todayChecks(() => ({ siteId: this.options() ? this.site()?.id ?? null : null, since: siteDayStart(this.timeZone()) }));
+  private readonly checks = todayChecks(() => ({
+    siteId: this.options() ? (this.site()?.id ?? null) : null,
+    since: siteDayStart(this.timeZone()),
+  }));
   protected readonly items = CHECK_ITEMS;
   protected readonly latest = computed(() => {
     const by: Partial<Record<string, LocalRecord>> = {};
@@ -51,15 +54,23 @@ export class StartOfDay {
   protected readonly leakLimit = computed(() => Number(this.options()?.site?.['leakSlopeUmolMolS'] ?? 0.05));
   protected readonly timeZone = computed(() => String(this.options()?.site?.['timezone'] ?? 'UTC'));
   /** The settle time of the site's current chamber profile: the sealed-plate closure is fitted like any other. */
-  private readonly profiles = liveSignal(() => this.site()?.id ?? null, async (db, siteId) =>
-    siteId ? (await db.records('chamberProfile').where('siteId').equals(siteId).toArray()).filter((p) => !p.deleted) : [], []);
+  private readonly profiles = liveSignal(
+    () => this.site()?.id ?? null,
+    async (db, siteId) =>
+      siteId ? (await db.records('chamberProfile').where('siteId').equals(siteId).toArray()).filter((p) => !p.deleted) : [],
+    [],
+  );
   protected readonly settleDefault = computed(() => {
     const today = siteToday(this.timeZone());
-    const current = this.profiles().filter((p) => String(p['validFrom']) <= today).sort((a, b) => String(b['validFrom']).localeCompare(String(a['validFrom'])))[0];
+    const current = this.profiles()
+      .filter((p) => String(p['validFrom']) <= today)
+      .sort((a, b) => String(b['validFrom']).localeCompare(String(a['validFrom'])))[0];
     return typeof current?.['settleS'] === 'number' ? current['settleS'] : TYPICAL_SETTLE_TIME_S;
   });
   protected readonly analyzer = computed(() => this.options()?.analyzers.find((a) => a.id === this.choice().analyzerId) ?? null);
-  protected readonly driftLimit = computed(() => Number(this.options()?.site?.['calibrationDriftLimitPct'] ?? DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT));
+  protected readonly driftLimit = computed(() =>
+    Number(this.options()?.site?.['calibrationDriftLimitPct'] ?? DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT),
+  );
   /** The site's chambers (one entry per profile name, its version valid today): the crew picks the one it carries. */
   protected readonly chambers = computed(() => {
     const today = siteToday(this.timeZone());
@@ -68,7 +79,8 @@ export class StartOfDay {
       const name = String(p['name'] ?? '');
       const best = byName.get(name);
       const valid = String(p['validFrom']) <= today;
-      if (!best || (valid && (String(best['validFrom']) > today || String(p['validFrom']) > String(best['validFrom'])))) byName.set(name, p);
+      if (!best || (valid && (String(best['validFrom']) > today || String(p['validFrom']) > String(best['validFrom']))))
+        byName.set(name, p);
     }
     return [...byName.entries()].sort(([a], [b]) => a.localeCompare(b)).map(([name, p]) => ({ id: p.id, name }));
   });
@@ -134,11 +146,16 @@ export class StartOfDay {
   protected summary(c: LocalRecord): string {
     if (c['skipped']) return `Skipped: ${c['skipReason']}`;
     switch (c['kind']) {
-      case 'ambient': return `${c['co2Ppm']} µmol/mol`;
-      case 'leak': return `${Number(c['slopeUmolMolS']).toFixed(4)} µmol/mol/s — ${c['passed'] ? 'passed' : 'FAILED: check seals and tubing'}`;
-      case 'clock': return `analyzer ${Number(c['clockOffsetS']) >= 0 ? '+' : ''}${c['clockOffsetS']} s against this phone`;
-      case 'safety-ack': return 'Acknowledged';
-      default: return 'Done';
+      case 'ambient':
+        return `${c['co2Ppm']} µmol/mol`;
+      case 'leak':
+        return `${Number(c['slopeUmolMolS']).toFixed(4)} µmol/mol/s — ${c['passed'] ? 'passed' : 'FAILED: check seals and tubing'}`;
+      case 'clock':
+        return `analyzer ${Number(c['clockOffsetS']) >= 0 ? '+' : ''}${c['clockOffsetS']} s against this phone`;
+      case 'safety-ack':
+        return 'Acknowledged';
+      default:
+        return 'Done';
     }
   }
 
@@ -147,7 +164,11 @@ export class StartOfDay {
   }
 
   /** Stores one check; a file it was read from (the leak check's logger file) is kept with it. */
-  private async record(kind: CheckKind, fields: Record<string, unknown>, file: { blob: Blob; fileName: string; mediaType: string } | null = null): Promise<void> {
+  private async record(
+    kind: CheckKind,
+    fields: Record<string, unknown>,
+    file: { blob: Blob; fileName: string; mediaType: string } | null = null,
+  ): Promise<void> {
     const siteId = this.site()?.id;
     if (!siteId) return this.fail('No site chosen.');
     const analyzerId = kind === 'safety-ack' ? null : this.choice().analyzerId;

@@ -46,7 +46,21 @@ type ConditionsForm = FormGroup<{ [K in keyof Required<VisitConditions>]: FormCo
  */
 @Component({
   selector: 'fw-visit-page',
-  imports: [SiteTimePipe, DecimalPipe, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatInputModule, OffsetForm, ProbeForm, ReactiveFormsModule, RouterLink, SkipForm, ClosurePanel, AirTempField],
+  imports: [
+    SiteTimePipe,
+    DecimalPipe,
+    MatButtonModule,
+    MatCheckboxModule,
+    MatFormFieldModule,
+    MatInputModule,
+    OffsetForm,
+    ProbeForm,
+    ReactiveFormsModule,
+    RouterLink,
+    SkipForm,
+    ClosurePanel,
+    AirTempField,
+  ],
   templateUrl: './visit-page.html',
   styleUrl: './walk.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -56,13 +70,21 @@ export class VisitPage {
   private readonly walk = inject(WalkContext);
   private readonly writes = inject(VisitWrites);
   protected readonly choice = this.walk.choice;
-  protected readonly view = visitView(() => ({ collarId: this.collarId(), campaignId: this.choice().campaignId, round: this.choice().round }));
+  protected readonly view = visitView(() => ({
+    collarId: this.collarId(),
+    campaignId: this.choice().campaignId,
+    round: this.choice().round,
+  }));
   protected readonly conditionList = CONDITIONS;
   protected readonly conditions: ConditionsForm = new FormGroup({
-    rainNow: new FormControl(false, { nonNullable: true }), rain24h: new FormControl(false, { nonNullable: true }),
-    standingWater: new FormControl(false, { nonNullable: true }), frostSnow: new FormControl(false, { nonNullable: true }),
-    trampled: new FormControl(false, { nonNullable: true }), animal: new FormControl(false, { nonNullable: true }),
-    other: new FormControl('', { nonNullable: true }), airTempC: new FormControl<number | null>(null),
+    rainNow: new FormControl(false, { nonNullable: true }),
+    rain24h: new FormControl(false, { nonNullable: true }),
+    standingWater: new FormControl(false, { nonNullable: true }),
+    frostSnow: new FormControl(false, { nonNullable: true }),
+    trampled: new FormControl(false, { nonNullable: true }),
+    animal: new FormControl(false, { nonNullable: true }),
+    other: new FormControl('', { nonNullable: true }),
+    airTempC: new FormControl<number | null>(null),
   });
   protected readonly busy = signal(false);
   protected readonly message = signal('');
@@ -82,10 +104,13 @@ export class VisitPage {
         // Take the stored conditions when the visit first appears, not while the crew is ticking boxes.
         if (this.loadedVisit === (v?.id ?? null)) return;
         this.loadedVisit = v?.id ?? null;
-        if (v?.['conditions']) this.conditions.setValue({ ...this.conditions.getRawValue(), ...(v['conditions'] as VisitConditions) }, { emitEvent: false });
+        if (v?.['conditions'])
+          this.conditions.setValue({ ...this.conditions.getRawValue(), ...(v['conditions'] as VisitConditions) }, { emitEvent: false });
       });
     });
-    this.conditions.valueChanges.pipe(debounceTime(AUTOSAVE_MS), takeUntilDestroyed(inject(DestroyRef))).subscribe(() => void this.saveConditions());
+    this.conditions.valueChanges
+      .pipe(debounceTime(AUTOSAVE_MS), takeUntilDestroyed(inject(DestroyRef)))
+      .subscribe(() => void this.saveConditions());
   }
 
   /** The next collar still due on the route, after this one in walking order (then from the top). */
@@ -134,11 +159,20 @@ export class VisitPage {
     const c = v.collar as unknown as Parameters<typeof collarAreaCm2>[0];
     const day = siteToday(this.zone());
     // The crew's own chamber (the one its closures carry), not the newest profile of the site.
-    const chamber = profileForClosure(v.profiles.map((p) => ({ ...p, areaCm2: 0 })), this.choice().profileId, day,
-      (v.site?.['defaultProfileId'] as string | null) ?? null);
+    const chamber = profileForClosure(
+      v.profiles.map((p) => ({ ...p, areaCm2: 0 })),
+      this.choice().profileId,
+      day,
+      (v.site?.['defaultProfileId'] as string | null) ?? null,
+    );
     return {
       day,
-      collarAreaCm2: collarAreaCm2({ shape: c.shape ?? 'round', diameterCm: c.diameterCm ?? null, sideACm: c.sideACm ?? null, sideBCm: c.sideBCm ?? null }),
+      collarAreaCm2: collarAreaCm2({
+        shape: c.shape ?? 'round',
+        diameterCm: c.diameterCm ?? null,
+        sideACm: c.sideACm ?? null,
+        sideBCm: c.sideBCm ?? null,
+      }),
       profiles: chamber.ok ? [chamber.profile] : [],
       thresholds: { offsetSpreadPct: Number(v.site?.['offsetSpreadPct'] ?? 3), offsetMoveCm: Number(v.site?.['offsetMoveCm'] ?? 1) },
     };
@@ -163,7 +197,9 @@ export class VisitPage {
   }
 
   protected saveOffsets(readings: number[]): Promise<void> {
-    return this.run('Offset set saved on this device.', (t, v) => this.writes.saveOffsetSet(t, v.visit, readings, v.offsetSet).then(() => undefined));
+    return this.run('Offset set saved on this device.', (t, v) =>
+      this.writes.saveOffsetSet(t, v.visit, readings, v.offsetSet).then(() => undefined),
+    );
   }
 
   protected saveProbe(p: ProbeSave): Promise<void> {

@@ -51,8 +51,14 @@ function daysSince(date: string, today: string): number {
  * hard limit closures should wait, within the warning limit they are flagged (common practice:
  * wait at least a day, better a week).
  */
-export function settlingNote(collar: LocalRecord, events: readonly LocalRecord[], site: LocalRecord | null, now = new Date()): SettlingNote | null {
-  const disturbing = events.filter((e) => ['installed', 'reseated'].includes(String(e['kind'])) && !e.deleted)
+export function settlingNote(
+  collar: LocalRecord,
+  events: readonly LocalRecord[],
+  site: LocalRecord | null,
+  now = new Date(),
+): SettlingNote | null {
+  const disturbing = events
+    .filter((e) => ['installed', 'reseated'].includes(String(e['kind'])) && !e.deleted)
     .map((e) => ({ date: String(e['date']), what: String(e['kind']) }));
   if (typeof collar['installedOn'] === 'string') disturbing.push({ date: collar['installedOn'], what: 'installed' });
   const latest = disturbing.sort((a, b) => b.date.localeCompare(a.date))[0];
@@ -66,7 +72,8 @@ export function settlingNote(collar: LocalRecord, events: readonly LocalRecord[]
   return null;
 }
 
-const newest = (list: LocalRecord[], field: string) => [...list].sort((a, b) => String(b[field]).localeCompare(String(a[field])))[0] ?? null;
+const newest = (list: LocalRecord[], field: string) =>
+  [...list].sort((a, b) => String(b[field]).localeCompare(String(a[field])))[0] ?? null;
 
 export async function loadVisit(db: FluxDb, key: VisitKey): Promise<VisitView | null> {
   const collar = await db.records('collar').get(key.collarId);
@@ -76,21 +83,60 @@ export async function loadVisit(db: FluxDb, key: VisitKey): Promise<VisitView | 
     db.records('site').get(siteId),
     db.records('plot').get(String(collar['plotId'])),
     db.records('collarEvent').where('collarId').equals(collar.id).toArray(),
-    db.records('visit').where('collarId').equals(collar.id).filter((v) => !v.deleted).toArray(),
-    db.records('offsetSet').where('collarId').equals(collar.id).filter((s) => !s.deleted).toArray(),
-    db.records('probeReading').where('collarId').equals(collar.id).filter((s) => !s.deleted).toArray(),
-    db.records('closure').where('collarId').equals(collar.id).filter((s) => !s.deleted).toArray(),
-    db.records('chamberProfile').where('siteId').equals(siteId).filter((s) => !s.deleted).toArray(),
+    db
+      .records('visit')
+      .where('collarId')
+      .equals(collar.id)
+      .filter((v) => !v.deleted)
+      .toArray(),
+    db
+      .records('offsetSet')
+      .where('collarId')
+      .equals(collar.id)
+      .filter((s) => !s.deleted)
+      .toArray(),
+    db
+      .records('probeReading')
+      .where('collarId')
+      .equals(collar.id)
+      .filter((s) => !s.deleted)
+      .toArray(),
+    db
+      .records('closure')
+      .where('collarId')
+      .equals(collar.id)
+      .filter((s) => !s.deleted)
+      .toArray(),
+    db
+      .records('chamberProfile')
+      .where('siteId')
+      .equals(siteId)
+      .filter((s) => !s.deleted)
+      .toArray(),
   ]);
   const treatmentId = (collar['treatmentId'] as string | null) ?? (plot?.['treatmentId'] as string | null) ?? null;
   const treatment = treatmentId ? await db.records('treatment').get(treatmentId) : undefined;
-  const visit = newest(visits.filter((v) => v['campaignId'] === key.campaignId && v['round'] === key.round), 'arrivedAt');
+  const visit = newest(
+    visits.filter((v) => v['campaignId'] === key.campaignId && v['round'] === key.round),
+    'arrivedAt',
+  );
   const superseded = new Set(sets.map((s) => s['supersedesId']).filter(Boolean));
   const current = sets.filter((s) => !superseded.has(s.id));
-  const offsetSet = visit ? newest(current.filter((s) => s['visitId'] === visit.id), 'takenAt') : null;
-  const lastOffsetSet = newest(current.filter((s) => !visit || s['visitId'] !== visit.id), 'takenAt');
-  const visitProbes = visit ? probes.filter((p) => p['visitId'] === visit.id)
-    .sort((a, b) => String(a['takenAt']).localeCompare(String(b['takenAt'])) || a.id.localeCompare(b.id)) : [];
+  const offsetSet = visit
+    ? newest(
+        current.filter((s) => s['visitId'] === visit.id),
+        'takenAt',
+      )
+    : null;
+  const lastOffsetSet = newest(
+    current.filter((s) => !visit || s['visitId'] !== visit.id),
+    'takenAt',
+  );
+  const visitProbes = visit
+    ? probes
+        .filter((p) => p['visitId'] === visit.id)
+        .sort((a, b) => String(a['takenAt']).localeCompare(String(b['takenAt'])) || a.id.localeCompare(b.id))
+    : [];
   const probe = visitProbes[visitProbes.length - 1] ?? null;
   const withFlux = closures.filter((c) => typeof c['fluxUmolM2S'] === 'number');
   const lastClosure = newest(withFlux, 'startedAt');
@@ -99,7 +145,13 @@ export async function loadVisit(db: FluxDb, key: VisitKey): Promise<VisitView | 
     site: site ?? null,
     plotCode: String(plot?.['code'] ?? ''),
     treatment: treatment ? [treatment['code'], treatment['name']].filter(Boolean).join(' · ') : '',
-    profiles: profiles.map((p) => ({ id: p.id, name: String(p['name'] ?? ''), validFrom: String(p['validFrom']), chamberVolumeCm3: Number(p['chamberVolumeCm3']), loopVolumeCm3: Number(p['loopVolumeCm3']) })),
+    profiles: profiles.map((p) => ({
+      id: p.id,
+      name: String(p['name'] ?? ''),
+      validFrom: String(p['validFrom']),
+      chamberVolumeCm3: Number(p['chamberVolumeCm3']),
+      loopVolumeCm3: Number(p['loopVolumeCm3']),
+    })),
     visit,
     offsetSet,
     lastOffsetSet,

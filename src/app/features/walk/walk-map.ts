@@ -1,4 +1,15 @@
-import { ChangeDetectionStrategy, Component, DestroyRef, ElementRef, NgZone, afterNextRender, computed, effect, inject, viewChild } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  DestroyRef,
+  ElementRef,
+  NgZone,
+  afterNextRender,
+  computed,
+  effect,
+  inject,
+  viewChild,
+} from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { Router, RouterLink } from '@angular/router';
 import * as L from 'leaflet';
@@ -44,19 +55,59 @@ function markerFace(mark: string, text: string, colour: string): HTMLElement {
       <h1>Map</h1>
       <p class="legend" data-testid="map-legend">{{ legend }} · ◎ you</p>
       <div #map class="map" role="region" aria-label="Map of the route's collars" data-testid="walk-map"></div>
-      @if (!tileUrl()) { <p class="muted">No map background: this site has no tile source, so nothing is downloaded.</p> }
+      @if (!tileUrl()) {
+        <p class="muted">No map background: this site has no tile source, so nothing is downloaded.</p>
+      }
     </div>
   `,
   styleUrl: './walk.scss',
   styles: `
-    .map { height: 62vh; min-height: 320px; border: 1px solid var(--mat-sys-outline); border-radius: 8px; background: #f4f1ea; }
-    .legend { font-size: 1.05rem; }
-    :host ::ng-deep .fw-marker { font-weight: 700; color: #111; }
-    :host ::ng-deep .fw-marker .face { display: contents; }
-    :host ::ng-deep .fw-marker .m { display: flex; align-items: center; justify-content: center; width: 48px; height: 48px; font-size: 30px; line-height: 1; background: rgba(255, 255, 255, 0.85); border-radius: 50%; }
-    :host ::ng-deep .fw-marker .t { position: absolute; height: 22px; box-sizing: border-box; background: #fff; border: 1px solid #111; border-radius: 4px; padding: 0 4px; font-size: 13px; line-height: 20px; white-space: nowrap; }
-    :host ::ng-deep .fw-marker .t.hidden { display: none; }
-    :host ::ng-deep .fw-marker:focus-visible { outline: 3px solid #0b57d0; }
+    .map {
+      height: 62vh;
+      min-height: 320px;
+      border: 1px solid var(--mat-sys-outline);
+      border-radius: 8px;
+      background: #f4f1ea;
+    }
+    .legend {
+      font-size: 1.05rem;
+    }
+    :host ::ng-deep .fw-marker {
+      font-weight: 700;
+      color: #111;
+    }
+    :host ::ng-deep .fw-marker .face {
+      display: contents;
+    }
+    :host ::ng-deep .fw-marker .m {
+      display: flex;
+      align-items: center;
+      justify-content: center;
+      width: 48px;
+      height: 48px;
+      font-size: 30px;
+      line-height: 1;
+      background: rgba(255, 255, 255, 0.85);
+      border-radius: 50%;
+    }
+    :host ::ng-deep .fw-marker .t {
+      position: absolute;
+      height: 22px;
+      box-sizing: border-box;
+      background: #fff;
+      border: 1px solid #111;
+      border-radius: 4px;
+      padding: 0 4px;
+      font-size: 13px;
+      line-height: 20px;
+      white-space: nowrap;
+    }
+    :host ::ng-deep .fw-marker .t.hidden {
+      display: none;
+    }
+    :host ::ng-deep .fw-marker:focus-visible {
+      outline: 3px solid #0b57d0;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -73,8 +124,11 @@ export class WalkMap {
     const c = this.walk.choice();
     return { campaignId: c.campaignId, routeId: c.routeId, round: c.round, flipped: c.flipped };
   });
-  private readonly plots = liveSignal(() => this.site()?.id ?? null, async (db, siteId) =>
-    siteId ? db.records('plot').where('siteId').equals(siteId).toArray() : [], []);
+  private readonly plots = liveSignal(
+    () => this.site()?.id ?? null,
+    async (db, siteId) => (siteId ? db.records('plot').where('siteId').equals(siteId).toArray() : []),
+    [],
+  );
   protected readonly legend = STATE_LEGEND;
   private map: L.Map | null = null;
   private placed: { marker: L.Marker; label: string }[] = [];
@@ -88,11 +142,14 @@ export class WalkMap {
       this.map?.remove();
     });
     afterNextRender(() => {
-      this.map = this.zone.runOutsideAngular(() => L.map(this.host().nativeElement, { zoomControl: true, attributionControl: true, maxZoom: 22 }).setView([0, 0], 2));
+      this.map = this.zone.runOutsideAngular(() =>
+        L.map(this.host().nativeElement, { zoomControl: true, attributionControl: true, maxZoom: 22 }).setView([0, 0], 2),
+      );
       Object.values(this.layers).forEach((l) => l.addTo(this.map!));
       this.map.on('zoomend moveend resize', () => this.layoutLabels());
       const url = this.tileUrl();
-      if (url) L.tileLayer(url, { attribution: escapeHtml(String(this.options()?.site?.['tileAttribution'] ?? '')), maxZoom: 20 }).addTo(this.map);
+      if (url)
+        L.tileLayer(url, { attribution: escapeHtml(String(this.options()?.site?.['tileAttribution'] ?? '')), maxZoom: 20 }).addTo(this.map);
       this.drawAll();
     });
     effect(() => {
@@ -111,7 +168,9 @@ export class WalkMap {
     for (const p of this.plots()) {
       const outline = p['outline'] as GeoJSON.Polygon | null;
       if (outline) {
-        L.geoJSON(outline, { style: { color: '#333', weight: 2, dashArray: '6 4', fillOpacity: 0.04 }, interactive: false }).addTo(this.layers.plots);
+        L.geoJSON(outline, { style: { color: '#333', weight: 2, dashArray: '6 4', fillOpacity: 0.04 }, interactive: false }).addTo(
+          this.layers.plots,
+        );
       }
     }
     this.layers.collars.clearLayers();
@@ -145,10 +204,22 @@ export class WalkMap {
     this.layers.me.clearLayers();
     const fix = this.gps.fix();
     if (fix) {
-      L.circle([fix.latitude, fix.longitude], { radius: fix.accuracyM, color: '#0b57d0', weight: 1, fillOpacity: 0.1, interactive: false }).addTo(this.layers.me);
+      L.circle([fix.latitude, fix.longitude], {
+        radius: fix.accuracyM,
+        color: '#0b57d0',
+        weight: 1,
+        fillOpacity: 0.1,
+        interactive: false,
+      }).addTo(this.layers.me);
       L.marker([fix.latitude, fix.longitude], {
-        icon: L.divIcon({ className: 'fw-marker', html: markerFace('◎', 'you', '#0b57d0'), iconSize: [MARKER_PX, MARKER_PX], iconAnchor: [MARKER_PX / 2, MARKER_PX / 2] }),
-        keyboard: false, interactive: false,
+        icon: L.divIcon({
+          className: 'fw-marker',
+          html: markerFace('◎', 'you', '#0b57d0'),
+          iconSize: [MARKER_PX, MARKER_PX],
+          iconAnchor: [MARKER_PX / 2, MARKER_PX / 2],
+        }),
+        keyboard: false,
+        interactive: false,
       }).addTo(this.layers.me);
     }
     if (!this.fitted && points.length) {

@@ -8,6 +8,10 @@ export const WALK_ROUTES: Routes = [
   { path: 'visit/:collarId', title: 'Visit · Fluxwalk', loadComponent: () => import('./visit-page').then((m) => m.VisitPage) },
   { path: 'collars/:id', loadComponent: () => import('./collar-open').then((m) => m.CollarOpen) },
   { path: 'install', title: 'Install a collar · Fluxwalk', loadComponent: () => import('./install-page').then((m) => m.InstallPage) },
-  { path: 'import', title: 'Logger file for the round · Fluxwalk', loadComponent: () => import('../closures/round-import').then((m) => m.RoundImport) },
+  {
+    path: 'import',
+    title: 'Logger file for the round · Fluxwalk',
+    loadComponent: () => import('../closures/round-import').then((m) => m.RoundImport),
+  },
   { path: 'map', title: 'Map · Fluxwalk', loadComponent: () => import('./walk-map').then((m) => m.WalkMap) },
 ];

@@ -17,16 +17,46 @@ describe('Walk route list', () => {
     const ids = Array.from({ length: COLLARS }, (_, i) => `${String(i).padStart(8, '0')}-0000-4000-8000-000000000000`);
     await db.records('site').put({ id: TEST_SITE, rev: 1, name: 'Test site', timezone: 'UTC' });
     await db.records('plot').put({ id: PLOT, rev: 1, siteId: TEST_SITE, code: 'P1' });
-    await db.records('collar').bulkPut(ids.map((id, i) => ({ id, rev: 1, siteId: TEST_SITE, plotId: PLOT, code: `L-${String(i + 1).padStart(5, '0')}`, status: 'active' })));
+    await db.records('collar').bulkPut(
+      ids.map((id, i) => ({
+        id,
+        rev: 1,
+        siteId: TEST_SITE,
+        plotId: PLOT,
+        code: `L-${String(i + 1).padStart(5, '0')}`,
+        status: 'active',
+      })),
+    );
     await db.records('route').put({ id: ROUTE, rev: 1, siteId: TEST_SITE, name: 'Long', collarIds: ids });
-    await db.records('campaign').put({ id: CAMPAIGN, rev: 1, siteId: TEST_SITE, name: 'Dec', rounds: 1, startsOn: '2026-12-01', routes: [{ routeId: ROUTE, direction: 'forward' }] });
-    await db.records('visit').put({ id: 'vvvvvvvv-0000-4000-8000-000000000000', rev: 1, siteId: TEST_SITE, campaignId: CAMPAIGN, collarId: ids[1], round: 1, arrivedAt: '2026-12-03T08:00:00Z', skipped: true, skipReason: 'Standing water' });
+    await db.records('campaign').put({
+      id: CAMPAIGN,
+      rev: 1,
+      siteId: TEST_SITE,
+      name: 'Dec',
+      rounds: 1,
+      startsOn: '2026-12-01',
+      routes: [{ routeId: ROUTE, direction: 'forward' }],
+    });
+    await db.records('visit').put({
+      id: 'vvvvvvvv-0000-4000-8000-000000000000',
+      rev: 1,
+      siteId: TEST_SITE,
+      campaignId: CAMPAIGN,
+      collarId: ids[1],
+      round: 1,
+      arrivedAt: '2026-12-03T08:00:00Z',
+      skipped: true,
+      skipReason: 'Standing water',
+    });
     TestBed.inject(WalkContext).update({ campaignId: CAMPAIGN, routeId: ROUTE, round: 1 });
 
     const fixture = TestBed.createComponent(Walk);
     const el = fixture.nativeElement as HTMLElement;
     const rows = () => Array.from(el.querySelectorAll<HTMLLIElement>('[data-testid="route-list"] li'));
-    await until(() => rows().length > 0 && el.textContent?.includes('Collars in walking order (4999 due, 0 partial, 0 complete, 1 skipped)'), 'the route');
+    await until(
+      () => rows().length > 0 && el.textContent?.includes('Collars in walking order (4999 due, 0 partial, 0 complete, 1 skipped)'),
+      'the route',
+    );
 
     // A screen's worth of rows and a few more (jsdom's window has no height: the buffer only); the rest of the 5 000 are not in the page.
     expect(rows().length).toBeGreaterThanOrEqual(4);

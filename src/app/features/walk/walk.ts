@@ -32,7 +32,17 @@ export const ROUTE_ROW_REM = 4.125;
  */
 @Component({
   selector: 'fw-walk',
-  imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatSlideToggleModule, QrScan, RouterLink, ScrollingModule],
+  imports: [
+    DecimalPipe,
+    MatButtonModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatSelectModule,
+    MatSlideToggleModule,
+    QrScan,
+    RouterLink,
+    ScrollingModule,
+  ],
   templateUrl: './walk.html',
   styleUrls: ['./walk.scss', './route-list.scss'],
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -54,7 +64,8 @@ export class Walk {
   });
   // Asked once the site's record (its zone) is read, so "today" is never the UTC day for a moment.
   private readonly checks = todayChecks(() => ({
-    siteId: this.options() ? this.site()?.id ?? null : null, since: siteDayStart(String(this.options()?.site?.['timezone'] ?? 'UTC')),
+    siteId: this.options() ? (this.site()?.id ?? null) : null,
+    since: siteDayStart(String(this.options()?.site?.['timezone'] ?? 'UTC')),
   }));
   protected readonly checksDone = computed(() => CHECK_ITEMS.filter((i) => this.checks().some((c) => c['kind'] === i.kind)).length);
   protected readonly checkCount = CHECK_ITEMS.length;
@@ -152,7 +163,9 @@ export class Walk {
       return list.find((c) => !c.deleted && String(c['code']).toLowerCase() === wanted) ?? null;
     });
     if (!found) {
-      this.codeProblem.set(`No collar ${typed} on this device. Check the code, sync when you have signal (it may be new), scan its tag, or install it as a new collar.`);
+      this.codeProblem.set(
+        `No collar ${typed} on this device. Check the code, sync when you have signal (it may be new), scan its tag, or install it as a new collar.`,
+      );
       return;
     }
     this.codeProblem.set('');

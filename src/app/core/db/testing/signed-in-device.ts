@@ -16,12 +16,18 @@ let userNo = 0;
  * TestBed with HTTP faked, and that user's own fresh device database (a new user each call, so
  * tests never share data). Extra providers replace the default empty router when given.
  */
-export async function signedInDevice(providers: (Provider | EnvironmentProviders)[] = [provideRouter([])], site: { timezone?: string } = {}): Promise<{ db: FluxDb; userId: string }> {
+export async function signedInDevice(
+  providers: (Provider | EnvironmentProviders)[] = [provideRouter([])],
+  site: { timezone?: string } = {},
+): Promise<{ db: FluxDb; userId: string }> {
   const userId = `${String(++userNo).padStart(8, '0')}-0000-4000-8000-0000000000ee`;
-  localStorage.setItem('fw.session', JSON.stringify({
-    user: { id: userId, email: 'crew@fluxwalk.example', displayName: 'Crew', roles: ['crew'], siteIds: [TEST_SITE] },
-    sites: [{ id: TEST_SITE, name: 'Test site', ...site }],
-  }));
+  localStorage.setItem(
+    'fw.session',
+    JSON.stringify({
+      user: { id: userId, email: 'crew@fluxwalk.example', displayName: 'Crew', roles: ['crew'], siteIds: [TEST_SITE] },
+      sites: [{ id: TEST_SITE, name: 'Test site', ...site }],
+    }),
+  );
   TestBed.configureTestingModule({ providers: [...providers, provideHttpClient(), provideHttpClientTesting()] });
   const db = await until(() => TestBed.inject(DeviceDb).db(), 'the database');
   return { db, userId };
@@ -33,6 +39,8 @@ export async function signedInDevice(providers: (Provider | EnvironmentProviders
  */
 export function zoneAwayFromDevice(now = new Date()): { zone: string; deviceDay: string } {
   const deviceDay = `${now.getFullYear()}-${String(now.getMonth() + 1).padStart(2, '0')}-${String(now.getDate()).padStart(2, '0')}`;
-  const zone = ['Pacific/Kiritimati', 'Pacific/Pago_Pago', 'Pacific/Auckland', 'Pacific/Honolulu'].find((z) => localDay(now, z) !== deviceDay)!;
+  const zone = ['Pacific/Kiritimati', 'Pacific/Pago_Pago', 'Pacific/Auckland', 'Pacific/Honolulu'].find(
+    (z) => localDay(now, z) !== deviceDay,
+  )!;
   return { zone, deviceDay };
 }

@@ -15,8 +15,24 @@ type Tab = 'summary' | 'response' | 'seasonal' | 'export';
   selector: 'fw-bench-results',
   imports: [ExportPanel, MatSelectModule, MatTabsModule, ResponseChart, SeasonalChart, SummaryTable],
   templateUrl: './bench-results.html',
-  styles: [`.options { display: flex; gap: 8px 16px; flex-wrap: wrap; margin: 8px 0; } .options mat-form-field { flex: 1 1 220px; min-width: 0; }
-    mat-tab-nav-panel { display: block; padding-top: 8px; }`],
+  styles: [
+    `
+      .options {
+        display: flex;
+        gap: 8px 16px;
+        flex-wrap: wrap;
+        margin: 8px 0;
+      }
+      .options mat-form-field {
+        flex: 1 1 220px;
+        min-width: 0;
+      }
+      mat-tab-nav-panel {
+        display: block;
+        padding-top: 8px;
+      }
+    `,
+  ],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class BenchResults {
@@ -31,8 +47,10 @@ export class BenchResults {
   protected readonly loading = signal(false);
   protected readonly problem = signal('');
   protected readonly tabs: { id: Tab; label: string }[] = [
-    { id: 'summary', label: 'Treatment summary' }, { id: 'response', label: 'Temperature response' },
-    { id: 'seasonal', label: 'Seasonal totals' }, { id: 'export', label: 'Data package' },
+    { id: 'summary', label: 'Treatment summary' },
+    { id: 'response', label: 'Temperature response' },
+    { id: 'seasonal', label: 'Seasonal totals' },
+    { id: 'export', label: 'Data package' },
   ];
   private seq = 0;
 
@@ -40,16 +58,27 @@ export class BenchResults {
     effect(() => void this.load(this.tab(), this.siteId(), this.selection(), this.model()));
   }
 
-  protected choose(t: Tab): void { this.tab.set(t); }
+  protected choose(t: Tab): void {
+    this.tab.set(t);
+  }
 
   private async load(tab: Tab, siteId: string, sel: ClosureSelection, model: string): Promise<void> {
     if (tab === 'export') return;
     const seq = ++this.seq;
     this.loading.set(true);
     try {
-      if (tab === 'summary') { const s = await this.api.summary(siteId, sel); if (seq === this.seq) this.summary.set(s); }
-      if (tab === 'response') { const r = await this.api.responses(siteId, sel); if (seq === this.seq) this.responses.set(r); }
-      if (tab === 'seasonal') { const s = await this.api.seasonal(siteId, sel, model); if (seq === this.seq) this.seasonal.set(s); }
+      if (tab === 'summary') {
+        const s = await this.api.summary(siteId, sel);
+        if (seq === this.seq) this.summary.set(s);
+      }
+      if (tab === 'response') {
+        const r = await this.api.responses(siteId, sel);
+        if (seq === this.seq) this.responses.set(r);
+      }
+      if (tab === 'seasonal') {
+        const s = await this.api.seasonal(siteId, sel, model);
+        if (seq === this.seq) this.seasonal.set(s);
+      }
       this.problem.set('');
     } catch (err) {
       this.problem.set(serverMessage(err, 'The results could not be loaded'));

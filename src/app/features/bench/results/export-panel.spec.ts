@@ -8,7 +8,9 @@ import { ResultsApi } from './results-api';
 describe('ExportPanel', () => {
   it('when no licence is chosen, then the package cannot be built; once one is, the export asks for it by SPDX id', async () => {
     const startExport = jest.fn().mockResolvedValue({ jobId: 'job-1' });
-    const exportJob = jest.fn().mockResolvedValue({ job: { id: 'job-1', state: 'completed', done: 3, total: 3, error: null, result: { fileName: 'f.zip', sizeBytes: 2048 } } });
+    const exportJob = jest.fn().mockResolvedValue({
+      job: { id: 'job-1', state: 'completed', done: 3, total: 3, error: null, result: { fileName: 'f.zip', sizeBytes: 2048 } },
+    });
     TestBed.configureTestingModule({ imports: [ExportPanel], providers: [{ provide: ResultsApi, useValue: { startExport, exportJob } }] });
     const fixture = TestBed.createComponent(ExportPanel);
     fixture.componentRef.setInput('siteId', 'site-1');

@@ -8,8 +8,9 @@ async function render() {
   fixture.componentRef.setInput('data', SEASONAL);
   await fixture.whenStable();
   const el = fixture.nativeElement as HTMLElement;
-  const rows = Array.from(el.querySelectorAll('[data-testid="seasonal-table"] tbody tr'))
-    .map((r) => Array.from(r.children).map((c) => c.textContent!.replace(/\s+/g, ' ').trim()));
+  const rows = Array.from(el.querySelectorAll('[data-testid="seasonal-table"] tbody tr')).map((r) =>
+    Array.from(r.children).map((c) => c.textContent!.replace(/\s+/g, ' ').trim()),
+  );
   return { el, rows };
 }
 
@@ -27,9 +28,17 @@ describe('SeasonalChart', () => {
 
   it('when plots are listed, then each shows its days, the logger depth beside the response depth, and its notes', async () => {
     const { el } = await render();
-    const rows = Array.from(el.querySelectorAll('[data-testid="seasonal-plots"] tbody tr'))
-      .map((r) => Array.from(r.children).map((c) => c.textContent!.replace(/\s+/g, ' ').trim()));
-    expect(rows[0]).toEqual(['CTRL', 'P1', '400', '80 / 11 / 0', '5 cm / 5 cm', 'interpolated days use means of daytime visits (6–18 h) as daily means: diel bias']);
+    const rows = Array.from(el.querySelectorAll('[data-testid="seasonal-plots"] tbody tr')).map((r) =>
+      Array.from(r.children).map((c) => c.textContent!.replace(/\s+/g, ' ').trim()),
+    );
+    expect(rows[0]).toEqual([
+      'CTRL',
+      'P1',
+      '400',
+      '80 / 11 / 0',
+      '5 cm / 5 cm',
+      'interpolated days use means of daytime visits (6–18 h) as daily means: diel bias',
+    ]);
     expect(rows[1].slice(0, 5)).toEqual(['CTRL', 'P2', '425', '85 / 6 / 0', '10 cm / 5 cm (differ)']);
     expect(rows[2].slice(0, 3)).toEqual(['CTRL', 'P3', 'too little signal']);
     expect(el.querySelector('[data-testid="seasonal-plots"] tbody tr:nth-child(2) td.differs')).not.toBeNull();
@@ -42,9 +51,15 @@ describe('SeasonalChart', () => {
     expect(lines[0].getAttribute('d')!.split('L')).toHaveLength(3);
     expect(lines[1].getAttribute('d')).toBe('');
     expect(el.querySelector('.method')!.textContent).toBe(`${SEASONAL.method} Response used: Lloyd & Taylor, fitted on the log scale.`);
-    expect(el.querySelector('[data-testid="interval-note"]')!.textContent).toContain('leaves out the uncertainty of the response parameters and of the gap filling');
+    expect(el.querySelector('[data-testid="interval-note"]')!.textContent).toContain(
+      'leaves out the uncertainty of the response parameters and of the gap filling',
+    );
     expect(el.querySelector('caption')!.textContent).toBe('Seasonal totals 2026-04-01 – 2026-06-30');
     // Month ticks on the first of each month after the start.
-    expect(Array.from(el.querySelectorAll('text.axis')).map((t) => t.textContent).filter((t) => /^[A-Z][a-z]{2}$/.test(t!))).toEqual(['Apr', 'May', 'Jun']);
+    expect(
+      Array.from(el.querySelectorAll('text.axis'))
+        .map((t) => t.textContent)
+        .filter((t) => /^[A-Z][a-z]{2}$/.test(t!)),
+    ).toEqual(['Apr', 'May', 'Jun']);
   });
 });

@@ -8,14 +8,27 @@ async function render() {
   fixture.componentRef.setInput('data', SUMMARY);
   await fixture.whenStable();
   const el = fixture.nativeElement as HTMLElement;
-  const cells = (sel: string) => Array.from(el.querySelectorAll(sel)).map((r) => Array.from(r.children).map((c) => c.textContent!.replace(/\s+/g, ' ').trim()));
+  const cells = (sel: string) =>
+    Array.from(el.querySelectorAll(sel)).map((r) => Array.from(r.children).map((c) => c.textContent!.replace(/\s+/g, ' ').trim()));
   return { el, cells };
 }
 
 describe('SummaryTable', () => {
   it('when cell means arrive, then each campaign × treatment is a row with mean ± SE, SE over blocks and n at every level', async () => {
     const { cells } = await render();
-    expect(cells('thead tr')[0]).toEqual(['Campaign', 'Treatment', 'Mean', '± SE', 'SEblock', 'n plots', 'collars', 'visits', 'closures', 'Soil °C', 'VWC %']);
+    expect(cells('thead tr')[0]).toEqual([
+      'Campaign',
+      'Treatment',
+      'Mean',
+      '± SE',
+      'SEblock',
+      'n plots',
+      'collars',
+      'visits',
+      'closures',
+      'Soil °C',
+      'VWC %',
+    ]);
     expect(cells('tbody tr')).toEqual([
       ['April round', 'CTRL', '2.35', '0.12', '0.10', '4', '12', '12', '36', '8.4', '31.3'],
       // One plot: no SE can be given, and a missing temperature or moisture is a dash, not a zero.

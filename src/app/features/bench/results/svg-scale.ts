@@ -1,5 +1,8 @@
 /** Linear scales and "nice" ticks for the small SVG charts of the results screens. */
-export interface Scale { (v: number): number; ticks: number[] }
+export interface Scale {
+  (v: number): number;
+  ticks: number[];
+}
 
 export function linearScale(lo: number, hi: number, from: number, to: number, tickCount = 5): Scale {
   if (!(hi > lo)) hi = lo + 1;
