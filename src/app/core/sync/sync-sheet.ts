@@ -37,58 +37,36 @@ interface PendingRow {
       <h2 id="sync-sheet-title">{{ engine.view().label }}</h2>
       <p class="muted">
         Last successful sync:
-        @if (engine.lastSuccess(); as t) {
-          {{ t | siteTime: zone() }}
-        } @else {
-          not yet on this device
-        }
+        @if (engine.lastSuccess(); as t) { {{ t | siteTime: zone() }} } @else { not yet on this device }
       </p>
-      @if (engine.lastError(); as e) {
-        <p class="error" role="alert">{{ e }}</p>
-      }
+      @if (engine.lastError(); as e) { <p class="error" role="alert">{{ e }}</p> }
 
       <div class="actions">
-        <button mat-flat-button type="button" (click)="syncNow()"><mat-icon aria-hidden="true">sync</mat-icon> Sync now</button>
+        <button mat-flat-button type="button" (click)="syncNow()">
+          <mat-icon aria-hidden="true">sync</mat-icon> Sync now
+        </button>
         <button mat-stroked-button type="button" (click)="saveBackup()">
           <mat-icon aria-hidden="true">download</mat-icon> Save a backup file
         </button>
         <a mat-button routerLink="/backup" (click)="close()">Load or open a backup file</a>
       </div>
-      @if (saved()) {
-        <p class="muted" role="status">Saved {{ saved() }}</p>
-      }
+      @if (saved()) { <p class="muted" role="status">Saved {{ saved() }}</p> }
 
       @if (engine.conflicts() > 0) {
-        <p>
-          <a mat-stroked-button routerLink="/conflicts" (click)="close()" data-testid="open-conflicts">
-            <mat-icon aria-hidden="true">call_split</mat-icon> Resolve {{ engine.conflicts() }} conflict{{
-              engine.conflicts() === 1 ? '' : 's'
-            }}
-          </a>
-        </p>
+        <p><a mat-stroked-button routerLink="/conflicts" (click)="close()" data-testid="open-conflicts">
+          <mat-icon aria-hidden="true">call_split</mat-icon> Resolve {{ engine.conflicts() }} conflict{{ engine.conflicts() === 1 ? '' : 's' }}
+        </a></p>
       }
 
       <h3>Not yet synced ({{ pending().length + waitingFiles().length }})</h3>
       @if (pending().length || waitingFiles().length) {
         <ul class="rows" data-testid="unsynced-list">
           @for (p of pending(); track p.key) {
-            <li>
-              <strong>{{ p.label }}</strong> · {{ p.what }} · {{ p.at | siteTime: zone() }}
-              @if (p.sent) {
-                · sent, waiting for the answer
-              }
-            </li>
+            <li><strong>{{ p.label }}</strong> · {{ p.what }} · {{ p.at | siteTime: zone() }}@if (p.sent) { · sent, waiting for the answer }</li>
           }
           @for (f of waitingFiles(); track f.key) {
-            <li data-testid="file-waiting">
-              <strong>File {{ f.name }}</strong> · {{ bytes(f.size) }} · waiting for upload
-              @if (f.attempts) {
-                · {{ f.attempts }} failed attempt{{ f.attempts === 1 ? '' : 's' }}, retried with the next sync
-                @if (f.error) {
-                  ({{ f.error }})
-                }
-              }
-            </li>
+            <li data-testid="file-waiting"><strong>File {{ f.name }}</strong> · {{ bytes(f.size) }} · waiting for upload
+              @if (f.attempts) { · {{ f.attempts }} failed attempt{{ f.attempts === 1 ? '' : 's' }}, retried with the next sync@if (f.error) { ({{ f.error }}) } }</li>
           }
         </ul>
       } @else {
@@ -100,9 +78,7 @@ interface PendingRow {
         <p class="muted">Safe on the server; a copy also stays on this device.</p>
         <ul class="rows" data-testid="uploaded-list">
           @for (f of uploadedFiles(); track f.key) {
-            <li>
-              <strong>{{ f.name }}</strong> · {{ bytes(f.size) }} · uploaded {{ f.uploadedAt | siteTime: zone() }}
-            </li>
+            <li><strong>{{ f.name }}</strong> · {{ bytes(f.size) }} · uploaded {{ f.uploadedAt | siteTime: zone() }}</li>
           }
         </ul>
       }
@@ -112,9 +88,7 @@ interface PendingRow {
         <p class="muted">Kept here and in the backup file; ask your lead if the reason is unclear.</p>
         <ul class="rows" data-testid="rejected-list">
           @for (r of rejected(); track r.key) {
-            <li>
-              <strong>{{ r.label }}</strong> · {{ r.what }} — {{ r.message }}
-            </li>
+            <li><strong>{{ r.label }}</strong> · {{ r.what }} — {{ r.message }}</li>
           }
         </ul>
       }
@@ -122,58 +96,22 @@ interface PendingRow {
       <h3>Storage on this device</h3>
       <p class="muted" data-testid="storage-status">
         @switch (storage.persisted()) {
-          @case (true) {
-            Kept by the browser (persistent storage granted).
-          }
-          @case (false) {
-            Not guaranteed: the browser may clear it after long disuse — sync often and keep backup files.
-          }
-          @default {
-            Persistence not known yet.
-          }
+          @case (true) { Kept by the browser (persistent storage granted). }
+          @case (false) { Not guaranteed: the browser may clear it after long disuse — sync often and keep backup files. }
+          @default { Persistence not known yet. }
         }
-        @if (storage.usage(); as u) {
-          Using {{ bytes(u.usage) }} of {{ bytes(u.quota) }}.
-        }
+        @if (storage.usage(); as u) { Using {{ bytes(u.usage) }} of {{ bytes(u.quota) }}. }
       </p>
     </section>
   `,
   styles: `
-    section {
-      padding: 8px 4px 16px;
-      max-height: 80vh;
-      overflow: auto;
-    }
-    h2 {
-      font: var(--mat-sys-title-large);
-      margin: 0 0 4px;
-    }
-    h3 {
-      font: var(--mat-sys-title-small);
-      margin: 16px 0 4px;
-    }
-    .muted {
-      color: var(--mat-sys-on-surface-variant);
-      margin: 4px 0;
-    }
-    .error {
-      color: var(--mat-sys-error);
-      font-weight: 600;
-    }
-    .actions {
-      display: flex;
-      flex-wrap: wrap;
-      gap: 8px;
-      margin: 8px 0;
-    }
-    .rows {
-      margin: 0;
-      padding-left: 20px;
-      li {
-        margin: 4px 0;
-        overflow-wrap: anywhere;
-      }
-    }
+    section { padding: 8px 4px 16px; max-height: 80vh; overflow: auto; }
+    h2 { font: var(--mat-sys-title-large); margin: 0 0 4px; }
+    h3 { font: var(--mat-sys-title-small); margin: 16px 0 4px; }
+    .muted { color: var(--mat-sys-on-surface-variant); margin: 4px 0; }
+    .error { color: var(--mat-sys-error); font-weight: 600; }
+    .actions { display: flex; flex-wrap: wrap; gap: 8px; margin: 8px 0; }
+    .rows { margin: 0; padding-left: 20px; li { margin: 4px 0; overflow-wrap: anywhere; } }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -17,22 +17,13 @@ import { MIN_PASSWORD_LENGTH, PASSWORD_HINT, describeAccountError } from './pass
       <form [formGroup]="form" (ngSubmit)="changePassword()" novalidate>
         <mat-form-field appearance="outline">
           <mat-label>Current password</mat-label>
-          <input
-            matInput
-            type="password"
-            name="currentPassword"
-            formControlName="currentPassword"
-            autocomplete="current-password"
-            required
-          />
+          <input matInput type="password" name="currentPassword" formControlName="currentPassword" autocomplete="current-password" required />
         </mat-form-field>
         <mat-form-field appearance="outline" subscriptSizing="dynamic">
           <mat-label>New password</mat-label>
           <input matInput type="password" name="newPassword" formControlName="newPassword" autocomplete="new-password" required />
           <mat-hint>{{ hint }}</mat-hint>
-          @if (form.controls.newPassword.invalid) {
-            <mat-error>{{ hint }}</mat-error>
-          }
+          @if (form.controls.newPassword.invalid) { <mat-error>{{ hint }}</mat-error> }
         </mat-form-field>
         <p class="problem" role="alert">{{ submit.problem() }}</p>
         <p class="done" role="status">{{ done() }}</p>
@@ -41,25 +32,10 @@ import { MIN_PASSWORD_LENGTH, PASSWORD_HINT, describeAccountError } from './pass
     </section>
   `,
   styles: `
-    .page {
-      max-width: 440px;
-      padding: 16px;
-    }
-    form {
-      display: flex;
-      flex-direction: column;
-      gap: 4px;
-    }
-    .problem {
-      color: var(--mat-sys-error);
-      font-weight: 600;
-      margin: 0;
-    }
-    .done {
-      color: var(--mat-sys-primary);
-      font-weight: 600;
-      margin: 0;
-    }
+    .page { max-width: 440px; padding: 16px; }
+    form { display: flex; flex-direction: column; gap: 4px; }
+    .problem { color: var(--mat-sys-error); font-weight: 600; margin: 0; }
+    .done { color: var(--mat-sys-primary); font-weight: 600; margin: 0; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -25,9 +25,7 @@ import { describeAccountError } from './password-hint';
             <mat-form-field appearance="outline">
               <mat-label>E-mail</mat-label>
               <input matInput type="email" name="email" formControlName="email" autocomplete="username" required />
-              @if (form.controls.email.invalid) {
-                <mat-error>Enter an e-mail address.</mat-error>
-              }
+              @if (form.controls.email.invalid) { <mat-error>Enter an e-mail address.</mat-error> }
             </mat-form-field>
             <p class="problem" role="alert">{{ submit.problem() }}</p>
             <button mat-flat-button type="submit" [disabled]="submit.busy()">Send the link</button>

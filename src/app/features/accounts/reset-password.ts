@@ -25,16 +25,12 @@ import { MIN_PASSWORD_LENGTH, PASSWORD_HINT, describeAccountError } from './pass
               <mat-label>New password</mat-label>
               <input matInput type="password" name="password" formControlName="password" autocomplete="new-password" required />
               <mat-hint>{{ hint }}</mat-hint>
-              @if (form.controls.password.invalid) {
-                <mat-error>{{ hint }}</mat-error>
-              }
+              @if (form.controls.password.invalid) { <mat-error>{{ hint }}</mat-error> }
             </mat-form-field>
             <p class="problem" role="alert">{{ submit.problem() }}</p>
             <button mat-flat-button type="submit" [disabled]="submit.busy() || !token()">Set the password</button>
           </form>
-          @if (!token()) {
-            <p class="problem">This link has no reset token in it. Open the link from the mail again.</p>
-          }
+          @if (!token()) { <p class="problem">This link has no reset token in it. Open the link from the mail again.</p> }
           <p><a routerLink="/forgot-password">Ask for a new link</a></p>
         }
       </section>

@@ -26,19 +26,13 @@ import { SyncEngine } from '../../core/sync/sync-engine';
   imports: [SiteTimePipe, MatButtonModule],
   template: `
     <h1>Backup files</h1>
-    <p>
-      A backup file holds every change on this device that the server does not have yet, and changes it refused. Keep it, or send it to your
-      lead, when you cannot sync for a long time.
-    </p>
+    <p>A backup file holds every change on this device that the server does not have yet, and changes it refused.
+      Keep it, or send it to your lead, when you cannot sync for a long time.</p>
     <p><button mat-flat-button type="button" (click)="save()">Save a backup file</button></p>
-    @if (saved()) {
-      <p role="status">Saved {{ saved() }}.</p>
-    }
+    @if (saved()) { <p role="status">Saved {{ saved() }}.</p> }
 
     <h2>Load or open a file</h2>
-    <label class="file"
-      >Backup file <input type="file" accept="application/json,.json" (change)="chosen($event)" data-testid="backup-input"
-    /></label>
+    <label class="file">Backup file <input type="file" accept="application/json,.json" (change)="chosen($event)" data-testid="backup-input" /></label>
     <p role="alert" class="problem">{{ problem() }}</p>
     <p role="status">{{ result() }}</p>
 
@@ -52,35 +46,18 @@ import { SyncEngine } from '../../core/sync/sync-engine';
         }
         <ul>
           @for (r of rows(); track $index) {
-            <li>
-              {{ r.entity }} {{ r.id.slice(0, 8) }} · {{ r.op === 'delete' ? 'deleted' : r.created ? 'created' : 'changed ' + fields(r) }} ·
-              {{ r.at | siteTime: zone() }}
-            </li>
+            <li>{{ r.entity }} {{ r.id.slice(0, 8) }} · {{ r.op === 'delete' ? 'deleted' : r.created ? 'created' : 'changed ' + fields(r) }} · {{ r.at | siteTime: zone() }}</li>
           }
         </ul>
-        @if (f.rejected.length) {
-          <p>{{ f.rejected.length }} change(s) in the file were refused by the server.</p>
-        }
+        @if (f.rejected.length) { <p>{{ f.rejected.length }} change(s) in the file were refused by the server.</p> }
       </section>
     }
   `,
   styles: `
-    h1 {
-      font: var(--mat-sys-headline-small);
-    }
-    .file {
-      display: inline-flex;
-      flex-direction: column;
-      gap: 4px;
-      font-weight: 600;
-    }
-    .problem {
-      color: var(--mat-sys-error);
-      font-weight: 600;
-    }
-    li {
-      overflow-wrap: anywhere;
-    }
+    h1 { font: var(--mat-sys-headline-small); }
+    .file { display: inline-flex; flex-direction: column; gap: 4px; font-weight: 600; }
+    .problem { color: var(--mat-sys-error); font-weight: 600; }
+    li { overflow-wrap: anywhere; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

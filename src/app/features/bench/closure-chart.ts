@@ -46,23 +46,8 @@ function curves(c: ChartInput) {
  */
 @Component({
   selector: 'fw-closure-chart',
-  template: `<div #plot class="plot" role="img" [attr.aria-label]="label()"></div>
-    <div #resid class="plot resid" aria-hidden="true"></div>`,
-  styles: [
-    `
-      :host {
-        display: block;
-        min-width: 0;
-      }
-      .plot {
-        width: 100%;
-        overflow: hidden;
-      }
-      .resid {
-        margin-top: 4px;
-      }
-    `,
-  ],
+  template: `<div #plot class="plot" role="img" [attr.aria-label]="label()"></div><div #resid class="plot resid" aria-hidden="true"></div>`,
+  styles: [`:host { display: block; min-width: 0; } .plot { width: 100%; overflow: hidden; } .resid { margin-top: 4px; }`],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ClosureChart implements OnDestroy {

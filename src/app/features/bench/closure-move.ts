@@ -26,9 +26,7 @@ export interface MoveTarget {
         <mat-form-field subscriptSizing="dynamic">
           <mat-label>Wrong collar? Move to</mat-label>
           <mat-select [formControl]="visit" data-testid="move-target">
-            @for (t of ordered(); track t.visitId) {
-              <mat-option [value]="t.visitId">Collar {{ t.collarCode }}, round {{ t.round }}</mat-option>
-            }
+            @for (t of ordered(); track t.visitId) { <mat-option [value]="t.visitId">Collar {{ t.collarCode }}, round {{ t.round }}</mat-option> }
           </mat-select>
         </mat-form-field>
         <button matButton="outlined" type="submit" [disabled]="busy() || !chosen()">Move the closure</button>

@@ -25,25 +25,14 @@ const PROFILE_SOURCE: Record<string, string> = {
   imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatSelectModule, SiteTimePipe],
   template: `
     @let r = c().results;
-    <p data-testid="closure-system">
-      Chamber “{{ r.profileName ?? '?' }}”
-      @if (r.profileSource) {
-        ({{ profileSource(r.profileSource) }})
-      }
-      · analyzer {{ analyzerName() }} · ambient
-      {{ r.ambientPpm === null ? 'none of this analyzer within 12 h' : (r.ambientPpm | number: '1.0-0') + ' µmol/mol' }}
-      @if (r.ambientAt) {
-        read {{ r.ambientAt | siteTime: detail().context.timezone }}
-      }
-      · chamber air temperature {{ airTemp() }}
-    </p>
+    <p data-testid="closure-system">Chamber “{{ r.profileName ?? '?' }}”@if (r.profileSource) { ({{ profileSource(r.profileSource) }}) }
+      · analyzer {{ analyzerName() }}
+      · ambient {{ r.ambientPpm === null ? 'none of this analyzer within 12 h' : (r.ambientPpm | number: '1.0-0') + ' µmol/mol' }}
+      @if (r.ambientAt) { read {{ r.ambientAt | siteTime: detail().context.timezone }} }
+      · chamber air temperature {{ airTemp() }}</p>
     @if (flags().length) {
       <ul class="flag-words" data-testid="flag-words">
-        @for (f of flags(); track f) {
-          <li>
-            <strong>{{ advice(f).words }}</strong> {{ advice(f).advice }} <code>{{ f }}</code>
-          </li>
-        }
+        @for (f of flags(); track f) { <li><strong>{{ advice(f).words }}</strong> {{ advice(f).advice }} <code>{{ f }}</code></li> }
       </ul>
     }
     @if (systems(); as s) {
@@ -51,22 +40,13 @@ const PROFILE_SOURCE: Record<string, string> = {
         <mat-form-field appearance="outline">
           <mat-label>Chamber profile</mat-label>
           <mat-select data-testid="system-profile" [value]="profileId()" (selectionChange)="profileId.set($event.value)">
-            @for (p of s.profiles; track p.id) {
-              <mat-option [value]="p.id">{{ p.name }} (from {{ p.validFrom }})</mat-option>
-            }
+            @for (p of s.profiles; track p.id) { <mat-option [value]="p.id">{{ p.name }} (from {{ p.validFrom }})</mat-option> }
           </mat-select>
         </mat-form-field>
         <mat-form-field appearance="outline">
           <mat-label>Analyzer</mat-label>
           <mat-select data-testid="system-analyzer" [value]="analyzerId()" (selectionChange)="analyzerId.set($event.value)">
-            @for (a of s.analyzers; track a.id) {
-              <mat-option [value]="a.id"
-                >{{ a.name }}
-                @if (a.serial) {
-                  ({{ a.serial }})
-                }
-              </mat-option>
-            }
+            @for (a of s.analyzers; track a.id) { <mat-option [value]="a.id">{{ a.name }}@if (a.serial) { ({{ a.serial }}) }</mat-option> }
           </mat-select>
         </mat-form-field>
         <button mat-stroked-button type="submit" [disabled]="busy() || !changed()">Correct the chamber system</button>
@@ -75,27 +55,9 @@ const PROFILE_SOURCE: Record<string, string> = {
   `,
   // The Bench's own form styles do not reach inside this component: the fields wrap, each wide enough for its floating label.
   styles: [
-    `
-      .flag-words {
-        margin: 4px 0;
-        padding-left: 20px;
-      }
-      .flag-words code {
-        color: #666;
-        font-size: 0.85em;
-      }
-      .decide {
-        display: flex;
-        flex-wrap: wrap;
-        gap: 8px 12px;
-        align-items: center;
-        margin: 8px 0;
-      }
-      .decide mat-form-field {
-        flex: 1 1 200px;
-        min-width: 180px;
-      }
-    `,
+    `.flag-words { margin: 4px 0; padding-left: 20px; } .flag-words code { color: #666; font-size: 0.85em; }
+    .decide { display: flex; flex-wrap: wrap; gap: 8px 12px; align-items: center; margin: 8px 0; }
+    .decide mat-form-field { flex: 1 1 200px; min-width: 180px; }`,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

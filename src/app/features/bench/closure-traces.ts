@@ -43,26 +43,14 @@ export function tracesOf(series: Record<string, Column>): Trace[] {
  */
 @Component({
   selector: 'fw-closure-traces',
-  template: ` @if (traces().length) {
+  template: `
+    @if (traces().length) {
       <div #box class="traces" role="img" [attr.aria-label]="label()"></div>
     } @else {
       <p class="none" data-testid="no-traces">This closure's file has no H2O, temperature or pressure column.</p>
     }`,
   styles: [
-    `
-      :host {
-        display: block;
-        min-width: 0;
-      }
-      .traces {
-        width: 100%;
-        overflow: hidden;
-      }
-      .none {
-        font-size: 0.85rem;
-        opacity: 0.8;
-      }
-    `,
+    `:host { display: block; min-width: 0; } .traces { width: 100%; overflow: hidden; } .none { font-size: 0.85rem; opacity: 0.8; }`,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -46,21 +46,11 @@ export function exclusionText(v: unknown): string {
     @if (groups().length) {
       <ul class="excluded" data-testid="excluded-points">
         @for (g of groups(); track g.from) {
-          <li>
-            <span
-              >Samples {{ g.from === g.to ? g.from : g.from + '–' + g.to }} (t {{ timeOf(g.from) }}
-              @if (g.to !== g.from) {
-                –{{ timeOf(g.to) }}
-              }
-              s): {{ g.reason }}</span
-            >
-            <button matButton type="button" [disabled]="busy()" (click)="pointsChange.emit({ restore: g.indices })">Put back</button>
-          </li>
+          <li><span>Samples {{ g.from === g.to ? g.from : g.from + '–' + g.to }} (t {{ timeOf(g.from) }}@if (g.to !== g.from) {–{{ timeOf(g.to) }}} s): {{ g.reason }}</span>
+            <button matButton type="button" [disabled]="busy()" (click)="pointsChange.emit({ restore: g.indices })">Put back</button></li>
         }
       </ul>
-    } @else {
-      <p>None: every sample in the window is fitted.</p>
-    }
+    } @else { <p>None: every sample in the window is fitted.</p> }
     <form class="decide" aria-label="Leave points out" [formGroup]="form" (ngSubmit)="leaveOut()">
       <mat-form-field subscriptSizing="dynamic">
         <mat-label>From (s)</mat-label>
@@ -73,9 +63,7 @@ export function exclusionText(v: unknown): string {
       <mat-form-field subscriptSizing="dynamic">
         <mat-label>Reason</mat-label>
         <mat-select formControlName="reason" data-testid="exclude-reason">
-          @for (r of reasons; track r) {
-            <mat-option [value]="r">{{ r }}</mat-option>
-          }
+          @for (r of reasons; track r) { <mat-option [value]="r">{{ r }}</mat-option> }
           <mat-option value="other">Other (type it)</mat-option>
         </mat-select>
       </mat-form-field>
@@ -86,29 +74,13 @@ export function exclusionText(v: unknown): string {
         </mat-form-field>
       }
       <button matButton="outlined" type="submit" [disabled]="busy() || !picked().length || !reasonText()">
-        Leave out {{ picked().length }} {{ picked().length === 1 ? 'point' : 'points' }}
-      </button>
+        Leave out {{ picked().length }} {{ picked().length === 1 ? 'point' : 'points' }}</button>
     </form>
     <p class="hint">Tap a point on the chart to pick it; left-out points are drawn as open red rings.</p>
   `,
   styles: [
-    `
-      .excluded {
-        padding-left: 20px;
-        margin: 4px 0;
-      }
-      .excluded li {
-        display: flex;
-        flex-wrap: wrap;
-        align-items: center;
-        gap: 0 8px;
-      }
-      .hint {
-        font-size: 0.85rem;
-        opacity: 0.8;
-        margin-top: 0;
-      }
-    `,
+    `.excluded { padding-left: 20px; margin: 4px 0; } .excluded li { display: flex; flex-wrap: wrap; align-items: center; gap: 0 8px; }
+    .hint { font-size: 0.85rem; opacity: 0.8; margin-top: 0; }`,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

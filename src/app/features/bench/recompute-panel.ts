@@ -31,7 +31,7 @@ const STATE_WORDS: Record<RecomputeJob['state'], string> = {
     <section class="recompute" aria-labelledby="recompute-heading">
       <h2 id="recompute-heading">Recompute</h2>
       @if (canAsk()) {
-        <button type="button" matButton="outlined" (click)="ask()" [disabled]="asking() || running()">Recompute this site</button>
+ <button type="button" matButton="outlined" (click)="ask()" [disabled]="asking() || running()">Recompute this site</button>
       }
       <ul data-testid="recompute-jobs">
         @for (j of shown(); track j.id) {
@@ -39,69 +39,31 @@ const STATE_WORDS: Record<RecomputeJob['state'], string> = {
             <span class="state">{{ word(j) }}</span> · asked {{ j.createdAt | siteTime: zone() }}
             @if (j.state === 'queued' || j.state === 'active') {
               · {{ j.done }} / {{ j.total ?? '?' }} closures
-              <mat-progress-bar
-                [attr.aria-label]="'Recompute progress, ' + j.done + ' of ' + (j.total ?? 'unknown') + ' closures'"
-                [mode]="j.total ? 'determinate' : 'indeterminate'"
-                [value]="j.total ? (100 * j.done) / j.total : 0"
-              />
+              <mat-progress-bar [attr.aria-label]="'Recompute progress, ' + j.done + ' of ' + (j.total ?? 'unknown') + ' closures'"
+                [mode]="j.total ? 'determinate' : 'indeterminate'" [value]="j.total ? (100 * j.done) / j.total : 0" />
             }
             @if (j.state === 'completed' && j.result; as r) {
-              <span data-testid="recompute-result"
-                >· {{ r.examined }} closures looked at, {{ r.changed }} changed{{
-                  r.lockedKept ? ', ' + r.lockedKept + ' kept as published (closed campaigns)' : ''
-                }}</span
-              >
+              <span data-testid="recompute-result">· {{ r.examined }} closures looked at, {{ r.changed }} changed{{ r.lockedKept ? ', ' + r.lockedKept + ' kept as published (closed campaigns)' : '' }}</span>
             }
-            @if (j.error) {
-              <span class="problem">· {{ j.error }}</span>
-            }
+            @if (j.error) { <span class="problem">· {{ j.error }}</span> }
           </li>
-        } @empty {
-          <li>No recompute for this site yet.</li>
-        }
+        } @empty { <li>No recompute for this site yet.</li> }
       </ul>
       @if (anyChanged()) {
-        <p class="hint">
-          Reviewed closures whose flux moved keep their decision and show “recomputed since review” with the old and new flux in the queue.
-        </p>
+        <p class="hint">Reviewed closures whose flux moved keep their decision and show “recomputed since review” with the old and new flux in the queue.</p>
       }
       <div role="status" aria-live="polite">{{ message() }}</div>
-      @if (problem()) {
-        <p class="problem" role="alert">{{ problem() }}</p>
-      }
+      @if (problem()) { <p class="problem" role="alert">{{ problem() }}</p> }
     </section>
   `,
   styles: `
-    .recompute {
-      margin: 8px 0;
-      padding: 4px 8px;
-      border: 1px solid rgba(128, 128, 128, 0.4);
-      border-radius: 4px;
-    }
-    h2 {
-      font-size: 1rem;
-      margin: 4px 0;
-      display: inline-block;
-      margin-right: 12px;
-    }
-    ul {
-      margin: 4px 0;
-      padding-left: 18px;
-    }
-    mat-progress-bar {
-      margin: 4px 0;
-      max-width: 20rem;
-    }
-    [data-state='failed'] .state {
-      text-decoration: underline wavy;
-    }
-    .hint {
-      font-size: 0.85rem;
-      margin: 2px 0;
-    }
-    .problem {
-      color: #b00020;
-    }
+    .recompute { margin: 8px 0; padding: 4px 8px; border: 1px solid rgba(128, 128, 128, 0.4); border-radius: 4px; }
+    h2 { font-size: 1rem; margin: 4px 0; display: inline-block; margin-right: 12px; }
+    ul { margin: 4px 0; padding-left: 18px; }
+    mat-progress-bar { margin: 4px 0; max-width: 20rem; }
+    [data-state='failed'] .state { text-decoration: underline wavy; }
+    .hint { font-size: 0.85rem; margin: 2px 0; }
+    .problem { color: #b00020; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -34,9 +34,7 @@ const KIND_LABELS: Record<string, string> = {
           <input matInput type="number" min="1" [ngModel]="days()" (ngModelChange)="days.set(+$event)" />
         </mat-form-field>
         <button mat-stroked-button type="button" (click)="load()">Check again</button>
-        @if (savedAt(); as at) {
-          <span>As of {{ at | siteTime: zone() }}</span>
-        }
+        @if (savedAt(); as at) { <span>As of {{ at | siteTime: zone() }}</span> }
       </div>
       <p role="alert" class="problem">{{ problem() }}</p>
       @for (g of groups(); track g.kind) {
@@ -45,92 +43,39 @@ const KIND_LABELS: Record<string, string> = {
           @for (a of g.items; track a.recordId + a.kind) {
             <li [class.severe]="a.severity === 'problem'" data-testid="anomaly">
               <span class="sev">{{ a.severity === 'problem' ? '▲ problem' : '△ check' }}</span>
-              @if (a.collarCode) {
-                <strong>{{ a.collarCode }}</strong>
-              }
+              @if (a.collarCode) { <strong>{{ a.collarCode }}</strong> }
               @if (a.flags?.length) {
                 <span>Closure flagged:</span>
-                @if (a.at) {
-                  <span class="at">{{ a.at | siteTime: zone() : { dayOnly: true } }}</span>
-                }
+                @if (a.at) { <span class="at">{{ a.at | siteTime: zone() : { dayOnly: true } }}</span> }
                 <!-- Words and advice from the one flag table (as on the Walk's closure card); the code is for lab staff. -->
                 <ul class="flags">
                   @for (f of advice(a.flags!); track f.code) {
-                    <li data-testid="anomaly-flag">
-                      <strong class="words">{{ f.words }}</strong> <span class="advice">{{ f.advice }}</span>
-                      <small class="flag-code">{{ f.code }}</small>
-                    </li>
+                    <li data-testid="anomaly-flag"><strong class="words">{{ f.words }}</strong> <span class="advice">{{ f.advice }}</span> <small class="flag-code">{{ f.code }}</small></li>
                   }
                 </ul>
               } @else {
                 <span>{{ a.message }}</span>
-                @if (a.at) {
-                  <span class="at">{{ a.at | siteTime: zone() : { dayOnly: true } }}</span>
-                }
+                @if (a.at) { <span class="at">{{ a.at | siteTime: zone() : { dayOnly: true } }}</span> }
               }
             </li>
           }
         </ul>
       } @empty {
-        @if (loaded()) {
-          <p>Nothing stands out.</p>
-        }
+        @if (loaded()) { <p>Nothing stands out.</p> }
       }
     </section>
   `,
   styles: `
-    .bar {
-      display: flex;
-      gap: 0.75rem;
-      align-items: center;
-      flex-wrap: wrap;
-    }
-    .items {
-      list-style: none;
-      padding: 0;
-      display: grid;
-      gap: 4px;
-      max-height: 18rem;
-      overflow: auto;
-    }
-    li {
-      display: flex;
-      gap: 0.5rem;
-      flex-wrap: wrap;
-      align-items: baseline;
-      padding: 4px 8px;
-      border-left: 4px solid #8a8a8a;
-    }
-    li.severe {
-      border-left: 4px double #8a2a00;
-    }
-    .sev {
-      font-weight: 700;
-      min-width: 6rem;
-    }
-    .at,
-    .flag-code {
-      color: var(--mat-sys-on-surface-variant);
-    }
-    .flags {
-      flex-basis: 100%;
-      margin: 0;
-      padding-left: 1rem;
-      display: grid;
-      gap: 2px;
-    }
-    .flags li {
-      border: 0;
-      padding: 0;
-      display: block;
-    }
-    .advice {
-      display: block;
-    }
-    .problem {
-      color: var(--mat-sys-error);
-      font-weight: 600;
-    }
+    .bar { display: flex; gap: .75rem; align-items: center; flex-wrap: wrap; }
+    .items { list-style: none; padding: 0; display: grid; gap: 4px; max-height: 18rem; overflow: auto; }
+    li { display: flex; gap: .5rem; flex-wrap: wrap; align-items: baseline; padding: 4px 8px; border-left: 4px solid #8a8a8a; }
+    li.severe { border-left: 4px double #8a2a00; }
+    .sev { font-weight: 700; min-width: 6rem; }
+    .at, .flag-code { color: var(--mat-sys-on-surface-variant); }
+    .flags { flex-basis: 100%; margin: 0; padding-left: 1rem; display: grid; gap: 2px; }
+    .flags li { border: 0; padding: 0; display: block; }
+    .advice { display: block; }
+    .problem { color: var(--mat-sys-error); font-weight: 600; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

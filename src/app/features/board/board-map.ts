@@ -32,70 +32,24 @@ const STATES: ProgressState[] = ['due', 'partial', 'complete', 'skipped'];
     <section aria-labelledby="map-heading">
       <h2 id="map-heading" class="visually-hidden">Map</h2>
       <ul class="legend" aria-label="Map legend">
-        @for (s of states; track s) {
-          <li><span [innerHTML]="shape(s)"></span> {{ label(s) }} ({{ counts()[s] }})</li>
-        }
+        @for (s of states; track s) { <li><span [innerHTML]="shape(s)"></span> {{ label(s) }} ({{ counts()[s] }})</li> }
         <li><span class="outline"></span> plot outline</li>
       </ul>
       <div #map class="map" role="region" aria-label="Map of collars by state"></div>
-      <p class="note">
-        Each collar is drawn as its state's shape with its code beside it where there is room; zoom in for more codes, click a collar to
-        name it.
-      </p>
+      <p class="note">Each collar is drawn as its state's shape with its code beside it where there is room; zoom in for more codes, click a collar to name it.</p>
       <p class="note">{{ note() }}</p>
       <p role="alert" class="problem">{{ problem() }}</p>
     </section>
   `,
   styles: `
-    .legend {
-      display: flex;
-      flex-wrap: wrap;
-      gap: 1rem;
-      list-style: none;
-      padding: 0;
-      margin: 0.5rem 0;
-    }
-    .legend li {
-      display: inline-flex;
-      align-items: center;
-      gap: 4px;
-    }
-    .outline {
-      display: inline-block;
-      width: 16px;
-      height: 12px;
-      border: 2px dashed #33415c;
-    }
-    .map {
-      height: 520px;
-      border: 1px solid var(--mat-sys-outline-variant);
-      border-radius: 8px;
-      background: #f3f1ea;
-    }
-    .note {
-      font-size: 0.85rem;
-      color: var(--mat-sys-on-surface-variant);
-    }
-    .problem {
-      color: var(--mat-sys-error);
-    }
-    .visually-hidden {
-      position: absolute;
-      width: 1px;
-      height: 1px;
-      overflow: hidden;
-      clip: rect(0 0 0 0);
-      white-space: nowrap;
-    }
-    :host ::ng-deep .fw-plot-label {
-      background: transparent;
-      border: 0;
-      box-shadow: none;
-      font:
-        700 12px system-ui,
-        sans-serif;
-      color: #33415c;
-    }
+    .legend { display: flex; flex-wrap: wrap; gap: 1rem; list-style: none; padding: 0; margin: .5rem 0; }
+    .legend li { display: inline-flex; align-items: center; gap: 4px; }
+    .outline { display: inline-block; width: 16px; height: 12px; border: 2px dashed #33415c; }
+    .map { height: 520px; border: 1px solid var(--mat-sys-outline-variant); border-radius: 8px; background: #f3f1ea; }
+    .note { font-size: .85rem; color: var(--mat-sys-on-surface-variant); }
+    .problem { color: var(--mat-sys-error); }
+    .visually-hidden { position: absolute; width: 1px; height: 1px; overflow: hidden; clip: rect(0 0 0 0); white-space: nowrap; }
+    :host ::ng-deep .fw-plot-label { background: transparent; border: 0; box-shadow: none; font: 700 12px system-ui, sans-serif; color: #33415c; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

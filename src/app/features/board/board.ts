@@ -33,12 +33,7 @@ import { RoundSelect } from './round-select';
   ],
   providers: [BoardStore],
   template: `
-    <h1>
-      Board
-      @if (store.site(); as s) {
-        <span class="site">· {{ s.name }}</span>
-      }
-    </h1>
+    <h1>Board @if (store.site(); as s) { <span class="site">· {{ s.name }}</span> }</h1>
     <div class="bar">
       <mat-form-field subscriptSizing="dynamic" class="campaign">
         <mat-label>Campaign</mat-label>
@@ -57,18 +52,9 @@ import { RoundSelect } from './round-select';
         @if (c.locked) {
           <button mat-stroked-button type="button" (click)="store.setLocked(false)">Reopen campaign</button>
         } @else {
-          <button
-            mat-flat-button
-            type="button"
-            (click)="store.setLocked(true)"
-            [disabled]="!canClose()"
-            [attr.aria-describedby]="canClose() ? null : 'close-hint'"
-          >
-            Close campaign
-          </button>
-          @if (!canClose()) {
-            <span id="close-hint" class="hint">Closes when every collar is complete or skipped with a reason.</span>
-          }
+          <button mat-flat-button type="button" (click)="store.setLocked(true)" [disabled]="!canClose()"
+            [attr.aria-describedby]="canClose() ? null : 'close-hint'">Close campaign</button>
+          @if (!canClose()) { <span id="close-hint" class="hint">Closes when every collar is complete or skipped with a reason.</span> }
         }
       }
     </div>
@@ -80,67 +66,25 @@ import { RoundSelect } from './round-select';
     <mat-tab-group class="fw-wrap-tabs" [preserveContent]="false" animationDuration="0ms" mat-stretch-tabs="false">
       <mat-tab label="Progress">
         <ng-template matTabContent>
-          @if (store.campaign()) {
-            <fw-progress-view />
-          } @else {
-            <p>No campaign yet: plan one under Plan.</p>
-          }
+          @if (store.campaign()) { <fw-progress-view /> } @else { <p>No campaign yet: plan one under Plan.</p> }
         </ng-template>
       </mat-tab>
-      <mat-tab label="Plan"
-        ><ng-template matTabContent><fw-plan-view /></ng-template
-      ></mat-tab>
-      <mat-tab label="Map"
-        ><ng-template matTabContent><fw-board-map /></ng-template
-      ></mat-tab>
-      <mat-tab label="Anomalies"
-        ><ng-template matTabContent><fw-anomaly-list /></ng-template
-      ></mat-tab>
-      <mat-tab label="Devices"
-        ><ng-template matTabContent><fw-device-list /></ng-template
-      ></mat-tab>
-      <mat-tab label="Digest"
-        ><ng-template matTabContent><fw-digest-panel /></ng-template
-      ></mat-tab>
+      <mat-tab label="Plan"><ng-template matTabContent><fw-plan-view /></ng-template></mat-tab>
+      <mat-tab label="Map"><ng-template matTabContent><fw-board-map /></ng-template></mat-tab>
+      <mat-tab label="Anomalies"><ng-template matTabContent><fw-anomaly-list /></ng-template></mat-tab>
+      <mat-tab label="Devices"><ng-template matTabContent><fw-device-list /></ng-template></mat-tab>
+      <mat-tab label="Digest"><ng-template matTabContent><fw-digest-panel /></ng-template></mat-tab>
     </mat-tab-group>
   `,
   styles: `
-    h1 {
-      font: var(--mat-sys-headline-small);
-      margin-block: 0.5rem;
-    }
-    .site {
-      color: var(--mat-sys-on-surface-variant);
-    }
-    .bar {
-      display: flex;
-      flex-wrap: wrap;
-      gap: 0.75rem;
-      align-items: center;
-    }
-    .campaign {
-      min-width: min(20rem, 100%);
-      max-width: 100%;
-    }
-    .lock {
-      font-weight: 600;
-    }
-    .hint {
-      font-size: 0.85rem;
-      color: var(--mat-sys-on-surface-variant);
-    }
-    .offline {
-      background: #fff4d6;
-      color: #3d2c00;
-      padding: 0.5rem 0.75rem;
-      border-radius: 6px;
-    }
-    .problem {
-      color: var(--mat-sys-error);
-      font-weight: 600;
-      min-height: 1em;
-      margin: 0.25rem 0;
-    }
+    h1 { font: var(--mat-sys-headline-small); margin-block: .5rem; }
+    .site { color: var(--mat-sys-on-surface-variant); }
+    .bar { display: flex; flex-wrap: wrap; gap: .75rem; align-items: center; }
+    .campaign { min-width: min(20rem, 100%); max-width: 100%; }
+    .lock { font-weight: 600; }
+    .hint { font-size: .85rem; color: var(--mat-sys-on-surface-variant); }
+    .offline { background: #fff4d6; color: #3d2c00; padding: .5rem .75rem; border-radius: 6px; }
+    .problem { color: var(--mat-sys-error); font-weight: 600; min-height: 1em; margin: .25rem 0; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

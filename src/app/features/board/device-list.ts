@@ -21,117 +21,52 @@ import { BoardStore } from './board-store';
       <h2 id="devices-heading">Devices</h2>
       <p role="alert" class="problem">{{ problem() }}</p>
       <div class="fw-table-box" tabindex="0" role="region" aria-label="Devices, scrolls sideways">
-        <table>
-          <caption>
-            Devices of this site's members, least recently heard from first
-          </caption>
-          <thead>
-            <tr>
-              <th scope="col">Person</th>
-              <th scope="col">Device</th>
-              <th scope="col">Last push</th>
-              <th scope="col">Last pull</th>
-              <th scope="col">Not yet synced (last reported)</th>
-              <th scope="col">Status</th>
+      <table>
+        <caption>Devices of this site's members, least recently heard from first</caption>
+        <thead><tr><th scope="col">Person</th><th scope="col">Device</th><th scope="col">Last push</th><th scope="col">Last pull</th>
+          <th scope="col">Not yet synced (last reported)</th><th scope="col">Status</th></tr></thead>
+        <tbody>
+          @for (d of devices(); track d.id) {
+            <tr [class.silent]="d.silent" data-testid="device-row">
+              <td>{{ d.displayName }} <span class="email">{{ d.email }}</span></td>
+              <td class="mono">{{ d.id.slice(0, 8) }}</td>
+              <td>{{ d.lastPushAt ? (d.lastPushAt | siteTime: zone()) : 'never' }}</td>
+              <td>{{ d.lastPullAt ? (d.lastPullAt | siteTime: zone()) : 'never' }}</td>
+              <td>{{ d.outboxSize ?? 'unknown' }}</td>
+              <td>{{ d.silent ? '⚠ silent for more than a day' : 'heard from today' }}</td>
             </tr>
-          </thead>
-          <tbody>
-            @for (d of devices(); track d.id) {
-              <tr [class.silent]="d.silent" data-testid="device-row">
-                <td>
-                  {{ d.displayName }} <span class="email">{{ d.email }}</span>
-                </td>
-                <td class="mono">{{ d.id.slice(0, 8) }}</td>
-                <td>{{ d.lastPushAt ? (d.lastPushAt | siteTime: zone()) : 'never' }}</td>
-                <td>{{ d.lastPullAt ? (d.lastPullAt | siteTime: zone()) : 'never' }}</td>
-                <td>{{ d.outboxSize ?? 'unknown' }}</td>
-                <td>{{ d.silent ? '⚠ silent for more than a day' : 'heard from today' }}</td>
-              </tr>
-            } @empty {
-              <tr>
-                <td colspan="6">No device has synced for this site yet.</td>
-              </tr>
-            }
-          </tbody>
-        </table>
+          } @empty { <tr><td colspan="6">No device has synced for this site yet.</td></tr> }
+        </tbody>
+      </table>
       </div>
 
       <h3>Open a crew's backup file</h3>
       <p>Read-only: the changes reach the server when their owner syncs or loads the file on their own device.</p>
       <!-- The file input stays hidden; a Material button opens the browser's file picker for it. -->
-      <input
-        #backupInput
-        type="file"
-        class="fw-visually-hidden"
-        tabindex="-1"
-        aria-hidden="true"
-        accept="application/json,.json"
-        (change)="open($event)"
-        data-testid="board-backup-input"
-      />
+      <input #backupInput type="file" class="fw-visually-hidden" tabindex="-1" aria-hidden="true" accept="application/json,.json" (change)="open($event)" data-testid="board-backup-input" />
       <button type="button" matButton="outlined" (click)="backupInput.click()">Choose a backup file…</button>
       <p role="alert" class="problem">{{ fileProblem() }}</p>
       @if (file(); as f) {
-        <h4>
-          {{ f.user.displayName }} ({{ f.user.email }}) · saved {{ f.createdAt | siteTime: zone() }} · {{ rows().length }} change(s) not yet
-          synced
-        </h4>
+        <h4>{{ f.user.displayName }} ({{ f.user.email }}) · saved {{ f.createdAt | siteTime: zone() }} · {{ rows().length }} change(s) not yet synced</h4>
         <ul class="changes" tabindex="0" aria-label="Changes in the backup file">
           @for (r of rows(); track $index) {
-            <li>
-              {{ label(r) }} {{ r.id.slice(0, 8) }} · {{ r.op === 'delete' ? 'deleted' : r.created ? 'created' : 'changed' }} ·
-              {{ r.at | siteTime: zone() }}
-            </li>
+            <li>{{ label(r) }} {{ r.id.slice(0, 8) }} · {{ r.op === 'delete' ? 'deleted' : r.created ? 'created' : 'changed' }} · {{ r.at | siteTime: zone() }}</li>
           }
         </ul>
       }
     </section>
   `,
   styles: `
-    table {
-      border-collapse: collapse;
-      width: 100%;
-    }
-    caption {
-      text-align: left;
-      font-weight: 600;
-      padding-block: 0.25rem;
-    }
-    th,
-    td {
-      text-align: left;
-      padding: 4px 8px;
-      border-bottom: 1px solid var(--mat-sys-outline-variant);
-    }
-    tr.silent td {
-      font-weight: 600;
-      background: #fff4d6;
-      color: #3d2c00;
-    }
-    .email {
-      color: var(--mat-sys-on-surface-variant);
-      font-size: 0.85rem;
-    }
-    tr.silent .email {
-      color: #3d2c00;
-    }
-    .mono {
-      font-family: ui-monospace, monospace;
-    }
-    .file {
-      display: inline-flex;
-      flex-direction: column;
-      gap: 4px;
-      font-weight: 600;
-    }
-    .changes {
-      max-height: 16rem;
-      overflow: auto;
-    }
-    .problem {
-      color: var(--mat-sys-error);
-      font-weight: 600;
-    }
+    table { border-collapse: collapse; width: 100%; }
+    caption { text-align: left; font-weight: 600; padding-block: .25rem; }
+    th, td { text-align: left; padding: 4px 8px; border-bottom: 1px solid var(--mat-sys-outline-variant); }
+    tr.silent td { font-weight: 600; background: #fff4d6; color: #3d2c00; }
+    .email { color: var(--mat-sys-on-surface-variant); font-size: .85rem; }
+    tr.silent .email { color: #3d2c00; }
+    .mono { font-family: ui-monospace, monospace; }
+    .file { display: inline-flex; flex-direction: column; gap: 4px; font-weight: 600; }
+    .changes { max-height: 16rem; overflow: auto; }
+    .problem { color: var(--mat-sys-error); font-weight: 600; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -35,56 +35,31 @@ const CODES_SHOWN = 40;
             <h4>{{ c.name }} ({{ c.startsOn }} to {{ c.endsOn }})</h4>
             <ul>
               @for (r of c.routes; track r.routeId) {
-                <li>
-                  <strong>{{ r.routeName }}</strong>: {{ counts(r) }}
-                  @if (r.due.length) {
-                    <br />{{ heading.due }}: {{ codes(r.due) }}
-                  }
-                  @for (p of r.partial; track p.code) {
-                    <br />{{ heading.partial }} {{ p.code }}: still needs {{ p.missing.join(', ') }}
-                  }
+                <li><strong>{{ r.routeName }}</strong>: {{ counts(r) }}
+                  @if (r.due.length) { <br />{{ heading.due }}: {{ codes(r.due) }} }
+                  @for (p of r.partial; track p.code) { <br />{{ heading.partial }} {{ p.code }}: still needs {{ p.missing.join(', ') }} }
                 </li>
               }
             </ul>
-          } @empty {
-            <p>No open campaign: nothing is due.</p>
-          }
+          } @empty { <p>No open campaign: nothing is due.</p> }
           <h4>Worth a look ({{ d.anomalies.total }}, {{ d.anomalies.problems }} to act on)</h4>
           <ul>
-            @for (a of d.anomalies.items; track $index) {
-              <li>{{ a.severity === 'problem' ? 'Act: ' : '' }}{{ a.collarCode ? a.collarCode + ': ' : '' }}{{ a.message }}</li>
-            } @empty {
-              <li>Nothing unusual found.</li>
-            }
+            @for (a of d.anomalies.items; track $index) { <li>{{ a.severity === 'problem' ? 'Act: ' : '' }}{{ a.collarCode ? a.collarCode + ': ' : '' }}{{ a.message }}</li> }
+            @empty { <li>Nothing unusual found.</li> }
           </ul>
           <h4>Devices silent for a day or more ({{ d.silentDevices.length }})</h4>
           <ul>
-            @for (s of d.silentDevices; track s.email) {
-              <li>{{ s.displayName }} ({{ s.email }}){{ s.outboxSize ? ', ' + s.outboxSize + ' not yet synced' : '' }}</li>
-            } @empty {
-              <li>Every device has synced within the last day.</li>
-            }
+            @for (s of d.silentDevices; track s.email) { <li>{{ s.displayName }} ({{ s.email }}){{ s.outboxSize ? ', ' + s.outboxSize + ' not yet synced' : '' }}</li> }
+            @empty { <li>Every device has synced within the last day.</li> }
           </ul>
         </article>
       }
     </section>
   `,
   styles: `
-    .actions {
-      display: flex;
-      gap: 0.75rem;
-      flex-wrap: wrap;
-    }
-    .preview {
-      border: 1px solid var(--mat-sys-outline-variant);
-      border-radius: 8px;
-      padding: 0.5rem 1rem;
-      max-width: 60rem;
-    }
-    .problem {
-      color: var(--mat-sys-error);
-      font-weight: 600;
-    }
+    .actions { display: flex; gap: .75rem; flex-wrap: wrap; }
+    .preview { border: 1px solid var(--mat-sys-outline-variant); border-radius: 8px; padding: .5rem 1rem; max-width: 60rem; }
+    .problem { color: var(--mat-sys-error); font-weight: 600; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

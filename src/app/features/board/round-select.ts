@@ -9,15 +9,14 @@ const ALL_ROUNDS = 'all';
 @Component({
   selector: 'fw-round-select',
   imports: [MatFormFieldModule, MatSelectModule],
-  template: ` <mat-form-field subscriptSizing="dynamic">
-    <mat-label>Round</mat-label>
-    <mat-select [value]="value() ?? all" (valueChange)="chosen.emit($event === all ? null : +$event)" data-testid="round-select">
-      <mat-option [value]="all">All rounds</mat-option>
-      @for (n of list(); track n) {
-        <mat-option [value]="n">Round {{ n }}</mat-option>
-      }
-    </mat-select>
-  </mat-form-field>`,
+  template: `
+    <mat-form-field subscriptSizing="dynamic">
+      <mat-label>Round</mat-label>
+      <mat-select [value]="value() ?? all" (valueChange)="chosen.emit($event === all ? null : +$event)" data-testid="round-select">
+        <mat-option [value]="all">All rounds</mat-option>
+        @for (n of list(); track n) { <mat-option [value]="n">Round {{ n }}</mat-option> }
+      </mat-select>
+    </mat-form-field>`,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class RoundSelect {

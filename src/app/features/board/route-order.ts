@@ -20,9 +20,7 @@ import { BoardStore } from './board-store';
       <mat-form-field subscriptSizing="dynamic">
         <mat-label>Route to reorder</mat-label>
         <mat-select [value]="routeId()" (valueChange)="pick($event)" data-testid="order-route">
-          @for (r of store.routes(); track r.id) {
-            <mat-option [value]="r.id">{{ r['name'] }}</mat-option>
-          }
+          @for (r of store.routes(); track r.id) { <mat-option [value]="r.id">{{ r['name'] }}</mat-option> }
         </mat-select>
       </mat-form-field>
       @if (routeId()) {
@@ -31,12 +29,8 @@ import { BoardStore } from './board-store';
             <li cdkDrag class="stop" [attr.data-collar]="code(id)">
               <span cdkDragHandle class="handle" aria-hidden="true">⠿</span>
               <span class="n">{{ i + 1 }}.</span><span class="code">{{ code(id) }}</span>
-              <button mat-button type="button" (click)="move(i, -1)" [disabled]="i === 0" [attr.aria-label]="'Move ' + code(id) + ' up'">
-                Up
-              </button>
-              <button mat-button type="button" (click)="move(i, 1)" [disabled]="last" [attr.aria-label]="'Move ' + code(id) + ' down'">
-                Down
-              </button>
+              <button mat-button type="button" (click)="move(i, -1)" [disabled]="i === 0" [attr.aria-label]="'Move ' + code(id) + ' up'">Up</button>
+              <button mat-button type="button" (click)="move(i, 1)" [disabled]="last" [attr.aria-label]="'Move ' + code(id) + ' down'">Down</button>
             </li>
           }
         </ol>
@@ -48,40 +42,14 @@ import { BoardStore } from './board-store';
     </section>
   `,
   styles: `
-    .stops {
-      list-style: none;
-      padding: 0;
-      max-height: 420px;
-      overflow: auto;
-      border: 1px solid var(--mat-sys-outline-variant);
-      border-radius: 8px;
-    }
-    .stop {
-      display: grid;
-      grid-template-columns: 1.5rem 3rem 1fr auto auto;
-      align-items: center;
-      gap: 0.5rem;
-      padding: 2px 0.5rem;
-      background: var(--mat-sys-surface);
-      border-bottom: 1px solid var(--mat-sys-outline-variant);
-    }
-    .handle {
-      cursor: grab;
-      font-size: 1.2rem;
-    }
-    .code {
-      font-weight: 600;
-    }
-    .cdk-drag-preview {
-      box-shadow: 0 4px 12px rgb(0 0 0 / 30%);
-    }
-    .cdk-drag-placeholder {
-      opacity: 0.3;
-    }
-    .problem {
-      color: var(--mat-sys-error);
-      font-weight: 600;
-    }
+    .stops { list-style: none; padding: 0; max-height: 420px; overflow: auto; border: 1px solid var(--mat-sys-outline-variant); border-radius: 8px; }
+    .stop { display: grid; grid-template-columns: 1.5rem 3rem 1fr auto auto; align-items: center; gap: .5rem; padding: 2px .5rem;
+      background: var(--mat-sys-surface); border-bottom: 1px solid var(--mat-sys-outline-variant); }
+    .handle { cursor: grab; font-size: 1.2rem; }
+    .code { font-weight: 600; }
+    .cdk-drag-preview { box-shadow: 0 4px 12px rgb(0 0 0 / 30%); }
+    .cdk-drag-placeholder { opacity: .3; }
+    .problem { color: var(--mat-sys-error); font-weight: 600; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -8,22 +8,11 @@ export { STATE_COLOURS, STATE_GLYPHS, STATE_SHAPES, STATE_WORDS as STATE_LABELS,
 @Component({
   selector: 'fw-state-badge',
   template: `
-    <span class="badge" [style.color]="colour()"
-      ><span class="shape" aria-hidden="true">{{ glyph() }}</span
-      >{{ label() }}</span
-    >
+    <span class="badge" [style.color]="colour()"><span class="shape" aria-hidden="true">{{ glyph() }}</span>{{ label() }}</span>
   `,
   styles: `
-    .badge {
-      display: inline-flex;
-      align-items: center;
-      gap: 4px;
-      font-weight: 600;
-    }
-    .shape {
-      font-size: 1.05em;
-      line-height: 1;
-    }
+    .badge { display: inline-flex; align-items: center; gap: 4px; font-weight: 600; }
+    .shape { font-size: 1.05em; line-height: 1; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -19,93 +19,46 @@ import { SpotChart } from './spot-chart';
     <article class="card" [attr.data-closure]="closure().id" [class.redo]="closure()['redoOfId']">
       <header>
         <strong>Closure {{ index() + 1 }}</strong>
-        @if (closure()['redoOfId']) {
-          <span class="tag">redo</span>
-        }
+        @if (closure()['redoOfId']) { <span class="tag">redo</span> }
         <span class="when">on {{ time(closure()['chamberOnAt']) }} · off {{ time(closure()['chamberOffAt']) }}</span>
         @if (!running()) {
           <button mat-stroked-button class="redo-button" type="button" (click)="redo.emit(closure())">Redo</button>
         }
       </header>
       @if (!closure()['analyzerId']) {
-        <p class="no-analyzer" role="note" data-testid="no-analyzer">
-          No analyzer named for this closure: its precision and flags cannot be checked. Name the day's analyzer before the next closure.
-        </p>
+        <p class="no-analyzer" role="note" data-testid="no-analyzer">No analyzer named for this closure: its precision and flags cannot be checked. Name the day's analyzer before the next closure.</p>
       }
       @if (spot(); as s) {
         @if (s.fit.selected; as sel) {
-          <p class="flux" data-testid="spot-flux">
-            {{ sel.fluxUmolM2S | number: '1.2-2' }} µmol m⁻² s⁻¹
-            <small
-              >({{ sel.model }}; linear {{ s.fit.linear?.fluxUmolM2S | number: '1.2-2' }}, exponential
-              {{ s.fit.exponential ? (s.fit.exponential.fluxUmolM2S | number: '1.2-2') : '—' }})</small
-            >
-          </p>
+          <p class="flux" data-testid="spot-flux">{{ sel.fluxUmolM2S | number: '1.2-2' }} µmol m⁻² s⁻¹
+            <small>({{ sel.model }}; linear {{ s.fit.linear?.fluxUmolM2S | number: '1.2-2' }}, exponential {{ s.fit.exponential ? (s.fit.exponential.fluxUmolM2S | number: '1.2-2') : '—' }})</small></p>
         } @else {
           <p class="flux none" data-testid="spot-flux">No flux: {{ s.fit.error }}</p>
         }
         <fw-flag-advice-list data-testid="spot-flags" [flags]="s.fit.flags" [canRedo]="!running()" (redo)="redo.emit(closure())" />
         @if (s.startAboveAmbientPpm !== null) {
-          <p class="ambient">
-            Start vs this analyzer's ambient reading: {{ s.startAboveAmbientPpm >= 0 ? '+' : ''
-            }}{{ s.startAboveAmbientPpm | number: '1.0-0' }} ppm
-          </p>
+          <p class="ambient">Start vs this analyzer's ambient reading: {{ s.startAboveAmbientPpm >= 0 ? '+' : '' }}{{ s.startAboveAmbientPpm | number: '1.0-0' }} ppm</p>
         }
         <fw-spot-chart [data]="{ series: series(), settleS: settleS(), fit: s.fit }" />
       } @else {
         <p class="waiting">No series yet: import the logger file or enter the series by hand.</p>
       }
       @if (previous().length) {
-        <p class="previous">
-          This collar before:
-          @for (p of previous(); track p.id) {
-            <span>{{ p.fluxUmolM2S | number: '1.2-2' }} ({{ day(p.startedAt) }})</span>
-          }
-        </p>
+        <p class="previous">This collar before: @for (p of previous(); track p.id) { <span>{{ p.fluxUmolM2S | number: '1.2-2' }} ({{ day(p.startedAt) }})</span> }</p>
       }
     </article>
   `,
   styles: [
     `
-      .card {
-        border: 1px solid var(--mat-sys-outline-variant, #ccc);
-        border-radius: 8px;
-        padding: 12px;
-        margin: 8px 0;
-      }
-      header {
-        display: flex;
-        gap: 8px;
-        align-items: baseline;
-        flex-wrap: wrap;
-      }
-      .tag {
-        background: #fff3e0;
-        padding: 0 6px;
-        border-radius: 4px;
-      }
-      .when {
-        color: var(--mat-sys-on-surface-variant, #555);
-        font-size: 0.9em;
-      }
-      .flux {
-        font-size: 1.3em;
-        margin: 8px 0 4px;
-      }
-      .redo-button {
-        margin-left: auto;
-        min-height: 48px;
-      }
-      .no-analyzer {
-        border: 2px solid var(--mat-sys-error, #b3261e);
-        border-radius: 6px;
-        padding: 4px 8px;
-        font-weight: 600;
-      }
-      .previous span {
-        margin-right: 8px;
-      }
-    `,
+    .card { border: 1px solid var(--mat-sys-outline-variant, #ccc); border-radius: 8px; padding: 12px; margin: 8px 0; }
+    header { display: flex; gap: 8px; align-items: baseline; flex-wrap: wrap; }
+    .tag { background: #fff3e0; padding: 0 6px; border-radius: 4px; }
+    .when { color: var(--mat-sys-on-surface-variant, #555); font-size: 0.9em; }
+    .flux { font-size: 1.3em; margin: 8px 0 4px; }
+    .redo-button { margin-left: auto; min-height: 48px; }
+    .no-analyzer { border: 2px solid var(--mat-sys-error, #b3261e); border-radius: 6px; padding: 4px 8px; font-weight: 600; }
+    .previous span { margin-right: 8px; }
+  `,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -45,46 +45,17 @@ export function closureEndSignal(): void {
         <span class="elapsed" role="timer" aria-live="off">{{ elapsedText() }}</span>
         <span class="target"> of {{ targetText() }}</span>
       </div>
-      <p class="end" role="alert" data-testid="closure-end">
-        @if (done()) {
-          Closure length reached: chamber off
-        }
-      </p>
+      <p class="end" role="alert" data-testid="closure-end">@if (done()) { Closure length reached: chamber off }</p>
     }
   `,
   styles: `
-    :host {
-      display: flex;
-      flex-direction: column;
-      align-items: center;
-      min-width: 64px;
-    }
-    .timer {
-      display: flex;
-      flex-direction: column;
-      align-items: center;
-      font-variant-numeric: tabular-nums;
-    }
-    .elapsed {
-      font-size: 1.75rem;
-      font-weight: 700;
-      line-height: 1;
-    }
-    .target {
-      font-size: 0.85rem;
-    }
-    .done .elapsed {
-      color: var(--mat-sys-error);
-    }
-    .end {
-      margin: 0;
-      font-weight: 700;
-      font-size: 0.85rem;
-      text-align: center;
-    }
-    .end:empty {
-      display: none;
-    }
+    :host { display: flex; flex-direction: column; align-items: center; min-width: 64px; }
+    .timer { display: flex; flex-direction: column; align-items: center; font-variant-numeric: tabular-nums; }
+    .elapsed { font-size: 1.75rem; font-weight: 700; line-height: 1; }
+    .target { font-size: 0.85rem; }
+    .done .elapsed { color: var(--mat-sys-error); }
+    .end { margin: 0; font-weight: 700; font-size: 0.85rem; text-align: center; }
+    .end:empty { display: none; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

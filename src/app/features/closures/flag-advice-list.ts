@@ -37,37 +37,13 @@ const ACTION_LABEL: Record<FlagAction, string> = {
   `,
   styles: [
     `
-      .advice {
-        list-style: none;
-        padding: 0;
-        margin: 4px 0;
-        display: grid;
-        gap: 4px;
-      }
-      .advice li {
-        background: #f5f5f5;
-        border-left: 4px solid #9e9e9e;
-        padding: 4px 8px;
-        border-radius: 4px;
-      }
-      .advice li.act {
-        background: #fdecea;
-        border-left-color: #c62828;
-      }
-      .what {
-        display: block;
-      }
-      .ok {
-        background: #e8f5e9;
-        padding: 4px 8px;
-        border-radius: 4px;
-      }
-      .redo-now {
-        width: 100%;
-        min-height: 48px;
-        margin: 4px 0;
-      }
-    `,
+    .advice { list-style: none; padding: 0; margin: 4px 0; display: grid; gap: 4px; }
+    .advice li { background: #f5f5f5; border-left: 4px solid #9e9e9e; padding: 4px 8px; border-radius: 4px; }
+    .advice li.act { background: #fdecea; border-left-color: #c62828; }
+    .what { display: block; }
+    .ok { background: #e8f5e9; padding: 4px 8px; border-radius: 4px; }
+    .redo-now { width: 100%; min-height: 48px; margin: 4px 0; }
+  `,
   ],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -25,42 +25,26 @@ const HOW_WORDS: Record<NonNullable<PieceMatch['how']>, string> = {
 @Component({
   selector: 'fw-piece-card',
   imports: [MatFormFieldModule, MatSelectModule],
-  template: ` <article class="piece" [class]="match().status" [attr.data-piece]="match().pieceKey">
-    <p class="what">
-      <strong>Lines {{ piece().firstLine }}–{{ piece().lastLine }}</strong> · {{ start() }} · {{ samples() }}
-    </p>
-    <p class="how">{{ statusWords[match().status] }}{{ match().how ? ' ' + howWords[match().how!] : '' }}</p>
-    <mat-form-field appearance="outline" subscriptSizing="dynamic">
-      <mat-label>Assign lines {{ piece().firstLine }}–{{ piece().lastLine }} to</mat-label>
-      <mat-select [value]="value()" (selectionChange)="chosen.emit($event.value)" [attr.data-testid]="'assign-' + match().pieceKey">
-        <mat-option value="none">leave out (kept in the file)</mat-option>
-        @for (v of visits(); track v.visit.id) {
-          @for (c of v.waiting; track c.id) {
-            <mat-option [value]="'closure:' + v.visit.id + ':' + c.id">{{ v.collarCode }} · tap {{ clock(c['chamberOnAt']) }}</mat-option>
+  template: `
+    <article class="piece" [class]="match().status" [attr.data-piece]="match().pieceKey">
+      <p class="what"><strong>Lines {{ piece().firstLine }}–{{ piece().lastLine }}</strong> · {{ start() }} · {{ samples() }}</p>
+      <p class="how">{{ statusWords[match().status] }}{{ match().how ? ' ' + howWords[match().how!] : '' }}</p>
+      <mat-form-field appearance="outline" subscriptSizing="dynamic">
+        <mat-label>Assign lines {{ piece().firstLine }}–{{ piece().lastLine }} to</mat-label>
+        <mat-select [value]="value()" (selectionChange)="chosen.emit($event.value)" [attr.data-testid]="'assign-' + match().pieceKey">
+          <mat-option value="none">leave out (kept in the file)</mat-option>
+          @for (v of visits(); track v.visit.id) {
+            @for (c of v.waiting; track c.id) { <mat-option [value]="'closure:' + v.visit.id + ':' + c.id">{{ v.collarCode }} · tap {{ clock(c['chamberOnAt']) }}</mat-option> }
+            <mat-option [value]="'new:' + v.visit.id">{{ v.collarCode }} · new closure</mat-option>
           }
-          <mat-option [value]="'new:' + v.visit.id">{{ v.collarCode }} · new closure</mat-option>
-        }
-      </mat-select>
-    </mat-form-field>
-  </article>`,
+        </mat-select>
+      </mat-form-field>
+    </article>`,
   styles: `
-    .piece {
-      border: 1px solid var(--mat-sys-outline-variant, #ccc);
-      border-radius: 8px;
-      padding: 8px 12px;
-      margin: 8px 0;
-    }
-    .piece.unmatched,
-    .piece.ambiguous {
-      background: var(--mat-sys-error-container, #fff3e0);
-    }
-    p {
-      margin: 0 0 4px;
-      overflow-wrap: anywhere;
-    }
-    mat-form-field {
-      width: 100%;
-    }
+    .piece { border: 1px solid var(--mat-sys-outline-variant, #ccc); border-radius: 8px; padding: 8px 12px; margin: 8px 0; }
+    .piece.unmatched, .piece.ambiguous { background: var(--mat-sys-error-container, #fff3e0); }
+    p { margin: 0 0 4px; overflow-wrap: anywhere; }
+    mat-form-field { width: 100%; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -17,14 +17,7 @@ export interface SpotChartInput {
 @Component({
   selector: 'fw-spot-chart',
   template: `<div #plot role="img" [attr.aria-label]="label()"></div>`,
-  styles: [
-    `
-      :host {
-        display: block;
-        overflow: hidden;
-      }
-    `,
-  ],
+  styles: [`:host { display: block; overflow: hidden; }`],
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class SpotChart implements OnDestroy {

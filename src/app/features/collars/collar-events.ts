@@ -25,32 +25,21 @@ export const LATER_EVENTS = [
   template: `
     <ol class="events" data-testid="collar-events">
       @for (e of events(); track e.id) {
-        <li>
-          <strong>{{ e['date'] }}</strong> {{ labelOf(e['kind']) }}
-          @if (e['note']) {
-            — {{ e['note'] }}
-          }
-        </li>
-      } @empty {
-        <li>No events recorded.</li>
-      }
+        <li><strong>{{ e['date'] }}</strong> {{ labelOf(e['kind']) }}@if (e['note']) { — {{ e['note'] }} }</li>
+      } @empty { <li>No events recorded.</li> }
     </ol>
     <form (submit)="$event.preventDefault(); addEvent()">
       <mat-form-field appearance="outline" class="wide">
         <mat-label>What happened</mat-label>
         <mat-select [value]="kind()" (selectionChange)="kind.set($event.value)">
-          @for (k of kinds; track k.kind) {
-            <mat-option [value]="k.kind">{{ k.label }}</mat-option>
-          }
+          @for (k of kinds; track k.kind) { <mat-option [value]="k.kind">{{ k.label }}</mat-option> }
         </mat-select>
       </mat-form-field>
       @if (kind() === 'replaced') {
         <mat-form-field appearance="outline" class="wide">
           <mat-label>New collar</mat-label>
           <mat-select [value]="replacedById()" (selectionChange)="replacedById.set($event.value)">
-            @for (c of others(); track c.id) {
-              <mat-option [value]="c.id">{{ c['code'] }}</mat-option>
-            }
+            @for (c of others(); track c.id) { <mat-option [value]="c.id">{{ c['code'] }}</mat-option> }
           </mat-select>
         </mat-form-field>
       }
@@ -63,29 +52,11 @@ export const LATER_EVENTS = [
         <textarea matInput rows="2" maxlength="2000" [value]="note()" (input)="note.set($any($event.target).value)"></textarea>
       </mat-form-field>
       <button mat-flat-button type="submit">Record event</button>
-      @if (problem()) {
-        <p role="alert" class="problem">{{ problem() }}</p>
-      }
-      @if (message()) {
-        <p role="status">{{ message() }}</p>
-      }
+      @if (problem()) { <p role="alert" class="problem">{{ problem() }}</p> }
+      @if (message()) { <p role="status">{{ message() }}</p> }
     </form>
   `,
-  styles: `
-    .wide {
-      width: 100%;
-    }
-    button {
-      min-height: 48px;
-    }
-    .events {
-      padding-left: 20px;
-    }
-    .problem {
-      font-weight: 600;
-      color: var(--mat-sys-error);
-    }
-  `,
+  styles: `.wide { width: 100%; } button { min-height: 48px; } .events { padding-left: 20px; } .problem { font-weight: 600; color: var(--mat-sys-error); }`,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class CollarEvents {

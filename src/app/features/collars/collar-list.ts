@@ -19,9 +19,7 @@ import { collarList } from './collar-store';
       @if (list.length) {
         <ul class="list">
           @for (c of shown(); track c.id) {
-            <li>
-              <a [routerLink]="['/collars', c.id]">{{ c.code }}</a> <span class="status">{{ c.status }}</span>
-            </li>
+            <li><a [routerLink]="['/collars', c.id]">{{ c.code }}</a> <span class="status">{{ c.status }}</span></li>
           }
         </ul>
       } @else {
@@ -32,27 +30,10 @@ import { collarList } from './collar-store';
     }
   `,
   styles: `
-    h1 {
-      font: var(--mat-sys-headline-small);
-    }
-    .list {
-      list-style: none;
-      padding: 0;
-      display: grid;
-      grid-template-columns: repeat(auto-fill, minmax(140px, 1fr));
-      gap: 8px;
-    }
-    .list a {
-      font-weight: 700;
-      font-size: 1.1rem;
-      display: inline-block;
-      min-height: 44px;
-      line-height: 44px;
-    }
-    .status {
-      color: var(--mat-sys-on-surface-variant);
-      margin-left: 4px;
-    }
+    h1 { font: var(--mat-sys-headline-small); }
+    .list { list-style: none; padding: 0; display: grid; grid-template-columns: repeat(auto-fill, minmax(140px, 1fr)); gap: 8px; }
+    .list a { font-weight: 700; font-size: 1.1rem; display: inline-block; min-height: 44px; line-height: 44px; }
+    .status { color: var(--mat-sys-on-surface-variant); margin-left: 4px; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -11,34 +11,13 @@ import { liveSignal } from '../../core/db/live-query-signal';
     <ul class="photos" data-testid="collar-photos">
       @for (p of shown(); track p.id) {
         <li [attr.data-testid]="'collar-photo'">
-          @if (p.url) {
-            <img [src]="p.url" [alt]="'Photo ' + p.fileName" width="120" />
-          }
-          <span
-            >{{ p.fileName }}, {{ p.kb }} kB
-            @if (!p.onDevice) {
-              (not on this device)
-            }
-          </span>
+          @if (p.url) { <img [src]="p.url" [alt]="'Photo ' + p.fileName" width="120" /> }
+          <span>{{ p.fileName }}, {{ p.kb }} kB@if (!p.onDevice) { (not on this device) }</span>
         </li>
-      } @empty {
-        <li>No photos.</li>
-      }
+      } @empty { <li>No photos.</li> }
     </ul>
   `,
-  styles: `
-    .photos {
-      list-style: none;
-      padding: 0;
-      display: grid;
-      gap: 8px;
-    }
-    li {
-      display: flex;
-      gap: 8px;
-      align-items: center;
-    }
-  `,
+  styles: `.photos { list-style: none; padding: 0; display: grid; gap: 8px; } li { display: flex; gap: 8px; align-items: center; }`,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class CollarPhotos {

@@ -78,54 +78,44 @@ function fileOf(a: Rec | undefined): CheckRow['file'] {
         </mat-select>
       </mat-form-field>
       <div class="fw-table-box" tabindex="0" role="region" aria-label="Check records of the analyzer, scrolls sideways">
-        <table mat-table [dataSource]="data" matSort matSortActive="at" matSortDirection="desc" aria-label="Check records of the analyzer">
-          <ng-container matColumnDef="kind">
-            <th mat-header-cell *matHeaderCellDef mat-sort-header>Check</th>
-            <td mat-cell *matCellDef="let c">{{ c.kind }}</td>
-          </ng-container>
-          <ng-container matColumnDef="at">
-            <th mat-header-cell *matHeaderCellDef mat-sort-header>Time ({{ timeZone() }})</th>
-            <td mat-cell *matCellDef="let c">{{ c.when }}</td>
-          </ng-container>
-          <ng-container matColumnDef="who">
-            <th mat-header-cell *matHeaderCellDef mat-sort-header>By</th>
-            <td mat-cell *matCellDef="let c">{{ c.who }}</td>
-          </ng-container>
-          <ng-container matColumnDef="outcome">
-            <th mat-header-cell *matHeaderCellDef mat-sort-header>Result</th>
-            <td mat-cell *matCellDef="let c">{{ c.outcome }}</td>
-          </ng-container>
-          <ng-container matColumnDef="file">
-            <th mat-header-cell *matHeaderCellDef>File</th>
-            <td mat-cell *matCellDef="let c">
-              @if (c.file; as f) {
-                @if (f.uploaded) {
-                  <a [href]="'/api/attachments/' + f.id + '/content'" [attr.download]="f.name">{{ f.name }}</a>
-                } @else {
-                  {{ f.name }} (still on the phone)
-                }
-              }
-            </td>
-          </ng-container>
-          <tr mat-header-row *matHeaderRowDef="columns"></tr>
-          <tr mat-row *matRowDef="let row; columns: columns"></tr>
-          <tr class="mat-mdc-row" *matNoDataRow>
-            <td class="mat-mdc-cell empty" [attr.colspan]="columns.length">
-              {{ analyzerId() ? 'No checks recorded for this analyzer.' : 'Choose an analyzer.' }}
-            </td>
-          </tr>
-        </table>
+      <table mat-table [dataSource]="data" matSort matSortActive="at" matSortDirection="desc" aria-label="Check records of the analyzer">
+        <ng-container matColumnDef="kind">
+          <th mat-header-cell *matHeaderCellDef mat-sort-header>Check</th>
+          <td mat-cell *matCellDef="let c">{{ c.kind }}</td>
+        </ng-container>
+        <ng-container matColumnDef="at">
+          <th mat-header-cell *matHeaderCellDef mat-sort-header>Time ({{ timeZone() }})</th>
+          <td mat-cell *matCellDef="let c">{{ c.when }}</td>
+        </ng-container>
+        <ng-container matColumnDef="who">
+          <th mat-header-cell *matHeaderCellDef mat-sort-header>By</th>
+          <td mat-cell *matCellDef="let c">{{ c.who }}</td>
+        </ng-container>
+        <ng-container matColumnDef="outcome">
+          <th mat-header-cell *matHeaderCellDef mat-sort-header>Result</th>
+          <td mat-cell *matCellDef="let c">{{ c.outcome }}</td>
+        </ng-container>
+        <ng-container matColumnDef="file">
+          <th mat-header-cell *matHeaderCellDef>File</th>
+          <td mat-cell *matCellDef="let c">
+            @if (c.file; as f) {
+              @if (f.uploaded) { <a [href]="'/api/attachments/' + f.id + '/content'" [attr.download]="f.name">{{ f.name }}</a> }
+              @else { {{ f.name }} (still on the phone) }
+            }
+          </td>
+        </ng-container>
+        <tr mat-header-row *matHeaderRowDef="columns"></tr>
+        <tr mat-row *matRowDef="let row; columns: columns"></tr>
+        <tr class="mat-mdc-row" *matNoDataRow>
+          <td class="mat-mdc-cell empty" [attr.colspan]="columns.length">{{ analyzerId() ? 'No checks recorded for this analyzer.' : 'Choose an analyzer.' }}</td>
+        </tr>
+      </table>
       </div>
       <mat-paginator [pageSize]="25" [pageSizeOptions]="[25, 100]" aria-label="Pages of analyzer checks" />
       @if (analyzerId()) {
         @if (calibrating()) {
           <h4>New calibration of {{ analyzerName() }}</h4>
-          <fw-calibration-form
-            [driftLimitPct]="driftLimitPct()"
-            [timeZone]="timeZone()"
-            [busy]="saving()"
-            (save)="saveCalibration($event)"
-          />
+          <fw-calibration-form [driftLimitPct]="driftLimitPct()" [timeZone]="timeZone()" [busy]="saving()" (save)="saveCalibration($event)" />
           <button mat-button type="button" (click)="calibrating.set(false)">Cancel</button>
         } @else {
           <button mat-stroked-button type="button" (click)="calibrating.set(true)">Record a calibration…</button>
@@ -134,14 +124,7 @@ function fileOf(a: Rec | undefined): CheckRow['file'] {
       <p role="status" data-testid="checks-message">{{ message() }}</p>
     </section>
   `,
-  styles: `
-    table {
-      width: 100%;
-    }
-    .empty {
-      padding: 1rem;
-    }
-  `,
+  styles: `table { width: 100%; } .empty { padding: 1rem; }`,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class AnalyzerChecks {

@@ -32,24 +32,12 @@ import { SetupApi } from './setup-api';
         </mat-form-field>
         <mat-form-field subscriptSizing="dynamic">
           <mat-label>Code prefix (optional)</mat-label>
-          <input
-            matInput
-            autocomplete="off"
-            data-testid="blank-prefix"
-            [value]="prefix()"
-            (input)="prefix.set($any($event.target).value)"
-          />
+          <input matInput autocomplete="off" data-testid="blank-prefix" [value]="prefix()" (input)="prefix.set($any($event.target).value)" />
         </mat-form-field>
         @if (prefix().trim()) {
           <mat-form-field subscriptSizing="dynamic">
             <mat-label>First number</mat-label>
-            <input
-              matInput
-              inputmode="numeric"
-              data-testid="blank-first"
-              [value]="first()"
-              (input)="first.set($any($event.target).value)"
-            />
+            <input matInput inputmode="numeric" data-testid="blank-first" [value]="first()" (input)="first.set($any($event.target).value)" />
           </mat-form-field>
           <mat-form-field subscriptSizing="dynamic">
             <mat-label>Digits</mat-label>
@@ -59,26 +47,14 @@ import { SetupApi } from './setup-api';
         <button mat-flat-button type="submit" [disabled]="busy()" data-testid="blank-download">Download blank tags (PDF)</button>
       </form>
       <p data-testid="blank-preview">{{ preview() }}</p>
-      @if (problem()) {
-        <p role="alert" class="problem">{{ problem() }}</p>
-      }
+      @if (problem()) { <p role="alert" class="problem">{{ problem() }}</p> }
       <p role="status">{{ message() }}</p>
     </section>
   `,
   styles: `
-    .fields {
-      display: flex;
-      gap: 1rem;
-      align-items: center;
-      flex-wrap: wrap;
-      margin-block: 0.5rem;
-    }
-    .fields mat-form-field {
-      width: 11rem;
-    }
-    .problem {
-      color: var(--mat-sys-error);
-    }
+    .fields { display: flex; gap: 1rem; align-items: center; flex-wrap: wrap; margin-block: .5rem; }
+    .fields mat-form-field { width: 11rem; }
+    .problem { color: var(--mat-sys-error); }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -41,22 +41,14 @@ import { SetupApi, type Rec } from './setup-api';
         <mat-label>Filter collars</mat-label>
         <input matInput (input)="filter.set($any($event.target).value.trim().toLowerCase())" />
       </mat-form-field>
-      <div class="row header" aria-hidden="true">
-        <span>Code</span><span>Plot</span><span>Diameter (cm)</span><span>Status</span><span>Collar treatment</span><span>Notes</span>
-      </div>
+      <div class="row header" aria-hidden="true"><span>Code</span><span>Plot</span><span>Diameter (cm)</span><span>Status</span><span>Collar treatment</span><span>Notes</span></div>
       <cdk-virtual-scroll-viewport [itemSize]="phone() ? 100 : 44" class="viewport" role="list" aria-label="Collars of the site">
         <div class="row" role="listitem" *cdkVirtualFor="let c of shown(); trackBy: byId">
-          <span class="code">{{ c['code'] }}</span><span data-label="Plot">{{ plotCode(c) }}</span
-          ><span data-label="Diameter (cm)">{{ c['diameterCm'] ?? '' }}</span>
+          <span class="code">{{ c['code'] }}</span><span data-label="Plot">{{ plotCode(c) }}</span><span data-label="Diameter (cm)">{{ c['diameterCm'] ?? '' }}</span>
           <span data-label="Status">{{ c['status'] }}</span>
           <span>
             @if (collarTreatments().length) {
-              <mat-select
-                class="treatment"
-                [aria-label]="'Treatment of collar ' + c['code']"
-                [value]="c['treatmentId'] ?? ''"
-                (selectionChange)="setTreatment(c, $event)"
-              >
+              <mat-select class="treatment" [aria-label]="'Treatment of collar ' + c['code']" [value]="c['treatmentId'] ?? ''" (selectionChange)="setTreatment(c, $event)">
                 <mat-option value="">(no collar treatment)</mat-option>
                 @for (t of collarTreatments(); track t.id) {
                   <mat-option [value]="t.id">{{ t['code'] }}</mat-option>
@@ -73,62 +65,20 @@ import { SetupApi, type Rec } from './setup-api';
     </section>
   `,
   styles: `
-    .tags {
-      display: flex;
-      gap: 1rem;
-      align-items: center;
-      margin-block: 0.5rem 1rem;
-      flex-wrap: wrap;
-    }
-    .viewport {
-      height: 360px;
-      border: 1px solid var(--mat-sys-outline-variant);
-      border-radius: 8px;
-    }
-    .row {
-      display: grid;
-      grid-template-columns: 8rem 6rem 8rem 6rem 10rem 1fr;
-      gap: 0.5rem;
-      height: 44px;
-      align-items: center;
-      padding-inline: 0.75rem;
-      box-sizing: border-box;
-    }
-    .header {
-      font-weight: 600;
-    }
-    .code {
-      font-weight: 600;
-    }
-    .treatment {
-      min-height: 36px;
-      display: flex;
-      align-items: center;
-      border-bottom: 1px solid var(--mat-sys-outline);
-    }
+    .tags { display: flex; gap: 1rem; align-items: center; margin-block: .5rem 1rem; flex-wrap: wrap; }
+    .viewport { height: 360px; border: 1px solid var(--mat-sys-outline-variant); border-radius: 8px; }
+    .row { display: grid; grid-template-columns: 8rem 6rem 8rem 6rem 10rem 1fr; gap: .5rem; height: 44px; align-items: center; padding-inline: .75rem; box-sizing: border-box; }
+    .header { font-weight: 600; }
+    .code { font-weight: 600; }
+    .treatment { min-height: 36px; display: flex; align-items: center; border-bottom: 1px solid var(--mat-sys-outline); }
     // A phone shows each collar as a small card: two columns, each value with its name.
     @media (max-width: 599.98px) {
-      .header {
-        display: none;
-      }
-      .row {
-        grid-template-columns: minmax(0, 1fr) minmax(0, 1fr);
-        grid-auto-rows: minmax(22px, auto);
-        height: 100px;
-        gap: 2px 0.5rem;
-        padding-block: 6px;
-        border-bottom: 1px solid var(--mat-sys-outline-variant);
-      }
-      .row > [data-label]::before {
-        content: attr(data-label) ': ';
-        color: var(--mat-sys-on-surface-variant);
-      }
+      .header { display: none; }
+      .row { grid-template-columns: minmax(0, 1fr) minmax(0, 1fr); grid-auto-rows: minmax(22px, auto); height: 100px; gap: 2px .5rem;
+        padding-block: 6px; border-bottom: 1px solid var(--mat-sys-outline-variant); }
+      .row > [data-label]::before { content: attr(data-label) ': '; color: var(--mat-sys-on-surface-variant); }
     }
-    .notes {
-      overflow: hidden;
-      text-overflow: ellipsis;
-      white-space: nowrap;
-    }
+    .notes { overflow: hidden; text-overflow: ellipsis; white-space: nowrap; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

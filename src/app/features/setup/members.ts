@@ -18,71 +18,43 @@ const ROLES = ['crew', 'lead', 'lab', 'admin'] as const;
       <h3 id="members-heading">Members and roles</h3>
       <p><a matButton="outlined" routerLink="/accounts/invite" [queryParams]="{ siteId: siteId() }">Invite someone by e-mail</a></p>
       <div class="fw-table-box" tabindex="0" role="region" aria-label="Members and roles, scrolls sideways">
-        <table mat-table [dataSource]="users()">
-          <ng-container matColumnDef="name">
-            <th mat-header-cell *matHeaderCellDef>Name</th>
-            <td mat-cell *matCellDef="let u">
-              {{ u.displayName }} <span class="email">{{ u.email }}</span>
-            </td>
-          </ng-container>
-          <ng-container matColumnDef="member">
-            <th mat-header-cell *matHeaderCellDef>Member of this site</th>
-            <td mat-cell *matCellDef="let u">
-              <mat-checkbox
-                [checked]="u.siteIds.includes(siteId())"
-                [disabled]="seesAll(u)"
-                (change)="setMember(u, $event.checked)"
-                [aria-label]="u.displayName + ' is a member of this site'"
-              />
-            </td>
-          </ng-container>
-          <ng-container matColumnDef="roles">
-            <th mat-header-cell *matHeaderCellDef>Roles</th>
-            <td mat-cell *matCellDef="let u">
-              <div class="roles">
-                @for (r of roles; track r) {
-                  <mat-checkbox
-                    [checked]="u.roles.includes(r)"
-                    (change)="setRole(u, r, $event.checked)"
-                    [aria-label]="u.displayName + ' has role ' + r"
-                    >{{ r }}</mat-checkbox
-                  >
-                }
-              </div>
-            </td>
-          </ng-container>
-          <ng-container matColumnDef="disabled">
-            <th mat-header-cell *matHeaderCellDef>Disabled</th>
-            <td mat-cell *matCellDef="let u">
-              <mat-slide-toggle
-                [checked]="!!u.disabled"
-                (change)="setDisabled(u, $event.checked)"
-                [aria-label]="'Disable ' + u.displayName"
-              />
-            </td>
-          </ng-container>
-          <tr mat-header-row *matHeaderRowDef="columns"></tr>
-          <tr mat-row *matRowDef="let row; columns: columns"></tr>
-        </table>
+      <table mat-table [dataSource]="users()">
+        <ng-container matColumnDef="name">
+          <th mat-header-cell *matHeaderCellDef>Name</th>
+          <td mat-cell *matCellDef="let u">{{ u.displayName }} <span class="email">{{ u.email }}</span></td>
+        </ng-container>
+        <ng-container matColumnDef="member">
+          <th mat-header-cell *matHeaderCellDef>Member of this site</th>
+          <td mat-cell *matCellDef="let u">
+            <mat-checkbox [checked]="u.siteIds.includes(siteId())" [disabled]="seesAll(u)" (change)="setMember(u, $event.checked)"
+              [aria-label]="u.displayName + ' is a member of this site'" />
+          </td>
+        </ng-container>
+        <ng-container matColumnDef="roles">
+          <th mat-header-cell *matHeaderCellDef>Roles</th>
+          <td mat-cell *matCellDef="let u">
+            <div class="roles">
+            @for (r of roles; track r) {
+              <mat-checkbox [checked]="u.roles.includes(r)" (change)="setRole(u, r, $event.checked)" [aria-label]="u.displayName + ' has role ' + r">{{ r }}</mat-checkbox>
+            }
+            </div>
+          </td>
+        </ng-container>
+        <ng-container matColumnDef="disabled">
+          <th mat-header-cell *matHeaderCellDef>Disabled</th>
+          <td mat-cell *matCellDef="let u">
+            <mat-slide-toggle [checked]="!!u.disabled" (change)="setDisabled(u, $event.checked)" [aria-label]="'Disable ' + u.displayName" />
+          </td>
+        </ng-container>
+        <tr mat-header-row *matHeaderRowDef="columns"></tr>
+        <tr mat-row *matRowDef="let row; columns: columns"></tr>
+      </table>
       </div>
       <p role="status">{{ message() }}</p>
     </section>
   `,
-  styles: `
-    .email {
-      display: block;
-      font-size: 0.85rem;
-      opacity: 0.8;
-    }
-    table {
-      width: 100%;
-    }
-    .roles {
-      display: flex;
-      flex-wrap: wrap;
-      min-width: 12rem;
-    }
-  `,
+  styles: `.email { display: block; font-size: .85rem; opacity: .8; } table { width: 100%; }
+    .roles { display: flex; flex-wrap: wrap; min-width: 12rem; }`,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class Members {

@@ -35,27 +35,9 @@ export interface MapPlot {
   selector: 'fw-outline-map',
   template: `<div #map class="map" role="region" [attr.aria-label]="label()" data-testid="outline-map"></div>`,
   styles: `
-    .map {
-      height: 420px;
-      border: 1px solid var(--mat-sys-outline);
-      border-radius: 8px;
-      background: #f4f1ea;
-      cursor: crosshair;
-    }
-    :host ::ng-deep .fw-corner {
-      background: #fff;
-      border: 2px solid #7a2e00;
-      border-radius: 50%;
-    }
-    :host ::ng-deep .fw-collar-label {
-      background: #fff;
-      border: 1px solid #555;
-      border-radius: 3px;
-      padding: 0 2px;
-      font-size: 11px;
-      color: #111;
-      white-space: nowrap;
-    }
+    .map { height: 420px; border: 1px solid var(--mat-sys-outline); border-radius: 8px; background: #f4f1ea; cursor: crosshair; }
+    :host ::ng-deep .fw-corner { background: #fff; border: 2px solid #7a2e00; border-radius: 50%; }
+    :host ::ng-deep .fw-collar-label { background: #fff; border: 1px solid #555; border-radius: 3px; padding: 0 2px; font-size: 11px; color: #111; white-space: nowrap; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -31,16 +31,9 @@ const versionFields = chamberProfileFields.pick({ validFrom: true, chamberVolume
       @for (f of fields; track f.key) {
         <mat-form-field>
           <mat-label>{{ f.label }}</mat-label>
-          <input
-            matInput
-            [type]="f.key === 'validFrom' ? 'date' : 'number'"
-            step="any"
-            [value]="draft()[f.key] ?? ''"
-            (input)="set(f.key, $any($event.target).value)"
-          />
-          @if (errors()[f.key]) {
-            <mat-hint class="problem">{{ errors()[f.key] }}</mat-hint>
-          }
+          <input matInput [type]="f.key === 'validFrom' ? 'date' : 'number'" step="any" [value]="draft()[f.key] ?? ''"
+            (input)="set(f.key, $any($event.target).value)" />
+          @if (errors()[f.key]) { <mat-hint class="problem">{{ errors()[f.key] }}</mat-hint> }
         </mat-form-field>
       }
       <div class="actions">
@@ -49,36 +42,14 @@ const versionFields = chamberProfileFields.pick({ validFrom: true, chamberVolume
       </div>
       @if (preview(); as p) {
         <p data-testid="recompute-preview">
-          {{ p.closures }} closure{{ p.closures === 1 ? '' : 's' }} from {{ draft()['validFrom']
-          }}{{ p.until ? ' until ' + p.until : '' }} would be recomputed{{
-            p.lockedKept ? '; ' + p.lockedKept + ' in locked campaigns keep their flux' : ''
-          }}.
+          {{ p.closures }} closure{{ p.closures === 1 ? '' : 's' }} from {{ draft()['validFrom'] }}{{ p.until ? ' until ' + p.until : '' }} would be recomputed{{ p.lockedKept ? '; ' + p.lockedKept + ' in locked campaigns keep their flux' : '' }}.
         </p>
       }
       <p role="status">{{ message() }}</p>
     </form>
   `,
-  styles: `
-    .version {
-      display: flex;
-      flex-wrap: wrap;
-      gap: 0.5rem 1rem;
-      align-items: center;
-      margin-block: 1.5rem;
-    }
-    h3,
-    .actions,
-    p {
-      flex-basis: 100%;
-    }
-    .actions {
-      display: flex;
-      gap: 0.75rem;
-    }
-    .problem {
-      color: var(--mat-sys-error);
-    }
-  `,
+  styles: `.version { display: flex; flex-wrap: wrap; gap: .5rem 1rem; align-items: center; margin-block: 1.5rem; }
+    h3, .actions, p { flex-basis: 100%; } .actions { display: flex; gap: .75rem; } .problem { color: var(--mat-sys-error); }`,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ProfileVersion {

@@ -18,75 +18,38 @@ import { SetupApi, type Rec } from './setup-api';
       <h3 id="routes-heading">Routes</h3>
       <ul>
         @for (r of routes(); track r.id) {
-          <li>
-            <button mat-button type="button" (click)="edit(r)">{{ r['name'] }}</button> · {{ $any(r['collarIds']).length }} collars
-          </li>
-        } @empty {
-          <li>No routes yet.</li>
-        }
+          <li><button mat-button type="button" (click)="edit(r)">{{ r['name'] }}</button> · {{ $any(r['collarIds']).length }} collars</li>
+        } @empty { <li>No routes yet.</li> }
       </ul>
       <form (submit)="$event.preventDefault(); save()" aria-label="Route">
         <mat-form-field>
           <mat-label>Route name</mat-label>
           <input matInput [value]="name()" (input)="name.set($any($event.target).value)" />
-          @if (errors()['name']) {
-            <mat-hint class="problem">{{ errors()['name'] }}</mat-hint>
-          }
+          @if (errors()['name']) { <mat-hint class="problem">{{ errors()['name'] }}</mat-hint> }
         </mat-form-field>
         <mat-form-field>
           <mat-label>Add a collar</mat-label>
           <mat-select [value]="null" (valueChange)="addCollar($event)">
-            @for (c of available(); track c.id) {
-              <mat-option [value]="c.id">{{ c['code'] }}</mat-option>
-            }
+            @for (c of available(); track c.id) { <mat-option [value]="c.id">{{ c['code'] }}</mat-option> }
           </mat-select>
         </mat-form-field>
         <ol class="order" aria-label="Collars in walking order">
           @for (id of order(); track id; let i = $index) {
             <li>
               {{ code(id) }}
-              <button
-                mat-icon-button
-                type="button"
-                (click)="move(i, -1)"
-                [disabled]="i === 0"
-                [attr.aria-label]="'Move ' + code(id) + ' up'"
-              >
-                <mat-icon aria-hidden="true">arrow_upward</mat-icon>
-              </button>
-              <button
-                mat-icon-button
-                type="button"
-                (click)="move(i, 1)"
-                [disabled]="i === order().length - 1"
-                [attr.aria-label]="'Move ' + code(id) + ' down'"
-              >
-                <mat-icon aria-hidden="true">arrow_downward</mat-icon>
-              </button>
-              <button mat-icon-button type="button" (click)="order.set(without(id))" [attr.aria-label]="'Remove ' + code(id)">
-                <mat-icon aria-hidden="true">close</mat-icon>
-              </button>
+              <button mat-icon-button type="button" (click)="move(i, -1)" [disabled]="i === 0" [attr.aria-label]="'Move ' + code(id) + ' up'"><mat-icon aria-hidden="true">arrow_upward</mat-icon></button>
+              <button mat-icon-button type="button" (click)="move(i, 1)" [disabled]="i === order().length - 1" [attr.aria-label]="'Move ' + code(id) + ' down'"><mat-icon aria-hidden="true">arrow_downward</mat-icon></button>
+              <button mat-icon-button type="button" (click)="order.set(without(id))" [attr.aria-label]="'Remove ' + code(id)"><mat-icon aria-hidden="true">close</mat-icon></button>
             </li>
           }
         </ol>
         <button mat-flat-button type="submit">{{ editing() ? 'Save route' : 'Create route' }}</button>
-        @if (editing()) {
-          <button mat-button type="button" (click)="reset()">New route</button>
-        }
+        @if (editing()) { <button mat-button type="button" (click)="reset()">New route</button> }
       </form>
       <p role="status">{{ message() }}</p>
     </section>
   `,
-  styles: `
-    .order li {
-      display: flex;
-      align-items: center;
-      gap: 0.25rem;
-    }
-    .problem {
-      color: var(--mat-sys-error);
-    }
-  `,
+  styles: `.order li { display: flex; align-items: center; gap: .25rem; } .problem { color: var(--mat-sys-error); }`,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class RouteEditor {

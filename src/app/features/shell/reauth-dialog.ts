@@ -15,9 +15,7 @@ import { describeSignInError } from '../sign-in/sign-in-error';
     <h2 mat-dialog-title>Sign in again</h2>
     <form [formGroup]="form" (ngSubmit)="signInAgain()">
       <mat-dialog-content>
-        <p>
-          Signed in on this device as <strong>{{ auth.user()?.email }}</strong>.
-        </p>
+        <p>Signed in on this device as <strong>{{ auth.user()?.email }}</strong>.</p>
         <mat-form-field appearance="outline">
           <mat-label>Password</mat-label>
           <input matInput type="password" autocomplete="current-password" formControlName="password" required />
@@ -31,13 +29,8 @@ import { describeSignInError } from '../sign-in/sign-in-error';
     </form>
   `,
   styles: `
-    mat-form-field {
-      width: 100%;
-    }
-    .problem {
-      color: var(--mat-sys-error);
-      font-weight: 600;
-    }
+    mat-form-field { width: 100%; }
+    .problem { color: var(--mat-sys-error); font-weight: 600; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -20,18 +20,13 @@ import { ReauthDialog } from './reauth-dialog';
   `,
   styles: `
     .banner {
-      display: flex;
-      flex-wrap: wrap;
-      align-items: center;
-      gap: 12px;
+      display: flex; flex-wrap: wrap; align-items: center; gap: 12px;
       padding: 12px 16px;
       background: var(--mat-sys-tertiary-container);
       color: var(--mat-sys-on-tertiary-container);
       font-weight: 600;
     }
-    span {
-      flex: 1 1 240px;
-    }
+    span { flex: 1 1 240px; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

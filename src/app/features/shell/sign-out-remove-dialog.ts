@@ -16,13 +16,9 @@ import { SyncEngine } from '../../core/sync/sync-engine';
     <h2 mat-dialog-title>Remove your data from this device?</h2>
     <mat-dialog-content>
       @if (atRisk()) {
-        @if (left().pending) {
-          <p class="loss">{{ left().pending }} not yet synced will be lost.</p>
-        }
+        @if (left().pending) { <p class="loss">{{ left().pending }} not yet synced will be lost.</p> }
         @if (left().refused || left().conflicts) {
-          <p class="loss">
-            {{ left().refused }} change(s) the server refused and {{ left().conflicts }} open conflict(s) exist only on this device.
-          </p>
+          <p class="loss">{{ left().refused }} change(s) the server refused and {{ left().conflicts }} open conflict(s) exist only on this device.</p>
         }
         <p>Sync first to send them, or save a backup file to keep them.</p>
       } @else {
@@ -42,18 +38,9 @@ import { SyncEngine } from '../../core/sync/sync-engine';
     </mat-dialog-actions>
   `,
   styles: `
-    .loss {
-      font-weight: 600;
-      color: var(--mat-sys-error);
-    }
-    .danger {
-      background: var(--mat-sys-error);
-      color: var(--mat-sys-on-error);
-    }
-    mat-dialog-actions {
-      flex-wrap: wrap;
-      gap: 4px;
-    }
+    .loss { font-weight: 600; color: var(--mat-sys-error); }
+    .danger { background: var(--mat-sys-error); color: var(--mat-sys-on-error); }
+    mat-dialog-actions { flex-wrap: wrap; gap: 4px; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

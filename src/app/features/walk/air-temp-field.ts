@@ -34,14 +34,7 @@ const validAirTemp = (c: AbstractControl<string>): ValidationErrors | null =>
     </mat-form-field>
   `,
   // The field takes its row's width, and its two-line hint pushes what follows down instead of running over it.
-  styles: `
-    :host {
-      display: block;
-    }
-    mat-form-field {
-      width: 100%;
-    }
-  `,
+  styles: `:host { display: block; } mat-form-field { width: 100%; }`,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class AirTempField {

@@ -28,25 +28,14 @@ type Check = EntityFields<'analyzerCheck'> & RecordMeta;
       } @else {
         @if (last(); as c) {
           <p [class.ok]="!overdue()" [class.warning]="overdue()" data-testid="calibration-status">
-            Last calibrated {{ when(c.at) }} ({{ ageDays() }} days ago; due every {{ analyzer()!.calibrationIntervalDays }} days)
-            @if (overdue()) {
-              : overdue
-            }
-            @if (c.driftPpm !== null) {
-              · span drift {{ c.driftPpm }} µmol/mol
-            }
+            Last calibrated {{ when(c.at) }} ({{ ageDays() }} days ago; due every {{ analyzer()!.calibrationIntervalDays }} days)@if (overdue()) {: overdue}
+            @if (c.driftPpm !== null) { · span drift {{ c.driftPpm }} µmol/mol }
           </p>
         } @else {
           <p class="warning" data-testid="calibration-status">No calibration of {{ analyzer()!.name }} on record</p>
         }
         @if (open()) {
-          <fw-calibration-form
-            [driftLimitPct]="driftLimitPct()"
-            [timeZone]="timeZone()"
-            [recordedBy]="recordedBy()"
-            [busy]="busy()"
-            (save)="saveCalibration($event)"
-          />
+          <fw-calibration-form [driftLimitPct]="driftLimitPct()" [timeZone]="timeZone()" [recordedBy]="recordedBy()" [busy]="busy()" (save)="saveCalibration($event)" />
           <button mat-button type="button" (click)="open.set(false)">Cancel</button>
         } @else {
           <button mat-stroked-button type="button" (click)="open.set(true)">Record a calibration…</button>

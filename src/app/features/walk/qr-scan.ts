@@ -33,14 +33,7 @@ import { TagOpener } from './tag-opener';
         <button mat-stroked-button type="button" (click)="stopScan()">Stop scanning</button>
       }
       <label class="file-button">
-        <input
-          type="file"
-          accept="image/*"
-          capture="environment"
-          class="fw-visually-hidden"
-          [attr.aria-label]="words().photo"
-          (change)="readPhoto($event)"
-        />
+        <input type="file" accept="image/*" capture="environment" class="fw-visually-hidden" [attr.aria-label]="words().photo" (change)="readPhoto($event)" />
         <span aria-hidden="true">{{ words().photo }}</span>
       </label>
     </div>
@@ -48,37 +41,12 @@ import { TagOpener } from './tag-opener';
     <p role="status" data-testid="qr-status">{{ status() }}</p>
   `,
   styles: `
-    .row {
-      display: flex;
-      flex-wrap: wrap;
-      gap: 8px;
-    }
-    button {
-      min-height: 48px;
-    }
-    .file-button {
-      display: inline-flex;
-      align-items: center;
-      min-height: 48px;
-      padding: 0 16px;
-      border: 1px solid var(--mat-sys-outline);
-      border-radius: 24px;
-      cursor: pointer;
-      font-weight: 600;
-    }
-    .file-button:focus-within {
-      outline: 3px solid var(--mat-sys-primary);
-      outline-offset: 2px;
-    }
-    video {
-      width: 100%;
-      max-height: 50vh;
-      border-radius: 8px;
-      margin-top: 8px;
-    }
-    p:empty {
-      display: none;
-    }
+    .row { display: flex; flex-wrap: wrap; gap: 8px; }
+    button { min-height: 48px; }
+    .file-button { display: inline-flex; align-items: center; min-height: 48px; padding: 0 16px; border: 1px solid var(--mat-sys-outline); border-radius: 24px; cursor: pointer; font-weight: 600; }
+    .file-button:focus-within { outline: 3px solid var(--mat-sys-primary); outline-offset: 2px; }
+    video { width: 100%; max-height: 50vh; border-radius: 8px; margin-top: 8px; }
+    p:empty { display: none; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -26,24 +26,13 @@ export const COMMON_SKIP_REASONS = [
       <form (submit)="$event.preventDefault(); confirm()" aria-labelledby="skip-title">
         <h3 id="skip-title" class="sub">Why is this collar skipped?</h3>
         <mat-chip-listbox aria-label="Common reasons" (change)="pick($event.value)">
-          @for (r of reasons; track r) {
-            <mat-chip-option [value]="r">{{ r }}</mat-chip-option>
-          }
+          @for (r of reasons; track r) { <mat-chip-option [value]="r">{{ r }}</mat-chip-option> }
         </mat-chip-listbox>
         <mat-form-field appearance="outline" class="wide">
           <mat-label>Reason</mat-label>
-          <textarea
-            matInput
-            rows="2"
-            maxlength="500"
-            data-testid="skip-reason"
-            [value]="reason()"
-            (input)="reason.set($any($event.target).value)"
-          ></textarea>
+          <textarea matInput rows="2" maxlength="500" data-testid="skip-reason" [value]="reason()" (input)="reason.set($any($event.target).value)"></textarea>
         </mat-form-field>
-        @if (problem()) {
-          <p class="warning" role="alert">{{ problem() }}</p>
-        }
+        @if (problem()) { <p class="warning" role="alert">{{ problem() }}</p> }
         <div class="row">
           <button mat-flat-button type="submit" [disabled]="busy()">Skip collar</button>
           <button mat-button type="button" (click)="cancel()">Cancel</button>
@@ -52,26 +41,9 @@ export const COMMON_SKIP_REASONS = [
     }
   `,
   styles: `
-    .wide {
-      width: 100%;
-    }
-    .row {
-      display: flex;
-      gap: 8px;
-    }
-    button {
-      min-height: 48px;
-    }
-    .warning {
-      border: 2px solid var(--mat-sys-error);
-      padding: 8px 12px;
-      border-radius: 8px;
-      font-weight: 600;
-    }
-    mat-chip-listbox {
-      display: block;
-      margin-bottom: 8px;
-    }
+    .wide { width: 100%; } .row { display: flex; gap: 8px; } button { min-height: 48px; }
+    .warning { border: 2px solid var(--mat-sys-error); padding: 8px 12px; border-radius: 8px; font-weight: 600; }
+    mat-chip-listbox { display: block; margin-bottom: 8px; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -55,59 +55,19 @@ function markerFace(mark: string, text: string, colour: string): HTMLElement {
       <h1>Map</h1>
       <p class="legend" data-testid="map-legend">{{ legend }} · ◎ you</p>
       <div #map class="map" role="region" aria-label="Map of the route's collars" data-testid="walk-map"></div>
-      @if (!tileUrl()) {
-        <p class="muted">No map background: this site has no tile source, so nothing is downloaded.</p>
-      }
+      @if (!tileUrl()) { <p class="muted">No map background: this site has no tile source, so nothing is downloaded.</p> }
     </div>
   `,
   styleUrl: './walk.scss',
   styles: `
-    .map {
-      height: 62vh;
-      min-height: 320px;
-      border: 1px solid var(--mat-sys-outline);
-      border-radius: 8px;
-      background: #f4f1ea;
-    }
-    .legend {
-      font-size: 1.05rem;
-    }
-    :host ::ng-deep .fw-marker {
-      font-weight: 700;
-      color: #111;
-    }
-    :host ::ng-deep .fw-marker .face {
-      display: contents;
-    }
-    :host ::ng-deep .fw-marker .m {
-      display: flex;
-      align-items: center;
-      justify-content: center;
-      width: 48px;
-      height: 48px;
-      font-size: 30px;
-      line-height: 1;
-      background: rgba(255, 255, 255, 0.85);
-      border-radius: 50%;
-    }
-    :host ::ng-deep .fw-marker .t {
-      position: absolute;
-      height: 22px;
-      box-sizing: border-box;
-      background: #fff;
-      border: 1px solid #111;
-      border-radius: 4px;
-      padding: 0 4px;
-      font-size: 13px;
-      line-height: 20px;
-      white-space: nowrap;
-    }
-    :host ::ng-deep .fw-marker .t.hidden {
-      display: none;
-    }
-    :host ::ng-deep .fw-marker:focus-visible {
-      outline: 3px solid #0b57d0;
-    }
+    .map { height: 62vh; min-height: 320px; border: 1px solid var(--mat-sys-outline); border-radius: 8px; background: #f4f1ea; }
+    .legend { font-size: 1.05rem; }
+    :host ::ng-deep .fw-marker { font-weight: 700; color: #111; }
+    :host ::ng-deep .fw-marker .face { display: contents; }
+    :host ::ng-deep .fw-marker .m { display: flex; align-items: center; justify-content: center; width: 48px; height: 48px; font-size: 30px; line-height: 1; background: rgba(255, 255, 255, 0.85); border-radius: 50%; }
+    :host ::ng-deep .fw-marker .t { position: absolute; height: 22px; box-sizing: border-box; background: #fff; border: 1px solid #111; border-radius: 4px; padding: 0 4px; font-size: 13px; line-height: 20px; white-space: nowrap; }
+    :host ::ng-deep .fw-marker .t.hidden { display: none; }
+    :host ::ng-deep .fw-marker:focus-visible { outline: 3px solid #0b57d0; }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -14,48 +14,30 @@ const POLL_MS = 1000;
 @Component({
   selector: 'fw-export-panel',
   imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatProgressBarModule, MatSelectModule],
-  template: ` <p>
-      The data package holds one CSV per table (collars and events, visits, offset sets, probe readings, closures with raw and review
-      results and flags, raw series, temperature logs, aggregates), <code>datapackage.json</code> with table schemas and units, EML 2.2
-      metadata and the provenance of the numbers.
-    </p>
+  template: `
+    <p>The data package holds one CSV per table (collars and events, visits, offset sets, probe readings, closures with raw and review
+      results and flags, raw series, temperature logs, aggregates), <code>datapackage.json</code> with table schemas and units,
+      EML 2.2 metadata and the provenance of the numbers.</p>
     <!-- The hint runs to two lines: the field grows with it instead of sliding it under the button. -->
     <mat-form-field appearance="outline" subscriptSizing="dynamic">
       <mat-label>Data licence</mat-label>
       <mat-select [value]="licence()" (selectionChange)="licence.set($event.value)">
-        @for (l of licences; track l.id) {
-          <mat-option [value]="l.id">{{ l.id }} — {{ l.title }}</mat-option>
-        }
+        @for (l of licences; track l.id) { <mat-option [value]="l.id">{{ l.id }} — {{ l.title }}</mat-option> }
       </mat-select>
       <mat-hint>Needed to build: written into datapackage.json and the EML, so a repository can publish the data.</mat-hint>
     </mat-form-field>
     <p><button mat-flat-button type="button" (click)="start()" [disabled]="running() || !licence()">Build data package</button></p>
     @if (job(); as j) {
-      <p role="status" data-testid="export-status">{{ j.state }} · {{ j.done }} / {{ j.total ?? '?' }}</p>
-      @if (j.total) {
-        <mat-progress-bar
-          mode="determinate"
-          [value]="(100 * j.done) / j.total"
-          [attr.aria-label]="'Data package progress, ' + j.done + ' of ' + j.total"
-        />
-      }
+      <p role="status" data-testid="export-status">{{ j.state }} · {{ j.done }} / {{ j.total ?? '?' }}
+</p>
+      @if (j.total) { <mat-progress-bar mode="determinate" [value]="(100 * j.done) / j.total" [attr.aria-label]="'Data package progress, ' + j.done + ' of ' + j.total" /> }
       @if (j.state === 'completed' && j.result) {
-        <a
-          matButton="outlined"
-          [href]="'/api/results/exports/' + j.id + '/file'"
-          [attr.download]="j.result.fileName"
-          data-testid="export-download"
-        >
-          Download {{ j.result.fileName }} ({{ j.result.sizeBytes / 1024 | number: '1.0-0' }} kB)</a
-        >
+        <a matButton="outlined" [href]="'/api/results/exports/' + j.id + '/file'" [attr.download]="j.result.fileName" data-testid="export-download">
+          Download {{ j.result.fileName }} ({{ j.result.sizeBytes / 1024 | number: '1.0-0' }} kB)</a>
       }
-      @if (j.error) {
-        <p role="alert">{{ j.error }}</p>
-      }
+      @if (j.error) { <p role="alert">{{ j.error }}</p> }
     }
-    @if (problem()) {
-      <p role="alert">{{ problem() }}</p>
-    }`,
+    @if (problem()) { <p role="alert">{{ problem() }}</p> }`,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ExportPanel implements OnDestroy {
