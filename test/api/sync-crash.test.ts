@@ -33,11 +33,21 @@ describe('sync when the server process dies', () => {
 
     const first = await startServerProcess(process.env['TEST_DATABASE_URL']!);
     const call = await httpSession(first.base, demoEmail('lead'));
+    let answered = false;
     const lost = call('POST', '/api/sync/push', body).then(
-      () => 'answered',
+      () => ((answered = true), 'answered'),
       () => 'lost',
     );
-    await new Promise((r) => setTimeout(r, 400));
+    // Kill while the push's transaction is open: a push of this size can answer within a few hundred
+    // milliseconds, so a fixed delay may land after the commit. A transaction writing collar events holds
+    // a RowExclusiveLock on the table until it commits.
+    const writing = async () =>
+      (
+        await t.ds.query(`SELECT count(*)::int AS n FROM pg_locks l JOIN pg_class c ON c.oid = l.relation
+          WHERE c.relname = 'collar_event' AND l.mode = 'RowExclusiveLock' AND l.pid <> pg_backend_pid()`)
+      )[0].n > 0;
+    const deadline = Date.now() + 30_000;
+    while (!answered && Date.now() < deadline && !(await writing())) await new Promise((r) => setTimeout(r, 2));
     first.child.kill('SIGKILL');
     expect(await lost).toBe('lost');
     expect([0, OPS]).toContain(await countStored()); // a batch is all or nothing
