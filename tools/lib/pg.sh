@@ -73,5 +73,13 @@ pg_down() {
   bin=$(pg_bin) || return 0
   dir=$(pg_data_dir "$name" 2>/dev/null)
   [ -s "$dir/PG_VERSION" ] || return 0
-  as_pg "$bin/pg_ctl" -D "$dir" -m fast -w stop >/dev/null 2>&1 || true
+  [ -f "$dir/postmaster.pid" ] || return 0
+  as_pg "$bin/pg_ctl" -D "$dir" -m fast -w -t 30 stop >/dev/null 2>&1 && return 0
+  # A cluster that does not stop in time (a loaded machine, a client that holds on) must not outlive
+  # the run and block the next one on the same port: stop it at once, then by its process id.
+  say "the $name cluster did not stop within 30 s; stopping it immediately" >&2
+  as_pg "$bin/pg_ctl" -D "$dir" -m immediate -w -t 15 stop >/dev/null 2>&1 && return 0
+  local pid
+  pid=$(head -1 "$dir/postmaster.pid" 2>/dev/null || true)
+  [ -n "$pid" ] && kill -9 "$pid" 2>/dev/null || true
 }
