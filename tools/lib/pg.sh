@@ -5,8 +5,8 @@
 pg_bin() {
   local d
   d=$(ls -d /usr/lib/postgresql/*/bin 2>/dev/null | sort -V | tail -n1)
-  [ -n "$d" ] && [ -x "$d/initdb" ] && { echo "$d"; return; }
-  d=$(command -v pg_ctl 2>/dev/null) && { dirname "$d"; return; }
+  [ -n "$d" ] && [ -x "$d/initdb" ] && { echo "$d"; return 0; }
+  d=$(command -v pg_ctl 2>/dev/null) && { dirname "$d"; return 0; }
   return 1
 }
 
