@@ -380,17 +380,24 @@ describe('Board in Chromium', () => {
       console.log(`[board] map: ${draw!.markers} markers drawn in ${draw!.ms.toFixed(0)} ms (tab click to drawn: ${tabToMarkers} ms)`);
       // One DOM element per marker took 1 819 ms here; the canvas layer 205 ms. A second is the budget on a shared machine.
       expect(draw!.ms).toBeLessThanOrEqual(1000);
-      // Drawn as one canvas: find a pixel of the "due" shape's colour (#8a4b00) and click it; the popup names the collar and its state.
+      // Drawn as one canvas: find a point well inside a "due" shape (#8a4b00 all around it, not an edge another
+      // marker may overlap) and click it; the popup names the collar and its state.
       const spot = await page.locator('canvas.fw-collar-canvas').evaluate((c: HTMLCanvasElement) => {
         const ctx = c.getContext('2d')!;
         const img = ctx.getImageData(0, 0, c.width, c.height).data;
         const box = c.getBoundingClientRect();
         const ratio = c.width / box.width;
-        for (let i = 0; i < img.length; i += 4) {
-          if (img[i] === 0x8a && img[i + 1] === 0x4b && img[i + 2] === 0x00 && img[i + 3] === 255) {
-            const px = (i / 4) % c.width,
-              py = Math.floor(i / 4 / c.width);
-            return { x: box.left + px / ratio, y: box.top + py / ratio };
+        const due = (x: number, y: number) => {
+          if (x < 0 || y < 0 || x >= c.width || y >= c.height) return false;
+          const i = (y * c.width + x) * 4;
+          return img[i] === 0x8a && img[i + 1] === 0x4b && img[i + 2] === 0x00 && img[i + 3] === 255;
+        };
+        const r = Math.max(2, Math.round(2 * ratio));
+        for (let y = 0; y < c.height; y++) {
+          for (let x = 0; x < c.width; x++) {
+            if (due(x, y) && due(x - r, y) && due(x + r, y) && due(x, y - r) && due(x, y + r)) {
+              return { x: box.left + x / ratio, y: box.top + y / ratio };
+            }
           }
         }
         return null;
