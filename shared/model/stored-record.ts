@@ -10,7 +10,7 @@ interface DerivedFieldTypes {
   closure: { results: Record<string, unknown> | null; flags: string[]; fluxUmolM2S: number | null };
   attachment: { objectKey: string | null };
 }
-type DerivedOf<E extends EntityName> = E extends keyof DerivedFieldTypes ? DerivedFieldTypes[E] : unknown;
+export type DerivedOf<E extends EntityName> = E extends keyof DerivedFieldTypes ? DerivedFieldTypes[E] : unknown;
 
 /**
  * A record of entity E as the server stores and answers it: the shared schema's fields, the
@@ -18,3 +18,17 @@ type DerivedOf<E extends EntityName> = E extends keyof DerivedFieldTypes ? Deriv
  * every reader of this type.
  */
 export type StoredRecord<E extends EntityName> = Omit<EntityFields<E>, keyof DerivedOf<E>> & DerivedOf<E> & RecordMeta;
+
+/**
+ * A record of entity E as a device keeps it: the shared schema's fields, the server-derived fields
+ * once the server has answered (absent on a record made here and not yet pushed), and the meta the
+ * server owns (rev 0 and no `updatedAt` until the first push).
+ */
+export type DeviceRecord<E extends EntityName> = Omit<EntityFields<E>, keyof DerivedOf<E>> &
+  Partial<DerivedOf<E>> & {
+    id: string;
+    rev: number;
+    updatedAt?: string;
+    updatedBy?: string | null;
+    deleted?: boolean;
+  };

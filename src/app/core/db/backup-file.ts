@@ -88,7 +88,7 @@ export async function importBackup(db: FluxDb, file: BackupFile, userId: string)
       `This backup file holds the work of ${file.user.email}; only they can load it. It can still be opened read-only.`,
     );
   }
-  const tables = SYNC_ENTITIES.map((e) => db.records(e));
+  const tables = SYNC_ENTITIES.map((e) => db.anyRecords(e));
   const tally: ImportTally = { queued: 0, skipped: 0 };
   await db.transaction('rw', [...tables, db.outbox, db.acked, db.rejected], async () => {
     for (const op of file.outbox) {
@@ -99,7 +99,7 @@ export async function importBackup(db: FluxDb, file: BackupFile, userId: string)
         continue;
       }
       await db.outbox.add({ ...op, base: op.base ?? {}, sentAt: null });
-      const table = db.records(op.entity as SyncEntityName);
+      const table = db.anyRecords(op.entity as SyncEntityName);
       const shown = overlay((await table.get(op.id)) ?? null, [{ ...op, sentAt: null }]);
       if (shown) await table.put(shown);
       else await table.delete(op.id);

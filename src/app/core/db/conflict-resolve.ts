@@ -20,7 +20,7 @@ export function resolutionFields(c: ConflictRow, choice: Record<string, Side>): 
  * cleanly). Keeping all of theirs queues nothing.
  */
 export async function resolveConflict(db: FluxDb, c: ConflictRow, choice: Record<string, Side>, now = new Date()): Promise<string | null> {
-  const table = db.records(c.entity);
+  const table = db.anyRecords(c.entity);
   const at = nowIso(now);
   return db.transaction('rw', [table, db.outbox, db.conflicts], async () => {
     await db.conflicts.delete(c.opId);

@@ -1,8 +1,12 @@
 import Dexie, { type Table } from 'dexie';
 import { SYNC_ENTITIES, type SyncEntityName } from '../../../../shared/model/entity-names';
+import type { DeviceRecord } from '../../../../shared/model/stored-record';
 
-/** A synced record as the device keeps it: the server's wire record with pending local edits laid over it. */
-export interface LocalRecord {
+/**
+ * A synced record of any entity, as the sync machinery handles it without knowing its type (push,
+ * pull, outbox, conflicts, backups). Screens and stores read `LocalRecord<E>` instead.
+ */
+export interface RecordBag {
   id: string;
   /** The server's revision this copy is based on (0 for a record created here and not yet pushed). */
   rev: number;
@@ -11,6 +15,13 @@ export interface LocalRecord {
   deleted?: boolean;
   [field: string]: unknown;
 }
+
+/**
+ * A record of entity E as the device keeps it: the server's record with pending local edits laid
+ * over it, typed by the entity's shared schema so a renamed field is a compile error in every
+ * reader. Without E it is the untyped bag the sync machinery moves.
+ */
+export type LocalRecord<E extends SyncEntityName | null = null> = E extends SyncEntityName ? DeviceRecord<E> : RecordBag;
 
 /** One queued operation. At most one unsent op per record: later edits are merged into it. */
 export interface OutboxOp {
@@ -140,12 +151,18 @@ export class FluxDb extends Dexie {
     this.version(2).stores({ blobs: 'attachmentId' });
   }
 
-  records(entity: SyncEntityName): Table<LocalRecord, string> {
+  /** The table of entity E, its rows typed by E's schema. */
+  records<E extends SyncEntityName>(entity: E): Table<LocalRecord<E>, string> {
+    return this.table(entity);
+  }
+
+  /** The table of an entity named at run time, as the sync machinery moves it (untyped rows). */
+  anyRecords(entity: SyncEntityName): Table<RecordBag, string> {
     return this.table(entity);
   }
 
   /** Every table a record write may touch together with its outbox op. */
-  entityTables(): Table<LocalRecord, string>[] {
-    return SYNC_ENTITIES.map((e) => this.records(e));
+  entityTables(): Table<RecordBag, string>[] {
+    return SYNC_ENTITIES.map((e) => this.anyRecords(e));
   }
 }

@@ -48,7 +48,7 @@ export async function saveEdit(
   changes: Record<string, unknown>,
   opts: { baseRev?: number; now?: Date } = {},
 ): Promise<OutboxOp | null> {
-  const table = db.records(entity);
+  const table = db.anyRecords(entity);
   const now = nowIso(opts.now);
   return db.transaction('rw', [table, db.outbox], async () => {
     const rec = await table.get(id);
@@ -86,7 +86,7 @@ export async function createRecord(
   fields: Record<string, unknown>,
   opts: { id?: string; now?: Date } = {},
 ): Promise<LocalRecord> {
-  const table = db.records(entity);
+  const table = db.anyRecords(entity);
   const id = opts.id ?? uuidv4();
   const now = nowIso(opts.now);
   const clean = editableFields(fields);
@@ -101,7 +101,7 @@ export async function createRecord(
 
 /** Deletes a record on this device and queues the delete (or drops an unsent create entirely). */
 export async function deleteRecord(db: FluxDb, entity: SyncEntityName, id: string, opts: { now?: Date } = {}): Promise<OutboxOp | null> {
-  const table = db.records(entity);
+  const table = db.anyRecords(entity);
   const now = nowIso(opts.now);
   return db.transaction('rw', [table, db.outbox], async () => {
     const rec = await table.get(id);

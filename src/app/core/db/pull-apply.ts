@@ -34,12 +34,12 @@ export async function applyPullPage(db: FluxDb, answer: PullAnswer, opts: { fres
     else byEntity.set(e, [c]);
   }
   // Only the tables this page touches: a narrower transaction is measurably cheaper on big pulls.
-  const tables = [...byEntity.keys()].map((e) => db.records(e));
+  const tables = [...byEntity.keys()].map((e) => db.anyRecords(e));
   let written = 0;
   await db.transaction('rw', [...tables, db.outbox, db.meta], async () => {
     const pending = (await db.outbox.count()) ? opsByRecord(await db.outbox.orderBy('seq').toArray()) : new Map<string, OutboxOp[]>();
     for (const [entity, changes] of byEntity) {
-      const table = db.records(entity);
+      const table = db.anyRecords(entity);
       // A download from cursor 0 has no newer copies to protect (created-here records are rev 0).
       const current = opts.fresh ? [] : await table.bulkGet(changes.map((c) => c.id));
       const puts: LocalRecord[] = [];
@@ -69,14 +69,14 @@ export async function applyPullPage(db: FluxDb, answer: PullAnswer, opts: { fres
  * here that the server has not seen yet. A full pull then lays the queued edits over fresh copies.
  */
 export async function resetForRedownload(db: FluxDb): Promise<void> {
-  const tables = SYNC_ENTITIES.map((e) => db.records(e));
+  const tables = SYNC_ENTITIES.map((e) => db.anyRecords(e));
   await db.transaction('rw', [...tables, db.outbox, db.meta], async () => {
     await Promise.all(tables.map((t) => t.clear()));
     const ops = await db.outbox.orderBy('seq').toArray();
     for (const [, recordOps] of opsByRecord(ops)) {
       if (recordOps[0].baseRev !== null) continue;
       const rec = overlay(null, recordOps);
-      if (rec) await db.records(recordOps[0].entity).put(rec);
+      if (rec) await db.anyRecords(recordOps[0].entity).put(rec);
     }
     await db.meta.put({ key: META.cursor, value: 0 });
   });

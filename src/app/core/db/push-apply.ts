@@ -70,14 +70,14 @@ function revert(rec: LocalRecord | undefined, op: OutboxOp): LocalRecord | null 
  */
 export async function applyPushResults(db: FluxDb, sent: OutboxOp[], results: PushResult[], now = new Date()): Promise<PushTally> {
   const tally: PushTally = { done: 0, conflicts: 0, rejected: 0 };
-  const tables = SYNC_ENTITIES.map((e) => db.records(e));
+  const tables = SYNC_ENTITIES.map((e) => db.anyRecords(e));
   const byOpId = new Map(results.map((r) => [r.opId, r]));
   const at = nowIso(now);
   await db.transaction('rw', [...tables, db.outbox, db.conflicts, db.rejected, db.acked], async () => {
     for (const op of sent) {
       const r = byOpId.get(op.opId);
       if (!r) continue; // no answer for it: it stays queued and goes out again (same opId, so at most once)
-      const table = db.records(op.entity);
+      const table = db.anyRecords(op.entity);
       const status = effectiveStatus(r);
       await db.outbox.delete(op.seq!);
       const later = await db.outbox.where('[entity+id]').equals([op.entity, op.id]).sortBy('seq');

@@ -44,7 +44,7 @@ export async function uploadPendingBlobs(db: FluxDb, put: PutContent, now: () =>
         if (!current || current.rev <= Number(server['rev'])) {
           const ops = await db.outbox.where('[entity+id]').equals(['attachment', id]).sortBy('seq');
           const shown = overlay({ ...server, id, rev: Number(server['rev']) } as LocalRecord, ops);
-          if (shown) await db.records('attachment').put(shown);
+          if (shown) await db.anyRecords('attachment').put(shown);
         }
       }
       await db.blobs.update(id, { uploadedAt: now().toISOString(), lastError: null });

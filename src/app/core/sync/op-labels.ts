@@ -36,7 +36,7 @@ export async function labelsFor(db: FluxDb, items: { entity: SyncEntityName; id:
   const byEntity = new Map<SyncEntityName, string[]>();
   for (const i of items) byEntity.set(i.entity, [...(byEntity.get(i.entity) ?? []), i.id]);
   for (const [entity, ids] of byEntity) {
-    const recs = await db.records(entity).bulkGet(ids);
+    const recs = await db.anyRecords(entity).bulkGet(ids);
     ids.forEach((id, k) => out.set(`${entity}:${id}`, recordLabel(entity, id, recs[k])));
   }
   return out;

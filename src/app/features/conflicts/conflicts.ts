@@ -51,7 +51,7 @@ export class Conflicts {
       );
       const cards: ConflictCard[] = [];
       for (const row of rows) {
-        const theirs = row.theirs ?? (await db.records(row.entity).get(row.recordId)) ?? null;
+        const theirs = row.theirs ?? (await db.anyRecords(row.entity).get(row.recordId)) ?? null;
         const by = theirs?.['updatedBy'];
         cards.push({
           row,

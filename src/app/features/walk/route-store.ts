@@ -54,29 +54,31 @@ export async function loadRoutePlan(db: FluxDb, p: RouteParams): Promise<RoutePl
   if (!p.campaignId || !p.routeId) return null;
   const [campaign, route] = await Promise.all([db.records('campaign').get(p.campaignId), db.records('route').get(p.routeId)]);
   if (!campaign || !route) return null;
-  const plan = (campaign['routes'] as { routeId: string; direction: Direction }[] | undefined)?.find((r) => r.routeId === p.routeId);
+  const plan = campaign.routes?.find((r) => r.routeId === p.routeId);
   const direction = plan?.direction ?? 'forward';
-  const ids = walkingOrder(route['collarIds'] as string[], direction, p.round, p.flipped);
-  const collars = (await db.records('collar').bulkGet(ids)).filter((c): c is LocalRecord => !!c);
+  const ids = walkingOrder(route.collarIds, direction, p.round, p.flipped);
+  const collars = (await db.records('collar').bulkGet(ids)).filter((c): c is LocalRecord<'collar'> => !!c);
   // A site has a handful of plots: each is read once, not once per collar.
-  const plotIds = [...new Set(collars.map((c) => String(c['plotId'])))];
-  const plots = new Map((await db.records('plot').bulkGet(plotIds)).filter((pl): pl is LocalRecord => !!pl).map((pl) => [pl.id, pl]));
+  const plotIds = [...new Set(collars.map((c) => c.plotId))];
+  const plots = new Map(
+    (await db.records('plot').bulkGet(plotIds)).filter((pl): pl is LocalRecord<'plot'> => !!pl).map((pl) => [pl.id, pl]),
+  );
   return {
     collars: collars.map((c) => ({
       id: c.id,
-      code: String(c['code']),
-      plotCode: String(plots.get(String(c['plotId']))?.['code'] ?? ''),
-      latitude: (c['latitude'] as number | null) ?? null,
-      longitude: (c['longitude'] as number | null) ?? null,
-      status: String(c['status'] ?? 'active'),
+      code: c.code,
+      plotCode: plots.get(c.plotId)?.code ?? '',
+      latitude: c.latitude ?? null,
+      longitude: c.longitude ?? null,
+      status: c.status ?? 'active',
     })),
     due: {
-      dueOffset: campaign['dueOffset'] !== false,
-      dueClosures: Number(campaign['dueClosures'] ?? 1),
-      dueProbes: campaign['dueProbes'] !== false,
+      dueOffset: campaign.dueOffset !== false,
+      dueClosures: campaign.dueClosures ?? 1,
+      dueProbes: campaign.dueProbes !== false,
     },
     direction,
-    rounds: Number(campaign['rounds'] ?? 1),
+    rounds: campaign.rounds ?? 1,
   };
 }
 
