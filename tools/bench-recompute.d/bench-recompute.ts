@@ -1,5 +1,5 @@
 /**
- * Recompute benchmark (Bench review issue): 20 000 closures of 150 samples in a private cluster;
+ * Recompute benchmark (a profile change under a season of closures): 20 000 closures of 150 samples in a private cluster;
  * a chamber-profile version is added under all of them, then `recomputeClosures` (the job's
  * handler: read, fit, write the changed rows, change log, history) is timed against the flux
  * engine's own batch run over the same closures with the same volumes — the `flux:batch` CLI as
