@@ -18,9 +18,10 @@ import { until } from '../../core/db/testing/until';
 const SITE = '11111111-1111-4111-8111-111111111111';
 const PLOT = '22222222-2222-4222-8222-222222222222';
 const COLLAR = '33333333-3333-4333-8333-333333333333';
-const site = { id: SITE, rev: 1, settlingDaysHard: 2, settlingDaysWarn: 7 } as LocalRecord;
-const collar = (installedOn: string | null) => ({ id: COLLAR, rev: 1, installedOn }) as LocalRecord;
-const event = (kind: string, date: string, deleted = false) => ({ id: `${kind}-${date}`, rev: 1, kind, date, deleted }) as LocalRecord;
+const site = { id: SITE, rev: 1, settlingDaysHard: 2, settlingDaysWarn: 7 } as LocalRecord<'site'>;
+const collar = (installedOn: string | null) => ({ id: COLLAR, rev: 1, installedOn }) as LocalRecord<'collar'>;
+const event = (kind: string, date: string, deleted = false) =>
+  ({ id: `${kind}-${date}`, rev: 1, kind, date, deleted }) as LocalRecord<'collarEvent'>;
 const NOW = new Date(2026, 5, 15, 10, 0); // 15 June 2026, 10:00 on the device's clock
 
 describe('settlingNote', () => {
@@ -40,11 +41,11 @@ describe('settlingNote', () => {
 
   it('when the site’s day is ahead of the device’s, then the days since the install count by the site’s calendar', () => {
     // 20:00 UTC on 14 June is 08:00 on 15 June in Auckland (NZST, UTC+12): an install on the 14th is a day old there.
-    const auckland = { ...site, timezone: 'Pacific/Auckland' } as LocalRecord;
+    const auckland = { ...site, timezone: 'Pacific/Auckland' };
     expect(settlingNote(collar('2026-06-14'), [], auckland, new Date('2026-06-14T20:00:00Z'))).toMatchObject({ days: 1 });
     // 11:00 UTC on 15 June is 01:00 on 15 June in Honolulu (HST, UTC−10): still the day of a 15 June install.
     expect(
-      settlingNote(collar('2026-06-15'), [], { ...site, timezone: 'Pacific/Honolulu' } as LocalRecord, new Date('2026-06-15T11:00:00Z')),
+      settlingNote(collar('2026-06-15'), [], { ...site, timezone: 'Pacific/Honolulu' }, new Date('2026-06-15T11:00:00Z')),
     ).toMatchObject({ days: 0 });
   });
 

@@ -2,19 +2,14 @@ import { Signal } from '@angular/core';
 import type { FluxDb, LocalRecord } from '../../core/db/db-schema';
 import { liveSignal } from '../../core/db/live-query-signal';
 import type { MoistureCalibration } from '../../../../shared/model/derived';
-import { siteToday } from '../../../../shared/time/site-time';
+import { collarSettling, newestDisturbance, siteSettlingLimits, type SettlingNote } from '../../../../shared/model/collar-settling';
+
+export type { SettlingNote };
 
 export interface VisitKey {
   collarId: string;
   campaignId: string | null;
   round: number;
-}
-
-export interface SettlingNote {
-  level: 'hard' | 'warn';
-  days: number;
-  since: string;
-  what: string;
 }
 
 export interface VisitView {
@@ -39,37 +34,15 @@ export interface VisitView {
   calibration: MoistureCalibration;
 }
 
-const DAY_MS = 86_400_000;
-
-/** Whole calendar days from a YYYY-MM-DD date to the site day `today`. */
-function daysSince(date: string, today: string): number {
-  return Math.round((Date.parse(`${today}T00:00:00Z`) - Date.parse(`${date.slice(0, 10)}T00:00:00Z`)) / DAY_MS);
-}
-
-/**
- * A collar installed or reseated recently still breathes from the disturbance: within the site's
- * hard limit closures should wait, within the warning limit they are flagged (common practice:
- * wait at least a day, better a week).
- */
+/** The collar's settling note at the site's today (the rule and its limits: shared/model/collar-settling.ts). */
 export function settlingNote(
-  collar: LocalRecord,
-  events: readonly LocalRecord[],
-  site: LocalRecord | null,
+  collar: LocalRecord<'collar'>,
+  events: readonly LocalRecord<'collarEvent'>[],
+  site: LocalRecord<'site'> | null,
   now = new Date(),
 ): SettlingNote | null {
-  const disturbing = events
-    .filter((e) => ['installed', 'reseated'].includes(String(e['kind'])) && !e.deleted)
-    .map((e) => ({ date: String(e['date']), what: String(e['kind']) }));
-  if (typeof collar['installedOn'] === 'string') disturbing.push({ date: collar['installedOn'], what: 'installed' });
-  const latest = disturbing.sort((a, b) => b.date.localeCompare(a.date))[0];
-  if (!latest) return null;
-  // Event dates are site days, so "today" is the site's too (not the device's).
-  const days = daysSince(latest.date, siteToday(String(site?.['timezone'] ?? 'UTC'), now));
-  const hard = Number(site?.['settlingDaysHard'] ?? 1);
-  const warn = Number(site?.['settlingDaysWarn'] ?? 7);
-  if (days < hard) return { level: 'hard', days, since: latest.date, what: latest.what };
-  if (days < warn) return { level: 'warn', days, since: latest.date, what: latest.what };
-  return null;
+  // Without the site's record on the device, the schema's limits apply and days count in UTC.
+  return collarSettling(newestDisturbance(events, collar.installedOn), siteSettlingLimits.parse(site ?? {}), site?.timezone ?? 'UTC', now);
 }
 
 const newest = (list: LocalRecord[], field: string) =>
