@@ -1,3 +1,4 @@
+import type { EntityFields } from '../../../../shared/model/entities';
 import type { AttachmentOwner } from '../../../../shared/model/field-records';
 import type { FluxDb } from './db-schema';
 import { createRecord } from './outbox-writer';
@@ -19,7 +20,7 @@ export async function sha256Hex(blob: Blob): Promise<string> {
  * keep. Hashing is asynchronous work outside IndexedDB, so it is done before any transaction opens
  * (a Dexie transaction commits as soon as it waits on something else).
  */
-export async function attachmentFor(owner: FileOwner, blob: Blob, fileName: string, mediaType: string): Promise<Record<string, unknown>> {
+export async function attachmentFor(owner: FileOwner, blob: Blob, fileName: string, mediaType: string): Promise<EntityFields<'attachment'>> {
   return validated('attachment', { ...owner, fileName, mediaType, sizeBytes: blob.size, sha256: await sha256Hex(blob) });
 }
 
@@ -29,13 +30,13 @@ export async function attachmentFor(owner: FileOwner, blob: Blob, fileName: stri
  * inside a wider transaction (one that also covers these tables), it joins that one. The bytes
  * are uploaded later, from the blobs table, once the record has synced.
  */
-export async function keepFile(db: FluxDb, fields: Record<string, unknown>, blob: Blob): Promise<string> {
+export async function keepFile(db: FluxDb, fields: EntityFields<'attachment'>, blob: Blob): Promise<string> {
   return db.transaction('rw', [db.records('attachment'), db.outbox, db.blobs], async () => {
     const rec = await createRecord(db, 'attachment', fields);
     await db.blobs.put({
       attachmentId: rec.id,
       blob,
-      mediaType: String(fields['mediaType']),
+      mediaType: fields.mediaType,
       createdAt: new Date().toISOString(),
       uploadedAt: null,
     });

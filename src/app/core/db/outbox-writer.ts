@@ -1,6 +1,6 @@
 import { v4 as uuidv4 } from 'uuid';
-import type { SyncEntityName } from '../../../../shared/model/entity-names';
-import type { FluxDb, LocalRecord, OutboxOp } from './db-schema';
+import type { EntityFields, SyncEntityName } from '../../../../shared/model/entities';
+import type { FluxDb, LocalRecord, OutboxOp, RecordBag } from './db-schema';
 import { editableFields, nowIso, sameValue } from './record-values';
 
 /**
@@ -39,13 +39,14 @@ function newOp(
 
 /**
  * Changes some fields of a record on this device and queues them. Returns the op (new or merged),
- * or null when nothing actually changed.
+ * or null when nothing actually changed. The changes are typed by the entity; the table is moved
+ * as the untyped bag every entity shares (the sync machinery's boundary).
  */
-export async function saveEdit(
+export async function saveEdit<E extends SyncEntityName>(
   db: FluxDb,
-  entity: SyncEntityName,
+  entity: E,
   id: string,
-  changes: Record<string, unknown>,
+  changes: Partial<EntityFields<E>>,
   opts: { baseRev?: number; now?: Date } = {},
 ): Promise<OutboxOp | null> {
   const table = db.anyRecords(entity);
@@ -79,24 +80,29 @@ export async function saveEdit(
   });
 }
 
-/** Creates a record on this device (rev 0 until the server has it) and queues its create. */
-export async function createRecord(
+/**
+ * Creates a record on this device (rev 0 until the server has it) and queues its create. The
+ * fields are the entity's parsed fields (`validated(entity, …)`), so the stored copy is a
+ * `LocalRecord<E>` with every defaulted field set.
+ */
+export async function createRecord<E extends SyncEntityName>(
   db: FluxDb,
-  entity: SyncEntityName,
-  fields: Record<string, unknown>,
+  entity: E,
+  fields: EntityFields<E>,
   opts: { id?: string; now?: Date } = {},
-): Promise<LocalRecord> {
+): Promise<LocalRecord<E>> {
   const table = db.anyRecords(entity);
   const id = opts.id ?? uuidv4();
   const now = nowIso(opts.now);
   const clean = editableFields(fields);
-  const rec: LocalRecord = { ...clean, id, rev: 0, deleted: false };
+  const rec: RecordBag = { ...clean, id, rev: 0, deleted: false };
   await db.transaction('rw', [table, db.outbox], async () => {
     if (await table.get(id)) throw new Error(`A ${entity} with id ${id} already exists on this device`);
     await table.add(rec);
     await db.outbox.add(newOp(entity, id, null, 'upsert', clean, {}, now));
   });
-  return rec;
+  // Boundary: the bag holds E's parsed fields plus the meta set above, which is what LocalRecord<E> says.
+  return rec as LocalRecord<E>;
 }
 
 /** Deletes a record on this device and queues the delete (or drops an unsent create entirely). */

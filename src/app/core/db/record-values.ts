@@ -36,7 +36,7 @@ export function overlay(server: LocalRecord | null, ops: readonly OutboxOp[]): L
 }
 
 /** Only the fields a client may send: metadata dropped. */
-export function editableFields(fields: Record<string, unknown>): Record<string, unknown> {
+export function editableFields(fields: object): Record<string, unknown> {
   return Object.fromEntries(Object.entries(fields).filter(([k]) => !(RECORD_META as readonly string[]).includes(k)));
 }
 

@@ -1,6 +1,6 @@
 import { Injectable, inject } from '@angular/core';
 import { v4 as uuidv4 } from 'uuid';
-import type { SyncEntityName } from '../../../../shared/model/entity-names';
+import type { EntityFields, SyncEntityName } from '../../../../shared/model/entities';
 import type { AttachmentOwner } from '../../../../shared/model/field-records';
 import type { ConflictRow, LocalRecord, OutboxOp } from '../db/db-schema';
 import { DeviceDb } from '../db/device-db';
@@ -18,14 +18,18 @@ export class LocalWrites {
   private readonly deviceDb = inject(DeviceDb);
   private readonly engine = inject(SyncEngine);
 
-  async edit(entity: SyncEntityName, id: string, changes: Record<string, unknown>): Promise<OutboxOp | null> {
+  /** Changes some fields of a record of E (only E's fields, typed by its schema). */
+  async edit<E extends SyncEntityName>(entity: E, id: string, changes: Partial<EntityFields<E>>): Promise<OutboxOp | null> {
     const op = await this.deviceDb.run((db) => saveEdit(db, entity, id, changes));
     if (op) this.engine.requestSync('edit');
     return op;
   }
 
-  /** A new record; `id` only when the id was decided elsewhere (a collar taking a printed tag's id). */
-  async create(entity: SyncEntityName, fields: Record<string, unknown>, opts: { id?: string } = {}): Promise<LocalRecord> {
+  /**
+   * A new record from E's parsed fields (`validated(entity, …)`); `id` only when the id was decided
+   * elsewhere (a collar taking a printed tag's id).
+   */
+  async create<E extends SyncEntityName>(entity: E, fields: EntityFields<E>, opts: { id?: string } = {}): Promise<LocalRecord<E>> {
     const rec = await this.deviceDb.run((db) => createRecord(db, entity, fields, opts));
     this.engine.requestSync('create');
     return rec;
@@ -43,13 +47,13 @@ export class LocalWrites {
    * A new record and a file that belongs to it (a leak check and the logger file it was fitted
    * from): record, attachment record and bytes in one transaction, so neither is kept alone.
    */
-  async createWithFile(
-    entity: SyncEntityName & AttachmentOwner,
-    fields: Record<string, unknown>,
+  async createWithFile<E extends SyncEntityName & AttachmentOwner>(
+    entity: E,
+    fields: EntityFields<E>,
     file: { blob: Blob; fileName: string; mediaType: string },
-  ): Promise<{ record: LocalRecord; attachmentId: string }> {
+  ): Promise<{ record: LocalRecord<E>; attachmentId: string }> {
     const id = uuidv4();
-    const owner = { siteId: String(fields['siteId']), ownerEntity: entity, ownerId: id };
+    const owner = { siteId: fields.siteId, ownerEntity: entity, ownerId: id };
     const attachment = await attachmentFor(owner, file.blob, file.fileName, file.mediaType);
     const result = await this.deviceDb.run((db) =>
       db.transaction('rw', [db.records(entity), db.records('attachment'), db.outbox, db.blobs], async () => {

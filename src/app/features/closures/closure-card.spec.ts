@@ -1,6 +1,6 @@
 import { ChangeDetectionStrategy, Component, input } from '@angular/core';
 import { TestBed } from '@angular/core/testing';
-import type { LocalRecord } from '../../core/db/db-schema';
+import { deviceRecord } from '../../core/db/testing/test-db';
 import { ClosureCard } from './closure-card';
 import type { SpotInputs } from './closure-flux';
 import { SpotChart } from './spot-chart';
@@ -16,11 +16,18 @@ describe('ClosureCard: days in the site’s zone', () => {
     TestBed.configureTestingModule({ imports: [ClosureCard] });
     TestBed.overrideComponent(ClosureCard, { remove: { imports: [SpotChart] }, add: { imports: [NoChart] } });
     const fixture = TestBed.createComponent(ClosureCard);
-    const site = { id: 's', rev: 1, timezone: 'Pacific/Auckland' } as LocalRecord;
-    fixture.componentRef.setInput('closure', { id: 'z', rev: 1, analyzerId: 'a', chamberOnAt: null, chamberOffAt: null } as LocalRecord);
+    const S = '11111111-1111-4111-8111-111111111111';
+    const K = '33333333-3333-4333-8333-333333333333';
+    const site = deviceRecord('site', { id: S, name: 'Test site', timezone: 'Pacific/Auckland', elevationM: null });
+    const ids = { siteId: S, visitId: S, collarId: K, campaignId: S };
+    const noSeries = { tS: [], co2Ppm: [] };
+    fixture.componentRef.setInput(
+      'closure',
+      deviceRecord('closure', { id: 'z', ...ids, analyzerId: S, startedAt: '2026-06-03T20:30:00.000Z', settleS: 20, series: noSeries }),
+    );
     fixture.componentRef.setInput('inputs', {
       site,
-      collar: { id: 'k', rev: 1 } as LocalRecord,
+      collar: deviceRecord('collar', { id: K, siteId: S, code: 'K-1', plotId: S, diameterCm: 20 }),
       profiles: [],
       offsetSets: [],
       analyzer: null,

@@ -4,7 +4,7 @@ import { formatSiteTime } from '../../../../shared/time/site-time';
 import { MatButtonModule } from '@angular/material/button';
 import type { LocalRecord } from '../../core/db/db-schema';
 import { fluxOnTheSpot, type SpotInputs } from './closure-flux';
-import type { ClosureSeries } from './closure-writes';
+import type { PreviousFlux } from './closure-scene';
 import { FlagAdviceList } from './flag-advice-list';
 import { SpotChart } from './spot-chart';
 
@@ -16,16 +16,16 @@ import { SpotChart } from './spot-chart';
   selector: 'fw-closure-card',
   imports: [DecimalPipe, MatButtonModule, SpotChart, FlagAdviceList],
   template: `
-    <article class="card" [attr.data-closure]="closure().id" [class.redo]="closure()['redoOfId']">
+    <article class="card" [attr.data-closure]="closure().id" [class.redo]="closure().redoOfId">
       <header>
         <strong>Closure {{ index() + 1 }}</strong>
-        @if (closure()['redoOfId']) { <span class="tag">redo</span> }
-        <span class="when">on {{ time(closure()['chamberOnAt']) }} · off {{ time(closure()['chamberOffAt']) }}</span>
+        @if (closure().redoOfId) { <span class="tag">redo</span> }
+        <span class="when">on {{ time(closure().chamberOnAt) }} · off {{ time(closure().chamberOffAt) }}</span>
         @if (!running()) {
           <button mat-stroked-button class="redo-button" type="button" (click)="redo.emit(closure())">Redo</button>
         }
       </header>
-      @if (!closure()['analyzerId']) {
+      @if (!closure().analyzerId) {
         <p class="no-analyzer" role="note" data-testid="no-analyzer">No analyzer named for this closure: its precision and flags cannot be checked. Name the day's analyzer before the next closure.</p>
       }
       @if (spot(); as s) {
@@ -39,7 +39,7 @@ import { SpotChart } from './spot-chart';
         @if (s.startAboveAmbientPpm !== null) {
           <p class="ambient">Start vs this analyzer's ambient reading: {{ s.startAboveAmbientPpm >= 0 ? '+' : '' }}{{ s.startAboveAmbientPpm | number: '1.0-0' }} ppm</p>
         }
-        <fw-spot-chart [data]="{ series: series(), settleS: settleS(), fit: s.fit }" />
+        <fw-spot-chart [data]="{ series: closure().series, settleS: closure().settleS, fit: s.fit }" />
       } @else {
         <p class="waiting">No series yet: import the logger file or enter the series by hand.</p>
       }
@@ -63,22 +63,20 @@ import { SpotChart } from './spot-chart';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ClosureCard {
-  readonly closure = input.required<LocalRecord>();
+  readonly closure = input.required<LocalRecord<'closure'>>();
   readonly index = input(0);
   readonly inputs = input.required<SpotInputs>();
-  readonly previous = input<{ id: string; startedAt: string; fluxUmolM2S: number }[]>([]);
+  readonly previous = input<PreviousFlux[]>([]);
   /** A closure runs at this visit: no Redo is offered until it ends. */
   readonly running = input(false);
-  readonly redo = output<LocalRecord>();
+  readonly redo = output<LocalRecord<'closure'>>();
 
   protected readonly spot = computed(() => fluxOnTheSpot(this.closure(), this.inputs()));
-  protected readonly series = computed(() => this.closure()['series'] as ClosureSeries);
-  protected readonly settleS = computed(() => Number(this.closure()['settleS']));
 
-  private readonly zone = computed(() => String(this.inputs().site?.['timezone'] ?? 'UTC'));
+  private readonly zone = computed(() => this.inputs().site?.timezone ?? 'UTC');
 
-  protected time(v: unknown): string {
-    return typeof v === 'string' ? formatSiteTime(v, this.zone(), { timeOnly: true, seconds: true }) || '—' : '—';
+  protected time(at: string | null): string {
+    return at ? formatSiteTime(at, this.zone(), { timeOnly: true, seconds: true }) || '—' : '—';
   }
 
   /** The site's day of an instant (not the UTC day of its ISO text). */

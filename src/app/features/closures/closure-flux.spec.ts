@@ -1,22 +1,47 @@
 import { chamberFluxUmolM2S, fitClosure } from '../../../../shared/flux';
-import type { LocalRecord } from '../../core/db/db-schema';
+import { deviceRecord } from '../../core/db/testing/test-db';
 import { fluxOnTheSpot } from './closure-flux';
-import { ambientChecks } from './closure-store';
+import { ambientChecks } from './closure-scene';
 import { readManualSeries } from './manual-series';
 
-const rec = (id: string, fields: Record<string, unknown>): LocalRecord => ({ id, rev: 1, ...fields });
-const site = rec('s', { timezone: 'Europe/Berlin', elevationM: 450, ambientMarginPpm: 100 });
-const collar = rec('k', { siteId: 's', diameterCm: 20, shape: 'round' });
-const profile = rec('p', { siteId: 's', name: 'Opaque', validFrom: '2025-01-01', chamberVolumeCm3: 4000, loopVolumeCm3: 50, settleS: 10 });
-const offsets = rec('o', { collarId: 'k', takenAt: '2025-06-12T06:50:00Z', readingsCm: [2, 2, 2, 2] });
+const S = '11111111-1111-4111-8111-111111111111';
+const K = '33333333-3333-4333-8333-333333333333';
+const CAMPAIGN = '44444444-4444-4444-8444-444444444444';
+const VISIT = '55555555-5555-4555-8555-555555555555';
+const A = 'aaaaaaaa-aaaa-4aaa-8aaa-aaaaaaaaaaaa';
+const B = 'bbbbbbbb-bbbb-4bbb-8bbb-bbbbbbbbbbbb';
+const C = 'cccccccc-cccc-4ccc-8ccc-cccccccccccc';
+const site = deviceRecord('site', { id: S, name: 'Test site', timezone: 'Europe/Berlin', elevationM: 450, ambientMarginPpm: 100 });
+const collar = deviceRecord('collar', { id: K, siteId: S, code: 'K-1', plotId: S, diameterCm: 20, shape: 'round' });
+const profile = deviceRecord('chamberProfile', {
+  id: 'p',
+  siteId: S,
+  name: 'Opaque',
+  validFrom: '2025-01-01',
+  chamberVolumeCm3: 4000,
+  loopVolumeCm3: 50,
+  settleS: 10,
+});
+const offsets = deviceRecord('offsetSet', {
+  id: 'o',
+  siteId: S,
+  visitId: VISIT,
+  collarId: K,
+  campaignId: CAMPAIGN,
+  takenAt: '2025-06-12T06:50:00Z',
+  readingsCm: [2, 2, 2, 2],
+});
+/** A closure of the visit with the given fields. */
+const closureWith = (fields: Record<string, unknown>) =>
+  deviceRecord('closure', { id: 'c', siteId: S, visitId: VISIT, collarId: K, campaignId: CAMPAIGN, ...fields });
 
 describe('flux on the spot', () => {
   it('when a closure has a series, then the device gets the engine result with the volume chamber + loop + area × offset', () => {
     const tS = [0, 10, 20, 30, 40, 50, 60, 70, 80, 90];
-    const closure = rec('c', {
+    const closure = closureWith({
       startedAt: '2025-06-12T07:00:00Z',
       settleS: 10,
-      analyzerId: 'A',
+      analyzerId: A,
       series: { tS, co2Ppm: tS.map((t) => 420 + 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20) },
     });
     const spot = fluxOnTheSpot(closure, {
@@ -26,7 +51,7 @@ describe('flux on the spot', () => {
       offsetSets: [offsets],
       analyzer: null,
       visitAirTempC: null,
-      ambientChecks: [{ id: 'a', analyzerId: 'A', at: '2025-06-12T06:30:00Z', co2Ppm: 415 }],
+      ambientChecks: [{ id: 'a', analyzerId: A, at: '2025-06-12T06:30:00Z', co2Ppm: 415 }],
     })!;
     const area = (Math.PI * 20 * 20) / 4;
     expect(spot.volumeCm3).toBeCloseTo(4000 + 50 + area * 2, 6);
@@ -55,7 +80,7 @@ describe('flux on the spot', () => {
   });
 
   it('when there is no offset set for the collar, then no flux is made up and the reason is shown', () => {
-    const closure = rec('c', {
+    const closure = closureWith({
       startedAt: '2025-06-12T07:00:00Z',
       settleS: 10,
       series: { tS: [0, 10, 20, 30], co2Ppm: [420, 425, 430, 435], tempC: [20, 20, 20, 20] },
@@ -85,30 +110,30 @@ describe('flux on the spot', () => {
 
   it('when two analyzers took ambient readings, then the closure is compared with its own analyzer’s reading nearest in time', () => {
     const check = (id: string, analyzerId: string, at: string, co2Ppm: number, extra: Record<string, unknown> = {}) =>
-      rec(id, { kind: 'ambient', analyzerId, at, co2Ppm, ...extra });
+      deviceRecord('analyzerCheck', { id, siteId: S, kind: 'ambient', analyzerId, at, co2Ppm, ...extra });
     const checks = ambientChecks([
-      check('a', 'A', '2025-06-12T05:00:00Z', 412),
-      check('b', 'B', '2025-06-12T06:55:00Z', 440),
-      check('c', 'A', '2025-06-12T06:50:00Z', 900, { skipped: true }),
-      check('d', 'A', '2025-06-12T20:00:00Z', 470),
+      check('a', A, '2025-06-12T05:00:00Z', 412),
+      check('b', B, '2025-06-12T06:55:00Z', 440),
+      check('c', A, '2025-06-12T06:50:00Z', 900, { skipped: true, skipReason: 'warming up' }),
+      check('d', A, '2025-06-12T20:00:00Z', 470),
     ]);
     expect(checks.map((c) => c.id)).toEqual(['a', 'b', 'd']);
     const tS = [0, 10, 20, 30, 40, 50, 60, 70, 80, 90];
-    const closure = rec('c', {
+    const closure = closureWith({
       startedAt: '2025-06-12T07:00:00Z',
       settleS: 10,
-      analyzerId: 'A',
+      analyzerId: A,
       series: { tS, co2Ppm: tS.map((t) => 430 + 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20) },
     });
     const inputs = { site, collar, profiles: [profile], offsetSets: [offsets], analyzer: null, ambientChecks: checks, visitAirTempC: null };
     expect(fluxOnTheSpot(closure, inputs)!.startAboveAmbientPpm).toBe(18);
     expect(fluxOnTheSpot({ ...closure, startedAt: '2025-06-12T19:00:00Z' }, inputs)!.startAboveAmbientPpm).toBe(-40);
-    expect(fluxOnTheSpot({ ...closure, analyzerId: 'C' }, inputs)!.startAboveAmbientPpm).toBeNull();
+    expect(fluxOnTheSpot({ ...closure, analyzerId: C }, inputs)!.startAboveAmbientPpm).toBeNull();
   });
 
   it('when the file has no chamber temperature, then the visit’s air temperature gives the flux and says so', () => {
     const tS = [0, 10, 20, 30, 40, 50, 60, 70, 80, 90];
-    const closure = rec('c', {
+    const closure = closureWith({
       startedAt: '2025-06-12T07:00:00Z',
       settleS: 10,
       series: { tS, co2Ppm: tS.map((t) => 420 + 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: null },

@@ -15,6 +15,7 @@ import { ClosureCard } from './closure-card';
 import { ClosurePanel } from './closure-panel';
 import { SpotChart, type SpotChartInput } from './spot-chart';
 import { until } from '../../core/db/testing/until';
+import { deviceRecord } from '../../core/db/testing/test-db';
 
 const SITE = '11111111-1111-4111-8111-111111111111';
 const COLLAR = '33333333-3333-4333-8333-333333333333';
@@ -46,7 +47,7 @@ async function render(extra: (db: FluxDb) => Promise<void> = async () => undefin
   TestBed.configureTestingModule({ providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([])] });
   TestBed.overrideComponent(ClosureCard, { remove: { imports: [SpotChart] }, add: { imports: [ChartStandIn] } });
   const db: FluxDb = await until(() => TestBed.inject(DeviceDb).db(), 'the database');
-  await db.records('site').put({
+  await db.records('site').put(deviceRecord('site', {
     id: SITE,
     rev: 1,
     name: 'Test site',
@@ -54,10 +55,10 @@ async function render(extra: (db: FluxDb) => Promise<void> = async () => undefin
     elevationM: 420,
     ambientMarginPpm: 100,
     defaultProfileId: PROFILE,
-  });
-  await db.records('collar').put({ id: COLLAR, rev: 1, siteId: SITE, code: 'W-03', shape: 'round', diameterCm: 20, status: 'active' });
-  await db.records('campaign').put({ id: CAMPAIGN, rev: 1, siteId: SITE, name: 'Dec', rounds: 2, routes: [], dueClosures: 2 });
-  await db.records('chamberProfile').put({
+  }));
+  await db.records('collar').put(deviceRecord('collar', { id: COLLAR, rev: 1, siteId: SITE, code: 'W-03', plotId: SITE, shape: 'round', diameterCm: 20, status: 'active' }));
+  await db.records('campaign').put(deviceRecord('campaign', { id: CAMPAIGN, rev: 1, siteId: SITE, name: 'Dec', startsOn: '2025-06-01', endsOn: '2025-06-30', rounds: 2, routes: [], dueClosures: 2 }));
+  await db.records('chamberProfile').put(deviceRecord('chamberProfile', {
     id: PROFILE,
     rev: 1,
     siteId: SITE,
@@ -66,9 +67,9 @@ async function render(extra: (db: FluxDb) => Promise<void> = async () => undefin
     chamberVolumeCm3: 4000,
     loopVolumeCm3: 150,
     settleS: 20,
-  });
-  await db.records('analyzer').put({ id: ANALYZER, rev: 1, siteId: SITE, name: 'A1', precisionPpm: 0.2 });
-  const visit: LocalRecord = {
+  }));
+  await db.records('analyzer').put(deviceRecord('analyzer', { id: ANALYZER, rev: 1, siteId: SITE, name: 'A1', precisionPpm: 0.2 }));
+  const visit: LocalRecord<'visit'> = deviceRecord('visit', {
     id: VISIT,
     rev: 1,
     siteId: SITE,
@@ -76,9 +77,9 @@ async function render(extra: (db: FluxDb) => Promise<void> = async () => undefin
     round: 1,
     collarId: COLLAR,
     arrivedAt: '2025-06-12T06:55:00.000Z',
-  };
+  });
   await db.records('visit').put(visit);
-  await db.records('offsetSet').put({
+  await db.records('offsetSet').put(deviceRecord('offsetSet', {
     id: 'o1',
     rev: 1,
     siteId: SITE,
@@ -87,7 +88,7 @@ async function render(extra: (db: FluxDb) => Promise<void> = async () => undefin
     campaignId: CAMPAIGN,
     takenAt: '2025-06-12T06:58:00.000Z',
     readingsCm: [2, 2, 2, 2],
-  });
+  }));
   await extra(db);
   if (chooseAnalyzer) TestBed.inject(WalkContext).update({ analyzerId: ANALYZER });
   const fixture = TestBed.createComponent(ClosurePanel);
@@ -133,8 +134,8 @@ describe('Closure panel', () => {
     const { db, el, text, loader, fixture } = await render(async (d) => {
       await d
         .records('analyzerCheck')
-        .put({ id: 'amb', rev: 1, siteId: SITE, analyzerId: ANALYZER, kind: 'ambient', at: '2025-06-12T06:30:00.000Z', co2Ppm: 415 });
-      await d.records('closure').put({
+        .put(deviceRecord('analyzerCheck', { id: 'amb', rev: 1, siteId: SITE, analyzerId: ANALYZER, kind: 'ambient', at: '2025-06-12T06:30:00.000Z', co2Ppm: 415 }));
+      await d.records('closure').put(deviceRecord('closure', {
         id: FIRST,
         rev: 1,
         siteId: SITE,
@@ -149,7 +150,7 @@ describe('Closure panel', () => {
         settleS: 20,
         // 560 ppm at the start is 145 ppm above the day's 415 ppm: more than the 100 ppm margin.
         series: { tS, co2Ppm: tS.map((t) => 560 + 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20) },
-      });
+      }));
     });
     await until(() => text('[data-testid="spot-flux"]'), 'the flux');
     // By hand, ideal gas law F = p·V/(R·T·A)·dχ/dt (R = 8.314462618, CODATA 2018), V = 4000 + 150 cm³
@@ -216,8 +217,8 @@ describe('Closure panel', () => {
     const { el, text, loader } = await render(async (d) => {
       await d
         .records('analyzerCheck')
-        .put({ id: 'amb', rev: 1, siteId: SITE, analyzerId: ANALYZER, kind: 'ambient', at: '2025-06-12T06:30:00.000Z', co2Ppm: 415 });
-      await d.records('closure').put({
+        .put(deviceRecord('analyzerCheck', { id: 'amb', rev: 1, siteId: SITE, analyzerId: ANALYZER, kind: 'ambient', at: '2025-06-12T06:30:00.000Z', co2Ppm: 415 }));
+      await d.records('closure').put(deviceRecord('closure', {
         id: FIRST,
         rev: 1,
         siteId: SITE,
@@ -232,9 +233,9 @@ describe('Closure panel', () => {
         settleS: 20,
         // A fall of CO2 with the chamber on: the flag advice asks for a seal check and a redo.
         series: { tS, co2Ppm: tS.map((t) => 430 - 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20) },
-      });
+      }));
       const on = new Date(Date.now() - 30_000).toISOString();
-      await d.records('closure').put({
+      await d.records('closure').put(deviceRecord('closure', {
         id: 'running',
         rev: 1,
         siteId: SITE,
@@ -249,7 +250,7 @@ describe('Closure panel', () => {
         settleS: 20,
         redoOfId: null,
         series: { tS: [], co2Ppm: [], h2oMmolMol: null, pressureKpa: null, tempC: null },
-      });
+      }));
     });
     await until(() => text('[data-testid="spot-flux"]'), "the first closure's flux");
     await until(() => loader.getHarnessOrNull(MatButtonHarness.with({ text: 'Chamber off' })), 'the running closure');
@@ -269,7 +270,7 @@ describe('Closure panel', () => {
     const TALL = '99999999-9999-4999-8999-999999999999';
     const TALL_NEW = '99999999-9999-4999-8999-99999999999a';
     const { db, loader } = await render(async (d) => {
-      await d.records('chamberProfile').put({
+      await d.records('chamberProfile').put(deviceRecord('chamberProfile', {
         id: TALL,
         rev: 1,
         siteId: SITE,
@@ -278,8 +279,8 @@ describe('Closure panel', () => {
         chamberVolumeCm3: 6000,
         loopVolumeCm3: 150,
         settleS: 30,
-      });
-      await d.records('chamberProfile').put({
+      }));
+      await d.records('chamberProfile').put(deviceRecord('chamberProfile', {
         id: TALL_NEW,
         rev: 1,
         siteId: SITE,
@@ -288,7 +289,7 @@ describe('Closure panel', () => {
         chamberVolumeCm3: 6000,
         loopVolumeCm3: 210,
         settleS: 35,
-      });
+      }));
       TestBed.inject(WalkContext).update({ profileId: TALL });
     });
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Chamber on' }))).click();
@@ -302,7 +303,7 @@ describe('Closure panel', () => {
   it('when no analyzer was chosen today, then no closure can start: the bar asks for one (last used first) and one tap starts the day', async () => {
     const second = '99999999-9999-4999-8999-999999999999';
     const { db, text, loader } = await render(async (d) => {
-      await d.records('analyzer').put({ id: second, rev: 1, siteId: SITE, name: 'B2', precisionPpm: 0.5 });
+      await d.records('analyzer').put(deviceRecord('analyzer', { id: second, rev: 1, siteId: SITE, name: 'B2', precisionPpm: 0.5 }));
     }, false);
     // Yesterday's analyzer is the last used, but it is not today's.
     TestBed.inject(WalkContext).update({ analyzerId: ANALYZER, kitAt: new Date(Date.now() - 2 * 86_400_000).toISOString() });
@@ -321,7 +322,7 @@ describe('Closure panel', () => {
   it('when a closure was stored without an analyzer, then its card says so instead of "no flags"', async () => {
     const tS = [0, 10, 20, 30, 40, 50, 60, 70, 80, 90, 100];
     const { text } = await render(async (d) => {
-      await d.records('closure').put({
+      await d.records('closure').put(deviceRecord('closure', {
         id: FIRST,
         rev: 1,
         siteId: SITE,
@@ -335,7 +336,7 @@ describe('Closure panel', () => {
         chamberOffAt: '2025-06-12T07:02:00.000Z',
         settleS: 20,
         series: { tS, co2Ppm: tS.map((t) => 420 + 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20) },
-      });
+      }));
     });
     await until(() => text('[data-testid="no-analyzer"]'), 'the warning');
     expect(text('[data-testid="no-analyzer"]')).toContain('No analyzer named for this closure');

@@ -6,13 +6,8 @@ import { LocalWrites } from '../../core/sync/local-writes';
 import { validated } from '../../core/db/validated';
 import { localDay } from '../../../../shared/time/site-time';
 
-export interface ClosureSeries {
-  tS: (number | null)[];
-  co2Ppm: (number | null)[];
-  h2oMmolMol: (number | null)[] | null;
-  pressureKpa: (number | null)[] | null;
-  tempC: (number | null)[] | null;
-}
+/** A closure's series as its schema stores it. */
+export type ClosureSeries = LocalRecord<'closure'>['series'];
 
 export interface ClosureTarget {
   siteId: string;
@@ -39,27 +34,25 @@ export class ClosureWrites {
    * The version valid on the day of the chamber the crew chose at the start of the day, else of the
    * site's default or only chamber (the rule the server computes the volume with, shared/flux chamber-system.ts).
    */
-  private profileFor(t: ClosureTarget, site: LocalRecord | null, profiles: LocalRecord[], at: string): LocalRecord | null {
-    const day = localDay(at, String(site?.['timezone'] ?? 'UTC'));
-    const named = profiles.map((p) => ({
-      id: p.id,
-      name: String(p['name'] ?? ''),
-      validFrom: String(p['validFrom']),
-      chamberVolumeCm3: 0,
-      loopVolumeCm3: 0,
-      areaCm2: 0,
-    }));
-    const chosen = profileForClosure(named, t.profileId, day, (site?.['defaultProfileId'] as string | null) ?? null);
+  private profileFor(
+    t: ClosureTarget,
+    site: LocalRecord<'site'> | null,
+    profiles: LocalRecord<'chamberProfile'>[],
+    at: string,
+  ): LocalRecord<'chamberProfile'> | null {
+    const day = localDay(at, site?.timezone ?? 'UTC');
+    const named = profiles.map((p) => ({ id: p.id, name: p.name, validFrom: p.validFrom, chamberVolumeCm3: 0, loopVolumeCm3: 0, areaCm2: 0 }));
+    const chosen = profileForClosure(named, t.profileId, day, site?.defaultProfileId ?? null);
     return chosen.ok ? (profiles.find((p) => p.id === chosen.profile.id) ?? null) : null;
   }
 
   /** A closure starts only with today's analyzer and chamber profile (see dayKit), so no closure is stored without them. */
   async chamberOn(
     t: ClosureTarget,
-    profile: LocalRecord | null,
-    redoOf: LocalRecord | null = null,
+    profile: LocalRecord<'chamberProfile'> | null,
+    redoOf: LocalRecord<'closure'> | null = null,
     now = new Date(),
-  ): Promise<LocalRecord> {
+  ): Promise<LocalRecord<'closure'>> {
     if (!t.analyzerId) throw new Error("Choose today's analyzer before a closure.");
     if (!profile) throw new Error("Choose today's chamber profile before a closure.");
     const at = now.toISOString();
@@ -72,20 +65,20 @@ export class ClosureWrites {
       analyzerId: t.analyzerId,
       startedAt: at,
       chamberOnAt: at,
-      settleS: Number(profile['settleS'] ?? TYPICAL_SETTLE_TIME_S),
+      settleS: profile.settleS,
       series: EMPTY_SERIES,
       redoOfId: redoOf?.id ?? null,
     });
     return this.writes.create('closure', fields);
   }
 
-  async chamberOff(closure: LocalRecord, now = new Date()): Promise<void> {
-    await this.writes.edit('closure', closure.id, { chamberOffAt: now.toISOString(), endedAt: closure['endedAt'] ?? now.toISOString() });
+  async chamberOff(closure: LocalRecord<'closure'>, now = new Date()): Promise<void> {
+    await this.writes.edit('closure', closure.id, { chamberOffAt: now.toISOString(), endedAt: closure.endedAt ?? now.toISOString() });
   }
 
   /** A series for a closure (from a logger piece or typed in), checked by the shared schema first. */
   async saveSeries(
-    closure: LocalRecord,
+    closure: LocalRecord<'closure'>,
     series: ClosureSeries,
     startedAt: string,
     endedAt: string | null,
@@ -102,13 +95,13 @@ export class ClosureWrites {
    */
   async createFromPiece(
     t: ClosureTarget,
-    site: LocalRecord | null,
-    profiles: LocalRecord[],
+    site: LocalRecord<'site'> | null,
+    profiles: LocalRecord<'chamberProfile'>[],
     series: ClosureSeries,
     startedAt: string,
     endedAt: string | null,
     sourceAttachmentId: string | null,
-  ): Promise<LocalRecord> {
+  ): Promise<LocalRecord<'closure'>> {
     const profile = this.profileFor(t, site, profiles, startedAt);
     const fields = validated('closure', {
       siteId: t.siteId,
@@ -119,7 +112,8 @@ export class ClosureWrites {
       profileId: profile?.id ?? null,
       startedAt,
       endedAt,
-      settleS: Number(profile?.['settleS'] ?? TYPICAL_SETTLE_TIME_S),
+      // No chamber profile valid on the day: the typical settle time until the lab reviews it.
+      settleS: profile?.settleS ?? TYPICAL_SETTLE_TIME_S,
       series,
       sourceAttachmentId,
     });

@@ -3,26 +3,25 @@ import { localDay } from '../../../../shared/time/site-time';
 
 /** What a closure needs from the day before it may start: the analyzer and the chamber profile. */
 export interface DayKit {
-  analyzer: LocalRecord | null;
-  profile: LocalRecord | null;
+  analyzer: LocalRecord<'analyzer'> | null;
+  profile: LocalRecord<'chamberProfile'> | null;
   /** Analyzers to choose from in one tap, the last used first. */
-  analyzerChoices: LocalRecord[];
+  analyzerChoices: LocalRecord<'analyzer'>[];
   /** Profile names valid today, when the crew must pick one (several and no site default). */
   profileChoices: string[];
   /** What is missing and what to do, or '' when closures may start. */
   missing: string;
 }
 
-const live = (r: LocalRecord) => !r.deleted;
+const live = (r: { deleted?: boolean }) => !r.deleted;
 
 /** The versions of each profile valid on the day: the newest version per name with validFrom ≤ day. */
-function validToday(profiles: readonly LocalRecord[], day: string): Map<string, LocalRecord> {
-  const out = new Map<string, LocalRecord>();
+function validToday(profiles: readonly LocalRecord<'chamberProfile'>[], day: string): Map<string, LocalRecord<'chamberProfile'>> {
+  const out = new Map<string, LocalRecord<'chamberProfile'>>();
   for (const p of profiles.filter(live)) {
-    if (String(p['validFrom']) > day) continue;
-    const name = String(p['name']);
-    const have = out.get(name);
-    if (!have || String(p['validFrom']) > String(have['validFrom'])) out.set(name, p);
+    if (p.validFrom > day) continue;
+    const have = out.get(p.name);
+    if (!have || p.validFrom > have.validFrom) out.set(p.name, p);
   }
   return out;
 }
@@ -36,12 +35,12 @@ export function dayKit(p: {
   analyzerId: string | null;
   kitAt: string | null;
   profileId: string | null;
-  site: LocalRecord | null;
-  analyzers: readonly LocalRecord[];
-  profiles: readonly LocalRecord[];
+  site: LocalRecord<'site'> | null;
+  analyzers: readonly LocalRecord<'analyzer'>[];
+  profiles: readonly LocalRecord<'chamberProfile'>[];
   now?: Date;
 }): DayKit {
-  const tz = String(p.site?.['timezone'] ?? 'UTC');
+  const tz = p.site?.timezone ?? 'UTC';
   const day = localDay((p.now ?? new Date()).toISOString(), tz);
   const analyzers = p.analyzers.filter(live);
   const chosenToday = !!p.kitAt && localDay(p.kitAt, tz) === day;
@@ -50,8 +49,8 @@ export function dayKit(p: {
   const analyzerChoices = last ? [last, ...analyzers.filter((a) => a !== last)] : [...analyzers];
 
   const valid = validToday(p.profiles, day);
-  const defaultName = p.profiles.find((x) => x.id === p.site?.['defaultProfileId'])?.['name'] as string | undefined;
-  const chosenName = p.profiles.find((x) => x.id === p.profileId)?.['name'] as string | undefined;
+  const defaultName = p.profiles.find((x) => x.id === p.site?.defaultProfileId)?.name;
+  const chosenName = p.profiles.find((x) => x.id === p.profileId)?.name;
   const name = [chosenName, defaultName].find((n) => n && valid.has(n)) ?? (valid.size === 1 ? [...valid.keys()][0] : null);
   const profile = name ? valid.get(name)! : null;
   const profileChoices = profile ? [] : [...valid.keys()].sort();

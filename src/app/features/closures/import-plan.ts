@@ -16,10 +16,16 @@ import { localDay } from '../../../../shared/time/site-time';
 
 /** A visit of the round with its collar code and the closures still waiting for a series. */
 export interface RoundVisit {
-  visit: LocalRecord;
+  visit: LocalRecord<'visit'>;
   collarCode: string;
-  waiting: LocalRecord[];
+  /** Tapped closures with no series yet, in tap order. */
+  waiting: TappedClosure[];
 }
+
+/** A closure the crew tapped "chamber on" for (its chamberOnAt is set). */
+export type TappedClosure = LocalRecord<'closure'> & { chamberOnAt: string };
+
+const tapped = (c: LocalRecord<'closure'>): c is TappedClosure => c.chamberOnAt !== null;
 
 /** Where the crew put one piece: a tapped closure, a new closure at a visit, or nowhere (kept in the file only). */
 export type Assignment = { kind: 'closure'; closureId: string; visitId: string } | { kind: 'new'; visitId: string } | { kind: 'none' };
@@ -29,12 +35,12 @@ export async function loadRoundVisits(db: FluxDb, campaignId: string, round: num
     .records('visit')
     .where('campaignId')
     .equals(campaignId)
-    .filter((v) => !v.deleted && v['round'] === round)
+    .filter((v) => !v.deleted && v.round === round)
     .toArray();
   const out: RoundVisit[] = [];
   for (const visit of visits) {
     const [collar, closures] = await Promise.all([
-      db.records('collar').get(String(visit['collarId'])),
+      db.records('collar').get(visit.collarId),
       db
         .records('closure')
         .where('visitId')
@@ -43,22 +49,23 @@ export async function loadRoundVisits(db: FluxDb, campaignId: string, round: num
         .toArray(),
     ]);
     const waiting = closures
-      .filter((c) => !(c['series'] as { tS?: unknown[] } | undefined)?.tS?.length && c['chamberOnAt'])
-      .sort((a, b) => String(a['chamberOnAt']).localeCompare(String(b['chamberOnAt'])));
-    out.push({ visit, collarCode: String(collar?.['code'] ?? '?'), waiting });
+      .filter(tapped)
+      .filter((c) => !c.series.tS.length)
+      .sort((a, b) => a.chamberOnAt.localeCompare(b.chamberOnAt));
+    out.push({ visit, collarCode: collar?.code ?? '?', waiting });
   }
-  return out.sort((a, b) => String(a.visit['arrivedAt']).localeCompare(String(b.visit['arrivedAt'])));
+  return out.sort((a, b) => a.visit.arrivedAt.localeCompare(b.visit.arrivedAt));
 }
 
 /** The visits as the matcher sees them (phone clock). A tap still open counts until the next tap. */
 export function visitSlots(visits: readonly RoundVisit[]): VisitSlot[] {
   return visits.map((v) => ({
     visitId: v.visit.id,
-    arrivedMs: Date.parse(String(v.visit['arrivedAt'])),
+    arrivedMs: Date.parse(v.visit.arrivedAt),
     taps: v.waiting.map((c) => ({
       key: c.id,
-      onMs: Date.parse(String(c['chamberOnAt'])),
-      offMs: c['chamberOffAt'] ? Date.parse(String(c['chamberOffAt'])) : null,
+      onMs: Date.parse(c.chamberOnAt),
+      offMs: c.chamberOffAt ? Date.parse(c.chamberOffAt) : null,
     })),
   }));
 }
@@ -176,10 +183,8 @@ export async function dayClockCheck(
     .records('analyzerCheck')
     .where('siteId')
     .equals(siteId)
-    .filter((c) => !c.deleted && c['kind'] === 'clock' && c['analyzerId'] === analyzerId && typeof c['clockOffsetS'] === 'number')
+    .filter((c) => !c.deleted && c.kind === 'clock' && c.analyzerId === analyzerId && c.clockOffsetS !== null)
     .toArray();
-  const today = checks
-    .filter((c) => localDay(String(c['at']), timeZone) === day)
-    .sort((a, b) => String(b['at']).localeCompare(String(a['at'])));
-  return today.length ? Number(today[0]['clockOffsetS']) : null;
+  const today = checks.filter((c) => localDay(c.at, timeZone) === day).sort((a, b) => b.at.localeCompare(a.at));
+  return today[0]?.clockOffsetS ?? null;
 }

@@ -45,7 +45,7 @@ export class ImportWriter {
       const x = a[p.key];
       const tap = x.kind === 'closure' ? byId.get(x.closureId) : null;
       // Elapsed-time files carry no clock: the tap's time stands in for the start.
-      const start = p.startMs !== null ? p.startMs - shift : Date.parse(String(tap?.['chamberOnAt'] ?? new Date().toISOString()));
+      const start = p.startMs !== null ? p.startMs - shift : Date.parse(tap?.chamberOnAt ?? new Date().toISOString());
       const series = pieceSeries(p, b.mapping);
       const end = m?.correctedEndMs ?? start + 1000 * (series.tS[series.tS.length - 1] ?? 0);
       return { series, startedAt: new Date(start).toISOString(), endedAt: new Date(end).toISOString() };
@@ -62,7 +62,7 @@ export class ImportWriter {
     });
     const owner = [...targets.values()][0];
     let attachmentId: string | null = owner ? await this.writes.keepFile(t.siteId, owner, b.file, b.fileName) : null;
-    const [siteRec, profiles]: [LocalRecord | undefined, LocalRecord[]] = pending.length
+    const [siteRec, profiles]: [LocalRecord<'site'> | undefined, LocalRecord<'chamberProfile'>[]] = pending.length
       ? await this.deviceDb.run((db) =>
           Promise.all([
             db.records('site').get(t.siteId),
@@ -78,7 +78,7 @@ export class ImportWriter {
     for (const n of pending) {
       const v = visitById.get(n.visitId)!;
       const s = times(n.piece);
-      const target = { ...t, collarId: String(v['collarId']), visitId: v.id };
+      const target = { ...t, collarId: v.collarId, visitId: v.id };
       const rec = await this.writes.createFromPiece(target, siteRec ?? null, profiles, s.series, s.startedAt, s.endedAt, attachmentId);
       if (!attachmentId) {
         // No tapped closure to own the file: the first new closure owns it and then names it.

@@ -34,7 +34,7 @@ const HOW_WORDS: Record<NonNullable<PieceMatch['how']>, string> = {
         <mat-select [value]="value()" (selectionChange)="chosen.emit($event.value)" [attr.data-testid]="'assign-' + match().pieceKey">
           <mat-option value="none">leave out (kept in the file)</mat-option>
           @for (v of visits(); track v.visit.id) {
-            @for (c of v.waiting; track c.id) { <mat-option [value]="'closure:' + v.visit.id + ':' + c.id">{{ v.collarCode }} · tap {{ clock(c['chamberOnAt']) }}</mat-option> }
+            @for (c of v.waiting; track c.id) { <mat-option [value]="'closure:' + v.visit.id + ':' + c.id">{{ v.collarCode }} · tap {{ clock(c.chamberOnAt) }}</mat-option> }
             <mat-option [value]="'new:' + v.visit.id">{{ v.collarCode }} · new closure</mat-option>
           }
         </mat-select>
@@ -65,8 +65,8 @@ export class PieceCard {
   });
 
   /** Wall time on the site's clock. */
-  protected clock(at: unknown): string {
-    const ms = Date.parse(String(at));
+  protected clock(at: string): string {
+    const ms = Date.parse(at);
     return Number.isFinite(ms) ? siteTimeParts(ms, this.timeZone(), true).time : '—';
   }
 }

@@ -87,7 +87,7 @@ export class RoundImport {
   protected readonly tapsWithout = computed(() => {
     const used = new Set(Object.values(this.assignments()).flatMap((a) => (a.kind === 'closure' ? [a.closureId] : [])));
     return this.visits().flatMap((v) =>
-      v.waiting.filter((c) => !used.has(c.id)).map((c) => ({ code: v.collarCode, at: String(c['chamberOnAt']) })),
+      v.waiting.filter((c) => !used.has(c.id)).map((c) => ({ code: v.collarCode, at: c.chamberOnAt })),
     );
   });
   protected readonly toWrite = computed(() => Object.values(this.assignments()).filter((a) => a.kind !== 'none').length);
@@ -96,7 +96,7 @@ export class RoundImport {
       new Set(
         this.visits()
           .filter((v) => v.waiting.length)
-          .map((v) => v.visit['collarId']),
+          .map((v) => v.visit.collarId),
       ).size,
   );
 
@@ -113,9 +113,9 @@ export class RoundImport {
     this.fileName.set(f.name);
     const text = await f.text();
     const campaign = await this.deviceDb.run((db) => db.records('campaign').get(c.campaignId!));
-    this.siteId = String(campaign?.['siteId'] ?? '');
+    this.siteId = campaign?.siteId ?? '';
     const site = await this.deviceDb.run((db) => db.records('site').get(this.siteId));
-    this.timeZone = String(site?.['timezone'] ?? 'UTC');
+    this.timeZone = site?.timezone ?? 'UTC';
     const layout = guessLayout(text);
     const preset = savedMapping(this.memory.read(mappingPresetKey(c.analyzerId)));
     this.mapping = mappingFits(preset, layout) ? preset : plainExportMapping(layout.headers, layout, this.timeZone);

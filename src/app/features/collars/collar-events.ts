@@ -1,9 +1,12 @@
-import { ChangeDetectionStrategy, Component, computed, inject, input, linkedSignal, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, untracked } from '@angular/core';
+import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
+import { toSignal } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { ENTITY_FIELDS } from '../../../../shared/model/entities';
+import type { COLLAR_EVENT_KINDS } from '../../../../shared/model/field-records';
 import { siteToday } from '../../../../shared/time/site-time';
 import { AuthStore } from '../../core/auth/auth-store';
 import { liveSignal } from '../../core/db/live-query-signal';
@@ -16,40 +19,41 @@ export const LATER_EVENTS = [
   { kind: 'replaced', label: 'Replaced by a new collar' },
   { kind: 'damaged', label: 'Damaged' },
   { kind: 'retired', label: 'Retired' },
-] as const;
+] as const satisfies readonly { kind: (typeof COLLAR_EVENT_KINDS)[number]; label: string }[];
+type LaterKind = (typeof LATER_EVENTS)[number]['kind'];
 
 /** A collar's life: its events, newest first, and a form for the next one (saved on the device first). */
 @Component({
   selector: 'fw-collar-events',
-  imports: [MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule],
+  imports: [ReactiveFormsModule, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule],
   template: `
     <ol class="events" data-testid="collar-events">
       @for (e of events(); track e.id) {
-        <li><strong>{{ e['date'] }}</strong> {{ labelOf(e['kind']) }}@if (e['note']) { — {{ e['note'] }} }</li>
+        <li><strong>{{ e.date }}</strong> {{ labelOf(e.kind) }}@if (e.note) { — {{ e.note }} }</li>
       } @empty { <li>No events recorded.</li> }
     </ol>
-    <form (submit)="$event.preventDefault(); addEvent()">
+    <form [formGroup]="form" (submit)="$event.preventDefault(); addEvent()">
       <mat-form-field appearance="outline" class="wide">
         <mat-label>What happened</mat-label>
-        <mat-select [value]="kind()" (selectionChange)="kind.set($event.value)">
+        <mat-select formControlName="kind">
           @for (k of kinds; track k.kind) { <mat-option [value]="k.kind">{{ k.label }}</mat-option> }
         </mat-select>
       </mat-form-field>
       @if (kind() === 'replaced') {
         <mat-form-field appearance="outline" class="wide">
           <mat-label>New collar</mat-label>
-          <mat-select [value]="replacedById()" (selectionChange)="replacedById.set($event.value)">
-            @for (c of others(); track c.id) { <mat-option [value]="c.id">{{ c['code'] }}</mat-option> }
+          <mat-select formControlName="replacedById">
+            @for (c of others(); track c.id) { <mat-option [value]="c.id">{{ c.code }}</mat-option> }
           </mat-select>
         </mat-form-field>
       }
       <mat-form-field appearance="outline" class="wide">
         <mat-label>Date</mat-label>
-        <input matInput type="date" [value]="date()" (input)="date.set($any($event.target).value)" />
+        <input matInput type="date" formControlName="date" />
       </mat-form-field>
       <mat-form-field appearance="outline" class="wide">
         <mat-label>Event note</mat-label>
-        <textarea matInput rows="2" maxlength="2000" [value]="note()" (input)="note.set($any($event.target).value)"></textarea>
+        <textarea matInput rows="2" maxlength="2000" formControlName="note"></textarea>
       </mat-form-field>
       <button mat-flat-button type="submit">Record event</button>
       @if (problem()) { <p role="alert" class="problem">{{ problem() }}</p> }
@@ -70,7 +74,7 @@ export class CollarEvents {
     async (db, id) =>
       (await db.records('collarEvent').where('collarId').equals(id).toArray())
         .filter((e) => !e.deleted)
-        .sort((a, b) => String(b['date']).localeCompare(String(a['date']))),
+        .sort((a, b) => b.date.localeCompare(a.date)),
     [],
   );
   private readonly siteCollars = liveSignal(
@@ -81,28 +85,41 @@ export class CollarEvents {
   protected readonly others = computed(() =>
     this.siteCollars()
       .filter((c) => c.id !== this.collarId())
-      .sort((a, b) => String(a['code']).localeCompare(String(b['code']), undefined, { numeric: true })),
+      .sort((a, b) => a.code.localeCompare(b.code, undefined, { numeric: true })),
   );
-  protected readonly kind = signal<string>('clipped');
-  /** Today at the collar's site (not on the phone), until the crew picks another day. */
-  protected readonly date = linkedSignal(() => siteToday(this.auth.sites().find((s) => s.id === this.siteId())?.timezone ?? 'UTC'));
-  protected readonly note = signal('');
-  protected readonly replacedById = signal<string | null>(null);
+  protected readonly form = new FormGroup({
+    kind: new FormControl<LaterKind>('clipped', { nonNullable: true }),
+    replacedById: new FormControl<string | null>(null),
+    date: new FormControl('', { nonNullable: true }),
+    note: new FormControl('', { nonNullable: true }),
+  });
+  protected readonly kind = toSignal(this.form.controls.kind.valueChanges, { initialValue: this.form.controls.kind.value });
+  /** Today at the collar's site (not on the phone). */
+  private readonly today = computed(() => siteToday(this.auth.sites().find((s) => s.id === this.siteId())?.timezone ?? 'UTC'));
   protected readonly problem = signal('');
   protected readonly message = signal('');
 
-  protected labelOf(kind: unknown): string {
-    return kind === 'installed' ? 'Installed' : (LATER_EVENTS.find((k) => k.kind === kind)?.label ?? String(kind));
+  constructor() {
+    // Pushes the site's today into the form (not a load): offered until the crew picks another day.
+    effect(() => {
+      const today = this.today();
+      untracked(() => this.form.controls.date.setValue(today));
+    });
+  }
+
+  protected labelOf(kind: (typeof COLLAR_EVENT_KINDS)[number]): string {
+    return kind === 'installed' ? 'Installed' : (LATER_EVENTS.find((k) => k.kind === kind)?.label ?? kind);
   }
 
   protected async addEvent(): Promise<void> {
+    const v = this.form.getRawValue();
     const fields = {
       siteId: this.siteId(),
       collarId: this.collarId(),
-      kind: this.kind(),
-      date: this.date(),
-      note: this.note().trim(),
-      replacedById: this.kind() === 'replaced' ? this.replacedById() : null,
+      kind: v.kind,
+      date: v.date,
+      note: v.note.trim(),
+      replacedById: v.kind === 'replaced' ? v.replacedById : null,
     };
     const parsed = ENTITY_FIELDS.collarEvent.safeParse(fields);
     if (!parsed.success) {
@@ -111,9 +128,9 @@ export class CollarEvents {
     }
     this.problem.set('');
     try {
-      await this.writes.create('collarEvent', parsed.data as Record<string, unknown>);
+      await this.writes.create('collarEvent', parsed.data);
       this.message.set('Event saved on this device.');
-      this.note.set('');
+      this.form.controls.note.reset();
     } catch (err) {
       this.problem.set(err instanceof Error ? err.message : 'Could not save on this device');
     }

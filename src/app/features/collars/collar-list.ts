@@ -1,19 +1,21 @@
-import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
+import { toSignal } from '@angular/core/rxjs-interop';
+import { FormControl, ReactiveFormsModule } from '@angular/forms';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { RouterLink } from '@angular/router';
 import { SiteChoice } from '../../core/auth/site-choice';
-import { collarList } from './collar-store';
+import { collarList } from './collar-query';
 
 /** The site's collars on this device, findable by code. */
 @Component({
   selector: 'fw-collar-list',
-  imports: [MatFormFieldModule, MatInputModule, RouterLink],
+  imports: [ReactiveFormsModule, MatFormFieldModule, MatInputModule, RouterLink],
   template: `
     <h1>Collars</h1>
     <mat-form-field appearance="outline">
       <mat-label>Find by code</mat-label>
-      <input matInput [value]="filter()" (input)="filter.set($any($event.target).value)" />
+      <input matInput [formControl]="filter" />
     </mat-form-field>
     @if (rows(); as list) {
       @if (list.length) {
@@ -39,10 +41,11 @@ import { collarList } from './collar-store';
 })
 export class CollarList {
   private readonly site = inject(SiteChoice).current;
-  protected readonly filter = signal('');
+  protected readonly filter = new FormControl('', { nonNullable: true });
+  private readonly filterText = toSignal(this.filter.valueChanges, { initialValue: this.filter.value });
   protected readonly rows = collarList(() => this.site()?.id ?? null);
   protected readonly shown = computed(() => {
-    const f = this.filter().trim().toLowerCase();
+    const f = this.filterText().trim().toLowerCase();
     return (this.rows() ?? []).filter((c) => !f || c.code.toLowerCase().includes(f));
   });
 }

@@ -7,11 +7,12 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { RouterLink } from '@angular/router';
+import type { EntityFields } from '../../../../shared/model/entities';
 import { AuthStore } from '../../core/auth/auth-store';
 import { LocalWrites } from '../../core/sync/local-writes';
 import { CollarEvents } from './collar-events';
 import { CollarPhotos } from './collar-photos';
-import { collarView } from './collar-store';
+import { collarView } from './collar-query';
 
 /**
  * One collar: code, plot, treatment, last visit; notes and "report damaged" are editable by the
@@ -52,9 +53,10 @@ export class CollarPage {
   private shownNotes: string | null = null;
 
   constructor() {
-    // Follow the stored note unless the person is in the middle of changing it.
+    // Pushes the stored note into the form (the data itself is a live query): it follows the
+    // stored note unless the person is in the middle of changing it.
     effect(() => {
-      const stored = String(this.view()?.collar['notes'] ?? '');
+      const stored = this.view()?.collar.notes ?? '';
       untracked(() => {
         if (this.shownNotes === null || this.notes.value === this.shownNotes) this.notes.setValue(stored);
         this.shownNotes = stored;
@@ -79,7 +81,7 @@ export class CollarPage {
     this.reason.reset();
   }
 
-  private async write(changes: Record<string, unknown>, done: string): Promise<void> {
+  private async write(changes: Partial<EntityFields<'collar'>>, done: string): Promise<void> {
     this.problem.set('');
     try {
       const op = await this.writes.edit('collar', this.id(), changes);

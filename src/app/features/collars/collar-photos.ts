@@ -27,13 +27,13 @@ export class CollarPhotos {
     () => this.collarId(),
     async (db, id) => {
       const atts = (await db.records('attachment').where('ownerId').equals(id).toArray()).filter(
-        (a) => !a.deleted && String(a['mediaType']).startsWith('image/'),
+        (a) => !a.deleted && a.mediaType.startsWith('image/'),
       );
       const blobs = await db.blobs.bulkGet(atts.map((a) => a.id));
       return atts.map((a, i) => ({
         id: a.id,
-        fileName: String(a['fileName']),
-        sizeBytes: Number(a['sizeBytes']),
+        fileName: a.fileName,
+        sizeBytes: a.sizeBytes,
         blob: blobs[i]?.blob ?? null,
       }));
     },

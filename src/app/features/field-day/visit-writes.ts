@@ -55,8 +55,8 @@ export class VisitWrites {
       await this.ensureVisit(target, null, { conditions });
       return;
     }
-    validated('visit', { ...target, arrivedAt: visit['arrivedAt'], conditions });
-    await this.writes.edit('visit', visit.id, { conditions });
+    const checked = validated('visit', { ...target, arrivedAt: visit['arrivedAt'], conditions });
+    await this.writes.edit('visit', visit.id, { conditions: checked.conditions });
   }
 
   /** A new offset set; a second set at the same visit is a correction that supersedes the first (both are kept). */

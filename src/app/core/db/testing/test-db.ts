@@ -1,5 +1,7 @@
 import { IDBFactory, IDBKeyRange } from 'fake-indexeddb';
-import { FluxDb, type LocalRecord } from '../db-schema';
+import { DERIVED_FIELDS, type SyncEntityName } from '../../../../../shared/model/entities';
+import { FluxDb, type LocalRecord, type RecordBag } from '../db-schema';
+import { InvalidRecordError, validated } from '../validated';
 
 let n = 0;
 
@@ -29,4 +31,27 @@ export function collar(id: string, rev: number, extra: Partial<LocalRecord> = {}
     updatedBy: null,
     ...extra,
   };
+}
+
+/**
+ * A whole record of E as a pull leaves it on the device: the given fields parsed by E's schema
+ * (so every defaulted field is set, and a field the schema refuses fails the test at once), the
+ * server-derived fields kept as given, rev 1 unless said.
+ */
+export function deviceRecord<E extends SyncEntityName>(
+  entity: E,
+  record: { id: string; rev?: number; deleted?: boolean; updatedAt?: string } & Record<string, unknown>,
+): LocalRecord<E> {
+  const { id, rev = 1, deleted = false, updatedAt, ...fields } = record;
+  const derived = Object.fromEntries((DERIVED_FIELDS[entity] ?? []).filter((k) => k in fields).map((k) => [k, fields[k]]));
+  let parsed: object;
+  try {
+    parsed = validated(entity, fields);
+  } catch (err) {
+    if (!(err instanceof InvalidRecordError)) throw err;
+    throw new Error(`Fixture ${entity} ${id}: ${err.problems.map((p) => `${p.path}: ${p.message}`).join('; ')}`, { cause: err });
+  }
+  const bag: RecordBag = { ...parsed, ...derived, id, rev, deleted, ...(updatedAt ? { updatedAt } : {}) };
+  // Boundary: the fields were parsed by E's schema just above.
+  return bag as LocalRecord<E>;
 }

@@ -3,7 +3,7 @@ import type { LocalRecord } from '../../core/db/db-schema';
 import { liveSignal } from '../../core/db/live-query-signal';
 
 export interface CollarView {
-  collar: LocalRecord;
+  collar: LocalRecord<'collar'>;
   plotCode: string | null;
   treatment: string | null;
   lastVisit: string | null;
@@ -21,21 +21,22 @@ export function collarView(id: () => string): Signal<CollarView | null | undefin
     async (db, collarId) => {
       const collar = await db.records('collar').get(collarId);
       if (!collar) return null;
-      const plot = typeof collar['plotId'] === 'string' ? await db.records('plot').get(collar['plotId']) : undefined;
-      const treatmentId = (collar['treatmentId'] as string | null) ?? (plot?.['treatmentId'] as string | null) ?? null;
+      const plot = await db.records('plot').get(collar.plotId);
+      // A collar-level treatment wins over its plot's.
+      const treatmentId = collar.treatmentId ?? plot?.treatmentId ?? null;
       const treatment = treatmentId ? await db.records('treatment').get(treatmentId) : undefined;
       const visits = await db.records('visit').where('collarId').equals(collarId).toArray();
       const last =
         visits
-          .filter((v) => !v['skipped'])
-          .map((v) => String(v['arrivedAt']))
+          .filter((v) => !v.skipped)
+          .map((v) => v.arrivedAt)
           .sort()
           .at(-1) ?? null;
       const pending = (await db.outbox.where('[entity+id]').equals(['collar', collarId]).count()) > 0;
       return {
         collar,
-        plotCode: (plot?.['code'] as string | undefined) ?? null,
-        treatment: treatment ? [treatment['code'], treatment['name']].filter(Boolean).join(' · ') : null,
+        plotCode: plot?.code ?? null,
+        treatment: treatment ? [treatment.code, treatment.name].filter(Boolean).join(' · ') : null,
         lastVisit: last,
         pending,
       };
@@ -47,7 +48,7 @@ export function collarView(id: () => string): Signal<CollarView | null | undefin
 export interface CollarRow {
   id: string;
   code: string;
-  status: string;
+  status: LocalRecord<'collar'>['status'];
   notes: string;
 }
 
@@ -58,7 +59,7 @@ export function collarList(siteId: () => string | null): Signal<CollarRow[] | un
     async (db, site) => {
       const all = site ? await db.records('collar').where('siteId').equals(site).toArray() : await db.records('collar').toArray();
       return all
-        .map((c) => ({ id: c.id, code: String(c['code'] ?? ''), status: String(c['status'] ?? ''), notes: String(c['notes'] ?? '') }))
+        .map((c) => ({ id: c.id, code: c.code, status: c.status, notes: c.notes }))
         .sort((a, b) => a.code.localeCompare(b.code, undefined, { numeric: true }));
     },
     undefined as CollarRow[] | undefined,
