@@ -11,6 +11,7 @@ import { TestBed } from '@angular/core/testing';
 import { MatButtonHarness } from '@angular/material/button/testing';
 import { MatCheckboxHarness } from '@angular/material/checkbox/testing';
 import { MatFormFieldHarness } from '@angular/material/form-field/testing';
+import { MatInputHarness } from '@angular/material/input/testing';
 import { MatSelectHarness } from '@angular/material/select/testing';
 import { MAT_DIALOG_DATA, MatDialogRef } from '@angular/material/dialog';
 import { readFileSync } from 'node:fs';
@@ -129,6 +130,24 @@ describe('Logger import, mapping step', () => {
     await again.pick(FILE);
     expect(await again.shown('Format')).toBe('DD.MM.YYYY HH:mm:ss');
     expect(await again.shown('Pressure unit')).toBe('hPa');
+  });
+});
+
+describe('Logger import, the time column', () => {
+  afterEach(() => localStorage.clear());
+  it('when the crew switches the time to elapsed and back, then each starts from its usual settings: seconds, then the first format in the site zone', async () => {
+    const { shown, choose, pick, loader } = await render();
+    await pick(FILE);
+    await choose('Format', 'DD.MM.YYYY HH:mm:ss');
+    await choose('Time is', 'elapsed time');
+    expect(await shown('Unit')).toBe('s');
+    await choose('Unit', 'min');
+    await choose('Time is', 'a timestamp');
+    expect(await shown('Format')).toBe('YYYY-MM-DD HH:mm:ss');
+    const zone = await (await loader.getHarness(MatFormFieldHarness.with({ floatingLabelText: 'Time zone' }))).getControl(MatInputHarness);
+    expect(await zone!.getValue()).toBe('Europe/Berlin');
+    await choose('Time is', 'elapsed time');
+    expect(await shown('Unit')).toBe('s');
   });
 });
 

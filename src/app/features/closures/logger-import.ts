@@ -1,5 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
-import { FormsModule } from '@angular/forms';
+import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
+import { FormControl, ReactiveFormsModule } from '@angular/forms';
+import { map } from 'rxjs';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
@@ -48,6 +50,7 @@ import {
 import { ImportWriter } from './import-writer';
 import { PieceCard } from './piece-card';
 import { readLoggerFile } from './logger-reader';
+import { FIRST_TIMESTAMP_FORMAT, mappingForm, mappingOf, mappingValue } from './mapping-form';
 
 export interface LoggerImportData {
   siteId: string;
@@ -70,7 +73,7 @@ type Step = 'pick' | 'map' | 'parsing' | 'review' | 'done';
 @Component({
   selector: 'fw-logger-import',
   imports: [
-    FormsModule,
+    ReactiveFormsModule,
     PieceCard,
     MatButtonModule,
     MatCheckboxModule,
@@ -99,6 +102,12 @@ export class LoggerImport {
     elapsed: Object.keys(ELAPSED_UNITS),
   };
   protected readonly formats = TIMESTAMP_FORMATS;
+  /** The columns a file may lack, each with its column and unit controls (`<key>Column`, `<key>Unit`). */
+  protected readonly optionalColumns = [
+    { key: 'h2o', column: 'h2oColumn', label: 'H2O', units: this.units.h2o },
+    { key: 'pressure', column: 'pressureColumn', label: 'Pressure', units: this.units.pressure },
+    { key: 'temp', column: 'tempColumn', label: 'Chamber air temperature', units: this.units.temp },
+  ] as const;
   protected readonly step = signal<Step>('pick');
   protected readonly error = signal('');
   protected readonly progress = signal(0);
@@ -110,11 +119,22 @@ export class LoggerImport {
     unknown: 'not clear which temperature this is',
   };
   protected readonly layout = signal<TextLayout | null>(null);
-  protected mapping: LoggerMapping | null = null;
+  /** The column mapping the crew confirms (typed form); the mapping itself is made from it when the file is read. */
+  protected readonly mapForm = mappingForm();
+  /** The form's value as a signal, for what the template shows or hides by it. */
+  protected readonly mapValue = toSignal(this.mapForm.valueChanges.pipe(map(() => this.mapForm.getRawValue())), {
+    initialValue: this.mapForm.getRawValue(),
+  });
+  /** Delimiter, decimal mark and header row of the mapping offered (the preset's or the file's). */
+  private mapLayout: Pick<LoggerMapping, 'delimiter' | 'decimalComma' | 'headerRow'> | null = null;
+  private mapping: LoggerMapping | null = null;
   protected readonly read = signal<LoggerRead | null>(null);
   protected readonly split = signal<SplitResult | null>(null);
   /** How the file is cut into closures; the crew may switch between taps and gaps. */
   protected readonly method = signal<SplitMethod>('gaps');
+  /** The split method and the clock offset as the crew edits them (typed controls feeding the signals). */
+  protected readonly methodControl = new FormControl<SplitMethod>('gaps', { nonNullable: true });
+  protected readonly offsetControl = new FormControl<number | null>(0);
   protected readonly methods = signal<SplitMethod[]>([]);
   /** The split by the closure id column or by gaps, computed once per read. */
   private ownSplit: SplitResult | null = null;
@@ -136,6 +156,19 @@ export class LoggerImport {
   private text = '';
   protected timeZone = 'UTC';
 
+  constructor() {
+    // A new time kind starts from its usual settings: seconds, or the first format in the site's zone.
+    this.mapForm.controls.timeKind.valueChanges
+      .pipe(takeUntilDestroyed())
+      .subscribe((kind) =>
+        this.mapForm.patchValue(kind === 'elapsed' ? { elapsedUnit: 's' } : { format: FIRST_TIMESTAMP_FORMAT, timeZone: this.timeZone }, {
+          emitEvent: false,
+        }),
+      );
+    this.methodControl.valueChanges.pipe(takeUntilDestroyed()).subscribe((m) => this.changeMethod(m));
+    this.offsetControl.valueChanges.pipe(takeUntilDestroyed()).subscribe((v) => this.changeOffset(v));
+  }
+
   private presetKey(): string {
     return mappingPresetKey(this.data.analyzerId);
   }
@@ -151,13 +184,13 @@ export class LoggerImport {
     this.file = f;
     this.text = await f.text();
     const site = await this.deviceDb.run((db) => db.records('site').get(this.data.siteId));
-    this.timeZone = String(site?.['timezone'] ?? 'UTC');
+    this.timeZone = site?.timezone ?? 'UTC';
     const layout = guessLayout(this.text);
     this.layout.set(layout);
     this.tempColumns.set(temperatureColumns(this.text, layout));
     const preset = savedMapping(this.memory.read(this.presetKey()));
-    this.mapping = mappingFits(preset, layout)
-      ? structuredClone(preset)
+    const offered = mappingFits(preset, layout)
+      ? preset
       : (suggestMapping(layout.headers, layout, this.timeZone) ?? {
           ...layout,
           time: { kind: 'elapsed', column: 0, unit: 's' },
@@ -167,27 +200,15 @@ export class LoggerImport {
           temp: null,
           closureId: null,
         });
+    this.mapLayout = { delimiter: offered.delimiter, decimalComma: offered.decimalComma, headerRow: offered.headerRow };
+    this.mapForm.setValue(mappingValue(offered, this.timeZone), { emitEvent: false });
+    this.mapForm.updateValueAndValidity();
     this.step.set('map');
   }
 
-  protected setTimeKind(kind: 'elapsed' | 'timestamp'): void {
-    const m = this.mapping!;
-    m.time =
-      kind === 'elapsed'
-        ? { kind, column: m.time.column, unit: 's' }
-        : { kind, column: m.time.column, format: 'YYYY-MM-DD HH:mm:ss', timeZone: this.timeZone };
-  }
-
-  /** Optional columns: -1 in the select means "not in this file". */
-  protected optional(key: 'h2o' | 'pressure' | 'temp' | 'closureId', column: number): void {
-    const m = this.mapping! as unknown as Record<string, { column: number; unit?: string } | null>;
-    const unit = { h2o: 'mmol/mol', pressure: 'kPa', temp: '°C', closureId: undefined }[key];
-    m[key] = column < 0 ? null : { ...(m[key] ?? (unit ? { unit } : {})), column };
-  }
-
   protected async parse(): Promise<void> {
-    const m = this.mapping!;
-    m.headers = [...(this.layout()?.headers ?? [])];
+    const m = mappingOf(this.mapForm.getRawValue(), this.mapLayout!, this.layout()?.headers ?? []);
+    this.mapping = m;
     this.memory.write(this.presetKey(), m);
     this.step.set('parsing');
     this.progress.set(0);
@@ -204,6 +225,8 @@ export class LoggerImport {
       this.offsetS.set(cut.offsetS);
       this.methods.set(cut.methods);
       this.method.set(cut.methods[0]);
+      this.methodControl.setValue(cut.methods[0], { emitEvent: false });
+      this.offsetControl.setValue(cut.offsetS, { emitEvent: false });
       this.resplit();
       this.step.set('review');
     } catch (err) {
@@ -216,12 +239,12 @@ export class LoggerImport {
     return this.deviceDb.run((db) => dayClockCheck(db, this.data.siteId, this.data.analyzerId, firstMs, this.timeZone));
   }
 
-  protected changeOffset(v: number): void {
-    this.offsetS.set(Number.isFinite(v) ? v : 0);
+  private changeOffset(v: number | null): void {
+    this.offsetS.set(v !== null && Number.isFinite(v) ? v : 0);
     this.resplit();
   }
 
-  protected changeMethod(m: SplitMethod): void {
+  private changeMethod(m: SplitMethod): void {
     this.method.set(m);
     this.resplit();
   }
