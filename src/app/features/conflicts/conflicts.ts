@@ -1,10 +1,11 @@
 import { ChangeDetectionStrategy, Component, inject, signal, computed } from '@angular/core';
+import { FormControl, FormRecord, ReactiveFormsModule } from '@angular/forms';
 import { SiteTimePipe } from '../../core/time/site-time-pipe';
 import { SiteChoice } from '../../core/auth/site-choice';
 import { MatButtonModule } from '@angular/material/button';
 import { MatRadioModule } from '@angular/material/radio';
 import { AuthStore } from '../../core/auth/auth-store';
-import type { ConflictRow } from '../../core/db/db-schema';
+import type { ConflictRow, RecordBag } from '../../core/db/db-schema';
 import type { Side } from '../../core/db/conflict-resolve';
 import { liveSignal } from '../../core/db/live-query-signal';
 import { LocalWrites } from '../../core/sync/local-writes';
@@ -27,7 +28,7 @@ interface ConflictCard {
  */
 @Component({
   selector: 'fw-conflicts',
-  imports: [SiteTimePipe, MatButtonModule, MatRadioModule],
+  imports: [SiteTimePipe, ReactiveFormsModule, MatButtonModule, MatRadioModule],
   templateUrl: './conflicts.html',
   styleUrl: './conflicts.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -38,7 +39,8 @@ export class Conflicts {
   protected readonly zone = computed(() => this.siteChoiceForTimes.current()?.timezone ?? 'UTC');
   private readonly writes = inject(LocalWrites);
   private readonly auth = inject(AuthStore);
-  protected readonly picks = signal<Record<string, Record<string, Side>>>({});
+  /** The person's pick per conflict (op id) and field: mine, theirs, or not yet picked. */
+  protected readonly picks = new FormRecord<FormRecord<FormControl<Side | null>>>({});
   protected readonly problem = signal('');
 
   protected readonly cards = liveSignal(
@@ -51,8 +53,11 @@ export class Conflicts {
       );
       const cards: ConflictCard[] = [];
       for (const row of rows) {
-        const theirs = row.theirs ?? (await db.anyRecords(row.entity).get(row.recordId)) ?? null;
-        const by = theirs?.['updatedBy'];
+        // The server's copy as the conflict reported it, else the copy on this device: an entity named at run time (untyped bag).
+        const theirs: RecordBag | null = row.theirs
+          ? { ...row.theirs, id: row.recordId, rev: row.serverRev }
+          : ((await db.anyRecords(row.entity).get(row.recordId)) ?? null);
+        const by = theirs?.updatedBy;
         cards.push({
           row,
           label: labels.get(`${row.entity}:${row.recordId}`) ?? row.entity,
@@ -60,7 +65,7 @@ export class Conflicts {
           alsoSent: Object.keys(row.mine)
             .filter((k) => !row.fields.includes(k))
             .map(fieldLabel),
-          theirsAt: typeof theirs?.['updatedAt'] === 'string' ? theirs['updatedAt'] : null,
+          theirsAt: theirs?.updatedAt ?? null,
           theirsBy: by && by === me ? 'you, on another device' : 'another person',
         });
       }
@@ -69,12 +74,23 @@ export class Conflicts {
     undefined as ConflictCard[] | undefined,
   );
 
-  protected pick(opId: string, field: string, side: Side): void {
-    this.picks.update((p) => ({ ...p, [opId]: { ...(p[opId] ?? {}), [field]: side } }));
+  /** The control of one field's pick, made the first time the field is shown. */
+  protected pickControl(opId: string, field: string): FormControl<Side | null> {
+    let card = this.picks.controls[opId];
+    if (!card) {
+      card = new FormRecord<FormControl<Side | null>>({});
+      this.picks.setControl(opId, card, { emitEvent: false });
+    }
+    let control = card.controls[field];
+    if (!control) {
+      control = new FormControl<Side | null>(null);
+      card.setControl(field, control, { emitEvent: false });
+    }
+    return control;
   }
 
   protected picked(opId: string, field: string): Side | null {
-    return this.picks()[opId]?.[field] ?? null;
+    return this.picks.controls[opId]?.controls[field]?.value ?? null;
   }
 
   protected allPicked(card: ConflictCard): boolean {
@@ -90,7 +106,7 @@ export class Conflicts {
       this.problem.set('Pick mine or theirs for every field first.');
       return;
     }
-    await this.resolve(card, this.picks()[card.row.opId] ?? {});
+    await this.resolve(card, Object.fromEntries(card.fields.map((f) => [f.field, this.picked(card.row.opId, f.field) ?? 'mine'])));
   }
 
   private async resolve(card: ConflictCard, choice: Record<string, Side>): Promise<void> {
