@@ -47,27 +47,54 @@ async function render(extra: (db: FluxDb) => Promise<void> = async () => undefin
   TestBed.configureTestingModule({ providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([])] });
   TestBed.overrideComponent(ClosureCard, { remove: { imports: [SpotChart] }, add: { imports: [ChartStandIn] } });
   const db: FluxDb = await until(() => TestBed.inject(DeviceDb).db(), 'the database');
-  await db.records('site').put(deviceRecord('site', {
-    id: SITE,
-    rev: 1,
-    name: 'Test site',
-    timezone: 'Europe/Berlin',
-    elevationM: 420,
-    ambientMarginPpm: 100,
-    defaultProfileId: PROFILE,
-  }));
-  await db.records('collar').put(deviceRecord('collar', { id: COLLAR, rev: 1, siteId: SITE, code: 'W-03', plotId: SITE, shape: 'round', diameterCm: 20, status: 'active' }));
-  await db.records('campaign').put(deviceRecord('campaign', { id: CAMPAIGN, rev: 1, siteId: SITE, name: 'Dec', startsOn: '2025-06-01', endsOn: '2025-06-30', rounds: 2, routes: [], dueClosures: 2 }));
-  await db.records('chamberProfile').put(deviceRecord('chamberProfile', {
-    id: PROFILE,
-    rev: 1,
-    siteId: SITE,
-    name: 'Dark 20',
-    validFrom: '2025-01-01',
-    chamberVolumeCm3: 4000,
-    loopVolumeCm3: 150,
-    settleS: 20,
-  }));
+  await db.records('site').put(
+    deviceRecord('site', {
+      id: SITE,
+      rev: 1,
+      name: 'Test site',
+      timezone: 'Europe/Berlin',
+      elevationM: 420,
+      ambientMarginPpm: 100,
+      defaultProfileId: PROFILE,
+    }),
+  );
+  await db.records('collar').put(
+    deviceRecord('collar', {
+      id: COLLAR,
+      rev: 1,
+      siteId: SITE,
+      code: 'W-03',
+      plotId: SITE,
+      shape: 'round',
+      diameterCm: 20,
+      status: 'active',
+    }),
+  );
+  await db.records('campaign').put(
+    deviceRecord('campaign', {
+      id: CAMPAIGN,
+      rev: 1,
+      siteId: SITE,
+      name: 'Dec',
+      startsOn: '2025-06-01',
+      endsOn: '2025-06-30',
+      rounds: 2,
+      routes: [],
+      dueClosures: 2,
+    }),
+  );
+  await db.records('chamberProfile').put(
+    deviceRecord('chamberProfile', {
+      id: PROFILE,
+      rev: 1,
+      siteId: SITE,
+      name: 'Dark 20',
+      validFrom: '2025-01-01',
+      chamberVolumeCm3: 4000,
+      loopVolumeCm3: 150,
+      settleS: 20,
+    }),
+  );
   await db.records('analyzer').put(deviceRecord('analyzer', { id: ANALYZER, rev: 1, siteId: SITE, name: 'A1', precisionPpm: 0.2 }));
   const visit: LocalRecord<'visit'> = deviceRecord('visit', {
     id: VISIT,
@@ -79,16 +106,18 @@ async function render(extra: (db: FluxDb) => Promise<void> = async () => undefin
     arrivedAt: '2025-06-12T06:55:00.000Z',
   });
   await db.records('visit').put(visit);
-  await db.records('offsetSet').put(deviceRecord('offsetSet', {
-    id: 'o1',
-    rev: 1,
-    siteId: SITE,
-    visitId: VISIT,
-    collarId: COLLAR,
-    campaignId: CAMPAIGN,
-    takenAt: '2025-06-12T06:58:00.000Z',
-    readingsCm: [2, 2, 2, 2],
-  }));
+  await db.records('offsetSet').put(
+    deviceRecord('offsetSet', {
+      id: 'o1',
+      rev: 1,
+      siteId: SITE,
+      visitId: VISIT,
+      collarId: COLLAR,
+      campaignId: CAMPAIGN,
+      takenAt: '2025-06-12T06:58:00.000Z',
+      readingsCm: [2, 2, 2, 2],
+    }),
+  );
   await extra(db);
   if (chooseAnalyzer) TestBed.inject(WalkContext).update({ analyzerId: ANALYZER });
   const fixture = TestBed.createComponent(ClosurePanel);
@@ -132,25 +161,35 @@ describe('Closure panel', () => {
   it('when a closure has a series, then its flux and flags show; Redo starts a new closure naming it, and a series typed by hand fills the redo', async () => {
     const tS = [0, 10, 20, 30, 40, 50, 60, 70, 80, 90, 100];
     const { db, el, text, loader, fixture } = await render(async (d) => {
-      await d
-        .records('analyzerCheck')
-        .put(deviceRecord('analyzerCheck', { id: 'amb', rev: 1, siteId: SITE, analyzerId: ANALYZER, kind: 'ambient', at: '2025-06-12T06:30:00.000Z', co2Ppm: 415 }));
-      await d.records('closure').put(deviceRecord('closure', {
-        id: FIRST,
-        rev: 1,
-        siteId: SITE,
-        visitId: VISIT,
-        collarId: COLLAR,
-        campaignId: CAMPAIGN,
-        profileId: PROFILE,
-        analyzerId: ANALYZER,
-        startedAt: '2025-06-12T07:00:00.000Z',
-        chamberOnAt: '2025-06-12T07:00:00.000Z',
-        chamberOffAt: '2025-06-12T07:02:00.000Z',
-        settleS: 20,
-        // 560 ppm at the start is 145 ppm above the day's 415 ppm: more than the 100 ppm margin.
-        series: { tS, co2Ppm: tS.map((t) => 560 + 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20) },
-      }));
+      await d.records('analyzerCheck').put(
+        deviceRecord('analyzerCheck', {
+          id: 'amb',
+          rev: 1,
+          siteId: SITE,
+          analyzerId: ANALYZER,
+          kind: 'ambient',
+          at: '2025-06-12T06:30:00.000Z',
+          co2Ppm: 415,
+        }),
+      );
+      await d.records('closure').put(
+        deviceRecord('closure', {
+          id: FIRST,
+          rev: 1,
+          siteId: SITE,
+          visitId: VISIT,
+          collarId: COLLAR,
+          campaignId: CAMPAIGN,
+          profileId: PROFILE,
+          analyzerId: ANALYZER,
+          startedAt: '2025-06-12T07:00:00.000Z',
+          chamberOnAt: '2025-06-12T07:00:00.000Z',
+          chamberOffAt: '2025-06-12T07:02:00.000Z',
+          settleS: 20,
+          // 560 ppm at the start is 145 ppm above the day's 415 ppm: more than the 100 ppm margin.
+          series: { tS, co2Ppm: tS.map((t) => 560 + 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20) },
+        }),
+      );
     });
     await until(() => text('[data-testid="spot-flux"]'), 'the flux');
     // By hand, ideal gas law F = p·V/(R·T·A)·dχ/dt (R = 8.314462618, CODATA 2018), V = 4000 + 150 cm³
@@ -215,42 +254,54 @@ describe('Closure panel', () => {
   it('when the page opens on a closure still running after a flagged one, then no redo is offered until the chamber goes off', async () => {
     const tS = [0, 10, 20, 30, 40, 50, 60, 70, 80, 90, 100];
     const { el, text, loader } = await render(async (d) => {
-      await d
-        .records('analyzerCheck')
-        .put(deviceRecord('analyzerCheck', { id: 'amb', rev: 1, siteId: SITE, analyzerId: ANALYZER, kind: 'ambient', at: '2025-06-12T06:30:00.000Z', co2Ppm: 415 }));
-      await d.records('closure').put(deviceRecord('closure', {
-        id: FIRST,
-        rev: 1,
-        siteId: SITE,
-        visitId: VISIT,
-        collarId: COLLAR,
-        campaignId: CAMPAIGN,
-        profileId: PROFILE,
-        analyzerId: ANALYZER,
-        startedAt: '2025-06-12T07:00:00.000Z',
-        chamberOnAt: '2025-06-12T07:00:00.000Z',
-        chamberOffAt: '2025-06-12T07:02:00.000Z',
-        settleS: 20,
-        // A fall of CO2 with the chamber on: the flag advice asks for a seal check and a redo.
-        series: { tS, co2Ppm: tS.map((t) => 430 - 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20) },
-      }));
+      await d.records('analyzerCheck').put(
+        deviceRecord('analyzerCheck', {
+          id: 'amb',
+          rev: 1,
+          siteId: SITE,
+          analyzerId: ANALYZER,
+          kind: 'ambient',
+          at: '2025-06-12T06:30:00.000Z',
+          co2Ppm: 415,
+        }),
+      );
+      await d.records('closure').put(
+        deviceRecord('closure', {
+          id: FIRST,
+          rev: 1,
+          siteId: SITE,
+          visitId: VISIT,
+          collarId: COLLAR,
+          campaignId: CAMPAIGN,
+          profileId: PROFILE,
+          analyzerId: ANALYZER,
+          startedAt: '2025-06-12T07:00:00.000Z',
+          chamberOnAt: '2025-06-12T07:00:00.000Z',
+          chamberOffAt: '2025-06-12T07:02:00.000Z',
+          settleS: 20,
+          // A fall of CO2 with the chamber on: the flag advice asks for a seal check and a redo.
+          series: { tS, co2Ppm: tS.map((t) => 430 - 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20) },
+        }),
+      );
       const on = new Date(Date.now() - 30_000).toISOString();
-      await d.records('closure').put(deviceRecord('closure', {
-        id: 'running',
-        rev: 1,
-        siteId: SITE,
-        visitId: VISIT,
-        collarId: COLLAR,
-        campaignId: CAMPAIGN,
-        profileId: PROFILE,
-        analyzerId: ANALYZER,
-        startedAt: on,
-        chamberOnAt: on,
-        chamberOffAt: null,
-        settleS: 20,
-        redoOfId: null,
-        series: { tS: [], co2Ppm: [], h2oMmolMol: null, pressureKpa: null, tempC: null },
-      }));
+      await d.records('closure').put(
+        deviceRecord('closure', {
+          id: 'running',
+          rev: 1,
+          siteId: SITE,
+          visitId: VISIT,
+          collarId: COLLAR,
+          campaignId: CAMPAIGN,
+          profileId: PROFILE,
+          analyzerId: ANALYZER,
+          startedAt: on,
+          chamberOnAt: on,
+          chamberOffAt: null,
+          settleS: 20,
+          redoOfId: null,
+          series: { tS: [], co2Ppm: [], h2oMmolMol: null, pressureKpa: null, tempC: null },
+        }),
+      );
     });
     await until(() => text('[data-testid="spot-flux"]'), "the first closure's flux");
     await until(() => loader.getHarnessOrNull(MatButtonHarness.with({ text: 'Chamber off' })), 'the running closure');
@@ -270,26 +321,30 @@ describe('Closure panel', () => {
     const TALL = '99999999-9999-4999-8999-999999999999';
     const TALL_NEW = '99999999-9999-4999-8999-99999999999a';
     const { db, loader } = await render(async (d) => {
-      await d.records('chamberProfile').put(deviceRecord('chamberProfile', {
-        id: TALL,
-        rev: 1,
-        siteId: SITE,
-        name: 'Tall',
-        validFrom: '2025-01-01',
-        chamberVolumeCm3: 6000,
-        loopVolumeCm3: 150,
-        settleS: 30,
-      }));
-      await d.records('chamberProfile').put(deviceRecord('chamberProfile', {
-        id: TALL_NEW,
-        rev: 1,
-        siteId: SITE,
-        name: 'Tall',
-        validFrom: '2025-03-01',
-        chamberVolumeCm3: 6000,
-        loopVolumeCm3: 210,
-        settleS: 35,
-      }));
+      await d.records('chamberProfile').put(
+        deviceRecord('chamberProfile', {
+          id: TALL,
+          rev: 1,
+          siteId: SITE,
+          name: 'Tall',
+          validFrom: '2025-01-01',
+          chamberVolumeCm3: 6000,
+          loopVolumeCm3: 150,
+          settleS: 30,
+        }),
+      );
+      await d.records('chamberProfile').put(
+        deviceRecord('chamberProfile', {
+          id: TALL_NEW,
+          rev: 1,
+          siteId: SITE,
+          name: 'Tall',
+          validFrom: '2025-03-01',
+          chamberVolumeCm3: 6000,
+          loopVolumeCm3: 210,
+          settleS: 35,
+        }),
+      );
       TestBed.inject(WalkContext).update({ profileId: TALL });
     });
     await (await loader.getHarness(MatButtonHarness.with({ text: 'Chamber on' }))).click();
@@ -322,21 +377,23 @@ describe('Closure panel', () => {
   it('when a closure was stored without an analyzer, then its card says so instead of "no flags"', async () => {
     const tS = [0, 10, 20, 30, 40, 50, 60, 70, 80, 90, 100];
     const { text } = await render(async (d) => {
-      await d.records('closure').put(deviceRecord('closure', {
-        id: FIRST,
-        rev: 1,
-        siteId: SITE,
-        visitId: VISIT,
-        collarId: COLLAR,
-        campaignId: CAMPAIGN,
-        profileId: PROFILE,
-        analyzerId: null,
-        startedAt: '2025-06-12T07:00:00.000Z',
-        chamberOnAt: '2025-06-12T07:00:00.000Z',
-        chamberOffAt: '2025-06-12T07:02:00.000Z',
-        settleS: 20,
-        series: { tS, co2Ppm: tS.map((t) => 420 + 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20) },
-      }));
+      await d.records('closure').put(
+        deviceRecord('closure', {
+          id: FIRST,
+          rev: 1,
+          siteId: SITE,
+          visitId: VISIT,
+          collarId: COLLAR,
+          campaignId: CAMPAIGN,
+          profileId: PROFILE,
+          analyzerId: null,
+          startedAt: '2025-06-12T07:00:00.000Z',
+          chamberOnAt: '2025-06-12T07:00:00.000Z',
+          chamberOffAt: '2025-06-12T07:02:00.000Z',
+          settleS: 20,
+          series: { tS, co2Ppm: tS.map((t) => 420 + 0.5 * t), h2oMmolMol: null, pressureKpa: tS.map(() => 96), tempC: tS.map(() => 20) },
+        }),
+      );
     });
     await until(() => text('[data-testid="no-analyzer"]'), 'the warning');
     expect(text('[data-testid="no-analyzer"]')).toContain('No analyzer named for this closure');

@@ -91,8 +91,12 @@ export class ClosurePanel {
   private async target(): Promise<ClosureTarget> {
     const visitId =
       this.visit()?.id ??
-      (await this.visits.ensureVisit({ siteId: this.siteId(), campaignId: this.campaignId(), round: this.round(), collarId: this.collarId() }, null))
-        .id;
+      (
+        await this.visits.ensureVisit(
+          { siteId: this.siteId(), campaignId: this.campaignId(), round: this.round(), collarId: this.collarId() },
+          null,
+        )
+      ).id;
     return {
       siteId: this.siteId(),
       campaignId: this.campaignId(),

@@ -71,7 +71,11 @@ export async function loadScene(db: FluxDb, p: SceneParams): Promise<ClosureScen
   const superseded = new Set(sets.map((s) => s.supersedesId).filter(Boolean));
   const here = closures.filter((c) => p.visitId !== null && c.visitId === p.visitId).sort((a, b) => startOf(a).localeCompare(startOf(b)));
   const previous = closures
-    .flatMap((c) => (c.visitId !== p.visitId && typeof c.fluxUmolM2S === 'number' ? [{ id: c.id, startedAt: c.startedAt, fluxUmolM2S: c.fluxUmolM2S }] : []))
+    .flatMap((c) =>
+      c.visitId !== p.visitId && typeof c.fluxUmolM2S === 'number'
+        ? [{ id: c.id, startedAt: c.startedAt, fluxUmolM2S: c.fluxUmolM2S }]
+        : [],
+    )
     .sort((a, b) => b.startedAt.localeCompare(a.startedAt))
     .slice(0, 6);
   return {

@@ -79,6 +79,7 @@ export class ClosureTimer {
   constructor() {
     const tick = setInterval(() => this.now.set(Date.now()), 250);
     inject(DestroyRef).onDestroy(() => clearInterval(tick));
+    // Drives the device (vibration, tone) and the clock at the end of a closure: no data is loaded here.
     effect(() => {
       const on = this.onAt();
       const done = this.done();

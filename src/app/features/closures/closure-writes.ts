@@ -41,7 +41,14 @@ export class ClosureWrites {
     at: string,
   ): LocalRecord<'chamberProfile'> | null {
     const day = localDay(at, site?.timezone ?? 'UTC');
-    const named = profiles.map((p) => ({ id: p.id, name: p.name, validFrom: p.validFrom, chamberVolumeCm3: 0, loopVolumeCm3: 0, areaCm2: 0 }));
+    const named = profiles.map((p) => ({
+      id: p.id,
+      name: p.name,
+      validFrom: p.validFrom,
+      chamberVolumeCm3: 0,
+      loopVolumeCm3: 0,
+      areaCm2: 0,
+    }));
     const chosen = profileForClosure(named, t.profileId, day, site?.defaultProfileId ?? null);
     return chosen.ok ? (profiles.find((p) => p.id === chosen.profile.id) ?? null) : null;
   }

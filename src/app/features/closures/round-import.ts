@@ -86,9 +86,7 @@ export class RoundImport {
   /** Taps of the round no piece went to: the crew sees which collars the file does not cover. */
   protected readonly tapsWithout = computed(() => {
     const used = new Set(Object.values(this.assignments()).flatMap((a) => (a.kind === 'closure' ? [a.closureId] : [])));
-    return this.visits().flatMap((v) =>
-      v.waiting.filter((c) => !used.has(c.id)).map((c) => ({ code: v.collarCode, at: c.chamberOnAt })),
-    );
+    return this.visits().flatMap((v) => v.waiting.filter((c) => !used.has(c.id)).map((c) => ({ code: v.collarCode, at: c.chamberOnAt })));
   });
   protected readonly toWrite = computed(() => Object.values(this.assignments()).filter((a) => a.kind !== 'none').length);
   protected readonly collars = computed(

@@ -27,6 +27,7 @@ export class SpotChart implements OnDestroy {
   private chart: uPlot | null = null;
 
   constructor() {
+    // Draws the canvas chart (uPlot, not a template) whenever its input changes.
     effect(() => this.draw(this.data()));
   }
 
