@@ -19,6 +19,7 @@ export class App {
 
   constructor() {
     // Offered on every screen, sign-in included; the reload happens only on the user's word.
+    // An effect because it drives the snack bar (a non-signal API), not to load data.
     effect(() => {
       if (!this.update.updateReady()) return;
       this.snackBar

@@ -1,3 +1,4 @@
+import { z } from 'zod';
 import { LEAD_INVITES, ROLES, type Role, type SessionUser } from '../../../../shared/auth/roles';
 
 /** The signed-in user as the server describes it (`/api/auth/login`, `/api/auth/me`): one type, from shared/. */
@@ -35,11 +36,18 @@ export function parseSessionUser(v: unknown): SessionUser | null {
   };
 }
 
+/** A site as the session lists it; a site without a zone (an older copy in device storage) counts as UTC. */
+const siteSummary = z.object({
+  id: z.union([z.string(), z.number()]).transform(String),
+  name: z.string(),
+  timezone: z.string().catch('UTC'),
+});
+
+/** The sites of a session off the wire or out of device storage; an entry that is not a site is left out. */
 export function parseSites(v: unknown): SiteSummary[] {
   if (!Array.isArray(v)) return [];
-  return v.flatMap((s) =>
-    isRecord(s) && (typeof s['id'] === 'string' || typeof s['id'] === 'number') && typeof s['name'] === 'string'
-      ? [{ id: String(s['id']), name: s['name'], timezone: typeof s['timezone'] === 'string' ? s['timezone'] : 'UTC' }]
-      : [],
-  );
+  return v.flatMap((s) => {
+    const site = siteSummary.safeParse(s);
+    return site.success ? [site.data] : [];
+  });
 }

@@ -34,6 +34,8 @@ export class DeviceDb {
   readonly deviceId = this.device.asReadonly();
 
   constructor() {
+    // Opens and closes the user's IndexedDB connection as the session changes (a connection's
+    // lifetime, not a data load: screens read through live queries on it).
     effect(() => {
       const id = this.auth.user()?.id ?? null;
       untracked(() => this.switchTo(id));

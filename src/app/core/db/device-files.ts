@@ -20,7 +20,12 @@ export async function sha256Hex(blob: Blob): Promise<string> {
  * keep. Hashing is asynchronous work outside IndexedDB, so it is done before any transaction opens
  * (a Dexie transaction commits as soon as it waits on something else).
  */
-export async function attachmentFor(owner: FileOwner, blob: Blob, fileName: string, mediaType: string): Promise<EntityFields<'attachment'>> {
+export async function attachmentFor(
+  owner: FileOwner,
+  blob: Blob,
+  fileName: string,
+  mediaType: string,
+): Promise<EntityFields<'attachment'>> {
   return validated('attachment', { ...owner, fileName, mediaType, sizeBytes: blob.size, sha256: await sha256Hex(blob) });
 }
 

@@ -28,6 +28,7 @@ export class KeptScreens extends BaseRouteReuseStrategy {
   constructor() {
     super();
     // Signed out, or another user: the kept screen ends at once (its device queries read that user's data).
+    // An effect because it drives the router's kept view (not a data load).
     effect(() => {
       const id = this.auth.user()?.id ?? null;
       if (this.kept && this.kept.userId !== id) this.drop();

@@ -1,8 +1,9 @@
-import type { FluxDb, LocalRecord } from '../db/db-schema';
+import type { StoredRecord } from '../../../../shared/model/stored-record';
+import type { FluxDb } from '../db/db-schema';
 import { overlay } from '../db/record-values';
 
 /** Sends one attachment's bytes; resolves with the server's record (which then has objectKey). */
-export type PutContent = (id: string, mediaType: string, blob: Blob) => Promise<Record<string, unknown>>;
+export type PutContent = (id: string, mediaType: string, blob: Blob) => Promise<StoredRecord<'attachment'>>;
 
 export interface UploadTally {
   uploaded: number;
@@ -28,8 +29,8 @@ export async function uploadPendingBlobs(db: FluxDb, put: PutContent, now: () =>
       continue;
     }
     // Already stored (the answer was lost after the server kept the bytes, and a pull told us).
-    let server: Record<string, unknown> | null = null;
-    if (typeof rec['objectKey'] !== 'string') {
+    let server: StoredRecord<'attachment'> | null = null;
+    if (typeof rec.objectKey !== 'string') {
       try {
         server = await put(id, row.mediaType, row.blob);
       } catch (err) {
@@ -41,9 +42,9 @@ export async function uploadPendingBlobs(db: FluxDb, put: PutContent, now: () =>
       if (server) {
         const current = await db.records('attachment').get(id);
         // Keep a newer copy (a pull may have brought it) and lay any queued edit over the answer.
-        if (!current || current.rev <= Number(server['rev'])) {
+        if (!current || current.rev <= server.rev) {
           const ops = await db.outbox.where('[entity+id]').equals(['attachment', id]).sortBy('seq');
-          const shown = overlay({ ...server, id, rev: Number(server['rev']) } as LocalRecord, ops);
+          const shown = overlay({ ...server, id }, ops);
           if (shown) await db.anyRecords('attachment').put(shown);
         }
       }

@@ -24,9 +24,15 @@ export function entityName(entity: SyncEntityName): string {
   return NAMES[entity] ?? entity;
 }
 
-/** "Collar C-07" when the record has a code or name, else the kind and a short id. */
+/** The fields that name a record, in order, across entities (collar code, site name, file name…). */
+const LABEL_FIELDS = ['code', 'name', 'fileName'] as const;
+
+/**
+ * "Collar C-07" when the record has a code or name, else the kind and a short id. The entity is
+ * named at run time (an outbox op, a conflict), so the record is the untyped bag.
+ */
 export function recordLabel(entity: SyncEntityName, id: string, rec: LocalRecord | undefined | null): string {
-  const tag = rec?.['code'] ?? rec?.['name'] ?? rec?.['fileName'];
+  const tag = LABEL_FIELDS.map((f) => rec?.[f]).find((v) => v !== undefined && v !== null);
   return `${entityName(entity)} ${typeof tag === 'string' && tag ? tag : id.slice(0, 8)}`;
 }
 

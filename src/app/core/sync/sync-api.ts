@@ -1,4 +1,5 @@
 import { HttpClient, HttpErrorResponse } from '@angular/common/http';
+import type { StoredRecord } from '../../../../shared/model/stored-record';
 import { Injectable, inject } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
 import type { PullAnswer, PushResult, SyncOp } from '../../../../shared/sync/sync-wire';
@@ -47,10 +48,10 @@ export class SyncApi {
   }
 
   /** The bytes of an attachment whose record has synced; answers the server's record (with objectKey). */
-  async putAttachment(id: string, mediaType: string, blob: Blob): Promise<Record<string, unknown>> {
+  async putAttachment(id: string, mediaType: string, blob: Blob): Promise<StoredRecord<'attachment'>> {
     try {
       const res = await firstValueFrom(
-        this.http.put<{ record: Record<string, unknown> }>(`/api/attachments/${encodeURIComponent(id)}/content`, blob, {
+        this.http.put<{ record: StoredRecord<'attachment'> }>(`/api/attachments/${encodeURIComponent(id)}/content`, blob, {
           headers: { 'Content-Type': mediaType },
         }),
       );

@@ -101,7 +101,8 @@ export class SyncEngine {
   );
 
   constructor() {
-    // The update prompt must not reload over unsent work without saying so.
+    // Effects that push state into other APIs, not loads. The update prompt must not reload over
+    // unsent work without saying so.
     effect(() => this.pendingWork.report(this.pending()));
     // Ask for persistent storage once someone is signed in (browsers may evict otherwise).
     effect(() => {

@@ -150,7 +150,7 @@ export class SyncSheet {
       const records = await db.records('attachment').bulkGet(rows.map((r) => r.attachmentId));
       return rows.map((r, i): FileRow => ({
         key: r.attachmentId,
-        name: String(records[i]?.['fileName'] || r.attachmentId),
+        name: records[i]?.fileName || r.attachmentId,
         size: r.blob.size,
         uploadedAt: r.uploadedAt,
         attempts: r.attempts ?? 0,

@@ -12,6 +12,7 @@ export class OutdoorMode {
   readonly enabled = this.state.asReadonly();
 
   constructor() {
+    // Drives the page's root class (the DOM outside any template).
     effect(() => this.document.documentElement.classList.toggle('fw-outdoor', this.state()));
   }
 
