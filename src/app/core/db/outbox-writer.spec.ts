@@ -1,5 +1,7 @@
+import Dexie from 'dexie';
 import { createRecord, deleteRecord, saveEdit } from './outbox-writer';
-import { collar, testDb } from './testing/test-db';
+import { collar, PLOT, SITE, testDb } from './testing/test-db';
+import { validated } from './validated';
 
 const ID = 'aaaaaaaa-aaaa-4aaa-8aaa-aaaaaaaaaaaa';
 
@@ -28,7 +30,7 @@ describe('local writes and the outbox', () => {
     const db = testDb();
     await db.records('collar').put(collar(ID, 3, { notes: 'old' }));
     const realAdd = db.outbox.add.bind(db.outbox);
-    db.outbox.add = () => Promise.reject(new Error('disk full'));
+    db.outbox.add = () => Dexie.Promise.reject(new Error('disk full'));
 
     await expect(saveEdit(db, 'collar', ID, { notes: 'lost?' })).rejects.toThrow('disk full');
 
@@ -75,12 +77,7 @@ describe('local writes and the outbox', () => {
 
   it('when a record created here is deleted before it was sent, then both the record and its create disappear', async () => {
     const db = testDb();
-    const rec = await createRecord(db, 'collar', {
-      siteId: collar(ID, 0)['siteId'],
-      code: 'NEW',
-      plotId: collar(ID, 0)['plotId'],
-      diameterCm: 20,
-    });
+    const rec = await createRecord(db, 'collar', validated('collar', { siteId: SITE, code: 'NEW', plotId: PLOT, diameterCm: 20 }));
     await saveEdit(db, 'collar', rec.id, { notes: 'typo' });
     expect(await db.outbox.count()).toBe(1); // the edit merged into the create
 

@@ -2,7 +2,8 @@ import type { PullAnswer } from '../../../../shared/sync/sync-wire';
 import { createRecord, saveEdit } from './outbox-writer';
 import { applyPullPage, readCursor, resetForRedownload } from './pull-apply';
 import { applyPushResults, takeBatch } from './push-apply';
-import { collar, testDb } from './testing/test-db';
+import { collar, PLOT, SITE, testDb } from './testing/test-db';
+import { validated } from './validated';
 
 const A = 'aaaaaaaa-aaaa-4aaa-8aaa-aaaaaaaaaaaa';
 const B = 'bbbbbbbb-bbbb-4bbb-8bbb-bbbbbbbbbbbb';
@@ -62,12 +63,7 @@ describe('applying pull pages', () => {
     const db = testDb();
     await db.records('collar').bulkPut([collar(A, 2), collar(B, 1)]);
     await saveEdit(db, 'collar', A, { notes: 'unsent edit' });
-    const made = await createRecord(db, 'collar', {
-      siteId: collar(A, 0)['siteId'],
-      code: 'NEW',
-      plotId: collar(A, 0)['plotId'],
-      diameterCm: 20,
-    });
+    const made = await createRecord(db, 'collar', validated('collar', { siteId: SITE, code: 'NEW', plotId: PLOT, diameterCm: 20 }));
     await db.meta.put({ key: 'pullCursor', value: 40 });
 
     await resetForRedownload(db);

@@ -5,6 +5,7 @@ import { TestBed } from '@angular/core/testing';
 import type { FluxDb, LocalRecord } from '../db/db-schema';
 import { DeviceDb } from '../db/device-db';
 import { createRecord } from '../db/outbox-writer';
+import { validated } from '../db/validated';
 import { SITE, testDb } from '../db/testing/test-db';
 import { uploadPendingBlobs } from './attachment-upload';
 import { SyncFailed } from './sync-api';
@@ -12,7 +13,7 @@ import { SyncEngine } from './sync-engine';
 import { until } from '../db/testing/until';
 
 const SHA = 'a'.repeat(64);
-const fields = {
+const fields = validated('attachment', {
   siteId: SITE,
   ownerEntity: 'closure',
   ownerId: '33333333-3333-4333-8333-333333333333',
@@ -20,7 +21,9 @@ const fields = {
   mediaType: 'text/csv',
   sizeBytes: 5,
   sha256: SHA,
-};
+});
+/** The meta the server answers with beside the record's fields. */
+const SERVER_META = { updatedAt: '2025-06-12T07:30:00.000Z', updatedBy: null, deleted: false };
 // jsdom's Blob does not survive fake-indexeddb's structured clone, so the tests keep a stand-in
 // value in the blob column; the upload passes it through untouched, which is what is checked.
 const BYTES = 'bytes-of-day.csv' as unknown as Blob;
@@ -47,7 +50,13 @@ describe('uploadPendingBlobs', () => {
   it('when the record is on the server, then the bytes are PUT with its media type and the answer (with objectKey) is kept', async () => {
     const db = testDb();
     const id = await keep(db, 1);
-    const put = jest.fn(async (aid: string) => ({ ...fields, id: aid, rev: 2, objectKey: `sites/${SITE}/attachments/${aid}` }));
+    const put = jest.fn(async (aid: string) => ({
+      ...fields,
+      ...SERVER_META,
+      id: aid,
+      rev: 2,
+      objectKey: `sites/${SITE}/attachments/${aid}`,
+    }));
     const tally = await uploadPendingBlobs(db, put, () => new Date('2025-06-12T08:00:00Z'));
     expect(tally).toEqual({ uploaded: 1, waiting: 0 });
     expect(put).toHaveBeenCalledWith(id, 'text/csv', BYTES);
@@ -63,7 +72,7 @@ describe('uploadPendingBlobs', () => {
     });
     await expect(uploadPendingBlobs(db, failing)).rejects.toThrow('File storage is not configured');
     expect(await db.blobs.get(id)).toMatchObject({ uploadedAt: null, attempts: 1, lastError: 'File storage is not configured' });
-    const ok = jest.fn(async () => ({ ...fields, id, rev: 2, objectKey: 'k' }));
+    const ok = jest.fn(async () => ({ ...fields, ...SERVER_META, id, rev: 2, objectKey: 'k' }));
     expect(await uploadPendingBlobs(db, ok)).toEqual({ uploaded: 1, waiting: 0 });
     expect(ok).toHaveBeenCalledTimes(1);
   });

@@ -1,5 +1,6 @@
 import { TestBed } from '@angular/core/testing';
 import { signedInDevice, TEST_SITE } from '../db/testing/signed-in-device';
+import { validated } from '../db/validated';
 import { LocalWrites } from './local-writes';
 
 const ANALYZER = '55555555-5555-4555-8555-555555555555';
@@ -8,7 +9,7 @@ const CSV = 'time_s,co2_ppm\n0,420\n20,420\n30,420.2\n';
 describe('LocalWrites.createWithFile', () => {
   afterEach(() => localStorage.clear());
 
-  const check = {
+  const check = validated('analyzerCheck', {
     siteId: TEST_SITE,
     analyzerId: ANALYZER,
     kind: 'leak',
@@ -16,7 +17,7 @@ describe('LocalWrites.createWithFile', () => {
     slopeUmolMolS: 0.02,
     passed: true,
     note: '',
-  };
+  });
 
   it('when a check is saved with its file, then the check, an attachment owned by it and the bytes are kept, each queued once', async () => {
     const { db } = await signedInDevice();

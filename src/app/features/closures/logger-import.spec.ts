@@ -21,6 +21,7 @@ import type { FluxDb } from '../../core/db/db-schema';
 import { DeviceDb } from '../../core/db/device-db';
 import { LoggerImport, type LoggerImportData } from './logger-import';
 import { until } from '../../core/db/testing/until';
+import { deviceRecord } from '../../core/db/testing/test-db';
 
 const SITE = '11111111-1111-4111-8111-111111111111';
 const CAMPAIGN = '44444444-4444-4444-8444-444444444444';
@@ -49,7 +50,7 @@ async function render() {
     ],
   });
   const db: FluxDb = await until(() => TestBed.inject(DeviceDb).db(), 'the database');
-  await db.records('site').put({ id: SITE, rev: 1, name: 'Test site', timezone: 'Europe/Berlin' });
+  await db.records('site').put(deviceRecord('site', { id: SITE, rev: 1, name: 'Test site', timezone: 'Europe/Berlin', elevationM: null }));
   const fixture = TestBed.createComponent(LoggerImport);
   const el = fixture.nativeElement as HTMLElement;
   const text = (sel: string) => el.querySelector(sel)?.textContent?.replace(/\s+/g, ' ').trim() ?? '';

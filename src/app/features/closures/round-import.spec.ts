@@ -17,6 +17,7 @@ import { guessLayout, suggestMapping, type LoggerMapping } from '../../../../sha
 import type { FluxDb, LocalRecord } from '../../core/db/db-schema';
 import { DeviceDb } from '../../core/db/device-db';
 import { until } from '../../core/db/testing/until';
+import { deviceRecord } from '../../core/db/testing/test-db';
 import { WalkContext } from '../field-day/walk-context';
 import { RoundImport } from './round-import';
 
@@ -36,9 +37,9 @@ const TAPS: [keyof typeof COLLARS, string][] = [
 ];
 let userNo = 0;
 
-function closure(i: number, collar: keyof typeof COLLARS, hhmm: string, closed: boolean): LocalRecord {
+function closure(i: number, collar: keyof typeof COLLARS, hhmm: string, closed: boolean): LocalRecord<'closure'> {
   const on = `2026-12-03T${hhmm}:00.000Z`;
-  return {
+  return deviceRecord('closure', {
     id: `99999999-9999-4999-8999-99999999999${i}`,
     rev: 1,
     siteId: SITE,
@@ -53,7 +54,7 @@ function closure(i: number, collar: keyof typeof COLLARS, hhmm: string, closed: 
     settleS: 20,
     redoOfId: null,
     series: { tS: [], co2Ppm: [], h2oMmolMol: null, pressureKpa: null, tempC: null },
-  };
+  });
 }
 
 /** The round on the device: two visits, the taps (the last two left open when `openTaps`), and the walk's choice. */
@@ -68,19 +69,48 @@ async function render(opts: { openTaps?: boolean } = {}) {
   );
   TestBed.configureTestingModule({ providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([])] });
   const db: FluxDb = await until(() => TestBed.inject(DeviceDb).db(), 'the database');
-  await db.records('site').put({ id: SITE, rev: 1, name: 'Test site', timezone: 'Europe/Berlin', elevationM: 420 });
-  await db.records('campaign').put({ id: CAMPAIGN, rev: 1, siteId: SITE, name: 'Dec', rounds: 2, routes: [], dueClosures: 2 });
+  await db.records('site').put(deviceRecord('site', { id: SITE, rev: 1, name: 'Test site', timezone: 'Europe/Berlin', elevationM: 420 }));
+  await db
+    .records('campaign')
+    .put(
+      deviceRecord('campaign', {
+        id: CAMPAIGN,
+        rev: 1,
+        siteId: SITE,
+        name: 'Dec',
+        startsOn: '2026-12-01',
+        endsOn: '2026-12-31',
+        rounds: 2,
+        routes: [],
+        dueClosures: 2,
+      }),
+    );
   for (const k of ['A', 'B'] as const) {
-    await db.records('collar').put({ id: COLLARS[k], rev: 1, siteId: SITE, code: k, shape: 'round', diameterCm: 20, status: 'active' });
-    await db.records('visit').put({
-      id: VISITS[k],
-      rev: 1,
-      siteId: SITE,
-      campaignId: CAMPAIGN,
-      round: 1,
-      collarId: COLLARS[k],
-      arrivedAt: k === 'A' ? '2026-12-03T08:38:00.000Z' : '2026-12-03T08:52:00.000Z',
-    });
+    await db
+      .records('collar')
+      .put(
+        deviceRecord('collar', {
+          id: COLLARS[k],
+          rev: 1,
+          siteId: SITE,
+          code: k,
+          plotId: SITE,
+          shape: 'round',
+          diameterCm: 20,
+          status: 'active',
+        }),
+      );
+    await db.records('visit').put(
+      deviceRecord('visit', {
+        id: VISITS[k],
+        rev: 1,
+        siteId: SITE,
+        campaignId: CAMPAIGN,
+        round: 1,
+        collarId: COLLARS[k],
+        arrivedAt: k === 'A' ? '2026-12-03T08:38:00.000Z' : '2026-12-03T08:52:00.000Z',
+      }),
+    );
   }
   for (const [i, [k, hhmm]] of TAPS.entries()) await db.records('closure').put(closure(i, k, hhmm, !(opts.openTaps && k === 'B')));
   TestBed.inject(WalkContext).update({ campaignId: CAMPAIGN, round: 1, analyzerId: ANALYZER });

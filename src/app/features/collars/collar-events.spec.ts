@@ -10,6 +10,7 @@ import type { FluxDb } from '../../core/db/db-schema';
 import { DeviceDb } from '../../core/db/device-db';
 import { CollarEvents } from './collar-events';
 import { until } from '../../core/db/testing/until';
+import { deviceRecord } from '../../core/db/testing/test-db';
 import { zoneAwayFromDevice } from '../../core/db/testing/signed-in-device';
 import { siteToday } from '../../../../shared/time/site-time';
 
@@ -32,17 +33,38 @@ async function render(timezone?: string) {
   );
   TestBed.configureTestingModule({ providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting()] });
   const db: FluxDb = await until(() => TestBed.inject(DeviceDb).db(), 'the database');
-  await db.records('collar').bulkPut([
-    { id: COLLAR, rev: 1, siteId: SITE, code: 'W-2' },
-    { id: COLLAR_10, rev: 1, siteId: SITE, code: 'W-10' },
-    { id: NEW_COLLAR, rev: 1, siteId: SITE, code: 'W-9' },
-    { id: ELSEWHERE, rev: 1, siteId: OTHER_SITE, code: 'X-1' },
-  ]);
-  await db.records('collarEvent').bulkPut([
-    { id: 'e1', rev: 1, siteId: SITE, collarId: COLLAR, kind: 'installed', date: '2026-03-02', note: '' },
-    { id: 'e2', rev: 1, siteId: SITE, collarId: COLLAR, kind: 'clipped', date: '2026-06-10', note: 'Grass cut to 2 cm' },
-    { id: 'e3', rev: 1, siteId: SITE, collarId: COLLAR, kind: 'damaged', date: '2026-05-01', note: 'gone', deleted: true },
-  ]);
+  await db
+    .records('collar')
+    .bulkPut([
+      deviceRecord('collar', { id: COLLAR, rev: 1, siteId: SITE, code: 'W-2', plotId: SITE, diameterCm: 20 }),
+      deviceRecord('collar', { id: COLLAR_10, rev: 1, siteId: SITE, code: 'W-10', plotId: SITE, diameterCm: 20 }),
+      deviceRecord('collar', { id: NEW_COLLAR, rev: 1, siteId: SITE, code: 'W-9', plotId: SITE, diameterCm: 20 }),
+      deviceRecord('collar', { id: ELSEWHERE, rev: 1, siteId: OTHER_SITE, code: 'X-1', plotId: OTHER_SITE, diameterCm: 20 }),
+    ]);
+  await db
+    .records('collarEvent')
+    .bulkPut([
+      deviceRecord('collarEvent', { id: 'e1', rev: 1, siteId: SITE, collarId: COLLAR, kind: 'installed', date: '2026-03-02', note: '' }),
+      deviceRecord('collarEvent', {
+        id: 'e2',
+        rev: 1,
+        siteId: SITE,
+        collarId: COLLAR,
+        kind: 'clipped',
+        date: '2026-06-10',
+        note: 'Grass cut to 2 cm',
+      }),
+      deviceRecord('collarEvent', {
+        id: 'e3',
+        rev: 1,
+        siteId: SITE,
+        collarId: COLLAR,
+        kind: 'damaged',
+        date: '2026-05-01',
+        note: 'gone',
+        deleted: true,
+      }),
+    ]);
   const fixture = TestBed.createComponent(CollarEvents);
   fixture.componentRef.setInput('collarId', COLLAR);
   fixture.componentRef.setInput('siteId', SITE);

@@ -13,20 +13,10 @@ export function testDb(): FluxDb {
 export const SITE = '11111111-1111-4111-8111-111111111111';
 export const PLOT = '22222222-2222-4222-8222-222222222222';
 
-export function collar(id: string, rev: number, extra: Partial<LocalRecord> = {}): LocalRecord {
+/** A whole collar as a pull leaves it (round, 20 cm), its fields changed by `extra`. */
+export function collar(id: string, rev: number, extra: Partial<LocalRecord<'collar'>> = {}): LocalRecord<'collar'> {
   return {
-    id,
-    rev,
-    siteId: SITE,
-    code: 'C-01',
-    plotId: PLOT,
-    treatmentId: null,
-    notes: '',
-    status: 'active',
-    statusReason: null,
-    shape: 'round',
-    diameterCm: 20,
-    deleted: false,
+    ...deviceRecord('collar', { id, rev, siteId: SITE, code: 'C-01', plotId: PLOT, shape: 'round', diameterCm: 20 }),
     updatedAt: '2025-01-01T00:00:00.000Z',
     updatedBy: null,
     ...extra,
