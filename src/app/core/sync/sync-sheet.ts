@@ -20,6 +20,14 @@ interface FileRow {
   error: string | null;
 }
 
+/** An op the server refused, with what it would have changed. */
+interface RejectedRow {
+  key: string;
+  label: string;
+  message: string;
+  what: string;
+}
+
 interface PendingRow {
   key: string;
   label: string;
@@ -174,7 +182,7 @@ export class SyncSheet {
         what: r.op === 'delete' ? 'delete' : Object.keys(r.fields).map(fieldLabel).join(', '),
       }));
     },
-    [] as { key: string; label: string; message: string; what: string }[],
+    [] as RejectedRow[],
   );
 
   constructor() {

@@ -1,6 +1,14 @@
 import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, input } from '@angular/core';
 import { liveSignal } from '../../core/db/live-query-signal';
 
+/** A photo's attachment record as shown, with its bytes when they are on this device. */
+interface KeptPhoto {
+  id: string;
+  fileName: string;
+  sizeBytes: number;
+  blob: Blob | null;
+}
+
 /**
  * The collar's photos as kept on this device (their bytes wait in the blobs table until the
  * upload), with the attachment record's size and whether the record is synced.
@@ -37,7 +45,7 @@ export class CollarPhotos {
         blob: blobs[i]?.blob ?? null,
       }));
     },
-    [] as { id: string; fileName: string; sizeBytes: number; blob: Blob | null }[],
+    [] as KeptPhoto[],
   );
   protected readonly shown = computed(() =>
     this.rows().map((r) => {
