@@ -158,13 +158,11 @@ export class LoggerImport {
 
   constructor() {
     // A new time kind starts from its usual settings: seconds, or the first format in the site's zone.
-    this.mapForm.controls.timeKind.valueChanges
-      .pipe(takeUntilDestroyed())
-      .subscribe((kind) =>
-        this.mapForm.patchValue(kind === 'elapsed' ? { elapsedUnit: 's' } : { format: FIRST_TIMESTAMP_FORMAT, timeZone: this.timeZone }, {
-          emitEvent: false,
-        }),
-      );
+    this.mapForm.controls.timeKind.valueChanges.pipe(takeUntilDestroyed()).subscribe((kind) =>
+      this.mapForm.patchValue(kind === 'elapsed' ? { elapsedUnit: 's' } : { format: FIRST_TIMESTAMP_FORMAT, timeZone: this.timeZone }, {
+        emitEvent: false,
+      }),
+    );
     this.methodControl.valueChanges.pipe(takeUntilDestroyed()).subscribe((m) => this.changeMethod(m));
     this.offsetControl.valueChanges.pipe(takeUntilDestroyed()).subscribe((v) => this.changeOffset(v));
   }

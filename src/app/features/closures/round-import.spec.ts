@@ -70,36 +70,32 @@ async function render(opts: { openTaps?: boolean } = {}) {
   TestBed.configureTestingModule({ providers: [provideHttpClient(), provideHttpClientTesting(), provideRouter([])] });
   const db: FluxDb = await until(() => TestBed.inject(DeviceDb).db(), 'the database');
   await db.records('site').put(deviceRecord('site', { id: SITE, rev: 1, name: 'Test site', timezone: 'Europe/Berlin', elevationM: 420 }));
-  await db
-    .records('campaign')
-    .put(
-      deviceRecord('campaign', {
-        id: CAMPAIGN,
+  await db.records('campaign').put(
+    deviceRecord('campaign', {
+      id: CAMPAIGN,
+      rev: 1,
+      siteId: SITE,
+      name: 'Dec',
+      startsOn: '2026-12-01',
+      endsOn: '2026-12-31',
+      rounds: 2,
+      routes: [],
+      dueClosures: 2,
+    }),
+  );
+  for (const k of ['A', 'B'] as const) {
+    await db.records('collar').put(
+      deviceRecord('collar', {
+        id: COLLARS[k],
         rev: 1,
         siteId: SITE,
-        name: 'Dec',
-        startsOn: '2026-12-01',
-        endsOn: '2026-12-31',
-        rounds: 2,
-        routes: [],
-        dueClosures: 2,
+        code: k,
+        plotId: SITE,
+        shape: 'round',
+        diameterCm: 20,
+        status: 'active',
       }),
     );
-  for (const k of ['A', 'B'] as const) {
-    await db
-      .records('collar')
-      .put(
-        deviceRecord('collar', {
-          id: COLLARS[k],
-          rev: 1,
-          siteId: SITE,
-          code: k,
-          plotId: SITE,
-          shape: 'round',
-          diameterCm: 20,
-          status: 'active',
-        }),
-      );
     await db.records('visit').put(
       deviceRecord('visit', {
         id: VISITS[k],

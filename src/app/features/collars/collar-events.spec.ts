@@ -41,30 +41,28 @@ async function render(timezone?: string) {
       deviceRecord('collar', { id: NEW_COLLAR, rev: 1, siteId: SITE, code: 'W-9', plotId: SITE, diameterCm: 20 }),
       deviceRecord('collar', { id: ELSEWHERE, rev: 1, siteId: OTHER_SITE, code: 'X-1', plotId: OTHER_SITE, diameterCm: 20 }),
     ]);
-  await db
-    .records('collarEvent')
-    .bulkPut([
-      deviceRecord('collarEvent', { id: 'e1', rev: 1, siteId: SITE, collarId: COLLAR, kind: 'installed', date: '2026-03-02', note: '' }),
-      deviceRecord('collarEvent', {
-        id: 'e2',
-        rev: 1,
-        siteId: SITE,
-        collarId: COLLAR,
-        kind: 'clipped',
-        date: '2026-06-10',
-        note: 'Grass cut to 2 cm',
-      }),
-      deviceRecord('collarEvent', {
-        id: 'e3',
-        rev: 1,
-        siteId: SITE,
-        collarId: COLLAR,
-        kind: 'damaged',
-        date: '2026-05-01',
-        note: 'gone',
-        deleted: true,
-      }),
-    ]);
+  await db.records('collarEvent').bulkPut([
+    deviceRecord('collarEvent', { id: 'e1', rev: 1, siteId: SITE, collarId: COLLAR, kind: 'installed', date: '2026-03-02', note: '' }),
+    deviceRecord('collarEvent', {
+      id: 'e2',
+      rev: 1,
+      siteId: SITE,
+      collarId: COLLAR,
+      kind: 'clipped',
+      date: '2026-06-10',
+      note: 'Grass cut to 2 cm',
+    }),
+    deviceRecord('collarEvent', {
+      id: 'e3',
+      rev: 1,
+      siteId: SITE,
+      collarId: COLLAR,
+      kind: 'damaged',
+      date: '2026-05-01',
+      note: 'gone',
+      deleted: true,
+    }),
+  ]);
   const fixture = TestBed.createComponent(CollarEvents);
   fixture.componentRef.setInput('collarId', COLLAR);
   fixture.componentRef.setInput('siteId', SITE);
