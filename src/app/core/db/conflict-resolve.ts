@@ -25,7 +25,9 @@ export async function resolveConflict(db: FluxDb, c: ConflictRow, choice: Record
   return db.transaction('rw', [table, db.outbox, db.conflicts], async () => {
     await db.conflicts.delete(c.opId);
     const local = await table.get(c.recordId);
-    const theirs = c.theirs && !c.theirs['deleted'] ? ({ ...c.theirs, id: c.recordId, rev: c.serverRev } as LocalRecord) : null;
+    // The server's copy at its rev (an entity named at run time: the untyped bag); a tombstone is no copy.
+    const copy: LocalRecord | null = c.theirs ? { ...c.theirs, id: c.recordId, rev: c.serverRev } : null;
+    const theirs = copy && !copy.deleted ? copy : null;
     let server: LocalRecord | null = local ?? null;
     if (theirs && (!local || local.rev <= c.serverRev)) server = theirs;
     const pending = await unsentOp(db, c.entity, c.recordId);
