@@ -21,7 +21,7 @@ export async function readCursor(db: FluxDb): Promise<number> {
 
 /**
  * Writes one pull page and the new cursor in one transaction, so a crash never leaves the cursor
- * ahead of the records. Queued ops stay laid over the server's copy (the person keeps seeing
+ * ahead of the records. Each copy gets its schema's defaults for fields it lacks (pulled-record.ts). Queued ops stay laid over the server's copy (the person keeps seeing
  * their edit until the push answers), and a copy newer than the page (from a push answer) is kept.
  */
 export async function applyPullPage(db: FluxDb, answer: PullAnswer, opts: { fresh?: boolean } = {}): Promise<number> {
@@ -35,6 +35,8 @@ export async function applyPullPage(db: FluxDb, answer: PullAnswer, opts: { fres
   }
   // Only the tables this page touches: a narrower transaction is measurably cheaper on big pulls.
   const tables = [...byEntity.keys()].map((e) => db.anyRecords(e));
+  // Loaded before the transaction (an import inside it would let the transaction end); zod stays out of the first chunks.
+  const { pulledRecord } = await import('./pulled-record');
   let written = 0;
   await db.transaction('rw', [...tables, db.outbox, db.meta], async () => {
     const pending = (await db.outbox.count()) ? opsByRecord(await db.outbox.orderBy('seq').toArray()) : new Map<string, OutboxOp[]>();
@@ -48,8 +50,8 @@ export async function applyPullPage(db: FluxDb, answer: PullAnswer, opts: { fres
         const have = current[i];
         // Removals for lost access always apply; otherwise a newer copy (from a push answer) wins.
         if (have && have.rev > c.rev && c.reason !== 'access') return;
-        const ops = pending.get(`${entity}:${c.id}`) ?? [];
-        const server = c.deleted || !c.record ? null : ({ ...c.record, id: c.id, rev: c.rev } as LocalRecord);
+        const ops = pending.size ? (pending.get(`${entity}:${c.id}`) ?? []) : [];
+        const server = c.deleted || !c.record ? null : pulledRecord(entity, { ...c.record, id: c.id, rev: c.rev });
         const shown = c.reason === 'access' ? null : overlay(server, ops);
         if (shown) puts.push(shown);
         else if (have) deletes.push(c.id);
