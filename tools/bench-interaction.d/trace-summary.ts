@@ -23,6 +23,8 @@ interface TraceEvent {
   ph: string;
   ts: number;
   dur?: number;
+  /** The thread's own CPU time in the event (µs): what a loaded machine's waiting does not inflate. */
+  tdur?: number;
   pid: number;
   tid: number;
   args?: { name?: string };
@@ -113,13 +115,18 @@ export class StepTrace {
       open[kind] = e.ts + e.dur!;
     }
     const tasks = main.filter((e) => e.name === 'RunTask' || e.name === 'ThreadControllerImpl::RunTask');
-    const longest = tasks.reduce((m, e) => Math.max(m, e.dur! / 1000), 0);
+    const top = tasks.reduce<TraceEvent | null>((m, e) => (!m || e.dur! > m.dur! ? e : m), null);
+    const longest = (top?.dur ?? 0) / 1000;
+    // CPU throttling stretches the wall time of a task, not its thread time; the gap beyond 4x is waiting for a core.
+    const cpu = top?.tdur !== undefined ? `, ${(top.tdur / 1000).toFixed(0)} ms of it on the CPU` : '';
+    const busyCpu = tasks.reduce((a, e) => a + (e.tdur ?? 0), 0) / 1000;
     const kinds = Object.entries(byKind)
       .sort((a, b) => b[1] - a[1])
       .map(([k, ms]) => `${k} ${ms.toFixed(0)} ms`)
       .join(', ');
     return [
-      `    main thread: ${kinds || 'idle'}; longest task ${longest.toFixed(0)} ms (${tasks.filter((t) => t.dur! > 50_000).length} over 50 ms)`,
+      `    main thread: ${kinds || 'idle'}; longest task ${longest.toFixed(0)} ms${cpu} (${tasks.filter((t) => t.dur! > 50_000).length} over 50 ms); ` +
+        `tasks' CPU time ${busyCpu.toFixed(0)} ms`,
     ];
   }
 }

@@ -22,16 +22,18 @@ import { startBenchServer } from './bench-server';
 const EXTRA = Number(process.argv[2] ?? 50_000);
 const TARGET_S = 3;
 const PAGE_SIZES = [1000, 2500, 5000];
-/** [page size, pages a transaction] for the Dexie-only runs; two sizes twice, early and late, to show the drift. */
-const DEXIE_RUNS: [number, number][] = [
-  [1000, 1],
-  [5000, 1],
-  [2500, 1],
-  [5000, 10],
-  [500, 1],
-  [1000, 5],
-  [5000, 1],
-  [1000, 1],
+/**
+ * [page size, pages a transaction, variant] for the Dexie-only runs; pages of 5 000 first and last to
+ * show the drift (each run in one browser is slower than the one before), the variants between.
+ */
+const DEXIE_RUNS: [number, number, { durability?: 'relaxed'; noIndex?: boolean }][] = [
+  [5000, 1, {}],
+  [1000, 1, {}],
+  [2500, 1, {}],
+  [5000, 10, {}],
+  [5000, 1, { durability: 'relaxed' }],
+  [5000, 1, { noIndex: true }],
+  [5000, 1, {}],
 ];
 const TICKS_PER_S = 100; // USER_HZ on Linux
 
@@ -204,7 +206,19 @@ async function main(): Promise<void> {
     console.log(
       `Dexie side alone (${held} collar records in memory, bulkPut of a page + the cursor, the app's indexes; fresh database each run):`,
     );
-    console.log('  page size | pages a transaction | seconds | records/s');
+    const parse = await browser.page.evaluate(() => {
+      const g = globalThis as unknown as {
+        benchRecords: { id: string }[];
+        benchParseCost(r: { id: string }[]): { checkMs: number; parseMs: number; records: number };
+      };
+      return g.benchParseCost(g.benchRecords);
+    });
+    const perS = (ms: number) => Math.round(parse.records / (ms / 1000));
+    console.log(
+      `  schema step: the engine's check for missing defaults ${parse.checkMs.toFixed(0)} ms (${perS(parse.checkMs)} records/s); ` +
+        `a full zod parse of every record would take ${parse.parseMs.toFixed(0)} ms (${perS(parse.parseMs)} records/s)`,
+    );
+    console.log('  page size | pages a transaction | variant            | seconds | records/s');
     const rawFirst = await browser.page.evaluate(() => {
       const g = globalThis as unknown as {
         benchRecords: { id: string }[];
@@ -215,19 +229,20 @@ async function main(): Promise<void> {
     console.log(
       `  IndexedDB put() without Dexie, pages of 5000 (before the Dexie runs): ${(rawFirst.ms / 1000).toFixed(2)} s = ${Math.round(rawFirst.records / (rawFirst.ms / 1000))} records/s`,
     );
-    for (const [pageSize, perTxn] of DEXIE_RUNS) {
+    for (const [pageSize, perTxn, opts] of DEXIE_RUNS) {
       const r = await browser.page.evaluate(
-        ([p, n]) => {
+        ([p, n, o]) => {
           const g = globalThis as unknown as {
             benchRecords: { id: string }[];
-            benchDexieWrite(r: { id: string }[], p: number, n: number): Promise<{ ms: number; records: number }>;
+            benchDexieWrite(r: { id: string }[], p: number, n: number, o: object): Promise<{ ms: number; records: number }>;
           };
-          return g.benchDexieWrite(g.benchRecords, p, n);
+          return g.benchDexieWrite(g.benchRecords, p, n, o);
         },
-        [pageSize, perTxn] as const,
+        [pageSize, perTxn, opts] as const,
       );
+      const variant = opts.durability ? 'relaxed durability' : opts.noIndex ? 'no siteId index' : "the app's";
       console.log(
-        `  ${String(pageSize).padStart(9)} | ${String(perTxn).padStart(19)} | ${(r.ms / 1000).toFixed(2).padStart(7)} | ${Math.round(r.records / (r.ms / 1000))}`,
+        `  ${String(pageSize).padStart(9)} | ${String(perTxn).padStart(19)} | ${variant.padEnd(18)} | ${(r.ms / 1000).toFixed(2).padStart(7)} | ${Math.round(r.records / (r.ms / 1000))}`,
       );
     }
     // Reference: IndexedDB's own put() without Dexie, pages of 5 000, first and last to bracket the drift.

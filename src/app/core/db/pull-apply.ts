@@ -51,6 +51,9 @@ export async function applyPullPage(db: FluxDb, answer: PullAnswer, opts: { fres
         // Removals for lost access always apply; otherwise a newer copy (from a push answer) wins.
         if (have && have.rev > c.rev && c.reason !== 'access') return;
         const ops = pending.size ? (pending.get(`${entity}:${c.id}`) ?? []) : [];
+        // The same rev is the same copy (every server change bumps it): typically this device's own
+        // change, stored from the push answer. Writing it again would wake every live query on the table.
+        if (have && have.rev === c.rev && !c.deleted && c.record && !ops.length && c.reason !== 'access') return;
         const server = c.deleted || !c.record ? null : pulledRecord(entity, { ...c.record, id: c.id, rev: c.rev });
         const shown = c.reason === 'access' ? null : overlay(server, ops);
         if (shown) puts.push(shown);

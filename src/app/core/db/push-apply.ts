@@ -1,4 +1,3 @@
-import { SYNC_ENTITIES } from '../../../../shared/model/entity-names';
 import type { PushResult, SyncOp, SyncStatus } from '../../../../shared/sync/sync-wire';
 import type { FluxDb, LocalRecord, OutboxOp } from './db-schema';
 import { nowIso, overlay } from './record-values';
@@ -70,7 +69,8 @@ function revert(rec: LocalRecord | undefined, op: OutboxOp): LocalRecord | null 
  */
 export async function applyPushResults(db: FluxDb, sent: OutboxOp[], results: PushResult[], now = new Date()): Promise<PushTally> {
   const tally: PushTally = { done: 0, conflicts: 0, rejected: 0 };
-  const tables = SYNC_ENTITIES.map((e) => db.anyRecords(e));
+  // Only the tables of the answered ops: a transaction over every table costs the device more on each push.
+  const tables = [...new Set(sent.map((op) => op.entity))].map((e) => db.anyRecords(e));
   const byOpId = new Map(results.map((r) => [r.opId, r]));
   const at = nowIso(now);
   await db.transaction('rw', [...tables, db.outbox, db.conflicts, db.rejected, db.acked], async () => {

@@ -59,6 +59,32 @@ describe('applying pull pages', () => {
     expect((await db.records('collar').get(A))?.['notes']).toBe('rev 5');
   });
 
+  it('when a page brings back a copy at the rev the device holds and nothing is queued, then the stored record is not written again', async () => {
+    const db = testDb();
+    await db.records('collar').put(collar(A, 2, { notes: 'same' }));
+    await db.records('collar').put(collar(B, 1, { notes: 'old' }));
+    let writes = 0;
+    const table = db.records('collar');
+    table.hook('creating', () => void writes++);
+    table.hook('updating', () => void writes++);
+
+    // A push answer already stored rev 2 of A; the next pull brings that change back, and B's newer rev.
+    await applyPullPage(
+      db,
+      page(
+        [
+          { seq: 4, entity: 'collar', id: A, rev: 2, deleted: false, record: collar(A, 2, { notes: 'same' }) },
+          { seq: 5, entity: 'collar', id: B, rev: 2, deleted: false, record: collar(B, 2, { notes: 'new' }) },
+        ],
+        5,
+      ),
+    );
+
+    expect(writes).toBe(1); // B only: a rewrite of A would wake every live query that reads collars for nothing
+    expect((await table.get(B))?.notes).toBe('new');
+    expect(await readCursor(db)).toBe(5);
+  });
+
   it('when the server answers 410, then copies and cursor are reset but the outbox and local creates are kept', async () => {
     const db = testDb();
     await db.records('collar').bulkPut([collar(A, 2), collar(B, 1)]);

@@ -94,6 +94,7 @@ export class WalkMap {
   private placed: { marker: L.Marker; label: string }[] = [];
   private readonly layers = { plots: L.layerGroup(), collars: L.layerGroup(), me: L.layerGroup() };
   private fitted = false;
+  private hasView = false;
 
   constructor() {
     const stop = this.gps.watch();
@@ -102,8 +103,10 @@ export class WalkMap {
       this.map?.remove();
     });
     afterNextRender(() => {
+      // No view yet: drawAll() fits the collars (or shows the world when none has a position), so
+      // the map lays itself out once instead of a world view and then the route's.
       this.map = this.zone.runOutsideAngular(() =>
-        L.map(this.host().nativeElement, { zoomControl: true, attributionControl: true, maxZoom: 22 }).setView([0, 0], 2),
+        L.map(this.host().nativeElement, { zoomControl: true, attributionControl: true, maxZoom: 22 }),
       );
       Object.values(this.layers).forEach((l) => l.addTo(this.map!));
       this.map.on('zoomend moveend resize', () => this.layoutLabels());
@@ -182,13 +185,19 @@ export class WalkMap {
         interactive: false,
       }).addTo(this.layers.me);
     }
+    let moved = false;
     if (!this.fitted && points.length) {
       // The container may have been laid out after the map was made; measure again before fitting.
       map.invalidateSize();
       map.fitBounds(L.latLngBounds(points), { padding: [40, 40], maxZoom: 22 });
-      this.fitted = true;
+      this.fitted = moved = true;
+    } else if (!this.fitted && this.route() !== undefined && !this.hasView) {
+      map.setView([0, 0], 2); // the route has no positioned collar
+      moved = true;
     }
-    this.layoutLabels();
+    this.hasView ||= moved;
+    // A move lays the labels out already (moveend); otherwise they follow the redrawn markers here.
+    if (!moved) this.layoutLabels();
   }
 
   /** Puts each code label beside its marker where it overlaps nothing and stays inside the map; hides the rest. */
