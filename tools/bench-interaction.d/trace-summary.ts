@@ -117,7 +117,7 @@ export class StepTrace {
     const tasks = main.filter((e) => e.name === 'RunTask' || e.name === 'ThreadControllerImpl::RunTask');
     const top = tasks.reduce<TraceEvent | null>((m, e) => (!m || e.dur! > m.dur! ? e : m), null);
     const longest = (top?.dur ?? 0) / 1000;
-    // CPU throttling stretches the wall time of a task, not its thread time; the gap beyond 4x is waiting for a core.
+    // Thread time is the CPU the main thread got; a wall time far above it is waiting (for a core on a loaded machine, or the throttle).
     const cpu = top?.tdur !== undefined ? `, ${(top.tdur / 1000).toFixed(0)} ms of it on the CPU` : '';
     const busyCpu = tasks.reduce((a, e) => a + (e.tdur ?? 0), 0) / 1000;
     const kinds = Object.entries(byKind)
