@@ -14,7 +14,16 @@ describe('pulled records through the shared schema', () => {
   it('when a pulled collar lacks defaulted fields, then it arrives in Dexie with their defaults and keeps derived fields and meta', async () => {
     const db = testDb();
     // A copy written before these fields existed: no status, shape, notes, positions.
-    const old = { siteId: SITE, code: 'OLD-1', plotId: PLOT, diameterCm: 20, areaCm2: 314.16, updatedAt: '2025-01-01T00:00:00.000Z', updatedBy: null, deleted: false };
+    const old = {
+      siteId: SITE,
+      code: 'OLD-1',
+      plotId: PLOT,
+      diameterCm: 20,
+      areaCm2: 314.16,
+      updatedAt: '2025-01-01T00:00:00.000Z',
+      updatedBy: null,
+      deleted: false,
+    };
     await applyPullPage(db, page([{ seq: 1, entity: 'collar', id: A, rev: 3, deleted: false, record: old }]));
 
     const stored = await db.records('collar').get(A);
@@ -73,7 +82,16 @@ describe('pulled records through the shared schema', () => {
   });
 
   it('when a pulled record has every defaulted field, then it is stored as sent (no parse on the bulk path)', () => {
-    const full = collar(A, 2, { latitude: null, longitude: null, accuracyM: null, sideACm: null, sideBCm: null, heightCm: null, insertionCm: null, installedOn: null });
+    const full = collar(A, 2, {
+      latitude: null,
+      longitude: null,
+      accuracyM: null,
+      sideACm: null,
+      sideBCm: null,
+      heightCm: null,
+      insertionCm: null,
+      installedOn: null,
+    });
     expect(lacksDefault('collar', full)).toBe(false);
     expect(lacksDefault('collar', { ...full, status: undefined })).toBe(true);
     expect(pulledRecord('collar', full)).toBe(full);
