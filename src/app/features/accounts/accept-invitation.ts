@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, effect, inject, input, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input, resource } from '@angular/core';
 import { FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -28,28 +28,22 @@ export class AcceptInvitation {
   readonly token = input<string>('');
 
   protected readonly hint = PASSWORD_HINT;
-  protected readonly invitation = signal<InvitationPreview | null>(null);
+  private readonly lookup = resource({
+    params: () => this.token() || undefined,
+    loader: ({ params: token }) => this.api.lookupInvitation(token),
+  });
+  protected readonly invitation = computed<InvitationPreview | null>(() => (this.lookup.hasValue() ? this.lookup.value() : null));
+  /** Why the invitation cannot be shown: no token in the link, or the server's refusal. */
+  protected readonly lookupProblem = computed(() => {
+    if (!this.token()) return 'This link has no invitation in it. Open the link from the mail again.';
+    const err = this.lookup.error();
+    return err ? describeAccountError(err, 'This invitation could not be opened.') : '';
+  });
   protected readonly form = inject(FormBuilder).nonNullable.group({
     displayName: ['', [Validators.required, Validators.maxLength(120)]],
     password: ['', [Validators.required, Validators.minLength(MIN_PASSWORD_LENGTH)]],
   });
   protected readonly submit = new FormSubmit(this.form, (err) => describeAccountError(err, 'The account could not be made.'));
-
-  constructor() {
-    effect(() => void this.look(this.token()));
-  }
-
-  private async look(token: string): Promise<void> {
-    if (!token) {
-      this.submit.problem.set('This link has no invitation in it. Open the link from the mail again.');
-      return;
-    }
-    try {
-      this.invitation.set(await this.api.lookupInvitation(token));
-    } catch (err) {
-      this.submit.problem.set(describeAccountError(err, 'This invitation could not be opened.'));
-    }
-  }
 
   protected async createAccount(): Promise<void> {
     const invitation = this.invitation();

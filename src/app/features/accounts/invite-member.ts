@@ -1,5 +1,5 @@
-import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, type WritableSignal } from '@angular/core';
-import { FormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { ChangeDetectionStrategy, Component, computed, inject, input, resource, signal } from '@angular/core';
+import { FormBuilder, FormControl, FormRecord, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -78,33 +78,47 @@ export class InviteMember {
   protected readonly isAdmin = computed(() => this.auth.roles().includes('admin'));
   protected readonly roleChoices = computed<readonly Role[]>(() => (this.isAdmin() ? ROLES : LEAD_INVITES));
   protected readonly sites = this.auth.sites;
-  protected readonly chosenRoles = signal<Role[]>([...LEAD_INVITES]);
-  protected readonly chosenSites = signal<string[]>([]);
-  protected readonly open = signal<OpenInvitation[]>([]);
+  /** One box per role; crew is chosen to begin with (all a lead may invite). */
+  protected readonly roleBoxes = new FormRecord(
+    Object.fromEntries(ROLES.map((r) => [r, new FormControl((LEAD_INVITES as readonly Role[]).includes(r), { nonNullable: true })])),
+  );
+  /** One box per site of the inviter; the preselected site, or the only one, is chosen to begin with. */
+  protected readonly siteBoxes = computed(() => {
+    const sites = this.sites();
+    const preset = this.siteId() || (sites.length === 1 ? sites[0]!.id : '');
+    return new FormRecord(Object.fromEntries(sites.map((s) => [s.id, new FormControl(s.id === preset, { nonNullable: true })])));
+  });
+  private readonly openList = resource({ loader: () => this.api.openInvitations() });
+  protected readonly open = computed(() => (this.openList.hasValue() ? this.openList.value() : []));
   protected readonly done = signal('');
   protected readonly form = inject(FormBuilder).nonNullable.group({ email: ['', [Validators.required, Validators.email]] });
   protected readonly submit = new FormSubmit(this.form, (err) => describeAccountError(err, 'The invitation was not sent.'));
+  /** A failed load of the open invitations, said where the form's own problems are. */
+  protected readonly problem = computed(() => {
+    const err = this.openList.error();
+    return this.submit.problem() || (err ? describeAccountError(err, 'Open invitations could not be loaded.') : '');
+  });
 
-  constructor() {
-    effect(() => {
-      const preset = this.siteId();
-      if (preset) this.chosenSites.set([preset]);
-      else if (this.sites().length === 1) this.chosenSites.set([this.sites()[0].id]);
-    });
-    void this.loadOpen();
+  protected box(boxes: FormRecord<FormControl<boolean>>, key: string): FormControl<boolean> {
+    return boxes.controls[key]!;
   }
 
-  protected toggle<T>(list: WritableSignal<T[]>, value: T, on: boolean): void {
-    list.update((all) => (on ? [...new Set([...all, value])] : all.filter((v) => v !== value)));
+  private chosen<K extends string>(boxes: FormRecord<FormControl<boolean>>, keys: readonly K[]): K[] {
+    return keys.filter((k) => boxes.controls[k]?.value);
   }
 
   protected async sendInvitation(): Promise<void> {
     await this.submit.run(async () => {
       this.done.set('');
-      const sent = await this.api.invite(this.form.getRawValue().email.trim(), this.chosenRoles(), this.chosenSites());
+      const roles = this.isAdmin() ? this.chosen(this.roleBoxes, ROLES) : [...LEAD_INVITES];
+      const siteIds = this.chosen(
+        this.siteBoxes(),
+        this.sites().map((s) => s.id),
+      );
+      const sent = await this.api.invite(this.form.getRawValue().email.trim(), roles, siteIds);
       this.done.set(`Invitation sent to ${sent.email}. The link works once, until ${this.expiry(sent)}.`);
       this.form.reset();
-      await this.loadOpen();
+      this.openList.reload();
     });
   }
 
@@ -112,7 +126,7 @@ export class InviteMember {
     try {
       await this.api.withdraw(inv.id);
       this.done.set(`Invitation to ${inv.email} withdrawn; its link no longer works.`);
-      await this.loadOpen();
+      this.openList.reload();
     } catch (err) {
       this.submit.problem.set(describeAccountError(err, 'Not withdrawn.'));
     }
@@ -122,13 +136,5 @@ export class InviteMember {
   protected expiry(inv: InvitationPreview): string {
     const zone = this.sites().find((s) => s.id === inv.sites[0]?.id)?.timezone ?? 'UTC';
     return formatSiteTime(inv.expiresAt, zone);
-  }
-
-  private async loadOpen(): Promise<void> {
-    try {
-      this.open.set(await this.api.openInvitations());
-    } catch (err) {
-      this.submit.problem.set(describeAccountError(err, 'Open invitations could not be loaded.'));
-    }
   }
 }
