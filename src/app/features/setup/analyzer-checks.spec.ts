@@ -87,7 +87,11 @@ describe('AnalyzerChecks', () => {
 
   it('when another analyzer is chosen, then its own checks are asked for and an empty list says so', async () => {
     const { fixture, backend, loader, grid } = await checksOf();
-    await (await loader.getHarness(MatSelectHarness)).clickOptions({ text: 'Field unit 2' });
+    await (await loader.getHarness(MatSelectHarness)).open();
+    // A plain click: a harness click waits for the page to settle, which it does only once the requests below are answered.
+    [...document.querySelectorAll<HTMLElement>('mat-option')].find((o) => o.textContent?.includes('Field unit 2'))!.click();
+    fixture.detectChanges();
+    await new Promise((r) => setTimeout(r, 0));
     const req = backend.expectOne((r) => r.url === '/api/analyzer-checks');
     expect(req.request.params.get('analyzerId')).toBe(A2.id);
     req.flush({ items: [], total: 0, limit: 1000, offset: 0 });

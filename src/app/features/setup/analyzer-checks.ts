@@ -1,4 +1,15 @@
-import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, viewChild } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  effect,
+  inject,
+  input,
+  linkedSignal,
+  resource,
+  signal,
+  viewChild,
+} from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatPaginator, MatPaginatorModule } from '@angular/material/paginator';
@@ -6,11 +17,14 @@ import { MatSelectModule } from '@angular/material/select';
 import { MatSort, MatSortModule } from '@angular/material/sort';
 import { MatTableDataSource, MatTableModule } from '@angular/material/table';
 import { DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT, worstDriftPct } from '../../../../shared/model/calibration';
-import type { EntityFields } from '../../../../shared/model/entities';
+import type { StoredRecord } from '../../../../shared/model/stored-record';
 import { serverMessage } from '../../core/api/api-error';
 import { CalibrationForm, type CalibrationEntry } from '../calibration/calibration-form';
 import { siteTime } from '../calibration/site-clock';
-import { SetupApi, type Rec } from './setup-api';
+import { loadedOr, loadProblem } from './resource-value';
+import { SetupApi } from './setup-api';
+
+type Check = StoredRecord<'analyzerCheck'>;
 
 const KIND_LABEL: Record<string, string> = {
   calibration: 'Calibration',
@@ -29,37 +43,41 @@ export interface CheckRow {
   who: string;
   outcome: string;
   /** The file the check was read from (a leak check's logger file), when one was kept. */
-  file: { id: string; name: string; uploaded: boolean } | null;
+  file: CheckFile | null;
+}
+
+export interface CheckFile {
+  id: string;
+  name: string;
+  /** False while the file's bytes are still only on the phone that recorded the check. */
+  uploaded: boolean;
 }
 
 /** What a check came to, in words: a skipped check says why; a check with no verdict says so; a calibration gives its drift and cylinder. */
-export function checkOutcome(c: Rec): string {
-  if (c['skipped']) return `Skipped: ${String(c['skipReason'] ?? '').trim() || 'no reason given'}`;
-  const verdict = c['passed'] === true ? 'Passed' : c['passed'] === false ? 'Failed' : 'Recorded (no pass/fail)';
-  return c['kind'] === 'calibration' ? [verdict, ...calibrationFacts(c)].join(' · ') : verdict;
+export function checkOutcome(c: Check): string {
+  if (c.skipped) return `Skipped: ${(c.skipReason ?? '').trim() || 'no reason given'}`;
+  const verdict = c.passed === true ? 'Passed' : c.passed === false ? 'Failed' : 'Recorded (no pass/fail)';
+  return c.kind === 'calibration' ? [verdict, ...calibrationFacts(c)].join(' · ') : verdict;
 }
 
 const signed = (x: number) => `${x > 0 ? '+' : ''}${x}`;
 
-function calibrationFacts(rec: Rec): string[] {
-  const c = rec as unknown as Partial<EntityFields<'analyzerCheck'>>;
+function calibrationFacts(c: Check): string[] {
   const out: string[] = [];
   const drifts = (
     [
       ['zero', c.zeroDriftPpm],
       ['span', c.driftPpm],
     ] as const
-  )
-    .filter(([, v]) => typeof v === 'number')
-    .map(([w, v]) => `${w} ${signed(v!)}`);
+  ).flatMap(([w, v]) => (typeof v === 'number' ? [`${w} ${signed(v)}`] : []));
   const pct = worstDriftPct(c);
   if (drifts.length) out.push(`drift ${drifts.join(', ')} µmol/mol${pct === null ? '' : ` (${pct} %)`}`);
   if (typeof c.spanGasPpm === 'number') out.push(`span gas ${c.spanGasPpm} µmol/mol${c.spanCylinder ? ` (${c.spanCylinder})` : ''}`);
   return out;
 }
 
-function fileOf(a: Rec | undefined): CheckRow['file'] {
-  return a ? { id: a.id, name: String(a['fileName'] || 'file'), uploaded: Boolean(a['objectKey']) } : null;
+function fileOf(a: StoredRecord<'attachment'> | undefined): CheckFile | null {
+  return a ? { id: a.id, name: a.fileName || 'file', uploaded: Boolean(a.objectKey) } : null;
 }
 
 /** An analyzer's check records (calibration, leak, ambient, clock, warm-up): kind, when, who, the result and the file it was read from. */
@@ -73,7 +91,7 @@ function fileOf(a: Rec | undefined): CheckRow['file'] {
         <mat-label>Checks of analyzer</mat-label>
         <mat-select [value]="analyzerId()" (valueChange)="analyzerId.set($event)">
           @for (a of analyzers(); track a.id) {
-            <mat-option [value]="a.id">{{ a['name'] }}{{ a['serial'] ? ' · ' + a['serial'] : '' }}</mat-option>
+            <mat-option [value]="a.id">{{ a.name }}{{ a.serial ? ' · ' + a.serial : '' }}</mat-option>
           }
         </mat-select>
       </mat-form-field>
@@ -130,47 +148,62 @@ function fileOf(a: Rec | undefined): CheckRow['file'] {
 export class AnalyzerChecks {
   private readonly api = inject(SetupApi);
   readonly siteId = input.required<string>();
-  readonly analyzers = input<Rec[]>([]);
+  readonly analyzers = input<StoredRecord<'analyzer'>[]>([]);
   readonly timeZone = input('UTC');
   /** The site's calibration drift limit, % of the span gas. */
   readonly driftLimitPct = input(DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT);
 
   protected readonly columns = ['kind', 'at', 'who', 'outcome', 'file'];
-  protected readonly analyzerId = signal<string | null>(null);
-  protected readonly checks = signal<Rec[]>([]);
-  /** Files kept with checks, by the check they belong to. */
-  private readonly files = signal<Map<string, Rec>>(new Map());
-  protected readonly message = signal('');
+  /** The first analyzer is shown until another is chosen (or the chosen one leaves the list). */
+  protected readonly analyzerId = linkedSignal<StoredRecord<'analyzer'>[], string | null>({
+    source: this.analyzers,
+    computation: (list, previous) => (list.some((a) => a.id === previous?.value) ? previous!.value : (list[0]?.id ?? null)),
+  });
+  /** The chosen analyzer's checks and the files kept with them (by the check they belong to). */
+  private readonly records = resource({
+    params: () => {
+      const analyzerId = this.analyzerId();
+      return analyzerId ? { siteId: this.siteId(), analyzerId } : undefined;
+    },
+    loader: async ({ params: { siteId, analyzerId } }) => {
+      const [checks, files] = await Promise.all([
+        this.api.list('analyzerCheck', { siteId, analyzerId }),
+        this.api.list('attachment', { siteId, ownerEntity: 'analyzerCheck' }),
+      ]);
+      return { checks, files: new Map(files.map((f) => [f.ownerId, f])) };
+    },
+  });
+  private readonly loaded = loadedOr(this.records, { checks: [], files: new Map() });
+  /** What the last save said; choosing another analyzer clears it. */
+  private readonly saveMessage = linkedSignal({ source: this.analyzerId, computation: () => '' });
+  private readonly loadMessage = loadProblem(this.records, 'Could not load the checks');
+  protected readonly message = computed(() => this.loadMessage() || this.saveMessage());
   protected readonly calibrating = signal(false);
   protected readonly saving = signal(false);
-  protected readonly analyzerName = computed(() => String(this.analyzers().find((a) => a.id === this.analyzerId())?.['name'] ?? ''));
-  private readonly names = signal<Map<string, string>>(new Map());
+  protected readonly analyzerName = computed(() => this.analyzers().find((a) => a.id === this.analyzerId())?.name ?? '');
+  /** Names of who recorded each check; admins may list users, anyone else sees the check without a name. */
+  private readonly users = resource({
+    loader: async () => new Map((await this.api.users()).map((u) => [u.id, u.displayName])),
+  });
+  private readonly names = loadedOr(this.users, new Map<string, string>());
   protected readonly data = new MatTableDataSource<CheckRow>([]);
   private readonly sort = viewChild(MatSort);
   private readonly paginator = viewChild(MatPaginator);
-  private readonly rows = computed<CheckRow[]>(() =>
-    this.checks().map((c) => ({
+  private readonly rows = computed<CheckRow[]>(() => {
+    const { checks, files } = this.loaded();
+    return checks.map((c) => ({
       id: c.id,
-      kind: KIND_LABEL[String(c['kind'])] ?? String(c['kind']),
-      at: String(c['at']),
-      when: siteTime(String(c['at']), this.timeZone()),
-      who: this.names().get(String(c['updatedBy'])) ?? (c['updatedBy'] ? 'a former user' : 'unknown'),
+      kind: KIND_LABEL[c.kind] ?? c.kind,
+      at: c.at,
+      when: siteTime(c.at, this.timeZone()),
+      who: (c.updatedBy && this.names().get(c.updatedBy)) || (c.updatedBy ? 'a former user' : 'unknown'),
       outcome: checkOutcome(c),
-      file: fileOf(this.files().get(c.id)),
-    })),
-  );
+      file: fileOf(files.get(c.id)),
+    }));
+  });
 
   constructor() {
-    void this.loadNames();
-    // The first analyzer is shown until another is chosen.
-    effect(() => {
-      const list = this.analyzers();
-      if (!list.some((a) => a.id === this.analyzerId())) this.analyzerId.set(list[0]?.id ?? null);
-    });
-    effect(() => {
-      const id = this.analyzerId();
-      void this.load(this.siteId(), id);
-    });
+    // Hands the rows, sort and pages to Material's table source (not a signal API).
     effect(() => {
       this.data.data = this.rows();
       this.data.sort = this.sort() ?? null;
@@ -180,46 +213,20 @@ export class AnalyzerChecks {
     this.data.sortingDataAccessor = (r, key) => (key === 'at' ? r.at : String(r[key as keyof CheckRow]).toLowerCase());
   }
 
-  /** Names of who recorded each check; admins may list users, anyone else sees the check without a name. */
-  private async loadNames(): Promise<void> {
-    try {
-      this.names.set(new Map((await this.api.users()).map((u) => [u.id, u.displayName])));
-    } catch {
-      this.names.set(new Map());
-    }
-  }
-
   /** Sends a calibration of the chosen analyzer to the server; the list shows it once stored. */
   protected async saveCalibration(entry: CalibrationEntry): Promise<void> {
     const analyzerId = this.analyzerId();
     if (!analyzerId || this.saving()) return;
     this.saving.set(true);
     try {
-      await this.api.create('analyzer-checks', { siteId: this.siteId(), analyzerId, kind: 'calibration', ...entry });
+      await this.api.create('analyzerCheck', { siteId: this.siteId(), analyzerId, kind: 'calibration', ...entry });
       this.calibrating.set(false);
-      this.message.set(`Calibration of ${this.analyzerName()} saved.`);
-      await this.load(this.siteId(), analyzerId, false);
+      this.saveMessage.set(`Calibration of ${this.analyzerName()} saved.`);
+      this.records.reload();
     } catch (err) {
-      this.message.set(serverMessage(err, 'The calibration was not saved'));
+      this.saveMessage.set(serverMessage(err, 'The calibration was not saved'));
     } finally {
       this.saving.set(false);
-    }
-  }
-
-  private async load(siteId: string, analyzerId: string | null, clearMessage = true): Promise<void> {
-    if (!analyzerId) return this.checks.set([]);
-    try {
-      const [checks, files] = await Promise.all([
-        this.api.list('analyzer-checks', { siteId, analyzerId }),
-        this.api.list('attachments', { siteId, ownerEntity: 'analyzerCheck' }),
-      ]);
-      if (this.analyzerId() !== analyzerId) return; // another analyzer was chosen meanwhile
-      this.files.set(new Map(files.map((f) => [String(f['ownerId']), f])));
-      this.checks.set(checks);
-      if (clearMessage) this.message.set('');
-    } catch (err) {
-      this.checks.set([]);
-      this.message.set(serverMessage(err, 'Could not load the checks'));
     }
   }
 }

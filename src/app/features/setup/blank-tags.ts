@@ -1,4 +1,5 @@
 import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
+import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -6,6 +7,7 @@ import { MatInputModule } from '@angular/material/input';
 import { plannedTagCodes } from '../../../../shared/model/collar-tag';
 import { fieldProblems, serverMessage } from '../../core/api/api-error';
 import { saveFile } from '../../core/api/save-file';
+import { formValue } from './form-value';
 import { SetupApi } from './setup-api';
 
 /**
@@ -15,33 +17,33 @@ import { SetupApi } from './setup-api';
  */
 @Component({
   selector: 'fw-blank-tags',
-  imports: [MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatInputModule],
+  imports: [ReactiveFormsModule, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatInputModule],
   template: `
     <section aria-labelledby="blank-tags-heading">
       <h3 id="blank-tags-heading">Tags for new collars</h3>
       <p>Print tags before installing: the crew scans one on the install screen and the new collar takes it.</p>
-      <form class="fields" (submit)="$event.preventDefault(); download()">
-        <mat-button-toggle-group [value]="paper()" (change)="paper.set($event.value)" aria-label="Paper size of the blank tags">
+      <form class="fields" [formGroup]="form" (ngSubmit)="download()">
+        <mat-button-toggle-group formControlName="paper" aria-label="Paper size of the blank tags">
           <mat-button-toggle value="a4">A4</mat-button-toggle>
           <mat-button-toggle value="letter">Letter</mat-button-toggle>
         </mat-button-toggle-group>
         <mat-form-field subscriptSizing="dynamic">
           <mat-label>How many tags</mat-label>
-          <input matInput inputmode="numeric" data-testid="blank-count" [value]="count()" (input)="count.set($any($event.target).value)" />
+          <input matInput inputmode="numeric" data-testid="blank-count" formControlName="count" />
           <mat-hint>21 fit a sheet</mat-hint>
         </mat-form-field>
         <mat-form-field subscriptSizing="dynamic">
           <mat-label>Code prefix (optional)</mat-label>
-          <input matInput autocomplete="off" data-testid="blank-prefix" [value]="prefix()" (input)="prefix.set($any($event.target).value)" />
+          <input matInput autocomplete="off" data-testid="blank-prefix" formControlName="prefix" />
         </mat-form-field>
-        @if (prefix().trim()) {
+        @if (value().prefix.trim()) {
           <mat-form-field subscriptSizing="dynamic">
             <mat-label>First number</mat-label>
-            <input matInput inputmode="numeric" data-testid="blank-first" [value]="first()" (input)="first.set($any($event.target).value)" />
+            <input matInput inputmode="numeric" data-testid="blank-first" formControlName="first" />
           </mat-form-field>
           <mat-form-field subscriptSizing="dynamic">
             <mat-label>Digits</mat-label>
-            <input matInput inputmode="numeric" [value]="digits()" (input)="digits.set($any($event.target).value)" />
+            <input matInput inputmode="numeric" formControlName="digits" />
           </mat-form-field>
         }
         <button mat-flat-button type="submit" [disabled]="busy()" data-testid="blank-download">Download blank tags (PDF)</button>
@@ -62,23 +64,28 @@ export class BlankTags {
   private readonly api = inject(SetupApi);
   readonly siteId = input.required<string>();
 
-  protected readonly paper = signal<'a4' | 'letter'>('a4');
-  protected readonly count = signal('21');
-  protected readonly prefix = signal('');
-  protected readonly first = signal('1');
-  protected readonly digits = signal('2');
+  /** Numbers stay text as typed: the preview and the server say what is wrong with them. */
+  protected readonly form = new FormGroup({
+    paper: new FormControl<'a4' | 'letter'>('a4', { nonNullable: true }),
+    count: new FormControl('21', { nonNullable: true }),
+    prefix: new FormControl('', { nonNullable: true }),
+    first: new FormControl('1', { nonNullable: true }),
+    digits: new FormControl('2', { nonNullable: true }),
+  });
+  protected readonly value = formValue(this.form);
   protected readonly busy = signal(false);
   protected readonly problem = signal('');
   protected readonly message = signal('');
 
   /** The planned codes spelled out, so a lead sees "N-01 … N-21" before printing. */
   protected readonly preview = computed(() => {
-    const n = Number(this.count());
-    const p = this.prefix().trim();
+    const { count, prefix, first, digits } = this.value();
+    const n = Number(count);
+    const p = prefix.trim();
     if (!Number.isInteger(n) || n < 1) return '';
     if (!p) return `${n} tag${n === 1 ? '' : 's'} without codes: the crew types each code when installing.`;
     // Only the first and last code: a typed count of a million must not build a million strings.
-    const code = (i: number) => plannedTagCodes(p, Number(this.first()) + i, Number(this.digits()) || 1, 1)[0];
+    const code = (i: number) => plannedTagCodes(p, Number(first) + i, Number(digits) || 1, 1)[0];
     return n === 1 ? `Planned code ${code(0)}.` : `Planned codes ${code(0)} … ${code(n - 1)}.`;
   });
 
@@ -87,12 +94,13 @@ export class BlankTags {
     this.problem.set('');
     this.message.set('');
     try {
+      const { paper, count, prefix, first, digits } = this.form.getRawValue();
       const sheet = await this.api.blankTags(this.siteId(), {
-        paper: this.paper(),
-        count: Number(this.count()),
-        codePrefix: this.prefix().trim(),
-        firstNumber: Number(this.first()),
-        digits: Number(this.digits()),
+        paper,
+        count: Number(count),
+        codePrefix: prefix.trim(),
+        firstNumber: Number(first),
+        digits: Number(digits),
       });
       saveFile(sheet.pdf, sheet.fileName);
       this.message.set(`${sheet.count} blank tags saved as ${sheet.fileName}.`);

@@ -1,5 +1,7 @@
 import { ScrollingModule } from '@angular/cdk/scrolling';
-import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input, resource, signal } from '@angular/core';
+import { toSignal } from '@angular/core/rxjs-interop';
+import { FormControl, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -7,7 +9,11 @@ import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule, type MatSelectChange } from '@angular/material/select';
 import { narrowScreen } from '../../core/layout/narrow-screen';
 import { serverMessage } from '../../core/api/api-error';
-import { SetupApi, type Rec } from './setup-api';
+import type { StoredRecord } from '../../../../shared/model/stored-record';
+import { loadedOr, loadProblem } from './resource-value';
+import { SetupApi } from './setup-api';
+
+type Collar = StoredRecord<'collar'>;
 
 /**
  * A site's collars (possibly thousands) in a virtual-scroll list with a filter and each collar's
@@ -16,22 +22,30 @@ import { SetupApi, type Rec } from './setup-api';
  */
 @Component({
   selector: 'fw-collar-list',
-  imports: [ScrollingModule, MatButtonModule, MatButtonToggleModule, MatFormFieldModule, MatInputModule, MatSelectModule],
+  imports: [
+    ReactiveFormsModule,
+    ScrollingModule,
+    MatButtonModule,
+    MatButtonToggleModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatSelectModule,
+  ],
   template: `
     <section aria-labelledby="collars-heading">
       <h3 id="collars-heading">Collars ({{ collars().length }})</h3>
       <div class="tags">
-        <mat-button-toggle-group [value]="paper()" (change)="paper.set($event.value)" aria-label="Paper size of the tag sheet">
+        <mat-button-toggle-group [formControl]="paper" aria-label="Paper size of the tag sheet">
           <mat-button-toggle value="a4">A4</mat-button-toggle>
           <mat-button-toggle value="letter">Letter</mat-button-toggle>
         </mat-button-toggle-group>
         <mat-form-field subscriptSizing="dynamic">
           <mat-label>Tags of</mat-label>
           <!-- "All plots" has a value of its own: mat-select shows a null value as a blank field. -->
-          <mat-select [value]="tagPlotId() ?? ''" (valueChange)="tagPlotId.set($event || null)">
+          <mat-select [formControl]="tagPlot">
             <mat-option value="">All plots ({{ count(collars().length) }})</mat-option>
             @for (p of plots(); track p.id) {
-              <mat-option [value]="p.id">Plot {{ p['code'] }} ({{ count(perPlot().get(p.id) ?? 0) }})</mat-option>
+              <mat-option [value]="p.id">Plot {{ p.code }} ({{ count(perPlot().get(p.id) ?? 0) }})</mat-option>
             }
           </mat-select>
         </mat-form-field>
@@ -39,26 +53,26 @@ import { SetupApi, type Rec } from './setup-api';
       </div>
       <mat-form-field subscriptSizing="dynamic">
         <mat-label>Filter collars</mat-label>
-        <input matInput (input)="filter.set($any($event.target).value.trim().toLowerCase())" />
+        <input matInput [formControl]="filter" />
       </mat-form-field>
       <div class="row header" aria-hidden="true"><span>Code</span><span>Plot</span><span>Diameter (cm)</span><span>Status</span><span>Collar treatment</span><span>Notes</span></div>
       <cdk-virtual-scroll-viewport [itemSize]="phone() ? 100 : 44" class="viewport" role="list" aria-label="Collars of the site">
         <div class="row" role="listitem" *cdkVirtualFor="let c of shown(); trackBy: byId">
-          <span class="code">{{ c['code'] }}</span><span data-label="Plot">{{ plotCode(c) }}</span><span data-label="Diameter (cm)">{{ c['diameterCm'] ?? '' }}</span>
-          <span data-label="Status">{{ c['status'] }}</span>
+          <span class="code">{{ c.code }}</span><span data-label="Plot">{{ plotCode(c) }}</span><span data-label="Diameter (cm)">{{ c.diameterCm ?? '' }}</span>
+          <span data-label="Status">{{ c.status }}</span>
           <span>
             @if (collarTreatments().length) {
-              <mat-select class="treatment" [aria-label]="'Treatment of collar ' + c['code']" [value]="c['treatmentId'] ?? ''" (selectionChange)="setTreatment(c, $event)">
+              <mat-select class="treatment" [aria-label]="'Treatment of collar ' + c.code" [value]="c.treatmentId ?? ''" (selectionChange)="setTreatment(c, $event)">
                 <mat-option value="">(no collar treatment)</mat-option>
                 @for (t of collarTreatments(); track t.id) {
-                  <mat-option [value]="t.id">{{ t['code'] }}</mat-option>
+                  <mat-option [value]="t.id">{{ t.code }}</mat-option>
                 }
               </mat-select>
             } @else {
               {{ treatmentCode(c) }}
             }
           </span>
-          <span class="notes">{{ c['notes'] }}</span>
+          <span class="notes">{{ c.notes }}</span>
         </div>
       </cdk-virtual-scroll-viewport>
       <p role="status">{{ message() }}</p>
@@ -85,72 +99,68 @@ import { SetupApi, type Rec } from './setup-api';
 export class CollarList {
   private readonly api = inject(SetupApi);
   readonly siteId = input.required<string>();
-  readonly plots = input<Rec[]>([]);
-  readonly treatments = input<Rec[]>([]);
+  readonly plots = input<StoredRecord<'plot'>[]>([]);
+  readonly treatments = input<StoredRecord<'treatment'>[]>([]);
+  /** A new value loads the collars again (after an import). */
   readonly reloadToken = input(0);
 
-  protected readonly collars = signal<Rec[]>([]);
-  protected readonly filter = signal('');
-  protected readonly paper = signal<'a4' | 'letter'>('a4');
-  protected readonly message = signal('');
-  protected readonly tagPlotId = signal<string | null>(null);
+  private readonly list = resource({
+    params: () => ({ siteId: this.siteId(), reload: this.reloadToken() }),
+    loader: ({ params }) => this.api.list('collar', { siteId: params.siteId }),
+  });
+  protected readonly collars = loadedOr(this.list, []);
+  protected readonly filter = new FormControl('', { nonNullable: true });
+  protected readonly paper = new FormControl<'a4' | 'letter'>('a4', { nonNullable: true });
+  /** '' is every plot: mat-select shows a null value as a blank field. */
+  protected readonly tagPlot = new FormControl('', { nonNullable: true });
+  private readonly filterText = toSignal(this.filter.valueChanges, { initialValue: '' });
+  private readonly paperNow = toSignal(this.paper.valueChanges, { initialValue: this.paper.value });
+  private readonly tagPlotId = toSignal(this.tagPlot.valueChanges, { initialValue: '' });
+  private readonly saveMessage = signal('');
+  private readonly loadMessage = loadProblem(this.list, 'Could not load the collars');
+  protected readonly message = computed(() => this.loadMessage() || this.saveMessage());
   protected readonly phone = narrowScreen();
-  protected readonly tagUrl = computed(() => this.api.tagSheetUrl(this.siteId(), this.paper(), this.tagPlotId()));
+  protected readonly tagUrl = computed(() => this.api.tagSheetUrl(this.siteId(), this.paperNow(), this.tagPlotId() || null));
   protected readonly perPlot = computed(() => {
     const n = new Map<string, number>();
-    for (const c of this.collars()) n.set(String(c['plotId']), (n.get(String(c['plotId'])) ?? 0) + 1);
+    for (const c of this.collars()) n.set(c.plotId, (n.get(c.plotId) ?? 0) + 1);
     return n;
   });
   /** Only treatments applied to single collars (e.g. trenched vs untrenched) belong on a collar. */
-  protected readonly collarTreatments = computed(() => this.treatments().filter((t) => t['level'] === 'collar'));
-  private readonly treatmentCodes = computed(() => new Map(this.treatments().map((t) => [t.id, String(t['code'])])));
-  private readonly plotCodes = computed(() => new Map(this.plots().map((p) => [p.id, String(p['code'])])));
+  protected readonly collarTreatments = computed(() => this.treatments().filter((t) => t.level === 'collar'));
+  private readonly treatmentCodes = computed(() => new Map(this.treatments().map((t) => [t.id, t.code])));
+  private readonly plotCodes = computed(() => new Map(this.plots().map((p) => [p.id, p.code])));
   protected readonly shown = computed(() => {
-    const f = this.filter();
+    const f = this.filterText().trim().toLowerCase();
     return f
-      ? this.collars().filter((c) => `${c['code']} ${this.plotCode(c)} ${this.treatmentCode(c)} ${c['notes']}`.toLowerCase().includes(f))
+      ? this.collars().filter((c) => `${c.code} ${this.plotCode(c)} ${this.treatmentCode(c)} ${c.notes}`.toLowerCase().includes(f))
       : this.collars();
   });
 
-  constructor() {
-    effect(() => {
-      this.reloadToken();
-      void this.load(this.siteId());
-    });
-  }
-
-  protected plotCode(c: Rec): string {
-    return this.plotCodes().get(String(c['plotId'])) ?? '';
+  protected plotCode(c: Collar): string {
+    return this.plotCodes().get(c.plotId) ?? '';
   }
 
   protected count(n: number): string {
     return `${n} collar${n === 1 ? '' : 's'}`;
   }
 
-  protected treatmentCode(c: Rec): string {
-    return this.treatmentCodes().get(String(c['treatmentId'])) ?? '';
+  protected treatmentCode(c: Collar): string {
+    return (c.treatmentId && this.treatmentCodes().get(c.treatmentId)) || '';
   }
 
-  protected async setTreatment(c: Rec, change: MatSelectChange): Promise<void> {
+  protected async setTreatment(c: Collar, change: MatSelectChange<string>): Promise<void> {
     try {
-      const saved = await this.api.update('collars', c.id, c.rev, { treatmentId: (change.value as string) || null });
-      this.collars.update((all) => all.map((x) => (x.id === saved.id ? saved : x)));
-      this.message.set(`Collar ${String(saved['code'])}: ${this.treatmentCode(saved) || 'no collar treatment'}`);
+      const saved = await this.api.update('collar', c.id, c.rev, { treatmentId: change.value || null });
+      this.list.update((all) => all?.map((x) => (x.id === saved.id ? saved : x)));
+      this.saveMessage.set(`Collar ${saved.code}: ${this.treatmentCode(saved) || 'no collar treatment'}`);
     } catch (err) {
-      this.message.set(serverMessage(err, `Collar ${String(c['code'])} was not changed`));
-      change.source.value = String(c['treatmentId'] ?? ''); // back to what is stored
+      this.saveMessage.set(serverMessage(err, `Collar ${c.code} was not changed`));
+      change.source.value = c.treatmentId ?? ''; // back to what is stored
     }
   }
 
-  protected byId(_: number, c: Rec): string {
+  protected byId(_: number, c: Collar): string {
     return c.id;
-  }
-
-  private async load(siteId: string): Promise<void> {
-    try {
-      this.collars.set(await this.api.list('collars', { siteId }));
-    } catch (err) {
-      this.message.set(serverMessage(err, 'Could not load the collars'));
-    }
   }
 }

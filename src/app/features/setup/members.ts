@@ -1,10 +1,11 @@
-import { ChangeDetectionStrategy, Component, effect, inject, input, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input, resource, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatSlideToggleModule } from '@angular/material/slide-toggle';
 import { MatTableModule } from '@angular/material/table';
 import { RouterLink } from '@angular/router';
 import { serverMessage } from '../../core/api/api-error';
+import { loadedOr, loadProblem } from './resource-value';
 import { SetupApi, type UserRow } from './setup-api';
 
 const ROLES = ['crew', 'lead', 'lab', 'admin'] as const;
@@ -62,36 +63,25 @@ export class Members {
   readonly siteId = input.required<string>();
   protected readonly roles = ROLES;
   protected readonly columns = ['name', 'member', 'roles', 'disabled'];
-  protected readonly users = signal<UserRow[]>([]);
-  protected readonly message = signal('');
-
-  constructor() {
-    effect(() => {
-      this.siteId();
-      void this.load();
-    });
-  }
+  /** Every user, asked again when another site is shown. */
+  private readonly list = resource({ params: () => this.siteId(), loader: () => this.api.users() });
+  protected readonly users = loadedOr(this.list, []);
+  private readonly saveMessage = signal('');
+  private readonly loadMessage = loadProblem(this.list, 'Could not load the users');
+  protected readonly message = computed(() => this.loadMessage() || this.saveMessage());
 
   /** Lab and admin see every site; membership is for crew and leads. */
   protected seesAll(u: UserRow): boolean {
     return u.roles.includes('lab') || u.roles.includes('admin');
   }
 
-  private async load(): Promise<void> {
-    try {
-      this.users.set(await this.api.users());
-    } catch (err) {
-      this.message.set(serverMessage(err, 'Could not load the users'));
-    }
-  }
-
   private async change(u: UserRow, changes: Partial<UserRow>, done: string): Promise<void> {
     try {
       const saved = await this.api.updateUser(u.id, changes);
-      this.users.update((all) => all.map((x) => (x.id === u.id ? { ...x, ...saved } : x)));
-      this.message.set(done);
+      this.list.update((all) => all?.map((x) => (x.id === u.id ? { ...x, ...saved } : x)));
+      this.saveMessage.set(done);
     } catch (err) {
-      this.message.set(serverMessage(err, 'Not changed'));
+      this.saveMessage.set(serverMessage(err, 'Not changed'));
     }
   }
 

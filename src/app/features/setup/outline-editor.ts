@@ -1,4 +1,5 @@
-import { ChangeDetectionStrategy, Component, computed, effect, inject, input, output, signal, untracked } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input, output, resource, signal } from '@angular/core';
+import { FormControl, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
@@ -6,7 +7,11 @@ import { MatSelectModule } from '@angular/material/select';
 import { fieldProblems, serverMessage } from '../../core/api/api-error';
 import { MIN_VERTICES, outlineText, parseOutline, toOutline, toVertices, type Vertex } from './outline-geometry';
 import { OutlineMap, type MapCollar, type MapPlot } from './outline-map';
-import { SetupApi, type Rec } from './setup-api';
+import type { StoredRecord } from '../../../../shared/model/stored-record';
+import { loadedOr } from './resource-value';
+import { SetupApi } from './setup-api';
+
+type Plot = StoredRecord<'plot'>;
 
 /**
  * A plot's outline: drawn on the map (click to add corners, close, drag corners to edit, clear)
@@ -14,7 +19,7 @@ import { SetupApi, type Rec } from './setup-api';
  */
 @Component({
   selector: 'fw-outline-editor',
-  imports: [MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule, OutlineMap],
+  imports: [ReactiveFormsModule, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule, OutlineMap],
   templateUrl: './outline-editor.html',
   styleUrl: './outline-editor.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -22,67 +27,59 @@ import { SetupApi, type Rec } from './setup-api';
 export class OutlineEditor {
   private readonly api = inject(SetupApi);
   readonly siteId = input.required<string>();
-  readonly site = input<Rec | null>(null);
-  readonly plots = input<Rec[]>([]);
-  readonly saved = output<Rec>();
+  readonly site = input<StoredRecord<'site'> | null>(null);
+  readonly plots = input<Plot[]>([]);
+  readonly saved = output<Plot>();
 
   /** Plots as last saved here: the list from the parent may be older than our own PATCH answers. */
-  private readonly savedHere = signal<Map<string, Rec>>(new Map());
+  private readonly savedHere = signal<Map<string, Plot>>(new Map());
   protected readonly allPlots = computed(() => this.plots().map((p) => this.savedHere().get(p.id) ?? p));
   protected readonly plotId = signal<string | null>(null);
   protected readonly plot = computed(() => this.allPlots().find((p) => p.id === this.plotId()) ?? null);
   protected readonly vertices = signal<Vertex[]>([]);
   protected readonly closed = signal(false);
-  protected readonly text = signal('');
+  /** The outline as GeoJSON text: typed by the person, or written here after each change on the map. */
+  protected readonly text = new FormControl('', { nonNullable: true });
   protected readonly errors = signal<string[]>([]);
   protected readonly message = signal('');
   protected readonly busy = signal(false);
-  protected readonly collars = signal<MapCollar[]>([]);
+  /** The site's positioned collars to draw against; without them (a failed load) the outline can still be drawn. */
+  private readonly collarList = resource({
+    params: () => this.siteId(),
+    loader: ({ params: siteId }) => this.api.list('collar', { siteId }),
+  });
+  private readonly collarRows = loadedOr(this.collarList, []);
+  protected readonly collars = computed<MapCollar[]>(() =>
+    this.collarRows().flatMap((c) =>
+      c.latitude !== null && c.longitude !== null ? [{ code: c.code, lat: c.latitude, lng: c.longitude }] : [],
+    ),
+  );
   protected readonly minVertices = MIN_VERTICES;
   protected readonly others = computed<MapPlot[]>(() =>
     this.allPlots()
       .filter((p) => p.id !== this.plotId())
-      .map((p) => ({ code: String(p['code']), vertices: toVertices(p['outline']) })),
+      .map((p) => ({ code: p.code, vertices: toVertices(p.outline) })),
   );
   protected readonly center = computed<Vertex | null>(() => {
     const s = this.site();
-    return typeof s?.['latitude'] === 'number' && typeof s['longitude'] === 'number' ? { lat: s['latitude'], lng: s['longitude'] } : null;
+    return s && s.latitude !== null && s.longitude !== null ? { lat: s.latitude, lng: s.longitude } : null;
   });
-  protected readonly tileUrl = computed(() => (this.site()?.['tileUrl'] as string | null | undefined) ?? null);
-  protected readonly tileAttribution = computed(() => (this.site()?.['tileAttribution'] as string | null | undefined) ?? null);
+  protected readonly tileUrl = computed(() => this.site()?.tileUrl ?? null);
+  protected readonly tileAttribution = computed(() => this.site()?.tileAttribution ?? null);
   /** Save needs a closed outline, or no corners at all (which removes the outline). */
   protected readonly canSave = computed(() => !!this.plot() && (this.closed() || this.vertices().length === 0));
 
-  constructor() {
-    effect(() => {
-      const siteId = this.siteId();
-      void this.loadCollars(siteId);
-    });
-    // A new plot choice shows that plot's saved outline.
-    effect(() => {
-      this.plotId();
-      untracked(() => this.show(this.plot()?.['outline'] ?? null, ''));
-    });
-  }
-
-  private async loadCollars(siteId: string): Promise<void> {
-    try {
-      const rows = await this.api.list('collars', { siteId });
-      this.collars.set(
-        rows
-          .filter((c) => typeof c['latitude'] === 'number' && typeof c['longitude'] === 'number')
-          .map((c) => ({ code: String(c['code']), lat: c['latitude'] as number, lng: c['longitude'] as number })),
-      );
-    } catch {
-      this.collars.set([]); // the outline can be drawn without them
-    }
+  /** A new plot choice shows that plot's saved outline. */
+  protected choosePlot(id: string | null): void {
+    this.plotId.set(id);
+    this.show(this.plot()?.outline ?? null, '');
   }
 
   private show(outline: unknown, message: string): void {
     const v = toVertices(outline);
     this.vertices.set(v);
     this.closed.set(v.length >= MIN_VERTICES);
-    this.text.set(outlineText(toOutline(v)));
+    this.text.setValue(outlineText(toOutline(v)));
     this.errors.set([]);
     this.message.set(message);
   }
@@ -90,7 +87,7 @@ export class OutlineEditor {
   private changed(v: Vertex[], closed: boolean, message: string): void {
     this.vertices.set(v);
     this.closed.set(closed);
-    this.text.set(closed ? outlineText(toOutline(v)) : '');
+    this.text.setValue(closed ? outlineText(toOutline(v)) : '');
     this.errors.set([]);
     this.message.set(message);
   }
@@ -127,7 +124,7 @@ export class OutlineEditor {
   }
 
   protected useText(): void {
-    const parsed = parseOutline(this.text());
+    const parsed = parseOutline(this.text.value);
     if (parsed.errors) {
       this.errors.set(parsed.errors);
       this.message.set('The GeoJSON was not used');
@@ -145,10 +142,10 @@ export class OutlineEditor {
     if (!plot || !this.canSave()) return;
     this.busy.set(true);
     try {
-      const rec = await this.api.update('plots', plot.id, plot.rev, { outline: toOutline(this.vertices()) });
+      const rec = await this.api.update('plot', plot.id, plot.rev, { outline: toOutline(this.vertices()) });
       this.savedHere.update((m) => new Map(m).set(rec.id, rec));
       this.errors.set([]);
-      this.message.set(rec['outline'] ? `Outline of ${String(rec['code'])} saved` : `Outline of ${String(rec['code'])} removed`);
+      this.message.set(rec.outline ? `Outline of ${rec.code} saved` : `Outline of ${rec.code} removed`);
       this.saved.emit(rec);
     } catch (err) {
       this.errors.set(fieldProblems(err).map((p) => `${p.path}: ${p.message}`));

@@ -1,4 +1,6 @@
-import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input, resource, signal } from '@angular/core';
+import { toSignal } from '@angular/core/rxjs-interop';
+import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
@@ -7,30 +9,34 @@ import { MatSelectModule } from '@angular/material/select';
 import { routeFields } from '../../../../shared/model/field-records';
 import { serverMessage } from '../../core/api/api-error';
 import { issuesByField } from './record-fields';
-import { SetupApi, type Rec } from './setup-api';
+import type { StoredRecord } from '../../../../shared/model/stored-record';
+import { loadedOr, loadProblem } from './resource-value';
+import { SetupApi } from './setup-api';
+
+type Route = StoredRecord<'route'>;
 
 /** Routes of a site: the ordered collars a crew walks (leads and admins). */
 @Component({
   selector: 'fw-route-editor',
-  imports: [MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule],
+  imports: [ReactiveFormsModule, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule],
   template: `
     <section aria-labelledby="routes-heading">
       <h3 id="routes-heading">Routes</h3>
       <ul>
         @for (r of routes(); track r.id) {
-          <li><button mat-button type="button" (click)="edit(r)">{{ r['name'] }}</button> · {{ $any(r['collarIds']).length }} collars</li>
+          <li><button mat-button type="button" (click)="edit(r)">{{ r.name }}</button> · {{ r.collarIds.length }} collars</li>
         } @empty { <li>No routes yet.</li> }
       </ul>
-      <form (submit)="$event.preventDefault(); save()" aria-label="Route">
+      <form [formGroup]="form" (ngSubmit)="save()" aria-label="Route">
         <mat-form-field>
           <mat-label>Route name</mat-label>
-          <input matInput [value]="name()" (input)="name.set($any($event.target).value)" />
+          <input matInput formControlName="name" />
           @if (errors()['name']) { <mat-hint class="problem">{{ errors()['name'] }}</mat-hint> }
         </mat-form-field>
         <mat-form-field>
           <mat-label>Add a collar</mat-label>
           <mat-select [value]="null" (valueChange)="addCollar($event)">
-            @for (c of available(); track c.id) { <mat-option [value]="c.id">{{ c['code'] }}</mat-option> }
+            @for (c of available(); track c.id) { <mat-option [value]="c.id">{{ c.code }}</mat-option> }
           </mat-select>
         </mat-form-field>
         <ol class="order" aria-label="Collars in walking order">
@@ -39,7 +45,7 @@ import { SetupApi, type Rec } from './setup-api';
               {{ code(id) }}
               <button mat-icon-button type="button" (click)="move(i, -1)" [disabled]="i === 0" [attr.aria-label]="'Move ' + code(id) + ' up'"><mat-icon aria-hidden="true">arrow_upward</mat-icon></button>
               <button mat-icon-button type="button" (click)="move(i, 1)" [disabled]="i === order().length - 1" [attr.aria-label]="'Move ' + code(id) + ' down'"><mat-icon aria-hidden="true">arrow_downward</mat-icon></button>
-              <button mat-icon-button type="button" (click)="order.set(without(id))" [attr.aria-label]="'Remove ' + code(id)"><mat-icon aria-hidden="true">close</mat-icon></button>
+              <button mat-icon-button type="button" (click)="remove(id)" [attr.aria-label]="'Remove ' + code(id)"><mat-icon aria-hidden="true">close</mat-icon></button>
             </li>
           }
         </ol>
@@ -55,80 +61,79 @@ import { SetupApi, type Rec } from './setup-api';
 export class RouteEditor {
   private readonly api = inject(SetupApi);
   readonly siteId = input.required<string>();
+  /** A new value loads routes and collars again (after an import). */
   readonly reloadToken = input(0);
-  protected readonly routes = signal<Rec[]>([]);
-  protected readonly collars = signal<Rec[]>([]);
-  protected readonly name = signal('');
-  protected readonly order = signal<string[]>([]);
-  protected readonly editing = signal<Rec | null>(null);
+  private readonly lists = resource({
+    params: () => ({ siteId: this.siteId(), reload: this.reloadToken() }),
+    loader: async ({ params: { siteId } }) => {
+      const [routes, collars] = await Promise.all([this.api.list('route', { siteId }), this.api.list('collar', { siteId })]);
+      return { routes, collars };
+    },
+  });
+  private readonly loaded = loadedOr(this.lists, { routes: [], collars: [] });
+  protected readonly routes = computed(() => this.loaded().routes);
+  private readonly collars = computed(() => this.loaded().collars);
+  protected readonly form = new FormGroup({
+    name: new FormControl('', { nonNullable: true }),
+    /** The collars in walking order. */
+    collarIds: new FormControl<string[]>([], { nonNullable: true }),
+  });
+  protected readonly order = toSignal(this.form.controls.collarIds.valueChanges, { initialValue: [] });
+  protected readonly editing = signal<Route | null>(null);
   protected readonly errors = signal<Record<string, string>>({});
-  protected readonly message = signal('');
-  private readonly codes = computed(() => new Map(this.collars().map((c) => [c.id, String(c['code'])])));
+  private readonly saveMessage = signal('');
+  private readonly loadMessage = loadProblem(this.lists, 'Could not load the routes');
+  protected readonly message = computed(() => this.loadMessage() || this.saveMessage());
+  private readonly codes = computed(() => new Map(this.collars().map((c) => [c.id, c.code])));
   protected readonly available = computed(() => this.collars().filter((c) => !this.order().includes(c.id)));
-
-  constructor() {
-    effect(() => {
-      this.reloadToken();
-      void this.load(this.siteId());
-    });
-  }
-
-  private async load(siteId: string): Promise<void> {
-    try {
-      const [routes, collars] = await Promise.all([this.api.list('routes', { siteId }), this.api.list('collars', { siteId })]);
-      this.routes.set(routes);
-      this.collars.set(collars);
-    } catch (err) {
-      this.message.set(serverMessage(err, 'Could not load the routes'));
-    }
-  }
 
   protected code(id: string): string {
     return this.codes().get(id) ?? '(removed collar)';
   }
 
-  protected without(id: string): string[] {
-    return this.order().filter((x) => x !== id);
+  private setOrder(ids: string[]): void {
+    this.form.controls.collarIds.setValue(ids);
+  }
+
+  protected remove(id: string): void {
+    this.setOrder(this.order().filter((x) => x !== id));
   }
 
   protected addCollar(id: string | null): void {
-    if (id) this.order.update((o) => [...o, id]);
+    if (id) this.setOrder([...this.order(), id]);
   }
 
   protected move(i: number, by: number): void {
-    this.order.update((o) => {
-      const next = [...o];
-      [next[i], next[i + by]] = [next[i + by]!, next[i]!];
-      return next;
-    });
+    const next = [...this.order()];
+    [next[i], next[i + by]] = [next[i + by]!, next[i]!];
+    this.setOrder(next);
   }
 
-  protected edit(r: Rec): void {
+  protected edit(r: Route): void {
     this.editing.set(r);
-    this.name.set(String(r['name']));
-    this.order.set([...(r['collarIds'] as string[])]);
+    this.form.setValue({ name: r.name, collarIds: [...r.collarIds] });
   }
 
   protected reset(): void {
     this.editing.set(null);
-    this.name.set('');
-    this.order.set([]);
+    this.form.reset();
   }
 
   protected async save(): Promise<void> {
-    const fields = { siteId: this.siteId(), name: this.name(), collarIds: this.order() };
+    const { name, collarIds } = this.form.getRawValue();
+    const fields = { siteId: this.siteId(), name, collarIds };
     const check = routeFields.safeParse(fields);
     if (!check.success) return this.errors.set(issuesByField(check.error.issues));
     try {
       const current = this.editing();
       const saved = current
-        ? await this.api.update('routes', current.id, current.rev, { name: fields.name, collarIds: fields.collarIds })
-        : await this.api.create('routes', fields);
-      this.routes.update((rs) => [...rs.filter((r) => r.id !== saved.id), saved]);
-      this.message.set(`Route ${String(saved['name'])} saved`);
+        ? await this.api.update('route', current.id, current.rev, { name, collarIds })
+        : await this.api.create('route', fields);
+      this.lists.update((l) => l && { ...l, routes: [...l.routes.filter((r) => r.id !== saved.id), saved] });
+      this.saveMessage.set(`Route ${saved.name} saved`);
       this.reset();
     } catch (err) {
-      this.message.set(serverMessage(err, 'The route was not saved'));
+      this.saveMessage.set(serverMessage(err, 'The route was not saved'));
     }
   }
 }

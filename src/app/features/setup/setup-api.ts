@@ -1,9 +1,12 @@
 import { HttpClient, HttpErrorResponse } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
+import { ENTITY_PATHS, type EntityFields, type EntityName } from '../../../../shared/model/entities';
+import type { StoredRecord } from '../../../../shared/model/stored-record';
 import { RecordsApi } from '../../core/api/records-api';
 
-export type Rec = Record<string, unknown> & { id: string; rev: number };
+/** Fields sent to create or edit a record of E: the shared schema's, any subset (the server fills defaults and checks the whole). */
+export type RecordInput<E extends EntityName> = Partial<EntityFields<E>>;
 
 export interface ImportCellError {
   row: number;
@@ -36,20 +39,22 @@ export class SetupApi {
   private readonly http = inject(HttpClient);
   private readonly records = inject(RecordsApi);
 
-  list(path: string, query: Record<string, string> = {}): Promise<Rec[]> {
-    return this.records.listAt<Rec>(path, query);
+  /** Every record of an entity matching the query (the shared paging loop of RecordsApi). */
+  list<E extends EntityName>(entity: E, query: Record<string, string> = {}): Promise<StoredRecord<E>[]> {
+    return this.records.list(entity, query);
   }
 
-  async create(path: string, fields: Record<string, unknown>): Promise<Rec> {
-    return (await firstValueFrom(this.http.post<{ record: Rec }>(`/api/${path}`, fields))).record;
+  async create<E extends EntityName>(entity: E, fields: RecordInput<E>): Promise<StoredRecord<E>> {
+    return (await firstValueFrom(this.http.post<{ record: StoredRecord<E> }>(`/api/${ENTITY_PATHS[entity]}`, fields))).record;
   }
 
-  async update(path: string, id: string, rev: number, fields: Record<string, unknown>): Promise<Rec> {
-    return (await firstValueFrom(this.http.patch<{ record: Rec }>(`/api/${path}/${id}`, { rev, ...fields }))).record;
+  async update<E extends EntityName>(entity: E, id: string, rev: number, fields: RecordInput<E>): Promise<StoredRecord<E>> {
+    return (await firstValueFrom(this.http.patch<{ record: StoredRecord<E> }>(`/api/${ENTITY_PATHS[entity]}/${id}`, { rev, ...fields })))
+      .record;
   }
 
-  async remove(path: string, id: string, rev: number): Promise<void> {
-    await firstValueFrom(this.http.delete(`/api/${path}/${id}`, { params: { rev: String(rev) } }));
+  async remove(entity: EntityName, id: string, rev: number): Promise<void> {
+    await firstValueFrom(this.http.delete(`/api/${ENTITY_PATHS[entity]}/${id}`, { params: { rev: String(rev) } }));
   }
 
   previewImport(siteId: string, csv: string, mapping: Record<string, string>): Promise<ImportPreview> {
@@ -70,12 +75,10 @@ export class SetupApi {
    * refusal, e.g. planned codes already in use, is shown instead of being saved as the "PDF".
    */
   async blankTags(siteId: string, options: BlankTagOptions): Promise<{ pdf: Blob; fileName: string; count: number }> {
-    const params: Record<string, string> = { paper: options.paper, count: String(options.count) };
-    if (options.codePrefix) {
-      params['codePrefix'] = options.codePrefix;
-      params['firstNumber'] = String(options.firstNumber);
-      params['digits'] = String(options.digits);
-    }
+    const planned: Record<string, string> = options.codePrefix
+      ? { codePrefix: options.codePrefix, firstNumber: String(options.firstNumber), digits: String(options.digits) }
+      : {};
+    const params: Record<string, string> = { paper: options.paper, count: String(options.count), ...planned };
     try {
       const res = await firstValueFrom(
         this.http.get(`/api/sites/${siteId}/blank-collar-tags.pdf`, { params, responseType: 'blob', observe: 'response' }),
@@ -100,9 +103,15 @@ export class SetupApi {
     );
   }
 
-  addProfileVersion(id: string, fields: Record<string, unknown>): Promise<{ record: Rec; recomputed: number; lockedKept: number }> {
+  addProfileVersion(
+    id: string,
+    fields: RecordInput<'chamberProfile'>,
+  ): Promise<{ record: StoredRecord<'chamberProfile'>; recomputed: number; lockedKept: number }> {
     return firstValueFrom(
-      this.http.post<{ record: Rec; recomputed: number; lockedKept: number }>(`/api/chamber-profiles/${id}/versions`, fields),
+      this.http.post<{ record: StoredRecord<'chamberProfile'>; recomputed: number; lockedKept: number }>(
+        `/api/chamber-profiles/${id}/versions`,
+        fields,
+      ),
     );
   }
 

@@ -1,11 +1,11 @@
-import { ChangeDetectionStrategy, Component, computed, effect, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, linkedSignal, resource, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatSelectModule } from '@angular/material/select';
 import { MatTabsModule } from '@angular/material/tabs';
 import { AuthStore } from '../../core/auth/auth-store';
 import { SiteChoice } from '../../core/auth/site-choice';
-import { serverMessage } from '../../core/api/api-error';
+import type { StoredRecord } from '../../../../shared/model/stored-record';
 import { BlankTags } from './blank-tags';
 import { AnalyzerChecks } from './analyzer-checks';
 import { CollarImport } from './collar-import';
@@ -16,8 +16,19 @@ import { ProfileVersion } from './profile-version';
 import type { ColumnDef } from './record-fields';
 import { RecordTable } from './record-table';
 import { RouteEditor } from './route-editor';
-import { SetupApi, type Rec } from './setup-api';
+import { loadedOr, loadProblem } from './resource-value';
+import { SetupApi } from './setup-api';
 import { SiteForm } from './site-form';
+
+/** What the plot, profile, outline and check views choose from; each table loads its own rows as well. */
+interface SiteLayout {
+  blocks: StoredRecord<'block'>[];
+  treatments: StoredRecord<'treatment'>[];
+  plots: StoredRecord<'plot'>[];
+  profiles: StoredRecord<'chamberProfile'>[];
+  analyzers: StoredRecord<'analyzer'>[];
+}
+const NO_LAYOUT: SiteLayout = { blocks: [], treatments: [], plots: [], profiles: [], analyzers: [] };
 
 /** Sites, their layout, people, equipment, routes and collars — for admins (all) and leads (routes, collars, tags). */
 @Component({
@@ -48,17 +59,38 @@ export class Setup {
   private readonly choice = inject(SiteChoice);
 
   protected readonly isAdmin = computed(() => this.auth.roles().includes('admin'));
-  protected readonly sites = signal<Rec[]>([]);
-  protected readonly siteId = signal<string | null>(null);
+  private readonly siteList = resource({ loader: () => this.api.list('site') });
+  protected readonly sites = loadedOr(this.siteList, []);
+  /** The site the person chose here, else the one chosen elsewhere in the app, else the first. */
+  protected readonly siteId = linkedSignal<StoredRecord<'site'>[], string | null>({
+    source: this.sites,
+    computation: (sites, previous) => previous?.value ?? this.choice.current()?.id ?? sites[0]?.id ?? null,
+  });
   protected readonly creating = signal(false);
   protected readonly site = computed(() => this.sites().find((s) => s.id === this.siteId()) ?? null);
-  protected readonly blocks = signal<Rec[]>([]);
-  protected readonly treatments = signal<Rec[]>([]);
-  protected readonly plots = signal<Rec[]>([]);
-  protected readonly profiles = signal<Rec[]>([]);
-  protected readonly analyzers = signal<Rec[]>([]);
+  /** A lookup that fails leaves its list empty: the tables below say what went wrong with their own rows. */
+  protected readonly layout = resource({
+    params: () => this.siteId() ?? undefined,
+    loader: async ({ params: siteId }): Promise<SiteLayout> => {
+      const none = () => [];
+      const [blocks, treatments, plots, profiles, analyzers] = await Promise.all([
+        this.api.list('block', { siteId }).catch(none),
+        this.api.list('treatment', { siteId }).catch(none),
+        this.api.list('plot', { siteId }).catch(none),
+        this.api.list('chamberProfile', { siteId }).catch(none),
+        this.api.list('analyzer', { siteId }).catch(none),
+      ]);
+      return { blocks, treatments, plots, profiles, analyzers };
+    },
+  });
+  private readonly layoutNow = loadedOr(this.layout, NO_LAYOUT);
+  protected readonly blocks = computed(() => this.layoutNow().blocks);
+  protected readonly treatments = computed(() => this.layoutNow().treatments);
+  protected readonly plots = computed(() => this.layoutNow().plots);
+  protected readonly profiles = computed(() => this.layoutNow().profiles);
+  protected readonly analyzers = computed(() => this.layoutNow().analyzers);
   protected readonly collarsVersion = signal(0);
-  protected readonly message = signal('');
+  protected readonly message = loadProblem(this.siteList, 'Could not load the sites');
 
   protected readonly blockColumns: ColumnDef[] = [
     { key: 'code', label: 'Block code', kind: 'text' },
@@ -84,7 +116,7 @@ export class Setup {
       key: 'treatmentId',
       label: 'Treatment',
       kind: 'select',
-      options: () => this.optionsOf(this.treatments().filter((t) => t['level'] === 'plot')),
+      options: () => this.optionsOf(this.treatments().filter((t) => t.level === 'plot')),
     },
   ];
   protected readonly profileColumns: ColumnDef[] = [
@@ -103,38 +135,13 @@ export class Setup {
     { key: 'calibrationIntervalDays', label: 'Calibrate every (days)', kind: 'number' },
   ];
 
-  constructor() {
-    void this.loadSites();
-    effect(() => {
-      const id = this.siteId();
-      if (id) void this.loadLayout(id);
-    });
+  private optionsOf(rows: { id: string; code: string }[]) {
+    return [{ value: null, label: '(none)' }, ...rows.map((r) => ({ value: r.id, label: r.code }))];
   }
 
-  private optionsOf(rows: Rec[]) {
-    return [{ value: null, label: '(none)' }, ...rows.map((r) => ({ value: r.id, label: String(r['code']) }))];
-  }
-
-  private async loadSites(): Promise<void> {
-    try {
-      const sites = await this.api.list('sites');
-      this.sites.set(sites);
-      if (!this.siteId()) this.siteId.set(this.choice.current()?.id ?? sites[0]?.id ?? null);
-    } catch (err) {
-      this.message.set(serverMessage(err, 'Could not load the sites'));
-    }
-  }
-
-  /** Lists the plot, profile, outline and check views choose from; each table loads its own rows as well. */
-  protected async loadLayout(siteId: string): Promise<void> {
-    const [blocks, treatments, plots, profiles, analyzers] = await Promise.all(
-      ['blocks', 'treatments', 'plots', 'chamber-profiles', 'analyzers'].map((p) => this.api.list(p, { siteId }).catch(() => [] as Rec[])),
-    );
-    this.blocks.set(blocks!);
-    this.treatments.set(treatments!);
-    this.plots.set(plots!);
-    this.profiles.set(profiles!);
-    this.analyzers.set(analyzers!);
+  /** The lists above again, after a table or form below changed them. */
+  protected reloadLayout(): void {
+    this.layout.reload();
   }
 
   protected chooseSite(id: string): void {
@@ -143,10 +150,8 @@ export class Setup {
     this.choice.choose(id);
   }
 
-  protected async siteSaved(rec: Rec): Promise<void> {
-    this.sites.update((all) =>
-      [...all.filter((s) => s.id !== rec.id), rec].sort((a, b) => String(a['name']).localeCompare(String(b['name']))),
-    );
+  protected async siteSaved(rec: StoredRecord<'site'>): Promise<void> {
+    this.siteList.set([...this.sites().filter((s) => s.id !== rec.id), rec].sort((a, b) => a.name.localeCompare(b.name)));
     this.creating.set(false);
     this.siteId.set(rec.id);
     await this.auth.refresh(); // the user menu's site list

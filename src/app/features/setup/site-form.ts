@@ -1,37 +1,80 @@
-import { ChangeDetectionStrategy, Component, computed, inject, input, linkedSignal, output, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, input, output, signal, untracked } from '@angular/core';
+import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MAT_FORM_FIELD_DEFAULT_OPTIONS, MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
-import { DEFAULT_SITE_AIR_TEMP_C } from '../../../../shared/flux/chamber-air-temperature';
 import { pressureFromElevationKpa } from '../../../../shared/flux/standard-atmosphere';
-import { DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT } from '../../../../shared/model/calibration';
-import { siteFields, siteProbeDepth } from '../../../../shared/model/site-layout';
+import type { EntityFields } from '../../../../shared/model/entities';
+import { siteFields } from '../../../../shared/model/site-layout';
+import type { StoredRecord } from '../../../../shared/model/stored-record';
 import { fieldProblems, serverMessage } from '../../core/api/api-error';
 import { issuesByField } from './record-fields';
-import { SetupApi, type Rec } from './setup-api';
+import { formValue } from './form-value';
+import { SetupApi, type RecordInput } from './setup-api';
 
-type Draft = Partial<Record<string, string>>;
+type Site = EntityFields<'site'>;
 
-const NUMBER_FIELDS = [
-  'elevationM',
-  'latitude',
-  'longitude',
-  'tempDepthCm',
-  'tempDepthToleranceCm',
-  'settlingDaysHard',
-  'settlingDaysWarn',
-  'offsetSpreadPct',
-  'offsetMoveCm',
-  'leakSlopeUmolMolS',
-  'ambientMarginPpm',
-  'calibrationDriftLimitPct',
-  'defaultAirTempC',
-] as const;
-const NULLABLE = new Set(['elevationM', 'latitude', 'longitude', 'tileUrl', 'tileAttribution']);
+/** Number fields a site must have: left empty, the stored value (or, for a new site, the schema's default) stays. */
+type ThresholdKey =
+  | 'tempDepthCm'
+  | 'tempDepthToleranceCm'
+  | 'settlingDaysHard'
+  | 'settlingDaysWarn'
+  | 'offsetSpreadPct'
+  | 'offsetMoveCm'
+  | 'leakSlopeUmolMolS'
+  | 'ambientMarginPpm'
+  | 'calibrationDriftLimitPct'
+  | 'defaultAirTempC';
+
+/** One value per threshold, made by `make`. */
+function thresholdsOf<T>(make: (key: ThresholdKey) => T): Record<ThresholdKey, T> {
+  return {
+    tempDepthCm: make('tempDepthCm'),
+    tempDepthToleranceCm: make('tempDepthToleranceCm'),
+    settlingDaysHard: make('settlingDaysHard'),
+    settlingDaysWarn: make('settlingDaysWarn'),
+    offsetSpreadPct: make('offsetSpreadPct'),
+    offsetMoveCm: make('offsetMoveCm'),
+    leakSlopeUmolMolS: make('leakSlopeUmolMolS'),
+    ambientMarginPpm: make('ambientMarginPpm'),
+    calibrationDriftLimitPct: make('calibrationDriftLimitPct'),
+    defaultAirTempC: make('defaultAirTempC'),
+  };
+}
+
+/** What a new site starts with: the shared schema's defaults (name, zone and elevation are the person's to give). */
+const NEW_SITE: Omit<Site, 'name' | 'timezone' | 'elevationM'> = siteFields
+  .omit({ name: true, timezone: true, elevationM: true })
+  .parse({});
+
+const text = (value = '') => new FormControl(value, { nonNullable: true });
+const num = () => new FormControl<number | null>(null);
+
+function siteForm() {
+  return new FormGroup({
+    name: text(),
+    timezone: text(),
+    elevationM: num(),
+    latitude: num(),
+    longitude: num(),
+    safetyNote: text(),
+    calibration: new FormControl<'topp' | 'polynomial'>('topp', { nonNullable: true }),
+    coefficients: text(),
+    validMin: num(),
+    validMax: num(),
+    slopeBasis: new FormControl<Site['slopeBasis']>('closure', { nonNullable: true }),
+    ...thresholdsOf(num),
+    digestLocalTime: text(),
+    tileUrl: text(),
+    tileAttribution: text(),
+  });
+}
+type SiteFormValue = ReturnType<ReturnType<typeof siteForm>['getRawValue']>;
 
 /** Thresholds of the site, with the unit each is entered in and, where it helps, what it does. */
-export const THRESHOLDS: readonly { key: (typeof NUMBER_FIELDS)[number]; label: string; unit: string; hint?: string }[] = [
+export const THRESHOLDS: readonly { key: ThresholdKey; label: string; unit: string; hint?: string }[] = [
   { key: 'settlingDaysHard', label: 'Settling days (refuse before)', unit: 'days' },
   { key: 'settlingDaysWarn', label: 'Settling days (warn before)', unit: 'days' },
   { key: 'offsetSpreadPct', label: 'Offset spread', unit: '%' },
@@ -52,7 +95,7 @@ export const THRESHOLDS: readonly { key: (typeof NUMBER_FIELDS)[number]; label: 
 /** Creates or edits a site; checked with the shared site schema before it is sent. */
 @Component({
   selector: 'fw-site-form',
-  imports: [MatFormFieldModule, MatInputModule, MatSelectModule, MatButtonModule],
+  imports: [ReactiveFormsModule, MatFormFieldModule, MatInputModule, MatSelectModule, MatButtonModule],
   // Hints and errors here run to two lines in a narrow field: the field grows with them instead of
   // letting them slide under the next field.
   providers: [{ provide: MAT_FORM_FIELD_DEFAULT_OPTIONS, useValue: { subscriptSizing: 'dynamic' } }],
@@ -62,28 +105,36 @@ export const THRESHOLDS: readonly { key: (typeof NUMBER_FIELDS)[number]; label: 
 })
 export class SiteForm {
   private readonly api = inject(SetupApi);
-  readonly site = input<Rec | null>(null);
-  readonly saved = output<Rec>();
+  readonly site = input<StoredRecord<'site'> | null>(null);
+  readonly saved = output<StoredRecord<'site'>>();
 
   protected readonly thresholds = THRESHOLDS;
-  /** The form's values: the site's own, until the person types; a different site starts them afresh. */
-  protected readonly draft = linkedSignal<Draft>(() => toDraft(this.site()));
+  protected readonly form = siteForm();
+  private readonly value = formValue(this.form);
   protected readonly errors = signal<Record<string, string>>({});
   protected readonly message = signal('');
   protected readonly busy = signal(false);
+  protected readonly polynomial = computed(() => this.value().calibration === 'polynomial');
   /** US Standard Atmosphere 1976 pressure at the elevation: what closures without a pressure series use. */
   protected readonly defaultPressure = computed(() => {
-    const raw = this.draft()['elevationM'] ?? '';
-    const kpa = raw.trim() === '' ? NaN : pressureFromElevationKpa(Number(raw));
+    const elevation = this.value().elevationM;
+    const kpa = elevation === null ? NaN : pressureFromElevationKpa(elevation);
     return Number.isFinite(kpa) ? kpa.toFixed(2) : null;
   });
 
-  protected set(key: string, value: string): void {
-    this.draft.update((d) => ({ ...d, [key]: value }));
+  constructor() {
+    // Fills the form (reactive forms hold their own state) with the site shown; another site starts it afresh.
+    effect(() => {
+      const site = this.site();
+      untracked(() => {
+        this.form.reset(valuesOf(site));
+        this.errors.set({});
+      });
+    });
   }
 
   protected async save(): Promise<void> {
-    const fields = fromDraft(this.draft());
+    const fields = siteInput(this.form.getRawValue());
     const check = siteFields.safeParse(fields);
     if (!check.success) {
       this.errors.set(issuesByField(check.error.issues));
@@ -93,7 +144,7 @@ export class SiteForm {
     this.busy.set(true);
     try {
       const current = this.site();
-      const rec = current ? await this.api.update('sites', current.id, current.rev, fields) : await this.api.create('sites', fields);
+      const rec = current ? await this.api.update('site', current.id, current.rev, fields) : await this.api.create('site', fields);
       this.errors.set({});
       this.message.set(current ? 'Site saved' : 'Site created');
       this.saved.emit(rec);
@@ -106,68 +157,56 @@ export class SiteForm {
   }
 }
 
-function toDraft(site: Rec | null): Draft {
-  const s = (site ?? {}) as Record<string, unknown>;
-  const str = (v: unknown, d = '') => (v === null || v === undefined ? d : String(v));
-  const cal = (s['moistureCalibration'] ?? { kind: 'topp' }) as {
-    kind: string;
-    coefficients?: number[];
-    validMin?: number | null;
-    validMax?: number | null;
-  };
+/** The form's values for a site; a new site takes the schema's defaults and the device's time zone. */
+function valuesOf(stored: StoredRecord<'site'> | null): SiteFormValue {
+  // A copy stored before a field existed lacks it: the schema's default shows, as the server would fill it.
+  const site = { ...NEW_SITE, name: '', timezone: Intl.DateTimeFormat().resolvedOptions().timeZone, elevationM: null, ...stored };
+  const cal = site.moistureCalibration;
   return {
-    name: str(s['name']),
-    timezone: str(s['timezone'], Intl.DateTimeFormat().resolvedOptions().timeZone),
-    elevationM: str(s['elevationM']),
-    latitude: str(s['latitude']),
-    longitude: str(s['longitude']),
-    safetyNote: str(s['safetyNote']),
+    name: site.name,
+    timezone: site.timezone,
+    elevationM: site.elevationM,
+    latitude: site.latitude,
+    longitude: site.longitude,
+    safetyNote: site.safetyNote,
     calibration: cal.kind,
-    coefficients: (cal.coefficients ?? []).join(', '),
-    validMin: str(cal.validMin),
-    validMax: str(cal.validMax),
-    tempDepthCm: str(s['tempDepthCm'], '5'),
-    tempDepthToleranceCm: str(s['tempDepthToleranceCm'], String(siteProbeDepth.parse({}).tempDepthToleranceCm)),
-    settlingDaysHard: str(s['settlingDaysHard'], '1'),
-    settlingDaysWarn: str(s['settlingDaysWarn'], '7'),
-    offsetSpreadPct: str(s['offsetSpreadPct'], '3'),
-    offsetMoveCm: str(s['offsetMoveCm'], '1'),
-    leakSlopeUmolMolS: str(s['leakSlopeUmolMolS'], '0.05'),
-    ambientMarginPpm: str(s['ambientMarginPpm'], '100'),
-    slopeBasis: str(s['slopeBasis'], 'closure'),
-    calibrationDriftLimitPct: str(s['calibrationDriftLimitPct'], String(DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT)),
-    digestLocalTime: str(s['digestLocalTime'], '18:00'),
-    defaultAirTempC: str(s['defaultAirTempC'], String(DEFAULT_SITE_AIR_TEMP_C)),
-    tileUrl: str(s['tileUrl']),
-    tileAttribution: str(s['tileAttribution']),
+    coefficients: cal.kind === 'polynomial' ? cal.coefficients.join(', ') : '',
+    validMin: cal.kind === 'polynomial' ? cal.validMin : null,
+    validMax: cal.kind === 'polynomial' ? cal.validMax : null,
+    slopeBasis: site.slopeBasis,
+    ...thresholdsOf((k) => site[k]),
+    digestLocalTime: site.digestLocalTime,
+    tileUrl: site.tileUrl ?? '',
+    tileAttribution: site.tileAttribution ?? '',
   };
 }
 
-function fromDraft(d: Draft): Record<string, unknown> {
-  const out: Record<string, unknown> = {
-    name: d['name'] ?? '',
-    timezone: d['timezone'] ?? '',
-    safetyNote: d['safetyNote'] ?? '',
-    digestLocalTime: d['digestLocalTime'] ?? '',
-    slopeBasis: d['slopeBasis'] || 'closure',
+/** The fields sent: an emptied threshold is left out (the stored value stays), empty optional texts are null. */
+function siteInput(v: SiteFormValue): RecordInput<'site'> {
+  const blankToNull = (s: string) => (s.trim() === '' ? null : s);
+  return {
+    name: v.name,
+    timezone: v.timezone,
+    elevationM: v.elevationM,
+    latitude: v.latitude,
+    longitude: v.longitude,
+    safetyNote: v.safetyNote,
+    slopeBasis: v.slopeBasis,
+    ...thresholdsOf((k) => v[k] ?? undefined),
+    digestLocalTime: v.digestLocalTime,
+    tileUrl: blankToNull(v.tileUrl),
+    tileAttribution: blankToNull(v.tileAttribution),
+    moistureCalibration:
+      v.calibration === 'polynomial'
+        ? {
+            kind: 'polynomial',
+            coefficients: v.coefficients
+              .split(/[,;\s]+/)
+              .filter(Boolean)
+              .map(Number),
+            validMin: v.validMin,
+            validMax: v.validMax,
+          }
+        : { kind: 'topp' },
   };
-  for (const k of NUMBER_FIELDS) {
-    const raw = (d[k] ?? '').trim();
-    out[k] = raw === '' ? (NULLABLE.has(k) ? null : undefined) : Number(raw);
-  }
-  for (const k of ['tileUrl', 'tileAttribution']) out[k] = (d[k] ?? '').trim() === '' ? null : d[k];
-  const num = (s: string | undefined) => ((s ?? '').trim() === '' ? null : Number(s));
-  out['moistureCalibration'] =
-    d['calibration'] === 'polynomial'
-      ? {
-          kind: 'polynomial',
-          coefficients: (d['coefficients'] ?? '')
-            .split(/[,;\s]+/)
-            .filter(Boolean)
-            .map(Number),
-          validMin: num(d['validMin']),
-          validMax: num(d['validMax']),
-        }
-      : { kind: 'topp' };
-  return out;
 }
