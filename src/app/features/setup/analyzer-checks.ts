@@ -80,6 +80,13 @@ function fileOf(a: StoredRecord<'attachment'> | undefined): CheckFile | null {
   return a ? { id: a.id, name: a.fileName || 'file', uploaded: Boolean(a.objectKey) } : null;
 }
 
+/** What a column sorts by: ISO-8601 UTC strings sort as times, words without case. */
+function sortKey(r: CheckRow, column: string): string {
+  if (column === 'at') return r.at;
+  const words = column === 'kind' ? r.kind : column === 'who' ? r.who : column === 'outcome' ? r.outcome : (r.file?.name ?? '');
+  return words.toLowerCase();
+}
+
 /** An analyzer's check records (calibration, leak, ambient, clock, warm-up): kind, when, who, the result and the file it was read from. */
 @Component({
   selector: 'fw-analyzer-checks',
@@ -209,8 +216,7 @@ export class AnalyzerChecks {
       this.data.sort = this.sort() ?? null;
       this.data.paginator = this.paginator() ?? null;
     });
-    // ISO-8601 UTC strings sort as times.
-    this.data.sortingDataAccessor = (r, key) => (key === 'at' ? r.at : String(r[key as keyof CheckRow]).toLowerCase());
+    this.data.sortingDataAccessor = sortKey;
   }
 
   /** Sends a calibration of the chosen analyzer to the server; the list shows it once stored. */

@@ -1,4 +1,5 @@
 import { ChangeDetectionStrategy, Component, computed, inject, input, output, signal } from '@angular/core';
+import { FormControl, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
@@ -12,13 +13,22 @@ interface Grid {
   rows: string[][];
 }
 
+/** A cell the check named, as a field to fix it in: it starts with the file's value. */
+interface CellFix {
+  row: number;
+  column: string;
+  control: FormControl<string>;
+}
+
+const cellKey = (row: number, column: string) => JSON.stringify([row, column]);
+
 /**
  * Collar import in three steps: choose a file, check it (column mapping and every row's errors,
  * nothing stored), fix the cells the check named right here, then import all rows or none.
  */
 @Component({
   selector: 'fw-collar-import',
-  imports: [MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule],
+  imports: [ReactiveFormsModule, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule],
   templateUrl: './collar-import.html',
   styleUrl: './collar-import.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -32,6 +42,8 @@ export class CollarImport {
   protected readonly grid = signal<Grid | null>(null);
   protected readonly mapping = signal<Record<string, string>>({});
   protected readonly preview = signal<ImportPreview | null>(null);
+  /** The named cells' fields, by row and column; what is typed goes into the file sent with the next check or the import. */
+  private readonly fixes = signal<Map<string, CellFix>>(new Map());
   protected readonly message = signal('');
   protected readonly busy = signal(false);
   protected readonly badRows = computed(() => this.preview()?.rows.filter((r) => r.errors.length) ?? []);
@@ -46,6 +58,7 @@ export class CollarImport {
     if (!file) return;
     this.fileName.set(file.name);
     this.preview.set(null);
+    this.fixes.set(new Map());
     this.mapping.set({});
     // Same parser and options as the server, so row numbers agree.
     const res = Papa.parse<string[]>((await file.text()).replace(/^\uFEFF/, ''), { skipEmptyLines: 'greedy' });
@@ -54,15 +67,43 @@ export class CollarImport {
     await this.check();
   }
 
+  /** The file as it will be sent: the chosen file with the fixes typed so far. */
   protected csv(): string {
-    const g = this.grid();
+    const g = this.fixedGrid();
     return g ? Papa.unparse([g.headers, ...g.rows]) : '';
+  }
+
+  private fixedGrid(): Grid | null {
+    const g = this.grid();
+    if (!g) return null;
+    const rows = g.rows.map((r) => [...r]);
+    for (const f of this.fixes().values()) {
+      const [j, cells] = [g.headers.indexOf(f.column), rows[f.row - 2]];
+      if (j >= 0 && cells) cells[j] = f.control.value;
+    }
+    return { ...g, rows };
+  }
+
+  /** A field for each cell the check named that is in the file (a missing column cannot be fixed here). */
+  private fixesFor(p: ImportPreview, g: Grid | null): Map<string, CellFix> {
+    const out = new Map<string, CellFix>();
+    for (const r of p.rows)
+      for (const e of r.errors) {
+        const j = g?.headers.indexOf(e.column) ?? -1;
+        if (j < 0) continue;
+        const control = new FormControl(g!.rows[r.row - 2]?.[j] ?? '', { nonNullable: true });
+        out.set(cellKey(r.row, e.column), { row: r.row, column: e.column, control });
+      }
+    return out;
   }
 
   protected async check(): Promise<void> {
     this.busy.set(true);
     try {
+      const grid = this.fixedGrid();
       const p = await this.api.previewImport(this.siteId(), this.csv(), this.mapping());
+      this.grid.set(grid);
+      this.fixes.set(this.fixesFor(p, grid));
       this.preview.set(p);
       this.mapping.set(p.mapping);
       this.message.set(
@@ -81,23 +122,8 @@ export class CollarImport {
     this.mapping.update((m) => ({ ...m, [target]: header }));
   }
 
-  protected cell(row: number, column: string): string {
-    const g = this.grid();
-    const j = g?.headers.indexOf(column) ?? -1;
-    return j < 0 ? '' : (g!.rows[row - 2]?.[j] ?? '');
-  }
-
-  protected editable(column: string): boolean {
-    return (this.grid()?.headers.indexOf(column) ?? -1) >= 0;
-  }
-
-  protected fixCell(row: number, column: string, value: string): void {
-    this.grid.update((g) => {
-      if (!g) return g;
-      const j = g.headers.indexOf(column);
-      const rows = g.rows.map((r, i) => (i === row - 2 ? r.map((c, k) => (k === j ? value : c)) : r));
-      return { ...g, rows };
-    });
+  protected fix(row: number, column: string): CellFix | undefined {
+    return this.fixes().get(cellKey(row, column));
   }
 
   protected async commit(): Promise<void> {
@@ -107,6 +133,7 @@ export class CollarImport {
       this.message.set(`Imported ${res.created} collars.`);
       this.preview.set(null);
       this.grid.set(null);
+      this.fixes.set(new Map());
       this.imported.emit(res.created);
     } catch (err) {
       this.message.set(serverMessage(err, 'Nothing was imported'));

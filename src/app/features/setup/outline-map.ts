@@ -72,6 +72,7 @@ export class OutlineMap {
       this.drawContext();
       this.drawShape();
     });
+    // These only draw into the Leaflet map (not a signal API) whenever the layout or the outline changes.
     effect(() => this.drawContext());
     effect(() => this.drawShape());
   }

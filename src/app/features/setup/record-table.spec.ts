@@ -73,3 +73,36 @@ describe('RecordTable', () => {
     expect(await (await loader.getHarness(MatPaginatorHarness)).getRangeLabel()).toBe('1 – 10 of 10');
   });
 });
+
+describe('RecordTable: adding a row', () => {
+  it('when a select is left alone, then the default given to the table is sent, not "none"; the typed fields are sent as their types', async () => {
+    TestBed.configureTestingModule({ imports: [RecordTable], providers: [provideHttpClient(), provideHttpClientTesting()] });
+    const fixture = TestBed.createComponent(RecordTable);
+    fixture.componentRef.setInput('entity', 'treatment');
+    fixture.componentRef.setInput('title', 'Treatments');
+    fixture.componentRef.setInput('siteId', SITE);
+    fixture.componentRef.setInput('columns', [
+      { key: 'code', label: 'Treatment code', kind: 'text' },
+      {
+        key: 'level',
+        label: 'Applied to',
+        kind: 'select',
+        options: () => [
+          { value: 'plot', label: 'Whole plots' },
+          { value: 'collar', label: 'Single collars' },
+        ],
+      },
+    ] satisfies ColumnDef[]);
+    fixture.componentRef.setInput('defaults', { level: 'plot' });
+    fixture.detectChanges();
+    const backend = TestBed.inject(HttpTestingController);
+    backend.expectOne((r) => r.url === '/api/treatments').flush({ items: [], total: 0, limit: 1000, offset: 0 });
+    await fixture.whenStable();
+    const loader = TestbedHarnessEnvironment.loader(fixture);
+    const code = await loader.getHarness(MatFormFieldHarness.with({ floatingLabelText: 'Treatment code' }));
+    await ((await code.getControl(MatInputHarness)) as MatInputHarness).setValue('TR');
+    (fixture.nativeElement as HTMLElement).querySelector<HTMLFormElement>('form.add-row')!.dispatchEvent(new Event('submit'));
+    const post = backend.expectOne((r) => r.method === 'POST' && r.url === '/api/treatments');
+    expect(post.request.body).toEqual({ level: 'plot', siteId: SITE, code: 'TR' });
+  });
+});

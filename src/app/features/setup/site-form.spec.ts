@@ -89,3 +89,58 @@ describe('SiteForm: soil temperature depth tolerance', () => {
     backend.expectNone((r) => r.url === `/api/sites/${SITE.id}`);
   });
 });
+
+describe('SiteForm: values the person leaves alone', () => {
+  const fieldNamed = (el: HTMLElement, label: string) =>
+    [...el.querySelectorAll('mat-form-field')].find((f) => f.querySelector('mat-label')?.textContent?.trim().startsWith(label))!;
+
+  it('when a new site is made, then the fields start at the shared schema defaults and those are what is sent', async () => {
+    TestBed.configureTestingModule({ imports: [SiteForm], providers: [provideHttpClient(), provideHttpClientTesting()] });
+    const fixture = TestBed.createComponent(SiteForm);
+    fixture.detectChanges();
+    await fixture.whenStable();
+    const el = fixture.nativeElement as HTMLElement;
+    const input = (label: string) => fieldNamed(el, label).querySelector('input')!;
+    // Defaults of siteFields (shared/model/site-layout.ts): 5 cm depth, ±1 cm, digest at 18:00.
+    expect([input('Soil temperature depth for responses').value, input('Daily digest').value]).toEqual(['5', '18:00']);
+    for (const [label, value] of [
+      ['Site name', 'Fen edge'],
+      ['Time zone', 'Europe/Berlin'],
+      ['Elevation', '120'],
+    ]) {
+      input(label!).value = value!;
+      input(label!).dispatchEvent(new Event('input'));
+    }
+    el.querySelector('form')!.dispatchEvent(new Event('submit'));
+    const req = TestBed.inject(HttpTestingController).expectOne((r) => r.url === '/api/sites');
+    expect(req.request.method).toBe('POST');
+    expect(req.request.body).toMatchObject({
+      name: 'Fen edge',
+      timezone: 'Europe/Berlin',
+      elevationM: 120,
+      latitude: null,
+      tempDepthCm: 5,
+      tempDepthToleranceCm: 1,
+      settlingDaysWarn: 7,
+      digestLocalTime: '18:00',
+      slopeBasis: 'closure',
+      moistureCalibration: { kind: 'topp' },
+      tileUrl: null,
+    });
+  });
+
+  it('when a threshold is emptied, then it is left out of the edit (the stored value stays) and an emptied latitude is sent as none', async () => {
+    const { fixture, backend } = await formOf({ ...SITE, latitude: 50.9, settlingDaysWarn: 10 });
+    const el = fixture.nativeElement as HTMLElement;
+    for (const label of ['Settling days (warn before)', 'Latitude']) {
+      const input = fieldNamed(el, label).querySelector('input')!;
+      input.value = '';
+      input.dispatchEvent(new Event('input'));
+    }
+    el.querySelector('form')!.dispatchEvent(new Event('submit'));
+    // As sent over the wire (JSON), where a field without a value is left out.
+    const body: unknown = JSON.parse(JSON.stringify(backend.expectOne((r) => r.url === `/api/sites/${SITE.id}`).request.body));
+    expect(body).not.toHaveProperty('settlingDaysWarn');
+    expect(body).toMatchObject({ rev: 3, latitude: null, settlingDaysHard: 1 });
+  });
+});

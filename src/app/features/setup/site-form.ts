@@ -64,7 +64,7 @@ function siteForm() {
     coefficients: text(),
     validMin: num(),
     validMax: num(),
-    slopeBasis: new FormControl<Site['slopeBasis']>('closure', { nonNullable: true }),
+    slopeBasis: new FormControl(NEW_SITE.slopeBasis, { nonNullable: true }),
     ...thresholdsOf(num),
     digestLocalTime: text(),
     tileUrl: text(),
