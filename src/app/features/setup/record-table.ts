@@ -103,11 +103,6 @@ export class RecordTable {
     };
   }
 
-  /** Loads the rows again (e.g. after another tab changed them). */
-  reload(): void {
-    this.list.reload();
-  }
-
   protected display(r: Row, c: ColumnDef): string {
     const v = fieldOf(r, c.key);
     if (c.kind === 'select') return c.options().find((o) => o.value === v)?.label ?? '';
