@@ -1,5 +1,5 @@
 import { ChangeDetectionStrategy, Component, computed, inject, input, output, signal } from '@angular/core';
-import { FormControl, ReactiveFormsModule } from '@angular/forms';
+import { FormControl, FormRecord, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
@@ -40,7 +40,11 @@ export class CollarImport {
 
   protected readonly fileName = signal('');
   protected readonly grid = signal<Grid | null>(null);
-  protected readonly mapping = signal<Record<string, string>>({});
+  /**
+   * Which header each import field reads ('' = not in the file), starting from what the last check resolved. A field
+   * the check left out is sent only once the person sets it: left out, the server guesses it from the headers.
+   */
+  protected readonly columns = signal(new FormRecord<FormControl<string>>({}));
   protected readonly preview = signal<ImportPreview | null>(null);
   /** The named cells' fields, by row and column; what is typed goes into the file sent with the next check or the import. */
   private readonly fixes = signal<Map<string, CellFix>>(new Map());
@@ -59,7 +63,7 @@ export class CollarImport {
     this.fileName.set(file.name);
     this.preview.set(null);
     this.fixes.set(new Map());
-    this.mapping.set({});
+    this.columns.set(new FormRecord({}));
     // Same parser and options as the server, so row numbers agree.
     const res = Papa.parse<string[]>((await file.text()).replace(/^\uFEFF/, ''), { skipEmptyLines: 'greedy' });
     const [headers = [], ...rows] = res.data;
@@ -105,7 +109,11 @@ export class CollarImport {
       this.grid.set(grid);
       this.fixes.set(this.fixesFor(p, grid));
       this.preview.set(p);
-      this.mapping.set(p.mapping);
+      this.columns.set(
+        new FormRecord(
+          Object.fromEntries(Object.keys(p.targets).map((t) => [t, new FormControl(p.mapping[t] ?? '', { nonNullable: true })])),
+        ),
+      );
       this.message.set(
         p.errorRows || p.fileErrors.length
           ? `${p.errorRows} of ${p.rows.length} rows need a fix${p.fileErrors.length ? `; ${p.fileErrors.length} problem(s) with the file` : ''}. Nothing was stored.`
@@ -118,8 +126,16 @@ export class CollarImport {
     }
   }
 
-  protected mapTo(target: string, header: string): void {
-    this.mapping.update((m) => ({ ...m, [target]: header }));
+  /** The mapping sent: what the last check resolved, and every field the person set. */
+  private mapping(): Record<string, string> {
+    const resolved = this.preview()?.mapping ?? {};
+    return Object.fromEntries(
+      Object.entries(this.columns().controls).flatMap(([target, c]) => (target in resolved || c.dirty ? [[target, c.value]] : [])),
+    );
+  }
+
+  protected column(target: string): FormControl<string> {
+    return this.columns().controls[target]!;
   }
 
   protected fix(row: number, column: string): CellFix | undefined {
