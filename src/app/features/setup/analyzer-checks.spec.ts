@@ -1,5 +1,5 @@
 import { provideHttpClient } from '@angular/common/http';
-import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { HttpTestingController, provideHttpClientTesting, type TestRequest } from '@angular/common/http/testing';
 import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
 import { TestBed } from '@angular/core/testing';
 import { MatButtonHarness } from '@angular/material/button/testing';
@@ -41,6 +41,19 @@ const LEAK_FILE = {
   mediaType: 'text/csv',
   objectKey: 'sites/x/attachments/f',
 };
+
+/**
+ * The one open request that matches, waited for: a list loaded again after a save is asked for at
+ * the next change detection, a turn or more after the save's answer.
+ */
+async function nextRequest(backend: HttpTestingController, url: string): Promise<TestRequest> {
+  for (let i = 0; i < 100; i++) {
+    const [req] = backend.match((r) => r.method === 'GET' && r.url === url);
+    if (req) return req;
+    await new Promise((r) => setTimeout(r, 0));
+  }
+  throw new Error(`no request for ${url}`);
+}
 
 async function checksOf() {
   TestBed.configureTestingModule({ imports: [AnalyzerChecks], providers: [provideHttpClient(), provideHttpClientTesting()] });
@@ -91,11 +104,10 @@ describe('AnalyzerChecks', () => {
     // A plain click: a harness click waits for the page to settle, which it does only once the requests below are answered.
     [...document.querySelectorAll<HTMLElement>('mat-option')].find((o) => o.textContent?.includes('Field unit 2'))!.click();
     fixture.detectChanges();
-    await new Promise((r) => setTimeout(r, 0));
-    const req = backend.expectOne((r) => r.url === '/api/analyzer-checks');
+    const req = await nextRequest(backend, '/api/analyzer-checks');
     expect(req.request.params.get('analyzerId')).toBe(A2.id);
     req.flush({ items: [], total: 0, limit: 1000, offset: 0 });
-    backend.expectOne((r) => r.url === '/api/attachments').flush({ items: [], total: 0, limit: 1000, offset: 0 });
+    (await nextRequest(backend, '/api/attachments')).flush({ items: [], total: 0, limit: 1000, offset: 0 });
     await new Promise((r) => setTimeout(r, 0));
     await fixture.whenStable();
     expect(await grid.getRows()).toHaveLength(0);
@@ -142,9 +154,8 @@ describe('AnalyzerChecks', () => {
     });
     const stored = check(4, { ...post.request.body, zeroDriftPpm: 3, driftPpm: -10, passed: true });
     post.flush({ record: stored });
-    await new Promise((r) => setTimeout(r, 0));
-    backend.expectOne((r) => r.url === '/api/analyzer-checks').flush({ items: [stored, ...A1_CHECKS], total: 4, limit: 1000, offset: 0 });
-    backend.expectOne((r) => r.url === '/api/attachments').flush({ items: [], total: 0, limit: 1000, offset: 0 });
+    (await nextRequest(backend, '/api/analyzer-checks')).flush({ items: [stored, ...A1_CHECKS], total: 4, limit: 1000, offset: 0 });
+    (await nextRequest(backend, '/api/attachments')).flush({ items: [], total: 0, limit: 1000, offset: 0 });
     await new Promise((r) => setTimeout(r, 0));
     await fixture.whenStable();
     expect((await grid.getCellTextByIndex())[0]).toEqual([
