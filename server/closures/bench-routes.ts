@@ -3,6 +3,7 @@ import { z } from 'zod';
 import type { Role } from '../../shared/auth/roles';
 import { notFound } from '../core/errors';
 import type { RouteRegistry } from '../core/route-registry';
+import { queueFilterSchema } from '../../shared/bench/review-wire';
 import { excludePointsSchema, restorePointsSchema } from '../../shared/model/point-exclusion';
 import { parse } from '../core/validate';
 import { answer } from '../records/record-routes';
@@ -13,7 +14,7 @@ import { closureHistory } from './closure-history';
 import { changeExclusions } from './point-exclusions';
 import { moveClosure, moveClosureSchema } from './closure-move';
 import { defineRecomputeJob, requestSiteRecompute } from './recompute-triggers';
-import { queueFilterSchema, queueItem, reviewQueue } from './review-queue';
+import { queueItem, reviewQueue } from './review-queue';
 
 /** The Bench is the lab's; leads and admins may look (decisions stay the lab's: the writer enforces it). */
 const BENCH_READERS: readonly Role[] = ['lab', 'lead', 'admin'];

@@ -3,7 +3,8 @@ import type { SessionUser } from '../../shared/auth/roles';
 import { AppError } from '../core/errors';
 import { ChangeBuffer } from '../records/change-buffer';
 import { writeRecord } from '../records/record-writer';
-import { queueIds, type QueueFilter } from './review-queue';
+import type { QueueFilter } from '../../shared/bench/review-wire';
+import { queueIds } from './review-queue';
 
 /** More than this in one request is refused: accept a season in a few filtered steps, each a readable amount. */
 export const BULK_ACCEPT_CAP = 2000;

@@ -1,41 +1,12 @@
 import type { DataSource } from 'typeorm';
 import { z } from 'zod';
 import { seesAllSites, type SessionUser } from '../../shared/auth/roles';
+import type { ChangedMark, QueueFilter, QueueItem, RecomputedMark, ReviewState } from '../../shared/bench/review-wire';
+import { queueFilterSchema } from '../../shared/bench/review-wire';
+import type { ClosureModel } from '../../shared/flux/closure-input';
 import { worstDriftPct } from '../../shared/model/calibration';
-import { REVIEW_STATES } from '../../shared/model/field-records';
-import { QC_FLAGS } from '../../shared/flux';
 import { parse } from '../core/validate';
 import { pgDay } from '../core/pg-day';
-
-const bool = z.enum(['true', 'false']).transform((v) => v === 'true');
-const days = z.coerce.number().min(0).max(36500);
-
-/** Filters of the review queue: the design (site … collar), the fit (flag, state) and the context of the day. */
-export const queueFilterSchema = z.object({
-  siteId: z.string().uuid().optional(),
-  campaignId: z.string().uuid().optional(),
-  round: z.coerce.number().int().min(1).optional(),
-  treatmentId: z.string().uuid().optional(),
-  plotId: z.string().uuid().optional(),
-  collarId: z.string().uuid().optional(),
-  flag: z
-    .enum(Object.keys(QC_FLAGS) as [string, ...string[]])
-    .or(z.literal('none'))
-    .or(z.literal('any'))
-    .optional(),
-  reviewState: z.enum(REVIEW_STATES).optional(),
-  /** At most this many days since the collar was installed or reseated (settling disturbance). */
-  installedWithinDays: days.optional(),
-  clippedWithinDays: days.optional(),
-  rain24h: bool.optional(),
-  /** The analyzer's last calibration at least this many days before the closure. */
-  calibrationOlderThanDays: days.optional(),
-  /** |drift| of that calibration at least this many µmol/mol. */
-  driftAtLeastPpm: z.coerce.number().min(0).max(5000).optional(),
-  leakFailed: bool.optional(),
-  recomputedSinceReview: bool.optional(),
-});
-export type QueueFilter = z.infer<typeof queueFilterSchema>;
 
 const pageSchema = z.object({
   limit: z.coerce.number().int().min(1).max(500).default(50),
@@ -127,53 +98,47 @@ function queueSql(filter: QueueFilter & { id?: string }, readable: string[] | nu
   return { sql, args, p };
 }
 
-export interface QueueItem {
+/** One row of the queue's query, as the driver hands it over (bigint as text, dates as Date). */
+interface QueueRow {
   id: string;
-  rev: number;
-  siteId: string;
-  campaignId: string;
-  visitId: string;
-  collarId: string;
-  startedAt: string;
-  day: string;
-  settleS: number;
+  rev: string;
+  site_id: string;
+  campaign_id: string;
+  visit_id: string;
+  collar_id: string;
+  started_at: Date;
+  settle_s: number;
   flags: string[];
-  fluxUmolM2S: number | null;
-  reviewState: string;
-  reviewReason: string | null;
-  reviewSettleS: number | null;
-  reviewWindowEndS: number | null;
-  reviewModel: string | null;
-  redoOfId: string | null;
-  recomputedSinceReview: { oldFluxUmolM2S: number | null; newFluxUmolM2S: number | null; at: string; reason: string } | null;
-  /** Raw data changed after the last review decision, which sent the closure back to review. */
-  changedSinceReview: ChangedMark | null;
-  collarCode: string;
-  plotCode: string;
-  blockCode: string | null;
-  treatmentCode: string | null;
-  campaignName: string;
-  campaignLocked: boolean;
+  flux_umol_m2_s: number | null;
+  review_state: ReviewState;
+  review_reason: string | null;
+  review_settle_s: number | null;
+  review_window_end_s: number | null;
+  review_model: ClosureModel | null;
+  redo_of_id: string | null;
+  recomputed_since_review: RecomputedMark | null;
+  changed_since_review: ChangedMark | null;
+  collar_code: string;
+  plot_code: string;
+  block_code: string | null;
+  treatment_code: string | null;
+  campaign_name: string;
+  campaign_locked: boolean;
   round: number;
   rain24h: boolean;
-  daysSinceInstall: number | null;
-  daysSinceClipping: number | null;
-  calibrationAgeDays: number | null;
-  calibrationDriftPpm: number | null;
-  leakFailed: boolean;
-  /** The analyzer's interval, the calibration's larger drift in % of its span gas, and the site's limit for it. */
-  calibrationIntervalDays: number | null;
-  calibrationDriftPct: number | null;
-  calibrationDriftLimitPct: number;
-  /** The site's IANA zone: the Bench shows every time of the closure in it. */
-  timezone: string;
-}
-
-export interface ChangedMark {
-  at: string;
-  userName: string | null;
-  fields: string[];
-  previousState: string | null;
+  day: Date | string;
+  days_since_install: number | null;
+  days_since_clipping: number | null;
+  calibration_age_days: number | null;
+  calibration_drift_ppm: number | null;
+  calibration_zero_drift_ppm: number | null;
+  calibration_span_gas_ppm: number | null;
+  calibration_interval_days: number | null;
+  calibration_drift_limit_pct: number;
+  site_timezone: string;
+  leak_failed: boolean;
+  /** count(*) OVER (): bigint, handed over as text. */
+  total: string;
 }
 
 const readableSites = (user: SessionUser) => (seesAllSites(user.roles) ? null : user.siteIds);
@@ -182,24 +147,21 @@ export async function reviewQueue(ds: DataSource, user: SessionUser, rawQuery: u
   const filter = parse(queueFilterSchema, rawQuery, 'Some queue filters are not valid');
   const page = parse(pageSchema, rawQuery, 'Some queue filters are not valid');
   const { sql, args, p } = queueSql(filter, readableSites(user));
-  const rows: Record<string, unknown>[] = await ds.query(
-    `${sql} ORDER BY started_at, id LIMIT ${p(page.limit)} OFFSET ${p(page.offset)}`,
-    args,
-  );
-  const total = rows.length ? Number(rows[0]['total']) : page.offset ? await countQueue(ds, filter, user) : 0;
+  const rows: QueueRow[] = await ds.query(`${sql} ORDER BY started_at, id LIMIT ${p(page.limit)} OFFSET ${p(page.offset)}`, args);
+  const total = rows.length ? Number(rows[0].total) : page.offset ? await countQueue(ds, filter, user) : 0;
   return { items: rows.map(toItem), total, limit: page.limit, offset: page.offset };
 }
 
 async function countQueue(ds: DataSource, filter: QueueFilter, user: SessionUser): Promise<number> {
   const { sql, args } = queueSql(filter, readableSites(user));
-  const [r] = await ds.query(`SELECT count(*)::int AS n FROM (${sql}) z`, args);
+  const [r]: { n: number }[] = await ds.query(`SELECT count(*)::int AS n FROM (${sql}) z`, args);
   return r.n;
 }
 
 /** One closure's queue row (its context), or null when the user may not read it. */
 export async function queueItem(ds: DataSource, user: SessionUser, id: string): Promise<QueueItem | null> {
   const { sql, args } = queueSql({ id }, readableSites(user));
-  const [row] = await ds.query(sql, args);
+  const [row]: QueueRow[] = await ds.query(sql, args);
   return row ? toItem(row) : null;
 }
 
@@ -215,48 +177,47 @@ export async function queueIds(
   return rows.map((r) => ({ id: r.id, rev: Number(r.rev) }));
 }
 
-function toItem(r: Record<string, unknown>): QueueItem {
-  const num = (v: unknown) => (v === null || v === undefined ? null : Number(v));
+function toItem(r: QueueRow): QueueItem {
   return {
-    id: r['id'] as string,
-    rev: Number(r['rev']),
-    siteId: r['site_id'] as string,
-    campaignId: r['campaign_id'] as string,
-    visitId: r['visit_id'] as string,
-    collarId: r['collar_id'] as string,
-    startedAt: (r['started_at'] as Date).toISOString(),
-    day: pgDay(r['day']),
-    settleS: Number(r['settle_s']),
-    flags: r['flags'] as string[],
-    fluxUmolM2S: num(r['flux_umol_m2_s']),
-    reviewState: r['review_state'] as string,
-    reviewReason: (r['review_reason'] as string | null) ?? null,
-    reviewSettleS: num(r['review_settle_s']),
-    reviewWindowEndS: num(r['review_window_end_s']),
-    reviewModel: (r['review_model'] as string | null) ?? null,
-    redoOfId: (r['redo_of_id'] as string | null) ?? null,
-    recomputedSinceReview: (r['recomputed_since_review'] as QueueItem['recomputedSinceReview']) ?? null,
-    changedSinceReview: (r['changed_since_review'] as ChangedMark | null) ?? null,
-    collarCode: r['collar_code'] as string,
-    plotCode: r['plot_code'] as string,
-    blockCode: (r['block_code'] as string | null) ?? null,
-    treatmentCode: (r['treatment_code'] as string | null) ?? null,
-    campaignName: r['campaign_name'] as string,
-    campaignLocked: Boolean(r['campaign_locked']),
-    round: Number(r['round']),
-    rain24h: Boolean(r['rain24h']),
-    daysSinceInstall: num(r['days_since_install']),
-    daysSinceClipping: num(r['days_since_clipping']),
-    calibrationAgeDays: num(r['calibration_age_days']),
-    calibrationDriftPpm: num(r['calibration_drift_ppm']),
-    leakFailed: Boolean(r['leak_failed']),
-    calibrationIntervalDays: num(r['calibration_interval_days']),
-    calibrationDriftLimitPct: Number(r['calibration_drift_limit_pct']),
-    timezone: r['site_timezone'] as string,
+    id: r.id,
+    rev: Number(r.rev),
+    siteId: r.site_id,
+    campaignId: r.campaign_id,
+    visitId: r.visit_id,
+    collarId: r.collar_id,
+    startedAt: r.started_at.toISOString(),
+    day: pgDay(r.day),
+    settleS: r.settle_s,
+    flags: r.flags,
+    fluxUmolM2S: r.flux_umol_m2_s,
+    reviewState: r.review_state,
+    reviewReason: r.review_reason,
+    reviewSettleS: r.review_settle_s,
+    reviewWindowEndS: r.review_window_end_s,
+    reviewModel: r.review_model,
+    redoOfId: r.redo_of_id,
+    recomputedSinceReview: r.recomputed_since_review,
+    changedSinceReview: r.changed_since_review,
+    collarCode: r.collar_code,
+    plotCode: r.plot_code,
+    blockCode: r.block_code,
+    treatmentCode: r.treatment_code,
+    campaignName: r.campaign_name,
+    campaignLocked: r.campaign_locked,
+    round: r.round,
+    rain24h: r.rain24h,
+    daysSinceInstall: r.days_since_install,
+    daysSinceClipping: r.days_since_clipping,
+    calibrationAgeDays: r.calibration_age_days,
+    calibrationDriftPpm: r.calibration_drift_ppm,
+    leakFailed: r.leak_failed,
+    calibrationIntervalDays: r.calibration_interval_days,
+    calibrationDriftLimitPct: r.calibration_drift_limit_pct,
+    timezone: r.site_timezone,
     calibrationDriftPct: worstDriftPct({
-      driftPpm: num(r['calibration_drift_ppm']),
-      zeroDriftPpm: num(r['calibration_zero_drift_ppm']),
-      spanGasPpm: num(r['calibration_span_gas_ppm']),
+      driftPpm: r.calibration_drift_ppm,
+      zeroDriftPpm: r.calibration_zero_drift_ppm,
+      spanGasPpm: r.calibration_span_gas_ppm,
     }),
   };
 }

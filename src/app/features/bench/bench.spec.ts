@@ -5,7 +5,8 @@ import { provideRouter } from '@angular/router';
 import { FLAG_ADVICE } from '../../../../shared/flux/flag-advice';
 import { rememberOnDevice, testUser } from '../../core/auth/testing/demo-sessions';
 import { Bench } from './bench';
-import { BenchApi, type QueueItem } from './bench-api';
+import type { QueueItem } from '../../../../shared/bench/review-wire';
+import { BenchApi } from './bench-api';
 
 function item(over: Partial<QueueItem>): QueueItem {
   return {

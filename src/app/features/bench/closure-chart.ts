@@ -11,7 +11,7 @@ import {
 } from '@angular/core';
 import uPlot from 'uplot';
 import { dryMoleFractionPpm } from '../../../../shared/flux';
-import type { FitResult } from './bench-api';
+import type { FitResult } from '../../../../shared/bench/review-wire';
 
 export interface ChartInput {
   tS: (number | null)[];

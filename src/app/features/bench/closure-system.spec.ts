@@ -3,7 +3,7 @@ import { TestBed } from '@angular/core/testing';
 import { MatButtonHarness } from '@angular/material/button/testing';
 import { MatSelectHarness } from '@angular/material/select/testing';
 import { FLAG_ADVICE } from '../../../../shared/flux';
-import type { ClosureDetail } from './bench-api';
+import type { ClosureDetail } from '../../../../shared/bench/review-wire';
 import { ClosureSystem } from './closure-system';
 import type { Decision } from './closure-view';
 

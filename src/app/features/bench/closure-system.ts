@@ -5,7 +5,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatSelectModule } from '@angular/material/select';
 import { flagAdvice } from '../../../../shared/flux';
 import { SiteTimePipe } from '../../core/time/site-time-pipe';
-import type { ClosureDetail } from './bench-api';
+import type { ClosureDetail } from '../../../../shared/bench/review-wire';
 import type { Decision } from './closure-view';
 
 const PROFILE_SOURCE: Record<string, string> = {

@@ -1,6 +1,6 @@
 import { ChangeDetectionStrategy, Component, input } from '@angular/core';
 import { TestBed } from '@angular/core/testing';
-import type { ClosureDetail, FitResult, QueueItem } from './bench-api';
+import type { ClosureDetail, FitResult, QueueItem } from '../../../../shared/bench/review-wire';
 import { ClosureChart } from './closure-chart';
 import { ClosureTraces } from './closure-traces';
 import { ClosureView } from './closure-view';

@@ -16,7 +16,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatInputModule } from '@angular/material/input';
 import { MatListModule } from '@angular/material/list';
 import { MatSelectModule } from '@angular/material/select';
-import type { ClosureDetail, FitResult } from './bench-api';
+import type { ClosureDetail, FitResult } from '../../../../shared/bench/review-wire';
 import { ClosureChart, type ChartInput } from './closure-chart';
 import { ClosureMove } from './closure-move';
 import { ClosureSystem } from './closure-system';

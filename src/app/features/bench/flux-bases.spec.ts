@@ -1,4 +1,4 @@
-import type { FitNumbers, FitResult } from './bench-api';
+import type { FitNumbers, FitResult } from '../../../../shared/bench/review-wire';
 import { detectionLimitNote, fluxBases } from './flux-bases';
 
 const stats = { r2: 0.99, rmse: 0.2, aic: -10, n: 130 };

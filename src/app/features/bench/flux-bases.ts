@@ -1,4 +1,4 @@
-import type { FitResult } from './bench-api';
+import type { FitResult } from '../../../../shared/bench/review-wire';
 
 /** The selected model's flux on both slope bases: at chamber closure (t = 0) and at the end of the settle time. */
 export interface FluxBases {

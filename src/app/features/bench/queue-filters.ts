@@ -6,7 +6,8 @@ import { narrowScreen } from '../../core/layout/narrow-screen';
 import { QC_FLAGS } from '../../../../shared/flux';
 import { REVIEW_STATE_WORDS, REVIEW_STATES } from '../../../../shared/model/progress-state';
 import { FlagWordsPipe } from '../closures/flag-words-pipe';
-import { BenchApi, type Named, type QueueFilter } from './bench-api';
+import type { QueueFilter } from '../../../../shared/bench/review-wire';
+import { BenchApi, type Named } from './bench-api';
 
 /**
  * The queue's filters: design, fit and the context of the day. Emits a whole filter on every change.
