@@ -2,6 +2,8 @@ import type { DataSource, EntityManager } from 'typeorm';
 import { flagAdvice } from '../../shared/flux/flag-advice';
 import type { QcFlag } from '../../shared/flux/qc-flags';
 import { calibrationAgeDays, worstDriftPct } from '../../shared/model/calibration';
+import { collarSettling, DISTURBING_EVENT_KINDS, newestDisturbance, type SettlingLimits } from '../../shared/model/collar-settling';
+import { counted } from '../../shared/text/counted';
 import { localDay, siteDayStartOf } from '../../shared/time/site-time';
 import { pgDay } from '../core/pg-day';
 
@@ -59,9 +61,25 @@ export const REVIEW_FLAGS: readonly QcFlag[] = [
 ];
 
 type Db = DataSource | EntityManager;
-const iso = (v: unknown) => (v == null ? null : new Date(v as string).toISOString());
-const num = (v: unknown) => (v == null ? null : Number(v));
+const iso = (v: Date | null) => (v === null ? null : v.toISOString());
 const round = (x: number, d = 2) => Math.round(x * 10 ** d) / 10 ** d;
+
+/** The site's own thresholds the anomalies are judged by (all double precision). */
+interface SiteRow {
+  id: string;
+  timezone: string;
+  settling_days_hard: number;
+  settling_days_warn: number;
+  offset_move_cm: number;
+  offset_spread_pct: number;
+  leak_slope_umol_mol_s: number;
+  calibration_drift_limit_pct: number;
+}
+interface CampaignRow {
+  id: string;
+  starts_on: string;
+  ends_on: string;
+}
 
 /**
  * Everything on a site the lead should look at before the crew leaves: offsets that moved since
@@ -75,9 +93,14 @@ export async function findAnomalies(
   opts: AnomalyOptions = {},
 ): Promise<{ campaignId: string | null; items: Anomaly[] }> {
   const now = opts.now ?? new Date();
-  const [site] = await db.query(`SELECT * FROM site WHERE id = $1 AND NOT deleted`, [siteId]);
+  const [site]: SiteRow[] = await db.query(
+    `SELECT id, timezone, settling_days_hard, settling_days_warn, offset_move_cm, offset_spread_pct, leak_slope_umol_mol_s,
+            calibration_drift_limit_pct
+       FROM site WHERE id = $1 AND NOT deleted`,
+    [siteId],
+  );
   if (!site) return { campaignId: null, items: [] };
-  const [camp] = opts.campaignId
+  const [camp]: CampaignRow[] = opts.campaignId
     ? await db.query(`SELECT id, starts_on, ends_on FROM campaign WHERE id = $1 AND site_id = $2 AND NOT deleted`, [
         opts.campaignId,
         siteId,
@@ -107,8 +130,21 @@ export async function findAnomalies(
  * readings spans, (max − min) × collar area, in % of the headspace volume (chamber + loop + area ×
  * mean offset) under the profile valid that day — the share of the flux the rim tilt could move.
  */
-async function offsetAnomalies(db: Db, site: Record<string, unknown>, campaignId: string): Promise<Anomaly[]> {
-  const rows = await db.query(
+interface OffsetRow {
+  id: string;
+  collar_id: string;
+  code: string;
+  mean_cm: number;
+  taken_at: Date;
+  range_cm: number;
+  area_cm2: number | null;
+  fixed_volume_cm3: number | null;
+  prev_mean_cm: number | null;
+  prev_taken_at: Date | null;
+}
+
+async function offsetAnomalies(db: Db, site: SiteRow, campaignId: string): Promise<Anomaly[]> {
+  const rows: OffsetRow[] = await db.query(
     `
     WITH cur AS (
       SELECT DISTINCT ON (o.collar_id) o.id, o.collar_id, o.mean_cm, o.taken_at, o.readings_cm
@@ -132,13 +168,13 @@ async function offsetAnomalies(db: Db, site: Record<string, unknown>, campaignId
                           ORDER BY o.taken_at DESC LIMIT 1) prev ON true`,
     [campaignId],
   );
-  const moveCm = Number(site['offset_move_cm']);
-  const spreadPct = Number(site['offset_spread_pct']);
+  const moveCm = site.offset_move_cm;
+  const spreadPct = site.offset_spread_pct;
   const out: Anomaly[] = [];
   for (const r of rows) {
     const base = { collarId: r.collar_id, collarCode: r.code, recordId: r.id, at: iso(r.taken_at) };
     if (r.prev_mean_cm !== null) {
-      const moved = Number(r.mean_cm) - Number(r.prev_mean_cm);
+      const moved = r.mean_cm - r.prev_mean_cm;
       if (Math.abs(moved) > moveCm) {
         out.push({
           ...base,
@@ -151,8 +187,8 @@ async function offsetAnomalies(db: Db, site: Record<string, unknown>, campaignId
       }
     }
     if (r.area_cm2 !== null && r.fixed_volume_cm3 !== null) {
-      const volume = Number(r.fixed_volume_cm3) + Number(r.area_cm2) * Number(r.mean_cm);
-      const pct = (Number(r.range_cm) * Number(r.area_cm2) * 100) / volume;
+      const volume = r.fixed_volume_cm3 + r.area_cm2 * r.mean_cm;
+      const pct = (r.range_cm * r.area_cm2 * 100) / volume;
       if (pct > spreadPct) {
         out.push({
           ...base,
@@ -160,7 +196,7 @@ async function offsetAnomalies(db: Db, site: Record<string, unknown>, campaignId
           severity: 'warn',
           value: round(pct, 1),
           threshold: spreadPct,
-          message: `Offset readings span ${round(Number(r.range_cm), 1)} cm, ${round(pct, 1)} % of the headspace volume (limit ${spreadPct} %)`,
+          message: `Offset readings span ${round(r.range_cm, 1)} cm, ${round(pct, 1)} % of the headspace volume (limit ${spreadPct} %)`,
         });
       }
     }
@@ -168,24 +204,33 @@ async function offsetAnomalies(db: Db, site: Record<string, unknown>, campaignId
   return out;
 }
 
+interface FlaggedClosureRow {
+  id: string;
+  collar_id: string;
+  code: string;
+  started_at: Date;
+  flags: string[];
+  flux_umol_m2_s: number | null;
+}
+
 async function closureAnomalies(db: Db, campaignId: string): Promise<Anomaly[]> {
-  const rows = await db.query(
+  const rows: FlaggedClosureRow[] = await db.query(
     `
     SELECT z.id, z.collar_id, k.code, z.started_at, z.flags, z.flux_umol_m2_s
       FROM closure z JOIN collar k ON k.id = z.collar_id
      WHERE z.campaign_id = $1 AND NOT z.deleted AND z.review_state <> 'rejected' AND z.flags && $2::text[]`,
     [campaignId, REVIEW_FLAGS],
   );
-  return rows.map((r: Record<string, unknown>) => {
-    const flags = (r['flags'] as string[]).filter((f) => (REVIEW_FLAGS as readonly string[]).includes(f));
+  return rows.map((r): Anomaly => {
+    const flags = r.flags.filter((f) => (REVIEW_FLAGS as readonly string[]).includes(f));
     return {
-      kind: 'closure-flag' as const,
-      severity: flags.includes('invalid-input') ? ('problem' as const) : ('warn' as const),
-      collarId: r['collar_id'] as string,
-      collarCode: r['code'] as string,
-      recordId: r['id'] as string,
-      at: iso(r['started_at']),
-      value: num(r['flux_umol_m2_s']),
+      kind: 'closure-flag',
+      severity: flags.includes('invalid-input') ? 'problem' : 'warn',
+      collarId: r.collar_id,
+      collarCode: r.code,
+      recordId: r.id,
+      at: iso(r.started_at),
+      value: r.flux_umol_m2_s,
       threshold: null,
       flags,
       // In words from the one flag table, so the Board and the digest read like the Walk's closure card.
@@ -195,79 +240,96 @@ async function closureAnomalies(db: Db, campaignId: string): Promise<Anomaly[]> 
 }
 
 /** Start-of-day checks during the campaign that were skipped, failed, or whose leak slope is above the site's limit. */
-async function checkAnomalies(db: Db, site: Record<string, unknown>, camp: { starts_on: string; ends_on: string }): Promise<Anomaly[]> {
-  const leak = Number(site['leak_slope_umol_mol_s']);
-  const rows = await db.query(
+interface CheckRow {
+  id: string;
+  kind: string;
+  at: Date;
+  skipped: boolean;
+  skip_reason: string | null;
+  passed: boolean | null;
+  slope_umol_mol_s: number | null;
+  analyzer: string | null;
+}
+
+async function checkAnomalies(db: Db, site: SiteRow, camp: CampaignRow): Promise<Anomaly[]> {
+  const leak = site.leak_slope_umol_mol_s;
+  const rows: CheckRow[] = await db.query(
     `
     SELECT c.id, c.kind, c.at, c.skipped, c.skip_reason, c.passed, c.slope_umol_mol_s, a.name AS analyzer
       FROM analyzer_check c LEFT JOIN analyzer a ON a.id = c.analyzer_id
      WHERE c.site_id = $1 AND NOT c.deleted AND c.at >= $2::date AND c.at < $3::date + 1
        AND (c.skipped OR c.passed = false OR (c.kind = 'leak' AND abs(c.slope_umol_mol_s) > $4))
      ORDER BY c.at`,
-    [site['id'], camp.starts_on, camp.ends_on, leak],
+    [site.id, camp.starts_on, camp.ends_on, leak],
   );
-  return rows.map((r: Record<string, unknown>) => {
-    const who = r['analyzer'] ? ` on ${r['analyzer']}` : '';
-    const message = r['skipped']
-      ? `${r['kind']} check skipped${who}: ${r['skip_reason'] ?? 'no reason given'}`
-      : r['kind'] === 'leak' && r['slope_umol_mol_s'] !== null && Math.abs(Number(r['slope_umol_mol_s'])) > leak
-        ? `Leak check${who}: slope ${r['slope_umol_mol_s']} µmol/mol/s above the limit ${leak}`
-        : `${r['kind']} check failed${who}`;
+  return rows.map((r): Anomaly => {
+    const who = r.analyzer ? ` on ${r.analyzer}` : '';
+    const message = r.skipped
+      ? `${r.kind} check skipped${who}: ${r.skip_reason ?? 'no reason given'}`
+      : r.kind === 'leak' && r.slope_umol_mol_s !== null && Math.abs(r.slope_umol_mol_s) > leak
+        ? `Leak check${who}: slope ${r.slope_umol_mol_s} µmol/mol/s above the limit ${leak}`
+        : `${r.kind} check failed${who}`;
     return {
-      kind: 'check-problem' as const,
-      severity: r['skipped'] ? ('warn' as const) : ('problem' as const),
+      kind: 'check-problem',
+      severity: r.skipped ? 'warn' : 'problem',
       collarId: null,
       collarCode: null,
-      recordId: r['id'] as string,
-      at: iso(r['at']),
-      value: num(r['slope_umol_mol_s']),
-      threshold: r['kind'] === 'leak' ? leak : null,
+      recordId: r.id,
+      at: iso(r.at),
+      value: r.slope_umol_mol_s,
+      threshold: r.kind === 'leak' ? leak : null,
       message,
     };
   });
 }
 
+interface CollarRow {
+  id: string;
+  code: string;
+  event_kind: string | null;
+  event_date: Date | string | null;
+  installed_on: Date | string | null;
+  last_visit: Date | null;
+}
+
 /**
- * Live collars still settling after an install, reseat or replacement (the site's hard and
- * warning days; common practice: a disturbed collar leaks CO2 for a day or more), and collars
- * nobody has visited for more than `days` days.
+ * Live collars still settling after an install or a reseat, by the one rule Walk uses too
+ * (shared/model/collar-settling.ts: whole site days, the site's hard and warning limits), and
+ * collars nobody has visited for more than `days` days.
  */
-async function collarAnomalies(db: Db, site: Record<string, unknown>, now: Date, days: number): Promise<Anomaly[]> {
-  const rows = await db.query(
+async function collarAnomalies(db: Db, site: SiteRow, now: Date, days: number): Promise<Anomaly[]> {
+  const rows: CollarRow[] = await db.query(
     `
     SELECT k.id, k.code, ev.kind AS event_kind, ev.date AS event_date, lv.arrived_at AS last_visit, k.installed_on
       FROM collar k
       LEFT JOIN LATERAL (SELECT e.kind, e.date FROM collar_event e WHERE e.collar_id = k.id AND NOT e.deleted
-                           AND e.kind IN ('installed', 'reseated', 'replaced') ORDER BY e.date DESC LIMIT 1) ev ON true
+                           AND e.kind = ANY($2::text[]) ORDER BY e.date DESC LIMIT 1) ev ON true
       LEFT JOIN LATERAL (SELECT max(v.arrived_at) AS arrived_at FROM visit v WHERE v.collar_id = k.id AND NOT v.deleted) lv ON true
      WHERE k.site_id = $1 AND NOT k.deleted AND k.status = 'active'`,
-    [site['id']],
+    [site.id, DISTURBING_EVENT_KINDS],
   );
-  const hard = Number(site['settling_days_hard']);
-  const warn = Number(site['settling_days_warn']);
+  const limits: SettlingLimits = { settlingDaysHard: site.settling_days_hard, settlingDaysWarn: site.settling_days_warn };
   const dayMs = 86_400_000;
   const out: Anomaly[] = [];
   for (const r of rows) {
-    if (r.event_date) {
-      // Counted from the site's midnight of the event's (site) day, not UTC midnight.
-      const start = siteDayStartOf(pgDay(r.event_date), String(site['timezone']));
-      const ageDays = (now.getTime() - Date.parse(start)) / dayMs;
-      if (ageDays >= 0 && ageDays < warn) {
-        out.push({
-          kind: 'settling',
-          severity: ageDays < hard ? 'problem' : 'warn',
-          collarId: r.id,
-          collarCode: r.code,
-          recordId: r.id,
-          at: start,
-          value: round(ageDays, 1),
-          threshold: ageDays < hard ? hard : warn,
-          message: `Settling: ${r.event_kind} ${round(ageDays, 1)} day(s) ago (hard limit ${hard}, warning ${warn} days)`,
-        });
-      }
+    const events = r.event_kind && r.event_date ? [{ kind: r.event_kind, date: pgDay(r.event_date) }] : [];
+    const note = collarSettling(newestDisturbance(events, r.installed_on && pgDay(r.installed_on)), limits, site.timezone, now);
+    if (note) {
+      const hard = note.level === 'hard';
+      out.push({
+        kind: 'settling',
+        severity: hard ? 'problem' : 'warn',
+        collarId: r.id,
+        collarCode: r.code,
+        recordId: r.id,
+        // The site's midnight that starts the disturbance's day.
+        at: siteDayStartOf(note.since, site.timezone),
+        value: note.days,
+        threshold: hard ? limits.settlingDaysHard : limits.settlingDaysWarn,
+        message: `Settling: ${note.what} ${counted(note.days, 'day')} ago (hard limit ${limits.settlingDaysHard}, warning ${limits.settlingDaysWarn} days)`,
+      });
     }
-    const since = r.last_visit ? Date.parse(new Date(r.last_visit).toISOString()) : null;
-    const idle = since === null ? null : (now.getTime() - since) / dayMs;
+    const idle = r.last_visit === null ? null : (now.getTime() - r.last_visit.getTime()) / dayMs;
     if (idle === null || idle > days) {
       out.push({
         kind: 'not-visited',
@@ -290,8 +352,20 @@ async function collarAnomalies(db: Db, site: Record<string, unknown>, now: Date,
  * and analyzers whose latest calibration found them drifted beyond the site's limit (in % of the
  * span gas): the fluxes since the calibration before it need a look.
  */
-async function calibrationAnomalies(db: Db, site: Record<string, unknown>, now: Date): Promise<Anomaly[]> {
-  const rows = await db.query(
+interface AnalyzerRow {
+  id: string;
+  name: string;
+  calibration_interval_days: number;
+  last_cal: Date | null;
+  drift_check_id: string | null;
+  drift_at: Date | null;
+  drift_ppm: number | null;
+  zero_drift_ppm: number | null;
+  span_gas_ppm: number | null;
+}
+
+async function calibrationAnomalies(db: Db, site: SiteRow, now: Date): Promise<Anomaly[]> {
+  const rows: AnalyzerRow[] = await db.query(
     `
     SELECT a.id, a.name, a.calibration_interval_days,
            (SELECT max(c.at) FROM analyzer_check c WHERE c.analyzer_id = a.id AND c.kind = 'calibration' AND NOT c.deleted
@@ -303,12 +377,12 @@ async function calibrationAnomalies(db: Db, site: Record<string, unknown>, now: 
          WHERE c.analyzer_id = a.id AND c.kind = 'calibration' AND NOT c.deleted AND NOT c.skipped
          ORDER BY c.at DESC LIMIT 1) d ON true
      WHERE a.site_id = $1 AND NOT a.deleted`,
-    [site['id']],
+    [site.id],
   );
-  const limitPct = Number(site['calibration_drift_limit_pct']);
+  const limitPct = site.calibration_drift_limit_pct;
   const out: Anomaly[] = [];
   for (const r of rows) {
-    const interval = Number(r.calibration_interval_days);
+    const interval = r.calibration_interval_days;
     const age = r.last_cal ? calibrationAgeDays(r.last_cal, now) : null;
     if (age === null || age >= interval) {
       out.push({
@@ -324,25 +398,26 @@ async function calibrationAnomalies(db: Db, site: Record<string, unknown>, now: 
           age === null ? `${r.name}: no calibration on record` : `${r.name}: last calibrated ${age} days ago (interval ${interval} days)`,
       });
     }
-    const pct = worstDriftPct({ driftPpm: num(r.drift_ppm), zeroDriftPpm: num(r.zero_drift_ppm), spanGasPpm: num(r.span_gas_ppm) });
+    const pct = worstDriftPct({ driftPpm: r.drift_ppm, zeroDriftPpm: r.zero_drift_ppm, spanGasPpm: r.span_gas_ppm });
     if (pct !== null && pct > limitPct) {
-      const drifts = [
-        ['zero', num(r.zero_drift_ppm)],
-        ['span', num(r.drift_ppm)],
-      ]
-        .filter(([, v]) => v !== null)
-        .map(([w, v]) => `${w} ${(v as number) > 0 ? '+' : ''}${v} µmol/mol`)
+      const drifts = (
+        [
+          ['zero', r.zero_drift_ppm],
+          ['span', r.drift_ppm],
+        ] as const
+      )
+        .flatMap(([w, v]) => (v === null ? [] : [`${w} ${v > 0 ? '+' : ''}${v} µmol/mol`]))
         .join(', ');
       out.push({
         kind: 'calibration-drift',
         severity: 'problem',
         collarId: null,
         collarCode: null,
-        recordId: r.drift_check_id,
+        recordId: r.drift_check_id!,
         at: iso(r.drift_at),
         value: pct,
         threshold: limitPct,
-        message: `${r.name}: drift found at calibration on ${localDay(r.drift_at, String(site['timezone']))} was ${drifts} (${pct} % of the ${num(r.span_gas_ppm)} µmol/mol span gas, limit ${limitPct} %): check the closures since the calibration before it`,
+        message: `${r.name}: drift found at calibration on ${localDay(r.drift_at!, site.timezone)} was ${drifts} (${pct} % of the ${r.span_gas_ppm} µmol/mol span gas, limit ${limitPct} %): check the closures since the calibration before it`,
       });
     }
   }

@@ -1,5 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import { FLAG_ADVICE } from '../../shared/flux/flag-advice';
+import { collarSettling, newestDisturbance, siteSettlingLimits } from '../../shared/model/collar-settling';
 import { localDay } from '../../shared/time/site-time';
 import { findAnomalies } from '../../server/board/anomalies';
 import { listDevices } from '../../server/board/devices';
@@ -123,23 +124,47 @@ describe('Board: anomalies and devices', () => {
     // The lead reads the flag in words (shared/flux/flag-advice.ts); the code rides along for lab staff.
     expect(pick('closure-flag')[0].message).toBe(`Closure flagged: ${FLAG_ADVICE['negative-flux'].words}`);
     expect(pick('closure-flag')[0].flags).toEqual(['negative-flux']);
-    expect(pick('settling')).toEqual([expect.objectContaining({ collarId: ids['c2'], severity: 'warn', value: 2.5, threshold: 7 })]);
+    // Reseated on 18 July, asked at noon on 20 July: two whole site days (shared/model/collar-settling.ts).
+    expect(pick('settling')).toEqual([expect.objectContaining({ collarId: ids['c2'], severity: 'warn', value: 2, threshold: 7 })]);
     expect(pick('not-visited')).toEqual([expect.objectContaining({ collarId: ids['c3'], message: 'Never visited' })]);
     expect(pick('check-problem')).toEqual([expect.objectContaining({ recordId: ids['leak'], severity: 'warn' })]);
     expect(pick('check-problem')[0].message).toBe('leak check skipped on Unit B: Sealed plate left at the station');
     expect(pick('calibration-overdue')).toEqual([expect.objectContaining({ recordId: ids['analyzer'], value: 200, threshold: 180 })]);
   });
 
-  it('when the site is west of UTC, then a settling collar counts from the site’s midnight of its install day, and that day reads as the site’s', async () => {
+  it('when the site is west of UTC, then a settling collar counts site days from its install day, and that day reads as the site’s', async () => {
     await t.ds.query(`UPDATE site SET timezone = 'America/Anchorage' WHERE id = $1`, [w.site.id]);
     try {
       const { items } = await findAnomalies(t.ds, w.site.id, { campaignId: ids['july'], now: NOW, notVisitedDays: 30 });
       const settling = items.find((a) => a.kind === 'settling')!;
-      // Midnight of 18 July in Anchorage is 08:00 UTC (AKDT, UTC−8, tz database): 2 d 4 h before 20 July 12:00 UTC.
+      // Midnight of 18 July in Anchorage is 08:00 UTC (AKDT, UTC−8, tz database); 20 July 12:00 UTC is 04:00 on
+      // 20 July there: two whole site days.
       expect(settling.at).toBe('2026-07-18T08:00:00.000Z');
       expect(localDay(settling.at!, 'America/Anchorage')).toBe('2026-07-18');
-      expect(settling.value).toBe(2.2);
+      expect(settling.value).toBe(2);
     } finally {
+      await t.ds.query(`UPDATE site SET timezone = 'UTC' WHERE id = $1`, [w.site.id]);
+    }
+  });
+
+  it('when a collar was installed late the evening before, then next morning the Board counts the same whole site days as Walk', async () => {
+    // Berlin is UTC+2 in July: installed at 23:00 on 19 July (21:00 UTC), checked at 08:00 on 20 July (06:00 UTC).
+    await t.ds.query(`UPDATE site SET timezone = 'Europe/Berlin' WHERE id = $1`, [w.site.id]);
+    const c4 = (await lead.post('/api/collars', { siteId: w.site.id, code: 'C4', plotId: w.plot.id, diameterCm: 20 })).body.record;
+    const installed = { kind: 'installed', date: '2026-07-19' };
+    await lead.post('/api/collar-events', { siteId: w.site.id, collarId: c4.id, ...installed, note: 'Late delivery' });
+    try {
+      const morning = new Date('2026-07-20T06:00:00Z');
+      const { items } = await findAnomalies(t.ds, w.site.id, { campaignId: ids['july'], now: morning, notVisitedDays: 30 });
+      const board = items.find((a) => a.kind === 'settling' && a.collarId === c4.id)!;
+      // Walk's visit screen says what this shared rule says (walk/visit-store.ts settlingNote).
+      const walk = collarSettling(newestDisturbance([installed], c4.installedOn), siteSettlingLimits.parse({}), 'Europe/Berlin', morning)!;
+      expect(walk.days).toBe(1);
+      expect(board.value).toBe(walk.days);
+      expect(board.severity).toBe('warn');
+      expect(board.message).toBe('Settling: installed 1 day ago (hard limit 1, warning 7 days)');
+    } finally {
+      expect((await lead.delete(`/api/collars/${c4.id}?rev=${c4.rev}`)).status).toBeLessThan(300);
       await t.ds.query(`UPDATE site SET timezone = 'UTC' WHERE id = $1`, [w.site.id]);
     }
   });
