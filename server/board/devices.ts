@@ -17,14 +17,26 @@ export interface DeviceRow {
   silent: boolean;
 }
 
-const iso = (v: unknown) => (v == null ? null : new Date(v as string).toISOString());
+const iso = (v: Date | null) => (v === null ? null : v.toISOString());
+
+/** One device with its user, as the driver hands it over. */
+interface DeviceQueryRow {
+  id: string;
+  user_id: string;
+  email: string;
+  display_name: string;
+  last_push_at: Date | null;
+  last_pull_at: Date | null;
+  outbox_size: number | null;
+  last_seen: Date | null;
+}
 
 /**
  * Every device of the users who are members of the given sites (all devices when `siteIds` is
  * null), least recently heard from first. A plain function so the daily digest can reuse it.
  */
 export async function listDevices(db: DataSource | EntityManager, siteIds: string[] | null, now = new Date()): Promise<DeviceRow[]> {
-  const rows = await db.query(
+  const rows: DeviceQueryRow[] = await db.query(
     `
     SELECT d.id, d.user_id, u.email, u.display_name, d.last_push_at, d.last_pull_at, d.outbox_size,
            greatest(d.last_push_at, d.last_pull_at) AS last_seen
@@ -33,16 +45,16 @@ export async function listDevices(db: DataSource | EntityManager, siteIds: strin
      ORDER BY last_seen ASC NULLS FIRST, u.email, d.id`,
     [siteIds],
   );
-  return rows.map((r: Record<string, unknown>) => {
-    const lastSeen = iso(r['last_seen']);
+  return rows.map((r) => {
+    const lastSeen = iso(r.last_seen);
     return {
-      id: r['id'] as string,
-      userId: r['user_id'] as string,
-      email: r['email'] as string,
-      displayName: r['display_name'] as string,
-      lastPushAt: iso(r['last_push_at']),
-      lastPullAt: iso(r['last_pull_at']),
-      outboxSize: r['outbox_size'] == null ? null : Number(r['outbox_size']),
+      id: r.id,
+      userId: r.user_id,
+      email: r.email,
+      displayName: r.display_name,
+      lastPushAt: iso(r.last_push_at),
+      lastPullAt: iso(r.last_pull_at),
+      outboxSize: r.outbox_size,
       lastSeenAt: lastSeen,
       silent: lastSeen === null || now.getTime() - Date.parse(lastSeen) > SILENT_AFTER_MS,
     };

@@ -1,8 +1,8 @@
 import type { DataSource } from 'typeorm';
 import type { HistoryEntry } from '../../shared/bench/review-wire';
-import type { StoredRecord } from '../../shared/model/stored-record';
 import { CLOSURE_REVIEW_FIELDS, CLOSURE_SYSTEM_FIELDS } from '../../shared/model/field-records';
 import type { WrittenRecord } from '../records/after-write';
+import { isWriteOf, type WriteOf } from './entity-write';
 
 export type { HistoryEntry };
 
@@ -25,10 +25,6 @@ interface HistoryRow {
 const isReviewField = (f: string) =>
   (CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f) || (CLOSURE_SYSTEM_FIELDS as readonly string[]).includes(f);
 
-/** A write of a closure: the writer hands listeners any entity's record in wire form, named by `entity`. */
-type ClosureWrite = WrittenRecord & { before: StoredRecord<'closure'> | null; after: StoredRecord<'closure'> };
-const isClosureWrite = (w: WrittenRecord): w is ClosureWrite => w.entity === 'closure';
-
 /** A history value: large raw values (the series) are summarised by their sample count. */
 function historyValue(field: string, v: unknown): string {
   if (field === 'series' && v && typeof v === 'object') return JSON.stringify({ samples: ((v as { tS?: unknown[] }).tS ?? []).length });
@@ -44,7 +40,7 @@ function historyValue(field: string, v: unknown): string {
  * in the writer's transaction (see records/after-write.ts).
  */
 export async function recordReviewDecision(w: WrittenRecord): Promise<void> {
-  if (!isClosureWrite(w) || w.action !== 'update' || !w.before) return;
+  if (!isWriteOf(w, 'closure') || w.action !== 'update' || !w.before) return;
   // A move (closures/closure-move.ts) is the only write that changes a closure's visit and collar.
   const moved = w.changed.filter((f) => f === 'visitId' || f === 'collarId');
   if (moved.length) return insertRows(w, moved, 'move');
@@ -54,7 +50,7 @@ export async function recordReviewDecision(w: WrittenRecord): Promise<void> {
   return insertRows(w, fields, raw.length ? 'raw-change' : 'decision');
 }
 
-async function insertRows(w: ClosureWrite, fields: string[], kind: HistoryEntry['kind']): Promise<void> {
+async function insertRows(w: WriteOf<'closure'>, fields: string[], kind: HistoryEntry['kind']): Promise<void> {
   const before = w.before!;
   const after = w.after;
   await w.em.query(

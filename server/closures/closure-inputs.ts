@@ -6,11 +6,22 @@ import {
   type AmbientChoice,
   type FitContext,
   type OffsetSetRecord,
+  type SlopeBasis,
   type StoredProfileVersion,
 } from '../../shared/flux';
+import { siteFields } from '../../shared/model/site-layout';
+import type { StoredRecord } from '../../shared/model/stored-record';
 import { localDay } from '../../shared/time/site-time';
 
 type Db = Pick<EntityManager, 'query'>;
+
+/** A site's fit settings when its row is missing: the schema's defaults (a closure always names a live site; this only keeps the fit defined). */
+const SITE_DEFAULTS = siteFields
+  .pick({ ambientMarginPpm: true, slopeBasis: true, defaultAirTempC: true, defaultProfileId: true })
+  .parse({});
+
+/** What the inputs of a closure's fit are looked up by. */
+export type ClosureRefs = Pick<StoredRecord<'closure'>, 'siteId' | 'collarId' | 'analyzerId' | 'visitId' | 'startedAt'>;
 
 /** The fit context (shared/flux closure-fit-plan.ts) and what the server stores or checks beside it. */
 export interface ClosureContext extends FitContext {
@@ -31,6 +42,23 @@ type SiteInputs = Pick<
   /** Every usable ambient reading of the site, of any analyzer (ambientForClosure picks the closure's). */
   ambientChecks: AmbientCheck[];
 };
+
+interface SiteRow {
+  timezone: string;
+  elevation_m: number | null;
+  ambient_margin_ppm: number;
+  slope_basis: SlopeBasis;
+  default_profile_id: string | null;
+  default_air_temp_c: number;
+}
+interface ProfileRow {
+  id: string;
+  name: string;
+  valid_from: string;
+  chamber_volume_cm3: number;
+  loop_volume_cm3: number;
+  footprint_area_cm2: number | null;
+}
 
 interface AnalyzerInputs {
   precisionPpm: number | null;
@@ -54,47 +82,47 @@ export class ClosureInputs {
   constructor(private readonly db: Db) {}
 
   /** Reads the inputs of many closures in a few set-wise queries (recompute pages). */
-  async preload(closures: readonly Record<string, unknown>[]): Promise<void> {
-    const missing = (ids: unknown[], known: Map<string, unknown>) => [
-      ...new Set(ids.filter((x): x is string => typeof x === 'string' && !known.has(x))),
+  async preload(closures: readonly ClosureRefs[]): Promise<void> {
+    const missing = (ids: (string | null)[], known: Map<string, unknown>) => [
+      ...new Set(ids.filter((x): x is string => x !== null && !known.has(x))),
     ];
     for (const siteId of missing(
-      closures.map((c) => c['siteId']),
+      closures.map((c) => c.siteId),
       this.sites,
     ))
       await this.loadSite(siteId);
     const collarIds = missing(
-      closures.map((c) => c['collarId']),
+      closures.map((c) => c.collarId),
       this.collars,
     );
     if (collarIds.length) await this.loadCollars(collarIds);
     const analyzerIds = missing(
-      closures.map((c) => c['analyzerId']),
+      closures.map((c) => c.analyzerId),
       this.analyzers,
     );
     if (analyzerIds.length) await this.loadAnalyzers(analyzerIds);
     const visitIds = missing(
-      closures.map((c) => c['visitId']),
+      closures.map((c) => c.visitId),
       this.visits,
     );
     if (visitIds.length) await this.loadVisits(visitIds);
   }
 
-  async contextFor(c: Record<string, unknown>): Promise<ClosureContext> {
+  async contextFor(c: ClosureRefs): Promise<ClosureContext> {
     await this.preload([c]);
-    const site = this.sites.get(String(c['siteId']));
-    const collar = this.collars.get(String(c['collarId']));
-    const analyzer = typeof c['analyzerId'] === 'string' ? this.analyzers.get(c['analyzerId']) : undefined;
+    const site = this.sites.get(c.siteId);
+    const collar = this.collars.get(c.collarId);
+    const analyzer = c.analyzerId === null ? undefined : this.analyzers.get(c.analyzerId);
     const timezone = site?.timezone ?? 'UTC';
     const areaCm2 = collar?.areaCm2 ?? null;
-    const ambient = ambientForClosure(site?.ambientChecks ?? [], (c['analyzerId'] as string | null) ?? null, String(c['startedAt']));
+    const ambient = ambientForClosure(site?.ambientChecks ?? [], c.analyzerId, c.startedAt);
     return {
       timezone,
       elevationM: site?.elevationM ?? null,
-      ambientMarginPpm: site?.ambientMarginPpm ?? 100,
-      slopeBasis: site?.slopeBasis ?? 'closure',
+      ambientMarginPpm: site?.ambientMarginPpm ?? SITE_DEFAULTS.ambientMarginPpm,
+      slopeBasis: site?.slopeBasis ?? SITE_DEFAULTS.slopeBasis,
       areaCm2,
-      defaultProfileId: site?.defaultProfileId ?? null,
+      defaultProfileId: site?.defaultProfileId ?? SITE_DEFAULTS.defaultProfileId,
       profiles: withCollarArea(site?.profiles ?? [], areaCm2),
       offsetSets: collar?.offsetSets ?? [],
       precisionPpm: analyzer?.precisionPpm ?? null,
@@ -102,17 +130,17 @@ export class ClosureInputs {
       rangeMaxPpm: analyzer?.rangeMaxPpm ?? null,
       ambient,
       ambientPpm: ambient?.ppm ?? null,
-      visitAirTempC: this.visits.get(String(c['visitId'])) ?? null,
-      defaultAirTempC: site?.defaultAirTempC ?? 15,
+      visitAirTempC: this.visits.get(c.visitId) ?? null,
+      defaultAirTempC: site?.defaultAirTempC ?? SITE_DEFAULTS.defaultAirTempC,
     };
   }
 
   private async loadSite(siteId: string): Promise<void> {
-    const [s] = await this.db.query(
+    const [s]: (SiteRow | undefined)[] = await this.db.query(
       `SELECT timezone, elevation_m, ambient_margin_ppm, slope_basis, default_profile_id, default_air_temp_c FROM site WHERE id = $1`,
       [siteId],
     );
-    const profiles = await this.db.query(
+    const profiles: ProfileRow[] = await this.db.query(
       `SELECT id, name, to_char(valid_from, 'YYYY-MM-DD') AS valid_from, chamber_volume_cm3, loop_volume_cm3, footprint_area_cm2
          FROM chamber_profile WHERE site_id = $1 AND NOT deleted`,
       [siteId],
@@ -126,17 +154,17 @@ export class ClosureInputs {
     this.sites.set(siteId, {
       timezone,
       elevationM: s?.elevation_m ?? null,
-      ambientMarginPpm: s?.ambient_margin_ppm ?? 100,
-      slopeBasis: s?.slope_basis === 'settle_end' ? 'settle_end' : 'closure',
-      defaultProfileId: s?.default_profile_id ?? null,
-      defaultAirTempC: s?.default_air_temp_c ?? 15,
-      profiles: profiles.map((p: Record<string, unknown>) => ({
-        id: p['id'] as string,
-        name: p['name'] as string,
-        validFrom: p['valid_from'] as string,
-        chamberVolumeCm3: p['chamber_volume_cm3'] as number,
-        loopVolumeCm3: p['loop_volume_cm3'] as number,
-        footprintAreaCm2: (p['footprint_area_cm2'] as number | null) ?? null,
+      ambientMarginPpm: s?.ambient_margin_ppm ?? SITE_DEFAULTS.ambientMarginPpm,
+      slopeBasis: s?.slope_basis ?? SITE_DEFAULTS.slopeBasis,
+      defaultProfileId: s?.default_profile_id ?? SITE_DEFAULTS.defaultProfileId,
+      defaultAirTempC: s?.default_air_temp_c ?? SITE_DEFAULTS.defaultAirTempC,
+      profiles: profiles.map((p) => ({
+        id: p.id,
+        name: p.name,
+        validFrom: p.valid_from,
+        chamberVolumeCm3: p.chamber_volume_cm3,
+        loopVolumeCm3: p.loop_volume_cm3,
+        footprintAreaCm2: p.footprint_area_cm2,
       })),
       ambientChecks: ambient.map((a) => ({ id: a.id, analyzerId: a.analyzer_id, at: a.at.toISOString(), co2Ppm: a.co2_ppm })),
     });
@@ -179,9 +207,10 @@ export class ClosureInputs {
   }
 
   private async loadAnalyzers(ids: string[]): Promise<void> {
-    const rows = await this.db.query(`SELECT id, precision_ppm, range_min_ppm, range_max_ppm FROM analyzer WHERE id = ANY($1)`, [ids]);
+    const rows: { id: string; precision_ppm: number | null; range_min_ppm: number | null; range_max_ppm: number | null }[] =
+      await this.db.query(`SELECT id, precision_ppm, range_min_ppm, range_max_ppm FROM analyzer WHERE id = ANY($1)`, [ids]);
     for (const id of ids) {
-      const a = rows.find((r: { id: string }) => r.id === id);
+      const a = rows.find((r) => r.id === id);
       this.analyzers.set(id, {
         precisionPpm: a?.precision_ppm ?? null,
         rangeMinPpm: a?.range_min_ppm ?? null,
@@ -192,6 +221,6 @@ export class ClosureInputs {
 }
 
 /** The inputs of one closure (the write path); see ClosureInputs. */
-export async function loadClosureContext(em: Db, c: Record<string, unknown>): Promise<ClosureContext> {
+export async function loadClosureContext(em: Db, c: ClosureRefs): Promise<ClosureContext> {
   return new ClosureInputs(em).contextFor(c);
 }

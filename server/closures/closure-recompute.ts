@@ -1,22 +1,27 @@
 import type { DataSource, EntityManager } from 'typeorm';
+import { z } from 'zod';
 import { ChangeBuffer } from '../records/change-buffer';
-import { resultsFor } from './closure-results';
+import type { ClosureResultsWire } from '../../shared/bench/review-wire';
+import type { ClosureModel } from '../../shared/flux';
+import type { StoredRecord } from '../../shared/model/stored-record';
+import { resultsFor, type ClosureFitFields } from './closure-results';
 import { ClosureInputs } from './closure-inputs';
 import { canonicalJson } from './canonical-json';
 
-/** Which closures a recompute looks at; every one of them is recomputed, only changed ones are written. */
-export interface RecomputeScope {
-  siteId: string;
-  collarId?: string | null;
+/** Which closures a recompute looks at; every one of them is recomputed, only changed ones are written. Parsed from a job's data. */
+export const recomputeScopeSchema = z.object({
+  siteId: z.string(),
+  collarId: z.string().nullish(),
   /** Local days, inclusive; a closure outside them is not looked at. */
-  fromDay?: string | null;
+  fromDay: z.string().nullish(),
   /** Instants (ISO), inclusive: closures started between them, when a write affects only a stretch of time. */
-  fromAt?: string | null;
-  toAt?: string | null;
+  fromAt: z.string().nullish(),
+  toAt: z.string().nullish(),
   /** Closures carrying this flag are in scope whatever their day (e.g. a volume taken from a later offset set). */
-  orFlagged?: string | null;
-  reason: string;
-}
+  orFlagged: z.string().nullish(),
+  reason: z.string(),
+});
+export type RecomputeScope = z.infer<typeof recomputeScopeSchema>;
 
 export interface RecomputeOutcome {
   examined: number;
@@ -29,6 +34,40 @@ export interface RecomputeOutcome {
 const PAGE = 1000;
 /** Ids listed in a job's result; beyond this only the counts are kept. */
 const MAX_LISTED = 2000;
+
+/** One closure of a recompute page as the driver hands it over, with its campaign's lock. */
+interface RecomputeRow {
+  id: string;
+  rev: string;
+  site_id: string;
+  collar_id: string;
+  analyzer_id: string | null;
+  profile_id: string | null;
+  visit_id: string;
+  started_at: Date;
+  settle_s: number;
+  series: StoredRecord<'closure'>['series'];
+  review_state: StoredRecord<'closure'>['reviewState'];
+  review_settle_s: number | null;
+  review_window_end_s: number | null;
+  review_model: ClosureModel | null;
+  review_exclusions: StoredRecord<'closure'>['reviewExclusions'];
+  results: ClosureResultsWire | null;
+  flags: string[];
+  flux_umol_m2_s: number | null;
+  locked: boolean;
+}
+
+/** A closure of a page in wire form: what the fit reads and what the comparison with the stored results needs. */
+interface RecomputeClosure extends ClosureFitFields {
+  id: string;
+  rev: number;
+  reviewState: StoredRecord<'closure'>['reviewState'];
+  results: ClosureResultsWire | null;
+  flags: string[];
+  fluxUmolM2S: number | null;
+  locked: boolean;
+}
 
 const COLUMNS = `c.id, c.rev, c.site_id, c.collar_id, c.analyzer_id, c.profile_id, c.visit_id, c.started_at, c.settle_s, c.series, c.review_state,
   c.review_settle_s, c.review_window_end_s, c.review_model, c.review_exclusions, c.results, c.flags, c.flux_umol_m2_s, p.locked`;
@@ -73,7 +112,7 @@ export async function recomputeClosures(
   const [{ n }] = await ds.query(`SELECT count(*)::int AS n FROM closure c JOIN site s ON s.id = c.site_id WHERE ${where}`, args);
   const out: RecomputeOutcome = { examined: 0, changed: 0, lockedKept: 0, changedIds: [] };
   const inputs = new ClosureInputs(ds);
-  const page = (after: string): Promise<Record<string, unknown>[]> =>
+  const page = (after: string): Promise<RecomputeRow[]> =>
     ds.query(
       `SELECT ${COLUMNS} FROM closure c JOIN site s ON s.id = c.site_id JOIN campaign p ON p.id = c.campaign_id
       WHERE ${where} AND c.id > $7 ORDER BY c.id LIMIT ${PAGE}`,
@@ -86,7 +125,7 @@ export async function recomputeClosures(
   for (;;) {
     const rows = await next;
     if (!rows.length) break;
-    next = page(String(rows[rows.length - 1]['id']));
+    next = page(rows[rows.length - 1].id);
     next.catch(() => undefined); // awaited on the next turn; a failure surfaces there
     const updates = await computePage(inputs, rows, scope, out);
     await writing;
@@ -109,33 +148,26 @@ interface Update {
   reviewed: boolean;
 }
 
-async function computePage(
-  inputs: ClosureInputs,
-  rows: Record<string, unknown>[],
-  scope: RecomputeScope,
-  out: RecomputeOutcome,
-): Promise<Update[]> {
+async function computePage(inputs: ClosureInputs, rows: RecomputeRow[], scope: RecomputeScope, out: RecomputeOutcome): Promise<Update[]> {
   const closures = rows.map(wireOf);
   await inputs.preload(closures);
   const updates: Update[] = [];
-  for (let i = 0; i < rows.length; i++) {
-    const c = closures[i];
-    if (rows[i]['locked']) {
+  for (const c of closures) {
+    if (c.locked) {
       out.lockedKept++;
       continue;
     }
     const next = resultsFor(c, await inputs.contextFor(c));
-    const stored = (c['results'] ?? null) as Record<string, unknown> | null;
-    const { recomputedSinceReview: marker, ...storedResults } = stored ?? {};
-    const oldFlux = (c['fluxUmolM2S'] as number | null) ?? null;
+    const stored = c.results;
+    const { recomputedSinceReview: prior, ...storedResults } = stored ?? {};
+    const oldFlux = c.fluxUmolM2S;
     const same =
       stored !== null &&
       canonicalJson(storedResults) === canonicalJson(next.results) &&
-      canonicalJson(c['flags']) === canonicalJson(next.flags) &&
+      canonicalJson(c.flags) === canonicalJson(next.flags) &&
       oldFlux === next.fluxUmolM2S;
     if (same) continue;
-    const reviewed = c['reviewState'] !== 'unreviewed';
-    const prior = marker as { oldFluxUmolM2S: number | null } | undefined;
+    const reviewed = c.reviewState !== 'unreviewed';
     const results =
       reviewed && (prior || oldFlux !== next.fluxUmolM2S)
         ? {
@@ -149,9 +181,9 @@ async function computePage(
           }
         : next.results;
     updates.push({
-      id: String(c['id']),
-      rev: Number(c['rev']),
-      siteId: String(c['siteId']),
+      id: c.id,
+      rev: c.rev,
+      siteId: c.siteId,
       results: JSON.stringify(results),
       flags: next.flags,
       flux: next.fluxUmolM2S,
@@ -216,25 +248,26 @@ async function writeUpdates(em: EntityManager, updates: Update[], jobId: string 
   for (const id of ids) if (out.changedIds.length < MAX_LISTED) out.changedIds.push(id);
 }
 
-function wireOf(r: Record<string, unknown>): Record<string, unknown> {
+function wireOf(r: RecomputeRow): RecomputeClosure {
   return {
-    id: r['id'],
-    rev: Number(r['rev']),
-    siteId: r['site_id'],
-    collarId: r['collar_id'],
-    analyzerId: r['analyzer_id'],
-    profileId: r['profile_id'],
-    visitId: r['visit_id'],
-    startedAt: (r['started_at'] as Date).toISOString(),
-    settleS: r['settle_s'],
-    series: r['series'],
-    reviewState: r['review_state'],
-    reviewSettleS: r['review_settle_s'],
-    reviewWindowEndS: r['review_window_end_s'],
-    reviewModel: r['review_model'],
-    reviewExclusions: r['review_exclusions'],
-    results: r['results'],
-    flags: r['flags'],
-    fluxUmolM2S: r['flux_umol_m2_s'],
+    id: r.id,
+    rev: Number(r.rev),
+    siteId: r.site_id,
+    collarId: r.collar_id,
+    analyzerId: r.analyzer_id,
+    profileId: r.profile_id,
+    visitId: r.visit_id,
+    startedAt: r.started_at.toISOString(),
+    settleS: r.settle_s,
+    series: r.series,
+    reviewState: r.review_state,
+    reviewSettleS: r.review_settle_s,
+    reviewWindowEndS: r.review_window_end_s,
+    reviewModel: r.review_model,
+    reviewExclusions: r.review_exclusions,
+    results: r.results,
+    flags: r.flags,
+    fluxUmolM2S: r.flux_umol_m2_s,
+    locked: r.locked,
   };
 }

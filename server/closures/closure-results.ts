@@ -1,6 +1,14 @@
 import type { EntityManager } from 'typeorm';
-import { engineVersion, planClosureFit, type ClosureSeries } from '../../shared/flux';
-import { loadClosureContext, type ClosureContext } from './closure-inputs';
+import { engineVersion, planClosureFit } from '../../shared/flux';
+import type { StoredRecord } from '../../shared/model/stored-record';
+import { loadClosureContext, type ClosureContext, type ClosureRefs } from './closure-inputs';
+
+/** The closure fields a fit reads: its series and settle time, the lab's review settings, and what its inputs are looked up by. */
+export type ClosureFitFields = ClosureRefs &
+  Pick<
+    StoredRecord<'closure'>,
+    'profileId' | 'settleS' | 'series' | 'reviewSettleS' | 'reviewWindowEndS' | 'reviewModel' | 'reviewExclusions'
+  >;
 
 export interface ClosureResults {
   results: Record<string, unknown>;
@@ -13,19 +21,16 @@ export interface ClosureResults {
  * changed by review) and, when the lab moved the settle time, window or model, once more with
  * those or left points out (`review`). The flux shown is the review's when there is one.
  */
-export function resultsFor(c: Record<string, unknown>, ctx: ClosureContext): ClosureResults {
-  const plan = planClosureFit(
-    { startedAt: String(c['startedAt']), profileId: (c['profileId'] as string | null) ?? null, series: c['series'] as ClosureSeries },
-    ctx,
-  );
-  const raw = plan.fit({ settleS: Number(c['settleS']) });
-  const excluded = ((c['reviewExclusions'] as { index: number }[] | null | undefined) ?? []).map((e) => e.index);
-  const reviewed = c['reviewSettleS'] != null || c['reviewWindowEndS'] != null || c['reviewModel'] != null || excluded.length > 0;
+export function resultsFor(c: ClosureFitFields, ctx: ClosureContext): ClosureResults {
+  const plan = planClosureFit({ startedAt: c.startedAt, profileId: c.profileId, series: c.series }, ctx);
+  const raw = plan.fit({ settleS: c.settleS });
+  const excluded = c.reviewExclusions.map((e) => e.index);
+  const reviewed = c.reviewSettleS !== null || c.reviewWindowEndS !== null || c.reviewModel !== null || excluded.length > 0;
   const review = reviewed
     ? plan.fit({
-        settleS: Number(c['reviewSettleS'] ?? c['settleS']),
-        windowEndS: (c['reviewWindowEndS'] as number | null) ?? null,
-        model: (c['reviewModel'] as 'linear' | 'exponential' | 'quadratic' | null) ?? 'auto',
+        settleS: c.reviewSettleS ?? c.settleS,
+        windowEndS: c.reviewWindowEndS,
+        model: c.reviewModel ?? 'auto',
         excludedIndices: excluded,
       })
     : null;
@@ -57,7 +62,12 @@ export function resultsFor(c: Record<string, unknown>, ctx: ClosureContext): Clo
   };
 }
 
-export async function computeClosureResults(em: EntityManager, c: Record<string, unknown>): Promise<Record<string, unknown>> {
+/**
+ * The derived fields of a closure about to be stored. The writer hands over any entity's record
+ * untyped; a closure's has passed the closure schema (or been read from its row) by then.
+ */
+export async function computeClosureResults(em: EntityManager, record: Record<string, unknown>): Promise<Record<string, unknown>> {
+  const c = record as ClosureFitFields;
   return { ...resultsFor(c, await loadClosureContext(em, c)) };
 }
 

@@ -4,7 +4,8 @@ import type { WrittenRecord } from '../records/after-write';
 import { defineJob } from '../jobs/job-registry';
 import { enqueueJob } from '../jobs/job-store';
 import { localDay } from '../../shared/time/site-time';
-import { recomputeClosures, scopeHasClosures, type RecomputeScope } from './closure-recompute';
+import { recomputeClosures, recomputeScopeSchema, scopeHasClosures, type RecomputeScope } from './closure-recompute';
+import { isWriteOf } from './entity-write';
 import { AMBIENT_MAX_GAP_H } from '../../shared/flux';
 
 export const RECOMPUTE_JOB = 'closure-recompute';
@@ -23,68 +24,61 @@ const PROFILE_INPUTS = ['validFrom', 'chamberVolumeCm3', 'loopVolumeCm3', 'footp
  * an ambient reading (the site's closures within reach of it, for the start-above-ambient flag).
  */
 export async function recomputeScopeFor(w: WrittenRecord): Promise<RecomputeScope | null> {
-  const a = w.after;
-  const siteId = String(a['siteId'] ?? (w.entity === 'site' ? w.id : ''));
-  const changedAny = (fields: string[]) => w.action !== 'update' || fields.some((f) => w.before && !sameValue(w.before[f], a[f]));
-  switch (w.entity) {
-    case 'offsetSet': {
-      // A set serves its collar's closures from its own day on, and earlier ones that had no set before
-      // them (they borrowed a later one, flagged offset-after); a superseded set, those of its day too.
-      const [s] = await w.em.query(`SELECT timezone FROM site WHERE id = $1`, [siteId]);
-      const superseded = a['supersedesId']
-        ? ((await w.em.query(`SELECT taken_at FROM offset_set WHERE id = $1`, [a['supersedesId']]))[0]?.taken_at ?? null)
-        : null;
-      const days = [a['takenAt'], w.before?.['takenAt'], superseded]
-        .filter((t) => t != null)
-        .map((t) => localDay(t instanceof Date ? t : new Date(String(t)), s?.timezone ?? 'UTC'))
-        .sort();
-      return {
-        siteId,
-        collarId: String(a['collarId']),
-        fromDay: days[0] ?? null,
-        orFlagged: 'offset-after',
-        reason: a['supersedesId'] ? 'offset set superseded' : `offset set ${w.action === 'delete' ? 'removed' : 'added'}`,
-      };
-    }
-    case 'chamberProfile': {
-      if (!changedAny(PROFILE_INPUTS)) return null;
-      const days = [a['validFrom'], w.before?.['validFrom']].filter((d): d is string => typeof d === 'string').sort();
-      return {
-        siteId,
-        fromDay: days[0] ?? null,
-        reason: w.action === 'create' ? 'chamber profile version added' : 'chamber profile changed',
-      };
-    }
-    case 'collar':
-      // A is the collar's own inside area: a corrected diameter or side moves its closures' fluxes.
-      return w.action === 'update' && changedAny(COLLAR_INPUTS) ? { siteId, collarId: w.id, reason: 'collar area changed' } : null;
-    case 'site':
-      return w.action === 'update' && changedAny(SITE_INPUTS) ? { siteId: w.id, reason: 'site defaults changed' } : null;
-    case 'analyzerCheck': {
-      if (a['kind'] !== 'ambient' && w.before?.['kind'] !== 'ambient') return null;
-      // A reading serves the closures within AMBIENT_MAX_GAP_H of it (chamber-system.ts); a moved reading, those of its old time too.
-      const times = [a['at'], w.before?.['at']].filter((t): t is string => typeof t === 'string').map((t) => Date.parse(t));
-      const gapMs = AMBIENT_MAX_GAP_H * 3600_000;
-      return {
-        siteId,
-        fromAt: new Date(Math.min(...times) - gapMs).toISOString(),
-        toAt: new Date(Math.max(...times) + gapMs).toISOString(),
-        reason: 'ambient reading recorded',
-      };
-    }
-    case 'visit':
-      // The visit's air temperature stands in for a missing chamber temperature.
-      return w.action === 'update' &&
-        w.before &&
-        !sameValue(
-          (w.before['conditions'] as { airTempC?: unknown } | null)?.airTempC ?? null,
-          (a['conditions'] as { airTempC?: unknown } | null)?.airTempC ?? null,
-        )
-        ? { siteId, collarId: String(a['collarId']), reason: 'visit air temperature changed' }
-        : null;
-    default:
-      return null;
+  const changedAny = (fields: string[]) => w.action !== 'update' || fields.some((f) => w.before && !sameValue(w.before[f], w.after[f]));
+  if (isWriteOf(w, 'offsetSet')) {
+    // A set serves its collar's closures from its own day on, and earlier ones that had no set before
+    // them (they borrowed a later one, flagged offset-after); a superseded set, those of its day too.
+    const a = w.after;
+    const [s]: { timezone: string }[] = await w.em.query(`SELECT timezone FROM site WHERE id = $1`, [a.siteId]);
+    const [superseded]: { taken_at: Date }[] = a.supersedesId
+      ? await w.em.query(`SELECT taken_at FROM offset_set WHERE id = $1`, [a.supersedesId])
+      : [];
+    const days = [a.takenAt, w.before?.takenAt, superseded?.taken_at]
+      .filter((t) => t !== undefined)
+      .map((t) => localDay(new Date(t), s?.timezone ?? 'UTC'))
+      .sort();
+    return {
+      siteId: a.siteId,
+      collarId: a.collarId,
+      fromDay: days[0] ?? null,
+      orFlagged: 'offset-after',
+      reason: a.supersedesId ? 'offset set superseded' : `offset set ${w.action === 'delete' ? 'removed' : 'added'}`,
+    };
   }
+  if (isWriteOf(w, 'chamberProfile')) {
+    if (!changedAny(PROFILE_INPUTS)) return null;
+    const days = [w.after.validFrom, w.before?.validFrom].filter((d) => d !== undefined).sort();
+    return {
+      siteId: w.after.siteId,
+      fromDay: days[0] ?? null,
+      reason: w.action === 'create' ? 'chamber profile version added' : 'chamber profile changed',
+    };
+  }
+  if (isWriteOf(w, 'collar'))
+    // A is the collar's own inside area: a corrected diameter or side moves its closures' fluxes.
+    return w.action === 'update' && changedAny(COLLAR_INPUTS)
+      ? { siteId: w.after.siteId, collarId: w.id, reason: 'collar area changed' }
+      : null;
+  if (isWriteOf(w, 'site'))
+    return w.action === 'update' && changedAny(SITE_INPUTS) ? { siteId: w.id, reason: 'site defaults changed' } : null;
+  if (isWriteOf(w, 'analyzerCheck')) {
+    if (w.after.kind !== 'ambient' && w.before?.kind !== 'ambient') return null;
+    // A reading serves the closures within AMBIENT_MAX_GAP_H of it (chamber-system.ts); a moved reading, those of its old time too.
+    const times = [w.after.at, w.before?.at].filter((t) => t !== undefined).map((t) => Date.parse(t));
+    const gapMs = AMBIENT_MAX_GAP_H * 3600_000;
+    return {
+      siteId: w.after.siteId,
+      fromAt: new Date(Math.min(...times) - gapMs).toISOString(),
+      toAt: new Date(Math.max(...times) + gapMs).toISOString(),
+      reason: 'ambient reading recorded',
+    };
+  }
+  if (isWriteOf(w, 'visit'))
+    // The visit's air temperature stands in for a missing chamber temperature.
+    return w.action === 'update' && w.before && !sameValue(w.before.conditions.airTempC ?? null, w.after.conditions.airTempC ?? null)
+      ? { siteId: w.after.siteId, collarId: w.after.collarId, reason: 'visit air temperature changed' }
+      : null;
+  return null;
 }
 
 /** After-write listener: asks for a recompute job in the same transaction as the write that makes it necessary, when a stored closure is affected. */
@@ -108,7 +102,7 @@ export async function requestRecompute(w: WrittenRecord): Promise<void> {
 export function defineRecomputeJob(): void {
   defineJob({
     name: RECOMPUTE_JOB,
-    handler: (data, ctx) => recomputeClosures(ctx.ds, data as unknown as RecomputeScope, { jobId: ctx.jobId, progress: ctx.progress }),
+    handler: (data, ctx) => recomputeClosures(ctx.ds, recomputeScopeSchema.parse(data), { jobId: ctx.jobId, progress: ctx.progress }),
   });
 }
 

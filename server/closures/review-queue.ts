@@ -148,7 +148,8 @@ export async function reviewQueue(ds: DataSource, user: SessionUser, rawQuery: u
   const page = parse(pageSchema, rawQuery, 'Some queue filters are not valid');
   const { sql, args, p } = queueSql(filter, readableSites(user));
   const rows: QueueRow[] = await ds.query(`${sql} ORDER BY started_at, id LIMIT ${p(page.limit)} OFFSET ${p(page.offset)}`, args);
-  const total = rows.length ? Number(rows[0].total) : page.offset ? await countQueue(ds, filter, user) : 0;
+  const [first] = rows;
+  const total = first ? Number(first.total) : page.offset ? await countQueue(ds, filter, user) : 0;
   return { items: rows.map(toItem), total, limit: page.limit, offset: page.offset };
 }
 
