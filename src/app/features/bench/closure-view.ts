@@ -1,22 +1,12 @@
 import { DecimalPipe } from '@angular/common';
-import {
-  ChangeDetectionStrategy,
-  Component,
-  ElementRef,
-  computed,
-  effect,
-  input,
-  output,
-  signal,
-  untracked,
-  viewChild,
-} from '@angular/core';
-import { FormsModule } from '@angular/forms';
+import { ChangeDetectionStrategy, Component, ElementRef, computed, inject, input, output, viewChild } from '@angular/core';
+import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatInputModule } from '@angular/material/input';
 import { MatListModule } from '@angular/material/list';
 import { MatSelectModule } from '@angular/material/select';
-import type { ClosureDetail, FitResult } from '../../../../shared/bench/review-wire';
+import type { ClosureDetail, DetailClosure, FitResult } from '../../../../shared/bench/review-wire';
+import type { ClosureModel } from '../../../../shared/flux/closure-input';
 import { ClosureChart, type ChartInput } from './closure-chart';
 import { ClosureMove } from './closure-move';
 import { ClosureSystem } from './closure-system';
@@ -49,7 +39,7 @@ export interface Decision {
     DecimalPipe,
     FlagWordsPipe,
     PointExclusions,
-    FormsModule,
+    ReactiveFormsModule,
     SiteTimePipe,
     MatButtonModule,
     MatInputModule,
@@ -64,26 +54,33 @@ export class ClosureView {
   readonly detail = input.required<ClosureDetail>();
   readonly busy = input(false);
   readonly decide = output<Decision>();
-  protected readonly settle = signal(0);
-  protected readonly windowEnd = signal<number | null>(null);
-  protected readonly model = signal<string>('');
-  protected readonly reason = signal('');
+  private readonly fb = inject(NonNullableFormBuilder);
   private readonly reasonInput = viewChild<ElementRef<HTMLInputElement>>('reasonInput');
   private readonly pointPicker = viewChild(PointExclusions);
 
   protected readonly c = computed(() => this.detail().closure);
+  /** The lab's fit settings, as stored on the closure shown (a new closure or a saved decision starts them afresh). */
+  protected readonly fitForm = computed(() => {
+    const c = this.c();
+    return this.fb.group({
+      settle: this.fb.control<number | null>(c.reviewSettleS ?? c.settleS),
+      windowEnd: this.fb.control<number | null>(c.reviewWindowEndS),
+      model: this.fb.control<'' | ClosureModel>(c.reviewModel ?? ''),
+    });
+  });
+  protected readonly rejectForm = computed(() => this.fb.group({ reason: this.c().reviewReason ?? '' }));
   protected readonly fit = computed<FitResult>(() => this.c().results.review ?? this.c().results.raw);
-  protected readonly effectiveSettle = computed(() => Number(this.c()['reviewSettleS'] ?? this.c()['settleS']));
+  protected readonly effectiveSettle = computed(() => this.c().reviewSettleS ?? this.c().settleS);
   protected readonly chart = computed<ChartInput>(() => ({
-    tS: this.c().series['tS'] as (number | null)[],
-    co2Ppm: this.c().series['co2Ppm'] as (number | null)[],
-    h2oMmolMol: (this.c().series['h2oMmolMol'] as (number | null)[] | null) ?? null,
+    tS: this.c().series.tS,
+    co2Ppm: this.c().series.co2Ppm,
+    h2oMmolMol: this.c().series.h2oMmolMol,
     settleS: this.effectiveSettle(),
-    windowEndS: (this.c()['reviewWindowEndS'] as number | null) ?? null,
+    windowEndS: this.c().reviewWindowEndS,
     fit: this.fit(),
     excluded: this.exclusions().map((e) => e.index),
   }));
-  // Closures stored before exclusions existed may come without the field.
+  // Closures stored before exclusions existed may come without the field (the column was added with a default since).
   protected readonly exclusions = computed<PointExclusion[]>(() => this.c().reviewExclusions ?? []);
   /** The review history with points left out in words ("45–48 (Spike)") rather than as lists. */
   protected readonly history = computed(() =>
@@ -95,7 +92,7 @@ export class ClosureView {
   );
   protected readonly bases = computed(() => fluxBases(this.fit()));
   protected readonly detectionLimit = computed(() => detectionLimitNote(this.fit()));
-  protected readonly startCo2 = computed(() => (this.c().series['co2Ppm'] as (number | null)[]).find((v) => v !== null) ?? null);
+  protected readonly startCo2 = computed(() => this.c().series.co2Ppm.find((v) => v !== null) ?? null);
   protected readonly models = computed(() => {
     const f = this.fit();
     return (
@@ -108,21 +105,9 @@ export class ClosureView {
   });
   protected readonly historyMax = computed(() => Math.max(1e-9, ...this.detail().collarHistory.map((h) => Math.abs(h.fluxUmolM2S ?? 0))));
 
-  constructor() {
-    effect(() => {
-      const c = this.c();
-      untracked(() => {
-        this.settle.set(Number(c['reviewSettleS'] ?? c['settleS']));
-        this.windowEnd.set((c['reviewWindowEndS'] as number | null) ?? null);
-        this.model.set((c['reviewModel'] as string | null) ?? '');
-        this.reason.set((c['reviewReason'] as string | null) ?? '');
-      });
-    });
-  }
-
   /** Moves the settle time by `by` seconds (keyboard widen/narrow) and recomputes at once. */
   nudgeSettle(by: number): void {
-    this.settle.set(Math.max(0, Math.min(600, this.effectiveSettle() + by)));
+    this.fitForm().controls.settle.setValue(Math.max(0, Math.min(600, this.effectiveSettle() + by)));
     this.applyFit();
   }
 
@@ -144,13 +129,15 @@ export class ClosureView {
 
   protected applyFit(): void {
     const c = this.c();
-    const fields: Record<string, unknown> = {};
-    const settle = this.settle() === Number(c['settleS']) ? null : this.settle();
-    if (settle !== (c['reviewSettleS'] ?? null)) fields['reviewSettleS'] = settle;
-    const end = this.windowEnd() || null;
-    if (end !== (c['reviewWindowEndS'] ?? null)) fields['reviewWindowEndS'] = end;
-    const model = this.model() || null;
-    if (model !== (c['reviewModel'] ?? null)) fields['reviewModel'] = model;
+    const v = this.fitForm().getRawValue();
+    const fields: Partial<Pick<DetailClosure, 'reviewSettleS' | 'reviewWindowEndS' | 'reviewModel'>> = {};
+    // An emptied settle field reads 0 s, as the number field's value did.
+    const settle = (v.settle ?? 0) === c.settleS ? null : (v.settle ?? 0);
+    if (settle !== c.reviewSettleS) fields.reviewSettleS = settle;
+    const end = v.windowEnd || null;
+    if (end !== c.reviewWindowEndS) fields.reviewWindowEndS = end;
+    const model = v.model || null;
+    if (model !== c.reviewModel) fields.reviewModel = model;
     if (Object.keys(fields).length) this.decide.emit({ fields });
   }
 
@@ -159,11 +146,12 @@ export class ClosureView {
   }
 
   protected reject(): void {
-    if (!this.reason().trim()) {
+    const reason = this.rejectForm().controls.reason.value.trim();
+    if (!reason) {
       this.focusReason();
       return;
     }
-    this.decide.emit({ fields: { reviewState: 'rejected', reviewReason: this.reason().trim() } });
+    this.decide.emit({ fields: { reviewState: 'rejected', reviewReason: reason } });
   }
 
   protected numbersOf(name: 'linear' | 'exponential' | 'quadratic') {

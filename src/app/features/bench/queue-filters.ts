@@ -1,4 +1,6 @@
-import { ChangeDetectionStrategy, Component, computed, effect, inject, input, output, signal, untracked } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, input, output, resource, untracked } from '@angular/core';
+import { toSignal } from '@angular/core/rxjs-interop';
+import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
 import { MatExpansionModule } from '@angular/material/expansion';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
@@ -6,16 +8,20 @@ import { narrowScreen } from '../../core/layout/narrow-screen';
 import { QC_FLAGS } from '../../../../shared/flux';
 import { REVIEW_STATE_WORDS, REVIEW_STATES } from '../../../../shared/model/progress-state';
 import { FlagWordsPipe } from '../closures/flag-words-pipe';
-import type { QueueFilter } from '../../../../shared/bench/review-wire';
-import { BenchApi, type Named } from './bench-api';
+import type { QueueFilter, ReviewState } from '../../../../shared/bench/review-wire';
+import { BenchApi } from './bench-api';
+
+type YesNo = '' | 'yes' | 'no';
+const yesNo = (v: YesNo) => (v === 'yes' ? true : v === 'no' ? false : undefined);
 
 /**
- * The queue's filters: design, fit and the context of the day. Emits a whole filter on every change.
- * The panel folds on a phone (the queue comes first there) and says which filters are set.
+ * The queue's filters: design, fit and the context of the day. Emits a whole filter on every change
+ * (a typed number once the field is left, as its change event did). The panel folds on a phone (the
+ * queue comes first there) and says which filters are set.
  */
 @Component({
   selector: 'fw-queue-filters',
-  imports: [FlagWordsPipe, MatExpansionModule, MatInputModule, MatSelectModule],
+  imports: [FlagWordsPipe, MatExpansionModule, MatInputModule, MatSelectModule, ReactiveFormsModule],
   templateUrl: './queue-filters.html',
   styleUrl: './bench.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -27,71 +33,85 @@ export class QueueFilters {
   protected readonly flags = Object.keys(QC_FLAGS);
   protected readonly reviewStates = REVIEW_STATES;
   protected readonly reviewWords = REVIEW_STATE_WORDS;
-  protected readonly campaigns = signal<Named[]>([]);
-  protected readonly plots = signal<Named[]>([]);
-  protected readonly treatments = signal<Named[]>([]);
-  protected readonly collars = signal<Named[]>([]);
   protected readonly yesNo = [
     { key: 'rain24h', label: 'Rain in the last 24 h' },
     { key: 'leakFailed', label: 'Failed leak check that day' },
     { key: 'recomputedSinceReview', label: 'Recomputed since review' },
-  ];
+  ] as const;
   protected readonly phone = narrowScreen();
-  private readonly current = signal<Record<string, string>>({});
-  protected get f(): Partial<Record<string, string>> {
-    return this.current();
-  }
+
+  private readonly fb = inject(NonNullableFormBuilder);
+  private readonly days = () => this.fb.control<number | null>(null, { updateOn: 'blur' });
+  protected readonly form = this.fb.group({
+    campaignId: '',
+    round: this.days(),
+    treatmentId: '',
+    plotId: '',
+    collarId: '',
+    flag: '',
+    reviewState: this.fb.control<'' | ReviewState>(''),
+    installedWithinDays: this.days(),
+    clippedWithinDays: this.days(),
+    rain24h: this.fb.control<YesNo>(''),
+    leakFailed: this.fb.control<YesNo>(''),
+    recomputedSinceReview: this.fb.control<YesNo>(''),
+    calibrationOlderThanDays: this.days(),
+    driftAtLeastPpm: this.days(),
+  });
+  private readonly value = toSignal(this.form.valueChanges, { initialValue: this.form.getRawValue() });
   protected readonly summary = computed(() => {
-    const set = Object.values(this.current()).filter((v) => v !== '' && v !== undefined).length;
+    const set = Object.values(this.value()).filter((v) => v !== '' && v !== null && v !== undefined).length;
     return set ? `${set} set` : 'All closures';
   });
 
-  constructor() {
-    effect(() => {
-      const site = this.siteId();
-      void Promise.all([
+  /** The site's campaigns, plots, treatments and collars to choose from (every page of each). */
+  private readonly choices = resource({
+    params: () => this.siteId(),
+    loader: async ({ params: site }) => {
+      const [campaigns, plots, treatments, collars] = await Promise.all([
         this.api.list('campaigns', site),
         this.api.list('plots', site),
         this.api.list('treatments', site),
         this.api.list('collars', site),
-      ]).then(([c, p, t, k]) => {
-        this.campaigns.set(c);
-        this.plots.set(p);
-        this.treatments.set(t);
-        this.collars.set(k);
-      });
-      untracked(() => {
-        this.current.set({});
-        this.emit();
-      });
+      ]);
+      return { campaigns, plots, treatments, collars };
+    },
+  });
+  private readonly listed = computed(() => (this.choices.hasValue() ? this.choices.value() : null));
+  protected readonly campaigns = computed(() => this.listed()?.campaigns ?? []);
+  protected readonly plots = computed(() => this.listed()?.plots ?? []);
+  protected readonly treatments = computed(() => this.listed()?.treatments ?? []);
+  protected readonly collars = computed(() => this.listed()?.collars ?? []);
+
+  constructor() {
+    this.form.valueChanges.subscribe(() => this.emit());
+    // Another site starts with no filter set (the reset emits that filter); nothing is loaded here.
+    effect(() => {
+      this.siteId();
+      untracked(() => this.form.reset());
     });
   }
 
-  protected set(key: string, value: string): void {
-    this.current.set({ ...this.current(), [key]: value });
-    this.emit();
-  }
-
   private emit(): void {
-    const n = (k: string) => (this.f[k] ? Number(this.f[k]) : undefined);
-    const b = (k: string) => (this.f[k] === 'yes' ? true : this.f[k] === 'no' ? false : undefined);
-    const s = (k: string) => this.f[k] || undefined;
+    const v = this.form.getRawValue();
+    const text = (s: string) => s || undefined;
+    const num = (n: number | null) => n ?? undefined;
     this.changed.emit({
       siteId: this.siteId(),
-      campaignId: s('campaignId'),
-      round: n('round'),
-      treatmentId: s('treatmentId'),
-      plotId: s('plotId'),
-      collarId: s('collarId'),
-      flag: s('flag'),
-      reviewState: s('reviewState') as QueueFilter['reviewState'],
-      installedWithinDays: n('installedWithinDays'),
-      clippedWithinDays: n('clippedWithinDays'),
-      rain24h: b('rain24h'),
-      calibrationOlderThanDays: n('calibrationOlderThanDays'),
-      driftAtLeastPpm: n('driftAtLeastPpm'),
-      leakFailed: b('leakFailed'),
-      recomputedSinceReview: b('recomputedSinceReview'),
+      campaignId: text(v.campaignId),
+      round: num(v.round),
+      treatmentId: text(v.treatmentId),
+      plotId: text(v.plotId),
+      collarId: text(v.collarId),
+      flag: text(v.flag),
+      reviewState: v.reviewState || undefined,
+      installedWithinDays: num(v.installedWithinDays),
+      clippedWithinDays: num(v.clippedWithinDays),
+      rain24h: yesNo(v.rain24h),
+      calibrationOlderThanDays: num(v.calibrationOlderThanDays),
+      driftAtLeastPpm: num(v.driftAtLeastPpm),
+      leakFailed: yesNo(v.leakFailed),
+      recomputedSinceReview: yesNo(v.recomputedSinceReview),
     });
   }
 }

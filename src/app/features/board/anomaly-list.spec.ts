@@ -14,7 +14,9 @@ async function render(items: Anomaly[]) {
   rememberOnDevice(testUser(['lead']), [{ id: 'site-a', name: 'Hollow Creek Meadow', timezone: 'Pacific/Auckland' }]);
   TestBed.configureTestingModule({ imports: [AnomalyList], providers: [BoardStore, provideHttpClient(), provideHttpClientTesting()] });
   const fixture = TestBed.createComponent(AnomalyList);
-  await fixture.whenStable();
+  // The list is read through a resource: it stays pending (so whenStable waits) until the answer is flushed.
+  TestBed.tick();
+  await settle();
   TestBed.inject(HttpTestingController)
     .expectOne((r) => r.url.startsWith('/api/sites/site-a/anomalies'))
     .flush({ campaignId: null, items });

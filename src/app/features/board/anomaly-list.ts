@@ -1,5 +1,5 @@
-import { ChangeDetectionStrategy, Component, computed, effect, inject, signal, untracked } from '@angular/core';
-import { FormsModule } from '@angular/forms';
+import { ChangeDetectionStrategy, Component, computed, inject, resource } from '@angular/core';
+import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
@@ -24,18 +24,18 @@ const KIND_LABELS: Record<string, string> = {
 /** What looks wrong on the site for the chosen campaign, grouped by kind, problems first. */
 @Component({
   selector: 'fw-anomaly-list',
-  imports: [SiteTimePipe, FormsModule, MatButtonModule, MatFormFieldModule, MatInputModule],
+  imports: [SiteTimePipe, ReactiveFormsModule, MatButtonModule, MatFormFieldModule, MatInputModule],
   template: `
     <section aria-labelledby="anomaly-heading">
       <h2 id="anomaly-heading">Anomalies</h2>
-      <div class="bar">
+      <form class="bar" [formGroup]="form" aria-label="Anomaly limits" (submit)="$event.preventDefault(); load()">
         <mat-form-field subscriptSizing="dynamic">
           <mat-label>Not visited for more than (days)</mat-label>
-          <input matInput type="number" min="1" [ngModel]="days()" (ngModelChange)="days.set(+$event)" />
+          <input matInput type="number" min="1" formControlName="days" />
         </mat-form-field>
         <button mat-stroked-button type="button" (click)="load()">Check again</button>
         @if (savedAt(); as at) { <span>As of {{ at | siteTime: zone() }}</span> }
-      </div>
+      </form>
       <p role="alert" class="problem">{{ problem() }}</p>
       @for (g of groups(); track g.kind) {
         <h3>{{ g.label }} ({{ g.items.length }})</h3>
@@ -84,11 +84,28 @@ export class AnomalyList {
   private readonly api = inject(BoardApi);
   private readonly cache = inject(BoardCache);
   protected readonly zone = this.store.zone;
-  protected readonly days = signal(30);
-  protected readonly items = signal<Anomaly[]>([]);
-  protected readonly savedAt = signal<string | null>(null);
-  protected readonly loaded = signal(false);
-  protected readonly problem = signal('');
+  private readonly fb = inject(NonNullableFormBuilder);
+  protected readonly form = this.fb.group({ days: this.fb.control<number | null>(30) });
+  /** The site's anomalies for the chosen campaign; the day limit is read when asked ("Check again"). */
+  private readonly read = resource({
+    params: () => {
+      const site = this.store.site();
+      return site ? { siteId: site.id, campaignId: this.store.campaignId() } : undefined;
+    },
+    loader: ({ params: { siteId, campaignId } }) => {
+      // An emptied field reads 0 days, as the number field's value did.
+      const days = this.form.controls.days.value ?? 0;
+      return this.cache.load(`anomalies.${siteId}.${campaignId}.${days}`, () => this.api.anomalies(siteId, campaignId, days));
+    },
+  });
+  private readonly answer = computed(() => (this.read.hasValue() ? this.read.value() : null));
+  protected readonly items = computed<Anomaly[]>(() => this.answer()?.value.items ?? []);
+  protected readonly savedAt = computed(() => this.answer()?.savedAt ?? null);
+  protected readonly loaded = computed(() => this.read.hasValue() || this.read.status() === 'error');
+  protected readonly problem = computed(() => {
+    const err = this.read.error();
+    return err ? serverMessage(err, 'Anomalies could not be loaded') : '';
+  });
   protected readonly groups = computed(() => {
     const by = new Map<string, Anomaly[]>();
     for (const a of this.items()) by.set(a.kind, [...(by.get(a.kind) ?? []), a]);
@@ -99,28 +116,7 @@ export class AnomalyList {
     return flags.map((code) => ({ code, ...flagAdvice(code) }));
   }
 
-  constructor() {
-    effect(() => {
-      this.store.campaignId();
-      untracked(() => void this.load());
-    });
-  }
-
-  protected async load(): Promise<void> {
-    const site = this.store.site();
-    if (!site) return;
-    this.problem.set('');
-    const campaignId = this.store.campaignId();
-    try {
-      const r = await this.cache.load(`anomalies.${site.id}.${campaignId}.${this.days()}`, () =>
-        this.api.anomalies(site.id, campaignId, this.days()),
-      );
-      this.items.set(r.value.items);
-      this.savedAt.set(r.savedAt);
-    } catch (err) {
-      this.problem.set(serverMessage(err, 'Anomalies could not be loaded'));
-    } finally {
-      this.loaded.set(true);
-    }
+  protected load(): void {
+    this.read.reload();
   }
 }

@@ -2,7 +2,10 @@ import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
 import { RecordsApi } from '../../core/api/records-api';
+import type { EntityFields } from '../../../../shared/model/entities';
+import { ENTITY_PATHS, type EntityName } from '../../../../shared/model/entity-names';
 import type { ProgressState } from '../../../../shared/model/progress-state';
+import type { StoredRecord } from '../../../../shared/model/stored-record';
 export type { ProgressState };
 export type ItemKey = 'offset' | 'closures' | 'probes';
 export interface ProgressItem {
@@ -24,25 +27,9 @@ export interface Progress {
   collars: ProgressCollar[];
   totals: { byRoute: Record<string, StateCounts>; byPlot: Record<string, StateCounts>; byTreatment: Record<string, StateCounts> };
 }
-export type Rec = Record<string, unknown> & { id: string; rev: number };
-export interface CampaignRoute {
-  routeId: string;
-  crewIds: string[];
-  direction: 'forward' | 'reverse' | 'alternate';
-}
-export interface Campaign extends Rec {
-  siteId: string;
-  name: string;
-  startsOn: string;
-  endsOn: string;
-  rounds: number;
-  dueOffset: boolean;
-  dueClosures: number;
-  dueProbes: boolean;
-  routes: CampaignRoute[];
-  roundWindows: { round: number; from: string; to: string }[];
-  locked: boolean;
-}
+/** The campaign records the Board plans and follows (routes with their crews, round windows, the lock). */
+export type Campaign = StoredRecord<'campaign'>;
+export type CampaignRoute = Campaign['routes'][number];
 export interface Anomaly {
   kind: string;
   severity: 'problem' | 'warn';
@@ -104,12 +91,12 @@ export class BoardApi {
   private readonly http = inject(HttpClient);
   private readonly records = inject(RecordsApi);
 
-  list<T = Rec>(path: string, query: Record<string, string>): Promise<T[]> {
-    return this.records.listAt<T>(path, query);
+  list<E extends EntityName>(entity: E, query: Record<string, string>): Promise<StoredRecord<E>[]> {
+    return this.records.list(entity, query);
   }
 
-  record(path: string, id: string): Promise<Rec> {
-    return firstValueFrom(this.http.get<{ record: Rec }>(`/api/${path}/${id}`)).then((r) => r.record);
+  record<E extends EntityName>(entity: E, id: string): Promise<StoredRecord<E>> {
+    return firstValueFrom(this.http.get<{ record: StoredRecord<E> }>(`/api/${ENTITY_PATHS[entity]}/${id}`)).then((r) => r.record);
   }
 
   progress(campaignId: string, round: number | null): Promise<Progress> {
@@ -123,12 +110,14 @@ export class BoardApi {
     return `/api/campaigns/${campaignId}/progress.csv${q ? `?${q}` : ''}`;
   }
 
-  create<T = Rec>(path: string, fields: Record<string, unknown>): Promise<T> {
-    return firstValueFrom(this.http.post<{ record: T }>(`/api/${path}`, fields)).then((r) => r.record);
+  create<E extends EntityName>(entity: E, fields: Partial<EntityFields<E>>): Promise<StoredRecord<E>> {
+    return firstValueFrom(this.http.post<{ record: StoredRecord<E> }>(`/api/${ENTITY_PATHS[entity]}`, fields)).then((r) => r.record);
   }
 
-  update<T = Rec>(path: string, id: string, rev: number, fields: Record<string, unknown>): Promise<T> {
-    return firstValueFrom(this.http.patch<{ record: T }>(`/api/${path}/${id}`, { rev, ...fields })).then((r) => r.record);
+  update<E extends EntityName>(entity: E, id: string, rev: number, fields: Partial<EntityFields<E>>): Promise<StoredRecord<E>> {
+    return firstValueFrom(this.http.patch<{ record: StoredRecord<E> }>(`/api/${ENTITY_PATHS[entity]}/${id}`, { rev, ...fields })).then(
+      (r) => r.record,
+    );
   }
 
   setLocked(campaignId: string, locked: boolean): Promise<Campaign> {

@@ -1,6 +1,7 @@
 import { signal } from '@angular/core';
 import { TestBed } from '@angular/core/testing';
-import { BoardApi, type Rec } from './board-api';
+import type { StoredRecord } from '../../../../shared/model/stored-record';
+import { BoardApi } from './board-api';
 import { BoardMap } from './board-map';
 import { BoardStore } from './board-store';
 
@@ -12,7 +13,7 @@ const SITE = {
   tileUrl: 'http://tiles.invalid/{z}/{x}/{y}.png',
   tileAttribution: `© ${HOSTILE}`,
 };
-const PLOT: Rec = {
+const PLOT: Pick<StoredRecord<'plot'>, 'id' | 'rev' | 'code' | 'outline'> = {
   id: 'plot-1',
   rev: 1,
   code: `P${HOSTILE}`,

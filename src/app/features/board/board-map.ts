@@ -7,14 +7,15 @@ import {
   computed,
   effect,
   inject,
-  signal,
+  resource,
   viewChild,
 } from '@angular/core';
 import { DomSanitizer, type SafeHtml } from '@angular/platform-browser';
 import * as L from 'leaflet';
 import { serverMessage } from '../../core/api/api-error';
 import { escapeHtml, mapText } from '../../core/map/map-text';
-import { BoardApi, type ProgressState, type Rec } from './board-api';
+import type { StoredRecord } from '../../../../shared/model/stored-record';
+import { BoardApi, type ProgressState } from './board-api';
 import { BoardStore } from './board-store';
 import { CollarCanvasLayer, type CollarPoint } from './collar-canvas-layer';
 import { STATE_LABELS, shapeSvg } from './state-badge';
@@ -57,14 +58,22 @@ export class BoardMap {
   private readonly store = inject(BoardStore);
   private readonly api = inject(BoardApi);
   private readonly host = viewChild.required<ElementRef<HTMLElement>>('map');
-  private readonly site = signal<Rec | null>(null);
+  /** The site's record (its tile server); read once the map opens and again when the site changes. */
+  private readonly siteRead = resource({
+    params: () => this.store.site()?.id,
+    loader: ({ params: siteId }) => this.api.record('site', siteId),
+  });
+  private readonly site = computed(() => (this.siteRead.hasValue() ? this.siteRead.value() : null));
   private map: L.Map | null = null;
   private layer: L.LayerGroup | null = null;
   private collarLayer: CollarCanvasLayer | null = null;
   protected readonly states = STATES;
-  protected readonly problem = signal('');
+  protected readonly problem = computed(() => {
+    const err = this.siteRead.error();
+    return err ? serverMessage(err, 'The site could not be loaded') : '';
+  });
   protected readonly note = computed(() =>
-    this.site()?.['tileUrl']
+    this.site()?.tileUrl
       ? 'Background map from the tile server set for this site.'
       : 'No background map: the site has no tile server set (an admin can set one in Setup).',
   );
@@ -76,19 +85,13 @@ export class BoardMap {
 
   constructor() {
     void this.store.ensureCollars();
-    const siteId = this.store.site()?.id;
-    if (siteId) {
-      this.api
-        .record('sites', siteId)
-        .then((site) => this.site.set(site))
-        .catch((err) => this.problem.set(serverMessage(err, 'The site could not be loaded')));
-    }
     afterNextRender(() => {
       this.map = L.map(this.host().nativeElement, { zoomSnap: 0.5, maxZoom: 22 }).setView([0, 0], 2);
       this.layer = L.layerGroup().addTo(this.map);
       this.collarLayer = new CollarCanvasLayer().addTo(this.map);
     });
     inject(DestroyRef).onDestroy(() => this.map?.remove());
+    // Draws into Leaflet (not Angular's view) whenever what it shows changes; nothing is loaded here.
     effect(() => this.draw(this.store.rows(), this.store.collars(), this.store.plots(), this.site()));
   }
 
@@ -109,22 +112,27 @@ export class BoardMap {
 
   private tiles: L.TileLayer | null = null;
 
-  private draw(rows: ReturnType<BoardStore['rows']>, collars: Rec[], plots: Rec[], site: Rec | null): void {
+  private draw(
+    rows: ReturnType<BoardStore['rows']>,
+    collars: StoredRecord<'collar'>[],
+    plots: StoredRecord<'plot'>[],
+    site: StoredRecord<'site'> | null,
+  ): void {
     const map = this.map;
     const layer = this.layer;
     if (!map || !layer) return;
-    const tileUrl = site?.['tileUrl'];
-    if (typeof tileUrl === 'string' && !this.tiles) {
-      this.tiles = L.tileLayer(tileUrl, { attribution: escapeHtml(String(site?.['tileAttribution'] ?? '')), maxZoom: 22 }).addTo(map);
+    const tileUrl = site?.tileUrl;
+    if (tileUrl && !this.tiles) {
+      this.tiles = L.tileLayer(tileUrl, { attribution: escapeHtml(site?.tileAttribution ?? ''), maxZoom: 22 }).addTo(map);
     }
     const t0 = performance.now();
     layer.clearLayers();
     const bounds = L.latLngBounds([]);
     for (const p of plots) {
-      const outline = p['outline'] as GeoJSON.Polygon | null;
+      const outline = p.outline;
       if (!outline) continue;
       const g = L.geoJSON(outline, { style: { color: '#33415c', weight: 2, dashArray: '6 4', fill: false }, interactive: false });
-      g.bindTooltip(mapText(String(p['code'])), { permanent: true, direction: 'center', className: 'fw-plot-label' });
+      g.bindTooltip(mapText(p.code), { permanent: true, direction: 'center', className: 'fw-plot-label' });
       g.addTo(layer);
       bounds.extend(g.getBounds());
     }
@@ -132,10 +140,9 @@ export class BoardMap {
     const points: CollarPoint[] = [];
     for (const c of collars) {
       const s = state.get(c.id);
-      const lat = c['latitude'] as number | null;
-      const lon = c['longitude'] as number | null;
-      if (!s || lat == null || lon == null) continue;
-      points.push({ lat, lon, code: String(c['code']), state: s });
+      const { latitude: lat, longitude: lon } = c;
+      if (!s || lat === null || lon === null) continue;
+      points.push({ lat, lon, code: c.code, state: s });
       bounds.extend([lat, lon]);
     }
     // One canvas for all collars: a DOM element per marker took 1.8 s to draw 5 000 of them.

@@ -1,7 +1,8 @@
 import { Injectable, computed, inject, signal } from '@angular/core';
 import { serverMessage } from '../../core/api/api-error';
 import { SiteChoice } from '../../core/auth/site-choice';
-import { BoardApi, type Campaign, type Member, type Progress, type Rec } from './board-api';
+import type { StoredRecord } from '../../../../shared/model/stored-record';
+import { BoardApi, type Campaign, type Member, type Progress } from './board-api';
 import { BoardCache } from './board-cache';
 import type { ProgressRow } from './progress-rows';
 
@@ -23,12 +24,12 @@ export class BoardStore {
   readonly campaignId = signal<string | null>(null);
   readonly round = signal<number | null>(null);
   readonly progress = signal<Progress | null>(null);
-  readonly routes = signal<Rec[]>([]);
-  readonly plots = signal<Rec[]>([]);
-  readonly treatments = signal<Rec[]>([]);
+  readonly routes = signal<StoredRecord<'route'>[]>([]);
+  readonly plots = signal<StoredRecord<'plot'>[]>([]);
+  readonly treatments = signal<StoredRecord<'treatment'>[]>([]);
   readonly members = signal<Member[]>([]);
   /** The site's collars (positions, codes), loaded only by the screens that need them (Plan, Map). */
-  readonly collars = signal<Rec[]>([]);
+  readonly collars = signal<StoredRecord<'collar'>[]>([]);
   private collarsFor: string | null = null;
   readonly loading = signal(false);
   readonly problem = signal('');
@@ -46,27 +47,23 @@ export class BoardStore {
   readonly rows = computed<ProgressRow[]>(() => {
     const p = this.progress();
     if (!p) return [];
-    const routeName = new Map(this.routes().map((r) => [r.id, String(r['name'])]));
+    const routeName = new Map(this.routes().map((r) => [r.id, r.name]));
     const plot = new Map(this.plots().map((x) => [x.id, x]));
-    const treatment = new Map(this.treatments().map((t) => [t.id, String(t['code'])]));
+    const treatment = new Map(this.treatments().map((t) => [t.id, t.code]));
     const memberName = new Map(this.members().map((m) => [m.id, m.displayName]));
     // Collar-level treatments (e.g. trenched/untrenched) arrive with the collar list, after the first paint.
-    const collarTreatment = new Map(
-      this.collars()
-        .filter((k) => k['treatmentId'])
-        .map((k) => [k.id, String(k['treatmentId'])]),
-    );
+    const collarTreatment = new Map(this.collars().flatMap((k) => (k.treatmentId ? [[k.id, k.treatmentId] as const] : [])));
     const crewOf = new Map((this.campaign()?.routes ?? []).map((r) => [r.routeId, r.crewIds.map((id) => memberName.get(id) ?? 'someone')]));
     return p.collars.map((c, order) => {
       const pl = plot.get(c.plotId);
-      const codes = [pl?.['treatmentId'], collarTreatment.get(c.collarId)]
-        .map((id) => (id ? treatment.get(String(id)) : undefined))
+      const codes = [pl?.treatmentId, collarTreatment.get(c.collarId)]
+        .map((id) => (id ? treatment.get(id) : undefined))
         .filter((x): x is string => !!x);
       return {
         ...c,
         order,
         routeName: c.routeId ? (routeName.get(c.routeId) ?? '') : '',
-        plotCode: pl ? String(pl['code']) : '',
+        plotCode: pl?.code ?? '',
         treatmentCodes: codes,
         crewNames: c.routeId ? (crewOf.get(c.routeId) ?? []) : [],
       };
@@ -89,10 +86,10 @@ export class BoardStore {
     try {
       const q = { siteId: site.id };
       const [campaigns, routes, plots, treatments] = await Promise.all([
-        this.guard(`campaigns.${site.id}`, () => this.api.list<Campaign>('campaigns', q)),
-        this.guard(`routes.${site.id}`, () => this.api.list('routes', q)),
-        this.guard(`plots.${site.id}`, () => this.api.list('plots', q)),
-        this.guard(`treatments.${site.id}`, () => this.api.list('treatments', q)),
+        this.guard(`campaigns.${site.id}`, () => this.api.list('campaign', q)),
+        this.guard(`routes.${site.id}`, () => this.api.list('route', q)),
+        this.guard(`plots.${site.id}`, () => this.api.list('plot', q)),
+        this.guard(`treatments.${site.id}`, () => this.api.list('treatment', q)),
       ]);
       this.campaigns.set(campaigns);
       this.routes.set(routes);
@@ -135,7 +132,7 @@ export class BoardStore {
     if (!site || this.collarsFor === site.id) return;
     this.collarsFor = site.id;
     try {
-      this.collars.set(await this.guard(`collars.${site.id}`, () => this.api.list('collars', { siteId: site.id })));
+      this.collars.set(await this.guard(`collars.${site.id}`, () => this.api.list('collar', { siteId: site.id })));
     } catch (err) {
       this.collarsFor = null;
       this.problem.set(serverMessage(err, 'Collars could not be loaded'));
@@ -154,7 +151,7 @@ export class BoardStore {
     this.campaigns.update((xs) => upsert(xs, rec));
   }
 
-  replaceRoute(rec: Rec): void {
+  replaceRoute(rec: StoredRecord<'route'>): void {
     this.routes.update((xs) => upsert(xs, rec));
   }
 

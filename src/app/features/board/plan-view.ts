@@ -72,7 +72,7 @@ export class PlanView {
       untracked(() =>
         this.resetPlans(
           c,
-          routes.map((r) => ({ id: r.id, name: String(r['name']) })),
+          routes.map((r) => ({ id: r.id, name: r.name })),
         ),
       );
     });
@@ -111,7 +111,7 @@ export class PlanView {
     const site = this.store.site();
     if (!site) return;
     try {
-      const c = await this.api.create<Campaign>('campaigns', {
+      const c = await this.api.create('campaign', {
         siteId: site.id,
         ...this.draft,
         rounds: Number(this.draft.rounds),
@@ -157,7 +157,7 @@ export class PlanView {
       roundWindows.push({ round: w.round, from: from.iso, to: to.iso });
     }
     try {
-      const saved = await this.api.update<Campaign>('campaigns', c.id, c.rev, { routes, roundWindows });
+      const saved = await this.api.update('campaign', c.id, c.rev, { routes, roundWindows });
       this.store.replaceCampaign(saved);
       await this.store.loadProgress();
       this.assignStatus.set(`Saved: ${routes.length} route(s) in "${saved.name}".`);

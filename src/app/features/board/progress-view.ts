@@ -100,7 +100,7 @@ export class ProgressView {
     return id ? this.api.csvUrl(id, this.store.round(), this.csvForSpreadsheet()) : '';
   });
 
-  protected readonly treatmentCodes = computed(() => this.store.treatments().map((t) => String(t['code'])));
+  protected readonly treatmentCodes = computed(() => this.store.treatments().map((t) => t.code));
   protected readonly assignedCrew = computed(() => this.store.members().filter((m) => this.store.crewRoutes().has(m.id)));
 
   protected set<K extends keyof ProgressFilter>(key: K, value: ProgressFilter[K]): void {

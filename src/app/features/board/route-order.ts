@@ -20,7 +20,7 @@ import { BoardStore } from './board-store';
       <mat-form-field subscriptSizing="dynamic">
         <mat-label>Route to reorder</mat-label>
         <mat-select [value]="routeId()" (valueChange)="pick($event)" data-testid="order-route">
-          @for (r of store.routes(); track r.id) { <mat-option [value]="r.id">{{ r['name'] }}</mat-option> }
+          @for (r of store.routes(); track r.id) { <mat-option [value]="r.id">{{ r.name }}</mat-option> }
         </mat-select>
       </mat-form-field>
       @if (routeId()) {
@@ -60,10 +60,10 @@ export class RouteOrder {
   protected readonly order = signal<string[]>([]);
   protected readonly status = signal('');
   protected readonly problem = signal('');
-  private readonly codes = computed(() => new Map(this.store.collars().map((c) => [c.id, String(c['code'])])));
+  private readonly codes = computed(() => new Map(this.store.collars().map((c) => [c.id, c.code])));
   private readonly route = computed(() => this.store.routes().find((r) => r.id === this.routeId()) ?? null);
   protected readonly dirty = computed(() => {
-    const saved = (this.route()?.['collarIds'] as string[] | undefined) ?? [];
+    const saved = this.route()?.collarIds ?? [];
     return saved.join() !== this.order().join();
   });
 
@@ -73,7 +73,7 @@ export class RouteOrder {
 
   protected pick(id: string | null): void {
     this.routeId.set(id);
-    this.order.set([...((this.route()?.['collarIds'] as string[] | undefined) ?? [])]);
+    this.order.set([...(this.route()?.collarIds ?? [])]);
     this.status.set('');
     this.problem.set('');
   }
@@ -95,10 +95,10 @@ export class RouteOrder {
     if (!r) return;
     this.problem.set('');
     try {
-      const saved = await this.api.update('routes', r.id, r.rev, { collarIds: this.order() });
+      const saved = await this.api.update('route', r.id, r.rev, { collarIds: this.order() });
       this.store.replaceRoute(saved);
       await this.store.loadProgress();
-      this.status.set(`Order of "${String(saved['name'])}" saved.`);
+      this.status.set(`Order of "${saved.name}" saved.`);
     } catch (err) {
       this.problem.set(serverMessage(err, 'The order could not be saved'));
     }
