@@ -105,14 +105,14 @@ export class Bench {
                 fluxUmolM2S: record.fluxUmolM2S,
                 flags: record.flags,
                 recomputedSinceReview: null,
-                changedSinceReview: d.fields['reviewState'] ? null : x.changedSinceReview,
+                changedSinceReview: d.fields.reviewState ? null : x.changedSinceReview,
               }
             : x,
         ),
       );
       this.message.set(
-        d.fields['reviewState']
-          ? `Closure ${d.fields['reviewState']}`
+        d.fields.reviewState
+          ? `Closure ${d.fields.reviewState}`
           : d.move
             ? 'Moved to the other visit and recomputed'
             : d.points
@@ -122,7 +122,7 @@ export class Bench {
               : 'Recomputed with the new settings',
       );
       this.problem.set('');
-      if (d.fields['reviewState'] === 'accepted' && i < this.items().length - 1) await this.select(i + 1);
+      if (d.fields.reviewState === 'accepted' && i < this.items().length - 1) await this.select(i + 1);
       else {
         const fresh = await this.api.detail(det.closure.id);
         this.detail.set(fresh);

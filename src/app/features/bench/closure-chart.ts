@@ -100,14 +100,14 @@ export class ClosureChart implements OnDestroy {
       const ctx = u.ctx,
         top = u.bbox.top,
         h = u.bbox.height;
-      const x0 = u.valToPos(u.scales['x'].min ?? 0, 'x', true),
+      const x0 = u.valToPos(u.scales.x.min ?? 0, 'x', true),
         xs = u.valToPos(settle, 'x', true);
       ctx.save();
       ctx.fillStyle = 'rgba(120,120,120,0.18)';
       ctx.fillRect(x0, top, Math.max(0, xs - x0), h);
       if (end !== null) {
         const xe = u.valToPos(end, 'x', true),
-          x1 = u.valToPos(u.scales['x'].max ?? end, 'x', true);
+          x1 = u.valToPos(u.scales.x.max ?? end, 'x', true);
         ctx.fillRect(xe, top, Math.max(0, x1 - xe), h);
       }
       ctx.restore();

@@ -70,12 +70,12 @@ export class ClosureSystem {
   protected readonly flags = computed(() => this.c().flags ?? []);
   protected readonly systems = computed(() => this.detail().systems ?? null);
   protected readonly profileId = linkedSignal<string | null>(() => this.c().profileId ?? null);
-  protected readonly analyzerId = linkedSignal<string | null>(() => (this.c()['analyzerId'] as string | null) ?? null);
+  protected readonly analyzerId = linkedSignal<string | null>(() => this.c().analyzerId ?? null);
   protected readonly changed = computed(
-    () => this.profileId() !== (this.c()['profileId'] ?? null) || this.analyzerId() !== (this.c()['analyzerId'] ?? null),
+    () => this.profileId() !== (this.c().profileId ?? null) || this.analyzerId() !== (this.c().analyzerId ?? null),
   );
   protected readonly analyzerName = computed(() => {
-    const id = this.c()['analyzerId'];
+    const id = this.c().analyzerId;
     return id ? (this.systems()?.analyzers.find((a) => a.id === id)?.name ?? 'unknown') : 'none named';
   });
   protected readonly airTemp = computed(() => {
@@ -101,9 +101,9 @@ export class ClosureSystem {
   }
 
   protected correct(): void {
-    const fields: Record<string, unknown> = {};
-    if (this.profileId() !== (this.c()['profileId'] ?? null)) fields['profileId'] = this.profileId();
-    if (this.analyzerId() !== (this.c()['analyzerId'] ?? null)) fields['analyzerId'] = this.analyzerId();
+    const fields: Decision['fields'] = {};
+    if (this.profileId() !== (this.c().profileId ?? null)) fields.profileId = this.profileId();
+    if (this.analyzerId() !== (this.c().analyzerId ?? null)) fields.analyzerId = this.analyzerId();
     if (Object.keys(fields).length) this.decide.emit({ fields });
   }
 }

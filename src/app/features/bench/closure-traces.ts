@@ -10,9 +10,12 @@ import {
   viewChild,
 } from '@angular/core';
 import uPlot from 'uplot';
+import type { DetailClosure } from '../../../../shared/bench/review-wire';
 import { CURSOR_SYNC_KEY } from './closure-chart';
 
 type Column = (number | null)[] | null | undefined;
+/** The series columns the traces read (the closure's stored series). */
+type TraceSeries = Pick<DetailClosure['series'], 'tS' | 'h2oMmolMol' | 'tempC' | 'pressureKpa'>;
 
 export interface Trace {
   key: 'h2o' | 'temp' | 'pressure';
@@ -27,12 +30,12 @@ export interface Trace {
  * The closure's other logged columns, as stored in its series (the logger import converts them to
  * these units: shared/logger/logger-mapping.ts): only those with at least one value.
  */
-export function tracesOf(series: Record<string, Column>): Trace[] {
+export function tracesOf(series: TraceSeries): Trace[] {
   const has = (c: Column): c is (number | null)[] => Array.isArray(c) && c.some((v) => typeof v === 'number');
   const all: (Omit<Trace, 'values'> & { c: Column })[] = [
-    { key: 'h2o', label: 'H2O', short: 'H2O', unit: 'mmol/mol', color: '#0277bd', c: series['h2oMmolMol'] },
-    { key: 'temp', label: 'Chamber air temperature', short: 'air temp.', unit: '°C', color: '#ef6c00', c: series['tempC'] },
-    { key: 'pressure', label: 'Chamber pressure', short: 'pressure', unit: 'kPa', color: '#2e7d32', c: series['pressureKpa'] },
+    { key: 'h2o', label: 'H2O', short: 'H2O', unit: 'mmol/mol', color: '#0277bd', c: series.h2oMmolMol },
+    { key: 'temp', label: 'Chamber air temperature', short: 'air temp.', unit: '°C', color: '#ef6c00', c: series.tempC },
+    { key: 'pressure', label: 'Chamber pressure', short: 'pressure', unit: 'kPa', color: '#2e7d32', c: series.pressureKpa },
   ];
   return all.filter((t) => has(t.c)).map(({ c, ...t }) => ({ ...t, values: c as (number | null)[] }));
 }
@@ -55,7 +58,7 @@ export function tracesOf(series: Record<string, Column>): Trace[] {
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ClosureTraces implements OnDestroy {
-  readonly series = input.required<Record<string, Column>>();
+  readonly series = input.required<TraceSeries>();
   protected readonly traces = computed(() => tracesOf(this.series()));
   protected readonly label = computed(
     () =>
@@ -91,11 +94,11 @@ export class ClosureTraces implements OnDestroy {
     for (const c of this.charts) if (c.width !== w) c.setSize({ width: w, height: c.height });
   }
 
-  private draw(series: Record<string, Column>, traces: Trace[], el: HTMLElement | null): void {
+  private draw(series: TraceSeries, traces: Trace[], el: HTMLElement | null): void {
     this.charts.forEach((c) => c.destroy());
     this.charts = [];
     if (!el || !traces.length) return;
-    const x = ((series['tS'] ?? []) as (number | null)[]).map((t) => t ?? NaN);
+    const x = series.tS.map((t) => t ?? NaN);
     const finite = x.filter(Number.isFinite);
     // The CO2 chart's x range is the data's: the same here, so a time lines up across the charts.
     const range: [number, number] = finite.length ? [Math.min(...finite), Math.max(...finite)] : [0, 1];

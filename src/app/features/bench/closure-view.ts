@@ -19,7 +19,10 @@ import { FlagWordsPipe } from '../closures/flag-words-pipe';
 
 /** A review-field edit (PATCH), points left out of the fit / put back, or a move to another visit (the Bench's routes). */
 export interface Decision {
-  fields: Record<string, unknown>;
+  /** The review fields (and the chamber profile or analyzer correction) to PATCH. */
+  fields: Partial<
+    Pick<DetailClosure, 'reviewState' | 'reviewReason' | 'reviewSettleS' | 'reviewWindowEndS' | 'reviewModel' | 'profileId' | 'analyzerId'>
+  >;
   points?: PointsChange;
   move?: string;
 }
@@ -130,7 +133,7 @@ export class ClosureView {
   protected applyFit(): void {
     const c = this.c();
     const v = this.fitForm().getRawValue();
-    const fields: Partial<Pick<DetailClosure, 'reviewSettleS' | 'reviewWindowEndS' | 'reviewModel'>> = {};
+    const fields: Decision['fields'] = {};
     // An emptied settle field reads 0 s, as the number field's value did.
     const settle = (v.settle ?? 0) === c.settleS ? null : (v.settle ?? 0);
     if (settle !== c.reviewSettleS) fields.reviewSettleS = settle;

@@ -1,5 +1,7 @@
-import { ChangeDetectionStrategy, Component, computed, effect, inject, signal, untracked } from '@angular/core';
-import { FormsModule } from '@angular/forms';
+import { ChangeDetectionStrategy, Component, computed, inject, linkedSignal, signal } from '@angular/core';
+import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
+import { campaignFields } from '../../../../shared/model/field-records';
+import type { StoredRecord } from '../../../../shared/model/stored-record';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -11,6 +13,8 @@ import { fromSiteWallTime, siteWallTime } from '../calibration/site-clock';
 import { BoardApi, type Campaign, type CampaignRoute } from './board-api';
 import { BoardStore } from './board-store';
 import { RouteOrder } from './route-order';
+
+const DUE_DEFAULTS = campaignFields.pick({ dueOffset: true, dueClosures: true, dueProbes: true }).parse({});
 
 interface RoutePlan {
   routeId: string;
@@ -32,7 +36,7 @@ interface Window {
  */
 @Component({
   selector: 'fw-plan-view',
-  imports: [FormsModule, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatInputModule, MatSelectModule, RouteOrder],
+  imports: [ReactiveFormsModule, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatInputModule, MatSelectModule, RouteOrder],
   templateUrl: './plan-view.html',
   styleUrl: './plan-view.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -41,21 +45,24 @@ export class PlanView {
   protected readonly store = inject(BoardStore);
   private readonly api = inject(BoardApi);
 
-  protected draft = {
+  private readonly fb = inject(NonNullableFormBuilder);
+  /** A new campaign: today at the site, one round, and the schema's due items. */
+  protected readonly draft = this.fb.group({
     name: '',
     startsOn: siteToday(this.store.zone()),
     endsOn: siteToday(this.store.zone()),
-    rounds: 1,
-    dueOffset: true,
-    dueClosures: 1,
-    dueProbes: true,
-  };
+    rounds: this.fb.control<number | null>(1),
+    dueOffset: DUE_DEFAULTS.dueOffset,
+    dueClosures: this.fb.control<number | null>(DUE_DEFAULTS.dueClosures),
+    dueProbes: DUE_DEFAULTS.dueProbes,
+  });
   protected readonly createProblem = signal('');
   protected readonly createStatus = signal('');
-  protected readonly plans = signal<RoutePlan[]>([]);
-  protected readonly windows = signal<Window[]>([]);
-  protected readonly assignStatus = signal('');
-  protected readonly assignProblem = signal('');
+  // The assignment form follows the chosen campaign and the site's routes: edits hold until either changes.
+  protected readonly plans = linkedSignal(() => plansOf(this.store.campaign(), this.store.routes()));
+  protected readonly windows = linkedSignal(() => windowsOf(this.store.campaign(), this.store.zone()));
+  protected readonly assignStatus = linkedSignal({ source: this.plans, computation: () => '' });
+  protected readonly assignProblem = linkedSignal({ source: this.plans, computation: () => '' });
   protected readonly locked = computed(() => this.store.campaign()?.locked ?? false);
   protected readonly directions: { value: CampaignRoute['direction']; label: string }[] = [
     { value: 'alternate', label: 'Alternate each round' },
@@ -65,44 +72,6 @@ export class PlanView {
 
   constructor() {
     void this.store.ensureCollars();
-    // The assignment form follows the chosen campaign and the site's routes.
-    effect(() => {
-      const c = this.store.campaign();
-      const routes = this.store.routes();
-      untracked(() =>
-        this.resetPlans(
-          c,
-          routes.map((r) => ({ id: r.id, name: r.name })),
-        ),
-      );
-    });
-  }
-
-  private resetPlans(c: Campaign | null, routes: { id: string; name: string }[]): void {
-    const assigned = new Map((c?.routes ?? []).map((r) => [r.routeId, r]));
-    this.plans.set(
-      routes.map((r) => ({
-        routeId: r.id,
-        name: r.name,
-        included: assigned.has(r.id),
-        crewIds: assigned.get(r.id)?.crewIds ?? [],
-        direction: assigned.get(r.id)?.direction ?? 'alternate',
-      })),
-    );
-    const ws = c
-      ? Array.from({ length: c.rounds }, (_, i) => {
-          const w = c.roundWindows.find((x) => x.round === i + 1);
-          // datetime-local fields hold the site's wall time (not UTC, not the lead's device zone).
-          return {
-            round: i + 1,
-            from: w ? siteWallTime(w.from, this.store.zone()) : '',
-            to: w ? siteWallTime(w.to, this.store.zone()) : '',
-          };
-        })
-      : [];
-    this.windows.set(ws);
-    this.assignStatus.set('');
-    this.assignProblem.set('');
   }
 
   protected async create(): Promise<void> {
@@ -111,17 +80,19 @@ export class PlanView {
     const site = this.store.site();
     if (!site) return;
     try {
+      const d = this.draft.getRawValue();
+      // An emptied number field sends 0, as it did before (the server says what is wrong with it).
       const c = await this.api.create('campaign', {
         siteId: site.id,
-        ...this.draft,
-        rounds: Number(this.draft.rounds),
-        dueClosures: Number(this.draft.dueClosures),
+        ...d,
+        rounds: d.rounds ?? 0,
+        dueClosures: d.dueClosures ?? 0,
         routes: [],
       });
       this.store.replaceCampaign(c);
       this.store.choose(c.id);
       this.createStatus.set(`Campaign "${c.name}" created: choose its routes and crews below.`);
-      this.draft = { ...this.draft, name: '' };
+      this.draft.controls.name.reset();
     } catch (err) {
       const fields = fieldProblems(err)
         .map((p) => `${p.path}: ${p.message}`)
@@ -165,4 +136,24 @@ export class PlanView {
       this.assignProblem.set(serverMessage(err, 'The plan could not be saved'));
     }
   }
+}
+
+function plansOf(c: Campaign | null, routes: readonly StoredRecord<'route'>[]): RoutePlan[] {
+  const assigned = new Map((c?.routes ?? []).map((r) => [r.routeId, r]));
+  return routes.map((r) => ({
+    routeId: r.id,
+    name: r.name,
+    included: assigned.has(r.id),
+    crewIds: assigned.get(r.id)?.crewIds ?? [],
+    direction: assigned.get(r.id)?.direction ?? 'alternate',
+  }));
+}
+
+/** Each round's window as datetime-local values: the site's wall time (not UTC, not the lead's device zone). */
+function windowsOf(c: Campaign | null, zone: string): Window[] {
+  if (!c) return [];
+  return Array.from({ length: c.rounds }, (_, i) => {
+    const w = c.roundWindows.find((x) => x.round === i + 1);
+    return { round: i + 1, from: w ? siteWallTime(w.from, zone) : '', to: w ? siteWallTime(w.to, zone) : '' };
+  });
 }

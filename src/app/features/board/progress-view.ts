@@ -1,5 +1,8 @@
 import { ScrollingModule } from '@angular/cdk/scrolling';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { toSignal } from '@angular/core/rxjs-interop';
+import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
+import { map } from 'rxjs';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatExpansionModule } from '@angular/material/expansion';
@@ -30,6 +33,7 @@ import {
 @Component({
   selector: 'fw-progress-view',
   imports: [
+    ReactiveFormsModule,
     ScrollingModule,
     MatButtonModule,
     MatExpansionModule,
@@ -46,13 +50,31 @@ import {
 export class ProgressView {
   protected readonly store = inject(BoardStore);
   private readonly api = inject(BoardApi);
-  protected readonly filter = signal<ProgressFilter>(NO_FILTER);
+  private readonly fb = inject(NonNullableFormBuilder);
+  /** The filters and the sort, one typed form; the rows follow its value. */
+  protected readonly form = this.fb.group({
+    need: this.fb.control<ProgressFilter['need']>(NO_FILTER.need),
+    routeId: NO_FILTER.routeId,
+    plotId: NO_FILTER.plotId,
+    treatment: NO_FILTER.treatment,
+    crewId: NO_FILTER.crewId,
+    state: this.fb.control<ProgressFilter['state']>(NO_FILTER.state),
+    text: NO_FILTER.text,
+    sortKey: this.fb.control<SortKey>('order'),
+  });
+  private readonly value = toSignal(this.form.valueChanges.pipe(map(() => this.form.getRawValue())), {
+    initialValue: this.form.getRawValue(),
+  });
+  protected readonly filter = computed<ProgressFilter>(() => {
+    const { sortKey: _sort, ...filter } = this.value();
+    return filter;
+  });
   protected readonly phone = narrowScreen();
   /** How many filters differ from "everything", for the folded panel's summary. */
   protected readonly filtersSet = computed(
     () => (Object.keys(NO_FILTER) as (keyof ProgressFilter)[]).filter((k) => this.filter()[k] !== NO_FILTER[k]).length,
   );
-  protected readonly sortKey = signal<SortKey>('order');
+  protected readonly sortKey = computed(() => this.value().sortKey);
   protected readonly descending = signal(false);
   protected readonly groupBy = signal<'route' | 'plot' | 'treatment'>('route');
   protected readonly itemText = itemText;
@@ -94,7 +116,8 @@ export class ProgressView {
     );
   });
 
-  protected readonly csvForSpreadsheet = signal(false);
+  protected readonly csvOptions = this.fb.group({ forSpreadsheet: false });
+  protected readonly csvForSpreadsheet = toSignal(this.csvOptions.controls.forSpreadsheet.valueChanges, { initialValue: false });
   protected readonly csvUrl = computed(() => {
     const id = this.store.campaignId();
     return id ? this.api.csvUrl(id, this.store.round(), this.csvForSpreadsheet()) : '';
@@ -102,10 +125,6 @@ export class ProgressView {
 
   protected readonly treatmentCodes = computed(() => this.store.treatments().map((t) => t.code));
   protected readonly assignedCrew = computed(() => this.store.members().filter((m) => this.store.crewRoutes().has(m.id)));
-
-  protected set<K extends keyof ProgressFilter>(key: K, value: ProgressFilter[K]): void {
-    this.filter.update((f) => ({ ...f, [key]: value }));
-  }
 
   protected pct(bar: GroupBar, state: 'complete' | 'skipped' | 'partial'): number {
     return bar.total ? (100 * bar.counts[state]) / bar.total : 0;
