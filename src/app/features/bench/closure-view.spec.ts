@@ -76,6 +76,8 @@ function detail(context: Partial<QueueItem>, history: ClosureDetail['history'] =
     replicates: [],
     replicateSpread: { n: 1, mean: 1.2, sd: null, cvPct: null },
     history,
+    moveTargets: [],
+    systems: { profiles: [], analyzers: [] },
   };
 }
 

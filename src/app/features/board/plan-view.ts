@@ -14,7 +14,13 @@ import { BoardApi, type Campaign, type CampaignRoute } from './board-api';
 import { BoardStore } from './board-store';
 import { RouteOrder } from './route-order';
 
-const DUE_DEFAULTS = campaignFields.pick({ dueOffset: true, dueClosures: true, dueProbes: true }).parse({});
+// The campaign schema is refined (pick() refuses it): each field's own schema gives its default.
+const { dueOffset, dueClosures, dueProbes } = campaignFields.shape;
+const DUE_DEFAULTS = {
+  dueOffset: dueOffset.parse(undefined),
+  dueClosures: dueClosures.parse(undefined),
+  dueProbes: dueProbes.parse(undefined),
+};
 
 interface RoutePlan {
   routeId: string;
