@@ -1,4 +1,5 @@
 import type { DataSource, EntityManager } from 'typeorm';
+import type { Anomaly, AnomalyKind } from '../../shared/board/board-wire';
 import { flagAdvice } from '../../shared/flux/flag-advice';
 import type { QcFlag } from '../../shared/flux/qc-flags';
 import { calibrationAgeDays, worstDriftPct } from '../../shared/model/calibration';
@@ -7,31 +8,7 @@ import { counted } from '../../shared/text/counted';
 import { localDay, siteDayStartOf } from '../../shared/time/site-time';
 import { pgDay } from '../core/pg-day';
 
-export type AnomalyKind =
-  | 'offset-moved'
-  | 'offset-spread'
-  | 'closure-flag'
-  | 'settling'
-  | 'not-visited'
-  | 'check-problem'
-  | 'calibration-overdue'
-  | 'calibration-drift';
-
-export interface Anomaly {
-  kind: AnomalyKind;
-  /** `problem` needs action before data are used; `warn` is worth a look. */
-  severity: 'problem' | 'warn';
-  collarId: string | null;
-  collarCode: string | null;
-  /** The record the anomaly is about (offset set, closure, check, analyzer, collar). */
-  recordId: string;
-  at: string | null;
-  value: number | null;
-  threshold: number | null;
-  message: string;
-  /** For `closure-flag`: the QC flag codes behind the message (the message says them in words). */
-  flags?: string[];
-}
+export type { Anomaly, AnomalyKind };
 
 export interface AnomalyOptions {
   /** The campaign whose readings are checked; default: the site's latest campaign by start date. */

@@ -1,21 +1,10 @@
 import type { DataSource, EntityManager } from 'typeorm';
+import type { DeviceRow } from '../../shared/board/board-wire';
 
 /** A device is "silent" when it has neither pushed nor pulled for longer than this. */
 export const SILENT_AFTER_MS = 24 * 3_600_000;
 
-export interface DeviceRow {
-  id: string;
-  userId: string;
-  email: string;
-  displayName: string;
-  lastPushAt: string | null;
-  lastPullAt: string | null;
-  /** Unsent operations the device reported with its last push. */
-  outboxSize: number | null;
-  /** Last time the device was heard from at all (push or pull). */
-  lastSeenAt: string | null;
-  silent: boolean;
-}
+export type { DeviceRow };
 
 const iso = (v: Date | null) => (v === null ? null : v.toISOString());
 

@@ -1,11 +1,7 @@
 import type { DataSource } from 'typeorm';
+import type { MemberRow } from '../../shared/board/board-wire';
 
-export interface MemberRow {
-  id: string;
-  displayName: string;
-  email: string;
-  roles: string[];
-}
+export type { MemberRow };
 
 /** The people a lead can assign to a route: enabled members of the site who walk (crew or lead). */
 export async function fieldMembers(ds: DataSource, siteId: string): Promise<MemberRow[]> {

@@ -6,11 +6,13 @@ import { MatInputModule } from '@angular/material/input';
 import { flagAdvice } from '../../../../shared/flux/flag-advice';
 import { serverMessage } from '../../core/api/api-error';
 import { SiteTimePipe } from '../../core/time/site-time-pipe';
+import type { AnomalyKind } from '../../../../shared/board/board-wire';
 import { BoardApi, type Anomaly } from './board-api';
 import { BoardCache } from './board-cache';
 import { BoardStore } from './board-store';
 
-const KIND_LABELS: Record<string, string> = {
+/** A heading per kind: a new kind of anomaly does not compile without its words. */
+const KIND_LABELS: Record<AnomalyKind, string> = {
   'offset-moved': 'Offset moved since the last campaign',
   'offset-spread': 'Offset set with a wide spread',
   'closure-flag': 'Closures with QC flags',
@@ -107,9 +109,9 @@ export class AnomalyList {
     return err ? serverMessage(err, 'Anomalies could not be loaded') : '';
   });
   protected readonly groups = computed(() => {
-    const by = new Map<string, Anomaly[]>();
+    const by = new Map<AnomalyKind, Anomaly[]>();
     for (const a of this.items()) by.set(a.kind, [...(by.get(a.kind) ?? []), a]);
-    return [...by.entries()].map(([kind, items]) => ({ kind, label: KIND_LABELS[kind] ?? kind, items }));
+    return [...by.entries()].map(([kind, items]) => ({ kind, label: KIND_LABELS[kind], items }));
   });
 
   protected advice(flags: readonly string[]) {

@@ -2,6 +2,7 @@ import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
 import { RecordsApi } from '../../core/api/records-api';
+import type { Anomaly, DeviceRow, MemberRow } from '../../../../shared/board/board-wire';
 import type { EntityFields } from '../../../../shared/model/entities';
 import { ENTITY_PATHS, type EntityName } from '../../../../shared/model/entity-names';
 import type { ProgressState } from '../../../../shared/model/progress-state';
@@ -30,30 +31,7 @@ export interface Progress {
 /** The campaign records the Board plans and follows (routes with their crews, round windows, the lock). */
 export type Campaign = StoredRecord<'campaign'>;
 export type CampaignRoute = Campaign['routes'][number];
-export interface Anomaly {
-  kind: string;
-  severity: 'problem' | 'warn';
-  collarId: string | null;
-  collarCode: string | null;
-  recordId: string;
-  at: string | null;
-  value: number | null;
-  threshold: number | null;
-  message: string;
-  /** For a flagged closure: its QC flag codes (shown in words from shared/flux/flag-advice.ts). */
-  flags?: string[];
-}
-export interface DeviceRow {
-  id: string;
-  userId: string;
-  email: string;
-  displayName: string;
-  lastPushAt: string | null;
-  lastPullAt: string | null;
-  outboxSize: number | null;
-  lastSeenAt: string | null;
-  silent: boolean;
-}
+export type { Anomaly, DeviceRow };
 /** The lead's digest as the server would mail it now (GET /api/sites/:siteId/digest). */
 export interface DigestRoute {
   routeId: string | null;
@@ -78,12 +56,7 @@ export interface JobState {
   result: Record<string, unknown> | null;
   error: string | null;
 }
-export interface Member {
-  id: string;
-  displayName: string;
-  email: string;
-  roles: string[];
-}
+export type Member = MemberRow;
 
 /** The Board's calls: generic record routes, the progress query and the Board's own routes. */
 @Injectable({ providedIn: 'root' })
