@@ -62,6 +62,7 @@ export class ClosureChart implements OnDestroy {
   private readonly resize = typeof ResizeObserver === 'undefined' ? null : new ResizeObserver(() => this.fit());
 
   constructor() {
+    // Draws into uPlot's canvas (not Angular's view) whenever the data change; nothing is loaded here.
     effect(() => this.draw(this.data()));
     afterNextRender(() => this.resize?.observe(this.plotEl().nativeElement));
   }

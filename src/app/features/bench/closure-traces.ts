@@ -71,6 +71,7 @@ export class ClosureTraces implements OnDestroy {
   private readonly resize = typeof ResizeObserver === 'undefined' ? null : new ResizeObserver(() => this.fit());
 
   constructor() {
+    // Draws the traces into uPlot's canvases (not Angular's view); nothing is loaded here.
     effect(() => this.draw(this.series(), this.traces(), this.box()?.nativeElement ?? null));
     afterNextRender(() => {
       const el = this.box()?.nativeElement;
