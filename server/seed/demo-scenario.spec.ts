@@ -100,10 +100,10 @@ describe('the seeded demo scenario', () => {
       7 * 48 - 1,
     );
     expect(
-      await count(`SELECT count(*) n FROM probe_reading WHERE campaign_id = ANY($1) AND vwc_pct BETWEEN 5 AND 50 AND id = ANY($2)`, [
-        locked,
-        of('probeReading'),
-      ]),
+      await count(
+        `SELECT count(DISTINCT visit_id) n FROM probe_reading WHERE campaign_id = ANY($1) AND vwc_pct BETWEEN 5 AND 50 AND id = ANY($2)`,
+        [locked, of('probeReading')],
+      ),
     ).toBe(7 * 48 - 1);
     const flux = await one<{ n: string; lo: number; hi: number; nulls: string }>(
       `
@@ -119,6 +119,28 @@ describe('the seeded demo scenario', () => {
     expect(flux.lo).toBeLessThan(1.5);
     expect(flux.hi).toBeGreaterThan(4);
     expect(flux.hi).toBeLessThan(9.5);
+  });
+
+  it('when probe readings are read, then every visit has two or three replicates with a spread, and a few read a temperature off the probe depth', async () => {
+    const perVisit = (
+      await db.query(
+        `SELECT visit_id, count(*)::int n, stddev_samp(vwc_pct) sd,
+                count(*) FILTER (WHERE (soil_temps->0->>'depthCm')::numeric <> 5)::int off
+           FROM probe_reading WHERE id = ANY($1) AND NOT deleted GROUP BY visit_id`,
+        [of('probeReading')],
+      )
+    ).rows as { visit_id: string; n: number; sd: number; off: number }[];
+    expect(perVisit.length).toBeGreaterThan(7 * 48 - 1);
+    expect(perVisit.filter((v) => v.n < 2 || v.n > 3)).toEqual([]);
+    expect(perVisit.some((v) => v.n === 3)).toBe(true);
+    // Replicates differ by an invented spot-to-spot spread of about 1.5 % VWC (a few pairs may round alike).
+    const meanSd = perVisit.reduce((a, v) => a + Number(v.sd), 0) / perVisit.length;
+    expect(meanSd).toBeGreaterThan(0.7);
+    expect(meanSd).toBeLessThan(3);
+    const off = perVisit.filter((v) => v.off > 0);
+    expect(off.length).toBeGreaterThan(0);
+    expect(off.length).toBeLessThan(perVisit.length / 4);
+    expect(off.filter((v) => v.off > 1)).toEqual([]);
   });
 
   it('when closures are reviewed, then some are accepted, some rejected with a reason, and most are unreviewed', async () => {

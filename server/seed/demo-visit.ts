@@ -70,6 +70,39 @@ function offsetReadings(collar: DemoCollar, ms: number, shiftCm: number, rng: Rn
   return [0, 1, 2, 3].map((i) => round(Math.max(0.1, mean + tilt * Math.cos((i * Math.PI) / 2 - direction) + rng.normal(0, 0.07)), 1));
 }
 
+/** The soil temperature depth of the demo site (the schema's default, ±1 cm counts). */
+const PROBE_DEPTH_CM = 5;
+/** The thermistor a crew sometimes reads by mistake: 10 cm, outside the site's ±1 cm, so it is flagged, not averaged. */
+const OFF_DEPTH_CM = 10;
+
+/**
+ * A visit's probe insertions around the collar: two or three replicates a minute apart, each its own
+ * probe reading. The visit's wetness is shared; each insertion adds its own spot-to-spot spread
+ * (about 1.5 % VWC, 0.2 °C); about one visit in ten has a temperature read at the wrong depth.
+ */
+function probeReplicates(collar: DemoCollar, key: string, link: Record<string, string>, firstMs: number, rng: Rng): SeedWrite[] {
+  const kit = probeKit(collar);
+  const visitVwc = soilVwcPct(firstMs, collar.vwcOffsetPct) + rng.normal(0, 0.8);
+  const n = rng.chance(0.5) ? 3 : 2;
+  const offDepthAt = rng.chance(0.1) ? rng.int(0, n - 1) : -1;
+  return Array.from({ length: n }, (_, i) => {
+    const ms = firstMs + i * MINUTE_MS + rng.int(0, 20) * 1000;
+    const vwc = visitVwc + rng.normal(0, 1.5);
+    const depthCm = i === offDepthAt ? OFF_DEPTH_CM : PROBE_DEPTH_CM;
+    // The first replicate keeps the id a visit's single reading always had.
+    return createOp('probeReading', demoId(i ? `probe:${key}:${i + 1}` : `probe:${key}`), 'crew', {
+      ...link,
+      takenAt: iso(ms),
+      takenById: demoUserId('crew'),
+      soilTemps: [{ depthCm, tempC: round(soilTempC(ms, collar.climate, depthCm) + rng.normal(0, 0.2), 1) }],
+      moistureRaw: kit.kind === 'vwc' ? round(Math.max(1, vwc), 1) : round(permittivityForVwc(vwc) + rng.normal(0, 0.2), 1),
+      moistureKind: kit.kind,
+      rodLengthCm: kit.rodLengthCm,
+      probeId: kit.probeId,
+    });
+  });
+}
+
 export function profileOn(profiles: readonly DemoProfile[], day: string): DemoProfile {
   const valid = profileValidOn(profiles, day);
   if (!valid) throw new Error(`no demo profile valid on ${day}`);
@@ -137,19 +170,7 @@ export function buildVisit(plan: VisitPlan): VisitOutcome {
   }
 
   const probeMs = t0 + (closures.length ? 4 + 3.5 * closures.length : 3) * MINUTE_MS;
-  const vwc = soilVwcPct(probeMs, collar.vwcOffsetPct) + rng.normal(0, 0.8);
-  const kit = probeKit(collar);
-  writes.push(
-    createOp('probeReading', demoId(`probe:${key}`), 'crew', {
-      ...link,
-      takenAt: iso(probeMs),
-      soilTemps: [{ depthCm: 5, tempC: round(soilTempC(probeMs, collar.climate) + rng.normal(0, 0.15), 1) }],
-      moistureRaw: kit.kind === 'vwc' ? round(Math.max(1, vwc), 1) : round(permittivityForVwc(vwc) + rng.normal(0, 0.2), 1),
-      moistureKind: kit.kind,
-      rodLengthCm: kit.rodLengthCm,
-      probeId: kit.probeId,
-    }),
-  );
+  writes.push(...probeReplicates(collar, key, link, probeMs, rng));
   return { visitId, writes, closures };
 }
 
