@@ -1,44 +1,19 @@
 import { FLAG_ADVICE } from '../../shared/flux/flag-advice';
-import { PROGRESS_STATE_WORDS, PROGRESS_STATES, progressStateHeading } from '../../shared/model/progress-state';
+import { DIGEST_STATE_LINES, digestWithStateCounts } from '../../shared/model/testing/digest-words';
 import type { Digest } from './digest-content';
 import { digestMail } from './digest-mail';
 
 const digest = (over: Partial<Digest> = {}): Digest => ({
-  site: { id: 's', name: 'Hollow Creek Meadow', timezone: 'Pacific/Auckland' },
-  localDate: '2026-05-04',
-  campaigns: [
-    {
-      id: 'c1',
-      name: 'May round',
-      startsOn: '2026-05-03',
-      endsOn: '2026-05-05',
-      routes: [
-        {
-          routeId: 'r1',
-          routeName: 'North loop',
-          due: ['C1'],
-          partial: [
-            { code: 'C2', missing: ['probes 0/1'] },
-            { code: 'C3', missing: ['offset 0/1'] },
-          ],
-          complete: 3,
-          skipped: 4,
-        },
-      ],
-    },
-  ],
-  anomalies: { total: 0, problems: 0, items: [] },
-  silentDevices: [],
+  ...digestWithStateCounts({ id: 's', name: 'Hollow Creek Meadow', timezone: 'Pacific/Auckland' }),
   ...over,
 });
 
 describe('digest mail words', () => {
   it('when the mail counts collars per route, then each count carries the word of the shared state table', () => {
     const { text } = digestMail(digest(), 'lead@fluxwalk.example', 'Lee', null);
-    const counts = { due: 1, partial: 2, complete: 3, skipped: 4 };
-    expect(text).toContain(`North loop: ${PROGRESS_STATES.map((s) => `${counts[s]} ${PROGRESS_STATE_WORDS[s]}`).join(', ')}.`);
-    expect(text).toContain(`${progressStateHeading('due')} (1): C1`);
-    expect(text).toContain(`${progressStateHeading('partial')} C2: still needs probes 0/1`);
+    expect(text).toContain(`${DIGEST_STATE_LINES.counts}.`);
+    expect(text).toContain(`${DIGEST_STATE_LINES.dueHeading} (1): C1`);
+    expect(text).toContain(DIGEST_STATE_LINES.partial);
   });
 
   it('when a flagged closure is listed, then the mail says what happened in words, not the flag code', () => {

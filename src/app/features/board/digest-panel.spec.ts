@@ -4,7 +4,7 @@ import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
 import { TestBed } from '@angular/core/testing';
 import { MatButtonHarness } from '@angular/material/button/testing';
 import { rememberOnDevice, testUser } from '../../core/auth/testing/demo-sessions';
-import { PROGRESS_STATE_WORDS, PROGRESS_STATES } from '../../../../shared/model/progress-state';
+import { DIGEST_STATE_LINES, digestWithStateCounts } from '../../../../shared/model/testing/digest-words';
 import type { Digest, JobState } from './board-api';
 import { BoardStore } from './board-store';
 import { DIGEST_POLL_MS, DigestPanel } from './digest-panel';
@@ -131,40 +131,12 @@ describe('DigestPanel', () => {
   it('when the preview counts collars per state, then each count carries the word the shared state table gives that state', async () => {
     const { http, text, button, stable } = await render();
     await (await button('Preview digest')).click();
-    const digest: Digest = {
-      site: { id: 'site-a', name: 'Hollow Creek Meadow', timezone: 'Europe/Vienna' },
-      localDate: '2026-05-04',
-      campaigns: [
-        {
-          id: 'c1',
-          name: 'May round',
-          startsOn: '2026-05-03',
-          endsOn: '2026-05-05',
-          routes: [
-            {
-              routeId: 'r1',
-              routeName: 'North loop',
-              due: ['C1'],
-              partial: [
-                { code: 'C2', missing: ['probes 0/1'] },
-                { code: 'C3', missing: ['offset 0/1'] },
-              ],
-              complete: 3,
-              skipped: 4,
-            },
-          ],
-        },
-      ],
-      anomalies: { total: 0, problems: 0, items: [] },
-      silentDevices: [],
-    };
+    const digest: Digest = digestWithStateCounts({ id: 'site-a', name: 'Hollow Creek Meadow', timezone: 'Europe/Vienna' });
     http.expectOne('/api/sites/site-a/digest').flush({ digest });
     await stable();
     const preview = text('[data-testid="digest-preview"]');
-    const counts = { due: 1, partial: 2, complete: 3, skipped: 4 };
-    expect(preview).toContain(`North loop: ${PROGRESS_STATES.map((s) => `${counts[s]} ${PROGRESS_STATE_WORDS[s]}`).join(', ')}`);
-    const cap = (w: string) => w[0].toUpperCase() + w.slice(1);
-    expect(preview).toContain(`${cap(PROGRESS_STATE_WORDS.due)}: C1`);
-    expect(preview).toContain(`${cap(PROGRESS_STATE_WORDS.partial)} C2: still needs probes 0/1`);
+    expect(preview).toContain(DIGEST_STATE_LINES.counts);
+    expect(preview).toContain(`${DIGEST_STATE_LINES.dueHeading}: C1`);
+    expect(preview).toContain(DIGEST_STATE_LINES.partial);
   });
 });
