@@ -1,35 +1,17 @@
-import { startFakeSmtp, type FakeSmtp } from '../../tools/fake-smtp-server';
 import { seriousAccessibilityProblems, signInAs } from './support/app-actions';
-import { startAppServer, type RunningServer } from './support/app-server';
-import { launchBrowser, withScreenshotOnFailure, type Browser } from './support/browser';
+import { withScreenshotOnFailure } from './support/browser';
+import { browserSuite } from './support/suite';
 
 const INVITEE = 'moss.campion@fluxwalk.example';
 
 describe('accounts in the browser', () => {
-  let smtp: FakeSmtp;
-  let server: RunningServer;
-  let admin: Browser;
-  let invitee: Browser;
-
-  beforeAll(async () => {
-    // The server process inherits this environment: its mail goes to the fake held by this test,
-    // and links in mail take the origin the admin's request came from.
-    smtp = await startFakeSmtp();
-    Object.assign(process.env, { SMTP_HOST: smtp.host, SMTP_PORT: String(smtp.port) });
-    delete process.env['APP_ORIGIN'];
-    server = await startAppServer();
-    admin = await launchBrowser();
-    invitee = await launchBrowser();
-  });
-
-  afterAll(async () => {
-    await invitee?.close();
-    await admin?.close();
-    await server?.stop();
-    await smtp?.close();
-  });
+  // The server inherits the fake mailbox's address: the invitation goes there.
+  const suite = browserSuite({ mail: true });
+  const { server } = suite;
 
   it('when the admin invites a crew member, then the link from the mail lets them set a password and they land on Walk', async () => {
+    const admin = await suite.open();
+    const invitee = await suite.open();
     const { page } = admin;
     await withScreenshotOnFailure(page, 'accounts-invite', async () => {
       await signInAs(page, server.baseUrl, 'admin');
@@ -45,7 +27,7 @@ describe('accounts in the browser', () => {
       await page.getByText(`${INVITEE} · crew`).waitFor();
     });
 
-    const mail = await smtp.waitFor(INVITEE);
+    const mail = await suite.smtp.waitFor(INVITEE);
     expect(mail.subject).toBe('Invitation to Alder Hollow Field Station on Fluxwalk');
     const link = new RegExp(`${server.baseUrl}/accept-invitation\\?token=[A-Za-z0-9_-]+`).exec(mail.text)?.[0];
     expect(link).toBeDefined();

@@ -1,22 +1,13 @@
 /// <reference lib="dom" />
 import { Page } from 'playwright-core';
 import { seriousAccessibilityProblems, signInAs } from './support/app-actions';
-import { RunningServer, startAppServer } from './support/app-server';
-import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
+import { browserSuite } from './support/suite';
 
 jest.setTimeout(300_000);
 
-let server: RunningServer;
-let browser: Browser | null = null;
+const suite = browserSuite();
 
-beforeAll(async () => {
-  server = await startAppServer();
-});
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-});
+const { server } = suite;
 
 const queueAnswer = (page: Page) => page.waitForResponse((r) => r.url().includes('/api/bench/queue') && r.status() === 200);
 const detailAnswer = (page: Page) =>
@@ -35,9 +26,7 @@ async function pick(page: Page, label: string, option: string): Promise<void> {
 
 describe('Bench: points left out of a fit, on a phone', () => {
   it('when the lab taps a point on the chart and leaves it out, then the flux is recomputed, the history says so, and it can be put back', async () => {
-    browser = await launchBrowser({ viewport: { width: 390, height: 844 }, touch: true });
-    const page = browser.page;
-    await withScreenshotOnFailure(page, 'bench-exclusions', async () => {
+    await suite.inBrowser('bench-exclusions', { viewport: { width: 390, height: 844 }, touch: true }, async (page) => {
       const loaded = queueAnswer(page);
       await signInAs(page, server.baseUrl, 'lab');
       await loaded;

@@ -3,23 +3,14 @@ import { readFileSync } from 'node:fs';
 import { readZip } from '../support/read-zip';
 import { Page } from 'playwright-core';
 import { seriousAccessibilityProblems, signInAs } from './support/app-actions';
-import { RunningServer, startAppServer } from './support/app-server';
 import { choose } from './support/walk-actions';
-import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
+import { browserSuite } from './support/suite';
 
 jest.setTimeout(240_000);
 
-let server: RunningServer;
-let browser: Browser | null = null;
+const suite = browserSuite();
 
-beforeAll(async () => {
-  server = await startAppServer();
-});
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-});
+const { server } = suite;
 
 async function noSeriousProblems(page: Page, where: string) {
   expect([where, await seriousAccessibilityProblems(page)]).toEqual([where, []]);
@@ -27,9 +18,7 @@ async function noSeriousProblems(page: Page, where: string) {
 
 describe('Bench results in Chromium', () => {
   it('when the lab opens the treatment summary, the temperature response and the seasonal totals, then downloads the data package, each shows real numbers', async () => {
-    browser = await launchBrowser();
-    const page = browser.page;
-    await withScreenshotOnFailure(page, 'bench-results', async () => {
+    await suite.inBrowser('bench-results', async (page) => {
       await signInAs(page, server.baseUrl, 'lab');
       expect(new URL(page.url()).pathname).toBe('/bench');
 

@@ -3,24 +3,18 @@ import { Client } from 'pg';
 import { Page } from 'playwright-core';
 import { FLAG_ADVICE } from '../../shared/flux/flag-advice';
 import { seriousAccessibilityProblems, signInAs } from './support/app-actions';
-import { RunningServer, startAppServer } from './support/app-server';
-import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
+import { type Browser, withScreenshotOnFailure } from './support/browser';
+import { browserSuite } from './support/suite';
 
 jest.setTimeout(300_000);
 
 const SITE = '0f3c2a9e-5b1d-4c7e-9a2f-6d8e1b4c7a10'; // the demo site
 
-let server: RunningServer;
-let browser: Browser | null = null;
+const suite = browserSuite();
 
-beforeAll(async () => {
-  server = await startAppServer();
-});
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-});
+const { server } = suite;
+/** The lab's browser: the second test goes on where the first left the Bench. */
+let lab: Browser;
 
 const queueAnswer = (page: Page) => page.waitForResponse((r) => r.url().includes('/api/bench/queue') && r.status() === 200);
 const detailAnswer = (page: Page) =>
@@ -50,8 +44,8 @@ async function focusPage(page: Page): Promise<void> {
 
 describe('Bench review in Chromium', () => {
   it('when the lab filters by a flag and reviews with the keyboard, then decisions, a moved settle time and a bulk accept are saved', async () => {
-    browser = await launchBrowser();
-    const page = browser.page;
+    lab = await suite.open({ untilEnd: true });
+    const page = lab.page;
     await withScreenshotOnFailure(page, 'bench-review', async () => {
       const loaded = queueAnswer(page);
       await signInAs(page, server.baseUrl, 'lab');
@@ -135,7 +129,7 @@ describe('Bench review in Chromium', () => {
   });
 
   it('when the chamber volume is corrected outside the app and the lab recomputes the site, then progress ends in counts and reviewed closures show old → new flux in the queue', async () => {
-    const page = browser!.page;
+    const page = lab.page;
     await withScreenshotOnFailure(page, 'bench-recompute', async () => {
       // A fix made behind the app's back (the case the Bench's own request is for): every profile of the site 10 % larger.
       const db = new Client({ connectionString: process.env['E2E_DATABASE_URL'] });

@@ -3,10 +3,9 @@ import { randomUUID } from 'node:crypto';
 import { readFileSync } from 'node:fs';
 import { Client } from 'pg';
 import { Page } from 'playwright-core';
-import { startFakeSmtp, type FakeSmtp } from '../../tools/fake-smtp-server';
 import { seriousAccessibilityProblems, signInAs } from './support/app-actions';
-import { RunningServer, startAppServer } from './support/app-server';
-import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
+import { type Browser, withScreenshotOnFailure } from './support/browser';
+import { browserSuite } from './support/suite';
 import { syncNow, waitForFirstSync } from './support/sync-actions';
 
 jest.setTimeout(420_000);
@@ -15,21 +14,11 @@ const SITE = '0f3c2a9e-5b1d-4c7e-9a2f-6d8e1b4c7a10'; // the demo site
 const CREW_ID = '1a6f0c3e-2d4b-4e8a-9c1f-3b5d7e9f1a01';
 const LEAD_ID = '1a6f0c3e-2d4b-4e8a-9c1f-3b5d7e9f1a02';
 
-let server: RunningServer;
-let smtp: FakeSmtp;
-const browsers: Browser[] = [];
-
-beforeAll(async () => {
-  // The server inherits this environment: the digest it sends goes to the fake mailbox held here.
-  smtp = await startFakeSmtp();
-  Object.assign(process.env, { SMTP_HOST: smtp.host, SMTP_PORT: String(smtp.port) });
-  server = await startAppServer();
-});
-afterAll(async () => {
-  for (const b of browsers) await b.close();
-  await server?.stop();
-  await smtp?.close();
-});
+// The server inherits the fake mailbox's address: the digest it sends goes there.
+const suite = browserSuite({ mail: true });
+const { server } = suite;
+/** The lead's browser: the second test goes on signed in where the first left the Board. */
+let lead: Browser;
 
 async function noSeriousProblems(page: Page, where: string) {
   const problems = await seriousAccessibilityProblems(page);
@@ -147,8 +136,7 @@ function visitOps(campaignId: string, collarId: string, round: number, what: 'of
 
 describe('Board in Chromium', () => {
   it('when the lead plans, watches a collar turn complete after the crew syncs, exports and closes the campaign', async () => {
-    const lead = await launchBrowser();
-    browsers.push(lead);
+    lead = await suite.open({ untilEnd: true });
     const page = lead.page;
     await withScreenshotOnFailure(page, 'board-plan', async () => {
       await signInAs(page, server.baseUrl, 'lead');
@@ -222,8 +210,7 @@ describe('Board in Chromium', () => {
       await poll(() => shownStates(page)).toEqual(Object.fromEntries(collars.map((c) => [c.code, 'due'])));
 
       // The crew records an offset set on their own device and syncs.
-      const crew = await launchBrowser();
-      browsers.push(crew);
+      const crew = await suite.open();
       await signInAs(crew.page, server.baseUrl, 'crew');
       await waitForFirstSync(crew.page);
       await recordOnCrewDevice(crew.page, visitOps(campaign.id, collars[0].id, 1, 'offset'));
@@ -292,13 +279,13 @@ describe('Board in Chromium', () => {
       const due = digest.campaigns.reduce((n, c) => n + c.routes.reduce((m, r) => m + r.due.length, 0), 0);
       expect(await preview.locator('h4').count()).toBe(digest.campaigns.length + 2);
       await noSeriousProblems(page, 'Board digest');
-      const seen = smtp.messagesTo('lead@fluxwalk.example').length;
+      const seen = suite.smtp.messagesTo('lead@fluxwalk.example').length;
       await page.getByRole('button', { name: 'Send me the digest now' }).click();
       await page
         .getByTestId('digest-status')
         .getByText(`Digest sent to lead@fluxwalk.example (${due} collar(s) due).`)
         .waitFor({ timeout: 60_000 });
-      const mail = await smtp.waitFor('lead@fluxwalk.example', { seen, timeoutMs: 10_000 });
+      const mail = await suite.smtp.waitFor('lead@fluxwalk.example', { seen, timeoutMs: 10_000 });
       expect(mail.subject).toMatch(/^Daily digest: .+, \d{4}-\d{2}-\d{2}$/);
 
       // Without signal the Board shows its last answers, and says so.
@@ -317,7 +304,7 @@ describe('Board in Chromium', () => {
 
   it('when a campaign holds 5 000 collars, then the first rows show within 300 ms of the data, the DOM keeps fewer than 200 rows and the map draws them within a second', async () => {
     const campaignId = await seedLargeCampaign(5000);
-    const page = browsers[0].page;
+    const page = lead.page;
     await withScreenshotOnFailure(page, 'board-5000', async () => {
       await openTab(page, 'Progress');
       await page.evaluate(() => {

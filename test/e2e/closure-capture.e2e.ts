@@ -6,9 +6,7 @@ import path from 'node:path';
 import type { Page } from 'playwright-core';
 import { createObjectStorage } from '../../server/attachments/object-storage';
 import { signInAs, waitForServiceWorkerControl } from './support/app-actions';
-import { RunningServer, startAppServer } from './support/app-server';
-import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
-import { queryE2eDatabase } from './support/suite';
+import { browserSuite, queryE2eDatabase } from './support/suite';
 import { syncNow, waitForFirstSync, waitForSyncLabel } from './support/sync-actions';
 import { choose } from './support/walk-actions';
 
@@ -30,17 +28,9 @@ const TAPS = [
 ] as const;
 const AMBIENT_PPM = 421.5;
 
-let server: RunningServer;
-let browser: Browser | null = null;
+const suite = browserSuite();
 
-beforeAll(async () => {
-  server = await startAppServer();
-});
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-});
+const { server } = suite;
 
 const query = queryE2eDatabase;
 
@@ -84,11 +74,8 @@ async function shownClosures(page: Page): Promise<ShownClosure[]> {
 describe('Closure capture in Chromium, offline, then synced', () => {
   it('when the crew taps two closures at each of two collars, imports the logger file, redoes one and syncs, then PostgreSQL has every closure with its result and object storage has the file byte for byte', async () => {
     const fileBytes = readFileSync(FIXTURE);
-    browser = await launchBrowser();
-    const { page, context } = browser;
-    await page.setViewportSize({ width: 420, height: 900 });
-    await withScreenshotOnFailure(page, 'closure-capture', async () => {
-      const user = (await signInAs(page, server.baseUrl, 'crew')) as unknown as { id: string };
+    await suite.inBrowser('closure-capture', { viewport: { width: 420, height: 900 } }, async (page, { context }) => {
+      const user = await signInAs(page, server.baseUrl, 'crew');
       await waitForFirstSync(page);
       await waitForServiceWorkerControl(page);
       // The morning of round 2 on the phone; time flows from here as usual.
@@ -294,12 +281,8 @@ describe('Closure capture in Chromium, offline, then synced', () => {
     });
   });
   it("when the crew taps at two more collars and imports the day's file once from the route, then one confirm fills every tapped closure of both collars with one attachment", async () => {
-    await browser?.close();
-    browser = await launchBrowser();
-    const { page } = browser;
-    await page.setViewportSize({ width: 390, height: 844 });
-    await withScreenshotOnFailure(page, 'round-import', async () => {
-      const user = (await signInAs(page, server.baseUrl, 'crew')) as unknown as { id: string };
+    await suite.inBrowser('round-import', { viewport: { width: 390, height: 844 } }, async (page) => {
+      const user = await signInAs(page, server.baseUrl, 'crew');
       await waitForFirstSync(page);
       await page.clock.install({ time: new Date('2026-12-03T08:20:00Z') });
       await page.clock.resume();

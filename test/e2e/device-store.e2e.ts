@@ -1,8 +1,8 @@
 /// <reference lib="dom" />
 // Callbacks passed to page.evaluate() run in the browser and use its DOM types.
 import { signInAs, waitForServiceWorkerControl } from './support/app-actions';
-import { RunningServer, startAppServer } from './support/app-server';
-import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
+import { type Browser, withScreenshotOnFailure } from './support/browser';
+import { browserSuite } from './support/suite';
 import {
   editNotes,
   firstCollars,
@@ -16,26 +16,10 @@ import {
 
 jest.setTimeout(240_000);
 
-let server: RunningServer;
-const browsers: Browser[] = [];
+const suite = browserSuite();
 
-beforeAll(async () => {
-  server = await startAppServer();
-});
-
-afterAll(async () => {
-  await server?.stop();
-});
-
-afterEach(async () => {
-  while (browsers.length) await browsers.pop()!.close();
-});
-
-async function open(): Promise<Browser> {
-  const b = await launchBrowser();
-  browsers.push(b);
-  return b;
-}
+const { server } = suite;
+const open = () => suite.open();
 
 async function openCollar(b: Browser, id: string, code: string): Promise<void> {
   await b.page.goto(`${server.baseUrl}/collars/${id}`, { waitUntil: 'load' });

@@ -1,25 +1,15 @@
 /// <reference lib="dom" />
 // Callbacks passed to page.evaluate() run in the browser and use its DOM types.
 import { seriousAccessibilityProblems, signInAs } from './support/app-actions';
-import { RunningServer, startAppServer } from './support/app-server';
-import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
-import { queryE2eDatabase } from './support/suite';
+import { browserSuite, queryE2eDatabase } from './support/suite';
 import { syncNow, waitForFirstSync } from './support/sync-actions';
 import { PHONE, choose } from './support/walk-actions';
 
 jest.setTimeout(600_000);
 
-let server: RunningServer;
-let browser: Browser | null = null;
+const suite = browserSuite();
 
-beforeAll(async () => {
-  server = await startAppServer();
-});
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-});
+const { server } = suite;
 
 /** This test's readings: the probe id typed here marks them. */
 const PROBE = `REP-${Date.now().toString(36)}`;
@@ -39,11 +29,8 @@ async function until<T>(read: () => Promise<T>, ok: (v: T) => boolean, what: str
 
 describe('Probe replicates on a phone', () => {
   it('when the crew takes three insertions at one collar and deletes one, then each is a record in PostgreSQL and the deleted one a tombstone', async () => {
-    browser = await launchBrowser({ hasTouch: true });
-    const { page } = browser;
-    await page.setViewportSize(PHONE);
-    await withScreenshotOnFailure(page, 'probe-replicates', async () => {
-      const user = (await signInAs(page, server.baseUrl, 'crew')) as unknown as { id: string };
+    await suite.inBrowser('probe-replicates', { hasTouch: true, viewport: PHONE }, async (page) => {
+      const user = await signInAs(page, server.baseUrl, 'crew');
       await waitForFirstSync(page);
       await page.goto(`${server.baseUrl}/walk`, { waitUntil: 'load' });
       await page.getByRole('heading', { name: 'Walk', exact: true }).waitFor();

@@ -5,24 +5,16 @@ import { Page } from 'playwright-core';
 import { pressureFromElevationKpa } from '../../shared/flux/standard-atmosphere';
 import { decodePdfQrCodes } from '../fixtures/setup/pdf-qr';
 import { seriousAccessibilityProblems, signInAs } from './support/app-actions';
-import { RunningServer, startAppServer } from './support/app-server';
-import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
+import { browserSuite } from './support/suite';
 
 jest.setTimeout(240_000);
 
 const CSV = path.resolve(__dirname, '../fixtures/setup/collars-40.csv');
 const CREW_NAME = 'Rowan Ashby'; // the demo crew user
 
-let server: RunningServer;
-let browser: Browser | null = null;
+const suite = browserSuite();
 
-beforeAll(async () => {
-  server = await startAppServer();
-});
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-});
+const { server } = suite;
 
 async function addRow(page: Page, table: string, values: Record<string, string>, selects: Record<string, string> = {}) {
   const form = page.getByRole('form', { name: `Add to ${table}` });
@@ -43,9 +35,7 @@ async function noSeriousProblems(page: Page, where: string) {
 
 describe('Setup in Chromium', () => {
   it('when the admin sets up a site from scratch, then collars import after fixing two rows and every tag scans to its collar', async () => {
-    browser = await launchBrowser();
-    const page = browser.page;
-    await withScreenshotOnFailure(page, 'setup-site', async () => {
+    await suite.inBrowser('setup-site', async (page) => {
       await signInAs(page, server.baseUrl, 'admin');
       expect(new URL(page.url()).pathname).toBe('/setup');
       await page.getByRole('heading', { name: 'Setup', level: 1 }).waitFor();

@@ -1,29 +1,17 @@
 /// <reference lib="dom" />
 import { signInAs } from './support/app-actions';
-import { RunningServer, startAppServer } from './support/app-server';
-import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
 import { choose } from './support/walk-actions';
+import { browserSuite } from './support/suite';
 
 jest.setTimeout(240_000);
 
-let server: RunningServer;
-let browser: Browser | null = null;
+const suite = browserSuite();
 
-beforeAll(async () => {
-  server = await startAppServer();
-});
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-});
+const { server } = suite;
 
 describe('Bench temperature logs in Chromium at 390 px', () => {
   it('when the lab picks a logger file, fixes nothing, chooses a plot and depth, then the log is stored and the screen fits a phone', async () => {
-    browser = await launchBrowser();
-    const page = browser.page;
-    await withScreenshotOnFailure(page, 'temperature-logs', async () => {
-      await page.setViewportSize({ width: 390, height: 844 });
+    await suite.inBrowser('temperature-logs', { viewport: { width: 390, height: 844 } }, async (page) => {
       await signInAs(page, server.baseUrl, 'lab');
       await page.getByRole('link', { name: 'Temperature logs' }).click();
       await page.getByRole('heading', { name: 'Soil temperature logs' }).waitFor();

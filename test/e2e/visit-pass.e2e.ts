@@ -3,25 +3,16 @@
 import { mkdirSync } from 'node:fs';
 import type { Page } from 'playwright-core';
 import { seriousAccessibilityProblems, signInAs, waitForServiceWorkerControl } from './support/app-actions';
-import { RunningServer, startAppServer } from './support/app-server';
-import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
 import { waitForFirstSync } from './support/sync-actions';
 import { VisitCounter } from './support/visit-counter';
 import { PHONE, choose } from './support/walk-actions';
+import { browserSuite } from './support/suite';
 
 jest.setTimeout(600_000);
 
-let server: RunningServer;
-let browser: Browser | null = null;
+const suite = browserSuite();
 
-beforeAll(async () => {
-  server = await startAppServer();
-});
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-});
+const { server } = suite;
 
 /** Before/after pictures for the change note (only when asked: VISIT_SCREENS=<folder>). */
 async function noteShot(page: Page, name: string): Promise<void> {
@@ -48,10 +39,7 @@ const CLOSURE_S = 120;
 
 describe('One pass per collar on a phone', () => {
   it('when the crew does a full visit reusing the last offset set, then the taps, typed fields and scrolls are counted and within the target', async () => {
-    browser = await launchBrowser({ hasTouch: true });
-    const { page } = browser;
-    await page.setViewportSize(PHONE);
-    await withScreenshotOnFailure(page, 'visit-pass', async () => {
+    await suite.inBrowser('visit-pass', { hasTouch: true, viewport: PHONE }, async (page) => {
       await signInAs(page, server.baseUrl, 'crew');
       await waitForFirstSync(page);
       await waitForServiceWorkerControl(page);

@@ -3,25 +3,15 @@
 import { createHash } from 'node:crypto';
 import path from 'node:path';
 import { seriousAccessibilityProblems, signInAs, waitForServiceWorkerControl, type AxeProblem } from './support/app-actions';
-import { RunningServer, startAppServer } from './support/app-server';
-import { Browser, launchBrowser, withScreenshotOnFailure } from './support/browser';
-import { queryE2eDatabase } from './support/suite';
+import { browserSuite, queryE2eDatabase } from './support/suite';
 import { syncNow, waitForFirstSync, waitForSyncLabel } from './support/sync-actions';
 import { PHONE, choose, chooseByKeyboard, deviceBlob, readmeShot, testPhoto } from './support/walk-actions';
 
 jest.setTimeout(600_000);
 
-let server: RunningServer;
-let browser: Browser | null = null;
+const suite = browserSuite();
 
-beforeAll(async () => {
-  server = await startAppServer();
-});
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-});
+const { server } = suite;
 
 const query = queryE2eDatabase;
 
@@ -36,14 +26,11 @@ const BLANK_TAG = {
 
 describe('Walk in Chromium on a phone, offline', () => {
   it("when the crew works a day offline and then syncs, then every check (with the leak check's logger file), visit, offset set, probe reading, tagged new collar and photo record is in PostgreSQL", async () => {
-    browser = await launchBrowser();
-    const { page, context } = browser;
-    await page.setViewportSize(PHONE);
     // axe on each Walk screen, with whatever the shell shows over it then (the "Offline" snackbar
     // comes and goes with timing); the browser asks for reduced motion, so nothing is half-faded.
     const axe: Record<string, AxeProblem[]> = {};
-    await withScreenshotOnFailure(page, 'walk-day', async () => {
-      const user = (await signInAs(page, server.baseUrl, 'crew')) as unknown as { id: string };
+    await suite.inBrowser('walk-day', { viewport: PHONE }, async (page, { context }) => {
+      const user = await signInAs(page, server.baseUrl, 'crew');
       await waitForFirstSync(page);
       await waitForServiceWorkerControl(page);
       const [{ latitude, longitude }] = await query<{ latitude: number; longitude: number }>(
