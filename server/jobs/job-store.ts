@@ -51,32 +51,47 @@ export interface JobProgress {
 
 const COLUMNS = `id, name, site_id, state, done, total, attempts, result, error, created_at, started_at, finished_at`;
 
-function toProgress(r: Record<string, unknown>): JobProgress {
-  const iso = (v: unknown) => (v instanceof Date ? v.toISOString() : null);
+/** A job_progress row as the pg driver reads it (integer columns arrive as numbers, timestamptz as Date). */
+interface JobProgressRow {
+  id: string;
+  name: string;
+  site_id: string | null;
+  state: JobProgress['state'];
+  done: number;
+  total: number | null;
+  attempts: number;
+  result: unknown;
+  error: string | null;
+  created_at: Date;
+  started_at: Date | null;
+  finished_at: Date | null;
+}
+
+function toProgress(r: JobProgressRow): JobProgress {
   return {
-    id: r['id'] as string,
-    name: r['name'] as string,
-    siteId: (r['site_id'] as string | null) ?? null,
-    state: r['state'] as JobProgress['state'],
-    done: Number(r['done']),
-    total: r['total'] === null ? null : Number(r['total']),
-    attempts: Number(r['attempts']),
-    result: r['result'] ?? null,
-    error: (r['error'] as string | null) ?? null,
-    createdAt: iso(r['created_at'])!,
-    startedAt: iso(r['started_at']),
-    finishedAt: iso(r['finished_at']),
+    id: r.id,
+    name: r.name,
+    siteId: r.site_id,
+    state: r.state,
+    done: r.done,
+    total: r.total,
+    attempts: r.attempts,
+    result: r.result,
+    error: r.error,
+    createdAt: r.created_at.toISOString(),
+    startedAt: r.started_at?.toISOString() ?? null,
+    finishedAt: r.finished_at?.toISOString() ?? null,
   };
 }
 
 export async function jobProgress(db: Queryable, id: string): Promise<JobProgress | null> {
-  const [row] = await db.query(`SELECT ${COLUMNS} FROM job_progress WHERE id = $1`, [id]);
+  const [row]: JobProgressRow[] = await db.query(`SELECT ${COLUMNS} FROM job_progress WHERE id = $1`, [id]);
   return row ? toProgress(row) : null;
 }
 
 /** Recent jobs of one kind, newest first; `siteIds` null means every site. */
 export async function recentJobs(db: Queryable, name: string | null, siteIds: string[] | null, limit: number): Promise<JobProgress[]> {
-  const rows = await db.query(
+  const rows: JobProgressRow[] = await db.query(
     `SELECT ${COLUMNS} FROM job_progress
       WHERE ($1::text IS NULL OR name = $1) AND ($2::uuid[] IS NULL OR site_id = ANY($2) OR site_id IS NULL)
       ORDER BY created_at DESC LIMIT $3`,
