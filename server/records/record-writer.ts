@@ -10,7 +10,7 @@ import { ENTITY_DEFS, type EntityDef, type WriteAction } from './entity-registry
 import { insertRows } from './insert-rows';
 import { deriveFields, warningsFor } from './record-derivations';
 import { checkReferences, forgetReference, lockedCampaignMessage } from './record-references';
-import { sameValue, toWire } from './wire';
+import { sameValue, toWireRecord, type SiteScoped, type WireRecord } from './wire';
 import { noRecordMessage, rejected, type WriteOutcome } from './write-outcome';
 
 export type { WriteOutcome } from './write-outcome';
@@ -69,9 +69,9 @@ export async function writeRecord(
       ? rejected(409, `Another ${op.entity} already uses one of these values (for example the same code at this site)`)
       : rejected(400, `${op.id} is not a valid record id`);
   }
-  const current = toWire(existing);
+  const current = toWireRecord(existing);
   if (op.baseRev === null) return repeatedCreate(d, current, incoming);
-  if (existing['deleted']) return conflict(Object.keys(incoming), current);
+  if (current.deleted) return conflict(Object.keys(incoming), current);
   return updateRecord(ctx, op, current, incoming);
 }
 
@@ -120,8 +120,11 @@ function roleDenied(ctx: Ctx, action: WriteAction): WriteOutcome | null {
   return rejected(403, `Your role may not ${action} a ${ctx.d.name}`);
 }
 
-function siteOf(d: EntityDef, id: string, rec: Record<string, unknown>): string {
-  return d.name === 'site' ? id : String(rec['siteId']);
+/** The site a record belongs to: a site is its own; every other entity's schema requires `siteId`. */
+function siteOf(d: EntityDef, id: string, rec: SiteScoped): string {
+  if (d.name === 'site') return id;
+  if (typeof rec.siteId !== 'string') throw new Error(`${d.name} ${id} has no siteId`);
+  return rec.siteId;
 }
 
 function membershipDenied(ctx: Ctx, siteId: string): WriteOutcome | null {
@@ -132,7 +135,8 @@ function membershipDenied(ctx: Ctx, siteId: string): WriteOutcome | null {
 function validate(entity: EntityName, candidate: Record<string, unknown>) {
   const parsed = ENTITY_FIELDS[entity].safeParse(candidate);
   if (!parsed.success) return { error: rejected(400, `Some ${entity} fields are not valid`, fieldErrorsFromZod(parsed.error)) };
-  return { value: parsed.data as Record<string, unknown> };
+  // The schema of an entity named at run time: its fields by name, siteId typed (SiteScoped).
+  return { value: parsed.data as SiteScoped };
 }
 
 async function createRecord(ctx: Ctx, op: WriteOp, incoming: Record<string, unknown>): Promise<WriteOutcome> {
@@ -156,7 +160,7 @@ export interface PreparedCreate {
   siteId: string;
   fields: string[];
   row: Record<string, unknown>;
-  record: Record<string, unknown>;
+  record: WireRecord;
 }
 
 /** Every check of a create, in order, then the derived values: a refusal or the row to insert. */
@@ -177,7 +181,7 @@ async function prepareCreate(ctx: Ctx, op: WriteOp, incoming: Record<string, unk
   if (guard) return guard;
   const derived = await deriveFields(ctx.em, d.name, next, null);
   const row = { ...next, ...derived, id: op.id, rev: 1, updatedAt: new Date(), updatedBy: ctx.actor.id, deleted: false };
-  return { id: op.id, siteId, fields: Object.keys(next), row, record: toWire(row) };
+  return { id: op.id, siteId, fields: Object.keys(next), row, record: toWireRecord(row) };
 }
 
 /** After the row is stored: the change log entry, the after-write listeners, the answer. */
@@ -262,12 +266,12 @@ export function finishBatchedCreate(
 }
 
 /** A create whose id is already known: the same content is a harmless repeat, anything else a conflict. */
-function repeatedCreate(d: EntityDef, current: Record<string, unknown>, incoming: Record<string, unknown>): WriteOutcome {
-  if (current['deleted']) return conflict(Object.keys(incoming), current);
+function repeatedCreate(d: EntityDef, current: WireRecord, incoming: Record<string, unknown>): WriteOutcome {
+  if (current.deleted) return conflict(Object.keys(incoming), current);
   const v = ENTITY_FIELDS[d.name].safeParse(incoming);
   const wanted = v.success ? (v.data as Record<string, unknown>) : incoming;
   const differing = Object.keys(wanted).filter((k) => !sameValue(wanted[k], current[k]));
-  if (!differing.length) return { status: 'duplicate', rev: Number(current['rev']), record: current };
+  if (!differing.length) return { status: 'duplicate', rev: current.rev, record: current };
   return conflict(differing, current);
 }
 
@@ -284,12 +288,12 @@ function reviewOnly(d: EntityDef, changed: string[]): boolean {
   );
 }
 
-function conflict(fields: string[], server: Record<string, unknown>): WriteOutcome {
+function conflict(fields: string[], server: WireRecord): WriteOutcome {
   return {
     status: 'conflict',
-    rev: Number(server['rev']),
+    rev: server.rev,
     record: server,
-    conflict: { fields, server, serverRev: Number(server['rev']) },
+    conflict: { fields, server, serverRev: server.rev },
     httpStatus: 409,
   };
 }
@@ -308,14 +312,9 @@ async function serverChangedSince(em: EntityManager, d: EntityDef, id: string, b
   return new Set(rows.map((r) => r.f));
 }
 
-async function updateRecord(
-  ctx: Ctx,
-  op: WriteOp,
-  current: Record<string, unknown>,
-  incoming: Record<string, unknown>,
-): Promise<WriteOutcome> {
+async function updateRecord(ctx: Ctx, op: WriteOp, current: WireRecord, incoming: Record<string, unknown>): Promise<WriteOutcome> {
   const { d } = ctx;
-  const rev = Number(current['rev']);
+  const rev = current.rev;
   const changed = Object.keys(incoming).filter((k) => !sameValue(incoming[k], current[k]));
   if (!changed.length) return { status: 'applied', rev, record: current };
   const siteId = siteOf(d, op.id, current);
@@ -367,7 +366,7 @@ async function updateRecord(
     userId: ctx.actor.id,
     deviceId: ctx.deviceId,
   });
-  const record = toWire({ ...current, ...patch });
+  const record = toWireRecord({ ...current, ...patch });
   await notifyWritten({
     em: ctx.em,
     actorId: ctx.actor.id,
@@ -385,9 +384,9 @@ async function updateRecord(
 async function deleteRecord(ctx: Ctx, op: WriteOp, existing: ObjectLiteral | null): Promise<WriteOutcome> {
   const { d } = ctx;
   if (!existing) return rejected(404, noRecordMessage(d.name, op.id));
-  const current = toWire(existing);
-  const rev = Number(current['rev']);
-  if (current['deleted']) return { status: 'applied', rev, record: current };
+  const current = toWireRecord(existing);
+  const rev = current.rev;
+  if (current.deleted) return { status: 'applied', rev, record: current };
   const siteId = siteOf(d, op.id, current);
   const guard =
     (await lockedCampaignMessage(ctx.em, d, current)) ??
@@ -410,7 +409,7 @@ async function deleteRecord(ctx: Ctx, op: WriteOp, existing: ObjectLiteral | nul
     userId: ctx.actor.id,
     deviceId: ctx.deviceId,
   });
-  const record = toWire({ ...current, ...patch });
+  const record = toWireRecord({ ...current, ...patch });
   await notifyWritten({
     em: ctx.em,
     actorId: ctx.actor.id,

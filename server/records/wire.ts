@@ -1,3 +1,21 @@
+import type { ObjectLiteral } from 'typeorm';
+import type { RecordMeta } from '../../shared/model/common';
+
+/**
+ * A stored record of an entity named at run time (the writer, the generic routes, the pull): its
+ * meta typed, `siteId` as every entity but a site has it, its other fields by name. Code that knows
+ * its entity reads `StoredRecord<E>` instead.
+ */
+export type WireRecord = RecordMeta & SiteScoped & Record<string, unknown>;
+
+/** Fields of a record of an entity named at run time, before its meta: `siteId` typed (a site has none). */
+export type SiteScoped = { siteId?: string } & Record<string, unknown>;
+
+/** A row of a registered entity as a wire record: every entity extends SyncedColumns, so the meta is there. */
+export function toWireRecord(row: ObjectLiteral): WireRecord {
+  return toWire(row) as WireRecord;
+}
+
 /**
  * Plain wire objects from TypeORM rows: dates as ISO-8601 UTC strings, numbers as numbers,
  * no class instances. Comparing values goes through the same normalisation.
