@@ -1,4 +1,5 @@
 import express from 'express';
+import { loadMailConfig } from '../mail/mail-config';
 import { loadConfig } from './config';
 
 const DB = { DATABASE_URL: 'postgres://u:p@127.0.0.1:1/x_test' };
@@ -69,5 +70,23 @@ describe('server configuration', () => {
     const c = load({ LOGIN_MAX_FAILURES: '4', LOGIN_MAX_FAILURES_PER_ADDRESS: '30', LOGIN_WINDOW_MS: '60000' });
     expect([c.loginMaxFailures, c.loginMaxFailuresPerAddress, c.loginWindowMs]).toEqual([4, 30, 60000]);
     expect(load({}).loginMaxFailuresPerAddress).toBe(100);
+  });
+
+  it('when a number setting is not a number, then start-up fails naming it; empty takes the default', () => {
+    expect(() => load({ PORT: 'eighty' })).toThrow('PORT must be a number, got "eighty"');
+    expect(load({ PORT: '', LOGIN_WINDOW_MS: '' })).toMatchObject({ port: 8080, loginWindowMs: 15 * 60 * 1000 });
+  });
+
+  it('when mail settings are empty, then mail has no server and the default sender; a bad SMTP_PORT is named', () => {
+    expect(loadMailConfig({ SMTP_HOST: '', SMTP_PORT: '', MAIL_FROM: '' })).toEqual({
+      host: null,
+      port: 587,
+      user: null,
+      pass: null,
+      from: 'Fluxwalk <fluxwalk@localhost>',
+      appOrigin: 'http://127.0.0.1:8080',
+    });
+    expect(loadMailConfig({ SMTP_HOST: 'mail.lan', SMTP_PORT: '2525' })).toMatchObject({ host: 'mail.lan', port: 2525 });
+    expect(() => loadMailConfig({ SMTP_PORT: '0' })).toThrow('SMTP_PORT must be a port number, got "0"');
   });
 });

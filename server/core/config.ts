@@ -1,11 +1,11 @@
-import { randomBytes } from 'node:crypto';
 import { isIP } from 'node:net';
 import { objectStorageFromEnv, type ObjectStorageConfig } from '../attachments/object-storage';
+import { serverEnv, type ServerEnv } from './server-env';
 
 /** Express's "trust proxy" setting: off, every hop, a hop count, or addresses/subnets/names. */
 export type TrustProxy = boolean | number | string[];
 
-/** Everything the server reads from the environment, read once, with the defaults documented here. */
+/** Everything the server reads from the environment, read once through SERVER_ENV (server-env.ts, where the defaults live). */
 export interface ServerConfig {
   databaseUrl: string;
   host: string;
@@ -28,31 +28,21 @@ export interface ServerConfig {
   objectStorage: ObjectStorageConfig | null;
 }
 
-function int(env: NodeJS.ProcessEnv, name: string, fallback: number): number {
-  const raw = env[name];
-  if (raw === undefined || raw === '') return fallback;
-  const n = Number(raw);
-  if (!Number.isFinite(n)) throw new Error(`${name} must be a number, got "${raw}"`);
-  return n;
-}
-
 export function loadConfig(overrides: Partial<ServerConfig> = {}, env: NodeJS.ProcessEnv = process.env): ServerConfig {
-  const databaseUrl = overrides.databaseUrl ?? env['DATABASE_URL'];
+  const e = serverEnv(env);
+  const databaseUrl = overrides.databaseUrl ?? e.DATABASE_URL;
   if (!databaseUrl) throw new Error('DATABASE_URL is not set (npm start sets it for its own cluster)');
-  const host = env['HOST'] ?? '127.0.0.1';
-  const port = int(env, 'PORT', 8080);
   return {
     databaseUrl,
-    host,
-    port,
-    staticDir: env['STATIC_DIR'] ?? null,
-    // Sessions live in PostgreSQL; every process behind a proxy must share this secret.
-    sessionSecret: env['SESSION_SECRET'] ?? randomBytes(32).toString('hex'),
-    appOrigin: appOrigin(env, host, port),
-    trustProxy: parseTrustProxy(env['TRUST_PROXY']),
-    loginMaxFailures: int(env, 'LOGIN_MAX_FAILURES', 8),
-    loginMaxFailuresPerAddress: int(env, 'LOGIN_MAX_FAILURES_PER_ADDRESS', 100),
-    loginWindowMs: int(env, 'LOGIN_WINDOW_MS', 15 * 60 * 1000),
+    host: e.HOST,
+    port: e.PORT,
+    staticDir: e.STATIC_DIR,
+    sessionSecret: e.SESSION_SECRET,
+    appOrigin: appOrigin(e),
+    trustProxy: parseTrustProxy(e.TRUST_PROXY),
+    loginMaxFailures: e.LOGIN_MAX_FAILURES,
+    loginMaxFailuresPerAddress: e.LOGIN_MAX_FAILURES_PER_ADDRESS,
+    loginWindowMs: e.LOGIN_WINDOW_MS,
     objectStorage: objectStorageFromEnv(),
     ...overrides,
   };
@@ -63,18 +53,19 @@ export function loadConfig(overrides: Partial<ServerConfig> = {}, env: NodeJS.Pr
  * whoever sends it, so a reset link built from it can point at an attacker; hence only
  * APP_ORIGIN, or in development the address this server is configured to listen on.
  */
-export function appOrigin(env: NodeJS.ProcessEnv = process.env, host = env['HOST'] ?? '127.0.0.1', port = int(env, 'PORT', 8080)): string {
-  const raw = env['APP_ORIGIN']?.trim();
+export function appOrigin(e: Pick<ServerEnv, 'APP_ORIGIN' | 'NODE_ENV' | 'HOST' | 'PORT'>): string {
+  const raw = e.APP_ORIGIN?.trim();
   if (raw) return checkedOrigin(raw);
-  if (env['NODE_ENV'] === 'production') {
+  if (e.NODE_ENV === 'production') {
     throw new Error(
       'APP_ORIGIN is not set, and NODE_ENV=production needs it: set APP_ORIGIN to the address people open, ' +
         'e.g. APP_ORIGIN=https://fluxwalk.example.org (links in invitation and reset mail and on printed tags use it).',
     );
   }
   // A wildcard bind address is no place to send anyone; loopback is where it answers in development.
+  const host = e.HOST;
   const linkHost = host === '0.0.0.0' || host === '::' || host === '' ? '127.0.0.1' : host.includes(':') ? `[${host}]` : host;
-  return `http://${linkHost}:${port}`;
+  return `http://${linkHost}:${e.PORT}`;
 }
 
 function checkedOrigin(raw: string): string {

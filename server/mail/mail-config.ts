@@ -1,4 +1,5 @@
 import { appOrigin } from '../core/config';
+import { serverEnv } from '../core/server-env';
 
 /** Where mail goes and what links in it point at, from the environment (read once per app). */
 export interface MailConfig {
@@ -13,14 +14,6 @@ export interface MailConfig {
 }
 
 export function loadMailConfig(env: NodeJS.ProcessEnv = process.env): MailConfig {
-  const port = Number(env['SMTP_PORT'] || 587);
-  if (!Number.isInteger(port) || port <= 0) throw new Error(`SMTP_PORT must be a port number, got "${env['SMTP_PORT']}"`);
-  return {
-    host: env['SMTP_HOST'] || null,
-    port,
-    user: env['SMTP_USER'] || null,
-    pass: env['SMTP_PASS'] || null,
-    from: env['MAIL_FROM'] || 'Fluxwalk <fluxwalk@localhost>',
-    appOrigin: appOrigin(env),
-  };
+  const e = serverEnv(env);
+  return { host: e.SMTP_HOST, port: e.SMTP_PORT, user: e.SMTP_USER, pass: e.SMTP_PASS, from: e.MAIL_FROM, appOrigin: appOrigin(e) };
 }
