@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { collarFields } from '../../shared/model/field-records';
+import type { EntityFields } from '../../shared/model/entities';
 import { parseBoundedCsv } from './csv-bounds';
 
 /** What a collar CSV column can mean; `unit` is the only unit the import accepts for it. */
@@ -20,7 +21,26 @@ export const IMPORT_TARGETS = {
 } as const;
 export type ImportTarget = keyof typeof IMPORT_TARGETS;
 const TARGETS = Object.keys(IMPORT_TARGETS) as ImportTarget[];
-const NUMERIC: ImportTarget[] = ['latitude', 'longitude', 'diameterCm', 'sideACm', 'sideBCm', 'heightCm', 'insertionCm'];
+const NUMERIC = [
+  'latitude',
+  'longitude',
+  'diameterCm',
+  'sideACm',
+  'sideBCm',
+  'heightCm',
+  'insertionCm',
+] as const satisfies readonly ImportTarget[];
+
+/** A CSV row as collar input before the shared schema checks it: each cell in its field, still unchecked. */
+type CollarCsvInput = {
+  siteId: string;
+  code: string;
+  plotId?: string;
+  treatmentId?: string;
+  shape?: string;
+  installedOn?: string;
+  notes?: string;
+} & Partial<Record<(typeof NUMERIC)[number], number>>;
 
 /** A spreadsheet export of a few thousand collars is far below this; anything larger is refused, not truncated. */
 export const MAX_CSV_BYTES = 512 * 1024;
@@ -226,7 +246,7 @@ export interface LookupCodes {
 export interface RowResult {
   row: number;
   cells: Record<string, string>;
-  fields: Record<string, unknown> | null;
+  fields: EntityFields<'collar'> | null;
   errors: CellError[];
 }
 
@@ -241,9 +261,8 @@ export function rowToCollar(
   const errors: CellError[] = [];
   const col = (t: ImportTarget) => mapping[t] ?? IMPORT_TARGETS[t].label;
   const cell = (t: ImportTarget) => (mapping[t] ? (r.cells[mapping[t]!] ?? '') : '');
-  const fields: Record<string, unknown> = { siteId };
-  fields['code'] = cell('code');
   const code = cell('code');
+  const fields: CollarCsvInput = { siteId, code };
   if (code && codes.existingCollarCodes.has(code.toLowerCase()))
     errors.push({ row: r.row, column: col('code'), message: `A collar ${code} exists at this site already` });
   const first = seen.get(code.toLowerCase());
@@ -253,13 +272,13 @@ export function rowToCollar(
   const plot = cell('plot');
   if (plot) {
     const id = codes.plots.get(plot.toLowerCase());
-    if (id) fields['plotId'] = id;
+    if (id) fields.plotId = id;
     else errors.push({ row: r.row, column: col('plot'), message: `No plot "${plot}" at this site` });
   } else errors.push({ row: r.row, column: col('plot'), message: 'Give the plot code' });
   const treatment = cell('treatment');
   if (treatment) {
     const id = codes.collarTreatments.get(treatment.toLowerCase());
-    if (id) fields['treatmentId'] = id;
+    if (id) fields.treatmentId = id;
     else errors.push({ row: r.row, column: col('treatment'), message: `No collar-level treatment "${treatment}" at this site` });
   }
   for (const t of NUMERIC) {
@@ -268,12 +287,12 @@ export function rowToCollar(
     else if (value !== null) fields[t] = value;
   }
   const shape = cell('shape').toLowerCase();
-  if (shape) fields['shape'] = shape;
+  if (shape) fields.shape = shape;
   const installed = cell('installedOn');
   if (installed && !isCalendarDate(installed))
     errors.push({ row: r.row, column: col('installedOn'), message: `"${installed}" is not a date YYYY-MM-DD` });
-  else if (installed) fields['installedOn'] = installed;
-  if (cell('notes')) fields['notes'] = cell('notes');
+  else if (installed) fields.installedOn = installed;
+  if (cell('notes')) fields.notes = cell('notes');
   const parsed = collarFields.safeParse(fields);
   if (!parsed.success) {
     for (const issue of parsed.error.issues) {
@@ -283,7 +302,7 @@ export function rowToCollar(
       errors.push({ row: r.row, column: targetColumn(key, col), message: issue.message });
     }
   }
-  return { row: r.row, cells: r.cells, fields: errors.length ? null : (parsed.data as Record<string, unknown>), errors };
+  return { row: r.row, cells: r.cells, fields: errors.length || !parsed.success ? null : parsed.data, errors };
 }
 
 function isCalendarDate(s: string): boolean {
