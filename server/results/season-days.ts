@@ -3,6 +3,8 @@
  * instant, the instant of local noon (the time a day's interpolated flux stands for) and the local
  * hour of a visit (to tell daytime-only surveys, whose means overstate a daily mean).
  */
+import { wallClock, wallClockAsUtcMs } from '../../shared/time/wall-clock';
+
 const DAY_MS = 86_400_000;
 export const dayNumber = (day: string) => Date.parse(`${day}T00:00:00Z`) / DAY_MS;
 export const dayString = (n: number) => new Date(n * DAY_MS).toISOString().slice(0, 10);
@@ -15,51 +17,21 @@ export function localDayFormatter(timeZone: string): (t: string | number) => str
 }
 
 /** Wall-clock fields of an instant in a zone, read back as if they were UTC (offset = that − instant). */
-function wallClockMs(f: Intl.DateTimeFormat, ms: number): number {
-  const p = Object.fromEntries(f.formatToParts(new Date(ms)).map((x) => [x.type, x.value]));
-  return Date.UTC(
-    Number(p['year']),
-    Number(p['month']) - 1,
-    Number(p['day']),
-    Number(p['hour']) % 24,
-    Number(p['minute']),
-    Number(p['second']),
-  );
-}
+const wallMs = (ms: number, timeZone: string) => wallClockAsUtcMs(wallClock(ms, timeZone));
 
 /** The instant of 12:00 local time on each day, in ms since the epoch (DST-safe: the offset is read at noon itself). */
 export function localNoonFormatter(timeZone: string): (day: string) => number {
-  const f = new Intl.DateTimeFormat('en-US', {
-    timeZone,
-    hourCycle: 'h23',
-    year: 'numeric',
-    month: '2-digit',
-    day: '2-digit',
-    hour: '2-digit',
-    minute: '2-digit',
-    second: '2-digit',
-  });
   return (day) => {
     const guess = Date.parse(`${day}T12:00:00Z`);
-    const first = guess - (wallClockMs(f, guess) - guess);
-    return guess - (wallClockMs(f, first) - first);
+    const first = guess - (wallMs(guess, timeZone) - guess);
+    return guess - (wallMs(first, timeZone) - first);
   };
 }
 
 /** Local hour of day (0–23, fractional) of each instant. */
 export function localHourFormatter(timeZone: string): (iso: string) => number {
-  const f = new Intl.DateTimeFormat('en-US', {
-    timeZone,
-    hourCycle: 'h23',
-    year: 'numeric',
-    month: '2-digit',
-    day: '2-digit',
-    hour: '2-digit',
-    minute: '2-digit',
-    second: '2-digit',
-  });
   return (iso) => {
     const ms = Date.parse(iso);
-    return (((wallClockMs(f, ms) % DAY_MS) + DAY_MS) % DAY_MS) / 3_600_000;
+    return (((wallMs(ms, timeZone) % DAY_MS) + DAY_MS) % DAY_MS) / 3_600_000;
   };
 }

@@ -7,6 +7,7 @@
  * an ambiguous wall time takes the reading that keeps the file in order after the previous row,
  * and an impossible one is reported so the row is never silently moved by an hour.
  */
+import { wallClock, wallClockAsUtcMs, wallClockFormat } from '../time/wall-clock';
 
 export const TIMESTAMP_FORMATS = [
   'YYYY-MM-DD HH:mm:ss',
@@ -20,28 +21,9 @@ export const TIMESTAMP_FORMATS = [
 ] as const;
 export type TimestampFormat = (typeof TIMESTAMP_FORMATS)[number];
 
-const formatters = new Map<string, Intl.DateTimeFormat>();
-function formatter(timeZone: string): Intl.DateTimeFormat {
-  let f = formatters.get(timeZone);
-  if (!f) {
-    f = new Intl.DateTimeFormat('en-US', {
-      timeZone,
-      hourCycle: 'h23',
-      year: 'numeric',
-      month: '2-digit',
-      day: '2-digit',
-      hour: '2-digit',
-      minute: '2-digit',
-      second: '2-digit',
-    });
-    formatters.set(timeZone, f);
-  }
-  return f;
-}
-
 export function isTimeZone(timeZone: string): boolean {
   try {
-    formatter(timeZone);
+    wallClockFormat(timeZone);
     return true;
   } catch {
     return false;
@@ -58,10 +40,7 @@ export function zoneOffsetMs(utcMs: number, timeZone: string): number {
   const hit = offsetCache.get(key);
   if (hit !== undefined) return hit;
   const at = bucket * QUARTER_HOUR_MS;
-  const parts: Record<string, number> = {};
-  for (const p of formatter(timeZone).formatToParts(new Date(at))) if (p.type !== 'literal') parts[p.type] = Number(p.value);
-  const wall = Date.UTC(parts['year'], parts['month'] - 1, parts['day'], parts['hour'] % 24, parts['minute'], parts['second']);
-  const offset = wall - at;
+  const offset = wallClockAsUtcMs(wallClock(at, timeZone)) - at;
   if (offsetCache.size > 50_000) offsetCache.clear();
   offsetCache.set(key, offset);
   return offset;
@@ -87,7 +66,10 @@ export function instantsForWallTime(wallMs: number, timeZone: string): number[] 
 
 export type TimestampRead = { ok: true; ms: number } | { ok: false; message: string };
 
-const FIELD_PATTERNS: Record<string, string> = {
+/** The fields of a timestamp format, as written in TIMESTAMP_FORMATS. */
+type WallToken = 'YYYY' | 'MM' | 'DD' | 'HH' | 'mm' | 'ss';
+
+const FIELD_PATTERNS: Record<WallToken, string> = {
   YYYY: '(\\d{4})',
   MM: '(\\d{1,2})',
   DD: '(\\d{1,2})',
@@ -95,19 +77,20 @@ const FIELD_PATTERNS: Record<string, string> = {
   mm: '(\\d{2})',
   ss: '(\\d{2}(?:[.,]\\d+)?)',
 };
-const compiled = new Map<string, { re: RegExp; order: string[] }>();
+const isWallToken = (tok: string): tok is WallToken => Object.hasOwn(FIELD_PATTERNS, tok);
+const compiled = new Map<string, { re: RegExp; order: WallToken[] }>();
 
-function wallPattern(format: string): { re: RegExp; order: string[] } {
+function wallPattern(format: string): { re: RegExp; order: WallToken[] } {
   let hit = compiled.get(format);
   if (hit) return hit;
-  const order: string[] = [];
+  const order: WallToken[] = [];
   // Many loggers drop the seconds when they are zero ("2026-07-01 00:00"): ":ss" is optional.
   const src = format.replace(/:ss|YYYY|MM|DD|HH|mm|ss|[.*+?^${}()|[\]\\/]/g, (tok) => {
     if (tok === ':ss') {
       order.push('ss');
-      return `(?::${FIELD_PATTERNS['ss']})?`;
+      return `(?::${FIELD_PATTERNS.ss})?`;
     }
-    if (FIELD_PATTERNS[tok]) {
+    if (isWallToken(tok)) {
       order.push(tok);
       return FIELD_PATTERNS[tok];
     }
@@ -123,14 +106,15 @@ export function wallTimeMs(text: string, format: string): number | null {
   const { re, order } = wallPattern(format);
   const m = re.exec(text);
   if (!m) return null;
-  const f: Record<string, number> = {};
+  // A field the format does not hold stays NaN, so the text reads as no date at all.
+  const f: Record<WallToken, number> = { YYYY: NaN, MM: NaN, DD: NaN, HH: NaN, mm: NaN, ss: NaN };
   order.forEach((tok, i) => (f[tok] = Number((m[i + 1] ?? '0').replace(',', '.'))));
-  const sec = Math.floor(f['ss']);
-  const ms = Math.round((f['ss'] - sec) * 1000);
-  const t = Date.UTC(f['YYYY'], f['MM'] - 1, f['DD'], f['HH'], f['mm'], sec, ms);
+  const sec = Math.floor(f.ss);
+  const ms = Math.round((f.ss - sec) * 1000);
+  const t = Date.UTC(f.YYYY, f.MM - 1, f.DD, f.HH, f.mm, sec, ms);
   const d = new Date(t);
   // Date.UTC rolls 31.02 over into March; a logger never means that.
-  if (d.getUTCMonth() !== f['MM'] - 1 || d.getUTCDate() !== f['DD'] || f['HH'] > 23 || f['mm'] > 59 || sec > 59) return null;
+  if (d.getUTCMonth() !== f.MM - 1 || d.getUTCDate() !== f.DD || f.HH > 23 || f.mm > 59 || sec > 59) return null;
   return t;
 }
 

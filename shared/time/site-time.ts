@@ -3,10 +3,10 @@
  * or means "today" goes through here, so all of them use the site's IANA zone (never UTC, never the
  * device's zone). The zone rules come from the runtime's IANA tz database through Intl.
  */
+import { wallClock } from './wall-clock';
 
 // Building an Intl.DateTimeFormat costs far more than formatting with one: keep one per zone.
 const dayFormats = new Map<string, Intl.DateTimeFormat>();
-const timeFormats = new Map<string, Intl.DateTimeFormat>();
 
 function cached(map: Map<string, Intl.DateTimeFormat>, timeZone: string, make: () => Intl.DateTimeFormat): Intl.DateTimeFormat {
   let f = map.get(timeZone);
@@ -94,27 +94,12 @@ export interface SiteTimeParts {
 
 /** The wall-clock parts of an instant in the site's zone. */
 export function siteTimeParts(instant: string | number | Date, timeZone: string, seconds = false): SiteTimeParts {
-  const f = cached(
-    timeFormats,
-    timeZone,
-    () =>
-      new Intl.DateTimeFormat('en-US', {
-        timeZone,
-        hourCycle: 'h23',
-        year: 'numeric',
-        month: '2-digit',
-        day: '2-digit',
-        hour: '2-digit',
-        minute: '2-digit',
-        second: '2-digit',
-      }),
-  );
-  const p: Record<string, string> = {};
-  for (const part of f.formatToParts(new Date(instant))) p[part.type] = part.value;
-  const hh = p['hour'] === '24' ? '00' : p['hour'];
+  const w = wallClock(instant, timeZone);
+  const two = (n: number) => String(n).padStart(2, '0');
+  const hhmm = `${two(w.hour)}:${two(w.minute)}`;
   return {
-    day: `${p['year']}-${p['month']}-${p['day']}`,
-    time: seconds ? `${hh}:${p['minute']}:${p['second']}` : `${hh}:${p['minute']}`,
+    day: `${w.year}-${two(w.month)}-${two(w.day)}`,
+    time: seconds ? `${hhmm}:${two(w.second)}` : hhmm,
     zone: zoneAbbreviation(instant, timeZone),
   };
 }
