@@ -2,6 +2,7 @@ import type { DataSource } from 'typeorm';
 import type { ColumnMetadata } from 'typeorm/metadata/ColumnMetadata';
 import type { EntityName } from '../../shared/model/entities';
 import { ENTITY_DEFS } from '../records/entity-registry';
+import type { WireRecord } from '../records/wire';
 
 /**
  * Wire records for a pull page straight from raw rows: the same objects `toWire()` makes from
@@ -39,13 +40,13 @@ function planFor(ds: DataSource, entity: EntityName): Plan {
 }
 
 /** The current wire form of the given records of one entity (any order; missing ids are left out). */
-export async function wireRecords(ds: DataSource, entity: EntityName, ids: string[]): Promise<Record<string, unknown>[]> {
+export async function wireRecords(ds: DataSource, entity: EntityName, ids: string[]): Promise<WireRecord[]> {
   if (!ids.length) return [];
   const plan = planFor(ds, entity);
   // One array parameter, not one placeholder per id: a 5 000-record page stays one short statement.
   const rows: Record<string, unknown>[] = await ds.query(plan.sql, [ids]);
   const driver = ds.driver;
-  const out: Record<string, unknown>[] = new Array(rows.length);
+  const out: WireRecord[] = new Array(rows.length);
   for (let i = 0; i < rows.length; i++) {
     const row = rows[i];
     const rec: Record<string, unknown> = {};
@@ -53,7 +54,7 @@ export async function wireRecords(ds: DataSource, entity: EntityName, ids: strin
       const v = s.column ? driver.prepareHydratedValue(row[s.column.databaseName], s.column) : s.initial;
       rec[s.key] = v instanceof Date ? v.toISOString() : v;
     }
-    out[i] = rec;
+    out[i] = rec as WireRecord; // every entity's columns include SyncedColumns' meta
   }
   return out;
 }

@@ -4,16 +4,26 @@ import { SYNC_ENTITIES, type EntityName } from '../../shared/model/entities';
 import type { PullAnswer, PullChange } from '../../shared/sync/sync-wire';
 import { AppError } from '../core/errors';
 import { ENTITY_DEFS } from '../records/entity-registry';
+import type { WireRecord } from '../records/wire';
 import { knownSites, recordPull } from './device-service';
 import { wireRecords } from './pull-records';
 
-interface LogRow {
+/** A change_log row as the driver gives it: bigint columns arrive as text. */
+interface LogRowText {
   seq: string;
   entity: EntityName;
   record_id: string;
   rev: string;
   deleted: boolean;
 }
+
+/** A change_log row with its numbers read once, at the query. */
+interface LogRow extends Omit<LogRowText, 'seq' | 'rev'> {
+  seq: number;
+  rev: number;
+}
+
+const readLogRow = (r: LogRowText): LogRow => ({ ...r, seq: Number(r.seq), rev: Number(r.rev) });
 
 const resetAnswer = (message: string) => new AppError(410, message, undefined, { reset: true });
 
@@ -23,7 +33,7 @@ const resetAnswer = (message: string) => new AppError(410, message, undefined, {
  * A record changed several times is sent once, at its current state.
  */
 export async function pullChanges(ds: DataSource, user: SessionUser, deviceId: string, cursor: number, limit: number): Promise<PullAnswer> {
-  const [{ min_seq }] = await ds.query(`SELECT min_seq FROM sync_horizon`);
+  const [{ min_seq }]: { min_seq: string }[] = await ds.query(`SELECT min_seq FROM sync_horizon`);
   if (cursor > 0 && cursor < Number(min_seq)) {
     throw resetAnswer(
       'This device has been away longer than the server keeps deletions: download everything again (unsent work stays on the device).',
@@ -39,16 +49,17 @@ export async function pullChanges(ds: DataSource, user: SessionUser, deviceId: s
   // The log's end before the page: every seq up to it is committed (seqs are handed out in commit
   // order), so the page below sees all of them. Read after the page, it could name a row committed
   // in between that the page never saw, and the cursor would pass over it for good.
-  const [{ max }] = await ds.query(`SELECT coalesce(max(seq), 0) AS max FROM change_log`);
-  const rows: LogRow[] = await ds.query(
+  const [{ max }]: { max: string }[] = await ds.query(`SELECT coalesce(max(seq), 0) AS max FROM change_log`);
+  const logRows: LogRowText[] = await ds.query(
     `SELECT seq, entity, record_id, rev, deleted FROM change_log
       WHERE seq > $1 AND seq <= $5 AND site_id = ANY($2::uuid[]) AND entity = ANY($3::text[]) ORDER BY seq LIMIT $4`,
     [cursor, readable, SYNC_ENTITIES, limit + 1, max],
   );
+  const rows = logRows.map(readLogRow);
   const more = rows.length > limit;
   const page = rows.slice(0, limit);
   const changes = [...removals, ...(await currentStates(ds, page))];
-  let next = page.length ? Number(page[page.length - 1].seq) : cursor;
+  let next = page.length ? page[page.length - 1].seq : cursor;
   if (!more) {
     // Every readable change up to the log's end read above is in this page; rows of other sites can be passed over.
     next = Math.max(next, Number(max));
@@ -71,18 +82,18 @@ async function currentStates(ds: DataSource, page: LogRow[]): Promise<PullChange
     if (ids) ids.push(r.record_id);
     else byEntity.set(r.entity, [r.record_id]);
   }
-  const current = new Map<string, Record<string, unknown>>();
+  const current = new Map<string, WireRecord>();
   for (const [entity, ids] of byEntity) {
-    for (const rec of await wireRecords(ds, entity, ids)) current.set(`${entity}:${rec['id'] as string}`, rec);
+    for (const rec of await wireRecords(ds, entity, ids)) current.set(`${entity}:${rec.id}`, rec);
   }
   const out: PullChange[] = [];
   for (const [key, r] of last) {
     const rec = current.get(key);
-    if (!rec || Number(rec['rev']) > Number(r.rev)) continue;
+    if (!rec || rec.rev > r.rev) continue;
     out.push(
-      rec['deleted']
-        ? { seq: Number(r.seq), entity: r.entity, id: r.record_id, rev: Number(rec['rev']), deleted: true, record: null, reason: 'deleted' }
-        : { seq: Number(r.seq), entity: r.entity, id: r.record_id, rev: Number(rec['rev']), deleted: false, record: rec },
+      rec.deleted
+        ? { seq: r.seq, entity: r.entity, id: r.record_id, rev: rec.rev, deleted: true, record: null, reason: 'deleted' }
+        : { seq: r.seq, entity: r.entity, id: r.record_id, rev: rec.rev, deleted: false, record: rec },
     );
   }
   return out.sort((a, b) => a.seq - b.seq);
