@@ -2,6 +2,7 @@ import { randomUUID } from 'node:crypto';
 import type { DataSource, EntityManager } from 'typeorm';
 import { In } from 'typeorm';
 import { z } from 'zod';
+import type { EntityFields } from '../../shared/model/entities';
 import { chamberProfileFields } from '../../shared/model/site-layout';
 import { ClosureEntity } from '../closures/closure.entity';
 import { computeClosureResults } from '../closures/closure-results';
@@ -27,13 +28,19 @@ export const newVersionSchema = chamberProfileFields
   .strict();
 export const previewSchema = z.object({ validFrom: chamberProfileFields.shape.validFrom });
 
+/** What refuseSameDay compares, read from a validated profile write. */
+const sameDayKey = chamberProfileFields.pick({ siteId: true, name: true, validFrom: true });
+
 /** Editing these on a profile that closures use would silently change stored fluxes. */
 const GEOMETRY = ['validFrom', 'chamberVolumeCm3', 'loopVolumeCm3', 'footprintAreaCm2'];
 
 type Db = DataSource | EntityManager;
 
-async function loadProfile(db: Db, id: string): Promise<Record<string, unknown>> {
-  const [p] = await db.query(
+/** A stored chamber profile version as loadProfile selects it (rev is bigint: text from the driver). */
+type ProfileRow = EntityFields<'chamberProfile'> & { id: string; rev: string };
+
+async function loadProfile(db: Db, id: string): Promise<ProfileRow> {
+  const [p]: ProfileRow[] = await db.query(
     `SELECT id, site_id AS "siteId", name, to_char(valid_from, 'YYYY-MM-DD') AS "validFrom", chamber_volume_cm3 AS "chamberVolumeCm3",
             loop_volume_cm3 AS "loopVolumeCm3", settle_s AS "settleS", closure_length_s AS "closureLengthS",
             footprint_area_cm2 AS "footprintAreaCm2", rev FROM chamber_profile WHERE id = $1 AND NOT deleted`,
@@ -45,7 +52,7 @@ async function loadProfile(db: Db, id: string): Promise<Record<string, unknown>>
 
 /** Closures whose stored flux was computed with this profile version. */
 export async function closuresUsing(db: Db, profileId: string): Promise<number> {
-  const [r] = await db.query(
+  const [r]: { n: number }[] = await db.query(
     `SELECT count(*)::int AS n FROM closure WHERE NOT deleted AND (profile_id = $1 OR results->>'profileId' = $1::text)`,
     [profileId],
   );
@@ -54,7 +61,7 @@ export async function closuresUsing(db: Db, profileId: string): Promise<number> 
 
 export async function profileUsage(ds: DataSource, actor: Actor, profileId: string) {
   const p = await loadProfile(ds, profileId);
-  await siteForActor(ds, actor, String(p['siteId']));
+  await siteForActor(ds, actor, p.siteId);
   return { profileId, closures: await closuresUsing(ds, profileId) };
 }
 
@@ -91,7 +98,7 @@ export async function recomputePreview(ds: DataSource, actor: Actor, siteId: str
 
 /** Two versions of one chamber cannot start on the same day; two chambers of a site may (several systems run at once). */
 async function refuseSameDay(db: Db, siteId: string, name: string, validFrom: string, exceptId: string | null) {
-  const [dup] = await db.query(
+  const [dup]: { name: string }[] = await db.query(
     `SELECT name FROM chamber_profile WHERE site_id = $1 AND name = $4 AND NOT deleted AND valid_from = $2::date AND ($3::uuid IS NULL OR id <> $3)`,
     [siteId, validFrom, exceptId, name],
   );
@@ -111,7 +118,7 @@ async function recomputeClosures(em: EntityManager, actor: Actor, ids: string[],
     const derived = await computeClosureResults(em, current);
     const changed = Object.keys(derived).filter((k) => !sameValue(derived[k], current[k]));
     if (!changed.length) continue;
-    const rev = Number(current['rev']) + 1;
+    const rev = row.rev + 1;
     await repo.update({ id: row.id }, { ...derived, rev, updatedAt: new Date(), updatedBy: actor.id } as never);
     changes.add({
       entity: 'closure',
@@ -131,10 +138,10 @@ async function recomputeClosures(em: EntityManager, actor: Actor, ids: string[],
 export async function createProfileVersion(ds: DataSource, actor: Actor, profileId: string, body: z.infer<typeof newVersionSchema>) {
   return ds.transaction(async (em) => {
     const base = await loadProfile(em, profileId);
-    const siteId = String(base['siteId']);
+    const siteId = base.siteId;
     await siteForActor(em, actor, siteId);
     await em.query(`SELECT id FROM site WHERE id = $1 FOR UPDATE`, [siteId]);
-    await refuseSameDay(em, siteId, String(base['name']), body.validFrom, null);
+    await refuseSameDay(em, siteId, base.name, body.validFrom, null);
     const { id: _id, rev: _rev, ...copy } = base;
     const changes = new ChangeBuffer();
     const id = randomUUID();
@@ -164,7 +171,8 @@ export async function guardProfileWrite(w: PendingWrite): Promise<WriteOutcome |
   if (!touched.length) return null;
   try {
     if (w.action === 'update' && w.changed.includes('validFrom')) {
-      await refuseSameDay(w.em, String(w.next['siteId']), String(w.next['name']), String(w.next['validFrom']), w.id);
+      const next = sameDayKey.parse(w.next);
+      await refuseSameDay(w.em, next.siteId, next.name, next.validFrom, w.id);
     }
   } catch (err) {
     if (err instanceof AppError) return rejected(err.status, err.message, err.fields);
