@@ -2,6 +2,7 @@ import type { EntityTarget, ObjectLiteral } from 'typeorm';
 import type { Role } from '../../shared/auth/roles';
 import { CLOSURE_FIT_DATA_FIELDS, CLOSURE_REVIEW_FIELDS, CLOSURE_SYSTEM_FIELDS } from '../../shared/model/field-records';
 import type { EntityName } from '../../shared/model/entities';
+import { validatedAs } from './wire';
 import { CampaignEntity } from '../campaigns/campaign.entity';
 import { RouteEntity } from '../campaigns/route.entity';
 import { VisitEntity } from '../campaigns/visit.entity';
@@ -79,7 +80,7 @@ function collarFieldRule(roles: readonly Role[], action: WriteAction, changed: r
   const allowed = ['notes', 'status', 'statusReason'];
   const bad = changed.filter((f) => !allowed.includes(f));
   if (bad.length) return `Only a lead may change ${bad.join(', ')} of a collar`;
-  if (changed.includes('status') && next['status'] !== 'damaged') return 'Crew may only report a collar damaged';
+  if (changed.includes('status') && validatedAs('collar', next).status !== 'damaged') return 'Crew may only report a collar damaged';
   return null;
 }
 
@@ -118,7 +119,7 @@ function closureFieldRule(roles: readonly Role[], action: WriteAction, changed: 
  * point); the review history records who changed which field (closures/closure-history.ts).
  */
 export function reviewResetOnRawChange(current: Record<string, unknown>, changed: readonly string[]): Record<string, unknown> {
-  if (current['reviewState'] === 'unreviewed') return {};
+  if (validatedAs('closure', current).reviewState === 'unreviewed') return {};
   const raw = changed.filter((f) => !(CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f));
   return raw.length ? { reviewState: 'unreviewed', reviewReason: null } : {};
 }

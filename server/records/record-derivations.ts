@@ -4,6 +4,7 @@ import { collarAreaCm2, offsetStats, probeVwcPct, type MoistureCalibration } fro
 import type { EntityName } from '../../shared/model/entities';
 import { computeClosureResults } from '../closures/closure-results';
 import { closureWarnings } from '../closures/closure-warnings';
+import { validatedAs } from './wire';
 
 type Rec = Record<string, unknown>;
 
@@ -11,19 +12,23 @@ type Rec = Record<string, unknown>;
 export async function deriveFields(em: EntityManager, entity: EntityName, next: Rec, _current: Rec | null): Promise<Rec> {
   switch (entity) {
     case 'collar':
-      return { areaCm2: collarAreaCm2(next as never) };
+      return { areaCm2: collarAreaCm2(validatedAs('collar', next)) };
     case 'offsetSet':
-      return offsetStats(next['readingsCm'] as number[]);
+      return offsetStats(validatedAs('offsetSet', next).readingsCm);
     case 'probeReading': {
+      const reading = validatedAs('probeReading', next);
       const rows: { moisture_calibration: MoistureCalibration }[] = await em.query(`SELECT moisture_calibration FROM site WHERE id = $1`, [
-        next['siteId'],
+        reading.siteId,
       ]);
-      return { vwcPct: probeVwcPct(next as never, rows[0]?.moisture_calibration ?? { kind: 'topp' }) };
+      return { vwcPct: probeVwcPct(reading, rows[0]?.moisture_calibration ?? { kind: 'topp' }) };
     }
     case 'closure':
       return computeClosureResults(em, next);
-    case 'analyzerCheck': // the schema computed the drifts from the readings; an edit stores them too
-      return next['kind'] === 'calibration' ? { zeroDriftPpm: next['zeroDriftPpm'] ?? null, driftPpm: next['driftPpm'] ?? null } : {};
+    case 'analyzerCheck': {
+      // The schema computed the drifts from the readings; an edit stores them too.
+      const check = validatedAs('analyzerCheck', next);
+      return check.kind === 'calibration' ? { zeroDriftPpm: check.zeroDriftPpm, driftPpm: check.driftPpm } : {};
+    }
     default:
       return {};
   }
@@ -32,7 +37,7 @@ export async function deriveFields(em: EntityManager, entity: EntityName, next: 
 /** Offsets of 0 or above 10 cm are stored but flagged: the chamber may not seal (common practice). */
 function offsetWarnings(rec: Rec): Warning[] {
   const out: Warning[] = [];
-  (rec['readingsCm'] as number[]).forEach((v, i) => {
+  validatedAs('offsetSet', rec).readingsCm.forEach((v, i) => {
     if (v === 0) out.push({ path: `readingsCm.${i}`, message: 'Offset 0 cm: the chamber may not seal on the collar rim' });
     else if (v > 10)
       out.push({ path: `readingsCm.${i}`, message: `Offset ${v} cm is above 10 cm: check the reading; the chamber may not seal` });

@@ -5,7 +5,7 @@ import { ATTACHMENT_OWNERS } from '../../shared/model/field-records';
 import { notFound } from '../core/errors';
 import { parse } from '../core/validate';
 import type { EntityDef } from './entity-registry';
-import { toWire } from './wire';
+import { toWire, toWireRecord } from './wire';
 import { noRecordMessage } from './write-outcome';
 
 /** Query parameters every list route understands; a filter applies only where the entity has that field. */
@@ -88,7 +88,8 @@ export async function listRecords(ds: DataSource, d: EntityDef, user: SessionUse
 export async function getRecord(ds: DataSource, d: EntityDef, user: SessionUser, id: string) {
   parse(z.string().uuid('Ids are UUIDs'), id);
   const row = await ds.getRepository(d.target).findOneBy({ id });
-  const siteId = row ? (d.name === 'site' ? row['id'] : row['siteId']) : null;
-  if (!row || !readsSite(user, siteId)) throw notFound(noRecordMessage(d.name, id));
-  return toWire(row);
+  const record = row ? toWireRecord(row) : null;
+  const siteId = record && (d.name === 'site' ? record.id : record.siteId);
+  if (!record || !siteId || !readsSite(user, siteId)) throw notFound(noRecordMessage(d.name, id));
+  return record;
 }

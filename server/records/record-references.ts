@@ -144,16 +144,17 @@ async function disagreements(
   for (const a of d.agreements ?? []) {
     const parentId = next[a.ref];
     if (typeof parentId !== 'string' || ![a.ref, ...a.same].some((f) => changed.includes(f))) continue;
-    const [parent]: Record<string, unknown>[] = await em.query(
+    // The agreeing fields are ids (uuid columns): text or null.
+    const [parent]: Record<string, string | null>[] = await em.query(
       `SELECT ${a.same.map((f) => `${column(f)} AS "${f}"`).join(', ')} FROM ${ENTITY_DEFS[a.target].table} WHERE id = $1`,
       [parentId],
     );
     if (!parent) continue; // a missing parent is the reference check's to report
     for (const f of a.same) {
-      if (String(parent[f]) !== String(next[f])) {
+      if (parent[f] !== next[f]) {
         out.push({
           path: f,
-          message: `The ${a.target} (${a.ref}) has ${f} ${String(parent[f])}: a ${d.name} carries its ${a.target}'s ${f}`,
+          message: `The ${a.target} (${a.ref}) has ${f} ${parent[f]}: a ${d.name} carries its ${a.target}'s ${f}`,
         });
       }
     }
@@ -161,17 +162,20 @@ async function disagreements(
   return out;
 }
 
+/** A field record of an entity named at run time, as far as the campaign lock reads it. */
+type CampaignScoped = { campaignId?: string | null; visitId?: unknown } & Record<string, unknown>;
+
 /**
  * Field records under a locked campaign are refused until the lead unlocks it. The campaign is the
  * record's own and, for a record under a visit, the visit's: a reading never slips into a locked
  * campaign by naming another one.
  */
-export async function lockedCampaignMessage(em: EntityManager, d: EntityDef, rec: Record<string, unknown>): Promise<WriteOutcome | null> {
-  if (!d.underCampaign || !rec['campaignId']) return null;
-  const visitId = d.name !== 'visit' && typeof rec['visitId'] === 'string' ? rec['visitId'] : null;
+export async function lockedCampaignMessage(em: EntityManager, d: EntityDef, rec: CampaignScoped): Promise<WriteOutcome | null> {
+  if (!d.underCampaign || !rec.campaignId) return null;
+  const visitId = d.name !== 'visit' && typeof rec.visitId === 'string' ? rec.visitId : null;
   const rows: { locked: boolean; name: string }[] = await em.query(
     `SELECT locked, name FROM campaign WHERE id = $1 OR id = (SELECT campaign_id FROM visit WHERE id = $2::uuid) ORDER BY locked DESC LIMIT 1`,
-    [rec['campaignId'], visitId],
+    [rec.campaignId, visitId],
   );
   if (rows[0]?.locked) {
     return rejected(423, `Campaign "${rows[0].name}" is locked: field records cannot change until a lead unlocks it`);

@@ -36,6 +36,9 @@ export function answer(res: Response, outcome: WriteOutcome, created = false) {
   return outcome.warnings ? { record: outcome.record, warnings: outcome.warnings } : { record: outcome.record };
 }
 
+/** A create may name its id (a device-made UUID); the rest of the body is the record's fields. */
+const createId = z.looseObject({ id: z.string().uuid('id must be a UUID').optional() });
+
 /** CRUD routes for every record type of the registry: list + filter, read, create, edit with rev, tombstone. */
 export function registerRecordRoutes(r: RouteRegistry, ds: DataSource, only?: EntityName[]): void {
   for (const d of Object.values(ENTITY_DEFS)) {
@@ -45,7 +48,7 @@ export function registerRecordRoutes(r: RouteRegistry, ds: DataSource, only?: En
     r.add('get', `${base}/:id`, ALL_ROLES, async (req) => ({ record: await getRecord(ds, d, req.user!, String(req.params['id'])) }));
     r.add('post', base, d.rules.create, async (req, res) => {
       const body = (req.body ?? {}) as Record<string, unknown>;
-      const id = body['id'] === undefined ? randomUUID() : parse(z.string().uuid('id must be a UUID'), body['id']);
+      const { id = randomUUID() } = parse(createId, body);
       return answer(res, await writeOne(ds, req, { entity: d.name, id, baseRev: null, op: 'upsert', fields: body }), true);
     });
     r.add('patch', `${base}/:id`, writeRoles(d), async (req, res) => {

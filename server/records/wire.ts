@@ -1,5 +1,6 @@
 import type { ObjectLiteral } from 'typeorm';
 import type { RecordMeta } from '../../shared/model/common';
+import type { EntityFields, EntityName } from '../../shared/model/entities';
 
 /**
  * A stored record of an entity named at run time (the writer, the generic routes, the pull): its
@@ -10,6 +11,15 @@ export type WireRecord = RecordMeta & SiteScoped & Record<string, unknown>;
 
 /** Fields of a record of an entity named at run time, before its meta: `siteId` typed (a site has none). */
 export type SiteScoped = { siteId?: string } & Record<string, unknown>;
+
+/**
+ * A record of an entity named at run time that passed its entity's schema (the writer validates every
+ * record it stores, record-writer.ts validate()), read as that entity's fields: the one place generic
+ * write code turns a field bag into a typed record.
+ */
+export function validatedAs<E extends EntityName>(_entity: E, rec: Record<string, unknown>): EntityFields<E> {
+  return rec as EntityFields<E>;
+}
 
 /** A row of a registered entity as a wire record: every entity extends SyncedColumns, so the meta is there. */
 export function toWireRecord(row: ObjectLiteral): WireRecord {
