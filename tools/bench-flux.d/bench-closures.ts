@@ -4,18 +4,10 @@
  * noisy near-zero flux; water vapour rising slowly during the closure.
  */
 import { gaussian, seededRandom, syntheticClosure } from '../../shared/flux/test-closures';
+import type { BatchRun } from '../flux-batch/batch-wire';
 
-export interface WireRun {
-  id: string;
-  t_s: number[];
-  co2_ppm: number[];
-  h2o_mmol_mol: number[];
-  pressure_kpa: number;
-  temp_c: number;
-  volume_cm3: number;
-  area_cm2: number;
-  settle_s: number;
-}
+/** A bench closure as the batch CLI reads it. */
+export type WireRun = BatchRun & { id: string };
 
 export const POINTS = 150;
 export const SETTLE_S = 20;

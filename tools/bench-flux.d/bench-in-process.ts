@@ -16,7 +16,7 @@ function main(): void {
   if (writeAt >= 0) writeFileSync(args[writeAt + 1], JSON.stringify({ runs }));
   const ndAt = args.indexOf('--write-ndjson');
   if (ndAt >= 0) writeFileSync(args[ndAt + 1], runs.map((r) => JSON.stringify(r)).join('\n') + '\n');
-  const inputs: ClosureInput[] = runs.map((r) => runToInput(r as unknown as Record<string, unknown>));
+  const inputs: ClosureInput[] = runs.map(runToInput);
 
   let selectedExp = 0;
   let expNull = 0;

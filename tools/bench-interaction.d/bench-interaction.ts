@@ -62,6 +62,7 @@ type Step = { screen: string; what: string; act: () => Promise<void>; measured?:
 
 async function measure(page: Page, act: () => Promise<void>): Promise<Entry[] | string> {
   await page.evaluate(() => {
+    // A page global this bench installs: not in TypeScript's Window.
     (window as unknown as { fwEvents: Entry[] }).fwEvents = [];
   });
   try {
@@ -72,6 +73,7 @@ async function measure(page: Page, act: () => Promise<void>): Promise<Entry[] | 
       .slice(0, 90)})`;
   }
   await page.waitForTimeout(300); // the observer reports after the next paint
+  // A page global this bench installs: not in TypeScript's Window.
   return page.evaluate(() => (window as unknown as { fwEvents: Entry[] }).fwEvents);
 }
 
@@ -185,6 +187,7 @@ async function main(): Promise<void> {
     await addCollarsToRoutes(url, EXTRA);
     await page.setViewportSize({ width: 390, height: 844 });
     await context.addInitScript(() => {
+      // A page global this bench installs: not in TypeScript's Window.
       const w = window as unknown as { fwEvents: Entry[] };
       w.fwEvents = [];
       new PerformanceObserver((list) => {

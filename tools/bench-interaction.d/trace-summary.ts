@@ -88,6 +88,7 @@ export class StepTrace {
   /** Stops both recordings, writes them as `<name>.json` / `<name>.cpuprofile` and returns the summary lines. */
   async stop(name: string): Promise<string[]> {
     const collect = (e: { value: object[] }) => {
+      // CDP's typings give trace chunks as plain objects; they are Chrome trace events.
       this.chunks.push(...(e.value as unknown as TraceEvent[]));
     };
     this.cdp.on('Tracing.dataCollected', collect);
@@ -95,6 +96,7 @@ export class StepTrace {
     await this.cdp.send('Tracing.end');
     await done;
     this.cdp.off('Tracing.dataCollected', collect);
+    // CDP's Profiler.Profile, read as the fields this summary uses.
     const { profile } = (await this.cdp.send('Profiler.stop')) as unknown as { profile: CpuProfile };
     writeFileSync(path.join(this.dir, `${name}.json`), JSON.stringify({ traceEvents: this.chunks }));
     writeFileSync(path.join(this.dir, `${name}.cpuprofile`), JSON.stringify(profile));

@@ -64,6 +64,7 @@ async function main(): Promise<void> {
     const page = browser.page;
     await page.goto(`http://127.0.0.1:${port}/`);
     await page.evaluate(() => {
+      // Page globals the bench bundle installs: not in TypeScript's Window.
       const w = window as unknown as { longTasks: number[] };
       w.longTasks = [];
       new PerformanceObserver((l) => {
@@ -74,9 +75,11 @@ async function main(): Promise<void> {
     const run = async (rate: number) => {
       await cdp.send('Emulation.setCPUThrottlingRate', { rate });
       await page.evaluate(() => {
+        // Page globals the bench bundle installs: not in TypeScript's Window.
         (window as unknown as { longTasks: number[] }).longTasks = [];
       });
       return page.evaluate(async (t) => {
+        // Page globals the bench bundle installs: not in TypeScript's Window.
         const w = window as unknown as {
           runLoggerPipeline: (s: string, t: string) => Promise<Stage & { progress: number[] }>;
           longTasks: number[];
@@ -92,6 +95,7 @@ async function main(): Promise<void> {
       await cdp.send('Emulation.setCPUThrottlingRate', { rate });
       return page.evaluate((t) => {
         const t0 = performance.now();
+        // Page globals the bench bundle installs: not in TypeScript's Window.
         const r = (window as unknown as { runInThread: (text: string) => Stage }).runInThread(t);
         return { ...r, ms: performance.now() - t0 };
       }, text);

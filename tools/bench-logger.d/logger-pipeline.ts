@@ -73,10 +73,12 @@ if (typeof window === 'undefined') inWorker();
 else {
   // CDP's CPU throttling slows the page's main thread, not its workers: the same work in-thread
   // under throttling is the slow-phone compute time.
+  // Globals this bundle installs for the bench page: not in TypeScript's Window.
   (window as unknown as { runInThread: (text: string) => Done }).runInThread = (text) => {
     let n = 0;
     return { ...pipeline(text, () => n++), progressMessages: n };
   };
+  // Globals this bundle installs for the bench page: not in TypeScript's Window.
   (window as unknown as { runLoggerPipeline: (src: string, text: string) => Promise<Done & { progress: number[] }> }).runLoggerPipeline = (
     src,
     text,

@@ -114,7 +114,7 @@ async function main(): Promise<void> {
       }
     })();
     const t0 = Date.now();
-    const user = (await signInAs(browser.page, server.baseUrl, 'crew')) as unknown as { id: string };
+    const user = await signInAs(browser.page, server.baseUrl, 'crew');
     // The indicator carries the time of the last complete sync once the first one is done.
     await browser.page.locator('[data-testid="sync-indicator"][data-synced-at]').waitFor({ timeout: 300_000 });
     const wall = (Date.now() - t0) / 1000;
@@ -200,6 +200,7 @@ async function main(): Promise<void> {
         cursor = a.cursor;
         if (!a.more) break;
       }
+      // Page globals the bench installs (dexie-writer.ts, the page above): not in TypeScript's globalThis.
       (globalThis as unknown as { benchRecords: unknown[] }).benchRecords = all;
       return all.length;
     });
@@ -207,6 +208,7 @@ async function main(): Promise<void> {
       `Dexie side alone (${held} collar records in memory, bulkPut of a page + the cursor, the app's indexes; fresh database each run):`,
     );
     const parse = await browser.page.evaluate(() => {
+      // Page globals the bench installs (dexie-writer.ts, the page above): not in TypeScript's globalThis.
       const g = globalThis as unknown as {
         benchRecords: { id: string }[];
         benchParseCost(r: { id: string }[]): { checkMs: number; parseMs: number; records: number };
@@ -220,6 +222,7 @@ async function main(): Promise<void> {
     );
     console.log('  page size | pages a transaction | variant            | seconds | records/s');
     const rawFirst = await browser.page.evaluate(() => {
+      // Page globals the bench installs (dexie-writer.ts, the page above): not in TypeScript's globalThis.
       const g = globalThis as unknown as {
         benchRecords: { id: string }[];
         benchRawWrite(r: { id: string }[], p: number): Promise<{ ms: number; records: number }>;
@@ -232,6 +235,7 @@ async function main(): Promise<void> {
     for (const [pageSize, perTxn, opts] of DEXIE_RUNS) {
       const r = await browser.page.evaluate(
         ([p, n, o]) => {
+          // Page globals the bench installs (dexie-writer.ts, the page above): not in TypeScript's globalThis.
           const g = globalThis as unknown as {
             benchRecords: { id: string }[];
             benchDexieWrite(r: { id: string }[], p: number, n: number, o: object): Promise<{ ms: number; records: number }>;
@@ -247,6 +251,7 @@ async function main(): Promise<void> {
     }
     // Reference: IndexedDB's own put() without Dexie, pages of 5 000, first and last to bracket the drift.
     const raw = await browser.page.evaluate(() => {
+      // Page globals the bench installs (dexie-writer.ts, the page above): not in TypeScript's globalThis.
       const g = globalThis as unknown as {
         benchRecords: { id: string }[];
         benchRawWrite(r: { id: string }[], p: number): Promise<{ ms: number; records: number }>;

@@ -36,29 +36,53 @@ export interface WireResult {
   min_detectable_flux_umol_m2_s: number | null;
 }
 
-type Run = Record<string, unknown>;
+/**
+ * One run as the batch reads it (snake_case JSON). The CLI passes values through unchecked: the
+ * engine validates every one and answers a bad value with its own error, so a run is read as this
+ * shape once, in processRun, and mapped field by field.
+ */
+export interface BatchRun {
+  id?: unknown;
+  t_s: ClosureInput['tS'];
+  co2_ppm: ClosureInput['co2Ppm'];
+  co2_is_dry?: unknown;
+  h2o_mmol_mol?: ClosureInput['h2oMmolMol'];
+  pressure_kpa: ClosureInput['pressureKpa'];
+  temp_c: ClosureInput['tempC'];
+  volume_cm3: number;
+  area_cm2: number;
+  settle_s: number;
+  window_end_s?: unknown;
+  ambient_ppm?: unknown;
+  ambient_margin_ppm?: unknown;
+  precision_ppm?: unknown;
+  model?: unknown;
+  slope_at?: ClosureInput['slopeAt'] | null;
+  pressure_is_default?: unknown;
+  offset_after?: unknown;
+}
 
 const optionalNumber = (v: unknown): number | undefined => (typeof v === 'number' ? v : undefined);
 
 /** Maps one wire run to the engine input. Values are passed through; the engine validates them. */
-export function runToInput(run: Run): ClosureInput {
+export function runToInput(run: BatchRun): ClosureInput {
   const model = run.model;
   return {
-    tS: run.t_s as ClosureInput['tS'],
-    co2Ppm: run.co2_ppm as ClosureInput['co2Ppm'],
+    tS: run.t_s,
+    co2Ppm: run.co2_ppm,
     co2IsDry: run.co2_is_dry === true,
-    h2oMmolMol: run.h2o_mmol_mol as ClosureInput['h2oMmolMol'],
-    pressureKpa: run.pressure_kpa as ClosureInput['pressureKpa'],
-    tempC: run.temp_c as ClosureInput['tempC'],
-    volumeCm3: run.volume_cm3 as number,
-    areaCm2: run.area_cm2 as number,
-    settleS: run.settle_s as number,
+    h2oMmolMol: run.h2o_mmol_mol,
+    pressureKpa: run.pressure_kpa,
+    tempC: run.temp_c,
+    volumeCm3: run.volume_cm3,
+    areaCm2: run.area_cm2,
+    settleS: run.settle_s,
     windowEndS: optionalNumber(run.window_end_s),
     ambientPpm: optionalNumber(run.ambient_ppm),
     ambientMarginPpm: optionalNumber(run.ambient_margin_ppm),
     precisionPpm: optionalNumber(run.precision_ppm),
     model: model === 'linear' || model === 'exponential' || model === 'quadratic' || model === 'auto' ? model : undefined,
-    slopeAt: run.slope_at == null ? undefined : (run.slope_at as ClosureInput['slopeAt']),
+    slopeAt: run.slope_at ?? undefined,
     pressureIsDefault: run.pressure_is_default === true,
     offsetAfter: run.offset_after === true,
   };
@@ -105,7 +129,7 @@ export function processRun(run: unknown, full = false): WireResult {
   if (!run || typeof run !== 'object' || Array.isArray(run)) {
     return resultToWire(null, invalidFit('run is not an object'), full);
   }
-  const r = run as Run;
+  const r = run as BatchRun; // unchecked JSON: the engine validates each value (see BatchRun)
   let result: ClosureFitResult;
   try {
     result = fitClosure(runToInput(r));
