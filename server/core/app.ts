@@ -72,6 +72,7 @@ export function createApp(ds: DataSource, config: ServerConfig): AppHandle {
   for (const p of LARGE_BODY_PATHS) app.use(p, express.json({ limit: LARGE_BODY_LIMIT }));
   app.use('/api', express.json({ limit: BODY_LIMIT }));
 
+  // @types/passport types an Authenticator instance apart from the PassportStatic its middleware helpers expect.
   const passport = createPassport(ds) as unknown as PassportStatic;
   app.use('/api', sessionMiddleware(ds, config.sessionSecret));
   app.use('/api', passport.session());

@@ -5,6 +5,7 @@ import { defineJob, type JobContext } from '../jobs/job-registry';
 import { buildDigest } from './digest-content';
 import { digestMail } from './digest-mail';
 import type { Mailer } from './mailer';
+import { z } from 'zod';
 
 export const DIGEST_JOB = 'daily-digest';
 
@@ -77,6 +78,9 @@ export async function runDigest(ds: DataSource, mailer: Mailer, runId: string, c
   return { sent, recipients: people.length, due, anomalies: digest.anomalies.total, silentDevices: digest.silentDevices.length };
 }
 
+/** What requestDigest enqueues: the run whose digest to send. */
+const digestJobData = z.object({ runId: z.string() });
+
 export function defineDigestJob(mailer: Mailer): void {
-  defineJob({ name: DIGEST_JOB, retryLimit: 3, handler: (data, ctx) => runDigest(ctx.ds, mailer, String(data['runId']), ctx) });
+  defineJob({ name: DIGEST_JOB, retryLimit: 3, handler: (data, ctx) => runDigest(ctx.ds, mailer, digestJobData.parse(data).runId, ctx) });
 }

@@ -246,6 +246,7 @@ export function defineExportJob(): void {
   defineJob({
     name: EXPORT_JOB,
     retryLimit: 1,
+    // The queue hands back, as JSON, the ExportRequest that POST /api/results/exports checked and enqueued.
     handler: (data, ctx) => runResultsExport(ctx.ds, data as unknown as ExportRequest, { jobId: ctx.jobId, progress: ctx.progress }),
   });
 }
