@@ -6,7 +6,6 @@ import { browserSuite } from './support/suite';
 jest.setTimeout(300_000);
 
 const suite = browserSuite();
-
 const { server } = suite;
 
 const queueAnswer = (page: Page) => page.waitForResponse((r) => r.url().includes('/api/bench/queue') && r.status() === 200);

@@ -9,7 +9,6 @@ import { browserSuite } from './support/suite';
 jest.setTimeout(240_000);
 
 const suite = browserSuite();
-
 const { server } = suite;
 
 async function noSeriousProblems(page: Page, where: string) {

@@ -11,7 +11,6 @@ jest.setTimeout(300_000);
 const SITE = '0f3c2a9e-5b1d-4c7e-9a2f-6d8e1b4c7a10'; // the demo site
 
 const suite = browserSuite();
-
 const { server } = suite;
 /** The lab's browser: the second test goes on where the first left the Bench. */
 let lab: Browser;

@@ -29,7 +29,6 @@ const TAPS = [
 const AMBIENT_PPM = 421.5;
 
 const suite = browserSuite();
-
 const { server } = suite;
 
 const query = queryE2eDatabase;

@@ -17,7 +17,6 @@ import {
 jest.setTimeout(240_000);
 
 const suite = browserSuite();
-
 const { server } = suite;
 const open = () => suite.open();
 

@@ -8,7 +8,6 @@ import { PHONE, choose } from './support/walk-actions';
 jest.setTimeout(600_000);
 
 const suite = browserSuite();
-
 const { server } = suite;
 
 /** This test's readings: the probe id typed here marks them. */

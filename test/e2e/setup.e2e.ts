@@ -13,7 +13,6 @@ const CSV = path.resolve(__dirname, '../fixtures/setup/collars-40.csv');
 const CREW_NAME = 'Rowan Ashby'; // the demo crew user
 
 const suite = browserSuite();
-
 const { server } = suite;
 
 async function addRow(page: Page, table: string, values: Record<string, string>, selects: Record<string, string> = {}) {

@@ -6,7 +6,6 @@ import { browserSuite } from './support/suite';
 jest.setTimeout(240_000);
 
 const suite = browserSuite();
-
 const { server } = suite;
 
 describe('Bench temperature logs in Chromium at 390 px', () => {

@@ -11,7 +11,6 @@ import { browserSuite } from './support/suite';
 jest.setTimeout(600_000);
 
 const suite = browserSuite();
-
 const { server } = suite;
 
 /** Before/after pictures for the change note (only when asked: VISIT_SCREENS=<folder>). */

@@ -10,7 +10,6 @@ import { PHONE, choose, chooseByKeyboard, deviceBlob, readmeShot, testPhoto } fr
 jest.setTimeout(600_000);
 
 const suite = browserSuite();
-
 const { server } = suite;
 
 const query = queryE2eDatabase;
