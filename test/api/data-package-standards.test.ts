@@ -200,7 +200,11 @@ describe('data package against the official standards: EML 2.2.0 XSD, Frictionle
       moisture_vwc_reading_pct: '99',
       flags: 'soil-temp-implausible;vwc-implausible',
     });
-    expect(probes.filter((r) => r.flags !== '').map((r) => r.probe_reading_id)).toEqual([probe.id]);
+    expect(probes.filter((r) => r.flags.includes('implausible')).map((r) => r.probe_reading_id)).toEqual([probe.id]);
+    // The demo's replicates read now and then at 10 cm, off the 5 cm probe depth: flagged as that and nothing else.
+    const others = probes.filter((r) => r.flags !== '' && r.probe_reading_id !== probe.id);
+    expect(others.length).toBeGreaterThan(0);
+    expect(new Set(others.map((r) => r.flags))).toEqual(new Set(['soil-temp-off-depth']));
     for (const words of [
       '1 − χw',
       'first sample used',
