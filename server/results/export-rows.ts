@@ -1,5 +1,7 @@
 import type { DataSource } from 'typeorm';
 import type { CsvValue } from '../../shared/csv/csv-cell';
+import type { z } from 'zod';
+import type { closureSeriesSchema } from '../../shared/model/field-records';
 import type { SiteResults } from './results-service';
 import type { CellTotal } from './seasonal-totals';
 import { probeFlags } from '../../shared/model/probe-plausibility';
@@ -290,13 +292,19 @@ function fitNumbers(f: Fit | null): (number | null)[] {
   ];
 }
 
+/** A closure's stored series as seriesRows selects it (jsonb written through the closure schema). */
+interface SeriesRow {
+  id: string;
+  series: z.input<typeof closureSeriesSchema>;
+}
+
 export async function* seriesRows(ds: DataSource, siteId: string, onPage?: (n: number) => Promise<void>): Rows {
   for await (const page of closurePages(ds, siteId, 'id, series', onPage)) {
-    for (const r of page) {
-      const s = r.series as Record<string, (number | null)[] | null | undefined>;
-      const t = s['tS'] ?? [];
+    for (const r of page as SeriesRow[]) {
+      const s = r.series;
+      const t = s.tS;
       for (let i = 0; i < t.length; i++) {
-        yield [r.id, t[i], s['co2Ppm']?.[i] ?? null, s['h2oMmolMol']?.[i] ?? null, s['tempC']?.[i] ?? null, s['pressureKpa']?.[i] ?? null];
+        yield [r.id, t[i], s.co2Ppm[i] ?? null, s.h2oMmolMol?.[i] ?? null, s.tempC?.[i] ?? null, s.pressureKpa?.[i] ?? null];
       }
     }
   }

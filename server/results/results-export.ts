@@ -132,18 +132,11 @@ export async function runResultsExport(ds: DataSource, req: ExportRequest, hooks
       lloydTaylorT0K: 227.13,
       carbonMolarMassGPerMol: 12.011,
       fluxSlopeBasis: slopeBasis,
-      aggregation: 'closure → visit mean → collar mean → plot mean (replicate) → treatment cell mean ± SE over plots',
+      aggregation: AGGREGATION,
     },
     counts: rowCounts,
   };
-  const methods = exportMethods(
-    slopeBasis,
-    site.tempDepthToleranceCm,
-    req,
-    seasonal.fromDay,
-    seasonal.toDay,
-    String(provenance.parameters['aggregation']),
-  );
+  const methods = exportMethods(slopeBasis, site.tempDepthToleranceCm, req, seasonal.fromDay, seasonal.toDay, AGGREGATION);
   // The data's span in site days (the days the crews were out), as every other day of the package.
   const span = (
     await ds.query(
@@ -241,6 +234,9 @@ function coverage(r: { s: number | null; n: number | null; w: number | null; e: 
   const [b] = r;
   return b && b.s !== null ? { south: b.s, north: b.n!, west: b.w!, east: b.e!, fromDay, toDay } : null;
 }
+
+/** How the package's means are built, as its provenance and its methods text say. */
+const AGGREGATION = 'closure → visit mean → collar mean → plot mean (replicate) → treatment cell mean ± SE over plots';
 
 export function defineExportJob(): void {
   defineJob({
