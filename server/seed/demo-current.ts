@@ -6,6 +6,8 @@ import { createOp, demoUserId, MINUTE_MS, updateOp, type SeedWrite } from './dem
 import { dayChecks } from './demo-season';
 import { buildVisit, type VisitPlan } from './demo-visit';
 import { demoId, hashString, Rng } from './prng';
+import { z } from 'zod';
+import { closureSeriesSchema } from '../../shared/model/field-records';
 
 /**
  * The campaign under way when the demo opens: two rounds in the first days of December, both
@@ -69,15 +71,18 @@ export function buildCurrentCampaign(layout: DemoLayout): SeedWrite[] {
   return writes;
 }
 
+/** What the source file reads of a seeded closure write (built by demo-visit.ts closureWrite). */
+const seededClosure = z.object({ series: closureSeriesSchema, startedAt: z.string() });
+
 /**
  * The analyzer's own file for the first closure of the day, kept as the closure's source: a
  * plain CSV of the same samples. The record carries the file's size and SHA-256; the bytes are
  * `demoSourceCsv()`, for whoever stores them in the object store.
  */
 export function demoSourceCsv(closure: SeedWrite): string {
-  const s = closure.fields['series'] as Record<'tS' | 'co2Ppm' | 'h2oMmolMol' | 'pressureKpa' | 'tempC', number[]>;
+  const s = seededClosure.parse(closure.fields).series;
   const lines = ['elapsed_s,co2_umol_mol,h2o_mmol_mol,pressure_kpa,chamber_temp_c'];
-  s.tS.forEach((t, i) => lines.push([t, s.co2Ppm[i], s.h2oMmolMol[i], s.pressureKpa[i], s.tempC[i]].join(',')));
+  s.tS.forEach((t, i) => lines.push([t, s.co2Ppm[i], s.h2oMmolMol?.[i], s.pressureKpa?.[i], s.tempC?.[i]].join(',')));
   return `${lines.join('\n')}\n`;
 }
 
@@ -89,7 +94,7 @@ function sourceFile(closure: SeedWrite): SeedWrite[] {
       siteId: DEMO_SITE_ID,
       ownerEntity: 'closure',
       ownerId: closure.id,
-      fileName: `A1-${String(closure.fields['startedAt']).slice(0, 16).replace(/[-:]/g, '').replace('T', '-')}.csv`,
+      fileName: `A1-${seededClosure.parse(closure.fields).startedAt.slice(0, 16).replace(/[-:]/g, '').replace('T', '-')}.csv`,
       mediaType: 'text/csv',
       sizeBytes: Buffer.byteLength(csv),
       sha256: createHash('sha256').update(csv).digest('hex'),

@@ -1,3 +1,4 @@
+import { validatedAs } from '../records/wire';
 import type { PendingWrite } from '../records/write-guards';
 import { rejected, type WriteOutcome } from '../records/write-outcome';
 
@@ -7,8 +8,9 @@ import { rejected, type WriteOutcome } from '../records/write-outcome';
  * count the collar twice in the design. Checked whenever a write sets the collar's treatment.
  */
 export async function guardCollarTreatment(w: PendingWrite): Promise<WriteOutcome | null> {
-  if (w.action === 'delete' || !w.changed.includes('treatmentId') || !w.next['treatmentId']) return null;
-  const [t] = await w.em.query(`SELECT code, level FROM treatment WHERE id = $1`, [w.next['treatmentId']]);
+  const treatmentId = validatedAs('collar', w.next).treatmentId;
+  if (w.action === 'delete' || !w.changed.includes('treatmentId') || !treatmentId) return null;
+  const [t]: { code: string; level: string }[] = await w.em.query(`SELECT code, level FROM treatment WHERE id = $1`, [treatmentId]);
   if (!t || t.level === 'collar') return null; // a missing treatment is the reference check's to report
   return rejected(400, 'Some fields are not valid', [
     {
