@@ -2,6 +2,7 @@ import 'reflect-metadata';
 import path from 'node:path';
 import { createApp } from './core/app';
 import { loadConfig } from './core/config';
+import { serverEnv } from './core/server-env';
 import { createDataSource } from './core/data-source';
 import { startJobQueue } from './jobs/job-queue';
 import { startDigestScheduler } from './mail/digest-scheduler';
@@ -14,7 +15,7 @@ async function main() {
   await ds.initialize();
   const { app } = createApp(ds, { ...config, staticDir: config.staticDir ?? defaultStatic });
   // After createApp: features define their jobs while the app is built. JOB_WORKERS=off serves the API only.
-  const jobs = process.env['JOB_WORKERS'] === 'off' ? null : await startJobQueue(ds, config.databaseUrl);
+  const jobs = serverEnv().JOB_WORKERS === 'off' ? null : await startJobQueue(ds, config.databaseUrl);
   const digests = jobs ? startDigestScheduler(ds) : null; // every worker process; the digest run table keeps it to one
   const server = app.listen(config.port, config.host, () => {
     const addr = server.address();

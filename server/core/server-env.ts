@@ -37,6 +37,10 @@ export const SERVER_ENV = z.object({
   LOGIN_MAX_FAILURES: numberSetting('LOGIN_MAX_FAILURES', 8),
   LOGIN_MAX_FAILURES_PER_ADDRESS: numberSetting('LOGIN_MAX_FAILURES_PER_ADDRESS', 100),
   LOGIN_WINDOW_MS: numberSetting('LOGIN_WINDOW_MS', 15 * 60 * 1000),
+  /** `off`: this process serves the API only (no job workers, no digest ticks). */
+  JOB_WORKERS: z.string().optional(),
+  /** How often each worker process asks for due digests, in seconds. */
+  DIGEST_TICK_SECONDS: numberSetting('DIGEST_TICK_SECONDS', 30),
   SMTP_HOST: textOrNull,
   SMTP_PORT: z
     .string()

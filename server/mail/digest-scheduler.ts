@@ -1,6 +1,7 @@
 import type { DataSource } from 'typeorm';
 import { askForDigest } from './digest-job';
 import { digestDue, localClock } from './local-clock';
+import { serverEnv } from '../core/server-env';
 
 /** How long after its time a missed digest is still sent (a server restarted at 19:30 sends the 18:00 one). */
 export const DIGEST_CATCH_UP_MINUTES = 180;
@@ -27,7 +28,7 @@ export async function scheduleDueDigests(ds: DataSource, now = new Date()): Prom
  * Started next to the job queue in every server process (DIGEST_TICK_SECONDS, default 30):
  * each tick asks for due digests; the job queue then runs each one once.
  */
-export function startDigestScheduler(ds: DataSource, tickSeconds = Number(process.env['DIGEST_TICK_SECONDS'] || 30)): { stop(): void } {
+export function startDigestScheduler(ds: DataSource, tickSeconds = serverEnv().DIGEST_TICK_SECONDS): { stop(): void } {
   let running = false;
   const tick = () => {
     if (running) return;
