@@ -44,6 +44,69 @@ async function waitForHealth(baseUrl: string, child: ChildProcess, log: () => st
   throw new Error(`the server did not answer /api/health within 30 s:\n${log()}`);
 }
 
+export interface BuiltServer {
+  baseUrl: string;
+  pid: number;
+  stop(): Promise<void>;
+}
+
+/**
+ * The tsc-built server of the checkout at `root` on a loopback port, in production mode against
+ * `databaseUrl`, once it answers /api/health (its last output is in the error otherwise). Browser
+ * tests and the benchmarks start it the same way; `env` adds settings, `nodeArgs` go before the script.
+ */
+export async function spawnBuiltServer(opts: {
+  root: string;
+  port: number;
+  databaseUrl: string;
+  env?: NodeJS.ProcessEnv;
+  nodeArgs?: string[];
+}): Promise<BuiltServer> {
+  const { root, port } = opts;
+  let output = '';
+  const child = spawn(process.execPath, [...(opts.nodeArgs ?? []), path.join(root, 'dist/server/server/main.js')], {
+    cwd: root,
+    env: {
+      ...process.env,
+      PORT: String(port),
+      HOST: '127.0.0.1',
+      DATABASE_URL: opts.databaseUrl,
+      STATIC_DIR: path.join(root, 'dist/app/browser'),
+      NODE_ENV: 'production',
+      // Production refuses to start without the origin that mail links and tags point at.
+      APP_ORIGIN: `http://127.0.0.1:${port}`,
+      ...opts.env,
+    },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  const keep = (chunk: Buffer) => {
+    output = (output + chunk.toString()).slice(-4000);
+  };
+  child.stdout?.on('data', keep);
+  child.stderr?.on('data', keep);
+  const baseUrl = `http://127.0.0.1:${port}`;
+  try {
+    await waitForHealth(baseUrl, child, () => output);
+  } catch (err) {
+    child.kill('SIGKILL');
+    throw err;
+  }
+  return {
+    baseUrl,
+    pid: child.pid ?? 0,
+    stop: () =>
+      new Promise<void>((resolve) => {
+        if (child.exitCode !== null) return resolve();
+        const timer = setTimeout(() => child.kill('SIGKILL'), 5000);
+        child.once('exit', () => {
+          clearTimeout(timer);
+          resolve();
+        });
+        child.kill('SIGTERM');
+      }),
+  };
+}
+
 /**
  * The real server (tsc-compiled) serving the production build on a free loopback port, against
  * a freshly reset E2E database with the demo scenario. Files run in band, so each file resets
@@ -59,54 +122,29 @@ export async function startAppServer(): Promise<RunningServer> {
   // Files (logger exports, photos) go to a fake S3 on loopback that lives as long as the server.
   const s3 = await startFakeS3();
   const port = await freePort();
-  let output = '';
-  const child = spawn(process.execPath, [SERVER_MAIN], {
-    cwd: ROOT,
-    env: {
-      ...process.env,
-      PORT: String(port),
-      HOST: '127.0.0.1',
-      DATABASE_URL: databaseUrl,
-      STATIC_DIR: path.dirname(APP_INDEX),
-      NODE_ENV: 'production',
-      // Production refuses to start without the origin that mail links and tags point at.
-      APP_ORIGIN: `http://127.0.0.1:${port}`,
-      S3_ENDPOINT: s3.config.endpoint,
-      S3_BUCKET: s3.config.bucket,
-      S3_REGION: s3.config.region,
-      S3_ACCESS_KEY: s3.config.accessKeyId,
-      S3_SECRET_KEY: s3.config.secretAccessKey,
-    },
-    stdio: ['ignore', 'pipe', 'pipe'],
-  });
-  const keep = (chunk: Buffer) => {
-    output = (output + chunk.toString()).slice(-4000);
-  };
-  child.stdout?.on('data', keep);
-  child.stderr?.on('data', keep);
-  const baseUrl = `http://127.0.0.1:${port}`;
+  let server: BuiltServer;
   try {
-    await waitForHealth(baseUrl, child, () => output);
+    server = await spawnBuiltServer({
+      root: ROOT,
+      port,
+      databaseUrl,
+      env: {
+        S3_ENDPOINT: s3.config.endpoint,
+        S3_BUCKET: s3.config.bucket,
+        S3_REGION: s3.config.region,
+        S3_ACCESS_KEY: s3.config.accessKeyId,
+        S3_SECRET_KEY: s3.config.secretAccessKey,
+      },
+    });
   } catch (err) {
-    child.kill('SIGKILL');
     await s3.stop();
     throw err;
   }
-  const stopServer = () =>
-    new Promise<void>((resolve) => {
-      if (child.exitCode !== null) return resolve();
-      const timer = setTimeout(() => child.kill('SIGKILL'), 5000);
-      child.once('exit', () => {
-        clearTimeout(timer);
-        resolve();
-      });
-      child.kill('SIGTERM');
-    });
   return {
-    baseUrl,
+    baseUrl: server.baseUrl,
     storage: s3.config,
     stop: async () => {
-      await stopServer();
+      await server.stop();
       await s3.stop();
     },
   };
