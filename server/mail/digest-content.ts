@@ -1,28 +1,10 @@
 import type { DataSource } from 'typeorm';
 import type { SessionUser } from '../../shared/auth/roles';
-import { findAnomalies, type Anomaly } from '../board/anomalies';
+import type { Digest, DigestRoute } from '../../shared/board/board-wire';
+import { findAnomalies } from '../board/anomalies';
 import { listDevices } from '../board/devices';
 import { campaignProgress } from '../campaigns/campaign-progress';
 import { localClock } from './local-clock';
-
-export interface DigestRoute {
-  routeId: string | null;
-  routeName: string;
-  /** Collar codes the progress query calls `due`, in walking order. */
-  due: string[];
-  /** Collars started but not finished, with what is still missing ("closures 1/2"). */
-  partial: { code: string; missing: string[] }[];
-  complete: number;
-  skipped: number;
-}
-
-export interface Digest {
-  site: { id: string; name: string; timezone: string };
-  localDate: string;
-  campaigns: { id: string; name: string; startsOn: string; endsOn: string; routes: DigestRoute[] }[];
-  anomalies: { total: number; problems: number; items: Anomaly[] };
-  silentDevices: { displayName: string; email: string; lastSeenAt: string | null; outboxSize: number | null }[];
-}
 
 /** At most this many anomalies are written out; the rest are counted and wait on the Board. */
 export const DIGEST_ANOMALY_LIMIT = 25;

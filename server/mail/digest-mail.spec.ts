@@ -1,6 +1,6 @@
 import { FLAG_ADVICE } from '../../shared/flux/flag-advice';
 import { DIGEST_STATE_LINES, digestWithStateCounts } from '../../shared/model/testing/digest-words';
-import type { Digest } from './digest-content';
+import type { Digest } from '../../shared/board/board-wire';
 import { digestMail } from './digest-mail';
 
 const digest = (over: Partial<Digest> = {}): Digest => ({

@@ -1,6 +1,6 @@
 import { progressCountsText, progressStateHeading } from '../../shared/model/progress-state';
 import { formatSiteTime } from '../../shared/time/site-time';
-import type { Digest } from './digest-content';
+import type { Digest } from '../../shared/board/board-wire';
 import { renderHtml, renderText, type MailBlock } from './mail-html';
 import type { OutgoingMail } from './mailer';
 

@@ -52,3 +52,24 @@ export interface MemberRow {
   email: string;
   roles: string[];
 }
+
+/** One route's state in the lead's end-of-day digest. */
+export interface DigestRoute {
+  routeId: string | null;
+  routeName: string;
+  /** Collar codes the progress query calls `due`, in walking order. */
+  due: string[];
+  /** Collars started but not finished, with what is still missing ("closures 1/2"). */
+  partial: { code: string; missing: string[] }[];
+  complete: number;
+  skipped: number;
+}
+
+/** The lead's digest of one site, as mailed and as previewed on the Board (GET /api/sites/:siteId/digest). */
+export interface Digest {
+  site: { id: string; name: string; timezone: string };
+  localDate: string;
+  campaigns: { id: string; name: string; startsOn: string; endsOn: string; routes: DigestRoute[] }[];
+  anomalies: { total: number; problems: number; items: Anomaly[] };
+  silentDevices: { displayName: string; email: string; lastSeenAt: string | null; outboxSize: number | null }[];
+}

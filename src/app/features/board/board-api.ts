@@ -2,7 +2,7 @@ import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
 import { RecordsApi } from '../../core/api/records-api';
-import type { Anomaly, DeviceRow, MemberRow } from '../../../../shared/board/board-wire';
+import type { Anomaly, DeviceRow, Digest, MemberRow } from '../../../../shared/board/board-wire';
 import type { EntityFields } from '../../../../shared/model/entities';
 import { ENTITY_PATHS, type EntityName } from '../../../../shared/model/entity-names';
 import type { ProgressState } from '../../../../shared/model/progress-state';
@@ -31,23 +31,8 @@ export interface Progress {
 /** The campaign records the Board plans and follows (routes with their crews, round windows, the lock). */
 export type Campaign = StoredRecord<'campaign'>;
 export type CampaignRoute = Campaign['routes'][number];
-export type { Anomaly, DeviceRow };
-/** The lead's digest as the server would mail it now (GET /api/sites/:siteId/digest). */
-export interface DigestRoute {
-  routeId: string | null;
-  routeName: string;
-  due: string[];
-  partial: { code: string; missing: string[] }[];
-  complete: number;
-  skipped: number;
-}
-export interface Digest {
-  site: { id: string; name: string; timezone: string };
-  localDate: string;
-  campaigns: { id: string; name: string; startsOn: string; endsOn: string; routes: DigestRoute[] }[];
-  anomalies: { total: number; problems: number; items: Anomaly[] };
-  silentDevices: { displayName: string; email: string; lastSeenAt: string | null; outboxSize: number | null }[];
-}
+export type { Anomaly, DeviceRow, Digest };
+export type { DigestRoute } from '../../../../shared/board/board-wire';
 export interface JobState {
   id: string;
   state: 'queued' | 'active' | 'completed' | 'failed';
