@@ -101,7 +101,10 @@ describe('RecomputePanel', () => {
     expect(button()!.disabled).toBe(true);
 
     // The next poll finds it finished.
-    const poll = fixture.componentInstance.refresh();
+    fixture.componentInstance.refresh();
+    await settle();
+    fixture.detectChanges();
+    await settle();
     http
       .expectOne((r) => r.url === '/api/jobs')
       .flush({
@@ -115,7 +118,7 @@ describe('RecomputePanel', () => {
           }),
         ],
       });
-    await poll;
+    await settle();
     await fixture.whenStable();
     expect(items()[0]).toContain('finished');
     expect(items()[0]).toContain('1600 closures looked at, 37 changed, 120 kept as published (closed campaigns)');

@@ -1,4 +1,15 @@
-import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, output, signal, untracked } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  DestroyRef,
+  computed,
+  inject,
+  input,
+  output,
+  resource,
+  signal,
+  untracked,
+} from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { serverMessage } from '../../core/api/api-error';
@@ -75,7 +86,15 @@ export class RecomputePanel {
   /** The site's zone: times are shown in it. */
   protected readonly zone = computed(() => this.auth.sites().find((s) => s.id === this.siteId())?.timezone ?? 'UTC');
   readonly changed = output<RecomputeJob>();
-  protected readonly jobs = signal<RecomputeJob[]>([]);
+  /**
+   * The recent recompute jobs, read again while one of this site's is waiting or running. A
+   * resource, so an answer for a site no longer chosen is dropped rather than shown.
+   */
+  private readonly jobsResource = resource({
+    params: () => ({ siteId: this.siteId() }),
+    loader: ({ params }) => this.readJobs(params.siteId),
+  });
+  protected readonly jobs = computed(() => this.jobsResource.value() ?? []);
   protected readonly asking = signal(false);
   protected readonly message = signal('');
   protected readonly problem = signal('');
@@ -92,13 +111,6 @@ export class RecomputePanel {
   private alive = true;
 
   constructor() {
-    effect(() => {
-      this.siteId();
-      untracked(() => {
-        this.jobs.set([]);
-        void this.refresh();
-      });
-    });
     inject(DestroyRef).onDestroy(() => {
       this.alive = false;
       this.stop();
@@ -116,7 +128,7 @@ export class RecomputePanel {
       const { jobId } = await this.api.recomputeSite(this.siteId());
       this.message.set('Recompute asked for: the server works through every closure of this site.');
       const job = await this.api.job(jobId);
-      this.jobs.update((js) => [job, ...js.filter((j) => j.id !== job.id)]);
+      this.jobsResource.update((js) => [job, ...(js ?? []).filter((j) => j.id !== job.id)]);
       this.schedule();
     } catch (err) {
       this.problem.set(serverMessage(err, 'The recompute could not be asked for'));
@@ -125,32 +137,41 @@ export class RecomputePanel {
     }
   }
 
-  /** Reads the recent jobs; keeps polling while one of this site's is waiting or running. */
-  async refresh(): Promise<void> {
+  /** Reads the recent jobs now (the poll does this by itself while a job of the site runs). */
+  refresh(): void {
     this.stop();
-    const site = this.siteId();
+    this.jobsResource.reload();
+  }
+
+  /**
+   * One read of the jobs: says when a job of the site finished since the last read (and tells
+   * the queue when it changed closures), and asks for the next read while one still runs.
+   */
+  private async readJobs(site: string): Promise<RecomputeJob[]> {
+    this.stop();
+    const before = new Map(untracked(() => this.jobsResource.value() ?? []).map((j) => [j.id, j.state]));
+    let items: RecomputeJob[];
     try {
-      const before = new Map(this.jobs().map((j) => [j.id, j.state]));
-      const { items } = await this.api.jobs();
-      if (!this.alive || site !== this.siteId()) return;
-      this.jobs.set(items);
+      items = (await this.api.jobs()).items;
       this.problem.set('');
-      for (const j of items) {
-        const was = before.get(j.id);
-        if (j.siteId === site && j.state === 'completed' && was && was !== 'completed') {
-          this.message.set(`Recompute finished: ${j.result?.changed ?? 0} closure(s) changed.`);
-          if ((j.result?.changed ?? 0) > 0) this.changed.emit(j);
-        }
-      }
     } catch (err) {
       this.problem.set(serverMessage(err, 'Recompute progress could not be read'));
+      return untracked(() => this.jobsResource.value() ?? []);
     }
-    if (this.running()) this.schedule();
+    for (const j of items) {
+      const was = before.get(j.id);
+      if (j.siteId === site && j.state === 'completed' && was && was !== 'completed') {
+        this.message.set(`Recompute finished: ${j.result?.changed ?? 0} closure(s) changed.`);
+        if ((j.result?.changed ?? 0) > 0) this.changed.emit(j);
+      }
+    }
+    if (items.some((j) => j.siteId === site && (j.state === 'queued' || j.state === 'active'))) this.schedule();
+    return items;
   }
 
   private schedule(): void {
     this.stop();
-    if (this.alive) this.timer = setTimeout(() => void this.refresh(), RECOMPUTE_POLL_MS);
+    if (this.alive) this.timer = setTimeout(() => this.refresh(), RECOMPUTE_POLL_MS);
   }
 
   private stop(): void {
