@@ -4,12 +4,15 @@ import os from 'node:os';
 import { Client } from 'pg';
 import { SYNC_ENTITIES } from '../../shared/model/entities';
 import { ENTITY_DEFS } from '../../server/records/entity-registry';
+import { loadConfig } from '../../server/core/config';
 import { DEMO_SITE_ID } from '../../server/seed/demo-accounts';
 import { resetDatabase } from '../../test/support/reset-database';
 import { spawn, type ChildProcess } from 'node:child_process';
 import path from 'node:path';
 import { deviceSession, FleetAddress, percentile, type Call } from './fleet-client';
 import { runDevice, type DeviceState, type FleetRun } from './fleet-device';
+import { floorLine, floorReference } from './fleet-floor';
+import { FleetProfile } from './fleet-profile';
 
 /**
  * A fleet at day's end: two server processes on one PostgreSQL behind one address (round-robin with
@@ -27,10 +30,17 @@ const DEVICES = Number(args[0] ?? 200),
   BATCH = Number(args[2] ?? 25);
 const SHARED = 20;
 const TIME_LIMIT_MS = 20 * 60_000;
+const PROFILE = process.env['BENCH_PROFILE'] ? new FleetProfile(process.env['DATABASE_URL']!) : null;
 
 async function main() {
   const url = process.env['DATABASE_URL']!;
   await resetDatabase(url);
+  if (PROFILE) {
+    const c = new Client({ connectionString: url });
+    await c.connect();
+    await c.query('CREATE EXTENSION IF NOT EXISTS pg_stat_statements').catch(() => console.log('profile: no pg_stat_statements'));
+    await c.end();
+  }
   const servers = [await startServerProcess(url), await startServerProcess(url)];
   const addr = new FleetAddress(servers.map((s) => s.base));
   const db = new Client({ connectionString: url });
@@ -70,6 +80,7 @@ async function main() {
       pushMs: [],
       pullMs: [],
       errors: [],
+      phase: [],
       allPushed: new Promise<void>((r) => {
         release = r;
       }),
@@ -99,7 +110,21 @@ async function main() {
       console.error(`bench-fleet: over ${TIME_LIMIT_MS / 60000} min, stopping`);
       process.exit(2);
     }, TIME_LIMIT_MS);
+    await PROFILE?.start();
     const t0 = performance.now();
+    // A fleet that stops moving says where its devices are.
+    let seen = 0,
+      still = 0;
+    const watch = setInterval(() => {
+      const now = run.pushMs.length + run.pullMs.length;
+      still = now === seen ? still + 1 : 0;
+      seen = now;
+      if (still === 6) {
+        const at = new Map<string, number>();
+        for (const p of run.phase) at.set(p, (at.get(p) ?? 0) + 1);
+        console.log(`no request finished for 60 s; devices: ${JSON.stringify(Object.fromEntries(at))}`);
+      }
+    }, 10_000);
     const states = await Promise.all(
       calls.map(async (call, n) => {
         let rng = (n * 2654435761) % 2 ** 32 || 1; // a fixed sequence per device: two runs plan the same ops
@@ -115,6 +140,7 @@ async function main() {
       }),
     );
     clearTimeout(timer);
+    clearInterval(watch);
     const wallMs = performance.now() - t0;
 
     const ms = (xs: number[]) =>
@@ -134,10 +160,26 @@ async function main() {
       `requests sent again after a lost connection or 5xx: ${addr.retries} ${JSON.stringify(Object.fromEntries(addr.reasons))}; errors: ${run.errors.length}`,
     );
     for (const e of run.errors.slice(0, 10)) console.log(`  ${e}`);
+    await PROFILE?.report(wallMs);
     const failed = await prove(db, run, states, siteIds);
     const p95 = percentile(run.pushMs, 95);
+    // The floor right after the fleet, on the same machine and load: the same batches as plain INSERTs,
+    // on as many connections as the two servers' pools (stopped first, so theirs are closed).
+    await Promise.all(servers.map((s) => stopServer(s.child)));
+    const connections = 2 * loadConfig({ databaseUrl: url }).dbPoolSize;
+    const floor = await floorReference(url, connections, DEVICES, OPS, BATCH, DEMO_SITE_ID, collarIds);
+    const floor95 = percentile(floor, 95);
     console.log(
-      `target p95 push ≤ 1 s: ${p95 <= 1000 ? 'met' : 'NOT met'}; zero errors: ${run.errors.length ? 'NOT met' : 'met'}; proofs: ${failed ? 'FAILED' : 'hold'}`,
+      `reference, the same batches as plain multi-row INSERTs (${DEVICES} clients, ${connections} connections): ${floorLine(floor)}`,
+    );
+    console.log(
+      `load average now: ${os
+        .loadavg()
+        .map((x) => x.toFixed(1))
+        .join(' ')}; push p95 / reference p95: ${(p95 / floor95).toFixed(1)}×`,
+    );
+    console.log(
+      `target p95 push ≤ 1 s: ${p95 <= 1000 ? 'met' : `NOT met (the floor on this machine now: p95 ${floor95.toFixed(0)} ms)`}; zero errors: ${run.errors.length ? 'NOT met' : 'met'}; proofs: ${failed ? 'FAILED' : 'hold'}`,
     );
     if (failed || run.errors.length) process.exitCode = 1;
   } finally {
@@ -217,11 +259,25 @@ async function prove(db: Client, run: FleetRun, states: (DeviceState | null)[], 
   return failed;
 }
 
+/** SIGTERM, then the exit (the server closes its pool on the way out). */
+function stopServer(child: ChildProcess): Promise<void> {
+  if (child.exitCode !== null || child.signalCode !== null) return Promise.resolve();
+  return new Promise((resolve) => {
+    const hard = setTimeout(() => child.kill('SIGKILL'), 15_000);
+    child.once('exit', () => {
+      clearTimeout(hard);
+      resolve();
+    });
+    child.kill('SIGTERM');
+  });
+}
+
 const MAIN = path.resolve(__dirname, '../../../server/server/main.js');
 
 /** Starts the compiled server on a free loopback port; resolves with its base URL. */
 function startServerProcess(databaseUrl: string): Promise<{ base: string; child: ChildProcess }> {
-  const child = spawn(process.execPath, [MAIN], {
+  const probe = PROFILE ? ['--require', path.resolve(__dirname, 'fleet-probe.js')] : [];
+  const child = spawn(process.execPath, [...probe, MAIN], {
     env: {
       ...process.env,
       DATABASE_URL: databaseUrl,
@@ -238,7 +294,14 @@ function startServerProcess(databaseUrl: string): Promise<{ base: string; child:
     const keep = (b: Buffer) => {
       out = (out + b.toString()).slice(-4000);
     };
+    let lines = '';
     child.stdout!.on('data', (b: Buffer) => {
+      if (PROFILE) {
+        lines += b.toString();
+        const done = lines.split('\n');
+        lines = done.pop()!;
+        for (const l of done) PROFILE.probe(l);
+      }
       keep(b);
       const m = /listening on (http:\/\/[\d.]+:\d+)/.exec(out);
       if (m) {

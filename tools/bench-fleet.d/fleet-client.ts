@@ -20,8 +20,12 @@ export class FleetAddress {
       const live = this.bases.filter((b) => !this.down.has(b));
       if (!live.length) throw new Error('no server process is left');
       const base = live[this.next++ % live.length];
+      // A timer of our own: undici holds AbortSignal.timeout()'s signal weakly, and a collected signal
+      // never fires (requests of a 200-device run then waited for ever with no socket left).
+      const abort = new AbortController();
+      const timer = setTimeout(() => abort.abort(new Error('no answer within 120 s')), 120_000);
       try {
-        const res = await fetch(base + path, { ...init, signal: AbortSignal.timeout(120_000) });
+        const res = await fetch(base + path, { ...init, signal: abort.signal });
         const text = await res.text();
         if (res.status < 500 || a === attempts - 1) return { res, text };
         last = new Error(`HTTP ${res.status}: ${text}`);
@@ -30,6 +34,8 @@ export class FleetAddress {
         // Refused: that process is gone (the bench never restarts one). A reset (a kept-alive socket the
         // server closed, or a process killed mid-request) is only retried: the push is idempotent by opId.
         if (refused(err)) this.down.add(base);
+      } finally {
+        clearTimeout(timer);
       }
       this.retries++;
       const why = String((last as { cause?: { code?: string } }).cause?.code ?? (last as Error).message ?? last).slice(0, 60);

@@ -28,6 +28,8 @@ export interface FleetRun {
   cursors: Map<number, number>;
   /** A device says it has pushed everything (or given up); called once per device. */
   devicePushed: (n: number) => void;
+  /** What each device is doing now, for the bench's report when the fleet stops moving. */
+  phase: string[];
 }
 
 type Op = { opId: string; entity: string; id: string; baseRev: number | null; op: 'upsert'; fields: Record<string, unknown> };
@@ -57,6 +59,7 @@ export async function pullAll(call: Call, run: FleetRun, deviceId: string, curso
 export async function runDevice(call: Call, run: FleetRun, n: number, rand: () => number): Promise<DeviceState> {
   const deviceId = randomUUID();
   const state: DeviceState = new Map();
+  run.phase[n] = 'first pull';
   const cursor = await pullAll(call, run, deviceId, 0, state);
   run.cursors.set(n, cursor);
   const own: { id: string; rev: number }[] = [];
@@ -101,6 +104,7 @@ export async function runDevice(call: Call, run: FleetRun, n: number, rand: () =
         });
       }
     }
+    run.phase[n] = `push ${done / run.batch + 1}`;
     const results = await pushWithRetry(call, run, deviceId, run.ops - done, ops);
     ops.forEach((op, i) => {
       const res = results[i];
@@ -119,8 +123,11 @@ export async function runDevice(call: Call, run: FleetRun, n: number, rand: () =
     run.onPush();
   }
   run.devicePushed(n);
+  run.phase[n] = 'waiting for the fleet to push';
   await run.allPushed;
+  run.phase[n] = 'final pull';
   await pullAll(call, run, deviceId, cursor, state);
+  run.phase[n] = 'done';
   return state;
 }
 

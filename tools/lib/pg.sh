@@ -57,7 +57,7 @@ pg_up() {
   if ! as_pg "$bin/pg_ctl" -D "$dir" status >/dev/null 2>&1; then
     # Socket in the data folder keeps us off /var/run/postgresql; TCP only on loopback.
     as_pg "$bin/pg_ctl" -D "$dir" -l "$dir/server.log" -w -t 30 \
-      -o "-c listen_addresses=127.0.0.1 -p $port -k $dir" start >/dev/null \
+      -o "-c listen_addresses=127.0.0.1 -p $port -k $dir ${PG_SERVER_OPTIONS:-}" start >/dev/null \
       || die "PostgreSQL did not start on 127.0.0.1:$port (see $dir/server.log)"
   fi
   local pw; pw=$(cat "$pwfile")
