@@ -11,7 +11,7 @@ import { startDigestScheduler } from './mail/digest-scheduler';
 async function main() {
   const defaultStatic = path.resolve(__dirname, '../../app/browser');
   const config = loadConfig();
-  const ds = createDataSource(config.databaseUrl);
+  const ds = createDataSource(config.databaseUrl, { poolSize: config.dbPoolSize });
   await ds.initialize();
   const { app } = createApp(ds, { ...config, staticDir: config.staticDir ?? defaultStatic });
   // After createApp: features define their jobs while the app is built. JOB_WORKERS=off serves the API only.

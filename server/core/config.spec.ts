@@ -1,11 +1,22 @@
 import express from 'express';
 import { loadMailConfig } from '../mail/mail-config';
-import { loadConfig } from './config';
+import { DEFAULT_DB_POOL_SIZE, loadConfig } from './config';
 
 const DB = { DATABASE_URL: 'postgres://u:p@127.0.0.1:1/x_test' };
 const load = (env: NodeJS.ProcessEnv) => loadConfig({}, { ...DB, ...env });
 
 describe('server configuration', () => {
+  describe('DB_POOL_SIZE, the PostgreSQL connections one process may hold', () => {
+    it('when unset, then the default; when set, then that number', () => {
+      expect(load({}).dbPoolSize).toBe(DEFAULT_DB_POOL_SIZE);
+      expect(load({ DB_POOL_SIZE: '12' }).dbPoolSize).toBe(12);
+    });
+
+    it('when not a whole number of at least 2, then the server refuses to start and names the variable', () => {
+      for (const bad of ['0', '1', '2.5', 'many', '-4']) expect(() => load({ DB_POOL_SIZE: bad })).toThrow(/DB_POOL_SIZE must be/);
+    });
+  });
+
   describe('APP_ORIGIN, the one origin of links in mail and on tags', () => {
     it('when APP_ORIGIN is set, then links use it without a trailing slash', () => {
       expect(load({ APP_ORIGIN: 'https://fluxwalk.example.org/' }).appOrigin).toBe('https://fluxwalk.example.org');

@@ -26,6 +26,21 @@ export interface ServerConfig {
   loginWindowMs: number;
   /** S3-compatible storage for logger files and photos; null when not configured. */
   objectStorage: ObjectStorageConfig | null;
+  /**
+   * PostgreSQL connections this process may hold (DB_POOL_SIZE). A push holds one for its whole
+   * transaction, most of it waiting on this process between statements, so a fleet's pushes need
+   * many more connections than there are cores; keep processes × (this + 4 for the job queue) under
+   * PostgreSQL's max_connections (100 by default).
+   */
+  dbPoolSize: number;
+}
+
+export const DEFAULT_DB_POOL_SIZE = 40;
+
+function poolSize(env: NodeJS.ProcessEnv): number {
+  const n = int(env, 'DB_POOL_SIZE', DEFAULT_DB_POOL_SIZE);
+  if (!Number.isInteger(n) || n < 2) throw new Error(`DB_POOL_SIZE must be a whole number of at least 2, got "${env['DB_POOL_SIZE']}"`);
+  return n;
 }
 
 export function loadConfig(overrides: Partial<ServerConfig> = {}, env: NodeJS.ProcessEnv = process.env): ServerConfig {
@@ -44,6 +59,7 @@ export function loadConfig(overrides: Partial<ServerConfig> = {}, env: NodeJS.Pr
     loginMaxFailuresPerAddress: e.LOGIN_MAX_FAILURES_PER_ADDRESS,
     loginWindowMs: e.LOGIN_WINDOW_MS,
     objectStorage: objectStorageFromEnv(),
+    dbPoolSize: poolSize(env),
     ...overrides,
   };
 }

@@ -39,13 +39,37 @@ export async function pushOps(
   const parsed = ops.map(parseOp);
   for (let attempt = 1; ; attempt++) {
     try {
-      return await ds.transaction((em) => applyBatch(em, user, deviceId, outboxSize, parsed));
+      return await inPushTransaction(ds, (em, changes) => applyBatch(em, user, deviceId, outboxSize, parsed, { changes }));
     } catch (err) {
       // Two batches touching the same records in opposite order: PostgreSQL aborts one; run it again.
       // The same opId answered by another request meanwhile: run again, answered from the ledger.
       if (((err as { code?: string }).code === DEADLOCK || err instanceof LedgerRace) && attempt < MAX_ATTEMPTS) continue;
       throw err;
     }
+  }
+}
+
+/**
+ * The push's transaction, committed by its change buffer (ChangeBuffer.commit: the change log's lock,
+ * its rows and the COMMIT go to PostgreSQL together, so the lock every writer queues for is never
+ * held while this process serves other requests). Rolled back when the batch throws.
+ */
+async function inPushTransaction<T>(ds: DataSource, work: (em: EntityManager, changes: ChangeBuffer) => Promise<T>): Promise<T> {
+  const qr = ds.createQueryRunner();
+  await qr.connect();
+  let ending = false;
+  try {
+    await qr.startTransaction();
+    const changes = new ChangeBuffer();
+    const out = await work(qr.manager, changes);
+    ending = true;
+    await changes.commit(qr);
+    return out;
+  } catch (err) {
+    if (!ending && qr.isTransactionActive) await qr.rollbackTransaction().catch(() => undefined);
+    throw err;
+  } finally {
+    await qr.release();
   }
 }
 
@@ -69,7 +93,7 @@ export async function applyBatch(
   deviceId: string,
   outboxSize: number,
   parsed: Parsed[],
-  opts: { batchCreates?: boolean } = {},
+  opts: { batchCreates?: boolean; changes?: ChangeBuffer } = {},
 ): Promise<PushResult[]> {
   const batching = opts.batchCreates ?? true;
   const valid = parsed.flatMap((p) => (p.ok ? [p.op] : []));
@@ -87,7 +111,8 @@ export async function applyBatch(
       creates.map((o) => ({ d: ENTITY_DEFS[o.entity], rec: o.fields })),
     );
   }
-  const changes = new ChangeBuffer();
+  // A caller that passes its buffer writes the change log itself, at its commit.
+  const changes = opts.changes ?? new ChangeBuffer();
   const results: PushResult[] = [];
   const thisBatch = new Map<string, PushResult>();
   let savepoint = false;
@@ -150,8 +175,8 @@ export async function applyBatch(
   }
   await flush();
   await saveAnswers(em, deviceId, user.id, byOpId, [...thisBatch.values()]);
-  await changes.flush(em);
   await recordPush(em, deviceId, user.id, outboxSize);
+  if (!opts.changes) await changes.flush(em);
   return results;
 }
 
