@@ -18,6 +18,7 @@ import { ProbeReplicates1796426460000 } from './1796426460000-probe-replicates';
 import { VisitProgress1796426700000 } from './20261204232500-visit-progress';
 import { LayoutChangeIndex1796427000000 } from './20261204233000-layout-change-index';
 import { TempDepthTolerance1796427060000 } from './1796427060000-temp-depth-tolerance';
+import { VisitProgressRange1796435400000 } from './20261205015000-visit-progress-range';
 
 /** Every migration, oldest first. Add new ones at the end (see DEVELOPERS.md). */
 export const MIGRATIONS = [
@@ -41,4 +42,5 @@ export const MIGRATIONS = [
   VisitProgress1796426700000,
   LayoutChangeIndex1796427000000,
   TempDepthTolerance1796427060000,
+  VisitProgressRange1796435400000,
 ];
