@@ -91,7 +91,7 @@ export class FleetProfile {
       reqs += sum('requests');
       console.log(
         `profile: server ${pid}: event-loop delay median of 2 s windows p50 ${med('loopP50').toFixed(0)} ms, p99 ${med('loopP99').toFixed(0)} ms, worst ${Math.max(...list.map((p) => p['loopMax'])).toFixed(0)} ms; ` +
-          `CPU ${(sum('cpuMs') / 1000).toFixed(1)} s for ${sum('requests')} requests; pool busy ${(sum('poolBusyAvg') / list.length).toFixed(1)} of 10, ` +
+          `CPU ${(sum('cpuMs') / 1000).toFixed(1)} s for ${sum('requests')} requests; connections in use ${(sum('poolBusyAvg') / list.length).toFixed(1)} (mean), ` +
           `requests waiting for a connection mean ${(sum('poolWaitingAvg') / list.length).toFixed(1)}, max ${Math.max(...list.map((p) => p['poolWaitingMax']))}`,
       );
     }
