@@ -38,8 +38,10 @@ export interface ServerConfig {
 export const DEFAULT_DB_POOL_SIZE = 40;
 
 function poolSize(env: NodeJS.ProcessEnv): number {
-  const n = int(env, 'DB_POOL_SIZE', DEFAULT_DB_POOL_SIZE);
-  if (!Number.isInteger(n) || n < 2) throw new Error(`DB_POOL_SIZE must be a whole number of at least 2, got "${env['DB_POOL_SIZE']}"`);
+  const raw = env['DB_POOL_SIZE']?.trim();
+  if (!raw) return DEFAULT_DB_POOL_SIZE;
+  const n = Number(raw);
+  if (!Number.isInteger(n) || n < 2) throw new Error(`DB_POOL_SIZE must be a whole number of at least 2, got "${raw}"`);
   return n;
 }
 
