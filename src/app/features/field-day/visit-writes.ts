@@ -1,6 +1,7 @@
 import { Injectable, inject } from '@angular/core';
 import { AuthStore } from '../../core/auth/auth-store';
 import type { LocalRecord } from '../../core/db/db-schema';
+import type { EntityFields } from '../../../../shared/model/entities';
 import { RecordMissingError } from '../../core/db/outbox-writer';
 import { validated } from '../../core/db/validated';
 import { LocalWrites } from '../../core/sync/local-writes';
@@ -12,17 +13,14 @@ export interface VisitTarget {
   collarId: string;
 }
 
-export type VisitConditions = {
-  rainNow: boolean;
-  rain24h: boolean;
-  standingWater: boolean;
-  frostSnow: boolean;
-  trampled: boolean;
-  animal: boolean;
-  other: string;
-  /** °C at the collar; null when not read. */
-  airTempC?: number | null;
-};
+/** What the crew notes at a collar (the visit schema's conditions; airTempC °C, null when not read). */
+export type VisitConditions = EntityFields<'visit'>['conditions'];
+
+/** The values of one probe replicate the crew types (the probe reading schema's own fields). */
+export type ProbeValues = Pick<EntityFields<'probeReading'>, 'soilTemps' | 'moistureRaw' | 'moistureKind' | 'rodLengthCm' | 'probeId'>;
+
+/** A visit as most writes need it: its id (closures hand theirs over too). */
+type VisitRef = { id: string };
 
 /**
  * Everything a visit writes, through the one local write path (record + outbox op in one Dexie
@@ -33,11 +31,11 @@ export type VisitConditions = {
 export class VisitWrites {
   private readonly writes = inject(LocalWrites);
   private readonly auth = inject(AuthStore);
-  private readonly creating = new Map<string, Promise<LocalRecord>>();
+  private readonly creating = new Map<string, Promise<VisitRef>>();
   private readonly probeSaves = new Map<string, Promise<void>>();
 
   /** The visit at this collar in this round: the existing one, or a new one (made once even on a double tap). */
-  async ensureVisit(target: VisitTarget, existing: LocalRecord | null, extra: Record<string, unknown> = {}): Promise<LocalRecord> {
+  async ensureVisit(target: VisitTarget, existing: VisitRef | null, extra: Partial<EntityFields<'visit'>> = {}): Promise<VisitRef> {
     if (existing) return existing;
     const key = `${target.campaignId}:${target.round}:${target.collarId}`;
     let pending = this.creating.get(key);
@@ -50,22 +48,22 @@ export class VisitWrites {
     return pending;
   }
 
-  async saveConditions(target: VisitTarget, visit: LocalRecord | null, conditions: VisitConditions): Promise<void> {
+  async saveConditions(target: VisitTarget, visit: LocalRecord<'visit'> | null, conditions: VisitConditions): Promise<void> {
     if (!visit) {
       await this.ensureVisit(target, null, { conditions });
       return;
     }
-    const checked = validated('visit', { ...target, arrivedAt: visit['arrivedAt'], conditions });
+    const checked = validated('visit', { ...target, arrivedAt: visit.arrivedAt, conditions });
     await this.writes.edit('visit', visit.id, { conditions: checked.conditions });
   }
 
   /** A new offset set; a second set at the same visit is a correction that supersedes the first (both are kept). */
   async saveOffsetSet(
     target: VisitTarget,
-    visit: LocalRecord | null,
+    visit: VisitRef | null,
     readingsCm: number[],
-    previousAtVisit: LocalRecord | null,
-  ): Promise<LocalRecord> {
+    previousAtVisit: { id: string } | null,
+  ): Promise<void> {
     const v = await this.ensureVisit(target, visit);
     const fields = validated('offsetSet', {
       siteId: target.siteId,
@@ -76,7 +74,7 @@ export class VisitWrites {
       readingsCm,
       supersedesId: previousAtVisit?.id ?? null,
     });
-    return this.writes.create('offsetSet', fields);
+    await this.writes.create('offsetSet', fields);
   }
 
   /**
@@ -84,7 +82,7 @@ export class VisitWrites {
    * user), later saves of the same id correct its values only. Another replicate is another id, so
    * saving one never overwrites another. Saves of one id run one after the other.
    */
-  saveProbe(target: VisitTarget, visit: LocalRecord | null, reading: Record<string, unknown>, replicateId: string): Promise<void> {
+  saveProbe(target: VisitTarget, visit: VisitRef | null, reading: ProbeValues, replicateId: string): Promise<void> {
     const previous = this.probeSaves.get(replicateId) ?? Promise.resolve();
     const next = previous
       .catch(() => undefined)
@@ -122,17 +120,17 @@ export class VisitWrites {
     await this.writes.remove('probeReading', replicateId);
   }
 
-  async skip(target: VisitTarget, visit: LocalRecord | null, reason: string): Promise<void> {
+  async skip(target: VisitTarget, visit: LocalRecord<'visit'> | null, reason: string): Promise<void> {
     const changes = { skipped: true, skipReason: reason.trim() };
     if (!visit) {
       await this.ensureVisit(target, null, changes);
       return;
     }
-    validated('visit', { ...target, arrivedAt: visit['arrivedAt'], ...changes });
+    validated('visit', { ...target, arrivedAt: visit.arrivedAt, ...changes });
     await this.writes.edit('visit', visit.id, changes);
   }
 
-  async unskip(visit: LocalRecord): Promise<void> {
+  async unskip(visit: VisitRef): Promise<void> {
     await this.writes.edit('visit', visit.id, { skipped: false, skipReason: null });
   }
 }

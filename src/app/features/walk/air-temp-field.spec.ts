@@ -20,6 +20,7 @@ const SITE = '11111111-1111-4111-8111-111111111111';
 const PLOT = '22222222-2222-4222-8222-222222222222';
 const COLLAR = '33333333-3333-4333-8333-333333333333';
 const CAMPAIGN = '44444444-4444-4444-8444-444444444444';
+const VISIT = '66666666-6666-4666-8666-666666666666';
 
 describe('Air temperature at the visit', () => {
   afterEach(() => localStorage.clear());
@@ -32,12 +33,12 @@ describe('Air temperature at the visit', () => {
     expect(parseAirTemp('75')).toBeUndefined();
   });
 
-  it('when the crew types the air temperature and saves the conditions, then the visit on the device carries it and it is queued for sync', async () => {
+  async function openVisit(userNo: string, visit?: Record<string, unknown>) {
     localStorage.setItem(
       'fw.session',
       JSON.stringify({
         user: {
-          id: '00000001-0000-4000-8000-0000000000ae',
+          id: `0000000${userNo}-0000-4000-8000-0000000000ae`,
           email: 'crew@fluxwalk.example',
           displayName: 'Crew',
           roles: ['crew'],
@@ -56,12 +57,18 @@ describe('Air temperature at the visit', () => {
       .records('collar')
       .put({ id: COLLAR, rev: 1, siteId: SITE, plotId: PLOT, code: 'W-03', shape: 'round', diameterCm: 20, status: 'active' });
     await db.records('campaign').put({ id: CAMPAIGN, rev: 1, siteId: SITE, name: 'Dec', rounds: 2, routes: [] });
+    if (visit) await db.records('visit').put(visit as never);
     TestBed.inject(WalkContext).update({ campaignId: CAMPAIGN, round: 1 });
     const fixture = TestBed.createComponent(VisitPage);
     fixture.componentRef.setInput('collarId', COLLAR);
     const loader = TestbedHarnessEnvironment.loader(fixture);
     const el = fixture.nativeElement as HTMLElement;
     await until(() => el.querySelector('[data-testid="visit-code"]')?.textContent === 'W-03', 'the collar');
+    return { db, fixture, loader };
+  }
+
+  it('when the crew types the air temperature and saves the conditions, then the visit on the device carries it and it is queued for sync', async () => {
+    const { db, fixture, loader } = await openVisit('1');
 
     const box = await loader.getHarness(MatInputHarness.with({ selector: '[data-testid="air-temp"]' }));
     await box.setValue('95');
@@ -75,11 +82,44 @@ describe('Air temperature at the visit', () => {
       const v = await db.records('visit').toArray();
       return v.length ? v : null;
     }, 'the visit');
-    expect((visit['conditions'] as { airTempC: number }).airTempC).toBe(12.5);
+    expect(visit.conditions.airTempC).toBe(12.5);
     const ops = await db.outbox.toArray();
     expect(ops.some((o) => o.entity === 'visit' && (o.fields['conditions'] as { airTempC?: number } | undefined)?.airTempC === 12.5)).toBe(
       true,
     );
+    fixture.destroy();
+  });
+
+  it('when a visit with an air temperature is opened again, then the box shows it, and a corrected value typed with a comma stays as typed after it saves', async () => {
+    const conditions = {
+      rainNow: false,
+      rain24h: false,
+      standingWater: false,
+      frostSnow: false,
+      trampled: false,
+      animal: false,
+      other: '',
+    };
+    const stored = {
+      id: VISIT,
+      rev: 1,
+      siteId: SITE,
+      campaignId: CAMPAIGN,
+      round: 1,
+      collarId: COLLAR,
+      crewId: null,
+      arrivedAt: '2026-12-03T08:00:00Z',
+      skipped: false,
+      skipReason: null,
+    };
+    const { db, fixture, loader } = await openVisit('2', { ...stored, conditions: { ...conditions, airTempC: 8.5 } });
+    const box = await loader.getHarness(MatInputHarness.with({ selector: '[data-testid="air-temp"]' }));
+    await until(async () => (await box.getValue()) === '8.5', 'the stored air temperature in the box');
+    await box.setValue('9,5');
+    await until(async () => (await db.records('visit').get(VISIT))?.conditions.airTempC === 9.5, 'the corrected air temperature stored');
+    fixture.detectChanges();
+    await fixture.whenStable();
+    expect(await box.getValue()).toBe('9,5');
     fixture.destroy();
   });
 });

@@ -15,7 +15,7 @@ import { liveSignal } from '../../core/db/live-query-signal';
 import { LocalWrites } from '../../core/sync/local-writes';
 import { averageFixes, Gps, type Fix } from './gps';
 import { parseCm } from './offset-form';
-import { PhotoStore, resizePhoto } from './photo-store';
+import { PhotoWrites, resizePhoto } from './photo-writes';
 import { QrScan } from './qr-scan';
 import { validated } from '../../core/db/validated';
 
@@ -44,7 +44,7 @@ export class InstallPage {
   private readonly site = inject(SiteChoice).current;
   private readonly gps = inject(Gps);
   private readonly writes = inject(LocalWrites);
-  private readonly photos$ = inject(PhotoStore);
+  private readonly photos$ = inject(PhotoWrites);
   private readonly router = inject(Router);
   private readonly deviceDb = inject(DeviceDb);
   protected readonly plots = liveSignal(

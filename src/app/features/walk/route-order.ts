@@ -8,7 +8,6 @@ import {
   type ReadingFacts,
   type VisitFacts,
 } from '../../../../shared/progress/visit-progress';
-import type { LocalRecord } from '../../core/db/db-schema';
 import { progressCountsText } from '../../../../shared/model/progress-state';
 import type { CollarState } from '../../core/map/collar-states';
 
@@ -37,19 +36,12 @@ export function walkingOrder<T>(collarIds: readonly T[], direction: Direction, r
  */
 export function collarProgress(
   due: DueSettings,
-  visits: readonly LocalRecord[],
-  offsetSets: readonly LocalRecord[],
-  probes: readonly LocalRecord[],
-  closures: readonly LocalRecord[],
+  visits: readonly VisitFacts[],
+  offsetSets: readonly ReadingFacts[],
+  probes: readonly ReadingFacts[],
+  closures: readonly ClosureFacts[],
 ): CollarProgress {
-  const tally = tallyRound(
-    countVisits(
-      visits as unknown as VisitFacts[],
-      offsetSets as unknown as ReadingFacts[],
-      probes as unknown as ReadingFacts[],
-      closures as unknown as ClosureFacts[],
-    ),
-  );
+  const tally = tallyRound(countVisits(visits, offsetSets, probes, closures));
   const { state, skipReason } = roundProgress(due, [tally]);
   return { state, due: dueItems(due, tally), skipReason };
 }

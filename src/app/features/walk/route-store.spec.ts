@@ -1,16 +1,19 @@
 import { Injector, runInInjectionContext } from '@angular/core';
 import { TestBed } from '@angular/core/testing';
 import type { FluxDb, LocalRecord } from '../../core/db/db-schema';
+import type { EntityFields } from '../../../../shared/model/entities';
+import { campaignFields } from '../../../../shared/model/field-records';
 import { TEST_SITE, signedInDevice } from '../../core/db/testing/signed-in-device';
 import { until } from '../../core/db/testing/until';
-import { RouteStore, loadRoundRecords, loadRoutePlan, routeRows, type RouteParams, type RoutePlan } from './route-store';
+import { loadRoundRecords, loadRoutePlan, routeRows, type RouteParams, type RoutePlan } from './route-query';
+import { RouteStore } from './route-store';
 
 const CAMPAIGN = '44444444-4444-4444-8444-444444444444';
 const ROUTE = '55555555-5555-4555-8555-555555555555';
 const PLOT = '22222222-2222-4222-8222-222222222222';
 const id = (prefix: string, n: number) => `${prefix}${String(n).padStart(4, '0')}-0000-4000-8000-000000000000`;
 
-async function putRoute(db: FluxDb, codes: string[], campaign: Partial<LocalRecord> = {}): Promise<string[]> {
+async function putRoute(db: FluxDb, codes: string[], campaign: Partial<EntityFields<'campaign'>> = {}): Promise<string[]> {
   const ids = codes.map((_, i) => id('c', i));
   await db.records('plot').put({ id: PLOT, rev: 1, siteId: TEST_SITE, code: 'P1' });
   await db.records('collar').bulkPut(
@@ -26,15 +29,17 @@ async function putRoute(db: FluxDb, codes: string[], campaign: Partial<LocalReco
     })),
   );
   await db.records('route').put({ id: ROUTE, rev: 1, siteId: TEST_SITE, name: 'North', collarIds: ids });
-  await db.records('campaign').put({
-    id: CAMPAIGN,
-    rev: 1,
+  // A whole record, as the server or the device's own validated write stores it: the schema fills its defaults.
+  const fields = campaignFields.parse({
     siteId: TEST_SITE,
     name: 'Dec',
+    startsOn: '2026-12-01',
+    endsOn: '2026-12-31',
     rounds: 2,
     routes: [{ routeId: ROUTE, direction: 'alternate' }],
     ...campaign,
   });
+  await db.records('campaign').put({ id: CAMPAIGN, rev: 1, ...fields });
   return ids;
 }
 

@@ -9,7 +9,7 @@ import { provideRouter } from '@angular/router';
 import type { FluxDb, LocalRecord } from '../../core/db/db-schema';
 import { DeviceDb } from '../../core/db/device-db';
 import { VisitPage } from './visit-page';
-import { settlingNote } from './visit-store';
+import { settlingNote } from './visit-query';
 import { until } from '../../core/db/testing/until';
 
 // Collar insertion cuts roots and disturbs the soil, so closures right after an install or a reseat

@@ -19,7 +19,7 @@ import { parseCm } from './offset-form';
 import { CHECK_ITEMS, clockOffsetS, type CheckKind } from './start-of-day-items';
 import { WalkContext } from '../field-day/walk-context';
 import { SiteTimePipe } from '../../core/time/site-time-pipe';
-import { todayChecks, walkOptions } from './walk-store';
+import { todayChecks, walkOptions } from './walk-query';
 
 /**
  * The checks before the first collar: the site's safety note (acknowledged), analyzer, warm-up,

@@ -1,8 +1,8 @@
 import { sameValue } from '../../core/db/record-values';
 import { ClosurePanel } from '../closures/closure-panel';
 import { DecimalPipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, signal, untracked } from '@angular/core';
-import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
+import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, input, signal } from '@angular/core';
+import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
 import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
 import { debounceTime } from 'rxjs';
 import { MatButtonModule } from '@angular/material/button';
@@ -12,7 +12,7 @@ import { MatInputModule } from '@angular/material/input';
 import { RouterLink } from '@angular/router';
 import { profileForClosure } from '../../../../shared/flux/chamber-system';
 import { collarAreaCm2, offsetStats } from '../../../../shared/model/derived';
-import { siteProbeDepth } from '../../../../shared/model/site-layout';
+import { siteFields, siteProbeDepth } from '../../../../shared/model/site-layout';
 import { siteToday } from '../../../../shared/time/site-time';
 import { SiteTimePipe } from '../../core/time/site-time-pipe';
 import { AirTempField } from './air-temp-field';
@@ -22,7 +22,7 @@ import { RouteStore } from './route-store';
 import { ProbeForm, type ProbeSave } from './probe-form';
 import { SkipForm } from './skip-form';
 import { WalkContext } from '../field-day/walk-context';
-import { visitView } from './visit-store';
+import { visitView } from './visit-query';
 import { InvalidRecordError } from '../../core/db/validated';
 import { VisitWrites, type VisitConditions, type VisitTarget } from '../field-day/visit-writes';
 
@@ -35,7 +35,10 @@ const CONDITIONS: { key: keyof Omit<VisitConditions, 'other' | 'airTempC'>; labe
   { key: 'animal', label: 'Animal disturbance' },
 ];
 
-type ConditionsForm = FormGroup<{ [K in keyof Required<VisitConditions>]: FormControl<Required<VisitConditions>[K]> }>;
+type ConditionsForm = FormGroup<{ [K in keyof VisitConditions]: FormControl<VisitConditions[K]> }>;
+
+/** The site's offset limits; the schema's defaults when the site's record is not on the device. */
+const offsetLimits = siteFields.pick({ offsetSpreadPct: true, offsetMoveCm: true });
 
 /**
  * One collar in one pass: who it is and what to watch for, then conditions, the offset set and
@@ -91,23 +94,20 @@ export class VisitPage {
   protected readonly problem = signal('');
   /** The crew opened the conditions again after they folded. */
   protected readonly conditionsOpen = signal(false);
-  private loadedVisit: string | null | undefined = undefined;
   private readonly route = inject(RouteStore).view(() => {
     const c = this.choice();
     return { campaignId: c.campaignId, routeId: c.routeId, round: c.round, flipped: c.flipped };
   });
 
   constructor() {
-    effect(() => {
-      const v = this.view()?.visit ?? null;
-      untracked(() => {
-        // Take the stored conditions when the visit first appears, not while the crew is ticking boxes.
-        if (this.loadedVisit === (v?.id ?? null)) return;
-        this.loadedVisit = v?.id ?? null;
-        if (v?.['conditions'])
-          this.conditions.setValue({ ...this.conditions.getRawValue(), ...(v['conditions'] as VisitConditions) }, { emitEvent: false });
+    // The stored conditions fill the form when a visit first appears (another visit, or the one the
+    // first save made), never while the crew is ticking boxes: only a new visit id passes.
+    toObservable(computed(() => this.view()?.visit ?? null, { equal: (a, b) => a?.id === b?.id }))
+      .pipe(takeUntilDestroyed())
+      .subscribe((v) => {
+        // A copy stored before a condition existed lacks it: the form keeps its own value there.
+        if (v) this.conditions.setValue({ ...this.conditions.getRawValue(), ...v.conditions }, { emitEvent: false });
       });
-    });
     this.conditions.valueChanges
       .pipe(debounceTime(AUTOSAVE_MS), takeUntilDestroyed(inject(DestroyRef)))
       .subscribe(() => void this.saveConditions());
@@ -128,13 +128,13 @@ export class VisitPage {
    */
   protected readonly conditionsFolded = computed(() => {
     const v = this.view();
-    return !!v?.visit?.['conditions'] && (!!v.offsetSet || !!v.probe) && !this.conditionsOpen();
+    return !!v?.visit && (!!v.offsetSet || !!v.probe) && !this.conditionsOpen();
   });
   protected readonly conditionsText = computed(() => {
-    const c = this.view()?.visit?.['conditions'] as VisitConditions | undefined;
+    const c = this.view()?.visit?.conditions;
     if (!c) return '';
     const words = CONDITIONS.filter((x) => c[x.key]).map((x) => x.label.toLowerCase());
-    if (c.other?.trim()) words.push(c.other.trim());
+    if (c.other.trim()) words.push(c.other.trim());
     return words.length ? words.join(', ') : 'nothing special';
   });
 
@@ -142,48 +142,42 @@ export class VisitPage {
     const v = this.view();
     const c = this.choice();
     if (!v || !c.campaignId) return null;
-    return { siteId: String(v.collar['siteId']), campaignId: c.campaignId, round: c.round, collarId: v.collar.id };
+    return { siteId: v.collar.siteId, campaignId: c.campaignId, round: c.round, collarId: v.collar.id };
   });
 
-  /** The site's probe depth tolerance (the schema default when the stored site copy predates the field). */
-  protected readonly depthToleranceCm = computed(() => {
+  /** The site's probe depth and tolerance (the schema defaults when the stored site copy predates the fields). */
+  protected readonly probeDepth = computed(() => {
     const r = siteProbeDepth.safeParse(this.view()?.site ?? {});
-    return (r.success ? r.data : siteProbeDepth.parse({})).tempDepthToleranceCm;
+    return r.success ? r.data : siteProbeDepth.parse({});
   });
-  /** The site's zone: days and times on this screen are the site's. */
-  protected readonly zone = computed(() => String(this.view()?.site?.['timezone'] ?? 'UTC'));
+  /** The site's zone: days and times on this screen are the site's (UTC until the site's record is on the device). */
+  protected readonly zone = computed(() => this.view()?.site?.timezone ?? 'UTC');
 
   protected readonly offsetContext = computed(() => {
     const v = this.view();
     if (!v) return null;
-    const c = v.collar as unknown as Parameters<typeof collarAreaCm2>[0];
     const day = siteToday(this.zone());
     // The crew's own chamber (the one its closures carry), not the newest profile of the site.
     const chamber = profileForClosure(
       v.profiles.map((p) => ({ ...p, areaCm2: 0 })),
       this.choice().profileId,
       day,
-      (v.site?.['defaultProfileId'] as string | null) ?? null,
+      v.site?.defaultProfileId ?? null,
     );
     return {
       day,
-      collarAreaCm2: collarAreaCm2({
-        shape: c.shape ?? 'round',
-        diameterCm: c.diameterCm ?? null,
-        sideACm: c.sideACm ?? null,
-        sideBCm: c.sideBCm ?? null,
-      }),
+      collarAreaCm2: collarAreaCm2(v.collar),
       profiles: chamber.ok ? [chamber.profile] : [],
-      thresholds: { offsetSpreadPct: Number(v.site?.['offsetSpreadPct'] ?? 3), offsetMoveCm: Number(v.site?.['offsetMoveCm'] ?? 1) },
+      thresholds: offsetLimits.parse(v.site ?? {}),
     };
   });
 
-  protected readonly lastReadings = computed(() => (this.view()?.lastOffsetSet?.['readingsCm'] as number[] | undefined) ?? null);
+  protected readonly lastReadings = computed(() => this.view()?.lastOffsetSet?.readingsCm ?? null);
   protected readonly lastMean = computed(() => {
     const r = this.lastReadings();
     return r?.length ? offsetStats(r).meanCm : null;
   });
-  protected readonly savedReadings = computed(() => (this.view()?.offsetSet?.['readingsCm'] as number[] | undefined) ?? null);
+  protected readonly savedReadings = computed(() => this.view()?.offsetSet?.readingsCm ?? null);
   protected readonly kit = computed(() => {
     const c = this.choice();
     return { probeId: c.probeId, rodLengthCm: c.rodLengthCm, moistureKind: c.moistureKind };
@@ -191,15 +185,13 @@ export class VisitPage {
 
   protected saveConditions(): Promise<void> {
     const now = this.conditions.getRawValue();
-    const stored = this.view()?.visit?.['conditions'];
-    if (stored && sameValue({ ...now, ...(stored as object) }, now)) return Promise.resolve();
+    const stored = this.view()?.visit?.conditions;
+    if (stored && sameValue({ ...now, ...stored }, now)) return Promise.resolve();
     return this.run('Conditions saved on this device.', (t, v) => this.writes.saveConditions(t, v.visit, now));
   }
 
   protected saveOffsets(readings: number[]): Promise<void> {
-    return this.run('Offset set saved on this device.', (t, v) =>
-      this.writes.saveOffsetSet(t, v.visit, readings, v.offsetSet).then(() => undefined),
-    );
+    return this.run('Offset set saved on this device.', (t, v) => this.writes.saveOffsetSet(t, v.visit, readings, v.offsetSet));
   }
 
   protected saveProbe(p: ProbeSave): Promise<void> {

@@ -21,7 +21,7 @@ import { STATE_COLOURS, STATE_GLYPHS, STATE_LEGEND, STATE_WORDS } from '../../co
 import { LABEL_H, MARKER_PX, estimateLabelWidth, placeLabels } from './map-labels';
 import { WalkContext } from '../field-day/walk-context';
 import { RouteStore } from './route-store';
-import { walkOptions } from './walk-store';
+import { walkOptions } from './walk-query';
 
 /**
  * A marker's face: the state's shape (the Board's glyph) filling a 48 px target, and a label with

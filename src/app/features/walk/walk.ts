@@ -19,8 +19,9 @@ import { STATE_GLYPHS, STATE_WORDS } from '../../core/map/collar-states';
 import { nextDueIndex, routeSummary } from './route-order';
 import { CHECK_ITEMS } from './start-of-day-items';
 import { WalkContext } from '../field-day/walk-context';
-import { RouteStore, type RouteRow } from './route-store';
-import { todayChecks, walkOptions } from './walk-store';
+import type { RouteRow } from './route-query';
+import { RouteStore } from './route-store';
+import { todayChecks, walkOptions } from './walk-query';
 
 /** One route row's height in rem (route-list.scss gives every row exactly this height). */
 export const ROUTE_ROW_REM = 4.125;

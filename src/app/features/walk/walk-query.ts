@@ -3,17 +3,19 @@ import type { LocalRecord } from '../../core/db/db-schema';
 import { liveSignal } from '../../core/db/live-query-signal';
 
 export interface WalkOptions {
-  site: LocalRecord | null;
-  campaigns: LocalRecord[];
-  routes: LocalRecord[];
-  analyzers: LocalRecord[];
+  site: LocalRecord<'site'> | null;
+  campaigns: LocalRecord<'campaign'>[];
+  routes: LocalRecord<'route'>[];
+  analyzers: LocalRecord<'analyzer'>[];
 }
+
+const byName = (a: { name: string }, b: { name: string }) => a.name.localeCompare(b.name);
 
 /** Campaigns that are open, the site's routes and analyzers, live from the device store. */
 export function walkOptions(siteId: () => string | null): Signal<WalkOptions | undefined> {
   return liveSignal(
     siteId,
-    async (db, site) => {
+    async (db, site): Promise<WalkOptions> => {
       if (!site) return { site: null, campaigns: [], routes: [], analyzers: [] };
       const [s, campaigns, routes, analyzers] = await Promise.all([
         db.records('site').get(site),
@@ -21,12 +23,9 @@ export function walkOptions(siteId: () => string | null): Signal<WalkOptions | u
         db.records('route').where('siteId').equals(site).toArray(),
         db.records('analyzer').where('siteId').equals(site).toArray(),
       ]);
-      const byName = (a: LocalRecord, b: LocalRecord) => String(a['name']).localeCompare(String(b['name']));
       return {
         site: s ?? null,
-        campaigns: campaigns
-          .filter((c) => !c['locked'] && !c.deleted)
-          .sort((a, b) => String(b['startsOn']).localeCompare(String(a['startsOn']))),
+        campaigns: campaigns.filter((c) => !c.locked && !c.deleted).sort((a, b) => b.startsOn.localeCompare(a.startsOn)),
         routes: routes.filter((r) => !r.deleted).sort(byName),
         analyzers: analyzers.filter((a) => !a.deleted).sort(byName),
       };
@@ -35,13 +34,8 @@ export function walkOptions(siteId: () => string | null): Signal<WalkOptions | u
   );
 }
 
-/** Start of the device's local day, as an ISO instant (checks count for the day they were made). */
-export function localDayStart(now: Date = new Date()): string {
-  return new Date(now.getFullYear(), now.getMonth(), now.getDate()).toISOString();
-}
-
-/** Today's analyzer checks at the site, newest first per kind. */
-export function todayChecks(params: () => { siteId: string | null; since: string }): Signal<LocalRecord[]> {
+/** Today's analyzer checks at the site (made since `since`, the site's midnight: siteDayStart), newest first. */
+export function todayChecks(params: () => { siteId: string | null; since: string }): Signal<LocalRecord<'analyzerCheck'>[]> {
   return liveSignal(
     params,
     async (db, p) => {
@@ -50,10 +44,10 @@ export function todayChecks(params: () => { siteId: string | null; since: string
         .records('analyzerCheck')
         .where('siteId')
         .equals(p.siteId)
-        .filter((c) => String(c['at']) >= p.since && !c.deleted)
+        .filter((c) => c.at >= p.since && !c.deleted)
         .toArray();
-      return all.sort((a, b) => String(b['at']).localeCompare(String(a['at'])));
+      return all.sort((a, b) => b.at.localeCompare(a.at));
     },
-    [] as LocalRecord[],
+    [] as LocalRecord<'analyzerCheck'>[],
   );
 }

@@ -28,7 +28,7 @@ export interface PhotoOwner extends FileOwner {
 
 /** Keeps a photo on the device (record and bytes in one transaction; see keepFile) and asks for a sync. */
 @Injectable({ providedIn: 'root' })
-export class PhotoStore {
+export class PhotoWrites {
   private readonly writes = inject(LocalWrites);
 
   keep(owner: PhotoOwner, blob: Blob, fileName: string): Promise<string> {
