@@ -1,17 +1,13 @@
 import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT, calibrationAgeDays } from '../../../../shared/model/calibration';
-import type { RecordMeta } from '../../../../shared/model/common';
-import type { EntityFields } from '../../../../shared/model/entities';
 import { AuthStore } from '../../core/auth/auth-store';
+import type { LocalRecord } from '../../core/db/db-schema';
 import { liveSignal } from '../../core/db/live-query-signal';
 import { validated } from '../../core/db/validated';
 import { LocalWrites } from '../../core/sync/local-writes';
 import { CalibrationForm, type CalibrationEntry } from '../calibration/calibration-form';
 import { siteTime } from '../calibration/site-clock';
-
-type Analyzer = EntityFields<'analyzer'> & RecordMeta;
-type Check = EntityFields<'analyzerCheck'> & RecordMeta;
 
 /**
  * The chosen analyzer's calibration at the start of the day: when it was last calibrated against
@@ -52,7 +48,7 @@ export class CalibrationCard {
   private readonly writes = inject(LocalWrites);
   private readonly auth = inject(AuthStore);
   readonly siteId = input.required<string>();
-  readonly analyzer = input<Analyzer | null>(null);
+  readonly analyzer = input<LocalRecord<'analyzer'> | null>(null);
   readonly driftLimitPct = input(DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT);
   readonly timeZone = input('UTC');
 
@@ -66,14 +62,14 @@ export class CalibrationCard {
     () => ({ siteId: this.siteId(), analyzerId: this.analyzer()?.id ?? null }),
     async (db, p) => {
       if (!p.analyzerId) return null;
-      const all = (await db.records('analyzerCheck').where('siteId').equals(p.siteId).toArray()) as unknown as Check[];
+      const all = await db.records('analyzerCheck').where('siteId').equals(p.siteId).toArray();
       return (
         all
           .filter((c) => c.analyzerId === p.analyzerId && c.kind === 'calibration' && !c.skipped && !c.deleted && c.passed !== false)
           .sort((a, b) => b.at.localeCompare(a.at))[0] ?? null
       );
     },
-    null as Check | null,
+    null as LocalRecord<'analyzerCheck'> | null,
   );
   protected readonly ageDays = computed(() => {
     const c = this.last();

@@ -1,5 +1,8 @@
 import { DecimalPipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, linkedSignal, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, signal } from '@angular/core';
+import { takeUntilDestroyed, toObservable, toSignal } from '@angular/core/rxjs-interop';
+import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
+import { map } from 'rxjs';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
@@ -35,7 +38,17 @@ interface Photo {
  */
 @Component({
   selector: 'fw-install-page',
-  imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatInputModule, MatRadioModule, MatSelectModule, QrScan, RouterLink],
+  imports: [
+    DecimalPipe,
+    MatButtonModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatRadioModule,
+    MatSelectModule,
+    QrScan,
+    ReactiveFormsModule,
+    RouterLink,
+  ],
   templateUrl: './install-page.html',
   styleUrl: './walk.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -52,23 +65,30 @@ export class InstallPage {
     async (db, siteId) =>
       siteId
         ? (await db.records('plot').where('siteId').equals(siteId).toArray()).sort((a, b) =>
-            String(a['code']).localeCompare(String(b['code']), undefined, { numeric: true }),
+            a.code.localeCompare(b.code, undefined, { numeric: true }),
           )
         : [],
     [],
   );
 
-  protected readonly code = signal('');
-  protected readonly plotId = signal<string | null>(null);
-  protected readonly shape = signal<'round' | 'rectangular'>('round');
-  protected readonly diameter = signal('');
-  protected readonly sideA = signal('');
-  protected readonly sideB = signal('');
-  protected readonly height = signal('');
-  protected readonly insertion = signal('');
-  /** Today at the site (not on the phone), until the crew picks another day. */
-  protected readonly installedOn = linkedSignal(() => siteToday(this.site()?.timezone ?? 'UTC'));
-  protected readonly note = signal('');
+  /** Today at the site (not on the phone). */
+  private readonly siteDay = computed(() => siteToday(this.site()?.timezone ?? 'UTC'));
+  protected readonly form = new FormGroup({
+    code: new FormControl('', { nonNullable: true }),
+    plotId: new FormControl<string | null>(null),
+    /** The site's today until the crew picks another day. */
+    installedOn: new FormControl(this.siteDay(), { nonNullable: true }),
+    shape: new FormControl<'round' | 'rectangular'>('round', { nonNullable: true }),
+    diameter: new FormControl('', { nonNullable: true }),
+    sideA: new FormControl('', { nonNullable: true }),
+    sideB: new FormControl('', { nonNullable: true }),
+    height: new FormControl('', { nonNullable: true }),
+    insertion: new FormControl('', { nonNullable: true }),
+    note: new FormControl('', { nonNullable: true }),
+  });
+  protected readonly value = toSignal(this.form.valueChanges.pipe(map(() => this.form.getRawValue())), {
+    initialValue: this.form.getRawValue(),
+  });
   protected readonly fixes = signal<Fix[]>([]);
   protected readonly photos = signal<Photo[]>([]);
   /** The printed tag this collar takes (its id becomes the collar's id). */
@@ -84,20 +104,25 @@ export class InstallPage {
   protected readonly gpsError = this.gps.error;
 
   protected readonly position = computed(() => averageFixes(this.fixes()));
-  protected readonly areaCm2 = computed(() =>
-    collarAreaCm2({
-      shape: this.shape(),
-      diameterCm: parseCm(this.diameter()),
-      sideACm: parseCm(this.sideA()),
-      sideBCm: parseCm(this.sideB()),
-    }),
-  );
+  protected readonly areaCm2 = computed(() => {
+    const v = this.value();
+    return collarAreaCm2({
+      shape: v.shape,
+      diameterCm: parseCm(v.diameter),
+      sideACm: parseCm(v.sideA),
+      sideBCm: parseCm(v.sideB),
+    });
+  });
 
   constructor() {
     const stop = this.gps.watch();
     const destroy = inject(DestroyRef);
     destroy.onDestroy(stop);
     destroy.onDestroy(() => this.photos().forEach((p) => URL.revokeObjectURL(p.url)));
+    // Another site chosen meanwhile: its today (the site's calendar, not the phone's).
+    toObservable(this.siteDay)
+      .pipe(takeUntilDestroyed())
+      .subscribe((day) => this.form.controls.installedOn.setValue(day));
     // Arriving from a scanned tag no collar on this device has (see TagOpener).
     const q = inject(ActivatedRoute).snapshot.queryParamMap;
     const fromLink = readCollarTag(q.get('tag') ?? '');
@@ -121,7 +146,7 @@ export class InstallPage {
           ? await table
               .where('siteId')
               .equals(siteId)
-              .filter((c) => !c.deleted && c['code'] === tag.code)
+              .filter((c) => !c.deleted && c.code === tag.code)
               .first()
           : undefined;
       return { owner: await table.get(tag.id), codeUser: sameCode };
@@ -130,14 +155,14 @@ export class InstallPage {
       // A deleted collar keeps its id (its history syncs as a tombstone): its tag cannot be reused.
       this.tagNote.set(
         owner.deleted
-          ? `This tag belonged to collar ${owner['code']}, since deleted: use a new tag.`
-          : `This tag is already on collar ${owner['code']}: use a new tag.`,
+          ? `This tag belonged to collar ${owner.code}, since deleted: use a new tag.`
+          : `This tag is already on collar ${owner.code}: use a new tag.`,
       );
       return false;
     }
     this.tag.set(tag);
     this.tagNote.set('');
-    if (tag.code) this.code.set(tag.code);
+    if (tag.code) this.form.controls.code.setValue(tag.code);
     if (codeUser) this.tagNote.set(`Code ${tag.code} from the tag is already used at this site by another collar: type another code.`);
     return true;
   }
@@ -189,7 +214,8 @@ export class InstallPage {
     const siteId = this.site()?.id;
     if (!siteId) return this.problem.set('No site chosen.');
     const pos = this.position();
-    const code = this.code().trim();
+    const f = this.form.getRawValue();
+    const code = f.code.trim();
     this.busy.set(true);
     this.problem.set('');
     try {
@@ -198,30 +224,30 @@ export class InstallPage {
           .records('collar')
           .where('siteId')
           .equals(siteId)
-          .filter((c) => !c.deleted && String(c['code']).toLowerCase() === code.toLowerCase())
+          .filter((c) => !c.deleted && c.code.toLowerCase() === code.toLowerCase())
           .first(),
       );
       if (clash) throw new Error(`Collar code ${code} is already used at this site: choose another code.`);
       const collar = validated('collar', {
         siteId,
         code,
-        plotId: this.plotId(),
-        shape: this.shape(),
-        diameterCm: this.shape() === 'round' ? parseCm(this.diameter()) : null,
-        sideACm: this.shape() === 'rectangular' ? parseCm(this.sideA()) : null,
-        sideBCm: this.shape() === 'rectangular' ? parseCm(this.sideB()) : null,
-        heightCm: parseCm(this.height()),
-        insertionCm: parseCm(this.insertion()),
+        plotId: f.plotId,
+        shape: f.shape,
+        diameterCm: f.shape === 'round' ? parseCm(f.diameter) : null,
+        sideACm: f.shape === 'rectangular' ? parseCm(f.sideA) : null,
+        sideBCm: f.shape === 'rectangular' ? parseCm(f.sideB) : null,
+        heightCm: parseCm(f.height),
+        insertionCm: parseCm(f.insertion),
         latitude: pos?.latitude ?? null,
         longitude: pos?.longitude ?? null,
         accuracyM: pos ? Math.round(pos.accuracyM * 10) / 10 : null,
-        installedOn: this.installedOn(),
-        notes: this.note().trim(),
+        installedOn: f.installedOn,
+        notes: f.note.trim(),
       });
       const rec = await this.writes.create('collar', collar, { id: this.tag()?.id });
       await this.writes.create(
         'collarEvent',
-        validated('collarEvent', { siteId, collarId: rec.id, kind: 'installed', date: this.installedOn(), note: this.note().trim() }),
+        validated('collarEvent', { siteId, collarId: rec.id, kind: 'installed', date: f.installedOn, note: f.note.trim() }),
       );
       for (const p of this.photos()) await this.photos$.keep({ siteId, ownerEntity: 'collar', ownerId: rec.id }, p.blob, p.name);
       await this.router.navigate(['/collars', rec.id]);

@@ -1,5 +1,8 @@
 import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, input, output, signal } from '@angular/core';
+import { takeUntilDestroyed, toObservable, toSignal } from '@angular/core/rxjs-interop';
+import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
+import { map } from 'rxjs';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
@@ -31,7 +34,7 @@ export interface LeakResult {
  */
 @Component({
   selector: 'fw-leak-check',
-  imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatInputModule, MatRadioModule, MatSelectModule],
+  imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatInputModule, MatRadioModule, MatSelectModule, ReactiveFormsModule],
   templateUrl: './leak-check.html',
   styleUrl: './walk.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -44,32 +47,50 @@ export class LeakCheck {
   readonly timeZone = input<string>('UTC');
   readonly save = output<LeakResult>();
 
-  protected readonly method = signal<LeakMethod>('series');
-  protected readonly settleText = signal<string | null>(null);
-  protected readonly settle = computed(() => parseCm(this.settleText() ?? String(this.settleDefault())));
-  protected readonly typed = signal('');
+  protected readonly form = new FormGroup({
+    method: new FormControl<LeakMethod>('series', { nonNullable: true }),
+    /** Shows the chamber profile's settle time until the crew types another. */
+    settle: new FormControl('', { nonNullable: true }),
+    series: new FormControl('', { nonNullable: true }),
+    piece: new FormControl(0, { nonNullable: true }),
+    slope: new FormControl('', { nonNullable: true }),
+    reason: new FormControl('', { nonNullable: true }),
+  });
+  private readonly value = toSignal(this.form.valueChanges.pipe(map(() => this.form.getRawValue())), {
+    initialValue: this.form.getRawValue(),
+  });
+  protected readonly method = computed(() => this.value().method);
+  protected readonly settle = computed(() => parseCm(this.value().settle));
   protected readonly fileName = signal('');
   private file: File | null = null;
   protected readonly pieces = signal<LeakPiece[]>([]);
-  protected readonly pieceIndex = signal(0);
   protected readonly fileProblem = signal('');
-  protected readonly slopeText = signal('');
-  protected readonly reason = signal('');
   protected readonly problem = signal('');
+
+  constructor() {
+    const settle = this.form.controls.settle;
+    toObservable(this.settleDefault)
+      .pipe(takeUntilDestroyed())
+      .subscribe((s) => {
+        if (!settle.dirty) settle.setValue(String(s));
+      });
+    this.form.controls.method.valueChanges.pipe(takeUntilDestroyed()).subscribe(() => this.problem.set(''));
+  }
 
   /** The fitted slope of the series or file piece (null until there is something to fit). */
   protected readonly fit = computed<LeakFit | null>(() => {
     const settle = this.settle() ?? NaN;
-    if (this.method() === 'series') return this.typed().trim() ? leakFromTyped(this.typed(), settle) : null;
-    if (this.method() === 'file') {
-      const p = this.pieces()[this.pieceIndex()];
+    const v = this.value();
+    if (v.method === 'series') return v.series.trim() ? leakFromTyped(v.series, settle) : null;
+    if (v.method === 'file') {
+      const p = this.pieces()[v.piece];
       return p ? leakSlope(p.series, settle) : null;
     }
     return null;
   });
 
   protected readonly slope = computed<number | null>(() => {
-    if (this.method() === 'slope') return parseCm(this.slopeText());
+    if (this.method() === 'slope') return parseCm(this.value().slope);
     const f = this.fit();
     return f?.ok ? f.slopeUmolMolS : null;
   });
@@ -84,7 +105,7 @@ export class LeakCheck {
     if (!f) return;
     this.fileProblem.set('');
     this.pieces.set([]);
-    this.pieceIndex.set(0);
+    this.form.controls.piece.setValue(0);
     this.fileName.set(f.name);
     this.file = f;
     try {
@@ -103,7 +124,7 @@ export class LeakCheck {
     const f = this.fit();
     if (this.method() === 'slope') {
       if (s === null) return this.problem.set('Enter the slope on the sealed plate in µmol/mol/s.');
-      const why = this.reason().trim();
+      const why = this.value().reason.trim();
       if (!why) return this.problem.set('Say why the slope is typed instead of the closure (the lead sees it).');
       this.problem.set('');
       this.save.emit({ slopeUmolMolS: s, passed: leakPassed(s, this.limit()), note: `Slope typed from the analyzer: ${why}`, file: null });
@@ -119,7 +140,7 @@ export class LeakCheck {
       );
     }
     this.problem.set('');
-    const source = this.method() === 'file' ? `${this.fileName()}, ${this.pieces()[this.pieceIndex()]!.label}` : 'series typed by hand';
+    const source = this.method() === 'file' ? `${this.fileName()}, ${this.pieces()[this.value().piece]!.label}` : 'series typed by hand';
     this.save.emit({
       slopeUmolMolS: s,
       passed: leakPassed(s, this.limit()),

@@ -1,4 +1,5 @@
 import { ChangeDetectionStrategy, Component, input, output, signal } from '@angular/core';
+import { FormControl, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatChipsModule } from '@angular/material/chips';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -18,7 +19,7 @@ export const COMMON_SKIP_REASONS = [
  */
 @Component({
   selector: 'fw-skip-form',
-  imports: [MatButtonModule, MatChipsModule, MatFormFieldModule, MatInputModule],
+  imports: [MatButtonModule, MatChipsModule, MatFormFieldModule, MatInputModule, ReactiveFormsModule],
   template: `
     @if (!open()) {
       <button mat-stroked-button type="button" (click)="open.set(true)" data-testid="skip-start">Skip this collar…</button>
@@ -30,7 +31,7 @@ export const COMMON_SKIP_REASONS = [
         </mat-chip-listbox>
         <mat-form-field appearance="outline" class="wide">
           <mat-label>Reason</mat-label>
-          <textarea matInput rows="2" maxlength="500" data-testid="skip-reason" [value]="reason()" (input)="reason.set($any($event.target).value)"></textarea>
+          <textarea matInput rows="2" maxlength="500" data-testid="skip-reason" [formControl]="reason"></textarea>
         </mat-form-field>
         @if (problem()) { <p class="warning" role="alert">{{ problem() }}</p> }
         <div class="row">
@@ -52,15 +53,15 @@ export class SkipForm {
   readonly skip = output<string>();
   protected readonly reasons = COMMON_SKIP_REASONS;
   protected readonly open = signal(false);
-  protected readonly reason = signal('');
+  protected readonly reason = new FormControl('', { nonNullable: true });
   protected readonly problem = signal('');
 
   protected pick(value: string | null | undefined): void {
-    if (value) this.reason.set(value);
+    if (value) this.reason.setValue(value);
   }
 
   protected confirm(): void {
-    const r = this.reason().trim();
+    const r = this.reason.value.trim();
     if (!r) {
       this.problem.set('Say why, e.g. "standing water over the rim": the lead sees it on the Board.');
       return;

@@ -1,14 +1,16 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { FormControl, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { RouterLink } from '@angular/router';
 import { TYPICAL_SETTLE_TIME_S } from '../../../../shared/flux';
-import { DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT } from '../../../../shared/model/calibration';
+import { siteFields } from '../../../../shared/model/site-layout';
 import { siteDayStart, siteToday } from '../../../../shared/time/site-time';
 import { SiteChoice } from '../../core/auth/site-choice';
 import type { LocalRecord } from '../../core/db/db-schema';
+import type { EntityFields } from '../../../../shared/model/entities';
 import { textMediaType } from '../../core/db/device-files';
 import { liveSignal } from '../../core/db/live-query-signal';
 import { validated } from '../../core/db/validated';
@@ -21,6 +23,9 @@ import { WalkContext } from '../field-day/walk-context';
 import { SiteTimePipe } from '../../core/time/site-time-pipe';
 import { todayChecks, walkOptions } from './walk-query';
 
+/** What the start of day reads from the site's record. */
+const siteDayRules = siteFields.pick({ leakSlopeUmolMolS: true, calibrationDriftLimitPct: true, safetyNote: true });
+
 /**
  * The checks before the first collar: the site's safety note (acknowledged), analyzer, warm-up,
  * ambient CO2, leak check against the site's limit and the clock offset. Each is stored as an
@@ -28,7 +33,17 @@ import { todayChecks, walkOptions } from './walk-query';
  */
 @Component({
   selector: 'fw-start-of-day',
-  imports: [SiteTimePipe, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule, RouterLink, LeakCheck, CalibrationCard],
+  imports: [
+    SiteTimePipe,
+    MatButtonModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatSelectModule,
+    ReactiveFormsModule,
+    RouterLink,
+    LeakCheck,
+    CalibrationCard,
+  ],
   templateUrl: './start-of-day.html',
   styleUrl: './walk.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -46,13 +61,15 @@ export class StartOfDay {
   }));
   protected readonly items = CHECK_ITEMS;
   protected readonly latest = computed(() => {
-    const by: Partial<Record<string, LocalRecord>> = {};
-    for (const c of this.checks()) by[String(c['kind'])] ??= c;
+    const by: Partial<Record<CheckKind | 'calibration', LocalRecord<'analyzerCheck'>>> = {};
+    for (const c of this.checks()) by[c.kind] ??= c;
     return by;
   });
   protected readonly doneCount = computed(() => CHECK_ITEMS.filter((i) => this.latest()[i.kind]).length);
-  protected readonly leakLimit = computed(() => Number(this.options()?.site?.['leakSlopeUmolMolS'] ?? 0.05));
-  protected readonly timeZone = computed(() => String(this.options()?.site?.['timezone'] ?? 'UTC'));
+  /** The site's limits and note (the schema's defaults until the site's record is on the device). */
+  private readonly siteRules = computed(() => siteDayRules.parse(this.options()?.site ?? {}));
+  protected readonly leakLimit = computed(() => this.siteRules().leakSlopeUmolMolS);
+  protected readonly timeZone = computed(() => this.options()?.site?.timezone ?? 'UTC');
   /** The settle time of the site's current chamber profile: the sealed-plate closure is fitted like any other. */
   private readonly profiles = liveSignal(
     () => this.site()?.id ?? null,
@@ -63,39 +80,36 @@ export class StartOfDay {
   protected readonly settleDefault = computed(() => {
     const today = siteToday(this.timeZone());
     const current = this.profiles()
-      .filter((p) => String(p['validFrom']) <= today)
-      .sort((a, b) => String(b['validFrom']).localeCompare(String(a['validFrom'])))[0];
-    return typeof current?.['settleS'] === 'number' ? current['settleS'] : TYPICAL_SETTLE_TIME_S;
+      .filter((p) => p.validFrom <= today)
+      .sort((a, b) => b.validFrom.localeCompare(a.validFrom))[0];
+    // Without a profile valid today, the typical settle time of the flux engine.
+    return current?.settleS ?? TYPICAL_SETTLE_TIME_S;
   });
   protected readonly analyzer = computed(() => this.options()?.analyzers.find((a) => a.id === this.choice().analyzerId) ?? null);
-  protected readonly driftLimit = computed(() =>
-    Number(this.options()?.site?.['calibrationDriftLimitPct'] ?? DEFAULT_CALIBRATION_DRIFT_LIMIT_PCT),
-  );
+  protected readonly driftLimit = computed(() => this.siteRules().calibrationDriftLimitPct);
   /** The site's chambers (one entry per profile name, its version valid today): the crew picks the one it carries. */
   protected readonly chambers = computed(() => {
     const today = siteToday(this.timeZone());
-    const byName = new Map<string, LocalRecord>();
+    const byName = new Map<string, LocalRecord<'chamberProfile'>>();
     for (const p of this.profiles()) {
-      const name = String(p['name'] ?? '');
-      const best = byName.get(name);
-      const valid = String(p['validFrom']) <= today;
-      if (!best || (valid && (String(best['validFrom']) > today || String(p['validFrom']) > String(best['validFrom']))))
-        byName.set(name, p);
+      const best = byName.get(p.name);
+      const valid = p.validFrom <= today;
+      if (!best || (valid && (best.validFrom > today || p.validFrom > best.validFrom))) byName.set(p.name, p);
     }
     return [...byName.entries()].sort(([a], [b]) => a.localeCompare(b)).map(([name, p]) => ({ id: p.id, name }));
   });
   /** The chosen chamber, shown by name even when the remembered id is another version of it. */
   protected readonly chamberChoice = computed(() => {
     const id = this.choice().profileId;
-    const name = this.profiles().find((p) => p.id === id)?.['name'];
+    const name = this.profiles().find((p) => p.id === id)?.name;
     return this.chambers().find((c) => c.name === name)?.id ?? null;
   });
-  protected readonly safetyNote = computed(() => String(this.options()?.site?.['safetyNote'] ?? '').trim());
+  protected readonly safetyNote = computed(() => this.siteRules().safetyNote.trim());
 
-  protected readonly ambient = signal('');
-  protected readonly analyzerTime = signal('');
+  protected readonly ambient = new FormControl('', { nonNullable: true });
+  protected readonly analyzerTime = new FormControl('', { nonNullable: true });
   protected readonly skipping = signal<CheckKind | null>(null);
-  protected readonly skipReason = signal('');
+  protected readonly skipReason = new FormControl('', { nonNullable: true });
   protected readonly problem = signal('');
   protected readonly message = signal('');
 
@@ -116,7 +130,7 @@ export class StartOfDay {
   }
 
   protected saveAmbient(): Promise<void> {
-    const v = parseCm(this.ambient());
+    const v = parseCm(this.ambient.value);
     if (v === null) return this.fail('Enter the ambient CO2 reading in µmol/mol.');
     return this.record('ambient', { co2Ppm: v });
   }
@@ -127,31 +141,31 @@ export class StartOfDay {
   }
 
   protected saveClock(): Promise<void> {
-    const off = clockOffsetS(this.analyzerTime(), new Date(), this.timeZone());
+    const off = clockOffsetS(this.analyzerTime.value, new Date(), this.timeZone());
     if (off === null) return this.fail('Enter the time the analyzer shows, as HH:MM:SS.');
     return this.record('clock', { clockOffsetS: off });
   }
 
   protected startSkip(kind: CheckKind): void {
     this.skipping.set(kind);
-    this.skipReason.set('');
+    this.skipReason.setValue('');
   }
 
   protected saveSkip(kind: CheckKind): Promise<void> {
-    const reason = this.skipReason().trim();
+    const reason = this.skipReason.value.trim();
     if (!reason) return this.fail('Say why this check is skipped: the lead sees it on the Board.');
     return this.record(kind, { skipped: true, skipReason: reason }).then(() => this.skipping.set(null));
   }
 
-  protected summary(c: LocalRecord): string {
-    if (c['skipped']) return `Skipped: ${c['skipReason']}`;
-    switch (c['kind']) {
+  protected summary(c: LocalRecord<'analyzerCheck'>): string {
+    if (c.skipped) return `Skipped: ${c.skipReason}`;
+    switch (c.kind) {
       case 'ambient':
-        return `${c['co2Ppm']} µmol/mol`;
+        return `${c.co2Ppm} µmol/mol`;
       case 'leak':
-        return `${Number(c['slopeUmolMolS']).toFixed(4)} µmol/mol/s — ${c['passed'] ? 'passed' : 'FAILED: check seals and tubing'}`;
+        return `${c.slopeUmolMolS === null ? '—' : c.slopeUmolMolS.toFixed(4)} µmol/mol/s — ${c.passed ? 'passed' : 'FAILED: check seals and tubing'}`;
       case 'clock':
-        return `analyzer ${Number(c['clockOffsetS']) >= 0 ? '+' : ''}${c['clockOffsetS']} s against this phone`;
+        return `analyzer ${(c.clockOffsetS ?? 0) >= 0 ? '+' : ''}${c.clockOffsetS} s against this phone`;
       case 'safety-ack':
         return 'Acknowledged';
       default:
@@ -166,13 +180,13 @@ export class StartOfDay {
   /** Stores one check; a file it was read from (the leak check's logger file) is kept with it. */
   private async record(
     kind: CheckKind,
-    fields: Record<string, unknown>,
+    fields: Partial<EntityFields<'analyzerCheck'>>,
     file: { blob: Blob; fileName: string; mediaType: string } | null = null,
   ): Promise<void> {
     const siteId = this.site()?.id;
     if (!siteId) return this.fail('No site chosen.');
     const analyzerId = kind === 'safety-ack' ? null : this.choice().analyzerId;
-    if (kind !== 'safety-ack' && !analyzerId && !fields['skipped']) return this.fail('Choose the analyzer first.');
+    if (kind !== 'safety-ack' && !analyzerId && !fields.skipped) return this.fail('Choose the analyzer first.');
     this.problem.set('');
     try {
       const rec = validated('analyzerCheck', { siteId, analyzerId, kind, at: new Date().toISOString(), ...fields });

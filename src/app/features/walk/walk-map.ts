@@ -79,7 +79,7 @@ export class WalkMap {
   private readonly zone = inject(NgZone);
   private readonly host = viewChild.required<ElementRef<HTMLElement>>('map');
   private readonly options = walkOptions(() => this.site()?.id ?? null);
-  protected readonly tileUrl = computed(() => (this.options()?.site?.['tileUrl'] as string | null) ?? null);
+  protected readonly tileUrl = computed(() => this.options()?.site?.tileUrl ?? null);
   private readonly route = inject(RouteStore).view(() => {
     const c = this.walk.choice();
     return { campaignId: c.campaignId, routeId: c.routeId, round: c.round, flipped: c.flipped };
@@ -111,10 +111,10 @@ export class WalkMap {
       Object.values(this.layers).forEach((l) => l.addTo(this.map!));
       this.map.on('zoomend moveend resize', () => this.layoutLabels());
       const url = this.tileUrl();
-      if (url)
-        L.tileLayer(url, { attribution: escapeHtml(String(this.options()?.site?.['tileAttribution'] ?? '')), maxZoom: 20 }).addTo(this.map);
+      if (url) L.tileLayer(url, { attribution: escapeHtml(this.options()?.site?.tileAttribution ?? ''), maxZoom: 20 }).addTo(this.map);
       this.drawAll();
     });
+    // Only draws into Leaflet (a non-Angular API): the data comes from the live route and plots above.
     effect(() => {
       this.route();
       this.plots();
@@ -129,7 +129,7 @@ export class WalkMap {
     const rows = this.route()?.rows ?? [];
     this.layers.plots.clearLayers();
     for (const p of this.plots()) {
-      const outline = p['outline'] as GeoJSON.Polygon | null;
+      const outline = p.outline;
       if (outline) {
         L.geoJSON(outline, { style: { color: '#333', weight: 2, dashArray: '6 4', fillOpacity: 0.04 }, interactive: false }).addTo(
           this.layers.plots,

@@ -1,4 +1,5 @@
 import { TestBed } from '@angular/core/testing';
+import { campaignFields } from '../../../../shared/model/field-records';
 import { TEST_SITE, signedInDevice } from '../../core/db/testing/signed-in-device';
 import { until } from '../../core/db/testing/until';
 import { Walk } from './walk';
@@ -28,15 +29,16 @@ describe('Walk route list', () => {
       })),
     );
     await db.records('route').put({ id: ROUTE, rev: 1, siteId: TEST_SITE, name: 'Long', collarIds: ids });
-    await db.records('campaign').put({
-      id: CAMPAIGN,
-      rev: 1,
+    // A whole campaign record, as the server stores it: the schema fills what is not named.
+    const campaign = campaignFields.parse({
       siteId: TEST_SITE,
       name: 'Dec',
       rounds: 1,
       startsOn: '2026-12-01',
+      endsOn: '2026-12-31',
       routes: [{ routeId: ROUTE, direction: 'forward' }],
     });
+    await db.records('campaign').put({ id: CAMPAIGN, rev: 1, ...campaign });
     await db.records('visit').put({
       id: 'vvvvvvvv-0000-4000-8000-000000000000',
       rev: 1,

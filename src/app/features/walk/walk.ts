@@ -1,6 +1,8 @@
 import { ScrollingModule } from '@angular/cdk/scrolling';
 import { DOCUMENT, DecimalPipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, signal, untracked } from '@angular/core';
+import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, signal } from '@angular/core';
+import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
+import { FormControl, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
@@ -41,6 +43,7 @@ export const ROUTE_ROW_REM = 4.125;
     MatSelectModule,
     MatSlideToggleModule,
     QrScan,
+    ReactiveFormsModule,
     RouterLink,
     ScrollingModule,
   ],
@@ -63,24 +66,26 @@ export class Walk {
     const c = this.choice();
     return { campaignId: c.campaignId, routeId: c.routeId, round: c.round, flipped: c.flipped };
   });
+  /** The site's zone ("today" is the site's day); UTC until the site's record is on the device. */
+  private readonly zone = computed(() => this.options()?.site?.timezone ?? 'UTC');
   // Asked once the site's record (its zone) is read, so "today" is never the UTC day for a moment.
   private readonly checks = todayChecks(() => ({
     siteId: this.options() ? (this.site()?.id ?? null) : null,
-    since: siteDayStart(String(this.options()?.site?.['timezone'] ?? 'UTC')),
+    since: siteDayStart(this.zone()),
   }));
-  protected readonly checksDone = computed(() => CHECK_ITEMS.filter((i) => this.checks().some((c) => c['kind'] === i.kind)).length);
+  protected readonly checksDone = computed(() => CHECK_ITEMS.filter((i) => this.checks().some((c) => c.kind === i.kind)).length);
   protected readonly checkCount = CHECK_ITEMS.length;
   /** Today's analyzer by name, or '' when none was chosen today (closures wait for one). */
   protected readonly analyzerToday = computed(() => {
     const c = this.choice();
-    const tz = String(this.options()?.site?.['timezone'] ?? 'UTC');
+    const tz = this.zone();
     if (!c.kitAt || localDay(c.kitAt, tz) !== localDay(new Date().toISOString(), tz)) return '';
-    return String(this.options()?.analyzers.find((a) => a.id === c.analyzerId)?.['name'] ?? '');
+    return this.options()?.analyzers.find((a) => a.id === c.analyzerId)?.name ?? '';
   });
   protected readonly pendingLabel = computed(() => notYetSynced(this.engine.pending()));
   protected readonly fix = this.gps.fix;
   protected readonly gpsError = this.gps.error;
-  protected readonly code = signal('');
+  protected readonly code = new FormControl('', { nonNullable: true });
   protected readonly codeProblem = signal('');
   protected readonly stateLabel = STATE_WORDS;
   protected readonly stateMark = STATE_GLYPHS;
@@ -93,10 +98,11 @@ export class Walk {
   protected readonly byId = (_: number, r: RouteRow) => r.id;
 
   protected readonly campaign = computed(() => this.options()?.campaigns.find((c) => c.id === this.choice().campaignId) ?? null);
-  protected readonly rounds = computed(() => Array.from({ length: Number(this.campaign()?.['rounds'] ?? 1) }, (_, i) => i + 1));
+  // Round 1 only until a campaign is chosen.
+  protected readonly rounds = computed(() => Array.from({ length: this.campaign()?.rounds ?? 1 }, (_, i) => i + 1));
   /** Routes of the chosen campaign (all site routes when the campaign names none). */
   protected readonly routes = computed(() => {
-    const planned = (this.campaign()?.['routes'] as { routeId: string }[] | undefined)?.map((r) => r.routeId) ?? [];
+    const planned = this.campaign()?.routes.map((r) => r.routeId) ?? [];
     const all = this.options()?.routes ?? [];
     return planned.length ? all.filter((r) => planned.includes(r.id)) : all;
   });
@@ -114,26 +120,26 @@ export class Walk {
   constructor() {
     const stop = this.gps.watch();
     inject(DestroyRef).onDestroy(stop);
-    // First open: take the newest open campaign and its first route, so the crew sees a route at once.
-    effect(() => {
-      const o = this.options();
-      untracked(() => {
+    // First open, and whenever the device's campaigns change: keep the crew's choice if it is still
+    // open, else take the newest open campaign and its first route, so the crew sees a route at once.
+    toObservable(this.options)
+      .pipe(takeUntilDestroyed())
+      .subscribe((o) => {
         if (!o) return;
         const c = this.choice();
         const campaign = o.campaigns.find((x) => x.id === c.campaignId) ?? o.campaigns[0];
         if (!campaign) return;
-        const planned = (campaign['routes'] as { routeId: string }[] | undefined)?.map((r) => r.routeId) ?? [];
+        const planned = campaign.routes.map((r) => r.routeId);
         const routeOk = c.routeId && (!planned.length || planned.includes(c.routeId));
         if (campaign.id !== c.campaignId || !routeOk) {
           this.walk.update({ campaignId: campaign.id, routeId: routeOk ? c.routeId : (planned[0] ?? o.routes[0]?.id ?? null) });
         }
       });
-    });
   }
 
   protected pickCampaign(id: string): void {
     const c = this.options()?.campaigns.find((x) => x.id === id);
-    const planned = (c?.['routes'] as { routeId: string }[] | undefined)?.map((r) => r.routeId) ?? [];
+    const planned = c?.routes.map((r) => r.routeId) ?? [];
     this.walk.update({ campaignId: id, round: 1, routeId: planned[0] ?? this.choice().routeId });
   }
 
@@ -154,14 +160,14 @@ export class Walk {
    * may still be loading), so any collar of the site opens, on this route or not.
    */
   protected async openByCode(): Promise<void> {
-    const typed = this.code().trim();
+    const typed = this.code.value.trim();
     if (!typed) return;
     const wanted = typed.toLowerCase();
     const siteId = this.site()?.id ?? null;
     const found = await this.deviceDb.run(async (db) => {
       const table = db.records('collar');
       const list = siteId ? await table.where('siteId').equals(siteId).toArray() : await table.toArray();
-      return list.find((c) => !c.deleted && String(c['code']).toLowerCase() === wanted) ?? null;
+      return list.find((c) => !c.deleted && c.code.toLowerCase() === wanted) ?? null;
     });
     if (!found) {
       this.codeProblem.set(
