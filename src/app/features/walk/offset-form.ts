@@ -5,15 +5,13 @@ import {
   DestroyRef,
   ElementRef,
   computed,
-  effect,
   inject,
   input,
   output,
   signal,
-  untracked,
   viewChildren,
 } from '@angular/core';
-import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
+import { takeUntilDestroyed, toObservable, toSignal } from '@angular/core/rxjs-interop';
 import { FormArray, FormControl, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -180,12 +178,11 @@ export class OffsetForm {
 
   constructor() {
     // The saved set fills the boxes (on opening the visit again, and after each save).
-    effect(() => {
-      const saved = this.saved();
-      untracked(() => {
+    toObservable(this.saved)
+      .pipe(takeUntilDestroyed())
+      .subscribe((saved) => {
         if (saved?.length && !sameValues(saved, this.completeValues())) this.setValues(saved, false);
       });
-    });
     this.positions.valueChanges.pipe(debounceTime(AUTOSAVE_MS), takeUntilDestroyed(inject(DestroyRef))).subscribe(() => this.autosave());
   }
 

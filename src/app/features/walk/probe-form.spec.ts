@@ -52,6 +52,11 @@ async function render(
 
 const first: ProbeRecord = {
   id: 'p1',
+  rev: 1,
+  siteId: '11111111-1111-4111-8111-111111111111',
+  visitId: '66666666-6666-4666-8666-666666666666',
+  collarId: '33333333-3333-4333-8333-333333333333',
+  campaignId: '44444444-4444-4444-8444-444444444444',
   takenAt: '2026-06-01T08:10:00Z',
   takenById: ME,
   soilTemps: [{ depthCm: 5, tempC: 7.5 }],
@@ -111,7 +116,7 @@ describe('ProbeForm moisture display', () => {
   });
   it('when the visit is opened with a stored reading, then nothing is saved again, whatever the order of its stored fields', async () => {
     // A record from the server or the device store may list a depth's fields in another order.
-    const stored = { ...first, moistureRaw: 22, moistureKind: 'vwc', soilTemps: [{ tempC: 7.5, depthCm: 10 }] } as unknown as ProbeRecord;
+    const stored: ProbeRecord = { ...first, moistureRaw: 22, moistureKind: 'vwc', soilTemps: [{ tempC: 7.5, depthCm: 10 }] };
     const { saved } = await render({ kind: 'topp' }, stored);
     await pause(AUTOSAVE_MS + 300);
     expect(saved).toEqual([]);

@@ -1,18 +1,6 @@
 import { DecimalPipe } from '@angular/common';
-import {
-  ChangeDetectionStrategy,
-  Component,
-  DestroyRef,
-  ElementRef,
-  computed,
-  effect,
-  inject,
-  input,
-  output,
-  signal,
-  untracked,
-} from '@angular/core';
-import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
+import { ChangeDetectionStrategy, Component, DestroyRef, ElementRef, computed, inject, input, output, signal } from '@angular/core';
+import { takeUntilDestroyed, toObservable, toSignal } from '@angular/core/rxjs-interop';
 import { FormArray, FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -20,10 +8,10 @@ import { MatInputModule } from '@angular/material/input';
 import { MatRadioModule } from '@angular/material/radio';
 import { debounceTime } from 'rxjs';
 import { v4 as uuidv4 } from 'uuid';
-import type { z } from 'zod';
 import { probeVwcPct, type MoistureCalibration } from '../../../../shared/model/derived';
-import type { probeReadingFields } from '../../../../shared/model/field-records';
 import { AuthStore } from '../../core/auth/auth-store';
+import type { LocalRecord } from '../../core/db/db-schema';
+import type { ProbeValues } from '../field-day/visit-writes';
 import { AUTOSAVE_MS, parseCm } from './offset-form';
 import { readProbe, type ProbeKit, type ProbeReadingInput } from './probe-input';
 import { ProbeReplicateList, type ReplicateRow } from './probe-replicate-list';
@@ -37,23 +25,18 @@ export interface ProbeSave {
 }
 
 /** A stored probe replicate as the device keeps it. */
-export type ProbeRecord = Partial<z.infer<typeof probeReadingFields>> & { id: string };
+export type ProbeRecord = LocalRecord<'probeReading'>;
+/** The replicate in the boxes: stored, or just sent and not back from the device's store yet. */
+type Draft = ProbeValues & { id: string };
 
 type DepthRow = FormGroup<{ depth: FormControl<string>; temp: FormControl<string> }>;
 const text = (v: unknown) => (v === null || v === undefined ? '' : String(v));
 const depthRow = (depth: string, temp = ''): DepthRow =>
   new FormGroup({ depth: new FormControl(depth, { nonNullable: true }), temp: new FormControl(temp, { nonNullable: true }) });
 /** What a reading says, compared by value: a stored record may list a depth's fields in any order. */
-const valuesOf = (r: Pick<ProbeRecord, 'soilTemps' | 'moistureRaw' | 'moistureKind' | 'rodLengthCm' | 'probeId'>) =>
-  JSON.stringify([
-    (r.soilTemps ?? []).map((t) => [t.depthCm ?? null, t.tempC ?? null]),
-    r.moistureRaw ?? null,
-    r.moistureKind ?? null,
-    r.rodLengthCm ?? null,
-    r.probeId ?? '',
-  ]);
-const complete = (r: Pick<ProbeRecord, 'soilTemps' | 'moistureRaw'> | null) =>
-  !!r && (r.soilTemps?.length ?? 0) > 0 && typeof r.moistureRaw === 'number';
+const valuesOf = (r: ProbeValues) =>
+  JSON.stringify([r.soilTemps.map((t) => [t.depthCm, t.tempC]), r.moistureRaw, r.moistureKind, r.rodLengthCm, r.probeId]);
+const complete = (r: ProbeValues | null) => !!r && r.soilTemps.length > 0 && typeof r.moistureRaw === 'number';
 
 /**
  * Soil temperature at one or more depths and soil moisture, as VWC or as permittivity converted
@@ -127,9 +110,9 @@ export class ProbeForm {
   readonly depthToleranceCm = input.required<number>();
   readonly kit = input<ProbeKit>({ probeId: '', rodLengthCm: null, moistureKind: 'vwc' });
   /** The visit's newest replicate: what the boxes show when the visit is opened again. */
-  readonly saved = input<ProbeRecord | Record<string, unknown> | null>(null);
+  readonly saved = input<ProbeRecord | null>(null);
   /** Every live replicate of the visit, oldest first. */
-  readonly replicates = input<readonly (ProbeRecord | Record<string, unknown>)[]>([]);
+  readonly replicates = input<readonly ProbeRecord[]>([]);
   /** The site's time zone: replicate times are shown in it. */
   readonly zone = input('UTC');
   readonly busy = input(false);
@@ -155,21 +138,20 @@ export class ProbeForm {
   /** The boxes took a stored replicate (or the kit) once; later arrivals never replace what is typed. */
   private started = false;
 
-  protected readonly records = computed(() => this.replicates() as readonly ProbeRecord[]);
-  protected readonly draft = computed((): ProbeRecord | null => {
+  protected readonly draft = computed((): Draft | null => {
     const id = this.draftId();
-    const stored = this.records().find((r) => r.id === id);
+    const stored = this.replicates().find((r) => r.id === id);
     if (stored) return stored;
     const sent = this.sent();
     return sent?.id === id ? sent : null;
   });
 
   constructor() {
-    effect(() => {
-      const k = this.kit();
-      const depth = this.defaultDepthCm();
-      const saved = this.saved() as ProbeRecord | null;
-      untracked(() => {
+    // Until the boxes hold a replicate, they follow what arrives: the visit's stored replicate
+    // (opened again), else the crew's kit and the site's probe depth.
+    toObservable(computed(() => ({ kit: this.kit(), depth: this.defaultDepthCm(), saved: this.saved() })))
+      .pipe(takeUntilDestroyed())
+      .subscribe(({ kit, depth, saved }) => {
         if (this.started) return;
         if (saved) {
           this.started = true;
@@ -177,22 +159,22 @@ export class ProbeForm {
           this.fill(saved);
           return;
         }
-        this.form.patchValue({ kind: k.moistureKind, probeId: k.probeId, rod: text(k.rodLengthCm) });
+        this.form.patchValue({ kind: kit.moistureKind, probeId: kit.probeId, rod: text(kit.rodLengthCm) });
         const temps = this.form.controls.temps;
         if (temps.length === 1 && !temps.at(0).controls.temp.value)
           temps.at(0).controls.depth.setValue(String(depth), { emitEvent: false });
       });
-    });
     this.form.valueChanges.pipe(debounceTime(AUTOSAVE_MS), takeUntilDestroyed(inject(DestroyRef))).subscribe(() => this.autosave());
   }
 
-  private fill(r: ProbeRecord): void {
-    const temps = r.soilTemps ?? [];
+  private fill(r: ProbeValues): void {
+    const temps = r.soilTemps;
     const arr = this.form.controls.temps;
     arr.clear({ emitEvent: false });
     for (const t of temps.length ? temps : [{ depthCm: this.defaultDepthCm(), tempC: null }])
       arr.push(depthRow(text(t.depthCm), text(t.tempC)), { emitEvent: false });
     this.form.patchValue({
+      // A replicate with temperatures only has no moisture kind: the boxes offer VWC.
       kind: r.moistureKind ?? 'vwc',
       moisture: text(r.moistureRaw),
       rod: text(r.rodLengthCm),
@@ -212,22 +194,22 @@ export class ProbeForm {
   protected readonly collapsed = computed(() => !this.editing() && complete(this.draft()));
   protected readonly summary = computed(() => {
     const s = this.draft();
-    return s ? `${(s.soilTemps ?? []).map((t) => `${t.tempC} °C at ${t.depthCm} cm`).join(', ')} · ${this.moistureText(s)}` : '';
+    return s ? `${s.soilTemps.map((t) => `${t.tempC} °C at ${t.depthCm} cm`).join(', ')} · ${this.moistureText(s)}` : '';
   });
   protected readonly rows = computed((): ReplicateRow[] => {
     const me = this.auth?.user()?.id ?? null;
     const cal = this.calibration();
-    return this.records().map((r) => ({
+    return this.replicates().map((r) => ({
       id: r.id,
-      takenAt: r.takenAt ?? '',
+      takenAt: r.takenAt,
       takenBy: !r.takenById ? 'taker not recorded' : r.takenById === me ? 'you' : 'another member',
-      soilTemps: r.soilTemps ?? [],
+      soilTemps: r.soilTemps,
       moistureText: this.moistureText(r),
-      vwcPct: probeVwcPct({ moistureRaw: r.moistureRaw ?? null, moistureKind: r.moistureKind ?? null }, cal),
+      vwcPct: probeVwcPct(r, cal),
     }));
   });
 
-  private moistureText(r: Pick<ProbeRecord, 'moistureRaw' | 'moistureKind'>): string {
+  private moistureText(r: Pick<ProbeValues, 'moistureRaw' | 'moistureKind'>): string {
     if (typeof r.moistureRaw !== 'number') return '';
     return r.moistureKind === 'permittivity' ? `Ka ${r.moistureRaw}` : `${r.moistureRaw} % VWC`;
   }
