@@ -11,7 +11,7 @@ const target: VisitTarget = {
 const reading = (moistureRaw: number) => ({
   soilTemps: [{ depthCm: 5, tempC: 11.5 }],
   moistureRaw,
-  moistureKind: 'vwc',
+  moistureKind: 'vwc' as const,
   rodLengthCm: 12,
   probeId: 'TDR-2',
 });
@@ -27,7 +27,7 @@ describe('VisitWrites probe replicates on the device', () => {
     await Promise.all([writes.saveProbe(target, null, reading(23.4), a), writes.saveProbe(target, null, reading(23.5), a)]);
     await writes.saveProbe(target, null, reading(25.1), b);
     const records = await db.records('probeReading').toArray();
-    expect(records.map((r) => [r.id, r['moistureRaw'], r['takenById']]).sort()).toEqual([
+    expect(records.map((r) => [r.id, r.moistureRaw, r.takenById]).sort()).toEqual([
       [a, 23.5, userId],
       [b, 25.1, userId],
     ]);
@@ -37,7 +37,7 @@ describe('VisitWrites probe replicates on the device', () => {
       [a, null, 23.5],
       [b, null, 25.1],
     ]);
-    expect(new Set(records.map((r) => r['visitId'])).size).toBe(1);
+    expect(new Set(records.map((r) => r.visitId)).size).toBe(1);
   });
 
   it('when a replicate is deleted, then it leaves the device and the other stays', async () => {

@@ -71,7 +71,7 @@ describe('Install screen with a printed tag', () => {
     expect(el.querySelector('[data-testid="install-tag"]')).toBeNull();
     await (await loader.getHarness(MatInputHarness.with({ selector: '[data-testid="install-code"]' }))).setValue('N-02');
     await fillAndSave(loader);
-    const made = await until(async () => (await collars(db)).find((c) => c['code'] === 'N-02'), 'the new collar');
+    const made = await until(async () => (await collars(db)).find((c) => c.code === 'N-02'), 'the new collar');
     expect(made.id).not.toBe(OLD_COLLAR);
     expect((await db.records('collar').get(OLD_COLLAR))!['code']).toBe('N-01');
   });
