@@ -35,15 +35,7 @@ export interface ServerConfig {
   dbPoolSize: number;
 }
 
-export const DEFAULT_DB_POOL_SIZE = 40;
-
-function poolSize(env: NodeJS.ProcessEnv): number {
-  const raw = env['DB_POOL_SIZE']?.trim();
-  if (!raw) return DEFAULT_DB_POOL_SIZE;
-  const n = Number(raw);
-  if (!Number.isInteger(n) || n < 2) throw new Error(`DB_POOL_SIZE must be a whole number of at least 2, got "${raw}"`);
-  return n;
-}
+export { DEFAULT_DB_POOL_SIZE } from './server-env';
 
 export function loadConfig(overrides: Partial<ServerConfig> = {}, env: NodeJS.ProcessEnv = process.env): ServerConfig {
   const e = serverEnv(env);
@@ -61,7 +53,7 @@ export function loadConfig(overrides: Partial<ServerConfig> = {}, env: NodeJS.Pr
     loginMaxFailuresPerAddress: e.LOGIN_MAX_FAILURES_PER_ADDRESS,
     loginWindowMs: e.LOGIN_WINDOW_MS,
     objectStorage: objectStorageFromEnv(),
-    dbPoolSize: poolSize(env),
+    dbPoolSize: e.DB_POOL_SIZE,
     ...overrides,
   };
 }

@@ -1,6 +1,9 @@
 import { randomBytes } from 'node:crypto';
 import { z } from 'zod';
 
+/** Connections a process holds unless DB_POOL_SIZE says otherwise. */
+export const DEFAULT_DB_POOL_SIZE = 40;
+
 /** A number setting: unset or empty takes the default; anything else must be a finite number. */
 const numberSetting = (name: string, fallback: number) =>
   z
@@ -39,6 +42,18 @@ export const SERVER_ENV = z.object({
   LOGIN_WINDOW_MS: numberSetting('LOGIN_WINDOW_MS', 15 * 60 * 1000),
   /** `off`: this process serves the API only (no job workers, no digest ticks). */
   JOB_WORKERS: z.string().optional(),
+  /** PostgreSQL connections one process may hold (see ServerConfig.dbPoolSize). */
+  DB_POOL_SIZE: z
+    .string()
+    .optional()
+    .transform((raw, ctx) => {
+      const text = raw?.trim();
+      if (!text) return DEFAULT_DB_POOL_SIZE;
+      const n = Number(text);
+      if (!Number.isInteger(n) || n < 2)
+        ctx.addIssue({ code: 'custom', message: `DB_POOL_SIZE must be a whole number of at least 2, got "${raw}"` });
+      return n;
+    }),
   /** How often each worker process asks for due digests, in seconds. */
   DIGEST_TICK_SECONDS: numberSetting('DIGEST_TICK_SECONDS', 30),
   SMTP_HOST: textOrNull,
