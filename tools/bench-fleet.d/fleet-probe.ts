@@ -8,6 +8,19 @@
 import diagnostics from 'node:diagnostics_channel';
 import { monitorEventLoopDelay } from 'node:perf_hooks';
 
+/** One `[probe]` line: a server's last 2 s (times in ms). */
+export interface ProbeLine {
+  pid: number;
+  loopP50: number;
+  loopP99: number;
+  loopMax: number;
+  cpuMs: number;
+  requests: number;
+  poolWaitingAvg: number;
+  poolWaitingMax: number;
+  poolBusyAvg: number;
+}
+
 const delay = monitorEventLoopDelay({ resolution: 10 });
 delay.enable();
 let requests = 0;
@@ -43,7 +56,7 @@ let cpu = process.cpuUsage();
 setInterval(() => {
   const now = process.cpuUsage(cpu);
   cpu = process.cpuUsage();
-  const line = {
+  const line: ProbeLine = {
     pid: process.pid,
     loopP50: delay.percentile(50) / 1e6,
     loopP99: delay.percentile(99) / 1e6,

@@ -1,5 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { Client } from 'pg';
+import type { ProbeLine } from './fleet-probe';
 
 /**
  * The fleet bench's profile (BENCH_PROFILE=1): what PostgreSQL's sessions wait on, sampled every
@@ -12,7 +13,7 @@ export class FleetProfile {
   private readonly holders = new Map<string, number>();
   private samples = 0;
   private timer: NodeJS.Timeout | null = null;
-  private readonly probes = new Map<number, Record<string, number>[]>();
+  private readonly probes = new Map<number, ProbeLine[]>();
   private pgCpu0 = 0;
   private postmaster = 0;
   private busy = false;
@@ -68,10 +69,10 @@ export class FleetProfile {
   probe(line: string): void {
     const m = /^\[probe\] (\{.*\})$/.exec(line);
     if (!m) return;
-    const p = JSON.parse(m[1]) as Record<string, number>;
-    const list = this.probes.get(p['pid']) ?? [];
+    const p = JSON.parse(m[1]) as ProbeLine;
+    const list = this.probes.get(p.pid) ?? [];
     list.push(p);
-    this.probes.set(p['pid'], list);
+    this.probes.set(p.pid, list);
   }
 
   async report(wallMs: number): Promise<void> {
@@ -85,14 +86,14 @@ export class FleetProfile {
     let cpu = 0,
       reqs = 0;
     for (const [pid, list] of this.probes) {
-      const sum = (k: string) => list.reduce((s, p) => s + p[k], 0);
-      const med = (k: string) => [...list.map((p) => p[k])].sort((a, b) => a - b)[Math.floor(list.length / 2)];
+      const sum = (k: Exclude<keyof ProbeLine, 'pid'>) => list.reduce((s, p) => s + p[k], 0);
+      const med = (k: Exclude<keyof ProbeLine, 'pid'>) => [...list.map((p) => p[k])].sort((a, b) => a - b)[Math.floor(list.length / 2)];
       cpu += sum('cpuMs');
       reqs += sum('requests');
       console.log(
-        `profile: server ${pid}: event-loop delay median of 2 s windows p50 ${med('loopP50').toFixed(0)} ms, p99 ${med('loopP99').toFixed(0)} ms, worst ${Math.max(...list.map((p) => p['loopMax'])).toFixed(0)} ms; ` +
+        `profile: server ${pid}: event-loop delay median of 2 s windows p50 ${med('loopP50').toFixed(0)} ms, p99 ${med('loopP99').toFixed(0)} ms, worst ${Math.max(...list.map((p) => p.loopMax)).toFixed(0)} ms; ` +
           `CPU ${(sum('cpuMs') / 1000).toFixed(1)} s for ${sum('requests')} requests; connections in use ${(sum('poolBusyAvg') / list.length).toFixed(1)} (mean), ` +
-          `requests waiting for a connection mean ${(sum('poolWaitingAvg') / list.length).toFixed(1)}, max ${Math.max(...list.map((p) => p['poolWaitingMax']))}`,
+          `requests waiting for a connection mean ${(sum('poolWaitingAvg') / list.length).toFixed(1)}, max ${Math.max(...list.map((p) => p.poolWaitingMax))}`,
       );
     }
     console.log(
