@@ -1,4 +1,4 @@
-import { Injectable, computed, inject, signal } from '@angular/core';
+import { Injectable, computed, inject, linkedSignal, resource, signal } from '@angular/core';
 import { serverMessage } from '../../core/api/api-error';
 import { SiteChoice } from '../../core/auth/site-choice';
 import type { StoredRecord } from '../../../../shared/model/stored-record';
@@ -20,14 +20,30 @@ export class BoardStore {
   readonly site = this.siteChoice.current;
   /** The site's IANA zone: every time the Board shows, and its "today", is in it. */
   readonly zone = computed(() => this.site()?.timezone ?? 'UTC');
-  readonly campaigns = signal<Campaign[]>([]);
-  readonly campaignId = signal<string | null>(null);
+  /** Set by the Board screen when it opens; the panels alone (and their tests) read nothing. */
+  private readonly shown = signal(false);
+  /**
+   * The site's campaigns and layout, read when a site is chosen (and on Refresh). A resource, so
+   * an answer for a site no longer chosen is dropped; its loader also reads the progress of the
+   * campaign it picks, so the first paint has both.
+   */
+  private readonly siteLayout = resource({
+    params: () => (this.shown() ? this.site()?.id : undefined),
+    loader: ({ params: siteId, abortSignal }) => this.readSite(siteId, abortSignal),
+  });
+  /** Campaigns as read, with the ones saved here since laid over them. */
+  readonly campaigns = linkedSignal(() => this.siteLayout.value()?.campaigns ?? []);
+  /** The chosen campaign: kept while the site's campaigns still hold it, else the latest open one. */
+  readonly campaignId = linkedSignal<Campaign[], string | null>({
+    source: this.campaigns,
+    computation: (campaigns, previous) => pickCampaign(campaigns, previous?.value ?? null),
+  });
   readonly round = signal<number | null>(null);
   readonly progress = signal<Progress | null>(null);
-  readonly routes = signal<StoredRecord<'route'>[]>([]);
-  readonly plots = signal<StoredRecord<'plot'>[]>([]);
-  readonly treatments = signal<StoredRecord<'treatment'>[]>([]);
-  readonly members = signal<Member[]>([]);
+  readonly routes = linkedSignal(() => this.siteLayout.value()?.routes ?? []);
+  readonly plots = computed(() => this.siteLayout.value()?.plots ?? []);
+  readonly treatments = computed(() => this.siteLayout.value()?.treatments ?? []);
+  readonly members = computed(() => this.siteLayout.value()?.members ?? []);
   /** The site's collars (positions, codes), loaded only by the screens that need them (Plan, Map). */
   readonly collars = signal<StoredRecord<'collar'>[]>([]);
   private collarsFor: string | null = null;
@@ -77,39 +93,43 @@ export class BoardStore {
     });
   }
 
-  /** Campaigns and the site's layout; picks the latest open campaign unless one is chosen. */
-  async loadSite(): Promise<void> {
-    const site = this.site();
-    if (!site) return;
+  /** The Board screen opened: from now on the chosen site's layout is read, and read again when another site is chosen. */
+  show(): void {
+    this.shown.set(true);
+  }
+
+  /** Reads the site's campaigns and layout again (Refresh), then the chosen campaign's progress. */
+  loadSite(): void {
+    this.siteLayout.reload();
+  }
+
+  private async readSite(siteId: string, abortSignal: AbortSignal): Promise<SiteLayout | undefined> {
     this.problem.set('');
     this.offlineSince.set(null);
     try {
-      const q = { siteId: site.id };
+      const q = { siteId };
       const [campaigns, routes, plots, treatments] = await Promise.all([
-        this.guard(`campaigns.${site.id}`, () => this.api.list('campaign', q)),
-        this.guard(`routes.${site.id}`, () => this.api.list('route', q)),
-        this.guard(`plots.${site.id}`, () => this.api.list('plot', q)),
-        this.guard(`treatments.${site.id}`, () => this.api.list('treatment', q)),
+        this.guard(`campaigns.${siteId}`, () => this.api.list('campaign', q)),
+        this.guard(`routes.${siteId}`, () => this.api.list('route', q)),
+        this.guard(`plots.${siteId}`, () => this.api.list('plot', q)),
+        this.guard(`treatments.${siteId}`, () => this.api.list('treatment', q)),
       ]);
-      this.campaigns.set(campaigns);
-      this.routes.set(routes);
-      this.plots.set(plots);
-      this.treatments.set(treatments);
-      this.members.set(await this.guard(`members.${site.id}`, () => this.api.members(site.id)).catch(() => []));
-      if (!campaigns.some((c) => c.id === this.campaignId())) {
-        this.campaignId.set((campaigns.find((c) => !c.locked) ?? campaigns[0])?.id ?? null);
-      }
-      await this.loadProgress();
+      const members = await this.guard(`members.${siteId}`, () => this.api.members(siteId)).catch((): Member[] => []);
+      // Another site was chosen meanwhile: its own read fills the Board.
+      if (abortSignal.aborted) return undefined;
+      await this.loadProgress(pickCampaign(campaigns, this.campaignId()));
       // Refresh re-reads the collars too: new ones belong on the map and in the rows.
       this.collarsFor = null;
       void this.ensureCollars();
+      return { campaigns, routes, plots, treatments, members };
     } catch (err) {
       this.problem.set(serverMessage(err, 'The Board could not be loaded'));
+      return undefined;
     }
   }
 
-  async loadProgress(): Promise<void> {
-    const id = this.campaignId();
+  /** Reads the progress of a campaign (the chosen one unless named) in the chosen round. */
+  async loadProgress(id: string | null = this.campaignId()): Promise<void> {
     if (!id) {
       this.progress.set(null);
       return;
@@ -165,6 +185,20 @@ export class BoardStore {
       this.problem.set(serverMessage(err, locked ? 'The campaign could not be closed' : 'The campaign could not be reopened'));
     }
   }
+}
+
+interface SiteLayout {
+  campaigns: Campaign[];
+  routes: StoredRecord<'route'>[];
+  plots: StoredRecord<'plot'>[];
+  treatments: StoredRecord<'treatment'>[];
+  members: Member[];
+}
+
+/** The campaign to show: the chosen one while the site still has it, else the latest open one, else the latest. */
+function pickCampaign(campaigns: readonly Campaign[], chosen: string | null): string | null {
+  if (chosen && campaigns.some((c) => c.id === chosen)) return chosen;
+  return (campaigns.find((c) => !c.locked) ?? campaigns[0])?.id ?? null;
 }
 
 function upsert<T extends { id: string }>(xs: T[], rec: T): T[] {

@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, effect, inject, untracked } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatSelectModule } from '@angular/material/select';
@@ -93,10 +93,6 @@ export class Board {
   protected readonly canClose = () => readyToClose(this.store.progress()?.collars ?? []) && this.store.round() === null;
 
   constructor() {
-    // Reload when the user picks another site in the menu.
-    effect(() => {
-      const site = this.store.site();
-      if (site) untracked(() => void this.store.loadSite());
-    });
+    this.store.show();
   }
 }
