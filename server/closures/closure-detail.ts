@@ -12,6 +12,7 @@ import { notFound } from '../core/errors';
 import { toWire } from '../records/wire';
 import { ClosureEntity } from './closure.entity';
 import { closureHistory } from './closure-history';
+import type { ProfileRow } from './closure-inputs';
 import { queueItem } from './review-queue';
 
 /** Mean, SD and CV of replicate fluxes (sample SD, n − 1); spread is what the lab compares. */
@@ -29,13 +30,6 @@ interface OffsetSetRow {
   readings_cm: number[];
   mean_cm: number;
   supersedes_id: string | null;
-}
-interface ProfileRow {
-  id: string;
-  name: string;
-  valid_from: string;
-  chamber_volume_cm3: number;
-  loop_volume_cm3: number;
 }
 interface CollarHistoryRow {
   id: string;
@@ -80,7 +74,7 @@ export async function closureDetail(ds: DataSource, user: SessionUser, id: strin
   const [offsetSet]: OffsetSetRow[] = results.offsetSetId
     ? await ds.query(`SELECT id, taken_at, readings_cm, mean_cm, supersedes_id FROM offset_set WHERE id = $1`, [results.offsetSetId])
     : [];
-  const [profile]: ProfileRow[] = results.profileId
+  const [profile]: Omit<ProfileRow, 'footprint_area_cm2'>[] = results.profileId
     ? await ds.query(
         `SELECT id, name, to_char(valid_from, 'YYYY-MM-DD') AS valid_from, chamber_volume_cm3, loop_volume_cm3 FROM chamber_profile WHERE id = $1`,
         [results.profileId],

@@ -51,7 +51,8 @@ interface SiteRow {
   default_profile_id: string | null;
   default_air_temp_c: number;
 }
-interface ProfileRow {
+/** A chamber-profile version as its row reads (`valid_from` as YYYY-MM-DD text). */
+export interface ProfileRow {
   id: string;
   name: string;
   valid_from: string;
