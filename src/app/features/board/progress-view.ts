@@ -2,7 +2,6 @@ import { ScrollingModule } from '@angular/cdk/scrolling';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { toSignal } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
-import { map } from 'rxjs';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatExpansionModule } from '@angular/material/expansion';
@@ -25,6 +24,7 @@ import {
   type ProgressRow,
   type SortKey,
 } from './progress-rows';
+import { formValue } from '../../core/forms/form-value';
 
 /**
  * Every collar × due item with its state, filters, counts and bars per route, plot and
@@ -62,9 +62,7 @@ export class ProgressView {
     text: NO_FILTER.text,
     sortKey: this.fb.control<SortKey>('order'),
   });
-  private readonly value = toSignal(this.form.valueChanges.pipe(map(() => this.form.getRawValue())), {
-    initialValue: this.form.getRawValue(),
-  });
+  private readonly value = formValue(this.form);
   protected readonly filter = computed<ProgressFilter>(() => {
     const { sortKey: _sort, ...filter } = this.value();
     return filter;

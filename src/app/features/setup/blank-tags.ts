@@ -7,7 +7,7 @@ import { MatInputModule } from '@angular/material/input';
 import { plannedTagCodes } from '../../../../shared/model/collar-tag';
 import { fieldProblems, serverMessage } from '../../core/api/api-error';
 import { saveFile } from '../../core/api/save-file';
-import { formValue } from './form-value';
+import { formValue } from '../../core/forms/form-value';
 import { SetupApi } from './setup-api';
 
 /**

@@ -9,7 +9,7 @@ import { chamberProfileFields } from '../../../../shared/model/site-layout';
 import { serverMessage } from '../../core/api/api-error';
 import { issuesByField } from './record-fields';
 import type { StoredRecord } from '../../../../shared/model/stored-record';
-import { formValue } from './form-value';
+import { formValue } from '../../core/forms/form-value';
 import { SetupApi } from './setup-api';
 
 const versionFields = chamberProfileFields.pick({ validFrom: true, chamberVolumeCm3: true, loopVolumeCm3: true, settleS: true });

@@ -10,7 +10,7 @@ import { siteFields } from '../../../../shared/model/site-layout';
 import type { StoredRecord } from '../../../../shared/model/stored-record';
 import { fieldProblems, serverMessage } from '../../core/api/api-error';
 import { issuesByField } from './record-fields';
-import { formValue } from './form-value';
+import { formValue } from '../../core/forms/form-value';
 import { SetupApi, type RecordInput } from './setup-api';
 
 type Site = EntityFields<'site'>;

@@ -1,8 +1,7 @@
 import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, signal } from '@angular/core';
-import { takeUntilDestroyed, toObservable, toSignal } from '@angular/core/rxjs-interop';
+import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
 import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
-import { map } from 'rxjs';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
@@ -21,6 +20,7 @@ import { parseCm } from './offset-form';
 import { PhotoWrites, resizePhoto } from './photo-writes';
 import { QrScan } from './qr-scan';
 import { validated } from '../../core/db/validated';
+import { formValue } from '../../core/forms/form-value';
 
 interface Photo {
   blob: Blob;
@@ -86,9 +86,7 @@ export class InstallPage {
     insertion: new FormControl('', { nonNullable: true }),
     note: new FormControl('', { nonNullable: true }),
   });
-  protected readonly value = toSignal(this.form.valueChanges.pipe(map(() => this.form.getRawValue())), {
-    initialValue: this.form.getRawValue(),
-  });
+  protected readonly value = formValue(this.form);
   protected readonly fixes = signal<Fix[]>([]);
   protected readonly photos = signal<Photo[]>([]);
   /** The printed tag this collar takes (its id becomes the collar's id). */

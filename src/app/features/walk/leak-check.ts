@@ -1,8 +1,7 @@
 import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, input, output, signal } from '@angular/core';
-import { takeUntilDestroyed, toObservable, toSignal } from '@angular/core/rxjs-interop';
+import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
 import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
-import { map } from 'rxjs';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
@@ -14,6 +13,7 @@ import { leakFromTyped, leakSlope, type LeakFit } from './leak-fit';
 import { leakPieces, loggerPresetKey, type LeakPiece } from './leak-file';
 import { parseCm } from './offset-form';
 import { leakPassed } from './start-of-day-items';
+import { formValue } from '../../core/forms/form-value';
 
 export type LeakMethod = 'series' | 'file' | 'slope';
 
@@ -56,9 +56,7 @@ export class LeakCheck {
     slope: new FormControl('', { nonNullable: true }),
     reason: new FormControl('', { nonNullable: true }),
   });
-  private readonly value = toSignal(this.form.valueChanges.pipe(map(() => this.form.getRawValue())), {
-    initialValue: this.form.getRawValue(),
-  });
+  private readonly value = formValue(this.form);
   protected readonly method = computed(() => this.value().method);
   protected readonly settle = computed(() => parseCm(this.value().settle));
   protected readonly fileName = signal('');
