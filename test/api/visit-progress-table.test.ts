@@ -33,10 +33,15 @@ describe('visit_progress table', () => {
     await runner.connect();
     await runner.startTransaction();
     try {
-      const [c] =
-        await runner.query(`SELECT c.id, c.visit_id, (SELECT v2.id FROM visit v2 WHERE v2.campaign_id = v.campaign_id AND v2.id <> v.id AND NOT v2.deleted LIMIT 1) AS other
+      // Other test files add single-visit campaigns to this database, so the pick must insist on a second visit
+      // (and be ordered, so a failure repeats).
+      const [c] = await runner.query(`SELECT c.id, c.visit_id, o.id AS other
                                         FROM closure c JOIN visit v ON v.id = c.visit_id
-                                       WHERE NOT c.deleted AND c.review_state <> 'rejected' AND jsonb_array_length(c.series->'tS') > 0 LIMIT 1`);
+                                        JOIN LATERAL (SELECT v2.id FROM visit v2 WHERE v2.campaign_id = v.campaign_id AND v2.id <> v.id
+                                                         AND NOT v2.deleted ORDER BY v2.id LIMIT 1) o ON true
+                                       WHERE NOT c.deleted AND c.review_state <> 'rejected' AND jsonb_array_length(c.series->'tS') > 0
+                                       ORDER BY c.id LIMIT 1`);
+      expect(c).toBeDefined();
       const before = await runner.query(`SELECT visit_id, closures FROM visit_progress WHERE visit_id = ANY($1) ORDER BY visit_id`, [
         [c.visit_id, c.other],
       ]);
