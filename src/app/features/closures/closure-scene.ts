@@ -4,6 +4,7 @@ import { liveSignal } from '../../core/db/live-query-signal';
 import type { AmbientCheck } from '../../../../shared/flux';
 import { campaignFields } from '../../../../shared/model/field-records';
 import type { SpotInputs } from './closure-flux';
+import { liveOffsetSets } from '../../../../shared/model/live-offset-sets';
 
 /** An earlier closure of the collar with its flux, for "this collar before". */
 export interface PreviousFlux {
@@ -68,7 +69,6 @@ export async function loadScene(db: FluxDb, p: SceneParams): Promise<ClosureScen
     p.visitId ? db.records('visit').get(p.visitId) : Promise.resolve(undefined),
   ]);
   const analyzer = analyzers.find((a) => a.id === p.analyzerId);
-  const superseded = new Set(sets.map((s) => s.supersedesId).filter(Boolean));
   const here = closures.filter((c) => p.visitId !== null && c.visitId === p.visitId).sort((a, b) => startOf(a).localeCompare(startOf(b)));
   const previous = closures
     .flatMap((c) =>
@@ -87,7 +87,7 @@ export async function loadScene(db: FluxDb, p: SceneParams): Promise<ClosureScen
       site: site ?? null,
       collar,
       profiles,
-      offsetSets: sets.filter((s) => !superseded.has(s.id)),
+      offsetSets: liveOffsetSets(sets),
       analyzer: analyzer ?? null,
       ambientChecks: ambientChecks(checks),
       visitAirTempC: visit?.conditions.airTempC ?? null,

@@ -60,3 +60,59 @@ describe('VisitWrites probe replicates on the device', () => {
     expect(await db.records('probeReading').count()).toBe(0);
   });
 });
+
+describe('VisitWrites when saves at one collar overlap', () => {
+  afterEach(() => localStorage.clear());
+  const conditions = {
+    rainNow: false,
+    rain24h: true,
+    standingWater: false,
+    frostSnow: false,
+    trampled: false,
+    animal: false,
+    other: '',
+    airTempC: null,
+  };
+
+  it('when the last offset keypress and the autosave both save the same set before the screen has caught up, then one visit and one offset set are stored', async () => {
+    const { db } = await signedInDevice();
+    const writes = TestBed.inject(VisitWrites);
+    // Both callers hold the screen's copy from before either save: no visit, no set.
+    await Promise.all([writes.saveOffsetSet(target, null, [2.0, 2.1, 1.9, 5.0]), writes.saveOffsetSet(target, null, [2.0, 2.1, 1.9, 5.0])]);
+    expect(await db.records('visit').count()).toBe(1);
+    const sets = await db.records('offsetSet').toArray();
+    expect(sets.map((s) => [s.readingsCm, s.supersedesId])).toEqual([[[2.0, 2.1, 1.9, 5.0], null]]);
+  });
+
+  it('when a corrected set is saved while the screen still shows none, then the correction supersedes the stored set', async () => {
+    const { db } = await signedInDevice();
+    const writes = TestBed.inject(VisitWrites);
+    await Promise.all([writes.saveOffsetSet(target, null, [2.0, 2.1, 1.9, 5.0]), writes.saveOffsetSet(target, null, [2.0, 2.1, 1.9, 2.0])]);
+    const sets = (await db.records('offsetSet').toArray()).sort((a, b) => a.takenAt.localeCompare(b.takenAt) || (a.supersedesId ? 1 : -1));
+    expect(sets.map((s) => s.readingsCm)).toEqual([
+      [2.0, 2.1, 1.9, 5.0],
+      [2.0, 2.1, 1.9, 2.0],
+    ]);
+    expect(sets[1].supersedesId).toBe(sets[0].id);
+  });
+
+  it('when conditions and a skip arrive at a collar with no visit yet, then one visit holds both', async () => {
+    const { db } = await signedInDevice();
+    const writes = TestBed.inject(VisitWrites);
+    await Promise.all([writes.saveConditions(target, null, conditions), writes.skip(target, null, 'Fallen tree across the plot')]);
+    const visits = await db.records('visit').toArray();
+    expect(visits.map((v) => [v.conditions.rain24h, v.skipped, v.skipReason])).toEqual([[true, true, 'Fallen tree across the plot']]);
+  });
+
+  it('when a visit was made by an earlier save long ago and the screen has not shown it, then the next save uses it', async () => {
+    const { db } = await signedInDevice();
+    const writes = TestBed.inject(VisitWrites);
+    await writes.saveConditions(target, null, conditions);
+    // Longer than any in-memory "recently created" window: the device itself must be asked.
+    await new Promise((r) => setTimeout(r, 2_100));
+    await writes.saveOffsetSet(target, null, [1.6, 1.7, 1.5, 1.6]);
+    const [visit] = await db.records('visit').toArray();
+    expect(await db.records('visit').count()).toBe(1);
+    expect((await db.records('offsetSet').toArray()).map((s) => s.visitId)).toEqual([visit.id]);
+  });
+});

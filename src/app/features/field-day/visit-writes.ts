@@ -2,9 +2,12 @@ import { Injectable, inject } from '@angular/core';
 import { AuthStore } from '../../core/auth/auth-store';
 import type { LocalRecord } from '../../core/db/db-schema';
 import type { EntityFields } from '../../../../shared/model/entities';
+import { DeviceDb } from '../../core/db/device-db';
 import { RecordMissingError } from '../../core/db/outbox-writer';
 import { validated } from '../../core/db/validated';
+import { Turns } from '../../core/async/turns';
 import { LocalWrites } from '../../core/sync/local-writes';
+import { offsetSetAtVisit, visitInRound } from './visit-at-collar';
 
 export interface VisitTarget {
   siteId: string;
@@ -22,30 +25,50 @@ export type ProbeValues = Pick<EntityFields<'probeReading'>, 'soilTemps' | 'mois
 /** A visit as most writes need it: its id (closures hand theirs over too). */
 type VisitRef = { id: string };
 
+/** The one visit of a collar in a round, as a key. */
+const visitKey = (t: VisitTarget) => `${t.campaignId}:${t.round}:${t.collarId}`;
+
+const sameReadings = (a: readonly number[], b: readonly number[]) => a.length === b.length && a.every((v, i) => v === b[i]);
+
 /**
  * Everything a visit writes, through the one local write path (record + outbox op in one Dexie
  * transaction). The visit record is made on the first save at a collar, so nothing is lost when
- * the crew saves conditions, offsets and probes in any order.
+ * the crew saves conditions, offsets and probes in any order. A write that first asks what the
+ * device holds (is there a visit, which offset set counts) takes its turn per visit and asks
+ * IndexedDB, not the screen's copy, which may be a save behind: a keypress and an autosave at
+ * once then make one record, never two.
  */
 @Injectable({ providedIn: 'root' })
 export class VisitWrites {
   private readonly writes = inject(LocalWrites);
+  private readonly deviceDb = inject(DeviceDb);
   private readonly auth = inject(AuthStore);
-  private readonly creating = new Map<string, Promise<VisitRef>>();
-  private readonly probeSaves = new Map<string, Promise<void>>();
+  private readonly turns = new Turns();
 
-  /** The visit at this collar in this round: the existing one, or a new one (made once even on a double tap). */
+  /**
+   * The visit at this collar in this round: the one given, else the one the device holds (taking
+   * `extra` in), else a new one with `extra`.
+   */
   async ensureVisit(target: VisitTarget, existing: VisitRef | null, extra: Partial<EntityFields<'visit'>> = {}): Promise<VisitRef> {
     if (existing) return existing;
-    const key = `${target.campaignId}:${target.round}:${target.collarId}`;
-    let pending = this.creating.get(key);
-    if (!pending) {
+    return this.turns.run(`visit:${visitKey(target)}`, async () => {
+      const stored = await this.storedVisit(target);
+      if (stored) {
+        if (Object.keys(extra).length) {
+          validated('visit', { ...target, arrivedAt: stored.arrivedAt, ...extra });
+          await this.writes.edit('visit', stored.id, extra);
+        }
+        return stored;
+      }
       const fields = validated('visit', { ...target, crewId: this.auth.user()?.id ?? null, arrivedAt: new Date().toISOString(), ...extra });
-      pending = this.writes.create('visit', fields);
-      this.creating.set(key, pending);
-      pending.finally(() => setTimeout(() => this.creating.delete(key), 2000)).catch(() => undefined);
-    }
-    return pending;
+      return this.writes.create('visit', fields);
+    });
+  }
+
+  private storedVisit(target: VisitTarget): Promise<LocalRecord<'visit'> | null> {
+    return this.deviceDb.run(async (db) =>
+      visitInRound(await db.records('visit').where('collarId').equals(target.collarId).toArray(), target.campaignId, target.round),
+    );
   }
 
   async saveConditions(target: VisitTarget, visit: LocalRecord<'visit'> | null, conditions: VisitConditions): Promise<void> {
@@ -57,24 +80,28 @@ export class VisitWrites {
     await this.writes.edit('visit', visit.id, { conditions: checked.conditions });
   }
 
-  /** A new offset set; a second set at the same visit is a correction that supersedes the first (both are kept). */
-  async saveOffsetSet(
-    target: VisitTarget,
-    visit: VisitRef | null,
-    readingsCm: number[],
-    previousAtVisit: { id: string } | null,
-  ): Promise<void> {
-    const v = await this.ensureVisit(target, visit);
-    const fields = validated('offsetSet', {
-      siteId: target.siteId,
-      visitId: v.id,
-      collarId: target.collarId,
-      campaignId: target.campaignId,
-      takenAt: new Date().toISOString(),
-      readingsCm,
-      supersedesId: previousAtVisit?.id ?? null,
+  /**
+   * An offset set at the visit. The set that counts there now (read from the device in this save's
+   * turn) is superseded by the new one (both are kept); the same readings again change nothing.
+   */
+  saveOffsetSet(target: VisitTarget, visit: VisitRef | null, readingsCm: number[]): Promise<void> {
+    return this.turns.run(`offsets:${visitKey(target)}`, async () => {
+      const v = await this.ensureVisit(target, visit);
+      const current = await this.deviceDb.run(async (db) =>
+        offsetSetAtVisit(await db.records('offsetSet').where('visitId').equals(v.id).toArray(), v.id),
+      );
+      if (current && sameReadings(current.readingsCm, readingsCm)) return;
+      const fields = validated('offsetSet', {
+        siteId: target.siteId,
+        visitId: v.id,
+        collarId: target.collarId,
+        campaignId: target.campaignId,
+        takenAt: new Date().toISOString(),
+        readingsCm,
+        supersedesId: current?.id ?? null,
+      });
+      await this.writes.create('offsetSet', fields);
     });
-    await this.writes.create('offsetSet', fields);
   }
 
   /**
@@ -83,41 +110,32 @@ export class VisitWrites {
    * saving one never overwrites another. Saves of one id run one after the other.
    */
   saveProbe(target: VisitTarget, visit: VisitRef | null, reading: ProbeValues, replicateId: string): Promise<void> {
-    const previous = this.probeSaves.get(replicateId) ?? Promise.resolve();
-    const next = previous
-      .catch(() => undefined)
-      .then(async () => {
-        const v = await this.ensureVisit(target, visit);
-        const fields = validated('probeReading', {
-          siteId: target.siteId,
-          visitId: v.id,
-          collarId: target.collarId,
-          campaignId: target.campaignId,
-          takenAt: new Date().toISOString(),
-          takenById: this.auth.user()?.id ?? null,
-          ...reading,
-        });
-        const { takenAt: _at, takenById: _by, ...values } = fields;
-        try {
-          await this.writes.edit('probeReading', replicateId, values);
-        } catch (err) {
-          if (!(err instanceof RecordMissingError)) throw err;
-          await this.writes.create('probeReading', fields, { id: replicateId });
-        }
+    return this.turns.run(`probe:${replicateId}`, async () => {
+      const v = await this.ensureVisit(target, visit);
+      const fields = validated('probeReading', {
+        siteId: target.siteId,
+        visitId: v.id,
+        collarId: target.collarId,
+        campaignId: target.campaignId,
+        takenAt: new Date().toISOString(),
+        takenById: this.auth.user()?.id ?? null,
+        ...reading,
       });
-    this.probeSaves.set(replicateId, next);
-    next
-      .finally(() => {
-        if (this.probeSaves.get(replicateId) === next) this.probeSaves.delete(replicateId);
-      })
-      .catch(() => undefined);
-    return next;
+      const { takenAt: _at, takenById: _by, ...values } = fields;
+      try {
+        await this.writes.edit('probeReading', replicateId, values);
+      } catch (err) {
+        if (!(err instanceof RecordMissingError)) throw err;
+        await this.writes.create('probeReading', fields, { id: replicateId });
+      }
+    });
   }
 
   /** A wrong replicate goes: deleted here, a tombstone on the server after the next sync. */
-  async deleteProbe(replicateId: string): Promise<void> {
-    await this.probeSaves.get(replicateId)?.catch(() => undefined);
-    await this.writes.remove('probeReading', replicateId);
+  deleteProbe(replicateId: string): Promise<void> {
+    return this.turns.run(`probe:${replicateId}`, async () => {
+      await this.writes.remove('probeReading', replicateId);
+    });
   }
 
   async skip(target: VisitTarget, visit: LocalRecord<'visit'> | null, reason: string): Promise<void> {

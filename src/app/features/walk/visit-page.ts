@@ -191,7 +191,7 @@ export class VisitPage {
   }
 
   protected saveOffsets(readings: number[]): Promise<void> {
-    return this.run('Offset set saved on this device.', (t, v) => this.writes.saveOffsetSet(t, v.visit, readings, v.offsetSet));
+    return this.run('Offset set saved on this device.', (t, v) => this.writes.saveOffsetSet(t, v.visit, readings));
   }
 
   protected saveProbe(p: ProbeSave): Promise<void> {

@@ -4,6 +4,8 @@ import { liveSignal } from '../../core/db/live-query-signal';
 import type { MoistureCalibration } from '../../../../shared/model/derived';
 import { siteFields } from '../../../../shared/model/site-layout';
 import { collarSettling, newestDisturbance, siteSettlingLimits, type SettlingNote } from '../../../../shared/model/collar-settling';
+import { liveOffsetSets } from '../../../../shared/model/live-offset-sets';
+import { newest, offsetSetAtVisit, visitInRound } from '../field-day/visit-at-collar';
 
 export type { SettlingNote };
 
@@ -58,9 +60,6 @@ export function settlingNote(
   return collarSettling(newestDisturbance(events, collar.installedOn), siteSettlingLimits.parse(site ?? {}), site?.timezone ?? 'UTC', now);
 }
 
-/** The record with the latest ISO time (or date) in `at`; null for an empty list. */
-const newest = <R>(list: readonly R[], at: (r: R) => string): R | null => [...list].sort((a, b) => at(b).localeCompare(at(a)))[0] ?? null;
-
 export async function loadVisit(db: FluxDb, key: VisitKey): Promise<VisitView | null> {
   const collar = await db.records('collar').get(key.collarId);
   if (!collar) return null;
@@ -79,20 +78,10 @@ export async function loadVisit(db: FluxDb, key: VisitKey): Promise<VisitView | 
   ]);
   const treatmentId = collar.treatmentId ?? plot?.treatmentId ?? null;
   const treatment = treatmentId ? await db.records('treatment').get(treatmentId) : undefined;
-  const visit = newest(
-    visits.filter((v) => v.campaignId === key.campaignId && v.round === key.round),
-    (v) => v.arrivedAt,
-  );
-  const superseded = new Set(sets.map((s) => s.supersedesId).filter(Boolean));
-  const current = sets.filter((s) => !superseded.has(s.id));
-  const offsetSet = visit
-    ? newest(
-        current.filter((s) => s.visitId === visit.id),
-        (s) => s.takenAt,
-      )
-    : null;
+  const visit = visitInRound(visits, key.campaignId, key.round);
+  const offsetSet = visit ? offsetSetAtVisit(sets, visit.id) : null;
   const lastOffsetSet = newest(
-    current.filter((s) => !visit || s.visitId !== visit.id),
+    liveOffsetSets(sets).filter((s) => !visit || s.visitId !== visit.id),
     (s) => s.takenAt,
   );
   const visitProbes = visit
