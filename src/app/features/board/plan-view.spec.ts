@@ -17,7 +17,7 @@ const campaign = {
   dueOffset: true,
   dueClosures: 1,
   dueProbes: true,
-  routes: [],
+  routes: [{ routeId: 'route-b', crewIds: ['crew-1'], direction: 'reverse' }],
   locked: false,
   // 20:00–23:00 UTC on 1 June is 08:00–11:00 on 2 June in Auckland (NZST, UTC+12).
   roundWindows: [{ round: 1, from: '2026-06-01T20:00:00.000Z', to: '2026-06-01T23:00:00.000Z' }],
@@ -38,9 +38,12 @@ async function render() {
     providers: [BoardStore, provideHttpClient(), provideHttpClientTesting(), { provide: BoardApi, useValue: api }],
   });
   const store = TestBed.inject(BoardStore);
-  store.loadProgress = async () => undefined;
   store.campaigns.set([campaign]);
   store.campaignId.set('camp');
+  store.routes.set([
+    { id: 'route-a', siteId: 'site-a', name: 'Upper terrace', collarIds: [] },
+    { id: 'route-b', siteId: 'site-a', name: 'Creek bank', collarIds: [] },
+  ] as unknown as ReturnType<BoardStore['routes']>);
   const fixture = TestBed.createComponent(PlanView);
   await fixture.whenStable();
   fixture.detectChanges();
@@ -58,5 +61,38 @@ describe('Board plan: round windows in the site’s zone', () => {
     const { fixture, sent } = await render();
     await (fixture.componentInstance as unknown as { saveAssignment(): Promise<void> }).saveAssignment();
     expect(sent[0]['roundWindows']).toEqual([{ round: 1, from: '2026-06-01T20:00:00.000Z', to: '2026-06-01T23:00:00.000Z' }]);
+  });
+});
+
+describe('Board plan: routes of the campaign', () => {
+  const selects = (el: HTMLElement) =>
+    [...el.querySelectorAll<HTMLElement>('.routes mat-select')].map((s) => [
+      s.getAttribute('aria-disabled') ?? 'false',
+      s.textContent?.trim(),
+    ]);
+
+  it('when a route is not walked, then its crew and direction are shut until it is ticked', async () => {
+    const { fixture, el } = await render();
+    expect(selects(el)).toEqual([
+      ['true', ''],
+      ['true', 'Alternate each round'],
+      ['false', ''],
+      ['false', 'Always reverse'],
+    ]);
+    el.querySelector<HTMLInputElement>('[data-route="Upper terrace"] input[type="checkbox"]')!.click();
+    fixture.detectChanges();
+    await fixture.whenStable();
+    expect(selects(el).map(([disabled]) => disabled)).toEqual(['false', 'false', 'false', 'false']);
+  });
+
+  it('when a route is ticked and the plan saved, then both routes go out, each with its crew and direction', async () => {
+    const { fixture, el, sent } = await render();
+    el.querySelector<HTMLInputElement>('[data-route="Upper terrace"] input[type="checkbox"]')!.click();
+    fixture.detectChanges();
+    await (fixture.componentInstance as unknown as { saveAssignment(): Promise<void> }).saveAssignment();
+    expect(sent[0]['routes']).toEqual([
+      { routeId: 'route-a', crewIds: [], direction: 'alternate' },
+      { routeId: 'route-b', crewIds: ['crew-1'], direction: 'reverse' },
+    ]);
   });
 });
