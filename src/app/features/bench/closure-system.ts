@@ -1,9 +1,12 @@
 import { DecimalPipe } from '@angular/common';
-import { ChangeDetectionStrategy, Component, computed, input, linkedSignal, output } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, input, output } from '@angular/core';
+import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
+import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatSelectModule } from '@angular/material/select';
 import { flagAdvice } from '../../../../shared/flux';
+import { formValue } from '../../core/forms/form-value';
 import { SiteTimePipe } from '../../core/time/site-time-pipe';
 import type { ClosureDetail } from '../../../../shared/bench/review-wire';
 import type { Decision } from './closure-view';
@@ -22,7 +25,7 @@ const PROFILE_SOURCE: Record<string, string> = {
  */
 @Component({
   selector: 'fw-closure-system',
-  imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatSelectModule, SiteTimePipe],
+  imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatSelectModule, ReactiveFormsModule, SiteTimePipe],
   template: `
     @let r = c().results;
     <p data-testid="closure-system">Chamber “{{ r.profileName ?? '?' }}”@if (r.profileSource) { ({{ profileSource(r.profileSource) }}) }
@@ -36,16 +39,16 @@ const PROFILE_SOURCE: Record<string, string> = {
       </ul>
     }
     @if (systems(); as s) {
-      <form class="decide" aria-label="Chamber system" (submit)="$event.preventDefault(); correct()">
+      <form class="decide" aria-label="Chamber system" [formGroup]="system" (ngSubmit)="correct()">
         <mat-form-field appearance="outline">
           <mat-label>Chamber profile</mat-label>
-          <mat-select data-testid="system-profile" [value]="profileId()" (selectionChange)="profileId.set($event.value)">
+          <mat-select data-testid="system-profile" formControlName="profileId">
             @for (p of s.profiles; track p.id) { <mat-option [value]="p.id">{{ p.name }} (from {{ p.validFrom }})</mat-option> }
           </mat-select>
         </mat-form-field>
         <mat-form-field appearance="outline">
           <mat-label>Analyzer</mat-label>
-          <mat-select data-testid="system-analyzer" [value]="analyzerId()" (selectionChange)="analyzerId.set($event.value)">
+          <mat-select data-testid="system-analyzer" formControlName="analyzerId">
             @for (a of s.analyzers; track a.id) { <mat-option [value]="a.id">{{ a.name }}@if (a.serial) { ({{ a.serial }}) }</mat-option> }
           </mat-select>
         </mat-form-field>
@@ -69,11 +72,29 @@ export class ClosureSystem {
   protected readonly c = computed(() => this.detail().closure);
   protected readonly flags = computed(() => this.c().flags ?? []);
   protected readonly systems = computed(() => this.detail().systems ?? null);
-  protected readonly profileId = linkedSignal<string | null>(() => this.c().profileId ?? null);
-  protected readonly analyzerId = linkedSignal<string | null>(() => this.c().analyzerId ?? null);
-  protected readonly changed = computed(
-    () => this.profileId() !== (this.c().profileId ?? null) || this.analyzerId() !== (this.c().analyzerId ?? null),
-  );
+  /** The lab's correction: starts at what the closure names, again whenever another closure (or a newer copy) arrives. */
+  protected readonly system = new FormGroup({
+    profileId: new FormControl<string | null>(null),
+    analyzerId: new FormControl<string | null>(null),
+  });
+  private readonly chosen = formValue(this.system);
+  /** The fields the lab changed, against the closure as shown. */
+  private readonly changes = computed(() => {
+    const c = this.c();
+    const v = this.chosen();
+    const fields: Decision['fields'] = {};
+    if (v.profileId !== (c.profileId ?? null)) fields.profileId = v.profileId;
+    if (v.analyzerId !== (c.analyzerId ?? null)) fields.analyzerId = v.analyzerId;
+    return fields;
+  });
+  protected readonly changed = computed(() => Object.keys(this.changes()).length > 0);
+
+  constructor() {
+    toObservable(this.c)
+      .pipe(takeUntilDestroyed())
+      .subscribe((c) => this.system.setValue({ profileId: c.profileId ?? null, analyzerId: c.analyzerId ?? null }));
+  }
+
   protected readonly analyzerName = computed(() => {
     const id = this.c().analyzerId;
     return id ? (this.systems()?.analyzers.find((a) => a.id === id)?.name ?? 'unknown') : 'none named';
@@ -101,9 +122,7 @@ export class ClosureSystem {
   }
 
   protected correct(): void {
-    const fields: Decision['fields'] = {};
-    if (this.profileId() !== (this.c().profileId ?? null)) fields.profileId = this.profileId();
-    if (this.analyzerId() !== (this.c().analyzerId ?? null)) fields.analyzerId = this.analyzerId();
+    const fields = this.changes();
     if (Object.keys(fields).length) this.decide.emit({ fields });
   }
 }

@@ -1,9 +1,11 @@
 import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, OnDestroy, inject, input, signal } from '@angular/core';
+import { FormControl, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
+import { toSignal } from '@angular/core/rxjs-interop';
 import { DATA_LICENCES } from '../../../../../shared/results/data-licences';
 import { serverMessage } from '../../../core/api/api-error';
 import { ResultsApi, type ClosureSelection, type ExportJob } from './results-api';
@@ -13,7 +15,7 @@ const POLL_MS = 1000;
 /** Starts the export job, shows its progress from the job API, and offers the zipped data package when it is done. */
 @Component({
   selector: 'fw-export-panel',
-  imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatProgressBarModule, MatSelectModule],
+  imports: [DecimalPipe, MatButtonModule, MatFormFieldModule, MatProgressBarModule, MatSelectModule, ReactiveFormsModule],
   template: `
     <p>The data package holds one CSV per table (collars and events, visits, offset sets, probe readings, closures with raw and review
       results and flags, raw series, temperature logs, aggregates), <code>datapackage.json</code> with table schemas and units,
@@ -21,12 +23,12 @@ const POLL_MS = 1000;
     <!-- The hint runs to two lines: the field grows with it instead of sliding it under the button. -->
     <mat-form-field appearance="outline" subscriptSizing="dynamic">
       <mat-label>Data licence</mat-label>
-      <mat-select [value]="licence()" (selectionChange)="licence.set($event.value)">
+      <mat-select [formControl]="licence">
         @for (l of licences; track l.id) { <mat-option [value]="l.id">{{ l.id }} — {{ l.title }}</mat-option> }
       </mat-select>
       <mat-hint>Needed to build: written into datapackage.json and the EML, so a repository can publish the data.</mat-hint>
     </mat-form-field>
-    <p><button mat-flat-button type="button" (click)="start()" [disabled]="running() || !licence()">Build data package</button></p>
+    <p><button mat-flat-button type="button" (click)="start()" [disabled]="running() || !chosenLicence()">Build data package</button></p>
     @if (job(); as j) {
       <p role="status" data-testid="export-status">{{ j.state }} · {{ j.done }} / {{ j.total ?? '?' }}
 </p>
@@ -46,7 +48,8 @@ export class ExportPanel implements OnDestroy {
   readonly selection = input.required<ClosureSelection>();
   readonly model = input.required<string>();
   protected readonly licences = DATA_LICENCES;
-  protected readonly licence = signal<string>('');
+  protected readonly licence = new FormControl('', { nonNullable: true });
+  protected readonly chosenLicence = toSignal(this.licence.valueChanges, { initialValue: this.licence.value });
   protected readonly job = signal<ExportJob | null>(null);
   protected readonly running = signal(false);
   protected readonly problem = signal('');
@@ -56,7 +59,7 @@ export class ExportPanel implements OnDestroy {
     this.running.set(true);
     this.problem.set('');
     try {
-      const { jobId } = await this.api.startExport(this.siteId(), this.selection(), this.model(), this.licence());
+      const { jobId } = await this.api.startExport(this.siteId(), this.selection(), this.model(), this.licence.value);
       await this.poll(jobId);
     } catch (err) {
       this.problem.set(serverMessage(err, 'The export could not be started'));
