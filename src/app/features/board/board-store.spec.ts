@@ -6,6 +6,13 @@ import { rememberOnDevice, testUser } from '../../core/auth/testing/demo-session
 import { BoardStore } from './board-store';
 
 const settle = () => new Promise((r) => setTimeout(r, 0));
+/** Waits (a few macrotasks at most) until the store shows what the test expects next. */
+async function until(ready: () => boolean): Promise<void> {
+  for (let i = 0; i < 20 && !ready(); i++) {
+    await settle();
+    TestBed.tick();
+  }
+}
 
 function campaign(id: string, siteId: string, locked = false) {
   return { id, siteId, name: `Campaign ${id}`, startsOn: '2026-05-01', endsOn: '2026-05-31', rounds: 1, locked, routes: [], rev: 1 };
@@ -43,13 +50,23 @@ describe('BoardStore', () => {
     await settle();
     http.expectOne('/api/sites/site-a/field-members').flush({ items: [] });
     await settle();
-    http.expectOne((r) => r.url === '/api/campaigns/open/progress').flush({ campaignId: 'open', collars: [] });
-    await settle();
     http.match((r) => r.url === '/api/collars').forEach((r) => r.flush({ items: [], total: 0 }));
     await settle();
     TestBed.tick();
     expect(store.campaigns().map((c) => c.id)).toEqual(['closed', 'open']);
     expect(store.campaignId()).toBe('open');
+    // The chosen campaign's progress is read once it is chosen, and read again for another round.
+    http.expectOne((r) => r.url === '/api/campaigns/open/progress' && !r.params.has('round')).flush({ campaignId: 'open', collars: [] });
+    await until(() => store.progress() !== null);
+    expect(store.progress()).toEqual({ campaignId: 'open', collars: [] });
+    store.round.set(1);
+    TestBed.tick();
+    await settle();
+    const roundOne = http.expectOne((r) => r.url === '/api/campaigns/open/progress' && r.params.get('round') === '1');
+    expect(store.progress()).toEqual({ campaignId: 'open', collars: [] });
+    roundOne.flush({ campaignId: 'open', collars: [{ collarId: 'k1' }] });
+    await until(() => store.progress()?.collars.length === 1);
+    expect(store.progress()?.collars).toEqual([{ collarId: 'k1' }]);
   });
 
   it('when another site is chosen before the first site answers, then the first answer is dropped, not shown', async () => {

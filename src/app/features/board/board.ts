@@ -44,7 +44,7 @@ import { RoundSelect } from './round-select';
         </mat-select>
       </mat-form-field>
       @if (store.campaign(); as c) {
-        <fw-round-select [rounds]="c.rounds" [value]="store.round()" (chosen)="store.round.set($event); store.loadProgress()" />
+        <fw-round-select [rounds]="c.rounds" [value]="store.round()" (chosen)="store.round.set($event)" />
       }
       <button mat-stroked-button type="button" (click)="store.loadSite()" [disabled]="store.loading()">Refresh</button>
       @if (store.campaign(); as c) {

@@ -97,7 +97,7 @@ export class RouteOrder {
     try {
       const saved = await this.api.update('route', r.id, r.rev, { collarIds: this.order() });
       this.store.replaceRoute(saved);
-      await this.store.loadProgress();
+      this.store.reloadProgress();
       this.status.set(`Order of "${saved.name}" saved.`);
     } catch (err) {
       this.problem.set(serverMessage(err, 'The order could not be saved'));
