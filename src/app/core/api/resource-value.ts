@@ -1,5 +1,5 @@
 import { computed, type Resource, type Signal } from '@angular/core';
-import { serverMessage } from '../../core/api/api-error';
+import { serverMessage } from './api-error';
 
 /** A resource's value, or `empty` while it has none (the first load, or a failed one: `loadProblem` says why). */
 export function loadedOr<T>(res: Resource<T | undefined>, empty: T): Signal<T> {

@@ -21,7 +21,7 @@ import type { StoredRecord } from '../../../../shared/model/stored-record';
 import { serverMessage } from '../../core/api/api-error';
 import { CalibrationForm, type CalibrationEntry } from '../calibration/calibration-form';
 import { siteTime } from '../calibration/site-clock';
-import { loadedOr, loadProblem } from './resource-value';
+import { loadedOr, loadProblem } from '../../core/api/resource-value';
 import { SetupApi } from './setup-api';
 
 type Check = StoredRecord<'analyzerCheck'>;

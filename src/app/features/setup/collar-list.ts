@@ -10,7 +10,7 @@ import { MatSelectModule, type MatSelectChange } from '@angular/material/select'
 import { narrowScreen } from '../../core/layout/narrow-screen';
 import { serverMessage } from '../../core/api/api-error';
 import type { StoredRecord } from '../../../../shared/model/stored-record';
-import { loadedOr, loadProblem } from './resource-value';
+import { loadedOr, loadProblem } from '../../core/api/resource-value';
 import { SetupApi } from './setup-api';
 
 type Collar = StoredRecord<'collar'>;

@@ -5,7 +5,7 @@ import { MatSlideToggleModule } from '@angular/material/slide-toggle';
 import { MatTableModule } from '@angular/material/table';
 import { RouterLink } from '@angular/router';
 import { serverMessage } from '../../core/api/api-error';
-import { loadedOr, loadProblem } from './resource-value';
+import { loadedOr, loadProblem } from '../../core/api/resource-value';
 import { SetupApi, type UserRow } from './setup-api';
 
 const ROLES = ['crew', 'lead', 'lab', 'admin'] as const;

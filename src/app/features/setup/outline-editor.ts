@@ -8,7 +8,7 @@ import { fieldProblems, serverMessage } from '../../core/api/api-error';
 import { MIN_VERTICES, outlineText, parseOutline, toOutline, toVertices, type Vertex } from './outline-geometry';
 import { OutlineMap, type MapCollar, type MapPlot } from './outline-map';
 import type { StoredRecord } from '../../../../shared/model/stored-record';
-import { loadedOr } from './resource-value';
+import { loadedOr } from '../../core/api/resource-value';
 import { SetupApi } from './setup-api';
 
 type Plot = StoredRecord<'plot'>;

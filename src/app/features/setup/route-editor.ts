@@ -10,7 +10,7 @@ import { routeFields } from '../../../../shared/model/field-records';
 import { serverMessage } from '../../core/api/api-error';
 import { issuesByField } from './record-fields';
 import type { StoredRecord } from '../../../../shared/model/stored-record';
-import { loadedOr, loadProblem } from './resource-value';
+import { loadedOr, loadProblem } from '../../core/api/resource-value';
 import { SetupApi } from './setup-api';
 
 type Route = StoredRecord<'route'>;

@@ -16,7 +16,7 @@ import { ProfileVersion } from './profile-version';
 import type { ColumnDef } from './record-fields';
 import { RecordTable } from './record-table';
 import { RouteEditor } from './route-editor';
-import { loadedOr, loadProblem } from './resource-value';
+import { loadedOr, loadProblem } from '../../core/api/resource-value';
 import { SetupApi } from './setup-api';
 import { SiteForm } from './site-form';
 
