@@ -1,8 +1,7 @@
 import type { EntityTarget, ObjectLiteral } from 'typeorm';
 import type { Role } from '../../shared/auth/roles';
 import { CLOSURE_FIT_DATA_FIELDS, CLOSURE_REVIEW_FIELDS, CLOSURE_SYSTEM_FIELDS } from '../../shared/model/field-records';
-import type { EntityName } from '../../shared/model/entities';
-import { validatedAs } from './wire';
+import type { EntityFields, EntityName } from '../../shared/model/entities';
 import { CampaignEntity } from '../campaigns/campaign.entity';
 import { RouteEntity } from '../campaigns/route.entity';
 import { VisitEntity } from '../campaigns/visit.entity';
@@ -24,18 +23,19 @@ import { TemperatureLogEntity } from '../temperature-logs/temperature-log.entity
 export type WriteAction = 'create' | 'update' | 'delete';
 
 /** Who may write what. Finer rules (which fields) return a readable reason, or null when allowed. */
-export interface EntityRules {
+export interface EntityRules<E extends EntityName = EntityName> {
   create: readonly Role[];
   update: readonly Role[];
   delete: readonly Role[];
-  fieldRule?: (roles: readonly Role[], action: WriteAction, changed: readonly string[], next: Record<string, unknown>) => string | null;
+  /** `next` is the record as it would be stored, already through its entity's schema. */
+  fieldRule?(roles: readonly Role[], action: WriteAction, changed: readonly string[], next: EntityFields<E>): string | null;
 }
 
-export interface EntityDef {
-  name: EntityName;
+export interface EntityDef<E extends EntityName = EntityName> {
+  name: E;
   target: EntityTarget<ObjectLiteral>;
   table: string;
-  rules: EntityRules;
+  rules: EntityRules<E>;
   /**
    * References that must point at a live record of the same site, by path: `visitId`, or a list
    * (`collarIds[]`, `routes[].routeId`).
@@ -53,7 +53,7 @@ export interface EntityDef {
    * Client fields the server sets because of an edit (after the field rules, so the editor need
    * not be allowed to set them): e.g. a raw change to a reviewed closure sends it back to review.
    */
-  follows?: (current: Record<string, unknown>, changed: readonly string[]) => Record<string, unknown>;
+  follows?(current: EntityFields<E>, changed: readonly string[]): Partial<EntityFields<E>>;
   /** Fields fixed at creation. */
   immutable: readonly string[];
   /** Fixed fields a move may change (writeRecord's `move` option, never a plain edit or a sync op). */
@@ -75,12 +75,12 @@ const UNDER_VISIT = { ref: 'visitId', target: 'visit', same: ['collarId', 'campa
 const has = (roles: readonly Role[], ...any: Role[]) => roles.some((r) => any.includes(r));
 
 /** Crew may change a collar's notes and report it damaged; geometry and lifecycle are the lead's. */
-function collarFieldRule(roles: readonly Role[], action: WriteAction, changed: readonly string[], next: Record<string, unknown>) {
+function collarFieldRule(roles: readonly Role[], action: WriteAction, changed: readonly string[], next: EntityFields<'collar'>) {
   if (action !== 'update' || has(roles, 'lead', 'admin')) return null;
   const allowed = ['notes', 'status', 'statusReason'];
   const bad = changed.filter((f) => !allowed.includes(f));
   if (bad.length) return `Only a lead may change ${bad.join(', ')} of a collar`;
-  if (changed.includes('status') && validatedAs('collar', next).status !== 'damaged') return 'Crew may only report a collar damaged';
+  if (changed.includes('status') && next.status !== 'damaged') return 'Crew may only report a collar damaged';
   return null;
 }
 
@@ -89,10 +89,13 @@ function collarFieldRule(roles: readonly Role[], action: WriteAction, changed: r
  * chamber system (profile, analyzer) is the crew's pick that the lab may correct. Admins may
  * leave points out of a fit (CLOSURE_FIT_DATA_FIELDS) and change nothing else of a closure.
  */
-function closureFieldRule(roles: readonly Role[], action: WriteAction, changed: readonly string[], next: Record<string, unknown>) {
+function closureFieldRule(roles: readonly Role[], action: WriteAction, changed: readonly string[], next: EntityFields<'closure'>) {
   // A device creating a closure sends the review fields at their defaults; only a real decision counts.
-  const isDecision = (f: string) =>
-    action !== 'create' || (next[f] !== null && next[f] !== 'unreviewed' && !(Array.isArray(next[f]) && !(next[f] as unknown[]).length));
+  const values = new Map<string, unknown>(Object.entries(next));
+  const isDecision = (f: string) => {
+    const v = values.get(f);
+    return action !== 'create' || (v !== null && v !== undefined && v !== 'unreviewed' && !(Array.isArray(v) && !v.length));
+  };
   const fitData = (f: string) => (CLOSURE_FIT_DATA_FIELDS as readonly string[]).includes(f);
   if (action === 'update' && has(roles, 'admin') && !has(roles, 'lab', 'crew', 'lead')) {
     const other = changed.filter((f) => !fitData(f));
@@ -118,8 +121,8 @@ function closureFieldRule(roles: readonly Role[], action: WriteAction, changed: 
  * changes, the closure goes back to `unreviewed` (the lab's window and model stay as its starting
  * point); the review history records who changed which field (closures/closure-history.ts).
  */
-export function reviewResetOnRawChange(current: Record<string, unknown>, changed: readonly string[]): Record<string, unknown> {
-  if (validatedAs('closure', current).reviewState === 'unreviewed') return {};
+export function reviewResetOnRawChange(current: EntityFields<'closure'>, changed: readonly string[]): Partial<EntityFields<'closure'>> {
+  if (current.reviewState === 'unreviewed') return {};
   const raw = changed.filter((f) => !(CLOSURE_REVIEW_FIELDS as readonly string[]).includes(f));
   return raw.length ? { reviewState: 'unreviewed', reviewReason: null } : {};
 }
@@ -128,17 +131,17 @@ function offsetFieldRule(_roles: readonly Role[], action: WriteAction) {
   return action === 'update' ? 'An offset set is never edited: record a new set that supersedes it (supersedesId)' : null;
 }
 
-function def(
-  name: EntityName,
+function def<E extends EntityName>(
+  name: E,
   target: EntityTarget<ObjectLiteral>,
   table: string,
-  rules: EntityRules,
-  extra: Partial<Omit<EntityDef, 'name' | 'target' | 'table' | 'rules'>> = {},
-): EntityDef {
+  rules: EntityRules<E>,
+  extra: Partial<Omit<EntityDef<E>, 'name' | 'target' | 'table' | 'rules'>> = {},
+): EntityDef<E> {
   return { name, target, table, rules, refs: {}, underCampaign: false, immutable: ['siteId'], order: { id: 'ASC' }, ...extra };
 }
 
-export const ENTITY_DEFS: Record<EntityName, EntityDef> = {
+export const ENTITY_DEFS: { [E in EntityName]: EntityDef<E> } = {
   site: def(
     'site',
     SiteEntity,

@@ -10,7 +10,7 @@ import { ENTITY_DEFS, type EntityDef, type WriteAction } from './entity-registry
 import { insertRows } from './insert-rows';
 import { deriveFields, warningsFor } from './record-derivations';
 import { checkReferences, forgetReference, lockedCampaignMessage } from './record-references';
-import { sameValue, toWireRecord, type SiteScoped, type WireRecord } from './wire';
+import { sameValue, toWireRecord, validatedAs, type SiteScoped, type WireRecord } from './wire';
 import { noRecordMessage, rejected, type WriteOutcome } from './write-outcome';
 
 export type { WriteOutcome } from './write-outcome';
@@ -299,7 +299,7 @@ function conflict(fields: string[], server: WireRecord): WriteOutcome {
 }
 
 function ruleDenied(ctx: Ctx, action: WriteAction, changed: string[], next: Record<string, unknown>): WriteOutcome | null {
-  const reason = ctx.d.rules.fieldRule?.(ctx.actor.roles, action, changed, next);
+  const reason = ctx.d.rules.fieldRule?.(ctx.actor.roles, action, changed, validatedAs(ctx.d.name, next));
   return reason ? rejected(403, reason) : null;
 }
 
@@ -343,7 +343,7 @@ async function updateRecord(ctx: Ctx, op: WriteOp, current: WireRecord, incoming
     (reviewOnly(d, changed) ? null : await lockedCampaignMessage(ctx.em, d, next)) ??
     (await checkGuards({ em: ctx.em, entity: d.name, id: op.id, action: 'update', current, next, changed }));
   if (guard) return guard;
-  const follow = edited.length ? (d.follows?.(current, edited) ?? {}) : {};
+  const follow: Record<string, unknown> = edited.length ? (d.follows?.(validatedAs(d.name, current), edited) ?? {}) : {};
   Object.assign(next, follow);
   changed.push(...Object.keys(follow).filter((k) => !changed.includes(k) && !sameValue(follow[k], current[k])));
   const derived = await deriveFields(ctx.em, d.name, next, current);
