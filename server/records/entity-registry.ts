@@ -54,6 +54,12 @@ export interface EntityDef<E extends EntityName = EntityName> {
    * not be allowed to set them): e.g. a raw change to a reviewed closure sends it back to review.
    */
   follows?(current: EntityFields<E>, changed: readonly string[]): Partial<EntityFields<E>>;
+  /**
+   * An edit reads and changes only its own record: no unique key over a field it may change, no guard
+   * that reads other records, and other records' checks reach it only by its id. A push may then
+   * apply such an edit after later ops that do not name it (sync-push.ts) with the same answers.
+   */
+  independentEdits?: boolean;
   /** Fields fixed at creation. */
   immutable: readonly string[];
   /** Fixed fields a move may change (writeRecord's `move` option, never a plain edit or a sync op). */
@@ -170,7 +176,13 @@ export const ENTITY_DEFS: { [E in EntityName]: EntityDef<E> } = {
     CollarEventEntity,
     'collar_event',
     { create: FIELD, update: LEAD, delete: LEAD },
-    { refs: { collarId: 'collar', replacedById: 'collar' }, immutable: ['siteId', 'collarId'], timeField: 'date', order: { date: 'ASC' } },
+    {
+      refs: { collarId: 'collar', replacedById: 'collar' },
+      independentEdits: true,
+      immutable: ['siteId', 'collarId'],
+      timeField: 'date',
+      order: { date: 'ASC' },
+    },
   ),
   chamberProfile: def(
     'chamberProfile',
@@ -210,6 +222,7 @@ export const ENTITY_DEFS: { [E in EntityName]: EntityDef<E> } = {
       refs: { campaignId: 'campaign', collarId: 'collar' },
       members: ['crewId'],
       underCampaign: true,
+      independentEdits: true,
       immutable: ['siteId', 'campaignId', 'collarId', 'round'],
       timeField: 'arrivedAt',
       order: { arrivedAt: 'ASC' },
@@ -239,6 +252,7 @@ export const ENTITY_DEFS: { [E in EntityName]: EntityDef<E> } = {
       members: ['takenById'],
       underCampaign: true,
       agreements: [UNDER_VISIT],
+      independentEdits: true,
       immutable: ['siteId', 'visitId', 'collarId', 'campaignId', 'takenById'],
       timeField: 'takenAt',
       order: { takenAt: 'ASC' },
@@ -262,6 +276,7 @@ export const ENTITY_DEFS: { [E in EntityName]: EntityDef<E> } = {
       agreements: [UNDER_VISIT, { ref: 'redoOfId', target: 'closure', same: ['visitId'] }],
       follows: reviewResetOnRawChange,
       underCampaign: true,
+      independentEdits: true,
       immutable: ['siteId', 'visitId', 'collarId', 'campaignId'],
       movable: ['visitId', 'collarId'],
       timeField: 'startedAt',

@@ -93,9 +93,11 @@ export async function applyBatch(
   deviceId: string,
   outboxSize: number,
   parsed: Parsed[],
-  opts: { batchCreates?: boolean; changes?: ChangeBuffer } = {},
+  opts: { batchCreates?: boolean; deferEdits?: boolean; changes?: ChangeBuffer } = {},
 ): Promise<PushResult[]> {
   const batching = opts.batchCreates ?? true;
+  const deferFrom = opts.deferEdits === false ? parsed.length : independentTail(parsed);
+  const lastMention = lastMentions(parsed);
   const valid = parsed.flatMap((p) => (p.ok ? [p.op] : []));
   const earlier = await storedAnswers(
     em,
@@ -147,6 +149,8 @@ export async function applyBatch(
     inRun.clear();
     await storeRun(em, user, deviceId, pending, changes, nextSavepoint, answer, perOp);
   };
+  // Edits that nothing later in the batch names wait until the end (see lastMentions).
+  const deferred: { op: SyncOp; at: number }[] = [];
   for (const p of parsed) {
     const at = results.length;
     results.push(undefined as unknown as PushResult); // filled in op order by answer()
@@ -159,6 +163,10 @@ export async function applyBatch(
     const first = thisBatch.get(op.opId) ?? earlier.get(op.opId);
     if (first) {
       results[at] = replay(op.opId, first);
+      continue;
+    }
+    if (at + 1 >= deferFrom && isIndependentEdit(op) && lastMention.get(op.id.toLowerCase()) === at) {
+      deferred.push({ op, at });
       continue;
     }
     if (batching && batchableCreate(op)) {
@@ -174,10 +182,50 @@ export async function applyBatch(
     await perOp(op, at);
   }
   await flush();
-  await saveAnswers(em, deviceId, user.id, byOpId, [...thisBatch.values()]);
   await recordPush(em, deviceId, user.id, outboxSize);
+  // Edits of records other devices may edit too take their row locks last, in record order (so two
+  // pushes never wait on each other in a cycle), and hold them only for the answers and the commit.
+  deferred.sort((a, b) => a.op.entity.localeCompare(b.op.entity) || a.op.id.localeCompare(b.op.id) || a.at - b.at);
+  for (const d of deferred) await perOp(d.op, d.at);
+  await saveAnswers(em, deviceId, user.id, byOpId, [...thisBatch.values()]);
   if (!opts.changes) await changes.flush(em);
   return results;
+}
+
+/** An edit (an upsert of a record the device already had: a create carries no base rev) of an entity whose edits touch only their own record. */
+const isIndependentEdit = (op: SyncOp) => op.op === 'upsert' && op.baseRev !== null && !!ENTITY_DEFS[op.entity].independentEdits;
+
+/**
+ * Where the batch's tail of creates and independent edits starts (every valid op from there on).
+ * An edit may wait for the end of the batch only if every op after it is in that tail: a delete or
+ * an edit of another kind of record may run checks that read other records by more than their id.
+ */
+function independentTail(parsed: readonly Parsed[]): number {
+  let from = parsed.length;
+  while (from > 0) {
+    const p = parsed[from - 1];
+    if (p.ok && !(p.op.op === 'upsert' && (p.op.baseRev === null || ENTITY_DEFS[p.op.entity].independentEdits))) break;
+    from--;
+  }
+  return from;
+}
+
+const UUID = /[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}/gi;
+
+/**
+ * For each id the batch names (an op's own record, or any id inside its fields: a visit's collar, a
+ * campaign's routes), the position of the last op that names it. An edit whose record no later op
+ * names can be applied at the end of the batch with the same answers: no later op reads it, writes
+ * it or refers to it (a reference or lock check on it is the only way one op sees another).
+ */
+function lastMentions(parsed: readonly Parsed[]): Map<string, number> {
+  const last = new Map<string, number>();
+  parsed.forEach((p, at) => {
+    if (!p.ok) return;
+    last.set(p.op.id.toLowerCase(), at);
+    for (const id of JSON.stringify(p.op.fields).match(UUID) ?? []) last.set(id.toLowerCase(), at);
+  });
+  return last;
 }
 
 interface Pending {

@@ -69,13 +69,13 @@ describe('sync push: batched creates answer as single creates', () => {
     create('probeReading', { ...createBody(home.probeReading), moistureRaw: 18.25, ...over });
 
   /** Runs the ops in a transaction, reads back everything they wrote, and rolls it all back. */
-  async function run(user: SessionUser, deviceId: string, ops: unknown[], batchCreates: boolean) {
+  async function run(user: SessionUser, deviceId: string, ops: unknown[], batchCreates: boolean, deferEdits = true) {
     const rollback = new Error('rollback');
     let seen: unknown;
     const [{ s: since }] = await t.ds.query(`SELECT coalesce(max(seq), 0)::bigint AS s FROM change_log`);
     await t.ds
       .transaction(async (em: EntityManager) => {
-        const results = await applyBatch(em, user, deviceId, ops.length, ops.map(parseOp), { batchCreates });
+        const results = await applyBatch(em, user, deviceId, ops.length, ops.map(parseOp), { batchCreates, deferEdits });
         const log = await em.query(
           `SELECT entity, record_id, rev, site_id, fields, deleted, user_id, device_id FROM change_log WHERE seq > $1 ORDER BY seq`,
           [since],
@@ -191,5 +191,56 @@ describe('sync push: batched creates answer as single creates', () => {
     ];
     const { batched } = await bothWays(crew, ops);
     expect(batched.results.filter((r) => r.status === 'applied').length).toBeGreaterThanOrEqual(3);
+  });
+
+  const editOf = (rec: { id: string; rev: number }, entity: string, fields: Record<string, unknown>) => ({
+    opId: randomUUID(),
+    entity,
+    id: rec.id,
+    baseRev: rec.rev,
+    op: 'upsert',
+    fields,
+  });
+  type Logged = { entity: string; record_id: string; rev: number };
+  const logOrder = (log: unknown[]) => (log as Logged[]).map((l) => l.record_id);
+  const sortedLog = (log: unknown[]) =>
+    [...(log as Logged[])].sort((a, b) => `${a.record_id}${a.rev}`.localeCompare(`${b.record_id}${b.rev}`));
+
+  /** The same ops with the independent edits held to the end and applied in op order: answers, rows and ledger must agree. */
+  async function deferredAndInOrder(ops: unknown[]) {
+    const deviceId = randomUUID();
+    const deferred = await run(lead, deviceId, ops, true, true);
+    const inOrder = await run(lead, deviceId, ops, true, false);
+    expect(deferred.results).toEqual(inOrder.results);
+    expect(deferred.rows).toEqual(inOrder.rows);
+    expect(deferred.ledger).toEqual(inOrder.ledger);
+    expect(sortedLog(deferred.log)).toEqual(sortedLog(inOrder.log));
+    return { deferred, inOrder };
+  }
+
+  it('when a batch edits a record other devices edit too before its creates, then the edit is applied last, with the answers, rows and ledger of applying it in order', async () => {
+    const shared = editOf(home.collarEvent, 'collarEvent', { note: 'edited early in the batch' });
+    const ops = [shared, event(20), event(21), probe()];
+    const { deferred, inOrder } = await deferredAndInOrder(ops);
+    expect(deferred.results.map((r) => r.status)).toEqual(['applied', 'applied', 'applied', 'applied']);
+    // Its row lock (the one other pushes wait for) is taken last: the change log shows it after the creates.
+    expect(logOrder(inOrder.log)[0]).toBe(home.collarEvent.id);
+    expect(logOrder(deferred.log).at(-1)).toBe(home.collarEvent.id);
+  });
+
+  it('when a later op of the batch names the edited record, then the edit keeps its place', async () => {
+    const first = editOf(home.collarEvent, 'collarEvent', { note: 'first of two edits' });
+    const second = editOf(home.collarEvent, 'collarEvent', { date: '2026-06-04' });
+    const made = event(22);
+    const { deferred } = await deferredAndInOrder([first, made, second]);
+    expect(logOrder(deferred.log)).toEqual([home.collarEvent.id, made.id, home.collarEvent.id]);
+  });
+
+  it("when an edit of another kind of record follows, then the earlier edit keeps its place (the collar's checks may read other records)", async () => {
+    const shared = editOf(home.collarEvent, 'collarEvent', { note: 'before a collar edit' });
+    const made = event(23);
+    const collarEdit = editOf(home.collar as { id: string; rev: number }, 'collar', { notes: 'edited after the event' });
+    const { deferred } = await deferredAndInOrder([shared, made, collarEdit]);
+    expect(logOrder(deferred.log)).toEqual([home.collarEvent.id, made.id, home.collar.id]);
   });
 });
