@@ -277,7 +277,9 @@ const MAIN = path.resolve(__dirname, '../../../server/server/main.js');
 /** Starts the compiled server on a free loopback port; resolves with its base URL. */
 function startServerProcess(databaseUrl: string): Promise<{ base: string; child: ChildProcess }> {
   const probe = PROFILE ? ['--require', path.resolve(__dirname, 'fleet-probe.js')] : [];
-  const child = spawn(process.execPath, [...probe, MAIN], {
+  // BENCH_CPU_PROF=dir: each server writes a V8 CPU profile there when it stops (open it in DevTools).
+  const cpuProf = process.env['BENCH_CPU_PROF'] ? ['--cpu-prof', `--cpu-prof-dir=${path.resolve(process.env['BENCH_CPU_PROF'])}`] : [];
+  const child = spawn(process.execPath, [...probe, ...cpuProf, MAIN], {
     env: {
       ...process.env,
       DATABASE_URL: databaseUrl,
