@@ -6,7 +6,6 @@ import { campaignProgress } from '../campaigns/campaign-progress';
 import { writeOne } from '../records/record-routes';
 import type { WriteOutcome } from '../records/record-writer';
 import type { PendingWrite } from '../records/write-guards';
-import type { StoredRecord } from '../../shared/model/stored-record';
 import { noRecordMessage, rejected } from '../records/write-outcome';
 
 // The lock rule reads the campaign as a role that sees every site: who may lock was decided by the writer.
@@ -30,8 +29,8 @@ export async function openCollars(db: DataSource | EntityManager, campaignId: st
  * whether the lock comes from the lock route, a PATCH of `locked` or a sync push. A campaign is
  * created open. Unlocking has no precondition. Once locked, the writer refuses new field records.
  */
-export async function guardCampaignLock(w: PendingWrite): Promise<WriteOutcome | null> {
-  if (w.action === 'delete' || !w.changed.includes('locked') || (w.next as Partial<StoredRecord<'campaign'>>).locked !== true) return null;
+export async function guardCampaignLock(w: PendingWrite<'campaign'>): Promise<WriteOutcome | null> {
+  if (w.action === 'delete' || !w.changed.includes('locked') || w.next.locked !== true) return null;
   if (w.action === 'create')
     return rejected(400, 'A campaign is created open: lock it once its collars are done', [
       { path: 'locked', message: 'Create the campaign unlocked' },

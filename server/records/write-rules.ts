@@ -13,18 +13,15 @@ import type { WriteGuard } from './write-guards';
  * applied one inside its transaction. Read when a write runs (not at load), so the features may
  * import the writer themselves.
  */
-export function writeGuardsFor(entity: EntityName): readonly WriteGuard[] {
-  switch (entity) {
-    case 'campaign':
-      return [guardCampaignLock];
-    case 'chamberProfile':
-      return [guardProfileWrite];
-    case 'collar':
-      return [guardCollarTreatment];
-    default:
-      return [];
-  }
+export function writeGuardsFor<E extends EntityName>(entity: E): readonly WriteGuard<E>[] {
+  return GUARDS[entity] ?? [];
 }
+
+const GUARDS: { [E in EntityName]?: readonly WriteGuard<E>[] } = {
+  campaign: [guardCampaignLock],
+  chamberProfile: [guardProfileWrite],
+  collar: [guardCollarTreatment],
+};
 
 export function afterWriteListeners(): readonly AfterWrite[] {
   // The review history of lab decisions, and a recompute request when a closure's inputs change.

@@ -1,4 +1,3 @@
-import { validatedAs } from '../records/wire';
 import type { PendingWrite } from '../records/write-guards';
 import { rejected, type WriteOutcome } from '../records/write-outcome';
 
@@ -7,8 +6,8 @@ import { rejected, type WriteOutcome } from '../records/write-outcome';
  * a whole-plot treatment comes from the collar's plot, and setting it on a collar as well would
  * count the collar twice in the design. Checked whenever a write sets the collar's treatment.
  */
-export async function guardCollarTreatment(w: PendingWrite): Promise<WriteOutcome | null> {
-  const treatmentId = validatedAs('collar', w.next).treatmentId;
+export async function guardCollarTreatment(w: PendingWrite<'collar'>): Promise<WriteOutcome | null> {
+  const treatmentId = w.next.treatmentId;
   if (w.action === 'delete' || !w.changed.includes('treatmentId') || !treatmentId) return null;
   const [t]: { code: string; level: string }[] = await w.em.query(`SELECT code, level FROM treatment WHERE id = $1`, [treatmentId]);
   if (!t || t.level === 'collar') return null; // a missing treatment is the reference check's to report

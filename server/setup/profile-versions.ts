@@ -29,7 +29,6 @@ export const newVersionSchema = chamberProfileFields
 export const previewSchema = z.object({ validFrom: chamberProfileFields.shape.validFrom });
 
 /** What refuseSameDay compares, read from a validated profile write. */
-const sameDayKey = chamberProfileFields.pick({ siteId: true, name: true, validFrom: true });
 
 /** Editing these on a profile that closures use would silently change stored fluxes. */
 const GEOMETRY = ['validFrom', 'chamberVolumeCm3', 'loopVolumeCm3', 'footprintAreaCm2'];
@@ -165,14 +164,13 @@ export async function createProfileVersion(ds: DataSource, actor: Actor, profile
  * version, its geometry and day are fixed — a new version is added instead; a name or a default
  * settle time for future closures may still change.
  */
-export async function guardProfileWrite(w: PendingWrite): Promise<WriteOutcome | null> {
+export async function guardProfileWrite(w: PendingWrite<'chamberProfile'>): Promise<WriteOutcome | null> {
   if (w.action === 'create') return null; // a new version is what this rule asks for
   const touched = w.action === 'delete' ? ['deleted'] : GEOMETRY.filter((k) => w.changed.includes(k));
   if (!touched.length) return null;
   try {
     if (w.action === 'update' && w.changed.includes('validFrom')) {
-      const next = sameDayKey.parse(w.next);
-      await refuseSameDay(w.em, next.siteId, next.name, next.validFrom, w.id);
+      await refuseSameDay(w.em, w.next.siteId, w.next.name, w.next.validFrom, w.id);
     }
   } catch (err) {
     if (err instanceof AppError) return rejected(err.status, err.message, err.fields);
