@@ -34,6 +34,11 @@ describe('pull records from raw rows', () => {
       longitude: 1e-7,
     });
     expect([res.status, res.body.error]).toEqual([200, undefined]);
+    // Times PostgreSQL holds to the microsecond (a default of now(), a script's write) and given in another zone.
+    await t.ds.query(
+      `UPDATE visit SET arrived_at = '2026-06-01 08:00:00.999999+02', updated_at = '2026-06-01 23:59:59.0005+00' WHERE id = $1`,
+      [w.visit.id],
+    );
     lead = (await leadSession.get('/api/auth/me')).body.user;
   });
   afterAll(() => t.close());
