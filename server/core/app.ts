@@ -44,6 +44,8 @@ export interface AppHandle {
 export function createApp(ds: DataSource, config: ServerConfig): AppHandle {
   const app = express();
   app.disable('x-powered-by');
+  // API answers are per user and read fresh: a hash of every body (a pull page, a push answer) buys no revalidation. Static files keep their own ETags.
+  app.set('etag', false);
   if (config.trustProxy !== false) app.set('trust proxy', config.trustProxy);
   app.use(
     helmet({
