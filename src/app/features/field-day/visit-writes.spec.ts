@@ -1,4 +1,5 @@
 import { TestBed } from '@angular/core/testing';
+import { visitConditionsSchema } from '../../../../shared/model/field-records';
 import { signedInDevice, TEST_SITE } from '../../core/db/testing/signed-in-device';
 import { VisitWrites, type VisitTarget } from './visit-writes';
 
@@ -63,16 +64,7 @@ describe('VisitWrites probe replicates on the device', () => {
 
 describe('VisitWrites when saves at one collar overlap', () => {
   afterEach(() => localStorage.clear());
-  const conditions = {
-    rainNow: false,
-    rain24h: true,
-    standingWater: false,
-    frostSnow: false,
-    trampled: false,
-    animal: false,
-    other: '',
-    airTempC: null,
-  };
+  const conditions = visitConditionsSchema.parse({ rain24h: true });
 
   it('when the last offset keypress and the autosave both save the same set before the screen has caught up, then one visit and one offset set are stored', async () => {
     const { db } = await signedInDevice();

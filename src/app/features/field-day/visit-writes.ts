@@ -28,6 +28,15 @@ type VisitRef = { id: string };
 /** The one visit of a collar in a round, as a key. */
 const visitKey = (t: VisitTarget) => `${t.campaignId}:${t.round}:${t.collarId}`;
 
+/** Where and when a reading is taken: at this visit (its collar and campaign, as the server checks), now. */
+const takenNowAt = (t: VisitTarget, visit: VisitRef) => ({
+  siteId: t.siteId,
+  visitId: visit.id,
+  collarId: t.collarId,
+  campaignId: t.campaignId,
+  takenAt: new Date().toISOString(),
+});
+
 const sameReadings = (a: readonly number[], b: readonly number[]) => a.length === b.length && a.every((v, i) => v === b[i]);
 
 /**
@@ -92,11 +101,7 @@ export class VisitWrites {
       );
       if (current && sameReadings(current.readingsCm, readingsCm)) return;
       const fields = validated('offsetSet', {
-        siteId: target.siteId,
-        visitId: v.id,
-        collarId: target.collarId,
-        campaignId: target.campaignId,
-        takenAt: new Date().toISOString(),
+        ...takenNowAt(target, v),
         readingsCm,
         supersedesId: current?.id ?? null,
       });
@@ -113,11 +118,7 @@ export class VisitWrites {
     return this.turns.run(`probe:${replicateId}`, async () => {
       const v = await this.ensureVisit(target, visit);
       const fields = validated('probeReading', {
-        siteId: target.siteId,
-        visitId: v.id,
-        collarId: target.collarId,
-        campaignId: target.campaignId,
-        takenAt: new Date().toISOString(),
+        ...takenNowAt(target, v),
         takenById: this.auth.user()?.id ?? null,
         ...reading,
       });
