@@ -52,3 +52,6 @@ if (!globalThis.crypto?.subtle) {
 // jsdom has no object URLs; a download made in the page creates and later revokes one.
 URL.createObjectURL ??= () => 'blob:jsdom-stand-in';
 URL.revokeObjectURL ??= () => undefined;
+
+// jsdom lays nothing out, so it has no scrollIntoView(); screens call it when a field takes focus.
+Element.prototype.scrollIntoView ??= () => undefined;

@@ -91,6 +91,20 @@ describe('OffsetForm', () => {
     expect(saved).toEqual([[2.0, 2.1, 1.9, 2.0]]);
   });
 
+  it('when a box takes focus, then the whole set is brought into view at once (so Enter to the next box does not scroll the page)', async () => {
+    const { fixture } = await render();
+    const shown = jest.spyOn(Element.prototype, 'scrollIntoView');
+    try {
+      const boxes = (fixture.nativeElement as HTMLElement).querySelectorAll<HTMLInputElement>('[data-testid^="offset-"]');
+      boxes[0].focus();
+      const blocks = shown.mock.contexts as Element[];
+      expect(blocks.map((el) => [el.classList.contains('positions'), el.contains(boxes[3])])).toEqual([[true, true]]);
+      expect(shown.mock.calls).toEqual([[{ block: 'nearest' }]]);
+    } finally {
+      shown.mockRestore();
+    }
+  });
+
   it('when a position is empty, then saving is refused and names it; positions stay between 3 and 8', async () => {
     const { fixture, loader, saved, enter } = await render();
     await enter(['2.0', '', '1.9', '2.0']);

@@ -9,6 +9,7 @@ import {
   input,
   output,
   signal,
+  viewChild,
   viewChildren,
 } from '@angular/core';
 import { takeUntilDestroyed, toObservable, toSignal } from '@angular/core/rxjs-interop';
@@ -159,6 +160,7 @@ export class OffsetForm {
   /** The crew asked to change a saved set: the boxes stay open. */
   protected readonly editing = signal(false);
   private readonly boxes = viewChildren<ElementRef<HTMLInputElement>>('reading');
+  private readonly positionsBlock = viewChild<ElementRef<HTMLElement>>('positionsBlock');
 
   protected readonly values = computed(() => this.texts().map(parseCm));
   protected readonly check = computed(() => {
@@ -197,6 +199,14 @@ export class OffsetForm {
       this.positions.removeAt(this.positions.length - 1, { emitEvent: false });
     this.positions.setValue(values.map(cmText), { emitEvent: emit });
     if (!emit) this.positions.updateValueAndValidity({ emitEvent: true });
+  }
+
+  /**
+   * Once a box takes focus, the whole set comes into view together (above the visit's bottom bar), so
+   * Enter moves between boxes without scrolling the page at each one.
+   */
+  protected showAllPositions(): void {
+    this.positionsBlock()?.nativeElement.scrollIntoView({ block: 'nearest' });
   }
 
   protected nextOnEnter(i: number, event: Event): void {
