@@ -228,6 +228,14 @@ describe('sync push: batched creates answer as single creates', () => {
     expect(logOrder(deferred.log).at(-1)).toBe(home.collarEvent.id);
   });
 
+  it('when held-back edits include one of a record that does not exist and one that breaks a field rule, then each gets its in-order answer and the good one applies', async () => {
+    const missing = editOf({ id: randomUUID(), rev: 1 }, 'collarEvent', { note: 'no such event' });
+    const bad = editOf(home.collarEvent, 'collarEvent', { kind: 'not-a-kind' });
+    const good = editOf(home.probeReading as { id: string; rev: number }, 'probeReading', { moistureRaw: 21.5 });
+    const { deferred } = await deferredAndInOrder([missing, bad, good, event(25)]);
+    expect(deferred.results.map((r) => r.status)).toEqual(['rejected', 'rejected', 'applied', 'applied']);
+  });
+
   it('when a later op of the batch names the edited record, then the edit keeps its place', async () => {
     const first = editOf(home.collarEvent, 'collarEvent', { note: 'first of two edits' });
     const second = editOf(home.collarEvent, 'collarEvent', { date: '2026-06-04' });
