@@ -28,8 +28,6 @@ export const newVersionSchema = chamberProfileFields
   .strict();
 export const previewSchema = z.object({ validFrom: chamberProfileFields.shape.validFrom });
 
-/** What refuseSameDay compares, read from a validated profile write. */
-
 /** Editing these on a profile that closures use would silently change stored fluxes. */
 const GEOMETRY = ['validFrom', 'chamberVolumeCm3', 'loopVolumeCm3', 'footprintAreaCm2'];
 

@@ -26,6 +26,8 @@ interface Plan {
   slots: Slot[];
 }
 
+/** Column types PostgreSQL writes as the wire's text itself (see `select` in planFor). */
+const AS_WIRE_TEXT = new Set(['timestamptz', 'date']);
 /** Column types whose value from node-postgres is already what the hydrated entity holds. */
 const AS_DELIVERED = new Set(['text', 'uuid', 'boolean', 'integer', 'double precision', 'jsonb']);
 /** toISOString()'s form (UTC, milliseconds), which is how the wire writes a time. */
@@ -54,7 +56,7 @@ function planFor(ds: DataSource, entity: EntityName): Plan {
     if (type(c) === 'date') return `to_char(${col}, 'YYYY-MM-DD') AS ${col}`;
     return col;
   };
-  const asIs = (c: ColumnMetadata) => ['timestamptz', 'date'].includes(type(c)) || (!c.transformer && AS_DELIVERED.has(type(c)));
+  const asIs = (c: ColumnMetadata) => AS_WIRE_TEXT.has(type(c)) || (!c.transformer && AS_DELIVERED.has(type(c)));
   const slots = keys.map((key) => {
     const column = byKey.get(key) ?? null;
     return { key, column, initial: blank[key], asIs: !!column && asIs(column) };

@@ -192,7 +192,9 @@ export async function applyBatch(
   return results;
 }
 
-/** An edit (an upsert of a record the device already had: a create carries no base rev) of an entity whose edits touch only their own record. */
+/** A create: an upsert with no base rev (the device never had the record). */
+const isCreate = (op: SyncOp) => op.op === 'upsert' && op.baseRev === null;
+/** An edit (an upsert of a record the device already had) of an entity whose edits touch only their own record. */
 const isIndependentEdit = (op: SyncOp) => op.op === 'upsert' && op.baseRev !== null && !!ENTITY_DEFS[op.entity].independentEdits;
 
 /**
@@ -204,7 +206,7 @@ function independentTail(parsed: readonly Parsed[]): number {
   let from = parsed.length;
   while (from > 0) {
     const p = parsed[from - 1];
-    if (p.ok && !(p.op.op === 'upsert' && (p.op.baseRev === null || ENTITY_DEFS[p.op.entity].independentEdits))) break;
+    if (p.ok && !isCreate(p.op) && !isIndependentEdit(p.op)) break;
     from--;
   }
   return from;

@@ -4,6 +4,7 @@ import type { LocalRecord } from '../../core/db/db-schema';
 import type { EntityFields } from '../../../../shared/model/entities';
 import { DeviceDb } from '../../core/db/device-db';
 import { RecordMissingError } from '../../core/db/outbox-writer';
+import { sameValue } from '../../core/db/record-values';
 import { validated } from '../../core/db/validated';
 import { Turns } from '../../core/async/turns';
 import { LocalWrites } from '../../core/sync/local-writes';
@@ -36,8 +37,6 @@ const takenNowAt = (t: VisitTarget, visit: VisitRef) => ({
   campaignId: t.campaignId,
   takenAt: new Date().toISOString(),
 });
-
-const sameReadings = (a: readonly number[], b: readonly number[]) => a.length === b.length && a.every((v, i) => v === b[i]);
 
 /**
  * Everything a visit writes, through the one local write path (record + outbox op in one Dexie
@@ -99,7 +98,7 @@ export class VisitWrites {
       const current = await this.deviceDb.run(async (db) =>
         offsetSetAtVisit(await db.records('offsetSet').where('visitId').equals(v.id).toArray(), v.id),
       );
-      if (current && sameReadings(current.readingsCm, readingsCm)) return;
+      if (current && sameValue(current.readingsCm, readingsCm)) return;
       const fields = validated('offsetSet', {
         ...takenNowAt(target, v),
         readingsCm,

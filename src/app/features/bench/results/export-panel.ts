@@ -5,9 +5,9 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
-import { toSignal } from '@angular/core/rxjs-interop';
 import { DATA_LICENCES } from '../../../../../shared/results/data-licences';
 import { serverMessage } from '../../../core/api/api-error';
+import { formValue } from '../../../core/forms/form-value';
 import { ResultsApi, type ClosureSelection, type ExportJob } from './results-api';
 
 const POLL_MS = 1000;
@@ -49,7 +49,7 @@ export class ExportPanel implements OnDestroy {
   readonly model = input.required<string>();
   protected readonly licences = DATA_LICENCES;
   protected readonly licence = new FormControl('', { nonNullable: true });
-  protected readonly chosenLicence = toSignal(this.licence.valueChanges, { initialValue: this.licence.value });
+  protected readonly chosenLicence = formValue(this.licence);
   protected readonly job = signal<ExportJob | null>(null);
   protected readonly running = signal(false);
   protected readonly problem = signal('');
