@@ -58,7 +58,8 @@ export function planForm(c: Campaign, routes: readonly StoredRecord<'route'>[], 
     });
   });
   const form: PlanForm = new FormGroup({ routes: new FormArray(routeForms), windows: new FormArray(windowForms) });
-  if (c.locked) form.disable();
+  // Without events: a route's 'included' follower would otherwise open its crew and direction again.
+  if (c.locked) form.disable({ emitEvent: false });
   return form;
 }
 

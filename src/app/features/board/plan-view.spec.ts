@@ -23,7 +23,7 @@ const campaign = {
   roundWindows: [{ round: 1, from: '2026-06-01T20:00:00.000Z', to: '2026-06-01T23:00:00.000Z' }],
 } as unknown as Campaign;
 
-async function render() {
+async function render(shown: Campaign = campaign) {
   localStorage.clear();
   rememberOnDevice(testUser(['lead']), [{ id: 'site-a', name: 'Hollow Creek Meadow', timezone: 'Pacific/Auckland' }]);
   const sent: Record<string, unknown>[] = [];
@@ -38,7 +38,7 @@ async function render() {
     providers: [BoardStore, provideHttpClient(), provideHttpClientTesting(), { provide: BoardApi, useValue: api }],
   });
   const store = TestBed.inject(BoardStore);
-  store.campaigns.set([campaign]);
+  store.campaigns.set([shown]);
   store.campaignId.set('camp');
   store.routes.set([
     { id: 'route-a', siteId: 'site-a', name: 'Upper terrace', collarIds: [] },
@@ -83,6 +83,14 @@ describe('Board plan: routes of the campaign', () => {
     fixture.detectChanges();
     await fixture.whenStable();
     expect(selects(el).map(([disabled]) => disabled)).toEqual(['false', 'false', 'false', 'false']);
+  });
+
+  it('when the campaign is closed, then every route, crew, direction and window of its plan is shut', async () => {
+    const { el } = await render({ ...campaign, locked: true });
+    expect(selects(el).map(([disabled]) => disabled)).toEqual(['true', 'true', 'true', 'true']);
+    const boxes = [...el.querySelectorAll<HTMLInputElement>('.routes input[type="checkbox"], input[type="datetime-local"]')];
+    expect(boxes.length).toBe(4);
+    expect(boxes.every((b) => b.disabled)).toBe(true);
   });
 
   it('when a route is ticked and the plan saved, then both routes go out, each with its crew and direction', async () => {
