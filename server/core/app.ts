@@ -96,7 +96,7 @@ export function createApp(ds: DataSource, config: ServerConfig): AppHandle {
   registerBoardRoutes(registry, ds);
   registerResultsRoutes(registry, ds);
   registerRecordRoutes(registry, ds);
-  registerSyncRoutes(registry, ds);
+  registerSyncRoutes(registry, ds, config.pullSlots);
 
   app.use('/api', apiNotFound);
   if (config.staticDir) serveApp(app, config.staticDir);

@@ -1,6 +1,6 @@
 import express from 'express';
 import { loadMailConfig } from '../mail/mail-config';
-import { DEFAULT_DB_POOL_SIZE, loadConfig } from './config';
+import { DEFAULT_DB_POOL_SIZE, DEFAULT_PULL_SLOTS, loadConfig } from './config';
 
 const DB = { DATABASE_URL: 'postgres://u:p@127.0.0.1:1/x_test' };
 const load = (env: NodeJS.ProcessEnv) => loadConfig({}, { ...DB, ...env });
@@ -14,6 +14,19 @@ describe('server configuration', () => {
 
     it('when not a whole number of at least 2, then the server refuses to start and names the variable', () => {
       for (const bad of ['0', '1', '2.5', 'many', '-4']) expect(() => load({ DB_POOL_SIZE: bad })).toThrow(/DB_POOL_SIZE must be/);
+    });
+  });
+
+  describe('PULL_SLOTS, the pulls one process serves at once', () => {
+    it('when unset, then the default (one); when set, then that number', () => {
+      expect(load({}).pullSlots).toBe(DEFAULT_PULL_SLOTS);
+      expect(DEFAULT_PULL_SLOTS).toBe(1);
+      expect(load({ PULL_SLOTS: '3' }).pullSlots).toBe(3);
+    });
+
+    it('when not a whole number of at least 1, then the server refuses to start and names the variable', () => {
+      for (const bad of ['0', '1.5', 'few', '-1'])
+        expect(() => load({ PULL_SLOTS: bad })).toThrow(/PULL_SLOTS must be a whole number of at least 1/);
     });
   });
 

@@ -33,9 +33,16 @@ export interface ServerConfig {
    * PostgreSQL's max_connections (100 by default).
    */
   dbPoolSize: number;
+  /**
+   * Pulls this process serves at once (PULL_SLOTS); more wait their turn. A pull page is bulk work
+   * (thousands of rows read, built and serialised), and at a fleet's day's end a hundred of them at
+   * once would hold every push's round trips behind their work on the event loop. With a few slots
+   * the pushes, which bring the field's data in, stay quick; the pulls take the same CPU in turn.
+   */
+  pullSlots: number;
 }
 
-export { DEFAULT_DB_POOL_SIZE } from './server-env';
+export { DEFAULT_DB_POOL_SIZE, DEFAULT_PULL_SLOTS } from './server-env';
 
 export function loadConfig(overrides: Partial<ServerConfig> = {}, env: NodeJS.ProcessEnv = process.env): ServerConfig {
   const e = serverEnv(env);
@@ -54,6 +61,7 @@ export function loadConfig(overrides: Partial<ServerConfig> = {}, env: NodeJS.Pr
     loginWindowMs: e.LOGIN_WINDOW_MS,
     objectStorage: objectStorageFromEnv(),
     dbPoolSize: e.DB_POOL_SIZE,
+    pullSlots: e.PULL_SLOTS,
     ...overrides,
   };
 }

@@ -4,6 +4,9 @@ import { z } from 'zod';
 /** Connections a process holds unless DB_POOL_SIZE says otherwise. */
 export const DEFAULT_DB_POOL_SIZE = 40;
 
+/** Pulls a process serves at once unless PULL_SLOTS says otherwise. */
+export const DEFAULT_PULL_SLOTS = 1;
+
 /** A number setting: unset or empty takes the default; anything else must be a finite number. */
 const numberSetting = (name: string, fallback: number) =>
   z
@@ -13,6 +16,20 @@ const numberSetting = (name: string, fallback: number) =>
       if (raw === undefined || raw === '') return fallback;
       const n = Number(raw);
       if (!Number.isFinite(n)) ctx.addIssue({ code: 'custom', message: `${name} must be a number, got "${raw}"` });
+      return n;
+    });
+
+/** A count setting: unset or empty takes the default; anything else must be a whole number of at least `min`. */
+const wholeNumberSetting = (name: string, fallback: number, min: number) =>
+  z
+    .string()
+    .optional()
+    .transform((raw, ctx) => {
+      const text = raw?.trim();
+      if (!text) return fallback;
+      const n = Number(text);
+      if (!Number.isInteger(n) || n < min)
+        ctx.addIssue({ code: 'custom', message: `${name} must be a whole number of at least ${min}, got "${raw}"` });
       return n;
     });
 
@@ -43,17 +60,9 @@ export const SERVER_ENV = z.object({
   /** `off`: this process serves the API only (no job workers, no digest ticks). */
   JOB_WORKERS: z.string().optional(),
   /** PostgreSQL connections one process may hold (see ServerConfig.dbPoolSize). */
-  DB_POOL_SIZE: z
-    .string()
-    .optional()
-    .transform((raw, ctx) => {
-      const text = raw?.trim();
-      if (!text) return DEFAULT_DB_POOL_SIZE;
-      const n = Number(text);
-      if (!Number.isInteger(n) || n < 2)
-        ctx.addIssue({ code: 'custom', message: `DB_POOL_SIZE must be a whole number of at least 2, got "${raw}"` });
-      return n;
-    }),
+  DB_POOL_SIZE: wholeNumberSetting('DB_POOL_SIZE', DEFAULT_DB_POOL_SIZE, 2),
+  /** Pulls one process serves at once (see ServerConfig.pullSlots). */
+  PULL_SLOTS: wholeNumberSetting('PULL_SLOTS', DEFAULT_PULL_SLOTS, 1),
   /** How often each worker process asks for due digests, in seconds. */
   DIGEST_TICK_SECONDS: numberSetting('DIGEST_TICK_SECONDS', 30),
   SMTP_HOST: textOrNull,
