@@ -70,25 +70,28 @@ export async function pullChanges(ds: DataSource, user: SessionUser, deviceId: s
 
 /** Latest entry per record in the page, with its current row; superseded entries come later anyway. */
 async function currentStates(ds: DataSource, page: LogRow[]): Promise<PullChange[]> {
-  const last = new Map<string, LogRow>();
-  for (const r of page) {
-    const key = `${r.entity}:${r.record_id}`;
-    last.delete(key);
-    last.set(key, r);
+  // From the page's end back: a record's first entry met is its latest. Keyed per entity by id (no
+  // joined "entity:id" strings: a page is thousands of rows, and every key would be built and hashed).
+  const latest: LogRow[] = [];
+  const idsOf = new Map<EntityName, Set<string>>();
+  for (let i = page.length - 1; i >= 0; i--) {
+    const r = page[i];
+    let ids = idsOf.get(r.entity);
+    if (!ids) idsOf.set(r.entity, (ids = new Set()));
+    if (ids.has(r.record_id)) continue;
+    ids.add(r.record_id);
+    latest.push(r);
   }
-  const byEntity = new Map<EntityName, string[]>();
-  for (const r of last.values()) {
-    const ids = byEntity.get(r.entity);
-    if (ids) ids.push(r.record_id);
-    else byEntity.set(r.entity, [r.record_id]);
-  }
-  const current = new Map<string, WireRecord>();
-  for (const [entity, ids] of byEntity) {
-    for (const rec of await wireRecords(ds, entity, ids)) current.set(`${entity}:${rec.id}`, rec);
+  latest.reverse(); // seq order again
+  const current = new Map<EntityName, Map<string, WireRecord>>();
+  for (const [entity, ids] of idsOf) {
+    const byId = new Map<string, WireRecord>();
+    for (const rec of await wireRecords(ds, entity, [...ids])) byId.set(rec.id, rec);
+    current.set(entity, byId);
   }
   const out: PullChange[] = [];
-  for (const [key, r] of last) {
-    const rec = current.get(key);
+  for (const r of latest) {
+    const rec = current.get(r.entity)?.get(r.record_id);
     if (!rec || rec.rev > r.rev) continue;
     out.push(
       rec.deleted
@@ -96,7 +99,7 @@ async function currentStates(ds: DataSource, page: LogRow[]): Promise<PullChange
         : { seq: r.seq, entity: r.entity, id: r.record_id, rev: rec.rev, deleted: false, record: rec },
     );
   }
-  return out.sort((a, b) => a.seq - b.seq);
+  return out;
 }
 
 /** Every record of sites the user can no longer read, sent as removals so the device drops them. */

@@ -119,6 +119,33 @@ describe('sync push and pull', () => {
     expect(r.record).toBeUndefined();
   });
 
+  it('when a record changed several times within one page, then the page sends it once, at its latest change, in seq order', async () => {
+    const dev = randomUUID();
+    const [{ max }] = await t.ds.query(`SELECT coalesce(max(seq), 0)::int AS max FROM change_log`);
+    const event = (id: string, baseRev: number | null, note: string) => ({
+      opId: randomUUID(),
+      entity: 'collarEvent',
+      id,
+      baseRev,
+      op: 'upsert',
+      fields: { siteId: world.site.id, collarId: world.collar.id, kind: 'clipped', date: '2026-06-01', note },
+    });
+    const [a, b] = [randomUUID(), randomUUID()];
+    // a, then b, then a twice more: a's latest change comes after b's only one.
+    for (const op of [event(a, null, 'a 1'), event(b, null, 'b 1'), event(a, 1, 'a 2'), event(a, 2, 'a 3')])
+      expect((await push(lead, [op])).body.results[0].status).toBe('applied');
+    const page = (await lead.get(`/api/sync/pull?cursor=${max}&limit=50&deviceId=${dev}`)).body;
+    const ours = page.changes.filter((c: { id: string }) => c.id === a || c.id === b);
+    expect(ours.map((c: { id: string; rev: number }) => [c.id, c.rev, c.record.note])).toEqual([
+      [b, 1, 'b 1'],
+      [a, 3, 'a 3'],
+    ]);
+    const seqs = page.changes.map((c: { seq: number }) => c.seq);
+    expect(seqs).toEqual([...seqs].sort((x: number, y: number) => x - y));
+    const [{ last }] = await t.ds.query(`SELECT max(seq)::int AS last FROM change_log WHERE record_id = $1`, [a]);
+    expect(ours[1].seq).toBe(last);
+  });
+
   it('when pulling in pages, then every page is ordered, the cursor advances and the last page says more=false', async () => {
     const dev = randomUUID();
     let cursor = 0,
