@@ -32,6 +32,16 @@ const SHARED = 20;
 const TIME_LIMIT_MS = 20 * 60_000;
 const PROFILE = process.env['BENCH_PROFILE'] ? new FleetProfile(process.env['DATABASE_URL']!) : null;
 
+/** Push latency grouped by how many shared records the batch edits: what waiting for their row locks costs. */
+function bySharedEdits(run: FleetRun, ms: (xs: number[]) => string): string {
+  const groups = new Map<number, number[]>();
+  run.pushShared.forEach((k, i) => groups.set(k, [...(groups.get(k) ?? []), run.pushMs[i]]));
+  return [...groups]
+    .sort((a, b) => a[0] - b[0])
+    .map(([k, xs]) => `  ${k}: ${ms(xs)}`)
+    .join('\n');
+}
+
 async function main() {
   const url = process.env['DATABASE_URL']!;
   await resetDatabase(url);
@@ -78,6 +88,7 @@ async function main() {
       fates: new Map(),
       cursors: new Map(),
       pushMs: [],
+      pushShared: [],
       pullMs: [],
       errors: [],
       phase: [],
@@ -160,6 +171,7 @@ async function main() {
       `requests sent again after a lost connection or 5xx: ${addr.retries} ${JSON.stringify(Object.fromEntries(addr.reasons))}; errors: ${run.errors.length}`,
     );
     for (const e of run.errors.slice(0, 10)) console.log(`  ${e}`);
+    if (PROFILE) console.log(`profile: push latency by edits of shared records in the batch:\n${bySharedEdits(run, ms)}`);
     await PROFILE?.report(wallMs);
     const failed = await prove(db, run, states, siteIds);
     const p95 = percentile(run.pushMs, 95);

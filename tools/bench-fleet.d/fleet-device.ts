@@ -18,6 +18,8 @@ export interface FleetRun {
   batch: number;
   fates: Map<string, OpFate>;
   pushMs: number[];
+  /** For each push in pushMs: how many of its ops edit a shared record (the rows devices queue for). */
+  pushShared: number[];
   pullMs: number[];
   errors: string[];
   /** Called after every push; the bench kills a process halfway. */
@@ -151,6 +153,7 @@ async function pushWithRetry(call: Call, run: FleetRun, deviceId: string, outbox
     const t = performance.now();
     const res = await call('POST', '/api/sync/push', { deviceId, outboxSize: outbox, ops: pending.map((p) => p.op) });
     run.pushMs.push(performance.now() - t);
+    run.pushShared.push(pending.filter((p) => p.op.baseRev !== null && run.shared.includes(p.op.id)).length);
     if (res.status !== 200) throw new Error(`push failed: ${res.status} ${JSON.stringify(res.json).slice(0, 200)}`);
     const again: typeof pending = [];
     (res.json.results as Result[]).forEach((r, k) => {
