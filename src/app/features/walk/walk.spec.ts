@@ -75,6 +75,12 @@ describe('Walk route list', () => {
     expect(second.getAttribute('data-state')).toBe('skipped');
     expect(second.querySelector('.due')?.textContent?.trim()).toBe('Standing water');
     expect(rows().map((r) => r.getAttribute('aria-posinset'))).toEqual(rows().map((_, i) => String(i + 1)));
+    // The walk's other screens (map, import, install) sit above the list: below 5 000 rows they would be a long scroll away.
+    const actions = el.querySelector('nav[aria-label="More for this walk"]')!;
+    expect(Array.from(actions.querySelectorAll('a')).map((a) => a.textContent?.trim())).toContain('Map');
+    expect(
+      actions.compareDocumentPosition(el.querySelector('[data-testid="route-list"]')!) & Node.DOCUMENT_POSITION_FOLLOWING,
+    ).toBeTruthy();
     fixture.destroy();
   });
 });
