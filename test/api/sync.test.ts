@@ -136,7 +136,7 @@ describe('sync push and pull', () => {
       expect((await push(lead, [op])).body.results[0].status).toBe('applied');
     const page = (await lead.get(`/api/sync/pull?cursor=${max}&limit=50&deviceId=${dev}`)).body;
     const ours = page.changes.filter((c: { id: string }) => c.id === a || c.id === b);
-    expect(ours.map((c: { id: string; rev: number }) => [c.id, c.rev, c.record.note])).toEqual([
+    expect(ours.map((c: { id: string; rev: number; record: { note: string } }) => [c.id, c.rev, c.record.note])).toEqual([
       [b, 1, 'b 1'],
       [a, 3, 'a 3'],
     ]);
