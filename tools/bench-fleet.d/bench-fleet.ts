@@ -35,7 +35,11 @@ const PROFILE = process.env['BENCH_PROFILE'] ? new FleetProfile(process.env['DAT
 /** Push latency grouped by how many shared records the batch edits: what waiting for their row locks costs. */
 function bySharedEdits(run: FleetRun, ms: (xs: number[]) => string): string {
   const groups = new Map<number, number[]>();
-  run.pushShared.forEach((k, i) => groups.set(k, [...(groups.get(k) ?? []), run.pushMs[i]]));
+  run.pushShared.forEach((k, i) => {
+    const xs = groups.get(k);
+    if (xs) xs.push(run.pushMs[i]);
+    else groups.set(k, [run.pushMs[i]]);
+  });
   return [...groups]
     .sort((a, b) => a[0] - b[0])
     .map(([k, xs]) => `  ${k}: ${ms(xs)}`)
