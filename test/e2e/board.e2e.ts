@@ -369,26 +369,36 @@ describe('Board in Chromium', () => {
       expect(draw!.ms).toBeLessThanOrEqual(1000);
       // Drawn as one canvas: find a point well inside a "due" shape (#8a4b00 all around it, not an edge another
       // marker may overlap) and click it; the popup names the collar and its state.
-      const spot = await page.locator('canvas.fw-collar-canvas').evaluate((c: HTMLCanvasElement) => {
-        const ctx = c.getContext('2d')!;
-        const img = ctx.getImageData(0, 0, c.width, c.height).data;
-        const box = c.getBoundingClientRect();
-        const ratio = c.width / box.width;
-        const due = (x: number, y: number) => {
-          if (x < 0 || y < 0 || x >= c.width || y >= c.height) return false;
-          const i = (y * c.width + x) * 4;
-          return img[i] === 0x8a && img[i + 1] === 0x4b && img[i + 2] === 0x00 && img[i + 3] === 255;
-        };
-        const r = Math.max(2, Math.round(2 * ratio));
-        for (let y = 0; y < c.height; y++) {
-          for (let x = 0; x < c.width; x++) {
-            if (due(x, y) && due(x - r, y) && due(x + r, y) && due(x, y - r) && due(x, y + r)) {
-              return { x: box.left + x / ratio, y: box.top + y / ratio };
+      const dueSpot = () =>
+        page.locator('canvas.fw-collar-canvas').evaluate((c: HTMLCanvasElement) => {
+          const ctx = c.getContext('2d')!;
+          const img = ctx.getImageData(0, 0, c.width, c.height).data;
+          const box = c.getBoundingClientRect();
+          const ratio = c.width / box.width;
+          const due = (x: number, y: number) => {
+            if (x < 0 || y < 0 || x >= c.width || y >= c.height) return false;
+            const i = (y * c.width + x) * 4;
+            return img[i] === 0x8a && img[i + 1] === 0x4b && img[i + 2] === 0x00 && img[i + 3] === 255;
+          };
+          const r = Math.max(2, Math.round(2 * ratio));
+          for (let y = 0; y < c.height; y++) {
+            for (let x = 0; x < c.width; x++) {
+              if (due(x, y) && due(x - r, y) && due(x + r, y) && due(x, y - r) && due(x, y + r)) {
+                return { x: box.left + x / ratio, y: box.top + y / ratio };
+              }
             }
           }
-        }
-        return null;
-      });
+          return null;
+        });
+      // The map may still move after the first full draw (the plots arriving refit it): click only once
+      // the same spot is found twice in a row, so the click lands where the shape still is.
+      let spot = await dueSpot();
+      for (let tries = 0; tries < 20; tries++) {
+        await page.waitForTimeout(300);
+        const again = await dueSpot();
+        if (spot && again && spot.x === again.x && spot.y === again.y) break;
+        spot = again;
+      }
       expect(spot).not.toBeNull();
       await page.mouse.click(spot!.x, spot!.y);
       await page
