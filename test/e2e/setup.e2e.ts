@@ -41,6 +41,9 @@ describe('Setup in Chromium', () => {
 
       // Site, with the pressure its elevation implies.
       await page.getByRole('button', { name: 'New site' }).click();
+      // Until the next render the shown site's form is still there under the same labels: typing now would
+      // go into the form that is about to be replaced.
+      await page.getByRole('heading', { name: 'New site', level: 2 }).waitFor();
       const siteName = `Birch Terrace <script>alert(1)</script> ${Date.now()}`;
       await page.getByLabel('Site name').fill(siteName);
       await page.getByLabel('Time zone (IANA)').fill('Europe/Berlin');
