@@ -111,6 +111,8 @@ export class BoardMap {
   }
 
   private tiles: L.TileLayer | null = null;
+  /** The extent the view was last fitted to. */
+  private fitted: L.LatLngBounds | null = null;
 
   private draw(
     rows: ReturnType<BoardStore['rows']>,
@@ -148,7 +150,11 @@ export class BoardMap {
     // One canvas for all collars: a DOM element per marker took 1.8 s to draw 5 000 of them.
     this.collarLayer?.setPoints(points);
     const drawn = points.length;
-    if (bounds.isValid()) map.fitBounds(bounds, { padding: [20, 20] });
+    // Fitted again only when what is shown reaches elsewhere: a refresh of the states keeps the person's view.
+    if (bounds.isValid() && !this.fitted?.equals(bounds)) {
+      map.fitBounds(bounds, { padding: [20, 20] });
+      this.fitted = bounds;
+    }
     markDrawn(t0, drawn);
   }
 }
