@@ -1,4 +1,5 @@
 import type { EntityManager, QueryRunner } from 'typeorm';
+import { dollarQuoted } from '../core/sql-literal';
 
 export interface ChangeEntry {
   entity: string;
@@ -48,7 +49,8 @@ export class ChangeBuffer {
 
   /**
    * Writes the entries and commits the query runner's open transaction in one message: the lock, the
-   * INSERT and the COMMIT as one multi-statement text (values in one escaped JSON literal), so
+   * INSERT and the COMMIT as one multi-statement text (values in one dollar-quoted JSON constant, which
+   * needs no escaping pass over it), so
    * PostgreSQL runs them back to back and the lock that orders every writer is held for PostgreSQL's
    * own work only, never while this process's event loop serves other requests (flush() then the
    * COMMIT held it across three round trips through it). The transaction has ended when this returns
@@ -74,7 +76,7 @@ export class ChangeBuffer {
         `SELECT pg_advisory_xact_lock(${CHANGE_SEQ_LOCK});
          INSERT INTO change_log (seq, entity, record_id, rev, site_id, fields, deleted, user_id, device_id)
          SELECT nextval('change_seq'), e, r, v, s, f, d, u, dv
-           FROM json_to_recordset(${client.escapeLiteral(JSON.stringify(rows))}::json)
+           FROM json_to_recordset(${dollarQuoted(JSON.stringify(rows))}::json)
              AS t(e text, r uuid, v bigint, s uuid, f text[], d boolean, u uuid, dv uuid, i int)
           ORDER BY i;
          COMMIT`,
@@ -107,7 +109,6 @@ export class ChangeBuffer {
 /** The node-postgres connection TypeORM's PostgreSQL query runner holds. */
 interface PgClient {
   query(sql: string): Promise<unknown>;
-  escapeLiteral(text: string): string;
 }
 
 const INSERT_SQL = `INSERT INTO change_log (seq, entity, record_id, rev, site_id, fields, deleted, user_id, device_id)
