@@ -36,22 +36,17 @@ export async function saveAnswers(
   results: PushResult[],
 ): Promise<void> {
   if (!results.length) return;
-  const stored = results.map(({ record: _r, conflict, ...rest }) =>
-    JSON.stringify(conflict ? { ...rest, conflict: { fields: conflict.fields, serverRev: conflict.serverRev } } : rest),
-  );
+  // One JSON parameter for all rows: arrays of JSON texts would each be escaped element by element.
+  const stored = results.map(({ record: _r, conflict, ...rest }) => {
+    const op = ops.get(rest.opId)!;
+    const answer = conflict ? { ...rest, conflict: { fields: conflict.fields, serverRev: conflict.serverRev } } : rest;
+    return { o: rest.opId, e: op.entity, r: op.id, s: rest.status, a: answer };
+  });
   const rows: { op_id: string }[] = await em.query(
     `INSERT INTO sync_op (op_id, device_id, user_id, entity, record_id, status, response)
-     SELECT o, $1, $2, e, r, s, a::jsonb FROM unnest($3::uuid[], $4::text[], $5::uuid[], $6::text[], $7::text[]) AS t(o, e, r, s, a)
+     SELECT o, $1, $2, e, r, s, a FROM json_to_recordset($3::json) AS t(o uuid, e text, r uuid, s text, a jsonb)
      ON CONFLICT (user_id, op_id) DO NOTHING RETURNING op_id`,
-    [
-      deviceId,
-      userId,
-      results.map((r) => r.opId),
-      results.map((r) => ops.get(r.opId)!.entity),
-      results.map((r) => ops.get(r.opId)!.id),
-      results.map((r) => r.status),
-      stored,
-    ],
+    [deviceId, userId, JSON.stringify(stored)],
   );
   if (rows.length < results.length) {
     const written = new Set(rows.map((r) => r.op_id));
