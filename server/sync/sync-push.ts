@@ -225,9 +225,25 @@ function lastMentions(parsed: readonly Parsed[]): Map<string, number> {
   parsed.forEach((p, at) => {
     if (!p.ok) return;
     last.set(p.op.id.toLowerCase(), at);
-    for (const id of JSON.stringify(p.op.fields).match(UUID) ?? []) last.set(id.toLowerCase(), at);
+    idsIn(p.op.fields, (id) => last.set(id.toLowerCase(), at));
   });
   return last;
+}
+
+const UUID_LENGTH = 36;
+
+/** Every id-shaped text in a value, in its keys and values at any depth (walked, not serialised and scanned). */
+function idsIn(value: unknown, found: (id: string) => void): void {
+  if (typeof value === 'string') {
+    if (value.length >= UUID_LENGTH) for (const id of value.match(UUID) ?? []) found(id);
+  } else if (Array.isArray(value)) {
+    for (const v of value) idsIn(v, found);
+  } else if (value !== null && typeof value === 'object') {
+    for (const key in value) {
+      idsIn(key, found);
+      idsIn((value as Record<string, unknown>)[key], found);
+    }
+  }
 }
 
 interface Pending {

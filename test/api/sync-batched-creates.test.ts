@@ -244,6 +244,18 @@ describe('sync push: batched creates answer as single creates', () => {
     expect(logOrder(deferred.log)).toEqual([home.collarEvent.id, made.id, home.collarEvent.id]);
   });
 
+  it('when a later create names the edited record inside its fields, then the edit keeps its place', async () => {
+    const visitEdit = editOf(home.visit as { id: string; rev: number }, 'visit', {
+      conditions: { other: 'edited before a reading under it' },
+    });
+    const made = event(24);
+    const reading = probe(); // under the same visit: its checks read the visit
+    expect(JSON.stringify(reading)).toContain(home.visit.id);
+    const { deferred } = await deferredAndInOrder([visitEdit, made, reading]);
+    expect(deferred.results.map((r) => r.status)).toEqual(['applied', 'applied', 'applied']);
+    expect(logOrder(deferred.log)).toEqual([home.visit.id, made.id, reading.id]);
+  });
+
   it("when an edit of another kind of record follows, then the earlier edit keeps its place (the collar's checks may read other records)", async () => {
     const shared = editOf(home.collarEvent, 'collarEvent', { note: 'before a collar edit' });
     const made = event(23);
