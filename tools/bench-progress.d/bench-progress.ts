@@ -11,6 +11,7 @@ import type { SessionUser } from '../../shared/auth/roles';
 import { campaignProgress } from '../../server/campaigns/campaign-progress';
 import { createDataSource, runMigrations } from '../../server/core/data-source';
 import { benchCounts, DEFAULT_SIZE, expectedTotals, generateBenchData, type BenchState } from './bench-data';
+import { median } from '../lib/bench-stats';
 
 const COUNT_SQL = `
   SELECT (SELECT count(*) FROM visit WHERE campaign_id = $1 AND NOT deleted)
@@ -18,10 +19,6 @@ const COUNT_SQL = `
        + (SELECT count(*) FROM probe_reading WHERE campaign_id = $1 AND NOT deleted)
        + (SELECT count(*) FROM closure WHERE campaign_id = $1 AND NOT deleted) AS n`;
 
-const median = (xs: number[]) => {
-  const s = [...xs].sort((a, b) => a - b);
-  return s.length % 2 ? s[(s.length - 1) / 2] : (s[s.length / 2 - 1] + s[s.length / 2]) / 2;
-};
 const ms = (t0: bigint) => Number(process.hrtime.bigint() - t0) / 1e6;
 
 async function timeIt(reps: number, fn: () => Promise<unknown>): Promise<number[]> {

@@ -8,6 +8,7 @@ import { createDataSource } from '../../server/core/data-source';
 import { DEMO_SITE_ID } from '../../server/seed/demo-accounts';
 import { httpSession } from '../../test/support/http-session';
 import { resetDatabase } from '../../test/support/reset-database';
+import { median } from '../lib/bench-stats';
 
 /**
  * Sync push throughput against plain PostgreSQL in the same run: 10 000 collar events pushed in
@@ -95,7 +96,6 @@ async function main() {
         `${(r.pushMs / r.singleMs).toFixed(2)}x / ${(r.pushMs / r.multiMs).toFixed(1)}x`,
     ),
   );
-  const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)]!;
   const pushMs = median(rounds.map((r) => r.pushMs));
   const singleRatio = median(rounds.map((r) => r.pushMs / r.singleMs));
   const insertRatio = median(rounds.map((r) => r.pushMs / r.multiMs));
